@@ -1,0 +1,160 @@
+// Package biaxial reads planar biaxial test files of thin soft tissue and turns
+// them into clean, weighted protocol data for a constitutive fit.
+//
+// It knows the weft input layout (CSV and xlsx), units, stress kinds, loading
+// cycles, the reference state and how each protocol and axis is weighted. It
+// knows nothing about strain-energy functions or fitting: those live in
+// packages terms and aniso, which consume a Specimen.
+//
+// Conventions (shared by every weft package): axes 1 and 2 are the loading
+// axes of the tester; the in-plane deformation gradient is F11, F12, F21, F22;
+// nominal stress is first Piola–Kirchhoff, P = σ F⁻ᵀ; stresses are kept in the
+// specimen's stress unit (kPa unless the file says otherwise).
+package biaxial
+
+// StressKind says which stress measure a file gave.
+type StressKind int
+
+const (
+	// Cauchy is true stress, force per current area.
+	Cauchy StressKind = iota
+	// Nominal is first Piola–Kirchhoff stress, force per reference area. Loads
+	// with specimen geometry are converted to nominal stress.
+	Nominal
+)
+
+// String returns "cauchy" or "nominal".
+func (k StressKind) String() string {
+	if k == Nominal {
+		return "nominal"
+	}
+	return "cauchy"
+}
+
+// Component indexes a stress component in Point.Stress and Protocol.Weight.
+type Component int
+
+const (
+	// C11 is the normal stress along axis 1.
+	C11 Component = iota
+	// C22 is the normal stress along axis 2.
+	C22
+	// C12 is the in-plane shear component 12 (Cauchy σ12, or nominal P12).
+	C12
+	// C21 is the nominal component P21. Cauchy stress is symmetric, so for
+	// Cauchy data this slot is never measured.
+	C21
+	// NumComponents is the number of component slots.
+	NumComponents
+)
+
+// String returns "11", "22", "12" or "21".
+func (c Component) String() string {
+	switch c {
+	case C11:
+		return "11"
+	case C22:
+		return "22"
+	case C12:
+		return "12"
+	case C21:
+		return "21"
+	}
+	return "?"
+}
+
+// Point is one measured state of a specimen.
+type Point struct {
+	// F is the in-plane deformation gradient (F11, F12, F21, F22),
+	// dimensionless. A pure biaxial stretch has F = (λ1, 0, 0, λ2).
+	F [4]float64
+	// Stress holds the measured stress components indexed by Component, in
+	// the specimen's StressUnit and of the specimen's Kind. Slots that the
+	// file did not measure are zero; Specimen.Measured says which are real.
+	Stress [NumComponents]float64
+	// Line is the 1-based line of the source file (row for xlsx) this point
+	// came from, so that any later message can point back at the data.
+	Line int
+	// Cycle is the loading cycle (1-based) the point belongs to.
+	Cycle int
+	// Time is the time stamp in seconds, or NaN when the file has none.
+	Time float64
+}
+
+// Protocol is one stretch-ratio protocol of a specimen, after cycle and
+// branch selection, re-referencing and optional resampling.
+type Protocol struct {
+	// Label names the protocol as in the file, e.g. "1:0.5".
+	Label string
+	// Points are the kept points in test order.
+	Points []Point
+	// Weight is the residual weight of each component in this protocol
+	// (1/stress unit): a fitter minimises Σ (Weight[c]·(model − measured))².
+	// By default each protocol and measured axis counts equally: the weight is
+	// UserWeight / (stress range · √points). Unmeasured slots are zero.
+	Weight [NumComponents]float64
+	// UserWeight is the user's relative weight of this protocol (default 1).
+	UserWeight float64
+	// Kept describes which part of the raw record was kept, e.g.
+	// "cycle 3 of 3, loading branch, 97 of 412 rows".
+	Kept string
+	// Cycles is the number of cycles found in the raw record of this protocol.
+	Cycles int
+}
+
+// Warning is a finding in a file that does not stop its use.
+type Warning struct {
+	// File, Line and Column locate the finding (Line and Column 1-based, 0
+	// when not tied to one); Sheet and Cell are set for xlsx workbooks.
+	File   string
+	Line   int
+	Column int
+	Sheet  string
+	Cell   string
+	// Protocol is the protocol label the finding is about, if any.
+	Protocol string
+	// Message says what was found and what to check.
+	Message string
+}
+
+// Specimen is everything weft uses from one test file.
+type Specimen struct {
+	// Name is the specimen's name (metadata `specimen`, else the file stem).
+	Name string
+	// Source is the path of the file read; Sheet the xlsx sheet, if any.
+	Source string
+	Sheet  string
+	// Meta holds the metadata lines of the file (`# key = value`), keys lower
+	// case, values as written.
+	Meta map[string]string
+	// StressUnit is the unit of every stress value: "Pa", "kPa" or "MPa".
+	StressUnit string
+	// Kind is the stress measure of the data.
+	Kind StressKind
+	// Measured says which Components the file measured (for loads and
+	// nominal stress: 11 and 22, plus 12 and 21 when given; for Cauchy
+	// stress: 11 and 22, plus 12 when given).
+	Measured [NumComponents]bool
+	// HasShear is true when the data carry shear information: a measured
+	// shear stress component, or F12/F21 not identically zero. Only then can a
+	// fibre angle's sign be told (mirror symmetry of pure biaxial stretch).
+	HasShear bool
+	// Reference records the reference state used, e.g. "as measured" or
+	// "re-referenced to the first kept point of each protocol (tare removed)".
+	Reference string
+	// Protocols in file order.
+	Protocols []Protocol
+	// Warnings found while reading; Notices are informational (e.g. a
+	// semicolon-separated file was detected).
+	Warnings []Warning
+	Notices  []string
+}
+
+// NumPoints returns the total number of kept points over all protocols.
+func (s *Specimen) NumPoints() int {
+	n := 0
+	for i := range s.Protocols {
+		n += len(s.Protocols[i].Points)
+	}
+	return n
+}

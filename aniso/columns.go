@@ -1,0 +1,273 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+// Component indexes a stress component: 0 = 11, 1 = 22, 2 = 12, 3 = 21.
+// For Cauchy output 21 equals 12 and is not offered.
+type Component int
+
+// Output chooses the stress measure and the components a Dataset's rows hold.
+type Output struct {
+	// Nominal selects nominal stress P = σ F⁻ᵀ; otherwise Cauchy stress.
+	Nominal bool
+	// Components lists the components per point, in row order.
+	Components []Component
+}
+
+// Dataset is a fixed set of deformations with precomputed kinematics, the
+// rows of a least-squares problem. Row r = i·len(Components) + j holds
+// component Components[j] of point i, multiplied by RowWeight[r].
+type Dataset struct {
+	kin       []Kinematics
+	out       Output
+	rowWeight []float64
+	// b1, b2 are the isotropic stress bases G1, G2 of every row, already in
+	// the output measure and weighted: they do not depend on the model.
+	b1, b2 []float64
+	fb     []famBases        // scratch: one per family
+	fk     []FibreKinematics // scratch: one per family
+}
+
+// famBases are one family's stress bases G4, G5 and their angle
+// derivatives at one point, in the output measure and weighted.
+type famBases struct {
+	g4, g5, dg4, dg5 [4]float64
+}
+
+// NewDataset precomputes the kinematics of every deformation. rowWeight, if
+// non-nil, must have one entry per row and scales that row of every column
+// (a fitter's residual weights); nil means 1.
+func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, error) {
+	d := &Dataset{kin: make([]Kinematics, len(F)), out: out}
+	if len(out.Components) == 0 || len(out.Components) > 4 {
+		return nil, fmt.Errorf("%d output components; give 1 to 4", len(out.Components))
+	}
+	for _, c := range out.Components {
+		if c < 0 || c > 3 || (c == 3 && !out.Nominal) {
+			return nil, fmt.Errorf("component %d is not available for this stress measure", c)
+		}
+	}
+	for i, f := range F {
+		k, err := NewKinematics(f)
+		if err != nil {
+			return nil, fmt.Errorf("point %d: %w", i, err)
+		}
+		d.kin[i] = k
+	}
+	if rowWeight != nil && len(rowWeight) != d.Rows() {
+		return nil, fmt.Errorf("%d row weights for %d rows", len(rowWeight), d.Rows())
+	}
+	d.rowWeight = rowWeight
+	nc := len(out.Components)
+	d.b1 = make([]float64, d.Rows())
+	d.b2 = make([]float64, d.Rows())
+	for i := range d.kin {
+		k := &d.kin[i]
+		v1, v2 := d.convert(k, k.G1, i*nc), d.convert(k, k.G2, i*nc)
+		copy(d.b1[i*nc:], v1[:nc])
+		copy(d.b2[i*nc:], v2[:nc])
+	}
+	return d, nil
+}
+
+// Rows returns the number of rows: points × components.
+func (d *Dataset) Rows() int { return len(d.kin) * len(d.out.Components) }
+
+// Points returns the number of deformations.
+func (d *Dataset) Points() int { return len(d.kin) }
+
+// Kinematics returns the kinematics of point i.
+func (d *Dataset) Kinematics(i int) *Kinematics { return &d.kin[i] }
+
+// Columns holds the stress columns of a model over a Dataset. Column k is
+// term k's stress per unit weight (times the row weights), so that the
+// model's stress is Σ_k w_k · column_k. Storage is column-major: entry (r, k)
+// is at k·Rows + r.
+type Columns struct {
+	Rows, Cols int
+	// A holds the columns.
+	A []float64
+	// DAngle holds ∂column_k/∂α of term k's family angle (per radian; zero
+	// for isotropic terms); DKappa ∂column_k/∂κ of its family's dispersion;
+	// DParam[j] ∂column_k/∂θ_j of the term's j-th shape parameter. They are
+	// filled only when derivatives are asked for.
+	DAngle, DKappa []float64
+	DParam         [terms.MaxParams][]float64
+}
+
+// resize makes c hold rows×cols entries, reusing its buffers.
+func (c *Columns) resize(rows, cols int, derivs bool) {
+	n := rows * cols
+	c.Rows, c.Cols = rows, cols
+	grow := func(b []float64) []float64 {
+		if cap(b) < n {
+			return make([]float64, n)
+		}
+		return b[:n]
+	}
+	c.A = grow(c.A)
+	if derivs {
+		c.DAngle = grow(c.DAngle)
+		c.DKappa = grow(c.DKappa)
+		for j := range c.DParam {
+			c.DParam[j] = grow(c.DParam[j])
+		}
+	}
+}
+
+// Fill computes the columns of every term of m (weights are ignored) over the
+// dataset, and their derivatives when derivs is true. It reuses c's buffers
+// and does not allocate once they are large enough. Columns of terms whose
+// shape overflows hold ±Inf in the components they drive, never NaN, and
+// their derivative columns are zero.
+func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
+	rows, nc, np, nf := d.Rows(), len(d.out.Components), len(d.kin), len(m.Families)
+	c.resize(rows, len(m.Terms), derivs)
+	if cap(d.fk) < np*nf {
+		d.fk = make([]FibreKinematics, np*nf)
+		d.fb = make([]famBases, np*nf)
+	}
+	fk, fb := d.fk[:np*nf], d.fb[:np*nf]
+	for i := range d.kin {
+		k := &d.kin[i]
+		for f := 0; f < nf; f++ {
+			q := i*nf + f
+			fk[q] = k.Fibre(m.Families[f].Angle)
+			fb[q].g4 = d.convert(k, fk[q].G4, i*nc)
+			fb[q].g5 = d.convert(k, fk[q].G5, i*nc)
+			if derivs {
+				fb[q].dg4 = d.convert(k, fk[q].DG4, i*nc)
+				fb[q].dg5 = d.convert(k, fk[q].DG5, i*nc)
+			}
+		}
+	}
+	for t := range m.Terms {
+		term := &m.Terms[t]
+		col := c.A[t*rows : (t+1)*rows]
+		if !term.Shape.Arg.NeedsFamily() {
+			d.fillIsotropic(term, col, c, t*rows, derivs)
+			continue
+		}
+		kappa := m.Families[term.Family].Dispersion
+		for i := range d.kin {
+			k := &d.kin[i]
+			q := i*nf + term.Family
+			r0 := i * nc
+			a := col[r0 : r0+nc]
+			s := argument(term.Shape.Arg, kappa, k, &fk[q])
+			if !s.Active {
+				clear(a)
+				if derivs {
+					c.clearDerivs(t*rows+r0, nc)
+				}
+				continue
+			}
+			b1, b2, bases := d.b1[r0:r0+nc], d.b2[r0:r0+nc], &fb[q]
+			var h [4]float64
+			for j := range a {
+				h[j] = s.C[0]*b1[j] + s.C[1]*b2[j] + s.C[2]*bases.g4[j] + s.C[3]*bases.g5[j]
+			}
+			if !derivs {
+				d1 := term.Shape.Slope(s.X, term.Params)
+				for j := range a {
+					a[j] = mul0(d1, h[j])
+				}
+				continue
+			}
+			v := term.Shape.Eval(s.X, term.Params)
+			for j := range a {
+				a[j] = mul0(v.D1, h[j])
+			}
+			base := t*rows + r0
+			if math.IsInf(v.D1, 0) || math.IsInf(v.D2, 0) {
+				// The column overflows; a fitter treats it as infeasible.
+				c.clearDerivs(base, nc)
+				continue
+			}
+			g := term.Shape.D1ParamGrad(s.X, term.Params)
+			sl := slopes(term.Shape.Arg, kappa, k, &fk[q])
+			da, dk := v.D2*sl.DxA, v.D2*sl.DxK
+			for j := range a {
+				for p := range c.DParam {
+					c.DParam[p][base+j] = mul0(g[p], h[j])
+				}
+				c.DAngle[base+j] = da*h[j] + v.D1*(sl.DCA[0]*b1[j]+s.C[2]*bases.dg4[j]+s.C[3]*bases.dg5[j])
+				c.DKappa[base+j] = dk*h[j] + v.D1*(sl.DCK[0]*b1[j]+sl.DCK[2]*bases.g4[j])
+			}
+		}
+	}
+}
+
+// fillIsotropic fills the column of a term in I1 or I2, whose stress basis is
+// precomputed (argument's C is a unit vector on G1 or G2) and which has no
+// angle or dispersion derivatives.
+func (d *Dataset) fillIsotropic(term *Term, col []float64, c *Columns, off int, derivs bool) {
+	nc := len(d.out.Components)
+	b := d.b1
+	if term.Shape.Arg == terms.I2 {
+		b = d.b2
+	}
+	if derivs {
+		clear(c.DAngle[off : off+len(col)])
+		clear(c.DKappa[off : off+len(col)])
+	}
+	for i := range d.kin {
+		x := d.kin[i].I1 - 3
+		if term.Shape.Arg == terms.I2 {
+			x = d.kin[i].I2 - 3
+		}
+		r0 := i * nc
+		h := b[r0 : r0+nc]
+		a := col[r0 : r0+nc]
+		if !derivs {
+			d1 := term.Shape.Slope(x, term.Params)
+			for j := range a {
+				a[j] = mul0(d1, h[j])
+			}
+			continue
+		}
+		v := term.Shape.Eval(x, term.Params)
+		g := term.Shape.D1ParamGrad(x, term.Params)
+		if math.IsInf(v.D1, 0) {
+			g = [terms.MaxParams]float64{}
+		}
+		for j := range a {
+			a[j] = mul0(v.D1, h[j])
+			for p := range c.DParam {
+				c.DParam[p][off+r0+j] = mul0(g[p], h[j])
+			}
+		}
+	}
+}
+
+func (c *Columns) clearDerivs(base, n int) {
+	clear(c.DAngle[base : base+n])
+	clear(c.DKappa[base : base+n])
+	for p := range c.DParam {
+		clear(c.DParam[p][base : base+n])
+	}
+}
+
+// convert returns the requested components of a Cauchy tensor s (as
+// nominal stress if asked), scaled by the row weights from row r0.
+func (d *Dataset) convert(k *Kinematics, s Sym, r0 int) [4]float64 {
+	var v, out [4]float64
+	if d.out.Nominal {
+		v = k.Nominal(s)
+	} else {
+		v = [4]float64{s[0], s[1], s[2], s[2]}
+	}
+	for j, comp := range d.out.Components {
+		x := v[comp]
+		if d.rowWeight != nil {
+			x *= d.rowWeight[r0+j]
+		}
+		out[j] = x
+	}
+	return out
+}

@@ -1,0 +1,191 @@
+package aniso
+
+import (
+	"math"
+	"testing"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+func testDataset(t testing.TB, nominal bool) *Dataset {
+	F := [][4]float64{
+		{1.15, 0, 0, 1.08}, {1.25, 0.06, -0.03, 1.12}, {1.05, -0.08, 0.05, 1.22},
+		{1.3, 0.02, 0.1, 0.97}, {0.98, 0, 0, 1.18},
+	}
+	out := Output{Nominal: nominal, Components: []Component{0, 1, 2}}
+	if nominal {
+		out.Components = append(out.Components, 3)
+	}
+	w := make([]float64, len(F)*len(out.Components))
+	for i := range w {
+		w[i] = 0.5 + 0.1*float64(i%5)
+	}
+	d, err := NewDataset(F, out, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return d
+}
+
+// Every analytic column derivative (fibre angle, dispersion, shape
+// parameters) against central finite differences of the columns.
+func TestColumnDerivativesFiniteDifference(t *testing.T) {
+	for _, nominal := range []bool{false, true} {
+		d := testDataset(t, nominal)
+		m := allTermsModel()
+		for i := range m.Terms {
+			for j, p := range m.Terms[i].Shape.Params {
+				if p.Name == "rate" {
+					m.Terms[i].Params[j] = 1.7
+				}
+			}
+		}
+		var c Columns
+		d.Fill(m, &c, true)
+		check := func(name string, analytic []float64, perturb func(m *Model, h float64), h float64) {
+			var cp, cm Columns
+			mp, mm := cloneModel(m), cloneModel(m)
+			perturb(mp, h)
+			perturb(mm, -h)
+			d.Fill(mp, &cp, false)
+			d.Fill(mm, &cm, false)
+			for k := 0; k < c.Cols; k++ {
+				for r := 0; r < c.Rows; r++ {
+					fd := (cp.A[k*c.Rows+r] - cm.A[k*c.Rows+r]) / (2 * h)
+					an := analytic[k*c.Rows+r]
+					if math.Abs(fd-an) > 1e-6*math.Max(1, math.Abs(an)) {
+						t.Errorf("nominal=%v %s, term %s row %d: analytic %.10g, finite difference %.10g", nominal, name, m.Terms[k].Shape.ID, r, an, fd)
+						return
+					}
+				}
+			}
+		}
+		for f := range m.Families {
+			f := f
+			check("angle", maskFamily(m, &c, c.DAngle, f), func(m *Model, h float64) { m.Families[f].Angle += h }, 1e-6)
+			check("kappa", maskFamily(m, &c, c.DKappa, f), func(m *Model, h float64) { m.Families[f].Dispersion += h }, 1e-6)
+		}
+		for k := range m.Terms {
+			if len(m.Terms[k].Params) == 0 {
+				continue
+			}
+			k := k
+			only := make([]float64, len(c.A))
+			copy(only[k*c.Rows:(k+1)*c.Rows], c.DParam[0][k*c.Rows:(k+1)*c.Rows])
+			check("param", only, func(m *Model, h float64) { m.Terms[k].Params[0] += h }, 1e-6)
+		}
+	}
+}
+
+// maskFamily keeps the derivative columns of family f's terms only, since a
+// perturbation of one family's angle moves only those columns.
+func maskFamily(m *Model, c *Columns, d []float64, f int) []float64 {
+	out := make([]float64, len(d))
+	for k, t := range m.Terms {
+		if t.Family == f {
+			copy(out[k*c.Rows:(k+1)*c.Rows], d[k*c.Rows:(k+1)*c.Rows])
+		}
+	}
+	return out
+}
+
+func cloneModel(m *Model) *Model {
+	c := &Model{Families: append([]Family(nil), m.Families...)}
+	for _, t := range m.Terms {
+		t.Params = append([]float64(nil), t.Params...)
+		c.Terms = append(c.Terms, t)
+	}
+	return c
+}
+
+// Columns times weights reproduce Evaluate (stress is linear in the weights,
+// physics.md §2).
+func TestColumnsLinearInWeights(t *testing.T) {
+	w := testDataset(t, true)
+	F := make([][4]float64, w.Points())
+	for i := range F {
+		F[i] = w.kin[i].F
+	}
+	d, err := NewDataset(F, w.out, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := allTermsModel()
+	var c Columns
+	d.Fill(m, &c, false)
+	for i := 0; i < d.Points(); i++ {
+		r, err := m.Evaluate(d.kin[i].F)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j := 0; j < 4; j++ {
+			s := 0.0
+			for k, term := range m.Terms {
+				s += term.Weight * c.A[k*c.Rows+i*4+j]
+			}
+			if !near(s, r.Nominal[j], 1e-12) {
+				t.Errorf("point %d component %d: Σ w·column = %g, Evaluate %g", i, j, s, r.Nominal[j])
+			}
+		}
+	}
+}
+
+// benchSpecimen is 5 protocols × 100 points of pure biaxial stretch.
+func benchSpecimen(b testing.TB) *Dataset {
+	ratios := [][2]float64{{1, 1}, {1, 0.75}, {0.75, 1}, {1, 0.5}, {0.5, 1}}
+	var F [][4]float64
+	for _, r := range ratios {
+		for i := 0; i < 100; i++ {
+			e := 0.25 * float64(i+1) / 100
+			F = append(F, [4]float64{1 + r[0]*e, 0, 0, 1 + r[1]*e})
+		}
+	}
+	d, err := NewDataset(F, Output{Nominal: true, Components: []Component{0, 1}}, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return d
+}
+
+// catalogueModel16 is the whole 16-shape catalogue with one fibre family.
+func catalogueModel16() *Model {
+	m := &Model{Families: []Family{{Name: "f1", Angle: 40 * deg}}}
+	for _, sh := range terms.Catalogue() {
+		t := Term{Shape: sh, Family: -1, Weight: 1, Params: sh.DefaultParams()}
+		if sh.Arg.NeedsFamily() {
+			t.Family = 0
+		}
+		m.Terms = append(m.Terms, t)
+	}
+	return m
+}
+
+// BenchmarkFillColumns fills all stress columns of a 5-protocol × 100-point
+// specimen for the 16-term catalogue with one fibre family.
+func BenchmarkFillColumns(b *testing.B) {
+	d := benchSpecimen(b)
+	m := catalogueModel16()
+	if len(m.Terms) != 16 {
+		b.Fatalf("catalogue has %d shapes, the benchmark expects 16", len(m.Terms))
+	}
+	var c Columns
+	d.Fill(m, &c, false)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		d.Fill(m, &c, false)
+	}
+}
+
+// BenchmarkFillColumnsDerivs is the same fill with all derivative columns.
+func BenchmarkFillColumnsDerivs(b *testing.B) {
+	d := benchSpecimen(b)
+	m := catalogueModel16()
+	var c Columns
+	d.Fill(m, &c, true)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		d.Fill(m, &c, true)
+	}
+}

@@ -1,0 +1,275 @@
+package terms
+
+import (
+	"math"
+	"strings"
+)
+
+// The catalogue. Normalisations follow the published forms where one exists,
+// so that a weight reads as the usual constant: i1-lin w = C10 = μ/2
+// (neo-Hookean), i1-exp w = a/2 with rate b (Demiray 1972), i1-gent w = μ/2
+// with limit J (Gent 1996), fib-expsq w = k1 with rate k2 (Holzapfel, Gasser &
+// Ogden 2000).
+
+// rateParam is the exponential rate shared by the exponential shapes.
+func rateParam(def, max float64) Param {
+	return Param{Name: "rate", Symbol: "b", Default: def, Min: 0, Max: max,
+		Doc: "exponential rate (dimensionless); 0 reduces the shape to its polynomial limit"}
+}
+
+var limitParam = Param{Name: "limit", Symbol: "J", Default: 2, Min: 0.01, Max: 1000,
+	Doc: "limiting value of the argument (dimensionless); the energy grows without bound as the argument approaches it"}
+
+func lin(x float64, _ []float64) Value  { return Value{x, 1, 0} }
+func quad(x float64, _ []float64) Value { return Value{x * x, 2 * x, 2} }
+func cube(x float64, _ []float64) Value { return Value{x * x * x, 3 * x * x, 6 * x} }
+
+// macQuad is ⟨x⟩², zero for x ≤ 0: convex, non-decreasing, zero slope at 0.
+func macQuad(x float64, _ []float64) Value {
+	if x <= 0 {
+		return Value{}
+	}
+	return Value{x * x, 2 * x, 2}
+}
+
+var posInf = math.Inf(1)
+
+// expShape is (exp(b x) − 1)/b: f′(0) = 1, and b → 0 gives x.
+func expShape(x float64, p []float64) Value {
+	b := p[0]
+	e := math.Exp(b * x)
+	if math.IsInf(e, 1) {
+		return Value{posInf, posInf, posInf}
+	}
+	if b == 0 {
+		return Value{x, 1, 0}
+	}
+	return Value{math.Expm1(b*x) / b, e, b * e}
+}
+
+func expShapeSlope(x float64, p []float64) float64 { return math.Exp(p[0] * x) }
+
+func expShapeGrad(x float64, p []float64) (g [MaxParams]float64) {
+	g[0] = x * math.Exp(p[0]*x)
+	return
+}
+
+// expSq is (exp(b x²) − 1)/(2b): f′(0) = 0, f″(0) = 1, b → 0 gives x²/2.
+func expSq(x float64, p []float64) Value {
+	b := p[0]
+	x2 := x * x
+	e := math.Exp(b * x2)
+	if math.IsInf(e, 1) {
+		return Value{posInf, math.Copysign(posInf, x), posInf}
+	}
+	f := x2 / 2
+	if b != 0 {
+		f = math.Expm1(b*x2) / (2 * b)
+	}
+	return Value{f, x * e, (1 + 2*b*x2) * e}
+}
+
+func expSqSlope(x float64, p []float64) float64 {
+	if x == 0 {
+		return 0
+	}
+	return x * math.Exp(p[0]*x*x)
+}
+
+func expSqGrad(x float64, p []float64) (g [MaxParams]float64) {
+	x2 := x * x
+	g[0] = x * x2 * math.Exp(p[0]*x2)
+	return
+}
+
+// expZero is (exp(b x) − 1 − b x)/b²: f′(0) = 0, f″(0) = 1, b → 0 gives x²/2.
+// The small-b·x branch uses the series to avoid cancellation.
+func expZero(x float64, p []float64) Value {
+	b := p[0]
+	bx := b * x
+	e := math.Exp(bx)
+	if math.IsInf(e, 1) {
+		return Value{posInf, posInf, posInf}
+	}
+	if math.Abs(bx) < 1e-4 {
+		x2 := x * x
+		return Value{x2/2 + b*x2*x/6 + b*b*x2*x2/24, x + b*x2/2 + b*b*x2*x/6, e}
+	}
+	em := math.Expm1(bx)
+	return Value{(em - bx) / (b * b), em / b, e}
+}
+
+func expZeroSlope(x float64, p []float64) float64 {
+	b := p[0]
+	bx := b * x
+	if math.Abs(bx) < 1e-4 {
+		return x + b*x*x/2 + b*b*x*x*x/6
+	}
+	return math.Expm1(bx) / b
+}
+
+func expZeroGrad(x float64, p []float64) (g [MaxParams]float64) {
+	b := p[0]
+	bx := b * x
+	if math.Abs(bx) < 1e-4 {
+		x2 := x * x
+		g[0] = x2/2 + b*x2*x/3 + b*b*x2*x2/8
+		return
+	}
+	e := math.Exp(bx)
+	if math.IsInf(e, 1) {
+		g[0] = posInf
+		return
+	}
+	g[0] = (bx*e - math.Expm1(bx)) / (b * b)
+	return
+}
+
+// gentLog is −J ln(1 − x/J) (Gent 1996): f′(0) = 1, infinite at x ≥ J.
+func gentLog(x float64, p []float64) Value {
+	J := p[0]
+	if x >= J {
+		return Value{posInf, posInf, posInf}
+	}
+	d := J - x
+	return Value{-J * math.Log1p(-x/J), J / d, J / (d * d)}
+}
+
+func gentLogSlope(x float64, p []float64) float64 {
+	J := p[0]
+	if x >= J {
+		return posInf
+	}
+	return J / (J - x)
+}
+
+func gentLogGrad(x float64, p []float64) (g [MaxParams]float64) {
+	J := p[0]
+	if x >= J {
+		g[0] = math.Inf(-1)
+		return
+	}
+	d := J - x
+	g[0] = -x / (d * d)
+	return
+}
+
+// argText returns the argument as it appears inside a formula.
+func argText(a Argument) (plain, latex string) {
+	switch a {
+	case I1:
+		return "(I1-3)", `(I_1-3)`
+	case I2:
+		return "(I2-3)", `(I_2-3)`
+	case Fibre:
+		return "E_f", `E_f`
+	case Cofactor:
+		return "(K-1)", `(K-1)`
+	case Fifth:
+		return "(I5-1)", `(I_5-1)`
+	}
+	return "x", "x"
+}
+
+// formula substitutes the argument into plain and LaTeX templates written in x.
+func formula(a Argument, plain, latex string) (string, string) {
+	p, l := argText(a)
+	return strings.ReplaceAll(plain, "x", p), strings.ReplaceAll(latex, "x", l)
+}
+
+func shape(id string, a Argument, title, plainT, latexT string, params []Param,
+	weight string, poly bool, note, src string,
+	fn impl) *Shape {
+	p, l := formula(a, plainT, latexT)
+	return &Shape{ID: id, Arg: a, Title: title, Formula: p, LaTeX: l, Params: params,
+		Weight: weight, Polyconvex: poly, PolyconvexNote: note, Source: src,
+		eval: fn.eval, slope: fn.slope, dD1: fn.grad}
+}
+
+// impl bundles a shape's closed forms: f, f′, f″ (eval), f′ alone (slope,
+// optional) and ∂f′/∂θ (grad, for shapes with parameters).
+type impl struct {
+	eval  func(float64, []float64) Value
+	slope func(float64, []float64) float64
+	grad  func(float64, []float64) [MaxParams]float64
+}
+
+var (
+	implLin     = impl{eval: lin}
+	implQuad    = impl{eval: quad}
+	implCube    = impl{eval: cube}
+	implMacQuad = impl{eval: macQuad}
+	implExp     = impl{expShape, expShapeSlope, expShapeGrad}
+	implExpSq   = impl{expSq, expSqSlope, expSqGrad}
+	implExpZero = impl{expZero, expZeroSlope, expZeroGrad}
+	implGent    = impl{gentLog, gentLogSlope, gentLogGrad}
+)
+
+func init() {
+	const (
+		convexI1 = "convex and non-decreasing in I1 (Ball 1977)"
+		convexI2 = "convex and non-decreasing in I2 (Ball 1977)"
+	)
+	for _, a := range []Argument{I1, I2} {
+		n := "I1"
+		note := convexI1
+		if a == I2 {
+			n = "I2"
+			note = convexI2
+		}
+		lo := strings.ToLower(n)
+		mu := "w = μ/2: half the initial shear modulus (" + map[Argument]string{I1: "C10", I2: "C01"}[a] + ")"
+		register(
+			shape(lo+"-lin", a, "linear in "+n, "w*x", `w\,x`, nil,
+				mu, true, note, map[Argument]string{I1: "neo-Hookean; Mooney 1940, Rivlin 1948", I2: "Mooney 1940, Rivlin 1948"}[a],
+				implLin),
+			shape(lo+"-quad", a, "quadratic in "+n, "w*x^2", `w\,x^{2}`, nil,
+				"stiffening of the quadratic growth in "+n+"−3; nothing at small strain", true, note, "Yeoh 1993 (second term)",
+				implQuad),
+			shape(lo+"-cube", a, "cubic in "+n, "w*x^3", `w\,x^{3}`, nil,
+				"stiffening of the cubic growth in "+n+"−3; nothing at small strain", true, note, "Yeoh 1993 (third term)",
+				implCube),
+			shape(lo+"-exp", a, "exponential in "+n, "w*(exp(b*x)-1)/b", `\frac{w}{b}\left(e^{b\,x}-1\right)`,
+				[]Param{rateParam(1, 100)},
+				mu+" at small strain; b sets the stiffening", true, note, "Demiray 1972",
+				implExp),
+		)
+		if a == I1 {
+			register(shape(lo+"-expsq", a, "exponential of square in I1", "w*(exp(b*x^2)-1)/(2*b)",
+				`\frac{w}{2b}\left(e^{b\,x^{2}}-1\right)`, []Param{rateParam(1, 200)},
+				"stiffness of the exponential-of-square growth in I1−3 (f″(0) = 1); nothing at small strain", true, note,
+				"exponential-of-square form as in Holzapfel, Gasser & Ogden 2000, applied to I1",
+				implExpSq))
+		}
+		register(shape(lo+"-gent", a, "limiting extensibility in "+n, "-w*J*ln(1-x/J)",
+			`-w\,J\ln\left(1-\frac{x}{J}\right)`, []Param{limitParam},
+			mu+" at small strain; the energy diverges as "+n+"−3 approaches J", true,
+			note+" below the limit J", "Gent 1996", implGent))
+	}
+
+	const fibreNote = "convex and non-decreasing in E_f, zero for I4 ≤ 1 (Holzapfel, Gasser & Ogden 2000; " +
+		"Schröder & Neff 2003); with dispersion κ > 0 the I4 > 1 switch is applied as common practice"
+	register(
+		shape("fib-quad", Fibre, "quadratic fibre", "w*x^2", `w\,E_f^{2}`, nil,
+			"fibre stiffness: the term's fibre stress grows as 4w·E_f (f″ = 2)", true, fibreNote, "",
+			implQuad),
+		shape("fib-expsq", Fibre, "exponential-of-square fibre", "w*(exp(b*x^2)-1)/(2*b)",
+			`\frac{w}{2b}\left(e^{b\,E_f^{2}}-1\right)`, []Param{rateParam(1, 1000)},
+			"w = k1 and b = k2 of Holzapfel, Gasser & Ogden 2000 (f″(0) = 1)", true, fibreNote,
+			"Holzapfel, Gasser & Ogden 2000",
+			implExpSq),
+		shape("fib-exp", Fibre, "exponential fibre with zero initial slope", "w*(exp(b*x)-1-b*x)/b^2",
+			`\frac{w}{b^{2}}\left(e^{b\,E_f}-1-b\,E_f\right)`, []Param{rateParam(1, 100)},
+			"fibre stiffness at onset (f″(0) = 1); b sets the gradual stiffening", true, fibreNote, "",
+			implExpZero),
+		shape("cof-quad", Cofactor, "quadratic cofactor-fibre", "w*<x>^2", `w\,\langle K-1\rangle^{2}`, nil,
+			"stiffness against growth of the area normal to the fibre (K > 1); zero while K ≤ 1", true,
+			"K = |cof(F) a0|² is convex in cof F and ⟨x⟩² is convex and non-decreasing (Schröder & Neff 2003)",
+			"Schröder & Neff 2003", implMacQuad),
+		shape("i5-quad", Fifth, "quadratic fifth invariant", "w*x^2", `w\,(I_5-1)^{2}`, nil,
+			"stiffness of the fifth-invariant response (f″ = 2); zero for I4 ≤ 1", false,
+			"NOT polyconvex: I5 is not a convex function of F, cof F, det F (Schröder & Neff 2003); "+
+				"planar biaxial data do not fully determine it (Holzapfel & Ogden 2009)",
+			"", implQuad),
+	)
+}

@@ -1,0 +1,203 @@
+// Package terms is weft's catalogue of strain-energy shapes.
+//
+// A strain energy is a sum of terms Ψ = Σ w_k f_k(x_k; θ_k), each a weight w_k
+// (a stiffness in the stress unit, w_k ≥ 0) times a shape f_k of one shifted
+// invariant x_k with a few non-linear parameters θ_k (rates, limits). This
+// package knows the shapes only: their arguments, closed-form values and
+// derivatives, parameter bounds, what the weight means and whether the shape
+// keeps the energy polyconvex. It knows nothing about data, fibres' angles or
+// stress; package aniso turns shapes into stress.
+//
+// Arguments (all zero in the undeformed reference state):
+//
+//	I1 − 3, I2 − 3                      isotropic (matrix) terms
+//	E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1)   fibre terms, Gasser, Ogden & Holzapfel 2006
+//	K − 1, K = I5 − I1 I4 + I2          cofactor-fibre terms, Schröder & Neff 2003
+//	I5 − 1                              raw fifth-invariant terms (not polyconvex)
+//
+// Evaluation is overflow-safe: an exponential shape at a large argument
+// returns +Inf, never NaN, and a limiting-extensibility shape beyond its
+// limit returns +Inf.
+package terms
+
+import (
+	"fmt"
+	"math"
+	"sort"
+)
+
+// Argument is the shifted invariant a shape acts on.
+type Argument int
+
+const (
+	// I1 is x = I1 − 3, the first invariant of C shifted to zero.
+	I1 Argument = iota
+	// I2 is x = I2 − 3, the second invariant of C shifted to zero.
+	I2
+	// Fibre is the fibre strain x = E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1) of a
+	// fibre family with dispersion κ (κ = 0: E_f = I4 − 1). Fibre terms carry
+	// energy only while the family is stretched, I4 > 1.
+	Fibre
+	// Cofactor is x = K − 1 with the cofactor-fibre invariant
+	// K = a0·cof(C)a0 = I5 − I1 I4 + I2, the squared area stretch normal to
+	// the fibre. Shapes in K keep a convex energy polyconvex.
+	Cofactor
+	// Fifth is x = I5 − 1 with I5 = a0·C²a0. Terms in I5 carry energy only
+	// while I4 > 1 and are not polyconvex.
+	Fifth
+)
+
+// String returns the argument as written in formulas, e.g. "I1-3".
+func (a Argument) String() string {
+	switch a {
+	case I1:
+		return "I1-3"
+	case I2:
+		return "I2-3"
+	case Fibre:
+		return "E_f"
+	case Cofactor:
+		return "K-1"
+	case Fifth:
+		return "I5-1"
+	}
+	return fmt.Sprintf("Argument(%d)", int(a))
+}
+
+// NeedsFamily reports whether terms of this argument belong to a fibre family.
+func (a Argument) NeedsFamily() bool { return a == Fibre || a == Cofactor || a == Fifth }
+
+// Param describes one non-linear parameter of a shape.
+type Param struct {
+	// Name is the parameter's key in model cards, e.g. "rate" or "limit".
+	Name string
+	// Symbol is the parameter's symbol in formulas, e.g. "b" or "J".
+	Symbol string
+	// Default is the value used when a card or a fit does not set it.
+	Default float64
+	// Min and Max bound the parameter (inclusive).
+	Min, Max float64
+	// Doc says what the parameter means; it is dimensionless.
+	Doc string
+}
+
+// Value is a shape and its first two derivatives at one argument.
+type Value struct {
+	F, D1, D2 float64 // f(x), f′(x), f″(x)
+}
+
+// Shape is one catalogue entry.
+type Shape struct {
+	// ID is the stable identifier used in model cards, e.g. "i1-exp".
+	ID string
+	// Arg is the shifted invariant the shape acts on.
+	Arg Argument
+	// Title is a short human name.
+	Title string
+	// Formula is the term w·f(x) in plain text with x written out.
+	Formula string
+	// LaTeX is the same term in LaTeX.
+	LaTeX string
+	// Params are the non-linear parameters, in the order Eval expects them.
+	Params []Param
+	// Weight says what the weight w means as a stiffness; it always carries
+	// the stress unit.
+	Weight string
+	// Polyconvex reports whether w·f keeps the energy polyconvex for w ≥ 0;
+	// PolyconvexNote says why or why not.
+	Polyconvex     bool
+	PolyconvexNote string
+	// Source cites the published form the shape follows, if any.
+	Source string
+
+	eval func(x float64, p []float64) Value
+	// slope returns f′ alone, cheaper than eval; nil means eval().D1.
+	slope func(x float64, p []float64) float64
+	// dD1 returns ∂f′/∂p_j.
+	dD1 func(x float64, p []float64) [MaxParams]float64
+}
+
+// Eval returns f, f′ and f″ at x with parameters p (len(p) == len(s.Params)).
+// Results are +Inf, never NaN, where the shape overflows or exceeds a limit.
+func (s *Shape) Eval(x float64, p []float64) Value { return s.eval(x, p) }
+
+// Slope returns f′(x) alone; it equals Eval(x, p).D1 and is cheaper, for
+// hot loops that need only stress.
+func (s *Shape) Slope(x float64, p []float64) float64 {
+	if s.slope != nil {
+		return s.slope(x, p)
+	}
+	return s.eval(x, p).D1
+}
+
+// D1ParamGrad returns ∂f′(x)/∂p_j for every parameter j (entries beyond
+// len(s.Params) are zero). Fitters need it: a term's stress is proportional
+// to f′.
+func (s *Shape) D1ParamGrad(x float64, p []float64) [MaxParams]float64 {
+	if s.dD1 == nil {
+		return [MaxParams]float64{}
+	}
+	return s.dD1(x, p)
+}
+
+// DefaultParams returns a new slice with every parameter at its default.
+func (s *Shape) DefaultParams() []float64 {
+	p := make([]float64, len(s.Params))
+	for i, q := range s.Params {
+		p[i] = q.Default
+	}
+	return p
+}
+
+// CheckParams returns an error naming the first parameter that is missing,
+// not a number or out of bounds.
+func (s *Shape) CheckParams(p []float64) error {
+	if len(p) != len(s.Params) {
+		return fmt.Errorf("term %s takes %d parameter(s), got %d", s.ID, len(s.Params), len(p))
+	}
+	for i, q := range s.Params {
+		v := p[i]
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("term %s: parameter %q is %v; give a finite number in [%g, %g]", s.ID, q.Name, v, q.Min, q.Max)
+		}
+		if v < q.Min || v > q.Max {
+			return fmt.Errorf("term %s: parameter %q = %g is outside [%g, %g]", s.ID, q.Name, v, q.Min, q.Max)
+		}
+	}
+	return nil
+}
+
+// MaxParams is the largest number of non-linear parameters of any shape.
+const MaxParams = 2
+
+var byID = map[string]*Shape{}
+
+// Lookup returns the catalogue shape with the given id, or nil.
+func Lookup(id string) *Shape { return byID[id] }
+
+// Catalogue returns every shape in a fixed order (isotropic I1, I2, then
+// fibre, cofactor and fifth-invariant shapes). The slice is a copy; the
+// shapes are shared and must not be modified.
+func Catalogue() []*Shape { return append([]*Shape(nil), catalogue...) }
+
+// IDs returns all shape ids, sorted.
+func IDs() []string {
+	ids := make([]string, 0, len(byID))
+	for id := range byID {
+		ids = append(ids, id)
+	}
+	sort.Strings(ids)
+	return ids
+}
+
+func register(s ...*Shape) {
+	for _, e := range s {
+		if _, dup := byID[e.ID]; dup || len(e.Params) > MaxParams {
+			panic("terms: duplicate id or too many parameters: " + e.ID)
+		}
+		byID[e.ID] = e
+		catalogue = append(catalogue, e)
+	}
+}
+
+var catalogue []*Shape

@@ -1,0 +1,170 @@
+package terms
+
+import (
+	"math"
+	"testing"
+)
+
+func params(s *Shape, v float64) []float64 {
+	p := s.DefaultParams()
+	for i := range p {
+		if s.Params[i].Name == "rate" {
+			p[i] = v
+		}
+	}
+	return p
+}
+
+// f′ and f″ against central differences of f, ∂f′/∂θ against central
+// differences of f′, and Slope against Eval, for every shape (closed forms
+// checked numerically; common practice).
+func TestDerivativesFiniteDifference(t *testing.T) {
+	for _, s := range Catalogue() {
+		for _, rate := range []float64{0, 1e-6, 0.8, 3} {
+			p := params(s, rate)
+			for _, x := range []float64{0.01, 0.1, 0.35, 0.9} {
+				const h = 1e-6
+				v := s.Eval(x, p)
+				vp, vm := s.Eval(x+h, p), s.Eval(x-h, p)
+				if fd := (vp.F - vm.F) / (2 * h); math.Abs(fd-v.D1) > 1e-6*math.Max(1, math.Abs(v.D1)) {
+					t.Errorf("%s b=%g x=%g: f′ = %.12g, finite difference %.12g", s.ID, rate, x, v.D1, fd)
+				}
+				if fd := (vp.D1 - vm.D1) / (2 * h); math.Abs(fd-v.D2) > 1e-6*math.Max(1, math.Abs(v.D2)) {
+					t.Errorf("%s b=%g x=%g: f″ = %.12g, finite difference %.12g", s.ID, rate, x, v.D2, fd)
+				}
+				if sl := s.Slope(x, p); math.Abs(sl-v.D1) > 1e-12*math.Max(1, math.Abs(v.D1)) {
+					t.Errorf("%s b=%g x=%g: Slope %.15g, Eval f′ %.15g", s.ID, rate, x, sl, v.D1)
+				}
+				g := s.D1ParamGrad(x, p)
+				for j := range s.Params {
+					hp := 1e-6 * math.Max(1, p[j])
+					pp := append([]float64(nil), p...)
+					pm := append([]float64(nil), p...)
+					pp[j] += hp
+					pm[j] -= hp
+					if pm[j] < s.Params[j].Min {
+						pm[j] = p[j]
+						hp /= 2
+					}
+					fd := (s.Eval(x, pp).D1 - s.Eval(x, pm).D1) / (2 * hp)
+					if pm[j] == p[j] {
+						fd = (s.Eval(x, pp).D1 - s.Eval(x, p).D1) / (2 * hp)
+					}
+					if math.Abs(fd-g[j]) > 1e-5*math.Max(1, math.Abs(g[j])) {
+						t.Errorf("%s b=%g x=%g: ∂f′/∂%s = %.12g, finite difference %.12g", s.ID, rate, x, s.Params[j].Name, g[j], fd)
+					}
+				}
+			}
+		}
+	}
+}
+
+// Every shape is zero at zero; fibre-family shapes start with zero slope so
+// the reference state is stress-free (physics.md §2); convex and
+// non-decreasing on x ≥ 0 where polyconvexity is claimed (Ball 1977).
+func TestShapeReferenceAndConvexity(t *testing.T) {
+	for _, s := range Catalogue() {
+		p := s.DefaultParams()
+		v := s.Eval(0, p)
+		if v.F != 0 {
+			t.Errorf("%s: f(0) = %g, want 0", s.ID, v.F)
+		}
+		if s.Arg.NeedsFamily() && v.D1 != 0 {
+			t.Errorf("%s: fibre-family shape has f′(0) = %g, want 0", s.ID, v.D1)
+		}
+		if s.Polyconvex {
+			for x := 0.0; x < 1.5; x += 0.05 {
+				v := s.Eval(x, p)
+				if v.D1 < 0 || v.D2 < 0 {
+					t.Errorf("%s claims polyconvexity but f′=%g, f″=%g at x=%g", s.ID, v.D1, v.D2, x)
+				}
+			}
+		}
+	}
+}
+
+// Published special values (from memory of the published forms): the
+// Holzapfel, Gasser & Ogden 2000 fibre energy k1/(2k2)(exp(k2 x²) − 1), the
+// Demiray 1972 energy a/(2b)(exp(b x) − 1) with w = a/2, and the Gent 1996
+// energy −(μ J/2) ln(1 − x/J) with w = μ/2.
+func TestPublishedForms(t *testing.T) {
+	k1, k2, x := 2.3632, 0.8393, 0.21
+	if got, want := k1*Lookup("fib-expsq").Eval(x, []float64{k2}).F, k1/(2*k2)*(math.Exp(k2*x*x)-1); math.Abs(got-want) > 1e-14 {
+		t.Errorf("HGO fibre energy %g, published form %g", got, want)
+	}
+	a, b := 4.0, 6.0
+	if got, want := (a/2)*Lookup("i1-exp").Eval(x, []float64{b}).F, a/(2*b)*(math.Exp(b*x)-1); math.Abs(got-want) > 1e-13 {
+		t.Errorf("Demiray energy %g, published form %g", got, want)
+	}
+	mu, J := 10.0, 1.5
+	if got, want := (mu/2)*Lookup("i1-gent").Eval(x, []float64{J}).F, -mu*J/2*math.Log(1-x/J); math.Abs(got-want) > 1e-13 {
+		t.Errorf("Gent energy %g, published form %g", got, want)
+	}
+}
+
+// Overflow-safe: at a huge argument exponential shapes return +Inf, never
+// NaN; the Gent shape is +Inf at and beyond its limit.
+func TestOverflow(t *testing.T) {
+	for _, s := range Catalogue() {
+		p := s.DefaultParams()
+		for i := range p {
+			p[i] = s.Params[i].Max
+			if s.Params[i].Name == "limit" {
+				p[i] = s.Params[i].Min
+			}
+		}
+		for _, x := range []float64{50, 1e3, 1e6, math.Inf(1)} {
+			v := s.Eval(x, p)
+			g := s.D1ParamGrad(x, p)
+			for _, f := range []float64{v.F, v.D1, v.D2, s.Slope(x, p), g[0], g[1]} {
+				if math.IsNaN(f) {
+					t.Errorf("%s at x=%g: NaN", s.ID, x)
+				}
+			}
+		}
+	}
+	if v := Lookup("i1-gent").Eval(2, []float64{2}); !math.IsInf(v.F, 1) || !math.IsInf(v.D1, 1) {
+		t.Errorf("Gent at its limit: %v, want +Inf", v)
+	}
+}
+
+func TestCatalogueAndPresets(t *testing.T) {
+	if n := len(Catalogue()); n != 16 {
+		t.Errorf("catalogue has %d shapes, documented 16", n)
+	}
+	poly := 0
+	for _, s := range Catalogue() {
+		if s.Polyconvex {
+			poly++
+		} else if s.Arg != Fifth {
+			t.Errorf("%s: only raw I5 shapes may be non-polyconvex", s.ID)
+		}
+	}
+	if Lookup("i5-quad").Polyconvex {
+		t.Error("i5-quad must be labelled not polyconvex")
+	}
+	for _, p := range Presets() {
+		for _, pt := range p.Terms {
+			s := Lookup(pt.ID)
+			if s == nil {
+				t.Fatalf("preset %s: unknown id %s", p.Name, pt.ID)
+			}
+			if s.Arg.NeedsFamily() != (pt.Family > 0) || pt.Family > p.Families {
+				t.Errorf("preset %s: term %s has family %d", p.Name, pt.ID, pt.Family)
+			}
+			if pt.Params != nil {
+				if err := s.CheckParams(pt.Params); err != nil {
+					t.Errorf("preset %s: %v", p.Name, err)
+				}
+			}
+		}
+		if len(p.AnglesDeg) != p.Families {
+			t.Errorf("preset %s: %d example angles for %d families", p.Name, len(p.AnglesDeg), p.Families)
+		}
+	}
+	for _, name := range []string{"neo-hookean", "mooney-rivlin", "demiray", "gent", "yeoh", "hgo", "goh"} {
+		if LookupPreset(name) == nil {
+			t.Errorf("preset %s missing", name)
+		}
+	}
+}

@@ -171,10 +171,11 @@ func argText(a Argument) (plain, latex string) {
 	return "x", "x"
 }
 
-// formula substitutes the argument into plain and LaTeX templates written in x.
+// formula substitutes the argument into plain and LaTeX templates written
+// with the placeholder {x}.
 func formula(a Argument, plain, latex string) (string, string) {
 	p, l := argText(a)
-	return strings.ReplaceAll(plain, "x", p), strings.ReplaceAll(latex, "x", l)
+	return strings.ReplaceAll(plain, "{x}", p), strings.ReplaceAll(latex, "{x}", l)
 }
 
 func shape(id string, a Argument, title, plainT, latexT string, params []Param,
@@ -218,31 +219,32 @@ func init() {
 			note = convexI2
 		}
 		lo := strings.ToLower(n)
-		mu := "w = μ/2: half the initial shear modulus (" + map[Argument]string{I1: "C10", I2: "C01"}[a] + ")"
+		mu := map[Argument]string{I1: "w = C10; alone it gives the initial shear modulus μ = 2w",
+			I2: "w = C01; with an I1 term the initial shear modulus is μ = 2(C10 + C01)"}[a]
 		register(
-			shape(lo+"-lin", a, "linear in "+n, "w*x", `w\,x`, nil,
+			shape(lo+"-lin", a, "linear in "+n, "w*{x}", `w\,{x}`, nil,
 				mu, true, note, map[Argument]string{I1: "neo-Hookean; Mooney 1940, Rivlin 1948", I2: "Mooney 1940, Rivlin 1948"}[a],
 				implLin),
-			shape(lo+"-quad", a, "quadratic in "+n, "w*x^2", `w\,x^{2}`, nil,
+			shape(lo+"-quad", a, "quadratic in "+n, "w*{x}^2", `w\,{x}^{2}`, nil,
 				"stiffening of the quadratic growth in "+n+"−3; nothing at small strain", true, note, "Yeoh 1993 (second term)",
 				implQuad),
-			shape(lo+"-cube", a, "cubic in "+n, "w*x^3", `w\,x^{3}`, nil,
+			shape(lo+"-cube", a, "cubic in "+n, "w*{x}^3", `w\,{x}^{3}`, nil,
 				"stiffening of the cubic growth in "+n+"−3; nothing at small strain", true, note, "Yeoh 1993 (third term)",
 				implCube),
-			shape(lo+"-exp", a, "exponential in "+n, "w*(exp(b*x)-1)/b", `\frac{w}{b}\left(e^{b\,x}-1\right)`,
+			shape(lo+"-exp", a, "exponential in "+n, "w*(exp(b*{x})-1)/b", `\frac{w}{b}\left(e^{b\,{x}}-1\right)`,
 				[]Param{rateParam(1, 100)},
 				mu+" at small strain; b sets the stiffening", true, note, "Demiray 1972",
 				implExp),
 		)
 		if a == I1 {
-			register(shape(lo+"-expsq", a, "exponential of square in I1", "w*(exp(b*x^2)-1)/(2*b)",
-				`\frac{w}{2b}\left(e^{b\,x^{2}}-1\right)`, []Param{rateParam(1, 200)},
+			register(shape(lo+"-expsq", a, "exponential of square in I1", "w*(exp(b*{x}^2)-1)/(2*b)",
+				`\frac{w}{2b}\left(e^{b\,{x}^{2}}-1\right)`, []Param{rateParam(1, 200)},
 				"stiffness of the exponential-of-square growth in I1−3 (f″(0) = 1); nothing at small strain", true, note,
 				"exponential-of-square form as in Holzapfel, Gasser & Ogden 2000, applied to I1",
 				implExpSq))
 		}
-		register(shape(lo+"-gent", a, "limiting extensibility in "+n, "-w*J*ln(1-x/J)",
-			`-w\,J\ln\left(1-\frac{x}{J}\right)`, []Param{limitParam},
+		register(shape(lo+"-gent", a, "limiting extensibility in "+n, "-w*J*ln(1-{x}/J)",
+			`-w\,J\ln\left(1-\frac{{x}}{J}\right)`, []Param{limitParam},
 			mu+" at small strain; the energy diverges as "+n+"−3 approaches J", true,
 			note+" below the limit J", "Gent 1996", implGent))
 	}
@@ -250,23 +252,23 @@ func init() {
 	const fibreNote = "convex and non-decreasing in E_f, zero for I4 ≤ 1 (Holzapfel, Gasser & Ogden 2000; " +
 		"Schröder & Neff 2003); with dispersion κ > 0 the I4 > 1 switch is applied as common practice"
 	register(
-		shape("fib-quad", Fibre, "quadratic fibre", "w*x^2", `w\,E_f^{2}`, nil,
+		shape("fib-quad", Fibre, "quadratic fibre", "w*{x}^2", `w\,E_f^{2}`, nil,
 			"fibre stiffness: the term's fibre stress grows as 4w·E_f (f″ = 2)", true, fibreNote, "",
 			implQuad),
-		shape("fib-expsq", Fibre, "exponential-of-square fibre", "w*(exp(b*x^2)-1)/(2*b)",
+		shape("fib-expsq", Fibre, "exponential-of-square fibre", "w*(exp(b*{x}^2)-1)/(2*b)",
 			`\frac{w}{2b}\left(e^{b\,E_f^{2}}-1\right)`, []Param{rateParam(1, 1000)},
 			"w = k1 and b = k2 of Holzapfel, Gasser & Ogden 2000 (f″(0) = 1)", true, fibreNote,
 			"Holzapfel, Gasser & Ogden 2000",
 			implExpSq),
-		shape("fib-exp", Fibre, "exponential fibre with zero initial slope", "w*(exp(b*x)-1-b*x)/b^2",
+		shape("fib-exp", Fibre, "exponential fibre with zero initial slope", "w*(exp(b*{x})-1-b*{x})/b^2",
 			`\frac{w}{b^{2}}\left(e^{b\,E_f}-1-b\,E_f\right)`, []Param{rateParam(1, 100)},
 			"fibre stiffness at onset (f″(0) = 1); b sets the gradual stiffening", true, fibreNote, "",
 			implExpZero),
-		shape("cof-quad", Cofactor, "quadratic cofactor-fibre", "w*<x>^2", `w\,\langle K-1\rangle^{2}`, nil,
+		shape("cof-quad", Cofactor, "quadratic cofactor-fibre", "w*<{x}>^2", `w\,\langle K-1\rangle^{2}`, nil,
 			"stiffness against growth of the area normal to the fibre (K > 1); zero while K ≤ 1", true,
 			"K = |cof(F) a0|² is convex in cof F and ⟨x⟩² is convex and non-decreasing (Schröder & Neff 2003)",
 			"Schröder & Neff 2003", implMacQuad),
-		shape("i5-quad", Fifth, "quadratic fifth invariant", "w*x^2", `w\,(I_5-1)^{2}`, nil,
+		shape("i5-quad", Fifth, "quadratic fifth invariant", "w*{x}^2", `w\,(I_5-1)^{2}`, nil,
 			"stiffness of the fifth-invariant response (f″ = 2); zero for I4 ≤ 1", false,
 			"NOT polyconvex: I5 is not a convex function of F, cof F, det F (Schröder & Neff 2003); "+
 				"planar biaxial data do not fully determine it (Holzapfel & Ogden 2009)",

@@ -1,0 +1,534 @@
+// Package card reads, validates and writes weft model cards (model.json): a
+// versioned JSON description of a strain energy — its fibre families and
+// weighted catalogue terms — that a user can also write by hand, and that a
+// fit extends with its evidence. Readers ignore keys they do not know.
+//
+// A card's numbers carry units: weights in the card's stress unit, angles in
+// degrees from axis 1 towards axis 2, everything else dimensionless. The
+// conventions are written into every card weft produces.
+package card
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strings"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
+)
+
+// Format is the card format this version of weft writes and reads.
+const Format = "weft.model/1"
+
+// Cautions are printed wherever parameters leave weft.
+var Cautions = []string{
+	"Parameters are research-grade and specimen-specific: valid only within the tested stretch range and loading protocols.",
+	"A fitted model is not a substitute for validating a simulation against independent data.",
+	"Not for clinical decisions. Follow the regulations and standards that apply (for example to medical devices) and licensed professional practice.",
+}
+
+// Conventions states, in the card itself, how to read its numbers.
+type Conventions struct {
+	Angle          string `json:"angle"`
+	Kinematics     string `json:"kinematics"`
+	Invariants     string `json:"invariants"`
+	Energy         string `json:"energy"`
+	FibreSwitch    string `json:"fibre_switch"`
+	Dispersion     string `json:"dispersion"`
+	Stress         string `json:"stress"`
+	Normalisations string `json:"normalisations"`
+}
+
+// StandardConventions are weft's conventions (see the README).
+var StandardConventions = Conventions{
+	Angle:          "angle_deg is the reference fibre direction a0 = (cos α, sin α, 0), α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180, reported in (-90, 90]",
+	Kinematics:     "in-plane F = [[F11, F12], [F21, F22]], F33 = 1/(F11 F22 - F12 F21) (incompressible); C = F^T F, B = F F^T, a = F a0",
+	Invariants:     "I1 = tr C, I2 = (I1^2 - tr C^2)/2, I4 = a0.C a0, I5 = a0.C^2 a0, K = I5 - I1 I4 + I2",
+	Energy:         "Psi = sum_k weight_k * f_k(x_k); each term's f and argument x are given by its id and written out in 'energy'",
+	FibreSwitch:    "terms in E_f and I5-1 give no energy and no stress while the family's I4 <= 1; cof-* terms are zero while K <= 1",
+	Dispersion:     "E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1), 0 <= kappa <= 1/3 (Gasser, Ogden & Holzapfel 2006); kappa = 0 gives I4 - 1",
+	Stress:         "plane stress sigma33 = 0; Cauchy sigma = -p 1 + 2 psi1 B + 2 psi2 (I1 B - B^2) + sum_families [2 psi4 a(x)a + 2 psi5 (a(x)Ba + Ba(x)a)]; nominal P = sigma F^-T",
+	Normalisations: "i1-lin weight = C10 = mu/2; *-exp: w (exp(b x) - 1)/b; *-expsq: w (exp(b x^2) - 1)/(2 b) (w = k1, b = k2 of Holzapfel, Gasser & Ogden 2000); *-gent: -w J ln(1 - x/J); fib-exp: w (exp(b x) - 1 - b x)/b^2; *-quad: w x^2; *-cube: w x^3",
+}
+
+// Family is a fibre family in a card.
+type Family struct {
+	// Name is referenced by terms' Family.
+	Name string `json:"name"`
+	// AngleDeg is the fibre angle in degrees from axis 1 towards axis 2.
+	AngleDeg *float64 `json:"angle_deg"`
+	// AngleSignKnown is false when the data could not tell +α from −α
+	// (pure biaxial stretch without shear information).
+	AngleSignKnown *bool `json:"angle_sign_known,omitempty"`
+	// Dispersion is κ ∈ [0, 1/3]; absent means 0.
+	Dispersion *float64 `json:"dispersion,omitempty"`
+}
+
+// Layout records how families were parameterised in a fit.
+type Layout struct {
+	// Kind is "single", "mirror" (θ ± β, shared weights and rates) or "free".
+	Kind string `json:"kind"`
+	// MeanDeg and HalfAngleDeg are θ and β of a mirror pair, in degrees.
+	MeanDeg      *float64 `json:"mean_deg,omitempty"`
+	HalfAngleDeg *float64 `json:"half_angle_deg,omitempty"`
+}
+
+// Term is one weighted energy term in a card.
+type Term struct {
+	// ID is the catalogue shape id.
+	ID string `json:"id"`
+	// Weight is w ≥ 0 in WeightUnit (the card's stress unit).
+	Weight     *float64 `json:"weight"`
+	WeightUnit string   `json:"weight_unit,omitempty"`
+	// Params are the shape's non-linear parameters by name (dimensionless).
+	Params map[string]float64 `json:"params,omitempty"`
+	// Family names the fibre family of a fibre, cofactor or I5 term.
+	Family string `json:"family,omitempty"`
+	// Formula is the term written out (informational; ignored on read).
+	Formula string `json:"formula,omitempty"`
+}
+
+// Card is a model card. Fields beyond the model itself are filled by the
+// commands that produce them; Extra keeps every key this version does not
+// know, so that reading and rewriting a card loses nothing.
+type Card struct {
+	Format      string       `json:"format"`
+	Specimen    string       `json:"specimen,omitempty"`
+	StressUnit  string       `json:"stress_unit"`
+	Energy      string       `json:"energy,omitempty"`
+	EnergyLaTeX string       `json:"energy_latex,omitempty"`
+	Conventions *Conventions `json:"conventions,omitempty"`
+	Cautions    []string     `json:"cautions,omitempty"`
+	Families    []Family     `json:"families"`
+	Layout      *Layout      `json:"layout,omitempty"`
+	Terms       []Term       `json:"terms"`
+
+	// Extra holds keys not listed above (fit results and future additions),
+	// written back unchanged.
+	Extra map[string]json.RawMessage `json:"-"`
+}
+
+// StressUnits are the stress units a card may use.
+var StressUnits = []string{"Pa", "kPa", "MPa"}
+
+// Error is a problem in a card, located by a JSON path such as
+// `$.terms[2].weight`.
+type Error struct {
+	File string
+	Path string
+	Msg  string
+}
+
+func (e *Error) Error() string {
+	if e.File == "" {
+		return fmt.Sprintf("%s: %s", e.Path, e.Msg)
+	}
+	return fmt.Sprintf("%s: %s: %s", e.File, e.Path, e.Msg)
+}
+
+var knownKeys = map[string]bool{}
+
+func init() {
+	for _, k := range []string{"format", "specimen", "stress_unit", "energy", "energy_latex", "conventions", "cautions", "families", "layout", "terms"} {
+		knownKeys[k] = true
+	}
+}
+
+// UnmarshalJSON decodes a card and keeps unknown keys in Extra.
+func (c *Card) UnmarshalJSON(b []byte) error {
+	type plain Card
+	var all map[string]json.RawMessage
+	if err := json.Unmarshal(b, &all); err != nil {
+		return err
+	}
+	// Lists are decoded element by element so that a type error names the
+	// element's index.
+	var lists struct {
+		Families []json.RawMessage `json:"families"`
+		Terms    []json.RawMessage `json:"terms"`
+	}
+	if err := json.Unmarshal(b, &lists); err != nil {
+		return err
+	}
+	for i, raw := range lists.Families {
+		var f Family
+		if err := json.Unmarshal(raw, &f); err != nil {
+			return prefixTypeError(err, fmt.Sprintf("families.%d", i))
+		}
+	}
+	for i, raw := range lists.Terms {
+		var t Term
+		if err := json.Unmarshal(raw, &t); err != nil {
+			return prefixTypeError(err, fmt.Sprintf("terms.%d", i))
+		}
+	}
+	var p plain
+	if err := json.Unmarshal(b, &p); err != nil {
+		return err
+	}
+	for k, v := range all {
+		if !knownKeys[k] {
+			if p.Extra == nil {
+				p.Extra = map[string]json.RawMessage{}
+			}
+			p.Extra[k] = v
+		}
+	}
+	*c = Card(p)
+	return nil
+}
+
+// prefixTypeError puts a list element's position in front of a type error's
+// field path.
+func prefixTypeError(err error, prefix string) error {
+	var te *json.UnmarshalTypeError
+	if errors.As(err, &te) {
+		e := *te
+		e.Field = prefix + "." + te.Field
+		return &e
+	}
+	return err
+}
+
+// MarshalJSON writes the known keys in a fixed order, then Extra's keys
+// sorted, so that the same card gives the same bytes.
+func (c Card) MarshalJSON() ([]byte, error) {
+	type plain Card
+	b, err := json.Marshal(plain(c))
+	if err != nil {
+		return nil, err
+	}
+	if len(c.Extra) == 0 {
+		return b, nil
+	}
+	keys := make([]string, 0, len(c.Extra))
+	for k := range c.Extra {
+		if !knownKeys[k] {
+			keys = append(keys, k)
+		}
+	}
+	sort.Strings(keys)
+	var buf bytes.Buffer
+	buf.Write(b[:len(b)-1])
+	for _, k := range keys {
+		kb, _ := json.Marshal(k)
+		buf.WriteByte(',')
+		buf.Write(kb)
+		buf.WriteByte(':')
+		buf.Write(c.Extra[k])
+	}
+	buf.WriteByte('}')
+	return buf.Bytes(), nil
+}
+
+// SetExtra stores v under key in Extra (for fit results and other sections).
+func (c *Card) SetExtra(key string, v any) error {
+	b, err := json.Marshal(v)
+	if err != nil {
+		return err
+	}
+	if c.Extra == nil {
+		c.Extra = map[string]json.RawMessage{}
+	}
+	c.Extra[key] = b
+	return nil
+}
+
+// GetExtra decodes the section under key into v; it reports false when the
+// card has no such section.
+func (c *Card) GetExtra(key string, v any) (bool, error) {
+	raw, ok := c.Extra[key]
+	if !ok {
+		return false, nil
+	}
+	return true, json.Unmarshal(raw, v)
+}
+
+// Parse decodes and validates a card. file names the source in errors.
+func Parse(r io.Reader, file string) (*Card, *aniso.Model, error) {
+	b, err := io.ReadAll(r)
+	if err != nil {
+		return nil, nil, err
+	}
+	var c Card
+	if err := json.Unmarshal(b, &c); err != nil {
+		return nil, nil, decodeError(file, b, err)
+	}
+	m, err := c.Model()
+	if err != nil {
+		var ce *Error
+		if errors.As(err, &ce) {
+			ce.File = file
+		}
+		return nil, nil, err
+	}
+	return &c, m, nil
+}
+
+// decodeError turns an encoding/json error into a located card error.
+func decodeError(file string, b []byte, err error) error {
+	var te *json.UnmarshalTypeError
+	var se *json.SyntaxError
+	switch {
+	case errors.As(err, &te):
+		return &Error{File: file, Path: jsonPath(te.Field), Msg: fmt.Sprintf("is a JSON %s, expected %s", te.Value, goTypeName(te.Type.String()))}
+	case errors.As(err, &se):
+		line, col := lineCol(b, se.Offset)
+		return fmt.Errorf("%s:%d:%d: not valid JSON: %v", file, line, col, se)
+	}
+	return fmt.Errorf("%s: %v", file, err)
+}
+
+func goTypeName(t string) string {
+	switch {
+	case strings.Contains(t, "float"):
+		return "a number"
+	case strings.Contains(t, "bool"):
+		return "true or false"
+	case strings.Contains(t, "string"):
+		return "a string"
+	case strings.HasPrefix(t, "[]"):
+		return "a list"
+	}
+	return "an object"
+}
+
+// jsonPath turns encoding/json's "terms.2.weight" into "$.terms[2].weight".
+func jsonPath(field string) string {
+	if field == "" {
+		return "$"
+	}
+	var sb strings.Builder
+	sb.WriteString("$")
+	for _, part := range strings.Split(field, ".") {
+		if part != "" && strings.Trim(part, "0123456789") == "" {
+			sb.WriteString("[" + part + "]")
+		} else {
+			sb.WriteString("." + part)
+		}
+	}
+	return sb.String()
+}
+
+func lineCol(b []byte, off int64) (int, int) {
+	if off > int64(len(b)) {
+		off = int64(len(b))
+	}
+	line, col := 1, 1
+	for _, c := range b[:off] {
+		if c == '\n' {
+			line, col = line+1, 1
+		} else {
+			col++
+		}
+	}
+	return line, col
+}
+
+func errAt(path, format string, args ...any) error {
+	return &Error{Path: path, Msg: fmt.Sprintf(format, args...)}
+}
+
+// Model validates the card and builds the model it describes.
+func (c *Card) Model() (*aniso.Model, error) {
+	if c.Format != Format {
+		if c.Format == "" {
+			return nil, errAt("$.format", "missing; write \"format\": %q", Format)
+		}
+		return nil, errAt("$.format", "%q is not a format this weft reads; expected %q", c.Format, Format)
+	}
+	if !validUnit(c.StressUnit) {
+		return nil, errAt("$.stress_unit", "%q is not a stress unit; use one of %s", c.StressUnit, strings.Join(StressUnits, ", "))
+	}
+	m := &aniso.Model{}
+	index := map[string]int{}
+	for i, f := range c.Families {
+		p := fmt.Sprintf("$.families[%d]", i)
+		if f.Name == "" {
+			return nil, errAt(p+".name", "missing; give each family a name that terms refer to, e.g. \"f1\"")
+		}
+		if _, dup := index[f.Name]; dup {
+			return nil, errAt(p+".name", "%q is used twice; family names must be unique", f.Name)
+		}
+		if f.AngleDeg == nil {
+			return nil, errAt(p+".angle_deg", "missing; give the fibre angle in degrees from axis 1 towards axis 2")
+		}
+		if math.IsNaN(*f.AngleDeg) || math.IsInf(*f.AngleDeg, 0) {
+			return nil, errAt(p+".angle_deg", "is not a finite number")
+		}
+		kappa := 0.0
+		if f.Dispersion != nil {
+			kappa = *f.Dispersion
+			if !(kappa >= 0 && kappa <= aniso.MaxDispersion) {
+				return nil, errAt(p+".dispersion", "%g is outside [0, 1/3]; 0 is aligned fibres, 1/3 fully dispersed", kappa)
+			}
+		}
+		index[f.Name] = i
+		m.Families = append(m.Families, aniso.Family{Name: f.Name, Angle: *f.AngleDeg * math.Pi / 180, Dispersion: kappa})
+	}
+	if len(c.Terms) == 0 {
+		return nil, errAt("$.terms", "no terms; a model needs at least one energy term (see 'weft terms')")
+	}
+	for i, t := range c.Terms {
+		p := fmt.Sprintf("$.terms[%d]", i)
+		sh := terms.Lookup(t.ID)
+		if sh == nil {
+			return nil, errAt(p+".id", "%q is not a catalogue term; 'weft terms' lists them (%s)", t.ID, strings.Join(terms.IDs(), ", "))
+		}
+		if t.Weight == nil {
+			return nil, errAt(p+".weight", "missing; give the term's weight in %s (≥ 0)", c.StressUnit)
+		}
+		w := *t.Weight
+		if !(w >= 0) || math.IsInf(w, 0) {
+			return nil, errAt(p+".weight", "%g must be a finite number ≥ 0 (negative weights break convexity)", w)
+		}
+		if t.WeightUnit != "" && t.WeightUnit != c.StressUnit {
+			return nil, errAt(p+".weight_unit", "%q differs from stress_unit %q; convert the weight", t.WeightUnit, c.StressUnit)
+		}
+		params := make([]float64, len(sh.Params))
+		for j, q := range sh.Params {
+			v, ok := t.Params[q.Name]
+			if !ok {
+				return nil, errAt(p+".params."+q.Name, "missing; %s takes %s in [%g, %g] (default %g)", sh.ID, q.Name, q.Min, q.Max, q.Default)
+			}
+			if v < q.Min || v > q.Max {
+				return nil, errAt(p+".params."+q.Name, "%g is outside [%g, %g]", v, q.Min, q.Max)
+			}
+			params[j] = v
+		}
+		for name := range t.Params {
+			if !hasParam(sh, name) {
+				return nil, errAt(p+".params."+name, "%s has no parameter %q", sh.ID, name)
+			}
+		}
+		fam := -1
+		if sh.Arg.NeedsFamily() {
+			f, ok := index[t.Family]
+			if !ok {
+				if t.Family == "" {
+					return nil, errAt(p+".family", "missing; %s is a fibre-family term, name one of the families", sh.ID)
+				}
+				return nil, errAt(p+".family", "%q is not a family of this card", t.Family)
+			}
+			fam = f
+		} else if t.Family != "" {
+			return nil, errAt(p+".family", "%s is isotropic and takes no family", sh.ID)
+		}
+		m.Terms = append(m.Terms, aniso.Term{Shape: sh, Family: fam, Weight: w, Params: params})
+	}
+	if err := m.Validate(); err != nil {
+		return nil, errAt("$", "%v", err)
+	}
+	return m, nil
+}
+
+func hasParam(s *terms.Shape, name string) bool {
+	for _, q := range s.Params {
+		if q.Name == name {
+			return true
+		}
+	}
+	return false
+}
+
+func validUnit(u string) bool {
+	for _, s := range StressUnits {
+		if u == s {
+			return true
+		}
+	}
+	return false
+}
+
+// FromModel writes a model as a card with conventions, cautions and the
+// energy written out. signKnown gives angle_sign_known per family (nil: not
+// stated).
+func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
+	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions}
+	for i, f := range m.Families {
+		a := ReportAngle(f.Angle * 180 / math.Pi)
+		k := f.Dispersion
+		fc := Family{Name: f.Name, AngleDeg: &a, Dispersion: &k}
+		if fc.Name == "" {
+			fc.Name = fmt.Sprintf("f%d", i+1)
+		}
+		if signKnown != nil {
+			b := signKnown[i]
+			fc.AngleSignKnown = &b
+		}
+		c.Families = append(c.Families, fc)
+	}
+	for _, t := range m.Terms {
+		w := t.Weight
+		tc := Term{ID: t.Shape.ID, Weight: &w, WeightUnit: stressUnit, Formula: t.Shape.Formula}
+		if len(t.Params) > 0 {
+			tc.Params = map[string]float64{}
+			for j, q := range t.Shape.Params {
+				tc.Params[q.Name] = t.Params[j]
+			}
+		}
+		if t.Family >= 0 {
+			tc.Family = c.Families[t.Family].Name
+		}
+		c.Terms = append(c.Terms, tc)
+	}
+	c.Energy, c.EnergyLaTeX = EnergyText(m, c)
+	return c
+}
+
+// ReportAngle maps an angle in degrees into (−90, 90].
+func ReportAngle(a float64) float64 {
+	a = math.Mod(a, 180)
+	if a > 90 {
+		a -= 180
+	} else if a <= -90 {
+		a += 180
+	}
+	return a
+}
+
+// EnergyText writes the energy with its numbers, in plain text and LaTeX.
+func EnergyText(m *aniso.Model, c *Card) (string, string) {
+	var plain, latex []string
+	for _, t := range m.Terms {
+		p, l := t.Shape.Formula, t.Shape.LaTeX
+		p = strings.ReplaceAll(p, "w*", fmt.Sprintf("%.6g*", t.Weight))
+		l = strings.ReplaceAll(l, "w", fmt.Sprintf("%.6g", t.Weight))
+		for j, q := range t.Shape.Params {
+			v := fmt.Sprintf("%.6g", t.Params[j])
+			p = strings.ReplaceAll(p, q.Symbol, v)
+			l = strings.ReplaceAll(l, q.Symbol, v)
+		}
+		if t.Family >= 0 {
+			name := c.Families[t.Family].Name
+			p = strings.ReplaceAll(p, "E_f", "E_"+name)
+			p = strings.ReplaceAll(p, "(K-1)", "(K_"+name+"-1)")
+			p = strings.ReplaceAll(p, "(I5-1)", "(I5_"+name+"-1)")
+			l = strings.ReplaceAll(l, "E_f", "E_{"+name+"}")
+			l = strings.ReplaceAll(l, "(K-1)", "(K_{"+name+"}-1)")
+			l = strings.ReplaceAll(l, "(I_5-1)", "(I_{5,"+name+"}-1)")
+		}
+		plain = append(plain, p)
+		latex = append(latex, l)
+	}
+	return "Psi = " + strings.Join(plain, " + "), `\Psi = ` + strings.Join(latex, " + ")
+}
+
+// Marshal returns the card as indented JSON with a trailing newline.
+func (c *Card) Marshal() ([]byte, error) {
+	b, err := json.Marshal(c)
+	if err != nil {
+		return nil, err
+	}
+	var out bytes.Buffer
+	if err := json.Indent(&out, b, "", "  "); err != nil {
+		return nil, err
+	}
+	out.WriteByte('\n')
+	return out.Bytes(), nil
+}

@@ -1,0 +1,69 @@
+package card
+
+import (
+	"bytes"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
+)
+
+func sampleModel() *aniso.Model {
+	return &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: 40 * math.Pi / 180, Dispersion: 0.1}, {Name: "f2", Angle: -75 * math.Pi / 180}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-exp"), Family: -1, Weight: 2.5, Params: []float64{3}},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 12, Params: []float64{4.5}},
+			{Shape: terms.Lookup("cof-quad"), Family: 1, Weight: 0.7},
+		},
+	}
+}
+
+// A card written by weft reads back to the same model, keeps unknown keys,
+// and writes the same bytes again (determinism).
+func TestRoundTrip(t *testing.T) {
+	m := sampleModel()
+	c := FromModel(m, "kPa", []bool{false, true})
+	if err := c.SetExtra("zz_future", map[string]int{"a": 1}); err != nil {
+		t.Fatal(err)
+	}
+	b, err := c.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	c2, m2, err := Parse(bytes.NewReader(b), "card.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range m.Families {
+		if math.Abs(m.Families[i].Angle-m2.Families[i].Angle) > 1e-15 || m.Families[i].Dispersion != m2.Families[i].Dispersion {
+			t.Errorf("family %d: %+v vs %+v", i, m.Families[i], m2.Families[i])
+		}
+	}
+	for i := range m.Terms {
+		a, b := m.Terms[i], m2.Terms[i]
+		if a.Shape != b.Shape || a.Weight != b.Weight || a.Family != b.Family || len(a.Params) != len(b.Params) || (len(a.Params) > 0 && a.Params[0] != b.Params[0]) {
+			t.Errorf("term %d: %+v vs %+v", i, a, b)
+		}
+	}
+	if _, ok := c2.Extra["zz_future"]; !ok {
+		t.Error("unknown key lost on read")
+	}
+	b2, _ := c2.Marshal()
+	if !bytes.Equal(b, b2) {
+		t.Errorf("rewriting a card changed it:\n%s\n%s", b, b2)
+	}
+	if !strings.Contains(c.Energy, "E_f1") || !strings.Contains(c.Energy, "2.5*(exp(3*(I1-3))-1)/3") {
+		t.Errorf("energy text %q", c.Energy)
+	}
+}
+
+func TestReportAngle(t *testing.T) {
+	for _, c := range [][2]float64{{0, 0}, {90, 90}, {-90, 90}, {100, -80}, {-100, 80}, {270, 90}, {179, -1}, {-179, 1}} {
+		if got := ReportAngle(c[0]); math.Abs(got-c[1]) > 1e-12 {
+			t.Errorf("ReportAngle(%g) = %g, want %g", c[0], got, c[1])
+		}
+	}
+}

@@ -1,0 +1,200 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+func init() { commands = append(commands, newPredictCmd) }
+
+// predictColumns are the stress columns predict appends, in order.
+var predictColumns = []string{"cauchy_11", "cauchy_22", "cauchy_12", "nominal_11", "nominal_22", "nominal_12", "nominal_21"}
+
+func newPredictCmd() *cobra.Command {
+	var out string
+	var force bool
+	cmd := &cobra.Command{
+		Use:   "predict MODEL.json KINEMATICS.csv",
+		Short: "Evaluate a model card on a path of stretches or deformation gradients",
+		Long: `predict reads a model card and a CSV of in-plane deformations and writes the
+same rows with the Cauchy and nominal stresses of the model appended.
+
+The CSV needs either the columns stretch_1, stretch_2 (pure biaxial stretch)
+or F11, F12, F21, F22 (any in-plane deformation gradient). Header names are
+case-insensitive; a unit in square brackets after a name is allowed. Every
+other column (protocol, time, ...) passes through unchanged. Lines starting
+with '#' are comments.
+
+Appended columns, each with the card's stress unit in brackets:
+  cauchy_11, cauchy_22, cauchy_12, nominal_11, nominal_22, nominal_12, nominal_21
+Nominal stress is first Piola-Kirchhoff, P = sigma F^-T, so nominal_12 is the
+force along axis 1 per reference area normal to axis 2.`,
+		Example: `  weft predict model.json path.csv
+  weft predict out/model.json testdata/demo/stretch-path.csv -o stresses.csv`,
+		Args: exactArgs(2),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			c, m, err := readCard(args[0])
+			if err != nil {
+				return err
+			}
+			f, err := os.Open(args[1])
+			if err != nil {
+				return badInput(err)
+			}
+			defer f.Close()
+			var buf bytes.Buffer
+			if err := predictCSV(f, args[1], c, m, &buf); err != nil {
+				return err
+			}
+			if out == "" || out == "-" {
+				_, err := cmd.OutOrStdout().Write(buf.Bytes())
+				return err
+			}
+			return writeFileAtomic(out, buf.Bytes(), force)
+		},
+	}
+	cmd.Flags().StringVarP(&out, "output", "o", "", "write the CSV to this file instead of standard output")
+	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
+	return cmd
+}
+
+// exactArgs is cobra.ExactArgs with a bad-input exit code and a hint.
+func exactArgs(n int) cobra.PositionalArgs {
+	return func(cmd *cobra.Command, args []string) error {
+		if len(args) != n {
+			return badInputf("%s takes %d argument(s), got %d; see 'weft %s --help'", cmd.Name(), n, len(args), cmd.Name())
+		}
+		return nil
+	}
+}
+
+// readCard reads and validates a model card; problems are bad input.
+func readCard(path string) (*card.Card, *aniso.Model, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, badInput(err)
+	}
+	defer f.Close()
+	c, m, err := card.Parse(f, path)
+	if err != nil {
+		return nil, nil, badInput(err)
+	}
+	return c, m, nil
+}
+
+// headerName lower-cases a CSV header and strips a bracketed unit.
+func headerName(h string) string {
+	h = strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))
+	if i := strings.Index(h, "["); i >= 0 {
+		h = h[:i]
+	}
+	return strings.ToLower(strings.TrimSpace(h))
+}
+
+// predictCSV evaluates m on every row of a kinematics CSV and writes the
+// rows with stresses appended. Any bad row is an input error naming its line
+// and column; nothing is written then.
+func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Writer) error {
+	cr := csv.NewReader(r)
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	header, err := cr.Read()
+	if err != nil {
+		if errors.Is(err, io.EOF) {
+			return badInputf("%s: empty file; expected a header with stretch_1,stretch_2 or F11,F12,F21,F22", file)
+		}
+		return badInputf("%s: %v", file, err)
+	}
+	col := map[string]int{}
+	for i, h := range header {
+		name := headerName(h)
+		if _, dup := col[name]; dup {
+			line, _ := cr.FieldPos(i)
+			return badInputf("%s:%d:%d: column %q appears twice; keep one", file, line, i+1, name)
+		}
+		col[name] = i
+	}
+	var idx []int
+	stretch := false
+	if _, ok := col["f11"]; ok {
+		for _, n := range []string{"f11", "f12", "f21", "f22"} {
+			i, ok := col[n]
+			if !ok {
+				return badInputf("%s:1: column F11 is present but %s is missing; give all four of F11,F12,F21,F22", file, strings.ToUpper(n[:1])+n[1:])
+			}
+			idx = append(idx, i)
+		}
+	} else {
+		i1, ok1 := col["stretch_1"]
+		i2, ok2 := col["stretch_2"]
+		if !ok1 || !ok2 {
+			return badInputf("%s:1: no kinematics columns; give stretch_1,stretch_2 or F11,F12,F21,F22", file)
+		}
+		idx, stretch = []int{i1, i2}, true
+	}
+	var out bytes.Buffer
+	cw := csv.NewWriter(&out)
+	h := append([]string(nil), header...)
+	for _, name := range predictColumns {
+		h = append(h, fmt.Sprintf("%s [%s]", name, c.StressUnit))
+	}
+	cw.Write(h)
+	for {
+		rec, err := cr.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return badInputf("%s: %v", file, err)
+		}
+		line, _ := cr.FieldPos(0)
+		var v [4]float64
+		for j, i := range idx {
+			if i >= len(rec) {
+				return badInputf("%s:%d: the row has %d fields; column %q is missing", file, line, len(rec), header[i])
+			}
+			x, err := strconv.ParseFloat(strings.TrimSpace(rec[i]), 64)
+			if err != nil || x != x || x > 1e300 || x < -1e300 {
+				_, cc := cr.FieldPos(i)
+				return badInputf("%s:%d:%d: %q in column %q is not a finite number", file, line, cc, rec[i], header[i])
+			}
+			v[j] = x
+		}
+		F := v
+		if stretch {
+			F = [4]float64{v[0], 0, 0, v[1]}
+			if v[0] <= 0 || v[1] <= 0 {
+				return badInputf("%s:%d: stretches %g, %g must be > 0", file, line, v[0], v[1])
+			}
+		}
+		if det := F[0]*F[3] - F[1]*F[2]; det <= 0 {
+			return badInputf("%s:%d: det F = F11·F22 − F12·F21 = %g ≤ 0, which would invert the material; check the column order and signs", file, line, det)
+		}
+		resp, err := m.Evaluate(F)
+		if err != nil {
+			return badInputf("%s:%d: %v", file, line, err)
+		}
+		row := append([]string(nil), rec...)
+		for _, x := range []float64{resp.Cauchy[0], resp.Cauchy[1], resp.Cauchy[2], resp.Nominal[0], resp.Nominal[1], resp.Nominal[2], resp.Nominal[3]} {
+			row = append(row, strconv.FormatFloat(x, 'g', -1, 64))
+		}
+		cw.Write(row)
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return err
+	}
+	_, err = w.Write(out.Bytes())
+	return err
+}

@@ -1,0 +1,156 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+func init() { commands = append(commands, newTermsCmd) }
+
+// termInfo is the JSON form of one catalogue shape.
+type termInfo struct {
+	ID         string      `json:"id"`
+	Argument   string      `json:"argument"`
+	Family     bool        `json:"fibre_family"`
+	Title      string      `json:"title"`
+	Formula    string      `json:"formula"`
+	LaTeX      string      `json:"latex"`
+	Weight     string      `json:"weight_meaning"`
+	Params     []paramInfo `json:"params"`
+	Polyconvex bool        `json:"polyconvex"`
+	Note       string      `json:"polyconvexity_note"`
+	Source     string      `json:"source,omitempty"`
+}
+
+type paramInfo struct {
+	Name    string  `json:"name"`
+	Symbol  string  `json:"symbol"`
+	Default float64 `json:"default"`
+	Min     float64 `json:"min"`
+	Max     float64 `json:"max"`
+	Doc     string  `json:"doc"`
+}
+
+type presetInfo struct {
+	Name       string   `json:"name"`
+	Title      string   `json:"title"`
+	Source     string   `json:"source"`
+	Families   int      `json:"families"`
+	Mirror     bool     `json:"mirror_pair"`
+	Dispersion bool     `json:"dispersion"`
+	Terms      []string `json:"terms"`
+	Example    string   `json:"example_values"`
+}
+
+func catalogueInfo() ([]termInfo, []presetInfo) {
+	var ts []termInfo
+	for _, s := range terms.Catalogue() {
+		ti := termInfo{ID: s.ID, Argument: s.Arg.String(), Family: s.Arg.NeedsFamily(), Title: s.Title,
+			Formula: s.Formula, LaTeX: s.LaTeX, Weight: s.Weight, Polyconvex: s.Polyconvex,
+			Note: s.PolyconvexNote, Source: s.Source, Params: []paramInfo{}}
+		for _, p := range s.Params {
+			ti.Params = append(ti.Params, paramInfo{p.Name, p.Symbol, p.Default, p.Min, p.Max, p.Doc})
+		}
+		ts = append(ts, ti)
+	}
+	var ps []presetInfo
+	for _, p := range terms.Presets() {
+		pi := presetInfo{Name: p.Name, Title: p.Title, Source: p.Source, Families: p.Families, Mirror: p.Mirror, Dispersion: p.Dispersion, Example: p.Example}
+		for _, t := range p.Terms {
+			id := t.ID
+			if t.Family > 0 {
+				id = fmt.Sprintf("%s@f%d", t.ID, t.Family)
+			}
+			pi.Terms = append(pi.Terms, id)
+		}
+		ps = append(ps, pi)
+	}
+	return ts, ps
+}
+
+func newTermsCmd() *cobra.Command {
+	var asJSON bool
+	cmd := &cobra.Command{
+		Use:   "terms",
+		Short: "List the catalogue of energy terms and the classical presets",
+		Long: `terms lists every strain-energy shape weft can use: its id (as written in
+model cards and --terms), the shifted invariant it acts on, its formula, its
+non-linear parameters with bounds and defaults, what its weight means, and
+whether it keeps the energy polyconvex. Then the classical models available
+as presets (--preset), written with these terms.`,
+		Example: `  weft terms
+  weft terms --json | jq '.terms[] | select(.polyconvex | not) | .id'`,
+		Args: exactArgs(0),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			ts, ps := catalogueInfo()
+			if asJSON {
+				enc := json.NewEncoder(cmd.OutOrStdout())
+				enc.SetIndent("", "  ")
+				return enc.Encode(map[string]any{"terms": ts, "presets": ps})
+			}
+			return printCatalogue(cmd.OutOrStdout(), ts, ps)
+		},
+	}
+	cmd.Flags().BoolVar(&asJSON, "json", false, "print the catalogue as JSON")
+	return cmd
+}
+
+func printCatalogue(w io.Writer, ts []termInfo, ps []presetInfo) error {
+	fmt.Fprintln(w, "Energy terms (weights w carry the stress unit; Psi is the sum of the terms)")
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "id\targument\tterm\tparameters\tpolyconvex")
+	for _, t := range ts {
+		var ps []string
+		for _, p := range t.Params {
+			ps = append(ps, fmt.Sprintf("%s=%s in [%g, %g], default %g", p.Name, p.Symbol, p.Min, p.Max, p.Default))
+		}
+		poly := "yes"
+		if !t.Polyconvex {
+			poly = "NO"
+		}
+		param := strings.Join(ps, "; ")
+		if param == "" {
+			param = "-"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", t.ID, t.Argument, t.Formula, param, poly)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "What each weight means")
+	for _, t := range ts {
+		fmt.Fprintf(w, "  %-10s %s\n", t.ID, t.Weight)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "Not polyconvex")
+	for _, t := range ts {
+		if !t.Polyconvex {
+			fmt.Fprintf(w, "  %-10s %s\n", t.ID, t.Note)
+		}
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "Presets (classical models written with catalogue terms; @f1/@f2 marks a fibre family)")
+	tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "name\tmodel\tterms\tfamilies")
+	for _, p := range ps {
+		fam := fmt.Sprint(p.Families)
+		if p.Mirror {
+			fam += " (mirror pair)"
+		}
+		if p.Dispersion {
+			fam += ", dispersion"
+		}
+		fmt.Fprintf(tw, "%s\t%s (%s)\t%s\t%s\n", p.Name, p.Title, p.Source, strings.Join(p.Terms, " + "), fam)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "Arguments: I1-3, I2-3; E_f = kappa(I1-3) + (1-3 kappa)(I4-1), zero while I4 <= 1;")
+	fmt.Fprintln(w, "K-1 with K = I5 - I1 I4 + I2; I5-1, zero while I4 <= 1. See the README for conventions.")
+	return nil
+}

@@ -532,3 +532,19 @@ func (c *Card) Marshal() ([]byte, error) {
 	out.WriteByte('\n')
 	return out.Bytes(), nil
 }
+
+// DataRange is the span of the data a model was fitted to, stored in a
+// fitted card under the key "data_range". Queries outside it extrapolate.
+type DataRange struct {
+	// Stretch1 and Stretch2 are the [min, max] of F11 and F22 over the kept
+	// points (dimensionless).
+	Stretch1 [2]float64 `json:"stretch_1"`
+	Stretch2 [2]float64 `json:"stretch_2"`
+	// Shear is the [min, max] of F12 and F21 together (zero for pure
+	// biaxial data).
+	Shear [2]float64 `json:"shear"`
+	// FibreStretch is the [min, max] of √I4 per family, in families order.
+	FibreStretch [][2]float64 `json:"fibre_stretch,omitempty"`
+	// StressKind is "cauchy" or "nominal", the measure the fit used.
+	StressKind string `json:"stress_kind,omitempty"`
+}

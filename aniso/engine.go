@@ -1,0 +1,302 @@
+package aniso
+
+import (
+	"math"
+)
+
+// engine evaluates the variable-projection objective of one model form on
+// one Problem: for given non-linear parameters θ (angles, dispersion, shape
+// parameters) it fills the stress columns, solves the weights exactly by
+// non-negative least squares, and returns the weighted residual sum of
+// squares. With derivatives it also returns the Jacobian of the residual
+// with respect to θ in the form of Kaufman 1975 (BIT 15:49–57): the
+// derivative of the columns times the weights, projected off the span of
+// the active columns (Golub & Pereyra 1973, SIAM J Numer Anal 10:413–432).
+//
+// Design column g is the sum of the model terms in groups[g] (a mirror pair
+// shares one weight). Model family f takes the angle of structural family
+// famOf[f]; structural angles come from θ through the layout.
+type engine struct {
+	p      *Problem
+	model  *Model
+	groups [][]int
+	famOf  []int
+	layout Layout
+	params []param
+
+	cols     Columns
+	rows, ng int
+	A        []float64 // design columns, column-major rows×ng
+	G, b     []float64 // scaled cross products
+	norm     []float64
+	allowed  []bool
+	nn       nnls
+	w        []float64 // weights of the design columns (unscaled)
+	r        []float64 // residual A w − y
+	v        [][]float64
+	loss     float64
+	feasible bool
+	// skipOverflow drops overflowing columns instead of making the whole
+	// evaluation infeasible (for dictionary scans, where some grid rates
+	// are bound to overflow at large stretch).
+	skipOverflow bool
+}
+
+// paramKind says what a non-linear parameter moves.
+type paramKind int
+
+const (
+	kindAngle paramKind = iota // structural angle parameter (radians)
+	kindKappa                  // dispersion κ of one or both structural families
+	kindShape                  // a shape parameter of one design group
+)
+
+// param is one non-linear parameter of a model form.
+type param struct {
+	Kind paramKind
+	// Name is shown in results, e.g. "angle", "half_angle", "rate[fib-expsq]".
+	Name string
+	// Angle is the structural angle index (0 or 1) for kindAngle.
+	Angle int
+	// Families are the structural families a κ parameter sets.
+	Families []int
+	// Group and Index locate a shape parameter.
+	Group, Index int
+	// Lo and Hi bound the parameter; Periodic angles wrap with period π.
+	Lo, Hi   float64
+	Periodic bool
+}
+
+func newEngine(p *Problem, m *Model, groups [][]int, famOf []int, layout Layout, params []param) *engine {
+	e := &engine{p: p, model: m, groups: groups, famOf: famOf, layout: layout, params: params}
+	e.rows, e.ng = p.Rows(), len(groups)
+	e.A = make([]float64, e.rows*e.ng)
+	e.G = make([]float64, e.ng*e.ng)
+	e.b = make([]float64, e.ng)
+	e.norm = make([]float64, e.ng)
+	e.allowed = make([]bool, e.ng)
+	e.w = make([]float64, e.ng)
+	e.r = make([]float64, e.rows)
+	e.v = make([][]float64, len(params))
+	for i := range e.v {
+		e.v[i] = make([]float64, e.rows)
+	}
+	return e
+}
+
+// structuralAngles maps the angle parameters to the structural families'
+// angles: one family α; a mirror pair θ ± β; two free angles α1, α2.
+func structuralAngles(layout Layout, a0, a1 float64) [2]float64 {
+	switch layout {
+	case LayoutMirror:
+		return [2]float64{a0 + a1, a0 - a1}
+	case LayoutFree:
+		return [2]float64{a0, a1}
+	}
+	return [2]float64{a0, 0}
+}
+
+// angleCoef is ∂(structural angle sf)/∂(angle parameter a).
+func angleCoef(layout Layout, a, sf int) float64 {
+	switch layout {
+	case LayoutMirror:
+		if a == 1 && sf == 1 {
+			return -1
+		}
+		return 1
+	case LayoutFree:
+		if a == sf {
+			return 1
+		}
+		return 0
+	}
+	if a == 0 && sf == 0 {
+		return 1
+	}
+	return 0
+}
+
+// apply writes θ into the model.
+func (e *engine) apply(theta []float64) {
+	var ang [2]float64
+	for i, q := range e.params {
+		if q.Kind == kindAngle {
+			ang[q.Angle] = theta[i]
+		}
+	}
+	sa := structuralAngles(e.layout, ang[0], ang[1])
+	for f := range e.model.Families {
+		e.model.Families[f].Angle = sa[e.famOf[f]]
+	}
+	for i, q := range e.params {
+		switch q.Kind {
+		case kindKappa:
+			for f := range e.model.Families {
+				for _, sf := range q.Families {
+					if e.famOf[f] == sf {
+						e.model.Families[f].Dispersion = theta[i]
+					}
+				}
+			}
+		case kindShape:
+			for _, k := range e.groups[q.Group] {
+				e.model.Terms[k].Params[q.Index] = theta[i]
+			}
+		}
+	}
+}
+
+// eval computes the objective at θ; with derivs it also fills e.v with the
+// unprojected derivative vectors ∂(A w)/∂θ_i. It returns the loss, +Inf when
+// a column overflows.
+func (e *engine) eval(theta []float64, derivs bool) float64 {
+	e.apply(theta)
+	e.p.Data.Fill(e.model, &e.cols, derivs)
+	rows, ng := e.rows, e.ng
+	e.feasible = true
+	for g, members := range e.groups {
+		a := e.A[g*rows : (g+1)*rows]
+		copy(a, e.cols.A[members[0]*rows:(members[0]+1)*rows])
+		for _, k := range members[1:] {
+			src := e.cols.A[k*rows : (k+1)*rows]
+			for r := range a {
+				a[r] += src[r]
+			}
+		}
+		s := 0.0
+		for _, x := range a {
+			s += x * x
+		}
+		if (math.IsInf(s, 0) || math.IsNaN(s)) && !e.skipOverflow {
+			e.feasible = false
+		}
+		e.norm[g] = math.Sqrt(s)
+		e.allowed[g] = s > 0 && !math.IsInf(s, 0) && !math.IsNaN(s)
+	}
+	if !e.feasible {
+		e.loss = math.Inf(1)
+		return e.loss
+	}
+	y := e.p.Target
+	for i := 0; i < ng; i++ {
+		ai := e.A[i*rows : (i+1)*rows]
+		if !e.allowed[i] {
+			for j := 0; j < ng; j++ {
+				e.G[i*ng+j], e.G[j*ng+i] = 0, 0
+			}
+			e.b[i] = 0
+			continue
+		}
+		for j := 0; j <= i; j++ {
+			if !e.allowed[j] {
+				continue
+			}
+			aj := e.A[j*rows : (j+1)*rows]
+			s := 0.0
+			for r := range ai {
+				s += ai[r] * aj[r]
+			}
+			s /= e.norm[i] * e.norm[j]
+			e.G[i*ng+j], e.G[j*ng+i] = s, s
+		}
+		s := 0.0
+		for r := range ai {
+			s += ai[r] * y[r]
+		}
+		e.b[i] = s / e.norm[i]
+	}
+	ws := e.nn.solve(e.G, e.b, ng, e.allowed)
+	for g := range e.w {
+		e.w[g] = 0
+		if ws[g] > 0 {
+			e.w[g] = ws[g] / e.norm[g]
+		}
+	}
+	copy(e.r, y)
+	for r := range e.r {
+		e.r[r] = -e.r[r]
+	}
+	for g, w := range e.w {
+		if w == 0 {
+			continue
+		}
+		a := e.A[g*rows : (g+1)*rows]
+		for r := range e.r {
+			e.r[r] += w * a[r]
+		}
+	}
+	loss := 0.0
+	for _, x := range e.r {
+		loss += x * x
+	}
+	e.loss = loss
+	if derivs {
+		e.derivatives()
+	}
+	return loss
+}
+
+// derivatives fills e.v[i] = Σ_g w_g ∂A_g/∂θ_i.
+func (e *engine) derivatives() {
+	rows := e.rows
+	for i, q := range e.params {
+		v := e.v[i]
+		clear(v)
+		for g, members := range e.groups {
+			w := e.w[g]
+			if w == 0 {
+				continue
+			}
+			for _, k := range members {
+				t := &e.model.Terms[k]
+				var src []float64
+				c := 1.0
+				switch q.Kind {
+				case kindAngle:
+					if t.Family < 0 {
+						continue
+					}
+					c = angleCoef(e.layout, q.Angle, e.famOf[t.Family])
+					src = e.cols.DAngle
+				case kindKappa:
+					if t.Family < 0 || !containsInt(q.Families, e.famOf[t.Family]) {
+						continue
+					}
+					src = e.cols.DKappa
+				case kindShape:
+					if g != q.Group {
+						continue
+					}
+					src = e.cols.DParam[q.Index]
+				}
+				if c == 0 {
+					continue
+				}
+				d := src[k*rows : (k+1)*rows]
+				for r := range v {
+					v[r] += c * w * d[r]
+				}
+			}
+		}
+	}
+}
+
+func containsInt(s []int, x int) bool {
+	for _, v := range s {
+		if v == x {
+			return true
+		}
+	}
+	return false
+}
+
+// activeGroups returns the design groups with a positive weight.
+func (e *engine) activeGroups() []int {
+	var act []int
+	for g, w := range e.w {
+		if w > 0 {
+			act = append(act, g)
+		}
+	}
+	return act
+}

@@ -1,0 +1,687 @@
+package aniso
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+// Layout is how fibre families are arranged in a model form.
+type Layout int
+
+const (
+	// LayoutNone has no fibre family: an isotropic model.
+	LayoutNone Layout = iota
+	// LayoutSingle has one family at a learned angle α.
+	LayoutSingle
+	// LayoutMirror has two families at θ + β and θ − β sharing every fibre
+	// term's weight and parameters (Holzapfel, Gasser & Ogden 2000).
+	LayoutMirror
+	// LayoutFree has two families at independent angles α1, α2, each with
+	// its own fibre terms.
+	LayoutFree
+)
+
+// String returns "none", "single", "mirror" or "free".
+func (l Layout) String() string {
+	return [...]string{"none", "single", "mirror", "free"}[l]
+}
+
+// Families returns the number of fibre families of the layout.
+func (l Layout) Families() int {
+	switch l {
+	case LayoutNone:
+		return 0
+	case LayoutSingle:
+		return 1
+	}
+	return 2
+}
+
+// TermSpec is one term of a model form: a catalogue shape and, for fibre
+// shapes, its family.
+type TermSpec struct {
+	Shape *terms.Shape
+	// Family is −1 for isotropic shapes and 0 or 1 for fibre shapes. In a
+	// mirror layout fibre terms use Family 0 and act on both members.
+	Family int
+}
+
+// Label names the term as in results, e.g. "fib-expsq@f1".
+func (t TermSpec) Label(l Layout) string {
+	if t.Family < 0 {
+		return t.Shape.ID
+	}
+	if l == LayoutMirror {
+		return t.Shape.ID + "@pair"
+	}
+	return fmt.Sprintf("%s@f%d", t.Shape.ID, t.Family+1)
+}
+
+// Structure is a model form to fit: its terms, fibre layout and whether
+// each family has a learned dispersion κ.
+type Structure struct {
+	Terms      []TermSpec
+	Layout     Layout
+	Dispersion bool
+}
+
+// Validate checks that the terms fit the layout.
+func (s Structure) Validate() error {
+	if len(s.Terms) == 0 {
+		return errors.New("no terms: give at least one energy term")
+	}
+	nf := s.Layout.Families()
+	fibre := false
+	for _, t := range s.Terms {
+		if t.Shape == nil {
+			return errors.New("a term has no shape")
+		}
+		if !t.Shape.Arg.NeedsFamily() {
+			if t.Family != -1 {
+				return fmt.Errorf("%s is isotropic and takes no family", t.Shape.ID)
+			}
+			continue
+		}
+		fibre = true
+		if nf == 0 {
+			return fmt.Errorf("%s is a fibre-family term but the model has no fibre family; ask for 1 or 2 families", t.Shape.ID)
+		}
+		if t.Family < 0 || t.Family >= nf || (s.Layout == LayoutMirror && t.Family != 0) {
+			return fmt.Errorf("%s: family %d does not exist in a %s layout", t.Shape.ID, t.Family, s.Layout)
+		}
+	}
+	if nf > 0 && !fibre {
+		return fmt.Errorf("%d fibre famil(ies) but no fibre term; add one such as fib-expsq", nf)
+	}
+	if s.Dispersion && nf == 0 {
+		return errors.New("dispersion needs a fibre family")
+	}
+	return nil
+}
+
+// Settings tune a fit. The zero value gives the defaults.
+type Settings struct {
+	// ScanStepDeg is the coarse angle scan step in degrees: default 2.5
+	// for one angle, 7.5 for two.
+	ScanStepDeg float64
+	// Starts is how many of the best scan minima are refined locally
+	// (default 3).
+	Starts int
+	// MaxIterations bounds each local refinement (default 200).
+	MaxIterations int
+	// Profile computes the profile of the loss over every angle parameter
+	// (needed for profile-likelihood intervals and the report).
+	Profile bool
+	// ProfileStepDeg is the profile's grid step in degrees (default 2).
+	ProfileStepDeg float64
+}
+
+func (s Settings) withDefaults(nAngles int) Settings {
+	if s.ScanStepDeg <= 0 {
+		s.ScanStepDeg = 2.5
+		if nAngles == 2 {
+			s.ScanStepDeg = 7.5
+		}
+	}
+	if s.Starts <= 0 {
+		s.Starts = 3
+	}
+	if s.MaxIterations <= 0 {
+		s.MaxIterations = 200
+	}
+	if s.ProfileStepDeg <= 0 {
+		s.ProfileStepDeg = 2
+	}
+	return s
+}
+
+// Estimate is one fitted quantity with its uncertainty.
+type Estimate struct {
+	// Name identifies it, e.g. "weight[i1-lin]", "angle", "rate[fib-expsq@f1]".
+	Name string
+	// Kind is "weight", "angle", "dispersion" or "shape".
+	Kind string
+	// Term is the index into Structure.Terms for weights and shape
+	// parameters, −1 otherwise.
+	Term int
+	// Value is the estimate in Unit ("deg" for angles, the stress unit for
+	// weights, "" when dimensionless).
+	Value float64
+	Unit  string
+	// StdErr and the 95 % interval [Lo, Hi] come from the Gauss–Newton
+	// covariance scaled by the residual variance; they are NaN when Status
+	// is not "estimated".
+	StdErr, Lo, Hi float64
+	// Status is "estimated"; "inactive" for a weight at zero (no symmetric
+	// interval makes sense at the w ≥ 0 bound); "at-bound" for a parameter
+	// held at a bound; "not-determined" when the data cannot fix it.
+	Status string
+}
+
+// Metric is the fit quality of one protocol and stress component.
+type Metric struct {
+	Protocol  string
+	Component string
+	Points    int
+	// R2 is 1 − SS_res/SS_tot; R2Defined is false when the measured
+	// stress is constant (SS_tot = 0).
+	R2        float64
+	R2Defined bool
+	// RMSE in the stress unit; NRMSE = RMSE / measured range (0 range: NaN
+	// and NRMSEDefined false).
+	RMSE, NRMSE  float64
+	NRMSEDefined bool
+	// Range is max − min of the measured stress.
+	Range float64
+}
+
+// AngleProfile is the loss over one angle parameter, minimised over all
+// other non-linear parameters and the weights at every grid angle.
+type AngleProfile struct {
+	// Name is the parameter's name ("angle", "angle_1", "mean_angle", ...).
+	Name string
+	// AnglesDeg and Loss are the grid and the profiled loss.
+	AnglesDeg, Loss []float64
+	// OptimumDeg is the fitted value; Threshold the loss level that bounds
+	// the 95 % profile-likelihood interval [LoDeg, HiDeg].
+	OptimumDeg, Threshold float64
+	LoDeg, HiDeg          float64
+	// Closed is false when the loss stays below the threshold to an end of
+	// the range: the data do not bound the angle there.
+	Closed bool
+	// Mirrored is true when only |α| was profiled (no shear information)
+	// and the curve was mirrored to negative angles.
+	Mirrored bool
+}
+
+// Result is a fitted model form with its evidence.
+type Result struct {
+	Structure Structure
+	// Model is the fitted model (mirror terms expanded to both families).
+	Model *Model
+	// Weights are the fitted weights per Structure.Terms, stress unit.
+	Weights []float64
+	// Estimates lists weights, angles, dispersions and shape parameters.
+	Estimates []Estimate
+	// Correlation between the estimated quantities (Status "estimated"),
+	// named by CorrelationNames; Flags name pairs with |r| > 0.95.
+	Correlation      [][]float64
+	CorrelationNames []string
+	Flags            []string
+	// Loss is the weighted residual sum of squares; Rows the number of
+	// residuals; FreeParams the number of estimated quantities (active
+	// weights and non-linear parameters).
+	Loss       float64
+	Rows       int
+	FreeParams int
+	// AICc and BIC from the weighted residual sum of squares.
+	AICc, BIC float64
+	// Metrics per protocol and measured component.
+	Metrics []Metric
+	// Iterations and Evaluations of the local refinements; Elapsed wall
+	// time of the fit (without profiles); ProfileElapsed of the profiles.
+	Iterations, Evaluations int
+	Elapsed, ProfileElapsed time.Duration
+	// SignKnown is true when shear information identifies the angles' sign.
+	SignKnown bool
+	// Notes state what the data can and cannot determine.
+	Notes []string
+	// Profiles over every angle parameter (when Settings.Profile).
+	Profiles []AngleProfile
+
+	e     *engine
+	theta []float64
+}
+
+// build makes the model and the parameter list of a structure.
+func build(st Structure) (*Model, [][]int, []int, []param) {
+	nf := st.Layout.Families()
+	m := &Model{}
+	famOf := make([]int, nf)
+	for f := 0; f < nf; f++ {
+		m.Families = append(m.Families, Family{Name: fmt.Sprintf("f%d", f+1)})
+		famOf[f] = f
+	}
+	var groups [][]int
+	for _, t := range st.Terms {
+		var g []int
+		if t.Family < 0 {
+			g = append(g, len(m.Terms))
+			m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: -1, Params: t.Shape.DefaultParams()})
+		} else if st.Layout == LayoutMirror {
+			for f := 0; f < 2; f++ {
+				g = append(g, len(m.Terms))
+				m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: f, Params: t.Shape.DefaultParams()})
+			}
+		} else {
+			g = append(g, len(m.Terms))
+			m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: t.Family, Params: t.Shape.DefaultParams()})
+		}
+		groups = append(groups, g)
+	}
+	var ps []param
+	switch st.Layout {
+	case LayoutSingle:
+		ps = append(ps, param{Kind: kindAngle, Name: "angle", Angle: 0, Periodic: true})
+	case LayoutMirror:
+		ps = append(ps, param{Kind: kindAngle, Name: "mean_angle", Angle: 0, Periodic: true},
+			param{Kind: kindAngle, Name: "half_angle", Angle: 1, Lo: 0, Hi: math.Pi / 2})
+	case LayoutFree:
+		ps = append(ps, param{Kind: kindAngle, Name: "angle_1", Angle: 0, Periodic: true},
+			param{Kind: kindAngle, Name: "angle_2", Angle: 1, Periodic: true})
+	}
+	if st.Dispersion {
+		switch st.Layout {
+		case LayoutSingle:
+			ps = append(ps, param{Kind: kindKappa, Name: "dispersion", Families: []int{0}, Hi: MaxDispersion})
+		case LayoutMirror:
+			ps = append(ps, param{Kind: kindKappa, Name: "dispersion", Families: []int{0, 1}, Hi: MaxDispersion})
+		case LayoutFree:
+			ps = append(ps, param{Kind: kindKappa, Name: "dispersion_1", Families: []int{0}, Hi: MaxDispersion},
+				param{Kind: kindKappa, Name: "dispersion_2", Families: []int{1}, Hi: MaxDispersion})
+		}
+	}
+	for g, t := range st.Terms {
+		for j, q := range t.Shape.Params {
+			ps = append(ps, param{Kind: kindShape, Name: fmt.Sprintf("%s[%s]", q.Name, t.Label(st.Layout)), Group: g, Index: j, Lo: q.Min, Hi: q.Max})
+		}
+	}
+	return m, groups, famOf, ps
+}
+
+// dictionary grids: rates and limits spread over decades, dispersion over
+// its range. Used only to find starting points.
+var (
+	rateGrid  = []float64{0.3, 3, 30, 300}
+	limitGrid = []float64{0.3, 1, 3, 10, 100}
+	kappaGrid = []float64{0, 0.15, 0.3}
+)
+
+// dictEntry says which structure term, parameter value and κ a dictionary
+// column stands for.
+type dictEntry struct {
+	spec  int
+	param float64
+	hasP  bool
+	kappa int // index into kappaGrid, or −1
+}
+
+// dictionary builds the rate- and dispersion-agnostic model used by the
+// coarse angle scan: every shape parameter and κ replaced by copies on a
+// grid, all in one non-negative least-squares problem, so that a scan over
+// angles alone finds good starting points for everything.
+func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
+	nf := st.Layout.Families()
+	kap := []float64{0}
+	if st.Dispersion {
+		kap = kappaGrid
+	}
+	m := &Model{}
+	var famOf []int
+	famIndex := map[[2]int]int{}
+	for f := 0; f < nf; f++ {
+		for ki, k := range kap {
+			famIndex[[2]int{f, ki}] = len(m.Families)
+			m.Families = append(m.Families, Family{Dispersion: k})
+			famOf = append(famOf, f)
+		}
+	}
+	var groups [][]int
+	var entries []dictEntry
+	for s, t := range st.Terms {
+		values := []float64{math.NaN()}
+		hasP := len(t.Shape.Params) > 0
+		if hasP {
+			grid := rateGrid
+			if t.Shape.Params[0].Name == "limit" {
+				grid = limitGrid
+			}
+			values = values[:0]
+			q := t.Shape.Params[0]
+			for _, v := range grid {
+				if v >= q.Min && v <= q.Max {
+					values = append(values, v)
+				}
+			}
+		}
+		kis := []int{-1}
+		if t.Family >= 0 {
+			kis = kis[:0]
+			for ki := range kap {
+				kis = append(kis, ki)
+			}
+		}
+		for _, v := range values {
+			for _, ki := range kis {
+				params := t.Shape.DefaultParams()
+				if hasP {
+					params[0] = v
+				}
+				var g []int
+				fams := []int{t.Family}
+				if t.Family < 0 {
+					fams = []int{-1}
+				} else if st.Layout == LayoutMirror {
+					fams = []int{0, 1}
+				}
+				for _, sf := range fams {
+					fam := -1
+					if sf >= 0 {
+						fam = famIndex[[2]int{sf, ki}]
+					}
+					g = append(g, len(m.Terms))
+					m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: fam, Params: append([]float64(nil), params...)})
+				}
+				groups = append(groups, g)
+				entries = append(entries, dictEntry{spec: s, param: v, hasP: hasP, kappa: ki})
+			}
+		}
+	}
+	return m, groups, famOf, entries
+}
+
+// scanPoint is one coarse-scan evaluation.
+type scanPoint struct {
+	angles [2]float64
+	loss   float64
+	i, j   int
+}
+
+// Fit learns the weights, fibre angles, dispersion and shape parameters of
+// a model form from a Problem: a coarse scan of the angles over their whole
+// period with a rate- and dispersion-agnostic dictionary, then bounded
+// Levenberg–Marquardt refinement of the variable-projection objective from
+// the best scan minima. The same input gives the same result, bit for bit.
+func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
+	if err := st.Validate(); err != nil {
+		return nil, err
+	}
+	start := time.Now()
+	m, groups, famOf, params := build(st)
+	nAngles := 0
+	for _, q := range params {
+		if q.Kind == kindAngle {
+			nAngles++
+		}
+	}
+	set = set.withDefaults(nAngles)
+	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear}
+
+	starts := coarseStarts(p, st, set, nAngles, params)
+	e := newEngine(p, m, groups, famOf, st.Layout, params)
+	best := math.Inf(1)
+	var bestTheta []float64
+	for _, th := range starts {
+		lr := e.minimize(th, nil, set.MaxIterations)
+		res.Iterations += lr.Iterations
+		res.Evaluations += lr.Evals
+		if lr.Loss < best {
+			best = lr.Loss
+			bestTheta = append([]float64(nil), th...)
+		}
+	}
+	if bestTheta == nil || math.IsInf(best, 1) {
+		return nil, errors.New("every starting point overflows: an exponential or limiting term cannot follow these stretches; try a smaller model, a preset without exponential terms, or check the stress unit")
+	}
+	e.eval(bestTheta, true)
+	res.e, res.theta = e, bestTheta
+	res.Loss = e.loss
+	res.Model = cloneModelDeep(e.model)
+	res.Weights = make([]float64, len(st.Terms))
+	for g, members := range groups {
+		res.Weights[g] = e.w[g]
+		for _, k := range members {
+			res.Model.Terms[k].Weight = e.w[g]
+		}
+	}
+	for f := range res.Model.Families {
+		a := wrapAngle(res.Model.Families[f].Angle)
+		if !p.HasShear {
+			// Only |α| is identified (physics.md §4). Write the first family
+			// at +|α| and the second at −|α|, so that a mirror pair reads as
+			// the usual ±β.
+			a = math.Abs(a)
+			if f == 1 && a != math.Pi/2 {
+				a = -a
+			}
+		}
+		res.Model.Families[f].Angle = a
+	}
+	res.uncertainty(p)
+	res.metrics(p)
+	res.notes(p)
+	res.Elapsed = time.Since(start)
+	if set.Profile && nAngles > 0 {
+		t0 := time.Now()
+		res.profiles(p, set)
+		res.ProfileElapsed = time.Since(t0)
+	}
+	return res, nil
+}
+
+// coarseStarts scans the angle parameters with the dictionary model and
+// returns starting θ vectors for the best local minima.
+func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []param) [][]float64 {
+	dm, dg, dfam, entries := dictionary(st)
+	var dparams []param
+	for _, q := range params {
+		if q.Kind == kindAngle {
+			dparams = append(dparams, q)
+		}
+	}
+	de := newEngine(p, dm, dg, dfam, st.Layout, dparams)
+	de.skipOverflow = true
+	step := set.ScanStepDeg * math.Pi / 180
+	grid := func(q param) []float64 {
+		lo, hi := -math.Pi/2+step, math.Pi/2
+		if !q.Periodic {
+			lo, hi = q.Lo, q.Hi
+		} else if !p.HasShear {
+			// Without shear only |α| matters (mirror symmetry, physics.md §4).
+			lo = 0
+		}
+		var g []float64
+		for x := lo; x <= hi+1e-12; x += step {
+			g = append(g, x)
+		}
+		return g
+	}
+	var pts []scanPoint
+	var g0, g1 []float64
+	switch nAngles {
+	case 0:
+		pts = append(pts, scanPoint{loss: de.eval(nil, false)})
+	case 1:
+		g0 = grid(dparams[0])
+		for i, a := range g0 {
+			pts = append(pts, scanPoint{angles: [2]float64{a}, loss: de.eval([]float64{a}, false), i: i})
+		}
+	case 2:
+		g0, g1 = grid(dparams[0]), grid(dparams[1])
+		for i, a := range g0 {
+			for j, b := range g1 {
+				// Free families are interchangeable: scan α1 ≤ α2 only.
+				if st.Layout == LayoutFree && b < a {
+					pts = append(pts, scanPoint{angles: [2]float64{a, b}, loss: math.NaN(), i: i, j: j})
+					continue
+				}
+				pts = append(pts, scanPoint{angles: [2]float64{a, b}, loss: de.eval([]float64{a, b}, false), i: i, j: j})
+			}
+		}
+	}
+	// Local minima of the scan (periodic in a periodic angle), best first.
+	var cands []scanPoint
+	for k, pt := range pts {
+		if math.IsNaN(pt.loss) || math.IsInf(pt.loss, 1) {
+			continue
+		}
+		if nAngles >= 1 && !isLocalMin(pts, k, len(g0), len(g1), nAngles, dparams, p.HasShear) {
+			continue
+		}
+		cands = append(cands, pt)
+	}
+	sort.SliceStable(cands, func(a, b int) bool { return cands[a].loss < cands[b].loss })
+	if len(cands) > set.Starts {
+		cands = cands[:set.Starts]
+	}
+	var starts [][]float64
+	for _, c := range cands {
+		th := make([]float64, len(params))
+		var ang []float64
+		if nAngles > 0 {
+			ang = c.angles[:nAngles]
+		}
+		de.eval(ang, false)
+		k := 0
+		for i, q := range params {
+			switch q.Kind {
+			case kindAngle:
+				th[i] = c.angles[k]
+				k++
+			case kindKappa:
+				th[i] = dominantKappa(de, entries, st, q.Families)
+			case kindShape:
+				th[i] = dominantParam(de, entries, q)
+			}
+		}
+		starts = append(starts, th)
+	}
+	return starts
+}
+
+func isLocalMin(pts []scanPoint, k, n0, n1, nAngles int, dparams []param, shear bool) bool {
+	l := pts[k].loss
+	at := func(i, j int) float64 {
+		if nAngles == 1 {
+			return pts[i].loss
+		}
+		return pts[i*n1+j].loss
+	}
+	wrap := func(i, n int, q param) (int, bool) {
+		if i >= 0 && i < n {
+			return i, true
+		}
+		if q.Periodic && shear {
+			return (i + n) % n, true
+		}
+		return 0, false
+	}
+	i, j := pts[k].i, pts[k].j
+	for di := -1; di <= 1; di++ {
+		for dj := -1; dj <= 1; dj++ {
+			if di == 0 && dj == 0 || (nAngles == 1 && dj != 0) {
+				continue
+			}
+			ii, ok := wrap(i+di, n0, dparams[0])
+			if !ok {
+				continue
+			}
+			jj := 0
+			if nAngles == 2 {
+				jj, ok = wrap(j+dj, n1, dparams[1])
+				if !ok {
+					continue
+				}
+			}
+			v := at(ii, jj)
+			if !math.IsNaN(v) && v < l {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// dominantParam returns the grid value of a structure term's shape
+// parameter whose dictionary column carries the largest share of stress.
+func dominantParam(de *engine, entries []dictEntry, q param) float64 {
+	best, v := 0.0, math.NaN()
+	for g, en := range entries {
+		if en.spec != q.Group || !en.hasP {
+			continue
+		}
+		if c := de.w[g] * de.norm[g]; c > best {
+			best, v = c, en.param
+		}
+	}
+	if math.IsNaN(v) {
+		return math.Min(q.Hi, math.Max(q.Lo, 1))
+	}
+	return v
+}
+
+// dominantKappa returns the dispersion of the dictionary fibre column with
+// the largest share of stress in the given structural families.
+func dominantKappa(de *engine, entries []dictEntry, st Structure, fams []int) float64 {
+	best, v := 0.0, 0.0
+	for g, en := range entries {
+		if en.kappa < 0 {
+			continue
+		}
+		t := st.Terms[en.spec]
+		if !containsInt(fams, t.Family) {
+			continue
+		}
+		if c := de.w[g] * de.norm[g]; c > best {
+			best, v = c, kappaGrid[en.kappa]
+		}
+	}
+	return v
+}
+
+func cloneModelDeep(m *Model) *Model {
+	c := &Model{Families: append([]Family(nil), m.Families...)}
+	for _, t := range m.Terms {
+		t.Params = append([]float64(nil), t.Params...)
+		c.Terms = append(c.Terms, t)
+	}
+	return c
+}
+
+// notes writes what the data can and cannot determine (physics.md §4).
+func (r *Result) notes(p *Problem) {
+	nf := r.Structure.Layout.Families()
+	if nf > 0 {
+		if p.HasShear {
+			r.Notes = append(r.Notes, "The data carry shear information (F12/F21 or a shear stress), so the sign of each fibre angle is identified.")
+		} else {
+			r.Notes = append(r.Notes, "The data carry no shear information (pure biaxial stretch, no shear stress measured): the sign of a fibre angle cannot be determined, so angles are reported as ±|α|, and one family at α cannot be told from a mirror pair at ±α with half the weight each. Shear from markers or an off-axis protocol would decide it.")
+		}
+	}
+	if r.Structure.Dispersion {
+		for _, t := range r.Structure.Terms {
+			if t.Shape.Arg == terms.I1 && len(t.Shape.Params) > 0 {
+				r.Notes = append(r.Notes, "A dispersed fibre family acts partly like an isotropic I1 term; dispersion and "+t.Shape.ID+" compete, see the correlation flags.")
+				break
+			}
+		}
+	}
+	for _, t := range r.Model.Terms {
+		if t.Weight > 0 && (t.Shape.Arg == terms.Fifth || t.Shape.Arg == terms.Cofactor) {
+			r.Notes = append(r.Notes, "Planar biaxial data constrain the in-plane response only; the out-of-plane and I5 response is not fully determined by them (Holzapfel & Ogden 2009).")
+			break
+		}
+	}
+	for _, est := range r.Estimates {
+		if est.Status == "at-bound" {
+			r.Notes = append(r.Notes, fmt.Sprintf("%s sits at a bound of its range (%g); the data push it there, so treat it as a limit, not an estimate.", est.Name, est.Value))
+		}
+	}
+}
+
+// Summary is a one-line description of the fitted form.
+func (r *Result) Summary() string {
+	var ids []string
+	for i, t := range r.Structure.Terms {
+		if r.Weights[i] > 0 {
+			ids = append(ids, t.Label(r.Structure.Layout))
+		}
+	}
+	return fmt.Sprintf("%s, %s layout, loss %.4g", strings.Join(ids, " + "), r.Structure.Layout, r.Loss)
+}

@@ -1,0 +1,235 @@
+package aniso
+
+import (
+	"math"
+)
+
+// cholSolve solves M X = B for symmetric positive definite n×n row-major M
+// and n×k row-major B, in place in B; M is overwritten by its factor. It
+// adds a relative ridge to the diagonal and reports false when M is not
+// positive definite even then.
+func cholSolve(M []float64, n int, B []float64, k int, ridge float64) bool {
+	for i := 0; i < n; i++ {
+		for j := 0; j <= i; j++ {
+			v := M[i*n+j]
+			if i == j {
+				v += ridge * math.Max(math.Abs(v), 1e-300)
+			}
+			for p := 0; p < j; p++ {
+				v -= M[i*n+p] * M[j*n+p]
+			}
+			if i == j {
+				if !(v > 0) {
+					return false
+				}
+				M[i*n+i] = math.Sqrt(v)
+			} else {
+				M[i*n+j] = v / M[j*n+j]
+			}
+		}
+	}
+	for c := 0; c < k; c++ {
+		for i := 0; i < n; i++ {
+			v := B[i*k+c]
+			for p := 0; p < i; p++ {
+				v -= M[i*n+p] * B[p*k+c]
+			}
+			B[i*k+c] = v / M[i*n+i]
+		}
+		for i := n - 1; i >= 0; i-- {
+			v := B[i*k+c]
+			for p := i + 1; p < n; p++ {
+				v -= M[p*n+i] * B[p*k+c]
+			}
+			B[i*k+c] = v / M[i*n+i]
+		}
+	}
+	return true
+}
+
+// wrapAngle maps an angle in radians into (−π/2, π/2].
+func wrapAngle(a float64) float64 {
+	a = math.Mod(a, math.Pi)
+	if a > math.Pi/2 {
+		a -= math.Pi
+	} else if a <= -math.Pi/2 {
+		a += math.Pi
+	}
+	return a
+}
+
+// project keeps θ_i within its bounds (wrapping periodic angles).
+func (q *param) project(x float64) float64 {
+	if q.Periodic {
+		return wrapAngle(x)
+	}
+	return math.Min(q.Hi, math.Max(q.Lo, x))
+}
+
+// gradHess returns g = Jᵀr and H = JᵀJ over the parameters in idx, with J
+// the variable-projection Jacobian (derivative vectors projected off the
+// active columns). The engine must hold a derivative evaluation.
+func (e *engine) gradHess(idx []int) (g, H []float64) {
+	q := len(idx)
+	g = make([]float64, q)
+	H = make([]float64, q*q)
+	for a, i := range idx {
+		vi := e.v[i]
+		s := 0.0
+		for r, x := range vi {
+			s += x * e.r[r]
+		}
+		g[a] = s
+		for b := 0; b <= a; b++ {
+			vj := e.v[idx[b]]
+			s := 0.0
+			for r, x := range vi {
+				s += x * vj[r]
+			}
+			H[a*q+b], H[b*q+a] = s, s
+		}
+	}
+	act := e.activeGroups()
+	p := len(act)
+	if p == 0 || q == 0 {
+		return g, H
+	}
+	// C = A_Pᵀ v (p×q), M = A_PᵀA_P; H −= Cᵀ M⁻¹ C.
+	C := make([]float64, p*q)
+	for a, gi := range act {
+		col := e.A[gi*e.rows : (gi+1)*e.rows]
+		for b, i := range idx {
+			s := 0.0
+			for r, x := range col {
+				s += x * e.v[i][r]
+			}
+			C[a*q+b] = s
+		}
+	}
+	M := make([]float64, p*p)
+	for a, gi := range act {
+		for b, gj := range act {
+			M[a*p+b] = e.G[gi*e.ng+gj] * e.norm[gi] * e.norm[gj]
+		}
+	}
+	X := append([]float64(nil), C...)
+	if !cholSolve(M, p, X, q, 1e-12) {
+		return g, H
+	}
+	for a := 0; a < q; a++ {
+		for b := 0; b < q; b++ {
+			s := 0.0
+			for c := 0; c < p; c++ {
+				s += C[c*q+a] * X[c*q+b]
+			}
+			H[a*q+b] -= s
+		}
+	}
+	return g, H
+}
+
+// lmResult reports one local minimisation.
+type lmResult struct {
+	Loss       float64
+	Iterations int
+	Evals      int
+}
+
+// minimize runs a bounded Levenberg–Marquardt iteration (Marquardt 1963)
+// on the variable-projection objective from theta, changing only the
+// parameters with free[i] (nil: all). theta is updated in place; on return
+// the engine holds a derivative evaluation at theta.
+func (e *engine) minimize(theta []float64, free []bool, maxIter int) lmResult {
+	res := lmResult{}
+	loss := e.eval(theta, true)
+	res.Evals++
+	if math.IsInf(loss, 1) {
+		res.Loss = loss
+		return res
+	}
+	lambda := 1e-3
+	trial := make([]float64, len(theta))
+	stale := false
+	small := 0
+	for res.Iterations < maxIter && loss > 0 {
+		res.Iterations++
+		var idx []int
+		for i := range theta {
+			if free == nil || free[i] {
+				idx = append(idx, i)
+			}
+		}
+		if len(idx) == 0 {
+			break
+		}
+		g, H := e.gradHess(idx)
+		// Drop parameters held at a bound by the descent direction.
+		var keep []int
+		for a, i := range idx {
+			q := &e.params[i]
+			if !q.Periodic && ((theta[i] <= q.Lo && g[a] > 0) || (theta[i] >= q.Hi && g[a] < 0)) {
+				continue
+			}
+			keep = append(keep, a)
+		}
+		if len(keep) == 0 {
+			break
+		}
+		k := len(keep)
+		accepted := false
+		for tries := 0; tries < 12; tries++ {
+			M := make([]float64, k*k)
+			rhs := make([]float64, k)
+			maxDiag := 0.0
+			for a := range keep {
+				maxDiag = math.Max(maxDiag, H[keep[a]*len(idx)+keep[a]])
+			}
+			for a, ia := range keep {
+				for b, ib := range keep {
+					M[a*k+b] = H[ia*len(idx)+ib]
+				}
+				M[a*k+a] += lambda * (H[ia*len(idx)+ia] + 1e-9*maxDiag + 1e-300)
+				rhs[a] = -g[ia]
+			}
+			if !cholSolve(M, k, rhs, 1, 1e-12) {
+				lambda *= 10
+				continue
+			}
+			copy(trial, theta)
+			for a, ia := range keep {
+				i := idx[ia]
+				trial[i] = e.params[i].project(theta[i] + rhs[a])
+			}
+			tl := e.eval(trial, true)
+			res.Evals++
+			if tl < loss {
+				rel := (loss - tl) / loss
+				copy(theta, trial)
+				loss = tl
+				lambda = math.Max(lambda/3, 1e-12)
+				accepted = true
+				stale = false
+				if rel < 1e-10 {
+					small++
+				} else {
+					small = 0
+				}
+				break
+			}
+			stale = true
+			lambda *= 4
+			if lambda > 1e12 {
+				break
+			}
+		}
+		if !accepted || small >= 2 {
+			break
+		}
+	}
+	if stale {
+		loss = e.eval(theta, true)
+		res.Evals++
+	}
+	res.Loss = loss
+	return res
+}

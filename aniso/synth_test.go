@@ -1,0 +1,188 @@
+package aniso
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/terms"
+)
+
+// Test data are generated here from known parameters (invented, or quoted
+// from the literature from memory where a test says so), with Gaussian
+// noise of a stated fraction of each protocol-axis stress range.
+
+// standardRatios are the usual stretch-ratio protocols (common practice;
+// physics.md §3).
+var standardRatios = [][2]float64{{1, 1}, {1, 0.75}, {0.75, 1}, {1, 0.5}, {0.5, 1}}
+
+type synthOptions struct {
+	ratios    [][2]float64
+	points    int
+	maxStrain float64 // largest λ − 1 of the leading axis
+	noise     float64 // noise σ as a fraction of each protocol-axis range
+	seed      uint64
+	sutured   bool // shear free edges: solve F12, F21 so that P12 = P21 = 0
+	cauchy    bool
+}
+
+func (o synthOptions) withDefaults() synthOptions {
+	if o.ratios == nil {
+		o.ratios = standardRatios
+	}
+	if o.points == 0 {
+		o.points = 40
+	}
+	if o.maxStrain == 0 {
+		o.maxStrain = 0.25
+	}
+	if o.seed == 0 {
+		o.seed = 7
+	}
+	return o
+}
+
+func label(r [2]float64) string {
+	f := func(x float64) string {
+		switch x {
+		case 1:
+			return "1"
+		case 0.75:
+			return "0.75"
+		case 0.5:
+			return "0.5"
+		case 0.25:
+			return "0.25"
+		case 0:
+			return "0"
+		}
+		return "x"
+	}
+	return f(r[0]) + ":" + f(r[1])
+}
+
+// synthSpecimen generates a specimen from a known model.
+func synthSpecimen(t testing.TB, m *Model, o synthOptions) *biaxial.Specimen {
+	t.Helper()
+	o = o.withDefaults()
+	rng := rand.New(rand.NewPCG(o.seed, 99))
+	s := &biaxial.Specimen{Name: "synthetic", StressUnit: "kPa", Kind: biaxial.Nominal, HasShear: o.sutured}
+	if o.cauchy {
+		s.Kind = biaxial.Cauchy
+	}
+	s.Measured[biaxial.C11], s.Measured[biaxial.C22] = true, true
+	if o.sutured {
+		s.Measured[biaxial.C12] = true
+		s.Measured[biaxial.C21] = !o.cauchy
+	}
+	for _, r := range o.ratios {
+		pr := biaxial.Protocol{Label: label(r), UserWeight: 1}
+		var shear [2]float64
+		for i := 1; i <= o.points; i++ {
+			e := o.maxStrain * float64(i) / float64(o.points)
+			F := [4]float64{1 + r[0]*e, 0, 0, 1 + r[1]*e}
+			if o.sutured {
+				shear = solveSutured(t, m, F, shear)
+				F[1], F[2] = shear[0], shear[1]
+			}
+			res, err := m.Evaluate(F)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pt := biaxial.Point{F: F, Line: i + 1, Cycle: 1, Time: math.NaN()}
+			if o.cauchy {
+				pt.Stress = [4]float64{res.Cauchy[0], res.Cauchy[1], res.Cauchy[2], 0}
+			} else {
+				pt.Stress = res.Nominal
+			}
+			if o.sutured && !o.cauchy {
+				// Sutures carry no shear: the measured shear stresses are zero.
+				pt.Stress[2], pt.Stress[3] = 0, 0
+			}
+			pr.Points = append(pr.Points, pt)
+		}
+		// Noise on the normal components, and default weights: each
+		// protocol and axis counts equally; shear rows use the mean range of
+		// the normal components (their own range may be zero).
+		for c := biaxial.C11; c <= biaxial.C22; c++ {
+			lo, hi := math.Inf(1), math.Inf(-1)
+			for _, pt := range pr.Points {
+				lo, hi = math.Min(lo, pt.Stress[c]), math.Max(hi, pt.Stress[c])
+			}
+			rg := hi - lo
+			for i := range pr.Points {
+				pr.Points[i].Stress[c] += o.noise * rg * rng.NormFloat64()
+			}
+			if rg == 0 {
+				rg = 1 // all-zero stress: weigh rows equally
+			}
+			pr.Weight[c] = 1 / (rg * math.Sqrt(float64(len(pr.Points))))
+		}
+		for c := biaxial.C12; c < biaxial.NumComponents; c++ {
+			if s.Measured[c] {
+				pr.Weight[c] = 2 / (1/pr.Weight[0] + 1/pr.Weight[1])
+			}
+		}
+		s.Protocols = append(s.Protocols, pr)
+	}
+	return s
+}
+
+// solveSutured finds F12, F21 such that the shear nominal stresses vanish
+// (a specimen on sutures), by Newton's method with a finite-difference
+// Jacobian starting from the previous point's solution.
+func solveSutured(t testing.TB, m *Model, F [4]float64, start [2]float64) [2]float64 {
+	x := start
+	res := func(x [2]float64) [2]float64 {
+		G := F
+		G[1], G[2] = x[0], x[1]
+		r, err := m.Evaluate(G)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return [2]float64{r.Nominal[2], r.Nominal[3]}
+	}
+	for it := 0; it < 50; it++ {
+		r := res(x)
+		if math.Abs(r[0])+math.Abs(r[1]) < 1e-12 {
+			return x
+		}
+		const h = 1e-7
+		var J [2][2]float64
+		for j := 0; j < 2; j++ {
+			xp := x
+			xp[j] += h
+			rp := res(xp)
+			J[0][j], J[1][j] = (rp[0]-r[0])/h, (rp[1]-r[1])/h
+		}
+		det := J[0][0]*J[1][1] - J[0][1]*J[1][0]
+		dx0 := (-r[0]*J[1][1] + r[1]*J[0][1]) / det
+		dx1 := (-J[0][0]*r[1] + J[1][0]*r[0]) / det
+		x[0] += dx0
+		x[1] += dx1
+	}
+	t.Fatalf("sutured shear did not converge at F=%v", F)
+	return x
+}
+
+func lookup(id string) *terms.Shape { return terms.Lookup(id) }
+
+// hgoModel is a mirror pair at ±beta with the fibre energy of Holzapfel,
+// Gasser & Ogden 2000.
+func hgoModel(c, k1, k2, betaDeg float64) *Model {
+	return &Model{
+		Families: []Family{{Name: "f1", Angle: betaDeg * deg}, {Name: "f2", Angle: -betaDeg * deg}},
+		Terms: []Term{
+			{Shape: lookup("i1-lin"), Family: -1, Weight: c / 2},
+			{Shape: lookup("fib-expsq"), Family: 0, Weight: k1, Params: []float64{k2}},
+			{Shape: lookup("fib-expsq"), Family: 1, Weight: k1, Params: []float64{k2}},
+		},
+	}
+}
+
+func oneFamily(matrix Term, fibre Term, angleDeg float64) *Model {
+	fibre.Family = 0
+	matrix.Family = -1
+	return &Model{Families: []Family{{Name: "f1", Angle: angleDeg * deg}}, Terms: []Term{matrix, fibre}}
+}

@@ -1,0 +1,391 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// CorrelationFlagLevel is the |r| above which two estimates are flagged as
+// not separately determined.
+const CorrelationFlagLevel = 0.95
+
+// uncertainty fills Estimates, Correlation and Flags from the Gauss–Newton
+// covariance at the optimum, σ̂²(JᵀJ)⁻¹ with σ̂² = loss/(rows − free), J the
+// Jacobian of the weighted residuals with respect to the active weights and
+// the non-linear parameters (Bates & Watts 1988, Nonlinear Regression
+// Analysis and Its Applications, §2.3). Weights at zero are inactive and
+// parameters at a bound are held, not given a symmetric interval.
+func (r *Result) uncertainty(p *Problem) {
+	e := r.e
+	unit := p.Specimen.StressUnit
+	type col struct {
+		est int
+		v   []float64
+	}
+	var cols []col
+	for g, t := range r.Structure.Terms {
+		est := Estimate{Name: "weight[" + t.Label(r.Structure.Layout) + "]", Kind: "weight", Term: g, Value: e.w[g], Unit: unit,
+			StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: "estimated"}
+		if e.w[g] <= 0 {
+			est.Status = "inactive"
+		} else {
+			cols = append(cols, col{len(r.Estimates), e.A[g*e.rows : (g+1)*e.rows]})
+		}
+		r.Estimates = append(r.Estimates, est)
+	}
+	for i, q := range e.params {
+		v := r.theta[i]
+		est := Estimate{Name: q.Name, Term: -1, Value: v, StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: "estimated"}
+		switch q.Kind {
+		case kindAngle:
+			est.Kind, est.Unit = "angle", "deg"
+			if q.Periodic {
+				est.Value = wrapAngle(v) * 180 / math.Pi
+				if !p.HasShear {
+					// Only |α| is identified without shear information.
+					est.Value = math.Abs(est.Value)
+				}
+			} else {
+				est.Value = v * 180 / math.Pi
+			}
+		case kindKappa:
+			est.Kind = "dispersion"
+		case kindShape:
+			est.Kind, est.Term = "shape", q.Group
+		}
+		if !q.Periodic && (v <= q.Lo || v >= q.Hi) {
+			est.Status = "at-bound"
+		}
+		// A shape parameter of an inactive term has no effect on the fit.
+		if q.Kind == kindShape && e.w[q.Group] <= 0 {
+			est.Status = "inactive"
+		}
+		if q.Kind == kindAngle || q.Kind == kindKappa {
+			if !r.anyFibreActive() {
+				est.Status = "not-determined"
+			}
+		}
+		if est.Status == "estimated" {
+			cols = append(cols, col{len(r.Estimates), e.v[i]})
+		}
+		r.Estimates = append(r.Estimates, est)
+	}
+	k := len(cols)
+	r.FreeParams = k
+	n := r.Rows
+	lossFloor := math.Max(r.Loss, 1e-300)
+	aic := float64(n)*math.Log(lossFloor/float64(n)) + 2*float64(k)
+	r.AICc = aic + 2*float64(k*(k+1))/math.Max(float64(n-k-1), 1)
+	r.BIC = float64(n)*math.Log(lossFloor/float64(n)) + float64(k)*math.Log(float64(n))
+	if k == 0 || n <= k {
+		return
+	}
+	// Scale J's columns to unit norm so that the eigen-decomposition sees
+	// the geometry, not the units.
+	scale := make([]float64, k)
+	JtJ := mat.NewSymDense(k, nil)
+	for a := range cols {
+		s := 0.0
+		for _, x := range cols[a].v {
+			s += x * x
+		}
+		scale[a] = math.Sqrt(s)
+		if scale[a] == 0 {
+			scale[a] = 1
+		}
+	}
+	for a := 0; a < k; a++ {
+		for b := 0; b <= a; b++ {
+			s := 0.0
+			va, vb := cols[a].v, cols[b].v
+			for i := range va {
+				s += va[i] * vb[i]
+			}
+			JtJ.SetSym(a, b, s/(scale[a]*scale[b]))
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(JtJ, true) {
+		return
+	}
+	vals := eig.Values(nil)
+	var vecs mat.Dense
+	eig.VectorsTo(&vecs)
+	maxEig := 0.0
+	for _, v := range vals {
+		maxEig = math.Max(maxEig, v)
+	}
+	// Directions the data do not see (relative eigenvalue below 1e-12) make
+	// every quantity that loads on them undetermined.
+	cov := mat.NewDense(k, k, nil)
+	undetermined := make([]bool, k)
+	for c, lam := range vals {
+		if lam <= 1e-12*maxEig {
+			for a := 0; a < k; a++ {
+				if math.Abs(vecs.At(a, c)) > 1e-3 {
+					undetermined[a] = true
+				}
+			}
+			continue
+		}
+		for a := 0; a < k; a++ {
+			for b := 0; b < k; b++ {
+				cov.Set(a, b, cov.At(a, b)+vecs.At(a, c)*vecs.At(b, c)/lam)
+			}
+		}
+	}
+	sigma2 := r.Loss / float64(n-k)
+	tq := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - k)}.Quantile(0.975)
+	names := make([]string, k)
+	for a := range cols {
+		est := &r.Estimates[cols[a].est]
+		names[a] = est.Name
+		if undetermined[a] {
+			est.Status = "not-determined"
+			continue
+		}
+		se := math.Sqrt(sigma2*cov.At(a, a)) / scale[a]
+		if est.Kind == "angle" {
+			se *= 180 / math.Pi
+		}
+		est.StdErr = se
+		est.Lo, est.Hi = est.Value-tq*se, est.Value+tq*se
+	}
+	r.CorrelationNames = names
+	r.Correlation = make([][]float64, k)
+	for a := 0; a < k; a++ {
+		r.Correlation[a] = make([]float64, k)
+		for b := 0; b < k; b++ {
+			d := math.Sqrt(cov.At(a, a) * cov.At(b, b))
+			if d > 0 {
+				r.Correlation[a][b] = cov.At(a, b) / d
+			}
+		}
+	}
+	for a := 0; a < k; a++ {
+		for b := 0; b < a; b++ {
+			if c := r.Correlation[a][b]; math.Abs(c) > CorrelationFlagLevel {
+				r.Flags = append(r.Flags, fmt.Sprintf("%s and %s are not separately determined (r = %.3f)", names[b], names[a], c))
+			}
+		}
+	}
+}
+
+func (r *Result) anyFibreActive() bool {
+	for i, t := range r.Structure.Terms {
+		if t.Family >= 0 && r.Weights != nil && r.Weights[i] > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// Predict returns the model's stress on every row of p, unweighted, in the
+// problem's stress measure and unit (for metrics, held-out protocols and
+// fit tables).
+func Predict(p *Problem, m *Model) ([]float64, error) {
+	F := make([][4]float64, p.Data.Points())
+	for i := range F {
+		F[i] = p.Data.Kinematics(i).F
+	}
+	d, err := NewDataset(F, p.Output, nil)
+	if err != nil {
+		return nil, err
+	}
+	var c Columns
+	d.Fill(m, &c, false)
+	out := make([]float64, c.Rows)
+	for k, t := range m.Terms {
+		if t.Weight == 0 {
+			continue
+		}
+		col := c.A[k*c.Rows : (k+1)*c.Rows]
+		for r := range out {
+			out[r] += mul0(t.Weight, col[r])
+		}
+	}
+	return out, nil
+}
+
+// Metrics returns R², RMSE and normalised RMSE per protocol and component
+// of model predictions pred on p's rows.
+func Metrics(p *Problem, pred []float64) []Metric {
+	var out []Metric
+	for _, pi := range p.Protocols {
+		for _, c := range p.Output.Components {
+			var meas, mod []float64
+			for r := range p.Measured {
+				if p.RowProtocol[r] == pi && p.RowComponent[r] == c {
+					meas = append(meas, p.Measured[r])
+					mod = append(mod, pred[r])
+				}
+			}
+			out = append(out, metric(p.Specimen.Protocols[pi].Label, componentName(c), meas, mod))
+		}
+	}
+	return out
+}
+
+func componentName(c Component) string { return [...]string{"11", "22", "12", "21"}[c] }
+
+func metric(label, comp string, meas, mod []float64) Metric {
+	m := Metric{Protocol: label, Component: comp, Points: len(meas)}
+	if len(meas) == 0 {
+		return m
+	}
+	// Work in units of the largest measured magnitude so that squares of
+	// extreme stresses cannot overflow.
+	sc := 0.0
+	for _, v := range meas {
+		sc = math.Max(sc, math.Abs(v))
+	}
+	if sc == 0 || math.IsInf(sc, 0) {
+		sc = 1
+	}
+	mean, lo, hi := 0.0, math.Inf(1), math.Inf(-1)
+	for _, v := range meas {
+		mean += v / sc
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	mean /= float64(len(meas))
+	ssr, sst := 0.0, 0.0
+	for i, v := range meas {
+		d := (mod[i] - v) / sc
+		ssr += d * d
+		sst += (v/sc - mean) * (v/sc - mean)
+	}
+	m.Range = hi - lo
+	m.RMSE = math.Sqrt(ssr/float64(len(meas))) * sc
+	if sst > 0 && !math.IsInf(ssr, 0) {
+		m.R2, m.R2Defined = 1-ssr/sst, true
+	}
+	if m.Range > 0 {
+		m.NRMSE, m.NRMSEDefined = m.RMSE/m.Range, true
+	}
+	return m
+}
+
+func (r *Result) metrics(p *Problem) {
+	pred, err := Predict(p, r.Model)
+	if err != nil {
+		return
+	}
+	r.Metrics = Metrics(p, pred)
+}
+
+// profiles computes the loss profile over every angle parameter: at each
+// grid angle the other non-linear parameters are re-optimised, continuing
+// outwards from the optimum. The 95 % profile-likelihood interval is where
+// the profile stays below loss·(1 + F(0.95; 1, n−k)/(n−k)) (Bates & Watts
+// 1988, §6.1; Venzon & Moolgavkar 1988).
+func (r *Result) profiles(p *Problem, set Settings) {
+	e := r.e
+	n, k := r.Rows, r.FreeParams
+	if n <= k {
+		return
+	}
+	fq := distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
+	step := set.ProfileStepDeg * math.Pi / 180
+	for i, q := range e.params {
+		if q.Kind != kindAngle {
+			continue
+		}
+		lo, hi := -math.Pi/2, math.Pi/2
+		mirrored := false
+		if !q.Periodic {
+			lo, hi = q.Lo, q.Hi
+		} else if !p.HasShear {
+			lo, mirrored = 0, true
+		}
+		var grid []float64
+		for x := lo; x <= hi+1e-12; x += step {
+			grid = append(grid, x)
+		}
+		opt := r.theta[i]
+		if q.Periodic {
+			opt = wrapAngle(opt)
+			if mirrored {
+				opt = math.Abs(opt)
+			}
+		}
+		loss := make([]float64, len(grid))
+		// Start at the grid point nearest the optimum and walk both ways.
+		c := 0
+		for j, x := range grid {
+			if math.Abs(x-opt) < math.Abs(grid[c]-opt) {
+				c = j
+			}
+		}
+		free := make([]bool, len(e.params))
+		for j := range free {
+			free[j] = j != i
+		}
+		for _, dir := range []int{1, -1} {
+			th := append([]float64(nil), r.theta...)
+			for j := c; j >= 0 && j < len(grid); j += dir {
+				if dir == -1 && j == c {
+					continue
+				}
+				th[i] = grid[j]
+				lr := e.minimize(th, free, 40)
+				loss[j] = lr.Loss
+			}
+		}
+		minLoss := r.Loss
+		for _, l := range loss {
+			minLoss = math.Min(minLoss, l)
+		}
+		thr := minLoss * (1 + fq/float64(n-k))
+		pr := AngleProfile{Name: q.Name, Threshold: thr, Mirrored: mirrored, OptimumDeg: opt * 180 / math.Pi, Closed: true}
+		loIdx, hiIdx := c, c
+		for loIdx > 0 && loss[loIdx-1] <= thr {
+			loIdx--
+		}
+		for hiIdx < len(grid)-1 && loss[hiIdx+1] <= thr {
+			hiIdx++
+		}
+		cross := func(a, b int) float64 {
+			// Linear interpolation of the threshold crossing between grid a (below) and b (above).
+			t := (thr - loss[a]) / (loss[b] - loss[a])
+			return (grid[a] + t*(grid[b]-grid[a])) * 180 / math.Pi
+		}
+		// An interval that runs into the end of a periodic range is not
+		// bounded by the data; the bounds of the half-angle and |α| = 0 (no
+		// shear information) are natural ends.
+		if loIdx == 0 {
+			pr.LoDeg = grid[0] * 180 / math.Pi
+			if q.Periodic && !mirrored {
+				pr.Closed = false
+			}
+		} else {
+			pr.LoDeg = cross(loIdx, loIdx-1)
+		}
+		if hiIdx == len(grid)-1 {
+			pr.HiDeg = grid[len(grid)-1] * 180 / math.Pi
+			if q.Periodic {
+				pr.Closed = false
+			}
+		} else {
+			pr.HiDeg = cross(hiIdx, hiIdx+1)
+		}
+		for j, x := range grid {
+			pr.AnglesDeg = append(pr.AnglesDeg, x*180/math.Pi)
+			pr.Loss = append(pr.Loss, loss[j])
+		}
+		if mirrored {
+			var a, l []float64
+			for j := len(grid) - 1; j > 0; j-- {
+				a = append(a, -grid[j]*180/math.Pi)
+				l = append(l, loss[j])
+			}
+			pr.AnglesDeg = append(a, pr.AnglesDeg...)
+			pr.Loss = append(l, pr.Loss...)
+		}
+		r.Profiles = append(r.Profiles, pr)
+	}
+	// Leave the engine at the optimum.
+	e.eval(r.theta, true)
+}

@@ -692,7 +692,7 @@ func (p *tableParser) row(line int, fields []string) error {
 		if !(det > 0) {
 			return p.errAt(line, p.byRole[roleF11], ErrRange,
 				"check the sign convention and the order of the F columns (F11, F12, F21, F22)",
-				"det F = F11·F22 − F12·F21 = %g; it must be > 0", det)
+				"det F = F11·F22 − F12·F21 = %.6g; it must be > 0", det)
 		}
 	}
 	p.rec.Rows = append(p.rec.Rows, r)

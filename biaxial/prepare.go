@@ -238,7 +238,7 @@ func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Opt
 	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), len(rows))
 	if len(keep) < MinPoints {
 		return pr, perr(ErrProtocol, "choose another cycle or branch, or check that the protocol labels and the stretch columns are right",
-			"keeps %d points (%s); at least %d are needed", len(keep), keptWords(opt, len(cycles)), MinPoints)
+			"keeps %s (%s); at least %d are needed", plural(len(keep), "point"), keptWords(opt, len(cycles)), MinPoints)
 	}
 	pts := make([]Point, len(keep))
 	for i, pos := range keep {
@@ -434,8 +434,8 @@ func checkDirection(s *Specimen, rec *Record, label string, rows []int, d []floa
 		if dir < 0 {
 			what, verb = "unloading", "rises again"
 		}
-		s.warn(first, label, "protocol %s: in a %s branch the stretch %s by up to %.3g (%d rows, first on line %d) — check for slipping markers or grips, or an unmarked cycle",
-			label, what, verb, worst, count, first)
+		s.warn(first, label, "protocol %s: in a %s branch the stretch %s by up to %.3g (%s, first on line %d) — check for slipping markers or grips, or an unmarked cycle",
+			label, what, verb, worst, plural(count, "row"), first)
 	}
 }
 
@@ -473,8 +473,8 @@ func checkNegative(s *Specimen, label string, pts []Point) {
 			if c == C22 {
 				lam = p.Stretch2()
 			}
-			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %d points like this) — a tare offset? zero the load cells before the test, or re-reference (--rereference)",
-				label, s.Kind, c, p.Stress[c], s.StressUnit, lam, p.Line, count)
+			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %s like this) — a tare offset? zero the load cells before the test, or re-reference (--rereference)",
+				label, s.Kind, c, p.Stress[c], s.StressUnit, lam, p.Line, plural(count, "point"))
 		}
 	}
 }
@@ -629,4 +629,11 @@ func weigh(s *Specimen, pr *Protocol) {
 		}
 		pr.Weight[c] = pr.UserWeight / (r * sq)
 	}
+}
+
+func plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return fmt.Sprintf("%d %ss", n, word)
 }

@@ -3,6 +3,7 @@ package biaxial
 import (
 	"errors"
 	"math"
+	"os"
 	"strings"
 	"testing"
 )
@@ -86,3 +87,5 @@ func rampCSV(header string, n int, row func(i int) string) string {
 	}
 	return b.String()
 }
+
+func writeFile(path string, data []byte) error { return os.WriteFile(path, data, 0o644) }

@@ -6,6 +6,15 @@
 // knows nothing about strain-energy functions or fitting: those live in
 // packages terms and aniso, which consume a Specimen.
 //
+// Reading is two steps: ReadRecord (or ReadRecordFile) parses and validates
+// a file into a Record, every row in file order with units converted;
+// Prepare selects cycles and branches, re-references, resamples and weights
+// it into a Specimen. Read and ReadFile do both. WriteRecord and WriteCSV
+// write the layout back (stress or load columns), so records built in code,
+// e.g. synthetic multi-cycle data, can be saved and read like measured ones.
+// Input problems are *ParseError values naming file, line and column (sheet
+// and cell for xlsx) and the fix.
+//
 // Conventions (shared by every weft package): axes 1 and 2 are the loading
 // axes of the tester; the in-plane deformation gradient is F11, F12, F21, F22;
 // nominal stress is first Piola–Kirchhoff, P = σ F⁻ᵀ; stresses are kept in the
@@ -92,6 +101,9 @@ type Protocol struct {
 	// (1/stress unit): a fitter minimises Σ (Weight[c]·(model − measured))².
 	// By default each protocol and measured axis counts equally: the weight is
 	// UserWeight / (stress range · √points). Unmeasured slots are zero.
+	// Guards (see Prepare): a shear component's range is at least the mean
+	// range of the normal components; a normal range is at least a tenth of
+	// the larger normal range; all-constant stress gives UserWeight/√points.
 	Weight [NumComponents]float64
 	// UserWeight is the user's relative weight of this protocol (default 1).
 	UserWeight float64

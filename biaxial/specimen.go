@@ -6,6 +6,15 @@
 // knows nothing about strain-energy functions or fitting: those live in
 // packages terms and aniso, which consume a Specimen.
 //
+// Reading is two steps: ReadRecord (or ReadRecordFile) parses and validates
+// a file into a Record, every row in file order with units converted;
+// Prepare selects cycles and branches, re-references, resamples and weights
+// it into a Specimen. Read and ReadFile do both. WriteRecord and WriteCSV
+// write the layout back (stress or load columns), so records built in code,
+// e.g. synthetic multi-cycle data, can be saved and read like measured ones.
+// Input problems are *ParseError values naming file, line and column (sheet
+// and cell for xlsx) and the fix.
+//
 // Conventions (shared by every weft package): axes 1 and 2 are the loading
 // axes of the tester; the in-plane deformation gradient is F11, F12, F21, F22;
 // nominal stress is first Piola–Kirchhoff, P = σ F⁻ᵀ; stresses are kept in the
@@ -92,6 +101,9 @@ type Protocol struct {
 	// (1/stress unit): a fitter minimises Σ (Weight[c]·(model − measured))².
 	// By default each protocol and measured axis counts equally: the weight is
 	// UserWeight / (stress range · √points). Unmeasured slots are zero.
+	// Guards (see Prepare): a shear component's range is at least the mean
+	// range of the normal components; a normal range is at least a tenth of
+	// the larger normal range; all-constant stress gives UserWeight/√points.
 	Weight [NumComponents]float64
 	// UserWeight is the user's relative weight of this protocol (default 1).
 	UserWeight float64
@@ -100,6 +112,25 @@ type Protocol struct {
 	Kept string
 	// Cycles is the number of cycles found in the raw record of this protocol.
 	Cycles int
+
+	// Fields below were added with the reader; they describe the selection
+	// and the reference state in a form a program can use.
+
+	// KeptCycle is the cycle kept (1-based), or 0 when every cycle was kept.
+	KeptCycle int
+	// KeptBranch is the branch kept in the chosen cycle(s).
+	KeptBranch Branch
+	// RawRows is the number of rows of this protocol in the file.
+	RawRows int
+	// SelectedPoints is the number of points kept before resampling.
+	SelectedPoints int
+	// RefF is the deformation gradient (F11, F12, F21, F22) of the point
+	// used as the reference state when re-referencing, as measured; the
+	// identity (1, 0, 0, 1) when the data are used as measured.
+	RefF [4]float64
+	// Tare is the stress subtracted from every point when re-referencing
+	// (in StressUnit, after re-basing nominal stress); zero otherwise.
+	Tare [NumComponents]float64
 }
 
 // Warning is a finding in a file that does not stop its use.
@@ -148,6 +179,22 @@ type Specimen struct {
 	// semicolon-separated file was detected).
 	Warnings []Warning
 	Notices  []string
+
+	// Fields below were added with the reader.
+
+	// Kinematics says whether the file gave stretches or F.
+	Kinematics Kinematics
+	// FromLoads is true when the normal stresses were computed from loads
+	// and the specimen geometry (Kind is then Nominal).
+	FromLoads bool
+	// Geometry is the reference geometry from the metadata, nil when any of
+	// thickness, size_1, size_2 is missing.
+	Geometry *Geometry
+	// HasTime is true when the points carry time stamps.
+	HasTime bool
+	// MetaKeys lists the keys of Meta in file order (for deterministic
+	// output).
+	MetaKeys []string
 }
 
 // NumPoints returns the total number of kept points over all protocols.

@@ -1,0 +1,160 @@
+package biaxial
+
+import (
+	"bytes"
+	"math"
+	"strings"
+	"testing"
+)
+
+// A synthetic 3-cycle record with a preload (λ = 1.01), hysteresis and no
+// cycle column: the turns of the stretch must give 3 cycles, and the default
+// keeps the loading branch of the last one.
+func TestCyclesByTurns(t *testing.T) {
+	rec := synthRecord("1:1", 3, 11, 1.01, 1.15, 1)
+	// Marker jitter of ±0.002 in stretch (1.4 % of the range) must not split
+	// branches.
+	for i := range rec.Rows {
+		j := 0.002 * float64(i%3-1)
+		rec.Rows[i].F[0] += j
+		rec.Rows[i].F[3] += j
+	}
+	rec.HasCycle = false
+	for i := range rec.Rows {
+		rec.Rows[i].Cycle = 0
+	}
+	s, err := Prepare(rec, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := s.Protocols[0]
+	if pr.Cycles != 3 || pr.KeptCycle != 3 || pr.KeptBranch != BranchLoading {
+		t.Fatalf("cycles %d kept %d %v; want 3 cycles, cycle 3 loading", pr.Cycles, pr.KeptCycle, pr.KeptBranch)
+	}
+	// Each cycle has 11 steps up and 9 down, then the valley; cycle 3's
+	// loading branch is rows 40..50 (0-based), lines 42..52.
+	if len(pr.Points) != 11 || pr.Points[0].Line != 42 || pr.Points[10].Line != 52 {
+		t.Fatalf("kept %d points, lines %d..%d; want 11 points, lines 42..52", len(pr.Points), pr.Points[0].Line, pr.Points[len(pr.Points)-1].Line)
+	}
+	if want := "cycle 3 of 3, loading branch, 11 of 61 rows"; pr.Kept != want {
+		t.Errorf("Kept = %q, want %q", pr.Kept, want)
+	}
+	for _, p := range pr.Points {
+		if p.Cycle != 3 {
+			t.Errorf("point on line %d has cycle %d, want 3", p.Line, p.Cycle)
+		}
+	}
+
+	// The unloading branch of cycle 2: from its peak (row 30) to the valley
+	// that starts cycle 3 (row 40).
+	s, err = Prepare(rec, Options{Cycle: 2, Branch: BranchUnloading})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr = s.Protocols[0]
+	if len(pr.Points) != 11 || pr.Points[0].Line != 32 || pr.Points[10].Line != 42 {
+		t.Errorf("cycle 2 unloading: %d points, lines %d..%d; want 11, lines 32..42", len(pr.Points), pr.Points[0].Line, pr.Points[len(pr.Points)-1].Line)
+	}
+	// Hysteresis: at the same stretch the unloading stress is lower.
+	if pr.Points[5].Stress[C11] >= synthLoad(pr.Points[5].F[0])*0.95 {
+		t.Errorf("unloading stress %v is not below the loading curve", pr.Points[5].Stress[C11])
+	}
+
+	// Every cycle, both branches: every row once, in order.
+	s, err = Prepare(rec, Options{Cycle: CycleAll, Branch: BranchAll})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr = s.Protocols[0]
+	if len(pr.Points) != len(rec.Rows) {
+		t.Fatalf("all cycles, all branches: %d points, want %d", len(pr.Points), len(rec.Rows))
+	}
+	for i, p := range pr.Points {
+		if p.Line != rec.Rows[i].Line {
+			t.Fatalf("point %d from line %d, want %d", i, p.Line, rec.Rows[i].Line)
+		}
+	}
+	if pr.Points[0].Cycle != 1 || pr.Points[25].Cycle != 2 || pr.Points[60].Cycle != 3 {
+		t.Errorf("cycle numbers %d %d %d, want 1 2 3", pr.Points[0].Cycle, pr.Points[25].Cycle, pr.Points[60].Cycle)
+	}
+	if !strings.HasPrefix(pr.Kept, "all 3 cycles") {
+		t.Errorf("Kept = %q", pr.Kept)
+	}
+
+	// All loading branches: 3 × 11 points.
+	s, err = Prepare(rec, Options{Cycle: CycleAll})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := len(s.Protocols[0].Points); n != 33 {
+		t.Errorf("all loading branches: %d points, want 33", n)
+	}
+}
+
+// With a cycle column the file's numbering is used (0-based numbering is
+// accepted), and the result matches the turn-based split.
+func TestCyclesByColumn(t *testing.T) {
+	rec := synthRecord("1:1", 3, 11, 1.01, 1.15, 1)
+	for i := range rec.Rows {
+		rec.Rows[i].Cycle-- // 0, 1, 2
+	}
+	rec.HasCycle = true
+	var buf bytes.Buffer
+	if err := WriteRecord(&buf, rec, Layout{}); err != nil {
+		t.Fatal(err)
+	}
+	back, err := ReadRecord(&buf, "syn-cycles.csv", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !back.HasCycle {
+		t.Fatal("the cycle column was not read")
+	}
+	s, err := Prepare(back, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := s.Protocols[0]
+	if pr.Cycles != 3 || len(pr.Points) != 11 {
+		t.Fatalf("cycles %d, %d points; want 3 and 11", pr.Cycles, len(pr.Points))
+	}
+	if pr.Points[0].F[0] != 1.01 || pr.Points[10].F[0] != 1.15 {
+		t.Errorf("kept stretch %v..%v, want 1.01..1.15", pr.Points[0].F[0], pr.Points[10].F[0])
+	}
+	s, err = Prepare(back, Options{Cycle: 1, Branch: BranchUnloading})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Cycle 1 (file label 0) unloading: the peak and 9 rows down.
+	if n := len(s.Protocols[0].Points); n != 10 {
+		t.Errorf("cycle 1 unloading with a cycle column: %d points, want 10", n)
+	}
+}
+
+// A record that starts by falling (e.g. released from a high preload) has
+// leading rows that belong to no cycle; they are reported, not kept.
+func TestLeadingFall(t *testing.T) {
+	rec := synthRecord("1:1", 2, 11, 1.01, 1.15, 1)
+	lead := []Row{}
+	for i, l := range []float64{1.08, 1.06, 1.04, 1.02} {
+		lead = append(lead, Row{Protocol: "1:1", Point: Point{F: [4]float64{l, 0, 0, l}, Stress: [NumComponents]float64{1, 1}, Line: 100 + i, Time: math.NaN()}})
+	}
+	rec.Rows = append(lead, rec.Rows...)
+	s, err := Prepare(rec, Options{Cycle: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := s.Protocols[0]
+	if pr.Cycles != 2 || len(pr.Points) != 11 || pr.Points[0].F[0] != 1.01 {
+		t.Errorf("cycles %d, %d points from %v; want 2, 11 from 1.01", pr.Cycles, len(pr.Points), pr.Points[0].F[0])
+	}
+	if !strings.Contains(strings.Join(s.Notices, "\n"), "first 4 rows") {
+		t.Errorf("notices %q do not report the 4 leading rows", s.Notices)
+	}
+}
+
+// An unloading branch that is not there is an error naming the protocol.
+func TestNoUnloadingBranch(t *testing.T) {
+	_, err := readString(goodHeader+goodRows, Options{Branch: BranchUnloading})
+	wantParseError(t, err, ErrProtocol, 2, 0, "keeps 1 point ", "unloading")
+}

@@ -1,0 +1,57 @@
+package biaxial
+
+import (
+	"bytes"
+	"testing"
+)
+
+// FuzzParse feeds arbitrary bytes to the CSV reader. It must never panic;
+// every failure must be a *ParseError; and whatever reads cleanly must
+// survive the preparation options and a write/read round trip.
+func FuzzParse(f *testing.F) {
+	f.Add([]byte(goodHeader + goodRows))
+	f.Add([]byte("# thickness = 0,5 mm\n# size_1 = 10 mm\n# size_2 = 8 mm\nprotocol;load_1 [gf];load_2 [gf];stretch_1;stretch_2\n1:1;0;0;1;1\n1:1;1,5;1;1,01;1,01\n"))
+	f.Add([]byte("protocol,cycle,time [s],F11,F12,F21,F22,nominal_11,nominal_22,nominal_12,nominal_21\n\"a\"\"b\",1,0,1,0,0,1,0,0,0,0\n"))
+	f.Add([]byte("\xef\xbb\xbfstretch_1,stretch_2,cauchy_11 [MPa],cauchy_22 [MPa]\n1,1,0,0\n1.1,1.05,0.1,0.05\n"))
+	f.Add([]byte("protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n\"unclosed,1,1,0,0\n"))
+	var buf bytes.Buffer
+	_ = WriteRecord(&buf, synthRecord("1:1", 2, 6, 1.01, 1.1, 0.5), Layout{})
+	f.Add(buf.Bytes())
+
+	f.Fuzz(func(t *testing.T, data []byte) {
+		rec, err := ReadRecord(bytes.NewReader(data), "fuzz.csv", Options{})
+		if err != nil {
+			if _, ok := err.(*ParseError); !ok {
+				t.Fatalf("error %T %v is not a *ParseError", err, err)
+			}
+			return
+		}
+		for _, o := range []Options{{}, {Cycle: CycleAll, Branch: BranchAll}, {Branch: BranchUnloading, Rereference: true}, {Resample: 7, Rereference: true}} {
+			s, err := Prepare(rec, o)
+			if err != nil {
+				continue
+			}
+			var out bytes.Buffer
+			if err := WriteCSV(&out, s, Layout{}); err != nil {
+				t.Fatalf("options %+v: writing a prepared specimen: %v", o, err)
+			}
+		}
+		var out bytes.Buffer
+		if err := WriteRecord(&out, rec, Layout{}); err != nil {
+			t.Fatalf("writing a record that was read: %v", err)
+		}
+		back, err := ReadRecord(bytes.NewReader(out.Bytes()), "back.csv", Options{})
+		if err != nil {
+			t.Fatalf("reading back what was written: %v\n%s", err, out.String())
+		}
+		if len(back.Rows) != len(rec.Rows) {
+			t.Fatalf("round trip: %d rows, want %d", len(back.Rows), len(rec.Rows))
+		}
+		for i := range rec.Rows {
+			a, b := rec.Rows[i], back.Rows[i]
+			if a.Protocol != b.Protocol || a.F != b.F || a.Stress != b.Stress || a.Cycle != b.Cycle {
+				t.Fatalf("round trip row %d: %+v became %+v", i, a, b)
+			}
+		}
+	})
+}

@@ -1,0 +1,722 @@
+package biaxial
+
+import (
+	"fmt"
+	"math"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// role is what a column of the input means.
+type role int
+
+const (
+	roleIgnore role = iota
+	roleProtocol
+	roleCycle
+	roleTime
+	roleStretch1
+	roleStretch2
+	roleF11
+	roleF12
+	roleF21
+	roleF22
+	roleCauchy11
+	roleCauchy22
+	roleCauchy12
+	roleCauchy21
+	roleNominal11
+	roleNominal22
+	roleNominal12
+	roleNominal21
+	roleLoad1
+	roleLoad2
+	numRoles
+)
+
+// columnNames maps canonical header names (lower case) to roles.
+var columnNames = map[string]role{
+	"protocol":   roleProtocol,
+	"cycle":      roleCycle,
+	"time":       roleTime,
+	"stretch_1":  roleStretch1,
+	"stretch_2":  roleStretch2,
+	"f11":        roleF11,
+	"f12":        roleF12,
+	"f21":        roleF21,
+	"f22":        roleF22,
+	"f_11":       roleF11,
+	"f_12":       roleF12,
+	"f_21":       roleF21,
+	"f_22":       roleF22,
+	"cauchy_11":  roleCauchy11,
+	"cauchy_22":  roleCauchy22,
+	"cauchy_12":  roleCauchy12,
+	"cauchy_21":  roleCauchy21,
+	"nominal_11": roleNominal11,
+	"nominal_22": roleNominal22,
+	"nominal_12": roleNominal12,
+	"nominal_21": roleNominal21,
+	"load_1":     roleLoad1,
+	"load_2":     roleLoad2,
+}
+
+// roleName is the canonical header name of each role, for messages.
+var roleName = [numRoles]string{
+	"", "protocol", "cycle", "time", "stretch_1", "stretch_2",
+	"F11", "F12", "F21", "F22",
+	"cauchy_11", "cauchy_22", "cauchy_12", "cauchy_21",
+	"nominal_11", "nominal_22", "nominal_12", "nominal_21",
+	"load_1", "load_2",
+}
+
+// stress family of a role and the component it fills.
+func stressRole(r role) (family int, c Component, ok bool) {
+	switch r {
+	case roleCauchy11, roleCauchy22, roleCauchy12, roleCauchy21:
+		return 0, Component(r - roleCauchy11), true
+	case roleNominal11, roleNominal22, roleNominal12, roleNominal21:
+		return 1, Component(r - roleNominal11), true
+	case roleLoad1:
+		return 2, C11, true
+	case roleLoad2:
+		return 2, C22, true
+	}
+	return 0, 0, false
+}
+
+var familyName = [3]string{"Cauchy stress", "nominal stress", "load"}
+
+// column is one header field.
+type column struct {
+	role   role
+	header string  // as written
+	unit   string  // unit text as written, may be empty
+	factor float64 // multiplies the value into the record's unit
+}
+
+// tableParser turns header and data rows (from CSV or a sheet) into a Record.
+type tableParser struct {
+	file, sheet string
+	rec         *Record
+	metaLine    map[string]int // line of each metadata key
+	sep         byte           // CSV separator, 0 for xlsx
+	cols        []column
+	byRole      [numRoles]int // 1-based column index of each role, 0 if absent
+	ignored     []string
+	header      bool
+	headerLine  int
+	protoLabel  string // label when there is no protocol column
+	lastLabel   string
+	decComma    bool // a decimal comma was met
+	decCommaOK  bool // decimal commas are accepted (not a comma-separated CSV)
+	nRows       int
+}
+
+func newTableParser(file, sheet string) *tableParser {
+	stem := filepath.Base(file)
+	if ext := filepath.Ext(stem); ext != "" {
+		stem = strings.TrimSuffix(stem, ext)
+	}
+	return &tableParser{
+		file:     file,
+		sheet:    sheet,
+		metaLine: map[string]int{},
+		rec: &Record{
+			Name:   stem,
+			Source: file,
+			Sheet:  sheet,
+			Meta:   map[string]string{},
+		},
+	}
+}
+
+// errAt builds a ParseError at a line and column (1-based; 0 = unknown).
+func (p *tableParser) errAt(line, col int, cat error, fix, format string, args ...any) *ParseError {
+	e := &ParseError{File: p.file, Line: line, Column: col, Err: cat, Fix: fix, Msg: fmt.Sprintf(format, args...)}
+	if p.sheet != "" {
+		e.Sheet = p.sheet
+		if line > 0 && col > 0 {
+			e.Cell = cellName(col, line)
+		}
+	}
+	return e
+}
+
+// where formats a location for notices and warnings.
+func (p *tableParser) where(line, col int) string {
+	return (&ParseError{File: p.file, Line: line, Column: col, Sheet: p.sheet, Cell: cellIf(p.sheet, col, line)}).Location()
+}
+
+func cellIf(sheet string, col, line int) string {
+	if sheet == "" || col <= 0 || line <= 0 {
+		return ""
+	}
+	return cellName(col, line)
+}
+
+// cellName returns the A1-style name of a 1-based column and row.
+func cellName(col, row int) string {
+	var b []byte
+	for col > 0 {
+		col--
+		b = append([]byte{byte('A' + col%26)}, b...)
+		col /= 26
+	}
+	return string(b) + strconv.Itoa(row)
+}
+
+func (p *tableParser) notice(format string, args ...any) {
+	p.rec.Notices = append(p.rec.Notices, fmt.Sprintf(format, args...))
+}
+
+// comment handles a line or row that starts with '#'. text is the content
+// after the '#'. Before the header, `key = value` is metadata.
+func (p *tableParser) comment(line int, text string) error {
+	if p.header {
+		return nil
+	}
+	eq := strings.IndexByte(text, '=')
+	if eq < 0 {
+		return nil
+	}
+	key := strings.ToLower(strings.TrimSpace(text[:eq]))
+	if key == "" || !validMetaKey(key) {
+		return nil // prose, not metadata
+	}
+	val := strings.TrimSpace(text[eq+1:])
+	if first, dup := p.metaLine[key]; dup {
+		return p.errAt(line, 0, ErrMetadata, "keep one of the two lines",
+			"metadata %q is given again (first on line %d)", key, first)
+	}
+	p.metaLine[key] = line
+	p.rec.Meta[key] = val
+	p.rec.MetaKeys = append(p.rec.MetaKeys, key)
+	return nil
+}
+
+func validMetaKey(k string) bool {
+	for i := 0; i < len(k); i++ {
+		c := k[i]
+		if !(c >= 'a' && c <= 'z' || c >= '0' && c <= '9' || c == '_' || c == '-' || c == '.') {
+			return false
+		}
+	}
+	return true
+}
+
+// splitHeader splits "load_1 [N]" into "load_1" and "N". Parentheses are
+// accepted as well as brackets.
+func splitHeader(h string) (name, unit string, hasUnit bool) {
+	h = strings.TrimSpace(h)
+	for _, br := range [2][2]byte{{'[', ']'}, {'(', ')'}} {
+		if i := strings.IndexByte(h, br[0]); i >= 0 && strings.HasSuffix(h, string(br[1])) {
+			return strings.TrimSpace(h[:i]), strings.TrimSpace(h[i+1 : len(h)-1]), true
+		}
+	}
+	return h, "", false
+}
+
+func canonicalName(n string) string {
+	n = strings.ToLower(strings.TrimSpace(n))
+	n = strings.Map(func(r rune) rune {
+		if r == ' ' || r == '-' {
+			return '_'
+		}
+		return r
+	}, n)
+	return n
+}
+
+// metaQuantity parses a metadata length like "0.8 mm" into millimetres.
+func (p *tableParser) metaLength(key string) (float64, bool, error) {
+	v, ok := p.rec.Meta[key]
+	if !ok {
+		return 0, false, nil
+	}
+	line := p.metaLine[key]
+	x, unit, ok := splitQuantity(v, p.decCommaOK)
+	if !ok {
+		return 0, false, p.errAt(line, 0, ErrNumber, "write a number and a length unit, e.g. `# "+key+" = 0.8 mm`",
+			"metadata %s = %q is not a length", key, v)
+	}
+	if unit == "" {
+		return 0, false, p.errAt(line, 0, ErrUnit, "write the unit, e.g. `# "+key+" = "+v+" mm` (m, mm, µm)",
+			"metadata %s = %s has no unit", key, v)
+	}
+	f, ok := LengthToMetre(unit)
+	if !ok {
+		return 0, false, p.errAt(line, 0, ErrUnit, "use one of "+unitNames(lengthUnits),
+			"metadata %s has unknown length unit %q", key, unit)
+	}
+	if !(x > 0) || math.IsInf(x, 0) {
+		return 0, false, p.errAt(line, 0, ErrRange, "give the reference "+key+" of the specimen, a positive length",
+			"metadata %s = %s must be > 0", key, v)
+	}
+	return x * f * 1e3, true, nil
+}
+
+// setHeader reads the header row. fields are the header cells.
+func (p *tableParser) setHeader(line int, fields []string) error {
+	p.header = true
+	p.headerLine = line
+	rec := p.rec
+	if n, ok := rec.Meta["specimen"]; ok && n != "" {
+		rec.Name = n
+	}
+
+	// Geometry first: loads need it, and every given size is checked.
+	var g Geometry
+	var have [3]bool
+	var err error
+	for i, key := range []string{"thickness", "size_1", "size_2"} {
+		var v float64
+		v, have[i], err = p.metaLength(key)
+		if err != nil {
+			return err
+		}
+		switch i {
+		case 0:
+			g.Thickness = v
+		case 1:
+			g.Size1 = v
+		case 2:
+			g.Size2 = v
+		}
+	}
+	if have[0] && have[1] && have[2] {
+		rec.Geometry = &g
+	}
+
+	// Stress unit from metadata, used by stress columns without a unit and
+	// for loads.
+	metaUnit := ""
+	if u, ok := rec.Meta["stress_unit"]; ok {
+		cu, ok := CanonicalStressUnit(u)
+		if !ok {
+			return p.errAt(p.metaLine["stress_unit"], 0, ErrUnit, "use one of Pa, kPa, MPa",
+				"metadata stress_unit = %q is not a stress unit", u)
+		}
+		metaUnit = cu
+	}
+
+	p.cols = make([]column, len(fields))
+	for i, h := range fields {
+		col := i + 1
+		name, unit, hasUnit := splitHeader(h)
+		r, known := columnNames[canonicalName(name)]
+		if !known {
+			if strings.TrimSpace(h) != "" {
+				p.ignored = append(p.ignored, strings.TrimSpace(h))
+				p.notice("%s: column %q is not part of the weft layout and is ignored", p.where(line, col), strings.TrimSpace(h))
+			}
+			continue
+		}
+		if prev := p.byRole[r]; prev != 0 {
+			return p.errAt(line, col, ErrDuplicateColumn, "remove or rename one of them",
+				"column %q repeats %s (column %d)", strings.TrimSpace(h), roleName[r], prev)
+		}
+		if r == roleCauchy21 {
+			return p.errAt(line, col, ErrMixedStress, "give the in-plane shear as cauchy_12 only",
+				"column %q: Cauchy stress is symmetric, so cauchy_21 is not a separate quantity", strings.TrimSpace(h))
+		}
+		p.byRole[r] = col
+		p.cols[i] = column{role: r, header: strings.TrimSpace(h), unit: unit, factor: 1}
+		if hasUnit && unit == "" {
+			hasUnit = false
+		}
+		// Dimensionless and unit-free columns.
+		switch r {
+		case roleProtocol, roleCycle:
+			if hasUnit {
+				return p.errAt(line, col, ErrUnit, "remove the unit", "column %q takes no unit", strings.TrimSpace(h))
+			}
+		case roleStretch1, roleStretch2, roleF11, roleF12, roleF21, roleF22:
+			if hasUnit && unit != "-" && unit != "1" {
+				return p.errAt(line, col, ErrUnit, "stretches are ratios (1 in the reference state); leave the unit out or write [-]",
+					"column %q has unit %q", strings.TrimSpace(h), unit)
+			}
+		case roleTime:
+			if hasUnit {
+				d, ok := findUnit(timeUnits, unit)
+				if !ok {
+					return p.errAt(line, col, ErrUnit, "use one of "+unitNames(timeUnits),
+						"column %q has unknown time unit %q", strings.TrimSpace(h), unit)
+				}
+				p.cols[i].factor = d.toSI
+			}
+		}
+	}
+
+	// Kinematics.
+	hasStretch := p.byRole[roleStretch1] != 0 || p.byRole[roleStretch2] != 0
+	hasF := p.byRole[roleF11] != 0 || p.byRole[roleF12] != 0 || p.byRole[roleF21] != 0 || p.byRole[roleF22] != 0
+	hint := ""
+	if len(p.ignored) > 0 {
+		hint = fmt.Sprintf(" (ignored columns: %s)", strings.Join(p.ignored, ", "))
+	}
+	switch {
+	case hasF:
+		for _, r := range []role{roleF11, roleF12, roleF21, roleF22} {
+			if p.byRole[r] == 0 {
+				return p.errAt(line, 0, ErrMissingColumn, "add the column or give stretch_1, stretch_2 instead",
+					"the header has some of F11, F12, F21, F22 but no %s%s", roleName[r], hint)
+			}
+		}
+		rec.Kinematics = GradientColumns
+		if hasStretch {
+			for _, r := range []role{roleStretch1, roleStretch2} {
+				if c := p.byRole[r]; c != 0 {
+					p.cols[c-1].role = roleIgnore
+					p.byRole[r] = 0
+				}
+			}
+			p.notice("%s: both stretch and F columns are given; F is used and the stretch columns are ignored", p.where(line, 0))
+		}
+	case hasStretch:
+		for _, r := range []role{roleStretch1, roleStretch2} {
+			if p.byRole[r] == 0 {
+				return p.errAt(line, 0, ErrMissingColumn, "add the column (header names are case-insensitive)",
+					"the header has no %s column%s", roleName[r], hint)
+			}
+		}
+		rec.Kinematics = StretchColumns
+	default:
+		return p.errAt(line, 0, ErrMissingColumn,
+			"name the kinematic columns stretch_1, stretch_2 or F11, F12, F21, F22 (case-insensitive)",
+			"no kinematic columns in the header%s", hint)
+	}
+
+	// Stress family: one per file, except that loads may be completed by
+	// nominal shear components (both are nominal).
+	present := [3]bool{}
+	for r := role(0); r < numRoles; r++ {
+		if fam, _, ok := stressRole(r); ok && p.byRole[r] != 0 {
+			present[fam] = true
+		}
+	}
+	// Conflicts per axis first: they are the most specific message.
+	for c := C11; c < NumComponents; c++ {
+		var who []int
+		for r := role(0); r < numRoles; r++ {
+			if _, cc, ok := stressRole(r); ok && cc == c && p.byRole[r] != 0 {
+				who = append(who, p.byRole[r])
+			}
+		}
+		if len(who) > 1 {
+			return p.errAt(line, who[1], ErrMixedStress, "keep one stress measure per axis and remove the other column",
+				"columns %q and %q both give the %s stress", p.cols[who[0]-1].header, p.cols[who[1]-1].header, c)
+		}
+	}
+	var fam int
+	switch {
+	case present[0] && (present[1] || present[2]):
+		c := p.firstOf(roleNominal11, roleNominal22, roleNominal12, roleNominal21, roleLoad1, roleLoad2)
+		return p.errAt(line, c, ErrMixedStress, "give all stresses as Cauchy or all as nominal (loads count as nominal)",
+			"the header mixes Cauchy stress with %s", p.cols[c-1].header)
+	case present[2]:
+		fam = 2
+		if p.byRole[roleNominal11] != 0 || p.byRole[roleNominal22] != 0 {
+			c := p.firstOf(roleNominal11, roleNominal22)
+			return p.errAt(line, c, ErrMixedStress, "give both normal axes as loads or both as nominal stress",
+				"the header mixes loads with %s", p.cols[c-1].header)
+		}
+	case present[1]:
+		fam = 1
+	case present[0]:
+		fam = 0
+	default:
+		return p.errAt(line, 0, ErrMissingColumn,
+			"add cauchy_11, cauchy_22, or nominal_11, nominal_22, or load_1, load_2 (with thickness and sizes)",
+			"no stress columns in the header%s", hint)
+	}
+	need := map[int][]role{0: {roleCauchy11, roleCauchy22}, 1: {roleNominal11, roleNominal22}, 2: {roleLoad1, roleLoad2}}[fam]
+	for _, r := range need {
+		if p.byRole[r] == 0 {
+			return p.errAt(line, 0, ErrMissingColumn, "add the column: both normal axes are needed",
+				"the header has %s but no %s column%s", familyName[fam], roleName[r], hint)
+		}
+	}
+	if fam == 1 && (p.byRole[roleNominal12] != 0) != (p.byRole[roleNominal21] != 0) {
+		return p.errAt(line, 0, ErrMissingColumn, "give both nominal_12 and nominal_21 (nominal stress is not symmetric) or neither",
+			"the header has only one of nominal_12, nominal_21")
+	}
+	if fam == 2 && (p.byRole[roleNominal12] != 0) != (p.byRole[roleNominal21] != 0) {
+		return p.errAt(line, 0, ErrMissingColumn, "give both nominal_12 and nominal_21 or neither",
+			"the header has only one of nominal_12, nominal_21")
+	}
+	if fam == 0 {
+		rec.Kind = Cauchy
+	} else {
+		rec.Kind = Nominal
+	}
+	rec.FromLoads = fam == 2
+
+	// Output stress unit.
+	outUnit := ""
+	if fam == 2 {
+		outUnit = metaUnit
+	} else {
+		for i := range p.cols {
+			if _, _, ok := stressRole(p.cols[i].role); ok {
+				if p.cols[i].unit != "" {
+					u, ok := CanonicalStressUnit(p.cols[i].unit)
+					if !ok {
+						return p.errAt(line, i+1, ErrUnit, "use one of Pa, kPa, MPa",
+							"column %q has unknown stress unit %q", p.cols[i].header, p.cols[i].unit)
+					}
+					outUnit = u
+					if metaUnit != "" && metaUnit != u {
+						p.notice("%s: metadata stress_unit = %s differs from column %q; the column's unit is used", p.where(line, i+1), metaUnit, p.cols[i].header)
+					}
+				} else {
+					outUnit = metaUnit
+				}
+				break
+			}
+		}
+	}
+	if outUnit == "" {
+		outUnit = "kPa"
+		if fam != 2 {
+			p.notice("%s: no stress unit given; stresses are read as kPa", p.where(line, 0))
+		}
+	}
+	rec.StressUnit = outUnit
+
+	// Stress column factors.
+	for i := range p.cols {
+		c := &p.cols[i]
+		_, comp, ok := stressRole(c.role)
+		if !ok {
+			continue
+		}
+		rec.Measured[comp] = true
+		if c.role == roleLoad1 || c.role == roleLoad2 {
+			if c.unit == "" {
+				return p.errAt(line, i+1, ErrUnit, "write the load unit in the header, e.g. `"+roleName[c.role]+" [N]` (N, mN, gf)",
+					"column %q has no unit", c.header)
+			}
+			fN, ok := ForceToNewton(c.unit)
+			if !ok {
+				return p.errAt(line, i+1, ErrUnit, "use one of "+unitNames(forceUnits),
+					"column %q has unknown force unit %q", c.header, c.unit)
+			}
+			if rec.Geometry == nil {
+				var missing []string
+				for k, key := range []string{"thickness", "size_1", "size_2"} {
+					if !have[k] {
+						missing = append(missing, key)
+					}
+				}
+				return p.errAt(line, i+1, ErrGeometry,
+					"add metadata lines before the header, e.g. `# thickness = 0.8 mm`, `# size_1 = 10 mm`, `# size_2 = 10 mm`",
+					"loads need the specimen geometry, but the metadata lack %s", strings.Join(missing, ", "))
+			}
+			// P11 = f1/(W2·H), P22 = f2/(W1·H) (Sacks 2000); lengths in mm.
+			width := rec.Geometry.Size2
+			if c.role == roleLoad2 {
+				width = rec.Geometry.Size1
+			}
+			toOut, _ := StressFactor("Pa", outUnit)
+			c.factor = fN / (width * 1e-3 * rec.Geometry.Thickness * 1e-3) * toOut
+			continue
+		}
+		u := c.unit
+		if u == "" {
+			u = metaUnit
+			if u == "" {
+				u = "kPa"
+			}
+		}
+		f, ok := StressFactor(u, outUnit)
+		if !ok {
+			return p.errAt(line, i+1, ErrUnit, "use one of Pa, kPa, MPa",
+				"column %q has unknown stress unit %q", c.header, c.unit)
+		}
+		if cu, _ := CanonicalStressUnit(u); cu != outUnit {
+			p.notice("%s: column %q is in %s; converted to %s like the first stress column", p.where(line, i+1), c.header, cu, outUnit)
+		}
+		c.factor = f
+	}
+
+	rec.HasTime = p.byRole[roleTime] != 0
+	rec.HasCycle = p.byRole[roleCycle] != 0
+	if p.byRole[roleProtocol] == 0 {
+		p.protoLabel = "all"
+		if v := strings.TrimSpace(rec.Meta["protocol"]); v != "" {
+			p.protoLabel = v
+		}
+	}
+	return nil
+}
+
+// firstOf returns the column of the first present role.
+func (p *tableParser) firstOf(rs ...role) int {
+	best := 0
+	for _, r := range rs {
+		if c := p.byRole[r]; c != 0 && (best == 0 || c < best) {
+			best = c
+		}
+	}
+	return best
+}
+
+// number parses a numeric cell, accepting a decimal comma where the
+// separator allows it.
+func (p *tableParser) number(line, col int, s string) (float64, error) {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return 0, p.errAt(line, col, ErrNumber, "fill in the value or delete the row",
+			"%s is empty", p.cols[col-1].header)
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil && p.decCommaOK && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
+		v, err = strconv.ParseFloat(strings.Replace(s, ",", ".", 1), 64)
+		if err == nil && !p.decComma {
+			p.decComma = true
+			p.notice("%s: decimal commas are read as decimal points", p.where(line, col))
+		}
+	}
+	if err != nil {
+		if ne, ok := err.(*strconv.NumError); ok && ne.Err == strconv.ErrRange {
+			return 0, p.errAt(line, col, ErrNumber, "check the value",
+				"%s is %s, which overflows a float64", p.cols[col-1].header, quoteCell(s))
+		}
+		fix := "write a plain decimal number such as 1.05 or 2.3e-2"
+		if strings.Contains(s, ",") && !p.decCommaOK {
+			fix = "the file is comma-separated, so a decimal comma splits the number; separate columns with semicolons or use decimal points"
+		}
+		return 0, p.errAt(line, col, ErrNumber, fix, "%s is %s, not a number", p.cols[col-1].header, quoteCell(s))
+	}
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, p.errAt(line, col, ErrNumber, "replace it with a measured value or delete the row",
+			"%s is %s; only finite numbers are data", p.cols[col-1].header, s)
+	}
+	return v, nil
+}
+
+func quoteCell(s string) string {
+	if len(s) > 40 {
+		s = s[:40] + "…"
+	}
+	if !utf8.ValidString(s) {
+		return fmt.Sprintf("%q", s)
+	}
+	return "\"" + s + "\""
+}
+
+// row reads a data row.
+func (p *tableParser) row(line int, fields []string) error {
+	if len(fields) > len(p.cols) {
+		for i := len(p.cols); i < len(fields); i++ {
+			if strings.TrimSpace(fields[i]) != "" {
+				fix := "remove the extra cells or add a header for them"
+				if !p.decCommaOK && p.sep == ',' {
+					fix = "if the numbers use decimal commas, separate the columns with semicolons; otherwise remove the extra cells or add a header for them"
+				}
+				return p.errAt(line, i+1, ErrSyntax, fix,
+					"the row has %d fields but the header (line %d) has %d", len(fields), p.headerLine, len(p.cols))
+			}
+		}
+	}
+	var r Row
+	r.Time = math.NaN()
+	r.Line = line
+	get := func(col int) string {
+		if col-1 < len(fields) {
+			return fields[col-1]
+		}
+		return ""
+	}
+	if c := p.byRole[roleProtocol]; c != 0 {
+		lab := strings.TrimSpace(get(c))
+		if lab == "" {
+			return p.errAt(line, c, ErrProtocol, "write the protocol label (e.g. 1:0.5) in every data row",
+				"the protocol is empty")
+		}
+		if lab != p.lastLabel {
+			p.lastLabel = strings.Clone(lab)
+		}
+		r.Protocol = p.lastLabel
+	} else {
+		r.Protocol = p.protoLabel
+	}
+	for i := range p.cols {
+		c := &p.cols[i]
+		if c.role == roleIgnore || c.role == roleProtocol {
+			continue
+		}
+		col := i + 1
+		v, err := p.number(line, col, get(col))
+		if err != nil {
+			return err
+		}
+		switch c.role {
+		case roleCycle:
+			if v != math.Trunc(v) || v < 0 || v > 1e9 {
+				return p.errAt(line, col, ErrNumber, "number the cycles 1, 2, 3, … (or from 0)",
+					"cycle is %s; it must be a whole number ≥ 0", strings.TrimSpace(get(col)))
+			}
+			r.Cycle = int(v)
+		case roleTime:
+			r.Time = v * c.factor
+		case roleStretch1, roleStretch2:
+			if v <= 0 {
+				return p.errAt(line, col, ErrRange, "check the column order or the marker export",
+					"%s is %s; stretches must be > 0", c.header, strings.TrimSpace(get(col)))
+			}
+			if c.role == roleStretch1 {
+				r.F[0] = v
+			} else {
+				r.F[3] = v
+			}
+		case roleF11:
+			r.F[0] = v
+		case roleF12:
+			r.F[1] = v
+		case roleF21:
+			r.F[2] = v
+		case roleF22:
+			r.F[3] = v
+		default:
+			_, comp, _ := stressRole(c.role)
+			r.Stress[comp] = v * c.factor
+		}
+	}
+	if p.rec.Kinematics == GradientColumns {
+		det := r.F[0]*r.F[3] - r.F[1]*r.F[2]
+		if !(det > 0) {
+			return p.errAt(line, p.byRole[roleF11], ErrRange,
+				"check the sign convention and the order of the F columns (F11, F12, F21, F22)",
+				"det F = F11·F22 − F12·F21 = %.6g; it must be > 0", det)
+		}
+	}
+	p.rec.Rows = append(p.rec.Rows, r)
+	return nil
+}
+
+// finish checks what can only be checked at the end.
+func (p *tableParser) finish() (*Record, error) {
+	if !p.header {
+		return nil, p.errAt(0, 0, ErrMissingColumn, "add a header line such as `protocol,stretch_1,stretch_2,cauchy_11,cauchy_22`",
+			"no header line found (the file is empty or holds only comments)")
+	}
+	if len(p.rec.Rows) == 0 {
+		return nil, p.errAt(p.headerLine, 0, ErrProtocol, "add the measured rows below the header",
+			"the file has a header but no data rows")
+	}
+	return p.rec, nil
+}
+
+func sortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
+}

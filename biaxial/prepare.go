@@ -1,0 +1,639 @@
+package biaxial
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+)
+
+// Thresholds of the cycle detection and of the warnings, as fractions of a
+// protocol's range of the driving stretch or of a component's stress range.
+const (
+	// turnFraction: a turn of the driving stretch counts as a peak or valley
+	// only once the stretch has moved back by more than this fraction of the
+	// protocol's range, so marker jitter does not split a branch.
+	turnFraction = 0.05
+	// backFraction: inside a branch, a step against the branch direction
+	// larger than this fraction of the range is reported.
+	backFraction = 0.01
+	// negFraction: a normal stress below −negFraction·range at a stretch above
+	// 1 + negStretch is reported as a likely tare offset.
+	negFraction = 0.05
+	negStretch  = 0.005
+	// countRatio: protocols whose point counts differ by more than this
+	// factor are reported (the weighting evens them out, but a fit still
+	// sees very different resolutions).
+	countRatio = 3
+	// rangeFloor: a normal component whose stress range is below this
+	// fraction of the protocol's largest normal range is weighted as if its
+	// range were that large, so an axis held near zero load does not
+	// dominate the fit through its noise.
+	rangeFloor = 0.1
+)
+
+// cycleSpan is one cycle of a protocol: positions into the protocol's rows
+// in test order; loading is idx[:peak+1], unloading idx[peak:].
+type cycleSpan struct {
+	idx    []int
+	peak   int
+	shared bool // the last position is also the first of the next cycle
+}
+
+// Prepare turns a Record into a Specimen: it groups rows by protocol, finds
+// the cycles and branches, keeps the ones opt asks for, optionally
+// re-references and resamples, computes the weights, and adds warnings.
+// rec is not modified.
+func Prepare(rec *Record, opt Options) (*Specimen, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	s := &Specimen{
+		Name:       rec.Name,
+		Source:     rec.Source,
+		Sheet:      rec.Sheet,
+		Meta:       make(map[string]string, len(rec.Meta)),
+		StressUnit: rec.StressUnit,
+		Kind:       rec.Kind,
+		Measured:   rec.Measured,
+		Kinematics: rec.Kinematics,
+		FromLoads:  rec.FromLoads,
+		HasTime:    rec.HasTime,
+		Warnings:   append([]Warning(nil), rec.Warnings...),
+		Notices:    append([]string(nil), rec.Notices...),
+		Reference:  "as measured",
+	}
+	for k, v := range rec.Meta {
+		s.Meta[k] = v
+	}
+	s.MetaKeys = append([]string(nil), rec.MetaKeys...)
+	if rec.Geometry != nil {
+		g := *rec.Geometry
+		s.Geometry = &g
+	}
+	if s.StressUnit == "" {
+		s.StressUnit = "kPa"
+	}
+	if len(rec.Rows) == 0 {
+		return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrProtocol, Msg: "the record has no data rows"}
+	}
+
+	// Group rows by protocol, in order of first appearance.
+	var labels []string
+	groups := map[string][]int{}
+	for i := range rec.Rows {
+		l := rec.Rows[i].Protocol
+		if _, ok := groups[l]; !ok {
+			labels = append(labels, l)
+		}
+		groups[l] = append(groups[l], i)
+	}
+	for _, k := range sortedKeys(opt.ProtocolWeights) {
+		if _, ok := groups[k]; !ok {
+			return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrOptions,
+				Msg: fmt.Sprintf("a weight is given for protocol %q, which the file does not have", k),
+				Fix: "use one of " + quoteList(labels)}
+		}
+	}
+
+	for _, label := range labels {
+		rows := groups[label]
+		pr, err := prepareProtocol(rec, s, label, rows, opt)
+		if err != nil {
+			return nil, err
+		}
+		s.Protocols = append(s.Protocols, pr)
+	}
+
+	// Shear information: a measured shear stress or non-zero F12/F21.
+	s.HasShear = s.Measured[C12] || s.Measured[C21]
+	for i := range rec.Rows {
+		if rec.Rows[i].F[1] != 0 || rec.Rows[i].F[2] != 0 {
+			s.HasShear = true
+			break
+		}
+	}
+
+	if opt.Rereference {
+		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
+		if s.Kind == Nominal {
+			s.Reference += ", nominal stress re-based P ← P·F_refᵀ"
+		}
+		s.Reference += ", tare subtracted"
+	}
+
+	// Very different point counts.
+	if len(s.Protocols) > 1 {
+		lo, hi := 0, 0
+		for i := range s.Protocols {
+			n := s.Protocols[i].SelectedPoints
+			if n < s.Protocols[lo].SelectedPoints {
+				lo = i
+			}
+			if n > s.Protocols[hi].SelectedPoints {
+				hi = i
+			}
+		}
+		nlo, nhi := s.Protocols[lo].SelectedPoints, s.Protocols[hi].SelectedPoints
+		if float64(nhi) > countRatio*float64(nlo) {
+			s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
+				Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export or resample (--resample)",
+					s.Protocols[hi].Label, nhi, s.Protocols[lo].Label, nlo)})
+		}
+	}
+	return s, nil
+}
+
+func (s *Specimen) warn(line int, protocol, format string, args ...any) {
+	s.Warnings = append(s.Warnings, Warning{File: s.Source, Line: line, Sheet: s.Sheet, Protocol: protocol,
+		Message: fmt.Sprintf(format, args...)})
+}
+
+// prepareProtocol selects, re-references, resamples and weights one protocol.
+func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Options) (Protocol, error) {
+	pr := Protocol{Label: label, UserWeight: 1, RawRows: len(rows), RefF: [4]float64{1, 0, 0, 1}, KeptBranch: opt.Branch}
+	if w, ok := opt.ProtocolWeights[label]; ok {
+		pr.UserWeight = w
+	}
+	firstLine := rec.Rows[rows[0]].Line
+	perr := func(cat error, fix, format string, args ...any) *ParseError {
+		return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: firstLine, Err: cat, Fix: fix,
+			Msg: fmt.Sprintf("protocol %s (rows from line %d): ", label, firstLine) + fmt.Sprintf(format, args...)}
+	}
+
+	d := make([]float64, len(rows))
+	dmin, dmax := math.Inf(1), math.Inf(-1)
+	for i, r := range rows {
+		d[i] = drive(&rec.Rows[r].F)
+		dmin = math.Min(dmin, d[i])
+		dmax = math.Max(dmax, d[i])
+	}
+	if len(rows) >= MinPoints && !(dmax > dmin) {
+		return pr, perr(ErrProtocol, "check the kinematic columns; a protocol must stretch the specimen",
+			"the stretch never changes")
+	}
+
+	var cycles []cycleSpan
+	if rec.HasCycle {
+		cycles = cyclesByColumn(rec, rows, d)
+	} else {
+		var lead int
+		cycles, lead = cyclesByTurns(d, turnFraction*(dmax-dmin))
+		if lead > 0 {
+			s.Notices = append(s.Notices, fmt.Sprintf("protocol %s: the first %d rows (from line %d) fall before the first loading and belong to no cycle", label, lead, firstLine))
+		}
+	}
+	pr.Cycles = len(cycles)
+
+	// Choose cycles.
+	var chosen []int
+	switch {
+	case opt.Cycle == CycleAll:
+		for k := range cycles {
+			chosen = append(chosen, k)
+		}
+	case opt.Cycle == CycleLast:
+		chosen = []int{len(cycles) - 1}
+		pr.KeptCycle = len(cycles)
+	default:
+		if opt.Cycle > len(cycles) {
+			return pr, perr(ErrProtocol, fmt.Sprintf("choose a cycle from 1 to %d, or last", len(cycles)),
+				"cycle %d was asked for, but the protocol has %d", opt.Cycle, len(cycles))
+		}
+		chosen = []int{opt.Cycle - 1}
+		pr.KeptCycle = opt.Cycle
+	}
+	if (opt.Cycle == CycleAll && len(cycles) > 1 || opt.Branch == BranchAll) && opt.Resample > 0 {
+		return pr, perr(ErrOptions, "resample a single branch of a single cycle",
+			"resampling needs a single branch of a single cycle, but %s", keptWords(opt, len(cycles)))
+	}
+
+	// Collect the kept positions and check the branch directions.
+	var keep []int
+	var cyc []int
+	for _, k := range chosen {
+		c := cycles[k]
+		var part []int
+		switch opt.Branch {
+		case BranchLoading:
+			part = c.idx[:c.peak+1]
+			checkDirection(s, rec, label, rows, d, part, +1, backFraction*(dmax-dmin))
+		case BranchUnloading:
+			part = c.idx[c.peak:]
+			checkDirection(s, rec, label, rows, d, part, -1, backFraction*(dmax-dmin))
+		case BranchAll:
+			part = c.idx
+			if c.shared && k != chosen[len(chosen)-1] {
+				part = part[:len(part)-1]
+			}
+			checkDirection(s, rec, label, rows, d, c.idx[:c.peak+1], +1, backFraction*(dmax-dmin))
+			checkDirection(s, rec, label, rows, d, c.idx[c.peak:], -1, backFraction*(dmax-dmin))
+		}
+		keep = append(keep, part...)
+		for range part {
+			cyc = append(cyc, k+1)
+		}
+	}
+	pr.SelectedPoints = len(keep)
+	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), len(rows))
+	if len(keep) < MinPoints {
+		return pr, perr(ErrProtocol, "choose another cycle or branch, or check that the protocol labels and the stretch columns are right",
+			"keeps %s (%s); at least %d are needed", plural(len(keep), "point"), keptWords(opt, len(cycles)), MinPoints)
+	}
+	pts := make([]Point, len(keep))
+	for i, pos := range keep {
+		pts[i] = rec.Rows[rows[pos]].Point
+		pts[i].Cycle = cyc[i]
+	}
+
+	if opt.Rereference {
+		rereference(pts, s.Kind, &s.Measured, &pr)
+	}
+	checkNegative(s, label, pts)
+	if opt.Resample > 0 {
+		var err error
+		pts, err = resample(pts, opt.Resample)
+		if err != nil {
+			return pr, perr(ErrProtocol, "keep a branch whose stretch changes, or do not resample", "%v", err)
+		}
+	}
+	pr.Points = pts
+	weigh(s, &pr)
+	return pr, nil
+}
+
+func keptWords(opt Options, n int) string {
+	br := opt.Branch.String() + " branch"
+	if opt.Branch == BranchAll {
+		br = "both branches"
+	}
+	switch opt.Cycle {
+	case CycleAll:
+		if opt.Branch == BranchAll {
+			return fmt.Sprintf("all %d cycles", n)
+		}
+		return fmt.Sprintf("all %d cycles, %s", n, strings.Replace(br, "branch", "branches", 1))
+	case CycleLast:
+		return fmt.Sprintf("cycle %d of %d, %s", n, n, br)
+	}
+	return fmt.Sprintf("cycle %d of %d, %s", opt.Cycle, n, br)
+}
+
+// cyclesByColumn groups a protocol's rows by the file's cycle numbers
+// (ascending); each cycle's peak is its largest driving stretch.
+func cyclesByColumn(rec *Record, rows []int, d []float64) []cycleSpan {
+	byNum := map[int][]int{}
+	var nums []int
+	for pos, r := range rows {
+		c := rec.Rows[r].Cycle
+		if _, ok := byNum[c]; !ok {
+			nums = append(nums, c)
+		}
+		byNum[c] = append(byNum[c], pos)
+	}
+	sort.Ints(nums)
+	spans := make([]cycleSpan, len(nums))
+	for k, c := range nums {
+		idx := byNum[c]
+		peak := 0
+		for j, pos := range idx {
+			if d[pos] > d[idx[peak]] {
+				peak = j
+			}
+		}
+		spans[k] = cycleSpan{idx: idx, peak: peak}
+	}
+	return spans
+}
+
+// cyclesByTurns finds the cycles of a record without a cycle column from the
+// turns of the driving stretch d. A turn counts once d has moved back from
+// the running extreme by more than tol (hysteresis thresholding), which
+// ignores jitter smaller than tol. Cycles run valley to valley; rows before
+// a record's first valley, when it starts by falling, belong to no cycle and
+// their count is returned as lead.
+func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
+	n := len(d)
+	if n == 0 {
+		return nil, 0
+	}
+	// Find the first decisive move.
+	lo, hi := 0, 0
+	start := 0
+	rising := true
+	i := 1
+	for ; i < n; i++ {
+		if d[i] < d[lo] {
+			lo = i
+		}
+		if d[i] > d[hi] {
+			hi = i
+		}
+		if d[i]-d[lo] > tol {
+			rising, start = true, lo
+			break
+		}
+		if d[hi]-d[i] > tol {
+			rising, start = false, hi
+			break
+		}
+	}
+	if i >= n { // never moved by more than tol: one loading branch
+		peak := 0
+		for j := range d {
+			if d[j] > d[peak] {
+				peak = j
+			}
+		}
+		return []cycleSpan{{idx: seq(0, n-1), peak: peak}}, 0
+	}
+	var peaks, valleys []int
+	if rising {
+		valleys = append(valleys, 0) // rows before the first low still load
+	} else {
+		peaks = append(peaks, -1) // the leading fall is no cycle's unloading
+	}
+	ext := start
+	for i := start + 1; i < n; i++ {
+		if rising {
+			if d[i] > d[ext] {
+				ext = i
+			} else if d[ext]-d[i] > tol {
+				peaks = append(peaks, ext)
+				rising = false
+				ext = i
+			}
+		} else {
+			if d[i] < d[ext] {
+				ext = i
+			} else if d[i]-d[ext] > tol {
+				valleys = append(valleys, ext)
+				rising = true
+				ext = i
+			}
+		}
+	}
+	if rising {
+		peaks = append(peaks, ext)
+	}
+	if peaks[0] == -1 {
+		if len(valleys) == 0 { // the record only falls: one unloading branch
+			return []cycleSpan{{idx: seq(0, n-1), peak: start}}, 0
+		}
+		peaks = peaks[1:]
+		lead = valleys[0]
+	}
+	// Now cycle k runs from valleys[k] through peaks[k] to valleys[k+1]
+	// (or to the end).
+	for k := range peaks {
+		from := valleys[k]
+		to := n - 1
+		shared := false
+		if k+1 < len(valleys) {
+			to = valleys[k+1]
+			shared = true
+		}
+		spans = append(spans, cycleSpan{idx: seq(from, to), peak: peaks[k] - from, shared: shared})
+	}
+	return spans, lead
+}
+
+func seq(a, b int) []int {
+	s := make([]int, 0, b-a+1)
+	for i := a; i <= b; i++ {
+		s = append(s, i)
+	}
+	return s
+}
+
+// checkDirection warns when the driving stretch moves against the branch
+// direction (dir +1 loading, −1 unloading) by more than tol.
+func checkDirection(s *Specimen, rec *Record, label string, rows []int, d []float64, part []int, dir float64, tol float64) {
+	if len(part) < 2 || tol <= 0 {
+		return
+	}
+	best := dir * d[part[0]]
+	count, first, worst := 0, 0, 0.0
+	for _, pos := range part[1:] {
+		v := dir * d[pos]
+		if v > best {
+			best = v
+			continue
+		}
+		if best-v > tol {
+			if count == 0 {
+				first = rec.Rows[rows[pos]].Line
+			}
+			count++
+			worst = math.Max(worst, best-v)
+		}
+	}
+	if count > 0 {
+		what := "loading"
+		verb := "falls back"
+		if dir < 0 {
+			what, verb = "unloading", "rises again"
+		}
+		s.warn(first, label, "protocol %s: in a %s branch the stretch %s by up to %.3g (%s, first on line %d) — check for slipping markers or grips, or an unmarked cycle",
+			label, what, verb, worst, plural(count, "row"), first)
+	}
+}
+
+// checkNegative warns about clearly negative normal stress on a stretched axis.
+func checkNegative(s *Specimen, label string, pts []Point) {
+	for _, c := range []Component{C11, C22} {
+		if !s.Measured[c] {
+			continue
+		}
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for i := range pts {
+			lo = math.Min(lo, pts[i].Stress[c])
+			hi = math.Max(hi, pts[i].Stress[c])
+		}
+		rng := hi - lo
+		if !(rng > 0) {
+			continue
+		}
+		count, first := 0, -1
+		for i := range pts {
+			lam := pts[i].Stretch1()
+			if c == C22 {
+				lam = pts[i].Stretch2()
+			}
+			if lam > 1+negStretch && pts[i].Stress[c] < -negFraction*rng {
+				if first < 0 {
+					first = i
+				}
+				count++
+			}
+		}
+		if count > 0 {
+			p := &pts[first]
+			lam := p.Stretch1()
+			if c == C22 {
+				lam = p.Stretch2()
+			}
+			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %s like this) — a tare offset? zero the load cells before the test, or re-reference (--rereference)",
+				label, s.Kind, c, p.Stress[c], s.StressUnit, lam, p.Line, plural(count, "point"))
+		}
+	}
+}
+
+// rereference moves the reference state to the first point (see
+// Options.Rereference).
+func rereference(pts []Point, kind StressKind, measured *[NumComponents]bool, pr *Protocol) {
+	ref := pts[0].F
+	pr.RefF = ref
+	det := ref[0]*ref[3] - ref[1]*ref[2]
+	inv := [4]float64{ref[3] / det, -ref[1] / det, -ref[2] / det, ref[0] / det}
+	for i := range pts {
+		f := pts[i].F
+		// F ← F·F_ref⁻¹ (row-major 2×2: F11 F12 / F21 F22).
+		pts[i].F = [4]float64{
+			f[0]*inv[0] + f[1]*inv[2], f[0]*inv[1] + f[1]*inv[3],
+			f[2]*inv[0] + f[3]*inv[2], f[2]*inv[1] + f[3]*inv[3],
+		}
+		if kind == Nominal {
+			// P ← P·F_refᵀ: the reference area changes with the reference
+			// state. Unmeasured components are taken as zero.
+			st := pts[i].Stress
+			p11, p22, p12, p21 := st[C11], st[C22], st[C12], st[C21]
+			st[C11] = p11*ref[0] + p12*ref[1]
+			st[C12] = p11*ref[2] + p12*ref[3]
+			st[C21] = p21*ref[0] + p22*ref[1]
+			st[C22] = p21*ref[2] + p22*ref[3]
+			for c := range st {
+				if !measured[c] {
+					st[c] = 0
+				}
+			}
+			pts[i].Stress = st
+		}
+	}
+	pr.Tare = pts[0].Stress
+	for i := range pts {
+		for c := range pts[i].Stress {
+			pts[i].Stress[c] -= pr.Tare[c]
+		}
+	}
+	// The reference point is exactly the identity and stress-free.
+	pts[0].F = [4]float64{1, 0, 0, 1}
+}
+
+// resample returns n points evenly spaced in the driving stretch between
+// the first and last point, by linear interpolation of F, stress and time.
+func resample(pts []Point, n int) ([]Point, error) {
+	d := make([]float64, len(pts))
+	for i := range pts {
+		d[i] = drive(&pts[i].F)
+	}
+	d0, d1 := d[0], d[len(d)-1]
+	if d0 == d1 {
+		return nil, fmt.Errorf("the driving stretch is the same at both ends of the kept branch")
+	}
+	out := make([]Point, n)
+	cur := 0
+	for j := 0; j < n; j++ {
+		t := d0 + (d1-d0)*float64(j)/float64(n-1)
+		if j == n-1 {
+			t = d1
+		}
+		seg := findSegment(d, t, cur)
+		if seg < 0 {
+			seg = findSegment(d, t, 0)
+		}
+		if seg < 0 { // cannot happen for t between d0 and d1; keep safe
+			seg = len(d) - 2
+		}
+		cur = seg
+		a, b := &pts[seg], &pts[seg+1]
+		u := 0.0
+		if d[seg+1] != d[seg] {
+			u = (t - d[seg]) / (d[seg+1] - d[seg])
+		}
+		p := *a
+		for k := range p.F {
+			p.F[k] = a.F[k] + u*(b.F[k]-a.F[k])
+		}
+		for k := range p.Stress {
+			p.Stress[k] = a.Stress[k] + u*(b.Stress[k]-a.Stress[k])
+		}
+		p.Time = a.Time + u*(b.Time-a.Time)
+		if u > 0.5 {
+			p.Line = b.Line
+		}
+		out[j] = p
+	}
+	return out, nil
+}
+
+// findSegment returns the first i ≥ from with t between d[i] and d[i+1].
+func findSegment(d []float64, t float64, from int) int {
+	for i := from; i+1 < len(d); i++ {
+		lo, hi := d[i], d[i+1]
+		if lo > hi {
+			lo, hi = hi, lo
+		}
+		if t >= lo && t <= hi {
+			return i
+		}
+	}
+	return -1
+}
+
+// weigh sets pr.Weight: UserWeight/(range·√n) per measured component (see
+// Protocol.Weight and the package documentation for the guards).
+func weigh(s *Specimen, pr *Protocol) {
+	n := len(pr.Points)
+	var rng [NumComponents]float64
+	for c := C11; c < NumComponents; c++ {
+		if !s.Measured[c] {
+			continue
+		}
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for i := range pr.Points {
+			lo = math.Min(lo, pr.Points[i].Stress[c])
+			hi = math.Max(hi, pr.Points[i].Stress[c])
+		}
+		rng[c] = hi - lo
+	}
+	ref := math.Max(rng[C11], rng[C22])
+	if ref == 0 {
+		ref = math.Max(rng[C12], rng[C21])
+	}
+	sq := math.Sqrt(float64(n))
+	if ref == 0 {
+		s.warn(pr.Points[0].Line, pr.Label, "protocol %s: every measured stress is constant; each component is weighted 1/√n — check the stress columns", pr.Label)
+		for c := C11; c < NumComponents; c++ {
+			if s.Measured[c] {
+				pr.Weight[c] = pr.UserWeight / sq
+			}
+		}
+		return
+	}
+	meanNormal := (rng[C11] + rng[C22]) / 2
+	for c := C11; c < NumComponents; c++ {
+		if !s.Measured[c] {
+			continue
+		}
+		r := rng[c]
+		switch c {
+		case C11, C22:
+			if r < rangeFloor*ref {
+				s.warn(pr.Points[0].Line, pr.Label, "protocol %s: stress %s spans only %.4g %s, less than a tenth of the other axis; it is weighted as if it spanned %.4g so that its noise does not dominate",
+					pr.Label, c, r, s.StressUnit, rangeFloor*ref)
+				r = rangeFloor * ref
+			}
+		default:
+			r = math.Max(math.Max(r, meanNormal), rangeFloor*ref)
+		}
+		pr.Weight[c] = pr.UserWeight / (r * sq)
+	}
+}
+
+func plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return fmt.Sprintf("%d %ss", n, word)
+}

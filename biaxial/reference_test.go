@@ -1,0 +1,232 @@
+package biaxial
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+)
+
+// Re-referencing to a preload, worked by hand. Reference point: λ = (1.02,
+// 1.01), P = (2, 1) kPa. A later point: λ = (1.122, 1.111), P = (52, 31).
+// New stretches: 1.122/1.02 = 1.1, 1.111/1.01 = 1.1. Nominal stress is force
+// per reference area; the reference area of axis 1 is W2'·H' with
+// W2' = 1.01·W2 and H' = H/(1.02·1.01) (incompressibility), so
+// P11' = 1.02·P11 and P22' = 1.01·P22 (P' = P·F_refᵀ); then the tare:
+// P11' = 1.02·(52 − 2) = 51, P22' = 1.01·(31 − 1) = 30.3.
+func TestRereferenceHand(t *testing.T) {
+	in := "protocol,stretch_1,stretch_2,nominal_11,nominal_22\n" +
+		"1:1,1.02,1.01,2,1\n1:1,1.04,1.03,10,5\n1:1,1.07,1.06,25,14\n1:1,1.1,1.09,40,23\n1:1,1.122,1.111,52,31\n"
+	s, err := readString(in, Options{Rereference: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := s.Protocols[0]
+	p0, p4 := pr.Points[0], pr.Points[4]
+	if p0.F != [4]float64{1, 0, 0, 1} || p0.Stress != [NumComponents]float64{} {
+		t.Errorf("reference point %+v, want identity and zero stress", p0)
+	}
+	if !near(p4.F[0], 1.1, 1e-12) || !near(p4.F[3], 1.1, 1e-12) {
+		t.Errorf("new stretches %v, %v; want 1.1, 1.1", p4.F[0], p4.F[3])
+	}
+	if !near(p4.Stress[C11], 51, 1e-12) || !near(p4.Stress[C22], 30.3, 1e-12) {
+		t.Errorf("re-based stress %v, %v; want 51, 30.3 (hand-computed)", p4.Stress[C11], p4.Stress[C22])
+	}
+	if pr.RefF != [4]float64{1.02, 0, 0, 1.01} || !near(pr.Tare[C11], 2.04, 1e-12) || !near(pr.Tare[C22], 1.01, 1e-12) {
+		t.Errorf("RefF %v Tare %v; want (1.02,0,0,1.01) and (2.04, 1.01)", pr.RefF, pr.Tare)
+	}
+	if !strings.Contains(s.Reference, "re-referenced") {
+		t.Errorf("Reference = %q", s.Reference)
+	}
+
+	// Cauchy stress is per current area: only the tare changes it.
+	in = strings.ReplaceAll(in, "nominal_", "cauchy_")
+	s, err = readString(in, Options{Rereference: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p := s.Protocols[0].Points[4]; p.Stress[C11] != 50 || p.Stress[C22] != 30 {
+		t.Errorf("Cauchy after tare %v, %v; want 50, 30", p.Stress[C11], p.Stress[C22])
+	}
+}
+
+// For F data the new gradient is F·F_ref⁻¹, so F_new·F_ref must give back
+// the measured F (matrix algebra), and the reference becomes the identity.
+func TestRereferenceGradient(t *testing.T) {
+	in := "protocol,F11,F12,F21,F22,cauchy_11,cauchy_22,cauchy_12\n" +
+		"p,1.02,0.01,0.005,1.01,1,1,0\n"
+	for i := 1; i < 6; i++ {
+		x := 0.02 * float64(i)
+		in += fmt.Sprintf("p,%g,%g,%g,%g,%g,%g,%g\n", 1.02+x, 0.01+x/4, 0.005+x/8, 1.01+x/2, 1+10*x, 1+5*x, x)
+	}
+	raw, err := readString(in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := readString(in, Options{Rereference: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !s.HasShear {
+		t.Error("F12/F21 data must set HasShear")
+	}
+	ref := raw.Protocols[0].Points[0].F
+	for i, p := range s.Protocols[0].Points {
+		f := p.F
+		back := [4]float64{
+			f[0]*ref[0] + f[1]*ref[2], f[0]*ref[1] + f[1]*ref[3],
+			f[2]*ref[0] + f[3]*ref[2], f[2]*ref[1] + f[3]*ref[3],
+		}
+		for k := range back {
+			if math.Abs(back[k]-raw.Protocols[0].Points[i].F[k]) > 1e-14 {
+				t.Fatalf("point %d: F_new·F_ref = %v, measured %v", i, back, raw.Protocols[0].Points[i].F)
+			}
+		}
+		if d := p.Stress[C11] - (raw.Protocols[0].Points[i].Stress[C11] - 1); math.Abs(d) > 1e-14 {
+			t.Errorf("point %d: Cauchy tare not subtracted (off by %g)", i, d)
+		}
+	}
+}
+
+// Weights, worked by hand: n = 9 points, range of stress 11 = 40, of 22 = 10.
+// w11 = 1/(40·√9) = 1/120, w22 = 1/(10·3) = 1/30. Measured zero shear
+// (nominal_12 = nominal_21 = 0) takes the mean normal range 25: w = 1/75.
+// A user weight of 2 doubles them all.
+func TestWeightsHand(t *testing.T) {
+	in := "protocol,stretch_1,stretch_2,nominal_11,nominal_22,nominal_12,nominal_21\n"
+	for i := 0; i < 9; i++ {
+		in += fmt.Sprintf("1:1,%g,%g,%g,%g,0,0\n", 1+0.01*float64(i), 1+0.005*float64(i), 5*float64(i), 1.25*float64(i))
+	}
+	s, err := readString(in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := s.Protocols[0].Weight
+	want := [NumComponents]float64{1.0 / 120, 1.0 / 30, 1.0 / 75, 1.0 / 75}
+	for c := range want {
+		if !near(w[c], want[c], 1e-12) {
+			t.Errorf("weight %v = %v, want %v", Component(c), w[c], want[c])
+		}
+	}
+	s, err = readString(in, Options{ProtocolWeights: map[string]float64{"1:1": 2}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := s.Protocols[0].Weight; !near(w[C11], 2.0/120, 1e-12) || s.Protocols[0].UserWeight != 2 {
+		t.Errorf("user weight 2: w11 = %v, want %v", w[C11], 2.0/120)
+	}
+	if len(s.Warnings) != 0 {
+		t.Errorf("unexpected warnings %v", s.Warnings)
+	}
+}
+
+// Guards: an axis held near zero stress is weighted as if its range were a
+// tenth of the other axis's (with a warning); all-zero stress falls back to
+// 1/√n (with a warning).
+func TestWeightGuards(t *testing.T) {
+	in := "protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n"
+	for i := 0; i < 9; i++ {
+		in += fmt.Sprintf("1:0,%g,1,%g,%g\n", 1+0.01*float64(i), 5*float64(i), 0.25*float64(i%2))
+	}
+	s, err := readString(in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// range 11 = 40, range 22 = 0.25 < 4 → floored to 4: w22 = 1/(4·3).
+	if w := s.Protocols[0].Weight[C22]; !near(w, 1.0/12, 1e-12) {
+		t.Errorf("floored w22 = %v, want %v", w, 1.0/12)
+	}
+	if len(s.Warnings) != 1 || !strings.Contains(s.Warnings[0].Message, "less than a tenth") {
+		t.Errorf("warnings %v", s.Warnings)
+	}
+
+	in = "protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n"
+	for i := 0; i < 9; i++ {
+		in += fmt.Sprintf("p,%g,%g,0,0\n", 1+0.01*float64(i), 1+0.01*float64(i))
+	}
+	s, err = readString(in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := s.Protocols[0].Weight; w[C11] != 1.0/3 || w[C22] != 1.0/3 || w[C12] != 0 {
+		t.Errorf("all-zero fallback weights %v, want 1/3, 1/3, 0, 0", w)
+	}
+	if len(s.Warnings) != 1 || !strings.Contains(s.Warnings[0].Message, "constant") {
+		t.Errorf("warnings %v", s.Warnings)
+	}
+}
+
+// Resampling a branch on which stretch and stress are linear gives points
+// exactly on the same lines, evenly spaced in the driving stretch.
+func TestResample(t *testing.T) {
+	in := "protocol,time [ms],stretch_1,stretch_2,cauchy_11,cauchy_22\n"
+	lams := []float64{1, 1.003, 1.01, 1.02, 1.021, 1.05, 1.07, 1.1}
+	for i, l := range lams {
+		in += fmt.Sprintf("p,%d,%g,%g,%g,%g\n", 100*i, l, 1+(l-1)/2, 200*(l-1), 50*(l-1))
+	}
+	s, err := readString(in, Options{Resample: 11})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pts := s.Protocols[0].Points
+	if len(pts) != 11 || s.Protocols[0].SelectedPoints != 8 {
+		t.Fatalf("%d points (selected %d), want 11 (8)", len(pts), s.Protocols[0].SelectedPoints)
+	}
+	for j, p := range pts {
+		want := 1 + 0.01*float64(j)
+		if math.Abs(p.F[0]-want) > 1e-12 || math.Abs(p.F[3]-(1+(want-1)/2)) > 1e-12 ||
+			math.Abs(p.Stress[C11]-200*(want-1)) > 1e-9 || math.Abs(p.Stress[C22]-50*(want-1)) > 1e-9 {
+			t.Errorf("resampled point %d = %+v, want stretch %v on the lines", j, p, want)
+		}
+	}
+	if pts[0].Time != 0 || !near(pts[10].Time, 0.7, 1e-15) {
+		t.Errorf("time %v..%v s, want 0..0.7", pts[0].Time, pts[10].Time)
+	}
+	if _, err := readString(in, Options{Resample: 11, Branch: BranchAll}); err == nil {
+		t.Error("resampling both branches must be refused")
+	}
+}
+
+// Warnings: negative stress on a stretched axis, stretch going backwards in
+// a loading branch, very different point counts.
+func TestWarnings(t *testing.T) {
+	in := "protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n"
+	for i := 0; i < 6; i++ {
+		in += fmt.Sprintf("a,%g,%g,%g,%g\n", 1+0.02*float64(i), 1+0.02*float64(i), 10*float64(i)-8, 10*float64(i))
+	}
+	lams := []float64{1, 1.01, 1.02, 1.03, 1.04, 1.05, 1.06, 1.058, 1.07, 1.08, 1.09, 1.1, 1.11, 1.12, 1.13, 1.14, 1.15, 1.16, 1.17, 1.18, 1.19}
+	for _, l := range lams {
+		in += fmt.Sprintf("b,%g,%g,%g,%g\n", l, l, 100*(l-1), 100*(l-1))
+	}
+	s, err := readString(in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var msgs []string
+	for _, w := range s.Warnings {
+		msgs = append(msgs, fmt.Sprintf("%d|%s|%s", w.Line, w.Protocol, w.Message))
+	}
+	all := strings.Join(msgs, "\n")
+	// Protocol a: cauchy_11 = −8 only at λ = 1 (not stretched): no warning.
+	for _, want := range []string{
+		"15|b|protocol b: in a loading branch the stretch falls back by up to 0.002 (1 row, first on line 15)", // λ = 1.058
+		"protocol b keeps 21 points but protocol a only 6",
+	} {
+		if !strings.Contains(all, want) {
+			t.Errorf("warnings\n%s\nlack %q", all, want)
+		}
+	}
+
+	in = "protocol,stretch_1,stretch_2,nominal_11,nominal_22\n"
+	for i := 0; i < 6; i++ {
+		in += fmt.Sprintf("a,%g,%g,%g,%g\n", 1+0.02*float64(i), 1+0.02*float64(i), 10*float64(i)-25, 10*float64(i))
+	}
+	s, err = readString(in, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// λ1 = 1.02 → −15, 1.04 → −5: two points, the first on line 3.
+	if len(s.Warnings) != 1 || s.Warnings[0].Line != 3 || !strings.Contains(s.Warnings[0].Message, "nominal stress 11 is -15 kPa at stretch 1.02 (line 3; 2 points like this) — a tare offset?") {
+		t.Errorf("warnings %+v", s.Warnings)
+	}
+}

@@ -1,0 +1,132 @@
+package biaxial
+
+import (
+	"bytes"
+	"errors"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// makeWorkbook builds a synthetic two-sheet workbook: "notes" (prose only)
+// and "SYN-3" holding a specimen in the weft layout. bad, if not empty,
+// replaces cell C9.
+func makeWorkbook(t *testing.T, bad string) []byte {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	if err := f.SetSheetName("Sheet1", "notes"); err != nil {
+		t.Fatal(err)
+	}
+	f.SetCellStr("notes", "A1", "synthetic workbook for the weft tests")
+	if _, err := f.NewSheet("SYN-3"); err != nil {
+		t.Fatal(err)
+	}
+	sh := "SYN-3"
+	f.SetCellStr(sh, "A1", "# specimen = SYN-3 (synthetic)")
+	f.SetCellStr(sh, "A2", "# thickness =")
+	f.SetCellStr(sh, "B2", "0.5")
+	f.SetCellStr(sh, "C2", "mm")
+	f.SetCellStr(sh, "A3", "# size_1 = 10 mm")
+	f.SetCellStr(sh, "A4", "# size_2 = 10 mm")
+	// Row 5 left empty on purpose.
+	for i, h := range []string{"protocol", "stretch_1", "stretch_2", "load_1 [mN]", "load_2 [mN]"} {
+		cell, _ := excelize.CoordinatesToCellName(i+1, 6)
+		f.SetCellStr(sh, cell, h)
+	}
+	twoDecimals, err := f.NewStyle(&excelize.Style{NumFmt: 2}) // shows 0.00
+	if err != nil {
+		t.Fatal(err)
+	}
+	for r := 0; r < 6; r++ {
+		row := 7 + r
+		lam := 1 + 0.02*float64(r) + 1e-9 // digits a cell format would hide
+		f.SetCellStr(sh, cellName(1, row), "1:1")
+		f.SetCellFloat(sh, cellName(2, row), lam, -1, 64)
+		f.SetCellFloat(sh, cellName(3, row), lam, -1, 64)
+		f.SetCellStyle(sh, cellName(2, row), cellName(3, row), twoDecimals)
+		f.SetCellInt(sh, cellName(4, row), int64(100*r))
+		f.SetCellInt(sh, cellName(5, row), int64(50*r))
+	}
+	f.SetCellStr(sh, "E12", "250,0") // a decimal comma typed as text
+	if bad != "" {
+		f.SetCellStr(sh, "C9", bad)
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+func TestXLSXRead(t *testing.T) {
+	data := makeWorkbook(t, "")
+	s, err := Read(bytes.NewReader(data), "tests.xlsx", Options{Sheet: "SYN-3"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Name != "SYN-3 (synthetic)" || s.Sheet != "SYN-3" || s.Geometry == nil || s.Geometry.Thickness != 0.5 {
+		t.Fatalf("specimen %q sheet %q geometry %+v", s.Name, s.Sheet, s.Geometry)
+	}
+	pr := s.Protocols[0]
+	if len(pr.Points) != 6 || pr.Points[0].Line != 7 {
+		t.Fatalf("%d points from row %d; want 6 from row 7", len(pr.Points), pr.Points[0].Line)
+	}
+	// Raw cell values keep every digit.
+	if got := pr.Points[1].F[0]; got != 1.02+1e-9 {
+		t.Errorf("stretch %v, want %v (unformatted)", got, 1.02+1e-9)
+	}
+	// 500 mN over W2·H = 10 mm · 0.5 mm → 0.5 / 5e-6 Pa = 100 kPa (Sacks 2000
+	// conversion, hand-computed); 250 mN on axis 2 → 50 kPa.
+	if p := pr.Points[5]; !near(p.Stress[C11], 100, 1e-12) || !near(p.Stress[C22], 50, 1e-12) {
+		t.Errorf("stress %v, %v; want 100, 50 kPa", p.Stress[C11], p.Stress[C22])
+	}
+
+	// From a file path, first sheet by default: "notes" has no header.
+	path := filepath.Join(t.TempDir(), "tests.xlsx")
+	if err := writeFile(path, data); err != nil {
+		t.Fatal(err)
+	}
+	_, err = ReadFile(path, Options{})
+	var pe *ParseError
+	if !errors.As(err, &pe) || pe.Sheet != "notes" || !errors.Is(err, ErrMissingColumn) {
+		t.Errorf("first sheet without header: %v", err)
+	}
+	_, err = ReadFile(path, Options{Sheet: "nope"})
+	if err == nil || !strings.Contains(err.Error(), `no sheet "nope"`) || !strings.Contains(err.Error(), `"SYN-3"`) {
+		t.Errorf("unknown sheet: %v", err)
+	}
+}
+
+func TestXLSXErrorsNameTheCell(t *testing.T) {
+	data := makeWorkbook(t, "-1.04")
+	_, err := Read(bytes.NewReader(data), "tests.xlsx", Options{Sheet: "SYN-3"})
+	pe := wantParseError(t, err, ErrRange, 9, 3, "tests.xlsx:SYN-3!C9:", "stretch_2 is -1.04")
+	if pe.Cell != "C9" || pe.Sheet != "SYN-3" {
+		t.Errorf("cell %q sheet %q", pe.Cell, pe.Sheet)
+	}
+	data = makeWorkbook(t, "n/a")
+	_, err = Read(bytes.NewReader(data), "tests.xlsx", Options{Sheet: "SYN-3"})
+	wantParseError(t, err, ErrNumber, 9, 3, "SYN-3!C9", `"n/a"`)
+	_, err = Read(bytes.NewReader([]byte("PK\x03\x04broken")), "broken.xlsx", Options{})
+	if !errors.Is(err, ErrSyntax) || !strings.Contains(err.Error(), "broken.xlsx") {
+		t.Errorf("broken workbook: %v", err)
+	}
+}
+
+func TestCellName(t *testing.T) {
+	// A1 references (ECMA-376 / common spreadsheet practice): column 27 is AA.
+	for _, c := range []struct {
+		col, row int
+		want     string
+	}{{1, 1, "A1"}, {26, 3, "Z3"}, {27, 14, "AA14"}, {703, 2, "AAA2"}} {
+		if got := cellName(c.col, c.row); got != c.want {
+			t.Errorf("cellName(%d,%d) = %s, want %s", c.col, c.row, got, c.want)
+		}
+		if want, _ := excelize.CoordinatesToCellName(c.col, c.row); want != c.want {
+			t.Errorf("excelize disagrees: %s", want)
+		}
+	}
+}

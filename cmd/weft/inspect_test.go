@@ -1,0 +1,159 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// run executes weft with args and returns stdout, stderr and the exit code,
+// the way main does.
+func run(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	root := newRootCmd()
+	var out, errb bytes.Buffer
+	root.SetOut(&out)
+	root.SetErr(&errb)
+	root.SetArgs(args)
+	err := root.Execute()
+	if err != nil {
+		fmt.Fprintln(&errb, "weft:", err)
+	}
+	return out.String(), errb.String(), exitCode(err)
+}
+
+// writeSynthetic writes a synthetic two-protocol specimen file with loads,
+// two cycles per protocol and a preload, and returns its path.
+func writeSynthetic(t *testing.T, dir string) string {
+	var b strings.Builder
+	b.WriteString("# specimen = SYN-cmd (synthetic)\n# tissue = invented membrane\n# thickness = 0.5 mm\n# size_1 = 10 mm\n# size_2 = 10 mm\n")
+	b.WriteString("protocol,stretch_1,stretch_2,load_1 [N],load_2 [N]\n")
+	for _, p := range []struct {
+		label string
+		r     float64
+	}{{"1:1", 1}, {"1:0.5", 0.5}} {
+		for c := 0; c < 2; c++ {
+			for i := 0; i <= 8; i++ { // up
+				l := 1.01 + 0.01*float64(i)
+				fmt.Fprintf(&b, "%s,%g,%g,%g,%g\n", p.label, l, 1+p.r*(l-1), 2*(l-1), 2*p.r*(l-1))
+			}
+			for i := 7; i >= 1; i-- { // down
+				l := 1.01 + 0.01*float64(i)
+				fmt.Fprintf(&b, "%s,%g,%g,%g,%g\n", p.label, l, 1+p.r*(l-1), 1.6*(l-1), 1.6*p.r*(l-1))
+			}
+		}
+	}
+	path := filepath.Join(dir, "syn-cmd.csv")
+	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func TestInspectTable(t *testing.T) {
+	path := writeSynthetic(t, t.TempDir())
+	out, errs, code := run(t, "inspect", path)
+	if code != exitOK || errs != "" {
+		t.Fatalf("exit %d, stderr %q", code, errs)
+	}
+	for _, want := range []string{"SYN-cmd (synthetic)", "nominal stress in kPa, from loads", "1:0.5", "cycle 2, loading", "cycle 2 of 2, loading branch, 9 of 32 rows"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("table lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+func TestInspectJSON(t *testing.T) {
+	path := writeSynthetic(t, t.TempDir())
+	out, errs, code := run(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
+	if code != exitOK || errs != "" {
+		t.Fatalf("exit %d, stderr %q", code, errs)
+	}
+	var doc struct {
+		Specimens []struct {
+			Name       string `json:"name"`
+			StressUnit string `json:"stress_unit"`
+			Kind       string `json:"stress_kind"`
+			FromLoads  bool   `json:"from_loads"`
+			Protocols  []struct {
+				Label      string                `json:"label"`
+				Points     int                   `json:"points"`
+				Cycles     int                   `json:"cycles"`
+				KeptCycle  int                   `json:"kept_cycle"`
+				KeptBranch string                `json:"kept_branch"`
+				Stretch1   [2]float64            `json:"stretch_1"`
+				Stress     map[string][2]float64 `json:"stress"`
+				Weight     map[string]float64    `json:"weight"`
+				UserWeight float64               `json:"user_weight"`
+			} `json:"protocols"`
+			Warnings []any    `json:"warnings"`
+			Notices  []string `json:"notices"`
+		} `json:"specimens"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("not JSON: %v\n%s", err, out)
+	}
+	if len(doc.Specimens) != 1 || len(doc.Specimens[0].Protocols) != 2 {
+		t.Fatalf("shape: %+v", doc)
+	}
+	s := doc.Specimens[0]
+	p := s.Protocols[1]
+	// Cycle 1 unloading: the peak (λ1 = 1.09) down to the valley that starts
+	// cycle 2 (λ1 = 1.01): 9 points.
+	if s.Kind != "nominal" || !s.FromLoads || s.StressUnit != "kPa" || p.Label != "1:0.5" || p.Points != 9 ||
+		p.Cycles != 2 || p.KeptCycle != 1 || p.KeptBranch != "unloading" || p.UserWeight != 2 ||
+		p.Stretch1 != [2]float64{1.01, 1.09} || len(p.Stress) != 2 || p.Weight["11"] <= 0 {
+		t.Errorf("protocol 1:0.5: %+v", p)
+	}
+	// Same input, same output.
+	again, _, _ := run(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
+	if again != out {
+		t.Error("two runs gave different JSON")
+	}
+}
+
+func TestInspectBadInput(t *testing.T) {
+	dir := t.TempDir()
+	good := writeSynthetic(t, dir)
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n1:1,1,1,0,0\n1:1,-0.2,1,1,1\n"), 0o644)
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"inspect", good, bad}, "bad.csv:3:2: stretch_1 is -0.2"},
+		{[]string{"inspect", filepath.Join(dir, "missing.csv")}, "missing.csv"},
+		{[]string{"inspect"}, "at least one FILE"},
+		{[]string{"inspect", "--cycle", "first", good}, "--cycle"},
+		{[]string{"inspect", "--branch", "up", good}, "--branch"},
+		{[]string{"inspect", "--resample", "2", good}, "--resample"},
+		{[]string{"inspect", "--weight", "1:1", good}, "LABEL=W"},
+		{[]string{"inspect", "--weight", "9:9=1", good}, `"9:9"`},
+		{[]string{"inspect", "--cycle", "3", good}, "cycle 3 was asked for"},
+		{[]string{"inspect", "--sheet", "x", good}, "not an xlsx"},
+		{[]string{"inspect", "--no-such-flag", good}, "unknown flag"},
+	}
+	for _, c := range cases {
+		out, errs, code := run(t, c.args...)
+		if code != exitBadInput {
+			t.Errorf("%v: exit %d, want %d", c.args, code, exitBadInput)
+		}
+		if out != "" {
+			t.Errorf("%v: printed %q on stdout", c.args, out)
+		}
+		if !strings.Contains(errs, c.want) {
+			t.Errorf("%v: stderr %q lacks %q", c.args, errs, c.want)
+		}
+	}
+}
+
+func TestInspectHelp(t *testing.T) {
+	out, _, code := run(t, "inspect", "--help")
+	if code != exitOK || !strings.Contains(out, "--rereference") || !strings.Contains(out, "Examples:") {
+		t.Errorf("help (exit %d):\n%s", code, out)
+	}
+}

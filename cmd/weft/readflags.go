@@ -1,0 +1,69 @@
+package main
+
+import (
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/weft-tools/weft/biaxial"
+)
+
+// readFlags are the options every command that reads test files shares.
+type readFlags struct {
+	sheet       string
+	cycle       string
+	branch      string
+	rereference bool
+	resample    int
+	weights     []string
+}
+
+// addReadFlags registers the data-reading flags on cmd.
+func addReadFlags(cmd *cobra.Command) *readFlags {
+	f := &readFlags{}
+	fl := cmd.Flags()
+	fl.StringVar(&f.sheet, "sheet", "", "xlsx sheet to read (default: the first sheet)")
+	fl.StringVar(&f.cycle, "cycle", "last", "cycle kept in each protocol: a number from 1, last, or all")
+	fl.StringVar(&f.branch, "branch", "loading", "branch kept: loading, unloading or all")
+	fl.BoolVar(&f.rereference, "rereference", false, "move the reference state to the first kept point of each protocol and remove its stress as a tare")
+	fl.IntVar(&f.resample, "resample", 0, "resample each protocol to N points evenly spaced in stretch (0: off)")
+	fl.StringArrayVar(&f.weights, "weight", nil, "relative weight of a protocol, LABEL=W (repeatable; default 1)")
+	return f
+}
+
+// options turns the flags into biaxial.Options; errors are bad input.
+func (f *readFlags) options() (biaxial.Options, error) {
+	var o biaxial.Options
+	var err error
+	o.Sheet = f.sheet
+	if o.Cycle, err = biaxial.ParseCycle(f.cycle); err != nil {
+		return o, badInputf("--cycle: %v", err)
+	}
+	if o.Branch, err = biaxial.ParseBranch(f.branch); err != nil {
+		return o, badInputf("--branch: %v", err)
+	}
+	o.Rereference = f.rereference
+	if f.resample != 0 && f.resample < biaxial.MinPoints {
+		return o, badInputf("--resample %d: use 0 (off) or at least %d points", f.resample, biaxial.MinPoints)
+	}
+	o.Resample = f.resample
+	for _, w := range f.weights {
+		i := strings.LastIndexByte(w, '=')
+		if i <= 0 {
+			return o, badInputf("--weight %q: write LABEL=W, e.g. --weight 1:0.5=2", w)
+		}
+		v, err := strconv.ParseFloat(strings.TrimSpace(w[i+1:]), 64)
+		if err != nil || !(v >= 0) || v > 1e300 {
+			return o, badInputf("--weight %q: the weight must be a finite number ≥ 0", w)
+		}
+		if o.ProtocolWeights == nil {
+			o.ProtocolWeights = map[string]float64{}
+		}
+		label := strings.TrimSpace(w[:i])
+		if _, dup := o.ProtocolWeights[label]; dup {
+			return o, badInputf("--weight: protocol %q is given twice", label)
+		}
+		o.ProtocolWeights[label] = v
+	}
+	return o, nil
+}

@@ -98,6 +98,9 @@ type Columns struct {
 	// filled only when derivatives are asked for.
 	DAngle, DKappa []float64
 	DParam         [terms.MaxParams][]float64
+	// Skip, when non-nil, marks terms whose columns Fill leaves as they are
+	// (a caller that knows they have not changed).
+	Skip []bool
 }
 
 // resize makes c hold rows×cols entries, reusing its buffers.
@@ -147,6 +150,9 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		}
 	}
 	for t := range m.Terms {
+		if c.Skip != nil && c.Skip[t] {
+			continue
+		}
 		term := &m.Terms[t]
 		col := c.A[t*rows : (t+1)*rows]
 		if !term.Shape.Arg.NeedsFamily() {

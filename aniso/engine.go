@@ -40,6 +40,11 @@ type engine struct {
 	// evaluation infeasible (for dictionary scans, where some grid rates
 	// are bound to overflow at large stretch).
 	skipOverflow bool
+	// static marks design groups whose columns cannot change between
+	// evaluations (isotropic terms with no free parameter); their columns
+	// and cross products are computed once.
+	static     []bool
+	staticDone bool
 }
 
 // paramKind says what a non-linear parameter moves.
@@ -80,6 +85,22 @@ func newEngine(p *Problem, m *Model, groups [][]int, famOf []int, layout Layout,
 	e.v = make([][]float64, len(params))
 	for i := range e.v {
 		e.v[i] = make([]float64, e.rows)
+	}
+	e.static = make([]bool, e.ng)
+	free := map[int]bool{}
+	for _, q := range params {
+		if q.Kind == kindShape {
+			free[q.Group] = true
+		}
+	}
+	e.cols.Skip = make([]bool, len(m.Terms))
+	for g, members := range groups {
+		e.static[g] = !free[g]
+		for _, k := range members {
+			if m.Terms[k].Family >= 0 {
+				e.static[g] = false
+			}
+		}
 	}
 	return e
 }
@@ -151,10 +172,19 @@ func (e *engine) apply(theta []float64) {
 // a column overflows.
 func (e *engine) eval(theta []float64, derivs bool) float64 {
 	e.apply(theta)
+	for g, members := range e.groups {
+		for _, k := range members {
+			e.cols.Skip[k] = e.staticDone && e.static[g]
+		}
+	}
 	e.p.Data.Fill(e.model, &e.cols, derivs)
 	rows, ng := e.rows, e.ng
 	e.feasible = true
+	reuse := e.staticDone
 	for g, members := range e.groups {
+		if reuse && e.static[g] {
+			continue
+		}
 		a := e.A[g*rows : (g+1)*rows]
 		copy(a, e.cols.A[members[0]*rows:(members[0]+1)*rows])
 		for _, k := range members[1:] {
@@ -188,7 +218,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 			continue
 		}
 		for j := 0; j <= i; j++ {
-			if !e.allowed[j] {
+			if !e.allowed[j] || reuse && e.static[i] && e.static[j] {
 				continue
 			}
 			aj := e.A[j*rows : (j+1)*rows]
@@ -199,12 +229,16 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 			s /= e.norm[i] * e.norm[j]
 			e.G[i*ng+j], e.G[j*ng+i] = s, s
 		}
+		if reuse && e.static[i] {
+			continue
+		}
 		s := 0.0
 		for r := range ai {
 			s += ai[r] * y[r]
 		}
 		e.b[i] = s / e.norm[i]
 	}
+	e.staticDone = true
 	ws := e.nn.solve(e.G, e.b, ng, e.allowed)
 	for g := range e.w {
 		e.w[g] = 0

@@ -108,7 +108,7 @@ func (s Structure) Validate() error {
 // Settings tune a fit. The zero value gives the defaults.
 type Settings struct {
 	// ScanStepDeg is the coarse angle scan step in degrees: default 2.5
-	// for one angle, 7.5 for two.
+	// for one angle, 10 for two.
 	ScanStepDeg float64
 	// Starts is how many of the best scan minima are refined locally
 	// (default 3).
@@ -126,7 +126,7 @@ func (s Settings) withDefaults(nAngles int) Settings {
 	if s.ScanStepDeg <= 0 {
 		s.ScanStepDeg = 2.5
 		if nAngles == 2 {
-			s.ScanStepDeg = 7.5
+			s.ScanStepDeg = 10
 		}
 	}
 	if s.Starts <= 0 {

@@ -120,6 +120,13 @@ type Settings struct {
 	Profile bool
 	// ProfileStepDeg is the profile's grid step in degrees (default 2).
 	ProfileStepDeg float64
+	// Init, when non-nil, adds a starting point: non-linear parameters by
+	// name (as in Result.Params; angles in radians). Parameters it does not
+	// name start at their defaults.
+	Init map[string]float64
+	// NoScan skips the coarse angle scan and refines from Init alone (for
+	// warm starts such as cross-validation folds).
+	NoScan bool
 }
 
 func (s Settings) withDefaults(nAngles int) Settings {
@@ -216,10 +223,14 @@ type Result struct {
 	Flags            []string
 	// Loss is the weighted residual sum of squares; Rows the number of
 	// residuals; FreeParams the number of estimated quantities (active
-	// weights and non-linear parameters).
+	// weights and non-linear parameters not held at a bound).
 	Loss       float64
 	Rows       int
 	FreeParams int
+	// Complexity counts the active terms and every non-linear parameter
+	// they and the layout bring, whether or not it sits at a bound: the
+	// size of the model form, used to prefer the simpler of two forms.
+	Complexity int
 	// AICc and BIC from the weighted residual sum of squares.
 	AICc, BIC float64
 	// Metrics per protocol and measured component.
@@ -413,7 +424,22 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	set = set.withDefaults(nAngles)
 	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear}
 
-	starts := coarseStarts(p, st, set, nAngles, params)
+	var starts [][]float64
+	if set.Init != nil {
+		th := make([]float64, len(params))
+		for i, q := range params {
+			if q.Kind == kindShape {
+				th[i] = st.Terms[q.Group].Shape.Params[q.Index].Default
+			}
+			if v, ok := set.Init[q.Name]; ok {
+				th[i] = q.project(v)
+			}
+		}
+		starts = append(starts, th)
+	}
+	if set.Init == nil || !set.NoScan {
+		starts = append(starts, coarseStarts(p, st, set, nAngles, params)...)
+	}
 	e := newEngine(p, m, groups, famOf, st.Layout, params)
 	best := math.Inf(1)
 	var bestTheta []float64
@@ -423,7 +449,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 		res.Evaluations += lr.Evals
 		if lr.Loss < best {
 			best = lr.Loss
-			bestTheta = append([]float64(nil), th...)
+			bestTheta = append(make([]float64, 0, len(th)), th...)
 		}
 	}
 	if bestTheta == nil || math.IsInf(best, 1) {
@@ -611,9 +637,15 @@ func dominantParam(de *engine, entries []dictEntry, q param) float64 {
 		}
 	}
 	if math.IsNaN(v) {
-		return math.Min(q.Hi, math.Max(q.Lo, 1))
+		// The term takes no stress in the scan: start it where it is
+		// gentlest (smallest rate, largest limit), which cannot overflow
+		// where a steeper start might.
+		v = rateGrid[0]
+		if strings.HasPrefix(q.Name, "limit") {
+			v = limitGrid[len(limitGrid)-1]
+		}
 	}
-	return v
+	return math.Min(q.Hi, math.Max(q.Lo, v))
 }
 
 // dominantKappa returns the dispersion of the dictionary fibre column with
@@ -673,6 +705,16 @@ func (r *Result) notes(p *Problem) {
 			r.Notes = append(r.Notes, fmt.Sprintf("%s sits at a bound of its range (%g); the data push it there, so treat it as a limit, not an estimate.", est.Name, est.Value))
 		}
 	}
+}
+
+// Params returns the fitted non-linear parameters by name (angles in
+// radians), for warm starts of related fits.
+func (r *Result) Params() map[string]float64 {
+	out := map[string]float64{}
+	for i, q := range r.e.params {
+		out[q.Name] = r.theta[i]
+	}
+	return out
 }
 
 // Summary is a one-line description of the fitted form.

@@ -350,3 +350,30 @@ func BenchmarkGeneralPurposeOneFamily(b *testing.B) {
 		generalPurposeLoss(b, p)
 	}
 }
+
+// A model without non-linear parameters (neo-Hookean) fits exactly by
+// non-negative least squares: the weight equals the closed-form linear
+// least-squares solution w = Σ a·y / Σ a·a (common practice).
+func TestFitLinearOnly(t *testing.T) {
+	truth := &Model{Terms: []Term{{Shape: lookup("i1-lin"), Family: -1, Weight: 4}}}
+	spec := synthSpecimen(t, truth, synthOptions{noise: 0.02})
+	p, _ := NewProblem(spec, nil)
+	st, err := PresetStructure("neo-hookean")
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Fit(p, st, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var c Columns
+	p.Data.Fill(res.Model, &c, false)
+	num, den := 0.0, 0.0
+	for r, y := range p.Target {
+		num += c.A[r] * y
+		den += c.A[r] * c.A[r]
+	}
+	if math.Abs(res.Weights[0]-num/den) > 1e-9*num/den {
+		t.Errorf("weight %.12g, closed-form least squares %.12g", res.Weights[0], num/den)
+	}
+}

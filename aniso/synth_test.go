@@ -102,31 +102,42 @@ func synthSpecimen(t testing.TB, m *Model, o synthOptions) *biaxial.Specimen {
 			}
 			pr.Points = append(pr.Points, pt)
 		}
-		// Noise on the normal components, and default weights: each
-		// protocol and axis counts equally; shear rows use the mean range of
-		// the normal components (their own range may be zero).
-		for c := biaxial.C11; c <= biaxial.C22; c++ {
-			lo, hi := math.Inf(1), math.Inf(-1)
-			for _, pt := range pr.Points {
-				lo, hi = math.Min(lo, pt.Stress[c]), math.Max(hi, pt.Stress[c])
-			}
-			rg := hi - lo
-			for i := range pr.Points {
-				pr.Points[i].Stress[c] += o.noise * rg * rng.NormFloat64()
-			}
-			if rg == 0 {
-				rg = 1 // all-zero stress: weigh rows equally
-			}
-			pr.Weight[c] = 1 / (rg * math.Sqrt(float64(len(pr.Points))))
-		}
-		for c := biaxial.C12; c < biaxial.NumComponents; c++ {
-			if s.Measured[c] {
-				pr.Weight[c] = 2 / (1/pr.Weight[0] + 1/pr.Weight[1])
-			}
-		}
+		addNoiseRand(&pr, o.noise, rng, s.Measured)
 		s.Protocols = append(s.Protocols, pr)
 	}
 	return s
+}
+
+// addNoise adds Gaussian noise of σ = noise × range to the normal stress
+// components of a protocol and sets the default weights.
+func addNoise(pr *biaxial.Protocol, noise float64, seed uint64) {
+	m := [4]bool{true, true}
+	addNoiseRand(pr, noise, rand.New(rand.NewPCG(seed, 99)), m)
+}
+
+// addNoiseRand adds the noise and sets default weights: each protocol and
+// axis counts equally; shear rows use the mean range of the normal
+// components (their own range may be zero).
+func addNoiseRand(pr *biaxial.Protocol, noise float64, rng *rand.Rand, measured [4]bool) {
+	for c := biaxial.C11; c <= biaxial.C22; c++ {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, pt := range pr.Points {
+			lo, hi = math.Min(lo, pt.Stress[c]), math.Max(hi, pt.Stress[c])
+		}
+		rg := hi - lo
+		for i := range pr.Points {
+			pr.Points[i].Stress[c] += noise * rg * rng.NormFloat64()
+		}
+		if rg == 0 {
+			rg = 1 // all-zero stress: weigh rows equally
+		}
+		pr.Weight[c] = 1 / (rg * math.Sqrt(float64(len(pr.Points))))
+	}
+	for c := biaxial.C12; c < biaxial.NumComponents; c++ {
+		if measured[c] {
+			pr.Weight[c] = 2 / (1/pr.Weight[0] + 1/pr.Weight[1])
+		}
+	}
 }
 
 // solveSutured finds F12, F21 such that the shear nominal stresses vanish

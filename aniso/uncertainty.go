@@ -75,6 +75,11 @@ func (r *Result) uncertainty(p *Problem) {
 	}
 	k := len(cols)
 	r.FreeParams = k
+	for _, est := range r.Estimates {
+		if est.Status != "inactive" {
+			r.Complexity++
+		}
+	}
 	n := r.Rows
 	lossFloor := math.Max(r.Loss, 1e-300)
 	aic := float64(n)*math.Log(lossFloor/float64(n)) + 2*float64(k)

@@ -1,0 +1,952 @@
+package aniso
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+// DiscoverSettings tune model discovery. The zero value gives the defaults.
+type DiscoverSettings struct {
+	// MaxTerms is the largest model size K searched (default 5).
+	MaxTerms int
+	// Layouts are the fibre layouts compared (default: none, single,
+	// mirror, free).
+	Layouts []Layout
+	// Dispersion also tries every fibre layout with a learned dispersion κ
+	// (Gasser, Ogden & Holzapfel 2006), which stands in for a spread of
+	// fibre directions. It roughly doubles the work; off by default.
+	Dispersion bool
+	// Shapes are the candidate shapes (default: the whole catalogue).
+	Shapes []*terms.Shape
+	// RefitPerSize is how many of the best subsets of each size are refitted
+	// with their own angles and shape parameters (default 2).
+	RefitPerSize int
+	// Presets are the classical presets fitted for comparison (default
+	// neo-hookean, hgo, goh).
+	Presets []string
+	// ExhaustiveLimit is the largest number of subsets searched exhaustively
+	// per layout (default 200 000); beyond it a forward search with swaps
+	// is used.
+	ExhaustiveLimit int
+	// Workers run independent fits in parallel (default: all cores).
+	Workers int
+	// Fit settings for every fit (profiles are computed for the chosen model
+	// only).
+	Fit Settings
+	// Progress, when set, is called after each finished job with the number
+	// done and the total known so far.
+	Progress func(done, total int)
+}
+
+func (s DiscoverSettings) withDefaults() DiscoverSettings {
+	if s.MaxTerms <= 0 {
+		s.MaxTerms = 5
+	}
+	if s.Layouts == nil {
+		s.Layouts = []Layout{LayoutNone, LayoutSingle, LayoutMirror, LayoutFree}
+	}
+	if s.Shapes == nil {
+		s.Shapes = terms.Catalogue()
+	}
+	if s.RefitPerSize <= 0 {
+		s.RefitPerSize = 2
+	}
+	if s.Presets == nil {
+		s.Presets = []string{"neo-hookean", "hgo", "goh"}
+	}
+	if s.ExhaustiveLimit <= 0 {
+		s.ExhaustiveLimit = 200000
+	}
+	if s.Workers <= 0 {
+		s.Workers = runtime.NumCPU()
+	}
+	return s
+}
+
+// CVFold is one leave-one-protocol-out fold.
+type CVFold struct {
+	// Protocol is the held-out protocol's label.
+	Protocol string
+	// Error is the held-out normalised RMSE: √(weighted SSE / components),
+	// with the rows weighted as package biaxial delivers them (each
+	// protocol-axis by 1/(range·√points)), so 0.01 is about 1 % of range.
+	Error float64
+	// Metrics of the held-out prediction per component.
+	Metrics []Metric
+}
+
+// CVScore summarises leave-one-protocol-out cross-validation.
+type CVScore struct {
+	Folds []CVFold
+	// Mean and StdErr (standard deviation / √folds) of the fold errors.
+	Mean, StdErr float64
+}
+
+// Candidate is a fitted model form considered by discovery.
+type Candidate struct {
+	// Name is "preset:<name>" for presets, else "<layout>[+dispersion]-<k>".
+	Name   string
+	Layout Layout
+	// Terms is the number of active terms.
+	Terms  int
+	Result *Result
+	// CV is nil when the data have a single protocol.
+	CV *CVScore
+}
+
+// Verdict is the answer on the number of fibre families.
+type Verdict struct {
+	// Families is "0", "1", "2" or "1-or-mirror-pair".
+	Families string
+	// Reason states the evidence in words and numbers.
+	Reason string
+	// DeltaBIC is each family count's best BIC minus the overall best BIC,
+	// keyed "0", "1", "2-mirror", "2-free".
+	DeltaBIC map[string]float64
+	// CVError is each family count's cross-validated error (best model of
+	// that layout), same keys; empty without cross-validation.
+	CVError map[string]float64
+	// Decider names the extra measurement that would settle an undecided
+	// case, or is empty.
+	Decider string
+}
+
+// Discovery is the outcome of model discovery for one specimen.
+type Discovery struct {
+	// Pareto holds, per layout, the best model of each size (1…K).
+	Pareto []Candidate
+	// Presets are the classical models fitted to the same data.
+	Presets []Candidate
+	// Chosen indexes Pareto; Rule states the selection rule and numbers.
+	Chosen int
+	Rule   string
+	// Verdict on the number of fibre families.
+	Verdict Verdict
+	// Search describes how subsets were searched per layout.
+	Search []string
+	// CrossR2[i][j] is the mean R² over components of protocol j predicted
+	// by the chosen form fitted to protocol i alone (NaN where undefined).
+	CrossR2 [][]float64
+	// Elapsed wall time.
+	Elapsed time.Duration
+}
+
+// Best returns the chosen candidate.
+func (d *Discovery) Best() *Candidate { return &d.Pareto[d.Chosen] }
+
+// fullStructure has every candidate shape: isotropic ones once and fibre
+// ones on each family of the layout.
+func fullStructure(shapes []*terms.Shape, l Layout) Structure {
+	st := Structure{Layout: l}
+	for _, sh := range shapes {
+		if !sh.Arg.NeedsFamily() {
+			st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: -1})
+		}
+	}
+	nf := l.Families()
+	if l == LayoutMirror {
+		nf = 1
+	}
+	for f := 0; f < nf; f++ {
+		for _, sh := range shapes {
+			if sh.Arg.NeedsFamily() {
+				st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: f})
+			}
+		}
+	}
+	return st
+}
+
+// pool runs jobs on n workers and keeps results in job order, so that the
+// outcome does not depend on scheduling.
+type pool struct {
+	n        int
+	progress func(done, total int)
+	mu       sync.Mutex
+	done     int
+	total    int
+}
+
+func (p *pool) run(jobs []func()) {
+	p.mu.Lock()
+	p.total += len(jobs)
+	p.mu.Unlock()
+	ch := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < p.n; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range ch {
+				jobs[i]()
+				p.mu.Lock()
+				p.done++
+				d, t := p.done, p.total
+				p.mu.Unlock()
+				if p.progress != nil {
+					p.progress(d, t)
+				}
+			}
+		}()
+	}
+	for i := range jobs {
+		ch <- i
+	}
+	close(ch)
+	wg.Wait()
+}
+
+// subset is a set of design terms of a full structure with its fixed-angle
+// loss.
+type subset struct {
+	terms []int
+	loss  float64
+}
+
+// Discover finds which catalogue terms and how many fibre families the data
+// support. For each layout it fits the whole candidate set (non-negativity
+// already zeroes many weights), searches every subset of up to K terms at
+// the learned angles and shape parameters with non-negative least squares on
+// the cross products, refits the best subsets of each size with their own
+// angles and shape parameters, and cross-validates by leaving one protocol
+// out. The pick is the smallest model whose cross-validated error is within
+// one standard error of the best (Hastie, Tibshirani & Friedman 2009, §7.10).
+func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
+	start := time.Now()
+	set = set.withDefaults()
+	pl := &pool{n: set.Workers, progress: set.Progress}
+	fitSet := set.Fit
+	fitSet.Profile = false
+
+	// 1. Full candidate fits per form (layout, with or without dispersion).
+	var forms []Structure
+	for _, l := range set.Layouts {
+		forms = append(forms, Structure{Layout: l})
+		if l != LayoutNone && set.Dispersion {
+			forms = append(forms, Structure{Layout: l, Dispersion: true})
+		}
+	}
+	full := make([]*Result, len(forms))
+	fullErr := make([]error, len(forms))
+	var jobs []func()
+	for i, f := range forms {
+		i, f := i, f
+		jobs = append(jobs, func() {
+			st := fullStructure(set.Shapes, f.Layout)
+			st.Dispersion = f.Dispersion
+			full[i], fullErr[i] = Fit(p, st, fitSet)
+		})
+	}
+	pl.run(jobs)
+
+	// 2. Subset search at fixed angles and shape parameters, then a refit
+	// of the best subsets of each size with their own angles and shape
+	// parameters.
+	d := &Discovery{}
+	type refit struct {
+		layout int
+		st     Structure
+		init   map[string]float64
+		scan   bool
+		res    *Result
+	}
+	var refits []*refit
+	runRefits := func(rs []*refit) {
+		var jobs []func()
+		for _, rf := range rs {
+			rf := rf
+			jobs = append(jobs, func() {
+				s := fitSet
+				s.Init = rf.init
+				s.Starts = 2
+				s.NoScan = !rf.scan
+				rf.res, _ = Fit(p, rf.st, s)
+			})
+		}
+		pl.run(jobs)
+		refits = append(refits, rs...)
+	}
+	var round []*refit
+	for i, f := range forms {
+		l := formName(f)
+		if fullErr[i] != nil {
+			d.Search = append(d.Search, fmt.Sprintf("%s: the full candidate fit failed (%v)", l, fullErr[i]))
+			continue
+		}
+		best, how := searchSubsets(full[i], set.MaxTerms, set.RefitPerSize, set.ExhaustiveLimit)
+		d.Search = append(d.Search, fmt.Sprintf("%s: %s, then forward steps adding one term at a time to the best refitted model of each size", l, how))
+		init := full[i].Params()
+		for _, group := range best {
+			for _, s := range group {
+				st := Structure{Layout: f.Layout, Dispersion: f.Dispersion}
+				for _, k := range s.terms {
+					st.Terms = append(st.Terms, full[i].Structure.Terms[k])
+				}
+				round = append(round, &refit{layout: i, st: st, init: init, scan: true})
+			}
+		}
+	}
+	runRefits(round)
+
+	// The best refit of each (layout, active size).
+	type key struct {
+		layout, size int
+	}
+	bestOf := func() map[key]*Result {
+		m := map[key]*Result{}
+		for _, rf := range refits {
+			if rf.res == nil || !layoutSatisfied(rf.res) {
+				continue
+			}
+			k := key{rf.layout, activeTerms(rf.res)}
+			if k.size == 0 {
+				continue
+			}
+			if old, ok := m[k]; !ok || rf.res.Loss < old.Loss {
+				m[k] = rf.res
+			}
+		}
+		return m
+	}
+	// Forward steps: the best model of size k−1 plus each other candidate
+	// term, warm-started, so that the front is nested as well as searched.
+	for k := 2; k <= set.MaxTerms; k++ {
+		bm := bestOf()
+		round = round[:0:0]
+		for i, f := range forms {
+			base, ok := bm[key{i, k - 1}]
+			if !ok || fullErr[i] != nil {
+				continue
+			}
+			bst := activeStructure(base)
+			init := full[i].Params()
+			for name, v := range base.Params() {
+				init[name] = v
+			}
+			for _, t := range full[i].Structure.Terms {
+				if hasTerm(bst, t) {
+					continue
+				}
+				st := Structure{Layout: f.Layout, Dispersion: f.Dispersion, Terms: append(append([]TermSpec(nil), bst.Terms...), t)}
+				round = append(round, &refit{layout: i, st: st, init: init})
+			}
+		}
+		runRefits(round)
+	}
+
+	// 3. Pareto front per layout: the best refit of each active size, kept
+	// only when it improves on every smaller size of its layout.
+	bestBy := bestOf()
+	var keys []key
+	for k := range bestBy {
+		keys = append(keys, k)
+	}
+	sort.Slice(keys, func(a, b int) bool {
+		if keys[a].layout != keys[b].layout {
+			return keys[a].layout < keys[b].layout
+		}
+		return keys[a].size < keys[b].size
+	})
+	lastLoss := map[int]float64{}
+	for _, k := range keys {
+		r := bestBy[k]
+		if prev, ok := lastLoss[k.layout]; ok && r.Loss >= prev {
+			continue
+		}
+		lastLoss[k.layout] = r.Loss
+		f := forms[k.layout]
+		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-%d", formName(f), k.size), Layout: f.Layout, Terms: k.size, Result: r})
+	}
+	if len(d.Pareto) == 0 {
+		return nil, errors.New("no candidate model could be fitted; check the data with 'weft inspect' (units, stress kind) or fit a preset with --preset")
+	}
+
+	// 4. Classical presets on the same data.
+	presetRes := make([]*Result, len(set.Presets))
+	presetErr := make([]error, len(set.Presets))
+	jobs = jobs[:0]
+	for i, name := range set.Presets {
+		i, name := i, name
+		jobs = append(jobs, func() {
+			st, err := PresetStructure(name)
+			if err != nil {
+				presetErr[i] = err
+				return
+			}
+			presetRes[i], presetErr[i] = Fit(p, st, fitSet)
+		})
+	}
+	pl.run(jobs)
+	for i, name := range set.Presets {
+		if presetErr[i] != nil {
+			continue
+		}
+		r := presetRes[i]
+		d.Presets = append(d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
+	}
+
+	// 5. Leave-one-protocol-out cross-validation of every candidate.
+	if len(p.Protocols) >= 2 {
+		all := make([]*Candidate, 0, len(d.Pareto)+len(d.Presets))
+		for i := range d.Pareto {
+			all = append(all, &d.Pareto[i])
+		}
+		for i := range d.Presets {
+			all = append(all, &d.Presets[i])
+		}
+		crossValidate(p, all, fitSet, pl)
+	}
+
+	// 6. The pick and the verdict.
+	d.choose(p)
+	d.verdict(p)
+
+	// 7. Profiles for the chosen model, and the one-protocol cross matrix.
+	best := d.Best()
+	prof := set.Fit
+	prof.Profile = true
+	prof.Init = best.Result.Params()
+	prof.NoScan = true
+	if r, err := Fit(p, activeStructure(best.Result), prof); err == nil {
+		if activeTerms(r) == best.Terms && r.Loss <= best.Result.Loss*(1+1e-9) {
+			best.Result = r
+		} else {
+			best.Result.Profiles = r.Profiles
+		}
+	}
+	d.CrossR2 = crossMatrix(p, best.Result, fitSet, pl)
+	d.Elapsed = time.Since(start)
+	return d, nil
+}
+
+// formName names a model form for results: the layout, "+dispersion" when
+// the families have a learned κ.
+func formName(f Structure) string {
+	if f.Dispersion {
+		return f.Layout.String() + "+dispersion"
+	}
+	return f.Layout.String()
+}
+
+// PresetStructure returns the model form of a named preset.
+func PresetStructure(name string) (Structure, error) {
+	pr := terms.LookupPreset(name)
+	if pr == nil {
+		var names []string
+		for _, p := range terms.Presets() {
+			names = append(names, p.Name)
+		}
+		return Structure{}, fmt.Errorf("no preset %q; choose one of %s", name, strings.Join(names, ", "))
+	}
+	st := Structure{Dispersion: pr.Dispersion}
+	switch {
+	case pr.Families == 0:
+		st.Layout = LayoutNone
+	case pr.Families == 1:
+		st.Layout = LayoutSingle
+	case pr.Mirror:
+		st.Layout = LayoutMirror
+	default:
+		st.Layout = LayoutFree
+	}
+	for _, t := range pr.Terms {
+		sh := terms.Lookup(t.ID)
+		if t.Family == 0 {
+			st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: -1})
+			continue
+		}
+		if st.Layout == LayoutMirror && t.Family == 2 {
+			continue // the mirror pair shares the first family's terms
+		}
+		st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: t.Family - 1})
+	}
+	return st, nil
+}
+
+func hasTerm(st Structure, t TermSpec) bool {
+	for _, u := range st.Terms {
+		if u.Shape == t.Shape && u.Family == t.Family {
+			return true
+		}
+	}
+	return false
+}
+
+// activeStructure is r's form without its inactive terms.
+func activeStructure(r *Result) Structure {
+	st := Structure{Layout: r.Structure.Layout, Dispersion: r.Structure.Dispersion}
+	for i, t := range r.Structure.Terms {
+		if r.Weights[i] > 0 {
+			st.Terms = append(st.Terms, t)
+		}
+	}
+	return st
+}
+
+func activeTerms(r *Result) int {
+	n := 0
+	for _, w := range r.Weights {
+		if w > 0 {
+			n++
+		}
+	}
+	return n
+}
+
+// layoutSatisfied reports whether every family of the layout still has an
+// active fibre term (otherwise the fit is really a smaller layout).
+func layoutSatisfied(r *Result) bool {
+	nf := r.Structure.Layout.Families()
+	if r.Structure.Layout == LayoutMirror {
+		nf = 1
+	}
+	for f := 0; f < nf; f++ {
+		ok := false
+		for i, t := range r.Structure.Terms {
+			if t.Family == f && r.Weights[i] > 0 {
+				ok = true
+			}
+		}
+		if !ok {
+			return false
+		}
+	}
+	return true
+}
+
+// searchSubsets finds, for every size k = 1…K, the best `keep` subsets of
+// the full fit's design terms at its angles and shape parameters, using
+// non-negative least squares on the cross products. Subsets must keep a
+// fibre term in every family of the layout, and every weight of a kept
+// subset must be positive (otherwise it is a smaller subset).
+func searchSubsets(full *Result, K, keep, limit int) ([][]subset, string) {
+	e := full.e
+	e.eval(full.theta, false)
+	n := e.ng
+	fams := full.Structure.Layout.Families()
+	if full.Structure.Layout == LayoutMirror {
+		fams = 1
+	}
+	familyOf := make([]int, n)
+	for g, t := range full.Structure.Terms {
+		familyOf[g] = t.Family
+	}
+	yy := 0.0
+	for _, y := range e.p.Target {
+		yy += y * y
+	}
+	var q nnls
+	subG := make([]float64, K*K)
+	subB := make([]float64, K)
+	lossOf := func(set []int) (float64, bool) {
+		m := len(set)
+		for a, i := range set {
+			if !e.allowed[i] {
+				return math.Inf(1), false
+			}
+			subB[a] = e.b[i]
+			for b, j := range set {
+				subG[a*m+b] = e.G[i*n+j]
+			}
+		}
+		w := q.solve(subG[:m*m], subB[:m], m, nil)
+		l := yy
+		for a := 0; a < m; a++ {
+			if w[a] <= 0 {
+				return 0, false
+			}
+			l -= 2 * w[a] * subB[a]
+			for b := 0; b < m; b++ {
+				l += w[a] * subG[a*m+b] * w[b]
+			}
+		}
+		return math.Max(l, 0), true
+	}
+	valid := func(set []int) bool {
+		for f := 0; f < fams; f++ {
+			ok := false
+			for _, i := range set {
+				if familyOf[i] == f {
+					ok = true
+				}
+			}
+			if !ok {
+				return false
+			}
+		}
+		return true
+	}
+	best := make([][]subset, K+1)
+	consider := func(set []int, l float64) {
+		k := len(set)
+		lst := best[k]
+		if len(lst) == keep && l >= lst[len(lst)-1].loss {
+			return
+		}
+		lst = append(lst, subset{terms: append([]int(nil), set...), loss: l})
+		sort.SliceStable(lst, func(a, b int) bool { return lst[a].loss < lst[b].loss })
+		if len(lst) > keep {
+			lst = lst[:keep]
+		}
+		best[k] = lst
+	}
+	total := 0
+	for k := 1; k <= K && k <= n; k++ {
+		total += binomial(n, k)
+	}
+	how := ""
+	if total <= limit {
+		count := 0
+		set := make([]int, 0, K)
+		var rec func(from int)
+		rec = func(from int) {
+			if len(set) > 0 && valid(set) {
+				count++
+				if l, ok := lossOf(set); ok {
+					consider(set, l)
+				}
+			}
+			if len(set) == K {
+				return
+			}
+			for i := from; i < n; i++ {
+				set = append(set, i)
+				rec(i + 1)
+				set = set[:len(set)-1]
+			}
+		}
+		rec(0)
+		how = fmt.Sprintf("exhaustive search of %d term subsets of %d candidates (sizes 1–%d)", count, n, K)
+	} else {
+		// Forward selection with swaps: grow the best set of size k−1 by
+		// the best addition, then swap members for non-members while the
+		// loss falls.
+		cur := []int{}
+		evals := 0
+		for k := 1; k <= K && k <= n; k++ {
+			bestL, bestSet := math.Inf(1), []int(nil)
+			for i := 0; i < n; i++ {
+				if containsInt(cur, i) {
+					continue
+				}
+				s := append(append([]int(nil), cur...), i)
+				evals++
+				if l, ok := lossOf(s); ok && valid(s) && l < bestL {
+					bestL, bestSet = l, s
+				}
+			}
+			if bestSet == nil {
+				// No valid growth alone (families need terms): add the term
+				// with the best loss regardless of validity and continue.
+				for i := 0; i < n; i++ {
+					if !containsInt(cur, i) {
+						s := append(append([]int(nil), cur...), i)
+						if l, ok := lossOf(s); ok && l < bestL {
+							bestL, bestSet = l, s
+						}
+					}
+				}
+				if bestSet == nil {
+					break
+				}
+				cur = bestSet
+				continue
+			}
+			for improved := true; improved; {
+				improved = false
+				for a := range bestSet {
+					for i := 0; i < n; i++ {
+						if containsInt(bestSet, i) {
+							continue
+						}
+						s := append([]int(nil), bestSet...)
+						s[a] = i
+						evals++
+						if l, ok := lossOf(s); ok && valid(s) && l < bestL*(1-1e-12) {
+							bestL, bestSet, improved = l, s, true
+						}
+					}
+				}
+			}
+			consider(bestSet, bestL)
+			cur = bestSet
+		}
+		how = fmt.Sprintf("forward selection with swaps over %d candidates (%d subsets evaluated; %d would be needed exhaustively)", n, evals, total)
+	}
+	return best[1:], how
+}
+
+func binomial(n, k int) int {
+	if k < 0 || k > n {
+		return 0
+	}
+	r := 1
+	for i := 1; i <= k; i++ {
+		r = r * (n - k + i) / i
+	}
+	return r
+}
+
+// crossValidate fits every candidate's form with one protocol left out,
+// warm-started from its full-data fit, and scores the held-out prediction.
+func crossValidate(p *Problem, cands []*Candidate, set Settings, pl *pool) {
+	nf := len(p.Protocols)
+	folds := make([][]CVFold, len(cands))
+	for i := range folds {
+		folds[i] = make([]CVFold, nf)
+	}
+	var jobs []func()
+	for ci, c := range cands {
+		for f := 0; f < nf; f++ {
+			ci, c, f := ci, c, f
+			jobs = append(jobs, func() { folds[ci][f] = cvFold(p, c.Result, f, set) })
+		}
+	}
+	pl.run(jobs)
+	for ci, c := range cands {
+		sc := &CVScore{Folds: folds[ci]}
+		for _, f := range sc.Folds {
+			sc.Mean += f.Error
+		}
+		sc.Mean /= float64(nf)
+		v := 0.0
+		for _, f := range sc.Folds {
+			v += (f.Error - sc.Mean) * (f.Error - sc.Mean)
+		}
+		if nf > 1 {
+			sc.StdErr = math.Sqrt(v/float64(nf-1)) / math.Sqrt(float64(nf))
+		}
+		c.CV = sc
+	}
+}
+
+// cvFold fits r's form to every protocol but the f-th and predicts it.
+func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
+	held := p.Protocols[f]
+	fold := CVFold{Protocol: p.Specimen.Protocols[held].Label, Error: math.Inf(1)}
+	var keep []int
+	for i, pi := range p.Protocols {
+		if i != f {
+			keep = append(keep, pi)
+		}
+	}
+	train, err := NewProblem(p.Specimen, keep)
+	if err != nil {
+		return fold
+	}
+	s := set
+	s.Init = r.Params()
+	s.NoScan = true
+	fit, err := Fit(train, r.Structure, s)
+	if err != nil {
+		return fold
+	}
+	test, err := NewProblem(p.Specimen, []int{held})
+	if err != nil {
+		return fold
+	}
+	pred, err := Predict(test, fit.Model)
+	if err != nil {
+		return fold
+	}
+	sse := 0.0
+	for i, v := range pred {
+		d := test.RowWeight[i] * (v - test.Measured[i])
+		sse += d * d
+	}
+	fold.Error = math.Sqrt(sse / float64(len(test.Output.Components)))
+	fold.Metrics = Metrics(test, pred)
+	return fold
+}
+
+// freeParams counts a candidate's size for the smallest-model rule: active
+// terms and all their non-linear parameters.
+func freeParams(c *Candidate) int { return c.Result.Complexity }
+
+// choose applies the one-standard-error rule over the Pareto candidates,
+// or BIC when cross-validation is impossible.
+func (d *Discovery) choose(p *Problem) {
+	if d.Pareto[0].CV == nil {
+		best := 0
+		for i := range d.Pareto {
+			if d.Pareto[i].Result.BIC < d.Pareto[best].Result.BIC {
+				best = i
+			}
+		}
+		d.Chosen = best
+		d.Rule = fmt.Sprintf("one protocol only, so no cross-validation: the pick is the lowest BIC (%s, BIC %.1f)", d.Pareto[best].Name, d.Pareto[best].Result.BIC)
+		return
+	}
+	bi := 0
+	for i := range d.Pareto {
+		if d.Pareto[i].CV.Mean < d.Pareto[bi].CV.Mean {
+			bi = i
+		}
+	}
+	thr := d.Pareto[bi].CV.Mean + d.Pareto[bi].CV.StdErr
+	pick := -1
+	for i := range d.Pareto {
+		c := &d.Pareto[i]
+		if c.CV.Mean > thr {
+			continue
+		}
+		if pick < 0 {
+			pick = i
+			continue
+		}
+		pc := &d.Pareto[pick]
+		switch {
+		case freeParams(c) < freeParams(pc):
+			pick = i
+		case freeParams(c) == freeParams(pc) && c.Layout.Families() < pc.Layout.Families():
+			pick = i
+		case freeParams(c) == freeParams(pc) && c.Layout.Families() == pc.Layout.Families() && c.CV.Mean < pc.CV.Mean:
+			pick = i
+		}
+	}
+	d.Chosen = pick
+	c := &d.Pareto[pick]
+	d.Rule = fmt.Sprintf("smallest model (fewest weights and non-linear parameters) whose leave-one-protocol-out error is within one standard error of the best: best %s %.4f ± %.4f, threshold %.4f; picked %s (%d parameters, error %.4f)",
+		d.Pareto[bi].Name, d.Pareto[bi].CV.Mean, d.Pareto[bi].CV.StdErr, thr, c.Name, freeParams(c), c.CV.Mean)
+}
+
+// verdict decides 0, 1, 2 or 1-or-mirror-pair fibre families from the
+// chosen model, with BIC and cross-validated error per layout as evidence
+// (physics.md §4: without shear information one family and a mirror pair
+// cannot be told apart).
+func (d *Discovery) verdict(p *Problem) {
+	v := Verdict{DeltaBIC: map[string]float64{}, CVError: map[string]float64{}}
+	keyOf := map[Layout]string{LayoutNone: "0", LayoutSingle: "1", LayoutMirror: "2-mirror", LayoutFree: "2-free"}
+	bestBIC := math.Inf(1)
+	for _, c := range d.Pareto {
+		bestBIC = math.Min(bestBIC, c.Result.BIC)
+	}
+	for _, c := range d.Pareto {
+		k := keyOf[c.Layout]
+		dv := c.Result.BIC - bestBIC
+		if old, ok := v.DeltaBIC[k]; !ok || dv < old {
+			v.DeltaBIC[k] = dv
+		}
+		if c.CV != nil {
+			if old, ok := v.CVError[k]; !ok || c.CV.Mean < old {
+				v.CVError[k] = c.CV.Mean
+			}
+		}
+	}
+	best := d.Best()
+	r := best.Result
+	evidence := func() string {
+		var parts []string
+		for _, k := range []string{"0", "1", "2-mirror", "2-free"} {
+			dv, ok := v.DeltaBIC[k]
+			if !ok {
+				continue
+			}
+			s := fmt.Sprintf("%s: ΔBIC %.1f", k, dv)
+			if cv, ok := v.CVError[k]; ok {
+				s += fmt.Sprintf(", held-out error %.4f", cv)
+			}
+			parts = append(parts, s)
+		}
+		return strings.Join(parts, "; ")
+	}
+	angles := func() []float64 {
+		var a []float64
+		for _, f := range r.Model.Families {
+			a = append(a, f.Angle*180/math.Pi)
+		}
+		return a
+	}()
+	const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
+	switch best.Layout {
+	case LayoutNone:
+		v.Families = "0"
+		v.Reason = "the best-supported model is isotropic: no fibre family improves the held-out prediction enough to pay for its parameters"
+	case LayoutSingle:
+		if p.HasShear {
+			v.Families = "1"
+			v.Reason = fmt.Sprintf("one fibre family at %.1f° is supported; with shear information a second family or a mirror pair would have been detectable and is not needed", angles[0])
+		} else {
+			v.Families = "1-or-mirror-pair"
+			v.Reason = fmt.Sprintf("one fibre direction at ±%.1f° is supported; without shear information one family at α and a mirror pair at ±α give the same normal stresses, so the data cannot tell them apart", math.Abs(angles[0]))
+			v.Decider = decider
+		}
+	case LayoutMirror:
+		same := math.Abs(math.Abs(angles[0])-math.Abs(angles[1])) < 1
+		switch {
+		case !p.HasShear && same:
+			v.Families = "1-or-mirror-pair"
+			v.Reason = fmt.Sprintf("a mirror pair at ±%.1f° is supported; without shear information it cannot be told from one family at that angle", math.Abs(angles[0]))
+			v.Decider = decider
+		default:
+			v.Families = "2"
+			v.Reason = fmt.Sprintf("two fibre families (a pair at %.1f° and %.1f° sharing their stiffness) are supported", angles[0], angles[1])
+		}
+	case LayoutFree:
+		v.Families = "2"
+		v.Reason = fmt.Sprintf("two fibre families at %.1f° and %.1f° are supported", angles[0], angles[1])
+		if !p.HasShear {
+			v.Reason += " (their signs are unknown without shear information)"
+		}
+	}
+	v.Reason += "; evidence per layout (best model of each): " + evidence()
+	d.Verdict = v
+}
+
+// crossMatrix fits the chosen form to each protocol alone and predicts
+// every protocol, returning the mean R² over components.
+func crossMatrix(p *Problem, r *Result, set Settings, pl *pool) [][]float64 {
+	n := len(p.Protocols)
+	out := make([][]float64, n)
+	var jobs []func()
+	for i := 0; i < n; i++ {
+		i := i
+		out[i] = make([]float64, n)
+		jobs = append(jobs, func() {
+			for j := range out[i] {
+				out[i][j] = math.NaN()
+			}
+			train, err := NewProblem(p.Specimen, []int{p.Protocols[i]})
+			if err != nil {
+				return
+			}
+			s := set
+			s.Init = r.Params()
+			s.NoScan = true
+			fit, err := Fit(train, r.Structure, s)
+			if err != nil {
+				return
+			}
+			for j := 0; j < n; j++ {
+				test, err := NewProblem(p.Specimen, []int{p.Protocols[j]})
+				if err != nil {
+					continue
+				}
+				pred, err := Predict(test, fit.Model)
+				if err != nil {
+					continue
+				}
+				sum, cnt := 0.0, 0
+				for _, m := range Metrics(test, pred) {
+					if m.R2Defined {
+						sum += m.R2
+						cnt++
+					}
+				}
+				if cnt > 0 {
+					out[i][j] = sum / float64(cnt)
+				}
+			}
+		})
+	}
+	pl.run(jobs)
+	return out
+}

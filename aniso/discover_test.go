@@ -103,11 +103,11 @@ func TestDiscoverMirrorPairNoShear(t *testing.T) {
 // tissue mechanics, e.g. Lanir 1983; this parameterisation is invented for
 // the test). Stresses are integrated numerically over direction and slack.
 type spreadMaterial struct {
-	matrix            float64 // neo-Hookean weight (kPa)
-	E                 float64 // fibre modulus (kPa)
-	meanDeg, sdDeg    float64
-	sMax              float64
-	nAngle, nSlack    int
+	matrix         float64 // neo-Hookean weight (kPa)
+	E              float64 // fibre modulus (kPa)
+	meanDeg, sdDeg float64
+	sMax           float64
+	nAngle, nSlack int
 }
 
 // cauchy returns the in-plane Cauchy stress at F.

@@ -1,0 +1,138 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+)
+
+// StressSplit is how a fitted model's stress divides between its terms and
+// between the matrix (isotropic terms) and each fibre family.
+type StressSplit struct {
+	// Terms are the term labels (Model.Terms order) and TermGroup each
+	// term's group index into Groups ("matrix", "f1", "f2").
+	Terms     []string
+	TermGroup []int
+	Groups    []string
+	// Protocols holds one entry per protocol of the problem.
+	Protocols []ProtocolSplit
+}
+
+// ProtocolSplit is the split of one protocol.
+type ProtocolSplit struct {
+	Protocol string
+	// Components: the share of each term and group in the modelled stress
+	// of one component, summed over the protocol's points: Σ|contribution|
+	// / Σ|all contributions| (contributions can have either sign, e.g. the
+	// plane-stress pressure makes a matrix term pull one axis down, so
+	// magnitudes are shared); Signed gives Σ contribution per term in the
+	// stress unit.
+	Components []ComponentSplit
+	// EnergyShare is each term's share of the strain energy at the
+	// protocol's largest deformation (the point with the largest I1), and
+	// GroupEnergyShare per group; AtF is that deformation.
+	EnergyShare, GroupEnergyShare []float64
+	AtF                           [4]float64
+}
+
+// ComponentSplit is the split of one stress component in one protocol.
+type ComponentSplit struct {
+	Component             string
+	TermShare, GroupShare []float64
+	Signed                []float64
+}
+
+// PointContributions returns each term's contribution to the model's stress
+// on every row of p (unweighted, in the problem's stress measure):
+// out[k][r] for term k and row r.
+func PointContributions(p *Problem, m *Model) ([][]float64, error) {
+	F := make([][4]float64, p.Data.Points())
+	for i := range F {
+		F[i] = p.Data.Kinematics(i).F
+	}
+	d, err := NewDataset(F, p.Output, nil)
+	if err != nil {
+		return nil, err
+	}
+	var c Columns
+	d.Fill(m, &c, false)
+	out := make([][]float64, len(m.Terms))
+	for k, t := range m.Terms {
+		out[k] = make([]float64, c.Rows)
+		col := c.A[k*c.Rows : (k+1)*c.Rows]
+		for r := range col {
+			out[k][r] = mul0(t.Weight, col[r])
+		}
+	}
+	return out, nil
+}
+
+// Split computes the stress and energy split of model m on problem p.
+func Split(p *Problem, m *Model) (*StressSplit, error) {
+	s := &StressSplit{Groups: []string{"matrix"}}
+	for _, f := range m.Families {
+		s.Groups = append(s.Groups, f.Name)
+	}
+	for _, t := range m.Terms {
+		label := t.Shape.ID
+		if t.Family >= 0 {
+			label += "@" + m.Families[t.Family].Name
+		}
+		s.Terms = append(s.Terms, label)
+		s.TermGroup = append(s.TermGroup, t.Family+1)
+	}
+	contrib, err := PointContributions(p, m)
+	if err != nil {
+		return nil, err
+	}
+	ng := len(s.Groups)
+	for _, pi := range p.Protocols {
+		pr := &p.Specimen.Protocols[pi]
+		ps := ProtocolSplit{Protocol: pr.Label}
+		for _, comp := range p.Output.Components {
+			cs := ComponentSplit{Component: componentName(comp), TermShare: make([]float64, len(m.Terms)),
+				GroupShare: make([]float64, ng), Signed: make([]float64, len(m.Terms))}
+			total := 0.0
+			for r := range p.Target {
+				if p.RowProtocol[r] != pi || p.RowComponent[r] != comp {
+					continue
+				}
+				for k := range m.Terms {
+					v := contrib[k][r]
+					cs.Signed[k] += v
+					cs.TermShare[k] += math.Abs(v)
+					total += math.Abs(v)
+				}
+			}
+			for k := range m.Terms {
+				if total > 0 {
+					cs.TermShare[k] /= total
+				}
+				cs.GroupShare[s.TermGroup[k]] += cs.TermShare[k]
+			}
+			ps.Components = append(ps.Components, cs)
+		}
+		// Energy at the protocol's largest deformation.
+		maxI1, at := -1.0, [4]float64{1, 0, 0, 1}
+		for _, pt := range pr.Points {
+			k, err := NewKinematics(pt.F)
+			if err == nil && k.I1 > maxI1 {
+				maxI1, at = k.I1, pt.F
+			}
+		}
+		ps.AtF = at
+		resp, err := m.Evaluate(at)
+		if err != nil {
+			return nil, fmt.Errorf("protocol %s: %w", pr.Label, err)
+		}
+		ps.EnergyShare = make([]float64, len(m.Terms))
+		ps.GroupEnergyShare = make([]float64, ng)
+		for k, e := range resp.TermEnergy {
+			if resp.Energy > 0 {
+				ps.EnergyShare[k] = e / resp.Energy
+			}
+			ps.GroupEnergyShare[s.TermGroup[k]] += ps.EnergyShare[k]
+		}
+		s.Protocols = append(s.Protocols, ps)
+	}
+	return s, nil
+}

@@ -20,7 +20,8 @@ type Output struct {
 }
 
 // Dataset is a fixed set of deformations with precomputed kinematics, the
-// rows of a least-squares problem. Row r = i·len(Components) + j holds
+// rows of a least-squares problem. It is read-only once made, so goroutines
+// may share it. Row r = i·len(Components) + j holds
 // component Components[j] of point i, multiplied by RowWeight[r].
 type Dataset struct {
 	kin       []Kinematics
@@ -101,6 +102,12 @@ type Columns struct {
 	// Skip, when non-nil, marks terms whose columns Fill leaves as they are
 	// (a caller that knows they have not changed).
 	Skip []bool
+
+	// fk, fb are scratch: fibre kinematics and bases per point and family.
+	// They live here, not in the Dataset, so that several goroutines can
+	// fill their own Columns from one Dataset.
+	fk []FibreKinematics
+	fb []famBases
 }
 
 // resize makes c hold rows×cols entries, reusing its buffers.
@@ -131,11 +138,11 @@ func (c *Columns) resize(rows, cols int, derivs bool) {
 func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 	rows, nc, np, nf := d.Rows(), len(d.out.Components), len(d.kin), len(m.Families)
 	c.resize(rows, len(m.Terms), derivs)
-	if cap(d.fk) < np*nf {
-		d.fk = make([]FibreKinematics, np*nf)
-		d.fb = make([]famBases, np*nf)
+	if cap(c.fk) < np*nf {
+		c.fk = make([]FibreKinematics, np*nf)
+		c.fb = make([]famBases, np*nf)
 	}
-	fk, fb := d.fk[:np*nf], d.fb[:np*nf]
+	fk, fb := c.fk[:np*nf], c.fb[:np*nf]
 	for i := range d.kin {
 		k := &d.kin[i]
 		for f := 0; f < nf; f++ {

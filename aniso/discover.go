@@ -92,7 +92,8 @@ type CVScore struct {
 
 // Candidate is a fitted model form considered by discovery.
 type Candidate struct {
-	// Name is "preset:<name>" for presets, else "<layout>[+dispersion]-<k>".
+	// Name is "preset:<name>" for presets, else
+	// "<layout>[+dispersion]-k<terms>-p<parameters>".
 	Name   string
 	Layout Layout
 	// Terms is the number of active terms.
@@ -121,7 +122,9 @@ type Verdict struct {
 
 // Discovery is the outcome of model discovery for one specimen.
 type Discovery struct {
-	// Pareto holds, per layout, the best model of each size (1…K).
+	// Pareto holds, per form (layout, with or without dispersion), the best
+	// model at each number of parameters that improves on every smaller one
+	// (at most K terms).
 	Pareto []Candidate
 	// Presets are the classical models fitted to the same data.
 	Presets []Candidate
@@ -342,28 +345,42 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 		runRefits(round)
 	}
 
-	// 3. Pareto front per layout: the best refit of each active size, kept
-	// only when it improves on every smaller size of its layout.
-	bestBy := bestOf()
-	var keys []key
-	for k := range bestBy {
+	// 3. Pareto front per form: over every refit, the best loss at each
+	// number of parameters (weights and non-linear parameters), kept only
+	// when it improves on every smaller model of its form.
+	type pkey struct {
+		form, params int
+	}
+	bestP := map[pkey]*Result{}
+	for _, rf := range refits {
+		if rf.res == nil || !layoutSatisfied(rf.res) || activeTerms(rf.res) == 0 || activeTerms(rf.res) > set.MaxTerms {
+			continue
+		}
+		k := pkey{rf.layout, rf.res.Complexity}
+		if old, ok := bestP[k]; !ok || rf.res.Loss < old.Loss {
+			bestP[k] = rf.res
+		}
+	}
+	var keys []pkey
+	for k := range bestP {
 		keys = append(keys, k)
 	}
 	sort.Slice(keys, func(a, b int) bool {
-		if keys[a].layout != keys[b].layout {
-			return keys[a].layout < keys[b].layout
+		if keys[a].form != keys[b].form {
+			return keys[a].form < keys[b].form
 		}
-		return keys[a].size < keys[b].size
+		return keys[a].params < keys[b].params
 	})
 	lastLoss := map[int]float64{}
 	for _, k := range keys {
-		r := bestBy[k]
-		if prev, ok := lastLoss[k.layout]; ok && r.Loss >= prev {
+		r := bestP[k]
+		if prev, ok := lastLoss[k.form]; ok && r.Loss >= prev {
 			continue
 		}
-		lastLoss[k.layout] = r.Loss
-		f := forms[k.layout]
-		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-%d", formName(f), k.size), Layout: f.Layout, Terms: k.size, Result: r})
+		lastLoss[k.form] = r.Loss
+		f := forms[k.form]
+		n := activeTerms(r)
+		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-k%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
 	}
 	if len(d.Pareto) == 0 {
 		return nil, errors.New("no candidate model could be fitted; check the data with 'weft inspect' (units, stress kind) or fit a preset with --preset")

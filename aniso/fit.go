@@ -434,6 +434,9 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 			if v, ok := set.Init[q.Name]; ok {
 				th[i] = q.project(v)
 			}
+			if q.Periodic && !p.HasShear {
+				th[i] = offSymmetry(th[i])
+			}
 		}
 		starts = append(starts, th)
 	}
@@ -491,6 +494,20 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	return res, nil
 }
 
+// offSymmetry moves an angle that sits on 0 or 90° (stationary points of
+// the loss by mirror symmetry when the data have no shear) by half a degree.
+func offSymmetry(a float64) float64 {
+	const nudge = 0.5 * math.Pi / 180
+	w := wrapAngle(a)
+	switch {
+	case math.Abs(w) < nudge/2:
+		return nudge
+	case math.Pi/2-math.Abs(w) < nudge/2:
+		return math.Pi/2 - nudge
+	}
+	return a
+}
+
 // coarseStarts scans the angle parameters with the dictionary model and
 // returns starting θ vectors for the best local minima.
 func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []param) [][]float64 {
@@ -505,12 +522,15 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 	de.skipOverflow = true
 	step := set.ScanStepDeg * math.Pi / 180
 	grid := func(q param) []float64 {
-		lo, hi := -math.Pi/2+step, math.Pi/2
+		// Periodic grids are offset by half a step: without shear, α = 0
+		// and α = 90° are stationary points of the loss by symmetry, where a
+		// local refinement would never move.
+		lo, hi := -math.Pi/2+step/2, math.Pi/2
 		if !q.Periodic {
 			lo, hi = q.Lo, q.Hi
 		} else if !p.HasShear {
 			// Without shear only |α| matters (mirror symmetry, physics.md §4).
-			lo = 0
+			lo = step / 2
 		}
 		var g []float64
 		for x := lo; x <= hi+1e-12; x += step {

@@ -43,3 +43,23 @@ func TestSplitFibreAlongAxis1(t *testing.T) {
 		}
 	}
 }
+
+// A sutured specimen: at the solved shears both nominal shear stresses
+// vanish, and a fibre family on an axis (α = 0) gives no shear at all
+// (symmetry; common practice).
+func TestSuturedShear(t *testing.T) {
+	m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 20, Params: []float64{3}}, 30)
+	x, err := m.SuturedShear(1.15, 1.08, [2]float64{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, _ := m.Evaluate([4]float64{1.15, x[0], x[1], 1.08})
+	if math.Abs(r.Nominal[2]) > 1e-9 || math.Abs(r.Nominal[3]) > 1e-9 || math.Abs(x[0])+math.Abs(x[1]) < 1e-4 {
+		t.Errorf("shear %v gives P12=%g, P21=%g", x, r.Nominal[2], r.Nominal[3])
+	}
+	m.Families[0].Angle = 0
+	x, _ = m.SuturedShear(1.15, 1.08, [2]float64{})
+	if math.Abs(x[0])+math.Abs(x[1]) > 1e-12 {
+		t.Errorf("on-axis family sheared: %v", x)
+	}
+}

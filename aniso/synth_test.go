@@ -140,40 +140,12 @@ func addNoiseRand(pr *biaxial.Protocol, noise float64, rng *rand.Rand, measured 
 	}
 }
 
-// solveSutured finds F12, F21 such that the shear nominal stresses vanish
-// (a specimen on sutures), by Newton's method with a finite-difference
-// Jacobian starting from the previous point's solution.
+// solveSutured finds the sutured specimen's shear (see Model.SuturedShear).
 func solveSutured(t testing.TB, m *Model, F [4]float64, start [2]float64) [2]float64 {
-	x := start
-	res := func(x [2]float64) [2]float64 {
-		G := F
-		G[1], G[2] = x[0], x[1]
-		r, err := m.Evaluate(G)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return [2]float64{r.Nominal[2], r.Nominal[3]}
+	x, err := m.SuturedShear(F[0], F[3], start)
+	if err != nil {
+		t.Fatal(err)
 	}
-	for it := 0; it < 50; it++ {
-		r := res(x)
-		if math.Abs(r[0])+math.Abs(r[1]) < 1e-12 {
-			return x
-		}
-		const h = 1e-7
-		var J [2][2]float64
-		for j := 0; j < 2; j++ {
-			xp := x
-			xp[j] += h
-			rp := res(xp)
-			J[0][j], J[1][j] = (rp[0]-r[0])/h, (rp[1]-r[1])/h
-		}
-		det := J[0][0]*J[1][1] - J[0][1]*J[1][0]
-		dx0 := (-r[0]*J[1][1] + r[1]*J[0][1]) / det
-		dx1 := (-J[0][0]*r[1] + J[1][0]*r[0]) / det
-		x[0] += dx0
-		x[1] += dx1
-	}
-	t.Fatalf("sutured shear did not converge at F=%v", F)
 	return x
 }
 

@@ -158,6 +158,9 @@ func (r *Result) uncertainty(p *Problem) {
 		}
 		est.StdErr = se
 		est.Lo, est.Hi = est.Value-tq*se, est.Value+tq*se
+		if est.Kind != "angle" && se > math.Abs(est.Value) {
+			r.Flags = append(r.Flags, fmt.Sprintf("%s is hardly determined by the data: its standard error %.3g exceeds its value %.3g", est.Name, se, est.Value))
+		}
 	}
 	r.CorrelationNames = names
 	r.Correlation = make([][]float64, k)

@@ -516,7 +516,25 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 		plain = append(plain, p)
 		latex = append(latex, l)
 	}
-	return "Psi = " + strings.Join(plain, " + "), `\Psi = ` + strings.Join(latex, " + ")
+	return "Psi = " + joinTerms(plain), `\Psi = ` + joinTerms(latex)
+}
+
+// joinTerms writes a sum, turning "+ -x" into "- x".
+func joinTerms(ts []string) string {
+	var sb strings.Builder
+	for i, t := range ts {
+		neg := strings.HasPrefix(t, "-")
+		switch {
+		case i == 0:
+			sb.WriteString(t)
+			continue
+		case neg:
+			sb.WriteString(" - " + t[1:])
+		default:
+			sb.WriteString(" + " + t)
+		}
+	}
+	return sb.String()
 }
 
 // Marshal returns the card as indented JSON with a trailing newline.

@@ -1,0 +1,200 @@
+package card
+
+import (
+	"math"
+
+	"github.com/weft-tools/weft/aniso"
+)
+
+// Section keys of a fitted card, besides the model itself.
+const (
+	KeyFit       = "fit"
+	KeyDataRange = "data_range"
+	KeyData      = "data"
+	KeyVerdict   = "verdict"
+	KeySelection = "selection"
+	KeySplit     = "split"
+)
+
+// DataSection records what data the card was fitted to.
+type DataSection struct {
+	Specimen   string `json:"specimen"`
+	Source     string `json:"source"`
+	Sheet      string `json:"sheet,omitempty"`
+	Tissue     string `json:"tissue,omitempty"`
+	Axis1      string `json:"axis_1,omitempty"`
+	StressKind string `json:"stress_kind"`
+	StressUnit string `json:"stress_unit"`
+	// Reference states the reference state used (as measured, or
+	// re-referenced with the tare removed).
+	Reference string `json:"reference"`
+	// HasShear is true when the data carry shear information.
+	HasShear  bool               `json:"has_shear"`
+	Protocols []DataProtocolCard `json:"protocols"`
+	Warnings  []string           `json:"warnings"`
+	Notices   []string           `json:"notices"`
+}
+
+// DataProtocolCard is one protocol as used in the fit.
+type DataProtocolCard struct {
+	Label  string `json:"label"`
+	Points int    `json:"points"`
+	// Kept says which cycle and branch were kept.
+	Kept   string  `json:"kept"`
+	Cycles int     `json:"cycles"`
+	Weight float64 `json:"user_weight"`
+}
+
+// VerdictSection is the answer on the number of fibre families. Families
+// is one of "0", "1", "2", "1-or-mirror-pair".
+type VerdictSection struct {
+	Families string `json:"families"`
+	Reason   string `json:"reason"`
+	// DeltaBIC and CVError per layout ("0", "1", "2-mirror", "2-free").
+	DeltaBIC map[string]Num `json:"delta_bic"`
+	CVError  map[string]Num `json:"cv_error"`
+	// Decider names the measurement that would settle an undecided case.
+	Decider string `json:"decider,omitempty"`
+}
+
+// CandidateCard is one fitted model form in the selection evidence.
+type CandidateCard struct {
+	Name       string   `json:"name"`
+	Layout     string   `json:"layout"`
+	Dispersion bool     `json:"dispersion"`
+	Terms      []string `json:"terms"`
+	Size       int      `json:"size"`
+	// Parameters counts weights and non-linear parameters (the size used by
+	// the selection rule).
+	Parameters int         `json:"parameters"`
+	Loss       Num         `json:"loss"`
+	AICc       Num         `json:"aicc"`
+	BIC        Num         `json:"bic"`
+	AnglesDeg  []Num       `json:"angles_deg"`
+	MinR2      Num         `json:"min_r2"`
+	CVMean     Num         `json:"cv_error"`
+	CVStdErr   Num         `json:"cv_stderr"`
+	CVFolds    []FoldCard  `json:"cv_folds,omitempty"`
+	Chosen     bool        `json:"chosen"`
+	Weights    []WeightOut `json:"weights"`
+}
+
+// WeightOut is a term's fitted weight in a candidate.
+type WeightOut struct {
+	Term   string `json:"term"`
+	Weight Num    `json:"weight"`
+}
+
+// FoldCard is one held-out protocol.
+type FoldCard struct {
+	Protocol string `json:"protocol"`
+	Error    Num    `json:"error"`
+	// R2 is the mean held-out R² over components.
+	R2 Num `json:"r2"`
+}
+
+// SelectionSection is the evidence behind the discovered model.
+type SelectionSection struct {
+	Rule     string          `json:"rule"`
+	Chosen   string          `json:"chosen"`
+	Search   []string        `json:"search"`
+	Pareto   []CandidateCard `json:"pareto"`
+	Presets  []CandidateCard `json:"presets"`
+	CVMetric string          `json:"cv_metric"`
+	// CrossR2[i][j]: mean R² of protocol j predicted by the chosen form
+	// fitted to protocol i alone; Protocols labels the rows and columns.
+	Protocols []string `json:"protocols"`
+	CrossR2   [][]Num  `json:"cross_r2"`
+}
+
+// SplitSection is the matrix/fibre split of the fitted model.
+type SplitSection struct {
+	Terms     []string            `json:"terms"`
+	TermGroup []string            `json:"term_group"`
+	Groups    []string            `json:"groups"`
+	Measure   string              `json:"measure"`
+	Protocols []SplitProtocolCard `json:"protocols"`
+}
+
+// SplitProtocolCard is the split of one protocol.
+type SplitProtocolCard struct {
+	Protocol         string          `json:"protocol"`
+	Components       []SplitCompCard `json:"components"`
+	EnergyShare      []Num           `json:"energy_share"`
+	GroupEnergyShare map[string]Num  `json:"group_energy_share"`
+	AtF              [4]float64      `json:"at_F"`
+}
+
+// SplitCompCard is the split of one stress component in one protocol.
+type SplitCompCard struct {
+	Component  string         `json:"component"`
+	TermShare  []Num          `json:"term_share"`
+	GroupShare map[string]Num `json:"group_share"`
+}
+
+// NewCandidateCard describes a discovery candidate.
+func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
+	r := c.Result
+	cc := CandidateCard{Name: c.Name, Layout: c.Layout.String(), Dispersion: r.Structure.Dispersion, Size: c.Terms,
+		Parameters: r.Complexity, Loss: Num(r.Loss), AICc: Num(r.AICc), BIC: Num(r.BIC),
+		CVMean: Num(math.NaN()), CVStdErr: Num(math.NaN()), Chosen: chosen, MinR2: Num(math.NaN())}
+	for i, t := range r.Structure.Terms {
+		if r.Weights[i] > 0 {
+			cc.Terms = append(cc.Terms, t.Label(r.Structure.Layout))
+		}
+		cc.Weights = append(cc.Weights, WeightOut{Term: t.Label(r.Structure.Layout), Weight: Num(r.Weights[i])})
+	}
+	for _, f := range r.Model.Families {
+		cc.AnglesDeg = append(cc.AnglesDeg, Num(f.Angle*180/math.Pi))
+	}
+	minR2 := math.Inf(1)
+	for _, m := range r.Metrics {
+		if m.R2Defined {
+			minR2 = math.Min(minR2, m.R2)
+		}
+	}
+	if !math.IsInf(minR2, 1) {
+		cc.MinR2 = Num(minR2)
+	}
+	if c.CV != nil {
+		cc.CVMean, cc.CVStdErr = Num(c.CV.Mean), Num(c.CV.StdErr)
+		for _, f := range c.CV.Folds {
+			s, n := 0.0, 0
+			for _, m := range f.Metrics {
+				if m.R2Defined {
+					s += m.R2
+					n++
+				}
+			}
+			r2 := math.NaN()
+			if n > 0 {
+				r2 = s / float64(n)
+			}
+			cc.CVFolds = append(cc.CVFolds, FoldCard{Protocol: f.Protocol, Error: Num(f.Error), R2: Num(r2)})
+		}
+	}
+	return cc
+}
+
+// NewSplitSection describes a stress split.
+func NewSplitSection(s *aniso.StressSplit, measure string) *SplitSection {
+	out := &SplitSection{Terms: s.Terms, Groups: s.Groups, Measure: measure}
+	for _, g := range s.TermGroup {
+		out.TermGroup = append(out.TermGroup, s.Groups[g])
+	}
+	for _, ps := range s.Protocols {
+		pc := SplitProtocolCard{Protocol: ps.Protocol, EnergyShare: nums(ps.EnergyShare), GroupEnergyShare: map[string]Num{}, AtF: ps.AtF}
+		for g, v := range ps.GroupEnergyShare {
+			pc.GroupEnergyShare[s.Groups[g]] = Num(v)
+		}
+		for _, cs := range ps.Components {
+			cc := SplitCompCard{Component: cs.Component, TermShare: nums(cs.TermShare), GroupShare: map[string]Num{}}
+			for g, v := range cs.GroupShare {
+				cc.GroupShare[s.Groups[g]] = Num(v)
+			}
+			pc.Components = append(pc.Components, cc)
+		}
+		out.Protocols = append(out.Protocols, pc)
+	}
+	return out
+}

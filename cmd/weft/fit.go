@@ -1,0 +1,488 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/terms"
+)
+
+func init() { commands = append(commands, newFitCmd) }
+
+// fitFlags are the options of weft fit.
+type fitFlags struct {
+	out        string
+	force      bool
+	preset     string
+	termIDs    string
+	families   int
+	layout     string
+	dispersion bool
+	maxTerms   int
+	asJSON     bool
+	quiet      bool
+}
+
+func newFitCmd() *cobra.Command {
+	ff := &fitFlags{}
+	cmd := &cobra.Command{
+		Use:   "fit DATA...",
+		Short: "Discover or fit a constitutive model for each specimen file",
+		Long: `fit reads one planar biaxial test file per specimen (CSV or xlsx, see the
+README for the layout) and writes an output folder per specimen with the
+model card (model.json), the point-by-point fit (fit.csv) and, when the model
+was discovered, the selection evidence (selection.csv), plus the report.
+
+Without --preset or --terms, fit DISCOVERS the model: which catalogue terms
+and how many fibre families (0, 1 or 2; one family, a mirror pair or two free
+angles) the data support, the fibre angles, and how the stress splits between
+matrix and fibres. The pick is the smallest model whose leave-one-protocol-out
+error is within one standard error of the best; the output states the rule
+and the numbers, the family verdict with its evidence, and classical models
+fitted to the same data for comparison.
+
+With --preset NAME or --terms ID,ID,... it fits that model form only, with
+learned fibre angles, and reports how well each parameter is determined.
+
+The output folder defaults to <specimen>.weft next to the input. An existing
+folder is never replaced without --force.
+
+Parameters are research-grade and specimen-specific, valid only within the
+tested range, not for clinical decisions.`,
+		Example: `  # discover the model of one specimen
+  weft fit skin-A.csv
+
+  # the two-family fibre model of Holzapfel, Gasser & Ogden 2000
+  weft fit skin-A.csv --preset hgo -o out/skin-A
+
+  # a chosen form: Demiray matrix plus one exponential fibre family
+  weft fit skin-A.csv --terms i1-exp,fib-expsq --families 1
+
+  # several specimens, each into its own folder, discovery with dispersion
+  weft fit a.csv b.csv c.xlsx --dispersion`,
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				return badInputf("fit needs at least one DATA file (see 'weft fit --help')")
+			}
+			return nil
+		},
+	}
+	rf := addReadFlags(cmd)
+	fl := cmd.Flags()
+	fl.StringVarP(&ff.out, "output", "o", "", "output folder (default <specimen>.weft next to the input; with several inputs, the parent of one folder per specimen)")
+	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder")
+	fl.StringVar(&ff.preset, "preset", "", "fit a classical preset instead of discovering (see 'weft terms')")
+	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
+	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
+	fl.StringVar(&ff.layout, "layout", "free", "two families for --terms: free (independent angles) or mirror (θ ± β, shared stiffness)")
+	fl.BoolVar(&ff.dispersion, "dispersion", false, "learn a fibre dispersion κ (with --terms; in discovery, also try every layout with dispersion)")
+	fl.IntVar(&ff.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
+	fl.BoolVar(&ff.asJSON, "json", false, "print the model card(s) as JSON instead of the summary")
+	fl.BoolVar(&ff.quiet, "quiet", false, "no progress bar")
+	cmd.RunE = func(cmd *cobra.Command, args []string) error {
+		opt, err := rf.options()
+		if err != nil {
+			return err
+		}
+		return runFit(cmd, args, opt, ff)
+	}
+	return cmd
+}
+
+// structureFromFlags turns --preset or --terms into a model form; ok is
+// false when neither was given (discovery).
+func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
+	if ff.preset != "" && ff.termIDs != "" {
+		return aniso.Structure{}, false, badInputf("give --preset or --terms, not both")
+	}
+	if ff.preset != "" {
+		st, err := aniso.PresetStructure(ff.preset)
+		if err != nil {
+			return st, false, badInput(err)
+		}
+		return st, true, nil
+	}
+	if ff.termIDs == "" {
+		if ff.families >= 0 {
+			return aniso.Structure{}, false, badInputf("--families applies to --terms; discovery compares 0, 1 and 2 families itself")
+		}
+		return aniso.Structure{}, false, nil
+	}
+	var iso, fib []*terms.Shape
+	for _, id := range strings.Split(ff.termIDs, ",") {
+		id = strings.TrimSpace(id)
+		sh := terms.Lookup(id)
+		if sh == nil {
+			return aniso.Structure{}, false, badInputf("--terms: %q is not a catalogue term; 'weft terms' lists them", id)
+		}
+		if sh.Arg.NeedsFamily() {
+			fib = append(fib, sh)
+		} else {
+			iso = append(iso, sh)
+		}
+	}
+	nf := ff.families
+	if nf < 0 {
+		nf = 0
+		if len(fib) > 0 {
+			nf = 1
+		}
+	}
+	st := aniso.Structure{Dispersion: ff.dispersion}
+	switch nf {
+	case 0:
+		st.Layout = aniso.LayoutNone
+	case 1:
+		st.Layout = aniso.LayoutSingle
+	case 2:
+		switch ff.layout {
+		case "free":
+			st.Layout = aniso.LayoutFree
+		case "mirror":
+			st.Layout = aniso.LayoutMirror
+		default:
+			return st, false, badInputf("--layout %q: use free or mirror", ff.layout)
+		}
+	default:
+		return st, false, badInputf("--families %d: use 0, 1 or 2", nf)
+	}
+	for _, sh := range iso {
+		st.Terms = append(st.Terms, aniso.TermSpec{Shape: sh, Family: -1})
+	}
+	fams := nf
+	if st.Layout == aniso.LayoutMirror {
+		fams = 1
+	}
+	for f := 0; f < fams; f++ {
+		for _, sh := range fib {
+			st.Terms = append(st.Terms, aniso.TermSpec{Shape: sh, Family: f})
+		}
+	}
+	if err := st.Validate(); err != nil {
+		return st, false, badInput(err)
+	}
+	return st, true, nil
+}
+
+var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
+
+// outputFolders decides each specimen's output folder.
+func outputFolders(args []string, specs []*biaxial.Specimen, out string) ([]string, error) {
+	dirs := make([]string, len(specs))
+	seen := map[string]string{}
+	for i, s := range specs {
+		name := unsafeName.ReplaceAllString(s.Name, "_")
+		if name == "" {
+			name = strings.TrimSuffix(filepath.Base(args[i]), filepath.Ext(args[i]))
+		}
+		switch {
+		case out != "" && len(specs) == 1:
+			dirs[i] = out
+		case out != "":
+			dirs[i] = filepath.Join(out, name+".weft")
+		default:
+			dirs[i] = filepath.Join(filepath.Dir(args[i]), name+".weft")
+		}
+		if prev, dup := seen[dirs[i]]; dup {
+			return nil, badInputf("%s and %s would both write %s (same specimen name); give them different 'specimen' metadata or fit them separately with -o", prev, args[i], dirs[i])
+		}
+		seen[dirs[i]] = args[i]
+	}
+	return dirs, nil
+}
+
+// fitOutcome is everything one specimen's fit produced.
+type fitOutcome struct {
+	spec    *biaxial.Specimen
+	prob    *aniso.Problem
+	result  *aniso.Result
+	disc    *aniso.Discovery
+	card    *card.Card
+	dir     string
+	elapsed time.Duration
+}
+
+func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags) error {
+	st, chosen, err := structureFromFlags(ff)
+	if err != nil {
+		return err
+	}
+	if ff.maxTerms < 1 || ff.maxTerms > 8 {
+		return badInputf("--max-terms %d: use 1 to 8", ff.maxTerms)
+	}
+	// Read every file first: bad input stops everything before anything
+	// is written.
+	var specs []*biaxial.Specimen
+	for _, path := range args {
+		s, err := biaxial.ReadFile(path, opt)
+		if err != nil {
+			return badInput(err)
+		}
+		specs = append(specs, s)
+	}
+	dirs, err := outputFolders(args, specs, ff.out)
+	if err != nil {
+		return err
+	}
+	for _, d := range dirs {
+		if _, err := os.Stat(d); err == nil && !ff.force {
+			return badInputf("%s exists; pass --force to replace it or choose another folder with -o", d)
+		}
+	}
+	var outcomes []*fitOutcome
+	for i, s := range specs {
+		o, err := fitOne(cmd, s, st, chosen, ff)
+		if err != nil {
+			return err
+		}
+		o.dir = dirs[i]
+		if err := writeFitOutputs(o, ff.force); err != nil {
+			return err
+		}
+		outcomes = append(outcomes, o)
+		if !ff.asJSON {
+			printFitSummary(cmd.OutOrStdout(), o)
+		}
+	}
+	if ff.asJSON {
+		return printCardsJSON(cmd.OutOrStdout(), outcomes)
+	}
+	return nil
+}
+
+// fitFailed reports a fit that could not succeed (exit code 1).
+func fitFailed(s *biaxial.Specimen, err error) error {
+	return checkFailed{msg: fmt.Sprintf("%s: the fit did not succeed: %v", s.Source, err)}
+}
+
+func fitOne(cmd *cobra.Command, s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitFlags) (*fitOutcome, error) {
+	start := time.Now()
+	p, err := aniso.NewProblem(s, nil)
+	if err != nil {
+		return nil, badInput(fmt.Errorf("%s: %w", s.Source, err))
+	}
+	o := &fitOutcome{spec: s, prob: p}
+	bar := newProgress(cmd.ErrOrStderr(), "fitting "+s.Name, ff.quiet)
+	defer bar.finish()
+	if chosen {
+		bar.set(0, 1)
+		o.result, err = aniso.Fit(p, st, aniso.Settings{Profile: true})
+		if err != nil {
+			return nil, fitFailed(s, err)
+		}
+	} else {
+		d, err := aniso.Discover(p, aniso.DiscoverSettings{MaxTerms: ff.maxTerms, Dispersion: ff.dispersion, Progress: bar.set})
+		if err != nil {
+			return nil, fitFailed(s, err)
+		}
+		o.disc = d
+		o.result = d.Best().Result
+	}
+	o.elapsed = time.Since(start)
+	c, err := buildCard(o)
+	if err != nil {
+		return nil, err
+	}
+	o.card = c
+	return o, nil
+}
+
+// buildCard writes the fitted model and its evidence as a model card.
+func buildCard(o *fitOutcome) (*card.Card, error) {
+	r, s := o.result, o.spec
+	signs := make([]bool, len(r.Model.Families))
+	for i := range signs {
+		signs[i] = r.SignKnown
+	}
+	c := card.FromModel(r.Model, s.StressUnit, signs)
+	c.Specimen = s.Name
+	if r.Structure.Layout == aniso.LayoutMirror {
+		a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
+		mean, half := (a0+a1)/2*180/math.Pi, math.Abs(a0-a1)/2*180/math.Pi
+		c.Layout = &card.Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half}
+	} else if r.Structure.Layout == aniso.LayoutFree {
+		c.Layout = &card.Layout{Kind: "free"}
+	} else if r.Structure.Layout == aniso.LayoutSingle {
+		c.Layout = &card.Layout{Kind: "single"}
+	}
+	set := func(key string, v any) error { return c.SetExtra(key, v) }
+	if err := set(card.KeyFit, card.NewFitSection(r, s.Kind.String(), s.StressUnit)); err != nil {
+		return nil, err
+	}
+	if err := set(card.KeyDataRange, dataRange(o.prob, r.Model)); err != nil {
+		return nil, err
+	}
+	if err := set(card.KeyData, dataSection(s)); err != nil {
+		return nil, err
+	}
+	if sp, err := aniso.Split(o.prob, r.Model); err == nil {
+		if err := set(card.KeySplit, card.NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")); err != nil {
+			return nil, err
+		}
+	}
+	if d := o.disc; d != nil {
+		v := card.VerdictSection{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Decider: d.Verdict.Decider,
+			DeltaBIC: map[string]card.Num{}, CVError: map[string]card.Num{}}
+		for k, x := range d.Verdict.DeltaBIC {
+			v.DeltaBIC[k] = card.Num(x)
+		}
+		for k, x := range d.Verdict.CVError {
+			v.CVError[k] = card.Num(x)
+		}
+		if err := set(card.KeyVerdict, v); err != nil {
+			return nil, err
+		}
+		sel := card.SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search,
+			CVMetric: "held-out normalised RMSE: sqrt(weighted SSE / components) of the left-out protocol, rows weighted by 1/(range*sqrt(points)) of their protocol and axis"}
+		for i := range d.Pareto {
+			sel.Pareto = append(sel.Pareto, card.NewCandidateCard(&d.Pareto[i], i == d.Chosen))
+		}
+		for i := range d.Presets {
+			sel.Presets = append(sel.Presets, card.NewCandidateCard(&d.Presets[i], false))
+		}
+		for _, pi := range o.prob.Protocols {
+			sel.Protocols = append(sel.Protocols, s.Protocols[pi].Label)
+		}
+		for _, row := range d.CrossR2 {
+			var nr []card.Num
+			for _, x := range row {
+				nr = append(nr, card.Num(x))
+			}
+			sel.CrossR2 = append(sel.CrossR2, nr)
+		}
+		if err := set(card.KeySelection, sel); err != nil {
+			return nil, err
+		}
+	}
+	return c, nil
+}
+
+func dataSection(s *biaxial.Specimen) card.DataSection {
+	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"],
+		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
+		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
+	for _, pr := range s.Protocols {
+		d.Protocols = append(d.Protocols, card.DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
+	}
+	for _, w := range s.Warnings {
+		d.Warnings = append(d.Warnings, warningText(w))
+	}
+	return d
+}
+
+func warningText(w biaxial.Warning) string {
+	loc := filepath.Base(w.File)
+	if w.Sheet != "" {
+		loc += ":" + w.Sheet + "!" + w.Cell
+	} else if w.Line > 0 {
+		loc += fmt.Sprintf(":%d", w.Line)
+	}
+	if w.Protocol != "" {
+		loc += " (protocol " + w.Protocol + ")"
+	}
+	return loc + ": " + w.Message
+}
+
+// dataRange is the span of the fitted data, for extrapolation warnings.
+func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {
+	dr := card.DataRange{Stretch1: [2]float64{math.Inf(1), math.Inf(-1)}, Stretch2: [2]float64{math.Inf(1), math.Inf(-1)},
+		Shear: [2]float64{math.Inf(1), math.Inf(-1)}, StressKind: p.Specimen.Kind.String()}
+	fr := make([][2]float64, len(m.Families))
+	for i := range fr {
+		fr[i] = [2]float64{math.Inf(1), math.Inf(-1)}
+	}
+	upd := func(r *[2]float64, v float64) { r[0], r[1] = math.Min(r[0], v), math.Max(r[1], v) }
+	for i := 0; i < p.Data.Points(); i++ {
+		k := p.Data.Kinematics(i)
+		F := k.F
+		upd(&dr.Stretch1, F[0])
+		upd(&dr.Stretch2, F[3])
+		upd(&dr.Shear, F[1])
+		upd(&dr.Shear, F[2])
+		for f, fam := range m.Families {
+			upd(&fr[f], math.Sqrt(k.Fibre(fam.Angle).I4))
+		}
+	}
+	dr.FibreStretch = fr
+	return dr
+}
+
+// printCardsJSON prints one card, or an array of cards for several
+// specimens.
+func printCardsJSON(w io.Writer, os []*fitOutcome) error {
+	if len(os) == 1 {
+		b, err := os[0].card.Marshal()
+		if err != nil {
+			return err
+		}
+		_, err = w.Write(b)
+		return err
+	}
+	var all []json.RawMessage
+	for _, o := range os {
+		b, err := json.Marshal(o.card)
+		if err != nil {
+			return err
+		}
+		all = append(all, b)
+	}
+	b, err := json.MarshalIndent(all, "", "  ")
+	if err != nil {
+		return err
+	}
+	_, err = w.Write(append(b, '\n'))
+	return err
+}
+
+// writeFitOutputs writes the output folder atomically.
+func writeFitOutputs(o *fitOutcome, force bool) error {
+	od, err := newOutputDir(o.dir, force)
+	if err != nil {
+		return err
+	}
+	ok := false
+	defer func() {
+		if !ok {
+			od.abort()
+		}
+	}()
+	b, err := o.card.Marshal()
+	if err != nil {
+		return err
+	}
+	if err := od.write("model.json", b); err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := writeFitCSV(&buf, o); err != nil {
+		return err
+	}
+	if err := od.write("fit.csv", buf.Bytes()); err != nil {
+		return err
+	}
+	if o.disc != nil {
+		buf.Reset()
+		writeSelectionCSV(&buf, o)
+		if err := od.write("selection.csv", buf.Bytes()); err != nil {
+			return err
+		}
+	}
+	if err := od.commit(); err != nil {
+		return err
+	}
+	ok = true
+	return nil
+}

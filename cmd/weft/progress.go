@@ -1,0 +1,62 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"strings"
+	"sync"
+	"time"
+)
+
+// progress draws a bar on stderr for long work: only when stderr is a
+// terminal, only after the work has run for a second, never with --quiet.
+type progress struct {
+	mu    sync.Mutex
+	w     io.Writer
+	label string
+	on    bool
+	start time.Time
+	drawn bool
+	done  int
+	total int
+}
+
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+func newProgress(w io.Writer, label string, quiet bool) *progress {
+	return &progress{w: w, label: label, on: !quiet && isTerminal(w), start: time.Now()}
+}
+
+// set records progress (done of total jobs) and redraws when due.
+func (p *progress) set(done, total int) {
+	if !p.on {
+		return
+	}
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.done, p.total = done, total
+	if time.Since(p.start) < time.Second || total == 0 {
+		return
+	}
+	const width = 30
+	n := width * done / total
+	fmt.Fprintf(p.w, "\r%s [%s%s] %d/%d", p.label, strings.Repeat("#", n), strings.Repeat(".", width-n), done, total)
+	p.drawn = true
+}
+
+// finish clears the bar.
+func (p *progress) finish() {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if p.drawn {
+		fmt.Fprintf(p.w, "\r%s\r", strings.Repeat(" ", len(p.label)+50))
+	}
+}

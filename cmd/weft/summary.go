@@ -1,0 +1,159 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+func num(x float64, format string) string {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return "-"
+	}
+	return fmt.Sprintf(format, x)
+}
+
+// printFitSummary prints the short human summary of one specimen's fit.
+func printFitSummary(w io.Writer, o *fitOutcome) {
+	s, r := o.spec, o.result
+	shear := "no shear information (angle signs unknown)"
+	if s.HasShear {
+		shear = "shear information present"
+	}
+	fmt.Fprintf(w, "== %s  (%s)\n", s.Name, s.Source)
+	fmt.Fprintf(w, "data:     %d protocols, %d points, %s stress in %s, %s\n", len(s.Protocols), s.NumPoints(), s.Kind, s.StressUnit, shear)
+	if s.Reference != "" {
+		fmt.Fprintf(w, "          reference: %s\n", s.Reference)
+	}
+	for _, wn := range s.Warnings {
+		fmt.Fprintf(w, "warning:  %s\n", warningText(wn))
+	}
+	how := "chosen form"
+	if o.disc != nil {
+		how = "discovered (" + o.disc.Best().Name + ")"
+	}
+	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
+	if d := o.disc; d != nil {
+		fmt.Fprintf(w, "families: %s — %s\n", d.Verdict.Families, d.Verdict.Reason)
+		if d.Verdict.Decider != "" {
+			fmt.Fprintf(w, "          to decide: %s\n", d.Verdict.Decider)
+		}
+		fmt.Fprintf(w, "rule:     %s\n", d.Rule)
+	}
+	fmt.Fprintln(w)
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "parameter\tvalue\t95% interval\tunit\tstatus")
+	for _, e := range r.Estimates {
+		if e.Status == "inactive" && e.Kind != "weight" {
+			continue
+		}
+		iv := "-"
+		if !math.IsNaN(e.Lo) {
+			iv = fmt.Sprintf("[%.4g, %.4g]", e.Lo, e.Hi)
+		}
+		val := num(e.Value, "%.5g")
+		if e.Kind == "angle" && !r.SignKnown && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
+			val = "±" + val
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, e.Status)
+	}
+	for _, p := range r.Profiles {
+		closed := ""
+		if !p.Closed {
+			closed = " (not bounded by the data at one end)"
+		}
+		fmt.Fprintf(tw, "%s profile\t\t[%.2f, %.2f]\tdeg\tprofile-likelihood 95%%%s\n", p.Name, p.LoDeg, p.HiDeg, closed)
+	}
+	tw.Flush()
+	for _, f := range r.Flags {
+		fmt.Fprintf(w, "flag:     %s\n", f)
+	}
+	fmt.Fprintln(w)
+	tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "protocol\taxis\tR²\tNRMSE\tRMSE ["+s.StressUnit+"]")
+	for _, m := range r.Metrics {
+		r2 := "-"
+		if m.R2Defined {
+			r2 = fmt.Sprintf("%.4f", m.R2)
+		}
+		nr := "-"
+		if m.NRMSEDefined {
+			nr = fmt.Sprintf("%.2f%%", 100*m.NRMSE)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, m.Component, r2, nr, m.RMSE)
+	}
+	tw.Flush()
+	var sp card.SplitSection
+	if ok, _ := o.card.GetExtra(card.KeySplit, &sp); ok {
+		fmt.Fprintln(w)
+		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+		head := "split\taxis"
+		for _, g := range sp.Groups {
+			head += "\t" + g
+		}
+		fmt.Fprintln(tw, head+"\tenergy at largest stretch")
+		for _, pp := range sp.Protocols {
+			for ci, c := range pp.Components {
+				line := pp.Protocol + "\t" + c.Component
+				for _, g := range sp.Groups {
+					line += "\t" + num(float64(c.GroupShare[g])*100, "%.0f%%")
+				}
+				if ci == 0 {
+					var es []string
+					for _, g := range sp.Groups {
+						es = append(es, g+" "+num(float64(pp.GroupEnergyShare[g])*100, "%.0f%%"))
+					}
+					line += "\t" + strings.Join(es, ", ")
+				}
+				fmt.Fprintln(tw, line)
+			}
+		}
+		tw.Flush()
+	}
+	if d := o.disc; d != nil {
+		fmt.Fprintln(w)
+		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+		fmt.Fprintln(tw, "compared\tparameters\tloss\tBIC\theld-out error\tmin R²")
+		row := func(c *aniso.Candidate, mark string) {
+			cv := "-"
+			if c.CV != nil {
+				cv = fmt.Sprintf("%.4f ± %.4f", c.CV.Mean, c.CV.StdErr)
+			}
+			minR2 := math.Inf(1)
+			for _, m := range c.Result.Metrics {
+				if m.R2Defined {
+					minR2 = math.Min(minR2, m.R2)
+				}
+			}
+			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, c.Result.Complexity, c.Result.Loss, c.Result.BIC, cv, num(minR2, "%.4f"))
+		}
+		for i := range d.Pareto {
+			mark := ""
+			if i == d.Chosen {
+				mark = " *"
+			}
+			row(&d.Pareto[i], mark)
+		}
+		for i := range d.Presets {
+			row(&d.Presets[i], "")
+		}
+		tw.Flush()
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintf(w, "note:     %s\n", n)
+	}
+	fmt.Fprintln(w)
+	for _, c := range card.Cautions {
+		fmt.Fprintf(w, "caution:  %s\n", c)
+	}
+	files := "model.json, fit.csv"
+	if o.disc != nil {
+		files += ", selection.csv"
+	}
+	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", o.dir, files, o.elapsed.Seconds())
+}

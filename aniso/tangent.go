@@ -223,7 +223,12 @@ func (m *Model) Tangent(F [4]float64) (Tangent, error) {
 	}
 	q := newInvariantJets(F)
 	type fam struct{ I4, I5, K jet }
-	fams := make([]fam, len(m.Families))
+	var buf [4]fam // no allocation for up to four families
+	fams := buf[:0]
+	if len(m.Families) > len(buf) {
+		fams = make([]fam, 0, len(m.Families))
+	}
+	fams = fams[:len(m.Families)]
 	for i, f := range m.Families {
 		fams[i].I4, fams[i].I5, fams[i].K = q.fibreJets(f.Angle)
 	}

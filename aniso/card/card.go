@@ -449,7 +449,7 @@ func validUnit(u string) bool {
 // energy written out. signKnown gives angle_sign_known per family (nil: not
 // stated).
 func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
-	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions}
+	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions, Families: []Family{}}
 	for i, f := range m.Families {
 		a := ReportAngle(f.Angle * 180 / math.Pi)
 		k := f.Dispersion

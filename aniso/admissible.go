@@ -161,7 +161,7 @@ type StabilityReport struct {
 	WorstEllipticity  PointStability
 	// FullIndefinite counts points where the full 4×4 tangent is not
 	// positive definite; FullIndefiniteTensile those of them where both
-	// principal in-plane Cauchy stresses are ≥ 0 (there the rotation mode
+	// principal in-plane Cauchy stresses are > 0 (there the rotation mode
 	// does not explain it).
 	FullIndefinite, FullIndefiniteTensile int
 }
@@ -223,7 +223,7 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 		}
 		if !(p.MinFull > rep.Tolerance) {
 			rep.FullIndefinite++
-			if minPrincipal(p.Cauchy) >= 0 {
+			if minPrincipal(p.Cauchy) > rep.Tolerance {
 				rep.FullIndefiniteTensile++
 			}
 		}

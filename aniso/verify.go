@@ -94,7 +94,7 @@ func rotateF(L [4]float64, theta float64) [4]float64 {
 	if theta == 0 {
 		return L
 	}
-	s, c := math.Sincos(theta)
+	s, c := sincosSnap(theta)
 	// M = R L
 	m11, m12 := c*L[0]-s*L[2], c*L[1]-s*L[3]
 	m21, m22 := s*L[0]+c*L[2], s*L[1]+c*L[3]
@@ -102,9 +102,22 @@ func rotateF(L [4]float64, theta float64) [4]float64 {
 	return [4]float64{m11*c - m12*s, m11*s + m12*c, m21*c - m22*s, m21*s + m22*c}
 }
 
+// sincosSnap is math.Sincos with results within 1e-15 of 0 set to 0 (and
+// the other to ±1), so that directions at multiples of 90° given in
+// radians rotate exactly.
+func sincosSnap(theta float64) (s, c float64) {
+	s, c = math.Sincos(theta)
+	if math.Abs(s) < 1e-15 {
+		s, c = 0, math.Copysign(1, c)
+	} else if math.Abs(c) < 1e-15 {
+		s, c = math.Copysign(1, s), 0
+	}
+	return s, c
+}
+
 // loadFrame returns σ in the load frame, Rᵀσ R, as (nn, tt, nt).
 func loadFrame(sig Sym, theta float64) Sym {
-	s, c := math.Sincos(theta)
+	s, c := sincosSnap(theta)
 	n := [2]float64{c, s}
 	t := [2]float64{-s, c}
 	q := func(a, b [2]float64) float64 {
@@ -123,7 +136,7 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 	if !(lambda > 0) || math.IsInf(lambda, 0) {
 		return 0, fmt.Errorf("uniaxial stretch %g must be a finite number > 0", lambda)
 	}
-	st, ct := math.Sincos(theta)
+	st, ct := sincosSnap(theta)
 	tv := [2]float64{-st, ct}
 	// g returns σ_tt and dσ_tt/dλt; ok is false where the model cannot be
 	// evaluated (overflow).

@@ -502,7 +502,7 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 		for j, q := range t.Shape.Params {
 			v := fmt.Sprintf("%.6g", t.Params[j])
 			p = strings.ReplaceAll(p, q.Symbol, v)
-			l = strings.ReplaceAll(l, q.Symbol, v)
+			l = latexSubst(l, q.Symbol, v)
 		}
 		if t.Family >= 0 {
 			name := c.Families[t.Family].Name
@@ -517,6 +517,25 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 		latex = append(latex, l)
 	}
 	return "Psi = " + strings.Join(plain, " + "), `\Psi = ` + strings.Join(latex, " + ")
+}
+
+// latexSubst replaces sym by val in a LaTeX formula, writing a \cdot where
+// a digit precedes it, so that a template's 2b does not become 20.8393.
+func latexSubst(l, sym, val string) string {
+	var b strings.Builder
+	for {
+		i := strings.Index(l, sym)
+		if i < 0 {
+			b.WriteString(l)
+			return b.String()
+		}
+		b.WriteString(l[:i])
+		if i > 0 && l[i-1] >= '0' && l[i-1] <= '9' {
+			b.WriteString(`\cdot `)
+		}
+		b.WriteString(val)
+		l = l[i+len(sym):]
+	}
 }
 
 // Marshal returns the card as indented JSON with a trailing newline.

@@ -343,7 +343,7 @@ func TestCheckFlagsUnstableCard(t *testing.T) {
 			t.Errorf("stderr does not contain %q: %s", want, errs)
 		}
 	}
-	if !strings.Contains(out, "Result: FAILED") || !strings.Contains(out, "not polyconvex") {
+	if !strings.Contains(out, "Result: FAILED") || !strings.Contains(out, "NOT polyconvex") {
 		t.Errorf("stdout:\n%s", out)
 	}
 	out, _, code = runWeft(t, "check", unstable, "--json")

@@ -251,7 +251,7 @@ func (m *Model) Tangent(F [4]float64) (Tangent, error) {
 		}
 		v := term.Shape.Eval(x.v, term.Params)
 		if math.IsInf(v.F, 0) || math.IsInf(v.D1, 0) || math.IsInf(v.D2, 0) || math.IsNaN(v.D2) {
-			return t, fmt.Errorf("term %d (%s) overflows at F = %v: the energy is not finite there (beyond a limit or far beyond the fitted range)", i, term.Shape.ID, F)
+			return t, fmt.Errorf("term #%d (%s, counting from 1) is not finite at F = %v: beyond its limit or overflowing far beyond the fitted range", i+1, term.Shape.ID, F)
 		}
 		w := term.Weight
 		t.Energy += w * v.F

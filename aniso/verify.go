@@ -177,36 +177,41 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 	if v0 == 0 {
 		return mu0, nil
 	}
-	// Bracket the root: σ_tt grows with λt for a stable material.
+	// Bracket the root: σ_tt grows with λt for a stable material. Steps
+	// grow geometrically from 1 %; a step into a region where the energy
+	// is not finite (beyond a limiting extensibility) is halved instead,
+	// since the lateral stress diverges before such a limit.
 	lo, hi := mu0, mu0
-	if v0 > 0 {
-		for i := 0; ; i++ {
-			lo /= 1.25
-			v, _, ok := g(lo)
-			if ok && v < 0 {
-				break
-			}
-			if ok && v == 0 {
-				return lo, nil
-			}
-			if i > 200 {
-				return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress", lambda, theta*180/math.Pi)
-			}
+	dir := -1.0 // search downwards when σ_tt(μ0) > 0
+	if v0 < 0 {
+		dir = 1
+	}
+	step, last := 0.01, mu0
+	found := false
+	for i := 0; i < 400 && step > 1e-15; i++ {
+		cand := last * math.Exp(dir*step)
+		v, _, ok := g(cand)
+		if !ok {
+			step /= 2
+			continue
 		}
-	} else {
-		for i := 0; ; i++ {
-			hi *= 1.25
-			v, _, ok := g(hi)
-			if ok && v > 0 {
-				break
-			}
-			if ok && v == 0 {
-				return hi, nil
-			}
-			if !ok || i > 200 {
-				return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress", lambda, theta*180/math.Pi)
-			}
+		if v == 0 {
+			return cand, nil
 		}
+		if (v < 0) == (dir < 0) {
+			if dir < 0 {
+				lo, hi = cand, last
+			} else {
+				lo, hi = last, cand
+			}
+			found = true
+			break
+		}
+		last = cand
+		step = math.Min(2*step, 0.5)
+	}
+	if !found {
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress where the energy is finite", lambda, theta*180/math.Pi)
 	}
 	mu := 0.5 * (lo + hi)
 	for iter := 0; iter < 200; iter++ {
@@ -321,11 +326,17 @@ type VerificationPoint struct {
 	// LoadFrame is the Cauchy stress in the load frame as (nn, tt, nt), n the
 	// load direction and t across it; for Uniaxial tt is zero.
 	LoadFrame Sym
+	// Err says why the point could not be evaluated (the energy is not
+	// finite there, or no lateral stretch frees the lateral edges); the
+	// stresses are then zero and must not be used. Empty for a good point.
+	Err string
 }
 
 // VerificationCases evaluates m on every point of the table s describes,
 // in the order case, direction, amount. Settings left empty take the
-// defaults of DefaultVerificationSettings.
+// defaults of DefaultVerificationSettings. A point the model cannot be
+// evaluated at is returned with Err set; the error is for settings that
+// cannot be used (a stretch ≤ 0 or not finite).
 func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, error) {
 	def := DefaultVerificationSettings(m)
 	if len(s.Cases) == 0 {
@@ -351,14 +362,22 @@ func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, e
 			amounts = s.Shears
 		}
 		for _, d := range dirs {
+			if math.IsNaN(d) || math.IsInf(d, 0) {
+				return nil, fmt.Errorf("direction %g is not a finite number", d)
+			}
 			theta := d * math.Pi / 180
 			for _, a := range amounts {
+				if math.IsNaN(a) || math.IsInf(a, 0) || (c != SimpleShear && !(a > 0)) {
+					return nil, fmt.Errorf("%s: amount %g must be a finite number (> 0 for a stretch)", c, a)
+				}
 				p := VerificationPoint{Case: c, DirectionDeg: d, Amount: a}
 				switch c {
 				case Uniaxial:
 					mu, err := SolveUniaxial(m, theta, a)
 					if err != nil {
-						return nil, err
+						p.Err = err.Error()
+						out = append(out, p)
+						continue
 					}
 					p.LateralStretch = mu
 				case Equibiaxial:
@@ -369,7 +388,9 @@ func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, e
 				p.F = LoadGradient(c, theta, a, p.LateralStretch)
 				r, err := m.Evaluate(p.F)
 				if err != nil {
-					return nil, fmt.Errorf("%s at %g° and %g: %w", c, d, a, err)
+					p.Err = fmt.Sprintf("%s at %g° and %g: %v", c, d, a, err)
+					out = append(out, p)
+					continue
 				}
 				p.Cauchy, p.Nominal = r.Cauchy, r.Nominal
 				p.LoadFrame = loadFrame(r.Cauchy, theta)

@@ -133,3 +133,36 @@ func TestVerificationUniaxialLateralFree(t *testing.T) {
 		t.Fatalf("%d uniaxial points", n)
 	}
 }
+
+// Gent uniaxial tension (Gent 1996): σ = 2wJ(λ² − 1/λ)/(J − (λ² + 2/λ − 3))
+// with the lateral stretch λ^(−1/2) of isotropy. With a small limit J the
+// table reaches the limit: those points carry Err and no stress, the rest
+// are exact.
+func TestVerificationGentLimit(t *testing.T) {
+	const w, J = 5.0, 0.3
+	m := &Model{Terms: []Term{{Shape: terms.Lookup("i1-gent"), Family: -1, Weight: w, Params: []float64{J}}}}
+	pts, err := VerificationCases(m, VerificationSettings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bad, good := 0, 0
+	for _, p := range pts {
+		if p.Err != "" {
+			bad++
+			continue
+		}
+		if p.Case != Uniaxial {
+			continue
+		}
+		l := p.Amount
+		x := l*l + 2/l - 3
+		want := 2 * w * J * (l*l - 1/l) / (J - x)
+		if !near(p.LoadFrame[0], want, 1e-12) || !near(p.LateralStretch, 1/math.Sqrt(l), 1e-14) {
+			t.Errorf("θ=%g λ=%g: σ = %.15g, closed form %.15g", p.DirectionDeg, l, p.LoadFrame[0], want)
+		}
+		good++
+	}
+	if bad == 0 || good != 12 {
+		t.Errorf("%d points beyond the limit, %d uniaxial points checked", bad, good)
+	}
+}

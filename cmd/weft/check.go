@@ -433,7 +433,9 @@ func printCheck(w io.Writer, r *checkReport) {
 		fmt.Fprintln(w, "\nNotice: "+s)
 	}
 	fmt.Fprintln(w)
-	if r.Passed {
+	if r.Passed && r.Grid.Evaluated < r.Grid.Points {
+		fmt.Fprintf(w, "Result: every check passed on the %d of %d grid points that could be evaluated.\n", r.Grid.Evaluated, r.Grid.Points)
+	} else if r.Passed {
 		fmt.Fprintln(w, "Result: every check passed.")
 	} else {
 		fmt.Fprintln(w, "Result: FAILED")

@@ -211,7 +211,12 @@ func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) 
 	doc.DataRange = dr
 	doc.Columns = append(append([]string(nil), verificationLead...), stressColumns(c.StressUnit)...)
 	outside := 0
+	var skipped []string
 	for _, p := range pts {
+		if p.Err != "" {
+			skipped = append(skipped, p.Err)
+			continue
+		}
 		e := exportPoint{Case: p.Case.String(), DirectionDeg: p.DirectionDeg, StretchOrShear: p.Amount, LateralStretch: p.LateralStretch,
 			F11: p.F[0], F12: p.F[1], F21: p.F[2], F22: p.F[3],
 			Cauchy11: p.Cauchy[0], Cauchy22: p.Cauchy[1], Cauchy12: p.Cauchy[2],
@@ -223,6 +228,12 @@ func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) 
 		doc.Verification = append(doc.Verification, e)
 	}
 	doc.Notes = verificationNotes(c.StressUnit)
+	if len(skipped) > 0 {
+		doc.Warnings = append(doc.Warnings, fmt.Sprintf("%d of %d verification rows were left out because the model cannot be evaluated there (first: %s)", len(skipped), len(pts), skipped[0]))
+	}
+	if len(doc.Verification) == 0 {
+		return nil, badInputf("%s: the model cannot be evaluated at any verification point (%s)", file, skipped[0])
+	}
 	if dr == nil {
 		doc.Notices = append(doc.Notices, noRangeNotice)
 	} else if outside > 0 {

@@ -258,3 +258,40 @@ func BenchmarkCheckStability(b *testing.B) {
 		}
 	}
 }
+
+// Polyconvexity of the three-dimensional energy does not carry over to the
+// plane-stress membrane energy W(F2) = Ψ(F2, 1/det F2): along a rank-one
+// path F2 + t a⊗b the eliminated F33 = 1/det is not affine in t, so cof F
+// is not either. A card of polyconvex terms only — a cofactor-fibre term
+// (Schröder & Neff 2003) dominating a soft matrix — loses strong
+// ellipticity in a compressed state. The loss is confirmed independently
+// of the tangent by the second difference of the energy along a⊗b.
+func TestPlaneStressReductionCanLoseEllipticity(t *testing.T) {
+	m := &Model{Families: []Family{{Angle: 30 * deg}}, Terms: []Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 0.01},
+		{Shape: terms.Lookup("cof-quad"), Family: 0, Weight: 100},
+	}}
+	F := [4]float64{0.7, -0.3, 0, 0.7}
+	p, err := m.StabilityAt(F, 180)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := p.EllipticityA, p.EllipticityB
+	d := [4]float64{a[0] * b[0], a[0] * b[1], a[1] * b[0], a[1] * b[1]}
+	W := func(s float64) float64 {
+		G := F
+		for i := range G {
+			G[i] += s * d[i]
+		}
+		r, err := m.Evaluate(G)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r.Energy
+	}
+	const h = 1e-4
+	q := (W(h) - 2*W(0) + W(-h)) / (h * h)
+	if !(p.MinEllipticity < 0) || !(q < 0) || !near(q, p.MinEllipticity, 1e-4) {
+		t.Errorf("min (a⊗b):A:(a⊗b) = %g, second difference of W %g", p.MinEllipticity, q)
+	}
+}

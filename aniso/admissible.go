@@ -201,6 +201,9 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 	if err := g.Validate(); err != nil {
 		return StabilityReport{}, err
 	}
+	if err := m.Validate(); err != nil {
+		return StabilityReport{}, err
+	}
 	rep := StabilityReport{Grid: g, Tolerance: 1e-10 * weightSum(m)}
 	rep.WorstStability.MinModuloRotation = math.Inf(1)
 	rep.WorstEllipticity.MinEllipticity = math.Inf(1)
@@ -503,6 +506,9 @@ type Moduli struct {
 // SmallStrainModuli returns the moduli at F = I, with uniaxial moduli
 // along each of directionsDeg.
 func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
+	if err := m.Validate(); err != nil {
+		return Moduli{}, err
+	}
 	I := [4]float64{1, 0, 0, 1}
 	// The isotropic terms alone give the two-sided part; the one-sided
 	// terms are added below, never through the switch test at I4 = 1,

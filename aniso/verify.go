@@ -227,7 +227,7 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 		} else {
 			hi = mu
 		}
-		if hi-lo <= 4*math.Nextafter(hi, math.Inf(1))-4*hi {
+		if hi-lo <= 4*(math.Nextafter(hi, math.Inf(1))-hi) { // four ulps
 			break
 		}
 		next := mu - v/d
@@ -338,6 +338,9 @@ type VerificationPoint struct {
 // evaluated at is returned with Err set; the error is for settings that
 // cannot be used (a stretch ≤ 0 or not finite).
 func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, error) {
+	if err := m.Validate(); err != nil {
+		return nil, err
+	}
 	def := DefaultVerificationSettings(m)
 	if len(s.Cases) == 0 {
 		s.Cases = def.Cases

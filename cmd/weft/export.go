@@ -410,10 +410,15 @@ func writeExportCSV(w io.Writer, d *exportDoc) error {
 	return err
 }
 
-// latexEscape escapes text for LaTeX.
+// latexEscape escapes text for LaTeX and writes the Greek letters and
+// symbols weft's notes use as math, so that the output compiles with a
+// plain LaTeX setup.
 func latexEscape(s string) string {
 	r := strings.NewReplacer(`\`, `\textbackslash{}`, `&`, `\&`, `%`, `\%`, `$`, `\$`, `#`, `\#`, `_`, `\_`,
-		`{`, `\{`, `}`, `\}`, `~`, `\textasciitilde{}`, `^`, `\textasciicircum{}`)
+		`{`, `\{`, `}`, `\}`, `~`, `\textasciitilde{}`, `^`, `\textasciicircum{}`,
+		"λ", `$\lambda$`, "σ", `$\sigma$`, "γ", `$\gamma$`, "θ", `$\theta$`, "κ", `$\kappa$`, "α", `$\alpha$`,
+		"β", `$\beta$`, "μ", `$\mu$`, "ψ", `$\psi$`, "Ψ", `$\Psi$`, "·", `$\cdot$`, "≤", `$\le$`, "≥", `$\ge$`,
+		"−", `$-$`, "×", `$\times$`, "⊗", `$\otimes$`, "²", `$^2$`, "√", `$\surd$`)
 	return r.Replace(s)
 }
 
@@ -481,7 +486,7 @@ func writeExportLaTeX(w io.Writer, d *exportDoc) {
 		fmt.Fprintln(w, `  \item Notice: `+latexEscape(s))
 	}
 	fmt.Fprintln(w, `\end{itemize}`)
-	fmt.Fprintln(w, `{\footnotesize`)
+	fmt.Fprintln(w, `{\scriptsize\setlength{\tabcolsep}{3pt}`)
 	fmt.Fprintln(w, `\begin{longtable}{lrrrrrrrrrrrrr}`)
 	fmt.Fprintln(w, `\hline`)
 	hdr := []string{"case", `$\theta$ [deg]`, `$\lambda$ or $\gamma$`, `$F_{11}$`, `$F_{12}$`, `$F_{21}$`, `$F_{22}$`,

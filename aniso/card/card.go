@@ -449,7 +449,7 @@ func validUnit(u string) bool {
 // energy written out. signKnown gives angle_sign_known per family (nil: not
 // stated).
 func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
-	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions}
+	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions, Families: []Family{}}
 	for i, f := range m.Families {
 		a := ReportAngle(f.Angle * 180 / math.Pi)
 		k := f.Dispersion
@@ -502,7 +502,7 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 		for j, q := range t.Shape.Params {
 			v := fmt.Sprintf("%.6g", t.Params[j])
 			p = strings.ReplaceAll(p, q.Symbol, v)
-			l = strings.ReplaceAll(l, q.Symbol, v)
+			l = latexSubst(l, q.Symbol, v)
 		}
 		if t.Family >= 0 {
 			name := c.Families[t.Family].Name
@@ -535,6 +535,25 @@ func joinTerms(ts []string) string {
 		}
 	}
 	return sb.String()
+}
+
+// latexSubst replaces sym by val in a LaTeX formula, writing a \cdot where
+// a digit precedes it, so that a template's 2b does not become 20.8393.
+func latexSubst(l, sym, val string) string {
+	var b strings.Builder
+	for {
+		i := strings.Index(l, sym)
+		if i < 0 {
+			b.WriteString(l)
+			return b.String()
+		}
+		b.WriteString(l[:i])
+		if i > 0 && l[i-1] >= '0' && l[i-1] <= '9' {
+			b.WriteString(`\cdot `)
+		}
+		b.WriteString(val)
+		l = l[i+len(sym):]
+	}
 }
 
 // Marshal returns the card as indented JSON with a trailing newline.

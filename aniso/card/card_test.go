@@ -67,3 +67,15 @@ func TestReportAngle(t *testing.T) {
 		}
 	}
 }
+
+// The LaTeX energy keeps a product of a number and a parameter readable:
+// the fib-expsq template w/(2b) with w = 2.3632 and b = 0.8393 must read
+// 2.3632/(2·0.8393), not 2.3632/20.8393.
+func TestEnergyLaTeXProducts(t *testing.T) {
+	m := &aniso.Model{Families: []aniso.Family{{Name: "f1"}}, Terms: []aniso.Term{
+		{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 2.3632, Params: []float64{0.8393}}}}
+	_, l := EnergyText(m, FromModel(m, "kPa", nil))
+	if !strings.Contains(l, `\frac{2.3632}{2\cdot 0.8393}`) || strings.Contains(l, "20.8393") {
+		t.Errorf("LaTeX energy %s", l)
+	}
+}

@@ -1,0 +1,660 @@
+package aniso
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+// Admissibility checks of a model: stress-free reference, material
+// stability and strong ellipticity over a grid of deformations, and the
+// small-strain moduli.
+//
+// Material stability. The tangent A = ∂²W/∂F2² is a Hessian, so it is
+// symmetric: its symmetric part is itself and the whole 4×4 matrix is
+// tested. W is unchanged by an in-plane rigid rotation, W(R(θ)F) = W(F);
+// differentiating twice at θ = 0 gives (ΩF):A:(ΩF) = σ11 + σ22 with
+// Ω = [[0, −1], [1, 0]]. So wherever the in-plane stress is compressive
+// enough the full 4×4 tangent is indefinite for every material — under dead
+// loads a compressed membrane can rotate to relieve its load; that is a
+// property of the load, not of the material. weft's criterion is therefore:
+//
+//	the smallest eigenvalue of A restricted to the three in-plane increments
+//	orthogonal (Frobenius inner product) to the rotation increment ΩF is
+//	positive.
+//
+// It is positive definiteness of the tangent modulo rigid rotation:
+// uniqueness of the homogeneous state under dead-load increments that are
+// not a rigid rotation. The smallest eigenvalue of the full 4×4 tangent is
+// reported beside it.
+//
+// Strong ellipticity (the Legendre–Hadamard condition): for every pair of
+// in-plane unit vectors a, b, (a⊗b):A:(a⊗b) > 0. For each direction b the
+// 2×2 acoustic tensor Q(b)_ik = A_ijkl b_j b_l is formed and its smallest
+// eigenvalue taken in closed form, which covers every a exactly; b is
+// sampled at StabilityGrid.Directions angles evenly over [0°, 180°).
+
+// StabilityGrid is the set of deformations a stability scan visits: every
+// pure stretch (λ1, λ2) on a regular grid, and each of them with a simple
+// shear added as F12 = γ or F21 = γ.
+type StabilityGrid struct {
+	// StretchMin and StretchMax bound λ1 and λ2 (dimensionless); default
+	// 0.7 and 1.6.
+	StretchMin, StretchMax float64
+	// Steps is the number of stretches per axis, ends included; default 19
+	// (a step of 0.05 on the default range).
+	Steps int
+	// ShearMax is the largest |γ|; the shears are ±ShearMax and
+	// ±ShearMax/2. Default 0.3; 0 scans pure stretches only.
+	ShearMax float64
+	// Directions is the number of directions b sampled for strong
+	// ellipticity; default 180 (1° apart).
+	Directions int
+}
+
+// DefaultStabilityGrid returns the default grid: λ1, λ2 ∈ [0.7, 1.6] in
+// steps of 0.05, shears ±0.15 and ±0.3, ellipticity directions 1° apart.
+func DefaultStabilityGrid() StabilityGrid {
+	return StabilityGrid{StretchMin: 0.7, StretchMax: 1.6, Steps: 19, ShearMax: 0.3, Directions: 180}
+}
+
+// Validate reports a grid that cannot be scanned.
+func (g StabilityGrid) Validate() error {
+	switch {
+	case !(g.StretchMin > 0) || math.IsInf(g.StretchMax, 0) || !(g.StretchMax >= g.StretchMin):
+		return fmt.Errorf("stretch range [%g, %g] must satisfy 0 < min ≤ max", g.StretchMin, g.StretchMax)
+	case g.Steps < 1 || g.Steps > 1000:
+		return fmt.Errorf("%d steps per axis; give 1 to 1000", g.Steps)
+	case g.Steps == 1 && g.StretchMin != g.StretchMax:
+		return fmt.Errorf("one step per axis needs min = max")
+	case !(g.ShearMax >= 0) || math.IsInf(g.ShearMax, 0):
+		return fmt.Errorf("shear %g must be a finite number ≥ 0", g.ShearMax)
+	case g.Directions < 4 || g.Directions > 100000:
+		return fmt.Errorf("%d ellipticity directions; give 4 to 100000", g.Directions)
+	}
+	return nil
+}
+
+// Stretches returns the stretches of one axis. A value within 1e-12 of 1
+// is set to 1 exactly, so that the reference state is on the grid when the
+// range and steps put it there.
+func (g StabilityGrid) Stretches() []float64 {
+	if g.Steps == 1 {
+		return []float64{g.StretchMin}
+	}
+	out := make([]float64, g.Steps)
+	for i := range out {
+		v := g.StretchMin + (g.StretchMax-g.StretchMin)*float64(i)/float64(g.Steps-1)
+		if math.Abs(v-1) < 1e-12 {
+			v = 1
+		}
+		out[i] = v
+	}
+	return out
+}
+
+// Points returns the grid's deformations (F11, F12, F21, F22) in a fixed
+// order: λ1 outer, λ2 inner, and for each pure stretch the sheared states
+// F12 = −γmax, −γmax/2, γmax/2, γmax then F21 likewise.
+func (g StabilityGrid) Points() [][4]float64 {
+	st := g.Stretches()
+	var shears []float64
+	if g.ShearMax > 0 {
+		shears = []float64{-g.ShearMax, -g.ShearMax / 2, g.ShearMax / 2, g.ShearMax}
+	}
+	out := make([][4]float64, 0, len(st)*len(st)*(1+2*len(shears)))
+	for _, l1 := range st {
+		for _, l2 := range st {
+			out = append(out, [4]float64{l1, 0, 0, l2})
+			for _, s := range shears {
+				out = append(out, [4]float64{l1, s, 0, l2})
+			}
+			for _, s := range shears {
+				out = append(out, [4]float64{l1, 0, s, l2})
+			}
+		}
+	}
+	return out
+}
+
+// PointStability is the stability of a model at one deformation.
+type PointStability struct {
+	// F is the deformation (F11, F12, F21, F22).
+	F [4]float64
+	// Cauchy is the in-plane Cauchy stress there, stress unit.
+	Cauchy Sym
+	// MinModuloRotation is the smallest eigenvalue of the tangent
+	// restricted to increments orthogonal to the rigid rotation (stress
+	// unit): weft's stability criterion, which needs it > 0.
+	MinModuloRotation float64
+	// MinFull is the smallest eigenvalue of the full 4×4 tangent.
+	MinFull float64
+	// MinEllipticity is the smallest (a⊗b):A:(a⊗b) over unit a and the
+	// sampled b (stress unit); strong ellipticity needs it > 0.
+	MinEllipticity float64
+	// EllipticityA and EllipticityB are the a and b that attain it.
+	EllipticityA, EllipticityB [2]float64
+}
+
+// StabilityReport summarises a scan.
+type StabilityReport struct {
+	// Grid is the grid scanned.
+	Grid StabilityGrid
+	// Points is the number of grid points; Evaluated of them could be
+	// evaluated (the others are beyond a limiting extensibility or
+	// overflow, listed by NotEvaluable with the first one's F).
+	Points, Evaluated, NotEvaluable int
+	FirstNotEvaluable               [4]float64
+	NotEvaluableReason              string
+	// Tolerance is the threshold (stress unit) an eigenvalue must exceed:
+	// 1e-10 times the sum of the weights.
+	Tolerance float64
+	// UnstablePoints counts points failing the stability criterion;
+	// WorstStability is the point with the smallest MinModuloRotation.
+	UnstablePoints int
+	WorstStability PointStability
+	// NonEllipticPoints counts points failing strong ellipticity;
+	// WorstEllipticity has the smallest MinEllipticity.
+	NonEllipticPoints int
+	WorstEllipticity  PointStability
+	// FullIndefinite counts points where the full 4×4 tangent is not
+	// positive definite; FullIndefiniteTensile those of them where both
+	// principal in-plane Cauchy stresses are > 0 (there the rotation mode
+	// does not explain it).
+	FullIndefinite, FullIndefiniteTensile int
+}
+
+// Stable reports whether every evaluated point passed both criteria.
+func (r *StabilityReport) Stable() bool { return r.UnstablePoints == 0 && r.NonEllipticPoints == 0 }
+
+// StabilityAt evaluates both criteria at one deformation with directions
+// sampled directions b for ellipticity.
+func (m *Model) StabilityAt(F [4]float64, directions int) (PointStability, error) {
+	tg, err := m.Tangent(F)
+	if err != nil {
+		return PointStability{}, err
+	}
+	for i := range tg.A {
+		for _, v := range tg.A[i] {
+			if math.IsInf(v, 0) || math.IsNaN(v) {
+				return PointStability{}, fmt.Errorf("the tangent overflows at F = %v", F)
+			}
+		}
+	}
+	r, err := m.Evaluate(F)
+	if err != nil {
+		return PointStability{}, err
+	}
+	p := PointStability{F: F, Cauchy: r.Cauchy}
+	full := tg.A
+	p.MinFull = minEigen4(&full)
+	p.MinModuloRotation = minEigenModuloRotation(&tg.A, F)
+	p.MinEllipticity, p.EllipticityA, p.EllipticityB = minEllipticity(&tg.A, directions)
+	return p, nil
+}
+
+// CheckStability scans the grid. Points where the model cannot be
+// evaluated are counted, not failed.
+func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
+	if err := g.Validate(); err != nil {
+		return StabilityReport{}, err
+	}
+	if err := m.Validate(); err != nil {
+		return StabilityReport{}, err
+	}
+	rep := StabilityReport{Grid: g, Tolerance: 1e-10 * weightSum(m)}
+	rep.WorstStability.MinModuloRotation = math.Inf(1)
+	rep.WorstEllipticity.MinEllipticity = math.Inf(1)
+	for _, F := range g.Points() {
+		rep.Points++
+		p, err := m.StabilityAt(F, g.Directions)
+		if err != nil {
+			if rep.NotEvaluable == 0 {
+				rep.FirstNotEvaluable, rep.NotEvaluableReason = F, err.Error()
+			}
+			rep.NotEvaluable++
+			continue
+		}
+		rep.Evaluated++
+		if !(p.MinModuloRotation > rep.Tolerance) {
+			rep.UnstablePoints++
+		}
+		if !(p.MinEllipticity > rep.Tolerance) {
+			rep.NonEllipticPoints++
+		}
+		if !(p.MinFull > rep.Tolerance) {
+			rep.FullIndefinite++
+			if minPrincipal(p.Cauchy) > rep.Tolerance {
+				rep.FullIndefiniteTensile++
+			}
+		}
+		if p.MinModuloRotation < rep.WorstStability.MinModuloRotation {
+			rep.WorstStability = p
+		}
+		if p.MinEllipticity < rep.WorstEllipticity.MinEllipticity {
+			rep.WorstEllipticity = p
+		}
+	}
+	if rep.Evaluated == 0 {
+		return rep, errors.New("no grid point could be evaluated: " + rep.NotEvaluableReason)
+	}
+	return rep, nil
+}
+
+// weightSum is Σ w_k, the stress scale of tolerances.
+func weightSum(m *Model) float64 {
+	s := 0.0
+	for _, t := range m.Terms {
+		s += t.Weight
+	}
+	if s == 0 {
+		return 1
+	}
+	return s
+}
+
+// minPrincipal returns the smaller principal value of a symmetric tensor.
+func minPrincipal(s Sym) float64 {
+	c := 0.5 * (s[0] + s[1])
+	r := math.Hypot(0.5*(s[0]-s[1]), s[2])
+	return c - r
+}
+
+// ReferenceStress returns the largest |σ_ij| at F = I and the tolerance it
+// must not exceed: 1e-9 times the sum of the weights (stress unit).
+func (m *Model) ReferenceStress() (maxAbs, tol float64, err error) {
+	r, err := m.Evaluate([4]float64{1, 0, 0, 1})
+	if err != nil {
+		return 0, 0, err
+	}
+	for _, v := range r.Cauchy {
+		maxAbs = math.Max(maxAbs, math.Abs(v))
+	}
+	return maxAbs, 1e-9 * weightSum(m), nil
+}
+
+// minEllipticity returns min over unit a and the n sampled directions b of
+// (a⊗b):A:(a⊗b), with the minimising a and b.
+func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
+	best := math.Inf(1)
+	var ba, bb [2]float64
+	for k := 0; k < n; k++ {
+		s, c := math.Sincos(math.Pi * float64(k) / float64(n))
+		b := [2]float64{c, s}
+		var Q [2][2]float64
+		for i := 0; i < 2; i++ {
+			for kk := 0; kk < 2; kk++ {
+				v := 0.0
+				for j := 0; j < 2; j++ {
+					for l := 0; l < 2; l++ {
+						v += A[2*i+j][2*kk+l] * b[j] * b[l]
+					}
+				}
+				Q[i][kk] = v
+			}
+		}
+		q12 := 0.5 * (Q[0][1] + Q[1][0])
+		mid := 0.5 * (Q[0][0] + Q[1][1])
+		rad := math.Hypot(0.5*(Q[0][0]-Q[1][1]), q12)
+		e := mid - rad
+		if e < best {
+			best, bb = e, b
+			// Eigenvector of the smallest eigenvalue.
+			ax, ay := q12, e-Q[0][0]
+			if math.Abs(ax)+math.Abs(ay) < 1e-300 {
+				ax, ay = e-Q[1][1], q12
+			}
+			if math.Abs(ax)+math.Abs(ay) < 1e-300 {
+				ax, ay = 1, 0
+			}
+			h := math.Hypot(ax, ay)
+			ba = [2]float64{ax / h, ay / h}
+		}
+	}
+	return best, ba, bb
+}
+
+// minEigen4 returns the smallest eigenvalue of a symmetric 4×4 matrix.
+func minEigen4(A *[4][4]float64) float64 {
+	var a [4][4]float64 = *A
+	return minEigenJacobi(a[:], 4)
+}
+
+// minEigenModuloRotation returns the smallest eigenvalue of A restricted
+// to the orthogonal complement of the rotation increment ΩF.
+func minEigenModuloRotation(A *[4][4]float64, F [4]float64) float64 {
+	basis := complementBasis(rotationMode(F))
+	var r [4][4]float64
+	for i := 0; i < 3; i++ {
+		for j := 0; j < 3; j++ {
+			r[i][j] = quadForm(A, basis[i], basis[j])
+		}
+	}
+	return minEigenJacobi(r[:], 3)
+}
+
+// complementBasis returns an orthonormal basis of the 3-dimensional
+// complement of v (Gram–Schmidt on v and the unit vectors).
+func complementBasis(v [4]float64) [3][4]float64 {
+	var out [4][4]float64
+	n := 0
+	add := func(x [4]float64) {
+		for k := 0; k < n; k++ {
+			d := dot4(x, out[k])
+			for i := range x {
+				x[i] -= d * out[k][i]
+			}
+		}
+		if nn := math.Sqrt(dot4(x, x)); nn > 1e-6 {
+			for i := range x {
+				x[i] /= nn
+			}
+			out[n] = x
+			n++
+		}
+	}
+	add(v)
+	for k := 0; k < 4 && n < 4; k++ {
+		var e [4]float64
+		e[k] = 1
+		add(e)
+	}
+	return [3][4]float64{out[1], out[2], out[3]}
+}
+
+func dot4(a, b [4]float64) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] + a[3]*b[3] }
+
+// minEigenJacobi returns the smallest eigenvalue of the symmetric leading
+// n×n block of a (n ≤ 4) by the cyclic Jacobi method (Golub & Van Loan,
+// Matrix Computations, §8.5); a is overwritten.
+func minEigenJacobi(a [][4]float64, n int) float64 {
+	for sweep := 0; sweep < 50; sweep++ {
+		off, diag := 0.0, 0.0
+		for i := 0; i < n; i++ {
+			diag += a[i][i] * a[i][i]
+			for j := i + 1; j < n; j++ {
+				off += a[i][j] * a[i][j]
+			}
+		}
+		if off <= 1e-32*diag || off == 0 {
+			break
+		}
+		for p := 0; p < n; p++ {
+			for q := p + 1; q < n; q++ {
+				if a[p][q] == 0 {
+					continue
+				}
+				theta := (a[q][q] - a[p][p]) / (2 * a[p][q])
+				t := math.Copysign(1, theta) / (math.Abs(theta) + math.Sqrt(theta*theta+1))
+				c := 1 / math.Sqrt(t*t+1)
+				s := t * c
+				for k := 0; k < n; k++ {
+					akp, akq := a[k][p], a[k][q]
+					a[k][p], a[k][q] = c*akp-s*akq, s*akp+c*akq
+				}
+				for k := 0; k < n; k++ {
+					apk, aqk := a[p][k], a[q][k]
+					a[p][k], a[q][k] = c*apk-s*aqk, s*apk+c*aqk
+				}
+			}
+		}
+	}
+	m := a[0][0]
+	for i := 1; i < n; i++ {
+		m = math.Min(m, a[i][i])
+	}
+	return m
+}
+
+// rotationMode returns ΩF for Ω = [[0, −1], [1, 0]], the increment of F
+// under an infinitesimal in-plane rigid rotation, in the order
+// (F11, F12, F21, F22).
+func rotationMode(F [4]float64) [4]float64 {
+	return [4]float64{-F[2], -F[3], F[0], F[1]}
+}
+
+// quadForm returns xᵀ A y.
+func quadForm(A *[4][4]float64, x, y [4]float64) float64 {
+	s := 0.0
+	for i := range x {
+		for j := range y {
+			s += x[i] * A[i][j] * y[j]
+		}
+	}
+	return s
+}
+
+// Small-strain moduli.
+//
+// At F = I the reference is stress-free and the tangent is the linear
+// elasticity of the incompressible membrane in plane stress. Fibre and I5
+// terms switch on only when their family is stretched (I4 > 1) and cofactor
+// terms only when K > 1, so each adds its stiffness w·f″(0⁺)·∇x⊗∇x on one
+// side only: the small-strain response is piecewise linear, and the moduli
+// in tension and compression differ. weft solves the piecewise-linear
+// problem exactly: for a uniaxial stress ±n⊗n it finds the set of switched
+// terms whose activity agrees with the strain they produce (the energy is
+// convex, so the answer is unique when the matrix alone has stiffness).
+
+// voigt converts a 4×4 tangent at the stress-free reference to the 3×3
+// stiffness D relating (σ11, σ22, σ12) to (ε11, ε22, γ12), γ12 = 2ε12.
+func voigt(A *[4][4]float64) [3][3]float64 {
+	var D [3][3]float64
+	for k := 0; k < 3; k++ {
+		var u [4]float64
+		switch k {
+		case 0:
+			u[0] = 1
+		case 1:
+			u[3] = 1
+		case 2:
+			u[1], u[2] = 0.5, 0.5
+		}
+		var P [4]float64
+		for i := range P {
+			for j := range u {
+				P[i] += A[i][j] * u[j]
+			}
+		}
+		D[0][k], D[1][k], D[2][k] = P[0], P[3], 0.5*(P[1]+P[2])
+	}
+	return D
+}
+
+// voigtVec converts a gradient over F to one over (ε11, ε22, γ12).
+func voigtVec(g [4]float64) [3]float64 { return [3]float64{g[0], g[3], 0.5 * (g[1] + g[2])} }
+
+// switchedTerm is one term that acts on one side of the reference only.
+type switchedTerm struct {
+	index int        // into Model.Terms
+	s     [3]float64 // active when s·ε > 0
+	D     [3][3]float64
+}
+
+// DirectionalModulus is the small-strain uniaxial modulus along one
+// direction.
+type DirectionalModulus struct {
+	// AngleDeg is the direction in degrees from axis 1 towards axis 2.
+	AngleDeg float64
+	// Tension and Compression are the moduli (stress unit) for a small
+	// uniaxial tension and compression along the direction, the other
+	// in-plane stresses zero; 0 means the membrane has no small-strain
+	// stiffness in that mode.
+	Tension, Compression float64
+	// TensionTerms and CompressionTerms list the indices (into
+	// Model.Terms) of the one-sided terms engaged in each.
+	TensionTerms, CompressionTerms []int
+}
+
+// Moduli are the small-strain moduli of a model.
+type Moduli struct {
+	// InitialShear is μ0 = 2 Σ w f′(0) over the I1 and I2 terms (stress
+	// unit): the shear modulus of the isotropic part.
+	InitialShear float64
+	// ShearPositive and ShearNegative are the in-plane shear moduli
+	// τ12/γ12 for a small positive and negative shear stress on the axes
+	// (stress unit; they differ when fibres engage on one side only).
+	ShearPositive, ShearNegative float64
+	// Young holds the uniaxial moduli along the requested directions.
+	Young []DirectionalModulus
+	// OneSided is the number of terms whose stiffness is one-sided.
+	OneSided int
+}
+
+// SmallStrainModuli returns the moduli at F = I, with uniaxial moduli
+// along each of directionsDeg.
+func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
+	if err := m.Validate(); err != nil {
+		return Moduli{}, err
+	}
+	I := [4]float64{1, 0, 0, 1}
+	// The isotropic terms alone give the two-sided part; the one-sided
+	// terms are added below, never through the switch test at I4 = 1,
+	// which round-off in cos²α + sin²α could tip either way.
+	iso := &Model{Families: m.Families}
+	var mod Moduli
+	for _, t := range m.Terms {
+		if t.Shape.Arg == terms.I1 || t.Shape.Arg == terms.I2 {
+			iso.Terms = append(iso.Terms, t)
+			mod.InitialShear += 2 * t.Weight * t.Shape.Eval(0, t.Params).D1
+		}
+	}
+	base, err := iso.Tangent(I)
+	if err != nil {
+		return Moduli{}, err
+	}
+	D0 := voigt(&base.A)
+	q := newInvariantJets(I)
+	var sw []switchedTerm
+	for i, t := range m.Terms {
+		a := t.Shape.Arg
+		if a != terms.Fibre && a != terms.Fifth && a != terms.Cofactor {
+			continue
+		}
+		if t.Weight == 0 {
+			continue
+		}
+		I4, I5, K := q.fibreJets(m.Families[t.Family].Angle)
+		kappa := m.Families[t.Family].Dispersion
+		// Force the term on: evaluate its argument as if switched on.
+		forced := I4
+		forced.v = 2
+		x, _ := argJet(a, kappa, &q, &forced, &I5, &K)
+		switch a {
+		case terms.Fibre:
+			x.v = kappa*(q.I1.v-3) + (1-3*kappa)*(I4.v-1)
+		case terms.Fifth:
+			x.v = I5.v - 1
+		}
+		// The right-hand limit of f′ and f″ at x = 0.
+		v := t.Shape.Eval(math.Max(x.v, 0)+1e-300, t.Params)
+		var A [4][4]float64
+		for r := range A {
+			for c := range A[r] {
+				A[r][c] = t.Weight * (v.D2*x.g[r]*x.g[c] + v.D1*x.h[r][c])
+			}
+		}
+		st := switchedTerm{index: i, D: voigt(&A)}
+		if a == terms.Cofactor {
+			st.s = voigtVec(K.g)
+		} else {
+			st.s = voigtVec(I4.g)
+		}
+		sw = append(sw, st)
+	}
+	if len(sw) > 16 {
+		return Moduli{}, fmt.Errorf("%d one-sided terms; small-strain moduli handle at most 16", len(sw))
+	}
+	mod.OneSided = len(sw)
+	respond := func(sig [3]float64) ([3]float64, []int, bool) {
+		for mask := 0; mask < 1<<len(sw); mask++ {
+			D := D0
+			var on []int
+			for k, st := range sw {
+				if mask&(1<<k) != 0 {
+					on = append(on, st.index)
+					for r := range D {
+						for c := range D[r] {
+							D[r][c] += st.D[r][c]
+						}
+					}
+				}
+			}
+			eps, ok := solve3(D, sig)
+			if !ok {
+				continue
+			}
+			consistent := true
+			for k, st := range sw {
+				act := st.s[0]*eps[0] + st.s[1]*eps[1] + st.s[2]*eps[2]
+				scale := 1e-12 * (math.Abs(st.s[0]*eps[0]) + math.Abs(st.s[1]*eps[1]) + math.Abs(st.s[2]*eps[2]))
+				if (mask&(1<<k) != 0 && act < -scale) || (mask&(1<<k) == 0 && act > scale) {
+					consistent = false
+					break
+				}
+			}
+			if consistent {
+				return eps, on, true
+			}
+		}
+		return [3]float64{}, nil, false
+	}
+	if eps, _, ok := respond([3]float64{0, 0, 1}); ok && eps[2] != 0 {
+		mod.ShearPositive = 1 / eps[2]
+	}
+	if eps, _, ok := respond([3]float64{0, 0, -1}); ok && eps[2] != 0 {
+		mod.ShearNegative = -1 / eps[2]
+	}
+	for _, d := range directionsDeg {
+		s, c := math.Sincos(d * math.Pi / 180)
+		nn := [3]float64{c * c, s * s, c * s}
+		dm := DirectionalModulus{AngleDeg: d}
+		for _, sign := range []float64{1, -1} {
+			sig := [3]float64{sign * nn[0], sign * nn[1], sign * nn[2]}
+			eps, on, ok := respond(sig)
+			if !ok {
+				continue
+			}
+			en := eps[0]*c*c + eps[1]*s*s + eps[2]*c*s
+			if en == 0 {
+				continue
+			}
+			if sign > 0 {
+				dm.Tension, dm.TensionTerms = 1/en, on
+			} else {
+				dm.Compression, dm.CompressionTerms = -1/en, on
+			}
+		}
+		mod.Young = append(mod.Young, dm)
+	}
+	return mod, nil
+}
+
+// solve3 solves D x = b by Cramer's rule; ok is false when D is singular
+// relative to its size.
+func solve3(D [3][3]float64, b [3]float64) ([3]float64, bool) {
+	det := func(M [3][3]float64) float64 {
+		return M[0][0]*(M[1][1]*M[2][2]-M[1][2]*M[2][1]) - M[0][1]*(M[1][0]*M[2][2]-M[1][2]*M[2][0]) + M[0][2]*(M[1][0]*M[2][1]-M[1][1]*M[2][0])
+	}
+	d := det(D)
+	norm := 0.0
+	for i := range D {
+		for j := range D[i] {
+			norm = math.Max(norm, math.Abs(D[i][j]))
+		}
+	}
+	if norm == 0 || math.Abs(d) <= 1e-12*norm*norm*norm {
+		return [3]float64{}, false
+	}
+	var x [3]float64
+	for k := 0; k < 3; k++ {
+		M := D
+		for i := 0; i < 3; i++ {
+			M[i][k] = b[i]
+		}
+		x[k] = det(M) / d
+	}
+	return x, true
+}

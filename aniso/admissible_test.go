@@ -1,0 +1,297 @@
+package aniso
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/weft-tools/weft/terms"
+	"gonum.org/v1/gonum/mat"
+)
+
+// The Jacobi eigenvalue routine against gonum's symmetric eigensolver (a
+// general-purpose reference library) on random symmetric matrices.
+func TestMinEigenAgainstGonum(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for trial := 0; trial < 200; trial++ {
+		n := 3 + trial%2
+		var a [4][4]float64
+		s := mat.NewSymDense(n, nil)
+		for i := 0; i < n; i++ {
+			for j := i; j < n; j++ {
+				v := rng.NormFloat64() * math.Pow(10, float64(rng.IntN(4)))
+				a[i][j], a[j][i] = v, v
+				s.SetSym(i, j, v)
+			}
+		}
+		var e mat.EigenSym
+		if !e.Factorize(s, false) {
+			t.Fatal("gonum failed")
+		}
+		want := e.Values(nil)[0]
+		got := minEigenJacobi(a[:], n)
+		scale := mat.Norm(s, 2)
+		if math.Abs(got-want) > 1e-12*scale {
+			t.Errorf("trial %d: Jacobi %.15g, gonum %.15g", trial, got, want)
+		}
+	}
+}
+
+// Incompressible isotropic small-strain moduli (common practice): shear
+// modulus μ = 2(C10 + C01) and Young's modulus E = 3μ in every direction,
+// the same in tension and compression.
+func TestModuliIsotropic(t *testing.T) {
+	m := &Model{Terms: []Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4}, {Shape: terms.Lookup("i2-lin"), Family: -1, Weight: 1},
+		{Shape: terms.Lookup("i1-quad"), Family: -1, Weight: 3}}}
+	mod, err := m.SmallStrainModuli([]float64{0, 90, 33})
+	if err != nil {
+		t.Fatal(err)
+	}
+	mu := 2 * (4.0 + 1)
+	if !near(mod.InitialShear, mu, 1e-14) || !near(mod.ShearPositive, mu, 1e-12) || !near(mod.ShearNegative, mu, 1e-12) {
+		t.Errorf("shear moduli %g, %g, %g; want %g", mod.InitialShear, mod.ShearPositive, mod.ShearNegative, mu)
+	}
+	for _, y := range mod.Young {
+		if !near(y.Tension, 3*mu, 1e-12) || !near(y.Compression, 3*mu, 1e-12) {
+			t.Errorf("θ=%g: E = %g (tension), %g (compression); want 3μ = %g", y.AngleDeg, y.Tension, y.Compression, 3*mu)
+		}
+	}
+}
+
+// A neo-Hookean matrix with one family along axis 1, linearised by hand: a
+// fibre term w·f(I4 − 1) adds w·f″(0)·(2ε11)²/2 to the energy when ε11 > 0,
+// so D11 gains 4w·f″(0); with σ22 = 0 (ε22 = −ε11/2) the uniaxial modulus
+// along the fibre is 3μ + 4w·f″(0) in tension and 3μ in compression, and
+// across it 3μ both ways (the fibre shortens). Dispersion κ scales the
+// fibre stiffness by (1 − 3κ)² (its I1 part has zero slope at I). For the
+// cofactor term K − 1 ≈ −2ε11 the sides swap.
+func TestModuliOneSided(t *testing.T) {
+	const wm = 1.5 // μ = 3
+	for _, c := range []struct {
+		id    string
+		kappa float64
+		w     float64
+		swap  bool
+	}{{"fib-quad", 0, 2, false}, {"fib-expsq", 0, 2.3632, false}, {"fib-exp", 0.2, 5, false}, {"i5-quad", 0, 1, false}, {"cof-quad", 0, 0.7, true}} {
+		sh := terms.Lookup(c.id)
+		m := &Model{Families: []Family{{Angle: 0, Dispersion: c.kappa}}, Terms: []Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: wm},
+			{Shape: sh, Family: 0, Weight: c.w, Params: sh.DefaultParams()},
+		}}
+		mod, err := m.SmallStrainModuli([]float64{0, 90})
+		if err != nil {
+			t.Fatal(err)
+		}
+		// x ≈ g·2ε11 with g = 1 − 3κ (fibre), 2 (I5 ≈ 1 + 4ε11), −1 (K ≈ 1 − 2ε11).
+		g := 1 - 3*c.kappa
+		switch c.id {
+		case "i5-quad":
+			g = 2
+		case "cof-quad":
+			g = 1
+		}
+		f2 := sh.Eval(1e-300, sh.DefaultParams()).D2
+		stiff := 3*2*wm + 4*c.w*f2*g*g
+		ten, comp := stiff, 3*2*wm
+		if c.swap {
+			ten, comp = comp, ten
+		}
+		y := mod.Young[0]
+		if !near(y.Tension, ten, 1e-12) || !near(y.Compression, comp, 1e-12) {
+			t.Errorf("%s κ=%g: along the fibre E = %g (tension), %g (compression); hand linearisation %g, %g", c.id, c.kappa, y.Tension, y.Compression, ten, comp)
+		}
+		y = mod.Young[1]
+		if !near(y.Tension, 6*wm, 1e-12) && !c.swap {
+			t.Errorf("%s: across the fibre E = %g in tension, want 3μ = %g", c.id, y.Tension, 6*wm)
+		}
+	}
+}
+
+// Small-strain moduli of the Holzapfel, Gasser & Ogden 2000 media set along
+// the axes (symmetry axes of the ±29° pair) against the secant σ/ε of the
+// large-strain uniaxial solve at λ = 1 ± 1e-6 (a different route: Newton on
+// zero lateral stress and Evaluate; finite differences, common practice).
+func TestModuliAgainstUniaxialSolve(t *testing.T) {
+	m := hgoMedia()
+	mod, err := m.SmallStrainModuli([]float64{0, 90})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, y := range mod.Young {
+		th := y.AngleDeg * deg
+		for _, d := range []float64{1e-6, -1e-6} {
+			l := 1 + d
+			mu, err := SolveUniaxial(m, th, l)
+			if err != nil {
+				t.Fatal(err)
+			}
+			r, _ := m.Evaluate(LoadGradient(Uniaxial, th, l, mu))
+			secant := loadFrame(r.Cauchy, th)[0] / math.Log(l)
+			want := y.Tension
+			if d < 0 {
+				want = y.Compression
+			}
+			if !near(secant, want, 1e-5) {
+				t.Errorf("θ=%g, λ=%g: secant modulus %.8g, small-strain modulus %.8g", y.AngleDeg, l, secant, want)
+			}
+		}
+	}
+	if !(mod.Young[0].Tension > mod.Young[0].Compression) {
+		t.Errorf("fibres should stiffen tension along axis 1: %+v", mod.Young[0])
+	}
+}
+
+// The full 4×4 tangent is indefinite in compressed states for every
+// material (the rigid-rotation mode carries σ11 + σ22), while the
+// criterion modulo rotation passes for the neo-Hookean membrane, which is
+// stable (its energy |F|² + det(F)⁻² is convex in F and det F).
+func TestRotationModeExplainsCompression(t *testing.T) {
+	rep, err := neoHookean(5).CheckStability(DefaultStabilityGrid())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.UnstablePoints != 0 || rep.NonEllipticPoints != 0 {
+		t.Errorf("neo-Hookean flagged: %+v", rep)
+	}
+	if rep.FullIndefinite == 0 {
+		t.Error("expected the full tangent to be indefinite at compressed points")
+	}
+	p, _ := neoHookean(5).StabilityAt([4]float64{0.7, 0, 0, 0.7}, 36)
+	if !(p.MinFull < 0) || !(p.MinModuloRotation > 0) {
+		t.Errorf("equibiaxial compression: %+v", p)
+	}
+}
+
+// An I2 membrane under equal dead loads: with W = w(I2 − 3) and
+// I2 = λ1⁻² + λ2⁻² + λ1²λ2², the increment δλ1 = −δλ2 (orthogonal to the
+// rotation mode) has curvature w(W11 − W12) = w(6λ⁻⁴ − 2λ²) at λ1 = λ2 = λ,
+// negative beyond λ = 3^(1/6): the asymmetric bifurcation of a
+// symmetrically loaded sheet (Kearsley 1986; Ogden 1987; from memory). The
+// closed form checks the tangent, and the criterion must see the loss.
+func TestI2SheetBifurcation(t *testing.T) {
+	const w = 2.0
+	m := &Model{Terms: []Term{{Shape: terms.Lookup("i2-lin"), Family: -1, Weight: w}}}
+	for _, l := range []float64{1.05, 1.15, 1.25, 1.4} {
+		tg, err := m.Tangent([4]float64{l, 0, 0, l})
+		if err != nil {
+			t.Fatal(err)
+		}
+		u := [4]float64{1, 0, 0, -1}
+		got := quadForm(&tg.A, u, u) / 2
+		want := w * (6*math.Pow(l, -4) - 2*l*l)
+		if !near(got, want, 1e-12) {
+			t.Errorf("λ=%g: curvature %.15g, closed form %.15g", l, got, want)
+		}
+		p, _ := m.StabilityAt([4]float64{l, 0, 0, l}, 36)
+		if unstable := !(p.MinModuloRotation > 0); unstable != (math.Pow(l, 6) > 3) {
+			t.Errorf("λ=%g: smallest eigenvalue modulo rotation %g", l, p.MinModuloRotation)
+		}
+	}
+}
+
+// The parameter sets of Holzapfel, Gasser & Ogden 2000 (media: c = 3 kPa,
+// k1 = 2.3632 kPa, k2 = 0.8393, β = 29°; adventitia: c = 0.3 kPa,
+// k1 = 0.562 kPa, k2 = 0.7112, β = 62°; values from memory) are stable and
+// strongly elliptic on the default grid; a card dominated by the raw I5
+// term (not polyconvex) is not.
+func TestStabilityHGOAndI5(t *testing.T) {
+	adv := &Model{Families: []Family{{Angle: 62 * deg}, {Angle: -62 * deg}}, Terms: []Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 0.15},
+		{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 0.562, Params: []float64{0.7112}},
+		{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 0.562, Params: []float64{0.7112}},
+	}}
+	for name, m := range map[string]*Model{"media": hgoMedia(), "adventitia": adv} {
+		rep, err := m.CheckStability(DefaultStabilityGrid())
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !rep.Stable() || rep.NotEvaluable != 0 || rep.Points != 19*19*9 {
+			t.Errorf("%s: %+v", name, rep)
+		}
+		if mx, tol, _ := m.ReferenceStress(); mx > tol {
+			t.Errorf("%s: reference stress %g", name, mx)
+		}
+	}
+	bad := &Model{Families: []Family{{Angle: 30 * deg}}, Terms: []Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 0.5},
+		{Shape: terms.Lookup("i5-quad"), Family: 0, Weight: 10},
+	}}
+	rep, err := bad.CheckStability(DefaultStabilityGrid())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Stable() || rep.UnstablePoints == 0 || rep.NonEllipticPoints == 0 {
+		t.Fatalf("I5 card passed: %+v", rep)
+	}
+	// The reported worst point really is unstable: an increment lowering
+	// the energy's second variation exists there (checked by finite
+	// differences of the energy along the worst rank-one direction a⊗b).
+	p := rep.WorstEllipticity
+	a, b := p.EllipticityA, p.EllipticityB
+	d := [4]float64{a[0] * b[0], a[0] * b[1], a[1] * b[0], a[1] * b[1]}
+	W := func(s float64) float64 {
+		G := p.F
+		for i := range G {
+			G[i] += s * d[i]
+		}
+		r, err := bad.Evaluate(G)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r.Energy
+	}
+	const h = 1e-4
+	if q := (W(h) - 2*W(0) + W(-h)) / (h * h); !(q < 0) || !near(q, p.MinEllipticity, 1e-4) {
+		t.Errorf("worst ellipticity %g at %v, second difference of W along a⊗b %g", p.MinEllipticity, p.F, q)
+	}
+}
+
+// BenchmarkCheckStability times a full default scan (3249 points, 180
+// ellipticity directions each) of the Holzapfel, Gasser & Ogden 2000 media
+// set.
+func BenchmarkCheckStability(b *testing.B) {
+	m := hgoMedia()
+	g := DefaultStabilityGrid()
+	for b.Loop() {
+		if _, err := m.CheckStability(g); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// Polyconvexity of the three-dimensional energy does not carry over to the
+// plane-stress membrane energy W(F2) = Ψ(F2, 1/det F2): along a rank-one
+// path F2 + t a⊗b the eliminated F33 = 1/det is not affine in t, so cof F
+// is not either. A card of polyconvex terms only — a cofactor-fibre term
+// (Schröder & Neff 2003) dominating a soft matrix — loses strong
+// ellipticity in a compressed state. The loss is confirmed independently
+// of the tangent by the second difference of the energy along a⊗b.
+func TestPlaneStressReductionCanLoseEllipticity(t *testing.T) {
+	m := &Model{Families: []Family{{Angle: 30 * deg}}, Terms: []Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 0.01},
+		{Shape: terms.Lookup("cof-quad"), Family: 0, Weight: 100},
+	}}
+	F := [4]float64{0.7, -0.3, 0, 0.7}
+	p, err := m.StabilityAt(F, 180)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := p.EllipticityA, p.EllipticityB
+	d := [4]float64{a[0] * b[0], a[0] * b[1], a[1] * b[0], a[1] * b[1]}
+	W := func(s float64) float64 {
+		G := F
+		for i := range G {
+			G[i] += s * d[i]
+		}
+		r, err := m.Evaluate(G)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return r.Energy
+	}
+	const h = 1e-4
+	q := (W(h) - 2*W(0) + W(-h)) / (h * h)
+	if !(p.MinEllipticity < 0) || !(q < 0) || !near(q, p.MinEllipticity, 1e-4) {
+		t.Errorf("min (a⊗b):A:(a⊗b) = %g, second difference of W %g", p.MinEllipticity, q)
+	}
+}

@@ -1,0 +1,397 @@
+package card
+
+import (
+	"bytes"
+	"encoding/json"
+	"flag"
+	"math"
+	"os"
+	"strings"
+	"testing"
+
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
+)
+
+var update = flag.Bool("update", false, "rewrite model.schema.json from the catalogue")
+
+// kv is an ordered JSON object, so that the schema file reads in a
+// sensible order and is byte-for-byte reproducible.
+type kv struct {
+	k string
+	v any
+}
+type obj []kv
+
+func (o obj) MarshalJSON() ([]byte, error) {
+	var b bytes.Buffer
+	b.WriteByte('{')
+	for i, e := range o {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		kb, _ := marshalPlain(e.k)
+		b.Write(kb)
+		b.WriteByte(':')
+		vb, err := marshalPlain(e.v)
+		if err != nil {
+			return nil, err
+		}
+		b.Write(vb)
+	}
+	b.WriteByte('}')
+	return b.Bytes(), nil
+}
+
+// marshalPlain is json.Marshal without escaping &, < and >.
+func marshalPlain(v any) ([]byte, error) {
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return bytes.TrimSuffix(b.Bytes(), []byte("\n")), nil
+}
+
+// buildSchema writes the model-card schema from the catalogue.
+func buildSchema() []byte {
+	num := func(desc string) obj { return obj{{"type", "number"}, {"description", desc}} }
+	str := func(desc string) obj { return obj{{"type", "string"}, {"description", desc}} }
+	pair := func(desc string, min any) obj {
+		items := obj{{"type", "number"}}
+		if min != nil {
+			items = append(items, kv{"exclusiveMinimum", min})
+		}
+		return obj{{"type", "array"}, {"description", desc}, {"items", items}, {"minItems", 2}, {"maxItems", 2}}
+	}
+	var ids []string
+	var perTerm []any
+	for _, sh := range terms.Catalogue() {
+		ids = append(ids, sh.ID)
+		var then obj
+		props := obj{}
+		var req []string
+		for _, p := range sh.Params {
+			props = append(props, kv{p.Name, obj{{"type", "number"}, {"minimum", p.Min}, {"maximum", p.Max},
+				{"description", p.Doc + "; default " + trimFloat(p.Default)}}})
+			req = append(req, p.Name)
+		}
+		if len(req) > 0 {
+			then = append(then, kv{"required", []string{"params"}})
+			then = append(then, kv{"properties", obj{
+				{"params", obj{{"properties", props}, {"required", req}, {"additionalProperties", false}}},
+				familyRule(sh),
+			}})
+		} else {
+			then = append(then, kv{"properties", obj{
+				{"params", obj{{"maxProperties", 0}}},
+				familyRule(sh),
+			}})
+		}
+		if sh.Arg.NeedsFamily() {
+			then = append(then, kv{"required", append(requiredOf(then), "family")})
+			then = dedupRequired(then)
+		}
+		perTerm = append(perTerm, obj{
+			{"if", obj{{"properties", obj{{"id", obj{{"const", sh.ID}}}}}, {"required", []string{"id"}}}},
+			{"then", then},
+		})
+	}
+	units := StressUnits
+	family := obj{
+		{"type", "object"},
+		{"description", "a fibre family: reference direction a0 = (cos α, sin α, 0)"},
+		{"required", []string{"name", "angle_deg"}},
+		{"properties", obj{
+			{"name", obj{{"type", "string"}, {"minLength", 1}, {"description", "unique name that terms refer to, e.g. \"f1\""}}},
+			{"angle_deg", num("fibre angle α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180")},
+			{"angle_sign_known", obj{{"type", "boolean"}, {"description", "false when the data could not tell +α from −α"}}},
+			{"dispersion", obj{{"type", "number"}, {"minimum", 0}, {"maximum", 0.33333333333333334},
+				{"description", "dispersion κ ∈ [0, 1/3] (Gasser, Ogden & Holzapfel 2006), dimensionless; absent means 0"}}},
+		}},
+	}
+	term := obj{
+		{"type", "object"},
+		{"description", "one energy term weight × f(x); f and its argument x are given by id (see 'weft terms')"},
+		{"required", []string{"id", "weight"}},
+		{"properties", obj{
+			{"id", obj{{"enum", ids}, {"description", "catalogue shape id"}}},
+			{"weight", obj{{"type", "number"}, {"minimum", 0}, {"description", "weight w ≥ 0 in the card's stress_unit (also stated by weight_unit)"}}},
+			{"weight_unit", obj{{"enum", units}, {"description", "unit of weight; must equal stress_unit"}}},
+			{"params", obj{{"type", "object"}, {"additionalProperties", obj{{"type", "number"}}},
+				{"description", "the shape's non-linear parameters by name, dimensionless; every parameter of the shape is required"}}},
+			{"family", str("name of the fibre family of a fibre (fib-*), cofactor (cof-*) or I5 (i5-*) term; empty or absent for isotropic terms")},
+			{"formula", str("the term written out; informational, ignored on read")},
+		}},
+		{"allOf", perTerm},
+	}
+	layout := obj{
+		{"type", "object"},
+		{"description", "how the families were parameterised in a fit"},
+		{"required", []string{"kind"}},
+		{"properties", obj{
+			{"kind", obj{{"enum", []string{"single", "mirror", "free"}}}},
+			{"mean_deg", num("mean direction θ of a mirror pair, degrees from axis 1 towards axis 2")},
+			{"half_angle_deg", num("half angle β of a mirror pair θ ± β, degrees")},
+		}},
+	}
+	dataRange := obj{
+		{"type", "object"},
+		{"description", "span of the data a fitted model was fitted to; queries outside it extrapolate"},
+		{"required", []string{"stretch_1", "stretch_2", "shear"}},
+		{"properties", obj{
+			{"stretch_1", pair("[min, max] of F11 over the fitted points, dimensionless", 0)},
+			{"stretch_2", pair("[min, max] of F22 over the fitted points, dimensionless", 0)},
+			{"shear", pair("[min, max] of F12 and F21 together, dimensionless (zero for pure biaxial data)", nil)},
+			{"fibre_stretch", obj{{"type", "array"}, {"items", pair("[min, max] of the fibre stretch √I4, dimensionless", 0)},
+				{"description", "per family, in the order of families"}}},
+			{"stress_kind", obj{{"enum", []string{"cauchy", "nominal"}}, {"description", "the stress measure the fit used"}}},
+		}},
+	}
+	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}
+	s := obj{
+		{"$schema", "https://json-schema.org/draft/2020-12/schema"},
+		{"$id", SchemaID},
+		{"title", "weft model card (" + Format + ")"},
+		{"description", "A strain energy Psi = sum_k weight_k f_k(x_k) of a fibre-reinforced incompressible membrane in plane stress, " +
+			"its fibre families and, in fitted cards, the evidence. Stresses and weights are in stress_unit; angles in degrees " +
+			"(keys ending in _deg); every other number is dimensionless. Keys not described here (fit results such as fit, verdict, " +
+			"selection, split) are allowed; readers ignore keys they do not know. Parameters are research-grade and specimen-specific, " +
+			"valid only within the tested range, and not for clinical decisions."},
+		{"type", "object"},
+		{"required", []string{"format", "stress_unit", "terms"}},
+		{"properties", obj{
+			{"format", obj{{"const", Format}, {"description", "card format and its version"}}},
+			{"specimen", str("free text naming the specimen")},
+			{"stress_unit", obj{{"enum", units}, {"description", "unit of every stress and every weight in the card"}}},
+			{"energy", str("the energy with its numbers, plain text")},
+			{"energy_latex", str("the energy with its numbers, LaTeX")},
+			{"conventions", conv},
+			{"cautions", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}}},
+			{"families", obj{{"type", []string{"array", "null"}}, {"items", family}, {"description", "fibre families; null or absent means none"}}},
+			{"layout", layout},
+			{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
+			{"data_range", dataRange},
+		}},
+		{"additionalProperties", true},
+	}
+	b, err := marshalPlain(s)
+	if err != nil {
+		panic(err)
+	}
+	var out bytes.Buffer
+	json.Indent(&out, b, "", "  ")
+	out.WriteByte('\n')
+	return out.Bytes()
+}
+
+func familyRule(sh *terms.Shape) kv {
+	if sh.Arg.NeedsFamily() {
+		return kv{"family", obj{{"type", "string"}, {"minLength", 1}}}
+	}
+	return kv{"family", obj{{"const", ""}}}
+}
+
+func requiredOf(o obj) []string {
+	for _, e := range o {
+		if e.k == "required" {
+			return e.v.([]string)
+		}
+	}
+	return nil
+}
+
+// dedupRequired keeps the last "required" entry of o.
+func dedupRequired(o obj) obj {
+	last := -1
+	for i, e := range o {
+		if e.k == "required" {
+			last = i
+		}
+	}
+	var out obj
+	for i, e := range o {
+		if e.k != "required" || i == last {
+			out = append(out, e)
+		}
+	}
+	return out
+}
+
+func trimFloat(v float64) string {
+	b, _ := json.Marshal(v)
+	return string(b)
+}
+
+// The embedded schema is the one the catalogue gives.
+func TestSchemaFileUpToDate(t *testing.T) {
+	want := buildSchema()
+	if *update {
+		if err := os.WriteFile("model.schema.json", want, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	if !bytes.Equal(Schema(), want) {
+		t.Fatal("model.schema.json is out of date with the catalogue; run go test ./aniso/card -run TestSchemaFile -update")
+	}
+}
+
+// compileSchema compiles the embedded schema with a general-purpose JSON
+// Schema library, which also checks it against the draft 2020-12
+// meta-schema.
+func compileSchema(t *testing.T) *jsonschema.Schema {
+	t.Helper()
+	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(Schema()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := jsonschema.NewCompiler()
+	if err := c.AddResource(SchemaID, doc); err != nil {
+		t.Fatal(err)
+	}
+	s, err := c.Compile(SchemaID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+func validate(t *testing.T, s *jsonschema.Schema, b []byte) error {
+	t.Helper()
+	inst, err := jsonschema.UnmarshalJSON(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s.Validate(inst)
+}
+
+func presetModel(t *testing.T, p *terms.Preset) *aniso.Model {
+	m := &aniso.Model{}
+	for i := 0; i < p.Families; i++ {
+		m.Families = append(m.Families, aniso.Family{Name: "", Angle: p.AnglesDeg[i] * math.Pi / 180, Dispersion: p.Kappa})
+	}
+	for _, pt := range p.Terms {
+		sh := terms.Lookup(pt.ID)
+		params := pt.Params
+		if params == nil {
+			params = sh.DefaultParams()
+		}
+		m.Terms = append(m.Terms, aniso.Term{Shape: sh, Family: pt.Family - 1, Weight: pt.Weight, Params: params})
+	}
+	if err := m.Validate(); err != nil {
+		t.Fatal(err)
+	}
+	return m
+}
+
+// Cards weft writes validate against the schema (checked with
+// github.com/santhosh-tekuri/jsonschema, a general-purpose validator):
+// every preset, a model with every catalogue term, with and without a
+// data_range section and other fit sections, and the hand-written cards
+// of the README and testdata.
+func TestCardsValidateAgainstSchema(t *testing.T) {
+	s := compileSchema(t)
+	models := map[string]*aniso.Model{"sample": sampleModel()}
+	for _, p := range terms.Presets() {
+		models["preset "+p.Name] = presetModel(t, p)
+	}
+	all := &aniso.Model{Families: []aniso.Family{{Name: "a", Angle: 0.3, Dispersion: aniso.MaxDispersion}, {Name: "b", Angle: -1.2}}}
+	for i, sh := range terms.Catalogue() {
+		tm := aniso.Term{Shape: sh, Family: -1, Weight: float64(i), Params: sh.DefaultParams()}
+		if sh.Arg.NeedsFamily() {
+			tm.Family = i % 2
+		}
+		all.Terms = append(all.Terms, tm)
+	}
+	models["every term"] = all
+	n := 0
+	for name, m := range models {
+		for _, withRange := range []bool{false, true} {
+			c := FromModel(m, "kPa", nil)
+			if withRange {
+				dr := DataRange{Stretch1: [2]float64{0.98, 1.31}, Stretch2: [2]float64{1, 1.22}, Shear: [2]float64{-0.02, 0.03}, StressKind: "cauchy"}
+				for range m.Families {
+					dr.FibreStretch = append(dr.FibreStretch, [2]float64{1, 1.2})
+				}
+				c.SetExtra("data_range", dr)
+				c.SetExtra("fit", map[string]any{"rmse": 1.2, "anything": []int{1, 2}})
+			}
+			b, err := c.Marshal()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := validate(t, s, b); err != nil {
+				t.Errorf("%s (data_range %v): weft's own card fails the schema: %v\n%s", name, withRange, err, b)
+			}
+			if _, _, err := Parse(bytes.NewReader(b), name); err != nil {
+				t.Errorf("%s: %v", name, err)
+			}
+			n++
+		}
+	}
+	if n < 2*8 {
+		t.Fatalf("only %d cards validated", n)
+	}
+	for _, f := range []string{"../../testdata/example/hgo-media.json"} {
+		b, err := os.ReadFile(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := validate(t, s, b); err != nil {
+			t.Errorf("%s: %v", f, err)
+		}
+	}
+	hand := `{"format": "weft.model/1", "stress_unit": "kPa", "families": [], "terms": [{"id": "i1-lin", "weight": 5}]}`
+	if err := validate(t, s, []byte(hand)); err != nil {
+		t.Errorf("hand-written neo-Hookean card: %v", err)
+	}
+}
+
+// Invalid cards are rejected by the schema, and by weft's reader too, so
+// the two agree on these rules.
+func TestSchemaRejectsInvalidCards(t *testing.T) {
+	s := compileSchema(t)
+	good := `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":30}],
+	 "terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]}`
+	if err := validate(t, s, []byte(good)); err != nil {
+		t.Fatalf("good card rejected: %v", err)
+	}
+	if _, _, err := Parse(strings.NewReader(good), "good"); err != nil {
+		t.Fatal(err)
+	}
+	bad := map[string][2]string{
+		"negative weight":       {`"weight":1}`, `"weight":-1}`},
+		"unknown format":        {`"weft.model/1"`, `"weft.model/9"`},
+		"unknown unit":          {`"stress_unit":"kPa"`, `"stress_unit":"psi"`},
+		"unknown term":          {`"id":"i1-lin"`, `"id":"i1-linear"`},
+		"rate out of bounds":    {`"rate":1`, `"rate":1001`},
+		"missing rate":          {`"params":{"rate":1},`, ``},
+		"extra parameter":       {`"rate":1`, `"rate":1,"limit":2`},
+		"fibre without family":  {`,"family":"f1"`, ``},
+		"isotropic with family": {`{"id":"i1-lin","weight":1}`, `{"id":"i1-lin","weight":1,"family":"f1"}`},
+		"dispersion above 1/3":  {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
+		"no terms":              {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]`, `"terms":[]`},
+		"angle not a number":    {`"angle_deg":30`, `"angle_deg":"30"`},
+	}
+	for name, r := range bad {
+		card := strings.Replace(good, r[0], r[1], 1)
+		if card == good {
+			t.Fatalf("%s: replacement did not apply", name)
+		}
+		if err := validate(t, s, []byte(card)); err == nil {
+			t.Errorf("%s: the schema accepts %s", name, card)
+		}
+		if _, _, err := Parse(strings.NewReader(card), name); err == nil {
+			t.Errorf("%s: weft's reader accepts %s", name, card)
+		}
+	}
+	// A data_range section must have the right shape.
+	withRange := strings.TrimSuffix(strings.TrimSpace(good), "}") + `,"data_range":{"stretch_1":[1,1.2],"stretch_2":[1],"shear":[0,0]}}`
+	if err := validate(t, s, []byte(withRange)); err == nil {
+		t.Error("schema accepts a data_range with a one-number stretch_2")
+	}
+}

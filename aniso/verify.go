@@ -1,0 +1,405 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+)
+
+// LoadCase is a homogeneous in-plane loading of a verification table. Each
+// is defined in a load frame whose axis 1 is the load direction; the
+// deformation gradient in the specimen's axes is F = R(θ)·F_local·R(θ)ᵀ,
+// R(θ) the rotation by the load direction θ from axis 1 towards axis 2.
+type LoadCase int
+
+const (
+	// Uniaxial is tension along the load direction with the lateral edges
+	// free: F_local = diag(λ, λt), with the lateral stretch λt solved so that
+	// the Cauchy normal stress across the lateral edges, in the load frame,
+	// is zero. The load-frame shear stress is not imposed; an anisotropic
+	// material at an oblique angle needs one (the grips supply it).
+	Uniaxial LoadCase = iota
+	// Equibiaxial is F = diag(λ, λ); it is the same in every direction.
+	Equibiaxial
+	// StripBiaxial is F_local = diag(λ, 1): stretch along the load
+	// direction with the lateral stretch held at 1.
+	StripBiaxial
+	// SimpleShear is F_local = [[1, γ], [0, 1]]: material lines along the
+	// load direction slide by γ per unit distance across it.
+	SimpleShear
+)
+
+// LoadCases lists every load case in table order.
+var LoadCases = []LoadCase{Uniaxial, Equibiaxial, StripBiaxial, SimpleShear}
+
+// String returns the case's name as written in tables: "uniaxial",
+// "equibiaxial", "strip-biaxial" or "simple-shear".
+func (c LoadCase) String() string {
+	switch c {
+	case Uniaxial:
+		return "uniaxial"
+	case Equibiaxial:
+		return "equibiaxial"
+	case StripBiaxial:
+		return "strip-biaxial"
+	case SimpleShear:
+		return "simple-shear"
+	}
+	return fmt.Sprintf("LoadCase(%d)", int(c))
+}
+
+// Kinematics says in words how the case's F is built.
+func (c LoadCase) Kinematics() string {
+	switch c {
+	case Uniaxial:
+		return "F_local = diag(λ, λt), λt solved for zero lateral Cauchy stress"
+	case Equibiaxial:
+		return "F = diag(λ, λ), the same in every direction"
+	case StripBiaxial:
+		return "F_local = diag(λ, 1)"
+	case SimpleShear:
+		return "F_local = [[1, γ], [0, 1]]"
+	}
+	return ""
+}
+
+// ZeroByConstruction names the stress components the case makes zero
+// (besides σ33 = 0, plane stress, in every case), or "" when none is.
+func (c LoadCase) ZeroByConstruction() string {
+	if c == Uniaxial {
+		return "the load-frame lateral Cauchy stress σ_tt = t·σt (t the in-plane unit vector across the load direction) is zero to round-off"
+	}
+	return ""
+}
+
+// LoadGradient returns F = R(θ)·F_local·R(θ)ᵀ as (F11, F12, F21, F22) for a
+// case with load direction theta (radians), amount λ (stretch) or γ (shear)
+// and, for Uniaxial, the lateral stretch lateral (ignored otherwise).
+func LoadGradient(c LoadCase, theta, amount, lateral float64) [4]float64 {
+	var l [4]float64 // F_local as (11, 12, 21, 22)
+	switch c {
+	case Uniaxial:
+		l = [4]float64{amount, 0, 0, lateral}
+	case Equibiaxial:
+		return [4]float64{amount, 0, 0, amount}
+	case StripBiaxial:
+		l = [4]float64{amount, 0, 0, 1}
+	case SimpleShear:
+		l = [4]float64{1, amount, 0, 1}
+	}
+	return rotateF(l, theta)
+}
+
+// rotateF returns R(θ)·L·R(θ)ᵀ with R = [[c, −s], [s, c]].
+func rotateF(L [4]float64, theta float64) [4]float64 {
+	if theta == 0 {
+		return L
+	}
+	s, c := sincosSnap(theta)
+	// M = R L
+	m11, m12 := c*L[0]-s*L[2], c*L[1]-s*L[3]
+	m21, m22 := s*L[0]+c*L[2], s*L[1]+c*L[3]
+	// M Rᵀ, Rᵀ = [[c, s], [−s, c]]
+	return [4]float64{m11*c - m12*s, m11*s + m12*c, m21*c - m22*s, m21*s + m22*c}
+}
+
+// sincosSnap is math.Sincos with results within 1e-15 of 0 set to 0 (and
+// the other to ±1), so that directions at multiples of 90° given in
+// radians rotate exactly.
+func sincosSnap(theta float64) (s, c float64) {
+	s, c = math.Sincos(theta)
+	if math.Abs(s) < 1e-15 {
+		s, c = 0, math.Copysign(1, c)
+	} else if math.Abs(c) < 1e-15 {
+		s, c = math.Copysign(1, s), 0
+	}
+	return s, c
+}
+
+// loadFrame returns σ in the load frame, Rᵀσ R, as (nn, tt, nt).
+func loadFrame(sig Sym, theta float64) Sym {
+	s, c := sincosSnap(theta)
+	n := [2]float64{c, s}
+	t := [2]float64{-s, c}
+	q := func(a, b [2]float64) float64 {
+		return a[0]*(sig[0]*b[0]+sig[2]*b[1]) + a[1]*(sig[2]*b[0]+sig[1]*b[1])
+	}
+	return Sym{q(n, n), q(t, t), q(n, t)}
+}
+
+// SolveUniaxial returns the free lateral stretch λt of uniaxial tension at
+// stretch lambda along direction theta (radians): the root of the
+// load-frame lateral Cauchy stress σ_tt(λt) = 0. It brackets the root and
+// runs Newton's method with the analytic tangent, falling back to bisection
+// whenever a Newton step leaves the bracket, until the bracket is a few
+// ulps wide or σ_tt is exactly zero.
+func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
+	if !(lambda > 0) || math.IsInf(lambda, 0) {
+		return 0, fmt.Errorf("uniaxial stretch %g must be a finite number > 0", lambda)
+	}
+	st, ct := sincosSnap(theta)
+	tv := [2]float64{-st, ct}
+	// g returns σ_tt and dσ_tt/dλt; ok is false where the model cannot be
+	// evaluated (overflow).
+	g := func(mu float64) (val, slope float64, ok bool) {
+		F := LoadGradient(Uniaxial, theta, lambda, mu)
+		tg, err := m.Tangent(F)
+		if err != nil {
+			return 0, 0, false
+		}
+		// σ = P Fᵀ (J = 1); P and F in (11, 12, 21, 22).
+		P, A := tg.P, tg.A
+		sig := func(P, F [4]float64) Sym {
+			return Sym{P[0]*F[0] + P[1]*F[1], P[2]*F[2] + P[3]*F[3], P[0]*F[2] + P[1]*F[3]}
+		}
+		val = loadFrame(sig(P, F), theta)[1]
+		// dF/dλt = t⊗t; dσ = dP Fᵀ + P dFᵀ with dP = A : dF.
+		dF := [4]float64{tv[0] * tv[0], tv[0] * tv[1], tv[1] * tv[0], tv[1] * tv[1]}
+		var dP [4]float64
+		for i := range dP {
+			for j := range dF {
+				dP[i] += A[i][j] * dF[j]
+			}
+		}
+		d1, d2 := sig(dP, F), sig(P, dF)
+		ds := Sym{d1[0] + d2[0], d1[1] + d2[1], d1[2] + d2[2]}
+		// The 12 entry of dP Fᵀ + P dFᵀ is not symmetric in general; only
+		// its tt projection is used, which is.
+		ds12 := 0.5 * ((dP[0]*F[2] + dP[1]*F[3] + P[0]*dF[2] + P[1]*dF[3]) + (dP[2]*F[0] + dP[3]*F[1] + P[2]*dF[0] + P[3]*dF[1]))
+		ds[2] = ds12
+		slope = loadFrame(ds, theta)[1]
+		return val, slope, !math.IsNaN(val) && !math.IsInf(val, 0)
+	}
+	mu0 := 1 / math.Sqrt(lambda)
+	v0, _, ok := g(mu0)
+	if !ok {
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated (overflow)", lambda, theta*180/math.Pi)
+	}
+	if v0 == 0 {
+		return mu0, nil
+	}
+	// Bracket the root: σ_tt grows with λt for a stable material. Steps
+	// grow geometrically from 1 %; a step into a region where the energy
+	// is not finite (beyond a limiting extensibility) is halved instead,
+	// since the lateral stress diverges before such a limit.
+	lo, hi := mu0, mu0
+	dir := -1.0 // search downwards when σ_tt(μ0) > 0
+	if v0 < 0 {
+		dir = 1
+	}
+	step, last := 0.01, mu0
+	found := false
+	for i := 0; i < 400 && step > 1e-15; i++ {
+		cand := last * math.Exp(dir*step)
+		v, _, ok := g(cand)
+		if !ok {
+			step /= 2
+			continue
+		}
+		if v == 0 {
+			return cand, nil
+		}
+		if (v < 0) == (dir < 0) {
+			if dir < 0 {
+				lo, hi = cand, last
+			} else {
+				lo, hi = last, cand
+			}
+			found = true
+			break
+		}
+		last = cand
+		step = math.Min(2*step, 0.5)
+	}
+	if !found {
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress where the energy is finite", lambda, theta*180/math.Pi)
+	}
+	mu := 0.5 * (lo + hi)
+	for iter := 0; iter < 200; iter++ {
+		v, d, ok := g(mu)
+		if !ok {
+			return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated at lateral stretch %g", lambda, theta*180/math.Pi, mu)
+		}
+		if v == 0 {
+			return mu, nil
+		}
+		if v < 0 {
+			lo = mu
+		} else {
+			hi = mu
+		}
+		if hi-lo <= 4*(math.Nextafter(hi, math.Inf(1))-hi) { // four ulps
+			break
+		}
+		next := mu - v/d
+		if !(d > 0) || !(next > lo && next < hi) {
+			next = 0.5 * (lo + hi)
+		}
+		if next == mu {
+			break
+		}
+		mu = next
+	}
+	return mu, nil
+}
+
+// VerificationSettings chooses the points of a verification table.
+type VerificationSettings struct {
+	// Cases are the load cases, in table order; default LoadCases.
+	Cases []LoadCase
+	// Stretches are the stretches λ of the uniaxial, equibiaxial and
+	// strip-biaxial cases; default 1.05 to 1.30 in steps of 0.05.
+	Stretches []float64
+	// Shears are the amounts of shear γ of the simple-shear case; default
+	// 0.05 to 0.30 in steps of 0.05.
+	Shears []float64
+	// DirectionsDeg are the load directions θ in degrees from axis 1
+	// towards axis 2; default axis 1 (0), axis 2 (90) and each fibre
+	// family's angle, without repeats. Equibiaxial is listed once, at 0.
+	DirectionsDeg []float64
+}
+
+// DefaultVerificationSettings returns the default table for m.
+func DefaultVerificationSettings(m *Model) VerificationSettings {
+	s := VerificationSettings{Cases: LoadCases}
+	for i := 1; i <= 6; i++ {
+		s.Stretches = append(s.Stretches, float64(100+5*i)/100)
+		s.Shears = append(s.Shears, float64(5*i)/100)
+	}
+	dirs := []float64{0, 90}
+	for _, f := range m.Families {
+		dirs = append(dirs, reportDeg(f.Angle*180/math.Pi))
+	}
+	s.DirectionsDeg = uniqueDirections(dirs)
+	return s
+}
+
+// reportDeg maps an angle in degrees into (−90, 90].
+func reportDeg(a float64) float64 {
+	a = math.Mod(a, 180)
+	if a > 90 {
+		a -= 180
+	} else if a <= -90 {
+		a += 180
+	}
+	return a
+}
+
+// uniqueDirections drops directions equal modulo 180° (within 1e-9°) to an
+// earlier one, keeping the order.
+func uniqueDirections(dirs []float64) []float64 {
+	var out []float64
+	for _, d := range dirs {
+		dup := false
+		for _, e := range out {
+			if math.Abs(reportDeg(d-e)) < 1e-9 {
+				dup = true
+				break
+			}
+		}
+		if !dup {
+			out = append(out, d)
+		}
+	}
+	return out
+}
+
+// VerificationPoint is one row of a verification table.
+type VerificationPoint struct {
+	// Case is the load case.
+	Case LoadCase
+	// DirectionDeg is the load direction θ in degrees from axis 1 towards
+	// axis 2.
+	DirectionDeg float64
+	// Amount is the stretch λ or, for SimpleShear, the shear γ
+	// (dimensionless).
+	Amount float64
+	// LateralStretch is the stretch across the load direction: solved for
+	// Uniaxial, λ for Equibiaxial, 1 for StripBiaxial and SimpleShear.
+	LateralStretch float64
+	// F is the in-plane deformation gradient (F11, F12, F21, F22) in the
+	// specimen's axes.
+	F [4]float64
+	// Cauchy is (σ11, σ22, σ12) in the specimen's axes, stress unit.
+	Cauchy Sym
+	// Nominal is (P11, P22, P12, P21), P = σ F⁻ᵀ, stress unit.
+	Nominal [4]float64
+	// LoadFrame is the Cauchy stress in the load frame as (nn, tt, nt), n the
+	// load direction and t across it; for Uniaxial tt is zero.
+	LoadFrame Sym
+	// Err says why the point could not be evaluated (the energy is not
+	// finite there, or no lateral stretch frees the lateral edges); the
+	// stresses are then zero and must not be used. Empty for a good point.
+	Err string
+}
+
+// VerificationCases evaluates m on every point of the table s describes,
+// in the order case, direction, amount. Settings left empty take the
+// defaults of DefaultVerificationSettings. A point the model cannot be
+// evaluated at is returned with Err set; the error is for settings that
+// cannot be used (a stretch ≤ 0 or not finite).
+func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, error) {
+	if err := m.Validate(); err != nil {
+		return nil, err
+	}
+	def := DefaultVerificationSettings(m)
+	if len(s.Cases) == 0 {
+		s.Cases = def.Cases
+	}
+	if len(s.Stretches) == 0 {
+		s.Stretches = def.Stretches
+	}
+	if len(s.Shears) == 0 {
+		s.Shears = def.Shears
+	}
+	if len(s.DirectionsDeg) == 0 {
+		s.DirectionsDeg = def.DirectionsDeg
+	}
+	var out []VerificationPoint
+	for _, c := range s.Cases {
+		dirs := s.DirectionsDeg
+		amounts := s.Stretches
+		if c == Equibiaxial {
+			dirs = []float64{0}
+		}
+		if c == SimpleShear {
+			amounts = s.Shears
+		}
+		for _, d := range dirs {
+			if math.IsNaN(d) || math.IsInf(d, 0) {
+				return nil, fmt.Errorf("direction %g is not a finite number", d)
+			}
+			theta := d * math.Pi / 180
+			for _, a := range amounts {
+				if math.IsNaN(a) || math.IsInf(a, 0) || (c != SimpleShear && !(a > 0)) {
+					return nil, fmt.Errorf("%s: amount %g must be a finite number (> 0 for a stretch)", c, a)
+				}
+				p := VerificationPoint{Case: c, DirectionDeg: d, Amount: a}
+				switch c {
+				case Uniaxial:
+					mu, err := SolveUniaxial(m, theta, a)
+					if err != nil {
+						p.Err = err.Error()
+						out = append(out, p)
+						continue
+					}
+					p.LateralStretch = mu
+				case Equibiaxial:
+					p.LateralStretch = a
+				default:
+					p.LateralStretch = 1
+				}
+				p.F = LoadGradient(c, theta, a, p.LateralStretch)
+				r, err := m.Evaluate(p.F)
+				if err != nil {
+					p.Err = fmt.Sprintf("%s at %g° and %g: %v", c, d, a, err)
+					out = append(out, p)
+					continue
+				}
+				p.Cauchy, p.Nominal = r.Cauchy, r.Nominal
+				p.LoadFrame = loadFrame(r.Cauchy, theta)
+				out = append(out, p)
+			}
+		}
+	}
+	return out, nil
+}

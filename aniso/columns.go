@@ -30,8 +30,9 @@ type Dataset struct {
 	// b1, b2 are the isotropic stress bases G1, G2 of every row, already in
 	// the output measure and weighted: they do not depend on the model.
 	b1, b2 []float64
-	fb     []famBases        // scratch: one per family
-	fk     []FibreKinematics // scratch: one per family
+	// tmat maps a Cauchy tensor (11, 22, 12) to the weighted output
+	// components of each point: nc×3 entries per point.
+	tmat []float64
 }
 
 // famBases are one family's stress bases G4, G5 and their angle
@@ -65,6 +66,17 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 	}
 	d.rowWeight = rowWeight
 	nc := len(out.Components)
+	d.tmat = make([]float64, len(F)*nc*3)
+	for i := range d.kin {
+		for e := 0; e < 3; e++ {
+			var unit Sym
+			unit[e] = 1
+			v := d.convertSlow(&d.kin[i], unit, i*nc)
+			for j := 0; j < nc; j++ {
+				d.tmat[(i*nc+j)*3+e] = v[j]
+			}
+		}
+	}
 	d.b1 = make([]float64, d.Rows())
 	d.b2 = make([]float64, d.Rows())
 	for i := range d.kin {
@@ -143,11 +155,19 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		c.fb = make([]famBases, np*nf)
 	}
 	fk, fb := c.fk[:np*nf], c.fb[:np*nf]
+	var sc [2][2]float64
+	for f := 0; f < nf && f < 2; f++ {
+		sc[f][0], sc[f][1] = math.Sincos(m.Families[f].Angle)
+	}
 	for i := range d.kin {
 		k := &d.kin[i]
 		for f := 0; f < nf; f++ {
 			q := i*nf + f
-			fk[q] = k.Fibre(m.Families[f].Angle)
+			if f < 2 {
+				fk[q] = k.fibreSC(sc[f][0], sc[f][1])
+			} else {
+				fk[q] = k.Fibre(m.Families[f].Angle)
+			}
 			fb[q].g4 = d.convert(k, fk[q].G4, i*nc)
 			fb[q].g5 = d.convert(k, fk[q].G5, i*nc)
 			if derivs {
@@ -266,9 +286,21 @@ func (c *Columns) clearDerivs(base, n int) {
 	}
 }
 
-// convert returns the requested components of a Cauchy tensor s (as
-// nominal stress if asked), scaled by the row weights from row r0.
-func (d *Dataset) convert(k *Kinematics, s Sym, r0 int) [4]float64 {
+// convert returns the requested components of a finite Cauchy tensor s (as
+// nominal stress if asked), scaled by the row weights from row r0, through
+// the point's precomputed linear map.
+func (d *Dataset) convert(_ *Kinematics, s Sym, r0 int) [4]float64 {
+	var out [4]float64
+	t := d.tmat[r0*3 : (r0+len(d.out.Components))*3]
+	for j := range d.out.Components {
+		out[j] = t[3*j]*s[0] + t[3*j+1]*s[1] + t[3*j+2]*s[2]
+	}
+	return out
+}
+
+// convertSlow is convert from first principles (P = σ F⁻ᵀ, then the row
+// weights); it builds the linear maps.
+func (d *Dataset) convertSlow(k *Kinematics, s Sym, r0 int) [4]float64 {
 	var v, out [4]float64
 	if d.out.Nominal {
 		v = k.Nominal(s)

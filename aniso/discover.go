@@ -258,7 +258,6 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 		layout int
 		st     Structure
 		init   map[string]float64
-		scan   bool
 		res    *Result
 	}
 	var refits []*refit
@@ -269,8 +268,7 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 			jobs = append(jobs, func() {
 				s := fitSet
 				s.Init = rf.init
-				s.Starts = 2
-				s.NoScan = !rf.scan
+				s.NoScan = true
 				rf.res, _ = Fit(p, rf.st, s)
 			})
 		}
@@ -284,18 +282,37 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 			d.Search = append(d.Search, fmt.Sprintf("%s: the full candidate fit failed (%v)", l, fullErr[i]))
 			continue
 		}
-		best, how := searchSubsets(full[i], set.MaxTerms, set.RefitPerSize, set.ExhaustiveLimit)
-		d.Search = append(d.Search, fmt.Sprintf("%s: %s, then forward steps adding one term at a time to the best refitted model of each size", l, how))
-		init := full[i].Params()
-		for _, group := range best {
-			for _, s := range group {
-				st := Structure{Layout: f.Layout, Dispersion: f.Dispersion}
-				for _, k := range s.terms {
-					st.Terms = append(st.Terms, full[i].Structure.Terms[k])
+		// Anchors: the full fit's optimum and its other local minima, so
+		// that one poor optimum of the whole catalogue does not decide which
+		// subsets are tried.
+		anchors := full[i].alternates
+		if len(anchors) > maxAnchors {
+			anchors = anchors[:maxAnchors]
+		}
+		seen := map[string]bool{}
+		var how string
+		for ai, th := range anchors {
+			best, h := searchSubsets(full[i], th, set.MaxTerms, set.RefitPerSize, set.ExhaustiveLimit)
+			if ai == 0 {
+				how = h
+			}
+			init := paramsAt(full[i], th)
+			for _, group := range best {
+				for _, s := range group {
+					key := fmt.Sprint(s.terms)
+					if seen[key] {
+						continue
+					}
+					seen[key] = true
+					st := Structure{Layout: f.Layout, Dispersion: f.Dispersion}
+					for _, k := range s.terms {
+						st.Terms = append(st.Terms, full[i].Structure.Terms[k])
+					}
+					round = append(round, &refit{layout: i, st: st, init: init})
 				}
-				round = append(round, &refit{layout: i, st: st, init: init, scan: true})
 			}
 		}
+		d.Search = append(d.Search, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size the %d terms that reduce the loss most", l, how, len(anchors), forwardBranch))
 	}
 	runRefits(round)
 
@@ -334,10 +351,8 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 			for name, v := range base.Params() {
 				init[name] = v
 			}
-			for _, t := range full[i].Structure.Terms {
-				if hasTerm(bst, t) {
-					continue
-				}
+			for _, j := range rankAdditions(full[i], init, bst, forwardBranch) {
+				t := full[i].Structure.Terms[j]
 				st := Structure{Layout: f.Layout, Dispersion: f.Dispersion, Terms: append(append([]TermSpec(nil), bst.Terms...), t)}
 				round = append(round, &refit{layout: i, st: st, init: init})
 			}
@@ -539,14 +554,98 @@ func layoutSatisfied(r *Result) bool {
 	return true
 }
 
+// maxAnchors is how many local optima of the full candidate fit anchor the
+// subset search; forwardBranch how many single-term additions are refitted
+// per forward step.
+const (
+	maxAnchors    = 3
+	forwardBranch = 5
+)
+
+// paramsAt names a full fit's non-linear parameters at θ.
+func paramsAt(full *Result, theta []float64) map[string]float64 {
+	out := map[string]float64{}
+	for i, q := range full.e.params {
+		out[q.Name] = theta[i]
+	}
+	return out
+}
+
+// rankAdditions returns the indices (into the full structure) of the n
+// terms not in base whose addition to base lowers the non-negative least
+// squares loss most, with the columns evaluated at the named parameters.
+func rankAdditions(full *Result, params map[string]float64, base Structure, n int) []int {
+	e := full.e
+	theta := append([]float64(nil), full.theta...)
+	for i, q := range e.params {
+		if v, ok := params[q.Name]; ok {
+			theta[i] = v
+		}
+	}
+	e.eval(theta, false)
+	var baseIdx []int
+	for g, t := range full.Structure.Terms {
+		if hasTerm(base, t) {
+			baseIdx = append(baseIdx, g)
+		}
+	}
+	yy := 0.0
+	for _, y := range e.p.Target {
+		yy += y * y
+	}
+	type cand struct {
+		g    int
+		loss float64
+	}
+	var cs []cand
+	var q nnls
+	m := len(baseIdx) + 1
+	G := make([]float64, m*m)
+	b := make([]float64, m)
+	for g := range full.Structure.Terms {
+		if containsInt(baseIdx, g) || !e.allowed[g] {
+			continue
+		}
+		set := append(append([]int(nil), baseIdx...), g)
+		ok := true
+		for a, i := range set {
+			if !e.allowed[i] {
+				ok = false
+			}
+			b[a] = e.b[i]
+			for c, j := range set {
+				G[a*m+c] = e.G[i*e.ng+j]
+			}
+		}
+		if !ok {
+			continue
+		}
+		w := q.solve(G, b, m, nil)
+		l := yy
+		for a := 0; a < m; a++ {
+			l -= 2 * w[a] * b[a]
+			for c := 0; c < m; c++ {
+				l += w[a] * G[a*m+c] * w[c]
+			}
+		}
+		cs = append(cs, cand{g, l})
+	}
+	sort.SliceStable(cs, func(a, b int) bool { return cs[a].loss < cs[b].loss })
+	var out []int
+	for i := 0; i < len(cs) && i < n; i++ {
+		out = append(out, cs[i].g)
+	}
+	return out
+}
+
 // searchSubsets finds, for every size k = 1…K, the best `keep` subsets of
 // the full fit's design terms at its angles and shape parameters, using
 // non-negative least squares on the cross products. Subsets must keep a
 // fibre term in every family of the layout, and every weight of a kept
 // subset must be positive (otherwise it is a smaller subset).
-func searchSubsets(full *Result, K, keep, limit int) ([][]subset, string) {
+func searchSubsets(full *Result, theta []float64, K, keep, limit int) ([][]subset, string) {
 	e := full.e
-	e.eval(full.theta, false)
+	e.eval(theta, false)
 	n := e.ng
 	fams := full.Structure.Layout.Families()
 	if full.Structure.Layout == LayoutMirror {

@@ -194,3 +194,51 @@ func TestDiscoverOutsideCatalogue(t *testing.T) {
 		t.Errorf("mean fibre direction %.2f°, true 30°", sum/wsum)
 	}
 }
+
+// Discovery gives the same answer with one worker as with several: the
+// parallel work is merged in a fixed order (determinism).
+func TestDiscoverDeterministicAcrossWorkers(t *testing.T) {
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 38)
+	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20})
+	var first *Discovery
+	for _, w := range []int{1, 2, 3} {
+		p, _ := NewProblem(spec, nil)
+		d, err := Discover(p, DiscoverSettings{Workers: w})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if first == nil {
+			first = d
+			continue
+		}
+		if d.Best().Name != first.Best().Name || d.Best().Result.Loss != first.Best().Result.Loss || len(d.Pareto) != len(first.Pareto) {
+			t.Fatalf("workers %d: %s %.17g, first %s %.17g", w, d.Best().Name, d.Best().Result.Loss, first.Best().Name, first.Best().Result.Loss)
+		}
+		for i := range d.Pareto {
+			if d.Pareto[i].CV.Mean != first.Pareto[i].CV.Mean {
+				t.Fatalf("workers %d: candidate %s CV differs", w, d.Pareto[i].Name)
+			}
+		}
+	}
+}
+
+// BenchmarkDiscover is the full default discovery of a 5-protocol ×
+// 100-point specimen (K = 5; 0, 1 and 2 families; cross-validation) on all
+// cores (target ≤ 2 s wall on a 2-core machine).
+func BenchmarkDiscover(b *testing.B) {
+	truth := &Model{Families: []Family{{Angle: 5 * deg}, {Angle: 80 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-exp"), Family: -1, Weight: 6, Params: []float64{2}},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 40, Params: []float64{5}},
+		{Shape: lookup("fib-exp"), Family: 1, Weight: 15, Params: []float64{6}}}}
+	p := benchProblem(b, truth)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		d, err := Discover(p, DiscoverSettings{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if i == 0 {
+			b.Logf("chosen %s loss %.5g", d.Best().Name, d.Best().Result.Loss)
+		}
+	}
+}

@@ -196,7 +196,9 @@ type AngleProfile struct {
 	// AnglesDeg and Loss are the grid and the profiled loss.
 	AnglesDeg, Loss []float64
 	// OptimumDeg is the fitted value; Threshold the loss level that bounds
-	// the 95 % profile-likelihood interval [LoDeg, HiDeg].
+	// the 95 % profile-likelihood interval [LoDeg, HiDeg]. Angles are modulo
+	// 180°, so an interval may reach beyond ±90° (e.g. [80°, 97°] passes
+	// through 90°); AnglesDeg itself is wrapped into (−90°, 90°].
 	OptimumDeg, Threshold float64
 	LoDeg, HiDeg          float64
 	// Closed is false when the loss stays below the threshold to an end of
@@ -248,6 +250,9 @@ type Result struct {
 
 	e     *engine
 	theta []float64
+	// alternates are the refined θ of the other starts with their losses,
+	// best first (other local minima, used as anchors by discovery).
+	alternates [][]float64
 }
 
 // build makes the model and the parameter list of a structure.
@@ -446,14 +451,26 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	e := newEngine(p, m, groups, famOf, st.Layout, params)
 	best := math.Inf(1)
 	var bestTheta []float64
+	type local struct {
+		theta []float64
+		loss  float64
+	}
+	var locals []local
 	for _, th := range starts {
 		lr := e.minimize(th, nil, set.MaxIterations)
 		res.Iterations += lr.Iterations
 		res.Evaluations += lr.Evals
+		if !math.IsInf(lr.Loss, 1) {
+			locals = append(locals, local{append(make([]float64, 0, len(th)), th...), lr.Loss})
+		}
 		if lr.Loss < best {
 			best = lr.Loss
 			bestTheta = append(make([]float64, 0, len(th)), th...)
 		}
+	}
+	sort.SliceStable(locals, func(a, b int) bool { return locals[a].loss < locals[b].loss })
+	for _, l := range locals {
+		res.alternates = append(res.alternates, l.theta)
 	}
 	if bestTheta == nil || math.IsInf(best, 1) {
 		return nil, errors.New("every starting point overflows: an exponential or limiting term cannot follow these stretches; try a smaller model, a preset without exponential terms, or check the stress unit")

@@ -108,8 +108,14 @@ type FibreKinematics struct {
 
 // Fibre computes the fibre kinematics of a family at angle alpha (radians).
 func (k *Kinematics) Fibre(alpha float64) FibreKinematics {
-	var f FibreKinematics
 	s, c := math.Sincos(alpha)
+	return k.fibreSC(s, c)
+}
+
+// fibreSC is Fibre with sin α and cos α given, so that a loop over many
+// deformations computes them once.
+func (k *Kinematics) fibreSC(s, c float64) FibreKinematics {
+	var f FibreKinematics
 	F := &k.F
 	b := &k.B
 	a := [2]float64{F[0]*c + F[1]*s, F[2]*c + F[3]*s}

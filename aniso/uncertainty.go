@@ -3,6 +3,8 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"sort"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -288,7 +290,9 @@ func (r *Result) metrics(p *Problem) {
 // grid angle the other non-linear parameters are re-optimised, continuing
 // outwards from the optimum. The 95 % profile-likelihood interval is where
 // the profile stays below loss·(1 + F(0.95; 1, n−k)/(n−k)) (Bates & Watts
-// 1988, §6.1; Venzon & Moolgavkar 1988).
+// 1988, §6.1; Venzon & Moolgavkar 1988); its ends are refined by bisection
+// between the grid angles that bracket the threshold. Each angle parameter
+// is profiled on its own engine, in parallel.
 func (r *Result) profiles(p *Problem, set Settings) {
 	e := r.e
 	n, k := r.Rows, r.FreeParams
@@ -296,104 +300,165 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		return
 	}
 	fq := distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
-	step := set.ProfileStepDeg * math.Pi / 180
+	var idx []int
 	for i, q := range e.params {
-		if q.Kind != kindAngle {
-			continue
+		if q.Kind == kindAngle {
+			idx = append(idx, i)
 		}
-		lo, hi := -math.Pi/2, math.Pi/2
-		mirrored := false
-		if !q.Periodic {
-			lo, hi = q.Lo, q.Hi
-		} else if !p.HasShear {
-			lo, mirrored = 0, true
+	}
+	out := make([]AngleProfile, len(idx))
+	var wg sync.WaitGroup
+	for j, i := range idx {
+		wg.Add(1)
+		go func(j, i int) {
+			defer wg.Done()
+			pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
+			out[j] = r.profileOne(pe, p, i, set.ProfileStepDeg*math.Pi/180, fq)
+		}(j, i)
+	}
+	wg.Wait()
+	r.Profiles = append(r.Profiles, out...)
+	// Leave the fit's engine at the optimum.
+	e.eval(r.theta, true)
+}
+
+// profileOne profiles angle parameter i on engine pe.
+func (r *Result) profileOne(pe *engine, p *Problem, i int, step, fq float64) AngleProfile {
+	q := pe.params[i]
+	n, k := r.Rows, r.FreeParams
+	opt := r.theta[i]
+	mirrored := false
+	var lo, hi float64
+	switch {
+	case !q.Periodic:
+		lo, hi = q.Lo, q.Hi
+	case !p.HasShear:
+		// Only |α| matters: profile [0, 90°] and mirror it.
+		opt, mirrored = math.Abs(wrapAngle(opt)), true
+		lo, hi = 0, math.Pi/2
+	default:
+		// A full period centred on the optimum, so that the interval never
+		// meets an artificial end of the range.
+		opt = wrapAngle(opt)
+		lo, hi = opt-math.Pi/2, opt+math.Pi/2
+	}
+	// The grid includes the optimum itself, so that the walk starts there.
+	var grid []float64
+	c := -1
+	for x := lo; x <= hi+1e-12; x += step {
+		if c < 0 && x > opt+1e-9 {
+			c = len(grid)
+			grid = append(grid, opt)
 		}
-		var grid []float64
-		for x := lo; x <= hi+1e-12; x += step {
+		if math.Abs(x-opt) > 1e-9 {
 			grid = append(grid, x)
 		}
-		opt := r.theta[i]
-		if q.Periodic {
-			opt = wrapAngle(opt)
-			if mirrored {
-				opt = math.Abs(opt)
-			}
-		}
-		loss := make([]float64, len(grid))
-		// Start at the grid point nearest the optimum and walk both ways.
-		c := 0
-		for j, x := range grid {
-			if math.Abs(x-opt) < math.Abs(grid[c]-opt) {
-				c = j
-			}
-		}
-		free := make([]bool, len(e.params))
-		for j := range free {
-			free[j] = j != i
-		}
-		for _, dir := range []int{1, -1} {
-			th := append([]float64(nil), r.theta...)
-			for j := c; j >= 0 && j < len(grid); j += dir {
-				if dir == -1 && j == c {
-					continue
-				}
-				th[i] = grid[j]
-				lr := e.minimize(th, free, 40)
-				loss[j] = lr.Loss
-			}
-		}
-		minLoss := r.Loss
-		for _, l := range loss {
-			minLoss = math.Min(minLoss, l)
-		}
-		thr := minLoss * (1 + fq/float64(n-k))
-		pr := AngleProfile{Name: q.Name, Threshold: thr, Mirrored: mirrored, OptimumDeg: opt * 180 / math.Pi, Closed: true}
-		loIdx, hiIdx := c, c
-		for loIdx > 0 && loss[loIdx-1] <= thr {
-			loIdx--
-		}
-		for hiIdx < len(grid)-1 && loss[hiIdx+1] <= thr {
-			hiIdx++
-		}
-		cross := func(a, b int) float64 {
-			// Linear interpolation of the threshold crossing between grid a (below) and b (above).
-			t := (thr - loss[a]) / (loss[b] - loss[a])
-			return (grid[a] + t*(grid[b]-grid[a])) * 180 / math.Pi
-		}
-		// An interval that runs into the end of a periodic range is not
-		// bounded by the data; the bounds of the half-angle and |α| = 0 (no
-		// shear information) are natural ends.
-		if loIdx == 0 {
-			pr.LoDeg = grid[0] * 180 / math.Pi
-			if q.Periodic && !mirrored {
-				pr.Closed = false
-			}
-		} else {
-			pr.LoDeg = cross(loIdx, loIdx-1)
-		}
-		if hiIdx == len(grid)-1 {
-			pr.HiDeg = grid[len(grid)-1] * 180 / math.Pi
-			if q.Periodic {
-				pr.Closed = false
-			}
-		} else {
-			pr.HiDeg = cross(hiIdx, hiIdx+1)
-		}
-		for j, x := range grid {
-			pr.AnglesDeg = append(pr.AnglesDeg, x*180/math.Pi)
-			pr.Loss = append(pr.Loss, loss[j])
-		}
-		if mirrored {
-			var a, l []float64
-			for j := len(grid) - 1; j > 0; j-- {
-				a = append(a, -grid[j]*180/math.Pi)
-				l = append(l, loss[j])
-			}
-			pr.AnglesDeg = append(a, pr.AnglesDeg...)
-			pr.Loss = append(l, pr.Loss...)
-		}
-		r.Profiles = append(r.Profiles, pr)
 	}
-	// Leave the engine at the optimum.
-	e.eval(r.theta, true)
+	if c < 0 {
+		c = len(grid)
+		grid = append(grid, opt)
+	}
+	free := make([]bool, len(pe.params))
+	for j := range free {
+		free[j] = j != i
+	}
+	loss := make([]float64, len(grid))
+	thetas := make([][]float64, len(grid))
+	eval := func(a float64, start []float64) ([]float64, float64) {
+		th := append([]float64(nil), start...)
+		th[i] = a
+		lr := pe.minimize(th, free, 40)
+		return th, lr.Loss
+	}
+	for _, dir := range []int{1, -1} {
+		th := r.theta
+		for j := c; j >= 0 && j < len(grid); j += dir {
+			if j == c {
+				loss[j], thetas[j] = r.Loss, append([]float64(nil), r.theta...)
+				thetas[j][i] = grid[j]
+				continue
+			}
+			th, loss[j] = eval(grid[j], th)
+			thetas[j] = th
+		}
+	}
+	minLoss := r.Loss
+	for _, l := range loss {
+		minLoss = math.Min(minLoss, l)
+	}
+	thr := minLoss * (1 + fq/float64(n-k))
+	pr := AngleProfile{Name: q.Name, Threshold: thr, Mirrored: mirrored, OptimumDeg: opt * 180 / math.Pi, Closed: true}
+	// crossing refines the threshold crossing between grid index in
+	// (below the threshold) and out (above) by bisection.
+	crossing := func(in, out int) float64 {
+		a, b := grid[in], grid[out]
+		th := thetas[in]
+		for it := 0; it < 8; it++ {
+			m := (a + b) / 2
+			t2, l := eval(m, th)
+			if l <= thr {
+				a, th = m, t2
+			} else {
+				b = m
+			}
+		}
+		return (a + b) / 2 * 180 / math.Pi
+	}
+	loIdx, hiIdx := c, c
+	for loIdx > 0 && loss[loIdx-1] <= thr {
+		loIdx--
+	}
+	for hiIdx < len(grid)-1 && loss[hiIdx+1] <= thr {
+		hiIdx++
+	}
+	// The ends of the half-angle's range and of |α| ∈ [0°, 90°] (no shear
+	// information) are natural ends of an interval; reaching an end of the
+	// period centred on the optimum means the data do not bound the angle.
+	if loIdx == 0 {
+		pr.LoDeg = grid[0] * 180 / math.Pi
+		if q.Periodic && !mirrored {
+			pr.Closed = false
+		}
+	} else {
+		pr.LoDeg = crossing(loIdx, loIdx-1)
+	}
+	if hiIdx == len(grid)-1 {
+		pr.HiDeg = grid[len(grid)-1] * 180 / math.Pi
+		if q.Periodic && !mirrored {
+			pr.Closed = false
+		}
+	} else {
+		pr.HiDeg = crossing(hiIdx, hiIdx+1)
+	}
+	if loIdx == 0 && hiIdx == len(grid)-1 {
+		pr.Closed = false
+	}
+	type pt struct{ a, l float64 }
+	var pts []pt
+	for j, x := range grid {
+		a := x * 180 / math.Pi
+		if q.Periodic && !mirrored {
+			a = wrapAngle(x) * 180 / math.Pi
+		}
+		pts = append(pts, pt{a, loss[j]})
+	}
+	sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
+	for _, v := range pts {
+		pr.AnglesDeg = append(pr.AnglesDeg, v.a)
+		pr.Loss = append(pr.Loss, v.l)
+	}
+	if mirrored {
+		var a, l []float64
+		for j := len(grid) - 1; j > 0; j-- {
+			a = append(a, -grid[j]*180/math.Pi)
+			l = append(l, loss[j])
+		}
+		if grid[0] != 0 {
+			a = append(a, -grid[0]*180/math.Pi)
+			l = append(l, loss[0])
+		}
+		pr.AnglesDeg = append(a, pr.AnglesDeg...)
+		pr.Loss = append(l, pr.Loss...)
+	}
+	return pr
 }

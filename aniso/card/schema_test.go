@@ -151,6 +151,32 @@ func buildSchema() []byte {
 			{"stress_kind", obj{{"enum", []string{"cauchy", "nominal"}}, {"description", "the stress measure the fit used"}}},
 		}},
 	}
+	verdict := obj{
+		{"type", "object"},
+		{"description", "the answer of model discovery on the number of fibre families, with its evidence"},
+		{"required", []string{"families", "reason"}},
+		{"properties", obj{
+			{"families", obj{{"enum", []string{"0", "1", "2", "1-or-mirror-pair"}},
+				{"description", "1-or-mirror-pair: without shear information one family and a mirror pair give the same normal stresses"}}},
+			{"reason", obj{{"type", "string"}, {"description", "the evidence in words and numbers"}}},
+			{"delta_bic", obj{{"type", "object"}, {"description", "per layout (0, 1, 2-mirror, 2-free): best BIC minus overall best, dimensionless"}}},
+			{"cv_error", obj{{"type", "object"}, {"description", "per layout: leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
+			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
+		}},
+	}
+	fit := obj{
+		{"type", "object"},
+		{"description", "how the model was fitted and how well the data determine it (metrics, estimates with 95 % intervals, correlation flags, identifiability notes, angle loss profiles)"},
+		{"required", []string{"method", "loss", "rows", "metrics", "estimates"}},
+		{"properties", obj{
+			{"loss", obj{{"type", []string{"number", "null"}}, {"description", "weighted residual sum of squares, dimensionless"}}},
+			{"angle_sign_known", obj{{"type", "boolean"}}},
+			{"metrics", obj{{"type", "array"}, {"items", obj{{"type", "object"}, {"required", []string{"protocol", "component", "r2", "rmse", "nrmse"}},
+				{"description", "per protocol and stress component: r2 and nrmse dimensionless, rmse and range in stress_unit; null where undefined"}}}}},
+			{"estimates", obj{{"type", "array"}, {"items", obj{{"type", "object"}, {"required", []string{"name", "kind", "value", "unit", "std_err", "ci95", "status"}},
+				{"properties", obj{{"status", obj{{"enum", []string{"estimated", "inactive", "at-bound", "not-determined"}}}}}}}}}},
+		}},
+	}
 	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}
 	s := obj{
 		{"$schema", "https://json-schema.org/draft/2020-12/schema"},
@@ -175,6 +201,8 @@ func buildSchema() []byte {
 			{"layout", layout},
 			{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
 			{"data_range", dataRange},
+			{"verdict", verdict},
+			{"fit", fit},
 		}},
 		{"additionalProperties", true},
 	}
@@ -318,7 +346,7 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 					dr.FibreStretch = append(dr.FibreStretch, [2]float64{1, 1.2})
 				}
 				c.SetExtra("data_range", dr)
-				c.SetExtra("fit", map[string]any{"rmse": 1.2, "anything": []int{1, 2}})
+				c.SetExtra("future_section", map[string]any{"rmse": 1.2, "anything": []int{1, 2}})
 			}
 			b, err := c.Marshal()
 			if err != nil {

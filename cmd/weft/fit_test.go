@@ -1,0 +1,248 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+// copyDemo writes the bundled demo files into a fresh folder.
+func copyDemo(t *testing.T, names ...string) string {
+	t.Helper()
+	dir := t.TempDir()
+	for _, n := range names {
+		b, err := os.ReadFile(filepath.Join("../../testdata/demo", n))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, n), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return dir
+}
+
+// schemaValidate checks a card against the shipped JSON Schema with a
+// general-purpose validator (github.com/santhosh-tekuri/jsonschema).
+func schemaValidate(t *testing.T, b []byte) {
+	t.Helper()
+	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(card.Schema()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := jsonschema.NewCompiler()
+	if err := c.AddResource(card.SchemaID, doc); err != nil {
+		t.Fatal(err)
+	}
+	s, err := c.Compile(card.SchemaID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	inst, err := jsonschema.UnmarshalJSON(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Validate(inst); err != nil {
+		t.Errorf("fitted card fails the schema: %v", err)
+	}
+}
+
+// The main job end to end on the bundled synthetic demo specimens, whose
+// true parameters are known (testdata/demo/README.md): discovery recovers
+// the fibre angle and the family verdict, writes a card that validates
+// against the schema and that predict reads unchanged, a fit table whose
+// model column matches predict, and the selection table.
+func TestFitDemoEndToEnd(t *testing.T) {
+	dir := copyDemo(t, "membrane-M1.csv", "membrane-M3-sutured.csv")
+	out, errs, code := runWeft(t, "fit", filepath.Join(dir, "membrane-M1.csv"), filepath.Join(dir, "membrane-M3-sutured.csv"), "--quiet")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, s := range []string{"families: 1-or-mirror-pair", "families: 1 —", "caution:", "wrote:"} {
+		if !strings.Contains(out, s) {
+			t.Errorf("summary lacks %q:\n%s", s, out)
+		}
+	}
+	cases := []struct {
+		name, verdict string
+		angle         float64
+		signKnown     bool
+	}{{"membrane-M1", "1-or-mirror-pair", 30, false}, {"membrane-M3-sutured", "1", -25, true}}
+	for _, c := range cases {
+		od := filepath.Join(dir, c.name+".weft")
+		b, err := os.ReadFile(filepath.Join(od, "model.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		schemaValidate(t, b)
+		var doc struct {
+			Families []struct {
+				Name           string  `json:"name"`
+				AngleDeg       float64 `json:"angle_deg"`
+				AngleSignKnown *bool   `json:"angle_sign_known"`
+			} `json:"families"`
+			Terms []struct {
+				ID     string  `json:"id"`
+				Weight float64 `json:"weight"`
+			} `json:"terms"`
+			Verdict struct {
+				Families string `json:"families"`
+				Reason   string `json:"reason"`
+			} `json:"verdict"`
+		}
+		if err := json.Unmarshal(b, &doc); err != nil {
+			t.Fatal(err)
+		}
+		if doc.Verdict.Families != c.verdict || doc.Verdict.Reason == "" {
+			t.Errorf("%s: verdict %+v, want %s", c.name, doc.Verdict, c.verdict)
+		}
+		if len(doc.Families) != 1 || doc.Families[0].AngleSignKnown == nil || *doc.Families[0].AngleSignKnown != c.signKnown {
+			t.Fatalf("%s: families %+v", c.name, doc.Families)
+		}
+		got := doc.Families[0].AngleDeg
+		if !c.signKnown {
+			got = math.Abs(got)
+		}
+		if math.Abs(got-c.angle) > 2 {
+			t.Errorf("%s: angle %.2f°, true %.0f°", c.name, doc.Families[0].AngleDeg, c.angle)
+		}
+		for _, f := range []string{"fit.csv", "selection.csv"} {
+			if st, err := os.Stat(filepath.Join(od, f)); err != nil || st.Size() == 0 {
+				t.Errorf("%s: %s missing or empty", c.name, f)
+			}
+		}
+		// predict reads the fitted card unchanged and agrees with fit.csv.
+		rows := readCSV(t, filepath.Join(od, "fit.csv"))
+		var path strings.Builder
+		path.WriteString("F11,F12,F21,F22\n")
+		for _, r := range rows[1:] {
+			path.WriteString(strings.Join(r[3:7], ",") + "\n")
+		}
+		pf := writeTemp(t, "path.csv", path.String())
+		pout, perrs, pcode := runWeft(t, "predict", filepath.Join(od, "model.json"), pf)
+		if pcode != 0 {
+			t.Fatalf("predict on the fitted card: exit %d: %s", pcode, perrs)
+		}
+		prows, _ := csv.NewReader(strings.NewReader(pout)).ReadAll()
+		col := map[string]int{}
+		for i, h := range rows[0] {
+			col[h] = i
+		}
+		mc, ok := col["model_nominal_11 [kPa]"]
+		if !ok {
+			t.Fatalf("fit.csv header %v", rows[0])
+		}
+		for i := 1; i < len(rows); i++ {
+			a, _ := strconv.ParseFloat(rows[i][mc], 64)
+			b, _ := strconv.ParseFloat(prows[i][7], 64) // nominal_11 after F and three Cauchy columns
+			if math.Abs(a-b) > 1e-9*math.Max(1, math.Abs(a)) {
+				t.Fatalf("%s row %d: fit.csv model %g, predict %g", c.name, i, a, b)
+			}
+		}
+	}
+}
+
+func readCSV(t *testing.T, path string) [][]string {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rows
+}
+
+// A preset fit writes the card and fit table, refuses to replace the folder
+// without --force, and gives the same bytes when run again (determinism).
+func TestFitPresetForceAndDeterminism(t *testing.T) {
+	dir := copyDemo(t, "membrane-M1.csv")
+	od := filepath.Join(dir, "out")
+	args := []string{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "-o", od, "--quiet"}
+	if _, errs, code := runWeft(t, args...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	first, _ := os.ReadFile(filepath.Join(od, "model.json"))
+	firstFit, _ := os.ReadFile(filepath.Join(od, "fit.csv"))
+	if _, errs, code := runWeft(t, args...); code != 2 || !strings.Contains(errs, "--force") {
+		t.Fatalf("second run without --force: exit %d, %s", code, errs)
+	}
+	if _, errs, code := runWeft(t, append(args, "--force")...); code != 0 {
+		t.Fatalf("with --force: exit %d: %s", code, errs)
+	}
+	again, _ := os.ReadFile(filepath.Join(od, "model.json"))
+	againFit, _ := os.ReadFile(filepath.Join(od, "fit.csv"))
+	if !bytes.Equal(first, again) || !bytes.Equal(firstFit, againFit) {
+		t.Error("the same input gave different output files")
+	}
+	if _, err := os.Stat(filepath.Join(od, "selection.csv")); err == nil {
+		t.Error("a preset fit wrote selection.csv")
+	}
+	out, _, code := runWeft(t, "fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "-o", filepath.Join(dir, "j"), "--json", "--quiet")
+	if code != 0 || !json.Valid([]byte(out)) || !strings.Contains(out, `"format": "weft.model/1"`) {
+		t.Fatalf("--json: exit %d\n%s", code, out)
+	}
+}
+
+// Bad input to fit: exit code 2 and nothing written.
+func TestFitBadInput(t *testing.T) {
+	dir := copyDemo(t, "membrane-M1.csv")
+	bad := writeTemp(t, "bad.csv", "protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n1:1,1.1,x,1,2\n")
+	cases := [][]string{
+		{"fit", bad},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "no-such"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", "i1-lin,nope"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", "i1-lin", "--families", "3"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "--terms", "i1-lin"},
+		{"fit"},
+	}
+	for _, args := range cases {
+		_, errs, code := runWeft(t, append(args, "-o", filepath.Join(dir, "never"))...)
+		if code != 2 || errs == "" {
+			t.Errorf("%v: exit %d, stderr %q", args, code, errs)
+		}
+		if _, err := os.Stat(filepath.Join(dir, "never")); err == nil {
+			t.Errorf("%v: output written despite bad input", args)
+		}
+	}
+}
+
+// weft demo writes exactly the bundled testdata/demo files, and they read
+// back (round trip through the biaxial reader via weft inspect).
+func TestDemoMatchesTestdata(t *testing.T) {
+	dir := t.TempDir()
+	if _, errs, code := runWeft(t, "demo", dir); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	entries, _ := os.ReadDir("../../testdata/demo")
+	if len(entries) < 4 {
+		t.Fatalf("testdata/demo has %d files", len(entries))
+	}
+	for _, e := range entries {
+		want, _ := os.ReadFile(filepath.Join("../../testdata/demo", e.Name()))
+		got, err := os.ReadFile(filepath.Join(dir, e.Name()))
+		if err != nil || !bytes.Equal(got, want) {
+			t.Errorf("%s: weft demo output differs from testdata/demo (regenerate with 'weft demo testdata/demo --force')", e.Name())
+		}
+	}
+	if _, errs, code := runWeft(t, "demo", dir); code != 2 || !strings.Contains(errs, "--force") {
+		t.Errorf("demo over existing files: exit %d %s", code, errs)
+	}
+	out, errs, code := runWeft(t, "inspect", filepath.Join(dir, "membrane-M1.csv"), filepath.Join(dir, "patch-P2.csv"), filepath.Join(dir, "membrane-M3-sutured.csv"))
+	if code != 0 || !strings.Contains(out, "cycle 3 of 3, loading branch") {
+		t.Errorf("inspect on demo data: exit %d %s\n%s", code, errs, out)
+	}
+}

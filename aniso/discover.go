@@ -1002,15 +1002,19 @@ func (d *Discovery) verdict(p *Problem) {
 			v.Families = "1-or-mirror-pair"
 			v.Reason = fmt.Sprintf("a mirror pair at ±%.1f° is supported; without shear information it cannot be told from one family at that angle", math.Abs(angles[0]))
 			v.Decider = decider
+		case !p.HasShear:
+			v.Families = "2"
+			v.Reason = fmt.Sprintf("two fibre families (a pair at ±%.1f° and ±%.1f° sharing their stiffness; signs unknown without shear information) are supported", math.Abs(angles[0]), math.Abs(angles[1]))
 		default:
 			v.Families = "2"
 			v.Reason = fmt.Sprintf("two fibre families (a pair at %.1f° and %.1f° sharing their stiffness) are supported", angles[0], angles[1])
 		}
 	case LayoutFree:
 		v.Families = "2"
-		v.Reason = fmt.Sprintf("two fibre families at %.1f° and %.1f° are supported", angles[0], angles[1])
-		if !p.HasShear {
-			v.Reason += " (their signs are unknown without shear information)"
+		if p.HasShear {
+			v.Reason = fmt.Sprintf("two fibre families at %.1f° and %.1f° are supported", angles[0], angles[1])
+		} else {
+			v.Reason = fmt.Sprintf("two fibre families at ±%.1f° and ±%.1f° are supported (their signs are unknown without shear information)", math.Abs(angles[0]), math.Abs(angles[1]))
 		}
 	}
 	v.Reason += "; evidence per layout (best model of each): " + evidence()

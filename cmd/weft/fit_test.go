@@ -227,15 +227,15 @@ func TestDemoMatchesTestdata(t *testing.T) {
 	if _, errs, code := runWeft(t, "demo", dir); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	entries, _ := os.ReadDir("../../testdata/demo")
-	if len(entries) < 4 {
-		t.Fatalf("testdata/demo has %d files", len(entries))
+	_, names, err := demoFiles()
+	if err != nil || len(names) != 4 {
+		t.Fatalf("demo files %v: %v", names, err)
 	}
-	for _, e := range entries {
-		want, _ := os.ReadFile(filepath.Join("../../testdata/demo", e.Name()))
-		got, err := os.ReadFile(filepath.Join(dir, e.Name()))
-		if err != nil || !bytes.Equal(got, want) {
-			t.Errorf("%s: weft demo output differs from testdata/demo (regenerate with 'weft demo testdata/demo --force')", e.Name())
+	for _, n := range names {
+		want, err1 := os.ReadFile(filepath.Join("../../testdata/demo", n))
+		got, err2 := os.ReadFile(filepath.Join(dir, n))
+		if err1 != nil || err2 != nil || !bytes.Equal(got, want) {
+			t.Errorf("%s: weft demo output differs from testdata/demo (regenerate with 'weft demo testdata/demo --force')", n)
 		}
 	}
 	if _, errs, code := runWeft(t, "demo", dir); code != 2 || !strings.Contains(errs, "--force") {

@@ -45,16 +45,10 @@ type ComponentSplit struct {
 // on every row of p (unweighted, in the problem's stress measure):
 // out[k][r] for term k and row r.
 func PointContributions(p *Problem, m *Model) ([][]float64, error) {
-	F := make([][4]float64, p.Data.Points())
-	for i := range F {
-		F[i] = p.Data.Kinematics(i).F
-	}
-	d, err := NewDataset(F, p.Output, nil)
+	c, err := unweightedColumns(p, m)
 	if err != nil {
 		return nil, err
 	}
-	var c Columns
-	d.Fill(m, &c, false)
 	out := make([][]float64, len(m.Terms))
 	for k, t := range m.Terms {
 		out[k] = make([]float64, c.Rows)

@@ -197,16 +197,10 @@ func (r *Result) anyFibreActive() bool {
 // problem's stress measure and unit (for metrics, held-out protocols and
 // fit tables).
 func Predict(p *Problem, m *Model) ([]float64, error) {
-	F := make([][4]float64, p.Data.Points())
-	for i := range F {
-		F[i] = p.Data.Kinematics(i).F
-	}
-	d, err := NewDataset(F, p.Output, nil)
+	c, err := unweightedColumns(p, m)
 	if err != nil {
 		return nil, err
 	}
-	var c Columns
-	d.Fill(m, &c, false)
 	out := make([]float64, c.Rows)
 	for k, t := range m.Terms {
 		if t.Weight == 0 {
@@ -218,6 +212,23 @@ func Predict(p *Problem, m *Model) ([]float64, error) {
 		}
 	}
 	return out, nil
+}
+
+// unweightedColumns fills m's stress columns on p's points without the
+// residual weights: each term's stress per unit weight in the problem's
+// measure and unit.
+func unweightedColumns(p *Problem, m *Model) (*Columns, error) {
+	F := make([][4]float64, p.Data.Points())
+	for i := range F {
+		F[i] = p.Data.Kinematics(i).F
+	}
+	d, err := NewDataset(F, p.Output, nil)
+	if err != nil {
+		return nil, err
+	}
+	c := &Columns{}
+	d.Fill(m, c, false)
+	return c, nil
 }
 
 // Metrics returns R², RMSE and normalised RMSE per protocol and component

@@ -267,14 +267,15 @@ func DefaultVerificationSettings(m *Model) VerificationSettings {
 	}
 	dirs := []float64{0, 90}
 	for _, f := range m.Families {
-		dirs = append(dirs, reportDeg(f.Angle*180/math.Pi))
+		dirs = append(dirs, WrapDeg(f.Angle*180/math.Pi))
 	}
 	s.DirectionsDeg = uniqueDirections(dirs)
 	return s
 }
 
-// reportDeg maps an angle in degrees into (−90, 90].
-func reportDeg(a float64) float64 {
+// WrapDeg maps an angle in degrees into (−90, 90], where weft reports fibre
+// angles (a fibre has no sign, so angles are modulo 180°).
+func WrapDeg(a float64) float64 {
 	a = math.Mod(a, 180)
 	if a > 90 {
 		a -= 180
@@ -291,7 +292,7 @@ func uniqueDirections(dirs []float64) []float64 {
 	for _, d := range dirs {
 		dup := false
 		for _, e := range out {
-			if math.Abs(reportDeg(d-e)) < 1e-9 {
+			if math.Abs(WrapDeg(d-e)) < 1e-9 {
 				dup = true
 				break
 			}

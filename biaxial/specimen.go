@@ -205,3 +205,19 @@ func (s *Specimen) NumPoints() int {
 	}
 	return n
 }
+
+// Location returns where the finding is, e.g. "data.csv:14:3" or
+// "tests.xlsx:SYN-3!C9", in the form of ParseError.
+func (w Warning) Location() string {
+	e := ParseError{File: w.File, Line: w.Line, Column: w.Column, Sheet: w.Sheet, Cell: w.Cell}
+	return e.Location()
+}
+
+// String returns the warning as one line: location, protocol, message.
+func (w Warning) String() string {
+	s := w.Location()
+	if w.Protocol != "" {
+		s += " (protocol " + w.Protocol + ")"
+	}
+	return s + ": " + w.Message
+}

@@ -451,7 +451,7 @@ func validUnit(u string) bool {
 func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions, Families: []Family{}}
 	for i, f := range m.Families {
-		a := ReportAngle(f.Angle * 180 / math.Pi)
+		a := aniso.WrapDeg(f.Angle * 180 / math.Pi)
 		k := f.Dispersion
 		fc := Family{Name: f.Name, AngleDeg: &a, Dispersion: &k}
 		if fc.Name == "" {
@@ -479,17 +479,6 @@ func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 	}
 	c.Energy, c.EnergyLaTeX = EnergyText(m, c)
 	return c
-}
-
-// ReportAngle maps an angle in degrees into (−90, 90].
-func ReportAngle(a float64) float64 {
-	a = math.Mod(a, 180)
-	if a > 90 {
-		a -= 180
-	} else if a <= -90 {
-		a += 180
-	}
-	return a
 }
 
 // EnergyText writes the energy with its numbers, in plain text and LaTeX.

@@ -60,10 +60,10 @@ func TestRoundTrip(t *testing.T) {
 	}
 }
 
-func TestReportAngle(t *testing.T) {
+func TestWrapDeg(t *testing.T) {
 	for _, c := range [][2]float64{{0, 0}, {90, 90}, {-90, 90}, {100, -80}, {-100, 80}, {270, 90}, {179, -1}, {-179, 1}} {
-		if got := ReportAngle(c[0]); math.Abs(got-c[1]) > 1e-12 {
-			t.Errorf("ReportAngle(%g) = %g, want %g", c[0], got, c[1])
+		if got := aniso.WrapDeg(c[0]); math.Abs(got-c[1]) > 1e-12 {
+			t.Errorf("WrapDeg(%g) = %g, want %g", c[0], got, c[1])
 		}
 	}
 }

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -171,10 +170,7 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 				return err
 			}
 			if asJSON {
-				enc := json.NewEncoder(cmd.OutOrStdout())
-				enc.SetIndent("", "  ")
-				enc.SetEscapeHTML(false)
-				if err := enc.Encode(rep); err != nil {
+				if err := writeJSON(cmd.OutOrStdout(), rep); err != nil {
 					return err
 				}
 			} else {
@@ -296,7 +292,7 @@ func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, 
 	dirs := []float64{0, 90}
 	labels := []string{"axis 1", "axis 2"}
 	for i, f := range m.Families {
-		dirs = append(dirs, card.ReportAngle(f.Angle*180/math.Pi))
+		dirs = append(dirs, aniso.WrapDeg(f.Angle*180/math.Pi))
 		labels = append(labels, "fibre "+names[i])
 	}
 	mod, err := m.SmallStrainModuli(dirs)

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -111,9 +110,7 @@ the tangent without them is printed.
 				return err
 			}
 			if asJSON {
-				enc := json.NewEncoder(cmd.OutOrStdout())
-				enc.SetIndent("", "  ")
-				return enc.Encode(res)
+				return writeJSON(cmd.OutOrStdout(), res)
 			}
 			printEvaluation(cmd.OutOrStdout(), res)
 			return nil
@@ -145,7 +142,7 @@ func evaluateAt(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *car
 	names := familyNames(m)
 	for i, f := range m.Families {
 		fk := k.Fibre(f.Angle)
-		res.Families = append(res.Families, evalFamily{Name: names[i], AngleDeg: card.ReportAngle(f.Angle * 180 / math.Pi),
+		res.Families = append(res.Families, evalFamily{Name: names[i], AngleDeg: aniso.WrapDeg(f.Angle * 180 / math.Pi),
 			I4: fk.I4, I5: fk.I5, K: fk.K, FibreStretch: math.Sqrt(fk.I4), Engaged: fk.I4 > 1})
 	}
 	res.Tangent.Order = tangentOrder

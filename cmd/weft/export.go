@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -139,10 +138,7 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 			case "csv":
 				err = writeExportCSV(&buf, doc)
 			case "json":
-				enc := json.NewEncoder(&buf)
-				enc.SetIndent("", "  ")
-				enc.SetEscapeHTML(false)
-				err = enc.Encode(doc)
+				err = writeJSON(&buf, doc)
 			case "latex":
 				writeExportLaTeX(&buf, doc)
 			default:
@@ -194,7 +190,7 @@ func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) 
 		}
 		if t.Family >= 0 {
 			f := m.Families[t.Family]
-			a := card.ReportAngle(f.Angle * 180 / math.Pi)
+			a := aniso.WrapDeg(f.Angle * 180 / math.Pi)
 			k := f.Dispersion
 			p.Family, p.AngleDeg, p.Dispersion = names[t.Family], &a, &k
 		}

@@ -378,23 +378,11 @@ func dataSection(s *biaxial.Specimen) card.DataSection {
 		d.Protocols = append(d.Protocols, card.DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
 	}
 	for _, w := range s.Warnings {
-		d.Warnings = append(d.Warnings, warningText(w))
+		d.Warnings = append(d.Warnings, w.String())
 	}
 	return d
 }
 
-func warningText(w biaxial.Warning) string {
-	loc := filepath.Base(w.File)
-	if w.Sheet != "" {
-		loc += ":" + w.Sheet + "!" + w.Cell
-	} else if w.Line > 0 {
-		loc += fmt.Sprintf(":%d", w.Line)
-	}
-	if w.Protocol != "" {
-		loc += " (protocol " + w.Protocol + ")"
-	}
-	return loc + ": " + w.Message
-}
 
 // dataRange is the span of the fitted data, for extrapolation warnings.
 func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -161,11 +160,6 @@ func measured(s *biaxial.Specimen) []biaxial.Component {
 	return cs
 }
 
-func warningLocation(w biaxial.Warning) string {
-	e := biaxial.ParseError{File: w.File, Line: w.Line, Column: w.Column, Sheet: w.Sheet, Cell: w.Cell}
-	return e.Location()
-}
-
 func writeInspectJSON(w io.Writer, specs []*biaxial.Specimen, withPoints bool) error {
 	doc := inspectJSON{Specimens: []specimenJSON{}}
 	for _, s := range specs {
@@ -215,13 +209,11 @@ func writeInspectJSON(w io.Writer, specs []*biaxial.Specimen, withPoints bool) e
 			sj.Protocols = append(sj.Protocols, pj)
 		}
 		for _, wn := range s.Warnings {
-			sj.Warnings = append(sj.Warnings, warningJSON{Location: warningLocation(wn), Protocol: wn.Protocol, Message: wn.Message})
+			sj.Warnings = append(sj.Warnings, warningJSON{Location: wn.Location(), Protocol: wn.Protocol, Message: wn.Message})
 		}
 		doc.Specimens = append(doc.Specimens, sj)
 	}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(doc)
+	return writeJSON(w, doc)
 }
 
 func rangeText(r [2]float64) string {
@@ -287,7 +279,7 @@ func writeInspectText(w io.Writer, specs []*biaxial.Specimen) error {
 		if len(s.Warnings) > 0 {
 			fmt.Fprintf(&b, "  warnings (%d):\n", len(s.Warnings))
 			for _, wn := range s.Warnings {
-				fmt.Fprintf(&b, "    %s: %s\n", warningLocation(wn), wn.Message)
+				fmt.Fprintf(&b, "    %s: %s\n", wn.Location(), wn.Message)
 			}
 		}
 		if len(s.Notices) > 0 {

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"fmt"
 	"os"
@@ -9,22 +8,6 @@ import (
 	"strings"
 	"testing"
 )
-
-// run executes weft with args and returns stdout, stderr and the exit code,
-// the way main does.
-func run(t *testing.T, args ...string) (string, string, int) {
-	t.Helper()
-	root := newRootCmd()
-	var out, errb bytes.Buffer
-	root.SetOut(&out)
-	root.SetErr(&errb)
-	root.SetArgs(args)
-	err := root.Execute()
-	if err != nil {
-		fmt.Fprintln(&errb, "weft:", err)
-	}
-	return out.String(), errb.String(), exitCode(err)
-}
 
 // writeSynthetic writes a synthetic two-protocol specimen file with loads,
 // two cycles per protocol and a preload, and returns its path.
@@ -56,7 +39,7 @@ func writeSynthetic(t *testing.T, dir string) string {
 
 func TestInspectTable(t *testing.T) {
 	path := writeSynthetic(t, t.TempDir())
-	out, errs, code := run(t, "inspect", path)
+	out, errs, code := runWeft(t, "inspect", path)
 	if code != exitOK || errs != "" {
 		t.Fatalf("exit %d, stderr %q", code, errs)
 	}
@@ -69,7 +52,7 @@ func TestInspectTable(t *testing.T) {
 
 func TestInspectJSON(t *testing.T) {
 	path := writeSynthetic(t, t.TempDir())
-	out, errs, code := run(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
+	out, errs, code := runWeft(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
 	if code != exitOK || errs != "" {
 		t.Fatalf("exit %d, stderr %q", code, errs)
 	}
@@ -110,7 +93,7 @@ func TestInspectJSON(t *testing.T) {
 		t.Errorf("protocol 1:0.5: %+v", p)
 	}
 	// Same input, same output.
-	again, _, _ := run(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
+	again, _, _ := runWeft(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
 	if again != out {
 		t.Error("two runs gave different JSON")
 	}
@@ -138,7 +121,7 @@ func TestInspectBadInput(t *testing.T) {
 		{[]string{"inspect", "--no-such-flag", good}, "unknown flag"},
 	}
 	for _, c := range cases {
-		out, errs, code := run(t, c.args...)
+		out, errs, code := runWeft(t, c.args...)
 		if code != exitBadInput {
 			t.Errorf("%v: exit %d, want %d", c.args, code, exitBadInput)
 		}
@@ -152,7 +135,7 @@ func TestInspectBadInput(t *testing.T) {
 }
 
 func TestInspectHelp(t *testing.T) {
-	out, _, code := run(t, "inspect", "--help")
+	out, _, code := runWeft(t, "inspect", "--help")
 	if code != exitOK || !strings.Contains(out, "--rereference") || !strings.Contains(out, "Examples:") {
 		t.Errorf("help (exit %d):\n%s", code, out)
 	}

@@ -2,13 +2,15 @@
 // planar biaxial tests of thin soft tissue and exports parameters for
 // finite-element analysis.
 //
-// Exit codes: 0 success, 1 a check failed, 2 bad input (nothing written).
+// Exit codes: 0 success, 1 a check failed or a fit could not succeed, 2 bad
+// input (nothing written), 3 an unexpected internal error (a bug to report).
 package main
 
 import (
 	"errors"
 	"fmt"
 	"os"
+	"strings"
 
 	"github.com/spf13/cobra"
 )
@@ -82,6 +84,9 @@ func exitCode(err error) int {
 	case errors.As(err, &cf):
 		return exitCheckFail
 	case errors.As(err, &in):
+		return exitBadInput
+	case strings.HasPrefix(err.Error(), "unknown command"):
+		// cobra's own usage errors are bad input too.
 		return exitBadInput
 	}
 	return exitInternalEr

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -105,3 +107,12 @@ func (o *outputDir) commit() error {
 
 // abort removes the temporary folder.
 func (o *outputDir) abort() { os.RemoveAll(o.tmp) }
+
+// writeJSON writes v as indented JSON with a trailing newline, without
+// HTML escaping (model text such as "<" stays readable).
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	enc.SetEscapeHTML(false)
+	return enc.Encode(v)
+}

@@ -31,7 +31,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		fmt.Fprintf(w, "          reference: %s\n", s.Reference)
 	}
 	for _, wn := range s.Warnings {
-		fmt.Fprintf(w, "warning:  %s\n", warningText(wn))
+		fmt.Fprintf(w, "warning:  %s\n", wn.String())
 	}
 	how := "chosen form"
 	if o.disc != nil {

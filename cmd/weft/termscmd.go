@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"strings"
@@ -91,9 +90,7 @@ as presets (--preset), written with these terms.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ts, ps := catalogueInfo()
 			if asJSON {
-				enc := json.NewEncoder(cmd.OutOrStdout())
-				enc.SetIndent("", "  ")
-				return enc.Encode(map[string]any{"terms": ts, "presets": ps})
+				return writeJSON(cmd.OutOrStdout(), map[string]any{"terms": ts, "presets": ps})
 			}
 			return printCatalogue(cmd.OutOrStdout(), ts, ps)
 		},

@@ -383,7 +383,6 @@ func dataSection(s *biaxial.Specimen) card.DataSection {
 	return d
 }
 
-
 // dataRange is the span of the fitted data, for extrapolation warnings.
 func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {
 	dr := card.DataRange{Stretch1: [2]float64{math.Inf(1), math.Inf(-1)}, Stretch2: [2]float64{math.Inf(1), math.Inf(-1)},

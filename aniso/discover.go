@@ -225,6 +225,16 @@ type subset struct {
 func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	start := time.Now()
 	set = set.withDefaults()
+	nonzero := false
+	for _, y := range p.Target {
+		if y != 0 {
+			nonzero = true
+			break
+		}
+	}
+	if !nonzero {
+		return nil, errors.New("every measured stress is zero, so there is nothing to discover; check the stress or load columns and their units with 'weft inspect'")
+	}
 	pl := &pool{n: set.Workers, progress: set.Progress}
 	fitSet := set.Fit
 	fitSet.Profile = false

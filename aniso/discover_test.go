@@ -2,6 +2,7 @@ package aniso
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -240,5 +241,31 @@ func BenchmarkDiscover(b *testing.B) {
 		if i == 0 {
 			b.Logf("chosen %s loss %.5g", d.Best().Name, d.Best().Result.Loss)
 		}
+	}
+}
+
+// Discovery on data a parser accepts but that are degenerate never panics
+// or returns NaN: a single protocol (no cross-validation: the BIC picks, and
+// the rule says so) and all-zero stress.
+func TestDiscoverDegenerate(t *testing.T) {
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 38)
+	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20, ratios: [][2]float64{{1, 0.5}}})
+	p, _ := NewProblem(spec, nil)
+	d, err := Discover(p, DiscoverSettings{MaxTerms: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.Best().CV != nil || !strings.Contains(d.Rule, "BIC") {
+		t.Errorf("one protocol: rule %q", d.Rule)
+	}
+	zero := synthSpecimen(t, &Model{Terms: []Term{{Shape: lookup("i1-lin"), Family: -1, Weight: 0}}}, synthOptions{points: 20})
+	p, _ = NewProblem(zero, nil)
+	d, err = Discover(p, DiscoverSettings{MaxTerms: 2})
+	if err != nil {
+		t.Logf("all-zero stress: %v", err)
+		return
+	}
+	if math.IsNaN(d.Best().Result.Loss) {
+		t.Error("NaN loss on all-zero stress")
 	}
 }

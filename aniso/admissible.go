@@ -136,6 +136,29 @@ type PointStability struct {
 	MinEllipticity float64
 	// EllipticityA and EllipticityB are the a and b that attain it.
 	EllipticityA, EllipticityB [2]float64
+	// Resolution is the smallest eigenvalue magnitude double precision can
+	// resolve here: RelativeResolution × the largest |A_ij|. Where an
+	// exponential term makes the tangent huge, a slightly negative
+	// eigenvalue below it is round-off, not a failure.
+	Resolution float64
+}
+
+// RelativeResolution is the fraction of the tangent's largest entry below
+// which an eigenvalue is not resolved in double precision (about 1e5 times
+// the machine epsilon, allowing for the eigen-solvers' error growth).
+const RelativeResolution = 1e-11
+
+// fails reports whether eigenvalue v fails a criterion with tolerance tol
+// at this point: it must exceed tol, unless |v| is below the point's
+// resolution, where its sign is round-off (counted as unresolved instead).
+func (p *PointStability) fails(v, tol float64) (fail, unresolved bool) {
+	if v > tol {
+		return false, false
+	}
+	if math.Abs(v) <= p.Resolution {
+		return false, true
+	}
+	return true, false
 }
 
 // StabilityReport summarises a scan.
@@ -151,6 +174,11 @@ type StabilityReport struct {
 	// Tolerance is the threshold (stress unit) an eigenvalue must exceed:
 	// 1e-10 times the sum of the weights.
 	Tolerance float64
+	// Unresolved counts points where a criterion's eigenvalue was within
+	// the point's Resolution of zero: its sign is round-off there (the
+	// tangent is dominated by huge exponential terms), so the point is
+	// neither passed nor failed but reported.
+	Unresolved int
 	// UnstablePoints counts points failing the stability criterion;
 	// WorstStability is the point with the smallest MinModuloRotation.
 	UnstablePoints int
@@ -188,6 +216,11 @@ func (m *Model) StabilityAt(F [4]float64, directions int) (PointStability, error
 		return PointStability{}, err
 	}
 	p := PointStability{F: F, Cauchy: r.Cauchy}
+	for i := range tg.A {
+		for _, v := range tg.A[i] {
+			p.Resolution = math.Max(p.Resolution, RelativeResolution*math.Abs(v))
+		}
+	}
 	full := tg.A
 	p.MinFull = minEigen4(&full)
 	p.MinModuloRotation = minEigenModuloRotation(&tg.A, F)
@@ -218,22 +251,28 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 			continue
 		}
 		rep.Evaluated++
-		if !(p.MinModuloRotation > rep.Tolerance) {
+		tol := rep.Tolerance
+		f1, u1 := p.fails(p.MinModuloRotation, tol)
+		f2, u2 := p.fails(p.MinEllipticity, tol)
+		if f1 {
 			rep.UnstablePoints++
 		}
-		if !(p.MinEllipticity > rep.Tolerance) {
+		if f2 {
 			rep.NonEllipticPoints++
 		}
-		if !(p.MinFull > rep.Tolerance) {
+		if u1 || u2 {
+			rep.Unresolved++
+		}
+		if !(p.MinFull > tol) {
 			rep.FullIndefinite++
 			if minPrincipal(p.Cauchy) > rep.Tolerance {
 				rep.FullIndefiniteTensile++
 			}
 		}
-		if p.MinModuloRotation < rep.WorstStability.MinModuloRotation {
+		if f1 && p.MinModuloRotation < rep.WorstStability.MinModuloRotation || rep.UnstablePoints == 0 && p.MinModuloRotation < rep.WorstStability.MinModuloRotation && !u1 {
 			rep.WorstStability = p
 		}
-		if p.MinEllipticity < rep.WorstEllipticity.MinEllipticity {
+		if f2 && p.MinEllipticity < rep.WorstEllipticity.MinEllipticity || rep.NonEllipticPoints == 0 && p.MinEllipticity < rep.WorstEllipticity.MinEllipticity && !u2 {
 			rep.WorstEllipticity = p
 		}
 	}

@@ -92,6 +92,7 @@ type checkReport struct {
 		FailingPoints         int        `json:"failing_points"`
 		Worst                 checkPoint `json:"worst"`
 		FullIndefinite        int        `json:"full_tangent_indefinite_points"`
+		Unresolved            int        `json:"unresolved_points"`
 		FullIndefiniteTensile int        `json:"full_tangent_indefinite_with_both_principal_stresses_tensile"`
 	} `json:"material_stability"`
 	Ellipticity struct {
@@ -271,6 +272,7 @@ func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, 
 	rep.Stability.FailingPoints = sr.UnstablePoints
 	rep.Stability.Worst = checkPoint{F: ws.F, Cauchy: ws.Cauchy, Value: ws.MinModuloRotation, MinFull: &mf, InsideData: inside(ws.F)}
 	rep.Stability.FullIndefinite, rep.Stability.FullIndefiniteTensile = sr.FullIndefinite, sr.FullIndefiniteTensile
+	rep.Stability.Unresolved = sr.Unresolved
 	if !rep.Stability.Passed {
 		rep.Failures = append(rep.Failures, fmt.Sprintf("material stability fails at %d of %d grid points; worst at F = %s%s: "+
 			"smallest eigenvalue of the tangent modulo rigid rotation %.4g %s <= %.3g %s",
@@ -404,6 +406,9 @@ func printCheck(w io.Writer, r *checkReport) {
 		passText(s.Passed), s.FailingPoints, s.Worst.Value, u, fmtF(s.Worst.F))
 	fmt.Fprintf(w, "     criterion: %s\n", s.Criterion)
 	fmt.Fprintf(w, "     the full 4x4 tangent is indefinite at %d points (%d of them with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
+	if s.Unresolved > 0 {
+		fmt.Fprintf(w, "     %d points not resolved: an eigenvalue lies within %g of the tangent's largest entry of zero (round-off, where exponential terms make the tangent huge); they are neither passed nor failed\n", s.Unresolved, aniso.RelativeResolution)
+	}
 	e := r.Ellipticity
 	fmt.Fprintf(w, "4. Strong ellipticity             %s  %d failing points; smallest (a x b):A:(a x b) = %.4g %s at F = %s\n",
 		passText(e.Passed), e.FailingPoints, e.Worst.Value, u, fmtF(e.Worst.F))

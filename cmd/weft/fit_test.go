@@ -246,3 +246,20 @@ func TestDemoMatchesTestdata(t *testing.T) {
 		t.Errorf("inspect on demo data: exit %d %s\n%s", code, errs, out)
 	}
 }
+
+// A stiff exponential fibre family makes the tangent reach ~1e17 kPa at the
+// corners of the default grid, where an eigenvalue of a few kPa cannot be
+// resolved in double precision (relative round-off ~1e-16 × the largest
+// entry, common practice in floating point): check must not fail the card
+// on round-off, and must say it could not resolve those points.
+func TestCheckDoesNotFailOnRoundOff(t *testing.T) {
+	c := `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":30}],
+"terms":[{"id":"i1-lin","weight":3.955},{"id":"fib-expsq","weight":60.608,"params":{"rate":7.87275},"family":"f1"}]}`
+	out, errs, code := runWeft(t, "check", writeTemp(t, "m.json", c))
+	if code != 0 {
+		t.Fatalf("exit %d: %s\n%s", code, errs, out)
+	}
+	if !strings.Contains(out, "not resolved") {
+		t.Errorf("no note on unresolved points:\n%s", out)
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"image/color"
+	"image/png"
 	"math"
 	"runtime"
 	"strconv"
@@ -72,7 +73,7 @@ func (f *figure) render() (out renderedFigure, err error) {
 		return out, fmt.Errorf("plot %s: %w", f.name, err)
 	}
 	var pb bytes.Buffer
-	if _, err := (vgimg.PngCanvas{Canvas: ic}).WriteTo(&pb); err != nil {
+	if err := png.Encode(&pb, ic.Image()); err != nil {
 		return out, err
 	}
 	out.png = pb.Bytes()

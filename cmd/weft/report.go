@@ -101,6 +101,15 @@ func writeReportFiles(od *outputDir, o *fitOutcome) error {
 	return nil
 }
 
+// reportFilesNote lists, for the fit summary, the files writeReportFiles
+// adds to the folder.
+func reportFilesNote(o *fitOutcome) string {
+	if len(o.prob.Protocols) > 1 {
+		return ", heldout.csv, report.html, plots/"
+	}
+	return ", report.html, plots/"
+}
+
 func newReportCmd() *cobra.Command {
 	var strain, force bool
 	cmd := &cobra.Command{

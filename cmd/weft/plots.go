@@ -358,7 +358,13 @@ func shade(c color.NRGBA, f float64) color.NRGBA {
 	return color.NRGBA{mix(c.R), mix(c.G), mix(c.B), 0xff}
 }
 
-// decades widens [lo, hi] to whole powers of ten, for log axes.
-func decades(lo, hi float64) (float64, float64) {
-	return math.Pow(10, math.Floor(math.Log10(lo))), math.Pow(10, math.Ceil(math.Log10(hi)))
+// logRange pads [lo, hi] (both > 0) for a log axis: a factor of 2 each
+// way, widened to whole powers of ten when that would leave fewer than
+// two labelled decades.
+func logRange(lo, hi float64) (float64, float64) {
+	a, b := lo/2, hi*2
+	if math.Floor(math.Log10(b))-math.Ceil(math.Log10(a)) < 1 {
+		a, b = math.Pow(10, math.Floor(math.Log10(lo))), math.Pow(10, math.Ceil(math.Log10(hi)))
+	}
+	return a, b
 }

@@ -81,11 +81,16 @@ func (in *reportInput) profileFigure() *figure {
 	if len(profs) == 0 {
 		return nil
 	}
-	lw := 2.6 * vg.Inch
-	f := &figure{name: "angle-profile", w: vg.Length(len(profs))*4.3*vg.Inch + lw, h: 3.8 * vg.Inch,
+	lw := 2.4 * vg.Inch
+	pw := 4.3 * vg.Inch
+	if len(profs) > 1 {
+		pw = 3.7 * vg.Inch
+	}
+	f := &figure{name: "angle-profile", w: vg.Length(len(profs))*pw + lw, h: 3.8 * vg.Inch,
 		title: "Loss profile over the fibre angle",
 		caption: "The fit's loss (weighted residual sum of squares) minimised over every other parameter at each fibre angle from −90° to 90°, on a log scale. " +
-			"The vertical line marks the fitted angle; the shaded band is its 95 % profile-likelihood interval, where the loss stays below the dashed threshold."}
+			"The vertical line and dot mark the fitted angle and the fitted model's loss; the shaded band is the 95 % profile-likelihood interval stated in model.json, where the loss stays below the dashed threshold. " +
+			"The profile is computed on a grid (2° by default) and joined through the fitted point, so a minimum sharper than the grid shows as a narrow notch."}
 	mirrored := false
 	for _, pc := range profs {
 		mirrored = mirrored || pc.Mirrored
@@ -106,6 +111,9 @@ func (in *reportInput) profileFigure() *figure {
 				sign = "±"
 			}
 			title := fmt.Sprintf("%s = %s%s, 95 %% interval %s to %s", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
+			if len(profs) > 1 {
+				title = fmt.Sprintf("%s = %s%s (95 %%: %s to %s)", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
+			}
 			if !pc.Closed {
 				title += " (open)"
 			}
@@ -114,16 +122,31 @@ func (in *reportInput) profileFigure() *figure {
 			p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
 			p.X.Tick.Marker = degTicks()
 			p.X.Min, p.X.Max = -90, 90
+			// The profile at the fitted angle is the fit's own loss; the
+			// grid can straddle a sharp minimum, so that point joins the
+			// curve (and its mirror image when the sign is unknown).
+			type pt struct{ a, v float64 }
+			var pts []pt
+			for k, a := range pc.AnglesDeg {
+				pts = append(pts, pt{float64(a), float64(pc.Loss[k])})
+			}
+			fitLoss := float64(in.fit.Loss)
+			if fitLoss > 0 && !math.IsNaN(opt) {
+				pts = append(pts, pt{opt, fitLoss})
+				if pc.Mirrored && math.Abs(opt) > 1e-9 {
+					pts = append(pts, pt{-opt, fitLoss})
+				}
+			}
+			sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
 			var xs, ys []float64
 			lo, hi := math.Inf(1), math.Inf(-1)
-			for k, a := range pc.AnglesDeg {
-				v := float64(pc.Loss[k])
-				if !(v > 0) || math.IsInf(v, 0) {
-					xs, ys = append(xs, float64(a)), append(ys, math.NaN())
+			for _, q := range pts {
+				if !(q.v > 0) || math.IsInf(q.v, 0) {
+					xs, ys = append(xs, q.a), append(ys, math.NaN())
 					continue
 				}
-				xs, ys = append(xs, float64(a)), append(ys, v)
-				lo, hi = math.Min(lo, v), math.Max(hi, v)
+				xs, ys = append(xs, q.a), append(ys, q.v)
+				lo, hi = math.Min(lo, q.v), math.Max(hi, q.v)
 			}
 			thr := float64(pc.Threshold)
 			if thr > 0 {
@@ -132,7 +155,7 @@ func (in *reportInput) profileFigure() *figure {
 			if math.IsInf(lo, 1) {
 				lo, hi = 1e-6, 1
 			}
-			y0, y1 := decades(lo, hi)
+			y0, y1 := logRange(lo, hi)
 			p.Y.Min, p.Y.Max = y0, y1
 			if !math.IsNaN(iv[0]) && !math.IsNaN(iv[1]) {
 				if pc.Mirrored {
@@ -164,8 +187,11 @@ func (in *reportInput) profileFigure() *figure {
 			if !math.IsNaN(opt) {
 				ls := lineStyle(okabeBlue, 1.4, false)
 				addCurve(p, []float64{opt, opt}, []float64{y0, y1}, ls)
+				dot := draw.GlyphStyle{Color: okabeBlue, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
+				addPoints(p, []float64{opt}, []float64{fitLoss}, dot)
 				if j == 0 {
 					l.Add("fitted angle", lineThumb{ls})
+					l.Add("fitted model's loss", glyphThumb{dot})
 				}
 				if pc.Mirrored && math.Abs(opt) > 1e-9 {
 					ms := lineStyle(okabeBlue, 1.2, false)
@@ -323,7 +349,7 @@ func (in *reportInput) paretoFigure() *figure {
 			}
 		}
 		if lo, hi := lossRange(sel); lo > 0 {
-			p.Y.Min, p.Y.Max = decades(lo, hi)
+			p.Y.Min, p.Y.Max = logRange(lo, hi)
 		}
 		p.X.Min, p.X.Max = 0.5, xmax+1.5
 		var ts []plot.Tick

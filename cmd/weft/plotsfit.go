@@ -197,7 +197,11 @@ func (in *reportInput) fitFigure(i int, strain bool) *figure {
 	if shear {
 		lw = 2.9 * vg.Inch // longer entries: RMSE with unit
 	}
-	w := vg.Length(panels)*4.6*vg.Inch + lw
+	pw := 4.6 * vg.Inch
+	if panels > 1 {
+		pw = 4 * vg.Inch
+	}
+	w := vg.Length(panels)*pw + lw
 	what := "stretch"
 	if strain {
 		what = "Green strain"

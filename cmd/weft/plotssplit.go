@@ -139,12 +139,11 @@ func addStack(p *plot.Plot, xs []float64, contrib [][]float64, terms []splitTerm
 func (in *reportInput) splitFigure(i int, strain bool, terms []splitTerm) *figure {
 	t := in.table
 	pr := t.protocols[i]
+	// Two panels side by side; four (with shear) in two rows.
+	cols := min(len(t.comps), 2)
+	rows := (len(t.comps) + cols - 1) / cols
 	lw := 2.5 * vg.Inch
-	pw := 3.4 * vg.Inch
-	if len(t.comps) > 2 {
-		pw = 2.9 * vg.Inch
-	}
-	f := &figure{name: protocolFileName("split", i, pr.label), w: vg.Length(len(t.comps))*pw + lw, h: 3.6 * vg.Inch,
+	f := &figure{name: protocolFileName("split", i, pr.label), w: vg.Length(cols)*3.4*vg.Inch + lw, h: vg.Length(rows)*3.1*vg.Inch + 0.5*vg.Inch,
 		title: fmt.Sprintf("Protocol %s: stress carried by each term", pr.label),
 		caption: "The modelled stress of each component divided into the contribution of every active energy term, stacked " +
 			"(contributions that pull the other way, such as the plane-stress pressure on a matrix term, stack below zero). " +
@@ -152,7 +151,10 @@ func (in *reportInput) splitFigure(i int, strain bool, terms []splitTerm) *figur
 	f.draw = func(dc draw.Canvas) error {
 		dc = drawTitle(dc, fmt.Sprintf("Protocol %s — %s: stress split by term", pr.label, in.card.Specimen))
 		area, lc := splitColumns(dc, lw)
-		var plots []*plot.Plot
+		grid := make([][]*plot.Plot, rows)
+		for r := range grid {
+			grid[r] = make([]*plot.Plot, cols)
+		}
 		for ci, c := range t.comps {
 			p := newPlot(compSymbol(t.kind, c), abscissaLabel(isShear(c), strain, true), stressLabel(t.kind, t.unit), true)
 			xs := make([]float64, len(pr.F))
@@ -166,12 +168,16 @@ func (in *reportInput) splitFigure(i int, strain bool, terms []splitTerm) *figur
 			addStack(p, xs, col, terms)
 			addCurve(p, xs, pr.model[ci], lineStyle(okabeBlack, 1.1, false))
 			addPoints(p, xs, pr.measured[ci], draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(1.1), Shape: draw.CircleGlyph{}})
-			plots = append(plots, p)
+			grid[ci/cols][ci%cols] = p
 		}
-		tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(12), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
-		cs := plot.Align([][]*plot.Plot{plots}, tiles, area)
-		for j, p := range plots {
-			p.Draw(cs[0][j])
+		tiles := draw.Tiles{Rows: rows, Cols: cols, PadX: vg.Points(12), PadY: vg.Points(12), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
+		cs := plot.Align(grid, tiles, area)
+		for r, row := range grid {
+			for c, p := range row {
+				if p != nil {
+					p.Draw(cs[r][c])
+				}
+			}
 		}
 		l := newLegend(9)
 		for _, st := range terms {
@@ -199,7 +205,7 @@ func (in *reportInput) shareFigure() *figure {
 	if len(sp.Protocols) > 0 {
 		nb = len(sp.Protocols[0].Components) + 1
 	}
-	w := vg.Length(len(sp.Protocols)*(nb+1))*0.36*vg.Inch + 2.8*vg.Inch
+	w := vg.Length(len(sp.Protocols)*(nb+1))*0.3*vg.Inch + 2.9*vg.Inch
 	f := &figure{name: "split-shares", w: max(w, 7*vg.Inch), h: 4 * vg.Inch,
 		title: "Share of the matrix and each fibre family, per protocol",
 		caption: "For each protocol, the share of each group (matrix, each fibre family) in the modelled stress of every component — " +

@@ -150,9 +150,13 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	if strain {
 		v.Abscissa = "Green strain E = ½(λ² − 1)"
 	}
-	sign := ""
-	if in.signUnknown() {
-		sign = "±"
+	// angle writes a family angle; without shear information its sign is
+	// unknown and it is written ±|α|.
+	angle := func(a float64) string {
+		if in.signUnknown() {
+			return "±" + fmtDeg(math.Abs(a))
+		}
+		return fmtDeg(a)
 	}
 
 	// At a glance.
@@ -170,7 +174,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	var angles []string
 	for _, f := range c.Families {
 		if f.AngleDeg != nil {
-			angles = append(angles, f.Name+" at "+sign+fmtDeg(*f.AngleDeg))
+			angles = append(angles, f.Name+" at "+angle(*f.AngleDeg))
 		}
 	}
 	fams := "none (isotropic)"
@@ -260,7 +264,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		if f.AngleSignKnown != nil {
 			known = map[bool]string{true: "yes", false: "no: ±α"}[*f.AngleSignKnown]
 		}
-		v.Families.Rows = append(v.Families.Rows, htmlRow{Cells: []string{f.Name, sign + fmtDeg(a), known, fnum(k, 4)}})
+		v.Families.Rows = append(v.Families.Rows, htmlRow{Cells: []string{f.Name, angle(a), known, fnum(k, 4)}})
 	}
 	v.Params.Head = []string{"parameter", "value", "95 % interval", "std. error", "unit", "status"}
 	for _, e := range fs.Estimates {
@@ -269,7 +273,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		}
 		val := fnum(float64(e.Value), 5)
 		if e.Kind == "angle" && in.signUnknown() && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
-			val = "±" + val
+			val = "±" + fnum(math.Abs(float64(e.Value)), 5)
 		}
 		iv := "—"
 		if lo, hi := float64(e.CI95[0]), float64(e.CI95[1]); !math.IsNaN(lo) && !math.IsNaN(hi) {

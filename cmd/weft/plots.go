@@ -40,8 +40,6 @@ type figure struct {
 	name, title, caption string
 	w, h                 vg.Length
 	draw                 func(dc draw.Canvas) error
-	// series counts what the figure draws, by kind (for tests).
-	series map[string]int
 }
 
 // renderedFigure holds a figure's files.

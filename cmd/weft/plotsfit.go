@@ -20,6 +20,14 @@ func compSymbol(kind, comp string) string {
 	return "σ" + comp
 }
 
+// kindName writes a stress kind as a name: "Cauchy" or "nominal".
+func kindName(kind string) string {
+	if kind == "cauchy" {
+		return "Cauchy"
+	}
+	return kind
+}
+
 // stressLabel is the stress axis label with its kind and unit.
 func stressLabel(kind, unit string) string {
 	if kind == "nominal" {
@@ -207,7 +215,7 @@ func (in *reportInput) fitFigure(i int, strain bool) *figure {
 		what = "Green strain"
 	}
 	f := &figure{name: protocolFileName("fit", i, pr.label), w: w, h: 4.2 * vg.Inch,
-		title: fmt.Sprintf("Protocol %s: %s stress against %s", pr.label, t.kind, what)}
+		title: fmt.Sprintf("Protocol %s: %s stress against %s", pr.label, kindName(t.kind), what)}
 	f.caption = "Markers: measured points of the kept branch. Solid line: the fitted model evaluated along the protocol's measured deformation (between the points too when the deformation is pure biaxial stretch). "
 	if in.heldout != nil {
 		f.caption += "Dashed line: held-out prediction, the same model form refitted to every other protocol and used to predict this one. "
@@ -286,7 +294,7 @@ func (in *reportInput) fitGridFigure(strain bool) *figure {
 		what = "Green strain"
 	}
 	f := &figure{name: "fit-all", w: vg.Length(cols) * 3.1 * vg.Inch, h: vg.Length(rows)*2.6*vg.Inch + 0.4*vg.Inch,
-		title: fmt.Sprintf("All protocols: %s stress against %s", t.kind, what)}
+		title: fmt.Sprintf("All protocols: %s stress against %s", kindName(t.kind), what)}
 	f.caption = "One tile per protocol with its R² per axis in the tile title; markers measured, solid lines the fitted model"
 	if in.heldout != nil {
 		f.caption += ", dashed lines the held-out prediction (model form refitted without that protocol)"
@@ -311,7 +319,7 @@ func (in *reportInput) fitGridFigure(strain bool) *figure {
 			if len(q) > 0 {
 				title += " · R² " + strings.Join(q, " / ")
 			}
-			p := newPlot(title, abscissaLabel(false, strain, true), compSymbol(t.kind, "")+" ["+t.unit+"]", true)
+			p := newPlot(title, abscissaLabel(false, strain, true), kindName(t.kind)+" "+compSymbol(t.kind, "")+" ["+t.unit+"]", true)
 			in.addProtocolCurves(p, nil, pr, false, strain, true)
 			plots = append(plots, p)
 		}

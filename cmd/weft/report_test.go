@@ -509,7 +509,7 @@ func TestReportShearAndChosenForm(t *testing.T) {
 		}
 	}
 	b, _ := os.ReadFile(filepath.Join(dir, "report.html"))
-	if !strings.Contains(string(b), "chosen form (fitted as asked, not discovered)") {
+	if !strings.Contains(string(b), htmlText("chosen form: i1-lin + fib-expsq@f1, single fibre layout (fitted as asked, not discovered)")) {
 		t.Errorf("report.html does not say the model form was chosen")
 	}
 }

@@ -160,7 +160,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	}
 
 	// At a glance.
-	how := "chosen form (fitted as asked, not discovered)"
+	how := "chosen form: " + strings.Join(fs.Terms, " + ") + ", " + fs.Layout + " fibre layout (fitted as asked, not discovered)"
 	if in.sel != nil {
 		how = "discovered: " + in.sel.Chosen
 	}

@@ -279,7 +279,7 @@ func (in *reportInput) paretoFigure() *figure {
 		title: "Pareto front: model size against loss",
 		caption: "Every model form kept by the search: its number of parameters (weights and non-linear parameters) against its loss, on a log scale, " +
 			"one series per fibre layout. Plus signs are the classical presets fitted to the same data; the ring marks the chosen model (" + sel.Chosen + "), " +
-			"picked by the rule stated below, not by the lowest loss."}
+			"picked by the selection rule stated in the report and in model.json, not by the lowest loss."}
 	f.draw = func(dc draw.Canvas) error {
 		dc = drawTitle(dc, in.card.Specimen+" — model search")
 		area, lc := splitColumns(dc, lw)

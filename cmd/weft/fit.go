@@ -467,6 +467,9 @@ func writeFitOutputs(o *fitOutcome, force bool) error {
 			return err
 		}
 	}
+	if err := writeReportFiles(od, o); err != nil {
+		return err
+	}
 	if err := od.commit(); err != nil {
 		return err
 	}

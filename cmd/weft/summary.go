@@ -155,5 +155,6 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	if o.disc != nil {
 		files += ", selection.csv"
 	}
+	files += reportFilesNote(o)
 	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", o.dir, files, o.elapsed.Seconds())
 }

@@ -255,6 +255,26 @@ type Result struct {
 	alternates [][]float64
 }
 
+// canonical orders a structure's terms as the catalogue lists them,
+// isotropic terms first and then each family's, so that the same form gives
+// the same card however it was assembled.
+func canonical(st Structure) Structure {
+	rank := map[*terms.Shape]int{}
+	for i, sh := range terms.Catalogue() {
+		rank[sh] = i
+	}
+	out := st
+	out.Terms = append([]TermSpec(nil), st.Terms...)
+	sort.SliceStable(out.Terms, func(a, b int) bool {
+		ta, tb := out.Terms[a], out.Terms[b]
+		if ta.Family != tb.Family {
+			return ta.Family < tb.Family
+		}
+		return rank[ta.Shape] < rank[tb.Shape]
+	})
+	return out
+}
+
 // build makes the model and the parameter list of a structure.
 func build(st Structure) (*Model, [][]int, []int, []param) {
 	nf := st.Layout.Families()
@@ -418,6 +438,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	if err := st.Validate(); err != nil {
 		return nil, err
 	}
+	st = canonical(st)
 	start := time.Now()
 	m, groups, famOf, params := build(st)
 	nAngles := 0

@@ -206,7 +206,21 @@ var (
 	implGent    = impl{gentLog, gentLogSlope, gentLogGrad}
 )
 
+// setZeroRate records the b = 0 limit form of a rate shape.
+func setZeroRate(id, plain, latex string) {
+	s := byID[id]
+	s.zeroRate[0], s.zeroRate[1] = formula(s.Arg, plain, latex)
+}
+
 func init() {
+	defer func() {
+		for _, id := range []string{"i1-exp", "i2-exp"} {
+			setZeroRate(id, "w*{x}", `w\,{x}`)
+		}
+		for _, id := range []string{"i1-expsq", "fib-expsq", "fib-exp"} {
+			setZeroRate(id, "w*{x}^2/2", `\frac{w}{2}\,{x}^{2}`)
+		}
+	}()
 	const (
 		convexI1 = "convex and non-decreasing in I1 (Ball 1977)"
 		convexI2 = "convex and non-decreasing in I2 (Ball 1977)"

@@ -110,6 +110,11 @@ type Shape struct {
 	// Source cites the published form the shape follows, if any.
 	Source string
 
+	// zeroRate holds the plain and LaTeX formulas of the shape's limit at
+	// rate b = 0 (e.g. w·x²/2 for an exponential of a square), when it has
+	// a rate; the general formula divides by b.
+	zeroRate [2]string
+
 	eval func(x float64, p []float64) Value
 	// slope returns f′ alone, cheaper than eval; nil means eval().D1.
 	slope func(x float64, p []float64) float64
@@ -120,6 +125,18 @@ type Shape struct {
 // Eval returns f, f′ and f″ at x with parameters p (len(p) == len(s.Params)).
 // Results are +Inf, never NaN, where the shape overflows or exceeds a limit.
 func (s *Shape) Eval(x float64, p []float64) Value { return s.eval(x, p) }
+
+// Written returns the term's plain and LaTeX formulas (with w and the
+// parameter symbols not yet substituted) for these parameter values: the
+// limit form where a rate is exactly 0, so that no formula divides by zero.
+func (s *Shape) Written(p []float64) (plain, latex string) {
+	for j, q := range s.Params {
+		if q.Name == "rate" && j < len(p) && p[j] == 0 && s.zeroRate[0] != "" {
+			return s.zeroRate[0], s.zeroRate[1]
+		}
+	}
+	return s.Formula, s.LaTeX
+}
 
 // Slope returns f′(x) alone; it equals Eval(x, p).D1 and is cheaper, for
 // hot loops that need only stress.

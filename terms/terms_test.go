@@ -2,6 +2,7 @@ package terms
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -165,6 +166,30 @@ func TestCatalogueAndPresets(t *testing.T) {
 	for _, name := range []string{"neo-hookean", "mooney-rivlin", "demiray", "gent", "yeoh", "hgo", "goh"} {
 		if LookupPreset(name) == nil {
 			t.Errorf("preset %s missing", name)
+		}
+	}
+}
+
+// At rate 0 each exponential shape is its polynomial limit (series of the
+// exponential; common practice), and Written gives that limit's formula
+// instead of one that divides by zero.
+func TestZeroRateLimit(t *testing.T) {
+	for _, s := range Catalogue() {
+		if len(s.Params) == 0 || s.Params[0].Name != "rate" {
+			continue
+		}
+		plain, _ := s.Written([]float64{0})
+		if plain == s.Formula || strings.Contains(plain, "/b") {
+			t.Errorf("%s: rate-0 formula %q", s.ID, plain)
+		}
+		x := 0.3
+		v0 := s.Eval(x, []float64{0}).F
+		want := x * x / 2
+		if s.Arg == I1 && s.ID != "i1-expsq" || s.Arg == I2 {
+			want = x
+		}
+		if math.Abs(v0-want) > 1e-15 {
+			t.Errorf("%s: f(%g) at rate 0 = %g, limit %g", s.ID, x, v0, want)
 		}
 	}
 }

@@ -485,7 +485,7 @@ func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 func EnergyText(m *aniso.Model, c *Card) (string, string) {
 	var plain, latex []string
 	for _, t := range m.Terms {
-		p, l := t.Shape.Formula, t.Shape.LaTeX
+		p, l := t.Shape.Written(t.Params)
 		p = strings.ReplaceAll(p, "w*", fmt.Sprintf("%.6g*", t.Weight))
 		l = strings.ReplaceAll(l, "w", fmt.Sprintf("%.6g", t.Weight))
 		for j, q := range t.Shape.Params {

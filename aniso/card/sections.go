@@ -22,6 +22,7 @@ type DataSection struct {
 	Source     string `json:"source"`
 	Sheet      string `json:"sheet,omitempty"`
 	Tissue     string `json:"tissue,omitempty"`
+	Notes      string `json:"notes,omitempty"`
 	Axis1      string `json:"axis_1,omitempty"`
 	StressKind string `json:"stress_kind"`
 	StressUnit string `json:"stress_unit"`

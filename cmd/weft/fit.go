@@ -371,7 +371,7 @@ func buildCard(o *fitOutcome) (*card.Card, error) {
 }
 
 func dataSection(s *biaxial.Specimen) card.DataSection {
-	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"],
+	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
 		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
 		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
 	for _, pr := range s.Protocols {

@@ -141,7 +141,7 @@ func reportHTML(in *reportInput, figs []renderedFigure, strain bool) ([]byte, er
 // view formats the input for the template.
 func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	c, d, fs := in.card, in.data, in.fit
-	v := &reportView{Specimen: c.Specimen, Tissue: d.Tissue, DataNotes: d.Notes, Synthetic: in.isSynthetic(), Cautions: card.Cautions,
+	v := &reportView{Specimen: c.Specimen, Tissue: d.Tissue, DataNotes: sentence(d.Notes), Synthetic: in.isSynthetic(), Cautions: card.Cautions,
 		Limits: "Planar biaxial data constrain the in-plane response only; the out-of-plane response and the response to I5 are not fully determined by them (Holzapfel & Ogden 2009, Math Mech Solids 14:474–489)."}
 	if v.Specimen == "" {
 		v.Specimen = d.Specimen
@@ -682,3 +682,13 @@ ul.plain { padding-left: 1.2em; }
 <figcaption>{{.Caption}} <span class="files">Files: {{.Files}}.</span></figcaption>
 </figure>
 {{end}}`
+
+// sentence ends free text with a full stop, so that the next sentence of the
+// report does not run into it.
+func sentence(s string) string {
+	s = strings.TrimSpace(s)
+	if s == "" || strings.HasSuffix(s, ".") || strings.HasSuffix(s, "!") || strings.HasSuffix(s, "?") {
+		return s
+	}
+	return s + "."
+}

@@ -854,10 +854,12 @@ func crossValidate(p *Problem, cands []*Candidate, set Settings, pl *pool) {
 	}
 }
 
-// cvFold fits r's form to every protocol but the f-th and predicts it.
-func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
+// HeldOut refits r's model form to every protocol of p but the f-th
+// (index into p.Protocols), warm-started from r's parameters without an
+// angle scan, and predicts the left-out protocol: the prediction on the
+// rows of test, a Problem holding that protocol alone.
+func HeldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *Problem, err error) {
 	held := p.Protocols[f]
-	fold := CVFold{Protocol: p.Specimen.Protocols[held].Label, Error: math.Inf(1)}
 	var keep []int
 	for i, pi := range p.Protocols {
 		if i != f {
@@ -866,20 +868,27 @@ func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
 	}
 	train, err := NewProblem(p.Specimen, keep)
 	if err != nil {
-		return fold
+		return nil, nil, err
 	}
 	s := set
 	s.Init = r.Params()
 	s.NoScan = true
+	s.Profile = false
 	fit, err := Fit(train, r.Structure, s)
 	if err != nil {
-		return fold
+		return nil, nil, err
 	}
-	test, err := NewProblem(p.Specimen, []int{held})
-	if err != nil {
-		return fold
+	if test, err = NewProblem(p.Specimen, []int{held}); err != nil {
+		return nil, nil, err
 	}
-	pred, err := Predict(test, fit.Model)
+	pred, err = Predict(test, fit.Model)
+	return pred, test, err
+}
+
+// cvFold scores r's form on the f-th protocol left out.
+func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
+	fold := CVFold{Protocol: p.Specimen.Protocols[p.Protocols[f]].Label, Error: math.Inf(1)}
+	pred, test, err := HeldOut(p, r, f, set)
 	if err != nil {
 		return fold
 	}

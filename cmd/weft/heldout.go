@@ -31,7 +31,6 @@ func heldoutPredictions(o *fitOutcome) []heldoutFold {
 		return nil
 	}
 	folds := make([]heldoutFold, n)
-	init := r.Params()
 	jobs := make(chan int)
 	var wg sync.WaitGroup
 	workers := min(runtime.NumCPU(), n)
@@ -40,7 +39,7 @@ func heldoutPredictions(o *fitOutcome) []heldoutFold {
 		go func() {
 			defer wg.Done()
 			for f := range jobs {
-				folds[f] = heldoutFoldFit(p, r.Structure, init, f)
+				folds[f] = heldoutFoldFit(p, r, f)
 			}
 		}()
 	}
@@ -52,31 +51,9 @@ func heldoutPredictions(o *fitOutcome) []heldoutFold {
 	return folds
 }
 
-func heldoutFoldFit(p *aniso.Problem, st aniso.Structure, init map[string]float64, f int) heldoutFold {
-	held := p.Protocols[f]
-	out := heldoutFold{protocol: held}
-	var keep []int
-	for i, pi := range p.Protocols {
-		if i != f {
-			keep = append(keep, pi)
-		}
-	}
-	train, err := aniso.NewProblem(p.Specimen, keep)
-	if err != nil {
-		out.err = err
-		return out
-	}
-	fit, err := aniso.Fit(train, st, aniso.Settings{Init: init, NoScan: true})
-	if err != nil {
-		out.err = err
-		return out
-	}
-	test, err := aniso.NewProblem(p.Specimen, []int{held})
-	if err != nil {
-		out.err = err
-		return out
-	}
-	out.pred, out.err = aniso.Predict(test, fit.Model)
+func heldoutFoldFit(p *aniso.Problem, r *aniso.Result, f int) heldoutFold {
+	out := heldoutFold{protocol: p.Protocols[f]}
+	out.pred, _, out.err = aniso.HeldOut(p, r, f, aniso.Settings{})
 	return out
 }
 

@@ -744,6 +744,9 @@ func (r *Result) notes(p *Problem) {
 			r.Notes = append(r.Notes, "The data carry no shear information (pure biaxial stretch, no shear stress measured): the sign of a fibre angle cannot be determined, so angles are reported as ±|α|, and one family at α cannot be told from a mirror pair at ±α with half the weight each. Shear from markers or an off-axis protocol would decide it.")
 		}
 	}
+	if r.Structure.Layout == LayoutMirror && !p.HasShear {
+		r.Notes = append(r.Notes, "Without shear information a mirror pair at θ ± β has the same normal stresses as θ' = θ − 90°, β' = 90° − β (and as −θ ± β): the pair's mean and half angle are reported as fitted, and the families' angles ±|α| in the model card are what the data determine.")
+	}
 	if r.Structure.Dispersion {
 		for _, t := range r.Structure.Terms {
 			if t.Shape.Arg == terms.I1 && len(t.Shape.Params) > 0 {

@@ -17,10 +17,10 @@ import (
 
 // Exit codes shared by every subcommand.
 const (
-	exitOK         = 0
-	exitCheckFail  = 1
-	exitBadInput   = 2
-	exitInternalEr = 3
+	exitOK            = 0
+	exitCheckFail     = 1
+	exitBadInput      = 2
+	exitInternalError = 3
 )
 
 // inputError marks an error caused by the user's input (exit code 2).
@@ -89,7 +89,7 @@ func exitCode(err error) int {
 		// cobra's own usage errors are bad input too.
 		return exitBadInput
 	}
-	return exitInternalEr
+	return exitInternalError
 }
 
 func main() {

@@ -9,7 +9,7 @@ import (
 
 // runWeft runs the weft command tree in-process and returns stdout, stderr
 // and the exit code main would use.
-func runWeft(t *testing.T, args ...string) (string, string, int) {
+func runWeft(t testing.TB, args ...string) (string, string, int) {
 	t.Helper()
 	root := newRootCmd()
 	var out, errb bytes.Buffer

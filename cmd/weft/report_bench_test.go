@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"path/filepath"
 	"testing"
 )
@@ -11,29 +10,15 @@ import (
 // its output folder, as 'weft report DIR --force' does. Target: ≤ 1 s.
 func BenchmarkReport(b *testing.B) {
 	dir := filepath.Join(b.TempDir(), "m1.weft")
-	if _, stderr, code := runWeftB(b, "fit", filepath.Join("..", "..", "testdata", "demo", "membrane-M1.csv"), "-o", dir, "--quiet"); code != 0 {
+	if _, stderr, code := runWeft(b, "fit", filepath.Join("..", "..", "testdata", "demo", "membrane-M1.csv"), "-o", dir, "--quiet"); code != 0 {
 		b.Fatalf("weft fit: exit %d: %s", code, stderr)
 	}
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		if _, stderr, code := runWeftB(b, "report", dir, "--force"); code != 0 {
+		if _, stderr, code := runWeft(b, "report", dir, "--force"); code != 0 {
 			b.Fatalf("weft report: exit %d: %s", code, stderr)
 		}
 	}
 }
 
-// runWeftB runs the weft command tree in-process, like runWeft, for
-// benchmarks.
-func runWeftB(tb testing.TB, args ...string) (string, string, int) {
-	tb.Helper()
-	root := newRootCmd()
-	var out, errb bytes.Buffer
-	root.SetOut(&out)
-	root.SetErr(&errb)
-	root.SetArgs(args)
-	err := root.Execute()
-	if err != nil {
-		errb.WriteString("weft: " + err.Error() + "\n")
-	}
-	return out.String(), errb.String(), exitCode(err)
-}
+

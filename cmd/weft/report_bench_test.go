@@ -20,5 +20,3 @@ func BenchmarkReport(b *testing.B) {
 		}
 	}
 }
-
-

@@ -158,11 +158,7 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 			if err := g.Validate(); err != nil {
 				return badInputf("%v", err)
 			}
-			c, m, err := readCard(args[0])
-			if err != nil {
-				return err
-			}
-			dr, err := cardDataRange(c, args[0])
+			c, m, dr, err := readCardWithRange(args[0])
 			if err != nil {
 				return err
 			}

@@ -97,11 +97,7 @@ the tangent without them is printed.
 			if det := F[0]*F[3] - F[1]*F[2]; !(det > 0) {
 				return badInputf("det F = F11·F22 − F12·F21 = %g ≤ 0 would invert the material", det)
 			}
-			c, m, err := readCard(args[0])
-			if err != nil {
-				return err
-			}
-			dr, err := cardDataRange(c, args[0])
+			c, m, dr, err := readCardWithRange(args[0])
 			if err != nil {
 				return err
 			}

@@ -35,7 +35,7 @@ func parseNumbers(flag, s string, n int) ([]float64, error) {
 // none. A malformed section is bad input.
 func cardDataRange(c *card.Card, file string) (*card.DataRange, error) {
 	var dr card.DataRange
-	ok, err := c.GetExtra("data_range", &dr)
+	ok, err := c.GetExtra(card.KeyDataRange, &dr)
 	if err != nil {
 		return nil, badInputf("%s: $.data_range: %v; expected stretch_1, stretch_2 and shear as [min, max] pairs", file, err)
 	}
@@ -114,3 +114,17 @@ func familyNames(m *aniso.Model) []string {
 
 // fullFloat formats v with the fewest digits that read back to v.
 func fullFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// readCardWithRange reads a card, its model and its fitted data range (nil
+// when the card has none); problems are bad input.
+func readCardWithRange(path string) (*card.Card, *aniso.Model, *card.DataRange, error) {
+	c, m, err := readCard(path)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	dr, err := cardDataRange(c, path)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	return c, m, dr, nil
+}

@@ -33,6 +33,11 @@ type Dataset struct {
 	// tmat maps a Cauchy tensor (11, 22, 12) to the weighted output
 	// components of each point: nc×3 entries per point.
 	tmat []float64
+	// geom is each point's fibre-stretch geometry and pbase its planar
+	// stress bases B, F D_c Fᵀ, F D_s Fᵀ in the output measure, weighted:
+	// 3·nc entries per point (see planar.go).
+	geom  []planarGeom
+	pbase []float64
 }
 
 // famBases are one family's stress bases G4, G5 and their angle
@@ -75,6 +80,17 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 			for j := 0; j < nc; j++ {
 				d.tmat[(i*nc+j)*3+e] = v[j]
 			}
+		}
+	}
+	d.geom = make([]planarGeom, len(F))
+	d.pbase = make([]float64, 3*d.Rows())
+	for i := range d.kin {
+		k := &d.kin[i]
+		d.geom[i] = newPlanarGeom(&k.F)
+		b0, bc, bs := planarBases(&k.F)
+		for q, s := range [3]Sym{b0, bc, bs} {
+			v := d.convert(k, s, i*nc)
+			copy(d.pbase[3*i*nc+q*nc:], v[:nc])
 		}
 	}
 	d.b1 = make([]float64, d.Rows())
@@ -120,6 +136,10 @@ type Columns struct {
 	// fill their own Columns from one Dataset.
 	fk []FibreKinematics
 	fb []famBases
+	// rule, kinks and famTerms are scratch of planar families.
+	rule     planarRule
+	kinks    []float64
+	famTerms []int
 }
 
 // resize makes c hold rows×cols entries, reusing its buffers.
@@ -176,11 +196,19 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			}
 		}
 	}
+	for f := range m.Families {
+		if m.Families[f].Planar {
+			d.fillPlanar(m, f, c, derivs)
+		}
+	}
 	for t := range m.Terms {
 		if c.Skip != nil && c.Skip[t] {
 			continue
 		}
 		term := &m.Terms[t]
+		if term.Family >= 0 && m.Families[term.Family].Planar {
+			continue
+		}
 		col := c.A[t*rows : (t+1)*rows]
 		if !term.Shape.Arg.NeedsFamily() {
 			d.fillIsotropic(term, col, c, t*rows, derivs)

@@ -53,6 +53,7 @@ type paramKind int
 const (
 	kindAngle paramKind = iota // structural angle parameter (radians)
 	kindKappa                  // dispersion κ of one or both structural families
+	kindConcentration          // in-plane concentration b of one or both structural families
 	kindShape                  // a shape parameter of one design group
 )
 
@@ -151,11 +152,16 @@ func (e *engine) apply(theta []float64) {
 	}
 	for i, q := range e.params {
 		switch q.Kind {
-		case kindKappa:
+		case kindKappa, kindConcentration:
 			for f := range e.model.Families {
 				for _, sf := range q.Families {
-					if e.famOf[f] == sf {
+					if e.famOf[f] != sf {
+						continue
+					}
+					if q.Kind == kindKappa {
 						e.model.Families[f].Dispersion = theta[i]
+					} else {
+						e.model.Families[f].Concentration = theta[i]
 					}
 				}
 			}
@@ -292,7 +298,9 @@ func (e *engine) derivatives() {
 					}
 					c = angleCoef(e.layout, q.Angle, e.famOf[t.Family])
 					src = e.cols.DAngle
-				case kindKappa:
+				case kindKappa, kindConcentration:
+					// Both spreads' derivatives live in DKappa: a family has
+					// one or the other.
 					if t.Family < 0 || !containsInt(q.Families, e.famOf[t.Family]) {
 						continue
 					}

@@ -63,13 +63,25 @@ func (t TermSpec) Label(l Layout) string {
 	return fmt.Sprintf("%s@f%d", t.Shape.ID, t.Family+1)
 }
 
-// Structure is a model form to fit: its terms, fibre layout and whether
-// each family has a learned dispersion κ.
+// Structure is a model form to fit: its terms, fibre layout and how the
+// families spread about their mean direction.
 type Structure struct {
-	Terms      []TermSpec
-	Layout     Layout
+	Terms  []TermSpec
+	Layout Layout
+	// Dispersion gives each family a learned three-dimensional dispersion
+	// κ (Gasser, Ogden & Holzapfel 2006).
 	Dispersion bool
+	// Planar spreads each family's fibres in the plane with a learned von
+	// Mises concentration b (angular integration, see planar.go; a mirror
+	// pair shares one b). Only fibre-stretch terms (argument E_f) sit on
+	// such families. Dispersion and Planar exclude each other.
+	Planar bool
 }
+
+// planarStartConcentration is where a learned concentration b starts: the
+// density's standard deviation is then about 14°, between a wide spread
+// and an ideal family.
+const planarStartConcentration = 4
 
 // Validate checks that the terms fit the layout.
 func (s Structure) Validate() error {
@@ -99,8 +111,18 @@ func (s Structure) Validate() error {
 	if nf > 0 && !fibre {
 		return fmt.Errorf("%d fibre famil(ies) but no fibre term; add one such as fib-expsq", nf)
 	}
-	if s.Dispersion && nf == 0 {
+	if (s.Dispersion || s.Planar) && nf == 0 {
 		return errors.New("dispersion needs a fibre family")
+	}
+	if s.Dispersion && s.Planar {
+		return errors.New("a family spreads either in the plane (concentration b) or in three dimensions (κ), not both")
+	}
+	if s.Planar {
+		for _, t := range s.Terms {
+			if t.Family >= 0 && t.Shape.Arg != terms.Fibre {
+				return fmt.Errorf("%s: a family spread in the plane takes fibre-stretch terms only (argument E_f)", t.Shape.ID)
+			}
+		}
 	}
 	return nil
 }
@@ -281,7 +303,7 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	m := &Model{}
 	famOf := make([]int, nf)
 	for f := 0; f < nf; f++ {
-		m.Families = append(m.Families, Family{Name: fmt.Sprintf("f%d", f+1)})
+		m.Families = append(m.Families, Family{Name: fmt.Sprintf("f%d", f+1), Planar: st.Planar, Concentration: planarStartConcentration})
 		famOf[f] = f
 	}
 	var groups [][]int
@@ -311,6 +333,17 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	case LayoutFree:
 		ps = append(ps, param{Kind: kindAngle, Name: "angle_1", Angle: 0, Periodic: true},
 			param{Kind: kindAngle, Name: "angle_2", Angle: 1, Periodic: true})
+	}
+	if st.Planar {
+		switch st.Layout {
+		case LayoutSingle:
+			ps = append(ps, param{Kind: kindConcentration, Name: "concentration", Families: []int{0}, Hi: FitMaxConcentration})
+		case LayoutMirror:
+			ps = append(ps, param{Kind: kindConcentration, Name: "concentration", Families: []int{0, 1}, Hi: FitMaxConcentration})
+		case LayoutFree:
+			ps = append(ps, param{Kind: kindConcentration, Name: "concentration_1", Families: []int{0}, Hi: FitMaxConcentration},
+				param{Kind: kindConcentration, Name: "concentration_2", Families: []int{1}, Hi: FitMaxConcentration})
+		}
 	}
 	if st.Dispersion {
 		switch st.Layout {
@@ -454,8 +487,11 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	if set.Init != nil {
 		th := make([]float64, len(params))
 		for i, q := range params {
-			if q.Kind == kindShape {
+			switch q.Kind {
+			case kindShape:
 				th[i] = st.Terms[q.Group].Shape.Params[q.Index].Default
+			case kindConcentration:
+				th[i] = planarStartConcentration
 			}
 			if v, ok := set.Init[q.Name]; ok {
 				th[i] = q.project(v)
@@ -630,6 +666,10 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 				k++
 			case kindKappa:
 				th[i] = dominantKappa(de, entries, st, q.Families)
+			case kindConcentration:
+				// The scan uses ideal families (an angular integration per
+				// scan point would cost more than the whole fit).
+				th[i] = planarStartConcentration
 			case kindShape:
 				th[i] = dominantParam(de, entries, q)
 			}

@@ -21,6 +21,14 @@ type Family struct {
 	// Dispersion is κ ∈ [0, 1/3] (Gasser, Ogden & Holzapfel 2006); 0 is a
 	// perfectly aligned family.
 	Dispersion float64
+	// Planar is true when the family's fibres spread over the plane with a
+	// von Mises density in 2θ about Angle of concentration Concentration,
+	// each direction switched on and off by its own stretch (see planar.go);
+	// Dispersion must then be 0.
+	Planar bool
+	// Concentration is b ∈ [0, MaxConcentration] of a planar family
+	// (dimensionless; 0: fibres in every in-plane direction alike).
+	Concentration float64
 }
 
 // Term is one weighted energy term w·f(x).
@@ -54,6 +62,14 @@ func (m *Model) Validate() error {
 		if !(f.Dispersion >= 0 && f.Dispersion <= MaxDispersion) {
 			return fmt.Errorf("family %d (%s): dispersion %g is outside [0, 1/3]", i, f.Name, f.Dispersion)
 		}
+		if f.Planar {
+			if f.Dispersion != 0 {
+				return fmt.Errorf("family %d (%s): a family spread in the plane takes a concentration, not a dispersion κ", i, f.Name)
+			}
+			if !(f.Concentration >= 0 && f.Concentration <= MaxConcentration) {
+				return fmt.Errorf("family %d (%s): concentration %g is outside [0, %g]", i, f.Name, f.Concentration, float64(MaxConcentration))
+			}
+		}
 	}
 	for i, t := range m.Terms {
 		if t.Shape == nil {
@@ -65,6 +81,9 @@ func (m *Model) Validate() error {
 			}
 		} else if t.Family != -1 {
 			return fmt.Errorf("term %d (%s): isotropic terms take no family", i, t.Shape.ID)
+		}
+		if t.Family >= 0 && m.Families[t.Family].Planar && t.Shape.Arg != terms.Fibre {
+			return fmt.Errorf("term %d (%s): a family spread in the plane takes fibre-stretch terms only (argument E_f), not %s", i, t.Shape.ID, t.Shape.Arg)
 		}
 		if !(t.Weight >= 0) || math.IsInf(t.Weight, 0) {
 			return fmt.Errorf("term %d (%s): weight %g must be a finite number ≥ 0", i, t.Shape.ID, t.Weight)
@@ -189,10 +208,16 @@ func (m *Model) Evaluate(F [4]float64) (Response, error) {
 		return Response{}, err
 	}
 	fks := make([]FibreKinematics, len(m.Families))
+	rules := make([]*planarRule, len(m.Families))
 	r := Response{TermCauchy: make([]Sym, len(m.Terms)), TermEnergy: make([]float64, len(m.Terms)), I4: make([]float64, len(m.Families))}
 	for i, f := range m.Families {
 		fks[i] = k.Fibre(f.Angle)
 		r.I4[i] = fks[i].I4
+		if f.Planar {
+			g := newPlanarGeom(&k.F)
+			rules[i] = &planarRule{}
+			rules[i].build(&g, f.Angle, f.Concentration, familyKinks(m, i, nil), familySteepness(m, i, &g))
+		}
 	}
 	for i, t := range m.Terms {
 		var fk *FibreKinematics
@@ -201,7 +226,13 @@ func (m *Model) Evaluate(F [4]float64) (Response, error) {
 			fk = &fks[t.Family]
 			kappa = m.Families[t.Family].Dispersion
 		}
-		col, psi := termStress(t.Shape, t.Params, kappa, &k, fk)
+		var col Sym
+		var psi float64
+		if t.Family >= 0 && rules[t.Family] != nil {
+			col, psi = planarStress(rules[t.Family], &t, &k)
+		} else {
+			col, psi = termStress(t.Shape, t.Params, kappa, &k, fk)
+		}
 		c := mulSym(t.Weight, col)
 		r.TermCauchy[i] = c
 		if t.Weight != 0 {

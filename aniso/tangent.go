@@ -233,9 +233,27 @@ func (m *Model) Tangent(F [4]float64) (Tangent, error) {
 		fams[i].I4, fams[i].I5, fams[i].K = q.fibreJets(f.Angle)
 	}
 	t := Tangent{F: F}
+	var rules []*planarRule
 	for i := range m.Terms {
 		term := &m.Terms[i]
 		if term.Weight == 0 {
+			continue
+		}
+		if term.Family >= 0 && m.Families[term.Family].Planar {
+			if rules == nil {
+				rules = make([]*planarRule, len(m.Families))
+			}
+			r := rules[term.Family]
+			if r == nil {
+				fm := &m.Families[term.Family]
+				g := newPlanarGeom(&F)
+				r = &planarRule{}
+				r.build(&g, fm.Angle, fm.Concentration, familyKinks(m, term.Family, nil), familySteepness(m, term.Family, &g))
+				rules[term.Family] = r
+			}
+			if err := t.addPlanar(r, term, &q); err != nil {
+				return t, fmt.Errorf("term #%d (%s, counting from 1): %w", i+1, term.Shape.ID, err)
+			}
 			continue
 		}
 		kappa := 0.0

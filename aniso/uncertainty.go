@@ -55,6 +55,8 @@ func (r *Result) uncertainty(p *Problem) {
 			}
 		case kindKappa:
 			est.Kind = "dispersion"
+		case kindConcentration:
+			est.Kind = "concentration"
 		case kindShape:
 			est.Kind, est.Term = "shape", q.Group
 		}
@@ -65,7 +67,7 @@ func (r *Result) uncertainty(p *Problem) {
 		if q.Kind == kindShape && e.w[q.Group] <= 0 {
 			est.Status = "inactive"
 		}
-		if q.Kind == kindAngle || q.Kind == kindKappa {
+		if q.Kind == kindAngle || q.Kind == kindKappa || q.Kind == kindConcentration {
 			if !r.anyFibreActive() {
 				est.Status = "not-determined"
 			}

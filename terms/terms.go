@@ -120,6 +120,8 @@ type Shape struct {
 	slope func(x float64, p []float64) float64
 	// dD1 returns ∂f′/∂p_j.
 	dD1 func(x float64, p []float64) [MaxParams]float64
+	// kinks returns where f′ or f″ is not smooth; nil means nowhere.
+	kinks func(p []float64) ([2]float64, int)
 }
 
 // Eval returns f, f′ and f″ at x with parameters p (len(p) == len(s.Params)).
@@ -182,6 +184,16 @@ func (s *Shape) CheckParams(p []float64) error {
 		}
 	}
 	return nil
+}
+
+// Kinks returns the arguments x > 0 at which the shape's f′ or f″ is not
+// smooth (at most two), for quadratures that must not straddle them; n is
+// how many there are.
+func (s *Shape) Kinks(p []float64) (k [2]float64, n int) {
+	if s.kinks == nil {
+		return k, 0
+	}
+	return s.kinks(p)
 }
 
 // MaxParams is the largest number of non-linear parameters of any shape.

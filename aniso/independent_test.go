@@ -1,0 +1,274 @@
+package aniso
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"github.com/weft-tools/weft/biaxial"
+)
+
+// Materials written here from their defining formulas, by code that shares
+// nothing with the catalogue's evaluation (no terms shapes, no planar
+// quadrature, no Model.Evaluate): the data that test discovery and fitting
+// on specimens the catalogue did not produce.
+
+// material returns the in-plane Cauchy stress (σ11, σ22, σ12) of a thin
+// incompressible specimen in plane stress at F = (F11, F12, F21, F22).
+type material func(F [4]float64) [3]float64
+
+// fibreLaw is the nominal stress along one fibre at fibre stretch λ
+// (force per reference area of fibre), zero while λ ≤ 1.
+type fibreLaw func(lambda float64) float64
+
+// expSqFibre is the fibre of Holzapfel, Gasser & Ogden 2000 with energy
+// k1/(2k2)(exp(k2(λ² − 1)²) − 1): its nominal fibre stress is
+// dψ/dλ = 2λ k1 (λ² − 1) exp(k2(λ² − 1)²).
+func expSqFibre(k1, k2 float64) fibreLaw {
+	return func(l float64) float64 {
+		if l <= 1 {
+			return 0
+		}
+		e := l*l - 1
+		return 2 * l * k1 * e * math.Exp(k2*e*e)
+	}
+}
+
+// recruitedFibre is a bundle whose fibres straighten at stretches spread
+// uniformly over [onset, onset + spread], each linear once straight with
+// nominal stress E(λ/λs − 1) (Lanir 1983, J Biomech 16:1–12), integrated
+// over λs by the midpoint rule with 400 points.
+func recruitedFibre(E, onset, spread float64) fibreLaw {
+	const n = 400
+	return func(l float64) float64 {
+		if spread == 0 {
+			return math.Max(0, E*(l/onset-1))
+		}
+		s := 0.0
+		for i := 0; i < n; i++ {
+			ls := onset + spread*(float64(i)+0.5)/n
+			if l > ls {
+				s += E * (l/ls - 1)
+			}
+		}
+		return s / n
+	}
+}
+
+// spreadFamily is a fibre family spread in the plane with a von Mises
+// density in 2θ of concentration b about alpha (radians); b < 0 means an
+// ideal family. Its stress is integrated over θ by the midpoint rule with
+// 3600 directions, the density normalised by the same sum.
+type spreadFamily struct {
+	alpha, b float64
+	law      fibreLaw
+}
+
+func (f spreadFamily) cauchy(F [4]float64) [3]float64 {
+	dirs := []float64{f.alpha}
+	wts := []float64{1}
+	if f.b >= 0 {
+		const n = 3600
+		dirs, wts = make([]float64, n), make([]float64, n)
+		z := 0.0
+		for i := range dirs {
+			th := f.alpha - math.Pi/2 + math.Pi*(float64(i)+0.5)/n
+			dirs[i] = th
+			wts[i] = math.Exp(f.b * (math.Cos(2*(th-f.alpha)) - 1))
+			z += wts[i]
+		}
+		for i := range wts {
+			wts[i] /= z
+		}
+	}
+	var s [3]float64
+	for i, th := range dirs {
+		sn, cs := math.Sincos(th)
+		a := [2]float64{F[0]*cs + F[1]*sn, F[2]*cs + F[3]*sn}
+		l := math.Hypot(a[0], a[1])
+		if l <= 1 {
+			continue
+		}
+		// σ = λ ψ′(λ) n⊗n with n = a/λ (J = 1).
+		c := wts[i] * f.law(l) / l
+		s[0] += c * a[0] * a[0]
+		s[1] += c * a[1] * a[1]
+		s[2] += c * a[0] * a[1]
+	}
+	return s
+}
+
+// neoHookeanMatrix is σ = 2 C10 (B − B33 1) in plane stress (Treloar 1943;
+// common practice).
+func neoHookeanMatrix(c10 float64, F [4]float64) [3]float64 {
+	b11 := F[0]*F[0] + F[1]*F[1]
+	b22 := F[2]*F[2] + F[3]*F[3]
+	b12 := F[0]*F[2] + F[1]*F[3]
+	j := F[0]*F[3] - F[1]*F[2]
+	b33 := 1 / (j * j)
+	return [3]float64{2 * c10 * (b11 - b33), 2 * c10 * (b22 - b33), 2 * c10 * b12}
+}
+
+// fibreMaterial is a neo-Hookean matrix with spread fibre families.
+func fibreMaterial(c10 float64, fams ...spreadFamily) material {
+	return func(F [4]float64) [3]float64 {
+		s := neoHookeanMatrix(c10, F)
+		for _, f := range fams {
+			c := f.cauchy(F)
+			for j := range s {
+				s[j] += c[j]
+			}
+		}
+		return s
+	}
+}
+
+// ogdenMaterial is the one-term incompressible solid of Ogden 1972 with
+// energy μ(2/α²)(λ1^α + λ2^α + λ3^α − 3), its principal stretches taken
+// from a full 3×3 eigen-decomposition of B by gonum (a general-purpose
+// library): σ = Σ (2μ/α)(λi^α − λ3^α) ni⊗ni over the in-plane directions,
+// the pressure fixed by σ33 = 0.
+func ogdenMaterial(mu, alpha float64) material {
+	return func(F [4]float64) [3]float64 {
+		j := F[0]*F[3] - F[1]*F[2]
+		B := mat.NewSymDense(3, []float64{
+			F[0]*F[0] + F[1]*F[1], F[0]*F[2] + F[1]*F[3], 0,
+			F[0]*F[2] + F[1]*F[3], F[2]*F[2] + F[3]*F[3], 0,
+			0, 0, 1 / (j * j),
+		})
+		var eig mat.EigenSym
+		if !eig.Factorize(B, true) {
+			panic("eigen-decomposition failed")
+		}
+		vals := eig.Values(nil)
+		var vecs mat.Dense
+		eig.VectorsTo(&vecs)
+		p := 2 * mu / alpha * math.Pow(1/(j*j), alpha/2)
+		var s [3]float64
+		for i, v := range vals {
+			n := [3]float64{vecs.At(0, i), vecs.At(1, i), vecs.At(2, i)}
+			if math.Abs(n[2]) > 0.5 {
+				continue // the thickness direction
+			}
+			c := 2*mu/alpha*math.Pow(v, alpha/2) - p
+			s[0] += c * n[0] * n[0]
+			s[1] += c * n[1] * n[1]
+			s[2] += c * n[0] * n[1]
+		}
+		return s
+	}
+}
+
+// nominalOf returns (P11, P22, P12, P21) = σ F⁻ᵀ of a material.
+func nominalOf(m material, F [4]float64) [4]float64 {
+	s := m(F)
+	j := F[0]*F[3] - F[1]*F[2]
+	// F⁻ᵀ = [[F22, −F21], [−F12, F11]] / J.
+	it := [2][2]float64{{F[3] / j, -F[2] / j}, {-F[1] / j, F[0] / j}}
+	sg := [2][2]float64{{s[0], s[2]}, {s[2], s[1]}}
+	var P [2][2]float64
+	for a := 0; a < 2; a++ {
+		for b := 0; b < 2; b++ {
+			for k := 0; k < 2; k++ {
+				P[a][b] += sg[a][k] * it[k][b]
+			}
+		}
+	}
+	return [4]float64{P[0][0], P[1][1], P[0][1], P[1][0]}
+}
+
+// suturedShear finds F12, F21 with P12 = P21 = 0 at the given normal
+// stretches (a specimen on sutures shears freely), by Newton's method with
+// a finite-difference Jacobian.
+func suturedShear(t testing.TB, m material, l1, l2 float64, start [2]float64) [2]float64 {
+	x := start
+	res := func(x [2]float64) [2]float64 {
+		P := nominalOf(m, [4]float64{l1, x[0], x[1], l2})
+		return [2]float64{P[2], P[3]}
+	}
+	for it := 0; it < 100; it++ {
+		r := res(x)
+		scale := math.Abs(nominalOf(m, [4]float64{l1, x[0], x[1], l2})[0]) + 1e-12
+		if math.Hypot(r[0], r[1]) < 1e-11*scale {
+			return x
+		}
+		const h = 1e-7
+		var J [2][2]float64
+		for k := 0; k < 2; k++ {
+			xp, xm := x, x
+			xp[k] += h
+			xm[k] -= h
+			rp, rm := res(xp), res(xm)
+			J[0][k] = (rp[0] - rm[0]) / (2 * h)
+			J[1][k] = (rp[1] - rm[1]) / (2 * h)
+		}
+		det := J[0][0]*J[1][1] - J[0][1]*J[1][0]
+		if det == 0 {
+			break
+		}
+		d0 := (J[1][1]*r[0] - J[0][1]*r[1]) / det
+		d1 := (-J[1][0]*r[0] + J[0][0]*r[1]) / det
+		x[0] -= d0
+		x[1] -= d1
+	}
+	t.Fatalf("sutured shear did not converge at λ = (%g, %g)", l1, l2)
+	return x
+}
+
+// synthFrom generates a specimen from an independent material, with the
+// protocols, noise and mounting of o (see synthSpecimen).
+func synthFrom(t testing.TB, m material, o synthOptions) *biaxial.Specimen {
+	t.Helper()
+	o = o.withDefaults()
+	rng := rand.New(rand.NewPCG(o.seed, 99))
+	s := &biaxial.Specimen{Name: "independent", StressUnit: "kPa", Kind: biaxial.Nominal, HasShear: o.sutured}
+	s.Measured[biaxial.C11], s.Measured[biaxial.C22] = true, true
+	if o.sutured {
+		s.Measured[biaxial.C12], s.Measured[biaxial.C21] = true, true
+	}
+	for _, r := range o.ratios {
+		pr := biaxial.Protocol{Label: label(r), UserWeight: 1}
+		var shear [2]float64
+		for i := 1; i <= o.points; i++ {
+			e := o.maxStrain * float64(i) / float64(o.points)
+			F := [4]float64{1 + r[0]*e, 0, 0, 1 + r[1]*e}
+			if o.sutured {
+				shear = suturedShear(t, m, F[0], F[3], shear)
+				F[1], F[2] = shear[0], shear[1]
+			}
+			P := nominalOf(m, F)
+			if o.sutured {
+				P[2], P[3] = 0, 0 // sutures carry no shear
+			}
+			pr.Points = append(pr.Points, biaxial.Point{F: F, Stress: P, Line: i + 1, Cycle: 1, Time: math.NaN()})
+		}
+		addNoiseRand(&pr, o.noise, rng, s.Measured)
+		s.Protocols = append(s.Protocols, pr)
+	}
+	return s
+}
+
+// The independent materials agree with the catalogue's evaluation where
+// both describe the same material: an ideal exponential fibre family, and
+// a planar family evaluated by the quadrature of planar.go.
+func TestIndependentMaterialsAgree(t *testing.T) {
+	F := [4]float64{1.2, 0.04, -0.03, 1.1}
+	m := &Model{Families: []Family{{Angle: 0.5, Planar: true, Concentration: 3}, {Angle: -0.7}},
+		Terms: []Term{
+			{Shape: lookup("i1-lin"), Family: -1, Weight: 5},
+			{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{3}},
+			{Shape: lookup("fib-expsq"), Family: 1, Weight: 7, Params: []float64{1.5}},
+		}}
+	r, err := m.Evaluate(F)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ind := fibreMaterial(5, spreadFamily{0.5, 3, expSqFibre(20, 3)}, spreadFamily{-0.7, -1, expSqFibre(7, 1.5)})(F)
+	for j := range ind {
+		if !near(ind[j], r.Cauchy[j], 1e-6) {
+			t.Errorf("σ[%d]: independent %.10g, catalogue %.10g", j, ind[j], r.Cauchy[j])
+		}
+	}
+}

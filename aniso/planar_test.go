@@ -1,0 +1,481 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"testing"
+
+	"gonum.org/v1/gonum/integrate/quad"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+// planarRef integrates a planar family's Cauchy stress and energy per unit
+// weight by brute force, independently of planar.go: the stretched ranges
+// of θ are found by scanning I4(θ) − 1 = a0(θ)·C a0(θ) − 1 for sign changes
+// and bisecting, each range is integrated with gonum's fixed-order
+// Gauss–Legendre rule (a general-purpose library) at n points in all, and
+// the density is normalised by integrating exp(b cos 2θ) over the period
+// with the same rule instead of a Bessel function.
+func planarRef(F [4]float64, alpha, b float64, sh *terms.Shape, p []float64, n int) (Sym, float64) {
+	C := [3]float64{F[0]*F[0] + F[2]*F[2], F[1]*F[1] + F[3]*F[3], F[0]*F[1] + F[2]*F[3]}
+	x := func(th float64) float64 {
+		s, c := math.Sincos(th)
+		return C[0]*c*c + 2*C[2]*c*s + C[1]*s*s - 1
+	}
+	lo, hi := alpha-math.Pi/2, alpha+math.Pi/2
+	z := quad.Fixed(func(th float64) float64 { return math.Exp(b * (math.Cos(2*(th-alpha)) - 1)) }, lo, hi, n, quad.Legendre{}, 0)
+	// Sign changes of x on a fine grid, refined by bisection.
+	const scan = 4000
+	cuts := []float64{lo}
+	for i := 0; i < scan; i++ {
+		a, c := lo+(hi-lo)*float64(i)/scan, lo+(hi-lo)*float64(i+1)/scan
+		if (x(a) > 0) != (x(c) > 0) {
+			for k := 0; k < 200 && c-a > 1e-16; k++ {
+				m := (a + c) / 2
+				if (x(m) > 0) == (x(a) > 0) {
+					a = m
+				} else {
+					c = m
+				}
+			}
+			cuts = append(cuts, (a+c)/2)
+		}
+	}
+	cuts = append(cuts, hi)
+	var s Sym
+	energy := 0.0
+	per := n / (len(cuts) - 1)
+	for k := 0; k+1 < len(cuts); k++ {
+		a, c := cuts[k], cuts[k+1]
+		if !(x((a+c)/2) > 0) {
+			continue
+		}
+		for comp := 0; comp < 4; comp++ {
+			comp := comp
+			v := quad.Fixed(func(th float64) float64 {
+				e := x(th)
+				if !(e > 0) {
+					return 0
+				}
+				rho := math.Exp(b*(math.Cos(2*(th-alpha))-1)) / z
+				val := sh.Eval(e, p)
+				if comp == 3 {
+					return rho * val.F
+				}
+				sn, cs := math.Sincos(th)
+				av := [2]float64{F[0]*cs + F[1]*sn, F[2]*cs + F[3]*sn}
+				g := [3]float64{2 * av[0] * av[0], 2 * av[1] * av[1], 2 * av[0] * av[1]}
+				return rho * val.D1 * g[comp]
+			}, a, c, per, quad.Legendre{}, 0)
+			if comp == 3 {
+				energy += v
+			} else {
+				s[comp] += v
+			}
+		}
+	}
+	return s, energy
+}
+
+// planarScale is the scale errors are measured against: the largest
+// stress component, but at least 1e-12 of the stress that the whole family
+// would carry along the most stretched direction (a family whose fibres
+// all lie in compressed directions carries almost nothing, and relative
+// error means nothing there).
+func planarScale(F [4]float64, sh *terms.Shape, p []float64, ref Sym) float64 {
+	g := newPlanarGeom(&F)
+	s := math.Max(math.Abs(ref[0]), math.Max(math.Abs(ref[1]), math.Abs(ref[2])))
+	if x := g.A0 + g.R; x > 0 {
+		b0, _, _ := planarBases(&F)
+		s = math.Max(s, 1e-12*sh.Eval(x, p).D1*(b0[0]+b0[1]))
+	}
+	if s == 0 {
+		s = 1
+	}
+	return s
+}
+
+var planarCases = [][4]float64{
+	{1.2, 0, 0, 1.1},       // equibiaxial-like: every direction stretched
+	{1.25, 0, 0, 0.93},     // partly compressed
+	{1.18, 0.09, -0.04, 1}, // sheared
+	{0.97, 0.05, 0.12, 1.15},
+	{1.02, 0, 0, 0.995}, // barely stretched
+}
+
+// The quadrature of planar.go against a 20 000-point brute-force reference
+// (target ≤ 1e-8 relative to the largest stress component).
+func TestPlanarQuadratureAccuracy(t *testing.T) {
+	shapes := []struct {
+		id string
+		p  []float64
+	}{{"fib-quad", nil}, {"fib-expsq", []float64{5}}, {"fib-exp", []float64{8}}, {"fib-expsq", []float64{40}}}
+	for _, F := range planarCases {
+		for _, b := range []float64{0, 0.5, 2, 6, 25, 120, 1000} {
+			for _, alpha := range []float64{0.3, -1.1, 1.5} {
+				for _, s := range shapes {
+					sh := terms.Lookup(s.id)
+					p := s.p
+					if p == nil {
+						p = sh.DefaultParams()
+					}
+					m := &Model{Families: []Family{{Angle: alpha, Planar: true, Concentration: b}},
+						Terms: []Term{{Shape: sh, Family: 0, Weight: 1, Params: p}}}
+					r, err := m.Evaluate(F)
+					if err != nil {
+						t.Fatal(err)
+					}
+					ref, eref := planarRef(F, alpha, b, sh, p, 20000)
+					scale := planarScale(F, sh, p, ref)
+					for j := range ref {
+						if d := math.Abs(r.Cauchy[j] - ref[j]); d > 1e-8*scale {
+							t.Errorf("F=%v b=%g α=%g %s%v: σ[%d] = %.12g, reference %.12g (rel %.2g)", F, b, alpha, s.id, p, j, r.Cauchy[j], ref[j], d/scale)
+						}
+					}
+					if d := math.Abs(r.Energy - eref); d > 1e-8*math.Max(math.Abs(eref), 1e-300) && d > 1e-14 {
+						t.Errorf("F=%v b=%g α=%g %s: energy %.12g, reference %.12g", F, b, alpha, s.id, r.Energy, eref)
+					}
+				}
+			}
+		}
+	}
+}
+
+// b = 0 with the quadratic shape f = x²: the in-plane isotropic average in
+// closed form, derived here from I4(θ) − 1 = A0 + R cos u on the stretched
+// arc |u| < h, u = 2θ − φ, ρ = 1/π, dθ = du/2:
+//
+//	M0 = (2A0h + 2R sin h)/π,
+//	(Mc, Ms) = (cos φ, sin φ)·(2A0 sin h + R(h + sin h cos h))/π,
+//	Ψ = (2A0²h + 4A0R sin h + R²(h + sin h cos h))/(2π),
+//
+// with σ = F(M0 1 + Mc D_c + Ms D_s)Fᵀ.
+func TestPlanarIsotropicClosedForm(t *testing.T) {
+	sh := terms.Lookup("fib-quad")
+	for _, F := range planarCases {
+		C := [3]float64{F[0]*F[0] + F[2]*F[2], F[1]*F[1] + F[3]*F[3], F[0]*F[1] + F[2]*F[3]}
+		A0 := (C[0]+C[1])/2 - 1
+		rc, rs := (C[0]-C[1])/2, C[2]
+		R := math.Hypot(rc, rs)
+		phi := math.Atan2(rs, rc)
+		h := math.Pi
+		if A0 < R {
+			h = math.Acos(-A0 / R)
+		}
+		M0 := (2*A0*h + 2*R*math.Sin(h)) / math.Pi
+		q := (2*A0*math.Sin(h) + R*(h+math.Sin(h)*math.Cos(h))) / math.Pi
+		Mc, Ms := math.Cos(phi)*q, math.Sin(phi)*q
+		psi := (2*A0*A0*h + 4*A0*R*math.Sin(h) + R*R*(h+math.Sin(h)*math.Cos(h))) / (2 * math.Pi)
+		// F M Fᵀ with M = [[M0+Mc, Ms], [Ms, M0−Mc]].
+		M := [2][2]float64{{M0 + Mc, Ms}, {Ms, M0 - Mc}}
+		Fm := [2][2]float64{{F[0], F[1]}, {F[2], F[3]}}
+		var want [2][2]float64
+		for i := 0; i < 2; i++ {
+			for j := 0; j < 2; j++ {
+				for k := 0; k < 2; k++ {
+					for l := 0; l < 2; l++ {
+						want[i][j] += Fm[i][k] * M[k][l] * Fm[j][l]
+					}
+				}
+			}
+		}
+		for _, alpha := range []float64{0, 0.7, -1.3} {
+			m := &Model{Families: []Family{{Angle: alpha, Planar: true}},
+				Terms: []Term{{Shape: sh, Family: 0, Weight: 1}}}
+			r, err := m.Evaluate(F)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := [3]float64{r.Cauchy[0], r.Cauchy[1], r.Cauchy[2]}
+			exp := [3]float64{want[0][0], want[1][1], want[0][1]}
+			for j := range got {
+				if !near(got[j], exp[j], 1e-12) {
+					t.Errorf("F=%v α=%g: σ[%d] = %.15g, closed form %.15g", F, alpha, j, got[j], exp[j])
+				}
+			}
+			if !near(r.Energy, psi, 1e-12) {
+				t.Errorf("F=%v: energy %.15g, closed form %.15g", F, r.Energy, psi)
+			}
+		}
+	}
+}
+
+// A very concentrated planar family approaches the ideal family, with an
+// error that falls like 1/b (the density's variance).
+func TestPlanarIdealLimit(t *testing.T) {
+	sh := terms.Lookup("fib-expsq")
+	F := [4]float64{1.2, 0.05, -0.02, 1.08}
+	ideal := &Model{Families: []Family{{Angle: 0.5}}, Terms: []Term{{Shape: sh, Family: 0, Weight: 1, Params: []float64{3}}}}
+	ri, _ := ideal.Evaluate(F)
+	relErr := func(b float64) float64 {
+		m := &Model{Families: []Family{{Angle: 0.5, Planar: true, Concentration: b}}, Terms: ideal.Terms}
+		r, err := m.Evaluate(F)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return math.Abs(r.Cauchy[0]-ri.Cauchy[0]) / math.Abs(ri.Cauchy[0])
+	}
+	e3, e4 := relErr(1e3), relErr(1e4)
+	if e4 > 1e-3 || e3/e4 < 8 || e3/e4 > 12 {
+		t.Errorf("relative error %.3g at b = 1e3 and %.3g at b = 1e4; want < 1e-3 and a ratio near 10", e3, e4)
+	}
+}
+
+// Rotating the mean fibre direction and the loading frame together leaves
+// the energy unchanged (frame indifference and material symmetry; common
+// practice): Ψ(Q F Qᵀ; α + ψ) = Ψ(F; α).
+func TestPlanarRotationInvariance(t *testing.T) {
+	sh := terms.Lookup("fib-expsq")
+	for _, F := range planarCases {
+		for _, psi := range []float64{0.4, -1.2, 2.9} {
+			s, c := math.Sincos(psi)
+			Q := [2][2]float64{{c, -s}, {s, c}}
+			Fm := [2][2]float64{{F[0], F[1]}, {F[2], F[3]}}
+			var R [2][2]float64
+			for i := 0; i < 2; i++ {
+				for j := 0; j < 2; j++ {
+					for k := 0; k < 2; k++ {
+						for l := 0; l < 2; l++ {
+							R[i][j] += Q[i][k] * Fm[k][l] * Q[j][l]
+						}
+					}
+				}
+			}
+			Fr := [4]float64{R[0][0], R[0][1], R[1][0], R[1][1]}
+			for _, b := range []float64{0, 3, 60} {
+				m := func(a float64) *Model {
+					return &Model{Families: []Family{{Angle: a, Planar: true, Concentration: b}},
+						Terms: []Term{{Shape: sh, Family: 0, Weight: 2, Params: []float64{4}}}}
+				}
+				r0, _ := m(0.3).Evaluate(F)
+				r1, _ := m(0.3 + psi).Evaluate(Fr)
+				if !near(r0.Energy, r1.Energy, 1e-10) {
+					t.Errorf("F=%v ψ=%g b=%g: energy %.15g, rotated %.15g", F, psi, b, r0.Energy, r1.Energy)
+				}
+			}
+		}
+	}
+}
+
+// No stress and no energy in the reference state, for every fibre shape.
+func TestPlanarStressFreeReference(t *testing.T) {
+	for _, sh := range terms.Catalogue() {
+		if sh.Arg != terms.Fibre {
+			continue
+		}
+		m := &Model{Families: []Family{{Angle: 0.2, Planar: true, Concentration: 2}},
+			Terms: []Term{{Shape: sh, Family: 0, Weight: 5, Params: sh.DefaultParams()}}}
+		r, err := m.Evaluate([4]float64{1, 0, 0, 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.Energy != 0 || r.Cauchy != (Sym{}) {
+			t.Errorf("%s: reference state has σ = %v, Ψ = %g", sh.ID, r.Cauchy, r.Energy)
+		}
+	}
+}
+
+// planarModel has a planar family with two fibre terms and an ideal one.
+func planarModel() *Model {
+	return &Model{
+		Families: []Family{{Name: "f1", Angle: 0.6, Planar: true, Concentration: 2.5}, {Name: "f2", Angle: -0.9}},
+		Terms: []Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 4, Params: []float64{2.2}},
+			{Shape: terms.Lookup("fib-exp"), Family: 0, Weight: 1.5, Params: []float64{3}},
+			{Shape: terms.Lookup("fib-quad"), Family: 1, Weight: 2},
+		},
+	}
+}
+
+// Column derivatives of a planar family (angle, concentration, shape
+// parameters) against central finite differences.
+func TestPlanarColumnDerivatives(t *testing.T) {
+	for _, nominal := range []bool{false, true} {
+		d := testDataset(t, nominal)
+		m := planarModel()
+		var c Columns
+		d.Fill(m, &c, true)
+		check := func(name string, analytic []float64, perturb func(m *Model, h float64), h float64) {
+			var cp, cm Columns
+			mp, mm := cloneModel(m), cloneModel(m)
+			perturb(mp, h)
+			perturb(mm, -h)
+			d.Fill(mp, &cp, false)
+			d.Fill(mm, &cm, false)
+			for k := 0; k < c.Cols; k++ {
+				for r := 0; r < c.Rows; r++ {
+					fd := (cp.A[k*c.Rows+r] - cm.A[k*c.Rows+r]) / (2 * h)
+					an := analytic[k*c.Rows+r]
+					if math.Abs(fd-an) > 1e-6*math.Max(1, math.Abs(an)) {
+						t.Errorf("nominal=%v %s, term %d row %d: analytic %.10g, finite difference %.10g", nominal, name, k, r, an, fd)
+						return
+					}
+				}
+			}
+		}
+		check("angle", maskFamily(m, &c, c.DAngle, 0), func(m *Model, h float64) { m.Families[0].Angle += h }, 1e-6)
+		check("concentration", maskFamily(m, &c, c.DKappa, 0), func(m *Model, h float64) { m.Families[0].Concentration += h }, 1e-6)
+		for k := 1; k <= 2; k++ {
+			k := k
+			only := make([]float64, len(c.A))
+			copy(only[k*c.Rows:(k+1)*c.Rows], c.DParam[0][k*c.Rows:(k+1)*c.Rows])
+			check(fmt.Sprint("param of term ", k), only, func(m *Model, h float64) { m.Terms[k].Params[0] += h }, 1e-6)
+		}
+	}
+}
+
+// Columns of a planar model times weights reproduce Evaluate.
+func TestPlanarColumnsMatchEvaluate(t *testing.T) {
+	F := planarCases
+	d, err := NewDataset(F, Output{Nominal: true, Components: []Component{0, 1, 2, 3}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := planarModel()
+	var c Columns
+	d.Fill(m, &c, false)
+	for i, f := range F {
+		r, err := m.Evaluate(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j := 0; j < 4; j++ {
+			s := 0.0
+			for k, term := range m.Terms {
+				s += term.Weight * c.A[k*c.Rows+i*4+j]
+			}
+			if !near(s, r.Nominal[j], 1e-12) {
+				t.Errorf("point %d component %d: Σ w·column = %g, Evaluate %g", i, j, s, r.Nominal[j])
+			}
+		}
+	}
+}
+
+// The tangent of a planar family against central differences of the
+// nominal stress, and its stress against Evaluate.
+func TestPlanarTangentFiniteDifference(t *testing.T) {
+	m := planarModel()
+	for _, F := range planarCases {
+		tg, err := m.Tangent(F)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, _ := m.Evaluate(F)
+		P := NominalFOrder(r.Nominal)
+		for a := range P {
+			if !near(tg.P[a], P[a], 1e-10) {
+				t.Errorf("F=%v: tangent's P[%d] = %g, Evaluate %g", F, a, tg.P[a], P[a])
+			}
+		}
+		const h = 1e-6
+		for b := 0; b < 4; b++ {
+			Fp, Fm := F, F
+			Fp[b] += h
+			Fm[b] -= h
+			rp, _ := m.Evaluate(Fp)
+			rm, _ := m.Evaluate(Fm)
+			pp, pm := NominalFOrder(rp.Nominal), NominalFOrder(rm.Nominal)
+			for a := 0; a < 4; a++ {
+				fd := (pp[a] - pm[a]) / (2 * h)
+				if math.Abs(fd-tg.A[a][b]) > 1e-5*math.Max(1, math.Abs(fd)) {
+					t.Errorf("F=%v: A[%d][%d] = %.9g, finite difference %.9g", F, a, b, tg.A[a][b], fd)
+				}
+			}
+		}
+	}
+}
+
+// BenchmarkFillPlanar fills the columns of a planar family with two fibre
+// terms over 5 protocols × 100 points, with derivatives.
+func BenchmarkFillPlanar(b *testing.B) {
+	d := benchSpecimen(b)
+	m := planarModel()
+	m.Terms = m.Terms[:3]
+	m.Families = m.Families[:1]
+	var c Columns
+	d.Fill(m, &c, true)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		d.Fill(m, &c, true)
+	}
+}
+
+// TestPlanarTune reports the quadrature's worst error and mean node count
+// over the accuracy cases (run with WEFT_TUNE=1 when changing the panel
+// policy).
+func TestPlanarTune(t *testing.T) {
+	if os.Getenv("WEFT_TUNE") == "" {
+		t.Skip("set WEFT_TUNE=1 to report the quadrature's error and cost")
+	}
+	shapes := []struct {
+		id string
+		p  []float64
+	}{{"fib-quad", nil}, {"fib-expsq", []float64{5}}, {"fib-exp", []float64{8}}, {"fib-expsq", []float64{40}}}
+	type cs struct {
+		F        [4]float64
+		b, alpha float64
+		sh       *terms.Shape
+		p        []float64
+		ref      Sym
+		scale    float64
+	}
+	var all []cs
+	for _, F := range planarCases {
+		for _, b := range []float64{0, 0.5, 2, 6, 25, 120, 1000} {
+			for _, alpha := range []float64{0.3, -1.1, 1.5} {
+				for _, s := range shapes {
+					sh := terms.Lookup(s.id)
+					p := s.p
+					if p == nil {
+						p = sh.DefaultParams()
+					}
+					ref, _ := planarRef(F, alpha, b, sh, p, 20000)
+					all = append(all, cs{F, b, alpha, sh, p, ref, planarScale(F, sh, p, ref)})
+				}
+			}
+		}
+	}
+	type cfg struct {
+		order  int
+		pc, ps float64
+		pb     []float64
+	}
+	var cfgs []cfg
+	for _, o := range []int{8, 10, 12, 16} {
+		for _, ps := range []float64{4, 6, 8} {
+			for _, pb := range [][]float64{{1, 2.5, 5}, {1.5, 4}, {2}} {
+				cfgs = append(cfgs, cfg{o, 4, ps, pb})
+			}
+		}
+	}
+	for _, cf := range cfgs {
+		{
+			{
+				mw := math.Pi
+				glNodes, glWeights = make([]float64, cf.order), make([]float64, cf.order)
+				quad.Legendre{}.FixedLocations(glNodes, glWeights, -1, 1)
+				pc, ps := cf.pc, cf.ps
+				peakBreaks = cf.pb
+				peakCurvature, panelScale, maxPanelWide = pc, ps, mw
+				worst, nodes := 0.0, 0
+				for _, c := range all {
+					m := &Model{Families: []Family{{Angle: c.alpha, Planar: true, Concentration: c.b}},
+						Terms: []Term{{Shape: c.sh, Family: 0, Weight: 1, Params: c.p}}}
+					r, _ := m.Evaluate(c.F)
+					for j := range c.ref {
+						worst = math.Max(worst, math.Abs(r.Cauchy[j]-c.ref[j])/c.scale)
+					}
+					g := newPlanarGeom(&c.F)
+					var rule planarRule
+					rule.build(&g, c.alpha, c.b, nil, familySteepness(m, 0, &g))
+					nodes += len(rule.Nodes)
+				}
+				t.Logf("order %d breaks %v panelScale %g: worst %.2g, mean nodes %.1f", cf.order, cf.pb, ps, worst, float64(nodes)/float64(len(all)))
+			}
+		}
+	}
+}

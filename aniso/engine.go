@@ -51,10 +51,10 @@ type engine struct {
 type paramKind int
 
 const (
-	kindAngle paramKind = iota // structural angle parameter (radians)
-	kindKappa                  // dispersion κ of one or both structural families
-	kindConcentration          // in-plane concentration b of one or both structural families
-	kindShape                  // a shape parameter of one design group
+	kindAngle         paramKind = iota // structural angle parameter (radians)
+	kindKappa                          // dispersion κ of one or both structural families
+	kindConcentration                  // in-plane concentration b of one or both structural families
+	kindShape                          // a shape parameter of one design group
 )
 
 // param is one non-linear parameter of a model form.

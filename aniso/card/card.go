@@ -40,6 +40,7 @@ type Conventions struct {
 	Energy         string `json:"energy"`
 	FibreSwitch    string `json:"fibre_switch"`
 	Dispersion     string `json:"dispersion"`
+	InPlane        string `json:"in_plane_dispersion"`
 	Stress         string `json:"stress"`
 	Normalisations string `json:"normalisations"`
 }
@@ -52,6 +53,9 @@ var StandardConventions = Conventions{
 	Energy:         "Psi = sum_k weight_k * f_k(x_k); each term's f and argument x are given by its id and written out in 'energy'",
 	FibreSwitch:    "terms in E_f and I5-1 give no energy and no stress while the family's I4 <= 1; cof-* terms are zero while K <= 1",
 	Dispersion:     "E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1), 0 <= kappa <= 1/3 (Gasser, Ogden & Holzapfel 2006); kappa = 0 gives I4 - 1",
+	InPlane: "a family with a concentration b spreads its fibres over the plane with the density rho(t) = exp(b cos 2(t - alpha)) / (pi I0(b)) over one period of t (b = 0: every in-plane direction alike); " +
+		"each of its terms is w <f(E(t))> = w * integral of rho(t) f(I4(t) - 1) dt with a0(t) = (cos t, sin t, 0) and I4(t) = a0(t).C a0(t), each direction carrying load only while its own I4(t) > 1 " +
+		"(angular integration; Lanir 1983, Sacks 2003); written <...>_name in 'energy'",
 	Stress:         "plane stress sigma33 = 0; Cauchy sigma = -p 1 + 2 psi1 B + 2 psi2 (I1 B - B^2) + sum_families [2 psi4 a(x)a + 2 psi5 (a(x)Ba + Ba(x)a)]; nominal P = sigma F^-T",
 	Normalisations: "i1-lin weight = C10 = mu/2; *-exp: w (exp(b x) - 1)/b; *-expsq: w (exp(b x^2) - 1)/(2 b) (w = k1, b = k2 of Holzapfel, Gasser & Ogden 2000); *-gent: -w J ln(1 - x/J); fib-exp: w (exp(b x) - 1 - b x)/b^2; *-quad: w x^2; *-cube: w x^3",
 }
@@ -67,6 +71,10 @@ type Family struct {
 	AngleSignKnown *bool `json:"angle_sign_known,omitempty"`
 	// Dispersion is κ ∈ [0, 1/3]; absent means 0.
 	Dispersion *float64 `json:"dispersion,omitempty"`
+	// Concentration, when present, spreads the family's fibres over the
+	// plane with a von Mises density in 2θ of this concentration b ≥ 0
+	// (dimensionless); absent means an ideal (or κ-dispersed) family.
+	Concentration *float64 `json:"concentration,omitempty"`
 }
 
 // Layout records how families were parameterised in a fit.
@@ -368,8 +376,19 @@ func (c *Card) Model() (*aniso.Model, error) {
 				return nil, errAt(p+".dispersion", "%g is outside [0, 1/3]; 0 is aligned fibres, 1/3 fully dispersed", kappa)
 			}
 		}
+		fam := aniso.Family{Name: f.Name, Angle: *f.AngleDeg * math.Pi / 180, Dispersion: kappa}
+		if f.Concentration != nil {
+			b := *f.Concentration
+			if !(b >= 0 && b <= aniso.MaxConcentration) {
+				return nil, errAt(p+".concentration", "%g is outside [0, %g]; 0 spreads fibres over every in-plane direction, larger values concentrate them", b, float64(aniso.MaxConcentration))
+			}
+			if kappa != 0 {
+				return nil, errAt(p+".concentration", "a family spreads either in the plane (concentration) or in three dimensions (dispersion κ), not both")
+			}
+			fam.Planar, fam.Concentration = true, b
+		}
 		index[f.Name] = i
-		m.Families = append(m.Families, aniso.Family{Name: f.Name, Angle: *f.AngleDeg * math.Pi / 180, Dispersion: kappa})
+		m.Families = append(m.Families, fam)
 	}
 	if len(c.Terms) == 0 {
 		return nil, errAt("$.terms", "no terms; a model needs at least one energy term (see 'weft terms')")
@@ -452,8 +471,14 @@ func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions, Families: []Family{}}
 	for i, f := range m.Families {
 		a := aniso.WrapDeg(f.Angle * 180 / math.Pi)
-		k := f.Dispersion
-		fc := Family{Name: f.Name, AngleDeg: &a, Dispersion: &k}
+		fc := Family{Name: f.Name, AngleDeg: &a}
+		if f.Planar {
+			b := f.Concentration
+			fc.Concentration = &b
+		} else {
+			k := f.Dispersion
+			fc.Dispersion = &k
+		}
 		if fc.Name == "" {
 			fc.Name = fmt.Sprintf("f%d", i+1)
 		}
@@ -493,7 +518,13 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 			p = strings.ReplaceAll(p, q.Symbol, v)
 			l = latexSubst(l, q.Symbol, v)
 		}
-		if t.Family >= 0 {
+		if t.Family >= 0 && m.Families[t.Family].Planar {
+			// A planar family averages the term over its directions
+			// (the weight is a constant inside the average).
+			name := c.Families[t.Family].Name
+			p = "<" + strings.ReplaceAll(p, "E_f", "E") + ">_" + name
+			l = `\left\langle ` + strings.ReplaceAll(l, "E_f", "E") + `\right\rangle_{` + name + "}"
+		} else if t.Family >= 0 {
 			name := c.Families[t.Family].Name
 			p = strings.ReplaceAll(p, "E_f", "E_"+name)
 			p = strings.ReplaceAll(p, "(K-1)", "(K_"+name+"-1)")

@@ -79,3 +79,38 @@ func TestEnergyLaTeXProducts(t *testing.T) {
 		t.Errorf("LaTeX energy %s", l)
 	}
 }
+
+// A planar family's concentration survives a round trip, the energy text
+// writes its terms as averages over the family's directions, and a card
+// holding both a concentration and a κ is refused.
+func TestPlanarRoundTrip(t *testing.T) {
+	m := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: 30 * math.Pi / 180, Planar: true, Concentration: 2.5}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 12, Params: []float64{4.5}},
+		},
+	}
+	c := FromModel(m, "kPa", nil)
+	b, err := c.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(string(b), `"dispersion": 0`) || !strings.Contains(string(b), `"concentration": 2.5`) {
+		t.Errorf("planar family written as\n%s", b)
+	}
+	_, m2, err := Parse(bytes.NewReader(b), "card.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f := m2.Families[0]; !f.Planar || f.Concentration != 2.5 {
+		t.Errorf("family read back as %+v", f)
+	}
+	if !strings.Contains(c.Energy, "<12*(exp(4.5*E^2)-1)/(2*4.5)>_f1") || !strings.Contains(c.EnergyLaTeX, `\left\langle`) {
+		t.Errorf("energy %q / %q", c.Energy, c.EnergyLaTeX)
+	}
+	bad := strings.Replace(string(b), `"concentration": 2.5`, `"concentration": 2.5, "dispersion": 0.1`, 1)
+	if _, _, err := Parse(strings.NewReader(bad), "card.json"); err == nil || !strings.Contains(err.Error(), "concentration") {
+		t.Errorf("both spreads accepted: %v", err)
+	}
+}

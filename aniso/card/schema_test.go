@@ -111,6 +111,8 @@ func buildSchema() []byte {
 			{"angle_sign_known", obj{{"type", "boolean"}, {"description", "false when the data could not tell +α from −α"}}},
 			{"dispersion", obj{{"type", "number"}, {"minimum", 0}, {"maximum", 0.33333333333333334},
 				{"description", "dispersion κ ∈ [0, 1/3] (Gasser, Ogden & Holzapfel 2006), dimensionless; absent means 0"}}},
+			{"concentration", obj{{"type", "number"}, {"minimum", 0}, {"maximum", aniso.MaxConcentration},
+				{"description", "in-plane concentration b ≥ 0 of a von Mises density in 2θ about angle_deg (angular integration, each direction switched by its own I4 > 1), dimensionless; absent means an ideal family; excludes a non-zero dispersion"}}},
 		}},
 	}
 	term := obj{

@@ -33,6 +33,8 @@ type exportParam struct {
 	Family     string             `json:"family,omitempty"`
 	AngleDeg   *float64           `json:"angle_deg,omitempty"`
 	Dispersion *float64           `json:"dispersion,omitempty"`
+	// Concentration is the in-plane concentration b of a planar family.
+	Concentration *float64 `json:"concentration,omitempty"`
 	Weight     float64            `json:"weight"`
 	WeightUnit string             `json:"weight_unit"`
 	Params     map[string]float64 `json:"params"`
@@ -191,8 +193,14 @@ func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) 
 		if t.Family >= 0 {
 			f := m.Families[t.Family]
 			a := aniso.WrapDeg(f.Angle * 180 / math.Pi)
-			k := f.Dispersion
-			p.Family, p.AngleDeg, p.Dispersion = names[t.Family], &a, &k
+			p.Family, p.AngleDeg = names[t.Family], &a
+			if f.Planar {
+				b := f.Concentration
+				p.Concentration = &b
+			} else {
+				k := f.Dispersion
+				p.Dispersion = &k
+			}
 		}
 		doc.Parameters = append(doc.Parameters, p)
 	}
@@ -289,6 +297,29 @@ func optG6(v *float64) string {
 	return g6(*v)
 }
 
+// spreadText writes a family's spread: "κ=…" for a three-dimensional
+// dispersion, "b=…" for an in-plane concentration, "-" for none.
+func spreadText(p exportParam, num func(float64) string) string {
+	switch {
+	case p.Concentration != nil:
+		return "b=" + num(*p.Concentration)
+	case p.Dispersion != nil:
+		return "κ=" + num(*p.Dispersion)
+	}
+	return "-"
+}
+
+// latexSpread is spreadText in LaTeX math.
+func latexSpread(p exportParam) string {
+	switch {
+	case p.Concentration != nil:
+		return "$b=" + strings.Trim(latexNum(*p.Concentration), "$") + "$"
+	case p.Dispersion != nil:
+		return `$\kappa=` + strings.Trim(latexNum(*p.Dispersion), "$") + "$"
+	}
+	return "--"
+}
+
 func writeExportTable(w io.Writer, d *exportDoc) {
 	fmt.Fprintf(w, "weft export of %s\n", d.Model)
 	if d.Specimen != "" {
@@ -299,7 +330,7 @@ func writeExportTable(w io.Writer, d *exportDoc) {
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "PARAMETERS")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintf(tw, "  #\tterm\targument\tfamily\tangle [deg]\tdispersion\tweight [%s]\tparameters\tpolyconvex\n", d.StressUnit)
+	fmt.Fprintf(tw, "  #\tterm\targument\tfamily\tangle [deg]\tspread\tweight [%s]\tparameters\tpolyconvex\n", d.StressUnit)
 	for _, p := range d.Parameters {
 		fam := p.Family
 		if fam == "" {
@@ -309,7 +340,7 @@ func writeExportTable(w io.Writer, d *exportDoc) {
 		if !p.Polyconvex {
 			poly = "NO"
 		}
-		fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", p.Term, p.ID, p.Argument, fam, optG6(p.AngleDeg), optG6(p.Dispersion), g6(p.Weight), paramText(p.Params, g6), poly)
+		fmt.Fprintf(tw, "  %d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", p.Term, p.ID, p.Argument, fam, optG6(p.AngleDeg), spreadText(p, g6), g6(p.Weight), paramText(p.Params, g6), poly)
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
@@ -319,7 +350,7 @@ func writeExportTable(w io.Writer, d *exportDoc) {
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "CONVENTIONS")
 	cv := d.Conventions
-	for _, s := range []string{cv.Angle, cv.Kinematics, cv.Invariants, cv.Energy, cv.FibreSwitch, cv.Dispersion, cv.Stress, cv.Normalisations} {
+	for _, s := range []string{cv.Angle, cv.Kinematics, cv.Invariants, cv.Energy, cv.FibreSwitch, cv.Dispersion, cv.InPlane, cv.Stress, cv.Normalisations} {
 		fmt.Fprintln(w, "  - "+s)
 	}
 	fmt.Fprintln(w)
@@ -375,7 +406,7 @@ func writeExportCSV(w io.Writer, d *exportDoc) error {
 	for _, p := range d.Parameters {
 		fam := ""
 		if p.Family != "" {
-			fam = fmt.Sprintf(" family=%s angle_deg=%s dispersion=%s", p.Family, fullFloat(*p.AngleDeg), fullFloat(*p.Dispersion))
+			fam = fmt.Sprintf(" family=%s angle_deg=%s spread=%s", p.Family, fullFloat(*p.AngleDeg), spreadText(p, fullFloat))
 		}
 		comment("term %d: %s weight=%s %s params: %s%s", p.Term, p.ID, fullFloat(p.Weight), p.WeightUnit, paramText(p.Params, fullFloat), fam)
 	}
@@ -445,12 +476,12 @@ func writeExportLaTeX(w io.Writer, d *exportDoc) {
 	fmt.Fprintf(w, "\\paragraph{Parameters.} Weights in %s; angles in degrees from axis 1 towards axis 2.\n\n", u)
 	fmt.Fprintln(w, `\begin{tabular}{rllllrl}`)
 	fmt.Fprintln(w, `\hline`)
-	fmt.Fprintf(w, "\\# & term & family & angle [deg] & dispersion & weight [%s] & parameters \\\\\n", u)
+	fmt.Fprintf(w, "\\# & term & family & angle [deg] & spread & weight [%s] & parameters \\\\\n", u)
 	fmt.Fprintln(w, `\hline`)
 	for _, p := range d.Parameters {
 		fam, ang, kap := "--", "--", "--"
 		if p.Family != "" {
-			fam, ang, kap = `\texttt{`+latexEscape(p.Family)+`}`, latexNum(*p.AngleDeg), latexNum(*p.Dispersion)
+			fam, ang, kap = `\texttt{`+latexEscape(p.Family)+`}`, latexNum(*p.AngleDeg), latexSpread(p)
 		}
 		params := "--"
 		if len(p.Params) > 0 {

@@ -410,7 +410,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	// Conventions.
 	if cv := c.Conventions; cv != nil {
 		v.Conventions = []htmlFact{{"Angle", cv.Angle}, {"Kinematics", cv.Kinematics}, {"Invariants", cv.Invariants}, {"Energy", cv.Energy},
-			{"Fibre switch", cv.FibreSwitch}, {"Dispersion", cv.Dispersion}, {"Stress", cv.Stress}, {"Normalisations", cv.Normalisations}}
+			{"Fibre switch", cv.FibreSwitch}, {"Dispersion", cv.Dispersion}, {"In-plane dispersion", cv.InPlane}, {"Stress", cv.Stress}, {"Normalisations", cv.Normalisations}}
 	}
 	v.Files = in.folderFiles(len(figs))
 	return v

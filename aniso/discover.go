@@ -20,9 +20,15 @@ type DiscoverSettings struct {
 	// Layouts are the fibre layouts compared (default: none, single,
 	// mirror, free).
 	Layouts []Layout
-	// Dispersion also tries every fibre layout with a learned dispersion κ
-	// (Gasser, Ogden & Holzapfel 2006), which stands in for a spread of
-	// fibre directions. It roughly doubles the work; off by default.
+	// NoPlanar leaves out the in-plane dispersed variant of every fibre
+	// layout (each family spread over the plane with a learned
+	// concentration, see Structure.Planar), which is searched by default:
+	// real collagen is spread over directions.
+	NoPlanar bool
+	// Dispersion also tries every fibre layout with a learned
+	// three-dimensional dispersion κ (Gasser, Ogden & Holzapfel 2006);
+	// off by default (for membranes the in-plane spread is the physical
+	// one).
 	Dispersion bool
 	// Shapes are the candidate shapes (default: the whole catalogue).
 	Shapes []*terms.Shape
@@ -93,7 +99,7 @@ type CVScore struct {
 // Candidate is a fitted model form considered by discovery.
 type Candidate struct {
 	// Name is "preset:<name>" for presets, else
-	// "<layout>[+dispersion]-k<terms>-p<parameters>".
+	// "<layout>[+dispersed|+kappa]-k<terms>-p<parameters>".
 	Name   string
 	Layout Layout
 	// Terms is the number of active terms.
@@ -145,10 +151,12 @@ type Discovery struct {
 // Best returns the chosen candidate.
 func (d *Discovery) Best() *Candidate { return &d.Pareto[d.Chosen] }
 
-// fullStructure has every candidate shape: isotropic ones once and fibre
-// ones on each family of the layout.
-func fullStructure(shapes []*terms.Shape, l Layout) Structure {
-	st := Structure{Layout: l}
+// fullStructure has every candidate shape of a form: isotropic ones once
+// and fibre ones on each family of the layout (fibre-stretch shapes only on
+// in-plane dispersed families).
+func fullStructure(shapes []*terms.Shape, f Structure) Structure {
+	st := f.withTerms(nil)
+	l := f.Layout
 	for _, sh := range shapes {
 		if !sh.Arg.NeedsFamily() {
 			st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: -1})
@@ -160,7 +168,7 @@ func fullStructure(shapes []*terms.Shape, l Layout) Structure {
 	}
 	for f := 0; f < nf; f++ {
 		for _, sh := range shapes {
-			if sh.Arg.NeedsFamily() {
+			if sh.Arg.NeedsFamily() && (!st.Planar || sh.Arg == terms.Fibre) {
 				st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: f})
 			}
 		}
@@ -240,9 +248,17 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	fitSet.Profile = false
 
 	// 1. Full candidate fits per form (layout, with or without dispersion).
+	// In-plane dispersed forms are variants of their ideal layout's best
+	// models (step 2b), not searched on their own: an angular integration
+	// per point makes each of their fits tens of times dearer.
 	var forms []Structure
+	variantOf := map[int]int{}
 	for _, l := range set.Layouts {
 		forms = append(forms, Structure{Layout: l})
+		if l != LayoutNone && !set.NoPlanar {
+			variantOf[len(forms)] = len(forms) - 1
+			forms = append(forms, Structure{Layout: l, Planar: true})
+		}
 		if l != LayoutNone && set.Dispersion {
 			forms = append(forms, Structure{Layout: l, Dispersion: true})
 		}
@@ -252,9 +268,12 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	var jobs []func()
 	for i, f := range forms {
 		i, f := i, f
+		if _, ok := variantOf[i]; ok {
+			fullErr[i] = errVariant
+			continue
+		}
 		jobs = append(jobs, func() {
-			st := fullStructure(set.Shapes, f.Layout)
-			st.Dispersion = f.Dispersion
+			st := fullStructure(set.Shapes, f)
 			full[i], fullErr[i] = Fit(p, st, fitSet)
 		})
 	}
@@ -288,6 +307,9 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	var round []*refit
 	for i, f := range forms {
 		l := formName(f)
+		if _, ok := variantOf[i]; ok {
+			continue
+		}
 		if fullErr[i] != nil {
 			d.Search = append(d.Search, fmt.Sprintf("%s: the full candidate fit failed (%v)", l, fullErr[i]))
 			continue
@@ -314,7 +336,7 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 						continue
 					}
 					seen[key] = true
-					st := Structure{Layout: f.Layout, Dispersion: f.Dispersion}
+					st := f.withTerms(nil)
 					for _, k := range s.terms {
 						st.Terms = append(st.Terms, full[i].Structure.Terms[k])
 					}
@@ -363,12 +385,39 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 			}
 			for _, j := range rankAdditions(full[i], init, bst, forwardBranch) {
 				t := full[i].Structure.Terms[j]
-				st := Structure{Layout: f.Layout, Dispersion: f.Dispersion, Terms: append(append([]TermSpec(nil), bst.Terms...), t)}
+				st := f.withTerms(append(append([]TermSpec(nil), bst.Terms...), t))
 				round = append(round, &refit{layout: i, st: st, init: init})
 			}
 		}
 		runRefits(round)
 	}
+
+	// 2b. In-plane dispersed variants: the best model of every size of each
+	// ideal fibre layout, refitted with its families spread in the plane,
+	// warm-started from the ideal fit.
+	bm := bestOf()
+	round = round[:0:0]
+	for i, f := range forms {
+		base, ok := variantOf[i]
+		if !ok {
+			continue
+		}
+		n := 0
+		for size := 1; size <= set.MaxTerms; size++ {
+			r, ok := bm[key{base, size}]
+			if !ok {
+				continue
+			}
+			st, ok := planarVariant(activeStructure(r))
+			if !ok {
+				continue
+			}
+			round = append(round, &refit{layout: i, st: st, init: r.Params()})
+			n++
+		}
+		d.Search = append(d.Search, fmt.Sprintf("%s: the best model of each size of the %s layout (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n))
+	}
+	runRefits(round)
 
 	// 3. Pareto front per form: over every refit, the best loss at each
 	// number of parameters (weights and non-linear parameters), kept only
@@ -469,11 +518,32 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	return d, nil
 }
 
-// formName names a model form for results: the layout, "+dispersion" when
-// the families have a learned κ.
+// errVariant marks a form that discovery derives from another instead of
+// searching it.
+var errVariant = errors.New("derived from its ideal layout")
+
+// planarVariant returns a form with its families spread in the plane;
+// ok is false when a term cannot sit on such a family (cofactor and I5
+// terms).
+func planarVariant(st Structure) (Structure, bool) {
+	for _, t := range st.Terms {
+		if t.Family >= 0 && t.Shape.Arg != terms.Fibre {
+			return st, false
+		}
+	}
+	st.Planar = true
+	return st, true
+}
+
+// formName names a model form for results: the layout, then "+dispersed"
+// when the families spread in the plane with a learned concentration, or
+// "+kappa" when they have a learned three-dimensional dispersion κ.
 func formName(f Structure) string {
-	if f.Dispersion {
-		return f.Layout.String() + "+dispersion"
+	switch {
+	case f.Planar:
+		return f.Layout.String() + "+dispersed"
+	case f.Dispersion:
+		return f.Layout.String() + "+kappa"
 	}
 	return f.Layout.String()
 }
@@ -524,7 +594,7 @@ func hasTerm(st Structure, t TermSpec) bool {
 
 // activeStructure is r's form without its inactive terms.
 func activeStructure(r *Result) Structure {
-	st := Structure{Layout: r.Structure.Layout, Dispersion: r.Structure.Dispersion}
+	st := r.Structure.withTerms(nil)
 	for i, t := range r.Structure.Terms {
 		if r.Weights[i] > 0 {
 			st.Terms = append(st.Terms, t)

@@ -78,6 +78,12 @@ type Structure struct {
 	Planar bool
 }
 
+// withTerms returns the same form (layout and spread) with other terms.
+func (s Structure) withTerms(ts []TermSpec) Structure {
+	s.Terms = ts
+	return s
+}
+
 // planarStartConcentration is where a learned concentration b starts: the
 // density's standard deviation is then about 14°, between a wide spread
 // and an ideal family.

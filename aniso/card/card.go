@@ -47,12 +47,12 @@ type Conventions struct {
 
 // StandardConventions are weft's conventions (see the README).
 var StandardConventions = Conventions{
-	Angle:          "angle_deg is the reference fibre direction a0 = (cos α, sin α, 0), α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180, reported in (-90, 90]",
-	Kinematics:     "in-plane F = [[F11, F12], [F21, F22]], F33 = 1/(F11 F22 - F12 F21) (incompressible); C = F^T F, B = F F^T, a = F a0",
-	Invariants:     "I1 = tr C, I2 = (I1^2 - tr C^2)/2, I4 = a0.C a0, I5 = a0.C^2 a0, K = I5 - I1 I4 + I2",
-	Energy:         "Psi = sum_k weight_k * f_k(x_k); each term's f and argument x are given by its id and written out in 'energy'",
-	FibreSwitch:    "terms in E_f and I5-1 give no energy and no stress while the family's I4 <= 1; cof-* terms are zero while K <= 1",
-	Dispersion:     "E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1), 0 <= kappa <= 1/3 (Gasser, Ogden & Holzapfel 2006); kappa = 0 gives I4 - 1",
+	Angle:       "angle_deg is the reference fibre direction a0 = (cos α, sin α, 0), α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180, reported in (-90, 90]",
+	Kinematics:  "in-plane F = [[F11, F12], [F21, F22]], F33 = 1/(F11 F22 - F12 F21) (incompressible); C = F^T F, B = F F^T, a = F a0",
+	Invariants:  "I1 = tr C, I2 = (I1^2 - tr C^2)/2, I4 = a0.C a0, I5 = a0.C^2 a0, K = I5 - I1 I4 + I2",
+	Energy:      "Psi = sum_k weight_k * f_k(x_k); each term's f and argument x are given by its id and written out in 'energy'",
+	FibreSwitch: "terms in E_f and I5-1 give no energy and no stress while the family's I4 <= 1; cof-* terms are zero while K <= 1",
+	Dispersion:  "E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1), 0 <= kappa <= 1/3 (Gasser, Ogden & Holzapfel 2006); kappa = 0 gives I4 - 1",
 	InPlane: "a family with a concentration b spreads its fibres over the plane with the density rho(t) = exp(b cos 2(t - alpha)) / (pi I0(b)) over one period of t (b = 0: every in-plane direction alike); " +
 		"each of its terms is w <f(E(t))> = w * integral of rho(t) f(I4(t) - 1) dt with a0(t) = (cos t, sin t, 0) and I4(t) = a0(t).C a0(t), each direction carrying load only while its own I4(t) > 1 " +
 		"(angular integration; Lanir 1983, Sacks 2003); written <...>_name in 'energy'",

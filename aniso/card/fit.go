@@ -45,6 +45,9 @@ type FitSection struct {
 	Terms      []string `json:"terms"`
 	Layout     string   `json:"layout"`
 	Dispersion bool     `json:"dispersion"`
+	// InPlane is true when the families spread in the plane with a learned
+	// concentration.
+	InPlane bool `json:"in_plane_dispersion"`
 	// StressKind is the measure the residuals were taken in ("cauchy" or
 	// "nominal"); StressUnit its unit.
 	StressKind string `json:"stress_kind"`
@@ -139,7 +142,7 @@ func nums(v []float64) []Num {
 
 // NewFitSection describes a fit result.
 func NewFitSection(r *aniso.Result, stressKind, stressUnit string) *FitSection {
-	fs := &FitSection{Method: FitMethod, Layout: r.Structure.Layout.String(), Dispersion: r.Structure.Dispersion,
+	fs := &FitSection{Method: FitMethod, Layout: r.Structure.Layout.String(), Dispersion: r.Structure.Dispersion, InPlane: r.Structure.Planar,
 		StressKind: stressKind, StressUnit: stressUnit, Loss: Num(r.Loss), Rows: r.Rows, FreeParams: r.FreeParams,
 		AICc: Num(r.AICc), BIC: Num(r.BIC), Iterations: r.Iterations, Evaluations: r.Evaluations,
 		AngleSignKnown: r.SignKnown, Flags: append([]string{}, r.Flags...), Notes: append([]string{}, r.Notes...)}

@@ -63,6 +63,7 @@ type CandidateCard struct {
 	Name       string   `json:"name"`
 	Layout     string   `json:"layout"`
 	Dispersion bool     `json:"dispersion"`
+	InPlane    bool     `json:"in_plane_dispersion"`
 	Terms      []string `json:"terms"`
 	Size       int      `json:"size"`
 	// Parameters counts weights and non-linear parameters (the size used by
@@ -136,7 +137,7 @@ type SplitCompCard struct {
 // NewCandidateCard describes a discovery candidate.
 func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 	r := c.Result
-	cc := CandidateCard{Name: c.Name, Layout: c.Layout.String(), Dispersion: r.Structure.Dispersion, Size: c.Terms,
+	cc := CandidateCard{Name: c.Name, Layout: c.Layout.String(), Dispersion: r.Structure.Dispersion, InPlane: r.Structure.Planar, Size: c.Terms,
 		Parameters: r.Complexity, Loss: Num(r.Loss), AICc: Num(r.AICc), BIC: Num(r.BIC),
 		CVMean: Num(math.NaN()), CVStdErr: Num(math.NaN()), Chosen: chosen, MinR2: Num(math.NaN())}
 	for i, t := range r.Structure.Terms {

@@ -30,7 +30,7 @@ type fitFlags struct {
 	termIDs    string
 	families   int
 	layout     string
-	dispersion bool
+	dispersion string
 	maxTerms   int
 	asJSON     bool
 	quiet      bool
@@ -71,8 +71,12 @@ tested range, not for clinical decisions.`,
   # a chosen form: Demiray matrix plus one exponential fibre family
   weft fit skin-A.csv --terms i1-exp,fib-expsq --families 1
 
-  # several specimens, each into its own folder, discovery with dispersion
-  weft fit a.csv b.csv c.xlsx --dispersion`,
+  # a chosen form whose fibres spread in the plane (learned concentration)
+  weft fit skin-A.csv --terms i1-lin,fib-expsq --families 1 --dispersion in-plane
+
+  # several specimens, each into its own folder; discovery without the
+  # dispersed layouts
+  weft fit a.csv b.csv c.xlsx --dispersion none`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) == 0 {
 				return badInputf("fit needs at least one DATA file (see 'weft fit --help')")
@@ -88,7 +92,7 @@ tested range, not for clinical decisions.`,
 	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
 	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
 	fl.StringVar(&ff.layout, "layout", "free", "two families for --terms: free (independent angles) or mirror (θ ± β, shared stiffness)")
-	fl.BoolVar(&ff.dispersion, "dispersion", false, "learn a fibre dispersion κ (with --terms; in discovery, also try every layout with dispersion)")
+	fl.StringVar(&ff.dispersion, "dispersion", "", "how fibres spread about their mean direction: in-plane (a learned concentration, angular integration), kappa (the 3-D dispersion κ of Gasser, Ogden & Holzapfel 2006) or none; discovery tries in-plane besides ideal families unless told otherwise, --terms fits ideal families unless told otherwise")
 	fl.IntVar(&ff.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
 	fl.BoolVar(&ff.asJSON, "json", false, "print the model card(s) as JSON instead of the summary")
 	fl.BoolVar(&ff.quiet, "quiet", false, "no progress bar")
@@ -107,6 +111,14 @@ tested range, not for clinical decisions.`,
 func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 	if ff.preset != "" && ff.termIDs != "" {
 		return aniso.Structure{}, false, badInputf("give --preset or --terms, not both")
+	}
+	switch ff.dispersion {
+	case "", "none", "in-plane", "kappa":
+	default:
+		return aniso.Structure{}, false, badInputf("--dispersion %q: use in-plane, kappa or none", ff.dispersion)
+	}
+	if ff.preset != "" && ff.dispersion != "" {
+		return aniso.Structure{}, false, badInputf("--dispersion does not apply to --preset: a preset has its published form (see 'weft terms')")
 	}
 	if ff.preset != "" {
 		st, err := aniso.PresetStructure(ff.preset)
@@ -141,7 +153,14 @@ func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 			nf = 1
 		}
 	}
-	st := aniso.Structure{Dispersion: ff.dispersion}
+	var st aniso.Structure
+	switch ff.dispersion {
+	case "", "none":
+	case "in-plane":
+		st.Planar = true
+	case "kappa":
+		st.Dispersion = true
+	}
 	switch nf {
 	case 0:
 		st.Layout = aniso.LayoutNone
@@ -284,7 +303,8 @@ func fitOne(cmd *cobra.Command, s *biaxial.Specimen, st aniso.Structure, chosen 
 			return nil, fitFailed(s, err)
 		}
 	} else {
-		d, err := aniso.Discover(p, aniso.DiscoverSettings{MaxTerms: ff.maxTerms, Dispersion: ff.dispersion, Progress: bar.set})
+		d, err := aniso.Discover(p, aniso.DiscoverSettings{MaxTerms: ff.maxTerms, NoPlanar: ff.dispersion == "none" || ff.dispersion == "kappa",
+			Dispersion: ff.dispersion == "kappa", Progress: bar.set})
 		if err != nil {
 			return nil, fitFailed(s, err)
 		}

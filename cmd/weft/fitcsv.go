@@ -79,7 +79,7 @@ func writeFitCSV(w io.Writer, o *fitOutcome) error {
 func writeSelectionCSV(w io.Writer, o *fitOutcome) {
 	d := o.disc
 	cw := csv.NewWriter(w)
-	h := []string{"set", "name", "layout", "dispersion", "terms", "size", "parameters", "loss", "aicc", "bic", "min_r2", "cv_error", "cv_stderr", "chosen"}
+	h := []string{"set", "name", "layout", "spread", "terms", "size", "parameters", "loss", "aicc", "bic", "min_r2", "cv_error", "cv_stderr", "chosen"}
 	for _, pi := range o.prob.Protocols {
 		h = append(h, "cv_error_without_"+o.spec.Protocols[pi].Label)
 	}
@@ -101,7 +101,7 @@ func writeSelectionCSV(w io.Writer, o *fitOutcome) {
 				minR2 = math.Min(minR2, m.R2)
 			}
 		}
-		row := []string{set, c.Name, c.Layout.String(), strconv.FormatBool(r.Structure.Dispersion), ts, strconv.Itoa(c.Terms),
+		row := []string{set, c.Name, c.Layout.String(), spreadName(r.Structure), ts, strconv.Itoa(c.Terms),
 			strconv.Itoa(r.Complexity), ftoa(r.Loss), ftoa(r.AICc), ftoa(r.BIC), ftoa(minR2)}
 		if c.CV != nil {
 			row = append(row, ftoa(c.CV.Mean), ftoa(c.CV.StdErr))
@@ -125,4 +125,16 @@ func writeSelectionCSV(w io.Writer, o *fitOutcome) {
 		emit("preset", &d.Presets[i], false)
 	}
 	cw.Flush()
+}
+
+// spreadName says how a form's families spread: "in-plane" (a learned
+// concentration), "kappa" (a learned dispersion κ) or "none".
+func spreadName(st aniso.Structure) string {
+	switch {
+	case st.Planar:
+		return "in-plane"
+	case st.Dispersion:
+		return "kappa"
+	}
+	return "none"
 }

@@ -215,31 +215,46 @@ func (in *reportInput) profileFigure() *figure {
 	return f
 }
 
-// formKey names a candidate's model form (layout, with "+dispersion").
+// formKey names a candidate's model form: the layout, with "+dispersed"
+// for in-plane dispersed families or "+kappa" for a dispersion κ.
 func formKey(c card.CandidateCard) string {
-	if c.Dispersion {
-		return c.Layout + "+dispersion"
+	switch {
+	case c.InPlane:
+		return c.Layout + "+dispersed"
+	case c.Dispersion:
+		return c.Layout + "+kappa"
 	}
 	return c.Layout
+}
+
+// cutSpread splits a form key into its layout and whether the families
+// spread (in the plane or by κ).
+func cutSpread(key string) (string, bool) {
+	if b, ok := strings.CutSuffix(key, "+dispersed"); ok {
+		return b, true
+	}
+	return strings.CutSuffix(key, "+kappa")
 }
 
 // formDisplay describes a model form for a legend.
 func formDisplay(key string) string {
 	d := map[string]string{"none": "no fibre family", "single": "one fibre family", "mirror": "mirror pair (θ ± β)", "free": "two free families"}
-	base, disp := strings.CutSuffix(key, "+dispersion")
+	base, disp := cutSpread(key)
 	s := d[base]
 	if s == "" {
 		s = base
 	}
-	if disp {
-		s += ", dispersion"
+	if strings.HasSuffix(key, "+dispersed") {
+		s += ", spread in the plane"
+	} else if disp {
+		s += ", dispersion κ"
 	}
 	return s
 }
 
 // formGlyph is the marker of a model form in the Pareto plot.
 func formGlyph(key string) draw.GlyphStyle {
-	base, disp := strings.CutSuffix(key, "+dispersion")
+	base, disp := cutSpread(key)
 	gs := draw.GlyphStyle{Color: layoutColor(base), Radius: vg.Points(3)}
 	switch base {
 	case "none":
@@ -297,8 +312,8 @@ func (in *reportInput) paretoFigure() *figure {
 		}
 		order := map[string]int{"none": 0, "single": 1, "mirror": 2, "free": 3}
 		sort.SliceStable(keys, func(a, b int) bool {
-			ba, da := strings.CutSuffix(keys[a], "+dispersion")
-			bb, db := strings.CutSuffix(keys[b], "+dispersion")
+			ba, da := cutSpread(keys[a])
+			bb, db := cutSpread(keys[b])
 			if order[ba] != order[bb] {
 				return order[ba] < order[bb]
 			}
@@ -316,7 +331,7 @@ func (in *reportInput) paretoFigure() *figure {
 					xmax = math.Max(xmax, float64(c.Parameters))
 				}
 			}
-			base, disp := strings.CutSuffix(k, "+dispersion")
+			base, disp := cutSpread(k)
 			addCurve(p, xs, ys, lineStyle(tint(layoutColor(base), 0.55), 0.9, disp))
 			if th := addPoints(p, xs, ys, formGlyph(k)); th != nil {
 				l.Add(formDisplay(k), th)

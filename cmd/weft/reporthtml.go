@@ -251,20 +251,23 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		}
 		v.Terms.Rows = append(v.Terms.Rows, htmlRow{Cells: []string{t.ID, fam, fnum(w, 6), strings.Join(ps, ", "), t.Formula}})
 	}
-	v.Families.Head = []string{"family", "angle α", "sign known", "dispersion κ"}
+	v.Families.Head = []string{"family", "angle α", "sign known", "spread"}
 	for _, f := range c.Families {
-		a, k := math.NaN(), 0.0
+		a, k := math.NaN(), "ideal (aligned)"
 		if f.AngleDeg != nil {
 			a = *f.AngleDeg
 		}
-		if f.Dispersion != nil {
-			k = *f.Dispersion
+		switch {
+		case f.Concentration != nil:
+			k = "in the plane, concentration b = " + fnum(*f.Concentration, 4)
+		case f.Dispersion != nil && *f.Dispersion != 0:
+			k = "dispersion κ = " + fnum(*f.Dispersion, 4)
 		}
 		known := "not stated"
 		if f.AngleSignKnown != nil {
 			known = map[bool]string{true: "yes", false: "no: ±α"}[*f.AngleSignKnown]
 		}
-		v.Families.Rows = append(v.Families.Rows, htmlRow{Cells: []string{f.Name, angle(a), known, fnum(k, 4)}})
+		v.Families.Rows = append(v.Families.Rows, htmlRow{Cells: []string{f.Name, angle(a), known, k}})
 	}
 	v.Params.Head = []string{"parameter", "value", "95 % interval", "std. error", "unit", "status"}
 	for _, e := range fs.Estimates {

@@ -111,16 +111,28 @@ type Candidate struct {
 
 // Verdict is the answer on the number of fibre families.
 type Verdict struct {
-	// Families is "0", "1", "2" or "1-or-mirror-pair".
+	// Families is "0", "1", "2", "1-or-mirror-pair" (without shear
+	// information one family and a mirror pair give the same normal
+	// stresses) or "undecided" (the evidence points at another family
+	// count without settling it, or one protocol cannot decide).
 	Families string
 	// Reason states the evidence in words and numbers.
 	Reason string
-	// DeltaBIC is each family count's best BIC minus the overall best BIC,
-	// keyed "0", "1", "2-mirror", "2-free".
+	// DeltaBIC is each form's best BIC minus the best over forms, keyed by
+	// FormKey ("0", "1", "1+dispersed", "2-mirror", "2-free", ...).
 	DeltaBIC map[string]float64
-	// CVError is each family count's cross-validated error (best model of
-	// that layout), same keys; empty without cross-validation.
+	// CVError is each form's best held-out error, same keys; empty
+	// without cross-validation.
 	CVError map[string]float64
+	// Comparisons are the steps of the walk from the simplest form to the
+	// richest (see select.go).
+	Comparisons []LayoutComparison
+	// RuledOut names the richer explanations that fitted better without
+	// beating the verdict's form by more than the noise, and look-alikes.
+	RuledOut []string
+	// Noise is the estimated noise in held-out-error units and StdErrFloor
+	// the smallest standard error a comparison may claim.
+	Noise, StdErrFloor float64
 	// Decider names the extra measurement that would settle an undecided
 	// case, or is empty.
 	Decider string
@@ -243,20 +255,40 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	if !nonzero {
 		return nil, errors.New("every measured stress is zero, so there is nothing to discover; check the stress or load columns and their units with 'weft inspect'")
 	}
+	if len(p.Protocols) < 2 {
+		// One protocol cannot separate one family from two or from a
+		// spread: those forms are not offered (the verdict says so).
+		var ls []Layout
+		for _, l := range set.Layouts {
+			if l == LayoutNone || l == LayoutSingle {
+				ls = append(ls, l)
+			}
+		}
+		set.Layouts, set.NoPlanar, set.Dispersion = ls, true, false
+	}
 	pl := &pool{n: set.Workers, progress: set.Progress}
 	fitSet := set.Fit
 	fitSet.Profile = false
+	if fitSet.Tolerance == 0 {
+		// Comparing models needs their losses to a few digits, not ten;
+		// the chosen model is polished at the default below.
+		fitSet.Tolerance = searchTolerance
+	}
 
 	// 1. Full candidate fits per form (layout, with or without dispersion).
-	// In-plane dispersed forms are variants of their ideal layout's best
-	// models (step 2b), not searched on their own: an angular integration
-	// per point makes each of their fits tens of times dearer.
+	// One dispersed family is searched like any form; the two-family
+	// dispersed forms are variants of their ideal layout's best models
+	// (step 2b), not searched on their own: an angular integration per
+	// point makes each of their fits tens of times dearer, and a search
+	// over two angles would multiply that again.
 	var forms []Structure
 	variantOf := map[int]int{}
 	for _, l := range set.Layouts {
 		forms = append(forms, Structure{Layout: l})
 		if l != LayoutNone && !set.NoPlanar {
-			variantOf[len(forms)] = len(forms) - 1
+			if l != LayoutSingle {
+				variantOf[len(forms)] = len(forms) - 1
+			}
 			forms = append(forms, Structure{Layout: l, Planar: true})
 		}
 		if l != LayoutNone && set.Dispersion {
@@ -496,9 +528,8 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 		crossValidate(p, all, fitSet, pl)
 	}
 
-	// 6. The pick and the verdict.
-	d.choose(p)
-	d.verdict(p)
+	// 6. The verdict, then the pick inside its form.
+	d.decide(p)
 
 	// 7. Profiles for the chosen model, and the one-protocol cross matrix.
 	best := d.Best()
@@ -633,6 +664,10 @@ func layoutSatisfied(r *Result) bool {
 	}
 	return true
 }
+
+// searchTolerance is the refinement tolerance of discovery's search,
+// cross-validation and comparison fits (see Settings.Tolerance).
+const searchTolerance = 1e-6
 
 // maxAnchors is how many local optima of the full candidate fit anchor the
 // subset search; forwardBranch how many single-term additions are refitted
@@ -970,144 +1005,6 @@ func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
 	fold.Error = math.Sqrt(sse / float64(len(test.Output.Components)))
 	fold.Metrics = Metrics(test, pred)
 	return fold
-}
-
-// freeParams counts a candidate's size for the smallest-model rule: active
-// terms and all their non-linear parameters.
-func freeParams(c *Candidate) int { return c.Result.Complexity }
-
-// choose applies the one-standard-error rule over the Pareto candidates,
-// or BIC when cross-validation is impossible.
-func (d *Discovery) choose(p *Problem) {
-	if d.Pareto[0].CV == nil {
-		best := 0
-		for i := range d.Pareto {
-			if d.Pareto[i].Result.BIC < d.Pareto[best].Result.BIC {
-				best = i
-			}
-		}
-		d.Chosen = best
-		d.Rule = fmt.Sprintf("one protocol only, so no cross-validation: the pick is the lowest BIC (%s, BIC %.1f)", d.Pareto[best].Name, d.Pareto[best].Result.BIC)
-		return
-	}
-	bi := 0
-	for i := range d.Pareto {
-		if d.Pareto[i].CV.Mean < d.Pareto[bi].CV.Mean {
-			bi = i
-		}
-	}
-	thr := d.Pareto[bi].CV.Mean + d.Pareto[bi].CV.StdErr
-	pick := -1
-	for i := range d.Pareto {
-		c := &d.Pareto[i]
-		if c.CV.Mean > thr {
-			continue
-		}
-		if pick < 0 {
-			pick = i
-			continue
-		}
-		pc := &d.Pareto[pick]
-		switch {
-		case freeParams(c) < freeParams(pc):
-			pick = i
-		case freeParams(c) == freeParams(pc) && c.Layout.Families() < pc.Layout.Families():
-			pick = i
-		case freeParams(c) == freeParams(pc) && c.Layout.Families() == pc.Layout.Families() && c.CV.Mean < pc.CV.Mean:
-			pick = i
-		}
-	}
-	d.Chosen = pick
-	c := &d.Pareto[pick]
-	d.Rule = fmt.Sprintf("smallest model (fewest weights and non-linear parameters) whose leave-one-protocol-out error is within one standard error of the best: best %s %.4f ± %.4f, threshold %.4f; picked %s (%d parameters, error %.4f)",
-		d.Pareto[bi].Name, d.Pareto[bi].CV.Mean, d.Pareto[bi].CV.StdErr, thr, c.Name, freeParams(c), c.CV.Mean)
-}
-
-// verdict decides 0, 1, 2 or 1-or-mirror-pair fibre families from the
-// chosen model, with BIC and cross-validated error per layout as evidence
-// (physics.md §4: without shear information one family and a mirror pair
-// cannot be told apart).
-func (d *Discovery) verdict(p *Problem) {
-	v := Verdict{DeltaBIC: map[string]float64{}, CVError: map[string]float64{}}
-	keyOf := map[Layout]string{LayoutNone: "0", LayoutSingle: "1", LayoutMirror: "2-mirror", LayoutFree: "2-free"}
-	bestBIC := math.Inf(1)
-	for _, c := range d.Pareto {
-		bestBIC = math.Min(bestBIC, c.Result.BIC)
-	}
-	for _, c := range d.Pareto {
-		k := keyOf[c.Layout]
-		dv := c.Result.BIC - bestBIC
-		if old, ok := v.DeltaBIC[k]; !ok || dv < old {
-			v.DeltaBIC[k] = dv
-		}
-		if c.CV != nil {
-			if old, ok := v.CVError[k]; !ok || c.CV.Mean < old {
-				v.CVError[k] = c.CV.Mean
-			}
-		}
-	}
-	best := d.Best()
-	r := best.Result
-	evidence := func() string {
-		var parts []string
-		for _, k := range []string{"0", "1", "2-mirror", "2-free"} {
-			dv, ok := v.DeltaBIC[k]
-			if !ok {
-				continue
-			}
-			s := fmt.Sprintf("%s: ΔBIC %.1f", k, dv)
-			if cv, ok := v.CVError[k]; ok {
-				s += fmt.Sprintf(", held-out error %.4f", cv)
-			}
-			parts = append(parts, s)
-		}
-		return strings.Join(parts, "; ")
-	}
-	angles := func() []float64 {
-		var a []float64
-		for _, f := range r.Model.Families {
-			a = append(a, f.Angle*180/math.Pi)
-		}
-		return a
-	}()
-	const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
-	switch best.Layout {
-	case LayoutNone:
-		v.Families = "0"
-		v.Reason = "the best-supported model is isotropic: no fibre family improves the held-out prediction enough to pay for its parameters"
-	case LayoutSingle:
-		if p.HasShear {
-			v.Families = "1"
-			v.Reason = fmt.Sprintf("one fibre family at %.1f° is supported; with shear information a second family or a mirror pair would have been detectable and is not needed", angles[0])
-		} else {
-			v.Families = "1-or-mirror-pair"
-			v.Reason = fmt.Sprintf("one fibre direction at ±%.1f° is supported; without shear information one family at α and a mirror pair at ±α give the same normal stresses, so the data cannot tell them apart", math.Abs(angles[0]))
-			v.Decider = decider
-		}
-	case LayoutMirror:
-		same := math.Abs(math.Abs(angles[0])-math.Abs(angles[1])) < 1
-		switch {
-		case !p.HasShear && same:
-			v.Families = "1-or-mirror-pair"
-			v.Reason = fmt.Sprintf("a mirror pair at ±%.1f° is supported; without shear information it cannot be told from one family at that angle", math.Abs(angles[0]))
-			v.Decider = decider
-		case !p.HasShear:
-			v.Families = "2"
-			v.Reason = fmt.Sprintf("two fibre families (a pair at ±%.1f° and ±%.1f° sharing their stiffness; signs unknown without shear information) are supported", math.Abs(angles[0]), math.Abs(angles[1]))
-		default:
-			v.Families = "2"
-			v.Reason = fmt.Sprintf("two fibre families (a pair at %.1f° and %.1f° sharing their stiffness) are supported", angles[0], angles[1])
-		}
-	case LayoutFree:
-		v.Families = "2"
-		if p.HasShear {
-			v.Reason = fmt.Sprintf("two fibre families at %.1f° and %.1f° are supported", angles[0], angles[1])
-		} else {
-			v.Reason = fmt.Sprintf("two fibre families at ±%.1f° and ±%.1f° are supported (their signs are unknown without shear information)", math.Abs(angles[0]), math.Abs(angles[1]))
-		}
-	}
-	v.Reason += "; evidence per layout (best model of each): " + evidence()
-	d.Verdict = v
 }
 
 // crossMatrix fits the chosen form to each protocol alone and predicts

@@ -45,6 +45,9 @@ type engine struct {
 	// and cross products are computed once.
 	static     []bool
 	staticDone bool
+	// tol is the relative loss decrease below which minimize stops (two
+	// steps in a row); 0 means 1e-10.
+	tol float64
 }
 
 // paramKind says what a non-linear parameter moves.

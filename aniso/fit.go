@@ -155,6 +155,11 @@ type Settings struct {
 	// NoScan skips the coarse angle scan and refines from Init alone (for
 	// warm starts such as cross-validation folds).
 	NoScan bool
+	// Tolerance stops a local refinement once two accepted steps in a row
+	// lower the loss by less than this fraction of it (default 1e-10).
+	// Searches that only compare models use a looser one; the reported
+	// model is polished at the default.
+	Tolerance float64
 }
 
 func (s Settings) withDefaults(nAngles int) Settings {
@@ -172,6 +177,9 @@ func (s Settings) withDefaults(nAngles int) Settings {
 	}
 	if s.ProfileStepDeg <= 0 {
 		s.ProfileStepDeg = 2
+	}
+	if s.Tolerance <= 0 {
+		s.Tolerance = 1e-10
 	}
 	return s
 }
@@ -376,6 +384,9 @@ var (
 	rateGrid  = []float64{0.3, 3, 30, 300}
 	limitGrid = []float64{0.3, 1, 3, 10, 100}
 	kappaGrid = []float64{0, 0.15, 0.3}
+	// concentrationGrid spans wide (standard deviation about 30°), medium
+	// (14°) and narrow (7°) in-plane spreads.
+	concentrationGrid = []float64{1, 4, 16}
 )
 
 // dictEntry says which structure term, parameter value and κ a dictionary
@@ -384,7 +395,7 @@ type dictEntry struct {
 	spec  int
 	param float64
 	hasP  bool
-	kappa int // index into kappaGrid, or −1
+	kappa int // index into kappaGrid (or concentrationGrid), or −1
 }
 
 // dictionary builds the rate- and dispersion-agnostic model used by the
@@ -394,8 +405,11 @@ type dictEntry struct {
 func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 	nf := st.Layout.Families()
 	kap := []float64{0}
-	if st.Dispersion {
+	switch {
+	case st.Dispersion:
 		kap = kappaGrid
+	case st.Planar:
+		kap = concentrationGrid
 	}
 	m := &Model{}
 	var famOf []int
@@ -403,7 +417,11 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 	for f := 0; f < nf; f++ {
 		for ki, k := range kap {
 			famIndex[[2]int{f, ki}] = len(m.Families)
-			m.Families = append(m.Families, Family{Dispersion: k})
+			if st.Planar {
+				m.Families = append(m.Families, Family{Planar: true, Concentration: k})
+			} else {
+				m.Families = append(m.Families, Family{Dispersion: k})
+			}
 			famOf = append(famOf, f)
 		}
 	}
@@ -512,6 +530,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 		starts = append(starts, coarseStarts(p, st, set, nAngles, params)...)
 	}
 	e := newEngine(p, m, groups, famOf, st.Layout, params)
+	e.tol = set.Tolerance
 	best := math.Inf(1)
 	var bestTheta []float64
 	type local struct {
@@ -671,11 +690,9 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 				th[i] = c.angles[k]
 				k++
 			case kindKappa:
-				th[i] = dominantKappa(de, entries, st, q.Families)
+				th[i] = dominantSpread(de, entries, st, q.Families, kappaGrid)
 			case kindConcentration:
-				// The scan uses ideal families (an angular integration per
-				// scan point would cost more than the whole fit).
-				th[i] = planarStartConcentration
+				th[i] = dominantSpread(de, entries, st, q.Families, concentrationGrid)
 			case kindShape:
 				th[i] = dominantParam(de, entries, q)
 			}
@@ -752,10 +769,11 @@ func dominantParam(de *engine, entries []dictEntry, q param) float64 {
 	return math.Min(q.Hi, math.Max(q.Lo, v))
 }
 
-// dominantKappa returns the dispersion of the dictionary fibre column with
-// the largest share of stress in the given structural families.
-func dominantKappa(de *engine, entries []dictEntry, st Structure, fams []int) float64 {
-	best, v := 0.0, 0.0
+// dominantSpread returns the spread (κ or concentration, from grid) of the
+// dictionary fibre column with the largest share of stress in the given
+// structural families.
+func dominantSpread(de *engine, entries []dictEntry, st Structure, fams []int, grid []float64) float64 {
+	best, v := 0.0, grid[0]
 	for g, en := range entries {
 		if en.kappa < 0 {
 			continue
@@ -765,7 +783,7 @@ func dominantKappa(de *engine, entries []dictEntry, st Structure, fams []int) fl
 			continue
 		}
 		if c := de.w[g] * de.norm[g]; c > best {
-			best, v = c, kappaGrid[en.kappa]
+			best, v = c, grid[en.kappa]
 		}
 	}
 	return v

@@ -209,7 +209,11 @@ func (e *engine) minimize(theta []float64, free []bool, maxIter int) lmResult {
 				lambda = math.Max(lambda/3, 1e-12)
 				accepted = true
 				stale = false
-				if rel < 1e-10 {
+				tol := e.tol
+				if tol <= 0 {
+					tol = 1e-10
+				}
+				if rel < tol {
 					small++
 				} else {
 					small = 0

@@ -158,11 +158,14 @@ func buildSchema() []byte {
 		{"description", "the answer of model discovery on the number of fibre families, with its evidence"},
 		{"required", []string{"families", "reason"}},
 		{"properties", obj{
-			{"families", obj{{"enum", []string{"0", "1", "2", "1-or-mirror-pair"}},
-				{"description", "1-or-mirror-pair: without shear information one family and a mirror pair give the same normal stresses"}}},
+			{"families", obj{{"enum", []string{"0", "1", "2", "1-or-mirror-pair", "undecided"}},
+				{"description", "1-or-mirror-pair: without shear information one family and a mirror pair give the same normal stresses; undecided: the evidence does not settle the number of families"}}},
+			{"form", obj{{"type", "string"}, {"description", "the model form the verdict rests on: 0, 1, 2-mirror or 2-free, with +dispersed (spread in the plane) or +kappa"}}},
 			{"reason", obj{{"type", "string"}, {"description", "the evidence in words and numbers"}}},
-			{"delta_bic", obj{{"type", "object"}, {"description", "per layout (0, 1, 2-mirror, 2-free): best BIC minus overall best, dimensionless"}}},
-			{"cv_error", obj{{"type", "object"}, {"description", "per layout: leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
+			{"delta_bic", obj{{"type", "object"}, {"description", "per form (0, 1, 1+dispersed, 2-mirror, 2-free, ...): its best BIC minus the best over forms, dimensionless"}}},
+			{"cv_error", obj{{"type", "object"}, {"description", "per form: its best leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
+			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive"}}},
+			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
 		}},
 	}

@@ -47,15 +47,59 @@ type DataProtocolCard struct {
 }
 
 // VerdictSection is the answer on the number of fibre families. Families
-// is one of "0", "1", "2", "1-or-mirror-pair".
+// is one of "0", "1", "2", "1-or-mirror-pair", "undecided".
 type VerdictSection struct {
 	Families string `json:"families"`
-	Reason   string `json:"reason"`
-	// DeltaBIC and CVError per layout ("0", "1", "2-mirror", "2-free").
+	// Form is the key of the model form the verdict rests on (see
+	// aniso.FormKey, e.g. "1+dispersed").
+	Form   string `json:"form"`
+	Reason string `json:"reason"`
+	// DeltaBIC and CVError per form ("0", "1", "1+dispersed", "2-mirror",
+	// "2-free", ...): its best model's BIC minus the best, and its best
+	// held-out error.
 	DeltaBIC map[string]Num `json:"delta_bic"`
 	CVError  map[string]Num `json:"cv_error"`
+	// Comparisons are the steps from the simplest form to the richest.
+	Comparisons []ComparisonCard `json:"comparisons,omitempty"`
+	// RuledOut names richer explanations that were not supported.
+	RuledOut []string `json:"ruled_out,omitempty"`
+	// Noise is the noise estimate in held-out-error units; StdErrFloor the
+	// smallest standard error a comparison may claim.
+	Noise       Num `json:"noise"`
+	StdErrFloor Num `json:"stderr_floor"`
 	// Decider names the measurement that would settle an undecided case.
 	Decider string `json:"decider,omitempty"`
+}
+
+// ComparisonCard is one step of the verdict's walk over forms.
+type ComparisonCard struct {
+	Simpler      string `json:"simpler"`
+	Richer       string `json:"richer"`
+	Gain         Num    `json:"gain"`
+	StdErr       Num    `json:"stderr"`
+	RelativeGain Num    `json:"relative_gain"`
+	DeltaBIC     Num    `json:"delta_bic"`
+	Decisive     bool   `json:"decisive"`
+	Suggestive   bool   `json:"suggestive"`
+}
+
+// NewVerdictSection describes discovery's verdict; form is the key of the
+// chosen model's form.
+func NewVerdictSection(v aniso.Verdict, form string) VerdictSection {
+	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider,
+		DeltaBIC: map[string]Num{}, CVError: map[string]Num{}, RuledOut: v.RuledOut,
+		Noise: Num(v.Noise), StdErrFloor: Num(v.StdErrFloor)}
+	for k, x := range v.DeltaBIC {
+		s.DeltaBIC[k] = Num(x)
+	}
+	for k, x := range v.CVError {
+		s.CVError[k] = Num(x)
+	}
+	for _, c := range v.Comparisons {
+		s.Comparisons = append(s.Comparisons, ComparisonCard{Simpler: c.Simpler, Richer: c.Richer, Gain: Num(c.Gain), StdErr: Num(c.StdErr),
+			RelativeGain: Num(c.RelativeGain), DeltaBIC: Num(c.DeltaBIC), Decisive: c.Decisive, Suggestive: c.Suggestive})
+	}
+	return s
 }
 
 // CandidateCard is one fitted model form in the selection evidence.

@@ -354,14 +354,7 @@ func buildCard(o *fitOutcome) (*card.Card, error) {
 		}
 	}
 	if d := o.disc; d != nil {
-		v := card.VerdictSection{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Decider: d.Verdict.Decider,
-			DeltaBIC: map[string]card.Num{}, CVError: map[string]card.Num{}}
-		for k, x := range d.Verdict.DeltaBIC {
-			v.DeltaBIC[k] = card.Num(x)
-		}
-		for k, x := range d.Verdict.CVError {
-			v.CVError[k] = card.Num(x)
-		}
+		v := card.NewVerdictSection(d.Verdict, aniso.FormKey(d.Best().Result.Structure))
 		if err := set(card.KeyVerdict, v); err != nil {
 			return nil, err
 		}

@@ -368,7 +368,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		v.HasVerdict = true
 		v.Verdict, v.Reason, v.Decider = verdictText(vd.Families), vd.Reason, vd.Decider
 		v.VerdictTable.Head = []string{"fibre layout (best model of each)", "ΔBIC", "held-out error"}
-		for _, k := range []string{"0", "1", "2-mirror", "2-free"} {
+		for _, k := range formKeysInOrder(vd.DeltaBIC) {
 			b, okb := vd.DeltaBIC[k]
 			e, oke := vd.CVError[k]
 			if !okb && !oke {
@@ -381,7 +381,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 			if oke {
 				es = fnum(float64(e), 4)
 			}
-			v.VerdictTable.Rows = append(v.VerdictTable.Rows, htmlRow{Cells: []string{layoutKeyText(k), bs, es}, Mark: okb && float64(b) == 0})
+			v.VerdictTable.Rows = append(v.VerdictTable.Rows, htmlRow{Cells: []string{layoutKeyText(k), bs, es}, Mark: k == vd.Form})
 		}
 	}
 
@@ -439,12 +439,36 @@ func verdictText(f string) string {
 		return "two fibre families"
 	case "1-or-mirror-pair":
 		return "one family or a mirror pair: the data cannot tell them apart"
+	case "undecided":
+		return "undecided: the data do not settle the number of fibre families"
 	}
 	return f
 }
 
-// layoutKeyText names a layout key of the verdict.
+// formKeysInOrder returns the verdict's form keys from the simplest form to
+// the richest: fewer families first, an ideal family before a spread one.
+func formKeysInOrder(m map[string]card.Num) []string {
+	rank := func(k string) int {
+		base, spread, _ := strings.Cut(k, "+")
+		r := map[string]int{"0": 0, "1": 10, "2-mirror": 20, "2-free": 30}[base]
+		return r + map[string]int{"": 0, "dispersed": 1, "kappa": 2}[spread]
+	}
+	var ks []string
+	for k := range m {
+		ks = append(ks, k)
+	}
+	sort.Slice(ks, func(a, b int) bool { return rank(ks[a]) < rank(ks[b]) })
+	return ks
+}
+
+// layoutKeyText names a form key of the verdict.
 func layoutKeyText(k string) string {
+	if base, ok := strings.CutSuffix(k, "+dispersed"); ok {
+		return layoutKeyText(base) + ", spread in the plane"
+	}
+	if base, ok := strings.CutSuffix(k, "+kappa"); ok {
+		return layoutKeyText(base) + ", dispersion κ"
+	}
 	switch k {
 	case "0":
 		return "no fibre family"

@@ -23,7 +23,10 @@ func predictionErrors(t *testing.T, m *Model, spec interface{}, p *Problem) map[
 	if err != nil {
 		t.Fatal(err)
 	}
-	type acc struct{ sse, max float64; n int }
+	type acc struct {
+		sse, max float64
+		n        int
+	}
 	accs := map[string]*acc{}
 	for r := range pred {
 		c := p.RowComponent[r]

@@ -27,19 +27,19 @@ var verificationLead = []string{"case", "direction_deg", "stretch_or_shear", "F1
 
 // exportParam is one row of the parameter table.
 type exportParam struct {
-	Term       int                `json:"term"`
-	ID         string             `json:"id"`
-	Argument   string             `json:"argument"`
-	Family     string             `json:"family,omitempty"`
-	AngleDeg   *float64           `json:"angle_deg,omitempty"`
-	Dispersion *float64           `json:"dispersion,omitempty"`
+	Term       int      `json:"term"`
+	ID         string   `json:"id"`
+	Argument   string   `json:"argument"`
+	Family     string   `json:"family,omitempty"`
+	AngleDeg   *float64 `json:"angle_deg,omitempty"`
+	Dispersion *float64 `json:"dispersion,omitempty"`
 	// Concentration is the in-plane concentration b of a planar family.
-	Concentration *float64 `json:"concentration,omitempty"`
-	Weight     float64            `json:"weight"`
-	WeightUnit string             `json:"weight_unit"`
-	Params     map[string]float64 `json:"params"`
-	Formula    string             `json:"formula"`
-	Polyconvex bool               `json:"polyconvex"`
+	Concentration *float64           `json:"concentration,omitempty"`
+	Weight        float64            `json:"weight"`
+	WeightUnit    string             `json:"weight_unit"`
+	Params        map[string]float64 `json:"params"`
+	Formula       string             `json:"formula"`
+	Polyconvex    bool               `json:"polyconvex"`
 }
 
 // exportPoint is one row of the verification table.

@@ -258,6 +258,7 @@ func (d *Discovery) decide(p *Problem) {
 		}
 	}
 	d.Chosen = d.oneSE(win.key, floor)
+	d.ensureAdmissible(p)
 	d.Verdict = d.verdictFor(p, win, comps, open, notes)
 	d.Verdict.Noise, d.Verdict.StdErrFloor = noise, floor
 }
@@ -433,4 +434,65 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		}
 	}
 	return v
+}
+
+// admissibleOnData checks stability and strong ellipticity (see
+// admissible.go) at the deformations a model was fitted to, at most
+// maxChecks of them spread evenly; it returns "" when they pass, else what
+// failed where.
+func admissibleOnData(m *Model, p *Problem) string {
+	const maxChecks, directions = 60, 36
+	n := p.Data.Points()
+	step := 1
+	if n > maxChecks {
+		step = (n + maxChecks - 1) / maxChecks
+	}
+	tol := 1e-10 * weightSum(m)
+	for i := 0; i < n; i += step {
+		F := p.Data.Kinematics(i).F
+		ps, err := m.StabilityAt(F, directions)
+		if err != nil {
+			return fmt.Sprintf("cannot be evaluated at F = %.4g: %v", F, err)
+		}
+		if f, _ := ps.fails(ps.MinModuloRotation, tol); f {
+			return fmt.Sprintf("unstable at F = %.4g (smallest tangent eigenvalue modulo rotation %.3g)", F, ps.MinModuloRotation)
+		}
+		if f, _ := ps.fails(ps.MinEllipticity, tol); f {
+			return fmt.Sprintf("not strongly elliptic at F = %.4g (%.3g)", F, ps.MinEllipticity)
+		}
+	}
+	return ""
+}
+
+// ensureAdmissible keeps the pick if it is admissible where it was fitted;
+// otherwise it takes the next candidate of the same form that is (fewest
+// parameters, then lowest held-out error) and says why in the rule.
+func (d *Discovery) ensureAdmissible(p *Problem) {
+	c := &d.Pareto[d.Chosen]
+	why := admissibleOnData(c.Result.Model, p)
+	if why == "" {
+		return
+	}
+	form := FormKey(c.Result.Structure)
+	var in []int
+	for i := range d.Pareto {
+		if i != d.Chosen && FormKey(d.Pareto[i].Result.Structure) == form {
+			in = append(in, i)
+		}
+	}
+	sort.SliceStable(in, func(a, b int) bool {
+		ca, cb := &d.Pareto[in[a]], &d.Pareto[in[b]]
+		if ca.Result.Complexity != cb.Result.Complexity {
+			return ca.Result.Complexity < cb.Result.Complexity
+		}
+		return candidateLess(ca, cb)
+	})
+	for _, i := range in {
+		if admissibleOnData(d.Pareto[i].Result.Model, p) == "" {
+			d.Rule += fmt.Sprintf("; %s was set aside because it is %s, inside its fitted range; the next admissible candidate of the form, %s, was taken", c.Name, why, d.Pareto[i].Name)
+			d.Chosen = i
+			return
+		}
+	}
+	d.Rule += fmt.Sprintf("; CAUTION: %s is %s, inside its fitted range, and no other candidate of its form is admissible there", c.Name, why)
 }

@@ -272,3 +272,40 @@ func TestIndependentMaterialsAgree(t *testing.T) {
 		}
 	}
 }
+
+// mooneyRivlinMatrix is σ = 2C10 (B − B33 1) + 2C01 (I1 B − B² − (I1 B33 −
+// B33²) 1) in plane stress (Mooney 1940, Rivlin 1948; Holzapfel 2000 §6.5),
+// written out here without the package's kinematics.
+func mooneyRivlinMatrix(c10, c01 float64) material {
+	return func(F [4]float64) [3]float64 {
+		b11 := F[0]*F[0] + F[1]*F[1]
+		b22 := F[2]*F[2] + F[3]*F[3]
+		b12 := F[0]*F[2] + F[1]*F[3]
+		j := F[0]*F[3] - F[1]*F[2]
+		b33 := 1 / (j * j)
+		i1 := b11 + b22 + b33
+		bb11 := b11*b11 + b12*b12
+		bb22 := b22*b22 + b12*b12
+		bb12 := b12 * (b11 + b22)
+		q := i1*b33 - b33*b33
+		return [3]float64{
+			2*c10*(b11-b33) + 2*c01*(i1*b11-bb11-q),
+			2*c10*(b22-b33) + 2*c01*(i1*b22-bb22-q),
+			2*c10*b12 + 2*c01*(i1*b12-bb12),
+		}
+	}
+}
+
+// plus adds materials.
+func plus(ms ...material) material {
+	return func(F [4]float64) [3]float64 {
+		var s [3]float64
+		for _, m := range ms {
+			c := m(F)
+			for j := range s {
+				s[j] += c[j]
+			}
+		}
+		return s
+	}
+}

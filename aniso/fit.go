@@ -69,6 +69,13 @@ type Structure struct {
 	Terms      []TermSpec
 	Layout     Layout
 	Dispersion bool
+	// HoldPairAxis holds a mirror pair's mean direction θ at 0, so that the
+	// families sit at ±β, symmetric about axis 1: the published form of
+	// Holzapfel, Gasser & Ogden 2000 and Gasser, Ogden & Holzapfel 2006.
+	// Since β ranges over [0°, 90°], a pair symmetric about axis 2 is the
+	// same form (θ = 90°, β' = 90° − β). False (the default) learns θ.
+	// Only a mirror layout uses it.
+	HoldPairAxis bool
 }
 
 // Validate checks that the terms fit the layout.
@@ -101,6 +108,9 @@ func (s Structure) Validate() error {
 	}
 	if s.Dispersion && nf == 0 {
 		return errors.New("dispersion needs a fibre family")
+	}
+	if s.HoldPairAxis && s.Layout != LayoutMirror {
+		return fmt.Errorf("a held pair axis needs a mirror pair, not a %s layout", s.Layout)
 	}
 	return nil
 }
@@ -306,8 +316,12 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	case LayoutSingle:
 		ps = append(ps, param{Kind: kindAngle, Name: "angle", Angle: 0, Periodic: true})
 	case LayoutMirror:
-		ps = append(ps, param{Kind: kindAngle, Name: "mean_angle", Angle: 0, Periodic: true},
-			param{Kind: kindAngle, Name: "half_angle", Angle: 1, Lo: 0, Hi: math.Pi / 2})
+		// A held pair axis has no mean-angle parameter: θ stays 0 in
+		// engine.apply.
+		if !st.HoldPairAxis {
+			ps = append(ps, param{Kind: kindAngle, Name: "mean_angle", Angle: 0, Periodic: true})
+		}
+		ps = append(ps, param{Kind: kindAngle, Name: "half_angle", Angle: 1, Lo: 0, Hi: math.Pi / 2})
 	case LayoutFree:
 		ps = append(ps, param{Kind: kindAngle, Name: "angle_1", Angle: 0, Periodic: true},
 			param{Kind: kindAngle, Name: "angle_2", Angle: 1, Periodic: true})
@@ -744,7 +758,10 @@ func (r *Result) notes(p *Problem) {
 			r.Notes = append(r.Notes, "The data carry no shear information (pure biaxial stretch, no shear stress measured): the sign of a fibre angle cannot be determined, so angles are reported as ±|α|, and one family at α cannot be told from a mirror pair at ±α with half the weight each. Shear from markers or an off-axis protocol would decide it.")
 		}
 	}
-	if r.Structure.Layout == LayoutMirror && !p.HasShear {
+	switch {
+	case r.Structure.Layout == LayoutMirror && r.Structure.HoldPairAxis:
+		r.Notes = append(r.Notes, "The pair's axis is held on axis 1, as in the published form (Holzapfel, Gasser & Ogden 2000): the families sit at ±β, symmetric about axis 1 (a pair symmetric about axis 2 is the same form with β' = 90° − β). A pair whose axis is turned away from the loading axes is not part of this form; learn the axis to test for one.")
+	case r.Structure.Layout == LayoutMirror && !p.HasShear:
 		r.Notes = append(r.Notes, "Without shear information a mirror pair at θ ± β has the same normal stresses as θ' = θ − 90°, β' = 90° − β (and as −θ ± β): the pair's mean and half angle are reported as fitted, and the families' angles ±|α| in the model card are what the data determine.")
 	}
 	if r.Structure.Dispersion {

@@ -136,6 +136,8 @@ func buildSchema() []byte {
 			{"kind", obj{{"enum", []string{"single", "mirror", "free"}}}},
 			{"mean_deg", num("mean direction θ of a mirror pair, degrees from axis 1 towards axis 2")},
 			{"half_angle_deg", num("half angle β of a mirror pair θ ± β, degrees")},
+			{"pair_axis", obj{{"enum", []string{"axis-1", "free"}},
+				{"description", "axis-1: the pair's axis θ was held at 0 (symmetric about axis 1, the published form); free: θ was learned"}}},
 		}},
 	}
 	dataRange := obj{

@@ -181,6 +181,9 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	if len(angles) > 0 {
 		fams = strings.Join(angles, ", ")
 	}
+	if pair := pairText(c.Layout); pair != "" {
+		fams += "; " + pair
+	}
 	v.Summary = []htmlFact{{"Model", how}, {"Energy", strings.TrimPrefix(c.Energy, "Psi = ")}, {"Fibre families", fams}}
 	if in.verdict != nil {
 		v.Summary = append(v.Summary, htmlFact{"Family verdict", verdictText(in.verdict.Families)})

@@ -38,6 +38,9 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		how = "discovered (" + o.disc.Best().Name + ")"
 	}
 	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
+	if pair := pairText(o.card.Layout); pair != "" {
+		fmt.Fprintf(w, "fibres:   %s\n", pair)
+	}
 	if d := o.disc; d != nil {
 		fmt.Fprintf(w, "families: %s — %s\n", d.Verdict.Families, d.Verdict.Reason)
 		if d.Verdict.Decider != "" {
@@ -157,4 +160,20 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	}
 	files += reportFilesNote(o)
 	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", o.dir, files, o.elapsed.Seconds())
+}
+
+// pairText describes a mirror pair's geometry, or is empty for other
+// layouts.
+func pairText(l *card.Layout) string {
+	if l == nil || l.Kind != "mirror" || l.HalfAngleDeg == nil {
+		return ""
+	}
+	if l.PairAxis == "axis-1" {
+		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
+	}
+	mean := math.NaN()
+	if l.MeanDeg != nil {
+		mean = *l.MeanDeg
+	}
+	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", num(mean, "%.2f"), *l.HalfAngleDeg)
 }

@@ -199,7 +199,12 @@ type Metric struct {
 }
 
 // AngleProfile is the loss over one angle parameter, minimised over all
-// other non-linear parameters and the weights at every grid angle.
+// other non-linear parameters and the weights at every grid angle: each
+// angle is re-optimised from both neighbouring grid angles, and the loss is
+// never above the best loss of the form without the family the angle moves
+// (zero weights for that family are admissible at any angle). When a
+// profile meets a lower loss than the fit, Fit refits from there, so the
+// fitted loss is the profile's minimum and its value at OptimumDeg.
 type AngleProfile struct {
 	// Name is the parameter's name ("angle", "angle_1", "mean_angle", ...).
 	Name string
@@ -217,6 +222,11 @@ type AngleProfile struct {
 	// Mirrored is true when only |α| was profiled (no shear information)
 	// and the curve was mirrored to negative angles.
 	Mirrored bool
+
+	// minLoss and minTheta are the lowest point off the optimum and its
+	// parameters, to refit from when it lies below the fit.
+	minLoss  float64
+	minTheta []float64
 }
 
 // Result is a fitted model form with its evidence.
@@ -510,40 +520,61 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	if bestTheta == nil || math.IsInf(best, 1) {
 		return nil, errors.New("every starting point overflows: an exponential or limiting term cannot follow these stretches; try a smaller model, a preset without exponential terms, or check the stress unit")
 	}
-	e.eval(bestTheta, true)
-	res.e, res.theta = e, bestTheta
-	res.Loss = e.loss
-	res.Model = cloneModelDeep(e.model)
-	res.Weights = make([]float64, len(st.Terms))
-	for g, members := range groups {
-		res.Weights[g] = e.w[g]
+	res.settle(p, e, bestTheta)
+	res.Elapsed = time.Since(start)
+	if set.Profile && nAngles > 0 {
+		t0 := time.Now()
+		res.profiles(p, set)
+		if th, l := res.profileMinimum(); l < res.Loss*(1-1e-9) {
+			// The profile met a lower loss than the local refinements
+			// reached: refit from there, so that the fit is the profile's
+			// minimum, and profile again.
+			lr := e.minimize(th, nil, set.MaxIterations)
+			res.Iterations += lr.Iterations
+			res.Evaluations += lr.Evals
+			if lr.Loss < res.Loss {
+				res.settle(p, e, th)
+				res.profiles(p, set)
+			}
+		}
+		res.ProfileElapsed = time.Since(t0)
+	}
+	return res, nil
+}
+
+// settle fills the result from the engine's optimum θ: weights, model,
+// estimates, metrics and notes, replacing whatever an earlier optimum
+// left.
+func (r *Result) settle(p *Problem, e *engine, theta []float64) {
+	e.eval(theta, true)
+	r.e, r.theta = e, theta
+	r.Loss = e.loss
+	r.Model = cloneModelDeep(e.model)
+	r.Weights = make([]float64, len(r.Structure.Terms))
+	for g, members := range e.groups {
+		r.Weights[g] = e.w[g]
 		for _, k := range members {
-			res.Model.Terms[k].Weight = e.w[g]
+			r.Model.Terms[k].Weight = e.w[g]
 		}
 	}
-	for f := range res.Model.Families {
-		a := wrapAngle(res.Model.Families[f].Angle)
+	for f := range r.Model.Families {
+		a := wrapAngle(r.Model.Families[f].Angle)
 		if !p.HasShear {
-			// Only |α| is identified (physics.md §4). Write the first family
-			// at +|α| and the second at −|α|, so that a mirror pair reads as
-			// the usual ±β.
+			// Only |α| is identified without shear information. Write the
+			// first family at +|α| and the second at −|α|, so that a
+			// mirror pair reads as the usual ±β.
 			a = math.Abs(a)
 			if f == 1 && a != math.Pi/2 {
 				a = -a
 			}
 		}
-		res.Model.Families[f].Angle = a
+		r.Model.Families[f].Angle = a
 	}
-	res.uncertainty(p)
-	res.metrics(p)
-	res.notes(p)
-	res.Elapsed = time.Since(start)
-	if set.Profile && nAngles > 0 {
-		t0 := time.Now()
-		res.profiles(p, set)
-		res.ProfileElapsed = time.Since(t0)
-	}
-	return res, nil
+	r.Estimates, r.Correlation, r.CorrelationNames, r.Flags = nil, nil, nil, nil
+	r.FreeParams, r.Complexity, r.Metrics, r.Notes, r.Profiles = 0, 0, nil, nil, nil
+	r.uncertainty(p)
+	r.metrics(p)
+	r.notes(p)
 }
 
 // offSymmetry moves an angle that sits on 0 or 90° (stationary points of

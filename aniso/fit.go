@@ -172,12 +172,14 @@ type Estimate struct {
 	Value float64
 	Unit  string
 	// StdErr and the 95 % interval [Lo, Hi] come from the Gauss–Newton
-	// covariance scaled by the residual variance; they are NaN when Status
-	// is not "estimated".
+	// covariance scaled by the residual variance, the interval kept inside
+	// the quantity's domain (weights ≥ 0, parameters within their bounds,
+	// |α| and half angles within [0°, 90°]); they are NaN unless Status is
+	// StatusEstimated or StatusCorrelated.
 	StdErr, Lo, Hi float64
-	// Status is "estimated"; "inactive" for a weight at zero (no symmetric
-	// interval makes sense at the w ≥ 0 bound); "at-bound" for a parameter
-	// held at a bound; "not-determined" when the data cannot fix it.
+	// Status is one of StatusEstimated, StatusCorrelated,
+	// StatusDegenerate, StatusInactive, StatusAtBound and
+	// StatusNotDetermined (see StatusMeaning).
 	Status string
 }
 
@@ -219,6 +221,11 @@ type AngleProfile struct {
 	// Closed is false when the loss stays below the threshold to an end of
 	// the range: the data do not bound the angle there.
 	Closed bool
+	// NotDetermined is true when the loss stays below the threshold over
+	// the whole range (a full 180° period, or [0°, 90°] for |α| and for a
+	// half angle): the data exclude no angle, LoDeg and HiDeg are NaN, and
+	// the angle's Estimate has StatusNotDetermined.
+	NotDetermined bool
 	// Mirrored is true when only |α| was profiled (no shear information)
 	// and the curve was mirrored to negative angles.
 	Mirrored bool
@@ -238,11 +245,17 @@ type Result struct {
 	Weights []float64
 	// Estimates lists weights, angles, dispersions and shape parameters.
 	Estimates []Estimate
-	// Correlation between the estimated quantities (Status "estimated"),
-	// named by CorrelationNames; Flags name pairs with |r| > 0.95.
+	// Correlation between the fitted quantities (every Estimate whose
+	// Status is estimated, correlated or degenerate, and those the data
+	// turned out not to determine), named by CorrelationNames; Flags name
+	// pairs with |r| > CorrelationFlagLevel, degenerate terms and angles
+	// the data do not determine.
 	Correlation      [][]float64
 	CorrelationNames []string
 	Flags            []string
+	// Combinations state, per block of correlated estimates, the
+	// combination the data do determine.
+	Combinations []Combination
 	// Loss is the weighted residual sum of squares; Rows the number of
 	// residuals; FreeParams the number of estimated quantities (active
 	// weights and non-linear parameters not held at a bound).
@@ -570,7 +583,7 @@ func (r *Result) settle(p *Problem, e *engine, theta []float64) {
 		}
 		r.Model.Families[f].Angle = a
 	}
-	r.Estimates, r.Correlation, r.CorrelationNames, r.Flags = nil, nil, nil, nil
+	r.Estimates, r.Correlation, r.CorrelationNames, r.Flags, r.Combinations = nil, nil, nil, nil, nil
 	r.FreeParams, r.Complexity, r.Metrics, r.Notes, r.Profiles = 0, 0, nil, nil, nil
 	r.uncertainty(p)
 	r.metrics(p)
@@ -809,8 +822,11 @@ func (r *Result) notes(p *Problem) {
 			break
 		}
 	}
+	for _, c := range r.Combinations {
+		r.Notes = append(r.Notes, c.Text)
+	}
 	for _, est := range r.Estimates {
-		if est.Status == "at-bound" {
+		if est.Status == StatusAtBound {
 			r.Notes = append(r.Notes, fmt.Sprintf("%s sits at a bound of its range (%g); the data push it there, so treat it as a limit, not an estimate.", est.Name, est.Value))
 		}
 	}

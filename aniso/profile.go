@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"fmt"
 	"math"
 	"sort"
 	"sync"
@@ -42,6 +43,23 @@ func (r *Result) profiles(p *Problem, set Settings) {
 	r.Profiles = append(r.Profiles, out...)
 	// Leave the fit's engine at the optimum.
 	e.eval(r.theta, true)
+	for _, pr := range out {
+		if !pr.NotDetermined {
+			continue
+		}
+		for j := range r.Estimates {
+			est := &r.Estimates[j]
+			if est.Name == pr.Name && (est.Status == StatusEstimated || est.Status == StatusCorrelated) {
+				est.Status = StatusNotDetermined
+				est.StdErr, est.Lo, est.Hi = math.NaN(), math.NaN(), math.NaN()
+			}
+		}
+		why := ""
+		if r.Structure.Layout == LayoutFree {
+			why = " (the other family can take this family's place)"
+		}
+		r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its loss profile stays below the 95 %% threshold over the angle's whole range, so the data exclude no angle%s", pr.Name, why))
+	}
 }
 
 // profileMinimum returns the lowest point any profile met, with its
@@ -340,7 +358,10 @@ func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq floa
 		pr.HiDeg = crossing(hiIdx, hiIdx+1)
 	}
 	if loIdx == 0 && hiIdx == len(grid)-1 {
-		pr.Closed = false
+		// Below the threshold over a whole period (or the whole range of
+		// |α| or of a half angle): no interval.
+		pr.Closed, pr.NotDetermined = false, true
+		pr.LoDeg, pr.HiDeg = math.NaN(), math.NaN()
 	}
 	pr.AnglesDeg, pr.Loss = profileCurve(grid, loss, q.Periodic && !mirrored, mirrored)
 	return pr

@@ -66,6 +66,10 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, e.Status)
 	}
 	for _, p := range r.Profiles {
+		if p.NotDetermined {
+			fmt.Fprintf(tw, "%s profile\t\t-\tdeg\tnot-determined (below the 95%% threshold over the whole range)\n", p.Name)
+			continue
+		}
 		closed := ""
 		if !p.Closed {
 			closed = " (not bounded by the data at one end)"
@@ -73,6 +77,15 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		fmt.Fprintf(tw, "%s profile\t\t[%.2f, %.2f]\tdeg\tprofile-likelihood 95%%%s\n", p.Name, p.LoDeg, p.HiDeg, closed)
 	}
 	tw.Flush()
+	var statuses []string
+	for _, e := range r.Estimates {
+		if e.Status != aniso.StatusInactive || e.Kind == "weight" {
+			statuses = append(statuses, e.Status)
+		}
+	}
+	for _, l := range statusLegend(statuses) {
+		fmt.Fprintf(w, "status:   %s\n", l)
+	}
 	for _, f := range r.Flags {
 		fmt.Fprintf(w, "flag:     %s\n", f)
 	}
@@ -176,4 +189,19 @@ func pairText(l *card.Layout) string {
 		mean = *l.MeanDeg
 	}
 	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", num(mean, "%.2f"), *l.HalfAngleDeg)
+}
+
+// statusLegend explains, once each and in a fixed order, the parameter
+// statuses other than "estimated" that appear in a table.
+func statusLegend(shown []string) []string {
+	var out []string
+	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
+		for _, s := range shown {
+			if s == st {
+				out = append(out, st+": "+aniso.StatusMeaning(st))
+				break
+			}
+		}
+	}
+	return out
 }

@@ -326,3 +326,65 @@ func TestFitPresetPairAxis(t *testing.T) {
 		}
 	}
 }
+
+// The summary, the card (validated against the schema) and the report show
+// the statuses the evidence gives: a dispersed pair on the one-family demo
+// specimen has correlated parameters and states the combination the data
+// determine; a spare second family is degenerate and its angle profile
+// gives no interval (research-grade fits; data synthetic, see
+// testdata/demo/README.md).
+func TestFitStatusesShown(t *testing.T) {
+	dir := copyDemo(t, "membrane-M1.csv")
+	for _, c := range []struct {
+		args   []string
+		status string
+		text   []string
+	}{
+		{[]string{"--preset", "goh"}, "correlated", []string{"status:   correlated:", "note:     The data determine"}},
+		{[]string{"--terms", "i1-lin,fib-expsq", "--families", "2"}, "degenerate", []string{"status:   degenerate:", "is degenerate, not supported by the data", "not-determined (below the 95% threshold"}},
+	} {
+		od := filepath.Join(dir, c.status)
+		out, errs, code := runWeft(t, append([]string{"fit", filepath.Join(dir, "membrane-M1.csv"), "-o", od, "--quiet"}, c.args...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errs)
+		}
+		for _, s := range append(c.text, "  "+c.status+"\n") {
+			if !strings.Contains(out, s) {
+				t.Errorf("%v: summary lacks %q:\n%s", c.args, s, out)
+			}
+		}
+		b, err := os.ReadFile(filepath.Join(od, "model.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		schemaValidate(t, b)
+		var mc struct {
+			Fit struct {
+				Estimates []struct {
+					Status string      `json:"status"`
+					CI95   [2]*float64 `json:"ci95"`
+				} `json:"estimates"`
+				Combinations []struct {
+					Names []string `json:"names"`
+				} `json:"combinations"`
+			} `json:"fit"`
+		}
+		if err := json.Unmarshal(b, &mc); err != nil {
+			t.Fatal(err)
+		}
+		seen := false
+		for _, e := range mc.Fit.Estimates {
+			seen = seen || e.Status == c.status
+			if e.Status == "degenerate" && e.CI95[0] != nil {
+				t.Errorf("%v: a degenerate estimate has an interval", c.args)
+			}
+		}
+		if !seen || c.status == "correlated" && len(mc.Fit.Combinations) == 0 {
+			t.Errorf("%v: card lacks status %q or its combination", c.args, c.status)
+		}
+		html, err := os.ReadFile(filepath.Join(od, "report.html"))
+		if err != nil || !strings.Contains(string(html), c.status+": ") {
+			t.Errorf("%v: report.html does not explain the %q status", c.args, c.status)
+		}
+	}
+}

@@ -299,7 +299,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		} else if !p.Closed {
 			s += " (not bounded by the data at one end)"
 		}
-		if p.Mirrored {
+		if p.Mirrored && !p.NotDetermined {
 			s += "; sign not determined, the mirror image is equally good"
 		}
 		v.Profiles = append(v.Profiles, s)

@@ -205,8 +205,9 @@ type Metric struct {
 // angle is re-optimised from both neighbouring grid angles, and the loss is
 // never above the best loss of the form without the family the angle moves
 // (zero weights for that family are admissible at any angle). When a
-// profile meets a lower loss than the fit, Fit refits from there, so the
-// fitted loss is the profile's minimum and its value at OptimumDeg.
+// profile meets a lower loss than the fit, Fit refits from there and
+// profiles again (at most maxProfileRefits times), so the fitted loss is
+// the profile's minimum and its value at OptimumDeg.
 type AngleProfile struct {
 	// Name is the parameter's name ("angle", "angle_1", "mean_angle", ...).
 	Name string
@@ -538,22 +539,31 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	if set.Profile && nAngles > 0 {
 		t0 := time.Now()
 		res.profiles(p, set)
-		if th, l := res.profileMinimum(); l < res.Loss*(1-1e-9) {
-			// The profile met a lower loss than the local refinements
-			// reached: refit from there, so that the fit is the profile's
-			// minimum, and profile again.
+		// A profile that meets a lower loss than the local refinements
+		// reached: refit from there, so that the fit is the profile's
+		// minimum, and profile again.
+		for round := 0; round < maxProfileRefits; round++ {
+			th, l := res.profileMinimum()
+			if !(l < res.Loss*(1-1e-9)) {
+				break
+			}
 			lr := e.minimize(th, nil, set.MaxIterations)
 			res.Iterations += lr.Iterations
 			res.Evaluations += lr.Evals
-			if lr.Loss < res.Loss {
-				res.settle(p, e, th)
-				res.profiles(p, set)
+			if !(lr.Loss < res.Loss) {
+				break
 			}
+			res.settle(p, e, th)
+			res.profiles(p, set)
 		}
 		res.ProfileElapsed = time.Since(t0)
 	}
 	return res, nil
 }
+
+// maxProfileRefits bounds the refits from lower points met by profiles;
+// each round lowers the loss, and one round is the rule.
+const maxProfileRefits = 3
 
 // settle fills the result from the engine's optimum θ: weights, model,
 // estimates, metrics and notes, replacing whatever an earlier optimum

@@ -579,7 +579,9 @@ func formName(f Structure) string {
 	return f.Layout.String()
 }
 
-// PresetStructure returns the model form of a named preset.
+// PresetStructure returns the model form of a named preset. A preset's
+// mirror pair is held symmetric about axis 1 (Structure.HoldPairAxis), as
+// published; clear HoldPairAxis to learn the pair's axis as well.
 func PresetStructure(name string) (Structure, error) {
 	pr := terms.LookupPreset(name)
 	if pr == nil {
@@ -589,7 +591,8 @@ func PresetStructure(name string) (Structure, error) {
 		}
 		return Structure{}, fmt.Errorf("no preset %q; choose one of %s", name, strings.Join(names, ", "))
 	}
-	st := Structure{Dispersion: pr.Dispersion}
+	// A preset's pair is symmetric about axis 1, as published.
+	st := Structure{Dispersion: pr.Dispersion, HoldPairAxis: pr.Mirror}
 	switch {
 	case pr.Families == 0:
 		st.Layout = LayoutNone

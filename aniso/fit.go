@@ -76,6 +76,13 @@ type Structure struct {
 	// pair shares one b). Only fibre-stretch terms (argument E_f) sit on
 	// such families. Dispersion and Planar exclude each other.
 	Planar bool
+	// HoldPairAxis holds a mirror pair's mean direction θ at 0, so that the
+	// families sit at ±β, symmetric about axis 1: the published form of
+	// Holzapfel, Gasser & Ogden 2000 and Gasser, Ogden & Holzapfel 2006.
+	// Since β ranges over [0°, 90°], a pair symmetric about axis 2 is the
+	// same form (θ = 90°, β' = 90° − β). False (the default) learns θ.
+	// Only a mirror layout uses it.
+	HoldPairAxis bool
 }
 
 // withTerms returns the same form (layout and spread) with other terms.
@@ -129,6 +136,9 @@ func (s Structure) Validate() error {
 				return fmt.Errorf("%s: a family spread in the plane takes fibre-stretch terms only (argument E_f)", t.Shape.ID)
 			}
 		}
+	}
+	if s.HoldPairAxis && s.Layout != LayoutMirror {
+		return fmt.Errorf("a held pair axis needs a mirror pair, not a %s layout", s.Layout)
 	}
 	return nil
 }
@@ -198,12 +208,14 @@ type Estimate struct {
 	Value float64
 	Unit  string
 	// StdErr and the 95 % interval [Lo, Hi] come from the Gauss–Newton
-	// covariance scaled by the residual variance; they are NaN when Status
-	// is not "estimated".
+	// covariance scaled by the residual variance, the interval kept inside
+	// the quantity's domain (weights ≥ 0, parameters within their bounds,
+	// |α| and half angles within [0°, 90°]); they are NaN unless Status is
+	// StatusEstimated or StatusCorrelated.
 	StdErr, Lo, Hi float64
-	// Status is "estimated"; "inactive" for a weight at zero (no symmetric
-	// interval makes sense at the w ≥ 0 bound); "at-bound" for a parameter
-	// held at a bound; "not-determined" when the data cannot fix it.
+	// Status is one of StatusEstimated, StatusCorrelated,
+	// StatusDegenerate, StatusInactive, StatusAtBound and
+	// StatusNotDetermined (see StatusMeaning).
 	Status string
 }
 
@@ -225,7 +237,13 @@ type Metric struct {
 }
 
 // AngleProfile is the loss over one angle parameter, minimised over all
-// other non-linear parameters and the weights at every grid angle.
+// other non-linear parameters and the weights at every grid angle: each
+// angle is re-optimised from both neighbouring grid angles, and the loss is
+// never above the best loss of the form without the family the angle moves
+// (zero weights for that family are admissible at any angle). When a
+// profile meets a lower loss than the fit, Fit refits from there and
+// profiles again (at most maxProfileRefits times), so the fitted loss is
+// the profile's minimum and its value at OptimumDeg.
 type AngleProfile struct {
 	// Name is the parameter's name ("angle", "angle_1", "mean_angle", ...).
 	Name string
@@ -240,9 +258,19 @@ type AngleProfile struct {
 	// Closed is false when the loss stays below the threshold to an end of
 	// the range: the data do not bound the angle there.
 	Closed bool
+	// NotDetermined is true when the loss stays below the threshold over
+	// the whole range (a full 180° period, or [0°, 90°] for |α| and for a
+	// half angle): the data exclude no angle, LoDeg and HiDeg are NaN, and
+	// the angle's Estimate has StatusNotDetermined.
+	NotDetermined bool
 	// Mirrored is true when only |α| was profiled (no shear information)
 	// and the curve was mirrored to negative angles.
 	Mirrored bool
+
+	// minLoss and minTheta are the lowest point off the optimum and its
+	// parameters, to refit from when it lies below the fit.
+	minLoss  float64
+	minTheta []float64
 }
 
 // Result is a fitted model form with its evidence.
@@ -254,11 +282,17 @@ type Result struct {
 	Weights []float64
 	// Estimates lists weights, angles, dispersions and shape parameters.
 	Estimates []Estimate
-	// Correlation between the estimated quantities (Status "estimated"),
-	// named by CorrelationNames; Flags name pairs with |r| > 0.95.
+	// Correlation between the fitted quantities (every Estimate whose
+	// Status is estimated, correlated or degenerate, and those the data
+	// turned out not to determine), named by CorrelationNames; Flags name
+	// pairs with |r| > CorrelationFlagLevel, degenerate terms and angles
+	// the data do not determine.
 	Correlation      [][]float64
 	CorrelationNames []string
 	Flags            []string
+	// Combinations state, per block of correlated estimates, the
+	// combination the data do determine.
+	Combinations []Combination
 	// Loss is the weighted residual sum of squares; Rows the number of
 	// residuals; FreeParams the number of estimated quantities (active
 	// weights and non-linear parameters not held at a bound).
@@ -342,8 +376,12 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	case LayoutSingle:
 		ps = append(ps, param{Kind: kindAngle, Name: "angle", Angle: 0, Periodic: true})
 	case LayoutMirror:
-		ps = append(ps, param{Kind: kindAngle, Name: "mean_angle", Angle: 0, Periodic: true},
-			param{Kind: kindAngle, Name: "half_angle", Angle: 1, Lo: 0, Hi: math.Pi / 2})
+		// A held pair axis has no mean-angle parameter: θ stays 0 in
+		// engine.apply.
+		if !st.HoldPairAxis {
+			ps = append(ps, param{Kind: kindAngle, Name: "mean_angle", Angle: 0, Periodic: true})
+		}
+		ps = append(ps, param{Kind: kindAngle, Name: "half_angle", Angle: 1, Lo: 0, Hi: math.Pi / 2})
 	case LayoutFree:
 		ps = append(ps, param{Kind: kindAngle, Name: "angle_1", Angle: 0, Periodic: true},
 			param{Kind: kindAngle, Name: "angle_2", Angle: 1, Periodic: true})
@@ -557,40 +595,70 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	if bestTheta == nil || math.IsInf(best, 1) {
 		return nil, errors.New("every starting point overflows: an exponential or limiting term cannot follow these stretches; try a smaller model, a preset without exponential terms, or check the stress unit")
 	}
-	e.eval(bestTheta, true)
-	res.e, res.theta = e, bestTheta
-	res.Loss = e.loss
-	res.Model = cloneModelDeep(e.model)
-	res.Weights = make([]float64, len(st.Terms))
-	for g, members := range groups {
-		res.Weights[g] = e.w[g]
+	res.settle(p, e, bestTheta)
+	res.Elapsed = time.Since(start)
+	if set.Profile && nAngles > 0 {
+		t0 := time.Now()
+		res.profiles(p, set)
+		// A profile that meets a lower loss than the local refinements
+		// reached: refit from there, so that the fit is the profile's
+		// minimum, and profile again.
+		for round := 0; round < maxProfileRefits; round++ {
+			th, l := res.profileMinimum()
+			if !(l < res.Loss*(1-1e-9)) {
+				break
+			}
+			lr := e.minimize(th, nil, set.MaxIterations)
+			res.Iterations += lr.Iterations
+			res.Evaluations += lr.Evals
+			if !(lr.Loss < res.Loss) {
+				break
+			}
+			res.settle(p, e, th)
+			res.profiles(p, set)
+		}
+		res.ProfileElapsed = time.Since(t0)
+	}
+	return res, nil
+}
+
+// maxProfileRefits bounds the refits from lower points met by profiles;
+// each round lowers the loss, and one round is the rule.
+const maxProfileRefits = 3
+
+// settle fills the result from the engine's optimum θ: weights, model,
+// estimates, metrics and notes, replacing whatever an earlier optimum
+// left.
+func (r *Result) settle(p *Problem, e *engine, theta []float64) {
+	e.eval(theta, true)
+	r.e, r.theta = e, theta
+	r.Loss = e.loss
+	r.Model = cloneModelDeep(e.model)
+	r.Weights = make([]float64, len(r.Structure.Terms))
+	for g, members := range e.groups {
+		r.Weights[g] = e.w[g]
 		for _, k := range members {
-			res.Model.Terms[k].Weight = e.w[g]
+			r.Model.Terms[k].Weight = e.w[g]
 		}
 	}
-	for f := range res.Model.Families {
-		a := wrapAngle(res.Model.Families[f].Angle)
+	for f := range r.Model.Families {
+		a := wrapAngle(r.Model.Families[f].Angle)
 		if !p.HasShear {
-			// Only |α| is identified (physics.md §4). Write the first family
-			// at +|α| and the second at −|α|, so that a mirror pair reads as
-			// the usual ±β.
+			// Only |α| is identified without shear information. Write the
+			// first family at +|α| and the second at −|α|, so that a
+			// mirror pair reads as the usual ±β.
 			a = math.Abs(a)
 			if f == 1 && a != math.Pi/2 {
 				a = -a
 			}
 		}
-		res.Model.Families[f].Angle = a
+		r.Model.Families[f].Angle = a
 	}
-	res.uncertainty(p)
-	res.metrics(p)
-	res.notes(p)
-	res.Elapsed = time.Since(start)
-	if set.Profile && nAngles > 0 {
-		t0 := time.Now()
-		res.profiles(p, set)
-		res.ProfileElapsed = time.Since(t0)
-	}
-	return res, nil
+	r.Estimates, r.Correlation, r.CorrelationNames, r.Flags, r.Combinations = nil, nil, nil, nil, nil
+	r.FreeParams, r.Complexity, r.Metrics, r.Notes, r.Profiles = 0, 0, nil, nil, nil
+	r.uncertainty(p)
+	r.metrics(p)
+	r.notes(p)
 }
 
 // offSymmetry moves an angle that sits on 0 or 90° (stationary points of
@@ -808,7 +876,10 @@ func (r *Result) notes(p *Problem) {
 			r.Notes = append(r.Notes, "The data carry no shear information (pure biaxial stretch, no shear stress measured): the sign of a fibre angle cannot be determined, so angles are reported as ±|α|, and one family at α cannot be told from a mirror pair at ±α with half the weight each. Shear from markers or an off-axis protocol would decide it.")
 		}
 	}
-	if r.Structure.Layout == LayoutMirror && !p.HasShear {
+	switch {
+	case r.Structure.Layout == LayoutMirror && r.Structure.HoldPairAxis:
+		r.Notes = append(r.Notes, "The pair's axis is held on axis 1, as in the published form (Holzapfel, Gasser & Ogden 2000): the families sit at ±β, symmetric about axis 1 (a pair symmetric about axis 2 is the same form with β' = 90° − β). A pair whose axis is turned away from the loading axes is not part of this form; learn the axis to test for one.")
+	case r.Structure.Layout == LayoutMirror && !p.HasShear:
 		r.Notes = append(r.Notes, "Without shear information a mirror pair at θ ± β has the same normal stresses as θ' = θ − 90°, β' = 90° − β (and as −θ ± β): the pair's mean and half angle are reported as fitted, and the families' angles ±|α| in the model card are what the data determine.")
 	}
 	if r.Structure.Dispersion {
@@ -825,8 +896,11 @@ func (r *Result) notes(p *Problem) {
 			break
 		}
 	}
+	for _, c := range r.Combinations {
+		r.Notes = append(r.Notes, c.Text)
+	}
 	for _, est := range r.Estimates {
-		if est.Status == "at-bound" {
+		if est.Status == StatusAtBound {
 			r.Notes = append(r.Notes, fmt.Sprintf("%s sits at a bound of its range (%g); the data push it there, so treat it as a limit, not an estimate.", est.Name, est.Value))
 		}
 	}

@@ -4,51 +4,160 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"sync"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // CorrelationFlagLevel is the |r| above which two estimates are flagged as
-// not separately determined.
+// not separately determined (status StatusCorrelated).
 const CorrelationFlagLevel = 0.95
 
-// uncertainty fills Estimates, Correlation and Flags from the Gauss–Newton
-// covariance at the optimum, σ̂²(JᵀJ)⁻¹ with σ̂² = loss/(rows − free), J the
-// Jacobian of the weighted residuals with respect to the active weights and
-// the non-linear parameters (Bates & Watts 1988, Nonlinear Regression
-// Analysis and Its Applications, §2.3). Weights at zero are inactive and
-// parameters at a bound are held, not given a symmetric interval.
-func (r *Result) uncertainty(p *Problem) {
-	e := r.e
-	unit := p.Specimen.StressUnit
-	type col struct {
-		est int
-		v   []float64
+// Statuses of an Estimate.
+const (
+	// StatusEstimated: determined by the data, with a 95 % interval.
+	StatusEstimated = "estimated"
+	// StatusCorrelated: in a pair with |r| > CorrelationFlagLevel; its own
+	// interval is wide and a combination with its partners is what the data
+	// determine (Result.Combinations).
+	StatusCorrelated = "correlated"
+	// StatusDegenerate: a quantity of a term the data do not support
+	// (Result.Degenerate), or the angle or dispersion of a family whose
+	// active terms all are such terms; no interval.
+	StatusDegenerate = "degenerate"
+	// StatusInactive: a weight at zero (no symmetric interval at the w ≥ 0
+	// bound), or a parameter of such a term.
+	StatusInactive = "inactive"
+	// StatusAtBound: a parameter held at a bound of its range.
+	StatusAtBound = "at-bound"
+	// StatusNotDetermined: the data cannot fix it (a direction the data do
+	// not see, or an angle interval wider than the 180° period).
+	StatusNotDetermined = "not-determined"
+)
+
+// StatusMeaning says in words what an Estimate status means, or "" for an
+// unknown status.
+func StatusMeaning(status string) string {
+	switch status {
+	case StatusEstimated:
+		return "determined by the data, with a 95 % interval"
+	case StatusCorrelated:
+		return "not separately determined: correlated (|r| > 0.95) with another quantity; the notes name the combination the data do determine"
+	case StatusDegenerate:
+		return "a quantity of a term the data do not support, or the angle of a family made only of such terms (see the flags); no interval"
+	case StatusInactive:
+		return "weight at zero: the term is not used"
+	case StatusAtBound:
+		return "held at a bound of its range: a limit, not an estimate"
+	case StatusNotDetermined:
+		return "the data cannot fix it (its interval would span the whole range)"
 	}
-	var cols []col
+	return ""
+}
+
+// Combination is a combination of correlated estimates that the data
+// determine better than any of its members: the direction of least
+// variance of their correlation block, Σ Coefficients_i · value_i in the
+// estimates' own units (degrees for angles).
+type Combination struct {
+	// Names are the members, as in Result.Estimates.
+	Names []string
+	// Coefficients of the sum; the largest |coefficient| is 1.
+	Coefficients []float64
+	// Value of the combination and its StdErr; MemberStdErr are the
+	// members' own standard errors, for comparison.
+	Value, StdErr float64
+	MemberStdErr  []float64
+	// Text states the combination in words and numbers.
+	Text string
+}
+
+// jcol is one column of the Jacobian of the weighted residuals: the
+// quantity behind Estimates[est].
+type jcol struct {
+	est int
+	v   []float64
+	// sign is −1 for an angle reported as |α| whose fitted value is
+	// negative, so that covariances refer to the reported value.
+	sign float64
+}
+
+// uncertainty fills Estimates, Correlation, Flags and Combinations from the
+// Gauss–Newton covariance at the optimum, σ̂²(JᵀJ)⁻¹ with σ̂² =
+// loss/(rows − free), J the Jacobian of the weighted residuals with respect
+// to the active weights and the non-linear parameters (Bates & Watts 1988,
+// Nonlinear Regression Analysis and Its Applications, §2.3). Weights at
+// zero are inactive and parameters at a bound are held, not given a
+// symmetric interval; terms the data do not support are degenerate;
+// intervals are clipped to each quantity's domain.
+func (r *Result) uncertainty(p *Problem) {
+	cols := r.initEstimates(p)
+	k := len(cols)
+	r.FreeParams = k
+	for _, est := range r.Estimates {
+		if est.Status != StatusInactive {
+			r.Complexity++
+		}
+	}
+	n := r.Rows
+	lossFloor := math.Max(r.Loss, 1e-300)
+	aic := float64(n)*math.Log(lossFloor/float64(n)) + 2*float64(k)
+	r.AICc = aic + 2*float64(k*(k+1))/math.Max(float64(n-k-1), 1)
+	r.BIC = float64(n)*math.Log(lossFloor/float64(n)) + float64(k)*math.Log(float64(n))
+	if k == 0 || n <= k {
+		return
+	}
+	cov, undetermined, ok := covariance(cols)
+	if !ok {
+		return
+	}
+	// cov is in the units of the Jacobian's columns (radians for angles);
+	// scale it to the reported units with σ̂².
+	sigma2 := r.Loss / float64(n-k)
+	unit := make([]float64, k)
+	for a, c := range cols {
+		unit[a] = 1
+		if r.Estimates[c.est].Kind == "angle" {
+			unit[a] = 180 / math.Pi
+		}
+	}
+	for a := 0; a < k; a++ {
+		for b := 0; b < k; b++ {
+			cov.Set(a, b, cov.At(a, b)*sigma2*unit[a]*unit[b])
+		}
+	}
+	r.intervals(p, cols, cov, undetermined, n-k)
+	r.correlations(cols, cov)
+}
+
+// initEstimates lists every weight and non-linear parameter with its
+// status and returns the Jacobian columns of those that are fitted
+// (estimated or degenerate).
+func (r *Result) initEstimates(p *Problem) []jcol {
+	e := r.e
+	var cols []jcol
 	for g, t := range r.Structure.Terms {
-		est := Estimate{Name: "weight[" + t.Label(r.Structure.Layout) + "]", Kind: "weight", Term: g, Value: e.w[g], Unit: unit,
-			StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: "estimated"}
+		est := Estimate{Name: "weight[" + t.Label(r.Structure.Layout) + "]", Kind: "weight", Term: g, Value: e.w[g], Unit: p.Specimen.StressUnit,
+			StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: StatusEstimated}
 		if e.w[g] <= 0 {
-			est.Status = "inactive"
+			est.Status = StatusInactive
 		} else {
-			cols = append(cols, col{len(r.Estimates), e.A[g*e.rows : (g+1)*e.rows]})
+			cols = append(cols, jcol{len(r.Estimates), e.A[g*e.rows : (g+1)*e.rows], 1})
 		}
 		r.Estimates = append(r.Estimates, est)
 	}
 	for i, q := range e.params {
 		v := r.theta[i]
-		est := Estimate{Name: q.Name, Term: -1, Value: v, StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: "estimated"}
+		est := Estimate{Name: q.Name, Term: -1, Value: v, StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: StatusEstimated}
+		sign := 1.0
 		switch q.Kind {
 		case kindAngle:
 			est.Kind, est.Unit = "angle", "deg"
 			if q.Periodic {
 				est.Value = wrapAngle(v) * 180 / math.Pi
-				if !p.HasShear {
+				if !p.HasShear && est.Value < 0 {
 					// Only |α| is identified without shear information.
-					est.Value = math.Abs(est.Value)
+					est.Value, sign = -est.Value, -1
 				}
 			} else {
 				est.Value = v * 180 / math.Pi
@@ -61,39 +170,80 @@ func (r *Result) uncertainty(p *Problem) {
 			est.Kind, est.Term = "shape", q.Group
 		}
 		if !q.Periodic && (v <= q.Lo || v >= q.Hi) {
-			est.Status = "at-bound"
+			est.Status = StatusAtBound
 		}
 		// A shape parameter of an inactive term has no effect on the fit.
 		if q.Kind == kindShape && e.w[q.Group] <= 0 {
-			est.Status = "inactive"
+			est.Status = StatusInactive
 		}
-		if q.Kind == kindAngle || q.Kind == kindKappa || q.Kind == kindConcentration {
-			if !r.anyFibreActive() {
-				est.Status = "not-determined"
-			}
+		if (q.Kind == kindAngle || q.Kind == kindKappa || q.Kind == kindConcentration) && !r.anyFibreActive() {
+			est.Status = StatusNotDetermined
 		}
-		if est.Status == "estimated" {
-			cols = append(cols, col{len(r.Estimates), e.v[i]})
+		if est.Status == StatusEstimated {
+			cols = append(cols, jcol{len(r.Estimates), e.v[i], sign})
 		}
 		r.Estimates = append(r.Estimates, est)
 	}
-	k := len(cols)
-	r.FreeParams = k
-	for _, est := range r.Estimates {
-		if est.Status != "inactive" {
-			r.Complexity++
+	r.markDegenerate(p)
+	return cols
+}
+
+// markDegenerate gives the quantities of the terms the data do not support
+// (Degenerate) their own status and a flag, and so the angle and dispersion
+// of a family whose every active term is such a term. They keep their place
+// in the Jacobian, being part of the fitted model, but get no interval.
+func (r *Result) markDegenerate(p *Problem) {
+	nw := len(r.Structure.Terms)
+	degen := make([]bool, nw)
+	mark := func(j int) {
+		if st := r.Estimates[j].Status; st == StatusEstimated || st == StatusAtBound {
+			r.Estimates[j].Status = StatusDegenerate
 		}
 	}
-	n := r.Rows
-	lossFloor := math.Max(r.Loss, 1e-300)
-	aic := float64(n)*math.Log(lossFloor/float64(n)) + 2*float64(k)
-	r.AICc = aic + 2*float64(k*(k+1))/math.Max(float64(n-k-1), 1)
-	r.BIC = float64(n)*math.Log(lossFloor/float64(n)) + float64(k)*math.Log(float64(n))
-	if k == 0 || n <= k {
-		return
+	for _, d := range r.Degenerate(p) {
+		degen[d.Term] = true
+		for j, est := range r.Estimates {
+			if est.Term == d.Term && (est.Kind == "weight" || est.Kind == "shape") {
+				mark(j)
+			}
+		}
+		r.Flags = append(r.Flags, fmt.Sprintf("%s is degenerate, not supported by the data: %s", r.Structure.Terms[d.Term].Label(r.Structure.Layout), d.Detail))
 	}
-	// Scale J's columns to unit norm so that the eigen-decomposition sees
-	// the geometry, not the units.
+	// A structure family is 0 or 1; a mirror pair's terms all use 0.
+	for f := 0; f < 2; f++ {
+		active, supported := 0, 0
+		for g, t := range r.Structure.Terms {
+			if t.Family == f && r.Weights[g] > 0 {
+				active++
+				if !degen[g] {
+					supported++
+				}
+			}
+		}
+		if active == 0 || supported > 0 {
+			continue
+		}
+		for i, q := range r.e.params {
+			fam := 0
+			switch {
+			case r.Structure.Layout == LayoutFree && q.Kind == kindAngle:
+				fam = q.Angle
+			case r.Structure.Layout == LayoutFree && (q.Kind == kindKappa || q.Kind == kindConcentration):
+				fam = q.Families[0]
+			}
+			if (q.Kind == kindAngle || q.Kind == kindKappa || q.Kind == kindConcentration) && fam == f {
+				mark(nw + i)
+			}
+		}
+	}
+}
+
+// covariance returns (JᵀJ)⁻¹ of the columns, computed on unit-norm
+// columns so that the eigen-decomposition sees the geometry, not the
+// units, and marks the columns that load on a direction the data do not
+// see (relative eigenvalue below 1e-12): those are undetermined.
+func covariance(cols []jcol) (*mat.Dense, []bool, bool) {
+	k := len(cols)
 	scale := make([]float64, k)
 	JtJ := mat.NewSymDense(k, nil)
 	for a := range cols {
@@ -118,7 +268,7 @@ func (r *Result) uncertainty(p *Problem) {
 	}
 	var eig mat.EigenSym
 	if !eig.Factorize(JtJ, true) {
-		return
+		return nil, nil, false
 	}
 	vals := eig.Values(nil)
 	var vecs mat.Dense
@@ -127,8 +277,6 @@ func (r *Result) uncertainty(p *Problem) {
 	for _, v := range vals {
 		maxEig = math.Max(maxEig, v)
 	}
-	// Directions the data do not see (relative eigenvalue below 1e-12) make
-	// every quantity that loads on them undetermined.
 	cov := mat.NewDense(k, k, nil)
 	undetermined := make([]bool, k)
 	for c, lam := range vals {
@@ -146,46 +294,120 @@ func (r *Result) uncertainty(p *Problem) {
 			}
 		}
 	}
-	sigma2 := r.Loss / float64(n-k)
-	tq := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - k)}.Quantile(0.975)
-	names := make([]string, k)
-	for a := range cols {
-		est := &r.Estimates[cols[a].est]
-		names[a] = est.Name
+	for a := 0; a < k; a++ {
+		for b := 0; b < k; b++ {
+			cov.Set(a, b, cov.At(a, b)*cols[a].sign*cols[b].sign/(scale[a]*scale[b]))
+		}
+	}
+	return cov, undetermined, true
+}
+
+// intervals sets standard errors and 95 % Student-t intervals from the
+// covariance in reported units, kept inside each quantity's domain:
+// weights ≥ 0, dispersion and shape parameters within their bounds, |α|
+// (no shear information) and a half angle within [0°, 90°]. An angle whose
+// interval is wider than its 180° period is not determined.
+func (r *Result) intervals(p *Problem, cols []jcol, cov *mat.Dense, undetermined []bool, dof int) {
+	tq := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(dof)}.Quantile(0.975)
+	nw := len(r.Structure.Terms)
+	for a, c := range cols {
+		est := &r.Estimates[c.est]
 		if undetermined[a] {
-			est.Status = "not-determined"
+			if est.Status == StatusEstimated {
+				est.Status = StatusNotDetermined
+			}
 			continue
 		}
-		se := math.Sqrt(sigma2*cov.At(a, a)) / scale[a]
-		if est.Kind == "angle" {
-			se *= 180 / math.Pi
+		if est.Status != StatusEstimated {
+			continue
 		}
-		est.StdErr = se
-		est.Lo, est.Hi = est.Value-tq*se, est.Value+tq*se
+		se := math.Sqrt(cov.At(a, a))
+		lo, hi := est.Value-tq*se, est.Value+tq*se
+		if est.Kind == "angle" && hi-lo > 180 {
+			est.Status = StatusNotDetermined
+			r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its 95 %% interval (±%.3g°) is wider than the 180° period of a fibre angle", est.Name, tq*se))
+			continue
+		}
+		dlo, dhi := math.Inf(-1), math.Inf(1)
+		if c.est < nw {
+			dlo = 0
+		} else if q := r.e.params[c.est-nw]; q.Kind == kindAngle {
+			switch {
+			case !q.Periodic:
+				dlo, dhi = q.Lo*180/math.Pi, q.Hi*180/math.Pi
+			case !p.HasShear:
+				dlo, dhi = 0, 90
+			}
+		} else {
+			dlo, dhi = q.Lo, q.Hi
+		}
+		est.StdErr, est.Lo, est.Hi = se, math.Max(lo, dlo), math.Min(hi, dhi)
 		if est.Kind != "angle" && se > math.Abs(est.Value) {
 			r.Flags = append(r.Flags, fmt.Sprintf("%s is hardly determined by the data: its standard error %.3g exceeds its value %.3g", est.Name, se, est.Value))
 		}
+	}
+}
+
+// correlations fills the correlation matrix of the fitted quantities, flags
+// pairs with |r| > CorrelationFlagLevel, marks their members correlated and
+// states, per connected block of such pairs, the combination the data
+// determine.
+func (r *Result) correlations(cols []jcol, cov *mat.Dense) {
+	k := len(cols)
+	names := make([]string, k)
+	for a, c := range cols {
+		names[a] = r.Estimates[c.est].Name
 	}
 	r.CorrelationNames = names
 	r.Correlation = make([][]float64, k)
 	for a := 0; a < k; a++ {
 		r.Correlation[a] = make([]float64, k)
 		for b := 0; b < k; b++ {
-			d := math.Sqrt(cov.At(a, a) * cov.At(b, b))
-			if d > 0 {
+			if d := math.Sqrt(cov.At(a, a) * cov.At(b, b)); d > 0 {
 				r.Correlation[a][b] = cov.At(a, b) / d
 			}
 		}
 	}
+	linked := make([][]int, k)
 	for a := 0; a < k; a++ {
 		for b := 0; b < a; b++ {
-			if c := r.Correlation[a][b]; math.Abs(c) > CorrelationFlagLevel {
-				r.Flags = append(r.Flags, fmt.Sprintf("%s and %s are not separately determined (r = %.3f)", names[b], names[a], c))
+			c := r.Correlation[a][b]
+			if math.Abs(c) <= CorrelationFlagLevel {
+				continue
+			}
+			r.Flags = append(r.Flags, fmt.Sprintf("%s and %s are not separately determined (r = %.3f)", names[b], names[a], c))
+			ea, eb := &r.Estimates[cols[a].est], &r.Estimates[cols[b].est]
+			if ea.Status == StatusEstimated || ea.Status == StatusCorrelated {
+				if eb.Status == StatusEstimated || eb.Status == StatusCorrelated {
+					ea.Status, eb.Status = StatusCorrelated, StatusCorrelated
+					linked[a] = append(linked[a], b)
+					linked[b] = append(linked[b], a)
+				}
 			}
 		}
 	}
+	// Connected blocks, in order of their first member.
+	seen := make([]bool, k)
+	for a := 0; a < k; a++ {
+		if seen[a] || len(linked[a]) == 0 {
+			continue
+		}
+		block := []int{a}
+		seen[a] = true
+		for i := 0; i < len(block); i++ {
+			for _, b := range linked[block[i]] {
+				if !seen[b] {
+					seen[b] = true
+					block = append(block, b)
+				}
+			}
+		}
+		sort.Ints(block)
+		if c, ok := r.combination(cols, cov, block); ok {
+			r.Combinations = append(r.Combinations, c)
+		}
+	}
 }
-
 func (r *Result) anyFibreActive() bool {
 	for i, t := range r.Structure.Terms {
 		if t.Family >= 0 && r.Weights != nil && r.Weights[i] > 0 {
@@ -297,181 +519,4 @@ func (r *Result) metrics(p *Problem) {
 		return
 	}
 	r.Metrics = Metrics(p, pred)
-}
-
-// profiles computes the loss profile over every angle parameter: at each
-// grid angle the other non-linear parameters are re-optimised, continuing
-// outwards from the optimum. The 95 % profile-likelihood interval is where
-// the profile stays below loss·(1 + F(0.95; 1, n−k)/(n−k)) (Bates & Watts
-// 1988, §6.1; Venzon & Moolgavkar 1988); its ends are refined by bisection
-// between the grid angles that bracket the threshold. Each angle parameter
-// is profiled on its own engine, in parallel.
-func (r *Result) profiles(p *Problem, set Settings) {
-	e := r.e
-	n, k := r.Rows, r.FreeParams
-	if n <= k {
-		return
-	}
-	fq := distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
-	var idx []int
-	for i, q := range e.params {
-		if q.Kind == kindAngle {
-			idx = append(idx, i)
-		}
-	}
-	out := make([]AngleProfile, len(idx))
-	var wg sync.WaitGroup
-	for j, i := range idx {
-		wg.Add(1)
-		go func(j, i int) {
-			defer wg.Done()
-			pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
-			out[j] = r.profileOne(pe, p, i, set.ProfileStepDeg*math.Pi/180, fq)
-		}(j, i)
-	}
-	wg.Wait()
-	r.Profiles = append(r.Profiles, out...)
-	// Leave the fit's engine at the optimum.
-	e.eval(r.theta, true)
-}
-
-// profileOne profiles angle parameter i on engine pe.
-func (r *Result) profileOne(pe *engine, p *Problem, i int, step, fq float64) AngleProfile {
-	q := pe.params[i]
-	n, k := r.Rows, r.FreeParams
-	opt := r.theta[i]
-	mirrored := false
-	var lo, hi float64
-	switch {
-	case !q.Periodic:
-		lo, hi = q.Lo, q.Hi
-	case !p.HasShear:
-		// Only |α| matters: profile [0, 90°] and mirror it.
-		opt, mirrored = math.Abs(wrapAngle(opt)), true
-		lo, hi = 0, math.Pi/2
-	default:
-		// A full period centred on the optimum, so that the interval never
-		// meets an artificial end of the range.
-		opt = wrapAngle(opt)
-		lo, hi = opt-math.Pi/2, opt+math.Pi/2
-	}
-	// The grid includes the optimum itself, so that the walk starts there.
-	var grid []float64
-	c := -1
-	for x := lo; x <= hi+1e-12; x += step {
-		if c < 0 && x > opt+1e-9 {
-			c = len(grid)
-			grid = append(grid, opt)
-		}
-		if math.Abs(x-opt) > 1e-9 {
-			grid = append(grid, x)
-		}
-	}
-	if c < 0 {
-		c = len(grid)
-		grid = append(grid, opt)
-	}
-	free := make([]bool, len(pe.params))
-	for j := range free {
-		free[j] = j != i
-	}
-	loss := make([]float64, len(grid))
-	thetas := make([][]float64, len(grid))
-	eval := func(a float64, start []float64) ([]float64, float64) {
-		th := append([]float64(nil), start...)
-		th[i] = a
-		lr := pe.minimize(th, free, 40)
-		return th, lr.Loss
-	}
-	for _, dir := range []int{1, -1} {
-		th := r.theta
-		for j := c; j >= 0 && j < len(grid); j += dir {
-			if j == c {
-				loss[j], thetas[j] = r.Loss, append([]float64(nil), r.theta...)
-				thetas[j][i] = grid[j]
-				continue
-			}
-			th, loss[j] = eval(grid[j], th)
-			thetas[j] = th
-		}
-	}
-	minLoss := r.Loss
-	for _, l := range loss {
-		minLoss = math.Min(minLoss, l)
-	}
-	thr := minLoss * (1 + fq/float64(n-k))
-	pr := AngleProfile{Name: q.Name, Threshold: thr, Mirrored: mirrored, OptimumDeg: opt * 180 / math.Pi, Closed: true}
-	// crossing refines the threshold crossing between grid index in
-	// (below the threshold) and out (above) by bisection.
-	crossing := func(in, out int) float64 {
-		a, b := grid[in], grid[out]
-		th := thetas[in]
-		for it := 0; it < 8; it++ {
-			m := (a + b) / 2
-			t2, l := eval(m, th)
-			if l <= thr {
-				a, th = m, t2
-			} else {
-				b = m
-			}
-		}
-		return (a + b) / 2 * 180 / math.Pi
-	}
-	loIdx, hiIdx := c, c
-	for loIdx > 0 && loss[loIdx-1] <= thr {
-		loIdx--
-	}
-	for hiIdx < len(grid)-1 && loss[hiIdx+1] <= thr {
-		hiIdx++
-	}
-	// The ends of the half-angle's range and of |α| ∈ [0°, 90°] (no shear
-	// information) are natural ends of an interval; reaching an end of the
-	// period centred on the optimum means the data do not bound the angle.
-	if loIdx == 0 {
-		pr.LoDeg = grid[0] * 180 / math.Pi
-		if q.Periodic && !mirrored {
-			pr.Closed = false
-		}
-	} else {
-		pr.LoDeg = crossing(loIdx, loIdx-1)
-	}
-	if hiIdx == len(grid)-1 {
-		pr.HiDeg = grid[len(grid)-1] * 180 / math.Pi
-		if q.Periodic && !mirrored {
-			pr.Closed = false
-		}
-	} else {
-		pr.HiDeg = crossing(hiIdx, hiIdx+1)
-	}
-	if loIdx == 0 && hiIdx == len(grid)-1 {
-		pr.Closed = false
-	}
-	type pt struct{ a, l float64 }
-	var pts []pt
-	for j, x := range grid {
-		a := x * 180 / math.Pi
-		if q.Periodic && !mirrored {
-			a = wrapAngle(x) * 180 / math.Pi
-		}
-		pts = append(pts, pt{a, loss[j]})
-	}
-	sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
-	for _, v := range pts {
-		pr.AnglesDeg = append(pr.AnglesDeg, v.a)
-		pr.Loss = append(pr.Loss, v.l)
-	}
-	if mirrored {
-		var a, l []float64
-		for j := len(grid) - 1; j > 0; j-- {
-			a = append(a, -grid[j]*180/math.Pi)
-			l = append(l, loss[j])
-		}
-		if grid[0] != 0 {
-			a = append(a, -grid[0]*180/math.Pi)
-			l = append(l, loss[0])
-		}
-		pr.AnglesDeg = append(a, pr.AnglesDeg...)
-		pr.Loss = append(l, pr.Loss...)
-	}
-	return pr
 }

@@ -23,8 +23,9 @@ type Preset struct {
 	Title, Source string
 	// Families is the number of fibre families (0, 1 or 2).
 	Families int
-	// Mirror is true when two families sit at θ ± β and share their
-	// weights and rates, as in Holzapfel, Gasser & Ogden 2000.
+	// Mirror is true when two families sit at ±β, symmetric about axis 1,
+	// and share their weights and rates, as in Holzapfel, Gasser & Ogden
+	// 2000.
 	Mirror bool
 	// Dispersion is true when each family has a dispersion κ
 	// (Gasser, Ogden & Holzapfel 2006).

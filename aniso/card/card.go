@@ -84,6 +84,10 @@ type Layout struct {
 	// MeanDeg and HalfAngleDeg are θ and β of a mirror pair, in degrees.
 	MeanDeg      *float64 `json:"mean_deg,omitempty"`
 	HalfAngleDeg *float64 `json:"half_angle_deg,omitempty"`
+	// PairAxis says how a mirror pair's axis θ was found: "axis-1" when it
+	// was held at 0, so that the pair is symmetric about axis 1 by
+	// construction; "free" when θ was learned. Empty for other layouts.
+	PairAxis string `json:"pair_axis,omitempty"`
 }
 
 // Term is one weighted energy term in a card.

@@ -72,10 +72,14 @@ type FitSection struct {
 	// Estimates of every weight, angle, dispersion and shape parameter with
 	// standard errors and 95 % intervals.
 	Estimates []EstimateCard `json:"estimates"`
-	// Correlation between estimated quantities; Flags name pairs with
-	// |r| > 0.95 ("not separately determined").
+	// Correlation between the fitted quantities; Flags name pairs with
+	// |r| > 0.95 ("not separately determined"), terms the data do not
+	// support and angles the data do not determine.
 	Correlation *CorrelationCard `json:"correlation,omitempty"`
 	Flags       []string         `json:"flags"`
+	// Combinations state, per block of correlated estimates, the
+	// combination the data do determine.
+	Combinations []CombinationCard `json:"combinations,omitempty"`
 	// Notes on identifiability.
 	Notes []string `json:"notes"`
 	// Profiles of the loss over every fibre angle parameter.
@@ -105,8 +109,25 @@ type EstimateCard struct {
 	Unit   string `json:"unit"`
 	StdErr Num    `json:"std_err"`
 	CI95   [2]Num `json:"ci95"`
-	// Status is "estimated", "inactive", "at-bound" or "not-determined".
+	// Status is "estimated", "correlated", "degenerate", "inactive",
+	// "at-bound" or "not-determined" (see aniso.StatusMeaning); ci95 is
+	// null unless it is "estimated" or "correlated".
 	Status string `json:"status"`
+}
+
+// CombinationCard is a combination of correlated estimates that the data
+// determine (aniso.Combination): Σ coefficient·value in the estimates'
+// own units, the largest |coefficient| 1.
+type CombinationCard struct {
+	// Names are the members, as in estimates.
+	Names        []string `json:"names"`
+	Coefficients []Num    `json:"coefficients"`
+	// Value of the combination, its StdErr and the members' own
+	// standard errors.
+	Value        Num    `json:"value"`
+	StdErr       Num    `json:"std_err"`
+	MemberStdErr []Num  `json:"member_std_err"`
+	Text         string `json:"text"`
 }
 
 // CorrelationCard is a correlation matrix with the names of its rows.
@@ -125,6 +146,9 @@ type ProfileCard struct {
 	IntervalDeg [2]Num `json:"interval_deg"`
 	// Closed is false when the data do not bound the angle at one end.
 	Closed bool `json:"closed"`
+	// NotDetermined: the loss stays below the threshold over the angle's
+	// whole range; interval_deg is null.
+	NotDetermined bool `json:"not_determined"`
 	// Mirrored: only |α| was profiled (no shear) and the curve mirrored.
 	Mirrored bool `json:"mirrored"`
 }
@@ -164,6 +188,10 @@ func NewFitSection(r *aniso.Result, stressKind, stressUnit string) *FitSection {
 		fs.Estimates = append(fs.Estimates, EstimateCard{Name: e.Name, Kind: e.Kind, Value: Num(e.Value), Unit: e.Unit,
 			StdErr: Num(e.StdErr), CI95: [2]Num{Num(e.Lo), Num(e.Hi)}, Status: e.Status})
 	}
+	for _, c := range r.Combinations {
+		fs.Combinations = append(fs.Combinations, CombinationCard{Names: c.Names, Coefficients: nums(c.Coefficients),
+			Value: Num(c.Value), StdErr: Num(c.StdErr), MemberStdErr: nums(c.MemberStdErr), Text: c.Text})
+	}
 	if len(r.CorrelationNames) > 0 {
 		cc := &CorrelationCard{Names: r.CorrelationNames}
 		for _, row := range r.Correlation {
@@ -174,7 +202,7 @@ func NewFitSection(r *aniso.Result, stressKind, stressUnit string) *FitSection {
 	for _, p := range r.Profiles {
 		fs.Profiles = append(fs.Profiles, ProfileCard{Name: p.Name, AnglesDeg: nums(p.AnglesDeg), Loss: nums(p.Loss),
 			OptimumDeg: Num(p.OptimumDeg), Threshold: Num(p.Threshold), IntervalDeg: [2]Num{Num(p.LoDeg), Num(p.HiDeg)},
-			Closed: p.Closed, Mirrored: p.Mirrored})
+			Closed: p.Closed, NotDetermined: p.NotDetermined, Mirrored: p.Mirrored})
 	}
 	return fs
 }

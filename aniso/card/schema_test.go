@@ -138,6 +138,8 @@ func buildSchema() []byte {
 			{"kind", obj{{"enum", []string{"single", "mirror", "free"}}}},
 			{"mean_deg", num("mean direction θ of a mirror pair, degrees from axis 1 towards axis 2")},
 			{"half_angle_deg", num("half angle β of a mirror pair θ ± β, degrees")},
+			{"pair_axis", obj{{"enum", []string{"axis-1", "free"}},
+				{"description", "axis-1: the pair's axis θ was held at 0 (symmetric about axis 1, the published form); free: θ was learned"}}},
 		}},
 	}
 	dataRange := obj{
@@ -179,7 +181,10 @@ func buildSchema() []byte {
 			{"metrics", obj{{"type", "array"}, {"items", obj{{"type", "object"}, {"required", []string{"protocol", "component", "r2", "rmse", "nrmse"}},
 				{"description", "per protocol and stress component: r2 and nrmse dimensionless, rmse and range in stress_unit; null where undefined"}}}}},
 			{"estimates", obj{{"type", "array"}, {"items", obj{{"type", "object"}, {"required", []string{"name", "kind", "value", "unit", "std_err", "ci95", "status"}},
-				{"properties", obj{{"status", obj{{"enum", []string{"estimated", "inactive", "at-bound", "not-determined"}}}}}}}}}},
+				{"properties", obj{{"status", obj{{"enum", []string{"estimated", "correlated", "degenerate", "inactive", "at-bound", "not-determined"}},
+					{"description", "estimated: determined, with a 95 % interval; correlated: not separately determined (|r| > 0.95), see combinations; degenerate: its term is not supported by the data, no interval; inactive: weight at zero; at-bound: held at a bound; not-determined: the data cannot fix it"}}}}}}}}},
+			{"combinations", obj{{"type", "array"}, {"items", obj{{"type", "object"}, {"required", []string{"names", "coefficients", "value", "std_err", "text"}},
+				{"description", "what the data determine about a block of correlated estimates: the sum of coefficient × value over names, in the estimates' units, with its standard error"}}}}},
 		}},
 	}
 	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}

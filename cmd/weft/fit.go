@@ -31,6 +31,7 @@ type fitFlags struct {
 	families   int
 	layout     string
 	dispersion string
+	pairAxis   string
 	maxTerms   int
 	asJSON     bool
 	quiet      bool
@@ -68,6 +69,9 @@ tested range, not for clinical decisions.`,
   # the two-family fibre model of Holzapfel, Gasser & Ogden 2000
   weft fit skin-A.csv --preset hgo -o out/skin-A
 
+  # the same pair with its axis learned instead of held on axis 1
+  weft fit skin-A.csv --preset hgo --pair-axis free
+
   # a chosen form: Demiray matrix plus one exponential fibre family
   weft fit skin-A.csv --terms i1-exp,fib-expsq --families 1
 
@@ -93,6 +97,7 @@ tested range, not for clinical decisions.`,
 	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
 	fl.StringVar(&ff.layout, "layout", "free", "two families for --terms: free (independent angles) or mirror (θ ± β, shared stiffness)")
 	fl.StringVar(&ff.dispersion, "dispersion", "", "how fibres spread about their mean direction: in-plane (a learned concentration, angular integration), kappa (the 3-D dispersion κ of Gasser, Ogden & Holzapfel 2006) or none; discovery tries in-plane besides ideal families unless told otherwise, --terms fits ideal families unless told otherwise")
+	fl.StringVar(&ff.pairAxis, "pair-axis", "", "axis of a mirror pair (--preset hgo or goh, or --layout mirror): axis-1 holds the pair symmetric about axis 1 at ±β, as published (the default); free learns the pair's axis θ as well")
 	fl.IntVar(&ff.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
 	fl.BoolVar(&ff.asJSON, "json", false, "print the model card(s) as JSON instead of the summary")
 	fl.BoolVar(&ff.quiet, "quiet", false, "no progress bar")
@@ -109,6 +114,27 @@ tested range, not for clinical decisions.`,
 // structureFromFlags turns --preset or --terms into a model form; ok is
 // false when neither was given (discovery).
 func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
+	st, ok, err := formFromFlags(ff)
+	if err != nil {
+		return st, ok, err
+	}
+	switch ff.pairAxis {
+	case "":
+	case "axis-1", "free":
+		if !ok || st.Layout != aniso.LayoutMirror {
+			return st, false, badInputf("--pair-axis applies to a mirror pair: --preset hgo or goh, or --terms with --families 2 --layout mirror")
+		}
+	default:
+		return st, false, badInputf("--pair-axis %q: use axis-1 or free", ff.pairAxis)
+	}
+	if ok && st.Layout == aniso.LayoutMirror {
+		st.HoldPairAxis = ff.pairAxis != "free"
+	}
+	return st, ok, nil
+}
+
+// formFromFlags reads --preset or --terms and their layout flags.
+func formFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 	if ff.preset != "" && ff.termIDs != "" {
 		return aniso.Structure{}, false, badInputf("give --preset or --terms, not both")
 	}
@@ -332,7 +358,11 @@ func buildCard(o *fitOutcome) (*card.Card, error) {
 	if r.Structure.Layout == aniso.LayoutMirror {
 		a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
 		mean, half := (a0+a1)/2*180/math.Pi, math.Abs(a0-a1)/2*180/math.Pi
-		c.Layout = &card.Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half}
+		axis := "free"
+		if r.Structure.HoldPairAxis {
+			axis = "axis-1"
+		}
+		c.Layout = &card.Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half, PairAxis: axis}
 	} else if r.Structure.Layout == aniso.LayoutFree {
 		c.Layout = &card.Layout{Kind: "free"}
 	} else if r.Structure.Layout == aniso.LayoutSingle {

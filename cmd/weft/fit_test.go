@@ -207,6 +207,9 @@ func TestFitBadInput(t *testing.T) {
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", "i1-lin,nope"},
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", "i1-lin", "--families", "3"},
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "--terms", "i1-lin"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "--pair-axis", "axis-2"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "neo-hookean", "--pair-axis", "free"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--pair-axis", "free"},
 		{"fit"},
 	}
 	for _, args := range cases {
@@ -261,5 +264,127 @@ func TestCheckDoesNotFailOnRoundOff(t *testing.T) {
 	}
 	if !strings.Contains(out, "not resolved") {
 		t.Errorf("no note on unresolved points:\n%s", out)
+	}
+}
+
+// The hgo preset is the published pair symmetric about axis 1 (Holzapfel,
+// Gasser & Ogden 2000): the card records the held pair axis, the summary
+// says so, and no mean angle is estimated; --pair-axis free learns it.
+func TestFitPresetPairAxis(t *testing.T) {
+	dir := copyDemo(t, "membrane-M1.csv")
+	for _, c := range []struct {
+		flags      []string
+		axis, text string
+		meanAngle  bool
+	}{
+		{nil, "axis-1", "symmetric about axis 1", false},
+		{[]string{"--pair-axis", "free"}, "free", "the pair's axis learned", true},
+	} {
+		od := filepath.Join(dir, "out-"+c.axis)
+		args := append([]string{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "-o", od, "--quiet"}, c.flags...)
+		out, errs, code := runWeft(t, args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.flags, code, errs)
+		}
+		if !strings.Contains(out, "fibres:   mirror pair") || !strings.Contains(out, c.text) {
+			t.Errorf("%v: summary does not describe the pair as %q:\n%s", c.flags, c.text, out)
+		}
+		b, err := os.ReadFile(filepath.Join(od, "model.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		schemaValidate(t, b)
+		var mc struct {
+			Families []struct {
+				AngleDeg float64 `json:"angle_deg"`
+			} `json:"families"`
+			Layout struct {
+				PairAxis string  `json:"pair_axis"`
+				MeanDeg  float64 `json:"mean_deg"`
+			} `json:"layout"`
+			Fit struct {
+				Estimates []struct {
+					Name string `json:"name"`
+				} `json:"estimates"`
+			} `json:"fit"`
+		}
+		if err := json.Unmarshal(b, &mc); err != nil {
+			t.Fatal(err)
+		}
+		if mc.Layout.PairAxis != c.axis {
+			t.Errorf("%v: layout.pair_axis %q, want %q", c.flags, mc.Layout.PairAxis, c.axis)
+		}
+		if c.axis == "axis-1" && (len(mc.Families) != 2 || mc.Families[0].AngleDeg != -mc.Families[1].AngleDeg || mc.Layout.MeanDeg != 0) {
+			t.Errorf("%v: families %+v, mean %g: not a pair symmetric about axis 1", c.flags, mc.Families, mc.Layout.MeanDeg)
+		}
+		has := false
+		for _, e := range mc.Fit.Estimates {
+			has = has || e.Name == "mean_angle"
+		}
+		if has != c.meanAngle {
+			t.Errorf("%v: mean_angle estimated %v, want %v", c.flags, has, c.meanAngle)
+		}
+	}
+}
+
+// The summary, the card (validated against the schema) and the report show
+// the statuses the evidence gives: a dispersed pair on the one-family demo
+// specimen has correlated parameters and states the combination the data
+// determine; a spare second family is degenerate and its angle profile
+// gives no interval (research-grade fits; data synthetic, see
+// testdata/demo/README.md).
+func TestFitStatusesShown(t *testing.T) {
+	dir := copyDemo(t, "membrane-M1.csv")
+	for _, c := range []struct {
+		args   []string
+		status string
+		text   []string
+	}{
+		{[]string{"--preset", "goh"}, "correlated", []string{"status:   correlated:", "note:     The data determine"}},
+		{[]string{"--terms", "i1-lin,fib-expsq", "--families", "2"}, "degenerate", []string{"status:   degenerate:", "is degenerate, not supported by the data", "not-determined (below the 95% threshold"}},
+	} {
+		od := filepath.Join(dir, c.status)
+		out, errs, code := runWeft(t, append([]string{"fit", filepath.Join(dir, "membrane-M1.csv"), "-o", od, "--quiet"}, c.args...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errs)
+		}
+		for _, s := range append(c.text, "  "+c.status+"\n") {
+			if !strings.Contains(out, s) {
+				t.Errorf("%v: summary lacks %q:\n%s", c.args, s, out)
+			}
+		}
+		b, err := os.ReadFile(filepath.Join(od, "model.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		schemaValidate(t, b)
+		var mc struct {
+			Fit struct {
+				Estimates []struct {
+					Status string      `json:"status"`
+					CI95   [2]*float64 `json:"ci95"`
+				} `json:"estimates"`
+				Combinations []struct {
+					Names []string `json:"names"`
+				} `json:"combinations"`
+			} `json:"fit"`
+		}
+		if err := json.Unmarshal(b, &mc); err != nil {
+			t.Fatal(err)
+		}
+		seen := false
+		for _, e := range mc.Fit.Estimates {
+			seen = seen || e.Status == c.status
+			if e.Status == "degenerate" && e.CI95[0] != nil {
+				t.Errorf("%v: a degenerate estimate has an interval", c.args)
+			}
+		}
+		if !seen || c.status == "correlated" && len(mc.Fit.Combinations) == 0 {
+			t.Errorf("%v: card lacks status %q or its combination", c.args, c.status)
+		}
+		html, err := os.ReadFile(filepath.Join(od, "report.html"))
+		if err != nil || !strings.Contains(string(html), c.status+": ") {
+			t.Errorf("%v: report.html does not explain the %q status", c.args, c.status)
+		}
 	}
 }

@@ -114,7 +114,10 @@ func (in *reportInput) profileFigure() *figure {
 			if len(profs) > 1 {
 				title = fmt.Sprintf("%s = %s%s (95 %%: %s to %s)", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
 			}
-			if !pc.Closed {
+			switch {
+			case pc.NotDetermined:
+				title = fmt.Sprintf("%s = %s%s, not determined (no angle excluded)", pc.Name, sign, fmtDeg(opt))
+			case !pc.Closed:
 				title += " (open)"
 			}
 			p := newPlot(title, "fibre angle from axis 1 towards axis 2", "loss (log scale)", true)

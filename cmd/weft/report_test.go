@@ -298,7 +298,7 @@ func TestReportDemo(t *testing.T) {
 		paths, _, _ := readSVG(t, filepath.Join(dir, "plots", "pareto.svg"))
 		single := 0
 		for _, cc := range c.Selection.Pareto {
-			if cc.Layout == "single" && !cc.Dispersion {
+			if cc.Layout == "single" && !cc.Dispersion && !cc.InPlane {
 				single++
 			}
 		}

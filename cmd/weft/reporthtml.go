@@ -56,6 +56,7 @@ type reportView struct {
 	Terms        htmlTable
 	Families     htmlTable
 	Params       htmlTable
+	Statuses     []string
 	Profiles     []string
 	Flags, Notes []string
 	Metrics      htmlTable
@@ -181,6 +182,9 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	if len(angles) > 0 {
 		fams = strings.Join(angles, ", ")
 	}
+	if pair := pairText(c.Layout); pair != "" {
+		fams += "; " + pair
+	}
 	v.Summary = []htmlFact{{"Model", how}, {"Energy", strings.TrimPrefix(c.Energy, "Psi = ")}, {"Fibre families", fams}}
 	if in.verdict != nil {
 		v.Summary = append(v.Summary, htmlFact{"Family verdict", verdictText(in.verdict.Families)})
@@ -270,6 +274,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		v.Families.Rows = append(v.Families.Rows, htmlRow{Cells: []string{f.Name, angle(a), known, k}})
 	}
 	v.Params.Head = []string{"parameter", "value", "95 % interval", "std. error", "unit", "status"}
+	var statuses []string
 	for _, e := range fs.Estimates {
 		if e.Status == "inactive" && e.Kind != "weight" {
 			continue
@@ -287,13 +292,17 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 			unit = "–"
 		}
 		v.Params.Rows = append(v.Params.Rows, htmlRow{Cells: []string{e.Name, val, iv, fnum(float64(e.StdErr), 3), unit, e.Status}})
+		statuses = append(statuses, e.Status)
 	}
+	v.Statuses = statusLegend(statuses)
 	for _, p := range fs.Profiles {
 		s := fmt.Sprintf("%s: profile-likelihood 95 %% interval %s to %s", p.Name, fmtDeg(float64(p.IntervalDeg[0])), fmtDeg(float64(p.IntervalDeg[1])))
-		if !p.Closed {
+		if p.NotDetermined {
+			s = fmt.Sprintf("%s: not determined: the loss profile stays below the 95 %% threshold over the angle's whole range", p.Name)
+		} else if !p.Closed {
 			s += " (not bounded by the data at one end)"
 		}
-		if p.Mirrored {
+		if p.Mirrored && !p.NotDetermined {
 			s += "; sign not determined, the mirror image is equally good"
 		}
 		v.Profiles = append(v.Profiles, s)
@@ -627,6 +636,7 @@ ul.plain { padding-left: 1.2em; }
 {{template "table" .Families}}{{end}}
 <h3>Parameters</h3>
 {{template "table" .Params}}
+{{if .Statuses}}<ul class="plain note">{{range .Statuses}}<li>{{.}}</li>{{end}}</ul>{{end}}
 {{if .Profiles}}<ul class="plain">{{range .Profiles}}<li>{{.}}</li>{{end}}</ul>{{end}}
 {{if .Flags}}<h3>Flags</h3><ul class="plain">{{range .Flags}}<li>{{.}}</li>{{end}}</ul>{{end}}
 {{if .Notes}}<h3>What the data can and cannot determine</h3><ul class="plain">{{range .Notes}}<li>{{.}}</li>{{end}}</ul>{{end}}

@@ -38,6 +38,9 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		how = "discovered (" + o.disc.Best().Name + ")"
 	}
 	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
+	if pair := pairText(o.card.Layout); pair != "" {
+		fmt.Fprintf(w, "fibres:   %s\n", pair)
+	}
 	if d := o.disc; d != nil {
 		fmt.Fprintf(w, "families: %s — %s\n", d.Verdict.Families, d.Verdict.Reason)
 		if d.Verdict.Decider != "" {
@@ -46,35 +49,9 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		fmt.Fprintf(w, "rule:     %s\n", d.Rule)
 	}
 	fmt.Fprintln(w)
-	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "parameter\tvalue\t95% interval\tunit\tstatus")
-	for _, e := range r.Estimates {
-		if e.Status == "inactive" && e.Kind != "weight" {
-			continue
-		}
-		iv := "-"
-		if !math.IsNaN(e.Lo) {
-			iv = fmt.Sprintf("[%.4g, %.4g]", e.Lo, e.Hi)
-		}
-		val := num(e.Value, "%.5g")
-		if e.Kind == "angle" && !r.SignKnown && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
-			val = "±" + val
-		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, e.Status)
-	}
-	for _, p := range r.Profiles {
-		closed := ""
-		if !p.Closed {
-			closed = " (not bounded by the data at one end)"
-		}
-		fmt.Fprintf(tw, "%s profile\t\t[%.2f, %.2f]\tdeg\tprofile-likelihood 95%%%s\n", p.Name, p.LoDeg, p.HiDeg, closed)
-	}
-	tw.Flush()
-	for _, f := range r.Flags {
-		fmt.Fprintf(w, "flag:     %s\n", f)
-	}
+	printParameters(w, r)
 	fmt.Fprintln(w)
-	tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "protocol\taxis\tR²\tNRMSE\tRMSE ["+s.StressUnit+"]")
 	for _, m := range r.Metrics {
 		r2 := "-"
@@ -157,4 +134,81 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	}
 	files += reportFilesNote(o)
 	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", o.dir, files, o.elapsed.Seconds())
+}
+
+// pairText describes a mirror pair's geometry, or is empty for other
+// layouts.
+func pairText(l *card.Layout) string {
+	if l == nil || l.Kind != "mirror" || l.HalfAngleDeg == nil {
+		return ""
+	}
+	if l.PairAxis == "axis-1" {
+		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
+	}
+	mean := math.NaN()
+	if l.MeanDeg != nil {
+		mean = *l.MeanDeg
+	}
+	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", num(mean, "%.2f"), *l.HalfAngleDeg)
+}
+
+// statusLegend explains, once each and in a fixed order, the parameter
+// statuses other than "estimated" that appear in a table.
+func statusLegend(shown []string) []string {
+	var out []string
+	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
+		for _, s := range shown {
+			if s == st {
+				out = append(out, st+": "+aniso.StatusMeaning(st))
+				break
+			}
+		}
+	}
+	return out
+}
+
+// printParameters prints the parameter table with intervals and statuses,
+// the angle profiles' intervals, what the statuses shown mean, and the
+// flags.
+func printParameters(w io.Writer, r *aniso.Result) {
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "parameter\tvalue\t95% interval\tunit\tstatus")
+	for _, e := range r.Estimates {
+		if e.Status == "inactive" && e.Kind != "weight" {
+			continue
+		}
+		iv := "-"
+		if !math.IsNaN(e.Lo) {
+			iv = fmt.Sprintf("[%.4g, %.4g]", e.Lo, e.Hi)
+		}
+		val := num(e.Value, "%.5g")
+		if e.Kind == "angle" && !r.SignKnown && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
+			val = "±" + val
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, e.Status)
+	}
+	for _, p := range r.Profiles {
+		if p.NotDetermined {
+			fmt.Fprintf(tw, "%s profile\t\t-\tdeg\tnot-determined (below the 95%% threshold over the whole range)\n", p.Name)
+			continue
+		}
+		closed := ""
+		if !p.Closed {
+			closed = " (not bounded by the data at one end)"
+		}
+		fmt.Fprintf(tw, "%s profile\t\t[%.2f, %.2f]\tdeg\tprofile-likelihood 95%%%s\n", p.Name, p.LoDeg, p.HiDeg, closed)
+	}
+	tw.Flush()
+	var statuses []string
+	for _, e := range r.Estimates {
+		if e.Status != aniso.StatusInactive || e.Kind == "weight" {
+			statuses = append(statuses, e.Status)
+		}
+	}
+	for _, l := range statusLegend(statuses) {
+		fmt.Fprintf(w, "status:   %s\n", l)
+	}
+	for _, f := range r.Flags {
+		fmt.Fprintf(w, "flag:     %s\n", f)
+	}
 }

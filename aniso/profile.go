@@ -1,0 +1,402 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"sync"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// profiles computes the loss profile over every angle parameter: at each
+// grid angle the loss minimised over every other non-linear parameter and
+// the weights. The 95 % profile-likelihood interval is where the profile
+// stays below loss·(1 + F(0.95; 1, n−k)/(n−k)) (Bates & Watts 1988, §6.1;
+// Venzon & Moolgavkar 1988); its ends are refined by bisection between the
+// grid angles that bracket the threshold. Each angle parameter is profiled
+// on its own engine, in parallel.
+func (r *Result) profiles(p *Problem, set Settings) {
+	e := r.e
+	n, k := r.Rows, r.FreeParams
+	if n <= k {
+		return
+	}
+	fq := distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
+	var idx []int
+	for i, q := range e.params {
+		if q.Kind == kindAngle {
+			idx = append(idx, i)
+		}
+	}
+	out := make([]AngleProfile, len(idx))
+	var wg sync.WaitGroup
+	for j, i := range idx {
+		wg.Add(1)
+		go func(j, i int) {
+			defer wg.Done()
+			pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
+			out[j] = r.profileOne(pe, p, i, set, fq)
+		}(j, i)
+	}
+	wg.Wait()
+	r.Profiles = append(r.Profiles, out...)
+	// Leave the fit's engine at the optimum.
+	e.eval(r.theta, true)
+	for _, pr := range out {
+		if !pr.NotDetermined {
+			continue
+		}
+		for j := range r.Estimates {
+			est := &r.Estimates[j]
+			if est.Name == pr.Name && (est.Status == StatusEstimated || est.Status == StatusCorrelated) {
+				est.Status = StatusNotDetermined
+				est.StdErr, est.Lo, est.Hi = math.NaN(), math.NaN(), math.NaN()
+			}
+		}
+		why := ""
+		if r.Structure.Layout == LayoutFree {
+			why = " (the other family can take this family's place)"
+		}
+		r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its loss profile stays below the 95 %% threshold over the angle's whole range, so the data exclude no angle%s", pr.Name, why))
+	}
+}
+
+// profileMinimum returns the lowest point any profile met, with its
+// parameters (+Inf when there is none).
+func (r *Result) profileMinimum() ([]float64, float64) {
+	best, th := math.Inf(1), []float64(nil)
+	for _, pr := range r.Profiles {
+		if pr.minTheta != nil && pr.minLoss < best {
+			best, th = pr.minLoss, pr.minTheta
+		}
+	}
+	return append([]float64(nil), th...), best
+}
+
+// profileIterations bounds each re-optimisation at a profile angle (warm
+// starts are close), profileRounds the pairs of sweeps over the grid.
+const (
+	profileIterations = 40
+	profileRounds     = 3
+)
+
+// profiler minimises the loss over every parameter but angle parameter i.
+type profiler struct {
+	e    *engine
+	i    int
+	free []bool
+	// offLoss is the best loss of the form without the fibre family that
+	// angle i moves, and offTheta its parameters: at every angle the
+	// profile is at most offLoss, since zero weights for that family are
+	// admissible at any angle.
+	offLoss  float64
+	offTheta []float64
+}
+
+func newProfiler(r *Result, p *Problem, pe *engine, i int, set Settings) *profiler {
+	pf := &profiler{e: pe, i: i, free: make([]bool, len(pe.params))}
+	for j := range pf.free {
+		pf.free[j] = j != i
+	}
+	pf.offLoss, pf.offTheta = r.familyOff(p, i, set)
+	return pf
+}
+
+// familyOff fits r's form without the fibre family that angle parameter i
+// moves (a mirror pair as a whole), with its own global angle scan, and
+// returns its loss and its parameters mapped onto r's (the removed
+// family's parameters kept at r's values). The loss is +Inf when that fit
+// fails.
+func (r *Result) familyOff(p *Problem, i int, set Settings) (float64, []float64) {
+	e := r.e
+	sf := e.angleFamily(i)
+	theta := append([]float64(nil), r.theta...)
+	sub := Structure{Dispersion: r.Structure.Dispersion, Planar: r.Structure.Planar, Layout: LayoutNone}
+	var termOf []int // sub-structure term → r's term
+	for g, t := range r.Structure.Terms {
+		switch {
+		case t.Family < 0:
+		case r.Structure.Layout == LayoutFree && t.Family != sf:
+			t.Family = 0
+			sub.Layout = LayoutSingle
+		default:
+			continue
+		}
+		sub.Terms = append(sub.Terms, t)
+		termOf = append(termOf, g)
+	}
+	if sub.Layout == LayoutNone {
+		sub.Dispersion, sub.Planar = false, false
+	}
+	if len(sub.Terms) == 0 {
+		// No term left: every weight is zero.
+		yy := 0.0
+		for _, y := range p.Target {
+			yy += y * y
+		}
+		return yy, theta
+	}
+	res, err := Fit(p, sub, Settings{Starts: set.Starts, MaxIterations: set.MaxIterations})
+	if err != nil {
+		return math.Inf(1), nil
+	}
+	// canonical keeps the relative order of the terms, so sub-structure
+	// term s is r's term termOf[s].
+	for j, q := range res.e.params {
+		for k, fq := range e.params {
+			match := false
+			switch q.Kind {
+			case kindAngle:
+				match = fq.Kind == kindAngle && fq.Angle == 1-sf
+			case kindKappa, kindConcentration:
+				match = fq.Kind == q.Kind && len(fq.Families) == 1 && fq.Families[0] == 1-sf
+			case kindShape:
+				match = fq.Kind == kindShape && fq.Group == termOf[q.Group] && fq.Index == q.Index
+			}
+			if match {
+				theta[k] = res.theta[j]
+			}
+		}
+	}
+	return res.Loss, theta
+}
+
+// angleFamily is the structural family that angle parameter i moves: its
+// own in a free layout, the first otherwise (a mirror pair's angles move
+// both members).
+func (e *engine) angleFamily(i int) int {
+	if e.layout == LayoutFree {
+		return e.params[i].Angle
+	}
+	return 0
+}
+
+// at returns the profiled loss at angle a and its parameters: the lowest of
+// local minimisations from each start and from the family-off optimum,
+// never above the family-off loss.
+func (pf *profiler) at(a float64, starts ...[]float64) ([]float64, float64) {
+	bestL, bestTh := math.Inf(1), []float64(nil)
+	try := func(s []float64) {
+		th := append([]float64(nil), s...)
+		th[pf.i] = a
+		if l := pf.e.minimize(th, pf.free, profileIterations).Loss; l < bestL {
+			bestL, bestTh = l, th
+		}
+	}
+	for _, s := range starts {
+		if s != nil {
+			try(s)
+		}
+	}
+	if pf.offTheta != nil && !(bestL <= pf.offLoss) {
+		// With the family back on, the non-negative weights can only
+		// lower the family-off loss: a start that honours the bound.
+		try(pf.offTheta)
+		if !(bestL <= pf.offLoss) {
+			bestL, bestTh = pf.offLoss, append([]float64(nil), pf.offTheta...)
+			bestTh[pf.i] = a
+		}
+	}
+	return bestTh, bestL
+}
+
+// sweep profiles the grid: outwards from the optimum (grid index c, whose
+// loss is the fit's), then inwards from the ends, each angle warm-started
+// from the neighbour on that side and keeping the lower loss, repeated
+// while a sweep still lowers some point. Over a full period the two ends
+// are one angle, so each end also starts from the other.
+func (pf *profiler) sweep(grid []float64, c int, fitLoss float64, fitTheta []float64, wraps bool) ([]float64, [][]float64) {
+	n := len(grid)
+	loss := make([]float64, n)
+	thetas := make([][]float64, n)
+	for j := range loss {
+		loss[j] = math.Inf(1)
+	}
+	loss[c] = fitLoss
+	thetas[c] = append([]float64(nil), fitTheta...)
+	thetas[c][pf.i] = grid[c]
+	improved := false
+	from := func(j, nb int) {
+		if j == c || nb < 0 || nb >= n || thetas[nb] == nil {
+			return
+		}
+		th, l := pf.at(grid[j], thetas[nb])
+		if thetas[j] != nil && !(l < loss[j]) {
+			return
+		}
+		// Another round is worth its cost only for a change the interval
+		// could notice.
+		if thetas[j] != nil && l < loss[j]*(1-1e-6) {
+			improved = true
+		}
+		loss[j], thetas[j] = l, th
+	}
+	for j := c + 1; j < n; j++ {
+		from(j, j-1)
+	}
+	for j := c - 1; j >= 0; j-- {
+		from(j, j+1)
+	}
+	for round := 0; round < profileRounds; round++ {
+		improved = false
+		if wraps {
+			from(n-1, 0)
+			from(0, n-1)
+		}
+		for j := n - 2; j > c; j-- {
+			from(j, j+1)
+		}
+		for j := 1; j < c; j++ {
+			from(j, j-1)
+		}
+		if !improved {
+			break
+		}
+		for j := c + 1; j < n; j++ {
+			from(j, j-1)
+		}
+		for j := c - 1; j >= 0; j-- {
+			from(j, j+1)
+		}
+	}
+	return loss, thetas
+}
+
+// profileGrid returns the grid from lo to hi with the optimum inserted and
+// its index, so that the sweeps start there.
+func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
+	var grid []float64
+	c := -1
+	for x := lo; x <= hi+1e-12; x += step {
+		if c < 0 && x > opt+1e-9 {
+			c = len(grid)
+			grid = append(grid, opt)
+		}
+		if math.Abs(x-opt) > 1e-9 {
+			grid = append(grid, x)
+		}
+	}
+	if c < 0 {
+		c = len(grid)
+		grid = append(grid, opt)
+	}
+	return grid, c
+}
+
+// profileOne profiles angle parameter i on engine pe.
+func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq float64) AngleProfile {
+	step := set.ProfileStepDeg * math.Pi / 180
+	q := pe.params[i]
+	n, k := r.Rows, r.FreeParams
+	opt := r.theta[i]
+	mirrored, wraps := false, false
+	var lo, hi float64
+	switch {
+	case !q.Periodic:
+		lo, hi = q.Lo, q.Hi
+	case !p.HasShear:
+		// Only |α| matters: profile [0, 90°] and mirror it.
+		opt, mirrored = math.Abs(wrapAngle(opt)), true
+		lo, hi = 0, math.Pi/2
+	default:
+		// A full period centred on the optimum, so that the interval never
+		// meets an artificial end of the range.
+		opt = wrapAngle(opt)
+		lo, hi, wraps = opt-math.Pi/2, opt+math.Pi/2, true
+	}
+	theta := append([]float64(nil), r.theta...)
+	theta[i] = opt
+	grid, c := profileGrid(lo, hi, opt, step)
+	pf := newProfiler(r, p, pe, i, set)
+	loss, thetas := pf.sweep(grid, c, r.Loss, theta, wraps)
+	minLoss := r.Loss
+	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: opt * 180 / math.Pi, Closed: true, minLoss: math.Inf(1)}
+	for j, l := range loss {
+		minLoss = math.Min(minLoss, l)
+		if j != c && l < pr.minLoss {
+			pr.minLoss, pr.minTheta = l, thetas[j]
+		}
+	}
+	thr := minLoss * (1 + fq/float64(n-k))
+	pr.Threshold = thr
+	// crossing refines the threshold crossing between grid index in
+	// (below the threshold) and out (above) by bisection, each trial angle
+	// warm-started from both brackets.
+	crossing := func(in, out int) float64 {
+		a, b := grid[in], grid[out]
+		for it := 0; it < 8; it++ {
+			m := (a + b) / 2
+			if _, l := pf.at(m, thetas[in], thetas[out]); l <= thr {
+				a = m
+			} else {
+				b = m
+			}
+		}
+		return (a + b) / 2 * 180 / math.Pi
+	}
+	loIdx, hiIdx := c, c
+	for loIdx > 0 && loss[loIdx-1] <= thr {
+		loIdx--
+	}
+	for hiIdx < len(grid)-1 && loss[hiIdx+1] <= thr {
+		hiIdx++
+	}
+	// The ends of the half-angle's range and of |α| ∈ [0°, 90°] (no shear
+	// information) are natural ends of an interval; reaching an end of the
+	// period centred on the optimum means the data do not bound the angle.
+	if loIdx == 0 {
+		pr.LoDeg = grid[0] * 180 / math.Pi
+		pr.Closed = !wraps
+	} else {
+		pr.LoDeg = crossing(loIdx, loIdx-1)
+	}
+	if hiIdx == len(grid)-1 {
+		pr.HiDeg = grid[len(grid)-1] * 180 / math.Pi
+		pr.Closed = pr.Closed && !wraps
+	} else {
+		pr.HiDeg = crossing(hiIdx, hiIdx+1)
+	}
+	if loIdx == 0 && hiIdx == len(grid)-1 {
+		// Below the threshold over a whole period (or the whole range of
+		// |α| or of a half angle): no interval.
+		pr.Closed, pr.NotDetermined = false, true
+		pr.LoDeg, pr.HiDeg = math.NaN(), math.NaN()
+	}
+	pr.AnglesDeg, pr.Loss = profileCurve(grid, loss, q.Periodic && !mirrored, mirrored)
+	return pr
+}
+
+// profileCurve returns the profile sorted by angle in degrees: wrapped
+// into (−90°, 90°] over a full period, or mirrored to negative angles when
+// only |α| was profiled.
+func profileCurve(grid, loss []float64, wrap, mirrored bool) (anglesDeg, lossOut []float64) {
+	type pt struct{ a, l float64 }
+	var pts []pt
+	for j, x := range grid {
+		a := x * 180 / math.Pi
+		if wrap {
+			a = wrapAngle(x) * 180 / math.Pi
+		}
+		pts = append(pts, pt{a, loss[j]})
+	}
+	sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
+	for _, v := range pts {
+		anglesDeg = append(anglesDeg, v.a)
+		lossOut = append(lossOut, v.l)
+	}
+	if mirrored {
+		var a, l []float64
+		for j := len(grid) - 1; j > 0; j-- {
+			a = append(a, -grid[j]*180/math.Pi)
+			l = append(l, loss[j])
+		}
+		if grid[0] != 0 {
+			a = append(a, -grid[0]*180/math.Pi)
+			l = append(l, loss[0])
+		}
+		anglesDeg = append(a, anglesDeg...)
+		lossOut = append(l, lossOut...)
+	}
+	return anglesDeg, lossOut
+}

@@ -120,8 +120,18 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 			return exactArgs(1)(cmd, args)
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
+			switch format {
+			case "table", "csv", "json", "latex":
+			default:
+				return badInputf("--format %q: use table, csv, json or latex", format)
+			}
+			res, err := openResult(cmd, out, force)
+			if err != nil {
+				return err
+			}
+			defer res.close()
 			if schema {
-				return writeOutput(cmd, out, card.Schema(), force)
+				return res.write(card.Schema())
 			}
 			c, m, err := readCard(args[0])
 			if err != nil {
@@ -141,13 +151,11 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 				err = writeJSON(&buf, doc)
 			case "latex":
 				writeExportLaTeX(&buf, doc)
-			default:
-				return badInputf("--format %q: use table, csv, json or latex", format)
 			}
 			if err != nil {
 				return err
 			}
-			return writeOutput(cmd, out, buf.Bytes(), force)
+			return res.write(buf.Bytes())
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "table", "output format: table, csv, json or latex")
@@ -155,15 +163,6 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
 	cmd.Flags().BoolVar(&schema, "schema", false, "print the JSON Schema of model cards instead")
 	return cmd
-}
-
-// writeOutput writes data to standard output or, atomically, to a file.
-func writeOutput(cmd *cobra.Command, out string, data []byte, force bool) error {
-	if out == "" || out == "-" {
-		_, err := cmd.OutOrStdout().Write(data)
-		return err
-	}
-	return writeFileAtomic(out, data, force)
 }
 
 // stressColumns returns predict's stress column names with the unit.

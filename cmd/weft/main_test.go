@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"testing"
 )
@@ -11,16 +12,9 @@ import (
 // and the exit code main would use.
 func runWeft(t testing.TB, args ...string) (string, string, int) {
 	t.Helper()
-	root := newRootCmd()
 	var out, errb bytes.Buffer
-	root.SetOut(&out)
-	root.SetErr(&errb)
-	root.SetArgs(args)
-	err := root.Execute()
-	if err != nil {
-		errb.WriteString("weft: " + err.Error() + "\n")
-	}
-	return out.String(), errb.String(), exitCode(err)
+	code := run(args, &out, &errb)
+	return out.String(), errb.String(), code
 }
 
 // writeTemp writes content to name in a fresh temporary folder.
@@ -31,4 +25,21 @@ func writeTemp(t *testing.T, name, content string) string {
 		t.Fatal(err)
 	}
 	return p
+}
+
+// TestMain lets a test run weft as a separate process (weftProcess): the
+// test binary runs main when WEFT_RUN_MAIN is set.
+func TestMain(m *testing.M) {
+	if os.Getenv("WEFT_RUN_MAIN") == "1" {
+		main()
+	}
+	os.Exit(m.Run())
+}
+
+// weftProcess returns a command that runs weft with args as a separate
+// process (the test binary itself, see TestMain).
+func weftProcess(args ...string) *exec.Cmd {
+	cmd := exec.Command(os.Args[0], args...)
+	cmd.Env = append(os.Environ(), "WEFT_RUN_MAIN=1")
+	return cmd
 }

@@ -44,6 +44,11 @@ force along axis 1 per reference area normal to axis 2.`,
   weft predict out/model.json testdata/demo/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			res, err := openResult(cmd, out, force)
+			if err != nil {
+				return err
+			}
+			defer res.close()
 			c, m, err := readCard(args[0])
 			if err != nil {
 				return err
@@ -57,11 +62,7 @@ force along axis 1 per reference area normal to axis 2.`,
 			if err := predictCSV(f, args[1], c, m, &buf); err != nil {
 				return err
 			}
-			if out == "" || out == "-" {
-				_, err := cmd.OutOrStdout().Write(buf.Bytes())
-				return err
-			}
-			return writeFileAtomic(out, buf.Bytes(), force)
+			return res.write(buf.Bytes())
 		},
 	}
 	cmd.Flags().StringVarP(&out, "output", "o", "", "write the CSV to this file instead of standard output")

@@ -67,3 +67,12 @@ func (f *readFlags) options() (biaxial.Options, error) {
 	}
 	return o, nil
 }
+
+// readSpecimen reads and prepares one test file; problems are bad input.
+func readSpecimen(path string, opt biaxial.Options) (*biaxial.Specimen, error) {
+	s, err := biaxial.ReadFile(path, opt)
+	if err != nil {
+		return nil, badInput(err)
+	}
+	return s, nil
+}

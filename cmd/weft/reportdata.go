@@ -360,7 +360,7 @@ func loadReportInput(dir string) (*reportInput, error) {
 				return nil, nil
 			}
 			if errors.Is(err, fs.ErrNotExist) {
-				return nil, badInputf("%s: %s is missing; the report needs model.json and fit.csv as 'weft fit' writes them (refit with 'weft fit DATA -o %s --force')", dir, name, dir)
+				return nil, badInputf("%s: %s is missing; the report needs model.json and fit.csv as 'weft fit' writes them (fit the data again into a new folder with 'weft fit DATA -o NEW-FOLDER')", dir, name)
 			}
 			return nil, badInput(err)
 		}

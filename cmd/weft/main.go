@@ -20,9 +20,9 @@ import (
 
 // Exit codes shared by every subcommand. weft uses no others.
 const (
-	exitOK        = 0
-	exitFailed    = 1
-	exitBadInput  = 2
+	exitOK       = 0
+	exitFailed   = 1
+	exitBadInput = 2
 )
 
 // inputError marks an error caused by the user's input (exit code 2).

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -190,7 +191,7 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 
 // runCheck performs every check.
 func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*checkReport, error) {
-	rep := &checkReport{Format: checkFormat, Model: file, StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
+	rep := &checkReport{Format: checkFormat, Model: filepath.Base(file), StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
 		Notices: []string{}, DataRange: dr, Cautions: card.Cautions}
 	u := c.StressUnit
 	names := familyNames(m)

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -129,7 +130,7 @@ func evaluateAt(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *car
 		return nil, badInputf("%s at F = %s: %v", file, fmtF(F), err)
 	}
 	k, _ := aniso.NewKinematics(F)
-	res := &evalResult{Model: file, StressUnit: c.StressUnit, F33: 1 / k.J2, I1: k.I1, I2: k.I2,
+	res := &evalResult{Model: filepath.Base(file), StressUnit: c.StressUnit, F33: 1 / k.J2, I1: k.I1, I2: k.I2,
 		Energy: r.Energy, EnergyNote: c.StressUnit + " (energy per unit reference volume)",
 		F:        map[string]float64{"11": F[0], "12": F[1], "21": F[2], "22": F[3]},
 		Cauchy:   map[string]float64{"11": r.Cauchy[0], "22": r.Cauchy[1], "12": r.Cauchy[2]},

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"sort"
 	"strings"
 	"text/tabwriter"
@@ -177,7 +178,7 @@ func stressColumns(unit string) []string {
 // buildExport computes the parameter and verification tables.
 func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) {
 	fc := card.FromModel(m, c.StressUnit, nil)
-	doc := &exportDoc{Format: exportFormat, Model: file, Specimen: c.Specimen, StressUnit: c.StressUnit,
+	doc := &exportDoc{Format: exportFormat, Model: filepath.Base(file), Specimen: c.Specimen, StressUnit: c.StressUnit,
 		Cautions: card.Cautions, Energy: fc.Energy, EnergyLaTeX: fc.EnergyLaTeX, Conventions: card.StandardConventions,
 		Warnings: []string{}, Notices: []string{}}
 	names := familyNames(m)

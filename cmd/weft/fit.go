@@ -473,6 +473,9 @@ func buildCard(o *fitOutcome) (*card.Card, error) {
 	return c, nil
 }
 
+// dataSection describes the data in the card. Warnings and notices name
+// the input by its base name only, so that the card does not depend on how
+// its path was typed (or reveal where it lives).
 func dataSection(s *biaxial.Specimen) card.DataSection {
 	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
 		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
@@ -480,8 +483,13 @@ func dataSection(s *biaxial.Specimen) card.DataSection {
 	for _, pr := range s.Protocols {
 		d.Protocols = append(d.Protocols, card.DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
 	}
+	base := filepath.Base(s.Source)
 	for _, w := range s.Warnings {
+		w.File = base
 		d.Warnings = append(d.Warnings, w.String())
+	}
+	for i, n := range d.Notices {
+		d.Notices[i] = strings.ReplaceAll(n, s.Source, base)
 	}
 	return d
 }

@@ -417,3 +417,46 @@ func TestInterruptAndKill(t *testing.T) {
 		}
 	}
 }
+
+// Finding 6: outputs name the input by its base name only, so the same data
+// give the same bytes however the path was typed (here with a notice about
+// the separator and a warning about a negative stress, which name the file).
+func TestOutputsDoNotDependOnThePathAsTyped(t *testing.T) {
+	dir := t.TempDir()
+	b, _ := os.ReadFile(quickData(t, dir, "x.csv"))
+	lines := strings.Split(strings.ReplaceAll(string(b), ",", ";"), "\n")
+	f := strings.Split(lines[4], ";")
+	f[3] = "-5"
+	lines[4] = strings.Join(f, ";")
+	data := filepath.Join(dir, "x.csv")
+	os.WriteFile(data, []byte(strings.Join(lines, "\n")), 0o644)
+	os.Mkdir(filepath.Join(dir, "sub"), 0o755)
+	spellings := []string{data, filepath.Join(dir, "sub", "..", ".", "x.csv")}
+	var outs []string
+	for i, p := range spellings {
+		out := filepath.Join(t.TempDir(), fmt.Sprint("out", i))
+		if _, errs, code := quickFit(t, p, out); code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		outs = append(outs, out)
+	}
+	model, _ := os.ReadFile(filepath.Join(outs[0], "model.json"))
+	if !strings.Contains(string(model), "x.csv: semicolon-separated") || !strings.Contains(string(model), "x.csv:5 (protocol 1:1)") {
+		t.Fatalf("the card lacks the notice or the warning:\n%s", model)
+	}
+	filepath.WalkDir(outs[0], func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		rel, _ := filepath.Rel(outs[0], p)
+		a, _ := os.ReadFile(p)
+		b, err := os.ReadFile(filepath.Join(outs[1], rel))
+		if err != nil || !bytes.Equal(a, b) {
+			t.Errorf("%s differs between two spellings of the input path", rel)
+		}
+		if bytes.Contains(a, []byte(dir)) {
+			t.Errorf("%s holds the input's folder %s", rel, dir)
+		}
+		return nil
+	})
+}

@@ -57,6 +57,7 @@ type evalResult struct {
 func newEvaluateCmd() *cobra.Command {
 	var fFlag, stretchFlag string
 	var asJSON bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "evaluate MODEL.json (--F F11,F12,F21,F22 | --stretch L1,L2)",
 		Short: "Energy, stresses and the analytic tangent of a model card at one deformation",
@@ -98,7 +99,11 @@ the tangent without them is printed.
 			if det := F[0]*F[3] - F[1]*F[2]; !(det > 0) {
 				return badInputf("det F = F11·F22 − F12·F21 = %g ≤ 0 would invert the material", det)
 			}
-			c, m, dr, err := readCardWithRange(args[0])
+			_, cl, err := limits.parse()
+			if err != nil {
+				return err
+			}
+			c, m, dr, err := readCardWithRange(args[0], cl)
 			if err != nil {
 				return err
 			}
@@ -116,6 +121,7 @@ the tangent without them is printed.
 	cmd.Flags().StringVar(&fFlag, "F", "", "in-plane deformation gradient F11,F12,F21,F22")
 	cmd.Flags().StringVar(&stretchFlag, "stretch", "", "pure biaxial stretch L1,L2 (F12 = F21 = 0)")
 	cmd.Flags().BoolVar(&asJSON, "json", false, "print the result as JSON")
+	limits = addLimitFlag(cmd)
 	return cmd
 }
 

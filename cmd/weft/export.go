@@ -83,6 +83,7 @@ type exportDoc struct {
 func newExportCmd() *cobra.Command {
 	var format, out string
 	var force, schema bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "export MODEL.json [--format table|csv|json|latex] [-o FILE] | export --schema",
 		Short: "Parameters, energy and a stress verification table of a model card for FE use",
@@ -134,7 +135,11 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 			if schema {
 				return res.write(card.Schema())
 			}
-			c, m, err := readCard(args[0])
+			_, cl, err := limits.parse()
+			if err != nil {
+				return err
+			}
+			c, m, err := readCard(args[0], cl)
 			if err != nil {
 				return err
 			}
@@ -163,6 +168,7 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 	cmd.Flags().StringVarP(&out, "output", "o", "", "write to this file instead of standard output")
 	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
 	cmd.Flags().BoolVar(&schema, "schema", false, "print the JSON Schema of model cards instead")
+	limits = addLimitFlag(cmd)
 	return cmd
 }
 

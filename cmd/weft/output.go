@@ -671,6 +671,27 @@ func (o *outputDir) close() {
 	o.lock = nil
 }
 
+// errTooLarge says that a file holds more than the bytes allowed.
+var errTooLarge = errors.New("too large")
+
+// readAtMost reads the file at path whole unless it holds more than max
+// bytes (errTooLarge), so a huge file or a device cannot exhaust memory.
+func readAtMost(path string, max int64) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	b, err := io.ReadAll(io.LimitReader(f, max+1))
+	if err != nil {
+		return nil, err
+	}
+	if int64(len(b)) > max {
+		return nil, errTooLarge
+	}
+	return b, nil
+}
+
 // resultOutput is where a command's one result goes: standard output, or
 // a file (-o FILE) checked before the work starts.
 type resultOutput struct {

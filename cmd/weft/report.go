@@ -113,6 +113,7 @@ func reportFilesNote(o *fitOutcome) string {
 
 func newReportCmd() *cobra.Command {
 	var strain, force bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "report DIR",
 		Short: "Rebuild the fit report (report.html and plots/) of an output folder without refitting",
@@ -140,16 +141,21 @@ tested range, not for clinical decisions.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runReport(cmd, args[0], strain, force)
+			return runReport(cmd, args[0], strain, force, limits)
 		},
 	}
 	cmd.Flags().BoolVar(&strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
 	cmd.Flags().BoolVar(&force, "force", false, "replace an existing report.html and plots/")
+	limits = addLimitFlag(cmd)
 	return cmd
 }
 
-func runReport(cmd *cobra.Command, dir string, strain, force bool) error {
-	in, err := loadReportInput(dir)
+func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limitFlags) error {
+	dl, cl, err := limits.parse()
+	if err != nil {
+		return err
+	}
+	in, err := loadReportInputLimits(dir, dl, cl)
 	if err != nil {
 		return err
 	}

@@ -1,7 +1,9 @@
 // Package card reads, validates and writes weft model cards (model.json): a
 // versioned JSON description of a strain energy — its fibre families and
 // weighted catalogue terms — that a user can also write by hand, and that a
-// fit extends with its evidence. Readers ignore keys they do not know.
+// fit extends with its evidence. Readers keep keys they do not know but are
+// otherwise strict (exact key case, no repeated keys, UTF-8, an object at
+// the top level, bounded size; see ParseLimits).
 //
 // A card's numbers carry units: weights in the card's stress unit, angles in
 // degrees from axis 1 towards axis 2, everything else dimensionless. The

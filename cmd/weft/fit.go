@@ -60,7 +60,12 @@ With --preset NAME or --terms ID,ID,... it fits that model form only, with
 learned fibre angles, and reports how well each parameter is determined.
 
 The output folder defaults to <specimen>.weft next to the input. An existing
-folder is never replaced without --force.
+folder is never replaced without --force, and --force replaces only a folder
+weft wrote that holds nothing else (its .weft-output file lists weft's
+files); any other folder, file, device or pipe is kept and the run stops
+with exit code 2. A second weft run writing the same folder at the same time
+stops at once. With several DATA files every file is tried; the failures are
+listed at the end and the exit code is 1.
 
 Parameters are research-grade and specimen-specific, valid only within the
 tested range, not for clinical decisions.`,
@@ -85,7 +90,7 @@ tested range, not for clinical decisions.`,
 	rf := addReadFlags(cmd)
 	fl := cmd.Flags()
 	fl.StringVarP(&ff.out, "output", "o", "", "output folder (default <specimen>.weft next to the input; with several inputs, the parent of one folder per specimen)")
-	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder")
+	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder that weft wrote (never anything else)")
 	fl.StringVar(&ff.preset, "preset", "", "fit a classical preset instead of discovering (see 'weft terms')")
 	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
 	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
@@ -284,7 +289,7 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 		}
 	}
 	if ff.asJSON && len(outcomes) > 0 {
-		if err := printCardsJSON(cmd.OutOrStdout(), outcomes); err != nil {
+		if err := printCardsJSON(cmd.OutOrStdout(), outcomes, len(jobs) > 1); err != nil {
 			return err
 		}
 	}
@@ -518,10 +523,10 @@ func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {
 	return dr
 }
 
-// printCardsJSON prints one card, or an array of cards for several
-// specimens.
-func printCardsJSON(w io.Writer, os []*fitOutcome) error {
-	if len(os) == 1 {
+// printCardsJSON prints one card, or an array of the cards written when
+// several DATA files were given.
+func printCardsJSON(w io.Writer, os []*fitOutcome, several bool) error {
+	if len(os) == 1 && !several {
 		b, err := os[0].card.Marshal()
 		if err != nil {
 			return err

@@ -13,6 +13,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -118,7 +119,14 @@ func (c *checkedWriter) Write(p []byte) (int, error) {
 
 // run executes weft with args and returns the exit code; main and the tests
 // share it.
-func run(args []string, stdout, stderr io.Writer) int {
+func run(args []string, stdout, stderr io.Writer) (code int) {
+	defer func() {
+		// A bug must not look like bad input (Go exits 2 on a panic).
+		if r := recover(); r != nil {
+			fmt.Fprintf(stderr, "weft: internal error, please report it: %v\n%s", r, debug.Stack())
+			code = exitFailed
+		}
+	}()
 	out := &checkedWriter{w: stdout}
 	root := newRootCmd()
 	root.SetOut(out)

@@ -86,13 +86,17 @@ func writeReportFiles(od *outputDir, o *fitOutcome) error {
 			return err
 		}
 	}
+	// Messages name the folder the user will see, not the temporary one.
+	named := func(err error) error {
+		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
+	}
 	in, err := loadReportInput(od.tmp)
 	if err != nil {
-		return fmt.Errorf("building the report: %w", err)
+		return named(err)
 	}
 	files, err := buildReport(in, false)
 	if err != nil {
-		return fmt.Errorf("building the report: %w", err)
+		return named(err)
 	}
 	for _, f := range files {
 		if err := od.write(filepath.FromSlash(f.rel), f.data); err != nil {

@@ -256,7 +256,7 @@ func checkUTF8(p *tableParser, data string) error {
 		off += size
 	}
 	line := 1 + strings.Count(data[:off], "\n")
-	col := off - strings.LastIndexByte(data[:off], '\n')
+	col := 1 + utf8.RuneCountInString(data[strings.LastIndexByte(data[:off], '\n')+1:off])
 	return p.errAt(line, 0, ErrSyntax, "save the file as UTF-8 (in spreadsheet programs: CSV UTF-8); Latin-1 or Windows-1252 text is not read",
 		"the text is not UTF-8: byte 0x%02X at character %d of the line does not decode", data[off], col)
 }

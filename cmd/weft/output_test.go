@@ -1,3 +1,5 @@
+//go:build unix
+
 package main
 
 import (
@@ -13,35 +15,6 @@ import (
 	"testing"
 	"time"
 )
-
-// quickData writes a small synthetic specimen (two protocols of an
-// incompressible neo-Hookean membrane, μ = 10 kPa, Cauchy stress
-// σ_ii = μ(λ_i² − 1/(λ1²λ2²)), the classical closed form, e.g. Ogden 1984)
-// that a preset fits in a fraction of a second.
-func quickData(t *testing.T, dir, name string) string {
-	t.Helper()
-	var b strings.Builder
-	b.WriteString("# specimen = " + strings.TrimSuffix(name, filepath.Ext(name)) + "\n# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n")
-	for _, r := range []float64{1, 0.5} {
-		for i := 0; i < 8; i++ {
-			l1 := 1 + 0.025*float64(i)
-			l2 := 1 + 0.025*float64(i)*r
-			s3 := 1 / (l1 * l1 * l2 * l2)
-			fmt.Fprintf(&b, "1:%g,%g,%g,%.10g,%.10g\n", r, l1, l2, 10*(l1*l1-s3), 10*(l2*l2-s3))
-		}
-	}
-	p := filepath.Join(dir, name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return p
-}
-
-// quickFit fits data with the neo-Hookean preset into out.
-func quickFit(t *testing.T, data, out string, extra ...string) (string, string, int) {
-	t.Helper()
-	return runWeft(t, append([]string{"fit", data, "--preset", "neo-hookean", "-o", out, "--quiet"}, extra...)...)
-}
 
 // noHelpers fails when a temporary, old-copy or lock file of weft is left
 // in dir (or, recursively, below it).

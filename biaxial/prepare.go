@@ -145,7 +145,7 @@ func Prepare(rec *Record, opt Options) (*Specimen, error) {
 		nlo, nhi := s.Protocols[lo].SelectedPoints, s.Protocols[hi].SelectedPoints
 		if float64(nhi) > countRatio*float64(nlo) {
 			s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
-				Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export or resample (--resample)",
+				Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export, or resample the protocols to a common number of points",
 					s.Protocols[hi].Label, nhi, s.Protocols[lo].Label, nlo)})
 		}
 	}
@@ -569,7 +569,7 @@ func checkNegative(s *Specimen, label string, pts []Point) {
 			if c == C22 {
 				lam = p.Stretch2()
 			}
-			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %s like this) — a tare offset? zero the load cells before the test, or re-reference (--rereference)",
+			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %s like this) — a tare offset? zero the load cells before the test, or re-reference each protocol to its first kept point",
 				label, s.Kind, c, p.Stress[c], s.StressUnit, lam, p.Line, plural(count, "point"))
 		}
 	}

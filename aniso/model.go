@@ -200,8 +200,9 @@ type Response struct {
 }
 
 // Evaluate returns the stress and energy at F = (F11, F12, F21, F22). It fails
-// for det F ≤ 0, a non-finite F, or a stress that overflows (an exponential
-// term far beyond the range it was fitted in).
+// for det F ≤ 0, a non-finite F, or a stress that is not finite (an
+// exponential term far beyond the range it was fitted in, or a limiting
+// term at its limit); the error names the term.
 func (m *Model) Evaluate(F [4]float64) (Response, error) {
 	k, err := NewKinematics(F)
 	if err != nil {
@@ -245,9 +246,34 @@ func (m *Model) Evaluate(F [4]float64) (Response, error) {
 	}
 	for i, v := range r.Cauchy {
 		if math.IsInf(v, 0) || math.IsNaN(v) {
-			return r, fmt.Errorf("stress component %d overflows at F = %v: an exponential term is far beyond its fitted range", []int{11, 22, 12}[i], F)
+			return r, fmt.Errorf("stress component %d is not finite at F = %v: %s", []int{11, 22, 12}[i], F, m.overflowCause(&r, &k, fks))
 		}
 	}
 	r.Nominal = k.Nominal(r.Cauchy)
 	return r, nil
+}
+
+// overflowCause names the first term whose stress is not finite and why:
+// a limiting term (a parameter named "limit") whose argument has reached
+// its limit, or an exponential that overflows.
+func (m *Model) overflowCause(r *Response, k *Kinematics, fks []FibreKinematics) string {
+	for i, t := range m.Terms {
+		c := r.TermCauchy[i]
+		if !(math.IsInf(c[0], 0) || math.IsNaN(c[0]) || math.IsInf(c[1], 0) || math.IsNaN(c[1]) || math.IsInf(c[2], 0) || math.IsNaN(c[2])) {
+			continue
+		}
+		var fk *FibreKinematics
+		kappa := 0.0
+		if t.Family >= 0 {
+			fk, kappa = &fks[t.Family], m.Families[t.Family].Dispersion
+		}
+		x := argument(t.Shape.Arg, kappa, k, fk).X
+		for j, q := range t.Shape.Params {
+			if q.Name == "limit" && x >= t.Params[j] {
+				return fmt.Sprintf("term %d (%s) is at or beyond its limiting extensibility (argument %.4g, limit %.4g)", i+1, t.Shape.ID, x, t.Params[j])
+			}
+		}
+		return fmt.Sprintf("term %d (%s) overflows (argument %.4g), far beyond the range it was fitted in", i+1, t.Shape.ID, x)
+	}
+	return "the terms' stresses cancel to an undefined value"
 }

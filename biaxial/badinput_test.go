@@ -42,14 +42,15 @@ func TestBadNumber(t *testing.T) {
 func TestBadEmptyCell(t *testing.T) {
 	_, err := readString(goodHeader+"1:1,1,1,,0\n"+goodRows, Options{})
 	wantParseError(t, err, ErrNumber, 2, 4, "cauchy_11 is empty")
+	// A short row is named as such, not as an empty cell.
 	_, err = readString(goodHeader+"1:1,1,1,0\n"+goodRows, Options{})
-	wantParseError(t, err, ErrNumber, 2, 5, "cauchy_22 is empty")
+	wantParseError(t, err, ErrSyntax, 2, 5, "the row ends after 4 fields but the header (line 1) has 5", "cauchy_22 (column 5) is missing")
 }
 
 func TestBadNaNAndInf(t *testing.T) {
 	for _, v := range []string{"NaN", "nan", "Inf", "-Inf", "+inf", "Infinity"} {
 		_, err := readString(goodHeader+goodRows+"1:1,1.1,1.1,"+v+",20\n", Options{})
-		wantParseError(t, err, ErrNumber, 7, 4, "cauchy_11 is "+v, "finite")
+		wantParseError(t, err, ErrNumber, 7, 4, `cauchy_11 is "`+v+`"`, "finite")
 	}
 	_, err := readString(goodHeader+goodRows+"1:1,1.1,1.1,1e400,20\n", Options{})
 	wantParseError(t, err, ErrNumber, 7, 4, "overflows")

@@ -2,6 +2,7 @@ package biaxial
 
 import (
 	"strings"
+	"unicode/utf8"
 )
 
 // csvScanner splits RFC 4180 text into records, keeping line numbers. Fields
@@ -178,14 +179,22 @@ func allBlank(fields []string) bool {
 }
 
 // readCSV parses a whole CSV text.
-func readCSV(data, name string) (*Record, error) {
-	p := newTableParser(name, "")
+func readCSV(data, name string, lim Limits) (*Record, error) {
+	p := newTableParser(name, "", lim)
 	switch {
 	case strings.HasPrefix(data, "\xef\xbb\xbf"):
 		data = data[3:]
 	case strings.HasPrefix(data, "\xff\xfe"), strings.HasPrefix(data, "\xfe\xff"):
 		return nil, p.errAt(1, 0, ErrSyntax, "save the file as UTF-8 (with or without BOM)",
 			"the file is UTF-16 encoded")
+	}
+	if err := checkUTF8(p, data); err != nil {
+		return nil, err
+	}
+	if !strings.Contains(data, "\n") && strings.Contains(data, "\r") {
+		// Classic Mac line ends: carriage returns alone.
+		data = strings.ReplaceAll(data, "\r", "\n")
+		p.notice("%s: the lines end in carriage returns only (classic Mac text); they are read as line breaks", name)
 	}
 	s := &csvScanner{data: data, line: 1}
 	for {
@@ -229,4 +238,25 @@ func readCSV(data, name string) (*Record, error) {
 		}
 	}
 	return p.finish()
+}
+
+// checkUTF8 refuses text that is not UTF-8, naming the first line with a
+// byte that does not decode: read as UTF-8, Latin-1 or Windows-1252 text
+// would silently turn into replacement characters.
+func checkUTF8(p *tableParser, data string) error {
+	if utf8.ValidString(data) {
+		return nil
+	}
+	off := 0
+	for off < len(data) {
+		r, size := utf8.DecodeRuneInString(data[off:])
+		if r == utf8.RuneError && size == 1 {
+			break
+		}
+		off += size
+	}
+	line := 1 + strings.Count(data[:off], "\n")
+	col := 1 + utf8.RuneCountInString(data[strings.LastIndexByte(data[:off], '\n')+1:off])
+	return p.errAt(line, 0, ErrSyntax, "save the file as UTF-8 (in spreadsheet programs: CSV UTF-8); Latin-1 or Windows-1252 text is not read",
+		"the text is not UTF-8: byte 0x%02X at character %d of the line does not decode", data[off], col)
 }

@@ -96,6 +96,9 @@ type Options struct {
 	// default 1 for a label not in the map). A label that names no protocol
 	// of the file is an error.
 	ProtocolWeights map[string]float64
+	// Limits bound the file's size and its values; zero fields take
+	// DefaultLimits.
+	Limits Limits
 }
 
 // MinPoints is the fewest points a protocol may keep after cycle and branch
@@ -112,10 +115,16 @@ func (o Options) check() error {
 	if o.Resample != 0 && o.Resample < MinPoints {
 		return fmt.Errorf("%w: resample to %d points; use 0 (off) or at least %d", ErrOptions, o.Resample, MinPoints)
 	}
+	if err := o.Limits.check(); err != nil {
+		return err
+	}
+	if max := o.Limits.withDefaults().MaxRows; o.Resample > max {
+		return categorised{fmt.Sprintf("%v: resampling to %d points per protocol exceeds the row limit of %d", ErrOptions, o.Resample, max), []error{ErrOptions, ErrRowCount}}
+	}
 	for _, k := range sortedKeys(o.ProtocolWeights) {
 		w := o.ProtocolWeights[k]
 		if !(w >= 0) || w > 1e300 {
-			return fmt.Errorf("%w: weight %v for protocol %q; weights must be finite and ≥ 0", ErrOptions, w, k)
+			return fmt.Errorf("%w: weight %v for protocol %s; weights must be finite and ≥ 0", ErrOptions, w, quote(k))
 		}
 	}
 	return nil

@@ -114,9 +114,11 @@ type tableParser struct {
 	decComma    bool // a decimal comma was met
 	decCommaOK  bool // decimal commas are accepted (not a comma-separated CSV)
 	nRows       int
+	lim         Limits  // with defaults filled in
+	toKPa       float64 // multiplies a stress in the record's unit into kPa
 }
 
-func newTableParser(file, sheet string) *tableParser {
+func newTableParser(file, sheet string, lim Limits) *tableParser {
 	stem := filepath.Base(file)
 	if ext := filepath.Ext(stem); ext != "" {
 		stem = strings.TrimSuffix(stem, ext)
@@ -124,6 +126,7 @@ func newTableParser(file, sheet string) *tableParser {
 	return &tableParser{
 		file:     file,
 		sheet:    sheet,
+		lim:      lim.withDefaults(),
 		metaLine: map[string]int{},
 		rec: &Record{
 			Name:   stem,
@@ -190,7 +193,7 @@ func (p *tableParser) comment(line int, text string) error {
 	val := strings.TrimSpace(text[eq+1:])
 	if first, dup := p.metaLine[key]; dup {
 		return p.errAt(line, 0, ErrMetadata, "keep one of the two lines",
-			"metadata %q is given again (first on line %d)", key, first)
+			"metadata %s is given again (first on line %d)", quote(key), first)
 	}
 	p.metaLine[key] = line
 	p.rec.Meta[key] = val
@@ -241,7 +244,7 @@ func (p *tableParser) metaLength(key string) (float64, bool, error) {
 	x, unit, ok := splitQuantity(v, p.decCommaOK)
 	if !ok {
 		return 0, false, p.errAt(line, 0, ErrNumber, "write a number and a length unit, e.g. `# "+key+" = 0.8 mm`",
-			"metadata %s = %q is not a length", key, v)
+			"metadata %s = %s is not a length", key, quote(v))
 	}
 	if unit == "" {
 		return 0, false, p.errAt(line, 0, ErrUnit, "write the unit, e.g. `# "+key+" = "+v+" mm` (m, mm, µm)",
@@ -250,7 +253,7 @@ func (p *tableParser) metaLength(key string) (float64, bool, error) {
 	f, ok := LengthToMetre(unit)
 	if !ok {
 		return 0, false, p.errAt(line, 0, ErrUnit, "use one of "+unitNames(lengthUnits),
-			"metadata %s has unknown length unit %q", key, unit)
+			"metadata %s has unknown length unit %s", key, quote(unit))
 	}
 	if !(x > 0) || math.IsInf(x, 0) {
 		return 0, false, p.errAt(line, 0, ErrRange, "give the reference "+key+" of the specimen, a positive length",
@@ -265,6 +268,10 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 	p.headerLine = line
 	rec := p.rec
 	if n, ok := rec.Meta["specimen"]; ok && n != "" {
+		if utf8.RuneCountInString(n) > MaxLabelLength {
+			return p.errAt(p.metaLine["specimen"], 0, ErrMetadata, fmt.Sprintf("shorten it to at most %d characters", MaxLabelLength),
+				"metadata specimen is %d characters long (%s); the name also names the output folder", utf8.RuneCountInString(n), quote(n))
+		}
 		rec.Name = n
 	}
 
@@ -298,7 +305,7 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		cu, ok := CanonicalStressUnit(u)
 		if !ok {
 			return p.errAt(p.metaLine["stress_unit"], 0, ErrUnit, "use one of Pa, kPa, MPa",
-				"metadata stress_unit = %q is not a stress unit", u)
+				"metadata stress_unit = %s is not a stress unit", quote(u))
 		}
 		metaUnit = cu
 	}
@@ -311,20 +318,20 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		if !known {
 			if strings.TrimSpace(h) != "" {
 				p.ignored = append(p.ignored, strings.TrimSpace(h))
-				p.notice("%s: column %q is not part of the weft layout and is ignored", p.where(line, col), strings.TrimSpace(h))
+				p.notice("%s: column %s is not part of the weft layout and is ignored", p.where(line, col), quote(strings.TrimSpace(h)))
 			}
 			continue
 		}
 		if prev := p.byRole[r]; prev != 0 {
 			return p.errAt(line, col, ErrDuplicateColumn, "remove or rename one of them",
-				"column %q repeats %s (column %d)", strings.TrimSpace(h), roleName[r], prev)
+				"column %s repeats %s (column %d)", quote(strings.TrimSpace(h)), roleName[r], prev)
 		}
 		if r == roleCauchy21 {
 			return p.errAt(line, col, ErrMixedStress, "give the in-plane shear as cauchy_12 only",
-				"column %q: Cauchy stress is symmetric, so cauchy_21 is not a separate quantity", strings.TrimSpace(h))
+				"column %s: Cauchy stress is symmetric, so cauchy_21 is not a separate quantity", quote(strings.TrimSpace(h)))
 		}
 		p.byRole[r] = col
-		p.cols[i] = column{role: r, header: strings.TrimSpace(h), unit: unit, factor: 1}
+		p.cols[i] = column{role: r, header: clip(strings.TrimSpace(h), 80), unit: unit, factor: 1}
 		if hasUnit && unit == "" {
 			hasUnit = false
 		}
@@ -332,19 +339,19 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		switch r {
 		case roleProtocol, roleCycle:
 			if hasUnit {
-				return p.errAt(line, col, ErrUnit, "remove the unit", "column %q takes no unit", strings.TrimSpace(h))
+				return p.errAt(line, col, ErrUnit, "remove the unit", "column %s takes no unit", quote(strings.TrimSpace(h)))
 			}
 		case roleStretch1, roleStretch2, roleF11, roleF12, roleF21, roleF22:
 			if hasUnit && unit != "-" && unit != "1" {
 				return p.errAt(line, col, ErrUnit, "stretches are ratios (1 in the reference state); leave the unit out or write [-]",
-					"column %q has unit %q", strings.TrimSpace(h), unit)
+					"column %s has unit %s", quote(strings.TrimSpace(h)), quote(unit))
 			}
 		case roleTime:
 			if hasUnit {
 				d, ok := findUnit(timeUnits, unit)
 				if !ok {
 					return p.errAt(line, col, ErrUnit, "use one of "+unitNames(timeUnits),
-						"column %q has unknown time unit %q", strings.TrimSpace(h), unit)
+						"column %s has unknown time unit %s", quote(strings.TrimSpace(h)), quote(unit))
 				}
 				p.cols[i].factor = d.toSI
 			}
@@ -356,7 +363,7 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 	hasF := p.byRole[roleF11] != 0 || p.byRole[roleF12] != 0 || p.byRole[roleF21] != 0 || p.byRole[roleF22] != 0
 	hint := ""
 	if len(p.ignored) > 0 {
-		hint = fmt.Sprintf(" (ignored columns: %s)", strings.Join(p.ignored, ", "))
+		hint = fmt.Sprintf(" (ignored columns: %s)", clip(strings.Join(p.ignored, ", "), 200))
 	}
 	switch {
 	case hasF:
@@ -408,7 +415,7 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		}
 		if len(who) > 1 {
 			return p.errAt(line, who[1], ErrMixedStress, "keep one stress measure per axis and remove the other column",
-				"columns %q and %q both give the %s stress", p.cols[who[0]-1].header, p.cols[who[1]-1].header, c)
+				"columns %s and %s both give the %s stress", quote(p.cols[who[0]-1].header), quote(p.cols[who[1]-1].header), c)
 		}
 	}
 	var fam int
@@ -466,11 +473,11 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 					u, ok := CanonicalStressUnit(p.cols[i].unit)
 					if !ok {
 						return p.errAt(line, i+1, ErrUnit, "use one of Pa, kPa, MPa",
-							"column %q has unknown stress unit %q", p.cols[i].header, p.cols[i].unit)
+							"column %s has unknown stress unit %s", quote(p.cols[i].header), quote(p.cols[i].unit))
 					}
 					outUnit = u
 					if metaUnit != "" && metaUnit != u {
-						p.notice("%s: metadata stress_unit = %s differs from column %q; the column's unit is used", p.where(line, i+1), metaUnit, p.cols[i].header)
+						p.notice("%s: metadata stress_unit = %s differs from column %s; the column's unit is used", p.where(line, i+1), metaUnit, quote(p.cols[i].header))
 					}
 				} else {
 					outUnit = metaUnit
@@ -486,6 +493,7 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		}
 	}
 	rec.StressUnit = outUnit
+	p.toKPa, _ = StressFactor(outUnit, "kPa")
 
 	// Stress column factors.
 	for i := range p.cols {
@@ -498,12 +506,12 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		if c.role == roleLoad1 || c.role == roleLoad2 {
 			if c.unit == "" {
 				return p.errAt(line, i+1, ErrUnit, "write the load unit in the header, e.g. `"+roleName[c.role]+" [N]` (N, mN, gf)",
-					"column %q has no unit", c.header)
+					"column %s has no unit", quote(c.header))
 			}
 			fN, ok := ForceToNewton(c.unit)
 			if !ok {
 				return p.errAt(line, i+1, ErrUnit, "use one of "+unitNames(forceUnits),
-					"column %q has unknown force unit %q", c.header, c.unit)
+					"column %s has unknown force unit %s", quote(c.header), quote(c.unit))
 			}
 			if rec.Geometry == nil {
 				var missing []string
@@ -535,10 +543,10 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		f, ok := StressFactor(u, outUnit)
 		if !ok {
 			return p.errAt(line, i+1, ErrUnit, "use one of Pa, kPa, MPa",
-				"column %q has unknown stress unit %q", c.header, c.unit)
+				"column %s has unknown stress unit %s", quote(c.header), quote(c.unit))
 		}
 		if cu, _ := CanonicalStressUnit(u); cu != outUnit {
-			p.notice("%s: column %q is in %s; converted to %s like the first stress column", p.where(line, i+1), c.header, cu, outUnit)
+			p.notice("%s: column %s is in %s; converted to %s like the first stress column", p.where(line, i+1), quote(c.header), cu, outUnit)
 		}
 		c.factor = f
 	}
@@ -565,17 +573,18 @@ func (p *tableParser) firstOf(rs ...role) int {
 	return best
 }
 
-// number parses a numeric cell, accepting a decimal comma where the
-// separator allows it.
+// number parses a numeric cell strictly (see ParseNumber), accepting a
+// decimal comma where the separator allows it.
 func (p *tableParser) number(line, col int, s string) (float64, error) {
 	s = strings.TrimSpace(s)
+	name := p.cols[col-1].header
 	if s == "" {
 		return 0, p.errAt(line, col, ErrNumber, "fill in the value or delete the row",
-			"%s is empty", p.cols[col-1].header)
+			"%s is empty", name)
 	}
-	v, err := strconv.ParseFloat(s, 64)
+	v, err := ParseNumber(s)
 	if err != nil && p.decCommaOK && strings.Count(s, ",") == 1 && !strings.Contains(s, ".") {
-		v, err = strconv.ParseFloat(strings.Replace(s, ",", ".", 1), 64)
+		v, err = ParseNumber(strings.Replace(s, ",", ".", 1))
 		if err == nil && !p.decComma {
 			p.decComma = true
 			p.notice("%s: decimal commas are read as decimal points", p.where(line, col))
@@ -584,44 +593,28 @@ func (p *tableParser) number(line, col int, s string) (float64, error) {
 	if err != nil {
 		if ne, ok := err.(*strconv.NumError); ok && ne.Err == strconv.ErrRange {
 			return 0, p.errAt(line, col, ErrNumber, "check the value",
-				"%s is %s, which overflows a float64", p.cols[col-1].header, quoteCell(s))
+				"%s is %s, which overflows a float64", name, quote(s))
 		}
 		fix := "write a plain decimal number such as 1.05 or 2.3e-2"
-		if strings.Contains(s, ",") && !p.decCommaOK {
+		switch {
+		case strings.Contains(s, ",") && !p.decCommaOK:
 			fix = "the file is comma-separated, so a decimal comma splits the number; separate columns with semicolons or use decimal points"
+		case err.Error() == "only finite numbers are data":
+			fix = "replace it with a measured value or delete the row"
 		}
-		return 0, p.errAt(line, col, ErrNumber, fix, "%s is %s, not a number", p.cols[col-1].header, quoteCell(s))
-	}
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, p.errAt(line, col, ErrNumber, "replace it with a measured value or delete the row",
-			"%s is %s; only finite numbers are data", p.cols[col-1].header, s)
+		return 0, p.errAt(line, col, ErrNumber, fix, "%s is %s: %v", name, quote(s), err)
 	}
 	return v, nil
 }
 
-func quoteCell(s string) string {
-	if len(s) > 40 {
-		s = s[:40] + "…"
-	}
-	if !utf8.ValidString(s) {
-		return fmt.Sprintf("%q", s)
-	}
-	return "\"" + s + "\""
-}
-
 // row reads a data row.
 func (p *tableParser) row(line int, fields []string) error {
-	if len(fields) > len(p.cols) {
-		for i := len(p.cols); i < len(fields); i++ {
-			if strings.TrimSpace(fields[i]) != "" {
-				fix := "remove the extra cells or add a header for them"
-				if !p.decCommaOK && p.sep == ',' {
-					fix = "if the numbers use decimal commas, separate the columns with semicolons; otherwise remove the extra cells or add a header for them"
-				}
-				return p.errAt(line, i+1, ErrSyntax, fix,
-					"the row has %d fields but the header (line %d) has %d", len(fields), p.headerLine, len(p.cols))
-			}
-		}
+	if len(p.rec.Rows) >= p.lim.MaxRows {
+		return p.errAt(line, 0, ErrRowCount, "split the file, or raise the row limit if the rows are all needed",
+			"the file has more than %d data rows, the limit for a test file", p.lim.MaxRows)
+	}
+	if err := p.fieldCount(line, fields); err != nil {
+		return err
 	}
 	var r Row
 	r.Time = math.NaN()
@@ -637,6 +630,10 @@ func (p *tableParser) row(line int, fields []string) error {
 		if lab == "" {
 			return p.errAt(line, c, ErrProtocol, "write the protocol label (e.g. 1:0.5) in every data row",
 				"the protocol is empty")
+		}
+		if n := utf8.RuneCountInString(lab); n > MaxLabelLength {
+			return p.errAt(line, c, ErrProtocol, fmt.Sprintf("shorten the label to at most %d characters", MaxLabelLength),
+				"the protocol label is %d characters long (%s)", n, quote(lab))
 		}
 		if lab != p.lastLabel {
 			p.lastLabel = strings.Clone(lab)
@@ -659,7 +656,7 @@ func (p *tableParser) row(line int, fields []string) error {
 		case roleCycle:
 			if v != math.Trunc(v) || v < 0 || v > 1e9 {
 				return p.errAt(line, col, ErrNumber, "number the cycles 1, 2, 3, … (or from 0)",
-					"cycle is %s; it must be a whole number ≥ 0", strings.TrimSpace(get(col)))
+					"cycle is %s; it must be a whole number ≥ 0", quote(strings.TrimSpace(get(col))))
 			}
 			r.Cycle = int(v)
 		case roleTime:
@@ -685,6 +682,9 @@ func (p *tableParser) row(line int, fields []string) error {
 		default:
 			_, comp, _ := stressRole(c.role)
 			r.Stress[comp] = v * c.factor
+			if err := p.plausibleStress(line, col, v, r.Stress[comp]); err != nil {
+				return err
+			}
 		}
 	}
 	if p.rec.Kinematics == GradientColumns {
@@ -695,8 +695,98 @@ func (p *tableParser) row(line int, fields []string) error {
 				"det F = F11·F22 − F12·F21 = %.6g; it must be > 0", det)
 		}
 	}
+	if err := p.plausibleStretch(line, &r); err != nil {
+		return err
+	}
 	p.rec.Rows = append(p.rec.Rows, r)
 	return nil
+}
+
+// fieldCount refuses a row with cells beyond the header, and a CSV row that
+// ends before a column weft reads (a workbook row simply has empty cells
+// there, which the number check reports).
+func (p *tableParser) fieldCount(line int, fields []string) error {
+	if len(fields) > len(p.cols) {
+		for i := len(p.cols); i < len(fields); i++ {
+			if strings.TrimSpace(fields[i]) != "" {
+				fix := "remove the extra cells or add a header for them"
+				if !p.decCommaOK && p.sep == ',' {
+					fix = "if the numbers use decimal commas, separate the columns with semicolons; otherwise remove the extra cells or add a header for them"
+				}
+				return p.errAt(line, i+1, ErrSyntax, fix,
+					"the row has %d fields but the header (line %d) has %d", len(fields), p.headerLine, len(p.cols))
+			}
+		}
+	}
+	if p.sheet != "" || len(fields) >= len(p.cols) {
+		return nil
+	}
+	for i := len(fields); i < len(p.cols); i++ {
+		if p.cols[i].role != roleIgnore {
+			return p.errAt(line, i+1, ErrSyntax, "complete the row or delete it",
+				"the row ends after %d fields but the header (line %d) has %d; %s (column %d) is missing",
+				len(fields), p.headerLine, len(p.cols), p.cols[i].header, i+1)
+		}
+	}
+	return nil
+}
+
+// plausibleStretch refuses a row whose in-plane principal stretches lie
+// outside the plausible range: for stretch columns each stretch, for F
+// columns the singular values of F.
+func (p *tableParser) plausibleStretch(line int, r *Row) error {
+	lo, hi := p.lim.StretchMin, p.lim.StretchMax
+	fix := "check the column order and the unit (a stretch is a ratio, 1 in the reference state, not a length or a strain); if the value is real, widen the plausible stretch range"
+	if p.rec.Kinematics == StretchColumns {
+		for _, rl := range []role{roleStretch1, roleStretch2} {
+			v := r.F[0]
+			if rl == roleStretch2 {
+				v = r.F[3]
+			}
+			if !(v >= lo && v <= hi) {
+				return p.errAt(line, p.byRole[rl], ErrStretchLimit, fix,
+					"%s is %g, outside the plausible range %g to %g for soft tissue", roleName[rl], v, lo, hi)
+			}
+		}
+		return nil
+	}
+	s1, s2 := principalStretches(r.F)
+	if !(s2 >= lo && s1 <= hi) {
+		return p.errAt(line, p.byRole[roleF11], ErrStretchLimit, fix,
+			"F = (%g, %g, %g, %g) has principal stretches %.4g and %.4g, outside the plausible range %g to %g for soft tissue",
+			r.F[0], r.F[1], r.F[2], r.F[3], s1, s2, lo, hi)
+	}
+	return nil
+}
+
+// principalStretches returns the larger and smaller singular value of the
+// 2×2 matrix F (row-major F11, F12, F21, F22).
+func principalStretches(F [4]float64) (float64, float64) {
+	a := F[0]*F[0] + F[1]*F[1] + F[2]*F[2] + F[3]*F[3]
+	det := math.Abs(F[0]*F[3] - F[1]*F[2])
+	d := math.Sqrt(math.Max(a*a-4*det*det, 0))
+	s1 := math.Sqrt((a + d) / 2)
+	if s1 == 0 {
+		return 0, 0
+	}
+	return s1, det / s1
+}
+
+// plausibleStress refuses a stress whose magnitude exceeds the limit. raw
+// is the cell's value, v the value in the record's unit.
+func (p *tableParser) plausibleStress(line, col int, raw, v float64) error {
+	kPa := v * p.toKPa
+	if math.Abs(kPa) <= p.lim.MaxStressKPa {
+		return nil
+	}
+	c := &p.cols[col-1]
+	what := fmt.Sprintf("%s is %g %s", c.header, v, p.rec.StressUnit)
+	if c.role == roleLoad1 || c.role == roleLoad2 {
+		what = fmt.Sprintf("%s = %g %s gives a nominal stress of %.4g %s", c.header, raw, c.unit, v, p.rec.StressUnit)
+	}
+	return p.errAt(line, col, ErrStressLimit,
+		"check the stress unit and the column (and the thickness and sizes for loads); if the value is real, raise the stress limit",
+		"%s; stresses beyond ±%g kPa are not plausible for soft tissue", what, p.lim.MaxStressKPa)
 }
 
 // finish checks what can only be checked at the end.

@@ -25,6 +25,14 @@ const (
 	// factor are reported (the weighting evens them out, but a fit still
 	// sees very different resolutions).
 	countRatio = 3
+	// sameDirection: the cycles of one protocol stretch the specimen the
+	// same way; peaks whose directions in (F − I) differ by more than this
+	// angle (degrees) belong to different protocols. 1:1 and 1:0.75 differ
+	// by 8°.
+	sameDirection = 5
+	// directionFloor: cycles whose peak is below this fraction of the
+	// protocol's largest peak are too small to compare directions.
+	directionFloor = 0.25
 	// rangeFloor: a normal component whose stress range is below this
 	// fraction of the protocol's largest normal range is weighted as if its
 	// range were that large, so an axis held near zero load does not
@@ -91,7 +99,7 @@ func Prepare(rec *Record, opt Options) (*Specimen, error) {
 	for _, k := range sortedKeys(opt.ProtocolWeights) {
 		if _, ok := groups[k]; !ok {
 			return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrOptions,
-				Msg: fmt.Sprintf("a weight is given for protocol %q, which the file does not have", k),
+				Msg: fmt.Sprintf("a weight is given for protocol %s, which the file does not have", quote(k)),
 				Fix: "use one of " + quoteList(labels)}
 		}
 	}
@@ -137,7 +145,7 @@ func Prepare(rec *Record, opt Options) (*Specimen, error) {
 		nlo, nhi := s.Protocols[lo].SelectedPoints, s.Protocols[hi].SelectedPoints
 		if float64(nhi) > countRatio*float64(nlo) {
 			s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
-				Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export or resample (--resample)",
+				Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export, or resample the protocols to a common number of points",
 					s.Protocols[hi].Label, nhi, s.Protocols[lo].Label, nlo)})
 		}
 	}
@@ -184,6 +192,9 @@ func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Opt
 		}
 	}
 	pr.Cycles = len(cycles)
+	if err := mixedProtocol(rec, label, rows, cycles, d); err != nil {
+		return pr, err
+	}
 
 	// Choose cycles.
 	var chosen []int
@@ -260,6 +271,91 @@ func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Opt
 	pr.Points = pts
 	weigh(s, &pr)
 	return pr, nil
+}
+
+// mixedProtocol refuses rows of one label that cannot be one protocol —
+// a label reused for another protocol would otherwise lose rows silently
+// to the cycle selection: with a cycle column, a cycle number that comes
+// back after other cycles; in any case, cycles whose peaks stretch the
+// specimen in directions more than sameDirection degrees apart. The
+// message names the line ranges of both parts.
+func mixedProtocol(rec *Record, label string, rows []int, cycles []cycleSpan, d []float64) error {
+	line := func(pos int) int { return rec.Rows[rows[pos]].Line }
+	span := func(c cycleSpan) [2]int { return [2]int{line(c.idx[0]), line(c.idx[len(c.idx)-1])} }
+	var a, b [2]int
+	why := ""
+	if rec.HasCycle {
+		first := map[int][2]int{}
+		for pos := 0; pos < len(rows) && why == ""; {
+			c, end := rec.Rows[rows[pos]].Cycle, pos
+			for end+1 < len(rows) && rec.Rows[rows[end+1]].Cycle == c {
+				end++
+			}
+			run := [2]int{line(pos), line(end)}
+			if prev, seen := first[c]; seen {
+				a, b, why = prev, run, fmt.Sprintf("both hold cycle %d, with other cycles between them", c)
+			}
+			first[c] = run
+			pos = end + 1
+		}
+	}
+	if why == "" && rec.HasCycle {
+		// Numbered cycles can hide a second protocol inside one cycle: the
+		// directions are compared between the turns of the stretch.
+		dmin, dmax := math.Inf(1), math.Inf(-1)
+		for _, x := range d {
+			dmin, dmax = math.Min(dmin, x), math.Max(dmax, x)
+		}
+		cycles, _ = cyclesByTurns(d, turnFraction*(dmax-dmin))
+	}
+	if why == "" && len(cycles) > 1 {
+		peak := func(c cycleSpan) int { return c.idx[c.peak] }
+		maxd := 0.0
+		for _, c := range cycles {
+			maxd = math.Max(maxd, d[peak(c)])
+		}
+		ref := -1
+		for k, c := range cycles {
+			if d[peak(c)] < directionFloor*maxd || !(maxd > 0) {
+				continue
+			}
+			if ref < 0 {
+				ref = k
+				continue
+			}
+			u, v := &rec.Rows[rows[peak(cycles[ref])]].Point, &rec.Rows[rows[peak(c)]].Point
+			if angleDeg(u.F, v.F) > sameDirection {
+				a, b = span(cycles[ref]), span(c)
+				why = fmt.Sprintf("stretch the specimen in different directions (at their peaks stretch_1 − 1 : stretch_2 − 1 is %.3g : %.3g and %.3g : %.3g)",
+					u.Stretch1()-1, u.Stretch2()-1, v.Stretch1()-1, v.Stretch2()-1)
+				break
+			}
+		}
+	}
+	if why == "" {
+		return nil
+	}
+	lines := "lines"
+	if rec.Sheet != "" {
+		lines = "rows"
+	}
+	return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: "give each protocol its own label",
+		Msg: fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
+			quote(label), lines, a[0], a[1], b[0], b[1], why)}
+}
+
+// angleDeg is the angle between F − I of two deformations, in degrees.
+func angleDeg(f, g [4]float64) float64 {
+	u := [4]float64{f[0] - 1, f[1], f[2], f[3] - 1}
+	v := [4]float64{g[0] - 1, g[1], g[2], g[3] - 1}
+	var uv, uu, vv float64
+	for i := range u {
+		uv += u[i] * v[i]
+		uu += u[i] * u[i]
+		vv += v[i] * v[i]
+	}
+	c := uv / math.Sqrt(uu*vv)
+	return math.Acos(math.Max(-1, math.Min(1, c))) * 180 / math.Pi
 }
 
 func keptWords(opt Options, n int) string {
@@ -473,7 +569,7 @@ func checkNegative(s *Specimen, label string, pts []Point) {
 			if c == C22 {
 				lam = p.Stretch2()
 			}
-			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %s like this) — a tare offset? zero the load cells before the test, or re-reference (--rereference)",
+			s.warn(p.Line, label, "protocol %s: %s stress %s is %.4g %s at stretch %.4g (line %d; %s like this) — a tare offset? zero the load cells before the test, or re-reference each protocol to its first kept point",
 				label, s.Kind, c, p.Stress[c], s.StressUnit, lam, p.Line, plural(count, "point"))
 		}
 	}

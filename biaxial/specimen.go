@@ -13,7 +13,10 @@
 // write the layout back (stress or load columns), so records built in code,
 // e.g. synthetic multi-cycle data, can be saved and read like measured ones.
 // Input problems are *ParseError values naming file, line and column (sheet
-// and cell for xlsx) and the fix.
+// and cell for xlsx) and the fix. Numbers are read strictly (ParseNumber),
+// text must be UTF-8, and Limits bound the file's size, its rows, a
+// workbook's unpacked size and the plausible range of stretches and
+// stresses.
 //
 // Conventions (shared by every weft package): axes 1 and 2 are the loading
 // axes of the tester; the in-plane deformation gradient is F11, F12, F21, F22;

@@ -1,7 +1,6 @@
 package biaxial
 
 import (
-	"strconv"
 	"strings"
 )
 
@@ -121,7 +120,7 @@ func splitQuantity(s string, decimalComma bool) (float64, string, bool) {
 	if decimalComma {
 		num = strings.Replace(num, ",", ".", 1)
 	}
-	v, err := strconv.ParseFloat(num, 64)
+	v, err := ParseNumber(num)
 	if err != nil {
 		return 0, "", false
 	}

@@ -3,6 +3,7 @@ package biaxial
 import (
 	"bytes"
 	"fmt"
+	"regexp"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
@@ -25,8 +26,19 @@ func extOf(name string) string {
 // file: metadata cells `# key = value` in column A before the header (or
 // `# key =` in A with the value in the following cells), then a header row,
 // then data rows. Cells are read unformatted, so numbers keep every digit.
-func readXLSX(data []byte, name, sheet string) (rec *Record, err error) {
-	f, err := excelize.OpenReader(bytes.NewReader(data))
+func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err error) {
+	defer func() {
+		// A malformed workbook must not crash the program: the workbook
+		// library's failure becomes an input error.
+		if r := recover(); r != nil {
+			rec, err = nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: fmt.Sprintf("the workbook is damaged (%s)", clip(fmt.Sprint(r), 80)),
+				Fix: "open and save it again in a spreadsheet program, or export the sheet as CSV"}
+		}
+	}()
+	// The same limit for the whole workbook and for any one part keeps
+	// every part in memory: the reader then writes no temporary files
+	// (which an interrupted run could leave behind).
+	f, err := excelize.OpenReader(bytes.NewReader(data), excelize.Options{UnzipSizeLimit: lim.MaxWorkbookBytes, UnzipXMLSizeLimit: lim.MaxWorkbookBytes})
 	if err != nil {
 		return nil, &ParseError{File: name, Err: ErrSyntax, Msg: "not a readable xlsx workbook (" + err.Error() + ")",
 			Fix: "save the workbook as .xlsx, or export the sheet as CSV"}
@@ -47,20 +59,29 @@ func readXLSX(data []byte, name, sheet string) (rec *Record, err error) {
 			}
 		}
 		if !found {
-			return nil, &ParseError{File: name, Err: ErrOptions, Msg: fmt.Sprintf("the workbook has no sheet %q", sheet),
+			return nil, &ParseError{File: name, Err: ErrOptions, Msg: fmt.Sprintf("the workbook has no sheet %s", quote(sheet)),
 				Fix: "choose one of " + quoteList(sheets)}
 		}
 	}
-	p := newTableParser(name, sheet)
+	p := newTableParser(name, sheet, lim)
 	p.decCommaOK = true // text cells may be typed with a decimal comma
 	rows, err := f.Rows(sheet)
 	if err != nil {
 		return nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: "cannot read the sheet (" + err.Error() + ")"}
 	}
 	defer rows.Close()
+	// A second pass over the same rows gives each cell as displayed, which
+	// tells a TRUE/FALSE cell or a date from a number (their raw values are
+	// 1/0 and a day count).
+	shown, err := f.Rows(sheet)
+	if err != nil {
+		return nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: "cannot read the sheet (" + err.Error() + ")"}
+	}
+	defer shown.Close()
 	line := 0
 	for rows.Next() {
 		line++
+		shown.Next()
 		cells, err := rows.Columns(excelize.Options{RawCellValue: true})
 		if err != nil {
 			return nil, p.errAt(line, 0, ErrSyntax, "", "cannot read the row (%v)", err)
@@ -88,7 +109,10 @@ func readXLSX(data []byte, name, sheet string) (rec *Record, err error) {
 		if !p.header {
 			err = p.setHeader(line, cells)
 		} else {
-			err = p.row(line, cells)
+			display, _ := shown.Columns()
+			if err = p.cellTypes(line, cells, display); err == nil {
+				err = p.row(line, cells)
+			}
 		}
 		if err != nil {
 			return nil, err
@@ -103,7 +127,33 @@ func readXLSX(data []byte, name, sheet string) (rec *Record, err error) {
 func quoteList(xs []string) string {
 	q := make([]string, len(xs))
 	for i, x := range xs {
-		q[i] = fmt.Sprintf("%q", x)
+		q[i] = quote(x)
 	}
 	return strings.Join(q, ", ")
+}
+
+// dateLike matches how a spreadsheet displays a date or a time.
+var dateLike = regexp.MustCompile(`\d{1,4}\s*[-/.]\s*\d{1,2}\s*[-/.]\s*\d{1,4}|\d{1,2}:\d{2}|(?i)\b(jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)[a-z]*\b`)
+
+// cellTypes refuses a TRUE/FALSE cell or a date where weft reads a number:
+// their raw values (1 or 0, a day count) would otherwise pass for data.
+func (p *tableParser) cellTypes(line int, raw, display []string) error {
+	for i := range p.cols {
+		if p.cols[i].role == roleIgnore || p.cols[i].role == roleProtocol || i >= len(raw) || i >= len(display) {
+			continue
+		}
+		r, d := strings.TrimSpace(raw[i]), strings.TrimSpace(display[i])
+		if r == d || numberSyntax(r) != "" {
+			continue
+		}
+		switch {
+		case (d == "TRUE" || d == "FALSE") && (r == "1" || r == "0"):
+			return p.errAt(line, i+1, ErrNumber, "type the measured number into the cell",
+				"%s is the logical value %s, not a number", p.cols[i].header, d)
+		case numberSyntax(strings.ReplaceAll(d, ",", "")) != "" && dateLike.MatchString(d):
+			return p.errAt(line, i+1, ErrNumber, "format the column as a number (a date's raw value is a day count, not data)",
+				"%s is the date or time %s, not a number", p.cols[i].header, quote(d))
+		}
+	}
+	return nil
 }

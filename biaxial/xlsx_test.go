@@ -13,7 +13,7 @@ import (
 // makeWorkbook builds a synthetic two-sheet workbook: "notes" (prose only)
 // and "SYN-3" holding a specimen in the weft layout. bad, if not empty,
 // replaces cell C9.
-func makeWorkbook(t *testing.T, bad string) []byte {
+func makeWorkbook(t testing.TB, bad string) []byte {
 	t.Helper()
 	f := excelize.NewFile()
 	defer f.Close()

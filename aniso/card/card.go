@@ -1,7 +1,9 @@
 // Package card reads, validates and writes weft model cards (model.json): a
 // versioned JSON description of a strain energy — its fibre families and
 // weighted catalogue terms — that a user can also write by hand, and that a
-// fit extends with its evidence. Readers ignore keys they do not know.
+// fit extends with its evidence. Readers keep keys they do not know but are
+// otherwise strict (exact key case, no repeated keys, UTF-8, an object at
+// the top level, bounded size; see ParseLimits).
 //
 // A card's numbers carry units: weights in the card's stress unit, angles in
 // degrees from axis 1 towards axis 2, everything else dimensionless. The
@@ -134,6 +136,9 @@ type Error struct {
 	File string
 	Path string
 	Msg  string
+	// Err is a category for errors.Is (ErrCardSize, ErrTermCount,
+	// ErrFamilyCount), or nil.
+	Err error
 }
 
 func (e *Error) Error() string {
@@ -142,6 +147,9 @@ func (e *Error) Error() string {
 	}
 	return fmt.Sprintf("%s: %s: %s", e.File, e.Path, e.Msg)
 }
+
+// Unwrap returns the error's category.
+func (e *Error) Unwrap() error { return e.Err }
 
 var knownKeys = map[string]bool{}
 
@@ -261,25 +269,10 @@ func (c *Card) GetExtra(key string, v any) (bool, error) {
 	return true, json.Unmarshal(raw, v)
 }
 
-// Parse decodes and validates a card. file names the source in errors.
+// Parse decodes and validates a card within DefaultLimits (see
+// ParseLimits). file names the source in errors.
 func Parse(r io.Reader, file string) (*Card, *aniso.Model, error) {
-	b, err := io.ReadAll(r)
-	if err != nil {
-		return nil, nil, err
-	}
-	var c Card
-	if err := json.Unmarshal(b, &c); err != nil {
-		return nil, nil, decodeError(file, b, err)
-	}
-	m, err := c.Model()
-	if err != nil {
-		var ce *Error
-		if errors.As(err, &ce) {
-			ce.File = file
-		}
-		return nil, nil, err
-	}
-	return &c, m, nil
+	return ParseLimits(r, file, DefaultLimits)
 }
 
 // decodeError turns an encoding/json error into a located card error.
@@ -352,10 +345,10 @@ func (c *Card) Model() (*aniso.Model, error) {
 		if c.Format == "" {
 			return nil, errAt("$.format", "missing; write \"format\": %q", Format)
 		}
-		return nil, errAt("$.format", "%q is not a format this weft reads; expected %q", c.Format, Format)
+		return nil, errAt("$.format", "%s is not a format this weft reads; expected %q", quote(c.Format), Format)
 	}
 	if !validUnit(c.StressUnit) {
-		return nil, errAt("$.stress_unit", "%q is not a stress unit; use one of %s", c.StressUnit, strings.Join(StressUnits, ", "))
+		return nil, errAt("$.stress_unit", "%s is not a stress unit; use one of %s", quote(c.StressUnit), strings.Join(StressUnits, ", "))
 	}
 	m := &aniso.Model{}
 	index := map[string]int{}
@@ -365,13 +358,16 @@ func (c *Card) Model() (*aniso.Model, error) {
 			return nil, errAt(p+".name", "missing; give each family a name that terms refer to, e.g. \"f1\"")
 		}
 		if _, dup := index[f.Name]; dup {
-			return nil, errAt(p+".name", "%q is used twice; family names must be unique", f.Name)
+			return nil, errAt(p+".name", "%s is used twice; family names must be unique", quote(f.Name))
 		}
 		if f.AngleDeg == nil {
 			return nil, errAt(p+".angle_deg", "missing; give the fibre angle in degrees from axis 1 towards axis 2")
 		}
 		if math.IsNaN(*f.AngleDeg) || math.IsInf(*f.AngleDeg, 0) {
 			return nil, errAt(p+".angle_deg", "is not a finite number")
+		}
+		if math.Abs(*f.AngleDeg) > MaxAngleDeg {
+			return nil, errAt(p+".angle_deg", "%g is outside [-%d, %d]; give the angle in degrees from axis 1 towards axis 2 (it is read modulo 180)", *f.AngleDeg, MaxAngleDeg, MaxAngleDeg)
 		}
 		kappa := 0.0
 		if f.Dispersion != nil {
@@ -395,13 +391,13 @@ func (c *Card) Model() (*aniso.Model, error) {
 		m.Families = append(m.Families, fam)
 	}
 	if len(c.Terms) == 0 {
-		return nil, errAt("$.terms", "no terms; a model needs at least one energy term (see 'weft terms')")
+		return nil, errAt("$.terms", "no terms; a model needs at least one energy term of the catalogue")
 	}
 	for i, t := range c.Terms {
 		p := fmt.Sprintf("$.terms[%d]", i)
 		sh := terms.Lookup(t.ID)
 		if sh == nil {
-			return nil, errAt(p+".id", "%q is not a catalogue term; 'weft terms' lists them (%s)", t.ID, strings.Join(terms.IDs(), ", "))
+			return nil, errAt(p+".id", "%s is not a catalogue term; the catalogue holds %s", quote(t.ID), strings.Join(terms.IDs(), ", "))
 		}
 		if t.Weight == nil {
 			return nil, errAt(p+".weight", "missing; give the term's weight in %s (≥ 0)", c.StressUnit)
@@ -411,12 +407,17 @@ func (c *Card) Model() (*aniso.Model, error) {
 			return nil, errAt(p+".weight", "%g must be a finite number ≥ 0 (negative weights break convexity)", w)
 		}
 		if t.WeightUnit != "" && t.WeightUnit != c.StressUnit {
-			return nil, errAt(p+".weight_unit", "%q differs from stress_unit %q; convert the weight", t.WeightUnit, c.StressUnit)
+			return nil, errAt(p+".weight_unit", "%s differs from stress_unit %q; convert the weight", quote(t.WeightUnit), c.StressUnit)
 		}
 		params := make([]float64, len(sh.Params))
 		for j, q := range sh.Params {
 			v, ok := t.Params[q.Name]
 			if !ok {
+				for name := range t.Params {
+					if strings.EqualFold(name, q.Name) {
+						return nil, errAt(p+".params."+clip(name), "write the key as %q: keys are case-sensitive", q.Name)
+					}
+				}
 				return nil, errAt(p+".params."+q.Name, "missing; %s takes %s in [%g, %g] (default %g)", sh.ID, q.Name, q.Min, q.Max, q.Default)
 			}
 			if v < q.Min || v > q.Max {
@@ -426,7 +427,7 @@ func (c *Card) Model() (*aniso.Model, error) {
 		}
 		for name := range t.Params {
 			if !hasParam(sh, name) {
-				return nil, errAt(p+".params."+name, "%s has no parameter %q", sh.ID, name)
+				return nil, errAt(p+".params."+clip(name), "%s has no parameter %s", sh.ID, quote(name))
 			}
 		}
 		fam := -1
@@ -436,7 +437,7 @@ func (c *Card) Model() (*aniso.Model, error) {
 				if t.Family == "" {
 					return nil, errAt(p+".family", "missing; %s is a fibre-family term, name one of the families", sh.ID)
 				}
-				return nil, errAt(p+".family", "%q is not a family of this card", t.Family)
+				return nil, errAt(p+".family", "%s is not a family of this card", quote(t.Family))
 			}
 			fam = f
 		} else if t.Family != "" {

@@ -107,7 +107,8 @@ func buildSchema() []byte {
 		{"required", []string{"name", "angle_deg"}},
 		{"properties", obj{
 			{"name", obj{{"type", "string"}, {"minLength", 1}, {"description", "unique name that terms refer to, e.g. \"f1\""}}},
-			{"angle_deg", num("fibre angle α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180")},
+			{"angle_deg", obj{{"type", "number"}, {"minimum", -MaxAngleDeg}, {"maximum", MaxAngleDeg},
+				{"description", "fibre angle α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180, within ±360"}}},
 			{"angle_sign_known", obj{{"type", "boolean"}, {"description", "false when the data could not tell +α from −α"}}},
 			{"dispersion", obj{{"type", "number"}, {"minimum", 0}, {"maximum", 0.33333333333333334},
 				{"description", "dispersion κ ∈ [0, 1/3] (Gasser, Ogden & Holzapfel 2006), dimensionless; absent means 0"}}},
@@ -414,6 +415,7 @@ func TestSchemaRejectsInvalidCards(t *testing.T) {
 		"dispersion above 1/3":  {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
 		"no terms":              {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]`, `"terms":[]`},
 		"angle not a number":    {`"angle_deg":30`, `"angle_deg":"30"`},
+		"angle beyond a turn":   {`"angle_deg":30`, `"angle_deg":390`},
 	}
 	for name, r := range bad {
 		card := strings.Replace(good, r[0], r[1], 1)

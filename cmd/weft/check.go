@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -117,6 +118,7 @@ func newCheckCmd() *cobra.Command {
 	var steps, directions int
 	var shear float64
 	var asJSON bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "check MODEL.json [--range 0.7,1.6] [--shear 0.3] [--json]",
 		Short: "Check that a model card is admissible: stress-free reference, stability, ellipticity, moduli",
@@ -158,7 +160,11 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 			if err := g.Validate(); err != nil {
 				return badInputf("%v", err)
 			}
-			c, m, dr, err := readCardWithRange(args[0])
+			_, cl, err := limits.parse()
+			if err != nil {
+				return err
+			}
+			c, m, dr, err := readCardWithRange(args[0], cl)
 			if err != nil {
 				return err
 			}
@@ -185,12 +191,13 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 	cmd.Flags().Float64Var(&shear, "shear", d.ShearMax, "largest simple shear added to each stretch (0: none)")
 	cmd.Flags().IntVar(&directions, "directions", d.Directions, "directions sampled for strong ellipticity")
 	cmd.Flags().BoolVar(&asJSON, "json", false, "print the report as JSON")
+	limits = addLimitFlag(cmd)
 	return cmd
 }
 
 // runCheck performs every check.
 func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*checkReport, error) {
-	rep := &checkReport{Format: checkFormat, Model: file, StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
+	rep := &checkReport{Format: checkFormat, Model: filepath.Base(file), StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
 		Notices: []string{}, DataRange: dr, Cautions: card.Cautions}
 	u := c.StressUnit
 	names := familyNames(m)

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -236,18 +235,22 @@ weft-demo. Existing files are not overwritten without --force.`,
 			if err != nil {
 				return err
 			}
-			if !force {
-				for _, n := range names {
-					if _, err := os.Stat(filepath.Join(dir, n)); err == nil {
-						return badInputf("%s exists; pass --force to overwrite the demo files", filepath.Join(dir, n))
-					}
-				}
-			}
-			if err := os.MkdirAll(dir, 0o755); err != nil {
+			if err := ensureFolder(dir); err != nil {
 				return err
 			}
-			for _, n := range names {
-				if err := writeFileAtomic(filepath.Join(dir, n), files[n], true); err != nil {
+			outs := make([]*outputFile, len(names))
+			defer func() {
+				for _, o := range outs {
+					o.close()
+				}
+			}()
+			for i, n := range names {
+				if outs[i], err = prepareOutputFile(filepath.Join(dir, n), force, false); err != nil {
+					return err
+				}
+			}
+			for i, n := range names {
+				if err := outs[i].commit(files[n]); err != nil {
 					return err
 				}
 				fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(dir, n))

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -56,6 +57,7 @@ type evalResult struct {
 func newEvaluateCmd() *cobra.Command {
 	var fFlag, stretchFlag string
 	var asJSON bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "evaluate MODEL.json (--F F11,F12,F21,F22 | --stretch L1,L2)",
 		Short: "Energy, stresses and the analytic tangent of a model card at one deformation",
@@ -97,7 +99,11 @@ the tangent without them is printed.
 			if det := F[0]*F[3] - F[1]*F[2]; !(det > 0) {
 				return badInputf("det F = F11·F22 − F12·F21 = %g ≤ 0 would invert the material", det)
 			}
-			c, m, dr, err := readCardWithRange(args[0])
+			_, cl, err := limits.parse()
+			if err != nil {
+				return err
+			}
+			c, m, dr, err := readCardWithRange(args[0], cl)
 			if err != nil {
 				return err
 			}
@@ -115,6 +121,7 @@ the tangent without them is printed.
 	cmd.Flags().StringVar(&fFlag, "F", "", "in-plane deformation gradient F11,F12,F21,F22")
 	cmd.Flags().StringVar(&stretchFlag, "stretch", "", "pure biaxial stretch L1,L2 (F12 = F21 = 0)")
 	cmd.Flags().BoolVar(&asJSON, "json", false, "print the result as JSON")
+	limits = addLimitFlag(cmd)
 	return cmd
 }
 
@@ -129,7 +136,7 @@ func evaluateAt(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *car
 		return nil, badInputf("%s at F = %s: %v", file, fmtF(F), err)
 	}
 	k, _ := aniso.NewKinematics(F)
-	res := &evalResult{Model: file, StressUnit: c.StressUnit, F33: 1 / k.J2, I1: k.I1, I2: k.I2,
+	res := &evalResult{Model: filepath.Base(file), StressUnit: c.StressUnit, F33: 1 / k.J2, I1: k.I1, I2: k.I2,
 		Energy: r.Energy, EnergyNote: c.StressUnit + " (energy per unit reference volume)",
 		F:        map[string]float64{"11": F[0], "12": F[1], "21": F[2], "22": F[3]},
 		Cauchy:   map[string]float64{"11": r.Cauchy[0], "22": r.Cauchy[1], "12": r.Cauchy[2]},

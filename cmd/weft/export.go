@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"sort"
 	"strings"
 	"text/tabwriter"
@@ -84,6 +85,7 @@ type exportDoc struct {
 func newExportCmd() *cobra.Command {
 	var format, out string
 	var force, schema bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "export MODEL.json [--format table|csv|json|latex] [-o FILE] | export --schema",
 		Short: "Parameters, energy and a stress verification table of a model card for FE use",
@@ -122,10 +124,24 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 			return exactArgs(1)(cmd, args)
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if schema {
-				return writeOutput(cmd, out, card.Schema(), force)
+			switch format {
+			case "table", "csv", "json", "latex":
+			default:
+				return badInputf("--format %q: use table, csv, json or latex", format)
 			}
-			c, m, err := readCard(args[0])
+			res, err := openResult(cmd, out, force)
+			if err != nil {
+				return err
+			}
+			defer res.close()
+			if schema {
+				return res.write(card.Schema())
+			}
+			_, cl, err := limits.parse()
+			if err != nil {
+				return err
+			}
+			c, m, err := readCard(args[0], cl)
 			if err != nil {
 				return err
 			}
@@ -143,29 +159,19 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
 				err = writeJSON(&buf, doc)
 			case "latex":
 				writeExportLaTeX(&buf, doc)
-			default:
-				return badInputf("--format %q: use table, csv, json or latex", format)
 			}
 			if err != nil {
 				return err
 			}
-			return writeOutput(cmd, out, buf.Bytes(), force)
+			return res.write(buf.Bytes())
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "table", "output format: table, csv, json or latex")
 	cmd.Flags().StringVarP(&out, "output", "o", "", "write to this file instead of standard output")
 	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
 	cmd.Flags().BoolVar(&schema, "schema", false, "print the JSON Schema of model cards instead")
+	limits = addLimitFlag(cmd)
 	return cmd
-}
-
-// writeOutput writes data to standard output or, atomically, to a file.
-func writeOutput(cmd *cobra.Command, out string, data []byte, force bool) error {
-	if out == "" || out == "-" {
-		_, err := cmd.OutOrStdout().Write(data)
-		return err
-	}
-	return writeFileAtomic(out, data, force)
 }
 
 // stressColumns returns predict's stress column names with the unit.
@@ -180,7 +186,7 @@ func stressColumns(unit string) []string {
 // buildExport computes the parameter and verification tables.
 func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) {
 	fc := card.FromModel(m, c.StressUnit, nil)
-	doc := &exportDoc{Format: exportFormat, Model: file, Specimen: c.Specimen, StressUnit: c.StressUnit,
+	doc := &exportDoc{Format: exportFormat, Model: filepath.Base(file), Specimen: c.Specimen, StressUnit: c.StressUnit,
 		Cautions: card.Cautions, Energy: fc.Energy, EnergyLaTeX: fc.EnergyLaTeX, Conventions: card.StandardConventions,
 		Warnings: []string{}, Notices: []string{}}
 	names := familyNames(m)

@@ -12,19 +12,20 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // parseNumbers parses n comma-separated finite numbers given to flag.
 func parseNumbers(flag, s string, n int) ([]float64, error) {
 	parts := strings.Split(s, ",")
 	if len(parts) != n {
-		return nil, badInputf("--%s %q: give %d comma-separated numbers", flag, s, n)
+		return nil, badInputf("--%s %s: give %d comma-separated numbers", flag, quoteArg(s), n)
 	}
 	out := make([]float64, n)
 	for i, p := range parts {
-		v, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, badInputf("--%s %q: %q is not a finite number", flag, s, p)
+		v, err := biaxial.ParseNumber(strings.TrimSpace(p))
+		if err != nil {
+			return nil, badInputf("--%s %s: %s is not a finite decimal number", flag, quoteArg(s), quoteArg(p))
 		}
 		out[i] = v
 	}
@@ -117,8 +118,8 @@ func fullFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // readCardWithRange reads a card, its model and its fitted data range (nil
 // when the card has none); problems are bad input.
-func readCardWithRange(path string) (*card.Card, *aniso.Model, *card.DataRange, error) {
-	c, m, err := readCard(path)
+func readCardWithRange(path string, lim card.Limits) (*card.Card, *aniso.Model, *card.DataRange, error) {
+	c, m, err := readCard(path, lim)
 	if err != nil {
 		return nil, nil, nil, err
 	}

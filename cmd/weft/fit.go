@@ -3,8 +3,10 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"path/filepath"
@@ -59,7 +61,12 @@ With --preset NAME or --terms ID,ID,... it fits that model form only, with
 learned fibre angles, and reports how well each parameter is determined.
 
 The output folder defaults to <specimen>.weft next to the input. An existing
-folder is never replaced without --force.
+folder is never replaced without --force, and --force replaces only a folder
+weft wrote that holds nothing else (its .weft-output file lists weft's
+files); any other folder, file, device or pipe is kept and the run stops
+with exit code 2. A second weft run writing the same folder at the same time
+stops at once. With several DATA files every file is tried; the failures are
+listed at the end and the exit code is 1.
 
 Parameters are research-grade and specimen-specific, valid only within the
 tested range, not for clinical decisions.`,
@@ -91,7 +98,7 @@ tested range, not for clinical decisions.`,
 	rf := addReadFlags(cmd)
 	fl := cmd.Flags()
 	fl.StringVarP(&ff.out, "output", "o", "", "output folder (default <specimen>.weft next to the input; with several inputs, the parent of one folder per specimen)")
-	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder")
+	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder that weft wrote (never anything else)")
 	fl.StringVar(&ff.preset, "preset", "", "fit a classical preset instead of discovering (see 'weft terms')")
 	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
 	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
@@ -224,29 +231,43 @@ func formFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 
 var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
 
-// outputFolders decides each specimen's output folder.
-func outputFolders(args []string, specs []*biaxial.Specimen, out string) ([]string, error) {
-	dirs := make([]string, len(specs))
+// fitJob is one DATA file of a fit run and what became of it.
+type fitJob struct {
+	path string
+	spec *biaxial.Specimen
+	dir  string
+	od   *outputDir
+	err  error
+}
+
+// outputFolders decides the output folder of each job that was read; a
+// job whose folder another job already claims fails.
+func outputFolders(jobs []*fitJob, out string) {
 	seen := map[string]string{}
-	for i, s := range specs {
-		name := unsafeName.ReplaceAllString(s.Name, "_")
-		if name == "" {
-			name = strings.TrimSuffix(filepath.Base(args[i]), filepath.Ext(args[i]))
+	several := len(jobs) > 1
+	for _, j := range jobs {
+		if j.err != nil {
+			continue
+		}
+		name := unsafeName.ReplaceAllString(j.spec.Name, "_")
+		if name == "" || name == "." || name == ".." {
+			name = strings.TrimSuffix(filepath.Base(j.path), filepath.Ext(j.path))
 		}
 		switch {
-		case out != "" && len(specs) == 1:
-			dirs[i] = out
+		case out != "" && !several:
+			j.dir = out
 		case out != "":
-			dirs[i] = filepath.Join(out, name+".weft")
+			j.dir = filepath.Join(out, name+".weft")
 		default:
-			dirs[i] = filepath.Join(filepath.Dir(args[i]), name+".weft")
+			j.dir = filepath.Join(filepath.Dir(j.path), name+".weft")
 		}
-		if prev, dup := seen[dirs[i]]; dup {
-			return nil, badInputf("%s and %s would both write %s (same specimen name); give them different 'specimen' metadata or fit them separately with -o", prev, args[i], dirs[i])
+		key := filepath.Clean(j.dir)
+		if prev, dup := seen[key]; dup {
+			j.err = badInputf("%s and %s would both write %s (same specimen name); give them different 'specimen' metadata or fit them separately with -o", prev, j.path, j.dir)
+			continue
 		}
-		seen[dirs[i]] = args[i]
+		seen[key] = j.path
 	}
-	return dirs, nil
 }
 
 // fitOutcome is everything one specimen's fit produced.
@@ -260,6 +281,9 @@ type fitOutcome struct {
 	elapsed time.Duration
 }
 
+// runFit fits every DATA file. Each file is read and its output folder
+// checked before any fitting starts; a file that fails does not stop the
+// others. Every failure is reported at the end.
 func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags) error {
 	st, chosen, err := structureFromFlags(ff)
 	if err != nil {
@@ -268,44 +292,128 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 	if ff.maxTerms < 1 || ff.maxTerms > 8 {
 		return badInputf("--max-terms %d: use 1 to 8", ff.maxTerms)
 	}
-	// Read every file first: bad input stops everything before anything
-	// is written.
-	var specs []*biaxial.Specimen
-	for _, path := range args {
-		s, err := biaxial.ReadFile(path, opt)
-		if err != nil {
-			return badInput(err)
-		}
-		specs = append(specs, s)
+	jobs := make([]*fitJob, len(args))
+	for i, path := range args {
+		jobs[i] = &fitJob{path: path}
+		jobs[i].spec, jobs[i].err = readSpecimen(path, opt)
 	}
-	dirs, err := outputFolders(args, specs, ff.out)
+	outputFolders(jobs, ff.out)
+	container, err := prepareContainer(ff.out, len(jobs) > 1)
 	if err != nil {
 		return err
 	}
-	for _, d := range dirs {
-		if _, err := os.Stat(d); err == nil && !ff.force {
-			return badInputf("%s exists; pass --force to replace it or choose another folder with -o", d)
+	defer container.removeIfEmpty()
+	for _, j := range jobs {
+		if j.err == nil {
+			j.od, j.err = prepareOutputDir(j.dir, ff.force, args)
 		}
 	}
-	var outcomes []*fitOutcome
-	for i, s := range specs {
-		o, err := fitOne(cmd, s, st, chosen, ff)
-		if err != nil {
-			return err
+	defer func() {
+		for _, j := range jobs {
+			j.od.close()
 		}
-		o.dir = dirs[i]
-		if err := writeFitOutputs(o, ff.force); err != nil {
-			return err
+	}()
+	var outcomes []*fitOutcome
+	for _, j := range jobs {
+		if j.err != nil {
+			continue
+		}
+		o, err := fitOne(cmd, j.spec, st, chosen, ff)
+		if err == nil {
+			o.dir = j.dir
+			err = writeFitOutputs(o, j.od, ff.force)
+		}
+		j.od.close()
+		if err != nil {
+			j.err = err
+			continue
 		}
 		outcomes = append(outcomes, o)
 		if !ff.asJSON {
 			printFitSummary(cmd.OutOrStdout(), o)
 		}
 	}
-	if ff.asJSON {
-		return printCardsJSON(cmd.OutOrStdout(), outcomes)
+	if ff.asJSON && len(outcomes) > 0 {
+		if err := printCardsJSON(cmd.OutOrStdout(), outcomes, len(jobs) > 1); err != nil {
+			return err
+		}
 	}
-	return nil
+	return fitFailures(jobs)
+}
+
+// fitFailures is nil when every job succeeded, the one error of a single
+// file, or a list of every failure: exit code 1, or 2 when every file was
+// bad input and nothing was written.
+func fitFailures(jobs []*fitJob) error {
+	var failed []*fitJob
+	allBad := true
+	for _, j := range jobs {
+		if j.err != nil {
+			failed = append(failed, j)
+			allBad = allBad && exitCode(j.err) == exitBadInput
+		}
+	}
+	switch {
+	case len(failed) == 0:
+		return nil
+	case len(jobs) == 1:
+		return failed[0].err
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "%d of %d files failed", len(failed), len(jobs))
+	if len(failed) < len(jobs) {
+		b.WriteString(" (the others were written)")
+	}
+	b.WriteString(":")
+	for _, j := range failed {
+		msg := j.err.Error()
+		if !strings.HasPrefix(msg, j.path) {
+			msg = j.path + ": " + msg
+		}
+		b.WriteString("\n  " + msg)
+	}
+	if allBad && len(failed) == len(jobs) {
+		return badInputf("%s", b.String())
+	}
+	return errors.New(b.String())
+}
+
+// containerDir is the -o folder that holds one output folder per specimen
+// when several files are fitted; weft creates it when it is missing and
+// removes it again if nothing was written into it.
+type containerDir struct {
+	path    string
+	created bool
+}
+
+func prepareContainer(out string, several bool) (*containerDir, error) {
+	c := &containerDir{path: out}
+	if out == "" || !several {
+		return c, nil
+	}
+	st, err := os.Stat(out)
+	switch {
+	case err == nil && !st.IsDir():
+		return nil, badInputf("-o %s: with several DATA files -o names the folder that receives one folder per specimen, but %s is %s", out, out, kindOf(st.Mode()))
+	case err == nil:
+		return c, nil
+	case !errors.Is(err, fs.ErrNotExist):
+		return nil, badInputf("cannot use %s (%s)", out, ioErrText(err))
+	}
+	if err := checkParent(filepath.Clean(out)); err != nil {
+		return nil, err
+	}
+	if err := os.Mkdir(out, 0o777); err != nil && !errors.Is(err, fs.ErrExist) {
+		return nil, badInputf("cannot create %s (%s)", out, ioErrText(err))
+	}
+	c.created = true
+	return c, nil
+}
+
+func (c *containerDir) removeIfEmpty() {
+	if c != nil && c.created {
+		os.Remove(c.path) // fails, as it should, unless the folder is empty
+	}
 }
 
 // fitFailed reports a fit that could not succeed (exit code 1).
@@ -413,6 +521,9 @@ func buildCard(o *fitOutcome) (*card.Card, error) {
 	return c, nil
 }
 
+// dataSection describes the data in the card. Warnings and notices name
+// the input by its base name only, so that the card does not depend on how
+// its path was typed (or reveal where it lives).
 func dataSection(s *biaxial.Specimen) card.DataSection {
 	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
 		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
@@ -420,8 +531,13 @@ func dataSection(s *biaxial.Specimen) card.DataSection {
 	for _, pr := range s.Protocols {
 		d.Protocols = append(d.Protocols, card.DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
 	}
+	base := filepath.Base(s.Source)
 	for _, w := range s.Warnings {
+		w.File = base
 		d.Warnings = append(d.Warnings, w.String())
+	}
+	for i, n := range d.Notices {
+		d.Notices[i] = strings.ReplaceAll(n, s.Source, base)
 	}
 	return d
 }
@@ -450,10 +566,10 @@ func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {
 	return dr
 }
 
-// printCardsJSON prints one card, or an array of cards for several
-// specimens.
-func printCardsJSON(w io.Writer, os []*fitOutcome) error {
-	if len(os) == 1 {
+// printCardsJSON prints one card, or an array of the cards written when
+// several DATA files were given.
+func printCardsJSON(w io.Writer, os []*fitOutcome, several bool) error {
+	if len(os) == 1 && !several {
 		b, err := os[0].card.Marshal()
 		if err != nil {
 			return err
@@ -477,18 +593,9 @@ func printCardsJSON(w io.Writer, os []*fitOutcome) error {
 	return err
 }
 
-// writeFitOutputs writes the output folder atomically.
-func writeFitOutputs(o *fitOutcome, force bool) error {
-	od, err := newOutputDir(o.dir, force)
-	if err != nil {
-		return err
-	}
-	ok := false
-	defer func() {
-		if !ok {
-			od.abort()
-		}
-	}()
+// writeFitOutputs writes every file of the output folder and puts the
+// folder in place.
+func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 	b, err := o.card.Marshal()
 	if err != nil {
 		return err
@@ -513,9 +620,5 @@ func writeFitOutputs(o *fitOutcome, force bool) error {
 	if err := writeReportFiles(od, o); err != nil {
 		return err
 	}
-	if err := od.commit(); err != nil {
-		return err
-	}
-	ok = true
-	return nil
+	return od.commit(force)
 }

@@ -52,9 +52,9 @@ and column (sheet and cell for xlsx) and what to fix.`,
 		}
 		specs := make([]*biaxial.Specimen, 0, len(args))
 		for _, path := range args {
-			s, err := biaxial.ReadFile(path, opt)
+			s, err := readSpecimen(path, opt)
 			if err != nil {
-				return badInput(err)
+				return err
 			}
 			specs = append(specs, s)
 		}

@@ -2,25 +2,28 @@
 // planar biaxial tests of thin soft tissue and exports parameters for
 // finite-element analysis.
 //
-// Exit codes: 0 success, 1 a check failed or a fit could not succeed, 2 bad
-// input (nothing written), 3 an unexpected internal error (a bug to report).
+// Exit codes: 0 success; 1 the run failed (a check failed, a fit could not
+// succeed, an output could not be written, or the run was interrupted);
+// 2 bad input (a test file, model card, flag or output path that cannot be
+// used, found before any output is written).
 package main
 
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
+	"runtime/debug"
 	"strings"
 
 	"github.com/spf13/cobra"
 )
 
-// Exit codes shared by every subcommand.
+// Exit codes shared by every subcommand. weft uses no others.
 const (
-	exitOK            = 0
-	exitCheckFail     = 1
-	exitBadInput      = 2
-	exitInternalError = 3
+	exitOK       = 0
+	exitFailed   = 1
+	exitBadInput = 2
 )
 
 // inputError marks an error caused by the user's input (exit code 2).
@@ -59,6 +62,10 @@ func newRootCmd() *cobra.Command {
 strain-energy terms and how many fibre families the data support, learns the
 fibre angles, and writes a model card with parameters an FE analyst can verify.
 
+Exit codes: 0 success; 1 the run failed (a check failed, a fit did not
+succeed, an output could not be written, or the run was interrupted); 2 bad
+input (nothing written).
+
 Parameters are research-grade and specimen-specific, valid only within the
 tested range, and not for clinical decisions; follow the regulations,
 standards and licensed professional practice that apply.`,
@@ -74,29 +81,78 @@ standards and licensed professional practice that apply.`,
 	return root
 }
 
-// exitCode maps an error returned by a command to the process exit code.
+// exitCode maps an error returned by a command to the process exit code:
+// bad input is 2, every other failure 1.
 func exitCode(err error) int {
 	var in inputError
-	var cf checkFailed
 	switch {
 	case err == nil:
 		return exitOK
-	case errors.As(err, &cf):
-		return exitCheckFail
 	case errors.As(err, &in):
 		return exitBadInput
 	case strings.HasPrefix(err.Error(), "unknown command"):
 		// cobra's own usage errors are bad input too.
 		return exitBadInput
 	}
-	return exitInternalError
+	return exitFailed
+}
+
+// checkedWriter passes writes through to w and remembers the first error,
+// so that a failed write to standard output (a closed pipe, a full disk)
+// fails the run even where a command prints without looking at errors.
+type checkedWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (c *checkedWriter) Write(p []byte) (int, error) {
+	if c.err != nil {
+		return 0, c.err
+	}
+	n, err := c.w.Write(p)
+	if err == nil && n < len(p) {
+		err = io.ErrShortWrite
+	}
+	c.err = err
+	return n, err
+}
+
+// run executes weft with args and returns the exit code; main and the tests
+// share it.
+func run(args []string, stdout, stderr io.Writer) (code int) {
+	defer func() {
+		// A bug must not look like bad input (Go exits 2 on a panic).
+		if r := recover(); r != nil {
+			fmt.Fprintf(stderr, "weft: internal error, please report it: %v\n%s", r, debug.Stack())
+			code = exitFailed
+		}
+	}()
+	out := &checkedWriter{w: stdout}
+	root := newRootCmd()
+	root.SetOut(out)
+	root.SetErr(stderr)
+	root.SetArgs(args)
+	err := root.Execute()
+	if out.err != nil {
+		werr := fmt.Errorf("cannot write to standard output (%v)", ioErrText(out.err))
+		if err == nil || errors.Is(err, out.err) {
+			err = werr
+		} else {
+			err = errors.Join(err, werr)
+		}
+		if exitCode(err) == exitBadInput {
+			err = errors.New(err.Error()) // a failed write is never bad input
+		}
+	}
+	if err != nil {
+		fmt.Fprintln(stderr, "weft:", err)
+	}
+	return exitCode(err)
 }
 
 func main() {
-	root := newRootCmd()
-	err := root.Execute()
-	if err != nil {
-		fmt.Fprintln(os.Stderr, "weft:", err)
-	}
-	os.Exit(exitCode(err))
+	stopSignals := handleSignals(os.Stderr)
+	code := run(os.Args[1:], os.Stdout, os.Stderr)
+	stopSignals()
+	os.Exit(code)
 }

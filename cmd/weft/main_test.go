@@ -2,8 +2,11 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"os"
+	"os/exec"
 	"path/filepath"
+	"strings"
 	"testing"
 )
 
@@ -11,16 +14,9 @@ import (
 // and the exit code main would use.
 func runWeft(t testing.TB, args ...string) (string, string, int) {
 	t.Helper()
-	root := newRootCmd()
 	var out, errb bytes.Buffer
-	root.SetOut(&out)
-	root.SetErr(&errb)
-	root.SetArgs(args)
-	err := root.Execute()
-	if err != nil {
-		errb.WriteString("weft: " + err.Error() + "\n")
-	}
-	return out.String(), errb.String(), exitCode(err)
+	code := run(args, &out, &errb)
+	return out.String(), errb.String(), code
 }
 
 // writeTemp writes content to name in a fresh temporary folder.
@@ -31,4 +27,50 @@ func writeTemp(t *testing.T, name, content string) string {
 		t.Fatal(err)
 	}
 	return p
+}
+
+// TestMain lets a test run weft as a separate process (weftProcess): the
+// test binary runs main when WEFT_RUN_MAIN is set.
+func TestMain(m *testing.M) {
+	if os.Getenv("WEFT_RUN_MAIN") == "1" {
+		main()
+	}
+	os.Exit(m.Run())
+}
+
+// weftProcess returns a command that runs weft with args as a separate
+// process (the test binary itself, see TestMain).
+func weftProcess(args ...string) *exec.Cmd {
+	cmd := exec.Command(os.Args[0], args...)
+	cmd.Env = append(os.Environ(), "WEFT_RUN_MAIN=1")
+	return cmd
+}
+
+// quickData writes a small synthetic specimen (two protocols of an
+// incompressible neo-Hookean membrane, μ = 10 kPa, Cauchy stress
+// σ_ii = μ(λ_i² − 1/(λ1²λ2²)), the classical closed form, e.g. Ogden 1984)
+// that a preset fits in a fraction of a second.
+func quickData(t *testing.T, dir, name string) string {
+	t.Helper()
+	var b strings.Builder
+	b.WriteString("# specimen = " + strings.TrimSuffix(name, filepath.Ext(name)) + "\n# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n")
+	for _, r := range []float64{1, 0.5} {
+		for i := 0; i < 8; i++ {
+			l1 := 1 + 0.025*float64(i)
+			l2 := 1 + 0.025*float64(i)*r
+			s3 := 1 / (l1 * l1 * l2 * l2)
+			fmt.Fprintf(&b, "1:%g,%g,%g,%.10g,%.10g\n", r, l1, l2, 10*(l1*l1-s3), 10*(l2*l2-s3))
+		}
+	}
+	p := filepath.Join(dir, name)
+	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// quickFit fits data with the neo-Hookean preset into out.
+func quickFit(t *testing.T, data, out string, extra ...string) (string, string, int) {
+	t.Helper()
+	return runWeft(t, append([]string{"fit", data, "--preset", "neo-hookean", "-o", out, "--quiet"}, extra...)...)
 }

@@ -14,6 +14,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 )
 
 func init() { commands = append(commands, newPredictCmd) }
@@ -24,6 +25,7 @@ var predictColumns = []string{"cauchy_11", "cauchy_22", "cauchy_12", "nominal_11
 func newPredictCmd() *cobra.Command {
 	var out string
 	var force bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "predict MODEL.json KINEMATICS.csv",
 		Short: "Evaluate a model card on a path of stretches or deformation gradients",
@@ -44,29 +46,50 @@ force along axis 1 per reference area normal to axis 2.`,
   weft predict out/model.json testdata/demo/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			c, m, err := readCard(args[0])
+			dl, cl, err := limits.parse()
 			if err != nil {
 				return err
 			}
-			f, err := os.Open(args[1])
+			res, err := openResult(cmd, out, force)
 			if err != nil {
-				return badInput(err)
+				return err
 			}
-			defer f.Close()
+			defer res.close()
+			c, m, err := readCard(args[0], cl)
+			if err != nil {
+				return err
+			}
+			data, err := readKinematics(args[1], dl)
+			if err != nil {
+				return err
+			}
 			var buf bytes.Buffer
-			if err := predictCSV(f, args[1], c, m, &buf); err != nil {
+			if err := predictCSV(bytes.NewReader(data), args[1], c, m, &buf); err != nil {
 				return err
 			}
-			if out == "" || out == "-" {
-				_, err := cmd.OutOrStdout().Write(buf.Bytes())
-				return err
-			}
-			return writeFileAtomic(out, buf.Bytes(), force)
+			return res.write(buf.Bytes())
 		},
 	}
 	cmd.Flags().StringVarP(&out, "output", "o", "", "write the CSV to this file instead of standard output")
 	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
+	limits = addLimitFlag(cmd)
 	return cmd
+}
+
+// readKinematics reads predict's CSV whole, within the file size limit.
+func readKinematics(path string, lim biaxial.Limits) ([]byte, error) {
+	max := lim.MaxBytes
+	if max <= 0 {
+		max = biaxial.DefaultLimits.MaxBytes
+	}
+	b, err := readAtMost(path, max)
+	if errors.Is(err, errTooLarge) {
+		return nil, tooLargeError(path, max, biaxial.ErrFileSize)
+	}
+	if err != nil {
+		return nil, badInputf("cannot read %s (%s)", path, ioErrText(err))
+	}
+	return b, nil
 }
 
 // exactArgs is cobra.ExactArgs with a bad-input exit code and a hint.
@@ -79,16 +102,17 @@ func exactArgs(n int) cobra.PositionalArgs {
 	}
 }
 
-// readCard reads and validates a model card; problems are bad input.
-func readCard(path string) (*card.Card, *aniso.Model, error) {
+// readCard reads and validates a model card within lim; problems are bad
+// input.
+func readCard(path string, lim card.Limits) (*card.Card, *aniso.Model, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, nil, badInput(err)
 	}
 	defer f.Close()
-	c, m, err := card.Parse(f, path)
+	c, m, err := card.ParseLimits(f, path, lim)
 	if err != nil {
-		return nil, nil, badInput(err)
+		return nil, nil, withLimitHint(err)
 	}
 	return c, m, nil
 }
@@ -121,7 +145,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 		name := headerName(h)
 		if _, dup := col[name]; dup {
 			line, _ := cr.FieldPos(i)
-			return badInputf("%s:%d:%d: column %q appears twice; keep one", file, line, i+1, name)
+			return badInputf("%s:%d:%d: column %s appears twice; keep one", file, line, i+1, quoteArg(name))
 		}
 		col[name] = i
 	}
@@ -162,12 +186,12 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 		var v [4]float64
 		for j, i := range idx {
 			if i >= len(rec) {
-				return badInputf("%s:%d: the row has %d fields; column %q is missing", file, line, len(rec), header[i])
+				return badInputf("%s:%d: the row has %d fields; column %s is missing", file, line, len(rec), quoteArg(header[i]))
 			}
-			x, err := strconv.ParseFloat(strings.TrimSpace(rec[i]), 64)
-			if err != nil || x != x || x > 1e300 || x < -1e300 {
+			x, err := biaxial.ParseNumber(strings.TrimSpace(rec[i]))
+			if err != nil || x > 1e300 || x < -1e300 {
 				_, cc := cr.FieldPos(i)
-				return badInputf("%s:%d:%d: %q in column %q is not a finite number", file, line, cc, rec[i], header[i])
+				return badInputf("%s:%d:%d: %s in column %s is not a finite decimal number", file, line, cc, quoteArg(rec[i]), quoteArg(header[i]))
 			}
 			v[j] = x
 		}

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -16,6 +15,7 @@ type readFlags struct {
 	rereference bool
 	resample    int
 	weights     []string
+	limits      *limitFlags
 }
 
 // addReadFlags registers the data-reading flags on cmd.
@@ -28,6 +28,7 @@ func addReadFlags(cmd *cobra.Command) *readFlags {
 	fl.BoolVar(&f.rereference, "rereference", false, "move the reference state to the first kept point of each protocol and remove its stress as a tare")
 	fl.IntVar(&f.resample, "resample", 0, "resample each protocol to N points evenly spaced in stretch (0: off)")
 	fl.StringArrayVar(&f.weights, "weight", nil, "relative weight of a protocol, LABEL=W (repeatable; default 1)")
+	f.limits = addLimitFlag(cmd)
 	return f
 }
 
@@ -35,6 +36,9 @@ func addReadFlags(cmd *cobra.Command) *readFlags {
 func (f *readFlags) options() (biaxial.Options, error) {
 	var o biaxial.Options
 	var err error
+	if o.Limits, _, err = f.limits.parse(); err != nil {
+		return o, err
+	}
 	o.Sheet = f.sheet
 	if o.Cycle, err = biaxial.ParseCycle(f.cycle); err != nil {
 		return o, badInputf("--cycle: %v", err)
@@ -50,20 +54,29 @@ func (f *readFlags) options() (biaxial.Options, error) {
 	for _, w := range f.weights {
 		i := strings.LastIndexByte(w, '=')
 		if i <= 0 {
-			return o, badInputf("--weight %q: write LABEL=W, e.g. --weight 1:0.5=2", w)
+			return o, badInputf("--weight %s: write LABEL=W, e.g. --weight 1:0.5=2", quoteArg(w))
 		}
-		v, err := strconv.ParseFloat(strings.TrimSpace(w[i+1:]), 64)
+		v, err := biaxial.ParseNumber(strings.TrimSpace(w[i+1:]))
 		if err != nil || !(v >= 0) || v > 1e300 {
-			return o, badInputf("--weight %q: the weight must be a finite number ≥ 0", w)
+			return o, badInputf("--weight %s: the weight must be a finite decimal number ≥ 0", quoteArg(w))
 		}
 		if o.ProtocolWeights == nil {
 			o.ProtocolWeights = map[string]float64{}
 		}
 		label := strings.TrimSpace(w[:i])
 		if _, dup := o.ProtocolWeights[label]; dup {
-			return o, badInputf("--weight: protocol %q is given twice", label)
+			return o, badInputf("--weight: protocol %s is given twice", quoteArg(label))
 		}
 		o.ProtocolWeights[label] = v
 	}
 	return o, nil
+}
+
+// readSpecimen reads and prepares one test file; problems are bad input.
+func readSpecimen(path string, opt biaxial.Options) (*biaxial.Specimen, error) {
+	s, err := biaxial.ReadFile(path, opt)
+	if err != nil {
+		return nil, withLimitHint(err)
+	}
+	return s, nil
 }

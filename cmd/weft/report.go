@@ -8,6 +8,7 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 )
@@ -85,13 +86,17 @@ func writeReportFiles(od *outputDir, o *fitOutcome) error {
 			return err
 		}
 	}
+	// Messages name the folder the user will see, not the temporary one.
+	named := func(err error) error {
+		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
+	}
 	in, err := loadReportInput(od.tmp)
 	if err != nil {
-		return fmt.Errorf("building the report: %w", err)
+		return named(err)
 	}
 	files, err := buildReport(in, false)
 	if err != nil {
-		return fmt.Errorf("building the report: %w", err)
+		return named(err)
 	}
 	for _, f := range files {
 		if err := od.write(filepath.FromSlash(f.rel), f.data); err != nil {
@@ -112,6 +117,7 @@ func reportFilesNote(o *fitOutcome) string {
 
 func newReportCmd() *cobra.Command {
 	var strain, force bool
+	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "report DIR",
 		Short: "Rebuild the fit report (report.html and plots/) of an output folder without refitting",
@@ -139,27 +145,44 @@ tested range, not for clinical decisions.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runReport(cmd, args[0], strain, force)
+			return runReport(cmd, args[0], strain, force, limits)
 		},
 	}
 	cmd.Flags().BoolVar(&strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
 	cmd.Flags().BoolVar(&force, "force", false, "replace an existing report.html and plots/")
+	limits = addLimitFlag(cmd)
 	return cmd
 }
 
-func runReport(cmd *cobra.Command, dir string, strain, force bool) error {
-	in, err := loadReportInput(dir)
+func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limitFlags) error {
+	dl, cl, err := limits.parse()
 	if err != nil {
 		return err
 	}
-	htmlPath, plotsPath := filepath.Join(dir, "report.html"), filepath.Join(dir, "plots")
-	if !force {
-		for _, p := range []string{htmlPath, plotsPath} {
-			if _, err := os.Stat(p); err == nil {
-				return badInputf("%s exists; pass --force to replace report.html and plots/", p)
-			}
-		}
+	in, err := loadReportInputLimits(dir, dl, cl)
+	if err != nil {
+		return err
 	}
+	dir = filepath.Clean(dir)
+	lock, err := lockOutput(dir)
+	if err != nil {
+		return lockError(dir, err)
+	}
+	defer lock.release()
+	htmlPath, plotsPath := filepath.Join(dir, "report.html"), filepath.Join(dir, "plots")
+	html, err := prepareOutputFile(htmlPath, force, true)
+	if err != nil {
+		return err
+	}
+	listed, hasMarker, err := readMarker(dir)
+	if err != nil {
+		return badInput(err)
+	}
+	if err := checkPlots(plotsPath, force, listed, hasMarker); err != nil {
+		return err
+	}
+	removeStale(htmlPath)
+	removeStale(plotsPath)
 	files, err := buildReport(in, strain)
 	if err != nil {
 		return err
@@ -167,10 +190,47 @@ func runReport(cmd *cobra.Command, dir string, strain, force bool) error {
 	if err := replacePlots(plotsPath, files[1:]); err != nil {
 		return err
 	}
-	if err := writeFileAtomic(htmlPath, files[0].data, true); err != nil {
+	if err := html.commit(files[0].data); err != nil {
 		return err
 	}
+	if hasMarker {
+		if err := updateMarker(dir, listed, files); err != nil {
+			return err
+		}
+	}
 	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s/ (%d plots as SVG and PNG)\n", htmlPath, plotsPath, (len(files)-1)/2)
+	return nil
+}
+
+// checkPlots makes sure plots/ may be replaced: it does not exist, or
+// (with force) it is a folder that holds only plots weft wrote.
+func checkPlots(plotsPath string, force bool, listed map[string]bool, hasMarker bool) error {
+	st, err := os.Lstat(plotsPath)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil
+	case err != nil:
+		return badInputf("cannot use %s (%s)", plotsPath, ioErrText(err))
+	case !force:
+		return badInputf("%s exists; pass --force to replace report.html and plots/", plotsPath)
+	case !st.IsDir() || st.Mode()&fs.ModeSymlink != 0:
+		return badInputf("%s exists and is %s, not weft's plots folder; it is kept — move it elsewhere and run again", plotsPath, kindOf(st.Mode()))
+	}
+	entries, err := os.ReadDir(plotsPath)
+	if err != nil {
+		return badInputf("cannot read %s (%s)", plotsPath, ioErrText(err))
+	}
+	var foreign []string
+	for _, e := range entries {
+		rel := "plots/" + e.Name()
+		ok := e.Type().IsRegular() && (hasMarker && listed[rel] || !hasMarker && legacyPlot(rel)) || isWeftHelper(e.Name())
+		if !ok && len(foreign) < 5 {
+			foreign = append(foreign, rel)
+		}
+	}
+	if len(foreign) > 0 {
+		return badInputf("%s holds files weft did not write (%s); replacing plots/ would delete them, so it is kept — move them elsewhere and run again", plotsPath, strings.Join(foreign, ", "))
+	}
 	return nil
 }
 
@@ -179,45 +239,65 @@ func runReport(cmd *cobra.Command, dir string, strain, force bool) error {
 // new plots.
 func replacePlots(plotsPath string, files []reportFile) error {
 	parent := filepath.Dir(plotsPath)
-	tmp, err := os.MkdirTemp(parent, ".plots.tmp-*")
+	cleanup.mu.Lock()
+	tmp := filepath.Join(parent, ".plots"+tmpTag+randomTag())
+	err := os.Mkdir(tmp, 0o777)
+	if err == nil {
+		trackTemp(tmp)
+	}
+	cleanup.mu.Unlock()
+	if err != nil {
+		return fmt.Errorf("cannot write %s (%s)", plotsPath, ioErrText(err))
+	}
+	defer func() {
+		os.RemoveAll(tmp)
+		untrackTemp(tmp)
+	}()
+	for _, f := range files {
+		if err := writeNewFile(filepath.Join(tmp, filepath.Base(f.rel)), f.data); err != nil {
+			return fmt.Errorf("cannot write %s (%s)", filepath.Join(plotsPath, filepath.Base(f.rel)), ioErrText(err))
+		}
+	}
+	cleanup.mu.Lock()
+	old := ""
+	if _, err := os.Lstat(plotsPath); err == nil {
+		old = filepath.Join(parent, ".plots"+oldTag+randomTag())
+		if err := os.Rename(plotsPath, old); err != nil {
+			cleanup.mu.Unlock()
+			return fmt.Errorf("cannot replace %s (%s)", plotsPath, ioErrText(err))
+		}
+		trackTemp(old)
+	}
+	if err := os.Rename(tmp, plotsPath); err != nil {
+		if old != "" && os.Rename(old, plotsPath) == nil {
+			delete(cleanup.temps, old)
+		}
+		cleanup.mu.Unlock()
+		return fmt.Errorf("cannot write %s (%s)", plotsPath, ioErrText(err))
+	}
+	cleanup.mu.Unlock()
+	if old != "" {
+		os.RemoveAll(old)
+		untrackTemp(old)
+	}
+	return nil
+}
+
+// updateMarker rewrites the folder's marker after the report was rebuilt:
+// the old plots leave the list, the new ones join it.
+func updateMarker(dir string, listed map[string]bool, files []reportFile) error {
+	var names []string
+	for k := range listed {
+		if !strings.HasPrefix(k, "plots/") {
+			names = append(names, k)
+		}
+	}
+	for _, f := range files {
+		names = append(names, f.rel)
+	}
+	m, err := prepareOutputFile(filepath.Join(dir, markerName), true, true)
 	if err != nil {
 		return err
 	}
-	ok := false
-	defer func() {
-		if !ok {
-			os.RemoveAll(tmp)
-		}
-	}()
-	for _, f := range files {
-		if err := os.WriteFile(filepath.Join(tmp, filepath.Base(f.rel)), f.data, 0o644); err != nil {
-			return err
-		}
-	}
-	if err := os.Chmod(tmp, 0o755); err != nil {
-		return err
-	}
-	old := ""
-	if st, err := os.Stat(plotsPath); err == nil {
-		if !st.IsDir() {
-			return badInputf("%s exists and is not a folder", plotsPath)
-		}
-		old = tmp + ".old"
-		if err := os.Rename(plotsPath, old); err != nil {
-			return err
-		}
-	} else if !errors.Is(err, fs.ErrNotExist) {
-		return err
-	}
-	if err := os.Rename(tmp, plotsPath); err != nil {
-		if old != "" {
-			os.Rename(old, plotsPath)
-		}
-		return err
-	}
-	ok = true
-	if old != "" {
-		return os.RemoveAll(old)
-	}
-	return nil
+	return m.commit(markerBytes(names))
 }

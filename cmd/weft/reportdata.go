@@ -17,6 +17,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // The report is built from the files of an output folder only (model.json,
@@ -48,6 +49,8 @@ type reportInput struct {
 	// table is fit.csv; heldout is heldout.csv (nil when absent).
 	table   *fitTable
 	heldout *heldoutTable
+	// cardLimits bound the card read.
+	cardLimits card.Limits
 }
 
 // fitTable is fit.csv read back: one entry per protocol, in file order.
@@ -330,9 +333,16 @@ func getSection(c *card.Card, key string, v any) (bool, error) {
 	return ok, nil
 }
 
-// loadReportInput reads an output folder. A folder that lacks what the
-// report needs is bad input (exit 2) with a message saying what is missing.
+// loadReportInput reads an output folder within the default limits.
 func loadReportInput(dir string) (*reportInput, error) {
+	return loadReportInputLimits(dir, biaxial.Limits{}, card.Limits{})
+}
+
+// loadReportInputLimits reads an output folder: model.json within the card
+// limits cl, fit.csv and heldout.csv within the file size limit of dl. A
+// folder that lacks what the report needs is bad input (exit 2) with a
+// message saying what is missing.
+func loadReportInputLimits(dir string, dl biaxial.Limits, cl card.Limits) (*reportInput, error) {
 	st, err := os.Stat(dir)
 	if err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
@@ -343,7 +353,7 @@ func loadReportInput(dir string) (*reportInput, error) {
 	if !st.IsDir() {
 		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
 	}
-	in := &reportInput{dir: dir}
+	in := &reportInput{dir: dir, cardLimits: cl}
 	entries, err := os.ReadDir(dir)
 	if err != nil {
 		return nil, badInput(err)
@@ -353,14 +363,33 @@ func loadReportInput(dir string) (*reportInput, error) {
 			in.files = append(in.files, e.Name())
 		}
 	}
+	maxCSV := dl.MaxBytes
+	if maxCSV <= 0 {
+		maxCSV = biaxial.DefaultLimits.MaxBytes
+	}
+	maxCard := cl.MaxBytes
+	if maxCard <= 0 {
+		maxCard = card.DefaultLimits.MaxBytes
+	}
 	read := func(name string, required bool) ([]byte, error) {
-		b, err := os.ReadFile(filepath.Join(dir, name))
+		max := maxCSV
+		if name == "model.json" {
+			max = maxCard
+		}
+		b, err := readAtMost(filepath.Join(dir, name), max)
+		if errors.Is(err, errTooLarge) {
+			lim := biaxial.ErrFileSize
+			if name == "model.json" {
+				lim = card.ErrCardSize
+			}
+			return nil, tooLargeError(filepath.Join(dir, name), max, lim)
+		}
 		if err != nil {
 			if errors.Is(err, fs.ErrNotExist) && !required {
 				return nil, nil
 			}
 			if errors.Is(err, fs.ErrNotExist) {
-				return nil, badInputf("%s: %s is missing; the report needs model.json and fit.csv as 'weft fit' writes them (refit with 'weft fit DATA -o %s --force')", dir, name, dir)
+				return nil, badInputf("%s: %s is missing; the report needs model.json and fit.csv as 'weft fit' writes them (fit the data again into a new folder with 'weft fit DATA -o NEW-FOLDER')", dir, name)
 			}
 			return nil, badInput(err)
 		}
@@ -388,7 +417,7 @@ func loadReportInput(dir string) (*reportInput, error) {
 // parse fills the input from the bytes of model.json, fit.csv and
 // heldout.csv (nil when absent).
 func (in *reportInput) parse(modelJSON, fitCSV, heldoutCSV []byte) error {
-	c, m, err := card.Parse(bytes.NewReader(modelJSON), "model.json")
+	c, m, err := card.ParseLimits(bytes.NewReader(modelJSON), "model.json", in.cardLimits)
 	if err != nil {
 		return err
 	}

@@ -1,0 +1,435 @@
+//go:build unix
+
+package main
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+)
+
+// noHelpers fails when a temporary, old-copy or lock file of weft is left
+// in dir (or, recursively, below it).
+func noHelpers(t *testing.T, dir string) {
+	t.Helper()
+	filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err == nil && isWeftHelper(d.Name()) {
+			t.Errorf("weft left %s behind", p)
+		}
+		return nil
+	})
+}
+
+// Finding 1: --force replaces only a folder weft wrote and that holds
+// nothing else; anything else is refused with exit 2 and kept.
+func TestForceReplacesOnlyWeftFolders(t *testing.T) {
+	root := t.TempDir()
+	proj := filepath.Join(root, "proj")
+	os.MkdirAll(filepath.Join(proj, "raw"), 0o755)
+	data := quickData(t, filepath.Join(proj, "raw"), "x.csv")
+	os.WriteFile(filepath.Join(proj, "notes.txt"), []byte("mine"), 0o644)
+
+	// The input lives inside the folder named by -o.
+	_, errs, code := quickFit(t, data, proj, "--force")
+	if code != exitBadInput || !strings.Contains(errs, "lies inside") {
+		t.Fatalf("fit into the input's own project folder: exit %d, %s", code, errs)
+	}
+	// A folder weft did not write.
+	other := filepath.Join(root, "other")
+	os.Mkdir(other, 0o755)
+	os.WriteFile(filepath.Join(other, "keep.txt"), []byte("mine"), 0o644)
+	if _, errs, code := quickFit(t, data, other, "--force"); code != exitBadInput || !strings.Contains(errs, "not written by weft") {
+		t.Errorf("fit into a foreign folder: exit %d, %s", code, errs)
+	}
+	// A regular file named by -o.
+	file := filepath.Join(root, "file")
+	os.WriteFile(file, []byte("mine"), 0o644)
+	if _, errs, code := quickFit(t, data, file, "--force"); code != exitBadInput || !strings.Contains(errs, "is a file") {
+		t.Errorf("fit onto a file: exit %d, %s", code, errs)
+	}
+	for _, p := range []string{data, filepath.Join(proj, "notes.txt"), filepath.Join(other, "keep.txt"), file} {
+		if b, err := os.ReadFile(p); err != nil || len(b) == 0 {
+			t.Errorf("%s was lost: %v", p, err)
+		}
+	}
+
+	// weft's own folder is replaced, but not once the user added a file.
+	out := filepath.Join(root, "out")
+	if _, errs, code := quickFit(t, data, out); code != 0 {
+		t.Fatalf("first fit: exit %d, %s", code, errs)
+	}
+	marker, err := os.ReadFile(filepath.Join(out, markerName))
+	if err != nil || !strings.Contains(string(marker), "\nmodel.json\n") {
+		t.Fatalf("marker %q: %v", marker, err)
+	}
+	os.WriteFile(filepath.Join(out, "plots", "my-figure.svg"), []byte("<svg/>"), 0o644)
+	if _, errs, code := quickFit(t, data, out, "--force"); code != exitBadInput || !strings.Contains(errs, "plots/my-figure.svg") {
+		t.Errorf("fit over a folder with a user file: exit %d, %s", code, errs)
+	}
+	if _, err := os.Stat(filepath.Join(out, "plots", "my-figure.svg")); err != nil {
+		t.Errorf("the user's file was lost: %v", err)
+	}
+	os.Remove(filepath.Join(out, "plots", "my-figure.svg"))
+	if _, errs, code := quickFit(t, data, out, "--force"); code != 0 {
+		t.Errorf("fit over weft's own folder: exit %d, %s", code, errs)
+	}
+	// A folder written before markers existed is recognised by its card.
+	os.Remove(filepath.Join(out, markerName))
+	if _, errs, code := quickFit(t, data, out, "--force"); code != 0 {
+		t.Errorf("fit over a folder without a marker but with weft's card: exit %d, %s", code, errs)
+	}
+	// The report's rebuild replaces plots/ only while it holds weft's plots.
+	os.WriteFile(filepath.Join(out, "plots", "notes.txt"), []byte("mine"), 0o644)
+	if _, errs, code := runWeft(t, "report", out, "--force"); code != exitBadInput || !strings.Contains(errs, "plots/notes.txt") {
+		t.Errorf("report over a plots folder with a user file: exit %d, %s", code, errs)
+	}
+	noHelpers(t, root)
+}
+
+// Finding 2: two writers of one output path — exactly one succeeds; the
+// other fails at once with a clear message, and nothing is mixed.
+func TestConcurrentWritersOfOnePath(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	a, err := prepareOutputDir(dir, false, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := prepareOutputDir(dir, true, nil); err == nil || !strings.Contains(err.Error(), "being written by another weft run") || exitCode(err) != exitBadInput {
+		t.Fatalf("second writer: %v", err)
+	}
+	if _, err := prepareOutputFile(dir, true, false); err == nil {
+		t.Fatal("a file writer got the same path while a folder writer held it")
+	}
+	if err := a.write("model.json", []byte("a")); err != nil {
+		t.Fatal(err)
+	}
+	if err := a.commit(false); err != nil {
+		t.Fatal(err)
+	}
+	a.close()
+	if b, _ := os.ReadFile(filepath.Join(dir, "model.json")); string(b) != "a" {
+		t.Errorf("model.json = %q", b)
+	}
+	noHelpers(t, filepath.Dir(dir))
+
+	// Two processes fitting into one folder at the same time.
+	data := quickData(t, t.TempDir(), "x.csv")
+	out := filepath.Join(t.TempDir(), "out")
+	var procs [2]*exec.Cmd
+	var errs [2]bytes.Buffer
+	for i := range procs {
+		procs[i] = weftProcess("fit", data, "--preset", "neo-hookean", "-o", out, "--quiet")
+		procs[i].Stderr = &errs[i]
+		if err := procs[i].Start(); err != nil {
+			t.Fatal(err)
+		}
+	}
+	ok := 0
+	for i, p := range procs {
+		err := p.Wait()
+		var ee *exec.ExitError
+		switch {
+		case err == nil:
+			ok++
+		case errors.As(err, &ee) && ee.ExitCode() == exitBadInput:
+			if !strings.Contains(errs[i].String(), "being written by another weft run") && !strings.Contains(errs[i].String(), "exists") {
+				t.Errorf("the losing run says %q", errs[i].String())
+			}
+		default:
+			t.Errorf("run %d: %v, %s", i, err, errs[i].String())
+		}
+	}
+	if ok != 1 {
+		t.Errorf("%d of 2 concurrent runs succeeded, want exactly 1", ok)
+	}
+	if _, err := os.Stat(filepath.Join(out, "model.json")); err != nil {
+		t.Error(err)
+	}
+	noHelpers(t, filepath.Dir(out))
+}
+
+// Finding 2 (re-check at the final rename): a folder that appears at the
+// output path while weft works is kept, and the run fails (exit 1).
+func TestOutputAppearingDuringTheRunIsKept(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	o, err := prepareOutputDir(dir, true, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer o.close()
+	os.Mkdir(dir, 0o755)
+	os.WriteFile(filepath.Join(dir, "theirs.txt"), []byte("theirs"), 0o644)
+	o.write("model.json", []byte("ours"))
+	err = o.commit(true)
+	if err == nil || !strings.Contains(err.Error(), "not replaced") || exitCode(err) != exitFailed {
+		t.Fatalf("commit over a folder that appeared: %v", err)
+	}
+	if b, _ := os.ReadFile(filepath.Join(dir, "theirs.txt")); string(b) != "theirs" {
+		t.Error("the folder that appeared was changed")
+	}
+	f, err := prepareOutputFile(filepath.Join(filepath.Dir(dir), "x.csv"), false, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.close()
+	os.WriteFile(f.final, []byte("theirs"), 0o644)
+	if err := f.commit([]byte("ours")); err == nil {
+		t.Error("a file that appeared was replaced")
+	}
+	if b, _ := os.ReadFile(f.final); string(b) != "theirs" {
+		t.Errorf("file = %q", b)
+	}
+}
+
+// Finding 7: problems with the output are bad input (2), found before the
+// work starts, and name the user's path, never a temporary one; devices and
+// pipes are never replaced.
+func TestOutputProblemsAreBadInput(t *testing.T) {
+	root := t.TempDir()
+	// Discovery on all-zero stress fails (exit 1) as soon as it starts, so
+	// exit 2 shows that the output was checked first.
+	var z strings.Builder
+	z.WriteString("protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n")
+	for i := 0; i < 8; i++ {
+		fmt.Fprintf(&z, "1:1,%g,%g,0,0\n", 1+0.02*float64(i), 1+0.02*float64(i))
+	}
+	zero := filepath.Join(root, "zero.csv")
+	os.WriteFile(zero, []byte(z.String()), 0o644)
+	fifo := filepath.Join(root, "pipe")
+	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	notDir := filepath.Join(root, "plain")
+	os.WriteFile(notDir, []byte("x"), 0o644)
+	card := filepath.Join("..", "..", "testdata", "example", "hgo-media.json")
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"fit", zero, "-o", filepath.Join(root, "missing", "out")}, "does not exist"},
+		{[]string{"fit", zero, "-o", filepath.Join(notDir, "out")}, "is not a folder"},
+		{[]string{"fit", zero, "-o", ".", "--force"}, "cannot replace"},
+		{[]string{"fit", zero, "-o", root, "--force"}, "lies inside"},
+		{[]string{"fit", zero, "-o", fifo, "--force"}, "is a named pipe"},
+		{[]string{"export", card, "-o", fifo, "--force"}, "is a named pipe"},
+		{[]string{"predict", card, zero, "-o", fifo, "--force"}, "is a named pipe"},
+		{[]string{"export", "--schema", "-o", filepath.Join(root, "missing", "s.json")}, "does not exist"},
+		{[]string{"export", "--schema", "-o", notDir}, "exists; pass --force"},
+	}
+	if os.Getuid() != 0 { // root writes into read-only folders anyway
+		ro := filepath.Join(root, "ro")
+		os.Mkdir(ro, 0o555)
+		cases = append(cases, struct {
+			args []string
+			want string
+		}{[]string{"fit", zero, "-o", filepath.Join(ro, "out")}, "cannot write in " + ro})
+	}
+	for _, c := range cases {
+		_, errs, code := runWeft(t, c.args...)
+		if code != exitBadInput || !strings.Contains(errs, c.want) || strings.Contains(errs, tmpTag) {
+			t.Errorf("%v: exit %d, %q; want exit 2 and %q", c.args, code, errs, c.want)
+		}
+	}
+	if st, err := os.Lstat(fifo); err != nil || st.Mode()&fs.ModeNamedPipe == 0 {
+		t.Errorf("the named pipe was replaced: %v", err)
+	}
+	if b, _ := os.ReadFile(notDir); string(b) != "x" {
+		t.Error("a file was overwritten without --force")
+	}
+	noHelpers(t, root)
+}
+
+// failingWriter fails every write, like a full disk or a closed pipe.
+type failingWriter struct{}
+
+func (failingWriter) Write([]byte) (int, error) { return 0, syscall.ENOSPC }
+
+// Finding 8: a failed write to standard output fails the run (exit 1) for
+// every command that prints.
+func TestFailedStdoutWriteFails(t *testing.T) {
+	card := filepath.Join("..", "..", "testdata", "example", "hgo-media.json")
+	data := quickData(t, t.TempDir(), "x.csv")
+	for _, args := range [][]string{
+		{"terms"}, {"terms", "--json"},
+		{"check", card, "--steps", "3", "--directions", "4"},
+		{"check", card, "--steps", "3", "--directions", "4", "--json"},
+		{"evaluate", card, "--stretch", "1.1,1.05"},
+		{"evaluate", card, "--stretch", "1.1,1.05", "--json"},
+		{"export", card}, {"inspect", data},
+		{"fit", data, "--preset", "neo-hookean", "-o", filepath.Join(t.TempDir(), "out"), "--quiet"},
+	} {
+		var errb bytes.Buffer
+		code := run(args, failingWriter{}, &errb)
+		if code != exitFailed || !strings.Contains(errb.String(), "cannot write to standard output (no space left on device)") {
+			t.Errorf("%v: exit %d, %q", args, code, errb.String())
+		}
+	}
+	if f, err := os.OpenFile("/dev/full", os.O_WRONLY, 0); err == nil {
+		defer f.Close()
+		var errb bytes.Buffer
+		if code := run([]string{"terms"}, f, &errb); code != exitFailed {
+			t.Errorf("terms > /dev/full: exit %d, %s", code, errb.String())
+		}
+	}
+}
+
+// Finding 9: output files and folders get the mode the umask allows.
+func TestOutputModesFollowUmask(t *testing.T) {
+	data := quickData(t, t.TempDir(), "x.csv")
+	for _, c := range []struct{ umask, file, dir fs.FileMode }{{0o022, 0o644, 0o755}, {0o027, 0o640, 0o750}} {
+		old := syscall.Umask(int(c.umask))
+		root := t.TempDir()
+		out := filepath.Join(root, "out")
+		_, errs, code := quickFit(t, data, out)
+		_, errs2, code2 := runWeft(t, "export", "--schema", "-o", filepath.Join(root, "schema.json"))
+		syscall.Umask(old)
+		if code != 0 || code2 != 0 {
+			t.Fatalf("exit %d, %d: %s %s", code, code2, errs, errs2)
+		}
+		filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
+			if err != nil || p == root {
+				return err
+			}
+			st, _ := d.Info()
+			want := c.file
+			if d.IsDir() {
+				want = c.dir
+			}
+			if st.Mode().Perm() != want {
+				t.Errorf("umask %03o: %s has mode %03o, want %03o", c.umask, p, st.Mode().Perm(), want)
+			}
+			return nil
+		})
+	}
+}
+
+// Finding 12: a fit of several files tries every file, writes what
+// succeeds, lists each failure at the end and exits 1.
+func TestMultiFileFitTriesEveryFile(t *testing.T) {
+	dir := t.TempDir()
+	a := quickData(t, dir, "a.csv")
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("protocol,stretch_1,stretch_2,cauchy_11,cauchy_22\n1:1,1.1,x,1,2\n"), 0o644)
+	c := quickData(t, dir, "c.csv")
+	out := filepath.Join(dir, "all")
+	stdout, errs, code := runWeft(t, "fit", a, bad, c, "--preset", "neo-hookean", "-o", out, "--quiet")
+	if code != exitFailed || !strings.Contains(errs, "1 of 3 files failed") || !strings.Contains(errs, "bad.csv:2:3") {
+		t.Fatalf("exit %d, %s", code, errs)
+	}
+	for _, n := range []string{"a.weft", "c.weft"} {
+		if _, err := os.Stat(filepath.Join(out, n, "model.json")); err != nil {
+			t.Errorf("%s not written: %v", n, err)
+		}
+		if !strings.Contains(stdout, filepath.Join(out, n)) {
+			t.Errorf("no summary for %s", n)
+		}
+	}
+	// Every file bad: exit 2, nothing written, not even the -o folder.
+	out2 := filepath.Join(dir, "none")
+	if _, errs, code := runWeft(t, "fit", bad, bad+".missing", "-o", out2, "--quiet"); code != exitBadInput || !strings.Contains(errs, "2 of 2 files failed") {
+		t.Errorf("all bad: exit %d, %s", code, errs)
+	}
+	if _, err := os.Stat(out2); err == nil {
+		t.Error("a run that wrote nothing left its -o folder")
+	}
+}
+
+// Finding 5: SIGINT and SIGTERM remove the temporary folder and the lock
+// file, leave no output, and exit 1 saying the run was interrupted; a
+// temporary folder left by kill -9 is removed by the next run.
+func TestInterruptAndKill(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs weft as a separate process")
+	}
+	data := filepath.Join(copyDemo(t, "patch-P2.csv"), "patch-P2.csv")
+	for _, sig := range []os.Signal{os.Interrupt, syscall.SIGTERM, syscall.SIGKILL} {
+		root := t.TempDir()
+		out := filepath.Join(root, "out")
+		p := weftProcess("fit", data, "-o", out, "--quiet")
+		var errb bytes.Buffer
+		p.Stderr = &errb
+		if err := p.Start(); err != nil {
+			t.Fatal(err)
+		}
+		// Discovery takes seconds; signal once the temporary folder exists.
+		deadline := time.Now().Add(20 * time.Second)
+		for {
+			m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*"))
+			if len(m) > 0 || time.Now().After(deadline) {
+				break
+			}
+			time.Sleep(10 * time.Millisecond)
+		}
+		p.Process.Signal(sig)
+		err := p.Wait()
+		var ee *exec.ExitError
+		if sig == syscall.SIGKILL {
+			if m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*")); len(m) == 0 {
+				t.Fatal("no temporary folder to test the next run with")
+			}
+			if _, errs, code := quickFit(t, quickData(t, t.TempDir(), "x.csv"), out); code != 0 {
+				t.Fatalf("run after kill -9: exit %d, %s", code, errs)
+			}
+			noHelpers(t, root)
+			continue
+		}
+		if !errors.As(err, &ee) || ee.ExitCode() != exitFailed || !strings.Contains(errb.String(), "interrupted") {
+			t.Errorf("%v: %v, stderr %q", sig, err, errb.String())
+		}
+		entries, _ := os.ReadDir(root)
+		if len(entries) != 0 {
+			t.Errorf("%v left %v", sig, entries)
+		}
+	}
+}
+
+// Finding 6: outputs name the input by its base name only, so the same data
+// give the same bytes however the path was typed (here with a notice about
+// the separator and a warning about a negative stress, which name the file).
+func TestOutputsDoNotDependOnThePathAsTyped(t *testing.T) {
+	dir := t.TempDir()
+	b, _ := os.ReadFile(quickData(t, dir, "x.csv"))
+	lines := strings.Split(strings.ReplaceAll(string(b), ",", ";"), "\n")
+	f := strings.Split(lines[4], ";")
+	f[3] = "-5"
+	lines[4] = strings.Join(f, ";")
+	data := filepath.Join(dir, "x.csv")
+	os.WriteFile(data, []byte(strings.Join(lines, "\n")), 0o644)
+	os.Mkdir(filepath.Join(dir, "sub"), 0o755)
+	spellings := []string{data, filepath.Join(dir, "sub", "..", ".", "x.csv")}
+	var outs []string
+	for i, p := range spellings {
+		out := filepath.Join(t.TempDir(), fmt.Sprint("out", i))
+		if _, errs, code := quickFit(t, p, out); code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		outs = append(outs, out)
+	}
+	model, _ := os.ReadFile(filepath.Join(outs[0], "model.json"))
+	if !strings.Contains(string(model), "x.csv: semicolon-separated") || !strings.Contains(string(model), "x.csv:5 (protocol 1:1)") {
+		t.Fatalf("the card lacks the notice or the warning:\n%s", model)
+	}
+	filepath.WalkDir(outs[0], func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		rel, _ := filepath.Rel(outs[0], p)
+		a, _ := os.ReadFile(p)
+		b, err := os.ReadFile(filepath.Join(outs[1], rel))
+		if err != nil || !bytes.Equal(a, b) {
+			t.Errorf("%s differs between two spellings of the input path", rel)
+		}
+		if bytes.Contains(a, []byte(dir)) {
+			t.Errorf("%s holds the input's folder %s", rel, dir)
+		}
+		return nil
+	})
+}

@@ -1,0 +1,80 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"sort"
+	"sync"
+	"syscall"
+)
+
+// cleanup records the temporary files and folders and the lock files this
+// run has created and not yet removed, so that an interrupted run (SIGINT,
+// SIGTERM) removes them before it exits. Its mutex also guards the few
+// renames that put an output in place: an interruption waits for them, so
+// it never leaves a half-replaced output.
+var cleanup = struct {
+	mu    sync.Mutex
+	temps map[string]bool
+	locks map[string]bool
+}{temps: map[string]bool{}, locks: map[string]bool{}}
+
+// trackTemp records a temporary path; the caller holds cleanup.mu.
+func trackTemp(p string) { cleanup.temps[p] = true }
+
+// untrackTemp forgets a temporary path once it has been removed or renamed
+// into place.
+func untrackTemp(p string) {
+	cleanup.mu.Lock()
+	delete(cleanup.temps, p)
+	cleanup.mu.Unlock()
+}
+
+// removeTemps removes every recorded temporary path and lock file; the
+// caller holds cleanup.mu. A folder is first renamed aside so that a worker
+// still writing into it cannot recreate entries while it is removed.
+func removeTemps() {
+	paths := make([]string, 0, len(cleanup.temps))
+	for p := range cleanup.temps {
+		paths = append(paths, p)
+	}
+	sort.Strings(paths)
+	for _, p := range paths {
+		gone := p + ".removing"
+		if os.Rename(p, gone) != nil {
+			gone = p
+		}
+		os.RemoveAll(gone)
+		delete(cleanup.temps, p)
+	}
+	for p := range cleanup.locks {
+		os.Remove(p)
+		delete(cleanup.locks, p)
+	}
+}
+
+// handleSignals makes SIGINT and SIGTERM remove this run's temporary files
+// and lock files, say so on stderr and exit with code 1 (an interrupted run
+// has failed). Outputs already put in place are kept; nothing half-written
+// is left. stop restores the default handling.
+func handleSignals(stderr io.Writer) (stop func()) {
+	ch := make(chan os.Signal, 1)
+	signal.Notify(ch, os.Interrupt, syscall.SIGTERM)
+	done := make(chan struct{})
+	go func() {
+		select {
+		case sig := <-ch:
+			cleanup.mu.Lock() // held until exit: no output is committed any more
+			removeTemps()
+			fmt.Fprintf(stderr, "weft: interrupted (%v); unfinished outputs and temporary files were removed\n", sig)
+			os.Exit(exitFailed)
+		case <-done:
+		}
+	}()
+	return func() {
+		signal.Stop(ch)
+		close(done)
+	}
+}

@@ -185,7 +185,7 @@ func (s *Shape) CheckParams(p []float64) error {
 }
 
 // MaxParams is the largest number of non-linear parameters of any shape.
-const MaxParams = 2
+const MaxParams = 4
 
 var byID = map[string]*Shape{}
 

@@ -184,6 +184,10 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		}
 		term := &m.Terms[t]
 		col := c.A[t*rows : (t+1)*rows]
+		if term.Shape.Arg == terms.Green {
+			d.fillGreen(term, col, c, t*rows, derivs)
+			continue
+		}
 		if !term.Shape.Arg.NeedsFamily() {
 			d.fillIsotropic(term, col, c, t*rows, derivs)
 			continue

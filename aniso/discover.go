@@ -24,7 +24,9 @@ type DiscoverSettings struct {
 	// (Gasser, Ogden & Holzapfel 2006), which stands in for a spread of
 	// fibre directions. It roughly doubles the work; off by default.
 	Dispersion bool
-	// Shapes are the candidate shapes (default: the whole catalogue).
+	// Shapes are the candidate shapes (default: the whole catalogue but the
+	// Green-strain shape of Tong & Fung 1976, which is a classical model to
+	// compare with, fitted as a preset, not a mechanism to discover).
 	Shapes []*terms.Shape
 	// RefitPerSize is how many of the best subsets of each size are refitted
 	// with their own angles and shape parameters (default 2).
@@ -54,7 +56,11 @@ func (s DiscoverSettings) withDefaults() DiscoverSettings {
 		s.Layouts = []Layout{LayoutNone, LayoutSingle, LayoutMirror, LayoutFree}
 	}
 	if s.Shapes == nil {
-		s.Shapes = terms.Catalogue()
+		for _, sh := range terms.Catalogue() {
+			if sh.Arg != terms.Green {
+				s.Shapes = append(s.Shapes, sh)
+			}
+		}
 	}
 	if s.RefitPerSize <= 0 {
 		s.RefitPerSize = 2

@@ -339,13 +339,57 @@ var (
 	kappaGrid = []float64{0, 0.15, 0.3}
 )
 
-// dictEntry says which structure term, parameter value and κ a dictionary
+// dictEntry says which structure term, parameter values and κ a dictionary
 // column stands for.
 type dictEntry struct {
-	spec  int
-	param float64
-	hasP  bool
-	kappa int // index into kappaGrid, or −1
+	spec   int
+	params []float64
+	hasP   bool
+	kappa  int // index into kappaGrid, or −1
+}
+
+// scanParams returns the parameter vectors the dictionary tries for a
+// shape: the product of the Scan values of the parameters that have them
+// (the others at their defaults), or else the rate or limit grid on the
+// first parameter; one empty vector for a shape without parameters.
+func scanParams(sh *terms.Shape) [][]float64 {
+	if len(sh.Params) == 0 {
+		return [][]float64{nil}
+	}
+	out := [][]float64{sh.DefaultParams()}
+	scanned := false
+	for j, q := range sh.Params {
+		if q.Scan == nil {
+			continue
+		}
+		scanned = true
+		var next [][]float64
+		for _, p := range out {
+			for _, v := range q.Scan {
+				c := append([]float64(nil), p...)
+				c[j] = v
+				next = append(next, c)
+			}
+		}
+		out = next
+	}
+	if scanned {
+		return out
+	}
+	grid := rateGrid
+	if sh.Params[0].Name == "limit" {
+		grid = limitGrid
+	}
+	out = out[:0]
+	q := sh.Params[0]
+	for _, v := range grid {
+		if v >= q.Min && v <= q.Max {
+			p := sh.DefaultParams()
+			p[0] = v
+			out = append(out, p)
+		}
+	}
+	return out
 }
 
 // dictionary builds the rate- and dispersion-agnostic model used by the
@@ -371,21 +415,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 	var groups [][]int
 	var entries []dictEntry
 	for s, t := range st.Terms {
-		values := []float64{math.NaN()}
 		hasP := len(t.Shape.Params) > 0
-		if hasP {
-			grid := rateGrid
-			if t.Shape.Params[0].Name == "limit" {
-				grid = limitGrid
-			}
-			values = values[:0]
-			q := t.Shape.Params[0]
-			for _, v := range grid {
-				if v >= q.Min && v <= q.Max {
-					values = append(values, v)
-				}
-			}
-		}
 		kis := []int{-1}
 		if t.Family >= 0 {
 			kis = kis[:0]
@@ -393,12 +423,8 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 				kis = append(kis, ki)
 			}
 		}
-		for _, v := range values {
+		for _, params := range scanParams(t.Shape) {
 			for _, ki := range kis {
-				params := t.Shape.DefaultParams()
-				if hasP {
-					params[0] = v
-				}
 				var g []int
 				fams := []int{t.Family}
 				if t.Family < 0 {
@@ -415,7 +441,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 					m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: fam, Params: append([]float64(nil), params...)})
 				}
 				groups = append(groups, g)
-				entries = append(entries, dictEntry{spec: s, param: v, hasP: hasP, kappa: ki})
+				entries = append(entries, dictEntry{spec: s, params: params, hasP: hasP, kappa: ki})
 			}
 		}
 	}
@@ -441,6 +467,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	st = canonical(st)
 	start := time.Now()
 	m, groups, famOf, params := build(st)
+	params, held := heldShear(p, m, groups, params)
 	nAngles := 0
 	for _, q := range params {
 		if q.Kind == kindAngle {
@@ -523,6 +550,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	res.uncertainty(p)
 	res.metrics(p)
 	res.notes(p)
+	res.greenNotes(p, held)
 	res.Elapsed = time.Since(start)
 	if set.Profile && nAngles > 0 {
 		t0 := time.Now()
@@ -691,7 +719,7 @@ func dominantParam(de *engine, entries []dictEntry, q param) float64 {
 			continue
 		}
 		if c := de.w[g] * de.norm[g]; c > best {
-			best, v = c, en.param
+			best, v = c, en.params[q.Index]
 		}
 	}
 	if math.IsNaN(v) {

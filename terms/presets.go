@@ -6,8 +6,9 @@ import "sort"
 type PresetTerm struct {
 	// ID is the catalogue shape id.
 	ID string
-	// Family is 0 for an isotropic term, 1 or 2 for a term of the first or
-	// second fibre family.
+	// Family is 0 for a term without a fibre family (isotropic, or the
+	// Green-strain term whose axes are the tester's), 1 or 2 for a term of
+	// the first or second fibre family.
 	Family int
 	// Weight is an illustrative weight in kPa (see Preset.Example).
 	Weight float64

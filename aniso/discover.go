@@ -32,7 +32,7 @@ type DiscoverSettings struct {
 	// with their own angles and shape parameters (default 2).
 	RefitPerSize int
 	// Presets are the classical presets fitted for comparison (default
-	// neo-hookean, hgo, goh).
+	// neo-hookean, hgo, goh, fung).
 	Presets []string
 	// ExhaustiveLimit is the largest number of subsets searched exhaustively
 	// per layout (default 200 000); beyond it a forward search with swaps
@@ -66,7 +66,7 @@ func (s DiscoverSettings) withDefaults() DiscoverSettings {
 		s.RefitPerSize = 2
 	}
 	if s.Presets == nil {
-		s.Presets = []string{"neo-hookean", "hgo", "goh"}
+		s.Presets = []string{"neo-hookean", "hgo", "goh", "fung"}
 	}
 	if s.ExhaustiveLimit <= 0 {
 		s.ExhaustiveLimit = 200000

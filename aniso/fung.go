@@ -223,14 +223,31 @@ func (r *Result) greenNotes(p *Problem, held []heldParam) {
 		if members := r.e.groups[g]; len(members) > 0 {
 			b = r.Model.Terms[members[0]].Params
 		}
-		c, ok := t.Shape.ConvexityCondition(b, shear)
-		if !ok {
-			continue
+		label := t.Label(r.Structure.Layout)
+		if c, ok := t.Shape.ConvexityCondition(b, shear); ok {
+			verdict := "holds for the fitted values"
+			if !c.Holds {
+				verdict = "does NOT hold for the fitted values, so the energy is not convex in E and may predict unstable or non-unique responses outside the data"
+			}
+			r.Notes = append(r.Notes, fmt.Sprintf("Convexity of %s (Tong & Fung 1976; not polyconvex in general): condition %s. It %s (%s).", label, c.Condition, verdict, c.Detail))
 		}
-		verdict := "holds"
-		if !c.Holds {
-			verdict = "does NOT hold, so the energy is not convex in E for these values and may predict unstable or non-unique responses outside the data"
+		if q := maxQ(p.Data, b); q < linearLimitQ {
+			w := r.Weights[g]
+			r.Notes = append(r.Notes, fmt.Sprintf("The exponent Q of %s stays below %g over the data (largest %.3g): the fit has gone to the linear limit W ≈ c Q/2, where only the products c·b are determined (c·b1 = %.4g, c·b2 = %.4g, c·b3 = %.4g, c·b4 = %.4g in the stress unit). These data do not support the exponential stiffening of this form in the tester's axes.", label, linearLimitQ, q, w*b[0], w*b[1], w*b[2], w*b[3]))
 		}
-		r.Notes = append(r.Notes, fmt.Sprintf("Convexity of %s (Tong & Fung 1976; not polyconvex in general): the condition %s %s (%s).", t.Label(r.Structure.Layout), c.Condition, verdict, c.Detail))
 	}
+}
+
+// linearLimitQ is the largest exponent Q over the data below which a
+// Green-strain term is practically linear in Q (e^Q − 1 within 0.05 % of Q).
+const linearLimitQ = 1e-3
+
+// maxQ is the largest Tong & Fung exponent Q over the dataset's points.
+func maxQ(d *Dataset, b []float64) float64 {
+	m := 0.0
+	for i := range d.kin {
+		q, _ := fungQ(greenStrain(d.kin[i].F), b)
+		m = math.Max(m, q)
+	}
+	return m
 }

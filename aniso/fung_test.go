@@ -301,6 +301,29 @@ func TestFungEllipticityInCompression(t *testing.T) {
 	}
 }
 
+// Small-strain moduli of the linearised Tong & Fung law, derived here: at
+// E → 0, S11 = c (b1 E11 + b3 E22), S22 = c (b3 E11 + b2 E22), S12 = c b4 E12
+// (a linear orthotropic membrane; the energy does not see the thickness).
+// Uniaxial stress along axis 1 (S22 = 0) gives E22 = −(b3/b2) E11 and the
+// modulus c (b1 − b3²/b2); along axis 2 c (b2 − b3²/b1); shear τ = c b4 γ/2.
+// The Fung-type term is two-sided and adds nothing to the isotropic μ0.
+func TestFungSmallStrainModuli(t *testing.T) {
+	for _, f := range fungLaws[:2] {
+		mod, err := f.model().SmallStrainModuli([]float64{0, 90})
+		if err != nil {
+			t.Fatal(err)
+		}
+		e1, e2, g := f.c*(f.b1-f.b3*f.b3/f.b2), f.c*(f.b2-f.b3*f.b3/f.b1), f.c*f.b4/2
+		y1, y2 := mod.Young[0], mod.Young[1]
+		if !near(y1.Tension, e1, 1e-9) || !near(y1.Compression, e1, 1e-9) || !near(y2.Tension, e2, 1e-9) || !near(y2.Compression, e2, 1e-9) {
+			t.Errorf("%+v: moduli %+v %+v, closed forms %g, %g", f, y1, y2, e1, e2)
+		}
+		if !near(mod.ShearPositive, g, 1e-9) || !near(mod.ShearNegative, g, 1e-9) || mod.InitialShear != 0 || mod.OneSided != 0 {
+			t.Errorf("%+v: shear %g/%g, closed form %g; μ0 %g, one-sided %d", f, mod.ShearPositive, mod.ShearNegative, g, mod.InitialShear, mod.OneSided)
+		}
+	}
+}
+
 // fungSpecimen generates a specimen from the closed form above (not the
 // package's code path): nominal stress P = F S on the five standard
 // stretch-ratio protocols, 40 points each to a leading strain of 0.25, and,
@@ -429,5 +452,39 @@ func TestFungNonConvexReported(t *testing.T) {
 	notes := strings.Join(r.Notes, "\n")
 	if b[2]*b[2] <= b[0]*b[1] || !strings.Contains(notes, "does NOT hold") || !strings.Contains(notes, "b1 b2 ≤ b3²") {
 		t.Errorf("fitted b = %v; notes %s", b, notes)
+	}
+}
+
+// Discovery leaves the Fung-type shape out of its candidates and fits the
+// fung preset beside the discovered model, cross-validated like the others.
+func TestDiscoverComparesFungPreset(t *testing.T) {
+	set := DiscoverSettings{}.withDefaults()
+	for _, sh := range set.Shapes {
+		if sh.Arg == terms.Green {
+			t.Errorf("%s is a default discovery candidate", sh.ID)
+		}
+	}
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 38)
+	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20})
+	p, _ := NewProblem(spec, nil)
+	d, err := Discover(p, DiscoverSettings{MaxTerms: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, c := range d.Presets {
+		if c.Name == "preset:fung" {
+			found = c.CV != nil && len(c.CV.Folds) == len(standardRatios) && len(c.Result.Metrics) > 0
+		}
+	}
+	if !found {
+		t.Errorf("preset:fung missing or not cross-validated among %d presets", len(d.Presets))
+	}
+	for _, c := range d.Pareto {
+		for _, tm := range c.Result.Structure.Terms {
+			if tm.Shape.Arg == terms.Green {
+				t.Errorf("candidate %s uses %s", c.Name, tm.Shape.ID)
+			}
+		}
 	}
 }

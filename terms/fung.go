@@ -85,7 +85,7 @@ func init() {
 		Weight: "w = c of Tong & Fung 1976 (f′(0) = 1/2): at small strain S11 = c (b1 E11 + b3 E22), S22 = c (b3 E11 + b2 E22), S12 = c b4 E12",
 		PolyconvexNote: "NOT polyconvex in general: an exponential of a quadratic form of the Green strain in the tester's axes; " +
 			"it is convex in E when the form is positive definite (b1 > 0, b2 > 0, b1 b2 > b3², and b4 > 0 where shear acts), " +
-			"which weft checks and reports for each parameter set",
+			"which is checked and reported for each parameter set",
 		Source:    "Tong & Fung 1976, J Biomech 9:649–657",
 		convexity: fungConvexity,
 		eval:      fungExp, slope: fungExpSlope,

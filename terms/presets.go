@@ -87,6 +87,9 @@ func init() {
 			},
 			AnglesDeg: []float64{49.98, -49.98}, Kappa: 0.226,
 			Example: "adventitia of a human iliac artery after Gasser, Ogden & Holzapfel 2006 (μ = 7.64 kPa, k1 = 996.6 kPa, k2 = 524.6, κ = 0.226, γ = 49.98°; from memory)"},
+		{Name: "fung", Title: "Fung-type planar exponential in the Green strain (a classical comparison)", Source: "Tong & Fung 1976, J Biomech 9:649–657",
+			Terms:   []PresetTerm{{ID: "fung", Weight: 0.5, Params: []float64{12, 6, 2, 8}}},
+			Example: "illustrative values invented for weft's examples, not measured (c = 0.5 kPa, b1 = 12, b2 = 6, b3 = 2, b4 = 8)"},
 	} {
 		presets[p.Name] = p
 	}

@@ -166,7 +166,7 @@ func TestCatalogueAndPresets(t *testing.T) {
 			t.Errorf("preset %s: %d example angles for %d families", p.Name, len(p.AnglesDeg), p.Families)
 		}
 	}
-	for _, name := range []string{"neo-hookean", "mooney-rivlin", "demiray", "gent", "yeoh", "hgo", "goh"} {
+	for _, name := range []string{"neo-hookean", "mooney-rivlin", "demiray", "gent", "yeoh", "hgo", "goh", "fung"} {
 		if LookupPreset(name) == nil {
 			t.Errorf("preset %s missing", name)
 		}

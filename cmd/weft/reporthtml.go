@@ -411,6 +411,9 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	if cv := c.Conventions; cv != nil {
 		v.Conventions = []htmlFact{{"Angle", cv.Angle}, {"Kinematics", cv.Kinematics}, {"Invariants", cv.Invariants}, {"Energy", cv.Energy},
 			{"Fibre switch", cv.FibreSwitch}, {"Dispersion", cv.Dispersion}, {"Stress", cv.Stress}, {"Normalisations", cv.Normalisations}}
+		if cv.GreenStrain != "" { // cards written before the Fung-type term lack it
+			v.Conventions = append(v.Conventions, htmlFact{"Green strain (fung)", cv.GreenStrain})
+		}
 	}
 	v.Files = in.folderFiles(len(figs))
 	return v

@@ -324,6 +324,40 @@ func TestFungSmallStrainModuli(t *testing.T) {
 	}
 }
 
+// Verification rows of the Fung-type term against closed forms derived from
+// Tong & Fung's stresses: uniaxial tension along axis 1 frees the lateral
+// edge, S22 = c e^Q (b2 E22 + b3 E11) = 0, so E22 = −(b3/b2) E11 and the
+// lateral stretch is √(1 + 2 E22); then σ11 = λ² c e^Q (b1 − b3²/b2) E11.
+// Strip biaxial (λ2 = 1) has σ22 = c e^Q b3 E11 with E22 = 0.
+func TestFungVerificationClosedForms(t *testing.T) {
+	f := fungLaws[0]
+	m := f.model()
+	pts, err := VerificationCases(m, VerificationSettings{Cases: []LoadCase{Uniaxial, StripBiaxial}, DirectionsDeg: []float64{0}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range pts {
+		if p.Err != "" {
+			t.Fatal(p.Err)
+		}
+		l := p.Amount
+		e11 := (l*l - 1) / 2
+		e22 := 0.0
+		if p.Case == Uniaxial {
+			e22 = -f.b3 / f.b2 * e11
+			if lt := math.Sqrt(1 + 2*e22); !near(p.LateralStretch, lt, 1e-12) {
+				t.Errorf("uniaxial λ=%g: lateral stretch %.15g, closed form %.15g", l, p.LateralStretch, lt)
+			}
+		}
+		eq := f.c * math.Exp(f.b1*e11*e11+f.b2*e22*e22+2*f.b3*e11*e22)
+		s11 := l * l * eq * (f.b1*e11 + f.b3*e22)
+		s22 := eq * (f.b2*e22 + f.b3*e11) * (1 + 2*e22)
+		if !near(p.Cauchy[0], s11, 1e-10) || math.Abs(p.Cauchy[1]-s22) > 1e-10*math.Abs(s11) {
+			t.Errorf("%s λ=%g: σ = %v, closed form (%g, %g)", p.Case, l, p.Cauchy, s11, s22)
+		}
+	}
+}
+
 // fungSpecimen generates a specimen from the closed form above (not the
 // package's code path): nominal stress P = F S on the five standard
 // stretch-ratio protocols, 40 points each to a leading strain of 0.25, and,

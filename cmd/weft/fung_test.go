@@ -115,8 +115,8 @@ func TestCheckFungConvexity(t *testing.T) {
 }
 
 // weft terms and weft export show the Fung-type term: its argument, its
-// formula with every coefficient substituted, and the Green-strain
-// convention.
+// formula with every coefficient substituted (plain and LaTeX, where a
+// product of numbers keeps its \cdot), and the Green-strain convention.
 func TestTermsAndExportShowFung(t *testing.T) {
 	out, _, code := runWeft(t, "terms", "--json")
 	var cat struct {
@@ -147,6 +147,7 @@ func TestTermsAndExportShowFung(t *testing.T) {
 	p := doc.Parameters[0]
 	if p.Argument != "Q(E)" || p.Params["b3"] != 2 || p.Polyconvex ||
 		!strings.Contains(doc.Energy, "0.5*(exp(12*E11^2 + 6*E22^2 + 2*2*E11*E22 + 8*(E12^2 + E21^2)) - 1)/2") ||
+		!strings.Contains(doc.EnergyLaTeX, `\frac{0.5}{2}\left(e^{12 E_{11}^{2} + 6 E_{22}^{2} + 2\cdot 2 E_{11} E_{22} + 8 \left(E_{12}^{2} + E_{21}^{2}\right)} - 1\right)`) ||
 		!strings.Contains(doc.Conventions.GreenStrain, "p = 0") || len(doc.Verification) == 0 {
 		t.Errorf("export: %+v\n%s", p, doc.Energy)
 	}

@@ -97,8 +97,10 @@ type Param struct {
 	// Doc says what the parameter means; it is dimensionless.
 	Doc string
 	// Scan, when non-nil, lists the values a fitter's coarse scan tries
-	// (dimensionless); nil means the fitter's own grid for a rate or limit
-	// in the first position and the default otherwise.
+	// (dimensionless; every combination with the other parameters' Scan
+	// values). nil means the default; when no parameter of the shape has
+	// Scan values, the fitter scans its own grid of a rate or limit in the
+	// first position instead.
 	Scan []float64
 	// Shear is true for a parameter that acts only through the in-plane
 	// shear strain E12: data without shear strain cannot determine it, and
@@ -246,8 +248,8 @@ var byID = map[string]*Shape{}
 func Lookup(id string) *Shape { return byID[id] }
 
 // Catalogue returns every shape in a fixed order (isotropic I1, I2, then
-// fibre, cofactor and fifth-invariant shapes, then the Green-strain shape). The slice is a copy; the
-// shapes are shared and must not be modified.
+// fibre, cofactor and fifth-invariant shapes, then the Green-strain shape).
+// The slice is a copy; the shapes are shared and must not be modified.
 func Catalogue() []*Shape { return append([]*Shape(nil), catalogue...) }
 
 // IDs returns all shape ids, sorted.

@@ -530,7 +530,9 @@ type DirectionalModulus struct {
 // Moduli are the small-strain moduli of a model.
 type Moduli struct {
 	// InitialShear is μ0 = 2 Σ w f′(0) over the I1 and I2 terms (stress
-	// unit): the shear modulus of the isotropic part.
+	// unit): the shear modulus of the isotropic part. A Green-strain term
+	// (Tong & Fung 1976) is two-sided but not isotropic; it adds to the
+	// other moduli, not to this one.
 	InitialShear float64
 	// ShearPositive and ShearNegative are the in-plane shear moduli
 	// τ12/γ12 for a small positive and negative shear stress on the axes
@@ -558,6 +560,9 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		if t.Shape.Arg == terms.I1 || t.Shape.Arg == terms.I2 {
 			iso.Terms = append(iso.Terms, t)
 			mod.InitialShear += 2 * t.Weight * t.Shape.Eval(0, t.Params).D1
+		}
+		if t.Shape.Arg == terms.Green {
+			iso.Terms = append(iso.Terms, t) // two-sided, but not isotropic
 		}
 	}
 	base, err := iso.Tangent(I)

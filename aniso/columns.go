@@ -123,8 +123,9 @@ type Columns struct {
 	A []float64
 	// DAngle holds ∂column_k/∂α of term k's family angle (per radian; zero
 	// for isotropic terms); DKappa ∂column_k/∂κ of its family's dispersion;
-	// DParam[j] ∂column_k/∂θ_j of the term's j-th shape parameter. They are
-	// filled only when derivatives are asked for.
+	// DParam[j] ∂column_k/∂θ_j of the term's j-th shape parameter, for
+	// j < len(term's Params) only (other entries are left as they were).
+	// They are filled only when derivatives are asked for.
 	DAngle, DKappa []float64
 	DParam         [terms.MaxParams][]float64
 	// Skip, when non-nil, marks terms whose columns Fill leaves as they are
@@ -142,8 +143,9 @@ type Columns struct {
 	famTerms []int
 }
 
-// resize makes c hold rows×cols entries, reusing its buffers.
-func (c *Columns) resize(rows, cols int, derivs bool) {
+// resize makes c hold rows×cols entries, reusing its buffers; with derivs
+// it sizes the first nparams parameter-derivative buffers.
+func (c *Columns) resize(rows, cols, nparams int, derivs bool) {
 	n := rows * cols
 	c.Rows, c.Cols = rows, cols
 	grow := func(b []float64) []float64 {
@@ -156,7 +158,7 @@ func (c *Columns) resize(rows, cols int, derivs bool) {
 	if derivs {
 		c.DAngle = grow(c.DAngle)
 		c.DKappa = grow(c.DKappa)
-		for j := range c.DParam {
+		for j := range nparams {
 			c.DParam[j] = grow(c.DParam[j])
 		}
 	}
@@ -169,7 +171,7 @@ func (c *Columns) resize(rows, cols int, derivs bool) {
 // their derivative columns are zero.
 func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 	rows, nc, np, nf := d.Rows(), len(d.out.Components), len(d.kin), len(m.Families)
-	c.resize(rows, len(m.Terms), derivs)
+	c.resize(rows, len(m.Terms), maxShapeParams(m), derivs)
 	if cap(c.fk) < np*nf {
 		c.fk = make([]FibreKinematics, np*nf)
 		c.fb = make([]famBases, np*nf)
@@ -210,6 +212,10 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			continue
 		}
 		col := c.A[t*rows : (t+1)*rows]
+		if term.Shape.Arg == terms.Green {
+			d.fillGreen(term, col, c, t*rows, derivs)
+			continue
+		}
 		if !term.Shape.Arg.NeedsFamily() {
 			d.fillIsotropic(term, col, c, t*rows, derivs)
 			continue
@@ -224,7 +230,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			if !s.Active {
 				clear(a)
 				if derivs {
-					c.clearDerivs(t*rows+r0, nc)
+					c.clearDerivs(t*rows+r0, nc, len(term.Params))
 				}
 				continue
 			}
@@ -247,14 +253,14 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			base := t*rows + r0
 			if math.IsInf(v.D1, 0) || math.IsInf(v.D2, 0) {
 				// The column overflows; a fitter treats it as infeasible.
-				c.clearDerivs(base, nc)
+				c.clearDerivs(base, nc, len(term.Params))
 				continue
 			}
 			g := term.Shape.D1ParamGrad(s.X, term.Params)
 			sl := slopes(term.Shape.Arg, kappa, k, &fk[q])
 			da, dk := v.D2*sl.DxA, v.D2*sl.DxK
 			for j := range a {
-				for p := range c.DParam {
+				for p := range term.Params {
 					c.DParam[p][base+j] = mul0(g[p], h[j])
 				}
 				c.DAngle[base+j] = da*h[j] + v.D1*(sl.DCA[0]*b1[j]+s.C[2]*bases.dg4[j]+s.C[3]*bases.dg5[j])
@@ -299,19 +305,30 @@ func (d *Dataset) fillIsotropic(term *Term, col []float64, c *Columns, off int, 
 		}
 		for j := range a {
 			a[j] = mul0(v.D1, h[j])
-			for p := range c.DParam {
+			for p := range term.Params {
 				c.DParam[p][off+r0+j] = mul0(g[p], h[j])
 			}
 		}
 	}
 }
 
-func (c *Columns) clearDerivs(base, n int) {
+// clearDerivs zeroes n rows from base of the derivative columns, the
+// parameter derivatives of the term's nparams parameters included.
+func (c *Columns) clearDerivs(base, n, nparams int) {
 	clear(c.DAngle[base : base+n])
 	clear(c.DKappa[base : base+n])
-	for p := range c.DParam {
+	for p := range nparams {
 		clear(c.DParam[p][base : base+n])
 	}
+}
+
+// maxShapeParams is the largest number of shape parameters of m's terms.
+func maxShapeParams(m *Model) int {
+	n := 0
+	for i := range m.Terms {
+		n = max(n, len(m.Terms[i].Params))
+	}
+	return n
 }
 
 // convert returns the requested components of a finite Cauchy tensor s (as

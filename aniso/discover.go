@@ -30,13 +30,15 @@ type DiscoverSettings struct {
 	// off by default (for membranes the in-plane spread is the physical
 	// one).
 	Dispersion bool
-	// Shapes are the candidate shapes (default: the whole catalogue).
+	// Shapes are the candidate shapes (default: the whole catalogue but the
+	// Green-strain shape of Tong & Fung 1976, which is a classical model to
+	// compare with, fitted as a preset, not a mechanism to discover).
 	Shapes []*terms.Shape
 	// RefitPerSize is how many of the best subsets of each size are refitted
 	// with their own angles and shape parameters (default 2).
 	RefitPerSize int
 	// Presets are the classical presets fitted for comparison (default
-	// neo-hookean, hgo, goh).
+	// neo-hookean, hgo, goh, fung).
 	Presets []string
 	// ExhaustiveLimit is the largest number of subsets searched exhaustively
 	// per layout (default 200 000); beyond it a forward search with swaps
@@ -60,13 +62,17 @@ func (s DiscoverSettings) withDefaults() DiscoverSettings {
 		s.Layouts = []Layout{LayoutNone, LayoutSingle, LayoutMirror, LayoutFree}
 	}
 	if s.Shapes == nil {
-		s.Shapes = terms.Catalogue()
+		for _, sh := range terms.Catalogue() {
+			if sh.Arg != terms.Green {
+				s.Shapes = append(s.Shapes, sh)
+			}
+		}
 	}
 	if s.RefitPerSize <= 0 {
 		s.RefitPerSize = 2
 	}
 	if s.Presets == nil {
-		s.Presets = []string{"neo-hookean", "hgo", "goh"}
+		s.Presets = []string{"neo-hookean", "hgo", "goh", "fung"}
 	}
 	if s.ExhaustiveLimit <= 0 {
 		s.ExhaustiveLimit = 200000

@@ -323,6 +323,9 @@ type Result struct {
 	// alternates are the refined θ of the other starts with their losses,
 	// best first (other local minima, used as anchors by discovery).
 	alternates [][]float64
+	// held are the shape parameters held at 0 for want of shear strain
+	// (see heldShear).
+	held []heldParam
 }
 
 // canonical orders a structure's terms as the catalogue lists them,
@@ -427,13 +430,57 @@ var (
 	concentrationGrid = []float64{1, 4, 16}
 )
 
-// dictEntry says which structure term, parameter value and κ a dictionary
+// dictEntry says which structure term, parameter values and κ a dictionary
 // column stands for.
 type dictEntry struct {
-	spec  int
-	param float64
-	hasP  bool
-	kappa int // index into kappaGrid (or concentrationGrid), or −1
+	spec   int
+	params []float64
+	hasP   bool
+	kappa  int // index into kappaGrid (or concentrationGrid), or −1
+}
+
+// scanParams returns the parameter vectors the dictionary tries for a
+// shape: the product of the Scan values of the parameters that have them
+// (the others at their defaults), or else the rate or limit grid on the
+// first parameter; one empty vector for a shape without parameters.
+func scanParams(sh *terms.Shape) [][]float64 {
+	if len(sh.Params) == 0 {
+		return [][]float64{nil}
+	}
+	out := [][]float64{sh.DefaultParams()}
+	scanned := false
+	for j, q := range sh.Params {
+		if q.Scan == nil {
+			continue
+		}
+		scanned = true
+		var next [][]float64
+		for _, p := range out {
+			for _, v := range q.Scan {
+				c := append([]float64(nil), p...)
+				c[j] = v
+				next = append(next, c)
+			}
+		}
+		out = next
+	}
+	if scanned {
+		return out
+	}
+	grid := rateGrid
+	if sh.Params[0].Name == "limit" {
+		grid = limitGrid
+	}
+	out = out[:0]
+	q := sh.Params[0]
+	for _, v := range grid {
+		if v >= q.Min && v <= q.Max {
+			p := sh.DefaultParams()
+			p[0] = v
+			out = append(out, p)
+		}
+	}
+	return out
 }
 
 // dictionary builds the rate- and dispersion-agnostic model used by the
@@ -466,21 +513,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 	var groups [][]int
 	var entries []dictEntry
 	for s, t := range st.Terms {
-		values := []float64{math.NaN()}
 		hasP := len(t.Shape.Params) > 0
-		if hasP {
-			grid := rateGrid
-			if t.Shape.Params[0].Name == "limit" {
-				grid = limitGrid
-			}
-			values = values[:0]
-			q := t.Shape.Params[0]
-			for _, v := range grid {
-				if v >= q.Min && v <= q.Max {
-					values = append(values, v)
-				}
-			}
-		}
 		kis := []int{-1}
 		if t.Family >= 0 {
 			kis = kis[:0]
@@ -488,12 +521,8 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 				kis = append(kis, ki)
 			}
 		}
-		for _, v := range values {
+		for _, params := range scanParams(t.Shape) {
 			for _, ki := range kis {
-				params := t.Shape.DefaultParams()
-				if hasP {
-					params[0] = v
-				}
 				var g []int
 				fams := []int{t.Family}
 				if t.Family < 0 {
@@ -510,7 +539,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 					m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: fam, Params: append([]float64(nil), params...)})
 				}
 				groups = append(groups, g)
-				entries = append(entries, dictEntry{spec: s, param: v, hasP: hasP, kappa: ki})
+				entries = append(entries, dictEntry{spec: s, params: params, hasP: hasP, kappa: ki})
 			}
 		}
 	}
@@ -536,6 +565,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	st = canonical(st)
 	start := time.Now()
 	m, groups, famOf, params := build(st)
+	params, held := heldShear(p, m, groups, params)
 	nAngles := 0
 	for _, q := range params {
 		if q.Kind == kindAngle {
@@ -543,7 +573,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 		}
 	}
 	set = set.withDefaults(nAngles)
-	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear}
+	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear, held: held}
 
 	var starts [][]float64
 	if set.Init != nil {
@@ -659,6 +689,7 @@ func (r *Result) settle(p *Problem, e *engine, theta []float64) {
 	r.uncertainty(p)
 	r.metrics(p)
 	r.notes(p)
+	r.greenNotes(p, r.held)
 }
 
 // offSymmetry moves an angle that sits on 0 or 90° (stationary points of
@@ -822,7 +853,7 @@ func dominantParam(de *engine, entries []dictEntry, q param) float64 {
 			continue
 		}
 		if c := de.w[g] * de.norm[g]; c > best {
-			best, v = c, en.param
+			best, v = c, en.params[q.Index]
 		}
 	}
 	if math.IsNaN(v) {

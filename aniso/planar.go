@@ -389,11 +389,11 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 			np := len(term.Shape.Params)
 			// Moments of f′ and of its derivatives: [0] value, [1] angle,
 			// [2] concentration, [3+j] shape parameter j.
-			var mom [3 + maxShapeParams][3]float64
+			var mom [3 + terms.MaxParams][3]float64
 			over := false
 			for _, nd := range c.rule.Nodes {
 				var d1 float64
-				var g [maxShapeParams]float64
+				var g [terms.MaxParams]float64
 				if derivs {
 					d1 = term.Shape.Eval(nd.X, term.Params).D1
 					gg := term.Shape.D1ParamGrad(nd.X, term.Params)
@@ -432,7 +432,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 					a[j] = mul0(math.Inf(1), b0[j]+bc[j]+bs[j])
 				}
 				if derivs {
-					c.clearDerivs(base, nc)
+					c.clearDerivs(base, nc, np)
 				}
 				continue
 			}
@@ -447,20 +447,12 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 			}
 			comb(&mom[1], c.DAngle[base:base+nc])
 			comb(&mom[2], c.DKappa[base:base+nc])
-			for j := range c.DParam {
-				if j < np {
-					comb(&mom[3+j], c.DParam[j][base:base+nc])
-				} else {
-					clear(c.DParam[j][base : base+nc])
-				}
+			for j := 0; j < np; j++ {
+				comb(&mom[3+j], c.DParam[j][base:base+nc])
 			}
 		}
 	}
 }
-
-// maxShapeParams is the largest number of shape parameters the planar
-// integration carries derivatives for.
-const maxShapeParams = terms.MaxParams
 
 // addPlanar adds a fibre term on a planar family to the tangent: the
 // integral over the stretched directions of the ideal family's energy,

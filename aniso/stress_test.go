@@ -208,7 +208,9 @@ func presetModel(t *testing.T, p *terms.Preset) *Model {
 // Objectivity / material frame: rotating the loading frame by φ and the
 // fibre angles by φ together leaves the energy unchanged (Holzapfel 2000,
 // §6.2; common practice). With F' = R F Rᵀ and a0' = R a0, every invariant
-// is the same.
+// is the same. The Fung-type term's axes are the tester's, not a family's;
+// at its default b1 = b2 = b4, b3 = 0 its Q = b1 tr(E²) is in-plane
+// isotropic, so it belongs here too (TestFungObjectivity covers other b).
 func TestRotationInvariance(t *testing.T) {
 	m := allTermsModel()
 	F := [4]float64{1.18, 0.07, -0.04, 1.06}

@@ -264,6 +264,9 @@ func (m *Model) Tangent(F [4]float64) (Tangent, error) {
 			kappa = m.Families[term.Family].Dispersion
 		}
 		x, on := argJet(term.Shape.Arg, kappa, &q, I4, I5, K)
+		if term.Shape.Arg == terms.Green {
+			x, on = greenJet(F, term.Params), true
+		}
 		if !on {
 			continue
 		}

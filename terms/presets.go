@@ -6,8 +6,9 @@ import "sort"
 type PresetTerm struct {
 	// ID is the catalogue shape id.
 	ID string
-	// Family is 0 for an isotropic term, 1 or 2 for a term of the first or
-	// second fibre family.
+	// Family is 0 for a term without a fibre family (isotropic, or the
+	// Green-strain term whose axes are the tester's), 1 or 2 for a term of
+	// the first or second fibre family.
 	Family int
 	// Weight is an illustrative weight in kPa (see Preset.Example).
 	Weight float64
@@ -87,6 +88,9 @@ func init() {
 			},
 			AnglesDeg: []float64{49.98, -49.98}, Kappa: 0.226,
 			Example: "adventitia of a human iliac artery after Gasser, Ogden & Holzapfel 2006 (μ = 7.64 kPa, k1 = 996.6 kPa, k2 = 524.6, κ = 0.226, γ = 49.98°; from memory)"},
+		{Name: "fung", Title: "Fung-type planar exponential in the Green strain (a classical comparison)", Source: "Tong & Fung 1976, J Biomech 9:649–657",
+			Terms:   []PresetTerm{{ID: "fung", Weight: 0.5, Params: []float64{12, 6, 2, 8}}},
+			Example: "illustrative values invented for weft's examples, not measured (c = 0.5 kPa, b1 = 12, b2 = 6, b3 = 2, b4 = 8)"},
 	} {
 		presets[p.Name] = p
 	}

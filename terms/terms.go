@@ -14,6 +14,14 @@
 //	E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1)   fibre terms, Gasser, Ogden & Holzapfel 2006
 //	K − 1, K = I5 − I1 I4 + I2          cofactor-fibre terms, Schröder & Neff 2003
 //	I5 − 1                              raw fifth-invariant terms (not polyconvex)
+//	Q(E) = b1 E11² + b2 E22² + 2 b3 E11 E22 + b4 (E12² + E21²)
+//	                                    Tong & Fung 1976, Green strain in the
+//	                                    tester's axes (not polyconvex)
+//
+// The last argument is not an invariant: E = (C − 1)/2 is the Green strain of
+// the in-plane C in the tester's axes 1, 2, so a term in Q(E) is anisotropic
+// with its axes fixed to the specimen's loading axes, and its non-linear
+// parameters b1…b4 enter through the argument Q, not through the shape.
 //
 // Evaluation is overflow-safe: an exponential shape at a large argument
 // returns +Inf, never NaN, and a limiting-extensibility shape beyond its
@@ -45,6 +53,13 @@ const (
 	// Fifth is x = I5 − 1 with I5 = a0·C²a0. Terms in I5 carry energy only
 	// while I4 > 1 and are not polyconvex.
 	Fifth
+	// Green is x = Q(E) = b1 E11² + b2 E22² + 2 b3 E11 E22 + b4 (E12² + E21²),
+	// the quadratic form of the Green strain E = (C − 1)/2 of the in-plane C
+	// in the tester's axes 1, 2 (Tong & Fung 1976, J Biomech 9:649–657), with
+	// the shape's parameters b1…b4. Q is zero in the reference state. A
+	// shape of this argument knows f(Q); the fitter evaluates Q and its
+	// derivatives with respect to E and b, so D1ParamGrad is zero for it.
+	Green
 )
 
 // String returns the argument as written in formulas, e.g. "I1-3".
@@ -60,6 +75,8 @@ func (a Argument) String() string {
 		return "K-1"
 	case Fifth:
 		return "I5-1"
+	case Green:
+		return "Q(E)"
 	}
 	return fmt.Sprintf("Argument(%d)", int(a))
 }
@@ -79,6 +96,16 @@ type Param struct {
 	Min, Max float64
 	// Doc says what the parameter means; it is dimensionless.
 	Doc string
+	// Scan, when non-nil, lists the values a fitter's coarse scan tries
+	// (dimensionless; every combination with the other parameters' Scan
+	// values). nil means the default; when no parameter of the shape has
+	// Scan values, the fitter scans its own grid of a rate or limit in the
+	// first position instead.
+	Scan []float64
+	// Shear is true for a parameter that acts only through the in-plane
+	// shear strain E12: data without shear strain cannot determine it, and
+	// a fitter holds it at 0 instead.
+	Shear bool
 }
 
 // Value is a shape and its first two derivatives at one argument.
@@ -114,6 +141,10 @@ type Shape struct {
 	// rate b = 0 (e.g. w·x²/2 for an exponential of a square), when it has
 	// a rate; the general formula divides by b.
 	zeroRate [2]string
+
+	// convexity, when set, checks a parameter-dependent convexity
+	// condition (see ConvexityCondition).
+	convexity func(p []float64, shear bool) Convexity
 
 	eval func(x float64, p []float64) Value
 	// slope returns f′ alone, cheaper than eval; nil means eval().D1.
@@ -159,6 +190,30 @@ func (s *Shape) D1ParamGrad(x float64, p []float64) [MaxParams]float64 {
 	return s.dD1(x, p)
 }
 
+// Convexity is the outcome of a shape's parameter-dependent convexity
+// condition for one set of parameter values.
+type Convexity struct {
+	// Condition states the condition in words.
+	Condition string
+	// Holds is true when the values meet it.
+	Holds bool
+	// Detail gives the numbers and, when it fails, which part fails.
+	Detail string
+}
+
+// ConvexityCondition checks the convexity condition of a shape that is not
+// polyconvex in general but is convex in its own strain measure for part
+// of its parameter range (the Tong & Fung 1976 exponential: convex in the
+// Green strain when its quadratic form is positive definite). shear says
+// whether in-plane shear acts, so that a shear coefficient must be
+// positive too. ok is false for shapes without such a condition.
+func (s *Shape) ConvexityCondition(p []float64, shear bool) (c Convexity, ok bool) {
+	if s.convexity == nil || len(p) != len(s.Params) {
+		return Convexity{}, false
+	}
+	return s.convexity(p, shear), true
+}
+
 // DefaultParams returns a new slice with every parameter at its default.
 func (s *Shape) DefaultParams() []float64 {
 	p := make([]float64, len(s.Params))
@@ -197,7 +252,7 @@ func (s *Shape) Kinks(p []float64) (k [2]float64, n int) {
 }
 
 // MaxParams is the largest number of non-linear parameters of any shape.
-const MaxParams = 2
+const MaxParams = 4
 
 var byID = map[string]*Shape{}
 
@@ -205,8 +260,8 @@ var byID = map[string]*Shape{}
 func Lookup(id string) *Shape { return byID[id] }
 
 // Catalogue returns every shape in a fixed order (isotropic I1, I2, then
-// fibre, cofactor and fifth-invariant shapes). The slice is a copy; the
-// shapes are shared and must not be modified.
+// fibre, cofactor and fifth-invariant shapes, then the Green-strain shape).
+// The slice is a copy; the shapes are shared and must not be modified.
 func Catalogue() []*Shape { return append([]*Shape(nil), catalogue...) }
 
 // IDs returns all shape ids, sorted.

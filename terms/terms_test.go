@@ -130,15 +130,18 @@ func TestOverflow(t *testing.T) {
 }
 
 func TestCatalogueAndPresets(t *testing.T) {
-	if n := len(Catalogue()); n != 16 {
-		t.Errorf("catalogue has %d shapes, documented 16", n)
+	if n := len(Catalogue()); n != 17 {
+		t.Errorf("catalogue has %d shapes, documented 17", n)
 	}
 	poly := 0
 	for _, s := range Catalogue() {
 		if s.Polyconvex {
 			poly++
-		} else if s.Arg != Fifth {
-			t.Errorf("%s: only raw I5 shapes may be non-polyconvex", s.ID)
+		} else if s.Arg != Fifth && s.Arg != Green {
+			t.Errorf("%s: only raw I5 and Green-strain shapes may be non-polyconvex", s.ID)
+		}
+		if _, ok := s.ConvexityCondition(s.DefaultParams(), true); ok != (s.Arg == Green) {
+			t.Errorf("%s: the Green-strain shape states its convexity condition, and only it", s.ID)
 		}
 	}
 	if Lookup("i5-quad").Polyconvex {
@@ -163,7 +166,7 @@ func TestCatalogueAndPresets(t *testing.T) {
 			t.Errorf("preset %s: %d example angles for %d families", p.Name, len(p.AnglesDeg), p.Families)
 		}
 	}
-	for _, name := range []string{"neo-hookean", "mooney-rivlin", "demiray", "gent", "yeoh", "hgo", "goh"} {
+	for _, name := range []string{"neo-hookean", "mooney-rivlin", "demiray", "gent", "yeoh", "hgo", "goh", "fung"} {
 		if LookupPreset(name) == nil {
 			t.Errorf("preset %s missing", name)
 		}
@@ -191,5 +194,65 @@ func TestZeroRateLimit(t *testing.T) {
 		if math.Abs(v0-want) > 1e-15 {
 			t.Errorf("%s: f(%g) at rate 0 = %g, limit %g", s.ID, x, v0, want)
 		}
+	}
+}
+
+// The Tong & Fung 1976 energy (J Biomech 9:649–657; form from memory)
+// W = c/2 (e^Q − 1) with Q = b1 E11² + b2 E22² + 2 b3 E11 E22 + b4 (E12² + E21²):
+// the catalogue shape is f(Q) = (e^Q − 1)/2 with w = c, written out in the
+// formula with every coefficient.
+func TestFungPublishedForm(t *testing.T) {
+	s := Lookup("fung")
+	if s == nil || s.Arg != Green || len(s.Params) != 4 {
+		t.Fatalf("fung shape: %+v", s)
+	}
+	c, b := 0.8, []float64{12, 7, 2.5, 9}
+	E11, E22, E12 := 0.21, 0.13, 0.04
+	Q := b[0]*E11*E11 + b[1]*E22*E22 + 2*b[2]*E11*E22 + b[3]*(E12*E12+E12*E12)
+	want := c / 2 * (math.Exp(Q) - 1)
+	if got := c * s.Eval(Q, b).F; math.Abs(got-want) > 1e-14*want {
+		t.Errorf("energy %.16g, published form %.16g", got, want)
+	}
+	for _, sym := range []string{"b_1*E11^2", "b_2*E22^2", "2*b_3*E11*E22", "b_4*(E12^2 + E21^2)"} {
+		if !strings.Contains(s.Formula, sym) {
+			t.Errorf("formula %q lacks %q", s.Formula, sym)
+		}
+	}
+	if s.Params[2].Min >= 0 || s.Params[0].Min != 0 || s.Params[1].Min != 0 || s.Params[3].Min != 0 || !s.Params[3].Shear {
+		t.Errorf("bounds: b1, b2, b4 ≥ 0, b3 may be negative, b4 is the shear coefficient: %+v", s.Params)
+	}
+}
+
+// Convexity condition of the Fung-type energy: e^Q is convex in E when the
+// quadratic form Q is positive definite (common practice: a convex
+// non-decreasing function of a convex function is convex). Checked on a
+// convex set, a set with b3² > b1 b2 (Q indefinite: along E11 = −E22 it
+// decreases, so e^Q is not convex there), and b4 = 0 with and without shear.
+func TestFungConvexityCondition(t *testing.T) {
+	s := Lookup("fung")
+	c, ok := s.ConvexityCondition([]float64{12, 7, 2.5, 9}, true)
+	if !ok || !c.Holds || !strings.Contains(c.Detail, "holds") {
+		t.Errorf("convex set reported %+v", c)
+	}
+	bad := []float64{4, 1, 3, 9}
+	c, _ = s.ConvexityCondition(bad, true)
+	if c.Holds || !strings.Contains(c.Detail, "b1 b2 ≤ b3²") || !strings.Contains(c.Detail, "-5") {
+		t.Errorf("b3² > b1 b2 reported %+v", c)
+	}
+	// Independent check that this set is not convex: Q along E = t(1, −1, 0)
+	// is (b1 + b2 − 2 b3) t² = −1·t², and (e^Q − 1)/2 has negative second
+	// derivative −1 there at t = 0.
+	q := func(t float64) float64 { return bad[0]*t*t + bad[1]*t*t - 2*bad[2]*t*t }
+	h := 1e-3
+	f := func(t float64) float64 { return s.Eval(q(t), bad).F }
+	if d2 := (f(h) - 2*f(0) + f(-h)) / (h * h); d2 >= 0 {
+		t.Errorf("non-convex set: second difference %g along (1, −1), want < 0", d2)
+	}
+	noShear := []float64{12, 7, 2.5, 0}
+	if c, _ := s.ConvexityCondition(noShear, true); c.Holds || !strings.Contains(c.Detail, "b4 ≤ 0") {
+		t.Errorf("b4 = 0 with shear reported %+v", c)
+	}
+	if c, _ := s.ConvexityCondition(noShear, false); !c.Holds || !strings.Contains(c.Detail, "shear not considered") {
+		t.Errorf("b4 = 0 without shear reported %+v", c)
 	}
 }

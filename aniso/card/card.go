@@ -45,6 +45,7 @@ type Conventions struct {
 	InPlane        string `json:"in_plane_dispersion"`
 	Stress         string `json:"stress"`
 	Normalisations string `json:"normalisations"`
+	GreenStrain    string `json:"green_strain"`
 }
 
 // StandardConventions are weft's conventions (see the README).
@@ -59,7 +60,10 @@ var StandardConventions = Conventions{
 		"each of its terms is w <f(E(t))> = w * integral of rho(t) f(I4(t) - 1) dt with a0(t) = (cos t, sin t, 0) and I4(t) = a0(t).C a0(t), each direction carrying load only while its own I4(t) > 1 " +
 		"(angular integration; Lanir 1983, Sacks 2003); written <...>_name in 'energy'",
 	Stress:         "plane stress sigma33 = 0; Cauchy sigma = -p 1 + 2 psi1 B + 2 psi2 (I1 B - B^2) + sum_families [2 psi4 a(x)a + 2 psi5 (a(x)Ba + Ba(x)a)]; nominal P = sigma F^-T",
-	Normalisations: "i1-lin weight = C10 = mu/2; *-exp: w (exp(b x) - 1)/b; *-expsq: w (exp(b x^2) - 1)/(2 b) (w = k1, b = k2 of Holzapfel, Gasser & Ogden 2000); *-gent: -w J ln(1 - x/J); fib-exp: w (exp(b x) - 1 - b x)/b^2; *-quad: w x^2; *-cube: w x^3",
+	Normalisations: "i1-lin weight = C10 = mu/2; *-exp: w (exp(b x) - 1)/b; *-expsq: w (exp(b x^2) - 1)/(2 b) (w = k1, b = k2 of Holzapfel, Gasser & Ogden 2000); *-gent: -w J ln(1 - x/J); fib-exp: w (exp(b x) - 1 - b x)/b^2; *-quad: w x^2; *-cube: w x^3; fung: w (exp(Q) - 1)/2 (w = c of Tong & Fung 1976)",
+	GreenStrain: "fung terms act on the Green strain E = (C - 1)/2 of the in-plane C in the tester's axes 1, 2 (E11 = (C11 - 1)/2, E22 = (C22 - 1)/2, E12 = E21 = C12/2), " +
+		"Q = b1 E11^2 + b2 E22^2 + 2 b3 E11 E22 + b4 (E12^2 + E21^2) (Tong & Fung 1976); the energy does not depend on C33, so plane stress gives p = 0 and " +
+		"sigma = F S F^T with S = dW/dE = w exp(Q) (b1 E11 + b3 E22, b2 E22 + b3 E11, b4 E12); nominal P = F S; its axes are fixed in the specimen, not a fibre family",
 }
 
 // Family is a fibre family in a card.

@@ -33,6 +33,16 @@ type checkTerm struct {
 	Family     string `json:"family,omitempty"`
 	Polyconvex bool   `json:"polyconvex"`
 	Note       string `json:"note"`
+	// Convexity is the parameter-dependent convexity condition of a term
+	// that has one (the Fung-type term), checked for the card's values.
+	Convexity *checkConvexity `json:"convexity_condition,omitempty"`
+}
+
+// checkConvexity is a term's convexity condition and its outcome.
+type checkConvexity struct {
+	Condition string `json:"condition"`
+	Holds     bool   `json:"holds"`
+	Detail    string `json:"detail"`
 }
 
 type checkPoint struct {
@@ -127,7 +137,9 @@ func newCheckCmd() *cobra.Command {
   1. stress-free reference: |sigma| at F = I at most 1e-9 times the sum of the
      weights;
   2. polyconvexity: which terms keep the energy polyconvex and which do not
-     (reported, not failed);
+     (reported, not failed); for the Fung-type term (Tong & Fung 1976) its
+     convexity condition b1 > 0, b2 > 0, b1 b2 > b3^2 and, when the grid
+     shears (--shear > 0), b4 > 0 (reported, not failed);
   3. material stability on a grid: every pure stretch (lambda1, lambda2) with
      both stretches in --range (default 0.7 to 1.6, --steps per axis), each
      also with a simple shear F12 or F21 of +-shear and +-shear/2. Criterion:
@@ -221,10 +233,17 @@ func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, 
 		if t.Family >= 0 {
 			ct.Family = names[t.Family]
 		}
+		cc, hasCondition := t.Shape.ConvexityCondition(t.Params, g.ShearMax > 0)
+		if hasCondition {
+			ct.Convexity = &checkConvexity{Condition: cc.Condition, Holds: cc.Holds, Detail: cc.Detail}
+		}
 		rep.Polyconvexity.Terms = append(rep.Polyconvexity.Terms, ct)
 		if !t.Shape.Polyconvex && t.Weight > 0 {
 			rep.Polyconvexity.AllTerms = false
 			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): %s", i+1, t.Shape.ID, t.Shape.PolyconvexNote))
+		}
+		if hasCondition && !cc.Holds && t.Weight > 0 {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): its convexity condition does not hold: %s (%s)", i+1, t.Shape.ID, cc.Condition, cc.Detail))
 		}
 		if t.Shape.Arg == terms.Fibre && t.Weight > 0 && t.Family >= 0 {
 			if k := m.Families[t.Family].Dispersion; k > 0 && !dispersedWarned[t.Family] {
@@ -324,8 +343,11 @@ func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, 
 		"with the other in-plane stresses zero; fibre and I5 terms engage only while their family stretches (I4 > 1) and cofactor terms " +
 		"only while K > 1, each adding its stiffness w f''(0) grad x (x) grad x on one side only, so tension and compression differ; the engaged terms are listed; " +
 		"0 means no small-strain stiffness"
-	if mod.InitialShear <= 0 {
+	if mod.InitialShear <= 0 && !hasGreenTerm(m) {
 		rep.Warnings = append(rep.Warnings, "the isotropic terms give no initial shear modulus: at small strain the membrane relies on fibres alone or has no stiffness")
+	}
+	if hasGreenTerm(m) {
+		rep.Moduli.Note += "; a Fung-type term (Tong & Fung 1976) acts on both sides and is anisotropic in the tester's axes: it adds to every modulus but not to the isotropic initial shear modulus mu0"
 	}
 
 	// 6. Data range.
@@ -372,6 +394,16 @@ func gridExtrapolation(dr *card.DataRange, m *aniso.Model, g aniso.StabilityGrid
 	return out
 }
 
+// hasGreenTerm reports whether m has an active term in the Green strain.
+func hasGreenTerm(m *aniso.Model) bool {
+	for _, t := range m.Terms {
+		if t.Shape.Arg == terms.Green && t.Weight > 0 {
+			return true
+		}
+	}
+	return false
+}
+
 func passText(ok bool) string {
 	if ok {
 		return "pass"
@@ -400,6 +432,13 @@ func printCheck(w io.Writer, r *checkReport) {
 			yes = "NO "
 		}
 		fmt.Fprintf(w, "     %2d %-14s %s  %s\n", t.Term, t.ID+fam, yes, t.Note)
+		if c := t.Convexity; c != nil {
+			verdict := "holds"
+			if !c.Holds {
+				verdict = "DOES NOT HOLD (warning)"
+			}
+			fmt.Fprintf(w, "        convexity condition %s: %s; %s\n", verdict, c.Condition, c.Detail)
+		}
 	}
 	g := r.Grid
 	fmt.Fprintf(w, "   Grid: lambda1, lambda2 in [%g, %g], %d per axis; shear: %s; %d points, %d evaluated; tolerance %.3g %s\n",

@@ -356,7 +356,7 @@ func writeExportTable(w io.Writer, d *exportDoc) {
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "CONVENTIONS")
 	cv := d.Conventions
-	for _, s := range []string{cv.Angle, cv.Kinematics, cv.Invariants, cv.Energy, cv.FibreSwitch, cv.Dispersion, cv.InPlane, cv.Stress, cv.Normalisations} {
+	for _, s := range []string{cv.Angle, cv.Kinematics, cv.Invariants, cv.Energy, cv.FibreSwitch, cv.Dispersion, cv.InPlane, cv.Stress, cv.Normalisations, cv.GreenStrain} {
 		fmt.Fprintln(w, "  - "+s)
 	}
 	fmt.Fprintln(w)

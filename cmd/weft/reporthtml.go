@@ -422,7 +422,13 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	// Conventions.
 	if cv := c.Conventions; cv != nil {
 		v.Conventions = []htmlFact{{"Angle", cv.Angle}, {"Kinematics", cv.Kinematics}, {"Invariants", cv.Invariants}, {"Energy", cv.Energy},
-			{"Fibre switch", cv.FibreSwitch}, {"Dispersion", cv.Dispersion}, {"In-plane dispersion", cv.InPlane}, {"Stress", cv.Stress}, {"Normalisations", cv.Normalisations}}
+			{"Fibre switch", cv.FibreSwitch}, {"Dispersion", cv.Dispersion}, {"Stress", cv.Stress}, {"Normalisations", cv.Normalisations}}
+		if cv.InPlane != "" { // cards written before in-plane dispersion lack it
+			v.Conventions = append(v.Conventions, htmlFact{"In-plane dispersion", cv.InPlane})
+		}
+		if cv.GreenStrain != "" { // cards written before the Fung-type term lack it
+			v.Conventions = append(v.Conventions, htmlFact{"Green strain (fung)", cv.GreenStrain})
+		}
 	}
 	v.Files = in.folderFiles(len(figs))
 	return v

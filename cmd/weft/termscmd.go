@@ -148,6 +148,9 @@ func printCatalogue(w io.Writer, ts []termInfo, ps []presetInfo) error {
 	tw.Flush()
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "Arguments: I1-3, I2-3; E_f = kappa(I1-3) + (1-3 kappa)(I4-1), zero while I4 <= 1;")
-	fmt.Fprintln(w, "K-1 with K = I5 - I1 I4 + I2; I5-1, zero while I4 <= 1. See the README for conventions.")
+	fmt.Fprintln(w, "K-1 with K = I5 - I1 I4 + I2; I5-1, zero while I4 <= 1;")
+	fmt.Fprintln(w, "Q(E) = b1 E11^2 + b2 E22^2 + 2 b3 E11 E22 + b4 (E12^2 + E21^2) of the Green strain E = (C - 1)/2")
+	fmt.Fprintln(w, "in the tester's axes (fung: a classical comparison, fitted as a preset, not a discovery candidate).")
+	fmt.Fprintln(w, "See the README for conventions.")
 	return nil
 }

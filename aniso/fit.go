@@ -331,21 +331,45 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	return m, groups, famOf, ps
 }
 
-// dictionary grids: rates and limits spread over decades, dispersion over
-// its range. Used only to find starting points.
-var (
-	rateGrid  = []float64{0.3, 3, 30, 300}
-	limitGrid = []float64{0.3, 1, 3, 10, 100}
-	kappaGrid = []float64{0, 0.15, 0.3}
-)
+// kappaGrid is the dictionary grid of the dispersion κ over its range;
+// shape parameters take theirs from terms.Param.Grid. Used only to find
+// starting points.
+var kappaGrid = []float64{0, 0.15, 0.3}
 
-// dictEntry says which structure term, parameter value and κ a dictionary
-// column stands for.
+// dictEntry says which structure term, shape parameter values and κ a
+// dictionary column stands for.
 type dictEntry struct {
-	spec  int
-	param float64
-	hasP  bool
-	kappa int // index into kappaGrid, or −1
+	spec   int
+	params [terms.MaxParams]float64
+	hasP   bool
+	kappa  int // index into kappaGrid, or −1
+}
+
+// paramGrid returns every combination of a shape's scan-grid values that
+// lie within the parameters' bounds (the first parameter varying
+// slowest); a parameter without a grid stays at its default.
+func paramGrid(sh *terms.Shape) [][terms.MaxParams]float64 {
+	out := [][terms.MaxParams]float64{{}}
+	for j, q := range sh.Params {
+		values := []float64{q.Default}
+		if len(q.Grid) > 0 {
+			values = values[:0]
+			for _, v := range q.Grid {
+				if v >= q.Min && v <= q.Max {
+					values = append(values, v)
+				}
+			}
+		}
+		var next [][terms.MaxParams]float64
+		for _, c := range out {
+			for _, v := range values {
+				c[j] = v
+				next = append(next, c)
+			}
+		}
+		out = next
+	}
+	return out
 }
 
 // dictionary builds the rate- and dispersion-agnostic model used by the
@@ -371,21 +395,8 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 	var groups [][]int
 	var entries []dictEntry
 	for s, t := range st.Terms {
-		values := []float64{math.NaN()}
+		values := paramGrid(t.Shape)
 		hasP := len(t.Shape.Params) > 0
-		if hasP {
-			grid := rateGrid
-			if t.Shape.Params[0].Name == "limit" {
-				grid = limitGrid
-			}
-			values = values[:0]
-			q := t.Shape.Params[0]
-			for _, v := range grid {
-				if v >= q.Min && v <= q.Max {
-					values = append(values, v)
-				}
-			}
-		}
 		kis := []int{-1}
 		if t.Family >= 0 {
 			kis = kis[:0]
@@ -395,10 +406,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 		}
 		for _, v := range values {
 			for _, ki := range kis {
-				params := t.Shape.DefaultParams()
-				if hasP {
-					params[0] = v
-				}
+				params := append([]float64(nil), v[:len(t.Shape.Params)]...)
 				var g []int
 				fams := []int{t.Family}
 				if t.Family < 0 {
@@ -415,7 +423,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 					m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: fam, Params: append([]float64(nil), params...)})
 				}
 				groups = append(groups, g)
-				entries = append(entries, dictEntry{spec: s, param: v, hasP: hasP, kappa: ki})
+				entries = append(entries, dictEntry{spec: s, params: v, hasP: hasP, kappa: ki})
 			}
 		}
 	}
@@ -631,7 +639,7 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 			case kindKappa:
 				th[i] = dominantKappa(de, entries, st, q.Families)
 			case kindShape:
-				th[i] = dominantParam(de, entries, q)
+				th[i] = dominantParam(de, entries, q, st.Terms[q.Group].Shape.Params[q.Index])
 			}
 		}
 		starts = append(starts, th)
@@ -683,25 +691,22 @@ func isLocalMin(pts []scanPoint, k, n0, n1, nAngles int, dparams []param, shear 
 }
 
 // dominantParam returns the grid value of a structure term's shape
-// parameter whose dictionary column carries the largest share of stress.
-func dominantParam(de *engine, entries []dictEntry, q param) float64 {
+// parameter sp (fit parameter q) in the dictionary column that carries
+// the largest share of stress.
+func dominantParam(de *engine, entries []dictEntry, q param, sp terms.Param) float64 {
 	best, v := 0.0, math.NaN()
 	for g, en := range entries {
 		if en.spec != q.Group || !en.hasP {
 			continue
 		}
 		if c := de.w[g] * de.norm[g]; c > best {
-			best, v = c, en.param
+			best, v = c, en.params[q.Index]
 		}
 	}
 	if math.IsNaN(v) {
 		// The term takes no stress in the scan: start it where it is
-		// gentlest (smallest rate, largest limit), which cannot overflow
-		// where a steeper start might.
-		v = rateGrid[0]
-		if strings.HasPrefix(q.Name, "limit") {
-			v = limitGrid[len(limitGrid)-1]
-		}
+		// gentlest, which cannot overflow where a steeper start might.
+		v = sp.IdleStart
 	}
 	return math.Min(q.Hi, math.Max(q.Lo, v))
 }

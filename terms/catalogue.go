@@ -11,14 +11,17 @@ import (
 // with limit J (Gent 1996), fib-expsq w = k1 with rate k2 (Holzapfel, Gasser &
 // Ogden 2000).
 
-// rateParam is the exponential rate shared by the exponential shapes.
+// rateParam is the exponential rate shared by the exponential shapes. Its
+// scan grid spreads over decades, since rates of soft tissue span them.
 func rateParam(def, max float64) Param {
 	return Param{Name: "rate", Symbol: "b", Default: def, Min: 0, Max: max,
-		Doc: "exponential rate (dimensionless); 0 reduces the shape to its polynomial limit"}
+		Doc:  "exponential rate (dimensionless); 0 reduces the shape to its polynomial limit",
+		Grid: []float64{0.3, 3, 30, 300}, IdleStart: 0.3}
 }
 
 var limitParam = Param{Name: "limit", Symbol: "J", Default: 2, Min: 0.01, Max: 1000,
-	Doc: "limiting value of the argument (dimensionless); the energy grows without bound as the argument approaches it"}
+	Doc:  "limiting value of the argument (dimensionless); the energy grows without bound as the argument approaches it",
+	Grid: []float64{0.3, 1, 3, 10, 100}, IdleStart: 100}
 
 func lin(x float64, _ []float64) Value  { return Value{x, 1, 0} }
 func quad(x float64, _ []float64) Value { return Value{x * x, 2 * x, 2} }

@@ -79,6 +79,27 @@ type Param struct {
 	Min, Max float64
 	// Doc says what the parameter means; it is dimensionless.
 	Doc string
+	// TeX is the symbol as written in LaTeX formulas, e.g. `\alpha`; empty
+	// means Symbol.
+	TeX string
+	// Grid lists the values a fitter's coarse scan tries for this
+	// parameter (one copy of the term per value, or per combination of the
+	// values of a shape's parameters), in increasing order; values outside
+	// [Min, Max] are skipped.
+	Grid []float64
+	// IdleStart is the value a fitter starts from when its coarse scan
+	// gives the term no stress: the gentlest stress response (smallest
+	// rate, largest limit), which cannot overflow where a steeper start
+	// might.
+	IdleStart float64
+}
+
+// LaTeXSymbol returns TeX, or Symbol when TeX is empty.
+func (q *Param) LaTeXSymbol() string {
+	if q.TeX != "" {
+		return q.TeX
+	}
+	return q.Symbol
 }
 
 // Value is a shape and its first two derivatives at one argument.

@@ -529,8 +529,10 @@ type DirectionalModulus struct {
 
 // Moduli are the small-strain moduli of a model.
 type Moduli struct {
-	// InitialShear is μ0 = 2 Σ w f′(0) over the I1 and I2 terms (stress
-	// unit): the shear modulus of the isotropic part.
+	// InitialShear is μ0 = 2 Σ w f′(0) over the I1 and I2 terms plus
+	// Σ w (g′(1) + g″(1))/2 over the principal-stretch terms (w each for
+	// the catalogue's shapes), in the stress unit: the shear modulus of
+	// the isotropic part.
 	InitialShear float64
 	// ShearPositive and ShearNegative are the in-plane shear moduli
 	// τ12/γ12 for a small positive and negative shear stress on the axes
@@ -558,6 +560,10 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		if t.Shape.Arg == terms.I1 || t.Shape.Arg == terms.I2 {
 			iso.Terms = append(iso.Terms, t)
 			mod.InitialShear += 2 * t.Weight * t.Shape.Eval(0, t.Params).D1
+		}
+		if t.Shape.Arg == terms.Principal {
+			iso.Terms = append(iso.Terms, t)
+			mod.InitialShear += t.Weight * principalShear(t.Shape, t.Params)
 		}
 	}
 	base, err := iso.Tangent(I)

@@ -33,6 +33,8 @@ type Dataset struct {
 	// tmat maps a Cauchy tensor (11, 22, 12) to the weighted output
 	// components of each point: nc×3 entries per point.
 	tmat []float64
+	// pp are the principal stretches and stress bases of every point.
+	pp []principalPoint
 }
 
 // famBases are one family's stress bases G4, G5 and their angle
@@ -85,6 +87,7 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 		copy(d.b1[i*nc:], v1[:nc])
 		copy(d.b2[i*nc:], v2[:nc])
 	}
+	d.pp = d.principalPoints()
 	return d, nil
 }
 
@@ -182,6 +185,10 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		}
 		term := &m.Terms[t]
 		col := c.A[t*rows : (t+1)*rows]
+		if term.Shape.Arg == terms.Principal {
+			d.fillPrincipal(term, col, c, t*rows, derivs)
+			continue
+		}
 		if !term.Shape.Arg.NeedsFamily() {
 			d.fillIsotropic(term, col, c, t*rows, derivs)
 			continue

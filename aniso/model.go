@@ -152,6 +152,9 @@ func mulSym(v float64, h Sym) Sym {
 // termStress returns the Cauchy stress of one term per unit weight and its
 // energy per unit weight at one deformation (fk nil for isotropic terms).
 func termStress(sh *terms.Shape, params []float64, kappa float64, k *Kinematics, fk *FibreKinematics) (Sym, float64) {
+	if sh.Arg == terms.Principal {
+		return principalStress(sh, params, k)
+	}
 	s := argument(sh.Arg, kappa, k, fk)
 	if !s.Active {
 		return Sym{}, 0

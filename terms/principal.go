@@ -130,7 +130,7 @@ func psCore(st *Stretches, al float64, grad, wantR bool) (v StretchValues, R flo
 		v.H = 2 / al * (e1 - e2) / st.dmu
 	}
 	e3 := 1 / (e1 * e2)
-	if st.L3 != 1/(st.L1*st.L2) || math.IsInf(e3, 0) || e3 == 0 {
+	if !st.unit || math.IsInf(e3, 0) || e3 == 0 {
 		e3 = math.Exp(al * st.ln3) // λ3 given apart, or the product over/underflows
 	}
 	v.H2, v.H3 = 2/al*e2, 2/al*e3

@@ -241,6 +241,9 @@ type Stretches struct {
 	ln1, ln2, ln3 float64
 	// t = (λ1² − λ2²)/λ2², log1pT = log1p(t), dmu = λ1² − λ2².
 	t, log1pT, dmu float64
+	// unit reports λ1 λ2 λ3 = 1 to round-off, so that powers of λ3 follow
+	// from those of λ1 and λ2.
+	unit bool
 }
 
 // NewStretches prepares principal stretches l1, l2 (in either order; both
@@ -253,6 +256,7 @@ func NewStretches(l1, l2, l3 float64) Stretches {
 	st.dmu = (l1 - l2) * (l1 + l2)
 	st.t = st.dmu / (l2 * l2)
 	st.log1pT = math.Log1p(st.t)
+	st.unit = math.Abs(l1*l2*l3-1) < 1e-14
 	return st
 }
 

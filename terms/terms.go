@@ -8,7 +8,8 @@
 // keeps the energy polyconvex. It knows nothing about data, fibres' angles or
 // stress; package aniso turns shapes into stress.
 //
-// Arguments (all zero in the undeformed reference state):
+// Arguments (zero in the undeformed reference state, except the principal
+// stretches, which are 1 there):
 //
 //	I1 − 3, I2 − 3                      isotropic (matrix) terms
 //	E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1)   fibre terms, Gasser, Ogden & Holzapfel 2006

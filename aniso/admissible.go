@@ -529,10 +529,12 @@ type DirectionalModulus struct {
 
 // Moduli are the small-strain moduli of a model.
 type Moduli struct {
-	// InitialShear is μ0 = 2 Σ w f′(0) over the I1 and I2 terms (stress
-	// unit): the shear modulus of the isotropic part. A Green-strain term
-	// (Tong & Fung 1976) is two-sided but not isotropic; it adds to the
-	// other moduli, not to this one.
+	// InitialShear is μ0 = 2 Σ w f′(0) over the I1 and I2 terms plus
+	// Σ w (g′(1) + g″(1))/2 over the principal-stretch terms (w each for
+	// the catalogue's shapes), in the stress unit: the shear modulus of
+	// the isotropic part. A Green-strain term (Tong & Fung 1976) is
+	// two-sided but not isotropic; it adds to the other moduli, not to
+	// this one.
 	InitialShear float64
 	// ShearPositive and ShearNegative are the in-plane shear moduli
 	// τ12/γ12 for a small positive and negative shear stress on the axes
@@ -563,6 +565,10 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		}
 		if t.Shape.Arg == terms.Green {
 			iso.Terms = append(iso.Terms, t) // two-sided, but not isotropic
+		}
+		if t.Shape.Arg == terms.Principal {
+			iso.Terms = append(iso.Terms, t)
+			mod.InitialShear += t.Weight * principalShear(t.Shape, t.Params)
 		}
 	}
 	base, err := iso.Tangent(I)

@@ -38,6 +38,8 @@ type Dataset struct {
 	// 3·nc entries per point (see planar.go).
 	geom  []planarGeom
 	pbase []float64
+	// pp are the principal stretches and stress bases of every point.
+	pp []principalPoint
 }
 
 // famBases are one family's stress bases G4, G5 and their angle
@@ -101,6 +103,7 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 		copy(d.b1[i*nc:], v1[:nc])
 		copy(d.b2[i*nc:], v2[:nc])
 	}
+	d.pp = d.principalPoints()
 	return d, nil
 }
 
@@ -214,6 +217,10 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		col := c.A[t*rows : (t+1)*rows]
 		if term.Shape.Arg == terms.Green {
 			d.fillGreen(term, col, c, t*rows, derivs)
+			continue
+		}
+		if term.Shape.Arg == terms.Principal {
+			d.fillPrincipal(term, col, c, t*rows, derivs)
 			continue
 		}
 		if !term.Shape.Arg.NeedsFamily() {

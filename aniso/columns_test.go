@@ -35,8 +35,13 @@ func TestColumnDerivativesFiniteDifference(t *testing.T) {
 		m := allTermsModel()
 		for i := range m.Terms {
 			for j, p := range m.Terms[i].Shape.Params {
-				if p.Name == "rate" {
+				switch p.Name {
+				case "rate":
 					m.Terms[i].Params[j] = 1.7
+				case "onset":
+					m.Terms[i].Params[j] = 1.03 // inside its bounds on both sides
+				case "exponent":
+					m.Terms[i].Params[j] *= 3.5
 				}
 			}
 		}
@@ -66,13 +71,12 @@ func TestColumnDerivativesFiniteDifference(t *testing.T) {
 			check("kappa", maskFamily(m, &c, c.DKappa, f), func(m *Model, h float64) { m.Families[f].Dispersion += h }, 1e-6)
 		}
 		for k := range m.Terms {
-			if len(m.Terms[k].Params) == 0 {
-				continue
+			for j := range m.Terms[k].Params {
+				k, j := k, j
+				only := make([]float64, len(c.A))
+				copy(only[k*c.Rows:(k+1)*c.Rows], c.DParam[j][k*c.Rows:(k+1)*c.Rows])
+				check("param "+m.Terms[k].Shape.Params[j].Name, only, func(m *Model, h float64) { m.Terms[k].Params[j] += h }, 1e-6)
 			}
-			k := k
-			only := make([]float64, len(c.A))
-			copy(only[k*c.Rows:(k+1)*c.Rows], c.DParam[0][k*c.Rows:(k+1)*c.Rows])
-			check("param", only, func(m *Model, h float64) { m.Terms[k].Params[0] += h }, 1e-6)
 		}
 	}
 }
@@ -147,7 +151,7 @@ func benchSpecimen(b testing.TB) *Dataset {
 	return d
 }
 
-// catalogueModel is the whole 17-shape catalogue with one fibre family.
+// catalogueModel is the whole catalogue (20 shapes) with one fibre family.
 func catalogueModel() *Model {
 	m := &Model{Families: []Family{{Name: "f1", Angle: 40 * deg}}}
 	for _, sh := range terms.Catalogue() {
@@ -161,13 +165,12 @@ func catalogueModel() *Model {
 }
 
 // BenchmarkFillColumns fills all stress columns of a 5-protocol × 100-point
-// specimen for the 17-term catalogue (the Fung-type term included) with one
-// fibre family.
+// specimen for the 20-term catalogue (the Fung-type term included) with one fibre family.
 func BenchmarkFillColumns(b *testing.B) {
 	d := benchSpecimen(b)
 	m := catalogueModel()
-	if len(m.Terms) != 17 {
-		b.Fatalf("catalogue has %d shapes, the benchmark expects 17", len(m.Terms))
+	if len(m.Terms) != 20 {
+		b.Fatalf("catalogue has %d shapes, the benchmark expects 20", len(m.Terms))
 	}
 	var c Columns
 	d.Fill(m, &c, false)

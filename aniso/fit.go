@@ -419,66 +419,47 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	return m, groups, famOf, ps
 }
 
-// dictionary grids: rates and limits spread over decades, dispersion over
-// its range. Used only to find starting points.
-var (
-	rateGrid  = []float64{0.3, 3, 30, 300}
-	limitGrid = []float64{0.3, 1, 3, 10, 100}
-	kappaGrid = []float64{0, 0.15, 0.3}
-	// concentrationGrid spans wide (standard deviation about 30°), medium
-	// (14°) and narrow (7°) in-plane spreads.
-	concentrationGrid = []float64{1, 4, 16}
-)
+// kappaGrid is the dictionary grid of the dispersion κ over its range;
+// shape parameters take theirs from terms.Param.Grid. Used only to find
+// starting points.
+var kappaGrid = []float64{0, 0.15, 0.3}
 
-// dictEntry says which structure term, parameter values and κ a dictionary
-// column stands for.
+// concentrationGrid spans wide (standard deviation about 30°), medium
+// (14°) and narrow (7°) in-plane spreads.
+var concentrationGrid = []float64{1, 4, 16}
+
+// dictEntry says which structure term, shape parameter values and κ a
+// dictionary column stands for.
 type dictEntry struct {
 	spec   int
-	params []float64
+	params [terms.MaxParams]float64
 	hasP   bool
 	kappa  int // index into kappaGrid (or concentrationGrid), or −1
 }
 
-// scanParams returns the parameter vectors the dictionary tries for a
-// shape: the product of the Scan values of the parameters that have them
-// (the others at their defaults), or else the rate or limit grid on the
-// first parameter; one empty vector for a shape without parameters.
-func scanParams(sh *terms.Shape) [][]float64 {
-	if len(sh.Params) == 0 {
-		return [][]float64{nil}
-	}
-	out := [][]float64{sh.DefaultParams()}
-	scanned := false
+// paramGrid returns every combination of a shape's scan-grid values that
+// lie within the parameters' bounds (the first parameter varying
+// slowest); a parameter without a grid stays at its default.
+func paramGrid(sh *terms.Shape) [][terms.MaxParams]float64 {
+	out := [][terms.MaxParams]float64{{}}
 	for j, q := range sh.Params {
-		if q.Scan == nil {
-			continue
+		values := []float64{q.Default}
+		if len(q.Grid) > 0 {
+			values = values[:0]
+			for _, v := range q.Grid {
+				if v >= q.Min && v <= q.Max {
+					values = append(values, v)
+				}
+			}
 		}
-		scanned = true
-		var next [][]float64
-		for _, p := range out {
-			for _, v := range q.Scan {
-				c := append([]float64(nil), p...)
+		var next [][terms.MaxParams]float64
+		for _, c := range out {
+			for _, v := range values {
 				c[j] = v
 				next = append(next, c)
 			}
 		}
 		out = next
-	}
-	if scanned {
-		return out
-	}
-	grid := rateGrid
-	if sh.Params[0].Name == "limit" {
-		grid = limitGrid
-	}
-	out = out[:0]
-	q := sh.Params[0]
-	for _, v := range grid {
-		if v >= q.Min && v <= q.Max {
-			p := sh.DefaultParams()
-			p[0] = v
-			out = append(out, p)
-		}
 	}
 	return out
 }
@@ -513,6 +494,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 	var groups [][]int
 	var entries []dictEntry
 	for s, t := range st.Terms {
+		values := paramGrid(t.Shape)
 		hasP := len(t.Shape.Params) > 0
 		kis := []int{-1}
 		if t.Family >= 0 {
@@ -521,8 +503,9 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 				kis = append(kis, ki)
 			}
 		}
-		for _, params := range scanParams(t.Shape) {
+		for _, v := range values {
 			for _, ki := range kis {
+				params := append([]float64(nil), v[:len(t.Shape.Params)]...)
 				var g []int
 				fams := []int{t.Family}
 				if t.Family < 0 {
@@ -539,7 +522,7 @@ func dictionary(st Structure) (*Model, [][]int, []int, []dictEntry) {
 					m.Terms = append(m.Terms, Term{Shape: t.Shape, Family: fam, Params: append([]float64(nil), params...)})
 				}
 				groups = append(groups, g)
-				entries = append(entries, dictEntry{spec: s, params: params, hasP: hasP, kappa: ki})
+				entries = append(entries, dictEntry{spec: s, params: v, hasP: hasP, kappa: ki})
 			}
 		}
 	}
@@ -793,7 +776,7 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 			case kindConcentration:
 				th[i] = dominantSpread(de, entries, st, q.Families, concentrationGrid)
 			case kindShape:
-				th[i] = dominantParam(de, entries, q)
+				th[i] = dominantParam(de, entries, q, st.Terms[q.Group].Shape.Params[q.Index])
 			}
 		}
 		starts = append(starts, th)
@@ -845,8 +828,9 @@ func isLocalMin(pts []scanPoint, k, n0, n1, nAngles int, dparams []param, shear 
 }
 
 // dominantParam returns the grid value of a structure term's shape
-// parameter whose dictionary column carries the largest share of stress.
-func dominantParam(de *engine, entries []dictEntry, q param) float64 {
+// parameter sp (fit parameter q) in the dictionary column that carries
+// the largest share of stress.
+func dominantParam(de *engine, entries []dictEntry, q param, sp terms.Param) float64 {
 	best, v := 0.0, math.NaN()
 	for g, en := range entries {
 		if en.spec != q.Group || !en.hasP {
@@ -858,12 +842,8 @@ func dominantParam(de *engine, entries []dictEntry, q param) float64 {
 	}
 	if math.IsNaN(v) {
 		// The term takes no stress in the scan: start it where it is
-		// gentlest (smallest rate, largest limit), which cannot overflow
-		// where a steeper start might.
-		v = rateGrid[0]
-		if strings.HasPrefix(q.Name, "limit") {
-			v = limitGrid[len(limitGrid)-1]
-		}
+		// gentlest, which cannot overflow where a steeper start might.
+		v = sp.IdleStart
 	}
 	return math.Min(q.Hi, math.Max(q.Lo, v))
 }

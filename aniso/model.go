@@ -174,6 +174,9 @@ func termStress(sh *terms.Shape, params []float64, kappa float64, k *Kinematics,
 	if sh.Arg == terms.Green {
 		return greenStress(sh, params, k)
 	}
+	if sh.Arg == terms.Principal {
+		return principalStress(sh, params, k)
+	}
 	s := argument(sh.Arg, kappa, k, fk)
 	if !s.Active {
 		return Sym{}, 0

@@ -177,7 +177,11 @@ func (r *planarRule) build(g *planarGeom, alpha, b float64, kinks []float64, ste
 			r.breaks = append(r.breaks, -h+2*math.Pi*float64(k), h+2*math.Pi*float64(k))
 		}
 	}
-	curv := b + math.Max(steep, 0)*g.R
+	// Curvatures are capped: a shape whose slope starts from zero inside
+	// the arc (a recruitment onset) has an unbounded log-slope there, and
+	// its kinks already split the panels at that point.
+	steepR := math.Min(math.Max(steep, 0)*g.R, maxCurvature)
+	curv := math.Min(b, maxCurvature) + steepR
 	peak := func(centre, c float64) {
 		if c <= peakCurvature {
 			return
@@ -190,8 +194,8 @@ func (r *planarRule) build(g *planarGeom, alpha, b float64, kinks []float64, ste
 			}
 		}
 	}
-	peak(delta, b)
-	peak(0, math.Max(steep, 0)*g.R)
+	peak(delta, math.Min(b, maxCurvature))
+	peak(0, steepR)
 	maxPanel := math.Min(maxPanelWide, panelScale/math.Sqrt(curv+1))
 	sort.Float64s(r.breaks)
 	for _, pc := range pieces[:np] {
@@ -216,15 +220,23 @@ var (
 	peakCurvature = 4.0
 	peakBreaks    = []float64{2}
 	maxPanelWide  = math.Pi
-	panelScale    = 8.0
+	panelScale    = 6.0
+)
+
+// maxCurvature caps the curvature (in u) that sets panel widths: a peak
+// narrower than 1e-3 rad is resolved by its break points alone; maxPanels
+// caps the panels of one piece.
+const (
+	maxCurvature = 1e6
+	maxPanels    = 64
 )
 
 // panels splits [lo, hi] (in u) into equal panels no wider than maxPanel
 // and appends their Gauss–Legendre directions.
 func (r *planarRule) panels(g *planarGeom, lo, hi, maxPanel float64) {
-	n := int(math.Ceil((hi - lo) / maxPanel))
-	if n < 1 {
-		n = 1
+	n := 1
+	if w := (hi - lo) / maxPanel; w > 1 {
+		n = int(math.Min(math.Ceil(w), maxPanels))
 	}
 	step := (hi - lo) / float64(n)
 	for p := 0; p < n; p++ {

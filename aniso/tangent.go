@@ -256,6 +256,12 @@ func (m *Model) Tangent(F [4]float64) (Tangent, error) {
 			}
 			continue
 		}
+		if term.Shape.Arg == terms.Principal {
+			if err := principalTangent(term, &q, &t); err != nil {
+				return t, fmt.Errorf("term #%d (counting from 1): %w", i+1, err)
+			}
+			continue
+		}
 		kappa := 0.0
 		var I4, I5, K *jet
 		if term.Family >= 0 {

@@ -32,6 +32,12 @@ func singleTermModels() []*Model {
 			if q.Name == "limit" {
 				p[i] = 4
 			}
+			if q.Name == "exponent" {
+				p[i] *= 3.5 // 7 and −7: away from the I1/I2 special cases
+			}
+			if q.Name == "onset" {
+				p[i] = 1.03
+			}
 		}
 		if !sh.Arg.NeedsFamily() {
 			out = append(out, &Model{Terms: []Term{{Shape: sh, Family: -1, Weight: 1.3, Params: p}}})

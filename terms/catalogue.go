@@ -9,16 +9,21 @@ import (
 // so that a weight reads as the usual constant: i1-lin w = C10 = μ/2
 // (neo-Hookean), i1-exp w = a/2 with rate b (Demiray 1972), i1-gent w = μ/2
 // with limit J (Gent 1996), fib-expsq w = k1 with rate k2 (Holzapfel, Gasser &
-// Ogden 2000).
+// Ogden 2000), ps-pos and ps-neg w = μ with exponent α (Ogden 1972;
+// principal.go), fib-recruit w = E, the fibre modulus (Lanir 1983;
+// recruit.go).
 
-// rateParam is the exponential rate shared by the exponential shapes.
+// rateParam is the exponential rate shared by the exponential shapes. Its
+// scan grid spreads over decades, since rates of soft tissue span them.
 func rateParam(def, max float64) Param {
 	return Param{Name: "rate", Symbol: "b", Default: def, Min: 0, Max: max,
-		Doc: "exponential rate (dimensionless); 0 reduces the shape to its polynomial limit"}
+		Doc:  "exponential rate (dimensionless); 0 reduces the shape to its polynomial limit",
+		Grid: []float64{0.3, 3, 30, 300}, IdleStart: 0.3}
 }
 
 var limitParam = Param{Name: "limit", Symbol: "J", Default: 2, Min: 0.01, Max: 1000,
-	Doc: "limiting value of the argument (dimensionless); the energy grows without bound as the argument approaches it"}
+	Doc:  "limiting value of the argument (dimensionless); the energy grows without bound as the argument approaches it",
+	Grid: []float64{0.3, 1, 3, 10, 100}, IdleStart: 100}
 
 func lin(x float64, _ []float64) Value  { return Value{x, 1, 0} }
 func quad(x float64, _ []float64) Value { return Value{x * x, 2 * x, 2} }
@@ -184,15 +189,21 @@ func shape(id string, a Argument, title, plainT, latexT string, params []Param,
 	p, l := formula(a, plainT, latexT)
 	return &Shape{ID: id, Arg: a, Title: title, Formula: p, LaTeX: l, Params: params,
 		Weight: weight, Polyconvex: poly, PolyconvexNote: note, Source: src,
-		eval: fn.eval, slope: fn.slope, dD1: fn.grad}
+		eval: fn.eval, slope: fn.slope, dD1: fn.grad, kinks: fn.kinks, divided: fn.divided, at: fn.at}
 }
 
 // impl bundles a shape's closed forms: f, f′, f″ (eval), f′ alone (slope,
-// optional) and ∂f′/∂θ (grad, for shapes with parameters).
+// optional), ∂f′/∂θ (grad, for shapes with parameters), the arguments
+// where f′ or f″ is not smooth (kinks, optional) and, for principal-stretch
+// shapes, the divided differences (divided) and the values at precomputed
+// stretches (at).
 type impl struct {
-	eval  func(float64, []float64) Value
-	slope func(float64, []float64) float64
-	grad  func(float64, []float64) [MaxParams]float64
+	eval    func(float64, []float64) Value
+	slope   func(float64, []float64) float64
+	grad    func(float64, []float64) [MaxParams]float64
+	kinks   func([]float64) ([2]float64, int)
+	divided func(float64, float64, []float64) Divided
+	at      func(*Stretches, []float64, bool) StretchValues
 }
 
 var (
@@ -200,26 +211,29 @@ var (
 	implQuad    = impl{eval: quad}
 	implCube    = impl{eval: cube}
 	implMacQuad = impl{eval: macQuad}
-	implExp     = impl{expShape, expShapeSlope, expShapeGrad}
-	implExpSq   = impl{expSq, expSqSlope, expSqGrad}
-	implExpZero = impl{expZero, expZeroSlope, expZeroGrad}
-	implGent    = impl{gentLog, gentLogSlope, gentLogGrad}
+	implExp     = impl{eval: expShape, slope: expShapeSlope, grad: expShapeGrad}
+	implExpSq   = impl{eval: expSq, slope: expSqSlope, grad: expSqGrad}
+	implExpZero = impl{eval: expZero, slope: expZeroSlope, grad: expZeroGrad}
+	implGent    = impl{eval: gentLog, slope: gentLogSlope, grad: gentLogGrad}
 )
 
-// setZeroRate records the b = 0 limit form of a rate shape.
-func setZeroRate(id, plain, latex string) {
+// setZeroForm records the limit form of a shape where parameter param is
+// exactly 0.
+func setZeroForm(id, param, plain, latex string) {
 	s := byID[id]
-	s.zeroRate[0], s.zeroRate[1] = formula(s.Arg, plain, latex)
+	s.zeroParam = param
+	s.zeroForm[0], s.zeroForm[1] = formula(s.Arg, plain, latex)
 }
 
 func init() {
 	defer func() {
 		for _, id := range []string{"i1-exp", "i2-exp"} {
-			setZeroRate(id, "w*{x}", `w\,{x}`)
+			setZeroForm(id, "rate", "w*{x}", `w\,{x}`)
 		}
 		for _, id := range []string{"i1-expsq", "fib-expsq", "fib-exp"} {
-			setZeroRate(id, "w*{x}^2/2", `\frac{w}{2}\,{x}^{2}`)
+			setZeroForm(id, "rate", "w*{x}^2/2", `\frac{w}{2}\,{x}^{2}`)
 		}
+		setZeroForm("fib-recruit", "spread", recruitZeroPlain, recruitZeroLaTeX)
 	}()
 	const (
 		convexI1 = "convex and non-decreasing in I1 (Ball 1977)"
@@ -263,6 +277,8 @@ func init() {
 			note+" below the limit J", "Gent 1996", implGent))
 	}
 
+	registerPrincipal()
+
 	const fibreNote = "convex and non-decreasing in E_f, zero for I4 ≤ 1 (Holzapfel, Gasser & Ogden 2000; " +
 		"Schröder & Neff 2003); with dispersion κ > 0 the I4 > 1 switch is applied as common practice"
 	register(
@@ -278,6 +294,7 @@ func init() {
 			`\frac{w}{b^{2}}\left(e^{b\,E_f}-1-b\,E_f\right)`, []Param{rateParam(1, 100)},
 			"fibre stiffness at onset (f″(0) = 1); b sets the gradual stiffening", true, fibreNote, "",
 			implExpZero),
+		recruitShape(),
 		shape("cof-quad", Cofactor, "quadratic cofactor-fibre", "w*<{x}>^2", `w\,\langle K-1\rangle^{2}`, nil,
 			"stiffness against growth of the area normal to the fibre (K > 1); zero while K ≤ 1", true,
 			"K = |cof(F) a0|² is convex in cof F and ⟨x⟩² is convex and non-decreasing (Schröder & Neff 2003)",

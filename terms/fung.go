@@ -34,7 +34,7 @@ func fungExpSlope(x float64, _ []float64) float64 { return math.Exp(x) / 2 }
 // the coarse scan tries one value per decade.
 func fungCoefficient(name, doc string, def, min float64, scan []float64, shear bool) Param {
 	sym := "b_" + strings.TrimPrefix(name, "b")
-	return Param{Name: name, Symbol: sym, Default: def, Min: min, Max: 1000, Doc: doc, Scan: scan, Shear: shear}
+	return Param{Name: name, Symbol: sym, Default: def, Min: min, Max: 1000, Doc: doc, Grid: scan, IdleStart: def, Shear: shear}
 }
 
 // fungConvexity is the condition for W to be convex in E: e^Q is convex when

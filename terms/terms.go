@@ -8,7 +8,8 @@
 // keeps the energy polyconvex. It knows nothing about data, fibres' angles or
 // stress; package aniso turns shapes into stress.
 //
-// Arguments (all zero in the undeformed reference state):
+// Arguments (zero in the undeformed reference state, except the principal
+// stretches, which are 1 there):
 //
 //	I1 − 3, I2 − 3                      isotropic (matrix) terms
 //	E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1)   fibre terms, Gasser, Ogden & Holzapfel 2006
@@ -22,6 +23,18 @@
 // the in-plane C in the tester's axes 1, 2, so a term in Q(E) is anisotropic
 // with its axes fixed to the specimen's loading axes, and its non-linear
 // parameters b1…b4 enter through the argument Q, not through the shape.
+//
+//	λ1, λ2, λ3                          principal-stretch terms, Ogden 1972
+//
+// A principal-stretch shape is different in kind: its argument is a
+// stretch, not a shifted invariant, and it is summed over the three
+// principal stretches. Eval(λ, θ) returns a per-stretch function g(λ) with
+// g(1) = 0 and its derivatives g′(λ), g″(λ) with respect to λ; the term's
+// energy is w·(g(λ1) + g(λ2) + g(λ3)), with λ1, λ2 the principal stretches
+// of the in-plane C (square roots of its eigenvalues, shear included) and
+// λ3 = 1/(λ1 λ2) from incompressibility. Its reference value is therefore
+// λ = 1 (Argument.Reference). Such a shape also gives the divided
+// differences a stress needs where two principal stretches meet (Divided).
 //
 // Evaluation is overflow-safe: an exponential shape at a large argument
 // returns +Inf, never NaN, and a limiting-extensibility shape beyond its
@@ -60,6 +73,11 @@ const (
 	// shape of this argument knows f(Q); the fitter evaluates Q and its
 	// derivatives with respect to E and b, so D1ParamGrad is zero for it.
 	Green
+	// Principal is a principal stretch λ (dimensionless, > 0): the shape is
+	// a per-stretch function g(λ) summed over λ1, λ2 and λ3 = 1/(λ1 λ2)
+	// (see the package documentation). Principal-stretch terms are
+	// isotropic (matrix) terms.
+	Principal
 )
 
 // String returns the argument as written in formulas, e.g. "I1-3".
@@ -77,8 +95,19 @@ func (a Argument) String() string {
 		return "I5-1"
 	case Green:
 		return "Q(E)"
+	case Principal:
+		return "lambda_i"
 	}
 	return fmt.Sprintf("Argument(%d)", int(a))
+}
+
+// Reference returns the argument's value in the undeformed reference
+// state: 1 for Principal (a stretch), 0 for the shifted invariants.
+func (a Argument) Reference() float64 {
+	if a == Principal {
+		return 1
+	}
+	return 0
 }
 
 // NeedsFamily reports whether terms of this argument belong to a fibre family.
@@ -96,16 +125,31 @@ type Param struct {
 	Min, Max float64
 	// Doc says what the parameter means; it is dimensionless.
 	Doc string
-	// Scan, when non-nil, lists the values a fitter's coarse scan tries
-	// (dimensionless; every combination with the other parameters' Scan
-	// values). nil means the default; when no parameter of the shape has
-	// Scan values, the fitter scans its own grid of a rate or limit in the
-	// first position instead.
-	Scan []float64
 	// Shear is true for a parameter that acts only through the in-plane
 	// shear strain E12: data without shear strain cannot determine it, and
 	// a fitter holds it at 0 instead.
 	Shear bool
+	// TeX is the symbol as written in LaTeX formulas, e.g. `\alpha`; empty
+	// means Symbol.
+	TeX string
+	// Grid lists the values a fitter's coarse scan tries for this
+	// parameter (one copy of the term per value, or per combination of the
+	// values of a shape's parameters), in increasing order; values outside
+	// [Min, Max] are skipped.
+	Grid []float64
+	// IdleStart is the value a fitter starts from when its coarse scan
+	// gives the term no stress: the gentlest stress response (smallest
+	// rate, largest limit), which cannot overflow where a steeper start
+	// might.
+	IdleStart float64
+}
+
+// LaTeXSymbol returns TeX, or Symbol when TeX is empty.
+func (q *Param) LaTeXSymbol() string {
+	if q.TeX != "" {
+		return q.TeX
+	}
+	return q.Symbol
 }
 
 // Value is a shape and its first two derivatives at one argument.
@@ -137,10 +181,12 @@ type Shape struct {
 	// Source cites the published form the shape follows, if any.
 	Source string
 
-	// zeroRate holds the plain and LaTeX formulas of the shape's limit at
-	// rate b = 0 (e.g. w·x²/2 for an exponential of a square), when it has
-	// a rate; the general formula divides by b.
-	zeroRate [2]string
+	// zeroForm holds the plain and LaTeX formulas of the shape's limit
+	// where parameter zeroParam is exactly 0 (e.g. w·x²/2 for an
+	// exponential of a square at rate b = 0), when the general formula
+	// divides by that parameter.
+	zeroForm  [2]string
+	zeroParam string
 
 	// convexity, when set, checks a parameter-dependent convexity
 	// condition (see ConvexityCondition).
@@ -151,8 +197,14 @@ type Shape struct {
 	slope func(x float64, p []float64) float64
 	// dD1 returns ∂f′/∂p_j.
 	dD1 func(x float64, p []float64) [MaxParams]float64
-	// kinks returns where f′ or f″ is not smooth; nil means nowhere.
+	// kinks returns the arguments where f′ or f″ is not smooth; nil means
+	// none.
 	kinks func(p []float64) ([2]float64, int)
+	// divided returns the divided differences of a principal-stretch
+	// shape, and at its values at precomputed stretches; nil for other
+	// arguments.
+	divided func(x1, x2 float64, p []float64) Divided
+	at      func(st *Stretches, p []float64, grad bool) StretchValues
 }
 
 // Eval returns f, f′ and f″ at x with parameters p (len(p) == len(s.Params)).
@@ -164,11 +216,95 @@ func (s *Shape) Eval(x float64, p []float64) Value { return s.eval(x, p) }
 // limit form where a rate is exactly 0, so that no formula divides by zero.
 func (s *Shape) Written(p []float64) (plain, latex string) {
 	for j, q := range s.Params {
-		if q.Name == "rate" && j < len(p) && p[j] == 0 && s.zeroRate[0] != "" {
-			return s.zeroRate[0], s.zeroRate[1]
+		if q.Name == s.zeroParam && j < len(p) && p[j] == 0 && s.zeroForm[0] != "" {
+			return s.zeroForm[0], s.zeroForm[1]
 		}
 	}
 	return s.Formula, s.LaTeX
+}
+
+// Kinks returns the arguments x > 0, in increasing order, at which the
+// shape's f′ or f″ is not smooth (k[:n]), so that a quadrature over x can
+// split its panels there. Only the recruitment shape has any: where the
+// first fibres become straight and where the last do.
+func (s *Shape) Kinks(p []float64) (k [2]float64, n int) {
+	if s.kinks == nil {
+		return k, 0
+	}
+	return s.kinks(p)
+}
+
+// Divided is what a principal-stretch shape g(λ) contributes where two
+// principal stretches λ1, λ2 are close: divided differences with respect
+// to μ = λ², continuous (and accurate) as λ1 → λ2. With h(λ) = λ g′(λ):
+//
+//	H  = (h(λ1) − h(λ2)) / (λ1² − λ2²)             → h′(λ)/(2λ) at λ1 = λ2
+//	R  = (g′(λ1)/λ1 − g′(λ2)/λ2) / (λ1² − λ2²)     → (λ g″ − g′)/(2λ³)
+//	DH = ∂H/∂θ_j for each non-linear parameter θ_j
+//
+// H gives the plane-stress Cauchy stress of the term, R its tangent.
+type Divided struct {
+	H, R float64
+	DH   [MaxParams]float64
+}
+
+// Divided returns the divided differences of a principal-stretch shape at
+// stretches x1, x2 > 0 (in either order). It returns the zero value for
+// shapes of other arguments. Results are ±Inf, never NaN, where the power
+// of a stretch overflows.
+func (s *Shape) Divided(x1, x2 float64, p []float64) Divided {
+	if s.divided == nil {
+		return Divided{}
+	}
+	return s.divided(x1, x2, p)
+}
+
+// Stretches are the three principal stretches of one deformation with the
+// logarithms a principal-stretch shape evaluates with, so that a loop over
+// many terms and parameter values computes them once (NewStretches).
+type Stretches struct {
+	// L1 ≥ L2 are the in-plane principal stretches λ1, λ2 and L3 the third.
+	L1, L2, L3    float64
+	ln1, ln2, ln3 float64
+	// t = (λ1² − λ2²)/λ2², log1pT = log1p(t), dmu = λ1² − λ2².
+	t, log1pT, dmu float64
+	// unit reports λ1 λ2 λ3 = 1 to round-off, so that powers of λ3 follow
+	// from those of λ1 and λ2.
+	unit bool
+}
+
+// NewStretches prepares principal stretches l1, l2 (in either order; both
+// > 0) and l3 for AtStretches.
+func NewStretches(l1, l2, l3 float64) Stretches {
+	if l1 < l2 {
+		l1, l2 = l2, l1
+	}
+	st := Stretches{L1: l1, L2: l2, L3: l3, ln1: math.Log(l1), ln2: math.Log(l2), ln3: math.Log(l3)}
+	st.dmu = (l1 - l2) * (l1 + l2)
+	st.t = st.dmu / (l2 * l2)
+	st.log1pT = math.Log1p(st.t)
+	st.unit = math.Abs(l1*l2*l3-1) < 1e-14
+	return st
+}
+
+// StretchValues are what a principal-stretch term needs at one
+// deformation, with h(λ) = λ g′(λ): h(λ2), h(λ3), the divided difference
+// H = (h(λ1) − h(λ2))/(λ1² − λ2²) (as in Divided) and, when asked, the
+// derivatives of all three with respect to each non-linear parameter.
+type StretchValues struct {
+	H2, H3, H    float64
+	DH2, DH3, DH [MaxParams]float64
+}
+
+// AtStretches evaluates a principal-stretch shape at precomputed
+// stretches; grad asks for the parameter derivatives too. It returns the
+// zero value for shapes of other arguments. Results are ±Inf, never NaN,
+// where a power of a stretch overflows.
+func (s *Shape) AtStretches(st *Stretches, p []float64, grad bool) StretchValues {
+	if s.at == nil {
+		return StretchValues{}
+	}
+	return s.at(st, p, grad)
 }
 
 // Slope returns f′(x) alone; it equals Eval(x, p).D1 and is cheaper, for
@@ -239,16 +375,6 @@ func (s *Shape) CheckParams(p []float64) error {
 		}
 	}
 	return nil
-}
-
-// Kinks returns the arguments x > 0 at which the shape's f′ or f″ is not
-// smooth (at most two), for quadratures that must not straddle them; n is
-// how many there are.
-func (s *Shape) Kinks(p []float64) (k [2]float64, n int) {
-	if s.kinks == nil {
-		return k, 0
-	}
-	return s.kinks(p)
 }
 
 // MaxParams is the largest number of non-linear parameters of any shape.

@@ -16,6 +16,15 @@ func params(s *Shape, v float64) []float64 {
 	return p
 }
 
+// testArgs are the arguments the catalogue-wide tests visit: shifted
+// invariants above 0, or stretches about 1 for principal-stretch shapes.
+func testArgs(s *Shape) []float64 {
+	if s.Arg == Principal {
+		return []float64{0.7, 1.01, 1.1, 1.35, 1.9}
+	}
+	return []float64{0.01, 0.1, 0.35, 0.9}
+}
+
 // f′ and f″ against central differences of f, ∂f′/∂θ against central
 // differences of f′, and Slope against Eval, for every shape (closed forms
 // checked numerically; common practice).
@@ -23,7 +32,7 @@ func TestDerivativesFiniteDifference(t *testing.T) {
 	for _, s := range Catalogue() {
 		for _, rate := range []float64{0, 1e-6, 0.8, 3} {
 			p := params(s, rate)
-			for _, x := range []float64{0.01, 0.1, 0.35, 0.9} {
+			for _, x := range testArgs(s) {
 				const h = 1e-6
 				v := s.Eval(x, p)
 				vp, vm := s.Eval(x+h, p), s.Eval(x-h, p)
@@ -60,18 +69,30 @@ func TestDerivativesFiniteDifference(t *testing.T) {
 	}
 }
 
-// Every shape is zero at zero; fibre-family shapes start with zero slope so
-// the reference state is stress-free (physics.md §2); convex and
-// non-decreasing on x ≥ 0 where polyconvexity is claimed (Ball 1977).
+// Every shape is zero at its argument's reference value; fibre-family
+// shapes start with zero slope so the reference state is stress-free
+// (physics.md §2); convex and non-decreasing on x ≥ 0 where polyconvexity
+// is claimed (Ball 1977). A principal-stretch g is convex in λ with g′ of
+// the sign of α (its polyconvexity rests on the singular values of F or
+// cof F instead, checked in principal_test.go and by 'weft check').
 func TestShapeReferenceAndConvexity(t *testing.T) {
 	for _, s := range Catalogue() {
 		p := s.DefaultParams()
-		v := s.Eval(0, p)
+		v := s.Eval(s.Arg.Reference(), p)
 		if v.F != 0 {
-			t.Errorf("%s: f(0) = %g, want 0", s.ID, v.F)
+			t.Errorf("%s: f at the reference = %g, want 0", s.ID, v.F)
 		}
 		if s.Arg.NeedsFamily() && v.D1 != 0 {
 			t.Errorf("%s: fibre-family shape has f′(0) = %g, want 0", s.ID, v.D1)
+		}
+		if s.Arg == Principal {
+			for x := 0.3; x < 3; x += 0.05 {
+				v := s.Eval(x, p)
+				if v.D2 < 0 || v.D1*p[0] < 0 {
+					t.Errorf("%s: g′=%g, g″=%g at λ=%g (α = %g)", s.ID, v.D1, v.D2, x, p[0])
+				}
+			}
+			continue
 		}
 		if s.Polyconvex {
 			for x := 0.0; x < 1.5; x += 0.05 {
@@ -130,8 +151,8 @@ func TestOverflow(t *testing.T) {
 }
 
 func TestCatalogueAndPresets(t *testing.T) {
-	if n := len(Catalogue()); n != 17 {
-		t.Errorf("catalogue has %d shapes, documented 17", n)
+	if n := len(Catalogue()); n != 20 {
+		t.Errorf("catalogue has %d shapes, documented 20", n)
 	}
 	poly := 0
 	for _, s := range Catalogue() {

@@ -52,15 +52,15 @@ type Conventions struct {
 var StandardConventions = Conventions{
 	Angle:       "angle_deg is the reference fibre direction a0 = (cos α, sin α, 0), α in degrees from axis 1 towards axis 2 (counter-clockwise seen from +3), modulo 180, reported in (-90, 90]",
 	Kinematics:  "in-plane F = [[F11, F12], [F21, F22]], F33 = 1/(F11 F22 - F12 F21) (incompressible); C = F^T F, B = F F^T, a = F a0",
-	Invariants:  "I1 = tr C, I2 = (I1^2 - tr C^2)/2, I4 = a0.C a0, I5 = a0.C^2 a0, K = I5 - I1 I4 + I2",
+	Invariants:  "I1 = tr C, I2 = (I1^2 - tr C^2)/2, I4 = a0.C a0, I5 = a0.C^2 a0, K = I5 - I1 I4 + I2; principal stretches lambda1, lambda2 = square roots of the eigenvalues of the in-plane C (shear included), lambda3 = 1/(lambda1 lambda2)",
 	Energy:      "Psi = sum_k weight_k * f_k(x_k); each term's f and argument x are given by its id and written out in 'energy'",
 	FibreSwitch: "terms in E_f and I5-1 give no energy and no stress while the family's I4 <= 1; cof-* terms are zero while K <= 1",
 	Dispersion:  "E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1), 0 <= kappa <= 1/3 (Gasser, Ogden & Holzapfel 2006); kappa = 0 gives I4 - 1",
 	InPlane: "a family with a concentration b spreads its fibres over the plane with the density rho(t) = exp(b cos 2(t - alpha)) / (pi I0(b)) over one period of t (b = 0: every in-plane direction alike); " +
 		"each of its terms is w <f(E(t))> = w * integral of rho(t) f(I4(t) - 1) dt with a0(t) = (cos t, sin t, 0) and I4(t) = a0(t).C a0(t), each direction carrying load only while its own I4(t) > 1 " +
 		"(angular integration; Lanir 1983, Sacks 2003); written <...>_name in 'energy'",
-	Stress:         "plane stress sigma33 = 0; Cauchy sigma = -p 1 + 2 psi1 B + 2 psi2 (I1 B - B^2) + sum_families [2 psi4 a(x)a + 2 psi5 (a(x)Ba + Ba(x)a)]; nominal P = sigma F^-T",
-	Normalisations: "i1-lin weight = C10 = mu/2; *-exp: w (exp(b x) - 1)/b; *-expsq: w (exp(b x^2) - 1)/(2 b) (w = k1, b = k2 of Holzapfel, Gasser & Ogden 2000); *-gent: -w J ln(1 - x/J); fib-exp: w (exp(b x) - 1 - b x)/b^2; *-quad: w x^2; *-cube: w x^3; fung: w (exp(Q) - 1)/2 (w = c of Tong & Fung 1976)",
+	Stress:         "plane stress sigma33 = 0; Cauchy sigma = -p 1 + 2 psi1 B + 2 psi2 (I1 B - B^2) + sum_families [2 psi4 a(x)a + 2 psi5 (a(x)Ba + Ba(x)a)] + sum_ps-terms w sum_i lambda_i g'(lambda_i) n_i(x)n_i (n_i the principal directions of B); nominal P = sigma F^-T",
+	Normalisations: "i1-lin weight = C10 = mu/2; *-exp: w (exp(b x) - 1)/b; *-expsq: w (exp(b x^2) - 1)/(2 b) (w = k1, b = k2 of Holzapfel, Gasser & Ogden 2000); *-gent: -w J ln(1 - x/J); fib-exp: w (exp(b x) - 1 - b x)/b^2; *-quad: w x^2; *-cube: w x^3; ps-pos, ps-neg: w (2/alpha^2)(lambda1^alpha + lambda2^alpha + lambda3^alpha - 3) = w sum_i g(lambda_i), g(l) = (2/alpha^2)(l^alpha - 1), w = mu, the initial shear modulus (Ogden 1972 with mu_p = 2 w/alpha); fib-recruit: lambda_f = sqrt(1 + E_f) is the family's fibre stretch (lambda_f1 for family f1), straightening stretches uniform on [la, la + D] (onset la, spread D), w = fibre modulus E, energy (w/D) integral from la to min(max(lambda_f, la), la + D) of (lambda_f - s)^2/(2 s) ds (Lanir 1983), zero while lambda_f <= la; D = 0: w <lambda_f - la>^2/(2 la); fung: w (exp(Q) - 1)/2 (w = c of Tong & Fung 1976)",
 	GreenStrain: "fung terms act on the Green strain E = (C - 1)/2 of the in-plane C in the tester's axes 1, 2 (E11 = (C11 - 1)/2, E22 = (C22 - 1)/2, E12 = E21 = C12/2), " +
 		"Q = b1 E11^2 + b2 E22^2 + 2 b3 E11 E22 + b4 (E12^2 + E21^2) (Tong & Fung 1976); the energy does not depend on C33, so plane stress gives p = 0 and " +
 		"sigma = F S F^T with S = dW/dE = w exp(Q) (b1 E11 + b3 E22, b2 E22 + b3 E11, b4 E12); nominal P = F S; its axes are fixed in the specimen, not a fibre family",
@@ -524,8 +524,11 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 		l = strings.ReplaceAll(l, "w", fmt.Sprintf("%.6g", t.Weight))
 		for j, q := range t.Shape.Params {
 			v := fmt.Sprintf("%.6g", t.Params[j])
+			if t.Params[j] < 0 {
+				v = "(" + v + ")" // a negative exponent stays one factor: 2/(-2)^2
+			}
 			p = strings.ReplaceAll(p, q.Symbol, v)
-			l = latexSubst(l, q.Symbol, v)
+			l = latexSubst(l, q.LaTeXSymbol(), v)
 		}
 		if t.Family >= 0 && m.Families[t.Family].Planar {
 			// A planar family averages the term over its directions
@@ -538,9 +541,11 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 			p = strings.ReplaceAll(p, "E_f", "E_"+name)
 			p = strings.ReplaceAll(p, "(K-1)", "(K_"+name+"-1)")
 			p = strings.ReplaceAll(p, "(I5-1)", "(I5_"+name+"-1)")
+			p = strings.ReplaceAll(p, "λ_f", "λ_"+name)
 			l = strings.ReplaceAll(l, "E_f", "E_{"+name+"}")
 			l = strings.ReplaceAll(l, "(K-1)", "(K_{"+name+"}-1)")
 			l = strings.ReplaceAll(l, "(I_5-1)", "(I_{5,"+name+"}-1)")
+			l = strings.ReplaceAll(l, `\lambda_f`, `\lambda_{`+name+"}")
 		}
 		plain = append(plain, p)
 		latex = append(latex, l)

@@ -114,3 +114,59 @@ func TestPlanarRoundTrip(t *testing.T) {
 		t.Errorf("both spreads accepted: %v", err)
 	}
 }
+
+// Cards with principal-stretch and recruitment terms: the energy is
+// written with the numbers substituted (a negative exponent in brackets,
+// so 2/(-7.5)^2 is not read as −(7.5²); LaTeX symbols \alpha, \lambda_a,
+// \Delta replaced), the Δ = 0 limit form where the spread is 0, and the
+// card reads back to the same model, with every parameter.
+func TestEnergyTextNewShapes(t *testing.T) {
+	m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: 0.3}}, Terms: []aniso.Term{
+		{Shape: terms.Lookup("ps-pos"), Family: -1, Weight: 1.5, Params: []float64{9}},
+		{Shape: terms.Lookup("ps-neg"), Family: -1, Weight: 0.25, Params: []float64{-7.5}},
+		{Shape: terms.Lookup("fib-recruit"), Family: 0, Weight: 800, Params: []float64{1.04, 0.1}},
+	}}
+	c := FromModel(m, "kPa", nil)
+	for _, want := range []string{"1.5*(2/9^2)*(λ1^9 + λ2^9 + λ3^9 - 3) + 0.25*(2/(-7.5)^2)*(λ1^(-7.5)", "800*[λ_f1^2*ln(min(max(λ_f1,1.04),1.04+0.1)/1.04)",
+		"/(2*0.1)"} {
+		if !strings.Contains(c.Energy, want) {
+			t.Errorf("energy %q lacks %q", c.Energy, want)
+		}
+	}
+	for _, want := range []string{`\frac{2}{(-7.5)^{2}}`, `\lambda_1^{(-7.5)}`, `\frac{800}{2\cdot 0.1}`, `\ln\frac{\min(\max(\lambda_{f1},1.04),1.04+0.1)}{1.04}`} {
+		if !strings.Contains(c.EnergyLaTeX, want) {
+			t.Errorf("LaTeX energy %q lacks %q", c.EnergyLaTeX, want)
+		}
+	}
+	for _, bad := range []string{`\alpha`, `\lambda_a`, `\Delta`, `\lambda_f`, "α", "λa", "Δ", "λ_f "} {
+		if strings.Contains(c.Energy+c.EnergyLaTeX, bad) {
+			t.Errorf("symbol %q left unsubstituted: %s | %s", bad, c.Energy, c.EnergyLaTeX)
+		}
+	}
+	m.Terms[2].Params[1] = 0
+	if e, _ := EnergyText(m, c); !strings.Contains(e, "800*<λ_f1-1.04>^2/(2*1.04)") {
+		t.Errorf("Δ = 0 energy %q", e)
+	}
+	b, err := c.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, m2, err := Parse(bytes.NewReader(b), "card.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range m.Terms {
+		a, b := m.Terms[i], m2.Terms[i]
+		if i == 2 {
+			a.Params = []float64{1.04, 0.1}
+		}
+		if a.Shape != b.Shape || a.Weight != b.Weight || a.Family != b.Family || len(a.Params) != len(b.Params) {
+			t.Fatalf("term %d: %+v vs %+v", i, a, b)
+		}
+		for j := range a.Params {
+			if a.Params[j] != b.Params[j] {
+				t.Errorf("term %d parameter %d: %g vs %g", i, j, a.Params[j], b.Params[j])
+			}
+		}
+	}
+}

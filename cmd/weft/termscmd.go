@@ -122,13 +122,13 @@ func printCatalogue(w io.Writer, ts []termInfo, ps []presetInfo) error {
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "What each weight means")
 	for _, t := range ts {
-		fmt.Fprintf(w, "  %-10s %s\n", t.ID, t.Weight)
+		fmt.Fprintf(w, "  %-12s %s\n", t.ID, t.Weight)
 	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "Not polyconvex")
 	for _, t := range ts {
 		if !t.Polyconvex {
-			fmt.Fprintf(w, "  %-10s %s\n", t.ID, t.Note)
+			fmt.Fprintf(w, "  %-12s %s\n", t.ID, t.Note)
 		}
 	}
 	fmt.Fprintln(w)
@@ -147,10 +147,13 @@ func printCatalogue(w io.Writer, ts []termInfo, ps []presetInfo) error {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
-	fmt.Fprintln(w, "Arguments: I1-3, I2-3; E_f = kappa(I1-3) + (1-3 kappa)(I4-1), zero while I4 <= 1;")
-	fmt.Fprintln(w, "K-1 with K = I5 - I1 I4 + I2; I5-1, zero while I4 <= 1;")
+	fmt.Fprintln(w, "Arguments: I1-3, I2-3; E_f = kappa(I1-3) + (1-3 kappa)(I4-1), zero while I4 <= 1, with the fibre")
+	fmt.Fprintln(w, "stretch lambda_f = sqrt(1 + E_f); K-1 with K = I5 - I1 I4 + I2; I5-1, zero while I4 <= 1;")
+	fmt.Fprintln(w, "lambda_i: the principal stretches lambda1, lambda2 of the in-plane C and lambda3 = 1/(lambda1 lambda2),")
+	fmt.Fprintln(w, "the term summing g(lambda_i) over all three;")
 	fmt.Fprintln(w, "Q(E) = b1 E11^2 + b2 E22^2 + 2 b3 E11 E22 + b4 (E12^2 + E21^2) of the Green strain E = (C - 1)/2")
 	fmt.Fprintln(w, "in the tester's axes (fung: a classical comparison, fitted as a preset, not a discovery candidate).")
+	fmt.Fprintln(w, "A family with a concentration b spreads its fibre terms over the plane (angular integration).")
 	fmt.Fprintln(w, "See the README for conventions.")
 	return nil
 }

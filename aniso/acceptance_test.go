@@ -25,6 +25,8 @@ type verdictCase struct {
 var verdictCases = []verdictCase{
 	{name: "I1/I2 isotropic", mat: mooneyRivlinMatrix(4, 1.5),
 		o: synthOptions{noise: 0.01, maxStrain: 0.3}, want: []string{"0"}},
+	{name: "principal-stretch isotropic (α = 9)", mat: ogdenMaterial(3, 9),
+		o: synthOptions{noise: 0.01, maxStrain: 0.25}, want: []string{"0"}},
 	{name: "one family, no shear", mat: fibreMaterial(3, spreadFamily{38 * deg, -1, expSqFibre(30, 4)}),
 		o: synthOptions{noise: 0.01}, want: []string{"1-or-mirror-pair"}},
 	{name: "one dispersed family, sutured", mat: fibreMaterial(3, spreadFamily{-30 * deg, 3, expSqFibre(40, 3)}),

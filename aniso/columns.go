@@ -140,6 +140,11 @@ type Columns struct {
 	// fill their own Columns from one Dataset.
 	fk []FibreKinematics
 	fb []famBases
+	// Search integrates planar families with the cheaper search rule
+	// (about 1e-5 relative instead of 1e-8; see planar.go), for fits that
+	// are only compared with each other.
+	Search bool
+
 	// rule, kinks and famTerms are scratch of planar families.
 	rule     planarRule
 	kinks    []float64

@@ -40,6 +40,10 @@ type DiscoverSettings struct {
 	// Presets are the classical presets fitted for comparison (default
 	// neo-hookean, hgo, goh, fung).
 	Presets []string
+	// SearchPoints is the most points per protocol that the search,
+	// cross-validation and selection use (default DefaultSearchPoints;
+	// see subset.go); the chosen model is refitted on every point.
+	SearchPoints int
 	// ExhaustiveLimit is the largest number of subsets searched exhaustively
 	// per layout (default 200 000); beyond it a forward search with swaps
 	// is used.
@@ -73,6 +77,9 @@ func (s DiscoverSettings) withDefaults() DiscoverSettings {
 	}
 	if s.Presets == nil {
 		s.Presets = []string{"neo-hookean", "hgo", "goh", "fung"}
+	}
+	if s.SearchPoints <= 0 {
+		s.SearchPoints = DefaultSearchPoints
 	}
 	if s.ExhaustiveLimit <= 0 {
 		s.ExhaustiveLimit = 200000
@@ -164,6 +171,14 @@ type Discovery struct {
 	CrossR2 [][]float64
 	// Elapsed wall time.
 	Elapsed time.Duration
+	// Points is the number of points of the problem; SearchPoints how many
+	// of them the search, cross-validation and selection used (see
+	// DiscoverSettings.SearchPoints). The chosen model is fitted on all.
+	Points, SearchPoints int
+
+	// hasCV is true when candidates were cross-validated (two protocols or
+	// more); those with CV nil were then left out as clearly worse.
+	hasCV bool
 }
 
 // Best returns the chosen candidate.
@@ -248,9 +263,13 @@ type subset struct {
 // angles and shape parameters, and cross-validates by leaving one protocol
 // out. The pick is the smallest model whose cross-validated error is within
 // one standard error of the best (Hastie, Tibshirani & Friedman 2009, §7.10).
-func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
+func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	start := time.Now()
 	set = set.withDefaults()
+	p, err := searchSubset(all, set.SearchPoints)
+	if err != nil {
+		return nil, err
+	}
 	nonzero := false
 	for _, y := range p.Target {
 		if y != 0 {
@@ -277,8 +296,10 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	fitSet.Profile = false
 	if fitSet.Tolerance == 0 {
 		// Comparing models needs their losses to a few digits, not ten;
-		// the chosen model is polished at the default below.
+		// the chosen model is polished at the default below, with the
+		// accurate quadrature.
 		fitSet.Tolerance = searchTolerance
+		fitSet.SearchQuadrature = true
 	}
 
 	// 1. Full candidate fits per form (layout, with or without dispersion).
@@ -320,7 +341,7 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	// 2. Subset search at fixed angles and shape parameters, then a refit
 	// of the best subsets of each size with their own angles and shape
 	// parameters.
-	d := &Discovery{}
+	d := &Discovery{Points: all.Data.Points(), SearchPoints: p.Data.Points()}
 	type refit struct {
 		layout int
 		st     Structure
@@ -431,7 +452,8 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	}
 
 	// 2b. In-plane dispersed variants: the best model of every size of each
-	// ideal fibre layout, refitted with its families spread in the plane,
+	// ideal two-family layout whose BIC is within cvBICWindow of the
+	// layout's best, refitted with its families spread in the plane,
 	// warm-started from the ideal fit.
 	bm := bestOf()
 	round = round[:0:0]
@@ -441,9 +463,15 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 			continue
 		}
 		n := 0
+		minBIC := math.Inf(1)
+		for size := 1; size <= set.MaxTerms; size++ {
+			if r, ok := bm[key{base, size}]; ok {
+				minBIC = math.Min(minBIC, r.BIC)
+			}
+		}
 		for size := 1; size <= set.MaxTerms; size++ {
 			r, ok := bm[key{base, size}]
-			if !ok {
+			if !ok || r.BIC-minBIC > cvBICWindow {
 				continue
 			}
 			st, ok := planarVariant(activeStructure(r))
@@ -453,7 +481,7 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 			round = append(round, &refit{layout: i, st: st, init: r.Params()})
 			n++
 		}
-		d.Search = append(d.Search, fmt.Sprintf("%s: the best model of each size of the %s layout (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n))
+		d.Search = append(d.Search, fmt.Sprintf("%s: the best model of each size of the %s layout within ΔBIC 10 of its best (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n))
 	}
 	runRefits(round)
 
@@ -522,11 +550,24 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 		d.Presets = append(d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
 	}
 
-	// 5. Leave-one-protocol-out cross-validation of every candidate.
+	// 5. Leave-one-protocol-out cross-validation of every candidate that
+	// could be its form's best: a candidate whose BIC is more than
+	// cvBICWindow above its form's best is worse in-sample even after the
+	// penalty for its size, and is not cross-validated.
 	if len(p.Protocols) >= 2 {
+		d.hasCV = true
 		all := make([]*Candidate, 0, len(d.Pareto)+len(d.Presets))
+		minBIC := map[string]float64{}
 		for i := range d.Pareto {
-			all = append(all, &d.Pareto[i])
+			k := FormKey(d.Pareto[i].Result.Structure)
+			if v, ok := minBIC[k]; !ok || d.Pareto[i].Result.BIC < v {
+				minBIC[k] = d.Pareto[i].Result.BIC
+			}
+		}
+		for i := range d.Pareto {
+			if d.Pareto[i].Result.BIC-minBIC[FormKey(d.Pareto[i].Result.Structure)] <= cvBICWindow {
+				all = append(all, &d.Pareto[i])
+			}
 		}
 		for i := range d.Presets {
 			all = append(all, &d.Presets[i])
@@ -537,14 +578,17 @@ func Discover(p *Problem, set DiscoverSettings) (*Discovery, error) {
 	// 6. The verdict, then the pick inside its form.
 	d.decide(p)
 
-	// 7. Profiles for the chosen model, and the one-protocol cross matrix.
+	// 7. The chosen model refitted on every point and polished, with its
+	// profiles; the one-protocol cross matrix.
 	best := d.Best()
 	prof := set.Fit
 	prof.Profile = true
 	prof.Init = best.Result.Params()
 	prof.NoScan = true
-	if r, err := Fit(p, activeStructure(best.Result), prof); err == nil {
-		if activeTerms(r) == best.Terms && r.Loss <= best.Result.Loss*(1+1e-9) {
+	if r, err := Fit(all, activeStructure(best.Result), prof); err == nil {
+		// The polish uses the accurate quadrature, so a dispersed model's
+		// loss may move by the search rule's error either way.
+		if activeTerms(r) == best.Terms && (r.Structure.Planar || p != all || r.Loss <= best.Result.Loss*(1+1e-9)) {
 			best.Result = r
 		} else {
 			best.Result.Profiles = r.Profiles
@@ -673,6 +717,11 @@ func layoutSatisfied(r *Result) bool {
 	}
 	return true
 }
+
+// cvBICWindow is how far above its form's best BIC a candidate may lie and
+// still be cross-validated ("very strong" evidence against it beyond that;
+// Kass & Raftery 1995).
+const cvBICWindow = 10
 
 // searchTolerance is the refinement tolerance of discovery's search,
 // cross-validation and comparison fits (see Settings.Tolerance).

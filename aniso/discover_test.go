@@ -170,13 +170,7 @@ func TestDiscoverOutsideCatalogue(t *testing.T) {
 	}
 	b := d.Best().Result
 	t.Logf("chosen %s: %s, verdict %s", d.Best().Name, b.Summary(), d.Verdict.Families)
-	for _, c := range append(d.Pareto, d.Presets...) {
-		minR2 := 1.0
-		for _, m := range c.Result.Metrics {
-			minR2 = math.Min(minR2, m.R2)
-		}
-		t.Logf("  %-20s loss %.5f cx %d cv %.4f ± %.4f minR2 %.4f %s", c.Name, c.Result.Loss, c.Result.Complexity, c.CV.Mean, c.CV.StdErr, minR2, c.Result.Summary())
-	}
+	logCandidates(t, d)
 	for _, m := range b.Metrics {
 		if !m.R2Defined || m.R2 < 0.98 {
 			t.Errorf("%s axis %s: R² %.4f < 0.98", m.Protocol, m.Component, m.R2)

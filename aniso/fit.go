@@ -146,7 +146,9 @@ func (s Structure) Validate() error {
 // Settings tune a fit. The zero value gives the defaults.
 type Settings struct {
 	// ScanStepDeg is the coarse angle scan step in degrees: default 2.5
-	// for one angle, 10 for two.
+	// for one angle (5 for a family spread in the plane, whose loss varies
+	// more slowly with its mean direction and costs an angular
+	// integration per scan point), 10 for two.
 	ScanStepDeg float64
 	// Starts is how many of the best scan minima are refined locally
 	// (default 3).
@@ -156,7 +158,9 @@ type Settings struct {
 	// Profile computes the profile of the loss over every angle parameter
 	// (needed for profile-likelihood intervals and the report).
 	Profile bool
-	// ProfileStepDeg is the profile's grid step in degrees (default 2).
+	// ProfileStepDeg is the profile's grid step in degrees (default 2, 4
+	// for two angles, whose profiles each re-optimise the other; interval
+	// ends are refined by bisection either way).
 	ProfileStepDeg float64
 	// Init, when non-nil, adds a starting point: non-linear parameters by
 	// name (as in Result.Params; angles in radians). Parameters it does not
@@ -165,6 +169,11 @@ type Settings struct {
 	// NoScan skips the coarse angle scan and refines from Init alone (for
 	// warm starts such as cross-validation folds).
 	NoScan bool
+	// SearchQuadrature integrates in-plane dispersed families with the
+	// cheaper search rule (about 1e-5 relative instead of 1e-8, half the
+	// directions), for fits that are only compared with each other; the
+	// model finally reported is refitted without it.
+	SearchQuadrature bool
 	// Tolerance stops a local refinement once two accepted steps in a row
 	// lower the loss by less than this fraction of it (default 1e-10).
 	// Searches that only compare models use a looser one; the reported
@@ -172,9 +181,12 @@ type Settings struct {
 	Tolerance float64
 }
 
-func (s Settings) withDefaults(nAngles int) Settings {
+func (s Settings) withDefaults(nAngles int, planar bool) Settings {
 	if s.ScanStepDeg <= 0 {
 		s.ScanStepDeg = 2.5
+		if planar {
+			s.ScanStepDeg = 5
+		}
 		if nAngles == 2 {
 			s.ScanStepDeg = 10
 		}
@@ -187,6 +199,9 @@ func (s Settings) withDefaults(nAngles int) Settings {
 	}
 	if s.ProfileStepDeg <= 0 {
 		s.ProfileStepDeg = 2
+		if nAngles == 2 {
+			s.ProfileStepDeg = 4
+		}
 	}
 	if s.Tolerance <= 0 {
 		s.Tolerance = 1e-10
@@ -424,9 +439,9 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 // starting points.
 var kappaGrid = []float64{0, 0.15, 0.3}
 
-// concentrationGrid spans wide (standard deviation about 30°), medium
-// (14°) and narrow (7°) in-plane spreads.
-var concentrationGrid = []float64{1, 4, 16}
+// concentrationGrid spans wide (standard deviation of the density about
+// 23°) and narrow (10°) in-plane spreads.
+var concentrationGrid = []float64{1.5, 8}
 
 // dictEntry says which structure term, shape parameter values and κ a
 // dictionary column stands for.
@@ -555,7 +570,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 			nAngles++
 		}
 	}
-	set = set.withDefaults(nAngles)
+	set = set.withDefaults(nAngles, st.Planar)
 	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear, held: held}
 
 	var starts [][]float64
@@ -582,6 +597,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	}
 	e := newEngine(p, m, groups, famOf, st.Layout, params)
 	e.tol = set.Tolerance
+	e.cols.Search = set.SearchQuadrature
 	best := math.Inf(1)
 	var bestTheta []float64
 	type local struct {

@@ -234,7 +234,7 @@ func TestFitDeterministic(t *testing.T) {
 }
 
 // benchProblem is 5 protocols × 100 points of an invented one-family material.
-func benchProblem(b *testing.B, m *Model) *Problem {
+func benchProblem(b testing.TB, m *Model) *Problem {
 	spec := synthSpecimen(b, m, synthOptions{noise: 0.01, points: 100})
 	p, err := NewProblem(spec, nil)
 	if err != nil {

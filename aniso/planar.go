@@ -60,15 +60,35 @@ const MaxConcentration = 1e4
 // are reported as an ideal family instead.
 const FitMaxConcentration = 200
 
-// glOrder is the Gauss–Legendre order per panel.
-const glOrder = 12
+// quadRule is a panel policy of the planar quadrature: Gauss–Legendre of
+// a fixed order per panel; a peak of the integrand sharper than
+// PeakCurvature (in u) gets break points at PeakBreaks standard deviations;
+// no panel is wider than MaxPanel or PanelScale standard deviations of the
+// sharper peak.
+type quadRule struct {
+	nodes, weights []float64
+	peakCurvature  float64
+	peakBreaks     []float64
+	maxPanel       float64
+	panelScale     float64
+}
 
-// glNodes and glWeights are the Gauss–Legendre rule on [−1, 1].
-var glNodes, glWeights = func() ([]float64, []float64) {
-	x, w := make([]float64, glOrder), make([]float64, glOrder)
-	quad.Legendre{}.FixedLocations(x, w, -1, 1)
-	return x, w
-}()
+func newQuadRule(order int, peakCurvature float64, peakBreaks []float64, maxPanel, panelScale float64) *quadRule {
+	q := &quadRule{nodes: make([]float64, order), weights: make([]float64, order),
+		peakCurvature: peakCurvature, peakBreaks: peakBreaks, maxPanel: maxPanel, panelScale: panelScale}
+	quad.Legendre{}.FixedLocations(q.nodes, q.weights, -1, 1)
+	return q
+}
+
+// accurateRule meets 1e-8 relative error against a brute-force reference
+// (TestPlanarQuadratureAccuracy): every model weft reports, predicts or
+// exports is evaluated with it. searchRule is about 1e-5 with half the
+// directions, for the many fits discovery only compares; the model it
+// picks is refitted with accurateRule.
+var (
+	accurateRule = newQuadRule(12, 4, []float64{2}, math.Pi, 6)
+	searchRule   = newQuadRule(8, 6, []float64{2}, math.Pi, 8)
+)
 
 // planarGeom is the fibre-stretch geometry of one deformation:
 // I4(θ) − 1 = A0 + R cos(2θ − φ).
@@ -112,8 +132,9 @@ type planarNode struct {
 type planarRule struct {
 	Nodes  []planarNode
 	breaks []float64
-	// The density of the current build: cos 2α, sin 2α, b, the scaled
-	// normalisation and I1(b)/I0(b).
+	// The rule and density of the current build: cos 2α, sin 2α, b, the
+	// scaled normalisation and I1(b)/I0(b).
+	q                      *quadRule
 	ca, sa, b, norm, ratio float64
 }
 
@@ -131,8 +152,9 @@ func density(b float64) (scaledNorm, ratio float64) {
 // family's shapes at the most stretched direction (0 if unknown), which
 // sets how finely the stretch peak is resolved. Nodes outside the
 // stretched arc are never produced.
-func (r *planarRule) build(g *planarGeom, alpha, b float64, kinks []float64, steep float64) {
+func (r *planarRule) build(q *quadRule, g *planarGeom, alpha, b float64, kinks []float64, steep float64) {
 	r.Nodes = r.Nodes[:0]
+	r.q = q
 	h0, empty, full := g.halfWidth(0)
 	if empty {
 		return
@@ -183,11 +205,11 @@ func (r *planarRule) build(g *planarGeom, alpha, b float64, kinks []float64, ste
 	steepR := math.Min(math.Max(steep, 0)*g.R, maxCurvature)
 	curv := math.Min(b, maxCurvature) + steepR
 	peak := func(centre, c float64) {
-		if c <= peakCurvature {
+		if c <= q.peakCurvature {
 			return
 		}
 		sd := 1 / math.Sqrt(c)
-		for _, m := range peakBreaks {
+		for _, m := range q.peakBreaks {
 			for k := -1; k <= 1; k++ {
 				c0 := centre + 2*math.Pi*float64(k)
 				r.breaks = append(r.breaks, c0-m*sd, c0+m*sd)
@@ -196,7 +218,7 @@ func (r *planarRule) build(g *planarGeom, alpha, b float64, kinks []float64, ste
 	}
 	peak(delta, math.Min(b, maxCurvature))
 	peak(0, steepR)
-	maxPanel := math.Min(maxPanelWide, panelScale/math.Sqrt(curv+1))
+	maxPanel := math.Min(q.maxPanel, q.panelScale/math.Sqrt(curv+1))
 	sort.Float64s(r.breaks)
 	for _, pc := range pieces[:np] {
 		lo := pc.lo
@@ -210,18 +232,6 @@ func (r *planarRule) build(g *planarGeom, alpha, b float64, kinks []float64, ste
 		r.panels(g, lo, pc.hi, maxPanel)
 	}
 }
-
-// Panel policy of the planar quadrature, tuned against a brute-force
-// reference (TestPlanarQuadratureAccuracy): a peak of the integrand sharper
-// than peakCurvature (in u) gets break points at peakBreaks standard
-// deviations; no panel is wider than maxPanelWide or panelScale standard
-// deviations of the sharper peak.
-var (
-	peakCurvature = 4.0
-	peakBreaks    = []float64{2}
-	maxPanelWide  = math.Pi
-	panelScale    = 6.0
-)
 
 // maxCurvature caps the curvature (in u) that sets panel widths: a peak
 // narrower than 1e-3 rad is resolved by its break points alone; maxPanels
@@ -243,7 +253,7 @@ func (r *planarRule) panels(g *planarGeom, lo, hi, maxPanel float64) {
 		a := lo + float64(p)*step
 		half := step / 2
 		mid := a + half
-		for q, t := range glNodes {
+		for k, t := range r.q.nodes {
 			u := mid + half*t
 			su, cu := math.Sincos(u)
 			// θ = (u + φ)/2; cos 2θ = cos(u + φ), sin 2θ = sin(u + φ).
@@ -258,7 +268,7 @@ func (r *planarRule) panels(g *planarGeom, lo, hi, maxPanel float64) {
 			sd := s2*r.ca - c2*r.sa
 			rho := r.norm * math.Exp(r.b*(cd-1))
 			// dθ = du/2.
-			w := rho * glWeights[q] * half / 2
+			w := rho * r.q.weights[k] * half / 2
 			r.Nodes = append(r.Nodes, planarNode{Weight: w, X: x, Cos2: c2, Sin2: s2,
 				DA: 2 * r.b * sd, DB: cd - r.ratio, Theta: (u + g.Phi) / 2})
 		}
@@ -391,7 +401,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 	}
 	for i := range d.kin {
 		r0 := i * nc
-		c.rule.build(&d.geom[i], fam.Angle, fam.Concentration, c.kinks, familySteepness(m, f, &d.geom[i]))
+		c.rule.build(c.quadrature(), &d.geom[i], fam.Angle, fam.Concentration, c.kinks, familySteepness(m, f, &d.geom[i]))
 		pb := d.pbase[3*r0 : 3*(r0+nc)]
 		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
 		for _, t := range c.famTerms {
@@ -407,9 +417,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 				var d1 float64
 				var g [terms.MaxParams]float64
 				if derivs {
-					d1 = term.Shape.Eval(nd.X, term.Params).D1
-					gg := term.Shape.D1ParamGrad(nd.X, term.Params)
-					copy(g[:np], gg[:np])
+					d1, g = term.Shape.SlopeGrad(nd.X, term.Params)
 				} else {
 					d1 = term.Shape.Slope(nd.X, term.Params)
 				}
@@ -512,4 +520,12 @@ func familySteepness(m *Model, f int, g *planarGeom) float64 {
 		}
 	}
 	return s
+}
+
+// quadrature returns the planar rule the columns are filled with.
+func (c *Columns) quadrature() *quadRule {
+	if c.Search {
+		return searchRule
+	}
+	return accurateRule
 }

@@ -208,6 +208,9 @@ func (d *Discovery) formBests() []*formBest {
 	by := map[string]*formBest{}
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
+		if d.hasCV && c.CV == nil {
+			continue
+		}
 		k := FormKey(c.Result.Structure)
 		if fb, ok := by[k]; !ok || candidateLess(c, fb.c) {
 			by[k] = &formBest{key: k, rank: formRank(c.Result.Structure), c: c, idx: i}
@@ -268,7 +271,7 @@ func (d *Discovery) decide(p *Problem) {
 func (d *Discovery) oneSE(form string, floor float64) int {
 	var in []int
 	for i := range d.Pareto {
-		if FormKey(d.Pareto[i].Result.Structure) == form {
+		if FormKey(d.Pareto[i].Result.Structure) == form && (!d.hasCV || d.Pareto[i].CV != nil) {
 			in = append(in, i)
 		}
 	}

@@ -81,6 +81,18 @@ func expSqSlope(x float64, p []float64) float64 {
 	return x * math.Exp(p[0]*x*x)
 }
 
+// expSqBoth is expSqSlope and expSqGrad with one exponential.
+func expSqBoth(x float64, p []float64) (float64, [MaxParams]float64) {
+	var g [MaxParams]float64
+	if x == 0 {
+		return 0, g
+	}
+	x2 := x * x
+	e := math.Exp(p[0] * x2)
+	g[0] = x * x2 * e
+	return x * e, g
+}
+
 func expSqGrad(x float64, p []float64) (g [MaxParams]float64) {
 	x2 := x * x
 	g[0] = x * x2 * math.Exp(p[0]*x2)
@@ -111,6 +123,24 @@ func expZeroSlope(x float64, p []float64) float64 {
 		return x + b*x*x/2 + b*b*x*x*x/6
 	}
 	return math.Expm1(bx) / b
+}
+
+// expZeroBoth is expZeroSlope and expZeroGrad sharing their exponential.
+func expZeroBoth(x float64, p []float64) (float64, [MaxParams]float64) {
+	b := p[0]
+	bx := b * x
+	if math.Abs(bx) < 1e-4 {
+		return expZeroSlope(x, p), expZeroGrad(x, p)
+	}
+	var g [MaxParams]float64
+	e := math.Exp(bx)
+	em := math.Expm1(bx)
+	if math.IsInf(e, 1) {
+		g[0] = posInf
+		return posInf, g
+	}
+	g[0] = (bx*e - em) / (b * b)
+	return em / b, g
 }
 
 func expZeroGrad(x float64, p []float64) (g [MaxParams]float64) {
@@ -189,7 +219,7 @@ func shape(id string, a Argument, title, plainT, latexT string, params []Param,
 	p, l := formula(a, plainT, latexT)
 	return &Shape{ID: id, Arg: a, Title: title, Formula: p, LaTeX: l, Params: params,
 		Weight: weight, Polyconvex: poly, PolyconvexNote: note, Source: src,
-		eval: fn.eval, slope: fn.slope, dD1: fn.grad, kinks: fn.kinks, divided: fn.divided, at: fn.at}
+		eval: fn.eval, slope: fn.slope, dD1: fn.grad, slopeGrad: fn.both, kinks: fn.kinks, divided: fn.divided, at: fn.at}
 }
 
 // impl bundles a shape's closed forms: f, f′, f″ (eval), f′ alone (slope,
@@ -201,6 +231,8 @@ type impl struct {
 	eval    func(float64, []float64) Value
 	slope   func(float64, []float64) float64
 	grad    func(float64, []float64) [MaxParams]float64
+	// both is slope and grad in one call (optional).
+	both    func(float64, []float64) (float64, [MaxParams]float64)
 	kinks   func([]float64) ([2]float64, int)
 	divided func(float64, float64, []float64) Divided
 	at      func(*Stretches, []float64, bool) StretchValues
@@ -212,8 +244,8 @@ var (
 	implCube    = impl{eval: cube}
 	implMacQuad = impl{eval: macQuad}
 	implExp     = impl{eval: expShape, slope: expShapeSlope, grad: expShapeGrad}
-	implExpSq   = impl{eval: expSq, slope: expSqSlope, grad: expSqGrad}
-	implExpZero = impl{eval: expZero, slope: expZeroSlope, grad: expZeroGrad}
+	implExpSq   = impl{eval: expSq, slope: expSqSlope, grad: expSqGrad, both: expSqBoth}
+	implExpZero = impl{eval: expZero, slope: expZeroSlope, grad: expZeroGrad, both: expZeroBoth}
 	implGent    = impl{eval: gentLog, slope: gentLogSlope, grad: gentLogGrad}
 )
 

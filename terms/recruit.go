@@ -61,7 +61,7 @@ func recruitShape() *Shape {
 			"I4 = |F a0|² is convex in F, so the term keeps polyconvexity (Ball 1977); zero for I4 ≤ 1; "+
 			"with dispersion κ > 0 the I4 > 1 switch is applied as common practice",
 		"Lanir 1983 (uniformly distributed straightening stretches)",
-		impl{eval: recruit, slope: recruitSlope, grad: recruitGrad, kinks: recruitKinks})
+		impl{eval: recruit, slope: recruitSlope, grad: recruitGrad, both: recruitBoth, kinks: recruitKinks})
 }
 
 // recruitSeriesBelow is the argument below which S1, S2, S3 are summed as
@@ -227,6 +227,33 @@ func recruitGrad(x float64, p []float64) (g [MaxParams]float64) {
 	g[0] = -1 / ab2
 	g[1] = -s2 / ab2
 	return g
+}
+
+// recruitBoth is recruitSlope and recruitGrad from one location and one
+// series evaluation.
+func recruitBoth(x float64, p []float64) (float64, [MaxParams]float64) {
+	var g [MaxParams]float64
+	s := locate(x, p)
+	if s.zone == 0 {
+		return 0, g
+	}
+	if math.IsInf(s.lam, 1) {
+		return posInf, g
+	}
+	a, l := s.a, s.lam
+	u := s.d / a
+	if s.zone == 1 {
+		v := s.diff / a
+		_, s2 := recruitSums12(v)
+		g[0] = -v / (a * u) / (2 * l)
+		g[1] = -v * v * s2 / (a * u * u) / (2 * l)
+		return v * v * s2 / u / (2 * l), g
+	}
+	s1, s2 := recruitSums12(u)
+	ab2 := 2 * a * (a + s.d)
+	g[0] = -1 / ab2
+	g[1] = -s2 / ab2
+	return (u*s2 + s1*(s.diff-s.d)/a) / (2 * l), g
 }
 
 // recruitKinks returns x = λ² − 1 at λ = λa and λ = λa + Δ, where f‴

@@ -197,6 +197,9 @@ type Shape struct {
 	slope func(x float64, p []float64) float64
 	// dD1 returns ∂f′/∂p_j.
 	dD1 func(x float64, p []float64) [MaxParams]float64
+	// slopeGrad returns f′ and ∂f′/∂p_j together, sharing their work;
+	// nil means Slope and D1ParamGrad.
+	slopeGrad func(x float64, p []float64) (float64, [MaxParams]float64)
 	// kinks returns the arguments where f′ or f″ is not smooth; nil means
 	// none.
 	kinks func(p []float64) ([2]float64, int)
@@ -348,6 +351,15 @@ func (s *Shape) ConvexityCondition(p []float64, shear bool) (c Convexity, ok boo
 		return Convexity{}, false
 	}
 	return s.convexity(p, shear), true
+}
+
+// SlopeGrad returns f′(x) and ∂f′(x)/∂p_j together (Slope and
+// D1ParamGrad in one call), for hot loops that need both.
+func (s *Shape) SlopeGrad(x float64, p []float64) (float64, [MaxParams]float64) {
+	if s.slopeGrad != nil {
+		return s.slopeGrad(x, p)
+	}
+	return s.Slope(x, p), s.D1ParamGrad(x, p)
 }
 
 // DefaultParams returns a new slice with every parameter at its default.

@@ -277,3 +277,27 @@ func TestFungConvexityCondition(t *testing.T) {
 		t.Errorf("b4 = 0 without shear reported %+v", c)
 	}
 }
+
+// SlopeGrad returns exactly Slope and D1ParamGrad, for every shape, at
+// arguments across each shape's range (a consistency check of the shared
+// fast paths).
+func TestSlopeGradMatches(t *testing.T) {
+	for _, s := range Catalogue() {
+		p := s.DefaultParams()
+		for _, x := range []float64{0, 1e-6, 0.01, 0.05, 0.1, 0.3, 0.7, 1.5} {
+			if s.Arg == Principal {
+				x += 1
+			}
+			d1, g := s.SlopeGrad(x, p)
+			wantD1, wantG := s.Slope(x, p), s.D1ParamGrad(x, p)
+			if !(d1 == wantD1 || math.Abs(d1-wantD1) <= 1e-14*math.Abs(wantD1)) {
+				t.Errorf("%s x=%g: SlopeGrad f′ %v, Slope %v", s.ID, x, d1, wantD1)
+			}
+			for j := range g {
+				if !(g[j] == wantG[j] || math.Abs(g[j]-wantG[j]) <= 1e-14*math.Abs(wantG[j])) {
+					t.Errorf("%s x=%g: SlopeGrad ∂f′/∂p%d %v, D1ParamGrad %v", s.ID, x, j, g[j], wantG[j])
+				}
+			}
+		}
+	}
+}

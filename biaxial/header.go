@@ -111,6 +111,9 @@ func (p *tableParser) setHeader(line int, fields []string) error {
 		return err
 	}
 	p.timeCycleProtocol()
+	if p.intoTable {
+		p.table = newRawTable(layoutOf(p.rec))
+	}
 	return nil
 }
 

@@ -99,18 +99,23 @@ type tableParser struct {
 	nRows       int
 	lim         Limits  // with defaults filled in
 	toKPa       float64 // multiplies a stress in the record's unit into kPa
+	intoTable   bool    // rows go to table, else to rec.Rows
+	table       *rawTable
 }
 
-func newTableParser(file, sheet string, lim Limits) *tableParser {
+// newTableParser starts reading a table. With intoTable the data rows are
+// kept in a rawTable (made when the header is known) instead of rec.Rows.
+func newTableParser(file, sheet string, lim Limits, intoTable bool) *tableParser {
 	stem := filepath.Base(file)
 	if ext := filepath.Ext(stem); ext != "" {
 		stem = strings.TrimSuffix(stem, ext)
 	}
 	return &tableParser{
-		file:     file,
-		sheet:    sheet,
-		lim:      lim.withDefaults(),
-		metaLine: map[string]int{},
+		file:      file,
+		sheet:     sheet,
+		lim:       lim.withDefaults(),
+		metaLine:  map[string]int{},
+		intoTable: intoTable,
 		rec: &Record{
 			Name:   stem,
 			Source: file,
@@ -160,7 +165,8 @@ func (p *tableParser) notice(format string, args ...any) {
 }
 
 // comment handles a line or row that starts with '#'. text is the content
-// after the '#'. Before the header, `key = value` is metadata.
+// after the '#' (it may be a view of the reader's buffer: what is kept is
+// copied). Before the header, `key = value` is metadata.
 func (p *tableParser) comment(line int, text string) error {
 	if p.header {
 		return nil
@@ -178,6 +184,7 @@ func (p *tableParser) comment(line int, text string) error {
 		return p.errAt(line, 0, ErrMetadata, "keep one of the two lines",
 			"metadata %s is given again (first on line %d)", quote(key), first)
 	}
+	key, val = strings.Clone(key), strings.Clone(val)
 	p.metaLine[key] = line
 	p.rec.Meta[key] = val
 	p.rec.MetaKeys = append(p.rec.MetaKeys, key)
@@ -197,7 +204,7 @@ func validMetaKey(k string) bool {
 // number parses a numeric cell strictly (see ParseNumber), accepting a
 // decimal comma where the separator allows it.
 func (p *tableParser) number(line, col int, s string) (float64, error) {
-	s = strings.TrimSpace(s)
+	s = trimSpace(s)
 	name := p.cols[col-1].header
 	if s == "" {
 		return 0, p.errAt(line, col, ErrNumber, "fill in the value or delete the row",
@@ -228,9 +235,18 @@ func (p *tableParser) number(line, col int, s string) (float64, error) {
 	return v, nil
 }
 
+// trimSpace is strings.TrimSpace, quicker for a cell that starts and ends
+// with a printable ASCII character (no white space, ASCII or not, to trim).
+func trimSpace(s string) string {
+	if n := len(s); n > 0 && s[0] > ' ' && s[0] < utf8.RuneSelf && s[n-1] > ' ' && s[n-1] < utf8.RuneSelf {
+		return s
+	}
+	return strings.TrimSpace(s)
+}
+
 // row reads a data row.
 func (p *tableParser) row(line int, fields []string) error {
-	if len(p.rec.Rows) >= p.lim.MaxRows {
+	if p.nRows >= p.lim.MaxRows {
 		return p.errAt(line, 0, ErrRowCount, "split the file, or raise the row limit if the rows are all needed",
 			"the file has more than %d data rows, the limit for a test file", p.lim.MaxRows)
 	}
@@ -319,7 +335,12 @@ func (p *tableParser) row(line int, fields []string) error {
 	if err := p.plausibleStretch(line, &r); err != nil {
 		return err
 	}
-	p.rec.Rows = append(p.rec.Rows, r)
+	p.nRows++
+	if p.table != nil {
+		p.table.add(&r)
+	} else {
+		p.rec.Rows = append(p.rec.Rows, r)
+	}
 	return nil
 }
 
@@ -416,7 +437,7 @@ func (p *tableParser) finish() (*Record, error) {
 		return nil, p.errAt(0, 0, ErrMissingColumn, "add a header line such as `protocol,stretch_1,stretch_2,cauchy_11,cauchy_22`",
 			"no header line found (the file is empty or holds only comments)")
 	}
-	if len(p.rec.Rows) == 0 {
+	if p.nRows == 0 {
 		return nil, p.errAt(p.headerLine, 0, ErrProtocol, "add the measured rows below the header",
 			"the file has a header but no data rows")
 	}

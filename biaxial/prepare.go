@@ -76,8 +76,9 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 				Fix: "use one of " + quoteList(labels)}
 		}
 	}
+	sc := newScratch(t)
 	for _, g := range t.groups {
-		pr, err := prepareProtocol(rec, t, g, s, opt)
+		pr, err := prepareProtocol(rec, t, g, s, opt, sc)
 		if err != nil {
 			return nil, err
 		}
@@ -162,20 +163,47 @@ type protocolRows struct {
 	rec        *Record
 	t          *rawTable
 	g          *rawGroup
+	sc         *scratch
 	d          []float64
 	dmin, dmax float64
+}
+
+// scratch is working memory shared by the protocols of a table, which are
+// prepared one after the other: the driving stretch of each row, the rows
+// sorted by cycle number, and the positions 0, 1, 2, … that the cycles
+// found from the turns of the stretch are slices of. Nothing of it is kept
+// in a Protocol, so preparing a large file makes little garbage.
+type scratch struct {
+	d       []float64
+	byCycle []int
+	ident   []int
+}
+
+func newScratch(t *rawTable) *scratch {
+	n := 0
+	for _, g := range t.groups {
+		n = max(n, g.n)
+	}
+	sc := &scratch{d: make([]float64, n), ident: make([]int, n)}
+	for i := range sc.ident {
+		sc.ident[i] = i
+	}
+	if t.layout.cycle >= 0 {
+		sc.byCycle = make([]int, n)
+	}
+	return sc
 }
 
 func (r *protocolRows) line(pos int) int { return r.t.line(r.g, pos) }
 
 // prepareProtocol selects, re-references, resamples and weights one protocol.
-func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Options) (Protocol, error) {
+func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Options, sc *scratch) (Protocol, error) {
 	label := g.label
 	pr := Protocol{Label: label, UserWeight: 1, RawRows: g.n, RefF: [4]float64{1, 0, 0, 1}, KeptBranch: opt.Branch}
 	if w, ok := opt.ProtocolWeights[label]; ok {
 		pr.UserWeight = w
 	}
-	rows := &protocolRows{rec: rec, t: t, g: g, d: make([]float64, g.n), dmin: math.Inf(1), dmax: math.Inf(-1)}
+	rows := &protocolRows{rec: rec, t: t, g: g, sc: sc, d: sc.d[:g.n], dmin: math.Inf(1), dmax: math.Inf(-1)}
 	for i := range rows.d {
 		f := t.f(g, i)
 		rows.d[i] = drive(&f)
@@ -197,7 +225,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		cycles = rows.cyclesByColumn()
 	} else {
 		var lead int
-		cycles, lead = cyclesByTurns(rows.d, turnFraction*(rows.dmax-rows.dmin))
+		cycles, lead = cyclesByTurns(rows.d, turnFraction*(rows.dmax-rows.dmin), sc.ident)
 		if lead > 0 {
 			s.Notices = append(s.Notices, fmt.Sprintf("protocol %s: the first %d rows (from line %d) fall before the first loading and belong to no cycle", label, lead, firstLine))
 		}
@@ -306,7 +334,7 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 	if why == "" && r.rec.HasCycle {
 		// Numbered cycles can hide a second protocol inside one cycle: the
 		// directions are compared between the turns of the stretch.
-		cycles, _ = cyclesByTurns(r.d, turnFraction*(r.dmax-r.dmin))
+		cycles, _ = cyclesByTurns(r.d, turnFraction*(r.dmax-r.dmin), r.sc.ident)
 	}
 	if why == "" {
 		a, b, why = r.directions(cycles)
@@ -407,28 +435,54 @@ func keptWords(opt Options, n int) string {
 }
 
 // cyclesByColumn groups a protocol's rows by the file's cycle numbers
-// (ascending); each cycle's peak is its largest driving stretch.
+// (ascending); each cycle's peak is its largest driving stretch. The
+// positions of every cycle are a slice of one scratch list, sorted by
+// cycle number and in file order within a cycle.
 func (r *protocolRows) cyclesByColumn() []cycleSpan {
-	byNum := map[int][]int{}
+	n := r.g.n
+	cycle := func(pos int) int { return r.t.cycle(r.g, pos) }
+	// Rows come in runs of one cycle: the maps are met once a run.
+	count := map[int]int{}
 	var nums []int
-	for pos := 0; pos < r.g.n; pos++ {
-		c := r.t.cycle(r.g, pos)
-		if _, ok := byNum[c]; !ok {
+	for pos := 0; pos < n; {
+		c, end := cycle(pos), pos+1
+		for end < n && cycle(end) == c {
+			end++
+		}
+		if _, ok := count[c]; !ok {
 			nums = append(nums, c)
 		}
-		byNum[c] = append(byNum[c], pos)
+		count[c] += end - pos
+		pos = end
 	}
 	sort.Ints(nums)
+	start := make(map[int]int, len(nums))
+	next := make(map[int]int, len(nums))
+	off := 0
+	for _, c := range nums {
+		start[c], next[c] = off, off
+		off += count[c]
+	}
+	all := r.sc.byCycle[:n]
+	for pos := 0; pos < n; {
+		c := cycle(pos)
+		k := next[c]
+		for ; pos < n && cycle(pos) == c; pos++ {
+			all[k] = pos
+			k++
+		}
+		next[c] = k
+	}
 	spans := make([]cycleSpan, len(nums))
-	for k, c := range nums {
-		idx := byNum[c]
+	for j, c := range nums {
+		idx := all[start[c] : start[c]+count[c]]
 		peak := 0
-		for j, pos := range idx {
+		for i, pos := range idx {
 			if r.d[pos] > r.d[idx[peak]] {
-				peak = j
+				peak = i
 			}
 		}
-		spans[k] = cycleSpan{idx: idx, peak: peak}
+		spans[j] = cycleSpan{idx: idx, peak: peak}
 	}
 	return spans
 }
@@ -439,7 +493,7 @@ func (r *protocolRows) cyclesByColumn() []cycleSpan {
 // ignores jitter smaller than tol. Cycles run valley to valley; rows before
 // a record's first valley, when it starts by falling, belong to no cycle and
 // their count is returned as lead.
-func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
+func cyclesByTurns(d []float64, tol float64, ident []int) (spans []cycleSpan, lead int) {
 	n := len(d)
 	if n == 0 {
 		return nil, 0
@@ -472,7 +526,7 @@ func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
 				peak = j
 			}
 		}
-		return []cycleSpan{{idx: seq(0, n-1), peak: peak}}, 0
+		return []cycleSpan{{idx: ident[:n], peak: peak}}, 0
 	}
 	var peaks, valleys []int
 	if rising {
@@ -505,7 +559,7 @@ func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
 	}
 	if peaks[0] == -1 {
 		if len(valleys) == 0 { // the record only falls: one unloading branch
-			return []cycleSpan{{idx: seq(0, n-1), peak: start}}, 0
+			return []cycleSpan{{idx: ident[:n], peak: start}}, 0
 		}
 		peaks = peaks[1:]
 		lead = valleys[0]
@@ -520,17 +574,9 @@ func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
 			to = valleys[k+1]
 			shared = true
 		}
-		spans = append(spans, cycleSpan{idx: seq(from, to), peak: peaks[k] - from, shared: shared})
+		spans = append(spans, cycleSpan{idx: ident[from : to+1], peak: peaks[k] - from, shared: shared})
 	}
 	return spans, lead
-}
-
-func seq(a, b int) []int {
-	s := make([]int, 0, b-a+1)
-	for i := a; i <= b; i++ {
-		s = append(s, i)
-	}
-	return s
 }
 
 // checkDirection warns when the driving stretch moves against the branch

@@ -116,10 +116,95 @@ func sizeText(n int64) string {
 // mistake, not a number. The error says what is wrong with s; a value
 // beyond the float64 range gives a *strconv.NumError with ErrRange.
 func ParseNumber(s string) (float64, error) {
+	if v, ok := plainDecimal(s); ok {
+		return v, nil
+	}
 	if why := numberSyntax(s); why != "" {
 		return 0, errors.New(why)
 	}
 	return strconv.ParseFloat(s, 64)
+}
+
+// exactPow10 are the powers of ten a float64 holds exactly.
+var exactPow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
+	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
+
+// plainDecimal reads the numbers a tester writes — a few digits, a point,
+// perhaps an exponent — in one pass, and reports false for anything else,
+// which ParseNumber then reads the long way. It only answers when the
+// digits form an integer m < 2⁵³ and the value is m·10^e with |e| ≤ 22:
+// m and 10^|e| are then exact float64 values, so one IEEE multiplication
+// or division rounds m·10^e correctly, to the same float64 as
+// strconv.ParseFloat (which takes the same shortcut, Clinger 1990).
+func plainDecimal(s string) (float64, bool) {
+	i, neg := 0, false
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		neg = s[i] == '-'
+		i++
+	}
+	var m uint64
+	digits, frac, point := 0, 0, false
+	for ; i < len(s); i++ {
+		c := s[i]
+		if c >= '0' && c <= '9' {
+			if digits == 19 {
+				return 0, false // may overflow: the long way
+			}
+			m = m*10 + uint64(c-'0')
+			digits++
+			if point {
+				frac++
+			}
+			continue
+		}
+		if c == '.' && !point {
+			point = true
+			continue
+		}
+		break
+	}
+	if digits == 0 || m >= 1<<53 {
+		return 0, false
+	}
+	exp := 0
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		i++
+		eneg := false
+		if i < len(s) && (s[i] == '+' || s[i] == '-') {
+			eneg = s[i] == '-'
+			i++
+		}
+		start := i
+		for ; i < len(s) && s[i] >= '0' && s[i] <= '9'; i++ {
+			if i-start == 4 {
+				return 0, false
+			}
+			exp = exp*10 + int(s[i]-'0')
+		}
+		if i == start {
+			return 0, false
+		}
+		if eneg {
+			exp = -exp
+		}
+	}
+	if i < len(s) {
+		return 0, false
+	}
+	v := float64(m)
+	switch e := exp - frac; {
+	case m == 0:
+	case e >= 0 && e <= 22:
+		v *= exactPow10[e]
+	case e < 0 && e >= -22:
+		v /= exactPow10[-e]
+	default:
+		return 0, false
+	}
+	if neg {
+		v = -v
+	}
+	return v, true
 }
 
 // numberSyntax returns "" for a plain decimal number, else why it is not one.

@@ -73,23 +73,6 @@ var roleName = [numRoles]string{
 	"load_1", "load_2",
 }
 
-// stress family of a role and the component it fills.
-func stressRole(r role) (family int, c Component, ok bool) {
-	switch r {
-	case roleCauchy11, roleCauchy22, roleCauchy12, roleCauchy21:
-		return 0, Component(r - roleCauchy11), true
-	case roleNominal11, roleNominal22, roleNominal12, roleNominal21:
-		return 1, Component(r - roleNominal11), true
-	case roleLoad1:
-		return 2, C11, true
-	case roleLoad2:
-		return 2, C22, true
-	}
-	return 0, 0, false
-}
-
-var familyName = [3]string{"Cauchy stress", "nominal stress", "load"}
-
 // column is one header field.
 type column struct {
 	role   role
@@ -116,18 +99,23 @@ type tableParser struct {
 	nRows       int
 	lim         Limits  // with defaults filled in
 	toKPa       float64 // multiplies a stress in the record's unit into kPa
+	intoTable   bool    // rows go to table, else to rec.Rows
+	table       *rawTable
 }
 
-func newTableParser(file, sheet string, lim Limits) *tableParser {
+// newTableParser starts reading a table. With intoTable the data rows are
+// kept in a rawTable (made when the header is known) instead of rec.Rows.
+func newTableParser(file, sheet string, lim Limits, intoTable bool) *tableParser {
 	stem := filepath.Base(file)
 	if ext := filepath.Ext(stem); ext != "" {
 		stem = strings.TrimSuffix(stem, ext)
 	}
 	return &tableParser{
-		file:     file,
-		sheet:    sheet,
-		lim:      lim.withDefaults(),
-		metaLine: map[string]int{},
+		file:      file,
+		sheet:     sheet,
+		lim:       lim.withDefaults(),
+		metaLine:  map[string]int{},
+		intoTable: intoTable,
 		rec: &Record{
 			Name:   stem,
 			Source: file,
@@ -177,7 +165,8 @@ func (p *tableParser) notice(format string, args ...any) {
 }
 
 // comment handles a line or row that starts with '#'. text is the content
-// after the '#'. Before the header, `key = value` is metadata.
+// after the '#' (it may be a view of the reader's buffer: what is kept is
+// copied). Before the header, `key = value` is metadata.
 func (p *tableParser) comment(line int, text string) error {
 	if p.header {
 		return nil
@@ -195,6 +184,7 @@ func (p *tableParser) comment(line int, text string) error {
 		return p.errAt(line, 0, ErrMetadata, "keep one of the two lines",
 			"metadata %s is given again (first on line %d)", quote(key), first)
 	}
+	key, val = strings.Clone(key), strings.Clone(val)
 	p.metaLine[key] = line
 	p.rec.Meta[key] = val
 	p.rec.MetaKeys = append(p.rec.MetaKeys, key)
@@ -211,372 +201,10 @@ func validMetaKey(k string) bool {
 	return true
 }
 
-// splitHeader splits "load_1 [N]" into "load_1" and "N". Parentheses are
-// accepted as well as brackets.
-func splitHeader(h string) (name, unit string, hasUnit bool) {
-	h = strings.TrimSpace(h)
-	for _, br := range [2][2]byte{{'[', ']'}, {'(', ')'}} {
-		if i := strings.IndexByte(h, br[0]); i >= 0 && strings.HasSuffix(h, string(br[1])) {
-			return strings.TrimSpace(h[:i]), strings.TrimSpace(h[i+1 : len(h)-1]), true
-		}
-	}
-	return h, "", false
-}
-
-func canonicalName(n string) string {
-	n = strings.ToLower(strings.TrimSpace(n))
-	n = strings.Map(func(r rune) rune {
-		if r == ' ' || r == '-' {
-			return '_'
-		}
-		return r
-	}, n)
-	return n
-}
-
-// metaQuantity parses a metadata length like "0.8 mm" into millimetres.
-func (p *tableParser) metaLength(key string) (float64, bool, error) {
-	v, ok := p.rec.Meta[key]
-	if !ok {
-		return 0, false, nil
-	}
-	line := p.metaLine[key]
-	x, unit, ok := splitQuantity(v, p.decCommaOK)
-	if !ok {
-		return 0, false, p.errAt(line, 0, ErrNumber, "write a number and a length unit, e.g. `# "+key+" = 0.8 mm`",
-			"metadata %s = %s is not a length", key, quote(v))
-	}
-	if unit == "" {
-		return 0, false, p.errAt(line, 0, ErrUnit, "write the unit, e.g. `# "+key+" = "+v+" mm` (m, mm, µm)",
-			"metadata %s = %s has no unit", key, v)
-	}
-	f, ok := LengthToMetre(unit)
-	if !ok {
-		return 0, false, p.errAt(line, 0, ErrUnit, "use one of "+unitNames(lengthUnits),
-			"metadata %s has unknown length unit %s", key, quote(unit))
-	}
-	if !(x > 0) || math.IsInf(x, 0) {
-		return 0, false, p.errAt(line, 0, ErrRange, "give the reference "+key+" of the specimen, a positive length",
-			"metadata %s = %s must be > 0", key, v)
-	}
-	return x * f * 1e3, true, nil
-}
-
-// setHeader reads the header row. fields are the header cells.
-func (p *tableParser) setHeader(line int, fields []string) error {
-	p.header = true
-	p.headerLine = line
-	rec := p.rec
-	if n, ok := rec.Meta["specimen"]; ok && n != "" {
-		if utf8.RuneCountInString(n) > MaxLabelLength {
-			return p.errAt(p.metaLine["specimen"], 0, ErrMetadata, fmt.Sprintf("shorten it to at most %d characters", MaxLabelLength),
-				"metadata specimen is %d characters long (%s); the name also names the output folder", utf8.RuneCountInString(n), quote(n))
-		}
-		rec.Name = n
-	}
-
-	// Geometry first: loads need it, and every given size is checked.
-	var g Geometry
-	var have [3]bool
-	var err error
-	for i, key := range []string{"thickness", "size_1", "size_2"} {
-		var v float64
-		v, have[i], err = p.metaLength(key)
-		if err != nil {
-			return err
-		}
-		switch i {
-		case 0:
-			g.Thickness = v
-		case 1:
-			g.Size1 = v
-		case 2:
-			g.Size2 = v
-		}
-	}
-	if have[0] && have[1] && have[2] {
-		rec.Geometry = &g
-	}
-
-	// Stress unit from metadata, used by stress columns without a unit and
-	// for loads.
-	metaUnit := ""
-	if u, ok := rec.Meta["stress_unit"]; ok {
-		cu, ok := CanonicalStressUnit(u)
-		if !ok {
-			return p.errAt(p.metaLine["stress_unit"], 0, ErrUnit, "use one of Pa, kPa, MPa",
-				"metadata stress_unit = %s is not a stress unit", quote(u))
-		}
-		metaUnit = cu
-	}
-
-	p.cols = make([]column, len(fields))
-	for i, h := range fields {
-		col := i + 1
-		name, unit, hasUnit := splitHeader(h)
-		r, known := columnNames[canonicalName(name)]
-		if !known {
-			if strings.TrimSpace(h) != "" {
-				p.ignored = append(p.ignored, strings.TrimSpace(h))
-				p.notice("%s: column %s is not part of the weft layout and is ignored", p.where(line, col), quote(strings.TrimSpace(h)))
-			}
-			continue
-		}
-		if prev := p.byRole[r]; prev != 0 {
-			return p.errAt(line, col, ErrDuplicateColumn, "remove or rename one of them",
-				"column %s repeats %s (column %d)", quote(strings.TrimSpace(h)), roleName[r], prev)
-		}
-		if r == roleCauchy21 {
-			return p.errAt(line, col, ErrMixedStress, "give the in-plane shear as cauchy_12 only",
-				"column %s: Cauchy stress is symmetric, so cauchy_21 is not a separate quantity", quote(strings.TrimSpace(h)))
-		}
-		p.byRole[r] = col
-		p.cols[i] = column{role: r, header: clip(strings.TrimSpace(h), 80), unit: unit, factor: 1}
-		if hasUnit && unit == "" {
-			hasUnit = false
-		}
-		// Dimensionless and unit-free columns.
-		switch r {
-		case roleProtocol, roleCycle:
-			if hasUnit {
-				return p.errAt(line, col, ErrUnit, "remove the unit", "column %s takes no unit", quote(strings.TrimSpace(h)))
-			}
-		case roleStretch1, roleStretch2, roleF11, roleF12, roleF21, roleF22:
-			if hasUnit && unit != "-" && unit != "1" {
-				return p.errAt(line, col, ErrUnit, "stretches are ratios (1 in the reference state); leave the unit out or write [-]",
-					"column %s has unit %s", quote(strings.TrimSpace(h)), quote(unit))
-			}
-		case roleTime:
-			if hasUnit {
-				d, ok := findUnit(timeUnits, unit)
-				if !ok {
-					return p.errAt(line, col, ErrUnit, "use one of "+unitNames(timeUnits),
-						"column %s has unknown time unit %s", quote(strings.TrimSpace(h)), quote(unit))
-				}
-				p.cols[i].factor = d.toSI
-			}
-		}
-	}
-
-	// Kinematics.
-	hasStretch := p.byRole[roleStretch1] != 0 || p.byRole[roleStretch2] != 0
-	hasF := p.byRole[roleF11] != 0 || p.byRole[roleF12] != 0 || p.byRole[roleF21] != 0 || p.byRole[roleF22] != 0
-	hint := ""
-	if len(p.ignored) > 0 {
-		hint = fmt.Sprintf(" (ignored columns: %s)", clip(strings.Join(p.ignored, ", "), 200))
-	}
-	switch {
-	case hasF:
-		for _, r := range []role{roleF11, roleF12, roleF21, roleF22} {
-			if p.byRole[r] == 0 {
-				return p.errAt(line, 0, ErrMissingColumn, "add the column or give stretch_1, stretch_2 instead",
-					"the header has some of F11, F12, F21, F22 but no %s%s", roleName[r], hint)
-			}
-		}
-		rec.Kinematics = GradientColumns
-		if hasStretch {
-			for _, r := range []role{roleStretch1, roleStretch2} {
-				if c := p.byRole[r]; c != 0 {
-					p.cols[c-1].role = roleIgnore
-					p.byRole[r] = 0
-				}
-			}
-			p.notice("%s: both stretch and F columns are given; F is used and the stretch columns are ignored", p.where(line, 0))
-		}
-	case hasStretch:
-		for _, r := range []role{roleStretch1, roleStretch2} {
-			if p.byRole[r] == 0 {
-				return p.errAt(line, 0, ErrMissingColumn, "add the column (header names are case-insensitive)",
-					"the header has no %s column%s", roleName[r], hint)
-			}
-		}
-		rec.Kinematics = StretchColumns
-	default:
-		return p.errAt(line, 0, ErrMissingColumn,
-			"name the kinematic columns stretch_1, stretch_2 or F11, F12, F21, F22 (case-insensitive)",
-			"no kinematic columns in the header%s", hint)
-	}
-
-	// Stress family: one per file, except that loads may be completed by
-	// nominal shear components (both are nominal).
-	present := [3]bool{}
-	for r := role(0); r < numRoles; r++ {
-		if fam, _, ok := stressRole(r); ok && p.byRole[r] != 0 {
-			present[fam] = true
-		}
-	}
-	// Conflicts per axis first: they are the most specific message.
-	for c := C11; c < NumComponents; c++ {
-		var who []int
-		for r := role(0); r < numRoles; r++ {
-			if _, cc, ok := stressRole(r); ok && cc == c && p.byRole[r] != 0 {
-				who = append(who, p.byRole[r])
-			}
-		}
-		if len(who) > 1 {
-			return p.errAt(line, who[1], ErrMixedStress, "keep one stress measure per axis and remove the other column",
-				"columns %s and %s both give the %s stress", quote(p.cols[who[0]-1].header), quote(p.cols[who[1]-1].header), c)
-		}
-	}
-	var fam int
-	switch {
-	case present[0] && (present[1] || present[2]):
-		c := p.firstOf(roleNominal11, roleNominal22, roleNominal12, roleNominal21, roleLoad1, roleLoad2)
-		return p.errAt(line, c, ErrMixedStress, "give all stresses as Cauchy or all as nominal (loads count as nominal)",
-			"the header mixes Cauchy stress with %s", p.cols[c-1].header)
-	case present[2]:
-		fam = 2
-		if p.byRole[roleNominal11] != 0 || p.byRole[roleNominal22] != 0 {
-			c := p.firstOf(roleNominal11, roleNominal22)
-			return p.errAt(line, c, ErrMixedStress, "give both normal axes as loads or both as nominal stress",
-				"the header mixes loads with %s", p.cols[c-1].header)
-		}
-	case present[1]:
-		fam = 1
-	case present[0]:
-		fam = 0
-	default:
-		return p.errAt(line, 0, ErrMissingColumn,
-			"add cauchy_11, cauchy_22, or nominal_11, nominal_22, or load_1, load_2 (with thickness and sizes)",
-			"no stress columns in the header%s", hint)
-	}
-	need := map[int][]role{0: {roleCauchy11, roleCauchy22}, 1: {roleNominal11, roleNominal22}, 2: {roleLoad1, roleLoad2}}[fam]
-	for _, r := range need {
-		if p.byRole[r] == 0 {
-			return p.errAt(line, 0, ErrMissingColumn, "add the column: both normal axes are needed",
-				"the header has %s but no %s column%s", familyName[fam], roleName[r], hint)
-		}
-	}
-	if fam == 1 && (p.byRole[roleNominal12] != 0) != (p.byRole[roleNominal21] != 0) {
-		return p.errAt(line, 0, ErrMissingColumn, "give both nominal_12 and nominal_21 (nominal stress is not symmetric) or neither",
-			"the header has only one of nominal_12, nominal_21")
-	}
-	if fam == 2 && (p.byRole[roleNominal12] != 0) != (p.byRole[roleNominal21] != 0) {
-		return p.errAt(line, 0, ErrMissingColumn, "give both nominal_12 and nominal_21 or neither",
-			"the header has only one of nominal_12, nominal_21")
-	}
-	if fam == 0 {
-		rec.Kind = Cauchy
-	} else {
-		rec.Kind = Nominal
-	}
-	rec.FromLoads = fam == 2
-
-	// Output stress unit.
-	outUnit := ""
-	if fam == 2 {
-		outUnit = metaUnit
-	} else {
-		for i := range p.cols {
-			if _, _, ok := stressRole(p.cols[i].role); ok {
-				if p.cols[i].unit != "" {
-					u, ok := CanonicalStressUnit(p.cols[i].unit)
-					if !ok {
-						return p.errAt(line, i+1, ErrUnit, "use one of Pa, kPa, MPa",
-							"column %s has unknown stress unit %s", quote(p.cols[i].header), quote(p.cols[i].unit))
-					}
-					outUnit = u
-					if metaUnit != "" && metaUnit != u {
-						p.notice("%s: metadata stress_unit = %s differs from column %s; the column's unit is used", p.where(line, i+1), metaUnit, quote(p.cols[i].header))
-					}
-				} else {
-					outUnit = metaUnit
-				}
-				break
-			}
-		}
-	}
-	if outUnit == "" {
-		outUnit = "kPa"
-		if fam != 2 {
-			p.notice("%s: no stress unit given; stresses are read as kPa", p.where(line, 0))
-		}
-	}
-	rec.StressUnit = outUnit
-	p.toKPa, _ = StressFactor(outUnit, "kPa")
-
-	// Stress column factors.
-	for i := range p.cols {
-		c := &p.cols[i]
-		_, comp, ok := stressRole(c.role)
-		if !ok {
-			continue
-		}
-		rec.Measured[comp] = true
-		if c.role == roleLoad1 || c.role == roleLoad2 {
-			if c.unit == "" {
-				return p.errAt(line, i+1, ErrUnit, "write the load unit in the header, e.g. `"+roleName[c.role]+" [N]` (N, mN, gf)",
-					"column %s has no unit", quote(c.header))
-			}
-			fN, ok := ForceToNewton(c.unit)
-			if !ok {
-				return p.errAt(line, i+1, ErrUnit, "use one of "+unitNames(forceUnits),
-					"column %s has unknown force unit %s", quote(c.header), quote(c.unit))
-			}
-			if rec.Geometry == nil {
-				var missing []string
-				for k, key := range []string{"thickness", "size_1", "size_2"} {
-					if !have[k] {
-						missing = append(missing, key)
-					}
-				}
-				return p.errAt(line, i+1, ErrGeometry,
-					"add metadata lines before the header, e.g. `# thickness = 0.8 mm`, `# size_1 = 10 mm`, `# size_2 = 10 mm`",
-					"loads need the specimen geometry, but the metadata lack %s", strings.Join(missing, ", "))
-			}
-			// P11 = f1/(W2·H), P22 = f2/(W1·H) (Sacks 2000); lengths in mm.
-			width := rec.Geometry.Size2
-			if c.role == roleLoad2 {
-				width = rec.Geometry.Size1
-			}
-			toOut, _ := StressFactor("Pa", outUnit)
-			c.factor = fN / (width * 1e-3 * rec.Geometry.Thickness * 1e-3) * toOut
-			continue
-		}
-		u := c.unit
-		if u == "" {
-			u = metaUnit
-			if u == "" {
-				u = "kPa"
-			}
-		}
-		f, ok := StressFactor(u, outUnit)
-		if !ok {
-			return p.errAt(line, i+1, ErrUnit, "use one of Pa, kPa, MPa",
-				"column %s has unknown stress unit %s", quote(c.header), quote(c.unit))
-		}
-		if cu, _ := CanonicalStressUnit(u); cu != outUnit {
-			p.notice("%s: column %s is in %s; converted to %s like the first stress column", p.where(line, i+1), quote(c.header), cu, outUnit)
-		}
-		c.factor = f
-	}
-
-	rec.HasTime = p.byRole[roleTime] != 0
-	rec.HasCycle = p.byRole[roleCycle] != 0
-	if p.byRole[roleProtocol] == 0 {
-		p.protoLabel = "all"
-		if v := strings.TrimSpace(rec.Meta["protocol"]); v != "" {
-			p.protoLabel = v
-		}
-	}
-	return nil
-}
-
-// firstOf returns the column of the first present role.
-func (p *tableParser) firstOf(rs ...role) int {
-	best := 0
-	for _, r := range rs {
-		if c := p.byRole[r]; c != 0 && (best == 0 || c < best) {
-			best = c
-		}
-	}
-	return best
-}
-
 // number parses a numeric cell strictly (see ParseNumber), accepting a
 // decimal comma where the separator allows it.
 func (p *tableParser) number(line, col int, s string) (float64, error) {
-	s = strings.TrimSpace(s)
+	s = trimSpace(s)
 	name := p.cols[col-1].header
 	if s == "" {
 		return 0, p.errAt(line, col, ErrNumber, "fill in the value or delete the row",
@@ -607,9 +235,18 @@ func (p *tableParser) number(line, col int, s string) (float64, error) {
 	return v, nil
 }
 
+// trimSpace is strings.TrimSpace, quicker for a cell that starts and ends
+// with a printable ASCII character (no white space, ASCII or not, to trim).
+func trimSpace(s string) string {
+	if n := len(s); n > 0 && s[0] > ' ' && s[0] < utf8.RuneSelf && s[n-1] > ' ' && s[n-1] < utf8.RuneSelf {
+		return s
+	}
+	return strings.TrimSpace(s)
+}
+
 // row reads a data row.
 func (p *tableParser) row(line int, fields []string) error {
-	if len(p.rec.Rows) >= p.lim.MaxRows {
+	if p.nRows >= p.lim.MaxRows {
 		return p.errAt(line, 0, ErrRowCount, "split the file, or raise the row limit if the rows are all needed",
 			"the file has more than %d data rows, the limit for a test file", p.lim.MaxRows)
 	}
@@ -698,7 +335,12 @@ func (p *tableParser) row(line int, fields []string) error {
 	if err := p.plausibleStretch(line, &r); err != nil {
 		return err
 	}
-	p.rec.Rows = append(p.rec.Rows, r)
+	p.nRows++
+	if p.table != nil {
+		p.table.add(&r)
+	} else {
+		p.rec.Rows = append(p.rec.Rows, r)
+	}
 	return nil
 }
 
@@ -795,7 +437,7 @@ func (p *tableParser) finish() (*Record, error) {
 		return nil, p.errAt(0, 0, ErrMissingColumn, "add a header line such as `protocol,stretch_1,stretch_2,cauchy_11,cauchy_22`",
 			"no header line found (the file is empty or holds only comments)")
 	}
-	if len(p.rec.Rows) == 0 {
+	if p.nRows == 0 {
 		return nil, p.errAt(p.headerLine, 0, ErrProtocol, "add the measured rows below the header",
 			"the file has a header but no data rows")
 	}

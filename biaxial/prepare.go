@@ -56,6 +56,49 @@ func Prepare(rec *Record, opt Options) (*Specimen, error) {
 	if err := opt.check(); err != nil {
 		return nil, err
 	}
+	return prepare(rec, tableOf(rec), opt)
+}
+
+// prepare is Prepare on the rows of rec held in t (rec.Rows is not read).
+func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
+	s := specimenOf(rec)
+	if t.rows == 0 {
+		return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrProtocol, Msg: "the record has no data rows"}
+	}
+	for _, k := range sortedKeys(opt.ProtocolWeights) {
+		if _, ok := t.byLabel[k]; !ok {
+			labels := make([]string, len(t.groups))
+			for i, g := range t.groups {
+				labels[i] = g.label
+			}
+			return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrOptions,
+				Msg: fmt.Sprintf("a weight is given for protocol %s, which the file does not have", quote(k)),
+				Fix: "use one of " + quoteList(labels)}
+		}
+	}
+	sc := newScratch(t)
+	for _, g := range t.groups {
+		pr, err := prepareProtocol(rec, t, g, s, opt, sc)
+		if err != nil {
+			return nil, err
+		}
+		s.Protocols = append(s.Protocols, pr)
+	}
+	// Shear information: a measured shear stress or non-zero F12/F21.
+	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
+	if opt.Rereference {
+		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
+		if s.Kind == Nominal {
+			s.Reference += ", nominal stress re-based P ← P·F_refᵀ"
+		}
+		s.Reference += ", tare subtracted"
+	}
+	warnPointCounts(s)
+	return s, nil
+}
+
+// specimenOf copies what a record says about the whole specimen.
+func specimenOf(rec *Record) *Specimen {
 	s := &Specimen{
 		Name:       rec.Name,
 		Source:     rec.Source,
@@ -82,74 +125,31 @@ func Prepare(rec *Record, opt Options) (*Specimen, error) {
 	if s.StressUnit == "" {
 		s.StressUnit = "kPa"
 	}
-	if len(rec.Rows) == 0 {
-		return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrProtocol, Msg: "the record has no data rows"}
-	}
+	return s
+}
 
-	// Group rows by protocol, in order of first appearance.
-	var labels []string
-	groups := map[string][]int{}
-	for i := range rec.Rows {
-		l := rec.Rows[i].Protocol
-		if _, ok := groups[l]; !ok {
-			labels = append(labels, l)
-		}
-		groups[l] = append(groups[l], i)
+// warnPointCounts warns when protocols keep very different numbers of
+// points.
+func warnPointCounts(s *Specimen) {
+	if len(s.Protocols) < 2 {
+		return
 	}
-	for _, k := range sortedKeys(opt.ProtocolWeights) {
-		if _, ok := groups[k]; !ok {
-			return nil, &ParseError{File: rec.Source, Sheet: rec.Sheet, Err: ErrOptions,
-				Msg: fmt.Sprintf("a weight is given for protocol %s, which the file does not have", quote(k)),
-				Fix: "use one of " + quoteList(labels)}
+	lo, hi := 0, 0
+	for i := range s.Protocols {
+		n := s.Protocols[i].SelectedPoints
+		if n < s.Protocols[lo].SelectedPoints {
+			lo = i
 		}
-	}
-
-	for _, label := range labels {
-		rows := groups[label]
-		pr, err := prepareProtocol(rec, s, label, rows, opt)
-		if err != nil {
-			return nil, err
-		}
-		s.Protocols = append(s.Protocols, pr)
-	}
-
-	// Shear information: a measured shear stress or non-zero F12/F21.
-	s.HasShear = s.Measured[C12] || s.Measured[C21]
-	for i := range rec.Rows {
-		if rec.Rows[i].F[1] != 0 || rec.Rows[i].F[2] != 0 {
-			s.HasShear = true
-			break
+		if n > s.Protocols[hi].SelectedPoints {
+			hi = i
 		}
 	}
-
-	if opt.Rereference {
-		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
-		if s.Kind == Nominal {
-			s.Reference += ", nominal stress re-based P ← P·F_refᵀ"
-		}
-		s.Reference += ", tare subtracted"
+	nlo, nhi := s.Protocols[lo].SelectedPoints, s.Protocols[hi].SelectedPoints
+	if float64(nhi) > countRatio*float64(nlo) {
+		s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
+			Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export, or resample the protocols to a common number of points",
+				s.Protocols[hi].Label, nhi, s.Protocols[lo].Label, nlo)})
 	}
-
-	// Very different point counts.
-	if len(s.Protocols) > 1 {
-		lo, hi := 0, 0
-		for i := range s.Protocols {
-			n := s.Protocols[i].SelectedPoints
-			if n < s.Protocols[lo].SelectedPoints {
-				lo = i
-			}
-			if n > s.Protocols[hi].SelectedPoints {
-				hi = i
-			}
-		}
-		nlo, nhi := s.Protocols[lo].SelectedPoints, s.Protocols[hi].SelectedPoints
-		if float64(nhi) > countRatio*float64(nlo) {
-			s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
-				Message: fmt.Sprintf("protocol %s keeps %d points but protocol %s only %d; the weights give each protocol the same say, but the sparse one is resolved coarsely — check the export, or resample the protocols to a common number of points",
-					s.Protocols[hi].Label, nhi, s.Protocols[lo].Label, nlo)})
-		}
-	}
-	return s, nil
 }
 
 func (s *Specimen) warn(line int, protocol, format string, args ...any) {
@@ -157,103 +157,97 @@ func (s *Specimen) warn(line int, protocol, format string, args ...any) {
 		Message: fmt.Sprintf(format, args...)})
 }
 
+// protocolRows is one protocol's rows of a table, with the driving
+// stretch of each and its range, while the protocol is prepared.
+type protocolRows struct {
+	rec        *Record
+	t          *rawTable
+	g          *rawGroup
+	sc         *scratch
+	d          []float64
+	dmin, dmax float64
+}
+
+// scratch is working memory shared by the protocols of a table, which are
+// prepared one after the other: the driving stretch of each row, the rows
+// sorted by cycle number, and the positions 0, 1, 2, … that the cycles
+// found from the turns of the stretch are slices of. Nothing of it is kept
+// in a Protocol, so preparing a large file makes little garbage.
+type scratch struct {
+	d       []float64
+	byCycle []int
+	ident   []int
+}
+
+func newScratch(t *rawTable) *scratch {
+	n := 0
+	for _, g := range t.groups {
+		n = max(n, g.n)
+	}
+	sc := &scratch{d: make([]float64, n), ident: make([]int, n)}
+	for i := range sc.ident {
+		sc.ident[i] = i
+	}
+	if t.layout.cycle >= 0 {
+		sc.byCycle = make([]int, n)
+	}
+	return sc
+}
+
+func (r *protocolRows) line(pos int) int { return r.t.line(r.g, pos) }
+
 // prepareProtocol selects, re-references, resamples and weights one protocol.
-func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Options) (Protocol, error) {
-	pr := Protocol{Label: label, UserWeight: 1, RawRows: len(rows), RefF: [4]float64{1, 0, 0, 1}, KeptBranch: opt.Branch}
+func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Options, sc *scratch) (Protocol, error) {
+	label := g.label
+	pr := Protocol{Label: label, UserWeight: 1, RawRows: g.n, RefF: [4]float64{1, 0, 0, 1}, KeptBranch: opt.Branch}
 	if w, ok := opt.ProtocolWeights[label]; ok {
 		pr.UserWeight = w
 	}
-	firstLine := rec.Rows[rows[0]].Line
+	rows := &protocolRows{rec: rec, t: t, g: g, sc: sc, d: sc.d[:g.n], dmin: math.Inf(1), dmax: math.Inf(-1)}
+	for i := range rows.d {
+		f := t.f(g, i)
+		rows.d[i] = drive(&f)
+		rows.dmin = math.Min(rows.dmin, rows.d[i])
+		rows.dmax = math.Max(rows.dmax, rows.d[i])
+	}
+	firstLine := rows.line(0)
 	perr := func(cat error, fix, format string, args ...any) *ParseError {
 		return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: firstLine, Err: cat, Fix: fix,
 			Msg: fmt.Sprintf("protocol %s (rows from line %d): ", label, firstLine) + fmt.Sprintf(format, args...)}
 	}
-
-	d := make([]float64, len(rows))
-	dmin, dmax := math.Inf(1), math.Inf(-1)
-	for i, r := range rows {
-		d[i] = drive(&rec.Rows[r].F)
-		dmin = math.Min(dmin, d[i])
-		dmax = math.Max(dmax, d[i])
-	}
-	if len(rows) >= MinPoints && !(dmax > dmin) {
+	if g.n >= MinPoints && !(rows.dmax > rows.dmin) {
 		return pr, perr(ErrProtocol, "check the kinematic columns; a protocol must stretch the specimen",
 			"the stretch never changes")
 	}
 
 	var cycles []cycleSpan
 	if rec.HasCycle {
-		cycles = cyclesByColumn(rec, rows, d)
+		cycles = rows.cyclesByColumn()
 	} else {
 		var lead int
-		cycles, lead = cyclesByTurns(d, turnFraction*(dmax-dmin))
+		cycles, lead = cyclesByTurns(rows.d, turnFraction*(rows.dmax-rows.dmin), sc.ident)
 		if lead > 0 {
 			s.Notices = append(s.Notices, fmt.Sprintf("protocol %s: the first %d rows (from line %d) fall before the first loading and belong to no cycle", label, lead, firstLine))
 		}
 	}
 	pr.Cycles = len(cycles)
-	if err := mixedProtocol(rec, label, rows, cycles, d); err != nil {
+	if err := rows.mixed(cycles); err != nil {
 		return pr, err
 	}
-
-	// Choose cycles.
-	var chosen []int
-	switch {
-	case opt.Cycle == CycleAll:
-		for k := range cycles {
-			chosen = append(chosen, k)
-		}
-	case opt.Cycle == CycleLast:
-		chosen = []int{len(cycles) - 1}
-		pr.KeptCycle = len(cycles)
-	default:
-		if opt.Cycle > len(cycles) {
-			return pr, perr(ErrProtocol, fmt.Sprintf("choose a cycle from 1 to %d, or last", len(cycles)),
-				"cycle %d was asked for, but the protocol has %d", opt.Cycle, len(cycles))
-		}
-		chosen = []int{opt.Cycle - 1}
-		pr.KeptCycle = opt.Cycle
+	chosen, err := chooseCycles(opt, len(cycles), &pr, perr)
+	if err != nil {
+		return pr, err
 	}
-	if (opt.Cycle == CycleAll && len(cycles) > 1 || opt.Branch == BranchAll) && opt.Resample > 0 {
-		return pr, perr(ErrOptions, "resample a single branch of a single cycle",
-			"resampling needs a single branch of a single cycle, but %s", keptWords(opt, len(cycles)))
-	}
-
-	// Collect the kept positions and check the branch directions.
-	var keep []int
-	var cyc []int
-	for _, k := range chosen {
-		c := cycles[k]
-		var part []int
-		switch opt.Branch {
-		case BranchLoading:
-			part = c.idx[:c.peak+1]
-			checkDirection(s, rec, label, rows, d, part, +1, backFraction*(dmax-dmin))
-		case BranchUnloading:
-			part = c.idx[c.peak:]
-			checkDirection(s, rec, label, rows, d, part, -1, backFraction*(dmax-dmin))
-		case BranchAll:
-			part = c.idx
-			if c.shared && k != chosen[len(chosen)-1] {
-				part = part[:len(part)-1]
-			}
-			checkDirection(s, rec, label, rows, d, c.idx[:c.peak+1], +1, backFraction*(dmax-dmin))
-			checkDirection(s, rec, label, rows, d, c.idx[c.peak:], -1, backFraction*(dmax-dmin))
-		}
-		keep = append(keep, part...)
-		for range part {
-			cyc = append(cyc, k+1)
-		}
-	}
+	keep, cyc := rows.keepBranches(s, opt.Branch, cycles, chosen)
 	pr.SelectedPoints = len(keep)
-	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), len(rows))
+	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), g.n)
 	if len(keep) < MinPoints {
 		return pr, perr(ErrProtocol, "choose another cycle or branch, or check that the protocol labels and the stretch columns are right",
 			"keeps %s (%s); at least %d are needed", plural(len(keep), "point"), keptWords(opt, len(cycles)), MinPoints)
 	}
 	pts := make([]Point, len(keep))
 	for i, pos := range keep {
-		pts[i] = rec.Rows[rows[pos]].Point
+		pts[i] = t.point(g, pos)
 		pts[i].Cycle = cyc[i]
 	}
 
@@ -262,7 +256,6 @@ func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Opt
 	}
 	checkNegative(s, label, pts)
 	if opt.Resample > 0 {
-		var err error
 		pts, err = resample(pts, opt.Resample)
 		if err != nil {
 			return pr, perr(ErrProtocol, "keep a branch whose stretch changes, or do not resample", "%v", err)
@@ -273,75 +266,141 @@ func prepareProtocol(rec *Record, s *Specimen, label string, rows []int, opt Opt
 	return pr, nil
 }
 
-// mixedProtocol refuses rows of one label that cannot be one protocol —
-// a label reused for another protocol would otherwise lose rows silently
-// to the cycle selection: with a cycle column, a cycle number that comes
-// back after other cycles; in any case, cycles whose peaks stretch the
-// specimen in directions more than sameDirection degrees apart. The
-// message names the line ranges of both parts.
-func mixedProtocol(rec *Record, label string, rows []int, cycles []cycleSpan, d []float64) error {
-	line := func(pos int) int { return rec.Rows[rows[pos]].Line }
-	span := func(c cycleSpan) [2]int { return [2]int{line(c.idx[0]), line(c.idx[len(c.idx)-1])} }
-	var a, b [2]int
-	why := ""
-	if rec.HasCycle {
-		first := map[int][2]int{}
-		for pos := 0; pos < len(rows) && why == ""; {
-			c, end := rec.Rows[rows[pos]].Cycle, pos
-			for end+1 < len(rows) && rec.Rows[rows[end+1]].Cycle == c {
-				end++
+// chooseCycles returns the cycles (0-based) opt keeps of n, and refuses
+// resampling over more than one branch or cycle.
+func chooseCycles(opt Options, n int, pr *Protocol, perr func(cat error, fix, format string, args ...any) *ParseError) ([]int, error) {
+	var chosen []int
+	switch {
+	case opt.Cycle == CycleAll:
+		for k := 0; k < n; k++ {
+			chosen = append(chosen, k)
+		}
+	case opt.Cycle == CycleLast:
+		chosen = []int{n - 1}
+		pr.KeptCycle = n
+	default:
+		if opt.Cycle > n {
+			return nil, perr(ErrProtocol, fmt.Sprintf("choose a cycle from 1 to %d, or last", n),
+				"cycle %d was asked for, but the protocol has %d", opt.Cycle, n)
+		}
+		chosen = []int{opt.Cycle - 1}
+		pr.KeptCycle = opt.Cycle
+	}
+	if (opt.Cycle == CycleAll && n > 1 || opt.Branch == BranchAll) && opt.Resample > 0 {
+		return nil, perr(ErrOptions, "resample a single branch of a single cycle",
+			"resampling needs a single branch of a single cycle, but %s", keptWords(opt, n))
+	}
+	return chosen, nil
+}
+
+// keepBranches collects the kept positions of the chosen cycles with their
+// cycle numbers (1-based), and warns where a kept branch runs backwards.
+func (r *protocolRows) keepBranches(s *Specimen, br Branch, cycles []cycleSpan, chosen []int) (keep, cyc []int) {
+	tol := backFraction * (r.dmax - r.dmin)
+	for _, k := range chosen {
+		c := cycles[k]
+		var part []int
+		switch br {
+		case BranchLoading:
+			part = c.idx[:c.peak+1]
+			r.checkDirection(s, part, +1, tol)
+		case BranchUnloading:
+			part = c.idx[c.peak:]
+			r.checkDirection(s, part, -1, tol)
+		case BranchAll:
+			part = c.idx
+			if c.shared && k != chosen[len(chosen)-1] {
+				part = part[:len(part)-1]
 			}
-			run := [2]int{line(pos), line(end)}
-			if prev, seen := first[c]; seen {
-				a, b, why = prev, run, fmt.Sprintf("both hold cycle %d, with other cycles between them", c)
-			}
-			first[c] = run
-			pos = end + 1
+			r.checkDirection(s, c.idx[:c.peak+1], +1, tol)
+			r.checkDirection(s, c.idx[c.peak:], -1, tol)
+		}
+		keep = append(keep, part...)
+		for range part {
+			cyc = append(cyc, k+1)
 		}
 	}
-	if why == "" && rec.HasCycle {
+	return keep, cyc
+}
+
+// mixed refuses rows of one label that cannot be one protocol — a label
+// reused for another protocol would otherwise lose rows silently to the
+// cycle selection: with a cycle column, a cycle number that comes back
+// after other cycles; in any case, cycles whose peaks stretch the specimen
+// in directions more than sameDirection degrees apart. The message names
+// the line ranges of both parts.
+func (r *protocolRows) mixed(cycles []cycleSpan) error {
+	a, b, why := r.repeatedCycle()
+	if why == "" && r.rec.HasCycle {
 		// Numbered cycles can hide a second protocol inside one cycle: the
 		// directions are compared between the turns of the stretch.
-		dmin, dmax := math.Inf(1), math.Inf(-1)
-		for _, x := range d {
-			dmin, dmax = math.Min(dmin, x), math.Max(dmax, x)
-		}
-		cycles, _ = cyclesByTurns(d, turnFraction*(dmax-dmin))
+		cycles, _ = cyclesByTurns(r.d, turnFraction*(r.dmax-r.dmin), r.sc.ident)
 	}
-	if why == "" && len(cycles) > 1 {
-		peak := func(c cycleSpan) int { return c.idx[c.peak] }
-		maxd := 0.0
-		for _, c := range cycles {
-			maxd = math.Max(maxd, d[peak(c)])
-		}
-		ref := -1
-		for k, c := range cycles {
-			if d[peak(c)] < directionFloor*maxd || !(maxd > 0) {
-				continue
-			}
-			if ref < 0 {
-				ref = k
-				continue
-			}
-			u, v := &rec.Rows[rows[peak(cycles[ref])]].Point, &rec.Rows[rows[peak(c)]].Point
-			if angleDeg(u.F, v.F) > sameDirection {
-				a, b = span(cycles[ref]), span(c)
-				why = fmt.Sprintf("stretch the specimen in different directions (at their peaks stretch_1 − 1 : stretch_2 − 1 is %.3g : %.3g and %.3g : %.3g)",
-					u.Stretch1()-1, u.Stretch2()-1, v.Stretch1()-1, v.Stretch2()-1)
-				break
-			}
-		}
+	if why == "" {
+		a, b, why = r.directions(cycles)
 	}
 	if why == "" {
 		return nil
 	}
 	lines := "lines"
-	if rec.Sheet != "" {
+	if r.rec.Sheet != "" {
 		lines = "rows"
 	}
-	return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: "give each protocol its own label",
+	return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: "give each protocol its own label",
 		Msg: fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
-			quote(label), lines, a[0], a[1], b[0], b[1], why)}
+			quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)}
+}
+
+// repeatedCycle finds a cycle number that comes back after other cycles,
+// returning the line ranges of its two runs.
+func (r *protocolRows) repeatedCycle() (a, b [2]int, why string) {
+	if !r.rec.HasCycle {
+		return a, b, ""
+	}
+	first := map[int][2]int{}
+	for pos := 0; pos < r.g.n; {
+		c, end := r.t.cycle(r.g, pos), pos
+		for end+1 < r.g.n && r.t.cycle(r.g, end+1) == c {
+			end++
+		}
+		run := [2]int{r.line(pos), r.line(end)}
+		if prev, seen := first[c]; seen {
+			return prev, run, fmt.Sprintf("both hold cycle %d, with other cycles between them", c)
+		}
+		first[c] = run
+		pos = end + 1
+	}
+	return a, b, ""
+}
+
+// directions finds two cycles whose peaks stretch the specimen in
+// different directions, returning their line ranges.
+func (r *protocolRows) directions(cycles []cycleSpan) (a, b [2]int, why string) {
+	if len(cycles) < 2 {
+		return a, b, ""
+	}
+	span := func(c cycleSpan) [2]int { return [2]int{r.line(c.idx[0]), r.line(c.idx[len(c.idx)-1])} }
+	peak := func(c cycleSpan) int { return c.idx[c.peak] }
+	maxd := 0.0
+	for _, c := range cycles {
+		maxd = math.Max(maxd, r.d[peak(c)])
+	}
+	ref := -1
+	for k, c := range cycles {
+		if r.d[peak(c)] < directionFloor*maxd || !(maxd > 0) {
+			continue
+		}
+		if ref < 0 {
+			ref = k
+			continue
+		}
+		u, v := r.t.point(r.g, peak(cycles[ref])), r.t.point(r.g, peak(c))
+		if angleDeg(u.F, v.F) > sameDirection {
+			return span(cycles[ref]), span(c), fmt.Sprintf("stretch the specimen in different directions (at their peaks stretch_1 − 1 : stretch_2 − 1 is %.3g : %.3g and %.3g : %.3g)",
+				u.Stretch1()-1, u.Stretch2()-1, v.Stretch1()-1, v.Stretch2()-1)
+		}
+	}
+	return a, b, ""
 }
 
 // angleDeg is the angle between F − I of two deformations, in degrees.
@@ -376,28 +435,54 @@ func keptWords(opt Options, n int) string {
 }
 
 // cyclesByColumn groups a protocol's rows by the file's cycle numbers
-// (ascending); each cycle's peak is its largest driving stretch.
-func cyclesByColumn(rec *Record, rows []int, d []float64) []cycleSpan {
-	byNum := map[int][]int{}
+// (ascending); each cycle's peak is its largest driving stretch. The
+// positions of every cycle are a slice of one scratch list, sorted by
+// cycle number and in file order within a cycle.
+func (r *protocolRows) cyclesByColumn() []cycleSpan {
+	n := r.g.n
+	cycle := func(pos int) int { return r.t.cycle(r.g, pos) }
+	// Rows come in runs of one cycle: the maps are met once a run.
+	count := map[int]int{}
 	var nums []int
-	for pos, r := range rows {
-		c := rec.Rows[r].Cycle
-		if _, ok := byNum[c]; !ok {
+	for pos := 0; pos < n; {
+		c, end := cycle(pos), pos+1
+		for end < n && cycle(end) == c {
+			end++
+		}
+		if _, ok := count[c]; !ok {
 			nums = append(nums, c)
 		}
-		byNum[c] = append(byNum[c], pos)
+		count[c] += end - pos
+		pos = end
 	}
 	sort.Ints(nums)
+	start := make(map[int]int, len(nums))
+	next := make(map[int]int, len(nums))
+	off := 0
+	for _, c := range nums {
+		start[c], next[c] = off, off
+		off += count[c]
+	}
+	all := r.sc.byCycle[:n]
+	for pos := 0; pos < n; {
+		c := cycle(pos)
+		k := next[c]
+		for ; pos < n && cycle(pos) == c; pos++ {
+			all[k] = pos
+			k++
+		}
+		next[c] = k
+	}
 	spans := make([]cycleSpan, len(nums))
-	for k, c := range nums {
-		idx := byNum[c]
+	for j, c := range nums {
+		idx := all[start[c] : start[c]+count[c]]
 		peak := 0
-		for j, pos := range idx {
-			if d[pos] > d[idx[peak]] {
-				peak = j
+		for i, pos := range idx {
+			if r.d[pos] > r.d[idx[peak]] {
+				peak = i
 			}
 		}
-		spans[k] = cycleSpan{idx: idx, peak: peak}
+		spans[j] = cycleSpan{idx: idx, peak: peak}
 	}
 	return spans
 }
@@ -408,7 +493,7 @@ func cyclesByColumn(rec *Record, rows []int, d []float64) []cycleSpan {
 // ignores jitter smaller than tol. Cycles run valley to valley; rows before
 // a record's first valley, when it starts by falling, belong to no cycle and
 // their count is returned as lead.
-func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
+func cyclesByTurns(d []float64, tol float64, ident []int) (spans []cycleSpan, lead int) {
 	n := len(d)
 	if n == 0 {
 		return nil, 0
@@ -441,7 +526,7 @@ func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
 				peak = j
 			}
 		}
-		return []cycleSpan{{idx: seq(0, n-1), peak: peak}}, 0
+		return []cycleSpan{{idx: ident[:n], peak: peak}}, 0
 	}
 	var peaks, valleys []int
 	if rising {
@@ -474,7 +559,7 @@ func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
 	}
 	if peaks[0] == -1 {
 		if len(valleys) == 0 { // the record only falls: one unloading branch
-			return []cycleSpan{{idx: seq(0, n-1), peak: start}}, 0
+			return []cycleSpan{{idx: ident[:n], peak: start}}, 0
 		}
 		peaks = peaks[1:]
 		lead = valleys[0]
@@ -489,25 +574,18 @@ func cyclesByTurns(d []float64, tol float64) (spans []cycleSpan, lead int) {
 			to = valleys[k+1]
 			shared = true
 		}
-		spans = append(spans, cycleSpan{idx: seq(from, to), peak: peaks[k] - from, shared: shared})
+		spans = append(spans, cycleSpan{idx: ident[from : to+1], peak: peaks[k] - from, shared: shared})
 	}
 	return spans, lead
 }
 
-func seq(a, b int) []int {
-	s := make([]int, 0, b-a+1)
-	for i := a; i <= b; i++ {
-		s = append(s, i)
-	}
-	return s
-}
-
 // checkDirection warns when the driving stretch moves against the branch
 // direction (dir +1 loading, −1 unloading) by more than tol.
-func checkDirection(s *Specimen, rec *Record, label string, rows []int, d []float64, part []int, dir float64, tol float64) {
+func (r *protocolRows) checkDirection(s *Specimen, part []int, dir float64, tol float64) {
 	if len(part) < 2 || tol <= 0 {
 		return
 	}
+	d := r.d
 	best := dir * d[part[0]]
 	count, first, worst := 0, 0, 0.0
 	for _, pos := range part[1:] {
@@ -518,7 +596,7 @@ func checkDirection(s *Specimen, rec *Record, label string, rows []int, d []floa
 		}
 		if best-v > tol {
 			if count == 0 {
-				first = rec.Rows[rows[pos]].Line
+				first = r.line(pos)
 			}
 			count++
 			worst = math.Max(worst, best-v)
@@ -530,6 +608,7 @@ func checkDirection(s *Specimen, rec *Record, label string, rows []int, d []floa
 		if dir < 0 {
 			what, verb = "unloading", "rises again"
 		}
+		label := r.g.label
 		s.warn(first, label, "protocol %s: in a %s branch the stretch %s by up to %.3g (%s, first on line %d) — check for slipping markers or grips, or an unmarked cycle",
 			label, what, verb, worst, plural(count, "row"), first)
 	}

@@ -2,7 +2,9 @@ package biaxial
 
 import (
 	"archive/zip"
+	"bufio"
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -12,24 +14,8 @@ import (
 // content) into a Record without selecting cycles. Of opt only Sheet and
 // Limits are used.
 func ReadRecordFile(path string, opt Options) (*Record, error) {
-	lim := opt.Limits.withDefaults()
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, &ParseError{File: path, Err: err, Msg: "cannot read the file (" + errText(err) + ")",
-			Fix: "check the path and permissions"}
-	}
-	defer f.Close()
-	if st, err := f.Stat(); err == nil && st.Mode().IsRegular() && st.Size() > lim.MaxBytes {
-		return nil, tooLarge(path, lim.MaxBytes)
-	}
-	data, err := readAtMost(f, lim.MaxBytes)
-	if err != nil {
-		if err == errTooLarge {
-			return nil, tooLarge(path, lim.MaxBytes)
-		}
-		return nil, &ParseError{File: path, Err: err, Msg: "cannot read the file (" + errText(err) + ")"}
-	}
-	return parseBytes(data, path, opt)
+	rec, _, err := readFile(path, opt, false)
+	return rec, err
 }
 
 // ReadRecord reads a test file from r into a Record without selecting
@@ -37,30 +23,141 @@ func ReadRecordFile(path string, opt Options) (*Record, error) {
 // extension, or by the zip signature of the content). Of opt only Sheet and
 // Limits are used.
 func ReadRecord(r io.Reader, name string, opt Options) (*Record, error) {
-	lim := opt.Limits.withDefaults()
-	data, err := readAtMost(r, lim.MaxBytes)
-	if err != nil {
-		if err == errTooLarge {
-			return nil, tooLarge(name, lim.MaxBytes)
-		}
-		return nil, &ParseError{File: name, Err: err, Msg: "cannot read the input (" + errText(err) + ")"}
-	}
-	return parseBytes(data, name, opt)
+	rec, _, err := readStream(r, name, opt, false, "input")
+	return rec, err
 }
 
-var errTooLarge = fmt.Errorf("too large")
-
-// readAtMost reads r whole unless it holds more than max bytes, so that a
-// device or an endless stream cannot grow memory without bound.
-func readAtMost(r io.Reader, max int64) ([]byte, error) {
-	data, err := io.ReadAll(io.LimitReader(r, max+1))
+// ReadFile reads a test file and prepares it with opt, as ReadRecordFile
+// followed by Prepare would. CSV text is read line by line, and the rows
+// are kept in a compact form until the protocols are prepared, so memory
+// grows with the rows of the file but not with its size in bytes.
+func ReadFile(path string, opt Options) (*Specimen, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	rec, t, err := readFile(path, opt, true)
 	if err != nil {
 		return nil, err
 	}
-	if int64(len(data)) > max {
-		return nil, errTooLarge
+	return prepare(rec, t, opt)
+}
+
+// Read reads a test file from r and prepares it with opt, as ReadRecord
+// followed by Prepare would (see ReadFile for the memory it takes). name
+// is used in messages and to recognise xlsx.
+func Read(r io.Reader, name string, opt Options) (*Specimen, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
 	}
-	return data, nil
+	rec, t, err := readStream(r, name, opt, true, "input")
+	if err != nil {
+		return nil, err
+	}
+	return prepare(rec, t, opt)
+}
+
+// readFile opens path and reads it. A workbook in a regular file is read
+// through the file itself, without a copy of it in memory first.
+func readFile(path string, opt Options, intoTable bool) (*Record, *rawTable, error) {
+	lim := opt.Limits.withDefaults()
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, &ParseError{File: path, Err: err, Msg: "cannot read the file (" + errText(err) + ")",
+			Fix: "check the path and permissions"}
+	}
+	defer f.Close()
+	st, err := f.Stat()
+	if err != nil || !st.Mode().IsRegular() {
+		return readStream(f, path, opt, intoTable, "file")
+	}
+	if st.Size() > lim.MaxBytes {
+		return nil, nil, tooLarge(path, lim.MaxBytes)
+	}
+	head := make([]byte, 4)
+	n, _ := f.ReadAt(head, 0)
+	if !isXLSX(path, head[:n]) {
+		return readStream(f, path, opt, intoTable, "file")
+	}
+	if err := checkOptions(path, opt, true); err != nil {
+		return nil, nil, err
+	}
+	size := st.Size()
+	if err := checkExpansion(f, size, path, lim.MaxWorkbookBytes); err != nil {
+		return nil, nil, err
+	}
+	return readXLSX(io.NewSectionReader(f, 0, size), path, opt.Sheet, lim, intoTable)
+}
+
+// readStream reads a test file from r, stopping at the size limit. Only a
+// workbook is held in memory whole (it is a zip archive, read by its
+// directory at the end); CSV text is parsed as it arrives. what names the
+// input in read errors ("file" or "input").
+func readStream(r io.Reader, name string, opt Options, intoTable bool, what string) (*Record, *rawTable, error) {
+	lim := opt.Limits.withDefaults()
+	readErr := func(err error) error {
+		if errors.Is(err, errTooLarge) {
+			return tooLarge(name, lim.MaxBytes)
+		}
+		return &ParseError{File: name, Err: err, Msg: "cannot read the " + what + " (" + errText(err) + ")"}
+	}
+	br := bufio.NewReaderSize(&cappedReader{r: r, max: lim.MaxBytes}, 64<<10)
+	head, err := br.Peek(4)
+	if err != nil && err != io.EOF {
+		return nil, nil, readErr(err)
+	}
+	xlsx := isXLSX(name, head)
+	if err := checkOptions(name, opt, xlsx); err != nil {
+		return nil, nil, err
+	}
+	if !xlsx {
+		p := newTableParser(name, "", lim, intoTable)
+		rec, err := readCSV(br, p, readErr)
+		return rec, p.table, err
+	}
+	data, err := io.ReadAll(br)
+	if err != nil {
+		return nil, nil, readErr(err)
+	}
+	if err := checkExpansion(bytes.NewReader(data), int64(len(data)), name, lim.MaxWorkbookBytes); err != nil {
+		return nil, nil, err
+	}
+	return readXLSX(bytes.NewReader(data), name, opt.Sheet, lim, intoTable)
+}
+
+// checkOptions refuses a sheet asked for in a file that is not a workbook.
+func checkOptions(name string, opt Options, xlsx bool) error {
+	if opt.Sheet != "" && !xlsx {
+		return &ParseError{File: name, Err: ErrOptions, Msg: fmt.Sprintf("a sheet (%s) was asked for, but the file is not an xlsx workbook", quote(opt.Sheet)),
+			Fix: "drop the sheet option for CSV files"}
+	}
+	return nil
+}
+
+var errTooLarge = errors.New("too large")
+
+// cappedReader reads r up to max bytes and fails with errTooLarge when r
+// holds more, so that a device or an endless stream cannot make a read go
+// on without bound.
+type cappedReader struct {
+	r    io.Reader
+	max  int64
+	read int64
+}
+
+func (c *cappedReader) Read(p []byte) (int, error) {
+	if c.read > c.max {
+		return 0, errTooLarge
+	}
+	if room := c.max + 1 - c.read; int64(len(p)) > room {
+		p = p[:room]
+	}
+	n, err := c.r.Read(p)
+	c.read += int64(n)
+	if c.read > c.max {
+		// The byte past the limit is not handed on.
+		return n - int(c.read-c.max), errTooLarge
+	}
+	return n, err
 }
 
 func tooLarge(name string, max int64) *ParseError {
@@ -69,26 +166,11 @@ func tooLarge(name string, max int64) *ParseError {
 		Fix: "check that this is the test file meant; if it is, raise the file size limit"}
 }
 
-func parseBytes(data []byte, name string, opt Options) (*Record, error) {
-	lim := opt.Limits.withDefaults()
-	if isXLSX(name, data) {
-		if err := checkExpansion(data, name, lim.MaxWorkbookBytes); err != nil {
-			return nil, err
-		}
-		return readXLSX(data, name, opt.Sheet, lim)
-	}
-	if opt.Sheet != "" {
-		return nil, &ParseError{File: name, Err: ErrOptions, Msg: fmt.Sprintf("a sheet (%s) was asked for, but the file is not an xlsx workbook", quote(opt.Sheet)),
-			Fix: "drop the sheet option for CSV files"}
-	}
-	return readCSV(string(data), name, lim)
-}
-
 // checkExpansion refuses a workbook whose parts expand beyond max bytes.
 // The sizes declared in the zip directory are binding: the zip reader fails
 // on a part that inflates to more than it declares.
-func checkExpansion(data []byte, name string, max int64) error {
-	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+func checkExpansion(r io.ReaderAt, size int64, name string, max int64) error {
+	zr, err := zip.NewReader(r, size)
 	if err != nil {
 		return nil // not a zip: the workbook reader says what is wrong
 	}
@@ -102,32 +184,6 @@ func checkExpansion(data []byte, name string, max int64) error {
 		}
 	}
 	return nil
-}
-
-// ReadFile reads a test file and prepares it with opt: ReadRecordFile
-// followed by Prepare.
-func ReadFile(path string, opt Options) (*Specimen, error) {
-	if err := opt.check(); err != nil {
-		return nil, err
-	}
-	rec, err := ReadRecordFile(path, opt)
-	if err != nil {
-		return nil, err
-	}
-	return Prepare(rec, opt)
-}
-
-// Read reads a test file from r and prepares it with opt: ReadRecord
-// followed by Prepare. name is used in messages and to recognise xlsx.
-func Read(r io.Reader, name string, opt Options) (*Specimen, error) {
-	if err := opt.check(); err != nil {
-		return nil, err
-	}
-	rec, err := ReadRecord(r, name, opt)
-	if err != nil {
-		return nil, err
-	}
-	return Prepare(rec, opt)
 }
 
 func errText(err error) string {

@@ -18,6 +18,16 @@
 // workbook's unpacked size and the plausible range of stretches and
 // stresses.
 //
+// Memory: CSV text is read line by line, never whole (classic Mac text,
+// with carriage returns alone for line ends, is the one exception), and
+// problems are reported in file order, the first one found. Read and
+// ReadFile keep each row in a compact form until the protocols are
+// prepared — 8 bytes for each value the file gives, 40 to 88 bytes a row —
+// and a Specimen keeps only the points selected (a Point is 88 bytes), so
+// their memory grows with the rows of a file, not its size in bytes.
+// ReadRecord keeps every Row (about 100 bytes each) for the caller. A
+// workbook is held in memory whole, within the workbook limit.
+//
 // Conventions (shared by every weft package): axes 1 and 2 are the loading
 // axes of the tester; the in-plane deformation gradient is F11, F12, F21, F22;
 // nominal stress is first Piola–Kirchhoff, P = σ F⁻ᵀ; stresses are kept in the

@@ -66,56 +66,112 @@ func WriteCSV(w io.Writer, s *Specimen, layout Layout) error {
 // the geometry lines and `stress_unit` are written from rec.Geometry and
 // rec.StressUnit so that reading the file back gives the same stresses.
 func WriteRecord(w io.Writer, rec *Record, layout Layout) error {
-	unit := rec.StressUnit
-	if unit == "" {
-		unit = "kPa"
+	rw, err := newRecordWriter(rec, layout)
+	if err != nil {
+		return err
 	}
-	if _, ok := CanonicalStressUnit(unit); !ok {
-		return fmt.Errorf("%w: stress unit %q is not Pa, kPa or MPa", ErrUnit, unit)
+	bw := bufio.NewWriter(w)
+	if err := rw.metadata(bw); err != nil {
+		return err
+	}
+	rw.header(bw)
+	for i := range rec.Rows {
+		if err := rw.row(bw, i); err != nil {
+			return err
+		}
+	}
+	return bw.Flush()
+}
+
+// recordWriter is what WriteRecord decides before it writes a line.
+type recordWriter struct {
+	rec        *Record
+	layout     Layout
+	unit       string     // stress unit
+	loadUnit   string     // force unit of the load layout
+	loadFactor [2]float64 // stress value → load in loadUnit, axes 1, 2
+	gradient   bool       // F columns rather than stretches
+	hasCycle   bool
+	shear      []Component // shear components written
+}
+
+// newRecordWriter checks that rec can be written in layout and settles the
+// columns.
+func newRecordWriter(rec *Record, layout Layout) (*recordWriter, error) {
+	rw := &recordWriter{rec: rec, layout: layout, unit: rec.StressUnit, loadUnit: layout.LoadUnit,
+		gradient: layout.Gradient, hasCycle: rec.HasCycle}
+	if rw.unit == "" {
+		rw.unit = "kPa"
+	}
+	if _, ok := CanonicalStressUnit(rw.unit); !ok {
+		return nil, fmt.Errorf("%w: stress unit %q is not Pa, kPa or MPa", ErrUnit, rw.unit)
 	}
 	if !rec.Measured[C11] || !rec.Measured[C22] {
-		return fmt.Errorf("%w: the record does not mark both normal stresses as measured", ErrMissingColumn)
+		return nil, fmt.Errorf("%w: the record does not mark both normal stresses as measured", ErrMissingColumn)
 	}
-	loadUnit := layout.LoadUnit
-	var loadFactor [2]float64 // stress value → load in loadUnit, axes 1, 2
 	if layout.Loads {
-		if rec.Kind != Nominal {
-			return fmt.Errorf("%w: the load layout needs nominal stress; this record holds Cauchy stress", ErrMixedStress)
+		if err := rw.loads(); err != nil {
+			return nil, err
 		}
-		if rec.Geometry == nil || !(rec.Geometry.Thickness > 0 && rec.Geometry.Size1 > 0 && rec.Geometry.Size2 > 0) {
-			return fmt.Errorf("%w: the load layout needs the geometry (thickness, size_1, size_2)", ErrGeometry)
-		}
-		if loadUnit == "" {
-			loadUnit = "N"
-		}
-		fN, ok := ForceToNewton(loadUnit)
-		if !ok {
-			return fmt.Errorf("%w: load unit %q is not N, mN or gf", ErrUnit, loadUnit)
-		}
-		toPa, _ := StressFactor(unit, "Pa")
-		g := rec.Geometry
-		loadFactor[0] = toPa * g.Size2 * 1e-3 * g.Thickness * 1e-3 / fN
-		loadFactor[1] = toPa * g.Size1 * 1e-3 * g.Thickness * 1e-3 / fN
 	}
-	gradient := layout.Gradient
-	hasCycle := rec.HasCycle
 	for i := range rec.Rows {
 		if rec.Rows[i].F[1] != 0 || rec.Rows[i].F[2] != 0 {
-			gradient = true
+			rw.gradient = true
 		}
 		if rec.Rows[i].Cycle != 0 {
-			hasCycle = true
+			rw.hasCycle = true
 		}
 	}
+	for _, c := range []Component{C12, C21} {
+		if rec.Measured[c] && !(c == C21 && rec.Kind == Cauchy) {
+			rw.shear = append(rw.shear, c)
+		}
+	}
+	return rw, nil
+}
 
-	bw := bufio.NewWriter(w)
+// loads checks the load layout and sets the factors from nominal stress to
+// load: load_1 = P11·W2·H, load_2 = P22·W1·H.
+func (rw *recordWriter) loads() error {
+	rec := rw.rec
+	if rec.Kind != Nominal {
+		return fmt.Errorf("%w: the load layout needs nominal stress; this record holds Cauchy stress", ErrMixedStress)
+	}
+	g := rec.Geometry
+	if g == nil || !(g.Thickness > 0 && g.Size1 > 0 && g.Size2 > 0) {
+		return fmt.Errorf("%w: the load layout needs the geometry (thickness, size_1, size_2)", ErrGeometry)
+	}
+	if rw.loadUnit == "" {
+		rw.loadUnit = "N"
+	}
+	fN, ok := ForceToNewton(rw.loadUnit)
+	if !ok {
+		return fmt.Errorf("%w: load unit %q is not N, mN or gf", ErrUnit, rw.loadUnit)
+	}
+	toPa, _ := StressFactor(rw.unit, "Pa")
+	rw.loadFactor[0] = toPa * g.Size2 * 1e-3 * g.Thickness * 1e-3 / fN
+	rw.loadFactor[1] = toPa * g.Size1 * 1e-3 * g.Thickness * 1e-3 / fN
+	return nil
+}
+
+// num writes a number with the layout's digits.
+func (rw *recordWriter) num(v float64) string {
+	if rw.layout.Digits > 0 {
+		return strconv.FormatFloat(v, 'g', rw.layout.Digits, 64)
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+// metadata writes the metadata lines; the geometry and, for loads, the
+// stress unit come from the parsed values, in mm with decimal points.
+func (rw *recordWriter) metadata(bw *bufio.Writer) error {
+	rec := rw.rec
 	meta := func(k, v string) {
 		v = strings.Join(strings.Fields(v), " ")
 		fmt.Fprintf(bw, "# %s = %s\n", k, v)
 	}
 	skip := map[string]bool{"stress_unit": true}
 	if rec.Geometry != nil {
-		// Written below from the parsed values, in mm with decimal points.
 		skip["thickness"], skip["size_1"], skip["size_2"] = true, true, true
 	}
 	if _, ok := rec.Meta["specimen"]; !ok && rec.Name != "" {
@@ -134,109 +190,97 @@ func WriteRecord(w io.Writer, rec *Record, layout Layout) error {
 		}
 		meta(k, rec.Meta[k])
 	}
-	num := func(v float64) string {
-		if layout.Digits > 0 {
-			return strconv.FormatFloat(v, 'g', layout.Digits, 64)
-		}
-		return strconv.FormatFloat(v, 'g', -1, 64)
+	if g := rec.Geometry; g != nil {
+		meta("thickness", rw.num(g.Thickness)+" mm")
+		meta("size_1", rw.num(g.Size1)+" mm")
+		meta("size_2", rw.num(g.Size2)+" mm")
 	}
-	if rec.Geometry != nil {
-		meta("thickness", num(rec.Geometry.Thickness)+" mm")
-		meta("size_1", num(rec.Geometry.Size1)+" mm")
-		meta("size_2", num(rec.Geometry.Size2)+" mm")
+	if rw.layout.Loads {
+		meta("stress_unit", rw.unit)
 	}
-	if layout.Loads {
-		meta("stress_unit", unit)
-	}
+	return nil
+}
 
-	// Header.
+// header writes the header line.
+func (rw *recordWriter) header(bw *bufio.Writer) {
 	hdr := []string{"protocol"}
-	if hasCycle {
+	if rw.hasCycle {
 		hdr = append(hdr, "cycle")
 	}
-	if rec.HasTime {
+	if rw.rec.HasTime {
 		hdr = append(hdr, "time [s]")
 	}
-	if gradient {
+	if rw.gradient {
 		hdr = append(hdr, "F11", "F12", "F21", "F22")
 	} else {
 		hdr = append(hdr, "stretch_1", "stretch_2")
 	}
 	prefix := "cauchy_"
-	if rec.Kind == Nominal {
+	if rw.rec.Kind == Nominal {
 		prefix = "nominal_"
 	}
-	if layout.Loads {
-		hdr = append(hdr, "load_1 ["+loadUnit+"]", "load_2 ["+loadUnit+"]")
+	if rw.layout.Loads {
+		hdr = append(hdr, "load_1 ["+rw.loadUnit+"]", "load_2 ["+rw.loadUnit+"]")
 	} else {
-		hdr = append(hdr, prefix+"11 ["+unit+"]", prefix+"22 ["+unit+"]")
+		hdr = append(hdr, prefix+"11 ["+rw.unit+"]", prefix+"22 ["+rw.unit+"]")
 	}
-	shear := []Component{}
-	for _, c := range []Component{C12, C21} {
-		if rec.Measured[c] {
-			if c == C21 && rec.Kind == Cauchy {
-				continue
-			}
-			shear = append(shear, c)
-			hdr = append(hdr, prefix+c.String()+" ["+unit+"]")
-		}
+	for _, c := range rw.shear {
+		hdr = append(hdr, prefix+c.String()+" ["+rw.unit+"]")
 	}
 	bw.WriteString(strings.Join(hdr, ","))
 	bw.WriteByte('\n')
+}
 
-	for i := range rec.Rows {
-		r := &rec.Rows[i]
-		if r.Protocol == "" {
-			return fmt.Errorf("%w: row %d has an empty protocol label", ErrProtocol, i+1)
-		}
-		vals := r.F[:]
-		for _, v := range vals {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return fmt.Errorf("%w: row %d has a non-finite F", ErrNumber, i+1)
-			}
-		}
-		bw.WriteString(csvQuote(r.Protocol))
-		if hasCycle {
-			bw.WriteByte(',')
-			bw.WriteString(strconv.Itoa(r.Cycle))
-		}
-		if rec.HasTime {
-			if math.IsNaN(r.Time) || math.IsInf(r.Time, 0) {
-				return fmt.Errorf("%w: row %d has no finite time", ErrNumber, i+1)
-			}
-			bw.WriteByte(',')
-			bw.WriteString(num(r.Time))
-		}
-		if gradient {
-			for _, v := range r.F {
-				bw.WriteByte(',')
-				bw.WriteString(num(v))
-			}
-		} else {
-			bw.WriteByte(',')
-			bw.WriteString(num(r.F[0]))
-			bw.WriteByte(',')
-			bw.WriteString(num(r.F[3]))
-		}
-		a, b := r.Stress[C11], r.Stress[C22]
-		if layout.Loads {
-			a *= loadFactor[0]
-			b *= loadFactor[1]
-		}
-		for _, v := range []float64{a, b} {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return fmt.Errorf("%w: row %d has a non-finite stress", ErrNumber, i+1)
-			}
-			bw.WriteByte(',')
-			bw.WriteString(num(v))
-		}
-		for _, c := range shear {
-			bw.WriteByte(',')
-			bw.WriteString(num(r.Stress[c]))
-		}
-		bw.WriteByte('\n')
+// row writes row i; a value that is not finite is refused.
+func (rw *recordWriter) row(bw *bufio.Writer, i int) error {
+	r := &rw.rec.Rows[i]
+	if r.Protocol == "" {
+		return fmt.Errorf("%w: row %d has an empty protocol label", ErrProtocol, i+1)
 	}
-	return bw.Flush()
+	for _, v := range r.F {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("%w: row %d has a non-finite F", ErrNumber, i+1)
+		}
+	}
+	field := func(v float64) {
+		bw.WriteByte(',')
+		bw.WriteString(rw.num(v))
+	}
+	bw.WriteString(csvQuote(r.Protocol))
+	if rw.hasCycle {
+		bw.WriteByte(',')
+		bw.WriteString(strconv.Itoa(r.Cycle))
+	}
+	if rw.rec.HasTime {
+		if math.IsNaN(r.Time) || math.IsInf(r.Time, 0) {
+			return fmt.Errorf("%w: row %d has no finite time", ErrNumber, i+1)
+		}
+		field(r.Time)
+	}
+	if rw.gradient {
+		for _, v := range r.F {
+			field(v)
+		}
+	} else {
+		field(r.F[0])
+		field(r.F[3])
+	}
+	a, b := r.Stress[C11], r.Stress[C22]
+	if rw.layout.Loads {
+		a *= rw.loadFactor[0]
+		b *= rw.loadFactor[1]
+	}
+	for _, v := range []float64{a, b} {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("%w: row %d has a non-finite stress", ErrNumber, i+1)
+		}
+		field(v)
+	}
+	for _, c := range rw.shear {
+		field(r.Stress[c])
+	}
+	bw.WriteByte('\n')
+	return nil
 }
 
 // csvQuote quotes a field when RFC 4180 needs it, and also when it starts

@@ -3,15 +3,17 @@ package biaxial
 import (
 	"bytes"
 	"fmt"
+	"io"
 	"regexp"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
 )
 
-// isXLSX reports whether data look like an xlsx workbook (a zip archive).
-func isXLSX(name string, data []byte) bool {
-	return bytes.HasPrefix(data, []byte("PK\x03\x04")) || strings.EqualFold(extOf(name), ".xlsx")
+// isXLSX reports whether a file looks like an xlsx workbook (a zip
+// archive) by its name or the first bytes of its content.
+func isXLSX(name string, head []byte) bool {
+	return bytes.HasPrefix(head, []byte("PK\x03\x04")) || strings.EqualFold(extOf(name), ".xlsx")
 }
 
 func extOf(name string) string {
@@ -26,27 +28,29 @@ func extOf(name string) string {
 // file: metadata cells `# key = value` in column A before the header (or
 // `# key =` in A with the value in the following cells), then a header row,
 // then data rows. Cells are read unformatted, so numbers keep every digit.
-func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err error) {
+// The workbook is held in memory, within the workbook limit; r is read
+// once. intoTable is as for newTableParser.
+func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec *Record, t *rawTable, err error) {
 	defer func() {
 		// A malformed workbook must not crash the program: the workbook
 		// library's failure becomes an input error.
 		if r := recover(); r != nil {
-			rec, err = nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: fmt.Sprintf("the workbook is damaged (%s)", clip(fmt.Sprint(r), 80)),
+			rec, t, err = nil, nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: fmt.Sprintf("the workbook is damaged (%s)", clip(fmt.Sprint(r), 80)),
 				Fix: "open and save it again in a spreadsheet program, or export the sheet as CSV"}
 		}
 	}()
 	// The same limit for the whole workbook and for any one part keeps
 	// every part in memory: the reader then writes no temporary files
 	// (which an interrupted run could leave behind).
-	f, err := excelize.OpenReader(bytes.NewReader(data), excelize.Options{UnzipSizeLimit: lim.MaxWorkbookBytes, UnzipXMLSizeLimit: lim.MaxWorkbookBytes})
+	f, err := excelize.OpenReader(r, excelize.Options{UnzipSizeLimit: lim.MaxWorkbookBytes, UnzipXMLSizeLimit: lim.MaxWorkbookBytes})
 	if err != nil {
-		return nil, &ParseError{File: name, Err: ErrSyntax, Msg: "not a readable xlsx workbook (" + err.Error() + ")",
+		return nil, nil, &ParseError{File: name, Err: ErrSyntax, Msg: "not a readable xlsx workbook (" + err.Error() + ")",
 			Fix: "save the workbook as .xlsx, or export the sheet as CSV"}
 	}
 	defer f.Close()
 	sheets := f.GetSheetList()
 	if len(sheets) == 0 {
-		return nil, &ParseError{File: name, Err: ErrSyntax, Msg: "the workbook has no sheets"}
+		return nil, nil, &ParseError{File: name, Err: ErrSyntax, Msg: "the workbook has no sheets"}
 	}
 	if sheet == "" {
 		sheet = sheets[0]
@@ -59,15 +63,15 @@ func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err err
 			}
 		}
 		if !found {
-			return nil, &ParseError{File: name, Err: ErrOptions, Msg: fmt.Sprintf("the workbook has no sheet %s", quote(sheet)),
+			return nil, nil, &ParseError{File: name, Err: ErrOptions, Msg: fmt.Sprintf("the workbook has no sheet %s", quote(sheet)),
 				Fix: "choose one of " + quoteList(sheets)}
 		}
 	}
-	p := newTableParser(name, sheet, lim)
+	p := newTableParser(name, sheet, lim, intoTable)
 	p.decCommaOK = true // text cells may be typed with a decimal comma
 	rows, err := f.Rows(sheet)
 	if err != nil {
-		return nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: "cannot read the sheet (" + err.Error() + ")"}
+		return nil, nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: "cannot read the sheet (" + err.Error() + ")"}
 	}
 	defer rows.Close()
 	// A second pass over the same rows gives each cell as displayed, which
@@ -75,7 +79,7 @@ func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err err
 	// 1/0 and a day count).
 	shown, err := f.Rows(sheet)
 	if err != nil {
-		return nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: "cannot read the sheet (" + err.Error() + ")"}
+		return nil, nil, &ParseError{File: name, Sheet: sheet, Err: ErrSyntax, Msg: "cannot read the sheet (" + err.Error() + ")"}
 	}
 	defer shown.Close()
 	line := 0
@@ -84,7 +88,7 @@ func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err err
 		shown.Next()
 		cells, err := rows.Columns(excelize.Options{RawCellValue: true})
 		if err != nil {
-			return nil, p.errAt(line, 0, ErrSyntax, "", "cannot read the row (%v)", err)
+			return nil, nil, p.errAt(line, 0, ErrSyntax, "", "cannot read the row (%v)", err)
 		}
 		if allBlank(cells) {
 			continue
@@ -102,7 +106,7 @@ func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err err
 				text += " " + strings.Join(rest, " ")
 			}
 			if err := p.comment(line, text); err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 			continue
 		}
@@ -115,13 +119,14 @@ func readXLSX(data []byte, name, sheet string, lim Limits) (rec *Record, err err
 			}
 		}
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
 	if err := rows.Error(); err != nil {
-		return nil, p.errAt(line, 0, ErrSyntax, "", "cannot read the sheet (%v)", err)
+		return nil, nil, p.errAt(line, 0, ErrSyntax, "", "cannot read the sheet (%v)", err)
 	}
-	return p.finish()
+	rec, err = p.finish()
+	return rec, p.table, err
 }
 
 func quoteList(xs []string) string {

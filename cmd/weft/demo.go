@@ -82,6 +82,13 @@ const (
 // of loading and unloading from a preload, the last loading branch equal to
 // the model plus noise, earlier cycles stiffer, unloading below loading.
 func demoRecord(ds demoSpecimen) (*biaxial.Record, error) {
+	return demoRecordSized(ds, demoPoints, demoCycles)
+}
+
+// demoRecordSized is demoRecord with n points per loading branch and the
+// given number of cycles, for tests of how weft scales with a tester's
+// sampling rate.
+func demoRecordSized(ds demoSpecimen, n, cycles int) (*biaxial.Record, error) {
 	rng := rand.New(rand.NewPCG(ds.seed, 2026))
 	rec := &biaxial.Record{Name: ds.name, StressUnit: "kPa", Kind: biaxial.Nominal, HasTime: true, HasCycle: true, Meta: map[string]string{}}
 	if ds.cauchy {
@@ -103,7 +110,6 @@ func demoRecord(ds demoSpecimen) (*biaxial.Record, error) {
 	t := 0.0
 	for _, pr := range demoRatios {
 		// The model's stress along the protocol path (loading).
-		n := demoPoints
 		type state struct {
 			F      [4]float64
 			stress [4]float64
@@ -143,8 +149,8 @@ func demoRecord(ds demoSpecimen) (*biaxial.Record, error) {
 			}
 			rng2[c] = hi - lo
 		}
-		for cyc := 1; cyc <= demoCycles; cyc++ {
-			stiff := 1 + demoSoftening*float64(demoCycles-cyc)
+		for cyc := 1; cyc <= cycles; cyc++ {
+			stiff := 1 + demoSoftening*float64(cycles-cyc)
 			emit := func(s state, factor float64) {
 				p := biaxial.Point{F: s.F, Cycle: cyc, Time: t}
 				for c := 0; c < 2; c++ {

@@ -30,13 +30,21 @@ func writeTemp(t *testing.T, name, content string) string {
 }
 
 // TestMain lets a test run weft as a separate process (weftProcess): the
-// test binary runs main when WEFT_RUN_MAIN is set.
+// test binary runs main when WEFT_RUN_MAIN is set, and records its peak
+// memory in the file WEFT_PEAK_FILE names where recordPeak is available.
 func TestMain(m *testing.M) {
 	if os.Getenv("WEFT_RUN_MAIN") == "1" {
+		if path := os.Getenv("WEFT_PEAK_FILE"); path != "" && recordPeak != nil {
+			os.Exit(recordPeak(path))
+		}
 		main()
 	}
 	os.Exit(m.Run())
 }
+
+// recordPeak, where the system tells a process its own peak memory, runs
+// weft as main does and writes that peak to path; it returns the exit code.
+var recordPeak func(path string) int
 
 // weftProcess returns a command that runs weft with args as a separate
 // process (the test binary itself, see TestMain).

@@ -301,6 +301,9 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 		fitSet.Tolerance = searchTolerance
 		fitSet.SearchQuadrature = true
 	}
+	if fitSet.MaxIterations == 0 {
+		fitSet.MaxIterations = searchMaxIterations
+	}
 
 	// 1. Full candidate fits per form (layout, with or without dispersion).
 	// One dispersed family is searched like any form; the two-family
@@ -723,6 +726,11 @@ func layoutSatisfied(r *Result) bool {
 // Kass & Raftery 1995).
 const cvBICWindow = 10
 
+// searchMaxIterations bounds each local refinement of the search: a form
+// that fits badly creeps on by tiny steps, and the comparison of forms does
+// not need its last digits.
+const searchMaxIterations = 60
+
 // searchTolerance is the refinement tolerance of discovery's search,
 // cross-validation and comparison fits (see Settings.Tolerance).
 const searchTolerance = 1e-6
@@ -731,8 +739,8 @@ const searchTolerance = 1e-6
 // subset search; forwardBranch how many single-term additions are refitted
 // per forward step.
 const (
-	maxAnchors    = 3
-	forwardBranch = 5
+	maxAnchors    = 2
+	forwardBranch = 3
 )
 
 // paramsAt names a full fit's non-linear parameters at θ.

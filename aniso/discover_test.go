@@ -210,7 +210,8 @@ func TestDiscoverDeterministicAcrossWorkers(t *testing.T) {
 			t.Fatalf("workers %d: %s %.17g, first %s %.17g", w, d.Best().Name, d.Best().Result.Loss, first.Best().Name, first.Best().Result.Loss)
 		}
 		for i := range d.Pareto {
-			if d.Pareto[i].CV.Mean != first.Pareto[i].CV.Mean {
+			a, b := d.Pareto[i].CV, first.Pareto[i].CV
+			if (a == nil) != (b == nil) || (a != nil && a.Mean != b.Mean) {
 				t.Fatalf("workers %d: candidate %s CV differs", w, d.Pareto[i].Name)
 			}
 		}

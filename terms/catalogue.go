@@ -228,9 +228,9 @@ func shape(id string, a Argument, title, plainT, latexT string, params []Param,
 // shapes, the divided differences (divided) and the values at precomputed
 // stretches (at).
 type impl struct {
-	eval    func(float64, []float64) Value
-	slope   func(float64, []float64) float64
-	grad    func(float64, []float64) [MaxParams]float64
+	eval  func(float64, []float64) Value
+	slope func(float64, []float64) float64
+	grad  func(float64, []float64) [MaxParams]float64
 	// both is slope and grad in one call (optional).
 	both    func(float64, []float64) (float64, [MaxParams]float64)
 	kinks   func([]float64) ([2]float64, int)

@@ -145,6 +145,11 @@ type Columns struct {
 	// are only compared with each other.
 	Search bool
 
+	// scan, when set, caches planar directions and slopes for a coarse
+	// angle scan, whose fills change the families' angles and spreads only
+	// (see fillPlanarScan).
+	scan *planarScan
+
 	// rule, kinks and famTerms are scratch of planar families.
 	rule     planarRule
 	kinks    []float64

@@ -48,6 +48,10 @@ type engine struct {
 	// tol is the relative loss decrease below which minimize stops (two
 	// steps in a row); 0 means 1e-10.
 	tol float64
+	// lossOffset is subtracted from every loss: a profile that integrates
+	// dispersion with the search rule shifts its losses by the rule's error
+	// at the optimum, so that they compare with the fit's (see profiles).
+	lossOffset float64
 }
 
 // paramKind says what a non-linear parameter moves.
@@ -272,6 +276,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 	for _, x := range e.r {
 		loss += x * x
 	}
+	loss -= e.lossOffset
 	e.loss = loss
 	if derivs {
 		e.derivatives()

@@ -158,9 +158,11 @@ type Settings struct {
 	// Profile computes the profile of the loss over every angle parameter
 	// (needed for profile-likelihood intervals and the report).
 	Profile bool
-	// ProfileStepDeg is the profile's grid step in degrees (default 2, 4
-	// for two angles, whose profiles each re-optimise the other; interval
-	// ends are refined by bisection either way).
+	// ProfileStepDeg is the profile's grid step in degrees (default 2; 4
+	// for two angles, whose profiles each re-optimise the other, and for a
+	// family spread in the plane, whose profile varies slowly and costs an
+	// angular integration per point; interval ends are refined by
+	// bisection either way).
 	ProfileStepDeg float64
 	// Init, when non-nil, adds a starting point: non-linear parameters by
 	// name (as in Result.Params; angles in radians). Parameters it does not
@@ -199,7 +201,7 @@ func (s Settings) withDefaults(nAngles int, planar bool) Settings {
 	}
 	if s.ProfileStepDeg <= 0 {
 		s.ProfileStepDeg = 2
-		if nAngles == 2 {
+		if nAngles == 2 || planar {
 			s.ProfileStepDeg = 4
 		}
 	}
@@ -717,6 +719,9 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 	}
 	de := newEngine(p, dm, dg, dfam, st.Layout, dparams)
 	de.skipOverflow = true
+	if st.Planar {
+		de.cols.scan = &planarScan{}
+	}
 	step := set.ScanStepDeg * math.Pi / 180
 	grid := func(q param) []float64 {
 		// Periodic grids are offset by half a step: without shear, α = 0

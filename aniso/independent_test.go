@@ -39,9 +39,9 @@ func expSqFibre(k1, k2 float64) fibreLaw {
 // recruitedFibre is a bundle whose fibres straighten at stretches spread
 // uniformly over [onset, onset + spread], each linear once straight with
 // nominal stress E(λ/λs − 1) (Lanir 1983, J Biomech 16:1–12), integrated
-// over λs by the midpoint rule with 400 points.
+// over λs by the midpoint rule with 200 points.
 func recruitedFibre(E, onset, spread float64) fibreLaw {
-	const n = 400
+	const n = 200
 	return func(l float64) float64 {
 		if spread == 0 {
 			return math.Max(0, E*(l/onset-1))
@@ -60,7 +60,8 @@ func recruitedFibre(E, onset, spread float64) fibreLaw {
 // spreadFamily is a fibre family spread in the plane with a von Mises
 // density in 2θ of concentration b about alpha (radians); b < 0 means an
 // ideal family. Its stress is integrated over θ by the midpoint rule with
-// 3600 directions, the density normalised by the same sum.
+// 1440 directions (relative error about 1e-6, far below the data's noise),
+// the density normalised by the same sum.
 type spreadFamily struct {
 	alpha, b float64
 	law      fibreLaw
@@ -70,7 +71,7 @@ func (f spreadFamily) cauchy(F [4]float64) [3]float64 {
 	dirs := []float64{f.alpha}
 	wts := []float64{1}
 	if f.b >= 0 {
-		const n = 3600
+		const n = 1440
 		dirs, wts = make([]float64, n), make([]float64, n)
 		z := 0.0
 		for i := range dirs {

@@ -80,6 +80,13 @@ func newQuadRule(order int, peakCurvature float64, peakBreaks []float64, maxPane
 	return q
 }
 
+// scanRule places the directions of a coarse angle scan: fixed panels over
+// the stretched arc, with no break points at kinks or peaks, so that they
+// do not depend on the family's angle, spread or shapes and each shape's
+// slope there is computed once per scan (see fillPlanarScan). A scan only
+// ranks angles; every fit refines with searchRule or accurateRule.
+var scanRule = newQuadRule(8, math.Inf(1), nil, math.Pi/2, math.Inf(1))
+
 // accurateRule meets 1e-8 relative error against a brute-force reference
 // (TestPlanarQuadratureAccuracy): every model weft reports, predicts or
 // exports is evaluated with it. searchRule is about 1e-5 with half the
@@ -387,6 +394,10 @@ func planarStress(r *planarRule, t *Term, k *Kinematics) (Sym, float64) {
 // derivatives with respect to the family's angle (DAngle), concentration
 // (DKappa) and the terms' shape parameters.
 func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
+	if c.scan != nil && !derivs {
+		d.fillPlanarScan(m, f, c)
+		return
+	}
 	rows, nc := d.Rows(), len(d.out.Components)
 	fam := &m.Families[f]
 	c.kinks = familyKinks(m, f, c.kinks[:0])
@@ -528,4 +539,74 @@ func (c *Columns) quadrature() *quadRule {
 		return searchRule
 	}
 	return accurateRule
+}
+
+// planarScan caches, for a coarse angle scan, each point's directions
+// (from scanRule, independent of the model) and each term's slope at
+// them: during a scan only the families' angles change.
+type planarScan struct {
+	rules  []planarRule // per point
+	slopes [][]float64  // per term: per point, per direction
+	start  [][]int      // per term: offset of each point's slopes
+	ready  []bool       // per term
+}
+
+// fillPlanarScan is fillPlanar for a scan (no derivatives): the density
+// re-weights cached directions and slopes.
+func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
+	rows, nc := d.Rows(), len(d.out.Components)
+	sc := c.scan
+	if sc.rules == nil {
+		sc.rules = make([]planarRule, len(d.kin))
+		for i := range d.kin {
+			sc.rules[i].build(scanRule, &d.geom[i], 0, 0, nil, 0)
+		}
+	}
+	if len(sc.slopes) < len(m.Terms) {
+		sc.slopes = make([][]float64, len(m.Terms))
+		sc.start = make([][]int, len(m.Terms))
+		sc.ready = make([]bool, len(m.Terms))
+	}
+	fam := &m.Families[f]
+	norm, _ := density(fam.Concentration)
+	ca, sa := math.Cos(2*fam.Angle), math.Sin(2*fam.Angle)
+	b := fam.Concentration
+	for t := range m.Terms {
+		term := &m.Terms[t]
+		if term.Family != f || (c.Skip != nil && c.Skip[t]) {
+			continue
+		}
+		if !sc.ready[t] {
+			sc.start[t] = make([]int, len(d.kin)+1)
+			for i := range d.kin {
+				sc.start[t][i+1] = sc.start[t][i] + len(sc.rules[i].Nodes)
+			}
+			sc.slopes[t] = make([]float64, sc.start[t][len(d.kin)])
+			for i := range d.kin {
+				for k, nd := range sc.rules[i].Nodes {
+					sc.slopes[t][sc.start[t][i]+k] = term.Shape.Slope(nd.X, term.Params)
+				}
+			}
+			sc.ready[t] = true
+		}
+		for i := range d.kin {
+			r0 := i * nc
+			pb := d.pbase[3*r0 : 3*(r0+nc)]
+			b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
+			var mom [3]float64
+			sl := sc.slopes[t][sc.start[t][i]:sc.start[t][i+1]]
+			for k, nd := range sc.rules[i].Nodes {
+				// The rule was built for b = 0: its weights hold 1/π.
+				rho := norm * math.Exp(b*(nd.Cos2*ca+nd.Sin2*sa-1)) * math.Pi
+				w := mul0(nd.Weight*rho, sl[k])
+				mom[0] += w
+				mom[1] += w * nd.Cos2
+				mom[2] += w * nd.Sin2
+			}
+			a := c.A[t*rows+r0 : t*rows+r0+nc]
+			for j := range a {
+				a[j] = mul0(mom[0], b0[j]) + mul0(mom[1], bc[j]) + mul0(mom[2], bs[j])
+			}
+		}
+	}
 }

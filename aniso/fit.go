@@ -718,7 +718,7 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 	}
 	de := newEngine(p, dm, dg, dfam, st.Layout, dparams)
 	de.skipOverflow = true
-	step := set.ScanStepDeg * math.Pi / 180
+	step := Rad(set.ScanStepDeg)
 	grid := func(q param) []float64 {
 		// Periodic grids are offset by half a step: without shear, α = 0
 		// and α = 90° are stationary points of the loss by symmetry, where a

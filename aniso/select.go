@@ -227,7 +227,7 @@ func coincident(r *Result) bool {
 	if len(r.Model.Families) != 2 {
 		return false
 	}
-	d := math.Abs(WrapDeg((r.Model.Families[0].Angle - r.Model.Families[1].Angle) * 180 / math.Pi))
+	d := math.Abs(WrapDeg(Deg(r.Model.Families[0].Angle - r.Model.Families[1].Angle)))
 	return d < 2
 }
 
@@ -309,7 +309,7 @@ func (d *Discovery) oneSE(form string, floor float64) int {
 func anglesText(r *Result) string {
 	var s []string
 	for _, f := range r.Model.Families {
-		a := f.Angle * 180 / math.Pi
+		a := Deg(f.Angle)
 		if r.SignKnown {
 			s = append(s, fmt.Sprintf("%.1f°", a))
 		} else {
@@ -330,8 +330,8 @@ func lookAlike(r *Result) string {
 	if len(fs) != 2 {
 		return ""
 	}
-	a := WrapDeg(fs[0].Angle * 180 / math.Pi)
-	b := WrapDeg(fs[1].Angle * 180 / math.Pi)
+	a := WrapDeg(Deg(fs[0].Angle))
+	b := WrapDeg(Deg(fs[1].Angle))
 	near := func(x, y float64) bool { return math.Abs(WrapDeg(x-y)) < 10 }
 	if (near(a, 0) && near(b, 90)) || (near(a, 90) && near(b, 0)) {
 		return "two families near 0° and 90° stiffen both axes alike, a look-alike of isotropic stiffening"
@@ -401,7 +401,7 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		}
 	case LayoutMirror:
 		fs := r.Model.Families
-		same := math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))*180/math.Pi < 1
+		same := Deg(math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))) < 1
 		switch {
 		case !p.HasShear && same:
 			v.Families = "1-or-mirror-pair"

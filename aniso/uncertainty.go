@@ -154,13 +154,13 @@ func (r *Result) initEstimates(p *Problem) []jcol {
 		case kindAngle:
 			est.Kind, est.Unit = "angle", "deg"
 			if q.Periodic {
-				est.Value = wrapAngle(v) * 180 / math.Pi
+				est.Value = Deg(wrapAngle(v))
 				if !p.HasShear && est.Value < 0 {
 					// Only |α| is identified without shear information.
 					est.Value, sign = -est.Value, -1
 				}
 			} else {
-				est.Value = v * 180 / math.Pi
+				est.Value = Deg(v)
 			}
 		case kindKappa:
 			est.Kind = "dispersion"
@@ -334,7 +334,7 @@ func (r *Result) intervals(p *Problem, cols []jcol, cov *mat.Dense, undetermined
 		} else if q := r.e.params[c.est-nw]; q.Kind == kindAngle {
 			switch {
 			case !q.Periodic:
-				dlo, dhi = q.Lo*180/math.Pi, q.Hi*180/math.Pi
+				dlo, dhi = Deg(q.Lo), Deg(q.Hi)
 			case !p.HasShear:
 				dlo, dhi = 0, 90
 			}

@@ -416,8 +416,15 @@ func (c *containerDir) removeIfEmpty() {
 	}
 }
 
-// fitFailed reports a fit that could not succeed (exit code 1).
+// fitFailed reports a fit that could not succeed (exit code 1), with what
+// to type where the data gave discovery nothing to work with.
 func fitFailed(s *biaxial.Specimen, err error) error {
+	switch {
+	case errors.Is(err, aniso.ErrAllZero):
+		err = fmt.Errorf("%w with 'weft inspect'", err)
+	case errors.Is(err, aniso.ErrNoCandidate):
+		err = fmt.Errorf("%w ('weft inspect' shows what was read; --preset or --terms fits a chosen form)", err)
+	}
 	return checkFailed{msg: fmt.Sprintf("%s: the fit did not succeed: %v", s.Source, err)}
 }
 

@@ -191,7 +191,7 @@ func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 		cc.Weights = append(cc.Weights, WeightOut{Term: t.Label(r.Structure.Layout), Weight: Num(r.Weights[i])})
 	}
 	for _, f := range r.Model.Families {
-		cc.AnglesDeg = append(cc.AnglesDeg, Num(f.Angle*180/math.Pi))
+		cc.AnglesDeg = append(cc.AnglesDeg, Num(aniso.Deg(f.Angle)))
 	}
 	minR2 := math.Inf(1)
 	for _, m := range r.Metrics {

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"strings"
 
@@ -316,7 +315,7 @@ func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, 
 	dirs := []float64{0, 90}
 	labels := []string{"axis 1", "axis 2"}
 	for i, f := range m.Families {
-		dirs = append(dirs, aniso.WrapDeg(f.Angle*180/math.Pi))
+		dirs = append(dirs, aniso.WrapDeg(aniso.Deg(f.Angle)))
 		labels = append(labels, "fibre "+names[i])
 	}
 	mod, err := m.SmallStrainModuli(dirs)
@@ -363,32 +362,17 @@ func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, 
 // gridExtrapolation warns where the grid extends beyond the data range.
 func gridExtrapolation(dr *card.DataRange, m *aniso.Model, g aniso.StabilityGrid, names []string) []string {
 	var out []string
-	beyond := func(name string, lo, hi float64, r [2]float64) {
-		if lo < r[0]-rangeTol || hi > r[1]+rangeTol {
+	beyond := func(name string, lo, hi float64, r card.Interval) {
+		if r.Outside(lo, hi) {
 			out = append(out, fmt.Sprintf("the grid's %s [%.4g, %.4g] extends beyond the fitted data's [%.4g, %.4g]: there the checks test the formula, not a model supported by data", name, lo, hi, r[0], r[1]))
 		}
 	}
 	beyond("stretch 1 (F11)", g.StretchMin, g.StretchMax, dr.Stretch1)
 	beyond("stretch 2 (F22)", g.StretchMin, g.StretchMax, dr.Stretch2)
 	beyond("shear (F12, F21)", -g.ShearMax, g.ShearMax, dr.Shear)
-	if len(dr.FibreStretch) == len(m.Families) && len(m.Families) > 0 {
-		lo := make([]float64, len(m.Families))
-		hi := make([]float64, len(m.Families))
-		for i := range lo {
-			lo[i], hi[i] = math.Inf(1), math.Inf(-1)
-		}
-		for _, F := range g.Points() {
-			k, err := aniso.NewKinematics(F)
-			if err != nil {
-				continue
-			}
-			for i, f := range m.Families {
-				v := math.Sqrt(k.Fibre(f.Angle).I4)
-				lo[i], hi[i] = math.Min(lo[i], v), math.Max(hi[i], v)
-			}
-		}
-		for i := range m.Families {
-			beyond("fibre stretch of "+names[i], lo[i], hi[i], dr.FibreStretch[i])
+	if dr.HasFibreStretch(m) && len(m.Families) > 0 {
+		for i, span := range card.FibreStretchSpans(m, g.Points()) {
+			beyond("fibre stretch of "+names[i], span[0], span[1], dr.FibreStretch[i])
 		}
 	}
 	return out

@@ -145,7 +145,7 @@ func evaluateAt(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *car
 	names := familyNames(m)
 	for i, f := range m.Families {
 		fk := k.Fibre(f.Angle)
-		res.Families = append(res.Families, evalFamily{Name: names[i], AngleDeg: aniso.WrapDeg(f.Angle * 180 / math.Pi),
+		res.Families = append(res.Families, evalFamily{Name: names[i], AngleDeg: aniso.WrapDeg(aniso.Deg(f.Angle)),
 			I4: fk.I4, I5: fk.I5, K: fk.K, FibreStretch: math.Sqrt(fk.I4), Engaged: fk.I4 > 1})
 	}
 	res.Tangent.Order = tangentOrder

@@ -5,7 +5,6 @@ import (
 	"encoding/csv"
 	"fmt"
 	"io"
-	"math"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -198,7 +197,7 @@ func buildExport(file string, c *card.Card, m *aniso.Model) (*exportDoc, error) 
 		}
 		if t.Family >= 0 {
 			f := m.Families[t.Family]
-			a := aniso.WrapDeg(f.Angle * 180 / math.Pi)
+			a := aniso.WrapDeg(aniso.Deg(f.Angle))
 			p.Family, p.AngleDeg = names[t.Family], &a
 			if f.Planar {
 				b := f.Concentration

@@ -6,7 +6,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"math"
 	"strconv"
 	"strings"
 
@@ -35,54 +34,25 @@ func parseNumbers(flag, s string, n int) ([]float64, error) {
 // cardDataRange returns the card's data_range section, or nil when it has
 // none. A malformed section is bad input.
 func cardDataRange(c *card.Card, file string) (*card.DataRange, error) {
-	var dr card.DataRange
-	ok, err := c.GetExtra(card.KeyDataRange, &dr)
-	if err != nil {
+	if err := c.SectionError(card.KeyDataRange); err != nil {
 		return nil, badInputf("%s: $.data_range: %v; expected stretch_1, stretch_2 and shear as [min, max] pairs", file, err)
 	}
-	if !ok {
+	if c.DataRange == nil {
 		return nil, nil
 	}
-	for _, p := range []struct {
-		name string
-		v    [2]float64
-	}{{"stretch_1", dr.Stretch1}, {"stretch_2", dr.Stretch2}, {"shear", dr.Shear}} {
-		if !(p.v[0] <= p.v[1]) {
-			return nil, badInputf("%s: $.data_range.%s: [%g, %g] is not a [min, max] pair", file, p.name, p.v[0], p.v[1])
-		}
+	if err := c.DataRange.Validate(); err != nil {
+		return nil, badInputf("%s: %v", file, err)
 	}
-	return &dr, nil
+	return c.DataRange, nil
 }
 
-// rangeTol absorbs round-off when comparing a point with the data range.
-const rangeTol = 1e-9
-
 // outsideRange lists, for one deformation, every quantity outside the
-// fitted data range: F11, F22, the shears F12 and F21 and each family's
-// fibre stretch √I4.
+// fitted data range dr (none when dr is nil).
 func outsideRange(dr *card.DataRange, m *aniso.Model, F [4]float64) []string {
 	if dr == nil {
 		return nil
 	}
-	var out []string
-	check := func(name string, v float64, r [2]float64) {
-		if v < r[0]-rangeTol || v > r[1]+rangeTol {
-			out = append(out, fmt.Sprintf("%s = %.6g outside [%.6g, %.6g]", name, v, r[0], r[1]))
-		}
-	}
-	check("F11", F[0], dr.Stretch1)
-	check("F22", F[3], dr.Stretch2)
-	check("F12", F[1], dr.Shear)
-	check("F21", F[2], dr.Shear)
-	if len(dr.FibreStretch) == len(m.Families) {
-		k, err := aniso.NewKinematics(F)
-		if err == nil {
-			for i, f := range m.Families {
-				check("fibre stretch of "+f.Name, math.Sqrt(k.Fibre(f.Angle).I4), dr.FibreStretch[i])
-			}
-		}
-	}
-	return out
+	return dr.Outside(m, F)
 }
 
 // noRangeNotice is printed when a card has no data_range section.

@@ -34,9 +34,7 @@ func presetCard(t *testing.T, name string, dataRange *card.DataRange) string {
 	}
 	c := card.FromModel(m, "kPa", nil)
 	if dataRange != nil {
-		if err := c.SetExtra("data_range", dataRange); err != nil {
-			t.Fatal(err)
-		}
+		c.DataRange = dataRange
 	}
 	b, err := c.Marshal()
 	if err != nil {

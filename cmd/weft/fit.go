@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"math"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -453,131 +452,15 @@ func fitOne(cmd *cobra.Command, s *biaxial.Specimen, st aniso.Structure, chosen 
 		o.result = d.Best().Result
 	}
 	o.elapsed = time.Since(start)
-	c, err := buildCard(o)
-	if err != nil {
-		return nil, err
-	}
-	o.card = c
+	o.card = card.FromFit(p, o.result, o.disc)
 	return o, nil
-}
-
-// buildCard writes the fitted model and its evidence as a model card.
-func buildCard(o *fitOutcome) (*card.Card, error) {
-	r, s := o.result, o.spec
-	signs := make([]bool, len(r.Model.Families))
-	for i := range signs {
-		signs[i] = r.SignKnown
-	}
-	c := card.FromModel(r.Model, s.StressUnit, signs)
-	c.Specimen = s.Name
-	if r.Structure.Layout == aniso.LayoutMirror {
-		a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
-		mean, half := (a0+a1)/2*180/math.Pi, math.Abs(a0-a1)/2*180/math.Pi
-		axis := "free"
-		if r.Structure.HoldPairAxis {
-			axis = "axis-1"
-		}
-		c.Layout = &card.Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half, PairAxis: axis}
-	} else if r.Structure.Layout == aniso.LayoutFree {
-		c.Layout = &card.Layout{Kind: "free"}
-	} else if r.Structure.Layout == aniso.LayoutSingle {
-		c.Layout = &card.Layout{Kind: "single"}
-	}
-	set := func(key string, v any) error { return c.SetExtra(key, v) }
-	if err := set(card.KeyFit, card.NewFitSection(r, s.Kind.String(), s.StressUnit)); err != nil {
-		return nil, err
-	}
-	if err := set(card.KeyDataRange, dataRange(o.prob, r.Model)); err != nil {
-		return nil, err
-	}
-	if err := set(card.KeyData, dataSection(s)); err != nil {
-		return nil, err
-	}
-	if sp, err := aniso.Split(o.prob, r.Model); err == nil {
-		if err := set(card.KeySplit, card.NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")); err != nil {
-			return nil, err
-		}
-	}
-	if d := o.disc; d != nil {
-		v := card.NewVerdictSection(d.Verdict, aniso.FormKey(d.Best().Result.Structure))
-		if err := set(card.KeyVerdict, v); err != nil {
-			return nil, err
-		}
-		sel := card.SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search,
-			CVMetric: "held-out normalised RMSE: sqrt(weighted SSE / components) of the left-out protocol, rows weighted by 1/(range*sqrt(points)) of their protocol and axis"}
-		for i := range d.Pareto {
-			sel.Pareto = append(sel.Pareto, card.NewCandidateCard(&d.Pareto[i], i == d.Chosen))
-		}
-		for i := range d.Presets {
-			sel.Presets = append(sel.Presets, card.NewCandidateCard(&d.Presets[i], false))
-		}
-		for _, pi := range o.prob.Protocols {
-			sel.Protocols = append(sel.Protocols, s.Protocols[pi].Label)
-		}
-		for _, row := range d.CrossR2 {
-			var nr []card.Num
-			for _, x := range row {
-				nr = append(nr, card.Num(x))
-			}
-			sel.CrossR2 = append(sel.CrossR2, nr)
-		}
-		if err := set(card.KeySelection, sel); err != nil {
-			return nil, err
-		}
-	}
-	return c, nil
-}
-
-// dataSection describes the data in the card. Warnings and notices name
-// the input by its base name only, so that the card does not depend on how
-// its path was typed (or reveal where it lives).
-func dataSection(s *biaxial.Specimen) card.DataSection {
-	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
-		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
-		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
-	for _, pr := range s.Protocols {
-		d.Protocols = append(d.Protocols, card.DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
-	}
-	base := filepath.Base(s.Source)
-	for _, w := range s.Warnings {
-		w.File = base
-		d.Warnings = append(d.Warnings, w.String())
-	}
-	for i, n := range d.Notices {
-		d.Notices[i] = strings.ReplaceAll(n, s.Source, base)
-	}
-	return d
-}
-
-// dataRange is the span of the fitted data, for extrapolation warnings.
-func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {
-	dr := card.DataRange{Stretch1: [2]float64{math.Inf(1), math.Inf(-1)}, Stretch2: [2]float64{math.Inf(1), math.Inf(-1)},
-		Shear: [2]float64{math.Inf(1), math.Inf(-1)}, StressKind: p.Specimen.Kind.String()}
-	fr := make([][2]float64, len(m.Families))
-	for i := range fr {
-		fr[i] = [2]float64{math.Inf(1), math.Inf(-1)}
-	}
-	upd := func(r *[2]float64, v float64) { r[0], r[1] = math.Min(r[0], v), math.Max(r[1], v) }
-	for i := 0; i < p.Data.Points(); i++ {
-		k := p.Data.Kinematics(i)
-		F := k.F
-		upd(&dr.Stretch1, F[0])
-		upd(&dr.Stretch2, F[3])
-		upd(&dr.Shear, F[1])
-		upd(&dr.Shear, F[2])
-		for f, fam := range m.Families {
-			upd(&fr[f], math.Sqrt(k.Fibre(fam.Angle).I4))
-		}
-	}
-	dr.FibreStretch = fr
-	return dr
 }
 
 // printCardsJSON prints one card, or an array of the cards written when
 // several DATA files were given.
-func printCardsJSON(w io.Writer, os []*fitOutcome, several bool) error {
-	if len(os) == 1 && !several {
-		b, err := os[0].card.Marshal()
+func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
+	if len(outcomes) == 1 && !several {
+		b, err := outcomes[0].card.Marshal()
 		if err != nil {
 			return err
 		}
@@ -585,7 +468,7 @@ func printCardsJSON(w io.Writer, os []*fitOutcome, several bool) error {
 		return err
 	}
 	var all []json.RawMessage
-	for _, o := range os {
+	for _, o := range outcomes {
 		b, err := json.Marshal(o.card)
 		if err != nil {
 			return err

@@ -42,10 +42,10 @@ func TestFitPresetFung(t *testing.T) {
 	for file, shear := range map[string]bool{"membrane-M1.csv": false, "membrane-M3-sutured.csv": true} {
 		out, c, raw := fitFungPreset(t, file)
 		schemaValidate(t, raw)
-		var fs card.FitSection
-		if ok, err := c.GetExtra(card.KeyFit, &fs); !ok || err != nil {
-			t.Fatalf("%s: no fit section (%v)", file, err)
+		if c.Fit == nil {
+			t.Fatalf("%s: no fit section (%v)", file, c.SectionError(card.KeyFit))
 		}
+		fs := *c.Fit
 		notes := strings.Join(fs.Notes, "\n")
 		if !strings.Contains(out, "Convexity of fung") || !strings.Contains(notes, "Convexity of fung") {
 			t.Errorf("%s: convexity not reported\n%s\nnotes: %s", file, out, notes)

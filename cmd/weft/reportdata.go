@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"encoding/csv"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -24,13 +23,6 @@ import (
 // fit.csv and, when weft fit wrote it, heldout.csv), so that 'weft report'
 // rebuilds exactly what 'weft fit' wrote without refitting.
 
-// reportData is the data section of a card as the report reads it: the
-// typed section plus free-text notes, which a card may carry.
-type reportData struct {
-	card.DataSection
-	Notes string `json:"notes,omitempty"`
-}
-
 // reportInput is everything a report is drawn from.
 type reportInput struct {
 	// dir is the output folder (for messages); files the names found in it.
@@ -39,7 +31,7 @@ type reportInput struct {
 	card  *card.Card
 	model *aniso.Model
 	fit   card.FitSection
-	data  reportData
+	data  card.DataSection
 	// dataRange, split, verdict and sel are nil when the card lacks them
 	// (a chosen-form fit has no verdict or selection).
 	dataRange *card.DataRange
@@ -324,15 +316,6 @@ func readHeldoutTable(r io.Reader, file string, t *fitTable) (*heldoutTable, err
 	return ht, nil
 }
 
-// getSection reads an optional card section; it returns false when absent.
-func getSection(c *card.Card, key string, v any) (bool, error) {
-	ok, err := c.GetExtra(key, v)
-	if err != nil {
-		return false, fmt.Errorf("model.json: $.%s: %v", key, err)
-	}
-	return ok, nil
-}
-
 // loadReportInput reads an output folder within the default limits.
 func loadReportInput(dir string) (*reportInput, error) {
 	return loadReportInputLimits(dir, biaxial.Limits{}, card.Limits{})
@@ -422,44 +405,33 @@ func (in *reportInput) parse(modelJSON, fitCSV, heldoutCSV []byte) error {
 		return err
 	}
 	in.card, in.model = c, m
-	ok, err := getSection(c, card.KeyFit, &in.fit)
-	if err != nil {
+	// A section that is present but malformed is reported before a
+	// missing one that comes after it, in the order the report needs them.
+	sectionErr := func(key string) error {
+		if err := c.SectionError(key); err != nil {
+			return fmt.Errorf("model.json: $.%s: %v", key, err)
+		}
+		return nil
+	}
+	if err := sectionErr(card.KeyFit); err != nil {
 		return err
 	}
-	if !ok {
+	if c.Fit == nil {
 		return errors.New("model.json has no 'fit' section: it is not a card written by 'weft fit', which the report needs")
 	}
-	if raw, ok := c.Extra[card.KeyData]; ok {
-		if err := json.Unmarshal(raw, &in.data); err != nil {
-			return fmt.Errorf("model.json: $.%s: %v", card.KeyData, err)
-		}
-	} else {
+	if err := sectionErr(card.KeyData); err != nil {
+		return err
+	}
+	if c.Data == nil {
 		return errors.New("model.json has no 'data' section (the data the card was fitted to); refit with 'weft fit'")
 	}
-	var dr card.DataRange
-	if ok, err := getSection(c, card.KeyDataRange, &dr); err != nil {
-		return err
-	} else if ok {
-		in.dataRange = &dr
+	for _, key := range []string{card.KeyDataRange, card.KeySplit, card.KeyVerdict, card.KeySelection} {
+		if err := sectionErr(key); err != nil {
+			return err
+		}
 	}
-	var sp card.SplitSection
-	if ok, err := getSection(c, card.KeySplit, &sp); err != nil {
-		return err
-	} else if ok {
-		in.split = &sp
-	}
-	var v card.VerdictSection
-	if ok, err := getSection(c, card.KeyVerdict, &v); err != nil {
-		return err
-	} else if ok {
-		in.verdict = &v
-	}
-	var sel card.SelectionSection
-	if ok, err := getSection(c, card.KeySelection, &sel); err != nil {
-		return err
-	} else if ok {
-		in.sel = &sel
-	}
+	in.fit, in.data = *c.Fit, *c.Data
+	in.dataRange, in.split, in.verdict, in.sel = c.DataRange, c.Split, c.Verdict, c.Selection
 	in.table, err = readFitTable(bytes.NewReader(fitCSV), "fit.csv")
 	if err != nil {
 		return err

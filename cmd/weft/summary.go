@@ -65,8 +65,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, m.Component, r2, nr, m.RMSE)
 	}
 	tw.Flush()
-	var sp card.SplitSection
-	if ok, _ := o.card.GetExtra(card.KeySplit, &sp); ok {
+	if sp := o.card.Split; sp != nil {
 		fmt.Fprintln(w)
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		head := "split\taxis"

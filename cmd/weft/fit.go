@@ -9,7 +9,6 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
-	"regexp"
 	"strings"
 	"time"
 
@@ -18,6 +17,7 @@ import (
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/terms"
 )
 
@@ -228,8 +228,6 @@ func formFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 	return st, true, nil
 }
 
-var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
-
 // fitJob is one DATA file of a fit run and what became of it.
 type fitJob struct {
 	path string
@@ -248,7 +246,7 @@ func outputFolders(jobs []*fitJob, out string) {
 		if j.err != nil {
 			continue
 		}
-		name := unsafeName.ReplaceAllString(j.spec.Name, "_")
+		name := report.SafeName(j.spec.Name)
 		if name == "" || name == "." || name == ".." {
 			name = strings.TrimSuffix(filepath.Base(j.path), filepath.Ext(j.path))
 		}
@@ -494,7 +492,7 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 		return err
 	}
 	var buf bytes.Buffer
-	if err := writeFitCSV(&buf, o); err != nil {
+	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
 		return err
 	}
 	if err := od.write("fit.csv", buf.Bytes()); err != nil {
@@ -502,7 +500,9 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 	}
 	if o.disc != nil {
 		buf.Reset()
-		writeSelectionCSV(&buf, o)
+		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
+			return err
+		}
 		if err := od.write("selection.csv", buf.Bytes()); err != nil {
 			return err
 		}

@@ -9,6 +9,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
 func num(x float64, format string) string {
@@ -38,7 +39,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		how = "discovered (" + o.disc.Best().Name + ")"
 	}
 	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
-	if pair := pairText(o.card.Layout); pair != "" {
+	if pair := report.PairText(o.card.Layout); pair != "" {
 		fmt.Fprintf(w, "fibres:   %s\n", pair)
 	}
 	if d := o.disc; d != nil {
@@ -135,37 +136,6 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", o.dir, files, o.elapsed.Seconds())
 }
 
-// pairText describes a mirror pair's geometry, or is empty for other
-// layouts.
-func pairText(l *card.Layout) string {
-	if l == nil || l.Kind != "mirror" || l.HalfAngleDeg == nil {
-		return ""
-	}
-	if l.PairAxis == "axis-1" {
-		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
-	}
-	mean := math.NaN()
-	if l.MeanDeg != nil {
-		mean = *l.MeanDeg
-	}
-	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", num(mean, "%.2f"), *l.HalfAngleDeg)
-}
-
-// statusLegend explains, once each and in a fixed order, the parameter
-// statuses other than "estimated" that appear in a table.
-func statusLegend(shown []string) []string {
-	var out []string
-	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
-		for _, s := range shown {
-			if s == st {
-				out = append(out, st+": "+aniso.StatusMeaning(st))
-				break
-			}
-		}
-	}
-	return out
-}
-
 // printParameters prints the parameter table with intervals and statuses,
 // the angle profiles' intervals, what the statuses shown mean, and the
 // flags.
@@ -204,7 +174,7 @@ func printParameters(w io.Writer, r *aniso.Result) {
 			statuses = append(statuses, e.Status)
 		}
 	}
-	for _, l := range statusLegend(statuses) {
+	for _, l := range report.StatusLegend(statuses) {
 		fmt.Fprintf(w, "status:   %s\n", l)
 	}
 	for _, f := range r.Flags {

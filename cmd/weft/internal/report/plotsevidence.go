@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"fmt"
@@ -76,7 +76,7 @@ func band(x0, x1, y0, y1 float64, c color.Color) *plotter.Polygon {
 
 // profileFigure draws the loss profile over each fibre angle parameter, or
 // returns nil when the fit has none (no fibre family).
-func (in *reportInput) profileFigure() *figure {
+func (in *Input) profileFigure() *figure {
 	profs := in.fit.Profiles
 	if len(profs) == 0 {
 		return nil
@@ -287,7 +287,7 @@ func formGlyph(key string) draw.GlyphStyle {
 // paretoFigure plots number of parameters against loss for every Pareto
 // candidate, one series per model form, with the presets and the chosen
 // model marked; nil without a selection section.
-func (in *reportInput) paretoFigure() *figure {
+func (in *Input) paretoFigure() *figure {
 	sel := in.sel
 	if sel == nil || len(sel.Pareto) == 0 {
 		return nil
@@ -473,7 +473,7 @@ func (colourBar) Plot(c draw.Canvas, p *plot.Plot) {
 // crossFigure is the heat map of selection.cross_r2: the chosen form fitted
 // to one protocol alone (rows) predicting every protocol (columns); nil
 // without it.
-func (in *reportInput) crossFigure() *figure {
+func (in *Input) crossFigure() *figure {
 	sel := in.sel
 	if sel == nil || len(sel.CrossR2) == 0 || len(sel.CrossR2) != len(sel.Protocols) {
 		return nil

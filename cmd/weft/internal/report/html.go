@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"bytes"
@@ -9,6 +9,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 )
 
@@ -121,16 +122,16 @@ func toHTMLFigure(f renderedFigure) htmlFigure {
 }
 
 // isSynthetic reports whether the data say they are synthetic.
-func (in *reportInput) isSynthetic() bool {
+func (in *Input) isSynthetic() bool {
 	d := in.data
 	text := strings.ToUpper(strings.Join(append([]string{d.Tissue, d.Notes, d.Source, d.Specimen}, d.Notices...), " "))
 	return strings.Contains(text, "SYNTHETIC")
 }
 
 // signUnknown reports whether the fit could not determine angle signs.
-func (in *reportInput) signUnknown() bool { return !in.fit.AngleSignKnown && len(in.card.Families) > 0 }
+func (in *Input) signUnknown() bool { return !in.fit.AngleSignKnown && len(in.card.Families) > 0 }
 
-func reportHTML(in *reportInput, figs []renderedFigure, strain bool) ([]byte, error) {
+func reportHTML(in *Input, figs []renderedFigure, strain bool) ([]byte, error) {
 	v := in.view(figs, strain)
 	var buf bytes.Buffer
 	if err := reportTemplate.Execute(&buf, v); err != nil {
@@ -140,7 +141,7 @@ func reportHTML(in *reportInput, figs []renderedFigure, strain bool) ([]byte, er
 }
 
 // view formats the input for the template.
-func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
+func (in *Input) view(figs []renderedFigure, strain bool) *reportView {
 	c, d, fs := in.card, in.data, in.fit
 	v := &reportView{Specimen: c.Specimen, Tissue: d.Tissue, DataNotes: sentence(d.Notes), Synthetic: in.isSynthetic(), Cautions: card.Cautions,
 		Limits: "Planar biaxial data constrain the in-plane response only; the out-of-plane response and the response to I5 are not fully determined by them (Holzapfel & Ogden 2009, Math Mech Solids 14:474–489)."}
@@ -182,7 +183,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 	if len(angles) > 0 {
 		fams = strings.Join(angles, ", ")
 	}
-	if pair := pairText(c.Layout); pair != "" {
+	if pair := PairText(c.Layout); pair != "" {
 		fams += "; " + pair
 	}
 	v.Summary = []htmlFact{{"Model", how}, {"Energy", strings.TrimPrefix(c.Energy, "Psi = ")}, {"Fibre families", fams}}
@@ -294,7 +295,7 @@ func (in *reportInput) view(figs []renderedFigure, strain bool) *reportView {
 		v.Params.Rows = append(v.Params.Rows, htmlRow{Cells: []string{e.Name, val, iv, fnum(float64(e.StdErr), 3), unit, e.Status}})
 		statuses = append(statuses, e.Status)
 	}
-	v.Statuses = statusLegend(statuses)
+	v.Statuses = StatusLegend(statuses)
 	for _, p := range fs.Profiles {
 		s := fmt.Sprintf("%s: profile-likelihood 95 %% interval %s to %s", p.Name, fmtDeg(float64(p.IntervalDeg[0])), fmtDeg(float64(p.IntervalDeg[1])))
 		if p.NotDetermined {
@@ -499,7 +500,7 @@ func layoutKeyText(k string) string {
 
 // heldoutR2 is the held-out R² of one protocol and component, from
 // heldout.csv and fit.csv.
-func (in *reportInput) heldoutR2(protocol, comp string) string {
+func (in *Input) heldoutR2(protocol, comp string) string {
 	ci := componentIndex(in.table.comps, comp)
 	for _, pr := range in.table.protocols {
 		if pr.label == protocol && ci >= 0 {
@@ -513,7 +514,7 @@ func (in *reportInput) heldoutR2(protocol, comp string) string {
 
 // folderFiles lists the files of the output folder that the report
 // describes, in a fixed order.
-func (in *reportInput) folderFiles(nfig int) []string {
+func (in *Input) folderFiles(nfig int) []string {
 	desc := map[string]string{
 		"model.json":    "model.json: the model card with every section shown here",
 		"fit.csv":       "fit.csv: every kept point with measured and modelled stress, residuals and each term's contribution",
@@ -734,4 +735,35 @@ func sentence(s string) string {
 		return s
 	}
 	return s + "."
+}
+
+// PairText describes a mirror pair's geometry, or is empty for other
+// layouts.
+func PairText(l *card.Layout) string {
+	if l == nil || l.Kind != "mirror" || l.HalfAngleDeg == nil {
+		return ""
+	}
+	if l.PairAxis == "axis-1" {
+		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
+	}
+	mean := "-"
+	if l.MeanDeg != nil && !math.IsNaN(*l.MeanDeg) && !math.IsInf(*l.MeanDeg, 0) {
+		mean = fmt.Sprintf("%.2f", *l.MeanDeg)
+	}
+	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", mean, *l.HalfAngleDeg)
+}
+
+// StatusLegend explains, once each and in a fixed order, the parameter
+// statuses other than "estimated" that appear in a table.
+func StatusLegend(shown []string) []string {
+	var out []string
+	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
+		for _, s := range shown {
+			if s == st {
+				out = append(out, st+": "+aniso.StatusMeaning(st))
+				break
+			}
+		}
+	}
+	return out
 }

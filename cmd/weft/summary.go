@@ -101,12 +101,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 			if c.CV != nil {
 				cv = fmt.Sprintf("%.4f ± %.4f", c.CV.Mean, c.CV.StdErr)
 			}
-			minR2 := math.Inf(1)
-			for _, m := range c.Result.Metrics {
-				if m.R2Defined {
-					minR2 = math.Min(minR2, m.R2)
-				}
-			}
+			minR2 := card.LowestR2(c.Result.Metrics)
 			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, c.Result.Complexity, c.Result.Loss, c.Result.BIC, cv, num(minR2, "%.4f"))
 		}
 		for i := range d.Pareto {

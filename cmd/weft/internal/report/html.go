@@ -83,23 +83,6 @@ type reportView struct {
 	Files       []string
 }
 
-// fnum formats a number with n significant digits and a true minus sign;
-// NaN is a dash.
-func fnum(x float64, n int) string {
-	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return "—"
-	}
-	return strings.Replace(fmt.Sprintf("%.*g", n, x), "-", "−", 1)
-}
-
-// pct formats a share as a percentage.
-func pct(x float64) string {
-	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return "—"
-	}
-	return fmt.Sprintf("%.0f %%", 100*x)
-}
-
 var (
 	svgProlog = regexp.MustCompile(`(?s)^.*?<svg `)
 	svgNS     = regexp.MustCompile(`\s*xmlns(:xlink)?="[^"]*"`)

@@ -47,20 +47,12 @@ func (m *textMarks) Plot(c draw.Canvas, p *plot.Plot) {
 func degTicks() plot.Ticker {
 	var ts []plot.Tick
 	for a := -90; a <= 90; a += 30 {
-		ts = append(ts, plot.Tick{Value: float64(a), Label: strings.Replace(fmt.Sprintf("%d°", a), "-", "−", 1)})
+		ts = append(ts, plot.Tick{Value: float64(a), Label: trueMinus(fmt.Sprintf("%d°", a))})
 	}
 	for a := -75; a <= 75; a += 30 {
 		ts = append(ts, plot.Tick{Value: float64(a)})
 	}
 	return plot.ConstantTicks(ts)
-}
-
-// fmtDeg formats an angle in degrees.
-func fmtDeg(a float64) string {
-	if math.IsNaN(a) {
-		return "n/a"
-	}
-	return strings.Replace(fmt.Sprintf("%.2f°", a), "-", "−", 1)
 }
 
 // band returns a filled rectangle from x0 to x1 over [y0, y1].

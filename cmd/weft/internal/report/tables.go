@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 )
 
@@ -99,12 +100,7 @@ func WriteSelectionTable(w io.Writer, p *aniso.Problem, d *aniso.Discovery) erro
 				ts += t.Label(r.Structure.Layout)
 			}
 		}
-		minR2 := math.Inf(1)
-		for _, m := range r.Metrics {
-			if m.R2Defined {
-				minR2 = math.Min(minR2, m.R2)
-			}
-		}
+		minR2 := card.LowestR2(r.Metrics)
 		row := []string{set, c.Name, c.Layout.String(), spreadName(r.Structure), ts, strconv.Itoa(c.Terms),
 			strconv.Itoa(r.Complexity), ftoa(r.Loss), ftoa(r.AICc), ftoa(r.BIC), ftoa(minR2)}
 		if c.CV != nil {

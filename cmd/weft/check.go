@@ -13,8 +13,6 @@ import (
 	"github.com/weft-tools/weft/terms"
 )
 
-func init() { commands = append(commands, newCheckCmd) }
-
 // checkFormat is the version of check's JSON document.
 const checkFormat = "weft.check/1"
 
@@ -122,11 +120,21 @@ type checkReport struct {
 	Cautions  []string        `json:"cautions"`
 }
 
-func newCheckCmd() *cobra.Command {
+// checkOptions are the options of weft check.
+type checkOptions struct {
+	streams
+	// model is the card, checked on grid; json prints the report as JSON.
+	model      string
+	grid       aniso.StabilityGrid
+	json       bool
+	cardLimits card.Limits
+}
+
+func newCheckCmd(s *streams) *cobra.Command {
+	o := &checkOptions{streams: *s}
 	var rangeFlag string
 	var steps, directions int
 	var shear float64
-	var asJSON bool
 	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "check MODEL.json [--range 0.7,1.6] [--shear 0.3] [--json]",
@@ -171,29 +179,11 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 			if err := g.Validate(); err != nil {
 				return badInputf("%v", err)
 			}
-			_, cl, err := limits.parse()
-			if err != nil {
+			if _, o.cardLimits, err = limits.parse(); err != nil {
 				return err
 			}
-			c, m, dr, err := readCardWithRange(args[0], cl)
-			if err != nil {
-				return err
-			}
-			rep, err := runCheck(args[0], c, m, g, dr)
-			if err != nil {
-				return err
-			}
-			if asJSON {
-				if err := writeJSON(cmd.OutOrStdout(), rep); err != nil {
-					return err
-				}
-			} else {
-				printCheck(cmd.OutOrStdout(), rep)
-			}
-			if !rep.Passed {
-				return checkFailed{msg: "check failed: " + strings.Join(rep.Failures, "; ")}
-			}
-			return nil
+			o.model, o.grid = args[0], g
+			return runCheck(o)
 		},
 	}
 	d := aniso.DefaultStabilityGrid()
@@ -201,13 +191,37 @@ extensibility, or an exponential overflow) are counted and warned about.`,
 	cmd.Flags().IntVar(&steps, "steps", d.Steps, "stretches per axis, ends included")
 	cmd.Flags().Float64Var(&shear, "shear", d.ShearMax, "largest simple shear added to each stretch (0: none)")
 	cmd.Flags().IntVar(&directions, "directions", d.Directions, "directions sampled for strong ellipticity")
-	cmd.Flags().BoolVar(&asJSON, "json", false, "print the report as JSON")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the report as JSON")
 	limits = addLimitFlag(cmd)
 	return cmd
 }
 
-// runCheck performs every check.
-func runCheck(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*checkReport, error) {
+// runCheck checks the card and prints the report; a failed check is an
+// error (exit code 1) after the report is printed.
+func runCheck(o *checkOptions) error {
+	c, m, dr, err := readCardWithRange(o.model, o.cardLimits)
+	if err != nil {
+		return err
+	}
+	rep, err := checkCard(o.model, c, m, o.grid, dr)
+	if err != nil {
+		return err
+	}
+	if o.json {
+		if err := writeJSON(o.Out, rep); err != nil {
+			return err
+		}
+	} else {
+		printCheck(o.Out, rep)
+	}
+	if !rep.Passed {
+		return checkFailed{msg: "check failed: " + strings.Join(rep.Failures, "; ")}
+	}
+	return nil
+}
+
+// checkCard performs every check.
+func checkCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*checkReport, error) {
 	rep := &checkReport{Format: checkFormat, Model: filepath.Base(file), StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
 		Notices: []string{}, DataRange: dr, Cautions: card.Cautions}
 	u := c.StressUnit

@@ -15,8 +15,6 @@ import (
 	"github.com/weft-tools/weft/terms"
 )
 
-func init() { commands = append(commands, newDemoCmd) }
-
 // The demo data are SYNTHETIC. They belong to an invented bench study of
 // two engineered tissue constructs and are generated from known parameters
 // with noise, three loading cycles with hysteresis and preconditioning, and a
@@ -205,8 +203,16 @@ func demoFiles() (map[string][]byte, []string, error) {
 	return files, names, nil
 }
 
-func newDemoCmd() *cobra.Command {
-	var force bool
+// demoOptions are the options of weft demo: the folder to write into and
+// whether existing files may be replaced.
+type demoOptions struct {
+	streams
+	dir   string
+	force bool
+}
+
+func newDemoCmd(s *streams) *cobra.Command {
+	o := &demoOptions{streams: *s}
 	cmd := &cobra.Command{
 		Use:   "demo [DIR]",
 		Short: "Write the bundled synthetic demo specimens",
@@ -227,37 +233,44 @@ weft-demo. Existing files are not overwritten without --force.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			dir := "weft-demo"
+			o.dir = "weft-demo"
 			if len(args) == 1 {
-				dir = args[0]
+				o.dir = args[0]
 			}
-			files, names, err := demoFiles()
-			if err != nil {
-				return err
-			}
-			if err := ensureFolder(dir); err != nil {
-				return err
-			}
-			outs := make([]*outputFile, len(names))
-			defer func() {
-				for _, o := range outs {
-					o.close()
-				}
-			}()
-			for i, n := range names {
-				if outs[i], err = prepareOutputFile(filepath.Join(dir, n), force, false); err != nil {
-					return err
-				}
-			}
-			for i, n := range names {
-				if err := outs[i].commit(files[n]); err != nil {
-					return err
-				}
-				fmt.Fprintf(cmd.OutOrStdout(), "wrote %s\n", filepath.Join(dir, n))
-			}
-			return nil
+			return runDemo(o)
 		},
 	}
-	cmd.Flags().BoolVar(&force, "force", false, "overwrite existing demo files")
+	cmd.Flags().BoolVar(&o.force, "force", false, "overwrite existing demo files")
 	return cmd
+}
+
+// runDemo writes the demo files into o.dir, checking every output before
+// it writes any.
+func runDemo(o *demoOptions) error {
+	dir := o.dir
+	files, names, err := demoFiles()
+	if err != nil {
+		return err
+	}
+	if err := ensureFolder(dir); err != nil {
+		return err
+	}
+	outs := make([]*outputFile, len(names))
+	defer func() {
+		for _, f := range outs {
+			f.close()
+		}
+	}()
+	for i, n := range names {
+		if outs[i], err = prepareOutputFile(filepath.Join(dir, n), o.force, false); err != nil {
+			return err
+		}
+	}
+	for i, n := range names {
+		if err := outs[i].commit(files[n]); err != nil {
+			return err
+		}
+		fmt.Fprintf(o.Out, "wrote %s\n", filepath.Join(dir, n))
+	}
+	return nil
 }

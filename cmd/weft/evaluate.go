@@ -13,8 +13,6 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 )
 
-func init() { commands = append(commands, newEvaluateCmd) }
-
 // tangentOrder is the component order of the tangent's rows (nominal
 // stress) and columns (deformation gradient).
 var tangentOrder = []string{"11", "12", "21", "22"}
@@ -54,9 +52,20 @@ type evalResult struct {
 	Cautions []string `json:"cautions"`
 }
 
-func newEvaluateCmd() *cobra.Command {
+// evaluateOptions are the options of weft evaluate.
+type evaluateOptions struct {
+	streams
+	// model is the card, evaluated at the in-plane deformation F; json
+	// prints the result as JSON.
+	model      string
+	F          [4]float64
+	json       bool
+	cardLimits card.Limits
+}
+
+func newEvaluateCmd(s *streams) *cobra.Command {
+	o := &evaluateOptions{streams: *s}
 	var fFlag, stretchFlag string
-	var asJSON bool
 	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "evaluate MODEL.json (--F F11,F12,F21,F22 | --stretch L1,L2)",
@@ -99,30 +108,36 @@ the tangent without them is printed.
 			if det := F[0]*F[3] - F[1]*F[2]; !(det > 0) {
 				return badInputf("det F = F11·F22 − F12·F21 = %g ≤ 0 would invert the material", det)
 			}
-			_, cl, err := limits.parse()
-			if err != nil {
+			var err error
+			if _, o.cardLimits, err = limits.parse(); err != nil {
 				return err
 			}
-			c, m, dr, err := readCardWithRange(args[0], cl)
-			if err != nil {
-				return err
-			}
-			res, err := evaluateAt(args[0], c, m, F, dr)
-			if err != nil {
-				return err
-			}
-			if asJSON {
-				return writeJSON(cmd.OutOrStdout(), res)
-			}
-			printEvaluation(cmd.OutOrStdout(), res)
-			return nil
+			o.model, o.F = args[0], F
+			return runEvaluate(o)
 		},
 	}
 	cmd.Flags().StringVar(&fFlag, "F", "", "in-plane deformation gradient F11,F12,F21,F22")
 	cmd.Flags().StringVar(&stretchFlag, "stretch", "", "pure biaxial stretch L1,L2 (F12 = F21 = 0)")
-	cmd.Flags().BoolVar(&asJSON, "json", false, "print the result as JSON")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the result as JSON")
 	limits = addLimitFlag(cmd)
 	return cmd
+}
+
+// runEvaluate evaluates the card at o.F and prints the result.
+func runEvaluate(o *evaluateOptions) error {
+	c, m, dr, err := readCardWithRange(o.model, o.cardLimits)
+	if err != nil {
+		return err
+	}
+	res, err := evaluateAt(o.model, c, m, o.F, dr)
+	if err != nil {
+		return err
+	}
+	if o.json {
+		return writeJSON(o.Out, res)
+	}
+	printEvaluation(o.Out, res)
+	return nil
 }
 
 // evaluateAt computes everything evaluate reports.

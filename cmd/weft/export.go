@@ -16,8 +16,6 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 )
 
-func init() { commands = append(commands, newExportCmd) }
-
 // exportFormat is the version of export's JSON document.
 const exportFormat = "weft.export/1"
 
@@ -81,10 +79,21 @@ type exportDoc struct {
 	Notices      []string         `json:"notices"`
 }
 
-func newExportCmd() *cobra.Command {
-	var format, out string
-	var force, schema bool
-	var limits *limitFlags
+// exportOptions are the options of weft export.
+type exportOptions struct {
+	streams
+	// model is the card; format one of table, csv, json, latex; out the
+	// output file ("" or "-": standard output); schema prints the card
+	// schema instead.
+	model, format, out string
+	force, schema      bool
+	// limits are the --limit values, read only when a card is read (nil:
+	// the default limits), so that they cannot stop --schema.
+	limits *limitFlags
+}
+
+func newExportCmd(s *streams) *cobra.Command {
+	o := &exportOptions{streams: *s}
 	cmd := &cobra.Command{
 		Use:   "export MODEL.json [--format table|csv|json|latex] [-o FILE] | export --schema",
 		Short: "Parameters, energy and a stress verification table of a model card for FE use",
@@ -117,60 +126,71 @@ export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
   weft export model.json --format latex -o params.tex
   weft export --schema > model.schema.json`,
 		Args: func(cmd *cobra.Command, args []string) error {
-			if schema {
+			if o.schema {
 				return exactArgs(0)(cmd, args)
 			}
 			return exactArgs(1)(cmd, args)
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			switch format {
-			case "table", "csv", "json", "latex":
-			default:
-				return badInputf("--format %q: use table, csv, json or latex", format)
+			if len(args) == 1 {
+				o.model = args[0]
 			}
-			res, err := openResult(cmd, out, force)
-			if err != nil {
-				return err
-			}
-			defer res.close()
-			if schema {
-				return res.write(card.Schema())
-			}
-			_, cl, err := limits.parse()
-			if err != nil {
-				return err
-			}
-			c, m, err := readCard(args[0], cl)
-			if err != nil {
-				return err
-			}
-			doc, err := buildExport(args[0], c, m)
-			if err != nil {
-				return err
-			}
-			var buf bytes.Buffer
-			switch format {
-			case "table":
-				writeExportTable(&buf, doc)
-			case "csv":
-				err = writeExportCSV(&buf, doc)
-			case "json":
-				err = writeJSON(&buf, doc)
-			case "latex":
-				writeExportLaTeX(&buf, doc)
-			}
-			if err != nil {
-				return err
-			}
-			return res.write(buf.Bytes())
+			return runExport(o)
 		},
 	}
-	cmd.Flags().StringVar(&format, "format", "table", "output format: table, csv, json or latex")
-	cmd.Flags().StringVarP(&out, "output", "o", "", "write to this file instead of standard output")
-	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
-	cmd.Flags().BoolVar(&schema, "schema", false, "print the JSON Schema of model cards instead")
-	limits = addLimitFlag(cmd)
+	cmd.Flags().StringVar(&o.format, "format", "table", "output format: table, csv, json or latex")
+	cmd.Flags().StringVarP(&o.out, "output", "o", "", "write to this file instead of standard output")
+	cmd.Flags().BoolVar(&o.force, "force", false, "overwrite the output file if it exists")
+	cmd.Flags().BoolVar(&o.schema, "schema", false, "print the JSON Schema of model cards instead")
+	o.limits = addLimitFlag(cmd)
 	return cmd
+}
+
+// runExport writes the parameter and verification tables of the card, or
+// the card schema.
+func runExport(o *exportOptions) error {
+	switch o.format {
+	case "table", "csv", "json", "latex":
+	default:
+		return badInputf("--format %q: use table, csv, json or latex", o.format)
+	}
+	res, err := openResult(o.Out, o.out, o.force)
+	if err != nil {
+		return err
+	}
+	defer res.close()
+	if o.schema {
+		return res.write(card.Schema())
+	}
+	var cl card.Limits
+	if o.limits != nil {
+		if _, cl, err = o.limits.parse(); err != nil {
+			return err
+		}
+	}
+	c, m, err := readCard(o.model, cl)
+	if err != nil {
+		return err
+	}
+	doc, err := buildExport(o.model, c, m)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	switch o.format {
+	case "table":
+		writeExportTable(&buf, doc)
+	case "csv":
+		err = writeExportCSV(&buf, doc)
+	case "json":
+		err = writeJSON(&buf, doc)
+	case "latex":
+		writeExportLaTeX(&buf, doc)
+	}
+	if err != nil {
+		return err
+	}
+	return res.write(buf.Bytes())
 }
 
 // stressColumns returns predict's stress column names with the unit.

@@ -21,10 +21,12 @@ import (
 	"github.com/weft-tools/weft/terms"
 )
 
-func init() { commands = append(commands, newFitCmd) }
-
-// fitFlags are the options of weft fit.
-type fitFlags struct {
+// fitOptions are the options of weft fit.
+type fitOptions struct {
+	streams
+	// files are the DATA files; read says how to read them.
+	files      []string
+	read       biaxial.Options
 	out        string
 	force      bool
 	preset     string
@@ -38,8 +40,8 @@ type fitFlags struct {
 	quiet      bool
 }
 
-func newFitCmd() *cobra.Command {
-	ff := &fitFlags{}
+func newFitCmd(s *streams) *cobra.Command {
+	ff := &fitOptions{streams: *s}
 	cmd := &cobra.Command{
 		Use:   "fit DATA...",
 		Short: "Discover or fit a constitutive model for each specimen file",
@@ -112,14 +114,15 @@ tested range, not for clinical decisions.`,
 		if err != nil {
 			return err
 		}
-		return runFit(cmd, args, opt, ff)
+		ff.files, ff.read = args, opt
+		return runFit(ff)
 	}
 	return cmd
 }
 
 // structureFromFlags turns --preset or --terms into a model form; ok is
 // false when neither was given (discovery).
-func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
+func structureFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 	st, ok, err := formFromFlags(ff)
 	if err != nil {
 		return st, ok, err
@@ -140,7 +143,7 @@ func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 }
 
 // formFromFlags reads --preset or --terms and their layout flags.
-func formFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
+func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 	if ff.preset != "" && ff.termIDs != "" {
 		return aniso.Structure{}, false, badInputf("give --preset or --terms, not both")
 	}
@@ -281,7 +284,8 @@ type fitOutcome struct {
 // runFit fits every DATA file. Each file is read and its output folder
 // checked before any fitting starts; a file that fails does not stop the
 // others. Every failure is reported at the end.
-func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags) error {
+func runFit(ff *fitOptions) error {
+	args := ff.files
 	st, chosen, err := structureFromFlags(ff)
 	if err != nil {
 		return err
@@ -292,7 +296,7 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 	jobs := make([]*fitJob, len(args))
 	for i, path := range args {
 		jobs[i] = &fitJob{path: path}
-		jobs[i].spec, jobs[i].err = readSpecimen(path, opt)
+		jobs[i].spec, jobs[i].err = readSpecimen(path, ff.read)
 	}
 	outputFolders(jobs, ff.out)
 	container, err := prepareContainer(ff.out, len(jobs) > 1)
@@ -315,7 +319,7 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 		if j.err != nil {
 			continue
 		}
-		o, err := fitOne(cmd, j.spec, st, chosen, ff)
+		o, err := fitOne(j.spec, st, chosen, ff)
 		if err == nil {
 			o.dir = j.dir
 			err = writeFitOutputs(o, j.od, ff.force)
@@ -327,11 +331,11 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 		}
 		outcomes = append(outcomes, o)
 		if !ff.asJSON {
-			printFitSummary(cmd.OutOrStdout(), o)
+			printFitSummary(ff.Out, o)
 		}
 	}
 	if ff.asJSON && len(outcomes) > 0 {
-		if err := printCardsJSON(cmd.OutOrStdout(), outcomes, len(jobs) > 1); err != nil {
+		if err := printCardsJSON(ff.Out, outcomes, len(jobs) > 1); err != nil {
 			return err
 		}
 	}
@@ -425,14 +429,14 @@ func fitFailed(s *biaxial.Specimen, err error) error {
 	return checkFailed{msg: fmt.Sprintf("%s: the fit did not succeed: %v", s.Source, err)}
 }
 
-func fitOne(cmd *cobra.Command, s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitFlags) (*fitOutcome, error) {
+func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions) (*fitOutcome, error) {
 	start := time.Now()
 	p, err := aniso.NewProblem(s, nil)
 	if err != nil {
 		return nil, badInput(fmt.Errorf("%s: %w", s.Source, err))
 	}
 	o := &fitOutcome{spec: s, prob: p}
-	bar := newProgress(cmd.ErrOrStderr(), "fitting "+s.Name, ff.quiet)
+	bar := newProgress(ff.ErrOut, ff.ErrIsTerminal, "fitting "+s.Name, ff.quiet)
 	defer bar.finish()
 	if chosen {
 		bar.set(0, 1)

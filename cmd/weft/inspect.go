@@ -12,10 +12,18 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 )
 
-func init() { commands = append(commands, newInspectCmd) }
+// inspectOptions are the options of weft inspect.
+type inspectOptions struct {
+	streams
+	// files are read as read says; json prints JSON, with every kept point
+	// when points is set.
+	files        []string
+	read         biaxial.Options
+	json, points bool
+}
 
-func newInspectCmd() *cobra.Command {
-	var asJSON, points bool
+func newInspectCmd(s *streams) *cobra.Command {
+	o := &inspectOptions{streams: *s}
 	cmd := &cobra.Command{
 		Use:   "inspect FILE...",
 		Short: "Read biaxial test files and summarise what weft will fit",
@@ -44,28 +52,34 @@ and column (sheet and cell for xlsx) and what to fix.`,
 		},
 	}
 	rf := addReadFlags(cmd)
-	cmd.Flags().BoolVar(&asJSON, "json", false, "print the summary as JSON instead of a table")
-	cmd.Flags().BoolVar(&points, "points", false, "with --json, include every kept point")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the summary as JSON instead of a table")
+	cmd.Flags().BoolVar(&o.points, "points", false, "with --json, include every kept point")
 	cmd.RunE = func(cmd *cobra.Command, args []string) error {
-		opt, err := rf.options()
+		var err error
+		if o.read, err = rf.options(); err != nil {
+			return err
+		}
+		o.files = args
+		return runInspect(o)
+	}
+	return cmd
+}
+
+// runInspect reads every file and prints the summary; nothing is printed
+// unless every file reads cleanly.
+func runInspect(o *inspectOptions) error {
+	specs := make([]*biaxial.Specimen, 0, len(o.files))
+	for _, path := range o.files {
+		s, err := readSpecimen(path, o.read)
 		if err != nil {
 			return err
 		}
-		specs := make([]*biaxial.Specimen, 0, len(args))
-		for _, path := range args {
-			s, err := readSpecimen(path, opt)
-			if err != nil {
-				return err
-			}
-			specs = append(specs, s)
-		}
-		out := cmd.OutOrStdout()
-		if asJSON {
-			return writeInspectJSON(out, specs, points)
-		}
-		return writeInspectText(out, specs)
+		specs = append(specs, s)
 	}
-	return cmd
+	if o.json {
+		return writeInspectJSON(o.Out, specs, o.points)
+	}
+	return writeInspectText(o.Out, specs)
 }
 
 // inspectJSON is the --json document.

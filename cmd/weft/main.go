@@ -14,7 +14,6 @@ import (
 	"io"
 	"os"
 	"runtime/debug"
-	"strings"
 
 	"github.com/spf13/cobra"
 )
@@ -50,11 +49,19 @@ type checkFailed struct{ msg string }
 
 func (e checkFailed) Error() string { return e.msg }
 
-// commands lists the constructors of every subcommand; files add themselves
-// in init so that subcommands live beside their own code.
-var commands []func() *cobra.Command
+// streams are where a command reads and writes. Every command's options
+// carry them, so that tests run a command with buffers and no cobra.
+type streams struct {
+	In     io.Reader
+	Out    io.Writer
+	ErrOut io.Writer
+	// ErrIsTerminal says whether ErrOut is a terminal: progress bars are
+	// drawn only there.
+	ErrIsTerminal bool
+}
 
-func newRootCmd() *cobra.Command {
+// newRootCmd builds the command tree; every subcommand writes to s.
+func newRootCmd(s *streams) *cobra.Command {
 	root := &cobra.Command{
 		Use:   "weft",
 		Short: "Discover fibre-reinforced hyperelastic models from planar biaxial tests",
@@ -75,9 +82,20 @@ standards and licensed professional practice that apply.`,
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
 		return badInputf("%v (see 'weft %s --help')", err, c.Name())
 	})
-	for _, mk := range commands {
-		root.AddCommand(mk())
-	}
+	root.AddCommand(
+		newFitCmd(s),
+		newReportCmd(s),
+		newInspectCmd(s),
+		newDemoCmd(s),
+		newPredictCmd(s),
+		newExportCmd(s),
+		newCheckCmd(s),
+		newEvaluateCmd(s),
+		newTermsCmd(s),
+	)
+	root.SetIn(s.In)
+	root.SetOut(s.Out)
+	root.SetErr(s.ErrOut)
 	return root
 }
 
@@ -89,9 +107,6 @@ func exitCode(err error) int {
 	case err == nil:
 		return exitOK
 	case errors.As(err, &in):
-		return exitBadInput
-	case strings.HasPrefix(err.Error(), "unknown command"):
-		// cobra's own usage errors are bad input too.
 		return exitBadInput
 	}
 	return exitFailed
@@ -128,11 +143,17 @@ func run(args []string, stdout, stderr io.Writer) (code int) {
 		}
 	}()
 	out := &checkedWriter{w: stdout}
-	root := newRootCmd()
-	root.SetOut(out)
-	root.SetErr(stderr)
+	s := &streams{In: os.Stdin, Out: out, ErrOut: stderr, ErrIsTerminal: isTerminal(stderr)}
+	root := newRootCmd(s)
 	root.SetArgs(args)
+	started := false
+	root.PersistentPreRun = func(*cobra.Command, []string) { started = true }
 	err := root.Execute()
+	if err != nil && !started {
+		// An error before any command started is cobra's own usage error
+		// (an unknown command); flags and arguments give typed errors.
+		err = badInput(err)
+	}
 	if out.err != nil {
 		werr := fmt.Errorf("cannot write to standard output (%v)", ioErrText(out.err))
 		if err == nil || errors.Is(err, out.err) {

@@ -22,6 +22,7 @@ type progress struct {
 	total int
 }
 
+// isTerminal reports whether w is a terminal (a character device).
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
 	if !ok {
@@ -31,8 +32,10 @@ func isTerminal(w io.Writer) bool {
 	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
 
-func newProgress(w io.Writer, label string, quiet bool) *progress {
-	return &progress{w: w, label: label, on: !quiet && isTerminal(w), start: time.Now()}
+// newProgress returns a bar labelled label on w, drawn only when w is a
+// terminal and not quiet.
+func newProgress(w io.Writer, terminal bool, label string, quiet bool) *progress {
+	return &progress{w: w, label: label, on: !quiet && terminal, start: time.Now()}
 }
 
 // set records progress (done of total jobs) and redraws when due.

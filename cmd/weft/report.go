@@ -17,8 +17,6 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 )
 
-func init() { commands = append(commands, newReportCmd) }
-
 // writeReportFiles is weft fit's hook: it writes heldout.csv (the model
 // form refitted with each protocol left out, predicting it), then reads the
 // folder's files back, exactly as 'weft report' does, and writes
@@ -62,8 +60,19 @@ func reportFilesNote(o *fitOutcome) string {
 	return ", report.html, plots/"
 }
 
-func newReportCmd() *cobra.Command {
-	var strain, force bool
+// reportOptions are the options of weft report.
+type reportOptions struct {
+	streams
+	// dir is the output folder; strain plots against Green strain.
+	dir           string
+	strain, force bool
+	// dataLimits and cardLimits bound what is read.
+	dataLimits biaxial.Limits
+	cardLimits card.Limits
+}
+
+func newReportCmd(s *streams) *cobra.Command {
+	o := &reportOptions{streams: *s}
 	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "report DIR",
@@ -92,21 +101,24 @@ tested range, not for clinical decisions.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runReport(cmd, args[0], strain, force, limits)
+			var err error
+			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {
+				return err
+			}
+			o.dir = args[0]
+			return runReport(o)
 		},
 	}
-	cmd.Flags().BoolVar(&strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
-	cmd.Flags().BoolVar(&force, "force", false, "replace an existing report.html and plots/")
+	cmd.Flags().BoolVar(&o.strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
+	cmd.Flags().BoolVar(&o.force, "force", false, "replace an existing report.html and plots/")
 	limits = addLimitFlag(cmd)
 	return cmd
 }
 
-func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limitFlags) error {
-	dl, cl, err := limits.parse()
-	if err != nil {
-		return err
-	}
-	in, err := loadReportFolder(dir, dl, cl)
+// runReport rebuilds the report of the folder o.dir.
+func runReport(o *reportOptions) error {
+	dir, strain, force := o.dir, o.strain, o.force
+	in, err := loadReportFolder(dir, o.dataLimits, o.cardLimits)
 	if err != nil {
 		return err
 	}
@@ -145,7 +157,7 @@ func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limit
 			return err
 		}
 	}
-	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s/ (%d plots as SVG and PNG)\n", htmlPath, plotsPath, (len(files)-1)/2)
+	fmt.Fprintf(o.Out, "wrote %s and %s/ (%d plots as SVG and PNG)\n", htmlPath, plotsPath, (len(files)-1)/2)
 	return nil
 }
 

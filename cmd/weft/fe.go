@@ -4,10 +4,10 @@ package main
 // data range of a card, and the cautions block.
 
 import (
-	"fmt"
-	"io"
-	"strconv"
+	"errors"
 	"strings"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
@@ -46,46 +46,6 @@ func cardDataRange(c *card.Card, file string) (*card.DataRange, error) {
 	return c.DataRange, nil
 }
 
-// outsideRange lists, for one deformation, every quantity outside the
-// fitted data range dr (none when dr is nil).
-func outsideRange(dr *card.DataRange, m *aniso.Model, F [4]float64) []string {
-	if dr == nil {
-		return nil
-	}
-	return dr.Outside(m, F)
-}
-
-// noRangeNotice is printed when a card has no data_range section.
-const noRangeNotice = "the card has no data_range section: the stretch range of the data it was fitted to is unknown, so nothing here shows where the model is supported by data"
-
-// printCautions writes the cautions as an indented block.
-func printCautions(w io.Writer) {
-	fmt.Fprintln(w, "CAUTIONS")
-	for _, c := range card.Cautions {
-		fmt.Fprintln(w, "  - "+c)
-	}
-}
-
-// fmtF writes an in-plane F as [[F11, F12], [F21, F22]].
-func fmtF(F [4]float64) string {
-	return fmt.Sprintf("[[%.6g, %.6g], [%.6g, %.6g]]", F[0], F[1], F[2], F[3])
-}
-
-// familyNames returns the card's family names in model order.
-func familyNames(m *aniso.Model) []string {
-	out := make([]string, len(m.Families))
-	for i, f := range m.Families {
-		out[i] = f.Name
-		if out[i] == "" {
-			out[i] = fmt.Sprintf("f%d", i+1)
-		}
-	}
-	return out
-}
-
-// fullFloat formats v with the fewest digits that read back to v.
-func fullFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
-
 // readCardWithRange reads a card, its model and its fitted data range (nil
 // when the card has none); problems are bad input.
 func readCardWithRange(path string, lim card.Limits) (*card.Card, *aniso.Model, *card.DataRange, error) {
@@ -98,4 +58,13 @@ func readCardWithRange(path string, lim card.Limits) (*card.Card, *aniso.Model, 
 		return nil, nil, nil, err
 	}
 	return c, m, dr, nil
+}
+
+// cardError marks a card the FE documents cannot use as bad input.
+func cardError(err error) error {
+	var ce *fe.CardError
+	if errors.As(err, &ce) {
+		return badInput(err)
+	}
+	return err
 }

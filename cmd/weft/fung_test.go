@@ -7,6 +7,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+
 	"github.com/weft-tools/weft/aniso/card"
 )
 
@@ -80,7 +82,7 @@ func TestFitPresetFung(t *testing.T) {
 func TestCheckFungConvexity(t *testing.T) {
 	preset := presetCard(t, "fung", nil)
 	out, errs, code := runWeft(t, "check", preset, "--range", "0.9,1.6", "--json")
-	var rep checkReport
+	var rep fe.CheckReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 0 || !rep.Passed {
 		t.Fatalf("preset on [0.9, 1.6]: exit %d %v %s %v", code, err, errs, rep.Failures)
 	}
@@ -89,7 +91,7 @@ func TestCheckFungConvexity(t *testing.T) {
 		t.Errorf("preset convexity %+v", cv)
 	}
 	out, _, code = runWeft(t, "check", preset, "--json")
-	rep = checkReport{}
+	rep = fe.CheckReport{}
 	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 1 || rep.Ellipticity.Passed {
 		t.Fatalf("default grid: exit %d %v", code, err)
 	}
@@ -99,7 +101,7 @@ func TestCheckFungConvexity(t *testing.T) {
 	nonConvex := writeTemp(t, "nc.json", `{"format": "weft.model/1", "stress_unit": "kPa", "families": [],
 	 "terms": [{"id": "fung", "weight": 0.7, "params": {"b1": 10, "b2": 2, "b3": 6, "b4": 3}}]}`)
 	out, _, _ = runWeft(t, "check", nonConvex, "--json")
-	rep = checkReport{}
+	rep = fe.CheckReport{}
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
@@ -140,7 +142,7 @@ func TestTermsAndExportShowFung(t *testing.T) {
 		t.Errorf("terms: fung shape %v, preset %v", found, preset)
 	}
 	out, _, code = runWeft(t, "export", presetCard(t, "fung", nil), "--format", "json")
-	var doc exportDoc
+	var doc fe.ExportDoc
 	if err := json.Unmarshal([]byte(out), &doc); err != nil || code != 0 {
 		t.Fatal(code, err)
 	}

@@ -10,15 +10,14 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+
 	"github.com/spf13/cobra"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 )
-
-// predictColumns are the stress columns predict appends, in order.
-var predictColumns = []string{"cauchy_11", "cauchy_22", "cauchy_12", "nominal_11", "nominal_22", "nominal_12", "nominal_21"}
 
 // predictOptions are the options of weft predict.
 type predictOptions struct {
@@ -185,7 +184,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 	var out bytes.Buffer
 	cw := csv.NewWriter(&out)
 	h := append([]string(nil), header...)
-	for _, name := range predictColumns {
+	for _, name := range fe.StressColumnNames {
 		h = append(h, fmt.Sprintf("%s [%s]", name, c.StressUnit))
 	}
 	cw.Write(h)

@@ -5,6 +5,8 @@ import (
 	"encoding/json"
 	"math"
 	"testing"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 )
 
 // The commands run without cobra from their options: the output of
@@ -32,7 +34,7 @@ func TestCommandsRunWithoutCobra(t *testing.T) {
 	if code != 0 || out.String() != cli {
 		t.Errorf("runEvaluate printed what 'weft evaluate' does not (exit %d)", code)
 	}
-	var r evalResult
+	var r fe.Evaluation
 	if err := json.Unmarshal(out.Bytes(), &r); err != nil {
 		t.Fatal(err)
 	}

@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/demo"
+
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/weft-tools/weft/aniso/card"
@@ -230,7 +232,7 @@ func TestDemoMatchesTestdata(t *testing.T) {
 	if _, errs, code := runWeft(t, "demo", dir); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	_, names, err := demoFiles()
+	_, names, err := demo.Files()
 	if err != nil || len(names) != 4 {
 		t.Fatalf("demo files %v: %v", names, err)
 	}

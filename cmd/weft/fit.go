@@ -270,17 +270,6 @@ func outputFolders(jobs []*fitJob, out string) {
 	}
 }
 
-// fitOutcome is everything one specimen's fit produced.
-type fitOutcome struct {
-	spec    *biaxial.Specimen
-	prob    *aniso.Problem
-	result  *aniso.Result
-	disc    *aniso.Discovery
-	card    *card.Card
-	dir     string
-	elapsed time.Duration
-}
-
 // runFit fits every DATA file. Each file is read and its output folder
 // checked before any fitting starts; a file that fails does not stop the
 // others. Every failure is reported at the end.
@@ -515,4 +504,38 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 		return err
 	}
 	return od.commit(force)
+}
+
+// writeReportFiles is weft fit's hook: it writes heldout.csv (the model
+// form refitted with each protocol left out, predicting it), then reads the
+// folder's files back, exactly as 'weft report' does, and writes
+// report.html and plots/ into the folder before it is committed.
+func writeReportFiles(od *outputDir, o *fitOutcome) error {
+	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
+		var buf bytes.Buffer
+		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
+			return err
+		}
+		if err := od.write("heldout.csv", buf.Bytes()); err != nil {
+			return err
+		}
+	}
+	// Messages name the folder the user will see, not the temporary one.
+	named := func(err error) error {
+		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
+	}
+	in, err := loadReportFolder(od.tmp, biaxial.Limits{}, card.Limits{})
+	if err != nil {
+		return named(err)
+	}
+	files, err := report.Build(in, false)
+	if err != nil {
+		return named(err)
+	}
+	for _, f := range files {
+		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+			return err
+		}
+	}
+	return nil
 }

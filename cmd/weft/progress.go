@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"strings"
 	"sync"
 	"time"
@@ -20,16 +19,6 @@ type progress struct {
 	drawn bool
 	done  int
 	total int
-}
-
-// isTerminal reports whether w is a terminal (a character device).
-func isTerminal(w io.Writer) bool {
-	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
 }
 
 // newProgress returns a bar labelled label on w, drawn only when w is a

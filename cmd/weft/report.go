@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -16,49 +15,6 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 )
-
-// writeReportFiles is weft fit's hook: it writes heldout.csv (the model
-// form refitted with each protocol left out, predicting it), then reads the
-// folder's files back, exactly as 'weft report' does, and writes
-// report.html and plots/ into the folder before it is committed.
-func writeReportFiles(od *outputDir, o *fitOutcome) error {
-	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
-		var buf bytes.Buffer
-		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
-			return err
-		}
-		if err := od.write("heldout.csv", buf.Bytes()); err != nil {
-			return err
-		}
-	}
-	// Messages name the folder the user will see, not the temporary one.
-	named := func(err error) error {
-		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
-	}
-	in, err := loadReportFolder(od.tmp, biaxial.Limits{}, card.Limits{})
-	if err != nil {
-		return named(err)
-	}
-	files, err := report.Build(in, false)
-	if err != nil {
-		return named(err)
-	}
-	for _, f := range files {
-		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
-// reportFilesNote lists, for the fit summary, the files writeReportFiles
-// adds to the folder.
-func reportFilesNote(o *fitOutcome) string {
-	if len(o.prob.Protocols) > 1 {
-		return ", heldout.csv, report.html, plots/"
-	}
-	return ", report.html, plots/"
-}
 
 // reportOptions are the options of weft report.
 type reportOptions struct {

@@ -6,9 +6,11 @@ import (
 	"math"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
@@ -175,4 +177,24 @@ func printParameters(w io.Writer, r *aniso.Result) {
 	for _, f := range r.Flags {
 		fmt.Fprintf(w, "flag:     %s\n", f)
 	}
+}
+
+// fitOutcome is everything one specimen's fit produced.
+type fitOutcome struct {
+	spec    *biaxial.Specimen
+	prob    *aniso.Problem
+	result  *aniso.Result
+	disc    *aniso.Discovery
+	card    *card.Card
+	dir     string
+	elapsed time.Duration
+}
+
+// reportFilesNote lists, for the fit summary, the files writeReportFiles
+// adds to the folder.
+func reportFilesNote(o *fitOutcome) string {
+	if len(o.prob.Protocols) > 1 {
+		return ", heldout.csv, report.html, plots/"
+	}
+	return ", report.html, plots/"
 }

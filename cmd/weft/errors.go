@@ -3,6 +3,8 @@ package main
 import (
 	"errors"
 	"fmt"
+
+	"github.com/spf13/cobra"
 )
 
 // Errors and exit codes: a command returns an error, and its type, found
@@ -51,4 +53,14 @@ func exitCode(err error) int {
 		return exitBadInput
 	}
 	return exitFailed
+}
+
+// exactArgs is cobra.ExactArgs with a bad-input exit code and a hint.
+func exactArgs(n int) cobra.PositionalArgs {
+	return func(cmd *cobra.Command, args []string) error {
+		if len(args) != n {
+			return badInputf("%s takes %d argument(s), got %d; see 'weft %s --help'", cmd.Name(), n, len(args), cmd.Name())
+		}
+		return nil
+	}
 }

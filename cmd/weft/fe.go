@@ -5,6 +5,7 @@ package main
 
 import (
 	"errors"
+	"os"
 	"strings"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
@@ -67,4 +68,19 @@ func cardError(err error) error {
 		return badInput(err)
 	}
 	return err
+}
+
+// readCard reads and validates a model card within lim; problems are bad
+// input.
+func readCard(path string, lim card.Limits) (*card.Card, *aniso.Model, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, badInput(err)
+	}
+	defer f.Close()
+	c, m, err := card.ParseLimits(f, path, lim)
+	if err != nil {
+		return nil, nil, withLimitHint(err)
+	}
+	return c, m, nil
 }

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 	"strings"
 
@@ -104,31 +103,6 @@ func readKinematics(path string, lim biaxial.Limits) ([]byte, error) {
 		return nil, badInputf("cannot read %s (%s)", path, ioErrText(err))
 	}
 	return b, nil
-}
-
-// exactArgs is cobra.ExactArgs with a bad-input exit code and a hint.
-func exactArgs(n int) cobra.PositionalArgs {
-	return func(cmd *cobra.Command, args []string) error {
-		if len(args) != n {
-			return badInputf("%s takes %d argument(s), got %d; see 'weft %s --help'", cmd.Name(), n, len(args), cmd.Name())
-		}
-		return nil
-	}
-}
-
-// readCard reads and validates a model card within lim; problems are bad
-// input.
-func readCard(path string, lim card.Limits) (*card.Card, *aniso.Model, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, nil, badInput(err)
-	}
-	defer f.Close()
-	c, m, err := card.ParseLimits(f, path, lim)
-	if err != nil {
-		return nil, nil, withLimitHint(err)
-	}
-	return c, m, nil
 }
 
 // headerName lower-cases a CSV header and strips a bracketed unit.

@@ -320,7 +320,7 @@ func anglesText(r *Result) string {
 }
 
 // decider is the measurement that settles one family against a mirror
-// pair (physics.md §4 in the package's conventions: mirror symmetry).
+// pair (package documentation, Mirror symmetry).
 const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
 
 // lookAlike describes a richer form's best model when it has a known

@@ -61,7 +61,8 @@ func TestDerivativesFiniteDifference(t *testing.T) {
 }
 
 // Every shape is zero at zero; fibre-family shapes start with zero slope so
-// the reference state is stress-free (physics.md §2); convex and
+// the reference state is stress-free (package aniso's documentation,
+// Energy and the fibre switch); convex and
 // non-decreasing on x ≥ 0 where polyconvexity is claimed (Ball 1977).
 func TestShapeReferenceAndConvexity(t *testing.T) {
 	for _, s := range Catalogue() {

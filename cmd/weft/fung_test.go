@@ -41,6 +41,7 @@ func fitFungPreset(t *testing.T, file string) (string, *card.Card, []byte) {
 // convexity condition is reported in both, and the cards validate against
 // the schema.
 func TestFitPresetFung(t *testing.T) {
+	t.Parallel()
 	for file, shear := range map[string]bool{"membrane-M1.csv": false, "membrane-M3-sutured.csv": true} {
 		out, c, raw := fitFungPreset(t, file)
 		schemaValidate(t, raw)

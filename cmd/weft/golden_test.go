@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -33,14 +34,7 @@ var demoInputs = []string{"membrane-M1.csv", "membrane-M3-sutured.csv", "patch-P
 // with -update and says so in its commit.
 func TestDemoOutputsUnchanged(t *testing.T) {
 	t.Parallel()
-	out := filepath.Join(t.TempDir(), "out")
-	args := []string{"fit", "-o", out, "--quiet"}
-	for _, n := range demoInputs {
-		args = append(args, demoFile(n))
-	}
-	if _, errs, code := runWeft(t, args...); code != 0 {
-		t.Fatalf("weft %s: exit %d: %s", strings.Join(args, " "), code, errs)
-	}
+	out := demoFits(t).dir
 	got, err := hashTree(out)
 	if err != nil {
 		t.Fatal(err)
@@ -121,4 +115,70 @@ func sortedKeys(a, b map[string]string) []string {
 	}
 	sort.Strings(ks)
 	return ks
+}
+
+// demoFitRun is one 'weft fit' of every demo specimen (discovery, default
+// options) into one -o folder, which the tests that need those fits share
+// read-only: each discovery runs once per test binary.
+type demoFitRun struct {
+	dir, stdout, stderr string
+	code                int
+}
+
+var (
+	demoFitOnce   sync.Once
+	demoFitResult demoFitRun
+)
+
+// demoFits returns the shared fit of the demo specimens, running it on
+// first use; the test fails when the fit did not succeed. Its folder is
+// removed when the test binary ends (TestMain).
+func demoFits(t *testing.T) demoFitRun {
+	t.Helper()
+	demoFitOnce.Do(func() {
+		dir, err := os.MkdirTemp("", "weft-demo-fits-")
+		if err != nil {
+			demoFitResult = demoFitRun{stderr: err.Error(), code: -1}
+			return
+		}
+		sharedDirs = append(sharedDirs, dir)
+		out := filepath.Join(dir, "out")
+		args := []string{"fit", "-o", out, "--quiet"}
+		for _, n := range demoInputs {
+			args = append(args, demoFile(n))
+		}
+		var o, e strings.Builder
+		code := run(args, &o, &e)
+		demoFitResult = demoFitRun{dir: out, stdout: o.String(), stderr: e.String(), code: code}
+	})
+	if r := demoFitResult; r.code != 0 {
+		t.Fatalf("weft fit of the demo specimens: exit %d: %s", r.code, r.stderr)
+	}
+	return demoFitResult
+}
+
+// demoFitCopy copies the shared fit of one demo specimen (its folder name
+// without .weft) into a fresh folder that the test may change.
+func demoFitCopy(t *testing.T, name string) string {
+	t.Helper()
+	src := filepath.Join(demoFits(t).dir, name+".weft")
+	dst := filepath.Join(t.TempDir(), "out.weft")
+	err := filepath.WalkDir(src, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		rel, _ := filepath.Rel(src, p)
+		if d.IsDir() {
+			return os.MkdirAll(filepath.Join(dst, rel), 0o755)
+		}
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return err
+		}
+		return os.WriteFile(filepath.Join(dst, rel), b, 0o644)
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return dst
 }

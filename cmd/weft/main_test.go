@@ -35,8 +35,16 @@ func TestMain(m *testing.M) {
 	if os.Getenv("WEFT_RUN_MAIN") == "1" {
 		main()
 	}
-	os.Exit(m.Run())
+	code := m.Run()
+	for _, d := range sharedDirs {
+		os.RemoveAll(d)
+	}
+	os.Exit(code)
 }
+
+// sharedDirs are folders that several tests read (demoFits), removed when
+// the tests end.
+var sharedDirs []string
 
 // weftProcess returns a command that runs weft with args as a separate
 // process (the test binary itself, see TestMain).

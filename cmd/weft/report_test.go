@@ -183,7 +183,8 @@ const (
 // TestReportDemo fits the 5-protocol synthetic demo specimen membrane-M1
 // (discovery) and checks the report weft fit writes with it.
 func TestReportDemo(t *testing.T) {
-	dir := fitDemo(t, "membrane-M1.csv")
+	t.Parallel()
+	dir := demoFitCopy(t, "membrane-M1")
 	labels, points := fitCSVPoints(t, dir)
 	if len(labels) != 5 {
 		t.Fatalf("fit.csv has %d protocols, the demo file has 5", len(labels))
@@ -507,6 +508,7 @@ func readTree(t *testing.T, dir string) map[string][]byte {
 // chosen form: the fit plots get a shear panel, and the report has no
 // selection evidence.
 func TestReportShearAndChosenForm(t *testing.T) {
+	t.Parallel()
 	dir := fitDemo(t, "membrane-M3-sutured.csv", "--terms", "i1-lin,fib-expsq", "--families", "1")
 	labels, points := fitCSVPoints(t, dir)
 	for i, l := range labels {

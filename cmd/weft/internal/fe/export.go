@@ -100,16 +100,9 @@ func BuildExport(file string, c *card.Card, m *aniso.Model, dr *card.DataRange) 
 			p.Params[q.Name] = t.Params[j]
 		}
 		if t.Family >= 0 {
-			f := m.Families[t.Family]
-			a := aniso.WrapDeg(aniso.Deg(f.Angle))
-			p.Family, p.AngleDeg = names[t.Family], &a
-			if f.Planar {
-				b := f.Concentration
-				p.Concentration = &b
-			} else {
-				k := f.Dispersion
-				p.Dispersion = &k
-			}
+			// The card's family: its angle in (−90°, 90°] and its spread.
+			f := fc.Families[t.Family]
+			p.Family, p.AngleDeg, p.Concentration, p.Dispersion = names[t.Family], f.AngleDeg, f.Concentration, f.Dispersion
 		}
 		doc.Parameters = append(doc.Parameters, p)
 	}

@@ -343,3 +343,14 @@ func logRange(lo, hi float64) (float64, float64) {
 	}
 	return a, b
 }
+
+// drawRow draws plots side by side in area, aligned, and the legend l at
+// the top of the legend column lc.
+func drawRow(area, lc draw.Canvas, plots []*plot.Plot, l plot.Legend) {
+	tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
+	cs := plot.Align([][]*plot.Plot{plots}, tiles, area)
+	for j, p := range plots {
+		p.Draw(cs[0][j])
+	}
+	l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
+}

@@ -242,12 +242,7 @@ func (in *Input) fitFigure(i int, strain bool) *figure {
 			in.addProtocolCurves(p, &l, pr, true, strain, false)
 			plots = append(plots, p)
 		}
-		tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
-		cs := plot.Align([][]*plot.Plot{plots}, tiles, area)
-		for j, p := range plots {
-			p.Draw(cs[0][j])
-		}
-		l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
+		drawRow(area, lc, plots, l)
 		return nil
 	}
 	return f

@@ -136,35 +136,7 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 	}
 
 	// 2. Polyconvexity.
-	rep.Polyconvexity.AllTerms = true
-	rep.Polyconvexity.Terms = []checkTerm{}
-	dispersedWarned := map[int]bool{}
-	for i, t := range m.Terms {
-		ct := checkTerm{Term: i + 1, ID: t.Shape.ID, Polyconvex: t.Shape.Polyconvex, Note: t.Shape.PolyconvexNote}
-		if t.Family >= 0 {
-			ct.Family = names[t.Family]
-		}
-		cc, hasCondition := t.Shape.ConvexityCondition(t.Params, g.ShearMax > 0)
-		if hasCondition {
-			ct.Convexity = &checkConvexity{Condition: cc.Condition, Holds: cc.Holds, Detail: cc.Detail}
-		}
-		rep.Polyconvexity.Terms = append(rep.Polyconvexity.Terms, ct)
-		if !t.Shape.Polyconvex && t.Weight > 0 {
-			rep.Polyconvexity.AllTerms = false
-			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): %s", i+1, t.Shape.ID, t.Shape.PolyconvexNote))
-		}
-		if hasCondition && !cc.Holds && t.Weight > 0 {
-			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): its convexity condition does not hold: %s (%s)", i+1, t.Shape.ID, cc.Condition, cc.Detail))
-		}
-		if t.Shape.Arg == terms.Fibre && t.Weight > 0 && t.Family >= 0 {
-			if k := m.Families[t.Family].Dispersion; k > 0 && !dispersedWarned[t.Family] {
-				dispersedWarned[t.Family] = true
-				rep.Warnings = append(rep.Warnings, fmt.Sprintf("family %s has dispersion kappa = %g with the I4 > 1 switch: where I4 crosses 1 while I1 > 3, "+
-					"E_f = kappa (I1 - 3) > 0 and the energy and stress of its fibre terms jump; polyconvexity does not hold across the switch "+
-					"(the tangent on either side is what the grid tests)", names[t.Family], k))
-			}
-		}
-	}
+	checkPolyconvexity(rep, m, g, names)
 
 	// 3 and 4. Stability and ellipticity.
 	sr, err := m.CheckStability(g)
@@ -224,6 +196,58 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 	}
 
 	// 5. Small-strain moduli.
+	if err := checkModuli(rep, m, names); err != nil {
+		return nil, cardErrorf("%s: %v", file, err)
+	}
+
+	// 6. Data range.
+	if dr == nil {
+		rep.Notices = append(rep.Notices, noRangeNotice)
+	} else {
+		rep.Warnings = append(rep.Warnings, gridExtrapolation(dr, m, g, names)...)
+	}
+	rep.Passed = len(rep.Failures) == 0
+	return rep, nil
+}
+
+// checkPolyconvexity reports which terms keep the energy polyconvex, the
+// convexity condition of a term that has one, and the jump of a dispersed
+// family's fibre terms at the I4 > 1 switch.
+func checkPolyconvexity(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid, names []string) {
+	rep.Polyconvexity.AllTerms = true
+	rep.Polyconvexity.Terms = []checkTerm{}
+	dispersedWarned := map[int]bool{}
+	for i, t := range m.Terms {
+		ct := checkTerm{Term: i + 1, ID: t.Shape.ID, Polyconvex: t.Shape.Polyconvex, Note: t.Shape.PolyconvexNote}
+		if t.Family >= 0 {
+			ct.Family = names[t.Family]
+		}
+		cc, hasCondition := t.Shape.ConvexityCondition(t.Params, g.ShearMax > 0)
+		if hasCondition {
+			ct.Convexity = &checkConvexity{Condition: cc.Condition, Holds: cc.Holds, Detail: cc.Detail}
+		}
+		rep.Polyconvexity.Terms = append(rep.Polyconvexity.Terms, ct)
+		if !t.Shape.Polyconvex && t.Weight > 0 {
+			rep.Polyconvexity.AllTerms = false
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): %s", i+1, t.Shape.ID, t.Shape.PolyconvexNote))
+		}
+		if hasCondition && !cc.Holds && t.Weight > 0 {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): its convexity condition does not hold: %s (%s)", i+1, t.Shape.ID, cc.Condition, cc.Detail))
+		}
+		if t.Shape.Arg == terms.Fibre && t.Weight > 0 && t.Family >= 0 {
+			if k := m.Families[t.Family].Dispersion; k > 0 && !dispersedWarned[t.Family] {
+				dispersedWarned[t.Family] = true
+				rep.Warnings = append(rep.Warnings, fmt.Sprintf("family %s has dispersion kappa = %g with the I4 > 1 switch: where I4 crosses 1 while I1 > 3, "+
+					"E_f = kappa (I1 - 3) > 0 and the energy and stress of its fibre terms jump; polyconvexity does not hold across the switch "+
+					"(the tangent on either side is what the grid tests)", names[t.Family], k))
+			}
+		}
+	}
+}
+
+// checkModuli reports the small-strain moduli at F = I along the axes and
+// each fibre, with the one-sided terms engaged in tension and compression.
+func checkModuli(rep *CheckReport, m *aniso.Model, names []string) error {
 	dirs := []float64{0, 90}
 	labels := []string{"axis 1", "axis 2"}
 	for i, f := range m.Families {
@@ -232,7 +256,7 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 	}
 	mod, err := m.SmallStrainModuli(dirs)
 	if err != nil {
-		return nil, cardErrorf("%s: %v", file, err)
+		return err
 	}
 	rep.Moduli.InitialShear, rep.Moduli.ShearPositive, rep.Moduli.ShearNegative = mod.InitialShear, mod.ShearPositive, mod.ShearNegative
 	termNames := func(idx []int) []string {
@@ -250,7 +274,7 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 		rep.Moduli.Young = append(rep.Moduli.Young, checkModulus{Direction: labels[i], AngleDeg: y.AngleDeg, Tension: y.Tension, Compression: y.Compression,
 			TensionTerms: termNames(y.TensionTerms), CompressionTerms: termNames(y.CompressionTerms)})
 	}
-	rep.Moduli.Note = "linearised plane-stress response at F = I in " + u + ": uniaxial moduli for a small uniaxial stress along the direction " +
+	rep.Moduli.Note = "linearised plane-stress response at F = I in " + rep.StressUnit + ": uniaxial moduli for a small uniaxial stress along the direction " +
 		"with the other in-plane stresses zero; fibre and I5 terms engage only while their family stretches (I4 > 1) and cofactor terms " +
 		"only while K > 1, each adding its stiffness w f''(0) grad x (x) grad x on one side only, so tension and compression differ; the engaged terms are listed; " +
 		"0 means no small-strain stiffness"
@@ -260,15 +284,7 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 	if hasGreenTerm(m) {
 		rep.Moduli.Note += "; a Fung-type term (Tong & Fung 1976) acts on both sides and is anisotropic in the tester's axes: it adds to every modulus but not to the isotropic initial shear modulus mu0"
 	}
-
-	// 6. Data range.
-	if dr == nil {
-		rep.Notices = append(rep.Notices, noRangeNotice)
-	} else {
-		rep.Warnings = append(rep.Warnings, gridExtrapolation(dr, m, g, names)...)
-	}
-	rep.Passed = len(rep.Failures) == 0
-	return rep, nil
+	return nil
 }
 
 // gridExtrapolation warns where the grid extends beyond the data range.

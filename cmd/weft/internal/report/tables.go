@@ -261,65 +261,9 @@ func readFitTable(r io.Reader, file string) (*fitTable, error) {
 			return nil, fmt.Errorf("%s: line 1, column %d: expected %q, found %q", file, i+1, n, h[i])
 		}
 	}
-	t := &fitTable{}
-	type col struct {
-		what       string // measured, model, residual, term
-		comp, term int
-	}
-	cols := make([]col, len(h))
-	termIndex := map[string]int{}
-	for j := len(fixed); j < len(h); j++ {
-		name, unit := splitUnit(h[j])
-		if t.unit == "" {
-			t.unit = unit
-		}
-		var label, kc string
-		what := ""
-		switch {
-		case strings.HasPrefix(name, "measured_"):
-			what, kc = "measured", strings.TrimPrefix(name, "measured_")
-		case strings.HasPrefix(name, "model_"):
-			what, kc = "model", strings.TrimPrefix(name, "model_")
-		case strings.HasPrefix(name, "residual_"):
-			what, kc = "residual", strings.TrimPrefix(name, "residual_")
-		case strings.Contains(name, ":"):
-			i := strings.LastIndex(name, ":")
-			what, label, kc = "term", name[:i], name[i+1:]
-		default:
-			return nil, fmt.Errorf("%s: line 1, column %d: unknown column %q", file, j+1, h[j])
-		}
-		u := strings.LastIndex(kc, "_")
-		if u < 0 {
-			return nil, fmt.Errorf("%s: line 1, column %d: %q has no stress component", file, j+1, h[j])
-		}
-		kind, comp := kc[:u], kc[u+1:]
-		if t.kind == "" {
-			t.kind = kind
-		} else if kind != t.kind {
-			return nil, fmt.Errorf("%s: line 1, column %d: stress kind %q differs from %q", file, j+1, kind, t.kind)
-		}
-		ci := componentIndex(t.comps, comp)
-		if ci < 0 {
-			if what != "measured" {
-				return nil, fmt.Errorf("%s: line 1, column %d: component %s has no measured column before it", file, j+1, comp)
-			}
-			t.comps = append(t.comps, comp)
-			ci = len(t.comps) - 1
-		}
-		c := col{what: what, comp: ci, term: -1}
-		if what == "term" {
-			k, ok := termIndex[label]
-			if !ok {
-				k = len(t.terms)
-				termIndex[label] = k
-				t.terms = append(t.terms, label)
-			}
-			c.term = k
-		}
-		cols[j] = c
-	}
-	if len(t.comps) == 0 {
-		return nil, fmt.Errorf("%s: line 1: no measured_ stress columns", file)
+	t, cols, err := parseFitHeader(h, len(fixed), file)
+	if err != nil {
+		return nil, err
 	}
 	byLabel := map[string]*protocolRows{}
 	nc, nt := len(t.comps), len(t.terms)
@@ -379,6 +323,77 @@ func readFitTable(r io.Reader, file string) (*fitTable, error) {
 		}
 	}
 	return t, nil
+}
+
+// fitColumn is what a column of fit.csv holds: what ("measured", "model",
+// "residual" or "term"), its component (index into fitTable.comps) and,
+// for a term's contribution, the term (index into fitTable.terms).
+type fitColumn struct {
+	what       string
+	comp, term int
+}
+
+// parseFitHeader reads fit.csv's header after its first fixed columns: the
+// stress kind and unit, the components and the terms, and what each column
+// holds.
+func parseFitHeader(h []string, fixed int, file string) (*fitTable, []fitColumn, error) {
+	t := &fitTable{}
+	cols := make([]fitColumn, len(h))
+	termIndex := map[string]int{}
+	for j := fixed; j < len(h); j++ {
+		name, unit := splitUnit(h[j])
+		if t.unit == "" {
+			t.unit = unit
+		}
+		var label, kc string
+		what := ""
+		switch {
+		case strings.HasPrefix(name, "measured_"):
+			what, kc = "measured", strings.TrimPrefix(name, "measured_")
+		case strings.HasPrefix(name, "model_"):
+			what, kc = "model", strings.TrimPrefix(name, "model_")
+		case strings.HasPrefix(name, "residual_"):
+			what, kc = "residual", strings.TrimPrefix(name, "residual_")
+		case strings.Contains(name, ":"):
+			i := strings.LastIndex(name, ":")
+			what, label, kc = "term", name[:i], name[i+1:]
+		default:
+			return nil, nil, fmt.Errorf("%s: line 1, column %d: unknown column %q", file, j+1, h[j])
+		}
+		u := strings.LastIndex(kc, "_")
+		if u < 0 {
+			return nil, nil, fmt.Errorf("%s: line 1, column %d: %q has no stress component", file, j+1, h[j])
+		}
+		kind, comp := kc[:u], kc[u+1:]
+		if t.kind == "" {
+			t.kind = kind
+		} else if kind != t.kind {
+			return nil, nil, fmt.Errorf("%s: line 1, column %d: stress kind %q differs from %q", file, j+1, kind, t.kind)
+		}
+		ci := componentIndex(t.comps, comp)
+		if ci < 0 {
+			if what != "measured" {
+				return nil, nil, fmt.Errorf("%s: line 1, column %d: component %s has no measured column before it", file, j+1, comp)
+			}
+			t.comps = append(t.comps, comp)
+			ci = len(t.comps) - 1
+		}
+		c := fitColumn{what: what, comp: ci, term: -1}
+		if what == "term" {
+			k, ok := termIndex[label]
+			if !ok {
+				k = len(t.terms)
+				termIndex[label] = k
+				t.terms = append(t.terms, label)
+			}
+			c.term = k
+		}
+		cols[j] = c
+	}
+	if len(t.comps) == 0 {
+		return nil, nil, fmt.Errorf("%s: line 1: no measured_ stress columns", file)
+	}
+	return t, cols, nil
 }
 
 // readHeldoutTable parses heldout.csv and aligns it with fit.csv's rows by

@@ -323,6 +323,8 @@ func passText(ok bool) string {
 	return "FAIL"
 }
 
+// PrintCheck writes the check report r as text, one numbered check a
+// line with its criterion, then the warnings, notices and the result.
 func PrintCheck(w io.Writer, r *CheckReport) {
 	u := r.StressUnit
 	fmt.Fprintf(w, "weft check of %s (stresses and moduli in %s)\n\n", r.Model, u)

@@ -87,6 +87,9 @@ func Evaluate(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *card.
 
 func joinSemi(s []string) string { return strings.Join(s, "; ") }
 
+// PrintEvaluation writes the evaluation r as text: F, the invariants, the
+// energy, the stresses and the tangent, then warnings, notices and the
+// cautions.
 func PrintEvaluation(w io.Writer, r *Evaluation) {
 	u := r.StressUnit
 	fmt.Fprintf(w, "Model %s, stresses in %s\n\n", r.Model, u)

@@ -218,6 +218,8 @@ func latexSpread(p ExportParam) string {
 	return "--"
 }
 
+// WriteExportTable writes the export document d as a text table, numbers
+// rounded to 6 significant digits.
 func WriteExportTable(w io.Writer, d *ExportDoc) {
 	fmt.Fprintf(w, "weft export of %s\n", d.Model)
 	if d.Specimen != "" {
@@ -287,6 +289,8 @@ func WriteExportTable(w io.Writer, d *ExportDoc) {
 	}
 }
 
+// WriteExportCSV writes the verification table of d as CSV at full double
+// precision, with the parameters and notes as comment lines.
 func WriteExportCSV(w io.Writer, d *ExportDoc) error {
 	var b bytes.Buffer
 	comment := func(format string, args ...any) {
@@ -361,6 +365,8 @@ func latexNum(v float64) string {
 	return "$" + s + "$"
 }
 
+// WriteExportLaTeX writes d as a LaTeX fragment: the energy, the parameter
+// table and the verification table, rounded to 6 significant digits.
 func WriteExportLaTeX(w io.Writer, d *ExportDoc) {
 	u := latexEscape(d.StressUnit)
 	fmt.Fprintf(w, "%% weft export of %s; needs \\usepackage{longtable}\n", strings.ReplaceAll(d.Model, "\n", " "))

@@ -7,6 +7,8 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // CorrelationFlagLevel is the |r| above which two estimates are flagged as
@@ -468,13 +470,11 @@ func Metrics(p *Problem, pred []float64) []Metric {
 					mod = append(mod, pred[r])
 				}
 			}
-			out = append(out, metric(p.Specimen.Protocols[pi].Label, componentName(c), meas, mod))
+			out = append(out, metric(p.Specimen.Protocols[pi].Label, biaxial.Component(c).String(), meas, mod))
 		}
 	}
 	return out
 }
-
-func componentName(c Component) string { return [...]string{"11", "22", "12", "21"}[c] }
 
 func metric(label, comp string, meas, mod []float64) Metric {
 	m := Metric{Protocol: label, Component: comp, Points: len(meas)}

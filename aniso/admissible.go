@@ -658,7 +658,7 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		mod.ShearNegative = -1 / eps[2]
 	}
 	for _, d := range directionsDeg {
-		s, c := math.Sincos(d * math.Pi / 180)
+		s, c := math.Sincos(Rad(d))
 		nn := [3]float64{c * c, s * s, c * s}
 		dm := DirectionalModulus{AngleDeg: d}
 		for _, sign := range []float64{1, -1} {

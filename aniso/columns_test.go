@@ -102,8 +102,8 @@ func cloneModel(m *Model) *Model {
 	return c
 }
 
-// Columns times weights reproduce Evaluate (stress is linear in the weights,
-// physics.md §2).
+// Columns times weights reproduce Evaluate (stress is linear in the weights;
+// package documentation, Plane stress).
 func TestColumnsLinearInWeights(t *testing.T) {
 	w := testDataset(t, true)
 	F := make([][4]float64, w.Points())

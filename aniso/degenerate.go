@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // Thresholds of the degeneracy test (Result.Degenerate). They are relative
@@ -152,7 +154,7 @@ func (r *Result) feltShare(p *Problem) []felt {
 			f.axes++
 			if sh := float64(count) / float64(n); sh > f.share || f.where == "" {
 				f.share = sh
-				f.where = fmt.Sprintf("most on protocol %s axis %s: %d of %d points", p.Specimen.Protocols[ax.pi].Label, componentName(ax.comp), count, n)
+				f.where = fmt.Sprintf("most on protocol %s axis %s: %d of %d points", p.Specimen.Protocols[ax.pi].Label, biaxial.Component(ax.comp).String(), count, n)
 			}
 		}
 	}

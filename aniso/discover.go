@@ -255,6 +255,14 @@ type subset struct {
 	loss  float64
 }
 
+// Errors of Discover that say the data gave it nothing to work with.
+var (
+	// ErrAllZero: every measured stress is zero.
+	ErrAllZero = errors.New("every measured stress is zero, so there is nothing to discover; check the stress or load columns and their units")
+	// ErrNoCandidate: not one candidate form could be fitted.
+	ErrNoCandidate = errors.New("no candidate model could be fitted; check the data (units, stress kind) or fit a chosen model form")
+)
+
 // Discover finds which catalogue terms and how many fibre families the data
 // support. For each layout it fits the whole candidate set (non-negativity
 // already zeroes many weights), searches every subset of up to K terms at
@@ -278,7 +286,7 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 		}
 	}
 	if !nonzero {
-		return nil, errors.New("every measured stress is zero, so there is nothing to discover; check the stress or load columns and their units with 'weft inspect'")
+		return nil, ErrAllZero
 	}
 	if len(p.Protocols) < 2 {
 		// One protocol cannot separate one family from two or from a
@@ -526,7 +534,7 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-k%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
 	}
 	if len(d.Pareto) == 0 {
-		return nil, errors.New("no candidate model could be fitted; check the data with 'weft inspect' (units, stress kind) or fit a preset with --preset")
+		return nil, ErrNoCandidate
 	}
 
 	// 4. Classical presets on the same data.

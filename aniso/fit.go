@@ -722,7 +722,7 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 	if st.Planar {
 		de.cols.scan = &planarScan{}
 	}
-	step := set.ScanStepDeg * math.Pi / 180
+	step := Rad(set.ScanStepDeg)
 	grid := func(q param) []float64 {
 		// Periodic grids are offset by half a step: without shear, α = 0
 		// and α = 90° are stationary points of the loss by symmetry, where a
@@ -731,7 +731,7 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 		if !q.Periodic {
 			lo, hi = q.Lo, q.Hi
 		} else if !p.HasShear {
-			// Without shear only |α| matters (mirror symmetry, physics.md §4).
+			// Without shear only |α| matters (package documentation, Mirror symmetry).
 			lo = step / 2
 		}
 		var g []float64
@@ -898,7 +898,8 @@ func cloneModelDeep(m *Model) *Model {
 	return c
 }
 
-// notes writes what the data can and cannot determine (physics.md §4).
+// notes writes what the data can and cannot determine (package
+// documentation, Mirror symmetry).
 func (r *Result) notes(p *Problem) {
 	nf := r.Structure.Layout.Families()
 	if nf > 0 {

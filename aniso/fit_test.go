@@ -67,7 +67,8 @@ func TestRecoverHGO2000(t *testing.T) {
 // An invented one-family material (neo-Hookean matrix, exponential-of-square
 // fibres at −35°) tested on sutures: the specimen shears freely, markers
 // give F12 and F21, and the measured shear stresses are zero. The shear
-// information identifies the angle's sign (physics.md §4).
+// information identifies the angle's sign (package documentation, Mirror
+// symmetry).
 func TestRecoverSignFromSuturedShear(t *testing.T) {
 	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 4}, Term{Shape: lookup("fib-expsq"), Weight: 25, Params: []float64{6}}, -35)
 	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, sutured: true, maxStrain: 0.2})

@@ -1,24 +1,3 @@
-// Package aniso knows fibre-reinforced incompressible membranes: fibre
-// families, in-plane kinematics, the invariants, plane-stress Cauchy and
-// nominal stress of an energy built from package terms, the per-term "stress
-// columns" (stress is linear in the weights once angles and shape parameters
-// are fixed) with their analytic derivatives, and the fitter that learns
-// weights, fibre angles and shape parameters from biaxial data.
-//
-// Conventions (Holzapfel 2000, Nonlinear Solid Mechanics, §6.6; Spencer 1971):
-// a fibre family is a0 = (cos α, sin α, 0) with α measured from axis 1
-// towards axis 2, in radians here and degrees in files; the in-plane
-// deformation gradient F = [[F11, F12], [F21, F22]] is completed by
-// F33 = 1/(F11 F22 − F12 F21) (incompressibility); the specimen is in plane
-// stress, σ33 = 0, which fixes the Lagrange pressure; nominal stress is
-// P = σ F⁻ᵀ. Symmetric in-plane tensors are stored as (11, 22, 12).
-//
-// The Fung-type term of Tong & Fung 1976 is the exception to the invariant
-// form: its energy W is a function of the Green strain E = (C2 − 1)/2 of
-// the in-plane C2 = F2ᵀF2 in the tester's axes. As W does not depend on C33,
-// σ33 = −p + 2F33² ∂W/∂C33 = −p, so plane stress gives p = 0 and the in-plane
-// Cauchy stress is σ = F2 S F2ᵀ with S = ∂W/∂E (and P = F2 S = ∂W/∂F2, the
-// membrane's own gradient); fung.go gives the details.
 package aniso
 
 import (

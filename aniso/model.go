@@ -114,7 +114,8 @@ type argSlopes struct {
 }
 
 // argument evaluates the shifted invariant of a term's shape and the chain
-// rule into ψ1, ψ2, ψ4, ψ5 (physics.md §2). fk is nil for isotropic shapes.
+// rule into ψ1, ψ2, ψ4, ψ5 (package documentation, Plane stress). fk is nil
+// for isotropic shapes.
 // Fibre and fifth-invariant terms are inactive while I4 ≤ 1 (the fibre
 // switch); the cofactor shapes switch on their own argument instead.
 func argument(a terms.Argument, kappa float64, k *Kinematics, fk *FibreKinematics) argState {

@@ -49,13 +49,7 @@ func cholSolve(M []float64, n int, B []float64, k int, ridge float64) bool {
 
 // wrapAngle maps an angle in radians into (−π/2, π/2].
 func wrapAngle(a float64) float64 {
-	a = math.Mod(a, math.Pi)
-	if a > math.Pi/2 {
-		a -= math.Pi
-	} else if a <= -math.Pi/2 {
-		a += math.Pi
-	}
-	return a
+	return wrapHalfPeriod(a, math.Pi)
 }
 
 // project keeps θ_i within its bounds (wrapping periodic angles).

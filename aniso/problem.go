@@ -28,7 +28,8 @@ type Problem struct {
 	RowProtocol, RowPoint []int
 	RowComponent          []Component
 	// HasShear is true when the data carry shear information, so that a
-	// fibre angle's sign is identifiable (physics.md §4).
+	// fibre angle's sign is identifiable (package documentation, Mirror
+	// symmetry).
 	HasShear bool
 }
 

@@ -294,7 +294,7 @@ func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
 
 // profileOne profiles angle parameter i on engine pe.
 func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq float64) AngleProfile {
-	step := set.ProfileStepDeg * math.Pi / 180
+	step := Rad(set.ProfileStepDeg)
 	q := pe.params[i]
 	n, k := r.Rows, r.FreeParams
 	opt := r.theta[i]
@@ -319,7 +319,7 @@ func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq floa
 	pf := newProfiler(r, p, pe, i, set)
 	loss, thetas := pf.sweep(grid, c, r.Loss, theta, wraps)
 	minLoss := r.Loss
-	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: opt * 180 / math.Pi, Closed: true, minLoss: math.Inf(1)}
+	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1)}
 	for j, l := range loss {
 		minLoss = math.Min(minLoss, l)
 		if j != c && l < pr.minLoss {
@@ -341,7 +341,7 @@ func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq floa
 				b = m
 			}
 		}
-		return (a + b) / 2 * 180 / math.Pi
+		return Deg((a + b) / 2)
 	}
 	loIdx, hiIdx := c, c
 	for loIdx > 0 && loss[loIdx-1] <= thr {
@@ -354,13 +354,13 @@ func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq floa
 	// information) are natural ends of an interval; reaching an end of the
 	// period centred on the optimum means the data do not bound the angle.
 	if loIdx == 0 {
-		pr.LoDeg = grid[0] * 180 / math.Pi
+		pr.LoDeg = Deg(grid[0])
 		pr.Closed = !wraps
 	} else {
 		pr.LoDeg = crossing(loIdx, loIdx-1)
 	}
 	if hiIdx == len(grid)-1 {
-		pr.HiDeg = grid[len(grid)-1] * 180 / math.Pi
+		pr.HiDeg = Deg(grid[len(grid)-1])
 		pr.Closed = pr.Closed && !wraps
 	} else {
 		pr.HiDeg = crossing(hiIdx, hiIdx+1)
@@ -382,9 +382,9 @@ func profileCurve(grid, loss []float64, wrap, mirrored bool) (anglesDeg, lossOut
 	type pt struct{ a, l float64 }
 	var pts []pt
 	for j, x := range grid {
-		a := x * 180 / math.Pi
+		a := Deg(x)
 		if wrap {
-			a = wrapAngle(x) * 180 / math.Pi
+			a = Deg(wrapAngle(x))
 		}
 		pts = append(pts, pt{a, loss[j]})
 	}
@@ -396,11 +396,11 @@ func profileCurve(grid, loss []float64, wrap, mirrored bool) (anglesDeg, lossOut
 	if mirrored {
 		var a, l []float64
 		for j := len(grid) - 1; j > 0; j-- {
-			a = append(a, -grid[j]*180/math.Pi)
+			a = append(a, Deg(-grid[j]))
 			l = append(l, loss[j])
 		}
 		if grid[0] != 0 {
-			a = append(a, -grid[0]*180/math.Pi)
+			a = append(a, Deg(-grid[0]))
 			l = append(l, loss[0])
 		}
 		anglesDeg = append(a, anglesDeg...)

@@ -230,7 +230,7 @@ func coincident(r *Result) bool {
 	if len(r.Model.Families) != 2 {
 		return false
 	}
-	d := math.Abs(WrapDeg((r.Model.Families[0].Angle - r.Model.Families[1].Angle) * 180 / math.Pi))
+	d := math.Abs(WrapDeg(Deg(r.Model.Families[0].Angle - r.Model.Families[1].Angle)))
 	return d < 2
 }
 
@@ -312,7 +312,7 @@ func (d *Discovery) oneSE(form string, floor float64) int {
 func anglesText(r *Result) string {
 	var s []string
 	for _, f := range r.Model.Families {
-		a := f.Angle * 180 / math.Pi
+		a := Deg(f.Angle)
 		if r.SignKnown {
 			s = append(s, fmt.Sprintf("%.1f°", a))
 		} else {
@@ -323,7 +323,7 @@ func anglesText(r *Result) string {
 }
 
 // decider is the measurement that settles one family against a mirror
-// pair (physics.md §4 in the package's conventions: mirror symmetry).
+// pair (package documentation, Mirror symmetry).
 const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
 
 // lookAlike describes a richer form's best model when it has a known
@@ -333,8 +333,8 @@ func lookAlike(r *Result) string {
 	if len(fs) != 2 {
 		return ""
 	}
-	a := WrapDeg(fs[0].Angle * 180 / math.Pi)
-	b := WrapDeg(fs[1].Angle * 180 / math.Pi)
+	a := WrapDeg(Deg(fs[0].Angle))
+	b := WrapDeg(Deg(fs[1].Angle))
 	near := func(x, y float64) bool { return math.Abs(WrapDeg(x-y)) < 10 }
 	if (near(a, 0) && near(b, 90)) || (near(a, 90) && near(b, 0)) {
 		return "two families near 0° and 90° stiffen both axes alike, a look-alike of isotropic stiffening"
@@ -404,7 +404,7 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		}
 	case LayoutMirror:
 		fs := r.Model.Families
-		same := math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))*180/math.Pi < 1
+		same := Deg(math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))) < 1
 		switch {
 		case !p.HasShear && same:
 			v.Families = "1-or-mirror-pair"

@@ -3,6 +3,8 @@ package aniso
 import (
 	"fmt"
 	"math"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // StressSplit is how a fitted model's stress divides between its terms and
@@ -83,7 +85,7 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 		pr := &p.Specimen.Protocols[pi]
 		ps := ProtocolSplit{Protocol: pr.Label}
 		for _, comp := range p.Output.Components {
-			cs := ComponentSplit{Component: componentName(comp), TermShare: make([]float64, len(m.Terms)),
+			cs := ComponentSplit{Component: biaxial.Component(comp).String(), TermShare: make([]float64, len(m.Terms)),
 				GroupShare: make([]float64, ng), Signed: make([]float64, len(m.Terms))}
 			total := 0.0
 			for r := range p.Target {

@@ -157,7 +157,8 @@ func allTermsModel() *Model {
 }
 
 // The reference state is stress-free for every term (common practice; a
-// requirement of physics.md §2).
+// requirement stated in the package documentation, Energy and the fibre
+// switch).
 func TestStressFreeReference(t *testing.T) {
 	m := allTermsModel()
 	r, err := m.Evaluate([4]float64{1, 0, 0, 1})
@@ -248,7 +249,7 @@ func TestRotationInvariance(t *testing.T) {
 	}
 }
 
-// Mirror symmetry (physics.md §4): under a pure biaxial stretch a family at
+// Mirror symmetry (package documentation): under a pure biaxial stretch a family at
 // +α and one at −α give equal normal and opposite shear stresses.
 func TestMirrorSymmetry(t *testing.T) {
 	for _, a := range []float64{5, 29, 45, 62, 80} {
@@ -272,7 +273,8 @@ func TestMirrorSymmetry(t *testing.T) {
 }
 
 // One family at α with weight w equals a mirror pair at ±α with w/2 each in
-// normal stress under pure biaxial stretch (physics.md §4).
+// normal stress under pure biaxial stretch (package documentation, Mirror
+// symmetry).
 func TestOneFamilyEqualsMirrorPairInNormalStress(t *testing.T) {
 	sh := terms.Lookup("fib-expsq")
 	one := &Model{Families: []Family{{Angle: 33 * deg}}, Terms: []Term{{Shape: sh, Family: 0, Weight: 10, Params: []float64{2}}}}

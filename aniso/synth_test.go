@@ -14,7 +14,7 @@ import (
 // noise of a stated fraction of each protocol-axis stress range.
 
 // standardRatios are the usual stretch-ratio protocols (common practice;
-// physics.md §3).
+// see the biaxial package documentation, Protocols).
 var standardRatios = [][2]float64{{1, 1}, {1, 0.75}, {0.75, 1}, {1, 0.5}, {0.5, 1}}
 
 type synthOptions struct {

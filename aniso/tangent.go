@@ -48,7 +48,7 @@ type jet struct {
 	h [4][4]float64
 }
 
-// add returns a + c·b.
+// addScaled returns a + c·b.
 func (a jet) addScaled(c float64, b *jet) jet {
 	a.v += c * b.v
 	for i := range a.g {

@@ -7,6 +7,8 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // CorrelationFlagLevel is the |r| above which two estimates are flagged as
@@ -154,13 +156,13 @@ func (r *Result) initEstimates(p *Problem) []jcol {
 		case kindAngle:
 			est.Kind, est.Unit = "angle", "deg"
 			if q.Periodic {
-				est.Value = wrapAngle(v) * 180 / math.Pi
+				est.Value = Deg(wrapAngle(v))
 				if !p.HasShear && est.Value < 0 {
 					// Only |α| is identified without shear information.
 					est.Value, sign = -est.Value, -1
 				}
 			} else {
-				est.Value = v * 180 / math.Pi
+				est.Value = Deg(v)
 			}
 		case kindKappa:
 			est.Kind = "dispersion"
@@ -334,7 +336,7 @@ func (r *Result) intervals(p *Problem, cols []jcol, cov *mat.Dense, undetermined
 		} else if q := r.e.params[c.est-nw]; q.Kind == kindAngle {
 			switch {
 			case !q.Periodic:
-				dlo, dhi = q.Lo*180/math.Pi, q.Hi*180/math.Pi
+				dlo, dhi = Deg(q.Lo), Deg(q.Hi)
 			case !p.HasShear:
 				dlo, dhi = 0, 90
 			}
@@ -468,13 +470,11 @@ func Metrics(p *Problem, pred []float64) []Metric {
 					mod = append(mod, pred[r])
 				}
 			}
-			out = append(out, metric(p.Specimen.Protocols[pi].Label, componentName(c), meas, mod))
+			out = append(out, metric(p.Specimen.Protocols[pi].Label, biaxial.Component(c).String(), meas, mod))
 		}
 	}
 	return out
 }
-
-func componentName(c Component) string { return [...]string{"11", "22", "12", "21"}[c] }
 
 func metric(label, comp string, meas, mod []float64) Metric {
 	m := Metric{Protocol: label, Component: comp, Points: len(meas)}

@@ -172,7 +172,7 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 	mu0 := 1 / math.Sqrt(lambda)
 	v0, _, ok := g(mu0)
 	if !ok {
-		return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated (overflow)", lambda, theta*180/math.Pi)
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated (overflow)", lambda, Deg(theta))
 	}
 	if v0 == 0 {
 		return mu0, nil
@@ -211,13 +211,13 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 		step = math.Min(2*step, 0.5)
 	}
 	if !found {
-		return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress where the energy is finite", lambda, theta*180/math.Pi)
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress where the energy is finite", lambda, Deg(theta))
 	}
 	mu := 0.5 * (lo + hi)
 	for iter := 0; iter < 200; iter++ {
 		v, d, ok := g(mu)
 		if !ok {
-			return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated at lateral stretch %g", lambda, theta*180/math.Pi, mu)
+			return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated at lateral stretch %g", lambda, Deg(theta), mu)
 		}
 		if v == 0 {
 			return mu, nil
@@ -267,7 +267,7 @@ func DefaultVerificationSettings(m *Model) VerificationSettings {
 	}
 	dirs := []float64{0, 90}
 	for _, f := range m.Families {
-		dirs = append(dirs, WrapDeg(f.Angle*180/math.Pi))
+		dirs = append(dirs, WrapDeg(Deg(f.Angle)))
 	}
 	s.DirectionsDeg = uniqueDirections(dirs)
 	return s
@@ -276,13 +276,7 @@ func DefaultVerificationSettings(m *Model) VerificationSettings {
 // WrapDeg maps an angle in degrees into (−90, 90], where weft reports fibre
 // angles (a fibre has no sign, so angles are modulo 180°).
 func WrapDeg(a float64) float64 {
-	a = math.Mod(a, 180)
-	if a > 90 {
-		a -= 180
-	} else if a <= -90 {
-		a += 180
-	}
-	return a
+	return wrapHalfPeriod(a, 180)
 }
 
 // uniqueDirections drops directions equal modulo 180° (within 1e-9°) to an
@@ -369,7 +363,7 @@ func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, e
 			if math.IsNaN(d) || math.IsInf(d, 0) {
 				return nil, fmt.Errorf("direction %g is not a finite number", d)
 			}
-			theta := d * math.Pi / 180
+			theta := Rad(d)
 			for _, a := range amounts {
 				if math.IsNaN(a) || math.IsInf(a, 0) || (c != SimpleShear && !(a > 0)) {
 					return nil, fmt.Errorf("%s: amount %g must be a finite number (> 0 for a stretch)", c, a)

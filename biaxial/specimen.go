@@ -28,10 +28,36 @@
 // ReadRecord keeps every Row (about 100 bytes each) for the caller. A
 // workbook is held in memory whole, within the workbook limit.
 //
-// Conventions (shared by every weft package): axes 1 and 2 are the loading
-// axes of the tester; the in-plane deformation gradient is F11, F12, F21, F22;
-// nominal stress is first Piola–Kirchhoff, P = σ F⁻ᵀ; stresses are kept in the
-// specimen's stress unit (kPa unless the file says otherwise).
+// Conventions (shared by every weft package, see also package aniso): axes
+// 1 and 2 are the loading axes of the tester; the in-plane deformation
+// gradient is F11, F12, F21, F22; nominal stress is first Piola–Kirchhoff,
+// P = σ F⁻ᵀ; stresses are kept in the specimen's stress unit (kPa unless the
+// file says otherwise; Pa, kPa and MPa are read).
+//
+// # Loads to stress
+//
+// Loads act on the edges through hooks, rakes, sutures or clamps. With the
+// reference thickness H and the reference loaded widths W1 and W2 (the load
+// f1 along axis 1 acts over the specimen's extent along axis 2, W2, and vice
+// versa) the nominal stresses are P11 = f1/(W2 H) and P22 = f2/(W1 H)
+// (common practice; e.g. Sacks 2000). For a pure biaxial stretch the Cauchy
+// stresses are σ11 = λ1 P11 and σ22 = λ2 P22. Loads are read in N, mN or
+// gram-force, lengths in mm or m.
+//
+// # Stretches, cycles and the reference state
+//
+// Stretches come from markers in the central region, not from the grip
+// travel (common practice); markers also give the in-plane shear F12, F21
+// when the material axes are not aligned with the loading axes. Soft tissue
+// is preconditioned, and the loading branch of the last cycle is the one
+// usually fitted (common practice; Options.Cycle and Options.Branch). A
+// preload defines the reference state; re-referencing moves it to the first
+// kept point of each protocol and removes its stress as a tare.
+//
+// # Protocols
+//
+// Protocols are usually named by the ratio of the two axes' targets (stretch
+// or load), e.g. 1:1, 1:0.75, 0.75:1, 1:0.5, 0.5:1 (common practice).
 package biaxial
 
 // StressKind says which stress measure a file gave.

@@ -71,10 +71,11 @@ func TestDerivativesFiniteDifference(t *testing.T) {
 
 // Every shape is zero at its argument's reference value; fibre-family
 // shapes start with zero slope so the reference state is stress-free
-// (physics.md §2); convex and non-decreasing on x ≥ 0 where polyconvexity
-// is claimed (Ball 1977). A principal-stretch g is convex in λ with g′ of
-// the sign of α (its polyconvexity rests on the singular values of F or
-// cof F instead, checked in principal_test.go and by 'weft check').
+// (package aniso's documentation, Energy and the fibre switch); convex and
+// non-decreasing on x ≥ 0 where polyconvexity is claimed (Ball 1977). A
+// principal-stretch g is convex in λ with g′ of the sign of α (its
+// polyconvexity rests on the singular values of F or cof F instead,
+// checked in principal_test.go and by 'weft check').
 func TestShapeReferenceAndConvexity(t *testing.T) {
 	for _, s := range Catalogue() {
 		p := s.DefaultParams()

@@ -111,9 +111,10 @@ type Term struct {
 	Formula string `json:"formula,omitempty"`
 }
 
-// Card is a model card. Fields beyond the model itself are filled by the
-// commands that produce them; Extra keeps every key this version does not
-// know, so that reading and rewriting a card loses nothing.
+// Card is a model card: the model itself (format to terms), the sections a
+// fit adds (Fit to Selection; nil when the card has none, as in a card
+// written by hand), and Extra, every key this version does not know, so that
+// reading and rewriting a card loses nothing.
 type Card struct {
 	Format      string       `json:"format"`
 	Specimen    string       `json:"specimen,omitempty"`
@@ -126,9 +127,74 @@ type Card struct {
 	Layout      *Layout      `json:"layout,omitempty"`
 	Terms       []Term       `json:"terms"`
 
-	// Extra holds keys not listed above (fit results and future additions),
-	// written back unchanged.
+	// Fit is how the model was fitted and how well the data determine it
+	// (key "fit").
+	Fit *FitSection `json:"-"`
+	// Data is what data the card was fitted to (key "data").
+	Data *DataSection `json:"-"`
+	// DataRange is the span of those data (key "data_range").
+	DataRange *DataRange `json:"-"`
+	// Split is the matrix/fibre split of the stress (key "split").
+	Split *SplitSection `json:"-"`
+	// Verdict is discovery's answer on the number of fibre families and
+	// Selection its evidence (keys "verdict", "selection"); nil for a
+	// chosen-form fit.
+	Verdict   *VerdictSection   `json:"-"`
+	Selection *SelectionSection `json:"-"`
+
+	// Extra holds keys this version does not know, written back unchanged.
 	Extra map[string]json.RawMessage `json:"-"`
+
+	// unread holds the sections above that are present but could not be
+	// decoded, written back unchanged; SectionError says why.
+	unread map[string]unreadSection
+}
+
+// unreadSection is a fit section kept as it was read.
+type unreadSection struct {
+	raw json.RawMessage
+	err error
+}
+
+// section ties a fit section's key to its field.
+type section struct {
+	key string
+	// get returns the field, and false when it is nil.
+	get func(c *Card) (any, bool)
+	// decode reads raw into the field.
+	decode func(c *Card, raw []byte) error
+}
+
+// decodeInto returns a section decoder that reads into a new T and sets
+// the field with set.
+func decodeInto[T any](set func(c *Card, v *T)) func(c *Card, raw []byte) error {
+	return func(c *Card, raw []byte) error {
+		v := new(T)
+		if err := json.Unmarshal(raw, v); err != nil {
+			return err
+		}
+		set(c, v)
+		return nil
+	}
+}
+
+// sections lists the fit sections in key order.
+var sections = []section{
+	{KeyData, func(c *Card) (any, bool) { return c.Data, c.Data != nil }, decodeInto(func(c *Card, v *DataSection) { c.Data = v })},
+	{KeyDataRange, func(c *Card) (any, bool) { return c.DataRange, c.DataRange != nil }, decodeInto(func(c *Card, v *DataRange) { c.DataRange = v })},
+	{KeyFit, func(c *Card) (any, bool) { return c.Fit, c.Fit != nil }, decodeInto(func(c *Card, v *FitSection) { c.Fit = v })},
+	{KeySelection, func(c *Card) (any, bool) { return c.Selection, c.Selection != nil }, decodeInto(func(c *Card, v *SelectionSection) { c.Selection = v })},
+	{KeySplit, func(c *Card) (any, bool) { return c.Split, c.Split != nil }, decodeInto(func(c *Card, v *SplitSection) { c.Split = v })},
+	{KeyVerdict, func(c *Card) (any, bool) { return c.Verdict, c.Verdict != nil }, decodeInto(func(c *Card, v *VerdictSection) { c.Verdict = v })},
+}
+
+// SectionError returns why the fit section under key (KeyFit, KeyData, ...)
+// is present in the card read but could not be decoded, or nil. Such a
+// section is left nil and written back unchanged, so a card whose evidence
+// a newer weft shaped differently still serves every command that does not
+// need that section.
+func (c *Card) SectionError(key string) error {
+	return c.unread[key].err
 }
 
 // StressUnits are the stress units a card may use.
@@ -195,15 +261,30 @@ func (c *Card) UnmarshalJSON(b []byte) error {
 	if err := json.Unmarshal(b, &p); err != nil {
 		return err
 	}
+	*c = Card(p)
+	for _, sec := range sections {
+		raw, ok := all[sec.key]
+		if !ok {
+			continue
+		}
+		delete(all, sec.key)
+		err := sec.decode(c, raw)
+		if err == nil && !bytes.Equal(bytes.TrimSpace(raw), []byte("null")) {
+			continue
+		}
+		if c.unread == nil {
+			c.unread = map[string]unreadSection{}
+		}
+		c.unread[sec.key] = unreadSection{raw: raw, err: err}
+	}
 	for k, v := range all {
 		if !knownKeys[k] {
-			if p.Extra == nil {
-				p.Extra = map[string]json.RawMessage{}
+			if c.Extra == nil {
+				c.Extra = map[string]json.RawMessage{}
 			}
-			p.Extra[k] = v
+			c.Extra[k] = v
 		}
 	}
-	*c = Card(p)
 	return nil
 }
 
@@ -219,22 +300,41 @@ func prefixTypeError(err error, prefix string) error {
 	return err
 }
 
-// MarshalJSON writes the known keys in a fixed order, then Extra's keys
-// sorted, so that the same card gives the same bytes.
+// MarshalJSON writes the model's keys in a fixed order, then the fit
+// sections and Extra's keys together, sorted, so that the same card gives
+// the same bytes.
 func (c Card) MarshalJSON() ([]byte, error) {
 	type plain Card
 	b, err := json.Marshal(plain(c))
 	if err != nil {
 		return nil, err
 	}
-	if len(c.Extra) == 0 {
+	rest := map[string]json.RawMessage{}
+	for k, v := range c.Extra {
+		if !knownKeys[k] {
+			rest[k] = v
+		}
+	}
+	for k, u := range c.unread {
+		rest[k] = u.raw
+	}
+	for _, sec := range sections {
+		v, ok := sec.get(&c)
+		if !ok {
+			continue
+		}
+		sb, err := json.Marshal(v)
+		if err != nil {
+			return nil, err
+		}
+		rest[sec.key] = sb
+	}
+	if len(rest) == 0 {
 		return b, nil
 	}
-	keys := make([]string, 0, len(c.Extra))
-	for k := range c.Extra {
-		if !knownKeys[k] {
-			keys = append(keys, k)
-		}
+	keys := make([]string, 0, len(rest))
+	for k := range rest {
+		keys = append(keys, k)
 	}
 	sort.Strings(keys)
 	var buf bytes.Buffer
@@ -244,33 +344,10 @@ func (c Card) MarshalJSON() ([]byte, error) {
 		buf.WriteByte(',')
 		buf.Write(kb)
 		buf.WriteByte(':')
-		buf.Write(c.Extra[k])
+		buf.Write(rest[k])
 	}
 	buf.WriteByte('}')
 	return buf.Bytes(), nil
-}
-
-// SetExtra stores v under key in Extra (for fit results and other sections).
-func (c *Card) SetExtra(key string, v any) error {
-	b, err := json.Marshal(v)
-	if err != nil {
-		return err
-	}
-	if c.Extra == nil {
-		c.Extra = map[string]json.RawMessage{}
-	}
-	c.Extra[key] = b
-	return nil
-}
-
-// GetExtra decodes the section under key into v; it reports false when the
-// card has no such section.
-func (c *Card) GetExtra(key string, v any) (bool, error) {
-	raw, ok := c.Extra[key]
-	if !ok {
-		return false, nil
-	}
-	return true, json.Unmarshal(raw, v)
 }
 
 // Parse decodes and validates a card within DefaultLimits (see
@@ -380,7 +457,7 @@ func (c *Card) Model() (*aniso.Model, error) {
 				return nil, errAt(p+".dispersion", "%g is outside [0, 1/3]; 0 is aligned fibres, 1/3 fully dispersed", kappa)
 			}
 		}
-		fam := aniso.Family{Name: f.Name, Angle: *f.AngleDeg * math.Pi / 180, Dispersion: kappa}
+		fam := aniso.Family{Name: f.Name, Angle: aniso.Rad(*f.AngleDeg), Dispersion: kappa}
 		if f.Concentration != nil {
 			b := *f.Concentration
 			if !(b >= 0 && b <= aniso.MaxConcentration) {
@@ -479,7 +556,7 @@ func validUnit(u string) bool {
 func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 	c := &Card{Format: Format, StressUnit: stressUnit, Conventions: &StandardConventions, Cautions: Cautions, Families: []Family{}}
 	for i, f := range m.Families {
-		a := aniso.WrapDeg(f.Angle * 180 / math.Pi)
+		a := aniso.WrapDeg(aniso.Deg(f.Angle))
 		fc := Family{Name: f.Name, AngleDeg: &a}
 		if f.Planar {
 			b := f.Concentration
@@ -602,20 +679,4 @@ func (c *Card) Marshal() ([]byte, error) {
 	}
 	out.WriteByte('\n')
 	return out.Bytes(), nil
-}
-
-// DataRange is the span of the data a model was fitted to, stored in a
-// fitted card under the key "data_range". Queries outside it extrapolate.
-type DataRange struct {
-	// Stretch1 and Stretch2 are the [min, max] of F11 and F22 over the kept
-	// points (dimensionless).
-	Stretch1 [2]float64 `json:"stretch_1"`
-	Stretch2 [2]float64 `json:"stretch_2"`
-	// Shear is the [min, max] of F12 and F21 together (zero for pure
-	// biaxial data).
-	Shear [2]float64 `json:"shear"`
-	// FibreStretch is the [min, max] of √I4 per family, in families order.
-	FibreStretch [][2]float64 `json:"fibre_stretch,omitempty"`
-	// StressKind is "cauchy" or "nominal", the measure the fit used.
-	StressKind string `json:"stress_kind,omitempty"`
 }

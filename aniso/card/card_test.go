@@ -2,6 +2,7 @@ package card
 
 import (
 	"bytes"
+	"encoding/json"
 	"math"
 	"strings"
 	"testing"
@@ -26,9 +27,7 @@ func sampleModel() *aniso.Model {
 func TestRoundTrip(t *testing.T) {
 	m := sampleModel()
 	c := FromModel(m, "kPa", []bool{false, true})
-	if err := c.SetExtra("zz_future", map[string]int{"a": 1}); err != nil {
-		t.Fatal(err)
-	}
+	c.Extra = map[string]json.RawMessage{"zz_future": json.RawMessage(`{"a":1}`)}
 	b, err := c.Marshal()
 	if err != nil {
 		t.Fatal(err)

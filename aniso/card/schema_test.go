@@ -356,8 +356,8 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 				for range m.Families {
 					dr.FibreStretch = append(dr.FibreStretch, [2]float64{1, 1.2})
 				}
-				c.SetExtra("data_range", dr)
-				c.SetExtra("future_section", map[string]any{"rmse": 1.2, "anything": []int{1, 2}})
+				c.DataRange = &dr
+				c.Extra = map[string]json.RawMessage{"future_section": json.RawMessage(`{"anything":[1,2],"rmse":1.2}`)}
 			}
 			b, err := c.Marshal()
 			if err != nil {

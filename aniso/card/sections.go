@@ -191,15 +191,9 @@ func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 		cc.Weights = append(cc.Weights, WeightOut{Term: t.Label(r.Structure.Layout), Weight: Num(r.Weights[i])})
 	}
 	for _, f := range r.Model.Families {
-		cc.AnglesDeg = append(cc.AnglesDeg, Num(f.Angle*180/math.Pi))
+		cc.AnglesDeg = append(cc.AnglesDeg, Num(aniso.Deg(f.Angle)))
 	}
-	minR2 := math.Inf(1)
-	for _, m := range r.Metrics {
-		if m.R2Defined {
-			minR2 = math.Min(minR2, m.R2)
-		}
-	}
-	if !math.IsInf(minR2, 1) {
+	if minR2 := LowestR2(r.Metrics); !math.IsInf(minR2, 1) {
 		cc.MinR2 = Num(minR2)
 	}
 	if c.CV != nil {
@@ -243,4 +237,16 @@ func NewSplitSection(s *aniso.StressSplit, measure string) *SplitSection {
 		out.Protocols = append(out.Protocols, pc)
 	}
 	return out
+}
+
+// LowestR2 is the lowest R² of ms over the protocols and components where
+// it is defined, or +Inf when it is defined nowhere.
+func LowestR2(ms []aniso.Metric) float64 {
+	low := math.Inf(1)
+	for _, m := range ms {
+		if m.R2Defined {
+			low = math.Min(low, m.R2)
+		}
+	}
+	return low
 }

@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/demo"
 )
 
 // The peak memory of a weft process is read from /proc/self/status
@@ -49,7 +50,7 @@ func init() {
 // protocol. It returns the number of data rows.
 func writeTesterFile(tb testing.TB, path string, n, cycles int) int {
 	tb.Helper()
-	rec, err := demoRecordSized(demoSpecimens()[0], n, cycles)
+	rec, err := demo.SizedRecord(n, cycles)
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/terms"
@@ -34,9 +36,7 @@ func presetCard(t *testing.T, name string, dataRange *card.DataRange) string {
 	}
 	c := card.FromModel(m, "kPa", nil)
 	if dataRange != nil {
-		if err := c.SetExtra("data_range", dataRange); err != nil {
-			t.Fatal(err)
-		}
+		c.DataRange = dataRange
 	}
 	b, err := c.Marshal()
 	if err != nil {
@@ -195,7 +195,7 @@ func TestExportFormats(t *testing.T) {
 	if code != 0 {
 		t.Fatal(code)
 	}
-	var doc exportDoc
+	var doc fe.ExportDoc
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}
@@ -249,7 +249,7 @@ func TestDataRangeWarnings(t *testing.T) {
 		t.Fatalf("export with data_range:\n%s", out)
 	}
 	out, _, code = runWeft(t, "export", withRange, "--format", "json")
-	var doc exportDoc
+	var doc fe.ExportDoc
 	json.Unmarshal([]byte(out), &doc)
 	n := 0
 	for _, p := range doc.Verification {
@@ -299,7 +299,7 @@ func TestCheckPassesHGO(t *testing.T) {
 		if code != 0 {
 			t.Fatalf("%s: exit %d: %s\n%s", name, code, errs, out)
 		}
-		var rep checkReport
+		var rep fe.CheckReport
 		if err := json.Unmarshal([]byte(out), &rep); err != nil {
 			t.Fatal(err)
 		}
@@ -347,7 +347,7 @@ func TestCheckFlagsUnstableCard(t *testing.T) {
 		t.Errorf("stdout:\n%s", out)
 	}
 	out, _, code = runWeft(t, "check", unstable, "--json")
-	var rep checkReport
+	var rep fe.CheckReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 1 || rep.Passed || rep.Stability.FailingPoints == 0 || rep.Stability.Worst.Value >= 0 {
 		t.Errorf("json (exit %d, %v): %+v", code, err, rep)
 	}
@@ -397,7 +397,7 @@ func TestEvaluate(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	var r evalResult
+	var r fe.Evaluation
 	if err := json.Unmarshal([]byte(out), &r); err != nil {
 		t.Fatal(err)
 	}
@@ -429,7 +429,7 @@ func TestEvaluate(t *testing.T) {
 		for i := 0; i < 4; i++ {
 			fd := (pp[i] - pm[i]) / (2 * h)
 			if math.Abs(fd-r.Tangent.Matrix[i][j]) > 1e-6*math.Max(1, math.Abs(fd)) {
-				t.Errorf("dP%s/dF%s = %g, finite difference %g", tangentOrder[i], tangentOrder[j], r.Tangent.Matrix[i][j], fd)
+				t.Errorf("dP%s/dF%s = %g, finite difference %g", fe.TangentOrder[i], fe.TangentOrder[j], r.Tangent.Matrix[i][j], fd)
 			}
 			if r.Tangent.Matrix[i][j] != r.Tangent.Matrix[j][i] && math.Abs(r.Tangent.Matrix[i][j]-r.Tangent.Matrix[j][i]) > 1e-12 {
 				t.Errorf("tangent not symmetric at %d,%d", i, j)
@@ -461,7 +461,7 @@ func TestCheckPassesEveryPreset(t *testing.T) {
 			args = append(args, "--range", "0.9,1.6")
 		}
 		out, errs, code := runWeft(t, args...)
-		var r checkReport
+		var r fe.CheckReport
 		if err := json.Unmarshal([]byte(out), &r); err != nil || code != 0 || !r.Passed {
 			t.Errorf("%s: exit %d %v %s %v", p.Name, code, err, errs, r.Failures)
 			continue
@@ -471,3 +471,6 @@ func TestCheckPassesEveryPreset(t *testing.T) {
 		}
 	}
 }
+
+// fullFloat formats v with the fewest digits that read back to v.
+func fullFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }

@@ -7,10 +7,8 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
-	"math"
 	"os"
 	"path/filepath"
-	"regexp"
 	"strings"
 	"time"
 
@@ -19,13 +17,16 @@ import (
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/terms"
 )
 
-func init() { commands = append(commands, newFitCmd) }
-
-// fitFlags are the options of weft fit.
-type fitFlags struct {
+// fitOptions are the options of weft fit.
+type fitOptions struct {
+	streams
+	// files are the DATA files; read says how to read them.
+	files      []string
+	read       biaxial.Options
 	out        string
 	force      bool
 	preset     string
@@ -39,8 +40,8 @@ type fitFlags struct {
 	quiet      bool
 }
 
-func newFitCmd() *cobra.Command {
-	ff := &fitFlags{}
+func newFitCmd(s *streams) *cobra.Command {
+	ff := &fitOptions{streams: *s}
 	cmd := &cobra.Command{
 		Use:   "fit DATA...",
 		Short: "Discover or fit a constitutive model for each specimen file",
@@ -113,14 +114,15 @@ tested range, not for clinical decisions.`,
 		if err != nil {
 			return err
 		}
-		return runFit(cmd, args, opt, ff)
+		ff.files, ff.read = args, opt
+		return runFit(ff)
 	}
 	return cmd
 }
 
 // structureFromFlags turns --preset or --terms into a model form; ok is
 // false when neither was given (discovery).
-func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
+func structureFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 	st, ok, err := formFromFlags(ff)
 	if err != nil {
 		return st, ok, err
@@ -141,7 +143,7 @@ func structureFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 }
 
 // formFromFlags reads --preset or --terms and their layout flags.
-func formFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
+func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 	if ff.preset != "" && ff.termIDs != "" {
 		return aniso.Structure{}, false, badInputf("give --preset or --terms, not both")
 	}
@@ -229,8 +231,6 @@ func formFromFlags(ff *fitFlags) (aniso.Structure, bool, error) {
 	return st, true, nil
 }
 
-var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
-
 // fitJob is one DATA file of a fit run and what became of it.
 type fitJob struct {
 	path string
@@ -249,7 +249,7 @@ func outputFolders(jobs []*fitJob, out string) {
 		if j.err != nil {
 			continue
 		}
-		name := unsafeName.ReplaceAllString(j.spec.Name, "_")
+		name := report.SafeName(j.spec.Name)
 		if name == "" || name == "." || name == ".." {
 			name = strings.TrimSuffix(filepath.Base(j.path), filepath.Ext(j.path))
 		}
@@ -270,21 +270,11 @@ func outputFolders(jobs []*fitJob, out string) {
 	}
 }
 
-// fitOutcome is everything one specimen's fit produced.
-type fitOutcome struct {
-	spec    *biaxial.Specimen
-	prob    *aniso.Problem
-	result  *aniso.Result
-	disc    *aniso.Discovery
-	card    *card.Card
-	dir     string
-	elapsed time.Duration
-}
-
 // runFit fits every DATA file. Each file is read and its output folder
 // checked before any fitting starts; a file that fails does not stop the
 // others. Every failure is reported at the end.
-func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags) error {
+func runFit(ff *fitOptions) error {
+	args := ff.files
 	st, chosen, err := structureFromFlags(ff)
 	if err != nil {
 		return err
@@ -295,7 +285,7 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 	jobs := make([]*fitJob, len(args))
 	for i, path := range args {
 		jobs[i] = &fitJob{path: path}
-		jobs[i].spec, jobs[i].err = readSpecimen(path, opt)
+		jobs[i].spec, jobs[i].err = readSpecimen(path, ff.read)
 	}
 	outputFolders(jobs, ff.out)
 	container, err := prepareContainer(ff.out, len(jobs) > 1)
@@ -318,7 +308,7 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 		if j.err != nil {
 			continue
 		}
-		o, err := fitOne(cmd, j.spec, st, chosen, ff)
+		o, err := fitOne(j.spec, st, chosen, ff)
 		if err == nil {
 			o.dir = j.dir
 			err = writeFitOutputs(o, j.od, ff.force)
@@ -330,11 +320,11 @@ func runFit(cmd *cobra.Command, args []string, opt biaxial.Options, ff *fitFlags
 		}
 		outcomes = append(outcomes, o)
 		if !ff.asJSON {
-			printFitSummary(cmd.OutOrStdout(), o)
+			printFitSummary(ff.Out, o)
 		}
 	}
 	if ff.asJSON && len(outcomes) > 0 {
-		if err := printCardsJSON(cmd.OutOrStdout(), outcomes, len(jobs) > 1); err != nil {
+		if err := printCardsJSON(ff.Out, outcomes, len(jobs) > 1); err != nil {
 			return err
 		}
 	}
@@ -416,19 +406,26 @@ func (c *containerDir) removeIfEmpty() {
 	}
 }
 
-// fitFailed reports a fit that could not succeed (exit code 1).
+// fitFailed reports a fit that could not succeed (exit code 1), with what
+// to type where the data gave discovery nothing to work with.
 func fitFailed(s *biaxial.Specimen, err error) error {
+	switch {
+	case errors.Is(err, aniso.ErrAllZero):
+		err = fmt.Errorf("%w with 'weft inspect'", err)
+	case errors.Is(err, aniso.ErrNoCandidate):
+		err = fmt.Errorf("%w ('weft inspect' shows what was read; --preset or --terms fits a chosen form)", err)
+	}
 	return checkFailed{msg: fmt.Sprintf("%s: the fit did not succeed: %v", s.Source, err)}
 }
 
-func fitOne(cmd *cobra.Command, s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitFlags) (*fitOutcome, error) {
+func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions) (*fitOutcome, error) {
 	start := time.Now()
 	p, err := aniso.NewProblem(s, nil)
 	if err != nil {
 		return nil, badInput(fmt.Errorf("%s: %w", s.Source, err))
 	}
 	o := &fitOutcome{spec: s, prob: p}
-	bar := newProgress(cmd.ErrOrStderr(), "fitting "+s.Name, ff.quiet)
+	bar := newProgress(ff.ErrOut, ff.ErrIsTerminal, "fitting "+s.Name, ff.quiet)
 	defer bar.finish()
 	if chosen {
 		bar.set(0, 1)
@@ -446,131 +443,15 @@ func fitOne(cmd *cobra.Command, s *biaxial.Specimen, st aniso.Structure, chosen 
 		o.result = d.Best().Result
 	}
 	o.elapsed = time.Since(start)
-	c, err := buildCard(o)
-	if err != nil {
-		return nil, err
-	}
-	o.card = c
+	o.card = card.FromFit(p, o.result, o.disc)
 	return o, nil
-}
-
-// buildCard writes the fitted model and its evidence as a model card.
-func buildCard(o *fitOutcome) (*card.Card, error) {
-	r, s := o.result, o.spec
-	signs := make([]bool, len(r.Model.Families))
-	for i := range signs {
-		signs[i] = r.SignKnown
-	}
-	c := card.FromModel(r.Model, s.StressUnit, signs)
-	c.Specimen = s.Name
-	if r.Structure.Layout == aniso.LayoutMirror {
-		a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
-		mean, half := (a0+a1)/2*180/math.Pi, math.Abs(a0-a1)/2*180/math.Pi
-		axis := "free"
-		if r.Structure.HoldPairAxis {
-			axis = "axis-1"
-		}
-		c.Layout = &card.Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half, PairAxis: axis}
-	} else if r.Structure.Layout == aniso.LayoutFree {
-		c.Layout = &card.Layout{Kind: "free"}
-	} else if r.Structure.Layout == aniso.LayoutSingle {
-		c.Layout = &card.Layout{Kind: "single"}
-	}
-	set := func(key string, v any) error { return c.SetExtra(key, v) }
-	if err := set(card.KeyFit, card.NewFitSection(r, s.Kind.String(), s.StressUnit)); err != nil {
-		return nil, err
-	}
-	if err := set(card.KeyDataRange, dataRange(o.prob, r.Model)); err != nil {
-		return nil, err
-	}
-	if err := set(card.KeyData, dataSection(s)); err != nil {
-		return nil, err
-	}
-	if sp, err := aniso.Split(o.prob, r.Model); err == nil {
-		if err := set(card.KeySplit, card.NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")); err != nil {
-			return nil, err
-		}
-	}
-	if d := o.disc; d != nil {
-		v := card.NewVerdictSection(d.Verdict, aniso.FormKey(d.Best().Result.Structure))
-		if err := set(card.KeyVerdict, v); err != nil {
-			return nil, err
-		}
-		sel := card.SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search,
-			CVMetric: "held-out normalised RMSE: sqrt(weighted SSE / components) of the left-out protocol, rows weighted by 1/(range*sqrt(points)) of their protocol and axis"}
-		for i := range d.Pareto {
-			sel.Pareto = append(sel.Pareto, card.NewCandidateCard(&d.Pareto[i], i == d.Chosen))
-		}
-		for i := range d.Presets {
-			sel.Presets = append(sel.Presets, card.NewCandidateCard(&d.Presets[i], false))
-		}
-		for _, pi := range o.prob.Protocols {
-			sel.Protocols = append(sel.Protocols, s.Protocols[pi].Label)
-		}
-		for _, row := range d.CrossR2 {
-			var nr []card.Num
-			for _, x := range row {
-				nr = append(nr, card.Num(x))
-			}
-			sel.CrossR2 = append(sel.CrossR2, nr)
-		}
-		if err := set(card.KeySelection, sel); err != nil {
-			return nil, err
-		}
-	}
-	return c, nil
-}
-
-// dataSection describes the data in the card. Warnings and notices name
-// the input by its base name only, so that the card does not depend on how
-// its path was typed (or reveal where it lives).
-func dataSection(s *biaxial.Specimen) card.DataSection {
-	d := card.DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
-		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
-		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
-	for _, pr := range s.Protocols {
-		d.Protocols = append(d.Protocols, card.DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
-	}
-	base := filepath.Base(s.Source)
-	for _, w := range s.Warnings {
-		w.File = base
-		d.Warnings = append(d.Warnings, w.String())
-	}
-	for i, n := range d.Notices {
-		d.Notices[i] = strings.ReplaceAll(n, s.Source, base)
-	}
-	return d
-}
-
-// dataRange is the span of the fitted data, for extrapolation warnings.
-func dataRange(p *aniso.Problem, m *aniso.Model) card.DataRange {
-	dr := card.DataRange{Stretch1: [2]float64{math.Inf(1), math.Inf(-1)}, Stretch2: [2]float64{math.Inf(1), math.Inf(-1)},
-		Shear: [2]float64{math.Inf(1), math.Inf(-1)}, StressKind: p.Specimen.Kind.String()}
-	fr := make([][2]float64, len(m.Families))
-	for i := range fr {
-		fr[i] = [2]float64{math.Inf(1), math.Inf(-1)}
-	}
-	upd := func(r *[2]float64, v float64) { r[0], r[1] = math.Min(r[0], v), math.Max(r[1], v) }
-	for i := 0; i < p.Data.Points(); i++ {
-		k := p.Data.Kinematics(i)
-		F := k.F
-		upd(&dr.Stretch1, F[0])
-		upd(&dr.Stretch2, F[3])
-		upd(&dr.Shear, F[1])
-		upd(&dr.Shear, F[2])
-		for f, fam := range m.Families {
-			upd(&fr[f], math.Sqrt(k.Fibre(fam.Angle).I4))
-		}
-	}
-	dr.FibreStretch = fr
-	return dr
 }
 
 // printCardsJSON prints one card, or an array of the cards written when
 // several DATA files were given.
-func printCardsJSON(w io.Writer, os []*fitOutcome, several bool) error {
-	if len(os) == 1 && !several {
-		b, err := os[0].card.Marshal()
+func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
+	if len(outcomes) == 1 && !several {
+		b, err := outcomes[0].card.Marshal()
 		if err != nil {
 			return err
 		}
@@ -578,7 +459,7 @@ func printCardsJSON(w io.Writer, os []*fitOutcome, several bool) error {
 		return err
 	}
 	var all []json.RawMessage
-	for _, o := range os {
+	for _, o := range outcomes {
 		b, err := json.Marshal(o.card)
 		if err != nil {
 			return err
@@ -604,7 +485,7 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 		return err
 	}
 	var buf bytes.Buffer
-	if err := writeFitCSV(&buf, o); err != nil {
+	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
 		return err
 	}
 	if err := od.write("fit.csv", buf.Bytes()); err != nil {
@@ -612,7 +493,9 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 	}
 	if o.disc != nil {
 		buf.Reset()
-		writeSelectionCSV(&buf, o)
+		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
+			return err
+		}
 		if err := od.write("selection.csv", buf.Bytes()); err != nil {
 			return err
 		}
@@ -621,4 +504,38 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 		return err
 	}
 	return od.commit(force)
+}
+
+// writeReportFiles is weft fit's hook: it writes heldout.csv (the model
+// form refitted with each protocol left out, predicting it), then reads the
+// folder's files back, exactly as 'weft report' does, and writes
+// report.html and plots/ into the folder before it is committed.
+func writeReportFiles(od *outputDir, o *fitOutcome) error {
+	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
+		var buf bytes.Buffer
+		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
+			return err
+		}
+		if err := od.write("heldout.csv", buf.Bytes()); err != nil {
+			return err
+		}
+	}
+	// Messages name the folder the user will see, not the temporary one.
+	named := func(err error) error {
+		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
+	}
+	in, err := loadReportFolder(od.tmp, biaxial.Limits{}, card.Limits{})
+	if err != nil {
+		return named(err)
+	}
+	files, err := report.Build(in, false)
+	if err != nil {
+		return named(err)
+	}
+	for _, f := range files {
+		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+			return err
+		}
+	}
+	return nil
 }

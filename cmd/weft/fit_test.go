@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/demo"
+
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/weft-tools/weft/aniso/card"
@@ -63,8 +65,9 @@ func schemaValidate(t *testing.T, b []byte) {
 // against the schema and that predict reads unchanged, a fit table whose
 // model column matches predict, and the selection table.
 func TestFitDemoEndToEnd(t *testing.T) {
-	dir := copyDemo(t, "membrane-M1.csv", "membrane-M3-sutured.csv")
-	out, errs, code := runWeft(t, "fit", filepath.Join(dir, "membrane-M1.csv"), filepath.Join(dir, "membrane-M3-sutured.csv"), "--quiet")
+	t.Parallel()
+	fits := demoFits(t) // 'weft fit' of the demo specimens, discovery
+	dir, out, errs, code := fits.dir, fits.stdout, fits.stderr, fits.code
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -169,6 +172,7 @@ func readCSV(t *testing.T, path string) [][]string {
 // A preset fit writes the card and fit table, refuses to replace the folder
 // without --force, and gives the same bytes when run again (determinism).
 func TestFitPresetForceAndDeterminism(t *testing.T) {
+	t.Parallel()
 	dir := copyDemo(t, "membrane-M1.csv")
 	od := filepath.Join(dir, "out")
 	args := []string{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "-o", od, "--quiet"}
@@ -230,7 +234,7 @@ func TestDemoMatchesTestdata(t *testing.T) {
 	if _, errs, code := runWeft(t, "demo", dir); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	_, names, err := demoFiles()
+	_, names, err := demo.Files()
 	if err != nil || len(names) != 4 {
 		t.Fatalf("demo files %v: %v", names, err)
 	}
@@ -271,6 +275,7 @@ func TestCheckDoesNotFailOnRoundOff(t *testing.T) {
 // Gasser & Ogden 2000): the card records the held pair axis, the summary
 // says so, and no mean angle is estimated; --pair-axis free learns it.
 func TestFitPresetPairAxis(t *testing.T) {
+	t.Parallel()
 	dir := copyDemo(t, "membrane-M1.csv")
 	for _, c := range []struct {
 		flags      []string
@@ -334,6 +339,7 @@ func TestFitPresetPairAxis(t *testing.T) {
 // gives no interval (research-grade fits; data synthetic, see
 // testdata/demo/README.md).
 func TestFitStatusesShown(t *testing.T) {
+	t.Parallel()
 	dir := copyDemo(t, "membrane-M1.csv")
 	for _, c := range []struct {
 		args   []string

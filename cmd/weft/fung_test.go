@@ -7,6 +7,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+
 	"github.com/weft-tools/weft/aniso/card"
 )
 
@@ -39,13 +41,14 @@ func fitFungPreset(t *testing.T, file string) (string, *card.Card, []byte) {
 // convexity condition is reported in both, and the cards validate against
 // the schema.
 func TestFitPresetFung(t *testing.T) {
+	t.Parallel()
 	for file, shear := range map[string]bool{"membrane-M1.csv": false, "membrane-M3-sutured.csv": true} {
 		out, c, raw := fitFungPreset(t, file)
 		schemaValidate(t, raw)
-		var fs card.FitSection
-		if ok, err := c.GetExtra(card.KeyFit, &fs); !ok || err != nil {
-			t.Fatalf("%s: no fit section (%v)", file, err)
+		if c.Fit == nil {
+			t.Fatalf("%s: no fit section (%v)", file, c.SectionError(card.KeyFit))
 		}
+		fs := *c.Fit
 		notes := strings.Join(fs.Notes, "\n")
 		if !strings.Contains(out, "Convexity of fung") || !strings.Contains(notes, "Convexity of fung") {
 			t.Errorf("%s: convexity not reported\n%s\nnotes: %s", file, out, notes)
@@ -80,7 +83,7 @@ func TestFitPresetFung(t *testing.T) {
 func TestCheckFungConvexity(t *testing.T) {
 	preset := presetCard(t, "fung", nil)
 	out, errs, code := runWeft(t, "check", preset, "--range", "0.9,1.6", "--json")
-	var rep checkReport
+	var rep fe.CheckReport
 	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 0 || !rep.Passed {
 		t.Fatalf("preset on [0.9, 1.6]: exit %d %v %s %v", code, err, errs, rep.Failures)
 	}
@@ -89,7 +92,7 @@ func TestCheckFungConvexity(t *testing.T) {
 		t.Errorf("preset convexity %+v", cv)
 	}
 	out, _, code = runWeft(t, "check", preset, "--json")
-	rep = checkReport{}
+	rep = fe.CheckReport{}
 	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 1 || rep.Ellipticity.Passed {
 		t.Fatalf("default grid: exit %d %v", code, err)
 	}
@@ -99,7 +102,7 @@ func TestCheckFungConvexity(t *testing.T) {
 	nonConvex := writeTemp(t, "nc.json", `{"format": "weft.model/1", "stress_unit": "kPa", "families": [],
 	 "terms": [{"id": "fung", "weight": 0.7, "params": {"b1": 10, "b2": 2, "b3": 6, "b4": 3}}]}`)
 	out, _, _ = runWeft(t, "check", nonConvex, "--json")
-	rep = checkReport{}
+	rep = fe.CheckReport{}
 	if err := json.Unmarshal([]byte(out), &rep); err != nil {
 		t.Fatal(err)
 	}
@@ -140,7 +143,7 @@ func TestTermsAndExportShowFung(t *testing.T) {
 		t.Errorf("terms: fung shape %v, preset %v", found, preset)
 	}
 	out, _, code = runWeft(t, "export", presetCard(t, "fung", nil), "--format", "json")
-	var doc exportDoc
+	var doc fe.ExportDoc
 	if err := json.Unmarshal([]byte(out), &doc); err != nil || code != 0 {
 		t.Fatal(code, err)
 	}

@@ -14,88 +14,9 @@ import (
 	"io"
 	"os"
 	"runtime/debug"
-	"strings"
 
 	"github.com/spf13/cobra"
 )
-
-// Exit codes shared by every subcommand. weft uses no others.
-const (
-	exitOK       = 0
-	exitFailed   = 1
-	exitBadInput = 2
-)
-
-// inputError marks an error caused by the user's input (exit code 2).
-type inputError struct{ err error }
-
-func (e inputError) Error() string { return e.err.Error() }
-func (e inputError) Unwrap() error { return e.err }
-
-// badInput wraps err so that weft exits with code 2.
-func badInput(err error) error {
-	if err == nil {
-		return nil
-	}
-	return inputError{err}
-}
-
-// badInputf formats an input error (exit code 2).
-func badInputf(format string, args ...any) error {
-	return inputError{fmt.Errorf(format, args...)}
-}
-
-// checkFailed is returned when a check ran and found a failure (exit code 1).
-type checkFailed struct{ msg string }
-
-func (e checkFailed) Error() string { return e.msg }
-
-// commands lists the constructors of every subcommand; files add themselves
-// in init so that subcommands live beside their own code.
-var commands []func() *cobra.Command
-
-func newRootCmd() *cobra.Command {
-	root := &cobra.Command{
-		Use:   "weft",
-		Short: "Discover fibre-reinforced hyperelastic models from planar biaxial tests",
-		Long: `weft reads planar biaxial test files of thin soft tissue, finds which
-strain-energy terms and how many fibre families the data support, learns the
-fibre angles, and writes a model card with parameters an FE analyst can verify.
-
-Exit codes: 0 success; 1 the run failed (a check failed, a fit did not
-succeed, an output could not be written, or the run was interrupted); 2 bad
-input (nothing written).
-
-Parameters are research-grade and specimen-specific, valid only within the
-tested range, and not for clinical decisions; follow the regulations,
-standards and licensed professional practice that apply.`,
-		SilenceUsage:  true,
-		SilenceErrors: true,
-	}
-	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return badInputf("%v (see 'weft %s --help')", err, c.Name())
-	})
-	for _, mk := range commands {
-		root.AddCommand(mk())
-	}
-	return root
-}
-
-// exitCode maps an error returned by a command to the process exit code:
-// bad input is 2, every other failure 1.
-func exitCode(err error) int {
-	var in inputError
-	switch {
-	case err == nil:
-		return exitOK
-	case errors.As(err, &in):
-		return exitBadInput
-	case strings.HasPrefix(err.Error(), "unknown command"):
-		// cobra's own usage errors are bad input too.
-		return exitBadInput
-	}
-	return exitFailed
-}
 
 // checkedWriter passes writes through to w and remembers the first error,
 // so that a failed write to standard output (a closed pipe, a full disk)
@@ -128,11 +49,17 @@ func run(args []string, stdout, stderr io.Writer) (code int) {
 		}
 	}()
 	out := &checkedWriter{w: stdout}
-	root := newRootCmd()
-	root.SetOut(out)
-	root.SetErr(stderr)
+	s := &streams{In: os.Stdin, Out: out, ErrOut: stderr, ErrIsTerminal: isTerminal(stderr)}
+	root := newRootCmd(s)
 	root.SetArgs(args)
+	started := false
+	root.PersistentPreRun = func(*cobra.Command, []string) { started = true }
 	err := root.Execute()
+	if err != nil && !started {
+		// An error before any command started is cobra's own usage error
+		// (an unknown command); flags and arguments give typed errors.
+		err = badInput(err)
+	}
 	if out.err != nil {
 		werr := fmt.Errorf("cannot write to standard output (%v)", ioErrText(out.err))
 		if err == nil || errors.Is(err, out.err) {

@@ -39,12 +39,20 @@ func TestMain(m *testing.M) {
 		}
 		main()
 	}
-	os.Exit(m.Run())
+	code := m.Run()
+	for _, d := range sharedDirs {
+		os.RemoveAll(d)
+	}
+	os.Exit(code)
 }
 
 // recordPeak, where the system tells a process its own peak memory, runs
 // weft as main does and writes that peak to path; it returns the exit code.
 var recordPeak func(path string) int
+
+// sharedDirs are folders that several tests read (demoFits), removed when
+// the tests end.
+var sharedDirs []string
 
 // weftProcess returns a command that runs weft with args as a separate
 // process (the test binary itself, see TestMain).

@@ -12,8 +12,6 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
-
-	"github.com/spf13/cobra"
 )
 
 // Outputs are written so that a user's files are never lost:
@@ -700,8 +698,8 @@ type resultOutput struct {
 }
 
 // openResult checks the output named by -o (none or "-": standard output).
-func openResult(cmd *cobra.Command, out string, force bool) (*resultOutput, error) {
-	r := &resultOutput{stdout: cmd.OutOrStdout()}
+func openResult(stdout io.Writer, out string, force bool) (*resultOutput, error) {
+	r := &resultOutput{stdout: stdout}
 	if out == "" || out == "-" {
 		return r, nil
 	}

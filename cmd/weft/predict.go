@@ -6,9 +6,10 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 	"strings"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 
 	"github.com/spf13/cobra"
 
@@ -17,14 +18,19 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 )
 
-func init() { commands = append(commands, newPredictCmd) }
+// predictOptions are the options of weft predict.
+type predictOptions struct {
+	streams
+	// model is the card, kinematics the CSV of deformations; out is the
+	// output file ("" or "-": standard output).
+	model, kinematics, out string
+	force                  bool
+	dataLimits             biaxial.Limits
+	cardLimits             card.Limits
+}
 
-// predictColumns are the stress columns predict appends, in order.
-var predictColumns = []string{"cauchy_11", "cauchy_22", "cauchy_12", "nominal_11", "nominal_22", "nominal_12", "nominal_21"}
-
-func newPredictCmd() *cobra.Command {
-	var out string
-	var force bool
+func newPredictCmd(s *streams) *cobra.Command {
+	o := &predictOptions{streams: *s}
 	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "predict MODEL.json KINEMATICS.csv",
@@ -46,34 +52,41 @@ force along axis 1 per reference area normal to axis 2.`,
   weft predict out/model.json testdata/demo/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			dl, cl, err := limits.parse()
-			if err != nil {
+			var err error
+			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {
 				return err
 			}
-			res, err := openResult(cmd, out, force)
-			if err != nil {
-				return err
-			}
-			defer res.close()
-			c, m, err := readCard(args[0], cl)
-			if err != nil {
-				return err
-			}
-			data, err := readKinematics(args[1], dl)
-			if err != nil {
-				return err
-			}
-			var buf bytes.Buffer
-			if err := predictCSV(bytes.NewReader(data), args[1], c, m, &buf); err != nil {
-				return err
-			}
-			return res.write(buf.Bytes())
+			o.model, o.kinematics = args[0], args[1]
+			return runPredict(o)
 		},
 	}
-	cmd.Flags().StringVarP(&out, "output", "o", "", "write the CSV to this file instead of standard output")
-	cmd.Flags().BoolVar(&force, "force", false, "overwrite the output file if it exists")
+	cmd.Flags().StringVarP(&o.out, "output", "o", "", "write the CSV to this file instead of standard output")
+	cmd.Flags().BoolVar(&o.force, "force", false, "overwrite the output file if it exists")
 	limits = addLimitFlag(cmd)
 	return cmd
+}
+
+// runPredict evaluates the card on every row of the kinematics file and
+// writes the rows with the stresses appended.
+func runPredict(o *predictOptions) error {
+	res, err := openResult(o.Out, o.out, o.force)
+	if err != nil {
+		return err
+	}
+	defer res.close()
+	c, m, err := readCard(o.model, o.cardLimits)
+	if err != nil {
+		return err
+	}
+	data, err := readKinematics(o.kinematics, o.dataLimits)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, &buf); err != nil {
+		return err
+	}
+	return res.write(buf.Bytes())
 }
 
 // readKinematics reads predict's CSV whole, within the file size limit.
@@ -90,31 +103,6 @@ func readKinematics(path string, lim biaxial.Limits) ([]byte, error) {
 		return nil, badInputf("cannot read %s (%s)", path, ioErrText(err))
 	}
 	return b, nil
-}
-
-// exactArgs is cobra.ExactArgs with a bad-input exit code and a hint.
-func exactArgs(n int) cobra.PositionalArgs {
-	return func(cmd *cobra.Command, args []string) error {
-		if len(args) != n {
-			return badInputf("%s takes %d argument(s), got %d; see 'weft %s --help'", cmd.Name(), n, len(args), cmd.Name())
-		}
-		return nil
-	}
-}
-
-// readCard reads and validates a model card within lim; problems are bad
-// input.
-func readCard(path string, lim card.Limits) (*card.Card, *aniso.Model, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, nil, badInput(err)
-	}
-	defer f.Close()
-	c, m, err := card.ParseLimits(f, path, lim)
-	if err != nil {
-		return nil, nil, withLimitHint(err)
-	}
-	return c, m, nil
 }
 
 // headerName lower-cases a CSV header and strips a bracketed unit.
@@ -170,7 +158,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 	var out bytes.Buffer
 	cw := csv.NewWriter(&out)
 	h := append([]string(nil), header...)
-	for _, name := range predictColumns {
+	for _, name := range fe.StressColumnNames {
 		h = append(h, fmt.Sprintf("%s [%s]", name, c.StressUnit))
 	}
 	cw.Write(h)

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"strings"
 	"sync"
 	"time"
@@ -22,17 +21,10 @@ type progress struct {
 	total int
 }
 
-func isTerminal(w io.Writer) bool {
-	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
-}
-
-func newProgress(w io.Writer, label string, quiet bool) *progress {
-	return &progress{w: w, label: label, on: !quiet && isTerminal(w), start: time.Now()}
+// newProgress returns a bar labelled label on w, drawn only when w is a
+// terminal and not quiet.
+func newProgress(w io.Writer, terminal bool, label string, quiet bool) *progress {
+	return &progress{w: w, label: label, on: !quiet && terminal, start: time.Now()}
 }
 
 // set records progress (done of total jobs) and redraws when due.

@@ -4,6 +4,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+
 	"github.com/weft-tools/weft/biaxial"
 )
 

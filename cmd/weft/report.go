@@ -1,122 +1,34 @@
 package main
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
-	"path"
 	"path/filepath"
 	"strings"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
+
 	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 )
 
-func init() { commands = append(commands, newReportCmd) }
-
-// reportFile is one file of the report: report.html or plots/NAME.
-type reportFile struct {
-	rel  string
-	data []byte
+// reportOptions are the options of weft report.
+type reportOptions struct {
+	streams
+	// dir is the output folder; strain plots against Green strain.
+	dir           string
+	strain, force bool
+	// dataLimits and cardLimits bound what is read.
+	dataLimits biaxial.Limits
+	cardLimits card.Limits
 }
 
-// reportFigures lists the report's figures in the order they appear.
-func (in *reportInput) reportFigures(strain bool) []*figure {
-	t := in.table
-	var figs []*figure
-	if t.hasNormal() {
-		figs = append(figs, in.fitGridFigure(strain))
-	}
-	for i := range t.protocols {
-		figs = append(figs, in.fitFigure(i, strain))
-	}
-	if t.hasNormal() {
-		figs = append(figs, in.residualFigure(false, strain))
-	}
-	if t.hasShear() {
-		figs = append(figs, in.residualFigure(true, strain))
-	}
-	if in.split != nil && len(in.split.Protocols) > 0 {
-		figs = append(figs, in.shareFigure())
-	}
-	if terms := t.activeTerms(); len(terms) > 0 {
-		for i := range t.protocols {
-			figs = append(figs, in.splitFigure(i, strain, terms))
-		}
-	}
-	for _, f := range []*figure{in.profileFigure(), in.paretoFigure(), in.crossFigure()} {
-		if f != nil {
-			figs = append(figs, f)
-		}
-	}
-	return figs
-}
-
-// buildReport draws every figure and writes report.html; it returns the
-// files in a fixed order (report.html first, then plots/ by figure order,
-// SVG before PNG).
-func buildReport(in *reportInput, strain bool) ([]reportFile, error) {
-	figs, err := renderAll(in.reportFigures(strain))
-	if err != nil {
-		return nil, err
-	}
-	html, err := reportHTML(in, figs, strain)
-	if err != nil {
-		return nil, err
-	}
-	files := []reportFile{{rel: "report.html", data: html}}
-	for _, f := range figs {
-		files = append(files, reportFile{rel: path.Join("plots", f.name+".svg"), data: f.svg}, reportFile{rel: path.Join("plots", f.name+".png"), data: f.png})
-	}
-	return files, nil
-}
-
-// writeReportFiles is weft fit's hook: it writes heldout.csv (the model
-// form refitted with each protocol left out, predicting it), then reads the
-// folder's files back, exactly as 'weft report' does, and writes
-// report.html and plots/ into the folder before it is committed.
-func writeReportFiles(od *outputDir, o *fitOutcome) error {
-	if folds := heldoutPredictions(o); folds != nil {
-		var buf bytes.Buffer
-		if err := writeHeldoutCSV(&buf, o, folds); err != nil {
-			return err
-		}
-		if err := od.write("heldout.csv", buf.Bytes()); err != nil {
-			return err
-		}
-	}
-	// Messages name the folder the user will see, not the temporary one.
-	named := func(err error) error {
-		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
-	}
-	in, err := loadReportInput(od.tmp)
-	if err != nil {
-		return named(err)
-	}
-	files, err := buildReport(in, false)
-	if err != nil {
-		return named(err)
-	}
-	for _, f := range files {
-		if err := od.write(filepath.FromSlash(f.rel), f.data); err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
-// reportFilesNote lists, for the fit summary, the files writeReportFiles
-// adds to the folder.
-func reportFilesNote(o *fitOutcome) string {
-	if len(o.prob.Protocols) > 1 {
-		return ", heldout.csv, report.html, plots/"
-	}
-	return ", report.html, plots/"
-}
-
-func newReportCmd() *cobra.Command {
-	var strain, force bool
+func newReportCmd(s *streams) *cobra.Command {
+	o := &reportOptions{streams: *s}
 	var limits *limitFlags
 	cmd := &cobra.Command{
 		Use:   "report DIR",
@@ -145,21 +57,24 @@ tested range, not for clinical decisions.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
-			return runReport(cmd, args[0], strain, force, limits)
+			var err error
+			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {
+				return err
+			}
+			o.dir = args[0]
+			return runReport(o)
 		},
 	}
-	cmd.Flags().BoolVar(&strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
-	cmd.Flags().BoolVar(&force, "force", false, "replace an existing report.html and plots/")
+	cmd.Flags().BoolVar(&o.strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
+	cmd.Flags().BoolVar(&o.force, "force", false, "replace an existing report.html and plots/")
 	limits = addLimitFlag(cmd)
 	return cmd
 }
 
-func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limitFlags) error {
-	dl, cl, err := limits.parse()
-	if err != nil {
-		return err
-	}
-	in, err := loadReportInputLimits(dir, dl, cl)
+// runReport rebuilds the report of the folder o.dir.
+func runReport(o *reportOptions) error {
+	dir, strain, force := o.dir, o.strain, o.force
+	in, err := loadReportFolder(dir, o.dataLimits, o.cardLimits)
 	if err != nil {
 		return err
 	}
@@ -183,14 +98,14 @@ func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limit
 	}
 	removeStale(htmlPath)
 	removeStale(plotsPath)
-	files, err := buildReport(in, strain)
+	files, err := report.Build(in, strain)
 	if err != nil {
 		return err
 	}
 	if err := replacePlots(plotsPath, files[1:]); err != nil {
 		return err
 	}
-	if err := html.commit(files[0].data); err != nil {
+	if err := html.commit(files[0].Data); err != nil {
 		return err
 	}
 	if hasMarker {
@@ -198,7 +113,7 @@ func runReport(cmd *cobra.Command, dir string, strain, force bool, limits *limit
 			return err
 		}
 	}
-	fmt.Fprintf(cmd.OutOrStdout(), "wrote %s and %s/ (%d plots as SVG and PNG)\n", htmlPath, plotsPath, (len(files)-1)/2)
+	fmt.Fprintf(o.Out, "wrote %s and %s/ (%d plots as SVG and PNG)\n", htmlPath, plotsPath, (len(files)-1)/2)
 	return nil
 }
 
@@ -237,7 +152,7 @@ func checkPlots(plotsPath string, force bool, listed map[string]bool, hasMarker 
 // replacePlots writes the plot files into a temporary sibling folder and
 // swaps it in for plots/, so that a reader never sees a mixture of old and
 // new plots.
-func replacePlots(plotsPath string, files []reportFile) error {
+func replacePlots(plotsPath string, files []report.File) error {
 	parent := filepath.Dir(plotsPath)
 	cleanup.mu.Lock()
 	tmp := filepath.Join(parent, ".plots"+tmpTag+randomTag())
@@ -254,8 +169,8 @@ func replacePlots(plotsPath string, files []reportFile) error {
 		untrackTemp(tmp)
 	}()
 	for _, f := range files {
-		if err := writeNewFile(filepath.Join(tmp, filepath.Base(f.rel)), f.data); err != nil {
-			return fmt.Errorf("cannot write %s (%s)", filepath.Join(plotsPath, filepath.Base(f.rel)), ioErrText(err))
+		if err := writeNewFile(filepath.Join(tmp, filepath.Base(f.Rel)), f.Data); err != nil {
+			return fmt.Errorf("cannot write %s (%s)", filepath.Join(plotsPath, filepath.Base(f.Rel)), ioErrText(err))
 		}
 	}
 	cleanup.mu.Lock()
@@ -285,7 +200,7 @@ func replacePlots(plotsPath string, files []reportFile) error {
 
 // updateMarker rewrites the folder's marker after the report was rebuilt:
 // the old plots leave the list, the new ones join it.
-func updateMarker(dir string, listed map[string]bool, files []reportFile) error {
+func updateMarker(dir string, listed map[string]bool, files []report.File) error {
 	var names []string
 	for k := range listed {
 		if !strings.HasPrefix(k, "plots/") {
@@ -293,11 +208,100 @@ func updateMarker(dir string, listed map[string]bool, files []reportFile) error 
 		}
 	}
 	for _, f := range files {
-		names = append(names, f.rel)
+		names = append(names, f.Rel)
 	}
 	m, err := prepareOutputFile(filepath.Join(dir, markerName), true, true)
 	if err != nil {
 		return err
 	}
 	return m.commit(markerBytes(names))
+}
+
+// loadReportFolder reads an output folder for its report: model.json
+// within the card limits cl, fit.csv and heldout.csv within the file size
+// limit of dl. A folder that lacks what the report needs is bad input
+// (exit 2) with a message saying what is missing and what to type.
+func loadReportFolder(dir string, dl biaxial.Limits, cl card.Limits) (*report.Input, error) {
+	st, err := os.Stat(dir)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return nil, badInputf("%s does not exist; give the output folder that 'weft fit' wrote", dir)
+		}
+		return nil, badInput(err)
+	}
+	if !st.IsDir() {
+		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
+	}
+	var f report.Folder
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, badInput(err)
+	}
+	for _, e := range entries {
+		if !strings.HasPrefix(e.Name(), ".") {
+			f.Files = append(f.Files, e.Name())
+		}
+	}
+	maxCSV := dl.MaxBytes
+	if maxCSV <= 0 {
+		maxCSV = biaxial.DefaultLimits.MaxBytes
+	}
+	maxCard := cl.MaxBytes
+	if maxCard <= 0 {
+		maxCard = card.DefaultLimits.MaxBytes
+	}
+	read := func(name string, required bool) ([]byte, error) {
+		max := maxCSV
+		if name == "model.json" {
+			max = maxCard
+		}
+		b, err := readAtMost(filepath.Join(dir, name), max)
+		if errors.Is(err, errTooLarge) {
+			lim := biaxial.ErrFileSize
+			if name == "model.json" {
+				lim = card.ErrCardSize
+			}
+			return nil, tooLargeError(filepath.Join(dir, name), max, lim)
+		}
+		if err != nil {
+			if errors.Is(err, fs.ErrNotExist) && !required {
+				return nil, nil
+			}
+			if errors.Is(err, fs.ErrNotExist) {
+				return nil, badInputf("%s: %s is missing; the report needs model.json and fit.csv as 'weft fit' writes them (fit the data again into a new folder with 'weft fit DATA -o NEW-FOLDER')", dir, name)
+			}
+			return nil, badInput(err)
+		}
+		return b, nil
+	}
+	if f.ModelJSON, err = read("model.json", true); err != nil {
+		return nil, err
+	}
+	if f.FitCSV, err = read("fit.csv", true); err != nil {
+		return nil, err
+	}
+	if f.HeldoutCSV, err = read("heldout.csv", false); err != nil {
+		return nil, err
+	}
+	in, err := report.Parse(f, cl)
+	if err != nil {
+		return nil, badInputf("%s: %v%s", dir, err, reportInputHint(err))
+	}
+	return in, nil
+}
+
+// reportInputHint says what to type when the card lacks a section the
+// report needs.
+func reportInputHint(err error) string {
+	var ie *report.InputError
+	if !errors.As(err, &ie) {
+		return ""
+	}
+	switch ie.MissingSection {
+	case card.KeyFit:
+		return ": it is not a card written by 'weft fit', which the report needs"
+	case card.KeyData:
+		return "; refit with 'weft fit'"
+	}
+	return ""
 }

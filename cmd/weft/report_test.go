@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"encoding/xml"
+	"fmt"
 	"image"
 	"image/png"
 	"io"
@@ -16,9 +17,9 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
+
 	"github.com/weft-tools/weft/aniso/card"
-	"github.com/weft-tools/weft/terms"
 )
 
 // demoFile is a synthetic demo specimen shipped in testdata/demo.
@@ -182,7 +183,8 @@ const (
 // TestReportDemo fits the 5-protocol synthetic demo specimen membrane-M1
 // (discovery) and checks the report weft fit writes with it.
 func TestReportDemo(t *testing.T) {
-	dir := fitDemo(t, "membrane-M1.csv")
+	t.Parallel()
+	dir := demoFitCopy(t, "membrane-M1")
 	labels, points := fitCSVPoints(t, dir)
 	if len(labels) != 5 {
 		t.Fatalf("fit.csv has %d protocols, the demo file has 5", len(labels))
@@ -206,7 +208,7 @@ func TestReportDemo(t *testing.T) {
 
 	t.Run("a fit plot per protocol with its series", func(t *testing.T) {
 		for i, l := range labels {
-			base := filepath.Join(dir, "plots", protocolFileName("fit", i, l))
+			base := filepath.Join(dir, "plots", plotName("fit", i, l))
 			checkPNG(t, base+".png")
 			if st, err := os.Stat(base + ".svg"); err != nil || st.Size() < 10000 {
 				t.Fatalf("%s.svg missing or too small: %v", base, err)
@@ -264,7 +266,7 @@ func TestReportDemo(t *testing.T) {
 			}
 		}
 		for i, l := range labels {
-			base := filepath.Join(dir, "plots", protocolFileName("split", i, l))
+			base := filepath.Join(dir, "plots", plotName("split", i, l))
 			checkPNG(t, base+".png")
 			paths, texts, _ := readSVG(t, base+".svg")
 			// One band per active term and stress component (2), plus
@@ -382,7 +384,7 @@ func TestReportDemo(t *testing.T) {
 		if _, stderr, code := runWeft(t, "report", dir, "--strain", "--force"); code != 0 {
 			t.Fatalf("weft report --strain: exit %d: %s", code, stderr)
 		}
-		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", protocolFileName("fit", 0, labels[0])+".svg"))
+		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", plotName("fit", 0, labels[0])+".svg"))
 		joined := strings.Join(texts, "\n")
 		if !strings.Contains(joined, "Green strain E") || strings.Contains(joined, "stretch λ") {
 			t.Errorf("--strain: the x axis is not labelled Green strain")
@@ -417,9 +419,16 @@ func TestReportDemo(t *testing.T) {
 		// per protocol, the mean held-out R² over components from
 		// heldout.csv and fit.csv equals the chosen form's fold R² in
 		// model.json (a consistency check between two code paths).
-		in, err := loadReportInput(dir)
-		if err != nil {
-			t.Fatal(err)
+		fit := readCSV(t, filepath.Join(dir, "fit.csv"))
+		held := readCSV(t, filepath.Join(dir, "heldout.csv"))
+		col := func(h []string, name string) int {
+			for i, x := range h {
+				if strings.HasPrefix(x, name+" [") {
+					return i
+				}
+			}
+			t.Fatalf("no column %s in %v", name, h)
+			return -1
 		}
 		var folds []card.FoldCard
 		for _, cc := range c.Selection.Pareto {
@@ -430,18 +439,36 @@ func TestReportDemo(t *testing.T) {
 		if len(folds) != len(labels) {
 			t.Fatalf("%d folds for %d protocols", len(folds), len(labels))
 		}
+		var comps []string // "nominal_11", ...: every measured component
+		for _, h := range fit[0] {
+			if name, ok := strings.CutPrefix(h, "measured_"); ok {
+				comps = append(comps, strings.Fields(name)[0])
+			}
+		}
 		for _, f := range folds {
 			sum := 0.0
-			for ci := range in.table.comps {
-				var pr *protocolRows
-				for _, p := range in.table.protocols {
-					if p.label == f.Protocol {
-						pr = p
+			for _, comp := range comps {
+				// The held-out prediction of each kept point, matched by
+				// protocol and source line.
+				hc := col(held[0], "heldout_"+comp)
+				pred := map[string]float64{}
+				for _, r := range held[1:] {
+					if r[0] == f.Protocol {
+						pred[r[1]], _ = strconv.ParseFloat(r[hc], 64)
 					}
 				}
-				sum += rSquared(pr.measured[ci], in.heldoutStress(f.Protocol, ci))
+				mc := col(fit[0], "measured_"+comp)
+				var meas, mod []float64
+				for _, r := range fit[1:] {
+					if r[0] == f.Protocol {
+						v, _ := strconv.ParseFloat(r[mc], 64)
+						meas = append(meas, v)
+						mod = append(mod, pred[r[1]])
+					}
+				}
+				sum += coefficientOfDetermination(meas, mod)
 			}
-			got := sum / float64(len(in.table.comps))
+			got := sum / float64(len(comps))
 			if math.Abs(got-float64(f.R2)) > 1e-8 {
 				t.Errorf("protocol %s: held-out R² %v from heldout.csv, %v in the card's cross-validation", f.Protocol, got, float64(f.R2))
 			}
@@ -481,10 +508,11 @@ func readTree(t *testing.T, dir string) map[string][]byte {
 // chosen form: the fit plots get a shear panel, and the report has no
 // selection evidence.
 func TestReportShearAndChosenForm(t *testing.T) {
+	t.Parallel()
 	dir := fitDemo(t, "membrane-M3-sutured.csv", "--terms", "i1-lin,fib-expsq", "--families", "1")
 	labels, points := fitCSVPoints(t, dir)
 	for i, l := range labels {
-		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", protocolFileName("fit", i, l)+".svg"))
+		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", plotName("fit", i, l)+".svg"))
 		n := points[l]
 		// P12: open triangles (3 segments, closed) in bluish green; P21:
 		// crosses (two strokes each) in reddish purple; each with a
@@ -554,80 +582,23 @@ func TestReportBadFolder(t *testing.T) {
 	}
 }
 
-// The abscissa of the strain plots is the Green–Lagrange strain
-// E = ½(FᵀF − 1) (Holzapfel 2000, Nonlinear Solid Mechanics, §2.5): for a
-// pure stretch E11 = ½(λ² − 1); with shear F21, C11 = F11² + F21².
-func TestAxisCoordinate(t *testing.T) {
-	for _, tc := range []struct {
-		F       [4]float64
-		comp    string
-		stretch float64
-		strain  float64
-	}{
-		{[4]float64{1.1, 0, 0, 1.2}, "11", 1.1, 0.105},
-		{[4]float64{1.1, 0, 0, 1.2}, "22", 1.2, 0.22},
-		{[4]float64{1.2, 0, 0.5, 1}, "11", 1.3, 0.345},               // C11 = 1.44 + 0.25
-		{[4]float64{1, 0.3, 0, 1}, "12", 0.15, 0.15},                 // E12 = ½(F11 F12 + F21 F22)
-		{[4]float64{1.1, 0.2, 0.1, 0.9}, "21", 0.155, 0.155},         // ½(0.22 + 0.09)
-		{[4]float64{0.9, 0, 0, 1}, "11", 0.9, 0.5 * (0.81 - 1)},      // compression
-		{[4]float64{1, 0, 0, math.Sqrt(2)}, "22", math.Sqrt(2), 0.5}, // λ² = 2
-	} {
-		if got := axisCoordinate(tc.F, tc.comp, false); math.Abs(got-tc.stretch) > 1e-12 {
-			t.Errorf("stretch of %s at F=%v: %g, want %g", tc.comp, tc.F, got, tc.stretch)
-		}
-		if got := axisCoordinate(tc.F, tc.comp, true); math.Abs(got-tc.strain) > 1e-12 {
-			t.Errorf("strain of %s at F=%v: %g, want %g", tc.comp, tc.F, got, tc.strain)
-		}
-	}
+// plotName is the file stem of protocol i's plot as the report names it:
+// prefix, the protocol's number and its label made safe for a file name.
+func plotName(prefix string, i int, label string) string {
+	return fmt.Sprintf("%s-%02d-%s", prefix, i+1, report.SafeName(strings.ReplaceAll(label, ":", "_")))
 }
 
-// The model curve of the report is the card's stress of the right kind:
-// for an incompressible neo-Hookean membrane Ψ = C10 (I1 − 3) under
-// equibiaxial stretch λ in plane stress, σ11 = 2 C10 (λ² − λ⁻⁴) and the
-// nominal stress P11 = σ11/λ (Holzapfel 2000, §6.6 with σ33 = 0; Ogden
-// 1984, Non-linear Elastic Deformations, §4.3). Between the points the
-// curve interpolates the deformation, not the stress.
-func TestModelCurveNeoHookean(t *testing.T) {
-	const c10 = 5.0
-	m := &aniso.Model{Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: c10}}}
-	pr := &protocolRows{label: "1:1"}
-	for _, l := range []float64{1.0, 1.1, 1.2, 1.3} {
-		pr.F = append(pr.F, [4]float64{l, 0, 0, l})
+// coefficientOfDetermination is R² = 1 − SS_res/SS_tot of predictions
+// against measurements (common practice).
+func coefficientOfDetermination(meas, pred []float64) float64 {
+	mean := 0.0
+	for _, v := range meas {
+		mean += v / float64(len(meas))
 	}
-	for _, kind := range []string{"cauchy", "nominal"} {
-		xs, ys := modelCurve(m, pr, kind, []string{"11", "22"}, false)
-		if want := (len(pr.F)-1)*curveSubsteps + 1; len(xs[0]) != want {
-			t.Fatalf("%s: %d curve points, want %d", kind, len(xs[0]), want)
-		}
-		for c := range xs {
-			for i, l := range xs[c] {
-				sigma := 2 * c10 * (l*l - math.Pow(l, -4))
-				want := sigma
-				if kind == "nominal" {
-					want = sigma / l
-				}
-				if math.Abs(ys[c][i]-want) > 1e-9*math.Max(1, math.Abs(want)) {
-					t.Errorf("%s, component %d, λ = %g: %g, want %g", kind, c, l, ys[c][i], want)
-				}
-			}
-		}
+	ssr, sst := 0.0, 0.0
+	for i, v := range meas {
+		ssr += (pred[i] - v) * (pred[i] - v)
+		sst += (v - mean) * (v - mean)
 	}
-	// Strain abscissa: the same curve over E = ½(λ² − 1).
-	xs, _ := modelCurve(m, pr, "cauchy", []string{"11"}, true)
-	if last := xs[0][len(xs[0])-1]; math.Abs(last-0.5*(1.69-1)) > 1e-12 {
-		t.Errorf("strain abscissa at λ = 1.3: %g, want 0.345", last)
-	}
-}
-
-// R² on the report is the coefficient of determination 1 − SS_res/SS_tot
-// (common practice); checked on a hand-computed case: measurements
-// 1, 2, 3, 4 (mean 2.5, SS_tot = 5), predictions 1.1, 1.9, 3.2, 3.8
-// (SS_res = 0.01 + 0.01 + 0.04 + 0.04 = 0.1), R² = 0.98.
-func TestRSquared(t *testing.T) {
-	if got := rSquared([]float64{1, 2, 3, 4}, []float64{1.1, 1.9, 3.2, 3.8}); math.Abs(got-0.98) > 1e-12 {
-		t.Errorf("R² = %g, want 0.98", got)
-	}
-	if got := rSquared([]float64{2, 2}, []float64{2, 2}); !math.IsNaN(got) {
-		t.Errorf("R² of a constant measurement = %g, want undefined (NaN)", got)
-	}
+	return 1 - ssr/sst
 }

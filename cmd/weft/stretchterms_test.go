@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"strings"
 	"testing"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 )
 
 // psCard writes a card with the given terms JSON (no families unless given).
@@ -13,10 +15,10 @@ func psCard(t *testing.T, name, families, termsJSON string) string {
 	return writeTemp(t, name+".json", fmt.Sprintf(`{"format":"weft.model/1","stress_unit":"kPa","families":[%s],"terms":[%s]}`, families, termsJSON))
 }
 
-func checkJSON(t *testing.T, file string) (checkReport, int) {
+func checkJSON(t *testing.T, file string) (fe.CheckReport, int) {
 	t.Helper()
 	out, errs, code := runWeft(t, "check", file, "--json")
-	var r checkReport
+	var r fe.CheckReport
 	if err := json.Unmarshal([]byte(out), &r); err != nil {
 		t.Fatalf("%s: %v (exit %d) %s", file, err, code, errs)
 	}

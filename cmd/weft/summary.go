@@ -6,9 +6,12 @@ import (
 	"math"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
 func num(x float64, format string) string {
@@ -38,7 +41,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		how = "discovered (" + o.disc.Best().Name + ")"
 	}
 	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
-	if pair := pairText(o.card.Layout); pair != "" {
+	if pair := report.PairText(o.card.Layout); pair != "" {
 		fmt.Fprintf(w, "fibres:   %s\n", pair)
 	}
 	if d := o.disc; d != nil {
@@ -65,8 +68,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, m.Component, r2, nr, m.RMSE)
 	}
 	tw.Flush()
-	var sp card.SplitSection
-	if ok, _ := o.card.GetExtra(card.KeySplit, &sp); ok {
+	if sp := o.card.Split; sp != nil {
 		fmt.Fprintln(w)
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 		head := "split\taxis"
@@ -101,12 +103,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 			if c.CV != nil {
 				cv = fmt.Sprintf("%.4f ± %.4f", c.CV.Mean, c.CV.StdErr)
 			}
-			minR2 := math.Inf(1)
-			for _, m := range c.Result.Metrics {
-				if m.R2Defined {
-					minR2 = math.Min(minR2, m.R2)
-				}
-			}
+			minR2 := card.LowestR2(c.Result.Metrics)
 			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, c.Result.Complexity, c.Result.Loss, c.Result.BIC, cv, num(minR2, "%.4f"))
 		}
 		for i := range d.Pareto {
@@ -134,37 +131,6 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	}
 	files += reportFilesNote(o)
 	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", o.dir, files, o.elapsed.Seconds())
-}
-
-// pairText describes a mirror pair's geometry, or is empty for other
-// layouts.
-func pairText(l *card.Layout) string {
-	if l == nil || l.Kind != "mirror" || l.HalfAngleDeg == nil {
-		return ""
-	}
-	if l.PairAxis == "axis-1" {
-		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
-	}
-	mean := math.NaN()
-	if l.MeanDeg != nil {
-		mean = *l.MeanDeg
-	}
-	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", num(mean, "%.2f"), *l.HalfAngleDeg)
-}
-
-// statusLegend explains, once each and in a fixed order, the parameter
-// statuses other than "estimated" that appear in a table.
-func statusLegend(shown []string) []string {
-	var out []string
-	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
-		for _, s := range shown {
-			if s == st {
-				out = append(out, st+": "+aniso.StatusMeaning(st))
-				break
-			}
-		}
-	}
-	return out
 }
 
 // printParameters prints the parameter table with intervals and statuses,
@@ -205,10 +171,30 @@ func printParameters(w io.Writer, r *aniso.Result) {
 			statuses = append(statuses, e.Status)
 		}
 	}
-	for _, l := range statusLegend(statuses) {
+	for _, l := range report.StatusLegend(statuses) {
 		fmt.Fprintf(w, "status:   %s\n", l)
 	}
 	for _, f := range r.Flags {
 		fmt.Fprintf(w, "flag:     %s\n", f)
 	}
+}
+
+// fitOutcome is everything one specimen's fit produced.
+type fitOutcome struct {
+	spec    *biaxial.Specimen
+	prob    *aniso.Problem
+	result  *aniso.Result
+	disc    *aniso.Discovery
+	card    *card.Card
+	dir     string
+	elapsed time.Duration
+}
+
+// reportFilesNote lists, for the fit summary, the files writeReportFiles
+// adds to the folder.
+func reportFilesNote(o *fitOutcome) string {
+	if len(o.prob.Protocols) > 1 {
+		return ", heldout.csv, report.html, plots/"
+	}
+	return ", report.html, plots/"
 }

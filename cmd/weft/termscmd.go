@@ -11,8 +11,6 @@ import (
 	"github.com/weft-tools/weft/terms"
 )
 
-func init() { commands = append(commands, newTermsCmd) }
-
 // termInfo is the JSON form of one catalogue shape.
 type termInfo struct {
 	ID         string      `json:"id"`
@@ -74,8 +72,14 @@ func catalogueInfo() ([]termInfo, []presetInfo) {
 	return ts, ps
 }
 
-func newTermsCmd() *cobra.Command {
-	var asJSON bool
+// termsOptions are the options of weft terms.
+type termsOptions struct {
+	streams
+	json bool
+}
+
+func newTermsCmd(s *streams) *cobra.Command {
+	o := &termsOptions{streams: *s}
 	cmd := &cobra.Command{
 		Use:   "terms",
 		Short: "List the catalogue of energy terms and the classical presets",
@@ -87,16 +91,19 @@ as presets (--preset), written with these terms.`,
 		Example: `  weft terms
   weft terms --json | jq '.terms[] | select(.polyconvex | not) | .id'`,
 		Args: exactArgs(0),
-		RunE: func(cmd *cobra.Command, args []string) error {
-			ts, ps := catalogueInfo()
-			if asJSON {
-				return writeJSON(cmd.OutOrStdout(), map[string]any{"terms": ts, "presets": ps})
-			}
-			return printCatalogue(cmd.OutOrStdout(), ts, ps)
-		},
+		RunE: func(cmd *cobra.Command, args []string) error { return runTerms(o) },
 	}
-	cmd.Flags().BoolVar(&asJSON, "json", false, "print the catalogue as JSON")
+	cmd.Flags().BoolVar(&o.json, "json", false, "print the catalogue as JSON")
 	return cmd
+}
+
+// runTerms prints the catalogue and the presets.
+func runTerms(o *termsOptions) error {
+	ts, ps := catalogueInfo()
+	if o.json {
+		return writeJSON(o.Out, map[string]any{"terms": ts, "presets": ps})
+	}
+	return printCatalogue(o.Out, ts, ps)
 }
 
 func printCatalogue(w io.Writer, ts []termInfo, ps []presetInfo) error {

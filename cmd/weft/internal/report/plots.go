@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"bytes"
@@ -8,7 +8,6 @@ import (
 	"math"
 	"runtime"
 	"strconv"
-	"strings"
 	"sync"
 
 	"gonum.org/v1/plot"
@@ -283,28 +282,6 @@ func splitColumns(dc draw.Canvas, lw vg.Length) (draw.Canvas, draw.Canvas) {
 	return left, right
 }
 
-// fmtR2 formats an R² for a legend or cell.
-func fmtR2(r float64) string {
-	switch {
-	case math.IsNaN(r):
-		return "n/a"
-	case r >= 0.9995:
-		return fmt.Sprintf("%.5f", r)
-	case r >= 0:
-		return fmt.Sprintf("%.4f", r)
-	default:
-		return strings.Replace(fmt.Sprintf("%.3f", r), "-", "−", 1)
-	}
-}
-
-// fmtNum formats a number with n significant digits, with a true minus.
-func fmtNum(x float64, n int) string {
-	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return "n/a"
-	}
-	return strings.Replace(fmt.Sprintf("%.*g", n, x), "-", "−", 1)
-}
-
 // niceTicks places 4 to 9 major ticks at 1, 2, 2.5 or 5 times a power of
 // ten, labelled with just enough decimals to tell them apart, and minor
 // ticks between them.
@@ -335,7 +312,7 @@ func (niceTicks) Ticks(lo, hi float64) []plot.Tick {
 		if math.Abs(x) < step*1e-9 {
 			x = 0
 		}
-		ts = append(ts, plot.Tick{Value: x, Label: strings.Replace(strconv.FormatFloat(x, 'f', dec, 64), "-", "−", 1)})
+		ts = append(ts, plot.Tick{Value: x, Label: trueMinus(strconv.FormatFloat(x, 'f', dec, 64))})
 		for k := 1; k < 5; k++ {
 			if m := x + float64(k)*step/5; m <= hi {
 				ts = append(ts, plot.Tick{Value: m})
@@ -365,4 +342,15 @@ func logRange(lo, hi float64) (float64, float64) {
 		a, b = math.Pow(10, math.Floor(math.Log10(lo))), math.Pow(10, math.Ceil(math.Log10(hi)))
 	}
 	return a, b
+}
+
+// drawRow draws plots side by side in area, aligned, and the legend l at
+// the top of the legend column lc.
+func drawRow(area, lc draw.Canvas, plots []*plot.Plot, l plot.Legend) {
+	tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
+	cs := plot.Align([][]*plot.Plot{plots}, tiles, area)
+	for j, p := range plots {
+		p.Draw(cs[0][j])
+	}
+	l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
 }

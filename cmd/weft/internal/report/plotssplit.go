@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"fmt"
@@ -136,7 +136,7 @@ func addStack(p *plot.Plot, xs []float64, contrib [][]float64, terms []splitTerm
 }
 
 // splitFigure is the stacked split of protocol i.
-func (in *reportInput) splitFigure(i int, strain bool, terms []splitTerm) *figure {
+func (in *Input) splitFigure(i int, strain bool, terms []splitTerm) *figure {
 	t := in.table
 	pr := t.protocols[i]
 	// Two panels side by side; four (with shear) in two rows.
@@ -199,7 +199,7 @@ func luminance(c color.NRGBA) float64 {
 
 // shareFigure is the bar chart of each group's share per protocol and
 // component, and of the strain energy at the largest stretch.
-func (in *reportInput) shareFigure() *figure {
+func (in *Input) shareFigure() *figure {
 	sp := in.split
 	nb := 0
 	if len(sp.Protocols) > 0 {

@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"fmt"
@@ -47,20 +47,12 @@ func (m *textMarks) Plot(c draw.Canvas, p *plot.Plot) {
 func degTicks() plot.Ticker {
 	var ts []plot.Tick
 	for a := -90; a <= 90; a += 30 {
-		ts = append(ts, plot.Tick{Value: float64(a), Label: strings.Replace(fmt.Sprintf("%d°", a), "-", "−", 1)})
+		ts = append(ts, plot.Tick{Value: float64(a), Label: trueMinus(fmt.Sprintf("%d°", a))})
 	}
 	for a := -75; a <= 75; a += 30 {
 		ts = append(ts, plot.Tick{Value: float64(a)})
 	}
 	return plot.ConstantTicks(ts)
-}
-
-// fmtDeg formats an angle in degrees.
-func fmtDeg(a float64) string {
-	if math.IsNaN(a) {
-		return "n/a"
-	}
-	return strings.Replace(fmt.Sprintf("%.2f°", a), "-", "−", 1)
 }
 
 // band returns a filled rectangle from x0 to x1 over [y0, y1].
@@ -76,7 +68,7 @@ func band(x0, x1, y0, y1 float64, c color.Color) *plotter.Polygon {
 
 // profileFigure draws the loss profile over each fibre angle parameter, or
 // returns nil when the fit has none (no fibre family).
-func (in *reportInput) profileFigure() *figure {
+func (in *Input) profileFigure() *figure {
 	profs := in.fit.Profiles
 	if len(profs) == 0 {
 		return nil
@@ -104,118 +96,120 @@ func (in *reportInput) profileFigure() *figure {
 		var plots []*plot.Plot
 		l := newLegend(9)
 		for j, pc := range profs {
-			opt := float64(pc.OptimumDeg)
-			iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
-			sign := ""
-			if pc.Mirrored {
-				sign = "±"
-			}
-			title := fmt.Sprintf("%s = %s%s, 95 %% interval %s to %s", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
-			if len(profs) > 1 {
-				title = fmt.Sprintf("%s = %s%s (95 %%: %s to %s)", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
-			}
-			switch {
-			case pc.NotDetermined:
-				title = fmt.Sprintf("%s = %s%s, not determined (no angle excluded)", pc.Name, sign, fmtDeg(opt))
-			case !pc.Closed:
-				title += " (open)"
-			}
-			p := newPlot(title, "fibre angle from axis 1 towards axis 2", "loss (log scale)", true)
-			p.Y.Scale = plot.LogScale{}
-			p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
-			p.X.Tick.Marker = degTicks()
-			p.X.Min, p.X.Max = -90, 90
-			// The profile at the fitted angle is the fit's own loss; the
-			// grid can straddle a sharp minimum, so that point joins the
-			// curve (and its mirror image when the sign is unknown).
-			type pt struct{ a, v float64 }
-			var pts []pt
-			for k, a := range pc.AnglesDeg {
-				pts = append(pts, pt{float64(a), float64(pc.Loss[k])})
-			}
-			fitLoss := float64(in.fit.Loss)
-			if fitLoss > 0 && !math.IsNaN(opt) {
-				pts = append(pts, pt{opt, fitLoss})
-				if pc.Mirrored && math.Abs(opt) > 1e-9 {
-					pts = append(pts, pt{-opt, fitLoss})
-				}
-			}
-			sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
-			var xs, ys []float64
-			lo, hi := math.Inf(1), math.Inf(-1)
-			for _, q := range pts {
-				if !(q.v > 0) || math.IsInf(q.v, 0) {
-					xs, ys = append(xs, q.a), append(ys, math.NaN())
-					continue
-				}
-				xs, ys = append(xs, q.a), append(ys, q.v)
-				lo, hi = math.Min(lo, q.v), math.Max(hi, q.v)
-			}
-			thr := float64(pc.Threshold)
-			if thr > 0 {
-				lo, hi = math.Min(lo, thr), math.Max(hi, thr)
-			}
-			if math.IsInf(lo, 1) {
-				lo, hi = 1e-6, 1
-			}
-			y0, y1 := logRange(lo, hi)
-			p.Y.Min, p.Y.Max = y0, y1
-			if !math.IsNaN(iv[0]) && !math.IsNaN(iv[1]) {
-				if pc.Mirrored {
-					if b := band(-iv[1], -iv[0], y0, y1, tint(okabeBlack, 0.12)); b != nil {
-						p.Add(b)
-						if j == 0 {
-							l.Add("mirror image of the interval", swatch{tint(okabeBlack, 0.12)})
-						}
-					}
-				}
-				if b := band(iv[0], iv[1], y0, y1, tint(okabeSkyBlue, 0.45)); b != nil {
-					p.Add(b)
-					if j == 0 {
-						l.Add("95 % interval", swatch{tint(okabeSkyBlue, 0.45)})
-					}
-				}
-			}
-			th := addCurve(p, xs, ys, lineStyle(okabeBlack, 1.3, false))
-			if j == 0 && th != nil {
-				l.Add("profiled loss", th)
-			}
-			if thr > 0 {
-				ls := lineStyle(okabeVermillion, 1.1, true)
-				addCurve(p, []float64{-90, 90}, []float64{thr, thr}, ls)
-				if j == 0 {
-					l.Add("95 % threshold", lineThumb{ls})
-				}
-			}
-			if !math.IsNaN(opt) {
-				ls := lineStyle(okabeBlue, 1.4, false)
-				addCurve(p, []float64{opt, opt}, []float64{y0, y1}, ls)
-				dot := draw.GlyphStyle{Color: okabeBlue, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
-				addPoints(p, []float64{opt}, []float64{fitLoss}, dot)
-				if j == 0 {
-					l.Add("fitted angle", lineThumb{ls})
-					l.Add("fitted model's loss", glyphThumb{dot})
-				}
-				if pc.Mirrored && math.Abs(opt) > 1e-9 {
-					ms := lineStyle(okabeBlue, 1.2, false)
-					ms.Dashes = []vg.Length{vg.Points(1.5), vg.Points(2.5)}
-					addCurve(p, []float64{-opt, -opt}, []float64{y0, y1}, ms)
-					if j == 0 {
-						l.Add("mirror image (sign unknown)", lineThumb{ms})
-					}
-				}
-			}
-			plots = append(plots, p)
+			plots = append(plots, in.profilePanel(pc, len(profs) > 1, j == 0, &l))
 		}
-		tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
-		cs := plot.Align([][]*plot.Plot{plots}, tiles, area)
-		for j, p := range plots {
-			p.Draw(cs[0][j])
-		}
-		l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
+		drawRow(area, lc, plots, l)
 		return nil
 	}
 	return f
+}
+
+// profilePanel draws the loss profile pc over one fibre angle, with its
+// interval, threshold and fitted angle; several shortens the title for
+// side-by-side panels, and the first panel adds the legend entries to l.
+func (in *Input) profilePanel(pc card.ProfileCard, several, first bool, l *plot.Legend) *plot.Plot {
+	opt := float64(pc.OptimumDeg)
+	iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
+	sign := ""
+	if pc.Mirrored {
+		sign = "±"
+	}
+	title := fmt.Sprintf("%s = %s%s, 95 %% interval %s to %s", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
+	if several {
+		title = fmt.Sprintf("%s = %s%s (95 %%: %s to %s)", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
+	}
+	switch {
+	case pc.NotDetermined:
+		title = fmt.Sprintf("%s = %s%s, not determined (no angle excluded)", pc.Name, sign, fmtDeg(opt))
+	case !pc.Closed:
+		title += " (open)"
+	}
+	p := newPlot(title, "fibre angle from axis 1 towards axis 2", "loss (log scale)", true)
+	p.Y.Scale = plot.LogScale{}
+	p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+	p.X.Tick.Marker = degTicks()
+	p.X.Min, p.X.Max = -90, 90
+	// The profile at the fitted angle is the fit's own loss; the
+	// grid can straddle a sharp minimum, so that point joins the
+	// curve (and its mirror image when the sign is unknown).
+	type pt struct{ a, v float64 }
+	var pts []pt
+	for k, a := range pc.AnglesDeg {
+		pts = append(pts, pt{float64(a), float64(pc.Loss[k])})
+	}
+	fitLoss := float64(in.fit.Loss)
+	if fitLoss > 0 && !math.IsNaN(opt) {
+		pts = append(pts, pt{opt, fitLoss})
+		if pc.Mirrored && math.Abs(opt) > 1e-9 {
+			pts = append(pts, pt{-opt, fitLoss})
+		}
+	}
+	sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
+	var xs, ys []float64
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, q := range pts {
+		if !(q.v > 0) || math.IsInf(q.v, 0) {
+			xs, ys = append(xs, q.a), append(ys, math.NaN())
+			continue
+		}
+		xs, ys = append(xs, q.a), append(ys, q.v)
+		lo, hi = math.Min(lo, q.v), math.Max(hi, q.v)
+	}
+	thr := float64(pc.Threshold)
+	if thr > 0 {
+		lo, hi = math.Min(lo, thr), math.Max(hi, thr)
+	}
+	if math.IsInf(lo, 1) {
+		lo, hi = 1e-6, 1
+	}
+	y0, y1 := logRange(lo, hi)
+	p.Y.Min, p.Y.Max = y0, y1
+	if !math.IsNaN(iv[0]) && !math.IsNaN(iv[1]) {
+		if pc.Mirrored {
+			if b := band(-iv[1], -iv[0], y0, y1, tint(okabeBlack, 0.12)); b != nil {
+				p.Add(b)
+				if first {
+					l.Add("mirror image of the interval", swatch{tint(okabeBlack, 0.12)})
+				}
+			}
+		}
+		if b := band(iv[0], iv[1], y0, y1, tint(okabeSkyBlue, 0.45)); b != nil {
+			p.Add(b)
+			if first {
+				l.Add("95 % interval", swatch{tint(okabeSkyBlue, 0.45)})
+			}
+		}
+	}
+	th := addCurve(p, xs, ys, lineStyle(okabeBlack, 1.3, false))
+	if first && th != nil {
+		l.Add("profiled loss", th)
+	}
+	if thr > 0 {
+		ls := lineStyle(okabeVermillion, 1.1, true)
+		addCurve(p, []float64{-90, 90}, []float64{thr, thr}, ls)
+		if first {
+			l.Add("95 % threshold", lineThumb{ls})
+		}
+	}
+	if !math.IsNaN(opt) {
+		ls := lineStyle(okabeBlue, 1.4, false)
+		addCurve(p, []float64{opt, opt}, []float64{y0, y1}, ls)
+		dot := draw.GlyphStyle{Color: okabeBlue, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
+		addPoints(p, []float64{opt}, []float64{fitLoss}, dot)
+		if first {
+			l.Add("fitted angle", lineThumb{ls})
+			l.Add("fitted model's loss", glyphThumb{dot})
+		}
+		if pc.Mirrored && math.Abs(opt) > 1e-9 {
+			ms := lineStyle(okabeBlue, 1.2, false)
+			ms.Dashes = []vg.Length{vg.Points(1.5), vg.Points(2.5)}
+			addCurve(p, []float64{-opt, -opt}, []float64{y0, y1}, ms)
+			if first {
+				l.Add("mirror image (sign unknown)", lineThumb{ms})
+			}
+		}
+	}
+	return p
 }
 
 // formKey names a candidate's model form: the layout, with "+dispersed"
@@ -287,7 +281,7 @@ func formGlyph(key string) draw.GlyphStyle {
 // paretoFigure plots number of parameters against loss for every Pareto
 // candidate, one series per model form, with the presets and the chosen
 // model marked; nil without a selection section.
-func (in *reportInput) paretoFigure() *figure {
+func (in *Input) paretoFigure() *figure {
 	sel := in.sel
 	if sel == nil || len(sel.Pareto) == 0 {
 		return nil
@@ -473,7 +467,7 @@ func (colourBar) Plot(c draw.Canvas, p *plot.Plot) {
 // crossFigure is the heat map of selection.cross_r2: the chosen form fitted
 // to one protocol alone (rows) predicting every protocol (columns); nil
 // without it.
-func (in *reportInput) crossFigure() *figure {
+func (in *Input) crossFigure() *figure {
 	sel := in.sel
 	if sel == nil || len(sel.CrossR2) == 0 || len(sel.CrossR2) != len(sel.Protocols) {
 		return nil

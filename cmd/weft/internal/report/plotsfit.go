@@ -1,4 +1,4 @@
-package main
+package report
 
 import (
 	"fmt"
@@ -57,13 +57,13 @@ func isShear(comp string) bool { return comp == "12" || comp == "21" }
 // protocolFileName makes a protocol label safe for a file name; the index
 // keeps names unique.
 func protocolFileName(prefix string, i int, label string) string {
-	safe := unsafeName.ReplaceAllString(strings.ReplaceAll(label, ":", "_"), "_")
+	safe := SafeName(strings.ReplaceAll(label, ":", "_"))
 	return fmt.Sprintf("%s-%02d-%s", prefix, i+1, safe)
 }
 
 // fitQuality is the legend text of a component's model curve: R², or the
 // RMSE when R² is undefined (constant measured stress).
-func (in *reportInput) fitQuality(protocol, comp string) string {
+func (in *Input) fitQuality(protocol, comp string) string {
 	m, ok := in.metric(protocol, comp)
 	if !ok {
 		return ""
@@ -85,7 +85,7 @@ func heldoutQuality(meas, pred []float64, unit string) string {
 
 // heldoutStress returns the held-out prediction of a protocol's component,
 // or nil.
-func (in *reportInput) heldoutStress(label string, ci int) []float64 {
+func (in *Input) heldoutStress(label string, ci int) []float64 {
 	if in.heldout == nil {
 		return nil
 	}
@@ -98,7 +98,7 @@ func (in *reportInput) heldoutStress(label string, ci int) []float64 {
 
 // addProtocolCurves draws one protocol's components (normal or shear) into
 // p and adds their legend entries to l (when non-nil).
-func (in *reportInput) addProtocolCurves(p *plot.Plot, l *plot.Legend, pr *protocolRows, shear, strain, small bool) {
+func (in *Input) addProtocolCurves(p *plot.Plot, l *plot.Legend, pr *protocolRows, shear, strain, small bool) {
 	t := in.table
 	var comps []string
 	var idx []int
@@ -190,7 +190,7 @@ func (t *fitTable) hasNormal() bool {
 }
 
 // fitFigure is the stress–stretch (or stress–strain) figure of protocol i.
-func (in *reportInput) fitFigure(i int, strain bool) *figure {
+func (in *Input) fitFigure(i int, strain bool) *figure {
 	t := in.table
 	pr := t.protocols[i]
 	shear, normal := t.hasShear(), t.hasNormal()
@@ -242,12 +242,7 @@ func (in *reportInput) fitFigure(i int, strain bool) *figure {
 			in.addProtocolCurves(p, &l, pr, true, strain, false)
 			plots = append(plots, p)
 		}
-		tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
-		cs := plot.Align([][]*plot.Plot{plots}, tiles, area)
-		for j, p := range plots {
-			p.Draw(cs[0][j])
-		}
-		l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
+		drawRow(area, lc, plots, l)
 		return nil
 	}
 	return f
@@ -286,7 +281,7 @@ func drawGrid(dc draw.Canvas, plots []*plot.Plot, l plot.Legend) {
 }
 
 // fitGridFigure shows every protocol's normal components in one figure.
-func (in *reportInput) fitGridFigure(strain bool) *figure {
+func (in *Input) fitGridFigure(strain bool) *figure {
 	t := in.table
 	rows, cols := gridShape(len(t.protocols))
 	what := "stretch"
@@ -330,7 +325,7 @@ func (in *reportInput) fitGridFigure(strain bool) *figure {
 }
 
 // genericLegend names the series of the tiled fit figure without numbers.
-func genericLegend(in *reportInput) plot.Legend {
+func genericLegend(in *Input) plot.Legend {
 	t := in.table
 	l := newLegend(9)
 	for _, c := range t.comps {
@@ -350,7 +345,7 @@ func genericLegend(in *reportInput) plot.Legend {
 // residualFigure shows residuals (model − measured) against stretch or
 // strain, one tile per protocol, for the normal (shear false) or shear
 // components.
-func (in *reportInput) residualFigure(shear, strain bool) *figure {
+func (in *Input) residualFigure(shear, strain bool) *figure {
 	t := in.table
 	rows, cols := gridShape(len(t.protocols))
 	name, what := "residuals", "normal stresses"

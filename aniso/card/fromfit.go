@@ -1,0 +1,106 @@
+package card
+
+import (
+	"math"
+	"path/filepath"
+	"strings"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/biaxial"
+)
+
+// CVMetric says what the held-out error of the selection evidence
+// measures.
+const CVMetric = "held-out normalised RMSE: sqrt(weighted SSE / components) of the left-out protocol, rows weighted by 1/(range*sqrt(points)) of their protocol and axis"
+
+// FromFit writes a fitted model and its evidence as a card: the model
+// (FromModel) with its specimen and fibre layout, and the sections Fit,
+// Data, DataRange and, when the split can be computed, Split. d is the
+// discovery that chose r (nil for a chosen form); with it the card also
+// holds the Verdict and the Selection evidence.
+func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
+	s := p.Specimen
+	signs := make([]bool, len(r.Model.Families))
+	for i := range signs {
+		signs[i] = r.SignKnown
+	}
+	c := FromModel(r.Model, s.StressUnit, signs)
+	c.Specimen = s.Name
+	c.Layout = fitLayout(r)
+	c.Fit = NewFitSection(r, s.Kind.String(), s.StressUnit)
+	c.DataRange = NewDataRange(p, r.Model)
+	c.Data = NewDataSection(s)
+	if sp, err := aniso.Split(p, r.Model); err == nil {
+		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")
+	}
+	if d != nil {
+		v := NewVerdictSection(d.Verdict, aniso.FormKey(d.Best().Result.Structure))
+		c.Verdict = &v
+		c.Selection = newSelectionSection(p, d)
+	}
+	return c
+}
+
+// fitLayout describes how r parameterised its families; nil without
+// fibres. A mirror pair's families sit at θ ± β: θ is their mean angle and
+// β half their difference.
+func fitLayout(r *aniso.Result) *Layout {
+	switch r.Structure.Layout {
+	case aniso.LayoutMirror:
+		a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
+		mean, half := aniso.Deg((a0+a1)/2), aniso.Deg(math.Abs(a0-a1)/2)
+		axis := "free"
+		if r.Structure.HoldPairAxis {
+			axis = "axis-1"
+		}
+		return &Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half, PairAxis: axis}
+	case aniso.LayoutFree:
+		return &Layout{Kind: "free"}
+	case aniso.LayoutSingle:
+		return &Layout{Kind: "single"}
+	}
+	return nil
+}
+
+// newSelectionSection is the evidence of discovery d on p.
+func newSelectionSection(p *aniso.Problem, d *aniso.Discovery) *SelectionSection {
+	sel := &SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search, CVMetric: CVMetric}
+	for i := range d.Pareto {
+		sel.Pareto = append(sel.Pareto, NewCandidateCard(&d.Pareto[i], i == d.Chosen))
+	}
+	for i := range d.Presets {
+		sel.Presets = append(sel.Presets, NewCandidateCard(&d.Presets[i], false))
+	}
+	for _, pi := range p.Protocols {
+		sel.Protocols = append(sel.Protocols, p.Specimen.Protocols[pi].Label)
+	}
+	for _, row := range d.CrossR2 {
+		var nr []Num // nil for an empty row, as earlier cards wrote it
+		for _, x := range row {
+			nr = append(nr, Num(x))
+		}
+		sel.CrossR2 = append(sel.CrossR2, nr)
+	}
+	return sel
+}
+
+// NewDataSection describes the data of s. Warnings and notices name the
+// input by its base name only, so that the card does not depend on how its
+// path was typed (or reveal where it lives).
+func NewDataSection(s *biaxial.Specimen) *DataSection {
+	d := &DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
+		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
+		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
+	for _, pr := range s.Protocols {
+		d.Protocols = append(d.Protocols, DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
+	}
+	base := filepath.Base(s.Source)
+	for _, w := range s.Warnings {
+		w.File = base
+		d.Warnings = append(d.Warnings, w.String())
+	}
+	for i, n := range d.Notices {
+		d.Notices[i] = strings.ReplaceAll(n, s.Source, base)
+	}
+	return d
+}

@@ -1,0 +1,108 @@
+// Package aniso knows fibre-reinforced incompressible membranes: fibre
+// families, in-plane kinematics, the invariants, plane-stress Cauchy and
+// nominal stress of an energy built from package terms, the per-term "stress
+// columns" (stress is linear in the weights once angles and shape parameters
+// are fixed) with their analytic derivatives, and the fitter that learns
+// weights, fibre angles and shape parameters from biaxial data.
+//
+// The conventions below are shared by every weft package and written into
+// every model card; comments elsewhere cite them by heading ("see the
+// package documentation, Mirror symmetry").
+//
+// # Angles
+//
+// The specimen lies in the 1–2 plane; axes 1 and 2 are the tester's loading
+// axes, 3 the thickness. A fibre family is the reference unit vector
+// a0 = (cos α, sin α, 0), α measured from axis 1 towards axis 2
+// (counter-clockwise seen from +3). A fibre has no sign, so α is defined
+// modulo 180° and reported in (−90°, 90°] (WrapDeg). Angles are degrees in
+// files and cards and radians inside this package; Deg and Rad convert.
+//
+// # Kinematics
+//
+// The in-plane deformation gradient F = [[F11, F12], [F21, F22]] is
+// completed by F33 = 1/(F11 F22 − F12 F21) (incompressibility, J = 1). A
+// pure biaxial stretch has F11 = λ1, F22 = λ2, F12 = F21 = 0. C = FᵀF,
+// B = FFᵀ and a = F a0, the pushed-forward fibre (not normalised).
+// Symmetric in-plane tensors are stored as (11, 22, 12) (Sym).
+//
+// # Invariants
+//
+// I1 = tr C, I2 = ½(I1² − tr C²), I3 = det C = 1; I4 = a0·C a0, the squared
+// fibre stretch; I5 = a0·C² a0; and the cofactor-fibre invariant
+// K = a0·cof(C) a0 = I5 − I1 I4 + I2 (by Cayley–Hamilton with I3 = 1), the
+// squared area stretch normal to the fibre (Spencer 1971; Holzapfel 2000,
+// Nonlinear Solid Mechanics, ch. 6; Schröder & Neff 2003). For an
+// incompressible material I1 ≥ 3 and I2 ≥ 3, so every shifted argument
+// (I1 − 3, I2 − 3, E_f, K − 1, I5 − 1) is zero in the reference state.
+//
+// # Energy and the fibre switch
+//
+// Ψ = Σ_k w_k f_k(x_k; θ_k) with weights w_k ≥ 0 in the stress unit and
+// shape parameters θ_k (package terms). Fibre shapes start with zero slope,
+// f′(0) = 0, so the reference state is stress-free. A family bears load only
+// while it is stretched, I4 > 1: otherwise its fibre and I5 terms give no
+// energy and no stress (Holzapfel, Gasser & Ogden 2000). Cofactor terms
+// switch on their own argument, K > 1, which keeps the energy continuous and
+// polyconvex. Convex, non-decreasing shapes of I1, I2, I4 or K with w ≥ 0
+// keep the energy polyconvex (Ball 1977; Schröder & Neff 2003); a raw I5
+// term does not, and says so.
+//
+// # Dispersion
+//
+// A family may carry the three-dimensional dispersion κ of Gasser, Ogden &
+// Holzapfel 2006: its fibre terms act on E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1),
+// 0 ≤ κ ≤ 1/3 (κ = 0 an aligned family, κ = 1/3 an isotropic one); without
+// dispersion E_f = I4 − 1. The whole family switches on and off with I4.
+//
+// # In-plane dispersion
+//
+// A family with a concentration b spreads its fibres over the plane with the
+// von Mises density in 2θ, ρ(θ) = exp(b cos 2(θ − α))/(π I0(b)), over one
+// period (b = 0: every in-plane direction alike; b → ∞: the ideal family).
+// Each of its terms is w ∫ ρ(θ) f(I4(θ) − 1) dθ with a(θ) = (cos θ, sin θ, 0),
+// and each direction carries load only while its own I4(θ) > 1 (angular
+// integration; Lanir 1983; Sacks 2003). I4(θ) − 1 = ½(C11 + C22) − 1 +
+// ½(C11 − C22) cos 2θ + C12 sin 2θ is a trigonometric quadratic in 2θ, so the
+// arcs where it is positive are known in closed form (planar.go).
+//
+// # Plane stress
+//
+// With ψi = ∂Ψ/∂Ii the Cauchy stress is (Holzapfel 2000, §6.6)
+//
+//	σ = −p 1 + 2ψ1 B + 2ψ2 (I1 B − B²) + Σ_families [2ψ4 a⊗a + 2ψ5 (a⊗Ba + Ba⊗a)]
+//
+// A term in K, E_f or an in-plane average enters through the chain rule into
+// ψ1, ψ2, ψ4, ψ5. A thin specimen is in plane stress, σ33 = 0; as a has no
+// 3-component, p = 2ψ1 B33 + 2ψ2 (I1 B33 − B33²). The nominal (first
+// Piola–Kirchhoff) stress is P = σ F⁻ᵀ. Every stress component is linear in
+// the weights once angles and shape parameters are fixed, which the fitter
+// exploits (variable projection).
+//
+// # Green strain of the Fung-type term
+//
+// The Fung-type term of Tong & Fung 1976 is the exception to the invariant
+// form: its energy W is a function of the Green strain E = (C2 − 1)/2 of the
+// in-plane C2 = F2ᵀF2 in the tester's axes (E11 = (C11 − 1)/2,
+// E22 = (C22 − 1)/2, E12 = E21 = C12/2), Q = b1 E11² + b2 E22² +
+// 2 b3 E11 E22 + b4 (E12² + E21²), W = w (exp(Q) − 1)/2. As W does not
+// depend on C33, σ33 = −p + 2F33² ∂W/∂C33 = −p, so plane stress gives p = 0
+// and σ = F2 S F2ᵀ with S = ∂W/∂E (and P = F2 S = ∂W/∂F2, the membrane's own
+// gradient); its axes are fixed in the specimen, not a fibre family
+// (fung.go).
+//
+// # Mirror symmetry
+//
+// Under a pure biaxial stretch (F12 = F21 = 0) a family at +α and one at −α
+// give the same normal stresses and opposite shear stresses. From normal
+// stresses alone the sign of α cannot be found, and one family at α with
+// weight w cannot be told from a mirror pair at ±α with weights w/2 each;
+// only shear information (measured F12, F21 or a shear stress,
+// Problem.HasShear) breaks the tie. The fitter says so instead of reporting a
+// sign or a second family it cannot know. Two families at independent,
+// non-mirror angles are distinguishable from one by normal stresses; a fully
+// dispersed family competes with an exponential I1 term, which the fitter
+// reports as a correlation. Planar biaxial data constrain the in-plane
+// response only: the out-of-plane and I5-dependent response is not fully
+// determined by them (Holzapfel & Ogden 2009).
+package aniso

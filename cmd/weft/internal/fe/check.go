@@ -1,0 +1,410 @@
+package fe
+
+import (
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/terms"
+)
+
+// checkFormat is the version of check's JSON document.
+const checkFormat = "weft.check/1"
+
+const (
+	stabilityCriterion = "the in-plane tangent A = d2W/dF2^2 (symmetric, tested whole) restricted to the three in-plane increments " +
+		"orthogonal to the rigid-rotation increment Omega F must be positive definite (smallest eigenvalue > tolerance); " +
+		"the rotation direction itself carries sigma11 + sigma22 for every material and is left out"
+	ellipticityCriterion = "Legendre-Hadamard: (a x b):A:(a x b) > tolerance for all in-plane unit vectors a, b; " +
+		"exact in a (smallest eigenvalue of the 2x2 acoustic tensor), b sampled evenly over [0, 180) deg"
+)
+
+type checkTerm struct {
+	Term       int    `json:"term"`
+	ID         string `json:"id"`
+	Family     string `json:"family,omitempty"`
+	Polyconvex bool   `json:"polyconvex"`
+	Note       string `json:"note"`
+	// Convexity is the parameter-dependent convexity condition of a term
+	// that has one (the Fung-type term), checked for the card's values.
+	Convexity *checkConvexity `json:"convexity_condition,omitempty"`
+}
+
+// checkConvexity is a term's convexity condition and its outcome.
+type checkConvexity struct {
+	Condition string `json:"condition"`
+	Holds     bool   `json:"holds"`
+	Detail    string `json:"detail"`
+}
+
+type checkPoint struct {
+	F      [4]float64 `json:"F"`
+	Cauchy [3]float64 `json:"cauchy"`
+	Value  float64    `json:"value"`
+	// MinFull is the full 4×4 smallest eigenvalue (stability only).
+	MinFull *float64 `json:"min_full_eigenvalue,omitempty"`
+	// A and B are the worst rank-one directions (ellipticity only).
+	A *[2]float64 `json:"a,omitempty"`
+	B *[2]float64 `json:"b,omitempty"`
+	// InsideData says whether the point lies in the fitted data range
+	// (absent when the card has none).
+	InsideData *bool `json:"inside_data_range,omitempty"`
+}
+
+type checkModulus struct {
+	Direction        string   `json:"direction"`
+	AngleDeg         float64  `json:"angle_deg"`
+	Tension          float64  `json:"tension"`
+	Compression      float64  `json:"compression"`
+	TensionTerms     []string `json:"terms_engaged_in_tension"`
+	CompressionTerms []string `json:"terms_engaged_in_compression"`
+}
+
+// CheckReport is everything check reports.
+type CheckReport struct {
+	Format     string   `json:"format"`
+	Model      string   `json:"model"`
+	StressUnit string   `json:"stress_unit"`
+	Passed     bool     `json:"passed"`
+	Failures   []string `json:"failures"`
+	Warnings   []string `json:"warnings"`
+	Notices    []string `json:"notices"`
+	Reference  struct {
+		MaxAbsCauchy float64 `json:"max_abs_cauchy"`
+		Tolerance    float64 `json:"tolerance"`
+		Passed       bool    `json:"passed"`
+	} `json:"stress_free_reference"`
+	Polyconvexity struct {
+		AllTerms bool        `json:"all_terms_polyconvex"`
+		Terms    []checkTerm `json:"terms"`
+	} `json:"polyconvexity"`
+	Grid struct {
+		StretchMin float64 `json:"stretch_min"`
+		StretchMax float64 `json:"stretch_max"`
+		Steps      int     `json:"steps_per_axis"`
+		ShearMax   float64 `json:"shear_max"`
+		Shears     string  `json:"shears"`
+		Directions int     `json:"ellipticity_directions"`
+		Points     int     `json:"points"`
+		Evaluated  int     `json:"evaluated"`
+		Tolerance  float64 `json:"tolerance"`
+	} `json:"grid"`
+	Stability struct {
+		Criterion             string     `json:"criterion"`
+		Passed                bool       `json:"passed"`
+		FailingPoints         int        `json:"failing_points"`
+		Worst                 checkPoint `json:"worst"`
+		FullIndefinite        int        `json:"full_tangent_indefinite_points"`
+		Unresolved            int        `json:"unresolved_points"`
+		FullIndefiniteTensile int        `json:"full_tangent_indefinite_with_both_principal_stresses_tensile"`
+	} `json:"material_stability"`
+	Ellipticity struct {
+		Criterion     string     `json:"criterion"`
+		Passed        bool       `json:"passed"`
+		FailingPoints int        `json:"failing_points"`
+		Worst         checkPoint `json:"worst"`
+	} `json:"strong_ellipticity"`
+	Moduli struct {
+		InitialShear  float64        `json:"initial_shear_modulus"`
+		ShearPositive float64        `json:"shear_modulus_12_positive"`
+		ShearNegative float64        `json:"shear_modulus_12_negative"`
+		Young         []checkModulus `json:"uniaxial_moduli"`
+		Note          string         `json:"note"`
+	} `json:"small_strain_moduli"`
+	DataRange *card.DataRange `json:"data_range"`
+	Cautions  []string        `json:"cautions"`
+}
+
+// CheckCard performs every check.
+func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*CheckReport, error) {
+	rep := &CheckReport{Format: checkFormat, Model: filepath.Base(file), StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
+		Notices: []string{}, DataRange: dr, Cautions: card.Cautions}
+	u := c.StressUnit
+	names := familyNames(m)
+
+	// 1. Stress-free reference.
+	mx, tol, err := m.ReferenceStress()
+	if err != nil {
+		return nil, cardErrorf("%s: at F = I: %v", file, err)
+	}
+	rep.Reference.MaxAbsCauchy, rep.Reference.Tolerance, rep.Reference.Passed = mx, tol, mx <= tol
+	if !rep.Reference.Passed {
+		rep.Failures = append(rep.Failures, fmt.Sprintf("stress-free reference: |sigma| = %.3g %s at F = I exceeds %.3g %s", mx, u, tol, u))
+	}
+
+	// 2. Polyconvexity.
+	checkPolyconvexity(rep, m, g, names)
+
+	// 3 and 4. Stability and ellipticity.
+	sr, err := m.CheckStability(g)
+	if err != nil {
+		return nil, cardErrorf("%s: %v", file, err)
+	}
+	rep.Grid.StretchMin, rep.Grid.StretchMax, rep.Grid.Steps = g.StretchMin, g.StretchMax, g.Steps
+	rep.Grid.ShearMax, rep.Grid.Directions = g.ShearMax, g.Directions
+	rep.Grid.Shears = "none"
+	if g.ShearMax > 0 {
+		rep.Grid.Shears = fmt.Sprintf("each stretch also with F12 or F21 = %g, %g, %g, %g", -g.ShearMax, -g.ShearMax/2, g.ShearMax/2, g.ShearMax)
+	}
+	rep.Grid.Points, rep.Grid.Evaluated, rep.Grid.Tolerance = sr.Points, sr.Evaluated, sr.Tolerance
+	if sr.NotEvaluable > 0 {
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d of %d grid points could not be evaluated and were not tested (first at F = %s: %s)",
+			sr.NotEvaluable, sr.Points, fmtF(sr.FirstNotEvaluable), sr.NotEvaluableReason))
+	}
+	inside := func(F [4]float64) *bool {
+		if dr == nil {
+			return nil
+		}
+		b := len(outsideRange(dr, m, F)) == 0
+		return &b
+	}
+	where := func(b *bool) string {
+		switch {
+		case b == nil:
+			return ""
+		case *b:
+			return " (inside the fitted data range)"
+		}
+		return " (outside the fitted data range)"
+	}
+	ws := sr.WorstStability
+	mf := ws.MinFull
+	rep.Stability.Criterion = stabilityCriterion
+	rep.Stability.Passed = sr.UnstablePoints == 0
+	rep.Stability.FailingPoints = sr.UnstablePoints
+	rep.Stability.Worst = checkPoint{F: ws.F, Cauchy: ws.Cauchy, Value: ws.MinModuloRotation, MinFull: &mf, InsideData: inside(ws.F)}
+	rep.Stability.FullIndefinite, rep.Stability.FullIndefiniteTensile = sr.FullIndefinite, sr.FullIndefiniteTensile
+	rep.Stability.Unresolved = sr.Unresolved
+	if !rep.Stability.Passed {
+		rep.Failures = append(rep.Failures, fmt.Sprintf("material stability fails at %d of %d grid points; worst at F = %s%s: "+
+			"smallest eigenvalue of the tangent modulo rigid rotation %.4g %s <= %.3g %s",
+			sr.UnstablePoints, sr.Evaluated, fmtF(ws.F), where(rep.Stability.Worst.InsideData), ws.MinModuloRotation, u, sr.Tolerance, u))
+	}
+	we := sr.WorstEllipticity
+	a, b := we.EllipticityA, we.EllipticityB
+	rep.Ellipticity.Criterion = ellipticityCriterion
+	rep.Ellipticity.Passed = sr.NonEllipticPoints == 0
+	rep.Ellipticity.FailingPoints = sr.NonEllipticPoints
+	rep.Ellipticity.Worst = checkPoint{F: we.F, Cauchy: we.Cauchy, Value: we.MinEllipticity, A: &a, B: &b, InsideData: inside(we.F)}
+	if !rep.Ellipticity.Passed {
+		rep.Failures = append(rep.Failures, fmt.Sprintf("strong ellipticity fails at %d of %d grid points; worst at F = %s%s: "+
+			"(a x b):A:(a x b) = %.4g %s with a = (%.4f, %.4f), b = (%.4f, %.4f)",
+			sr.NonEllipticPoints, sr.Evaluated, fmtF(we.F), where(rep.Ellipticity.Worst.InsideData), we.MinEllipticity, u, a[0], a[1], b[0], b[1]))
+	}
+
+	// 5. Small-strain moduli.
+	if err := checkModuli(rep, m, names); err != nil {
+		return nil, cardErrorf("%s: %v", file, err)
+	}
+
+	// 6. Data range.
+	if dr == nil {
+		rep.Notices = append(rep.Notices, noRangeNotice)
+	} else {
+		rep.Warnings = append(rep.Warnings, gridExtrapolation(dr, m, g, names)...)
+	}
+	rep.Passed = len(rep.Failures) == 0
+	return rep, nil
+}
+
+// checkPolyconvexity reports which terms keep the energy polyconvex, the
+// convexity condition of a term that has one, and the jump of a dispersed
+// family's fibre terms at the I4 > 1 switch.
+func checkPolyconvexity(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid, names []string) {
+	rep.Polyconvexity.AllTerms = true
+	rep.Polyconvexity.Terms = []checkTerm{}
+	dispersedWarned := map[int]bool{}
+	for i, t := range m.Terms {
+		ct := checkTerm{Term: i + 1, ID: t.Shape.ID, Polyconvex: t.Shape.Polyconvex, Note: t.Shape.PolyconvexNote}
+		if t.Family >= 0 {
+			ct.Family = names[t.Family]
+		}
+		cc, hasCondition := t.Shape.ConvexityCondition(t.Params, g.ShearMax > 0)
+		if hasCondition {
+			ct.Convexity = &checkConvexity{Condition: cc.Condition, Holds: cc.Holds, Detail: cc.Detail}
+		}
+		rep.Polyconvexity.Terms = append(rep.Polyconvexity.Terms, ct)
+		if !t.Shape.Polyconvex && t.Weight > 0 {
+			rep.Polyconvexity.AllTerms = false
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): %s", i+1, t.Shape.ID, t.Shape.PolyconvexNote))
+		}
+		if hasCondition && !cc.Holds && t.Weight > 0 {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("term %d (%s): its convexity condition does not hold: %s (%s)", i+1, t.Shape.ID, cc.Condition, cc.Detail))
+		}
+		if t.Shape.Arg == terms.Fibre && t.Weight > 0 && t.Family >= 0 {
+			if k := m.Families[t.Family].Dispersion; k > 0 && !dispersedWarned[t.Family] {
+				dispersedWarned[t.Family] = true
+				rep.Warnings = append(rep.Warnings, fmt.Sprintf("family %s has dispersion kappa = %g with the I4 > 1 switch: where I4 crosses 1 while I1 > 3, "+
+					"E_f = kappa (I1 - 3) > 0 and the energy and stress of its fibre terms jump; polyconvexity does not hold across the switch "+
+					"(the tangent on either side is what the grid tests)", names[t.Family], k))
+			}
+		}
+	}
+}
+
+// checkModuli reports the small-strain moduli at F = I along the axes and
+// each fibre, with the one-sided terms engaged in tension and compression.
+func checkModuli(rep *CheckReport, m *aniso.Model, names []string) error {
+	dirs := []float64{0, 90}
+	labels := []string{"axis 1", "axis 2"}
+	for i, f := range m.Families {
+		dirs = append(dirs, aniso.WrapDeg(aniso.Deg(f.Angle)))
+		labels = append(labels, "fibre "+names[i])
+	}
+	mod, err := m.SmallStrainModuli(dirs)
+	if err != nil {
+		return err
+	}
+	rep.Moduli.InitialShear, rep.Moduli.ShearPositive, rep.Moduli.ShearNegative = mod.InitialShear, mod.ShearPositive, mod.ShearNegative
+	termNames := func(idx []int) []string {
+		out := []string{}
+		for _, i := range idx {
+			s := fmt.Sprintf("%d:%s", i+1, m.Terms[i].Shape.ID)
+			if f := m.Terms[i].Family; f >= 0 {
+				s += "@" + names[f]
+			}
+			out = append(out, s)
+		}
+		return out
+	}
+	for i, y := range mod.Young {
+		rep.Moduli.Young = append(rep.Moduli.Young, checkModulus{Direction: labels[i], AngleDeg: y.AngleDeg, Tension: y.Tension, Compression: y.Compression,
+			TensionTerms: termNames(y.TensionTerms), CompressionTerms: termNames(y.CompressionTerms)})
+	}
+	rep.Moduli.Note = "linearised plane-stress response at F = I in " + rep.StressUnit + ": uniaxial moduli for a small uniaxial stress along the direction " +
+		"with the other in-plane stresses zero; fibre and I5 terms engage only while their family stretches (I4 > 1) and cofactor terms " +
+		"only while K > 1, each adding its stiffness w f''(0) grad x (x) grad x on one side only, so tension and compression differ; the engaged terms are listed; " +
+		"0 means no small-strain stiffness"
+	if mod.InitialShear <= 0 && !hasGreenTerm(m) {
+		rep.Warnings = append(rep.Warnings, "the isotropic terms give no initial shear modulus: at small strain the membrane relies on fibres alone or has no stiffness")
+	}
+	if hasGreenTerm(m) {
+		rep.Moduli.Note += "; a Fung-type term (Tong & Fung 1976) acts on both sides and is anisotropic in the tester's axes: it adds to every modulus but not to the isotropic initial shear modulus mu0"
+	}
+	return nil
+}
+
+// gridExtrapolation warns where the grid extends beyond the data range.
+func gridExtrapolation(dr *card.DataRange, m *aniso.Model, g aniso.StabilityGrid, names []string) []string {
+	var out []string
+	beyond := func(name string, lo, hi float64, r card.Interval) {
+		if r.Outside(lo, hi) {
+			out = append(out, fmt.Sprintf("the grid's %s [%.4g, %.4g] extends beyond the fitted data's [%.4g, %.4g]: there the checks test the formula, not a model supported by data", name, lo, hi, r[0], r[1]))
+		}
+	}
+	beyond("stretch 1 (F11)", g.StretchMin, g.StretchMax, dr.Stretch1)
+	beyond("stretch 2 (F22)", g.StretchMin, g.StretchMax, dr.Stretch2)
+	beyond("shear (F12, F21)", -g.ShearMax, g.ShearMax, dr.Shear)
+	if dr.HasFibreStretch(m) && len(m.Families) > 0 {
+		for i, span := range card.FibreStretchSpans(m, g.Points()) {
+			beyond("fibre stretch of "+names[i], span[0], span[1], dr.FibreStretch[i])
+		}
+	}
+	return out
+}
+
+// hasGreenTerm reports whether m has an active term in the Green strain.
+func hasGreenTerm(m *aniso.Model) bool {
+	for _, t := range m.Terms {
+		if t.Shape.Arg == terms.Green && t.Weight > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+func passText(ok bool) string {
+	if ok {
+		return "pass"
+	}
+	return "FAIL"
+}
+
+// PrintCheck writes the check report r as text, one numbered check a
+// line with its criterion, then the warnings, notices and the result.
+func PrintCheck(w io.Writer, r *CheckReport) {
+	u := r.StressUnit
+	fmt.Fprintf(w, "weft check of %s (stresses and moduli in %s)\n\n", r.Model, u)
+	printCautions(w)
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "1. Stress-free reference          %s  max |sigma(I)| = %.3g %s (tolerance %.3g %s)\n", passText(r.Reference.Passed), r.Reference.MaxAbsCauchy, u, r.Reference.Tolerance, u)
+	poly := "all terms polyconvex"
+	if !r.Polyconvexity.AllTerms {
+		poly = "NOT all terms polyconvex (warning)"
+	}
+	fmt.Fprintf(w, "2. Polyconvexity of the terms     %s\n", poly)
+	for _, t := range r.Polyconvexity.Terms {
+		fam := ""
+		if t.Family != "" {
+			fam = "@" + t.Family
+		}
+		yes := "yes"
+		if !t.Polyconvex {
+			yes = "NO "
+		}
+		fmt.Fprintf(w, "     %2d %-14s %s  %s\n", t.Term, t.ID+fam, yes, t.Note)
+		if c := t.Convexity; c != nil {
+			verdict := "holds"
+			if !c.Holds {
+				verdict = "DOES NOT HOLD (warning)"
+			}
+			fmt.Fprintf(w, "        convexity condition %s: %s; %s\n", verdict, c.Condition, c.Detail)
+		}
+	}
+	g := r.Grid
+	fmt.Fprintf(w, "   Grid: lambda1, lambda2 in [%g, %g], %d per axis; shear: %s; %d points, %d evaluated; tolerance %.3g %s\n",
+		g.StretchMin, g.StretchMax, g.Steps, g.Shears, g.Points, g.Evaluated, g.Tolerance, u)
+	s := r.Stability
+	fmt.Fprintf(w, "3. Material stability             %s  %d failing points; smallest eigenvalue %.4g %s at F = %s\n",
+		passText(s.Passed), s.FailingPoints, s.Worst.Value, u, fmtF(s.Worst.F))
+	fmt.Fprintf(w, "     criterion: %s\n", s.Criterion)
+	fmt.Fprintf(w, "     the full 4x4 tangent is indefinite at %d points (%d of them with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
+	if s.Unresolved > 0 {
+		fmt.Fprintf(w, "     %d points not resolved: an eigenvalue lies within %g of the tangent's largest entry of zero (round-off, where exponential terms make the tangent huge); they are neither passed nor failed\n", s.Unresolved, aniso.RelativeResolution)
+	}
+	e := r.Ellipticity
+	fmt.Fprintf(w, "4. Strong ellipticity             %s  %d failing points; smallest (a x b):A:(a x b) = %.4g %s at F = %s\n",
+		passText(e.Passed), e.FailingPoints, e.Worst.Value, u, fmtF(e.Worst.F))
+	fmt.Fprintf(w, "     criterion: %s\n", e.Criterion)
+	mo := r.Moduli
+	fmt.Fprintf(w, "5. Small-strain moduli [%s]      initial shear modulus mu0 = %.6g; in-plane shear modulus G12 = %.6g (positive shear), %.6g (negative)\n",
+		u, mo.InitialShear, mo.ShearPositive, mo.ShearNegative)
+	fmt.Fprintf(w, "     %-12s %10s %12s %14s  %s\n", "direction", "angle", "E tension", "E compression", "one-sided terms engaged (tension | compression)")
+	for _, y := range mo.Young {
+		fmt.Fprintf(w, "     %-12s %10.6g %12.6g %14.6g  %s | %s\n", y.Direction, y.AngleDeg, y.Tension, y.Compression, listOrDash(y.TensionTerms), listOrDash(y.CompressionTerms))
+	}
+	fmt.Fprintf(w, "     %s\n", mo.Note)
+	if r.DataRange != nil {
+		d := r.DataRange
+		fmt.Fprintf(w, "6. Fitted data range              stretch 1 [%g, %g], stretch 2 [%g, %g], shear [%g, %g]\n", d.Stretch1[0], d.Stretch1[1], d.Stretch2[0], d.Stretch2[1], d.Shear[0], d.Shear[1])
+	} else {
+		fmt.Fprintln(w, "6. Fitted data range              not in the card")
+	}
+	for _, s := range r.Warnings {
+		fmt.Fprintln(w, "\nWARNING: "+s)
+	}
+	for _, s := range r.Notices {
+		fmt.Fprintln(w, "\nNotice: "+s)
+	}
+	fmt.Fprintln(w)
+	if r.Passed && r.Grid.Evaluated < r.Grid.Points {
+		fmt.Fprintf(w, "Result: every check passed on the %d of %d grid points that could be evaluated.\n", r.Grid.Evaluated, r.Grid.Points)
+	} else if r.Passed {
+		fmt.Fprintln(w, "Result: every check passed.")
+	} else {
+		fmt.Fprintln(w, "Result: FAILED")
+		for _, f := range r.Failures {
+			fmt.Fprintln(w, "  - "+f)
+		}
+	}
+}
+
+func listOrDash(s []string) string {
+	if len(s) == 0 {
+		return "-"
+	}
+	return strings.Join(s, ", ")
+}

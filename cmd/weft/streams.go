@@ -1,0 +1,27 @@
+package main
+
+import (
+	"io"
+	"os"
+)
+
+// streams are where a command reads and writes. Every command's options
+// carry them, so that tests run a command with buffers and no cobra.
+type streams struct {
+	In     io.Reader
+	Out    io.Writer
+	ErrOut io.Writer
+	// ErrIsTerminal says whether ErrOut is a terminal: progress bars are
+	// drawn only there.
+	ErrIsTerminal bool
+}
+
+// isTerminal reports whether w is a terminal (a character device).
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}

@@ -339,8 +339,12 @@ func lookAlike(r *Result) string {
 	if (near(a, 0) && near(b, 90)) || (near(a, 90) && near(b, 0)) {
 		return "two families near 0° and 90° stiffen both axes alike, a look-alike of isotropic stiffening"
 	}
-	mid := WrapDeg((a + b) / 2)
-	if math.Abs(WrapDeg(a-b)) < 90 {
+	if !r.SignKnown {
+		// Without shear information only |α| is known.
+		a, b = math.Abs(a), math.Abs(b)
+	}
+	if d := math.Abs(WrapDeg(a - b)); d > 2 && d < 60 {
+		mid := WrapDeg(a + WrapDeg(b-a)/2)
 		return fmt.Sprintf("two families bracketing %.1f° (at %.1f° and %.1f°) are a look-alike of one family spread about %.1f°", mid, a, b, mid)
 	}
 	return ""

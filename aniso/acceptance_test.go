@@ -64,6 +64,13 @@ func TestVerdictAcceptance(t *testing.T) {
 			if !ok {
 				t.Errorf("verdict %s, want one of %v", d.Verdict.Families, tc.want)
 			}
+			// Degenerate terms never reach a candidate (the specimens have at
+			// most 40 points per protocol, so p is the search problem).
+			for _, c := range d.Pareto {
+				if deg := c.Result.Degenerate(p); len(deg) > 0 {
+					t.Errorf("candidate %s keeps a degenerate term: %s", c.Name, deg[0].Detail)
+				}
+			}
 			fams := d.Best().Result.Model.Families
 			if tc.family && len(fams) == 0 {
 				t.Errorf("no fibre family found")

@@ -160,3 +160,44 @@ func (r *Result) feltShare(p *Problem) []felt {
 	}
 	return out
 }
+
+// maxPruneRounds bounds how often discovery drops degenerate terms from one
+// candidate and refits it.
+const maxPruneRounds = 3
+
+// withoutDegenerate drops the terms of r the data do not support
+// (Degenerate) and refits the rest, warm-started from r, until none is
+// left: such terms never reach a discovered card. It returns r itself when
+// it has none, and nil when nothing would be left or a refit fails.
+func withoutDegenerate(p *Problem, r *Result, set Settings) *Result {
+	for round := 0; round < maxPruneRounds; round++ {
+		deg := r.Degenerate(p)
+		if len(deg) == 0 {
+			return r
+		}
+		drop := map[int]bool{}
+		for _, d := range deg {
+			drop[d.Term] = true
+		}
+		st := r.Structure.withTerms(nil)
+		for i, t := range r.Structure.Terms {
+			if r.Weights[i] > 0 && !drop[i] {
+				st.Terms = append(st.Terms, t)
+			}
+		}
+		if len(st.Terms) == 0 || st.Validate() != nil {
+			return nil
+		}
+		s := set
+		s.Init, s.NoScan = r.Params(), true
+		next, err := Fit(p, st, s)
+		if err != nil {
+			return nil
+		}
+		r = next
+	}
+	if len(r.Degenerate(p)) > 0 {
+		return nil
+	}
+	return r
+}

@@ -368,7 +368,9 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 				s := fitSet
 				s.Init = rf.init
 				s.NoScan = true
-				rf.res, _ = Fit(p, rf.st, s)
+				if r, err := Fit(p, rf.st, s); err == nil {
+					rf.res = withoutDegenerate(p, r, s)
+				}
 			})
 		}
 		pl.run(jobs)

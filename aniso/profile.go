@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"sync"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -30,11 +29,9 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		}
 	}
 	out := make([]AngleProfile, len(idx))
-	var wg sync.WaitGroup
+	jobs := make([]func(), len(idx))
 	for j, i := range idx {
-		wg.Add(1)
-		go func(j, i int) {
-			defer wg.Done()
+		jobs[j] = func() {
 			pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
 			if r.Structure.Planar {
 				// Profiles of a dispersed family re-optimise at every grid
@@ -45,9 +42,9 @@ func (r *Result) profiles(p *Problem, set Settings) {
 				pe.lossOffset = pe.eval(r.theta, false) - r.Loss
 			}
 			out[j] = r.profileOne(pe, p, i, set, fq)
-		}(j, i)
+		}
 	}
-	wg.Wait()
+	(&pool{n: len(jobs)}).run(jobs)
 	r.Profiles = append(r.Profiles, out...)
 	// Leave the fit's engine at the optimum.
 	e.eval(r.theta, true)

@@ -128,162 +128,189 @@ func rankAdditions(full *Result, params map[string]float64, base Structure, n in
 // the full fit's design terms at its angles and shape parameters, using
 // non-negative least squares on the cross products. Subsets must keep a
 // fibre term in every family of the layout, and every weight of a kept
-// subset must be positive (otherwise it is a smaller subset).
+// subset must be positive (otherwise it is a smaller subset). Losses equal
+// within TieTolerance keep the enumeration's order, which is catalogue
+// order.
 func searchSubsets(full *Result, theta []float64, K, keep, limit int) ([][]subset, string) {
 	e := full.e
 	e.eval(theta, false)
-	n := e.ng
-	fams := full.Structure.Layout.Families()
+	ss := &subsetSearch{e: e, K: K, keep: keep, n: e.ng, best: make([][]subset, K+1),
+		subG: make([]float64, K*K), subB: make([]float64, K)}
+	ss.fams = full.Structure.Layout.Families()
 	if full.Structure.Layout == LayoutMirror {
-		fams = 1
+		ss.fams = 1
 	}
-	familyOf := make([]int, n)
+	ss.familyOf = make([]int, ss.n)
 	for g, t := range full.Structure.Terms {
-		familyOf[g] = t.Family
+		ss.familyOf[g] = t.Family
 	}
-	yy := 0.0
 	for _, y := range e.p.Target {
-		yy += y * y
-	}
-	var q nnls
-	subG := make([]float64, K*K)
-	subB := make([]float64, K)
-	lossOf := func(set []int) (float64, bool) {
-		m := len(set)
-		for a, i := range set {
-			if !e.allowed[i] {
-				return math.Inf(1), false
-			}
-			subB[a] = e.b[i]
-			for b, j := range set {
-				subG[a*m+b] = e.G[i*n+j]
-			}
-		}
-		w := q.solve(subG[:m*m], subB[:m], m, nil)
-		l := yy
-		for a := 0; a < m; a++ {
-			if w[a] <= 0 {
-				return 0, false
-			}
-			l -= 2 * w[a] * subB[a]
-			for b := 0; b < m; b++ {
-				l += w[a] * subG[a*m+b] * w[b]
-			}
-		}
-		return math.Max(l, 0), true
-	}
-	valid := func(set []int) bool {
-		for f := 0; f < fams; f++ {
-			ok := false
-			for _, i := range set {
-				if familyOf[i] == f {
-					ok = true
-				}
-			}
-			if !ok {
-				return false
-			}
-		}
-		return true
-	}
-	best := make([][]subset, K+1)
-	consider := func(set []int, l float64) {
-		k := len(set)
-		lst := best[k]
-		if len(lst) == keep && l >= lst[len(lst)-1].loss {
-			return
-		}
-		lst = append(lst, subset{terms: append([]int(nil), set...), loss: l})
-		sort.SliceStable(lst, func(a, b int) bool { return lst[a].loss < lst[b].loss })
-		if len(lst) > keep {
-			lst = lst[:keep]
-		}
-		best[k] = lst
+		ss.yy += y * y
 	}
 	total := 0
-	for k := 1; k <= K && k <= n; k++ {
-		total += binomial(n, k)
+	for k := 1; k <= K && k <= ss.n; k++ {
+		total += binomial(ss.n, k)
 	}
-	how := ""
 	if total <= limit {
-		count := 0
-		set := make([]int, 0, K)
-		var rec func(from int)
-		rec = func(from int) {
-			if len(set) > 0 && valid(set) {
-				count++
-				if l, ok := lossOf(set); ok {
-					consider(set, l)
-				}
-			}
-			if len(set) == K {
-				return
-			}
-			for i := from; i < n; i++ {
-				set = append(set, i)
-				rec(i + 1)
-				set = set[:len(set)-1]
-			}
-		}
-		rec(0)
-		how = fmt.Sprintf("exhaustive search of %d term subsets of %d candidates (sizes 1–%d)", count, n, K)
-	} else {
-		// Forward selection with swaps: grow the best set of size k−1 by
-		// the best addition, then swap members for non-members while the
-		// loss falls.
-		cur := []int{}
-		evals := 0
-		for k := 1; k <= K && k <= n; k++ {
-			bestL, bestSet := math.Inf(1), []int(nil)
-			for i := 0; i < n; i++ {
-				if containsInt(cur, i) {
-					continue
-				}
-				s := append(append([]int(nil), cur...), i)
-				evals++
-				if l, ok := lossOf(s); ok && valid(s) && l < bestL {
-					bestL, bestSet = l, s
-				}
-			}
-			if bestSet == nil {
-				// No valid growth alone (families need terms): add the term
-				// with the best loss regardless of validity and continue.
-				for i := 0; i < n; i++ {
-					if !containsInt(cur, i) {
-						s := append(append([]int(nil), cur...), i)
-						if l, ok := lossOf(s); ok && l < bestL {
-							bestL, bestSet = l, s
-						}
-					}
-				}
-				if bestSet == nil {
-					break
-				}
-				cur = bestSet
-				continue
-			}
-			for improved := true; improved; {
-				improved = false
-				for a := range bestSet {
-					for i := 0; i < n; i++ {
-						if containsInt(bestSet, i) {
-							continue
-						}
-						s := append([]int(nil), bestSet...)
-						s[a] = i
-						evals++
-						if l, ok := lossOf(s); ok && valid(s) && l < bestL*(1-1e-12) {
-							bestL, bestSet, improved = l, s, true
-						}
-					}
-				}
-			}
-			consider(bestSet, bestL)
-			cur = bestSet
-		}
-		how = fmt.Sprintf("forward selection with swaps over %d candidates (%d subsets evaluated; %d would be needed exhaustively)", n, evals, total)
+		count := ss.exhaustive()
+		return ss.best[1:], fmt.Sprintf("exhaustive search of %d term subsets of %d candidates (sizes 1–%d)", count, ss.n, K)
 	}
-	return best[1:], how
+	evals := ss.forward()
+	return ss.best[1:], fmt.Sprintf("forward selection with swaps over %d candidates (%d subsets evaluated; %d would be needed exhaustively)", ss.n, evals, total)
+}
+
+// subsetSearch holds the cross products of a full fit and the best subsets
+// found so far.
+type subsetSearch struct {
+	e          *engine
+	K, keep, n int
+	fams       int
+	familyOf   []int
+	yy         float64
+	q          nnls
+	subG, subB []float64
+	best       [][]subset
+}
+
+// lossOf returns the non-negative least-squares loss of a subset; ok is
+// false when a column is unusable or a weight is not positive.
+func (ss *subsetSearch) lossOf(set []int) (float64, bool) {
+	e, m := ss.e, len(set)
+	for a, i := range set {
+		if !e.allowed[i] {
+			return math.Inf(1), false
+		}
+		ss.subB[a] = e.b[i]
+		for b, j := range set {
+			ss.subG[a*m+b] = e.G[i*ss.n+j]
+		}
+	}
+	w := ss.q.solve(ss.subG[:m*m], ss.subB[:m], m, nil)
+	l := ss.yy
+	for a := 0; a < m; a++ {
+		if w[a] <= 0 {
+			return 0, false
+		}
+		l -= 2 * w[a] * ss.subB[a]
+		for b := 0; b < m; b++ {
+			l += w[a] * ss.subG[a*m+b] * w[b]
+		}
+	}
+	return math.Max(l, 0), true
+}
+
+// valid reports whether every family of the layout keeps a term.
+func (ss *subsetSearch) valid(set []int) bool {
+	for f := 0; f < ss.fams; f++ {
+		ok := false
+		for _, i := range set {
+			if ss.familyOf[i] == f {
+				ok = true
+			}
+		}
+		if !ok {
+			return false
+		}
+	}
+	return true
+}
+
+// consider keeps set among the best of its size.
+func (ss *subsetSearch) consider(set []int, l float64) {
+	k := len(set)
+	lst := ss.best[k]
+	if len(lst) == ss.keep && !less(l, lst[len(lst)-1].loss) {
+		return
+	}
+	lst = append(lst, subset{terms: append([]int(nil), set...), loss: l})
+	sort.SliceStable(lst, func(a, b int) bool { return less(lst[a].loss, lst[b].loss) })
+	if len(lst) > ss.keep {
+		lst = lst[:ss.keep]
+	}
+	ss.best[k] = lst
+}
+
+// exhaustive visits every subset of up to K terms and returns how many
+// valid ones it scored.
+func (ss *subsetSearch) exhaustive() int {
+	count := 0
+	set := make([]int, 0, ss.K)
+	var rec func(from int)
+	rec = func(from int) {
+		if len(set) > 0 && ss.valid(set) {
+			count++
+			if l, ok := ss.lossOf(set); ok {
+				ss.consider(set, l)
+			}
+		}
+		if len(set) == ss.K {
+			return
+		}
+		for i := from; i < ss.n; i++ {
+			set = append(set, i)
+			rec(i + 1)
+			set = set[:len(set)-1]
+		}
+	}
+	rec(0)
+	return count
+}
+
+// forward grows the best set of size k−1 by the best addition, then swaps
+// members for non-members while the loss falls; it returns how many
+// subsets it scored.
+func (ss *subsetSearch) forward() int {
+	cur := []int{}
+	evals := 0
+	for k := 1; k <= ss.K && k <= ss.n; k++ {
+		bestL, bestSet := ss.bestAddition(cur, true, &evals)
+		if bestSet == nil {
+			// No valid growth alone (families need terms): add the term
+			// with the best loss regardless of validity and continue.
+			_, bestSet = ss.bestAddition(cur, false, &evals)
+			if bestSet == nil {
+				break
+			}
+			cur = bestSet
+			continue
+		}
+		for improved := true; improved; {
+			improved = false
+			for a := range bestSet {
+				for i := 0; i < ss.n; i++ {
+					if containsInt(bestSet, i) {
+						continue
+					}
+					s := append([]int(nil), bestSet...)
+					s[a] = i
+					evals++
+					if l, ok := ss.lossOf(s); ok && ss.valid(s) && l < bestL*(1-1e-12) {
+						bestL, bestSet, improved = l, s, true
+					}
+				}
+			}
+		}
+		ss.consider(bestSet, bestL)
+		cur = bestSet
+	}
+	return evals
+}
+
+// bestAddition returns cur plus the term that lowers the loss most (only
+// valid subsets when mustBeValid), or nil.
+func (ss *subsetSearch) bestAddition(cur []int, mustBeValid bool, evals *int) (float64, []int) {
+	bestL, bestSet := math.Inf(1), []int(nil)
+	for i := 0; i < ss.n; i++ {
+		if containsInt(cur, i) {
+			continue
+		}
+		s := append(append([]int(nil), cur...), i)
+		*evals++
+		if l, ok := ss.lossOf(s); ok && (!mustBeValid || ss.valid(s)) && l < bestL {
+			bestL, bestSet = l, s
+		}
+	}
+	return bestL, bestSet
 }
 
 func binomial(n, k int) int {

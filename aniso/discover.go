@@ -167,6 +167,7 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 		return nil, err
 	}
 	s.comparePresets()
+	s.candidateMetrics()
 	s.crossValidate()
 	s.d.decide(s.p)
 	s.polish()
@@ -233,6 +234,7 @@ func newSearch(all *Problem, set DiscoverSettings) (*search, error) {
 		d: &Discovery{Points: all.Data.Points(), SearchPoints: p.Data.Points()}}
 	s.fitSet = set.Fit
 	s.fitSet.Profile = false
+	s.fitSet.noMetrics = true
 	if s.fitSet.Tolerance == 0 {
 		// Comparing models needs their losses to a few digits, not ten;
 		// the chosen model is polished at the default (polish), with the
@@ -490,6 +492,18 @@ func (s *search) comparePresets() {
 		}
 		r := res[i]
 		s.d.Presets = append(s.d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
+	}
+}
+
+// candidateMetrics fills the fit quality of the kept candidates and the
+// presets (the search's refits skip it).
+func (s *search) candidateMetrics() {
+	for _, cs := range [][]Candidate{s.d.Pareto, s.d.Presets} {
+		for i := range cs {
+			if r := cs[i].Result; r.Metrics == nil {
+				r.metrics(s.p)
+			}
+		}
 	}
 }
 

@@ -48,6 +48,9 @@ type engine struct {
 	// tol is the relative loss decrease below which minimize stops (two
 	// steps in a row); 0 means 1e-10.
 	tol float64
+	// at is the θ of the last evaluation (the state e.A, e.w and e.r
+	// describe).
+	at []float64
 	// lossOffset is subtracted from every loss: a profile that integrates
 	// dispersion with the search rule shifts its losses by the rule's error
 	// at the optimum, so that they compare with the fit's (see profiles).
@@ -184,6 +187,7 @@ func (e *engine) apply(theta []float64) {
 // unprojected derivative vectors ∂(A w)/∂θ_i. It returns the loss, +Inf when
 // a column overflows.
 func (e *engine) eval(theta []float64, derivs bool) float64 {
+	e.at = append(e.at[:0], theta...)
 	e.apply(theta)
 	for g, members := range e.groups {
 		for _, k := range members {

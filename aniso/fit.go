@@ -41,6 +41,10 @@ type Settings struct {
 	// directions), for fits that are only compared with each other; the
 	// model finally reported is refitted without it.
 	SearchQuadrature bool
+
+	// noMetrics leaves Result.Metrics empty (a search computes them for
+	// the candidates it keeps only).
+	noMetrics bool
 	// Tolerance stops a local refinement once two accepted steps in a row
 	// lower the loss by less than this fraction of it (default 1e-10).
 	// Searches that only compare models use a looser one; the reported
@@ -167,7 +171,7 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 		}
 	}
 	set = set.withDefaults(nAngles, st.Planar)
-	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear, held: held}
+	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear, held: held, noMetrics: set.noMetrics}
 
 	var starts [][]float64
 	if set.Init != nil {
@@ -282,7 +286,9 @@ func (r *Result) settle(p *Problem, e *engine, theta []float64) {
 	r.Estimates, r.Correlation, r.CorrelationNames, r.Flags, r.Combinations = nil, nil, nil, nil, nil
 	r.FreeParams, r.Complexity, r.Metrics, r.Notes, r.Profiles = 0, 0, nil, nil, nil
 	r.uncertainty(p)
-	r.metrics(p)
+	if !r.noMetrics {
+		r.metrics(p)
+	}
 	r.notes(p)
 	r.greenNotes(p, r.held)
 }

@@ -137,6 +137,8 @@ type Result struct {
 	// alternates are the refined θ of the other starts with their losses,
 	// best first (other local minima, used as anchors by discovery).
 	alternates [][]float64
+	// noMetrics: Metrics are filled on demand (see Settings.noMetrics).
+	noMetrics bool
 	// held are the shape parameters held at 0 for want of shear strain
 	// (see heldShear).
 	held []heldParam

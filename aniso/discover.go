@@ -316,13 +316,19 @@ func (s *search) refitSubsets() {
 		}
 		full := s.full[i]
 		anchors := full.alternates
+		keep := s.set.RefitPerSize
+		if f.Planar {
+			// A dispersed form's fits cost an angular integration per
+			// point: one anchor, the best subset of each size.
+			anchors, keep = anchors[:min(len(anchors), 1)], 1
+		}
 		if len(anchors) > maxAnchors {
 			anchors = anchors[:maxAnchors]
 		}
 		seen := map[string]bool{}
 		var how string
 		for ai, th := range anchors {
-			best, h := searchSubsets(full, th, s.set.MaxTerms, s.set.RefitPerSize, s.set.ExhaustiveLimit)
+			best, h := searchSubsets(full, th, s.set.MaxTerms, keep, s.set.ExhaustiveLimit)
 			if ai == 0 {
 				how = h
 			}

@@ -379,3 +379,17 @@ func TestFitLinearOnly(t *testing.T) {
 		t.Errorf("weight %.12g, closed-form least squares %.12g", res.Weights[0], num/den)
 	}
 }
+
+// BenchmarkDiscoverOneFamily is the full default discovery of the same
+// specimen as BenchmarkGeneralPurposeOneFamily (5 × 100 points; the search
+// uses 60 per protocol), on all cores: the README reports the ratio of the
+// two, discovery over one classical fit of a fixed model.
+func BenchmarkDiscoverOneFamily(b *testing.B) {
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 20, Params: []float64{5}}, 40)
+	p := benchProblem(b, truth)
+	for i := 0; i < b.N; i++ {
+		if _, err := Discover(p, DiscoverSettings{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

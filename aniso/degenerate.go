@@ -211,11 +211,11 @@ func (r *Result) groupContributions(p *Problem) (func(g, row int) float64, bool)
 		}
 		rows := e.rows
 		return func(g, row int) float64 {
-			rw := p.RowWeight[row]
+			rw := p.Data.rowWeight[row] // canonical: e.w is in units of p.Scale
 			if rw == 0 {
 				return 0
 			}
-			return mul0(e.w[g], e.A[g*rows+row]) / rw
+			return mul0(e.w[g], e.A[g*rows+row]) / rw * p.Scale
 		}, true
 	}
 	c, err := unweightedColumns(p, r.Model)

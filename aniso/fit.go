@@ -265,9 +265,9 @@ func (r *Result) settle(p *Problem, e *engine, theta []float64) {
 	r.Model = cloneModelDeep(e.model)
 	r.Weights = make([]float64, len(r.Structure.Terms))
 	for g, members := range e.groups {
-		r.Weights[g] = e.w[g]
+		r.Weights[g] = e.w[g] * p.Scale
 		for _, k := range members {
-			r.Model.Terms[k].Weight = e.w[g]
+			r.Model.Terms[k].Weight = r.Weights[g]
 		}
 	}
 	for f := range r.Model.Families {

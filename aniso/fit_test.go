@@ -368,10 +368,22 @@ func TestFitLinearOnly(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// The closed form on the physical rows: a = RowWeight × column.
+	w := make([]float64, len(p.RowWeight))
+	copy(w, p.RowWeight)
+	F := make([][4]float64, p.Data.Points())
+	for i := range F {
+		F[i] = p.Data.Kinematics(i).F
+	}
+	d, err := NewDataset(F, p.Output, w)
+	if err != nil {
+		t.Fatal(err)
+	}
 	var c Columns
-	p.Data.Fill(res.Model, &c, false)
+	d.Fill(res.Model, &c, false)
 	num, den := 0.0, 0.0
-	for r, y := range p.Target {
+	for r, m := range p.Measured {
+		y := p.RowWeight[r] * m
 		num += c.A[r] * y
 		den += c.A[r] * c.A[r]
 	}

@@ -117,8 +117,12 @@ func (r *Result) uncertainty(p *Problem) {
 	unit := make([]float64, k)
 	for a, c := range cols {
 		unit[a] = 1
-		if r.Estimates[c.est].Kind == "angle" {
+		switch r.Estimates[c.est].Kind {
+		case "angle":
 			unit[a] = 180 / math.Pi
+		case "weight":
+			// The fitter's weights are in units of p.Scale (Problem.Scale).
+			unit[a] = p.Scale
 		}
 	}
 	for a := 0; a < k; a++ {
@@ -137,7 +141,7 @@ func (r *Result) initEstimates(p *Problem) []jcol {
 	e := r.e
 	var cols []jcol
 	for g, t := range r.Structure.Terms {
-		est := Estimate{Name: "weight[" + t.Label(r.Structure.Layout) + "]", Kind: "weight", Term: g, Value: e.w[g], Unit: p.Specimen.StressUnit,
+		est := Estimate{Name: "weight[" + t.Label(r.Structure.Layout) + "]", Kind: "weight", Term: g, Value: e.w[g] * p.Scale, Unit: p.Specimen.StressUnit,
 			StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: StatusEstimated}
 		if e.w[g] <= 0 {
 			est.Status = StatusInactive

@@ -148,4 +148,3 @@ func bruteForce(t *testing.T, s *biaxial.Specimen, p *Problem, r *Result, ts Tes
 	}
 	return ratios, gain
 }
-

@@ -39,7 +39,7 @@ const (
 	// planned test settles a question: a separation of √25 = 5 noise
 	// standard deviations between the weakest pair of explanations, an
 	// expected log-likelihood ratio of D/2 = 12.5 in favour of the true one.
-	SettleLevel = 25
+	SettleLevel = 25.0
 	// InformationMargin is how much larger (in nats of log det) the
 	// information gain of a planned test that settles no verdict question
 	// must be than that of one that does for it to rank above it: ln 10, a
@@ -180,6 +180,9 @@ type Design struct {
 	Points      int
 	// Notes say what was left out and why.
 	Notes []string
+
+	// d scores further predictions along the planned tests (Along).
+	d *designer
 }
 
 // designer holds what every planned test is scored against.
@@ -229,7 +232,7 @@ func PlanTests(p *Problem, r *Result, qs []Question, set DesignSettings) (*Desig
 	}
 	d.sigma = math.Sqrt(r.Loss / float64(r.Rows-r.FreeParams))
 	d.testedRanges()
-	out := &Design{Noise: d.sigma, Questions: qs, PeakStretch: d.lamHi}
+	out := &Design{Noise: d.sigma, Questions: qs, PeakStretch: d.lamHi, d: d}
 	for _, j := range d.est {
 		out.Parameters = append(out.Parameters, r.Estimates[j].Name)
 	}

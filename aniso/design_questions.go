@@ -16,8 +16,9 @@ type Explanation struct {
 // Question is a choice between explanations that the current data cannot
 // make, which a planned test may settle (see PlanTests).
 type Question struct {
-	// Text says what is to be decided, with the explanations in words.
-	Text string
+	// Topic names what is to be decided in a few words ("fibre layout");
+	// Text says it in full, with the explanations.
+	Topic, Text string
 	// Verdict is true for what the fibre-family verdict left open: the
 	// sign of a fibre angle, one family or a mirror pair (package
 	// documentation, Mirror symmetry), or an undecided family count. False
@@ -128,7 +129,7 @@ func LayoutQuestion(m *Model, signKnown bool) (Question, bool) {
 			{Name: "one family at " + signedDeg(-a), Model: minus},
 			{Name: fmt.Sprintf("a mirror pair at ±%.1f° (half the weight on each)", Deg(a)), Model: mirrorPairOf(m, a)},
 		}
-		q.Text = "fibre layout: " + explanationList(q.Explanations)
+		q.Topic = "fibre layout"
 	case mirrorLike(m):
 		b := math.Abs(wrapAngle(m.Families[0].Angle))
 		if onAxis(b) {
@@ -140,7 +141,7 @@ func LayoutQuestion(m *Model, signKnown bool) (Question, bool) {
 			{Name: "one family at " + signedDeg(b) + " (the pair's weight)", Model: plus},
 			{Name: "one family at " + signedDeg(-b) + " (the pair's weight)", Model: minus},
 		}
-		q.Text = "fibre layout: " + explanationList(q.Explanations)
+		q.Topic = "fibre layout"
 	default:
 		for _, v := range SignVariants(m) {
 			var at []string
@@ -152,13 +153,14 @@ func LayoutQuestion(m *Model, signKnown bool) (Question, bool) {
 		if len(q.Explanations) < 2 {
 			return Question{}, false
 		}
-		q.Text = "signs of the fibre angles: " + explanationList(q.Explanations)
+		q.Topic = "signs of the fibre angles"
 	}
+	q.Text = q.Topic + ": " + ExplanationList(q.Explanations)
 	return q, true
 }
 
-// explanationList joins the explanations' names: "a, b or c".
-func explanationList(es []Explanation) string {
+// ExplanationList joins the explanations' names: "a, b or c".
+func ExplanationList(es []Explanation) string {
 	var names []string
 	for _, e := range es {
 		names = append(names, e.Name)

@@ -147,3 +147,60 @@ func (d *designer) discriminate(t *PlannedTest, q *Question) (QuestionScore, err
 	qs.Settled = qs.Discrimination >= SettleLevel
 	return qs, nil
 }
+
+// Along is a model's predictions along a planned test.
+type Along struct {
+	// Path is the deformation in the tester's axes of the mounting (on
+	// sutures with the shear this model predicts).
+	Path [][4]float64
+	// Components name the stress components of the planned data ("11",
+	// "22", "12", "21"); Stress[i][j] is component j at point i in the
+	// fitted data's measure and unit, and Noise[i][j] the noise standard
+	// deviation the planning assumes for it (the fit's noise level over
+	// the row's weight).
+	Components    []string
+	Stress, Noise [][]float64
+}
+
+// Along returns the stresses model m predicts along planned test t of
+// this design, at the deformation the specimen takes if truth is the right
+// explanation (nil: m itself) — on sutures the shear depends on it. Both
+// models are in the fit's axes; the noise is that of the rows under truth.
+func (g *Design) Along(t *PlannedTest, m, truth *Model) (*Along, error) {
+	if g.d == nil {
+		return nil, fmt.Errorf("the design holds no fit")
+	}
+	if truth == nil {
+		truth = m
+	}
+	rn, err := g.d.runOf(t, truth)
+	if err != nil {
+		return nil, err
+	}
+	q := rn.q
+	pred := q.Measured
+	if m != truth {
+		if pred, err = Predict(q, turned(m, Rad(t.MountingDeg))); err != nil {
+			return nil, err
+		}
+	}
+	out := &Along{Path: rn.path}
+	for _, c := range q.Output.Components {
+		out.Components = append(out.Components, [...]string{"11", "22", "12", "21"}[c])
+	}
+	nc := len(out.Components)
+	for i := range rn.path {
+		st, ns := make([]float64, nc), make([]float64, nc)
+		for j := 0; j < nc; j++ {
+			r := i*nc + j
+			st[j] = pred[r]
+			ns[j] = math.Inf(1)
+			if w := q.RowWeight[r]; w > 0 {
+				ns[j] = g.d.sigma / w
+			}
+		}
+		out.Stress = append(out.Stress, st)
+		out.Noise = append(out.Noise, ns)
+	}
+	return out, nil
+}

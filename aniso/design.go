@@ -82,7 +82,9 @@ type DesignSettings struct {
 
 // PlannedTest is one candidate next test.
 type PlannedTest struct {
-	// Label is its strain ratio, e.g. "1:0.5".
+	// Label names its strain ratio, e.g. "1:0.5"; Ratio is the same as
+	// the target strains (λ1 − 1, λ2 − 1) of the tester's axes relative to
+	// the larger, which is 1.
 	Label string
 	Ratio [2]float64
 	// MountingDeg is ψ: the specimen cut or mounted with the tester's axis

@@ -40,8 +40,8 @@ func oneFamilyPlan(t testing.TB) (*biaxial.Specimen, *Problem, *Result, *Design)
 
 // Without shear information one family at +α, one at −α and a mirror pair
 // at ±α with half the weight each give the same normal stresses under any
-// pure biaxial stretch (package documentation, Mirror symmetry; the
-// invariants I4, I5 of ±α are equal when F12 = F21 = 0, Spencer 1971), so
+// pure biaxial stretch (package documentation, Mirror symmetry: with
+// C12 = 0, I4 = C11 cos²α + C22 sin²α is the same for ±α), so
 // no stretch ratio in the current mounting can tell them apart, while shear
 // on sutures or an off-axis mounting separates them by far more than five
 // noise standard deviations.
@@ -186,8 +186,9 @@ func TestPlanGainsMatchRefit(t *testing.T) {
 
 // Seen from tester axes turned by ψ, a model is the same model with every
 // fibre angle less ψ: its stress there equals the stress at R F Rᵀ turned
-// back, σ' = Rᵀ σ(R F' Rᵀ) R (frame indifference of the strain energy,
-// common practice; Holzapfel 2000, §6.1).
+// back, σ' = Rᵀ σ(R F' Rᵀ) R (material frame indifference of a
+// hyperelastic energy, common practice; Holzapfel 2000, ch. 6, from
+// memory).
 func TestTurnedModelIsRotatedFrame(t *testing.T) {
 	m := &Model{Families: []Family{{Name: "f1", Angle: 28 * deg}, {Name: "f2", Angle: -63 * deg, Dispersion: 0.1}}, Terms: []Term{
 		{Shape: lookup("i1-exp"), Family: -1, Weight: 3, Params: []float64{2}},

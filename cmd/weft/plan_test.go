@@ -31,7 +31,7 @@ func planJSON(t *testing.T, dir string, extra ...string) (planReport, string) {
 // shear information) leaves open whether it is one family at +30°, at −30°
 // or a mirror pair. No stretch ratio in the current mounting can tell them
 // apart (under a pure stretch ±α give the same normal stresses: package
-// aniso documentation, Mirror symmetry; Spencer 1971), so the most
+// aniso documentation, Mirror symmetry), so the most
 // discriminating test measures shear or turns the specimen, separating the
 // layouts by at least five noise standard deviations; it comes first, and
 // the files --write and --plot ask for hold its path and its plot.

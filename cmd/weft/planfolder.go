@@ -326,12 +326,23 @@ func (f *fittedFolder) undecidedQuestion() (aniso.Question, bool) {
 		return aniso.Question{}, false
 	}
 	q := aniso.Question{Verdict: true, SignUnknown: !f.result.SignKnown, Explanations: []aniso.Explanation{
-		{Name: "form " + v.Form + " as chosen (" + strings.Join(f.card.Fit.Terms, " + ") + ")", Model: f.result.Model},
+		{Name: "form " + v.Form + " as chosen (" + activeTerms(f.result) + ")", Model: f.result.Model},
 		{Name: "form " + toward + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")", Model: m},
 	}}
 	q.Topic = "fibre families (undecided verdict)"
 	q.Text = q.Topic + ": " + aniso.ExplanationList(q.Explanations)
 	return q, true
+}
+
+// activeTerms lists the labels of r's terms with a positive weight.
+func activeTerms(r *aniso.Result) string {
+	var ls []string
+	for i, t := range r.Structure.Terms {
+		if r.Weights[i] > 0 {
+			ls = append(ls, t.Label(r.Structure.Layout))
+		}
+	}
+	return strings.Join(ls, " + ")
 }
 
 // maxBandForms bounds the forms of the band question, the closest to the

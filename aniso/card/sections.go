@@ -123,6 +123,10 @@ type CandidateCard struct {
 	CVFolds    []FoldCard  `json:"cv_folds,omitempty"`
 	Chosen     bool        `json:"chosen"`
 	Weights    []WeightOut `json:"weights"`
+	// Model is the candidate's fitted model in the card's own form
+	// (CandidateModel), present for every candidate that was
+	// cross-validated: the ones the selection rule compares.
+	Model *CandidateModel `json:"model,omitempty"`
 }
 
 // WeightOut is a term's fitted weight in a candidate.
@@ -197,6 +201,7 @@ func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 		cc.MinR2 = Num(minR2)
 	}
 	if c.CV != nil {
+		cc.Model = NewCandidateModel(r.Model)
 		cc.CVMean, cc.CVStdErr = Num(c.CV.Mean), Num(c.CV.StdErr)
 		for _, f := range c.CV.Folds {
 			s, n := 0.0, 0

@@ -36,6 +36,7 @@ standards and licensed professional practice that apply.`,
 		newCheckCmd(s),
 		newEvaluateCmd(s),
 		newTermsCmd(s),
+		newPlanCmd(s),
 	)
 	root.SetIn(s.In)
 	root.SetOut(s.Out)

@@ -177,7 +177,7 @@ func runCohort(co *cohortOptions) error {
 		return err
 	}
 	sum := cohortreport.Build(in)
-	if err := writeCohort(od, co.force, members, c, sum, cards); err != nil {
+	if err := writeCohort(od, co.force, members, c, in, sum, cards); err != nil {
 		return err
 	}
 	if co.asJSON {
@@ -425,7 +425,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 
 // writeCohort writes every file of the cohort's folder and puts it in
 // place.
-func writeCohort(od *outputDir, force bool, ms []*cohortMember, c *aniso.Cohort, sum *cohortreport.Summary, cards map[string]*card.Card) error {
+func writeCohort(od *outputDir, force bool, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
 	for _, m := range ms {
 		cd, ok := cards[m.folder]
 		if !ok || m.err != nil {
@@ -465,6 +465,15 @@ func writeCohort(od *outputDir, force bool, ms []*cohortMember, c *aniso.Cohort,
 	if err := od.write("cohort.json", b); err != nil {
 		return err
 	}
+	files, err := sum.Report(in, filepath.Base(od.final), cards)
+	if err != nil {
+		return fmt.Errorf("building the cohort report: %w", err)
+	}
+	for _, f := range files {
+		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+			return err
+		}
+	}
 	return od.commit(force)
 }
 
@@ -496,7 +505,7 @@ func printCohortSummary(w io.Writer, s *cohortreport.Summary, c *aniso.Cohort, d
 	for _, cn := range s.Cautions {
 		fmt.Fprintf(w, "caution:  %s\n", cn)
 	}
-	fmt.Fprintf(w, "wrote:    %s/ (cohort.csv, cohort.json, %s, one folder per specimen) in %.1f s\n", dir, strings.Join(populationFiles(s), ", "), elapsed.Seconds())
+	fmt.Fprintf(w, "wrote:    %s/ (cohort.csv, cohort.json, %s, report.html, plots/, one folder per specimen) in %.1f s\n", dir, strings.Join(populationFiles(s), ", "), elapsed.Seconds())
 }
 
 func populationFiles(s *cohortreport.Summary) []string {

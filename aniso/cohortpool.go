@@ -14,8 +14,9 @@ import (
 // about equally; a specimen with more protocols would count more, so each
 // specimen's weights are scaled by √(mean series / its series), a series
 // being one protocol and component, which makes every specimen count the
-// same. Only specimens in the stress measure and unit of the first one are
-// pooled (the caller converts units); the others are returned as left out.
+// same. Only specimens in the stress measure and unit of most of them are
+// pooled (ties: the first one's; the caller converts units); the others
+// are returned as left out.
 // The specimens' search subsets are pooled (at most searchPoints points per
 // protocol, see subset.go), so that the cost does not grow with the
 // tester's sampling rate.
@@ -23,7 +24,7 @@ func pooledProblem(ps []*Problem, searchPoints int) (pooled *Problem, in, out []
 	if len(ps) == 0 {
 		return nil, nil, nil, fmt.Errorf("no specimens to pool")
 	}
-	kind, unit := ps[0].Specimen.Kind, ps[0].Specimen.StressUnit
+	kind, unit := majorityMeasure(ps)
 	var measured [biaxial.NumComponents]bool
 	for c := range measured {
 		measured[c] = true
@@ -77,4 +78,24 @@ func pooledProblem(ps []*Problem, searchPoints int) (pooled *Problem, in, out []
 	}
 	pooled, err = NewProblem(spec, nil)
 	return pooled, in, out, err
+}
+
+// majorityMeasure is the stress measure and unit most problems share
+// (ties: the earliest's).
+func majorityMeasure(ps []*Problem) (biaxial.StressKind, string) {
+	type measure struct {
+		kind biaxial.StressKind
+		unit string
+	}
+	count := map[measure]int{}
+	var best measure
+	n := 0
+	for _, p := range ps {
+		m := measure{p.Specimen.Kind, p.Specimen.StressUnit}
+		count[m]++
+		if count[m] > n {
+			best, n = m, count[m]
+		}
+	}
+	return best.kind, best.unit
 }

@@ -35,6 +35,9 @@ type cohortOptions struct {
 	form   fitOptions
 	asJSON bool
 	quiet  bool
+	// noSpecimenReports leaves report.html and plots/ out of each
+	// specimen's folder: drawing them costs more than fitting.
+	noSpecimenReports bool
 }
 
 func newCohortCmd(s *streams) *cobra.Command {
@@ -99,6 +102,7 @@ only within the tested range, not for clinical decisions.`,
 	fl.IntVar(&co.form.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
 	fl.BoolVar(&co.asJSON, "json", false, "print cohort.json instead of the summary")
 	fl.BoolVar(&co.quiet, "quiet", false, "no progress bar")
+	fl.BoolVar(&co.noSpecimenReports, "no-specimen-reports", false, "leave report.html and plots/ out of each specimen's folder (much faster for large cohorts; the cohort's own report is still written)")
 	cmd.RunE = func(cmd *cobra.Command, args []string) error {
 		opt, err := rf.options()
 		if err != nil {
@@ -177,7 +181,7 @@ func runCohort(co *cohortOptions) error {
 		return err
 	}
 	sum := cohortreport.Build(in)
-	if err := writeCohort(od, co.force, members, c, in, sum, cards); err != nil {
+	if err := writeCohort(od, co, members, c, in, sum, cards); err != nil {
 		return err
 	}
 	if co.asJSON {
@@ -425,7 +429,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 
 // writeCohort writes every file of the cohort's folder and puts it in
 // place.
-func writeCohort(od *outputDir, force bool, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
+func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
 	for _, m := range ms {
 		cd, ok := cards[m.folder]
 		if !ok || m.err != nil {
@@ -434,7 +438,11 @@ func writeCohort(od *outputDir, force bool, ms []*cohortMember, c *aniso.Cohort,
 		cs := c.Specimens[m.at]
 		o := &fitOutcome{spec: m.prob.Specimen, prob: m.prob, result: cs.Result, card: cd}
 		sub := subFolder{od: od, rel: m.folder}
-		if err := writeFitFiles(o, sub); err != nil {
+		write := writeFitFiles
+		if co.noSpecimenReports {
+			write = writeFitData
+		}
+		if err := write(o, sub); err != nil {
 			return err
 		}
 		if err := od.write(filepath.Join(m.folder, markerName), markerBytes(sub.files())); err != nil {
@@ -474,7 +482,34 @@ func writeCohort(od *outputDir, force bool, ms []*cohortMember, c *aniso.Cohort,
 			return err
 		}
 	}
-	return od.commit(force)
+	return od.commit(co.force)
+}
+
+// writeFitData writes what writeFitFiles writes but the report: the card,
+// the fit table and the held-out table.
+func writeFitData(o *fitOutcome, od folderSink) error {
+	b, err := o.card.Marshal()
+	if err != nil {
+		return err
+	}
+	if err := od.write("model.json", b); err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
+		return err
+	}
+	if err := od.write("fit.csv", buf.Bytes()); err != nil {
+		return err
+	}
+	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
+		buf.Reset()
+		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
+			return err
+		}
+		return od.write("heldout.csv", buf.Bytes())
+	}
+	return nil
 }
 
 // printCohortSummary prints the short human summary of a cohort.

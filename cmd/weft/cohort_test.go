@@ -138,7 +138,8 @@ func TestCohortPlanted(t *testing.T) {
 }
 
 // The same files in another order on the command line give the same
-// bytes in every output file.
+// bytes in every output file; --no-specimen-reports leaves the specimens'
+// reports out and keeps their data.
 func TestCohortOrderIndependent(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -149,7 +150,7 @@ func TestCohortOrderIndependent(t *testing.T) {
 		if err := os.MkdirAll(filepath.Dir(out), 0o755); err != nil {
 			t.Fatal(err)
 		}
-		args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--preset", "hgo"}
+		args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--preset", "hgo", "--no-specimen-reports"}
 		for _, i := range order {
 			args = append(args, sp[i].file)
 		}
@@ -164,6 +165,14 @@ func TestCohortOrderIndependent(t *testing.T) {
 	}
 	if hashes[0] != hashes[1] {
 		t.Errorf("the outputs depend on the order of the files:\n%s\n%s", hashes[0], hashes[1])
+	}
+	for _, want := range []string{"C001.weft/model.json", "C001.weft/fit.csv", "C001.weft/heldout.csv", "report.html", "cohort.json"} {
+		if !strings.Contains(hashes[0], "  "+want+"\n") {
+			t.Errorf("%s not written", want)
+		}
+	}
+	if strings.Contains(hashes[0], "C001.weft/report.html") {
+		t.Error("--no-specimen-reports wrote a specimen's report")
 	}
 }
 

@@ -51,7 +51,7 @@ func TestCohortPlanted(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := filepath.Join(dir, "cohort")
-	args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--terms", "i1-lin,fib-expsq", broken}
+	args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--terms", "i1-lin,fib-expsq", "--no-specimen-reports", broken}
 	for _, s := range sp {
 		args = append(args, s.file)
 	}
@@ -127,7 +127,7 @@ func TestCohortPlanted(t *testing.T) {
 	if got := strings.Join(head, ","); got != want {
 		t.Errorf("cohort.csv header\n%s\nwant\n%s", got, want)
 	}
-	for _, f := range []string{"report.html", "plots/parameters.svg", "plots/curves.png", "C010.weft/report.html", "C010.weft/.weft-output", ".weft-output"} {
+	for _, f := range []string{"report.html", "plots/parameters.svg", "plots/curves.png", "C010.weft/model.json", "C010.weft/.weft-output", ".weft-output"} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
 			t.Errorf("%s not written: %v", f, err)
 		}
@@ -194,7 +194,8 @@ func TestCohortNothingUsable(t *testing.T) {
 }
 
 // Discovery through the command line: the cohort's form, verdict and
-// support reach cohort.json.
+// support reach cohort.json, and each specimen's folder holds its fit
+// report as 'weft fit' writes it.
 func TestCohortDiscovered(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -213,5 +214,10 @@ func TestCohortDiscovered(t *testing.T) {
 	}
 	if v := s.Verdict; v == nil || v.Families != "1-or-mirror-pair" || v.Support.Specimens != 4 || len(v.Candidates) == 0 {
 		t.Errorf("verdict %+v", v)
+	}
+	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-01-1_1.svg", "C001.weft/heldout.csv"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Errorf("%s not written: %v", f, err)
+		}
 	}
 }

@@ -78,7 +78,7 @@ func candidateLess(a, b *Candidate) bool {
 // noiseLevel estimates the noise in held-out-error units from the lowest
 // in-sample loss: √(loss / (protocols × components)), corrected for the
 // fitted parameters.
-func (d *Discovery) noiseLevel(p *Problem) float64 {
+func (d *Discovery) noiseLevel(ev evidence) float64 {
 	best := math.Inf(1)
 	k := 0
 	for i := range d.Pareto {
@@ -86,17 +86,17 @@ func (d *Discovery) noiseLevel(p *Problem) float64 {
 			best, k = r.Loss, r.FreeParams
 		}
 	}
-	n := float64(p.Rows())
+	n := float64(ev.rows)
 	dof := math.Max(n-float64(k), 1)
-	return math.Sqrt(best * n / dof / float64(len(p.Protocols)*len(p.Output.Components)))
+	return math.Sqrt(best * n / dof / float64(ev.series))
 }
 
 // seFloor is the smallest standard error a held-out comparison may claim:
 // the sampling error of an RMS estimate from N residuals at the noise
 // level σ, σ/√(2N) (common practice for a χ² variance estimate), so that
 // identical protocols cannot make the evidence look infinitely precise.
-func seFloor(noise float64, p *Problem) float64 {
-	return noise / math.Sqrt(2*float64(p.Rows()))
+func seFloor(noise float64, ev evidence) float64 {
+	return noise / math.Sqrt(2*float64(ev.rows))
 }
 
 // compare measures how much richer beats simpler.
@@ -169,9 +169,13 @@ func (d *Discovery) formBests() []*formBest {
 
 // decide walks the forms, picks the winner and the model inside it, and
 // writes the rule and the verdict.
-func (d *Discovery) decide(p *Problem) {
-	noise := d.noiseLevel(p)
-	floor := seFloor(noise, p)
+func (d *Discovery) decide(p *Problem) { d.decideOn(problemEvidence(p)) }
+
+// decideOn is decide on the evidence ev, which a cohort pools over its
+// specimens.
+func (d *Discovery) decideOn(ev evidence) {
+	noise := d.noiseLevel(ev)
+	floor := seFloor(noise, ev)
 	bests := d.formBests()
 	var notes []string
 	win := bests[0]
@@ -194,8 +198,8 @@ func (d *Discovery) decide(p *Problem) {
 		}
 	}
 	d.Chosen = d.oneSE(win.key, floor)
-	d.ensureAdmissible(p)
-	d.Verdict = d.verdictFor(p, win, comps, open, notes)
+	d.ensureAdmissible(ev)
+	d.Verdict = d.verdictFor(ev, win, comps, open, notes)
 	d.Verdict.Noise, d.Verdict.StdErrFloor = noise, floor
 }
 
@@ -244,9 +248,9 @@ func (d *Discovery) oneSE(form string, floor float64) int {
 // ensureAdmissible keeps the pick if it is admissible where it was fitted;
 // otherwise it takes the next candidate of the same form that is (fewest
 // parameters, then lowest held-out error) and says why in the rule.
-func (d *Discovery) ensureAdmissible(p *Problem) {
+func (d *Discovery) ensureAdmissible(ev evidence) {
 	c := &d.Pareto[d.Chosen]
-	why := admissibleOnData(c.Result.Model, p)
+	why := ev.admissible(c)
 	if why == "" {
 		return
 	}
@@ -265,7 +269,7 @@ func (d *Discovery) ensureAdmissible(p *Problem) {
 		return candidateLess(ca, cb)
 	})
 	for _, i := range in {
-		if admissibleOnData(d.Pareto[i].Result.Model, p) == "" {
+		if ev.admissible(&d.Pareto[i]) == "" {
 			d.Rule += fmt.Sprintf("; %s was set aside because it is %s, inside its fitted range; the next admissible candidate of the form, %s, was taken", c.Name, why, d.Pareto[i].Name)
 			d.Chosen = i
 			return

@@ -128,7 +128,7 @@ func TestEnsureAdmissible(t *testing.T) {
 		{Name: "bad", Layout: LayoutSingle, Result: &Result{Structure: st, Model: bad, Complexity: 3}},
 		{Name: "good", Layout: LayoutSingle, Result: &Result{Structure: st, Model: good, Complexity: 4}},
 	}}
-	d.ensureAdmissible(p)
+	d.ensureAdmissible(problemEvidence(p))
 	if d.Chosen != 1 || !strings.Contains(d.Rule, "bad was set aside because it is unstable") {
 		t.Errorf("chosen %d, rule %q", d.Chosen, d.Rule)
 	}

@@ -118,7 +118,7 @@ func lookAlike(r *Result) string {
 }
 
 // verdictFor writes the verdict of the winning form.
-func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutComparison, notes []string) Verdict {
+func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutComparison, notes []string) Verdict {
 	v := Verdict{DeltaBIC: map[string]float64{}, CVError: map[string]float64{}, Comparisons: comps}
 	bests := d.formBests()
 	minBIC := math.Inf(1)
@@ -165,7 +165,7 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		v.Families = "0"
 		v.Reason = "isotropic: " + why
 	case LayoutSingle:
-		if p.HasShear {
+		if ev.hasShear {
 			v.Families = "1"
 			v.Reason = fmt.Sprintf("one fibre family at %s%s: %s", ang, spread, why)
 		} else {
@@ -177,7 +177,7 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		fs := r.Model.Families
 		same := Deg(math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))) < 1
 		switch {
-		case !p.HasShear && same:
+		case !ev.hasShear && same:
 			v.Families = "1-or-mirror-pair"
 			v.Reason = fmt.Sprintf("a mirror pair at %s%s: %s; without shear information it cannot be told from one family at that angle", ang, spread, why)
 			v.Decider = decider
@@ -189,7 +189,7 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		v.Families = "2"
 		v.Reason = fmt.Sprintf("two fibre families at %s%s: %s", ang, spread, why)
 	}
-	if !p.HasShear && r.Structure.Layout != LayoutNone && r.Structure.Layout != LayoutSingle {
+	if !ev.hasShear && r.Structure.Layout != LayoutNone && r.Structure.Layout != LayoutSingle {
 		v.Reason += "; signs of the angles are unknown without shear information"
 	}
 	if len(open) > 0 {
@@ -201,7 +201,7 @@ func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutCo
 		v.Families = "undecided"
 		v.Decider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
 	}
-	if len(p.Protocols) == 1 {
+	if ev.oneProtocol {
 		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"
 		if v.Families != "0" {
 			v.Families = "undecided"

@@ -477,6 +477,15 @@ func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
 // writeFitOutputs writes every file of the output folder and puts the
 // folder in place.
 func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
+	if err := writeFitFiles(o, od); err != nil {
+		return err
+	}
+	return od.commit(force)
+}
+
+// writeFitFiles writes the files of one specimen's output folder into od:
+// an output folder, or one specimen's folder inside a cohort's.
+func writeFitFiles(o *fitOutcome, od folderSink) error {
 	b, err := o.card.Marshal()
 	if err != nil {
 		return err
@@ -500,17 +509,14 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 			return err
 		}
 	}
-	if err := writeReportFiles(od, o); err != nil {
-		return err
-	}
-	return od.commit(force)
+	return writeReportFiles(od, o)
 }
 
 // writeReportFiles is weft fit's hook: it writes heldout.csv (the model
 // form refitted with each protocol left out, predicting it), then reads the
 // folder's files back, exactly as 'weft report' does, and writes
 // report.html and plots/ into the folder before it is committed.
-func writeReportFiles(od *outputDir, o *fitOutcome) error {
+func writeReportFiles(od folderSink, o *fitOutcome) error {
 	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
 		var buf bytes.Buffer
 		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
@@ -522,9 +528,11 @@ func writeReportFiles(od *outputDir, o *fitOutcome) error {
 	}
 	// Messages name the folder the user will see, not the temporary one.
 	named := func(err error) error {
-		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
+		tmp, final := od.dirs()
+		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), tmp, final))
 	}
-	in, err := loadReportFolder(od.tmp, biaxial.Limits{}, card.Limits{})
+	tmp, _ := od.dirs()
+	in, err := loadReportFolder(tmp, biaxial.Limits{}, card.Limits{})
 	if err != nil {
 		return named(err)
 	}

@@ -28,6 +28,7 @@ standards and licensed professional practice that apply.`,
 	})
 	root.AddCommand(
 		newFitCmd(s),
+		newCohortCmd(s),
 		newReportCmd(s),
 		newInspectCmd(s),
 		newDemoCmd(s),

@@ -531,7 +531,7 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 		lastLoss[k.form] = r.Loss
 		f := forms[k.form]
 		n := activeTerms(r)
-		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-k%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
+		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-t%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
 	}
 	if len(d.Pareto) == 0 {
 		return nil, ErrNoCandidate

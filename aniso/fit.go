@@ -213,7 +213,7 @@ func (s Settings) withDefaults(nAngles int, planar bool) Settings {
 
 // Estimate is one fitted quantity with its uncertainty.
 type Estimate struct {
-	// Name identifies it, e.g. "weight[i1-lin]", "angle", "rate[fib-expsq@f1]".
+	// Name identifies it, e.g. "weight[i1-lin]", "angle", "stiffening[fib-expsq@f1]".
 	Name string
 	// Kind is "weight", "angle", "dispersion" or "shape".
 	Kind string
@@ -481,7 +481,7 @@ func paramGrid(sh *terms.Shape) [][terms.MaxParams]float64 {
 	return out
 }
 
-// dictionary builds the rate- and dispersion-agnostic model used by the
+// dictionary builds the stiffening- and dispersion-agnostic model used by the
 // coarse angle scan: every shape parameter and κ replaced by copies on a
 // grid, all in one non-negative least-squares problem, so that a scan over
 // angles alone finds good starting points for everything.
@@ -555,7 +555,7 @@ type scanPoint struct {
 
 // Fit learns the weights, fibre angles, dispersion and shape parameters of
 // a model form from a Problem: a coarse scan of the angles over their whole
-// period with a rate- and dispersion-agnostic dictionary, then bounded
+// period with a stiffening- and dispersion-agnostic dictionary, then bounded
 // Levenberg–Marquardt refinement of the variable-projection objective from
 // the best scan minima. The same input gives the same result, bit for bit.
 func Fit(p *Problem, st Structure, set Settings) (*Result, error) {

@@ -490,6 +490,10 @@ func (c *Card) Model() (*aniso.Model, error) {
 		if t.WeightUnit != "" && t.WeightUnit != c.StressUnit {
 			return nil, errAt(p+".weight_unit", "%s differs from stress_unit %q; convert the weight", quote(t.WeightUnit), c.StressUnit)
 		}
+		if err := upgradeParamNames(sh, &c.Terms[i], p); err != nil {
+			return nil, err
+		}
+		t = c.Terms[i]
 		params := make([]float64, len(sh.Params))
 		for j, q := range sh.Params {
 			v, ok := t.Params[q.Name]
@@ -530,6 +534,33 @@ func (c *Card) Model() (*aniso.Model, error) {
 		return nil, errAt("$", "%v", err)
 	}
 	return m, nil
+}
+
+// upgradeParamNames renames, in t itself, every parameter key an older card
+// used (terms.Param.FormerName, e.g. "rate" for today's "stiffening") to
+// today's name, so that old cards read as before and a card written again
+// uses today's names. Both names at once is an error at path p.
+func upgradeParamNames(sh *terms.Shape, t *Term, p string) error {
+	for _, q := range sh.Params {
+		if q.FormerName == "" {
+			continue
+		}
+		v, old := t.Params[q.FormerName]
+		if !old {
+			continue
+		}
+		if _, now := t.Params[q.Name]; now {
+			return errAt(p+".params."+q.FormerName, "give %s only: %q is its former name", q.Name, q.FormerName)
+		}
+		params := make(map[string]float64, len(t.Params))
+		for k, x := range t.Params {
+			params[k] = x
+		}
+		delete(params, q.FormerName)
+		params[q.Name] = v
+		t.Params = params
+	}
+	return nil
 }
 
 func hasParam(s *terms.Shape, name string) bool {

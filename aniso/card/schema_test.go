@@ -395,7 +395,7 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 func TestSchemaRejectsInvalidCards(t *testing.T) {
 	s := compileSchema(t)
 	good := `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":30}],
-	 "terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]}`
+	 "terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"stiffening":1},"family":"f1"}]}`
 	if err := validate(t, s, []byte(good)); err != nil {
 		t.Fatalf("good card rejected: %v", err)
 	}
@@ -407,13 +407,13 @@ func TestSchemaRejectsInvalidCards(t *testing.T) {
 		"unknown format":        {`"weft.model/1"`, `"weft.model/9"`},
 		"unknown unit":          {`"stress_unit":"kPa"`, `"stress_unit":"psi"`},
 		"unknown term":          {`"id":"i1-lin"`, `"id":"i1-linear"`},
-		"rate out of bounds":    {`"rate":1`, `"rate":1001`},
-		"missing rate":          {`"params":{"rate":1},`, ``},
-		"extra parameter":       {`"rate":1`, `"rate":1,"limit":2`},
+		"stiffening out of bounds":    {`"stiffening":1`, `"stiffening":1001`},
+		"missing stiffening":          {`"params":{"stiffening":1},`, ``},
+		"extra parameter":       {`"stiffening":1`, `"stiffening":1,"limit":2`},
 		"fibre without family":  {`,"family":"f1"`, ``},
 		"isotropic with family": {`{"id":"i1-lin","weight":1}`, `{"id":"i1-lin","weight":1,"family":"f1"}`},
 		"dispersion above 1/3":  {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
-		"no terms":              {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]`, `"terms":[]`},
+		"no terms":              {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"stiffening":1},"family":"f1"}]`, `"terms":[]`},
 		"angle not a number":    {`"angle_deg":30`, `"angle_deg":"30"`},
 		"angle beyond a turn":   {`"angle_deg":30`, `"angle_deg":390`},
 	}

@@ -102,7 +102,8 @@ tested range, not for clinical decisions.`,
 	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder that weft wrote (never anything else)")
 	fl.StringVar(&ff.preset, "preset", "", "fit a classical preset instead of discovering (see 'weft terms')")
 	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
-	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
+	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2")
+	fl.Lookup("families").DefValue = "1 with a fibre term, else 0"
 	fl.StringVar(&ff.layout, "layout", "free", "two families for --terms: free (independent angles) or mirror (θ ± β, shared stiffness)")
 	fl.StringVar(&ff.dispersion, "dispersion", "", "how fibres spread about their mean direction: in-plane (a learned concentration, angular integration), kappa (the 3-D dispersion κ of Gasser, Ogden & Holzapfel 2006) or none; discovery tries in-plane besides ideal families unless told otherwise, --terms fits ideal families unless told otherwise")
 	fl.StringVar(&ff.pairAxis, "pair-axis", "", "axis of a mirror pair (--preset hgo or goh, or --layout mirror): axis-1 holds the pair symmetric about axis 1 at ±β, as published (the default); free learns the pair's axis θ as well")

@@ -261,7 +261,7 @@ func TestDemoMatchesTestdata(t *testing.T) {
 // on round-off, and must say it could not resolve those points.
 func TestCheckDoesNotFailOnRoundOff(t *testing.T) {
 	c := `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":30}],
-"terms":[{"id":"i1-lin","weight":3.955},{"id":"fib-expsq","weight":60.608,"params":{"rate":7.87275},"family":"f1"}]}`
+"terms":[{"id":"i1-lin","weight":3.955},{"id":"fib-expsq","weight":60.608,"params":{"stiffening":7.87275},"family":"f1"}]}`
 	out, errs, code := runWeft(t, "check", writeTemp(t, "m.json", c))
 	if code != 0 {
 		t.Fatalf("exit %d: %s\n%s", code, errs, out)

@@ -24,7 +24,7 @@ standards and licensed professional practice that apply.`,
 		SilenceErrors: true,
 	}
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return badInputf("%v (see 'weft %s --help')", err, c.Name())
+		return badInputf("%v (see '%s --help')", err, c.CommandPath())
 	})
 	root.AddCommand(
 		newFitCmd(s),

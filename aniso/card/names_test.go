@@ -2,6 +2,8 @@ package card
 
 import (
 	"bytes"
+	"encoding/json"
+	"math"
 	"strings"
 	"testing"
 )
@@ -28,5 +30,32 @@ func TestFormerParameterName(t *testing.T) {
 	both := strings.Replace(old, `{"rate": 8}`, `{"rate": 8, "stiffening": 8}`, 1)
 	if _, _, err := Parse(strings.NewReader(both), "both.json"); err == nil || !strings.Contains(err.Error(), "$.terms[1].params.rate: give stiffening only") {
 		t.Errorf("both names at once: %v", err)
+	}
+}
+
+// The selection evidence and the verdict of a card written before they
+// used the report's words read under their former keys.
+func TestFormerSelectionKeys(t *testing.T) {
+	var sel SelectionSection
+	if err := json.Unmarshal([]byte(`{"chosen": "single-k2-p4", "cv_metric": "m", "pareto": [{"name": "single-k2-p4", "cv_error": 0.0074, "cv_stderr": 0.0003, "min_r2": 0.998, "cv_folds": [{"protocol": "1:1", "error": 0.007, "r2": 0.99}]}]}`), &sel); err != nil {
+		t.Fatal(err)
+	}
+	c := sel.Pareto[0]
+	if sel.HeldoutMetric != "m" || c.HeldoutError != 0.0074 || c.HeldoutStdErr != 0.0003 || c.LowestR2 != 0.998 || len(c.HeldoutFolds) != 1 {
+		t.Errorf("former keys not read: %+v, metric %q", c, sel.HeldoutMetric)
+	}
+	var now CandidateCard
+	if err := json.Unmarshal([]byte(`{"name": "x", "heldout_error": 0.5}`), &now); err != nil {
+		t.Fatal(err)
+	}
+	if now.HeldoutError != 0.5 || !math.IsNaN(float64(now.LowestR2)) {
+		t.Errorf("today's keys: %+v", now)
+	}
+	var v VerdictSection
+	if err := json.Unmarshal([]byte(`{"families": "1", "form": "1", "cv_error": {"1": 0.007}}`), &v); err != nil {
+		t.Fatal(err)
+	}
+	if v.HeldoutError["1"] != 0.007 {
+		t.Errorf("verdict: former cv_error not read: %v", v.HeldoutError)
 	}
 }

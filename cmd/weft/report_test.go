@@ -433,7 +433,7 @@ func TestReportDemo(t *testing.T) {
 		var folds []card.FoldCard
 		for _, cc := range c.Selection.Pareto {
 			if cc.Chosen {
-				folds = cc.CVFolds
+				folds = cc.HeldoutFolds
 			}
 		}
 		if len(folds) != len(labels) {

@@ -55,7 +55,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	printParameters(w, r)
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "protocol\taxis\tR²\tNRMSE\tRMSE ["+s.StressUnit+"]")
+	fmt.Fprintln(tw, "protocol\tcomponent\tR²\tNRMSE\tRMSE ["+s.StressUnit+"]")
 	for _, m := range r.Metrics {
 		r2 := "-"
 		if m.R2Defined {
@@ -65,23 +65,25 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		if m.NRMSEDefined {
 			nr = fmt.Sprintf("%.2f%%", 100*m.NRMSE)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, m.Component, r2, nr, m.RMSE)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, componentName(s.Kind, m.Component), r2, nr, m.RMSE)
 	}
 	tw.Flush()
 	if sp := o.card.Split; sp != nil {
 		fmt.Fprintln(w)
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		head := "split\taxis"
+		head := "split\tcomponent"
 		for _, g := range sp.Groups {
 			head += "\t" + g
 		}
 		fmt.Fprintln(tw, head+"\tenergy at largest stretch")
+		noShare := false
 		for _, pp := range sp.Protocols {
 			for ci, c := range pp.Components {
-				line := pp.Protocol + "\t" + c.Component
+				line := pp.Protocol + "\t" + componentName(s.Kind, c.Component)
 				for _, g := range sp.Groups {
 					line += "\t" + num(float64(c.GroupShare[g])*100, "%.0f%%")
 				}
+				noShare = noShare || c.NoShare != ""
 				if ci == 0 {
 					var es []string
 					for _, g := range sp.Groups {
@@ -93,15 +95,21 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 			}
 		}
 		tw.Flush()
+		if noShare {
+			fmt.Fprintf(w, "          -: no share where the modelled component stays under %.0f %% of the protocol's largest normal stress; its terms' contributions cancel\n", 100*aniso.NegligibleNet)
+		}
 	}
 	if d := o.disc; d != nil {
 		fmt.Fprintln(w)
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		fmt.Fprintln(tw, "compared\tparameters\tloss\tBIC\theld-out error\tmin R²")
+		fmt.Fprintln(tw, "compared\tparameters\tloss\tBIC\theld-out error\tlowest R²")
 		row := func(c *aniso.Candidate, mark string) {
 			cv := "-"
-			if c.CV != nil {
+			switch {
+			case c.CV != nil && !math.IsInf(c.CV.Mean, 0) && !math.IsNaN(c.CV.Mean):
 				cv = fmt.Sprintf("%.4f ± %.4f", c.CV.Mean, c.CV.StdErr)
+			case c.CV != nil:
+				cv = "a fold failed"
 			}
 			minR2 := card.LowestR2(c.Result.Metrics)
 			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, c.Result.Complexity, c.Result.Loss, c.Result.BIC, cv, num(minR2, "%.4f"))
@@ -197,4 +205,13 @@ func reportFilesNote(o *fitOutcome) string {
 		return ", heldout.csv, report.html, plots/"
 	}
 	return ", report.html, plots/"
+}
+
+// componentName writes a stress component as the report does: "P11" for
+// nominal stress, "σ11" for Cauchy stress.
+func componentName(k biaxial.StressKind, comp string) string {
+	if k == biaxial.Nominal {
+		return "P" + comp
+	}
+	return "σ" + comp
 }

@@ -127,10 +127,10 @@ func reportHTML(in *Input, figs []renderedFigure, strain bool) ([]byte, error) {
 // candidateCells formats a model form of the selection evidence.
 func candidateCells(cc card.CandidateCard) []string {
 	cv := "—"
-	if m := float64(cc.CVMean); !math.IsNaN(m) {
-		cv = fnum(m, 3) + " ± " + fnum(float64(cc.CVStdErr), 2)
+	if m := float64(cc.HeldoutError); !math.IsNaN(m) {
+		cv = fnum(m, 3) + " ± " + fnum(float64(cc.HeldoutStdErr), 2)
 	}
-	return []string{cc.Name, strings.Join(cc.Terms, " + "), fmt.Sprint(cc.Parameters), fnum(float64(cc.Loss), 4), fnum(float64(cc.BIC), 6), cv, fmtR2(float64(cc.MinR2))}
+	return []string{cc.Name, strings.Join(cc.Terms, " + "), fmt.Sprint(cc.Parameters), fnum(float64(cc.Loss), 4), fnum(float64(cc.BIC), 6), cv, fmtR2(float64(cc.LowestR2))}
 }
 
 // verdictText explains a family verdict.

@@ -294,7 +294,7 @@ func (in *Input) verdictSection(v *reportView) {
 		v.VerdictTable.Head = []string{"fibre layout (best model of each)", "ΔBIC", "held-out error"}
 		for _, k := range formKeysInOrder(vd.DeltaBIC) {
 			b, okb := vd.DeltaBIC[k]
-			e, oke := vd.CVError[k]
+			e, oke := vd.HeldoutError[k]
 			if !okb && !oke {
 				continue
 			}
@@ -315,7 +315,7 @@ func (in *Input) selectionSection(v *reportView) {
 
 	if sel := in.sel; sel != nil {
 		v.HasSelection = true
-		v.Rule, v.CVMetric, v.Search = sel.Rule, sel.CVMetric, sel.Search
+		v.Rule, v.CVMetric, v.Search = sel.Rule, sel.HeldoutMetric, sel.Search
 		head := []string{"model form", "terms", "parameters", "loss", "BIC", "held-out error", "lowest R²"}
 		v.Pareto.Head = append(head, "")
 		chosenBIC := math.NaN()

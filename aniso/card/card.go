@@ -141,6 +141,11 @@ type Card struct {
 	// chosen-form fit.
 	Verdict   *VerdictSection   `json:"-"`
 	Selection *SelectionSection `json:"-"`
+	// Provenance is what made the card (key "provenance") and Setup how
+	// the specimen was set up (key "setup"); nil in cards written before
+	// them or by hand.
+	Provenance *Provenance `json:"-"`
+	Setup      *Setup      `json:"-"`
 
 	// Extra holds keys this version does not know, written back unchanged.
 	Extra map[string]json.RawMessage `json:"-"`
@@ -186,6 +191,8 @@ var sections = []section{
 	{KeySelection, func(c *Card) (any, bool) { return c.Selection, c.Selection != nil }, decodeInto(func(c *Card, v *SelectionSection) { c.Selection = v })},
 	{KeySplit, func(c *Card) (any, bool) { return c.Split, c.Split != nil }, decodeInto(func(c *Card, v *SplitSection) { c.Split = v })},
 	{KeyVerdict, func(c *Card) (any, bool) { return c.Verdict, c.Verdict != nil }, decodeInto(func(c *Card, v *VerdictSection) { c.Verdict = v })},
+	{KeyProvenance, func(c *Card) (any, bool) { return c.Provenance, c.Provenance != nil }, decodeInto(func(c *Card, v *Provenance) { c.Provenance = v })},
+	{KeySetup, func(c *Card) (any, bool) { return c.Setup, c.Setup != nil }, decodeInto(func(c *Card, v *Setup) { c.Setup = v })},
 }
 
 // SectionError returns why the fit section under key (KeyFit, KeyData, ...)

@@ -30,6 +30,7 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 	c.Fit = NewFitSection(r, s.Kind.String(), s.StressUnit)
 	c.DataRange = NewDataRange(p, r.Model)
 	c.Data = NewDataSection(s)
+	c.Setup = NewSetup(s)
 	if sp, err := aniso.Split(p, r.Model); err == nil {
 		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")
 	}

@@ -403,19 +403,19 @@ func TestSchemaRejectsInvalidCards(t *testing.T) {
 		t.Fatal(err)
 	}
 	bad := map[string][2]string{
-		"negative weight":       {`"weight":1}`, `"weight":-1}`},
-		"unknown format":        {`"weft.model/1"`, `"weft.model/9"`},
-		"unknown unit":          {`"stress_unit":"kPa"`, `"stress_unit":"psi"`},
-		"unknown term":          {`"id":"i1-lin"`, `"id":"i1-linear"`},
-		"stiffening out of bounds":    {`"stiffening":1`, `"stiffening":1001`},
-		"missing stiffening":          {`"params":{"stiffening":1},`, ``},
-		"extra parameter":       {`"stiffening":1`, `"stiffening":1,"limit":2`},
-		"fibre without family":  {`,"family":"f1"`, ``},
-		"isotropic with family": {`{"id":"i1-lin","weight":1}`, `{"id":"i1-lin","weight":1,"family":"f1"}`},
-		"dispersion above 1/3":  {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
-		"no terms":              {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"stiffening":1},"family":"f1"}]`, `"terms":[]`},
-		"angle not a number":    {`"angle_deg":30`, `"angle_deg":"30"`},
-		"angle beyond a turn":   {`"angle_deg":30`, `"angle_deg":390`},
+		"negative weight":          {`"weight":1}`, `"weight":-1}`},
+		"unknown format":           {`"weft.model/1"`, `"weft.model/9"`},
+		"unknown unit":             {`"stress_unit":"kPa"`, `"stress_unit":"psi"`},
+		"unknown term":             {`"id":"i1-lin"`, `"id":"i1-linear"`},
+		"stiffening out of bounds": {`"stiffening":1`, `"stiffening":1001`},
+		"missing stiffening":       {`"params":{"stiffening":1},`, ``},
+		"extra parameter":          {`"stiffening":1`, `"stiffening":1,"limit":2`},
+		"fibre without family":     {`,"family":"f1"`, ``},
+		"isotropic with family":    {`{"id":"i1-lin","weight":1}`, `{"id":"i1-lin","weight":1,"family":"f1"}`},
+		"dispersion above 1/3":     {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
+		"no terms":                 {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"stiffening":1},"family":"f1"}]`, `"terms":[]`},
+		"angle not a number":       {`"angle_deg":30`, `"angle_deg":"30"`},
+		"angle beyond a turn":      {`"angle_deg":30`, `"angle_deg":390`},
 	}
 	for name, r := range bad {
 		card := strings.Replace(good, r[0], r[1], 1)

@@ -112,10 +112,10 @@ type CandidateCard struct {
 	Size       int      `json:"size"`
 	// Parameters counts weights and non-linear parameters (the size used by
 	// the selection rule).
-	Parameters int         `json:"parameters"`
-	Loss       Num         `json:"loss"`
-	AICc       Num         `json:"aicc"`
-	BIC        Num         `json:"bic"`
+	Parameters int   `json:"parameters"`
+	Loss       Num   `json:"loss"`
+	AICc       Num   `json:"aicc"`
+	BIC        Num   `json:"bic"`
 	AnglesDeg  []Num `json:"angles_deg"`
 	// LowestR2 is the lowest R² over protocols and components.
 	LowestR2 Num `json:"lowest_r2"`

@@ -196,15 +196,24 @@ type fitOutcome struct {
 	card    *card.Card
 	dir     string
 	elapsed time.Duration
+	// raw is the file read with every cycle and branch, as measured, for
+	// the report's view of the record (nil when it could not be read so).
+	raw *biaxial.Specimen
+	// png asks for PNG plots beside the SVGs.
+	png bool
 }
 
 // reportFilesNote lists, for the fit summary, the files writeReportFiles
 // adds to the folder.
 func reportFilesNote(o *fitOutcome) string {
-	if len(o.prob.Protocols) > 1 {
-		return ", heldout.csv, report.html, plots/"
+	s := ", curves.csv"
+	if o.raw != nil {
+		s += ", raw.csv"
 	}
-	return ", report.html, plots/"
+	if len(o.prob.Protocols) > 1 {
+		s += ", heldout.csv"
+	}
+	return s + ", report.html, plots/"
 }
 
 // componentName writes a stress component as the report does: "P11" for

@@ -45,8 +45,9 @@ const (
 	lockTag = ".weft-lock"
 )
 
-// legacyNames are the files an output folder held before weft wrote a
-// marker; such a folder is recognised by its model card.
+// legacyNames are the files weft writes at the top of an output folder. A
+// folder without a marker (written before weft wrote markers) is
+// recognised by its model card and may hold only these and plots.
 var legacyNames = map[string]bool{"model.json": true, "fit.csv": true, "selection.csv": true,
 	"heldout.csv": true, "report.html": true, "curves.csv": true, "raw.csv": true}
 

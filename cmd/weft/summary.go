@@ -147,6 +147,12 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 func printParameters(w io.Writer, r *aniso.Result) {
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "parameter\tvalue\t95% interval\tunit\tstatus")
+	// One interval per quantity: an angle's profile-likelihood interval
+	// where it has a profile (the card keeps the Wald interval too).
+	profiles := map[string]aniso.AngleProfile{}
+	for _, p := range r.Profiles {
+		profiles[p.Name] = p
+	}
 	for _, e := range r.Estimates {
 		if e.Status == "inactive" && e.Kind != "weight" {
 			continue
@@ -155,22 +161,25 @@ func printParameters(w io.Writer, r *aniso.Result) {
 		if !math.IsNaN(e.Lo) {
 			iv = fmt.Sprintf("[%.4g, %.4g]", e.Lo, e.Hi)
 		}
+		status := e.Status
+		if p, ok := profiles[e.Name]; ok && e.Kind == "angle" {
+			switch {
+			case p.NotDetermined:
+				iv, status = "-", e.Status+" (the profile excludes no angle)"
+			default:
+				iv = fmt.Sprintf("[%.2f, %.2f]", p.LoDeg, p.HiDeg)
+				status += " (profile interval"
+				if !p.Closed {
+					status += ", open at one end"
+				}
+				status += ")"
+			}
+		}
 		val := num(e.Value, "%.5g")
 		if e.Kind == "angle" && !r.SignKnown && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
 			val = "±" + val
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, e.Status)
-	}
-	for _, p := range r.Profiles {
-		if p.NotDetermined {
-			fmt.Fprintf(tw, "%s profile\t\t-\tdeg\tnot-determined (below the 95%% threshold over the whole range)\n", p.Name)
-			continue
-		}
-		closed := ""
-		if !p.Closed {
-			closed = " (not bounded by the data at one end)"
-		}
-		fmt.Fprintf(tw, "%s profile\t\t[%.2f, %.2f]\tdeg\tprofile-likelihood 95%%%s\n", p.Name, p.LoDeg, p.HiDeg, closed)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, status)
 	}
 	tw.Flush()
 	var statuses []string

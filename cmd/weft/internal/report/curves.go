@@ -43,22 +43,6 @@ func rSquared(meas, pred []float64) float64 {
 	return 1 - ssr/sst
 }
 
-// rmse is the root-mean-square difference of predictions and
-// measurements, skipping missing predictions.
-func rmse(meas, pred []float64) float64 {
-	s, n := 0.0, 0
-	for i, v := range meas {
-		if i < len(pred) && !math.IsNaN(pred[i]) {
-			s += (pred[i] - v) * (pred[i] - v)
-			n++
-		}
-	}
-	if n == 0 {
-		return math.NaN()
-	}
-	return math.Sqrt(s / float64(n))
-}
-
 // axisCoordinate is the abscissa of a point for a stress component: for
 // the normal components the stretch of a material line along that axis,
 // λ = √C_ii (F11 when there is no shear), or the Green strain

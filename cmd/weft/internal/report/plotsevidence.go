@@ -77,7 +77,7 @@ func (in *Input) profileFigure() *figure {
 		{"95 % profile interval", bandSample(intervalFill, draw.LineStyle{})},
 		{"fitted angle", lineSample(fittedLine)},
 		{"computed points near the minimum", glyphSample(computedMark)},
-		{"quadratic through them", lineSample(quadraticLine)},
+		{"where the grid is coarser: a parabola", lineSample(quadraticLine)},
 	}
 	if mirrored {
 		legend = append(legend, legendEntry{"mirror image (sign unknown)", bandSample(mirrorFill, mirrorLine)})
@@ -87,7 +87,7 @@ func (in *Input) profileFigure() *figure {
 	f := &figure{name: "angle-profile", w: figWidth, h: vg.Length(len(profs))*rowH + lh + vg.Points(6),
 		title: "Loss profile over each fibre angle",
 		caption: "One row per angle parameter. Left: the rise of the fit's loss above its minimum when the angle is held and every other parameter refitted, in units of the rise the 95 % profile-likelihood threshold allows (log scale; the fitted angle, rise 0, sits at the bottom edge); angles under the dashed threshold (1) are not excluded by the data. " +
-			"Right: the same around the fitted angle, linear, so that interval and threshold can be read; the profile is computed on a 2° or 4° grid, so near a sharp minimum the computed points are the fitted angle and the interval's ends (bisection), joined by a quadratic on each side."}
+			"Right: the same around the fitted angle, linear, so that interval and threshold can be read; the profile is computed on a 2° or 4° grid, so near a minimum sharper than the grid the computed points are the fitted angle and the interval's ends (bisection), joined by a parabola on each side; otherwise the computed points are joined by straight lines."}
 	if mirrored {
 		f.caption += " Without shear information the sign of the angle is not determined: the profile is mirrored, and the grey band marks the equally good mirror image."
 	}
@@ -224,33 +224,76 @@ func (in *Input) profileZoom(pc card.ProfileCard) *plot.Plot {
 		clampY(p, ys)
 		return p
 	}
-	hl, hr := math.Max(opt-iv[0], 0.01), math.Max(iv[1]-opt, 0.01)
+	// An interval end that meets the fitted angle is a bound of the
+	// angle's domain (|α| ≥ 0 without shear information), not a crossing
+	// of the threshold: it gets no computed point and no parabola.
+	const tiny = 1e-6
+	left, right := opt-iv[0] > tiny, iv[1]-opt > tiny
+	hl, hr := opt-iv[0], iv[1]-opt
+	if !left {
+		hl = hr
+	}
+	if !right {
+		hr = hl
+	}
+	hl, hr = math.Max(hl, 0.01), math.Max(hr, 0.01)
 	x0, x1 := opt-2.5*hl, opt+2.5*hr
 	p.X.Min, p.X.Max = x0, x1
 	if b := vband(iv[0], iv[1], 0, 4, intervalFill); b != nil {
 		p.Add(b)
 	}
-	var qx, qy []float64
-	for k := 0; k <= 80; k++ {
-		x := x0 + (x1-x0)*float64(k)/80
-		h := hr
-		if x < opt {
-			h = hl
-		}
-		qx, qy = append(qx, x), append(qy, math.Min(((x-opt)/h)*((x-opt)/h), 4.2))
+	type pt struct{ x, y float64 }
+	pts := []pt{{opt, 0}}
+	if left {
+		pts = append(pts, pt{iv[0], 1})
 	}
-	addCurve(p, qx, qy, quadraticLine)
-	addCurve(p, []float64{x0, x1}, []float64{1, 1}, thresholdLine)
-	addCurve(p, []float64{opt, opt}, []float64{0, 4}, fittedLine)
-	cx, cy := []float64{iv[0], opt, iv[1]}, []float64{1, 0, 1}
+	if right {
+		pts = append(pts, pt{iv[1], 1})
+	}
+	grid := 0
 	for k, a := range pc.AnglesDeg {
-		if x := float64(a); x > x0 && x < x1 {
-			if r := in.rise(pc, float64(pc.Loss[k])); r <= 4 {
-				cx, cy = append(cx, x), append(cy, r)
+		if x := float64(a); x > x0 && x < x1 && math.Abs(x-opt) > tiny {
+			if r := in.rise(pc, float64(pc.Loss[k])); !bad(r) {
+				pts = append(pts, pt{x, r})
+				grid++
 			}
 		}
 	}
-	addPoints(p, cx, cy, computedMark)
+	sort.Slice(pts, func(a, b int) bool { return pts[a].x < pts[b].x })
+	var cx, cy []float64
+	for _, q := range pts {
+		cx, cy = append(cx, q.x), append(cy, q.y)
+	}
+	if grid >= 2 {
+		// The grid resolves the minimum: the computed points joined.
+		addCurve(p, cx, cy, profileLine)
+	} else {
+		// A minimum sharper than the grid: a parabola on each side
+		// through the fitted angle and that side's end.
+		var qx, qy []float64
+		for k := 0; k <= 80; k++ {
+			x := x0 + (x1-x0)*float64(k)/80
+			if x < opt && !left || x > opt && !right {
+				continue
+			}
+			h := hr
+			if x < opt {
+				h = hl
+			}
+			qx, qy = append(qx, x), append(qy, math.Min(((x-opt)/h)*((x-opt)/h), 4.2))
+		}
+		addCurve(p, qx, qy, quadraticLine)
+	}
+	addCurve(p, []float64{x0, x1}, []float64{1, 1}, thresholdLine)
+	addCurve(p, []float64{opt, opt}, []float64{0, 4}, fittedLine)
+	var mx, my []float64
+	for k := range cx {
+		if cy[k] <= 4 {
+			mx, my = append(mx, cx[k]), append(my, cy[k])
+		}
+	}
+	addPoints(p, mx, my, computedMark)
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = x0, x1, 0, 4
 	return p
 }
 
@@ -477,7 +520,7 @@ func (in *Input) paretoFigure() *figure {
 	f.draw = func(dc draw.Canvas) error {
 		drawLegend(draw.Crop(dc, vg.Points(30), 0, 0, -(dc.Size().Y-lh)), legend, 3)
 		area := draw.Crop(dc, 0, -vg.Points(6), lh+vg.Points(6), -vg.Points(6))
-		p := newPanel("", "number of parameters (markers offset sideways so that forms of one size stay apart)", "held-out error", 12, 6)
+		p := newPanel("", "number of parameters (markers offset sideways so that forms of one size stay apart)", "held-out error", 6, 6)
 		p.Y.Scale = plot.LogScale{}
 		if !(lo > 0) {
 			lo, hi = 1e-3, 1
@@ -491,7 +534,7 @@ func (in *Input) paretoFigure() *figure {
 		p.X.Min, p.X.Max = 0.4, xmax+0.6
 		var ts []plot.Tick
 		step := 1
-		for int(xmax)/step+1 > 12 {
+		for int(xmax)/step > 6 {
 			step++
 		}
 		for k := 1; k <= int(xmax); k++ {

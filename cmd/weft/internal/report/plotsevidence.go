@@ -521,30 +521,7 @@ func (in *Input) paretoFigure() *figure {
 		drawLegend(draw.Crop(dc, vg.Points(30), 0, 0, -(dc.Size().Y-lh)), legend, 3)
 		area := draw.Crop(dc, 0, -vg.Points(6), lh+vg.Points(6), -vg.Points(6))
 		p := newPanel("", "number of parameters (markers offset sideways so that forms of one size stay apart)", "held-out error", 6, 6)
-		p.Y.Scale = plot.LogScale{}
-		if !(lo > 0) {
-			lo, hi = 1e-3, 1
-		}
-		p.Y.Min, p.Y.Max = lo/1.3, hi*1.3
-		if p.Y.Max/p.Y.Min < 10 {
-			c := math.Sqrt(p.Y.Max * p.Y.Min)
-			p.Y.Min, p.Y.Max = c/3.2, c*3.2
-		}
-		p.Y.Tick.Marker = logTicks{maxLabels: 6}
-		p.X.Min, p.X.Max = 0.4, xmax+0.6
-		var ts []plot.Tick
-		step := 1
-		for int(xmax)/step > 6 {
-			step++
-		}
-		for k := 1; k <= int(xmax); k++ {
-			t := plot.Tick{Value: float64(k)}
-			if k%step == 0 || step == 1 {
-				t.Label = fmt.Sprint(k)
-			}
-			ts = append(ts, t)
-		}
-		p.X.Tick.Marker = plot.ConstantTicks(ts)
+		selectionAxes(p, lo, hi, xmax)
 		if !bad(thr) {
 			addCurve(p, []float64{p.X.Min, p.X.Max}, []float64{thr, thr}, lineStyle(okabeBlack, 0.8, 1.5, 2))
 		}
@@ -576,4 +553,34 @@ func (in *Input) paretoFigure() *figure {
 		return nil
 	}
 	return f
+}
+
+// selectionAxes sets the selection plot's axes: the held-out errors from
+// lo to hi on a log scale of at least a decade, the number of parameters
+// up to xmax with at most six labels.
+func selectionAxes(p *plot.Plot, lo, hi, xmax float64) {
+	p.Y.Scale = plot.LogScale{}
+	if !(lo > 0) {
+		lo, hi = 1e-3, 1
+	}
+	p.Y.Min, p.Y.Max = lo/1.3, hi*1.3
+	if p.Y.Max/p.Y.Min < 10 {
+		c := math.Sqrt(p.Y.Max * p.Y.Min)
+		p.Y.Min, p.Y.Max = c/3.2, c*3.2
+	}
+	p.Y.Tick.Marker = logTicks{maxLabels: 6}
+	p.X.Min, p.X.Max = 0.4, xmax+0.6
+	var ts []plot.Tick
+	step := 1
+	for int(xmax)/step > 6 {
+		step++
+	}
+	for k := 1; k <= int(xmax); k++ {
+		t := plot.Tick{Value: float64(k)}
+		if k%step == 0 || step == 1 {
+			t.Label = fmt.Sprint(k)
+		}
+		ts = append(ts, t)
+	}
+	p.X.Tick.Marker = plot.ConstantTicks(ts)
 }

@@ -113,8 +113,20 @@ func passWord(ok bool) string {
 // component (none where the component carries no net load), each term's
 // share, and the energy split at each protocol's largest deformation.
 func (in *Input) splitSection(v *reportView) {
-	t := in.table
 	v.SplitFigure = v.fig("load-share")
+	in.takeoverTable(v)
+	sp := in.split
+	if sp == nil {
+		return
+	}
+	in.sharesTable(v)
+	in.energyColumns(v)
+}
+
+// takeoverTable writes, per protocol and axis, where the fibres take over
+// half of the load.
+func (in *Input) takeoverTable(v *reportView) {
+	t := in.table
 	groups := t.groupsOf()
 	if len(groups) >= 2 && t.hasNormal() {
 		v.Takeover = htmlTable{Head: []string{"protocol"}, Num: []bool{false}}
@@ -132,10 +144,12 @@ func (in *Input) splitSection(v *reportView) {
 			v.Takeover.Rows = append(v.Takeover.Rows, htmlRow{Cells: cells})
 		}
 	}
-	sp := in.split
-	if sp == nil {
-		return
-	}
+}
+
+// sharesTable writes each group's and term's share per protocol and
+// component, none where the component carries no net load.
+func (in *Input) sharesTable(v *reportView) {
+	t, sp := in.table, in.split
 	v.SplitMeasure = sp.Measure
 	v.Shares = htmlTable{Head: []string{"protocol", "component"}, Num: []bool{false, false}}
 	for _, g := range sp.Groups {
@@ -211,8 +225,12 @@ func (in *Input) splitSection(v *reportView) {
 		v.SharesNote = fmt.Sprintf("%s: the modelled stress stays under %.0f %% of the protocol's largest normal stress (here at most %s %s) while the terms carry stresses that cancel, so a share of their magnitudes would describe nothing the component carries.",
 			which, 100*aniso.NegligibleNet, fsig(noShare, 2), t.unit)
 	}
-	// The energy split at each protocol's largest deformation joins the
-	// take-over table, one row per protocol.
+}
+
+// energyColumns adds the energy split at each protocol's largest
+// deformation to the take-over table, one row per protocol.
+func (in *Input) energyColumns(v *reportView) {
+	sp := in.split
 	if len(v.Takeover.Rows) != len(sp.Protocols) {
 		v.Takeover = htmlTable{Head: []string{"protocol"}, Num: []bool{false}}
 		for _, pp := range sp.Protocols {

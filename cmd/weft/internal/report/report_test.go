@@ -220,3 +220,19 @@ func TestCurvePath(t *testing.T) {
 		t.Errorf("long: %d points from %v to %v", len(p), p[0], p[len(p)-1])
 	}
 }
+
+// A long series is drawn every k-th point, its ends kept; a short one
+// whole.
+func TestThinned(t *testing.T) {
+	xs := make([]float64, 1001)
+	for i := range xs {
+		xs[i] = float64(i)
+	}
+	ox, oy := thinned(xs, xs)
+	if len(ox) > maxMarkers+1 || ox[0] != 0 || ox[len(ox)-1] != 1000 || len(oy) != len(ox) {
+		t.Errorf("%d points from %g to %g", len(ox), ox[0], ox[len(ox)-1])
+	}
+	if s, _ := thinned(xs[:40], xs[:40]); len(s) != 40 {
+		t.Errorf("a short series lost points: %d", len(s))
+	}
+}

@@ -305,7 +305,7 @@ func (in *Input) fitGridFigure(strain bool) *figure {
 	if in.heldout != nil {
 		caption += " Dashed, on top: the held-out prediction of the model form refitted without this protocol; where it covers the solid line the protocol is predicted as well as it is fitted."
 	}
-	return tiledFigure("fit-all", fmt.Sprintf("Measured and modelled %s stress, every protocol", kindName(t.kind)), caption, n, tileHeight(n),
+	return tiledFigure("fit-all", fmt.Sprintf("Measured and modelled %s stress, every protocol", kindName(t.kind)), capitalise(caption), n, tileHeight(n),
 		func(i int) *plot.Plot {
 			return in.fitPanel(t.protocols[i], false, strain, in.r2Title(t.protocols[i], false))
 		},

@@ -468,7 +468,7 @@ func (s *search) paretoFront() error {
 		lastLoss[k.form] = r.Loss
 		f := s.forms[k.form]
 		n := activeTerms(r)
-		s.d.Pareto = append(s.d.Pareto, Candidate{Name: fmt.Sprintf("%s-k%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
+		s.d.Pareto = append(s.d.Pareto, Candidate{Name: fmt.Sprintf("%s-t%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
 	}
 	if len(s.d.Pareto) == 0 {
 		return ErrNoCandidate

@@ -37,7 +37,7 @@ type engine struct {
 	loss     float64
 	feasible bool
 	// skipOverflow drops overflowing columns instead of making the whole
-	// evaluation infeasible (for dictionary scans, where some grid rates
+	// evaluation infeasible (for dictionary scans, where some grid stiffening values
 	// are bound to overflow at large stretch).
 	skipOverflow bool
 	// static marks design groups whose columns cannot change between
@@ -70,7 +70,7 @@ const (
 // param is one non-linear parameter of a model form.
 type param struct {
 	Kind paramKind
-	// Name is shown in results, e.g. "angle", "half_angle", "rate[fib-expsq]".
+	// Name is shown in results, e.g. "angle", "half_angle", "stiffening[fib-expsq]".
 	Name string
 	// Angle is the structural angle index (0 or 1) for kindAngle.
 	Angle int

@@ -153,7 +153,7 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 
 // Fit learns the weights, fibre angles, dispersion and shape parameters of
 // a model form from a Problem: a coarse scan of the angles over their whole
-// period with a rate- and dispersion-agnostic dictionary, then bounded
+// period with a stiffening- and dispersion-agnostic dictionary, then bounded
 // Levenberg–Marquardt refinement of the variable-projection objective from
 // the best scan minima. The same input gives the same result, bit for bit.
 func Fit(p *Problem, st Structure, set Settings) (*Result, error) {

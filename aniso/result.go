@@ -10,7 +10,7 @@ import (
 
 // Estimate is one fitted quantity with its uncertainty.
 type Estimate struct {
-	// Name identifies it, e.g. "weight[i1-lin]", "angle", "rate[fib-expsq@f1]".
+	// Name identifies it, e.g. "weight[i1-lin]", "angle", "stiffening[fib-expsq@f1]".
 	Name string
 	// Kind is "weight", "angle", "dispersion" or "shape".
 	Kind string

@@ -52,7 +52,7 @@ func paramGrid(sh *terms.Shape) [][terms.MaxParams]float64 {
 	return out
 }
 
-// dictionary builds the rate- and dispersion-agnostic model used by the
+// dictionary builds the stiffening- and dispersion-agnostic model used by the
 // coarse angle scan: every shape parameter and κ replaced by copies on a
 // grid, all in one non-negative least-squares problem, so that a scan over
 // angles alone finds good starting points for everything.

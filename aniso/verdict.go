@@ -18,9 +18,9 @@ type Verdict struct {
 	// DeltaBIC is each form's best BIC minus the best over forms, keyed by
 	// FormKey ("0", "1", "1+dispersed", "2-mirror", "2-free", ...).
 	DeltaBIC map[string]float64
-	// CVError is each form's best held-out error, same keys; empty
+	// HeldoutError is each form's best held-out error, same keys; empty
 	// without cross-validation.
-	CVError map[string]float64
+	HeldoutError map[string]float64
 	// Comparisons are the steps of the walk from the simplest form to the
 	// richest (see select.go).
 	Comparisons []LayoutComparison
@@ -119,7 +119,7 @@ func lookAlike(r *Result) string {
 
 // verdictFor writes the verdict of the winning form.
 func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutComparison, notes []string) Verdict {
-	v := Verdict{DeltaBIC: map[string]float64{}, CVError: map[string]float64{}, Comparisons: comps}
+	v := Verdict{DeltaBIC: map[string]float64{}, HeldoutError: map[string]float64{}, Comparisons: comps}
 	bests := d.formBests()
 	minBIC := math.Inf(1)
 	for _, fb := range bests {
@@ -130,7 +130,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		byKey[fb.key] = fb
 		v.DeltaBIC[fb.key] = fb.c.Result.BIC - minBIC
 		if fb.c.CV != nil {
-			v.CVError[fb.key] = fb.c.CV.Mean
+			v.HeldoutError[fb.key] = fb.c.CV.Mean
 		}
 	}
 	for _, lc := range comps {

@@ -94,7 +94,7 @@ func TestCohortPlanted(t *testing.T) {
 	}{{"weight[fib-expsq@f1]", "A", planted("A", fibre)}, {"weight[fib-expsq@f1]", "B", planted("B", fibre)},
 		{"angle", "all", planted("all", func(p plantedSpecimen) float64 { return p.deg })},
 		{"weight[i1-lin]", "all", planted("all", func(p plantedSpecimen) float64 { return p.matrix })},
-		{"rate[fib-expsq@f1]", "all", planted("all", func(p plantedSpecimen) float64 { return p.rate })}} {
+		{"stiffening[fib-expsq@f1]", "all", planted("all", func(p plantedSpecimen) float64 { return p.rate })}} {
 		st := statOf(t, s, c.param, c.group)
 		if lo, hi := float64(st.CI95[0]), float64(st.CI95[1]); !(lo <= c.mean && c.mean <= hi) {
 			t.Errorf("%s in %s: 95 %% interval [%.4g, %.4g] misses the planted mean %.4g", c.param, c.group, lo, hi, c.mean)
@@ -123,7 +123,7 @@ func TestCohortPlanted(t *testing.T) {
 		schemaValidate(t, b)
 	}
 	head := readCSV(t, filepath.Join(out, "cohort.csv"))[0]
-	want := "file,specimen,group,status,error,weight[i1-lin] [kPa],weight[fib-expsq@f1] [kPa],|angle| [deg],rate[fib-expsq@f1],min_r2,heldout_error"
+	want := "file,specimen,group,status,error,weight[i1-lin] [kPa],weight[fib-expsq@f1] [kPa],|angle| [deg],stiffening[fib-expsq@f1],lowest_r2,heldout_error"
 	if got := strings.Join(head, ","); got != want {
 		t.Errorf("cohort.csv header\n%s\nwant\n%s", got, want)
 	}
@@ -215,7 +215,7 @@ func TestCohortDiscovered(t *testing.T) {
 	if v := s.Verdict; v == nil || v.Families != "1-or-mirror-pair" || v.Support.Specimens != 4 || len(v.Candidates) == 0 {
 		t.Errorf("verdict %+v", v)
 	}
-	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-01-1_1.svg", "C001.weft/heldout.csv"} {
+	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-all.svg", "C001.weft/curves.csv", "C001.weft/heldout.csv"} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
 			t.Errorf("%s not written: %v", f, err)
 		}

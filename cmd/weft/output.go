@@ -45,10 +45,11 @@ const (
 	lockTag = ".weft-lock"
 )
 
-// legacyNames are the files an output folder held before weft wrote a
-// marker; such a folder is recognised by its model card.
+// legacyNames are the files weft writes at the top of an output folder. A
+// folder without a marker (written before weft wrote markers) is
+// recognised by its model card and may hold only these and plots.
 var legacyNames = map[string]bool{"model.json": true, "fit.csv": true, "selection.csv": true,
-	"heldout.csv": true, "report.html": true}
+	"heldout.csv": true, "report.html": true, "curves.csv": true, "raw.csv": true}
 
 // ioErrText is the operating system's reason without the path, so that
 // messages can name the path the user gave instead of a temporary one.

@@ -311,10 +311,10 @@ func (f *fittedFolder) undecidedQuestion() (aniso.Question, bool) {
 	var best *card.CandidateCard
 	for i := range sel.Pareto {
 		cc := &sel.Pareto[i]
-		if candidateForm(cc) != toward || cc.Model == nil || math.IsNaN(float64(cc.CVMean)) {
+		if candidateForm(cc) != toward || cc.Model == nil || math.IsNaN(float64(cc.HeldoutError)) {
 			continue
 		}
-		if best == nil || cc.CVMean < best.CVMean {
+		if best == nil || cc.HeldoutError < best.HeldoutError {
 			best = cc
 		}
 	}
@@ -362,22 +362,22 @@ func (f *fittedFolder) bandQuestion() (aniso.Question, string, bool) {
 	var best *card.CandidateCard
 	for i := range sel.Pareto {
 		cc := &sel.Pareto[i]
-		if candidateForm(cc) != v.Form || math.IsNaN(float64(cc.CVMean)) {
+		if candidateForm(cc) != v.Form || math.IsNaN(float64(cc.HeldoutError)) {
 			continue
 		}
 		in = append(in, cc)
-		if best == nil || cc.CVMean < best.CVMean {
+		if best == nil || cc.HeldoutError < best.HeldoutError {
 			best = cc
 		}
 	}
 	if best == nil {
 		return aniso.Question{}, "", false
 	}
-	se := math.Max(float64(best.CVStdErr), float64(v.StdErrFloor))
-	thr := float64(best.CVMean) + se
+	se := math.Max(float64(best.HeldoutStdErr), float64(v.StdErrFloor))
+	thr := float64(best.HeldoutError) + se
 	var band []*card.CandidateCard
 	for _, cc := range in {
-		if float64(cc.CVMean) <= thr {
+		if float64(cc.HeldoutError) <= thr {
 			band = append(band, cc)
 		}
 	}
@@ -385,7 +385,7 @@ func (f *fittedFolder) bandQuestion() (aniso.Question, string, bool) {
 		if band[a].Chosen != band[b].Chosen {
 			return band[a].Chosen
 		}
-		return band[a].CVMean < band[b].CVMean
+		return band[a].HeldoutError < band[b].HeldoutError
 	})
 	if len(band) > maxBandForms {
 		band = band[:maxBandForms]

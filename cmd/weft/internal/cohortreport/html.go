@@ -130,8 +130,8 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 		v.Candidates.Head = []string{"candidate", "terms", "parameters", "BIC (summed)", "held-out error (pooled)"}
 		for _, c := range vd.Candidates {
 			cv := "not cross-validated"
-			if !math.IsNaN(float64(c.CVError)) {
-				cv = cell(c.CVError, 3) + " ± " + cell(c.CVStdErr, 2)
+			if !math.IsNaN(float64(c.HeldoutError)) {
+				cv = cell(c.HeldoutError, 3) + " ± " + cell(c.HeldoutStdErr, 2)
 			}
 			v.Candidates.Rows = append(v.Candidates.Rows, htmlRow{Cells: []string{c.Name, strings.Join(c.Terms, " + "), fmt.Sprint(c.Parameters), cell(c.BIC, 7), cv}, Mark: c.Chosen})
 		}
@@ -158,7 +158,7 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 		if r.Form != "" {
 			own += " (" + r.Form + ")"
 		}
-		v.Specimens.Rows = append(v.Specimens.Rows, htmlRow{Cells: append(cells, cell(r.MinR2, 4), cell(r.HeldOut, 3), own)})
+		v.Specimens.Rows = append(v.Specimens.Rows, htmlRow{Cells: append(cells, cell(r.LowestR2, 4), cell(r.HeldOut, 3), own)})
 	}
 	for _, p := range s.Parameters {
 		if p.Note != "" {

@@ -105,13 +105,13 @@ type SupportInfo struct {
 // error) and its standard error over specimens, null when not
 // cross-validated.
 type CandidateRow struct {
-	Name       string   `json:"name"`
-	Terms      []string `json:"terms"`
-	Parameters int      `json:"parameters"`
-	BIC        card.Num `json:"bic"`
-	CVError    card.Num `json:"cv_error"`
-	CVStdErr   card.Num `json:"cv_stderr"`
-	Chosen     bool     `json:"chosen"`
+	Name          string   `json:"name"`
+	Terms         []string `json:"terms"`
+	Parameters    int      `json:"parameters"`
+	BIC           card.Num `json:"bic"`
+	HeldoutError  card.Num `json:"heldout_error"`
+	HeldoutStdErr card.Num `json:"heldout_stderr"`
+	Chosen        bool     `json:"chosen"`
 }
 
 // ParamInfo is one parameter of the shared form.
@@ -135,12 +135,12 @@ type SpecimenRow struct {
 	Folder   string `json:"folder,omitempty"`
 	// Parameters by name, angles as summarised (see ParamInfo.Absolute).
 	Parameters map[string]card.Num `json:"parameters,omitempty"`
-	// MinR2 is the lowest R² over protocols and components; HeldOut the
-	// mean leave-one-protocol-out error (see card.CVMetric).
-	MinR2   card.Num `json:"min_r2"`
-	HeldOut card.Num `json:"heldout_error"`
-	Verdict string   `json:"own_verdict,omitempty"`
-	Form    string   `json:"own_form,omitempty"`
+	// LowestR2 is the lowest R² over protocols and components; HeldOut the
+	// mean leave-one-protocol-out error (see card.HeldoutMetric).
+	LowestR2 card.Num `json:"lowest_r2"`
+	HeldOut  card.Num `json:"heldout_error"`
+	Verdict  string   `json:"own_verdict,omitempty"`
+	Form     string   `json:"own_form,omitempty"`
 }
 
 // StatRow describes one parameter in one group ("all" for every specimen).
@@ -233,13 +233,13 @@ func verdictInfo(c *aniso.Cohort) *VerdictInfo {
 		Support: SupportInfo(c.Support), Search: d.Search, Candidates: []CandidateRow{}}
 	for i, pc := range d.Pareto {
 		r := pc.Result
-		row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), CVError: card.Num(math.NaN()),
-			CVStdErr: card.Num(math.NaN()), Chosen: i == d.Chosen, Terms: []string{}}
+		row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), HeldoutError: card.Num(math.NaN()),
+			HeldoutStdErr: card.Num(math.NaN()), Chosen: i == d.Chosen, Terms: []string{}}
 		for _, t := range r.Structure.Terms {
 			row.Terms = append(row.Terms, t.Label(r.Structure.Layout))
 		}
 		if pc.CV != nil {
-			row.CVError, row.CVStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
+			row.HeldoutError, row.HeldoutStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
 		}
 		v.Candidates = append(v.Candidates, row)
 	}
@@ -294,7 +294,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 	values := make([][]float64, len(s.Parameters))
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
-			MinR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form}
+			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form}
 		byName := map[string]aniso.Estimate{}
 		if sp.Result == nil {
 			row.Status, row.Error, row.Folder = StatusFailed, sp.Err, ""
@@ -304,7 +304,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 				byName[e.Name] = e
 			}
 			if r2 := card.LowestR2(sp.Result.Metrics); !math.IsInf(r2, 1) {
-				row.MinR2 = card.Num(r2)
+				row.LowestR2 = card.Num(r2)
 			}
 			if sp.CV != nil {
 				row.HeldOut = card.Num(sp.CV.Mean)

@@ -19,7 +19,7 @@ func (s *Summary) CSV() ([]byte, error) {
 	for _, p := range s.Parameters {
 		head = append(head, paramHeader(p))
 	}
-	head = append(head, "min_r2", "heldout_error")
+	head = append(head, "lowest_r2", "heldout_error")
 	if err := w.Write(head); err != nil {
 		return nil, err
 	}
@@ -33,7 +33,7 @@ func (s *Summary) CSV() ([]byte, error) {
 			}
 			rec = append(rec, csvNum(float64(v)))
 		}
-		rec = append(rec, csvNum(float64(r.MinR2)), csvNum(float64(r.HeldOut)))
+		rec = append(rec, csvNum(float64(r.LowestR2)), csvNum(float64(r.HeldOut)))
 		if err := w.Write(rec); err != nil {
 			return nil, err
 		}

@@ -29,13 +29,13 @@ type Rendered struct {
 	Inline template.HTML
 }
 
-// Render draws the figures on every core, in order.
+// Render draws the figures on every core, in order, as SVG and PNG.
 func Render(figs []Figure) ([]Rendered, error) {
 	fs := make([]*figure, len(figs))
 	for i, f := range figs {
 		fs[i] = &figure{name: f.Name, title: f.Title, caption: f.Caption, w: f.Width, h: f.Height, draw: f.Draw}
 	}
-	rs, err := renderAll(fs)
+	rs, err := renderAll(fs, true)
 	if err != nil {
 		return nil, err
 	}
@@ -46,39 +46,35 @@ func Render(figs []Figure) ([]Rendered, error) {
 	return out, nil
 }
 
-// NewPlot returns a plot with the report's fonts, ticks and grid; small
-// selects the sizes of tiled figures.
+// NewPlot returns a plot with the report's fonts, grid and at most six
+// labelled ticks per axis; small is kept for callers that tile panels and
+// draws the same panel.
 func NewPlot(title, xlabel, ylabel string, small bool) *plot.Plot {
-	return newPlot(title, xlabel, ylabel, small)
+	return newPanel(title, xlabel, ylabel, 6, 6)
 }
 
-// NewLegend returns an empty legend in the report's font of size points.
-func NewLegend(size float64) plot.Legend { return newLegend(size) }
-
-// DrawTitle writes a figure title at the top of dc and returns the canvas
-// below it.
-func DrawTitle(dc draw.Canvas, title string) draw.Canvas { return drawTitle(dc, title) }
-
-// SplitColumns divides dc into a plot area and a legend column of width
-// lw on the right.
-func SplitColumns(dc draw.Canvas, lw vg.Length) (draw.Canvas, draw.Canvas) {
-	return splitColumns(dc, lw)
+// DrawTitle writes a figure title centred at the top of dc and returns
+// the canvas below it.
+func DrawTitle(dc draw.Canvas, title string) draw.Canvas {
+	sty := textStyle(12)
+	sty.XAlign = draw.XCenter
+	sty.YAlign = draw.YTop
+	dc.FillText(sty, vg.Point{X: (dc.Min.X + dc.Max.X) / 2, Y: dc.Max.Y - vg.Points(4)}, title)
+	return draw.Crop(dc, 0, 0, 0, -sty.Rectangle(title).Size().Y-vg.Points(10))
 }
 
-// AddCurve adds a line (split at non-finite points) and returns its legend
-// thumbnail, or nil.
-func AddCurve(p *plot.Plot, xs, ys []float64, ls draw.LineStyle) plot.Thumbnailer {
-	return addCurve(p, xs, ys, ls)
-}
+// AddCurve adds a line, split at non-finite points.
+func AddCurve(p *plot.Plot, xs, ys []float64, ls draw.LineStyle) { addCurve(p, xs, ys, ls) }
 
-// AddPoints adds markers and returns their legend thumbnail, or nil.
-func AddPoints(p *plot.Plot, xs, ys []float64, gs draw.GlyphStyle) plot.Thumbnailer {
-	return addPoints(p, xs, ys, gs)
-}
+// AddPoints adds markers.
+func AddPoints(p *plot.Plot, xs, ys []float64, gs draw.GlyphStyle) { addPoints(p, xs, ys, gs) }
 
 // LineStyle is a solid or dashed line of colour c and width in points.
 func LineStyle(c color.Color, width float64, dash bool) draw.LineStyle {
-	return lineStyle(c, width, dash)
+	if dash {
+		return lineStyle(c, width, 4, 2.5)
+	}
+	return lineStyle(c, width)
 }
 
 // ComponentColor is the colour of a stress component ("11", "22", "12",
@@ -102,4 +98,4 @@ func GroupColor(i int) color.NRGBA {
 
 // StressLabel is the stress axis label of a measure ("cauchy" or
 // "nominal") and unit.
-func StressLabel(kind, unit string) string { return stressLabel(kind, unit) }
+func StressLabel(kind, unit string) string { return stressAxis(kind, unit) }

@@ -488,28 +488,18 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 // writeFitData writes what writeFitFiles writes but the report: the card,
 // the fit table and the held-out table.
 func writeFitData(o *fitOutcome, od folderSink) error {
-	b, err := o.card.Marshal()
-	if err != nil {
+	if err := writeCardAndFitTable(o, od); err != nil {
 		return err
 	}
-	if err := od.write("model.json", b); err != nil {
-		return err
+	folds := heldoutPredictions(o.prob, o.result)
+	if folds == nil {
+		return nil
 	}
 	var buf bytes.Buffer
-	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
+	if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
 		return err
 	}
-	if err := od.write("fit.csv", buf.Bytes()); err != nil {
-		return err
-	}
-	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
-		buf.Reset()
-		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
-			return err
-		}
-		return od.write("heldout.csv", buf.Bytes())
-	}
-	return nil
+	return od.write("heldout.csv", buf.Bytes())
 }
 
 // printCohortSummary prints the short human summary of a cohort.

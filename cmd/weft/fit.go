@@ -494,6 +494,24 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 // writeFitFiles writes the files of one specimen's output folder into od:
 // an output folder, or one specimen's folder inside a cohort's.
 func writeFitFiles(o *fitOutcome, od folderSink) error {
+	if err := writeCardAndFitTable(o, od); err != nil {
+		return err
+	}
+	if o.disc != nil {
+		var buf bytes.Buffer
+		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
+			return err
+		}
+		if err := od.write("selection.csv", buf.Bytes()); err != nil {
+			return err
+		}
+	}
+	return writeReportFiles(od, o)
+}
+
+// writeCardAndFitTable writes the model card and the fit table, the files
+// every specimen's folder has.
+func writeCardAndFitTable(o *fitOutcome, od folderSink) error {
 	b, err := o.card.Marshal()
 	if err != nil {
 		return err
@@ -505,19 +523,7 @@ func writeFitFiles(o *fitOutcome, od folderSink) error {
 	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
 		return err
 	}
-	if err := od.write("fit.csv", buf.Bytes()); err != nil {
-		return err
-	}
-	if o.disc != nil {
-		buf.Reset()
-		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
-			return err
-		}
-		if err := od.write("selection.csv", buf.Bytes()); err != nil {
-			return err
-		}
-	}
-	return writeReportFiles(od, o)
+	return od.write("fit.csv", buf.Bytes())
 }
 
 // writeReportFiles is weft fit's hook: it writes heldout.csv (the model

@@ -71,12 +71,7 @@ decisions.`,
 
   # every candidate as JSON
   weft plan membrane-M1.weft --json`,
-		Args: func(cmd *cobra.Command, args []string) error {
-			if len(args) != 1 {
-				return badInputf("plan needs one output folder DIR (see 'weft plan --help')")
-			}
-			return nil
-		},
+		Args: oneFolderArg("plan"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var err error
 			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {

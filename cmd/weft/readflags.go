@@ -86,3 +86,14 @@ func readSpecimen(path string, opt biaxial.Options) (*biaxial.Specimen, error) {
 	}
 	return s, nil
 }
+
+// oneFolderArg accepts exactly one argument, an output folder, for the
+// command name.
+func oneFolderArg(name string) cobra.PositionalArgs {
+	return func(cmd *cobra.Command, args []string) error {
+		if len(args) != 1 {
+			return badInputf("%s needs one output folder DIR (see 'weft %s --help')", name, name)
+		}
+		return nil
+	}
+}

@@ -56,12 +56,7 @@ tested range, not for clinical decisions.`,
 
   # PNG files of every plot too, e.g. for slides
   weft report skin-A.weft --png --force`,
-		Args: func(cmd *cobra.Command, args []string) error {
-			if len(args) != 1 {
-				return badInputf("report needs one output folder DIR (see 'weft report --help')")
-			}
-			return nil
-		},
+		Args: oneFolderArg("report"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var err error
 			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {

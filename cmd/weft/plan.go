@@ -2,12 +2,17 @@ package main
 
 import (
 	"bytes"
+	"errors"
+	"io/fs"
+	"os"
+	"path/filepath"
 
 	"github.com/spf13/cobra"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/planning"
 )
 
 // planOptions are the options of weft plan.
@@ -96,7 +101,7 @@ func runPlan(o *planOptions) error {
 	if o.top < 0 {
 		return badInputf("--top %d: give 0 (all) or more", o.top)
 	}
-	if o.write != "" && o.plot != "" && sameFile(o.write, o.plot) {
+	if o.write != "" && o.plot != "" && planning.SameFile(o.write, o.plot) {
 		return badInputf("--write and --plot name the same file %s", o.write)
 	}
 	var outs []*outputFile
@@ -123,18 +128,18 @@ func runPlan(o *planOptions) error {
 	if err != nil {
 		return err
 	}
-	f, err := readFittedFolder(o.dir, o.dataLimits, o.cardLimits)
+	f, err := readPlanFolder(o.dir, o.dataLimits, o.cardLimits)
 	if err != nil {
 		return err
 	}
-	qs, notes := f.questions()
-	d, err := aniso.PlanTests(f.prob, f.result, qs, aniso.DesignSettings{})
+	qs, notes := f.Questions()
+	d, err := aniso.PlanTests(f.Problem, f.Result, qs, aniso.DesignSettings{})
 	if err != nil {
 		return checkFailed{msg: o.dir + ": no test could be planned: " + err.Error()}
 	}
-	pl := newPlanReport(f, d, append(notes, d.Notes...))
+	pl := planning.NewReport(f, d, append(notes, d.Notes...))
 	if writeOut != nil {
-		b, err := plannedPathCSV(f, &d.Tests[0].Test)
+		b, err := planning.PathCSV(f, &d.Tests[0].Test)
 		if err != nil {
 			return err
 		}
@@ -144,7 +149,7 @@ func runPlan(o *planOptions) error {
 		pl.Wrote = append(pl.Wrote, o.write)
 	}
 	if plotOut != nil {
-		b, err := plannedPlot(f, d, o.plot)
+		b, err := planning.Plot(f, d, o.plot)
 		if err != nil {
 			return checkFailed{msg: "drawing the plot: " + err.Error()}
 		}
@@ -157,7 +162,58 @@ func runPlan(o *planOptions) error {
 		return writeJSON(o.Out, pl)
 	}
 	var buf bytes.Buffer
-	printPlan(&buf, pl, o.top)
+	planning.Print(&buf, pl, o.top)
 	_, err = o.Out.Write(buf.Bytes())
 	return err
+}
+
+// readPlanFolder reads dir's model.json and fit.csv within the limits and
+// rebuilds the fit; a folder that is not one fit's is bad input (exit 2),
+// a fit that cannot be rebuilt as the card states it fails (exit 1).
+func readPlanFolder(dir string, dl biaxial.Limits, cl card.Limits) (*planning.Folder, error) {
+	st, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, badInputf("%s does not exist; give the output folder that 'weft fit' wrote", dir)
+	case err != nil:
+		return nil, badInput(err)
+	case !st.IsDir():
+		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
+	}
+	read := func(name string, max int64, cat error) ([]byte, error) {
+		path := filepath.Join(dir, name)
+		b, err := readAtMost(path, max)
+		switch {
+		case errors.Is(err, errTooLarge):
+			return nil, tooLargeError(path, max, cat)
+		case errors.Is(err, fs.ErrNotExist):
+			return nil, badInputf("%s: %s is missing; a plan needs model.json and fit.csv as 'weft fit' writes them", dir, name)
+		case err != nil:
+			return nil, badInput(err)
+		}
+		return b, nil
+	}
+	if cl.MaxBytes <= 0 {
+		cl.MaxBytes = card.DefaultLimits.MaxBytes
+	}
+	if dl.MaxBytes <= 0 {
+		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
+	}
+	mj, err := read("model.json", cl.MaxBytes, card.ErrCardSize)
+	if err != nil {
+		return nil, err
+	}
+	fc, err := read("fit.csv", dl.MaxBytes, biaxial.ErrFileSize)
+	if err != nil {
+		return nil, err
+	}
+	f, err := planning.Rebuild(dir, mj, fc, dl, cl)
+	var re *planning.RebuildError
+	switch {
+	case errors.As(err, &re):
+		return nil, checkFailed{msg: re.Msg}
+	case err != nil:
+		return nil, withLimitHint(err)
+	}
+	return f, nil
 }

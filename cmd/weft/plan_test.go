@@ -10,17 +10,19 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/planning"
 )
 
 // planJSON runs weft plan --json on dir with extra arguments and decodes
 // the plan.
-func planJSON(t *testing.T, dir string, extra ...string) (planReport, string) {
+func planJSON(t *testing.T, dir string, extra ...string) (planning.Report, string) {
 	t.Helper()
 	out, errOut, code := runWeft(t, append([]string{"plan", dir, "--json"}, extra...)...)
 	if code != 0 {
 		t.Fatalf("weft plan: exit %d: %s", code, errOut)
 	}
-	var pl planReport
+	var pl planning.Report
 	if err := json.Unmarshal([]byte(out), &pl); err != nil {
 		t.Fatalf("plan JSON: %v\n%s", err, out)
 	}
@@ -40,7 +42,7 @@ func TestPlanDemoMembrane(t *testing.T) {
 	tmp := t.TempDir()
 	path, svg := filepath.Join(tmp, "next.csv"), filepath.Join(tmp, "next.svg")
 	pl, raw := planJSON(t, dir, "--write", path, "--plot", svg)
-	if pl.Format != PlanFormat || len(pl.Questions) == 0 || pl.Questions[0].Topic != "fibre layout" || !pl.Questions[0].Verdict {
+	if pl.Format != planning.Format || len(pl.Questions) == 0 || pl.Questions[0].Topic != "fibre layout" || !pl.Questions[0].Verdict {
 		t.Fatalf("questions %+v; want the fibre layout first", pl.Questions)
 	}
 	best := -1
@@ -86,7 +88,7 @@ func TestPlanDemoMembrane(t *testing.T) {
 
 // checkPlannedPath reads the --write file: weft's input layout without
 // stress columns, one row per planned point, ending at the test's peak.
-func checkPlannedPath(t *testing.T, path string, c planCandidate, points int) {
+func checkPlannedPath(t *testing.T, path string, c planning.Candidate, points int) {
 	t.Helper()
 	b, err := os.ReadFile(path)
 	if err != nil {

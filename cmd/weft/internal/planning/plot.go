@@ -1,4 +1,4 @@
-package main
+package planning
 
 import (
 	"bytes"
@@ -48,7 +48,7 @@ func plotQuestion(d *aniso.Design) int {
 	return -1
 }
 
-// plannedPlot draws, as SVG (PNG when name ends in .png), for the top
+// Plot draws, as SVG (PNG when name ends in .png), for the top
 // test, the stress every explanation of the plotted question predicts
 // along it, one panel per measured component, against the stretch of the
 // leading tester axis: all at the deformation the specimen takes under the
@@ -56,9 +56,9 @@ func plotQuestion(d *aniso.Design) int {
 // about its stress — what a test run under it would measure, and what the
 // others would have predicted there. On sutures a last panel shows the
 // shear F12 the markers would track under each explanation.
-func plannedPlot(f *fittedFolder, d *aniso.Design, name string) ([]byte, error) {
+func Plot(f *Folder, d *aniso.Design, name string) ([]byte, error) {
 	ts := &d.Tests[0]
-	exps := []aniso.Explanation{{Name: "fitted model", Model: f.result.Model}}
+	exps := []aniso.Explanation{{Name: "fitted model", Model: f.Result.Model}}
 	title := ts.Test.Describe()
 	if qi := plotQuestion(d); qi >= 0 {
 		exps = d.Questions[qi].Explanations

@@ -1,13 +1,10 @@
-package main
+package planning
 
 import (
 	"bytes"
 	"encoding/csv"
-	"errors"
 	"fmt"
-	"io/fs"
 	"math"
-	"os"
 	"path/filepath"
 	"sort"
 	"strconv"
@@ -26,79 +23,46 @@ import (
 // loss must come out as the card states it, so that the plan rests on
 // exactly the fit the folder holds.
 
-// fittedFolder is what a plan reads from an output folder.
-type fittedFolder struct {
-	dir    string
-	card   *card.Card
-	spec   *biaxial.Specimen
-	prob   *aniso.Problem
-	result *aniso.Result
+// Folder is what a plan reads from an output folder.
+type Folder struct {
+	dir  string
+	card *card.Card
+	spec *biaxial.Specimen
+	// Problem and Result are the rebuilt data and fit.
+	Problem *aniso.Problem
+	Result  *aniso.Result
 }
 
 // planLossTolerance is how far (relative) the rebuilt fit's loss may lie
 // from the card's before the folder is taken not to hold one fit.
 const planLossTolerance = 1e-6
 
-// readFittedFolder reads dir's model.json and fit.csv within the limits and
-// rebuilds the fit.
-func readFittedFolder(dir string, dl biaxial.Limits, cl card.Limits) (*fittedFolder, error) {
-	st, err := os.Stat(dir)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil, badInputf("%s does not exist; give the output folder that 'weft fit' wrote", dir)
-	case err != nil:
-		return nil, badInput(err)
-	case !st.IsDir():
-		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
-	}
-	read := func(name string, max int64, cat error) ([]byte, error) {
-		path := filepath.Join(dir, name)
-		b, err := readAtMost(path, max)
-		switch {
-		case errors.Is(err, errTooLarge):
-			return nil, tooLargeError(path, max, cat)
-		case errors.Is(err, fs.ErrNotExist):
-			return nil, badInputf("%s: %s is missing; a plan needs model.json and fit.csv as 'weft fit' writes them", dir, name)
-		case err != nil:
-			return nil, badInput(err)
-		}
-		return b, nil
-	}
-	if cl.MaxBytes <= 0 {
-		cl.MaxBytes = card.DefaultLimits.MaxBytes
-	}
-	if dl.MaxBytes <= 0 {
-		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
-	}
+// Rebuild parses an output folder's model.json and fit.csv (their bytes,
+// read by the caller within its limits; dir names the folder in messages)
+// and rebuilds the fit. Errors about the files are *InputError; a fit that
+// cannot be rebuilt, or whose loss is not the card's, is a *RebuildError.
+func Rebuild(dir string, mj, fc []byte, dl biaxial.Limits, cl card.Limits) (*Folder, error) {
 	if dl.MaxRows <= 0 {
 		dl.MaxRows = biaxial.DefaultLimits.MaxRows
 	}
-	mj, err := read("model.json", cl.MaxBytes, card.ErrCardSize)
-	if err != nil {
-		return nil, err
-	}
-	fc, err := read("fit.csv", dl.MaxBytes, biaxial.ErrFileSize)
-	if err != nil {
-		return nil, err
-	}
 	c, _, err := card.ParseLimits(bytes.NewReader(mj), filepath.Join(dir, "model.json"), cl)
 	if err != nil {
-		return nil, badInput(err)
+		return nil, inputError(err)
 	}
 	for _, key := range []string{card.KeyFit, card.KeyData, card.KeyVerdict, card.KeySelection} {
 		if err := c.SectionError(key); err != nil {
-			return nil, badInputf("%s: $.%s: %v", filepath.Join(dir, "model.json"), key, err)
+			return nil, inputErrorf("%s: $.%s: %v", filepath.Join(dir, "model.json"), key, err)
 		}
 	}
 	if c.Fit == nil || c.Data == nil {
-		return nil, badInputf("%s has no 'fit' or 'data' section: a plan needs a card that 'weft fit' wrote", filepath.Join(dir, "model.json"))
+		return nil, inputErrorf("%s has no 'fit' or 'data' section: a plan needs a card that 'weft fit' wrote", filepath.Join(dir, "model.json"))
 	}
-	f := &fittedFolder{dir: dir, card: c}
+	f := &Folder{dir: dir, card: c}
 	if f.spec, err = specimenFromTable(fc, filepath.Join(dir, "fit.csv"), c, dl); err != nil {
 		return nil, err
 	}
-	if f.prob, err = aniso.NewProblem(f.spec, nil); err != nil {
-		return nil, badInput(err)
+	if f.Problem, err = aniso.NewProblem(f.spec, nil); err != nil {
+		return nil, inputError(err)
 	}
 	if err := f.refit(); err != nil {
 		return nil, err
@@ -113,19 +77,19 @@ func readFittedFolder(dir string, dl biaxial.Limits, cl card.Limits) (*fittedFol
 func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (*biaxial.Specimen, error) {
 	rows, err := csv.NewReader(bytes.NewReader(b)).ReadAll()
 	if err != nil {
-		return nil, badInputf("%s: %v", file, err)
+		return nil, inputErrorf("%s: %v", file, err)
 	}
 	if len(rows) < 2 {
-		return nil, badInputf("%s: no data rows", file)
+		return nil, inputErrorf("%s: no data rows", file)
 	}
 	if len(rows)-1 > dl.MaxRows {
-		return nil, withLimitHint(categorised{fmt.Sprintf("%s holds more than %d rows, the limit for it", file, dl.MaxRows), biaxial.ErrRowCount})
+		return nil, &InputError{Err: limitError{fmt.Sprintf("%s holds more than %d rows, the limit for it", file, dl.MaxRows), biaxial.ErrRowCount}}
 	}
 	fixed := []string{"protocol", "line", "cycle", "F11", "F12", "F21", "F22"}
 	h := rows[0]
 	for i, n := range fixed {
 		if i >= len(h) || h[i] != n {
-			return nil, badInputf("%s: line 1: expected the columns %s first, as 'weft fit' writes them", file, strings.Join(fixed, ","))
+			return nil, inputErrorf("%s: line 1: expected the columns %s first, as 'weft fit' writes them", file, strings.Join(fixed, ","))
 		}
 	}
 	s := &biaxial.Specimen{Name: c.Data.Specimen, Source: c.Data.Source, StressUnit: c.Data.StressUnit, Meta: map[string]string{}}
@@ -135,7 +99,7 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 	case "cauchy":
 		s.Kind = biaxial.Cauchy
 	default:
-		return nil, badInputf("model.json: $.data.stress_kind %q is neither nominal nor cauchy", c.Data.StressKind)
+		return nil, inputErrorf("model.json: $.data.stress_kind %q is neither nominal nor cauchy", c.Data.StressKind)
 	}
 	measuredCol := map[int]biaxial.Component{}
 	for j := len(fixed); j < len(h); j++ {
@@ -147,34 +111,34 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 		comp := map[string]biaxial.Component{"11": biaxial.C11, "22": biaxial.C22, "12": biaxial.C12, "21": biaxial.C21}
 		cc, ok := comp[kc]
 		if !ok || strings.TrimSuffix(unit, "]") != c.Data.StressUnit {
-			return nil, badInputf("%s: line 1, column %d: %q is not a measured %s stress in %s, as model.json says the fit used", file, j+1, h[j], c.Data.StressKind, c.Data.StressUnit)
+			return nil, inputErrorf("%s: line 1, column %d: %q is not a measured %s stress in %s, as model.json says the fit used", file, j+1, h[j], c.Data.StressKind, c.Data.StressUnit)
 		}
 		measuredCol[j] = cc
 		s.Measured[cc] = true
 	}
 	if !s.Measured[biaxial.C11] || !s.Measured[biaxial.C22] {
-		return nil, badInputf("%s: line 1: no measured_%s_11 and _22 columns; the table does not belong to model.json", file, c.Data.StressKind)
+		return nil, inputErrorf("%s: line 1: no measured_%s_11 and _22 columns; the table does not belong to model.json", file, c.Data.StressKind)
 	}
 	index := map[string]int{}
 	for i, row := range rows[1:] {
 		ln := i + 2
 		if len(row) != len(h) {
-			return nil, badInputf("%s: line %d: %d fields, the header has %d", file, ln, len(row), len(h))
+			return nil, inputErrorf("%s: line %d: %d fields, the header has %d", file, ln, len(row), len(h))
 		}
 		num := func(j int) (float64, error) {
 			v, err := strconv.ParseFloat(row[j], 64)
 			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-				return 0, badInputf("%s: line %d, column %d: %q is not a number", file, ln, j+1, row[j])
+				return 0, inputErrorf("%s: line %d, column %d: %q is not a number", file, ln, j+1, row[j])
 			}
 			return v, nil
 		}
 		pt := biaxial.Point{Time: math.NaN()}
 		var err error
 		if pt.Line, err = strconv.Atoi(row[1]); err != nil {
-			return nil, badInputf("%s: line %d, column 2: %q is not a line number", file, ln, row[1])
+			return nil, inputErrorf("%s: line %d, column 2: %q is not a line number", file, ln, row[1])
 		}
 		if pt.Cycle, err = strconv.Atoi(row[2]); err != nil {
-			return nil, badInputf("%s: line %d, column 3: %q is not a cycle number", file, ln, row[2])
+			return nil, inputErrorf("%s: line %d, column 3: %q is not a cycle number", file, ln, row[2])
 		}
 		for k := 0; k < 4; k++ {
 			if pt.F[k], err = num(3 + k); err != nil {
@@ -201,13 +165,13 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 // section, takes its relative weights and shear information, and weighs it.
 func finishSpecimen(s *biaxial.Specimen, c *card.Card, file string) error {
 	if len(c.Data.Protocols) != len(s.Protocols) {
-		return badInputf("%s holds %d protocols but model.json's data section lists %d; the files are not from the same fit", file, len(s.Protocols), len(c.Data.Protocols))
+		return inputErrorf("%s holds %d protocols but model.json's data section lists %d; the files are not from the same fit", file, len(s.Protocols), len(c.Data.Protocols))
 	}
 	shear := s.Measured[biaxial.C12] || s.Measured[biaxial.C21]
 	for i, dp := range c.Data.Protocols {
 		pr := &s.Protocols[i]
 		if dp.Label != pr.Label || dp.Points != len(pr.Points) {
-			return badInputf("%s: protocol %q with %d points, but model.json lists %q with %d; the files are not from the same fit", file, pr.Label, len(pr.Points), dp.Label, dp.Points)
+			return inputErrorf("%s: protocol %q with %d points, but model.json lists %q with %d; the files are not from the same fit", file, pr.Label, len(pr.Points), dp.Label, dp.Points)
 		}
 		pr.UserWeight = dp.Weight
 		for _, pt := range pr.Points {
@@ -215,7 +179,7 @@ func finishSpecimen(s *biaxial.Specimen, c *card.Card, file string) error {
 		}
 	}
 	if shear != c.Data.HasShear {
-		return badInputf("%s and model.json disagree on whether the data carry shear information; the files are not from the same fit", file)
+		return inputErrorf("%s and model.json disagree on whether the data carry shear information; the files are not from the same fit", file)
 	}
 	s.HasShear = shear
 	s.Weigh()
@@ -225,16 +189,16 @@ func finishSpecimen(s *biaxial.Specimen, c *card.Card, file string) error {
 // refit rebuilds the card's fitted form and polishes it from the card's
 // estimates (the optimum, so the refinement only confirms it), then checks
 // that it reproduces the card's loss.
-func (f *fittedFolder) refit() error {
+func (f *Folder) refit() error {
 	fs, c := f.card.Fit, f.card
 	l, err := aniso.ParseLayout(fs.Layout)
 	if err != nil {
-		return badInputf("model.json: $.fit.layout: %v", err)
+		return inputErrorf("model.json: $.fit.layout: %v", err)
 	}
 	hold := c.Layout != nil && c.Layout.PairAxis == "axis-1"
 	st, err := aniso.StructureFromLabels(fs.Terms, l, fs.Dispersion, fs.InPlane, hold)
 	if err != nil {
-		return badInputf("model.json: $.fit.terms: %v", err)
+		return inputErrorf("model.json: $.fit.terms: %v", err)
 	}
 	init := map[string]float64{}
 	for _, e := range fs.Estimates {
@@ -247,24 +211,24 @@ func (f *fittedFolder) refit() error {
 		}
 		init[e.Name] = v
 	}
-	r, err := aniso.Fit(f.prob, st, aniso.Settings{Init: init, NoScan: true})
+	r, err := aniso.Fit(f.Problem, st, aniso.Settings{Init: init, NoScan: true})
 	if err != nil {
-		return checkFailed{msg: fmt.Sprintf("%s: the fit could not be rebuilt: %v", f.dir, err)}
+		return &RebuildError{Msg: fmt.Sprintf("%s: the fit could not be rebuilt: %v", f.dir, err)}
 	}
 	want := float64(fs.Loss)
 	if math.Abs(r.Loss-want) > planLossTolerance*math.Max(want, 1e-300) {
-		return checkFailed{msg: fmt.Sprintf("%s: the rebuilt fit's loss %.10g differs from the card's %.10g; model.json and fit.csv are not from the same fit (or were edited) — fit the data again", f.dir, r.Loss, want)}
+		return &RebuildError{Msg: fmt.Sprintf("%s: the rebuilt fit's loss %.10g differs from the card's %.10g; model.json and fit.csv are not from the same fit (or were edited) — fit the data again", f.dir, r.Loss, want)}
 	}
-	f.result = r
+	f.Result = r
 	return nil
 }
 
-// questions are the choices the plan scores: what the verdict left open
+// Questions are the choices the plan scores: what the verdict left open
 // (the sign of an angle, one family or a mirror pair, an undecided family
 // count) and the model forms within the selection's one-standard-error
 // band; notes say what was left out and why.
-func (f *fittedFolder) questions() ([]aniso.Question, []string) {
-	r := f.result
+func (f *Folder) Questions() ([]aniso.Question, []string) {
+	r := f.Result
 	var qs []aniso.Question
 	var notes []string
 	iso := len(r.Model.Families) == 0
@@ -297,7 +261,7 @@ func candidateForm(cc *card.CandidateCard) string {
 
 // undecidedQuestion pits the chosen model against the best model of the
 // richer form the undecided verdict points towards.
-func (f *fittedFolder) undecidedQuestion() (aniso.Question, bool) {
+func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	v, sel := f.card.Verdict, f.card.Selection
 	if sel == nil {
 		return aniso.Question{}, false
@@ -325,8 +289,8 @@ func (f *fittedFolder) undecidedQuestion() (aniso.Question, bool) {
 	if err != nil {
 		return aniso.Question{}, false
 	}
-	q := aniso.Question{Verdict: true, SignUnknown: !f.result.SignKnown, Explanations: []aniso.Explanation{
-		{Name: "form " + v.Form + " as chosen (" + activeTerms(f.result) + ")", Model: f.result.Model},
+	q := aniso.Question{Verdict: true, SignUnknown: !f.Result.SignKnown, Explanations: []aniso.Explanation{
+		{Name: "form " + v.Form + " as chosen (" + activeTerms(f.Result) + ")", Model: f.Result.Model},
 		{Name: "form " + toward + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")", Model: m},
 	}}
 	q.Topic = "fibre families (undecided verdict)"
@@ -353,7 +317,7 @@ const maxBandForms = 6
 // form whose held-out error lies within one standard error of the form's
 // best (the band the selection rule picks from), or a note why there is
 // none to ask.
-func (f *fittedFolder) bandQuestion() (aniso.Question, string, bool) {
+func (f *Folder) bandQuestion() (aniso.Question, string, bool) {
 	v, sel := f.card.Verdict, f.card.Selection
 	if v == nil || sel == nil {
 		return aniso.Question{}, "", false
@@ -393,9 +357,9 @@ func (f *fittedFolder) bandQuestion() (aniso.Question, string, bool) {
 	if len(band) < 2 {
 		return aniso.Question{}, "", false
 	}
-	q := aniso.Question{SignUnknown: !f.result.SignKnown}
+	q := aniso.Question{SignUnknown: !f.Result.SignKnown}
 	for _, cc := range band {
-		m := f.result.Model
+		m := f.Result.Model
 		if !cc.Chosen {
 			var err error
 			if m, err = f.card.CandidateModelOf(cc); err != nil {

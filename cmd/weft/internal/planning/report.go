@@ -1,4 +1,4 @@
-package main
+package planning
 
 import (
 	"bytes"
@@ -14,11 +14,11 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 )
 
-// PlanFormat names the layout of weft plan --json.
-const PlanFormat = "weft.plan/1"
+// Format names the layout of weft plan --json.
+const Format = "weft.plan/1"
 
-// planReport is what weft plan prints, as a table or as JSON.
-type planReport struct {
+// Report is what weft plan prints, as a table or as JSON.
+type Report struct {
 	Format     string `json:"format"`
 	Specimen   string `json:"specimen"`
 	Folder     string `json:"folder"`
@@ -36,23 +36,23 @@ type planReport struct {
 	// Parameters are the estimated quantities whose information counts.
 	Parameters []string `json:"parameters"`
 	// Questions are what the data leave open.
-	Questions []planQuestion `json:"questions"`
+	Questions []Question `json:"questions"`
 	// SettleLevel, InformationMargin and ExtrapolationMargin are the
 	// thresholds of the ranking.
 	SettleLevel         float64 `json:"settle_level"`
 	InformationMargin   float64 `json:"information_margin"`
 	ExtrapolationMargin float64 `json:"extrapolation_margin"`
 	// Candidates are ranked, best first.
-	Candidates  []planCandidate `json:"candidates"`
-	Assumptions []string        `json:"assumptions"`
-	Notes       []string        `json:"notes"`
-	Cautions    []string        `json:"cautions"`
+	Candidates  []Candidate `json:"candidates"`
+	Assumptions []string    `json:"assumptions"`
+	Notes       []string    `json:"notes"`
+	Cautions    []string    `json:"cautions"`
 	// Wrote lists the files written (--write, --plot).
 	Wrote []string `json:"wrote,omitempty"`
 }
 
-// planQuestion is one open question.
-type planQuestion struct {
+// Question is one open question.
+type Question struct {
 	ID           string   `json:"id"`
 	Topic        string   `json:"topic"`
 	Text         string   `json:"text"`
@@ -61,8 +61,8 @@ type planQuestion struct {
 	Explanations []string `json:"explanations"`
 }
 
-// planCandidate is one ranked test.
-type planCandidate struct {
+// Candidate is one ranked test.
+type Candidate struct {
 	Rank        int     `json:"rank"`
 	Test        string  `json:"test"`
 	Protocol    string  `json:"protocol"`
@@ -75,7 +75,7 @@ type planCandidate struct {
 	Discrimination card.Num `json:"discrimination"`
 	Separation     card.Num `json:"separation"`
 	// Questions score every open question in order.
-	Questions []planScore `json:"questions"`
+	Questions []Score `json:"questions"`
 	// InformationGain in nats; IntervalShrink per estimated quantity, the
 	// fraction by which its 95 % interval narrows.
 	InformationGain card.Num            `json:"information_gain"`
@@ -90,8 +90,8 @@ type planCandidate struct {
 	PeakStretch2 card.Num `json:"peak_stretch_2"`
 }
 
-// planScore is a test's score on one question.
-type planScore struct {
+// Score is a test's score on one question.
+type Score struct {
 	ID             string   `json:"id"`
 	Discrimination card.Num `json:"discrimination"`
 	Separation     card.Num `json:"separation"`
@@ -116,16 +116,16 @@ func planAssumptions(d *aniso.Design) []string {
 // questionID names question i: A, B, ...
 func questionID(i int) string { return string(rune('A' + i)) }
 
-// newPlanReport collects the plan of fit f.
-func newPlanReport(f *fittedFolder, d *aniso.Design, notes []string) *planReport {
-	c, r := f.card, f.result
-	pl := &planReport{Format: PlanFormat, Specimen: c.Data.Specimen, Folder: f.dir, StressKind: c.Data.StressKind, StressUnit: c.Data.StressUnit,
+// NewReport collects the plan of fit f.
+func NewReport(f *Folder, d *aniso.Design, notes []string) *Report {
+	c, r := f.card, f.Result
+	pl := &Report{Format: Format, Specimen: c.Data.Specimen, Folder: f.dir, StressKind: c.Data.StressKind, StressUnit: c.Data.StressUnit,
 		Model: modelText(r), Noise: card.Num(d.Noise), PeakStretch: card.Num(d.PeakStretch), Points: d.Points, Parameters: d.Parameters,
 		SettleLevel: aniso.SettleLevel, InformationMargin: aniso.InformationMargin, ExtrapolationMargin: aniso.ExtrapolationMargin,
-		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.Cautions, Questions: []planQuestion{}}
+		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.Cautions, Questions: []Question{}}
 	pl.NoiseText = fmt.Sprintf("standard deviation of the weighted residuals, sqrt(loss / (rows - %d)); about %.3g %% of a protocol's stress range per point at %d points", r.FreeParams, 100*d.Noise*math.Sqrt(float64(d.Points)), d.Points)
 	for i, q := range d.Questions {
-		pq := planQuestion{ID: questionID(i), Topic: q.Topic, Text: q.Text, Verdict: q.Verdict, SignUnknown: q.SignUnknown}
+		pq := Question{ID: questionID(i), Topic: q.Topic, Text: q.Text, Verdict: q.Verdict, SignUnknown: q.SignUnknown}
 		for _, e := range q.Explanations {
 			pq.Explanations = append(pq.Explanations, e.Name)
 		}
@@ -138,11 +138,11 @@ func newPlanReport(f *fittedFolder, d *aniso.Design, notes []string) *planReport
 }
 
 // newPlanCandidate describes one scored test.
-func newPlanCandidate(rank int, ts *aniso.TestScore, d *aniso.Design) planCandidate {
+func newPlanCandidate(rank int, ts *aniso.TestScore, d *aniso.Design) Candidate {
 	t := &ts.Test
 	peak := t.Path[len(t.Path)-1]
-	pc := planCandidate{Rank: rank, Test: t.Describe(), Protocol: t.Label, MountingDeg: t.MountingDeg, Sutured: t.Sutured, ShearMeasured: t.ShearMeasured,
-		Discrimination: card.Num(math.NaN()), Separation: card.Num(math.NaN()), Questions: []planScore{}, Decides: []string{},
+	pc := Candidate{Rank: rank, Test: t.Describe(), Protocol: t.Label, MountingDeg: t.MountingDeg, Sutured: t.Sutured, ShearMeasured: t.ShearMeasured,
+		Discrimination: card.Num(math.NaN()), Separation: card.Num(math.NaN()), Questions: []Score{}, Decides: []string{},
 		InformationGain: card.Num(ts.InformationGain), IntervalShrink: map[string]card.Num{}, Extrapolates: ts.Extrapolates, Outside: ts.Outside,
 		PeakStretch1: card.Num(peak[0]), PeakStretch2: card.Num(peak[3])}
 	for _, s := range ts.Shrink {
@@ -150,7 +150,7 @@ func newPlanCandidate(rank int, ts *aniso.TestScore, d *aniso.Design) planCandid
 	}
 	for i, qs := range ts.Questions {
 		q := &d.Questions[i]
-		ps := planScore{ID: questionID(i), Discrimination: card.Num(qs.Discrimination), Separation: card.Num(math.Sqrt(qs.Discrimination)), Settled: qs.Settled,
+		ps := Score{ID: questionID(i), Discrimination: card.Num(qs.Discrimination), Separation: card.Num(math.Sqrt(qs.Discrimination)), Settled: qs.Settled,
 			WeakestPair: [2]string{q.Explanations[qs.Weakest[0]].Name, q.Explanations[qs.Weakest[1]].Name}}
 		pc.Questions = append(pc.Questions, ps)
 		if i == 0 {
@@ -194,7 +194,7 @@ func percent(x float64) string {
 
 // separationText writes √D in noise standard deviations, with a mark when
 // the question is settled.
-func separationText(s planScore) string {
+func separationText(s Score) string {
 	v := float64(s.Separation)
 	var t string
 	switch {
@@ -213,10 +213,10 @@ func separationText(s planScore) string {
 	return t
 }
 
-// printPlan writes the plan as text: the fit, the open questions, the
+// Print writes the plan as text: the fit, the open questions, the
 // ranked table (top rows; 0 all), the interval shrinks of the first tests,
 // notes, assumptions and cautions.
-func printPlan(w io.Writer, pl *planReport, top int) {
+func Print(w io.Writer, pl *Report, top int) {
 	fmt.Fprintf(w, "plan:     %s (%s), %s stress in %s\n", pl.Specimen, pl.Folder, pl.StressKind, pl.StressUnit)
 	fmt.Fprintf(w, "model:    %s\n", pl.Model)
 	fmt.Fprintf(w, "noise:    %.3g (%s)\n", float64(pl.Noise), pl.NoiseText)
@@ -300,7 +300,7 @@ func orDash(s string) string {
 }
 
 // largestShrink is the quantity whose interval narrows most.
-func largestShrink(c planCandidate, names []string) (string, float64) {
+func largestShrink(c Candidate, names []string) (string, float64) {
 	best, at := math.Inf(-1), ""
 	for _, n := range names {
 		if v := float64(c.IntervalShrink[n]); v > best {
@@ -312,7 +312,7 @@ func largestShrink(c planCandidate, names []string) (string, float64) {
 
 // printShrinks tabulates the interval shrink of every estimated quantity
 // for the first five tests.
-func printShrinks(w io.Writer, pl *planReport) {
+func printShrinks(w io.Writer, pl *Report) {
 	k := min(5, len(pl.Candidates))
 	if k == 0 {
 		return
@@ -334,11 +334,11 @@ func printShrinks(w io.Writer, pl *planReport) {
 	fmt.Fprintln(w)
 }
 
-// plannedPathCSV writes a planned test's target path in weft's input
+// PathCSV writes a planned test's target path in weft's input
 // layout without stress columns: stretches in the tester's axes of the
 // mounting (F with the predicted shear on sutures) and, for an off-axis
 // mounting, F in the fit's axes as extra columns weft ignores on reading.
-func plannedPathCSV(f *fittedFolder, t *aniso.PlannedTest) ([]byte, error) {
+func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 	var b bytes.Buffer
 	meta := func(k, v string) { fmt.Fprintf(&b, "# %s = %s\n", k, strings.Join(strings.Fields(v), " ")) }
 	meta("specimen", f.card.Data.Specimen)
@@ -386,8 +386,8 @@ func plannedPathCSV(f *fittedFolder, t *aniso.PlannedTest) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// sameFile reports whether two paths name the same file.
-func sameFile(a, b string) bool {
+// SameFile reports whether two paths name the same file.
+func SameFile(a, b string) bool {
 	x, err1 := filepath.Abs(a)
 	y, err2 := filepath.Abs(b)
 	return err1 == nil && err2 == nil && x == y

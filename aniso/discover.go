@@ -91,12 +91,20 @@ func (s DiscoverSettings) withDefaults() DiscoverSettings {
 // Candidate is a fitted model form considered by discovery.
 type Candidate struct {
 	// Name is "preset:<name>" for presets, else
-	// "<layout>[+dispersed|+kappa]-k<terms>-p<parameters>".
+	// "<layout>[+dispersed|+kappa]-t<terms>-p<parameters>".
 	Name   string
 	Layout Layout
 	// Terms is the number of active terms.
-	Terms  int
+	Terms int
+	// Result is the candidate's fit on the points discovery searched (see
+	// DiscoverSettings.SearchPoints); for the chosen candidate, its refit
+	// on every point.
 	Result *Result
+	// Searched is, for the chosen candidate, its fit on the searched
+	// points that the refit replaced (nil otherwise): the fit to compare
+	// with the other candidates, whose losses and BICs are on those
+	// points (see Compared).
+	Searched *Result
 	// CV is nil when the data have a single protocol.
 	CV *CVScore
 }
@@ -129,6 +137,17 @@ type Discovery struct {
 	// hasCV is true when candidates were cross-validated (two protocols or
 	// more); those with CV nil were then left out as clearly worse.
 	hasCV bool
+}
+
+// Compared returns the fit by which c is compared with the other
+// candidates: Searched when the chosen model was refitted on every point,
+// else Result. Losses, information criteria and R² of candidates are
+// comparable only on the same points.
+func (c *Candidate) Compared() *Result {
+	if c.Searched != nil {
+		return c.Searched
+	}
+	return c.Result
 }
 
 // Best returns the chosen candidate.
@@ -555,7 +574,7 @@ func (s *search) polish() {
 		// The polish fits more points and integrates dispersion accurately,
 		// so the loss may move either way; a lower one always replaces.
 		if activeTerms(r) == best.Terms && (r.Structure.Planar || s.p != s.all || r.Loss <= best.Result.Loss*(1+1e-9)) {
-			best.Result = r
+			best.Searched, best.Result = best.Result, r
 		} else {
 			best.Result.Profiles = r.Profiles
 		}

@@ -30,6 +30,13 @@ func TestDiscoverSameChoiceAtAnySampling(t *testing.T) {
 		if r := d.Best().Result; r.Rows != p.Rows() {
 			t.Errorf("%d points per protocol: the pick was fitted on %d rows, not all %d", n, r.Rows, p.Rows())
 		}
+		// The comparison shows every candidate on the same (searched)
+		// points, the chosen one included.
+		for i := range d.Pareto {
+			if r := d.Pareto[i].Compared(); r.Rows != d.Pareto[0].Compared().Rows {
+				t.Errorf("%d points per protocol: candidate %s compared on %d rows, %s on %d", n, d.Pareto[i].Name, r.Rows, d.Pareto[0].Name, d.Pareto[0].Compared().Rows)
+			}
+		}
 		names = append(names, d.Best().Name)
 		verdicts = append(verdicts, d.Verdict.Families)
 		t.Logf("%d points per protocol: %s, verdict %s, %v", n, d.Best().Name, d.Verdict.Families, d.Elapsed)

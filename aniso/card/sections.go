@@ -195,7 +195,7 @@ type SplitCompCard struct {
 
 // NewCandidateCard describes a discovery candidate.
 func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
-	r := c.Result
+	r := c.Compared()
 	cc := CandidateCard{Name: c.Name, Layout: c.Layout.String(), Dispersion: r.Structure.Dispersion, InPlane: r.Structure.Planar, Size: c.Terms,
 		Parameters: r.Complexity, Loss: Num(r.Loss), AICc: Num(r.AICc), BIC: Num(r.BIC),
 		HeldoutError: Num(math.NaN()), HeldoutStdErr: Num(math.NaN()), Chosen: chosen, LowestR2: Num(math.NaN())}

@@ -111,8 +111,9 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 			case c.CV != nil:
 				cv = "a fold failed"
 			}
-			minR2 := card.LowestR2(c.Result.Metrics)
-			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, c.Result.Complexity, c.Result.Loss, c.Result.BIC, cv, num(minR2, "%.4f"))
+			cr := c.Compared()
+			minR2 := card.LowestR2(cr.Metrics)
+			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, cr.Complexity, cr.Loss, cr.BIC, cv, num(minR2, "%.4f"))
 		}
 		for i := range d.Pareto {
 			mark := ""

@@ -90,7 +90,7 @@ func WriteSelectionTable(w io.Writer, p *aniso.Problem, d *aniso.Discovery) erro
 	}
 	cw.Write(h)
 	emit := func(set string, c *aniso.Candidate, chosen bool) {
-		r := c.Result
+		r := c.Compared()
 		var ts string
 		for i, t := range r.Structure.Terms {
 			if r.Weights[i] > 0 {

@@ -12,6 +12,9 @@ type CVFold struct {
 	Error float64
 	// Metrics of the held-out prediction per component.
 	Metrics []Metric
+	// Model is the form refitted without the protocol, whose prediction
+	// Error scores (nil when the refit failed).
+	Model *Model
 }
 
 // CVScore summarises leave-one-protocol-out cross-validation.
@@ -64,6 +67,12 @@ func crossValidate(p *Problem, cands []*Candidate, set Settings, pl *pool) {
 // angle scan, and predicts the left-out protocol: the prediction on the
 // rows of test, a Problem holding that protocol alone.
 func HeldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *Problem, err error) {
+	pred, test, _, err = heldOut(p, r, f, set)
+	return pred, test, err
+}
+
+// heldOut is HeldOut that also returns the refitted model.
+func heldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *Problem, m *Model, err error) {
 	held := p.Protocols[f]
 	var keep []int
 	for i, pi := range p.Protocols {
@@ -73,7 +82,7 @@ func HeldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *
 	}
 	train, err := NewProblem(p.Specimen, keep)
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
 	s := set
 	s.Init = r.Params()
@@ -81,22 +90,23 @@ func HeldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *
 	s.Profile = false
 	fit, err := Fit(train, r.Structure, s)
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
 	if test, err = NewProblem(p.Specimen, []int{held}); err != nil {
-		return nil, nil, err
+		return nil, nil, nil, err
 	}
 	pred, err = Predict(test, fit.Model)
-	return pred, test, err
+	return pred, test, fit.Model, err
 }
 
 // cvFold scores r's form on the f-th protocol left out.
 func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
 	fold := CVFold{Protocol: p.Specimen.Protocols[p.Protocols[f]].Label, Error: math.Inf(1)}
-	pred, test, err := HeldOut(p, r, f, set)
+	pred, test, m, err := heldOut(p, r, f, set)
 	if err != nil {
 		return fold
 	}
+	fold.Model = m
 	sse := 0.0
 	for i, v := range pred {
 		d := test.RowWeight[i] * (v - test.Measured[i])

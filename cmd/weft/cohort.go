@@ -491,7 +491,7 @@ func writeFitData(o *fitOutcome, od folderSink) error {
 	if err := writeCardAndFitTable(o, od); err != nil {
 		return err
 	}
-	folds := heldoutPredictions(o.prob, o.result)
+	folds := heldoutPredictions(o.prob, o.result, nil)
 	if folds == nil {
 		return nil
 	}

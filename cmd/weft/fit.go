@@ -534,7 +534,7 @@ func writeCardAndFitTable(o *fitOutcome, od folderSink) error {
 // the folder before it is committed.
 func writeReportFiles(od folderSink, o *fitOutcome) error {
 	var buf bytes.Buffer
-	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
+	if folds := heldoutPredictions(o.prob, o.result, chosenCV(o)); folds != nil {
 		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
 			return err
 		}

@@ -8,15 +8,23 @@ import (
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
-// heldoutPredictions refits the model form of r with each protocol left out in
-// turn, warm-started from the full fit with no angle scan (as discovery's
-// leave-one-protocol-out cross-validation does), and predicts the left-out
-// protocol. Folds run in parallel and are returned in protocol order. With
-// a single protocol there is nothing to hold out and it returns nil.
-func heldoutPredictions(p *aniso.Problem, r *aniso.Result) []report.HeldoutFold {
+// heldoutPredictions predicts each protocol of p from the model form of r
+// fitted without it. When cv holds the cross-validation of r's form
+// (discovery's, for the chosen candidate), its folds' models are used, so
+// that heldout.csv shows the predictions the selection scored (on every
+// point of the left-out protocol); otherwise, and for a fold whose refit
+// failed there, the form is refitted with the protocol left out,
+// warm-started from the full fit with no angle scan (as the
+// cross-validation does). Folds run in parallel and are returned in
+// protocol order. With a single protocol there is nothing to hold out and
+// it returns nil.
+func heldoutPredictions(p *aniso.Problem, r *aniso.Result, cv *aniso.CVScore) []report.HeldoutFold {
 	n := len(p.Protocols)
 	if n < 2 {
 		return nil
+	}
+	if cv != nil && len(cv.Folds) != n {
+		cv = nil
 	}
 	folds := make([]report.HeldoutFold, n)
 	jobs := make(chan int)
@@ -27,7 +35,7 @@ func heldoutPredictions(p *aniso.Problem, r *aniso.Result) []report.HeldoutFold 
 		go func() {
 			defer wg.Done()
 			for f := range jobs {
-				folds[f] = heldoutFoldFit(p, r, f)
+				folds[f] = heldoutFold(p, r, cv, f)
 			}
 		}()
 	}
@@ -39,8 +47,26 @@ func heldoutPredictions(p *aniso.Problem, r *aniso.Result) []report.HeldoutFold 
 	return folds
 }
 
-func heldoutFoldFit(p *aniso.Problem, r *aniso.Result, f int) report.HeldoutFold {
+// heldoutFold predicts the f-th protocol of p from the cross-validation's
+// fold model when there is one, else from a refit without it.
+func heldoutFold(p *aniso.Problem, r *aniso.Result, cv *aniso.CVScore, f int) report.HeldoutFold {
 	out := report.HeldoutFold{Protocol: p.Protocols[f]}
+	if cv != nil && cv.Folds[f].Model != nil {
+		test, err := aniso.NewProblem(p.Specimen, []int{p.Protocols[f]})
+		if err == nil {
+			out.Pred, out.Err = aniso.Predict(test, cv.Folds[f].Model)
+			return out
+		}
+	}
 	out.Pred, _, out.Err = aniso.HeldOut(p, r, f, aniso.Settings{})
 	return out
+}
+
+// chosenCV is the cross-validation of the discovered model's form, nil for
+// a fit of a given form.
+func chosenCV(o *fitOutcome) *aniso.CVScore {
+	if o.disc == nil {
+		return nil
+	}
+	return o.disc.Best().CV
 }

@@ -120,6 +120,9 @@ var planarCases = [][4]float64{
 // The quadrature of planar.go against a 20 000-point brute-force reference
 // (target ≤ 1e-8 relative to the largest stress component).
 func TestPlanarQuadratureAccuracy(t *testing.T) {
+	if testing.Short() {
+		t.Skip("brute-force quadrature reference at many deformations; run without -short")
+	}
 	shapes := []struct {
 		id string
 		p  []float64

@@ -88,6 +88,9 @@ func discoverAndPredict(t *testing.T, mat material, o synthOptions) (*Discovery,
 // straight): the protocols 1:0.25 and 0.25:1, never fitted, are predicted
 // within 5 % per protocol and axis, and the mean direction within 3°.
 func TestTissueDispersedRecruited(t *testing.T) {
+	if testing.Short() {
+		t.Skip("discovers two dispersed, recruited tissues; run without -short")
+	}
 	for _, tc := range []struct {
 		name    string
 		alpha   float64

@@ -326,7 +326,7 @@ func (c *cohortRun) poolCandidates() error {
 	d := c.out.Discovery
 	for _, pc := range c.paretoOf(all, use) {
 		st := c.cands[pc.ci].st
-		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-k%d-p%d", formName(st), len(st.Terms), pc.r.Complexity),
+		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-t%d-p%d", formName(st), len(st.Terms), pc.r.Complexity),
 			Layout: st.Layout, Terms: len(st.Terms), Result: pc.r})
 		c.paretoCand = append(c.paretoCand, pc.ci)
 	}

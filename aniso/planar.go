@@ -616,3 +616,10 @@ func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 		}
 	}
 }
+
+// PlanarDensity returns the factor c of the in-plane density of
+// concentration b ≥ 0 written as ρ(θ) = c·exp(b(cos 2(θ − α) − 1)),
+// c = e^b/(π I0(b)) (finite for every b: I0 is scaled by e^−b), and its
+// mean resultant r = ∫ρ cos 2(θ − α) dθ = I1(b)/I0(b). An independent
+// implementation of the density can use them.
+func PlanarDensity(b float64) (factor, r float64) { return density(b) }

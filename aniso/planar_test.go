@@ -546,3 +546,25 @@ func TestPlanarScanFill(t *testing.T) {
 		}
 	}
 }
+
+// The constants of the in-plane density against gonum's Gauss–Legendre
+// integration over one period: ∫ρ dθ = 1 and ∫ρ cos 2(θ − α) dθ = r, for
+// concentrations from 0 to 1000 (through the series and the asymptotic
+// branch of the Bessel functions).
+func TestPlanarDensityConstants(t *testing.T) {
+	for _, b := range []float64{0, 0.3, 2, 12, 29.9, 30.1, 200, 1000} {
+		c, r := PlanarDensity(b)
+		rho := func(th float64) float64 { return c * math.Exp(b*(math.Cos(2*th)-1)) }
+		var one, mean float64
+		const panels = 400
+		for k := 0; k < panels; k++ {
+			lo := -math.Pi/2 + math.Pi*float64(k)/panels
+			hi := lo + math.Pi/panels
+			one += quad.Fixed(rho, lo, hi, 20, quad.Legendre{}, 0)
+			mean += quad.Fixed(func(th float64) float64 { return rho(th) * math.Cos(2*th) }, lo, hi, 20, quad.Legendre{}, 0)
+		}
+		if math.Abs(one-1) > 1e-13 || math.Abs(mean-r) > 1e-13 {
+			t.Errorf("b = %g: ∫ρ = %.16g, ∫ρ cos 2θ = %.16g, r = %.16g", b, one, mean, r)
+		}
+	}
+}

@@ -307,7 +307,7 @@ func TestCheckPassesHGO(t *testing.T) {
 			t.Errorf("%s: %+v", name, rep)
 		}
 		y := rep.Moduli.Young[c.slack]
-		if !near(rep.Moduli.InitialShear, c.cval, 1e-14) || !near(y.Compression, 3*c.cval, 1e-12) || len(y.CompressionTerms) != 0 {
+		if !near(float64(rep.Moduli.InitialShear), c.cval, 1e-14) || !near(float64(y.Compression), 3*c.cval, 1e-12) || len(y.CompressionTerms) != 0 {
 			t.Errorf("%s: μ0 = %g, %s compression %g (%v); want %g, %g", name, rep.Moduli.InitialShear, y.Direction, y.Compression, y.CompressionTerms, c.cval, 3*c.cval)
 		}
 		if !(y.Tension > y.Compression) || len(y.TensionTerms) != 2 {
@@ -428,10 +428,10 @@ func TestEvaluate(t *testing.T) {
 		pp, pm := nominal(rows[2+2*j]), nominal(rows[3+2*j])
 		for i := 0; i < 4; i++ {
 			fd := (pp[i] - pm[i]) / (2 * h)
-			if math.Abs(fd-r.Tangent.Matrix[i][j]) > 1e-6*math.Max(1, math.Abs(fd)) {
+			if math.Abs(fd-float64(r.Tangent.Matrix[i][j])) > 1e-6*math.Max(1, math.Abs(fd)) {
 				t.Errorf("dP%s/dF%s = %g, finite difference %g", fe.TangentOrder[i], fe.TangentOrder[j], r.Tangent.Matrix[i][j], fd)
 			}
-			if r.Tangent.Matrix[i][j] != r.Tangent.Matrix[j][i] && math.Abs(r.Tangent.Matrix[i][j]-r.Tangent.Matrix[j][i]) > 1e-12 {
+			if r.Tangent.Matrix[i][j] != r.Tangent.Matrix[j][i] && math.Abs(float64(r.Tangent.Matrix[i][j]-r.Tangent.Matrix[j][i])) > 1e-12 {
 				t.Errorf("tangent not symmetric at %d,%d", i, j)
 			}
 		}

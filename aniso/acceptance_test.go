@@ -64,6 +64,33 @@ func TestVerdictAcceptance(t *testing.T) {
 			if !ok {
 				t.Errorf("verdict %s, want one of %v", d.Verdict.Families, tc.want)
 			}
+			// Degenerate terms never reach a candidate (the specimens have at
+			// most 40 points per protocol, so p is the search problem).
+			for _, c := range d.Pareto {
+				if deg := c.Result.Degenerate(p); len(deg) > 0 {
+					t.Errorf("candidate %s keeps a degenerate term: %s", c.Name, deg[0].Detail)
+				}
+			}
+			// The same verdict, form and angles (to 0.1°) in MPa and with
+			// every stress nudged by 1 − 1e-9 (the unit sweep; the full sweep
+			// over Pa…1e6 runs in TestDiscoverUnitInvariance).
+			ref := outcomeFrom(d)
+			for _, sc := range []struct {
+				f    float64
+				unit string
+			}{{1e-3, "MPa"}, {1 - 1e-9, "kPa"}} {
+				ps, err := NewProblem(scaleSpecimen(spec, sc.f, sc.unit), nil)
+				if err != nil {
+					t.Fatal(err)
+				}
+				ds, err := Discover(ps, DiscoverSettings{})
+				if err != nil {
+					t.Fatal(err)
+				}
+				if got := outcomeFrom(ds); !got.equal(ref) {
+					t.Errorf("×%g (%s): %+v, kPa gave %+v", sc.f, sc.unit, got, ref)
+				}
+			}
 			fams := d.Best().Result.Model.Families
 			if tc.family && len(fams) == 0 {
 				t.Errorf("no fibre family found")

@@ -588,114 +588,28 @@ type Moduli struct {
 }
 
 // SmallStrainModuli returns the moduli at F = I, with uniaxial moduli
-// along each of directionsDeg.
+// along each of directionsDeg. Fibre terms stiffen one side only (a fibre
+// in compression carries nothing), so the response to a small stress is
+// found by an active-set solve: engage every one-sided piece whose
+// activation s·ε is positive at the current strain, solve, repeat until
+// the engaged set no longer changes (the energy is convex and piecewise
+// quadratic in ε, so the set settles). A family spread in the plane is
+// represented by planarModuliDirections directions, each weighted by the
+// density.
 func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 	if err := m.Validate(); err != nil {
 		return Moduli{}, err
 	}
-	I := [4]float64{1, 0, 0, 1}
-	// The isotropic terms alone give the two-sided part; the one-sided
-	// terms are added below, never through the switch test at I4 = 1,
-	// which round-off in cos²α + sin²α could tip either way.
-	iso := &Model{Families: m.Families}
-	var mod Moduli
-	for _, t := range m.Terms {
-		if t.Shape.Arg == terms.I1 || t.Shape.Arg == terms.I2 {
-			iso.Terms = append(iso.Terms, t)
-			mod.InitialShear += 2 * t.Weight * t.Shape.Eval(0, t.Params).D1
-		}
-		if t.Shape.Arg == terms.Green {
-			iso.Terms = append(iso.Terms, t) // two-sided, but not isotropic
-		}
-		if t.Shape.Arg == terms.Principal {
-			iso.Terms = append(iso.Terms, t)
-			mod.InitialShear += t.Weight * principalShear(t.Shape, t.Params)
-		}
-	}
-	base, err := iso.Tangent(I)
+	D0, mu, err := m.twoSidedModuli()
 	if err != nil {
 		return Moduli{}, err
 	}
-	D0 := voigt(&base.A)
-	q := newInvariantJets(I)
-	var sw []switchedTerm
-	for i, t := range m.Terms {
-		a := t.Shape.Arg
-		if a != terms.Fibre && a != terms.Fifth && a != terms.Cofactor {
-			continue
-		}
-		if t.Weight == 0 {
-			continue
-		}
-		I4, I5, K := q.fibreJets(m.Families[t.Family].Angle)
-		kappa := m.Families[t.Family].Dispersion
-		// Force the term on: evaluate its argument as if switched on.
-		forced := I4
-		forced.v = 2
-		x, _ := argJet(a, kappa, &q, &forced, &I5, &K)
-		switch a {
-		case terms.Fibre:
-			x.v = kappa*(q.I1.v-3) + (1-3*kappa)*(I4.v-1)
-		case terms.Fifth:
-			x.v = I5.v - 1
-		}
-		// The right-hand limit of f′ and f″ at x = 0.
-		v := t.Shape.Eval(math.Max(x.v, 0)+1e-300, t.Params)
-		var A [4][4]float64
-		for r := range A {
-			for c := range A[r] {
-				A[r][c] = t.Weight * (v.D2*x.g[r]*x.g[c] + v.D1*x.h[r][c])
-			}
-		}
-		st := switchedTerm{index: i, D: voigt(&A)}
-		if a == terms.Cofactor {
-			st.s = voigtVec(K.g)
-		} else {
-			st.s = voigtVec(I4.g)
-		}
-		sw = append(sw, st)
-	}
-	if len(sw) > 16 {
-		return Moduli{}, fmt.Errorf("%d one-sided terms; small-strain moduli handle at most 16", len(sw))
-	}
-	mod.OneSided = len(sw)
-	respond := func(sig [3]float64) ([3]float64, []int, bool) {
-		for mask := 0; mask < 1<<len(sw); mask++ {
-			D := D0
-			var on []int
-			for k, st := range sw {
-				if mask&(1<<k) != 0 {
-					on = append(on, st.index)
-					for r := range D {
-						for c := range D[r] {
-							D[r][c] += st.D[r][c]
-						}
-					}
-				}
-			}
-			eps, ok := solve3(D, sig)
-			if !ok {
-				continue
-			}
-			consistent := true
-			for k, st := range sw {
-				act := st.s[0]*eps[0] + st.s[1]*eps[1] + st.s[2]*eps[2]
-				scale := 1e-12 * (math.Abs(st.s[0]*eps[0]) + math.Abs(st.s[1]*eps[1]) + math.Abs(st.s[2]*eps[2]))
-				if (mask&(1<<k) != 0 && act < -scale) || (mask&(1<<k) == 0 && act > scale) {
-					consistent = false
-					break
-				}
-			}
-			if consistent {
-				return eps, on, true
-			}
-		}
-		return [3]float64{}, nil, false
-	}
-	if eps, _, ok := respond([3]float64{0, 0, 1}); ok && eps[2] != 0 {
+	sw := m.switchedTerms()
+	mod := Moduli{InitialShear: mu, OneSided: countTerms(sw)}
+	if eps, _, ok := respond(D0, sw, [3]float64{0, 0, 1}); ok && eps[2] != 0 {
 		mod.ShearPositive = 1 / eps[2]
 	}
-	if eps, _, ok := respond([3]float64{0, 0, -1}); ok && eps[2] != 0 {
+	if eps, _, ok := respond(D0, sw, [3]float64{0, 0, -1}); ok && eps[2] != 0 {
 		mod.ShearNegative = -1 / eps[2]
 	}
 	for _, d := range directionsDeg {
@@ -704,7 +618,7 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		dm := DirectionalModulus{AngleDeg: d}
 		for _, sign := range []float64{1, -1} {
 			sig := [3]float64{sign * nn[0], sign * nn[1], sign * nn[2]}
-			eps, on, ok := respond(sig)
+			eps, on, ok := respond(D0, sw, sig)
 			if !ok {
 				continue
 			}
@@ -721,6 +635,159 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		mod.Young = append(mod.Young, dm)
 	}
 	return mod, nil
+}
+
+// twoSidedModuli returns the Voigt stiffness at F = I of the terms that
+// act on both sides of the reference (isotropic, principal-stretch and
+// Green-strain terms) and the initial shear modulus of the isotropic ones.
+// The one-sided terms are added by switchedTerms, never through the switch
+// test at I4 = 1, which round-off in cos²α + sin²α could tip either way.
+func (m *Model) twoSidedModuli() ([3][3]float64, float64, error) {
+	iso := &Model{Families: m.Families}
+	mu := 0.0
+	for _, t := range m.Terms {
+		switch t.Shape.Arg {
+		case terms.I1, terms.I2:
+			iso.Terms = append(iso.Terms, t)
+			mu += 2 * t.Weight * t.Shape.Eval(0, t.Params).D1
+		case terms.Green:
+			iso.Terms = append(iso.Terms, t) // two-sided, but not isotropic
+		case terms.Principal:
+			iso.Terms = append(iso.Terms, t)
+			mu += t.Weight * principalShear(t.Shape, t.Params)
+		}
+	}
+	base, err := iso.Tangent([4]float64{1, 0, 0, 1})
+	if err != nil {
+		return [3][3]float64{}, 0, err
+	}
+	return voigt(&base.A), mu, nil
+}
+
+// planarModuliDirections is how many directions stand for a family spread
+// in the plane in the small-strain moduli.
+const planarModuliDirections = 180
+
+// switchedTerms returns the one-sided pieces at F = I: each fibre,
+// cofactor or I5 term of an ideal or κ-dispersed family, and each of
+// planarModuliDirections directions of a term on a planar family.
+func (m *Model) switchedTerms() []switchedTerm {
+	q := newInvariantJets([4]float64{1, 0, 0, 1})
+	var sw []switchedTerm
+	for i, t := range m.Terms {
+		a := t.Shape.Arg
+		if (a != terms.Fibre && a != terms.Fifth && a != terms.Cofactor) || t.Weight == 0 {
+			continue
+		}
+		fam := m.Families[t.Family]
+		if !fam.Planar {
+			sw = append(sw, oneSided(i, &t, fam.Angle, fam.Dispersion, t.Weight, &q))
+			continue
+		}
+		norm, _ := density(fam.Concentration)
+		const n = planarModuliDirections
+		for k := 0; k < n; k++ {
+			th := fam.Angle + math.Pi*(float64(k)+0.5)/n - math.Pi/2
+			rho := norm * math.Exp(fam.Concentration*(math.Cos(2*(th-fam.Angle))-1))
+			sw = append(sw, oneSided(i, &t, th, 0, t.Weight*rho*math.Pi/n, &q))
+		}
+	}
+	return sw
+}
+
+// oneSided is term t at fibre angle alpha with weight w as a switched
+// piece: its stiffness when engaged, the right-hand limit of f′ and f″ at
+// x = 0.
+func oneSided(index int, t *Term, alpha, kappa, w float64, q *invariantJets) switchedTerm {
+	a := t.Shape.Arg
+	I4, I5, K := q.fibreJets(alpha)
+	// Force the term on: evaluate its argument as if switched on.
+	forced := I4
+	forced.v = 2
+	x, _ := argJet(a, kappa, q, &forced, &I5, &K)
+	switch a {
+	case terms.Fibre:
+		x.v = kappa*(q.I1.v-3) + (1-3*kappa)*(I4.v-1)
+	case terms.Fifth:
+		x.v = I5.v - 1
+	}
+	v := t.Shape.Eval(math.Max(x.v, 0)+1e-300, t.Params)
+	var A [4][4]float64
+	for r := range A {
+		for c := range A[r] {
+			A[r][c] = w * (v.D2*x.g[r]*x.g[c] + v.D1*x.h[r][c])
+		}
+	}
+	st := switchedTerm{index: index, D: voigt(&A)}
+	if a == terms.Cofactor {
+		st.s = voigtVec(K.g)
+	} else {
+		st.s = voigtVec(I4.g)
+	}
+	return st
+}
+
+// countTerms returns how many model terms the pieces belong to.
+func countTerms(sw []switchedTerm) int {
+	n := 0
+	for k, st := range sw {
+		if k == 0 || st.index != sw[k-1].index {
+			n++
+		}
+	}
+	return n
+}
+
+// respond returns the small strain ε (Voigt: ε11, ε22, γ12/2) under the
+// stress sig, with the indices of the terms engaged, by the active-set
+// solve described at SmallStrainModuli; ok is false when no consistent
+// engaged set is found.
+func respond(D0 [3][3]float64, sw []switchedTerm, sig [3]float64) ([3]float64, []int, bool) {
+	on := make([]bool, len(sw))
+	for k := range on {
+		on[k] = true
+	}
+	for it := 0; it < 100; it++ {
+		D := D0
+		for k, st := range sw {
+			if on[k] {
+				for r := range D {
+					for c := range D[r] {
+						D[r][c] += st.D[r][c]
+					}
+				}
+			}
+		}
+		eps, ok := solve3(D, sig)
+		if !ok {
+			return [3]float64{}, nil, false
+		}
+		changed := false
+		for k, st := range sw {
+			act := st.s[0]*eps[0] + st.s[1]*eps[1] + st.s[2]*eps[2]
+			scale := 1e-12 * (math.Abs(st.s[0]*eps[0]) + math.Abs(st.s[1]*eps[1]) + math.Abs(st.s[2]*eps[2]))
+			want := on[k]
+			switch {
+			case act > scale:
+				want = true
+			case act < -scale:
+				want = false
+			}
+			if want != on[k] {
+				on[k], changed = want, true
+			}
+		}
+		if !changed {
+			var terms []int
+			for k, st := range sw {
+				if on[k] && (len(terms) == 0 || terms[len(terms)-1] != st.index) {
+					terms = append(terms, st.index)
+				}
+			}
+			return eps, terms, true
+		}
+	}
+	return [3]float64{}, nil, false
 }
 
 // solve3 solves D x = b by Cramer's rule; ok is false when D is singular

@@ -145,6 +145,15 @@ type Columns struct {
 	// are only compared with each other.
 	Search bool
 
+	// famData, famFamilies, famAngle, famDerivs and famValid say for which
+	// dataset and family angles fk and fb were last computed, and whether
+	// with derivatives.
+	famData     *Dataset
+	famFamilies int
+	famAngle    []float64
+	famDerivs   []bool
+	famValid    []bool
+
 	// scan, when set, caches planar directions and slopes for a coarse
 	// angle scan, whose fills change the families' angles and spreads only
 	// (see fillPlanarScan).
@@ -190,13 +199,38 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		c.fb = make([]famBases, np*nf)
 	}
 	fk, fb := c.fk[:np*nf], c.fb[:np*nf]
+	// A family whose angle has not moved since the last fill of these
+	// columns on this dataset keeps its kinematics and bases (a profile
+	// re-optimises everything but the angle).
+	fresh := c.famData != d || c.famFamilies != nf
+	if fresh {
+		c.famData, c.famFamilies = d, nf
+		c.famAngle = append(c.famAngle[:0], make([]float64, nf)...)
+		c.famDerivs = append(c.famDerivs[:0], make([]bool, nf)...)
+		c.famValid = append(c.famValid[:0], make([]bool, nf)...)
+	}
 	var sc [2][2]float64
-	for f := 0; f < nf && f < 2; f++ {
-		sc[f][0], sc[f][1] = math.Sincos(m.Families[f].Angle)
+	var redo [8]bool
+	for f := 0; f < nf; f++ {
+		fam := &m.Families[f]
+		valid := f < len(redo) && c.famValid[f] && c.famAngle[f] == fam.Angle && (c.famDerivs[f] || !derivs)
+		if f < len(redo) {
+			redo[f] = !fam.Planar && !valid
+		}
+		if f < 2 {
+			sc[f][0], sc[f][1] = math.Sincos(fam.Angle)
+		}
+		c.famAngle[f], c.famValid[f] = fam.Angle, !fam.Planar
+		if f >= len(redo) || redo[f] {
+			c.famDerivs[f] = derivs
+		}
 	}
 	for i := range d.kin {
 		k := &d.kin[i]
 		for f := 0; f < nf; f++ {
+			if f < len(redo) && !redo[f] {
+				continue
+			}
 			q := i*nf + f
 			if f < 2 {
 				fk[q] = k.fibreSC(sc[f][0], sc[f][1])

@@ -36,7 +36,7 @@ func TestColumnDerivativesFiniteDifference(t *testing.T) {
 		for i := range m.Terms {
 			for j, p := range m.Terms[i].Shape.Params {
 				switch p.Name {
-				case "rate":
+				case "stiffening":
 					m.Terms[i].Params[j] = 1.7
 				case "onset":
 					m.Terms[i].Params[j] = 1.03 // inside its bounds on both sides

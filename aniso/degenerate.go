@@ -108,8 +108,8 @@ type felt struct {
 // stress rows (the loading axes 11 and 22).
 func (r *Result) feltShare(p *Problem) []felt {
 	out := make([]felt, len(r.Structure.Terms))
-	c, err := unweightedColumns(p, r.Model)
-	if err != nil {
+	contrib, ok := r.groupContributions(p)
+	if !ok {
 		return out
 	}
 	type axis struct {
@@ -136,17 +136,13 @@ func (r *Result) feltShare(p *Problem) []felt {
 		if n == 0 || !(rng > 0) || math.IsInf(rng, 0) {
 			continue
 		}
-		for g, members := range r.e.groups {
+		for g := range r.e.groups {
 			count := 0
 			for row := range p.Measured {
 				if p.RowProtocol[row] != ax.pi || p.RowComponent[row] != ax.comp {
 					continue
 				}
-				s := 0.0
-				for _, k := range members {
-					s += mul0(r.Model.Terms[k].Weight, c.A[k*c.Rows+row])
-				}
-				if math.Abs(s) > SliverContribution*rng {
+				if math.Abs(contrib(g, row)) > SliverContribution*rng {
 					count++
 				}
 			}
@@ -159,4 +155,90 @@ func (r *Result) feltShare(p *Problem) []felt {
 		}
 	}
 	return out
+}
+
+// maxPruneRounds bounds how often discovery drops degenerate terms from one
+// candidate and refits it.
+const maxPruneRounds = 3
+
+// withoutDegenerate drops the terms of r the data do not support
+// (Degenerate) and refits the rest, warm-started from r, until none is
+// left: such terms never reach a discovered card. It returns r itself when
+// it has none, and nil when nothing would be left or a refit fails.
+func withoutDegenerate(p *Problem, r *Result, set Settings) *Result {
+	for round := 0; round < maxPruneRounds; round++ {
+		deg := r.Degenerate(p)
+		if len(deg) == 0 {
+			return r
+		}
+		drop := map[int]bool{}
+		for _, d := range deg {
+			drop[d.Term] = true
+		}
+		st := r.Structure.withTerms(nil)
+		for i, t := range r.Structure.Terms {
+			if r.Weights[i] > 0 && !drop[i] {
+				st.Terms = append(st.Terms, t)
+			}
+		}
+		if len(st.Terms) == 0 || st.Validate() != nil {
+			return nil
+		}
+		s := set
+		s.Init, s.NoScan = r.Params(), true
+		next, err := Fit(p, st, s)
+		if err != nil {
+			return nil
+		}
+		r = next
+	}
+	if len(r.Degenerate(p)) > 0 {
+		return nil
+	}
+	return r
+}
+
+// groupContributions returns a function giving design group g's
+// contribution to row `row` of p, unweighted, in the stress unit. When p is
+// the problem r was fitted to, it reads the engine's weighted design
+// columns at the optimum (re-evaluated there if the engine has moved);
+// otherwise it fills the model's columns on p.
+func (r *Result) groupContributions(p *Problem) (func(g, row int) float64, bool) {
+	e := r.e
+	if e != nil && e.p == p {
+		if !equalFloats(e.at, r.theta) {
+			e.eval(r.theta, false)
+		}
+		rows := e.rows
+		return func(g, row int) float64 {
+			rw := p.Data.rowWeight[row] // canonical: e.w is in units of p.Scale
+			if rw == 0 {
+				return 0
+			}
+			return mul0(e.w[g], e.A[g*rows+row]) / rw * p.Scale
+		}, true
+	}
+	c, err := unweightedColumns(p, r.Model)
+	if err != nil {
+		return nil, false
+	}
+	return func(g, row int) float64 {
+		s := 0.0
+		for _, k := range r.e.groups[g] {
+			s += mul0(r.Model.Terms[k].Weight, c.A[k*c.Rows+row])
+		}
+		return s
+	}, true
+}
+
+func equalFloats(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }

@@ -6,8 +6,6 @@ import (
 	"math"
 	"runtime"
 	"sort"
-	"strings"
-	"sync"
 	"time"
 
 	"github.com/weft-tools/weft/terms"
@@ -90,65 +88,25 @@ func (s DiscoverSettings) withDefaults() DiscoverSettings {
 	return s
 }
 
-// CVFold is one leave-one-protocol-out fold.
-type CVFold struct {
-	// Protocol is the held-out protocol's label.
-	Protocol string
-	// Error is the held-out normalised RMSE: √(weighted SSE / components),
-	// with the rows weighted as package biaxial delivers them (each
-	// protocol-axis by 1/(range·√points)), so 0.01 is about 1 % of range.
-	Error float64
-	// Metrics of the held-out prediction per component.
-	Metrics []Metric
-}
-
-// CVScore summarises leave-one-protocol-out cross-validation.
-type CVScore struct {
-	Folds []CVFold
-	// Mean and StdErr (standard deviation / √folds) of the fold errors.
-	Mean, StdErr float64
-}
-
 // Candidate is a fitted model form considered by discovery.
 type Candidate struct {
 	// Name is "preset:<name>" for presets, else
-	// "<layout>[+dispersed|+kappa]-k<terms>-p<parameters>".
+	// "<layout>[+dispersed|+kappa]-t<terms>-p<parameters>".
 	Name   string
 	Layout Layout
 	// Terms is the number of active terms.
-	Terms  int
+	Terms int
+	// Result is the candidate's fit on the points discovery searched (see
+	// DiscoverSettings.SearchPoints); for the chosen candidate, its refit
+	// on every point.
 	Result *Result
+	// Searched is, for the chosen candidate, its fit on the searched
+	// points that the refit replaced (nil otherwise): the fit to compare
+	// with the other candidates, whose losses and BICs are on those
+	// points (see Compared).
+	Searched *Result
 	// CV is nil when the data have a single protocol.
 	CV *CVScore
-}
-
-// Verdict is the answer on the number of fibre families.
-type Verdict struct {
-	// Families is "0", "1", "2", "1-or-mirror-pair" (without shear
-	// information one family and a mirror pair give the same normal
-	// stresses) or "undecided" (the evidence points at another family
-	// count without settling it, or one protocol cannot decide).
-	Families string
-	// Reason states the evidence in words and numbers.
-	Reason string
-	// DeltaBIC is each form's best BIC minus the best over forms, keyed by
-	// FormKey ("0", "1", "1+dispersed", "2-mirror", "2-free", ...).
-	DeltaBIC map[string]float64
-	// CVError is each form's best held-out error, same keys; empty
-	// without cross-validation.
-	CVError map[string]float64
-	// Comparisons are the steps of the walk from the simplest form to the
-	// richest (see select.go).
-	Comparisons []LayoutComparison
-	// RuledOut names the richer explanations that fitted better without
-	// beating the verdict's form by more than the noise, and look-alikes.
-	RuledOut []string
-	// Noise is the estimated noise in held-out-error units and StdErrFloor
-	// the smallest standard error a comparison may claim.
-	Noise, StdErrFloor float64
-	// Decider names the extra measurement that would settle an undecided
-	// case, or is empty.
-	Decider string
 }
 
 // Discovery is the outcome of model discovery for one specimen.
@@ -181,79 +139,19 @@ type Discovery struct {
 	hasCV bool
 }
 
+// Compared returns the fit by which c is compared with the other
+// candidates: Searched when the chosen model was refitted on every point,
+// else Result. Losses, information criteria and R² of candidates are
+// comparable only on the same points.
+func (c *Candidate) Compared() *Result {
+	if c.Searched != nil {
+		return c.Searched
+	}
+	return c.Result
+}
+
 // Best returns the chosen candidate.
 func (d *Discovery) Best() *Candidate { return &d.Pareto[d.Chosen] }
-
-// fullStructure has every candidate shape of a form: isotropic ones once
-// and fibre ones on each family of the layout (fibre-stretch shapes only on
-// in-plane dispersed families).
-func fullStructure(shapes []*terms.Shape, f Structure) Structure {
-	st := f.withTerms(nil)
-	l := f.Layout
-	for _, sh := range shapes {
-		if !sh.Arg.NeedsFamily() {
-			st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: -1})
-		}
-	}
-	nf := l.Families()
-	if l == LayoutMirror {
-		nf = 1
-	}
-	for f := 0; f < nf; f++ {
-		for _, sh := range shapes {
-			if sh.Arg.NeedsFamily() && (!st.Planar || sh.Arg == terms.Fibre) {
-				st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: f})
-			}
-		}
-	}
-	return st
-}
-
-// pool runs jobs on n workers and keeps results in job order, so that the
-// outcome does not depend on scheduling.
-type pool struct {
-	n        int
-	progress func(done, total int)
-	mu       sync.Mutex
-	done     int
-	total    int
-}
-
-func (p *pool) run(jobs []func()) {
-	p.mu.Lock()
-	p.total += len(jobs)
-	p.mu.Unlock()
-	ch := make(chan int)
-	var wg sync.WaitGroup
-	for w := 0; w < p.n; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range ch {
-				jobs[i]()
-				p.mu.Lock()
-				p.done++
-				d, t := p.done, p.total
-				p.mu.Unlock()
-				if p.progress != nil {
-					p.progress(d, t)
-				}
-			}
-		}()
-	}
-	for i := range jobs {
-		ch <- i
-	}
-	close(ch)
-	wg.Wait()
-}
-
-// subset is a set of design terms of a full structure with its fixed-angle
-// loss.
-type subset struct {
-	terms []int
-	loss  float64
-}
 
 // Errors of Discover that say the data gave it nothing to work with.
 var (
@@ -264,15 +162,67 @@ var (
 )
 
 // Discover finds which catalogue terms and how many fibre families the data
-// support. For each layout it fits the whole candidate set (non-negativity
-// already zeroes many weights), searches every subset of up to K terms at
-// the learned angles and shape parameters with non-negative least squares on
-// the cross products, refits the best subsets of each size with their own
-// angles and shape parameters, and cross-validates by leaving one protocol
-// out. The pick is the smallest model whose cross-validated error is within
-// one standard error of the best (Hastie, Tibshirani & Friedman 2009, §7.10).
+// support. For each form (layout, ideal or spread) it fits the whole
+// candidate set (non-negativity already zeroes many weights), searches
+// every subset of up to K terms at the learned angles and shape parameters
+// with non-negative least squares on the cross products, refits the best
+// subsets of each size with their own angles and shape parameters, grows
+// them term by term, and cross-validates by leaving one protocol out. The
+// verdict on the fibre families comes first, from whole forms (select.go);
+// the pick inside the winning form follows the one-standard-error rule
+// (Hastie, Tibshirani & Friedman 2009, §7.10). The stages are the methods
+// of search below, in the order Discover calls them.
 func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	start := time.Now()
+	s, err := newSearch(all, set)
+	if err != nil {
+		return nil, err
+	}
+	s.fitFullForms()
+	s.refitSubsets()
+	s.forwardSteps()
+	s.planarVariants()
+	if err := s.paretoFront(); err != nil {
+		return nil, err
+	}
+	s.comparePresets()
+	s.candidateMetrics()
+	s.crossValidate()
+	s.d.decide(s.p)
+	s.polish()
+	s.d.Elapsed = time.Since(start)
+	return s.d, nil
+}
+
+// search is the state of one discovery: the problem at full size and the
+// subset searched, the forms, their full fits and every refit so far.
+type search struct {
+	all, p *Problem
+	set    DiscoverSettings
+	fitSet Settings
+	pl     *pool
+	d      *Discovery
+
+	forms     []Structure
+	variantOf map[int]int // planar form → its ideal layout, for derived forms
+	full      []*Result
+	fullErr   []error
+	refits    []*refit
+}
+
+// refit is one candidate form's fit, warm-started from init.
+type refit struct {
+	form int
+	st   Structure
+	init map[string]float64
+	res  *Result
+}
+
+// sizeKey indexes the best refit of a form at one number of active terms.
+type sizeKey struct{ form, size int }
+
+// newSearch checks the data, takes the search subset and sets up the forms.
+func newSearch(all *Problem, set DiscoverSettings) (*search, error) {
 	set = set.withDefaults()
 	p, err := searchSubset(all, set.SearchPoints)
 	if err != nil {
@@ -299,189 +249,195 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 		}
 		set.Layouts, set.NoPlanar, set.Dispersion = ls, true, false
 	}
-	pl := &pool{n: set.Workers, progress: set.Progress}
-	fitSet := set.Fit
-	fitSet.Profile = false
-	if fitSet.Tolerance == 0 {
+	s := &search{all: all, p: p, set: set, pl: &pool{n: set.Workers, progress: set.Progress},
+		d: &Discovery{Points: all.Data.Points(), SearchPoints: p.Data.Points()}}
+	s.fitSet = set.Fit
+	s.fitSet.Profile = false
+	s.fitSet.noMetrics = true
+	if s.fitSet.Tolerance == 0 {
 		// Comparing models needs their losses to a few digits, not ten;
-		// the chosen model is polished at the default below, with the
+		// the chosen model is polished at the default (polish), with the
 		// accurate quadrature.
-		fitSet.Tolerance = searchTolerance
-		fitSet.SearchQuadrature = true
+		s.fitSet.Tolerance = searchTolerance
+		s.fitSet.SearchQuadrature = true
 	}
-	if fitSet.MaxIterations == 0 {
-		fitSet.MaxIterations = searchMaxIterations
+	if s.fitSet.MaxIterations == 0 {
+		s.fitSet.MaxIterations = searchMaxIterations
 	}
-
-	// 1. Full candidate fits per form (layout, with or without dispersion).
 	// One dispersed family is searched like any form; the two-family
 	// dispersed forms are variants of their ideal layout's best models
-	// (step 2b), not searched on their own: an angular integration per
-	// point makes each of their fits tens of times dearer, and a search
+	// (planarVariants), not searched on their own: an angular integration
+	// per point makes each of their fits tens of times dearer, and a search
 	// over two angles would multiply that again.
-	var forms []Structure
-	variantOf := map[int]int{}
+	s.variantOf = map[int]int{}
 	for _, l := range set.Layouts {
-		forms = append(forms, Structure{Layout: l})
+		s.forms = append(s.forms, Structure{Layout: l})
 		if l != LayoutNone && !set.NoPlanar {
 			if l != LayoutSingle {
-				variantOf[len(forms)] = len(forms) - 1
+				s.variantOf[len(s.forms)] = len(s.forms) - 1
 			}
-			forms = append(forms, Structure{Layout: l, Planar: true})
+			s.forms = append(s.forms, Structure{Layout: l, Planar: true})
 		}
 		if l != LayoutNone && set.Dispersion {
-			forms = append(forms, Structure{Layout: l, Dispersion: true})
+			s.forms = append(s.forms, Structure{Layout: l, Dispersion: true})
 		}
 	}
-	full := make([]*Result, len(forms))
-	fullErr := make([]error, len(forms))
+	return s, nil
+}
+
+// fitFullForms fits the whole candidate set of every searched form.
+func (s *search) fitFullForms() {
+	s.full = make([]*Result, len(s.forms))
+	s.fullErr = make([]error, len(s.forms))
 	var jobs []func()
-	for i, f := range forms {
-		i, f := i, f
-		if _, ok := variantOf[i]; ok {
-			fullErr[i] = errVariant
+	for i, f := range s.forms {
+		if _, ok := s.variantOf[i]; ok {
+			s.fullErr[i] = errVariant
 			continue
 		}
 		jobs = append(jobs, func() {
-			st := fullStructure(set.Shapes, f)
-			full[i], fullErr[i] = Fit(p, st, fitSet)
+			s.full[i], s.fullErr[i] = Fit(s.p, fullStructure(s.set.Shapes, f), s.fitSet)
 		})
 	}
-	pl.run(jobs)
+	s.pl.run(jobs)
+}
 
-	// 2. Subset search at fixed angles and shape parameters, then a refit
-	// of the best subsets of each size with their own angles and shape
-	// parameters.
-	d := &Discovery{Points: all.Data.Points(), SearchPoints: p.Data.Points()}
-	type refit struct {
-		layout int
-		st     Structure
-		init   map[string]float64
-		res    *Result
+// runRefits fits each refit's form, warm-started, drops the terms the
+// data do not support (withoutDegenerate) and records the refits.
+func (s *search) runRefits(rs []*refit) {
+	var jobs []func()
+	for _, rf := range rs {
+		jobs = append(jobs, func() {
+			set := s.fitSet
+			set.Init, set.NoScan = rf.init, true
+			if r, err := Fit(s.p, rf.st, set); err == nil {
+				rf.res = withoutDegenerate(s.p, r, set)
+			}
+		})
 	}
-	var refits []*refit
-	runRefits := func(rs []*refit) {
-		var jobs []func()
-		for _, rf := range rs {
-			rf := rf
-			jobs = append(jobs, func() {
-				s := fitSet
-				s.Init = rf.init
-				s.NoScan = true
-				rf.res, _ = Fit(p, rf.st, s)
-			})
-		}
-		pl.run(jobs)
-		refits = append(refits, rs...)
-	}
+	s.pl.run(jobs)
+	s.refits = append(s.refits, rs...)
+}
+
+// refitSubsets searches the term subsets of every form at up to
+// maxAnchors local optima of its full fit (so that one poor optimum of the
+// whole catalogue does not decide which subsets are tried) and refits the
+// best of each size with their own angles and shape parameters.
+func (s *search) refitSubsets() {
 	var round []*refit
-	for i, f := range forms {
-		l := formName(f)
-		if _, ok := variantOf[i]; ok {
+	for i, f := range s.forms {
+		if _, ok := s.variantOf[i]; ok {
 			continue
 		}
-		if fullErr[i] != nil {
-			d.Search = append(d.Search, fmt.Sprintf("%s: the full candidate fit failed (%v)", l, fullErr[i]))
+		if s.fullErr[i] != nil {
+			s.d.Search = append(s.d.Search, fmt.Sprintf("%s: the full candidate fit failed (%v)", formName(f), s.fullErr[i]))
 			continue
 		}
-		// Anchors: the full fit's optimum and its other local minima, so
-		// that one poor optimum of the whole catalogue does not decide which
-		// subsets are tried.
-		anchors := full[i].alternates
+		full := s.full[i]
+		anchors := full.alternates
+		keep := s.set.RefitPerSize
+		if f.Planar {
+			// A dispersed form's fits cost an angular integration per
+			// point: one anchor, the best subset of each size.
+			anchors, keep = anchors[:min(len(anchors), 1)], 1
+		}
 		if len(anchors) > maxAnchors {
 			anchors = anchors[:maxAnchors]
 		}
 		seen := map[string]bool{}
 		var how string
 		for ai, th := range anchors {
-			best, h := searchSubsets(full[i], th, set.MaxTerms, set.RefitPerSize, set.ExhaustiveLimit)
+			best, h := searchSubsets(full, th, s.set.MaxTerms, keep, s.set.ExhaustiveLimit)
 			if ai == 0 {
 				how = h
 			}
-			init := paramsAt(full[i], th)
+			init := paramsAt(full, th)
 			for _, group := range best {
-				for _, s := range group {
-					key := fmt.Sprint(s.terms)
+				for _, sub := range group {
+					key := fmt.Sprint(sub.terms)
 					if seen[key] {
 						continue
 					}
 					seen[key] = true
 					st := f.withTerms(nil)
-					for _, k := range s.terms {
-						st.Terms = append(st.Terms, full[i].Structure.Terms[k])
+					for _, k := range sub.terms {
+						st.Terms = append(st.Terms, full.Structure.Terms[k])
 					}
-					round = append(round, &refit{layout: i, st: st, init: init})
+					round = append(round, &refit{form: i, st: st, init: init})
 				}
 			}
 		}
-		d.Search = append(d.Search, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size the %d terms that reduce the loss most", l, how, len(anchors), forwardBranch))
+		s.d.Search = append(s.d.Search, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size the %d terms that reduce the loss most", formName(f), how, len(anchors), forwardBranch))
 	}
-	runRefits(round)
+	s.runRefits(round)
+}
 
-	// The best refit of each (layout, active size).
-	type key struct {
-		layout, size int
-	}
-	bestOf := func() map[key]*Result {
-		m := map[key]*Result{}
-		for _, rf := range refits {
-			if rf.res == nil || !layoutSatisfied(rf.res) {
-				continue
-			}
-			k := key{rf.layout, activeTerms(rf.res)}
-			if k.size == 0 {
-				continue
-			}
-			if old, ok := m[k]; !ok || rf.res.Loss < old.Loss {
-				m[k] = rf.res
-			}
+// bestBySize returns the best refit of each form and number of active
+// terms whose families all keep a fibre term.
+func (s *search) bestBySize() map[sizeKey]*Result {
+	m := map[sizeKey]*Result{}
+	for _, rf := range s.refits {
+		if rf.res == nil || !layoutSatisfied(rf.res) {
+			continue
 		}
-		return m
+		k := sizeKey{rf.form, activeTerms(rf.res)}
+		if k.size == 0 {
+			continue
+		}
+		if old, ok := m[k]; !ok || rf.res.Loss < old.Loss {
+			m[k] = rf.res
+		}
 	}
-	// Forward steps: the best model of size k−1 plus each other candidate
-	// term, warm-started, so that the front is nested as well as searched.
-	for k := 2; k <= set.MaxTerms; k++ {
-		bm := bestOf()
-		round = round[:0:0]
-		for i, f := range forms {
-			base, ok := bm[key{i, k - 1}]
-			if !ok || fullErr[i] != nil {
+	return m
+}
+
+// forwardSteps grows the best model of each size k−1 by each of the
+// forwardBranch terms that lower its loss most, warm-started, so that the
+// front is nested as well as searched.
+func (s *search) forwardSteps() {
+	for k := 2; k <= s.set.MaxTerms; k++ {
+		bm := s.bestBySize()
+		var round []*refit
+		for i, f := range s.forms {
+			base, ok := bm[sizeKey{i, k - 1}]
+			if !ok || s.fullErr[i] != nil {
 				continue
 			}
 			bst := activeStructure(base)
-			init := full[i].Params()
+			init := s.full[i].Params()
 			for name, v := range base.Params() {
 				init[name] = v
 			}
-			for _, j := range rankAdditions(full[i], init, bst, forwardBranch) {
-				t := full[i].Structure.Terms[j]
+			for _, j := range rankAdditions(s.full[i], init, bst, forwardBranch) {
+				t := s.full[i].Structure.Terms[j]
 				st := f.withTerms(append(append([]TermSpec(nil), bst.Terms...), t))
-				round = append(round, &refit{layout: i, st: st, init: init})
+				round = append(round, &refit{form: i, st: st, init: init})
 			}
 		}
-		runRefits(round)
+		s.runRefits(round)
 	}
+}
 
-	// 2b. In-plane dispersed variants: the best model of every size of each
-	// ideal two-family layout whose BIC is within cvBICWindow of the
-	// layout's best, refitted with its families spread in the plane,
-	// warm-started from the ideal fit.
-	bm := bestOf()
-	round = round[:0:0]
-	for i, f := range forms {
-		base, ok := variantOf[i]
+// planarVariants refits, with the families spread in the plane, the best
+// model of every size of each ideal two-family layout whose BIC is within
+// cvBICWindow of that layout's best, warm-started from the ideal fit.
+func (s *search) planarVariants() {
+	bm := s.bestBySize()
+	var round []*refit
+	for i, f := range s.forms {
+		base, ok := s.variantOf[i]
 		if !ok {
 			continue
 		}
-		n := 0
 		minBIC := math.Inf(1)
-		for size := 1; size <= set.MaxTerms; size++ {
-			if r, ok := bm[key{base, size}]; ok {
+		for size := 1; size <= s.set.MaxTerms; size++ {
+			if r, ok := bm[sizeKey{base, size}]; ok {
 				minBIC = math.Min(minBIC, r.BIC)
 			}
 		}
-		for size := 1; size <= set.MaxTerms; size++ {
-			r, ok := bm[key{base, size}]
+		n := 0
+		for size := 1; size <= s.set.MaxTerms; size++ {
+			r, ok := bm[sizeKey{base, size}]
 			if !ok || r.BIC-minBIC > cvBICWindow {
 				continue
 			}
@@ -489,25 +445,25 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 			if !ok {
 				continue
 			}
-			round = append(round, &refit{layout: i, st: st, init: r.Params()})
+			round = append(round, &refit{form: i, st: st, init: r.Params()})
 			n++
 		}
-		d.Search = append(d.Search, fmt.Sprintf("%s: the best model of each size of the %s layout within ΔBIC 10 of its best (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n))
+		s.d.Search = append(s.d.Search, fmt.Sprintf("%s: the best model of each size of the %s layout within ΔBIC 10 of its best (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n))
 	}
-	runRefits(round)
+	s.runRefits(round)
+}
 
-	// 3. Pareto front per form: over every refit, the best loss at each
-	// number of parameters (weights and non-linear parameters), kept only
-	// when it improves on every smaller model of its form.
-	type pkey struct {
-		form, params int
-	}
+// paretoFront keeps, per form, the best refit at each number of parameters
+// (weights and non-linear parameters) that improves on every smaller model
+// of its form.
+func (s *search) paretoFront() error {
+	type pkey struct{ form, params int }
 	bestP := map[pkey]*Result{}
-	for _, rf := range refits {
-		if rf.res == nil || !layoutSatisfied(rf.res) || activeTerms(rf.res) == 0 || activeTerms(rf.res) > set.MaxTerms {
+	for _, rf := range s.refits {
+		if rf.res == nil || !layoutSatisfied(rf.res) || activeTerms(rf.res) == 0 || activeTerms(rf.res) > s.set.MaxTerms {
 			continue
 		}
-		k := pkey{rf.layout, rf.res.Complexity}
+		k := pkey{rf.form, rf.res.Complexity}
 		if old, ok := bestP[k]; !ok || rf.res.Loss < old.Loss {
 			bestP[k] = rf.res
 		}
@@ -529,210 +485,102 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 			continue
 		}
 		lastLoss[k.form] = r.Loss
-		f := forms[k.form]
+		f := s.forms[k.form]
 		n := activeTerms(r)
-		d.Pareto = append(d.Pareto, Candidate{Name: fmt.Sprintf("%s-k%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
+		s.d.Pareto = append(s.d.Pareto, Candidate{Name: fmt.Sprintf("%s-t%d-p%d", formName(f), n, k.params), Layout: f.Layout, Terms: n, Result: r})
 	}
-	if len(d.Pareto) == 0 {
-		return nil, ErrNoCandidate
+	if len(s.d.Pareto) == 0 {
+		return ErrNoCandidate
 	}
+	return nil
+}
 
-	// 4. Classical presets on the same data.
-	presetRes := make([]*Result, len(set.Presets))
-	presetErr := make([]error, len(set.Presets))
-	jobs = jobs[:0]
-	for i, name := range set.Presets {
-		i, name := i, name
+// comparePresets fits the classical presets to the same data.
+func (s *search) comparePresets() {
+	res := make([]*Result, len(s.set.Presets))
+	errs := make([]error, len(s.set.Presets))
+	var jobs []func()
+	for i, name := range s.set.Presets {
 		jobs = append(jobs, func() {
 			st, err := PresetStructure(name)
 			if err != nil {
-				presetErr[i] = err
+				errs[i] = err
 				return
 			}
-			presetRes[i], presetErr[i] = Fit(p, st, fitSet)
+			res[i], errs[i] = Fit(s.p, st, s.fitSet)
 		})
 	}
-	pl.run(jobs)
-	for i, name := range set.Presets {
-		if presetErr[i] != nil {
+	s.pl.run(jobs)
+	for i, name := range s.set.Presets {
+		if errs[i] != nil {
 			continue
 		}
-		r := presetRes[i]
-		d.Presets = append(d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
+		r := res[i]
+		s.d.Presets = append(s.d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
 	}
+}
 
-	// 5. Leave-one-protocol-out cross-validation of every candidate that
-	// could be its form's best: a candidate whose BIC is more than
-	// cvBICWindow above its form's best is worse in-sample even after the
-	// penalty for its size, and is not cross-validated.
-	if len(p.Protocols) >= 2 {
-		d.hasCV = true
-		all := make([]*Candidate, 0, len(d.Pareto)+len(d.Presets))
-		minBIC := map[string]float64{}
-		for i := range d.Pareto {
-			k := FormKey(d.Pareto[i].Result.Structure)
-			if v, ok := minBIC[k]; !ok || d.Pareto[i].Result.BIC < v {
-				minBIC[k] = d.Pareto[i].Result.BIC
+// candidateMetrics fills the fit quality of the kept candidates and the
+// presets (the search's refits skip it).
+func (s *search) candidateMetrics() {
+	for _, cs := range [][]Candidate{s.d.Pareto, s.d.Presets} {
+		for i := range cs {
+			if r := cs[i].Result; r.Metrics == nil {
+				r.metrics(s.p)
 			}
 		}
-		for i := range d.Pareto {
-			if d.Pareto[i].Result.BIC-minBIC[FormKey(d.Pareto[i].Result.Structure)] <= cvBICWindow {
-				all = append(all, &d.Pareto[i])
-			}
-		}
-		for i := range d.Presets {
-			all = append(all, &d.Presets[i])
-		}
-		crossValidate(p, all, fitSet, pl)
 	}
+}
 
-	// 6. The verdict, then the pick inside its form.
-	d.decide(p)
+// crossValidate leaves one protocol out for every candidate that could be
+// its form's best: one whose BIC is more than cvBICWindow above its form's
+// best is worse in-sample even after the penalty for its size, and is not
+// cross-validated. Presets are cross-validated for comparison.
+func (s *search) crossValidate() {
+	if len(s.p.Protocols) < 2 {
+		return
+	}
+	d := s.d
+	d.hasCV = true
+	var cands []*Candidate
+	minBIC := map[string]float64{}
+	for i := range d.Pareto {
+		k := FormKey(d.Pareto[i].Result.Structure)
+		if v, ok := minBIC[k]; !ok || d.Pareto[i].Result.BIC < v {
+			minBIC[k] = d.Pareto[i].Result.BIC
+		}
+	}
+	for i := range d.Pareto {
+		if d.Pareto[i].Result.BIC-minBIC[FormKey(d.Pareto[i].Result.Structure)] <= cvBICWindow {
+			cands = append(cands, &d.Pareto[i])
+		}
+	}
+	for i := range d.Presets {
+		cands = append(cands, &d.Presets[i])
+	}
+	crossValidate(s.p, cands, s.fitSet, s.pl)
+}
 
-	// 7. The chosen model refitted on every point and polished, with its
-	// profiles; the one-protocol cross matrix.
-	best := d.Best()
-	prof := set.Fit
+// polish refits the chosen model on every point with the default
+// tolerance and the accurate quadrature, with its angle profiles, and
+// fills the one-protocol cross matrix.
+func (s *search) polish() {
+	best := s.d.Best()
+	prof := s.set.Fit
 	prof.Profile = true
 	prof.Init = best.Result.Params()
 	prof.NoScan = true
-	if r, err := Fit(all, activeStructure(best.Result), prof); err == nil {
-		// The polish uses the accurate quadrature, so a dispersed model's
-		// loss may move by the search rule's error either way.
-		if activeTerms(r) == best.Terms && (r.Structure.Planar || p != all || r.Loss <= best.Result.Loss*(1+1e-9)) {
-			best.Result = r
+	if r, err := Fit(s.all, activeStructure(best.Result), prof); err == nil {
+		// The polish fits more points and integrates dispersion accurately,
+		// so the loss may move either way; a lower one always replaces.
+		if activeTerms(r) == best.Terms && (r.Structure.Planar || s.p != s.all || r.Loss <= best.Result.Loss*(1+1e-9)) {
+			best.Searched, best.Result = best.Result, r
 		} else {
 			best.Result.Profiles = r.Profiles
 		}
 	}
-	d.CrossR2 = crossMatrix(p, best.Result, fitSet, pl)
-	d.Elapsed = time.Since(start)
-	return d, nil
+	s.d.CrossR2 = crossMatrix(s.p, best.Result, s.fitSet, s.pl)
 }
-
-// errVariant marks a form that discovery derives from another instead of
-// searching it.
-var errVariant = errors.New("derived from its ideal layout")
-
-// planarVariant returns a form with its families spread in the plane;
-// ok is false when a term cannot sit on such a family (cofactor and I5
-// terms).
-func planarVariant(st Structure) (Structure, bool) {
-	for _, t := range st.Terms {
-		if t.Family >= 0 && t.Shape.Arg != terms.Fibre {
-			return st, false
-		}
-	}
-	st.Planar = true
-	return st, true
-}
-
-// formName names a model form for results: the layout, then "+dispersed"
-// when the families spread in the plane with a learned concentration, or
-// "+kappa" when they have a learned three-dimensional dispersion κ.
-func formName(f Structure) string {
-	switch {
-	case f.Planar:
-		return f.Layout.String() + "+dispersed"
-	case f.Dispersion:
-		return f.Layout.String() + "+kappa"
-	}
-	return f.Layout.String()
-}
-
-// PresetStructure returns the model form of a named preset. A preset's
-// mirror pair is held symmetric about axis 1 (Structure.HoldPairAxis), as
-// published; clear HoldPairAxis to learn the pair's axis as well.
-func PresetStructure(name string) (Structure, error) {
-	pr := terms.LookupPreset(name)
-	if pr == nil {
-		var names []string
-		for _, p := range terms.Presets() {
-			names = append(names, p.Name)
-		}
-		return Structure{}, fmt.Errorf("no preset %q; choose one of %s", name, strings.Join(names, ", "))
-	}
-	// A preset's pair is symmetric about axis 1, as published.
-	st := Structure{Dispersion: pr.Dispersion, HoldPairAxis: pr.Mirror}
-	switch {
-	case pr.Families == 0:
-		st.Layout = LayoutNone
-	case pr.Families == 1:
-		st.Layout = LayoutSingle
-	case pr.Mirror:
-		st.Layout = LayoutMirror
-	default:
-		st.Layout = LayoutFree
-	}
-	for _, t := range pr.Terms {
-		sh := terms.Lookup(t.ID)
-		if t.Family == 0 {
-			st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: -1})
-			continue
-		}
-		if st.Layout == LayoutMirror && t.Family == 2 {
-			continue // the mirror pair shares the first family's terms
-		}
-		st.Terms = append(st.Terms, TermSpec{Shape: sh, Family: t.Family - 1})
-	}
-	return st, nil
-}
-
-func hasTerm(st Structure, t TermSpec) bool {
-	for _, u := range st.Terms {
-		if u.Shape == t.Shape && u.Family == t.Family {
-			return true
-		}
-	}
-	return false
-}
-
-// activeStructure is r's form without its inactive terms.
-func activeStructure(r *Result) Structure {
-	st := r.Structure.withTerms(nil)
-	for i, t := range r.Structure.Terms {
-		if r.Weights[i] > 0 {
-			st.Terms = append(st.Terms, t)
-		}
-	}
-	return st
-}
-
-func activeTerms(r *Result) int {
-	n := 0
-	for _, w := range r.Weights {
-		if w > 0 {
-			n++
-		}
-	}
-	return n
-}
-
-// layoutSatisfied reports whether every family of the layout still has an
-// active fibre term (otherwise the fit is really a smaller layout).
-func layoutSatisfied(r *Result) bool {
-	nf := r.Structure.Layout.Families()
-	if r.Structure.Layout == LayoutMirror {
-		nf = 1
-	}
-	for f := 0; f < nf; f++ {
-		ok := false
-		for i, t := range r.Structure.Terms {
-			if t.Family == f && r.Weights[i] > 0 {
-				ok = true
-			}
-		}
-		if !ok {
-			return false
-		}
-	}
-	return true
-}
-
-// cvBICWindow is how far above its form's best BIC a candidate may lie and
-// still be cross-validated ("very strong" evidence against it beyond that;
-// Kass & Raftery 1995).
-const cvBICWindow = 10
 
 // searchMaxIterations bounds each local refinement of the search: a form
 // that fits badly creeps on by tiny steps, and the comparison of forms does
@@ -742,391 +590,3 @@ const searchMaxIterations = 60
 // searchTolerance is the refinement tolerance of discovery's search,
 // cross-validation and comparison fits (see Settings.Tolerance).
 const searchTolerance = 1e-6
-
-// maxAnchors is how many local optima of the full candidate fit anchor the
-// subset search; forwardBranch how many single-term additions are refitted
-// per forward step.
-const (
-	maxAnchors    = 2
-	forwardBranch = 3
-)
-
-// paramsAt names a full fit's non-linear parameters at θ.
-func paramsAt(full *Result, theta []float64) map[string]float64 {
-	out := map[string]float64{}
-	for i, q := range full.e.params {
-		out[q.Name] = theta[i]
-	}
-	return out
-}
-
-// rankAdditions returns the indices (into the full structure) of the n
-// terms not in base whose addition to base lowers the non-negative least
-// squares loss most, with the columns evaluated at the named parameters.
-func rankAdditions(full *Result, params map[string]float64, base Structure, n int) []int {
-	e := full.e
-	theta := append([]float64(nil), full.theta...)
-	for i, q := range e.params {
-		if v, ok := params[q.Name]; ok {
-			theta[i] = v
-		}
-	}
-	e.eval(theta, false)
-	var baseIdx []int
-	for g, t := range full.Structure.Terms {
-		if hasTerm(base, t) {
-			baseIdx = append(baseIdx, g)
-		}
-	}
-	yy := 0.0
-	for _, y := range e.p.Target {
-		yy += y * y
-	}
-	type cand struct {
-		g    int
-		loss float64
-	}
-	var cs []cand
-	var q nnls
-	m := len(baseIdx) + 1
-	G := make([]float64, m*m)
-	b := make([]float64, m)
-	for g := range full.Structure.Terms {
-		if containsInt(baseIdx, g) || !e.allowed[g] {
-			continue
-		}
-		set := append(append([]int(nil), baseIdx...), g)
-		ok := true
-		for a, i := range set {
-			if !e.allowed[i] {
-				ok = false
-			}
-			b[a] = e.b[i]
-			for c, j := range set {
-				G[a*m+c] = e.G[i*e.ng+j]
-			}
-		}
-		if !ok {
-			continue
-		}
-		w := q.solve(G, b, m, nil)
-		l := yy
-		for a := 0; a < m; a++ {
-			l -= 2 * w[a] * b[a]
-			for c := 0; c < m; c++ {
-				l += w[a] * G[a*m+c] * w[c]
-			}
-		}
-		cs = append(cs, cand{g, l})
-	}
-	sort.SliceStable(cs, func(a, b int) bool { return cs[a].loss < cs[b].loss })
-	var out []int
-	for i := 0; i < len(cs) && i < n; i++ {
-		out = append(out, cs[i].g)
-	}
-	return out
-}
-
-// searchSubsets finds, for every size k = 1…K, the best `keep` subsets of
-// the full fit's design terms at its angles and shape parameters, using
-// non-negative least squares on the cross products. Subsets must keep a
-// fibre term in every family of the layout, and every weight of a kept
-// subset must be positive (otherwise it is a smaller subset).
-func searchSubsets(full *Result, theta []float64, K, keep, limit int) ([][]subset, string) {
-	e := full.e
-	e.eval(theta, false)
-	n := e.ng
-	fams := full.Structure.Layout.Families()
-	if full.Structure.Layout == LayoutMirror {
-		fams = 1
-	}
-	familyOf := make([]int, n)
-	for g, t := range full.Structure.Terms {
-		familyOf[g] = t.Family
-	}
-	yy := 0.0
-	for _, y := range e.p.Target {
-		yy += y * y
-	}
-	var q nnls
-	subG := make([]float64, K*K)
-	subB := make([]float64, K)
-	lossOf := func(set []int) (float64, bool) {
-		m := len(set)
-		for a, i := range set {
-			if !e.allowed[i] {
-				return math.Inf(1), false
-			}
-			subB[a] = e.b[i]
-			for b, j := range set {
-				subG[a*m+b] = e.G[i*n+j]
-			}
-		}
-		w := q.solve(subG[:m*m], subB[:m], m, nil)
-		l := yy
-		for a := 0; a < m; a++ {
-			if w[a] <= 0 {
-				return 0, false
-			}
-			l -= 2 * w[a] * subB[a]
-			for b := 0; b < m; b++ {
-				l += w[a] * subG[a*m+b] * w[b]
-			}
-		}
-		return math.Max(l, 0), true
-	}
-	valid := func(set []int) bool {
-		for f := 0; f < fams; f++ {
-			ok := false
-			for _, i := range set {
-				if familyOf[i] == f {
-					ok = true
-				}
-			}
-			if !ok {
-				return false
-			}
-		}
-		return true
-	}
-	best := make([][]subset, K+1)
-	consider := func(set []int, l float64) {
-		k := len(set)
-		lst := best[k]
-		if len(lst) == keep && l >= lst[len(lst)-1].loss {
-			return
-		}
-		lst = append(lst, subset{terms: append([]int(nil), set...), loss: l})
-		sort.SliceStable(lst, func(a, b int) bool { return lst[a].loss < lst[b].loss })
-		if len(lst) > keep {
-			lst = lst[:keep]
-		}
-		best[k] = lst
-	}
-	total := 0
-	for k := 1; k <= K && k <= n; k++ {
-		total += binomial(n, k)
-	}
-	how := ""
-	if total <= limit {
-		count := 0
-		set := make([]int, 0, K)
-		var rec func(from int)
-		rec = func(from int) {
-			if len(set) > 0 && valid(set) {
-				count++
-				if l, ok := lossOf(set); ok {
-					consider(set, l)
-				}
-			}
-			if len(set) == K {
-				return
-			}
-			for i := from; i < n; i++ {
-				set = append(set, i)
-				rec(i + 1)
-				set = set[:len(set)-1]
-			}
-		}
-		rec(0)
-		how = fmt.Sprintf("exhaustive search of %d term subsets of %d candidates (sizes 1–%d)", count, n, K)
-	} else {
-		// Forward selection with swaps: grow the best set of size k−1 by
-		// the best addition, then swap members for non-members while the
-		// loss falls.
-		cur := []int{}
-		evals := 0
-		for k := 1; k <= K && k <= n; k++ {
-			bestL, bestSet := math.Inf(1), []int(nil)
-			for i := 0; i < n; i++ {
-				if containsInt(cur, i) {
-					continue
-				}
-				s := append(append([]int(nil), cur...), i)
-				evals++
-				if l, ok := lossOf(s); ok && valid(s) && l < bestL {
-					bestL, bestSet = l, s
-				}
-			}
-			if bestSet == nil {
-				// No valid growth alone (families need terms): add the term
-				// with the best loss regardless of validity and continue.
-				for i := 0; i < n; i++ {
-					if !containsInt(cur, i) {
-						s := append(append([]int(nil), cur...), i)
-						if l, ok := lossOf(s); ok && l < bestL {
-							bestL, bestSet = l, s
-						}
-					}
-				}
-				if bestSet == nil {
-					break
-				}
-				cur = bestSet
-				continue
-			}
-			for improved := true; improved; {
-				improved = false
-				for a := range bestSet {
-					for i := 0; i < n; i++ {
-						if containsInt(bestSet, i) {
-							continue
-						}
-						s := append([]int(nil), bestSet...)
-						s[a] = i
-						evals++
-						if l, ok := lossOf(s); ok && valid(s) && l < bestL*(1-1e-12) {
-							bestL, bestSet, improved = l, s, true
-						}
-					}
-				}
-			}
-			consider(bestSet, bestL)
-			cur = bestSet
-		}
-		how = fmt.Sprintf("forward selection with swaps over %d candidates (%d subsets evaluated; %d would be needed exhaustively)", n, evals, total)
-	}
-	return best[1:], how
-}
-
-func binomial(n, k int) int {
-	if k < 0 || k > n {
-		return 0
-	}
-	r := 1
-	for i := 1; i <= k; i++ {
-		r = r * (n - k + i) / i
-	}
-	return r
-}
-
-// crossValidate fits every candidate's form with one protocol left out,
-// warm-started from its full-data fit, and scores the held-out prediction.
-func crossValidate(p *Problem, cands []*Candidate, set Settings, pl *pool) {
-	nf := len(p.Protocols)
-	folds := make([][]CVFold, len(cands))
-	for i := range folds {
-		folds[i] = make([]CVFold, nf)
-	}
-	var jobs []func()
-	for ci, c := range cands {
-		for f := 0; f < nf; f++ {
-			ci, c, f := ci, c, f
-			jobs = append(jobs, func() { folds[ci][f] = cvFold(p, c.Result, f, set) })
-		}
-	}
-	pl.run(jobs)
-	for ci, c := range cands {
-		sc := &CVScore{Folds: folds[ci]}
-		for _, f := range sc.Folds {
-			sc.Mean += f.Error
-		}
-		sc.Mean /= float64(nf)
-		v := 0.0
-		for _, f := range sc.Folds {
-			v += (f.Error - sc.Mean) * (f.Error - sc.Mean)
-		}
-		if nf > 1 {
-			sc.StdErr = math.Sqrt(v/float64(nf-1)) / math.Sqrt(float64(nf))
-		}
-		c.CV = sc
-	}
-}
-
-// HeldOut refits r's model form to every protocol of p but the f-th
-// (index into p.Protocols), warm-started from r's parameters without an
-// angle scan, and predicts the left-out protocol: the prediction on the
-// rows of test, a Problem holding that protocol alone.
-func HeldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *Problem, err error) {
-	held := p.Protocols[f]
-	var keep []int
-	for i, pi := range p.Protocols {
-		if i != f {
-			keep = append(keep, pi)
-		}
-	}
-	train, err := NewProblem(p.Specimen, keep)
-	if err != nil {
-		return nil, nil, err
-	}
-	s := set
-	s.Init = r.Params()
-	s.NoScan = true
-	s.Profile = false
-	fit, err := Fit(train, r.Structure, s)
-	if err != nil {
-		return nil, nil, err
-	}
-	if test, err = NewProblem(p.Specimen, []int{held}); err != nil {
-		return nil, nil, err
-	}
-	pred, err = Predict(test, fit.Model)
-	return pred, test, err
-}
-
-// cvFold scores r's form on the f-th protocol left out.
-func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
-	fold := CVFold{Protocol: p.Specimen.Protocols[p.Protocols[f]].Label, Error: math.Inf(1)}
-	pred, test, err := HeldOut(p, r, f, set)
-	if err != nil {
-		return fold
-	}
-	sse := 0.0
-	for i, v := range pred {
-		d := test.RowWeight[i] * (v - test.Measured[i])
-		sse += d * d
-	}
-	fold.Error = math.Sqrt(sse / float64(len(test.Output.Components)))
-	fold.Metrics = Metrics(test, pred)
-	return fold
-}
-
-// crossMatrix fits the chosen form to each protocol alone and predicts
-// every protocol, returning the mean R² over components.
-func crossMatrix(p *Problem, r *Result, set Settings, pl *pool) [][]float64 {
-	n := len(p.Protocols)
-	out := make([][]float64, n)
-	var jobs []func()
-	for i := 0; i < n; i++ {
-		i := i
-		out[i] = make([]float64, n)
-		jobs = append(jobs, func() {
-			for j := range out[i] {
-				out[i][j] = math.NaN()
-			}
-			train, err := NewProblem(p.Specimen, []int{p.Protocols[i]})
-			if err != nil {
-				return
-			}
-			s := set
-			s.Init = r.Params()
-			s.NoScan = true
-			fit, err := Fit(train, r.Structure, s)
-			if err != nil {
-				return
-			}
-			for j := 0; j < n; j++ {
-				test, err := NewProblem(p.Specimen, []int{p.Protocols[j]})
-				if err != nil {
-					continue
-				}
-				pred, err := Predict(test, fit.Model)
-				if err != nil {
-					continue
-				}
-				sum, cnt := 0.0, 0
-				for _, m := range Metrics(test, pred) {
-					if m.R2Defined {
-						sum += m.R2
-						cnt++
-					}
-				}
-				if cnt > 0 {
-					out[i][j] = sum / float64(cnt)
-				}
-			}
-		})
-	}
-	pl.run(jobs)
-	return out
-}

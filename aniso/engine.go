@@ -37,7 +37,7 @@ type engine struct {
 	loss     float64
 	feasible bool
 	// skipOverflow drops overflowing columns instead of making the whole
-	// evaluation infeasible (for dictionary scans, where some grid rates
+	// evaluation infeasible (for dictionary scans, where some grid stiffening values
 	// are bound to overflow at large stretch).
 	skipOverflow bool
 	// static marks design groups whose columns cannot change between
@@ -48,6 +48,9 @@ type engine struct {
 	// tol is the relative loss decrease below which minimize stops (two
 	// steps in a row); 0 means 1e-10.
 	tol float64
+	// at is the θ of the last evaluation (the state e.A, e.w and e.r
+	// describe).
+	at []float64
 	// lossOffset is subtracted from every loss: a profile that integrates
 	// dispersion with the search rule shifts its losses by the rule's error
 	// at the optimum, so that they compare with the fit's (see profiles).
@@ -67,7 +70,7 @@ const (
 // param is one non-linear parameter of a model form.
 type param struct {
 	Kind paramKind
-	// Name is shown in results, e.g. "angle", "half_angle", "rate[fib-expsq]".
+	// Name is shown in results, e.g. "angle", "half_angle", "stiffening[fib-expsq]".
 	Name string
 	// Angle is the structural angle index (0 or 1) for kindAngle.
 	Angle int
@@ -184,6 +187,7 @@ func (e *engine) apply(theta []float64) {
 // unprojected derivative vectors ∂(A w)/∂θ_i. It returns the loss, +Inf when
 // a column overflows.
 func (e *engine) eval(theta []float64, derivs bool) float64 {
+	e.at = append(e.at[:0], theta...)
 	e.apply(theta)
 	for g, members := range e.groups {
 		for _, k := range members {

@@ -42,9 +42,9 @@ type MirrorAlternative struct {
 // angle lies on an axis, where the sign makes no difference.
 const mirrorTolerance = 1e-9
 
-// onAxis reports whether a family at alpha is its own mirror image (0° or
+// selfMirror reports whether a family at alpha is its own mirror image (0° or
 // 90°).
-func onAxis(alpha float64) bool { return math.Abs(math.Sin(2*alpha)) < mirrorTolerance }
+func selfMirror(alpha float64) bool { return math.Abs(math.Sin(2*alpha)) < mirrorTolerance }
 
 // MirrorAlternatives returns the models that no pure biaxial stretch can
 // tell from m, given which families' angle signs the data left
@@ -59,7 +59,7 @@ func onAxis(alpha float64) bool { return math.Abs(math.Sin(2*alpha)) < mirrorTol
 func MirrorAlternatives(m *Model, signUnknown []bool) []MirrorAlternative {
 	var free []int
 	for f, fam := range m.Families {
-		if f < len(signUnknown) && signUnknown[f] && !onAxis(fam.Angle) {
+		if f < len(signUnknown) && signUnknown[f] && !selfMirror(fam.Angle) {
 			free = append(free, f)
 		}
 	}

@@ -568,3 +568,33 @@ func TestPlanarDensityConstants(t *testing.T) {
 		}
 	}
 }
+
+// Small-strain moduli of a family spread in the plane: the uniaxial
+// tension modulus along the family's mean direction (axis 1, so no shear
+// couples in) against the secant modulus of the quadrature's stress under
+// a uniaxial stretch of 1 + 1e-6 (SolveUniaxial, independent of the
+// active-set solve), for a wide and a narrow spread.
+func TestPlanarSmallStrainModuli(t *testing.T) {
+	for _, b := range []float64{0.5, 3, 40} {
+		m := &Model{Families: []Family{{Angle: 0, Planar: true, Concentration: b}},
+			Terms: []Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2},
+				{Shape: terms.Lookup("fib-quad"), Family: 0, Weight: 30}}}
+		mod, err := m.SmallStrainModuli([]float64{0})
+		if err != nil {
+			t.Fatal(err)
+		}
+		const e = 1e-6
+		lt, err := SolveUniaxial(m, 0, 1+e)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := m.Evaluate([4]float64{1 + e, 0, 0, lt})
+		if err != nil {
+			t.Fatal(err)
+		}
+		secant := r.Cauchy[0] / e
+		if got := mod.Young[0].Tension; math.Abs(got-secant) > 1e-3*secant {
+			t.Errorf("b = %g: tension modulus %.6g, secant from the quadrature %.6g", b, got, secant)
+		}
+	}
+}

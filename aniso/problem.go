@@ -18,11 +18,23 @@ type Problem struct {
 	Protocols []int
 	// Output says which stress measure and components each point's rows hold.
 	Output Output
-	// Data holds the kinematics; its rows are weighted with RowWeight.
+	// Data holds the kinematics; its rows are weighted with the canonical
+	// row weights RowWeight × Scale (dimensionless, see below).
 	Data *Dataset
 	// Target is the weighted measured stress of every row (RowWeight ×
-	// measured); Measured the unweighted value in the specimen's stress unit.
+	// measured, dimensionless); Measured the unweighted value in the
+	// specimen's stress unit; RowWeight the residual weight in 1/stress
+	// unit, as package biaxial gives it.
 	Target, Measured, RowWeight []float64
+	// Scale (stress unit) is 1 / the largest row weight: the fitter works
+	// in a canonical form that does not depend on the stress unit, with
+	// row weights RowWeight × Scale in (0, 1] and targets, both rounded to
+	// canonicalBits significant bits, and its weights come out divided by
+	// Scale. The same data in Pa, kPa or MPa, or scaled by any factor, then
+	// give the fitter the same numbers bit for bit (but where a value lies
+	// within rounding of a bit boundary, about one value in 10⁶), so that
+	// the same model is chosen whatever the unit.
+	Scale float64
 	// RowProtocol and RowComponent give each row's protocol (index into
 	// Specimen.Protocols) and component; RowPoint the point within it.
 	RowProtocol, RowPoint []int
@@ -73,19 +85,45 @@ func NewProblem(s *biaxial.Specimen, protocols []int) (*Problem, error) {
 				}
 				p.RowWeight = append(p.RowWeight, w)
 				p.Measured = append(p.Measured, v)
-				p.Target = append(p.Target, w*v)
+				p.Target = append(p.Target, roundBits(w*v))
 				p.RowProtocol = append(p.RowProtocol, pi)
 				p.RowPoint = append(p.RowPoint, j)
 				p.RowComponent = append(p.RowComponent, c)
 			}
 		}
 	}
-	d, err := NewDataset(F, p.Output, p.RowWeight)
+	maxW := 0.0
+	for _, w := range p.RowWeight {
+		maxW = math.Max(maxW, w)
+	}
+	if !(maxW > 0) {
+		return nil, fmt.Errorf("%s: every residual weight is zero", s.Name)
+	}
+	p.Scale = 1 / maxW
+	rw := make([]float64, len(p.RowWeight))
+	for r, w := range p.RowWeight {
+		rw[r] = roundBits(w * p.Scale)
+	}
+	d, err := NewDataset(F, p.Output, rw)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", s.Name, err)
 	}
 	p.Data = d
 	return p, nil
+}
+
+// canonicalBits is how many significant bits the fitter's canonical row
+// weights and targets keep (see Problem.Scale): about 1e-10 relative, far
+// below any measurement's precision.
+const canonicalBits = 33
+
+// roundBits rounds x to canonicalBits significant bits.
+func roundBits(x float64) float64 {
+	if x == 0 || math.IsInf(x, 0) || math.IsNaN(x) {
+		return x
+	}
+	frac, exp := math.Frexp(x)
+	return math.Ldexp(math.Round(math.Ldexp(frac, canonicalBits)), exp-canonicalBits)
 }
 
 // Rows returns the number of residual rows.

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"sync"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -30,11 +29,9 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		}
 	}
 	out := make([]AngleProfile, len(idx))
-	var wg sync.WaitGroup
+	jobs := make([]func(), len(idx))
 	for j, i := range idx {
-		wg.Add(1)
-		go func(j, i int) {
-			defer wg.Done()
+		jobs[j] = func() {
 			pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
 			if r.Structure.Planar {
 				// Profiles of a dispersed family re-optimise at every grid
@@ -45,9 +42,9 @@ func (r *Result) profiles(p *Problem, set Settings) {
 				pe.lossOffset = pe.eval(r.theta, false) - r.Loss
 			}
 			out[j] = r.profileOne(pe, p, i, set, fq)
-		}(j, i)
+		}
 	}
-	wg.Wait()
+	(&pool{n: len(jobs)}).run(jobs)
 	r.Profiles = append(r.Profiles, out...)
 	// Leave the fit's engine at the optimum.
 	e.eval(r.theta, true)
@@ -84,9 +81,12 @@ func (r *Result) profileMinimum() ([]float64, float64) {
 
 // profileIterations bounds each re-optimisation at a profile angle (warm
 // starts are close), profileRounds the pairs of sweeps over the grid.
+// profileFarIterations places a guided profile's angle far from the
+// minimum, where the loss matters only to about 1e-3 of itself.
 const (
-	profileIterations = 40
-	profileRounds     = 3
+	profileIterations    = 40
+	profileRounds        = 3
+	profileFarIterations = 6
 )
 
 // profiler minimises the loss over every parameter but angle parameter i.
@@ -100,6 +100,8 @@ type profiler struct {
 	// admissible at any angle.
 	offLoss  float64
 	offTheta []float64
+	// iterations bounds each minimisation (profileIterations when 0).
+	iterations int
 }
 
 func newProfiler(r *Result, p *Problem, pe *engine, i int, set Settings) *profiler {
@@ -188,7 +190,11 @@ func (pf *profiler) at(a float64, starts ...[]float64) ([]float64, float64) {
 	try := func(s []float64) {
 		th := append([]float64(nil), s...)
 		th[pf.i] = a
-		if l := pf.e.minimize(th, pf.free, profileIterations).Loss; l < bestL {
+		it := pf.iterations
+		if it <= 0 {
+			it = profileIterations
+		}
+		if l := pf.e.minimize(th, pf.free, it).Loss; l < bestL {
 			bestL, bestTh = l, th
 		}
 	}
@@ -271,6 +277,77 @@ func (pf *profiler) sweep(grid []float64, c int, fitLoss float64, fitTheta []flo
 	return loss, thetas
 }
 
+// profileGuideRows is the number of residual rows above which a profile is
+// guided by one on the search subset (see profileGuide): below it the
+// full sweep is cheap.
+var profileGuideRows = 8 * 2 * 5 * DefaultSearchPoints
+
+// profileGuide returns, for a problem of more than profileGuideRows rows,
+// every grid angle's other parameters minimised on the subset discovery
+// searches (evenly in each protocol's driving stretch, DefaultSearchPoints
+// a protocol): starting points close to the full data's, found at a
+// fraction of the cost. It returns nil for smaller problems.
+//
+// The subset's own optimum lies off the full data's by about its own
+// standard error, several times the full data's interval, so the subset's
+// profile is never used as the profile: only its parameters, as starts.
+func (r *Result) profileGuide(p *Problem, i int, grid []float64, c int, theta []float64, wraps bool) [][]float64 {
+	if p.Rows() <= profileGuideRows {
+		return nil
+	}
+	ps, err := searchSubset(p, DefaultSearchPoints)
+	if err != nil || ps == p {
+		return nil
+	}
+	e := r.e
+	ge := newEngine(ps, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
+	ge.cols.Search = r.Structure.Planar
+	gf := &profiler{e: ge, i: i, free: make([]bool, len(ge.params)), offLoss: math.Inf(1)}
+	for j := range gf.free {
+		gf.free[j] = j != i
+	}
+	th, l := gf.at(grid[c], theta)
+	if th == nil || math.IsInf(l, 1) {
+		return nil
+	}
+	_, guide := gf.sweep(grid, c, l, th, wraps)
+	return guide
+}
+
+// guided profiles the grid on the full data from the guide's starts: at
+// each angle the minimisation starts from the guide's parameters and, near
+// the minimum (within ten times the 95 % threshold's relative margin
+// thrRel), also from the neighbour towards the optimum, so that the
+// interval rests on the full data's own profile.
+func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []float64, guide [][]float64, thrRel float64) ([]float64, [][]float64) {
+	n := len(grid)
+	loss := make([]float64, n)
+	thetas := make([][]float64, n)
+	loss[c] = fitLoss
+	thetas[c] = append([]float64(nil), fitTheta...)
+	thetas[c][pf.i] = grid[c]
+	// A few iterations from the guide place an angle; those within a
+	// hundred margins of the minimum (the rough loss is an upper bound)
+	// are refined to the full tolerance from there and from the neighbour.
+	near := fitLoss * (1 + 100*thrRel)
+	at := func(j, nb int) {
+		pf.iterations = profileFarIterations
+		th, l := pf.at(grid[j], guide[j])
+		pf.iterations = 0
+		if l <= near || th == nil {
+			th, l = pf.at(grid[j], th, thetas[nb])
+		}
+		loss[j], thetas[j] = l, th
+	}
+	for j := c + 1; j < n; j++ {
+		at(j, j-1)
+	}
+	for j := c - 1; j >= 0; j-- {
+		at(j, j+1)
+	}
+	return loss, thetas
+}
+
 // profileGrid returns the grid from lo to hi with the optimum inserted and
 // its index, so that the sweeps start there.
 func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
@@ -317,7 +394,13 @@ func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq floa
 	theta[i] = opt
 	grid, c := profileGrid(lo, hi, opt, step)
 	pf := newProfiler(r, p, pe, i, set)
-	loss, thetas := pf.sweep(grid, c, r.Loss, theta, wraps)
+	var loss []float64
+	var thetas [][]float64
+	if guide := r.profileGuide(p, i, grid, c, theta, wraps); guide != nil {
+		loss, thetas = pf.guided(grid, c, r.Loss, theta, guide, fq/float64(n-k))
+	} else {
+		loss, thetas = pf.sweep(grid, c, r.Loss, theta, wraps)
+	}
 	minLoss := r.Loss
 	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1)}
 	for j, l := range loss {

@@ -81,3 +81,60 @@ func TestProfileIsATrueProfile(t *testing.T) {
 		}
 	}
 }
+
+// TestGuidedProfileMatchesFullSweep: a profile of many points guided by the
+// search subset's starts gives the profile the full sweep gives (the
+// exhaustive computation on every point): the same 95 % interval and the
+// same loss near the minimum, on a one-family specimen without shear (|α|)
+// and on a sutured one (a full period of α).
+func TestGuidedProfileMatchesFullSweep(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits 5 × 700 and 5 × 300 points twice each")
+	}
+	m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 4}, Term{Shape: lookup("fib-expsq"), Weight: 60, Params: []float64{8}}, 30)
+	for _, sutured := range []bool{false, true} {
+		// A sutured specimen has four rows a point (P11, P22, P12, P21).
+		points := 700
+		if sutured {
+			points = 300
+		}
+		s := synthSpecimen(t, m, synthOptions{maxStrain: 0.15, noise: 0.01, points: points, sutured: sutured})
+		p, err := NewProblem(s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if p.Rows() <= profileGuideRows {
+			t.Fatalf("%d rows: not enough for a guided profile (%d)", p.Rows(), profileGuideRows)
+		}
+		st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+		guided, err := Fit(p, st, Settings{Profile: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		keep := profileGuideRows
+		profileGuideRows = 1 << 30
+		full, err := Fit(p, st, Settings{Profile: true})
+		profileGuideRows = keep
+		if err != nil {
+			t.Fatal(err)
+		}
+		g, f := guided.Profiles[0], full.Profiles[0]
+		if len(g.Loss) != len(f.Loss) {
+			t.Fatalf("sutured %v: %d and %d profile points", sutured, len(g.Loss), len(f.Loss))
+		}
+		if math.Abs(g.LoDeg-f.LoDeg) > 0.01 || math.Abs(g.HiDeg-f.HiDeg) > 0.01 {
+			t.Errorf("sutured %v: guided interval [%.4f, %.4f]°, full sweep [%.4f, %.4f]°", sutured, g.LoDeg, g.HiDeg, f.LoDeg, f.HiDeg)
+		}
+		margin := f.Threshold - full.Loss
+		for j := range g.Loss {
+			d := math.Abs(g.Loss[j] - f.Loss[j])
+			if f.Loss[j] < full.Loss+10*margin && d > 1e-3*margin {
+				t.Errorf("sutured %v: at %.2f° guided loss %.10g, full sweep %.10g (threshold margin %.3g)", sutured, g.AnglesDeg[j], g.Loss[j], f.Loss[j], margin)
+			}
+			if d > 1e-3*f.Loss[j] {
+				t.Errorf("sutured %v: at %.2f° guided loss %.6g, full sweep %.6g", sutured, g.AnglesDeg[j], g.Loss[j], f.Loss[j])
+			}
+		}
+		t.Logf("sutured %v: %d rows, interval guided [%.4f, %.4f]°, full [%.4f, %.4f]°", sutured, p.Rows(), g.LoDeg, g.HiDeg, f.LoDeg, f.HiDeg)
+	}
+}

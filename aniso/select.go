@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 )
 
 // Selection: the fibre-family verdict is decided first, from the evidence
@@ -45,62 +44,6 @@ func less(a, b float64) bool {
 	return a < b-TieTolerance*math.Max(math.Abs(a), math.Abs(b))
 }
 
-// FormKey names a model form for the verdict's evidence: "0" (isotropic),
-// "1", "2-mirror" or "2-free", followed by "+dispersed" for families spread
-// in the plane or "+kappa" for a three-dimensional dispersion.
-func FormKey(st Structure) string {
-	k := map[Layout]string{LayoutNone: "0", LayoutSingle: "1", LayoutMirror: "2-mirror", LayoutFree: "2-free"}[st.Layout]
-	switch {
-	case st.Planar:
-		k += "+dispersed"
-	case st.Dispersion:
-		k += "+kappa"
-	}
-	return k
-}
-
-// formRank orders forms from simplest to richest (see the package note).
-func formRank(st Structure) int {
-	r := map[Layout]int{LayoutNone: 0, LayoutSingle: 10, LayoutMirror: 20, LayoutFree: 30}[st.Layout]
-	switch {
-	case st.Planar:
-		r += 1
-	case st.Dispersion:
-		r += 2
-	}
-	return r
-}
-
-// LayoutComparison is one step of the walk over forms: whether a richer
-// form's best model beats the current winner by more than the noise.
-type LayoutComparison struct {
-	// Simpler and Richer are form keys (see FormKey).
-	Simpler, Richer string
-	// Gain is the mean per-fold reduction of the held-out error (simpler
-	// minus richer; dimensionless, like CVFold.Error), StdErr its standard
-	// error (floored), RelativeGain Gain over the simpler form's error.
-	Gain, StdErr, RelativeGain float64
-	// DeltaBIC is the simpler model's BIC minus the richer one's.
-	DeltaBIC float64
-	// Decisive is true when every criterion holds, so the richer form
-	// became the winner; Suggestive when the richer form is better by at
-	// least one standard error and ΔBIC > 2 without being decisive.
-	Decisive, Suggestive bool
-}
-
-// String states the comparison with its numbers.
-func (c LayoutComparison) String() string {
-	v := "not enough"
-	switch {
-	case c.Decisive:
-		v = "decisive"
-	case c.Suggestive:
-		v = "suggestive, not decisive"
-	}
-	return fmt.Sprintf("%s over %s: held-out gain %.4g ± %.2g (%.1f %% of %s's error), ΔBIC %.1f — %s",
-		c.Richer, c.Simpler, c.Gain, c.StdErr, 100*c.RelativeGain, c.Simpler, c.DeltaBIC, v)
-}
-
 // formBest is a form's representative: its best cross-validated model.
 type formBest struct {
 	key  string
@@ -135,7 +78,7 @@ func candidateLess(a, b *Candidate) bool {
 // noiseLevel estimates the noise in held-out-error units from the lowest
 // in-sample loss: √(loss / (protocols × components)), corrected for the
 // fitted parameters.
-func (d *Discovery) noiseLevel(p *Problem) float64 {
+func (d *Discovery) noiseLevel(ev evidence) float64 {
 	best := math.Inf(1)
 	k := 0
 	for i := range d.Pareto {
@@ -143,17 +86,17 @@ func (d *Discovery) noiseLevel(p *Problem) float64 {
 			best, k = r.Loss, r.FreeParams
 		}
 	}
-	n := float64(p.Rows())
+	n := float64(ev.rows)
 	dof := math.Max(n-float64(k), 1)
-	return math.Sqrt(best * n / dof / float64(len(p.Protocols)*len(p.Output.Components)))
+	return math.Sqrt(best * n / dof / float64(ev.series))
 }
 
 // seFloor is the smallest standard error a held-out comparison may claim:
 // the sampling error of an RMS estimate from N residuals at the noise
 // level σ, σ/√(2N) (common practice for a χ² variance estimate), so that
 // identical protocols cannot make the evidence look infinitely precise.
-func seFloor(noise float64, p *Problem) float64 {
-	return noise / math.Sqrt(2*float64(p.Rows()))
+func seFloor(noise float64, ev evidence) float64 {
+	return noise / math.Sqrt(2*float64(ev.rows))
 }
 
 // compare measures how much richer beats simpler.
@@ -224,21 +167,15 @@ func (d *Discovery) formBests() []*formBest {
 	return out
 }
 
-// coincident reports a two-family model whose families point the same way
-// (within 2°): really one family, whatever its layout says.
-func coincident(r *Result) bool {
-	if len(r.Model.Families) != 2 {
-		return false
-	}
-	d := math.Abs(WrapDeg(Deg(r.Model.Families[0].Angle - r.Model.Families[1].Angle)))
-	return d < 2
-}
-
 // decide walks the forms, picks the winner and the model inside it, and
 // writes the rule and the verdict.
-func (d *Discovery) decide(p *Problem) {
-	noise := d.noiseLevel(p)
-	floor := seFloor(noise, p)
+func (d *Discovery) decide(p *Problem) { d.decideOn(problemEvidence(p)) }
+
+// decideOn is decide on the evidence ev, which a cohort pools over its
+// specimens.
+func (d *Discovery) decideOn(ev evidence) {
+	noise := d.noiseLevel(ev)
+	floor := seFloor(noise, ev)
 	bests := d.formBests()
 	var notes []string
 	win := bests[0]
@@ -261,8 +198,8 @@ func (d *Discovery) decide(p *Problem) {
 		}
 	}
 	d.Chosen = d.oneSE(win.key, floor)
-	d.ensureAdmissible(p)
-	d.Verdict = d.verdictFor(p, win, comps, open, notes)
+	d.ensureAdmissible(ev)
+	d.Verdict = d.verdictFor(ev, win, comps, open, notes)
 	d.Verdict.Noise, d.Verdict.StdErrFloor = noise, floor
 }
 
@@ -308,139 +245,37 @@ func (d *Discovery) oneSE(form string, floor float64) int {
 	return pick
 }
 
-// anglesText writes a result's family angles.
-func anglesText(r *Result) string {
-	var s []string
-	for _, f := range r.Model.Families {
-		a := Deg(f.Angle)
-		if r.SignKnown {
-			s = append(s, fmt.Sprintf("%.1f°", a))
-		} else {
-			s = append(s, fmt.Sprintf("±%.1f°", math.Abs(a)))
+// ensureAdmissible keeps the pick if it is admissible where it was fitted;
+// otherwise it takes the next candidate of the same form that is (fewest
+// parameters, then lowest held-out error) and says why in the rule.
+func (d *Discovery) ensureAdmissible(ev evidence) {
+	c := &d.Pareto[d.Chosen]
+	why := ev.admissible(c)
+	if why == "" {
+		return
+	}
+	form := FormKey(c.Result.Structure)
+	var in []int
+	for i := range d.Pareto {
+		if i != d.Chosen && FormKey(d.Pareto[i].Result.Structure) == form {
+			in = append(in, i)
 		}
 	}
-	return strings.Join(s, ", ")
-}
-
-// decider is the measurement that settles one family against a mirror
-// pair (package documentation, Mirror symmetry).
-const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
-
-// lookAlike describes a richer form's best model when it has a known
-// simpler look-alike, or returns "".
-func lookAlike(r *Result) string {
-	fs := r.Model.Families
-	if len(fs) != 2 {
-		return ""
-	}
-	a := WrapDeg(Deg(fs[0].Angle))
-	b := WrapDeg(Deg(fs[1].Angle))
-	near := func(x, y float64) bool { return math.Abs(WrapDeg(x-y)) < 10 }
-	if (near(a, 0) && near(b, 90)) || (near(a, 90) && near(b, 0)) {
-		return "two families near 0° and 90° stiffen both axes alike, a look-alike of isotropic stiffening"
-	}
-	if !r.SignKnown {
-		// Without shear information only |α| is known.
-		a, b = math.Abs(a), math.Abs(b)
-	}
-	if d := math.Abs(WrapDeg(a - b)); d > 2 && d < 60 {
-		mid := WrapDeg(a + WrapDeg(b-a)/2)
-		return fmt.Sprintf("two families bracketing %.1f° (at %.1f° and %.1f°) are a look-alike of one family spread about %.1f°", mid, a, b, mid)
-	}
-	return ""
-}
-
-// verdictFor writes the verdict of the winning form.
-func (d *Discovery) verdictFor(p *Problem, win *formBest, comps, open []LayoutComparison, notes []string) Verdict {
-	v := Verdict{DeltaBIC: map[string]float64{}, CVError: map[string]float64{}, Comparisons: comps}
-	bests := d.formBests()
-	minBIC := math.Inf(1)
-	for _, fb := range bests {
-		minBIC = math.Min(minBIC, fb.c.Result.BIC)
-	}
-	byKey := map[string]*formBest{}
-	for _, fb := range bests {
-		byKey[fb.key] = fb
-		v.DeltaBIC[fb.key] = fb.c.Result.BIC - minBIC
-		if fb.c.CV != nil {
-			v.CVError[fb.key] = fb.c.CV.Mean
+	sort.SliceStable(in, func(a, b int) bool {
+		ca, cb := &d.Pareto[in[a]], &d.Pareto[in[b]]
+		if ca.Result.Complexity != cb.Result.Complexity {
+			return ca.Result.Complexity < cb.Result.Complexity
+		}
+		return candidateLess(ca, cb)
+	})
+	for _, i := range in {
+		if ev.admissible(&d.Pareto[i]) == "" {
+			d.Rule += fmt.Sprintf("; %s was set aside because it is %s, inside its fitted range; the next admissible candidate of the form, %s, was taken", c.Name, why, d.Pareto[i].Name)
+			d.Chosen = i
+			return
 		}
 	}
-	for _, lc := range comps {
-		if lc.Decisive || !(lc.Gain > 0 || lc.DeltaBIC > 0) {
-			continue
-		}
-		n := fmt.Sprintf("ruled out %s (%s): it fits better, but not by more than the noise explains (%s)", lc.Richer, anglesText(byKey[lc.Richer].c.Result), lc)
-		if la := lookAlike(byKey[lc.Richer].c.Result); la != "" {
-			n += "; " + la
-		}
-		notes = append(notes, n)
-	}
-	v.RuledOut = notes
-	r := win.c.Result
-	spread := ""
-	if r.Structure.Planar {
-		var bs []string
-		for _, f := range r.Model.Families {
-			bs = append(bs, fmt.Sprintf("%.3g", f.Concentration))
-		}
-		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
-	}
-	why := "no richer form beats it by more than the noise explains"
-	for _, lc := range comps {
-		if lc.Decisive && lc.Richer == win.key {
-			why = fmt.Sprintf("it beats %s decisively (%s), and no richer form beats it", lc.Simpler, lc)
-		}
-	}
-	ang := anglesText(r)
-	switch r.Structure.Layout {
-	case LayoutNone:
-		v.Families = "0"
-		v.Reason = "isotropic: " + why
-	case LayoutSingle:
-		if p.HasShear {
-			v.Families = "1"
-			v.Reason = fmt.Sprintf("one fibre family at %s%s: %s", ang, spread, why)
-		} else {
-			v.Families = "1-or-mirror-pair"
-			v.Reason = fmt.Sprintf("one fibre direction at %s%s: %s; without shear information one family at α and a mirror pair at ±α give the same normal stresses, so the data cannot tell them apart", ang, spread, why)
-			v.Decider = decider
-		}
-	case LayoutMirror:
-		fs := r.Model.Families
-		same := Deg(math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))) < 1
-		switch {
-		case !p.HasShear && same:
-			v.Families = "1-or-mirror-pair"
-			v.Reason = fmt.Sprintf("a mirror pair at %s%s: %s; without shear information it cannot be told from one family at that angle", ang, spread, why)
-			v.Decider = decider
-		default:
-			v.Families = "2"
-			v.Reason = fmt.Sprintf("two fibre families, a pair at %s sharing their stiffness%s: %s", ang, spread, why)
-		}
-	case LayoutFree:
-		v.Families = "2"
-		v.Reason = fmt.Sprintf("two fibre families at %s%s: %s", ang, spread, why)
-	}
-	if !p.HasShear && r.Structure.Layout != LayoutNone && r.Structure.Layout != LayoutSingle {
-		v.Reason += "; signs of the angles are unknown without shear information"
-	}
-	if len(open) > 0 {
-		var alt []string
-		for _, lc := range open {
-			alt = append(alt, lc.String())
-		}
-		v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", open[len(open)-1].Richer, strings.Join(alt, "; "), v.Reason)
-		v.Families = "undecided"
-		v.Decider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
-	}
-	if len(p.Protocols) == 1 {
-		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"
-		if v.Families != "0" {
-			v.Families = "undecided"
-		}
-	}
-	return v
+	d.Rule += fmt.Sprintf("; CAUTION: %s is %s, inside its fitted range, and no other candidate of its form is admissible there", c.Name, why)
 }
 
 // admissibleOnData checks stability and strong ellipticity (see
@@ -469,37 +304,4 @@ func admissibleOnData(m *Model, p *Problem) string {
 		}
 	}
 	return ""
-}
-
-// ensureAdmissible keeps the pick if it is admissible where it was fitted;
-// otherwise it takes the next candidate of the same form that is (fewest
-// parameters, then lowest held-out error) and says why in the rule.
-func (d *Discovery) ensureAdmissible(p *Problem) {
-	c := &d.Pareto[d.Chosen]
-	why := admissibleOnData(c.Result.Model, p)
-	if why == "" {
-		return
-	}
-	form := FormKey(c.Result.Structure)
-	var in []int
-	for i := range d.Pareto {
-		if i != d.Chosen && FormKey(d.Pareto[i].Result.Structure) == form {
-			in = append(in, i)
-		}
-	}
-	sort.SliceStable(in, func(a, b int) bool {
-		ca, cb := &d.Pareto[in[a]], &d.Pareto[in[b]]
-		if ca.Result.Complexity != cb.Result.Complexity {
-			return ca.Result.Complexity < cb.Result.Complexity
-		}
-		return candidateLess(ca, cb)
-	})
-	for _, i := range in {
-		if admissibleOnData(d.Pareto[i].Result.Model, p) == "" {
-			d.Rule += fmt.Sprintf("; %s was set aside because it is %s, inside its fitted range; the next admissible candidate of the form, %s, was taken", c.Name, why, d.Pareto[i].Name)
-			d.Chosen = i
-			return
-		}
-	}
-	d.Rule += fmt.Sprintf("; CAUTION: %s is %s, inside its fitted range, and no other candidate of its form is admissible there", c.Name, why)
 }

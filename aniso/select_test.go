@@ -48,11 +48,29 @@ func outcomeOf(t *testing.T, s *biaxial.Specimen) outcome {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return outcomeFrom(d)
+}
+
+// outcomeFrom reads the outcome of a discovery.
+func outcomeFrom(d *Discovery) outcome {
 	o := outcome{name: d.Best().Name, families: d.Verdict.Families}
 	for _, f := range d.Best().Result.Model.Families {
 		o.angles = append(o.angles, math.Round(10*f.Angle/deg)/10)
 	}
 	return o
+}
+
+// equal reports the same form and verdict and angles within 0.1°.
+func (o outcome) equal(p outcome) bool {
+	if o.name != p.name || o.families != p.families || len(o.angles) != len(p.angles) {
+		return false
+	}
+	for i := range o.angles {
+		if math.Abs(o.angles[i]-p.angles[i]) > 0.1+1e-9 {
+			return false
+		}
+	}
+	return true
 }
 
 // The chosen form, its angles (to 0.1°) and the verdict are the same for
@@ -110,7 +128,7 @@ func TestEnsureAdmissible(t *testing.T) {
 		{Name: "bad", Layout: LayoutSingle, Result: &Result{Structure: st, Model: bad, Complexity: 3}},
 		{Name: "good", Layout: LayoutSingle, Result: &Result{Structure: st, Model: good, Complexity: 4}},
 	}}
-	d.ensureAdmissible(p)
+	d.ensureAdmissible(problemEvidence(p))
 	if d.Chosen != 1 || !strings.Contains(d.Rule, "bad was set aside because it is unstable") {
 		t.Errorf("chosen %d, rule %q", d.Chosen, d.Rule)
 	}

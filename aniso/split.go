@@ -38,9 +38,36 @@ type ProtocolSplit struct {
 
 // ComponentSplit is the split of one stress component in one protocol.
 type ComponentSplit struct {
-	Component             string
+	Component string
+	// TermShare and GroupShare are NaN when NoShare says why there is no
+	// share to give.
 	TermShare, GroupShare []float64
 	Signed                []float64
+	// NetPeak is the largest |modelled stress| of the component over the
+	// protocol's points and NormalPeak that of the protocol's normal
+	// components (stress unit).
+	NetPeak, NormalPeak float64
+	// NoShare is empty, or says why the component has no share: its
+	// modelled stress is negligible (NegligibleNet) while its terms carry
+	// stress that cancels, so a share of their magnitudes would describe
+	// nothing the component carries.
+	NoShare string
+}
+
+// NegligibleNet is the largest modelled stress of a component, as a
+// fraction of the largest modelled normal stress of its protocol, below
+// which the component is taken to carry no net load. On a specimen that
+// shears freely on sutures the modelled shear stays near zero while matrix
+// and fibre terms each carry a shear stress of either sign that cancels;
+// splitting their magnitudes would read "50 % / 50 %" of nothing. The
+// level matches the ±2 % span of the report's shear axes.
+const NegligibleNet = 0.02
+
+// NetNegligible reports whether a component whose largest |modelled
+// stress| is netPeak carries no net load next to normal stresses of
+// largest magnitude normalPeak (see NegligibleNet).
+func NetNegligible(netPeak, normalPeak float64) bool {
+	return normalPeak > 0 && netPeak < NegligibleNet*normalPeak || normalPeak == 0 && netPeak == 0
 }
 
 // PointContributions returns each term's contribution to the model's stress
@@ -84,6 +111,22 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 	for _, pi := range p.Protocols {
 		pr := &p.Specimen.Protocols[pi]
 		ps := ProtocolSplit{Protocol: pr.Label}
+		netPeak := map[Component]float64{}
+		normalPeak := 0.0
+		for r := range p.Target {
+			if p.RowProtocol[r] != pi {
+				continue
+			}
+			net := 0.0
+			for k := range m.Terms {
+				net += contrib[k][r]
+			}
+			comp := p.RowComponent[r]
+			netPeak[comp] = math.Max(netPeak[comp], math.Abs(net))
+			if c := biaxial.Component(comp); c == biaxial.C11 || c == biaxial.C22 {
+				normalPeak = math.Max(normalPeak, math.Abs(net))
+			}
+		}
 		for _, comp := range p.Output.Components {
 			cs := ComponentSplit{Component: biaxial.Component(comp).String(), TermShare: make([]float64, len(m.Terms)),
 				GroupShare: make([]float64, ng), Signed: make([]float64, len(m.Terms))}
@@ -104,6 +147,17 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 					cs.TermShare[k] /= total
 				}
 				cs.GroupShare[s.TermGroup[k]] += cs.TermShare[k]
+			}
+			cs.NetPeak, cs.NormalPeak = netPeak[comp], normalPeak
+			if NetNegligible(cs.NetPeak, cs.NormalPeak) {
+				cs.NoShare = fmt.Sprintf("no share: the modelled %s stays within ±%.2g %s, under %.0f %% of the protocol's largest normal stress (%.3g %s), while its terms carry stresses that cancel",
+					cs.Component, cs.NetPeak, p.Specimen.StressUnit, 100*NegligibleNet, cs.NormalPeak, p.Specimen.StressUnit)
+				for k := range cs.TermShare {
+					cs.TermShare[k] = math.NaN()
+				}
+				for g := range cs.GroupShare {
+					cs.GroupShare[g] = math.NaN()
+				}
 			}
 			ps.Components = append(ps.Components, cs)
 		}

@@ -19,7 +19,7 @@ type refCase struct {
 		Inv    string   `json:"inv"`
 		Form   string   `json:"form"`
 		W      float64  `json:"w"`
-		Rate   *float64 `json:"rate"`
+		Rate   *float64 `json:"stiffening"`
 		Limit  *float64 `json:"limit"`
 		Family *int     `json:"family"`
 	} `json:"terms"`
@@ -297,7 +297,7 @@ func TestOneFamilyEqualsMirrorPairInNormalStress(t *testing.T) {
 func TestOverflowNeverNaN(t *testing.T) {
 	m := allTermsModel()
 	for i := range m.Terms {
-		if len(m.Terms[i].Params) > 0 && m.Terms[i].Shape.Params[0].Name == "rate" {
+		if len(m.Terms[i].Params) > 0 && m.Terms[i].Shape.Params[0].Name == "stiffening" {
 			m.Terms[i].Params[0] = m.Terms[i].Shape.Params[0].Max
 		}
 	}

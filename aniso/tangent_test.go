@@ -26,7 +26,7 @@ func singleTermModels() []*Model {
 	for _, sh := range terms.Catalogue() {
 		p := sh.DefaultParams()
 		for i, q := range sh.Params {
-			if q.Name == "rate" {
+			if q.Name == "stiffening" {
 				p[i] = 1.7
 			}
 			if q.Name == "limit" {

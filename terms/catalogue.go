@@ -7,17 +7,20 @@ import (
 
 // The catalogue. Normalisations follow the published forms where one exists,
 // so that a weight reads as the usual constant: i1-lin w = C10 = μ/2
-// (neo-Hookean), i1-exp w = a/2 with rate b (Demiray 1972), i1-gent w = μ/2
-// with limit J (Gent 1996), fib-expsq w = k1 with rate k2 (Holzapfel, Gasser &
+// (neo-Hookean), i1-exp w = a/2 with stiffening b (Demiray 1972), i1-gent w = μ/2
+// with limit J (Gent 1996), fib-expsq w = k1 with stiffening k2 (Holzapfel, Gasser &
 // Ogden 2000), ps-pos and ps-neg w = μ with exponent α (Ogden 1972;
 // principal.go), fib-recruit w = E, the fibre modulus (Lanir 1983;
 // recruit.go).
 
-// rateParam is the exponential rate shared by the exponential shapes. Its
-// scan grid spreads over decades, since rates of soft tissue span them.
-func rateParam(def, max float64) Param {
-	return Param{Name: "rate", Symbol: "b", Default: def, Min: 0, Max: max,
-		Doc:  "exponential rate (dimensionless); 0 reduces the shape to its polynomial limit",
+// stiffeningParam is the coefficient b in the exponent of the exponential
+// shapes: how fast they stiffen with their argument (a strain measure, so b
+// has nothing to do with time). Cards before it was named "stiffening" called
+// it "rate". Its scan grid spreads over decades, since the values of soft
+// tissue span them.
+func stiffeningParam(def, max float64) Param {
+	return Param{Name: "stiffening", FormerName: "rate", Symbol: "b", Default: def, Min: 0, Max: max,
+		Doc:  "stiffening coefficient in the exponent (dimensionless): how fast the term stiffens as its argument grows; 0 reduces the shape to its polynomial limit",
 		Grid: []float64{0.3, 3, 30, 300}, IdleStart: 0.3}
 }
 
@@ -260,10 +263,10 @@ func setZeroForm(id, param, plain, latex string) {
 func init() {
 	defer func() {
 		for _, id := range []string{"i1-exp", "i2-exp"} {
-			setZeroForm(id, "rate", "w*{x}", `w\,{x}`)
+			setZeroForm(id, "stiffening", "w*{x}", `w\,{x}`)
 		}
 		for _, id := range []string{"i1-expsq", "fib-expsq", "fib-exp"} {
-			setZeroForm(id, "rate", "w*{x}^2/2", `\frac{w}{2}\,{x}^{2}`)
+			setZeroForm(id, "stiffening", "w*{x}^2/2", `\frac{w}{2}\,{x}^{2}`)
 		}
 		setZeroForm("fib-recruit", "spread", recruitZeroPlain, recruitZeroLaTeX)
 	}()
@@ -292,13 +295,13 @@ func init() {
 				"stiffening of the cubic growth in "+n+"−3; nothing at small strain", true, note, "Yeoh 1993 (third term)",
 				implCube),
 			shape(lo+"-exp", a, "exponential in "+n, "w*(exp(b*{x})-1)/b", `\frac{w}{b}\left(e^{b\,{x}}-1\right)`,
-				[]Param{rateParam(1, 100)},
+				[]Param{stiffeningParam(1, 100)},
 				mu+" at small strain; b sets the stiffening", true, note, "Demiray 1972",
 				implExp),
 		)
 		if a == I1 {
 			register(shape(lo+"-expsq", a, "exponential of square in I1", "w*(exp(b*{x}^2)-1)/(2*b)",
-				`\frac{w}{2b}\left(e^{b\,{x}^{2}}-1\right)`, []Param{rateParam(1, 200)},
+				`\frac{w}{2b}\left(e^{b\,{x}^{2}}-1\right)`, []Param{stiffeningParam(1, 200)},
 				"stiffness of the exponential-of-square growth in I1−3 (f″(0) = 1); nothing at small strain", true, note,
 				"exponential-of-square form as in Holzapfel, Gasser & Ogden 2000, applied to I1",
 				implExpSq))
@@ -318,12 +321,12 @@ func init() {
 			"fibre stiffness: the term's fibre stress grows as 4w·E_f (f″ = 2)", true, fibreNote, "",
 			implQuad),
 		shape("fib-expsq", Fibre, "exponential-of-square fibre", "w*(exp(b*{x}^2)-1)/(2*b)",
-			`\frac{w}{2b}\left(e^{b\,E_f^{2}}-1\right)`, []Param{rateParam(1, 1000)},
+			`\frac{w}{2b}\left(e^{b\,E_f^{2}}-1\right)`, []Param{stiffeningParam(1, 1000)},
 			"w = k1 and b = k2 of Holzapfel, Gasser & Ogden 2000 (f″(0) = 1)", true, fibreNote,
 			"Holzapfel, Gasser & Ogden 2000",
 			implExpSq),
 		shape("fib-exp", Fibre, "exponential fibre with zero initial slope", "w*(exp(b*{x})-1-b*{x})/b^2",
-			`\frac{w}{b^{2}}\left(e^{b\,E_f}-1-b\,E_f\right)`, []Param{rateParam(1, 100)},
+			`\frac{w}{b^{2}}\left(e^{b\,E_f}-1-b\,E_f\right)`, []Param{stiffeningParam(1, 100)},
 			"fibre stiffness at onset (f″(0) = 1); b sets the gradual stiffening", true, fibreNote, "",
 			implExpZero),
 		recruitShape(),

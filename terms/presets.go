@@ -25,7 +25,7 @@ type Preset struct {
 	// Families is the number of fibre families (0, 1 or 2).
 	Families int
 	// Mirror is true when two families sit at ±β, symmetric about axis 1,
-	// and share their weights and rates, as in Holzapfel, Gasser & Ogden
+	// and share their weights and stiffening coefficients, as in Holzapfel, Gasser & Ogden
 	// 2000.
 	Mirror bool
 	// Dispersion is true when each family has a dispersion κ

@@ -2,7 +2,7 @@
 //
 // A strain energy is a sum of terms Ψ = Σ w_k f_k(x_k; θ_k), each a weight w_k
 // (a stiffness in the stress unit, w_k ≥ 0) times a shape f_k of one shifted
-// invariant x_k with a few non-linear parameters θ_k (rates, limits). This
+// invariant x_k with a few non-linear parameters θ_k (stiffening coefficients, limits). This
 // package knows the shapes only: their arguments, closed-form values and
 // derivatives, parameter bounds, what the weight means and whether the shape
 // keeps the energy polyconvex. It knows nothing about data, fibres' angles or
@@ -115,8 +115,12 @@ func (a Argument) NeedsFamily() bool { return a == Fibre || a == Cofactor || a =
 
 // Param describes one non-linear parameter of a shape.
 type Param struct {
-	// Name is the parameter's key in model cards, e.g. "rate" or "limit".
+	// Name is the parameter's key in model cards, e.g. "stiffening" or
+	// "limit".
 	Name string
+	// FormerName is the key older cards used for the parameter ("" when it
+	// never had another); card readers accept it.
+	FormerName string
 	// Symbol is the parameter's symbol in formulas, e.g. "b" or "J".
 	Symbol string
 	// Default is the value used when a card or a fit does not set it.
@@ -139,7 +143,7 @@ type Param struct {
 	Grid []float64
 	// IdleStart is the value a fitter starts from when its coarse scan
 	// gives the term no stress: the gentlest stress response (smallest
-	// rate, largest limit), which cannot overflow where a steeper start
+	// stiffening, largest limit), which cannot overflow where a steeper start
 	// might.
 	IdleStart float64
 }
@@ -183,7 +187,7 @@ type Shape struct {
 
 	// zeroForm holds the plain and LaTeX formulas of the shape's limit
 	// where parameter zeroParam is exactly 0 (e.g. w·x²/2 for an
-	// exponential of a square at rate b = 0), when the general formula
+	// exponential of a square at stiffening b = 0), when the general formula
 	// divides by that parameter.
 	zeroForm  [2]string
 	zeroParam string
@@ -216,7 +220,7 @@ func (s *Shape) Eval(x float64, p []float64) Value { return s.eval(x, p) }
 
 // Written returns the term's plain and LaTeX formulas (with w and the
 // parameter symbols not yet substituted) for these parameter values: the
-// limit form where a rate is exactly 0, so that no formula divides by zero.
+// limit form where a stiffening b is exactly 0, so that no formula divides by zero.
 func (s *Shape) Written(p []float64) (plain, latex string) {
 	for j, q := range s.Params {
 		if q.Name == s.zeroParam && j < len(p) && p[j] == 0 && s.zeroForm[0] != "" {

@@ -9,7 +9,7 @@ import (
 func params(s *Shape, v float64) []float64 {
 	p := s.DefaultParams()
 	for i := range p {
-		if s.Params[i].Name == "rate" {
+		if s.Params[i].Name == "stiffening" {
 			p[i] = v
 		}
 	}
@@ -195,17 +195,17 @@ func TestCatalogueAndPresets(t *testing.T) {
 	}
 }
 
-// At rate 0 each exponential shape is its polynomial limit (series of the
+// At stiffening 0 each exponential shape is its polynomial limit (series of the
 // exponential; common practice), and Written gives that limit's formula
 // instead of one that divides by zero.
 func TestZeroRateLimit(t *testing.T) {
 	for _, s := range Catalogue() {
-		if len(s.Params) == 0 || s.Params[0].Name != "rate" {
+		if len(s.Params) == 0 || s.Params[0].Name != "stiffening" {
 			continue
 		}
 		plain, _ := s.Written([]float64{0})
 		if plain == s.Formula || strings.Contains(plain, "/b") {
-			t.Errorf("%s: rate-0 formula %q", s.ID, plain)
+			t.Errorf("%s: stiffening-0 formula %q", s.ID, plain)
 		}
 		x := 0.3
 		v0 := s.Eval(x, []float64{0}).F
@@ -214,7 +214,7 @@ func TestZeroRateLimit(t *testing.T) {
 			want = x
 		}
 		if math.Abs(v0-want) > 1e-15 {
-			t.Errorf("%s: f(%g) at rate 0 = %g, limit %g", s.ID, x, v0, want)
+			t.Errorf("%s: f(%g) at stiffening 0 = %g, limit %g", s.ID, x, v0, want)
 		}
 	}
 }

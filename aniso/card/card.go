@@ -145,6 +145,11 @@ type Card struct {
 	// (key "alternatives"; AlternativeModels reads them); nil when the
 	// fibre layout is determined or the card predates the section.
 	Alternatives *AlternativesSection `json:"-"`
+	// Provenance is what made the card (key "provenance") and Setup how
+	// the specimen was set up (key "setup"); nil in cards written before
+	// them or by hand.
+	Provenance *Provenance `json:"-"`
+	Setup      *Setup      `json:"-"`
 
 	// Extra holds keys this version does not know, written back unchanged.
 	Extra map[string]json.RawMessage `json:"-"`
@@ -191,6 +196,8 @@ var sections = []section{
 	{KeySplit, func(c *Card) (any, bool) { return c.Split, c.Split != nil }, decodeInto(func(c *Card, v *SplitSection) { c.Split = v })},
 	{KeyVerdict, func(c *Card) (any, bool) { return c.Verdict, c.Verdict != nil }, decodeInto(func(c *Card, v *VerdictSection) { c.Verdict = v })},
 	{KeyAlternatives, func(c *Card) (any, bool) { return c.Alternatives, c.Alternatives != nil }, decodeInto(func(c *Card, v *AlternativesSection) { c.Alternatives = v })},
+	{KeyProvenance, func(c *Card) (any, bool) { return c.Provenance, c.Provenance != nil }, decodeInto(func(c *Card, v *Provenance) { c.Provenance = v })},
+	{KeySetup, func(c *Card) (any, bool) { return c.Setup, c.Setup != nil }, decodeInto(func(c *Card, v *Setup) { c.Setup = v })},
 }
 
 // SectionError returns why the fit section under key (KeyFit, KeyData, ...)
@@ -495,6 +502,10 @@ func (c *Card) Model() (*aniso.Model, error) {
 		if t.WeightUnit != "" && t.WeightUnit != c.StressUnit {
 			return nil, errAt(p+".weight_unit", "%s differs from stress_unit %q; convert the weight", quote(t.WeightUnit), c.StressUnit)
 		}
+		if err := upgradeParamNames(sh, &c.Terms[i], p); err != nil {
+			return nil, err
+		}
+		t = c.Terms[i]
 		params := make([]float64, len(sh.Params))
 		for j, q := range sh.Params {
 			v, ok := t.Params[q.Name]
@@ -535,6 +546,33 @@ func (c *Card) Model() (*aniso.Model, error) {
 		return nil, errAt("$", "%v", err)
 	}
 	return m, nil
+}
+
+// upgradeParamNames renames, in t itself, every parameter key an older card
+// used (terms.Param.FormerName, e.g. "rate" for today's "stiffening") to
+// today's name, so that old cards read as before and a card written again
+// uses today's names. Both names at once is an error at path p.
+func upgradeParamNames(sh *terms.Shape, t *Term, p string) error {
+	for _, q := range sh.Params {
+		if q.FormerName == "" {
+			continue
+		}
+		v, old := t.Params[q.FormerName]
+		if !old {
+			continue
+		}
+		if _, now := t.Params[q.Name]; now {
+			return errAt(p+".params."+q.FormerName, "give %s only: %q is its former name", q.Name, q.FormerName)
+		}
+		params := make(map[string]float64, len(t.Params))
+		for k, x := range t.Params {
+			params[k] = x
+		}
+		delete(params, q.FormerName)
+		params[q.Name] = v
+		t.Params = params
+	}
+	return nil
 }
 
 func hasParam(s *terms.Shape, name string) bool {

@@ -19,8 +19,8 @@ func Example() {
 	const model = `{"format": "weft.model/1", "stress_unit": "kPa",
   "families": [{"name": "f1", "angle_deg": 40}, {"name": "f2", "angle_deg": -40}],
   "terms": [{"id": "i1-lin", "weight": 3},
-            {"id": "fib-expsq", "weight": 20, "params": {"rate": 5}, "family": "f1"},
-            {"id": "fib-expsq", "weight": 20, "params": {"rate": 5}, "family": "f2"}]}`
+            {"id": "fib-expsq", "weight": 20, "params": {"stiffening": 5}, "family": "f1"},
+            {"id": "fib-expsq", "weight": 20, "params": {"stiffening": 5}, "family": "f2"}]}`
 	_, m, err := card.Parse(strings.NewReader(model), "model.json")
 	if err != nil {
 		fmt.Println(err)

@@ -9,9 +9,9 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 )
 
-// CVMetric says what the held-out error of the selection evidence
+// HeldoutMetric says what the held-out error of the selection evidence
 // measures.
-const CVMetric = "held-out normalised RMSE: sqrt(weighted SSE / components) of the left-out protocol, rows weighted by 1/(range*sqrt(points)) of their protocol and axis"
+const HeldoutMetric = "held-out normalised RMSE: sqrt(weighted SSE / components) of the left-out protocol, rows weighted by 1/(range*sqrt(points)) of their protocol and axis"
 
 // FromFit writes a fitted model and its evidence as a card: the model
 // (FromModel) with its specimen and fibre layout, and the sections Fit,
@@ -32,6 +32,7 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 	c.DataRange = NewDataRange(p, r.Model)
 	c.Alternatives = NewAlternativesSection(r.Model, s.StressUnit, signs)
 	c.Data = NewDataSection(s)
+	c.Setup = NewSetup(s)
 	if sp, err := aniso.Split(p, r.Model); err == nil {
 		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")
 	}
@@ -66,7 +67,7 @@ func fitLayout(r *aniso.Result) *Layout {
 
 // newSelectionSection is the evidence of discovery d on p.
 func newSelectionSection(p *aniso.Problem, d *aniso.Discovery) *SelectionSection {
-	sel := &SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search, CVMetric: CVMetric}
+	sel := &SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search, HeldoutMetric: HeldoutMetric}
 	for i := range d.Pareto {
 		sel.Pareto = append(sel.Pareto, NewCandidateCard(&d.Pareto[i], i == d.Chosen))
 	}

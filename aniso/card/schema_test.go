@@ -190,7 +190,7 @@ func buildSchema() []byte {
 			{"form", obj{{"type", "string"}, {"description", "the model form the verdict rests on: 0, 1, 2-mirror or 2-free, with +dispersed (spread in the plane) or +kappa"}}},
 			{"reason", obj{{"type", "string"}, {"description", "the evidence in words and numbers"}}},
 			{"delta_bic", obj{{"type", "object"}, {"description", "per form (0, 1, 1+dispersed, 2-mirror, 2-free, ...): its best BIC minus the best over forms, dimensionless"}}},
-			{"cv_error", obj{{"type", "object"}, {"description", "per form: its best leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
+			{"heldout_error", obj{{"type", "object"}, {"description", "per form: its best leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
 			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive"}}},
 			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
@@ -426,7 +426,7 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 func TestSchemaRejectsInvalidCards(t *testing.T) {
 	s := compileSchema(t)
 	good := `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":30}],
-	 "terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]}`
+	 "terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"stiffening":1},"family":"f1"}]}`
 	if err := validate(t, s, []byte(good)); err != nil {
 		t.Fatalf("good card rejected: %v", err)
 	}
@@ -434,19 +434,19 @@ func TestSchemaRejectsInvalidCards(t *testing.T) {
 		t.Fatal(err)
 	}
 	bad := map[string][2]string{
-		"negative weight":       {`"weight":1}`, `"weight":-1}`},
-		"unknown format":        {`"weft.model/1"`, `"weft.model/9"`},
-		"unknown unit":          {`"stress_unit":"kPa"`, `"stress_unit":"psi"`},
-		"unknown term":          {`"id":"i1-lin"`, `"id":"i1-linear"`},
-		"rate out of bounds":    {`"rate":1`, `"rate":1001`},
-		"missing rate":          {`"params":{"rate":1},`, ``},
-		"extra parameter":       {`"rate":1`, `"rate":1,"limit":2`},
-		"fibre without family":  {`,"family":"f1"`, ``},
-		"isotropic with family": {`{"id":"i1-lin","weight":1}`, `{"id":"i1-lin","weight":1,"family":"f1"}`},
-		"dispersion above 1/3":  {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
-		"no terms":              {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"rate":1},"family":"f1"}]`, `"terms":[]`},
-		"angle not a number":    {`"angle_deg":30`, `"angle_deg":"30"`},
-		"angle beyond a turn":   {`"angle_deg":30`, `"angle_deg":390`},
+		"negative weight":          {`"weight":1}`, `"weight":-1}`},
+		"unknown format":           {`"weft.model/1"`, `"weft.model/9"`},
+		"unknown unit":             {`"stress_unit":"kPa"`, `"stress_unit":"psi"`},
+		"unknown term":             {`"id":"i1-lin"`, `"id":"i1-linear"`},
+		"stiffening out of bounds": {`"stiffening":1`, `"stiffening":1001`},
+		"missing stiffening":       {`"params":{"stiffening":1},`, ``},
+		"extra parameter":          {`"stiffening":1`, `"stiffening":1,"limit":2`},
+		"fibre without family":     {`,"family":"f1"`, ``},
+		"isotropic with family":    {`{"id":"i1-lin","weight":1}`, `{"id":"i1-lin","weight":1,"family":"f1"}`},
+		"dispersion above 1/3":     {`"angle_deg":30`, `"angle_deg":30,"dispersion":0.34`},
+		"no terms":                 {`"terms":[{"id":"i1-lin","weight":1},{"id":"fib-expsq","weight":2,"params":{"stiffening":1},"family":"f1"}]`, `"terms":[]`},
+		"angle not a number":       {`"angle_deg":30`, `"angle_deg":"30"`},
+		"angle beyond a turn":      {`"angle_deg":30`, `"angle_deg":390`},
 	}
 	for name, r := range bad {
 		card := strings.Replace(good, r[0], r[1], 1)

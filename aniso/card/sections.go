@@ -72,11 +72,11 @@ type VerdictSection struct {
 	// aniso.FormKey, e.g. "1+dispersed").
 	Form   string `json:"form"`
 	Reason string `json:"reason"`
-	// DeltaBIC and CVError per form ("0", "1", "1+dispersed", "2-mirror",
-	// "2-free", ...): its best model's BIC minus the best, and its best
-	// held-out error.
-	DeltaBIC map[string]Num `json:"delta_bic"`
-	CVError  map[string]Num `json:"cv_error"`
+	// DeltaBIC and HeldoutError per form ("0", "1", "1+dispersed",
+	// "2-mirror", "2-free", ...): its best model's BIC minus the best, and
+	// its best held-out error (cards before this name said "cv_error").
+	DeltaBIC     map[string]Num `json:"delta_bic"`
+	HeldoutError map[string]Num `json:"heldout_error"`
 	// Comparisons are the steps from the simplest form to the richest.
 	Comparisons []ComparisonCard `json:"comparisons,omitempty"`
 	// RuledOut names richer explanations that were not supported.
@@ -105,13 +105,13 @@ type ComparisonCard struct {
 // chosen model's form.
 func NewVerdictSection(v aniso.Verdict, form string) VerdictSection {
 	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider,
-		DeltaBIC: map[string]Num{}, CVError: map[string]Num{}, RuledOut: v.RuledOut,
+		DeltaBIC: map[string]Num{}, HeldoutError: map[string]Num{}, RuledOut: v.RuledOut,
 		Noise: Num(v.Noise), StdErrFloor: Num(v.StdErrFloor)}
 	for k, x := range v.DeltaBIC {
 		s.DeltaBIC[k] = Num(x)
 	}
-	for k, x := range v.CVError {
-		s.CVError[k] = Num(x)
+	for k, x := range v.HeldoutError {
+		s.HeldoutError[k] = Num(x)
 	}
 	for _, c := range v.Comparisons {
 		s.Comparisons = append(s.Comparisons, ComparisonCard{Simpler: c.Simpler, Richer: c.Richer, Gain: Num(c.Gain), StdErr: Num(c.StdErr),
@@ -130,17 +130,26 @@ type CandidateCard struct {
 	Size       int      `json:"size"`
 	// Parameters counts weights and non-linear parameters (the size used by
 	// the selection rule).
-	Parameters int         `json:"parameters"`
-	Loss       Num         `json:"loss"`
-	AICc       Num         `json:"aicc"`
-	BIC        Num         `json:"bic"`
-	AnglesDeg  []Num       `json:"angles_deg"`
-	MinR2      Num         `json:"min_r2"`
-	CVMean     Num         `json:"cv_error"`
-	CVStdErr   Num         `json:"cv_stderr"`
-	CVFolds    []FoldCard  `json:"cv_folds,omitempty"`
-	Chosen     bool        `json:"chosen"`
-	Weights    []WeightOut `json:"weights"`
+	Parameters int   `json:"parameters"`
+	Loss       Num   `json:"loss"`
+	AICc       Num   `json:"aicc"`
+	BIC        Num   `json:"bic"`
+	AnglesDeg  []Num `json:"angles_deg"`
+	// LowestR2 is the lowest R² over protocols and components.
+	LowestR2 Num `json:"lowest_r2"`
+	// HeldoutError is the mean leave-one-protocol-out error (see
+	// HeldoutMetric), HeldoutStdErr its standard error and HeldoutFolds
+	// the folds; null without cross-validation. Cards before these names
+	// said "min_r2", "cv_error", "cv_stderr" and "cv_folds".
+	HeldoutError  Num         `json:"heldout_error"`
+	HeldoutStdErr Num         `json:"heldout_stderr"`
+	HeldoutFolds  []FoldCard  `json:"heldout_folds,omitempty"`
+	Chosen        bool        `json:"chosen"`
+	Weights       []WeightOut `json:"weights"`
+	// Model is the candidate's fitted model in the card's own form
+	// (CandidateModel), present for every candidate that was
+	// cross-validated: the ones the selection rule compares.
+	Model *CandidateModel `json:"model,omitempty"`
 }
 
 // WeightOut is a term's fitted weight in a candidate.
@@ -159,12 +168,14 @@ type FoldCard struct {
 
 // SelectionSection is the evidence behind the discovered model.
 type SelectionSection struct {
-	Rule     string          `json:"rule"`
-	Chosen   string          `json:"chosen"`
-	Search   []string        `json:"search"`
-	Pareto   []CandidateCard `json:"pareto"`
-	Presets  []CandidateCard `json:"presets"`
-	CVMetric string          `json:"cv_metric"`
+	Rule    string          `json:"rule"`
+	Chosen  string          `json:"chosen"`
+	Search  []string        `json:"search"`
+	Pareto  []CandidateCard `json:"pareto"`
+	Presets []CandidateCard `json:"presets"`
+	// HeldoutMetric says what the held-out error measures (cards before
+	// this name said "cv_metric").
+	HeldoutMetric string `json:"heldout_metric"`
 	// CrossR2[i][j]: mean R² of protocol j predicted by the chosen form
 	// fitted to protocol i alone; Protocols labels the rows and columns.
 	Protocols []string `json:"protocols"`
@@ -194,14 +205,18 @@ type SplitCompCard struct {
 	Component  string         `json:"component"`
 	TermShare  []Num          `json:"term_share"`
 	GroupShare map[string]Num `json:"group_share"`
+	// NoShare says why the shares are null: the component's modelled
+	// stress is negligible while its terms' contributions cancel
+	// (aniso.NegligibleNet).
+	NoShare string `json:"no_share,omitempty"`
 }
 
 // NewCandidateCard describes a discovery candidate.
 func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
-	r := c.Result
+	r := c.Compared()
 	cc := CandidateCard{Name: c.Name, Layout: c.Layout.String(), Dispersion: r.Structure.Dispersion, InPlane: r.Structure.Planar, Size: c.Terms,
 		Parameters: r.Complexity, Loss: Num(r.Loss), AICc: Num(r.AICc), BIC: Num(r.BIC),
-		CVMean: Num(math.NaN()), CVStdErr: Num(math.NaN()), Chosen: chosen, MinR2: Num(math.NaN())}
+		HeldoutError: Num(math.NaN()), HeldoutStdErr: Num(math.NaN()), Chosen: chosen, LowestR2: Num(math.NaN())}
 	for i, t := range r.Structure.Terms {
 		if r.Weights[i] > 0 {
 			cc.Terms = append(cc.Terms, t.Label(r.Structure.Layout))
@@ -212,10 +227,11 @@ func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 		cc.AnglesDeg = append(cc.AnglesDeg, Num(aniso.Deg(f.Angle)))
 	}
 	if minR2 := LowestR2(r.Metrics); !math.IsInf(minR2, 1) {
-		cc.MinR2 = Num(minR2)
+		cc.LowestR2 = Num(minR2)
 	}
 	if c.CV != nil {
-		cc.CVMean, cc.CVStdErr = Num(c.CV.Mean), Num(c.CV.StdErr)
+		cc.Model = NewCandidateModel(r.Model)
+		cc.HeldoutError, cc.HeldoutStdErr = Num(c.CV.Mean), Num(c.CV.StdErr)
 		for _, f := range c.CV.Folds {
 			s, n := 0.0, 0
 			for _, m := range f.Metrics {
@@ -228,7 +244,7 @@ func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 			if n > 0 {
 				r2 = s / float64(n)
 			}
-			cc.CVFolds = append(cc.CVFolds, FoldCard{Protocol: f.Protocol, Error: Num(f.Error), R2: Num(r2)})
+			cc.HeldoutFolds = append(cc.HeldoutFolds, FoldCard{Protocol: f.Protocol, Error: Num(f.Error), R2: Num(r2)})
 		}
 	}
 	return cc
@@ -246,7 +262,7 @@ func NewSplitSection(s *aniso.StressSplit, measure string) *SplitSection {
 			pc.GroupEnergyShare[s.Groups[g]] = Num(v)
 		}
 		for _, cs := range ps.Components {
-			cc := SplitCompCard{Component: cs.Component, TermShare: nums(cs.TermShare), GroupShare: map[string]Num{}}
+			cc := SplitCompCard{Component: cs.Component, TermShare: nums(cs.TermShare), GroupShare: map[string]Num{}, NoShare: cs.NoShare}
 			for g, v := range cs.GroupShare {
 				cc.GroupShare[s.Groups[g]] = Num(v)
 			}

@@ -12,7 +12,7 @@ import (
 
 const okCard = `{"format": "weft.model/1", "stress_unit": "kPa",
  "families": [{"name": "f1", "angle_deg": 30}],
- "terms": [{"id": "i1-exp", "weight": 2, "params": {"rate": 3}}, {"id": "fib-quad", "weight": 5, "family": "f1"}]}`
+ "terms": [{"id": "i1-exp", "weight": 2, "params": {"stiffening": 3}}, {"id": "fib-quad", "weight": 5, "family": "f1"}]}`
 
 func parseString(s string) (*Card, error) {
 	c, _, err := Parse(strings.NewReader(s), "card.json")
@@ -29,7 +29,7 @@ func TestStrictCardReading(t *testing.T) {
 	for _, c := range []struct{ name, in, want string }{
 		{"key case", strings.Replace(okCard, `"weight": 2`, `"Weight": 2`, 1), `$.terms[0].Weight: write the key as "weight": keys are case-sensitive`},
 		{"top-level key case", strings.Replace(okCard, `"terms"`, `"Terms"`, 1), `$.Terms: write the key as "terms"`},
-		{"param case", strings.Replace(okCard, `"rate"`, `"Rate"`, 1), `$.terms[0].params.Rate: write the key as "rate"`},
+		{"param case", strings.Replace(okCard, `"stiffening"`, `"Stiffening"`, 1), `$.terms[0].params.Stiffening: write the key as "stiffening"`},
 		{"duplicate key", strings.Replace(okCard, `"weight": 2`, `"weight": 2, "weight": 7`, 1), `$.terms[0].weight: the key "weight" is given twice`},
 		{"duplicate in a section", strings.Replace(okCard, `"format"`, `"fit": {"a": 1, "a": 2}, "format"`, 1), `$.fit.a: the key "a" is given twice`},
 		{"top-level array", "[" + okCard + "]", "the card is a JSON array; a model card is one JSON object"},
@@ -97,7 +97,7 @@ func TestCardLimits(t *testing.T) {
 func FuzzCard(f *testing.F) {
 	f.Add([]byte(okCard))
 	f.Add([]byte("\xef\xbb\xbf" + okCard))
-	f.Add([]byte(`{"format":"weft.model/1","stress_unit":"MPa","families":[{"name":"a","angle_deg":-90,"dispersion":0.2}],"terms":[{"id":"fib-expsq","weight":1,"params":{"rate":2},"family":"a"},{"id":"i1-gent","weight":1,"params":{"limit":3}}],"fit":{"x":[1,2]}}`))
+	f.Add([]byte(`{"format":"weft.model/1","stress_unit":"MPa","families":[{"name":"a","angle_deg":-90,"dispersion":0.2}],"terms":[{"id":"fib-expsq","weight":1,"params":{"stiffening":2},"family":"a"},{"id":"i1-gent","weight":1,"params":{"limit":3}}],"fit":{"x":[1,2]}}`))
 	f.Add([]byte(`[1,2]`))
 	f.Add([]byte(`{"a":1,"a":2}`))
 	if b, err := FromModel(sampleModel(), "kPa", []bool{true, false}).Marshal(); err == nil {

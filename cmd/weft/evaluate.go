@@ -21,10 +21,10 @@ type evaluateOptions struct {
 
 func newEvaluateCmd(s *streams) *cobra.Command {
 	o := &evaluateOptions{streams: *s}
-	var fFlag, stretchFlag string
+	var fFlag, oldF, stretchFlag string
 	var limits *limitFlags
 	cmd := &cobra.Command{
-		Use:   "evaluate MODEL.json (--F F11,F12,F21,F22 | --stretch L1,L2)",
+		Use:   "evaluate MODEL.json (--deformation F11,F12,F21,F22 | --stretch L1,L2)",
 		Short: "Energy, stresses and the analytic tangent of a model card at one deformation",
 		Long: `evaluate prints, at one in-plane deformation gradient, the invariants, the
 strain energy, the Cauchy and nominal stress and the analytic in-plane tangent
@@ -37,17 +37,24 @@ membrane energy W(F11, F12, F21, F22), so it is symmetric. Fibre and I5 terms
 contribute only while their family is stretched (I4 > 1); exactly at I4 = 1
 the tangent without them is printed.
 
---stretch L1,L2 is short for --F L1,0,0,L2.`,
+--stretch L1,L2 is short for --deformation L1,0,0,L2. (--F is the former
+name of --deformation and still works.)`,
 		Example: `  weft evaluate model.json --stretch 1.2,1.1
-  weft evaluate model.json --F 1.1,0.05,0,0.95 --json`,
+  weft evaluate model.json --deformation 1.1,0.05,0,0.95 --json`,
 		Args: exactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var F [4]float64
+			if oldF != "" {
+				if fFlag != "" {
+					return badInputf("give --deformation once (--F is its former name)")
+				}
+				fFlag = oldF
+			}
 			switch {
 			case fFlag != "" && stretchFlag != "":
-				return badInputf("give either --F or --stretch, not both")
+				return badInputf("give either --deformation or --stretch, not both")
 			case fFlag != "":
-				v, err := parseNumbers("F", fFlag, 4)
+				v, err := parseNumbers("deformation", fFlag, 4)
 				if err != nil {
 					return err
 				}
@@ -59,7 +66,7 @@ the tangent without them is printed.
 				}
 				F = [4]float64{v[0], 0, 0, v[1]}
 			default:
-				return badInputf("give the deformation with --F F11,F12,F21,F22 or --stretch L1,L2")
+				return badInputf("give the deformation with --deformation F11,F12,F21,F22 or --stretch L1,L2")
 			}
 			if det := F[0]*F[3] - F[1]*F[2]; !(det > 0) {
 				return badInputf("det F = F11·F22 − F12·F21 = %g ≤ 0 would invert the material", det)
@@ -72,7 +79,10 @@ the tangent without them is printed.
 			return runEvaluate(o)
 		},
 	}
-	cmd.Flags().StringVar(&fFlag, "F", "", "in-plane deformation gradient F11,F12,F21,F22")
+	cmd.Flags().StringVar(&fFlag, "deformation", "", "in-plane deformation gradient F11,F12,F21,F22")
+	// --F is the flag's former name, kept so that scripts still run.
+	cmd.Flags().StringVar(&oldF, "F", "", "former name of --deformation")
+	cmd.Flags().MarkHidden("F")
 	cmd.Flags().StringVar(&stretchFlag, "stretch", "", "pure biaxial stretch L1,L2 (F12 = F21 = 0)")
 	cmd.Flags().BoolVar(&o.json, "json", false, "print the result as JSON")
 	limits = addLimitFlag(cmd)

@@ -199,7 +199,7 @@ func TestExportFormats(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}
-	if len(doc.Cautions) != len(card.Cautions) || len(doc.Parameters) != 3 || doc.Parameters[1].Params["rate"] != 0.8393 ||
+	if len(doc.Cautions) != len(card.Cautions) || len(doc.Parameters) != 3 || doc.Parameters[1].Params["stiffening"] != 0.8393 ||
 		*doc.Parameters[2].AngleDeg != -29 || doc.StressUnit != "kPa" || len(doc.Verification) != 6*4+6+6*4+6*4 {
 		t.Fatalf("json: %+v", doc)
 	}
@@ -288,8 +288,8 @@ func TestCheckPassesHGO(t *testing.T) {
 	adventitia := `{"format": "weft.model/1", "stress_unit": "kPa",
 	 "families": [{"name": "f1", "angle_deg": 62}, {"name": "f2", "angle_deg": -62}],
 	 "terms": [{"id": "i1-lin", "weight": 0.15},
-	  {"id": "fib-expsq", "weight": 0.562, "params": {"rate": 0.7112}, "family": "f1"},
-	  {"id": "fib-expsq", "weight": 0.562, "params": {"rate": 0.7112}, "family": "f2"}]}`
+	  {"id": "fib-expsq", "weight": 0.562, "params": {"stiffening": 0.7112}, "family": "f1"},
+	  {"id": "fib-expsq", "weight": 0.562, "params": {"stiffening": 0.7112}, "family": "f2"}]}`
 	for name, c := range map[string]struct {
 		path  string
 		cval  float64
@@ -368,7 +368,8 @@ func TestCheckEvaluateBadInput(t *testing.T) {
 		{"check", filepath.Join(t.TempDir(), "missing.json")},
 		{"evaluate", model},
 		{"evaluate", model, "--F", "1,0,0"},
-		{"evaluate", model, "--F", "1,0,0,1", "--stretch", "1,1"},
+		{"evaluate", model, "--deformation", "1,0,0,1", "--stretch", "1,1"},
+		{"evaluate", model, "--deformation", "1,0,0,1", "--F", "1,0,0,1"},
 		{"evaluate", model, "--stretch", "1,-1"},
 		{"evaluate", model, "--F", "0.5,1,1,0.5"},
 	} {
@@ -379,21 +380,21 @@ func TestCheckEvaluateBadInput(t *testing.T) {
 	}
 }
 
-// evaluate: --stretch is --F with zero shears; the JSON's stresses equal
+// evaluate: --stretch is --deformation with zero shears; the JSON's stresses equal
 // predict's; the tangent matches finite differences of predict's nominal
 // stress (common practice) and is symmetric.
 func TestEvaluate(t *testing.T) {
 	model := "../../testdata/example/hgo-media.json"
 	a, _, c1 := runWeft(t, "evaluate", model, "--stretch", "1.2,1.1", "--json")
-	b, _, c2 := runWeft(t, "evaluate", model, "--F", "1.2,0,0,1.1", "--json")
+	b, _, c2 := runWeft(t, "evaluate", model, "--deformation", "1.2,0,0,1.1", "--json")
 	if c1 != 0 || c2 != 0 || a != b {
-		t.Fatalf("--stretch and --F differ (exit %d, %d)", c1, c2)
+		t.Fatalf("--stretch and --deformation differ (exit %d, %d)", c1, c2)
 	}
 	F := [4]float64{1.15, 0.08, -0.03, 1.05}
 	fs := func(F [4]float64) string {
 		return strings.Join([]string{fullFloat(F[0]), fullFloat(F[1]), fullFloat(F[2]), fullFloat(F[3])}, ",")
 	}
-	out, errs, code := runWeft(t, "evaluate", model, "--F", fs(F), "--json")
+	out, errs, code := runWeft(t, "evaluate", model, "--deformation", fs(F), "--json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -439,7 +440,7 @@ func TestEvaluate(t *testing.T) {
 	if len(r.Cautions) == 0 || len(r.Families) != 2 || !r.Families[0].Engaged {
 		t.Errorf("evaluate json: %+v", r)
 	}
-	human, _, _ := runWeft(t, "evaluate", model, "--F", fs(F))
+	human, _, _ := runWeft(t, "evaluate", model, "--deformation", fs(F))
 	if !strings.Contains(human, "Tangent dP/dF") || !strings.Contains(human, "CAUTIONS") {
 		t.Errorf("human output:\n%s", human)
 	}

@@ -38,6 +38,8 @@ type fitOptions struct {
 	maxTerms   int
 	asJSON     bool
 	quiet      bool
+	// png also writes every plot as PNG beside its SVG.
+	png bool
 }
 
 func newFitCmd(s *streams) *cobra.Command {
@@ -102,13 +104,15 @@ tested range, not for clinical decisions.`,
 	fl.BoolVar(&ff.force, "force", false, "replace an existing output folder that weft wrote (never anything else)")
 	fl.StringVar(&ff.preset, "preset", "", "fit a classical preset instead of discovering (see 'weft terms')")
 	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
-	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2 (default 1 when a fibre term is given, else 0)")
+	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2")
+	fl.Lookup("families").DefValue = "1 with a fibre term, else 0"
 	fl.StringVar(&ff.layout, "layout", "free", "two families for --terms: free (independent angles) or mirror (θ ± β, shared stiffness)")
 	fl.StringVar(&ff.dispersion, "dispersion", "", "how fibres spread about their mean direction: in-plane (a learned concentration, angular integration), kappa (the 3-D dispersion κ of Gasser, Ogden & Holzapfel 2006) or none; discovery tries in-plane besides ideal families unless told otherwise, --terms fits ideal families unless told otherwise")
 	fl.StringVar(&ff.pairAxis, "pair-axis", "", "axis of a mirror pair (--preset hgo or goh, or --layout mirror): axis-1 holds the pair symmetric about axis 1 at ±β, as published (the default); free learns the pair's axis θ as well")
 	fl.IntVar(&ff.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
 	fl.BoolVar(&ff.asJSON, "json", false, "print the model card(s) as JSON instead of the summary")
 	fl.BoolVar(&ff.quiet, "quiet", false, "no progress bar")
+	fl.BoolVar(&ff.png, "png", false, "also write every plot as PNG (144 dpi) beside its SVG in plots/")
 	cmd.RunE = func(cmd *cobra.Command, args []string) error {
 		opt, err := rf.options()
 		if err != nil {
@@ -310,7 +314,11 @@ func runFit(ff *fitOptions) error {
 		}
 		o, err := fitOne(j.spec, st, chosen, ff)
 		if err == nil {
-			o.dir = j.dir
+			o.card.Provenance, err = fitProvenance(j.path, ff)
+		}
+		if err == nil {
+			o.dir, o.png = j.dir, ff.png
+			o.raw = readRecordView(j.path, ff.read)
 			err = writeFitOutputs(o, j.od, ff.force)
 		}
 		j.od.close()
@@ -477,6 +485,33 @@ func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
 // writeFitOutputs writes every file of the output folder and puts the
 // folder in place.
 func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
+	if err := writeFitFiles(o, od); err != nil {
+		return err
+	}
+	return od.commit(force)
+}
+
+// writeFitFiles writes the files of one specimen's output folder into od:
+// an output folder, or one specimen's folder inside a cohort's.
+func writeFitFiles(o *fitOutcome, od folderSink) error {
+	if err := writeCardAndFitTable(o, od); err != nil {
+		return err
+	}
+	if o.disc != nil {
+		var buf bytes.Buffer
+		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
+			return err
+		}
+		if err := od.write("selection.csv", buf.Bytes()); err != nil {
+			return err
+		}
+	}
+	return writeReportFiles(od, o)
+}
+
+// writeCardAndFitTable writes the model card and the fit table, the files
+// every specimen's folder has.
+func writeCardAndFitTable(o *fitOutcome, od folderSink) error {
 	b, err := o.card.Marshal()
 	if err != nil {
 		return err
@@ -488,31 +523,18 @@ func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
 	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
 		return err
 	}
-	if err := od.write("fit.csv", buf.Bytes()); err != nil {
-		return err
-	}
-	if o.disc != nil {
-		buf.Reset()
-		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
-			return err
-		}
-		if err := od.write("selection.csv", buf.Bytes()); err != nil {
-			return err
-		}
-	}
-	if err := writeReportFiles(od, o); err != nil {
-		return err
-	}
-	return od.commit(force)
+	return od.write("fit.csv", buf.Bytes())
 }
 
 // writeReportFiles is weft fit's hook: it writes heldout.csv (the model
-// form refitted with each protocol left out, predicting it), then reads the
-// folder's files back, exactly as 'weft report' does, and writes
-// report.html and plots/ into the folder before it is committed.
-func writeReportFiles(od *outputDir, o *fitOutcome) error {
+// form refitted with each protocol left out, predicting it), curves.csv
+// (the model curves with their confidence bands, and the presets'), and
+// raw.csv (every cycle of the file), then reads the folder's files back,
+// exactly as 'weft report' does, and writes report.html and plots/ into
+// the folder before it is committed.
+func writeReportFiles(od folderSink, o *fitOutcome) error {
+	var buf bytes.Buffer
 	if folds := heldoutPredictions(o.prob, o.result); folds != nil {
-		var buf bytes.Buffer
 		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
 			return err
 		}
@@ -520,15 +542,42 @@ func writeReportFiles(od *outputDir, o *fitOutcome) error {
 			return err
 		}
 	}
+	// The bands use the fits' state, so they come after the held-out
+	// refits, which run in parallel.
+	models := []report.CurveModel{{Name: "model", Result: o.result}}
+	if o.disc != nil {
+		for i := range o.disc.Presets {
+			c := &o.disc.Presets[i]
+			models = append(models, report.CurveModel{Name: strings.TrimPrefix(c.Name, "preset:"), Result: c.Result})
+		}
+	}
+	buf.Reset()
+	if err := report.WriteCurveTable(&buf, o.prob, models); err != nil {
+		return err
+	}
+	if err := od.write("curves.csv", buf.Bytes()); err != nil {
+		return err
+	}
+	if o.raw != nil {
+		buf.Reset()
+		if err := report.WriteRawTable(&buf, o.raw, o.spec); err != nil {
+			return err
+		}
+		if err := od.write("raw.csv", buf.Bytes()); err != nil {
+			return err
+		}
+	}
 	// Messages name the folder the user will see, not the temporary one.
 	named := func(err error) error {
-		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), od.tmp, od.final))
+		tmp, final := od.dirs()
+		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), tmp, final))
 	}
-	in, err := loadReportFolder(od.tmp, biaxial.Limits{}, card.Limits{})
+	tmp, _ := od.dirs()
+	in, err := loadReportFolder(tmp, biaxial.Limits{}, card.Limits{})
 	if err != nil {
 		return named(err)
 	}
-	files, err := report.Build(in, false)
+	files, err := report.Build(in, report.Options{PNG: o.png, Software: versionText()})
 	if err != nil {
 		return named(err)
 	}

@@ -261,7 +261,7 @@ func TestDemoMatchesTestdata(t *testing.T) {
 // on round-off, and must say it could not resolve those points.
 func TestCheckDoesNotFailOnRoundOff(t *testing.T) {
 	c := `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":30}],
-"terms":[{"id":"i1-lin","weight":3.955},{"id":"fib-expsq","weight":60.608,"params":{"rate":7.87275},"family":"f1"}]}`
+"terms":[{"id":"i1-lin","weight":3.955},{"id":"fib-expsq","weight":60.608,"params":{"stiffening":7.87275},"family":"f1"}]}`
 	out, errs, code := runWeft(t, "check", writeTemp(t, "m.json", c))
 	if code != 0 {
 		t.Fatalf("exit %d: %s\n%s", code, errs, out)
@@ -347,7 +347,7 @@ func TestFitStatusesShown(t *testing.T) {
 		text   []string
 	}{
 		{[]string{"--preset", "goh"}, "correlated", []string{"status:   correlated:", "note:     The data determine"}},
-		{[]string{"--terms", "i1-lin,fib-expsq", "--families", "2"}, "degenerate", []string{"status:   degenerate:", "is degenerate, not supported by the data", "not-determined (below the 95% threshold"}},
+		{[]string{"--terms", "i1-lin,fib-expsq", "--families", "2"}, "degenerate", []string{"status:   degenerate:", "is degenerate, not supported by the data", "(the profile excludes no angle)"}},
 	} {
 		od := filepath.Join(dir, c.status)
 		out, errs, code := runWeft(t, append([]string{"fit", filepath.Join(dir, "membrane-M1.csv"), "-o", od, "--quiet"}, c.args...)...)

@@ -52,7 +52,7 @@ func TestInspectTable(t *testing.T) {
 
 func TestInspectJSON(t *testing.T) {
 	path := writeSynthetic(t, t.TempDir())
-	out, errs, code := runWeft(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
+	out, errs, code := runWeft(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--protocol-weight", "1:0.5=2", path)
 	if code != exitOK || errs != "" {
 		t.Fatalf("exit %d, stderr %q", code, errs)
 	}
@@ -93,7 +93,7 @@ func TestInspectJSON(t *testing.T) {
 		t.Errorf("protocol 1:0.5: %+v", p)
 	}
 	// Same input, same output.
-	again, _, _ := runWeft(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--weight", "1:0.5=2", path)
+	again, _, _ := runWeft(t, "inspect", "--json", "--cycle", "1", "--branch", "unloading", "--protocol-weight", "1:0.5=2", path)
 	if again != out {
 		t.Error("two runs gave different JSON")
 	}

@@ -45,10 +45,11 @@ const (
 	lockTag = ".weft-lock"
 )
 
-// legacyNames are the files an output folder held before weft wrote a
-// marker; such a folder is recognised by its model card.
+// legacyNames are the files weft writes at the top of an output folder. A
+// folder without a marker (written before weft wrote markers) is
+// recognised by its model card and may hold only these and plots.
 var legacyNames = map[string]bool{"model.json": true, "fit.csv": true, "selection.csv": true,
-	"heldout.csv": true, "report.html": true}
+	"heldout.csv": true, "report.html": true, "curves.csv": true, "raw.csv": true}
 
 // ioErrText is the operating system's reason without the path, so that
 // messages can name the path the user gave instead of a temporary one.
@@ -575,17 +576,56 @@ func legacyPlot(rel string) bool {
 	return ok && !strings.Contains(name, "/") && (strings.HasSuffix(name, ".svg") || strings.HasSuffix(name, ".png"))
 }
 
+// folderSink is where the files of one output folder go: an outputDir, or
+// a folder inside one (subFolder).
+type folderSink interface {
+	// write writes one file, rel relative to the folder.
+	write(rel string, data []byte) error
+	// dirs returns where the files written so far can be read back and
+	// the folder's name as the user will see it.
+	dirs() (tmp, final string)
+}
+
+// dirs implements folderSink.
+func (o *outputDir) dirs() (string, string) { return o.tmp, o.final }
+
+// subFolder is the folder rel inside an output folder being written.
+type subFolder struct {
+	od  *outputDir
+	rel string
+}
+
+// write implements folderSink.
+func (s subFolder) write(rel string, data []byte) error {
+	return s.od.write(filepath.Join(s.rel, rel), data)
+}
+
+// dirs implements folderSink.
+func (s subFolder) dirs() (string, string) {
+	return filepath.Join(s.od.tmp, s.rel), filepath.Join(s.od.final, s.rel)
+}
+
+// files lists the files written into the subfolder so far, relative to it.
+func (s subFolder) files() []string {
+	prefix := filepath.ToSlash(s.rel) + "/"
+	var out []string
+	for _, f := range s.od.files {
+		if r, ok := strings.CutPrefix(f, prefix); ok {
+			out = append(out, r)
+		}
+	}
+	return out
+}
+
 // path returns where a file named rel is written before commit.
 func (o *outputDir) path(rel string) string { return filepath.Join(o.tmp, rel) }
 
-// write writes one file of the folder (rel may name one subfolder level,
-// e.g. plots/x.svg). Errors name the final path, not the temporary one.
+// write writes one file of the folder (rel may name subfolders, e.g.
+// plots/x.svg). Errors name the final path, not the temporary one.
 func (o *outputDir) write(rel string, data []byte) error {
 	p := o.path(rel)
 	if d := filepath.Dir(p); d != o.tmp {
-		// One level only and never MkdirAll: if an interruption removed the
-		// temporary folder, nothing recreates it.
-		if err := os.Mkdir(d, 0o777); err != nil && !errors.Is(err, fs.ErrExist) {
+		if err := mkdirsBelow(o.tmp, d); err != nil {
 			return fmt.Errorf("cannot write %s (%s)", filepath.Join(o.final, rel), ioErrText(err))
 		}
 	}
@@ -593,6 +633,24 @@ func (o *outputDir) write(rel string, data []byte) error {
 		return fmt.Errorf("cannot write %s (%s)", filepath.Join(o.final, rel), ioErrText(err))
 	}
 	o.files = append(o.files, filepath.ToSlash(rel))
+	return nil
+}
+
+// mkdirsBelow creates the folders from root (which must exist) down to
+// dir, one level at a time and never with MkdirAll: if an interruption
+// removed the temporary folder root, nothing recreates it.
+func mkdirsBelow(root, dir string) error {
+	rel, err := filepath.Rel(root, dir)
+	if err != nil {
+		return err
+	}
+	cur := root
+	for _, part := range strings.Split(rel, string(filepath.Separator)) {
+		cur = filepath.Join(cur, part)
+		if err := os.Mkdir(cur, 0o777); err != nil && !errors.Is(err, fs.ErrExist) {
+			return err
+		}
+	}
 	return nil
 }
 

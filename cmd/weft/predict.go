@@ -49,7 +49,7 @@ Appended columns, each with the card's stress unit in brackets:
 Nominal stress is first Piola-Kirchhoff, P = sigma F^-T, so nominal_12 is the
 force along axis 1 per reference area normal to axis 2.`,
 		Example: `  weft predict model.json path.csv
-  weft predict out/model.json testdata/demo/stretch-path.csv -o stresses.csv`,
+  weft predict out/model.json testdata/example/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var err error

@@ -16,6 +16,7 @@ type readFlags struct {
 	rereference bool
 	resample    int
 	weights     []string
+	oldWeights  []string
 	limits      *limitFlags
 }
 
@@ -28,7 +29,11 @@ func addReadFlags(cmd *cobra.Command) *readFlags {
 	fl.StringVar(&f.branch, "branch", "loading", "branch kept: loading, unloading or all")
 	fl.BoolVar(&f.rereference, "rereference", false, "move the reference state to the first kept point of each protocol and remove its stress as a tare")
 	fl.IntVar(&f.resample, "resample", 0, "resample each protocol to N points evenly spaced in stretch (0: off)")
-	fl.StringArrayVar(&f.weights, "weight", nil, "relative weight of a protocol, LABEL=W (repeatable; default 1)")
+	fl.StringArrayVar(&f.weights, "protocol-weight", nil, "relative weight of a protocol's residuals, LABEL=W (repeatable; default 1)")
+	// --weight is the former name of --protocol-weight, kept so that scripts
+	// still run; the word now belongs to the energy terms' coefficients.
+	fl.StringArrayVar(&f.oldWeights, "weight", nil, "former name of --protocol-weight")
+	fl.MarkHidden("weight")
 	f.limits = addLimitFlag(cmd)
 	return f
 }
@@ -52,21 +57,21 @@ func (f *readFlags) options() (biaxial.Options, error) {
 		return o, badInputf("--resample %d: use 0 (off) or at least %d points", f.resample, biaxial.MinPoints)
 	}
 	o.Resample = f.resample
-	for _, w := range f.weights {
+	for _, w := range append(append([]string(nil), f.weights...), f.oldWeights...) {
 		i := strings.LastIndexByte(w, '=')
 		if i <= 0 {
-			return o, badInputf("--weight %s: write LABEL=W, e.g. --weight 1:0.5=2", quoteArg(w))
+			return o, badInputf("--protocol-weight %s: write LABEL=W, e.g. --protocol-weight 1:0.5=2", quoteArg(w))
 		}
 		v, err := biaxial.ParseNumber(strings.TrimSpace(w[i+1:]))
 		if err != nil || !(v >= 0) || v > 1e300 {
-			return o, badInputf("--weight %s: the weight must be a finite decimal number ≥ 0", quoteArg(w))
+			return o, badInputf("--protocol-weight %s: the protocol weight must be a finite decimal number ≥ 0", quoteArg(w))
 		}
 		if o.ProtocolWeights == nil {
 			o.ProtocolWeights = map[string]float64{}
 		}
 		label := strings.TrimSpace(w[:i])
 		if _, dup := o.ProtocolWeights[label]; dup {
-			return o, badInputf("--weight: protocol %s is given twice", quoteArg(label))
+			return o, badInputf("--protocol-weight: protocol %s is given twice", quoteArg(label))
 		}
 		o.ProtocolWeights[label] = v
 	}
@@ -80,4 +85,15 @@ func readSpecimen(path string, opt biaxial.Options) (*biaxial.Specimen, error) {
 		return nil, withLimitHint(err)
 	}
 	return s, nil
+}
+
+// oneFolderArg accepts exactly one argument, an output folder, for the
+// command name.
+func oneFolderArg(name string) cobra.PositionalArgs {
+	return func(cmd *cobra.Command, args []string) error {
+		if len(args) != 1 {
+			return badInputf("%s needs one output folder DIR (see 'weft %s --help')", name, name)
+		}
+		return nil
+	}
 }

@@ -22,6 +22,8 @@ type reportOptions struct {
 	// dir is the output folder; strain plots against Green strain.
 	dir           string
 	strain, force bool
+	// png also writes every plot as PNG.
+	png bool
 	// dataLimits and cardLimits bound what is read.
 	dataLimits biaxial.Limits
 	cardLimits card.Limits
@@ -41,21 +43,20 @@ report.html is one self-contained file (plots inlined as SVG; no external
 fonts, scripts or links) that prints and reads offline. It holds the
 specimen and data summary, the model with its energy and parameter table,
 the family verdict with its evidence, the comparison with classical
-presets, the matrix/fibre split, every plot and the cautions. plots/ holds
-each plot as SVG and PNG.
+presets, who carries the load, the admissibility checks, the methods and
+traceability, every plot and the cautions. plots/ holds each plot as SVG;
+--png adds a PNG (144 dpi) of each.
 
 weft fit already writes the report, so replacing it needs --force.
 
 Parameters are research-grade and specimen-specific, valid only within the
 tested range, not for clinical decisions.`,
 		Example: `  # plot against Green strain E = (λ² − 1)/2 instead of stretch
-  weft report skin-A.weft --strain --force`,
-		Args: func(cmd *cobra.Command, args []string) error {
-			if len(args) != 1 {
-				return badInputf("report needs one output folder DIR (see 'weft report --help')")
-			}
-			return nil
-		},
+  weft report skin-A.weft --strain --force
+
+  # PNG files of every plot too, e.g. for slides
+  weft report skin-A.weft --png --force`,
+		Args: oneFolderArg("report"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var err error
 			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {
@@ -67,6 +68,7 @@ tested range, not for clinical decisions.`,
 	}
 	cmd.Flags().BoolVar(&o.strain, "strain", false, "plot against Green strain E = ½(λ² − 1) instead of stretch λ")
 	cmd.Flags().BoolVar(&o.force, "force", false, "replace an existing report.html and plots/")
+	cmd.Flags().BoolVar(&o.png, "png", false, "also write every plot as PNG (144 dpi) beside its SVG in plots/")
 	limits = addLimitFlag(cmd)
 	return cmd
 }
@@ -98,7 +100,7 @@ func runReport(o *reportOptions) error {
 	}
 	removeStale(htmlPath)
 	removeStale(plotsPath)
-	files, err := report.Build(in, strain)
+	files, err := report.Build(in, report.Options{Strain: strain, PNG: o.png, Software: versionText()})
 	if err != nil {
 		return err
 	}
@@ -113,7 +115,11 @@ func runReport(o *reportOptions) error {
 			return err
 		}
 	}
-	fmt.Fprintf(o.Out, "wrote %s and %s/ (%d plots as SVG and PNG)\n", htmlPath, plotsPath, (len(files)-1)/2)
+	what := "SVG"
+	if o.png {
+		what = "SVG and PNG"
+	}
+	fmt.Fprintf(o.Out, "wrote %s and %s/ (%d plots as %s)\n", htmlPath, plotsPath, plotCount(files), what)
 	return nil
 }
 
@@ -283,6 +289,12 @@ func loadReportFolder(dir string, dl biaxial.Limits, cl card.Limits) (*report.In
 	if f.HeldoutCSV, err = read("heldout.csv", false); err != nil {
 		return nil, err
 	}
+	if f.CurvesCSV, err = read("curves.csv", false); err != nil {
+		return nil, err
+	}
+	if f.RawCSV, err = read("raw.csv", false); err != nil {
+		return nil, err
+	}
 	in, err := report.Parse(f, cl)
 	if err != nil {
 		return nil, badInputf("%s: %v%s", dir, err, reportInputHint(err))
@@ -304,4 +316,15 @@ func reportInputHint(err error) string {
 		return "; refit with 'weft fit'"
 	}
 	return ""
+}
+
+// plotCount counts the plots among a report's files (one SVG each).
+func plotCount(files []report.File) int {
+	n := 0
+	for _, f := range files {
+		if strings.HasSuffix(f.Rel, ".svg") {
+			n++
+		}
+	}
+	return n
 }

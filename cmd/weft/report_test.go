@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/binary"
 	"encoding/csv"
 	"encoding/json"
 	"encoding/xml"
@@ -13,6 +15,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -180,6 +183,23 @@ const (
 	svgPurple     = "#CC79A7"
 )
 
+// tiledPlots are the report's figures with one tile per protocol.
+var tiledPlots = []string{"fit-all", "raw", "presets", "residuals", "load-share"}
+
+// tileTitles counts, per protocol label, the texts of an SVG that begin
+// with the label (tile titles such as "1:0.5 · R² 0.9990 / 0.9985").
+func tileTitles(texts []string, labels []string) map[string]int {
+	n := map[string]int{}
+	for _, s := range texts {
+		for _, l := range labels {
+			if s == l || strings.HasPrefix(s, l+" · ") {
+				n[l]++
+			}
+		}
+	}
+	return n
+}
+
 // TestReportDemo fits the 5-protocol synthetic demo specimen membrane-M1
 // (discovery) and checks the report weft fit writes with it.
 func TestReportDemo(t *testing.T) {
@@ -190,13 +210,10 @@ func TestReportDemo(t *testing.T) {
 		t.Fatalf("fit.csv has %d protocols, the demo file has 5", len(labels))
 	}
 	var c struct {
-		Terms []struct {
-			ID     string  `json:"id"`
-			Weight float64 `json:"weight"`
-			Family string  `json:"family"`
-		} `json:"terms"`
-		Selection card.SelectionSection `json:"selection"`
-		Fit       card.FitSection       `json:"fit"`
+		Selection  card.SelectionSection `json:"selection"`
+		Verdict    card.VerdictSection   `json:"verdict"`
+		Fit        card.FitSection       `json:"fit"`
+		Provenance card.Provenance       `json:"provenance"`
 	}
 	mj, err := os.ReadFile(filepath.Join(dir, "model.json"))
 	if err != nil {
@@ -206,125 +223,111 @@ func TestReportDemo(t *testing.T) {
 		t.Fatal(err)
 	}
 
-	t.Run("a fit plot per protocol with its series", func(t *testing.T) {
-		for i, l := range labels {
-			base := filepath.Join(dir, "plots", plotName("fit", i, l))
-			checkPNG(t, base+".png")
-			if st, err := os.Stat(base + ".svg"); err != nil || st.Size() < 10000 {
-				t.Fatalf("%s.svg missing or too small: %v", base, err)
-			}
-			paths, texts, root := readSVG(t, base+".svg")
-			n := points[l]
-			// Measured points: one ring (axis 1) or square (axis 2) per
-			// fit.csv row, plus one in the legend.
-			rings := countPaths(paths, func(p svgPath) bool { return p.stroke == svgBlue && p.fill == "none" && p.arcs == 2 })
-			squares := countPaths(paths, func(p svgPath) bool { return p.stroke == svgVermillion && p.segs == 3 && strings.HasSuffix(p.d, "Z") })
-			if rings != n+1 || squares != n+1 {
-				t.Errorf("protocol %s: %d rings and %d squares, want %d each (%d points in fit.csv + legend)", l, rings, squares, n+1, n)
-			}
-			// Model curves: one solid polyline per axis, densified
-			// between the points; held-out: one dashed polyline per axis.
-			solid := countPaths(paths, func(p svgPath) bool {
-				return (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= n
-			})
-			dashed := countPaths(paths, func(p svgPath) bool { return p.dashed && p.segs >= n-1 })
-			if solid != 2 || dashed != 2 {
-				t.Errorf("protocol %s: %d model curves and %d held-out curves, want 2 and 2", l, solid, dashed)
-			}
-			joined := strings.Join(texts, "\n")
-			for _, want := range []string{"Protocol " + l, "nominal stress P [kPa]", "stretch λ", "R² "} {
-				if !strings.Contains(joined, want) {
-					t.Errorf("protocol %s: the plot has no text %q", l, want)
+	t.Run("every plot has a tile per protocol, and SVG only by default", func(t *testing.T) {
+		for _, name := range tiledPlots {
+			_, texts, root := readSVG(t, filepath.Join(dir, "plots", name+".svg"))
+			n := tileTitles(texts, labels)
+			for _, l := range labels {
+				if n[l] != 1 {
+					t.Errorf("%s: %d tiles titled for protocol %s, want 1", name, n[l], l)
 				}
 			}
-			if root["width"] == "" || root["height"] == "" || root["viewBox"] == "" {
-				t.Errorf("protocol %s: svg without width, height or viewBox: %v", l, root)
+			if root["width"] == "" || root["viewBox"] == "" {
+				t.Errorf("%s: svg without width or viewBox: %v", name, root)
 			}
+		}
+		if pngs, _ := filepath.Glob(filepath.Join(dir, "plots", "*.png")); len(pngs) != 0 {
+			t.Errorf("weft fit wrote %d PNG files without --png", len(pngs))
 		}
 	})
 
-	t.Run("grid of all protocols", func(t *testing.T) {
-		checkPNG(t, filepath.Join(dir, "plots", "fit-all.png"))
+	t.Run("fit tiles: points, model, band and held-out on top, from zero", func(t *testing.T) {
 		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", "fit-all.svg"))
-		curves := countPaths(paths, func(p svgPath) bool { return p.stroke == svgBlue && !p.dashed && p.segs >= 30 })
-		if curves != len(labels) {
-			t.Errorf("fit-all has %d axis-1 model curves, want one per protocol (%d)", curves, len(labels))
-		}
-		joined := strings.Join(texts, "\n")
+		total := 0
 		for _, l := range labels {
-			if !strings.Contains(joined, l+" · R² ") {
-				t.Errorf("fit-all has no tile titled %q with its R²", l)
-			}
+			total += points[l]
 		}
-	})
-
-	t.Run("split plots stack every active term", func(t *testing.T) {
-		active := 0
-		for _, tm := range c.Terms {
-			if tm.Weight > 0 {
-				active++
-			}
+		// Measured points: a ring (axis 1) or square (axis 2) per fit.csv
+		// row, plus one of each in the legend.
+		rings := countPaths(paths, func(p svgPath) bool { return p.stroke == svgBlue && p.fill == "none" && p.arcs == 2 })
+		squares := countPaths(paths, func(p svgPath) bool {
+			return p.stroke == svgVermillion && p.fill == "none" && p.segs == 3 && strings.HasSuffix(p.d, "Z")
+		})
+		if rings != total+1 || squares != total+1 {
+			t.Errorf("%d rings and %d squares, want %d each (the fit.csv rows and the legend)", rings, squares, total+1)
 		}
-		for i, l := range labels {
-			base := filepath.Join(dir, "plots", plotName("split", i, l))
-			checkPNG(t, base+".png")
-			paths, texts, _ := readSVG(t, base+".svg")
-			// One band per active term and stress component (2), plus
-			// the legend swatch; the matrix grey and the family blue.
-			fills := map[string]int{}
-			for _, p := range paths {
-				if p.fill != "" && p.fill != "none" && p.fill != "#FFFFFF" && p.fill != "#000000" {
-					fills[p.fill]++
+		// One model curve per protocol and axis, densified between points.
+		model := countPaths(paths, func(p svgPath) bool {
+			return (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= 30
+		})
+		if model != 2*len(labels) {
+			t.Errorf("%d model curves, want one per protocol and axis (%d)", model, 2*len(labels))
+		}
+		// Held-out predictions are dashed and drawn after (on top of) the
+		// model curves of their tile (two per tile, tiles in order); the
+		// bands are translucent fills.
+		models, held := 0, 0
+		for _, p := range paths {
+			switch {
+			case (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= 30:
+				models++
+			case p.dashed && p.segs >= 30:
+				if models < 2*(held/2+1) {
+					t.Errorf("held-out curve %d is drawn before its tile's model curves (%d drawn so far)", held, models)
 				}
-			}
-			if len(fills) != active {
-				t.Errorf("split %s: %d band colours %v, want %d active terms", l, len(fills), fills, active)
-			}
-			if fills[svgBlue] != 3 {
-				t.Errorf("split %s: the fibre family's blue fills %d shapes, want 3 (two panels and the legend)", l, fills[svgBlue])
-			}
-			joined := strings.Join(texts, "\n")
-			for _, tm := range c.Terms {
-				if tm.Weight > 0 && !strings.Contains(joined, tm.ID) {
-					t.Errorf("split %s: the legend does not name %s", l, tm.ID)
-				}
+				held++
 			}
 		}
-		checkPNG(t, filepath.Join(dir, "plots", "split-shares.png"))
-	})
-
-	t.Run("evidence plots", func(t *testing.T) {
-		for _, n := range []string{"residuals", "angle-profile", "pareto", "cross-r2"} {
-			checkPNG(t, filepath.Join(dir, "plots", n+".png"))
+		if held != 2*len(labels) {
+			t.Errorf("%d held-out curves, want one per protocol and axis (%d)", held, 2*len(labels))
 		}
-		paths, _, _ := readSVG(t, filepath.Join(dir, "plots", "pareto.svg"))
-		single := 0
-		for _, cc := range c.Selection.Pareto {
-			if cc.Layout == "single" && !cc.Dispersion && !cc.InPlane {
-				single++
-			}
+		b, _ := os.ReadFile(filepath.Join(dir, "plots", "fit-all.svg"))
+		if bands := len(regexp.MustCompile(`fill-opacity:0\.2\d*`).FindAll(b, -1)); bands < 2*len(labels) {
+			t.Errorf("%d band fills, want one per protocol and axis", bands)
 		}
-		boxes := countPaths(paths, func(p svgPath) bool { return p.fill == svgBlue && p.segs == 3 })
-		if boxes != single+1 {
-			t.Errorf("pareto: %d filled blue squares, want %d one-family forms + legend", boxes, single+1)
-		}
-		if countPaths(paths, func(p svgPath) bool { return p.stroke == "#000000" && strings.Contains(p.d, "A8,8") }) != 2 {
-			t.Errorf("pareto: the chosen model is not ringed (plot and legend)")
-		}
-		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "cross-r2.svg"))
-		cell := regexp.MustCompile(`^(−\d\.\d{3}|\d\.\d{4,5})$`) // as the cells write R²
-		cells := 0
+		// Stress axes start at zero: every tile labels a 0 tick.
+		zeros := 0
 		for _, s := range texts {
-			if cell.MatchString(s) {
-				cells++
+			if s == "0" {
+				zeros++
 			}
 		}
-		if n := len(c.Selection.CrossR2); cells != n*n || n != len(labels) {
-			t.Errorf("cross-r2: %d value cells for a %d×%d matrix", cells, n, n)
+		if zeros < len(labels) {
+			t.Errorf("%d tick labels 0 for %d stress axes", zeros, len(labels))
 		}
-		_, texts, _ = readSVG(t, filepath.Join(dir, "plots", "angle-profile.svg"))
-		if !strings.Contains(strings.Join(texts, " "), "95 % interval") {
-			t.Errorf("angle profile: no interval in the title")
+	})
+
+	t.Run("presets figure: the discovered model and every preset", func(t *testing.T) {
+		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "presets.svg"))
+		joined := strings.Join(texts, "\n")
+		for _, p := range c.Selection.Presets {
+			if name := strings.TrimPrefix(p.Name, "preset:"); !strings.Contains(joined, name+" · ") {
+				t.Errorf("presets figure: no legend entry for %s with its held-out error", name)
+			}
+		}
+		if !strings.Contains(joined, "fung") || !strings.Contains(joined, "discovered · ") {
+			t.Errorf("presets figure lacks the Fung-type preset or the discovered model")
+		}
+	})
+
+	t.Run("selection plot shows held-out errors with their standard errors", func(t *testing.T) {
+		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", "pareto.svg"))
+		if !strings.Contains(strings.Join(texts, " "), "held-out error") {
+			t.Errorf("the selection plot's axis is not the held-out error")
+		}
+		cv := 0
+		for _, cc := range append(append([]card.CandidateCard{}, c.Selection.Pareto...), c.Selection.Presets...) {
+			if !math.IsNaN(float64(cc.HeldoutError)) {
+				cv++
+			}
+		}
+		// Each cross-validated form has an error bar: a vertical stroke
+		// and two caps.
+		bars := countPaths(paths, func(p svgPath) bool {
+			return p.segs == 1 && p.fill == "none" && !p.dashed && strings.Count(p.d, "M") == 1 && verticalPath(p.d)
+		})
+		if bars < cv {
+			t.Errorf("%d vertical strokes for %d cross-validated forms and presets", bars, cv)
 		}
 	})
 
@@ -344,18 +347,59 @@ func TestReportDemo(t *testing.T) {
 				t.Errorf("report.html links outside itself: %s", m[0])
 			}
 		}
-		for _, l := range labels {
-			if !strings.Contains(html, "<td>"+l+"</td>") {
-				t.Errorf("report.html does not name protocol %s in its tables", l)
-			}
-		}
 		svgs := strings.Count(html, "<svg ")
 		files, _ := filepath.Glob(filepath.Join(dir, "plots", "*.svg"))
-		if svgs != len(files) || svgs < 2*len(labels)+5 {
+		if svgs != len(files) {
 			t.Errorf("report.html inlines %d plots, plots/ has %d SVG files", svgs, len(files))
 		}
-		for _, want := range append(append([]string{}, card.Cautions...), "SYNTHETIC DATA", "60.608", "Verdict:", "preset:hgo", "Rule:") {
+		// The energy is typeset, not LaTeX source.
+		if !strings.Contains(html, "<math") || strings.Contains(html, `\frac`) {
+			t.Errorf("report.html does not typeset the energy as MathML")
+		}
+		// The verdict's row of the layout table is marked and shows its
+		// angles.
+		row := regexp.MustCompile(`<tr class="mark"><td>([^<]*)</td><td>([^<]*)</td><td class="n">([^<]*)</td>`).FindAllStringSubmatch(html, -1)
+		found := false
+		for _, r := range row {
+			if strings.Contains(html[strings.Index(html, r[0]):], "◀ verdict") && r[1] == "one family" {
+				found = strings.Contains(r[3], "°")
+			}
+		}
+		if !found || c.Verdict.Form != "1" {
+			t.Errorf("the layout table does not mark the verdict's form (%s) with its angle: %v", c.Verdict.Form, row)
+		}
+		// One interval per angle: the profile's.
+		if !regexp.MustCompile(`<td>angle</td><td class="n">[^<]*</td><td class="n">\[[^<]*\]</td><td>profile</td>`).MatchString(html) {
+			t.Errorf("the angle's interval in the parameter table is not its profile interval")
+		}
+		for _, want := range append(append([]string{}, card.Cautions...), "SYNTHETIC DATA", "Verdict:", "Rule:", "Methods", "Bates DM, Watts DG (1988)") {
 			if !strings.Contains(html, htmlText(want)) {
+				t.Errorf("report.html lacks %q", want)
+			}
+		}
+	})
+
+	t.Run("the input's SHA-256 and the version are in the card and the report", func(t *testing.T) {
+		raw, err := os.ReadFile(demoFile("membrane-M1.csv"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		// SHA-256 of the file computed here by the standard library
+		// (FIPS 180-4), independently of weft's streaming hash.
+		sum := fmt.Sprintf("%x", sha256.Sum256(raw))
+		if len(c.Provenance.Inputs) != 1 || c.Provenance.Inputs[0].SHA256 != sum || c.Provenance.Inputs[0].Bytes != int64(len(raw)) {
+			t.Errorf("card provenance inputs %+v, want membrane-M1.csv with SHA-256 %s", c.Provenance.Inputs, sum)
+		}
+		version, _, code := runWeft(t, "--version")
+		if code != 0 || strings.TrimSpace(version) != "weft "+c.Provenance.VersionText() {
+			t.Errorf("weft --version %q, card says %q", version, c.Provenance.VersionText())
+		}
+		if c.Provenance.Command != "weft fit" || !slices.Contains(c.Provenance.Options, "--cycle=last") {
+			t.Errorf("card provenance command %q options %v", c.Provenance.Command, c.Provenance.Options)
+		}
+		html, _ := os.ReadFile(filepath.Join(dir, "report.html"))
+		for _, want := range []string{sum, c.Provenance.VersionText(), "--max-terms=5"} {
+			if !strings.Contains(string(html), htmlText(want)) {
 				t.Errorf("report.html lacks %q", want)
 			}
 		}
@@ -384,7 +428,7 @@ func TestReportDemo(t *testing.T) {
 		if _, stderr, code := runWeft(t, "report", dir, "--strain", "--force"); code != 0 {
 			t.Fatalf("weft report --strain: exit %d: %s", code, stderr)
 		}
-		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", plotName("fit", 0, labels[0])+".svg"))
+		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "fit-all.svg"))
 		joined := strings.Join(texts, "\n")
 		if !strings.Contains(joined, "Green strain E") || strings.Contains(joined, "stretch λ") {
 			t.Errorf("--strain: the x axis is not labelled Green strain")
@@ -392,7 +436,6 @@ func TestReportDemo(t *testing.T) {
 		// The x tick labels must be strains, not stretches: the demo
 		// stretches run from 1.005 to 1.15, so E = ½(λ² − 1) runs from
 		// 0.005 to 0.16125 (Green–Lagrange strain, Holzapfel 2000, §2.5).
-		// The stress ticks of this protocol are whole numbers.
 		top := 0.0
 		for _, s := range texts {
 			v, err := strconv.ParseFloat(s, 64)
@@ -411,6 +454,34 @@ func TestReportDemo(t *testing.T) {
 		}
 		if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
 			t.Fatalf("weft report: exit %d: %s", code, stderr)
+		}
+	})
+
+	t.Run("--png writes each plot as PNG with its resolution", func(t *testing.T) {
+		out := filepath.Join(t.TempDir(), "png.weft")
+		if err := os.CopyFS(out, os.DirFS(dir)); err != nil {
+			t.Fatal(err)
+		}
+		if _, stderr, code := runWeft(t, "report", out, "--force", "--png"); code != 0 {
+			t.Fatalf("weft report --png: exit %d: %s", code, stderr)
+		}
+		svgs, _ := filepath.Glob(filepath.Join(out, "plots", "*.svg"))
+		for _, s := range svgs {
+			p := strings.TrimSuffix(s, ".svg") + ".png"
+			checkPNG(t, p)
+			b, _ := os.ReadFile(p)
+			// The pHYs chunk (PNG specification, ISO/IEC 15948:2004,
+			// §11.3.5.3): 144 dpi is 5669 pixels per metre (144/0.0254,
+			// rounded), unit 1 (metre).
+			i := bytes.Index(b, []byte("pHYs"))
+			if i < 0 || i+13 > len(b) {
+				t.Errorf("%s has no pHYs chunk", p)
+				continue
+			}
+			x, y := binary.BigEndian.Uint32(b[i+4:]), binary.BigEndian.Uint32(b[i+8:])
+			if x != 5669 || y != 5669 || b[i+12] != 1 {
+				t.Errorf("%s: pHYs %d × %d per unit %d, want 5669 per metre (144 dpi)", p, x, y, b[i+12])
+			}
 		}
 	})
 
@@ -433,7 +504,7 @@ func TestReportDemo(t *testing.T) {
 		var folds []card.FoldCard
 		for _, cc := range c.Selection.Pareto {
 			if cc.Chosen {
-				folds = cc.CVFolds
+				folds = cc.HeldoutFolds
 			}
 		}
 		if len(folds) != len(labels) {
@@ -448,8 +519,6 @@ func TestReportDemo(t *testing.T) {
 		for _, f := range folds {
 			sum := 0.0
 			for _, comp := range comps {
-				// The held-out prediction of each kept point, matched by
-				// protocol and source line.
 				hc := col(held[0], "heldout_"+comp)
 				pred := map[string]float64{}
 				for _, r := range held[1:] {
@@ -475,7 +544,13 @@ func TestReportDemo(t *testing.T) {
 		}
 	})
 
-	t.Run("chromium renders it", func(t *testing.T) { checkInChromium(t, dir, labels) })
+	t.Run("chromium renders and prints it", func(t *testing.T) { checkInChromium(t, dir, labels) })
+}
+
+// verticalPath reports whether a path is one vertical stroke "Mx,yLx,z".
+func verticalPath(d string) bool {
+	m := regexp.MustCompile(`^M([-\d.]+),[-\d.]+L([-\d.]+),[-\d.]+$`).FindStringSubmatch(d)
+	return m != nil && m[1] == m[2]
 }
 
 // htmlText escapes s as html/template writes text.
@@ -505,33 +580,63 @@ func readTree(t *testing.T, dir string) map[string][]byte {
 
 // TestReportShearAndChosenForm fits the sutured demo specimen, whose
 // markers give F12 and F21 and whose file gives the shear stresses, with a
-// chosen form: the fit plots get a shear panel, and the report has no
-// selection evidence.
+// chosen form: the report gets the shear figures, whose stress axes span
+// at least ±2 % of each protocol's largest normal stress, and no selection
+// evidence.
 func TestReportShearAndChosenForm(t *testing.T) {
 	t.Parallel()
 	dir := fitDemo(t, "membrane-M3-sutured.csv", "--terms", "i1-lin,fib-expsq", "--families", "1")
 	labels, points := fitCSVPoints(t, dir)
-	for i, l := range labels {
-		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", plotName("fit", i, l)+".svg"))
-		n := points[l]
-		// P12: open triangles (3 segments, closed) in bluish green; P21:
-		// crosses (two strokes each) in reddish purple; each with a
-		// legend entry.
+	fit := readCSV(t, filepath.Join(dir, "fit.csv"))
+	peak := map[string]float64{}
+	for _, r := range fit[1:] {
+		for j, h := range fit[0] {
+			if strings.HasPrefix(h, "measured_nominal_11") || strings.HasPrefix(h, "measured_nominal_22") {
+				v, _ := strconv.ParseFloat(r[j], 64)
+				peak[r[0]] = math.Max(peak[r[0]], math.Abs(v))
+			}
+		}
+	}
+	for _, name := range []string{"fit-shear", "residuals-shear"} {
+		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", name+".svg"))
+		n := tileTitles(texts, labels)
+		for _, l := range labels {
+			if n[l] != 1 {
+				t.Errorf("%s: %d tiles for protocol %s", name, n[l], l)
+			}
+		}
+		// P12: open triangles in bluish green; P21: crosses (two strokes
+		// each) in reddish purple; each with a legend entry.
+		total := 0
+		for _, l := range labels {
+			total += points[l]
+		}
 		tri := countPaths(paths, func(p svgPath) bool { return p.stroke == svgGreen && p.segs == 2 && strings.HasSuffix(p.d, "Z") })
 		cross := countPaths(paths, func(p svgPath) bool { return p.stroke == svgPurple && p.segs == 1 && !p.dashed })
-		if tri != n+1 || cross < 2*n {
-			t.Errorf("protocol %s: %d triangles and %d cross strokes for %d points", l, tri, cross, n)
+		if tri != total+1 || cross < 2*total {
+			t.Errorf("%s: %d triangles and %d cross strokes for %d points", name, tri, cross, total)
+		}
+		// The ±2 % rule: the largest tick label of the shear axes reaches
+		// at least 1 % of the smallest protocol peak (the axis spans 2 %;
+		// its outermost labelled tick can sit up to half of that inside).
+		low := math.Inf(1)
+		for _, v := range peak {
+			low = math.Min(low, v)
+		}
+		top := 0.0
+		for _, s := range texts {
+			if v, err := strconv.ParseFloat(strings.Replace(s, "−", "-", 1), 64); err == nil && v < 1 {
+				top = math.Max(top, math.Abs(v))
+			}
+		}
+		if top < 0.01*low {
+			t.Errorf("%s: largest stress tick %g, want at least 1 %% of the smallest normal peak %g", name, top, low)
 		}
 		if !strings.Contains(strings.Join(texts, "\n"), "Green shear strain E12") {
-			t.Errorf("protocol %s: no shear panel", l)
+			t.Errorf("%s: no shear abscissa", name)
 		}
 	}
-	for _, f := range []string{"residuals-shear.svg", "heldout.csv", "report.html"} {
-		if _, err := os.Stat(filepath.Join(dir, filepathFromReport(f))); err != nil {
-			t.Errorf("%s: %v", f, err)
-		}
-	}
-	for _, f := range []string{"pareto.svg", "cross-r2.svg"} {
+	for _, f := range []string{"pareto.svg", "presets.svg"} {
 		if _, err := os.Stat(filepath.Join(dir, "plots", f)); err == nil {
 			t.Errorf("plots/%s written for a chosen-form fit, which has no selection evidence", f)
 		}
@@ -540,6 +645,75 @@ func TestReportShearAndChosenForm(t *testing.T) {
 	if !strings.Contains(string(b), htmlText("chosen form: i1-lin + fib-expsq@f1, single fibre layout (fitted as asked, not discovered)")) {
 		t.Errorf("report.html does not say the model form was chosen")
 	}
+}
+
+// On a sutured specimen the modelled shear stress stays near zero while
+// the matrix and the fibre family carry shear stresses that cancel: the
+// card, the summary and the report give no share for it instead of
+// "50 % / 50 %" (the shares are of magnitudes; the sum of the terms'
+// contributions is the modelled stress, checked here from fit.csv).
+func TestSuturedShearHasNoShare(t *testing.T) {
+	t.Parallel()
+	dir := demoFitCopy(t, "membrane-M3-sutured")
+	var c card.Card
+	b, err := os.ReadFile(filepath.Join(dir, "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(b, &c); err != nil {
+		t.Fatal(err)
+	}
+	if c.Split == nil {
+		t.Fatal("no split section")
+	}
+	fit := readCSV(t, filepath.Join(dir, "fit.csv"))
+	for _, pp := range c.Split.Protocols {
+		for _, cc := range pp.Components {
+			shear := cc.Component == "12" || cc.Component == "21"
+			// The modelled shear and the largest |term contribution| from
+			// fit.csv: the terms carry far more than their sum.
+			net, gross := 0.0, 0.0
+			for _, r := range fit[1:] {
+				if r[0] != pp.Protocol {
+					continue
+				}
+				for j, h := range fit[0] {
+					v, _ := strconv.ParseFloat(r[j], 64)
+					switch {
+					case strings.HasPrefix(h, "model_nominal_"+cc.Component+" "):
+						net = math.Max(net, math.Abs(v))
+					case strings.Contains(h, ":nominal_"+cc.Component+" "):
+						gross = math.Max(gross, math.Abs(v))
+					}
+				}
+			}
+			if shear {
+				if cc.NoShare == "" || !math.IsNaN(float64(cc.GroupShare["matrix"])) {
+					t.Errorf("%s P%s: share %v given for a net-zero shear (no_share %q)", pp.Protocol, cc.Component, cc.GroupShare, cc.NoShare)
+				}
+				if !(gross > 10*net) {
+					t.Errorf("%s P%s: terms carry up to %g kPa, net %g kPa: not a cancelling shear", pp.Protocol, cc.Component, gross, net)
+				}
+			} else if cc.NoShare != "" {
+				t.Errorf("%s P%s: no share for a normal stress: %s", pp.Protocol, cc.Component, cc.NoShare)
+			}
+		}
+	}
+	html, _ := os.ReadFile(filepath.Join(dir, "report.html"))
+	if !strings.Contains(string(html), "P12 and P21 have no share in any protocol") {
+		t.Errorf("report.html does not say that the shear components have no share")
+	}
+	if regexp.MustCompile(`<td>P(12|21)</td>(<td class="n">[^<]*</td>)*<td class="n">50 %</td>`).Match(html) {
+		t.Errorf("report.html gives a shear component a 50 %% share")
+	}
+	for _, line := range strings.Split(demoFits(t).stdout, "\n") {
+		if f := strings.Fields(line); len(f) >= 4 && (f[1] == "P12" || f[1] == "P21") && strings.HasSuffix(f[2], "%") {
+			t.Errorf("the summary gives a shear share: %q", line)
+		}
+	}
+	// The sutured specimen has the most to print (four components).
+	labels, _ := fitCSVPoints(t, dir)
+	t.Run("chromium renders and prints it", func(t *testing.T) { checkInChromium(t, dir, labels) })
 }
 
 // filepathFromReport maps a report file name to its place in the folder.

@@ -22,12 +22,17 @@ tested range, and not for clinical decisions; follow the regulations,
 standards and licensed professional practice that apply.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
+		// The module version and version-control revision of this build
+		// (Go build information), as the cards it writes record them.
+		Version: versionText(),
 	}
+	root.SetVersionTemplate("weft {{.Version}}\n")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return badInputf("%v (see 'weft %s --help')", err, c.Name())
+		return badInputf("%v (see '%s --help')", err, c.CommandPath())
 	})
 	root.AddCommand(
 		newFitCmd(s),
+		newCohortCmd(s),
 		newReportCmd(s),
 		newInspectCmd(s),
 		newDemoCmd(s),
@@ -36,6 +41,7 @@ standards and licensed professional practice that apply.`,
 		newCheckCmd(s),
 		newEvaluateCmd(s),
 		newTermsCmd(s),
+		newPlanCmd(s),
 	)
 	root.SetIn(s.In)
 	root.SetOut(s.Out)

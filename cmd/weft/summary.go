@@ -55,7 +55,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	printParameters(w, r)
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "protocol\taxis\tR²\tNRMSE\tRMSE ["+s.StressUnit+"]")
+	fmt.Fprintln(tw, "protocol\tcomponent\tR²\tNRMSE\tRMSE ["+s.StressUnit+"]")
 	for _, m := range r.Metrics {
 		r2 := "-"
 		if m.R2Defined {
@@ -65,23 +65,25 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		if m.NRMSEDefined {
 			nr = fmt.Sprintf("%.2f%%", 100*m.NRMSE)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, m.Component, r2, nr, m.RMSE)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, componentName(s.Kind, m.Component), r2, nr, m.RMSE)
 	}
 	tw.Flush()
 	if sp := o.card.Split; sp != nil {
 		fmt.Fprintln(w)
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		head := "split\taxis"
+		head := "split\tcomponent"
 		for _, g := range sp.Groups {
 			head += "\t" + g
 		}
 		fmt.Fprintln(tw, head+"\tenergy at largest stretch")
+		noShare := false
 		for _, pp := range sp.Protocols {
 			for ci, c := range pp.Components {
-				line := pp.Protocol + "\t" + c.Component
+				line := pp.Protocol + "\t" + componentName(s.Kind, c.Component)
 				for _, g := range sp.Groups {
 					line += "\t" + num(float64(c.GroupShare[g])*100, "%.0f%%")
 				}
+				noShare = noShare || c.NoShare != ""
 				if ci == 0 {
 					var es []string
 					for _, g := range sp.Groups {
@@ -93,18 +95,25 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 			}
 		}
 		tw.Flush()
+		if noShare {
+			fmt.Fprintf(w, "          -: no share where the modelled component stays under %.0f %% of the protocol's largest normal stress; its terms' contributions cancel\n", 100*aniso.NegligibleNet)
+		}
 	}
 	if d := o.disc; d != nil {
 		fmt.Fprintln(w)
 		tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-		fmt.Fprintln(tw, "compared\tparameters\tloss\tBIC\theld-out error\tmin R²")
+		fmt.Fprintln(tw, "compared\tparameters\tloss\tBIC\theld-out error\tlowest R²")
 		row := func(c *aniso.Candidate, mark string) {
 			cv := "-"
-			if c.CV != nil {
+			switch {
+			case c.CV != nil && !math.IsInf(c.CV.Mean, 0) && !math.IsNaN(c.CV.Mean):
 				cv = fmt.Sprintf("%.4f ± %.4f", c.CV.Mean, c.CV.StdErr)
+			case c.CV != nil:
+				cv = "a fold failed"
 			}
-			minR2 := card.LowestR2(c.Result.Metrics)
-			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, c.Result.Complexity, c.Result.Loss, c.Result.BIC, cv, num(minR2, "%.4f"))
+			cr := c.Compared()
+			minR2 := card.LowestR2(cr.Metrics)
+			fmt.Fprintf(tw, "%s%s\t%d\t%.4g\t%.1f\t%s\t%s\n", c.Name, mark, cr.Complexity, cr.Loss, cr.BIC, cv, num(minR2, "%.4f"))
 		}
 		for i := range d.Pareto {
 			mark := ""
@@ -139,6 +148,12 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 func printParameters(w io.Writer, r *aniso.Result) {
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "parameter\tvalue\t95% interval\tunit\tstatus")
+	// One interval per quantity: an angle's profile-likelihood interval
+	// where it has a profile (the card keeps the Wald interval too).
+	profiles := map[string]aniso.AngleProfile{}
+	for _, p := range r.Profiles {
+		profiles[p.Name] = p
+	}
 	for _, e := range r.Estimates {
 		if e.Status == "inactive" && e.Kind != "weight" {
 			continue
@@ -147,22 +162,25 @@ func printParameters(w io.Writer, r *aniso.Result) {
 		if !math.IsNaN(e.Lo) {
 			iv = fmt.Sprintf("[%.4g, %.4g]", e.Lo, e.Hi)
 		}
+		status := e.Status
+		if p, ok := profiles[e.Name]; ok && e.Kind == "angle" {
+			switch {
+			case p.NotDetermined:
+				iv, status = "-", e.Status+" (the profile excludes no angle)"
+			default:
+				iv = fmt.Sprintf("[%.2f, %.2f]", p.LoDeg, p.HiDeg)
+				status += " (profile interval"
+				if !p.Closed {
+					status += ", open at one end"
+				}
+				status += ")"
+			}
+		}
 		val := num(e.Value, "%.5g")
 		if e.Kind == "angle" && !r.SignKnown && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
 			val = "±" + val
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, e.Status)
-	}
-	for _, p := range r.Profiles {
-		if p.NotDetermined {
-			fmt.Fprintf(tw, "%s profile\t\t-\tdeg\tnot-determined (below the 95%% threshold over the whole range)\n", p.Name)
-			continue
-		}
-		closed := ""
-		if !p.Closed {
-			closed = " (not bounded by the data at one end)"
-		}
-		fmt.Fprintf(tw, "%s profile\t\t[%.2f, %.2f]\tdeg\tprofile-likelihood 95%%%s\n", p.Name, p.LoDeg, p.HiDeg, closed)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", e.Name, val, iv, e.Unit, status)
 	}
 	tw.Flush()
 	var statuses []string
@@ -188,13 +206,31 @@ type fitOutcome struct {
 	card    *card.Card
 	dir     string
 	elapsed time.Duration
+	// raw is the file read with every cycle and branch, as measured, for
+	// the report's view of the record (nil when it could not be read so).
+	raw *biaxial.Specimen
+	// png asks for PNG plots beside the SVGs.
+	png bool
 }
 
 // reportFilesNote lists, for the fit summary, the files writeReportFiles
 // adds to the folder.
 func reportFilesNote(o *fitOutcome) string {
-	if len(o.prob.Protocols) > 1 {
-		return ", heldout.csv, report.html, plots/"
+	s := ", curves.csv"
+	if o.raw != nil {
+		s += ", raw.csv"
 	}
-	return ", report.html, plots/"
+	if len(o.prob.Protocols) > 1 {
+		s += ", heldout.csv"
+	}
+	return s + ", report.html, plots/"
+}
+
+// componentName writes a stress component as the report does: "P11" for
+// nominal stress, "σ11" for Cauchy stress.
+func componentName(k biaxial.StressKind, comp string) string {
+	if k == biaxial.Nominal {
+		return "P" + comp
+	}
+	return "σ" + comp
 }

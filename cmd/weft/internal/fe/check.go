@@ -16,7 +16,7 @@ import (
 const checkFormat = "weft.check/1"
 
 const (
-	stabilityCriterion = "the in-plane tangent A = d2W/dF2^2 (symmetric, tested whole) restricted to the three in-plane increments " +
+	stabilityCriterion = "the in-plane tangent A = d2W/dF^2 (symmetric, tested whole) restricted to the three in-plane increments " +
 		"orthogonal to the rigid-rotation increment Omega F must be positive definite (smallest eigenvalue > tolerance); " +
 		"the rotation direction itself carries sigma11 + sigma22 for every material and is left out"
 	ellipticityCriterion = "Legendre-Hadamard: (a x b):A:(a x b) > tolerance for all in-plane unit vectors a, b; " +

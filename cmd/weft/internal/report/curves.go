@@ -43,22 +43,6 @@ func rSquared(meas, pred []float64) float64 {
 	return 1 - ssr/sst
 }
 
-// rmse is the root-mean-square difference of predictions and
-// measurements, skipping missing predictions.
-func rmse(meas, pred []float64) float64 {
-	s, n := 0.0, 0
-	for i, v := range meas {
-		if i < len(pred) && !math.IsNaN(pred[i]) {
-			s += (pred[i] - v) * (pred[i] - v)
-			n++
-		}
-	}
-	if n == 0 {
-		return math.NaN()
-	}
-	return math.Sqrt(s / float64(n))
-}
-
 // axisCoordinate is the abscissa of a point for a stress component: for
 // the normal components the stretch of a material line along that axis,
 // λ = √C_ii (F11 when there is no shear), or the Green strain
@@ -109,21 +93,13 @@ func stressComponent(r *aniso.Response, kind, comp string) float64 {
 	}
 }
 
-// curveSubsteps is how many model evaluations are added between two
-// consecutive data points, so that the model curve is smooth.
-const curveSubsteps = 4
-
-// modelCurve evaluates the model card along a protocol's kinematics and
+// modelCurve evaluates the model card along a protocol's CurvePath and
 // returns x and stress per component (NaN where the model cannot be
-// evaluated, which breaks the curve). A pure biaxial protocol
-// (F12 = F21 = 0) is densified by linear interpolation of F between
-// consecutive points. A protocol with shear deformation is evaluated at
-// its measured points only: there F12 and F21 answer the loads (e.g. no
-// shear force on sutures), and an interpolated F would break that balance
-// and show shear stresses the test never had.
+// evaluated, which breaks the curve); it draws the curve of a folder
+// without curves.csv.
 func modelCurve(m *aniso.Model, pr *protocolRows, kind string, comps []string, strain bool) (xs, ys [][]float64) {
 	xs, ys = make([][]float64, len(comps)), make([][]float64, len(comps))
-	emit := func(F [4]float64) {
+	for _, F := range CurvePath(pr.F) {
 		r, err := m.Evaluate(F)
 		for c, comp := range comps {
 			xs[c] = append(xs[c], axisCoordinate(F, comp, strain))
@@ -131,27 +107,8 @@ func modelCurve(m *aniso.Model, pr *protocolRows, kind string, comps []string, s
 				ys[c] = append(ys[c], math.NaN())
 				continue
 			}
-			v := stressComponent(&r, kind, comp)
-			ys[c] = append(ys[c], v)
+			ys[c] = append(ys[c], stressComponent(&r, kind, comp))
 		}
-	}
-	sheared := false
-	for _, F := range pr.F {
-		sheared = sheared || F[1] != 0 || F[2] != 0
-	}
-	for i, F := range pr.F {
-		if i > 0 && !sheared {
-			P := pr.F[i-1]
-			for s := 1; s < curveSubsteps; s++ {
-				t := float64(s) / curveSubsteps
-				var G [4]float64
-				for k := range G {
-					G[k] = P[k] + t*(F[k]-P[k])
-				}
-				emit(G)
-			}
-		}
-		emit(F)
 	}
 	return xs, ys
 }

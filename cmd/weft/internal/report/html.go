@@ -10,24 +10,55 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 )
 
-// The report page: one self-contained HTML file. Plots are inlined as SVG;
-// the page has no scripts and refers to nothing outside itself.
+// The report page: one self-contained HTML file. Plots are inlined as SVG
+// and the energy as MathML; the page has no scripts and refers to nothing
+// outside itself.
 
 // htmlRow is a table row of preformatted cells.
 type htmlRow struct {
 	Cells []string
-	// Mark highlights the row (the chosen model).
-	Mark bool
+	// Mark highlights the row (the chosen model, the verdict's layout);
+	// Strong sets single cells in bold by index.
+	Mark   bool
+	Strong map[int]bool
 }
 
-// htmlTable is a table with a header row.
+// htmlTable is a table with a header row; Num marks the columns of
+// numbers, which are right-aligned, and Wide the column of long text that
+// must not be squeezed (lists of terms); Class is the table's class.
 type htmlTable struct {
-	Head []string
-	Rows []htmlRow
+	Head  []string
+	Num   []bool
+	Wide  int
+	Class string
+	Rows  []htmlRow
+}
+
+// htmlCell is a cell as the template writes it.
+type htmlCell struct {
+	Text              string
+	Num, Strong, Wide bool
+}
+
+// HeadCells returns the header cells with their alignment.
+func (t htmlTable) HeadCells() []htmlCell {
+	out := make([]htmlCell, len(t.Head))
+	for i, h := range t.Head {
+		out[i] = htmlCell{Text: h, Num: i < len(t.Num) && t.Num[i], Wide: t.Wide > 0 && i == t.Wide}
+	}
+	return out
+}
+
+// RowCells returns a row's cells with their alignment and emphasis.
+func (t htmlTable) RowCells(r htmlRow) []htmlCell {
+	out := make([]htmlCell, len(r.Cells))
+	for i, c := range r.Cells {
+		out[i] = htmlCell{Text: c, Num: i < len(t.Num) && t.Num[i], Strong: r.Strong[i], Wide: t.Wide > 0 && i == t.Wide}
+	}
+	return out
 }
 
 // htmlFigure is an inlined plot.
@@ -37,8 +68,12 @@ type htmlFigure struct {
 	Files              string
 }
 
-// htmlFact is one line of a definition list.
-type htmlFact struct{ Name, Value string }
+// htmlFact is one line of a definition list; Mono sets the value in a
+// fixed-width face (hashes, command lines).
+type htmlFact struct {
+	Name, Value string
+	Mono        bool
+}
 
 // reportView is everything the page template shows, already formatted.
 type reportView struct {
@@ -46,41 +81,61 @@ type reportView struct {
 	Synthetic                   bool
 	Cautions                    []string
 	Limits                      string
-	Summary                     []htmlFact
-	Data                        []htmlFact
-	Protocols                   htmlTable
-	Warnings, Notices           []string
-	Range                       []htmlFact
 
 	HowFound     string
-	Energy       string
-	EnergyLaTeX  string
+	Summary      []htmlFact
+	GlanceFigure *htmlFigure
+	GlanceEnergy template.HTML
+
+	Data              []htmlFact
+	Protocols         htmlTable
+	Warnings, Notices []string
+	Range             []htmlFact
+	RawFigure         *htmlFigure
+
+	EnergyPlain  string
+	EnergyMath   template.HTML
 	Terms        htmlTable
 	Families     htmlTable
 	Params       htmlTable
+	ParamNote    string
 	Statuses     []string
-	Profiles     []string
+	Combinations []string
 	Flags, Notes []string
 	Metrics      htmlTable
+	MetricsNote  string
 
-	FitFigures, ResidualFigures, SplitFigures []htmlFigure
-	ShareFigure                               *htmlFigure
-	SplitTable                                htmlTable
-	SplitMeasure                              string
+	FitFigures []htmlFigure
+	Abscissa   string
 
-	HasVerdict                bool
-	Verdict, Reason, Decider  string
-	VerdictTable              htmlTable
-	ProfileFigure             *htmlFigure
-	HasSelection              bool
-	Rule, CVMetric            string
-	Search                    []string
-	Pareto, Presets           htmlTable
-	ParetoFigure, CrossFigure *htmlFigure
-	Abscissa                  string
+	Admissible     htmlTable
+	AdmissibleNote []string
+
+	SplitFigure              *htmlFigure
+	Takeover, Shares         htmlTable
+	SplitMeasure, SharesNote string
+
+	HasVerdict               bool
+	Verdict, Reason, Decider string
+	RuledOut                 []string
+	VerdictTable             htmlTable
+	ProfileFigure            *htmlFigure
+
+	HasSelection           bool
+	Rule, Metric           string
+	Search                 []string
+	Pareto, Presets, Cross htmlTable
+	ParetoNote             string
+	ParetoFigure           *htmlFigure
+
+	Methods    template.HTML
+	References []string
+	Trace      []htmlFact
 
 	Conventions []htmlFact
 	Files       []string
+
+	figs map[string]*htmlFigure
 }
 
 var (
@@ -100,11 +155,6 @@ func inlineSVG(svg []byte, title string) template.HTML {
 	return template.HTML(s)
 }
 
-func toHTMLFigure(f renderedFigure) htmlFigure {
-	return htmlFigure{ID: f.name, Title: f.title, Caption: f.caption, SVG: inlineSVG(f.svg, f.title),
-		Files: "plots/" + f.name + ".svg, plots/" + f.name + ".png"}
-}
-
 // isSynthetic reports whether the data say they are synthetic.
 func (in *Input) isSynthetic() bool {
 	d := in.data
@@ -115,8 +165,8 @@ func (in *Input) isSynthetic() bool {
 // signUnknown reports whether the fit could not determine angle signs.
 func (in *Input) signUnknown() bool { return !in.fit.AngleSignKnown && len(in.card.Families) > 0 }
 
-func reportHTML(in *Input, figs []renderedFigure, strain bool) ([]byte, error) {
-	v := in.view(figs, strain)
+func reportHTML(in *Input, figs []renderedFigure, o Options) ([]byte, error) {
+	v := in.view(figs, o)
 	var buf bytes.Buffer
 	if err := reportTemplate.Execute(&buf, v); err != nil {
 		return nil, err
@@ -126,11 +176,7 @@ func reportHTML(in *Input, figs []renderedFigure, strain bool) ([]byte, error) {
 
 // candidateCells formats a model form of the selection evidence.
 func candidateCells(cc card.CandidateCard) []string {
-	cv := "—"
-	if m := float64(cc.CVMean); !math.IsNaN(m) {
-		cv = fnum(m, 3) + " ± " + fnum(float64(cc.CVStdErr), 2)
-	}
-	return []string{cc.Name, strings.Join(cc.Terms, " + "), fmt.Sprint(cc.Parameters), fnum(float64(cc.Loss), 4), fnum(float64(cc.BIC), 6), cv, fmtR2(float64(cc.MinR2))}
+	return []string{cc.Name, strings.Join(cc.Terms, " + "), fmt.Sprint(cc.Parameters), fixed(float64(cc.BIC), 1), heldoutText(cc), fmtR2(float64(cc.LowestR2))}
 }
 
 // verdictText explains a family verdict.
@@ -153,16 +199,16 @@ func verdictText(f string) string {
 // formKeysInOrder returns the verdict's form keys from the simplest form to
 // the richest: fewer families first, an ideal family before a spread one.
 func formKeysInOrder(m map[string]card.Num) []string {
-	rank := func(k string) int {
-		base, spread, _ := strings.Cut(k, "+")
-		r := map[string]int{"0": 0, "1": 10, "2-mirror": 20, "2-free": 30}[base]
-		return r + map[string]int{"": 0, "dispersed": 1, "kappa": 2}[spread]
-	}
 	var ks []string
 	for k := range m {
 		ks = append(ks, k)
 	}
-	sort.Slice(ks, func(a, b int) bool { return rank(ks[a]) < rank(ks[b]) })
+	sort.Slice(ks, func(a, b int) bool {
+		if ra, rb := formOrder(ks[a]), formOrder(ks[b]); ra != rb {
+			return ra < rb
+		}
+		return ks[a] < ks[b]
+	})
 	return ks
 }
 
@@ -180,9 +226,9 @@ func layoutKeyText(k string) string {
 	case "1":
 		return "one family"
 	case "2-mirror":
-		return "two families, mirror pair θ ± β"
+		return "mirror pair θ ± β"
 	case "2-free":
-		return "two families, free angles"
+		return "two free families"
 	}
 	return k
 }
@@ -203,22 +249,28 @@ func (in *Input) heldoutR2(protocol, comp string) string {
 
 // folderFiles lists the files of the output folder that the report
 // describes, in a fixed order.
-func (in *Input) folderFiles(nfig int) []string {
+func (in *Input) folderFiles(nfig int, withPNG bool) []string {
 	desc := map[string]string{
-		"model.json":    "model.json: the model card with every section shown here",
+		"model.json":    "model.json: the model card with every section shown here, and its provenance",
 		"fit.csv":       "fit.csv: every kept point with measured and modelled stress, residuals and each term's contribution",
 		"selection.csv": "selection.csv: the model forms compared, with per-protocol held-out errors",
 		"heldout.csv":   "heldout.csv: each protocol predicted by the model form refitted without it (the dashed curves)",
+		"curves.csv":    "curves.csv: the model curves with the half-width of their 95 % confidence band, and the presets'",
+		"raw.csv":       "raw.csv: every cycle of the test file as measured (thinned for long records), the kept points marked",
 	}
 	var out []string
-	for _, f := range []string{"model.json", "fit.csv", "selection.csv", "heldout.csv"} {
+	for _, f := range []string{"model.json", "fit.csv", "selection.csv", "heldout.csv", "curves.csv", "raw.csv"} {
 		for _, g := range in.files {
 			if g == f {
 				out = append(out, desc[f])
 			}
 		}
 	}
-	return append(out, "report.html: this report", fmt.Sprintf("plots/: the %d figures of this report, each as SVG and PNG", nfig))
+	plots := fmt.Sprintf("plots/: the %d figures of this report as SVG", nfig)
+	if withPNG {
+		plots += " and PNG (144 dpi)"
+	}
+	return append(out, "report.html: this report", plots)
 }
 
 var reportTemplate = template.Must(template.New("report").Parse(reportPage))
@@ -250,22 +302,7 @@ func PairText(l *card.Layout) string {
 	}
 	mean := "-"
 	if l.MeanDeg != nil && !math.IsNaN(*l.MeanDeg) && !math.IsInf(*l.MeanDeg, 0) {
-		mean = fmt.Sprintf("%.2f", *l.MeanDeg)
+		mean = trueMinus(fmt.Sprintf("%.2f", *l.MeanDeg))
 	}
 	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", mean, *l.HalfAngleDeg)
-}
-
-// StatusLegend explains, once each and in a fixed order, the parameter
-// statuses other than "estimated" that appear in a table.
-func StatusLegend(shown []string) []string {
-	var out []string
-	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
-		for _, s := range shown {
-			if s == st {
-				out = append(out, st+": "+aniso.StatusMeaning(st))
-				break
-			}
-		}
-	}
-	return out
 }

@@ -21,6 +21,10 @@ type Folder struct {
 	// ModelJSON, FitCSV and HeldoutCSV are the contents of model.json,
 	// fit.csv and heldout.csv; HeldoutCSV is nil when the folder has none.
 	ModelJSON, FitCSV, HeldoutCSV []byte
+	// CurvesCSV and RawCSV are curves.csv (model curves with their
+	// confidence bands, and the presets') and raw.csv (every cycle of the
+	// record); nil when the folder has none (folders of older versions).
+	CurvesCSV, RawCSV []byte
 }
 
 // InputError says that a folder's files cannot make a report: a file is
@@ -52,9 +56,12 @@ type Input struct {
 	split     *card.SplitSection
 	verdict   *card.VerdictSection
 	sel       *card.SelectionSection
-	// table is fit.csv; heldout is heldout.csv (nil when absent).
+	// table is fit.csv; heldout, curves and raw are heldout.csv,
+	// curves.csv and raw.csv (nil when absent).
 	table   *fitTable
 	heldout *heldoutTable
+	curves  *curveTable
+	raw     *rawTable
 }
 
 // Parse reads the files of an output folder, the card within lim. Every
@@ -62,7 +69,7 @@ type Input struct {
 func Parse(f Folder, lim card.Limits) (*Input, error) {
 	in := &Input{files: append([]string(nil), f.Files...)}
 	sort.Strings(in.files)
-	if err := in.parse(f.ModelJSON, f.FitCSV, f.HeldoutCSV, lim); err != nil {
+	if err := in.parse(f, lim); err != nil {
 		var ie *InputError
 		if errors.As(err, &ie) {
 			return nil, err
@@ -72,10 +79,9 @@ func Parse(f Folder, lim card.Limits) (*Input, error) {
 	return in, nil
 }
 
-// parse fills the input from the bytes of model.json, fit.csv and
-// heldout.csv (nil when absent).
-func (in *Input) parse(modelJSON, fitCSV, heldoutCSV []byte, lim card.Limits) error {
-	c, m, err := card.ParseLimits(bytes.NewReader(modelJSON), "model.json", lim)
+// parse fills the input from the folder's files.
+func (in *Input) parse(f Folder, lim card.Limits) error {
+	c, m, err := card.ParseLimits(bytes.NewReader(f.ModelJSON), "model.json", lim)
 	if err != nil {
 		return err
 	}
@@ -100,23 +106,33 @@ func (in *Input) parse(modelJSON, fitCSV, heldoutCSV []byte, lim card.Limits) er
 	if c.Data == nil {
 		return &InputError{MissingSection: card.KeyData, Err: errors.New("model.json has no 'data' section (the data the card was fitted to)")}
 	}
-	for _, key := range []string{card.KeyDataRange, card.KeySplit, card.KeyVerdict, card.KeySelection} {
+	for _, key := range []string{card.KeyDataRange, card.KeySplit, card.KeyVerdict, card.KeySelection, card.KeyProvenance, card.KeySetup} {
 		if err := sectionErr(key); err != nil {
 			return err
 		}
 	}
 	in.fit, in.data = *c.Fit, *c.Data
 	in.dataRange, in.split, in.verdict, in.sel = c.DataRange, c.Split, c.Verdict, c.Selection
-	in.table, err = readFitTable(bytes.NewReader(fitCSV), "fit.csv")
+	in.table, err = readFitTable(bytes.NewReader(f.FitCSV), "fit.csv")
 	if err != nil {
 		return err
 	}
 	if in.table.kind != in.fit.StressKind {
 		return fmt.Errorf("fit.csv holds %s stress but model.json says the fit used %s stress; the files are not from the same fit", in.table.kind, in.fit.StressKind)
 	}
-	if heldoutCSV != nil {
-		in.heldout, err = readHeldoutTable(bytes.NewReader(heldoutCSV), "heldout.csv", in.table)
+	if f.HeldoutCSV != nil {
+		in.heldout, err = readHeldoutTable(bytes.NewReader(f.HeldoutCSV), "heldout.csv", in.table)
 		if err != nil {
+			return err
+		}
+	}
+	if f.CurvesCSV != nil {
+		if in.curves, err = readCurveTable(bytes.NewReader(f.CurvesCSV), "curves.csv", in.table); err != nil {
+			return err
+		}
+	}
+	if f.RawCSV != nil {
+		if in.raw, err = readRawTable(bytes.NewReader(f.RawCSV), "raw.csv", in.table); err != nil {
 			return err
 		}
 	}

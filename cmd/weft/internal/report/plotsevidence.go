@@ -15,48 +15,24 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 )
 
-// Evidence plots: the loss profile over each fibre angle, the Pareto front
-// of the model search and the cross-protocol prediction matrix.
+// Evidence plots: the loss profile over each fibre angle and the model
+// forms' held-out errors.
 
-// textMarks is a plotter that writes text at data positions, offset by
-// (dx, dy) points.
-type textMarks struct {
-	xs, ys []float64
-	texts  []string
-	colors []color.Color
-	size   float64
-	xalign draw.XAlignment
-	dx, dy float64
-}
-
-// Plot implements plot.Plotter.
-func (m *textMarks) Plot(c draw.Canvas, p *plot.Plot) {
-	trX, trY := p.Transforms(&c)
-	sty := textStyle(m.size)
-	sty.XAlign, sty.YAlign = m.xalign, draw.YCenter
-	for i, s := range m.texts {
-		sty.Color = color.Black
-		if i < len(m.colors) {
-			sty.Color = m.colors[i]
-		}
-		c.FillText(sty, vg.Point{X: trX(m.xs[i]) + vg.Points(m.dx), Y: trY(m.ys[i]) + vg.Points(m.dy)}, s)
-	}
-}
-
-// degTicks are fixed ticks every 30° over (−90°, 90°].
+// degTicks are ticks every 45° over [−90°, 90°], minor ones every 15°.
 func degTicks() plot.Ticker {
 	var ts []plot.Tick
-	for a := -90; a <= 90; a += 30 {
-		ts = append(ts, plot.Tick{Value: float64(a), Label: trueMinus(fmt.Sprintf("%d°", a))})
-	}
-	for a := -75; a <= 75; a += 30 {
-		ts = append(ts, plot.Tick{Value: float64(a)})
+	for a := -90; a <= 90; a += 15 {
+		t := plot.Tick{Value: float64(a)}
+		if a%45 == 0 {
+			t.Label = trueMinus(fmt.Sprintf("%d°", a))
+		}
+		ts = append(ts, t)
 	}
 	return plot.ConstantTicks(ts)
 }
 
-// band returns a filled rectangle from x0 to x1 over [y0, y1].
-func band(x0, x1, y0, y1 float64, c color.Color) *plotter.Polygon {
+// vband returns a filled rectangle from x0 to x1 over [y0, y1].
+func vband(x0, x1, y0, y1 float64, c color.Color) *plotter.Polygon {
 	pg, err := plotter.NewPolygon(plotter.XYs{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}})
 	if err != nil {
 		return nil
@@ -66,455 +42,545 @@ func band(x0, x1, y0, y1 float64, c color.Color) *plotter.Polygon {
 	return pg
 }
 
-// profileFigure draws the loss profile over each fibre angle parameter, or
-// returns nil when the fit has none (no fibre family).
+// Styles of the profile plots.
+var (
+	profileLine   = lineStyle(okabeBlack, 1.2)
+	thresholdLine = lineStyle(okabeVermillion, 1.1, 4, 2.5)
+	fittedLine    = lineStyle(okabeBlue, 1.1)
+	mirrorLine    = lineStyle(okabeBlue, 1, 1.2, 2.2)
+	intervalFill  = translucent(okabeSkyBlue, 0.35)
+	mirrorFill    = translucent(okabeBlack, 0.1)
+	computedMark  = draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(2.2), Shape: filledMark{}}
+	quadraticLine = lineStyle(tint(okabeBlack, 0.6), 0.9, 1.5, 2)
+)
+
+// profileFloor is the lowest rise drawn on the log axis of the whole-range
+// panel, in units of the threshold's rise: the fitted angle itself (rise
+// 0) sits there.
+const profileFloor = 0.1
+
+// profileFigure draws each fibre angle's loss profile, one row per angle
+// parameter: over the whole range, and around the fitted angle; nil when
+// the fit has no fibre family.
 func (in *Input) profileFigure() *figure {
 	profs := in.fit.Profiles
 	if len(profs) == 0 {
 		return nil
 	}
-	lw := 2.4 * vg.Inch
-	pw := 4.3 * vg.Inch
-	if len(profs) > 1 {
-		pw = 3.7 * vg.Inch
-	}
-	f := &figure{name: "angle-profile", w: vg.Length(len(profs))*pw + lw, h: 3.8 * vg.Inch,
-		title: "Loss profile over the fibre angle",
-		caption: "The fit's loss (weighted residual sum of squares) minimised over every other parameter at each fibre angle from −90° to 90°, on a log scale. " +
-			"The vertical line and dot mark the fitted angle and the fitted model's loss; the shaded band is the 95 % profile-likelihood interval stated in model.json, where the loss stays below the dashed threshold. " +
-			"The profile is computed on a grid (2° by default) and joined through the fitted point, so a minimum sharper than the grid shows as a narrow notch."}
 	mirrored := false
 	for _, pc := range profs {
 		mirrored = mirrored || pc.Mirrored
 	}
+	legend := []legendEntry{
+		{"profiled loss (grid points joined)", lineSample(profileLine)},
+		{"95 % threshold", lineSample(thresholdLine)},
+		{"95 % profile interval", bandSample(intervalFill, draw.LineStyle{})},
+		{"fitted angle", lineSample(fittedLine)},
+		{"computed points near the minimum", glyphSample(computedMark)},
+		{"where the grid is coarser: a parabola", lineSample(quadraticLine)},
+	}
 	if mirrored {
-		f.caption += " Without shear information the sign of the angle is not determined: the profile is mirrored, and the grey band and dotted line mark the equally good mirror image."
+		legend = append(legend, legendEntry{"mirror image (sign unknown)", bandSample(mirrorFill, mirrorLine)})
+	}
+	rowH := 1.95 * vg.Inch
+	lh := legendHeight(len(legend), 3)
+	f := &figure{name: "angle-profile", w: figWidth, h: vg.Length(len(profs))*rowH + lh + vg.Points(6),
+		title: "Loss profile over each fibre angle",
+		caption: "One row per angle parameter. Left: the rise of the fit's loss above its minimum when the angle is held and every other parameter refitted, in units of the rise the 95 % profile-likelihood threshold allows (log scale; the fitted angle, rise 0, sits at the bottom edge); angles under the dashed threshold (1) are not excluded by the data. " +
+			"Right: the same around the fitted angle, linear, so that interval and threshold can be read; the profile is computed on a 2° or 4° grid, so near a minimum sharper than the grid the computed points are the fitted angle and the interval's ends (bisection), joined by a parabola on each side; otherwise the computed points are joined by straight lines."}
+	if mirrored {
+		f.caption += " Without shear information the sign of the angle is not determined: the profile is mirrored, and the grey band marks the equally good mirror image."
 	}
 	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, in.card.Specimen+" — loss profile over the fibre angle")
-		area, lc := splitColumns(dc, lw)
-		var plots []*plot.Plot
-		l := newLegend(9)
-		for j, pc := range profs {
-			plots = append(plots, in.profilePanel(pc, len(profs) > 1, j == 0, &l))
+		drawLegend(draw.Crop(dc, vg.Points(30), 0, 0, -(dc.Size().Y-lh)), legend, 3)
+		area := draw.Crop(dc, 0, 0, lh+vg.Points(6), 0)
+		sty := textStyle(titleSize)
+		sty.YAlign = draw.YTop
+		rh := area.Size().Y / vg.Length(len(profs))
+		for r, pc := range profs {
+			row := draw.Crop(area, 0, 0, area.Size().Y-rh*vg.Length(r+1), -rh*vg.Length(r))
+			row.FillText(sty, vg.Point{X: row.Min.X + vg.Points(4), Y: row.Max.Y}, profileTitle(pc))
+			panels := draw.Crop(row, 0, 0, 0, -vg.Points(titleSize*1.6))
+			grid := [][]*plot.Plot{{in.profileWhole(pc), in.profileZoom(pc)}}
+			tiles := draw.Tiles{Rows: 1, Cols: 2, PadX: vg.Points(14), PadY: vg.Points(4), PadTop: vg.Points(2), PadRight: vg.Points(6), PadBottom: vg.Points(4)}
+			cs := plot.Align(grid, tiles, panels)
+			for c, p := range grid[0] {
+				p.Draw(cs[0][c])
+			}
 		}
-		drawRow(area, lc, plots, l)
 		return nil
 	}
 	return f
 }
 
-// profilePanel draws the loss profile pc over one fibre angle, with its
-// interval, threshold and fitted angle; several shortens the title for
-// side-by-side panels, and the first panel adds the legend entries to l.
-func (in *Input) profilePanel(pc card.ProfileCard, several, first bool, l *plot.Legend) *plot.Plot {
+// profileTitle heads a profile panel.
+func profileTitle(pc card.ProfileCard) string {
 	opt := float64(pc.OptimumDeg)
-	iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
 	sign := ""
 	if pc.Mirrored {
 		sign = "±"
 	}
-	title := fmt.Sprintf("%s = %s%s, 95 %% interval %s to %s", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
-	if several {
-		title = fmt.Sprintf("%s = %s%s (95 %%: %s to %s)", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
-	}
+	iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
 	switch {
 	case pc.NotDetermined:
-		title = fmt.Sprintf("%s = %s%s, not determined (no angle excluded)", pc.Name, sign, fmtDeg(opt))
+		return fmt.Sprintf("%s = %s%s: not determined", pc.Name, sign, fmtDeg(math.Abs(opt)))
 	case !pc.Closed:
-		title += " (open)"
+		return fmt.Sprintf("%s = %s%s, 95 %%: %s to %s (open)", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
 	}
-	p := newPlot(title, "fibre angle from axis 1 towards axis 2", "loss (log scale)", true)
-	p.Y.Scale = plot.LogScale{}
-	p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
-	p.X.Tick.Marker = degTicks()
-	p.X.Min, p.X.Max = -90, 90
-	// The profile at the fitted angle is the fit's own loss; the
-	// grid can straddle a sharp minimum, so that point joins the
-	// curve (and its mirror image when the sign is unknown).
+	return fmt.Sprintf("%s = %s%s, 95 %%: %s to %s", pc.Name, sign, fmtDeg(opt), fmtDeg(iv[0]), fmtDeg(iv[1]))
+}
+
+// rise converts a profiled loss into the rise above the fit's loss in
+// units of the threshold's rise.
+func (in *Input) rise(pc card.ProfileCard, loss float64) float64 {
+	min, thr := float64(in.fit.Loss), float64(pc.Threshold)
+	if !(thr > min) {
+		return math.NaN()
+	}
+	return (loss - min) / (thr - min)
+}
+
+// profilePoints returns the profile's grid angles and rises, with the
+// fitted angle (rise 0) joined in, sorted by angle.
+func (in *Input) profilePoints(pc card.ProfileCard) (xs, ys []float64) {
 	type pt struct{ a, v float64 }
 	var pts []pt
 	for k, a := range pc.AnglesDeg {
-		pts = append(pts, pt{float64(a), float64(pc.Loss[k])})
+		pts = append(pts, pt{float64(a), in.rise(pc, float64(pc.Loss[k]))})
 	}
-	fitLoss := float64(in.fit.Loss)
-	if fitLoss > 0 && !math.IsNaN(opt) {
-		pts = append(pts, pt{opt, fitLoss})
+	opt := float64(pc.OptimumDeg)
+	if !math.IsNaN(opt) {
+		pts = append(pts, pt{opt, 0})
 		if pc.Mirrored && math.Abs(opt) > 1e-9 {
-			pts = append(pts, pt{-opt, fitLoss})
+			pts = append(pts, pt{-opt, 0})
 		}
 	}
 	sort.SliceStable(pts, func(a, b int) bool { return pts[a].a < pts[b].a })
-	var xs, ys []float64
-	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, q := range pts {
-		if !(q.v > 0) || math.IsInf(q.v, 0) {
-			xs, ys = append(xs, q.a), append(ys, math.NaN())
-			continue
-		}
 		xs, ys = append(xs, q.a), append(ys, q.v)
-		lo, hi = math.Min(lo, q.v), math.Max(hi, q.v)
 	}
-	thr := float64(pc.Threshold)
-	if thr > 0 {
-		lo, hi = math.Min(lo, thr), math.Max(hi, thr)
+	return xs, ys
+}
+
+// profileWhole is the panel over the whole range, log scale.
+func (in *Input) profileWhole(pc card.ProfileCard) *plot.Plot {
+	p := newPanel("", "fibre angle from axis 1 towards axis 2, whole range", "loss rise ÷ threshold rise", 5, 6)
+	p.Y.Scale = plot.LogScale{}
+	p.X.Tick.Marker = degTicks()
+	p.X.Min, p.X.Max = -90, 90
+	xs, ys := in.profilePoints(pc)
+	top := 10.0
+	for k, v := range ys {
+		if !bad(v) {
+			top = math.Max(top, v)
+		}
+		if v < profileFloor {
+			ys[k] = profileFloor
+		}
 	}
-	if math.IsInf(lo, 1) {
-		lo, hi = 1e-6, 1
-	}
-	y0, y1 := logRange(lo, hi)
+	y0, y1 := profileFloor, top*2
 	p.Y.Min, p.Y.Max = y0, y1
-	if !math.IsNaN(iv[0]) && !math.IsNaN(iv[1]) {
+	p.Y.Tick.Marker = logTicks{maxLabels: 6}
+	opt := float64(pc.OptimumDeg)
+	iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
+	if !bad(iv[0]) && !bad(iv[1]) {
 		if pc.Mirrored {
-			if b := band(-iv[1], -iv[0], y0, y1, tint(okabeBlack, 0.12)); b != nil {
+			if b := vband(-iv[1], -iv[0], y0, y1, mirrorFill); b != nil {
 				p.Add(b)
-				if first {
-					l.Add("mirror image of the interval", swatch{tint(okabeBlack, 0.12)})
-				}
 			}
 		}
-		if b := band(iv[0], iv[1], y0, y1, tint(okabeSkyBlue, 0.45)); b != nil {
+		if b := vband(iv[0], iv[1], y0, y1, intervalFill); b != nil {
 			p.Add(b)
-			if first {
-				l.Add("95 % interval", swatch{tint(okabeSkyBlue, 0.45)})
-			}
 		}
 	}
-	th := addCurve(p, xs, ys, lineStyle(okabeBlack, 1.3, false))
-	if first && th != nil {
-		l.Add("profiled loss", th)
-	}
-	if thr > 0 {
-		ls := lineStyle(okabeVermillion, 1.1, true)
-		addCurve(p, []float64{-90, 90}, []float64{thr, thr}, ls)
-		if first {
-			l.Add("95 % threshold", lineThumb{ls})
-		}
-	}
-	if !math.IsNaN(opt) {
-		ls := lineStyle(okabeBlue, 1.4, false)
-		addCurve(p, []float64{opt, opt}, []float64{y0, y1}, ls)
-		dot := draw.GlyphStyle{Color: okabeBlue, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
-		addPoints(p, []float64{opt}, []float64{fitLoss}, dot)
-		if first {
-			l.Add("fitted angle", lineThumb{ls})
-			l.Add("fitted model's loss", glyphThumb{dot})
-		}
+	addCurve(p, xs, ys, profileLine)
+	addCurve(p, []float64{-90, 90}, []float64{1, 1}, thresholdLine)
+	if !bad(opt) {
+		addCurve(p, []float64{opt, opt}, []float64{y0, y1}, fittedLine)
 		if pc.Mirrored && math.Abs(opt) > 1e-9 {
-			ms := lineStyle(okabeBlue, 1.2, false)
-			ms.Dashes = []vg.Length{vg.Points(1.5), vg.Points(2.5)}
-			addCurve(p, []float64{-opt, -opt}, []float64{y0, y1}, ms)
-			if first {
-				l.Add("mirror image (sign unknown)", lineThumb{ms})
-			}
+			addCurve(p, []float64{-opt, -opt}, []float64{y0, y1}, mirrorLine)
 		}
 	}
 	return p
 }
 
-// formKey names a candidate's model form: the layout, with "+dispersed"
-// for in-plane dispersed families or "+kappa" for a dispersion κ.
-func formKey(c card.CandidateCard) string {
+// profileZoom is the panel around the fitted angle, linear scale: the
+// computed points (grid points in the window, the fitted angle, the
+// interval's ends at the threshold) and a half-parabola on each side
+// through the fitted angle and that side's end.
+func (in *Input) profileZoom(pc card.ProfileCard) *plot.Plot {
+	opt := float64(pc.OptimumDeg)
+	iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
+	p := newPanel("", "fibre angle [°], around the fitted angle", "loss rise ÷ threshold rise", 5, 6)
+	p.Y.Min, p.Y.Max = 0, 4
+	if pc.NotDetermined || !pc.Closed || bad(opt) || bad(iv[0]) || bad(iv[1]) || bad(in.rise(pc, float64(pc.Threshold))) {
+		// Nothing narrow to zoom into: the whole range on a linear scale.
+		p.X.Label.Text = "fibre angle, whole range, linear scale"
+		xs, ys := in.profilePoints(pc)
+		p.X.Tick.Marker = degTicks()
+		p.X.Min, p.X.Max = -90, 90
+		addCurve(p, xs, ys, profileLine)
+		addCurve(p, []float64{-90, 90}, []float64{1, 1}, thresholdLine)
+		clampY(p, ys)
+		return p
+	}
+	// An interval end that meets the fitted angle is a bound of the
+	// angle's domain (|α| ≥ 0 without shear information), not a crossing
+	// of the threshold: it gets no computed point and no parabola.
+	const tiny = 1e-6
+	left, right := opt-iv[0] > tiny, iv[1]-opt > tiny
+	hl, hr := opt-iv[0], iv[1]-opt
+	if !left {
+		hl = hr
+	}
+	if !right {
+		hr = hl
+	}
+	hl, hr = math.Max(hl, 0.01), math.Max(hr, 0.01)
+	x0, x1 := opt-2.5*hl, opt+2.5*hr
+	p.X.Min, p.X.Max = x0, x1
+	if b := vband(iv[0], iv[1], 0, 4, intervalFill); b != nil {
+		p.Add(b)
+	}
+	type pt struct{ x, y float64 }
+	pts := []pt{{opt, 0}}
+	if left {
+		pts = append(pts, pt{iv[0], 1})
+	}
+	if right {
+		pts = append(pts, pt{iv[1], 1})
+	}
+	grid := 0
+	for k, a := range pc.AnglesDeg {
+		if x := float64(a); x > x0 && x < x1 && math.Abs(x-opt) > tiny {
+			if r := in.rise(pc, float64(pc.Loss[k])); !bad(r) {
+				pts = append(pts, pt{x, r})
+				grid++
+			}
+		}
+	}
+	sort.Slice(pts, func(a, b int) bool { return pts[a].x < pts[b].x })
+	var cx, cy []float64
+	for _, q := range pts {
+		cx, cy = append(cx, q.x), append(cy, q.y)
+	}
+	if grid >= 2 {
+		// The grid resolves the minimum: the computed points joined.
+		addCurve(p, cx, cy, profileLine)
+	} else {
+		// A minimum sharper than the grid: a parabola on each side
+		// through the fitted angle and that side's end.
+		var qx, qy []float64
+		for k := 0; k <= 80; k++ {
+			x := x0 + (x1-x0)*float64(k)/80
+			if x < opt && !left || x > opt && !right {
+				continue
+			}
+			h := hr
+			if x < opt {
+				h = hl
+			}
+			qx, qy = append(qx, x), append(qy, math.Min(((x-opt)/h)*((x-opt)/h), 4.2))
+		}
+		addCurve(p, qx, qy, quadraticLine)
+	}
+	addCurve(p, []float64{x0, x1}, []float64{1, 1}, thresholdLine)
+	addCurve(p, []float64{opt, opt}, []float64{0, 4}, fittedLine)
+	var mx, my []float64
+	for k := range cx {
+		if cy[k] <= 4 {
+			mx, my = append(mx, cx[k]), append(my, cy[k])
+		}
+	}
+	addPoints(p, mx, my, computedMark)
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = x0, x1, 0, 4
+	return p
+}
+
+// clampY limits a linear rise axis to [0, 4] or the data's top, whichever
+// is lower, so that the threshold at 1 stays readable.
+func clampY(p *plot.Plot, ys []float64) {
+	top := 0.0
+	for _, v := range ys {
+		if !bad(v) {
+			top = math.Max(top, v)
+		}
+	}
+	p.Y.Min, p.Y.Max = 0, math.Max(math.Min(top*1.1, 4), 1.5)
+}
+
+// verdictKey is a candidate's form as the verdict keys it ("0", "1",
+// "2-mirror", "2-free", with "+dispersed" or "+kappa").
+func verdictKey(c card.CandidateCard) string {
+	k := map[string]string{"none": "0", "single": "1", "mirror": "2-mirror", "free": "2-free"}[c.Layout]
+	if k == "" {
+		k = c.Layout
+	}
 	switch {
 	case c.InPlane:
-		return c.Layout + "+dispersed"
+		k += "+dispersed"
 	case c.Dispersion:
-		return c.Layout + "+kappa"
+		k += "+kappa"
 	}
-	return c.Layout
+	return k
 }
 
-// cutSpread splits a form key into its layout and whether the families
-// spread (in the plane or by κ).
-func cutSpread(key string) (string, bool) {
-	if b, ok := strings.CutSuffix(key, "+dispersed"); ok {
-		return b, true
-	}
-	return strings.CutSuffix(key, "+kappa")
+// formOrder ranks verdict keys from the simplest form to the richest.
+func formOrder(k string) int {
+	base, spread, _ := strings.Cut(k, "+")
+	r := map[string]int{"0": 0, "1": 10, "2-mirror": 20, "2-free": 30}[base]
+	return r + map[string]int{"": 0, "dispersed": 1, "kappa": 2}[spread]
 }
 
-// formDisplay describes a model form for a legend.
-func formDisplay(key string) string {
-	d := map[string]string{"none": "no fibre family", "single": "one fibre family", "mirror": "mirror pair (θ ± β)", "free": "two free families"}
-	base, disp := cutSpread(key)
-	s := d[base]
-	if s == "" {
-		s = base
-	}
-	if strings.HasSuffix(key, "+dispersed") {
-		s += ", spread in the plane"
-	} else if disp {
-		s += ", dispersion κ"
-	}
-	return s
-}
-
-// formGlyph is the marker of a model form in the Pareto plot.
-func formGlyph(key string) draw.GlyphStyle {
-	base, disp := cutSpread(key)
-	gs := draw.GlyphStyle{Color: layoutColor(base), Radius: vg.Points(3)}
+// formColor is the colour of a form's layout in the selection plot.
+func formColor(k string) color.NRGBA {
+	base, _, _ := strings.Cut(k, "+")
 	switch base {
-	case "none":
-		gs.Shape = draw.CircleGlyph{}
-	case "single":
-		gs.Shape = draw.BoxGlyph{}
-	case "mirror":
-		gs.Shape = draw.PyramidGlyph{}
-	default:
-		gs.Shape = draw.CrossGlyph{}
+	case "0":
+		return okabeBlack
+	case "1":
+		return okabeBlue
+	case "2-mirror":
+		return okabeBluishGreen
 	}
-	if disp {
-		switch gs.Shape.(type) {
-		case draw.CircleGlyph:
-			gs.Shape = draw.RingGlyph{}
-		case draw.BoxGlyph:
-			gs.Shape = draw.SquareGlyph{}
-		case draw.PyramidGlyph:
-			gs.Shape = draw.TriangleGlyph{}
-		default:
-			gs.Shape = draw.PlusGlyph{}
+	return okabeVermillion
+}
+
+// formGlyph is the marker of a form: open for ideal families, filled for
+// spread ones; circle, square, triangle and cross by layout.
+func formGlyph(k string) draw.GlyphStyle {
+	base, spread, _ := strings.Cut(k, "+")
+	gs := draw.GlyphStyle{Color: formColor(k), Radius: vg.Points(2.6)}
+	filled := spread != ""
+	switch base {
+	case "0":
+		gs.Shape = ringMark{}
+		if filled {
+			gs.Shape = filledMark{}
+		}
+	case "1":
+		gs.Shape = polyMark{n: 4, start: math.Pi / 4}
+		if filled {
+			gs.Shape = filledMark{n: 4, start: math.Pi / 4}
+		}
+	case "2-mirror":
+		gs.Shape = polyMark{n: 3, start: math.Pi / 2}
+		if filled {
+			gs.Shape = filledMark{n: 3, start: math.Pi / 2}
+		}
+	default:
+		gs.Shape = crossMark{}
+		if filled {
+			gs.Shape = filledMark{n: 6}
 		}
 	}
 	return gs
 }
 
-// paretoFigure plots number of parameters against loss for every Pareto
-// candidate, one series per model form, with the presets and the chosen
-// model marked; nil without a selection section.
+// presetGlyph is the marker of a classical preset in the selection plot:
+// a filled shape of its own in the preset's colour.
+func presetGlyph(name string) draw.GlyphStyle {
+	col := presetStyle(name).Color.(colorNRGBA)
+	gs := draw.GlyphStyle{Color: col, Radius: vg.Points(3.4)}
+	switch name {
+	case "neo-hookean":
+		gs.Shape = filledMark{n: 5, start: math.Pi / 2}
+	case "hgo":
+		gs.Shape = filledMark{n: 3, start: -math.Pi / 2}
+	case "goh":
+		gs.Shape = filledMark{n: 4}
+	default:
+		gs.Shape = filledMark{n: 6}
+	}
+	return gs
+}
+
+// errorBars draws vertical bars from lo to hi at xs with short caps.
+type errorBars struct {
+	xs, lo, hi []float64
+	ls         draw.LineStyle
+}
+
+// Plot implements plot.Plotter.
+func (e *errorBars) Plot(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	cap := vg.Points(2)
+	for i := range e.xs {
+		if bad(e.lo[i]) || bad(e.hi[i]) {
+			continue
+		}
+		lo := math.Max(e.lo[i], p.Y.Min)
+		hi := math.Min(e.hi[i], p.Y.Max)
+		x, y0, y1 := trX(e.xs[i]), trY(lo), trY(hi)
+		c.StrokeLine2(e.ls, x, y0, x, y1)
+		if e.lo[i] >= p.Y.Min {
+			c.StrokeLine2(e.ls, x-cap, y0, x+cap, y0)
+		}
+		if e.hi[i] <= p.Y.Max {
+			c.StrokeLine2(e.ls, x-cap, y1, x+cap, y1)
+		}
+	}
+}
+
+// selectionThreshold is the held-out error under which the rule picks the
+// smallest model: the best of the verdict's form plus its standard error
+// (at least the verdict's floor); NaN when it cannot be read.
+func (in *Input) selectionThreshold() float64 {
+	if in.sel == nil || in.verdict == nil {
+		return math.NaN()
+	}
+	best := -1
+	for i, c := range in.sel.Pareto {
+		if verdictKey(c) != in.verdict.Form || bad(float64(c.HeldoutError)) {
+			continue
+		}
+		if best < 0 || c.HeldoutError < in.sel.Pareto[best].HeldoutError {
+			best = i
+		}
+	}
+	if best < 0 {
+		return math.NaN()
+	}
+	b := in.sel.Pareto[best]
+	se := float64(b.HeldoutStdErr)
+	if f := float64(in.verdict.StdErrFloor); f > se {
+		se = f
+	}
+	return float64(b.HeldoutError) + se
+}
+
+// paretoFigure plots the held-out error (± its standard error) of every
+// cross-validated model form and preset against its number of parameters;
+// nil without a selection section.
 func (in *Input) paretoFigure() *figure {
 	sel := in.sel
 	if sel == nil || len(sel.Pareto) == 0 {
 		return nil
 	}
-	lw := 2.6 * vg.Inch
-	f := &figure{name: "pareto", w: 5.6*vg.Inch + lw, h: 4.2 * vg.Inch,
-		title: "Pareto front: model size against loss",
-		caption: "Every model form kept by the search: its number of parameters (weights and non-linear parameters) against its loss, on a log scale, " +
-			"one series per fibre layout. Plus signs are the classical presets fitted to the same data; the ring marks the chosen model (" + sel.Chosen + "), " +
-			"picked by the selection rule stated in the report and in model.json, not by the lowest loss."}
+	type pt struct{ x, y, se float64 }
+	byForm := map[string][]pt{}
+	var forms []string
+	lo, hi, xmax := math.Inf(1), 0.0, 1.0
+	skipped := 0
+	add := func(c card.CandidateCard) (pt, bool) {
+		y, se := float64(c.HeldoutError), float64(c.HeldoutStdErr)
+		if bad(y) || !(y > 0) {
+			return pt{}, false
+		}
+		if bad(se) {
+			se = 0
+		}
+		lo, hi = math.Min(lo, math.Max(y-se, y/3)), math.Max(hi, y+se)
+		xmax = math.Max(xmax, float64(c.Parameters))
+		return pt{float64(c.Parameters), y, se}, true
+	}
+	for _, c := range sel.Pareto {
+		q, ok := add(c)
+		if !ok {
+			skipped++
+			continue
+		}
+		k := verdictKey(c)
+		if _, seen := byForm[k]; !seen {
+			forms = append(forms, k)
+		}
+		byForm[k] = append(byForm[k], q)
+	}
+	sort.SliceStable(forms, func(a, b int) bool { return formOrder(forms[a]) < formOrder(forms[b]) })
+	var legend []legendEntry
+	for _, k := range forms {
+		legend = append(legend, legendEntry{layoutKeyText(k), glyphSample(formGlyph(k))})
+	}
+	type preset struct {
+		name string
+		q    pt
+	}
+	var presets []preset
+	for _, c := range sel.Presets {
+		if q, ok := add(c); ok {
+			name := strings.TrimPrefix(c.Name, "preset:")
+			presets = append(presets, preset{name, q})
+			legend = append(legend, legendEntry{"preset " + name, glyphSample(presetGlyph(name))})
+		}
+	}
+	ring := draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(6.5), Shape: ringMark{}}
+	legend = append(legend, legendEntry{"chosen: " + sel.Chosen, glyphSample(draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(5), Shape: ringMark{}})})
+	thr := in.selectionThreshold()
+	if !bad(thr) {
+		legend = append(legend, legendEntry{"selection threshold", lineSample(lineStyle(okabeBlack, 0.8, 1.5, 2))})
+	}
+	lh := legendHeight(len(legend), 3)
+	h := 2.6*vg.Inch + lh + vg.Points(6)
+	caption := "Every model form of the search that was cross-validated (the front's forms within ΔBIC 10 of their layout's best) and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used — against the number of parameters, with ± one standard error over the folds (log scale). " +
+		"Open markers: ideal fibre families; filled: families spread in the plane or by κ. The ring marks the chosen model (" + sel.Chosen + "): the smallest model of the verdict's form whose held-out error lies under the dotted threshold (that form's best plus one standard error)."
+	if skipped > 0 {
+		caption += fmt.Sprintf(" %d forms were not cross-validated and are not shown (see the table).", skipped)
+	}
+	f := &figure{name: "pareto", w: figWidth, h: h, title: "Model size against held-out error", caption: caption}
 	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, in.card.Specimen+" — model search")
-		area, lc := splitColumns(dc, lw)
-		p := newPlot("", "number of parameters", "loss (log scale)", false)
-		p.Y.Scale = plot.LogScale{}
-		p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
-		var keys []string
-		series := map[string][]card.CandidateCard{}
-		for _, c := range sel.Pareto {
-			k := formKey(c)
-			if _, ok := series[k]; !ok {
-				keys = append(keys, k)
-			}
-			series[k] = append(series[k], c)
+		drawLegend(draw.Crop(dc, vg.Points(30), 0, 0, -(dc.Size().Y-lh)), legend, 3)
+		area := draw.Crop(dc, 0, -vg.Points(6), lh+vg.Points(6), -vg.Points(6))
+		p := newPanel("", "number of parameters (markers offset sideways so that forms of one size stay apart)", "held-out error", 6, 6)
+		selectionAxes(p, lo, hi, xmax)
+		if !bad(thr) {
+			addCurve(p, []float64{p.X.Min, p.X.Max}, []float64{thr, thr}, lineStyle(okabeBlack, 0.8, 1.5, 2))
 		}
-		order := map[string]int{"none": 0, "single": 1, "mirror": 2, "free": 3}
-		sort.SliceStable(keys, func(a, b int) bool {
-			ba, da := cutSpread(keys[a])
-			bb, db := cutSpread(keys[b])
-			if order[ba] != order[bb] {
-				return order[ba] < order[bb]
+		// Offset the forms sideways a little, so that forms of the same
+		// size do not hide each other.
+		for j, k := range forms {
+			off := (float64(j) - float64(len(forms)-1)/2) * 0.07
+			var xs, ys, l, u []float64
+			for _, q := range byForm[k] {
+				xs, ys = append(xs, q.x+off), append(ys, q.y)
+				l, u = append(l, q.y-q.se), append(u, q.y+q.se)
 			}
-			return !da && db
-		})
-		l := newLegend(9)
-		xmax := 1.0
-		for _, k := range keys {
-			cs := series[k]
-			sort.SliceStable(cs, func(a, b int) bool { return cs[a].Parameters < cs[b].Parameters })
-			var xs, ys []float64
-			for _, c := range cs {
-				if v := float64(c.Loss); v > 0 && !math.IsInf(v, 0) {
-					xs, ys = append(xs, float64(c.Parameters)), append(ys, v)
-					xmax = math.Max(xmax, float64(c.Parameters))
+			p.Add(&errorBars{xs: xs, lo: l, hi: u, ls: lineStyle(tint(formColor(k), 0.7), 0.7)})
+			addPoints(p, xs, ys, formGlyph(k))
+		}
+		for _, pr := range presets {
+			p.Add(&errorBars{xs: []float64{pr.q.x + 0.3}, lo: []float64{pr.q.y - pr.q.se}, hi: []float64{pr.q.y + pr.q.se}, ls: lineStyle(presetStyle(pr.name).Color, 0.7)})
+			addPoints(p, []float64{pr.q.x + 0.3}, []float64{pr.q.y}, presetGlyph(pr.name))
+		}
+		for j, k := range forms {
+			off := (float64(j) - float64(len(forms)-1)/2) * 0.07
+			for _, c := range sel.Pareto {
+				if c.Chosen && verdictKey(c) == k && !bad(float64(c.HeldoutError)) {
+					addPoints(p, []float64{float64(c.Parameters) + off}, []float64{float64(c.HeldoutError)}, ring)
 				}
 			}
-			base, disp := cutSpread(k)
-			addCurve(p, xs, ys, lineStyle(tint(layoutColor(base), 0.55), 0.9, disp))
-			if th := addPoints(p, xs, ys, formGlyph(k)); th != nil {
-				l.Add(formDisplay(k), th)
-			}
 		}
-		var pre textMarks
-		pre.size, pre.xalign, pre.dx = 8, draw.XLeft, 6
-		var pxs, pys []float64
-		for _, c := range sel.Presets {
-			if v := float64(c.Loss); v > 0 && !math.IsInf(v, 0) {
-				pxs, pys = append(pxs, float64(c.Parameters)), append(pys, v)
-				xmax = math.Max(xmax, float64(c.Parameters))
-				pre.xs, pre.ys = append(pre.xs, float64(c.Parameters)), append(pre.ys, v)
-				pre.texts = append(pre.texts, strings.TrimPrefix(c.Name, "preset:"))
-				pre.colors = append(pre.colors, okabeReddishPurple)
-			}
-		}
-		if th := addPoints(p, pxs, pys, draw.GlyphStyle{Color: okabeReddishPurple, Radius: vg.Points(4.5), Shape: draw.PlusGlyph{}}); th != nil {
-			l.Add("classical preset", th)
-			p.Add(&pre)
-		}
-		for _, c := range sel.Pareto {
-			if c.Chosen && float64(c.Loss) > 0 {
-				ring := draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(8), Shape: draw.RingGlyph{}}
-				if th := addPoints(p, []float64{float64(c.Parameters)}, []float64{float64(c.Loss)}, ring); th != nil {
-					l.Add("chosen: "+c.Name, th)
-				}
-				p.Add(&textMarks{xs: []float64{float64(c.Parameters)}, ys: []float64{float64(c.Loss)}, texts: []string{"chosen"},
-					size: 8.5, xalign: draw.XCenter, dy: -15})
-			}
-		}
-		if lo, hi := lossRange(sel); lo > 0 {
-			p.Y.Min, p.Y.Max = logRange(lo, hi)
-		}
-		p.X.Min, p.X.Max = 0.5, xmax+1.5
-		var ts []plot.Tick
-		for k := 1; k <= int(xmax)+1; k++ {
-			ts = append(ts, plot.Tick{Value: float64(k), Label: fmt.Sprint(k)})
-		}
-		p.X.Tick.Marker = plot.ConstantTicks(ts)
 		p.Draw(area)
-		l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
 		return nil
 	}
 	return f
 }
 
-// lossRange is the smallest and largest positive finite loss of the
-// selection's model forms and presets (0, 0 when there is none).
-func lossRange(sel *card.SelectionSection) (float64, float64) {
-	lo, hi := math.Inf(1), 0.0
-	for _, cs := range [][]card.CandidateCard{sel.Pareto, sel.Presets} {
-		for _, c := range cs {
-			if v := float64(c.Loss); v > 0 && !math.IsInf(v, 0) {
-				lo, hi = math.Min(lo, v), math.Max(hi, v)
-			}
+// selectionAxes sets the selection plot's axes: the held-out errors from
+// lo to hi on a log scale of at least a decade, the number of parameters
+// up to xmax with at most six labels.
+func selectionAxes(p *plot.Plot, lo, hi, xmax float64) {
+	p.Y.Scale = plot.LogScale{}
+	if !(lo > 0) {
+		lo, hi = 1e-3, 1
+	}
+	p.Y.Min, p.Y.Max = lo/1.3, hi*1.3
+	if p.Y.Max/p.Y.Min < 10 {
+		c := math.Sqrt(p.Y.Max * p.Y.Min)
+		p.Y.Min, p.Y.Max = c/3.2, c*3.2
+	}
+	p.Y.Tick.Marker = logTicks{maxLabels: 6}
+	p.X.Min, p.X.Max = 0.4, xmax+0.6
+	var ts []plot.Tick
+	step := 1
+	for int(xmax)/step > 6 {
+		step++
+	}
+	for k := 1; k <= int(xmax); k++ {
+		t := plot.Tick{Value: float64(k)}
+		if k%step == 0 || step == 1 {
+			t.Label = fmt.Sprint(k)
 		}
+		ts = append(ts, t)
 	}
-	if hi == 0 {
-		return 0, 0
-	}
-	return lo, hi
-}
-
-// r2Scale maps R² to [0, 1] for the heat map: the number of nines,
-// −log10(1 − R²), over 0 … 4, so that 0.9, 0.99, 0.999 and 0.9999 are
-// evenly spaced; R² ≤ 0 maps to 0.
-func r2Scale(r float64) float64 {
-	if math.IsNaN(r) {
-		return 0
-	}
-	if r >= 1 {
-		return 1
-	}
-	return max(0, min(1, -math.Log10(1-r)/4))
-}
-
-// heatCells draws an n×n matrix of R² values as coloured cells with their
-// values written in.
-type heatCells struct {
-	vals [][]float64
-}
-
-// Plot implements plot.Plotter.
-func (h *heatCells) Plot(c draw.Canvas, p *plot.Plot) {
-	trX, trY := p.Transforms(&c)
-	n := len(h.vals)
-	sty := textStyle(8.5)
-	sty.XAlign, sty.YAlign = draw.XCenter, draw.YCenter
-	for i, row := range h.vals {
-		for j, v := range row {
-			y := float64(n - 1 - i)
-			x := float64(j)
-			x0, x1, y0, y1 := trX(x-0.5), trX(x+0.5), trY(y-0.5), trY(y+0.5)
-			cell := []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}}
-			t := r2Scale(v)
-			fill := heatColor(t)
-			if math.IsNaN(v) {
-				fill = color.NRGBA{0xf2, 0xf2, 0xf2, 0xff}
-			}
-			c.FillPolygon(fill, cell)
-			c.StrokeLines(lineStyle(color.White, 1, false), append(cell, cell[0]))
-			sty.Color = color.Black
-			if luminance(fill) < 0.5 {
-				sty.Color = color.White
-			}
-			c.FillText(sty, vg.Point{X: (x0 + x1) / 2, Y: (y0 + y1) / 2}, fmtR2(v))
-			if i == j {
-				in := vg.Points(2)
-				box := []vg.Point{{X: x0 + in, Y: y0 + in}, {X: x1 - in, Y: y0 + in}, {X: x1 - in, Y: y1 - in}, {X: x0 + in, Y: y1 - in}, {X: x0 + in, Y: y0 + in}}
-				c.StrokeLines(lineStyle(okabeVermillion, 1.4, true), box)
-			}
-		}
-	}
-}
-
-// colourBar draws the heat map's colour scale over y ∈ [0, 4] nines.
-type colourBar struct{}
-
-// Plot implements plot.Plotter.
-func (colourBar) Plot(c draw.Canvas, p *plot.Plot) {
-	trX, trY := p.Transforms(&c)
-	const steps = 64
-	for k := 0; k < steps; k++ {
-		a, b := 4*float64(k)/steps, 4*float64(k+1)/steps
-		fill := heatColor((a + b) / 8)
-		// Overlap the next step so that no seam shows between steps.
-		top := trY(b) + vg.Points(0.6)
-		if k == steps-1 {
-			top = trY(b)
-		}
-		c.FillPolygon(fill, []vg.Point{{X: trX(0), Y: trY(a)}, {X: trX(1), Y: trY(a)}, {X: trX(1), Y: top}, {X: trX(0), Y: top}})
-	}
-}
-
-// crossFigure is the heat map of selection.cross_r2: the chosen form fitted
-// to one protocol alone (rows) predicting every protocol (columns); nil
-// without it.
-func (in *Input) crossFigure() *figure {
-	sel := in.sel
-	if sel == nil || len(sel.CrossR2) == 0 || len(sel.CrossR2) != len(sel.Protocols) {
-		return nil
-	}
-	n := len(sel.Protocols)
-	f := &figure{name: "cross-r2", w: vg.Length(n)*0.95*vg.Inch + 2.9*vg.Inch, h: vg.Length(n)*0.55*vg.Inch + 1.7*vg.Inch,
-		title: "Cross-protocol prediction: fit on one protocol, predict each other",
-		caption: "Row: the chosen model form fitted to that protocol alone; column: the protocol it predicts; cell: the mean R² over the measured components. " +
-			"Dashed outlines mark the diagonal, where the protocol predicts itself. Colour scales with the number of nines of R² (0.9, 0.99, 0.999, …); " +
-			"a pale row means that protocol alone does not determine the model."}
-	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, in.card.Specimen+" — fit on one protocol, predict each other")
-		area, bar := splitColumns(dc, 1.2*vg.Inch)
-		p := newBarePlot("", "predicted protocol", "fitted to this protocol alone", false)
-		p.Add(&heatCells{vals: numRows(sel.CrossR2)})
-		p.NominalX(sel.Protocols...)
-		rev := make([]string, n)
-		for i, s := range sel.Protocols {
-			rev[n-1-i] = s
-		}
-		p.NominalY(rev...)
-		p.X.Min, p.X.Max = -0.5, float64(n)-0.5
-		p.Y.Min, p.Y.Max = -0.5, float64(n)-0.5
-		p.X.Padding, p.Y.Padding = 0, 0
-		p.Draw(area)
-		cb := newBarePlot("R²", "", "", true)
-		cb.Add(colourBar{})
-		cb.X.Min, cb.X.Max = 0, 1
-		cb.Y.Min, cb.Y.Max = 0, 4
-		cb.HideX()
-		cb.X.Padding, cb.Y.Padding = 0, 0
-		cb.Y.Tick.Marker = plot.ConstantTicks([]plot.Tick{{Value: 0, Label: "≤ 0"}, {Value: 1, Label: "0.9"}, {Value: 2, Label: "0.99"},
-			{Value: 3, Label: "0.999"}, {Value: 4, Label: "≥ 0.9999"}})
-		cb.Draw(draw.Crop(bar, 0, -vg.Points(30), vg.Points(40), -vg.Points(10)))
-		return nil
-	}
-	return f
-}
-
-// numRows converts a card matrix to floats.
-func numRows(m [][]card.Num) [][]float64 {
-	out := make([][]float64, len(m))
-	for i, r := range m {
-		out[i] = make([]float64, len(r))
-		for j, v := range r {
-			out[i][j] = float64(v)
-		}
-	}
-	return out
+	p.X.Tick.Marker = plot.ConstantTicks(ts)
 }

@@ -10,7 +10,10 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 )
 
-// Stress–stretch figures: one per protocol and a grid of all protocols.
+// Stress against stretch: every protocol as a tile of one figure, for the
+// normal components (with the model's confidence band and the held-out
+// prediction), the shear components, the classical presets and the
+// residuals.
 
 // compSymbol is a stress component's symbol, e.g. "P11" or "σ22".
 func compSymbol(kind, comp string) string {
@@ -28,59 +31,151 @@ func kindName(kind string) string {
 	return kind
 }
 
-// stressLabel is the stress axis label with its kind and unit.
-func stressLabel(kind, unit string) string {
-	if kind == "nominal" {
-		return "nominal stress P [" + unit + "]"
-	}
-	return "Cauchy stress σ [" + unit + "]"
-}
+// stressAxis labels a tile's stress axis: "P [kPa]" or "σ [kPa]".
+func stressAxis(kind, unit string) string { return compSymbol(kind, "") + " [" + unit + "]" }
 
-// abscissaLabel labels the x axis of normal (axis) or shear components.
-func abscissaLabel(shear, strain, short bool) string {
+// abscissaLabel labels the x axis of normal or shear components.
+func abscissaLabel(shear, strain bool) string {
 	switch {
 	case shear:
 		return "Green shear strain E12"
-	case strain && short:
-		return "Green strain E"
 	case strain:
-		return "Green strain E = ½(λ² − 1)  (E11 for axis 1, E22 for axis 2)"
-	case short:
-		return "stretch λ"
-	default:
-		return "stretch λ  (λ1 for axis 1, λ2 for axis 2)"
+		return "Green strain E"
 	}
+	return "stretch λ"
 }
 
 func isShear(comp string) bool { return comp == "12" || comp == "21" }
 
-// protocolFileName makes a protocol label safe for a file name; the index
-// keeps names unique.
-func protocolFileName(prefix string, i int, label string) string {
-	safe := SafeName(strings.ReplaceAll(label, ":", "_"))
-	return fmt.Sprintf("%s-%02d-%s", prefix, i+1, safe)
+// componentsOf lists the indices into t.comps of the normal (shear false)
+// or shear components.
+func (t *fitTable) componentsOf(shear bool) []int {
+	var out []int
+	for ci, c := range t.comps {
+		if isShear(c) == shear {
+			out = append(out, ci)
+		}
+	}
+	return out
 }
 
-// fitQuality is the legend text of a component's model curve: R², or the
-// RMSE when R² is undefined (constant measured stress).
-func (in *Input) fitQuality(protocol, comp string) string {
-	m, ok := in.metric(protocol, comp)
-	if !ok {
-		return ""
+// hasShear reports whether fit.csv holds shear components.
+func (t *fitTable) hasShear() bool { return len(t.componentsOf(true)) > 0 }
+
+// hasNormal reports whether fit.csv holds normal components.
+func (t *fitTable) hasNormal() bool { return len(t.componentsOf(false)) > 0 }
+
+// normalPeak is the largest |measured normal stress| of a protocol.
+func (t *fitTable) normalPeak(pr *protocolRows) float64 {
+	big := 0.0
+	for _, ci := range t.componentsOf(false) {
+		for _, v := range pr.measured[ci] {
+			if !bad(v) {
+				big = math.Max(big, math.Abs(v))
+			}
+		}
 	}
-	if !math.IsNaN(float64(m.R2)) {
-		return "R² " + fmtR2(float64(m.R2))
-	}
-	return "RMSE " + fmtNum(float64(m.RMSE), 3) + " " + in.table.unit
+	return big
 }
 
-// heldoutQuality is the legend text of a held-out curve: R², or the RMSE
-// when R² is undefined.
-func heldoutQuality(meas, pred []float64, unit string) string {
-	if r := rSquared(meas, pred); !math.IsNaN(r) {
-		return "R² " + fmtR2(r)
+// shearSpan is the half-span a shear or residual axis keeps at least: 2 %
+// of the protocol's largest normal stress.
+const shearSpan = 0.02
+
+// maxMarkers is the most points of one protocol and component a tile
+// draws: more would merge into a band and make the page heavy. Longer
+// series are drawn every k-th point (ends kept); fit.csv holds them all.
+const maxMarkers = 250
+
+// thinned returns every k-th point of a series of more than maxMarkers
+// points (the first and last kept), else the series itself.
+func thinned(xs, ys []float64) ([]float64, []float64) {
+	n := len(xs)
+	if n <= maxMarkers {
+		return xs, ys
 	}
-	return "RMSE " + fmtNum(rmse(meas, pred), 3) + " " + unit
+	stride := (n + maxMarkers - 1) / maxMarkers
+	var ox, oy []float64
+	for i := 0; i < n; i += stride {
+		ox, oy = append(ox, xs[i]), append(oy, ys[i])
+	}
+	if (n-1)%stride != 0 {
+		ox, oy = append(ox, xs[n-1]), append(oy, ys[n-1])
+	}
+	return ox, oy
+}
+
+// xsOf is the abscissa of every point of a protocol for a component.
+func xsOf(Fs [][4]float64, comp string, strain bool) []float64 {
+	xs := make([]float64, len(Fs))
+	for i, F := range Fs {
+		xs[i] = axisCoordinate(F, comp, strain)
+	}
+	return xs
+}
+
+// series is one model's curve over one protocol: x, stress and the
+// half-width of its 95 % band per component index of fit.csv (half NaN
+// where unknown).
+type series struct {
+	x, y, half [][]float64
+}
+
+// curveOf returns a model's curve over protocol pr: from curves.csv when
+// it holds the model, otherwise, for the fitted model ("model"), the card
+// evaluated along the protocol (without a band); ok is false when there is
+// no such curve.
+func (in *Input) curveOf(pr *protocolRows, model string, strain bool) (series, bool) {
+	t := in.table
+	nc := len(t.comps)
+	s := series{x: make([][]float64, nc), y: make([][]float64, nc), half: make([][]float64, nc)}
+	if in.curves != nil {
+		if cr := in.curves.protos[pr.label]; cr != nil {
+			for m, name := range in.curves.models {
+				if name != model {
+					continue
+				}
+				for c := 0; c < nc; c++ {
+					s.x[c] = xsOf(cr.F, t.comps[c], strain)
+					s.y[c], s.half[c] = cr.stress[m][c], cr.half[m][c]
+				}
+				return s, true
+			}
+		}
+	}
+	if model != "model" {
+		return s, false
+	}
+	xs, ys := modelCurve(in.model, pr, t.kind, t.comps, strain)
+	for c := 0; c < nc; c++ {
+		s.x[c], s.y[c] = xs[c], ys[c]
+		s.half[c] = make([]float64, len(xs[c]))
+		for i := range s.half[c] {
+			s.half[c][i] = math.NaN()
+		}
+	}
+	return s, true
+}
+
+// bandEdges returns y ∓ half.
+func bandEdges(y, half []float64) (lo, hi []float64) {
+	lo, hi = make([]float64, len(y)), make([]float64, len(y))
+	for i := range y {
+		lo[i], hi[i] = y[i]-half[i], y[i]+half[i]
+	}
+	return lo, hi
+}
+
+// hasBand reports whether any half-width is known.
+func hasBand(half [][]float64) bool {
+	for _, h := range half {
+		for _, v := range h {
+			if !bad(v) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // heldoutStress returns the held-out prediction of a protocol's component,
@@ -96,304 +191,314 @@ func (in *Input) heldoutStress(label string, ci int) []float64 {
 	return st[ci]
 }
 
-// addProtocolCurves draws one protocol's components (normal or shear) into
-// p and adds their legend entries to l (when non-nil).
-func (in *Input) addProtocolCurves(p *plot.Plot, l *plot.Legend, pr *protocolRows, shear, strain, small bool) {
+// heldoutStyle is the dashed line of a component's held-out prediction:
+// darker than the model line and drawn over it, so that it stays visible
+// where it follows the fit.
+func heldoutStyle(comp string) draw.LineStyle {
+	return lineStyle(shade(componentColor(comp), 0.5), 1.1, 3.5, 2.5)
+}
+
+// modelLine is the line of the fitted model for a component.
+func modelLine(comp string) draw.LineStyle { return lineStyle(componentColor(comp), 1.3) }
+
+// bandFill is the fill of a component's confidence band.
+func bandFill(comp string) draw.LineStyle {
+	return draw.LineStyle{Color: translucent(componentColor(comp), 0.22)}
+}
+
+// fitPanel draws one protocol's normal (shear false) or shear components:
+// the band, the measured points, the model curve and, on top, the held-out
+// prediction.
+func (in *Input) fitPanel(pr *protocolRows, shear, strain bool, title string) *plot.Plot {
 	t := in.table
-	var comps []string
-	var idx []int
-	for ci, c := range t.comps {
-		if isShear(c) == shear {
-			comps = append(comps, c)
-			idx = append(idx, ci)
+	p := newPanel(title, abscissaLabel(shear, strain), stressAxis(t.kind, t.unit), 5, 6)
+	s, _ := in.curveOf(pr, "model", strain)
+	comps := t.componentsOf(shear)
+	for _, ci := range comps {
+		if hasBand([][]float64{s.half[ci]}) {
+			lo, hi := bandEdges(s.y[ci], s.half[ci])
+			addBand(p, s.x[ci], lo, hi, bandFill(t.comps[ci]).Color)
 		}
 	}
-	cx, cy := modelCurve(in.model, pr, t.kind, comps, strain)
-	radius, width := 2.4, 1.5
-	if small {
-		radius, width = 1.7, 1.2
+	for _, ci := range comps {
+		mx, my := thinned(xsOf(pr.F, t.comps[ci], strain), pr.measured[ci])
+		addPoints(p, mx, my, componentGlyph(t.comps[ci], 1.9))
 	}
-	for k, comp := range comps {
-		ci := idx[k]
-		xs := make([]float64, len(pr.F))
-		for i, F := range pr.F {
-			xs[i] = axisCoordinate(F, comp, strain)
-		}
-		sym := compSymbol(t.kind, comp)
-		col := componentColor(comp)
-		mth := addPoints(p, xs, pr.measured[ci], componentGlyph(comp, radius))
-		lth := addCurve(p, cx[k], cy[k], lineStyle(col, width, false))
-		var hth plot.Thumbnailer
-		var hq string
+	for _, ci := range comps {
+		addCurve(p, s.x[ci], s.y[ci], modelLine(t.comps[ci]))
+	}
+	for _, ci := range comps {
 		if ho := in.heldoutStress(pr.label, ci); ho != nil {
-			hth = addCurve(p, xs, ho, heldoutStyle(comp, width))
-			hq = heldoutQuality(pr.measured[ci], ho, t.unit)
-		}
-		if l == nil {
-			continue
-		}
-		if mth != nil {
-			l.Add(sym+" measured", mth)
-		}
-		if lth != nil {
-			l.Add(sym+" model, "+in.fitQuality(pr.label, comp), lth)
-		}
-		if hth != nil {
-			l.Add(sym+" held-out, "+hq, hth)
+			hx, hy := thinned(xsOf(pr.F, t.comps[ci], strain), ho)
+			addCurve(p, hx, hy, heldoutStyle(t.comps[ci]))
 		}
 	}
+	includeZero(p)
 	if shear {
-		// Keep tiny shear stresses in proportion: the axis spans at least
-		// ±2 % of the protocol's largest normal stress.
-		big := 0.0
-		for ci, c := range t.comps {
-			if !isShear(c) {
-				for _, v := range pr.measured[ci] {
-					if !math.IsNaN(v) {
-						big = math.Max(big, math.Abs(v))
-					}
-				}
-			}
-		}
-		if big > 0 {
-			p.Y.Min = math.Min(p.Y.Min, -0.02*big)
-			p.Y.Max = math.Max(p.Y.Max, 0.02*big)
-		}
+		atLeastSpan(p, shearSpan*t.normalPeak(pr))
 	}
+	return p
 }
 
-// heldoutStyle is the dashed line of a component's held-out prediction.
-func heldoutStyle(comp string, width float64) draw.LineStyle {
-	ls := lineStyle(shade(componentColor(comp), 0.55), width*0.8, true)
-	ls.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
-	return ls
-}
-
-// hasShear reports whether fit.csv holds shear components.
-func (t *fitTable) hasShear() bool {
-	for _, c := range t.comps {
-		if isShear(c) {
-			return true
-		}
-	}
-	return false
-}
-
-// hasNormal reports whether fit.csv holds normal components.
-func (t *fitTable) hasNormal() bool {
-	for _, c := range t.comps {
-		if !isShear(c) {
-			return true
-		}
-	}
-	return false
-}
-
-// fitFigure is the stress–stretch (or stress–strain) figure of protocol i.
-func (in *Input) fitFigure(i int, strain bool) *figure {
+// fitLegend names the series of the fit figures.
+func (in *Input) fitLegend(shear bool) []legendEntry {
 	t := in.table
-	pr := t.protocols[i]
-	shear, normal := t.hasShear(), t.hasNormal()
-	panels := 0
-	if normal {
-		panels++
-	}
-	if shear {
-		panels++
-	}
-	lw := 2.3 * vg.Inch
-	if shear {
-		lw = 2.9 * vg.Inch // longer entries: RMSE with unit
-	}
-	pw := 4.6 * vg.Inch
-	if panels > 1 {
-		pw = 4 * vg.Inch
-	}
-	w := vg.Length(panels)*pw + lw
-	what := "stretch"
-	if strain {
-		what = "Green strain"
-	}
-	f := &figure{name: protocolFileName("fit", i, pr.label), w: w, h: 4.2 * vg.Inch,
-		title: fmt.Sprintf("Protocol %s: %s stress against %s", pr.label, kindName(t.kind), what)}
-	f.caption = "Markers: measured points of the kept branch. Solid line: the fitted model evaluated along the protocol's measured deformation (between the points too when the deformation is pure biaxial stretch). "
-	if in.heldout != nil {
-		f.caption += "Dashed line: held-out prediction, the same model form refitted to every other protocol and used to predict this one. "
-	}
-	if shear {
-		f.caption += "Right panel: shear stresses against the Green shear strain E12 = ½ C12; its stress axis spans at least ±2 % of the protocol's largest normal stress, so that stresses that are negligible next to the normal ones look negligible. "
-	}
-	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, fmt.Sprintf("Protocol %s — %s", pr.label, in.card.Specimen))
-		area, lc := splitColumns(dc, lw)
-		l := newLegend(9)
-		var plots []*plot.Plot
-		if normal {
-			sub := ""
-			if shear {
-				sub = "axes 1 and 2"
-			}
-			p := newPlot(sub, abscissaLabel(false, strain, false), stressLabel(t.kind, t.unit), false)
-			in.addProtocolCurves(p, &l, pr, false, strain, false)
-			plots = append(plots, p)
+	var out []legendEntry
+	band := in.curves != nil
+	for _, ci := range t.componentsOf(shear) {
+		c := t.comps[ci]
+		sym := compSymbol(t.kind, c)
+		out = append(out, legendEntry{sym + " measured", glyphSample(componentGlyph(c, 2.2))})
+		if band {
+			out = append(out, legendEntry{sym + " model, 95 % band", bandSample(bandFill(c).Color, modelLine(c))})
+		} else {
+			out = append(out, legendEntry{sym + " model", lineSample(modelLine(c))})
 		}
-		if shear {
-			p := newPlot("shear", abscissaLabel(true, strain, false), stressLabel(t.kind, t.unit), false)
-			in.addProtocolCurves(p, &l, pr, true, strain, false)
-			plots = append(plots, p)
+		if in.heldout != nil {
+			out = append(out, legendEntry{sym + " held-out prediction", lineSample(heldoutStyle(c))})
 		}
-		drawRow(area, lc, plots, l)
-		return nil
 	}
-	return f
+	return out
 }
 
-// gridShape returns rows and columns for n tiles plus one legend tile.
-func gridShape(n int) (rows, cols int) {
-	cells := n + 1
-	cols = 3
-	if cells <= 4 {
-		cols = 2
+// r2Title is a tile title: the protocol and the R² of its components.
+func (in *Input) r2Title(pr *protocolRows, shear bool) string {
+	t := in.table
+	var q []string
+	for _, ci := range t.componentsOf(shear) {
+		if m, ok := in.metric(pr.label, t.comps[ci]); ok && !math.IsNaN(float64(m.R2)) {
+			q = append(q, fmtR2(float64(m.R2)))
+		}
 	}
-	rows = (cells + cols - 1) / cols
-	return rows, cols
+	if len(q) == 0 {
+		return pr.label
+	}
+	return pr.label + " · R² " + strings.Join(q, " / ")
 }
 
-// drawGrid lays tiles out row by row and draws the legend in the cell after
-// the last tile.
-func drawGrid(dc draw.Canvas, plots []*plot.Plot, l plot.Legend) {
-	rows, cols := gridShape(len(plots))
-	grid := make([][]*plot.Plot, rows)
-	for r := range grid {
-		grid[r] = make([]*plot.Plot, cols)
+// tileHeight is the height of a tile of a figure with n tiles.
+func tileHeight(n int) vg.Length {
+	if _, cols := tileLayout(n); cols == 3 {
+		return 1.72 * vg.Inch
 	}
-	for i, p := range plots {
-		grid[i/cols][i%cols] = p
-	}
-	tiles := draw.Tiles{Rows: rows, Cols: cols, PadX: vg.Points(14), PadY: vg.Points(12), PadBottom: vg.Points(2), PadRight: vg.Points(12)}
-	cs := plot.Align(grid, tiles, dc)
-	for i, p := range plots {
-		p.Draw(cs[i/cols][i%cols])
-	}
-	n := len(plots)
-	lc := tiles.At(dc, n%cols, n/cols)
-	l.Draw(draw.Crop(lc, vg.Points(18), 0, 0, -vg.Points(14)))
+	return 2.1 * vg.Inch
 }
 
-// fitGridFigure shows every protocol's normal components in one figure.
+// shortTileHeight is the height of a tile whose curves stay near zero
+// (shear stresses, residuals of shear) and of the record's tiles.
+func shortTileHeight(n int) vg.Length { return tileHeight(n) * 0.82 }
+
+// fitGridFigure shows every protocol's normal components with the fitted
+// model, its confidence band and the held-out prediction.
 func (in *Input) fitGridFigure(strain bool) *figure {
 	t := in.table
-	rows, cols := gridShape(len(t.protocols))
+	n := len(t.protocols)
 	what := "stretch"
 	if strain {
 		what = "Green strain"
 	}
-	f := &figure{name: "fit-all", w: vg.Length(cols) * 3.1 * vg.Inch, h: vg.Length(rows)*2.6*vg.Inch + 0.4*vg.Inch,
-		title: fmt.Sprintf("All protocols: %s stress against %s", kindName(t.kind), what)}
-	f.caption = "One tile per protocol with its R² per axis in the tile title; markers measured, solid lines the fitted model"
+	caption := fmt.Sprintf("%s stress of axes 1 and 2 against the %s of each axis, R² per axis in the tile title. Markers: measured points of the kept branch (a protocol of more than %d points shows every k-th; fit.csv has all). Solid: the fitted model", kindName(t.kind), what, maxMarkers)
+	if in.curves != nil {
+		caption += "; shaded: its 95 % confidence band (delta method, Gauss–Newton covariance; Bates & Watts 1988), where the fitted curve would lie if the test were repeated, not where new measurements fall"
+	}
+	caption += "."
 	if in.heldout != nil {
-		f.caption += ", dashed lines the held-out prediction (model form refitted without that protocol)"
+		caption += " Dashed, on top: the held-out prediction of the model form refitted without this protocol; where it covers the solid line the protocol is predicted as well as it is fitted."
 	}
-	f.caption += "."
-	if t.hasShear() {
-		f.caption += " Shear components are shown in each protocol's own figure."
-	}
-	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, fmt.Sprintf("%s — all protocols", in.card.Specimen))
-		var plots []*plot.Plot
-		for _, pr := range t.protocols {
-			var q []string
-			for _, c := range t.comps {
-				if !isShear(c) {
-					if m, ok := in.metric(pr.label, c); ok && !math.IsNaN(float64(m.R2)) {
-						q = append(q, fmtR2(float64(m.R2)))
-					}
-				}
-			}
-			title := pr.label
-			if len(q) > 0 {
-				title += " · R² " + strings.Join(q, " / ")
-			}
-			p := newPlot(title, abscissaLabel(false, strain, true), kindName(t.kind)+" "+compSymbol(t.kind, "")+" ["+t.unit+"]", true)
-			in.addProtocolCurves(p, nil, pr, false, strain, true)
-			plots = append(plots, p)
-		}
-		drawGrid(dc, plots, genericLegend(in))
-		return nil
-	}
-	return f
+	return tiledFigure("fit-all", fmt.Sprintf("Measured and modelled %s stress, every protocol", kindName(t.kind)), capitalise(caption), n, tileHeight(n),
+		func(i int) *plot.Plot {
+			return in.fitPanel(t.protocols[i], false, strain, in.r2Title(t.protocols[i], false))
+		},
+		in.fitLegend(false))
 }
 
-// genericLegend names the series of the tiled fit figure without numbers.
-func genericLegend(in *Input) plot.Legend {
+// shearFigure shows every protocol's shear components against E12.
+func (in *Input) shearFigure(strain bool) *figure {
 	t := in.table
-	l := newLegend(9)
-	for _, c := range t.comps {
-		if isShear(c) {
-			continue
+	n := len(t.protocols)
+	caption := "Shear stresses against the Green shear strain E12 = ½C12, measured and modelled at the measured deformations (an interpolated one would break the test's balance of loads). " +
+		"Each stress axis spans at least ±2 % of the protocol's largest normal stress, so that negligible shear stresses look negligible."
+	title := func(i int) string {
+		pr := t.protocols[i]
+		var q []string
+		for _, ci := range t.componentsOf(true) {
+			if m, ok := in.metric(pr.label, t.comps[ci]); ok {
+				q = append(q, fmtNum(float64(m.RMSE), 2))
+			}
 		}
-		sym := compSymbol(t.kind, c)
-		l.Add(sym+" measured", glyphThumb{componentGlyph(c, 2.4)})
-		l.Add(sym+" model", lineThumb{lineStyle(componentColor(c), 1.5, false)})
-		if in.heldout != nil {
-			l.Add(sym+" held-out", lineThumb{heldoutStyle(c, 1.5)})
-		}
+		return pr.label + " · RMSE " + strings.Join(q, " / ") + " " + t.unit
 	}
-	return l
+	return tiledFigure("fit-shear", "Measured and modelled shear stress, every protocol", caption, n, shortTileHeight(n),
+		func(i int) *plot.Plot { return in.fitPanel(t.protocols[i], true, strain, title(i)) },
+		in.fitLegend(true))
 }
 
 // residualFigure shows residuals (model − measured) against stretch or
-// strain, one tile per protocol, for the normal (shear false) or shear
-// components.
+// strain, one tile per protocol, for the normal or the shear components;
+// each residual axis spans at least ±2 % of the protocol's largest normal
+// stress.
 func (in *Input) residualFigure(shear, strain bool) *figure {
 	t := in.table
-	rows, cols := gridShape(len(t.protocols))
+	n := len(t.protocols)
 	name, what := "residuals", "normal stresses"
 	if shear {
 		name, what = "residuals-shear", "shear stresses"
 	}
-	f := &figure{name: name, w: vg.Length(cols) * 3.1 * vg.Inch, h: vg.Length(rows)*2.6*vg.Inch + 0.4*vg.Inch,
-		title:   "Residuals of the " + what + ", model − measured",
-		caption: "Residual = model − measured stress at every kept point, one tile per protocol with the RMSE per component in the tile title. A good fit scatters evenly about zero; a trend shows what the model misses."}
-	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, fmt.Sprintf("%s — residuals of the %s", in.card.Specimen, what))
-		var plots []*plot.Plot
-		l := newLegend(9)
-		for i, pr := range t.protocols {
-			var q []string
-			for _, c := range t.comps {
-				if isShear(c) == shear {
-					if m, ok := in.metric(pr.label, c); ok {
-						q = append(q, fmtNum(float64(m.RMSE), 2))
-					}
-				}
+	caption := "Model − measured stress at every kept point, RMSE per component in the tile title. A good fit scatters evenly about zero; a trend shows what the model misses. " +
+		"Each axis spans at least ±2 % of the protocol's largest normal stress, so that a small residual looks small."
+	var legend []legendEntry
+	for _, ci := range t.componentsOf(shear) {
+		legend = append(legend, legendEntry{compSymbol(t.kind, t.comps[ci]) + " residual", glyphSample(componentGlyph(t.comps[ci], 2.2))})
+	}
+	legend = append(legend, legendEntry{"zero", lineSample(lineStyle(okabeBlack, 0.7))})
+	panel := func(i int) *plot.Plot {
+		pr := t.protocols[i]
+		var q []string
+		for _, ci := range t.componentsOf(shear) {
+			if m, ok := in.metric(pr.label, t.comps[ci]); ok {
+				q = append(q, fmtNum(float64(m.RMSE), 2))
 			}
-			title := pr.label + " · RMSE " + strings.Join(q, " / ") + " " + t.unit
-			p := newPlot(title, abscissaLabel(shear, strain, true), "residual ["+t.unit+"]", true)
-			zero := lineStyle(okabeBlack, 0.7, false)
-			var lo, hi = math.Inf(1), math.Inf(-1)
-			for ci, c := range t.comps {
-				if isShear(c) != shear {
-					continue
-				}
-				xs := make([]float64, len(pr.F))
-				for k, F := range pr.F {
-					xs[k] = axisCoordinate(F, c, strain)
-					lo, hi = math.Min(lo, xs[k]), math.Max(hi, xs[k])
-				}
-				th := addPoints(p, xs, pr.residual[ci], componentGlyph(c, 1.8))
-				if i == 0 && th != nil {
-					l.Add(compSymbol(t.kind, c)+" residual", glyphThumb{componentGlyph(c, 2.4)})
-				}
-			}
-			if lo < hi {
-				addCurve(p, []float64{lo, hi}, []float64{0, 0}, zero)
-			}
-			plots = append(plots, p)
 		}
-		l.Add("zero", lineThumb{lineStyle(okabeBlack, 0.7, false)})
-		drawGrid(dc, plots, l)
+		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, abscissaLabel(shear, strain), "residual ["+t.unit+"]", 5, 6)
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, ci := range t.componentsOf(shear) {
+			xs := xsOf(pr.F, t.comps[ci], strain)
+			for _, x := range xs {
+				lo, hi = math.Min(lo, x), math.Max(hi, x)
+			}
+			rx, ry := thinned(xs, pr.residual[ci])
+			addPoints(p, rx, ry, componentGlyph(t.comps[ci], 1.7))
+		}
+		if lo < hi {
+			addCurve(p, []float64{lo, hi}, []float64{0, 0}, lineStyle(okabeBlack, 0.7))
+		}
+		atLeastSpan(p, shearSpan*t.normalPeak(pr))
+		return p
+	}
+	h := tileHeight(n)
+	if shear {
+		h = shortTileHeight(n)
+	}
+	return tiledFigure(name, "Residuals of the "+what+", model − measured", caption, n, h, panel, legend)
+}
+
+// presetStyle is how a model of the presets figure is drawn: the fitted
+// model in black and heavy, each classical preset in its own colour and
+// dash pattern (so they also part in grey print).
+func presetStyle(name string) draw.LineStyle {
+	switch name {
+	case "model":
+		return lineStyle(okabeBlack, 1.6)
+	case "neo-hookean":
+		return lineStyle(okabeSkyBlue, 1.1, 1.2, 2)
+	case "hgo":
+		return lineStyle(okabeOrange, 1.1, 5, 2.5)
+	case "goh":
+		return lineStyle(okabeReddishPurple, 1.1, 6, 2, 1.2, 2)
+	case "fung":
+		return lineStyle(okabeBluishGreen, 1.1, 9, 3)
+	}
+	return lineStyle(okabeVermillion, 1.1, 2, 2)
+}
+
+// presetsFigure draws, per protocol, the measured normal stresses with the
+// fitted model and every classical preset fitted to the same data, each
+// with its 95 % band; nil without curves.csv or presets.
+func (in *Input) presetsFigure(strain bool) *figure {
+	t := in.table
+	if in.curves == nil || len(in.curves.models) < 2 || !t.hasNormal() {
 		return nil
 	}
-	return f
+	models := in.curves.models
+	n := len(t.protocols)
+	heldout := map[string]string{}
+	if in.sel != nil {
+		for _, c := range in.sel.Presets {
+			heldout[strings.TrimPrefix(c.Name, "preset:")] = fnum(float64(c.HeldoutError), 2)
+		}
+		for _, c := range in.sel.Pareto {
+			if c.Chosen {
+				heldout["model"] = fnum(float64(c.HeldoutError), 2)
+			}
+		}
+	}
+	var legend []legendEntry
+	for _, ci := range t.componentsOf(false) {
+		c := t.comps[ci]
+		legend = append(legend, legendEntry{compSymbol(t.kind, c) + " measured", glyphSample(muted(componentGlyph(c, 2.2)))})
+	}
+	for _, m := range models {
+		name := m
+		if m == "model" {
+			name = "discovered"
+		}
+		if e := heldout[m]; e != "" && e != "—" {
+			name += " · " + e
+		}
+		ls := presetStyle(m)
+		legend = append(legend, legendEntry{name, bandSample(translucent(ls.Color.(colorNRGBA), 0.18), ls)})
+	}
+	panel := func(i int) *plot.Plot {
+		pr := t.protocols[i]
+		p := newPanel(pr.label, abscissaLabel(false, strain), stressAxis(t.kind, t.unit), 5, 6)
+		var all []series
+		for _, m := range models {
+			s, _ := in.curveOf(pr, m, strain)
+			all = append(all, s)
+			col := presetStyle(m).Color.(colorNRGBA)
+			for _, ci := range t.componentsOf(false) {
+				if hasBand([][]float64{s.half[ci]}) {
+					lo, hi := bandEdges(s.y[ci], s.half[ci])
+					addBand(p, s.x[ci], lo, hi, translucent(col, 0.18))
+				}
+			}
+		}
+		for _, ci := range t.componentsOf(false) {
+			mx, my := thinned(xsOf(pr.F, t.comps[ci], strain), pr.measured[ci])
+			addPoints(p, mx, my, muted(componentGlyph(t.comps[ci], 1.9)))
+		}
+		// Presets first, the fitted model last, on top.
+		for k := len(models) - 1; k >= 0; k-- {
+			for _, ci := range t.componentsOf(false) {
+				addCurve(p, all[k].x[ci], all[k].y[ci], presetStyle(models[k]))
+			}
+		}
+		includeZero(p)
+		clipToData(p, pr, t)
+		return p
+	}
+	caption := "One tile per protocol: the measured normal stresses (circles axis 1, squares axis 2) with the discovered model (black, heavy) and the classical presets fitted to the same data by the same fitter, each with its 95 % confidence band (shaded; often thinner than the line). " +
+		"The number beside each model in the legend is its held-out error, the quantity the selection compares."
+	if t.hasShear() {
+		caption += " Shear components are compared in the tables of the model selection."
+	}
+	return tiledFigure("presets", "The discovered model beside the classical presets", caption, n, tileHeight(n), panel, legend)
+}
+
+// clipToData keeps the stress axis of a presets tile near the data: a
+// preset that misses the data badly must not squeeze the measured curve
+// into a corner. The axis spans the measured stresses (and 0) with 25 %
+// room; curves beyond it are cut at the frame.
+func clipToData(p *plot.Plot, pr *protocolRows, t *fitTable) {
+	lo, hi := 0.0, 0.0
+	for _, ci := range t.componentsOf(false) {
+		for _, v := range pr.measured[ci] {
+			if !bad(v) {
+				lo, hi = math.Min(lo, v), math.Max(hi, v)
+			}
+		}
+	}
+	if hi > lo {
+		room := 0.25 * (hi - lo)
+		p.Y.Min, p.Y.Max = math.Max(p.Y.Min, lo-room), math.Min(p.Y.Max, hi+room)
+	}
+}
+
+// muted is a marker in a light tint of its colour, so that lines drawn
+// over it stand out.
+func muted(gs draw.GlyphStyle) draw.GlyphStyle {
+	if c, ok := gs.Color.(colorNRGBA); ok {
+		gs.Color = tint(c, 0.55)
+	}
+	return gs
 }

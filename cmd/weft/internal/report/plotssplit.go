@@ -1,20 +1,21 @@
 package report
 
 import (
-	"fmt"
 	"image/color"
 	"math"
 	"sort"
 	"strings"
 
 	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"github.com/weft-tools/weft/aniso"
 )
 
-// The matrix/fibre split: stacked term contributions per protocol and the
-// share of each group per protocol and axis.
+// Who carries the load: at every point of a protocol, the fraction of the
+// modelled stress of each axis that the matrix and each fibre family carry,
+// and the stretch at which the fibres take over half of it.
 
 // termGroup is the split group of a fit.csv term label: "matrix" for an
 // isotropic term, the family name after "@" for a fibre term.
@@ -25,269 +26,219 @@ func termGroup(label string) string {
 	return "matrix"
 }
 
-// termDisplay writes a term label for a legend: "matrix · i1-lin",
-// "fibre f1 · fib-expsq".
-func termDisplay(label string) string {
-	g := termGroup(label)
-	id := label
-	if i := strings.LastIndex(label, "@"); i >= 0 {
-		id = label[:i]
-	}
-	if g == "matrix" {
-		return "matrix · " + id
-	}
-	return "fibre " + g + " · " + id
-}
-
-// splitTerm is an active term of the split with its colour.
-type splitTerm struct {
-	index int // into fitTable.terms
-	label string
-	color color.NRGBA
-}
-
-// activeTerms lists the terms that contribute anywhere, matrix first, then
-// each family, each group's terms in the card's order, with their colours.
-func (t *fitTable) activeTerms() []splitTerm {
-	var groups []string
-	byGroup := map[string][]int{}
-	for k, label := range t.terms {
-		active := false
-		for _, pr := range t.protocols {
-			for _, col := range pr.contrib[k] {
-				for _, v := range col {
-					if v != 0 && !math.IsNaN(v) {
-						active = true
-					}
-				}
-			}
-		}
-		if !active {
-			continue
-		}
-		g := termGroup(label)
-		if _, ok := byGroup[g]; !ok {
-			groups = append(groups, g)
-		}
-		byGroup[g] = append(byGroup[g], k)
-	}
-	// The matrix at the bottom of the stack, then the families by name.
-	ordered := []string{}
-	if _, ok := byGroup["matrix"]; ok {
-		ordered = append(ordered, "matrix")
-	}
+// groupsOf lists the split groups of fit.csv's terms: the matrix first,
+// then the families by name.
+func (t *fitTable) groupsOf() []string {
+	seen := map[string]bool{}
 	var fams []string
-	for _, g := range groups {
-		if g != "matrix" {
+	hasMatrix := false
+	for _, l := range t.terms {
+		g := termGroup(l)
+		if g == "matrix" {
+			hasMatrix = true
+		} else if !seen[g] {
+			seen[g] = true
 			fams = append(fams, g)
 		}
 	}
 	sort.Strings(fams)
-	ordered = append(ordered, fams...)
-	var out []splitTerm
-	for _, g := range ordered {
-		cols := groupColors(g)
-		for j, k := range byGroup[g] {
-			out = append(out, splitTerm{index: k, label: t.terms[k], color: cols[j%len(cols)]})
+	if hasMatrix {
+		return append([]string{"matrix"}, fams...)
+	}
+	return fams
+}
+
+// groupShares returns, for component ci of a protocol, each group's
+// fraction of the modelled stress at every point: the magnitude of the
+// group's summed contributions over the sum of the groups' magnitudes
+// (equal to its fraction of the net stress where all groups pull the same
+// way). Points whose modelled stress is negligible (aniso.NetNegligible
+// next to the protocol's largest modelled normal stress) are NaN: there
+// is no load to share.
+func (t *fitTable) groupShares(pr *protocolRows, ci int, groups []string) [][]float64 {
+	peak := 0.0
+	for _, cj := range t.componentsOf(false) {
+		for _, v := range pr.model[cj] {
+			if !bad(v) {
+				peak = math.Max(peak, math.Abs(v))
+			}
+		}
+	}
+	index := map[string]int{}
+	for g, name := range groups {
+		index[name] = g
+	}
+	n := len(pr.F)
+	out := make([][]float64, len(groups))
+	for g := range out {
+		out[g] = make([]float64, n)
+	}
+	sums := make([]float64, len(groups))
+	for i := 0; i < n; i++ {
+		clear(sums)
+		for k, l := range t.terms {
+			if v := pr.contrib[k][ci][i]; !bad(v) {
+				sums[index[termGroup(l)]] += v
+			}
+		}
+		total := 0.0
+		for _, s := range sums {
+			total += math.Abs(s)
+		}
+		m := pr.model[ci][i]
+		for g := range groups {
+			out[g][i] = math.NaN()
+			if total > 0 && !bad(m) && !aniso.NetNegligible(math.Abs(m), peak) {
+				out[g][i] = math.Abs(sums[g]) / total
+			}
 		}
 	}
 	return out
 }
 
-// addStack draws the terms' contributions to one component as stacked
-// bands: positive contributions stacked upwards from zero, negative ones
-// downwards, in the order of terms.
-func addStack(p *plot.Plot, xs []float64, contrib [][]float64, terms []splitTerm) {
-	n := len(xs)
-	pos := make([]float64, n)
-	neg := make([]float64, n)
-	for _, st := range terms {
-		c := contrib[st.index]
-		lo := make([]float64, n)
-		hi := make([]float64, n)
-		for i := 0; i < n; i++ {
-			v := c[i]
-			if math.IsNaN(v) {
-				v = 0
-			}
-			if v >= 0 {
-				lo[i], hi[i] = pos[i], pos[i]+v
-				pos[i] += v
-			} else {
-				lo[i], hi[i] = neg[i]+v, neg[i]
-				neg[i] += v
-			}
-		}
-		var poly plotter.XYs
-		for i := 0; i < n; i++ {
-			poly = append(poly, plotter.XY{X: xs[i], Y: hi[i]})
-		}
-		for i := n - 1; i >= 0; i-- {
-			poly = append(poly, plotter.XY{X: xs[i], Y: lo[i]})
-		}
-		pg, err := plotter.NewPolygon(poly)
-		if err != nil {
+// takeover is where the fibres come to carry half of an axis's load.
+type takeover struct {
+	// at is the stretch (or strain) where the fibres' fraction first
+	// reaches 0.5, interpolated between points; NaN when it never does
+	// or does from the first point with a load.
+	at float64
+	// from is true when the fibres carry at least half from the first
+	// point with a load; never when they stay below half throughout.
+	from, never bool
+	// first and last are the abscissae of the first and last points with
+	// a load.
+	first, last float64
+}
+
+// takeoverOf finds where the fibre fraction fib (over abscissa xs) first
+// reaches one half.
+func takeoverOf(xs, fib []float64) (takeover, bool) {
+	to := takeover{at: math.NaN(), first: math.NaN(), last: math.NaN()}
+	prev := -1
+	for i := range xs {
+		if bad(fib[i]) || bad(xs[i]) {
 			continue
 		}
-		pg.Color = st.color
-		pg.LineStyle = lineStyle(color.White, 0.6, false)
-		p.Add(pg)
+		if prev < 0 {
+			to.first = xs[i]
+			if fib[i] >= 0.5 {
+				to.from = true
+			}
+		} else if math.IsNaN(to.at) && !to.from && fib[prev] < 0.5 && fib[i] >= 0.5 {
+			f := (0.5 - fib[prev]) / (fib[i] - fib[prev])
+			to.at = xs[prev] + f*(xs[i]-xs[prev])
+		}
+		to.last = xs[i]
+		prev = i
 	}
+	if prev < 0 {
+		return to, false
+	}
+	to.never = !to.from && math.IsNaN(to.at)
+	return to, true
 }
 
-// splitFigure is the stacked split of protocol i.
-func (in *Input) splitFigure(i int, strain bool, terms []splitTerm) *figure {
+// fibreFraction sums the fractions of every group but the matrix.
+func fibreFraction(groups []string, shares [][]float64) []float64 {
+	out := make([]float64, len(shares[0]))
+	for g, name := range groups {
+		if name == "matrix" {
+			continue
+		}
+		for i, v := range shares[g] {
+			out[i] += v
+		}
+	}
+	return out
+}
+
+// groupLine is the colour of a split group's line: the matrix dark grey,
+// the first family blue, the second vermillion.
+func groupLine(group string, groups []string) color.NRGBA {
+	if group == "matrix" {
+		return tint(okabeBlack, 0.7)
+	}
+	for _, g := range groups {
+		if g != "matrix" {
+			if g == group {
+				return okabeBlue
+			}
+			break
+		}
+	}
+	return okabeVermillion
+}
+
+// axisDash is the dash pattern of an axis in the split figure: axis 1
+// solid, axis 2 dashed.
+func axisDash(comp string) []float64 {
+	if comp == "22" {
+		return []float64{4, 2.5}
+	}
+	return nil
+}
+
+// groupName names a split group in words.
+func groupName(g string) string {
+	if g == "matrix" {
+		return "matrix"
+	}
+	return "fibre family " + g
+}
+
+// splitFigure draws, per protocol, the fraction of each axis's modelled
+// stress carried by the matrix and by each fibre family against stretch,
+// with a mark at the stretch where the fibres take over half of the load;
+// nil when the fit has no fibre family or no normal components.
+func (in *Input) splitFigure(strain bool) *figure {
 	t := in.table
-	pr := t.protocols[i]
-	// Two panels side by side; four (with shear) in two rows.
-	cols := min(len(t.comps), 2)
-	rows := (len(t.comps) + cols - 1) / cols
-	lw := 2.5 * vg.Inch
-	f := &figure{name: protocolFileName("split", i, pr.label), w: vg.Length(cols)*3.4*vg.Inch + lw, h: vg.Length(rows)*3.1*vg.Inch + 0.5*vg.Inch,
-		title: fmt.Sprintf("Protocol %s: stress carried by each term", pr.label),
-		caption: "The modelled stress of each component divided into the contribution of every active energy term, stacked " +
-			"(contributions that pull the other way, such as the plane-stress pressure on a matrix term, stack below zero). " +
-			"Matrix terms in greys, the first fibre family in blues, the second in warm colours; the black line is the model total, dots the measured stress."}
-	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, fmt.Sprintf("Protocol %s — %s: stress split by term", pr.label, in.card.Specimen))
-		area, lc := splitColumns(dc, lw)
-		grid := make([][]*plot.Plot, rows)
-		for r := range grid {
-			grid[r] = make([]*plot.Plot, cols)
-		}
-		for ci, c := range t.comps {
-			p := newPlot(compSymbol(t.kind, c), abscissaLabel(isShear(c), strain, true), stressLabel(t.kind, t.unit), true)
-			xs := make([]float64, len(pr.F))
-			for k, F := range pr.F {
-				xs[k] = axisCoordinate(F, c, strain)
-			}
-			col := make([][]float64, len(t.terms))
-			for k := range t.terms {
-				col[k] = pr.contrib[k][ci]
-			}
-			addStack(p, xs, col, terms)
-			addCurve(p, xs, pr.model[ci], lineStyle(okabeBlack, 1.1, false))
-			addPoints(p, xs, pr.measured[ci], draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(1.1), Shape: draw.CircleGlyph{}})
-			grid[ci/cols][ci%cols] = p
-		}
-		tiles := draw.Tiles{Rows: rows, Cols: cols, PadX: vg.Points(12), PadY: vg.Points(12), PadBottom: vg.Points(2), PadRight: vg.Points(4)}
-		cs := plot.Align(grid, tiles, area)
-		for r, row := range grid {
-			for c, p := range row {
-				if p != nil {
-					p.Draw(cs[r][c])
-				}
-			}
-		}
-		l := newLegend(9)
-		for _, st := range terms {
-			l.Add(termDisplay(st.label), swatch{st.color})
-		}
-		l.Add("model total", lineThumb{lineStyle(okabeBlack, 1.1, false)})
-		l.Add("measured", glyphThumb{draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(1.6), Shape: draw.CircleGlyph{}}})
-		l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
+	groups := t.groupsOf()
+	if len(groups) < 2 || !t.hasNormal() {
 		return nil
 	}
-	return f
-}
-
-// luminance is the relative luminance of c (ITU-R BT.709 weights, common
-// practice), used to pick black or white text on a fill.
-func luminance(c color.NRGBA) float64 {
-	return (0.2126*float64(c.R) + 0.7152*float64(c.G) + 0.0722*float64(c.B)) / 255
-}
-
-// shareFigure is the bar chart of each group's share per protocol and
-// component, and of the strain energy at the largest stretch.
-func (in *Input) shareFigure() *figure {
-	sp := in.split
-	nb := 0
-	if len(sp.Protocols) > 0 {
-		nb = len(sp.Protocols[0].Components) + 1
-	}
-	w := vg.Length(len(sp.Protocols)*(nb+1))*0.3*vg.Inch + 2.9*vg.Inch
-	f := &figure{name: "split-shares", w: max(w, 7*vg.Inch), h: 4 * vg.Inch,
-		title: "Share of the matrix and each fibre family, per protocol",
-		caption: "For each protocol, the share of each group (matrix, each fibre family) in the modelled stress of every component — " +
-			"the sum of the magnitudes of its terms' contributions over the protocol's points — and in the strain energy Ψ at the protocol's largest deformation."}
-	f.draw = func(dc draw.Canvas) error {
-		dc = drawTitle(dc, in.card.Specimen+" — matrix and fibre shares")
-		area, lc := splitColumns(dc, 2.2*vg.Inch)
-		p := newBarePlot("", "", "share [%]", false)
-		var ticks []plot.Tick
-		lab := &textMarks{size: 7.5, xalign: draw.XCenter}
-		groupLab := &textMarks{size: 9, xalign: draw.XCenter}
-		const bw = 0.72
-		for pi, pp := range sp.Protocols {
-			x0 := float64(pi * (nb + 1))
-			type bar struct {
-				name   string
-				shares map[string]float64
-			}
-			var bars []bar
-			for _, c := range pp.Components {
-				m := map[string]float64{}
-				for g, v := range c.GroupShare {
-					m[g] = float64(v)
-				}
-				bars = append(bars, bar{compSymbol(in.table.kind, c.Component), m})
-			}
-			m := map[string]float64{}
-			for g, v := range pp.GroupEnergyShare {
-				m[g] = float64(v)
-			}
-			bars = append(bars, bar{"Ψ", m})
-			for j, b := range bars {
-				x := x0 + float64(j)
-				ticks = append(ticks, plot.Tick{Value: x, Label: b.name})
-				base := 0.0
-				for _, g := range sp.Groups {
-					v := 100 * b.shares[g]
-					if math.IsNaN(v) || v <= 0 {
-						continue
-					}
-					col := groupColors(g)[0]
-					pg, err := plotter.NewPolygon(plotter.XYs{{X: x - bw/2, Y: base}, {X: x + bw/2, Y: base}, {X: x + bw/2, Y: base + v}, {X: x - bw/2, Y: base + v}})
-					if err != nil {
-						return err
-					}
-					pg.Color = col
-					pg.LineStyle = lineStyle(color.White, 0.6, false)
-					p.Add(pg)
-					if v >= 9 {
-						tc := color.Color(color.Black)
-						if luminance(col) < 0.5 {
-							tc = color.White
-						}
-						lab.xs = append(lab.xs, x)
-						lab.ys = append(lab.ys, base+v/2)
-						lab.texts = append(lab.texts, fmt.Sprintf("%.0f", v))
-						lab.colors = append(lab.colors, tc)
-					}
-					base += v
-				}
-			}
-			groupLab.xs = append(groupLab.xs, x0+float64(nb-1)/2)
-			groupLab.ys = append(groupLab.ys, 106)
-			groupLab.texts = append(groupLab.texts, pp.Protocol)
-			groupLab.colors = append(groupLab.colors, color.Black)
+	n := len(t.protocols)
+	var legend []legendEntry
+	for _, ci := range t.componentsOf(false) {
+		c := t.comps[ci]
+		for _, g := range groups {
+			legend = append(legend, legendEntry{groupName(g) + ", axis " + c[:1], lineSample(lineStyle(groupLine(g, groups), 1.3, axisDash(c)...))})
 		}
-		p.Add(lab, groupLab)
-		p.X.Tick.Marker = plot.ConstantTicks(ticks)
-		p.X.Min, p.X.Max = -0.6, float64(len(sp.Protocols)*(nb+1)-1)-0.4
-		p.Y.Min, p.Y.Max = 0, 111
+	}
+	mark := draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(3.2), Shape: filledMark{n: 4}}
+	legend = append(legend, legendEntry{"fibres take over half the load", glyphSample(mark)})
+	panel := func(i int) *plot.Plot {
+		pr := t.protocols[i]
+		p := newPanel(pr.label, abscissaLabel(false, strain), "share of the load [%]", 5, 6)
+		lo, hi := math.Inf(1), math.Inf(-1)
+		var tx, ty []float64
+		for _, ci := range t.componentsOf(false) {
+			c := t.comps[ci]
+			xs := xsOf(pr.F, c, strain)
+			shares := t.groupShares(pr, ci, groups)
+			for g, name := range groups {
+				ys := make([]float64, len(xs))
+				for k, v := range shares[g] {
+					ys[k] = 100 * v
+				}
+				addCurve(p, xs, ys, lineStyle(groupLine(name, groups), 1.3, axisDash(c)...))
+			}
+			for _, x := range xs {
+				lo, hi = math.Min(lo, x), math.Max(hi, x)
+			}
+			if to, ok := takeoverOf(xs, fibreFraction(groups, shares)); ok && !math.IsNaN(to.at) {
+				tx, ty = append(tx, to.at), append(ty, 50)
+			}
+		}
+		if lo < hi {
+			addCurve(p, []float64{lo, hi}, []float64{50, 50}, lineStyle(color.Gray{0x80}, 0.6, 1, 2))
+		}
+		addPoints(p, tx, ty, mark)
+		p.Y.Min, p.Y.Max = 0, 100
 		p.Y.Tick.Marker = plot.ConstantTicks([]plot.Tick{{Value: 0, Label: "0"}, {Value: 25, Label: "25"}, {Value: 50, Label: "50"}, {Value: 75, Label: "75"}, {Value: 100, Label: "100"}})
-		p.Draw(area)
-		l := newLegend(9)
-		for _, g := range sp.Groups {
-			name := "matrix (isotropic terms)"
-			if g != "matrix" {
-				name = "fibre family " + g
-			}
-			l.Add(name, swatch{groupColors(g)[0]})
-		}
-		l.Draw(draw.Crop(lc, 0, 0, 0, -vg.Points(24)))
-		return nil
+		return p
 	}
-	return f
+	caption := "For each protocol and axis, the fraction of the modelled stress carried by the matrix (isotropic terms) and by each fibre family at every point (axis 1 solid, axis 2 dashed), from the per-term contributions in fit.csv: " +
+		"each group's summed contribution in magnitude over the sum of the groups' magnitudes. The diamond on the 50 % line marks the stretch at which the fibres come to carry half of the load (interpolated between points; listed in the table below). " +
+		"Points where the modelled stress is negligible (under 2 % of the protocol's largest normal stress) carry no load to share and are left out."
+	return tiledFigure("load-share", "Who carries the load: matrix and fibre families against stretch", caption, n, tileHeight(n), panel, legend)
 }

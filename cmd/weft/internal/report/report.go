@@ -1,9 +1,10 @@
 // Package report draws the fit report of an output folder: report.html, a
-// self-contained page, and each plot as SVG and PNG under plots/. It reads
-// only what a fit wrote into the folder (the model card and the fit table,
-// see Parse), so a report can be rebuilt without refitting, and it owns the
-// tables it reads (WriteFitTable, WriteHeldoutTable) and the selection table
-// written beside them.
+// self-contained page, and each plot as SVG (and, on request, PNG) under
+// plots/. It reads only what a fit wrote into the folder (the model card
+// and the tables, see Parse), so a report can be rebuilt without refitting,
+// and it owns the tables it reads (WriteFitTable, WriteHeldoutTable,
+// WriteCurveTable, WriteRawTable) and the selection table written beside
+// them.
 package report
 
 import "path"
@@ -15,53 +16,65 @@ type File struct {
 	Data []byte
 }
 
+// Options are how a report is drawn.
+type Options struct {
+	// Strain plots against Green strain E = ½(λ² − 1) instead of stretch.
+	Strain bool
+	// PNG also writes every plot as PNG (pngDPI, with its resolution in
+	// the file); the page itself needs only the SVGs.
+	PNG bool
+	// Software is the version of the program drawing the report, e.g.
+	// "(devel)" or "v1.2.0, revision 0123456789ab"; "" leaves it out.
+	Software string
+}
+
 // figures lists the report's figures in the order they appear.
 func (in *Input) figures(strain bool) []*figure {
 	t := in.table
 	var figs []*figure
-	if t.hasNormal() {
-		figs = append(figs, in.fitGridFigure(strain))
-	}
-	for i := range t.protocols {
-		figs = append(figs, in.fitFigure(i, strain))
-	}
-	if t.hasNormal() {
-		figs = append(figs, in.residualFigure(false, strain))
-	}
-	if t.hasShear() {
-		figs = append(figs, in.residualFigure(true, strain))
-	}
-	if in.split != nil && len(in.split.Protocols) > 0 {
-		figs = append(figs, in.shareFigure())
-	}
-	if terms := t.activeTerms(); len(terms) > 0 {
-		for i := range t.protocols {
-			figs = append(figs, in.splitFigure(i, strain, terms))
-		}
-	}
-	for _, f := range []*figure{in.profileFigure(), in.paretoFigure(), in.crossFigure()} {
+	add := func(f *figure) {
 		if f != nil {
 			figs = append(figs, f)
 		}
 	}
+	if t.hasNormal() {
+		add(in.fitGridFigure(strain))
+	}
+	add(in.rawFigure())
+	if t.hasShear() {
+		add(in.shearFigure(strain))
+	}
+	add(in.presetsFigure(strain))
+	if t.hasNormal() {
+		add(in.residualFigure(false, strain))
+	}
+	if t.hasShear() {
+		add(in.residualFigure(true, strain))
+	}
+	add(in.splitFigure(strain))
+	add(in.profileFigure())
+	add(in.paretoFigure())
 	return figs
 }
 
-// Build draws every figure and writes report.html, plotted against stretch
-// or, with strain, against Green strain; it returns the files in a fixed
-// order (report.html first, then plots/ by figure order, SVG before PNG).
-func Build(in *Input, strain bool) ([]File, error) {
-	figs, err := renderAll(in.figures(strain))
+// Build draws every figure and writes report.html; it returns the files in
+// a fixed order (report.html first, then plots/ by figure order, SVG
+// before PNG).
+func Build(in *Input, o Options) ([]File, error) {
+	figs, err := renderAll(in.figures(o.Strain), o.PNG)
 	if err != nil {
 		return nil, err
 	}
-	html, err := reportHTML(in, figs, strain)
+	html, err := reportHTML(in, figs, o)
 	if err != nil {
 		return nil, err
 	}
 	files := []File{{Rel: "report.html", Data: html}}
 	for _, f := range figs {
-		files = append(files, File{Rel: path.Join("plots", f.name+".svg"), Data: f.svg}, File{Rel: path.Join("plots", f.name+".png"), Data: f.png})
+		files = append(files, File{Rel: path.Join("plots", f.name+".svg"), Data: f.svg})
+		if f.png != nil {
+			files = append(files, File{Rel: path.Join("plots", f.name+".png"), Data: f.png})
+		}
 	}
 	return files, nil
 }

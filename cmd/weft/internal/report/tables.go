@@ -84,13 +84,13 @@ func WriteFitTable(w io.Writer, p *aniso.Problem, m *aniso.Model) error {
 // per-fold held-out errors.
 func WriteSelectionTable(w io.Writer, p *aniso.Problem, d *aniso.Discovery) error {
 	cw := csv.NewWriter(w)
-	h := []string{"set", "name", "layout", "spread", "terms", "size", "parameters", "loss", "aicc", "bic", "min_r2", "cv_error", "cv_stderr", "chosen"}
+	h := []string{"set", "name", "layout", "spread", "terms", "size", "parameters", "loss", "aicc", "bic", "lowest_r2", "heldout_error", "heldout_stderr", "chosen"}
 	for _, pi := range p.Protocols {
-		h = append(h, "cv_error_without_"+p.Specimen.Protocols[pi].Label)
+		h = append(h, "heldout_error_without_"+p.Specimen.Protocols[pi].Label)
 	}
 	cw.Write(h)
 	emit := func(set string, c *aniso.Candidate, chosen bool) {
-		r := c.Result
+		r := c.Compared()
 		var ts string
 		for i, t := range r.Structure.Terms {
 			if r.Weights[i] > 0 {

@@ -3,9 +3,13 @@ package report
 import (
 	"fmt"
 	"math"
+	"regexp"
 	"sort"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
+	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 )
 
@@ -13,7 +17,7 @@ import (
 // builder fills its part of the reportView.
 
 // view formats the input for the template.
-func (in *Input) view(figs []renderedFigure, strain bool) *reportView {
+func (in *Input) view(figs []renderedFigure, o Options) *reportView {
 	c, d := in.card, in.data
 	v := &reportView{Specimen: c.Specimen, Tissue: d.Tissue, DataNotes: sentence(d.Notes), Synthetic: in.isSynthetic(), Cautions: card.Cautions,
 		Limits: "Planar biaxial data constrain the in-plane response only; the out-of-plane response and the response to I5 are not fully determined by them (Holzapfel & Ogden 2009, Math Mech Solids 14:474–489)."}
@@ -21,20 +25,30 @@ func (in *Input) view(figs []renderedFigure, strain bool) *reportView {
 		v.Specimen = d.Specimen
 	}
 	v.Abscissa = "stretch λ"
-	if strain {
+	if o.Strain {
 		v.Abscissa = "Green strain E = ½(λ² − 1)"
+	}
+	v.figs = map[string]*htmlFigure{}
+	for _, f := range figs {
+		hf := toHTMLFigure(f, o.PNG)
+		v.figs[f.name] = &hf
 	}
 	in.glance(v)
 	in.dataSection(v)
 	in.modelSection(v)
-	placeFigures(v, figs)
+	in.fitSection(v)
+	in.admissibleSection(v)
 	in.splitSection(v)
 	in.verdictSection(v)
 	in.selectionSection(v)
+	in.methodsSection(v, o)
 	in.conventionsSection(v)
-	v.Files = in.folderFiles(len(figs))
+	v.Files = in.folderFiles(len(figs), o.PNG)
 	return v
 }
+
+// fig returns the rendered figure of that name, or nil.
+func (v *reportView) fig(name string) *htmlFigure { return v.figs[name] }
 
 // angle writes a family angle; without shear information its sign is
 // unknown and it is written ±|α|.
@@ -50,15 +64,9 @@ func (in *Input) glance(v *reportView) {
 	c, d, fs := in.card, in.data, in.fit
 	how := "chosen form: " + strings.Join(fs.Terms, " + ") + ", " + fs.Layout + " fibre layout (fitted as asked, not discovered)"
 	if in.sel != nil {
-		how = "discovered: " + in.sel.Chosen
+		how = "discovered: " + in.sel.Chosen + " (" + formCodeText(in.sel.Chosen) + ")"
 	}
 	v.HowFound = how
-	minR2 := math.Inf(1)
-	for _, m := range fs.Metrics {
-		if r := float64(m.R2); !math.IsNaN(r) {
-			minR2 = math.Min(minR2, r)
-		}
-	}
 	var angles []string
 	for _, f := range c.Families {
 		if f.AngleDeg != nil {
@@ -72,83 +80,207 @@ func (in *Input) glance(v *reportView) {
 	if pair := PairText(c.Layout); pair != "" {
 		fams += "; " + pair
 	}
-	v.Summary = []htmlFact{{"Model", how}, {"Energy", strings.TrimPrefix(c.Energy, "Psi = ")}, {"Fibre families", fams}}
+	v.Summary = []htmlFact{{Name: "Model", Value: how}}
+	v.Summary = append(v.Summary, htmlFact{Name: "Fibre families", Value: fams})
 	if in.verdict != nil {
-		v.Summary = append(v.Summary, htmlFact{"Family verdict", verdictText(in.verdict.Families)})
+		v.Summary = append(v.Summary, htmlFact{Name: "Family verdict", Value: verdictText(in.verdict.Families)})
 	}
-	if !math.IsInf(minR2, 1) {
-		v.Summary = append(v.Summary, htmlFact{"Lowest R² (any protocol and axis)", fmtR2(minR2)})
+	if low := lowestR2(fs.Metrics); !math.IsInf(low, 1) {
+		v.Summary = append(v.Summary, htmlFact{Name: "Lowest R² (any protocol and component)", Value: fmtR2(low)})
 	}
-	v.Summary = append(v.Summary, htmlFact{"Data", fmt.Sprintf("%d protocols, %s stress in %s", len(in.table.protocols), d.StressKind, d.StressUnit)})
+	if in.sel != nil {
+		for _, cc := range in.sel.Pareto {
+			if cc.Chosen {
+				v.Summary = append(v.Summary, htmlFact{Name: "Held-out error", Value: heldoutText(cc) + " (leave one protocol out; 0.01 ≈ 1 % of a protocol-axis stress range)"})
+			}
+		}
+	}
+	v.Summary = append(v.Summary, htmlFact{Name: "Data", Value: fmt.Sprintf("%d protocols, %d points fitted, %s stress in %s", len(in.table.protocols), in.pointCount(), d.StressKind, d.StressUnit)})
+	if p := c.Provenance; p != nil {
+		v.Summary = append(v.Summary, htmlFact{Name: "Fitted by", Value: "weft " + p.VersionText()})
+	}
+	// The energy heads the page when it is short; a long one is in "Model
+	// and parameters".
+	if _, terms := energyTerms(c.EnergyLaTeX); len(terms) <= 3 && len(c.EnergyLaTeX) < 3*longTerm {
+		if m, err := energyMathML(c.EnergyLaTeX, c.Energy, true); err == nil && c.EnergyLaTeX != "" {
+			v.GlanceEnergy = m
+		}
+	}
+	v.GlanceFigure = v.fig("fit-all")
 }
 
-// dataSection writes the specimen, its protocols, warnings and notices, and the range of the fitted data.
+// pointCount is the number of points in fit.csv.
+func (in *Input) pointCount() int {
+	n := 0
+	for _, pr := range in.table.protocols {
+		n += len(pr.F)
+	}
+	return n
+}
+
+// lowestR2 is the lowest defined R² of the metrics, +Inf when none is.
+func lowestR2(ms []card.MetricCard) float64 {
+	low := math.Inf(1)
+	for _, m := range ms {
+		if r := float64(m.R2); !math.IsNaN(r) {
+			low = math.Min(low, r)
+		}
+	}
+	return low
+}
+
+// formCode reads a discovered model form's name: layout, the number of
+// terms (t) and of parameters (p).
+var formCode = regexp.MustCompile(`^(none|single|mirror|free)(\+dispersed|\+kappa)?-t(\d+)-p(\d+)$`)
+
+// formCodeText explains a model form's name in words, or "" for another
+// name.
+func formCodeText(name string) string {
+	m := formCode.FindStringSubmatch(name)
+	if m == nil {
+		return ""
+	}
+	lay := map[string]string{"none": "no fibre family", "single": "one fibre family", "mirror": "a mirror pair", "free": "two free families"}[m[1]]
+	switch m[2] {
+	case "+dispersed":
+		lay += " spread in the plane"
+	case "+kappa":
+		lay += " with dispersion κ"
+	}
+	return fmt.Sprintf("%s, %s terms, %s parameters", lay, m[3], m[4])
+}
+
+// dataSection writes the specimen, its set-up, its protocols, warnings and
+// notices, and the range of the fitted data.
 func (in *Input) dataSection(v *reportView) {
 	c, d := in.card, in.data
 	shear := "none: pure biaxial stretch; the sign of a fibre angle cannot be determined"
 	if d.HasShear {
 		shear = "present (F12, F21 or shear stress measured)"
 	}
-	v.Data = []htmlFact{{"Specimen", d.Specimen}, {"Source file", d.Source}}
+	v.Data = []htmlFact{{Name: "Specimen", Value: d.Specimen}, {Name: "Source file", Value: d.Source}}
+	if p := c.Provenance; p != nil {
+		for _, f := range p.Inputs {
+			if f.File == d.Source {
+				v.Data = append(v.Data, htmlFact{Name: "SHA-256 of the source", Value: f.SHA256, Mono: true}, htmlFact{Name: "Size", Value: fmt.Sprintf("%d bytes", f.Bytes)})
+			}
+		}
+	}
 	if d.Sheet != "" {
-		v.Data = append(v.Data, htmlFact{"Sheet", d.Sheet})
+		v.Data = append(v.Data, htmlFact{Name: "Sheet", Value: d.Sheet})
 	}
 	if d.Tissue != "" {
-		v.Data = append(v.Data, htmlFact{"Tissue", d.Tissue})
+		v.Data = append(v.Data, htmlFact{Name: "Tissue", Value: d.Tissue})
 	}
 	if d.Notes != "" {
-		v.Data = append(v.Data, htmlFact{"Notes", d.Notes})
+		v.Data = append(v.Data, htmlFact{Name: "Notes", Value: d.Notes})
 	}
 	if d.Axis1 != "" {
-		v.Data = append(v.Data, htmlFact{"Axis 1", d.Axis1})
+		v.Data = append(v.Data, htmlFact{Name: "Axis 1", Value: d.Axis1})
 	}
-	v.Data = append(v.Data, htmlFact{"Stress", d.StressKind + " stress in " + d.StressUnit}, htmlFact{"Reference state", d.Reference},
-		htmlFact{"Shear information", shear})
-	v.Protocols.Head = []string{"protocol", "points fitted", "kept branch", "cycles", "weight"}
+	in.setupFacts(v)
+	v.Data = append(v.Data, htmlFact{Name: "Stress", Value: d.StressKind + " stress in " + d.StressUnit}, htmlFact{Name: "Reference state", Value: d.Reference},
+		htmlFact{Name: "Shear information", Value: shear})
+	v.Protocols = htmlTable{Head: []string{"protocol", "points fitted", "kept", "cycles", "protocol weight"}, Num: []bool{false, true, false, true, true}}
+	if in.raw != nil {
+		v.Protocols.Head = append(v.Protocols.Head, "preload (first row)")
+		v.Protocols.Num = append(v.Protocols.Num, true)
+	}
 	for _, p := range d.Protocols {
-		v.Protocols.Rows = append(v.Protocols.Rows, htmlRow{Cells: []string{p.Label, fmt.Sprint(p.Points), p.Kept, fmt.Sprint(p.Cycles), fnum(p.Weight, 4)}})
+		row := []string{p.Label, fmt.Sprint(p.Points), p.Kept, fmt.Sprint(p.Cycles), fsig(p.Weight, 3)}
+		if in.raw != nil {
+			row = append(row, in.preloadText(p.Label))
+		}
+		v.Protocols.Rows = append(v.Protocols.Rows, htmlRow{Cells: row})
 	}
 	v.Warnings, v.Notices = d.Warnings, d.Notices
 	if dr := in.dataRange; dr != nil {
-		rng := func(r [2]float64) string { return fnum(r[0], 5) + " to " + fnum(r[1], 5) }
-		v.Range = []htmlFact{{"Stretch λ1 (F11)", rng(dr.Stretch1)}, {"Stretch λ2 (F22)", rng(dr.Stretch2)}, {"Shear F12, F21", rng(dr.Shear)}}
+		rng := func(r [2]float64) string { return fsig(r[0], 4) + " to " + fsig(r[1], 4) }
+		v.Range = []htmlFact{{Name: "Stretch λ1 (F11)", Value: rng(dr.Stretch1)}, {Name: "Stretch λ2 (F22)", Value: rng(dr.Stretch2)}, {Name: "Shear F12, F21", Value: rng(dr.Shear)}}
 		for i, r := range dr.FibreStretch {
 			name := fmt.Sprintf("family %d", i+1)
 			if i < len(c.Families) {
 				name = c.Families[i].Name
 			}
-			v.Range = append(v.Range, htmlFact{"Fibre stretch √I4 of " + name, rng(r)})
+			v.Range = append(v.Range, htmlFact{Name: "Fibre stretch √I4 of " + name, Value: rng(r)})
 		}
+	}
+	v.RawFigure = v.fig("raw")
+}
+
+// setupFacts writes the specimen's geometry and how it was tested.
+func (in *Input) setupFacts(v *reportView) {
+	st := in.card.Setup
+	if st == nil {
+		return
+	}
+	if st.ThicknessMM != nil && st.Size1MM != nil && st.Size2MM != nil {
+		v.Data = append(v.Data, htmlFact{Name: "Geometry", Value: fmt.Sprintf("thickness H = %s mm; loaded region W1 = %s mm along axis 1, W2 = %s mm along axis 2",
+			fsig(*st.ThicknessMM, 3), fsig(*st.Size1MM, 3), fsig(*st.Size2MM, 3))})
+	} else {
+		v.Data = append(v.Data, htmlFact{Name: "Geometry", Value: "not given in the file (thickness, size_1, size_2)"})
+	}
+	how := "stress columns of the file"
+	if st.StressFrom == "loads and geometry" {
+		how = "loads of the file turned into nominal stress, P11 = load_1/(W2·H), P22 = load_2/(W1·H)"
+	}
+	kin := "stretches (pure biaxial stretch, no shear measured)"
+	if st.Kinematics == "deformation gradient" {
+		kin = "deformation gradient F11, F12, F21, F22 (e.g. from tracked markers)"
+	}
+	control := st.Control
+	if control == "" {
+		control = "not stated in the file (metadata 'control')"
+	}
+	v.Data = append(v.Data, htmlFact{Name: "Stress from", Value: how}, htmlFact{Name: "Deformation from", Value: kin}, htmlFact{Name: "Control", Value: control})
+	for _, m := range st.Metadata {
+		v.Data = append(v.Data, htmlFact{Name: m.Key, Value: m.Value})
 	}
 }
 
-// modelSection writes the energy, the term, family and parameter tables, the angle profiles and the fit quality.
+// preloadText is the stress of a protocol's first row in raw.csv.
+func (in *Input) preloadText(label string) string {
+	rr := in.raw.protos[label]
+	if rr == nil || len(rr.F) == 0 {
+		return "—"
+	}
+	t := in.table
+	var parts []string
+	for _, ci := range t.componentsOf(false) {
+		parts = append(parts, compSymbol(t.kind, t.comps[ci])+" "+fsig(rr.stress[ci][0], 3))
+	}
+	return strings.Join(parts, ", ") + " " + t.unit
+}
+
+// modelSection writes the energy, the term, family and parameter tables and the fit quality.
 func (in *Input) modelSection(v *reportView) {
 	c := in.card
-	v.Energy = c.Energy
-	v.EnergyLaTeX = c.EnergyLaTeX
-	v.Terms.Head = []string{"term", "family", "weight [" + c.StressUnit + "]", "parameters", "term w·f(x)"}
+	v.EnergyPlain = c.Energy
+	if m, err := energyMathML(c.EnergyLaTeX, c.Energy, true); err == nil && c.EnergyLaTeX != "" {
+		v.EnergyMath = m
+	}
+	v.Terms = htmlTable{Head: []string{"term", "family", "weight [" + c.StressUnit + "]", "parameters", "term w·f(x)"}, Num: []bool{false, false, true, false, false}}
 	for _, t := range c.Terms {
 		w := math.NaN()
 		if t.Weight != nil {
 			w = *t.Weight
 		}
-		var ps []string
 		var names []string
 		for k := range t.Params {
 			names = append(names, k)
 		}
 		sort.Strings(names)
+		var ps []string
 		for _, k := range names {
-			ps = append(ps, k+" = "+fnum(t.Params[k], 6))
+			ps = append(ps, k+" = "+fsig(t.Params[k], 4))
 		}
 		fam := t.Family
 		if fam == "" {
 			fam = "matrix"
 		}
-		v.Terms.Rows = append(v.Terms.Rows, htmlRow{Cells: []string{t.ID, fam, fnum(w, 6), strings.Join(ps, ", "), t.Formula}})
+		v.Terms.Rows = append(v.Terms.Rows, htmlRow{Cells: []string{t.ID, fam, fsig(w, 4), strings.Join(ps, ", "), t.Formula}})
 	}
-	v.Families.Head = []string{"family", "angle α", "sign known", "spread"}
+	v.Families = htmlTable{Head: []string{"family", "angle α", "sign known", "spread"}, Num: []bool{false, true, false, false}}
 	for _, f := range c.Families {
 		a, k := math.NaN(), "ideal (aligned)"
 		if f.AngleDeg != nil {
@@ -156,9 +288,9 @@ func (in *Input) modelSection(v *reportView) {
 		}
 		switch {
 		case f.Concentration != nil:
-			k = "in the plane, concentration b = " + fnum(*f.Concentration, 4)
+			k = "in the plane, concentration b = " + fsig(*f.Concentration, 3)
 		case f.Dispersion != nil && *f.Dispersion != 0:
-			k = "dispersion κ = " + fnum(*f.Dispersion, 4)
+			k = "dispersion κ = " + fsig(*f.Dispersion, 3)
 		}
 		known := "not stated"
 		if f.AngleSignKnown != nil {
@@ -170,43 +302,62 @@ func (in *Input) modelSection(v *reportView) {
 	in.qualitySection(v)
 }
 
-// parameterSection writes the parameter table with its statuses and the
-// angle profiles' intervals.
+// profileOf returns the angle profile of an estimate, if there is one.
+func (in *Input) profileOf(name string) (card.ProfileCard, bool) {
+	for _, p := range in.fit.Profiles {
+		if p.Name == name {
+			return p, true
+		}
+	}
+	return card.ProfileCard{}, false
+}
+
+// parameterSection writes the parameter table with its statuses: one 95 %
+// interval per quantity, the profile-likelihood interval for an angle that
+// has a profile and the Gauss–Newton (Wald) interval otherwise.
 func (in *Input) parameterSection(v *reportView) {
 	fs := in.fit
-	v.Params.Head = []string{"parameter", "value", "95 % interval", "std. error", "unit", "status"}
+	v.Params = htmlTable{Head: []string{"parameter", "value", "95 % interval", "from", "std. error", "unit", "status"}, Num: []bool{false, true, true, false, true, false, false}}
 	var statuses []string
 	for _, e := range fs.Estimates {
 		if e.Status == "inactive" && e.Kind != "weight" {
 			continue
 		}
-		val := fnum(float64(e.Value), 5)
+		val := fsig(float64(e.Value), 4)
 		if e.Kind == "angle" && in.signUnknown() && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
-			val = "±" + fnum(math.Abs(float64(e.Value)), 5)
+			val = "±" + fsig(math.Abs(float64(e.Value)), 4)
 		}
-		iv := "—"
+		iv, from := "—", ""
 		if lo, hi := float64(e.CI95[0]), float64(e.CI95[1]); !math.IsNaN(lo) && !math.IsNaN(hi) {
-			iv = "[" + fnum(lo, 4) + ", " + fnum(hi, 4) + "]"
+			iv, from = "["+fsig(lo, 3)+", "+fsig(hi, 3)+"]", "Wald"
+		}
+		if p, ok := in.profileOf(e.Name); ok && e.Kind == "angle" {
+			switch {
+			case p.NotDetermined:
+				iv, from = "none excluded", "profile"
+			default:
+				iv, from = "["+fsig(float64(p.IntervalDeg[0]), 4)+", "+fsig(float64(p.IntervalDeg[1]), 4)+"]", "profile"
+				if !p.Closed {
+					from = "profile (open)"
+				}
+			}
 		}
 		unit := e.Unit
 		if unit == "" {
 			unit = "–"
 		}
-		v.Params.Rows = append(v.Params.Rows, htmlRow{Cells: []string{e.Name, val, iv, fnum(float64(e.StdErr), 3), unit, e.Status}})
+		v.Params.Rows = append(v.Params.Rows, htmlRow{Cells: []string{e.Name, val, iv, from, fsig(float64(e.StdErr), 2), unit, e.Status}})
 		statuses = append(statuses, e.Status)
 	}
 	v.Statuses = StatusLegend(statuses)
-	for _, p := range fs.Profiles {
-		s := fmt.Sprintf("%s: profile-likelihood 95 %% interval %s to %s", p.Name, fmtDeg(float64(p.IntervalDeg[0])), fmtDeg(float64(p.IntervalDeg[1])))
-		if p.NotDetermined {
-			s = fmt.Sprintf("%s: not determined: the loss profile stays below the 95 %% threshold over the angle's whole range", p.Name)
-		} else if !p.Closed {
-			s += " (not bounded by the data at one end)"
-		}
-		if p.Mirrored && !p.NotDetermined {
-			s += "; sign not determined, the mirror image is equally good"
-		}
-		v.Profiles = append(v.Profiles, s)
+	if len(fs.Profiles) > 0 {
+		v.ParamNote = "An angle's interval is its profile-likelihood interval (Venzon & Moolgavkar 1988): it follows the loss itself and stays inside the angle's period. The other intervals are Wald intervals from the Gauss–Newton covariance (Bates & Watts 1988); model.json holds both for every angle. An open profile interval is not bounded by the data at one end."
+	} else {
+		v.ParamNote = "Intervals are Wald intervals from the Gauss–Newton covariance (Bates & Watts 1988), kept inside each quantity's domain."
+	}
+	v.Combinations = nil
+	for _, cc := range fs.Combinations {
+		v.Combinations = append(v.Combinations, cc.Text)
 	}
 }
 
@@ -215,125 +366,238 @@ func (in *Input) parameterSection(v *reportView) {
 func (in *Input) qualitySection(v *reportView) {
 	fs := in.fit
 	v.Flags, v.Notes = fs.Flags, fs.Notes
-	v.Metrics.Head = []string{"protocol", "component", "points", "R²", "RMSE [" + fs.StressUnit + "]", "NRMSE"}
-	if in.heldout != nil {
-		v.Metrics.Head = append(v.Metrics.Head, "held-out R²")
-	}
-	for _, m := range fs.Metrics {
-		nr := "—"
-		if x := float64(m.NRMSE); !math.IsNaN(x) {
-			nr = fmt.Sprintf("%.2f %%", 100*x)
+	// One row per protocol, a column group per measure and component.
+	comps := in.table.comps
+	var r2Comps []string // components with an R² somewhere
+	for _, c := range comps {
+		for _, m := range fs.Metrics {
+			if m.Component == c && !math.IsNaN(float64(m.R2)) {
+				r2Comps = append(r2Comps, c)
+				break
+			}
 		}
-		row := []string{m.Protocol, compSymbol(fs.StressKind, m.Component), fmt.Sprint(m.Points), fmtR2(float64(m.R2)), fnum(float64(m.RMSE), 3), nr}
+	}
+	v.Metrics = htmlTable{Head: []string{"protocol", "points"}, Num: []bool{false, true}}
+	col := func(h string) { v.Metrics.Head, v.Metrics.Num = append(v.Metrics.Head, h), append(v.Metrics.Num, true) }
+	for _, c := range r2Comps {
+		col("R² " + compSymbol(fs.StressKind, c))
+	}
+	for _, c := range comps {
+		col("RMSE " + compSymbol(fs.StressKind, c))
+	}
+	for _, c := range r2Comps {
+		col("NRMSE " + compSymbol(fs.StressKind, c))
+	}
+	if in.heldout != nil {
+		for _, c := range r2Comps {
+			col("held-out R² " + compSymbol(fs.StressKind, c))
+		}
+	}
+	for _, pr := range in.table.protocols {
+		row := []string{pr.label, fmt.Sprint(len(pr.F))}
+		for _, c := range r2Comps {
+			m, _ := in.metric(pr.label, c)
+			row = append(row, fmtR2(float64(m.R2)))
+		}
+		for _, c := range comps {
+			m, ok := in.metric(pr.label, c)
+			x := math.NaN()
+			if ok {
+				x = float64(m.RMSE)
+			}
+			row = append(row, fsig(x, 3))
+		}
+		for _, c := range r2Comps {
+			nr := "—"
+			if m, ok := in.metric(pr.label, c); ok && !math.IsNaN(float64(m.NRMSE)) {
+				nr = fmt.Sprintf("%.2f %%", 100*float64(m.NRMSE))
+			}
+			row = append(row, nr)
+		}
 		if in.heldout != nil {
-			row = append(row, in.heldoutR2(m.Protocol, m.Component))
+			for _, c := range r2Comps {
+				row = append(row, in.heldoutR2(pr.label, c))
+			}
 		}
 		v.Metrics.Rows = append(v.Metrics.Rows, htmlRow{Cells: row})
 	}
+	v.MetricsNote = "RMSE in " + fs.StressUnit + "; NRMSE = RMSE / the component's stress range in the protocol."
 }
 
-// placeFigures sorts the rendered figures into the page's sections by their names.
-func placeFigures(v *reportView, figs []renderedFigure) {
-	for _, f := range figs {
-		hf := toHTMLFigure(f)
-		switch {
-		case f.name == "fit-all" || strings.HasPrefix(f.name, "fit-"):
-			v.FitFigures = append(v.FitFigures, hf)
-		case strings.HasPrefix(f.name, "residuals"):
-			v.ResidualFigures = append(v.ResidualFigures, hf)
-		case f.name == "split-shares":
-			v.ShareFigure = &hf
-		case strings.HasPrefix(f.name, "split-"):
-			v.SplitFigures = append(v.SplitFigures, hf)
-		case f.name == "angle-profile":
-			v.ProfileFigure = &hf
-		case f.name == "pareto":
-			v.ParetoFigure = &hf
-		case f.name == "cross-r2":
-			v.CrossFigure = &hf
+// fitSection places the figures of measured and modelled stress.
+func (in *Input) fitSection(v *reportView) {
+	for _, n := range []string{"fit-shear", "presets", "residuals", "residuals-shear"} {
+		if f := v.fig(n); f != nil {
+			v.FitFigures = append(v.FitFigures, *f)
 		}
 	}
 }
 
-// splitSection writes the matrix/fibre split table.
-func (in *Input) splitSection(v *reportView) {
-	fs := in.fit
-	if sp := in.split; sp != nil {
-		v.SplitMeasure = sp.Measure
-		v.SplitTable.Head = []string{"protocol", "component"}
-		for _, g := range sp.Groups {
-			v.SplitTable.Head = append(v.SplitTable.Head, g)
-		}
-		v.SplitTable.Head = append(v.SplitTable.Head, "energy at the largest deformation")
-		for _, pp := range sp.Protocols {
-			for ci, cc := range pp.Components {
-				row := []string{pp.Protocol, compSymbol(fs.StressKind, cc.Component)}
-				for _, g := range sp.Groups {
-					row = append(row, pct(float64(cc.GroupShare[g])))
-				}
-				e := ""
-				if ci == 0 {
-					var es []string
-					for _, g := range sp.Groups {
-						es = append(es, g+" "+pct(float64(pp.GroupEnergyShare[g])))
-					}
-					e = strings.Join(es, ", ")
-				}
-				v.SplitTable.Rows = append(v.SplitTable.Rows, htmlRow{Cells: append(row, e)})
-			}
-		}
-	}
-}
-
-// verdictSection writes the family verdict and its table of fibre layouts.
+// verdictSection writes the family verdict and its table of fibre
+// layouts: each layout's best model with its angles, ΔBIC and held-out
+// error, the verdict's row marked.
 func (in *Input) verdictSection(v *reportView) {
-
-	if vd := in.verdict; vd != nil {
-		v.HasVerdict = true
-		v.Verdict, v.Reason, v.Decider = verdictText(vd.Families), vd.Reason, vd.Decider
-		v.VerdictTable.Head = []string{"fibre layout (best model of each)", "ΔBIC", "held-out error"}
-		for _, k := range formKeysInOrder(vd.DeltaBIC) {
-			b, okb := vd.DeltaBIC[k]
-			e, oke := vd.CVError[k]
-			if !okb && !oke {
-				continue
-			}
-			bs, es := "—", "—"
-			if okb {
-				bs = fnum(float64(b), 4)
-			}
-			if oke {
-				es = fnum(float64(e), 4)
-			}
-			v.VerdictTable.Rows = append(v.VerdictTable.Rows, htmlRow{Cells: []string{layoutKeyText(k), bs, es}, Mark: k == vd.Form})
+	vd := in.verdict
+	v.ProfileFigure = v.fig("angle-profile")
+	if vd == nil {
+		return
+	}
+	v.HasVerdict = true
+	v.Verdict = capitalise(verdictText(vd.Families))
+	v.Reason, v.Decider = capitalise(minusSigns(vd.Reason)), capitalise(minusSigns(vd.Decider))
+	for _, r := range vd.RuledOut {
+		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))
+	}
+	v.VerdictTable = htmlTable{Head: []string{"fibre layout (best model of each)", "model", "angles", "ΔBIC", "held-out error", "verdict"},
+		Num: []bool{false, false, true, true, true, false}}
+	keys := map[string]card.Num{}
+	for k, x := range vd.DeltaBIC {
+		keys[k] = x
+	}
+	for k := range vd.HeldoutError {
+		if _, ok := keys[k]; !ok {
+			keys[k] = card.Num(math.NaN())
 		}
+	}
+	for _, k := range formKeysInOrder(keys) {
+		b, okb := vd.DeltaBIC[k]
+		e, oke := vd.HeldoutError[k]
+		bs, es := "—", "—"
+		if okb {
+			bs = fixed(float64(b), 1)
+		}
+		if oke {
+			es = fsig(float64(e), 3)
+		}
+		name, angles := "—", "—"
+		if best, ok := in.formBest(k); ok {
+			name, angles = best.Name, in.anglesOf(best)
+		}
+		mark := ""
+		if k == vd.Form {
+			mark = "◀ verdict"
+		}
+		v.VerdictTable.Rows = append(v.VerdictTable.Rows, htmlRow{Cells: []string{layoutKeyText(k), name, angles, bs, es, mark}, Mark: k == vd.Form})
 	}
 }
 
-// selectionSection writes the selection rule and the tables of the model forms kept and of the presets.
-func (in *Input) selectionSection(v *reportView) {
+// formBest is the best cross-validated model of a form of the selection
+// (lowest held-out error, fewer parameters on a tie), or the lowest BIC
+// when none of the form was cross-validated — the model the verdict's
+// numbers for that form come from.
+func (in *Input) formBest(key string) (card.CandidateCard, bool) {
+	if in.sel == nil {
+		return card.CandidateCard{}, false
+	}
+	best, bestCV := -1, false
+	for i, c := range in.sel.Pareto {
+		if verdictKey(c) != key {
+			continue
+		}
+		cv := !bad(float64(c.HeldoutError))
+		switch {
+		case best < 0, cv && !bestCV:
+			best, bestCV = i, cv
+		case cv && bestCV:
+			b := in.sel.Pareto[best]
+			if c.HeldoutError < b.HeldoutError || c.HeldoutError == b.HeldoutError && c.Parameters < b.Parameters {
+				best = i
+			}
+		case !cv && !bestCV && c.BIC < in.sel.Pareto[best].BIC:
+			best = i
+		}
+	}
+	if best < 0 {
+		return card.CandidateCard{}, false
+	}
+	return in.sel.Pareto[best], true
+}
 
-	if sel := in.sel; sel != nil {
-		v.HasSelection = true
-		v.Rule, v.CVMetric, v.Search = sel.Rule, sel.CVMetric, sel.Search
-		head := []string{"model form", "terms", "parameters", "loss", "BIC", "held-out error", "lowest R²"}
-		v.Pareto.Head = append(head, "")
-		chosenBIC := math.NaN()
-		for _, cc := range sel.Pareto {
-			if cc.Chosen {
-				chosenBIC = float64(cc.BIC)
-			}
+// anglesOf writes a candidate's family angles, ±|α| without shear
+// information, noting two families that point the same way.
+func (in *Input) anglesOf(c card.CandidateCard) string {
+	if len(c.AnglesDeg) == 0 {
+		return "—"
+	}
+	var s []string
+	for _, a := range c.AnglesDeg {
+		s = append(s, in.angle(float64(a)))
+	}
+	out := strings.Join(s, ", ")
+	if len(c.AnglesDeg) == 2 {
+		d := math.Abs(math.Mod(float64(c.AnglesDeg[0]-c.AnglesDeg[1])+540, 180) - 0)
+		d = math.Min(d, 180-d)
+		if d < 2 && !in.signUnknown() {
+			out += " (coincident: one direction)"
 		}
-		for _, cc := range sel.Pareto {
-			mark := ""
-			if cc.Chosen {
-				mark = "chosen"
-			}
-			v.Pareto.Rows = append(v.Pareto.Rows, htmlRow{Cells: append(candidateCells(cc), mark), Mark: cc.Chosen})
+	}
+	return out
+}
+
+// selectionSection writes the selection rule and the tables of the model
+// forms kept, the presets and the cross-protocol prediction.
+func (in *Input) selectionSection(v *reportView) {
+	sel := in.sel
+	v.ParetoFigure = v.fig("pareto")
+	if sel == nil {
+		return
+	}
+	v.HasSelection = true
+	v.Rule, v.Metric = capitalise(minusSigns(sel.Rule)), sel.HeldoutMetric
+	// Each layout's search in its first clause; model.json has the rest.
+	for _, s := range sel.Search {
+		if i := strings.Index(s, " at "); i > 0 {
+			s = s[:i]
 		}
-		v.Presets.Head = append(head, "ΔBIC vs chosen")
-		for _, cc := range sel.Presets {
-			v.Presets.Rows = append(v.Presets.Rows, htmlRow{Cells: append(candidateCells(cc), fnum(float64(cc.BIC)-chosenBIC, 4))})
+		v.Search = append(v.Search, capitalise(s))
+	}
+	head := []string{"model form", "terms", "parameters", "BIC", "held-out error", "lowest R²"}
+	num := []bool{false, false, true, true, true, true}
+	v.Pareto = htmlTable{Head: append(append([]string{}, head...), "pick"), Num: append(append([]bool{}, num...), false), Wide: 1, Class: "long"}
+	chosenBIC := math.NaN()
+	for _, cc := range sel.Pareto {
+		if cc.Chosen {
+			chosenBIC = float64(cc.BIC)
+		}
+	}
+	// The forms that were cross-validated compete for the pick; the others
+	// (more than ΔBIC 10 from their layout's best) are counted, and listed
+	// in selection.csv and model.json.
+	others := 0
+	for _, cc := range sel.Pareto {
+		if bad(float64(cc.HeldoutError)) && !cc.Chosen {
+			others++
+			continue
+		}
+		mark := ""
+		if cc.Chosen {
+			mark = "chosen"
+		}
+		v.Pareto.Rows = append(v.Pareto.Rows, htmlRow{Cells: append(candidateCells(cc), mark), Mark: cc.Chosen})
+	}
+	if others > 0 {
+		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept; the other %d, more than ΔBIC 10 from the best of their layout, were not cross-validated and are listed with their loss, AICc and BIC in selection.csv and model.json.",
+			len(sel.Pareto)-others, len(sel.Pareto), others)
+	}
+	v.Presets = htmlTable{Head: append(append([]string{}, head...), "ΔBIC vs chosen"), Num: append(append([]bool{}, num...), true), Wide: 1}
+	for _, cc := range sel.Presets {
+		v.Presets.Rows = append(v.Presets.Rows, htmlRow{Cells: append(candidateCells(cc), fixed(float64(cc.BIC)-chosenBIC, 1))})
+	}
+	if n := len(sel.Protocols); n > 0 && len(sel.CrossR2) == n {
+		v.Cross = htmlTable{Head: append([]string{"fitted to ↓ / predicts →"}, sel.Protocols...), Num: []bool{false}}
+		for range sel.Protocols {
+			v.Cross.Num = append(v.Cross.Num, true)
+		}
+		for i, row := range sel.CrossR2 {
+			cells := []string{sel.Protocols[i]}
+			strong := map[int]bool{}
+			for j, x := range row {
+				cells = append(cells, fmtR2(float64(x)))
+				if i == j {
+					strong[j+1] = true
+				}
+			}
+			v.Cross.Rows = append(v.Cross.Rows, htmlRow{Cells: cells, Strong: strong})
 		}
 	}
 }
@@ -341,14 +605,83 @@ func (in *Input) selectionSection(v *reportView) {
 // conventionsSection writes the card's conventions.
 func (in *Input) conventionsSection(v *reportView) {
 	c := in.card
+	// The conventions needed to read this report's numbers; the card
+	// states every convention (model.json, key "conventions").
 	if cv := c.Conventions; cv != nil {
-		v.Conventions = []htmlFact{{"Angle", cv.Angle}, {"Kinematics", cv.Kinematics}, {"Invariants", cv.Invariants}, {"Energy", cv.Energy},
-			{"Fibre switch", cv.FibreSwitch}, {"Dispersion", cv.Dispersion}, {"Stress", cv.Stress}, {"Normalisations", cv.Normalisations}}
-		if cv.InPlane != "" { // cards written before in-plane dispersion lack it
-			v.Conventions = append(v.Conventions, htmlFact{"In-plane dispersion", cv.InPlane})
+		v.Conventions = []htmlFact{{Name: "Angle", Value: cv.Angle}, {Name: "Kinematics", Value: cv.Kinematics}, {Name: "Invariants", Value: cv.Invariants}, {Name: "Energy", Value: cv.Energy},
+			{Name: "Fibre switch", Value: cv.FibreSwitch}}
+		if c.Layout != nil && in.fit.Dispersion {
+			v.Conventions = append(v.Conventions, htmlFact{Name: "Dispersion", Value: cv.Dispersion})
 		}
-		if cv.GreenStrain != "" { // cards written before the Fung-type term lack it
-			v.Conventions = append(v.Conventions, htmlFact{"Green strain (fung)", cv.GreenStrain})
+		if in.fit.InPlane && cv.InPlane != "" {
+			v.Conventions = append(v.Conventions, htmlFact{Name: "In-plane dispersion", Value: cv.InPlane})
+		}
+		v.Conventions = append(v.Conventions, htmlFact{Name: "Stress", Value: cv.Stress})
+	}
+}
+
+// minusPattern finds a hyphen-minus used as a minus sign: before a digit,
+// after a space, an opening bracket, a ± or the start.
+var minusPattern = regexp.MustCompile(`(^|[\s(\[±=,;:])-(\d)`)
+
+// minusSigns writes the minus signs of numbers in free text as U+2212.
+func minusSigns(s string) string { return minusPattern.ReplaceAllString(s, "${1}−${2}") }
+
+// capitalise starts a sentence with a capital letter.
+func capitalise(s string) string {
+	r, n := utf8.DecodeRuneInString(s)
+	if n == 0 || !unicode.IsLower(r) {
+		return s
+	}
+	return string(unicode.ToUpper(r)) + s[n:]
+}
+
+// StatusLegend explains, once each and in a fixed order, the parameter
+// statuses other than "estimated" that appear in a table.
+func StatusLegend(shown []string) []string {
+	var out []string
+	for _, st := range []string{aniso.StatusCorrelated, aniso.StatusDegenerate, aniso.StatusNotDetermined, aniso.StatusAtBound, aniso.StatusInactive} {
+		for _, s := range shown {
+			if s == st {
+				out = append(out, st+": "+aniso.StatusMeaning(st))
+				break
+			}
 		}
 	}
+	return out
+}
+
+// toHTMLFigure prepares a rendered figure for the page.
+func toHTMLFigure(f renderedFigure, withPNG bool) htmlFigure {
+	files := "plots/" + f.name + ".svg"
+	if withPNG {
+		files += ", plots/" + f.name + ".png"
+	}
+	return htmlFigure{ID: f.name, Title: f.title, Caption: f.caption, SVG: inlineSVG(f.svg, f.title), Files: files}
+}
+
+// heldoutText writes a candidate's held-out error ± its standard error.
+func heldoutText(cc card.CandidateCard) string {
+	m := float64(cc.HeldoutError)
+	switch {
+	case math.IsInf(m, 0):
+		return "a fold failed"
+	case math.IsNaN(m):
+		return "—"
+	}
+	return fsig(m, 3) + " ± " + sameDecimals(float64(cc.HeldoutStdErr), m, 3)
+}
+
+// sameDecimals formats x with the decimals that n significant digits of
+// ref take (at least one significant digit of x), so that a value and its
+// standard error line up: 0.00735 ± 0.00026.
+func sameDecimals(x, ref float64, n int) string {
+	if bad(x) || bad(ref) || ref == 0 {
+		return fsig(x, 2)
+	}
+	dec := n - 1 - int(math.Floor(math.Log10(math.Abs(ref))))
+	if x != 0 {
+		dec = max(dec, -int(math.Floor(math.Log10(math.Abs(x)))))
+	}
+	return fixed(x, max(dec, 0))
 }

@@ -1,0 +1,158 @@
+package aniso
+
+import "math"
+
+// CVFold is one leave-one-protocol-out fold.
+type CVFold struct {
+	// Protocol is the held-out protocol's label.
+	Protocol string
+	// Error is the held-out normalised RMSE: √(weighted SSE / components),
+	// with the rows weighted as package biaxial delivers them (each
+	// protocol-axis by 1/(range·√points)), so 0.01 is about 1 % of range.
+	Error float64
+	// Metrics of the held-out prediction per component.
+	Metrics []Metric
+}
+
+// CVScore summarises leave-one-protocol-out cross-validation.
+type CVScore struct {
+	Folds []CVFold
+	// Mean and StdErr (standard deviation / √folds) of the fold errors.
+	Mean, StdErr float64
+}
+
+// cvBICWindow is how far above its form's best BIC a candidate may lie and
+// still be cross-validated ("very strong" evidence against it beyond that;
+// Kass & Raftery 1995).
+const cvBICWindow = 10
+
+// crossValidate fits every candidate's form with one protocol left out,
+// warm-started from its full-data fit, and scores the held-out prediction.
+func crossValidate(p *Problem, cands []*Candidate, set Settings, pl *pool) {
+	nf := len(p.Protocols)
+	folds := make([][]CVFold, len(cands))
+	for i := range folds {
+		folds[i] = make([]CVFold, nf)
+	}
+	var jobs []func()
+	for ci, c := range cands {
+		for f := 0; f < nf; f++ {
+			ci, c, f := ci, c, f
+			jobs = append(jobs, func() { folds[ci][f] = cvFold(p, c.Result, f, set) })
+		}
+	}
+	pl.run(jobs)
+	for ci, c := range cands {
+		sc := &CVScore{Folds: folds[ci]}
+		for _, f := range sc.Folds {
+			sc.Mean += f.Error
+		}
+		sc.Mean /= float64(nf)
+		v := 0.0
+		for _, f := range sc.Folds {
+			v += (f.Error - sc.Mean) * (f.Error - sc.Mean)
+		}
+		if nf > 1 {
+			sc.StdErr = math.Sqrt(v/float64(nf-1)) / math.Sqrt(float64(nf))
+		}
+		c.CV = sc
+	}
+}
+
+// HeldOut refits r's model form to every protocol of p but the f-th
+// (index into p.Protocols), warm-started from r's parameters without an
+// angle scan, and predicts the left-out protocol: the prediction on the
+// rows of test, a Problem holding that protocol alone.
+func HeldOut(p *Problem, r *Result, f int, set Settings) (pred []float64, test *Problem, err error) {
+	held := p.Protocols[f]
+	var keep []int
+	for i, pi := range p.Protocols {
+		if i != f {
+			keep = append(keep, pi)
+		}
+	}
+	train, err := NewProblem(p.Specimen, keep)
+	if err != nil {
+		return nil, nil, err
+	}
+	s := set
+	s.Init = r.Params()
+	s.NoScan = true
+	s.Profile = false
+	fit, err := Fit(train, r.Structure, s)
+	if err != nil {
+		return nil, nil, err
+	}
+	if test, err = NewProblem(p.Specimen, []int{held}); err != nil {
+		return nil, nil, err
+	}
+	pred, err = Predict(test, fit.Model)
+	return pred, test, err
+}
+
+// cvFold scores r's form on the f-th protocol left out.
+func cvFold(p *Problem, r *Result, f int, set Settings) CVFold {
+	fold := CVFold{Protocol: p.Specimen.Protocols[p.Protocols[f]].Label, Error: math.Inf(1)}
+	pred, test, err := HeldOut(p, r, f, set)
+	if err != nil {
+		return fold
+	}
+	sse := 0.0
+	for i, v := range pred {
+		d := test.RowWeight[i] * (v - test.Measured[i])
+		sse += d * d
+	}
+	fold.Error = math.Sqrt(sse / float64(len(test.Output.Components)))
+	fold.Metrics = Metrics(test, pred)
+	return fold
+}
+
+// crossMatrix fits the chosen form to each protocol alone and predicts
+// every protocol, returning the mean R² over components.
+func crossMatrix(p *Problem, r *Result, set Settings, pl *pool) [][]float64 {
+	n := len(p.Protocols)
+	out := make([][]float64, n)
+	var jobs []func()
+	for i := 0; i < n; i++ {
+		i := i
+		out[i] = make([]float64, n)
+		jobs = append(jobs, func() {
+			for j := range out[i] {
+				out[i][j] = math.NaN()
+			}
+			train, err := NewProblem(p.Specimen, []int{p.Protocols[i]})
+			if err != nil {
+				return
+			}
+			s := set
+			s.Init = r.Params()
+			s.NoScan = true
+			fit, err := Fit(train, r.Structure, s)
+			if err != nil {
+				return
+			}
+			for j := 0; j < n; j++ {
+				test, err := NewProblem(p.Specimen, []int{p.Protocols[j]})
+				if err != nil {
+					continue
+				}
+				pred, err := Predict(test, fit.Model)
+				if err != nil {
+					continue
+				}
+				sum, cnt := 0.0, 0
+				for _, m := range Metrics(test, pred) {
+					if m.R2Defined {
+						sum += m.R2
+						cnt++
+					}
+				}
+				if cnt > 0 {
+					out[i][j] = sum / float64(cnt)
+				}
+			}
+		})
+	}
+	pl.run(jobs)
+	return out
+}

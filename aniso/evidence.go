@@ -1,0 +1,26 @@
+package aniso
+
+// evidence is what the verdict walk and the one-standard-error rule
+// (select.go, verdict.go) need to know about the data behind the
+// candidates' losses and held-out errors: for one specimen its problem
+// (problemEvidence), for a cohort the specimens pooled (cohort.go).
+type evidence struct {
+	// rows is the number of residuals behind each candidate's loss and
+	// series the number of protocol-and-component series among them.
+	rows, series int
+	// hasShear is true when the data identify the sign of fibre angles.
+	hasShear bool
+	// oneProtocol is true when the data hold a single protocol (per
+	// specimen), which cannot separate one family from two.
+	oneProtocol bool
+	// admissible returns "" when a candidate is admissible where it was
+	// fitted, else what failed where (see admissibleOnData).
+	admissible func(c *Candidate) string
+}
+
+// problemEvidence is the evidence of a single specimen's problem.
+func problemEvidence(p *Problem) evidence {
+	return evidence{rows: p.Rows(), series: len(p.Protocols) * len(p.Output.Components), hasShear: p.HasShear,
+		oneProtocol: len(p.Protocols) == 1,
+		admissible:  func(c *Candidate) string { return admissibleOnData(c.Result.Model, p) }}
+}

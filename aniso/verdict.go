@@ -1,0 +1,211 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// Verdict is the answer on the number of fibre families.
+type Verdict struct {
+	// Families is "0", "1", "2", "1-or-mirror-pair" (without shear
+	// information one family and a mirror pair give the same normal
+	// stresses) or "undecided" (the evidence points at another family
+	// count without settling it, or one protocol cannot decide).
+	Families string
+	// Reason states the evidence in words and numbers.
+	Reason string
+	// DeltaBIC is each form's best BIC minus the best over forms, keyed by
+	// FormKey ("0", "1", "1+dispersed", "2-mirror", "2-free", ...).
+	DeltaBIC map[string]float64
+	// HeldoutError is each form's best held-out error, same keys; empty
+	// without cross-validation.
+	HeldoutError map[string]float64
+	// Comparisons are the steps of the walk from the simplest form to the
+	// richest (see select.go).
+	Comparisons []LayoutComparison
+	// RuledOut names the richer explanations that fitted better without
+	// beating the verdict's form by more than the noise, and look-alikes.
+	RuledOut []string
+	// Noise is the estimated noise in held-out-error units and StdErrFloor
+	// the smallest standard error a comparison may claim.
+	Noise, StdErrFloor float64
+	// Decider names the extra measurement that would settle an undecided
+	// case, or is empty.
+	Decider string
+}
+
+// LayoutComparison is one step of the walk over forms: whether a richer
+// form's best model beats the current winner by more than the noise.
+type LayoutComparison struct {
+	// Simpler and Richer are form keys (see FormKey).
+	Simpler, Richer string
+	// Gain is the mean per-fold reduction of the held-out error (simpler
+	// minus richer; dimensionless, like CVFold.Error), StdErr its standard
+	// error (floored), RelativeGain Gain over the simpler form's error.
+	Gain, StdErr, RelativeGain float64
+	// DeltaBIC is the simpler model's BIC minus the richer one's.
+	DeltaBIC float64
+	// Decisive is true when every criterion holds, so the richer form
+	// became the winner; Suggestive when the richer form is better by at
+	// least one standard error and ΔBIC > 2 without being decisive.
+	Decisive, Suggestive bool
+}
+
+// String states the comparison with its numbers.
+func (c LayoutComparison) String() string {
+	v := "not enough"
+	switch {
+	case c.Decisive:
+		v = "decisive"
+	case c.Suggestive:
+		v = "suggestive, not decisive"
+	}
+	return fmt.Sprintf("%s over %s: held-out gain %.4g ± %.2g (%.1f %% of %s's error), ΔBIC %.1f — %s",
+		c.Richer, c.Simpler, c.Gain, c.StdErr, 100*c.RelativeGain, c.Simpler, c.DeltaBIC, v)
+}
+
+// coincident reports a two-family model whose families point the same way
+// (within 2°): really one family, whatever its layout says.
+func coincident(r *Result) bool {
+	if len(r.Model.Families) != 2 {
+		return false
+	}
+	d := math.Abs(WrapDeg(Deg(r.Model.Families[0].Angle - r.Model.Families[1].Angle)))
+	return d < 2
+}
+
+// anglesText writes a result's family angles.
+func anglesText(r *Result) string {
+	var s []string
+	for _, f := range r.Model.Families {
+		a := Deg(f.Angle)
+		if r.SignKnown {
+			s = append(s, fmt.Sprintf("%.1f°", a))
+		} else {
+			s = append(s, fmt.Sprintf("±%.1f°", math.Abs(a)))
+		}
+	}
+	return strings.Join(s, ", ")
+}
+
+// decider is the measurement that settles one family against a mirror
+// pair (package documentation, Mirror symmetry).
+const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
+
+// lookAlike describes a richer form's best model when it has a known
+// simpler look-alike, or returns "".
+func lookAlike(r *Result) string {
+	fs := r.Model.Families
+	if len(fs) != 2 {
+		return ""
+	}
+	a := WrapDeg(Deg(fs[0].Angle))
+	b := WrapDeg(Deg(fs[1].Angle))
+	near := func(x, y float64) bool { return math.Abs(WrapDeg(x-y)) < 10 }
+	if (near(a, 0) && near(b, 90)) || (near(a, 90) && near(b, 0)) {
+		return "two families near 0° and 90° stiffen both axes alike, a look-alike of isotropic stiffening"
+	}
+	if !r.SignKnown {
+		// Without shear information only |α| is known.
+		a, b = math.Abs(a), math.Abs(b)
+	}
+	if d := math.Abs(WrapDeg(a - b)); d > 2 && d < 60 {
+		mid := WrapDeg(a + WrapDeg(b-a)/2)
+		return fmt.Sprintf("two families bracketing %.1f° (at %.1f° and %.1f°) are a look-alike of one family spread about %.1f°", mid, a, b, mid)
+	}
+	return ""
+}
+
+// verdictFor writes the verdict of the winning form.
+func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutComparison, notes []string) Verdict {
+	v := Verdict{DeltaBIC: map[string]float64{}, HeldoutError: map[string]float64{}, Comparisons: comps}
+	bests := d.formBests()
+	minBIC := math.Inf(1)
+	for _, fb := range bests {
+		minBIC = math.Min(minBIC, fb.c.Result.BIC)
+	}
+	byKey := map[string]*formBest{}
+	for _, fb := range bests {
+		byKey[fb.key] = fb
+		v.DeltaBIC[fb.key] = fb.c.Result.BIC - minBIC
+		if fb.c.CV != nil {
+			v.HeldoutError[fb.key] = fb.c.CV.Mean
+		}
+	}
+	for _, lc := range comps {
+		if lc.Decisive || !(lc.Gain > 0 || lc.DeltaBIC > 0) {
+			continue
+		}
+		n := fmt.Sprintf("ruled out %s (%s): it fits better, but not by more than the noise explains (%s)", lc.Richer, anglesText(byKey[lc.Richer].c.Result), lc)
+		if la := lookAlike(byKey[lc.Richer].c.Result); la != "" {
+			n += "; " + la
+		}
+		notes = append(notes, n)
+	}
+	v.RuledOut = notes
+	r := win.c.Result
+	spread := ""
+	if r.Structure.Planar {
+		var bs []string
+		for _, f := range r.Model.Families {
+			bs = append(bs, fmt.Sprintf("%.3g", f.Concentration))
+		}
+		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
+	}
+	why := "no richer form beats it by more than the noise explains"
+	for _, lc := range comps {
+		if lc.Decisive && lc.Richer == win.key {
+			why = fmt.Sprintf("it beats %s decisively (%s), and no richer form beats it", lc.Simpler, lc)
+		}
+	}
+	ang := anglesText(r)
+	switch r.Structure.Layout {
+	case LayoutNone:
+		v.Families = "0"
+		v.Reason = "isotropic: " + why
+	case LayoutSingle:
+		if ev.hasShear {
+			v.Families = "1"
+			v.Reason = fmt.Sprintf("one fibre family at %s%s: %s", ang, spread, why)
+		} else {
+			v.Families = "1-or-mirror-pair"
+			v.Reason = fmt.Sprintf("one fibre direction at %s%s: %s; without shear information one family at α and a mirror pair at ±α give the same normal stresses, so the data cannot tell them apart", ang, spread, why)
+			v.Decider = decider
+		}
+	case LayoutMirror:
+		fs := r.Model.Families
+		same := Deg(math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))) < 1
+		switch {
+		case !ev.hasShear && same:
+			v.Families = "1-or-mirror-pair"
+			v.Reason = fmt.Sprintf("a mirror pair at %s%s: %s; without shear information it cannot be told from one family at that angle", ang, spread, why)
+			v.Decider = decider
+		default:
+			v.Families = "2"
+			v.Reason = fmt.Sprintf("two fibre families, a pair at %s sharing their stiffness%s: %s", ang, spread, why)
+		}
+	case LayoutFree:
+		v.Families = "2"
+		v.Reason = fmt.Sprintf("two fibre families at %s%s: %s", ang, spread, why)
+	}
+	if !ev.hasShear && r.Structure.Layout != LayoutNone && r.Structure.Layout != LayoutSingle {
+		v.Reason += "; signs of the angles are unknown without shear information"
+	}
+	if len(open) > 0 {
+		var alt []string
+		for _, lc := range open {
+			alt = append(alt, lc.String())
+		}
+		v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", open[len(open)-1].Richer, strings.Join(alt, "; "), v.Reason)
+		v.Families = "undecided"
+		v.Decider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
+	}
+	if ev.oneProtocol {
+		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"
+		if v.Families != "0" {
+			v.Families = "undecided"
+		}
+	}
+	return v
+}

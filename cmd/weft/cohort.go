@@ -1,0 +1,582 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
+	"github.com/weft-tools/weft/cmd/weft/internal/report"
+)
+
+// cohortOptions are the options of weft cohort.
+type cohortOptions struct {
+	streams
+	files   []string
+	read    biaxial.Options
+	out     string
+	force   bool
+	groupBy string
+	// form holds --preset, --terms and their layout flags, read as weft
+	// fit reads them.
+	form   fitOptions
+	asJSON bool
+	quiet  bool
+	// noSpecimenReports leaves report.html and plots/ out of each
+	// specimen's folder: drawing them costs more than fitting.
+	noSpecimenReports bool
+}
+
+func newCohortCmd(s *streams) *cobra.Command {
+	co := &cohortOptions{streams: *s}
+	cmd := &cobra.Command{
+		Use:   "cohort DATA... -o DIR",
+		Short: "Fit one model form to many specimens and compare groups",
+		Long: `cohort fits the specimens of a study together: one model form for all of
+them, each specimen with its own parameters and fibre angles, statistics of
+every parameter, group comparisons and a model of the whole population.
+
+Without --preset or --terms the form is DISCOVERED for the cohort: candidate
+forms are searched on a few specimens spread over the cohort, then scored on
+every specimen; the verdict on the fibre families and the pick inside the
+winning form follow the rules of 'weft fit', on the held-out error pooled over
+specimens (each specimen counts the same), and the verdict says how many
+specimens reach it on their own. With --preset or --terms the form is given.
+
+DIR receives one folder per specimen as 'weft fit' writes it, cohort.csv (one
+row per specimen), cohort.json (form, verdict, specimens, statistics with a
+bootstrap interval of each mean, group comparisons), population.json (the form
+fitted to all specimens at once, each weighted equally), mean-parameters.json
+(the specimens' mean parameters) and report.html.
+
+--group-by KEY groups the specimens by a metadata line of their files
+('# KEY = value'), or, when KEY names a file, by that two-column CSV (file,
+group). Two groups are compared with Welch's t-test, the Mann–Whitney U test
+and Hedges' g, more with the Kruskal–Wallis test, with Holm-adjusted p-values.
+
+A file that cannot be read or fitted gets a failed row and the others go on;
+the exit code is then 1 (2 when no file could be used, and nothing is
+written). The result does not depend on the order of the files.
+
+Parameters and statistics are research-grade and specimen-specific, valid
+only within the tested range, not for clinical decisions.`,
+		Example: `  # discover one form for every specimen of a study
+  weft cohort study/*.csv -o study-cohort
+
+  # a given form, groups from the files' "# donor_age = ..." lines
+  weft cohort study/*.csv -o study-hgo --preset hgo --group-by donor_age
+
+  # groups from a table of file,group rows
+  weft cohort study/*.csv -o study-cohort --group-by groups.csv`,
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) == 0 {
+				return badInputf("cohort needs DATA files (see 'weft cohort --help')")
+			}
+			return nil
+		},
+	}
+	rf := addReadFlags(cmd)
+	fl := cmd.Flags()
+	fl.StringVarP(&co.out, "output", "o", "", "the cohort's output folder (required)")
+	fl.BoolVar(&co.force, "force", false, "replace an existing output folder that weft wrote (never anything else)")
+	fl.StringVar(&co.groupBy, "group-by", "", "group specimens by this metadata key, or by a two-column CSV file (file,group)")
+	fl.StringVar(&co.form.preset, "preset", "", "fit this classical preset to every specimen instead of discovering (see 'weft terms')")
+	fl.StringVar(&co.form.termIDs, "terms", "", "fit these catalogue terms to every specimen instead of discovering, comma-separated")
+	fl.IntVar(&co.form.families, "families", -1, "fibre families for --terms: 0, 1 or 2")
+	fl.StringVar(&co.form.layout, "layout", "free", "two families for --terms: free or mirror")
+	fl.StringVar(&co.form.dispersion, "dispersion", "", "how fibres spread: in-plane, kappa or none (as for 'weft fit')")
+	fl.StringVar(&co.form.pairAxis, "pair-axis", "", "axis of a mirror pair: axis-1 (default) or free (as for 'weft fit')")
+	fl.IntVar(&co.form.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
+	fl.BoolVar(&co.asJSON, "json", false, "print cohort.json instead of the summary")
+	fl.BoolVar(&co.quiet, "quiet", false, "no progress bar")
+	fl.BoolVar(&co.noSpecimenReports, "no-specimen-reports", false, "leave report.html and plots/ out of each specimen's folder (much faster for large cohorts; the cohort's own report is still written)")
+	cmd.RunE = func(cmd *cobra.Command, args []string) error {
+		opt, err := rf.options()
+		if err != nil {
+			return err
+		}
+		co.files, co.read = args, opt
+		return runCohort(co)
+	}
+	return cmd
+}
+
+// cohortMember is one DATA file of a cohort run.
+type cohortMember struct {
+	file   string // cleaned, '/' separated
+	spec   *biaxial.Specimen
+	prob   *aniso.Problem
+	group  string
+	folder string
+	err    error
+	// index into the problems given to aniso.FitCohort, or −1.
+	at int
+}
+
+// runCohort runs weft cohort: it reads and checks every file and the
+// output folder before any fitting, fits the cohort, and writes the
+// folder.
+func runCohort(co *cohortOptions) error {
+	st, given, err := structureFromFlags(&co.form)
+	if err != nil {
+		return err
+	}
+	if co.form.maxTerms < 1 || co.form.maxTerms > 8 {
+		return badInputf("--max-terms %d: use 1 to 8", co.form.maxTerms)
+	}
+	if co.out == "" {
+		return badInputf("cohort needs an output folder: -o DIR")
+	}
+	members := readMembers(co.files, co.read)
+	if err := assignGroups(members, co.groupBy, co.ErrOut); err != nil {
+		return err
+	}
+	unit, kind := cohortUnit(members)
+	problems := prepareMembers(members, unit)
+	if len(problems) == 0 {
+		return cohortFailures(members, true)
+	}
+	od, err := prepareOutputDir(co.out, co.force, co.files)
+	if err != nil {
+		return err
+	}
+	defer od.close()
+	start := time.Now()
+	bar := newProgress(co.ErrOut, co.ErrIsTerminal, "fitting the cohort", co.quiet)
+	set := aniso.CohortSettings{Progress: bar.set, Discover: aniso.DiscoverSettings{MaxTerms: co.form.maxTerms,
+		NoPlanar: co.form.dispersion == "none" || co.form.dispersion == "kappa", Dispersion: co.form.dispersion == "kappa"}}
+	if given {
+		set.Form = &st
+	}
+	c, err := aniso.FitCohort(problems, set)
+	bar.finish()
+	if c != nil {
+		for _, m := range members {
+			if m.at >= 0 && m.err == nil && c.Specimens[m.at].Err != nil {
+				m.err = fitFailed(m.spec, c.Specimens[m.at].Err)
+			}
+		}
+	}
+	if err != nil {
+		if errors.Is(err, aniso.ErrNoSpecimen) {
+			return cohortFailures(members, true)
+		}
+		return checkFailed{msg: fmt.Sprintf("the cohort could not be fitted: %v", err)}
+	}
+	in, cards, err := cohortCards(members, c, co.groupBy, unit, kind)
+	if err != nil {
+		return err
+	}
+	sum := cohortreport.Build(in)
+	if err := writeCohort(od, co, members, c, in, sum, cards); err != nil {
+		return err
+	}
+	if co.asJSON {
+		b, err := sum.JSON()
+		if err != nil {
+			return err
+		}
+		if _, err := co.Out.Write(b); err != nil {
+			return err
+		}
+	} else {
+		printCohortSummary(co.Out, sum, c, co.out, time.Since(start))
+	}
+	return cohortFailures(members, false)
+}
+
+// readMembers reads every file in a fixed order (by cleaned path), so that
+// the result does not depend on the order of the command line; a file
+// given twice fails the second time.
+func readMembers(files []string, opt biaxial.Options) []*cohortMember {
+	var ms []*cohortMember
+	for _, f := range files {
+		ms = append(ms, &cohortMember{file: filepath.ToSlash(filepath.Clean(f)), at: -1})
+	}
+	sort.SliceStable(ms, func(a, b int) bool { return ms[a].file < ms[b].file })
+	for i, m := range ms {
+		if i > 0 && ms[i-1].file == m.file {
+			m.err = badInputf("%s is given twice", m.file)
+			continue
+		}
+		m.spec, m.err = readSpecimen(filepath.FromSlash(m.file), opt)
+	}
+	return ms
+}
+
+// assignGroups gives each member its group: a metadata key of its file,
+// or its row of a two-column CSV when by names a file. Members without a
+// group are told about on w and left out of group comparisons.
+func assignGroups(ms []*cohortMember, by string, w io.Writer) error {
+	if by == "" {
+		return nil
+	}
+	if st, err := os.Stat(by); err == nil && st.Mode().IsRegular() {
+		table, err := readGroupTable(by)
+		if err != nil {
+			return err
+		}
+		for _, m := range ms {
+			m.group = groupOf(table, m.file)
+		}
+	} else {
+		key := strings.ToLower(strings.TrimSpace(by))
+		for _, m := range ms {
+			if m.spec != nil {
+				m.group = strings.TrimSpace(m.spec.Meta[key])
+			}
+		}
+	}
+	for _, m := range ms {
+		if m.spec != nil && m.group == "" {
+			fmt.Fprintf(w, "weft: %s has no group for --group-by %s; it is left out of the group comparisons\n", m.file, by)
+		}
+	}
+	return nil
+}
+
+// readGroupTable reads a two-column CSV of file and group; a first row
+// whose second cell is "group" is a header.
+func readGroupTable(path string) (map[string]string, error) {
+	b, err := readAtMost(path, 16<<20)
+	if err != nil {
+		return nil, badInputf("--group-by %s: %s", path, ioErrText(err))
+	}
+	r := csv.NewReader(bytes.NewReader(b))
+	r.Comment = '#'
+	r.FieldsPerRecord = -1
+	rows, err := r.ReadAll()
+	if err != nil {
+		return nil, badInputf("--group-by %s: %v", path, err)
+	}
+	t := map[string]string{}
+	for i, row := range rows {
+		if len(row) != 2 {
+			return nil, badInputf("--group-by %s:%d: want two columns, file and group; found %d", path, i+1, len(row))
+		}
+		if i == 0 && strings.EqualFold(strings.TrimSpace(row[1]), "group") {
+			continue
+		}
+		t[strings.TrimSpace(row[0])] = strings.TrimSpace(row[1])
+	}
+	return t, nil
+}
+
+// groupOf finds a file in the group table: by the path as given, cleaned,
+// or by its base name.
+func groupOf(t map[string]string, file string) string {
+	for _, k := range []string{file, filepath.FromSlash(file)} {
+		if g, ok := t[k]; ok {
+			return g
+		}
+	}
+	for k, g := range t {
+		if filepath.ToSlash(filepath.Clean(k)) == file {
+			return g
+		}
+	}
+	return t[filepath.Base(file)]
+}
+
+// cohortUnit is the stress unit and measure most members were read in
+// (ties: the first member's).
+func cohortUnit(ms []*cohortMember) (unit, kind string) {
+	count := map[string]int{}
+	best := 0
+	for _, m := range ms {
+		if m.spec == nil {
+			continue
+		}
+		count[m.spec.StressUnit]++
+		if n := count[m.spec.StressUnit]; n > best {
+			best, unit = n, m.spec.StressUnit
+		}
+	}
+	kinds := map[string]int{}
+	best = 0
+	for _, m := range ms {
+		if m.spec == nil {
+			continue
+		}
+		k := m.spec.Kind.String()
+		kinds[k]++
+		if kinds[k] > best {
+			best, kind = kinds[k], k
+		}
+	}
+	return unit, kind
+}
+
+// prepareMembers converts every member read to the cohort's stress unit,
+// gives it an output folder of its own and a problem; it returns the
+// problems in member order.
+func prepareMembers(ms []*cohortMember, unit string) []*aniso.Problem {
+	var ps []*aniso.Problem
+	seen := map[string]string{}
+	for _, m := range ms {
+		if m.err != nil {
+			continue
+		}
+		s, err := m.spec.InStressUnit(unit)
+		if err != nil {
+			m.err = badInput(err)
+			continue
+		}
+		m.spec = s
+		name := report.SafeName(s.Name)
+		if name == "" || name == "." || name == ".." {
+			name = strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
+		}
+		m.folder = name + ".weft"
+		if prev, dup := seen[strings.ToLower(m.folder)]; dup {
+			m.err = badInputf("%s has the same specimen name as %s; give them different 'specimen' metadata", m.file, prev)
+			continue
+		}
+		p, err := aniso.NewProblem(s, nil)
+		if err != nil {
+			m.err = badInput(fmt.Errorf("%s: %w", m.file, err))
+			continue
+		}
+		seen[strings.ToLower(m.folder)] = m.file
+		m.prob, m.at = p, len(ps)
+		ps = append(ps, p)
+	}
+	return ps
+}
+
+// cohortFailures is nil when every member was used, else the list of
+// failures: exit code 1, or 2 (nothing written) when none could be used.
+func cohortFailures(ms []*cohortMember, noneUsable bool) error {
+	var b strings.Builder
+	n := 0
+	for _, m := range ms {
+		if m.err == nil {
+			continue
+		}
+		n++
+		msg := m.err.Error()
+		if !strings.HasPrefix(msg, m.file) {
+			msg = m.file + ": " + msg
+		}
+		b.WriteString("\n  " + msg)
+	}
+	if n == 0 {
+		return nil
+	}
+	if noneUsable {
+		return badInputf("no file of the cohort could be used; nothing was written:%s", b.String())
+	}
+	return fmt.Errorf("%d of %d files failed (the others were written, with a failed row for each of these):%s", n, len(ms), b.String())
+}
+
+// cohortCards builds the summary's input and the cards: each specimen's,
+// the population's and the mean-parameter one.
+func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string) (*cohortreport.Input, map[string]*card.Card, error) {
+	in := &cohortreport.Input{Cohort: c, GroupBy: groupBy, StressUnit: unit, StressKind: kind}
+	cards := map[string]*card.Card{}
+	var fits []*aniso.Result
+	for _, m := range ms {
+		name := strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
+		if m.spec != nil {
+			name = m.spec.Name
+		}
+		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob}
+		if m.at >= 0 {
+			cs := c.Specimens[m.at]
+			sp.Verdict, sp.Form = cs.Verdict, cs.Form
+			if cs.Err == nil && m.err == nil {
+				sp.Result, sp.CV, sp.Folder = cs.Result, cs.CV, m.folder
+				cards[m.folder] = card.FromFit(m.prob, cs.Result, nil)
+				fits = append(fits, cs.Result)
+			}
+		}
+		if m.err != nil {
+			sp.Err = m.err.Error()
+		}
+		in.Specimens = append(in.Specimens, sp)
+	}
+	if c.Population != nil {
+		in.Population = c.Population.Model
+		pc := card.FromFit(c.Pooled, c.Population, nil)
+		pc.Specimen = c.Pooled.Specimen.Name
+		cards[cohortreport.PopulationCard] = pc
+		if mm, err := aniso.MeanModel(fits, c.Population.Model); err == nil {
+			in.MeanParameters = mm
+			signs := make([]bool, len(mm.Families))
+			for i := range signs {
+				signs[i] = c.Population.SignKnown
+			}
+			mc := card.FromModel(mm, unit, signs)
+			mc.Specimen = fmt.Sprintf("mean parameters of %d specimens", len(fits))
+			cards[cohortreport.MeanCard] = mc
+		}
+	}
+	return in, cards, nil
+}
+
+// writeCohort writes every file of the cohort's folder and puts it in
+// place.
+func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
+	for _, m := range ms {
+		cd, ok := cards[m.folder]
+		if !ok || m.err != nil {
+			continue
+		}
+		cs := c.Specimens[m.at]
+		o := &fitOutcome{spec: m.prob.Specimen, prob: m.prob, result: cs.Result, card: cd}
+		sub := subFolder{od: od, rel: m.folder}
+		write := writeFitFiles
+		if co.noSpecimenReports {
+			write = writeFitData
+		}
+		if err := write(o, sub); err != nil {
+			return err
+		}
+		if err := od.write(filepath.Join(m.folder, markerName), markerBytes(sub.files())); err != nil {
+			return err
+		}
+	}
+	for _, name := range []string{cohortreport.PopulationCard, cohortreport.MeanCard} {
+		if cd, ok := cards[name]; ok {
+			b, err := cd.Marshal()
+			if err != nil {
+				return err
+			}
+			if err := od.write(name, b); err != nil {
+				return err
+			}
+		}
+	}
+	b, err := sum.CSV()
+	if err != nil {
+		return err
+	}
+	if err := od.write("cohort.csv", b); err != nil {
+		return err
+	}
+	if b, err = sum.JSON(); err != nil {
+		return err
+	}
+	if err := od.write("cohort.json", b); err != nil {
+		return err
+	}
+	files, err := sum.Report(in, filepath.Base(od.final), cards)
+	if err != nil {
+		return fmt.Errorf("building the cohort report: %w", err)
+	}
+	for _, f := range files {
+		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+			return err
+		}
+	}
+	return od.commit(co.force)
+}
+
+// writeFitData writes what writeFitFiles writes but the report: the card,
+// the fit table and the held-out table.
+func writeFitData(o *fitOutcome, od folderSink) error {
+	if err := writeCardAndFitTable(o, od); err != nil {
+		return err
+	}
+	folds := heldoutPredictions(o.prob, o.result)
+	if folds == nil {
+		return nil
+	}
+	var buf bytes.Buffer
+	if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
+		return err
+	}
+	return od.write("heldout.csv", buf.Bytes())
+}
+
+// printCohortSummary prints the short human summary of a cohort.
+func printCohortSummary(w io.Writer, s *cohortreport.Summary, c *aniso.Cohort, dir string, elapsed time.Duration) {
+	ok := 0
+	for _, r := range s.Specimens {
+		if r.Status == cohortreport.StatusOK {
+			ok++
+		}
+	}
+	fmt.Fprintf(w, "== cohort of %d files: %d fitted, %d failed\n", len(s.Specimens), ok, len(s.Specimens)-ok)
+	fmt.Fprintf(w, "form:     %s (%s), %s\n", strings.Join(s.Form.Terms, " + "), s.Form.Key, s.Form.How)
+	if v := s.Verdict; v != nil {
+		fmt.Fprintf(w, "families: %s — %s\n", v.Families, v.Reason)
+		fmt.Fprintf(w, "rule:     %s\n", v.Rule)
+	}
+	fmt.Fprintln(w)
+	printCohortStats(w, s)
+	for _, r := range s.Specimens {
+		if r.Status == cohortreport.StatusFailed {
+			fmt.Fprintf(w, "failed:   %s: %s\n", r.File, r.Error)
+		}
+	}
+	for _, n := range s.Notes {
+		fmt.Fprintf(w, "note:     %s\n", n)
+	}
+	fmt.Fprintln(w)
+	for _, cn := range s.Cautions {
+		fmt.Fprintf(w, "caution:  %s\n", cn)
+	}
+	fmt.Fprintf(w, "wrote:    %s/ (cohort.csv, cohort.json, %s, report.html, plots/, one folder per specimen) in %.1f s\n", dir, strings.Join(populationFiles(s), ", "), elapsed.Seconds())
+}
+
+func populationFiles(s *cohortreport.Summary) []string {
+	var out []string
+	if p := s.Population; p != nil && p.Card != "" {
+		out = append(out, p.Card)
+		if p.MeanCard != "" {
+			out = append(out, p.MeanCard)
+		}
+	}
+	return out
+}
+
+// printCohortStats prints the statistics over all specimens and the group
+// comparisons.
+func printCohortStats(w io.Writer, s *cohortreport.Summary) {
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "parameter\tgroup\tn\tmean\tsd\tmedian\t95% CI of the mean\tunit")
+	for _, st := range s.Stats {
+		name := st.Parameter
+		if st.Note != "" {
+			name = st.Note + " " + name
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%d\t%s\t%s\t%s\t[%s, %s]\t%s\n", name, st.Group, st.N, num(float64(st.Mean), "%.4g"), num(float64(st.SD), "%.3g"),
+			num(float64(st.Median), "%.4g"), num(float64(st.CI95[0]), "%.4g"), num(float64(st.CI95[1]), "%.4g"), st.Unit)
+	}
+	tw.Flush()
+	if len(s.Comparisons) == 0 {
+		return
+	}
+	fmt.Fprintln(w)
+	tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	fmt.Fprintln(tw, "parameter\tgroups\ttest\tstatistic\tp\tp (Holm)\tHedges' g")
+	for _, c := range s.Comparisons {
+		groups := strings.Join(c.Groups, " vs ")
+		if c.Welch != nil {
+			fmt.Fprintf(tw, "%s\t%s\tWelch t\t%s\t%s\t%s\t%s\n", c.Parameter, groups, num(float64(c.Welch.Statistic), "%.3f"), num(float64(c.Welch.P), "%.3g"),
+				num(float64(c.Welch.PHolm), "%.3g"), num(float64(*c.HedgesG), "%.2f"))
+			fmt.Fprintf(tw, "\t\tMann–Whitney U\t%s\t%s\t%s\t\n", num(float64(c.MannWhitney.Statistic), "%.1f"), num(float64(c.MannWhitney.P), "%.3g"),
+				num(float64(c.MannWhitney.PHolm), "%.3g"))
+		}
+		if c.KruskalWallis != nil {
+			fmt.Fprintf(tw, "%s\t%s\tKruskal–Wallis H\t%s\t%s\t%s\t\n", c.Parameter, groups, num(float64(c.KruskalWallis.Statistic), "%.3f"),
+				num(float64(c.KruskalWallis.P), "%.3g"), num(float64(c.KruskalWallis.PHolm), "%.3g"))
+		}
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+}

@@ -1,0 +1,223 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
+)
+
+// readCohortJSON reads a cohort folder's cohort.json.
+func readCohortJSON(t *testing.T, dir string) *cohortreport.Summary {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(dir, "cohort.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s cohortreport.Summary
+	if err := json.Unmarshal(b, &s); err != nil {
+		t.Fatal(err)
+	}
+	return &s
+}
+
+// statOf finds a parameter's statistics in one group.
+func statOf(t *testing.T, s *cohortreport.Summary, param, group string) cohortreport.StatRow {
+	t.Helper()
+	for _, st := range s.Stats {
+		if st.Parameter == param && st.Group == group {
+			return st
+		}
+	}
+	t.Fatalf("no statistics of %s in group %s", param, group)
+	return cohortreport.StatRow{}
+}
+
+// A planted cohort (issue 15) with the generating form given: two groups
+// of six SYNTHETIC specimens whose fibre weights differ (30 against 60 kPa,
+// lognormal, log-SD 0.2) and whose angle does not (30° ± 3°), plus one file
+// that cannot be read. The broken file gets one failed row and exit code 1;
+// the bootstrap intervals hold the planted means; Welch's test finds the
+// planted difference (p < 0.05); the cards validate against the schema.
+func TestCohortPlanted(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 5, 15, 7, cohortPopulation{"A", 30, 30}, cohortPopulation{"B", 30, 60})
+	broken := filepath.Join(dir, "broken.csv")
+	if err := os.WriteFile(broken, []byte("protocol,stretch_1\n1:1,x\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--terms", "i1-lin,fib-expsq", "--no-specimen-reports", broken}
+	for _, s := range sp {
+		args = append(args, s.file)
+	}
+	stdout, stderr, code := runWeft(t, args...)
+	if code != 1 || !strings.Contains(stderr, "broken.csv") {
+		t.Fatalf("exit %d, want 1 for the broken file; stderr: %s", code, stderr)
+	}
+	s := readCohortJSON(t, out)
+	failed := 0
+	for _, r := range s.Specimens {
+		if r.Status == cohortreport.StatusFailed {
+			failed++
+			if !strings.HasSuffix(r.File, "broken.csv") || r.Error == "" {
+				t.Errorf("failed row %+v", r)
+			}
+		}
+	}
+	if failed != 1 || len(s.Specimens) != 11 {
+		t.Errorf("%d rows, %d failed; want 11 rows, 1 failed", len(s.Specimens), failed)
+	}
+	// The planted values: each specimen's generating parameters
+	// (writePlantedCohort). Their mean in each group lies inside the
+	// bootstrap interval of the recovered mean; the interval's coverage
+	// of a population mean is checked in package cohortreport over 200
+	// samples.
+	planted := func(group string, v func(plantedSpecimen) float64) float64 {
+		sum, n := 0.0, 0
+		for _, p := range sp {
+			if group == "all" || p.group == group {
+				sum += v(p)
+				n++
+			}
+		}
+		return sum / float64(n)
+	}
+	fibre := func(p plantedSpecimen) float64 { return p.fibre }
+	for _, c := range []struct {
+		param, group string
+		mean         float64
+	}{{"weight[fib-expsq@f1]", "A", planted("A", fibre)}, {"weight[fib-expsq@f1]", "B", planted("B", fibre)},
+		{"angle", "all", planted("all", func(p plantedSpecimen) float64 { return p.deg })},
+		{"weight[i1-lin]", "all", planted("all", func(p plantedSpecimen) float64 { return p.matrix })},
+		{"stiffening[fib-expsq@f1]", "all", planted("all", func(p plantedSpecimen) float64 { return p.rate })}} {
+		st := statOf(t, s, c.param, c.group)
+		if lo, hi := float64(st.CI95[0]), float64(st.CI95[1]); !(lo <= c.mean && c.mean <= hi) {
+			t.Errorf("%s in %s: 95 %% interval [%.4g, %.4g] misses the planted mean %.4g", c.param, c.group, lo, hi, c.mean)
+		}
+	}
+	if st := statOf(t, s, "angle", "all"); st.Note != "|α|" || st.N != 10 {
+		t.Errorf("angle statistics %+v, want 10 values summarised as |α| (no shear information)", st)
+	}
+	for _, c := range s.Comparisons {
+		switch c.Parameter {
+		case "weight[fib-expsq@f1]":
+			if p := float64(c.Welch.P); !(p < 0.05) {
+				t.Errorf("planted fibre-weight difference: Welch p = %g, want < 0.05", p)
+			}
+		case "angle":
+			if p := float64(c.Welch.P); !(p > 0.05) {
+				t.Logf("no planted angle difference, yet Welch p = %g", p)
+			}
+		}
+	}
+	for _, name := range []string{"population.json", "mean-parameters.json", "C001.weft/model.json"} {
+		b, err := os.ReadFile(filepath.Join(out, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		schemaValidate(t, b)
+	}
+	head := readCSV(t, filepath.Join(out, "cohort.csv"))[0]
+	want := "file,specimen,group,status,error,weight[i1-lin] [kPa],weight[fib-expsq@f1] [kPa],|angle| [deg],stiffening[fib-expsq@f1],lowest_r2,heldout_error"
+	if got := strings.Join(head, ","); got != want {
+		t.Errorf("cohort.csv header\n%s\nwant\n%s", got, want)
+	}
+	for _, f := range []string{"report.html", "plots/parameters.svg", "plots/curves.png", "C010.weft/model.json", "C010.weft/.weft-output", ".weft-output"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Errorf("%s not written: %v", f, err)
+		}
+	}
+	if !strings.Contains(stdout, "caution:") {
+		t.Error("the summary shows no cautions")
+	}
+}
+
+// The same files in another order on the command line give the same
+// bytes in every output file; --no-specimen-reports leaves the specimens'
+// reports out and keeps their data.
+func TestCohortOrderIndependent(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 2, 10, 3, cohortPopulation{"A", 20, 30}, cohortPopulation{"B", 20, 45})
+	var hashes []string
+	for k, order := range [][]int{{0, 1, 2, 3}, {3, 1, 0, 2}} {
+		out := filepath.Join(dir, string(rune('p'+k)), "cohort")
+		if err := os.MkdirAll(filepath.Dir(out), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--preset", "hgo", "--no-specimen-reports"}
+		for _, i := range order {
+			args = append(args, sp[i].file)
+		}
+		if _, stderr, code := runWeft(t, args...); code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		h, err := hashTree(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		hashes = append(hashes, h)
+	}
+	if hashes[0] != hashes[1] {
+		t.Errorf("the outputs depend on the order of the files:\n%s\n%s", hashes[0], hashes[1])
+	}
+	for _, want := range []string{"C001.weft/model.json", "C001.weft/fit.csv", "C001.weft/heldout.csv", "report.html", "cohort.json"} {
+		if !strings.Contains(hashes[0], "  "+want+"\n") {
+			t.Errorf("%s not written", want)
+		}
+	}
+	if strings.Contains(hashes[0], "C001.weft/report.html") {
+		t.Error("--no-specimen-reports wrote a specimen's report")
+	}
+}
+
+// When no file can be used, weft cohort exits 2 and writes nothing.
+func TestCohortNothingUsable(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	out := filepath.Join(dir, "cohort")
+	_, stderr, code := runWeft(t, "cohort", "-o", out, "--quiet", filepath.Join(dir, "none.csv"), writeTemp(t, "bad.csv", "nothing here\n"))
+	if code != 2 || !strings.Contains(stderr, "nothing was written") {
+		t.Errorf("exit %d: %s; want 2", code, stderr)
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("%s exists: %v", out, err)
+	}
+	if _, stderr, code := runWeft(t, "cohort", filepath.Join(dir, "none.csv")); code != 2 || !strings.Contains(stderr, "-o DIR") {
+		t.Errorf("without -o: exit %d: %s", code, stderr)
+	}
+}
+
+// Discovery through the command line: the cohort's form, verdict and
+// support reach cohort.json, and each specimen's folder holds its fit
+// report as 'weft fit' writes it.
+func TestCohortDiscovered(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 4, 15, 11, cohortPopulation{"A", 35, 40})
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--dispersion", "none"}
+	for _, s := range sp {
+		args = append(args, s.file)
+	}
+	if _, stderr, code := runWeft(t, args...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	s := readCohortJSON(t, out)
+	if s.Form.How != "discovered" || s.Form.Key != "1" || strings.Join(s.Form.Terms, "+") != "i1-lin+fib-expsq@f1" {
+		t.Errorf("form %+v, want the generating form i1-lin + fib-expsq@f1", s.Form)
+	}
+	if v := s.Verdict; v == nil || v.Families != "1-or-mirror-pair" || v.Support.Specimens != 4 || len(v.Candidates) == 0 {
+		t.Errorf("verdict %+v", v)
+	}
+	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-all.svg", "C001.weft/curves.csv", "C001.weft/heldout.csv"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Errorf("%s not written: %v", f, err)
+		}
+	}
+}

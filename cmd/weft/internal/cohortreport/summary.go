@@ -1,0 +1,429 @@
+package cohortreport
+
+import (
+	"math"
+	"sort"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+// Format is the format of cohort.json.
+const Format = "weft.cohort/1"
+
+// Statuses of a specimen's row.
+const (
+	StatusOK     = "ok"
+	StatusFailed = "failed"
+)
+
+// Specimen is one input file of a cohort and what became of it.
+type Specimen struct {
+	// File is the path as given (cleaned, '/' separated); Name the
+	// specimen's name; Group its group ("" when it has none); Folder its
+	// output folder inside the cohort's, "" when it failed.
+	File, Name, Group, Folder string
+	// Problem is the specimen's data (nil when the file could not be
+	// read); Result its fit of the shared form and CV its held-out score
+	// (nil when it failed or has one protocol).
+	Problem *aniso.Problem
+	Result  *aniso.Result
+	CV      *aniso.CVScore
+	// Verdict and Form are what its own evidence says (see
+	// aniso.CohortSpecimen); empty when the form was given.
+	Verdict, Form string
+	// Err says why it failed; empty when it did not.
+	Err string
+}
+
+// Input is everything the summary of a cohort is built from.
+type Input struct {
+	// Specimens in the cohort's order (sorted by file), failed ones too.
+	Specimens []Specimen
+	// Cohort is the fit; GroupBy says how groups were assigned ("" for
+	// none).
+	Cohort  *aniso.Cohort
+	GroupBy string
+	// Population and MeanParameters are the population model and the
+	// mean-parameter model (nil when they could not be made);
+	// StressUnit and StressKind those of the cohort.
+	Population, MeanParameters *aniso.Model
+	StressUnit, StressKind     string
+}
+
+// Summary is cohort.json.
+type Summary struct {
+	Format      string          `json:"format"`
+	Cautions    []string        `json:"cautions"`
+	StressUnit  string          `json:"stress_unit"`
+	StressKind  string          `json:"stress_kind"`
+	Form        FormInfo        `json:"form"`
+	Verdict     *VerdictInfo    `json:"verdict"`
+	GroupBy     string          `json:"group_by,omitempty"`
+	Parameters  []ParamInfo     `json:"parameters"`
+	Specimens   []SpecimenRow   `json:"specimens"`
+	Stats       []StatRow       `json:"stats"`
+	Comparisons []Comparison    `json:"comparisons"`
+	Population  *PopulationInfo `json:"population"`
+	Notes       []string        `json:"notes"`
+}
+
+// FormInfo is the shared model form.
+type FormInfo struct {
+	// How is "discovered" or "given".
+	How string `json:"how"`
+	// Key is the form key (aniso.FormKey), Layout the fibre layout, Terms
+	// the terms as labelled in the cards.
+	Key        string   `json:"key"`
+	Layout     string   `json:"layout"`
+	Terms      []string `json:"terms"`
+	InPlane    bool     `json:"in_plane_dispersion"`
+	Dispersion bool     `json:"dispersion"`
+}
+
+// VerdictInfo is the pooled discovery's verdict and evidence.
+type VerdictInfo struct {
+	Families string `json:"families"`
+	Reason   string `json:"reason"`
+	Rule     string `json:"rule"`
+	Decider  string `json:"decider,omitempty"`
+	// Support counts the specimens reaching the verdict on their own.
+	Support    SupportInfo    `json:"support"`
+	Search     []string       `json:"search"`
+	Candidates []CandidateRow `json:"candidates"`
+}
+
+// SupportInfo is aniso.CohortSupport.
+type SupportInfo struct {
+	Specimens   int `json:"specimens"`
+	SameVerdict int `json:"same_verdict"`
+	SameForm    int `json:"same_form"`
+}
+
+// CandidateRow is one pooled candidate form: summed BIC over specimens,
+// the pooled held-out error (mean over specimens of each one's mean fold
+// error) and its standard error over specimens, null when not
+// cross-validated.
+type CandidateRow struct {
+	Name          string   `json:"name"`
+	Terms         []string `json:"terms"`
+	Parameters    int      `json:"parameters"`
+	BIC           card.Num `json:"bic"`
+	HeldoutError  card.Num `json:"heldout_error"`
+	HeldoutStdErr card.Num `json:"heldout_stderr"`
+	Chosen        bool     `json:"chosen"`
+}
+
+// ParamInfo is one parameter of the shared form.
+type ParamInfo struct {
+	Name string `json:"name"`
+	Unit string `json:"unit"`
+	Kind string `json:"kind"`
+	// Absolute is true for a fibre angle summarised as |α| because the
+	// data of some specimen cannot tell its sign.
+	Absolute bool   `json:"absolute"`
+	Note     string `json:"note,omitempty"`
+}
+
+// SpecimenRow is one specimen in cohort.json and cohort.csv.
+type SpecimenRow struct {
+	File     string `json:"file"`
+	Specimen string `json:"specimen"`
+	Group    string `json:"group"`
+	Status   string `json:"status"`
+	Error    string `json:"error,omitempty"`
+	Folder   string `json:"folder,omitempty"`
+	// Parameters by name, angles as summarised (see ParamInfo.Absolute).
+	Parameters map[string]card.Num `json:"parameters,omitempty"`
+	// LowestR2 is the lowest R² over protocols and components; HeldOut the
+	// mean leave-one-protocol-out error (see card.HeldoutMetric).
+	LowestR2 card.Num `json:"lowest_r2"`
+	HeldOut  card.Num `json:"heldout_error"`
+	Verdict  string   `json:"own_verdict,omitempty"`
+	Form     string   `json:"own_form,omitempty"`
+}
+
+// StatRow describes one parameter in one group ("all" for every specimen).
+type StatRow struct {
+	Parameter string      `json:"parameter"`
+	Unit      string      `json:"unit"`
+	Group     string      `json:"group"`
+	N         int         `json:"n"`
+	Mean      card.Num    `json:"mean"`
+	SD        card.Num    `json:"sd"`
+	Median    card.Num    `json:"median"`
+	Q1        card.Num    `json:"q1"`
+	Q3        card.Num    `json:"q3"`
+	CI95      [2]card.Num `json:"ci95"`
+	Note      string      `json:"note,omitempty"`
+}
+
+// TestResult is one test of a comparison: its statistic, degrees of
+// freedom (null where the test has none), p-value and Holm-adjusted
+// p-value over every parameter compared by the same test.
+type TestResult struct {
+	Statistic card.Num `json:"statistic"`
+	DF        card.Num `json:"df"`
+	P         card.Num `json:"p"`
+	PHolm     card.Num `json:"p_holm"`
+	// Exact is true for a Mann–Whitney p-value from the exact
+	// distribution.
+	Exact bool `json:"exact,omitempty"`
+}
+
+// Comparison compares the groups on one parameter: two groups by Welch's
+// t-test, the Mann–Whitney U test and Hedges' g (first group minus
+// second), more by the Kruskal–Wallis test.
+type Comparison struct {
+	Parameter     string      `json:"parameter"`
+	Unit          string      `json:"unit"`
+	Groups        []string    `json:"groups"`
+	N             []int       `json:"n"`
+	Welch         *TestResult `json:"welch,omitempty"`
+	MannWhitney   *TestResult `json:"mann_whitney,omitempty"`
+	HedgesG       *card.Num   `json:"hedges_g,omitempty"`
+	KruskalWallis *TestResult `json:"kruskal_wallis,omitempty"`
+}
+
+// Build summarises a cohort.
+func Build(in *Input) *Summary {
+	s := &Summary{Format: Format, Cautions: cohortCautions(), StressUnit: in.StressUnit, StressKind: in.StressKind, GroupBy: in.GroupBy,
+		Specimens: []SpecimenRow{}, Stats: []StatRow{}, Comparisons: []Comparison{}, Notes: []string{}}
+	s.Form = formInfo(in.Cohort)
+	s.Verdict = verdictInfo(in.Cohort)
+	s.Parameters = parameters(in)
+	values := s.specimenRows(in)
+	s.statistics(in, values)
+	s.compare(in, values)
+	s.Population = populationInfo(in)
+	s.Notes = append(s.Notes, statisticsNotes...)
+	return s
+}
+
+// statisticsNotes say how to read the statistics.
+var statisticsNotes = []string{
+	"ci95 is the 95 % percentile-bootstrap interval of the mean over specimens (2000 resamples, seeded by the parameter and group, so the same inputs give the same interval); q1, median and q3 interpolate between order statistics (Hyndman & Fan 1996, type 7).",
+	"Specimens are independent; the statistics describe the specimens fitted, not tissue in general, and each parameter holds only within the stretch range and protocols tested.",
+	"Comparing many parameters inflates false positives: read p_holm (Holm 1979, over every parameter compared by the same test), not p.",
+}
+
+// cohortCautions are the cards' cautions with the cohort's own.
+func cohortCautions() []string {
+	return append(append([]string(nil), card.Cautions...),
+		"Group statistics describe the specimens tested; they are not a population reference, and the population model is not an average tissue for clinical use.")
+}
+
+func formInfo(c *aniso.Cohort) FormInfo {
+	f := FormInfo{How: "given", Key: aniso.FormKey(c.Form), Layout: c.Form.Layout.String(), InPlane: c.Form.Planar, Dispersion: c.Form.Dispersion, Terms: []string{}}
+	if c.Discovery != nil {
+		f.How = "discovered"
+	}
+	for _, t := range c.Form.Terms {
+		f.Terms = append(f.Terms, t.Label(c.Form.Layout))
+	}
+	return f
+}
+
+func verdictInfo(c *aniso.Cohort) *VerdictInfo {
+	d := c.Discovery
+	if d == nil {
+		return nil
+	}
+	v := &VerdictInfo{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Rule: d.Rule, Decider: d.Verdict.Decider,
+		Support: SupportInfo(c.Support), Search: d.Search, Candidates: []CandidateRow{}}
+	for i, pc := range d.Pareto {
+		r := pc.Result
+		row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), HeldoutError: card.Num(math.NaN()),
+			HeldoutStdErr: card.Num(math.NaN()), Chosen: i == d.Chosen, Terms: []string{}}
+		for _, t := range r.Structure.Terms {
+			row.Terms = append(row.Terms, t.Label(r.Structure.Layout))
+		}
+		if pc.CV != nil {
+			row.HeldoutError, row.HeldoutStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
+		}
+		v.Candidates = append(v.Candidates, row)
+	}
+	return v
+}
+
+// isPeriodicAngle reports whether an estimate is a fibre angle defined
+// modulo 180° (a mirror pair's half angle is not).
+func isPeriodicAngle(e aniso.Estimate) bool { return e.Kind == "angle" && e.Name != "half_angle" }
+
+// parameters lists the shared form's estimates; angles become |α| when
+// any specimen's data cannot tell their sign.
+func parameters(in *Input) []ParamInfo {
+	out := []ParamInfo{}
+	signKnown := true
+	var first *aniso.Result
+	for _, sp := range in.Specimens {
+		if sp.Result != nil {
+			signKnown = signKnown && sp.Result.SignKnown
+			if first == nil {
+				first = sp.Result
+			}
+		}
+	}
+	if first == nil {
+		return out
+	}
+	for _, e := range first.Estimates {
+		p := ParamInfo{Name: e.Name, Unit: e.Unit, Kind: e.Kind}
+		if isPeriodicAngle(e) {
+			if signKnown {
+				p.Note = "signed angle, each specimen's taken on the branch (modulo 180°) nearest the population's"
+			} else {
+				p.Absolute = true
+				p.Note = "|α|: the data of at least one specimen carry no shear information, so the sign of the angle is not determined and its magnitude is summarised"
+			}
+		}
+		out = append(out, p)
+	}
+	return out
+}
+
+// specimenRows writes the specimens' rows and returns each parameter's
+// values per specimen (NaN where missing).
+func (s *Summary) specimenRows(in *Input) [][]float64 {
+	ref := map[string]float64{}
+	if pop := in.Cohort.Population; pop != nil {
+		for _, e := range pop.Estimates {
+			ref[e.Name] = e.Value
+		}
+	}
+	values := make([][]float64, len(s.Parameters))
+	for _, sp := range in.Specimens {
+		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
+			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form}
+		byName := map[string]aniso.Estimate{}
+		if sp.Result == nil {
+			row.Status, row.Error, row.Folder = StatusFailed, sp.Err, ""
+		} else {
+			row.Parameters = map[string]card.Num{}
+			for _, e := range sp.Result.Estimates {
+				byName[e.Name] = e
+			}
+			if r2 := card.LowestR2(sp.Result.Metrics); !math.IsInf(r2, 1) {
+				row.LowestR2 = card.Num(r2)
+			}
+			if sp.CV != nil {
+				row.HeldOut = card.Num(sp.CV.Mean)
+			}
+		}
+		for k, p := range s.Parameters {
+			v := math.NaN()
+			if e, ok := byName[p.Name]; ok {
+				v = summarisedValue(p, e.Value, ref)
+				row.Parameters[p.Name] = card.Num(v)
+			}
+			values[k] = append(values[k], v)
+		}
+		s.Specimens = append(s.Specimens, row)
+	}
+	return values
+}
+
+// summarisedValue is an estimate as the statistics take it: a periodic
+// angle as |α| or on the branch nearest the population's value.
+func summarisedValue(p ParamInfo, v float64, ref map[string]float64) float64 {
+	if p.Kind != "angle" || p.Name == "half_angle" {
+		return v
+	}
+	v = aniso.WrapDeg(v)
+	if p.Absolute {
+		return math.Abs(v)
+	}
+	if r, ok := ref[p.Name]; ok {
+		return r + aniso.WrapDeg(v-r)
+	}
+	return v
+}
+
+// groups lists the group names in sorted order.
+func groups(in *Input) []string {
+	seen := map[string]bool{}
+	var out []string
+	for _, sp := range in.Specimens {
+		if sp.Group != "" && sp.Result != nil && !seen[sp.Group] {
+			seen[sp.Group] = true
+			out = append(out, sp.Group)
+		}
+	}
+	sort.Strings(out)
+	return out
+}
+
+// valuesOf picks the non-NaN values of the specimens in group g ("" for
+// every specimen).
+func valuesOf(in *Input, vals []float64, g string) []float64 {
+	var out []float64
+	for i, sp := range in.Specimens {
+		if (g == "" || sp.Group == g) && !math.IsNaN(vals[i]) {
+			out = append(out, vals[i])
+		}
+	}
+	return out
+}
+
+// statistics describes every parameter over all specimens and per group.
+func (s *Summary) statistics(in *Input, values [][]float64) {
+	gs := groups(in)
+	for k, p := range s.Parameters {
+		note := ""
+		if p.Absolute {
+			note = "|α|"
+		}
+		for _, g := range append([]string{""}, gs...) {
+			name := g
+			if g == "" {
+				name = "all"
+			}
+			d := Describe(valuesOf(in, values[k], g), Seed(p.Name, name))
+			s.Stats = append(s.Stats, StatRow{Parameter: p.Name, Unit: p.Unit, Group: name, N: d.N, Mean: card.Num(d.Mean), SD: card.Num(d.SD),
+				Median: card.Num(d.Median), Q1: card.Num(d.Q1), Q3: card.Num(d.Q3), CI95: [2]card.Num{card.Num(d.CI95[0]), card.Num(d.CI95[1])}, Note: note})
+		}
+	}
+}
+
+// compare tests the groups on every parameter and adjusts each test's
+// p-values over the parameters (Holm 1979).
+func (s *Summary) compare(in *Input, values [][]float64) {
+	gs := groups(in)
+	if len(gs) < 2 {
+		return
+	}
+	var pw, pm, pk []float64
+	for k, p := range s.Parameters {
+		c := Comparison{Parameter: p.Name, Unit: p.Unit, Groups: gs}
+		var samples [][]float64
+		for _, g := range gs {
+			x := valuesOf(in, values[k], g)
+			samples = append(samples, x)
+			c.N = append(c.N, len(x))
+		}
+		if len(gs) == 2 {
+			t, df, pv := Welch(samples[0], samples[1])
+			c.Welch = &TestResult{Statistic: card.Num(t), DF: card.Num(df), P: card.Num(pv)}
+			u, pu, exact := MannWhitney(samples[0], samples[1])
+			c.MannWhitney = &TestResult{Statistic: card.Num(u), DF: card.Num(math.NaN()), P: card.Num(pu), Exact: exact}
+			g := card.Num(HedgesG(samples[0], samples[1]))
+			c.HedgesG = &g
+			pw, pm = append(pw, pv), append(pm, pu)
+		} else {
+			h, df, pv := KruskalWallis(samples...)
+			c.KruskalWallis = &TestResult{Statistic: card.Num(h), DF: card.Num(df), P: card.Num(pv)}
+			pk = append(pk, pv)
+		}
+		s.Comparisons = append(s.Comparisons, c)
+	}
+	hw, hm, hk := Holm(pw), Holm(pm), Holm(pk)
+	for i := range s.Comparisons {
+		c := &s.Comparisons[i]
+		if c.Welch != nil {
+			c.Welch.PHolm, c.MannWhitney.PHolm = card.Num(hw[i]), card.Num(hm[i])
+		}
+		if c.KruskalWallis != nil {
+			c.KruskalWallis.PHolm = card.Num(hk[i])
+		}
+	}
+}

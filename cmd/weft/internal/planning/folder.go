@@ -1,0 +1,374 @@
+package planning
+
+import (
+	"bytes"
+	"encoding/csv"
+	"fmt"
+	"math"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
+)
+
+// A plan is drawn from an output folder alone: the card (the model, its
+// form, the verdict and the selection evidence) and fit.csv (every fitted
+// point's F and measured stress). The data are rebuilt from fit.csv and
+// weighted as package biaxial weights a file, the card's form is refitted
+// from its own estimates (which only polishes the optimum), and the fit's
+// loss must come out as the card states it, so that the plan rests on
+// exactly the fit the folder holds.
+
+// Folder is what a plan reads from an output folder.
+type Folder struct {
+	dir  string
+	card *card.Card
+	spec *biaxial.Specimen
+	// Problem and Result are the rebuilt data and fit.
+	Problem *aniso.Problem
+	Result  *aniso.Result
+}
+
+// planLossTolerance is how far (relative) the rebuilt fit's loss may lie
+// from the card's before the folder is taken not to hold one fit.
+const planLossTolerance = 1e-6
+
+// Rebuild parses an output folder's model.json and fit.csv (their bytes,
+// read by the caller within its limits; dir names the folder in messages)
+// and rebuilds the fit. Errors about the files are *InputError; a fit that
+// cannot be rebuilt, or whose loss is not the card's, is a *RebuildError.
+func Rebuild(dir string, mj, fc []byte, dl biaxial.Limits, cl card.Limits) (*Folder, error) {
+	if dl.MaxRows <= 0 {
+		dl.MaxRows = biaxial.DefaultLimits.MaxRows
+	}
+	c, _, err := card.ParseLimits(bytes.NewReader(mj), filepath.Join(dir, "model.json"), cl)
+	if err != nil {
+		return nil, inputError(err)
+	}
+	for _, key := range []string{card.KeyFit, card.KeyData, card.KeyVerdict, card.KeySelection} {
+		if err := c.SectionError(key); err != nil {
+			return nil, inputErrorf("%s: $.%s: %v", filepath.Join(dir, "model.json"), key, err)
+		}
+	}
+	if c.Fit == nil || c.Data == nil {
+		return nil, inputErrorf("%s has no 'fit' or 'data' section: a plan needs a card that 'weft fit' wrote", filepath.Join(dir, "model.json"))
+	}
+	f := &Folder{dir: dir, card: c}
+	if f.spec, err = specimenFromTable(fc, filepath.Join(dir, "fit.csv"), c, dl); err != nil {
+		return nil, err
+	}
+	if f.Problem, err = aniso.NewProblem(f.spec, nil); err != nil {
+		return nil, inputError(err)
+	}
+	if err := f.refit(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// specimenFromTable rebuilds the fitted specimen from fit.csv: its
+// protocols in order of first appearance, every point's F and measured
+// stress, the relative weights the card's data section records, weighted
+// as package biaxial weights a file.
+func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (*biaxial.Specimen, error) {
+	rows, err := csv.NewReader(bytes.NewReader(b)).ReadAll()
+	if err != nil {
+		return nil, inputErrorf("%s: %v", file, err)
+	}
+	if len(rows) < 2 {
+		return nil, inputErrorf("%s: no data rows", file)
+	}
+	if len(rows)-1 > dl.MaxRows {
+		return nil, &InputError{Err: limitError{fmt.Sprintf("%s holds more than %d rows, the limit for it", file, dl.MaxRows), biaxial.ErrRowCount}}
+	}
+	fixed := []string{"protocol", "line", "cycle", "F11", "F12", "F21", "F22"}
+	h := rows[0]
+	for i, n := range fixed {
+		if i >= len(h) || h[i] != n {
+			return nil, inputErrorf("%s: line 1: expected the columns %s first, as 'weft fit' writes them", file, strings.Join(fixed, ","))
+		}
+	}
+	s := &biaxial.Specimen{Name: c.Data.Specimen, Source: c.Data.Source, StressUnit: c.Data.StressUnit, Meta: map[string]string{}}
+	switch c.Data.StressKind {
+	case "nominal":
+		s.Kind = biaxial.Nominal
+	case "cauchy":
+		s.Kind = biaxial.Cauchy
+	default:
+		return nil, inputErrorf("model.json: $.data.stress_kind %q is neither nominal nor cauchy", c.Data.StressKind)
+	}
+	measuredCol := map[int]biaxial.Component{}
+	for j := len(fixed); j < len(h); j++ {
+		name, unit, _ := strings.Cut(h[j], " [")
+		kc, ok := strings.CutPrefix(name, "measured_"+c.Data.StressKind+"_")
+		if !ok {
+			continue
+		}
+		comp := map[string]biaxial.Component{"11": biaxial.C11, "22": biaxial.C22, "12": biaxial.C12, "21": biaxial.C21}
+		cc, ok := comp[kc]
+		if !ok || strings.TrimSuffix(unit, "]") != c.Data.StressUnit {
+			return nil, inputErrorf("%s: line 1, column %d: %q is not a measured %s stress in %s, as model.json says the fit used", file, j+1, h[j], c.Data.StressKind, c.Data.StressUnit)
+		}
+		measuredCol[j] = cc
+		s.Measured[cc] = true
+	}
+	if !s.Measured[biaxial.C11] || !s.Measured[biaxial.C22] {
+		return nil, inputErrorf("%s: line 1: no measured_%s_11 and _22 columns; the table does not belong to model.json", file, c.Data.StressKind)
+	}
+	index := map[string]int{}
+	for i, row := range rows[1:] {
+		ln := i + 2
+		if len(row) != len(h) {
+			return nil, inputErrorf("%s: line %d: %d fields, the header has %d", file, ln, len(row), len(h))
+		}
+		num := func(j int) (float64, error) {
+			v, err := strconv.ParseFloat(row[j], 64)
+			if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+				return 0, inputErrorf("%s: line %d, column %d: %q is not a number", file, ln, j+1, row[j])
+			}
+			return v, nil
+		}
+		pt := biaxial.Point{Time: math.NaN()}
+		var err error
+		if pt.Line, err = strconv.Atoi(row[1]); err != nil {
+			return nil, inputErrorf("%s: line %d, column 2: %q is not a line number", file, ln, row[1])
+		}
+		if pt.Cycle, err = strconv.Atoi(row[2]); err != nil {
+			return nil, inputErrorf("%s: line %d, column 3: %q is not a cycle number", file, ln, row[2])
+		}
+		for k := 0; k < 4; k++ {
+			if pt.F[k], err = num(3 + k); err != nil {
+				return nil, err
+			}
+		}
+		for j, cc := range measuredCol {
+			if pt.Stress[cc], err = num(j); err != nil {
+				return nil, err
+			}
+		}
+		pi, ok := index[row[0]]
+		if !ok {
+			pi = len(s.Protocols)
+			index[row[0]] = pi
+			s.Protocols = append(s.Protocols, biaxial.Protocol{Label: row[0], UserWeight: 1})
+		}
+		s.Protocols[pi].Points = append(s.Protocols[pi].Points, pt)
+	}
+	return s, finishSpecimen(s, c, file)
+}
+
+// finishSpecimen checks the rebuilt specimen against the card's data
+// section, takes its relative weights and shear information, and weighs it.
+func finishSpecimen(s *biaxial.Specimen, c *card.Card, file string) error {
+	if len(c.Data.Protocols) != len(s.Protocols) {
+		return inputErrorf("%s holds %d protocols but model.json's data section lists %d; the files are not from the same fit", file, len(s.Protocols), len(c.Data.Protocols))
+	}
+	shear := s.Measured[biaxial.C12] || s.Measured[biaxial.C21]
+	for i, dp := range c.Data.Protocols {
+		pr := &s.Protocols[i]
+		if dp.Label != pr.Label || dp.Points != len(pr.Points) {
+			return inputErrorf("%s: protocol %q with %d points, but model.json lists %q with %d; the files are not from the same fit", file, pr.Label, len(pr.Points), dp.Label, dp.Points)
+		}
+		pr.UserWeight = dp.Weight
+		for _, pt := range pr.Points {
+			shear = shear || pt.F[1] != 0 || pt.F[2] != 0
+		}
+	}
+	if shear != c.Data.HasShear {
+		return inputErrorf("%s and model.json disagree on whether the data carry shear information; the files are not from the same fit", file)
+	}
+	s.HasShear = shear
+	s.Weigh()
+	return nil
+}
+
+// refit rebuilds the card's fitted form and polishes it from the card's
+// estimates (the optimum, so the refinement only confirms it), then checks
+// that it reproduces the card's loss.
+func (f *Folder) refit() error {
+	fs, c := f.card.Fit, f.card
+	l, err := aniso.ParseLayout(fs.Layout)
+	if err != nil {
+		return inputErrorf("model.json: $.fit.layout: %v", err)
+	}
+	hold := c.Layout != nil && c.Layout.PairAxis == "axis-1"
+	st, err := aniso.StructureFromLabels(fs.Terms, l, fs.Dispersion, fs.InPlane, hold)
+	if err != nil {
+		return inputErrorf("model.json: $.fit.terms: %v", err)
+	}
+	init := map[string]float64{}
+	for _, e := range fs.Estimates {
+		v := float64(e.Value)
+		if e.Kind == "weight" || math.IsNaN(v) {
+			continue
+		}
+		if e.Kind == "angle" {
+			v = aniso.Rad(v)
+		}
+		init[e.Name] = v
+	}
+	r, err := aniso.Fit(f.Problem, st, aniso.Settings{Init: init, NoScan: true})
+	if err != nil {
+		return &RebuildError{Msg: fmt.Sprintf("%s: the fit could not be rebuilt: %v", f.dir, err)}
+	}
+	want := float64(fs.Loss)
+	if math.Abs(r.Loss-want) > planLossTolerance*math.Max(want, 1e-300) {
+		return &RebuildError{Msg: fmt.Sprintf("%s: the rebuilt fit's loss %.10g differs from the card's %.10g; model.json and fit.csv are not from the same fit (or were edited) — fit the data again", f.dir, r.Loss, want)}
+	}
+	f.Result = r
+	return nil
+}
+
+// Questions are the choices the plan scores: what the verdict left open
+// (the sign of an angle, one family or a mirror pair, an undecided family
+// count) and the model forms within the selection's one-standard-error
+// band; notes say what was left out and why.
+func (f *Folder) Questions() ([]aniso.Question, []string) {
+	r := f.Result
+	var qs []aniso.Question
+	var notes []string
+	iso := len(r.Model.Families) == 0
+	if q, ok := aniso.LayoutQuestion(r.Model, r.SignKnown); ok {
+		qs = append(qs, q)
+	}
+	if v := f.card.Verdict; v != nil && v.Families == "undecided" {
+		if iso {
+			notes = append(notes, "the verdict is undecided, but the chosen model is isotropic: it predicts nothing a fibre family would do, so no planned test is scored on the family count")
+		} else if q, ok := f.undecidedQuestion(); ok {
+			qs = append(qs, q)
+		}
+	}
+	if q, note, ok := f.bandQuestion(); ok {
+		qs = append(qs, q)
+	} else if note != "" {
+		notes = append(notes, note)
+	}
+	return qs, notes
+}
+
+// candidateForm is a selection candidate's form key (aniso.FormKey).
+func candidateForm(cc *card.CandidateCard) string {
+	l, err := aniso.ParseLayout(cc.Layout)
+	if err != nil {
+		return ""
+	}
+	return aniso.FormKey(aniso.Structure{Layout: l, Dispersion: cc.Dispersion, Planar: cc.InPlane})
+}
+
+// undecidedQuestion pits the chosen model against the best model of the
+// richer form the undecided verdict points towards.
+func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
+	v, sel := f.card.Verdict, f.card.Selection
+	if sel == nil {
+		return aniso.Question{}, false
+	}
+	var toward string
+	for _, lc := range v.Comparisons {
+		if lc.Suggestive && !lc.Decisive {
+			toward = lc.Richer
+		}
+	}
+	var best *card.CandidateCard
+	for i := range sel.Pareto {
+		cc := &sel.Pareto[i]
+		if candidateForm(cc) != toward || cc.Model == nil || math.IsNaN(float64(cc.HeldoutError)) {
+			continue
+		}
+		if best == nil || cc.HeldoutError < best.HeldoutError {
+			best = cc
+		}
+	}
+	if best == nil {
+		return aniso.Question{}, false
+	}
+	m, err := f.card.CandidateModelOf(best)
+	if err != nil {
+		return aniso.Question{}, false
+	}
+	q := aniso.Question{Verdict: true, SignUnknown: !f.Result.SignKnown, Explanations: []aniso.Explanation{
+		{Name: "form " + v.Form + " as chosen (" + activeTerms(f.Result) + ")", Model: f.Result.Model},
+		{Name: "form " + toward + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")", Model: m},
+	}}
+	q.Topic = "fibre families (undecided verdict)"
+	q.Text = q.Topic + ": " + aniso.ExplanationList(q.Explanations)
+	return q, true
+}
+
+// activeTerms lists the labels of r's terms with a positive weight.
+func activeTerms(r *aniso.Result) string {
+	var ls []string
+	for i, t := range r.Structure.Terms {
+		if r.Weights[i] > 0 {
+			ls = append(ls, t.Label(r.Structure.Layout))
+		}
+	}
+	return strings.Join(ls, " + ")
+}
+
+// maxBandForms bounds the forms of the band question, the closest to the
+// best held-out error first.
+const maxBandForms = 6
+
+// bandQuestion is the choice among the discovered models of the verdict's
+// form whose held-out error lies within one standard error of the form's
+// best (the band the selection rule picks from), or a note why there is
+// none to ask.
+func (f *Folder) bandQuestion() (aniso.Question, string, bool) {
+	v, sel := f.card.Verdict, f.card.Selection
+	if v == nil || sel == nil {
+		return aniso.Question{}, "", false
+	}
+	var in []*card.CandidateCard
+	var best *card.CandidateCard
+	for i := range sel.Pareto {
+		cc := &sel.Pareto[i]
+		if candidateForm(cc) != v.Form || math.IsNaN(float64(cc.HeldoutError)) {
+			continue
+		}
+		in = append(in, cc)
+		if best == nil || cc.HeldoutError < best.HeldoutError {
+			best = cc
+		}
+	}
+	if best == nil {
+		return aniso.Question{}, "", false
+	}
+	se := math.Max(float64(best.HeldoutStdErr), float64(v.StdErrFloor))
+	thr := float64(best.HeldoutError) + se
+	var band []*card.CandidateCard
+	for _, cc := range in {
+		if float64(cc.HeldoutError) <= thr {
+			band = append(band, cc)
+		}
+	}
+	sort.SliceStable(band, func(a, b int) bool {
+		if band[a].Chosen != band[b].Chosen {
+			return band[a].Chosen
+		}
+		return band[a].HeldoutError < band[b].HeldoutError
+	})
+	if len(band) > maxBandForms {
+		band = band[:maxBandForms]
+	}
+	if len(band) < 2 {
+		return aniso.Question{}, "", false
+	}
+	q := aniso.Question{SignUnknown: !f.Result.SignKnown}
+	for _, cc := range band {
+		m := f.Result.Model
+		if !cc.Chosen {
+			var err error
+			if m, err = f.card.CandidateModelOf(cc); err != nil {
+				return aniso.Question{}, "the model forms within the selection's one-standard-error band are not compared: " + err.Error() + "; fit the data again to record them", false
+			}
+		}
+		q.Explanations = append(q.Explanations, aniso.Explanation{Name: cc.Name + " (" + strings.Join(cc.Terms, " + ") + ")", Model: m})
+	}
+	q.Topic = "model form"
+	q.Text = "model form (held-out error within one standard error of the best): " + aniso.ExplanationList(q.Explanations)
+	return q, "", true
+}

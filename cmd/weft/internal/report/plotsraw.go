@@ -1,0 +1,86 @@
+package report
+
+import (
+	"fmt"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// The record as measured: every cycle of every protocol, the kept branch
+// and the preload, from raw.csv.
+
+// preloadGlyph marks the first row of a protocol's record.
+func preloadGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(3.2), Shape: filledMark{n: 4}}
+}
+
+// rawFigure draws every protocol's record: all rows as a thin line in test
+// order (so every cycle, loading and unloading, shows), the rows the fit
+// kept as a heavy line, and the first row, the preload, as a black
+// diamond; nil without raw.csv.
+func (in *Input) rawFigure() *figure {
+	t := in.table
+	rt := in.raw
+	if rt == nil || !t.hasNormal() {
+		return nil
+	}
+	var labels []string
+	for _, pr := range t.protocols {
+		if rt.protos[pr.label] != nil {
+			labels = append(labels, pr.label)
+		}
+	}
+	n := len(labels)
+	if n == 0 {
+		return nil
+	}
+	var legend []legendEntry
+	for _, ci := range t.componentsOf(false) {
+		c := t.comps[ci]
+		sym := compSymbol(t.kind, c)
+		legend = append(legend, legendEntry{sym + ", every cycle", lineSample(lineStyle(tint(componentColor(c), 0.5), 0.6))},
+			legendEntry{sym + ", kept branch (fitted)", lineSample(lineStyle(componentColor(c), 1.6))})
+	}
+	legend = append(legend, legendEntry{"preload (first row)", glyphSample(preloadGlyph())})
+	panel := func(i int) *plot.Plot {
+		rr := rt.protos[labels[i]]
+		cycles := 0
+		for _, c := range rr.cycle {
+			cycles = max(cycles, c)
+		}
+		title := labels[i]
+		if cycles > 0 {
+			title = fmt.Sprintf("%s · %d cycles", labels[i], cycles)
+		}
+		p := newPanel(title, abscissaLabel(false, false), stressAxis(t.kind, t.unit), 5, 6)
+		for _, ci := range t.componentsOf(false) {
+			c := t.comps[ci]
+			xs := xsOf(rr.F, c, false)
+			addCurve(p, xs, rr.stress[ci], lineStyle(tint(componentColor(c), 0.5), 0.6))
+			// The kept rows, run by run (a kept branch of every cycle has
+			// one run per cycle).
+			var kx, ky []float64
+			for k := range xs {
+				if rr.kept[k] {
+					kx, ky = append(kx, xs[k]), append(ky, rr.stress[ci][k])
+				} else if len(kx) > 0 {
+					addCurve(p, kx, ky, lineStyle(componentColor(c), 1.6))
+					kx, ky = nil, nil
+				}
+			}
+			addCurve(p, kx, ky, lineStyle(componentColor(c), 1.6))
+		}
+		for _, ci := range t.componentsOf(false) {
+			if len(rr.F) > 0 {
+				addPoints(p, []float64{axisCoordinate(rr.F[0], t.comps[ci], false)}, []float64{rr.stress[ci][0]}, preloadGlyph())
+			}
+		}
+		includeZero(p)
+		return p
+	}
+	caption := "The test file as measured, before any re-referencing: every row in test order as a thin line (each cycle's loading and unloading), the rows the fit used as a heavy line, the first row — the preload — as a black diamond. " +
+		"Records longer than 1500 rows per protocol are thinned evenly; raw.csv holds the rows drawn."
+	return tiledFigure("raw", "The record: every cycle, the kept branch and the preload", caption, n, shortTileHeight(n), panel, legend)
+}

@@ -1,0 +1,238 @@
+package report
+
+import (
+	"bytes"
+	"encoding/binary"
+	"encoding/xml"
+	"hash/crc32"
+	"image"
+	"image/color"
+	"image/png"
+	"io"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/terms"
+)
+
+// wellFormed parses s with a general XML parser.
+func wellFormed(t *testing.T, s string) {
+	t.Helper()
+	dec := xml.NewDecoder(strings.NewReader(s))
+	for {
+		_, err := dec.Token()
+		if err == io.EOF {
+			return
+		}
+		if err != nil {
+			t.Fatalf("not well-formed XML: %v\n%s", err, s)
+		}
+	}
+}
+
+// Every formula the catalogue writes, with its default parameters, with
+// zeros (the polynomial limits) and with a negative exponent, translates
+// to well-formed MathML; a fraction is <mfrac> with numerator and
+// denominator, and a power of ten from %g is written as one (element names
+// of W3C MathML Core).
+func TestMathMLOfTheCatalogue(t *testing.T) {
+	for _, s := range terms.Catalogue() {
+		sets := [][]float64{s.DefaultParams(), make([]float64, len(s.Params))}
+		if s.ID == "ps-neg" {
+			sets = append(sets, []float64{-7.5})
+		}
+		for _, p := range sets {
+			_, latex := s.Written(p)
+			m, err := mathML(latex, true)
+			if err != nil {
+				t.Errorf("%s: %q: %v", s.ID, latex, err)
+				continue
+			}
+			wellFormed(t, string(m))
+		}
+	}
+	m, err := mathML(`\frac{w}{2}`, false)
+	if err != nil || string(m) != `<math><mrow><mfrac><mrow><mi>w</mi></mrow><mrow><mn>2</mn></mrow></mfrac></mrow></math>` {
+		t.Errorf(`\frac{w}{2}: %s, %v`, m, err)
+	}
+	m, _ = mathML(`1.5e-05\,E_{f1}^{2}`, false)
+	if !strings.Contains(string(m), "<mn>1.5</mn><mo>×</mo><msup><mn>10</mn><mn>−5</mn></msup>") || !strings.Contains(string(m), "<msubsup><mi>E</mi>") {
+		t.Errorf("number and scripts: %s", m)
+	}
+	if _, err := mathML(`\unknown{x}`, false); err == nil {
+		t.Errorf("an unknown command must be an error, so the page falls back to plain text")
+	}
+}
+
+// The energy of a card splits into its terms at the top level only: the
+// Fung-type term's exponent holds " + " inside braces and must stay one
+// term, and the plain-text energy splits into the same number of terms.
+func TestEnergyTerms(t *testing.T) {
+	m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: 0.5}}, Terms: []aniso.Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
+		{Shape: terms.Lookup("fung"), Family: -1, Weight: 0.5, Params: []float64{12, 6, 2, 8}},
+		{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{5}},
+	}}
+	c := card.FromModel(m, "kPa", nil)
+	lhs, ts := energyTerms(c.EnergyLaTeX)
+	if lhs != `\Psi` || len(ts) != 3 {
+		t.Fatalf("lhs %q, %d terms: %q", lhs, len(ts), ts)
+	}
+	if p := plainTerms(c.Energy); len(p) != 3 {
+		t.Errorf("plain energy splits into %d terms: %q", len(p), p)
+	}
+	h, err := energyMathML(c.EnergyLaTeX, c.Energy, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(string(h), "<math"); n != 3 {
+		t.Errorf("%d math elements, want one per term", n)
+	}
+	wellFormed(t, "<div>"+string(h)+"</div>")
+}
+
+// Numbers keep their significant digits, trailing zeros included, with a
+// true minus sign.
+func TestSignificantDigits(t *testing.T) {
+	for _, c := range []struct {
+		x    float64
+		n    int
+		want string
+	}{
+		{0.25, 3, "0.250"}, {0.731, 3, "0.731"}, {9.996, 3, "10.0"}, {-0.25, 3, "−0.250"},
+		{1234.6, 4, "1235"}, {1.23e-5, 3, "1.23e−5"}, {2.5e7, 2, "2.5e7"}, {0, 3, "0"}, {math.NaN(), 3, "—"},
+	} {
+		if got := fsig(c.x, c.n); got != c.want {
+			t.Errorf("fsig(%g, %d) = %q, want %q", c.x, c.n, got, c.want)
+		}
+	}
+	if got := sameDecimals(0.00026, 0.00735, 3); got != "0.00026" {
+		t.Errorf("standard error beside 0.00735: %q", got)
+	}
+	if got := fmtR2(0.99996); got != "> 0.9999" {
+		t.Errorf("R² that rounds to 1: %q", got)
+	}
+}
+
+// A PNG gets a pHYs chunk right after IHDR that states its resolution in
+// pixels per metre (PNG specification, ISO/IEC 15948:2004, §11.3.5.3);
+// the chunk's CRC-32 is checked with the standard library's table, and
+// the file still decodes.
+func TestPNGResolution(t *testing.T) {
+	img := image.NewNRGBA(image.Rect(0, 0, 4, 3))
+	img.Set(1, 1, color.Black)
+	var buf bytes.Buffer
+	if err := png.Encode(&buf, img); err != nil {
+		t.Fatal(err)
+	}
+	b := withResolution(buf.Bytes(), 144)
+	if _, err := png.Decode(bytes.NewReader(b)); err != nil {
+		t.Fatalf("the PNG does not decode: %v", err)
+	}
+	at := 8 + 25 // signature, IHDR chunk
+	if string(b[at+4:at+8]) != "pHYs" || binary.BigEndian.Uint32(b[at:]) != 9 {
+		t.Fatalf("no pHYs chunk after IHDR: %q", b[at:at+8])
+	}
+	data := b[at+8 : at+17]
+	if x, y := binary.BigEndian.Uint32(data), binary.BigEndian.Uint32(data[4:]); x != 5669 || y != 5669 || data[8] != 1 {
+		t.Errorf("pHYs %d × %d, unit %d; 144 dpi is 5669 per metre", x, y, data[8])
+	}
+	if crc := binary.BigEndian.Uint32(b[at+17:]); crc != crc32.ChecksumIEEE(b[at+4:at+17]) {
+		t.Errorf("pHYs CRC %08x is wrong", crc)
+	}
+}
+
+// Axis ticks: at most the asked number of labels, at least two, distinct,
+// on any span.
+func TestTickLabels(t *testing.T) {
+	for _, r := range [][2]float64{{0, 9.6}, {1.005, 1.15}, {-0.19, 0.19}, {0, 0.0031}, {0.005, 0.161}, {-2, 150}, {1.0004, 1.0009}, {0, 100}} {
+		for _, most := range []int{5, 6} {
+			seen := map[string]bool{}
+			for _, tk := range (niceTicks{maxLabels: most}).Ticks(r[0], r[1]) {
+				if tk.Label == "" {
+					continue
+				}
+				if seen[tk.Label] {
+					t.Errorf("%v: label %s twice", r, tk.Label)
+				}
+				seen[tk.Label] = true
+			}
+			if len(seen) > most || len(seen) < 2 {
+				t.Errorf("%v with at most %d: %d labels %v", r, most, len(seen), seen)
+			}
+		}
+	}
+	labelled := 0
+	for _, tk := range (logTicks{maxLabels: 6}).Ticks(0.1, 2e5) {
+		if tk.Label != "" {
+			labelled++
+			if tk.Label == "1" {
+				labelled += 100
+			}
+		}
+	}
+	if labelled < 100 || labelled-100 > 6 {
+		t.Errorf("log ticks over 0.1 … 2e5: %d labels, the threshold at 1 labelled: %v", labelled%100, labelled >= 100)
+	}
+}
+
+// The stretch where the fibres take over half the load is interpolated
+// linearly between the points that straddle one half; a fraction that
+// starts above or never reaches one half says so.
+func TestTakeover(t *testing.T) {
+	xs := []float64{1.00, 1.05, 1.10, 1.15}
+	to, ok := takeoverOf(xs, []float64{math.NaN(), 0.3, 0.4, 0.6})
+	if !ok || math.Abs(to.at-1.125) > 1e-12 || to.from || to.never || to.first != 1.05 {
+		t.Errorf("crossing: %+v", to)
+	}
+	if to, _ := takeoverOf(xs, []float64{0.6, 0.7, 0.7, 0.8}); !to.from || !math.IsNaN(to.at) {
+		t.Errorf("from the start: %+v", to)
+	}
+	if to, _ := takeoverOf(xs, []float64{0.1, 0.2, 0.3, 0.4}); !to.never || to.last != 1.15 {
+		t.Errorf("never: %+v", to)
+	}
+}
+
+// A protocol's model curve is densified between pure-stretch points,
+// drawn at the measured points where markers measured shear, and never
+// longer than maxCurvePoints.
+func TestCurvePath(t *testing.T) {
+	var pure, sheared, long [][4]float64
+	for i := 0; i < 10; i++ {
+		l := 1 + 0.01*float64(i)
+		pure = append(pure, [4]float64{l, 0, 0, l})
+		sheared = append(sheared, [4]float64{l, 0.01, 0, l})
+	}
+	for i := 0; i < 5000; i++ {
+		long = append(long, [4]float64{1 + 1e-5*float64(i), 0, 0, 1})
+	}
+	if n := len(CurvePath(pure)); n != 9*curveSubsteps+1 {
+		t.Errorf("pure stretch: %d points, want %d", n, 9*curveSubsteps+1)
+	}
+	if n := len(CurvePath(sheared)); n != 10 {
+		t.Errorf("sheared: %d points, want the 10 measured", n)
+	}
+	p := CurvePath(long)
+	if len(p) != maxCurvePoints || p[0] != long[0] || p[len(p)-1] != long[len(long)-1] {
+		t.Errorf("long: %d points from %v to %v", len(p), p[0], p[len(p)-1])
+	}
+}
+
+// A long series is drawn every k-th point, its ends kept; a short one
+// whole.
+func TestThinned(t *testing.T) {
+	xs := make([]float64, 1001)
+	for i := range xs {
+		xs[i] = float64(i)
+	}
+	ox, oy := thinned(xs, xs)
+	if len(ox) > maxMarkers+1 || ox[0] != 0 || ox[len(ox)-1] != 1000 || len(oy) != len(ox) {
+		t.Errorf("%d points from %g to %g", len(ox), ox[0], ox[len(ox)-1])
+	}
+	if s, _ := thinned(xs[:40], xs[:40]); len(s) != 40 {
+		t.Errorf("a short series lost points: %d", len(s))
+	}
+}

@@ -1,0 +1,463 @@
+package report
+
+import (
+	"fmt"
+	"html/template"
+	"math"
+	"sort"
+	"strings"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+)
+
+// The report's sections on admissibility, the load split, and the methods
+// and traceability of the fit.
+
+// admissibleSection runs weft check's checks on the fitted range and on
+// the default grid and tabulates them side by side.
+func (in *Input) admissibleSection(v *reportView) {
+	grids := []struct {
+		name string
+		g    aniso.StabilityGrid
+	}{}
+	if dr := in.dataRange; dr != nil {
+		lo, hi := math.Min(dr.Stretch1[0], dr.Stretch2[0]), math.Max(dr.Stretch1[1], dr.Stretch2[1])
+		shear := math.Max(math.Abs(dr.Shear[0]), math.Abs(dr.Shear[1]))
+		g := aniso.StabilityGrid{StretchMin: lo, StretchMax: hi, Steps: 13, ShearMax: shear, Directions: 180}
+		if g.Validate() == nil && hi > lo {
+			grids = append(grids, struct {
+				name string
+				g    aniso.StabilityGrid
+			}{fmt.Sprintf("fitted range: λ %s to %s, shear ±%s", fsig(lo, 3), fsig(hi, 3), fsig(shear, 2)), g})
+		}
+	}
+	d := aniso.DefaultStabilityGrid()
+	grids = append(grids, struct {
+		name string
+		g    aniso.StabilityGrid
+	}{fmt.Sprintf("default grid: λ %s to %s, shear ±%s", fsig(d.StretchMin, 2), fsig(d.StretchMax, 2), fsig(d.ShearMax, 2)), d})
+	v.Admissible = htmlTable{Head: []string{"check"}}
+	var reps []*fe.CheckReport
+	for _, g := range grids {
+		rep, err := fe.CheckCard("model.json", in.card, in.model, g.g, in.dataRange)
+		if err != nil {
+			v.AdmissibleNote = append(v.AdmissibleNote, "The check could not run on the "+g.name+": "+err.Error())
+			continue
+		}
+		reps = append(reps, rep)
+		v.Admissible.Head = append(v.Admissible.Head, g.name)
+	}
+	if len(reps) == 0 {
+		return
+	}
+	row := func(name string, cell func(r *fe.CheckReport) string) {
+		cells := []string{name}
+		for _, r := range reps {
+			cells = append(cells, cell(r))
+		}
+		v.Admissible.Rows = append(v.Admissible.Rows, htmlRow{Cells: cells})
+	}
+	pass := func(ok bool, failing, of int) string {
+		if ok {
+			return fmt.Sprintf("passes (%d points)", of)
+		}
+		return fmt.Sprintf("fails at %d of %d points", failing, of)
+	}
+	row("stress-free reference", func(r *fe.CheckReport) string { return passWord(r.Reference.Passed) })
+	row("material stability", func(r *fe.CheckReport) string {
+		return pass(r.Stability.Passed, r.Stability.FailingPoints, r.Grid.Evaluated)
+	})
+	row("strong ellipticity", func(r *fe.CheckReport) string {
+		return pass(r.Ellipticity.Passed, r.Ellipticity.FailingPoints, r.Grid.Evaluated)
+	})
+	row("polyconvexity of every term", func(r *fe.CheckReport) string {
+		if r.Polyconvexity.AllTerms {
+			return "yes"
+		}
+		return "no (reported, not failed)"
+	})
+	row("overall", func(r *fe.CheckReport) string { return passWord(r.Passed) })
+	// The default grid reaches beyond the data by design; its many
+	// extrapolation warnings are one sentence here.
+	seen := map[string]bool{}
+	beyond := false
+	for _, r := range reps {
+		for _, s := range append(append([]string{}, r.Failures...), r.Warnings...) {
+			if strings.Contains(s, "beyond the fitted data") {
+				beyond = true
+				continue
+			}
+			if !seen[s] {
+				seen[s] = true
+				v.AdmissibleNote = append(v.AdmissibleNote, capitalise(minusSigns(s)))
+			}
+		}
+	}
+	if beyond {
+		v.AdmissibleNote = append(v.AdmissibleNote, "The default grid reaches beyond the fitted data (stretches, shear and fibre stretch): there the check tests the formula, not a model supported by data; weft check lists each quantity.")
+	}
+}
+
+// passWord writes a check's outcome.
+func passWord(ok bool) string {
+	if ok {
+		return "passes"
+	}
+	return "fails"
+}
+
+// splitSection writes the load-sharing figure and its tables: where the
+// fibres take over half the load, each group's share per protocol and
+// component (none where the component carries no net load), each term's
+// share, and the energy split at each protocol's largest deformation.
+func (in *Input) splitSection(v *reportView) {
+	v.SplitFigure = v.fig("load-share")
+	in.takeoverTable(v)
+	sp := in.split
+	if sp == nil {
+		return
+	}
+	in.sharesTable(v)
+	in.energyColumns(v)
+}
+
+// takeoverTable writes, per protocol and axis, where the fibres take over
+// half of the load.
+func (in *Input) takeoverTable(v *reportView) {
+	t := in.table
+	groups := t.groupsOf()
+	if len(groups) >= 2 && t.hasNormal() {
+		v.Takeover = htmlTable{Head: []string{"protocol"}, Num: []bool{false}}
+		for _, ci := range t.componentsOf(false) {
+			v.Takeover.Head = append(v.Takeover.Head, "fibres take over half, axis "+t.comps[ci][:1])
+			v.Takeover.Num = append(v.Takeover.Num, false)
+		}
+		for _, pr := range t.protocols {
+			cells := []string{pr.label}
+			for _, ci := range t.componentsOf(false) {
+				xs := xsOf(pr.F, t.comps[ci], false)
+				to, ok := takeoverOf(xs, fibreFraction(groups, t.groupShares(pr, ci, groups)))
+				cells = append(cells, takeoverText(to, ok))
+			}
+			v.Takeover.Rows = append(v.Takeover.Rows, htmlRow{Cells: cells})
+		}
+	}
+}
+
+// sharesTable writes each group's and term's share per protocol and
+// component, none where the component carries no net load.
+func (in *Input) sharesTable(v *reportView) {
+	t, sp := in.table, in.split
+	v.SplitMeasure = sp.Measure
+	v.Shares = htmlTable{Head: []string{"protocol", "component"}, Num: []bool{false, false}}
+	for _, g := range sp.Groups {
+		v.Shares.Head = append(v.Shares.Head, groupName(g))
+		v.Shares.Num = append(v.Shares.Num, true)
+	}
+	if len(sp.Terms) > 1 {
+		for _, term := range sp.Terms {
+			v.Shares.Head = append(v.Shares.Head, term)
+			v.Shares.Num = append(v.Shares.Num, true)
+		}
+	}
+	v.Shares.Head = append(v.Shares.Head, "note")
+	v.Shares.Num = append(v.Shares.Num, false)
+	// A component without a share in every protocol is named once in the
+	// note instead of a row of dashes per protocol.
+	noShare := -1.0
+	everywhere := map[string]bool{}
+	for _, c := range t.comps {
+		everywhere[c] = true
+	}
+	notes := map[[2]string]string{}
+	for _, pp := range sp.Protocols {
+		for _, cc := range pp.Components {
+			n := in.noShare(pp.Protocol, cc)
+			notes[[2]string{pp.Protocol, cc.Component}] = n
+			everywhere[cc.Component] = everywhere[cc.Component] && n != ""
+			if n != "" {
+				noShare = math.Max(noShare, in.netPeak(pp.Protocol, cc.Component))
+			}
+		}
+	}
+	var omitted []string
+	for _, c := range t.comps {
+		if everywhere[c] {
+			omitted = append(omitted, compSymbol(t.kind, c))
+		}
+	}
+	for _, pp := range sp.Protocols {
+		for _, cc := range pp.Components {
+			if everywhere[cc.Component] {
+				continue
+			}
+			note := notes[[2]string{pp.Protocol, cc.Component}]
+			row := []string{pp.Protocol, compSymbol(t.kind, cc.Component)}
+			for _, g := range sp.Groups {
+				x := float64(cc.GroupShare[g])
+				if note != "" {
+					x = math.NaN()
+				}
+				row = append(row, pct(x))
+			}
+			if len(sp.Terms) > 1 {
+				for _, x := range cc.TermShare {
+					if note != "" {
+						x = card.Num(math.NaN())
+					}
+					row = append(row, pct(float64(x)))
+				}
+			}
+			short := ""
+			if note != "" {
+				short = "net ≈ 0: no share"
+			}
+			v.Shares.Rows = append(v.Shares.Rows, htmlRow{Cells: append(row, short)})
+		}
+	}
+	if noShare >= 0 {
+		which := "A component marked “net ≈ 0” has no share"
+		if len(omitted) > 0 {
+			which = strings.Join(omitted, " and ") + " have no share in any protocol (no rows above)"
+		}
+		v.SharesNote = fmt.Sprintf("%s: the modelled stress stays under %.0f %% of the protocol's largest normal stress (here at most %s %s) while the terms carry stresses that cancel, so a share of their magnitudes would describe nothing the component carries.",
+			which, 100*aniso.NegligibleNet, fsig(noShare, 2), t.unit)
+	}
+}
+
+// energyColumns adds the energy split at each protocol's largest
+// deformation to the take-over table, one row per protocol.
+func (in *Input) energyColumns(v *reportView) {
+	sp := in.split
+	if len(v.Takeover.Rows) != len(sp.Protocols) {
+		v.Takeover = htmlTable{Head: []string{"protocol"}, Num: []bool{false}}
+		for _, pp := range sp.Protocols {
+			v.Takeover.Rows = append(v.Takeover.Rows, htmlRow{Cells: []string{pp.Protocol}})
+		}
+	}
+	v.Takeover.Head = append(v.Takeover.Head, "largest F11, F22")
+	v.Takeover.Num = append(v.Takeover.Num, true)
+	for _, g := range sp.Groups {
+		v.Takeover.Head = append(v.Takeover.Head, "energy: "+groupName(g))
+		v.Takeover.Num = append(v.Takeover.Num, true)
+	}
+	for i, pp := range sp.Protocols {
+		row := append(v.Takeover.Rows[i].Cells, fsig(pp.AtF[0], 4)+", "+fsig(pp.AtF[3], 4))
+		for _, g := range sp.Groups {
+			row = append(row, pct(float64(pp.GroupEnergyShare[g])))
+		}
+		v.Takeover.Rows[i].Cells = row
+	}
+}
+
+// netPeak is the largest |modelled stress| of a component of a protocol in
+// fit.csv.
+func (in *Input) netPeak(protocol, comp string) float64 {
+	t := in.table
+	ci := componentIndex(t.comps, comp)
+	peak := 0.0
+	for _, pr := range t.protocols {
+		if pr.label == protocol && ci >= 0 {
+			for _, v := range pr.model[ci] {
+				if !bad(v) {
+					peak = math.Max(peak, math.Abs(v))
+				}
+			}
+		}
+	}
+	return peak
+}
+
+// noShare says why a component has no share, or is empty: the card's
+// reason, or, for a card written before it gave one, the same test on
+// fit.csv's modelled stress (aniso.NetNegligible).
+func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
+	t := in.table
+	ci := componentIndex(t.comps, cc.Component)
+	for _, pr := range t.protocols {
+		if pr.label != protocol || ci < 0 {
+			continue
+		}
+		net, normal := 0.0, 0.0
+		for _, v := range pr.model[ci] {
+			if !bad(v) {
+				net = math.Max(net, math.Abs(v))
+			}
+		}
+		for _, cj := range t.componentsOf(false) {
+			for _, v := range pr.model[cj] {
+				if !bad(v) {
+					normal = math.Max(normal, math.Abs(v))
+				}
+			}
+		}
+		if cc.NoShare != "" || aniso.NetNegligible(net, normal) {
+			return fmt.Sprintf("no share: net ≈ 0 (|%s| ≤ %s %s, under %.0f %% of %s %s); its terms cancel", compSymbol(t.kind, cc.Component), fsig(net, 2), t.unit, 100*aniso.NegligibleNet, fsig(normal, 3), t.unit)
+		}
+	}
+	if cc.NoShare != "" {
+		return "no share: net ≈ 0; its terms cancel"
+	}
+	return ""
+}
+
+// takeoverText writes where the fibres take over half of an axis's load.
+func takeoverText(to takeover, ok bool) string {
+	switch {
+	case !ok:
+		return "—"
+	case to.from:
+		return "fibres > ½ from the start (λ = " + fsig(to.first, 4) + ")"
+	case to.never:
+		return "matrix > ½ throughout (to λ = " + fsig(to.last, 4) + ")"
+	}
+	return "λ = " + fsig(to.at, 4)
+}
+
+// methodsSection writes a paragraph a paper can quote, its references and
+// the traceability of the fit.
+func (in *Input) methodsSection(v *reportView, o Options) {
+	c, d, fs := in.card, in.data, in.fit
+	var b strings.Builder
+	version := "weft"
+	if p := c.Provenance; p != nil {
+		version = "weft " + p.VersionText()
+	}
+	points := in.pointCount()
+	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%d protocols, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
+		d.Specimen, len(d.Protocols), points, d.StressKind, keptWords(d), version)
+	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points. ")
+	if in.sel != nil {
+		b.WriteString("The strain energy was discovered from a catalogue of isotropic terms (in I1, I2 and the principal stretches) and fibre-family terms (in the fibre invariant I4, optionally dispersed), with none, one or two fibre families, by variable projection: " +
+			"term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles, dispersion and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ")
+		b.WriteString("Model forms were compared by leave-one-protocol-out cross-validation, and the smallest model whose held-out error lay within one standard error of the best was chosen (Hastie, Tibshirani & Friedman 2009). ")
+	} else {
+		fmt.Fprintf(&b, "The model form %s with a %s fibre layout was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
+	}
+	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988), fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ")
+	b.WriteString("The resulting model is " + energyMark)
+	if fams := in.familyWords(); fams != "" {
+		b.WriteString(" with " + fams)
+	}
+	b.WriteString(" (stresses in " + c.StressUnit + ")")
+	if low := lowestR2(fs.Metrics); !math.IsInf(low, 1) {
+		fmt.Fprintf(&b, "; its lowest R² over protocols and components is %s", fmtR2(low))
+	}
+	if in.sel != nil {
+		for _, cc := range in.sel.Pareto {
+			if cc.Chosen && !bad(float64(cc.HeldoutError)) {
+				fmt.Fprintf(&b, " and its held-out error %s", heldoutText(cc))
+			}
+		}
+		var ps []string
+		for _, cc := range in.sel.Presets {
+			ps = append(ps, presetCitation(strings.TrimPrefix(cc.Name, "preset:"))+" "+heldoutText(cc))
+		}
+		if len(ps) > 0 {
+			b.WriteString("; classical models fitted to the same data gave held-out errors of " + strings.Join(ps, ", "))
+		}
+	}
+	b.WriteString(". The parameters are specimen-specific and valid within the tested range only.")
+	energy := template.HTML(template.HTMLEscapeString(c.Energy))
+	if m, err := energyMathML(c.EnergyLaTeX, c.Energy, false); err == nil && c.EnergyLaTeX != "" {
+		energy = m
+	}
+	v.Methods = template.HTML(strings.Replace(template.HTMLEscapeString(b.String()), energyMark, string(energy), 1))
+	v.References = methodReferences(in.sel != nil)
+	in.traceability(v, o)
+}
+
+// energyMark stands for the typeset energy in the methods text until the
+// text is escaped.
+const energyMark = "⟦energy⟧"
+
+// keptWords says which part of the record was fitted, from the first
+// protocol's description.
+func keptWords(d card.DataSection) string {
+	if len(d.Protocols) == 0 {
+		return "as recorded"
+	}
+	k := d.Protocols[0].Kept
+	if i := strings.Index(k, ", "); i >= 0 {
+		if j := strings.Index(k[i+2:], ", "); j >= 0 {
+			return k[:i+2+j]
+		}
+	}
+	return k
+}
+
+// familyWords describes the fitted families, e.g. "one fibre family at
+// ±30.0°".
+func (in *Input) familyWords() string {
+	var s []string
+	for _, f := range in.card.Families {
+		if f.AngleDeg != nil {
+			s = append(s, in.angle(*f.AngleDeg))
+		}
+	}
+	switch len(s) {
+	case 0:
+		return ""
+	case 1:
+		return "one fibre family at " + s[0]
+	}
+	return "fibre families at " + strings.Join(s, " and ")
+}
+
+// presetCitation names a classical preset with its source.
+func presetCitation(name string) string {
+	switch name {
+	case "neo-hookean":
+		return "neo-Hookean"
+	case "hgo":
+		return "HGO (Holzapfel, Gasser & Ogden 2000)"
+	case "goh":
+		return "GOH (Gasser, Ogden & Holzapfel 2006)"
+	case "fung":
+		return "Fung-type (Tong & Fung 1976)"
+	}
+	return name
+}
+
+// methodReferences lists the works the methods paragraph cites.
+func methodReferences(discovered bool) []string {
+	refs := []string{
+		"Bates DM, Watts DG (1988) Nonlinear Regression Analysis and Its Applications. Wiley, New York.",
+		"Golub GH, Pereyra V (1973) The differentiation of pseudo-inverses and nonlinear least squares problems whose variables separate. SIAM J Numer Anal 10:413–432.",
+		"Kaufman L (1975) A variable projection method for solving separable nonlinear least squares problems. BIT 15:49–57.",
+		"Lawson CL, Hanson RJ (1974) Solving Least Squares Problems. Prentice-Hall, Englewood Cliffs.",
+		"Venzon DJ, Moolgavkar SH (1988) A method for computing profile-likelihood-based confidence intervals. Appl Stat 37:87–94.",
+	}
+	if discovered {
+		refs = append(refs,
+			"Gasser TC, Ogden RW, Holzapfel GA (2006) Hyperelastic modelling of arterial layers with distributed collagen fibre orientations. J R Soc Interface 3:15–35.",
+			"Hastie T, Tibshirani R, Friedman J (2009) The Elements of Statistical Learning, 2nd ed. Springer, New York, §7.10.",
+			"Holzapfel GA, Gasser TC, Ogden RW (2000) A new constitutive framework for arterial wall mechanics and a comparative study of material models. J Elasticity 61:1–48.",
+			"Tong P, Fung YC (1976) The stress-strain relationship for the skin. J Biomech 9:649–657.")
+	}
+	sort.Strings(refs)
+	return refs
+}
+
+// traceability writes what made the card and the report.
+func (in *Input) traceability(v *reportView, o Options) {
+	p := in.card.Provenance
+	if p == nil {
+		v.Trace = append(v.Trace, htmlFact{Name: "Fitted by", Value: "not recorded (a card written before weft recorded its provenance)"})
+	} else {
+		v.Trace = append(v.Trace, htmlFact{Name: "Fitted by", Value: p.Software + " " + p.VersionText()},
+			htmlFact{Name: "Command", Value: p.Command + " " + strings.Join(p.Options, " "), Mono: true})
+		for _, f := range p.Inputs {
+			name := f.File
+			if f.Sheet != "" {
+				name += ", sheet " + f.Sheet
+			}
+			v.Trace = append(v.Trace, htmlFact{Name: "Input " + name, Value: fmt.Sprintf("SHA-256 %s, %d bytes", f.SHA256, f.Bytes), Mono: true})
+		}
+	}
+	if o.Software != "" {
+		v.Trace = append(v.Trace, htmlFact{Name: "Report drawn by", Value: "weft " + o.Software})
+	}
+}

@@ -1,0 +1,219 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"io/fs"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/planning"
+)
+
+// planOptions are the options of weft plan.
+type planOptions struct {
+	streams
+	// dir is the output folder of a fit; json prints the plan as JSON;
+	// write and plot name the files for the top test's path and plot.
+	dir         string
+	json        bool
+	write, plot string
+	force       bool
+	// top is how many tests the table lists (0: all).
+	top int
+	// dataLimits and cardLimits bound what is read.
+	dataLimits biaxial.Limits
+	cardLimits card.Limits
+}
+
+func newPlanCmd(s *streams) *cobra.Command {
+	o := &planOptions{streams: *s}
+	var limits *limitFlags
+	cmd := &cobra.Command{
+		Use:   "plan DIR [--json] [--write FILE] [--plot FILE.svg|FILE.png]",
+		Short: "Rank candidate next tests of a fitted specimen: what each would decide and how much it would narrow the parameters",
+		Long: `plan reads the output folder that 'weft fit' wrote (model.json and fit.csv;
+nothing is refitted beyond confirming the fit) and ranks candidate next
+tests of the same specimen:
+
+  - stretch ratios not yet run, from strip-biaxial 1:0 (axis 2 held at
+    stretch 1) through equibiaxial to 0:1;
+  - on sutures with the shear tracked by markers (F12, F21 measured, the
+    edges free to shear), every ratio;
+  - the specimen cut or mounted off-axis, its axis 1 at 15°, 30°, 45°,
+    60° or 75° to the current axis 1, every ratio.
+
+Every test peaks where its largest principal stretch, or a fibre family's
+stretch, first reaches the largest tested; a test that leaves the tested
+range elsewhere is flagged.
+
+Two scores. The information gain, in nats, is the D-optimal criterion
+log det(J'J + Jc'Jc) - log det(J'J) from the fit's Gauss-Newton Jacobian
+(Atkinson & Donev 1992), with the predicted narrowing of each parameter's
+95 % interval. The discrimination is, for each question the data leave open
+(one family at +a, at -a or a mirror pair; the signs of the angles; an
+undecided family count; the model forms within one standard error of the
+best held-out error), the summed squared difference of the competing
+explanations' predicted stresses in units of the noise, for the weakest pair
+(Hunter & Reiner 1965); D >= 25 (five noise standard deviations) settles it.
+Tests that settle something the verdict left open come first, unless
+another test's gain is larger by more than ln 10.
+
+The scores rest on the fitted model's own predictions: the ranking holds if
+the model's family is right. Parameters are research-grade and
+specimen-specific, valid only within the tested range, not for clinical
+decisions.`,
+		Example: `  # the ranked table
+  weft plan membrane-M1.weft
+
+  # the top test's target path for the tester's operator, and its plot
+  weft plan membrane-M1.weft --write next-test.csv --plot next-test.svg
+
+  # every candidate as JSON
+  weft plan membrane-M1.weft --json`,
+		Args: oneFolderArg("plan"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			var err error
+			if o.dataLimits, o.cardLimits, err = limits.parse(); err != nil {
+				return err
+			}
+			o.dir = args[0]
+			return runPlan(o)
+		},
+	}
+	fl := cmd.Flags()
+	fl.BoolVar(&o.json, "json", false, "print the plan as JSON (every candidate) instead of the table")
+	fl.StringVar(&o.write, "write", "", "write the top test's target path to FILE in weft's input layout, without stress columns")
+	fl.StringVar(&o.plot, "plot", "", "draw the top test's predicted stresses under each competing explanation to FILE (SVG; PNG when FILE ends in .png)")
+	fl.BoolVar(&o.force, "force", false, "replace existing --write and --plot files")
+	fl.IntVar(&o.top, "top", 15, "how many tests the table lists (0: all; --json lists all)")
+	limits = addLimitFlag(cmd)
+	return cmd
+}
+
+// runPlan plans the next test of the fit in o.dir.
+func runPlan(o *planOptions) error {
+	if o.top < 0 {
+		return badInputf("--top %d: give 0 (all) or more", o.top)
+	}
+	if o.write != "" && o.plot != "" && planning.SameFile(o.write, o.plot) {
+		return badInputf("--write and --plot name the same file %s", o.write)
+	}
+	var outs []*outputFile
+	defer func() {
+		for _, f := range outs {
+			f.close()
+		}
+	}()
+	prepare := func(path string) (*outputFile, error) {
+		if path == "" {
+			return nil, nil
+		}
+		f, err := prepareOutputFile(path, o.force, false)
+		if err == nil {
+			outs = append(outs, f)
+		}
+		return f, err
+	}
+	writeOut, err := prepare(o.write)
+	if err != nil {
+		return err
+	}
+	plotOut, err := prepare(o.plot)
+	if err != nil {
+		return err
+	}
+	f, err := readPlanFolder(o.dir, o.dataLimits, o.cardLimits)
+	if err != nil {
+		return err
+	}
+	qs, notes := f.Questions()
+	d, err := aniso.PlanTests(f.Problem, f.Result, qs, aniso.DesignSettings{})
+	if err != nil {
+		return checkFailed{msg: o.dir + ": no test could be planned: " + err.Error()}
+	}
+	pl := planning.NewReport(f, d, append(notes, d.Notes...))
+	if writeOut != nil {
+		b, err := planning.PathCSV(f, &d.Tests[0].Test)
+		if err != nil {
+			return err
+		}
+		if err := writeOut.commit(b); err != nil {
+			return err
+		}
+		pl.Wrote = append(pl.Wrote, o.write)
+	}
+	if plotOut != nil {
+		b, err := planning.Plot(f, d, o.plot)
+		if err != nil {
+			return checkFailed{msg: "drawing the plot: " + err.Error()}
+		}
+		if err := plotOut.commit(b); err != nil {
+			return err
+		}
+		pl.Wrote = append(pl.Wrote, o.plot)
+	}
+	if o.json {
+		return writeJSON(o.Out, pl)
+	}
+	var buf bytes.Buffer
+	planning.Print(&buf, pl, o.top)
+	_, err = o.Out.Write(buf.Bytes())
+	return err
+}
+
+// readPlanFolder reads dir's model.json and fit.csv within the limits and
+// rebuilds the fit; a folder that is not one fit's is bad input (exit 2),
+// a fit that cannot be rebuilt as the card states it fails (exit 1).
+func readPlanFolder(dir string, dl biaxial.Limits, cl card.Limits) (*planning.Folder, error) {
+	st, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, badInputf("%s does not exist; give the output folder that 'weft fit' wrote", dir)
+	case err != nil:
+		return nil, badInput(err)
+	case !st.IsDir():
+		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
+	}
+	read := func(name string, max int64, cat error) ([]byte, error) {
+		path := filepath.Join(dir, name)
+		b, err := readAtMost(path, max)
+		switch {
+		case errors.Is(err, errTooLarge):
+			return nil, tooLargeError(path, max, cat)
+		case errors.Is(err, fs.ErrNotExist):
+			return nil, badInputf("%s: %s is missing; a plan needs model.json and fit.csv as 'weft fit' writes them", dir, name)
+		case err != nil:
+			return nil, badInput(err)
+		}
+		return b, nil
+	}
+	if cl.MaxBytes <= 0 {
+		cl.MaxBytes = card.DefaultLimits.MaxBytes
+	}
+	if dl.MaxBytes <= 0 {
+		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
+	}
+	mj, err := read("model.json", cl.MaxBytes, card.ErrCardSize)
+	if err != nil {
+		return nil, err
+	}
+	fc, err := read("fit.csv", dl.MaxBytes, biaxial.ErrFileSize)
+	if err != nil {
+		return nil, err
+	}
+	f, err := planning.Rebuild(dir, mj, fc, dl, cl)
+	var re *planning.RebuildError
+	switch {
+	case errors.As(err, &re):
+		return nil, checkFailed{msg: re.Msg}
+	case err != nil:
+		return nil, withLimitHint(err)
+	}
+	return f, nil
+}

@@ -1,0 +1,272 @@
+package main
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/planning"
+)
+
+// planJSON runs weft plan --json on dir with extra arguments and decodes
+// the plan.
+func planJSON(t *testing.T, dir string, extra ...string) (planning.Report, string) {
+	t.Helper()
+	out, errOut, code := runWeft(t, append([]string{"plan", dir, "--json"}, extra...)...)
+	if code != 0 {
+		t.Fatalf("weft plan: exit %d: %s", code, errOut)
+	}
+	var pl planning.Report
+	if err := json.Unmarshal([]byte(out), &pl); err != nil {
+		t.Fatalf("plan JSON: %v\n%s", err, out)
+	}
+	return pl, out
+}
+
+// The demo membrane M1 (SYNTHETIC: one family at +30°, tested without
+// shear information) leaves open whether it is one family at +30°, at −30°
+// or a mirror pair. No stretch ratio in the current mounting can tell them
+// apart (under a pure stretch ±α give the same normal stresses: package
+// aniso documentation, Mirror symmetry), so the most
+// discriminating test measures shear or turns the specimen, separating the
+// layouts by at least five noise standard deviations; it comes first, and
+// the files --write and --plot ask for hold its path and its plot.
+func TestPlanDemoMembrane(t *testing.T) {
+	dir := demoFitCopy(t, "membrane-M1")
+	tmp := t.TempDir()
+	path, svg := filepath.Join(tmp, "next.csv"), filepath.Join(tmp, "next.svg")
+	pl, raw := planJSON(t, dir, "--write", path, "--plot", svg)
+	if pl.Format != planning.Format || len(pl.Questions) == 0 || pl.Questions[0].Topic != "fibre layout" || !pl.Questions[0].Verdict {
+		t.Fatalf("questions %+v; want the fibre layout first", pl.Questions)
+	}
+	best := -1
+	for i, c := range pl.Candidates {
+		d := float64(c.Questions[0].Discrimination)
+		if !c.Sutured && c.MountingDeg == 0 && d > 1e-9 {
+			t.Errorf("%s: discrimination %g under a pure stretch", c.Test, d)
+		}
+		if best < 0 || d > float64(pl.Candidates[best].Questions[0].Discrimination) {
+			best = i
+		}
+	}
+	top := pl.Candidates[best]
+	if !top.Sutured && top.MountingDeg == 0 {
+		t.Errorf("the most discriminating test %q neither measures shear nor turns the specimen", top.Test)
+	}
+	if float64(top.Separation) < 5 {
+		t.Errorf("it separates the layouts by %.3g noise standard deviations, want ≥ 5", float64(top.Separation))
+	}
+	first := pl.Candidates[0]
+	if len(first.Decides) == 0 || !strings.HasPrefix(first.Decides[0], "fibre layout") {
+		t.Errorf("the first-ranked test decides %q", first.Decides)
+	}
+	checkPlannedPath(t, path, first, pl.Points)
+	if b, err := os.ReadFile(svg); err != nil || !bytes.Contains(b, []byte("<svg")) {
+		t.Errorf("the plot is not an SVG file (%v)", err)
+	}
+	// The same folder gives the same plan, byte for byte.
+	if _, again := planJSON(t, dir); again != strings.Replace(raw, `,
+  "wrote": [
+    "`+path+`",
+    "`+svg+`"
+  ]`, "", 1) {
+		t.Error("a second plan of the same folder differs")
+	}
+	text, _, code := runWeft(t, "plan", dir, "--top", "3")
+	for _, want := range []string{"[A] fibre layout", "settles", "holds if the model's family", "Not for clinical decisions"} {
+		if code != 0 || !strings.Contains(text, want) {
+			t.Errorf("the table lacks %q (exit %d)", want, code)
+		}
+	}
+}
+
+// checkPlannedPath reads the --write file: weft's input layout without
+// stress columns, one row per planned point, ending at the test's peak.
+func checkPlannedPath(t *testing.T, path string, c planning.Candidate, points int) {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var body []string
+	for _, l := range strings.Split(strings.TrimSpace(string(b)), "\n") {
+		if !strings.HasPrefix(l, "#") {
+			body = append(body, l)
+		}
+	}
+	rows, err := csv.NewReader(strings.NewReader(strings.Join(body, "\n"))).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	h := strings.Join(rows[0], ",")
+	if strings.Contains(h, "nominal") || strings.Contains(h, "cauchy") || strings.Contains(h, "load") {
+		t.Errorf("the path has stress columns: %s", h)
+	}
+	if len(rows)-1 != points {
+		t.Errorf("%d rows, want %d", len(rows)-1, points)
+	}
+	last := rows[len(rows)-1]
+	col := func(name string) float64 {
+		for j, n := range rows[0] {
+			if n == name {
+				v, err := strconv.ParseFloat(last[j], 64)
+				if err != nil {
+					t.Fatal(err)
+				}
+				return v
+			}
+		}
+		t.Fatalf("no column %s in %s", name, h)
+		return 0
+	}
+	l1, l2 := "stretch_1", "stretch_2"
+	if c.Sutured {
+		l1, l2 = "F11", "F22"
+	}
+	if math.Abs(col(l1)-float64(c.PeakStretch1)) > 1e-6 || math.Abs(col(l2)-float64(c.PeakStretch2)) > 1e-6 {
+		t.Errorf("the path ends at %g, %g; the test peaks at %g, %g", col(l1), col(l2), float64(c.PeakStretch1), float64(c.PeakStretch2))
+	}
+}
+
+// An undecided verdict is a question too: a copy of the membrane's card
+// whose verdict points, without settling it, towards a mirror pair gets
+// the chosen model and the mirror pair's best fit as its explanations.
+func TestPlanUndecidedVerdict(t *testing.T) {
+	dir := demoFitCopy(t, "membrane-M1")
+	p := filepath.Join(dir, "model.json")
+	b, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var raw map[string]any
+	if err := json.Unmarshal(b, &raw); err != nil {
+		t.Fatal(err)
+	}
+	v := raw["verdict"].(map[string]any)
+	v["families"] = "undecided"
+	for _, c := range v["comparisons"].([]any) {
+		if c := c.(map[string]any); c["richer"] == "2-mirror" {
+			c["suggestive"] = true
+		}
+	}
+	b, _ = json.MarshalIndent(raw, "", "  ")
+	if err := os.WriteFile(p, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	pl, _ := planJSON(t, dir)
+	found := false
+	for _, q := range pl.Questions {
+		if q.Topic == "fibre families (undecided verdict)" {
+			found = true
+			if !q.Verdict || len(q.Explanations) != 2 || !strings.Contains(q.Explanations[1], "2-mirror") {
+				t.Errorf("undecided question %+v", q)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("no question for the undecided verdict: %+v", pl.Questions)
+	}
+}
+
+// An isotropic fit (the neo-Hookean preset on the quick synthetic
+// membrane) plans stretch ratios only and claims no fibre question.
+func TestPlanIsotropic(t *testing.T) {
+	tmp := t.TempDir()
+	out := filepath.Join(tmp, "nh.weft")
+	if _, e, code := quickFit(t, quickData(t, tmp, "nh.csv"), out); code != 0 {
+		t.Fatalf("fit: %s", e)
+	}
+	pl, _ := planJSON(t, out)
+	if len(pl.Questions) != 0 {
+		t.Errorf("questions for an isotropic fit: %+v", pl.Questions)
+	}
+	for _, c := range pl.Candidates {
+		if c.Sutured || c.MountingDeg != 0 || len(c.Decides) > 0 {
+			t.Errorf("%s planned for an isotropic model", c.Test)
+		}
+	}
+	if len(pl.Notes) == 0 || !strings.Contains(strings.Join(pl.Notes, " "), "isotropic") {
+		t.Errorf("notes %q", pl.Notes)
+	}
+}
+
+// A plan needs the fit the folder holds: a missing table or folder is bad
+// input (exit 2), a table edited after the fit fails to reproduce the
+// card's loss (exit 1), and an existing --write file is kept without
+// --force before any work is done.
+func TestPlanRefusesWhatItCannotUse(t *testing.T) {
+	tmp := t.TempDir()
+	out := filepath.Join(tmp, "nh.weft")
+	if _, e, code := quickFit(t, quickData(t, tmp, "nh.csv"), out); code != 0 {
+		t.Fatalf("fit: %s", e)
+	}
+	if _, e, code := runWeft(t, "plan", filepath.Join(tmp, "none")); code != 2 || !strings.Contains(e, "does not exist") {
+		t.Errorf("missing folder: exit %d, %s", code, e)
+	}
+	existing := filepath.Join(tmp, "keep.csv")
+	os.WriteFile(existing, []byte("mine"), 0o644)
+	if _, e, code := runWeft(t, "plan", out, "--write", existing); code != 2 || !strings.Contains(e, "--force") {
+		t.Errorf("existing --write file: exit %d, %s", code, e)
+	}
+	if b, _ := os.ReadFile(existing); string(b) != "mine" {
+		t.Error("the existing file was changed")
+	}
+	fc := filepath.Join(out, "fit.csv")
+	b, err := os.ReadFile(fc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(string(b), "\n")
+	f := strings.Split(lines[3], ",")
+	v, _ := strconv.ParseFloat(f[7], 64)
+	f[7] = strconv.FormatFloat(v*1.5, 'g', -1, 64)
+	lines[3] = strings.Join(f, ",")
+	os.WriteFile(fc, []byte(strings.Join(lines, "\n")), 0o644)
+	if _, e, code := runWeft(t, "plan", out); code != 1 || !strings.Contains(e, "not from the same fit") {
+		t.Errorf("edited fit.csv: exit %d, %s", code, e)
+	}
+	os.Remove(fc)
+	if _, e, code := runWeft(t, "plan", out); code != 2 || !strings.Contains(e, "fit.csv is missing") {
+		t.Errorf("missing fit.csv: exit %d, %s", code, e)
+	}
+}
+
+// runPlan prints what 'weft plan' prints.
+func TestPlanRunsWithoutCobra(t *testing.T) {
+	tmp := t.TempDir()
+	out := filepath.Join(tmp, "nh.weft")
+	if _, e, code := quickFit(t, quickData(t, tmp, "nh.csv"), out); code != 0 {
+		t.Fatalf("fit: %s", e)
+	}
+	var buf bytes.Buffer
+	if err := runPlan(&planOptions{streams: streams{Out: &buf}, dir: out, top: 15}); err != nil {
+		t.Fatal(err)
+	}
+	cli, _, code := runWeft(t, "plan", out)
+	if code != 0 || buf.String() != cli {
+		t.Errorf("runPlan printed what 'weft plan' does not (exit %d)", code)
+	}
+}
+
+// BenchmarkPlan is 'weft plan' (in process) of the demo membrane M1's fit:
+// five protocols × 40 points, the default candidate set, one family
+// without shear information and a form band. Target: ≤ 1 s.
+func BenchmarkPlan(b *testing.B) {
+	dir := filepath.Join(b.TempDir(), "m1.weft")
+	var o, e strings.Builder
+	if code := run([]string{"fit", demoFile("membrane-M1.csv"), "-o", dir, "--quiet"}, &o, &e); code != 0 {
+		b.Fatalf("fit: %s", e.String())
+	}
+	for b.Loop() {
+		var out bytes.Buffer
+		if err := runPlan(&planOptions{streams: streams{Out: &out}, dir: dir, top: 15}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -21,6 +21,11 @@ func num(x float64, format string) string {
 	return fmt.Sprintf(format, x)
 }
 
+// zeroMatrixWarning is what fit says when the fitted model's matrix weight
+// is zero (a preset or chosen form whose matrix weight went to its bound,
+// or a form without a matrix term).
+const zeroMatrixWarning = "the fitted model has zero matrix weight (no isotropic or Fung-type term carries load): it has no stiffness at rest or in compression, so an FE model of it is singular there"
+
 // printFitSummary prints the short human summary of one specimen's fit.
 func printFitSummary(w io.Writer, o *fitOutcome) {
 	s, r := o.spec, o.result
@@ -41,6 +46,9 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 		how = "discovered (" + o.disc.Best().Name + ")"
 	}
 	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
+	if o.result.Model.MatrixWeight() == 0 {
+		fmt.Fprintf(w, "warning:  %s\n", zeroMatrixWarning)
+	}
 	if pair := report.PairText(o.card.Layout); pair != "" {
 		fmt.Fprintf(w, "fibres:   %s\n", pair)
 	}

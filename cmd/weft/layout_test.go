@@ -101,8 +101,8 @@ func TestUndeterminedLayoutAlternatives(t *testing.T) {
 	for _, g := range []float64{0.1, 0.2, 0.3} {
 		fp := [4]float64{1, g, 0, 1}
 		fm := [4]float64{1, -g, 0, 1}
-		ep, _, _ := runWeft(t, "evaluate", path, "--F", fmtF4(fp), "--json")
-		em, _, _ := runWeft(t, "evaluate", path, "--F", fmtF4(fm), "--json")
+		ep, _, _ := runWeft(t, "evaluate", path, "--deformation", fmtF4(fp), "--json")
+		em, _, _ := runWeft(t, "evaluate", path, "--deformation", fmtF4(fm), "--json")
 		var rp, rm fe.Evaluation
 		if json.Unmarshal([]byte(ep), &rp) != nil || json.Unmarshal([]byte(em), &rm) != nil || len(rp.Alternatives) != 3 || len(rm.Alternatives) != 3 {
 			t.Fatalf("evaluate --json: %.300s", ep)
@@ -137,7 +137,7 @@ func TestUndeterminedLayoutAlternatives(t *testing.T) {
 // fmtG writes a number as the rows' keys use it (shortest form).
 func fmtG(v float64) string { return fullFloat(v) }
 
-// fmtF4 writes F for --F.
+// fmtF4 writes F for --deformation.
 func fmtF4(F [4]float64) string {
 	return fullFloat(F[0]) + "," + fullFloat(F[1]) + "," + fullFloat(F[2]) + "," + fullFloat(F[3])
 }

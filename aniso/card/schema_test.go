@@ -158,28 +158,7 @@ func buildSchema() []byte {
 			{"stress_kind", obj{{"enum", []string{"cauchy", "nominal"}}, {"description", "the stress measure the fit used"}}},
 		}},
 	}
-	alternatives := obj{
-		{"type", "object"},
-		{"description", "the complete models the data cannot tell from the card's own (no shear information: one family at +|α|, one at −|α|, the mirror pair ±|α| with half the weights, or sign combinations of several families), with why, what measurement decides and which to choose in an FE model"},
-		{"required", []string{"models"}},
-		{"properties", obj{
-			{"reason", str("why the models cannot be told apart")},
-			{"decider", str("the measurement that removes the doubt")},
-			{"choosing", str("which model to take for which boundary conditions of an FE model")},
-			{"models", obj{{"type", "array"}, {"minItems", 2}, {"items", obj{
-				{"type", "object"},
-				{"required", []string{"name", "families", "terms"}},
-				{"properties", obj{
-					{"name", obj{{"type", "string"}, {"minLength", 1}, {"description", "single-plus, single-minus, mirror-pair, or signs+- and the like for several families"}}},
-					{"title", str("the alternative in words")},
-					{"as_card", obj{{"type", "boolean"}, {"description", "true for the card's own model"}}},
-					{"energy", str("the energy with its numbers, plain text")},
-					{"families", obj{{"type", []string{"array", "null"}}, {"items", family}}},
-					{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
-				}},
-			}}}},
-		}},
-	}
+	alternatives := alternativesSchema(family, term, str)
 	verdict := obj{
 		{"type", "object"},
 		{"description", "the answer of model discovery on the number of fibre families, with its evidence"},
@@ -250,6 +229,33 @@ func buildSchema() []byte {
 	json.Indent(&out, b, "", "  ")
 	out.WriteByte('\n')
 	return out.Bytes()
+}
+
+// alternativesSchema is the schema of the alternatives section, whose
+// models hold families and terms as the card does.
+func alternativesSchema(family, term obj, str func(string) obj) obj {
+	return obj{
+		{"type", "object"},
+		{"description", "the complete models the data cannot tell from the card's own (no shear information: one family at +|α|, one at −|α|, the mirror pair ±|α| with half the weights, or sign combinations of several families), with why, what measurement decides and which to choose in an FE model"},
+		{"required", []string{"models"}},
+		{"properties", obj{
+			{"reason", str("why the models cannot be told apart")},
+			{"decider", str("the measurement that removes the doubt")},
+			{"choosing", str("which model to take for which boundary conditions of an FE model")},
+			{"models", obj{{"type", "array"}, {"minItems", 2}, {"items", obj{
+				{"type", "object"},
+				{"required", []string{"name", "families", "terms"}},
+				{"properties", obj{
+					{"name", obj{{"type", "string"}, {"minLength", 1}, {"description", "single-plus, single-minus, mirror-pair, or signs+- and the like for several families"}}},
+					{"title", str("the alternative in words")},
+					{"as_card", obj{{"type", "boolean"}, {"description", "true for the card's own model"}}},
+					{"energy", str("the energy with its numbers, plain text")},
+					{"families", obj{{"type", []string{"array", "null"}}, {"items", family}}},
+					{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
+				}},
+			}}}},
+		}},
+	}
 }
 
 func familyRule(sh *terms.Shape) kv {

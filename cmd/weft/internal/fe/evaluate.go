@@ -56,9 +56,13 @@ type Evaluation struct {
 
 // EvalAlternative is one alternative model at the deformation evaluated.
 type EvalAlternative struct {
-	Name    string             `json:"name"`
-	Title   string             `json:"title"`
-	AsCard  bool               `json:"as_card"`
+	// Name and Title name the alternative (as in the card's alternatives
+	// section); AsCard is true for the card's own model.
+	Name   string `json:"name"`
+	Title  string `json:"title"`
+	AsCard bool   `json:"as_card"`
+	// Energy is W per unit reference volume, Cauchy (11, 22, 12) and
+	// Nominal (11, 22, 12, 21) the stresses, all in the card's stress unit.
 	Energy  float64            `json:"energy"`
 	Cauchy  map[string]float64 `json:"cauchy"`
 	Nominal map[string]float64 `json:"nominal"`

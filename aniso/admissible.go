@@ -180,11 +180,13 @@ type StabilityReport struct {
 	// neither passed nor failed but reported.
 	Unresolved int
 	// UnstablePoints counts points failing the stability criterion;
-	// WorstStability is the point with the smallest MinModuloRotation.
+	// WorstStability is the point with the smallest MinModuloRotation
+	// (MinModuloRotation +Inf when no point was resolved).
 	UnstablePoints int
 	WorstStability PointStability
 	// NonEllipticPoints counts points failing strong ellipticity;
-	// WorstEllipticity has the smallest MinEllipticity.
+	// WorstEllipticity has the smallest MinEllipticity (+Inf when no
+	// point was resolved).
 	NonEllipticPoints int
 	WorstEllipticity  PointStability
 	// FullIndefinite counts points where the full 4×4 tangent is not
@@ -192,10 +194,38 @@ type StabilityReport struct {
 	// principal in-plane Cauchy stresses are > 0 (there the rotation mode
 	// does not explain it).
 	FullIndefinite, FullIndefiniteTensile int
+	// NoStiffness counts points where the membrane has no stiffness: the
+	// tangent is zero (every entry at most Tolerance), or a criterion's
+	// eigenvalue is not resolved while the model has no matrix term
+	// (MatrixWeight is 0), so nothing guarantees a positive one. An FE
+	// solve of such a state is singular. FirstNoStiffness is the first
+	// such point. They fail the scan and are not counted as Unresolved.
+	NoStiffness      int
+	FirstNoStiffness [4]float64
 }
 
-// Stable reports whether every evaluated point passed both criteria.
-func (r *StabilityReport) Stable() bool { return r.UnstablePoints == 0 && r.NonEllipticPoints == 0 }
+// Stable reports whether every evaluated point passed both criteria and
+// had stiffness.
+func (r *StabilityReport) Stable() bool {
+	return r.UnstablePoints == 0 && r.NonEllipticPoints == 0 && r.NoStiffness == 0
+}
+
+// MatrixWeight is the sum of the weights of the terms without a fibre
+// family (the isotropic I1, I2 and principal-stretch terms and the
+// Green-strain term), stress unit: the part of the energy that is stiff
+// in compression as well as in tension. A model whose MatrixWeight is 0
+// carries load only through fibre terms, which switch off when their
+// family is not stretched, so it has no stiffness in compression or at
+// rest.
+func (m *Model) MatrixWeight() float64 {
+	s := 0.0
+	for _, t := range m.Terms {
+		if t.Family < 0 {
+			s += t.Weight
+		}
+	}
+	return s
+}
 
 // StabilityAt evaluates both criteria at one deformation with directions
 // sampled directions b for ellipticity.
@@ -240,6 +270,7 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 	rep := StabilityReport{Grid: g, Tolerance: 1e-10 * weightSum(m)}
 	rep.WorstStability.MinModuloRotation = math.Inf(1)
 	rep.WorstEllipticity.MinEllipticity = math.Inf(1)
+	matrix := m.MatrixWeight() > 0
 	for _, F := range g.Points() {
 		rep.Points++
 		p, err := m.StabilityAt(F, g.Directions)
@@ -254,6 +285,16 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 		tol := rep.Tolerance
 		f1, u1 := p.fails(p.MinModuloRotation, tol)
 		f2, u2 := p.fails(p.MinEllipticity, tol)
+		// A zero tangent (every entry at most tol) makes every eigenvalue
+		// "unresolved", but that is no stiffness, not round-off; without
+		// a matrix term an unresolved eigenvalue is no stiffness as well.
+		if p.Resolution <= RelativeResolution*tol || (u1 || u2) && !matrix {
+			if rep.NoStiffness == 0 {
+				rep.FirstNoStiffness = F
+			}
+			rep.NoStiffness++
+			continue
+		}
 		if f1 {
 			rep.UnstablePoints++
 		}

@@ -295,3 +295,36 @@ func TestPlaneStressReductionCanLoseEllipticity(t *testing.T) {
 		t.Errorf("min (a⊗b):A:(a⊗b) = %g, second difference of W %g", p.MinEllipticity, q)
 	}
 }
+
+// A card of fibre terms only has an exactly zero tangent wherever its
+// family is slack (every compressed state): the scan fails those points as
+// having no stiffness instead of counting them unresolved, and so does a
+// matrix term of weight 0. The media set of Holzapfel, Gasser & Ogden 2000
+// (a neo-Hookean matrix, from memory) has stiffness everywhere.
+func TestCheckStabilityNoStiffness(t *testing.T) {
+	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 10, Params: []float64{2}}
+	fibreOnly := &Model{Families: []Family{{Angle: 30 * deg}}, Terms: []Term{fib}}
+	zeroMatrix := &Model{Families: fibreOnly.Families, Terms: []Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 0}, fib}}
+	g := DefaultStabilityGrid()
+	g.Directions = 36
+	for name, m := range map[string]*Model{"fibre only": fibreOnly, "zero matrix": zeroMatrix} {
+		if m.MatrixWeight() != 0 {
+			t.Fatalf("%s: matrix weight %g", name, m.MatrixWeight())
+		}
+		r, err := m.CheckStability(g)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.Stable() || r.NoStiffness == 0 || r.Unresolved != 0 {
+			t.Errorf("%s: stable %v, %d points without stiffness, %d unresolved", name, r.Stable(), r.NoStiffness, r.Unresolved)
+		}
+		// The slack compressed corner has a zero tangent.
+		if tg, _ := m.Tangent([4]float64{0.8, 0, 0, 0.8}); tg.A != ([4][4]float64{}) {
+			t.Errorf("%s: tangent at an equibiaxial compression %v", name, tg.A)
+		}
+	}
+	r, err := hgoMedia().CheckStability(g)
+	if err != nil || !r.Stable() || r.NoStiffness != 0 {
+		t.Errorf("hgo media: %v %+v", err, r)
+	}
+}

@@ -224,7 +224,7 @@ func (m *Model) Evaluate(F [4]float64) (Response, error) {
 		if f.Planar {
 			g := newPlanarGeom(&k.F)
 			rules[i] = &planarRule{}
-			rules[i].build(accurateRule, &g, f.Angle, f.Concentration, familyKinks(m, i, nil), familySteepness(m, i, &g))
+			rules[i].build(pointRule, &g, f.Angle, f.Concentration, familyKinks(m, i, nil), familySteepness(m, i, &g))
 		}
 	}
 	for i, t := range m.Terms {

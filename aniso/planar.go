@@ -87,12 +87,18 @@ func newQuadRule(order int, peakCurvature float64, peakBreaks []float64, maxPane
 // ranks angles; every fit refines with searchRule or accurateRule.
 var scanRule = newQuadRule(8, math.Inf(1), nil, math.Pi/2, math.Inf(1))
 
-// accurateRule meets 1e-8 relative error against a brute-force reference
-// (TestPlanarQuadratureAccuracy): every model weft reports, predicts or
-// exports is evaluated with it. searchRule is about 1e-5 with half the
-// directions, for the many fits discovery only compares; the model it
-// picks is refitted with accurateRule.
+// pointRule evaluates a model at one deformation (Model.Evaluate and
+// Model.Tangent): every stress, energy and tangent weft reports, predicts,
+// checks or exports. With 16 directions per panel and panels at most π/2
+// wide it meets 1e-12 relative to the stress scale against a brute-force
+// reference (TestPlanarQuadratureAccuracy; about 1e-14 at the verification
+// rows), so that an independent implementation can be compared with the
+// verification table to 1e-10. accurateRule meets 1e-8 with two thirds of
+// the directions and fills the columns of every fit; searchRule is about
+// 1e-5 with half of those, for the many fits discovery only compares; the
+// model it picks is refitted with accurateRule.
 var (
+	pointRule    = newQuadRule(16, 4, []float64{2}, math.Pi/2, 6)
 	accurateRule = newQuadRule(12, 4, []float64{2}, math.Pi, 6)
 	searchRule   = newQuadRule(8, 6, []float64{2}, math.Pi, 8)
 )
@@ -610,3 +616,10 @@ func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 		}
 	}
 }
+
+// PlanarDensity returns the factor c of the in-plane density of
+// concentration b ≥ 0 written as ρ(θ) = c·exp(b(cos 2(θ − α) − 1)),
+// c = e^b/(π I0(b)) (finite for every b: I0 is scaled by e^−b), and its
+// mean resultant r = ∫ρ cos 2(θ − α) dθ = I1(b)/I0(b). An independent
+// implementation of the density can use them.
+func PlanarDensity(b float64) (factor, r float64) { return density(b) }

@@ -68,9 +68,19 @@ func TestOgdenClosedForms(t *testing.T) {
 				continue
 			}
 			// The lateral stress is a small difference of large principal
-			// terms at |α| = 30 (λ^±30 spans decades), so its root is
-			// resolved to about 1e-12 there.
-			if !near(p.LateralStretch, lat, 1e-14*math.Max(10, math.Abs(al)*math.Abs(al))) {
+			// terms at |α| = 30 (λ^±30 spans decades), and off the axes it
+			// is the projection of a load-frame stress σ_nn that is larger
+			// by decades, so its root is determined only to the round-off
+			// of σ_tt (a few ulps of σ_nn) over the lateral stiffness
+			// dσ_tt/dλt = 2μ(λt^(α−1) + λ^(−α) λt^(−α−1)) (Ogden 1984,
+			// §4.3, from memory), which the continuation from λ = 1 does
+			// not beat by starting from the closed form.
+			tol := 1e-14 * math.Max(10, math.Abs(al)*math.Abs(al))
+			if p.Case == Uniaxial {
+				stiff := 2 * mu * (math.Pow(lat, al-1) + math.Pow(l, -al)*math.Pow(lat, -al-1))
+				tol += 4 * 0x1p-52 * math.Abs(want[0]) / stiff
+			}
+			if !near(p.LateralStretch, lat, tol) {
 				t.Errorf("α=%g %s θ=%g λ=%g: lateral stretch %.16g, closed form %.16g", al, p.Case, p.DirectionDeg, l, p.LateralStretch, lat)
 			}
 			scale := mu * math.Max(1, math.Abs(want[0])+math.Abs(want[2]))

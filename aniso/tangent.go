@@ -248,7 +248,7 @@ func (m *Model) Tangent(F [4]float64) (Tangent, error) {
 				fm := &m.Families[term.Family]
 				g := newPlanarGeom(&F)
 				r = &planarRule{}
-				r.build(accurateRule, &g, fm.Angle, fm.Concentration, familyKinks(m, term.Family, nil), familySteepness(m, term.Family, &g))
+				r.build(pointRule, &g, fm.Angle, fm.Concentration, familyKinks(m, term.Family, nil), familySteepness(m, term.Family, &g))
 				rules[term.Family] = r
 			}
 			if err := t.addPlanar(r, term, &q); err != nil {

@@ -3,6 +3,9 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"sort"
+
+	"github.com/weft-tools/weft/terms"
 )
 
 // LoadCase is a homogeneous in-plane loading of a verification table. Each
@@ -126,50 +129,155 @@ func loadFrame(sig Sym, theta float64) Sym {
 	return Sym{q(n, n), q(t, t), q(n, t)}
 }
 
-// SolveUniaxial returns the free lateral stretch λt of uniaxial tension at
-// stretch lambda along direction theta (radians): the root of the
-// load-frame lateral Cauchy stress σ_tt(λt) = 0. It brackets the root and
-// runs Newton's method with the analytic tangent, falling back to bisection
-// whenever a Newton step leaves the bracket, until the bracket is a few
-// ulps wide or σ_tt is exactly zero.
+// SolveUniaxial returns the free lateral stretch λt of uniaxial tension (or
+// compression) at stretch lambda along direction theta (radians): the root
+// of the load-frame lateral Cauchy stress σ_tt(λt) = 0 connected
+// continuously to the unloaded state λ = λt = 1 (SolveUniaxialPath). A
+// root that is not unique is returned without error; SolveUniaxialPath
+// says so.
 func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 	if !(lambda > 0) || math.IsInf(lambda, 0) {
 		return 0, fmt.Errorf("uniaxial stretch %g must be a finite number > 0", lambda)
 	}
-	st, ct := sincosSnap(theta)
-	tv := [2]float64{-st, ct}
-	// g returns σ_tt and dσ_tt/dλt; ok is false where the model cannot be
-	// evaluated (overflow).
-	g := func(mu float64) (val, slope float64, ok bool) {
-		F := LoadGradient(Uniaxial, theta, lambda, mu)
-		tg, err := m.Tangent(F)
-		if err != nil {
-			return 0, 0, false
+	r := SolveUniaxialPath(m, theta, []float64{lambda})[0]
+	return r.Lateral, r.Err
+}
+
+// UniaxialSolution is the free lateral stretch of one uniaxial stretch.
+type UniaxialSolution struct {
+	// Lateral is the lateral stretch λt (dimensionless).
+	Lateral float64
+	// NonUnique, when not empty, says why λt is not unique: the lateral
+	// stress vanishes on a range of lateral stretches (no lateral
+	// stiffness, as in a card whose fibres are slack and that has no
+	// matrix term), so any of them frees the lateral edges; Lateral is the
+	// one reached by continuation.
+	NonUnique string
+	// Err says why no lateral stretch could be found; Lateral is then 0.
+	Err error
+}
+
+// continuationStep is the largest step of ln λ between two solves of a
+// uniaxial path: small enough that the root found next is the one
+// connected to the previous.
+const continuationStep = 0.01
+
+// SolveUniaxialPath solves the lateral stretch of uniaxial loading along
+// direction theta (radians) at each stretch of lambdas (> 0, any order) by
+// continuation from the unloaded state λ = λt = 1: λ moves towards each
+// target in steps of at most 0.01 in ln λ, tensile stretches upwards from 1
+// and compressive ones downwards, and each solve starts from the previous
+// root, so the roots are those connected continuously to the unloaded
+// state, not whichever root a search meets first. Each solve brackets the
+// nearest sign change of σ_tt in the direction it falls and runs Newton's
+// method with the analytic tangent, safeguarded by bisection, until the
+// bracket is a few ulps wide or σ_tt is exactly zero. A root whose lateral
+// stiffness dσ_tt/dλt is not positive (at most 1e-10 × Σ weights) is
+// reported as not unique. Once a solve fails, every later stretch of the
+// same branch fails with it: the connected path is broken there.
+func SolveUniaxialPath(m *Model, theta float64, lambdas []float64) []UniaxialSolution {
+	out := make([]UniaxialSolution, len(lambdas))
+	up, down := []int{}, []int{}
+	for i, l := range lambdas {
+		switch {
+		case !(l > 0) || math.IsInf(l, 0):
+			out[i].Err = fmt.Errorf("uniaxial stretch %g must be a finite number > 0", l)
+		case l >= 1:
+			up = append(up, i)
+		default:
+			down = append(down, i)
 		}
-		// σ = P Fᵀ (J = 1); P and F in (11, 12, 21, 22).
-		P, A := tg.P, tg.A
-		sig := func(P, F [4]float64) Sym {
-			return Sym{P[0]*F[0] + P[1]*F[1], P[2]*F[2] + P[3]*F[3], P[0]*F[2] + P[1]*F[3]}
-		}
-		val = loadFrame(sig(P, F), theta)[1]
-		// dF/dλt = t⊗t; dσ = dP Fᵀ + P dFᵀ with dP = A : dF.
-		dF := [4]float64{tv[0] * tv[0], tv[0] * tv[1], tv[1] * tv[0], tv[1] * tv[1]}
-		var dP [4]float64
-		for i := range dP {
-			for j := range dF {
-				dP[i] += A[i][j] * dF[j]
+	}
+	sort.SliceStable(up, func(a, b int) bool { return lambdas[up[a]] < lambdas[up[b]] })
+	sort.SliceStable(down, func(a, b int) bool { return lambdas[down[a]] > lambdas[down[b]] })
+	stiffTol := 1e-10 * weightSum(m)
+	for _, branch := range [][]int{up, down} {
+		lam, mu := 1.0, 1.0
+		var broken error
+		for _, i := range branch {
+			if broken != nil {
+				out[i].Err = broken
+				continue
+			}
+			target := lambdas[i]
+			n := int(math.Ceil(math.Abs(math.Log(target)-math.Log(lam)) / continuationStep))
+			l0 := lam
+			for s := 1; s <= n; s++ {
+				l := l0 * math.Exp((math.Log(target)-math.Log(l0))*float64(s)/float64(n))
+				if s == n {
+					l = target
+				}
+				// Predictor: an isotropic material keeps λt ∝ λ^(−1/2).
+				pred := mu * math.Sqrt(lam/l)
+				next, err := lateralRoot(m, theta, l, pred)
+				if err != nil {
+					broken = err
+					break
+				}
+				lam, mu = l, next
+			}
+			if broken != nil {
+				out[i].Err = broken
+				continue
+			}
+			out[i].Lateral = mu
+			if k, ok := lateralStiffness(m, theta, lam, mu); !ok || !(k > stiffTol) {
+				out[i].NonUnique = fmt.Sprintf("the lateral stiffness dσ_tt/dλt is %.3g at the root (not above %.3g): the lateral stress vanishes on a range of lateral stretches, so the row's λt (reached by continuation from λ = 1) is one of many that free the lateral edges", k, stiffTol)
 			}
 		}
-		d1, d2 := sig(dP, F), sig(P, dF)
-		ds := Sym{d1[0] + d2[0], d1[1] + d2[1], d1[2] + d2[2]}
-		// The 12 entry of dP Fᵀ + P dFᵀ is not symmetric in general; only
-		// its tt projection is used, which is.
-		ds12 := 0.5 * ((dP[0]*F[2] + dP[1]*F[3] + P[0]*dF[2] + P[1]*dF[3]) + (dP[2]*F[0] + dP[3]*F[1] + P[2]*dF[0] + P[3]*dF[1]))
-		ds[2] = ds12
-		slope = loadFrame(ds, theta)[1]
-		return val, slope, !math.IsNaN(val) && !math.IsInf(val, 0)
 	}
-	mu0 := 1 / math.Sqrt(lambda)
+	return out
+}
+
+// uniaxialLateral returns σ_tt and dσ_tt/dλt of uniaxial loading at
+// stretch lambda along theta with lateral stretch mu; ok is false where
+// the model cannot be evaluated (overflow).
+func uniaxialLateral(m *Model, theta, lambda, mu float64) (val, slope float64, ok bool) {
+	st, ct := sincosSnap(theta)
+	tv := [2]float64{-st, ct}
+	F := LoadGradient(Uniaxial, theta, lambda, mu)
+	tg, err := m.Tangent(F)
+	if err != nil {
+		return 0, 0, false
+	}
+	// σ = P Fᵀ (J = 1); P and F in (11, 12, 21, 22).
+	P, A := tg.P, tg.A
+	sig := func(P, F [4]float64) Sym {
+		return Sym{P[0]*F[0] + P[1]*F[1], P[2]*F[2] + P[3]*F[3], P[0]*F[2] + P[1]*F[3]}
+	}
+	val = loadFrame(sig(P, F), theta)[1]
+	// dF/dλt = t⊗t; dσ = dP Fᵀ + P dFᵀ with dP = A : dF.
+	dF := [4]float64{tv[0] * tv[0], tv[0] * tv[1], tv[1] * tv[0], tv[1] * tv[1]}
+	var dP [4]float64
+	for i := range dP {
+		for j := range dF {
+			dP[i] += A[i][j] * dF[j]
+		}
+	}
+	d1, d2 := sig(dP, F), sig(P, dF)
+	ds := Sym{d1[0] + d2[0], d1[1] + d2[1], d1[2] + d2[2]}
+	// The 12 entry of dP Fᵀ + P dFᵀ is not symmetric in general; only
+	// its tt projection is used, which is.
+	ds[2] = 0.5 * ((dP[0]*F[2] + dP[1]*F[3] + P[0]*dF[2] + P[1]*dF[3]) + (dP[2]*F[0] + dP[3]*F[1] + P[2]*dF[0] + P[3]*dF[1]))
+	slope = loadFrame(ds, theta)[1]
+	return val, slope, !math.IsNaN(val) && !math.IsInf(val, 0)
+}
+
+// lateralStiffness returns dσ_tt/dλt at a root.
+func lateralStiffness(m *Model, theta, lambda, mu float64) (float64, bool) {
+	_, k, ok := uniaxialLateral(m, theta, lambda, mu)
+	return k, ok
+}
+
+// lateralRoot returns the root of σ_tt(λt) at stretch lambda nearest to
+// the predictor mu0 in the direction σ_tt falls: σ_tt grows with λt for a
+// stable material, so the search goes down from a positive value and up
+// from a negative one. Steps grow geometrically from 0.1 %; a step into a
+// region where the energy is not finite (beyond a limiting extensibility)
+// is halved instead, since the lateral stress diverges before such a
+// limit.
+func lateralRoot(m *Model, theta, lambda, mu0 float64) (float64, error) {
+	g := func(mu float64) (float64, float64, bool) { return uniaxialLateral(m, theta, lambda, mu) }
 	v0, _, ok := g(mu0)
 	if !ok {
 		return 0, fmt.Errorf("uniaxial stretch %g at %g°: the model cannot be evaluated (overflow)", lambda, Deg(theta))
@@ -177,16 +285,12 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 	if v0 == 0 {
 		return mu0, nil
 	}
-	// Bracket the root: σ_tt grows with λt for a stable material. Steps
-	// grow geometrically from 1 %; a step into a region where the energy
-	// is not finite (beyond a limiting extensibility) is halved instead,
-	// since the lateral stress diverges before such a limit.
 	lo, hi := mu0, mu0
 	dir := -1.0 // search downwards when σ_tt(μ0) > 0
 	if v0 < 0 {
 		dir = 1
 	}
-	step, last := 0.01, mu0
+	step, last := 0.001, mu0
 	found := false
 	for i := 0; i < 400 && step > 1e-15; i++ {
 		cand := last * math.Exp(dir*step)
@@ -211,7 +315,7 @@ func SolveUniaxial(m *Model, theta, lambda float64) (float64, error) {
 		step = math.Min(2*step, 0.5)
 	}
 	if !found {
-		return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch gives zero lateral stress where the energy is finite", lambda, Deg(theta))
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: no lateral stretch connected to the unloaded state gives zero lateral stress where the energy is finite", lambda, Deg(theta))
 	}
 	mu := 0.5 * (lo + hi)
 	for iter := 0; iter < 200; iter++ {
@@ -247,29 +351,54 @@ type VerificationSettings struct {
 	// Cases are the load cases, in table order; default LoadCases.
 	Cases []LoadCase
 	// Stretches are the stretches λ of the uniaxial, equibiaxial and
-	// strip-biaxial cases; default 1.05 to 1.30 in steps of 0.05.
+	// strip-biaxial cases; default 0.90 and 0.95 (compression) and 1.05 to
+	// 1.30 in steps of 0.05.
 	Stretches []float64
 	// Shears are the amounts of shear γ of the simple-shear case; default
 	// 0.05 to 0.30 in steps of 0.05.
 	Shears []float64
 	// DirectionsDeg are the load directions θ in degrees from axis 1
-	// towards axis 2; default axis 1 (0), axis 2 (90) and each fibre
-	// family's angle, without repeats. Equibiaxial is listed once, at 0.
+	// towards axis 2 of the uniaxial and strip-biaxial cases; default axis
+	// 1 (0), axis 2 (90) and each fibre family's angle, without repeats.
+	// Equibiaxial is listed once, at 0.
 	DirectionsDeg []float64
+	// ShearDirectionsDeg are the load directions of the simple-shear case.
+	// Default: DirectionsDeg when the caller gave those, else axis 1, axis
+	// 2 and each family's angle α − 45° (the shear that stretches the
+	// family most) and α + 45° (the one that shortens it), without repeats
+	// and without any direction along a family: simple shear along a
+	// fibre leaves its length unchanged (I4 = 1 exactly, on the fibre
+	// switch, for every γ), so such rows cannot verify anything about the
+	// fibre and may differ between implementations.
+	ShearDirectionsDeg []float64
 }
 
 // DefaultVerificationSettings returns the default table for m.
 func DefaultVerificationSettings(m *Model) VerificationSettings {
-	s := VerificationSettings{Cases: LoadCases}
+	s := VerificationSettings{Cases: LoadCases, Stretches: []float64{0.90, 0.95}}
 	for i := 1; i <= 6; i++ {
 		s.Stretches = append(s.Stretches, float64(100+5*i)/100)
 		s.Shears = append(s.Shears, float64(5*i)/100)
 	}
 	dirs := []float64{0, 90}
+	shear := []float64{0, 90}
 	for _, f := range m.Families {
-		dirs = append(dirs, WrapDeg(Deg(f.Angle)))
+		a := WrapDeg(Deg(f.Angle))
+		dirs = append(dirs, a)
+		shear = append(shear, WrapDeg(a-45), WrapDeg(a+45))
 	}
 	s.DirectionsDeg = uniqueDirections(dirs)
+	for _, d := range uniqueDirections(shear) {
+		along := false
+		for _, f := range m.Families {
+			if math.Abs(WrapDeg(d-Deg(f.Angle))) < 1e-9 {
+				along = true
+			}
+		}
+		if !along {
+			s.ShearDirectionsDeg = append(s.ShearDirectionsDeg, d)
+		}
+	}
 	return s
 }
 
@@ -298,6 +427,81 @@ func uniqueDirections(dirs []float64) []float64 {
 	return out
 }
 
+// SwitchTolerance is the distance from a switch below which a verification
+// row is flagged (dimensionless): a family's |I4 − 1| for its fibre and I5
+// terms, |K − 1| for its cofactor terms. Closer than that, round-off in
+// an independent implementation can put the term on the other side.
+const SwitchTolerance = 1e-6
+
+// SwitchNote names a family that sits on a switch at a verification row.
+type SwitchNote struct {
+	// Family indexes Model.Families.
+	Family int
+	// Invariant is "I4" (fibre and I5 terms), "K" (cofactor terms) or
+	// "I4(θ)" (every direction of an in-plane dispersed family at once).
+	Invariant string
+	// Value is the invariant there (for "I4(θ)", 1 + the largest
+	// |I4(θ) − 1| over the directions).
+	Value float64
+}
+
+// Switches returns the families of m that sit within SwitchTolerance of a
+// switch at F, in family order: a family whose fibre or I5 terms (with a
+// positive weight) meet |I4 − 1| < SwitchTolerance, or whose cofactor
+// terms meet |K − 1| < SwitchTolerance. There the energy of a dispersed
+// family (κ > 0) jumps, because E_f = κ(I1 − 3) > 0 at I4 = 1, and the
+// tangent of every family jumps (f″(0⁺) ≠ 0), so which side an
+// implementation takes is decided by round-off.
+//
+// An in-plane dispersed family is different: every direction θ switches
+// on its own, at I4(θ) = 1, and the ends of the stretched arc move
+// continuously with F. The energy is w ∫ ρ f(I4(θ) − 1) over the arc;
+// differentiating it moves the arc's ends, but the integrand there is
+// ρ f(0) = 0 and its derivative ρ f′(0) ∂I4/∂F = 0 (fibre shapes start with
+// f′(0) = 0), so neither the stress nor the tangent gains a boundary term:
+// both are continuous, and a single direction at its switch has measure
+// zero. The family is on a switch only where a set of directions of
+// positive measure sits at I4(θ) = 1 at once, i.e. where I4(θ) − 1 =
+// A0 + R cos(2θ − φ) vanishes identically: |A0| + R < SwitchTolerance, the
+// in-plane C within SwitchTolerance of the identity (the reference state
+// and rigid rotations), which no verification row reaches.
+func (m *Model) Switches(F [4]float64) []SwitchNote {
+	k, err := NewKinematics(F)
+	if err != nil {
+		return nil
+	}
+	var out []SwitchNote
+	for f, fam := range m.Families {
+		var fibre, cofactor bool
+		for _, t := range m.Terms {
+			if t.Family != f || !(t.Weight > 0) {
+				continue
+			}
+			switch t.Shape.Arg {
+			case terms.Fibre, terms.Fifth:
+				fibre = true
+			case terms.Cofactor:
+				cofactor = true
+			}
+		}
+		if fam.Planar {
+			g := newPlanarGeom(&k.F)
+			if fibre && math.Abs(g.A0)+g.R < SwitchTolerance {
+				out = append(out, SwitchNote{Family: f, Invariant: "I4(θ)", Value: 1 + math.Abs(g.A0) + g.R})
+			}
+			continue
+		}
+		fk := k.Fibre(fam.Angle)
+		if fibre && math.Abs(fk.I4-1) < SwitchTolerance {
+			out = append(out, SwitchNote{Family: f, Invariant: "I4", Value: fk.I4})
+		}
+		if cofactor && math.Abs(fk.K-1) < SwitchTolerance {
+			out = append(out, SwitchNote{Family: f, Invariant: "K", Value: fk.K})
+		}
+	}
+	return out
+}
+
 // VerificationPoint is one row of a verification table.
 type VerificationPoint struct {
 	// Case is the load case.
@@ -314,17 +518,42 @@ type VerificationPoint struct {
 	// F is the in-plane deformation gradient (F11, F12, F21, F22) in the
 	// specimen's axes.
 	F [4]float64
+	// Energy is the strain energy W per unit reference volume, stress unit.
+	Energy float64
 	// Cauchy is (σ11, σ22, σ12) in the specimen's axes, stress unit.
 	Cauchy Sym
 	// Nominal is (P11, P22, P12, P21), P = σ F⁻ᵀ, stress unit.
 	Nominal [4]float64
+	// SecondPiola is the in-plane second Piola–Kirchhoff stress
+	// S = F⁻¹ σ F⁻ᵀ as (S11, S22, S12), stress unit (S33 = 0 with σ33).
+	SecondPiola Sym
 	// LoadFrame is the Cauchy stress in the load frame as (nn, tt, nt), n the
 	// load direction and t across it; for Uniaxial tt is zero.
 	LoadFrame Sym
+	// Switches lists the families that sit on a switch here (see
+	// Model.Switches): the row's stress or tangent may differ between
+	// implementations, and it is flagged.
+	Switches []SwitchNote
+	// NonUnique, for a uniaxial row, says why its lateral stretch is not
+	// unique (see UniaxialSolution); the row is flagged.
+	NonUnique string
 	// Err says why the point could not be evaluated (the energy is not
 	// finite there, or no lateral stretch frees the lateral edges); the
 	// stresses are then zero and must not be used. Empty for a good point.
 	Err string
+}
+
+// Flagged reports whether the row sits on a switch or has a lateral
+// stretch that is not unique.
+func (p *VerificationPoint) Flagged() bool { return len(p.Switches) > 0 || p.NonUnique != "" }
+
+// secondPiola returns S = F⁻¹ σ F⁻ᵀ (J = 1) of an in-plane Cauchy stress.
+func secondPiola(k *Kinematics, sig Sym) Sym {
+	// F⁻¹ = (F⁻ᵀ)ᵀ; k.FinvT is (11, 12, 21, 22) of F⁻ᵀ, so
+	// (F⁻¹)_ij = FinvT_ji.
+	t := &k.FinvT
+	inv := [4]float64{t[0], t[2], t[1], t[3]} // F⁻¹ as (11, 12, 21, 22)
+	return pushForward(inv, sig)
 }
 
 // VerificationCases evaluates m on every point of the table s describes,
@@ -346,38 +575,48 @@ func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, e
 	if len(s.Shears) == 0 {
 		s.Shears = def.Shears
 	}
+	if len(s.ShearDirectionsDeg) == 0 {
+		s.ShearDirectionsDeg = def.ShearDirectionsDeg
+		if len(s.DirectionsDeg) > 0 {
+			s.ShearDirectionsDeg = s.DirectionsDeg
+		}
+	}
 	if len(s.DirectionsDeg) == 0 {
 		s.DirectionsDeg = def.DirectionsDeg
 	}
 	var out []VerificationPoint
 	for _, c := range s.Cases {
-		dirs := s.DirectionsDeg
-		amounts := s.Stretches
-		if c == Equibiaxial {
+		dirs, amounts := s.DirectionsDeg, s.Stretches
+		switch c {
+		case Equibiaxial:
 			dirs = []float64{0}
+		case SimpleShear:
+			dirs, amounts = s.ShearDirectionsDeg, s.Shears
 		}
-		if c == SimpleShear {
-			amounts = s.Shears
+		for _, a := range amounts {
+			if math.IsNaN(a) || math.IsInf(a, 0) || (c != SimpleShear && !(a > 0)) {
+				return nil, fmt.Errorf("%s: amount %g must be a finite number (> 0 for a stretch)", c, a)
+			}
 		}
 		for _, d := range dirs {
 			if math.IsNaN(d) || math.IsInf(d, 0) {
 				return nil, fmt.Errorf("direction %g is not a finite number", d)
 			}
 			theta := Rad(d)
-			for _, a := range amounts {
-				if math.IsNaN(a) || math.IsInf(a, 0) || (c != SimpleShear && !(a > 0)) {
-					return nil, fmt.Errorf("%s: amount %g must be a finite number (> 0 for a stretch)", c, a)
-				}
+			var lateral []UniaxialSolution
+			if c == Uniaxial {
+				lateral = SolveUniaxialPath(m, theta, amounts)
+			}
+			for i, a := range amounts {
 				p := VerificationPoint{Case: c, DirectionDeg: d, Amount: a}
 				switch c {
 				case Uniaxial:
-					mu, err := SolveUniaxial(m, theta, a)
-					if err != nil {
+					if err := lateral[i].Err; err != nil {
 						p.Err = err.Error()
 						out = append(out, p)
 						continue
 					}
-					p.LateralStretch = mu
+					p.LateralStretch, p.NonUnique = lateral[i].Lateral, lateral[i].NonUnique
 				case Equibiaxial:
 					p.LateralStretch = a
 				default:
@@ -385,13 +624,19 @@ func VerificationCases(m *Model, s VerificationSettings) ([]VerificationPoint, e
 				}
 				p.F = LoadGradient(c, theta, a, p.LateralStretch)
 				r, err := m.Evaluate(p.F)
+				if err == nil && (math.IsInf(r.Energy, 0) || math.IsNaN(r.Energy)) {
+					err = fmt.Errorf("the energy is not finite (%g)", r.Energy)
+				}
 				if err != nil {
 					p.Err = fmt.Sprintf("%s at %g° and %g: %v", c, d, a, err)
 					out = append(out, p)
 					continue
 				}
-				p.Cauchy, p.Nominal = r.Cauchy, r.Nominal
+				k, _ := NewKinematics(p.F)
+				p.Energy, p.Cauchy, p.Nominal = r.Energy, r.Cauchy, r.Nominal
+				p.SecondPiola = secondPiola(&k, r.Cauchy)
 				p.LoadFrame = loadFrame(r.Cauchy, theta)
+				p.Switches = m.Switches(p.F)
 				out = append(out, p)
 			}
 		}

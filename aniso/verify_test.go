@@ -34,11 +34,12 @@ func TestVerificationNeoHookeanClosedForms(t *testing.T) {
 	m := neoHookean(w)
 	s := DefaultVerificationSettings(m)
 	s.DirectionsDeg = []float64{0, 90, 29, -62}
+	s.ShearDirectionsDeg = s.DirectionsDeg
 	pts, err := VerificationCases(m, s)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := 6*4 + 6 + 6*4 + 6*4; len(pts) != want {
+	if want := 8*4 + 8 + 8*4 + 6*4; len(pts) != want {
 		t.Fatalf("%d points, want %d", len(pts), want)
 	}
 	for _, p := range pts {
@@ -77,6 +78,22 @@ func TestVerificationNeoHookeanClosedForms(t *testing.T) {
 		if p.Case == Uniaxial && p.DirectionDeg == 0 && !near(p.Nominal[0], 2*w*(l*l-1/l)/l, 1e-14) {
 			t.Errorf("uniaxial λ=%g: P11 = %.15g, closed form σ/λ = %.15g", l, p.Nominal[0], 2*w*(l*l-1/l)/l)
 		}
+		// W = w(I1 − 3) with I1 of F_local = diag(λ, λt) or the shear, and
+		// along axis 1 the second Piola–Kirchhoff stress S11 = σ11/λ² (S =
+		// F⁻¹σF⁻ᵀ of a diagonal F).
+		I1 := map[LoadCase]float64{Uniaxial: l*l + 2/l, Equibiaxial: 2*l*l + math.Pow(l, -4), StripBiaxial: l*l + 1 + 1/(l*l), SimpleShear: 3 + l*l}[p.Case]
+		if !near(p.Energy, w*(I1-3), 1e-13) {
+			t.Errorf("%s θ=%g λ=%g: W = %.15g, closed form %.15g", p.Case, p.DirectionDeg, l, p.Energy, w*(I1-3))
+		}
+		if p.DirectionDeg == 0 && p.Case != SimpleShear {
+			F11 := p.F[0]
+			if !near(p.SecondPiola[0], p.Cauchy[0]/(F11*F11), 1e-14) || math.Abs(p.SecondPiola[2]) > 1e-14 {
+				t.Errorf("%s λ=%g: S = %v, closed form S11 = %g", p.Case, l, p.SecondPiola, p.Cauchy[0]/(F11*F11))
+			}
+		}
+		if p.Flagged() {
+			t.Errorf("%s θ=%g λ=%g: an isotropic model has no switch and a unique lateral stretch, but the row is flagged: %+v", p.Case, p.DirectionDeg, l, p)
+		}
 	}
 }
 
@@ -97,8 +114,9 @@ func TestVerificationMooneyRivlinShear(t *testing.T) {
 }
 
 // For an anisotropic model the uniaxial solve makes the load-frame lateral
-// stress vanish to round-off at every direction, and the default
-// directions are the axes and the fibre angles.
+// stress vanish to round-off at every direction, in tension and in
+// compression, and the default directions are the axes and the fibre
+// angles.
 func TestVerificationUniaxialLateralFree(t *testing.T) {
 	m := hgoMedia()
 	s := DefaultVerificationSettings(m)
@@ -119,7 +137,7 @@ func TestVerificationUniaxialLateralFree(t *testing.T) {
 		if math.Abs(p.LoadFrame[1]) > 1e-12*math.Abs(p.LoadFrame[0]) {
 			t.Errorf("θ=%g λ=%g: lateral stress %g with load stress %g", p.DirectionDeg, p.Amount, p.LoadFrame[1], p.LoadFrame[0])
 		}
-		if !(p.LoadFrame[0] > 0) || !(p.LateralStretch < 1) {
+		if sign := p.Amount - 1; !(p.LoadFrame[0]*sign > 0) || !((p.LateralStretch-1)*sign < 0) {
 			t.Errorf("θ=%g λ=%g: load stress %g, lateral stretch %g", p.DirectionDeg, p.Amount, p.LoadFrame[0], p.LateralStretch)
 		}
 		// F is R diag(λ, λt) Rᵀ: its load-frame components are the imposed ones.
@@ -129,7 +147,7 @@ func TestVerificationUniaxialLateralFree(t *testing.T) {
 			t.Errorf("θ=%g λ=%g: F in the load frame %v", p.DirectionDeg, p.Amount, back)
 		}
 	}
-	if n != 6*6 {
+	if n != 6*8 {
 		t.Fatalf("%d uniaxial points", n)
 	}
 }
@@ -162,7 +180,166 @@ func TestVerificationGentLimit(t *testing.T) {
 		}
 		good++
 	}
-	if bad == 0 || good != 12 {
+	if bad == 0 || good != 16 {
 		t.Errorf("%d points beyond the limit, %d uniaxial points checked", bad, good)
+	}
+}
+
+// The default directions: uniaxial and strip-biaxial along the axes and
+// each fibre; simple shear along the axes and at 45° either side of each
+// fibre, never along a fibre (there I4 = 1 for every γ).
+func TestVerificationShearDirections(t *testing.T) {
+	s := DefaultVerificationSettings(hgoMedia())
+	want := []float64{0, 90, -16, 74, -74, 16}
+	if len(s.ShearDirectionsDeg) != len(want) {
+		t.Fatalf("shear directions %v, want %v", s.ShearDirectionsDeg, want)
+	}
+	for i := range want {
+		if math.Abs(s.ShearDirectionsDeg[i]-want[i]) > 1e-12 {
+			t.Fatalf("shear directions %v, want %v", s.ShearDirectionsDeg, want)
+		}
+	}
+	// A family on axis 1 would put the shear along axis 1 on its switch.
+	m := &Model{Families: []Family{{Angle: 0}}, Terms: []Term{{Shape: terms.Lookup("fib-quad"), Family: 0, Weight: 1}}}
+	for _, d := range DefaultVerificationSettings(m).ShearDirectionsDeg {
+		if math.Abs(WrapDeg(d)) < 1e-9 {
+			t.Errorf("simple shear along the family at 0°: %v", DefaultVerificationSettings(m).ShearDirectionsDeg)
+		}
+	}
+}
+
+// switchCards are models whose default tables meet switches: families on
+// the axes (strip-biaxial across a fibre leaves it at I4 = 1 exactly),
+// a dispersed family, cofactor and I5 terms, two families 90° apart and an
+// in-plane dispersed family.
+func switchCards() map[string]*Model {
+	fib := func(id string, f int, w float64, p ...float64) Term {
+		return Term{Shape: terms.Lookup(id), Family: f, Weight: w, Params: p}
+	}
+	iso := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 1}
+	return map[string]*Model{
+		"axes": {Families: []Family{{Angle: 0, Dispersion: 0.1}, {Angle: math.Pi / 2}}, Terms: []Term{iso,
+			fib("fib-expsq", 0, 5, 2), fib("cof-quad", 0, 1), fib("fib-quad", 1, 3), fib("i5-quad", 1, 0.5)}},
+		"oblique": {Families: []Family{{Angle: 20 * deg}, {Angle: 110 * deg}}, Terms: []Term{iso, fib("fib-exp", 0, 4, 3), fib("cof-quad", 1, 2)}},
+		"hgo":     hgoMedia(),
+		"planar":  {Families: []Family{{Angle: 0, Planar: true, Concentration: 3}}, Terms: []Term{iso, fib("fib-expsq", 0, 5, 2)}},
+	}
+}
+
+// Every row of the default table is either at least SwitchTolerance away
+// from every switch of the model, or flagged with the family and the
+// invariant that sit on it. I4 and K are computed here from their
+// definitions (I4 = |F a0|², K = |cof(F) a0|² with cof F = J F⁻ᵀ, J = 1
+// in three dimensions; Schröder & Neff 2003), not through the package's
+// kinematics.
+func TestVerificationRowsOffSwitches(t *testing.T) {
+	for name, m := range switchCards() {
+		pts, err := VerificationCases(m, VerificationSettings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		flagged := 0
+		for _, p := range pts {
+			F := p.F
+			J := F[0]*F[3] - F[1]*F[2]
+			for f, fam := range m.Families {
+				if fam.Planar {
+					continue // never on a switch at a row (Model.Switches)
+				}
+				c, s := math.Cos(fam.Angle), math.Sin(fam.Angle)
+				a := [2]float64{F[0]*c + F[1]*s, F[2]*c + F[3]*s}
+				I4 := a[0]*a[0] + a[1]*a[1]
+				// In-plane cof(F) a0 = J F⁻ᵀ a0 with the 3-D J = 1: F⁻ᵀ of
+				// the in-plane F is [[F22, −F21], [−F12, F11]]/J2.
+				ca := [2]float64{(F[3]*c - F[2]*s) / J, (-F[1]*c + F[0]*s) / J}
+				K := ca[0]*ca[0] + ca[1]*ca[1]
+				var fibre, cof bool
+				for _, term := range m.Terms {
+					if term.Family == f {
+						fibre = fibre || term.Shape.Arg == terms.Fibre || term.Shape.Arg == terms.Fifth
+						cof = cof || term.Shape.Arg == terms.Cofactor
+					}
+				}
+				onI4 := fibre && math.Abs(I4-1) < SwitchTolerance
+				onK := cof && math.Abs(K-1) < SwitchTolerance
+				var hasI4, hasK bool
+				for _, n := range p.Switches {
+					hasI4 = hasI4 || n.Family == f && n.Invariant == "I4"
+					hasK = hasK || n.Family == f && n.Invariant == "K"
+				}
+				if onI4 != hasI4 || onK != hasK {
+					t.Errorf("%s: %s θ=%g %g: family %d I4 = %.17g, K = %.17g; switches flagged %+v", name, p.Case, p.DirectionDeg, p.Amount, f, I4, K, p.Switches)
+				}
+			}
+			if len(p.Switches) > 0 {
+				flagged++
+			}
+		}
+		// Strip-biaxial stretch across a fibre leaves it at I4 = 1
+		// exactly: families on the axes, or two families 90° apart, meet
+		// their switches there; the hgo and planar cards nowhere.
+		if (name == "axes" || name == "oblique") != (flagged > 0) {
+			t.Errorf("%s: %d rows flagged", name, flagged)
+		}
+	}
+}
+
+// A card without a matrix term has no lateral stiffness wherever its
+// fibres are slack: uniaxial rows then have many lateral stretches that
+// free the lateral edges, and they are flagged, not silently picked; along
+// axis 1, beyond λ = 1/cos 30°, the family at 30° is stretched whatever
+// the lateral stretch and pulls the lateral edges (σ_tt = 2ψ4 (a·t)² > 0),
+// so no lateral stretch exists and the rows say so. With a matrix term
+// every row is unique and equals the root a plain bisection of σ_tt over
+// [0.05, 3] finds (σ_tt increases with λt for this stable material).
+func TestVerificationUniaxialNonUnique(t *testing.T) {
+	fibreOnly := &Model{Families: []Family{{Angle: 30 * deg}}, Terms: []Term{{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 10, Params: []float64{2}}}}
+	withMatrix := &Model{Families: fibreOnly.Families, Terms: append([]Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 1}}, fibreOnly.Terms...)}
+	for name, m := range map[string]*Model{"fibre only": fibreOnly, "with matrix": withMatrix} {
+		pts, err := VerificationCases(m, VerificationSettings{Cases: []LoadCase{Uniaxial}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		nonUnique, none := 0, 0
+		for _, p := range pts {
+			if p.Err != "" {
+				none++
+				if name != "fibre only" || p.DirectionDeg != 0 || !(p.Amount*math.Cos(30*deg) > 1) {
+					t.Errorf("%s θ=%g λ=%g: %s", name, p.DirectionDeg, p.Amount, p.Err)
+				}
+				continue
+			}
+			if p.NonUnique != "" {
+				nonUnique++
+			}
+			if math.Abs(p.LoadFrame[1]) > 1e-9 {
+				t.Errorf("%s θ=%g λ=%g: lateral stress %g", name, p.DirectionDeg, p.Amount, p.LoadFrame[1])
+			}
+			if name != "with matrix" {
+				continue
+			}
+			th := p.DirectionDeg * deg
+			stt := func(mu float64) float64 {
+				r, err := m.Evaluate(LoadGradient(Uniaxial, th, p.Amount, mu))
+				if err != nil {
+					t.Fatal(err)
+				}
+				return loadFrame(r.Cauchy, th)[1]
+			}
+			lo, hi := 0.05, 3.0
+			for i := 0; i < 200; i++ {
+				if mid := (lo + hi) / 2; stt(mid) > 0 {
+					hi = mid
+				} else {
+					lo = mid
+				}
+			}
+			if !near(p.LateralStretch, lo, 1e-12) {
+				t.Errorf("θ=%g λ=%g: lateral stretch %.15g, bisection %.15g", p.DirectionDeg, p.Amount, p.LateralStretch, lo)
+			}
+		}
+		if name == "fibre only" && (nonUnique == 0 || none != 3) || name == "with matrix" && nonUnique != 0 {
+			t.Errorf("%s: %d of %d uniaxial rows flagged non-unique, %d without a lateral stretch", name, nonUnique, len(pts), none)
+		}
 	}
 }

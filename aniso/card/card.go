@@ -141,6 +141,10 @@ type Card struct {
 	// chosen-form fit.
 	Verdict   *VerdictSection   `json:"-"`
 	Selection *SelectionSection `json:"-"`
+	// Alternatives lists the models the data cannot tell from this one
+	// (key "alternatives"; AlternativeModels reads them); nil when the
+	// fibre layout is determined or the card predates the section.
+	Alternatives *AlternativesSection `json:"-"`
 	// Provenance is what made the card (key "provenance") and Setup how
 	// the specimen was set up (key "setup"); nil in cards written before
 	// them or by hand.
@@ -191,6 +195,7 @@ var sections = []section{
 	{KeySelection, func(c *Card) (any, bool) { return c.Selection, c.Selection != nil }, decodeInto(func(c *Card, v *SelectionSection) { c.Selection = v })},
 	{KeySplit, func(c *Card) (any, bool) { return c.Split, c.Split != nil }, decodeInto(func(c *Card, v *SplitSection) { c.Split = v })},
 	{KeyVerdict, func(c *Card) (any, bool) { return c.Verdict, c.Verdict != nil }, decodeInto(func(c *Card, v *VerdictSection) { c.Verdict = v })},
+	{KeyAlternatives, func(c *Card) (any, bool) { return c.Alternatives, c.Alternatives != nil }, decodeInto(func(c *Card, v *AlternativesSection) { c.Alternatives = v })},
 	{KeyProvenance, func(c *Card) (any, bool) { return c.Provenance, c.Provenance != nil }, decodeInto(func(c *Card, v *Provenance) { c.Provenance = v })},
 	{KeySetup, func(c *Card) (any, bool) { return c.Setup, c.Setup != nil }, decodeInto(func(c *Card, v *Setup) { c.Setup = v })},
 }

@@ -34,8 +34,15 @@ type DataRange struct {
 	Stretch1 Interval `json:"stretch_1"`
 	Stretch2 Interval `json:"stretch_2"`
 	// Shear is the [min, max] of F12 and F21 together (zero for pure
-	// biaxial data).
+	// biaxial data). Cards of this version also give each component apart
+	// (Shear12, Shear21), which is what Outside tests.
 	Shear Interval `json:"shear"`
+	// Shear12 and Shear21 are the [min, max] of F12 and of F21 apart,
+	// each including 0 when the fitted data hold an unsheared point
+	// (|F12| and |F21| at most UnshearedTolerance); nil in cards written
+	// before they were added, which then use Shear for both (ShearRanges).
+	Shear12 *Interval `json:"shear_12,omitempty"`
+	Shear21 *Interval `json:"shear_21,omitempty"`
 	// FibreStretch is the [min, max] of the fibre stretch √I4 per family,
 	// in families order.
 	FibreStretch []Interval `json:"fibre_stretch,omitempty"`
@@ -43,10 +50,15 @@ type DataRange struct {
 	StressKind string `json:"stress_kind,omitempty"`
 }
 
+// UnshearedTolerance is the largest |F12| and |F21| of a point counted as
+// unsheared (dimensionless): round-off, far below what markers resolve.
+const UnshearedTolerance = 1e-6
+
 // NewDataRange is the span of the fitted data of p, with the fibre stretch
 // of every family of m.
 func NewDataRange(p *aniso.Problem, m *aniso.Model) *DataRange {
 	dr := &DataRange{Stretch1: empty, Stretch2: empty, Shear: empty, StressKind: p.Specimen.Kind.String()}
+	s12, s21 := empty, empty
 	dr.FibreStretch = make([]Interval, len(m.Families))
 	for i := range dr.FibreStretch {
 		dr.FibreStretch[i] = empty
@@ -56,13 +68,34 @@ func NewDataRange(p *aniso.Problem, m *aniso.Model) *DataRange {
 		F := k.F
 		dr.Stretch1.widen(F[0])
 		dr.Stretch2.widen(F[3])
-		dr.Shear.widen(F[1])
-		dr.Shear.widen(F[2])
+		s12.widen(F[1])
+		s21.widen(F[2])
+		if math.Abs(F[1]) <= UnshearedTolerance && math.Abs(F[2]) <= UnshearedTolerance {
+			s12.widen(0)
+			s21.widen(0)
+		}
 		for f, fam := range m.Families {
 			dr.FibreStretch[f].widen(fibreStretch(k, fam))
 		}
 	}
+	dr.Shear12, dr.Shear21 = &s12, &s21
+	dr.Shear = s12
+	dr.Shear.widen(s21[0])
+	dr.Shear.widen(s21[1])
 	return dr
+}
+
+// ShearRanges returns the ranges of F12 and F21: Shear12 and Shear21, or
+// for a card without them the pooled Shear for both.
+func (dr *DataRange) ShearRanges() (f12, f21 Interval) {
+	f12, f21 = dr.Shear, dr.Shear
+	if dr.Shear12 != nil {
+		f12 = *dr.Shear12
+	}
+	if dr.Shear21 != nil {
+		f21 = *dr.Shear21
+	}
+	return f12, f21
 }
 
 // fibreStretch is the stretch √I4 of family f under the kinematics k.
@@ -95,9 +128,10 @@ func (dr *DataRange) HasFibreStretch(m *aniso.Model) bool {
 }
 
 // Outside lists every quantity of the deformation F that lies outside the
-// range: F11, F22, the shears F12 and F21, and the fibre stretch √I4 of
-// each family of m, e.g. "F11 = 1.3 outside [1, 1.2]". It is empty when F
-// lies inside.
+// range: F11, F22, the shears F12 and F21 (each against its own range,
+// ShearRanges), and the fibre stretch √I4 of each family of m, e.g.
+// "F11 = 1.3 outside [1, 1.2]". It is empty when F lies inside. It is the
+// one test of "inside the fitted data range" every command uses.
 func (dr *DataRange) Outside(m *aniso.Model, F [4]float64) []string {
 	var out []string
 	check := func(name string, v float64, r Interval) {
@@ -105,10 +139,11 @@ func (dr *DataRange) Outside(m *aniso.Model, F [4]float64) []string {
 			out = append(out, fmt.Sprintf("%s = %.6g outside [%.6g, %.6g]", name, v, r[0], r[1]))
 		}
 	}
+	f12, f21 := dr.ShearRanges()
 	check("F11", F[0], dr.Stretch1)
 	check("F22", F[3], dr.Stretch2)
-	check("F12", F[1], dr.Shear)
-	check("F21", F[2], dr.Shear)
+	check("F12", F[1], f12)
+	check("F21", F[2], f21)
 	if dr.HasFibreStretch(m) {
 		k, err := aniso.NewKinematics(F)
 		if err == nil {
@@ -123,10 +158,11 @@ func (dr *DataRange) Outside(m *aniso.Model, F [4]float64) []string {
 // Validate checks that every interval is a [min, max] pair; the error's
 // path names the first that is not.
 func (dr *DataRange) Validate() error {
+	f12, f21 := dr.ShearRanges()
 	for _, p := range []struct {
 		name string
 		v    Interval
-	}{{"stretch_1", dr.Stretch1}, {"stretch_2", dr.Stretch2}, {"shear", dr.Shear}} {
+	}{{"stretch_1", dr.Stretch1}, {"stretch_2", dr.Stretch2}, {"shear", dr.Shear}, {"shear_12", f12}, {"shear_21", f21}} {
 		if !(p.v[0] <= p.v[1]) {
 			return errAt("$.data_range."+p.name, "[%g, %g] is not a [min, max] pair", p.v[0], p.v[1])
 		}

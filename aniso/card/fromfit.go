@@ -15,7 +15,8 @@ const HeldoutMetric = "held-out normalised RMSE: sqrt(weighted SSE / components)
 
 // FromFit writes a fitted model and its evidence as a card: the model
 // (FromModel) with its specimen and fibre layout, and the sections Fit,
-// Data, DataRange and, when the split can be computed, Split. d is the
+// Data, DataRange, Alternatives when the data leave the layout
+// undetermined and, when the split can be computed, Split. d is the
 // discovery that chose r (nil for a chosen form); with it the card also
 // holds the Verdict and the Selection evidence.
 func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
@@ -29,6 +30,7 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 	c.Layout = fitLayout(r)
 	c.Fit = NewFitSection(r, s.Kind.String(), s.StressUnit)
 	c.DataRange = NewDataRange(p, r.Model)
+	c.Alternatives = NewAlternativesSection(r.Model, s.StressUnit, signs)
 	c.Data = NewDataSection(s)
 	c.Setup = NewSetup(s)
 	if sp, err := aniso.Split(p, r.Model); err == nil {
@@ -92,6 +94,10 @@ func NewDataSection(s *biaxial.Specimen) *DataSection {
 	d := &DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
 		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
 		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
+	d.StressMeasure, d.StressMeasureNote = stressMeasure(s)
+	if g := s.Geometry; g != nil {
+		d.Geometry = &GeometryCard{ThicknessMM: g.Thickness, Size1MM: g.Size1, Size2MM: g.Size2}
+	}
 	for _, pr := range s.Protocols {
 		d.Protocols = append(d.Protocols, DataProtocolCard{Label: pr.Label, Points: len(pr.Points), Kept: pr.Kept, Cycles: pr.Cycles, Weight: pr.UserWeight})
 	}
@@ -104,4 +110,16 @@ func NewDataSection(s *biaxial.Specimen) *DataSection {
 		d.Notices[i] = strings.ReplaceAll(n, s.Source, base)
 	}
 	return d
+}
+
+// stressMeasure says what stress the file of s gave, as a key and in
+// words.
+func stressMeasure(s *biaxial.Specimen) (key, note string) {
+	switch {
+	case s.FromLoads:
+		return "loads", "edge loads converted to nominal (first Piola-Kirchhoff) stress with the reference geometry: P11 = load_1/(W2 H), P22 = load_2/(W1 H)"
+	case s.Kind == biaxial.Nominal:
+		return "nominal", "nominal (first Piola-Kirchhoff) stress P = sigma F^-T, force per reference area"
+	}
+	return "cauchy", "Cauchy stress, force per current area"
 }

@@ -43,3 +43,21 @@ func TestSetupAndProvenance(t *testing.T) {
 }
 
 func ptr(x float64) *float64 { return &x }
+
+// The data section records the stress measure of the file and the
+// specimen's reference geometry: edge loads become nominal stress over the
+// reference cross-section, P11 = load_1/(W2 H) (common practice), which an
+// FE analyst needs to compare reaction forces with the test.
+func TestDataSectionStressMeasureAndGeometry(t *testing.T) {
+	loads := NewDataSection(&biaxial.Specimen{FromLoads: true, Kind: biaxial.Nominal, Geometry: &biaxial.Geometry{Thickness: 0.15, Size1: 12, Size2: 10}})
+	if loads.StressMeasure != "loads" || !strings.Contains(loads.StressMeasureNote, "load_1/(W2 H)") || loads.Geometry == nil ||
+		loads.Geometry.ThicknessMM != 0.15 || loads.Geometry.Size1MM != 12 || loads.Geometry.Size2MM != 10 {
+		t.Errorf("from loads: %q (%q), geometry %+v", loads.StressMeasure, loads.StressMeasureNote, loads.Geometry)
+	}
+	for kind, want := range map[biaxial.StressKind]string{biaxial.Nominal: "nominal", biaxial.Cauchy: "cauchy"} {
+		d := NewDataSection(&biaxial.Specimen{Kind: kind})
+		if d.StressMeasure != want || d.Geometry != nil {
+			t.Errorf("%v columns: measure %q, geometry %+v", kind, d.StressMeasure, d.Geometry)
+		}
+	}
+}

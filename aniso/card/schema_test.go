@@ -151,11 +151,14 @@ func buildSchema() []byte {
 			{"stretch_1", pair("[min, max] of F11 over the fitted points, dimensionless", 0)},
 			{"stretch_2", pair("[min, max] of F22 over the fitted points, dimensionless", 0)},
 			{"shear", pair("[min, max] of F12 and F21 together, dimensionless (zero for pure biaxial data)", nil)},
+			{"shear_12", pair("[min, max] of F12, dimensionless, including 0 when the fitted data hold an unsheared point; when absent, shear is used", nil)},
+			{"shear_21", pair("[min, max] of F21, dimensionless, including 0 when the fitted data hold an unsheared point; when absent, shear is used", nil)},
 			{"fibre_stretch", obj{{"type", "array"}, {"items", pair("[min, max] of the fibre stretch √I4, dimensionless", 0)},
 				{"description", "per family, in the order of families"}}},
 			{"stress_kind", obj{{"enum", []string{"cauchy", "nominal"}}, {"description", "the stress measure the fit used"}}},
 		}},
 	}
+	alternatives := alternativesSchema(family, term, str)
 	verdict := obj{
 		{"type", "object"},
 		{"description", "the answer of model discovery on the number of fibre families, with its evidence"},
@@ -212,6 +215,7 @@ func buildSchema() []byte {
 			{"layout", layout},
 			{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
 			{"data_range", dataRange},
+			{"alternatives", alternatives},
 			{"verdict", verdict},
 			{"fit", fit},
 		}},
@@ -225,6 +229,33 @@ func buildSchema() []byte {
 	json.Indent(&out, b, "", "  ")
 	out.WriteByte('\n')
 	return out.Bytes()
+}
+
+// alternativesSchema is the schema of the alternatives section, whose
+// models hold families and terms as the card does.
+func alternativesSchema(family, term obj, str func(string) obj) obj {
+	return obj{
+		{"type", "object"},
+		{"description", "the complete models the data cannot tell from the card's own (no shear information: one family at +|α|, one at −|α|, the mirror pair ±|α| with half the weights, or sign combinations of several families), with why, what measurement decides and which to choose in an FE model"},
+		{"required", []string{"models"}},
+		{"properties", obj{
+			{"reason", str("why the models cannot be told apart")},
+			{"decider", str("the measurement that removes the doubt")},
+			{"choosing", str("which model to take for which boundary conditions of an FE model")},
+			{"models", obj{{"type", "array"}, {"minItems", 2}, {"items", obj{
+				{"type", "object"},
+				{"required", []string{"name", "families", "terms"}},
+				{"properties", obj{
+					{"name", obj{{"type", "string"}, {"minLength", 1}, {"description", "single-plus, single-minus, mirror-pair, or signs+- and the like for several families"}}},
+					{"title", str("the alternative in words")},
+					{"as_card", obj{{"type", "boolean"}, {"description", "true for the card's own model"}}},
+					{"energy", str("the energy with its numbers, plain text")},
+					{"families", obj{{"type", []string{"array", "null"}}, {"items", family}}},
+					{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
+				}},
+			}}}},
+		}},
+	}
 }
 
 func familyRule(sh *terms.Shape) kv {
@@ -352,12 +383,18 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 		for _, withRange := range []bool{false, true} {
 			c := FromModel(m, "kPa", nil)
 			if withRange {
-				dr := DataRange{Stretch1: [2]float64{0.98, 1.31}, Stretch2: [2]float64{1, 1.22}, Shear: [2]float64{-0.02, 0.03}, StressKind: "cauchy"}
+				s12, s21 := Interval{-0.02, 0.01}, Interval{0, 0.03}
+				dr := DataRange{Stretch1: [2]float64{0.98, 1.31}, Stretch2: [2]float64{1, 1.22}, Shear: [2]float64{-0.02, 0.03}, Shear12: &s12, Shear21: &s21, StressKind: "cauchy"}
 				for range m.Families {
 					dr.FibreStretch = append(dr.FibreStretch, [2]float64{1, 1.2})
 				}
 				c.DataRange = &dr
 				c.Extra = map[string]json.RawMessage{"future_section": json.RawMessage(`{"anything":[1,2],"rmse":1.2}`)}
+				unknown := make([]bool, len(m.Families))
+				c.Alternatives = NewAlternativesSection(m, "kPa", unknown)
+				if len(m.Families) > 0 && c.Alternatives == nil {
+					t.Errorf("%s: no alternatives for unknown signs", name)
+				}
 			}
 			b, err := c.Marshal()
 			if err != nil {

@@ -26,6 +26,15 @@ type DataSection struct {
 	Axis1      string `json:"axis_1,omitempty"`
 	StressKind string `json:"stress_kind"`
 	StressUnit string `json:"stress_unit"`
+	// StressMeasure is what the file gave: "loads" (edge loads turned
+	// into nominal stress with the geometry), "nominal" (first
+	// Piola–Kirchhoff stress) or "cauchy"; StressMeasureNote says it in
+	// words. Absent in cards written before they were added.
+	StressMeasure     string `json:"stress_measure,omitempty"`
+	StressMeasureNote string `json:"stress_measure_note,omitempty"`
+	// Geometry is the specimen's reference geometry from the file's
+	// metadata, nil when the file does not give all of it.
+	Geometry *GeometryCard `json:"geometry,omitempty"`
 	// Reference states the reference state used (as measured, or
 	// re-referenced with the tare removed).
 	Reference string `json:"reference"`
@@ -34,6 +43,15 @@ type DataSection struct {
 	Protocols []DataProtocolCard `json:"protocols"`
 	Warnings  []string           `json:"warnings"`
 	Notices   []string           `json:"notices"`
+}
+
+// GeometryCard is the reference geometry of a specimen, in mm: the
+// thickness H and the extents W1, W2 of the loaded region along axis 1 and
+// axis 2 (the load on axis 1 acts over W2·H, the load on axis 2 over W1·H).
+type GeometryCard struct {
+	ThicknessMM float64 `json:"thickness_mm"`
+	Size1MM     float64 `json:"size_1_mm"`
+	Size2MM     float64 `json:"size_2_mm"`
 }
 
 // DataProtocolCard is one protocol as used in the fit.

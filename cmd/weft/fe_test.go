@@ -90,7 +90,7 @@ func TestExportCSVNeoHookeanClosedForms(t *testing.T) {
 			t.Fatalf("exit %d: %s", code, errs)
 		}
 		comments, rows := readExportCSV(t, out)
-		want := "case,direction_deg,stretch_or_shear,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa],cauchy_12 [kPa],nominal_11 [kPa],nominal_22 [kPa],nominal_12 [kPa],nominal_21 [kPa]"
+		want := "case,direction_deg,stretch_or_shear,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa],cauchy_12 [kPa],nominal_11 [kPa],nominal_22 [kPa],nominal_12 [kPa],nominal_21 [kPa],energy [kPa],pk2_11 [kPa],pk2_22 [kPa],pk2_12 [kPa],flags"
 		if got := strings.Join(rows[0], ","); got != want {
 			t.Fatalf("header\n%s\nwant\n%s", got, want)
 		}
@@ -100,8 +100,9 @@ func TestExportCSVNeoHookeanClosedForms(t *testing.T) {
 				t.Errorf("caution %q missing from the CSV comments", c)
 			}
 		}
-		// An isotropic card: directions 0 and 90 only; equibiaxial once.
-		if len(rows)-1 != 6*2+6+6*2+6*2 {
+		// An isotropic card: directions 0 and 90 only; equibiaxial once;
+		// eight stretches (two in compression) and six shears.
+		if len(rows)-1 != 8*2+8+8*2+6*2 {
 			t.Fatalf("%d rows", len(rows)-1)
 		}
 		checked := 0
@@ -111,23 +112,33 @@ func TestExportCSVNeoHookeanClosedForms(t *testing.T) {
 			if dir == 90 { // into the load frame n = e2, t = −e1: σnn = σ22, σtt = σ11, σnt = −σ12
 				s11, s22, s12 = s22, s11, -s12
 			}
-			var w11, w22, w12 float64
+			// The energy W = w(I1 − 3) with I1 of the same deformations.
+			var w11, w22, w12, i1 float64
 			switch r[0] {
 			case "uniaxial":
-				w11 = 2 * w * (a*a - 1/a)
+				w11, i1 = 2*w*(a*a-1/a), a*a+2/a
 			case "equibiaxial":
 				w11 = 2 * w * (a*a - math.Pow(a, -4))
-				w22 = w11
+				w22, i1 = w11, 2*a*a+math.Pow(a, -4)
 			case "strip-biaxial":
-				w11, w22 = 2*w*(a*a-1/(a*a)), 2*w*(1-1/(a*a))
+				w11, w22, i1 = 2*w*(a*a-1/(a*a)), 2*w*(1-1/(a*a)), a*a+1+1/(a*a)
 			case "simple-shear":
-				w11, w12 = 2*w*a*a, 2*w*a
+				w11, w12, i1 = 2*w*a*a, 2*w*a, 3+a*a
 			default:
 				t.Fatalf("case %q", r[0])
 			}
 			tol := 1e-12 * 2 * w * 3
 			if math.Abs(s11-w11) > tol || math.Abs(s22-w22) > tol || math.Abs(s12-w12) > tol {
 				t.Errorf("%s θ=%g %g: σ = (%g, %g, %g), closed form (%g, %g, %g)", r[0], dir, a, s11, s22, s12, w11, w22, w12)
+			}
+			if e := parseNum(t, r[14]); math.Abs(e-w*(i1-3)) > tol {
+				t.Errorf("%s θ=%g %g: energy %g, closed form %g", r[0], dir, a, e, w*(i1-3))
+			}
+			// Along axis 1 of a diagonal F, S11 = σ11/F11² (S = F⁻¹σF⁻ᵀ).
+			if dir == 0 && r[0] != "simple-shear" {
+				if f11 := parseNum(t, r[3]); math.Abs(parseNum(t, r[15])-w11/(f11*f11)) > tol {
+					t.Errorf("%s %g: S11 %s, σ11/F11² %g", r[0], a, r[15], w11/(f11*f11))
+				}
 			}
 			checked++
 		}
@@ -165,8 +176,8 @@ func TestExportAgreesWithPredict(t *testing.T) {
 	if len(prows) != len(rows) {
 		t.Fatalf("predict %d rows, export %d", len(prows), len(rows))
 	}
-	if strings.Join(prows[0][5:], ",") != strings.Join(rows[0][7:], ",") {
-		t.Fatalf("stress columns differ: %v vs %v", prows[0][5:], rows[0][7:])
+	if strings.Join(prows[0][5:], ",") != strings.Join(rows[0][7:14], ",") {
+		t.Fatalf("stress columns differ: %v vs %v", prows[0][5:], rows[0][7:14])
 	}
 	for i := 1; i < len(rows); i++ {
 		for j := 0; j < 7; j++ {
@@ -200,7 +211,7 @@ func TestExportFormats(t *testing.T) {
 		t.Fatal(err)
 	}
 	if len(doc.Cautions) != len(card.Cautions) || len(doc.Parameters) != 3 || doc.Parameters[1].Params["stiffening"] != 0.8393 ||
-		*doc.Parameters[2].AngleDeg != -29 || doc.StressUnit != "kPa" || len(doc.Verification) != 6*4+6+6*4+6*4 {
+		*doc.Parameters[2].AngleDeg != -29 || doc.StressUnit != "kPa" || len(doc.Verification) != 8*4+8+8*4+6*6 {
 		t.Fatalf("json: %+v", doc)
 	}
 	out2, _, _ := runWeft(t, "export", model, "--format", "json")
@@ -255,7 +266,7 @@ func TestDataRangeWarnings(t *testing.T) {
 	for _, p := range doc.Verification {
 		if len(p.OutsideData) > 0 {
 			n++
-			if p.StretchOrShear <= 1.15 && p.Case != "simple-shear" && p.Case != "uniaxial" {
+			if p.StretchOrShear >= 1 && p.StretchOrShear <= 1.15 && p.Case != "simple-shear" && p.Case != "uniaxial" {
 				t.Errorf("row %+v flagged", p)
 			}
 		}
@@ -307,7 +318,7 @@ func TestCheckPassesHGO(t *testing.T) {
 			t.Errorf("%s: %+v", name, rep)
 		}
 		y := rep.Moduli.Young[c.slack]
-		if !near(rep.Moduli.InitialShear, c.cval, 1e-14) || !near(y.Compression, 3*c.cval, 1e-12) || len(y.CompressionTerms) != 0 {
+		if !near(float64(rep.Moduli.InitialShear), c.cval, 1e-14) || !near(float64(y.Compression), 3*c.cval, 1e-12) || len(y.CompressionTerms) != 0 {
 			t.Errorf("%s: μ0 = %g, %s compression %g (%v); want %g, %g", name, rep.Moduli.InitialShear, y.Direction, y.Compression, y.CompressionTerms, c.cval, 3*c.cval)
 		}
 		if !(y.Tension > y.Compression) || len(y.TensionTerms) != 2 {
@@ -429,10 +440,10 @@ func TestEvaluate(t *testing.T) {
 		pp, pm := nominal(rows[2+2*j]), nominal(rows[3+2*j])
 		for i := 0; i < 4; i++ {
 			fd := (pp[i] - pm[i]) / (2 * h)
-			if math.Abs(fd-r.Tangent.Matrix[i][j]) > 1e-6*math.Max(1, math.Abs(fd)) {
+			if math.Abs(fd-float64(r.Tangent.Matrix[i][j])) > 1e-6*math.Max(1, math.Abs(fd)) {
 				t.Errorf("dP%s/dF%s = %g, finite difference %g", fe.TangentOrder[i], fe.TangentOrder[j], r.Tangent.Matrix[i][j], fd)
 			}
-			if r.Tangent.Matrix[i][j] != r.Tangent.Matrix[j][i] && math.Abs(r.Tangent.Matrix[i][j]-r.Tangent.Matrix[j][i]) > 1e-12 {
+			if r.Tangent.Matrix[i][j] != r.Tangent.Matrix[j][i] && math.Abs(float64(r.Tangent.Matrix[i][j]-r.Tangent.Matrix[j][i])) > 1e-12 {
 				t.Errorf("tangent not symmetric at %d,%d", i, j)
 			}
 		}

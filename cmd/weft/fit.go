@@ -327,6 +327,9 @@ func runFit(ff *fitOptions) error {
 			continue
 		}
 		outcomes = append(outcomes, o)
+		if o.result.Model.MatrixWeight() == 0 {
+			fmt.Fprintf(ff.ErrOut, "weft: warning: %s: %s; check it with 'weft check' before an FE analysis, or fit a form with a matrix term (--terms, --preset)\n", j.spec.Name, zeroMatrixWarning)
+		}
 		if !ff.asJSON {
 			printFitSummary(ff.Out, o)
 		}

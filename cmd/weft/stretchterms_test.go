@@ -107,7 +107,7 @@ func TestCheckCardsWithNewShapes(t *testing.T) {
 			neg.Stability.FailingPoints, neg.Stability.FullIndefinite, neg.Stability.Worst.F,
 			i2.Stability.FailingPoints, i2.Stability.FullIndefinite, i2.Stability.Worst.F)
 	}
-	if !near(neg.Moduli.InitialShear, 2, 1e-12) || !near(i2.Moduli.InitialShear, 2, 1e-12) {
+	if !near(float64(neg.Moduli.InitialShear), 2, 1e-12) || !near(float64(i2.Moduli.InitialShear), 2, 1e-12) {
 		t.Errorf("initial shear moduli %g and %g, want 2 (w of ps-neg, 2 C01 of i2-lin)", neg.Moduli.InitialShear, i2.Moduli.InitialShear)
 	}
 }

@@ -21,6 +21,20 @@ func num(x float64, format string) string {
 	return fmt.Sprintf(format, x)
 }
 
+// zeroMatrixWarning is what fit says when the fitted model's matrix weight
+// is zero (a preset or chosen form whose matrix weight went to its bound,
+// or a form without a matrix term).
+const zeroMatrixWarning = "the fitted model has zero matrix weight (no isotropic or Fung-type term carries load): it has no stiffness at rest or in compression, so an FE model of it is singular there"
+
+// printModelLine prints the fitted energy, and a warning when it has no
+// matrix weight.
+func printModelLine(w io.Writer, o *fitOutcome, how string) {
+	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
+	if o.result.Model.MatrixWeight() == 0 {
+		fmt.Fprintf(w, "warning:  %s\n", zeroMatrixWarning)
+	}
+}
+
 // printFitSummary prints the short human summary of one specimen's fit.
 func printFitSummary(w io.Writer, o *fitOutcome) {
 	s, r := o.spec, o.result
@@ -40,7 +54,7 @@ func printFitSummary(w io.Writer, o *fitOutcome) {
 	if o.disc != nil {
 		how = "discovered (" + o.disc.Best().Name + ")"
 	}
-	fmt.Fprintf(w, "model:    %s, %s\n", how, strings.TrimPrefix(o.card.Energy, "Psi = "))
+	printModelLine(w, o, how)
 	if pair := report.PairText(o.card.Layout); pair != "" {
 		fmt.Fprintf(w, "fibres:   %s\n", pair)
 	}

@@ -3,6 +3,7 @@ package fe
 import (
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"strings"
 
@@ -43,9 +44,9 @@ type checkConvexity struct {
 type checkPoint struct {
 	F      [4]float64 `json:"F"`
 	Cauchy [3]float64 `json:"cauchy"`
-	Value  float64    `json:"value"`
+	Value  card.Num   `json:"value"`
 	// MinFull is the full 4×4 smallest eigenvalue (stability only).
-	MinFull *float64 `json:"min_full_eigenvalue,omitempty"`
+	MinFull *card.Num `json:"min_full_eigenvalue,omitempty"`
 	// A and B are the worst rank-one directions (ellipticity only).
 	A *[2]float64 `json:"a,omitempty"`
 	B *[2]float64 `json:"b,omitempty"`
@@ -57,8 +58,8 @@ type checkPoint struct {
 type checkModulus struct {
 	Direction        string   `json:"direction"`
 	AngleDeg         float64  `json:"angle_deg"`
-	Tension          float64  `json:"tension"`
-	Compression      float64  `json:"compression"`
+	Tension          card.Num `json:"tension"`
+	Compression      card.Num `json:"compression"`
 	TensionTerms     []string `json:"terms_engaged_in_tension"`
 	CompressionTerms []string `json:"terms_engaged_in_compression"`
 }
@@ -93,37 +94,68 @@ type CheckReport struct {
 		Tolerance  float64 `json:"tolerance"`
 	} `json:"grid"`
 	Stability struct {
-		Criterion             string     `json:"criterion"`
-		Passed                bool       `json:"passed"`
-		FailingPoints         int        `json:"failing_points"`
-		Worst                 checkPoint `json:"worst"`
-		FullIndefinite        int        `json:"full_tangent_indefinite_points"`
-		Unresolved            int        `json:"unresolved_points"`
-		FullIndefiniteTensile int        `json:"full_tangent_indefinite_with_both_principal_stresses_tensile"`
+		Criterion     string `json:"criterion"`
+		Passed        bool   `json:"passed"`
+		FailingPoints int    `json:"failing_points"`
+		// Worst is null when no grid point was resolved; WorstReason
+		// says so.
+		Worst                 *checkPoint `json:"worst"`
+		WorstReason           string      `json:"worst_reason,omitempty"`
+		FullIndefinite        int         `json:"full_tangent_indefinite_points"`
+		Unresolved            int         `json:"unresolved_points"`
+		FullIndefiniteTensile int         `json:"full_tangent_indefinite_with_both_principal_stresses_tensile"`
+		// NoStiffnessPoints have a zero tangent, or no resolvable
+		// positive stiffness without a matrix term; they fail.
+		NoStiffnessPoints int         `json:"no_stiffness_points"`
+		FirstNoStiffness  *[4]float64 `json:"first_no_stiffness_F,omitempty"`
 	} `json:"material_stability"`
 	Ellipticity struct {
-		Criterion     string     `json:"criterion"`
-		Passed        bool       `json:"passed"`
-		FailingPoints int        `json:"failing_points"`
-		Worst         checkPoint `json:"worst"`
+		Criterion     string      `json:"criterion"`
+		Passed        bool        `json:"passed"`
+		FailingPoints int         `json:"failing_points"`
+		Worst         *checkPoint `json:"worst"`
+		WorstReason   string      `json:"worst_reason,omitempty"`
 	} `json:"strong_ellipticity"`
 	Moduli struct {
-		InitialShear  float64        `json:"initial_shear_modulus"`
-		ShearPositive float64        `json:"shear_modulus_12_positive"`
-		ShearNegative float64        `json:"shear_modulus_12_negative"`
+		InitialShear  card.Num       `json:"initial_shear_modulus"`
+		ShearPositive card.Num       `json:"shear_modulus_12_positive"`
+		ShearNegative card.Num       `json:"shear_modulus_12_negative"`
 		Young         []checkModulus `json:"uniaxial_moduli"`
 		Note          string         `json:"note"`
 	} `json:"small_strain_moduli"`
-	DataRange *card.DataRange `json:"data_range"`
-	Cautions  []string        `json:"cautions"`
+	// NoStiffness is true when the card fails for lack of stiffness (on
+	// the grid or at small strain); MatrixWeight is the sum of the
+	// weights of its terms without a fibre family.
+	NoStiffness  bool     `json:"no_stiffness"`
+	MatrixWeight card.Num `json:"matrix_weight"`
+	// Alternatives are the models the card's data cannot tell from its
+	// own, each scanned for stability and ellipticity on the same grid.
+	Alternatives []checkAlternative `json:"alternatives,omitempty"`
+	DataRange    *card.DataRange    `json:"data_range"`
+	Cautions     []string           `json:"cautions"`
+}
+
+// checkAlternative is the stability scan of one alternative model.
+type checkAlternative struct {
+	Name              string `json:"name"`
+	Title             string `json:"title"`
+	AsCard            bool   `json:"as_card"`
+	Passed            bool   `json:"passed"`
+	UnstablePoints    int    `json:"unstable_points"`
+	NonEllipticPoints int    `json:"non_elliptic_points"`
+	NoStiffnessPoints int    `json:"no_stiffness_points"`
 }
 
 // CheckCard performs every check.
 func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*CheckReport, error) {
 	rep := &CheckReport{Format: checkFormat, Model: filepath.Base(file), StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
-		Notices: []string{}, DataRange: dr, Cautions: card.Cautions}
+		Notices: []string{}, DataRange: dr, Cautions: card.Cautions, MatrixWeight: card.Num(m.MatrixWeight())}
 	u := c.StressUnit
 	names := familyNames(m)
+	alts, err := c.AlternativeModels(m)
+	if err != nil {
+		return nil, cardErrorf("%s: %v", file, err)
+	}
 
 	// 1. Stress-free reference.
 	mx, tol, err := m.ReferenceStress()
@@ -143,6 +175,40 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 	if err != nil {
 		return nil, cardErrorf("%s: %v", file, err)
 	}
+	checkGrid(rep, m, g, &sr, dr)
+
+	// 5. Small-strain moduli.
+	if err := checkModuli(rep, m, names); err != nil {
+		return nil, cardErrorf("%s: %v", file, err)
+	}
+
+	// 6. Data range.
+	if dr == nil {
+		rep.Notices = append(rep.Notices, noRangeNotice)
+	} else {
+		rep.Warnings = append(rep.Warnings, gridExtrapolation(dr, m, g, names)...)
+	}
+
+	// 7. The alternatives of an undetermined fibre layout.
+	if err := checkAlternatives(rep, alts, g); err != nil {
+		return nil, cardErrorf("%s: %v", file, err)
+	}
+	rep.Passed = len(rep.Failures) == 0
+	return rep, nil
+}
+
+// worstPoint turns a scan's worst point into the report's, or nil with a
+// reason when no point was resolved (its value is then +Inf).
+func worstPoint(p aniso.PointStability, value float64, inside func([4]float64) *bool) (*checkPoint, string) {
+	if math.IsInf(value, 1) {
+		return nil, "no grid point was resolved: every point either could not be evaluated or has no stiffness"
+	}
+	return &checkPoint{F: p.F, Cauchy: p.Cauchy, Value: card.Num(value), InsideData: inside(p.F)}, ""
+}
+
+// checkGrid reports the stability and ellipticity scan sr on grid g.
+func checkGrid(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid, sr *aniso.StabilityReport, dr *card.DataRange) {
+	u := rep.StressUnit
 	rep.Grid.StretchMin, rep.Grid.StretchMax, rep.Grid.Steps = g.StretchMin, g.StretchMax, g.Steps
 	rep.Grid.ShearMax, rep.Grid.Directions = g.ShearMax, g.Directions
 	rep.Grid.Shears = "none"
@@ -161,53 +227,97 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 		b := len(outsideRange(dr, m, F)) == 0
 		return &b
 	}
-	where := func(b *bool) string {
+	where := func(p *checkPoint) string {
 		switch {
-		case b == nil:
+		case p == nil || p.InsideData == nil:
 			return ""
-		case *b:
+		case *p.InsideData:
 			return " (inside the fitted data range)"
 		}
 		return " (outside the fitted data range)"
 	}
 	ws := sr.WorstStability
-	mf := ws.MinFull
 	rep.Stability.Criterion = stabilityCriterion
-	rep.Stability.Passed = sr.UnstablePoints == 0
+	rep.Stability.Passed = sr.UnstablePoints == 0 && sr.NoStiffness == 0
 	rep.Stability.FailingPoints = sr.UnstablePoints
-	rep.Stability.Worst = checkPoint{F: ws.F, Cauchy: ws.Cauchy, Value: ws.MinModuloRotation, MinFull: &mf, InsideData: inside(ws.F)}
+	rep.Stability.Worst, rep.Stability.WorstReason = worstPoint(ws, ws.MinModuloRotation, inside)
+	if rep.Stability.Worst != nil {
+		mf := card.Num(ws.MinFull)
+		rep.Stability.Worst.MinFull = &mf
+	}
 	rep.Stability.FullIndefinite, rep.Stability.FullIndefiniteTensile = sr.FullIndefinite, sr.FullIndefiniteTensile
 	rep.Stability.Unresolved = sr.Unresolved
-	if !rep.Stability.Passed {
+	rep.Stability.NoStiffnessPoints = sr.NoStiffness
+	if sr.NoStiffness > 0 {
+		f := sr.FirstNoStiffness
+		rep.Stability.FirstNoStiffness = &f
+		rep.NoStiffness = true
+		rep.Failures = append(rep.Failures, fmt.Sprintf("no stiffness at %d of %d grid points (first at F = %s): the in-plane tangent is zero there or has no resolvable positive stiffness, so an FE solve of such a state is singular; likely cause: %s",
+			sr.NoStiffness, sr.Evaluated, fmtF(f), stiffnessCause(m)))
+	}
+	if sr.UnstablePoints > 0 {
 		rep.Failures = append(rep.Failures, fmt.Sprintf("material stability fails at %d of %d grid points; worst at F = %s%s: "+
 			"smallest eigenvalue of the tangent modulo rigid rotation %.4g %s <= %.3g %s",
-			sr.UnstablePoints, sr.Evaluated, fmtF(ws.F), where(rep.Stability.Worst.InsideData), ws.MinModuloRotation, u, sr.Tolerance, u))
+			sr.UnstablePoints, sr.Evaluated, fmtF(ws.F), where(rep.Stability.Worst), ws.MinModuloRotation, u, sr.Tolerance, u))
 	}
 	we := sr.WorstEllipticity
 	a, b := we.EllipticityA, we.EllipticityB
 	rep.Ellipticity.Criterion = ellipticityCriterion
 	rep.Ellipticity.Passed = sr.NonEllipticPoints == 0
 	rep.Ellipticity.FailingPoints = sr.NonEllipticPoints
-	rep.Ellipticity.Worst = checkPoint{F: we.F, Cauchy: we.Cauchy, Value: we.MinEllipticity, A: &a, B: &b, InsideData: inside(we.F)}
-	if !rep.Ellipticity.Passed {
+	rep.Ellipticity.Worst, rep.Ellipticity.WorstReason = worstPoint(we, we.MinEllipticity, inside)
+	if rep.Ellipticity.Worst != nil {
+		rep.Ellipticity.Worst.A, rep.Ellipticity.Worst.B = &a, &b
+	}
+	if sr.NonEllipticPoints > 0 {
 		rep.Failures = append(rep.Failures, fmt.Sprintf("strong ellipticity fails at %d of %d grid points; worst at F = %s%s: "+
 			"(a x b):A:(a x b) = %.4g %s with a = (%.4f, %.4f), b = (%.4f, %.4f)",
-			sr.NonEllipticPoints, sr.Evaluated, fmtF(we.F), where(rep.Ellipticity.Worst.InsideData), we.MinEllipticity, u, a[0], a[1], b[0], b[1]))
+			sr.NonEllipticPoints, sr.Evaluated, fmtF(we.F), where(rep.Ellipticity.Worst), we.MinEllipticity, u, a[0], a[1], b[0], b[1]))
 	}
+}
 
-	// 5. Small-strain moduli.
-	if err := checkModuli(rep, m, names); err != nil {
-		return nil, cardErrorf("%s: %v", file, err)
+// stiffnessCause names the likely cause of missing stiffness.
+func stiffnessCause(m *aniso.Model) string {
+	if m.MatrixWeight() == 0 {
+		return "the card has no matrix term with a positive weight (no isotropic I1, I2 or principal-stretch term, no Fung-type term); its fibre terms carry load only while their family is stretched"
 	}
+	return "the matrix terms are too soft to be resolved next to the fibre terms"
+}
 
-	// 6. Data range.
-	if dr == nil {
-		rep.Notices = append(rep.Notices, noRangeNotice)
-	} else {
-		rep.Warnings = append(rep.Warnings, gridExtrapolation(dr, m, g, names)...)
+// checkAlternatives warns that the card's fibre layout is undetermined,
+// naming the alternatives, and scans each one that is not the card's own
+// model on the same grid: a failure of any of them fails the check, as an
+// FE analyst may choose it.
+func checkAlternatives(rep *CheckReport, alts []card.Alternative, g aniso.StabilityGrid) error {
+	if len(alts) == 0 {
+		return nil
 	}
-	rep.Passed = len(rep.Failures) == 0
-	return rep, nil
+	var parts []string
+	for _, a := range alts {
+		ca := checkAlternative{Name: a.Name, Title: a.Title, AsCard: a.AsCard, Passed: true}
+		t := a.Name + " (" + a.Title
+		if a.AsCard {
+			ca.Passed = rep.Stability.Passed && rep.Ellipticity.Passed
+			ca.UnstablePoints, ca.NonEllipticPoints, ca.NoStiffnessPoints = rep.Stability.FailingPoints, rep.Ellipticity.FailingPoints, rep.Stability.NoStiffnessPoints
+			t += ", as the card"
+		} else {
+			sr, err := a.Model.CheckStability(g)
+			if err != nil {
+				return fmt.Errorf("alternative %s: %v", a.Name, err)
+			}
+			ca.Passed = sr.Stable()
+			ca.UnstablePoints, ca.NonEllipticPoints, ca.NoStiffnessPoints = sr.UnstablePoints, sr.NonEllipticPoints, sr.NoStiffness
+			if !ca.Passed {
+				rep.Failures = append(rep.Failures, fmt.Sprintf("alternative %s (%s) fails on the grid: %d points unstable, %d not strongly elliptic, %d without stiffness",
+					a.Name, a.Title, sr.UnstablePoints, sr.NonEllipticPoints, sr.NoStiffness))
+			}
+		}
+		rep.Alternatives = append(rep.Alternatives, ca)
+		parts = append(parts, t+")")
+	}
+	rep.Warnings = append(rep.Warnings, "the data do not determine the fibre layout; these models fit them equally and differ wherever the sheet shears: "+
+		strings.Join(parts, "; ")+". The checks above are of the card's own model; each alternative was also scanned for stability and ellipticity (alternatives). Choose by independent knowledge of the fibre directions, or run every one (see the card's alternatives section)")
+	return nil
 }
 
 // checkPolyconvexity reports which terms keep the energy polyconvex, the
@@ -258,7 +368,7 @@ func checkModuli(rep *CheckReport, m *aniso.Model, names []string) error {
 	if err != nil {
 		return err
 	}
-	rep.Moduli.InitialShear, rep.Moduli.ShearPositive, rep.Moduli.ShearNegative = mod.InitialShear, mod.ShearPositive, mod.ShearNegative
+	rep.Moduli.InitialShear, rep.Moduli.ShearPositive, rep.Moduli.ShearNegative = card.Num(mod.InitialShear), card.Num(mod.ShearPositive), card.Num(mod.ShearNegative)
 	termNames := func(idx []int) []string {
 		out := []string{}
 		for _, i := range idx {
@@ -270,9 +380,27 @@ func checkModuli(rep *CheckReport, m *aniso.Model, names []string) error {
 		}
 		return out
 	}
+	// A zero (or undefined) modulus means no small-strain stiffness in
+	// that mode: an FE model at rest or slightly loaded that way is
+	// singular.
+	var zero []string
+	positive := func(v float64) bool { return v > 0 && !math.IsInf(v, 0) }
+	if !positive(mod.ShearPositive) || !positive(mod.ShearNegative) {
+		zero = append(zero, "in-plane shear")
+	}
 	for i, y := range mod.Young {
-		rep.Moduli.Young = append(rep.Moduli.Young, checkModulus{Direction: labels[i], AngleDeg: y.AngleDeg, Tension: y.Tension, Compression: y.Compression,
+		rep.Moduli.Young = append(rep.Moduli.Young, checkModulus{Direction: labels[i], AngleDeg: y.AngleDeg, Tension: card.Num(y.Tension), Compression: card.Num(y.Compression),
 			TensionTerms: termNames(y.TensionTerms), CompressionTerms: termNames(y.CompressionTerms)})
+		if !positive(y.Tension) {
+			zero = append(zero, "tension along "+labels[i])
+		}
+		if !positive(y.Compression) {
+			zero = append(zero, "compression along "+labels[i])
+		}
+	}
+	if len(zero) > 0 {
+		rep.NoStiffness = true
+		rep.Failures = append(rep.Failures, fmt.Sprintf("no small-strain stiffness at F = I in %s (modulus 0): likely cause: %s", strings.Join(zero, ", "), stiffnessCause(m)))
 	}
 	rep.Moduli.Note = "linearised plane-stress response at F = I in " + rep.StressUnit + ": uniaxial moduli for a small uniaxial stress along the direction " +
 		"with the other in-plane stresses zero; fibre and I5 terms engage only while their family stretches (I4 > 1) and cofactor terms " +
@@ -297,7 +425,9 @@ func gridExtrapolation(dr *card.DataRange, m *aniso.Model, g aniso.StabilityGrid
 	}
 	beyond("stretch 1 (F11)", g.StretchMin, g.StretchMax, dr.Stretch1)
 	beyond("stretch 2 (F22)", g.StretchMin, g.StretchMax, dr.Stretch2)
-	beyond("shear (F12, F21)", -g.ShearMax, g.ShearMax, dr.Shear)
+	f12, f21 := dr.ShearRanges()
+	beyond("shear F12", -g.ShearMax, g.ShearMax, f12)
+	beyond("shear F21", -g.ShearMax, g.ShearMax, f21)
 	if dr.HasFibreStretch(m) && len(m.Families) > 0 {
 		for i, span := range card.FibreStretchSpans(m, g.Points()) {
 			beyond("fibre stretch of "+names[i], span[0], span[1], dr.FibreStretch[i])
@@ -358,30 +488,42 @@ func PrintCheck(w io.Writer, r *CheckReport) {
 	fmt.Fprintf(w, "   Grid: lambda1, lambda2 in [%g, %g], %d per axis; shear: %s; %d points, %d evaluated; tolerance %.3g %s\n",
 		g.StretchMin, g.StretchMax, g.Steps, g.Shears, g.Points, g.Evaluated, g.Tolerance, u)
 	s := r.Stability
-	fmt.Fprintf(w, "3. Material stability             %s  %d failing points; smallest eigenvalue %.4g %s at F = %s\n",
-		passText(s.Passed), s.FailingPoints, s.Worst.Value, u, fmtF(s.Worst.F))
+	fmt.Fprintf(w, "3. Material stability             %s  %d failing points; %s\n", passText(s.Passed), s.FailingPoints, worstText(s.Worst, s.WorstReason, "smallest eigenvalue", u))
 	fmt.Fprintf(w, "     criterion: %s\n", s.Criterion)
+	if s.NoStiffnessPoints > 0 {
+		fmt.Fprintf(w, "     %d points WITHOUT STIFFNESS (first at F = %s): the tangent is zero there or has no resolvable positive stiffness\n", s.NoStiffnessPoints, fmtF(*s.FirstNoStiffness))
+	}
 	fmt.Fprintf(w, "     the full 4x4 tangent is indefinite at %d points (%d of them with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
 	if s.Unresolved > 0 {
 		fmt.Fprintf(w, "     %d points not resolved: an eigenvalue lies within %g of the tangent's largest entry of zero (round-off, where exponential terms make the tangent huge); they are neither passed nor failed\n", s.Unresolved, aniso.RelativeResolution)
 	}
 	e := r.Ellipticity
-	fmt.Fprintf(w, "4. Strong ellipticity             %s  %d failing points; smallest (a x b):A:(a x b) = %.4g %s at F = %s\n",
-		passText(e.Passed), e.FailingPoints, e.Worst.Value, u, fmtF(e.Worst.F))
+	fmt.Fprintf(w, "4. Strong ellipticity             %s  %d failing points; %s\n", passText(e.Passed), e.FailingPoints, worstText(e.Worst, e.WorstReason, "smallest (a x b):A:(a x b)", u))
 	fmt.Fprintf(w, "     criterion: %s\n", e.Criterion)
 	mo := r.Moduli
 	fmt.Fprintf(w, "5. Small-strain moduli [%s]      initial shear modulus mu0 = %.6g; in-plane shear modulus G12 = %.6g (positive shear), %.6g (negative)\n",
 		u, mo.InitialShear, mo.ShearPositive, mo.ShearNegative)
 	fmt.Fprintf(w, "     %-12s %10s %12s %14s  %s\n", "direction", "angle", "E tension", "E compression", "one-sided terms engaged (tension | compression)")
 	for _, y := range mo.Young {
-		fmt.Fprintf(w, "     %-12s %10.6g %12.6g %14.6g  %s | %s\n", y.Direction, y.AngleDeg, y.Tension, y.Compression, listOrDash(y.TensionTerms), listOrDash(y.CompressionTerms))
+		fmt.Fprintf(w, "     %-12s %10.6g %12.6g %14.6g  %s | %s\n", y.Direction, y.AngleDeg, float64(y.Tension), float64(y.Compression), listOrDash(y.TensionTerms), listOrDash(y.CompressionTerms))
 	}
 	fmt.Fprintf(w, "     %s\n", mo.Note)
 	if r.DataRange != nil {
 		d := r.DataRange
-		fmt.Fprintf(w, "6. Fitted data range              stretch 1 [%g, %g], stretch 2 [%g, %g], shear [%g, %g]\n", d.Stretch1[0], d.Stretch1[1], d.Stretch2[0], d.Stretch2[1], d.Shear[0], d.Shear[1])
+		f12, f21 := d.ShearRanges()
+		fmt.Fprintf(w, "6. Fitted data range              stretch 1 [%g, %g], stretch 2 [%g, %g], F12 [%g, %g], F21 [%g, %g]\n", d.Stretch1[0], d.Stretch1[1], d.Stretch2[0], d.Stretch2[1], f12[0], f12[1], f21[0], f21[1])
 	} else {
 		fmt.Fprintln(w, "6. Fitted data range              not in the card")
+	}
+	if len(r.Alternatives) > 0 {
+		fmt.Fprintln(w, "7. Alternatives (the data do not determine the fibre layout; each scanned on the grid)")
+		for _, a := range r.Alternatives {
+			card := ""
+			if a.AsCard {
+				card = ", the card's own model"
+			}
+			fmt.Fprintf(w, "     %-14s %s  %s%s: %d unstable, %d not elliptic, %d without stiffness\n", a.Name, passText(a.Passed), a.Title, card, a.UnstablePoints, a.NonEllipticPoints, a.NoStiffnessPoints)
+		}
 	}
 	for _, s := range r.Warnings {
 		fmt.Fprintln(w, "\nWARNING: "+s)
@@ -400,6 +542,14 @@ func PrintCheck(w io.Writer, r *CheckReport) {
 			fmt.Fprintln(w, "  - "+f)
 		}
 	}
+}
+
+// worstText describes a criterion's worst point, or why there is none.
+func worstText(p *checkPoint, reason, what, u string) string {
+	if p == nil {
+		return reason
+	}
+	return fmt.Sprintf("%s %.4g %s at F = %s", what, float64(p.Value), u, fmtF(p.F))
 }
 
 func listOrDash(s []string) string {

@@ -40,14 +40,32 @@ type Evaluation struct {
 	Cauchy     map[string]float64 `json:"cauchy"`
 	Nominal    map[string]float64 `json:"nominal"`
 	Tangent    struct {
-		Order   []string      `json:"order"`
-		Meaning string        `json:"meaning"`
-		Matrix  [4][4]float64 `json:"matrix"`
-		Unit    string        `json:"unit"`
+		Order   []string `json:"order"`
+		Meaning string   `json:"meaning"`
+		// Matrix entries that overflow are null, with a warning.
+		Matrix [4][4]card.Num `json:"matrix"`
+		Unit   string         `json:"unit"`
 	} `json:"tangent"`
-	Warnings []string `json:"warnings"`
-	Notices  []string `json:"notices"`
-	Cautions []string `json:"cautions"`
+	// Alternatives are the models the card's data cannot tell from its
+	// own, evaluated at the same F.
+	Alternatives []EvalAlternative `json:"alternatives,omitempty"`
+	Warnings     []string          `json:"warnings"`
+	Notices      []string          `json:"notices"`
+	Cautions     []string          `json:"cautions"`
+}
+
+// EvalAlternative is one alternative model at the deformation evaluated.
+type EvalAlternative struct {
+	// Name and Title name the alternative (as in the card's alternatives
+	// section); AsCard is true for the card's own model.
+	Name   string `json:"name"`
+	Title  string `json:"title"`
+	AsCard bool   `json:"as_card"`
+	// Energy is W per unit reference volume, Cauchy (11, 22, 12) and
+	// Nominal (11, 22, 12, 21) the stresses, all in the card's stress unit.
+	Energy  float64            `json:"energy"`
+	Cauchy  map[string]float64 `json:"cauchy"`
+	Nominal map[string]float64 `json:"nominal"`
 }
 
 // Evaluate computes everything evaluate reports.
@@ -75,8 +93,23 @@ func Evaluate(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *card.
 	}
 	res.Tangent.Order = TangentOrder
 	res.Tangent.Meaning = "matrix[i][j] = d nominal_i / d F_j with F33 = 1/det F eliminated (plane stress); symmetric"
-	res.Tangent.Matrix = tg.A
+	overflow := false
+	for i := range tg.A {
+		for j, v := range tg.A[i] {
+			res.Tangent.Matrix[i][j] = card.Num(v)
+			overflow = overflow || math.IsInf(v, 0) || math.IsNaN(v)
+		}
+	}
+	if overflow {
+		res.Warnings = append(res.Warnings, "some tangent entries overflow at this deformation and are given as null (not a number): the model is far beyond the range it was fitted in")
+	}
 	res.Tangent.Unit = c.StressUnit
+	if m.MatrixWeight() == 0 {
+		res.Warnings = append(res.Warnings, noMatrixWarning)
+	}
+	if err := evaluateAlternatives(res, file, c, m, F); err != nil {
+		return nil, err
+	}
 	if dr == nil {
 		res.Notices = append(res.Notices, noRangeNotice)
 	} else if out := outsideRange(dr, m, F); len(out) > 0 {
@@ -86,6 +119,31 @@ func Evaluate(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *card.
 }
 
 func joinSemi(s []string) string { return strings.Join(s, "; ") }
+
+// evaluateAlternatives evaluates the alternatives of the card at F and
+// warns, naming them.
+func evaluateAlternatives(res *Evaluation, file string, c *card.Card, m *aniso.Model, F [4]float64) error {
+	alts, err := c.AlternativeModels(m)
+	if err != nil {
+		return cardErrorf("%s: %v", file, err)
+	}
+	if len(alts) == 0 {
+		return nil
+	}
+	var models []ExportModel
+	for _, a := range alts {
+		r, err := a.Model.Evaluate(F)
+		if err != nil {
+			return cardErrorf("%s: alternative %s at F = %s: %v", file, a.Name, fmtF(F), err)
+		}
+		res.Alternatives = append(res.Alternatives, EvalAlternative{Name: a.Name, Title: a.Title, AsCard: a.AsCard, Energy: r.Energy,
+			Cauchy:  map[string]float64{"11": r.Cauchy[0], "22": r.Cauchy[1], "12": r.Cauchy[2]},
+			Nominal: map[string]float64{"11": r.Nominal[0], "22": r.Nominal[1], "12": r.Nominal[2], "21": r.Nominal[3]}})
+		models = append(models, ExportModel{Name: a.Name, Title: a.Title, AsCard: a.AsCard})
+	}
+	res.Warnings = append(res.Warnings, alternativesWarning(models))
+	return nil
+}
 
 // PrintEvaluation writes the evaluation r as text: F, the invariants, the
 // energy, the stresses and the tangent, then warnings, notices and the
@@ -108,7 +166,17 @@ func PrintEvaluation(w io.Writer, r *Evaluation) {
 	fmt.Fprintf(w, "Tangent dP/dF [%s], plane stress, F33 eliminated (symmetric):\n", u)
 	fmt.Fprintf(w, "  %-8s %16s %16s %16s %16s\n", "", "dF11", "dF12", "dF21", "dF22")
 	for i, row := range r.Tangent.Matrix {
-		fmt.Fprintf(w, "  %-8s %16.10g %16.10g %16.10g %16.10g\n", "dP"+TangentOrder[i], row[0], row[1], row[2], row[3])
+		fmt.Fprintf(w, "  %-8s %16.10g %16.10g %16.10g %16.10g\n", "dP"+TangentOrder[i], float64(row[0]), float64(row[1]), float64(row[2]), float64(row[3]))
+	}
+	if len(r.Alternatives) > 0 {
+		fmt.Fprintf(w, "\nAlternatives the data cannot tell apart, at this F [%s]:\n", u)
+		for _, a := range r.Alternatives {
+			card := ""
+			if a.AsCard {
+				card = " (the card)"
+			}
+			fmt.Fprintf(w, "  %-14s W = %.10g  sigma11 = %.10g  sigma22 = %.10g  sigma12 = %.10g  %s%s\n", a.Name, a.Energy, a.Cauchy["11"], a.Cauchy["22"], a.Cauchy["12"], a.Title, card)
+		}
 	}
 	for _, s := range r.Warnings {
 		fmt.Fprintln(w, "\nWARNING: "+s)

@@ -1,0 +1,255 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+)
+
+// Equivalent fibre layouts under pure biaxial stretch (package
+// documentation, Mirror symmetry).
+//
+// With F12 = F21 = 0 the in-plane C is diagonal, and every invariant of a
+// family at α (I4 = C11 cos²α + C22 sin²α, I5, K, and the arc of an
+// in-plane dispersed family, mirrored with its density) is unchanged when α
+// becomes −α. So each family's normal stresses are unchanged when its own
+// sign flips, and its shear stress changes sign; a family at α with weight
+// w and a mirror pair at ±α with w/2 each therefore give the same normal
+// stresses and, the pair, no shear stress. Data without shear information
+// cannot tell these layouts apart, but an FE model that lets the sheet
+// shear can: they are different materials.
+
+// MirrorAlternative is one complete model that pure biaxial stretch cannot
+// tell from another.
+type MirrorAlternative struct {
+	// Name identifies the alternative: "single-plus" and "single-minus"
+	// (one family at +|α| or −|α|), "mirror-pair" (families at ±|α| with
+	// half the weights each) or, for several families, the signs of each,
+	// e.g. "signs+-" for the first family at +|α1| and the second at −|α2|.
+	Name string
+	// Title says it in words, e.g. "one family at +30°".
+	Title string
+	// Model is the alternative model. Its families carry the original
+	// dispersion κ or in-plane concentration b.
+	Model *Model
+	// Same is true for the alternative that is the model it was derived
+	// from (up to the order of families and terms).
+	Same bool
+}
+
+// mirrorTolerance decides that two angles (radians) are equal, or that an
+// angle lies on an axis, where the sign makes no difference.
+const mirrorTolerance = 1e-9
+
+// selfMirror reports whether a family at alpha is its own mirror image (0° or
+// 90°).
+func selfMirror(alpha float64) bool { return math.Abs(math.Sin(2*alpha)) < mirrorTolerance }
+
+// MirrorAlternatives returns the models that no pure biaxial stretch can
+// tell from m, given which families' angle signs the data left
+// undetermined (signUnknown[f]; nil means none): nil when nothing is
+// undetermined (no such family, or each lies on an axis). For one family
+// they are the family at +|α|, at −|α| and the mirror pair ±|α| with half
+// of each weight; for a mirror pair (two families at ±α with the same
+// terms, weights and spread) the pair and one family at +|α| or −|α| with
+// twice each weight; otherwise every combination of signs of the
+// undetermined families (at most 3 of them; nil beyond), each of which
+// could also be a mirror pair.
+func MirrorAlternatives(m *Model, signUnknown []bool) []MirrorAlternative {
+	var free []int
+	for f, fam := range m.Families {
+		if f < len(signUnknown) && signUnknown[f] && !selfMirror(fam.Angle) {
+			free = append(free, f)
+		}
+	}
+	if len(free) == 0 {
+		return nil
+	}
+	switch {
+	case len(m.Families) == 1:
+		a := math.Abs(WrapDeg(Deg(m.Families[0].Angle)))
+		plus, minus := withAngle(m, 0, a), withAngle(m, 0, -a)
+		pair := splitPair(m, a)
+		return []MirrorAlternative{
+			{Name: "single-plus", Title: fmt.Sprintf("one family at +%s°", fmtDeg(a)), Model: plus, Same: sameModel(plus, m)},
+			{Name: "single-minus", Title: fmt.Sprintf("one family at −%s°", fmtDeg(a)), Model: minus, Same: sameModel(minus, m)},
+			{Name: "mirror-pair", Title: fmt.Sprintf("a mirror pair at ±%s° with half of each weight per family", fmtDeg(a)), Model: pair},
+		}
+	case len(m.Families) == 2 && len(free) == 2 && isMirrorPair(m):
+		a := math.Abs(WrapDeg(Deg(m.Families[0].Angle)))
+		plus, minus := mergePair(m, a), mergePair(m, -a)
+		return []MirrorAlternative{
+			{Name: "mirror-pair", Title: fmt.Sprintf("a mirror pair at ±%s° (as the card)", fmtDeg(a)), Model: m, Same: true},
+			{Name: "single-plus", Title: fmt.Sprintf("one family at +%s° with twice each weight", fmtDeg(a)), Model: plus},
+			{Name: "single-minus", Title: fmt.Sprintf("one family at −%s° with twice each weight", fmtDeg(a)), Model: minus},
+		}
+	case len(free) > 3:
+		return nil
+	}
+	var out []MirrorAlternative
+	for mask := 0; mask < 1<<len(free); mask++ {
+		alt := copyModel(m)
+		name := "signs"
+		var parts []string
+		for k, f := range free {
+			a := math.Abs(WrapDeg(Deg(m.Families[f].Angle)))
+			sign := "+"
+			if mask&(1<<(len(free)-1-k)) != 0 {
+				a, sign = -a, "-"
+			}
+			alt.Families[f].Angle = Rad(a)
+			name += sign
+			parts = append(parts, fmt.Sprintf("%s at %s%s°", familyLabel(m, f), strings.Replace(sign, "-", "−", 1), fmtDeg(math.Abs(a))))
+		}
+		dup := false
+		for _, o := range out {
+			dup = dup || sameModel(o.Model, alt)
+		}
+		if dup {
+			continue
+		}
+		out = append(out, MirrorAlternative{Name: name, Title: strings.Join(parts, ", "), Model: alt, Same: sameModel(alt, m)})
+	}
+	return out
+}
+
+// fmtDeg writes an angle in degrees with up to 6 significant digits.
+func fmtDeg(a float64) string { return fmt.Sprintf("%.6g", a) }
+
+// familyLabel is a family's name, or f1, f2, … when it has none.
+func familyLabel(m *Model, f int) string {
+	if n := m.Families[f].Name; n != "" {
+		return n
+	}
+	return fmt.Sprintf("f%d", f+1)
+}
+
+// copyModel copies a model deeply enough to change its families and
+// terms.
+func copyModel(m *Model) *Model {
+	c := &Model{Families: append([]Family(nil), m.Families...)}
+	for _, t := range m.Terms {
+		t.Params = append([]float64(nil), t.Params...)
+		c.Terms = append(c.Terms, t)
+	}
+	return c
+}
+
+// withAngle is m with family f at angleDeg degrees.
+func withAngle(m *Model, f int, angleDeg float64) *Model {
+	c := copyModel(m)
+	c.Families[f].Angle = Rad(angleDeg)
+	return c
+}
+
+// splitPair turns the one family of m into a mirror pair at ±aDeg, each
+// family with every term of the original at half its weight.
+func splitPair(m *Model, aDeg float64) *Model {
+	name := familyLabel(m, 0)
+	c := &Model{}
+	for k, sign := range []float64{1, -1} {
+		f := m.Families[0]
+		f.Name = name + []string{"_plus", "_minus"}[k]
+		f.Angle = Rad(sign * aDeg)
+		c.Families = append(c.Families, f)
+	}
+	for _, t := range m.Terms {
+		if t.Family < 0 {
+			c.Terms = append(c.Terms, Term{Shape: t.Shape, Family: -1, Weight: t.Weight, Params: append([]float64(nil), t.Params...)})
+		}
+	}
+	for k := 0; k < 2; k++ {
+		for _, t := range m.Terms {
+			if t.Family == 0 {
+				c.Terms = append(c.Terms, Term{Shape: t.Shape, Family: k, Weight: t.Weight / 2, Params: append([]float64(nil), t.Params...)})
+			}
+		}
+	}
+	return c
+}
+
+// isMirrorPair reports whether m's two families sit at ±α (symmetric about
+// axis 1, or equally about axis 2) with the same spread and the same
+// terms, weights and parameters, in the same order.
+func isMirrorPair(m *Model) bool {
+	f0, f1 := m.Families[0], m.Families[1]
+	if math.Abs(WrapDeg(Deg(f0.Angle+f1.Angle))) > mirrorTolerance || f0.Dispersion != f1.Dispersion ||
+		f0.Planar != f1.Planar || f0.Concentration != f1.Concentration {
+		return false
+	}
+	var t0, t1 []Term
+	for _, t := range m.Terms {
+		switch t.Family {
+		case 0:
+			t0 = append(t0, t)
+		case 1:
+			t1 = append(t1, t)
+		}
+	}
+	if len(t0) != len(t1) {
+		return false
+	}
+	for i := range t0 {
+		if t0[i].Shape != t1[i].Shape || t0[i].Weight != t1[i].Weight || !equalParams(t0[i].Params, t1[i].Params) {
+			return false
+		}
+	}
+	return true
+}
+
+func equalParams(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// mergePair turns the mirror pair of m into one family at aDeg carrying
+// the first family's terms at twice their weight.
+func mergePair(m *Model, aDeg float64) *Model {
+	f := m.Families[0]
+	f.Angle = Rad(aDeg)
+	c := &Model{Families: []Family{f}}
+	for _, t := range m.Terms {
+		switch t.Family {
+		case -1:
+			c.Terms = append(c.Terms, Term{Shape: t.Shape, Family: -1, Weight: t.Weight, Params: append([]float64(nil), t.Params...)})
+		case 0:
+			c.Terms = append(c.Terms, Term{Shape: t.Shape, Family: 0, Weight: 2 * t.Weight, Params: append([]float64(nil), t.Params...)})
+		}
+	}
+	return c
+}
+
+// sameModel reports whether a and b are the same material: the same
+// families (angles modulo 180°, spreads) carrying the same terms, in any
+// order of families.
+func sameModel(a, b *Model) bool { return modelKey(a) == modelKey(b) }
+
+// modelKey describes a model independently of the order of its families.
+func modelKey(m *Model) string {
+	termKey := func(t Term) string { return fmt.Sprintf("%s|%.17g|%v", t.Shape.ID, t.Weight, t.Params) }
+	var iso []string
+	fams := make([][]string, len(m.Families))
+	for _, t := range m.Terms {
+		if t.Family < 0 {
+			iso = append(iso, termKey(t))
+		} else {
+			fams[t.Family] = append(fams[t.Family], termKey(t))
+		}
+	}
+	sort.Strings(iso)
+	var famKeys []string
+	for f, fam := range m.Families {
+		sort.Strings(fams[f])
+		famKeys = append(famKeys, fmt.Sprintf("%.9f|%g|%v|%g|%s", WrapDeg(Deg(fam.Angle)), fam.Dispersion, fam.Planar, fam.Concentration, strings.Join(fams[f], ";")))
+	}
+	sort.Strings(famKeys)
+	return strings.Join(iso, ";") + "#" + strings.Join(famKeys, "#")
+}

@@ -1,0 +1,99 @@
+package aniso
+
+import (
+	"math"
+	"testing"
+
+	"github.com/weft-tools/weft/terms"
+)
+
+// Mirror symmetry (package documentation; common practice since Holzapfel,
+// Gasser & Ogden 2000): under every pure biaxial stretch each alternative
+// gives the normal stresses and the energy of the model it was derived
+// from, while simple shear tells them apart. Checked for one ideal family,
+// one with the dispersion κ, one spread in the plane (its concentration
+// carries over), the mirror pair of Holzapfel, Gasser & Ogden 2000 (from
+// memory) and two free families.
+func TestMirrorAlternatives(t *testing.T) {
+	iso := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2}
+	fib := func(f int, w float64) []Term {
+		return []Term{{Shape: terms.Lookup("fib-expsq"), Family: f, Weight: w, Params: []float64{3}},
+			{Shape: terms.Lookup("cof-quad"), Family: f, Weight: w / 4}}
+	}
+	planarFib := Term{Shape: terms.Lookup("fib-recruit"), Family: 0, Weight: 20, Params: []float64{1.02, 0.1}}
+	cases := []struct {
+		name  string
+		m     *Model
+		names []string
+	}{
+		{"single", &Model{Families: []Family{{Name: "f1", Angle: -25 * deg}}, Terms: append([]Term{iso}, fib(0, 8)...)}, []string{"single-plus", "single-minus", "mirror-pair"}},
+		{"kappa", &Model{Families: []Family{{Name: "f1", Angle: 40 * deg, Dispersion: 0.1}}, Terms: append([]Term{iso}, fib(0, 8)...)}, []string{"single-plus", "single-minus", "mirror-pair"}},
+		{"planar", &Model{Families: []Family{{Name: "f1", Angle: 35 * deg, Planar: true, Concentration: 4}}, Terms: []Term{iso, planarFib}}, []string{"single-plus", "single-minus", "mirror-pair"}},
+		{"hgo", hgoMedia(), []string{"mirror-pair", "single-plus", "single-minus"}},
+		{"free", &Model{Families: []Family{{Angle: 20 * deg}, {Angle: 75 * deg}}, Terms: append(append([]Term{iso}, fib(0, 8)...), fib(1, 3)...)}, []string{"signs++", "signs+-", "signs-+", "signs--"}},
+	}
+	for _, c := range cases {
+		alts := MirrorAlternatives(c.m, []bool{true, true})
+		if len(alts) != len(c.names) {
+			t.Fatalf("%s: %d alternatives", c.name, len(alts))
+		}
+		same := 0
+		for i, a := range alts {
+			if a.Name != c.names[i] {
+				t.Errorf("%s: alternative %d is %q, want %q", c.name, i, a.Name, c.names[i])
+			}
+			if a.Same {
+				same++
+			}
+			if err := a.Model.Validate(); err != nil {
+				t.Fatal(err)
+			}
+			for _, f := range a.Model.Families {
+				if f.Dispersion != c.m.Families[0].Dispersion || f.Planar != c.m.Families[0].Planar || f.Concentration != c.m.Families[0].Concentration {
+					t.Errorf("%s %s: spread not carried over: %+v", c.name, a.Name, f)
+				}
+			}
+			for _, l1 := range []float64{0.9, 1, 1.12, 1.3} {
+				for _, l2 := range []float64{0.85, 1.05, 1.2} {
+					F := [4]float64{l1, 0, 0, l2}
+					r0, err0 := c.m.Evaluate(F)
+					r, err := a.Model.Evaluate(F)
+					if err0 != nil || err != nil {
+						t.Fatal(err0, err)
+					}
+					scale := 1 + math.Abs(r0.Cauchy[0]) + math.Abs(r0.Cauchy[1])
+					if math.Abs(r.Cauchy[0]-r0.Cauchy[0]) > 1e-12*scale || math.Abs(r.Cauchy[1]-r0.Cauchy[1]) > 1e-12*scale ||
+						math.Abs(r.Energy-r0.Energy) > 1e-12*(1+r0.Energy) {
+						t.Errorf("%s %s at λ = (%g, %g): σ = %v, W = %g; the model: σ = %v, W = %g", c.name, a.Name, l1, l2, r.Cauchy, r.Energy, r0.Cauchy, r0.Energy)
+					}
+					if a.Name == "mirror-pair" && math.Abs(r.Cauchy[2]) > 1e-12*scale {
+						t.Errorf("%s: the mirror pair shears under a pure stretch: σ12 = %g", c.name, r.Cauchy[2])
+					}
+				}
+			}
+		}
+		if same != 1 {
+			t.Errorf("%s: %d alternatives are the model itself", c.name, same)
+		}
+		// Simple shear along axis 1 tells them apart.
+		seen := map[float64]bool{}
+		for _, a := range alts {
+			r, err := a.Model.Evaluate([4]float64{1, 0.2, 0, 1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			seen[math.Round(r.Cauchy[2]*1e9)] = true
+		}
+		if len(seen) != len(alts) {
+			t.Errorf("%s: simple shear gives %d distinct shear stresses for %d alternatives", c.name, len(seen), len(alts))
+		}
+	}
+	// Known signs, or a family on an axis, leave nothing undetermined.
+	if a := MirrorAlternatives(hgoMedia(), []bool{false, false}); a != nil {
+		t.Errorf("known signs: %v", a)
+	}
+	onAxis := &Model{Families: []Family{{Angle: math.Pi / 2}}, Terms: fib(0, 1)}
+	if a := MirrorAlternatives(onAxis, []bool{true}); a != nil {
+		t.Errorf("family on axis 2: %v", a)
+	}
+}

@@ -1,0 +1,76 @@
+package fe
+
+import (
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
+)
+
+// ThreeDBlock says how to use a card in a three-dimensional code with a
+// volumetric–isochoric split (nearly incompressible), with the card's
+// numbers.
+type ThreeDBlock struct {
+	// Lines are the block in words and formulas.
+	Lines []string `json:"lines"`
+	// MatrixTerms and FibreTerms list the card's terms by which
+	// invariants they take: the isochoric ones (matrix) or those of the
+	// full C (fibre families and the Fung-type term).
+	MatrixTerms []string `json:"isochoric_terms"`
+	FibreTerms  []string `json:"full_invariant_terms"`
+	// SuggestedBulkModulus is 1e3 × the sum of the weights (stress unit),
+	// the smallest bulk modulus with which the tests find the membrane
+	// stresses of the verification table within 1e-3.
+	SuggestedBulkModulus float64 `json:"suggested_bulk_modulus"`
+}
+
+// BulkModulusFactor is the suggested bulk modulus as a multiple of the sum
+// of a card's weights.
+const BulkModulusFactor = 1e3
+
+// threeDBlock writes the block for model m with weights in unit.
+func threeDBlock(m *aniso.Model, unit string) ThreeDBlock {
+	b := ThreeDBlock{MatrixTerms: []string{}, FibreTerms: []string{}}
+	sum := 0.0
+	names := familyNames(m)
+	for i, t := range m.Terms {
+		sum += t.Weight
+		label := fmt.Sprintf("%d:%s", i+1, t.Shape.ID)
+		if t.Family >= 0 {
+			label += "@" + names[t.Family]
+		}
+		switch t.Shape.Arg {
+		case terms.I1, terms.I2, terms.Principal:
+			b.MatrixTerms = append(b.MatrixTerms, label)
+		default:
+			b.FibreTerms = append(b.FibreTerms, label)
+		}
+	}
+	b.SuggestedBulkModulus = BulkModulusFactor * sum
+	list := func(s []string) string {
+		if len(s) == 0 {
+			return "none in this card"
+		}
+		return strings.Join(s, ", ")
+	}
+	b.Lines = []string{
+		"The card's energy Psi is that of an incompressible material (J = det F = 1, the plane-stress membrane eliminates F33 = 1/det F2). A mixed u-p code uses it as written, with a pressure p enforcing J = 1 (Psi - p (J - 1)).",
+		"A code with a volumetric-isochoric split (nearly incompressible) uses Psi(F) = Psi_matrix(Ibar1, Ibar2, lambdabar_i) + Psi_fibres(C) + U(J), with J = det F, Ibar1 = J^(-2/3) I1, Ibar2 = J^(-4/3) I2, lambdabar_i = J^(-1/3) lambda_i and I1, I2 = (I1^2 - tr C^2)/2 of the full C = F^T F.",
+		"Isochoric (matrix) terms: every I1, I2 and principal-stretch term, with its argument written in Ibar1, Ibar2 or lambdabar_i: " + list(b.MatrixTerms) + ".",
+		"Terms in the invariants of the full C: every fibre, cofactor and I5 term, the dispersion kappa (E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1) = H:C - 1 with H = kappa 1 + (1 - 3 kappa) a0 (x) a0), in-plane dispersion (I4(theta) = a0(theta).C a0(theta)), K = a0.cof(C) a0 = I5 - I1 I4 + I2 (true for any J) and the Fung-type term (the in-plane Green strain E = (C - 1)/2 in the tester's axes, which does not depend on J), with the switches as in the card (I4 > 1, K > 1): " + list(b.FibreTerms) + ".",
+		fmt.Sprintf("U(J) = (kappa_b/2)(J - 1)^2 with a bulk modulus kappa_b of your choice; U(1) = U'(1) = 0 and every other term is stress-free at F = I, so the reference stays stress-free. kappa_b = %g x the sum of the weights = %.6g %s keeps the membrane stresses of the verification table within 1e-3 of the card's (tested); a larger kappa_b comes closer to the incompressible card but stiffens the equations (common practice: kappa_b of 1e3 to 1e4 times the shear modulus, or a mixed u-p formulation).", BulkModulusFactor, b.SuggestedBulkModulus, unit),
+		"Why the fibre terms keep the full invariants: with a finite bulk modulus, fibre terms in the isochoric Ibar4 = J^(-2/3) I4 cannot resist a change of volume along the fibres, so an anisotropic body under hydrostatic pressure deforms as if it were isotropic (Sansour 2008, Eur J Mech A/Solids 27:28-39; from memory). Both forms approach the incompressible card as kappa_b grows.",
+		"Planar biaxial data do not constrain the out-of-plane or volumetric response (Holzapfel & Ogden 2009): the bulk modulus, and any out-of-plane behaviour of the terms, are assumptions of the FE model, not results of the fit.",
+	}
+	return b
+}
+
+// writeThreeD writes the block as indented text under a heading.
+func writeThreeD(w io.Writer, b *ThreeDBlock, indent string) {
+	fmt.Fprintln(w, indent+"THREE-DIMENSIONAL AND NEARLY INCOMPRESSIBLE USE")
+	for _, l := range b.Lines {
+		fmt.Fprintln(w, indent+"  - "+l)
+	}
+}

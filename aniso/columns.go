@@ -186,22 +186,18 @@ func (c *Columns) resize(rows, cols, nparams int, derivs bool) {
 	}
 }
 
-// Fill computes the columns of every term of m (weights are ignored) over the
-// dataset, and their derivatives when derivs is true. It reuses c's buffers
-// and does not allocate once they are large enough. Columns of terms whose
-// shape overflows hold ±Inf in the components they drive, never NaN, and
-// their derivative columns are zero.
-func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
-	rows, nc, np, nf := d.Rows(), len(d.out.Components), len(d.kin), len(m.Families)
-	c.resize(rows, len(m.Terms), maxShapeParams(m), derivs)
+// familyBases brings the fibre kinematics and stress bases of every ideal
+// family at every point up to date in c (c.fk, c.fb, indexed point × family)
+// and returns the kinematics. A family whose angle has not moved since the
+// last fill of these columns on this dataset keeps them (a profile
+// re-optimises everything but the angle).
+func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinematics {
+	nc, np, nf := len(d.out.Components), len(d.kin), len(m.Families)
 	if cap(c.fk) < np*nf {
 		c.fk = make([]FibreKinematics, np*nf)
 		c.fb = make([]famBases, np*nf)
 	}
 	fk, fb := c.fk[:np*nf], c.fb[:np*nf]
-	// A family whose angle has not moved since the last fill of these
-	// columns on this dataset keeps its kinematics and bases (a profile
-	// re-optimises everything but the angle).
 	fresh := c.famData != d || c.famFamilies != nf
 	if fresh {
 		c.famData, c.famFamilies = d, nf
@@ -245,6 +241,18 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			}
 		}
 	}
+	return fk
+}
+
+// Fill computes the columns of every term of m (weights are ignored) over the
+// dataset, and their derivatives when derivs is true. It reuses c's buffers
+// and does not allocate once they are large enough. Columns of terms whose
+// shape overflows hold ±Inf in the components they drive, never NaN, and
+// their derivative columns are zero.
+func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
+	rows, nc, nf := d.Rows(), len(d.out.Components), len(m.Families)
+	c.resize(rows, len(m.Terms), maxShapeParams(m), derivs)
+	fk := d.familyBases(m, c, derivs)
 	for f := range m.Families {
 		if m.Families[f].Planar {
 			d.fillPlanar(m, f, c, derivs)
@@ -285,7 +293,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 				}
 				continue
 			}
-			b1, b2, bases := d.b1[r0:r0+nc], d.b2[r0:r0+nc], &fb[q]
+			b1, b2, bases := d.b1[r0:r0+nc], d.b2[r0:r0+nc], &c.fb[q]
 			var h [4]float64
 			for j := range a {
 				h[j] = s.C[0]*b1[j] + s.C[1]*b2[j] + s.C[2]*bases.g4[j] + s.C[3]*bases.g5[j]

@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/weft-tools/weft/biaxial"
@@ -206,7 +207,7 @@ func withoutDegenerate(p *Problem, r *Result, set Settings) *Result {
 func (r *Result) groupContributions(p *Problem) (func(g, row int) float64, bool) {
 	e := r.e
 	if e != nil && e.p == p {
-		if !equalFloats(e.at, r.theta) {
+		if !slices.Equal(e.at, r.theta) {
 			e.eval(r.theta, false)
 		}
 		rows := e.rows
@@ -229,16 +230,4 @@ func (r *Result) groupContributions(p *Problem) (func(g, row int) float64, bool)
 		}
 		return s
 	}, true
-}
-
-func equalFloats(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
 }

@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 )
 
@@ -216,16 +217,7 @@ func mirrorLike(m *Model) bool {
 		}
 		return ks
 	}
-	a, b := key(0), key(1)
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
-			return false
-		}
-	}
-	return true
+	return slices.Equal(key(0), key(1))
 }
 
 // singleOf is a mirror-pair model m as one family at a carrying the pair's

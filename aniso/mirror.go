@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 )
@@ -191,19 +192,7 @@ func isMirrorPair(m *Model) bool {
 		return false
 	}
 	for i := range t0 {
-		if t0[i].Shape != t1[i].Shape || t0[i].Weight != t1[i].Weight || !equalParams(t0[i].Params, t1[i].Params) {
-			return false
-		}
-	}
-	return true
-}
-
-func equalParams(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] {
+		if t0[i].Shape != t1[i].Shape || t0[i].Weight != t1[i].Weight || !slices.Equal(t0[i].Params, t1[i].Params) {
 			return false
 		}
 	}

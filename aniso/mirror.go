@@ -81,7 +81,7 @@ func MirrorAlternatives(m *Model, signUnknown []bool) []MirrorAlternative {
 		a := math.Abs(WrapDeg(Deg(m.Families[0].Angle)))
 		plus, minus := mergePair(m, a), mergePair(m, -a)
 		return []MirrorAlternative{
-			{Name: "mirror-pair", Title: fmt.Sprintf("a mirror pair at ±%s° (as the card)", fmtDeg(a)), Model: m, Same: true},
+			{Name: "mirror-pair", Title: fmt.Sprintf("a mirror pair at ±%s°", fmtDeg(a)), Model: m, Same: true},
 			{Name: "single-plus", Title: fmt.Sprintf("one family at +%s° with twice each weight", fmtDeg(a)), Model: plus},
 			{Name: "single-minus", Title: fmt.Sprintf("one family at −%s° with twice each weight", fmtDeg(a)), Model: minus},
 		}

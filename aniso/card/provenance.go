@@ -29,10 +29,11 @@ type Provenance struct {
 	Version  string `json:"version"`
 	Revision string `json:"revision,omitempty"`
 	Modified bool   `json:"modified,omitempty"`
-	// Command is the command that wrote the card, e.g. "weft fit".
+	// Command names the program and sub-command that wrote the card, as
+	// the writer records it.
 	Command string `json:"command"`
-	// Options are every option that decides the result, defaults included,
-	// as they would be typed ("--cycle=last").
+	// Options are every option that decides the result, defaults
+	// included, spelled as the writer's command line takes them.
 	Options []string `json:"options"`
 	// Inputs are the files read.
 	Inputs []InputFile `json:"inputs"`
@@ -50,7 +51,7 @@ type InputFile struct {
 	SHA256 string `json:"sha256"`
 }
 
-// VersionText writes the version as weft --version prints it: the
+// VersionText is the version as one line of text: the
 // version, then the revision (shortened to 12 hexadecimal digits) and
 // "modified" when known.
 func (p *Provenance) VersionText() string {

@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"fmt"
 	"math"
 	"testing"
 
@@ -48,22 +49,7 @@ func TestColumnDerivativesFiniteDifference(t *testing.T) {
 		var c Columns
 		d.Fill(m, &c, true)
 		check := func(name string, analytic []float64, perturb func(m *Model, h float64), h float64) {
-			var cp, cm Columns
-			mp, mm := cloneModel(m), cloneModel(m)
-			perturb(mp, h)
-			perturb(mm, -h)
-			d.Fill(mp, &cp, false)
-			d.Fill(mm, &cm, false)
-			for k := 0; k < c.Cols; k++ {
-				for r := 0; r < c.Rows; r++ {
-					fd := (cp.A[k*c.Rows+r] - cm.A[k*c.Rows+r]) / (2 * h)
-					an := analytic[k*c.Rows+r]
-					if math.Abs(fd-an) > 1e-6*math.Max(1, math.Abs(an)) {
-						t.Errorf("nominal=%v %s, term %s row %d: analytic %.10g, finite difference %.10g", nominal, name, m.Terms[k].Shape.ID, r, an, fd)
-						return
-					}
-				}
-			}
+			checkColumnsFD(t, d, m, &c, fmt.Sprintf("nominal=%v", nominal), name, analytic, perturb, h)
 		}
 		for f := range m.Families {
 			f := f
@@ -191,5 +177,28 @@ func BenchmarkFillColumnsDerivs(b *testing.B) {
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		d.Fill(m, &c, true)
+	}
+}
+
+// checkColumnsFD compares analytic column derivatives (analytic, laid out
+// like c.A) with central finite differences of the columns of m filled on
+// d, the model moved by perturb(±h).
+func checkColumnsFD(t *testing.T, d *Dataset, m *Model, c *Columns, label, name string, analytic []float64, perturb func(m *Model, h float64), h float64) {
+	t.Helper()
+	var cp, cm Columns
+	mp, mm := cloneModel(m), cloneModel(m)
+	perturb(mp, h)
+	perturb(mm, -h)
+	d.Fill(mp, &cp, false)
+	d.Fill(mm, &cm, false)
+	for k := 0; k < c.Cols; k++ {
+		for r := 0; r < c.Rows; r++ {
+			fd := (cp.A[k*c.Rows+r] - cm.A[k*c.Rows+r]) / (2 * h)
+			an := analytic[k*c.Rows+r]
+			if math.Abs(fd-an) > 1e-6*math.Max(1, math.Abs(an)) {
+				t.Errorf("%s %s, term %s row %d: analytic %.10g, finite difference %.10g", label, name, m.Terms[k].Shape.ID, r, an, fd)
+				return
+			}
+		}
 	}
 }

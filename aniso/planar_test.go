@@ -316,22 +316,7 @@ func TestPlanarColumnDerivatives(t *testing.T) {
 		var c Columns
 		d.Fill(m, &c, true)
 		check := func(name string, analytic []float64, perturb func(m *Model, h float64), h float64) {
-			var cp, cm Columns
-			mp, mm := cloneModel(m), cloneModel(m)
-			perturb(mp, h)
-			perturb(mm, -h)
-			d.Fill(mp, &cp, false)
-			d.Fill(mm, &cm, false)
-			for k := 0; k < c.Cols; k++ {
-				for r := 0; r < c.Rows; r++ {
-					fd := (cp.A[k*c.Rows+r] - cm.A[k*c.Rows+r]) / (2 * h)
-					an := analytic[k*c.Rows+r]
-					if math.Abs(fd-an) > 1e-6*math.Max(1, math.Abs(an)) {
-						t.Errorf("nominal=%v %s, term %d row %d: analytic %.10g, finite difference %.10g", nominal, name, k, r, an, fd)
-						return
-					}
-				}
-			}
+			checkColumnsFD(t, d, m, &c, fmt.Sprintf("nominal=%v", nominal), name, analytic, perturb, h)
 		}
 		check("angle", maskFamily(m, &c, c.DAngle, 0), func(m *Model, h float64) { m.Families[0].Angle += h }, 1e-6)
 		check("concentration", maskFamily(m, &c, c.DKappa, 0), func(m *Model, h float64) { m.Families[0].Concentration += h }, 1e-6)

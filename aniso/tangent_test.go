@@ -107,19 +107,10 @@ func TestTangentFiniteDifference(t *testing.T) {
 					amax = math.Max(amax, math.Abs(tg.A[i][j]))
 				}
 			}
-			const h = 1e-6
+			fdA := fdTangent(t, m, F, 1e-6)
 			for j := 0; j < 4; j++ {
-				Fp, Fm := F, F
-				Fp[j] += h
-				Fm[j] -= h
-				rp, err1 := m.Evaluate(Fp)
-				rm, err2 := m.Evaluate(Fm)
-				if err1 != nil || err2 != nil {
-					t.Fatal(err1, err2)
-				}
-				pp, pm := NominalFOrder(rp.Nominal), NominalFOrder(rm.Nominal)
 				for i := 0; i < 4; i++ {
-					fd := (pp[i] - pm[i]) / (2 * h)
+					fd := fdA[i][j]
 					if math.Abs(fd-tg.A[i][j]) > 1e-6*math.Max(1, amax) {
 						t.Errorf("%s (κ=%v) at F=%v: A[%d][%d] = %.10g, finite difference %.10g", id, famKappa(m), F, i, j, tg.A[i][j], fd)
 					}
@@ -171,16 +162,10 @@ func TestTangentWholeModels(t *testing.T) {
 					}
 				}
 			}
-			const h = 1e-6
+			fdA := fdTangent(t, m, F, 1e-6)
 			for j := 0; j < 4; j++ {
-				Fp, Fm := F, F
-				Fp[j] += h
-				Fm[j] -= h
-				rp, _ := m.Evaluate(Fp)
-				rm, _ := m.Evaluate(Fm)
-				pp, pm := NominalFOrder(rp.Nominal), NominalFOrder(rm.Nominal)
 				for i := 0; i < 4; i++ {
-					fd := (pp[i] - pm[i]) / (2 * h)
+					fd := fdA[i][j]
 					if math.Abs(fd-tg.A[i][j]) > 1e-6*math.Max(1, amax) {
 						t.Errorf("model %d at %v: A[%d][%d] = %.10g, finite difference %.10g", mi, F, i, j, tg.A[i][j], fd)
 					}
@@ -227,4 +212,26 @@ func BenchmarkTangent(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// fdTangent is the central finite difference of m's nominal stress with
+// respect to F at F (both in the order 11, 12, 21, 22), step h:
+// A[i][j] ≈ ∂P_i/∂F_j. An evaluation error fails the test.
+func fdTangent(t *testing.T, m *Model, F [4]float64, h float64) (A [4][4]float64) {
+	t.Helper()
+	for j := 0; j < 4; j++ {
+		Fp, Fm := F, F
+		Fp[j] += h
+		Fm[j] -= h
+		rp, err1 := m.Evaluate(Fp)
+		rm, err2 := m.Evaluate(Fm)
+		if err1 != nil || err2 != nil {
+			t.Fatalf("F=%v: %v %v", F, err1, err2)
+		}
+		pp, pm := NominalFOrder(rp.Nominal), NominalFOrder(rm.Nominal)
+		for i := 0; i < 4; i++ {
+			A[i][j] = (pp[i] - pm[i]) / (2 * h)
+		}
+	}
+	return A
 }

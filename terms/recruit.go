@@ -208,29 +208,13 @@ func recruitSlope(x float64, p []float64) float64 {
 // in the toe ∂f_λ/∂λa = −v/(λa u) and ∂f_λ/∂Δ = −f_λ/Δ; beyond
 // ∂f_λ/∂λa = −λ/(λa λb) and ∂f_λ/∂Δ = −λ S2(u)/(λa λb) (Leibniz's rule on
 // the integral over the straightening stretches; no division by Δ).
-func recruitGrad(x float64, p []float64) (g [MaxParams]float64) {
-	s := locate(x, p)
-	if s.zone == 0 || math.IsInf(s.lam, 1) {
-		return g
-	}
-	a, l := s.a, s.lam
-	u := s.d / a
-	if s.zone == 1 {
-		v := s.diff / a
-		_, s2 := recruitSums12(v)
-		g[0] = -v / (a * u) / (2 * l)
-		g[1] = -v * v * s2 / (a * u * u) / (2 * l)
-		return g
-	}
-	_, s2 := recruitSums12(u)
-	ab2 := 2 * a * (a + s.d)
-	g[0] = -1 / ab2
-	g[1] = -s2 / ab2
+func recruitGrad(x float64, p []float64) [MaxParams]float64 {
+	_, g := recruitBoth(x, p)
 	return g
 }
 
 // recruitBoth is recruitSlope and recruitGrad from one location and one
-// series evaluation.
+// series evaluation (the gradient is zero where the slope is +Inf).
 func recruitBoth(x float64, p []float64) (float64, [MaxParams]float64) {
 	var g [MaxParams]float64
 	s := locate(x, p)

@@ -28,6 +28,13 @@ func (r *Result) profiles(p *Problem, set Settings) {
 			idx = append(idx, i)
 		}
 	}
+	// Many rows: every profile is guided by the search subset, built once.
+	var guideOn *Problem
+	if p.Rows() > profileGuideRows {
+		if ps, err := searchSubset(p, DefaultSearchPoints); err == nil && ps != p {
+			guideOn = ps
+		}
+	}
 	out := make([]AngleProfile, len(idx))
 	jobs := make([]func(), len(idx))
 	for j, i := range idx {
@@ -41,7 +48,7 @@ func (r *Result) profiles(p *Problem, set Settings) {
 				pe.cols.Search = true
 				pe.lossOffset = pe.eval(r.theta, false) - r.Loss
 			}
-			out[j] = r.profileOne(pe, p, i, set, fq)
+			out[j] = r.profileOne(pe, p, guideOn, i, set, fq)
 		}
 	}
 	(&pool{n: len(jobs)}).run(jobs)
@@ -282,21 +289,17 @@ func (pf *profiler) sweep(grid []float64, c int, fitLoss float64, fitTheta []flo
 // full sweep is cheap.
 var profileGuideRows = 8 * 2 * 5 * DefaultSearchPoints
 
-// profileGuide returns, for a problem of more than profileGuideRows rows,
-// every grid angle's other parameters minimised on the subset discovery
-// searches (evenly in each protocol's driving stretch, DefaultSearchPoints
-// a protocol): starting points close to the full data's, found at a
-// fraction of the cost. It returns nil for smaller problems.
+// profileGuide returns, on ps (the subset discovery searches: evenly in
+// each protocol's driving stretch, DefaultSearchPoints a protocol), every
+// grid angle's other parameters minimised: starting points close to the
+// full data's, found at a fraction of the cost. It returns nil when ps is
+// nil (a problem of at most profileGuideRows rows).
 //
 // The subset's own optimum lies off the full data's by about its own
 // standard error, several times the full data's interval, so the subset's
 // profile is never used as the profile: only its parameters, as starts.
-func (r *Result) profileGuide(p *Problem, i int, grid []float64, c int, theta []float64, wraps bool) [][]float64 {
-	if p.Rows() <= profileGuideRows {
-		return nil
-	}
-	ps, err := searchSubset(p, DefaultSearchPoints)
-	if err != nil || ps == p {
+func (r *Result) profileGuide(ps *Problem, i int, grid []float64, c int, theta []float64, wraps bool) [][]float64 {
+	if ps == nil {
 		return nil
 	}
 	e := r.e
@@ -370,7 +373,7 @@ func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
 }
 
 // profileOne profiles angle parameter i on engine pe.
-func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq float64) AngleProfile {
+func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings, fq float64) AngleProfile {
 	step := Rad(set.ProfileStepDeg)
 	q := pe.params[i]
 	n, k := r.Rows, r.FreeParams
@@ -396,7 +399,7 @@ func (r *Result) profileOne(pe *engine, p *Problem, i int, set Settings, fq floa
 	pf := newProfiler(r, p, pe, i, set)
 	var loss []float64
 	var thetas [][]float64
-	if guide := r.profileGuide(p, i, grid, c, theta, wraps); guide != nil {
+	if guide := r.profileGuide(guideOn, i, grid, c, theta, wraps); guide != nil {
 		loss, thetas = pf.guided(grid, c, r.Loss, theta, guide, fq/float64(n-k))
 	} else {
 		loss, thetas = pf.sweep(grid, c, r.Loss, theta, wraps)

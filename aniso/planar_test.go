@@ -5,12 +5,59 @@ import (
 	"math"
 	"os"
 	"sort"
+	"sync"
 	"testing"
 
 	"gonum.org/v1/gonum/integrate/quad"
 
 	"github.com/weft-tools/weft/terms"
 )
+
+// legendreNodes caches gonum's n-point Gauss–Legendre nodes and weights on
+// [−1, 1]: computing them costs O(n²), and the brute-force references ask
+// for the same few orders thousands of times.
+var legendreNodes = struct {
+	sync.Mutex
+	m map[int][2][]float64
+}{m: map[int][2][]float64{}}
+
+// legendreRule returns gonum's n-point Gauss–Legendre nodes and weights on
+// [−1, 1], cached.
+func legendreRule(n int) [2][]float64 {
+	legendreNodes.Lock()
+	defer legendreNodes.Unlock()
+	xw, ok := legendreNodes.m[n]
+	if !ok {
+		xw = [2][]float64{make([]float64, n), make([]float64, n)}
+		quad.Legendre{}.FixedLocations(xw[0], xw[1], -1, 1)
+		legendreNodes.m[n] = xw
+	}
+	return xw
+}
+
+// legendreFixed integrates f over [a, c] with the n-point Gauss–Legendre
+// rule of gonum's quad.Legendre, as quad.Fixed does, with cached nodes.
+func legendreFixed(f func(float64) float64, a, c float64, n int) float64 {
+	v := legendreFixed4(func(x float64) [4]float64 { return [4]float64{f(x)} }, a, c, n)
+	return v[0]
+}
+
+// legendreFixed4 is legendreFixed for four integrands sharing their nodes.
+func legendreFixed4(f func(float64) [4]float64, a, c float64, n int) [4]float64 {
+	xw := legendreRule(n)
+	half, mid := (c-a)/2, (a+c)/2
+	var s [4]float64
+	for i, x := range xw[0] {
+		v := f(mid + half*x)
+		for j := range s {
+			s[j] += xw[1][i] * v[j]
+		}
+	}
+	for j := range s {
+		s[j] *= half
+	}
+	return s
+}
 
 // planarRef integrates a planar family's Cauchy stress and energy per unit
 // weight by brute force, independently of planar.go: the stretched ranges
@@ -26,7 +73,7 @@ func planarRef(F [4]float64, alpha, b float64, sh *terms.Shape, p []float64, n i
 		return C[0]*c*c + 2*C[2]*c*s + C[1]*s*s - 1
 	}
 	lo, hi := alpha-math.Pi/2, alpha+math.Pi/2
-	z := quad.Fixed(func(th float64) float64 { return math.Exp(b * (math.Cos(2*(th-alpha)) - 1)) }, lo, hi, n, quad.Legendre{}, 0)
+	z := legendreFixed(func(th float64) float64 { return math.Exp(b * (math.Cos(2*(th-alpha)) - 1)) }, lo, hi, n)
 	// Where x crosses 0 (the switch) or a level at which the shape's slope
 	// is not smooth (the ends of a recruitment range, λ² − 1 at λa and
 	// λa + Δ, written here from the shape's definition): sign changes on a
@@ -64,29 +111,23 @@ func planarRef(F [4]float64, alpha, b float64, sh *terms.Shape, p []float64, n i
 		if !(x((a+c)/2) > 0) {
 			continue
 		}
-		for comp := 0; comp < 4; comp++ {
-			comp := comp
-			v := quad.Fixed(func(th float64) float64 {
-				e := x(th)
-				if !(e > 0) {
-					return 0
-				}
-				rho := math.Exp(b*(math.Cos(2*(th-alpha))-1)) / z
-				val := sh.Eval(e, p)
-				if comp == 3 {
-					return rho * val.F
-				}
-				sn, cs := math.Sincos(th)
-				av := [2]float64{F[0]*cs + F[1]*sn, F[2]*cs + F[3]*sn}
-				g := [3]float64{2 * av[0] * av[0], 2 * av[1] * av[1], 2 * av[0] * av[1]}
-				return rho * val.D1 * g[comp]
-			}, a, c, per, quad.Legendre{}, 0)
-			if comp == 3 {
-				energy += v
-			} else {
-				s[comp] += v
+		// The three stress components and the energy, on one set of nodes.
+		v := legendreFixed4(func(th float64) [4]float64 {
+			e := x(th)
+			if !(e > 0) {
+				return [4]float64{}
 			}
+			rho := math.Exp(b*(math.Cos(2*(th-alpha))-1)) / z
+			val := sh.Eval(e, p)
+			sn, cs := math.Sincos(th)
+			av := [2]float64{F[0]*cs + F[1]*sn, F[2]*cs + F[3]*sn}
+			d := rho * val.D1
+			return [4]float64{d * 2 * av[0] * av[0], d * 2 * av[1] * av[1], d * 2 * av[0] * av[1], rho * val.F}
+		}, a, c, per)
+		for comp := range s {
+			s[comp] += v[comp]
 		}
+		energy += v[3]
 	}
 	return s, energy
 }

@@ -109,6 +109,10 @@ type profiler struct {
 	offTheta []float64
 	// iterations bounds each minimisation (profileIterations when 0).
 	iterations int
+	// near, when positive, is the loss above which a sweep only places an
+	// angle, with profileFarIterations (see sweep); 0 minimises every
+	// angle fully.
+	near float64
 }
 
 func newProfiler(r *Result, p *Problem, pe *engine, i int, set Settings) *profiler {
@@ -222,6 +226,23 @@ func (pf *profiler) at(a float64, starts ...[]float64) ([]float64, float64) {
 	return bestTh, bestL
 }
 
+// place minimises at angle a from start: fully, or, with pf.near set, by
+// a few iterations first, refined fully only when that lands within near
+// (the rough loss is an upper bound of the profile, so an angle left
+// rough lies above near, far outside any interval).
+func (pf *profiler) place(a float64, start []float64) ([]float64, float64) {
+	if pf.near <= 0 {
+		return pf.at(a, start)
+	}
+	pf.iterations = profileFarIterations
+	th, l := pf.at(a, start)
+	pf.iterations = 0
+	if l <= pf.near || th == nil {
+		th, l = pf.at(a, th, start)
+	}
+	return th, l
+}
+
 // sweep profiles the grid: outwards from the optimum (grid index c, whose
 // loss is the fit's), then inwards from the ends, each angle warm-started
 // from the neighbour on that side and keeping the lower loss, repeated
@@ -242,13 +263,13 @@ func (pf *profiler) sweep(grid []float64, c int, fitLoss float64, fitTheta []flo
 		if j == c || nb < 0 || nb >= n || thetas[nb] == nil {
 			return
 		}
-		th, l := pf.at(grid[j], thetas[nb])
+		th, l := pf.place(grid[j], thetas[nb])
 		if thetas[j] != nil && !(l < loss[j]) {
 			return
 		}
 		// Another round is worth its cost only for a change the interval
 		// could notice.
-		if thetas[j] != nil && l < loss[j]*(1-1e-6) {
+		if thetas[j] != nil && l < loss[j]*(1-1e-6) && (pf.near <= 0 || l <= pf.near) {
 			improved = true
 		}
 		loss[j], thetas[j] = l, th
@@ -283,6 +304,13 @@ func (pf *profiler) sweep(grid []float64, c int, fitLoss float64, fitTheta []flo
 	}
 	return loss, thetas
 }
+
+// profileFarMargins is how many 95 % threshold margins (relative to the
+// fit's loss) above the minimum an angle must lie for a profile to only
+// place it (profileFarIterations): there its loss matters to the curve
+// drawn, not to the interval. 0 minimises every angle fully (the
+// reference the tests compare with).
+var profileFarMargins = 100.0
 
 // profileGuideRows is the number of residual rows above which a profile is
 // guided by one on the search subset (see profileGuide): below it the
@@ -319,8 +347,8 @@ func (r *Result) profileGuide(ps *Problem, i int, grid []float64, c int, theta [
 
 // guided profiles the grid on the full data from the guide's starts: at
 // each angle the minimisation starts from the guide's parameters and, near
-// the minimum (within ten times the 95 % threshold's relative margin
-// thrRel), also from the neighbour towards the optimum, so that the
+// the minimum (within profileFarMargins of the 95 % threshold's relative
+// margin thrRel), also from the neighbour towards the optimum, so that the
 // interval rests on the full data's own profile.
 func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []float64, guide [][]float64, thrRel float64) ([]float64, [][]float64) {
 	n := len(grid)
@@ -329,10 +357,13 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 	loss[c] = fitLoss
 	thetas[c] = append([]float64(nil), fitTheta...)
 	thetas[c][pf.i] = grid[c]
-	// A few iterations from the guide place an angle; those within a
-	// hundred margins of the minimum (the rough loss is an upper bound)
+	// A few iterations from the guide place an angle; those within
+	// profileFarMargins of the minimum (the rough loss is an upper bound)
 	// are refined to the full tolerance from there and from the neighbour.
-	near := fitLoss * (1 + 100*thrRel)
+	near := math.Inf(1)
+	if profileFarMargins > 0 {
+		near = fitLoss * (1 + profileFarMargins*thrRel)
+	}
 	at := func(j, nb int) {
 		pf.iterations = profileFarIterations
 		th, l := pf.at(grid[j], guide[j])
@@ -402,7 +433,11 @@ func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings
 	if guide := r.profileGuide(guideOn, i, grid, c, theta, wraps); guide != nil {
 		loss, thetas = pf.guided(grid, c, r.Loss, theta, guide, fq/float64(n-k))
 	} else {
+		if profileFarMargins > 0 {
+			pf.near = r.Loss * (1 + profileFarMargins*fq/float64(n-k))
+		}
 		loss, thetas = pf.sweep(grid, c, r.Loss, theta, wraps)
+		pf.near = 0
 	}
 	minLoss := r.Loss
 	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1)}

@@ -82,6 +82,73 @@ func TestProfileIsATrueProfile(t *testing.T) {
 	}
 }
 
+// TestPlacedProfileMatchesExhaustive: a profile that only places the angles
+// far above the minimum (profileFarMargins) gives the exhaustive profile's
+// 95 % interval and, near the minimum, its losses; far away its losses are
+// upper bounds within 1e-3 of the exhaustive ones. Cases: one family with
+// shear (a full period), two free families with shear, and a dispersed
+// family with shear.
+func TestPlacedProfileMatchesExhaustive(t *testing.T) {
+	if testing.Short() {
+		t.Skip("profiles three forms twice each")
+	}
+	one := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 4}, Term{Shape: lookup("fib-expsq"), Weight: 60, Params: []float64{8}}, 30)
+	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-lin"), Family: -1, Weight: 2},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{3}},
+		{Shape: lookup("fib-expsq"), Family: 1, Weight: 10, Params: []float64{2}}}}
+	spread := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 40, Params: []float64{3}}, -30)
+	spread.Families[0].Planar, spread.Families[0].Concentration = true, 3
+	for _, c := range []struct {
+		name   string
+		m      *Model
+		layout Layout
+	}{{"one family", one, LayoutSingle}, {"two families", two, LayoutFree}, {"dispersed family", spread, LayoutSingle}} {
+		s := synthSpecimen(t, c.m, synthOptions{maxStrain: 0.2, noise: 0.01, points: 30, sutured: true})
+		p, err := NewProblem(s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st := Structure{Layout: c.layout, Planar: c.m.Families[0].Planar}
+		for i, tm := range c.m.Terms {
+			st.Terms = append(st.Terms, TermSpec{Shape: tm.Shape, Family: c.m.Terms[i].Family})
+		}
+		placed, err := Fit(p, st, Settings{Profile: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		keep := profileFarMargins
+		profileFarMargins = 0
+		full, err := Fit(p, st, Settings{Profile: true})
+		profileFarMargins = keep
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(placed.Profiles) != len(full.Profiles) {
+			t.Fatalf("%s: %d and %d profiles", c.name, len(placed.Profiles), len(full.Profiles))
+		}
+		for k := range full.Profiles {
+			g, f := placed.Profiles[k], full.Profiles[k]
+			if math.Abs(g.LoDeg-f.LoDeg) > 0.01 || math.Abs(g.HiDeg-f.HiDeg) > 0.01 || g.NotDetermined != f.NotDetermined {
+				t.Errorf("%s %s: placed interval [%.4f, %.4f]°, exhaustive [%.4f, %.4f]°", c.name, f.Name, g.LoDeg, g.HiDeg, f.LoDeg, f.HiDeg)
+			}
+			margin := f.Threshold - full.Loss
+			worst := 0.0
+			for j := range f.Loss {
+				d := g.Loss[j] - f.Loss[j]
+				worst = math.Max(worst, math.Abs(d)/f.Loss[j])
+				if f.Loss[j] < full.Loss+10*margin && math.Abs(d) > 1e-3*margin {
+					t.Errorf("%s %s at %.2f°: placed loss %.10g, exhaustive %.10g (threshold margin %.3g)", c.name, f.Name, g.AnglesDeg[j], g.Loss[j], f.Loss[j], margin)
+				}
+				if math.Abs(d) > 1e-3*f.Loss[j] {
+					t.Errorf("%s %s at %.2f°: placed loss %.6g, exhaustive %.6g", c.name, f.Name, g.AnglesDeg[j], g.Loss[j], f.Loss[j])
+				}
+			}
+			t.Logf("%s %s: interval placed [%.4f, %.4f]°, exhaustive [%.4f, %.4f]°; largest loss difference %.2g of the loss", c.name, f.Name, g.LoDeg, g.HiDeg, f.LoDeg, f.HiDeg, worst)
+		}
+	}
+}
+
 // TestGuidedProfileMatchesFullSweep: a profile of many points guided by the
 // search subset's starts gives the profile the full sweep gives (the
 // exhaustive computation on every point): the same 95 % interval and the
@@ -111,10 +178,10 @@ func TestGuidedProfileMatchesFullSweep(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		keep := profileGuideRows
-		profileGuideRows = 1 << 30
+		keep, far := profileGuideRows, profileFarMargins
+		profileGuideRows, profileFarMargins = 1<<30, 0
 		full, err := Fit(p, st, Settings{Profile: true})
-		profileGuideRows = keep
+		profileGuideRows, profileFarMargins = keep, far
 		if err != nil {
 			t.Fatal(err)
 		}

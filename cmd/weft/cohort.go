@@ -20,6 +20,7 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
 
 // cohortOptions are the options of weft cohort.
@@ -149,11 +150,11 @@ func runCohort(co *cohortOptions) error {
 	if len(problems) == 0 {
 		return cohortFailures(members, true)
 	}
-	od, err := prepareOutputDir(co.out, co.force, co.files)
+	od, err := safeout.PrepareDir(co.out, co.force, co.files)
 	if err != nil {
-		return err
+		return outputError(err)
 	}
-	defer od.close()
+	defer od.Close()
 	start := time.Now()
 	bar := newProgress(co.ErrOut, co.ErrIsTerminal, "fitting the cohort", co.quiet)
 	set := aniso.CohortSettings{Progress: bar.set, Discover: aniso.DiscoverSettings{MaxTerms: co.form.maxTerms,
@@ -253,7 +254,7 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) error {
 func readGroupTable(path string) (map[string]string, error) {
 	b, err := readAtMost(path, 16<<20)
 	if err != nil {
-		return nil, badInputf("--group-by %s: %s", path, ioErrText(err))
+		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
 	}
 	r := csv.NewReader(bytes.NewReader(b))
 	r.Comment = '#'
@@ -429,7 +430,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 
 // writeCohort writes every file of the cohort's folder and puts it in
 // place.
-func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
+func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
 	for _, m := range ms {
 		cd, ok := cards[m.folder]
 		if !ok || m.err != nil {
@@ -437,7 +438,7 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 		}
 		cs := c.Specimens[m.at]
 		o := &fitOutcome{spec: m.prob.Specimen, prob: m.prob, result: cs.Result, card: cd}
-		sub := subFolder{od: od, rel: m.folder}
+		sub := od.Sub(m.folder)
 		write := writeFitFiles
 		if co.noSpecimenReports {
 			write = writeFitData
@@ -445,7 +446,7 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 		if err := write(o, sub); err != nil {
 			return err
 		}
-		if err := od.write(filepath.Join(m.folder, markerName), markerBytes(sub.files())); err != nil {
+		if err := sub.WriteMarker(); err != nil {
 			return err
 		}
 	}
@@ -455,7 +456,7 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 			if err != nil {
 				return err
 			}
-			if err := od.write(name, b); err != nil {
+			if err := od.Write(name, b); err != nil {
 				return err
 			}
 		}
@@ -464,30 +465,31 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 	if err != nil {
 		return err
 	}
-	if err := od.write("cohort.csv", b); err != nil {
+	if err := od.Write("cohort.csv", b); err != nil {
 		return err
 	}
 	if b, err = sum.JSON(); err != nil {
 		return err
 	}
-	if err := od.write("cohort.json", b); err != nil {
+	if err := od.Write("cohort.json", b); err != nil {
 		return err
 	}
-	files, err := sum.Report(in, filepath.Base(od.final), cards)
+	_, final := od.Dirs()
+	files, err := sum.Report(in, filepath.Base(final), cards)
 	if err != nil {
 		return fmt.Errorf("building the cohort report: %w", err)
 	}
 	for _, f := range files {
-		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+		if err := od.Write(filepath.FromSlash(f.Rel), f.Data); err != nil {
 			return err
 		}
 	}
-	return od.commit(co.force)
+	return outputError(od.Commit(co.force))
 }
 
 // writeFitData writes what writeFitFiles writes but the report: the card,
 // the fit table and the held-out table.
-func writeFitData(o *fitOutcome, od folderSink) error {
+func writeFitData(o *fitOutcome, od safeout.Sink) error {
 	if err := writeCardAndFitTable(o, od); err != nil {
 		return err
 	}
@@ -499,7 +501,7 @@ func writeFitData(o *fitOutcome, od folderSink) error {
 	if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
 		return err
 	}
-	return od.write("heldout.csv", buf.Bytes())
+	return od.Write("heldout.csv", buf.Bytes())
 }
 
 // printCohortSummary prints the short human summary of a cohort.

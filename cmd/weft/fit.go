@@ -19,6 +19,7 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
+	"github.com/weft-tools/weft/cmd/weft/internal/summary"
 	"github.com/weft-tools/weft/terms"
 )
 
@@ -330,7 +331,7 @@ func runFit(ff *fitOptions) error {
 		}
 		outcomes = append(outcomes, o)
 		if o.result.Model.MatrixWeight() == 0 {
-			fmt.Fprintf(ff.ErrOut, "weft: warning: %s: %s; check it with 'weft check' before an FE analysis, or fit a form with a matrix term (--terms, --preset)\n", j.spec.Name, zeroMatrixWarning)
+			fmt.Fprintf(ff.ErrOut, "weft: warning: %s: %s; check it with 'weft check' before an FE analysis, or fit a form with a matrix term (--terms, --preset)\n", j.spec.Name, summary.ZeroMatrixWarning)
 		}
 		if !ff.asJSON {
 			printFitSummary(ff.Out, o)
@@ -592,4 +593,43 @@ func writeReportFiles(od safeout.Sink, o *fitOutcome) error {
 		}
 	}
 	return nil
+}
+
+// fitOutcome is everything one specimen's fit produced.
+type fitOutcome struct {
+	spec    *biaxial.Specimen
+	prob    *aniso.Problem
+	result  *aniso.Result
+	disc    *aniso.Discovery
+	card    *card.Card
+	dir     string
+	elapsed time.Duration
+	// raw is the file read with every cycle and branch, as measured, for
+	// the report's view of the record (nil when it could not be read so).
+	raw *biaxial.Specimen
+	// png asks for PNG plots beside the SVGs.
+	png bool
+}
+
+// printFitSummary prints the short human summary of one specimen's fit.
+func printFitSummary(w io.Writer, o *fitOutcome) {
+	summary.PrintFit(w, &summary.Fit{Specimen: o.spec, Result: o.result, Discovery: o.disc, Card: o.card,
+		Dir: o.dir, Files: writtenFiles(o), Elapsed: o.elapsed})
+}
+
+// writtenFiles lists, for the fit summary, the files writeFitFiles writes
+// into the folder.
+func writtenFiles(o *fitOutcome) []string {
+	files := []string{"model.json", "fit.csv"}
+	if o.disc != nil {
+		files = append(files, "selection.csv")
+	}
+	files = append(files, "curves.csv")
+	if o.raw != nil {
+		files = append(files, "raw.csv")
+	}
+	if len(o.prob.Protocols) > 1 {
+		files = append(files, "heldout.csv")
+	}
+	return append(files, "report.html", "plots/")
 }

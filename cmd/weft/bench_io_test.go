@@ -15,6 +15,7 @@ import (
 
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/demo"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
 
 // The peak memory of a weft process is read from /proc/self/status
@@ -24,7 +25,7 @@ import (
 // in the child's when it executes the new program.
 func init() {
 	recordPeak = func(path string) int {
-		stop := handleSignals(os.Stderr)
+		stop := safeout.HandleSignals(interrupted)
 		code := run(os.Args[1:], os.Stdout, os.Stderr)
 		stop()
 		status, err := os.ReadFile("/proc/self/status")

@@ -10,7 +10,6 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
-	"text/tabwriter"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -20,6 +19,8 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
+	"github.com/weft-tools/weft/cmd/weft/internal/summary"
 )
 
 // cohortOptions are the options of weft cohort.
@@ -149,11 +150,11 @@ func runCohort(co *cohortOptions) error {
 	if len(problems) == 0 {
 		return cohortFailures(members, true)
 	}
-	od, err := prepareOutputDir(co.out, co.force, co.files)
+	od, err := safeout.PrepareDir(co.out, co.force, co.files)
 	if err != nil {
-		return err
+		return outputError(err)
 	}
-	defer od.close()
+	defer od.Close()
 	start := time.Now()
 	bar := newProgress(co.ErrOut, co.ErrIsTerminal, "fitting the cohort", co.quiet)
 	set := aniso.CohortSettings{Progress: bar.set, Discover: aniso.DiscoverSettings{MaxTerms: co.form.maxTerms,
@@ -193,7 +194,7 @@ func runCohort(co *cohortOptions) error {
 			return err
 		}
 	} else {
-		printCohortSummary(co.Out, sum, c, co.out, time.Since(start))
+		summary.PrintCohort(co.Out, sum, co.out, time.Since(start))
 	}
 	return cohortFailures(members, false)
 }
@@ -253,7 +254,7 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) error {
 func readGroupTable(path string) (map[string]string, error) {
 	b, err := readAtMost(path, 16<<20)
 	if err != nil {
-		return nil, badInputf("--group-by %s: %s", path, ioErrText(err))
+		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
 	}
 	r := csv.NewReader(bytes.NewReader(b))
 	r.Comment = '#'
@@ -429,7 +430,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 
 // writeCohort writes every file of the cohort's folder and puts it in
 // place.
-func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
+func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
 	for _, m := range ms {
 		cd, ok := cards[m.folder]
 		if !ok || m.err != nil {
@@ -437,7 +438,7 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 		}
 		cs := c.Specimens[m.at]
 		o := &fitOutcome{spec: m.prob.Specimen, prob: m.prob, result: cs.Result, card: cd}
-		sub := subFolder{od: od, rel: m.folder}
+		sub := od.Sub(m.folder)
 		write := writeFitFiles
 		if co.noSpecimenReports {
 			write = writeFitData
@@ -445,7 +446,7 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 		if err := write(o, sub); err != nil {
 			return err
 		}
-		if err := od.write(filepath.Join(m.folder, markerName), markerBytes(sub.files())); err != nil {
+		if err := sub.WriteMarker(); err != nil {
 			return err
 		}
 	}
@@ -455,7 +456,7 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 			if err != nil {
 				return err
 			}
-			if err := od.write(name, b); err != nil {
+			if err := od.Write(name, b); err != nil {
 				return err
 			}
 		}
@@ -464,30 +465,31 @@ func writeCohort(od *outputDir, co *cohortOptions, ms []*cohortMember, c *aniso.
 	if err != nil {
 		return err
 	}
-	if err := od.write("cohort.csv", b); err != nil {
+	if err := od.Write("cohort.csv", b); err != nil {
 		return err
 	}
 	if b, err = sum.JSON(); err != nil {
 		return err
 	}
-	if err := od.write("cohort.json", b); err != nil {
+	if err := od.Write("cohort.json", b); err != nil {
 		return err
 	}
-	files, err := sum.Report(in, filepath.Base(od.final), cards)
+	_, final := od.Dirs()
+	files, err := sum.Report(in, filepath.Base(final), cards)
 	if err != nil {
 		return fmt.Errorf("building the cohort report: %w", err)
 	}
 	for _, f := range files {
-		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+		if err := od.Write(filepath.FromSlash(f.Rel), f.Data); err != nil {
 			return err
 		}
 	}
-	return od.commit(co.force)
+	return outputError(od.Commit(co.force))
 }
 
 // writeFitData writes what writeFitFiles writes but the report: the card,
 // the fit table and the held-out table.
-func writeFitData(o *fitOutcome, od folderSink) error {
+func writeFitData(o *fitOutcome, od safeout.Sink) error {
 	if err := writeCardAndFitTable(o, od); err != nil {
 		return err
 	}
@@ -499,84 +501,5 @@ func writeFitData(o *fitOutcome, od folderSink) error {
 	if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
 		return err
 	}
-	return od.write("heldout.csv", buf.Bytes())
-}
-
-// printCohortSummary prints the short human summary of a cohort.
-func printCohortSummary(w io.Writer, s *cohortreport.Summary, c *aniso.Cohort, dir string, elapsed time.Duration) {
-	ok := 0
-	for _, r := range s.Specimens {
-		if r.Status == cohortreport.StatusOK {
-			ok++
-		}
-	}
-	fmt.Fprintf(w, "== cohort of %d files: %d fitted, %d failed\n", len(s.Specimens), ok, len(s.Specimens)-ok)
-	fmt.Fprintf(w, "form:     %s (%s), %s\n", strings.Join(s.Form.Terms, " + "), s.Form.Key, s.Form.How)
-	if v := s.Verdict; v != nil {
-		fmt.Fprintf(w, "families: %s — %s\n", v.Families, v.Reason)
-		fmt.Fprintf(w, "rule:     %s\n", v.Rule)
-	}
-	fmt.Fprintln(w)
-	printCohortStats(w, s)
-	for _, r := range s.Specimens {
-		if r.Status == cohortreport.StatusFailed {
-			fmt.Fprintf(w, "failed:   %s: %s\n", r.File, r.Error)
-		}
-	}
-	for _, n := range s.Notes {
-		fmt.Fprintf(w, "note:     %s\n", n)
-	}
-	fmt.Fprintln(w)
-	for _, cn := range s.Cautions {
-		fmt.Fprintf(w, "caution:  %s\n", cn)
-	}
-	fmt.Fprintf(w, "wrote:    %s/ (cohort.csv, cohort.json, %s, report.html, plots/, one folder per specimen) in %.1f s\n", dir, strings.Join(populationFiles(s), ", "), elapsed.Seconds())
-}
-
-func populationFiles(s *cohortreport.Summary) []string {
-	var out []string
-	if p := s.Population; p != nil && p.Card != "" {
-		out = append(out, p.Card)
-		if p.MeanCard != "" {
-			out = append(out, p.MeanCard)
-		}
-	}
-	return out
-}
-
-// printCohortStats prints the statistics over all specimens and the group
-// comparisons.
-func printCohortStats(w io.Writer, s *cohortreport.Summary) {
-	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "parameter\tgroup\tn\tmean\tsd\tmedian\t95% CI of the mean\tunit")
-	for _, st := range s.Stats {
-		name := st.Parameter
-		if st.Note != "" {
-			name = st.Note + " " + name
-		}
-		fmt.Fprintf(tw, "%s\t%s\t%d\t%s\t%s\t%s\t[%s, %s]\t%s\n", name, st.Group, st.N, num(float64(st.Mean), "%.4g"), num(float64(st.SD), "%.3g"),
-			num(float64(st.Median), "%.4g"), num(float64(st.CI95[0]), "%.4g"), num(float64(st.CI95[1]), "%.4g"), st.Unit)
-	}
-	tw.Flush()
-	if len(s.Comparisons) == 0 {
-		return
-	}
-	fmt.Fprintln(w)
-	tw = tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "parameter\tgroups\ttest\tstatistic\tp\tp (Holm)\tHedges' g")
-	for _, c := range s.Comparisons {
-		groups := strings.Join(c.Groups, " vs ")
-		if c.Welch != nil {
-			fmt.Fprintf(tw, "%s\t%s\tWelch t\t%s\t%s\t%s\t%s\n", c.Parameter, groups, num(float64(c.Welch.Statistic), "%.3f"), num(float64(c.Welch.P), "%.3g"),
-				num(float64(c.Welch.PHolm), "%.3g"), num(float64(*c.HedgesG), "%.2f"))
-			fmt.Fprintf(tw, "\t\tMann–Whitney U\t%s\t%s\t%s\t\n", num(float64(c.MannWhitney.Statistic), "%.1f"), num(float64(c.MannWhitney.P), "%.3g"),
-				num(float64(c.MannWhitney.PHolm), "%.3g"))
-		}
-		if c.KruskalWallis != nil {
-			fmt.Fprintf(tw, "%s\t%s\tKruskal–Wallis H\t%s\t%s\t%s\t\n", c.Parameter, groups, num(float64(c.KruskalWallis.Statistic), "%.3f"),
-				num(float64(c.KruskalWallis.P), "%.3g"), num(float64(c.KruskalWallis.PHolm), "%.3g"))
-		}
-	}
-	tw.Flush()
-	fmt.Fprintln(w)
+	return od.Write("heldout.csv", buf.Bytes())
 }

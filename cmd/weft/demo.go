@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/demo"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 
 	"github.com/spf13/cobra"
 )
@@ -58,23 +59,23 @@ func runDemo(o *demoOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := ensureFolder(dir); err != nil {
-		return err
+	if err := safeout.EnsureFolder(dir); err != nil {
+		return outputError(err)
 	}
-	outs := make([]*outputFile, len(names))
+	outs := make([]*safeout.File, len(names))
 	defer func() {
 		for _, f := range outs {
-			f.close()
+			f.Close()
 		}
 	}()
 	for i, n := range names {
-		if outs[i], err = prepareOutputFile(filepath.Join(dir, n), o.force, false); err != nil {
-			return err
+		if outs[i], err = safeout.PrepareFile(filepath.Join(dir, n), o.force, false); err != nil {
+			return outputError(err)
 		}
 	}
 	for i, n := range names {
-		if err := outs[i].commit(files[n]); err != nil {
-			return err
+		if err := outs[i].Commit(files[n]); err != nil {
+			return outputError(err)
 		}
 		fmt.Fprintf(o.Out, "wrote %s\n", filepath.Join(dir, n))
 	}

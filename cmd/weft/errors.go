@@ -5,6 +5,8 @@ import (
 	"fmt"
 
 	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
 
 // Errors and exit codes: a command returns an error, and its type, found
@@ -43,16 +45,66 @@ type checkFailed struct{ msg string }
 func (e checkFailed) Error() string { return e.msg }
 
 // exitCode maps an error returned by a command to the process exit code:
-// bad input is 2, every other failure 1.
+// bad input is 2, every other failure 1. A problem with an output path is
+// bad input when it was found before the work, a failure when found as
+// the output was put in place.
 func exitCode(err error) int {
 	var in inputError
+	var out *safeout.Error
 	switch {
 	case err == nil:
 		return exitOK
 	case errors.As(err, &in):
 		return exitBadInput
+	case errors.As(err, &out) && !out.Late:
+		return exitBadInput
 	}
 	return exitFailed
+}
+
+// outputError adds to a problem with an output path (package safeout says
+// what is wrong) what to type about it; other errors pass unchanged.
+func outputError(err error) error {
+	var e *safeout.Error
+	if !errors.As(err, &e) || e.Advice != "" {
+		return err
+	}
+	c := *e
+	c.Advice = outputAdvice(&c)
+	return &c
+}
+
+// outputAdvice is what the user can do about a problem with an output
+// file or folder that the user named with -o (or as an argument).
+func outputAdvice(e *safeout.Error) string {
+	const another = " or choose another output"
+	const anotherFolder = " choose another folder with -o"
+	switch e.Problem {
+	case safeout.Busy:
+		hint := "; wait for it to finish"
+		if e.LockFile != "" {
+			hint += fmt.Sprintf(" (if no weft is running, delete %s)", e.LockFile)
+		}
+		return hint + another
+	case safeout.NoParent:
+		return "; create it first" + another
+	case safeout.Exists:
+		if e.Target == safeout.TargetFolder {
+			return "; pass --force to replace it (only a folder weft wrote is replaced) or" + anotherFolder
+		}
+		return "; pass --force to replace it" + another
+	case safeout.NotRegular:
+		return " — choose another output (or write to standard output and redirect it)"
+	case safeout.NotOutputFolder, safeout.NoMarker:
+		return "; --force replaces only folders weft wrote —" + anotherFolder
+	case safeout.HoldsWorkDir, safeout.HoldsInput:
+		return " —" + anotherFolder
+	case safeout.Foreign:
+		return " — move them elsewhere or" + anotherFolder
+	case safeout.NotWholeFolder:
+		return "; give a new folder name"
+	}
+	return ""
 }
 
 // exactArgs is cobra.ExactArgs with a bad-input exit code and a hint.

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 
 	"github.com/spf13/cobra"
 
@@ -109,13 +110,13 @@ func runExport(o *exportOptions) error {
 	if o.schema && o.alternative != "" {
 		return badInputf("--alternative applies to a card, not to --schema")
 	}
-	res, err := openResult(o.Out, o.out, o.force)
+	res, err := safeout.OpenResult(o.Out, o.out, o.force)
 	if err != nil {
-		return err
+		return outputError(err)
 	}
-	defer res.close()
+	defer res.Close()
 	if o.schema {
-		return res.write(card.Schema())
+		return outputError(res.Write(card.Schema()))
 	}
 	var cl card.Limits
 	if o.limits != nil {
@@ -155,5 +156,5 @@ func runExport(o *exportOptions) error {
 	if err != nil {
 		return err
 	}
-	return res.write(buf.Bytes())
+	return outputError(res.Write(buf.Bytes()))
 }

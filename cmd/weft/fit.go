@@ -18,6 +18,8 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
+	"github.com/weft-tools/weft/cmd/weft/internal/summary"
 	"github.com/weft-tools/weft/terms"
 )
 
@@ -240,7 +242,7 @@ type fitJob struct {
 	path string
 	spec *biaxial.Specimen
 	dir  string
-	od   *outputDir
+	od   *safeout.Dir
 	err  error
 }
 
@@ -299,12 +301,13 @@ func runFit(ff *fitOptions) error {
 	defer container.removeIfEmpty()
 	for _, j := range jobs {
 		if j.err == nil {
-			j.od, j.err = prepareOutputDir(j.dir, ff.force, args)
+			j.od, j.err = safeout.PrepareDir(j.dir, ff.force, args)
+			j.err = outputError(j.err)
 		}
 	}
 	defer func() {
 		for _, j := range jobs {
-			j.od.close()
+			j.od.Close()
 		}
 	}()
 	var outcomes []*fitOutcome
@@ -321,14 +324,14 @@ func runFit(ff *fitOptions) error {
 			o.raw = readRecordView(j.path, ff.read)
 			err = writeFitOutputs(o, j.od, ff.force)
 		}
-		j.od.close()
+		j.od.Close()
 		if err != nil {
 			j.err = err
 			continue
 		}
 		outcomes = append(outcomes, o)
 		if o.result.Model.MatrixWeight() == 0 {
-			fmt.Fprintf(ff.ErrOut, "weft: warning: %s: %s; check it with 'weft check' before an FE analysis, or fit a form with a matrix term (--terms, --preset)\n", j.spec.Name, zeroMatrixWarning)
+			fmt.Fprintf(ff.ErrOut, "weft: warning: %s: %s; check it with 'weft check' before an FE analysis, or fit a form with a matrix term (--terms, --preset)\n", j.spec.Name, summary.ZeroMatrixWarning)
 		}
 		if !ff.asJSON {
 			printFitSummary(ff.Out, o)
@@ -395,17 +398,17 @@ func prepareContainer(out string, several bool) (*containerDir, error) {
 	st, err := os.Stat(out)
 	switch {
 	case err == nil && !st.IsDir():
-		return nil, badInputf("-o %s: with several DATA files -o names the folder that receives one folder per specimen, but %s is %s", out, out, kindOf(st.Mode()))
+		return nil, badInputf("-o %s: with several DATA files -o names the folder that receives one folder per specimen, but %s is %s", out, out, safeout.KindOf(st.Mode()))
 	case err == nil:
 		return c, nil
 	case !errors.Is(err, fs.ErrNotExist):
-		return nil, badInputf("cannot use %s (%s)", out, ioErrText(err))
+		return nil, badInputf("cannot use %s (%s)", out, safeout.Reason(err))
 	}
-	if err := checkParent(filepath.Clean(out)); err != nil {
-		return nil, err
+	if err := safeout.CheckParent(filepath.Clean(out)); err != nil {
+		return nil, outputError(err)
 	}
 	if err := os.Mkdir(out, 0o777); err != nil && !errors.Is(err, fs.ErrExist) {
-		return nil, badInputf("cannot create %s (%s)", out, ioErrText(err))
+		return nil, badInputf("cannot create %s (%s)", out, safeout.Reason(err))
 	}
 	c.created = true
 	return c, nil
@@ -487,16 +490,16 @@ func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
 
 // writeFitOutputs writes every file of the output folder and puts the
 // folder in place.
-func writeFitOutputs(o *fitOutcome, od *outputDir, force bool) error {
+func writeFitOutputs(o *fitOutcome, od *safeout.Dir, force bool) error {
 	if err := writeFitFiles(o, od); err != nil {
 		return err
 	}
-	return od.commit(force)
+	return outputError(od.Commit(force))
 }
 
 // writeFitFiles writes the files of one specimen's output folder into od:
 // an output folder, or one specimen's folder inside a cohort's.
-func writeFitFiles(o *fitOutcome, od folderSink) error {
+func writeFitFiles(o *fitOutcome, od safeout.Sink) error {
 	if err := writeCardAndFitTable(o, od); err != nil {
 		return err
 	}
@@ -505,7 +508,7 @@ func writeFitFiles(o *fitOutcome, od folderSink) error {
 		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
 			return err
 		}
-		if err := od.write("selection.csv", buf.Bytes()); err != nil {
+		if err := od.Write("selection.csv", buf.Bytes()); err != nil {
 			return err
 		}
 	}
@@ -514,19 +517,19 @@ func writeFitFiles(o *fitOutcome, od folderSink) error {
 
 // writeCardAndFitTable writes the model card and the fit table, the files
 // every specimen's folder has.
-func writeCardAndFitTable(o *fitOutcome, od folderSink) error {
+func writeCardAndFitTable(o *fitOutcome, od safeout.Sink) error {
 	b, err := o.card.Marshal()
 	if err != nil {
 		return err
 	}
-	if err := od.write("model.json", b); err != nil {
+	if err := od.Write("model.json", b); err != nil {
 		return err
 	}
 	var buf bytes.Buffer
 	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
 		return err
 	}
-	return od.write("fit.csv", buf.Bytes())
+	return od.Write("fit.csv", buf.Bytes())
 }
 
 // writeReportFiles is weft fit's hook: it writes heldout.csv (the model
@@ -535,13 +538,13 @@ func writeCardAndFitTable(o *fitOutcome, od folderSink) error {
 // raw.csv (every cycle of the file), then reads the folder's files back,
 // exactly as 'weft report' does, and writes report.html and plots/ into
 // the folder before it is committed.
-func writeReportFiles(od folderSink, o *fitOutcome) error {
+func writeReportFiles(od safeout.Sink, o *fitOutcome) error {
 	var buf bytes.Buffer
 	if folds := heldoutPredictions(o.prob, o.result, chosenCV(o)); folds != nil {
 		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
 			return err
 		}
-		if err := od.write("heldout.csv", buf.Bytes()); err != nil {
+		if err := od.Write("heldout.csv", buf.Bytes()); err != nil {
 			return err
 		}
 	}
@@ -558,7 +561,7 @@ func writeReportFiles(od folderSink, o *fitOutcome) error {
 	if err := report.WriteCurveTable(&buf, o.prob, models); err != nil {
 		return err
 	}
-	if err := od.write("curves.csv", buf.Bytes()); err != nil {
+	if err := od.Write("curves.csv", buf.Bytes()); err != nil {
 		return err
 	}
 	if o.raw != nil {
@@ -566,16 +569,16 @@ func writeReportFiles(od folderSink, o *fitOutcome) error {
 		if err := report.WriteRawTable(&buf, o.raw, o.spec); err != nil {
 			return err
 		}
-		if err := od.write("raw.csv", buf.Bytes()); err != nil {
+		if err := od.Write("raw.csv", buf.Bytes()); err != nil {
 			return err
 		}
 	}
 	// Messages name the folder the user will see, not the temporary one.
 	named := func(err error) error {
-		tmp, final := od.dirs()
+		tmp, final := od.Dirs()
 		return fmt.Errorf("building the report: %s", strings.ReplaceAll(err.Error(), tmp, final))
 	}
-	tmp, _ := od.dirs()
+	tmp, _ := od.Dirs()
 	in, err := loadReportFolder(tmp, biaxial.Limits{}, card.Limits{})
 	if err != nil {
 		return named(err)
@@ -585,9 +588,48 @@ func writeReportFiles(od folderSink, o *fitOutcome) error {
 		return named(err)
 	}
 	for _, f := range files {
-		if err := od.write(filepath.FromSlash(f.Rel), f.Data); err != nil {
+		if err := od.Write(filepath.FromSlash(f.Rel), f.Data); err != nil {
 			return err
 		}
 	}
 	return nil
+}
+
+// fitOutcome is everything one specimen's fit produced.
+type fitOutcome struct {
+	spec    *biaxial.Specimen
+	prob    *aniso.Problem
+	result  *aniso.Result
+	disc    *aniso.Discovery
+	card    *card.Card
+	dir     string
+	elapsed time.Duration
+	// raw is the file read with every cycle and branch, as measured, for
+	// the report's view of the record (nil when it could not be read so).
+	raw *biaxial.Specimen
+	// png asks for PNG plots beside the SVGs.
+	png bool
+}
+
+// printFitSummary prints the short human summary of one specimen's fit.
+func printFitSummary(w io.Writer, o *fitOutcome) {
+	summary.PrintFit(w, &summary.Fit{Specimen: o.spec, Result: o.result, Discovery: o.disc, Card: o.card,
+		Dir: o.dir, Files: writtenFiles(o), Elapsed: o.elapsed})
+}
+
+// writtenFiles lists, for the fit summary, the files writeFitFiles writes
+// into the folder.
+func writtenFiles(o *fitOutcome) []string {
+	files := []string{"model.json", "fit.csv"}
+	if o.disc != nil {
+		files = append(files, "selection.csv")
+	}
+	files = append(files, "curves.csv")
+	if o.raw != nil {
+		files = append(files, "raw.csv")
+	}
+	if len(o.prob.Protocols) > 1 {
+		files = append(files, "heldout.csv")
+	}
+	return append(files, "report.html", "plots/")
 }

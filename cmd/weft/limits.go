@@ -3,7 +3,9 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
+	"os"
 	"sort"
 	"strconv"
 	"strings"
@@ -168,4 +170,25 @@ func (e categorised) Unwrap() error { return e.cat }
 // category cat.
 func tooLargeError(file string, max int64, cat error) error {
 	return withLimitHint(categorised{fmt.Sprintf("%s is larger than %g MiB, the limit for it", file, mib(max)), cat})
+}
+
+// errTooLarge says that a file holds more than the bytes allowed.
+var errTooLarge = errors.New("too large")
+
+// readAtMost reads the file at path whole unless it holds more than max
+// bytes (errTooLarge), so a huge file or a device cannot exhaust memory.
+func readAtMost(path string, max int64) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	b, err := io.ReadAll(io.LimitReader(f, max+1))
+	if err != nil {
+		return nil, err
+	}
+	if int64(len(b)) > max {
+		return nil, errTooLarge
+	}
+	return b, nil
 }

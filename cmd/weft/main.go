@@ -16,6 +16,8 @@ import (
 	"runtime/debug"
 
 	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
 
 // checkedWriter passes writes through to w and remembers the first error,
@@ -61,7 +63,7 @@ func run(args []string, stdout, stderr io.Writer) (code int) {
 		err = badInput(err)
 	}
 	if out.err != nil {
-		werr := fmt.Errorf("cannot write to standard output (%v)", ioErrText(out.err))
+		werr := fmt.Errorf("cannot write to standard output (%v)", safeout.Reason(out.err))
 		if err == nil || errors.Is(err, out.err) {
 			err = werr
 		} else {
@@ -77,8 +79,16 @@ func run(args []string, stdout, stderr io.Writer) (code int) {
 	return exitCode(err)
 }
 
+// interrupted tells the user that a signal stopped the run, once package
+// safeout has removed the run's temporary files; an interrupted run has
+// failed.
+func interrupted(sig os.Signal) int {
+	fmt.Fprintf(os.Stderr, "weft: interrupted (%v); unfinished outputs and temporary files were removed\n", sig)
+	return exitFailed
+}
+
 func main() {
-	stopSignals := handleSignals(os.Stderr)
+	stopSignals := safeout.HandleSignals(interrupted)
 	code := run(os.Args[1:], os.Stdout, os.Stderr)
 	stopSignals()
 	os.Exit(code)

@@ -14,14 +14,20 @@ import (
 	"syscall"
 	"testing"
 	"time"
+
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
+
+// tmpTag marks the temporary files and folders weft writes beside an
+// output (package safeout), as a user sees them.
+const tmpTag = ".weft-tmp-"
 
 // noHelpers fails when a temporary, old-copy or lock file of weft is left
 // in dir (or, recursively, below it).
 func noHelpers(t *testing.T, dir string) {
 	t.Helper()
 	filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
-		if err == nil && isWeftHelper(d.Name()) {
+		if err == nil && safeout.IsHelper(d.Name()) {
 			t.Errorf("weft left %s behind", p)
 		}
 		return nil
@@ -66,7 +72,7 @@ func TestForceReplacesOnlyWeftFolders(t *testing.T) {
 	if _, errs, code := quickFit(t, data, out); code != 0 {
 		t.Fatalf("first fit: exit %d, %s", code, errs)
 	}
-	marker, err := os.ReadFile(filepath.Join(out, markerName))
+	marker, err := os.ReadFile(filepath.Join(out, safeout.MarkerName))
 	if err != nil || !strings.Contains(string(marker), "\nmodel.json\n") {
 		t.Fatalf("marker %q: %v", marker, err)
 	}
@@ -82,7 +88,7 @@ func TestForceReplacesOnlyWeftFolders(t *testing.T) {
 		t.Errorf("fit over weft's own folder: exit %d, %s", code, errs)
 	}
 	// A folder written before markers existed is recognised by its card.
-	os.Remove(filepath.Join(out, markerName))
+	os.Remove(filepath.Join(out, safeout.MarkerName))
 	if _, errs, code := quickFit(t, data, out, "--force"); code != 0 {
 		t.Errorf("fit over a folder without a marker but with weft's card: exit %d, %s", code, errs)
 	}
@@ -98,23 +104,23 @@ func TestForceReplacesOnlyWeftFolders(t *testing.T) {
 // other fails at once with a clear message, and nothing is mixed.
 func TestConcurrentWritersOfOnePath(t *testing.T) {
 	dir := filepath.Join(t.TempDir(), "out")
-	a, err := prepareOutputDir(dir, false, nil)
+	a, err := safeout.PrepareDir(dir, false, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := prepareOutputDir(dir, true, nil); err == nil || !strings.Contains(err.Error(), "being written by another weft run") || exitCode(err) != exitBadInput {
+	if _, err := safeout.PrepareDir(dir, true, nil); err == nil || !strings.Contains(err.Error(), "being written by another weft run") || exitCode(err) != exitBadInput {
 		t.Fatalf("second writer: %v", err)
 	}
-	if _, err := prepareOutputFile(dir, true, false); err == nil {
+	if _, err := safeout.PrepareFile(dir, true, false); err == nil {
 		t.Fatal("a file writer got the same path while a folder writer held it")
 	}
-	if err := a.write("model.json", []byte("a")); err != nil {
+	if err := a.Write("model.json", []byte("a")); err != nil {
 		t.Fatal(err)
 	}
-	if err := a.commit(false); err != nil {
+	if err := a.Commit(false); err != nil {
 		t.Fatal(err)
 	}
-	a.close()
+	a.Close()
 	if b, _ := os.ReadFile(filepath.Join(dir, "model.json")); string(b) != "a" {
 		t.Errorf("model.json = %q", b)
 	}
@@ -160,31 +166,32 @@ func TestConcurrentWritersOfOnePath(t *testing.T) {
 // output path while weft works is kept, and the run fails (exit 1).
 func TestOutputAppearingDuringTheRunIsKept(t *testing.T) {
 	dir := filepath.Join(t.TempDir(), "out")
-	o, err := prepareOutputDir(dir, true, nil)
+	o, err := safeout.PrepareDir(dir, true, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer o.close()
+	defer o.Close()
 	os.Mkdir(dir, 0o755)
 	os.WriteFile(filepath.Join(dir, "theirs.txt"), []byte("theirs"), 0o644)
-	o.write("model.json", []byte("ours"))
-	err = o.commit(true)
+	o.Write("model.json", []byte("ours"))
+	err = o.Commit(true)
 	if err == nil || !strings.Contains(err.Error(), "not replaced") || exitCode(err) != exitFailed {
 		t.Fatalf("commit over a folder that appeared: %v", err)
 	}
 	if b, _ := os.ReadFile(filepath.Join(dir, "theirs.txt")); string(b) != "theirs" {
 		t.Error("the folder that appeared was changed")
 	}
-	f, err := prepareOutputFile(filepath.Join(filepath.Dir(dir), "x.csv"), false, false)
+	x := filepath.Join(filepath.Dir(dir), "x.csv")
+	f, err := safeout.PrepareFile(x, false, false)
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer f.close()
-	os.WriteFile(f.final, []byte("theirs"), 0o644)
-	if err := f.commit([]byte("ours")); err == nil {
+	defer f.Close()
+	os.WriteFile(x, []byte("theirs"), 0o644)
+	if err := f.Commit([]byte("ours")); err == nil {
 		t.Error("a file that appeared was replaced")
 	}
-	if b, _ := os.ReadFile(f.final); string(b) != "theirs" {
+	if b, _ := os.ReadFile(x); string(b) != "theirs" {
 		t.Errorf("file = %q", b)
 	}
 }

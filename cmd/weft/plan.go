@@ -13,6 +13,7 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/planning"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
 
 // planOptions are the options of weft plan.
@@ -104,21 +105,22 @@ func runPlan(o *planOptions) error {
 	if o.write != "" && o.plot != "" && planning.SameFile(o.write, o.plot) {
 		return badInputf("--write and --plot name the same file %s", o.write)
 	}
-	var outs []*outputFile
+	var outs []*safeout.File
 	defer func() {
 		for _, f := range outs {
-			f.close()
+			f.Close()
 		}
 	}()
-	prepare := func(path string) (*outputFile, error) {
+	prepare := func(path string) (*safeout.File, error) {
 		if path == "" {
 			return nil, nil
 		}
-		f, err := prepareOutputFile(path, o.force, false)
-		if err == nil {
-			outs = append(outs, f)
+		f, err := safeout.PrepareFile(path, o.force, false)
+		if err != nil {
+			return nil, outputError(err)
 		}
-		return f, err
+		outs = append(outs, f)
+		return f, nil
 	}
 	writeOut, err := prepare(o.write)
 	if err != nil {
@@ -143,8 +145,8 @@ func runPlan(o *planOptions) error {
 		if err != nil {
 			return err
 		}
-		if err := writeOut.commit(b); err != nil {
-			return err
+		if err := writeOut.Commit(b); err != nil {
+			return outputError(err)
 		}
 		pl.Wrote = append(pl.Wrote, o.write)
 	}
@@ -153,8 +155,8 @@ func runPlan(o *planOptions) error {
 		if err != nil {
 			return checkFailed{msg: "drawing the plot: " + err.Error()}
 		}
-		if err := plotOut.commit(b); err != nil {
-			return err
+		if err := plotOut.Commit(b); err != nil {
+			return outputError(err)
 		}
 		pl.Wrote = append(pl.Wrote, o.plot)
 	}

@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 
 	"github.com/spf13/cobra"
 
@@ -69,11 +70,11 @@ force along axis 1 per reference area normal to axis 2.`,
 // runPredict evaluates the card on every row of the kinematics file and
 // writes the rows with the stresses appended.
 func runPredict(o *predictOptions) error {
-	res, err := openResult(o.Out, o.out, o.force)
+	res, err := safeout.OpenResult(o.Out, o.out, o.force)
 	if err != nil {
-		return err
+		return outputError(err)
 	}
-	defer res.close()
+	defer res.Close()
 	c, m, err := readCard(o.model, o.cardLimits)
 	if err != nil {
 		return err
@@ -86,7 +87,7 @@ func runPredict(o *predictOptions) error {
 	if err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, &buf); err != nil {
 		return err
 	}
-	return res.write(buf.Bytes())
+	return outputError(res.Write(buf.Bytes()))
 }
 
 // readKinematics reads predict's CSV whole, within the file size limit.
@@ -100,7 +101,7 @@ func readKinematics(path string, lim biaxial.Limits) ([]byte, error) {
 		return nil, tooLargeError(path, max, biaxial.ErrFileSize)
 	}
 	if err != nil {
-		return nil, badInputf("cannot read %s (%s)", path, ioErrText(err))
+		return nil, badInputf("cannot read %s (%s)", path, safeout.Reason(err))
 	}
 	return b, nil
 }

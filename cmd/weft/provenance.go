@@ -13,6 +13,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
 
 // buildVersion reads the version of this build from the Go build
@@ -72,7 +73,7 @@ func fitProvenance(path string, ff *fitOptions) (*card.Provenance, error) {
 	p.Options = fitOptionList(ff)
 	n, sum, err := hashFile(path)
 	if err != nil {
-		return nil, fmt.Errorf("cannot read %s again to record its SHA-256 (%s)", path, ioErrText(err))
+		return nil, fmt.Errorf("cannot read %s again to record its SHA-256 (%s)", path, safeout.Reason(err))
 	}
 	p.Inputs = []card.InputFile{{File: filepath.Base(path), Sheet: ff.read.Sheet, Bytes: n, SHA256: sum}}
 	return &p, nil

@@ -5,10 +5,12 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"path"
 	"path/filepath"
 	"strings"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 
 	"github.com/spf13/cobra"
 
@@ -81,38 +83,46 @@ func runReport(o *reportOptions) error {
 		return err
 	}
 	dir = filepath.Clean(dir)
-	lock, err := lockOutput(dir)
+	lock, err := safeout.Acquire(dir)
 	if err != nil {
-		return lockError(dir, err)
+		return outputError(err)
 	}
-	defer lock.release()
+	defer lock.Release()
 	htmlPath, plotsPath := filepath.Join(dir, "report.html"), filepath.Join(dir, "plots")
-	html, err := prepareOutputFile(htmlPath, force, true)
+	html, err := safeout.PrepareFile(htmlPath, force, true)
+	if err != nil {
+		return outputError(err)
+	}
+	listed, hasMarker, err := safeout.ReadMarker(dir)
 	if err != nil {
 		return err
 	}
-	listed, hasMarker, err := readMarker(dir)
-	if err != nil {
-		return badInput(err)
+	if err := safeout.CheckPlots(plotsPath, force, listed, hasMarker); err != nil {
+		return plotsError(err)
 	}
-	if err := checkPlots(plotsPath, force, listed, hasMarker); err != nil {
-		return err
-	}
-	removeStale(htmlPath)
-	removeStale(plotsPath)
+	safeout.RemoveStale(htmlPath)
+	safeout.RemoveStale(plotsPath)
 	files, err := report.Build(in, report.Options{Strain: strain, PNG: o.png, Software: versionText()})
 	if err != nil {
 		return err
 	}
-	if err := replacePlots(plotsPath, files[1:]); err != nil {
+	plots := make([]safeout.FileData, 0, len(files)-1)
+	for _, f := range files[1:] {
+		plots = append(plots, safeout.FileData{Name: path.Base(f.Rel), Data: f.Data})
+	}
+	if err := safeout.ReplacePlots(plotsPath, plots); err != nil {
 		return err
 	}
-	if err := html.commit(files[0].Data); err != nil {
-		return err
+	if err := html.Commit(files[0].Data); err != nil {
+		return outputError(err)
 	}
 	if hasMarker {
-		if err := updateMarker(dir, listed, files); err != nil {
-			return err
+		names := make([]string, len(files))
+		for i, f := range files {
+			names[i] = f.Rel
+		}
+		if err := safeout.UpdateMarker(dir, listed, "plots", names); err != nil {
+			return outputError(err)
 		}
 	}
 	what := "SVG"
@@ -123,104 +133,23 @@ func runReport(o *reportOptions) error {
 	return nil
 }
 
-// checkPlots makes sure plots/ may be replaced: it does not exist, or
-// (with force) it is a folder that holds only plots weft wrote.
-func checkPlots(plotsPath string, force bool, listed map[string]bool, hasMarker bool) error {
-	st, err := os.Lstat(plotsPath)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil
-	case err != nil:
-		return badInputf("cannot use %s (%s)", plotsPath, ioErrText(err))
-	case !force:
-		return badInputf("%s exists; pass --force to replace report.html and plots/", plotsPath)
-	case !st.IsDir() || st.Mode()&fs.ModeSymlink != 0:
-		return badInputf("%s exists and is %s, not weft's plots folder; it is kept — move it elsewhere and run again", plotsPath, kindOf(st.Mode()))
-	}
-	entries, err := os.ReadDir(plotsPath)
-	if err != nil {
-		return badInputf("cannot read %s (%s)", plotsPath, ioErrText(err))
-	}
-	var foreign []string
-	for _, e := range entries {
-		rel := "plots/" + e.Name()
-		ok := e.Type().IsRegular() && (hasMarker && listed[rel] || !hasMarker && legacyPlot(rel)) || isWeftHelper(e.Name())
-		if !ok && len(foreign) < 5 {
-			foreign = append(foreign, rel)
-		}
-	}
-	if len(foreign) > 0 {
-		return badInputf("%s holds files weft did not write (%s); replacing plots/ would delete them, so it is kept — move them elsewhere and run again", plotsPath, strings.Join(foreign, ", "))
-	}
-	return nil
-}
-
-// replacePlots writes the plot files into a temporary sibling folder and
-// swaps it in for plots/, so that a reader never sees a mixture of old and
-// new plots.
-func replacePlots(plotsPath string, files []report.File) error {
-	parent := filepath.Dir(plotsPath)
-	cleanup.mu.Lock()
-	tmp := filepath.Join(parent, ".plots"+tmpTag+randomTag())
-	err := os.Mkdir(tmp, 0o777)
-	if err == nil {
-		trackTemp(tmp)
-	}
-	cleanup.mu.Unlock()
-	if err != nil {
-		return fmt.Errorf("cannot write %s (%s)", plotsPath, ioErrText(err))
-	}
-	defer func() {
-		os.RemoveAll(tmp)
-		untrackTemp(tmp)
-	}()
-	for _, f := range files {
-		if err := writeNewFile(filepath.Join(tmp, filepath.Base(f.Rel)), f.Data); err != nil {
-			return fmt.Errorf("cannot write %s (%s)", filepath.Join(plotsPath, filepath.Base(f.Rel)), ioErrText(err))
-		}
-	}
-	cleanup.mu.Lock()
-	old := ""
-	if _, err := os.Lstat(plotsPath); err == nil {
-		old = filepath.Join(parent, ".plots"+oldTag+randomTag())
-		if err := os.Rename(plotsPath, old); err != nil {
-			cleanup.mu.Unlock()
-			return fmt.Errorf("cannot replace %s (%s)", plotsPath, ioErrText(err))
-		}
-		trackTemp(old)
-	}
-	if err := os.Rename(tmp, plotsPath); err != nil {
-		if old != "" && os.Rename(old, plotsPath) == nil {
-			delete(cleanup.temps, old)
-		}
-		cleanup.mu.Unlock()
-		return fmt.Errorf("cannot write %s (%s)", plotsPath, ioErrText(err))
-	}
-	cleanup.mu.Unlock()
-	if old != "" {
-		os.RemoveAll(old)
-		untrackTemp(old)
-	}
-	return nil
-}
-
-// updateMarker rewrites the folder's marker after the report was rebuilt:
-// the old plots leave the list, the new ones join it.
-func updateMarker(dir string, listed map[string]bool, files []report.File) error {
-	var names []string
-	for k := range listed {
-		if !strings.HasPrefix(k, "plots/") {
-			names = append(names, k)
-		}
-	}
-	for _, f := range files {
-		names = append(names, f.Rel)
-	}
-	m, err := prepareOutputFile(filepath.Join(dir, markerName), true, true)
-	if err != nil {
+// plotsError adds to a problem with the plots/ folder what to do about it:
+// the folder is rebuilt as a whole, so anything else in it must go first.
+func plotsError(err error) error {
+	var e *safeout.Error
+	if !errors.As(err, &e) {
 		return err
 	}
-	return m.commit(markerBytes(names))
+	c := *e
+	switch e.Problem {
+	case safeout.Exists:
+		c.Advice = "; pass --force to replace report.html and plots/"
+	case safeout.NotOutputFolder:
+		c.Advice = " — move it elsewhere and run again"
+	case safeout.Foreign:
+		c.Advice = " — move them elsewhere and run again"
+	}
+	return &c
 }
 
 // loadReportFolder reads an output folder for its report: model.json

@@ -1,8 +1,6 @@
-package main
+package safeout
 
 import (
-	"fmt"
-	"io"
 	"os"
 	"os/signal"
 	"sort"
@@ -11,10 +9,10 @@ import (
 )
 
 // cleanup records the temporary files and folders and the lock files this
-// run has created and not yet removed, so that an interrupted run (SIGINT,
-// SIGTERM) removes them before it exits. Its mutex also guards the few
-// renames that put an output in place: an interruption waits for them, so
-// it never leaves a half-replaced output.
+// process has created and not yet removed, so that an interrupted run
+// (SIGINT, SIGTERM) removes them before it exits. Its mutex also guards the
+// few renames that put an output in place: an interruption waits for them,
+// so it never leaves a half-replaced output.
 var cleanup = struct {
 	mu    sync.Mutex
 	temps map[string]bool
@@ -55,11 +53,12 @@ func removeTemps() {
 	}
 }
 
-// handleSignals makes SIGINT and SIGTERM remove this run's temporary files
-// and lock files, say so on stderr and exit with code 1 (an interrupted run
-// has failed). Outputs already put in place are kept; nothing half-written
-// is left. stop restores the default handling.
-func handleSignals(stderr io.Writer) (stop func()) {
+// HandleSignals makes SIGINT and SIGTERM remove this process's temporary
+// files and lock files, then call interrupted, which tells the user and
+// returns the exit code the process ends with. Outputs already put in
+// place are kept; nothing half-written is left, and no output is put in
+// place after the signal. stop restores the default handling.
+func HandleSignals(interrupted func(os.Signal) (exitCode int)) (stop func()) {
 	ch := make(chan os.Signal, 1)
 	signal.Notify(ch, os.Interrupt, syscall.SIGTERM)
 	done := make(chan struct{})
@@ -68,8 +67,7 @@ func handleSignals(stderr io.Writer) (stop func()) {
 		case sig := <-ch:
 			cleanup.mu.Lock() // held until exit: no output is committed any more
 			removeTemps()
-			fmt.Fprintf(stderr, "weft: interrupted (%v); unfinished outputs and temporary files were removed\n", sig)
-			os.Exit(exitFailed)
+			os.Exit(interrupted(sig))
 		case <-done:
 		}
 	}()

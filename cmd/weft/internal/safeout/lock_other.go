@@ -1,14 +1,14 @@
 //go:build !unix
 
-package main
+package safeout
 
 import "os"
 
 // lockFile cannot lock on this platform; the lock file is created
-// exclusively instead (see lockOutput).
+// exclusively instead (see Acquire).
 func lockFile(f *os.File) (busy bool, err error) { return false, nil }
 
-// lockIsExclusive is false: lockOutput then creates the lock file with
+// lockIsExclusive is false: Acquire then creates the lock file with
 // O_EXCL, so a lock file left by a killed run must be deleted by hand (the
 // message says so).
 const lockIsExclusive = false

@@ -1,0 +1,218 @@
+package safeout
+
+import (
+	"errors"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+)
+
+// CheckParent makes sure the folder that will hold target exists: a
+// NoParent, ParentNotFolder or CannotCreate *Error when it does not.
+func CheckParent(target string) error {
+	parent := filepath.Dir(target)
+	st, err := os.Stat(parent)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return &Error{Problem: NoParent, Path: target, Folder: parent}
+	case err != nil:
+		return &Error{Problem: CannotCreate, Path: target, Err: err}
+	case !st.IsDir():
+		return &Error{Problem: ParentNotFolder, Path: target, Folder: parent}
+	}
+	return nil
+}
+
+// EnsureFolder creates the folder dir, to write output files into, when it
+// does not exist (its parent must). An existing non-folder is a NotFolder
+// *Error.
+func EnsureFolder(dir string) error {
+	st, err := os.Stat(dir)
+	switch {
+	case err == nil && st.IsDir():
+		return nil
+	case err == nil:
+		return &Error{Problem: NotFolder, Path: dir, Found: KindOf(st.Mode())}
+	case !errors.Is(err, fs.ErrNotExist):
+		return &Error{Problem: Unusable, Path: dir, Err: err}
+	}
+	if err := CheckParent(filepath.Clean(dir)); err != nil {
+		return err
+	}
+	if err := os.Mkdir(dir, 0o777); err != nil && !errors.Is(err, fs.ErrExist) {
+		return &Error{Problem: CannotCreate, Path: dir, Err: err}
+	}
+	return nil
+}
+
+// createTemp creates an empty temporary file beside target with the mode
+// the umask allows (0644 under umask 022) and records it for cleanup.
+func createTemp(target string) (*os.File, error) {
+	cleanup.mu.Lock()
+	defer cleanup.mu.Unlock()
+	for {
+		name := helperPath(target, tmpTag+randomTag())
+		f, err := os.OpenFile(name, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o666)
+		if errors.Is(err, fs.ErrExist) {
+			continue
+		}
+		if err == nil {
+			trackTemp(name)
+		}
+		return f, err
+	}
+}
+
+// writeNewFile writes data to a new file (it must not exist) with the mode
+// the umask allows.
+func writeNewFile(path string, data []byte) error {
+	f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o666)
+	if err != nil {
+		return err
+	}
+	_, werr := f.Write(data)
+	return errors.Join(werr, f.Close())
+}
+
+// File is one output file being written: checked and locked by
+// PrepareFile, written by Commit, released by Close.
+type File struct {
+	final   string
+	force   bool
+	existed bool
+	lock    *Lock
+}
+
+// PrepareFile checks, before any work, that path can be written: its
+// folder exists and is writable, nobody else is writing it, and it does
+// not exist (or, with force, is a regular file). locked is true when the
+// caller already holds a lock covering path (a file inside an output
+// folder it locked). Call Close when done.
+func PrepareFile(path string, force, locked bool) (*File, error) {
+	o := &File{final: filepath.Clean(path), force: force}
+	if err := CheckParent(o.final); err != nil {
+		return nil, err
+	}
+	if !locked {
+		l, err := Acquire(o.final)
+		if err != nil {
+			return nil, err
+		}
+		o.lock = l
+	}
+	if err := o.check(); err != nil {
+		o.Close()
+		return nil, err
+	}
+	return o, nil
+}
+
+// check looks at what is at the path now.
+func (o *File) check() *Error {
+	st, err := os.Lstat(o.final)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		o.existed = false
+		return nil
+	case err != nil:
+		return &Error{Problem: Unusable, Path: o.final, Err: err}
+	case !o.force:
+		return &Error{Problem: Exists, Path: o.final}
+	case !st.Mode().IsRegular():
+		return &Error{Problem: NotRegular, Path: o.final, Found: KindOf(st.Mode())}
+	}
+	o.existed = true
+	return nil
+}
+
+// Commit writes data through a temporary file and puts it in place. A file
+// that appeared at the path since PrepareFile is not replaced (a Late
+// *Error).
+func (o *File) Commit(data []byte) error {
+	f, err := createTemp(o.final)
+	if err != nil {
+		return &Error{Problem: WriteFailed, Path: o.final, Err: err, Late: true}
+	}
+	tmp := f.Name()
+	defer func() {
+		os.Remove(tmp)
+		untrackTemp(tmp)
+	}()
+	_, werr := f.Write(data)
+	if err := errors.Join(werr, f.Close()); err != nil {
+		return &Error{Problem: WriteFailed, Path: o.final, Err: err, Late: true}
+	}
+	existed := o.existed
+	if e := o.check(); e != nil || o.existed != existed {
+		if e == nil {
+			e = &Error{Problem: Appeared, Path: o.final}
+		}
+		e.Late = true
+		return e
+	}
+	cleanup.mu.Lock()
+	defer cleanup.mu.Unlock()
+	if !existed {
+		// A hard link never replaces: if something appeared at the path in
+		// the last instant, it is kept.
+		err := os.Link(tmp, o.final)
+		if errors.Is(err, fs.ErrExist) {
+			return &Error{Problem: Appeared, Path: o.final, Late: true}
+		}
+		if err == nil {
+			return nil
+		}
+		// File systems without hard links: the check above must do.
+	}
+	if err := os.Rename(tmp, o.final); err != nil {
+		return &Error{Problem: WriteFailed, Path: o.final, Err: err, Late: true}
+	}
+	return nil
+}
+
+// Close releases the lock; it may be called more than once, and on nil.
+func (o *File) Close() {
+	if o != nil {
+		o.lock.Release()
+		o.lock = nil
+	}
+}
+
+// Result is where a command's one result goes: a writer such as standard
+// output, or an output file checked before the work starts.
+type Result struct {
+	w    io.Writer
+	file *File
+}
+
+// OpenResult checks the output file path; with path "" or "-" the result
+// goes to w instead. Call Close when done.
+func OpenResult(w io.Writer, path string, force bool) (*Result, error) {
+	r := &Result{w: w}
+	if path == "" || path == "-" {
+		return r, nil
+	}
+	f, err := PrepareFile(path, force, false)
+	if err != nil {
+		return nil, err
+	}
+	r.file = f
+	return r, nil
+}
+
+// Write writes the whole result.
+func (r *Result) Write(data []byte) error {
+	if r.file == nil {
+		_, err := r.w.Write(data)
+		return err
+	}
+	return r.file.Commit(data)
+}
+
+// Close releases the output file's lock; it may be called on nil.
+func (r *Result) Close() {
+	if r != nil {
+		r.file.Close()
+	}
+}

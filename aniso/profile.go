@@ -357,19 +357,24 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 	loss[c] = fitLoss
 	thetas[c] = append([]float64(nil), fitTheta...)
 	thetas[c][pf.i] = grid[c]
-	// A few iterations from the guide place an angle; those within
-	// profileFarMargins of the minimum (the rough loss is an upper bound)
-	// are refined to the full tolerance from there and from the neighbour.
+	// The full data's loss at the guide's parameters places an angle (an
+	// upper bound of the profile, as is the family-off loss); those within
+	// profileFarMargins of the minimum are minimised to the full tolerance
+	// from the guide and from the neighbour.
 	near := math.Inf(1)
 	if profileFarMargins > 0 {
 		near = fitLoss * (1 + profileFarMargins*thrRel)
 	}
 	at := func(j, nb int) {
-		pf.iterations = profileFarIterations
-		th, l := pf.at(grid[j], guide[j])
-		pf.iterations = 0
-		if l <= near || th == nil {
-			th, l = pf.at(grid[j], th, thetas[nb])
+		th := append([]float64(nil), guide[j]...)
+		th[pf.i] = grid[j]
+		l := pf.e.eval(th, false)
+		if l > pf.offLoss && pf.offTheta != nil {
+			th, l = append([]float64(nil), pf.offTheta...), pf.offLoss
+			th[pf.i] = grid[j]
+		}
+		if !(l > near) {
+			th, l = pf.at(grid[j], guide[j], thetas[nb])
 		}
 		loss[j], thetas[j] = l, th
 	}
@@ -380,6 +385,62 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 		at(j, j+1)
 	}
 	return loss, thetas
+}
+
+// crossing returns the angle between a (profile fa ≤ 0 relative to the
+// threshold thr, parameters thA) and b (fb > 0, thB) where the profile
+// meets the threshold: regula falsi with the Illinois modification
+// (Dowell & Jarratt 1971), each trial angle minimised from the brackets'
+// parameters interpolated to it, until the bracket is narrower than tolAngle or a trial's
+// loss is within tolLoss of the threshold (at most 8 trials, the cost of
+// the bisection to step/256 it replaces). The profile is smooth and nearly
+// quadratic about its minimum, so a few trials locate the crossing.
+func (pf *profiler) crossing(a, b, fa, fb float64, thA, thB []float64, thr, tolAngle, tolLoss float64) float64 {
+	side := 0
+	for it := 0; it < 8 && math.Abs(b-a) > tolAngle; it++ {
+		m := b - fb*(b-a)/(fb-fa)
+		if !(math.Abs(m-a) < math.Abs(b-a)) || !(math.Abs(m-b) < math.Abs(b-a)) {
+			m = (a + b) / 2
+		}
+		th, l := pf.at(m, between(thA, thB, (m-a)/(b-a)))
+		fm := l - thr
+		if fm <= 0 {
+			a, fa, thA = m, fm, th
+			if side < 0 {
+				fb /= 2
+			}
+			side = -1
+		} else {
+			b, fb, thB = m, fm, th
+			if side > 0 {
+				fa /= 2
+			}
+			side = 1
+		}
+		if math.Abs(fm) <= tolLoss {
+			return m
+		}
+	}
+	if fb-fa > 0 {
+		return b - fb*(b-a)/(fb-fa)
+	}
+	return (a + b) / 2
+}
+
+// between returns the parameters a fraction u of the way from x to y (x
+// or y alone when the other is nil).
+func between(x, y []float64, u float64) []float64 {
+	switch {
+	case x == nil:
+		return y
+	case y == nil:
+		return x
+	}
+	out := make([]float64, len(x))
+	for i := range x {
+		out[i] = x[i] + u*(y[i]-x[i])
+	}
+	return out
 }
 
 // profileGrid returns the grid from lo to hi with the optimum inserted and
@@ -449,20 +510,8 @@ func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings
 	}
 	thr := minLoss * (1 + fq/float64(n-k))
 	pr.Threshold = thr
-	// crossing refines the threshold crossing between grid index in
-	// (below the threshold) and out (above) by bisection, each trial angle
-	// warm-started from both brackets.
 	crossing := func(in, out int) float64 {
-		a, b := grid[in], grid[out]
-		for it := 0; it < 8; it++ {
-			m := (a + b) / 2
-			if _, l := pf.at(m, thetas[in], thetas[out]); l <= thr {
-				a = m
-			} else {
-				b = m
-			}
-		}
-		return Deg((a + b) / 2)
+		return Deg(pf.crossing(grid[in], grid[out], loss[in]-thr, loss[out]-thr, thetas[in], thetas[out], thr, step/256, 1e-2*(thr-minLoss)))
 	}
 	loIdx, hiIdx := c, c
 	for loIdx > 0 && loss[loIdx-1] <= thr {

@@ -110,20 +110,28 @@ func PrepareFile(path string, force, locked bool) (*File, error) {
 
 // check looks at what is at the path now.
 func (o *File) check() *Error {
-	st, err := os.Lstat(o.final)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		o.existed = false
-		return nil
-	case err != nil:
-		return &Error{Problem: Unusable, Path: o.final, Err: err}
-	case !o.force:
-		return &Error{Problem: Exists, Path: o.final}
-	case !st.Mode().IsRegular():
+	st, e := existing(o.final, TargetFile, o.force, &o.existed)
+	if e == nil && st != nil && !st.Mode().IsRegular() {
 		return &Error{Problem: NotRegular, Path: o.final, Found: KindOf(st.Mode())}
 	}
-	o.existed = true
-	return nil
+	return e
+}
+
+// existing returns what is at path (nil when nothing is, or on an error)
+// and records in *existed whether anything is; the error says why it may
+// not be replaced: any entry without force, or one that cannot be examined.
+func existing(path string, target Target, force bool, existed *bool) (fs.FileInfo, *Error) {
+	st, err := os.Lstat(path)
+	*existed = err == nil
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, nil
+	case err != nil:
+		return nil, &Error{Problem: Unusable, Target: target, Path: path, Err: err}
+	case !force:
+		return nil, &Error{Problem: Exists, Target: target, Path: path}
+	}
+	return st, nil
 }
 
 // Commit writes data through a temporary file and puts it in place. A file

@@ -70,21 +70,11 @@ func prepareDir(dir string, force bool, inputs []string) (*Dir, error) {
 
 // check looks at what is at the folder's path now.
 func (o *Dir) check(force bool) *Error {
-	st, err := os.Lstat(o.final)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		o.existed = false
-		return nil
-	case err != nil:
-		return &Error{Problem: Unusable, Target: TargetFolder, Path: o.final, Err: err}
-	case !force:
-		return &Error{Problem: Exists, Target: TargetFolder, Path: o.final}
-	}
-	if e := replaceable(o.final, st.Mode(), o.inputs); e != nil {
+	st, e := existing(o.final, TargetFolder, force, &o.existed)
+	if e != nil || st == nil {
 		return e
 	}
-	o.existed = true
-	return nil
+	return replaceable(o.final, st.Mode(), o.inputs)
 }
 
 // replaceable says why force may not replace the folder dir, or nil.

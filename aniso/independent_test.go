@@ -39,21 +39,29 @@ func expSqFibre(k1, k2 float64) fibreLaw {
 // recruitedFibre is a bundle whose fibres straighten at stretches spread
 // uniformly over [onset, onset + spread], each linear once straight with
 // nominal stress E(λ/λs − 1) (Lanir 1983, J Biomech 16:1–12), integrated
-// over λs by the midpoint rule with 200 points.
+// over λs by the midpoint rule with 200 points. The k straightening
+// stretches below λ contribute E(λ Σ 1/λs − k)/200; the sums of 1/λs are
+// formed once.
 func recruitedFibre(E, onset, spread float64) fibreLaw {
 	const n = 200
+	var inv [n + 1]float64 // inv[k] = Σ_{i<k} 1/λs_i
+	for i := 0; i < n; i++ {
+		inv[i+1] = inv[i] + 1/(onset+spread*(float64(i)+0.5)/n)
+	}
 	return func(l float64) float64 {
 		if spread == 0 {
 			return math.Max(0, E*(l/onset-1))
 		}
-		s := 0.0
-		for i := 0; i < n; i++ {
-			ls := onset + spread*(float64(i)+0.5)/n
-			if l > ls {
-				s += E * (l/ls - 1)
-			}
+		// λs_i < λ ⟺ i < (λ − onset)·n/spread − 0.5; then confirm at the edge.
+		k := int(math.Ceil((l-onset)*n/spread - 0.5))
+		k = max(0, min(n, k))
+		for k > 0 && !(l > onset+spread*(float64(k-1)+0.5)/n) {
+			k--
 		}
-		return s / n
+		for k < n && l > onset+spread*(float64(k)+0.5)/n {
+			k++
+		}
+		return E * (l*inv[k] - float64(k)) / n
 	}
 }
 
@@ -68,32 +76,49 @@ type spreadFamily struct {
 }
 
 func (f spreadFamily) cauchy(F [4]float64) [3]float64 {
-	dirs := []float64{f.alpha}
-	wts := []float64{1}
-	if f.b >= 0 {
-		const n = 1440
-		dirs, wts = make([]float64, n), make([]float64, n)
-		z := 0.0
-		for i := range dirs {
-			th := f.alpha - math.Pi/2 + math.Pi*(float64(i)+0.5)/n
-			dirs[i] = th
-			wts[i] = math.Exp(f.b * (math.Cos(2*(th-f.alpha)) - 1))
-			z += wts[i]
-		}
-		for i := range wts {
-			wts[i] /= z
-		}
+	return f.directions().cauchy(F)
+}
+
+// spreadDirections are a family's quadrature directions (cos θ, sin θ) and
+// normalised weights, which do not depend on the deformation.
+type spreadDirections struct {
+	cs, sn, wts []float64
+	law         fibreLaw
+}
+
+func (f spreadFamily) directions() spreadDirections {
+	d := spreadDirections{law: f.law}
+	if f.b < 0 {
+		sn, cs := math.Sincos(f.alpha)
+		d.cs, d.sn, d.wts = []float64{cs}, []float64{sn}, []float64{1}
+		return d
 	}
+	const n = 1440
+	d.cs, d.sn, d.wts = make([]float64, n), make([]float64, n), make([]float64, n)
+	z := 0.0
+	for i := range d.wts {
+		th := f.alpha - math.Pi/2 + math.Pi*(float64(i)+0.5)/n
+		d.sn[i], d.cs[i] = math.Sincos(th)
+		d.wts[i] = math.Exp(f.b * (math.Cos(2*(th-f.alpha)) - 1))
+		z += d.wts[i]
+	}
+	for i := range d.wts {
+		d.wts[i] /= z
+	}
+	return d
+}
+
+func (d spreadDirections) cauchy(F [4]float64) [3]float64 {
 	var s [3]float64
-	for i, th := range dirs {
-		sn, cs := math.Sincos(th)
+	for i, w := range d.wts {
+		cs, sn := d.cs[i], d.sn[i]
 		a := [2]float64{F[0]*cs + F[1]*sn, F[2]*cs + F[3]*sn}
 		l := math.Hypot(a[0], a[1])
 		if l <= 1 {
 			continue
 		}
 		// σ = λ ψ′(λ) n⊗n with n = a/λ (J = 1).
-		c := wts[i] * f.law(l) / l
+		c := w * d.law(l) / l
 		s[0] += c * a[0] * a[0]
 		s[1] += c * a[1] * a[1]
 		s[2] += c * a[0] * a[1]
@@ -114,9 +139,13 @@ func neoHookeanMatrix(c10 float64, F [4]float64) [3]float64 {
 
 // fibreMaterial is a neo-Hookean matrix with spread fibre families.
 func fibreMaterial(c10 float64, fams ...spreadFamily) material {
+	dirs := make([]spreadDirections, len(fams))
+	for i, f := range fams {
+		dirs[i] = f.directions()
+	}
 	return func(F [4]float64) [3]float64 {
 		s := neoHookeanMatrix(c10, F)
-		for _, f := range fams {
+		for _, f := range dirs {
 			c := f.cauchy(F)
 			for j := range s {
 				s[j] += c[j]

@@ -66,7 +66,7 @@ type pageView struct {
 //go:embed cohort.html
 var page string
 
-var pageTemplate = template.Must(template.New("cohort").Parse(page))
+var pageTemplate = template.Must(template.New("cohort").Funcs(template.FuncMap{"stylesheet": report.Stylesheet}).Parse(page))
 
 // Report draws the cohort's figures and writes report.html; title names
 // the cohort (its folder). The files come in a fixed order: report.html,

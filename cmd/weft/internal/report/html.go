@@ -273,10 +273,19 @@ func (in *Input) folderFiles(nfig int, withPNG bool) []string {
 	return append(out, "report.html: this report", plots)
 }
 
-var reportTemplate = template.Must(template.New("report").Parse(reportPage))
+var reportTemplate = template.Must(template.New("report").Funcs(template.FuncMap{"stylesheet": Stylesheet}).Parse(reportPage))
 
-// reportPage is the page template: the page's layout and style; view
-// fills it.
+// stylesheet is the style of weft's HTML reports: screen and A4 print.
+//
+//go:embed report.css
+var stylesheet string
+
+// Stylesheet returns the style sheet of the fit report (screen and A4
+// print rules), for other reports to share its look.
+func Stylesheet() template.CSS { return template.CSS(stylesheet) }
+
+// reportPage is the page template: the page's layout (its style is
+// report.css); view fills it.
 //
 //go:embed report.html
 var reportPage string

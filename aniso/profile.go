@@ -366,14 +366,18 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 		near = fitLoss * (1 + profileFarMargins*thrRel)
 	}
 	at := func(j, nb int) {
-		th := append([]float64(nil), guide[j]...)
-		th[pf.i] = grid[j]
-		l := pf.e.eval(th, false)
+		var th []float64
+		l := math.Inf(1)
+		if guide[j] != nil {
+			th = append([]float64(nil), guide[j]...)
+			th[pf.i] = grid[j]
+			l = pf.e.eval(th, false)
+		}
 		if l > pf.offLoss && pf.offTheta != nil {
 			th, l = append([]float64(nil), pf.offTheta...), pf.offLoss
 			th[pf.i] = grid[j]
 		}
-		if !(l > near) {
+		if !(l > near) || th == nil || math.IsInf(l, 1) {
 			th, l = pf.at(grid[j], guide[j], thetas[nb])
 		}
 		loss[j], thetas[j] = l, th

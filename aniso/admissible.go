@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 
 	"github.com/weft-tools/weft/terms"
 )
@@ -259,7 +260,8 @@ func (m *Model) StabilityAt(F [4]float64, directions int) (PointStability, error
 }
 
 // CheckStability scans the grid. Points where the model cannot be
-// evaluated are counted, not failed.
+// evaluated are counted, not failed. The points are evaluated on every
+// core; the report does not depend on how many there are.
 func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 	if err := g.Validate(); err != nil {
 		return StabilityReport{}, err
@@ -271,9 +273,23 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 	rep.WorstStability.MinModuloRotation = math.Inf(1)
 	rep.WorstEllipticity.MinEllipticity = math.Inf(1)
 	matrix := m.MatrixWeight() > 0
-	for _, F := range g.Points() {
+	pts := g.Points()
+	at := make([]PointStability, len(pts))
+	errs := make([]error, len(pts))
+	const chunk = 64
+	var jobs []func()
+	for lo := 0; lo < len(pts); lo += chunk {
+		hi := min(lo+chunk, len(pts))
+		jobs = append(jobs, func() {
+			for i := lo; i < hi; i++ {
+				at[i], errs[i] = m.StabilityAt(pts[i], g.Directions)
+			}
+		})
+	}
+	(&pool{n: runtime.GOMAXPROCS(0)}).run(jobs)
+	for i, F := range pts {
 		rep.Points++
-		p, err := m.StabilityAt(F, g.Directions)
+		p, err := at[i], errs[i]
 		if err != nil {
 			if rep.NotEvaluable == 0 {
 				rep.FirstNotEvaluable, rep.NotEvaluableReason = F, err.Error()

@@ -45,6 +45,17 @@ type engine struct {
 	// and cross products are computed once.
 	static     []bool
 	staticDone bool
+	// shaped marks design groups with a free shape parameter. keep marks,
+	// for the current evaluation, the groups whose columns and cross
+	// products are those of the previous one: static groups, and in an
+	// evaluation without derivatives every group without a free shape
+	// parameter whose families did not move (in a coarse scan of two free
+	// families, the family the inner loop holds). prevFam are the model's
+	// families at the last complete evaluation (valid with prevOK).
+	shaped  []bool
+	keep    []bool
+	prevFam []Family
+	prevOK  bool
 	// tol is the relative loss decrease below which minimize stops (two
 	// steps in a row); 0 means 1e-10.
 	tol float64
@@ -105,7 +116,10 @@ func newEngine(p *Problem, m *Model, groups [][]int, famOf []int, layout Layout,
 		}
 	}
 	e.cols.Skip = make([]bool, len(m.Terms))
+	e.shaped = make([]bool, e.ng)
+	e.keep = make([]bool, e.ng)
 	for g, members := range groups {
+		e.shaped[g] = free[g]
 		e.static[g] = !free[g]
 		for _, k := range members {
 			if m.Terms[k].Family >= 0 {
@@ -189,17 +203,17 @@ func (e *engine) apply(theta []float64) {
 func (e *engine) eval(theta []float64, derivs bool) float64 {
 	e.at = append(e.at[:0], theta...)
 	e.apply(theta)
+	e.markKept(derivs)
 	for g, members := range e.groups {
 		for _, k := range members {
-			e.cols.Skip[k] = e.staticDone && e.static[g]
+			e.cols.Skip[k] = e.keep[g]
 		}
 	}
 	e.p.Data.Fill(e.model, &e.cols, derivs)
 	rows, ng := e.rows, e.ng
 	e.feasible = true
-	reuse := e.staticDone
 	for g, members := range e.groups {
-		if reuse && e.static[g] {
+		if e.keep[g] {
 			continue
 		}
 		a := e.A[g*rows : (g+1)*rows]
@@ -235,7 +249,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 			continue
 		}
 		for j := 0; j <= i; j++ {
-			if !e.allowed[j] || reuse && e.static[i] && e.static[j] {
+			if !e.allowed[j] || e.keep[i] && e.keep[j] {
 				continue
 			}
 			aj := e.A[j*rows : (j+1)*rows]
@@ -246,7 +260,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 			s /= e.norm[i] * e.norm[j]
 			e.G[i*ng+j], e.G[j*ng+i] = s, s
 		}
-		if reuse && e.static[i] {
+		if e.keep[i] {
 			continue
 		}
 		s := 0.0
@@ -256,6 +270,8 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		e.b[i] = s / e.norm[i]
 	}
 	e.staticDone = true
+	e.prevFam = append(e.prevFam[:0], e.model.Families...)
+	e.prevOK = true
 	ws := e.nn.solve(e.G, e.b, ng, e.allowed)
 	for g := range e.w {
 		e.w[g] = 0
@@ -286,6 +302,31 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		e.derivatives()
 	}
 	return loss
+}
+
+// markKept fills e.keep for the evaluation about to run (see keep) and
+// invalidates the previous state until this evaluation completes.
+func (e *engine) markKept(derivs bool) {
+	moved := func(f int) bool { return true }
+	if e.prevOK && !derivs && len(e.prevFam) == len(e.model.Families) {
+		moved = func(f int) bool {
+			a, b := &e.model.Families[f], &e.prevFam[f]
+			return a.Angle != b.Angle || a.Concentration != b.Concentration || a.Dispersion != b.Dispersion || a.Planar != b.Planar
+		}
+	}
+	for g, members := range e.groups {
+		k := e.staticDone && e.static[g]
+		if !k && e.staticDone && !e.shaped[g] {
+			k = true
+			for _, t := range members {
+				if f := e.model.Terms[t].Family; f >= 0 && moved(f) {
+					k = false
+				}
+			}
+		}
+		e.keep[g] = k
+	}
+	e.prevOK = false
 }
 
 // derivatives fills e.v[i] = Σ_g w_g ∂A_g/∂θ_i.

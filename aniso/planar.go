@@ -555,10 +555,13 @@ type planarScan struct {
 	slopes [][]float64  // per term: per point, per direction
 	start  [][]int      // per term: offset of each point's slopes
 	ready  []bool       // per term
+	// weight is scratch: one point's direction weights times the density.
+	weight []float64
 }
 
 // fillPlanarScan is fillPlanar for a scan (no derivatives): the density
-// re-weights cached directions and slopes.
+// re-weights cached directions and slopes, once per point for all of the
+// family's terms.
 func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 	rows, nc := d.Rows(), len(d.out.Components)
 	sc := c.scan
@@ -573,15 +576,13 @@ func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 		sc.start = make([][]int, len(m.Terms))
 		sc.ready = make([]bool, len(m.Terms))
 	}
-	fam := &m.Families[f]
-	norm, _ := density(fam.Concentration)
-	ca, sa := math.Cos(2*fam.Angle), math.Sin(2*fam.Angle)
-	b := fam.Concentration
+	c.famTerms = c.famTerms[:0]
 	for t := range m.Terms {
 		term := &m.Terms[t]
 		if term.Family != f || (c.Skip != nil && c.Skip[t]) {
 			continue
 		}
+		c.famTerms = append(c.famTerms, t)
 		if !sc.ready[t] {
 			sc.start[t] = make([]int, len(d.kin)+1)
 			for i := range d.kin {
@@ -595,16 +596,30 @@ func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 			}
 			sc.ready[t] = true
 		}
-		for i := range d.kin {
-			r0 := i * nc
-			pb := d.pbase[3*r0 : 3*(r0+nc)]
-			b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
+	}
+	if len(c.famTerms) == 0 {
+		return
+	}
+	fam := &m.Families[f]
+	norm, _ := density(fam.Concentration)
+	ca, sa := math.Cos(2*fam.Angle), math.Sin(2*fam.Angle)
+	b := fam.Concentration
+	for i := range d.kin {
+		r0 := i * nc
+		pb := d.pbase[3*r0 : 3*(r0+nc)]
+		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
+		nodes := sc.rules[i].Nodes
+		sc.weight = sc.weight[:0]
+		for _, nd := range nodes {
+			// The rule was built for b = 0: its weights hold 1/π.
+			rho := norm * math.Exp(b*(nd.Cos2*ca+nd.Sin2*sa-1)) * math.Pi
+			sc.weight = append(sc.weight, nd.Weight*rho)
+		}
+		for _, t := range c.famTerms {
 			var mom [3]float64
 			sl := sc.slopes[t][sc.start[t][i]:sc.start[t][i+1]]
-			for k, nd := range sc.rules[i].Nodes {
-				// The rule was built for b = 0: its weights hold 1/π.
-				rho := norm * math.Exp(b*(nd.Cos2*ca+nd.Sin2*sa-1)) * math.Pi
-				w := mul0(nd.Weight*rho, sl[k])
+			for k, nd := range nodes {
+				w := mul0(sc.weight[k], sl[k])
 				mom[0] += w
 				mom[1] += w * nd.Cos2
 				mom[2] += w * nd.Sin2

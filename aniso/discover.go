@@ -251,6 +251,9 @@ func newSearch(all *Problem, set DiscoverSettings) (*search, error) {
 	}
 	s := &search{all: all, p: p, set: set, pl: &pool{n: set.Workers, progress: set.Progress},
 		d: &Discovery{Points: all.Data.Points(), SearchPoints: p.Data.Points()}}
+	if p != all {
+		s.d.Search = append(s.d.Search, fmt.Sprintf("points: the search, the cross-validation and the comparison of candidates used %d of the %d points (at most %d a protocol, evenly spaced in each protocol's driving stretch, ends included, with the protocol's weights rescaled so that it keeps its share of the loss); the chosen model was refitted on all %d", s.d.SearchPoints, s.d.Points, set.SearchPoints, s.d.Points))
+	}
 	s.fitSet = set.Fit
 	s.fitSet.Profile = false
 	s.fitSet.noMetrics = true

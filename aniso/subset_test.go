@@ -1,6 +1,8 @@
 package aniso
 
 import (
+	"fmt"
+	"strings"
 	"testing"
 )
 
@@ -26,6 +28,12 @@ func TestDiscoverSameChoiceAtAnySampling(t *testing.T) {
 		}
 		if d.SearchPoints > 5*DefaultSearchPoints || d.Points != 5*n {
 			t.Errorf("%d points per protocol: searched %d of %d", n, d.SearchPoints, d.Points)
+		}
+		// The search description says how many points were searched
+		// whenever it was fewer than all.
+		said := len(d.Search) > 0 && strings.HasPrefix(d.Search[0], fmt.Sprintf("points: the search, the cross-validation and the comparison of candidates used %d of the %d points", d.SearchPoints, d.Points))
+		if thinned := d.SearchPoints < d.Points; said != thinned {
+			t.Errorf("%d points per protocol: searched %d of %d, but the search description starts %q", n, d.SearchPoints, d.Points, d.Search[0])
 		}
 		if r := d.Best().Result; r.Rows != p.Rows() {
 			t.Errorf("%d points per protocol: the pick was fitted on %d rows, not all %d", n, r.Rows, p.Rows())

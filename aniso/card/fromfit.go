@@ -67,7 +67,8 @@ func fitLayout(r *aniso.Result) *Layout {
 
 // newSelectionSection is the evidence of discovery d on p.
 func newSelectionSection(p *aniso.Problem, d *aniso.Discovery) *SelectionSection {
-	sel := &SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search, HeldoutMetric: HeldoutMetric}
+	sel := &SelectionSection{Rule: d.Rule, Chosen: d.Best().Name, Search: d.Search, HeldoutMetric: HeldoutMetric,
+		Points: d.Points, SearchPoints: d.SearchPoints}
 	for i := range d.Pareto {
 		sel.Pareto = append(sel.Pareto, NewCandidateCard(&d.Pareto[i], i == d.Chosen))
 	}

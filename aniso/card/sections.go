@@ -168,11 +168,18 @@ type FoldCard struct {
 
 // SelectionSection is the evidence behind the discovered model.
 type SelectionSection struct {
-	Rule    string          `json:"rule"`
-	Chosen  string          `json:"chosen"`
-	Search  []string        `json:"search"`
-	Pareto  []CandidateCard `json:"pareto"`
-	Presets []CandidateCard `json:"presets"`
+	Rule   string   `json:"rule"`
+	Chosen string   `json:"chosen"`
+	Search []string `json:"search"`
+	// Points is the number of points the chosen model was fitted to, and
+	// SearchPoints how many of them the search, the cross-validation and
+	// the comparison of candidates used (a protocol with more points keeps
+	// an even subset in its driving stretch; see aniso.DiscoverSettings).
+	// Both are 0 in cards written before they were recorded.
+	Points       int             `json:"points"`
+	SearchPoints int             `json:"search_points"`
+	Pareto       []CandidateCard `json:"pareto"`
+	Presets      []CandidateCard `json:"presets"`
 	// HeldoutMetric says what the held-out error measures (cards before
 	// this name said "cv_metric").
 	HeldoutMetric string `json:"heldout_metric"`

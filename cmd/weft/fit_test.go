@@ -394,3 +394,41 @@ func TestFitStatusesShown(t *testing.T) {
 		}
 	}
 }
+
+// A specimen with more points per protocol than discovery searches: the
+// summary, the card's selection section and its search description say
+// how many points the search used and that the chosen model was refitted
+// on all of them (5 protocols × 100 points; the search keeps 60 a
+// protocol).
+func TestFitSaysHowManyPointsWereSearched(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	path := filepath.Join(dir, "long.csv")
+	writeTesterFile(t, path, 100, 1)
+	out := filepath.Join(dir, "out")
+	stdout, stderr, code := runWeft(t, "fit", path, "-o", out)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	if want := "points:   search, cross-validation and the comparison below on 300 of the 500 points"; !strings.Contains(stdout, want) {
+		t.Errorf("summary lacks %q:\n%s", want, stdout)
+	}
+	raw, err := os.ReadFile(filepath.Join(out, "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var c struct {
+		Selection struct {
+			Points       int      `json:"points"`
+			SearchPoints int      `json:"search_points"`
+			Search       []string `json:"search"`
+		} `json:"selection"`
+	}
+	if err := json.Unmarshal(raw, &c); err != nil {
+		t.Fatal(err)
+	}
+	sel := c.Selection
+	if sel.Points != 500 || sel.SearchPoints != 300 || len(sel.Search) == 0 || !strings.HasPrefix(sel.Search[0], "points: the search, the cross-validation and the comparison of candidates used 300 of the 500 points") {
+		t.Errorf("card selection: points %d, search_points %d, search %q", sel.Points, sel.SearchPoints, sel.Search)
+	}
+}

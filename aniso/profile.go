@@ -395,10 +395,11 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 // threshold thr, parameters thA) and b (fb > 0, thB) where the profile
 // meets the threshold: regula falsi with the Illinois modification
 // (Dowell & Jarratt 1971), each trial angle minimised from the brackets'
-// parameters interpolated to it, until the bracket is narrower than tolAngle or a trial's
-// loss is within tolLoss of the threshold (at most 8 trials, the cost of
-// the bisection to step/256 it replaces). The profile is smooth and nearly
-// quadratic about its minimum, so a few trials locate the crossing.
+// parameters interpolated to it, until the bracket is narrower than
+// tolAngle or a trial's loss is within tolLoss of the threshold (at most 8
+// trials, the cost of the bisection to step/256 it replaces). The profile
+// is smooth and nearly quadratic about its minimum, so a few trials locate
+// the crossing.
 func (pf *profiler) crossing(a, b, fa, fb float64, thA, thB []float64, thr, tolAngle, tolLoss float64) float64 {
 	side := 0
 	for it := 0; it < 8 && math.Abs(b-a) > tolAngle; it++ {
@@ -406,7 +407,7 @@ func (pf *profiler) crossing(a, b, fa, fb float64, thA, thB []float64, thr, tolA
 		if !(math.Abs(m-a) < math.Abs(b-a)) || !(math.Abs(m-b) < math.Abs(b-a)) {
 			m = (a + b) / 2
 		}
-		th, l := pf.at(m, between(thA, thB, (m-a)/(b-a)))
+		th, l := pf.at(m, pf.between(thA, thB, (m-a)/(b-a)))
 		fm := l - thr
 		if fm <= 0 {
 			a, fa, thA = m, fm, th
@@ -432,8 +433,9 @@ func (pf *profiler) crossing(a, b, fa, fb float64, thA, thB []float64, thr, tolA
 }
 
 // between returns the parameters a fraction u of the way from x to y (x
-// or y alone when the other is nil).
-func between(x, y []float64, u float64) []float64 {
+// or y alone when the other is nil), periodic angles along the shorter
+// way round.
+func (pf *profiler) between(x, y []float64, u float64) []float64 {
 	switch {
 	case x == nil:
 		return y
@@ -442,7 +444,11 @@ func between(x, y []float64, u float64) []float64 {
 	}
 	out := make([]float64, len(x))
 	for i := range x {
-		out[i] = x[i] + u*(y[i]-x[i])
+		d := y[i] - x[i]
+		if pf.e.params[i].Periodic {
+			d = wrapAngle(d)
+		}
+		out[i] = pf.e.params[i].project(x[i] + u*d)
 	}
 	return out
 }

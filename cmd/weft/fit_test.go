@@ -432,3 +432,39 @@ func TestFitSaysHowManyPointsWereSearched(t *testing.T) {
 		t.Errorf("card selection: points %d, search_points %d, search %q", sel.Points, sel.SearchPoints, sel.Search)
 	}
 }
+
+// --resample may ask for more points than a protocol keeps (membrane-M1
+// keeps 40 a protocol): several resampled points then share a source line,
+// and the fit, its held-out table and its report are still written with
+// one row per resampled point.
+func TestFitResampleBeyondKeptRows(t *testing.T) {
+	t.Parallel()
+	out := filepath.Join(t.TempDir(), "out")
+	_, stderr, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--resample", "60", "-o", out, "--quiet")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, name := range []string{"fit.csv", "heldout.csv"} {
+		f, err := os.Open(filepath.Join(out, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		rows, err := csv.NewReader(f).ReadAll()
+		f.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		per := map[string]int{}
+		for _, r := range rows[1:] {
+			per[r[0]]++
+		}
+		for label, n := range per {
+			if n != 60 {
+				t.Errorf("%s: protocol %s has %d rows, want 60", name, label, n)
+			}
+		}
+	}
+	if _, err := os.Stat(filepath.Join(out, "report.html")); err != nil {
+		t.Errorf("no report: %v", err)
+	}
+}

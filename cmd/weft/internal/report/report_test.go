@@ -236,3 +236,34 @@ func TestThinned(t *testing.T) {
 		t.Errorf("a short series lost points: %d", len(s))
 	}
 }
+
+// A resampled protocol can give two points the same source line (each
+// resampled point takes the line of its nearer measured row): the held-out
+// table's rows are matched to fit.csv's points in their order, one each,
+// and a held-out row beyond fit.csv's points is an error, not a crash.
+func TestHeldoutRowsMatchRepeatedLines(t *testing.T) {
+	fit := "protocol,line,cycle,F11,F12,F21,F22,measured_nominal_11 [kPa],model_nominal_11 [kPa],residual_nominal_11 [kPa]\n" +
+		"1:1,5,1,1.00,0,0,1,0,0,0\n" +
+		"1:1,5,1,1.01,0,0,1,1,1,0\n" +
+		"1:1,6,1,1.02,0,0,1,2,2,0\n"
+	ft, err := readFitTable(strings.NewReader(fit), "fit.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	held := "protocol,line,F11,F12,F21,F22,heldout_nominal_11 [kPa]\n" +
+		"1:1,5,1.00,0,0,1,10\n" +
+		"1:1,5,1.01,0,0,1,11\n" +
+		"1:1,6,1.02,0,0,1,12\n"
+	ht, err := readHeldoutTable(strings.NewReader(held), "heldout.csv", ft)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := ht.stress["1:1"][0]
+	if len(got) != 3 || got[0] != 10 || got[1] != 11 || got[2] != 12 {
+		t.Errorf("held-out stresses %v, want [10 11 12] in fit.csv's order", got)
+	}
+	extra := held + "1:1,5,1.03,0,0,1,13\n"
+	if _, err := readHeldoutTable(strings.NewReader(extra), "heldout.csv", ft); err == nil || !strings.Contains(err.Error(), "source line 5") {
+		t.Errorf("a third row from line 5: want an error naming the line, got %v", err)
+	}
+}

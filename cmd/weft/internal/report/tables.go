@@ -419,13 +419,16 @@ func readHeldoutTable(r io.Reader, file string, t *fitTable) (*heldoutTable, err
 		colComp[j] = componentIndex(t.comps, comp)
 		ht.comps = append(ht.comps, comp)
 	}
-	index := map[string]map[int]int{}
+	// Points are matched by source line; a resampled protocol can give
+	// several points the same line, matched in their order in both files.
+	index := map[string]map[int][]int{}
+	npts := map[string]int{}
 	for _, pr := range t.protocols {
-		m := map[int]int{}
+		m := map[int][]int{}
 		for i, l := range pr.line {
-			m[l] = i
+			m[l] = append(m[l], i)
 		}
-		index[pr.label] = m
+		index[pr.label], npts[pr.label] = m, len(pr.line)
 	}
 	for i, row := range rows[1:] {
 		ln := i + 2
@@ -440,13 +443,15 @@ func readHeldoutTable(r io.Reader, file string, t *fitTable) (*heldoutTable, err
 		if err != nil {
 			return nil, fmt.Errorf("%s: line %d, column 2: %q is not a line number", file, ln, row[1])
 		}
-		pi, ok := pts[line]
-		if !ok {
-			return nil, fmt.Errorf("%s: line %d: protocol %s has no point from source line %d in fit.csv", file, ln, row[0], line)
+		at := pts[line]
+		if len(at) == 0 {
+			return nil, fmt.Errorf("%s: line %d: protocol %s has no point from source line %d in fit.csv (or fewer than heldout.csv lists)", file, ln, row[0], line)
 		}
+		pi := at[0]
+		pts[line] = at[1:]
 		st := ht.stress[row[0]]
 		if st == nil {
-			n := len(pts)
+			n := npts[row[0]]
 			st = make([][]float64, len(t.comps))
 			for c := range st {
 				st[c] = make([]float64, n)

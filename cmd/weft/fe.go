@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
@@ -75,7 +76,7 @@ func cardError(err error) error {
 func readCard(path string, lim card.Limits) (*card.Card, *aniso.Model, error) {
 	f, err := os.Open(path)
 	if err != nil {
-		return nil, nil, badInput(err)
+		return nil, nil, badInputf("%s: cannot read the model card (%s) — check the path and permissions; a fit writes it as model.json in its output folder", path, safeout.Reason(err))
 	}
 	defer f.Close()
 	c, m, err := card.ParseLimits(f, path, lim)

@@ -486,3 +486,17 @@ func TestCheckPassesEveryPreset(t *testing.T) {
 
 // fullFloat formats v with the fewest digits that read back to v.
 func fullFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// A card that is not there is bad input (exit 2) with a message that says
+// what to check and where a fit puts its card, for every command that
+// reads one.
+func TestMissingCardSaysWhatToCheck(t *testing.T) {
+	t.Parallel()
+	missing := filepath.Join(t.TempDir(), "nope.json")
+	for _, args := range [][]string{{"check", missing}, {"export", missing}, {"evaluate", missing, "--stretch", "1.1,1.1"}} {
+		_, stderr, code := runWeft(t, args...)
+		if code != 2 || !strings.Contains(stderr, "cannot read the model card") || !strings.Contains(stderr, "check the path") {
+			t.Errorf("weft %s: exit %d, %q", args[0], code, stderr)
+		}
+	}
+}

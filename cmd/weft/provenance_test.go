@@ -2,10 +2,13 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/weft-tools/weft/aniso/card"
@@ -23,6 +26,17 @@ func readCardFile(t *testing.T, path string) (*card.Card, []byte) {
 		t.Fatal(err)
 	}
 	return c, b
+}
+
+// sha256Of is the SHA-256 of a file computed here by the standard library
+// (FIPS 180-4), independently of weft's streaming hash.
+func sha256Of(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return fmt.Sprintf("%x", sha256.Sum256(b))
 }
 
 // The options a card records are the resolved ones, defaults included,
@@ -89,5 +103,64 @@ func TestPresetCardRecordsPairAxis(t *testing.T) {
 	c, _ := readCardFile(t, filepath.Join(out, "model.json"))
 	if c.Provenance == nil || !slices.Contains(c.Provenance.Options, "--pair-axis=axis-1") || !slices.Contains(c.Provenance.Options, "--preset=hgo") {
 		t.Errorf("provenance %+v, want --preset=hgo and --pair-axis=axis-1", c.Provenance)
+	}
+}
+
+// Every card a cohort writes and cohort.json record the version, the
+// options and the SHA-256 of their inputs: each specimen's card its own
+// file, as weft fit records it, population.json the files pooled,
+// cohort.json every file read; the cohort report shows the version.
+func TestCohortProvenance(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 2, 10, 5, cohortPopulation{"A", 25, 30}, cohortPopulation{"B", 25, 45})
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--preset", "hgo", "--no-specimen-reports"}
+	var files []string
+	for _, s := range sp {
+		args = append(args, s.file)
+		files = append(files, s.file)
+	}
+	slices.Sort(files)
+	if _, stderr, code := runWeft(t, args...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	options := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--preset=hgo", "--pair-axis=axis-1"}
+	check := func(what string, p *card.Provenance, opts []string, inputs []string) {
+		t.Helper()
+		if p == nil {
+			t.Fatalf("%s records no provenance", what)
+		}
+		if p.Software != "weft" || p.VersionText() != versionText() || p.Command != "weft cohort" || !slices.Equal(p.Options, opts) {
+			t.Errorf("%s: provenance %s %s, %s %q", what, p.Software, p.VersionText(), p.Command, p.Options)
+		}
+		if len(p.Inputs) != len(inputs) {
+			t.Fatalf("%s: %d inputs, want %d", what, len(p.Inputs), len(inputs))
+		}
+		for i, f := range inputs {
+			if in := p.Inputs[i]; in.File != filepath.Base(f) || in.SHA256 != sha256Of(t, f) {
+				t.Errorf("%s: input %d is %+v, want %s with SHA-256 %s", what, i, in, filepath.Base(f), sha256Of(t, f))
+			}
+		}
+	}
+	for _, f := range files {
+		name := strings.TrimSuffix(filepath.Base(f), ".csv")
+		c, _ := readCardFile(t, filepath.Join(out, name+".weft", "model.json"))
+		check(name+".weft/model.json", c.Provenance, options, []string{f})
+	}
+	for _, name := range []string{"population.json", "mean-parameters.json"} {
+		c, _ := readCardFile(t, filepath.Join(out, name))
+		check(name, c.Provenance, options, files)
+	}
+	s := readCohortJSON(t, out)
+	check("cohort.json", s.Provenance, append(slices.Clone(options), "--group-by=group"), files)
+	html, err := os.ReadFile(filepath.Join(out, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"written by weft " + htmlText(versionText()), sha256Of(t, files[0]), "weft cohort --cycle=last"} {
+		if !strings.Contains(string(html), want) {
+			t.Errorf("the cohort report lacks %q", want)
+		}
 	}
 }

@@ -72,5 +72,13 @@ func (s *VerdictSection) UnmarshalJSON(b []byte) error {
 	if s.HeldoutError == nil {
 		s.HeldoutError = v.FormerError
 	}
+	// Cards before these keys were always written left them out when
+	// empty; a card read and written again has them.
+	if s.Comparisons == nil {
+		s.Comparisons = []ComparisonCard{}
+	}
+	if s.RuledOut == nil {
+		s.RuledOut = []string{}
+	}
 	return nil
 }

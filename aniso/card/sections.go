@@ -77,10 +77,12 @@ type VerdictSection struct {
 	// its best held-out error (cards before this name said "cv_error").
 	DeltaBIC     map[string]Num `json:"delta_bic"`
 	HeldoutError map[string]Num `json:"heldout_error"`
-	// Comparisons are the steps from the simplest form to the richest.
-	Comparisons []ComparisonCard `json:"comparisons,omitempty"`
-	// RuledOut names richer explanations that were not supported.
-	RuledOut []string `json:"ruled_out,omitempty"`
+	// Comparisons are the steps from the simplest form to the richest;
+	// RuledOut names richer explanations that were not supported. Both are
+	// always written, empty as [] (cards before that may lack them; they
+	// read as empty).
+	Comparisons []ComparisonCard `json:"comparisons"`
+	RuledOut    []string         `json:"ruled_out"`
 	// Noise is the noise estimate in held-out-error units; StdErrFloor the
 	// smallest standard error a comparison may claim.
 	Noise       Num `json:"noise"`
@@ -105,7 +107,7 @@ type ComparisonCard struct {
 // chosen model's form.
 func NewVerdictSection(v aniso.Verdict, form string) VerdictSection {
 	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider,
-		DeltaBIC: map[string]Num{}, HeldoutError: map[string]Num{}, RuledOut: v.RuledOut,
+		DeltaBIC: map[string]Num{}, HeldoutError: map[string]Num{}, RuledOut: append([]string{}, v.RuledOut...), Comparisons: []ComparisonCard{},
 		Noise: Num(v.Noise), StdErrFloor: Num(v.StdErrFloor)}
 	for k, x := range v.DeltaBIC {
 		s.DeltaBIC[k] = Num(x)

@@ -48,3 +48,28 @@ func TestSectionsTypedAndKept(t *testing.T) {
 		t.Error("Interval.Outside")
 	}
 }
+
+// The verdict's lists are always written, empty as []; a card written
+// before that, whose verdict has neither key, still reads, and written
+// again it has both.
+func TestVerdictListsAlwaysWritten(t *testing.T) {
+	old := `{"format": "weft.model/1", "stress_unit": "kPa", "families": [],
+ "terms": [{"id": "i1-lin", "weight": 5}],
+ "verdict": {"families": "0", "form": "0", "reason": "no fibre family beats the matrix alone", "delta_bic": {"0": 0}, "heldout_error": {"0": 0.02}, "noise": 0.01, "stderr_floor": 0.001}}`
+	c, _, err := Parse(strings.NewReader(old), "card.json")
+	if err != nil {
+		t.Fatalf("a card without verdict.ruled_out: %v", err)
+	}
+	if c.Verdict == nil || c.Verdict.RuledOut == nil || len(c.Verdict.RuledOut) != 0 || c.Verdict.Comparisons == nil {
+		t.Fatalf("verdict read as %+v, want empty, non-nil lists", c.Verdict)
+	}
+	b, err := c.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{`"ruled_out": []`, `"comparisons": []`} {
+		if !bytes.Contains(b, []byte(want)) {
+			t.Errorf("written again, the card lacks %s:\n%s", want, b)
+		}
+	}
+}

@@ -142,7 +142,8 @@ func runCohort(co *cohortOptions) error {
 		return badInputf("cohort needs an output folder: -o DIR")
 	}
 	members := readMembers(co.files, co.read)
-	if err := assignGroups(members, co.groupBy, co.ErrOut); err != nil {
+	groupFile, err := assignGroups(members, co.groupBy, co.ErrOut)
+	if err != nil {
 		return err
 	}
 	unit, kind := cohortUnit(members)
@@ -179,6 +180,10 @@ func runCohort(co *cohortOptions) error {
 	}
 	in, cards, err := cohortCards(members, c, co.groupBy, unit, kind)
 	if err != nil {
+		return err
+	}
+	trace := cohortTrace{co: co, members: members, cohort: c, form: formOptionList(&co.form, st, given), groupFile: groupFile}
+	if err := trace.record(in, cards); err != nil {
 		return err
 	}
 	sum := cohortreport.Build(in)
@@ -219,20 +224,23 @@ func readMembers(files []string, opt biaxial.Options) []*cohortMember {
 }
 
 // assignGroups gives each member its group: a metadata key of its file,
-// or its row of a two-column CSV when by names a file. Members without a
-// group are told about on w and left out of group comparisons.
-func assignGroups(ms []*cohortMember, by string, w io.Writer) error {
+// or its row of a two-column CSV when by names a file, whose path it
+// returns ("" for a key). Members without a group are told about on w and
+// left out of group comparisons.
+func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 	if by == "" {
-		return nil
+		return "", nil
 	}
+	file := ""
 	if st, err := os.Stat(by); err == nil && st.Mode().IsRegular() {
 		table, err := readGroupTable(by)
 		if err != nil {
-			return err
+			return "", err
 		}
 		for _, m := range ms {
 			m.group = groupOf(table, m.file)
 		}
+		file = by
 	} else {
 		key := strings.ToLower(strings.TrimSpace(by))
 		for _, m := range ms {
@@ -246,7 +254,7 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) error {
 			fmt.Fprintf(w, "weft: %s has no group for --group-by %s; it is left out of the group comparisons\n", m.file, by)
 		}
 	}
-	return nil
+	return file, nil
 }
 
 // readGroupTable reads a two-column CSV of file and group; a first row
@@ -502,4 +510,79 @@ func writeFitData(o *fitOutcome, od safeout.Sink) error {
 		return err
 	}
 	return od.Write("heldout.csv", buf.Bytes())
+}
+
+// cohortTrace records what made a cohort's outputs: each specimen's card
+// records its own file as 'weft fit' would, the population and
+// mean-parameter cards the files they were made from, and cohort.json
+// every file read, with the options that decide each.
+type cohortTrace struct {
+	co      *cohortOptions
+	members []*cohortMember
+	cohort  *aniso.Cohort
+	// form are the options of the model form (formOptionList);
+	// groupFile the --group-by table, "" when groups come from metadata.
+	form      []string
+	groupFile string
+}
+
+// cohortCommand names the writer in every record of a cohort.
+const cohortCommand = "weft cohort"
+
+// record sets the provenance of every card and of the summary's input.
+// Each file is hashed once.
+func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card) error {
+	var refs []inputRef
+	var read []*cohortMember
+	for _, m := range t.members {
+		if m.spec != nil {
+			refs = append(refs, inputRef{filepath.FromSlash(m.file), m.spec.Sheet})
+			read = append(read, m)
+		}
+	}
+	if t.groupFile != "" {
+		refs = append(refs, inputRef{t.groupFile, ""})
+	}
+	hashed, err := hashInputs(refs)
+	if err != nil {
+		return err
+	}
+	inputOf := map[*cohortMember]card.InputFile{}
+	for i, m := range read {
+		inputOf[m] = hashed[i]
+	}
+	options := append(readOptionList(t.co.read, t.co.read.Sheet), t.form...)
+	var fitted, pooled []card.InputFile
+	inPopulation := map[int]bool{}
+	for _, i := range t.cohort.InPopulation {
+		inPopulation[i] = true
+	}
+	for _, m := range t.members {
+		cd, ok := cards[m.folder]
+		if !ok {
+			continue
+		}
+		own := inputOf[m]
+		cd.Provenance = newProvenance(cohortCommand, append(readOptionList(t.co.read, m.spec.Sheet), t.form...), []card.InputFile{own})
+		fitted = append(fitted, own)
+		if inPopulation[m.at] {
+			pooled = append(pooled, own)
+		}
+	}
+	if cd := cards[cohortreport.PopulationCard]; cd != nil {
+		cd.Provenance = newProvenance(cohortCommand, options, pooled)
+	}
+	if cd := cards[cohortreport.MeanCard]; cd != nil {
+		cd.Provenance = newProvenance(cohortCommand, options, fitted)
+	}
+	all := options
+	if t.co.groupBy != "" {
+		by := t.co.groupBy
+		if t.groupFile != "" {
+			by = filepath.Base(t.groupFile)
+		}
+		all = append(append([]string(nil), options...), "--group-by="+by)
+	}
+	in.Provenance = newProvenance(cohortCommand, all, hashed)
+	return nil
 }

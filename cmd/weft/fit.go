@@ -310,6 +310,7 @@ func runFit(ff *fitOptions) error {
 			j.od.Close()
 		}
 	}()
+	form := formOptionList(ff, st, chosen)
 	var outcomes []*fitOutcome
 	for _, j := range jobs {
 		if j.err != nil {
@@ -317,7 +318,7 @@ func runFit(ff *fitOptions) error {
 		}
 		o, err := fitOne(j.spec, st, chosen, ff)
 		if err == nil {
-			o.card.Provenance, err = fitProvenance(j.path, ff)
+			o.card.Provenance, err = fitProvenance(j.path, j.spec, ff.read, form)
 		}
 		if err == nil {
 			o.dir, o.png = j.dir, ff.png

@@ -67,6 +67,27 @@ func TestPlanDemoMembrane(t *testing.T) {
 		t.Errorf("the first-ranked test decides %q", first.Decides)
 	}
 	checkPlannedPath(t, path, first, pl.Points)
+	// Every candidate writes outside[], empty as [] when the test stays
+	// inside the fitted range.
+	var keys struct {
+		Candidates []map[string]json.RawMessage `json:"candidates"`
+	}
+	if err := json.Unmarshal([]byte(raw), &keys); err != nil {
+		t.Fatal(err)
+	}
+	inside := 0
+	for _, c := range keys.Candidates {
+		o, ok := c["outside"]
+		switch {
+		case !ok || string(o) == "null":
+			t.Fatalf("a candidate without outside[]: %s", o)
+		case string(o) == "[]":
+			inside++
+		}
+	}
+	if inside == 0 {
+		t.Error("no candidate stays inside the fitted range; outside[] written as [] is not exercised")
+	}
 	if b, err := os.ReadFile(svg); err != nil || !bytes.Contains(b, []byte("<svg")) {
 		t.Errorf("the plot is not an SVG file (%v)", err)
 	}

@@ -11,6 +11,7 @@ import (
 	"sort"
 	"strconv"
 
+	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
@@ -63,29 +64,59 @@ func hashFile(path string) (int64, string, error) {
 	return n, hex.EncodeToString(h.Sum(nil)), nil
 }
 
-// fitProvenance says what made the card of a fit of the file at path: this
-// build, the options that decide the result, and the file's name, size
-// and SHA-256. A file that cannot be read again (it was read a moment ago)
-// is an error.
-func fitProvenance(path string, ff *fitOptions) (*card.Provenance, error) {
-	p := buildVersion()
-	p.Command = "weft fit"
-	p.Options = fitOptionList(ff)
-	n, sum, err := hashFile(path)
-	if err != nil {
-		return nil, fmt.Errorf("cannot read %s again to record its SHA-256 (%s)", path, safeout.Reason(err))
+// inputRef is one input file to record: its path and the workbook sheet
+// read ("" for CSV).
+type inputRef struct{ path, sheet string }
+
+// hashInputs records each input by base name, sheet, size and SHA-256, in
+// the order given. A file that cannot be read again (it was read a moment
+// ago) is an error.
+func hashInputs(refs []inputRef) ([]card.InputFile, error) {
+	out := make([]card.InputFile, 0, len(refs))
+	for _, r := range refs {
+		n, sum, err := hashFile(r.path)
+		if err != nil {
+			return nil, fmt.Errorf("cannot read %s again to record its SHA-256 (%s)", r.path, safeout.Reason(err))
+		}
+		out = append(out, card.InputFile{File: filepath.Base(r.path), Sheet: r.sheet, Bytes: n, SHA256: sum})
 	}
-	p.Inputs = []card.InputFile{{File: filepath.Base(path), Sheet: ff.read.Sheet, Bytes: n, SHA256: sum}}
-	return &p, nil
+	return out, nil
 }
 
-// fitOptionList writes every option of a fit that decides its result, the
-// defaults included, as they would be typed.
-func fitOptionList(ff *fitOptions) []string {
-	o := ff.read
+// newProvenance says what made a card or a summary: this build, the
+// command, the options that decide the result and the inputs.
+func newProvenance(command string, options []string, inputs []card.InputFile) *card.Provenance {
+	p := buildVersion()
+	p.Command, p.Options, p.Inputs = command, options, inputs
+	if p.Options == nil {
+		p.Options = []string{}
+	}
+	if p.Inputs == nil {
+		p.Inputs = []card.InputFile{}
+	}
+	return &p
+}
+
+// fitProvenance says what made the card of a fit of the file at path,
+// read as spec: this build, the options that decide the result (form
+// holds those of the model form, formOptionList) and the file's name,
+// sheet, size and SHA-256.
+func fitProvenance(path string, spec *biaxial.Specimen, o biaxial.Options, form []string) (*card.Provenance, error) {
+	in, err := hashInputs([]inputRef{{path, spec.Sheet}})
+	if err != nil {
+		return nil, err
+	}
+	return newProvenance("weft fit", append(readOptionList(o, spec.Sheet), form...), in), nil
+}
+
+// readOptionList writes every option of reading a test file that decides
+// the result, the defaults included, as they would be typed; sheet is the
+// workbook sheet read ("" for CSV, or for several files of either kind).
+// Protocols without a --protocol-weight weigh 1 and are not listed.
+func readOptionList(o biaxial.Options, sheet string) []string {
 	var out []string
-	if o.Sheet != "" {
-		out = append(out, "--sheet="+o.Sheet)
+	if sheet != "" {
+		out = append(out, "--sheet="+sheet)
 	}
 	cycle := strconv.Itoa(o.Cycle)
 	switch o.Cycle {
@@ -94,13 +125,8 @@ func fitOptionList(ff *fitOptions) []string {
 	case biaxial.CycleAll:
 		cycle = "all"
 	}
-	out = append(out, "--cycle="+cycle, "--branch="+o.Branch.String())
-	if o.Rereference {
-		out = append(out, "--rereference")
-	}
-	if o.Resample > 0 {
-		out = append(out, "--resample="+strconv.Itoa(o.Resample))
-	}
+	out = append(out, "--cycle="+cycle, "--branch="+o.Branch.String(),
+		"--rereference="+strconv.FormatBool(o.Rereference), "--resample="+strconv.Itoa(o.Resample))
 	var labels []string
 	for l := range o.ProtocolWeights {
 		labels = append(labels, l)
@@ -109,29 +135,54 @@ func fitOptionList(ff *fitOptions) []string {
 	for _, l := range labels {
 		out = append(out, "--protocol-weight="+l+"="+strconv.FormatFloat(o.ProtocolWeights[l], 'g', -1, 64))
 	}
-	switch {
-	case ff.preset != "":
+	return out
+}
+
+// formOptionList writes the options that decide the model form, each as
+// resolved (defaults included) wherever it applies: st is the form
+// structureFromFlags read from ff and chosen false for discovery.
+func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
+	if !chosen {
+		// Discovery tries in-plane dispersion besides ideal families
+		// unless told otherwise.
+		disp := ff.dispersion
+		if disp == "" {
+			disp = "in-plane"
+		}
+		return []string{"--max-terms=" + strconv.Itoa(ff.maxTerms), "--dispersion=" + disp}
+	}
+	var out []string
+	families := 0
+	switch st.Layout {
+	case aniso.LayoutSingle:
+		families = 1
+	case aniso.LayoutMirror, aniso.LayoutFree:
+		families = 2
+	}
+	if ff.preset != "" {
 		out = append(out, "--preset="+ff.preset)
-		if ff.pairAxis != "" {
-			out = append(out, "--pair-axis="+ff.pairAxis)
+	} else {
+		out = append(out, "--terms="+ff.termIDs, "--families="+strconv.Itoa(families))
+		if families == 2 {
+			out = append(out, "--layout="+ff.layout)
 		}
-	case ff.termIDs != "":
-		out = append(out, "--terms="+ff.termIDs)
-		if ff.families >= 0 {
-			out = append(out, "--families="+strconv.Itoa(ff.families))
+		if families > 0 {
+			disp := "none"
+			switch {
+			case st.Planar:
+				disp = "in-plane"
+			case st.Dispersion:
+				disp = "kappa"
+			}
+			out = append(out, "--dispersion="+disp)
 		}
-		out = append(out, "--layout="+ff.layout)
-		if ff.dispersion != "" {
-			out = append(out, "--dispersion="+ff.dispersion)
+	}
+	if st.Layout == aniso.LayoutMirror {
+		axis := "free"
+		if st.HoldPairAxis {
+			axis = "axis-1"
 		}
-		if ff.pairAxis != "" {
-			out = append(out, "--pair-axis="+ff.pairAxis)
-		}
-	default:
-		out = append(out, "--max-terms="+strconv.Itoa(ff.maxTerms))
-		if ff.dispersion != "" {
-			out = append(out, "--dispersion="+ff.dispersion)
-		}
+		out = append(out, "--pair-axis="+axis)
 	}
 	return out
 }

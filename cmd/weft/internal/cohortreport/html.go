@@ -61,6 +61,10 @@ type pageView struct {
 	Largest               htmlTable
 	CurveFigure           *htmlFigure
 	FileList              []string
+	// Version is weft's version as the cohort records it ("" when not
+	// recorded); Trace what made the cohort, as the fit report shows it.
+	Version string
+	Trace   []report.Fact
 }
 
 //go:embed cohort.html
@@ -113,7 +117,10 @@ func cell(x card.Num, n int) string {
 }
 
 func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pageView {
-	v := &pageView{Title: title, Files: len(s.Specimens), Cautions: s.Cautions, Notes: s.Notes}
+	v := &pageView{Title: title, Files: len(s.Specimens), Cautions: s.Cautions, Notes: s.Notes, Trace: report.TraceFacts(s.Provenance, "")}
+	if p := s.Provenance; p != nil {
+		v.Version = p.VersionText()
+	}
 	for i, r := range s.Specimens {
 		if r.Status == StatusOK {
 			v.OK++

@@ -49,6 +49,10 @@ type Input struct {
 	// StressUnit and StressKind those of the cohort.
 	Population, MeanParameters *aniso.Model
 	StressUnit, StressKind     string
+	// Provenance says what made the cohort: the program and its version,
+	// the options that decide the result and every file read; nil when
+	// not recorded.
+	Provenance *card.Provenance
 }
 
 // Summary is cohort.json.
@@ -66,6 +70,8 @@ type Summary struct {
 	Comparisons []Comparison    `json:"comparisons"`
 	Population  *PopulationInfo `json:"population"`
 	Notes       []string        `json:"notes"`
+	// Provenance is Input.Provenance.
+	Provenance *card.Provenance `json:"provenance"`
 }
 
 // FormInfo is the shared model form.
@@ -197,6 +203,7 @@ func Build(in *Input) *Summary {
 	s.compare(in, values)
 	s.Population = populationInfo(in)
 	s.Notes = append(s.Notes, statisticsNotes...)
+	s.Provenance = in.Provenance
 	return s
 }
 

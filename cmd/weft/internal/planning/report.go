@@ -83,7 +83,9 @@ type Candidate struct {
 	// Decides lists the questions the test settles.
 	Decides      []string `json:"decides"`
 	Extrapolates bool     `json:"extrapolates"`
-	Outside      []string `json:"outside,omitempty"`
+	// Outside says where the test leaves the fitted data range (empty,
+	// and written as [], when it stays inside).
+	Outside []string `json:"outside"`
 	// PeakStretch1 and PeakStretch2 are the target stretches of the
 	// tester's axes at the peak.
 	PeakStretch1 card.Num `json:"peak_stretch_1"`
@@ -143,7 +145,7 @@ func newPlanCandidate(rank int, ts *aniso.TestScore, d *aniso.Design) Candidate 
 	peak := t.Path[len(t.Path)-1]
 	pc := Candidate{Rank: rank, Test: t.Describe(), Protocol: t.Label, MountingDeg: t.MountingDeg, Sutured: t.Sutured, ShearMeasured: t.ShearMeasured,
 		Discrimination: card.Num(math.NaN()), Separation: card.Num(math.NaN()), Questions: []Score{}, Decides: []string{},
-		InformationGain: card.Num(ts.InformationGain), IntervalShrink: map[string]card.Num{}, Extrapolates: ts.Extrapolates, Outside: ts.Outside,
+		InformationGain: card.Num(ts.InformationGain), IntervalShrink: map[string]card.Num{}, Extrapolates: ts.Extrapolates, Outside: append([]string{}, ts.Outside...),
 		PeakStretch1: card.Num(peak[0]), PeakStretch2: card.Num(peak[3])}
 	for _, s := range ts.Shrink {
 		pc.IntervalShrink[s.Name] = card.Num(s.Fraction)

@@ -1,12 +1,16 @@
 package report
 
 import (
+	"fmt"
 	"html/template"
 	"image/color"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"github.com/weft-tools/weft/aniso/card"
 )
 
 // The drawing of the fit report, for other pages of weft (the cohort
@@ -99,3 +103,36 @@ func GroupColor(i int) color.NRGBA {
 // StressLabel is the stress axis label of a measure ("cauchy" or
 // "nominal") and unit.
 func StressLabel(kind, unit string) string { return stressAxis(kind, unit) }
+
+// Fact is one line of a page's definition list; Mono sets the value in a
+// fixed-width face (hashes, command lines).
+type Fact struct {
+	Name, Value string
+	Mono        bool
+}
+
+// TraceFacts lists what made a card, as the fit report shows it under
+// "Traceability": the program and its version, the command with its
+// options, and each input by name, SHA-256 and size. p nil says the card
+// predates provenance; drawnBy, when not empty, is the version of the
+// program drawing the page.
+func TraceFacts(p *card.Provenance, drawnBy string) []Fact {
+	var out []Fact
+	if p == nil {
+		out = append(out, Fact{Name: "Fitted by", Value: "not recorded (a card written before weft recorded its provenance)"})
+	} else {
+		out = append(out, Fact{Name: "Fitted by", Value: p.Software + " " + p.VersionText()},
+			Fact{Name: "Command", Value: p.Command + " " + strings.Join(p.Options, " "), Mono: true})
+		for _, f := range p.Inputs {
+			name := f.File
+			if f.Sheet != "" {
+				name += ", sheet " + f.Sheet
+			}
+			out = append(out, Fact{Name: "Input " + name, Value: fmt.Sprintf("SHA-256 %s, %d bytes", f.SHA256, f.Bytes), Mono: true})
+		}
+	}
+	if drawnBy != "" {
+		out = append(out, Fact{Name: "Report drawn by", Value: "weft " + drawnBy})
+	}
+	return out
+}

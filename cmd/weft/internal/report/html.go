@@ -68,13 +68,6 @@ type htmlFigure struct {
 	Files              string
 }
 
-// htmlFact is one line of a definition list; Mono sets the value in a
-// fixed-width face (hashes, command lines).
-type htmlFact struct {
-	Name, Value string
-	Mono        bool
-}
-
 // reportView is everything the page template shows, already formatted.
 type reportView struct {
 	Specimen, Tissue, DataNotes string
@@ -83,14 +76,14 @@ type reportView struct {
 	Limits                      string
 
 	HowFound     string
-	Summary      []htmlFact
+	Summary      []Fact
 	GlanceFigure *htmlFigure
 	GlanceEnergy template.HTML
 
-	Data              []htmlFact
+	Data              []Fact
 	Protocols         htmlTable
 	Warnings, Notices []string
-	Range             []htmlFact
+	Range             []Fact
 	RawFigure         *htmlFigure
 
 	EnergyPlain  string
@@ -130,9 +123,9 @@ type reportView struct {
 
 	Methods    template.HTML
 	References []string
-	Trace      []htmlFact
+	Trace      []Fact
 
-	Conventions []htmlFact
+	Conventions []Fact
 	Files       []string
 
 	figs map[string]*htmlFigure

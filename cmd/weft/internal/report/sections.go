@@ -443,21 +443,5 @@ func methodReferences(discovered bool) []string {
 
 // traceability writes what made the card and the report.
 func (in *Input) traceability(v *reportView, o Options) {
-	p := in.card.Provenance
-	if p == nil {
-		v.Trace = append(v.Trace, htmlFact{Name: "Fitted by", Value: "not recorded (a card written before weft recorded its provenance)"})
-	} else {
-		v.Trace = append(v.Trace, htmlFact{Name: "Fitted by", Value: p.Software + " " + p.VersionText()},
-			htmlFact{Name: "Command", Value: p.Command + " " + strings.Join(p.Options, " "), Mono: true})
-		for _, f := range p.Inputs {
-			name := f.File
-			if f.Sheet != "" {
-				name += ", sheet " + f.Sheet
-			}
-			v.Trace = append(v.Trace, htmlFact{Name: "Input " + name, Value: fmt.Sprintf("SHA-256 %s, %d bytes", f.SHA256, f.Bytes), Mono: true})
-		}
-	}
-	if o.Software != "" {
-		v.Trace = append(v.Trace, htmlFact{Name: "Report drawn by", Value: "weft " + o.Software})
-	}
+	v.Trace = append(v.Trace, TraceFacts(in.card.Provenance, o.Software)...)
 }

@@ -80,24 +80,24 @@ func (in *Input) glance(v *reportView) {
 	if pair := PairText(c.Layout); pair != "" {
 		fams += "; " + pair
 	}
-	v.Summary = []htmlFact{{Name: "Model", Value: how}}
-	v.Summary = append(v.Summary, htmlFact{Name: "Fibre families", Value: fams})
+	v.Summary = []Fact{{Name: "Model", Value: how}}
+	v.Summary = append(v.Summary, Fact{Name: "Fibre families", Value: fams})
 	if in.verdict != nil {
-		v.Summary = append(v.Summary, htmlFact{Name: "Family verdict", Value: verdictText(in.verdict.Families)})
+		v.Summary = append(v.Summary, Fact{Name: "Family verdict", Value: verdictText(in.verdict.Families)})
 	}
 	if low := lowestR2(fs.Metrics); !math.IsInf(low, 1) {
-		v.Summary = append(v.Summary, htmlFact{Name: "Lowest R² (any protocol and component)", Value: fmtR2(low)})
+		v.Summary = append(v.Summary, Fact{Name: "Lowest R² (any protocol and component)", Value: fmtR2(low)})
 	}
 	if in.sel != nil {
 		for _, cc := range in.sel.Pareto {
 			if cc.Chosen {
-				v.Summary = append(v.Summary, htmlFact{Name: "Held-out error", Value: heldoutText(cc) + " (leave one protocol out; 0.01 ≈ 1 % of a protocol-axis stress range)"})
+				v.Summary = append(v.Summary, Fact{Name: "Held-out error", Value: heldoutText(cc) + " (leave one protocol out; 0.01 ≈ 1 % of a protocol-axis stress range)"})
 			}
 		}
 	}
-	v.Summary = append(v.Summary, htmlFact{Name: "Data", Value: fmt.Sprintf("%d protocols, %d points fitted, %s stress in %s", len(in.table.protocols), in.pointCount(), d.StressKind, d.StressUnit)})
+	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%d protocols, %d points fitted, %s stress in %s", len(in.table.protocols), in.pointCount(), d.StressKind, d.StressUnit)})
 	if p := c.Provenance; p != nil {
-		v.Summary = append(v.Summary, htmlFact{Name: "Fitted by", Value: "weft " + p.VersionText()})
+		v.Summary = append(v.Summary, Fact{Name: "Fitted by", Value: "weft " + p.VersionText()})
 	}
 	// The energy heads the page when it is short; a long one is in "Model
 	// and parameters".
@@ -158,29 +158,29 @@ func (in *Input) dataSection(v *reportView) {
 	if d.HasShear {
 		shear = "present (F12, F21 or shear stress measured)"
 	}
-	v.Data = []htmlFact{{Name: "Specimen", Value: d.Specimen}, {Name: "Source file", Value: d.Source}}
+	v.Data = []Fact{{Name: "Specimen", Value: d.Specimen}, {Name: "Source file", Value: d.Source}}
 	if p := c.Provenance; p != nil {
 		for _, f := range p.Inputs {
 			if f.File == d.Source {
-				v.Data = append(v.Data, htmlFact{Name: "SHA-256 of the source", Value: f.SHA256, Mono: true}, htmlFact{Name: "Size", Value: fmt.Sprintf("%d bytes", f.Bytes)})
+				v.Data = append(v.Data, Fact{Name: "SHA-256 of the source", Value: f.SHA256, Mono: true}, Fact{Name: "Size", Value: fmt.Sprintf("%d bytes", f.Bytes)})
 			}
 		}
 	}
 	if d.Sheet != "" {
-		v.Data = append(v.Data, htmlFact{Name: "Sheet", Value: d.Sheet})
+		v.Data = append(v.Data, Fact{Name: "Sheet", Value: d.Sheet})
 	}
 	if d.Tissue != "" {
-		v.Data = append(v.Data, htmlFact{Name: "Tissue", Value: d.Tissue})
+		v.Data = append(v.Data, Fact{Name: "Tissue", Value: d.Tissue})
 	}
 	if d.Notes != "" {
-		v.Data = append(v.Data, htmlFact{Name: "Notes", Value: d.Notes})
+		v.Data = append(v.Data, Fact{Name: "Notes", Value: d.Notes})
 	}
 	if d.Axis1 != "" {
-		v.Data = append(v.Data, htmlFact{Name: "Axis 1", Value: d.Axis1})
+		v.Data = append(v.Data, Fact{Name: "Axis 1", Value: d.Axis1})
 	}
 	in.setupFacts(v)
-	v.Data = append(v.Data, htmlFact{Name: "Stress", Value: d.StressKind + " stress in " + d.StressUnit}, htmlFact{Name: "Reference state", Value: d.Reference},
-		htmlFact{Name: "Shear information", Value: shear})
+	v.Data = append(v.Data, Fact{Name: "Stress", Value: d.StressKind + " stress in " + d.StressUnit}, Fact{Name: "Reference state", Value: d.Reference},
+		Fact{Name: "Shear information", Value: shear})
 	v.Protocols = htmlTable{Head: []string{"protocol", "points fitted", "kept", "cycles", "protocol weight"}, Num: []bool{false, true, false, true, true}}
 	if in.raw != nil {
 		v.Protocols.Head = append(v.Protocols.Head, "preload (first row)")
@@ -196,13 +196,13 @@ func (in *Input) dataSection(v *reportView) {
 	v.Warnings, v.Notices = d.Warnings, d.Notices
 	if dr := in.dataRange; dr != nil {
 		rng := func(r [2]float64) string { return fsig(r[0], 4) + " to " + fsig(r[1], 4) }
-		v.Range = []htmlFact{{Name: "Stretch λ1 (F11)", Value: rng(dr.Stretch1)}, {Name: "Stretch λ2 (F22)", Value: rng(dr.Stretch2)}, {Name: "Shear F12, F21", Value: rng(dr.Shear)}}
+		v.Range = []Fact{{Name: "Stretch λ1 (F11)", Value: rng(dr.Stretch1)}, {Name: "Stretch λ2 (F22)", Value: rng(dr.Stretch2)}, {Name: "Shear F12, F21", Value: rng(dr.Shear)}}
 		for i, r := range dr.FibreStretch {
 			name := fmt.Sprintf("family %d", i+1)
 			if i < len(c.Families) {
 				name = c.Families[i].Name
 			}
-			v.Range = append(v.Range, htmlFact{Name: "Fibre stretch √I4 of " + name, Value: rng(r)})
+			v.Range = append(v.Range, Fact{Name: "Fibre stretch √I4 of " + name, Value: rng(r)})
 		}
 	}
 	v.RawFigure = v.fig("raw")
@@ -215,10 +215,10 @@ func (in *Input) setupFacts(v *reportView) {
 		return
 	}
 	if st.ThicknessMM != nil && st.Size1MM != nil && st.Size2MM != nil {
-		v.Data = append(v.Data, htmlFact{Name: "Geometry", Value: fmt.Sprintf("thickness H = %s mm; loaded region W1 = %s mm along axis 1, W2 = %s mm along axis 2",
+		v.Data = append(v.Data, Fact{Name: "Geometry", Value: fmt.Sprintf("thickness H = %s mm; loaded region W1 = %s mm along axis 1, W2 = %s mm along axis 2",
 			fsig(*st.ThicknessMM, 3), fsig(*st.Size1MM, 3), fsig(*st.Size2MM, 3))})
 	} else {
-		v.Data = append(v.Data, htmlFact{Name: "Geometry", Value: "not given in the file (thickness, size_1, size_2)"})
+		v.Data = append(v.Data, Fact{Name: "Geometry", Value: "not given in the file (thickness, size_1, size_2)"})
 	}
 	how := "stress columns of the file"
 	if st.StressFrom == "loads and geometry" {
@@ -232,9 +232,9 @@ func (in *Input) setupFacts(v *reportView) {
 	if control == "" {
 		control = "not stated in the file (metadata 'control')"
 	}
-	v.Data = append(v.Data, htmlFact{Name: "Stress from", Value: how}, htmlFact{Name: "Deformation from", Value: kin}, htmlFact{Name: "Control", Value: control})
+	v.Data = append(v.Data, Fact{Name: "Stress from", Value: how}, Fact{Name: "Deformation from", Value: kin}, Fact{Name: "Control", Value: control})
 	for _, m := range st.Metadata {
-		v.Data = append(v.Data, htmlFact{Name: m.Key, Value: m.Value})
+		v.Data = append(v.Data, Fact{Name: m.Key, Value: m.Value})
 	}
 }
 
@@ -608,15 +608,15 @@ func (in *Input) conventionsSection(v *reportView) {
 	// The conventions needed to read this report's numbers; the card
 	// states every convention (model.json, key "conventions").
 	if cv := c.Conventions; cv != nil {
-		v.Conventions = []htmlFact{{Name: "Angle", Value: cv.Angle}, {Name: "Kinematics", Value: cv.Kinematics}, {Name: "Invariants", Value: cv.Invariants}, {Name: "Energy", Value: cv.Energy},
+		v.Conventions = []Fact{{Name: "Angle", Value: cv.Angle}, {Name: "Kinematics", Value: cv.Kinematics}, {Name: "Invariants", Value: cv.Invariants}, {Name: "Energy", Value: cv.Energy},
 			{Name: "Fibre switch", Value: cv.FibreSwitch}}
 		if c.Layout != nil && in.fit.Dispersion {
-			v.Conventions = append(v.Conventions, htmlFact{Name: "Dispersion", Value: cv.Dispersion})
+			v.Conventions = append(v.Conventions, Fact{Name: "Dispersion", Value: cv.Dispersion})
 		}
 		if in.fit.InPlane && cv.InPlane != "" {
-			v.Conventions = append(v.Conventions, htmlFact{Name: "In-plane dispersion", Value: cv.InPlane})
+			v.Conventions = append(v.Conventions, Fact{Name: "In-plane dispersion", Value: cv.InPlane})
 		}
-		v.Conventions = append(v.Conventions, htmlFact{Name: "Stress", Value: cv.Stress})
+		v.Conventions = append(v.Conventions, Fact{Name: "Stress", Value: cv.Stress})
 	}
 }
 

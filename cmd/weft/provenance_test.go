@@ -1,0 +1,166 @@
+package main
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/json"
+	"fmt"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+// readCardFile reads a model card written by weft.
+func readCardFile(t *testing.T, path string) (*card.Card, []byte) {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, _, err := card.Parse(bytes.NewReader(b), path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return c, b
+}
+
+// sha256Of is the SHA-256 of a file computed here by the standard library
+// (FIPS 180-4), independently of weft's streaming hash.
+func sha256Of(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return fmt.Sprintf("%x", sha256.Sum256(b))
+}
+
+// The options a card records are the resolved ones, defaults included,
+// wherever they decide the result, in a fixed order: discovery's in-plane
+// dispersion, a mirror pair's axis, a --terms form's number of families.
+func TestFormOptionsResolved(t *testing.T) {
+	cases := []struct {
+		name string
+		ff   fitOptions
+		want []string
+	}{
+		{"discovery", fitOptions{maxTerms: 5, families: -1, layout: "free"}, []string{"--max-terms=5", "--dispersion=in-plane"}},
+		{"discovery, ideal families", fitOptions{maxTerms: 3, families: -1, layout: "free", dispersion: "none"}, []string{"--max-terms=3", "--dispersion=none"}},
+		{"hgo", fitOptions{preset: "hgo", families: -1, layout: "free"}, []string{"--preset=hgo", "--pair-axis=axis-1"}},
+		{"hgo, free axis", fitOptions{preset: "hgo", families: -1, layout: "free", pairAxis: "free"}, []string{"--preset=hgo", "--pair-axis=free"}},
+		{"neo-hookean", fitOptions{preset: "neo-hookean", families: -1, layout: "free"}, []string{"--preset=neo-hookean"}},
+		{"terms, one family", fitOptions{termIDs: "i1-lin,fib-expsq", families: -1, layout: "free"},
+			[]string{"--terms=i1-lin,fib-expsq", "--families=1", "--dispersion=none"}},
+		{"terms, mirror", fitOptions{termIDs: "i1-lin,fib-expsq", families: 2, layout: "mirror", dispersion: "in-plane"},
+			[]string{"--terms=i1-lin,fib-expsq", "--families=2", "--layout=mirror", "--dispersion=in-plane", "--pair-axis=axis-1"}},
+		{"terms, matrix only", fitOptions{termIDs: "i1-lin", families: -1, layout: "free"}, []string{"--terms=i1-lin", "--families=0"}},
+	}
+	for _, c := range cases {
+		st, chosen, err := structureFromFlags(&c.ff)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if got := formOptionList(&c.ff, st, chosen); !slices.Equal(got, c.want) {
+			t.Errorf("%s: options %q, want %q", c.name, got, c.want)
+		}
+	}
+}
+
+// A default discovery card records every default that decides its result,
+// the in-plane dispersion discovery tries among them, and M1's verdict,
+// which rules nothing out, writes verdict.ruled_out as [].
+func TestDiscoveryCardRecordsDefaults(t *testing.T) {
+	t.Parallel()
+	c, raw := readCardFile(t, filepath.Join(demoFits(t).dir, "membrane-M1.weft", "model.json"))
+	want := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--max-terms=5", "--dispersion=in-plane"}
+	if c.Provenance == nil || !slices.Equal(c.Provenance.Options, want) {
+		t.Fatalf("provenance %+v, want options %q", c.Provenance, want)
+	}
+	var keys struct {
+		Verdict map[string]json.RawMessage `json:"verdict"`
+	}
+	if err := json.Unmarshal(raw, &keys); err != nil {
+		t.Fatal(err)
+	}
+	if got := string(keys.Verdict["ruled_out"]); got != "[]" {
+		t.Errorf("verdict.ruled_out is %q, want []", got)
+	}
+}
+
+// A --preset hgo card records the pair's axis it held, though not typed.
+func TestPresetCardRecordsPairAxis(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	data := quickData(t, dir, "s.csv")
+	out := filepath.Join(dir, "s.weft")
+	if _, stderr, code := runWeft(t, "fit", data, "--preset", "hgo", "-o", out, "--quiet"); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	c, _ := readCardFile(t, filepath.Join(out, "model.json"))
+	if c.Provenance == nil || !slices.Contains(c.Provenance.Options, "--pair-axis=axis-1") || !slices.Contains(c.Provenance.Options, "--preset=hgo") {
+		t.Errorf("provenance %+v, want --preset=hgo and --pair-axis=axis-1", c.Provenance)
+	}
+}
+
+// Every card a cohort writes and cohort.json record the version, the
+// options and the SHA-256 of their inputs: each specimen's card its own
+// file, as weft fit records it, population.json the files pooled,
+// cohort.json every file read; the cohort report shows the version.
+func TestCohortProvenance(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 2, 10, 5, cohortPopulation{"A", 25, 30}, cohortPopulation{"B", 25, 45})
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--group-by", "group", "--preset", "hgo", "--no-specimen-reports"}
+	var files []string
+	for _, s := range sp {
+		args = append(args, s.file)
+		files = append(files, s.file)
+	}
+	slices.Sort(files)
+	if _, stderr, code := runWeft(t, args...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	options := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--preset=hgo", "--pair-axis=axis-1"}
+	check := func(what string, p *card.Provenance, opts []string, inputs []string) {
+		t.Helper()
+		if p == nil {
+			t.Fatalf("%s records no provenance", what)
+		}
+		if p.Software != "weft" || p.VersionText() != versionText() || p.Command != "weft cohort" || !slices.Equal(p.Options, opts) {
+			t.Errorf("%s: provenance %s %s, %s %q", what, p.Software, p.VersionText(), p.Command, p.Options)
+		}
+		if len(p.Inputs) != len(inputs) {
+			t.Fatalf("%s: %d inputs, want %d", what, len(p.Inputs), len(inputs))
+		}
+		for i, f := range inputs {
+			if in := p.Inputs[i]; in.File != filepath.Base(f) || in.SHA256 != sha256Of(t, f) {
+				t.Errorf("%s: input %d is %+v, want %s with SHA-256 %s", what, i, in, filepath.Base(f), sha256Of(t, f))
+			}
+		}
+	}
+	for _, f := range files {
+		name := strings.TrimSuffix(filepath.Base(f), ".csv")
+		c, _ := readCardFile(t, filepath.Join(out, name+".weft", "model.json"))
+		check(name+".weft/model.json", c.Provenance, options, []string{f})
+	}
+	for _, name := range []string{"population.json", "mean-parameters.json"} {
+		c, _ := readCardFile(t, filepath.Join(out, name))
+		check(name, c.Provenance, options, files)
+	}
+	s := readCohortJSON(t, out)
+	check("cohort.json", s.Provenance, append(slices.Clone(options), "--group-by=group"), files)
+	html, err := os.ReadFile(filepath.Join(out, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"written by weft " + htmlText(versionText()), sha256Of(t, files[0]), "weft cohort --cycle=last"} {
+		if !strings.Contains(string(html), want) {
+			t.Errorf("the cohort report lacks %q", want)
+		}
+	}
+}

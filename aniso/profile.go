@@ -39,16 +39,13 @@ func (r *Result) profiles(p *Problem, set Settings) {
 	jobs := make([]func(), len(idx))
 	for j, i := range idx {
 		jobs[j] = func() {
-			pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
-			if r.Structure.Planar {
-				// Profiles of a dispersed family re-optimise at every grid
-				// angle: they integrate with the search rule, shifted to
-				// agree with the fit at its optimum (a difference of about
-				// 1e-5 of the loss, far below the 95 % threshold's margin).
-				pe.cols.Search = true
-				pe.lossOffset = pe.eval(r.theta, false) - r.Loss
+			// One angle alone: its two halves (above and below the
+			// optimum) are profiled side by side, each on its own engine.
+			var twin *engine
+			if len(idx) == 1 {
+				twin = r.profileEngine(p)
 			}
-			out[j] = r.profileOne(pe, p, guideOn, i, set, fq)
+			out[j] = r.profileOne(r.profileEngine(p), twin, p, guideOn, i, set, fq)
 		}
 	}
 	(&pool{n: len(jobs)}).run(jobs)
@@ -72,6 +69,21 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		}
 		r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its loss profile stays below the 95 %% threshold over the angle's whole range, so the data exclude no angle%s", pr.Name, why))
 	}
+}
+
+// profileEngine returns an engine for profiling r on p. Profiles of a
+// dispersed family re-optimise at every grid angle: they integrate with
+// the search rule, shifted to agree with the fit at its optimum (a
+// difference of about 1e-5 of the loss, far below the 95 % threshold's
+// margin).
+func (r *Result) profileEngine(p *Problem) *engine {
+	e := r.e
+	pe := newEngine(p, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
+	if r.Structure.Planar {
+		pe.cols.Search = true
+		pe.lossOffset = pe.eval(r.theta, false) - r.Loss
+	}
+	return pe
 }
 
 // profileMinimum returns the lowest point any profile met, with its
@@ -113,6 +125,45 @@ type profiler struct {
 	// angle, with profileFarIterations (see sweep); 0 minimises every
 	// angle fully.
 	near float64
+	// twin, when set, profiles the angles below the optimum on an engine
+	// of its own while this one profiles those above (see halves).
+	twin *profiler
+}
+
+// lower returns the profiler of the angles below the optimum.
+func (pf *profiler) lower() *profiler {
+	if pf.twin != nil {
+		return pf.twin
+	}
+	return pf
+}
+
+// setNear sets near on pf and its twin.
+func (pf *profiler) setNear(near float64) {
+	pf.near = near
+	if pf.twin != nil {
+		pf.twin.near = near
+	}
+}
+
+// halves runs up (the angles above the optimum, on pf) and down (those
+// below, on pf.lower()) side by side when pf has a twin, else one after
+// the other. They touch disjoint grid angles and an engine's result does
+// not depend on what it evaluated before, so the profile is the same
+// either way.
+func (pf *profiler) halves(up, down func()) {
+	if pf.twin == nil {
+		up()
+		down()
+		return
+	}
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		down()
+	}()
+	up()
+	<-done
 }
 
 func newProfiler(r *Result, p *Problem, pe *engine, i int, set Settings) *profiler {
@@ -258,49 +309,55 @@ func (pf *profiler) sweep(grid []float64, c int, fitLoss float64, fitTheta []flo
 	loss[c] = fitLoss
 	thetas[c] = append([]float64(nil), fitTheta...)
 	thetas[c][pf.i] = grid[c]
-	improved := false
-	from := func(j, nb int) {
+	// improved[0] is the upper half's, improved[1] the lower half's.
+	var improved [2]bool
+	from := func(q *profiler, half, j, nb int) {
 		if j == c || nb < 0 || nb >= n || thetas[nb] == nil {
 			return
 		}
-		th, l := pf.place(grid[j], thetas[nb])
+		th, l := q.place(grid[j], thetas[nb])
 		if thetas[j] != nil && !(l < loss[j]) {
 			return
 		}
 		// Another round is worth its cost only for a change the interval
 		// could notice.
-		if thetas[j] != nil && l < loss[j]*(1-1e-6) && (pf.near <= 0 || l <= pf.near) {
-			improved = true
+		if thetas[j] != nil && l < loss[j]*(1-1e-6) && (q.near <= 0 || l <= q.near) {
+			improved[half] = true
 		}
 		loss[j], thetas[j] = l, th
 	}
-	for j := c + 1; j < n; j++ {
-		from(j, j-1)
+	lo := pf.lower()
+	outwards := func() {
+		pf.halves(func() {
+			for j := c + 1; j < n; j++ {
+				from(pf, 0, j, j-1)
+			}
+		}, func() {
+			for j := c - 1; j >= 0; j-- {
+				from(lo, 1, j, j+1)
+			}
+		})
 	}
-	for j := c - 1; j >= 0; j-- {
-		from(j, j+1)
-	}
+	outwards()
 	for round := 0; round < profileRounds; round++ {
-		improved = false
+		improved = [2]bool{}
 		if wraps {
-			from(n-1, 0)
-			from(0, n-1)
+			from(pf, 0, n-1, 0)
+			from(pf, 0, 0, n-1)
 		}
-		for j := n - 2; j > c; j-- {
-			from(j, j+1)
-		}
-		for j := 1; j < c; j++ {
-			from(j, j-1)
-		}
-		if !improved {
+		pf.halves(func() {
+			for j := n - 2; j > c; j-- {
+				from(pf, 0, j, j+1)
+			}
+		}, func() {
+			for j := 1; j < c; j++ {
+				from(lo, 1, j, j-1)
+			}
+		})
+		if !improved[0] && !improved[1] {
 			break
 		}
-		for j := c + 1; j < n; j++ {
-			from(j, j-1)
-		}
-		for j := c - 1; j >= 0; j-- {
-			from(j, j+1)
-		}
+		outwards()
 	}
 	return loss, thetas
 }
@@ -365,29 +422,33 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 	if profileFarMargins > 0 {
 		near = fitLoss * (1 + profileFarMargins*thrRel)
 	}
-	at := func(j, nb int) {
+	at := func(q *profiler, j, nb int) {
 		var th []float64
 		l := math.Inf(1)
 		if guide[j] != nil {
 			th = append([]float64(nil), guide[j]...)
-			th[pf.i] = grid[j]
-			l = pf.e.eval(th, false)
+			th[q.i] = grid[j]
+			l = q.e.eval(th, false)
 		}
-		if l > pf.offLoss && pf.offTheta != nil {
-			th, l = append([]float64(nil), pf.offTheta...), pf.offLoss
-			th[pf.i] = grid[j]
+		if l > q.offLoss && q.offTheta != nil {
+			th, l = append([]float64(nil), q.offTheta...), q.offLoss
+			th[q.i] = grid[j]
 		}
 		if !(l > near) || th == nil || math.IsInf(l, 1) {
-			th, l = pf.at(grid[j], guide[j], thetas[nb])
+			th, l = q.at(grid[j], guide[j], thetas[nb])
 		}
 		loss[j], thetas[j] = l, th
 	}
-	for j := c + 1; j < n; j++ {
-		at(j, j-1)
-	}
-	for j := c - 1; j >= 0; j-- {
-		at(j, j+1)
-	}
+	lo := pf.lower()
+	pf.halves(func() {
+		for j := c + 1; j < n; j++ {
+			at(pf, j, j-1)
+		}
+	}, func() {
+		for j := c - 1; j >= 0; j-- {
+			at(lo, j, j+1)
+		}
+	})
 	return loss, thetas
 }
 
@@ -475,7 +536,7 @@ func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
 }
 
 // profileOne profiles angle parameter i on engine pe.
-func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings, fq float64) AngleProfile {
+func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Settings, fq float64) AngleProfile {
 	step := Rad(set.ProfileStepDeg)
 	q := pe.params[i]
 	n, k := r.Rows, r.FreeParams
@@ -499,16 +560,21 @@ func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings
 	theta[i] = opt
 	grid, c := profileGrid(lo, hi, opt, step)
 	pf := newProfiler(r, p, pe, i, set)
+	if twin != nil {
+		tw := *pf
+		tw.e = twin
+		pf.twin = &tw
+	}
 	var loss []float64
 	var thetas [][]float64
 	if guide := r.profileGuide(guideOn, i, grid, c, theta, wraps); guide != nil {
 		loss, thetas = pf.guided(grid, c, r.Loss, theta, guide, fq/float64(n-k))
 	} else {
 		if profileFarMargins > 0 {
-			pf.near = r.Loss * (1 + profileFarMargins*fq/float64(n-k))
+			pf.setNear(r.Loss * (1 + profileFarMargins*fq/float64(n-k)))
 		}
 		loss, thetas = pf.sweep(grid, c, r.Loss, theta, wraps)
-		pf.near = 0
+		pf.setNear(0)
 	}
 	minLoss := r.Loss
 	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1)}
@@ -520,8 +586,8 @@ func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings
 	}
 	thr := minLoss * (1 + fq/float64(n-k))
 	pr.Threshold = thr
-	crossing := func(in, out int) float64 {
-		return Deg(pf.crossing(grid[in], grid[out], loss[in]-thr, loss[out]-thr, thetas[in], thetas[out], thr, step/256, 1e-2*(thr-minLoss)))
+	crossing := func(q *profiler, in, out int) float64 {
+		return Deg(q.crossing(grid[in], grid[out], loss[in]-thr, loss[out]-thr, thetas[in], thetas[out], thr, step/256, 1e-2*(thr-minLoss)))
 	}
 	loIdx, hiIdx := c, c
 	for loIdx > 0 && loss[loIdx-1] <= thr {
@@ -533,17 +599,22 @@ func (r *Result) profileOne(pe *engine, p, guideOn *Problem, i int, set Settings
 	// The ends of the half-angle's range and of |α| ∈ [0°, 90°] (no shear
 	// information) are natural ends of an interval; reaching an end of the
 	// period centred on the optimum means the data do not bound the angle.
+	pf.halves(func() {
+		if hiIdx < len(grid)-1 {
+			pr.HiDeg = crossing(pf, hiIdx, hiIdx+1)
+		}
+	}, func() {
+		if loIdx > 0 {
+			pr.LoDeg = crossing(pf.lower(), loIdx, loIdx-1)
+		}
+	})
 	if loIdx == 0 {
 		pr.LoDeg = Deg(grid[0])
 		pr.Closed = !wraps
-	} else {
-		pr.LoDeg = crossing(loIdx, loIdx-1)
 	}
 	if hiIdx == len(grid)-1 {
 		pr.HiDeg = Deg(grid[len(grid)-1])
 		pr.Closed = pr.Closed && !wraps
-	} else {
-		pr.HiDeg = crossing(hiIdx, hiIdx+1)
 	}
 	if loIdx == 0 && hiIdx == len(grid)-1 {
 		// Below the threshold over a whole period (or the whole range of

@@ -158,8 +158,7 @@ func runCohort(co *cohortOptions) error {
 	defer od.Close()
 	start := time.Now()
 	bar := newProgress(co.ErrOut, co.ErrIsTerminal, "fitting the cohort", co.quiet)
-	set := aniso.CohortSettings{Progress: bar.set, Discover: aniso.DiscoverSettings{MaxTerms: co.form.maxTerms,
-		NoPlanar: co.form.dispersion == "none" || co.form.dispersion == "kappa", Dispersion: co.form.dispersion == "kappa"}}
+	set := aniso.CohortSettings{Progress: bar.set, Discover: co.form.discoverSettings()}
 	if given {
 		set.Form = &st
 	}

@@ -44,6 +44,21 @@ type fitOptions struct {
 	png bool
 }
 
+// discoveryDispersion is the fibre spread discovery tries besides ideal
+// families: --dispersion as given, in-plane when it was not.
+func (ff *fitOptions) discoveryDispersion() string {
+	if ff.dispersion == "" {
+		return "in-plane"
+	}
+	return ff.dispersion
+}
+
+// discoverSettings are the discovery settings the flags choose.
+func (ff *fitOptions) discoverSettings() aniso.DiscoverSettings {
+	disp := ff.discoveryDispersion()
+	return aniso.DiscoverSettings{MaxTerms: ff.maxTerms, NoPlanar: disp != "in-plane", Dispersion: disp == "kappa"}
+}
+
 func newFitCmd(s *streams) *cobra.Command {
 	ff := &fitOptions{streams: *s}
 	cmd := &cobra.Command{
@@ -449,8 +464,9 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 			return nil, fitFailed(s, err)
 		}
 	} else {
-		d, err := aniso.Discover(p, aniso.DiscoverSettings{MaxTerms: ff.maxTerms, NoPlanar: ff.dispersion == "none" || ff.dispersion == "kappa",
-			Dispersion: ff.dispersion == "kappa", Progress: bar.set})
+		set := ff.discoverSettings()
+		set.Progress = bar.set
+		d, err := aniso.Discover(p, set)
 		if err != nil {
 			return nil, fitFailed(s, err)
 		}

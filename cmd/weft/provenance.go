@@ -143,28 +143,16 @@ func readOptionList(o biaxial.Options, sheet string) []string {
 // structureFromFlags read from ff and chosen false for discovery.
 func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
 	if !chosen {
-		// Discovery tries in-plane dispersion besides ideal families
-		// unless told otherwise.
-		disp := ff.dispersion
-		if disp == "" {
-			disp = "in-plane"
-		}
-		return []string{"--max-terms=" + strconv.Itoa(ff.maxTerms), "--dispersion=" + disp}
+		return []string{"--max-terms=" + strconv.Itoa(ff.maxTerms), "--dispersion=" + ff.discoveryDispersion()}
 	}
 	var out []string
-	families := 0
-	switch st.Layout {
-	case aniso.LayoutSingle:
-		families = 1
-	case aniso.LayoutMirror, aniso.LayoutFree:
-		families = 2
-	}
+	families := st.Layout.Families()
 	if ff.preset != "" {
 		out = append(out, "--preset="+ff.preset)
 	} else {
 		out = append(out, "--terms="+ff.termIDs, "--families="+strconv.Itoa(families))
 		if families == 2 {
-			out = append(out, "--layout="+ff.layout)
+			out = append(out, "--layout="+st.Layout.String())
 		}
 		if families > 0 {
 			disp := "none"

@@ -307,19 +307,13 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 // markKept fills e.keep for the evaluation about to run (see keep) and
 // invalidates the previous state until this evaluation completes.
 func (e *engine) markKept(derivs bool) {
-	moved := func(f int) bool { return true }
-	if e.prevOK && !derivs && len(e.prevFam) == len(e.model.Families) {
-		moved = func(f int) bool {
-			a, b := &e.model.Families[f], &e.prevFam[f]
-			return a.Angle != b.Angle || a.Concentration != b.Concentration || a.Dispersion != b.Dispersion || a.Planar != b.Planar
-		}
-	}
+	same := e.prevOK && !derivs && len(e.prevFam) == len(e.model.Families)
 	for g, members := range e.groups {
 		k := e.staticDone && e.static[g]
-		if !k && e.staticDone && !e.shaped[g] {
+		if !k && same && e.staticDone && !e.shaped[g] {
 			k = true
 			for _, t := range members {
-				if f := e.model.Terms[t].Family; f >= 0 && moved(f) {
+				if f := e.model.Terms[t].Family; f >= 0 && e.familyMoved(f) {
 					k = false
 				}
 			}
@@ -327,6 +321,13 @@ func (e *engine) markKept(derivs bool) {
 		e.keep[g] = k
 	}
 	e.prevOK = false
+}
+
+// familyMoved reports whether family f differs from the last complete
+// evaluation's.
+func (e *engine) familyMoved(f int) bool {
+	a, b := &e.model.Families[f], &e.prevFam[f]
+	return a.Angle != b.Angle || a.Concentration != b.Concentration || a.Dispersion != b.Dispersion || a.Planar != b.Planar
 }
 
 // derivatives fills e.v[i] = Σ_g w_g ∂A_g/∂θ_i.

@@ -134,6 +134,10 @@ type Columns struct {
 	// Skip, when non-nil, marks terms whose columns Fill leaves as they are
 	// (a caller that knows they have not changed).
 	Skip []bool
+	// valuesOnly, when non-nil, marks terms whose derivative columns a
+	// fill with derivatives leaves as they are: a fitter needs the
+	// derivatives of the terms with a positive weight only.
+	valuesOnly []bool
 
 	// fk, fb are scratch: fibre kinematics and bases per point and family.
 	// They live here, not in the Dataset, so that several goroutines can
@@ -184,6 +188,11 @@ func (c *Columns) resize(rows, cols, nparams int, derivs bool) {
 			c.DParam[j] = grow(c.DParam[j])
 		}
 	}
+}
+
+// wantsDerivs reports whether a fill with derivatives fills term t's.
+func (c *Columns) wantsDerivs(t int) bool {
+	return c.valuesOnly == nil || !c.valuesOnly[t]
 }
 
 // familyBases brings the fibre kinematics and stress bases of every ideal
@@ -258,6 +267,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			d.fillPlanar(m, f, c, derivs)
 		}
 	}
+	all := derivs
 	for t := range m.Terms {
 		if c.Skip != nil && c.Skip[t] {
 			continue
@@ -266,6 +276,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		if term.Family >= 0 && m.Families[term.Family].Planar {
 			continue
 		}
+		derivs := all && c.wantsDerivs(t)
 		col := c.A[t*rows : (t+1)*rows]
 		if term.Shape.Arg == terms.Green {
 			d.fillGreen(term, col, c, t*rows, derivs)
@@ -305,25 +316,24 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 				}
 				continue
 			}
-			v := term.Shape.Eval(s.X, term.Params)
+			d1, d2, g := term.Shape.SlopeCurvGrad(s.X, term.Params)
 			for j := range a {
-				a[j] = mul0(v.D1, h[j])
+				a[j] = mul0(d1, h[j])
 			}
 			base := t*rows + r0
-			if math.IsInf(v.D1, 0) || math.IsInf(v.D2, 0) {
+			if math.IsInf(d1, 0) || math.IsInf(d2, 0) {
 				// The column overflows; a fitter treats it as infeasible.
 				c.clearDerivs(base, nc, len(term.Params))
 				continue
 			}
-			g := term.Shape.D1ParamGrad(s.X, term.Params)
 			sl := slopes(term.Shape.Arg, kappa, k, &fk[q])
-			da, dk := v.D2*sl.DxA, v.D2*sl.DxK
+			da, dk := d2*sl.DxA, d2*sl.DxK
 			for j := range a {
 				for p := range term.Params {
 					c.DParam[p][base+j] = mul0(g[p], h[j])
 				}
-				c.DAngle[base+j] = da*h[j] + v.D1*(sl.DCA[0]*b1[j]+s.C[2]*bases.dg4[j]+s.C[3]*bases.dg5[j])
-				c.DKappa[base+j] = dk*h[j] + v.D1*(sl.DCK[0]*b1[j]+sl.DCK[2]*bases.g4[j])
+				c.DAngle[base+j] = da*h[j] + d1*(sl.DCA[0]*b1[j]+s.C[2]*bases.dg4[j]+s.C[3]*bases.dg5[j])
+				c.DKappa[base+j] = dk*h[j] + d1*(sl.DCK[0]*b1[j]+sl.DCK[2]*bases.g4[j])
 			}
 		}
 	}
@@ -357,13 +367,12 @@ func (d *Dataset) fillIsotropic(term *Term, col []float64, c *Columns, off int, 
 			}
 			continue
 		}
-		v := term.Shape.Eval(x, term.Params)
-		g := term.Shape.D1ParamGrad(x, term.Params)
-		if math.IsInf(v.D1, 0) {
+		d1, _, g := term.Shape.SlopeCurvGrad(x, term.Params)
+		if math.IsInf(d1, 0) {
 			g = [terms.MaxParams]float64{}
 		}
 		for j := range a {
-			a[j] = mul0(v.D1, h[j])
+			a[j] = mul0(d1, h[j])
 			for p := range term.Params {
 				c.DParam[p][off+r0+j] = mul0(g[p], h[j])
 			}

@@ -56,6 +56,9 @@ type engine struct {
 	keep    []bool
 	prevFam []Family
 	prevOK  bool
+	// predicted says that e.w holds the weights of a previous evaluation,
+	// which predict the groups that need derivatives (eval).
+	predicted bool
 	// tol is the relative loss decrease below which minimize stops (two
 	// steps in a row); 0 means 1e-10.
 	tol float64
@@ -116,6 +119,7 @@ func newEngine(p *Problem, m *Model, groups [][]int, famOf []int, layout Layout,
 		}
 	}
 	e.cols.Skip = make([]bool, len(m.Terms))
+	e.cols.valuesOnly = make([]bool, len(m.Terms))
 	e.shaped = make([]bool, e.ng)
 	e.keep = make([]bool, e.ng)
 	for g, members := range groups {
@@ -205,8 +209,13 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 	e.apply(theta)
 	e.markKept(derivs)
 	for g, members := range e.groups {
+		// Derivatives are filled for the groups that had a positive
+		// weight at the previous evaluation; a group that gains one now
+		// gets them afterwards (completeDerivatives).
+		skipDerivs := e.static[g] || (e.predicted && e.w[g] == 0)
 		for _, k := range members {
 			e.cols.Skip[k] = e.keep[g]
+			e.cols.valuesOnly[k] = skipDerivs
 		}
 	}
 	e.p.Data.Fill(e.model, &e.cols, derivs)
@@ -299,9 +308,33 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 	loss -= e.lossOffset
 	e.loss = loss
 	if derivs {
+		e.completeDerivatives()
 		e.derivatives()
 	}
 	return loss
+}
+
+// completeDerivatives fills the derivative columns of the groups that have
+// a positive weight but were filled without them (evaluated as inactive
+// at the previous evaluation), at the current θ. Only such groups enter
+// the Jacobian (derivatives), so in a fit of the whole catalogue the many
+// terms non-negativity keeps at zero never pay for derivatives. Their
+// columns are filled again on the way, to the same bits (package terms'
+// Eval, Slope and SlopeGrad agree exactly).
+func (e *engine) completeDerivatives() {
+	missing := false
+	for g, members := range e.groups {
+		need := e.w[g] > 0 && !e.static[g] && e.cols.valuesOnly[members[0]]
+		missing = missing || need
+		for _, k := range members {
+			e.cols.Skip[k] = !need
+			e.cols.valuesOnly[k] = false
+		}
+	}
+	e.predicted = true
+	if missing {
+		e.p.Data.Fill(e.model, &e.cols, true)
+	}
 }
 
 // markKept fills e.keep for the evaluation about to run (see keep) and

@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -456,11 +457,44 @@ func TestEngineLossIndependentOfHistory(t *testing.T) {
 	thetas := [][]float64{append([]float64(nil), res.theta...), append([]float64(nil), res.theta...), append([]float64(nil), res.theta...)}
 	thetas[1][0] += 0.1
 	thetas[2][len(thetas[2])-1] *= 1.1
-	e := res.profileEngine(p)
+	checkEngineHistory(t, p, res, thetas, "fitted form")
+	// The whole catalogue on one family: non-negativity keeps most terms at
+	// zero weight and which ones changes between the points, so an engine
+	// that fills derivatives only for the terms active at its previous
+	// evaluation must complete them for the others.
+	full, err := Fit(p, fullStructure(DiscoverSettings{}.withDefaults().Shapes, Structure{Layout: LayoutSingle}), Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fth := [][]float64{append([]float64(nil), full.theta...), append([]float64(nil), full.theta...), append([]float64(nil), full.theta...)}
+	fth[1][0] += 0.4
+	for i := 1; i < len(fth[2]); i++ {
+		fth[2][i] *= 1.3
+	}
+	checkEngineHistory(t, p, full, fth, "whole catalogue")
+}
+
+// checkEngineHistory evaluates r's form with derivatives at thetas in an
+// arbitrary order on one engine and compares the loss and the derivative
+// vectors, bit for bit, with a fresh engine's at each point.
+func checkEngineHistory(t *testing.T, p *Problem, r *Result, thetas [][]float64, what string) {
+	t.Helper()
+	e := r.profileEngine(p)
+	active := map[string]bool{}
 	for _, k := range []int{1, 0, 2, 0, 1, 2} {
 		got := e.eval(thetas[k], true)
-		if want := res.profileEngine(p).eval(thetas[k], true); got != want {
-			t.Errorf("fitted form at θ%d: loss %.17g after earlier evaluations, %.17g fresh", k, got, want)
+		fresh := r.profileEngine(p)
+		if want := fresh.eval(thetas[k], true); got != want {
+			t.Errorf("%s at θ%d: loss %.17g after earlier evaluations, %.17g fresh", what, k, got, want)
+		}
+		active[fmt.Sprint(e.activeGroups())] = true
+		for i := range fresh.v {
+			for row := range fresh.v[i] {
+				if math.Float64bits(e.v[i][row]) != math.Float64bits(fresh.v[i][row]) {
+					t.Fatalf("%s at θ%d: derivative %d row %d is %.17g after earlier evaluations, %.17g fresh", what, k, i, row, e.v[i][row], fresh.v[i][row])
+				}
+			}
 		}
 	}
+	t.Logf("%s: %d different active sets", what, len(active))
 }

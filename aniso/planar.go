@@ -406,6 +406,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 	}
 	rows, nc := d.Rows(), len(d.out.Components)
 	fam := &m.Families[f]
+	all := derivs
 	c.kinks = familyKinks(m, f, c.kinks[:0])
 	c.famTerms = c.famTerms[:0]
 	for t := range m.Terms {
@@ -423,6 +424,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
 		for _, t := range c.famTerms {
 			term := &m.Terms[t]
+			derivs := all && c.wantsDerivs(t)
 			base := t*rows + r0
 			a := c.A[base : base+nc]
 			np := len(term.Shape.Params)

@@ -96,6 +96,19 @@ func expSqBoth(x float64, p []float64) (float64, [MaxParams]float64) {
 	return x * e, g
 }
 
+// expSqCurvGrad is expSq's f′ and f″ and expSqGrad with one exponential.
+func expSqCurvGrad(x float64, p []float64) (float64, float64, [MaxParams]float64) {
+	b := p[0]
+	x2 := x * x
+	e := math.Exp(b * x2)
+	if math.IsInf(e, 1) {
+		return math.Copysign(posInf, x), posInf, expSqGrad(x, p)
+	}
+	var g [MaxParams]float64
+	g[0] = x * x2 * e
+	return x * e, (1 + 2*b*x2) * e, g
+}
+
 func expSqGrad(x float64, p []float64) (g [MaxParams]float64) {
 	x2 := x * x
 	g[0] = x * x2 * math.Exp(p[0]*x2)
@@ -144,6 +157,22 @@ func expZeroBoth(x float64, p []float64) (float64, [MaxParams]float64) {
 	}
 	g[0] = (bx*e - em) / (b * b)
 	return em / b, g
+}
+
+// expZeroCurvGrad is expZero's f′ and f″ and expZeroGrad sharing their
+// exponentials.
+func expZeroCurvGrad(x float64, p []float64) (float64, float64, [MaxParams]float64) {
+	b := p[0]
+	bx := b * x
+	e := math.Exp(bx)
+	if math.IsInf(e, 1) || math.Abs(bx) < 1e-4 {
+		v := expZero(x, p)
+		return v.D1, v.D2, expZeroGrad(x, p)
+	}
+	em := math.Expm1(bx)
+	var g [MaxParams]float64
+	g[0] = (bx*e - em) / (b * b)
+	return em / b, e, g
 }
 
 func expZeroGrad(x float64, p []float64) (g [MaxParams]float64) {
@@ -222,7 +251,7 @@ func shape(id string, a Argument, title, plainT, latexT string, params []Param,
 	p, l := formula(a, plainT, latexT)
 	return &Shape{ID: id, Arg: a, Title: title, Formula: p, LaTeX: l, Params: params,
 		Weight: weight, Polyconvex: poly, PolyconvexNote: note, Source: src,
-		eval: fn.eval, slope: fn.slope, dD1: fn.grad, slopeGrad: fn.both, kinks: fn.kinks, divided: fn.divided, at: fn.at}
+		eval: fn.eval, slope: fn.slope, dD1: fn.grad, slopeGrad: fn.both, curvGrad: fn.curvGrad, kinks: fn.kinks, divided: fn.divided, at: fn.at}
 }
 
 // impl bundles a shape's closed forms: f, f′, f″ (eval), f′ alone (slope,
@@ -235,10 +264,12 @@ type impl struct {
 	slope func(float64, []float64) float64
 	grad  func(float64, []float64) [MaxParams]float64
 	// both is slope and grad in one call (optional).
-	both    func(float64, []float64) (float64, [MaxParams]float64)
-	kinks   func([]float64) ([2]float64, int)
-	divided func(float64, float64, []float64) Divided
-	at      func(*Stretches, []float64, bool) StretchValues
+	both func(float64, []float64) (float64, [MaxParams]float64)
+	// curvGrad is f′, f″ and grad in one call (optional).
+	curvGrad func(float64, []float64) (float64, float64, [MaxParams]float64)
+	kinks    func([]float64) ([2]float64, int)
+	divided  func(float64, float64, []float64) Divided
+	at       func(*Stretches, []float64, bool) StretchValues
 }
 
 var (
@@ -247,8 +278,8 @@ var (
 	implCube    = impl{eval: cube}
 	implMacQuad = impl{eval: macQuad}
 	implExp     = impl{eval: expShape, slope: expShapeSlope, grad: expShapeGrad}
-	implExpSq   = impl{eval: expSq, slope: expSqSlope, grad: expSqGrad, both: expSqBoth}
-	implExpZero = impl{eval: expZero, slope: expZeroSlope, grad: expZeroGrad, both: expZeroBoth}
+	implExpSq   = impl{eval: expSq, slope: expSqSlope, grad: expSqGrad, both: expSqBoth, curvGrad: expSqCurvGrad}
+	implExpZero = impl{eval: expZero, slope: expZeroSlope, grad: expZeroGrad, both: expZeroBoth, curvGrad: expZeroCurvGrad}
 	implGent    = impl{eval: gentLog, slope: gentLogSlope, grad: gentLogGrad}
 )
 

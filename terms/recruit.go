@@ -61,7 +61,7 @@ func recruitShape() *Shape {
 			"I4 = |F a0|² is convex in F, so the term keeps polyconvexity (Ball 1977); zero for I4 ≤ 1; "+
 			"with dispersion κ > 0 the I4 > 1 switch is applied as common practice",
 		"Lanir 1983 (uniformly distributed straightening stretches)",
-		impl{eval: recruit, slope: recruitSlope, grad: recruitGrad, both: recruitBoth, kinks: recruitKinks})
+		impl{eval: recruit, slope: recruitSlope, grad: recruitGrad, both: recruitBoth, curvGrad: recruitCurvGrad, kinks: recruitKinks})
 }
 
 // recruitSeriesBelow is the argument below which S1, S2, S3 are summed as
@@ -216,8 +216,12 @@ func recruitGrad(x float64, p []float64) [MaxParams]float64 {
 // recruitBoth is recruitSlope and recruitGrad from one location and one
 // series evaluation (the gradient is zero where the slope is +Inf).
 func recruitBoth(x float64, p []float64) (float64, [MaxParams]float64) {
+	return locate(x, p).slopeGrad()
+}
+
+// slopeGrad is recruitBoth at a located argument.
+func (s recruitState) slopeGrad() (float64, [MaxParams]float64) {
 	var g [MaxParams]float64
-	s := locate(x, p)
 	if s.zone == 0 {
 		return 0, g
 	}
@@ -238,6 +242,22 @@ func recruitBoth(x float64, p []float64) (float64, [MaxParams]float64) {
 	g[0] = -1 / ab2
 	g[1] = -s2 / ab2
 	return (u*s2 + s1*(s.diff-s.d)/a) / (2 * l), g
+}
+
+// recruitCurvGrad is recruit's f′ and f″ and recruitGrad from one
+// location (f itself is not formed).
+func recruitCurvGrad(x float64, p []float64) (float64, float64, [MaxParams]float64) {
+	s := locate(x, p)
+	_, g := s.slopeGrad()
+	if s.zone == 0 {
+		return 0, 0, g
+	}
+	_, fl, curv := s.lambdaDerivs()
+	l := s.lam
+	if math.IsInf(l, 1) {
+		return posInf, 0, g
+	}
+	return fl / (2 * l), curv / (4 * l * l * l), g
 }
 
 // recruitKinks returns x = λ² − 1 at λ = λa and λ = λa + Δ, where f‴

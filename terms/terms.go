@@ -204,6 +204,9 @@ type Shape struct {
 	// slopeGrad returns f′ and ∂f′/∂p_j together, sharing their work;
 	// nil means Slope and D1ParamGrad.
 	slopeGrad func(x float64, p []float64) (float64, [MaxParams]float64)
+	// curvGrad returns f′, f″ and ∂f′/∂p_j together, sharing their work;
+	// nil means Eval and D1ParamGrad.
+	curvGrad func(x float64, p []float64) (float64, float64, [MaxParams]float64)
 	// kinks returns the arguments where f′ or f″ is not smooth; nil means
 	// none.
 	kinks func(p []float64) ([2]float64, int)
@@ -364,6 +367,18 @@ func (s *Shape) SlopeGrad(x float64, p []float64) (float64, [MaxParams]float64) 
 		return s.slopeGrad(x, p)
 	}
 	return s.Slope(x, p), s.D1ParamGrad(x, p)
+}
+
+// SlopeCurvGrad returns f′(x), f″(x) and ∂f′(x)/∂p_j together, bit for
+// bit Eval's D1 and D2 and D1ParamGrad, for fitters that need a column's
+// derivatives with respect to both its argument and its parameters
+// (f″ moves the column with the fibre angle). f itself is not formed.
+func (s *Shape) SlopeCurvGrad(x float64, p []float64) (d1, d2 float64, g [MaxParams]float64) {
+	if s.curvGrad != nil {
+		return s.curvGrad(x, p)
+	}
+	v := s.eval(x, p)
+	return v.D1, v.D2, s.D1ParamGrad(x, p)
 }
 
 // DefaultParams returns a new slice with every parameter at its default.

@@ -2,6 +2,7 @@ package terms
 
 import (
 	"math"
+	"math/rand"
 	"strings"
 	"testing"
 )
@@ -297,6 +298,41 @@ func TestSlopeGradMatches(t *testing.T) {
 			for j := range g {
 				if !(g[j] == wantG[j] || math.Abs(g[j]-wantG[j]) <= 1e-14*math.Abs(wantG[j])) {
 					t.Errorf("%s x=%g: SlopeGrad ∂f′/∂p%d %v, D1ParamGrad %v", s.ID, x, j, g[j], wantG[j])
+				}
+			}
+		}
+	}
+}
+
+// SlopeCurvGrad is Eval's f′ and f″ and D1ParamGrad bit for bit, for every
+// shape, at arguments across each shape's range and at seeded random
+// parameters within bounds: the fitter's derivative fills take it instead
+// of the two calls, and their results must not move.
+func TestSlopeCurvGradMatches(t *testing.T) {
+	rng := rand.New(rand.NewSource(7))
+	for _, s := range Catalogue() {
+		sets := [][]float64{s.DefaultParams()}
+		for range 200 {
+			p := make([]float64, len(s.Params))
+			for j, q := range s.Params {
+				p[j] = q.Min + rng.Float64()*(math.Min(q.Max, q.Min+20)-q.Min)
+			}
+			sets = append(sets, p)
+		}
+		for _, p := range sets {
+			for _, x := range []float64{0, 1e-6, 0.01, 0.05, 0.1, 0.3, 0.7, 1.5, rng.Float64() * 0.8} {
+				if s.Arg == Principal {
+					x += 1
+				}
+				d1, d2, g := s.SlopeCurvGrad(x, p)
+				v, wantG := s.Eval(x, p), s.D1ParamGrad(x, p)
+				if math.Float64bits(d1) != math.Float64bits(v.D1) || math.Float64bits(d2) != math.Float64bits(v.D2) {
+					t.Errorf("%s x=%g p=%v: SlopeCurvGrad f′ %v f″ %v, Eval %v %v", s.ID, x, p, d1, d2, v.D1, v.D2)
+				}
+				for j := range g {
+					if math.Float64bits(g[j]) != math.Float64bits(wantG[j]) {
+						t.Errorf("%s x=%g p=%v: SlopeCurvGrad ∂f′/∂p%d %v, D1ParamGrad %v", s.ID, x, p, j, g[j], wantG[j])
+					}
 				}
 			}
 		}

@@ -279,15 +279,15 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		derivs := all && c.wantsDerivs(t)
 		col := c.A[t*rows : (t+1)*rows]
 		if term.Shape.Arg == terms.Green {
-			d.fillGreen(term, col, c, t*rows, derivs)
+			d.fillGreen(term, col, c, t*rows, all)
 			continue
 		}
 		if term.Shape.Arg == terms.Principal {
-			d.fillPrincipal(term, col, c, t*rows, derivs)
+			d.fillPrincipal(term, col, c, t*rows, all)
 			continue
 		}
 		if !term.Shape.Arg.NeedsFamily() {
-			d.fillIsotropic(term, col, c, t*rows, derivs)
+			d.fillIsotropic(term, col, c, t*rows, all)
 			continue
 		}
 		kappa := m.Families[term.Family].Dispersion
@@ -310,7 +310,14 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 				h[j] = s.C[0]*b1[j] + s.C[1]*b2[j] + s.C[2]*bases.g4[j] + s.C[3]*bases.g5[j]
 			}
 			if !derivs {
+				// Without its own derivatives, a term's column in a fill
+				// with derivatives is still formed from Eval's f′, as
+				// with them, so that it does not depend on which terms'
+				// derivatives were asked for.
 				d1 := term.Shape.Slope(s.X, term.Params)
+				if all {
+					d1 = term.Shape.Eval(s.X, term.Params).D1
+				}
 				for j := range a {
 					a[j] = mul0(d1, h[j])
 				}

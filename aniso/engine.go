@@ -319,8 +319,9 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 // at the previous evaluation), at the current θ. Only such groups enter
 // the Jacobian (derivatives), so in a fit of the whole catalogue the many
 // terms non-negativity keeps at zero never pay for derivatives. Their
-// columns are filled again on the way, to the same bits (package terms'
-// Eval, Slope and SlopeGrad agree exactly).
+// columns are filled again on the way, to the same bits: in a fill with
+// derivatives a column is formed the same way whether or not its own
+// derivatives are asked for (Dataset.Fill).
 func (e *engine) completeDerivatives() {
 	missing := false
 	for g, members := range e.groups {

@@ -435,7 +435,11 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 			for _, nd := range c.rule.Nodes {
 				var d1 float64
 				var g [terms.MaxParams]float64
-				if derivs {
+				if all {
+					// In a fill with derivatives a term's column is
+					// formed as its derivatives' fill forms it, whether or
+					// not its own derivatives are asked for, so that the
+					// column does not depend on it.
 					d1, g = term.Shape.SlopeGrad(nd.X, term.Params)
 				} else {
 					d1 = term.Shape.Slope(nd.X, term.Params)

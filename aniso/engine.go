@@ -2,6 +2,7 @@ package aniso
 
 import (
 	"math"
+	"slices"
 )
 
 // engine evaluates the variable-projection objective of one model form on
@@ -56,6 +57,9 @@ type engine struct {
 	keep    []bool
 	prevFam []Family
 	prevOK  bool
+	// derivsAt says that the last evaluation, at e.at, was feasible and
+	// filled the derivatives: the state a minimiser leaves (minimize).
+	derivsAt bool
 	// predicted says that e.w holds the weights of a previous evaluation,
 	// which predict the groups that need derivatives (eval).
 	predicted bool
@@ -206,6 +210,7 @@ func (e *engine) apply(theta []float64) {
 // a column overflows.
 func (e *engine) eval(theta []float64, derivs bool) float64 {
 	e.at = append(e.at[:0], theta...)
+	e.derivsAt = false
 	e.apply(theta)
 	e.markKept(derivs)
 	for g, members := range e.groups {
@@ -310,8 +315,16 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 	if derivs {
 		e.completeDerivatives()
 		e.derivatives()
+		e.derivsAt = true
 	}
 	return loss
+}
+
+// holdsDerivatives reports whether the engine's state is a derivative
+// evaluation at θ exactly, which evaluating there again would reproduce
+// bit for bit.
+func (e *engine) holdsDerivatives(theta []float64) bool {
+	return e.derivsAt && slices.Equal(e.at, theta)
 }
 
 // completeDerivatives fills the derivative columns of the groups that have

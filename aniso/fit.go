@@ -259,7 +259,11 @@ const maxProfileRefits = 3
 // estimates, metrics and notes, replacing whatever an earlier optimum
 // left.
 func (r *Result) settle(p *Problem, e *engine, theta []float64) {
-	e.eval(theta, true)
+	if !e.holdsDerivatives(theta) {
+		// Usually the minimiser that found θ left the engine there; a
+		// fit from several starts may have ended elsewhere.
+		e.eval(theta, true)
+	}
 	r.e, r.theta = e, theta
 	r.Loss = e.loss
 	r.Model = cloneModelDeep(e.model)

@@ -498,3 +498,44 @@ func checkEngineHistory(t *testing.T, p *Problem, r *Result, thetas [][]float64,
 	}
 	t.Logf("%s: %d different active sets", what, len(active))
 }
+
+// A fit takes its result from the state its minimiser left at the optimum
+// instead of evaluating there again; evaluating again gives the same
+// numbers bit for bit (loss, weights, estimates and their intervals).
+func TestSettleWithoutReevaluation(t *testing.T) {
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 20, Params: []float64{5}}, 40)
+	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20})
+	p, err := NewProblem(spec, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-exp"), Family: 0}}}
+	res, err := Fit(p, st, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.e.holdsDerivatives(res.theta) {
+		t.Fatal("the engine does not hold the optimum after the fit")
+	}
+	again := *res
+	again.e.derivsAt = false
+	again.settle(p, again.e, append([]float64(nil), res.theta...))
+	same := func(a, b float64) bool { return math.Float64bits(a) == math.Float64bits(b) }
+	if !same(again.Loss, res.Loss) {
+		t.Errorf("loss %.17g evaluated again, %.17g from the minimiser's state", again.Loss, res.Loss)
+	}
+	for i := range res.Weights {
+		if !same(again.Weights[i], res.Weights[i]) {
+			t.Errorf("weight %d: %.17g evaluated again, %.17g", i, again.Weights[i], res.Weights[i])
+		}
+	}
+	if len(again.Estimates) != len(res.Estimates) {
+		t.Fatalf("%d estimates evaluated again, %d", len(again.Estimates), len(res.Estimates))
+	}
+	for i, e := range res.Estimates {
+		a := again.Estimates[i]
+		if !same(a.Value, e.Value) || !same(a.StdErr, e.StdErr) || a.Status != e.Status {
+			t.Errorf("estimate %s: %+v evaluated again, %+v", e.Name, a, e)
+		}
+	}
+}

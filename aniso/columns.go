@@ -134,9 +134,10 @@ type Columns struct {
 	// Skip, when non-nil, marks terms whose columns Fill leaves as they are
 	// (a caller that knows they have not changed).
 	Skip []bool
-	// valuesOnly, when non-nil, marks terms whose derivative columns a
-	// fill with derivatives leaves as they are: a fitter needs the
-	// derivatives of the terms with a positive weight only.
+	// valuesOnly, when non-nil, marks fibre terms whose derivative columns
+	// a fill with derivatives leaves as they are (a fitter needs the
+	// derivatives of the terms with a positive weight only); isotropic,
+	// principal-stretch and Green-strain terms are always filled whole.
 	valuesOnly []bool
 
 	// fk, fb are scratch: fibre kinematics and bases per point and family.
@@ -314,9 +315,11 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 				// with derivatives is still formed from Eval's f′, as
 				// with them, so that it does not depend on which terms'
 				// derivatives were asked for.
-				d1 := term.Shape.Slope(s.X, term.Params)
+				var d1 float64
 				if all {
 					d1 = term.Shape.Eval(s.X, term.Params).D1
+				} else {
+					d1 = term.Shape.Slope(s.X, term.Params)
 				}
 				for j := range a {
 					a[j] = mul0(d1, h[j])

@@ -103,6 +103,7 @@ func specimenOf(rec *Record) *Specimen {
 		Name:       rec.Name,
 		Source:     rec.Source,
 		Sheet:      rec.Sheet,
+		Digest:     rec.Digest,
 		Meta:       make(map[string]string, len(rec.Meta)),
 		StressUnit: rec.StressUnit,
 		Kind:       rec.Kind,

@@ -4,8 +4,11 @@ import (
 	"archive/zip"
 	"bufio"
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
+	"hash"
 	"io"
 	"os"
 )
@@ -56,8 +59,35 @@ func Read(r io.Reader, name string, opt Options) (*Specimen, error) {
 	return prepare(rec, t, opt)
 }
 
+// Digest identifies the bytes a test file was read from: how many and their
+// SHA-256 (lower-case hexadecimal), computed from the very bytes parsed, so
+// that a record of the input describes the data used even if the file
+// changes afterwards.
+type Digest struct {
+	Bytes  int64
+	SHA256 string
+}
+
+// digestWriter counts and hashes what is written to it.
+type digestWriter struct {
+	h hash.Hash
+	n int64
+}
+
+func newDigestWriter() *digestWriter { return &digestWriter{h: sha256.New()} }
+
+func (w *digestWriter) Write(p []byte) (int, error) {
+	w.n += int64(len(p))
+	return w.h.Write(p)
+}
+
+func (w *digestWriter) digest() Digest {
+	return Digest{Bytes: w.n, SHA256: hex.EncodeToString(w.h.Sum(nil))}
+}
+
 // readFile opens path and reads it. A workbook in a regular file is read
-// through the file itself, without a copy of it in memory first.
+// through the file itself, without a copy of it in memory first (and is
+// read once more, in sequence, for its digest).
 func readFile(path string, opt Options, intoTable bool) (*Record, *rawTable, error) {
 	lim := opt.Limits.withDefaults()
 	f, err := os.Open(path)
@@ -85,7 +115,16 @@ func readFile(path string, opt Options, intoTable bool) (*Record, *rawTable, err
 	if err := checkExpansion(f, size, path, lim.MaxWorkbookBytes); err != nil {
 		return nil, nil, err
 	}
-	return readXLSX(io.NewSectionReader(f, 0, size), path, opt.Sheet, lim, intoTable)
+	rec, t, err := readXLSX(io.NewSectionReader(f, 0, size), path, opt.Sheet, lim, intoTable)
+	if err != nil {
+		return nil, nil, err
+	}
+	dw := newDigestWriter()
+	if _, err := io.Copy(dw, io.NewSectionReader(f, 0, size)); err != nil {
+		return nil, nil, &ParseError{File: path, Err: err, Msg: "cannot read the file (" + errText(err) + ")"}
+	}
+	rec.Digest = dw.digest()
+	return rec, t, nil
 }
 
 // readStream reads a test file from r, stopping at the size limit. Only a
@@ -100,7 +139,24 @@ func readStream(r io.Reader, name string, opt Options, intoTable bool, what stri
 		}
 		return &ParseError{File: name, Err: err, Msg: "cannot read the " + what + " (" + errText(err) + ")"}
 	}
-	br := bufio.NewReaderSize(&cappedReader{r: r, max: lim.MaxBytes}, 64<<10)
+	capped := &cappedReader{r: r, max: lim.MaxBytes}
+	dw := newDigestWriter()
+	rec, t, err := readCapped(io.TeeReader(capped, dw), name, opt, intoTable, lim, readErr)
+	if err != nil {
+		return nil, nil, err
+	}
+	// The parser may stop before the end (a trailing blank line): the
+	// digest covers the whole input.
+	if _, err := io.Copy(dw, capped); err != nil {
+		return nil, nil, readErr(err)
+	}
+	rec.Digest = dw.digest()
+	return rec, t, nil
+}
+
+// readCapped is readStream's parse of the capped input r.
+func readCapped(r io.Reader, name string, opt Options, intoTable bool, lim Limits, readErr func(error) error) (*Record, *rawTable, error) {
+	br := bufio.NewReaderSize(r, 64<<10)
 	head, err := br.Peek(4)
 	if err != nil && err != io.EOF {
 		return nil, nil, readErr(err)

@@ -54,6 +54,8 @@ type Record struct {
 	// Source is the path or name of the file; Sheet the xlsx sheet read.
 	Source string
 	Sheet  string
+	// Digest identifies the bytes read (zero for a record made in memory).
+	Digest Digest
 	// Meta holds the metadata (`# key = value` lines before the header),
 	// keys lower case, values as written. MetaKeys lists the keys in file
 	// order so that writing is deterministic.

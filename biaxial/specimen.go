@@ -194,6 +194,10 @@ type Specimen struct {
 	// Source is the path of the file read; Sheet the xlsx sheet, if any.
 	Source string
 	Sheet  string
+	// Digest identifies the bytes the specimen was read from: their
+	// number and SHA-256, computed while reading (zero when it was
+	// prepared from a record made in memory).
+	Digest Digest
 	// Meta holds the metadata lines of the file (`# key = value`), keys lower
 	// case, values as written.
 	Meta map[string]string

@@ -2,9 +2,11 @@ package biaxial
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
@@ -109,4 +111,49 @@ func TestStreamingSizeLimit(t *testing.T) {
 	wb := makeWorkbook(t, "")
 	_, err = ReadRecord(bytes.NewReader(wb), "tests.xlsx", Options{Sheet: "SYN-3", Limits: Limits{MaxBytes: int64(len(wb) - 1)}})
 	wantParseError(t, err, ErrFileSize, 0, 0, "larger than")
+}
+
+// A specimen's Digest is the number and SHA-256 of the bytes it was read
+// from, computed while reading: checked against the standard library's
+// SHA-256 of the same bytes (crypto/sha256, as a reference), for a CSV
+// file spanning several read buffers with blank lines after its last row,
+// read from its path and as a stream handed over one byte at a time, and
+// for a workbook read from its path (through the file, by random access)
+// and as a stream.
+func TestDigestIsTheBytesRead(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("# specimen = SYN-digest (synthetic)\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+	for i := 0; i <= 6000; i++ {
+		l := 1 + 0.1*float64(i)/6000
+		fmt.Fprintf(&b, "1:1,%.7g,%.7g,%.6g,%.6g\n", l, l, 30*(l-1), 25*(l-1))
+	}
+	b.WriteString("\n\n")
+	csv := []byte(b.String())
+	book := makeWorkbook(t, "")
+	dir := t.TempDir()
+	for _, c := range []struct {
+		name  string
+		data  []byte
+		sheet string
+	}{{"digest.csv", csv, ""}, {"digest.xlsx", book, "SYN-3"}} {
+		want := Digest{Bytes: int64(len(c.data)), SHA256: fmt.Sprintf("%x", sha256.Sum256(c.data))}
+		path := filepath.Join(dir, c.name)
+		if err := writeFile(path, c.data); err != nil {
+			t.Fatal(err)
+		}
+		s, err := ReadFile(path, Options{Sheet: c.sheet})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s.Digest != want {
+			t.Errorf("%s from its path: digest %+v, want %+v", c.name, s.Digest, want)
+		}
+		s, err = Read(oneByteReader{bytes.NewReader(c.data)}, c.name, Options{Sheet: c.sheet})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s.Digest != want {
+			t.Errorf("%s as a stream: digest %+v, want %+v", c.name, s.Digest, want)
+		}
+	}
 }

@@ -535,12 +535,12 @@ func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card
 	var read []*cohortMember
 	for _, m := range t.members {
 		if m.spec != nil {
-			refs = append(refs, inputRef{filepath.FromSlash(m.file), m.spec.Sheet})
+			refs = append(refs, inputRef{filepath.FromSlash(m.file), m.spec.Sheet, m.spec.Digest})
 			read = append(read, m)
 		}
 	}
 	if t.groupFile != "" {
-		refs = append(refs, inputRef{t.groupFile, ""})
+		refs = append(refs, inputRef{path: t.groupFile})
 	}
 	hashed, err := hashInputs(refs)
 	if err != nil {

@@ -64,16 +64,25 @@ func hashFile(path string) (int64, string, error) {
 	return n, hex.EncodeToString(h.Sum(nil)), nil
 }
 
-// inputRef is one input file to record: its path and the workbook sheet
-// read ("" for CSV).
-type inputRef struct{ path, sheet string }
+// inputRef is one input file to record: its path, the workbook sheet read
+// ("" for CSV) and, for a test file, the digest of the bytes parsed
+// (package biaxial computes it while reading).
+type inputRef struct {
+	path, sheet string
+	digest      biaxial.Digest
+}
 
 // hashInputs records each input by base name, sheet, size and SHA-256, in
-// the order given. A file that cannot be read again (it was read a moment
-// ago) is an error.
+// the order given: a test file's from the bytes it was parsed from, any
+// other file's by reading it. A file that cannot be read again (it was read
+// a moment ago) is an error.
 func hashInputs(refs []inputRef) ([]card.InputFile, error) {
 	out := make([]card.InputFile, 0, len(refs))
 	for _, r := range refs {
+		if r.digest.SHA256 != "" {
+			out = append(out, card.InputFile{File: filepath.Base(r.path), Sheet: r.sheet, Bytes: r.digest.Bytes, SHA256: r.digest.SHA256})
+			continue
+		}
 		n, sum, err := hashFile(r.path)
 		if err != nil {
 			return nil, fmt.Errorf("cannot read %s again to record its SHA-256 (%s)", r.path, safeout.Reason(err))
@@ -102,7 +111,7 @@ func newProvenance(command string, options []string, inputs []card.InputFile) *c
 // holds those of the model form, formOptionList) and the file's name,
 // sheet, size and SHA-256.
 func fitProvenance(path string, spec *biaxial.Specimen, o biaxial.Options, form []string) (*card.Provenance, error) {
-	in, err := hashInputs([]inputRef{{path, spec.Sheet}})
+	in, err := hashInputs([]inputRef{{path, spec.Sheet, spec.Digest}})
 	if err != nil {
 		return nil, err
 	}

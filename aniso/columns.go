@@ -40,6 +40,8 @@ type Dataset struct {
 	pbase []float64
 	// pp are the principal stretches and stress bases of every point.
 	pp []principalPoint
+	// green is what Green-strain terms need of every point (fung.go).
+	green []greenPoint
 }
 
 // famBases are one family's stress bases G4, G5 and their angle
@@ -104,6 +106,7 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 		copy(d.b2[i*nc:], v2[:nc])
 	}
 	d.pp = d.principalPoints()
+	d.green = d.greenPoints()
 	return d, nil
 }
 

@@ -64,6 +64,31 @@ func pushForward(F [4]float64, S Sym) Sym {
 	}
 }
 
+// greenPoint is what a Green-strain term's columns need of one point and
+// is the same for every model: the Green strain E and, because the output
+// components of F X Fᵀ are linear in X, the images u[e] of the unit
+// tensors on components 11, 22 and 12 (in the output measure, weighted).
+type greenPoint struct {
+	E Sym
+	u [3][4]float64
+}
+
+// greenPoints precomputes every point's greenPoint.
+func (d *Dataset) greenPoints() []greenPoint {
+	nc := len(d.out.Components)
+	out := make([]greenPoint, len(d.kin))
+	for i := range d.kin {
+		k := &d.kin[i]
+		out[i].E = greenStrain(k.F)
+		for e := range out[i].u {
+			var x Sym
+			x[e] = 1
+			out[i].u[e] = d.convert(k, pushForward(k.F, x), i*nc)
+		}
+	}
+	return out
+}
+
 // greenStress returns a Green-strain term's Cauchy stress and energy per
 // unit weight at one deformation.
 func greenStress(sh *terms.Shape, b []float64, k *Kinematics) (Sym, float64) {
@@ -83,18 +108,10 @@ func (d *Dataset) fillGreen(term *Term, col []float64, c *Columns, off int, deri
 		clear(c.DKappa[off : off+len(col)])
 	}
 	for i := range d.kin {
-		k := &d.kin[i]
 		r0 := i * nc
-		E := greenStrain(k.F)
+		gp := &d.green[i]
+		E, u := gp.E, &gp.u
 		q, g := fungQ(E, b)
-		// The output components of F X Fᵀ are linear in X: u[e] is the
-		// image of the unit tensor on component e.
-		var u [3][4]float64
-		for e := range u {
-			var x Sym
-			x[e] = 1
-			u[e] = d.convert(k, pushForward(k.F, x), r0)
-		}
 		a := col[r0 : r0+nc]
 		var h [4]float64
 		for j := range a {

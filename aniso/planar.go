@@ -149,6 +149,10 @@ type planarRule struct {
 	// scaled normalisation and I1(b)/I0(b).
 	q                      *quadRule
 	ca, sa, b, norm, ratio float64
+	// alpha is the α of ca and sa; densOK says the density fields hold
+	// the values for alpha and b.
+	alpha  float64
+	densOK bool
 }
 
 // density returns the normalisation and the mean resultant of a von Mises
@@ -172,8 +176,12 @@ func (r *planarRule) build(q *quadRule, g *planarGeom, alpha, b float64, kinks [
 	if empty {
 		return
 	}
-	r.norm, r.ratio = density(b)
-	r.ca, r.sa, r.b = math.Cos(2*alpha), math.Sin(2*alpha), b
+	// A fill builds every point's rule for one α and b: their density
+	// factors are computed once.
+	if !r.densOK || math.Float64bits(b) != math.Float64bits(r.b) || math.Float64bits(alpha) != math.Float64bits(r.alpha) {
+		r.norm, r.ratio = density(b)
+		r.ca, r.sa, r.b, r.alpha, r.densOK = math.Cos(2*alpha), math.Sin(2*alpha), b, alpha, true
+	}
 	delta := wrapPi(2*alpha - g.Phi) // the density's peak in u
 	// The window of u that carries density: all of it for a spread family,
 	// ±12 standard deviations (1/√b each, in u) for a concentrated one.

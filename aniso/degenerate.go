@@ -125,34 +125,48 @@ func (r *Result) feltShare(p *Problem) []felt {
 			}
 		}
 	}
-	for _, ax := range axes {
-		lo, hi, n := math.Inf(1), math.Inf(-1), 0
+	// Where each group is felt most: the axis and its count, formatted at
+	// the end.
+	type most struct {
+		set       bool
+		ax, count int
+		n         int
+	}
+	best := make([]most, len(r.e.groups))
+	var rows []int
+	for ai, ax := range axes {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		rows = rows[:0]
 		for row := range p.Measured {
 			if p.RowProtocol[row] == ax.pi && p.RowComponent[row] == ax.comp {
 				lo, hi = math.Min(lo, p.Measured[row]), math.Max(hi, p.Measured[row])
-				n++
+				rows = append(rows, row)
 			}
 		}
+		n := len(rows)
 		rng := hi - lo
 		if n == 0 || !(rng > 0) || math.IsInf(rng, 0) {
 			continue
 		}
 		for g := range r.e.groups {
 			count := 0
-			for row := range p.Measured {
-				if p.RowProtocol[row] != ax.pi || p.RowComponent[row] != ax.comp {
-					continue
-				}
+			for _, row := range rows {
 				if math.Abs(contrib(g, row)) > SliverContribution*rng {
 					count++
 				}
 			}
 			f := &out[g]
 			f.axes++
-			if sh := float64(count) / float64(n); sh > f.share || f.where == "" {
+			if sh := float64(count) / float64(n); sh > f.share || !best[g].set {
 				f.share = sh
-				f.where = fmt.Sprintf("most on protocol %s axis %s: %d of %d points", p.Specimen.Protocols[ax.pi].Label, biaxial.Component(ax.comp).String(), count, n)
+				best[g] = most{set: true, ax: ai, count: count, n: n}
 			}
+		}
+	}
+	for g, b := range best {
+		if b.set {
+			ax := axes[b.ax]
+			out[g].where = fmt.Sprintf("most on protocol %s axis %s: %d of %d points", p.Specimen.Protocols[ax.pi].Label, biaxial.Component(ax.comp).String(), b.count, b.n)
 		}
 	}
 	return out

@@ -337,7 +337,11 @@ func runFit(ff *fitOptions) error {
 		}
 		if err == nil {
 			o.dir, o.png = j.dir, ff.png
-			o.raw = readRecordView(j.path, ff.read)
+			var changed bool
+			o.raw, changed = readRecordView(j.path, ff.read, j.spec.Digest)
+			if changed {
+				fmt.Fprintf(ff.ErrOut, "weft: warning: %s changed after it was read for the fit; raw.csv and the report's view of the whole record are left out (fit the file again once it is complete)\n", j.path)
+			}
 			err = writeFitOutputs(o, j.od, ff.force)
 		}
 		j.od.Close()

@@ -188,12 +188,17 @@ func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
 // branches, as measured (no re-referencing or resampling), for the
 // report's view of the whole record. It returns nil when the file cannot
 // be read so (the report then has no such view); the fit itself does not
-// depend on it.
-func readRecordView(path string, o biaxial.Options) *biaxial.Specimen {
+// depend on it. It returns nil with changed set when the bytes differ from
+// those fitted (fitted, the digest of the fit's read): a view of other data
+// would misrepresent the fit.
+func readRecordView(path string, o biaxial.Options, fitted biaxial.Digest) (view *biaxial.Specimen, changed bool) {
 	o.Cycle, o.Branch, o.Rereference, o.Resample = biaxial.CycleAll, biaxial.BranchAll, false, 0
 	s, err := biaxial.ReadFile(path, o)
 	if err != nil {
-		return nil
+		return nil, false
 	}
-	return s
+	if fitted.SHA256 != "" && s.Digest != fitted {
+		return nil, true
+	}
+	return s, false
 }

@@ -12,6 +12,7 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // readCardFile reads a model card written by weft.
@@ -162,5 +163,36 @@ func TestCohortProvenance(t *testing.T) {
 		if !strings.Contains(string(html), want) {
 			t.Errorf("the cohort report lacks %q", want)
 		}
+	}
+}
+
+// The report's view of the whole record is read again after the fit; if
+// the file's bytes are no longer those the fit read (a tester still
+// writing, a file replaced), the view is left out rather than shown beside
+// a fit of other data.
+func TestRecordViewOfChangedFileLeftOut(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join("..", "..", "testdata", "demo", "membrane-M1.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "m1.csv")
+	if err := os.WriteFile(path, src, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	spec, err := readSpecimen(path, biaxial.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if spec.Digest.SHA256 != sha256Of(t, path) || spec.Digest.Bytes != int64(len(src)) {
+		t.Fatalf("digest %+v, file %s of %d bytes", spec.Digest, sha256Of(t, path), len(src))
+	}
+	if view, changed := readRecordView(path, biaxial.Options{}, spec.Digest); view == nil || changed {
+		t.Fatalf("unchanged file: view %v, changed %v", view != nil, changed)
+	}
+	if err := os.WriteFile(path, append(src, []byte("\n")...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if view, changed := readRecordView(path, biaxial.Options{}, spec.Digest); view != nil || !changed {
+		t.Errorf("changed file: view %v, changed %v; want no view", view != nil, changed)
 	}
 }

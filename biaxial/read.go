@@ -85,6 +85,27 @@ func (w *digestWriter) digest() Digest {
 	return Digest{Bytes: w.n, SHA256: hex.EncodeToString(w.h.Sum(nil))}
 }
 
+// digestOf reads r to its end and returns the digest of what it read.
+func digestOf(r io.Reader) (Digest, error) {
+	dw := newDigestWriter()
+	if _, err := io.Copy(dw, r); err != nil {
+		return Digest{}, err
+	}
+	return dw.digest(), nil
+}
+
+// FileDigest returns the digest of a file's contents, read as a stream:
+// for files recorded beside test files (a cohort's group file); a test
+// file's own digest comes with its Record or Specimen.
+func FileDigest(path string) (Digest, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return Digest{}, err
+	}
+	defer f.Close()
+	return digestOf(f)
+}
+
 // readFile opens path and reads it. A workbook in a regular file is read
 // through the file itself, without a copy of it in memory first (and is
 // read once more, in sequence, for its digest).
@@ -119,11 +140,9 @@ func readFile(path string, opt Options, intoTable bool) (*Record, *rawTable, err
 	if err != nil {
 		return nil, nil, err
 	}
-	dw := newDigestWriter()
-	if _, err := io.Copy(dw, io.NewSectionReader(f, 0, size)); err != nil {
+	if rec.Digest, err = digestOf(io.NewSectionReader(f, 0, size)); err != nil {
 		return nil, nil, &ParseError{File: path, Err: err, Msg: "cannot read the file (" + errText(err) + ")"}
 	}
-	rec.Digest = dw.digest()
 	return rec, t, nil
 }
 
@@ -145,8 +164,8 @@ func readStream(r io.Reader, name string, opt Options, intoTable bool, what stri
 	if err != nil {
 		return nil, nil, err
 	}
-	// The parser may stop before the end (a trailing blank line): the
-	// digest covers the whole input.
+	// Both parsers read to the end; whatever one left unread would still
+	// be part of the input, so the digest takes it too.
 	if _, err := io.Copy(dw, capped); err != nil {
 		return nil, nil, readErr(err)
 	}

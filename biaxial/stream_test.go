@@ -119,7 +119,7 @@ func TestStreamingSizeLimit(t *testing.T) {
 // file spanning several read buffers with blank lines after its last row,
 // read from its path and as a stream handed over one byte at a time, and
 // for a workbook read from its path (through the file, by random access)
-// and as a stream.
+// and as a stream; FileDigest of the same files too.
 func TestDigestIsTheBytesRead(t *testing.T) {
 	var b strings.Builder
 	b.WriteString("# specimen = SYN-digest (synthetic)\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n")
@@ -140,6 +140,9 @@ func TestDigestIsTheBytesRead(t *testing.T) {
 		path := filepath.Join(dir, c.name)
 		if err := writeFile(path, c.data); err != nil {
 			t.Fatal(err)
+		}
+		if dg, err := FileDigest(path); err != nil || dg != want {
+			t.Errorf("%s: FileDigest %+v (%v), want %+v", c.name, dg, err, want)
 		}
 		s, err := ReadFile(path, Options{Sheet: c.sheet})
 		if err != nil {

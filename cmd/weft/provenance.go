@@ -1,11 +1,7 @@
 package main
 
 import (
-	"crypto/sha256"
-	"encoding/hex"
 	"fmt"
-	"io"
-	"os"
 	"path/filepath"
 	"runtime/debug"
 	"sort"
@@ -48,22 +44,6 @@ func versionText() string {
 	return p.VersionText()
 }
 
-// hashFile returns the size and hexadecimal SHA-256 of a file's contents,
-// read as a stream.
-func hashFile(path string) (int64, string, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return 0, "", err
-	}
-	defer f.Close()
-	h := sha256.New()
-	n, err := io.Copy(h, f)
-	if err != nil {
-		return 0, "", err
-	}
-	return n, hex.EncodeToString(h.Sum(nil)), nil
-}
-
 // inputRef is one input file to record: its path, the workbook sheet read
 // ("" for CSV) and, for a test file, the digest of the bytes parsed
 // (package biaxial computes it while reading).
@@ -79,15 +59,15 @@ type inputRef struct {
 func hashInputs(refs []inputRef) ([]card.InputFile, error) {
 	out := make([]card.InputFile, 0, len(refs))
 	for _, r := range refs {
-		if r.digest.SHA256 != "" {
-			out = append(out, card.InputFile{File: filepath.Base(r.path), Sheet: r.sheet, Bytes: r.digest.Bytes, SHA256: r.digest.SHA256})
-			continue
+		dg := r.digest
+		var err error
+		if dg.SHA256 == "" {
+			dg, err = biaxial.FileDigest(r.path)
 		}
-		n, sum, err := hashFile(r.path)
 		if err != nil {
 			return nil, fmt.Errorf("cannot read %s again to record its SHA-256 (%s)", r.path, safeout.Reason(err))
 		}
-		out = append(out, card.InputFile{File: filepath.Base(r.path), Sheet: r.sheet, Bytes: n, SHA256: sum})
+		out = append(out, card.InputFile{File: filepath.Base(r.path), Sheet: r.sheet, Bytes: dg.Bytes, SHA256: dg.SHA256})
 	}
 	return out, nil
 }

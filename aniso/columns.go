@@ -280,7 +280,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		if term.Family >= 0 && m.Families[term.Family].Planar {
 			continue
 		}
-		derivs := all && c.wantsDerivs(t)
+		own := all && c.wantsDerivs(t)
 		col := c.A[t*rows : (t+1)*rows]
 		if term.Shape.Arg == terms.Green {
 			d.fillGreen(term, col, c, t*rows, all)
@@ -303,7 +303,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			s := argument(term.Shape.Arg, kappa, k, &fk[q])
 			if !s.Active {
 				clear(a)
-				if derivs {
+				if own {
 					c.clearDerivs(t*rows+r0, nc, len(term.Params))
 				}
 				continue
@@ -313,7 +313,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			for j := range a {
 				h[j] = s.C[0]*b1[j] + s.C[1]*b2[j] + s.C[2]*bases.g4[j] + s.C[3]*bases.g5[j]
 			}
-			if !derivs {
+			if !own {
 				// Without its own derivatives, a term's column in a fill
 				// with derivatives is still formed from Eval's f′, as
 				// with them, so that it does not depend on which terms'

@@ -60,9 +60,6 @@ type engine struct {
 	// derivsAt says that the last evaluation, at e.at, was feasible and
 	// filled the derivatives: the state a minimiser leaves (minimize).
 	derivsAt bool
-	// predicted says that e.w holds the weights of a previous evaluation,
-	// which predict the groups that need derivatives (eval).
-	predicted bool
 	// tol is the relative loss decrease below which minimize stops (two
 	// steps in a row); 0 means 1e-10.
 	tol float64
@@ -217,7 +214,8 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		// Derivatives are filled for the groups that had a positive
 		// weight at the previous evaluation; a group that gains one now
 		// gets them afterwards (completeDerivatives).
-		skipDerivs := e.static[g] || (e.predicted && e.w[g] == 0)
+		// (staticDone: e.w holds the weights of an earlier evaluation.)
+		skipDerivs := e.static[g] || (e.staticDone && e.w[g] == 0)
 		for _, k := range members {
 			e.cols.Skip[k] = e.keep[g]
 			e.cols.valuesOnly[k] = skipDerivs
@@ -345,7 +343,6 @@ func (e *engine) completeDerivatives() {
 			e.cols.valuesOnly[k] = false
 		}
 	}
-	e.predicted = true
 	if missing {
 		e.p.Data.Fill(e.model, &e.cols, true)
 	}

@@ -432,7 +432,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
 		for _, t := range c.famTerms {
 			term := &m.Terms[t]
-			derivs := all && c.wantsDerivs(t)
+			own := all && c.wantsDerivs(t)
 			base := t*rows + r0
 			a := c.A[base : base+nc]
 			np := len(term.Shape.Params)
@@ -460,7 +460,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 				mom[0][0] += w
 				mom[0][1] += w * nd.Cos2
 				mom[0][2] += w * nd.Sin2
-				if !derivs {
+				if !own {
 					continue
 				}
 				wa, wb := w*nd.DA, w*nd.DB
@@ -482,7 +482,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 				for j := range a {
 					a[j] = mul0(math.Inf(1), b0[j]+bc[j]+bs[j])
 				}
-				if derivs {
+				if own {
 					c.clearDerivs(base, nc, np)
 				}
 				continue
@@ -493,7 +493,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 				}
 			}
 			comb(&mom[0], a)
-			if !derivs {
+			if !own {
 				continue
 			}
 			comb(&mom[1], c.DAngle[base:base+nc])

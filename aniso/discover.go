@@ -6,6 +6,7 @@ import (
 	"math"
 	"runtime"
 	"sort"
+	"strings"
 	"time"
 
 	"github.com/weft-tools/weft/terms"
@@ -137,6 +138,17 @@ type Discovery struct {
 	// hasCV is true when candidates were cross-validated (two protocols or
 	// more); those with CV nil were then left out as clearly worse.
 	hasCV bool
+	// unvalidated holds, per form key, the lowest-BIC model of a form none
+	// of whose models was cross-validated because each reduces to a
+	// simpler form's (see crossValidate), and why; the verdict reports it.
+	unvalidated map[string]formLeftOut
+}
+
+// formLeftOut is a form that the verdict could not weigh, with its best
+// in-sample model and the reason.
+type formLeftOut struct {
+	c   *Candidate
+	why string
 }
 
 // Compared returns the fit by which c is compared with the other
@@ -535,10 +547,14 @@ func (s *search) candidateMetrics() {
 	}
 }
 
-// crossValidate leaves one protocol out for every candidate that could be
-// its form's best: one whose BIC is more than cvBICWindow above its form's
-// best is worse in-sample even after the penalty for its size, and is not
-// cross-validated. Presets are cross-validated for comparison.
+// crossValidate leaves one protocol out for every candidate that could
+// speak for its form. Left out, and named in the search notes: one whose
+// BIC is more than cvBICWindow above its form's best (worse in-sample even
+// after the penalty for its size); a spread model with every family at the
+// fit's concentration bound (the ideal form's model with a parameter
+// more); and two families within 2° (one family, which the verdict would
+// not consider; see coincident), when the forms they reduce to are
+// searched. Presets are cross-validated for comparison.
 func (s *search) crossValidate() {
 	if len(s.p.Protocols) < 2 {
 		return
@@ -553,15 +569,91 @@ func (s *search) crossValidate() {
 			minBIC[k] = d.Pareto[i].Result.BIC
 		}
 	}
+	type form struct {
+		l                  Layout
+		planar, dispersion bool
+	}
+	searched := map[form]bool{}
+	for _, f := range s.forms {
+		searched[form{f.Layout, f.Planar, f.Dispersion}] = true
+	}
+	far := 0
+	var bound, one []string
 	for i := range d.Pareto {
-		if d.Pareto[i].Result.BIC-minBIC[FormKey(d.Pareto[i].Result.Structure)] <= cvBICWindow {
-			cands = append(cands, &d.Pareto[i])
+		c := &d.Pareto[i]
+		st := c.Result.Structure
+		switch {
+		case c.Result.BIC-minBIC[FormKey(st)] > cvBICWindow:
+			far++
+		case spreadAtBound(c.Result) && searched[form{l: st.Layout}]:
+			bound = append(bound, c.Name)
+		case coincident(c.Result) && searched[form{LayoutSingle, st.Planar, st.Dispersion}]:
+			one = append(one, c.Name)
+		default:
+			cands = append(cands, c)
 		}
 	}
+	d.noteUnvalidated(cands)
 	for i := range d.Presets {
 		cands = append(cands, &d.Presets[i])
 	}
+	note := fmt.Sprintf("cross-validation: %d of the %d candidates cross-validated; %d left out because their BIC is more than %d above their form's best", len(d.Pareto)-far-len(bound)-len(one), len(d.Pareto), far, cvBICWindow)
+	if len(bound) > 0 {
+		note += fmt.Sprintf("; %s left out because every family of theirs is spread at the fit's bound on the concentration (b = %d, an ideal family within the resolution of a fitted angle), which makes them their ideal form's model with a parameter more", strings.Join(bound, ", "), FitMaxConcentration)
+	}
+	if len(one) > 0 {
+		note += fmt.Sprintf("; %s left out because their two families point the same way (within 2°), which makes them a one-family model with parameters more", strings.Join(one, ", "))
+	}
+	d.Search = append(d.Search, note)
 	crossValidate(s.p, cands, s.fitSet, s.pl)
+}
+
+// noteUnvalidated records every form of the front none of whose models is
+// among cands (front models to be cross-validated), with its lowest-BIC model and why that model reduces to a
+// simpler form's.
+func (d *Discovery) noteUnvalidated(cands []*Candidate) {
+	has := map[string]bool{}
+	for _, c := range cands {
+		has[FormKey(c.Result.Structure)] = true
+	}
+	for i := range d.Pareto {
+		c := &d.Pareto[i]
+		k := FormKey(c.Result.Structure)
+		if has[k] {
+			continue
+		}
+		if old, ok := d.unvalidated[k]; ok && old.c.Result.BIC <= c.Result.BIC {
+			continue
+		}
+		var why string
+		switch {
+		case coincident(c.Result):
+			why = fmt.Sprintf("its two families point the same way (%s), which is one family", anglesText(c.Result))
+		case spreadAtBound(c.Result):
+			why = fmt.Sprintf("every family of its models is spread at the fit's bound on the concentration (b = %d), an ideal family, which makes them %s's models with a parameter more", FitMaxConcentration, FormKey(Structure{Layout: c.Result.Structure.Layout}))
+		default:
+			continue
+		}
+		if d.unvalidated == nil {
+			d.unvalidated = map[string]formLeftOut{}
+		}
+		d.unvalidated[k] = formLeftOut{c: c, why: why}
+	}
+}
+
+// spreadAtBound reports whether r spreads its families in the plane with
+// every concentration at FitMaxConcentration: a spread form's model that
+// the data drove back to the ideal family.
+func spreadAtBound(r *Result) bool {
+	if !r.Structure.Planar || len(r.Model.Families) == 0 {
+		return false
+	}
+	for _, f := range r.Model.Families {
+		if f.Concentration < FitMaxConcentration {
+			return false
+		}
+	}
+	return true
 }
 
 // polish refits the chosen model on every point with the default

@@ -20,7 +20,49 @@ func discoverOn(t *testing.T, m *Model, o synthOptions) (*Discovery, *Problem) {
 	b := d.Best()
 	t.Logf("chosen %s: %s; verdict %s; %v", b.Name, b.Result.Summary(), d.Verdict.Families, d.Elapsed)
 	t.Logf("rule: %s", d.Rule)
+	checkLeftOutOfCV(t, d)
 	return d, p
+}
+
+// checkLeftOutOfCV checks which front models were cross-validated: all but
+// those more than cvBICWindow above their form's best BIC, spread models
+// with every family at the concentration bound, and two families within
+// 2°; and that a form left out whole is in the verdict's ΔBIC table and
+// its notes, with why.
+func checkLeftOutOfCV(t *testing.T, d *Discovery) {
+	t.Helper()
+	minBIC := map[string]float64{}
+	for _, c := range d.Pareto {
+		k := FormKey(c.Result.Structure)
+		if v, ok := minBIC[k]; !ok || c.Result.BIC < v {
+			minBIC[k] = c.Result.BIC
+		}
+	}
+	validated := map[string]bool{}
+	for _, c := range d.Pareto {
+		k := FormKey(c.Result.Structure)
+		reduces := spreadAtBound(c.Result) || coincident(c.Result)
+		far := c.Result.BIC-minBIC[k] > cvBICWindow
+		if want := !far && !reduces; (c.CV != nil) != want {
+			t.Errorf("%s: cross-validated %v, want %v (ΔBIC in form %.1f, reduces to a simpler form %v)", c.Name, c.CV != nil, want, c.Result.BIC-minBIC[k], reduces)
+		}
+		validated[k] = validated[k] || c.CV != nil
+	}
+	for k, ok := range validated {
+		if ok {
+			continue
+		}
+		if _, in := d.Verdict.DeltaBIC[k]; !in {
+			t.Errorf("form %s was not cross-validated and is missing from the verdict's ΔBIC", k)
+		}
+		said := false
+		for _, n := range d.Verdict.RuledOut {
+			said = said || strings.HasPrefix(n, k+" was not considered: ")
+		}
+		if !said {
+			t.Errorf("form %s was not cross-validated and the verdict does not say why: %q", k, d.Verdict.RuledOut)
+		}
+	}
 }
 
 // heldOutWithin checks that every held-out protocol of the chosen model is
@@ -49,6 +91,12 @@ func TestDiscoverOneFamilyNoShear(t *testing.T) {
 		}
 	}
 	heldOutWithin(t, d, 0.01)
+	// The fibres are ideal, so the single spread form's models go to the
+	// concentration bound: the ideal form's models with a parameter more,
+	// which are not cross-validated.
+	if _, ok := d.unvalidated["1+dispersed"]; !ok {
+		t.Errorf("ideal fibres: 1+dispersed was cross-validated (ruled out: %q)", d.Verdict.RuledOut)
+	}
 }
 
 func TestDiscoverOneFamilyWithShear(t *testing.T) {

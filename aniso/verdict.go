@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 )
 
@@ -25,7 +26,9 @@ type Verdict struct {
 	// richest (see select.go).
 	Comparisons []LayoutComparison
 	// RuledOut names the richer explanations that fitted better without
-	// beating the verdict's form by more than the noise, and look-alikes.
+	// beating the verdict's form by more than the noise, and look-alikes,
+	// and the forms that were not considered, with why (two families that
+	// point the same way; spread families all at the concentration bound).
 	RuledOut []string
 	// Noise is the estimated noise in held-out-error units and StdErrFloor
 	// the smallest standard error a comparison may claim.
@@ -124,6 +127,21 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	minBIC := math.Inf(1)
 	for _, fb := range bests {
 		minBIC = math.Min(minBIC, fb.c.Result.BIC)
+	}
+	var left []string
+	for k := range d.unvalidated {
+		left = append(left, k)
+	}
+	sort.Slice(left, func(a, b int) bool {
+		return formRank(d.unvalidated[left[a]].c.Result.Structure) < formRank(d.unvalidated[left[b]].c.Result.Structure)
+	})
+	for _, k := range left {
+		lo := d.unvalidated[k]
+		minBIC = math.Min(minBIC, lo.c.Result.BIC)
+		notes = append(notes, fmt.Sprintf("%s was not considered: %s", k, lo.why))
+	}
+	for _, k := range left {
+		v.DeltaBIC[k] = d.unvalidated[k].c.Result.BIC - minBIC
 	}
 	byKey := map[string]*formBest{}
 	for _, fb := range bests {

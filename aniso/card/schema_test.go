@@ -171,7 +171,7 @@ func buildSchema() []byte {
 			{"delta_bic", obj{{"type", "object"}, {"description", "per form (0, 1, 1+dispersed, 2-mirror, 2-free, ...): its best BIC minus the best over forms, dimensionless"}}},
 			{"heldout_error", obj{{"type", "object"}, {"description", "per form: its best leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
 			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive"}}},
-			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes"}}},
+			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes; and forms not considered, with why"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
 		}},
 	}

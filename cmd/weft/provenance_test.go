@@ -72,8 +72,11 @@ func TestFormOptionsResolved(t *testing.T) {
 }
 
 // A default discovery card records every default that decides its result,
-// the in-plane dispersion discovery tries among them, and M1's verdict,
-// which rules nothing out, writes verdict.ruled_out as [].
+// the in-plane dispersion discovery tries among them, and M1's verdict
+// names the spread forms it did not consider: M1's fibres are ideal
+// (synthetic, testdata/demo/README.md), so every spread model goes to the
+// concentration bound. (An empty list is written as [], not null:
+// aniso/card's TestVerdictListsAlwaysWritten.)
 func TestDiscoveryCardRecordsDefaults(t *testing.T) {
 	t.Parallel()
 	c, raw := readCardFile(t, filepath.Join(demoFits(t).dir, "membrane-M1.weft", "model.json"))
@@ -87,8 +90,18 @@ func TestDiscoveryCardRecordsDefaults(t *testing.T) {
 	if err := json.Unmarshal(raw, &keys); err != nil {
 		t.Fatal(err)
 	}
-	if got := string(keys.Verdict["ruled_out"]); got != "[]" {
-		t.Errorf("verdict.ruled_out is %q, want []", got)
+	var ruled []string
+	if err := json.Unmarshal(keys.Verdict["ruled_out"], &ruled); err != nil {
+		t.Fatalf("verdict.ruled_out %s: %v", keys.Verdict["ruled_out"], err)
+	}
+	for _, form := range []string{"1+dispersed", "2-mirror+dispersed", "2-free+dispersed"} {
+		found := false
+		for _, r := range ruled {
+			found = found || strings.HasPrefix(r, form+" was not considered: every family of its models is spread at the fit's bound")
+		}
+		if !found {
+			t.Errorf("verdict.ruled_out %q does not say why %s was not considered", ruled, form)
+		}
 	}
 }
 

@@ -435,7 +435,9 @@ func (s *search) forwardSteps() {
 
 // planarVariants refits, with the families spread in the plane, the best
 // model of every size of each ideal two-family layout whose BIC is within
-// cvBICWindow of that layout's best, warm-started from the ideal fit.
+// cvBICWindow of that layout's best, warm-started from the ideal fit; not
+// one whose families coincide (one family: the one-family spread form is
+// searched on its own).
 func (s *search) planarVariants() {
 	bm := s.bestBySize()
 	var round []*refit
@@ -450,10 +452,17 @@ func (s *search) planarVariants() {
 				minBIC = math.Min(minBIC, r.BIC)
 			}
 		}
-		n := 0
+		n, same := 0, 0
 		for size := 1; size <= s.set.MaxTerms; size++ {
 			r, ok := bm[sizeKey{base, size}]
 			if !ok || r.BIC-minBIC > cvBICWindow {
+				continue
+			}
+			if coincident(r) {
+				// Two families that point the same way are one family, and
+				// so is their spread variant: the one-family spread form
+				// is searched on its own.
+				same++
 				continue
 			}
 			st, ok := planarVariant(activeStructure(r))
@@ -463,7 +472,11 @@ func (s *search) planarVariants() {
 			round = append(round, &refit{form: i, st: st, init: r.Params()})
 			n++
 		}
-		s.d.Search = append(s.d.Search, fmt.Sprintf("%s: the best model of each size of the %s layout within ΔBIC 10 of its best (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n))
+		note := fmt.Sprintf("%s: the best model of each size of the %s layout within ΔBIC 10 of its best (%d) refitted with its families spread in the plane (concentration learned)", formName(f), f.Layout, n)
+		if same > 0 {
+			note += fmt.Sprintf("; %d more left out because their two families point the same way (within 2°), which is one family", same)
+		}
+		s.d.Search = append(s.d.Search, note)
 	}
 	s.runRefits(round)
 }

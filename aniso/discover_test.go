@@ -308,3 +308,41 @@ func TestDiscoverDegenerate(t *testing.T) {
 		t.Errorf("all-zero stress: want an error that says the stress is zero, got %v (result %v)", err, d)
 	}
 }
+
+// A mirror pair whose two families point the same way is one family: its
+// spread variant is not refitted (the one-family spread form is searched
+// on its own), and the search notes say so; a pair at ±40° is refitted.
+func TestPlanarVariantSkipsCoincidentPair(t *testing.T) {
+	mirror := Structure{Layout: LayoutMirror, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+	for _, tc := range []struct {
+		name      string
+		truth     *Model
+		coincides bool
+	}{
+		{"one family along axis 1", oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 0), true},
+		{"a pair at ±40°", hgoModel(4, 15, 3, 40), false},
+	} {
+		p, err := NewProblem(synthSpecimen(t, tc.truth, synthOptions{noise: 0.01, points: 20}), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := Fit(p, mirror, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if coincident(r) != tc.coincides {
+			t.Fatalf("%s: the mirror fit's families %s coincide %v, want %v", tc.name, anglesText(r), coincident(r), tc.coincides)
+		}
+		s := &search{p: p, set: DiscoverSettings{MaxTerms: 2}.withDefaults(), pl: &pool{n: 1}, d: &Discovery{},
+			forms:     []Structure{{Layout: LayoutMirror}, {Layout: LayoutMirror, Planar: true}},
+			variantOf: map[int]int{1: 0}, full: []*Result{r, nil}, fullErr: []error{nil, errVariant},
+			refits: []*refit{{form: 0, st: mirror, res: r}}}
+		s.fitSet = Settings{Tolerance: searchTolerance, MaxIterations: searchMaxIterations, SearchQuadrature: true}
+		s.planarVariants()
+		refitted := len(s.refits) - 1
+		left := strings.Contains(s.d.Search[0], "1 more left out because their two families point the same way")
+		if tc.coincides && (refitted != 0 || !left) || !tc.coincides && (refitted != 1 || left) {
+			t.Errorf("%s: %d spread variants refitted; note %q", tc.name, refitted, s.d.Search[0])
+		}
+	}
+}

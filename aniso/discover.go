@@ -410,12 +410,23 @@ func (s *search) bestBySize() map[sizeKey]*Result {
 // forwardBranch terms that lower its loss most, warm-started, so that the
 // front is nested as well as searched.
 func (s *search) forwardSteps() {
+	ideal := map[Layout]bool{}
+	for _, f := range s.forms {
+		ideal[f.Layout] = ideal[f.Layout] || !f.Planar && !f.Dispersion
+	}
+	atBound := make([]int, len(s.forms))
 	for k := 2; k <= s.set.MaxTerms; k++ {
 		bm := s.bestBySize()
 		var round []*refit
 		for i, f := range s.forms {
 			base, ok := bm[sizeKey{i, k - 1}]
 			if !ok || s.fullErr[i] != nil {
+				continue
+			}
+			if spreadAtBound(base) && ideal[f.Layout] {
+				// The ideal form's model with a parameter more: the ideal
+				// form's own forward steps grow it.
+				atBound[i]++
 				continue
 			}
 			bst := activeStructure(base)
@@ -430,6 +441,11 @@ func (s *search) forwardSteps() {
 			}
 		}
 		s.runRefits(round)
+	}
+	for i, n := range atBound {
+		if n > 0 {
+			s.d.Search = append(s.d.Search, fmt.Sprintf("%s: no forward steps from %d best models whose every family is spread at the fit's bound on the concentration (b = %d, an ideal family): the %s form's own forward steps grow that model", formName(s.forms[i]), n, FitMaxConcentration, formName(Structure{Layout: s.forms[i].Layout})))
+		}
 	}
 }
 

@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -344,5 +345,36 @@ func TestPlanarVariantSkipsCoincidentPair(t *testing.T) {
 		if tc.coincides && (refitted != 0 || !left) || !tc.coincides && (refitted != 1 || left) {
 			t.Errorf("%s: %d spread variants refitted; note %q", tc.name, refitted, s.d.Search[0])
 		}
+	}
+}
+
+// A spread model whose family sits at the concentration bound is the
+// ideal form's model with a parameter more: discovery grows it no further
+// (the ideal form's forward steps grow that model), and says so.
+func TestNoForwardStepsFromSpreadAtBound(t *testing.T) {
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 35)
+	p, err := NewProblem(synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20}), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spread := Structure{Layout: LayoutSingle, Planar: true, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+	r, err := Fit(p, spread, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !spreadAtBound(r) {
+		t.Fatalf("ideal fibres: the spread fit's concentration is %g, want the bound %d", r.Model.Families[0].Concentration, FitMaxConcentration)
+	}
+	s := &search{p: p, set: DiscoverSettings{MaxTerms: 3}.withDefaults(), pl: &pool{n: 1}, d: &Discovery{},
+		forms:   []Structure{{Layout: LayoutSingle}, {Layout: LayoutSingle, Planar: true}},
+		full:    []*Result{nil, nil},
+		fullErr: []error{errors.New("not part of this test"), nil},
+		refits:  []*refit{{form: 1, st: spread, res: r}}}
+	s.forwardSteps()
+	if len(s.refits) != 1 {
+		t.Errorf("%d forward steps taken from a spread model at the bound", len(s.refits)-1)
+	}
+	if len(s.d.Search) != 1 || !strings.Contains(s.d.Search[0], "no forward steps from 1 best models whose every family is spread at the fit's bound") {
+		t.Errorf("search notes %q", s.d.Search)
 	}
 }

@@ -38,13 +38,14 @@ func crossValidate(p *Problem, cands []*Candidate, set Settings, pl *pool) {
 		folds[i] = make([]CVFold, nf)
 	}
 	var jobs []func()
+	var cost []float64
 	for ci, c := range cands {
 		for f := 0; f < nf; f++ {
-			ci, c, f := ci, c, f
 			jobs = append(jobs, func() { folds[ci][f] = cvFold(p, c.Result, f, set) })
+			cost = append(cost, fitCost(c.Result.Structure))
 		}
 	}
-	pl.run(jobs)
+	pl.runDearFirst(jobs, cost)
 	for ci, c := range cands {
 		sc := &CVScore{Folds: folds[ci]}
 		for _, f := range sc.Folds {

@@ -305,22 +305,44 @@ func (s *search) fitFullForms() {
 	s.full = make([]*Result, len(s.forms))
 	s.fullErr = make([]error, len(s.forms))
 	var jobs []func()
+	var cost []float64
 	for i, f := range s.forms {
 		if _, ok := s.variantOf[i]; ok {
 			s.fullErr[i] = errVariant
 			continue
 		}
+		st := fullStructure(s.set.Shapes, f)
 		jobs = append(jobs, func() {
-			s.full[i], s.fullErr[i] = Fit(s.p, fullStructure(s.set.Shapes, f), s.fitSet)
+			s.full[i], s.fullErr[i] = Fit(s.p, st, s.fitSet)
 		})
+		cost = append(cost, fitCost(st))
 	}
-	s.pl.run(jobs)
+	s.pl.runDearFirst(jobs, cost)
+}
+
+// fitCost estimates the relative cost of fitting st, for scheduling
+// only: a column per term and point, a spread family's about twenty
+// quadrature directions per point, two families' angles doubling the
+// iterations and scans.
+func fitCost(st Structure) float64 {
+	c := 1.0
+	for _, t := range st.Terms {
+		c++
+		if t.Family >= 0 && st.Planar {
+			c += 20
+		}
+	}
+	if st.Layout.Families() == 2 {
+		c *= 2
+	}
+	return c
 }
 
 // runRefits fits each refit's form, warm-started, drops the terms the
 // data do not support (withoutDegenerate) and records the refits.
 func (s *search) runRefits(rs []*refit) {
 	var jobs []func()
+	var cost []float64
 	for _, rf := range rs {
 		jobs = append(jobs, func() {
 			set := s.fitSet
@@ -329,8 +351,9 @@ func (s *search) runRefits(rs []*refit) {
 				rf.res = withoutDegenerate(s.p, r, set)
 			}
 		})
+		cost = append(cost, fitCost(rf.st))
 	}
-	s.pl.run(jobs)
+	s.pl.runDearFirst(jobs, cost)
 	s.refits = append(s.refits, rs...)
 }
 

@@ -362,52 +362,73 @@ func (s *search) runRefits(rs []*refit) {
 // whole catalogue does not decide which subsets are tried) and refits the
 // best of each size with their own angles and shape parameters.
 func (s *search) refitSubsets() {
-	var round []*refit
+	// The forms' searches run side by side (each on its own full fit's
+	// engine); their refits and notes are gathered in form order.
+	rounds := make([][]*refit, len(s.forms))
+	notes := make([]string, len(s.forms))
+	var jobs []func()
+	var cost []float64
 	for i, f := range s.forms {
 		if _, ok := s.variantOf[i]; ok {
 			continue
 		}
 		if s.fullErr[i] != nil {
-			s.d.Search = append(s.d.Search, fmt.Sprintf("%s: the full candidate fit failed (%v)", formName(f), s.fullErr[i]))
+			notes[i] = fmt.Sprintf("%s: the full candidate fit failed (%v)", formName(f), s.fullErr[i])
 			continue
 		}
-		full := s.full[i]
-		anchors := full.alternates
-		keep := s.set.RefitPerSize
-		if f.Planar {
-			// A dispersed form's fits cost an angular integration per
-			// point: one anchor, the best subset of each size.
-			anchors, keep = anchors[:min(len(anchors), 1)], 1
+		jobs = append(jobs, func() { rounds[i], notes[i] = s.subsetRound(i) })
+		cost = append(cost, float64(len(s.full[i].Structure.Terms)))
+	}
+	s.pl.runDearFirst(jobs, cost)
+	var round []*refit
+	for i := range s.forms {
+		if notes[i] != "" {
+			s.d.Search = append(s.d.Search, notes[i])
 		}
-		if len(anchors) > maxAnchors {
-			anchors = anchors[:maxAnchors]
-		}
-		seen := map[string]bool{}
-		var how string
-		for ai, th := range anchors {
-			best, h := searchSubsets(full, th, s.set.MaxTerms, keep, s.set.ExhaustiveLimit)
-			if ai == 0 {
-				how = h
-			}
-			init := paramsAt(full, th)
-			for _, group := range best {
-				for _, sub := range group {
-					key := fmt.Sprint(sub.terms)
-					if seen[key] {
-						continue
-					}
-					seen[key] = true
-					st := f.withTerms(nil)
-					for _, k := range sub.terms {
-						st.Terms = append(st.Terms, full.Structure.Terms[k])
-					}
-					round = append(round, &refit{form: i, st: st, init: init})
-				}
-			}
-		}
-		s.d.Search = append(s.d.Search, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size the %d terms that reduce the loss most", formName(f), how, len(anchors), forwardBranch))
+		round = append(round, rounds[i]...)
 	}
 	s.runRefits(round)
+}
+
+// subsetRound searches the term subsets of form i at its anchors and
+// returns the refits to run and the search note.
+func (s *search) subsetRound(i int) ([]*refit, string) {
+	f, full := s.forms[i], s.full[i]
+	anchors := full.alternates
+	keep := s.set.RefitPerSize
+	if f.Planar {
+		// A dispersed form's fits cost an angular integration per
+		// point: one anchor, the best subset of each size.
+		anchors, keep = anchors[:min(len(anchors), 1)], 1
+	}
+	if len(anchors) > maxAnchors {
+		anchors = anchors[:maxAnchors]
+	}
+	var round []*refit
+	seen := map[string]bool{}
+	var how string
+	for ai, th := range anchors {
+		best, h := searchSubsets(full, th, s.set.MaxTerms, keep, s.set.ExhaustiveLimit)
+		if ai == 0 {
+			how = h
+		}
+		init := paramsAt(full, th)
+		for _, group := range best {
+			for _, sub := range group {
+				key := fmt.Sprint(sub.terms)
+				if seen[key] {
+					continue
+				}
+				seen[key] = true
+				st := f.withTerms(nil)
+				for _, k := range sub.terms {
+					st.Terms = append(st.Terms, full.Structure.Terms[k])
+				}
+				round = append(round, &refit{form: i, st: st, init: init})
+			}
+		}
+	}
+	return round, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size the %d terms that reduce the loss most", formName(f), how, len(anchors), forwardBranch)
 }
 
 // bestBySize returns the best refit of each form and number of active

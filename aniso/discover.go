@@ -454,10 +454,6 @@ func (s *search) bestBySize() map[sizeKey]*Result {
 // forwardBranch terms that lower its loss most, warm-started, so that the
 // front is nested as well as searched.
 func (s *search) forwardSteps() {
-	ideal := map[Layout]bool{}
-	for _, f := range s.forms {
-		ideal[f.Layout] = ideal[f.Layout] || !f.Planar && !f.Dispersion
-	}
 	atBound := make([]int, len(s.forms))
 	for k := 2; k <= s.set.MaxTerms; k++ {
 		bm := s.bestBySize()
@@ -467,7 +463,7 @@ func (s *search) forwardSteps() {
 			if !ok || s.fullErr[i] != nil {
 				continue
 			}
-			if spreadAtBound(base) && ideal[f.Layout] {
+			if _, ok := s.simplerForm(base); ok && spreadAtBound(base) {
 				// The ideal form's model with a parameter more: the ideal
 				// form's own forward steps grow it.
 				atBound[i]++
@@ -518,7 +514,7 @@ func (s *search) planarVariants() {
 			if !ok || r.BIC-minBIC > cvBICWindow {
 				continue
 			}
-			if coincident(r) {
+			if coincident(r) && s.hasForm(Structure{Layout: LayoutSingle, Planar: true}) {
 				// Two families that point the same way are one family, and
 				// so is their spread variant: the one-family spread form
 				// is searched on its own.
@@ -642,25 +638,17 @@ func (s *search) crossValidate() {
 			minBIC[k] = d.Pareto[i].Result.BIC
 		}
 	}
-	type form struct {
-		l                  Layout
-		planar, dispersion bool
-	}
-	searched := map[form]bool{}
-	for _, f := range s.forms {
-		searched[form{f.Layout, f.Planar, f.Dispersion}] = true
-	}
 	far := 0
 	var bound, one []string
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
-		st := c.Result.Structure
+		_, reduces := s.simplerForm(c.Result)
 		switch {
-		case c.Result.BIC-minBIC[FormKey(st)] > cvBICWindow:
+		case c.Result.BIC-minBIC[FormKey(c.Result.Structure)] > cvBICWindow:
 			far++
-		case spreadAtBound(c.Result) && searched[form{l: st.Layout}]:
+		case reduces && spreadAtBound(c.Result):
 			bound = append(bound, c.Name)
-		case coincident(c.Result) && searched[form{LayoutSingle, st.Planar, st.Dispersion}]:
+		case reduces:
 			one = append(one, c.Name)
 		default:
 			cands = append(cands, c)
@@ -712,6 +700,36 @@ func (d *Discovery) noteUnvalidated(cands []*Candidate) {
 		}
 		d.unvalidated[k] = formLeftOut{c: c, why: why}
 	}
+}
+
+// hasForm reports whether st's form (layout, spread, dispersion) is
+// searched.
+func (s *search) hasForm(st Structure) bool {
+	for _, f := range s.forms {
+		if f.Layout == st.Layout && f.Planar == st.Planar && f.Dispersion == st.Dispersion {
+			return true
+		}
+	}
+	return false
+}
+
+// simplerForm returns the searched form whose model r is with parameters
+// more, if there is one: a spread model with every family at the
+// concentration bound is its ideal layout's (spreadAtBound), two families
+// within 2° are one family's, spread or not as r is (coincident). Such a
+// model is neither cross-validated nor grown: the simpler form speaks for
+// it.
+func (s *search) simplerForm(r *Result) (Structure, bool) {
+	var f Structure
+	switch {
+	case spreadAtBound(r):
+		f = Structure{Layout: r.Structure.Layout}
+	case coincident(r):
+		f = Structure{Layout: LayoutSingle, Planar: r.Structure.Planar, Dispersion: r.Structure.Dispersion}
+	default:
+		return Structure{}, false
+	}
+	return f, s.hasForm(f)
 }
 
 // spreadAtBound reports whether r spreads its families in the plane with

@@ -311,8 +311,8 @@ func TestDiscoverDegenerate(t *testing.T) {
 }
 
 // A mirror pair whose two families point the same way is one family: its
-// spread variant is not refitted (the one-family spread form is searched
-// on its own), and the search notes say so; a pair at ±40° is refitted.
+// spread variant is not refitted when the one-family spread form is
+// searched, and the search notes say so; a pair at ±40° is refitted.
 func TestPlanarVariantSkipsCoincidentPair(t *testing.T) {
 	mirror := Structure{Layout: LayoutMirror, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
 	for _, tc := range []struct {
@@ -335,8 +335,8 @@ func TestPlanarVariantSkipsCoincidentPair(t *testing.T) {
 			t.Fatalf("%s: the mirror fit's families %s coincide %v, want %v", tc.name, anglesText(r), coincident(r), tc.coincides)
 		}
 		s := &search{p: p, set: DiscoverSettings{MaxTerms: 2}.withDefaults(), pl: &pool{n: 1}, d: &Discovery{},
-			forms:     []Structure{{Layout: LayoutMirror}, {Layout: LayoutMirror, Planar: true}},
-			variantOf: map[int]int{1: 0}, full: []*Result{r, nil}, fullErr: []error{nil, errVariant},
+			forms:     []Structure{{Layout: LayoutMirror}, {Layout: LayoutMirror, Planar: true}, {Layout: LayoutSingle, Planar: true}},
+			variantOf: map[int]int{1: 0}, full: []*Result{r, nil, nil}, fullErr: []error{nil, errVariant, errors.New("not part of this test")},
 			refits: []*refit{{form: 0, st: mirror, res: r}}}
 		s.fitSet = Settings{Tolerance: searchTolerance, MaxIterations: searchMaxIterations, SearchQuadrature: true}
 		s.planarVariants()

@@ -454,7 +454,7 @@ func (s *search) bestBySize() map[sizeKey]*Result {
 // forwardBranch terms that lower its loss most, warm-started, so that the
 // front is nested as well as searched.
 func (s *search) forwardSteps() {
-	atBound := make([]int, len(s.forms))
+	reduced := make([]int, len(s.forms))
 	for k := 2; k <= s.set.MaxTerms; k++ {
 		bm := s.bestBySize()
 		var round []*refit
@@ -463,10 +463,10 @@ func (s *search) forwardSteps() {
 			if !ok || s.fullErr[i] != nil {
 				continue
 			}
-			if _, ok := s.simplerForm(base); ok && spreadAtBound(base) {
-				// The ideal form's model with a parameter more: the ideal
-				// form's own forward steps grow it.
-				atBound[i]++
+			if _, ok := s.simplerForm(base); ok {
+				// A simpler form's model with parameters more: that form's
+				// own forward steps grow it.
+				reduced[i]++
 				continue
 			}
 			bst := activeStructure(base)
@@ -482,9 +482,9 @@ func (s *search) forwardSteps() {
 		}
 		s.runRefits(round)
 	}
-	for i, n := range atBound {
+	for i, n := range reduced {
 		if n > 0 {
-			s.d.Search = append(s.d.Search, fmt.Sprintf("%s: no forward steps from %d best models whose every family is spread at the fit's bound on the concentration (b = %d, an ideal family): the %s form's own forward steps grow that model", formName(s.forms[i]), n, FitMaxConcentration, formName(Structure{Layout: s.forms[i].Layout})))
+			s.d.Search = append(s.d.Search, fmt.Sprintf("%s: no forward steps from %d best models that are a simpler form's with parameters more (every family spread at the fit's bound on the concentration, b = %d, which is an ideal family; or two families within 2°, which is one): that form's own forward steps grow them", formName(s.forms[i]), n, FitMaxConcentration))
 		}
 	}
 }

@@ -374,7 +374,7 @@ func TestNoForwardStepsFromSpreadAtBound(t *testing.T) {
 	if len(s.refits) != 1 {
 		t.Errorf("%d forward steps taken from a spread model at the bound", len(s.refits)-1)
 	}
-	if len(s.d.Search) != 1 || !strings.Contains(s.d.Search[0], "no forward steps from 1 best models whose every family is spread at the fit's bound") {
+	if len(s.d.Search) != 1 || !strings.Contains(s.d.Search[0], "no forward steps from 1 best models that are a simpler form") {
 		t.Errorf("search notes %q", s.d.Search)
 	}
 }

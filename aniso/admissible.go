@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"sync"
 
 	"github.com/weft-tools/weft/terms"
 )
@@ -376,9 +377,7 @@ func (m *Model) ReferenceStress() (maxAbs, tol float64, err error) {
 func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
 	best := math.Inf(1)
 	var ba, bb [2]float64
-	for k := 0; k < n; k++ {
-		s, c := math.Sincos(math.Pi * float64(k) / float64(n))
-		b := [2]float64{c, s}
+	for _, b := range ellipticityDirections(n) {
 		var Q [2][2]float64
 		for i := 0; i < 2; i++ {
 			for kk := 0; kk < 2; kk++ {
@@ -393,7 +392,16 @@ func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
 		}
 		q12 := 0.5 * (Q[0][1] + Q[1][0])
 		mid := 0.5 * (Q[0][0] + Q[1][1])
-		rad := math.Hypot(0.5*(Q[0][0]-Q[1][1]), q12)
+		dx := 0.5 * (Q[0][0] - Q[1][1])
+		// e = mid − √(dx² + q12²) cannot beat best when mid − best > 0
+		// and (mid − best)² exceeds dx² + q12² by far more than their
+		// rounding: skip the exact square root then (it is most of a
+		// scan's time). Anything else, overflow and NaN included, takes
+		// the exact path, so the result is the same either way.
+		if g := mid - best; g > 0 && g*g > (dx*dx+q12*q12)*(1+1e-9) {
+			continue
+		}
+		rad := math.Hypot(dx, q12)
 		e := mid - rad
 		if e < best {
 			best, bb = e, b
@@ -411,6 +419,24 @@ func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
 	}
 	return best, ba, bb
 }
+
+// ellipticityDirections returns the n directions b = (cos θ, sin θ),
+// θ = πk/n, k = 0…n−1, computed once per n for every point of a scan.
+func ellipticityDirections(n int) [][2]float64 {
+	if v, ok := directionTables.Load(n); ok {
+		return v.([][2]float64)
+	}
+	bs := make([][2]float64, n)
+	for k := range bs {
+		s, c := math.Sincos(math.Pi * float64(k) / float64(n))
+		bs[k] = [2]float64{c, s}
+	}
+	v, _ := directionTables.LoadOrStore(n, bs)
+	return v.([][2]float64)
+}
+
+// directionTables caches ellipticityDirections by n.
+var directionTables sync.Map
 
 // minEigen4 returns the smallest eigenvalue of a symmetric 4×4 matrix.
 func minEigen4(A *[4][4]float64) float64 {

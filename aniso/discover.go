@@ -123,7 +123,9 @@ type Discovery struct {
 	Rule   string
 	// Verdict on the number of fibre families.
 	Verdict Verdict
-	// Search describes how subsets were searched per layout.
+	// Search notes, in words, how each form was searched, which models
+	// were left out of a stage and why, and which candidates were
+	// cross-validated.
 	Search []string
 	// CrossR2[i][j] is the mean R² over components of protocol j predicted
 	// by the chosen form fitted to protocol i alone (NaN where undefined).

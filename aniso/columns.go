@@ -271,7 +271,6 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 			d.fillPlanar(m, f, c, derivs)
 		}
 	}
-	all := derivs
 	for t := range m.Terms {
 		if c.Skip != nil && c.Skip[t] {
 			continue
@@ -280,18 +279,18 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 		if term.Family >= 0 && m.Families[term.Family].Planar {
 			continue
 		}
-		own := all && c.wantsDerivs(t)
+		own := derivs && c.wantsDerivs(t)
 		col := c.A[t*rows : (t+1)*rows]
 		if term.Shape.Arg == terms.Green {
-			d.fillGreen(term, col, c, t*rows, all)
+			d.fillGreen(term, col, c, t*rows, derivs)
 			continue
 		}
 		if term.Shape.Arg == terms.Principal {
-			d.fillPrincipal(term, col, c, t*rows, all)
+			d.fillPrincipal(term, col, c, t*rows, derivs)
 			continue
 		}
 		if !term.Shape.Arg.NeedsFamily() {
-			d.fillIsotropic(term, col, c, t*rows, all)
+			d.fillIsotropic(term, col, c, t*rows, derivs)
 			continue
 		}
 		kappa := m.Families[term.Family].Dispersion
@@ -319,7 +318,7 @@ func (d *Dataset) Fill(m *Model, c *Columns, derivs bool) {
 				// with them, so that it does not depend on which terms'
 				// derivatives were asked for.
 				var d1 float64
-				if all {
+				if derivs {
 					d1 = term.Shape.Eval(s.X, term.Params).D1
 				} else {
 					d1 = term.Shape.Slope(s.X, term.Params)

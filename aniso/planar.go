@@ -414,7 +414,6 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 	}
 	rows, nc := d.Rows(), len(d.out.Components)
 	fam := &m.Families[f]
-	all := derivs
 	c.kinks = familyKinks(m, f, c.kinks[:0])
 	c.famTerms = c.famTerms[:0]
 	for t := range m.Terms {
@@ -432,7 +431,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
 		for _, t := range c.famTerms {
 			term := &m.Terms[t]
-			own := all && c.wantsDerivs(t)
+			own := derivs && c.wantsDerivs(t)
 			base := t*rows + r0
 			a := c.A[base : base+nc]
 			np := len(term.Shape.Params)
@@ -443,7 +442,7 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 			for _, nd := range c.rule.Nodes {
 				var d1 float64
 				var g [terms.MaxParams]float64
-				if all {
+				if derivs {
 					// In a fill with derivatives a term's column is
 					// formed as its derivatives' fill forms it, whether or
 					// not its own derivatives are asked for, so that the

@@ -128,9 +128,8 @@ func (r *Result) feltShare(p *Problem) []felt {
 	// Where each group is felt most: the axis and its count, formatted at
 	// the end.
 	type most struct {
-		set       bool
 		ax, count int
-		n         int
+		n         int // 0 until the group has an axis
 	}
 	best := make([]most, len(r.e.groups))
 	var rows []int
@@ -157,14 +156,14 @@ func (r *Result) feltShare(p *Problem) []felt {
 			}
 			f := &out[g]
 			f.axes++
-			if sh := float64(count) / float64(n); sh > f.share || !best[g].set {
+			if sh := float64(count) / float64(n); sh > f.share || best[g].n == 0 {
 				f.share = sh
-				best[g] = most{set: true, ax: ai, count: count, n: n}
+				best[g] = most{ax: ai, count: count, n: n}
 			}
 		}
 	}
 	for g, b := range best {
-		if b.set {
+		if b.n > 0 {
 			ax := axes[b.ax]
 			out[g].where = fmt.Sprintf("most on protocol %s axis %s: %d of %d points", p.Specimen.Protocols[ax.pi].Label, biaxial.Component(ax.comp).String(), b.count, b.n)
 		}

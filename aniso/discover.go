@@ -642,21 +642,24 @@ func (s *search) crossValidate() {
 	}
 	far := 0
 	var bound, one []string
+	why := map[*Candidate]string{} // why a model reduces to a simpler form's
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
-		_, reduces := s.simplerForm(c.Result)
+		f, reduces := s.simplerForm(c.Result)
 		switch {
 		case c.Result.BIC-minBIC[FormKey(c.Result.Structure)] > cvBICWindow:
 			far++
 		case reduces && spreadAtBound(c.Result):
 			bound = append(bound, c.Name)
+			why[c] = fmt.Sprintf("every family of its models is spread at the fit's bound on the concentration (b = %d), an ideal family, which makes them %s's models with a parameter more", FitMaxConcentration, FormKey(f))
 		case reduces:
 			one = append(one, c.Name)
+			why[c] = fmt.Sprintf("its two families point the same way (%s), which is one family", anglesText(c.Result))
 		default:
 			cands = append(cands, c)
 		}
 	}
-	d.noteUnvalidated(cands)
+	d.noteUnvalidated(cands, why)
 	for i := range d.Presets {
 		cands = append(cands, &d.Presets[i])
 	}
@@ -672,9 +675,10 @@ func (s *search) crossValidate() {
 }
 
 // noteUnvalidated records every form of the front none of whose models is
-// among cands (front models to be cross-validated), with its lowest-BIC model and why that model reduces to a
-// simpler form's.
-func (d *Discovery) noteUnvalidated(cands []*Candidate) {
+// among cands (the front models to be cross-validated) and that has a
+// model reducing to a simpler form's (why, keyed by candidate, says how),
+// with its lowest-BIC such model and the reason.
+func (d *Discovery) noteUnvalidated(cands []*Candidate, why map[*Candidate]string) {
 	has := map[string]bool{}
 	for _, c := range cands {
 		has[FormKey(c.Result.Structure)] = true
@@ -682,25 +686,17 @@ func (d *Discovery) noteUnvalidated(cands []*Candidate) {
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
 		k := FormKey(c.Result.Structure)
-		if has[k] {
+		w, reduces := why[c]
+		if has[k] || !reduces {
 			continue
 		}
 		if old, ok := d.unvalidated[k]; ok && old.c.Result.BIC <= c.Result.BIC {
 			continue
 		}
-		var why string
-		switch {
-		case coincident(c.Result):
-			why = fmt.Sprintf("its two families point the same way (%s), which is one family", anglesText(c.Result))
-		case spreadAtBound(c.Result):
-			why = fmt.Sprintf("every family of its models is spread at the fit's bound on the concentration (b = %d), an ideal family, which makes them %s's models with a parameter more", FitMaxConcentration, FormKey(Structure{Layout: c.Result.Structure.Layout}))
-		default:
-			continue
-		}
 		if d.unvalidated == nil {
 			d.unvalidated = map[string]formLeftOut{}
 		}
-		d.unvalidated[k] = formLeftOut{c: c, why: why}
+		d.unvalidated[k] = formLeftOut{c: c, why: w}
 	}
 }
 

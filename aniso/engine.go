@@ -70,6 +70,8 @@ type engine struct {
 	// dispersion with the search rule shifts its losses by the rule's error
 	// at the optimum, so that they compare with the fit's (see profiles).
 	lossOffset float64
+	// dotCols is crossProducts' scratch list of columns.
+	dotCols []int
 }
 
 // paramKind says what a non-linear parameter moves.
@@ -250,37 +252,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		e.loss = math.Inf(1)
 		return e.loss
 	}
-	y := e.p.Target
-	for i := 0; i < ng; i++ {
-		ai := e.A[i*rows : (i+1)*rows]
-		if !e.allowed[i] {
-			for j := 0; j < ng; j++ {
-				e.G[i*ng+j], e.G[j*ng+i] = 0, 0
-			}
-			e.b[i] = 0
-			continue
-		}
-		for j := 0; j <= i; j++ {
-			if !e.allowed[j] || e.keep[i] && e.keep[j] {
-				continue
-			}
-			aj := e.A[j*rows : (j+1)*rows]
-			s := 0.0
-			for r := range ai {
-				s += ai[r] * aj[r]
-			}
-			s /= e.norm[i] * e.norm[j]
-			e.G[i*ng+j], e.G[j*ng+i] = s, s
-		}
-		if e.keep[i] {
-			continue
-		}
-		s := 0.0
-		for r := range ai {
-			s += ai[r] * y[r]
-		}
-		e.b[i] = s / e.norm[i]
-	}
+	e.crossProducts()
 	e.staticDone = true
 	e.prevFam = append(e.prevFam[:0], e.model.Families...)
 	e.prevOK = true
@@ -291,7 +263,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 			e.w[g] = ws[g] / e.norm[g]
 		}
 	}
-	copy(e.r, y)
+	copy(e.r, e.p.Target)
 	for r := range e.r {
 		e.r[r] = -e.r[r]
 	}
@@ -316,6 +288,88 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		e.derivsAt = true
 	}
 	return loss
+}
+
+// crossProducts fills the scaled cross products G and b of every group
+// whose column changed. Each product is summed over the rows in order, as
+// a plain dot product would be, but up to four columns are taken against
+// group i in one pass over its column (dots4), which reads it once
+// instead of four times.
+func (e *engine) crossProducts() {
+	rows, ng := e.rows, e.ng
+	y := e.p.Target
+	js := e.dotCols[:0]
+	for i := 0; i < ng; i++ {
+		ai := e.A[i*rows : (i+1)*rows]
+		if !e.allowed[i] {
+			for j := 0; j < ng; j++ {
+				e.G[i*ng+j], e.G[j*ng+i] = 0, 0
+			}
+			e.b[i] = 0
+			continue
+		}
+		// Column index ng stands for the target y.
+		js = js[:0]
+		for j := 0; j <= i; j++ {
+			if !e.allowed[j] || e.keep[i] && e.keep[j] {
+				continue
+			}
+			js = append(js, j)
+		}
+		if !e.keep[i] {
+			js = append(js, ng)
+		}
+		col := func(j int) []float64 {
+			if j == ng {
+				return y
+			}
+			return e.A[j*rows : (j+1)*rows]
+		}
+		put := func(j int, s float64) {
+			if j == ng {
+				e.b[i] = s / e.norm[i]
+				return
+			}
+			s /= e.norm[i] * e.norm[j]
+			e.G[i*ng+j], e.G[j*ng+i] = s, s
+		}
+		k := 0
+		for ; k+4 <= len(js); k += 4 {
+			s := dots4(ai, col(js[k]), col(js[k+1]), col(js[k+2]), col(js[k+3]))
+			for m := range s {
+				put(js[k+m], s[m])
+			}
+		}
+		for ; k < len(js); k++ {
+			put(js[k], dot(ai, col(js[k])))
+		}
+	}
+	e.dotCols = js
+}
+
+// dot returns Σ a[r]·b[r], summed in order of r.
+func dot(a, b []float64) float64 {
+	b = b[:len(a)]
+	s := 0.0
+	for r, x := range a {
+		s += x * b[r]
+	}
+	return s
+}
+
+// dots4 returns the four dot products of a with b0…b3, each summed in
+// order of r exactly as dot sums it.
+func dots4(a, b0, b1, b2, b3 []float64) [4]float64 {
+	n := len(a)
+	b0, b1, b2, b3 = b0[:n], b1[:n], b2[:n], b3[:n]
+	var s0, s1, s2, s3 float64
+	for r, x := range a {
+		s0 += x * b0[r]
+		s1 += x * b1[r]
+		s2 += x * b2[r]
+		s3 += x * b3[r]
+	}
+	return [4]float64{s0, s1, s2, s3}
 }
 
 // holdsDerivatives reports whether the engine's state is a derivative

@@ -430,7 +430,24 @@ func (s *search) subsetRound(i int) ([]*refit, string) {
 			}
 		}
 	}
-	return round, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size the %d terms that reduce the loss most", formName(f), how, len(anchors), forwardBranch)
+	return round, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size %s", formName(f), how, len(anchors), additionsText(branchOf(f)))
+}
+
+// branchOf is how many single-term additions a forward step of form f
+// refits.
+func branchOf(f Structure) int {
+	if f.Planar {
+		return spreadForwardBranch
+	}
+	return forwardBranch
+}
+
+// additionsText says in words which additions a forward step refits.
+func additionsText(n int) string {
+	if n == 1 {
+		return "the one term that reduces the loss most"
+	}
+	return fmt.Sprintf("each of the %d terms that reduce the loss most", n)
 }
 
 // bestBySize returns the best refit of each form and number of active
@@ -453,8 +470,9 @@ func (s *search) bestBySize() map[sizeKey]*Result {
 }
 
 // forwardSteps grows the best model of each size k−1 by each of the
-// forwardBranch terms that lower its loss most, warm-started, so that the
-// front is nested as well as searched.
+// forwardBranch terms that lower its loss most (spreadForwardBranch for a
+// spread form), warm-started, so that the front is nested as well as
+// searched.
 func (s *search) forwardSteps() {
 	reduced := make([]int, len(s.forms))
 	for k := 2; k <= s.set.MaxTerms; k++ {
@@ -476,7 +494,7 @@ func (s *search) forwardSteps() {
 			for name, v := range base.Params() {
 				init[name] = v
 			}
-			for _, j := range rankAdditions(s.full[i], init, bst, forwardBranch) {
+			for _, j := range rankAdditions(s.full[i], init, bst, branchOf(f)) {
 				t := s.full[i].Structure.Terms[j]
 				st := f.withTerms(append(append([]TermSpec(nil), bst.Terms...), t))
 				round = append(round, &refit{form: i, st: st, init: init})

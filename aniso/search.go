@@ -42,10 +42,13 @@ type subset struct {
 
 // maxAnchors is how many local optima of the full candidate fit anchor the
 // subset search; forwardBranch how many single-term additions are refitted
-// per forward step.
+// per forward step, spreadForwardBranch how many for a family spread in
+// the plane, whose fits cost an angular integration per point (its subset
+// refits are cut the same way: one anchor, the best subset of each size).
 const (
-	maxAnchors    = 2
-	forwardBranch = 3
+	maxAnchors          = 2
+	forwardBranch       = 3
+	spreadForwardBranch = 1
 )
 
 // paramsAt names a full fit's non-linear parameters at θ.

@@ -72,6 +72,10 @@ type engine struct {
 	lossOffset float64
 	// dotCols is crossProducts' scratch list of columns.
 	dotCols []int
+	// memo, when set, serves the term columns and cross products of an
+	// evaluation without derivatives that an earlier one computed (a
+	// coarse scan of two angles, see scanMemo).
+	memo *scanMemo
 }
 
 // paramKind says what a non-linear parameter moves.
@@ -212,6 +216,13 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 	e.derivsAt = false
 	e.apply(theta)
 	e.markKept(derivs)
+	memo := e.memo
+	if derivs {
+		memo = nil
+	}
+	if memo != nil {
+		memo.look(e)
+	}
 	for g, members := range e.groups {
 		// Derivatives are filled for the groups that had a positive
 		// weight at the previous evaluation; a group that gains one now
@@ -219,7 +230,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		// (staticDone: e.w holds the weights of an earlier evaluation.)
 		skipDerivs := e.static[g] || (e.staticDone && e.w[g] == 0)
 		for _, k := range members {
-			e.cols.Skip[k] = e.keep[g]
+			e.cols.Skip[k] = e.keep[g] || memo != nil && memo.have[k]
 			e.cols.valuesOnly[k] = skipDerivs
 		}
 	}
@@ -230,10 +241,16 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		if e.keep[g] {
 			continue
 		}
+		col := func(k int) []float64 {
+			if memo != nil {
+				return memo.column(k, &e.cols, rows)
+			}
+			return e.cols.A[k*rows : (k+1)*rows]
+		}
 		a := e.A[g*rows : (g+1)*rows]
-		copy(a, e.cols.A[members[0]*rows:(members[0]+1)*rows])
+		copy(a, col(members[0]))
 		for _, k := range members[1:] {
-			src := e.cols.A[k*rows : (k+1)*rows]
+			src := col(k)
 			for r := range a {
 				a[r] += src[r]
 			}
@@ -252,7 +269,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		e.loss = math.Inf(1)
 		return e.loss
 	}
-	e.crossProducts()
+	e.crossProducts(memo)
 	e.staticDone = true
 	e.prevFam = append(e.prevFam[:0], e.model.Families...)
 	e.prevOK = true
@@ -295,7 +312,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 // a plain dot product would be, but up to four columns are taken against
 // group i in one pass over its column (dots4), which reads it once
 // instead of four times.
-func (e *engine) crossProducts() {
+func (e *engine) crossProducts(memo *scanMemo) {
 	rows, ng := e.rows, e.ng
 	y := e.p.Target
 	js := e.dotCols[:0]
@@ -319,6 +336,19 @@ func (e *engine) crossProducts() {
 		if !e.keep[i] {
 			js = append(js, ng)
 		}
+		if memo != nil {
+			// Products the memo holds are not computed again.
+			n := 0
+			for _, j := range js {
+				if v, ok := memo.product(e, i, j); ok {
+					e.setProduct(i, j, v)
+					continue
+				}
+				js[n] = j
+				n++
+			}
+			js = js[:n]
+		}
 		col := func(j int) []float64 {
 			if j == ng {
 				return y
@@ -327,11 +357,14 @@ func (e *engine) crossProducts() {
 		}
 		put := func(j int, s float64) {
 			if j == ng {
-				e.b[i] = s / e.norm[i]
-				return
+				s /= e.norm[i]
+			} else {
+				s /= e.norm[i] * e.norm[j]
 			}
-			s /= e.norm[i] * e.norm[j]
-			e.G[i*ng+j], e.G[j*ng+i] = s, s
+			if memo != nil {
+				memo.store(e, i, j, s)
+			}
+			e.setProduct(i, j, s)
 		}
 		k := 0
 		for ; k+4 <= len(js); k += 4 {
@@ -345,6 +378,16 @@ func (e *engine) crossProducts() {
 		}
 	}
 	e.dotCols = js
+}
+
+// setProduct sets the scaled cross product of groups i and j (j = ng:
+// the target, b).
+func (e *engine) setProduct(i, j int, v float64) {
+	if j == e.ng {
+		e.b[i] = v
+		return
+	}
+	e.G[i*e.ng+j], e.G[j*e.ng+i] = v, v
 }
 
 // dot returns Σ a[r]·b[r], summed in order of r.

@@ -153,6 +153,9 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 	if st.Planar {
 		de.cols.scan = &planarScan{}
 	}
+	if nAngles == 2 {
+		de.memo = newScanMemo(de)
+	}
 	step := Rad(set.ScanStepDeg)
 	grid := func(q param) []float64 {
 		// Periodic grids are offset by half a step: without shear, α = 0

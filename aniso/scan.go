@@ -138,9 +138,11 @@ func offSymmetry(a float64) float64 {
 	return a
 }
 
-// coarseStarts scans the angle parameters with the dictionary model and
-// returns starting θ vectors for the best local minima.
-func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []param) [][]float64 {
+// scanEngine returns the engine of st's coarse angle scan on p: the
+// dictionary model (see dictionary) with the angle parameters of params
+// alone, overflowing columns dropped, and a memo when two angles are
+// scanned (see scanMemo); and the dictionary's entries.
+func scanEngine(p *Problem, st Structure, params []param) (*engine, []dictEntry) {
 	dm, dg, dfam, entries := dictionary(st)
 	var dparams []param
 	for _, q := range params {
@@ -153,9 +155,17 @@ func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []
 	if st.Planar {
 		de.cols.scan = &planarScan{}
 	}
-	if nAngles == 2 {
+	if len(dparams) == 2 {
 		de.memo = newScanMemo(de)
 	}
+	return de, entries
+}
+
+// coarseStarts scans the angle parameters with the dictionary model and
+// returns starting θ vectors for the best local minima.
+func coarseStarts(p *Problem, st Structure, set Settings, nAngles int, params []param) [][]float64 {
+	de, entries := scanEngine(p, st, params)
+	dparams := de.params
 	step := Rad(set.ScanStepDeg)
 	grid := func(q param) []float64 {
 		// Periodic grids are offset by half a step: without shear, α = 0

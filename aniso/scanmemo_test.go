@@ -20,18 +20,13 @@ func TestScanMemoKeepsEveryBit(t *testing.T) {
 	for _, l := range []Layout{LayoutFree, LayoutMirror} {
 		st := canonical(fullStructure(shapes, Structure{Layout: l}))
 		engine := func(memo bool) *engine {
-			dm, dg, dfam, _ := dictionary(st)
 			_, _, _, params := build(st)
-			var dparams []param
-			for _, q := range params {
-				if q.Kind == kindAngle {
-					dparams = append(dparams, q)
-				}
+			e, _ := scanEngine(p, st, params)
+			if e.memo == nil {
+				t.Fatalf("%s: a scan of two angles without a memo", l)
 			}
-			e := newEngine(p, dm, dg, dfam, st.Layout, dparams)
-			e.skipOverflow = true
-			if memo {
-				e.memo = newScanMemo(e)
+			if !memo {
+				e.memo = nil
 			}
 			return e
 		}

@@ -559,7 +559,8 @@ func (s *search) planarVariants() {
 
 // paretoFront keeps, per form, the best refit at each number of parameters
 // (weights and non-linear parameters) that improves on every smaller model
-// of its form.
+// of its form by more than the refinement's tolerance (relative to the
+// loss): a smaller improvement is not resolved.
 func (s *search) paretoFront() error {
 	type pkey struct{ form, params int }
 	bestP := map[pkey]*Result{}
@@ -583,9 +584,15 @@ func (s *search) paretoFront() error {
 		return keys[a].params < keys[b].params
 	})
 	lastLoss := map[int]float64{}
+	unresolved := 0
 	for _, k := range keys {
 		r := bestP[k]
 		if prev, ok := lastLoss[k.form]; ok && r.Loss >= prev {
+			continue
+		} else if ok && r.Loss >= prev*(1-s.fitSet.Tolerance) {
+			// Lower by less than the refinement resolves: the smaller
+			// model's fit with parameters that do nothing.
+			unresolved++
 			continue
 		}
 		lastLoss[k.form] = r.Loss
@@ -595,6 +602,9 @@ func (s *search) paretoFront() error {
 	}
 	if len(s.d.Pareto) == 0 {
 		return ErrNoCandidate
+	}
+	if unresolved > 0 {
+		s.d.Search = append(s.d.Search, fmt.Sprintf("front: %d models left off because they lower the loss of their form's next smaller model by less than the refinement resolves (relative %g) with parameters more", unresolved, s.fitSet.Tolerance))
 	}
 	return nil
 }

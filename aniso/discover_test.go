@@ -3,6 +3,7 @@ package aniso
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -418,5 +419,42 @@ func TestSpreadFormForwardStepsRefitOneAddition(t *testing.T) {
 	// The README's step 3: three additions, one for a spread family.
 	if got[0] != 3 || got[1] != 1 {
 		t.Errorf("forward refits: %d for the ideal form, %d for the spread one; want 3 and 1", got[0], got[1])
+	}
+}
+
+// A model joins its form's front only when it lowers the loss of the
+// front's last model by more than the refinement resolves (the search's
+// tolerance, relative): below that it is the smaller model's fit with
+// parameters that do nothing, and cross-validating it would only repeat
+// the smaller model's folds. The search notes count such models.
+func TestFrontNeedsAResolvedImprovement(t *testing.T) {
+	iso := []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("i1-exp"), Family: -1}, {Shape: lookup("i1-quad"), Family: -1}}
+	model := func(n, params int, loss float64) *refit {
+		st := Structure{Layout: LayoutNone, Terms: iso[:n]}
+		w := make([]float64, n)
+		for i := range w {
+			w[i] = 1
+		}
+		return &refit{form: 0, st: st, res: &Result{Structure: st, Weights: w, Loss: loss, Complexity: params}}
+	}
+	s := &search{set: DiscoverSettings{}.withDefaults(), d: &Discovery{}, forms: []Structure{{Layout: LayoutNone}},
+		fitSet: Settings{Tolerance: searchTolerance}}
+	s.refits = []*refit{
+		model(1, 1, 1),
+		model(2, 3, 1*(1-0.5*searchTolerance)), // unresolved: left off
+		model(3, 4, 1*(1-2*searchTolerance)),   // resolved: on the front
+	}
+	if err := s.paretoFront(); err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, c := range s.d.Pareto {
+		names = append(names, c.Name)
+	}
+	if want := []string{"none-t1-p1", "none-t3-p4"}; !slices.Equal(names, want) {
+		t.Errorf("front %v, want %v", names, want)
+	}
+	if len(s.d.Search) != 1 || !strings.Contains(s.d.Search[0], "1 models left off") {
+		t.Errorf("search notes %q", s.d.Search)
 	}
 }

@@ -18,28 +18,22 @@ type scanMemo struct {
 	termClass, groupClass []int
 	// At the current evaluation: each term's and group's signature, and
 	// whether the memo holds the term's column.
-	termSig  []termSig
-	groupSig []groupSig
+	termSig  []memoSig
+	groupSig []memoSig
 	have     []bool
-	cols     map[termSig][]float64
-	target   map[groupSig]float64
-	cross    map[[2]groupSig]float64
+	cols     map[memoSig][]float64
+	target   map[memoSig]float64
+	cross    map[[2]memoSig]float64
 	// bytes is what the stored columns hold; none is stored beyond
 	// scanMemoBudget, so that a scan of a large problem stays in memory.
 	bytes int
 }
 
-// termSig is a term's class with its family's angle (bits; 0 for an
-// isotropic term).
-type termSig struct {
-	class int
-	angle uint64
-}
-
-// groupSig is a one-term design group's signature (products of groups of
-// two terms, a mirror pair's, are not remembered: a pair's two angles
-// rarely meet again).
-type groupSig struct {
+// memoSig is a term's or a one-term design group's class with its
+// family's angle (bits; 0 for an isotropic term). A group of two terms, a
+// mirror pair's, has class −1: its products are not remembered, since a
+// pair's two angles rarely meet again.
+type memoSig struct {
 	class int
 	angle uint64
 }
@@ -49,9 +43,9 @@ const scanMemoBudget = 16 << 20
 
 func newScanMemo(e *engine) *scanMemo {
 	m := &scanMemo{termClass: make([]int, len(e.model.Terms)), groupClass: make([]int, e.ng),
-		termSig: make([]termSig, len(e.model.Terms)), groupSig: make([]groupSig, e.ng),
+		termSig: make([]memoSig, len(e.model.Terms)), groupSig: make([]memoSig, e.ng),
 		have: make([]bool, len(e.model.Terms)),
-		cols: map[termSig][]float64{}, target: map[groupSig]float64{}, cross: map[[2]groupSig]float64{}}
+		cols: map[memoSig][]float64{}, target: map[memoSig]float64{}, cross: map[[2]memoSig]float64{}}
 	for k := range e.model.Terms {
 		m.termClass[k] = k
 		for h := 0; h < k; h++ {
@@ -97,11 +91,11 @@ func (m *scanMemo) look(e *engine) {
 		if f := e.model.Terms[k].Family; f >= 0 {
 			bits = math.Float64bits(e.model.Families[f].Angle)
 		}
-		m.termSig[k] = termSig{m.termClass[k], bits}
+		m.termSig[k] = memoSig{m.termClass[k], bits}
 		_, m.have[k] = m.cols[m.termSig[k]]
 	}
 	for g, members := range e.groups {
-		m.groupSig[g] = groupSig{m.groupClass[g], m.termSig[members[0]].angle}
+		m.groupSig[g] = memoSig{m.groupClass[g], m.termSig[members[0]].angle}
 	}
 }
 
@@ -135,7 +129,7 @@ func (m *scanMemo) product(e *engine, i, j int) (float64, bool) {
 	if y.class < 0 {
 		return 0, false
 	}
-	v, ok := m.cross[[2]groupSig{x, y}]
+	v, ok := m.cross[[2]memoSig{x, y}]
 	return v, ok
 }
 
@@ -154,6 +148,6 @@ func (m *scanMemo) store(e *engine, i, j int, v float64) {
 	}
 	y := m.groupSig[j]
 	if y.class >= 0 && (x.angle == y.angle || x.angle == 0 || y.angle == 0) {
-		m.cross[[2]groupSig{x, y}] = v
+		m.cross[[2]memoSig{x, y}] = v
 	}
 }

@@ -587,12 +587,12 @@ func (s *search) paretoFront() error {
 	unresolved := 0
 	for _, k := range keys {
 		r := bestP[k]
-		if prev, ok := lastLoss[k.form]; ok && r.Loss >= prev {
-			continue
-		} else if ok && r.Loss >= prev*(1-s.fitSet.Tolerance) {
-			// Lower by less than the refinement resolves: the smaller
-			// model's fit with parameters that do nothing.
-			unresolved++
+		if prev, ok := lastLoss[k.form]; ok && r.Loss >= prev*(1-s.fitSet.Tolerance) {
+			if r.Loss < prev {
+				// Lower by less than the refinement resolves: the
+				// smaller model's fit with parameters that do nothing.
+				unresolved++
+			}
 			continue
 		}
 		lastLoss[k.form] = r.Loss

@@ -237,15 +237,15 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 	e.p.Data.Fill(e.model, &e.cols, derivs)
 	rows, ng := e.rows, e.ng
 	e.feasible = true
+	col := func(k int) []float64 {
+		if memo != nil {
+			return memo.column(k, &e.cols, rows)
+		}
+		return e.cols.A[k*rows : (k+1)*rows]
+	}
 	for g, members := range e.groups {
 		if e.keep[g] {
 			continue
-		}
-		col := func(k int) []float64 {
-			if memo != nil {
-				return memo.column(k, &e.cols, rows)
-			}
-			return e.cols.A[k*rows : (k+1)*rows]
 		}
 		a := e.A[g*rows : (g+1)*rows]
 		copy(a, col(members[0]))

@@ -22,6 +22,7 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		return
 	}
 	fq := distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
+	r.sweeps++
 	var idx []int
 	for i, q := range e.params {
 		if q.Kind == kindAngle {
@@ -108,6 +109,15 @@ const (
 	profileFarIterations = 6
 )
 
+// allBut marks every one of n parameters free but parameter i.
+func allBut(n, i int) []bool {
+	free := make([]bool, n)
+	for j := range free {
+		free[j] = j != i
+	}
+	return free
+}
+
 // profiler minimises the loss over every parameter but angle parameter i.
 type profiler struct {
 	e    *engine
@@ -167,10 +177,7 @@ func (pf *profiler) halves(up, down func()) {
 }
 
 func newProfiler(r *Result, p *Problem, pe *engine, i int, set Settings) *profiler {
-	pf := &profiler{e: pe, i: i, free: make([]bool, len(pe.params))}
-	for j := range pf.free {
-		pf.free[j] = j != i
-	}
+	pf := &profiler{e: pe, i: i, free: allBut(len(pe.params), i)}
 	pf.offLoss, pf.offTheta = r.familyOff(p, i, set)
 	return pf
 }
@@ -390,10 +397,7 @@ func (r *Result) profileGuide(ps *Problem, i int, grid []float64, c int, theta [
 	e := r.e
 	ge := newEngine(ps, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
 	ge.cols.Search = r.Structure.Planar
-	gf := &profiler{e: ge, i: i, free: make([]bool, len(ge.params)), offLoss: math.Inf(1)}
-	for j := range gf.free {
-		gf.free[j] = j != i
-	}
+	gf := &profiler{e: ge, i: i, free: allBut(len(ge.params), i), offLoss: math.Inf(1)}
 	th, l := gf.at(grid[c], theta)
 	if th == nil || math.IsInf(l, 1) {
 		return nil

@@ -142,6 +142,10 @@ type Result struct {
 	// held are the shape parameters held at 0 for want of shear strain
 	// (see heldShear).
 	held []heldParam
+	// sweeps counts the profiling passes over every angle (1 unless a
+	// profile met a lower point and the fit was refitted and profiled
+	// again).
+	sweeps int
 }
 
 // notes writes what the data can and cannot determine (package

@@ -254,7 +254,10 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 
 // onSymmetryLines moves the fit onto 0° or 90° when the refinement left
 // an angle within symmetrySnap of one and the loss there, every other
-// parameter minimised, is lower. Without shear information the loss is
+// parameter minimised, is not higher by more than the refinement resolves
+// (Settings.Tolerance, relative): a fit off the line by a hair with the
+// same loss would report a spurious angle and, with the angle's slope
+// nearly zero, a standard error of 10⁵ degrees. Without shear information the loss is
 // even in every fibre angle about both (package documentation, Mirror
 // symmetry), so its slope in the angle vanishes as the angle nears one
 // and the refinement stops a hair away with the other parameters short of
@@ -282,7 +285,7 @@ func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 		default:
 			continue
 		}
-		if w == line || w == -line {
+		if onSymmetryLine(w) {
 			continue
 		}
 		th := append([]float64(nil), r.theta...)
@@ -290,13 +293,20 @@ func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 		lr := e.minimize(th, allBut(len(th), i), set.MaxIterations)
 		r.Iterations += lr.Iterations
 		r.Evaluations += lr.Evals
-		if lr.Loss < r.Loss*(1-1e-9) {
+		if lr.Loss <= r.Loss*(1+set.Tolerance) {
 			r.settle(p, e, th)
 		}
 	}
 	if !e.holdsDerivatives(r.theta) {
 		e.eval(r.theta, true)
 	}
+}
+
+// onSymmetryLine reports whether angle a (radians) lies exactly on 0° or
+// 90°, modulo 180°.
+func onSymmetryLine(a float64) bool {
+	w := math.Abs(wrapAngle(a))
+	return w == 0 || w == math.Pi/2
 }
 
 // symmetrySnap (radians) is how near 0° or 90° a fitted angle must lie for

@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/optimize"
@@ -272,7 +273,8 @@ func TestGuidedProfileMatchesFullSweep(t *testing.T) {
 // seeds for which that happened, fitted with discovery's search settings
 // and with a profile: every fit ends exactly on 90°, gonum's Nelder–Mead
 // (a general-purpose minimiser) started from the fit finds no lower loss
-// there, and the profiled fit profiles once and meets no lower point.
+// there, the angle correlates with nothing, and the profiled fit profiles
+// once and meets no lower point.
 func TestFitsSettleOnSymmetryLines(t *testing.T) {
 	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
 	for _, seed := range []uint64{1, 3} {
@@ -301,6 +303,20 @@ func TestFitsSettleOnSymmetryLines(t *testing.T) {
 			}
 			if res.F < r.Loss*(1-1e-6) {
 				t.Errorf("%s: Nelder–Mead reached %.10g at 90°, below the fit's %.10g", what, res.F, r.Loss)
+			}
+			// On the line the angle's slope is zero by symmetry: no
+			// correlation with anything, no flag.
+			for a, name := range r.CorrelationNames {
+				for b, c := range r.Correlation[a] {
+					if (name == "angle" || r.CorrelationNames[b] == "angle") && c != 0 {
+						t.Errorf("%s: correlation of %s with %s is %.3g, want 0", what, name, r.CorrelationNames[b], c)
+					}
+				}
+			}
+			for _, f := range r.Flags {
+				if strings.Contains(f, "angle") {
+					t.Errorf("%s: flag %q", what, f)
+				}
 			}
 			if !set.Profile {
 				continue

@@ -184,7 +184,16 @@ func (r *Result) initEstimates(p *Problem) []jcol {
 			est.Status = StatusNotDetermined
 		}
 		if est.Status == StatusEstimated {
-			cols = append(cols, jcol{len(r.Estimates), e.v[i], sign})
+			col := e.v[i]
+			if q.Kind == kindAngle && q.Periodic && !p.HasShear && onSymmetryLine(v) {
+				// Every measured stress is even in the angle about the
+				// line (package documentation, Mirror symmetry): its slope
+				// there is zero, and what the column holds is round-off.
+				// Left in, unit-normalised, it would correlate at random
+				// with the other quantities.
+				col = make([]float64, len(col))
+			}
+			cols = append(cols, jcol{len(r.Estimates), col, sign})
 		}
 		r.Estimates = append(r.Estimates, est)
 	}
@@ -260,6 +269,8 @@ func covariance(cols []jcol) (*mat.Dense, []bool, bool) {
 			scale[a] = 1
 		}
 	}
+	cov := mat.NewDense(k, k, nil)
+	undetermined := make([]bool, k)
 	for a := 0; a < k; a++ {
 		for b := 0; b <= a; b++ {
 			s := 0.0
@@ -281,8 +292,6 @@ func covariance(cols []jcol) (*mat.Dense, []bool, bool) {
 	for _, v := range vals {
 		maxEig = math.Max(maxEig, v)
 	}
-	cov := mat.NewDense(k, k, nil)
-	undetermined := make([]bool, k)
 	for c, lam := range vals {
 		if lam <= 1e-12*maxEig {
 			for a := 0; a < k; a++ {
@@ -299,7 +308,15 @@ func covariance(cols []jcol) (*mat.Dense, []bool, bool) {
 		}
 	}
 	for a := 0; a < k; a++ {
+		zero := JtJ.At(a, a) == 0
+		undetermined[a] = undetermined[a] || zero
 		for b := 0; b < k; b++ {
+			if zero || JtJ.At(b, b) == 0 {
+				// A column of zeros has no variance and no correlation;
+				// the eigenvectors' round-off would give it both.
+				cov.Set(a, b, 0)
+				continue
+			}
 			cov.Set(a, b, cov.At(a, b)*cols[a].sign*cols[b].sign/(scale[a]*scale[b]))
 		}
 	}

@@ -174,6 +174,9 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 	res := &Result{Structure: st, Rows: p.Rows(), SignKnown: p.HasShear, held: held, noMetrics: set.noMetrics}
 
 	var starts [][]float64
+	// onLines are the angle parameters the given start (Init) puts exactly
+	// on 0° or 90° without shear information (see minimizeOnLines).
+	var onLines []int
 	if set.Init != nil {
 		th := make([]float64, len(params))
 		for i, q := range params {
@@ -186,7 +189,11 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 			if v, ok := set.Init[q.Name]; ok {
 				th[i] = q.project(v)
 			}
-			if q.Periodic && !p.HasShear {
+			switch {
+			case !q.Periodic || p.HasShear:
+			case onSymmetryLine(th[i]):
+				onLines = append(onLines, i)
+			default:
 				th[i] = offSymmetry(th[i])
 			}
 		}
@@ -205,8 +212,13 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 		loss  float64
 	}
 	var locals []local
-	for _, th := range starts {
-		lr := e.minimize(th, nil, set.MaxIterations)
+	for s, th := range starts {
+		var lr lmResult
+		if s == 0 && len(onLines) > 0 {
+			lr = e.minimizeOnLines(th, onLines, set.MaxIterations)
+		} else {
+			lr = e.minimize(th, nil, set.MaxIterations)
+		}
 		res.Iterations += lr.Iterations
 		res.Evaluations += lr.Evals
 		if !math.IsInf(lr.Loss, 1) {
@@ -300,6 +312,48 @@ func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 	if !e.holdsDerivatives(r.theta) {
 		e.eval(r.theta, true)
 	}
+}
+
+// minimizeOnLines refines a start whose angle parameters lines lie exactly
+// on 0° or 90° without shear information, as minimize does. The loss is
+// even in each such angle about its line (package documentation, Mirror
+// symmetry), so the line is a stationary point in it, and the mixed
+// second derivatives of the loss in the angle and any other parameter
+// vanish there: with the other parameters minimised on the line (the
+// angles held), the line is a minimum exactly when the loss rises as an
+// angle leaves it. A start moved off the line would instead crawl back
+// towards it (see onSymmetryLines). Each angle is probed half a degree off
+// (offSymmetry); where the loss falls there, everything is refined from
+// that point, else the start stays on its lines.
+func (e *engine) minimizeOnLines(theta []float64, lines []int, maxIter int) lmResult {
+	free := make([]bool, len(theta))
+	for i := range free {
+		free[i] = true
+	}
+	for _, i := range lines {
+		free[i] = false
+	}
+	lr := e.minimize(theta, free, maxIter)
+	if math.IsInf(lr.Loss, 1) {
+		return lr
+	}
+	trial := make([]float64, len(theta))
+	for _, i := range lines {
+		copy(trial, theta)
+		trial[i] = offSymmetry(theta[i])
+		lr.Evals++
+		if l := e.eval(trial, false); l < lr.Loss {
+			copy(theta, trial)
+			off := e.minimize(theta, nil, maxIter)
+			off.Iterations += lr.Iterations
+			off.Evals += lr.Evals
+			return off
+		}
+	}
+	// minimize's contract: the engine holds a derivative evaluation at θ.
+	e.eval(theta, true)
+	lr.Evals++
+	return lr
 }
 
 // onSymmetryLine reports whether angle a (radians) lies exactly on 0° or

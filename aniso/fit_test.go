@@ -539,3 +539,42 @@ func TestSettleWithoutReevaluation(t *testing.T) {
 		}
 	}
 }
+
+// A given start (Settings.Init, as cross-validation and refits use) with
+// its angle exactly on 0° or 90° and no shear information is refined on
+// the line and probed off it (minimizeOnLines). On data made by
+// independent numerical integration (independent_test.go): fibres along
+// axis 2 started on 90° stay exactly there, at the loss of a fit from the
+// global scan; fibres at 30° started on 0° leave the line and reach the
+// scan fit's loss (the line is a maximum of the loss in the angle there;
+// without the probe off the line the fit stays there, checked).
+func TestFitStartedOnASymmetryLine(t *testing.T) {
+	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+	for _, c := range []struct {
+		truth, start float64 // degrees
+		stays        bool
+	}{{90, 90, true}, {30, 0, false}} {
+		spec := synthFrom(t, fibreMaterial(2, spreadFamily{c.truth * deg, -1, expSqFibre(20, 3)}), synthOptions{noise: 0.02, points: 20, seed: 3})
+		p, err := NewProblem(spec, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		scan, err := Fit(p, st, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		init := scan.Params()
+		init["angle"] = c.start * deg
+		r, err := Fit(p, st, Settings{Init: init, NoScan: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		onLine := onSymmetryLine(r.theta[0])
+		if onLine != c.stays {
+			t.Errorf("truth %g°, start %g°: ended at %.6g°, on the line %v, want %v", c.truth, c.start, wrapAngle(r.theta[0])/deg, onLine, c.stays)
+		}
+		if math.Abs(r.Loss/scan.Loss-1) > 1e-6 {
+			t.Errorf("truth %g°, start %g°: loss %.10g, the scan fit's %.10g", c.truth, c.start, r.Loss, scan.Loss)
+		}
+	}
+}

@@ -266,20 +266,21 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 
 // onSymmetryLines moves the fit onto 0° or 90° when the refinement left
 // an angle within symmetrySnap of one and the loss there, every other
-// parameter minimised, is not higher by more than the refinement resolves
-// (Settings.Tolerance, relative): a fit off the line by a hair with the
-// same loss would report a spurious angle and, with the angle's slope
-// nearly zero, a standard error of 10⁵ degrees. Without shear information the loss is
-// even in every fibre angle about both (package documentation, Mirror
-// symmetry), so its slope in the angle vanishes as the angle nears one
-// and the refinement stops a hair away with the other parameters short of
-// their optimum. In the three demos' discoveries 75 of 400 fits without
-// shear ended within symmetrySnap of a line, 71 of them with a loss above
-// the line's (by a median 5e-4, at most 17 %): discovery compared them so,
-// and a profile met the lower point on its grid, then refitted and
-// profiled a second time (see Fit). On the line the slope in the
-// angle is zero by the same symmetry, so the line's optimum is a
-// stationary point of the whole fit.
+// parameter minimised with the angle held, is not higher by more than the
+// refinement resolves (Settings.Tolerance, relative).
+//
+// Without shear information the loss is even in every fibre angle about
+// both lines (package documentation, Mirror symmetry), so its slope in the
+// angle vanishes as the angle nears one, and the refinement stops a hair
+// away with the other parameters short of their optimum. In the demos'
+// discoveries 75 of 400 fits without shear ended within symmetrySnap of a
+// line, 71 of them with a loss above the line's (by a median 5e-4, at
+// most 17 %): discovery compared them so, and a profile met the lower
+// point on its grid, then refitted and profiled a second time (see Fit).
+// A fit a hair off the line at the line's loss would also report a
+// spurious angle and, its slope nearly zero, a standard error of 10⁵
+// degrees. On the line the slope in the angle is zero by the same
+// symmetry, so the line's optimum is a stationary point of the whole fit.
 func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 	if p.HasShear {
 		return

@@ -378,17 +378,11 @@ func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
 	best := math.Inf(1)
 	var ba, bb [2]float64
 	for _, b := range ellipticityDirections(n) {
-		var Q [2][2]float64
-		for i := 0; i < 2; i++ {
-			for kk := 0; kk < 2; kk++ {
-				v := 0.0
-				for j := 0; j < 2; j++ {
-					for l := 0; l < 2; l++ {
-						v += A[2*i+j][2*kk+l] * b[j] * b[l]
-					}
-				}
-				Q[i][kk] = v
-			}
+		// Q_ik = Σ_jl A[2i+j][2k+l] b_j b_l (acoustic tensor).
+		b0, b1 := b[0], b[1]
+		Q := [2][2]float64{
+			{acousticEntry(A[0][0], A[0][1], A[1][0], A[1][1], b0, b1), acousticEntry(A[0][2], A[0][3], A[1][2], A[1][3], b0, b1)},
+			{acousticEntry(A[2][0], A[2][1], A[3][0], A[3][1], b0, b1), acousticEntry(A[2][2], A[2][3], A[3][2], A[3][3], b0, b1)},
 		}
 		q12 := 0.5 * (Q[0][1] + Q[1][0])
 		mid := 0.5 * (Q[0][0] + Q[1][1])
@@ -418,6 +412,19 @@ func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
 		}
 	}
 	return best, ba, bb
+}
+
+// acousticEntry is one entry Σ_jl a_jl b_j b_l of the acoustic tensor,
+// summed in the order j, l = 00, 01, 10, 11 of the loop it replaces, so
+// that it keeps that loop's bits; written out, it takes about half the
+// time of a scan (BenchmarkCheckStability).
+func acousticEntry(a00, a01, a10, a11, b0, b1 float64) float64 {
+	v := 0.0
+	v += a00 * b0 * b0
+	v += a01 * b0 * b1
+	v += a10 * b1 * b0
+	v += a11 * b1 * b1
+	return v
 }
 
 // ellipticityDirections returns the n directions b = (cos θ, sin θ),

@@ -99,7 +99,13 @@
 // weight w cannot be told from a mirror pair at ±α with weights w/2 each;
 // only shear information (measured F12, F21 or a shear stress,
 // Problem.HasShear) breaks the tie. The fitter says so instead of reporting a
-// sign or a second family it cannot know. Two families at independent,
+// sign or a second family it cannot know. The loss is then even in each
+// family's angle about 0° and 90°: both are stationary points, where its
+// slope in the angle vanishes. A refinement slows to a crawl near them, so
+// the fitter settles an angle that ends within half a degree of one onto
+// it when that is no worse, keeps a start that lies on one there unless
+// the loss falls off it, and treats the angle's slope there as zero in
+// the covariance (Fit). Two families at independent,
 // non-mirror angles are distinguishable from one by normal stresses; a fully
 // dispersed family competes with an exponential I1 term, which the fitter
 // reports as a correlation. Planar biaxial data constrain the in-plane

@@ -398,20 +398,24 @@ func minEllipticity(A *[4][4]float64, n int) (float64, [2]float64, [2]float64) {
 		rad := math.Hypot(dx, q12)
 		e := mid - rad
 		if e < best {
-			best, bb = e, b
-			// Eigenvector of the smallest eigenvalue.
-			ax, ay := q12, e-Q[0][0]
-			if math.Abs(ax)+math.Abs(ay) < 1e-300 {
-				ax, ay = e-Q[1][1], q12
-			}
-			if math.Abs(ax)+math.Abs(ay) < 1e-300 {
-				ax, ay = 1, 0
-			}
-			h := math.Hypot(ax, ay)
-			ba = [2]float64{ax / h, ay / h}
+			best, ba, bb = e, acousticEigenvector(&Q, q12, e), b
 		}
 	}
 	return best, ba, bb
+}
+
+// acousticEigenvector returns the unit eigenvector of the acoustic tensor
+// Q (symmetric part, off-diagonal q12) for its eigenvalue e.
+func acousticEigenvector(Q *[2][2]float64, q12, e float64) [2]float64 {
+	ax, ay := q12, e-Q[0][0]
+	if math.Abs(ax)+math.Abs(ay) < 1e-300 {
+		ax, ay = e-Q[1][1], q12
+	}
+	if math.Abs(ax)+math.Abs(ay) < 1e-300 {
+		ax, ay = 1, 0
+	}
+	h := math.Hypot(ax, ay)
+	return [2]float64{ax / h, ay / h}
 }
 
 // acousticEntry is one entry Σ_jl a_jl b_j b_l of the acoustic tensor,

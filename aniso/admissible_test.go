@@ -353,16 +353,7 @@ func TestMinEllipticitySkipsOnlyLosers(t *testing.T) {
 			q12 := 0.5 * (Q[0][1] + Q[1][0])
 			e := 0.5*(Q[0][0]+Q[1][1]) - math.Hypot(0.5*(Q[0][0]-Q[1][1]), q12)
 			if e < best {
-				best, bb = e, b
-				ax, ay := q12, e-Q[0][0]
-				if math.Abs(ax)+math.Abs(ay) < 1e-300 {
-					ax, ay = e-Q[1][1], q12
-				}
-				if math.Abs(ax)+math.Abs(ay) < 1e-300 {
-					ax, ay = 1, 0
-				}
-				h := math.Hypot(ax, ay)
-				ba = [2]float64{ax / h, ay / h}
+				best, ba, bb = e, acousticEigenvector(&Q, q12, e), b
 			}
 		}
 		return best, ba, bb

@@ -190,10 +190,9 @@ func Fit(p *Problem, st Structure, set Settings) (*Result, error) {
 				th[i] = q.project(v)
 			}
 			switch {
-			case !q.Periodic || p.HasShear:
-			case onSymmetryLine(th[i]):
+			case q.onMirrorLine(p, th[i]):
 				onLines = append(onLines, i)
-			default:
+			case q.Periodic && !p.HasShear:
 				th[i] = offSymmetry(th[i])
 			}
 		}
@@ -327,14 +326,7 @@ func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 // (offSymmetry); where the loss falls there, everything is refined from
 // that point, else the start stays on its lines.
 func (e *engine) minimizeOnLines(theta []float64, lines []int, maxIter int) lmResult {
-	free := make([]bool, len(theta))
-	for i := range free {
-		free[i] = true
-	}
-	for _, i := range lines {
-		free[i] = false
-	}
-	lr := e.minimize(theta, free, maxIter)
+	lr := e.minimize(theta, allBut(len(theta), lines...), maxIter)
 	if math.IsInf(lr.Loss, 1) {
 		return lr
 	}
@@ -355,6 +347,14 @@ func (e *engine) minimizeOnLines(theta []float64, lines []int, maxIter int) lmRe
 	e.eval(theta, true)
 	lr.Evals++
 	return lr
+}
+
+// onMirrorLine reports whether q is a fibre angle at value v (radians)
+// exactly on 0° or 90° while p has no shear information: there every
+// measured stress is even in it (package documentation, Mirror symmetry),
+// so its slope is zero.
+func (q *param) onMirrorLine(p *Problem, v float64) bool {
+	return q.Kind == kindAngle && q.Periodic && !p.HasShear && onSymmetryLine(v)
 }
 
 // onSymmetryLine reports whether angle a (radians) lies exactly on 0° or

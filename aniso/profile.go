@@ -109,11 +109,14 @@ const (
 	profileFarIterations = 6
 )
 
-// allBut marks every one of n parameters free but parameter i.
-func allBut(n, i int) []bool {
+// allBut marks every one of n parameters free but the held ones.
+func allBut(n int, held ...int) []bool {
 	free := make([]bool, n)
 	for j := range free {
-		free[j] = j != i
+		free[j] = true
+	}
+	for _, i := range held {
+		free[i] = false
 	}
 	return free
 }

@@ -185,12 +185,10 @@ func (r *Result) initEstimates(p *Problem) []jcol {
 		}
 		if est.Status == StatusEstimated {
 			col := e.v[i]
-			if q.Kind == kindAngle && q.Periodic && !p.HasShear && onSymmetryLine(v) {
-				// Every measured stress is even in the angle about the
-				// line (package documentation, Mirror symmetry): its slope
-				// there is zero, and what the column holds is round-off.
-				// Left in, unit-normalised, it would correlate at random
-				// with the other quantities.
+			if q.onMirrorLine(p, v) {
+				// The angle's slope is zero there; what the column holds
+				// is round-off. Left in, unit-normalised, it would
+				// correlate at random with the other quantities.
 				col = make([]float64, len(col))
 			}
 			cols = append(cols, jcol{len(r.Estimates), col, sign})

@@ -111,6 +111,83 @@ func TestDiscoverUnitInvariance(t *testing.T) {
 	}
 }
 
+// Two fibre families at 10° and 70° without shear information, made by
+// independent numerical integration (independent_test.go): the walk
+// compares each form by its best held-out model, here two families near
+// 0° and 90°, which does not beat one family. The verdict's ruled-out note
+// on the two-free-families form must still name the form's lowest-BIC
+// model, whose families lie near the true 10° and 70°, with its ΔBIC and
+// held-out error, so that no evidence for two families is hidden. A form
+// that only ties the winner (a mirror pair of one angle: the same loss
+// and held-out error) is not said to fit better.
+func TestRuledOutNamesTheFormsLowestBIC(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	spec := synthFrom(t, fibreMaterial(3, spreadFamily{10 * deg, -1, expSqFibre(30, 4)}, spreadFamily{70 * deg, -1, expSqFibre(25, 3)}),
+		synthOptions{noise: 0.02, points: 30, seed: 1})
+	p, err := NewProblem(spec, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := Discover(p, DiscoverSettings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	var free string
+	for _, n := range d.Verdict.RuledOut {
+		t.Logf("ruled out: %s", n)
+		if strings.HasPrefix(n, "ruled out 2-free ") {
+			free = n
+		}
+	}
+	if d.Verdict.Families == "2" {
+		// Nothing is hidden when two families win; the note is not needed.
+		return
+	}
+	_, rest, ok := strings.Cut(free, "the form's lowest BIC is ")
+	if !ok {
+		t.Fatalf("the 2-free note does not name the form's lowest-BIC model: %q", free)
+	}
+	var low *Candidate
+	for i := range d.Pareto {
+		if strings.HasPrefix(rest, d.Pareto[i].Name+"'s") {
+			low = &d.Pareto[i]
+		}
+	}
+	if low == nil || FormKey(low.Result.Structure) != "2-free" {
+		t.Fatalf("the note names no 2-free candidate: %q", rest)
+	}
+	for _, c := range d.Pareto {
+		if FormKey(c.Result.Structure) == "2-free" && c.Result.BIC < low.Result.BIC {
+			t.Errorf("%s has a lower BIC (%.2f) than the named %s (%.2f)", c.Name, c.Result.BIC, low.Name, low.Result.BIC)
+		}
+	}
+	for _, want := range []float64{10, 70} {
+		best := math.Inf(1)
+		for _, f := range low.Result.Model.Families {
+			best = math.Min(best, math.Abs(math.Abs(WrapDeg(f.Angle/deg))-want))
+		}
+		if best > 3 {
+			t.Errorf("the lowest-BIC 2-free model %s has no family within 3° of %g° (%s)", low.Name, want, anglesText(low.Result))
+		}
+	}
+	if !strings.Contains(rest, "ΔBIC") || !strings.Contains(rest, "held-out error") {
+		t.Errorf("the note lacks the ΔBIC or the held-out errors: %q", rest)
+	}
+	for _, lc := range d.Verdict.Comparisons {
+		if lc.RelativeGain <= TieTolerance && lc.DeltaBIC <= 0 {
+			for _, n := range d.Verdict.RuledOut {
+				if strings.HasPrefix(n, "ruled out "+lc.Richer+" (") {
+					t.Errorf("%s ties %s but is ruled out as fitting better: %q", lc.Richer, lc.Simpler, n)
+				}
+			}
+		}
+	}
+}
+
 // A pick that is not admissible where it was fitted is replaced by the
 // next admissible candidate of its form, and the rule says why (the
 // criteria of admissible.go: stability modulo rotation and strong

@@ -152,12 +152,19 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		}
 	}
 	for _, lc := range comps {
-		if lc.Decisive || !(lc.Gain > 0 || lc.DeltaBIC > 0) {
+		// A richer form that ties (the same loss and held-out error within
+		// TieTolerance, such as a mirror pair of one angle) is no better.
+		better := lc.RelativeGain > TieTolerance ||
+			(lc.DeltaBIC > 0 && less(byKey[lc.Richer].c.Result.Loss, byKey[lc.Simpler].c.Result.Loss))
+		if lc.Decisive || !better {
 			continue
 		}
 		n := fmt.Sprintf("ruled out %s (%s): it fits better, but not by more than the noise explains (%s)", lc.Richer, anglesText(byKey[lc.Richer].c.Result), lc)
 		if la := lookAlike(byKey[lc.Richer].c.Result); la != "" {
 			n += "; " + la
+		}
+		if o := d.otherInSampleBest(byKey[lc.Richer], byKey[lc.Simpler]); o != "" {
+			n += "; " + o
 		}
 		notes = append(notes, n)
 	}
@@ -226,4 +233,40 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		}
 	}
 	return v
+}
+
+// otherInSampleBest describes the model of richer's form with the lowest
+// BIC when it is not the form's representative (its best by held-out
+// error) and its BIC beats the simpler form's representative by more than
+// 2 ("positive" evidence on the scale of Kass & Raftery 1995). The walk
+// compares forms by their held-out errors, so such a model does not
+// decide the verdict; the note keeps it from being hidden. It returns ""
+// otherwise.
+func (d *Discovery) otherInSampleBest(richer, simpler *formBest) string {
+	if richer == nil || simpler == nil {
+		return ""
+	}
+	var low *Candidate
+	for i := range d.Pareto {
+		c := &d.Pareto[i]
+		if FormKey(c.Result.Structure) != richer.key {
+			continue
+		}
+		if low == nil || less(c.Result.BIC, low.Result.BIC) {
+			low = c
+		}
+	}
+	if low == nil || low == richer.c {
+		return ""
+	}
+	dBIC := simpler.c.Result.BIC - low.Result.BIC
+	if dBIC <= 2 || !less(low.Result.BIC, richer.c.Result.BIC) {
+		return ""
+	}
+	held := "not cross-validated"
+	if low.CV != nil && simpler.c.CV != nil {
+		held = fmt.Sprintf("held-out error %.4g against %.4g", low.CV.Mean, simpler.c.CV.Mean)
+	}
+	return fmt.Sprintf("the form's lowest BIC is %s's (%s): ΔBIC %.1f over %s, %s; forms are compared by held-out error",
+		low.Name, anglesText(low.Result), dBIC, simpler.c.Name, held)
 }

@@ -459,16 +459,24 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 	return loss, thetas
 }
 
-// crossing returns the angle between a (profile fa ≤ 0 relative to the
-// threshold thr, parameters thA) and b (fb > 0, thB) where the profile
-// meets the threshold: regula falsi with the Illinois modification
-// (Dowell & Jarratt 1971), each trial angle minimised from the brackets'
-// parameters interpolated to it, until the bracket is narrower than
-// tolAngle or a trial's loss is within tolLoss of the threshold (at most 8
-// trials, the cost of the bisection to step/256 it replaces). The profile
-// is smooth and nearly quadratic about its minimum, so a few trials locate
-// the crossing.
-func (pf *profiler) crossing(a, b, fa, fb float64, thA, thB []float64, thr, tolAngle, tolLoss float64) float64 {
+// crossing returns the angle between a (profile loss la ≤ thr,
+// parameters thA) and b (lb > thr, thB) where the profile meets the
+// threshold thr: regula falsi with the Illinois modification (Dowell &
+// Jarratt 1971) on h = √(loss − minLoss) − √(thr − minLoss), each trial
+// angle minimised from the brackets' parameters interpolated to it, until
+// the bracket is narrower than tolAngle or a trial's loss is within
+// tolLoss of the threshold (at most 8 trials, the cost of the bisection to
+// step/256 it replaces). About its minimum the profile is nearly quadratic
+// in the angle, so h is nearly linear in it on either side and the first
+// trial lands close to the crossing however narrow the interval is
+// against the grid step. On the loss itself a bracket whose outer end lies
+// many interval widths out (dense data: an interval of 0.03° on a 2° grid)
+// moves its inner end by steps that only double, and 8 trials ended short
+// of the crossing.
+func (pf *profiler) crossing(a, b, la, lb float64, thA, thB []float64, thr, minLoss, tolAngle, tolLoss float64) float64 {
+	r0 := math.Sqrt(math.Max(thr-minLoss, 0))
+	h := func(l float64) float64 { return math.Sqrt(math.Max(l-minLoss, 0)) - r0 }
+	fa, fb := h(la), h(lb)
 	side := 0
 	for it := 0; it < 8 && math.Abs(b-a) > tolAngle; it++ {
 		m := b - fb*(b-a)/(fb-fa)
@@ -476,21 +484,20 @@ func (pf *profiler) crossing(a, b, fa, fb float64, thA, thB []float64, thr, tolA
 			m = (a + b) / 2
 		}
 		th, l := pf.at(m, pf.between(thA, thB, (m-a)/(b-a)))
-		fm := l - thr
-		if fm <= 0 {
-			a, fa, thA = m, fm, th
+		if l <= thr {
+			a, fa, thA = m, h(l), th
 			if side < 0 {
 				fb /= 2
 			}
 			side = -1
 		} else {
-			b, fb, thB = m, fm, th
+			b, fb, thB = m, h(l), th
 			if side > 0 {
 				fa /= 2
 			}
 			side = 1
 		}
-		if math.Abs(fm) <= tolLoss {
+		if math.Abs(l-thr) <= tolLoss {
 			return m
 		}
 	}
@@ -594,7 +601,7 @@ func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Se
 	thr := minLoss * (1 + fq/float64(n-k))
 	pr.Threshold = thr
 	crossing := func(q *profiler, in, out int) float64 {
-		return Deg(q.crossing(grid[in], grid[out], loss[in]-thr, loss[out]-thr, thetas[in], thetas[out], thr, step/256, 1e-2*(thr-minLoss)))
+		return Deg(q.crossing(grid[in], grid[out], loss[in], loss[out], thetas[in], thetas[out], thr, minLoss, step/256, 1e-2*(thr-minLoss)))
 	}
 	loIdx, hiIdx := c, c
 	for loIdx > 0 && loss[loIdx-1] <= thr {

@@ -519,21 +519,58 @@ func writeFitOutputs(o *fitOutcome, od *safeout.Dir, force bool) error {
 }
 
 // writeFitFiles writes the files of one specimen's output folder into od:
-// an output folder, or one specimen's folder inside a cohort's.
+// an output folder, or one specimen's folder inside a cohort's. Besides
+// the card and fit.csv they are selection.csv (when the model was
+// discovered), heldout.csv (the model form refitted with each protocol
+// left out, predicting it), curves.csv (the model curves with their
+// confidence bands, and the presets'), raw.csv (every cycle of the file),
+// and the report, built from the folder's files as 'weft report' builds
+// it.
 func writeFitFiles(o *fitOutcome, od safeout.Sink) error {
-	if err := writeCardAndFitTable(o, od); err != nil {
-		return err
-	}
+	// The fit and raw tables need neither the fits' engines nor the
+	// held-out refits, so they are built while those run (on a long record
+	// each takes a few tenths of a second). The files are written in the
+	// same order either way, and the first error in that order is the one
+	// returned.
+	var fitCSV, rawCSV bytes.Buffer
+	var fitErr, rawErr error
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		fitErr = report.WriteFitTable(&fitCSV, o.prob, o.result.Model)
+		if o.raw != nil {
+			rawErr = report.WriteRawTable(&rawCSV, o.raw, o.spec)
+		}
+	}()
+	files := []outFile{{name: "model.json"}, {name: "fit.csv"}}
+	files[0].data, files[0].err = o.card.Marshal()
 	if o.disc != nil {
 		var buf bytes.Buffer
-		if err := report.WriteSelectionTable(&buf, o.prob, o.disc); err != nil {
-			return err
+		err := report.WriteSelectionTable(&buf, o.prob, o.disc)
+		files = append(files, outFile{"selection.csv", buf.Bytes(), err})
+	}
+	files = append(files, heldoutAndCurves(o)...)
+	<-done
+	files[1].data, files[1].err = fitCSV.Bytes(), fitErr
+	if o.raw != nil {
+		files = append(files, outFile{"raw.csv", rawCSV.Bytes(), rawErr})
+	}
+	for _, f := range files {
+		if f.err != nil {
+			return f.err
 		}
-		if err := od.Write("selection.csv", buf.Bytes()); err != nil {
+		if err := od.Write(f.name, f.data); err != nil {
 			return err
 		}
 	}
-	return writeReportFiles(od, o)
+	return writeReport(od, o)
+}
+
+// outFile is one file of an output folder, or the error that prevented it.
+type outFile struct {
+	name string
+	data []byte
+	err  error
 }
 
 // writeCardAndFitTable writes the model card and the fit table, the files
@@ -553,20 +590,16 @@ func writeCardAndFitTable(o *fitOutcome, od safeout.Sink) error {
 	return od.Write("fit.csv", buf.Bytes())
 }
 
-// writeReportFiles is weft fit's hook: it writes heldout.csv (the model
-// form refitted with each protocol left out, predicting it), curves.csv
-// (the model curves with their confidence bands, and the presets'), and
-// raw.csv (every cycle of the file), then reads the folder's files back,
-// exactly as 'weft report' does, and writes report.html and plots/ into
-// the folder before it is committed.
-func writeReportFiles(od safeout.Sink, o *fitOutcome) error {
-	var buf bytes.Buffer
+// heldoutAndCurves returns heldout.csv (absent with a single protocol)
+// and curves.csv, or the error that prevented the first of them.
+func heldoutAndCurves(o *fitOutcome) []outFile {
+	var out []outFile
 	if folds := heldoutPredictions(o.prob, o.result, chosenCV(o)); folds != nil {
-		if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
-			return err
-		}
-		if err := od.Write("heldout.csv", buf.Bytes()); err != nil {
-			return err
+		var buf bytes.Buffer
+		err := report.WriteHeldoutTable(&buf, o.prob, folds)
+		out = append(out, outFile{"heldout.csv", buf.Bytes(), err})
+		if err != nil {
+			return out
 		}
 	}
 	// The bands use the fits' state, so they come after the held-out
@@ -578,22 +611,15 @@ func writeReportFiles(od safeout.Sink, o *fitOutcome) error {
 			models = append(models, report.CurveModel{Name: strings.TrimPrefix(c.Name, "preset:"), Result: c.Result})
 		}
 	}
-	buf.Reset()
-	if err := report.WriteCurveTable(&buf, o.prob, models); err != nil {
-		return err
-	}
-	if err := od.Write("curves.csv", buf.Bytes()); err != nil {
-		return err
-	}
-	if o.raw != nil {
-		buf.Reset()
-		if err := report.WriteRawTable(&buf, o.raw, o.spec); err != nil {
-			return err
-		}
-		if err := od.Write("raw.csv", buf.Bytes()); err != nil {
-			return err
-		}
-	}
+	var buf bytes.Buffer
+	err := report.WriteCurveTable(&buf, o.prob, models)
+	return append(out, outFile{"curves.csv", buf.Bytes(), err})
+}
+
+// writeReport reads the folder's files back, exactly as 'weft report'
+// does, and writes report.html and plots/ into the folder before it is
+// committed.
+func writeReport(od safeout.Sink, o *fitOutcome) error {
 	// Messages name the folder the user will see, not the temporary one.
 	named := func(err error) error {
 		tmp, final := od.Dirs()

@@ -50,14 +50,7 @@ func TestVerdictAcceptance(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			spec := synthFrom(t, tc.mat, tc.o)
-			p, err := NewProblem(spec, nil)
-			if err != nil {
-				t.Fatal(err)
-			}
-			d, err := Discover(p, DiscoverSettings{})
-			if err != nil {
-				t.Fatal(err)
-			}
+			d, p := discoverSpecimen(t, spec)
 			logCandidates(t, d)
 			t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 			ok := false

@@ -6,11 +6,14 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
-func discoverOn(t *testing.T, m *Model, o synthOptions) (*Discovery, *Problem) {
+// discoverSpecimen discovers the model of every protocol of spec with the
+// default settings and returns the discovery and its problem.
+func discoverSpecimen(t testing.TB, spec *biaxial.Specimen) (*Discovery, *Problem) {
 	t.Helper()
-	spec := synthSpecimen(t, m, o)
 	p, err := NewProblem(spec, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -19,6 +22,12 @@ func discoverOn(t *testing.T, m *Model, o synthOptions) (*Discovery, *Problem) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return d, p
+}
+
+func discoverOn(t *testing.T, m *Model, o synthOptions) (*Discovery, *Problem) {
+	t.Helper()
+	d, p := discoverSpecimen(t, synthSpecimen(t, m, o))
 	b := d.Best()
 	t.Logf("chosen %s: %s; verdict %s; %v", b.Name, b.Result.Summary(), d.Verdict.Families, d.Elapsed)
 	t.Logf("rule: %s", d.Rule)

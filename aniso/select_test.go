@@ -127,14 +127,7 @@ func TestRuledOutNamesTheFormsLowestBIC(t *testing.T) {
 	t.Parallel()
 	spec := synthFrom(t, fibreMaterial(3, spreadFamily{10 * deg, -1, expSqFibre(30, 4)}, spreadFamily{70 * deg, -1, expSqFibre(25, 3)}),
 		synthOptions{noise: 0.02, points: 30, seed: 1})
-	p, err := NewProblem(spec, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d, err := Discover(p, DiscoverSettings{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	d, _ := discoverSpecimen(t, spec)
 	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 	var free string
 	for _, n := range d.Verdict.RuledOut {

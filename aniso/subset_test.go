@@ -17,15 +17,7 @@ func TestDiscoverSameChoiceAtAnySampling(t *testing.T) {
 	mat := fibreMaterial(3, spreadFamily{35 * deg, -1, expSqFibre(30, 4)})
 	var names, verdicts []string
 	for _, n := range []int{40, 4000} {
-		s := synthFrom(t, mat, synthOptions{noise: 0.01, points: n})
-		p, err := NewProblem(s, nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		d, err := Discover(p, DiscoverSettings{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		d, p := discoverSpecimen(t, synthFrom(t, mat, synthOptions{noise: 0.01, points: n}))
 		if d.SearchPoints > 5*DefaultSearchPoints || d.Points != 5*n {
 			t.Errorf("%d points per protocol: searched %d of %d", n, d.SearchPoints, d.Points)
 		}

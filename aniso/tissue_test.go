@@ -55,15 +55,7 @@ func predictionErrors(t *testing.T, m *Model, spec interface{}, p *Problem) map[
 // and predicts the extreme-ratio protocols generated from it without noise.
 func discoverAndPredict(t *testing.T, mat material, o synthOptions) (*Discovery, map[string]float64) {
 	t.Helper()
-	train := synthFrom(t, mat, o)
-	p, err := NewProblem(train, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d, err := Discover(p, DiscoverSettings{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	d, _ := discoverSpecimen(t, synthFrom(t, mat, o))
 	ot := o
 	ot.ratios, ot.noise = extremeRatios, 0
 	test := synthFrom(t, mat, ot)

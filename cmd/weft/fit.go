@@ -331,15 +331,27 @@ func runFit(ff *fitOptions) error {
 		if j.err != nil {
 			continue
 		}
+		// The whole record (every cycle and branch) is read for the
+		// report while the model is fitted; a long record takes a few
+		// tenths of a second to parse.
+		type recordView struct {
+			raw     *biaxial.Specimen
+			changed bool
+		}
+		view := make(chan recordView, 1)
+		go func() {
+			raw, changed := readRecordView(j.path, ff.read, j.spec.Digest)
+			view <- recordView{raw, changed}
+		}()
 		o, err := fitOne(j.spec, st, chosen, ff)
 		if err == nil {
 			o.card.Provenance, err = fitProvenance(j.path, j.spec, ff.read, form)
 		}
+		rv := <-view
 		if err == nil {
 			o.dir, o.png = j.dir, ff.png
-			var changed bool
-			o.raw, changed = readRecordView(j.path, ff.read, j.spec.Digest)
-			if changed {
+			o.raw = rv.raw
+			if rv.changed {
 				fmt.Fprintf(ff.ErrOut, "weft: warning: %s changed after it was read for the fit; raw.csv and the report's view of the whole record are left out (fit the file again once it is complete)\n", j.path)
 			}
 			err = writeFitOutputs(o, j.od, ff.force)

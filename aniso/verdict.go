@@ -29,6 +29,8 @@ type Verdict struct {
 	// beating the verdict's form by more than the noise, and look-alikes,
 	// and the forms that were not considered, with why (two families that
 	// point the same way; spread families all at the concentration bound).
+	// When a ruled-out form's lowest-BIC model is not its best by held-out
+	// error, its note names that model too (otherInSampleBest).
 	RuledOut []string
 	// Noise is the estimated noise in held-out-error units and StdErrFloor
 	// the smallest standard error a comparison may claim.

@@ -9,6 +9,7 @@ import (
 	"image/png"
 	"math"
 	"runtime"
+	"sort"
 	"strconv"
 	"sync"
 
@@ -236,8 +237,86 @@ func lineStyle(c color.Color, width float64, dashes ...float64) draw.LineStyle {
 	return ls
 }
 
+// maxDrawnPoints and maxMarkers are about the most points of one series
+// drawn as a curve or a band, and as markers (more markers would merge
+// into a band and make the page heavy). A longer series, from a record
+// sampled finely, is drawn by drawnIndices. A figure panel is a few
+// hundred points wide, so the drawing looks the same, and the tables
+// (fit.csv, curves.csv) keep every point.
+const (
+	maxDrawnPoints = 1200
+	maxMarkers     = 250
+)
+
+// drawnIndices returns the indices, in order, of the points of a series
+// of n points that are drawn when at most about limit may be, or nil when
+// all of them are (n ≤ limit). coords are the series' coordinates (x,
+// then the values; a band has two). The points are split into runs of
+// consecutive points, and of each run the first and those with the lowest
+// and highest value of each coordinate are drawn, plus the series' last
+// point: the extremes-per-run idea of M4 aggregation (Jugel, Jerzak,
+// Hackenbroich & Markl 2014, Proc VLDB Endowment 7:797–808), so that every
+// extreme (an outlier, a peak, the largest stretch) stays in view, which
+// drawing every k-th point does not promise. A point that cannot be drawn
+// is kept where it starts a gap, so that the gap stays one.
+func drawnIndices(n, limit int, coords ...[]float64) []int {
+	if n <= limit {
+		return nil
+	}
+	runs := max(limit/(1+2*len(coords)), 1)
+	keep := make([]int, 0, limit+8)
+	for r := 0; r < runs; r++ {
+		lo, hi := r*n/runs, (r+1)*n/runs
+		keep = append(keep, lo)
+		for _, y := range coords {
+			iMin, iMax := -1, -1
+			for i := lo; i < hi; i++ {
+				if bad(y[i]) {
+					if i == 0 || !bad(y[i-1]) {
+						keep = append(keep, i)
+					}
+					continue
+				}
+				if iMin < 0 || y[i] < y[iMin] {
+					iMin = i
+				}
+				if iMax < 0 || y[i] > y[iMax] {
+					iMax = i
+				}
+			}
+			if iMin >= 0 {
+				keep = append(keep, iMin, iMax)
+			}
+		}
+	}
+	keep = append(keep, n-1)
+	sort.Ints(keep)
+	out := keep[:0]
+	for i, k := range keep {
+		if i == 0 || k != keep[i-1] {
+			out = append(out, k)
+		}
+	}
+	return out
+}
+
+// pick returns the values of v at the indices idx, or v itself when idx
+// is nil (every point drawn).
+func pick(v []float64, idx []int) []float64 {
+	if idx == nil {
+		return v
+	}
+	out := make([]float64, len(idx))
+	for j, i := range idx {
+		out[j] = v[i]
+	}
+	return out
+}
+
 // addCurve adds a curve (split at gaps).
 func addCurve(p *plot.Plot, xs, ys []float64, ls draw.LineStyle) {
+	idx := drawnIndices(len(xs), maxDrawnPoints, xs, ys)
+	xs, ys = pick(xs, idx), pick(ys, idx)
 	for _, pc := range finitePieces(xs, ys) {
 		l, err := plotter.NewLine(pc)
 		if err != nil {
@@ -250,6 +329,8 @@ func addCurve(p *plot.Plot, xs, ys []float64, ls draw.LineStyle) {
 
 // addBand adds the filled band between lo and hi over xs (split at gaps).
 func addBand(p *plot.Plot, xs, lo, hi []float64, c color.Color) {
+	idx := drawnIndices(len(xs), maxDrawnPoints, xs, lo, hi)
+	xs, lo, hi = pick(xs, idx), pick(lo, idx), pick(hi, idx)
 	var cur plotter.XYs
 	var back []plotter.XY
 	flush := func() {
@@ -284,6 +365,8 @@ func reverse(s []plotter.XY) []plotter.XY {
 
 // addPoints adds markers.
 func addPoints(p *plot.Plot, xs, ys []float64, gs draw.GlyphStyle) {
+	idx := drawnIndices(len(xs), maxMarkers, xs, ys)
+	xs, ys = pick(xs, idx), pick(ys, idx)
 	var xy plotter.XYs
 	for _, pc := range finitePieces(xs, ys) {
 		xy = append(xy, pc...)

@@ -82,29 +82,6 @@ func (t *fitTable) normalPeak(pr *protocolRows) float64 {
 // of the protocol's largest normal stress.
 const shearSpan = 0.02
 
-// maxMarkers is the most points of one protocol and component a tile
-// draws: more would merge into a band and make the page heavy. Longer
-// series are drawn every k-th point (ends kept); fit.csv holds them all.
-const maxMarkers = 250
-
-// thinned returns every k-th point of a series of more than maxMarkers
-// points (the first and last kept), else the series itself.
-func thinned(xs, ys []float64) ([]float64, []float64) {
-	n := len(xs)
-	if n <= maxMarkers {
-		return xs, ys
-	}
-	stride := (n + maxMarkers - 1) / maxMarkers
-	var ox, oy []float64
-	for i := 0; i < n; i += stride {
-		ox, oy = append(ox, xs[i]), append(oy, ys[i])
-	}
-	if (n-1)%stride != 0 {
-		ox, oy = append(ox, xs[n-1]), append(oy, ys[n-1])
-	}
-	return ox, oy
-}
-
 // xsOf is the abscissa of every point of a protocol for a component.
 func xsOf(Fs [][4]float64, comp string, strain bool) []float64 {
 	xs := make([]float64, len(Fs))
@@ -221,16 +198,14 @@ func (in *Input) fitPanel(pr *protocolRows, shear, strain bool, title string) *p
 		}
 	}
 	for _, ci := range comps {
-		mx, my := thinned(xsOf(pr.F, t.comps[ci], strain), pr.measured[ci])
-		addPoints(p, mx, my, componentGlyph(t.comps[ci], 1.9))
+		addPoints(p, xsOf(pr.F, t.comps[ci], strain), pr.measured[ci], componentGlyph(t.comps[ci], 1.9))
 	}
 	for _, ci := range comps {
 		addCurve(p, s.x[ci], s.y[ci], modelLine(t.comps[ci]))
 	}
 	for _, ci := range comps {
 		if ho := in.heldoutStress(pr.label, ci); ho != nil {
-			hx, hy := thinned(xsOf(pr.F, t.comps[ci], strain), ho)
-			addCurve(p, hx, hy, heldoutStyle(t.comps[ci]))
+			addCurve(p, xsOf(pr.F, t.comps[ci], strain), ho, heldoutStyle(t.comps[ci]))
 		}
 	}
 	includeZero(p)
@@ -297,7 +272,7 @@ func (in *Input) fitGridFigure(strain bool) *figure {
 	if strain {
 		what = "Green strain"
 	}
-	caption := fmt.Sprintf("%s stress of axes 1 and 2 against the %s of each axis, R² per axis in the tile title. Markers: measured points of the kept branch (a protocol of more than %d points shows every k-th; fit.csv has all). Solid: the fitted model", kindName(t.kind), what, maxMarkers)
+	caption := fmt.Sprintf("%s stress of axes 1 and 2 against the %s of each axis, R² per axis in the tile title. Markers: measured points of the kept branch (a protocol of more than %d points shows, of each run of consecutive points, the first and the extremes; fit.csv has all). Solid: the fitted model", kindName(t.kind), what, maxMarkers)
 	if in.curves != nil {
 		caption += "; shaded: its 95 % confidence band (delta method, Gauss–Newton covariance; Bates & Watts 1988), where the fitted curve would lie if the test were repeated, not where new measurements fall"
 	}
@@ -344,7 +319,7 @@ func (in *Input) residualFigure(shear, strain bool) *figure {
 	if shear {
 		name, what = "residuals-shear", "shear stresses"
 	}
-	caption := "Model − measured stress at every kept point, RMSE per component in the tile title. A good fit scatters evenly about zero; a trend shows what the model misses. " +
+	caption := fmt.Sprintf("Model − measured stress at every kept point (a protocol of more than %d points shows, of each run of consecutive points, the first and the extremes, so every outlier stays in view), RMSE per component in the tile title. A good fit scatters evenly about zero; a trend shows what the model misses. ", maxMarkers) +
 		"Each axis spans at least ±2 % of the protocol's largest normal stress, so that a small residual looks small."
 	var legend []legendEntry
 	for _, ci := range t.componentsOf(shear) {
@@ -366,8 +341,7 @@ func (in *Input) residualFigure(shear, strain bool) *figure {
 			for _, x := range xs {
 				lo, hi = math.Min(lo, x), math.Max(hi, x)
 			}
-			rx, ry := thinned(xs, pr.residual[ci])
-			addPoints(p, rx, ry, componentGlyph(t.comps[ci], 1.7))
+			addPoints(p, xs, pr.residual[ci], componentGlyph(t.comps[ci], 1.7))
 		}
 		if lo < hi {
 			addCurve(p, []float64{lo, hi}, []float64{0, 0}, lineStyle(okabeBlack, 0.7))
@@ -454,8 +428,7 @@ func (in *Input) presetsFigure(strain bool) *figure {
 			}
 		}
 		for _, ci := range t.componentsOf(false) {
-			mx, my := thinned(xsOf(pr.F, t.comps[ci], strain), pr.measured[ci])
-			addPoints(p, mx, my, muted(componentGlyph(t.comps[ci], 1.9)))
+			addPoints(p, xsOf(pr.F, t.comps[ci], strain), pr.measured[ci], muted(componentGlyph(t.comps[ci], 1.9)))
 		}
 		// Presets first, the fitted model last, on top.
 		for k := len(models) - 1; k >= 0; k-- {

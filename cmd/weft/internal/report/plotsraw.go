@@ -81,6 +81,6 @@ func (in *Input) rawFigure() *figure {
 		return p
 	}
 	caption := "The test file as measured, before any re-referencing: every row in test order as a thin line (each cycle's loading and unloading), the rows the fit used as a heavy line, the first row — the preload — as a black diamond. " +
-		"Records longer than 1500 rows per protocol are thinned evenly; raw.csv holds the rows drawn."
+		fmt.Sprintf("Records longer than %d rows per protocol are thinned evenly in raw.csv, and a line of more than %d rows is drawn by the first and the extreme rows of each run of consecutive rows.", maxRawRows, maxDrawnPoints)
 	return tiledFigure("raw", "The record: every cycle, the kept branch and the preload", caption, n, shortTileHeight(n), panel, legend)
 }

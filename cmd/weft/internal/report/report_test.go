@@ -10,6 +10,7 @@ import (
 	"image/png"
 	"io"
 	"math"
+	"sort"
 	"strings"
 	"testing"
 
@@ -221,19 +222,47 @@ func TestCurvePath(t *testing.T) {
 	}
 }
 
-// A long series is drawn every k-th point, its ends kept; a short one
+// A long series is drawn by the first point and the extremes of each run
+// of consecutive points, its last point kept: within about the bound, and
+// with every extreme in view, where drawing every k-th point would drop
+// a single outlier (here a residual spike at an index no stride of 20
+// meets); a gap (a non-finite value) stays a gap; a short series is drawn
 // whole.
-func TestThinned(t *testing.T) {
-	xs := make([]float64, 1001)
+func TestDrawnIndices(t *testing.T) {
+	const n = 5000
+	xs, ys := make([]float64, n), make([]float64, n)
 	for i := range xs {
-		xs[i] = float64(i)
+		xs[i] = 1 + 0.2*float64(i)/n
+		ys[i] = 0.01 * math.Sin(float64(i))
 	}
-	ox, oy := thinned(xs, xs)
-	if len(ox) > maxMarkers+1 || ox[0] != 0 || ox[len(ox)-1] != 1000 || len(oy) != len(ox) {
-		t.Errorf("%d points from %g to %g", len(ox), ox[0], ox[len(ox)-1])
+	ys[2517] = 5 // the outlier
+	ys[3000] = math.NaN()
+	idx := drawnIndices(n, maxMarkers, xs, ys)
+	if len(idx) > maxMarkers+1 || len(idx) < maxMarkers/2 {
+		t.Errorf("%d points drawn of %d, bound %d", len(idx), n, maxMarkers)
 	}
-	if s, _ := thinned(xs[:40], xs[:40]); len(s) != 40 {
-		t.Errorf("a short series lost points: %d", len(s))
+	has := func(k int) bool {
+		j := sort.SearchInts(idx, k)
+		return j < len(idx) && idx[j] == k
+	}
+	for _, k := range []int{0, n - 1, 2517, 3000} {
+		if !has(k) {
+			t.Errorf("point %d not drawn", k)
+		}
+	}
+	if !sort.IntsAreSorted(idx) {
+		t.Errorf("indices out of order")
+	}
+	px, py := pick(xs, idx), pick(ys, idx)
+	if len(finitePieces(px, py)) != 2 {
+		t.Errorf("the gap at point 3000 was not kept")
+	}
+	band := drawnIndices(n, maxDrawnPoints, xs, ys, ys)
+	if len(band) > maxDrawnPoints+1 {
+		t.Errorf("band: %d points drawn, bound %d", len(band), maxDrawnPoints)
+	}
+	if drawnIndices(40, maxMarkers, xs[:40], ys[:40]) != nil {
+		t.Errorf("a short series lost points")
 	}
 }
 

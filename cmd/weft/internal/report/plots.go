@@ -238,19 +238,99 @@ func lineStyle(c color.Color, width float64, dashes ...float64) draw.LineStyle {
 }
 
 // maxDrawnPoints and maxMarkers are about the most points of one series
-// drawn as a curve or a band, and as markers (more markers would merge
-// into a band and make the page heavy). A longer series, from a record
-// sampled finely, is drawn by drawnIndices. A figure panel is a few
-// hundred points wide, so the drawing looks the same, and the tables
-// (fit.csv, curves.csv) keep every point.
+// drawn as a curve or a band (drawnIndices), and as markers
+// (markerIndices; more markers would merge into a band and make the page
+// heavy). They matter only for a record sampled finely: a figure panel is
+// a few hundred points wide, so the drawing looks the same, and the
+// tables (fit.csv, curves.csv) keep every point.
 const (
 	maxDrawnPoints = 1200
 	maxMarkers     = 250
 )
 
-// drawnIndices returns the indices, in order, of the points of a series
-// of n points that are drawn when at most about limit may be, or nil when
-// all of them are (n ≤ limit). coords are the series' coordinates (x,
+// outlierWindow is the number of consecutive points among which
+// markerIndices looks for outliers, and outlierZ the modified z-score
+// above which a point is one: |0.6745 (y − median) / MAD| > 3.5, the rule
+// of Iglewicz & Hoaglin 1993 (from memory). For Gaussian scatter it flags
+// about 5 points in 10 000.
+const (
+	outlierWindow = 200
+	outlierZ      = 3.5
+)
+
+// markerIndices returns the indices, in order, of the points of a series
+// of n points drawn as markers, or nil when all of them are (n ≤
+// maxMarkers): every k-th point with the last, an even sample that shows
+// how the points scatter, plus every point that is an outlier among its
+// outlierWindow neighbours, so that a single wild point stays in view.
+// (Drawing each run's extremes instead, as for curves, would show the
+// tails of a scatter as if they were its bulk.)
+func markerIndices(n int, ys []float64) []int {
+	if n <= maxMarkers {
+		return nil
+	}
+	stride := (n + maxMarkers - 1) / maxMarkers
+	keep := make([]int, 0, maxMarkers+8)
+	for i := 0; i < n; i += stride {
+		keep = append(keep, i)
+	}
+	keep = append(keep, n-1)
+	window := make([]float64, 0, outlierWindow)
+	dev := make([]float64, 0, outlierWindow)
+	for lo := 0; lo < n; lo += outlierWindow {
+		hi := min(lo+outlierWindow, n)
+		window = window[:0]
+		for _, y := range ys[lo:hi] {
+			if !bad(y) {
+				window = append(window, y)
+			}
+		}
+		if len(window) < 5 {
+			continue
+		}
+		med := median(window)
+		dev = dev[:0]
+		for _, y := range window {
+			dev = append(dev, math.Abs(y-med))
+		}
+		mad := median(dev)
+		if mad == 0 {
+			continue
+		}
+		for i := lo; i < hi; i++ {
+			if !bad(ys[i]) && 0.6745*math.Abs(ys[i]-med)/mad > outlierZ {
+				keep = append(keep, i)
+			}
+		}
+	}
+	return sortedUnique(keep)
+}
+
+// median returns the median of v, which it reorders.
+func median(v []float64) float64 {
+	sort.Float64s(v)
+	m := len(v) / 2
+	if len(v)%2 == 1 {
+		return v[m]
+	}
+	return (v[m-1] + v[m]) / 2
+}
+
+// sortedUnique sorts the indices and removes repeats.
+func sortedUnique(keep []int) []int {
+	sort.Ints(keep)
+	out := keep[:0]
+	for i, k := range keep {
+		if i == 0 || k != keep[i-1] {
+			out = append(out, k)
+		}
+	}
+	return out
+}
+
+// drawnIndices returns the indices, in order, of the points of a curve or
+// band of n points that are drawn when at most about limit may be, or nil
+// when all of them are (n ≤ limit). coords are the series' coordinates (x,
 // then the values; a band has two). The points are split into runs of
 // consecutive points, and of each run the first and those with the lowest
 // and highest value of each coordinate are drawn, plus the series' last
@@ -290,14 +370,7 @@ func drawnIndices(n, limit int, coords ...[]float64) []int {
 		}
 	}
 	keep = append(keep, n-1)
-	sort.Ints(keep)
-	out := keep[:0]
-	for i, k := range keep {
-		if i == 0 || k != keep[i-1] {
-			out = append(out, k)
-		}
-	}
-	return out
+	return sortedUnique(keep)
 }
 
 // pick returns the values of v at the indices idx, or v itself when idx
@@ -365,7 +438,7 @@ func reverse(s []plotter.XY) []plotter.XY {
 
 // addPoints adds markers.
 func addPoints(p *plot.Plot, xs, ys []float64, gs draw.GlyphStyle) {
-	idx := drawnIndices(len(xs), maxMarkers, xs, ys)
+	idx := markerIndices(len(xs), ys)
 	xs, ys = pick(xs, idx), pick(ys, idx)
 	var xy plotter.XYs
 	for _, pc := range finitePieces(xs, ys) {

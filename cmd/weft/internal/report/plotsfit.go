@@ -272,7 +272,7 @@ func (in *Input) fitGridFigure(strain bool) *figure {
 	if strain {
 		what = "Green strain"
 	}
-	caption := fmt.Sprintf("%s stress of axes 1 and 2 against the %s of each axis, R² per axis in the tile title. Markers: measured points of the kept branch (a protocol of more than %d points shows, of each run of consecutive points, the first and the extremes; fit.csv has all). Solid: the fitted model", kindName(t.kind), what, maxMarkers)
+	caption := fmt.Sprintf("%s stress of axes 1 and 2 against the %s of each axis, R² per axis in the tile title. Markers: measured points of the kept branch (a protocol of more than %d points shows every k-th point and every outlier among its neighbours; fit.csv has all). Solid: the fitted model", kindName(t.kind), what, maxMarkers)
 	if in.curves != nil {
 		caption += "; shaded: its 95 % confidence band (delta method, Gauss–Newton covariance; Bates & Watts 1988), where the fitted curve would lie if the test were repeated, not where new measurements fall"
 	}
@@ -319,7 +319,7 @@ func (in *Input) residualFigure(shear, strain bool) *figure {
 	if shear {
 		name, what = "residuals-shear", "shear stresses"
 	}
-	caption := fmt.Sprintf("Model − measured stress at every kept point (a protocol of more than %d points shows, of each run of consecutive points, the first and the extremes, so every outlier stays in view), RMSE per component in the tile title. A good fit scatters evenly about zero; a trend shows what the model misses. ", maxMarkers) +
+	caption := fmt.Sprintf("Model − measured stress at every kept point (a protocol of more than %d points shows every k-th point and every outlier among its neighbours), RMSE per component in the tile title. A good fit scatters evenly about zero; a trend shows what the model misses. ", maxMarkers) +
 		"Each axis spans at least ±2 % of the protocol's largest normal stress, so that a small residual looks small."
 	var legend []legendEntry
 	for _, ci := range t.componentsOf(shear) {

@@ -554,16 +554,17 @@ func writeFitFiles(o *fitOutcome, od safeout.Sink) error {
 			rawErr = report.WriteRawTable(&rawCSV, o.raw, o.spec)
 		}
 	}()
-	files := []outFile{{name: "model.json"}, {name: "fit.csv"}}
-	files[0].data, files[0].err = o.card.Marshal()
+	cardJSON, cardErr := o.card.Marshal()
+	var sel []outFile
 	if o.disc != nil {
 		var buf bytes.Buffer
 		err := report.WriteSelectionTable(&buf, o.prob, o.disc)
-		files = append(files, outFile{"selection.csv", buf.Bytes(), err})
+		sel = append(sel, outFile{"selection.csv", buf.Bytes(), err})
 	}
-	files = append(files, heldoutAndCurves(o)...)
+	rest := heldoutAndCurves(o)
 	<-done
-	files[1].data, files[1].err = fitCSV.Bytes(), fitErr
+	files := []outFile{{"model.json", cardJSON, cardErr}, {"fit.csv", fitCSV.Bytes(), fitErr}}
+	files = append(append(files, sel...), rest...)
 	if o.raw != nil {
 		files = append(files, outFile{"raw.csv", rawCSV.Bytes(), rawErr})
 	}

@@ -9,6 +9,7 @@ import (
 	"image/png"
 	"math"
 	"runtime"
+	"slices"
 	"sort"
 	"strconv"
 	"sync"
@@ -303,7 +304,8 @@ func markerIndices(n int, ys []float64) []int {
 			}
 		}
 	}
-	return sortedUnique(keep)
+	slices.Sort(keep)
+	return slices.Compact(keep)
 }
 
 // median returns the median of v, which it reorders.
@@ -314,18 +316,6 @@ func median(v []float64) float64 {
 		return v[m]
 	}
 	return (v[m-1] + v[m]) / 2
-}
-
-// sortedUnique sorts the indices and removes repeats.
-func sortedUnique(keep []int) []int {
-	sort.Ints(keep)
-	out := keep[:0]
-	for i, k := range keep {
-		if i == 0 || k != keep[i-1] {
-			out = append(out, k)
-		}
-	}
-	return out
 }
 
 // drawnIndices returns the indices, in order, of the points of a curve or
@@ -370,7 +360,8 @@ func drawnIndices(n, limit int, coords ...[]float64) []int {
 		}
 	}
 	keep = append(keep, n-1)
-	return sortedUnique(keep)
+	slices.Sort(keep)
+	return slices.Compact(keep)
 }
 
 // pick returns the values of v at the indices idx, or v itself when idx

@@ -137,8 +137,9 @@ func TestRuledOutNamesTheFormsLowestBIC(t *testing.T) {
 		}
 	}
 	if d.Verdict.Families == "2" {
-		// Nothing is hidden when two families win; the note is not needed.
-		return
+		// Nothing is hidden when two families win, so the specimen no
+		// longer exercises the note: say so rather than pass silently.
+		t.Skipf("verdict 2: two families won, and the note this test checks is not written")
 	}
 	_, rest, ok := strings.Cut(free, "the form's lowest BIC is ")
 	if !ok {

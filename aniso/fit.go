@@ -284,11 +284,14 @@ func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 	if p.HasShear {
 		return
 	}
+	// The result is settled once, at the end: its uncertainty and metrics
+	// need not be recomputed for each angle moved.
+	theta, loss, moved := r.theta, r.Loss, false
 	for i, q := range e.params {
 		if q.Kind != kindAngle || !q.Periodic {
 			continue
 		}
-		w := wrapAngle(r.theta[i])
+		w := wrapAngle(theta[i])
 		line := 0.0
 		switch {
 		case math.Abs(w) < symmetrySnap:
@@ -300,16 +303,18 @@ func (r *Result) onSymmetryLines(p *Problem, e *engine, set Settings) {
 		if onSymmetryLine(w) {
 			continue
 		}
-		th := append([]float64(nil), r.theta...)
+		th := append([]float64(nil), theta...)
 		th[i] = q.project(line)
 		lr := e.minimize(th, allBut(len(th), i), set.MaxIterations)
 		r.Iterations += lr.Iterations
 		r.Evaluations += lr.Evals
-		if lr.Loss <= r.Loss*(1+set.Tolerance) {
-			r.settle(p, e, th)
+		if lr.Loss <= loss*(1+set.Tolerance) {
+			theta, loss, moved = th, lr.Loss, true
 		}
 	}
-	if !e.holdsDerivatives(r.theta) {
+	if moved {
+		r.settle(p, e, theta)
+	} else if !e.holdsDerivatives(r.theta) {
 		e.eval(r.theta, true)
 	}
 }

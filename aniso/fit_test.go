@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -537,6 +538,48 @@ func TestSettleWithoutReevaluation(t *testing.T) {
 		if !same(a.Value, e.Value) || !same(a.StdErr, e.StdErr) || a.Status != e.Status {
 			t.Errorf("estimate %s: %+v evaluated again, %+v", e.Name, a, e)
 		}
+	}
+}
+
+// A refinement with nothing to gain spends no evaluations on trial steps.
+// Without shear information the loss is even in a fibre angle about 0°
+// (package documentation, Mirror symmetry), so with only the angle free
+// and the angle exactly on 0° the gradient is zero: every damped step is
+// zero and the model predicts no decrease. The minimiser stops after its
+// first evaluation instead of trying twelve dampings of a step of nothing
+// and evaluating the start again (fourteen evaluations before this rule).
+func TestRefinementWithNothingToGainStops(t *testing.T) {
+	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 20, Params: []float64{5}}, 0)
+	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20})
+	p, err := NewProblem(spec, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.HasShear {
+		t.Fatal("the specimen has shear information")
+	}
+	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+	res, err := Fit(p, st, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	theta := append([]float64(nil), res.theta...)
+	free := make([]bool, len(theta))
+	for i, q := range res.e.params {
+		if q.Kind == kindAngle {
+			theta[i], free[i] = 0, true
+		}
+	}
+	start := append([]float64(nil), theta...)
+	lr := res.e.minimize(theta, free, 200)
+	if lr.Evals != 1 {
+		t.Errorf("%d evaluations, want 1 (the start's)", lr.Evals)
+	}
+	if !slices.Equal(theta, start) {
+		t.Errorf("the parameters moved from %v to %v", start, theta)
+	}
+	if !(lr.Loss < math.Inf(1)) || !res.e.holdsDerivatives(theta) {
+		t.Errorf("loss %g; the engine must hold the start's evaluation", lr.Loss)
 	}
 }
 

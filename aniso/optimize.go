@@ -141,6 +141,12 @@ func (e *engine) gradHess(idx []int) (g, H []float64) {
 	return g, H
 }
 
+// lmRoundoff is the relative decrease of the loss below which a trial
+// step is not evaluated: about the round-off of a sum of squares over a
+// few hundred to a few thousand rows, so that such a step could only be
+// accepted or rejected by round-off.
+const lmRoundoff = 1e-13
+
 // lmResult reports one local minimisation.
 type lmResult struct {
 	Loss       float64
@@ -162,6 +168,7 @@ func (e *engine) minimize(theta []float64, free []bool, maxIter int) lmResult {
 	}
 	lambda := 1e-3
 	trial := make([]float64, len(theta))
+	step := make([]float64, len(theta))
 	stale := false
 	small := 0
 	for res.Iterations < maxIter && loss > 0 {
@@ -212,6 +219,28 @@ func (e *engine) minimize(theta []float64, free []bool, maxIter int) lmResult {
 			for a, ia := range keep {
 				i := idx[ia]
 				trial[i] = e.params[i].project(theta[i] + rhs[a])
+				step[a] = trial[i] - theta[i]
+				if e.params[i].Periodic {
+					step[a] = rhs[a]
+				}
+			}
+			// The decrease the Gauss–Newton model predicts for the step
+			// taken (bounds applied): −(2gᵀδ + δᵀHδ), since the loss is
+			// ‖r‖² and g = Jᵀr, H = JᵀJ.
+			pred := 0.0
+			for a, ia := range keep {
+				hd := 0.0
+				for b, ib := range keep {
+					hd += H[ia*len(idx)+ib] * step[b]
+				}
+				pred -= step[a] * (2*g[ia] + hd)
+			}
+			if math.Abs(pred) < lmRoundoff*loss {
+				// The model promises no change the loss's own round-off
+				// would not hide, so the step could only be accepted or
+				// rejected by round-off, and a larger damping would only
+				// shrink it: the refinement has converged.
+				break
 			}
 			tl := e.eval(trial, true)
 			res.Evals++

@@ -57,6 +57,19 @@ type engine struct {
 	keep    []bool
 	prevFam []Family
 	prevOK  bool
+	// isoShaped marks shaped groups whose terms are all isotropic (their
+	// columns depend on their own shape parameters only); filledWith
+	// holds, for such a group, its terms' shape parameters at its last
+	// fill with derivatives (valid with filledOK; not after a fill
+	// without derivatives), whose columns and
+	// derivative columns an evaluation with derivatives keeps while the
+	// parameters have not moved. In a fit of the whole catalogue a term
+	// non-negativity holds at zero gets a zero gradient, so its parameters
+	// stay where they are, and its column need not be filled again.
+	isoShaped  []bool
+	filledWith [][]float64
+	filledOK   []bool
+	paramBuf   []float64
 	// derivsAt says that the last evaluation, at e.at, was feasible and
 	// filled the derivatives: the state a minimiser leaves (minimize).
 	derivsAt bool
@@ -129,14 +142,19 @@ func newEngine(p *Problem, m *Model, groups [][]int, famOf []int, layout Layout,
 	e.cols.valuesOnly = make([]bool, len(m.Terms))
 	e.shaped = make([]bool, e.ng)
 	e.keep = make([]bool, e.ng)
+	e.isoShaped = make([]bool, e.ng)
+	e.filledWith = make([][]float64, e.ng)
+	e.filledOK = make([]bool, e.ng)
 	for g, members := range groups {
 		e.shaped[g] = free[g]
 		e.static[g] = !free[g]
+		iso := true
 		for _, k := range members {
 			if m.Terms[k].Family >= 0 {
-				e.static[g] = false
+				e.static[g], iso = false, false
 			}
 		}
+		e.isoShaped[g] = free[g] && iso
 	}
 	return e
 }
@@ -270,6 +288,7 @@ func (e *engine) eval(theta []float64, derivs bool) float64 {
 		return e.loss
 	}
 	e.crossProducts(memo)
+	e.noteFilled(derivs)
 	e.staticDone = true
 	e.prevFam = append(e.prevFam[:0], e.model.Families...)
 	e.prevOK = true
@@ -459,9 +478,46 @@ func (e *engine) markKept(derivs bool) {
 				}
 			}
 		}
+		if !k && derivs && e.staticDone && e.isoShaped[g] && e.filledOK[g] {
+			e.paramBuf = e.groupParams(g, e.paramBuf[:0])
+			k = slices.EqualFunc(e.filledWith[g], e.paramBuf, func(a, b float64) bool {
+				return math.Float64bits(a) == math.Float64bits(b)
+			})
+		}
 		e.keep[g] = k
 	}
 	e.prevOK = false
+	for g, k := range e.keep {
+		if !k {
+			// Refilled now; recorded again only once this evaluation
+			// completes with its cross products (noteFilled).
+			e.filledOK[g] = false
+		}
+	}
+}
+
+// groupParams appends the shape parameters of every term of group g to
+// buf.
+func (e *engine) groupParams(g int, buf []float64) []float64 {
+	for _, k := range e.groups[g] {
+		buf = append(buf, e.model.Terms[k].Params...)
+	}
+	return buf
+}
+
+// noteFilled records, once an evaluation has filled its columns and their
+// cross products, the shape parameters each isotropic shaped group was
+// filled with (see filledWith).
+func (e *engine) noteFilled(derivs bool) {
+	for g, iso := range e.isoShaped {
+		if !iso || e.keep[g] {
+			continue
+		}
+		e.filledOK[g] = derivs
+		if derivs {
+			e.filledWith[g] = e.groupParams(g, e.filledWith[g][:0])
+		}
+	}
 }
 
 // familyMoved reports whether family f differs from the last complete

@@ -475,6 +475,86 @@ func TestEngineLossIndependentOfHistory(t *testing.T) {
 	checkEngineHistory(t, p, full, fth, "whole catalogue")
 }
 
+// An evaluation with derivatives keeps the columns of an isotropic term
+// whose shape parameters have not moved since its last complete fill with
+// derivatives (engine.filledWith), and only then: after an evaluation that
+// overflowed and so stopped before its cross products, a term it refilled
+// is filled again. On the whole catalogue on one family: θ1 moves one
+// isotropic term's parameter and sends another's far beyond its bound so
+// that its column overflows; θ2 brings the second back and keeps the
+// first's new value (filled again: θ1 did not complete); θ3 moves the
+// angle only (the first's column kept). At each point the loss, the scaled
+// cross products and the derivative vectors equal a fresh engine's, bit
+// for bit.
+func TestEngineKeepsIsotropicColumnsOnlyWhileValid(t *testing.T) {
+	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-lin"), Family: -1, Weight: 2},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{3}},
+		{Shape: lookup("fib-expsq"), Family: 1, Weight: 10, Params: []float64{2}}}}
+	spec := synthSpecimen(t, two, synthOptions{noise: 0.01, points: 15, sutured: true})
+	p, err := NewProblem(spec, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	full, err := Fit(p, fullStructure(DiscoverSettings{}.withDefaults().Shapes, Structure{Layout: LayoutSingle}), Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Two isotropic shaped parameters: one to move, one to overflow.
+	var iso []int
+	for i, q := range full.e.params {
+		if q.Kind == kindShape && full.e.isoShaped[q.Group] {
+			iso = append(iso, i)
+		}
+	}
+	if len(iso) < 3 {
+		t.Fatalf("%d isotropic shape parameters in the catalogue, want at least 3", len(iso))
+	}
+	moved, blown := iso[0], iso[1]
+	th0 := append([]float64(nil), full.theta...)
+	th1 := append([]float64(nil), th0...)
+	th1[moved] *= 1.25
+	th1[blown] = 1e6 // e^(1e6·(I − 3)) overflows at any stretch
+	th2 := append([]float64(nil), th1...)
+	th2[blown] = th0[blown]
+	th3 := append([]float64(nil), th2...)
+	for i, q := range full.e.params {
+		if q.Kind == kindAngle {
+			th3[i] += 0.1
+		}
+	}
+	e := full.profileEngine(p)
+	for k, th := range [][]float64{th0, th1, th2, th3} {
+		got := e.eval(th, true)
+		fresh := full.profileEngine(p)
+		want := fresh.eval(th, true)
+		if k == 1 && !math.IsInf(want, 1) {
+			t.Fatalf("θ1: loss %g, want +Inf (the overflowing column)", want)
+		}
+		if math.Float64bits(got) != math.Float64bits(want) {
+			t.Errorf("θ%d: loss %.17g after earlier evaluations, %.17g fresh", k, got, want)
+		}
+		if math.IsInf(want, 1) {
+			continue
+		}
+		if kept := e.keep[full.e.params[moved].Group]; kept != (k == 3) {
+			t.Errorf("θ%d: the moved term's column kept %v, want %v", k, kept, k == 3)
+		}
+		for i := range fresh.G {
+			if math.Float64bits(e.G[i]) != math.Float64bits(fresh.G[i]) {
+				t.Fatalf("θ%d: cross product %d is %.17g after earlier evaluations, %.17g fresh", k, i, e.G[i], fresh.G[i])
+			}
+		}
+		for i := range fresh.v {
+			for row := range fresh.v[i] {
+				if math.Float64bits(e.v[i][row]) != math.Float64bits(fresh.v[i][row]) {
+					t.Fatalf("θ%d: derivative %d row %d is %.17g after earlier evaluations, %.17g fresh", k, i, row, e.v[i][row], fresh.v[i][row])
+				}
+			}
+		}
+	}
+}
+
 // checkEngineHistory evaluates r's form with derivatives at thetas in an
 // arbitrary order on one engine and compares the loss and the derivative
 // vectors, bit for bit, with a fresh engine's at each point.

@@ -3,6 +3,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"sync"
 
 	"github.com/weft-tools/weft/terms"
 )
@@ -42,6 +43,43 @@ type Dataset struct {
 	pp []principalPoint
 	// green is what Green-strain terms need of every point (fung.go).
 	green []greenPoint
+	// geom and pbase, pp, and green are computed on the first fill that
+	// needs them (planarData, principalData, greenData), once, whichever
+	// goroutine asks first: most models have no spread family,
+	// principal-stretch or Green-strain term, and a prediction on every
+	// point of a long record builds a dataset of its own.
+	planarOnce, ppOnce, greenOnce sync.Once
+}
+
+// planarData returns geom and pbase, computing them on first use.
+func (d *Dataset) planarData() ([]planarGeom, []float64) {
+	d.planarOnce.Do(func() {
+		nc := len(d.out.Components)
+		d.geom = make([]planarGeom, len(d.kin))
+		d.pbase = make([]float64, 3*d.Rows())
+		for i := range d.kin {
+			k := &d.kin[i]
+			d.geom[i] = newPlanarGeom(&k.F)
+			b0, bc, bs := planarBases(&k.F)
+			for q, s := range [3]Sym{b0, bc, bs} {
+				v := d.convert(k, s, i*nc)
+				copy(d.pbase[3*i*nc+q*nc:], v[:nc])
+			}
+		}
+	})
+	return d.geom, d.pbase
+}
+
+// principalData returns pp, computing it on first use.
+func (d *Dataset) principalData() []principalPoint {
+	d.ppOnce.Do(func() { d.pp = d.principalPoints() })
+	return d.pp
+}
+
+// greenData returns green, computing it on first use.
+func (d *Dataset) greenData() []greenPoint {
+	d.greenOnce.Do(func() { d.green = d.greenPoints() })
+	return d.green
 }
 
 // famBases are one family's stress bases G4, G5 and their angle
@@ -86,17 +124,6 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 			}
 		}
 	}
-	d.geom = make([]planarGeom, len(F))
-	d.pbase = make([]float64, 3*d.Rows())
-	for i := range d.kin {
-		k := &d.kin[i]
-		d.geom[i] = newPlanarGeom(&k.F)
-		b0, bc, bs := planarBases(&k.F)
-		for q, s := range [3]Sym{b0, bc, bs} {
-			v := d.convert(k, s, i*nc)
-			copy(d.pbase[3*i*nc+q*nc:], v[:nc])
-		}
-	}
 	d.b1 = make([]float64, d.Rows())
 	d.b2 = make([]float64, d.Rows())
 	for i := range d.kin {
@@ -105,8 +132,6 @@ func NewDataset(F [][4]float64, out Output, rowWeight []float64) (*Dataset, erro
 		copy(d.b1[i*nc:], v1[:nc])
 		copy(d.b2[i*nc:], v2[:nc])
 	}
-	d.pp = d.principalPoints()
-	d.green = d.greenPoints()
 	return d, nil
 }
 

@@ -107,9 +107,10 @@ func (d *Dataset) fillGreen(term *Term, col []float64, c *Columns, off int, deri
 		clear(c.DAngle[off : off+len(col)])
 		clear(c.DKappa[off : off+len(col)])
 	}
+	green := d.greenData()
 	for i := range d.kin {
 		r0 := i * nc
-		gp := &d.green[i]
+		gp := &green[i]
 		E, u := gp.E, &gp.u
 		q, g := fungQ(E, b)
 		a := col[r0 : r0+nc]

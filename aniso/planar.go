@@ -424,10 +424,11 @@ func (d *Dataset) fillPlanar(m *Model, f int, c *Columns, derivs bool) {
 	if len(c.famTerms) == 0 {
 		return
 	}
+	geom, pbase := d.planarData()
 	for i := range d.kin {
 		r0 := i * nc
-		c.rule.build(c.quadrature(), &d.geom[i], fam.Angle, fam.Concentration, c.kinks, familySteepness(m, f, &d.geom[i]))
-		pb := d.pbase[3*r0 : 3*(r0+nc)]
+		c.rule.build(c.quadrature(), &geom[i], fam.Angle, fam.Concentration, c.kinks, familySteepness(m, f, &geom[i]))
+		pb := pbase[3*r0 : 3*(r0+nc)]
 		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
 		for _, t := range c.famTerms {
 			term := &m.Terms[t]
@@ -578,10 +579,11 @@ type planarScan struct {
 func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 	rows, nc := d.Rows(), len(d.out.Components)
 	sc := c.scan
+	geom, pbase := d.planarData()
 	if sc.rules == nil {
 		sc.rules = make([]planarRule, len(d.kin))
 		for i := range d.kin {
-			sc.rules[i].build(scanRule, &d.geom[i], 0, 0, nil, 0)
+			sc.rules[i].build(scanRule, &geom[i], 0, 0, nil, 0)
 		}
 	}
 	if len(sc.slopes) < len(m.Terms) {
@@ -619,7 +621,7 @@ func (d *Dataset) fillPlanarScan(m *Model, f int, c *Columns) {
 	b := fam.Concentration
 	for i := range d.kin {
 		r0 := i * nc
-		pb := d.pbase[3*r0 : 3*(r0+nc)]
+		pb := pbase[3*r0 : 3*(r0+nc)]
 		b0, bc, bs := pb[:nc], pb[nc:2*nc], pb[2*nc:]
 		nodes := sc.rules[i].Nodes
 		sc.weight = sc.weight[:0]

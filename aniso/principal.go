@@ -108,8 +108,9 @@ func (d *Dataset) fillPrincipal(term *Term, col []float64, c *Columns, off int, 
 		clear(c.DAngle[off : off+len(col)])
 		clear(c.DKappa[off : off+len(col)])
 	}
-	for i := range d.pp {
-		pt := &d.pp[i]
+	pp := d.principalData()
+	for i := range pp {
+		pt := &pp[i]
 		r0 := i * nc
 		a := col[r0 : r0+nc]
 		v := sh.AtStretches(&pt.st, p, derivs)

@@ -393,14 +393,25 @@ var profileGuideRows = 8 * 2 * 5 * DefaultSearchPoints
 // The subset's own optimum lies off the full data's by about its own
 // standard error, several times the full data's interval, so the subset's
 // profile is never used as the profile: only its parameters, as starts.
-func (r *Result) profileGuide(ps *Problem, i int, grid []float64, c int, theta []float64, wraps bool) [][]float64 {
+// With halves, the angles above and below the optimum are swept side by
+// side on two engines (see profiler.halves).
+func (r *Result) profileGuide(ps *Problem, i int, grid []float64, c int, theta []float64, wraps, halves bool) [][]float64 {
 	if ps == nil {
 		return nil
 	}
 	e := r.e
-	ge := newEngine(ps, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
-	ge.cols.Search = r.Structure.Planar
+	engineOn := func() *engine {
+		ge := newEngine(ps, cloneModelDeep(e.model), e.groups, e.famOf, e.layout, e.params)
+		ge.cols.Search = r.Structure.Planar
+		return ge
+	}
+	ge := engineOn()
 	gf := &profiler{e: ge, i: i, free: allBut(len(ge.params), i), offLoss: math.Inf(1)}
+	if halves {
+		tw := *gf
+		tw.e = engineOn()
+		gf.twin = &tw
+	}
 	th, l := gf.at(grid[c], theta)
 	if th == nil || math.IsInf(l, 1) {
 		return nil
@@ -429,13 +440,35 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 	if profileFarMargins > 0 {
 		near = fitLoss * (1 + profileFarMargins*thrRel)
 	}
+	lo := pf.lower()
+	// The loss at each angle's guide parameters needs no neighbour: these
+	// evaluations are shared evenly between the two engines (an engine's
+	// result does not depend on what it evaluated before), where the
+	// halves above and below the optimum can be uneven (an optimum near
+	// 30° without shear: 30 angles above it, 15 below).
+	placed := make([]float64, n)
+	var js []int
+	for j := range grid {
+		placed[j] = math.Inf(1)
+		if j != c && guide[j] != nil {
+			js = append(js, j)
+		}
+	}
+	evalGuides := func(q *profiler, js []int) {
+		for _, j := range js {
+			th := append([]float64(nil), guide[j]...)
+			th[q.i] = grid[j]
+			placed[j] = q.e.eval(th, false)
+		}
+	}
+	half := (len(js) + 1) / 2
+	pf.halves(func() { evalGuides(pf, js[:half]) }, func() { evalGuides(lo, js[half:]) })
 	at := func(q *profiler, j, nb int) {
 		var th []float64
-		l := math.Inf(1)
+		l := placed[j]
 		if guide[j] != nil {
 			th = append([]float64(nil), guide[j]...)
 			th[q.i] = grid[j]
-			l = q.e.eval(th, false)
 		}
 		if l > q.offLoss && q.offTheta != nil {
 			th, l = append([]float64(nil), q.offTheta...), q.offLoss
@@ -446,7 +479,6 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 		}
 		loss[j], thetas[j] = l, th
 	}
-	lo := pf.lower()
 	pf.halves(func() {
 		for j := c + 1; j < n; j++ {
 			at(pf, j, j-1)
@@ -573,7 +605,16 @@ func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Se
 	theta := append([]float64(nil), r.theta...)
 	theta[i] = opt
 	grid, c := profileGrid(lo, hi, opt, step)
-	pf := newProfiler(r, p, pe, i, set)
+	// The family-off fit and the guide on the search subset do not need
+	// each other: they run side by side.
+	var pf *profiler
+	off := make(chan struct{})
+	go func() {
+		defer close(off)
+		pf = newProfiler(r, p, pe, i, set)
+	}()
+	guide := r.profileGuide(guideOn, i, grid, c, theta, wraps, twin != nil)
+	<-off
 	if twin != nil {
 		tw := *pf
 		tw.e = twin
@@ -581,7 +622,7 @@ func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Se
 	}
 	var loss []float64
 	var thetas [][]float64
-	if guide := r.profileGuide(guideOn, i, grid, c, theta, wraps); guide != nil {
+	if guide != nil {
 		loss, thetas = pf.guided(grid, c, r.Loss, theta, guide, fq/float64(n-k))
 	} else {
 		if profileFarMargins > 0 {

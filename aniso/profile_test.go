@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"gonum.org/v1/gonum/optimize"
 )
 
@@ -211,6 +213,56 @@ func TestProfileIntervalEndsOnDenseData(t *testing.T) {
 		}
 		return 0.02 * half
 	})
+}
+
+// A profile of one angle on many rows runs its work side by side: the
+// family-off fit beside the guide on the search subset, the guide's halves
+// above and below the optimum on two engines, the full data's loss at the
+// guide's parameters shared between two engines, then the halves. Since
+// an engine's result does not depend on what it evaluated before, the
+// profile must equal, bit for bit, the one computed on a single engine one
+// step after the other.
+func TestProfileSideBySideEqualsSerial(t *testing.T) {
+	if testing.Short() {
+		t.Skip("profiles 5 × 1 000 points twice")
+	}
+	t.Parallel()
+	s := synthFrom(t, fibreMaterial(4, spreadFamily{30 * deg, -1, expSqFibre(60, 8)}), synthOptions{noise: 0.01, points: 1000})
+	p, err := NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.Rows() <= profileGuideRows {
+		t.Fatalf("%d rows: the profile is not guided", p.Rows())
+	}
+	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+	set := Settings{}
+	r, err := Fit(p, st, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	guideOn, err := searchSubset(p, DefaultSearchPoints)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fq := distuv.F{D1: 1, D2: float64(r.Rows - r.FreeParams)}.Quantile(0.95)
+	set = set.withDefaults(1, false)
+	for i, q := range r.e.params {
+		if q.Kind != kindAngle {
+			continue
+		}
+		side := r.profileOne(r.profileEngine(p), r.profileEngine(p), p, guideOn, i, set, fq)
+		serial := r.profileOne(r.profileEngine(p), nil, p, guideOn, i, set, fq)
+		same := func(a, b float64) bool { return math.Float64bits(a) == math.Float64bits(b) }
+		if !same(side.LoDeg, serial.LoDeg) || !same(side.HiDeg, serial.HiDeg) || len(side.Loss) != len(serial.Loss) {
+			t.Fatalf("side by side [%.9f, %.9f]° over %d angles, serial [%.9f, %.9f]° over %d", side.LoDeg, side.HiDeg, len(side.Loss), serial.LoDeg, serial.HiDeg, len(serial.Loss))
+		}
+		for j := range side.Loss {
+			if !same(side.Loss[j], serial.Loss[j]) || !same(side.AnglesDeg[j], serial.AnglesDeg[j]) {
+				t.Errorf("angle %d: loss %.17g at %g° side by side, %.17g at %g° serial", j, side.Loss[j], side.AnglesDeg[j], serial.Loss[j], serial.AnglesDeg[j])
+			}
+		}
+	}
 }
 
 // checkIntervalEnds fits st to p with profiles and checks that each

@@ -45,6 +45,39 @@ func ReadFile(path string, opt Options) (*Specimen, error) {
 	return prepare(rec, t, opt)
 }
 
+// Rows is one reading of a test file, its rows held in the compact form
+// ReadFile keeps until it prepares the protocols, ready to be prepared
+// with different Options (the cycles fitted, and every cycle for a view
+// of the whole record) without reading and parsing the file again.
+// Prepare may be called from several goroutines at once.
+type Rows struct {
+	rec *Record
+	t   *rawTable
+}
+
+// ReadRows reads a test file as ReadFile does, checking opt the same way,
+// without preparing it: of opt the reading uses only Sheet and Limits.
+func ReadRows(path string, opt Options) (*Rows, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	rec, t, err := readFile(path, opt, true)
+	if err != nil {
+		return nil, err
+	}
+	return &Rows{rec: rec, t: t}, nil
+}
+
+// Prepare groups, selects and weighs the rows with opt, as
+// ReadFile(path, opt) would have from the same bytes; the rows are not
+// changed.
+func (r *Rows) Prepare(opt Options) (*Specimen, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	return prepare(r.rec, r.t, opt)
+}
+
 // Read reads a test file from r and prepares it with opt, as ReadRecord
 // followed by Prepare would (see ReadFile for the memory it takes). name
 // is used in messages and to recognise xlsx.

@@ -255,6 +255,8 @@ func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 // fitJob is one DATA file of a fit run and what became of it.
 type fitJob struct {
 	path string
+	// rows, when set, is the file as read, for the record view.
+	rows *biaxial.Rows
 	spec *biaxial.Specimen
 	dir  string
 	od   *safeout.Dir
@@ -306,6 +308,14 @@ func runFit(ff *fitOptions) error {
 	jobs := make([]*fitJob, len(args))
 	for i, path := range args {
 		jobs[i] = &fitJob{path: path}
+		if len(args) == 1 {
+			// One file is read once: its rows also give the report's
+			// view of the whole record. With several, each is read again
+			// for that view while it is fitted, so that the rows of every
+			// file are not held at once.
+			jobs[i].rows, jobs[i].spec, jobs[i].err = readRows(path, ff.read)
+			continue
+		}
 		jobs[i].spec, jobs[i].err = readSpecimen(path, ff.read)
 	}
 	outputFolders(jobs, ff.out)
@@ -339,7 +349,14 @@ func runFit(ff *fitOptions) error {
 			changed bool
 		}
 		view := make(chan recordView, 1)
+		// The rows are let go once the view is prepared.
+		rows := j.rows
+		j.rows = nil
 		go func() {
+			if rows != nil {
+				view <- recordView{recordViewOf(rows, ff.read), false}
+				return
+			}
 			raw, changed := readRecordView(j.path, ff.read, j.spec.Digest)
 			view <- recordView{raw, changed}
 		}()

@@ -164,6 +164,23 @@ func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
 	return out
 }
 
+// recordViewOptions are o with every cycle and both branches, as measured
+// (no re-referencing or resampling).
+func recordViewOptions(o biaxial.Options) biaxial.Options {
+	o.Cycle, o.Branch, o.Rereference, o.Resample = biaxial.CycleAll, biaxial.BranchAll, false, 0
+	return o
+}
+
+// recordViewOf is readRecordView on rows already read (the same bytes as
+// the fit's, so nothing can have changed).
+func recordViewOf(rows *biaxial.Rows, o biaxial.Options) *biaxial.Specimen {
+	s, err := rows.Prepare(recordViewOptions(o))
+	if err != nil {
+		return nil
+	}
+	return s
+}
+
 // readRecordView reads a test file again with every cycle and both
 // branches, as measured (no re-referencing or resampling), for the
 // report's view of the whole record. It returns nil when the file cannot
@@ -172,8 +189,7 @@ func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
 // those fitted (fitted, the digest of the fit's read): a view of other data
 // would misrepresent the fit.
 func readRecordView(path string, o biaxial.Options, fitted biaxial.Digest) (view *biaxial.Specimen, changed bool) {
-	o.Cycle, o.Branch, o.Rereference, o.Resample = biaxial.CycleAll, biaxial.BranchAll, false, 0
-	s, err := biaxial.ReadFile(path, o)
+	s, err := biaxial.ReadFile(path, recordViewOptions(o))
 	if err != nil {
 		return nil, false
 	}

@@ -78,6 +78,20 @@ func (f *readFlags) options() (biaxial.Options, error) {
 	return o, nil
 }
 
+// readRows reads a file once and prepares it as readSpecimen does,
+// returning the rows as read too (for other views of the same bytes).
+func readRows(path string, opt biaxial.Options) (*biaxial.Rows, *biaxial.Specimen, error) {
+	rows, err := biaxial.ReadRows(path, opt)
+	if err != nil {
+		return nil, nil, withLimitHint(err)
+	}
+	s, err := rows.Prepare(opt)
+	if err != nil {
+		return nil, nil, withLimitHint(err)
+	}
+	return rows, s, nil
+}
+
 // readSpecimen reads and prepares one test file; problems are bad input.
 func readSpecimen(path string, opt biaxial.Options) (*biaxial.Specimen, error) {
 	s, err := biaxial.ReadFile(path, opt)

@@ -408,15 +408,10 @@ func BenchmarkDiscoverOneFamily(b *testing.B) {
 	}
 }
 
-// An engine's loss at θ does not depend on what it evaluated before: the
-// columns and cross products it keeps between evaluations (static terms,
-// families that did not move, fibre kinematics at unchanged angles) equal
-// what a fresh engine computes, bit for bit. The coarse scan of two free
-// families and the profiles running their halves on separate engines rely
-// on it. Checked on the scan dictionary of two free families (the inner
-// loop holding one family, without derivatives) and on a fitted form
-// evaluated with derivatives in an arbitrary order.
-func TestEngineLossIndependentOfHistory(t *testing.T) {
+// historyProblem is the small sutured two-family specimen (invented: 10°
+// and 65°) on which engines are checked against fresh ones.
+func historyProblem(t *testing.T) *Problem {
+	t.Helper()
 	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
 		{Shape: lookup("i1-lin"), Family: -1, Weight: 2},
 		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{3}},
@@ -426,6 +421,19 @@ func TestEngineLossIndependentOfHistory(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return p
+}
+
+// An engine's loss at θ does not depend on what it evaluated before: the
+// columns and cross products it keeps between evaluations (static terms,
+// families that did not move, fibre kinematics at unchanged angles) equal
+// what a fresh engine computes, bit for bit. The coarse scan of two free
+// families and the profiles running their halves on separate engines rely
+// on it. Checked on the scan dictionary of two free families (the inner
+// loop holding one family, without derivatives) and on a fitted form
+// evaluated with derivatives in an arbitrary order.
+func TestEngineLossIndependentOfHistory(t *testing.T) {
+	p := historyProblem(t)
 	st := canonical(Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1},
 		{Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-exp"), Family: 0},
 		{Shape: lookup("fib-expsq"), Family: 1}, {Shape: lookup("fib-exp"), Family: 1}}})
@@ -487,15 +495,7 @@ func TestEngineLossIndependentOfHistory(t *testing.T) {
 // cross products and the derivative vectors equal a fresh engine's, bit
 // for bit.
 func TestEngineKeepsIsotropicColumnsOnlyWhileValid(t *testing.T) {
-	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
-		{Shape: lookup("i1-lin"), Family: -1, Weight: 2},
-		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{3}},
-		{Shape: lookup("fib-expsq"), Family: 1, Weight: 10, Params: []float64{2}}}}
-	spec := synthSpecimen(t, two, synthOptions{noise: 0.01, points: 15, sutured: true})
-	p, err := NewProblem(spec, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := historyProblem(t)
 	full, err := Fit(p, fullStructure(DiscoverSettings{}.withDefaults().Shapes, Structure{Layout: LayoutSingle}), Settings{})
 	if err != nil {
 		t.Fatal(err)

@@ -31,3 +31,30 @@ func ExampleReadFile() {
 	// 1:0.5  cycle 3 of 3, loading branch, 40 of 237 rows; stretch_1 1.01 to 1.15, P11 2.98 to 59.3 kPa
 	// 0.5:1  cycle 3 of 3, loading branch, 40 of 237 rows; stretch_1 1.005 to 1.075, P11 1.76 to 29.6 kPa
 }
+
+// Read a test file once and prepare its rows twice: the default selection
+// for a fit, and every cycle and both branches as measured, for a view of
+// the whole record (what weft fit does with one input file).
+func ExampleReadRows() {
+	path := filepath.Join("..", "testdata", "demo", "membrane-M1.csv")
+	rows, err := biaxial.ReadRows(path, biaxial.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fit, err := rows.Prepare(biaxial.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	all, err := rows.Prepare(biaxial.Options{Cycle: biaxial.CycleAll, Branch: biaxial.BranchAll})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("fit: %d points; whole record: %d points; the same bytes: %v\n", fit.NumPoints(), all.NumPoints(), fit.Digest == all.Digest)
+	fmt.Println(all.Protocols[0].Label, all.Protocols[0].Kept)
+	// Output:
+	// fit: 200 points; whole record: 1185 points; the same bytes: true
+	// 1:1 all 3 cycles, 237 of 237 rows
+}

@@ -58,14 +58,14 @@ type engine struct {
 	prevFam []Family
 	prevOK  bool
 	// isoShaped marks shaped groups whose terms are all isotropic (their
-	// columns depend on their own shape parameters only); filledWith
+	// columns depend on their own shape parameters only). filledWith
 	// holds, for such a group, its terms' shape parameters at its last
-	// fill with derivatives (valid with filledOK; not after a fill
-	// without derivatives), whose columns and
-	// derivative columns an evaluation with derivatives keeps while the
+	// complete fill with derivatives (valid while filledOK): an evaluation
+	// with derivatives keeps its columns and derivative columns while the
 	// parameters have not moved. In a fit of the whole catalogue a term
-	// non-negativity holds at zero gets a zero gradient, so its parameters
-	// stay where they are, and its column need not be filled again.
+	// that non-negativity holds at zero has a zero gradient, so its
+	// parameters stay where they are and its column need not be filled
+	// again. paramBuf is markKept's scratch.
 	isoShaped  []bool
 	filledWith [][]float64
 	filledOK   []bool

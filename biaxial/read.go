@@ -35,14 +35,11 @@ func ReadRecord(r io.Reader, name string, opt Options) (*Record, error) {
 // are kept in a compact form until the protocols are prepared, so memory
 // grows with the rows of the file but not with its size in bytes.
 func ReadFile(path string, opt Options) (*Specimen, error) {
-	if err := opt.check(); err != nil {
-		return nil, err
-	}
-	rec, t, err := readFile(path, opt, true)
+	rows, err := ReadRows(path, opt)
 	if err != nil {
 		return nil, err
 	}
-	return prepare(rec, t, opt)
+	return prepare(rows.rec, rows.t, opt)
 }
 
 // Rows is one reading of a test file, its rows held in the compact form

@@ -143,6 +143,14 @@ type profiler struct {
 	twin *profiler
 }
 
+// withTwin gives pf a twin on engine e, with pf's settings, for the angles
+// below the optimum (see halves).
+func (pf *profiler) withTwin(e *engine) {
+	tw := *pf
+	tw.e = e
+	pf.twin = &tw
+}
+
 // lower returns the profiler of the angles below the optimum.
 func (pf *profiler) lower() *profiler {
 	if pf.twin != nil {
@@ -408,9 +416,7 @@ func (r *Result) profileGuide(ps *Problem, i int, grid []float64, c int, theta [
 	ge := engineOn()
 	gf := &profiler{e: ge, i: i, free: allBut(len(ge.params), i), offLoss: math.Inf(1)}
 	if halves {
-		tw := *gf
-		tw.e = engineOn()
-		gf.twin = &tw
+		gf.withTwin(engineOn())
 	}
 	th, l := gf.at(grid[c], theta)
 	if th == nil || math.IsInf(l, 1) {
@@ -446,30 +452,28 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 	// result does not depend on what it evaluated before), where the
 	// halves above and below the optimum can be uneven (an optimum near
 	// 30° without shear: 30 angles above it, 15 below).
+	// placedAt[j] is the guide's parameters at grid angle j, placed[j] the
+	// full data's loss there (+Inf without a guide).
 	placed := make([]float64, n)
+	placedAt := make([][]float64, n)
 	var js []int
 	for j := range grid {
 		placed[j] = math.Inf(1)
 		if j != c && guide[j] != nil {
+			placedAt[j] = append([]float64(nil), guide[j]...)
+			placedAt[j][pf.i] = grid[j]
 			js = append(js, j)
 		}
 	}
 	evalGuides := func(q *profiler, js []int) {
 		for _, j := range js {
-			th := append([]float64(nil), guide[j]...)
-			th[q.i] = grid[j]
-			placed[j] = q.e.eval(th, false)
+			placed[j] = q.e.eval(placedAt[j], false)
 		}
 	}
 	half := (len(js) + 1) / 2
 	pf.halves(func() { evalGuides(pf, js[:half]) }, func() { evalGuides(lo, js[half:]) })
 	at := func(q *profiler, j, nb int) {
-		var th []float64
-		l := placed[j]
-		if guide[j] != nil {
-			th = append([]float64(nil), guide[j]...)
-			th[q.i] = grid[j]
-		}
+		th, l := placedAt[j], placed[j]
 		if l > q.offLoss && q.offTheta != nil {
 			th, l = append([]float64(nil), q.offTheta...), q.offLoss
 			th[q.i] = grid[j]
@@ -616,9 +620,7 @@ func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Se
 	guide := r.profileGuide(guideOn, i, grid, c, theta, wraps, twin != nil)
 	<-off
 	if twin != nil {
-		tw := *pf
-		tw.e = twin
-		pf.twin = &tw
+		pf.withTwin(twin)
 	}
 	var loss []float64
 	var thetas [][]float64

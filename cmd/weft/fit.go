@@ -341,9 +341,10 @@ func runFit(ff *fitOptions) error {
 		if j.err != nil {
 			continue
 		}
-		// The whole record (every cycle and branch) is read for the
-		// report while the model is fitted; a long record takes a few
-		// tenths of a second to parse.
+		// The view of the whole record (every cycle and branch) for the
+		// report is prepared while the model is fitted: from the rows
+		// already read for one file, else by reading the file again (a
+		// long record takes a few tenths of a second to parse).
 		type recordView struct {
 			raw     *biaxial.Specimen
 			changed bool
@@ -561,17 +562,18 @@ func writeFitFiles(o *fitOutcome, od safeout.Sink) error {
 	// each takes a few tenths of a second). The files are written in the
 	// same order either way, and the first error in that order is the one
 	// returned.
-	var fitCSV, rawCSV bytes.Buffer
-	var fitErr, rawErr error
+	var fitCSV, rawCSV outFile
 	done := make(chan struct{})
 	go func() {
 		defer close(done)
-		fitErr = report.WriteFitTable(&fitCSV, o.prob, o.result.Model)
+		fitCSV = fitTableFile(o)
 		if o.raw != nil {
-			rawErr = report.WriteRawTable(&rawCSV, o.raw, o.spec)
+			var buf bytes.Buffer
+			err := report.WriteRawTable(&buf, o.raw, o.spec)
+			rawCSV = outFile{"raw.csv", buf.Bytes(), err}
 		}
 	}()
-	cardJSON, cardErr := o.card.Marshal()
+	modelJSON := cardFile(o)
 	var sel []outFile
 	if o.disc != nil {
 		var buf bytes.Buffer
@@ -580,18 +582,12 @@ func writeFitFiles(o *fitOutcome, od safeout.Sink) error {
 	}
 	rest := heldoutAndCurves(o)
 	<-done
-	files := []outFile{{"model.json", cardJSON, cardErr}, {"fit.csv", fitCSV.Bytes(), fitErr}}
-	files = append(append(files, sel...), rest...)
+	files := append(append([]outFile{modelJSON, fitCSV}, sel...), rest...)
 	if o.raw != nil {
-		files = append(files, outFile{"raw.csv", rawCSV.Bytes(), rawErr})
+		files = append(files, rawCSV)
 	}
-	for _, f := range files {
-		if f.err != nil {
-			return f.err
-		}
-		if err := od.Write(f.name, f.data); err != nil {
-			return err
-		}
+	if err := writeOutFiles(od, files); err != nil {
+		return err
 	}
 	return writeReport(od, o)
 }
@@ -606,18 +602,34 @@ type outFile struct {
 // writeCardAndFitTable writes the model card and the fit table, the files
 // every specimen's folder has.
 func writeCardAndFitTable(o *fitOutcome, od safeout.Sink) error {
+	return writeOutFiles(od, []outFile{cardFile(o), fitTableFile(o)})
+}
+
+// cardFile is model.json.
+func cardFile(o *fitOutcome) outFile {
 	b, err := o.card.Marshal()
-	if err != nil {
-		return err
-	}
-	if err := od.Write("model.json", b); err != nil {
-		return err
-	}
+	return outFile{"model.json", b, err}
+}
+
+// fitTableFile is fit.csv.
+func fitTableFile(o *fitOutcome) outFile {
 	var buf bytes.Buffer
-	if err := report.WriteFitTable(&buf, o.prob, o.result.Model); err != nil {
-		return err
+	err := report.WriteFitTable(&buf, o.prob, o.result.Model)
+	return outFile{"fit.csv", buf.Bytes(), err}
+}
+
+// writeOutFiles writes files into od in order; the first error, of
+// building a file or of writing it, stops it.
+func writeOutFiles(od safeout.Sink, files []outFile) error {
+	for _, f := range files {
+		if f.err != nil {
+			return f.err
+		}
+		if err := od.Write(f.name, f.data); err != nil {
+			return err
+		}
 	}
-	return od.Write("fit.csv", buf.Bytes())
+	return nil
 }
 
 // heldoutAndCurves returns heldout.csv (absent with a single protocol)

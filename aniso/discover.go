@@ -221,6 +221,7 @@ type search struct {
 	variantOf map[int]int // planar form → its ideal layout, for derived forms
 	full      []*Result
 	fullErr   []error
+	presets   []*Result // per DiscoverSettings.Presets; nil where the fit failed
 	refits    []*refit
 }
 
@@ -302,7 +303,10 @@ func newSearch(all *Problem, set DiscoverSettings) (*search, error) {
 	return s, nil
 }
 
-// fitFullForms fits the whole candidate set of every searched form.
+// fitFullForms fits the whole candidate set of every searched form, and
+// the classical presets beside them: the presets do not depend on the
+// search, and in a round of their own they would leave a worker idle
+// while the dearest one finished (comparePresets records them).
 func (s *search) fitFullForms() {
 	s.full = make([]*Result, len(s.forms))
 	s.fullErr = make([]error, len(s.forms))
@@ -316,6 +320,19 @@ func (s *search) fitFullForms() {
 		st := fullStructure(s.set.Shapes, f)
 		jobs = append(jobs, func() {
 			s.full[i], s.fullErr[i] = Fit(s.p, st, s.fitSet)
+		})
+		cost = append(cost, fitCost(st))
+	}
+	s.presets = make([]*Result, len(s.set.Presets))
+	for i, name := range s.set.Presets {
+		st, err := PresetStructure(name)
+		if err != nil {
+			continue
+		}
+		jobs = append(jobs, func() {
+			if r, err := Fit(s.p, st, s.fitSet); err == nil {
+				s.presets[i] = r
+			}
 		})
 		cost = append(cost, fitCost(st))
 	}
@@ -609,41 +626,32 @@ func (s *search) paretoFront() error {
 	return nil
 }
 
-// comparePresets fits the classical presets to the same data.
+// comparePresets records the classical presets, fitted to the same data
+// beside the full forms (fitFullForms), in the order of the settings; a
+// preset that could not be fitted is left out.
 func (s *search) comparePresets() {
-	res := make([]*Result, len(s.set.Presets))
-	errs := make([]error, len(s.set.Presets))
-	var jobs []func()
 	for i, name := range s.set.Presets {
-		jobs = append(jobs, func() {
-			st, err := PresetStructure(name)
-			if err != nil {
-				errs[i] = err
-				return
-			}
-			res[i], errs[i] = Fit(s.p, st, s.fitSet)
-		})
-	}
-	s.pl.run(jobs)
-	for i, name := range s.set.Presets {
-		if errs[i] != nil {
-			continue
+		if r := s.presets[i]; r != nil {
+			s.d.Presets = append(s.d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
 		}
-		r := res[i]
-		s.d.Presets = append(s.d.Presets, Candidate{Name: "preset:" + name, Layout: r.Structure.Layout, Terms: activeTerms(r), Result: r})
 	}
 }
 
 // candidateMetrics fills the fit quality of the kept candidates and the
-// presets (the search's refits skip it).
+// presets (the search's refits skip it), side by side: each predicts on
+// every point, a spread family with the accurate quadrature.
 func (s *search) candidateMetrics() {
+	var jobs []func()
+	seen := map[*Result]bool{}
 	for _, cs := range [][]Candidate{s.d.Pareto, s.d.Presets} {
 		for i := range cs {
-			if r := cs[i].Result; r.Metrics == nil {
-				r.metrics(s.p)
+			if r := cs[i].Result; r.Metrics == nil && !seen[r] {
+				seen[r] = true
+				jobs = append(jobs, func() { r.metrics(s.p) })
 			}
 		}
 	}
+	s.pl.run(jobs)
 }
 
 // crossValidate leaves one protocol out for every candidate that could

@@ -186,6 +186,10 @@ type Columns struct {
 	famAngle    []float64
 	famDerivs   []bool
 	famValid    []bool
+	// famFifth says whether fk and fb hold a family's quantities of I5 and
+	// K, computed only for a family with a term in them (see
+	// usesFifth).
+	famFifth []bool
 
 	// scan, when set, caches planar directions and slopes for a coarse
 	// angle scan, whose fills change the families' angles and spreads only
@@ -242,21 +246,26 @@ func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinemati
 		c.famAngle = append(c.famAngle[:0], make([]float64, nf)...)
 		c.famDerivs = append(c.famDerivs[:0], make([]bool, nf)...)
 		c.famValid = append(c.famValid[:0], make([]bool, nf)...)
+		c.famFifth = append(c.famFifth[:0], make([]bool, nf)...)
 	}
 	var sc [2][2]float64
-	var redo [8]bool
+	var redo, fifth [8]bool
 	for f := 0; f < nf; f++ {
 		fam := &m.Families[f]
-		valid := f < len(redo) && c.famValid[f] && c.famAngle[f] == fam.Angle && (c.famDerivs[f] || !derivs)
+		// Only the first two families take the sin-cos path, with or
+		// without the quantities of I5 and K.
+		need5 := f >= 2 || usesFifth(m, c, f)
+		valid := f < len(redo) && c.famValid[f] && c.famAngle[f] == fam.Angle && (c.famDerivs[f] || !derivs) && (c.famFifth[f] || !need5)
 		if f < len(redo) {
 			redo[f] = !fam.Planar && !valid
+			fifth[f] = need5
 		}
 		if f < 2 {
 			sc[f][0], sc[f][1] = math.Sincos(fam.Angle)
 		}
 		c.famAngle[f], c.famValid[f] = fam.Angle, !fam.Planar
 		if f >= len(redo) || redo[f] {
-			c.famDerivs[f] = derivs
+			c.famDerivs[f], c.famFifth[f] = derivs, need5
 		}
 	}
 	for i := range d.kin {
@@ -266,20 +275,46 @@ func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinemati
 				continue
 			}
 			q := i*nf + f
-			if f < 2 {
-				fk[q] = k.fibreSC(sc[f][0], sc[f][1])
-			} else {
+			five := f >= len(fifth) || fifth[f]
+			switch {
+			case f >= 2:
 				fk[q] = k.Fibre(m.Families[f].Angle)
+			case five:
+				fk[q] = k.fibreSC(sc[f][0], sc[f][1])
+			default:
+				fk[q] = k.fibreSC4(sc[f][0], sc[f][1])
 			}
 			fb[q].g4 = d.convert(k, fk[q].G4, i*nc)
-			fb[q].g5 = d.convert(k, fk[q].G5, i*nc)
+			fb[q].g5 = [4]float64{}
+			if five {
+				fb[q].g5 = d.convert(k, fk[q].G5, i*nc)
+			}
 			if derivs {
 				fb[q].dg4 = d.convert(k, fk[q].DG4, i*nc)
-				fb[q].dg5 = d.convert(k, fk[q].DG5, i*nc)
+				fb[q].dg5 = [4]float64{}
+				if five {
+					fb[q].dg5 = d.convert(k, fk[q].DG5, i*nc)
+				}
 			}
 		}
 	}
 	return fk
+}
+
+// usesFifth reports whether a term of family f that the fill computes
+// (not skipped) is in I5 or K, and so needs the family's quantities of
+// them.
+func usesFifth(m *Model, c *Columns, f int) bool {
+	for t := range m.Terms {
+		term := &m.Terms[t]
+		if term.Family != f || c.Skip != nil && c.Skip[t] {
+			continue
+		}
+		if a := term.Shape.Arg; a == terms.Cofactor || a == terms.Fifth {
+			return true
+		}
+	}
+	return false
 }
 
 // Fill computes the columns of every term of m (weights are ignored) over the

@@ -202,3 +202,48 @@ func checkColumnsFD(t *testing.T, d *Dataset, m *Model, c *Columns, label, name 
 		}
 	}
 }
+
+// A family without a term in I5 or K gets its fibre kinematics without
+// them (fibreSC4), each field it fills equal to fibreSC's bit for bit; and
+// columns kept from a fill that skipped the I5 and K terms are brought up
+// to date when those terms are filled again at the same angle, equal bit
+// for bit to a fresh fill's.
+func TestFillBasesWithoutFifthTerms(t *testing.T) {
+	d := testDataset(t, true)
+	for i := range d.kin {
+		k := &d.kin[i]
+		for _, a := range []float64{0, 0.3, -1.1, math.Pi / 2} {
+			s, c := math.Sincos(a)
+			full, four := k.fibreSC(s, c), k.fibreSC4(s, c)
+			got := []float64{four.A[0], four.A[1], four.I4, four.DI4, four.G4[0], four.G4[1], four.G4[2], four.DG4[0], four.DG4[1], four.DG4[2]}
+			want := []float64{full.A[0], full.A[1], full.I4, full.DI4, full.G4[0], full.G4[1], full.G4[2], full.DG4[0], full.DG4[1], full.DG4[2]}
+			for j := range got {
+				if math.Float64bits(got[j]) != math.Float64bits(want[j]) {
+					t.Fatalf("point %d, α %g: field %d is %v without I5, %v with", i, a, j, got[j], want[j])
+				}
+			}
+		}
+	}
+	m := &Model{Families: []Family{{Name: "f1", Angle: 35 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-lin"), Family: -1, Weight: 1},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 1, Params: []float64{2}},
+		{Shape: lookup("i5-quad"), Family: 0, Weight: 1},
+		{Shape: lookup("cof-quad"), Family: 0, Weight: 1},
+	}}
+	var fresh Columns
+	d.Fill(m, &fresh, true)
+	c := Columns{Skip: []bool{false, false, true, true}}
+	d.Fill(m, &c, true)
+	c.Skip = nil
+	d.Fill(m, &c, true)
+	for _, v := range []struct {
+		name      string
+		got, want []float64
+	}{{"A", c.A, fresh.A}, {"DAngle", c.DAngle, fresh.DAngle}, {"DKappa", c.DKappa, fresh.DKappa}, {"DParam[0]", c.DParam[0], fresh.DParam[0]}} {
+		for i := range v.want {
+			if math.Float64bits(v.got[i]) != math.Float64bits(v.want[i]) {
+				t.Fatalf("%s[%d] = %v after a fill without the I5 and K terms, %v fresh", v.name, i, v.got[i], v.want[i])
+			}
+		}
+	}
+}

@@ -98,6 +98,23 @@ func (k *Kinematics) Fibre(alpha float64) FibreKinematics {
 	return k.fibreSC(s, c)
 }
 
+// fibreSC4 is fibreSC without the quantities of I5 and K (BA, I5, K, G5
+// and their angle derivatives stay zero), for a family that has no term in
+// them: the fields it fills are computed as fibreSC computes them, bit for
+// bit.
+func (k *Kinematics) fibreSC4(s, c float64) FibreKinematics {
+	var f FibreKinematics
+	F := &k.F
+	a := [2]float64{F[0]*c + F[1]*s, F[2]*c + F[3]*s}
+	da := [2]float64{-F[0]*s + F[1]*c, -F[2]*s + F[3]*c}
+	f.A = a
+	f.I4 = a[0]*a[0] + a[1]*a[1]
+	f.G4 = Sym{2 * a[0] * a[0], 2 * a[1] * a[1], 2 * a[0] * a[1]}
+	f.DI4 = 2 * (a[0]*da[0] + a[1]*da[1])
+	f.DG4 = Sym{4 * a[0] * da[0], 4 * a[1] * da[1], 2 * (da[0]*a[1] + a[0]*da[1])}
+	return f
+}
+
 // fibreSC is Fibre with sin α and cos α given, so that a loop over many
 // deformations computes them once.
 func (k *Kinematics) fibreSC(s, c float64) FibreKinematics {

@@ -232,7 +232,9 @@ func (c *Columns) wantsDerivs(t int) bool {
 // family at every point up to date in c (c.fk, c.fb, indexed point × family)
 // and returns the kinematics. A family whose angle has not moved since the
 // last fill of these columns on this dataset keeps them (a profile
-// re-optimises everything but the angle).
+// re-optimises everything but the angle). The quantities of I5 and K are
+// computed only for a family with a filled term in them (usesFifth; most
+// of a search's refits have none), zero otherwise.
 func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinematics {
 	nc, np, nf := len(d.out.Components), len(d.kin), len(m.Families)
 	if cap(c.fk) < np*nf {

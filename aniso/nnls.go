@@ -18,6 +18,7 @@ type nnls struct {
 	w, s    []float64
 	grad    []float64
 	idx     []int
+	nz      []int
 	chol    []float64
 	rhs     []float64
 }
@@ -35,6 +36,7 @@ func (q *nnls) resize(n int) {
 		q.s = make([]float64, n)
 		q.grad = make([]float64, n)
 		q.idx = make([]int, n)
+		q.nz = make([]int, 0, n)
 		q.chol = make([]float64, n*n)
 		q.rhs = make([]float64, n)
 	}
@@ -56,17 +58,22 @@ func (q *nnls) solve(G, b []float64, n int, allowed []bool) []float64 {
 	}
 	tol := 1e-12 * math.Max(scale, 1e-300)
 	for outer := 0; outer < 3*n+3; outer++ {
-		// Gradient of −½‖Aw − y‖²: b − G w.
+		// Gradient of −½‖Aw − y‖²: b − G w, summed over the nonzero
+		// weights in index order (a handful of the n).
+		q.nz = q.nz[:0]
+		for k := 0; k < n; k++ {
+			if q.w[k] != 0 {
+				q.nz = append(q.nz, k)
+			}
+		}
 		best, bj := tol, -1
 		for j := 0; j < n; j++ {
 			if q.passive[j] || (allowed != nil && !allowed[j]) {
 				continue
 			}
 			g := b[j]
-			for k := 0; k < n; k++ {
-				if q.w[k] != 0 {
-					g -= G[j*n+k] * q.w[k]
-				}
+			for _, k := range q.nz {
+				g -= G[j*n+k] * q.w[k]
 			}
 			if g > best {
 				best, bj = g, j

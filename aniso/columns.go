@@ -312,7 +312,7 @@ func usesFifth(m *Model, c *Columns, f int) bool {
 		if term.Family != f || c.Skip != nil && c.Skip[t] {
 			continue
 		}
-		if a := term.Shape.Arg; a == terms.Cofactor || a == terms.Fifth {
+		if term.Shape.Arg.InFifth() {
 			return true
 		}
 	}

@@ -174,7 +174,7 @@ func (r *Result) notes(p *Problem) {
 		}
 	}
 	for _, t := range r.Model.Terms {
-		if t.Weight > 0 && (t.Shape.Arg == terms.Fifth || t.Shape.Arg == terms.Cofactor) {
+		if t.Weight > 0 && t.Shape.Arg.InFifth() {
 			r.Notes = append(r.Notes, "Planar biaxial data constrain the in-plane response only; the out-of-plane and I5 response is not fully determined by them (Holzapfel & Ogden 2009).")
 			break
 		}

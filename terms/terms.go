@@ -113,6 +113,11 @@ func (a Argument) Reference() float64 {
 // NeedsFamily reports whether terms of this argument belong to a fibre family.
 func (a Argument) NeedsFamily() bool { return a == Fibre || a == Cofactor || a == Fifth }
 
+// InFifth reports whether the argument involves the fifth invariant I5 (the
+// fifth invariant itself, or the cofactor invariant K = I5 − I1 I4 + I2),
+// which planar biaxial data do not fully determine.
+func (a Argument) InFifth() bool { return a == Cofactor || a == Fifth }
+
 // Param describes one non-linear parameter of a shape.
 type Param struct {
 	// Name is the parameter's key in model cards, e.g. "stiffening" or

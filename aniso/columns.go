@@ -284,7 +284,7 @@ func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinemati
 			case five:
 				fk[q] = k.fibreSC(sc[f][0], sc[f][1])
 			default:
-				fk[q] = k.fibreSC4(sc[f][0], sc[f][1])
+				k.fibreSC4(&fk[q], sc[f][0], sc[f][1])
 			}
 			fb[q].g4 = d.convert(k, fk[q].G4, i*nc)
 			fb[q].g5 = [4]float64{}

@@ -214,7 +214,12 @@ func TestFillBasesWithoutFifthTerms(t *testing.T) {
 		k := &d.kin[i]
 		for _, a := range []float64{0, 0.3, -1.1, math.Pi / 2} {
 			s, c := math.Sincos(a)
-			full, four := k.fibreSC(s, c), k.fibreSC4(s, c)
+			full := k.fibreSC(s, c)
+			four := FibreKinematics{I5: 7, G5: Sym{7, 7, 7}} // fibreSC4 must clear them
+			k.fibreSC4(&four, s, c)
+			if four.I5 != 0 || four.G5 != (Sym{}) {
+				t.Fatalf("point %d, α %g: fibreSC4 left I5 %v, G5 %v", i, a, four.I5, four.G5)
+			}
 			got := []float64{four.A[0], four.A[1], four.I4, four.DI4, four.G4[0], four.G4[1], four.G4[2], four.DG4[0], four.DG4[1], four.DG4[2]}
 			want := []float64{full.A[0], full.A[1], full.I4, full.DI4, full.G4[0], full.G4[1], full.G4[2], full.DG4[0], full.DG4[1], full.DG4[2]}
 			for j := range got {

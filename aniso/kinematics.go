@@ -98,12 +98,19 @@ func (k *Kinematics) Fibre(alpha float64) FibreKinematics {
 	return k.fibreSC(s, c)
 }
 
-// fibreSC4 is fibreSC without the quantities of I5 and K (BA, I5, K, G5
-// and their angle derivatives stay zero), for a family that has no term in
-// them: the fields it fills are computed as fibreSC computes them, bit for
-// bit.
-func (k *Kinematics) fibreSC4(s, c float64) FibreKinematics {
-	var f FibreKinematics
+// fibreSC4 writes to f what fibreSC gives without the quantities of I5 and
+// K (BA, I5, K, G5 and their angle derivatives are zero), for a family
+// that has no term in them.
+func (k *Kinematics) fibreSC4(f *FibreKinematics, s, c float64) {
+	*f = FibreKinematics{}
+	k.fibreI4(f, s, c)
+}
+
+// fibreI4 writes to f the fibre direction a = F a0, I4, G4 and their
+// angle derivatives, and returns the angle derivative da of a: the part of
+// fibreSC that every fibre term needs, shared by fibreSC4, so that its
+// fields are fibreSC's bit for bit.
+func (k *Kinematics) fibreI4(f *FibreKinematics, s, c float64) [2]float64 {
 	F := &k.F
 	a := [2]float64{F[0]*c + F[1]*s, F[2]*c + F[3]*s}
 	da := [2]float64{-F[0]*s + F[1]*c, -F[2]*s + F[3]*c}
@@ -112,29 +119,24 @@ func (k *Kinematics) fibreSC4(s, c float64) FibreKinematics {
 	f.G4 = Sym{2 * a[0] * a[0], 2 * a[1] * a[1], 2 * a[0] * a[1]}
 	f.DI4 = 2 * (a[0]*da[0] + a[1]*da[1])
 	f.DG4 = Sym{4 * a[0] * da[0], 4 * a[1] * da[1], 2 * (da[0]*a[1] + a[0]*da[1])}
-	return f
+	return da
 }
 
 // fibreSC is Fibre with sin α and cos α given, so that a loop over many
 // deformations computes them once.
 func (k *Kinematics) fibreSC(s, c float64) FibreKinematics {
 	var f FibreKinematics
-	F := &k.F
+	da := k.fibreI4(&f, s, c)
 	b := &k.B
-	a := [2]float64{F[0]*c + F[1]*s, F[2]*c + F[3]*s}
-	da := [2]float64{-F[0]*s + F[1]*c, -F[2]*s + F[3]*c}
+	a := f.A
 	ba := [2]float64{b[0]*a[0] + b[2]*a[1], b[2]*a[0] + b[1]*a[1]}
 	bda := [2]float64{b[0]*da[0] + b[2]*da[1], b[2]*da[0] + b[1]*da[1]}
-	f.A, f.BA = a, ba
-	f.I4 = a[0]*a[0] + a[1]*a[1]
+	f.BA = ba
 	f.I5 = a[0]*ba[0] + a[1]*ba[1]
 	f.K = f.I5 - k.I1*f.I4 + k.I2
-	f.G4 = Sym{2 * a[0] * a[0], 2 * a[1] * a[1], 2 * a[0] * a[1]}
 	f.G5 = Sym{4 * a[0] * ba[0], 4 * a[1] * ba[1], 2 * (a[0]*ba[1] + ba[0]*a[1])}
-	f.DI4 = 2 * (a[0]*da[0] + a[1]*da[1])
 	f.DI5 = 2 * (da[0]*ba[0] + da[1]*ba[1])
 	f.DK = f.DI5 - k.I1*f.DI4
-	f.DG4 = Sym{4 * a[0] * da[0], 4 * a[1] * da[1], 2 * (da[0]*a[1] + a[0]*da[1])}
 	f.DG5 = Sym{
 		4 * (da[0]*ba[0] + a[0]*bda[0]),
 		4 * (da[1]*ba[1] + a[1]*bda[1]),

@@ -642,6 +642,8 @@ func (s *search) comparePresets() {
 // every point, a spread family with the accurate quadrature.
 func (s *search) candidateMetrics() {
 	var jobs []func()
+	// Each candidate is its own fit today; the set keeps two jobs from
+	// ever writing one Result's metrics at once if that changes.
 	seen := map[*Result]bool{}
 	for _, cs := range [][]Candidate{s.d.Pareto, s.d.Presets} {
 		for i := range cs {

@@ -45,6 +45,7 @@ func plantedForm() Structure {
 // their own, every specimen's own angle is recovered, and the population
 // fit and the mean-parameter model sit at the cohort's mean angle.
 func TestCohortSharedForm(t *testing.T) {
+	t.Parallel()
 	ps, ms := plantedCohort(t, 8, 40, 1)
 	c, err := FitCohort(ps, CohortSettings{})
 	if err != nil {

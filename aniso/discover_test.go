@@ -128,6 +128,7 @@ func heldOutWithin(t *testing.T, d *Discovery, noise float64) {
 // numerical integration: a neo-Hookean matrix, c10 = 3 kPa, and one ideal
 // family at 38°, k1 = 30 kPa, k2 = 4), so the two share one discovery.
 func TestDiscoverOneFamilyNoShear(t *testing.T) {
+	t.Parallel()
 	d, _ := discoverOnMaterial(t, fibreMaterial(3, spreadFamily{38 * deg, -1, expSqFibre(30, 4)}), synthOptions{noise: 0.01})
 	if d.Verdict.Families != "1-or-mirror-pair" && d.Verdict.Families != "1" {
 		t.Errorf("verdict %s, want 1 or 1-or-mirror-pair", d.Verdict.Families)
@@ -147,6 +148,7 @@ func TestDiscoverOneFamilyNoShear(t *testing.T) {
 }
 
 func TestDiscoverOneFamilyWithShear(t *testing.T) {
+	t.Parallel()
 	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 4}, Term{Shape: lookup("fib-expsq"), Weight: 25, Params: []float64{6}}, -35)
 	d, _ := discoverOn(t, truth, synthOptions{noise: 0.01, sutured: true, maxStrain: 0.2})
 	if d.Verdict.Families != "1" {
@@ -159,6 +161,7 @@ func TestDiscoverOneFamilyWithShear(t *testing.T) {
 }
 
 func TestDiscoverTwoFamilies(t *testing.T) {
+	t.Parallel()
 	truth := &Model{Families: []Family{{Angle: 3 * deg}, {Angle: 88 * deg}}, Terms: []Term{
 		{Shape: lookup("i1-lin"), Family: -1, Weight: 2},
 		{Shape: lookup("fib-expsq"), Family: 0, Weight: 30, Params: []float64{5}},
@@ -171,6 +174,7 @@ func TestDiscoverTwoFamilies(t *testing.T) {
 }
 
 func TestDiscoverIsotropic(t *testing.T) {
+	t.Parallel()
 	truth := &Model{Terms: []Term{{Shape: lookup("i1-exp"), Family: -1, Weight: 5, Params: []float64{3}}}}
 	d, _ := discoverOn(t, truth, synthOptions{noise: 0.01, maxStrain: 0.3})
 	if d.Verdict.Families != "0" {
@@ -185,6 +189,7 @@ func TestDiscoverIsotropic(t *testing.T) {
 // TestVerdictAcceptance's "mirror pair, no shear", whose discovery the two
 // share.
 func TestDiscoverMirrorPairNoShear(t *testing.T) {
+	t.Parallel()
 	d, _ := discoverOnMaterial(t, fibreMaterial(2, spreadFamily{40 * deg, -1, expSqFibre(15, 3)}, spreadFamily{-40 * deg, -1, expSqFibre(15, 3)}), synthOptions{noise: 0.01})
 	if d.Verdict.Families != "1-or-mirror-pair" {
 		t.Errorf("verdict %s, want 1-or-mirror-pair", d.Verdict.Families)
@@ -245,6 +250,7 @@ func (s spreadMaterial) cauchy(F [4]float64) Sym {
 // A material outside the catalogue is fitted to R² > 0.98 on every
 // protocol and axis with the mean fibre direction within 5°.
 func TestDiscoverOutsideCatalogue(t *testing.T) {
+	t.Parallel()
 	mat := spreadMaterial{matrix: 2, E: 600, meanDeg: 30, sdDeg: 8, sMax: 1.05, nAngle: 61, nSlack: 40}
 	spec := synthSpecimen(t, &Model{Terms: []Term{{Shape: lookup("i1-lin"), Family: -1}}}, synthOptions{noise: 0.01})
 	// Replace the stresses by the spread material's, with the same noise
@@ -292,6 +298,7 @@ func TestDiscoverOutsideCatalogue(t *testing.T) {
 // Discovery gives the same answer with one worker as with several: the
 // parallel work is merged in a fixed order (determinism).
 func TestDiscoverDeterministicAcrossWorkers(t *testing.T) {
+	t.Parallel()
 	truth := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 38)
 	spec := synthSpecimen(t, truth, synthOptions{noise: 0.01, points: 20})
 	var first *Discovery

@@ -151,6 +151,7 @@ func TestLeaveOneProtocolOutPrediction(t *testing.T) {
 // stress, a single protocol, negative stresses, stretches where an
 // exponential term overflows, and a fibre term the data cannot activate.
 func TestFitRobustness(t *testing.T) {
+	t.Parallel()
 	nh := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 10, Params: []float64{2}}, 20)
 	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
 	check := func(name string, spec func() *Problem, st Structure) {

@@ -492,6 +492,7 @@ func TestFungNonConvexReported(t *testing.T) {
 // Discovery leaves the Fung-type shape out of its candidates and fits the
 // fung preset beside the discovered model, cross-validated like the others.
 func TestDiscoverComparesFungPreset(t *testing.T) {
+	t.Parallel()
 	set := DiscoverSettings{}.withDefaults()
 	for _, sh := range set.Shapes {
 		if sh.Arg == terms.Green {

@@ -165,6 +165,7 @@ func TestPlanarQuadratureAccuracy(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute-force quadrature reference at many deformations; run without -short")
 	}
+	t.Parallel()
 	shapes := []struct {
 		id string
 		p  []float64
@@ -507,6 +508,7 @@ func TestPlanarTune(t *testing.T) {
 // compares, stays within 1e-4 of the brute-force reference (about 1e-5
 // typically) on the same cases.
 func TestPlanarSearchRuleAccuracy(t *testing.T) {
+	t.Parallel()
 	d, err := NewDataset(planarCases, Output{Components: []Component{0, 1, 2}}, nil)
 	if err != nil {
 		t.Fatal(err)

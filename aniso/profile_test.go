@@ -46,6 +46,7 @@ func familyOffLoss(t *testing.T, p *Problem, st Structure, f int) float64 {
 // fitted angle is the fitted loss, and no angle has a lower loss than the
 // fit (the fit is the profile's minimum).
 func TestProfileIsATrueProfile(t *testing.T) {
+	t.Parallel()
 	for _, c := range []struct {
 		a1, a2, w2 float64
 		sutured    bool
@@ -93,7 +94,8 @@ func TestProfileIsATrueProfile(t *testing.T) {
 // 95 % interval and, near the minimum, its losses; far away its losses are
 // upper bounds within 1e-3 of the exhaustive ones. Cases: one family with
 // shear (a full period), two free families with shear, and a dispersed
-// family with shear.
+// family with shear. Not parallel: it sets profileFarMargins, which every
+// profile reads.
 func TestPlacedProfileMatchesExhaustive(t *testing.T) {
 	if testing.Short() {
 		t.Skip("profiles three forms twice each")
@@ -338,7 +340,8 @@ func nelderMeadHeld(t *testing.T, e *engine, th []float64, held int) float64 {
 // search subset's starts gives the profile the full sweep gives (the
 // exhaustive computation on every point): the same 95 % interval and the
 // same loss near the minimum, on a one-family specimen without shear (|α|)
-// and on a sutured one (a full period of α).
+// and on a sutured one (a full period of α). Not parallel: it sets
+// profileGuideRows and profileFarMargins, which every profile reads.
 func TestGuidedProfileMatchesFullSweep(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fits 5 × 700 and 5 × 300 points twice each")
@@ -409,6 +412,7 @@ func TestGuidedProfileMatchesFullSweep(t *testing.T) {
 // a line correlates with nothing and is named in no flag, and a profiled
 // fit profiles once and meets no lower point.
 func TestFitsSettleOnSymmetryLines(t *testing.T) {
+	t.Parallel()
 	fibre := func(f int) TermSpec { return TermSpec{Shape: lookup("fib-expsq"), Family: f} }
 	matrix := TermSpec{Shape: lookup("i1-lin"), Family: -1}
 	for _, c := range []struct {

@@ -95,6 +95,7 @@ func sd(x []float64) float64 {
 // dispersion in [0, 1/3] (Gasser, Ogden & Holzapfel 2006), half angles and
 // |α| without shear in [0°, 90°], no angle interval wider than 180°.
 func TestStatusesAgreeWithEvidence(t *testing.T) {
+	t.Parallel()
 	weak := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 5}, Term{Shape: lookup("fib-quad"), Weight: 0.4}, 40)
 	one := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 2}, Term{Shape: lookup("fib-expsq"), Weight: 12, Params: []float64{3}}, 35)
 	goh, _ := PresetStructure("goh")

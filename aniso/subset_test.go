@@ -14,6 +14,7 @@ func TestDiscoverSameChoiceAtAnySampling(t *testing.T) {
 	if testing.Short() {
 		t.Skip("fits 20 000 points")
 	}
+	t.Parallel()
 	mat := fibreMaterial(3, spreadFamily{35 * deg, -1, expSqFibre(30, 4)})
 	var names, verdicts []string
 	for _, n := range []int{40, 4000} {

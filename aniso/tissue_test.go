@@ -83,6 +83,7 @@ func TestTissueDispersedRecruited(t *testing.T) {
 	if testing.Short() {
 		t.Skip("discovers two dispersed, recruited tissues; run without -short")
 	}
+	t.Parallel()
 	for _, tc := range []struct {
 		name    string
 		alpha   float64
@@ -125,6 +126,7 @@ func TestTissueConcentratedSpread(t *testing.T) {
 	if testing.Short() {
 		t.Skip("discovers a dispersed tissue; run without -short")
 	}
+	t.Parallel()
 	mat := fibreMaterial(3, spreadFamily{35 * deg, 80, expSqFibre(30, 4)})
 	d, errs := discoverAndPredict(t, mat, synthOptions{noise: 0.01, maxStrain: 0.2, sutured: true})
 	if d.Verdict.Families != "1" {
@@ -164,6 +166,7 @@ func logCandidates(t *testing.T, d *Discovery) {
 // α = 9; Ogden 1972) is described without fibres, and the extreme-ratio
 // protocols it never saw are predicted within 3 % per protocol and axis.
 func TestTissuePrincipalStretchMatrix(t *testing.T) {
+	t.Parallel()
 	d, errs := discoverAndPredict(t, ogdenMaterial(3, 9), synthOptions{noise: 0.01, maxStrain: 0.25})
 	for k, e := range errs {
 		if e > 0.03 {

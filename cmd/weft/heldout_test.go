@@ -19,6 +19,7 @@ import (
 // cross-validation's definition) is recomputed and must equal the fold
 // error the card's chosen candidate records.
 func TestHeldoutTableIsTheSelectionsFolds(t *testing.T) {
+	t.Parallel()
 	dir := filepath.Join(demoFits(t).dir, "membrane-M1.weft")
 	mj, err := os.Open(filepath.Join(dir, "model.json"))
 	if err != nil {

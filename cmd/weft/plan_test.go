@@ -38,6 +38,7 @@ func planJSON(t *testing.T, dir string, extra ...string) (planning.Report, strin
 // layouts by at least five noise standard deviations; it comes first, and
 // the files --write and --plot ask for hold its path and its plot.
 func TestPlanDemoMembrane(t *testing.T) {
+	t.Parallel()
 	dir := demoFitCopy(t, "membrane-M1")
 	tmp := t.TempDir()
 	path, svg := filepath.Join(tmp, "next.csv"), filepath.Join(tmp, "next.svg")
@@ -159,6 +160,7 @@ func checkPlannedPath(t *testing.T, path string, c planning.Candidate, points in
 // whose verdict points, without settling it, towards a mirror pair gets
 // the chosen model and the mirror pair's best fit as its explanations.
 func TestPlanUndecidedVerdict(t *testing.T) {
+	t.Parallel()
 	dir := demoFitCopy(t, "membrane-M1")
 	p := filepath.Join(dir, "model.json")
 	b, err := os.ReadFile(p)

@@ -18,6 +18,7 @@ import (
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
+	"github.com/weft-tools/weft/cmd/weft/internal/fitfolder"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 	"github.com/weft-tools/weft/cmd/weft/internal/summary"
@@ -444,13 +445,15 @@ func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortMember, c *anis
 			continue
 		}
 		cs := c.Specimens[m.at]
-		o := &fitOutcome{spec: m.prob.Specimen, prob: m.prob, result: cs.Result, card: cd}
+		o := &fitOutcome{Outcome: fitfolder.Outcome{Specimen: m.prob.Specimen, Problem: m.prob, Result: cs.Result, Card: cd}}
 		sub := od.Sub(m.folder)
-		write := writeFitFiles
+		var err error
 		if co.noSpecimenReports {
-			write = writeFitData
+			err = fitfolder.WriteCardAndTables(&o.Outcome, sub)
+		} else {
+			err = writeFitFiles(o, sub)
 		}
-		if err := write(o, sub); err != nil {
+		if err != nil {
 			return err
 		}
 		if err := sub.WriteMarker(); err != nil {
@@ -492,23 +495,6 @@ func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortMember, c *anis
 		}
 	}
 	return outputError(od.Commit(co.force))
-}
-
-// writeFitData writes what writeFitFiles writes but the report: the card,
-// the fit table and the held-out table.
-func writeFitData(o *fitOutcome, od safeout.Sink) error {
-	if err := writeCardAndFitTable(o, od); err != nil {
-		return err
-	}
-	folds := heldoutPredictions(o.prob, o.result, nil)
-	if folds == nil {
-		return nil
-	}
-	var buf bytes.Buffer
-	if err := report.WriteHeldoutTable(&buf, o.prob, folds); err != nil {
-		return err
-	}
-	return od.Write("heldout.csv", buf.Bytes())
 }
 
 // cohortTrace records what made a cohort's outputs: each specimen's card

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -17,6 +16,7 @@ import (
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/fitfolder"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 	"github.com/weft-tools/weft/cmd/weft/internal/summary"
@@ -363,12 +363,12 @@ func runFit(ff *fitOptions) error {
 		}()
 		o, err := fitOne(j.spec, st, chosen, ff)
 		if err == nil {
-			o.card.Provenance, err = fitProvenance(j.path, j.spec, ff.read, form)
+			o.Card.Provenance, err = fitProvenance(j.path, j.spec, ff.read, form)
 		}
 		rv := <-view
 		if err == nil {
 			o.dir, o.png = j.dir, ff.png
-			o.raw = rv.raw
+			o.Raw = rv.raw
 			if rv.changed {
 				fmt.Fprintf(ff.ErrOut, "weft: warning: %s changed after it was read for the fit; raw.csv and the report's view of the whole record are left out (fit the file again once it is complete)\n", j.path)
 			}
@@ -380,7 +380,7 @@ func runFit(ff *fitOptions) error {
 			continue
 		}
 		outcomes = append(outcomes, o)
-		if o.result.Model.MatrixWeight() == 0 {
+		if o.Result.Model.MatrixWeight() == 0 {
 			fmt.Fprintf(ff.ErrOut, "weft: warning: %s: %s; check it with 'weft check' before an FE analysis, or fit a form with a matrix term (--terms, --preset)\n", j.spec.Name, summary.ZeroMatrixWarning)
 		}
 		if !ff.asJSON {
@@ -488,12 +488,12 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	if err != nil {
 		return nil, badInput(fmt.Errorf("%s: %w", s.Source, err))
 	}
-	o := &fitOutcome{spec: s, prob: p}
+	o := &fitOutcome{Outcome: fitfolder.Outcome{Specimen: s, Problem: p}}
 	bar := newProgress(ff.ErrOut, ff.ErrIsTerminal, "fitting "+s.Name, ff.quiet)
 	defer bar.finish()
 	if chosen {
 		bar.set(0, 1)
-		o.result, err = aniso.Fit(p, st, aniso.Settings{Profile: true})
+		o.Result, err = aniso.Fit(p, st, aniso.Settings{Profile: true})
 		if err != nil {
 			return nil, fitFailed(s, err)
 		}
@@ -504,11 +504,11 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		if err != nil {
 			return nil, fitFailed(s, err)
 		}
-		o.disc = d
-		o.result = d.Best().Result
+		o.Discovery = d
+		o.Result = d.Best().Result
 	}
 	o.elapsed = time.Since(start)
-	o.card = card.FromFit(p, o.result, o.disc)
+	o.Card = card.FromFit(p, o.Result, o.Discovery)
 	return o, nil
 }
 
@@ -516,7 +516,7 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 // several DATA files were given.
 func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
 	if len(outcomes) == 1 && !several {
-		b, err := outcomes[0].card.Marshal()
+		b, err := outcomes[0].Card.Marshal()
 		if err != nil {
 			return err
 		}
@@ -525,7 +525,7 @@ func printCardsJSON(w io.Writer, outcomes []*fitOutcome, several bool) error {
 	}
 	var all []json.RawMessage
 	for _, o := range outcomes {
-		b, err := json.Marshal(o.card)
+		b, err := json.Marshal(o.Card)
 		if err != nil {
 			return err
 		}
@@ -548,114 +548,15 @@ func writeFitOutputs(o *fitOutcome, od *safeout.Dir, force bool) error {
 	return outputError(od.Commit(force))
 }
 
-// writeFitFiles writes the files of one specimen's output folder into od:
-// an output folder, or one specimen's folder inside a cohort's. Besides
-// the card and fit.csv they are selection.csv (when the model was
-// discovered), heldout.csv (the model form refitted with each protocol
-// left out, predicting it), curves.csv (the model curves with their
-// confidence bands, and the presets'), raw.csv (every cycle of the file),
-// and the report, built from the folder's files as 'weft report' builds
-// it.
+// writeFitFiles writes the files of one specimen's output folder into od
+// (an output folder, or one specimen's folder inside a cohort's): the
+// data files (fitfolder.WriteData), then the report, built from them as
+// 'weft report' builds it.
 func writeFitFiles(o *fitOutcome, od safeout.Sink) error {
-	// The fit and raw tables need neither the fits' engines nor the
-	// held-out refits, so they are built while those run (on a long record
-	// each takes a few tenths of a second). The files are written in the
-	// same order either way, and the first error in that order is the one
-	// returned.
-	var fitCSV, rawCSV outFile
-	done := make(chan struct{})
-	go func() {
-		defer close(done)
-		fitCSV = fitTableFile(o)
-		if o.raw != nil {
-			var buf bytes.Buffer
-			err := report.WriteRawTable(&buf, o.raw, o.spec)
-			rawCSV = outFile{"raw.csv", buf.Bytes(), err}
-		}
-	}()
-	modelJSON := cardFile(o)
-	var sel []outFile
-	if o.disc != nil {
-		var buf bytes.Buffer
-		err := report.WriteSelectionTable(&buf, o.prob, o.disc)
-		sel = append(sel, outFile{"selection.csv", buf.Bytes(), err})
-	}
-	rest := heldoutAndCurves(o)
-	<-done
-	files := append(append([]outFile{modelJSON, fitCSV}, sel...), rest...)
-	if o.raw != nil {
-		files = append(files, rawCSV)
-	}
-	if err := writeOutFiles(od, files); err != nil {
+	if err := fitfolder.WriteData(&o.Outcome, od); err != nil {
 		return err
 	}
 	return writeReport(od, o)
-}
-
-// outFile is one file of an output folder, or the error that prevented it.
-type outFile struct {
-	name string
-	data []byte
-	err  error
-}
-
-// writeCardAndFitTable writes the model card and the fit table, the files
-// every specimen's folder has.
-func writeCardAndFitTable(o *fitOutcome, od safeout.Sink) error {
-	return writeOutFiles(od, []outFile{cardFile(o), fitTableFile(o)})
-}
-
-// cardFile is model.json.
-func cardFile(o *fitOutcome) outFile {
-	b, err := o.card.Marshal()
-	return outFile{"model.json", b, err}
-}
-
-// fitTableFile is fit.csv.
-func fitTableFile(o *fitOutcome) outFile {
-	var buf bytes.Buffer
-	err := report.WriteFitTable(&buf, o.prob, o.result.Model)
-	return outFile{"fit.csv", buf.Bytes(), err}
-}
-
-// writeOutFiles writes files into od in order; the first error, of
-// building a file or of writing it, stops it.
-func writeOutFiles(od safeout.Sink, files []outFile) error {
-	for _, f := range files {
-		if f.err != nil {
-			return f.err
-		}
-		if err := od.Write(f.name, f.data); err != nil {
-			return err
-		}
-	}
-	return nil
-}
-
-// heldoutAndCurves returns heldout.csv (absent with a single protocol)
-// and curves.csv, or the error that prevented the first of them.
-func heldoutAndCurves(o *fitOutcome) []outFile {
-	var out []outFile
-	if folds := heldoutPredictions(o.prob, o.result, chosenCV(o)); folds != nil {
-		var buf bytes.Buffer
-		err := report.WriteHeldoutTable(&buf, o.prob, folds)
-		out = append(out, outFile{"heldout.csv", buf.Bytes(), err})
-		if err != nil {
-			return out
-		}
-	}
-	// The bands use the fits' state, so they come after the held-out
-	// refits, which run in parallel.
-	models := []report.CurveModel{{Name: "model", Result: o.result}}
-	if o.disc != nil {
-		for i := range o.disc.Presets {
-			c := &o.disc.Presets[i]
-			models = append(models, report.CurveModel{Name: strings.TrimPrefix(c.Name, "preset:"), Result: c.Result})
-		}
-	}
-	var buf bytes.Buffer
-	err := report.WriteCurveTable(&buf, o.prob, models)
-	return append(out, outFile{"curves.csv", buf.Bytes(), err})
 }
 
 // writeReport reads the folder's files back, exactly as 'weft report'
@@ -684,41 +585,18 @@ func writeReport(od safeout.Sink, o *fitOutcome) error {
 	return nil
 }
 
-// fitOutcome is everything one specimen's fit produced.
+// fitOutcome is everything one specimen's fit produced, and where and how
+// its folder is written.
 type fitOutcome struct {
-	spec    *biaxial.Specimen
-	prob    *aniso.Problem
-	result  *aniso.Result
-	disc    *aniso.Discovery
-	card    *card.Card
+	fitfolder.Outcome
 	dir     string
 	elapsed time.Duration
-	// raw is the file read with every cycle and branch, as measured, for
-	// the report's view of the record (nil when it could not be read so).
-	raw *biaxial.Specimen
 	// png asks for PNG plots beside the SVGs.
 	png bool
 }
 
 // printFitSummary prints the short human summary of one specimen's fit.
 func printFitSummary(w io.Writer, o *fitOutcome) {
-	summary.PrintFit(w, &summary.Fit{Specimen: o.spec, Result: o.result, Discovery: o.disc, Card: o.card,
-		Dir: o.dir, Files: writtenFiles(o), Elapsed: o.elapsed})
-}
-
-// writtenFiles lists, for the fit summary, the files writeFitFiles writes
-// into the folder.
-func writtenFiles(o *fitOutcome) []string {
-	files := []string{"model.json", "fit.csv"}
-	if o.disc != nil {
-		files = append(files, "selection.csv")
-	}
-	files = append(files, "curves.csv")
-	if o.raw != nil {
-		files = append(files, "raw.csv")
-	}
-	if len(o.prob.Protocols) > 1 {
-		files = append(files, "heldout.csv")
-	}
-	return append(files, "report.html", "plots/")
+	summary.PrintFit(w, &summary.Fit{Specimen: o.Specimen, Result: o.Result, Discovery: o.Discovery, Card: o.Card,
+		Dir: o.dir, Files: fitfolder.Files(&o.Outcome), Elapsed: o.elapsed})
 }

@@ -1,4 +1,4 @@
-package main
+package fitfolder
 
 import (
 	"runtime"
@@ -8,7 +8,7 @@ import (
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
-// heldoutPredictions predicts each protocol of p from the model form of r
+// HeldoutPredictions predicts each protocol of p from the model form of r
 // fitted without it. When cv holds the cross-validation of r's form
 // (discovery's, for the chosen candidate), its folds' models are used, so
 // that heldout.csv shows the predictions the selection scored (on every
@@ -18,7 +18,7 @@ import (
 // cross-validation does). Folds run in parallel and are returned in
 // protocol order. With a single protocol there is nothing to hold out and
 // it returns nil.
-func heldoutPredictions(p *aniso.Problem, r *aniso.Result, cv *aniso.CVScore) []report.HeldoutFold {
+func HeldoutPredictions(p *aniso.Problem, r *aniso.Result, cv *aniso.CVScore) []report.HeldoutFold {
 	n := len(p.Protocols)
 	if n < 2 {
 		return nil
@@ -60,13 +60,4 @@ func heldoutFold(p *aniso.Problem, r *aniso.Result, cv *aniso.CVScore, f int) re
 	}
 	out.Pred, _, out.Err = aniso.HeldOut(p, r, f, aniso.Settings{})
 	return out
-}
-
-// chosenCV is the cross-validation of the discovered model's form, nil for
-// a fit of a given form.
-func chosenCV(o *fitOutcome) *aniso.CVScore {
-	if o.disc == nil {
-		return nil
-	}
-	return o.disc.Best().CV
 }

@@ -281,8 +281,9 @@ func synthFrom(t testing.TB, m material, o synthOptions) *biaxial.Specimen {
 }
 
 // The independent materials agree with the catalogue's evaluation where
-// both describe the same material: an ideal exponential fibre family, and
-// a planar family evaluated by the quadrature of planar.go.
+// both describe the same material: an ideal exponential fibre family, a
+// planar family evaluated by the quadrature of planar.go, and the
+// exponential matrix.
 func TestIndependentMaterialsAgree(t *testing.T) {
 	F := [4]float64{1.2, 0.04, -0.03, 1.1}
 	m := &Model{Families: []Family{{Angle: 0.5, Planar: true, Concentration: 3}, {Angle: -0.7}},
@@ -300,6 +301,33 @@ func TestIndependentMaterialsAgree(t *testing.T) {
 		if !near(ind[j], r.Cauchy[j], 1e-6) {
 			t.Errorf("σ[%d]: independent %.10g, catalogue %.10g", j, ind[j], r.Cauchy[j])
 		}
+	}
+	// The exponential matrix of Demiray 1972 and the catalogue's i1-exp.
+	dm := &Model{Terms: []Term{{Shape: lookup("i1-exp"), Family: -1, Weight: 5, Params: []float64{3}}}}
+	rd, err := dm.Evaluate(F)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for j, v := range demirayMatrix(5, 3)(F) {
+		if !near(v, rd.Cauchy[j], 1e-12) {
+			t.Errorf("Demiray σ[%d]: independent %.15g, catalogue %.15g", j, v, rd.Cauchy[j])
+		}
+	}
+}
+
+// demirayMatrix is the exponential matrix of Demiray 1972, energy
+// a/(2b)(exp(b(I1 − 3)) − 1) with a = 2 halfA: σ = 2 (a/2) exp(b(I1 − 3))
+// (B − B33 1) in plane stress, written out here without the package's
+// kinematics.
+func demirayMatrix(halfA, b float64) material {
+	return func(F [4]float64) [3]float64 {
+		b11 := F[0]*F[0] + F[1]*F[1]
+		b22 := F[2]*F[2] + F[3]*F[3]
+		b12 := F[0]*F[2] + F[1]*F[3]
+		j := F[0]*F[3] - F[1]*F[2]
+		b33 := 1 / (j * j)
+		g := 2 * halfA * math.Exp(b*(b11+b22+b33-3))
+		return [3]float64{g * (b11 - b33), g * (b22 - b33), g * b12}
 	}
 }
 

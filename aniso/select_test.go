@@ -202,7 +202,7 @@ func TestDiscoverUnitInvariance(t *testing.T) {
 		t.Skip("runs discovery 3 times per specimen")
 	}
 	specimens := map[string]*biaxial.Specimen{
-		"one family, no shear": synthSpecimen(t, oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 30, Params: []float64{4}}, 38),
+		"one family, no shear": synthFrom(t, fibreMaterial(3, spreadFamily{38 * deg, -1, expSqFibre(30, 4)}),
 			synthOptions{noise: 0.02, points: 20}),
 		"two families, sutured": synthFrom(t, fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)}),
 			synthOptions{noise: 0.02, points: 20, sutured: true, maxStrain: 0.2}),

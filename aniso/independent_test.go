@@ -126,14 +126,18 @@ func (d spreadDirections) cauchy(F [4]float64) [3]float64 {
 	return s
 }
 
+// planeStressB returns the left Cauchy–Green tensor B = F Fᵀ of an
+// incompressible membrane at the in-plane F: B11, B22, B12 and B33 =
+// 1/det(F)², written out here without the package's kinematics.
+func planeStressB(F [4]float64) (b11, b22, b12, b33 float64) {
+	j := F[0]*F[3] - F[1]*F[2]
+	return F[0]*F[0] + F[1]*F[1], F[2]*F[2] + F[3]*F[3], F[0]*F[2] + F[1]*F[3], 1 / (j * j)
+}
+
 // neoHookeanMatrix is σ = 2 C10 (B − B33 1) in plane stress (Treloar 1943;
 // common practice).
 func neoHookeanMatrix(c10 float64, F [4]float64) [3]float64 {
-	b11 := F[0]*F[0] + F[1]*F[1]
-	b22 := F[2]*F[2] + F[3]*F[3]
-	b12 := F[0]*F[2] + F[1]*F[3]
-	j := F[0]*F[3] - F[1]*F[2]
-	b33 := 1 / (j * j)
+	b11, b22, b12, b33 := planeStressB(F)
 	return [3]float64{2 * c10 * (b11 - b33), 2 * c10 * (b22 - b33), 2 * c10 * b12}
 }
 
@@ -321,11 +325,7 @@ func TestIndependentMaterialsAgree(t *testing.T) {
 // kinematics.
 func demirayMatrix(halfA, b float64) material {
 	return func(F [4]float64) [3]float64 {
-		b11 := F[0]*F[0] + F[1]*F[1]
-		b22 := F[2]*F[2] + F[3]*F[3]
-		b12 := F[0]*F[2] + F[1]*F[3]
-		j := F[0]*F[3] - F[1]*F[2]
-		b33 := 1 / (j * j)
+		b11, b22, b12, b33 := planeStressB(F)
 		g := 2 * halfA * math.Exp(b*(b11+b22+b33-3))
 		return [3]float64{g * (b11 - b33), g * (b22 - b33), g * b12}
 	}
@@ -336,11 +336,7 @@ func demirayMatrix(halfA, b float64) material {
 // written out here without the package's kinematics.
 func mooneyRivlinMatrix(c10, c01 float64) material {
 	return func(F [4]float64) [3]float64 {
-		b11 := F[0]*F[0] + F[1]*F[1]
-		b22 := F[2]*F[2] + F[3]*F[3]
-		b12 := F[0]*F[2] + F[1]*F[3]
-		j := F[0]*F[3] - F[1]*F[2]
-		b33 := 1 / (j * j)
+		b11, b22, b12, b33 := planeStressB(F)
 		i1 := b11 + b22 + b33
 		bb11 := b11*b11 + b12*b12
 		bb22 := b22*b22 + b12*b12

@@ -185,6 +185,23 @@ func TestDiscoverIsotropic(t *testing.T) {
 	heldOutWithin(t, d, 0.01)
 }
 
+// A mirror pair of ideal families at ±40° (the arterial form of Holzapfel,
+// Gasser & Ogden 2000 with invented parameters: c10 = 2 kPa, k1 = 15 kPa,
+// k2 = 3), made by independent numerical integration; the material is
+// TestVerdictAcceptance's "mirror pair, no shear", whose discovery the two
+// share.
+func TestDiscoverMirrorPairNoShear(t *testing.T) {
+	t.Parallel()
+	d, _ := discoverOnMaterial(t, fibreMaterial(2, spreadFamily{40 * deg, -1, expSqFibre(15, 3)}, spreadFamily{-40 * deg, -1, expSqFibre(15, 3)}), synthOptions{noise: 0.01})
+	if d.Verdict.Families != "1-or-mirror-pair" {
+		t.Errorf("verdict %s, want 1-or-mirror-pair", d.Verdict.Families)
+	}
+	if d.Verdict.Decider == "" {
+		t.Error("an undecided verdict must name the measurement that would decide it")
+	}
+	heldOutWithin(t, d, 0.01)
+}
+
 // spreadMaterial is outside the catalogue: a neo-Hookean matrix plus
 // collagen-like fibres whose directions spread around a mean (a wrapped
 // normal of standard deviation sd) and which straighten gradually, each at

@@ -209,12 +209,7 @@ func TestReportDemo(t *testing.T) {
 	if len(labels) != 5 {
 		t.Fatalf("fit.csv has %d protocols, the demo file has 5", len(labels))
 	}
-	var c struct {
-		Selection  card.SelectionSection `json:"selection"`
-		Verdict    card.VerdictSection   `json:"verdict"`
-		Fit        card.FitSection       `json:"fit"`
-		Provenance card.Provenance       `json:"provenance"`
-	}
+	var c demoCardSections
 	mj, err := os.ReadFile(filepath.Join(dir, "model.json"))
 	if err != nil {
 		t.Fatal(err)
@@ -222,329 +217,379 @@ func TestReportDemo(t *testing.T) {
 	if err := json.Unmarshal(mj, &c); err != nil {
 		t.Fatal(err)
 	}
-
-	t.Run("every plot has a tile per protocol, and SVG only by default", func(t *testing.T) {
-		for _, name := range tiledPlots {
-			_, texts, root := readSVG(t, filepath.Join(dir, "plots", name+".svg"))
-			n := tileTitles(texts, labels)
-			for _, l := range labels {
-				if n[l] != 1 {
-					t.Errorf("%s: %d tiles titled for protocol %s, want 1", name, n[l], l)
-				}
-			}
-			if root["width"] == "" || root["viewBox"] == "" {
-				t.Errorf("%s: svg without width or viewBox: %v", name, root)
-			}
-		}
-		if pngs, _ := filepath.Glob(filepath.Join(dir, "plots", "*.png")); len(pngs) != 0 {
-			t.Errorf("weft fit wrote %d PNG files without --png", len(pngs))
-		}
-	})
-
-	t.Run("fit tiles: points, model, band and held-out on top, from zero", func(t *testing.T) {
-		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", "fit-all.svg"))
-		total := 0
-		for _, l := range labels {
-			total += points[l]
-		}
-		// Measured points: a ring (axis 1) or square (axis 2) per fit.csv
-		// row, plus one of each in the legend.
-		rings := countPaths(paths, func(p svgPath) bool { return p.stroke == svgBlue && p.fill == "none" && p.arcs == 2 })
-		squares := countPaths(paths, func(p svgPath) bool {
-			return p.stroke == svgVermillion && p.fill == "none" && p.segs == 3 && strings.HasSuffix(p.d, "Z")
-		})
-		if rings != total+1 || squares != total+1 {
-			t.Errorf("%d rings and %d squares, want %d each (the fit.csv rows and the legend)", rings, squares, total+1)
-		}
-		// One model curve per protocol and axis, densified between points.
-		model := countPaths(paths, func(p svgPath) bool {
-			return (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= 30
-		})
-		if model != 2*len(labels) {
-			t.Errorf("%d model curves, want one per protocol and axis (%d)", model, 2*len(labels))
-		}
-		// Held-out predictions are dashed and drawn after (on top of) the
-		// model curves of their tile (two per tile, tiles in order); the
-		// bands are translucent fills.
-		models, held := 0, 0
-		for _, p := range paths {
-			switch {
-			case (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= 30:
-				models++
-			case p.dashed && p.segs >= 30:
-				if models < 2*(held/2+1) {
-					t.Errorf("held-out curve %d is drawn before its tile's model curves (%d drawn so far)", held, models)
-				}
-				held++
-			}
-		}
-		if held != 2*len(labels) {
-			t.Errorf("%d held-out curves, want one per protocol and axis (%d)", held, 2*len(labels))
-		}
-		b, _ := os.ReadFile(filepath.Join(dir, "plots", "fit-all.svg"))
-		if bands := len(regexp.MustCompile(`fill-opacity:0\.2\d*`).FindAll(b, -1)); bands < 2*len(labels) {
-			t.Errorf("%d band fills, want one per protocol and axis", bands)
-		}
-		// Stress axes start at zero: every tile labels a 0 tick.
-		zeros := 0
-		for _, s := range texts {
-			if s == "0" {
-				zeros++
-			}
-		}
-		if zeros < len(labels) {
-			t.Errorf("%d tick labels 0 for %d stress axes", zeros, len(labels))
-		}
-	})
-
-	t.Run("presets figure: the discovered model and every preset", func(t *testing.T) {
-		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "presets.svg"))
-		joined := strings.Join(texts, "\n")
-		for _, p := range c.Selection.Presets {
-			if name := strings.TrimPrefix(p.Name, "preset:"); !strings.Contains(joined, name+" · ") {
-				t.Errorf("presets figure: no legend entry for %s with its held-out error", name)
-			}
-		}
-		if !strings.Contains(joined, "fung") || !strings.Contains(joined, "discovered · ") {
-			t.Errorf("presets figure lacks the Fung-type preset or the discovered model")
-		}
-	})
-
-	t.Run("selection plot shows held-out errors with their standard errors", func(t *testing.T) {
-		paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", "pareto.svg"))
-		if !strings.Contains(strings.Join(texts, " "), "held-out error") {
-			t.Errorf("the selection plot's axis is not the held-out error")
-		}
-		cv := 0
-		for _, cc := range append(append([]card.CandidateCard{}, c.Selection.Pareto...), c.Selection.Presets...) {
-			if !math.IsNaN(float64(cc.HeldoutError)) {
-				cv++
-			}
-		}
-		// Each cross-validated form has an error bar: a vertical stroke
-		// and two caps.
-		bars := countPaths(paths, func(p svgPath) bool {
-			return p.segs == 1 && p.fill == "none" && !p.dashed && strings.Count(p.d, "M") == 1 && verticalPath(p.d)
-		})
-		if bars < cv {
-			t.Errorf("%d vertical strokes for %d cross-validated forms and presets", bars, cv)
-		}
-	})
-
-	t.Run("report.html is self-contained and complete", func(t *testing.T) {
-		b, err := os.ReadFile(filepath.Join(dir, "report.html"))
-		if err != nil {
-			t.Fatal(err)
-		}
-		html := string(b)
-		for _, bad := range []string{"http:", "https:", "src=", "@import", "url(", "<script", "<link", "<img", "<iframe", "<object"} {
-			if strings.Contains(strings.ToLower(html), bad) {
-				t.Errorf("report.html contains %q: it must refer to nothing outside itself", bad)
-			}
-		}
-		for _, m := range regexp.MustCompile(`href="([^"]*)"`).FindAllStringSubmatch(html, -1) {
-			if !strings.HasPrefix(m[1], "#") {
-				t.Errorf("report.html links outside itself: %s", m[0])
-			}
-		}
-		svgs := strings.Count(html, "<svg ")
-		files, _ := filepath.Glob(filepath.Join(dir, "plots", "*.svg"))
-		if svgs != len(files) {
-			t.Errorf("report.html inlines %d plots, plots/ has %d SVG files", svgs, len(files))
-		}
-		// The energy is typeset, not LaTeX source.
-		if !strings.Contains(html, "<math") || strings.Contains(html, `\frac`) {
-			t.Errorf("report.html does not typeset the energy as MathML")
-		}
-		// The verdict's row of the layout table is marked and shows its
-		// angles.
-		row := regexp.MustCompile(`<tr class="mark"><td>([^<]*)</td><td>([^<]*)</td><td class="n">([^<]*)</td>`).FindAllStringSubmatch(html, -1)
-		found := false
-		for _, r := range row {
-			if strings.Contains(html[strings.Index(html, r[0]):], "◀ verdict") && r[1] == "one family" {
-				found = strings.Contains(r[3], "°")
-			}
-		}
-		if !found || c.Verdict.Form != "1" {
-			t.Errorf("the layout table does not mark the verdict's form (%s) with its angle: %v", c.Verdict.Form, row)
-		}
-		// One interval per angle: the profile's.
-		if !regexp.MustCompile(`<td>angle</td><td class="n">[^<]*</td><td class="n">\[[^<]*\]</td><td>profile</td>`).MatchString(html) {
-			t.Errorf("the angle's interval in the parameter table is not its profile interval")
-		}
-		for _, want := range append(append([]string{}, card.Cautions...), "SYNTHETIC DATA", "Verdict:", "Rule:", "Methods", "Bates DM, Watts DG (1988)") {
-			if !strings.Contains(html, htmlText(want)) {
-				t.Errorf("report.html lacks %q", want)
-			}
-		}
-	})
-
-	t.Run("the input's SHA-256 and the version are in the card and the report", func(t *testing.T) {
-		raw, err := os.ReadFile(demoFile("membrane-M1.csv"))
-		if err != nil {
-			t.Fatal(err)
-		}
-		// SHA-256 of the file computed here by the standard library
-		// (FIPS 180-4), independently of weft's streaming hash.
-		sum := fmt.Sprintf("%x", sha256.Sum256(raw))
-		if len(c.Provenance.Inputs) != 1 || c.Provenance.Inputs[0].SHA256 != sum || c.Provenance.Inputs[0].Bytes != int64(len(raw)) {
-			t.Errorf("card provenance inputs %+v, want membrane-M1.csv with SHA-256 %s", c.Provenance.Inputs, sum)
-		}
-		version, _, code := runWeft(t, "--version")
-		if code != 0 || strings.TrimSpace(version) != "weft "+c.Provenance.VersionText() {
-			t.Errorf("weft --version %q, card says %q", version, c.Provenance.VersionText())
-		}
-		if c.Provenance.Command != "weft fit" || !slices.Contains(c.Provenance.Options, "--cycle=last") {
-			t.Errorf("card provenance command %q options %v", c.Provenance.Command, c.Provenance.Options)
-		}
-		html, _ := os.ReadFile(filepath.Join(dir, "report.html"))
-		for _, want := range []string{sum, c.Provenance.VersionText(), "--max-terms=5"} {
-			if !strings.Contains(string(html), htmlText(want)) {
-				t.Errorf("report.html lacks %q", want)
-			}
-		}
-	})
-
-	t.Run("weft report rebuilds the same bytes", func(t *testing.T) {
-		before := readTree(t, dir)
-		if _, stderr, code := runWeft(t, "report", dir); code != exitBadInput || !strings.Contains(stderr, "--force") {
-			t.Errorf("report over an existing report without --force: exit %d, %s", code, stderr)
-		}
-		if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
-			t.Fatalf("weft report: exit %d: %s", code, stderr)
-		}
-		after := readTree(t, dir)
-		if len(after) != len(before) {
-			t.Errorf("%d files before, %d after", len(before), len(after))
-		}
-		for name, b := range before {
-			if !bytes.Equal(after[name], b) {
-				t.Errorf("%s differs after 'weft report --force'", name)
-			}
-		}
-	})
-
-	t.Run("--strain plots against Green strain", func(t *testing.T) {
-		if _, stderr, code := runWeft(t, "report", dir, "--strain", "--force"); code != 0 {
-			t.Fatalf("weft report --strain: exit %d: %s", code, stderr)
-		}
-		_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "fit-all.svg"))
-		joined := strings.Join(texts, "\n")
-		if !strings.Contains(joined, "Green strain E") || strings.Contains(joined, "stretch λ") {
-			t.Errorf("--strain: the x axis is not labelled Green strain")
-		}
-		// The x tick labels must be strains, not stretches: the demo
-		// stretches run from 1.005 to 1.15, so E = ½(λ² − 1) runs from
-		// 0.005 to 0.16125 (Green–Lagrange strain, Holzapfel 2000, §2.5).
-		top := 0.0
-		for _, s := range texts {
-			v, err := strconv.ParseFloat(s, 64)
-			if err != nil || !strings.Contains(s, ".") {
-				continue
-			}
-			if v > 1 && v < 1.2 {
-				t.Errorf("--strain: a stretch-like tick %s", s)
-			}
-			if v < 1 {
-				top = math.Max(top, v)
-			}
-		}
-		if top < 0.1 || top > 0.17 {
-			t.Errorf("--strain: largest strain tick %g, want one between 0.1 and 0.16", top)
-		}
-		if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
-			t.Fatalf("weft report: exit %d: %s", code, stderr)
-		}
-	})
-
-	t.Run("--png writes each plot as PNG with its resolution", func(t *testing.T) {
-		out := filepath.Join(t.TempDir(), "png.weft")
-		if err := os.CopyFS(out, os.DirFS(dir)); err != nil {
-			t.Fatal(err)
-		}
-		if _, stderr, code := runWeft(t, "report", out, "--force", "--png"); code != 0 {
-			t.Fatalf("weft report --png: exit %d: %s", code, stderr)
-		}
-		svgs, _ := filepath.Glob(filepath.Join(out, "plots", "*.svg"))
-		for _, s := range svgs {
-			p := strings.TrimSuffix(s, ".svg") + ".png"
-			checkPNG(t, p)
-			b, _ := os.ReadFile(p)
-			// The pHYs chunk (PNG specification, ISO/IEC 15948:2004,
-			// §11.3.5.3): 144 dpi is 5669 pixels per metre (144/0.0254,
-			// rounded), unit 1 (metre).
-			i := bytes.Index(b, []byte("pHYs"))
-			if i < 0 || i+13 > len(b) {
-				t.Errorf("%s has no pHYs chunk", p)
-				continue
-			}
-			x, y := binary.BigEndian.Uint32(b[i+4:]), binary.BigEndian.Uint32(b[i+8:])
-			if x != 5669 || y != 5669 || b[i+12] != 1 {
-				t.Errorf("%s: pHYs %d × %d per unit %d, want 5669 per metre (144 dpi)", p, x, y, b[i+12])
-			}
-		}
-	})
-
-	t.Run("held-out curves are the cross-validation folds", func(t *testing.T) {
-		// The dashed curves must be the predictions the selection scored:
-		// per protocol, the mean held-out R² over components from
-		// heldout.csv and fit.csv equals the chosen form's fold R² in
-		// model.json (a consistency check between two code paths).
-		fit := readCSV(t, filepath.Join(dir, "fit.csv"))
-		held := readCSV(t, filepath.Join(dir, "heldout.csv"))
-		col := func(h []string, name string) int {
-			for i, x := range h {
-				if strings.HasPrefix(x, name+" [") {
-					return i
-				}
-			}
-			t.Fatalf("no column %s in %v", name, h)
-			return -1
-		}
-		var folds []card.FoldCard
-		for _, cc := range c.Selection.Pareto {
-			if cc.Chosen {
-				folds = cc.HeldoutFolds
-			}
-		}
-		if len(folds) != len(labels) {
-			t.Fatalf("%d folds for %d protocols", len(folds), len(labels))
-		}
-		var comps []string // "nominal_11", ...: every measured component
-		for _, h := range fit[0] {
-			if name, ok := strings.CutPrefix(h, "measured_"); ok {
-				comps = append(comps, strings.Fields(name)[0])
-			}
-		}
-		for _, f := range folds {
-			sum := 0.0
-			for _, comp := range comps {
-				hc := col(held[0], "heldout_"+comp)
-				pred := map[string]float64{}
-				for _, r := range held[1:] {
-					if r[0] == f.Protocol {
-						pred[r[1]], _ = strconv.ParseFloat(r[hc], 64)
-					}
-				}
-				mc := col(fit[0], "measured_"+comp)
-				var meas, mod []float64
-				for _, r := range fit[1:] {
-					if r[0] == f.Protocol {
-						v, _ := strconv.ParseFloat(r[mc], 64)
-						meas = append(meas, v)
-						mod = append(mod, pred[r[1]])
-					}
-				}
-				sum += coefficientOfDetermination(meas, mod)
-			}
-			got := sum / float64(len(comps))
-			if math.Abs(got-float64(f.R2)) > 1e-8 {
-				t.Errorf("protocol %s: held-out R² %v from heldout.csv, %v in the card's cross-validation", f.Protocol, got, float64(f.R2))
-			}
-		}
-	})
-
+	rd := &reportDemo{dir: dir, labels: labels, points: points, c: c}
+	t.Run("every plot has a tile per protocol, and SVG only by default", rd.tilesAndSVGOnly)
+	t.Run("fit tiles: points, model, band and held-out on top, from zero", rd.fitTiles)
+	t.Run("presets figure: the discovered model and every preset", rd.presetsFigure)
+	t.Run("selection plot shows held-out errors with their standard errors", rd.selectionPlot)
+	t.Run("report.html is self-contained and complete", rd.selfContainedHTML)
+	t.Run("the input's SHA-256 and the version are in the card and the report", rd.inputHashAndVersion)
+	t.Run("weft report rebuilds the same bytes", rd.reportRebuildsSameBytes)
+	t.Run("--strain plots against Green strain", rd.strainAxis)
+	t.Run("--png writes each plot as PNG with its resolution", rd.pngOnRequest)
+	t.Run("held-out curves are the cross-validation folds", rd.heldoutCurvesAreFolds)
 	t.Run("chromium renders and prints it", func(t *testing.T) { checkInChromium(t, dir, labels) })
+}
+
+// reportDemo is what the checks of TestReportDemo share: a copy of demo
+// membrane M1's fit folder, its protocols and points per protocol (from
+// fit.csv) and the card's sections they read. The checks run in order: the
+// later ones rewrite the folder's report.
+type reportDemo struct {
+	dir    string
+	labels []string
+	points map[string]int
+	c      demoCardSections
+}
+
+// demoCardSections are the sections of model.json that TestReportDemo's
+// checks read.
+type demoCardSections struct {
+	Selection  card.SelectionSection `json:"selection"`
+	Verdict    card.VerdictSection   `json:"verdict"`
+	Fit        card.FitSection       `json:"fit"`
+	Provenance card.Provenance       `json:"provenance"`
+}
+
+// tilesAndSVGOnly: every plot has a tile per protocol, and SVG only by default.
+func (rd *reportDemo) tilesAndSVGOnly(t *testing.T) {
+	dir, labels := rd.dir, rd.labels
+	for _, name := range tiledPlots {
+		_, texts, root := readSVG(t, filepath.Join(dir, "plots", name+".svg"))
+		n := tileTitles(texts, labels)
+		for _, l := range labels {
+			if n[l] != 1 {
+				t.Errorf("%s: %d tiles titled for protocol %s, want 1", name, n[l], l)
+			}
+		}
+		if root["width"] == "" || root["viewBox"] == "" {
+			t.Errorf("%s: svg without width or viewBox: %v", name, root)
+		}
+	}
+	if pngs, _ := filepath.Glob(filepath.Join(dir, "plots", "*.png")); len(pngs) != 0 {
+		t.Errorf("weft fit wrote %d PNG files without --png", len(pngs))
+	}
+}
+
+// fitTiles: fit tiles: points, model, band and held-out on top, from zero.
+func (rd *reportDemo) fitTiles(t *testing.T) {
+	dir, labels, points := rd.dir, rd.labels, rd.points
+	paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", "fit-all.svg"))
+	total := 0
+	for _, l := range labels {
+		total += points[l]
+	}
+	// Measured points: a ring (axis 1) or square (axis 2) per fit.csv
+	// row, plus one of each in the legend.
+	rings := countPaths(paths, func(p svgPath) bool { return p.stroke == svgBlue && p.fill == "none" && p.arcs == 2 })
+	squares := countPaths(paths, func(p svgPath) bool {
+		return p.stroke == svgVermillion && p.fill == "none" && p.segs == 3 && strings.HasSuffix(p.d, "Z")
+	})
+	if rings != total+1 || squares != total+1 {
+		t.Errorf("%d rings and %d squares, want %d each (the fit.csv rows and the legend)", rings, squares, total+1)
+	}
+	// One model curve per protocol and axis, densified between points.
+	model := countPaths(paths, func(p svgPath) bool {
+		return (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= 30
+	})
+	if model != 2*len(labels) {
+		t.Errorf("%d model curves, want one per protocol and axis (%d)", model, 2*len(labels))
+	}
+	// Held-out predictions are dashed and drawn after (on top of) the
+	// model curves of their tile (two per tile, tiles in order); the
+	// bands are translucent fills.
+	models, held := 0, 0
+	for _, p := range paths {
+		switch {
+		case (p.stroke == svgBlue || p.stroke == svgVermillion) && !p.dashed && p.segs >= 30:
+			models++
+		case p.dashed && p.segs >= 30:
+			if models < 2*(held/2+1) {
+				t.Errorf("held-out curve %d is drawn before its tile's model curves (%d drawn so far)", held, models)
+			}
+			held++
+		}
+	}
+	if held != 2*len(labels) {
+		t.Errorf("%d held-out curves, want one per protocol and axis (%d)", held, 2*len(labels))
+	}
+	b, _ := os.ReadFile(filepath.Join(dir, "plots", "fit-all.svg"))
+	if bands := len(regexp.MustCompile(`fill-opacity:0\.2\d*`).FindAll(b, -1)); bands < 2*len(labels) {
+		t.Errorf("%d band fills, want one per protocol and axis", bands)
+	}
+	// Stress axes start at zero: every tile labels a 0 tick.
+	zeros := 0
+	for _, s := range texts {
+		if s == "0" {
+			zeros++
+		}
+	}
+	if zeros < len(labels) {
+		t.Errorf("%d tick labels 0 for %d stress axes", zeros, len(labels))
+	}
+}
+
+// presetsFigure: presets figure: the discovered model and every preset.
+func (rd *reportDemo) presetsFigure(t *testing.T) {
+	dir, c := rd.dir, rd.c
+	_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "presets.svg"))
+	joined := strings.Join(texts, "\n")
+	for _, p := range c.Selection.Presets {
+		if name := strings.TrimPrefix(p.Name, "preset:"); !strings.Contains(joined, name+" · ") {
+			t.Errorf("presets figure: no legend entry for %s with its held-out error", name)
+		}
+	}
+	if !strings.Contains(joined, "fung") || !strings.Contains(joined, "discovered · ") {
+		t.Errorf("presets figure lacks the Fung-type preset or the discovered model")
+	}
+}
+
+// selectionPlot: selection plot shows held-out errors with their standard errors.
+func (rd *reportDemo) selectionPlot(t *testing.T) {
+	dir, c := rd.dir, rd.c
+	paths, texts, _ := readSVG(t, filepath.Join(dir, "plots", "pareto.svg"))
+	if !strings.Contains(strings.Join(texts, " "), "held-out error") {
+		t.Errorf("the selection plot's axis is not the held-out error")
+	}
+	cv := 0
+	for _, cc := range append(append([]card.CandidateCard{}, c.Selection.Pareto...), c.Selection.Presets...) {
+		if !math.IsNaN(float64(cc.HeldoutError)) {
+			cv++
+		}
+	}
+	// Each cross-validated form has an error bar: a vertical stroke
+	// and two caps.
+	bars := countPaths(paths, func(p svgPath) bool {
+		return p.segs == 1 && p.fill == "none" && !p.dashed && strings.Count(p.d, "M") == 1 && verticalPath(p.d)
+	})
+	if bars < cv {
+		t.Errorf("%d vertical strokes for %d cross-validated forms and presets", bars, cv)
+	}
+}
+
+// selfContainedHTML: report.html is self-contained and complete.
+func (rd *reportDemo) selfContainedHTML(t *testing.T) {
+	dir, c := rd.dir, rd.c
+	b, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, bad := range []string{"http:", "https:", "src=", "@import", "url(", "<script", "<link", "<img", "<iframe", "<object"} {
+		if strings.Contains(strings.ToLower(html), bad) {
+			t.Errorf("report.html contains %q: it must refer to nothing outside itself", bad)
+		}
+	}
+	for _, m := range regexp.MustCompile(`href="([^"]*)"`).FindAllStringSubmatch(html, -1) {
+		if !strings.HasPrefix(m[1], "#") {
+			t.Errorf("report.html links outside itself: %s", m[0])
+		}
+	}
+	svgs := strings.Count(html, "<svg ")
+	files, _ := filepath.Glob(filepath.Join(dir, "plots", "*.svg"))
+	if svgs != len(files) {
+		t.Errorf("report.html inlines %d plots, plots/ has %d SVG files", svgs, len(files))
+	}
+	// The energy is typeset, not LaTeX source.
+	if !strings.Contains(html, "<math") || strings.Contains(html, `\frac`) {
+		t.Errorf("report.html does not typeset the energy as MathML")
+	}
+	// The verdict's row of the layout table is marked and shows its
+	// angles.
+	row := regexp.MustCompile(`<tr class="mark"><td>([^<]*)</td><td>([^<]*)</td><td class="n">([^<]*)</td>`).FindAllStringSubmatch(html, -1)
+	found := false
+	for _, r := range row {
+		if strings.Contains(html[strings.Index(html, r[0]):], "◀ verdict") && r[1] == "one family" {
+			found = strings.Contains(r[3], "°")
+		}
+	}
+	if !found || c.Verdict.Form != "1" {
+		t.Errorf("the layout table does not mark the verdict's form (%s) with its angle: %v", c.Verdict.Form, row)
+	}
+	// One interval per angle: the profile's.
+	if !regexp.MustCompile(`<td>angle</td><td class="n">[^<]*</td><td class="n">\[[^<]*\]</td><td>profile</td>`).MatchString(html) {
+		t.Errorf("the angle's interval in the parameter table is not its profile interval")
+	}
+	for _, want := range append(append([]string{}, card.Cautions...), "SYNTHETIC DATA", "Verdict:", "Rule:", "Methods", "Bates DM, Watts DG (1988)") {
+		if !strings.Contains(html, htmlText(want)) {
+			t.Errorf("report.html lacks %q", want)
+		}
+	}
+}
+
+// inputHashAndVersion: the input's SHA-256 and the version are in the card and the report.
+func (rd *reportDemo) inputHashAndVersion(t *testing.T) {
+	dir, c := rd.dir, rd.c
+	raw, err := os.ReadFile(demoFile("membrane-M1.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// SHA-256 of the file computed here by the standard library
+	// (FIPS 180-4), independently of weft's streaming hash.
+	sum := fmt.Sprintf("%x", sha256.Sum256(raw))
+	if len(c.Provenance.Inputs) != 1 || c.Provenance.Inputs[0].SHA256 != sum || c.Provenance.Inputs[0].Bytes != int64(len(raw)) {
+		t.Errorf("card provenance inputs %+v, want membrane-M1.csv with SHA-256 %s", c.Provenance.Inputs, sum)
+	}
+	version, _, code := runWeft(t, "--version")
+	if code != 0 || strings.TrimSpace(version) != "weft "+c.Provenance.VersionText() {
+		t.Errorf("weft --version %q, card says %q", version, c.Provenance.VersionText())
+	}
+	if c.Provenance.Command != "weft fit" || !slices.Contains(c.Provenance.Options, "--cycle=last") {
+		t.Errorf("card provenance command %q options %v", c.Provenance.Command, c.Provenance.Options)
+	}
+	html, _ := os.ReadFile(filepath.Join(dir, "report.html"))
+	for _, want := range []string{sum, c.Provenance.VersionText(), "--max-terms=5"} {
+		if !strings.Contains(string(html), htmlText(want)) {
+			t.Errorf("report.html lacks %q", want)
+		}
+	}
+}
+
+// reportRebuildsSameBytes: weft report rebuilds the same bytes.
+func (rd *reportDemo) reportRebuildsSameBytes(t *testing.T) {
+	dir := rd.dir
+	before := readTree(t, dir)
+	if _, stderr, code := runWeft(t, "report", dir); code != exitBadInput || !strings.Contains(stderr, "--force") {
+		t.Errorf("report over an existing report without --force: exit %d, %s", code, stderr)
+	}
+	if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
+		t.Fatalf("weft report: exit %d: %s", code, stderr)
+	}
+	after := readTree(t, dir)
+	if len(after) != len(before) {
+		t.Errorf("%d files before, %d after", len(before), len(after))
+	}
+	for name, b := range before {
+		if !bytes.Equal(after[name], b) {
+			t.Errorf("%s differs after 'weft report --force'", name)
+		}
+	}
+}
+
+// strainAxis: --strain plots against Green strain.
+func (rd *reportDemo) strainAxis(t *testing.T) {
+	dir := rd.dir
+	if _, stderr, code := runWeft(t, "report", dir, "--strain", "--force"); code != 0 {
+		t.Fatalf("weft report --strain: exit %d: %s", code, stderr)
+	}
+	_, texts, _ := readSVG(t, filepath.Join(dir, "plots", "fit-all.svg"))
+	joined := strings.Join(texts, "\n")
+	if !strings.Contains(joined, "Green strain E") || strings.Contains(joined, "stretch λ") {
+		t.Errorf("--strain: the x axis is not labelled Green strain")
+	}
+	// The x tick labels must be strains, not stretches: the demo
+	// stretches run from 1.005 to 1.15, so E = ½(λ² − 1) runs from
+	// 0.005 to 0.16125 (Green–Lagrange strain, Holzapfel 2000, §2.5).
+	top := 0.0
+	for _, s := range texts {
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil || !strings.Contains(s, ".") {
+			continue
+		}
+		if v > 1 && v < 1.2 {
+			t.Errorf("--strain: a stretch-like tick %s", s)
+		}
+		if v < 1 {
+			top = math.Max(top, v)
+		}
+	}
+	if top < 0.1 || top > 0.17 {
+		t.Errorf("--strain: largest strain tick %g, want one between 0.1 and 0.16", top)
+	}
+	if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
+		t.Fatalf("weft report: exit %d: %s", code, stderr)
+	}
+}
+
+// pngOnRequest: --png writes each plot as PNG with its resolution.
+func (rd *reportDemo) pngOnRequest(t *testing.T) {
+	dir := rd.dir
+	out := filepath.Join(t.TempDir(), "png.weft")
+	if err := os.CopyFS(out, os.DirFS(dir)); err != nil {
+		t.Fatal(err)
+	}
+	if _, stderr, code := runWeft(t, "report", out, "--force", "--png"); code != 0 {
+		t.Fatalf("weft report --png: exit %d: %s", code, stderr)
+	}
+	svgs, _ := filepath.Glob(filepath.Join(out, "plots", "*.svg"))
+	for _, s := range svgs {
+		p := strings.TrimSuffix(s, ".svg") + ".png"
+		checkPNG(t, p)
+		b, _ := os.ReadFile(p)
+		// The pHYs chunk (PNG specification, ISO/IEC 15948:2004,
+		// §11.3.5.3): 144 dpi is 5669 pixels per metre (144/0.0254,
+		// rounded), unit 1 (metre).
+		i := bytes.Index(b, []byte("pHYs"))
+		if i < 0 || i+13 > len(b) {
+			t.Errorf("%s has no pHYs chunk", p)
+			continue
+		}
+		x, y := binary.BigEndian.Uint32(b[i+4:]), binary.BigEndian.Uint32(b[i+8:])
+		if x != 5669 || y != 5669 || b[i+12] != 1 {
+			t.Errorf("%s: pHYs %d × %d per unit %d, want 5669 per metre (144 dpi)", p, x, y, b[i+12])
+		}
+	}
+}
+
+// heldoutCurvesAreFolds: held-out curves are the cross-validation folds.
+func (rd *reportDemo) heldoutCurvesAreFolds(t *testing.T) {
+	dir, labels, c := rd.dir, rd.labels, rd.c
+	// The dashed curves must be the predictions the selection scored:
+	// per protocol, the mean held-out R² over components from
+	// heldout.csv and fit.csv equals the chosen form's fold R² in
+	// model.json (a consistency check between two code paths).
+	fit := readCSV(t, filepath.Join(dir, "fit.csv"))
+	held := readCSV(t, filepath.Join(dir, "heldout.csv"))
+	col := func(h []string, name string) int {
+		for i, x := range h {
+			if strings.HasPrefix(x, name+" [") {
+				return i
+			}
+		}
+		t.Fatalf("no column %s in %v", name, h)
+		return -1
+	}
+	var folds []card.FoldCard
+	for _, cc := range c.Selection.Pareto {
+		if cc.Chosen {
+			folds = cc.HeldoutFolds
+		}
+	}
+	if len(folds) != len(labels) {
+		t.Fatalf("%d folds for %d protocols", len(folds), len(labels))
+	}
+	var comps []string // "nominal_11", ...: every measured component
+	for _, h := range fit[0] {
+		if name, ok := strings.CutPrefix(h, "measured_"); ok {
+			comps = append(comps, strings.Fields(name)[0])
+		}
+	}
+	for _, f := range folds {
+		sum := 0.0
+		for _, comp := range comps {
+			hc := col(held[0], "heldout_"+comp)
+			pred := map[string]float64{}
+			for _, r := range held[1:] {
+				if r[0] == f.Protocol {
+					pred[r[1]], _ = strconv.ParseFloat(r[hc], 64)
+				}
+			}
+			mc := col(fit[0], "measured_"+comp)
+			var meas, mod []float64
+			for _, r := range fit[1:] {
+				if r[0] == f.Protocol {
+					v, _ := strconv.ParseFloat(r[mc], 64)
+					meas = append(meas, v)
+					mod = append(mod, pred[r[1]])
+				}
+			}
+			sum += coefficientOfDetermination(meas, mod)
+		}
+		got := sum / float64(len(comps))
+		if math.Abs(got-float64(f.R2)) > 1e-8 {
+			t.Errorf("protocol %s: held-out R² %v from heldout.csv, %v in the card's cross-validation", f.Protocol, got, float64(f.R2))
+		}
+	}
 }
 
 // verticalPath reports whether a path is one vertical stroke "Mx,yLx,z".

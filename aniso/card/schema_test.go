@@ -58,17 +58,72 @@ func marshalPlain(v any) ([]byte, error) {
 
 // buildSchema writes the model-card schema from the catalogue.
 func buildSchema() []byte {
-	num := func(desc string) obj { return obj{{"type", "number"}, {"description", desc}} }
-	str := func(desc string) obj { return obj{{"type", "string"}, {"description", desc}} }
-	pair := func(desc string, min any) obj {
-		items := obj{{"type", "number"}}
-		if min != nil {
-			items = append(items, kv{"exclusiveMinimum", min})
-		}
-		return obj{{"type", "array"}, {"description", desc}, {"items", items}, {"minItems", 2}, {"maxItems", 2}}
+	units := StressUnits
+	family := familySchema()
+	term := termSchema(termRules())
+	layout := layoutSchema()
+	dataRange := dataRangeSchema()
+	alternatives := alternativesSchema(family, term, schemaStr)
+	verdict := verdictSchema()
+	fit := fitSchema()
+	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}
+	s := obj{
+		{"$schema", "https://json-schema.org/draft/2020-12/schema"},
+		{"$id", SchemaID},
+		{"title", "weft model card (" + Format + ")"},
+		{"description", "A strain energy Psi = sum_k weight_k f_k(x_k) of a fibre-reinforced incompressible membrane in plane stress, " +
+			"its fibre families and, in fitted cards, the evidence. Stresses and weights are in stress_unit; angles in degrees " +
+			"(keys ending in _deg); every other number is dimensionless. Keys not described here (fit results such as fit, verdict, " +
+			"selection, split) are allowed; readers ignore keys they do not know. Parameters are research-grade and specimen-specific, " +
+			"valid only within the tested range, and not for clinical decisions."},
+		{"type", "object"},
+		{"required", []string{"format", "stress_unit", "terms"}},
+		{"properties", obj{
+			{"format", obj{{"const", Format}, {"description", "card format and its version"}}},
+			{"specimen", schemaStr("free text naming the specimen")},
+			{"stress_unit", obj{{"enum", units}, {"description", "unit of every stress and every weight in the card"}}},
+			{"energy", schemaStr("the energy with its numbers, plain text")},
+			{"energy_latex", schemaStr("the energy with its numbers, LaTeX")},
+			{"conventions", conv},
+			{"cautions", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}}},
+			{"families", obj{{"type", []string{"array", "null"}}, {"items", family}, {"description", "fibre families; null or absent means none"}}},
+			{"layout", layout},
+			{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
+			{"data_range", dataRange},
+			{"alternatives", alternatives},
+			{"verdict", verdict},
+			{"fit", fit},
+		}},
+		{"additionalProperties", true},
 	}
-	var ids []string
-	var perTerm []any
+	b, err := marshalPlain(s)
+	if err != nil {
+		panic(err)
+	}
+	var out bytes.Buffer
+	json.Indent(&out, b, "", "  ")
+	out.WriteByte('\n')
+	return out.Bytes()
+}
+
+// schemaNum, schemaStr and schemaPair are the schema of a described
+// number, string, and [min, max] pair (min, when not nil, an exclusive
+// lower bound of both).
+func schemaNum(desc string) obj { return obj{{"type", "number"}, {"description", desc}} }
+
+func schemaStr(desc string) obj { return obj{{"type", "string"}, {"description", desc}} }
+
+func schemaPair(desc string, min any) obj {
+	items := obj{{"type", "number"}}
+	if min != nil {
+		items = append(items, kv{"exclusiveMinimum", min})
+	}
+	return obj{{"type", "array"}, {"description", desc}, {"items", items}, {"minItems", 2}, {"maxItems", 2}}
+}
+
+// termRules returns the catalogue's shape ids and, per shape, the rule
+// that its parameters and family must follow.
+func termRules() (ids []string, perTerm []any) {
 	for _, sh := range terms.Catalogue() {
 		ids = append(ids, sh.ID)
 		var then obj
@@ -100,8 +155,12 @@ func buildSchema() []byte {
 			{"then", then},
 		})
 	}
-	units := StressUnits
-	family := obj{
+	return ids, perTerm
+}
+
+// familySchema is the schema of a fibre family.
+func familySchema() obj {
+	return obj{
 		{"type", "object"},
 		{"description", "a fibre family: reference direction a0 = (cos α, sin α, 0)"},
 		{"required", []string{"name", "angle_deg"}},
@@ -116,50 +175,66 @@ func buildSchema() []byte {
 				{"description", "in-plane concentration b ≥ 0 of a von Mises density in 2θ about angle_deg (angular integration, each direction switched by its own I4 > 1), dimensionless; absent means an ideal family; excludes a non-zero dispersion"}}},
 		}},
 	}
-	term := obj{
+}
+
+// termSchema is the schema of an energy term, ids the catalogue's shape ids
+// and perTerm the rules of each shape (termRules).
+func termSchema(ids []string, perTerm []any) obj {
+	return obj{
 		{"type", "object"},
 		{"description", "one energy term weight × f(x); f and its argument x are given by id (see 'weft terms')"},
 		{"required", []string{"id", "weight"}},
 		{"properties", obj{
 			{"id", obj{{"enum", ids}, {"description", "catalogue shape id"}}},
 			{"weight", obj{{"type", "number"}, {"minimum", 0}, {"description", "weight w ≥ 0 in the card's stress_unit (also stated by weight_unit)"}}},
-			{"weight_unit", obj{{"enum", units}, {"description", "unit of weight; must equal stress_unit"}}},
+			{"weight_unit", obj{{"enum", StressUnits}, {"description", "unit of weight; must equal stress_unit"}}},
 			{"params", obj{{"type", "object"}, {"additionalProperties", obj{{"type", "number"}}},
 				{"description", "the shape's non-linear parameters by name, dimensionless; every parameter of the shape is required"}}},
-			{"family", str("name of the fibre family of a fibre (fib-*), cofactor (cof-*) or I5 (i5-*) term; empty or absent for isotropic terms")},
-			{"formula", str("the term written out; informational, ignored on read")},
+			{"family", schemaStr("name of the fibre family of a fibre (fib-*), cofactor (cof-*) or I5 (i5-*) term; empty or absent for isotropic terms")},
+			{"formula", schemaStr("the term written out; informational, ignored on read")},
 		}},
 		{"allOf", perTerm},
 	}
-	layout := obj{
+}
+
+// layoutSchema is the schema of how the families were parameterised.
+func layoutSchema() obj {
+	return obj{
 		{"type", "object"},
 		{"description", "how the families were parameterised in a fit"},
 		{"required", []string{"kind"}},
 		{"properties", obj{
 			{"kind", obj{{"enum", []string{"single", "mirror", "free"}}}},
-			{"mean_deg", num("mean direction θ of a mirror pair, degrees from axis 1 towards axis 2")},
-			{"half_angle_deg", num("half angle β of a mirror pair θ ± β, degrees")},
+			{"mean_deg", schemaNum("mean direction θ of a mirror pair, degrees from axis 1 towards axis 2")},
+			{"half_angle_deg", schemaNum("half angle β of a mirror pair θ ± β, degrees")},
 			{"pair_axis", obj{{"enum", []string{"axis-1", "free"}},
 				{"description", "axis-1: the pair's axis θ was held at 0 (symmetric about axis 1, the published form); free: θ was learned"}}},
 		}},
 	}
-	dataRange := obj{
+}
+
+// dataRangeSchema is the schema of the span of the fitted data.
+func dataRangeSchema() obj {
+	return obj{
 		{"type", "object"},
 		{"description", "span of the data a fitted model was fitted to; queries outside it extrapolate"},
 		{"required", []string{"stretch_1", "stretch_2", "shear"}},
 		{"properties", obj{
-			{"stretch_1", pair("[min, max] of F11 over the fitted points, dimensionless", 0)},
-			{"stretch_2", pair("[min, max] of F22 over the fitted points, dimensionless", 0)},
-			{"shear", pair("[min, max] of F12 and F21 together, dimensionless (zero for pure biaxial data)", nil)},
-			{"shear_12", pair("[min, max] of F12, dimensionless, including 0 when the fitted data hold an unsheared point; when absent, shear is used", nil)},
-			{"shear_21", pair("[min, max] of F21, dimensionless, including 0 when the fitted data hold an unsheared point; when absent, shear is used", nil)},
-			{"fibre_stretch", obj{{"type", "array"}, {"items", pair("[min, max] of the fibre stretch √I4, dimensionless", 0)},
+			{"stretch_1", schemaPair("[min, max] of F11 over the fitted points, dimensionless", 0)},
+			{"stretch_2", schemaPair("[min, max] of F22 over the fitted points, dimensionless", 0)},
+			{"shear", schemaPair("[min, max] of F12 and F21 together, dimensionless (zero for pure biaxial data)", nil)},
+			{"shear_12", schemaPair("[min, max] of F12, dimensionless, including 0 when the fitted data hold an unsheared point; when absent, shear is used", nil)},
+			{"shear_21", schemaPair("[min, max] of F21, dimensionless, including 0 when the fitted data hold an unsheared point; when absent, shear is used", nil)},
+			{"fibre_stretch", obj{{"type", "array"}, {"items", schemaPair("[min, max] of the fibre stretch √I4, dimensionless", 0)},
 				{"description", "per family, in the order of families"}}},
 			{"stress_kind", obj{{"enum", []string{"cauchy", "nominal"}}, {"description", "the stress measure the fit used"}}},
 		}},
 	}
-	alternatives := alternativesSchema(family, term, str)
-	verdict := obj{
+}
+
+// verdictSchema is the schema of the verdict on the number of families.
+func verdictSchema() obj {
+	return obj{
 		{"type", "object"},
 		{"description", "the answer of model discovery on the number of fibre families, with its evidence"},
 		{"required", []string{"families", "reason"}},
@@ -175,7 +250,11 @@ func buildSchema() []byte {
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
 		}},
 	}
-	fit := obj{
+}
+
+// fitSchema is the schema of how the model was fitted.
+func fitSchema() obj {
+	return obj{
 		{"type", "object"},
 		{"description", "how the model was fitted and how well the data determine it (metrics, estimates with 95 % intervals, correlation flags, identifiability notes, angle loss profiles)"},
 		{"required", []string{"method", "loss", "rows", "metrics", "estimates"}},
@@ -191,44 +270,6 @@ func buildSchema() []byte {
 				{"description", "what the data determine about a block of correlated estimates: the sum of coefficient × value over names, in the estimates' units, with its standard error"}}}}},
 		}},
 	}
-	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}
-	s := obj{
-		{"$schema", "https://json-schema.org/draft/2020-12/schema"},
-		{"$id", SchemaID},
-		{"title", "weft model card (" + Format + ")"},
-		{"description", "A strain energy Psi = sum_k weight_k f_k(x_k) of a fibre-reinforced incompressible membrane in plane stress, " +
-			"its fibre families and, in fitted cards, the evidence. Stresses and weights are in stress_unit; angles in degrees " +
-			"(keys ending in _deg); every other number is dimensionless. Keys not described here (fit results such as fit, verdict, " +
-			"selection, split) are allowed; readers ignore keys they do not know. Parameters are research-grade and specimen-specific, " +
-			"valid only within the tested range, and not for clinical decisions."},
-		{"type", "object"},
-		{"required", []string{"format", "stress_unit", "terms"}},
-		{"properties", obj{
-			{"format", obj{{"const", Format}, {"description", "card format and its version"}}},
-			{"specimen", str("free text naming the specimen")},
-			{"stress_unit", obj{{"enum", units}, {"description", "unit of every stress and every weight in the card"}}},
-			{"energy", str("the energy with its numbers, plain text")},
-			{"energy_latex", str("the energy with its numbers, LaTeX")},
-			{"conventions", conv},
-			{"cautions", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}}},
-			{"families", obj{{"type", []string{"array", "null"}}, {"items", family}, {"description", "fibre families; null or absent means none"}}},
-			{"layout", layout},
-			{"terms", obj{{"type", "array"}, {"minItems", 1}, {"items", term}}},
-			{"data_range", dataRange},
-			{"alternatives", alternatives},
-			{"verdict", verdict},
-			{"fit", fit},
-		}},
-		{"additionalProperties", true},
-	}
-	b, err := marshalPlain(s)
-	if err != nil {
-		panic(err)
-	}
-	var out bytes.Buffer
-	json.Indent(&out, b, "", "  ")
-	out.WriteByte('\n')
-	return out.Bytes()
 }
 
 // alternativesSchema is the schema of the alternatives section, whose

@@ -202,12 +202,7 @@ func TestProfileIntervalEndsOnDenseData(t *testing.T) {
 		t.Skip("fits 5 × 2 000 points")
 	}
 	t.Parallel()
-	s := synthFrom(t, fibreMaterial(4, spreadFamily{30 * deg, -1, expSqFibre(60, 8)}), synthOptions{noise: 0.01, points: 2000})
-	p, err := NewProblem(s, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+	p, st := denseOneFamily(t, 2000)
 	checkIntervalEnds(t, p, st, func(pr AngleProfile) float64 {
 		half := math.Min(pr.OptimumDeg-pr.LoDeg, pr.HiDeg-pr.OptimumDeg)
 		if !(half > 0) || half > 0.5 {
@@ -215,6 +210,20 @@ func TestProfileIntervalEndsOnDenseData(t *testing.T) {
 		}
 		return 0.02 * half
 	})
+}
+
+// denseOneFamily is the problem of 5 × points points without shear, made by
+// independent numerical integration (independent_test.go) of a neo-Hookean
+// matrix with one exponential fibre family at 30° (Holzapfel, Gasser &
+// Ogden 2000), 1 % noise, and the true form.
+func denseOneFamily(t *testing.T, points int) (*Problem, Structure) {
+	t.Helper()
+	s := synthFrom(t, fibreMaterial(4, spreadFamily{30 * deg, -1, expSqFibre(60, 8)}), synthOptions{noise: 0.01, points: points})
+	p, err := NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p, Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
 }
 
 // A profile of one angle on many rows runs its work side by side: the
@@ -229,15 +238,10 @@ func TestProfileSideBySideEqualsSerial(t *testing.T) {
 		t.Skip("profiles 5 × 1 000 points twice")
 	}
 	t.Parallel()
-	s := synthFrom(t, fibreMaterial(4, spreadFamily{30 * deg, -1, expSqFibre(60, 8)}), synthOptions{noise: 0.01, points: 1000})
-	p, err := NewProblem(s, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p, st := denseOneFamily(t, 1000)
 	if p.Rows() <= profileGuideRows {
 		t.Fatalf("%d rows: the profile is not guided", p.Rows())
 	}
-	st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
 	set := Settings{}
 	r, err := Fit(p, st, set)
 	if err != nil {

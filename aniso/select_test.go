@@ -193,7 +193,9 @@ func checkUnits(t *testing.T, spec *biaxial.Specimen, ref *Discovery, set Discov
 
 // The chosen form, its angles and the verdict are the same for the same
 // data in Pa, kPa and MPa, scaled by factors over [1e-6, 1e6], and nudged
-// by (1 ± 1e-9) (issue: unit and scale invariance). The fitter's canonical
+// by (1 ± 1e-9) (issue: unit and scale invariance; that a constitutive
+// model's form cannot depend on the unit its stresses are written in is
+// dimensional homogeneity, common practice). The fitter's canonical
 // numbers are the same in every one of them (checkUnits); two scalings,
 // the smallest and a nudge, are discovered again and compared in full
 // (TestVerdictAcceptance compares MPa on every acceptance specimen).

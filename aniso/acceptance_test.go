@@ -71,7 +71,7 @@ func TestVerdictAcceptance(t *testing.T) {
 			// again and compared in full, the rest by their canonical numbers
 			// (checkUnits; the full sweep's other repeats are in
 			// TestDiscoverUnitInvariance).
-			checkUnits(t, spec, d, DiscoverSettings{}, 1e-3)
+			checkUnits(t, p, d, DiscoverSettings{}, 1e-3)
 			fams := d.Best().Result.Model.Families
 			if tc.family && len(fams) == 0 {
 				t.Errorf("no fibre family found")

@@ -151,20 +151,17 @@ func cvText(c *CVScore) string {
 	return fmt.Sprintf("%.17g ± %.17g", c.Mean, c.StdErr)
 }
 
-// checkUnits checks that spec's data, in every unit and scaling of
-// unitScales, give the discovery ref (made with set). Where the fitter's
+// checkUnits checks that the data of p0, in every unit and scaling of
+// unitScales, give the discovery ref (made on p0 with set). Where the fitter's
 // canonical numbers are the same bit for bit, so is its search, and only
 // the scalings listed in full are discovered again and compared with ref in
 // full (sameDiscovery): they keep checked that the search reads nothing but
 // the canonical numbers. Where some differ (a value within round-off of a
 // bit boundary, about one in 10⁶), the discovery is repeated and must give
 // the same form, verdict and angles to 0.1°.
-func checkUnits(t *testing.T, spec *biaxial.Specimen, ref *Discovery, set DiscoverSettings, full ...float64) {
+func checkUnits(t *testing.T, p0 *Problem, ref *Discovery, set DiscoverSettings, full ...float64) {
 	t.Helper()
-	p0, err := NewProblem(spec, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	spec := p0.Specimen
 	for _, sc := range unitScales {
 		ps, err := NewProblem(scaleSpecimen(spec, sc.f, sc.unit), nil)
 		if err != nil {
@@ -222,7 +219,7 @@ func TestDiscoverUnitInvariance(t *testing.T) {
 				t.Fatal(err)
 			}
 			t.Logf("kPa: %+v", outcomeFrom(ref))
-			checkUnits(t, s, ref, set, 1e-6, 1+1e-9)
+			checkUnits(t, p, ref, set, 1e-6, 1+1e-9)
 		})
 	}
 }

@@ -47,11 +47,6 @@ func cholSolve(M []float64, n int, B []float64, k int, ridge float64) bool {
 	return true
 }
 
-// wrapAngle maps an angle in radians into (−π/2, π/2].
-func wrapAngle(a float64) float64 {
-	return wrapHalfPeriod(a, math.Pi)
-}
-
 // project keeps θ_i within its bounds (wrapping periodic angles).
 func (q *param) project(x float64) float64 {
 	if q.Periodic {

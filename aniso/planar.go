@@ -296,18 +296,6 @@ func (r *planarRule) panels(g *planarGeom, lo, hi, maxPanel float64) {
 	}
 }
 
-// wrapPi maps an angle to (−π, π].
-func wrapPi(a float64) float64 {
-	a = math.Mod(a, 2*math.Pi)
-	switch {
-	case a > math.Pi:
-		a -= 2 * math.Pi
-	case a <= -math.Pi:
-		a += 2 * math.Pi
-	}
-	return a
-}
-
 // besselI01e returns e^−b I0(b) and e^−b I1(b) for b ≥ 0: the power series
 // below b = 30 and the asymptotic expansion above it (Abramowitz & Stegun
 // 1964, 9.6.10 and 9.7.1), both to about 1e-15 relative.

@@ -402,12 +402,6 @@ func DefaultVerificationSettings(m *Model) VerificationSettings {
 	return s
 }
 
-// WrapDeg maps an angle in degrees into (−90, 90], where weft reports fibre
-// angles (a fibre has no sign, so angles are modulo 180°).
-func WrapDeg(a float64) float64 {
-	return wrapHalfPeriod(a, 180)
-}
-
 // uniqueDirections drops directions equal modulo 180° (within 1e-9°) to an
 // earlier one, keeping the order.
 func uniqueDirections(dirs []float64) []float64 {

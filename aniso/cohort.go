@@ -14,8 +14,9 @@ import (
 // the specimen's own parameters and angles, and fits it to all specimens'
 // data at once for a population model:
 //
-//  1. Candidate forms come from discovery's search (search.go, without the
-//     classical presets, cross-validation and polish) on a few scout
+//  1. Candidate forms come from discovery's search (its stages up to the
+//     Pareto front, see Discover, without the classical presets,
+//     cross-validation and polish) on a few scout
 //     specimens spread over the cohort; every form within ΔBIC 10 of its
 //     layout's best on a scout is a candidate.
 //  2. Every candidate is fitted to every specimen (its search subset): per
@@ -127,7 +128,7 @@ type cohortRun struct {
 	set CohortSettings
 	pl  *pool
 	out *Cohort
-	// sub are the specimens' search subsets (subset.go).
+	// sub are the specimens' search subsets (searchpoints.go).
 	sub []*Problem
 	// cands are the candidate forms, fits[c][i] candidate c fitted to
 	// specimen i's subset, cv[c][i] its score there.

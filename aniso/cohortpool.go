@@ -18,7 +18,7 @@ import (
 // pooled (ties: the first one's; the caller converts units); the others
 // are returned as left out.
 // The specimens' search subsets are pooled (at most searchPoints points per
-// protocol, see subset.go), so that the cost does not grow with the
+// protocol, see searchpoints.go), so that the cost does not grow with the
 // tester's sampling rate.
 func pooledProblem(ps []*Problem, searchPoints int) (pooled *Problem, in, out []int, err error) {
 	if len(ps) == 0 {

@@ -34,7 +34,7 @@ func formID(st Structure) string {
 	return fmt.Sprintf("%s|%t|%s", FormKey(st), st.HoldPairAxis, strings.Join(ls, "+"))
 }
 
-// screenSettings are the fit settings of the search (discover.go): they
+// screenSettings are the fit settings of the search (newSearch, discover.go): they
 // compare forms, so a looser tolerance and the cheaper quadrature serve.
 func (c *cohortRun) screenSettings() Settings {
 	s := c.set.Discover.Fit

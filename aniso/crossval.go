@@ -1,6 +1,10 @@
 package aniso
 
-import "math"
+import (
+	"fmt"
+	"math"
+	"strings"
+)
 
 // CVFold is one leave-one-protocol-out fold.
 type CVFold struct {
@@ -166,4 +170,86 @@ func crossMatrix(p *Problem, r *Result, set Settings, pl *pool) [][]float64 {
 	}
 	pl.run(jobs)
 	return out
+}
+
+// crossValidate leaves one protocol out for every candidate that could
+// speak for its form. Left out, and named in the search notes: one whose
+// BIC is more than cvBICWindow above its form's best (worse in-sample even
+// after the penalty for its size); a spread model with every family at the
+// fit's concentration bound (the ideal form's model with a parameter
+// more); and two families within 2° (one family, which the verdict would
+// not consider; see coincident), when the forms they reduce to are
+// searched. Presets are cross-validated for comparison.
+func (s *search) crossValidate() {
+	if len(s.p.Protocols) < 2 {
+		return
+	}
+	d := s.d
+	d.hasCV = true
+	var cands []*Candidate
+	minBIC := map[string]float64{}
+	for i := range d.Pareto {
+		k := FormKey(d.Pareto[i].Result.Structure)
+		if v, ok := minBIC[k]; !ok || d.Pareto[i].Result.BIC < v {
+			minBIC[k] = d.Pareto[i].Result.BIC
+		}
+	}
+	far := 0
+	var bound, one []string
+	why := map[*Candidate]string{} // why a model reduces to a simpler form's
+	for i := range d.Pareto {
+		c := &d.Pareto[i]
+		f, reduces := s.simplerForm(c.Result)
+		switch {
+		case c.Result.BIC-minBIC[FormKey(c.Result.Structure)] > cvBICWindow:
+			far++
+		case reduces && spreadAtBound(c.Result):
+			bound = append(bound, c.Name)
+			why[c] = fmt.Sprintf("every family of its models is spread at the fit's bound on the concentration (b = %d), an ideal family, which makes them %s's models with a parameter more", FitMaxConcentration, FormKey(f))
+		case reduces:
+			one = append(one, c.Name)
+			why[c] = fmt.Sprintf("its two families point the same way (%s), which is one family", anglesText(c.Result))
+		default:
+			cands = append(cands, c)
+		}
+	}
+	d.noteUnvalidated(cands, why)
+	for i := range d.Presets {
+		cands = append(cands, &d.Presets[i])
+	}
+	note := fmt.Sprintf("cross-validation: %d of the %d candidates cross-validated; %d left out because their BIC is more than %d above their form's best", len(d.Pareto)-far-len(bound)-len(one), len(d.Pareto), far, cvBICWindow)
+	if len(bound) > 0 {
+		note += fmt.Sprintf("; %s left out because every family of theirs is spread at the fit's bound on the concentration (b = %d, an ideal family within the resolution of a fitted angle), which makes them their ideal form's model with a parameter more", strings.Join(bound, ", "), FitMaxConcentration)
+	}
+	if len(one) > 0 {
+		note += fmt.Sprintf("; %s left out because their two families point the same way (within 2°), which makes them a one-family model with parameters more", strings.Join(one, ", "))
+	}
+	d.Search = append(d.Search, note)
+	crossValidate(s.p, cands, s.fitSet, s.pl)
+}
+
+// noteUnvalidated records every form of the front none of whose models is
+// among cands (the front models to be cross-validated) and that has a
+// model reducing to a simpler form's (why, keyed by candidate, says how),
+// with its lowest-BIC such model and the reason.
+func (d *Discovery) noteUnvalidated(cands []*Candidate, why map[*Candidate]string) {
+	has := map[string]bool{}
+	for _, c := range cands {
+		has[FormKey(c.Result.Structure)] = true
+	}
+	for i := range d.Pareto {
+		c := &d.Pareto[i]
+		k := FormKey(c.Result.Structure)
+		w, reduces := why[c]
+		if has[k] || !reduces {
+			continue
+		}
+		if old, ok := d.unvalidated[k]; ok && old.c.Result.BIC <= c.Result.BIC {
+			continue
+		}
+		if d.unvalidated == nil {
+			d.unvalidated = map[string]formLeftOut{}
+		}
+		d.unvalidated[k] = formLeftOut{c: c, why: w}
+	}
 }

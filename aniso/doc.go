@@ -111,4 +111,31 @@
 // reports as a correlation. Planar biaxial data constrain the in-plane
 // response only: the out-of-plane and I5-dependent response is not fully
 // determined by them (Holzapfel & Ogden 2009).
+//
+// # Where things live
+//
+// Mechanics: kinematics.go (F, C, the invariants and fibre kinematics),
+// model.go (Model, Evaluate), planar.go and the dispersion of the
+// Dispersion section, principal.go and fung.go (principal-stretch and
+// Green-strain terms), tangent.go, admissible.go (stability scans),
+// verify.go (verification load cases), split.go (matrix and fibre shares),
+// angles.go (Deg, Rad, WrapDeg).
+//
+// Fitting one form: problem.go (NewProblem), columns.go and engine.go (the
+// stress columns and the variable-projection loss), nnls.go, optimize.go
+// (Levenberg–Marquardt), scan.go (coarse angle starts), fit.go (Fit),
+// uncertainty.go and profile.go (standard errors, angle profiles),
+// predict.go (Predict, Metrics), band.go (prediction bands).
+//
+// Discovery, Discover in discover.go, runs these stages in turn, each in a
+// file named after it: the points it searches on (searchpoints.go); the
+// full forms (fullforms.go); the term-subset search (termsubsets.go) and
+// the refits and forward steps it feeds (refits.go); the spread variants
+// (spreadvariants.go); the Pareto front and fit quality (front.go);
+// leave-one-protocol-out cross-validation (crossval.go); the family verdict
+// (verdict.go, from the evidence of evidence.go) and the pick inside the
+// winning form (select.go); the polish on every point (polish.go). Forms,
+// layouts and presets are named in layout.go and formlabels.go; pool.go
+// is the one worker pool. Cohorts: cohort.go, cohortselect.go,
+// cohortpool.go. Test planning: design*.go (PlanTests).
 package aniso

@@ -120,7 +120,7 @@ func TestTissueDispersedRecruited(t *testing.T) {
 // deviation of about 3°; sutured, so the shear tells it from a mirror pair)
 // is learned as a spread family with b well inside the fit's bound of 200:
 // discovery leaves out of cross-validation only spread models whose every
-// family sits at that bound (discover.go, simplerForm), and this guards that
+// family sits at that bound (spreadvariants.go, simplerForm), and this guards that
 // a real spread near it is not among them. Unseen protocols within 2 %.
 func TestTissueConcentratedSpread(t *testing.T) {
 	if testing.Short() {

@@ -1,5 +1,9 @@
 package aniso
 
+// The term-subset search of discovery's second stage (refits.go): which
+// subsets of a full fit's terms to refit, ranked by non-negative least
+// squares on the full fit's columns at its angles and shape parameters.
+
 import (
 	"fmt"
 	"math"

@@ -30,8 +30,8 @@ protocol,stretch_1,stretch_2,load_1 [N],load_2 [N]
 	if !near(p.Stress[C11], 62.5, 1e-12) || !near(p.Stress[C22], 25, 1e-12) {
 		t.Errorf("P11, P22 = %v, %v kPa; want 62.5, 25 (hand-computed)", p.Stress[C11], p.Stress[C22])
 	}
-	// For a pure biaxial stretch σ11 = λ1 P11 (physics sheet §3, common
-	// practice); the reader keeps nominal stress and does not convert.
+	// For a pure biaxial stretch σ11 = λ1 P11 (package documentation,
+	// Loads to stress; common practice); the reader keeps nominal stress and does not convert.
 	if p.F[0] != 1.04 {
 		t.Errorf("stretch_1 = %v, want 1.04", p.F[0])
 	}

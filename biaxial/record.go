@@ -23,7 +23,7 @@ func (k Kinematics) String() string {
 }
 
 // Geometry is the reference geometry of a specimen, used to turn loads into
-// nominal stresses (physics sheet §3). All lengths are in millimetres.
+// nominal stresses (package documentation, Loads to stress). All lengths are in millimetres.
 type Geometry struct {
 	// Thickness is the reference thickness H (mm), metadata `thickness`.
 	Thickness float64

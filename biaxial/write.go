@@ -14,7 +14,8 @@ import (
 // non-zero) and every number in its shortest exact form.
 type Layout struct {
 	// Loads writes load_1, load_2 in LoadUnit instead of normal stresses:
-	// load_1 = P11·W2·H, load_2 = P22·W1·H (physics sheet §3). It needs
+	// load_1 = P11·W2·H, load_2 = P22·W1·H (package documentation, Loads
+	// to stress). It needs
 	// nominal stress and the specimen geometry; measured shear components
 	// are written as nominal_12, nominal_21 beside the loads.
 	Loads bool

@@ -5,6 +5,11 @@
 // otherwise strict (exact key case, no repeated keys, UTF-8, an object at
 // the top level, bounded size; see ParseLimits).
 //
+// A fit's card is built by FromFit (fromfit.go); the fitted data range and
+// the one test of whether a deformation lies outside it are DataRange and
+// Interval.Outside (datarange.go); the JSON Schema of a card is
+// model.schema.json, embedded and returned by Schema (schema.go).
+//
 // A card's numbers carry units: weights in the card's stress unit, angles in
 // degrees from axis 1 towards axis 2, everything else dimensionless. The
 // conventions are written into every card weft produces.

@@ -6,6 +6,15 @@
 // succeed, an output could not be written, or the run was interrupted);
 // 2 bad input (a test file, model card, flag or output path that cannot be
 // used, found before any output is written).
+//
+// The commands are listed in root.go (newRootCmd). Each lives in a file of
+// its own named after it (the terms command in termscmd.go), with its flags
+// in an xOptions struct that carries its input and output streams and a
+// runX function that tests call without cobra; errors.go maps typed errors
+// to exit codes. What the commands share goes to packages under internal/:
+// fitfolder (a fit's output folder), report and cohortreport (the HTML
+// reports), summary (printed summaries), planning (weft plan), fe (export,
+// check and evaluate documents), inspect, demo and safeout (atomic writes).
 package main
 
 import (

@@ -1,6 +1,8 @@
 // Package fe writes what a finite-element analyst needs from a model card:
 // the export document (parameters, the energy written out and a stress
-// verification table, as a table, CSV, JSON or LaTeX), the admissibility
+// verification table, as a table, CSV, JSON or LaTeX, or as a UFL form for
+// FEniCS, WriteExportUFL in ufl.go; the 3-D block of a card, ThreeDBlock in
+// threed.go, states what the in-plane data leave open), the admissibility
 // check report and the evaluation at one deformation, each with the
 // cautions and the fitted data range. The command line reads the card and
 // prints or writes the documents.

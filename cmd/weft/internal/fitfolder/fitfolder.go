@@ -4,7 +4,9 @@
 // fit.csv, the candidates' table selection.csv (when the model was
 // discovered), the held-out predictions heldout.csv (with two protocols
 // or more), the model curves curves.csv and the record as measured
-// raw.csv (when it was read whole). 'weft fit' and 'weft cohort' write
+// raw.csv (when it was read whole): WriteData, with the held-out
+// predictions built by HeldoutPredictions (heldout.go). 'weft fit' and
+// 'weft cohort' write
 // their folders through it and add the report, which is built from these
 // files as 'weft report' builds it. Its errors say what went wrong; the
 // command adds what to type.

@@ -1,9 +1,3 @@
-// Package planning is what 'weft plan' reads and writes around the
-// planning of the next test (package aniso ranks the tests): the fit
-// rebuilt from an output folder (ReadFolder), the plan as a table or JSON
-// (Report, Print), the top test's target path as CSV (PathCSV) and its
-// plot (Plot). Errors about the folder's files are *InputError, which the
-// command line maps to its bad-input exit code.
 package planning
 
 import (

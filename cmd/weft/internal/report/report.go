@@ -4,7 +4,7 @@
 // and the tables, see Parse), so a report can be rebuilt without refitting,
 // and it owns the tables it reads (WriteFitTable, WriteHeldoutTable,
 // WriteCurveTable, WriteRawTable) and the selection table written beside
-// them.
+// them (WriteSelectionTable), in tables.go and curvetable.go.
 package report
 
 import "path"

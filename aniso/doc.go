@@ -115,17 +115,20 @@
 // # Where things live
 //
 // Mechanics: kinematics.go (F, C, the invariants and fibre kinematics),
-// model.go (Model, Evaluate), planar.go and the dispersion of the
-// Dispersion section, principal.go and fung.go (principal-stretch and
+// model.go (Model, Evaluate, the dispersion κ), planar.go (in-plane
+// dispersion), principal.go and fung.go (principal-stretch and
 // Green-strain terms), tangent.go, admissible.go (stability scans),
 // verify.go (verification load cases), split.go (matrix and fibre shares),
+// mirror.go (mirror alternatives), sutured.go (shear under sutures),
 // angles.go (Deg, Rad, WrapDeg).
 //
 // Fitting one form: problem.go (NewProblem), columns.go and engine.go (the
 // stress columns and the variable-projection loss), nnls.go, optimize.go
-// (Levenberg–Marquardt), scan.go (coarse angle starts), fit.go (Fit),
-// uncertainty.go and profile.go (standard errors, angle profiles),
-// predict.go (Predict, Metrics), band.go (prediction bands).
+// (Levenberg–Marquardt), scan.go and scanmemo.go (coarse angle starts),
+// fit.go (Fit), uncertainty.go, combination.go and profile.go (standard
+// errors, correlated combinations, angle profiles), degenerate.go (terms
+// the data do not feel), result.go (Result), predict.go (Predict,
+// Metrics), band.go (prediction bands).
 //
 // Discovery, Discover in discover.go, runs these stages in turn, each in a
 // file named after it: the points it searches on (searchpoints.go); the

@@ -80,6 +80,16 @@ func (k StressKind) String() string {
 	return "cauchy"
 }
 
+// Symbol writes stress component comp ("11", "22", "12" or "21") of this
+// measure as weft prints it everywhere: "P11" for nominal stress, "σ11"
+// for Cauchy stress.
+func (k StressKind) Symbol(comp string) string {
+	if k == Nominal {
+		return "P" + comp
+	}
+	return "σ" + comp
+}
+
 // Component indexes a stress component in Point.Stress and Protocol.Weight.
 type Component int
 

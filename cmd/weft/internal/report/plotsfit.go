@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"github.com/weft-tools/weft/biaxial"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
@@ -15,12 +16,14 @@ import (
 // prediction), the shear components, the classical presets and the
 // residuals.
 
-// compSymbol is a stress component's symbol, e.g. "P11" or "σ22".
+// compSymbol is a stress component's symbol, e.g. "P11" or "σ22", for the
+// stress kind a card names ("nominal" or "cauchy").
 func compSymbol(kind, comp string) string {
-	if kind == "nominal" {
-		return "P" + comp
+	k := biaxial.Cauchy
+	if kind == biaxial.Nominal.String() {
+		k = biaxial.Nominal
 	}
-	return "σ" + comp
+	return k.Symbol(comp)
 }
 
 // kindName writes a stress kind as a name: "Cauchy" or "nominal".

@@ -132,7 +132,7 @@ func printMetrics(w io.Writer, s *biaxial.Specimen, r *aniso.Result) {
 		if m.NRMSEDefined {
 			nr = fmt.Sprintf("%.2f%%", 100*m.NRMSE)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, componentName(s.Kind, m.Component), r2, nr, m.RMSE)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.3g\n", m.Protocol, s.Kind.Symbol(m.Component), r2, nr, m.RMSE)
 	}
 	tw.Flush()
 }
@@ -149,7 +149,7 @@ func printSplit(w io.Writer, kind biaxial.StressKind, sp *card.SplitSection) {
 	noShare := false
 	for _, pp := range sp.Protocols {
 		for ci, c := range pp.Components {
-			line := pp.Protocol + "\t" + componentName(kind, c.Component)
+			line := pp.Protocol + "\t" + kind.Symbol(c.Component)
 			for _, g := range sp.Groups {
 				line += "\t" + num(float64(c.GroupShare[g])*100, "%.0f%%")
 			}
@@ -253,13 +253,4 @@ func printParameters(w io.Writer, r *aniso.Result) {
 	for _, f := range r.Flags {
 		fmt.Fprintf(w, "flag:     %s\n", f)
 	}
-}
-
-// componentName writes a stress component as the report does: "P11" for
-// nominal stress, "σ11" for Cauchy stress.
-func componentName(k biaxial.StressKind, comp string) string {
-	if k == biaxial.Nominal {
-		return "P" + comp
-	}
-	return "σ" + comp
 }

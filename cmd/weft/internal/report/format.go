@@ -53,9 +53,6 @@ func fixed(x float64, d int) string {
 	return trueMinus(s)
 }
 
-// fnum formats a table cell with n significant digits.
-func fnum(x float64, n int) string { return fsig(x, n) }
-
 // fmtNum formats a number in a plot's text with n significant digits;
 // undefined is "n/a".
 func fmtNum(x float64, n int) string {

@@ -391,11 +391,11 @@ func (in *Input) presetsFigure(strain bool) *figure {
 	heldout := map[string]string{}
 	if in.sel != nil {
 		for _, c := range in.sel.Presets {
-			heldout[strings.TrimPrefix(c.Name, "preset:")] = fnum(float64(c.HeldoutError), 2)
+			heldout[strings.TrimPrefix(c.Name, "preset:")] = fsig(float64(c.HeldoutError), 2)
 		}
 		for _, c := range in.sel.Pareto {
 			if c.Chosen {
-				heldout["model"] = fnum(float64(c.HeldoutError), 2)
+				heldout["model"] = fsig(float64(c.HeldoutError), 2)
 			}
 		}
 	}

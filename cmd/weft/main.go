@@ -11,7 +11,8 @@
 // its own named after it (the terms command in termscmd.go), with its flags
 // in an xOptions struct that carries its input and output streams and a
 // runX function that tests call without cobra; errors.go maps typed errors
-// to exit codes. What the commands share goes to packages under internal/:
+// to exit codes, and cardread.go holds what export, check and evaluate
+// share (reading a card and its data range). What the commands share goes to packages under internal/:
 // fitfolder (a fit's output folder), report and cohortreport (the HTML
 // reports), summary (printed summaries), planning (weft plan), fe (export,
 // check and evaluate documents), inspect, demo and safeout (atomic writes).

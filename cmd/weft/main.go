@@ -12,10 +12,11 @@
 // in an xOptions struct that carries its input and output streams and a
 // runX function that tests call without cobra; errors.go maps typed errors
 // to exit codes, and cardread.go holds what export, check and evaluate
-// share (reading a card and its data range). What the commands share goes to packages under internal/:
-// fitfolder (a fit's output folder), report and cohortreport (the HTML
-// reports), summary (printed summaries), planning (weft plan), fe (export,
-// check and evaluate documents), inspect, demo and safeout (atomic writes).
+// share (reading a card and its data range). What the commands share
+// beyond that lives in packages under internal/: fitfolder (a fit's
+// output folder), report and cohortreport (the HTML reports), summary
+// (printed summaries), planning (weft plan), fe (export, check and
+// evaluate documents), inspect, demo and safeout (atomic writes).
 package main
 
 import (

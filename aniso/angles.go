@@ -3,9 +3,11 @@ package aniso
 import "math"
 
 // Angles are read and written in degrees and kept in radians inside (see
-// the package documentation). Deg and Rad are the one place that converts;
-// they multiply before they divide, so every conversion rounds alike. The
-// wrappers below are the one place that reduces an angle to its period.
+// the package documentation). Deg and Rad are the one place in this package
+// and those that import it that converts (package biaxial, below it,
+// converts its one angle itself); they multiply before they divide, so
+// every conversion rounds alike. The wrappers below are the one place that
+// reduces an angle to its period.
 
 // Deg converts an angle in radians to degrees.
 func Deg(rad float64) float64 { return rad * 180 / math.Pi }

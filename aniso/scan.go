@@ -127,7 +127,7 @@ type scanPoint struct {
 // offSymmetry moves an angle that sits on 0 or 90° (stationary points of
 // the loss by mirror symmetry when the data have no shear) by half a degree.
 func offSymmetry(a float64) float64 {
-	const nudge = 0.5 * math.Pi / 180
+	nudge := Rad(0.5)
 	w := wrapAngle(a)
 	switch {
 	case math.Abs(w) < nudge/2:

@@ -119,7 +119,7 @@ func (r *Result) uncertainty(p *Problem) {
 		unit[a] = 1
 		switch r.Estimates[c.est].Kind {
 		case "angle":
-			unit[a] = 180 / math.Pi
+			unit[a] = Deg(1) // degrees per radian
 		case "weight":
 			// The fitter's weights are in units of p.Scale (Problem.Scale).
 			unit[a] = p.Scale

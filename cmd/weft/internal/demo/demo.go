@@ -33,7 +33,7 @@ func shapeTerm(id string, fam int, w float64, params ...float64) aniso.Term {
 }
 
 func demoSpecimens() []demoSpecimen {
-	deg := math.Pi / 180
+	deg := aniso.Rad(1)
 	m1 := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: 30 * deg}}, Terms: []aniso.Term{
 		shapeTerm("i1-lin", -1, 4), shapeTerm("fib-expsq", 0, 60, 8)}}
 	p2 := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: 5 * deg}, {Name: "f2", Angle: 80 * deg}}, Terms: []aniso.Term{

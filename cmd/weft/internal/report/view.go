@@ -525,9 +525,7 @@ func (in *Input) anglesOf(c card.CandidateCard) string {
 	}
 	out := strings.Join(s, ", ")
 	if len(c.AnglesDeg) == 2 {
-		d := math.Abs(math.Mod(float64(c.AnglesDeg[0]-c.AnglesDeg[1])+540, 180) - 0)
-		d = math.Min(d, 180-d)
-		if d < 2 && !in.signUnknown() {
+		if d := math.Abs(aniso.WrapDeg(float64(c.AnglesDeg[0] - c.AnglesDeg[1]))); d < 2 && !in.signUnknown() {
 			out += " (coincident: one direction)"
 		}
 	}

@@ -135,10 +135,15 @@
 // full forms (fullforms.go); the term-subset search (termsubsets.go) and
 // the refits and forward steps it feeds (refits.go); the spread variants
 // (spreadvariants.go); the Pareto front and fit quality (front.go);
-// leave-one-protocol-out cross-validation (crossval.go); the family verdict
-// (verdict.go, from the evidence of evidence.go) and the pick inside the
-// winning form (select.go); the polish on every point (polish.go). Forms,
-// layouts and presets are named in layout.go and formlabels.go; pool.go
-// is the one worker pool. Cohorts: cohort.go, cohortselect.go,
-// cohortpool.go. Test planning: design*.go (PlanTests).
+// leave-one-protocol-out cross-validation (crossval.go); the decision
+// (select.go: its rule, first the family verdict, then the pick inside the
+// winning form; verdict.go writes the verdict up from the evidence of
+// evidence.go); the polish on every point (polish.go). runRefits
+// (fullforms.go) fits a stage's refits side by side on pool.go's workers,
+// the package's one pool. Forms, layouts and presets are named in
+// layout.go and formlabels.go. Cohorts (cohort.go, cohortselect.go,
+// cohortpool.go) run the search stages on scout specimens. Test planning:
+// design.go (PlanTests), design_candidates.go (candidate tests and their
+// extrapolation), design_info.go (information gain), design_questions.go
+// (the questions a test can answer), design_score.go (scores).
 package aniso

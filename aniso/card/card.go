@@ -5,9 +5,9 @@
 // otherwise strict (exact key case, no repeated keys, UTF-8, an object at
 // the top level, bounded size; see ParseLimits).
 //
-// A fit's card is built by FromFit (fromfit.go); the fitted data range and
-// the one test of whether a deformation lies outside it are DataRange and
-// Interval.Outside (datarange.go); the JSON Schema of a card is
+// A fit's card is built by FromFit (fromfit.go); the fitted data range is
+// DataRange, and DataRange.Outside the one test of whether a deformation
+// lies outside it (datarange.go); the JSON Schema of a card is
 // model.schema.json, embedded and returned by Schema (schema.go).
 //
 // A card's numbers carry units: weights in the card's stress unit, angles in

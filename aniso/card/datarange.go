@@ -131,7 +131,9 @@ func (dr *DataRange) HasFibreStretch(m *aniso.Model) bool {
 // range: F11, F22, the shears F12 and F21 (each against its own range,
 // ShearRanges), and the fibre stretch √I4 of each family of m, e.g.
 // "F11 = 1.3 outside [1, 1.2]". It is empty when F lies inside. It is the
-// one test of "inside the fitted data range" every command uses.
+// one test of "inside the fitted data range" of a deformation that every
+// command uses; planning judges a planned test's whole path against the
+// tested stretches with a margin instead (aniso.ExtrapolationMargin).
 func (dr *DataRange) Outside(m *aniso.Model, F [4]float64) []string {
 	var out []string
 	check := func(name string, v float64, r Interval) {

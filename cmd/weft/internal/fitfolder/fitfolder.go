@@ -6,10 +6,9 @@
 // or more), the model curves curves.csv and the record as measured
 // raw.csv (when it was read whole): WriteData, with the held-out
 // predictions built by HeldoutPredictions (heldout.go). 'weft fit' and
-// 'weft cohort' write
-// their folders through it and add the report, which is built from these
-// files as 'weft report' builds it. Its errors say what went wrong; the
-// command adds what to type.
+// 'weft cohort' write their folders through it and add the report, which
+// is built from these files as 'weft report' builds it. Its errors say
+// what went wrong; the command adds what to type.
 package fitfolder
 
 import (
@@ -107,8 +106,9 @@ func WriteCardAndTables(o *Outcome, od safeout.Sink) error {
 	return od.Write("heldout.csv", buf.Bytes())
 }
 
-// Files lists the files WriteData writes for o, followed by the report's
-// (report.html and plots/), for a summary of what a folder holds.
+// Files lists the files WriteData writes for o, in the order a summary of
+// what a folder holds names them (not the order they are written),
+// followed by the report's (report.html and plots/).
 func Files(o *Outcome) []string {
 	files := []string{"model.json", "fit.csv"}
 	if o.Discovery != nil {

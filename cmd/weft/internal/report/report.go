@@ -5,6 +5,12 @@
 // and it owns the tables it reads (WriteFitTable, WriteHeldoutTable,
 // WriteCurveTable, WriteRawTable) and the selection table written beside
 // them (WriteSelectionTable), in tables.go and curvetable.go.
+//
+// Parse (load.go) reads a folder; Build (report.go) draws it: the page's
+// sections are built by small functions in view.go and sections.go into
+// the template report.html (html.go), the plots in plots*.go, the
+// formulas as MathML in mathml.go. export.go holds what the cohort report
+// reuses of the drawing.
 package report
 
 import "path"

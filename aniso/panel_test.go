@@ -15,22 +15,29 @@ var panelFile = filepath.Join("testdata", "verdict-panel.txt")
 const panelHeader = `# Outcomes of TestVerdictPanel (aniso/panel_test.go), one line a specimen.
 # The specimens are made by independent numerical integration of the fibre
 # stress over directions (aniso/independent_test.go), not by weft's catalogue;
-# the truth is two fibre families in every case. Regenerate with
+# the truth is two fibre families in the first fourteen, one family (without
+# shear information: 1-or-mirror-pair) in the last eighteen. Regenerate with
 #   WEFT_VERDICT_PANEL=update go test -run TestVerdictPanel ./aniso
 `
 
-// TestVerdictPanel discovers a panel of two-family specimens made by
-// independent numerical integration (independent_test.go) and compares
-// every verdict, chosen model and angle with the outcomes pinned in
+// TestVerdictPanel discovers a panel of specimens made by independent
+// numerical integration (independent_test.go) and compares every verdict,
+// chosen model and angle with the outcomes pinned in
 // testdata/verdict-panel.txt. The panel holds the cases whose verdict
 // depends most on the search's path: two equal-order families without
 // shear information at 5°/80°, 0°/60°, 10°/70° and 0°/90° (three noise
 // seeds each) and, with shear information, at 10°/70° (two seeds); 2 %
-// noise, 30 points a protocol. The truth is two families in every case,
-// but without shear information 30 points often cannot show it out of
-// sample, and the held-out evidence decides (select.go).
+// noise, 30 points a protocol. The truth is two families in those, but
+// without shear information 30 points often cannot show it out of
+// sample, and the held-out evidence decides (select.go). Eighteen
+// one-family specimens in the same conditions guard the other way, that
+// the in-sample rule (inSampleDisagreement) does not turn a right
+// one-family verdict into an undecided one: a neo-Hookean, a
+// principal-stretch (Ogden 1972, α = 9) and an exponential (Demiray 1972)
+// matrix, each with an ideal family at 60°, a family spread about 35°
+// (concentration 2) or gradually recruited fibres at 30°, two seeds each.
 //
-// It runs only when WEFT_VERDICT_PANEL is set (about 30 s of CPU time):
+// It runs only when WEFT_VERDICT_PANEL is set (about 45 s of CPU time):
 // "1" compares, "update" rewrites the file. A change that moves the
 // search's path (damping, subsets, starts, stopping) runs it before it
 // lands, and its commit says which outcomes moved and whether towards the
@@ -70,7 +77,10 @@ func TestVerdictPanel(t *testing.T) {
 			right++
 		}
 	}
-	t.Logf("verdict 2 (the truth) in %d of %d cases", right, len(cases))
+	t.Logf("verdict 2 (the truth) in %d of %d two-family cases", right, len(cases))
+	oneRight, oneLines := onePanel(t)
+	lines = append(lines, oneLines...)
+	t.Logf("verdict 1-or-mirror-pair (the truth) in %d of %d one-family cases", oneRight, len(oneLines))
 	if mode == "update" {
 		if err := os.WriteFile(panelFile, []byte(panelHeader+strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
 			t.Fatal(err)
@@ -102,4 +112,37 @@ func TestVerdictPanel(t *testing.T) {
 	if t.Failed() {
 		t.Logf("verdict 2 in %d cases now, %d pinned", right, pinned)
 	}
+}
+
+// onePanel discovers the panel's one-family specimens (see TestVerdictPanel)
+// and returns how many were called 1-or-mirror-pair and their outcome lines.
+func onePanel(t *testing.T) (right int, lines []string) {
+	matrices := []struct {
+		name string
+		of   func(f spreadFamily) material
+	}{
+		{"neo-Hookean", func(f spreadFamily) material { return fibreMaterial(3, f) }},
+		{"Ogden α = 9", func(f spreadFamily) material { return plus(ogdenMaterial(3, 9), fibreMaterial(0, f)) }},
+		{"Demiray", func(f spreadFamily) material { return plus(demirayMatrix(3, 1.5), fibreMaterial(0, f)) }},
+	}
+	families := []struct {
+		name string
+		f    spreadFamily
+	}{
+		{"ideal 60°", spreadFamily{60 * deg, -1, expSqFibre(30, 4)}},
+		{"spread 35° (b = 2)", spreadFamily{35 * deg, 2, expSqFibre(40, 3)}},
+		{"recruited 30°", spreadFamily{30 * deg, -1, recruitedFibre(200, 1.02, 0.1)}},
+	}
+	for _, m := range matrices {
+		for _, f := range families {
+			for seed := uint64(1); seed <= 2; seed++ {
+				d, _ := discoverSpecimen(t, synthFrom(t, m.of(f.f), synthOptions{noise: 0.02, points: 30, seed: seed}))
+				lines = append(lines, fmt.Sprintf("one family, %s matrix, %s, no shear, seed %d: verdict %s, chosen %s (%s)", m.name, f.name, seed, d.Verdict.Families, d.Best().Name, anglesText(d.Best().Result)))
+				if d.Verdict.Families == "1-or-mirror-pair" {
+					right++
+				}
+			}
+		}
+	}
+	return right, lines
 }

@@ -38,6 +38,12 @@ type Verdict struct {
 	// Decider names the extra measurement that would settle an undecided
 	// case, or is empty.
 	Decider string
+	// InSampleBest names the candidate (in Discovery.Pareto) with two
+	// fibre directions that fits the data better in sample than every
+	// one-direction model, by ΔBIC ≥ DisagreeDeltaBIC, when that is why the
+	// verdict is undecided (the held-out errors favour one direction; see
+	// inSampleDisagreement); empty otherwise.
+	InSampleBest string
 }
 
 // LayoutComparison is one step of the walk over forms: whether a richer

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"flag"
+	"fmt"
 	"math"
 	"os"
 	"strings"
@@ -248,6 +249,7 @@ func verdictSchema() obj {
 			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive"}}},
 			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes; and forms not considered, with why"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
+			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate with two fibre directions that fits better in sample (BIC at least %g lower) than every one-direction model while the held-out errors favour one direction, when that is why the verdict is undecided", aniso.DisagreeDeltaBIC)}}},
 		}},
 	}
 }

@@ -89,6 +89,11 @@ type VerdictSection struct {
 	StdErrFloor Num `json:"stderr_floor"`
 	// Decider names the measurement that would settle an undecided case.
 	Decider string `json:"decider,omitempty"`
+	// InSampleBest names the selection candidate with two fibre directions
+	// that fits better in sample than every one-direction model, when that
+	// disagreement with the held-out errors is why the verdict is
+	// undecided (aniso.Verdict.InSampleBest).
+	InSampleBest string `json:"in_sample_best,omitempty"`
 }
 
 // ComparisonCard is one step of the verdict's walk over forms.
@@ -106,7 +111,7 @@ type ComparisonCard struct {
 // NewVerdictSection describes discovery's verdict; form is the key of the
 // chosen model's form.
 func NewVerdictSection(v aniso.Verdict, form string) VerdictSection {
-	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider,
+	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider, InSampleBest: v.InSampleBest,
 		DeltaBIC: map[string]Num{}, HeldoutError: map[string]Num{}, RuledOut: append([]string{}, v.RuledOut...), Comparisons: []ComparisonCard{},
 		Noise: Num(v.Noise), StdErrFloor: Num(v.StdErrFloor)}
 	for k, x := range v.DeltaBIC {

@@ -293,3 +293,56 @@ func BenchmarkPlan(b *testing.B) {
 		}
 	}
 }
+
+// A verdict left undecided because a two-direction model fits better in
+// sample than every one-direction model (in_sample_best; no suggestive
+// step in the walk) is scored too: the plan pits the chosen model against
+// that candidate.
+func TestPlanInSampleUndecidedVerdict(t *testing.T) {
+	t.Parallel()
+	dir := demoFitCopy(t, "membrane-M1")
+	p := filepath.Join(dir, "model.json")
+	b, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var raw map[string]any
+	if err := json.Unmarshal(b, &raw); err != nil {
+		t.Fatal(err)
+	}
+	free := ""
+	for _, c := range raw["selection"].(map[string]any)["pareto"].([]any) {
+		c := c.(map[string]any)
+		if name := c["name"].(string); strings.HasPrefix(name, "free-") && c["model"] != nil {
+			free = name
+		}
+	}
+	if free == "" {
+		t.Fatal("the demo's selection has no two-free-family candidate with its model")
+	}
+	v := raw["verdict"].(map[string]any)
+	v["families"] = "undecided"
+	v["in_sample_best"] = free
+	for _, c := range v["comparisons"].([]any) {
+		if c.(map[string]any)["suggestive"] == true {
+			t.Fatal("the demo's walk already has a suggestive step; the test needs none")
+		}
+	}
+	b, _ = json.MarshalIndent(raw, "", "  ")
+	if err := os.WriteFile(p, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	pl, _ := planJSON(t, dir)
+	found := false
+	for _, q := range pl.Questions {
+		if q.Topic == "fibre families (undecided verdict)" {
+			found = true
+			if !q.Verdict || len(q.Explanations) != 2 || !strings.Contains(q.Explanations[1], "form 2-free ("+free+":") {
+				t.Errorf("undecided question %+v, want %s against the chosen model", q, free)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("no question for the undecided verdict: %+v", pl.Questions)
+	}
+}

@@ -260,7 +260,9 @@ func candidateForm(cc *card.CandidateCard) string {
 }
 
 // undecidedQuestion pits the chosen model against the best model of the
-// richer form the undecided verdict points towards.
+// richer form the undecided verdict points towards, or against the model
+// with two fibre directions that fits better in sample when that is why
+// the verdict is undecided (in_sample_best).
 func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	v, sel := f.card.Verdict, f.card.Selection
 	if sel == nil {
@@ -275,6 +277,12 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	var best *card.CandidateCard
 	for i := range sel.Pareto {
 		cc := &sel.Pareto[i]
+		if toward == "" && v.InSampleBest != "" {
+			if cc.Name == v.InSampleBest && cc.Model != nil {
+				best, toward = cc, candidateForm(cc)
+			}
+			continue
+		}
 		if candidateForm(cc) != toward || cc.Model == nil || math.IsNaN(float64(cc.HeldoutError)) {
 			continue
 		}

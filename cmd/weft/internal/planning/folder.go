@@ -274,10 +274,11 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 			toward = lc.Richer
 		}
 	}
+	inSample := toward == "" && v.InSampleBest != ""
 	var best *card.CandidateCard
 	for i := range sel.Pareto {
 		cc := &sel.Pareto[i]
-		if toward == "" && v.InSampleBest != "" {
+		if inSample {
 			if cc.Name == v.InSampleBest && cc.Model != nil {
 				best, toward = cc, candidateForm(cc)
 			}

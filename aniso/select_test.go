@@ -238,9 +238,7 @@ func TestRuledOutNamesTheFormsLowestBIC(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	spec := synthFrom(t, fibreMaterial(3, spreadFamily{10 * deg, -1, expSqFibre(30, 4)}, spreadFamily{70 * deg, -1, expSqFibre(25, 3)}),
-		synthOptions{noise: 0.02, points: 30, seed: 1})
-	d, _ := discoverSpecimen(t, spec)
+	d, _ := tenSeventy(t)
 	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 	var free string
 	for _, n := range d.Verdict.RuledOut {
@@ -375,9 +373,7 @@ func TestInSampleDisagreementIsUndecided(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	spec := synthFrom(t, fibreMaterial(3, spreadFamily{10 * deg, -1, expSqFibre(30, 4)}, spreadFamily{70 * deg, -1, expSqFibre(25, 3)}),
-		synthOptions{noise: 0.02, points: 30, seed: 1})
-	d, p := discoverSpecimen(t, spec)
+	d, p := tenSeventy(t)
 	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 	if d.Verdict.Families != "undecided" {
 		t.Fatalf("verdict %s, want undecided", d.Verdict.Families)
@@ -409,4 +405,15 @@ func TestInSampleDisagreementIsUndecided(t *testing.T) {
 	if l := d.Best().Result.Structure.Layout; l != LayoutSingle && l != LayoutMirror {
 		t.Errorf("chosen %s: the pick should stay the held-out errors' one-direction model", d.Best().Name)
 	}
+}
+
+// tenSeventy discovers (once per test binary, see discoverSpecimen) two
+// equal-order families at 10° and 70° without shear information, made by
+// independent numerical integration: 30 points a protocol, 2 % noise,
+// noise seed 1.
+func tenSeventy(t *testing.T) (*Discovery, *Problem) {
+	t.Helper()
+	spec := synthFrom(t, fibreMaterial(3, spreadFamily{10 * deg, -1, expSqFibre(30, 4)}, spreadFamily{70 * deg, -1, expSqFibre(25, 3)}),
+		synthOptions{noise: 0.02, points: 30, seed: 1})
+	return discoverSpecimen(t, spec)
 }

@@ -162,26 +162,15 @@ func checkPlannedPath(t *testing.T, path string, c planning.Candidate, points in
 func TestPlanUndecidedVerdict(t *testing.T) {
 	t.Parallel()
 	dir := demoFitCopy(t, "membrane-M1")
-	p := filepath.Join(dir, "model.json")
-	b, err := os.ReadFile(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var raw map[string]any
-	if err := json.Unmarshal(b, &raw); err != nil {
-		t.Fatal(err)
-	}
-	v := raw["verdict"].(map[string]any)
-	v["families"] = "undecided"
-	for _, c := range v["comparisons"].([]any) {
-		if c := c.(map[string]any); c["richer"] == "2-mirror" {
-			c["suggestive"] = true
+	editCard(t, dir, func(raw map[string]any) {
+		v := raw["verdict"].(map[string]any)
+		v["families"] = "undecided"
+		for _, c := range v["comparisons"].([]any) {
+			if c := c.(map[string]any); c["richer"] == "2-mirror" {
+				c["suggestive"] = true
+			}
 		}
-	}
-	b, _ = json.MarshalIndent(raw, "", "  ")
-	if err := os.WriteFile(p, b, 0o644); err != nil {
-		t.Fatal(err)
-	}
+	})
 	pl, _ := planJSON(t, dir)
 	found := false
 	for _, q := range pl.Questions {
@@ -301,40 +290,29 @@ func BenchmarkPlan(b *testing.B) {
 func TestPlanInSampleUndecidedVerdict(t *testing.T) {
 	t.Parallel()
 	dir := demoFitCopy(t, "membrane-M1")
-	p := filepath.Join(dir, "model.json")
-	b, err := os.ReadFile(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var raw map[string]any
-	if err := json.Unmarshal(b, &raw); err != nil {
-		t.Fatal(err)
-	}
-	// The first two-free-family candidate with its model: in the demo a
-	// later one of the same form has a lower held-out error, and the plan
-	// must still take the candidate the verdict names.
 	free := ""
-	for _, c := range raw["selection"].(map[string]any)["pareto"].([]any) {
-		c := c.(map[string]any)
-		if name := c["name"].(string); free == "" && strings.HasPrefix(name, "free-") && c["model"] != nil {
-			free = name
+	editCard(t, dir, func(raw map[string]any) {
+		// The first two-free-family candidate with its model: in the demo
+		// a later one of the same form has a lower held-out error, and the
+		// plan must still take the candidate the verdict names.
+		for _, c := range raw["selection"].(map[string]any)["pareto"].([]any) {
+			c := c.(map[string]any)
+			if name := c["name"].(string); free == "" && strings.HasPrefix(name, "free-") && c["model"] != nil {
+				free = name
+			}
 		}
-	}
-	if free == "" {
-		t.Fatal("the demo's selection has no two-free-family candidate with its model")
-	}
-	v := raw["verdict"].(map[string]any)
-	v["families"] = "undecided"
-	v["in_sample_best"] = free
-	for _, c := range v["comparisons"].([]any) {
-		if c.(map[string]any)["suggestive"] == true {
-			t.Fatal("the demo's walk already has a suggestive step; the test needs none")
+		if free == "" {
+			t.Fatal("the demo's selection has no two-free-family candidate with its model")
 		}
-	}
-	b, _ = json.MarshalIndent(raw, "", "  ")
-	if err := os.WriteFile(p, b, 0o644); err != nil {
-		t.Fatal(err)
-	}
+		v := raw["verdict"].(map[string]any)
+		v["families"] = "undecided"
+		v["in_sample_best"] = free
+		for _, c := range v["comparisons"].([]any) {
+			if c.(map[string]any)["suggestive"] == true {
+				t.Fatal("the demo's walk already has a suggestive step; the test needs none")
+			}
+		}
+	})
 	pl, _ := planJSON(t, dir)
 	found := false
 	for _, q := range pl.Questions {
@@ -347,5 +325,25 @@ func TestPlanInSampleUndecidedVerdict(t *testing.T) {
 	}
 	if !found {
 		t.Errorf("no question for the undecided verdict: %+v", pl.Questions)
+	}
+}
+
+// editCard applies edit to the model.json of the output folder dir, read
+// as generic JSON, and writes it back.
+func editCard(t *testing.T, dir string, edit func(raw map[string]any)) {
+	t.Helper()
+	p := filepath.Join(dir, "model.json")
+	b, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var raw map[string]any
+	if err := json.Unmarshal(b, &raw); err != nil {
+		t.Fatal(err)
+	}
+	edit(raw)
+	b, _ = json.MarshalIndent(raw, "", "  ")
+	if err := os.WriteFile(p, b, 0o644); err != nil {
+		t.Fatal(err)
 	}
 }

@@ -128,7 +128,7 @@
 // fit.go (Fit), uncertainty.go, combination.go and profile.go (standard
 // errors, correlated combinations, angle profiles), degenerate.go (terms
 // the data do not feel), result.go (Result), predict.go (Predict,
-// Metrics), band.go (prediction bands).
+// Metrics), band.go (confidence bands of the model curve).
 //
 // Discovery, Discover in discover.go, runs these stages in turn, each in a
 // file named after it: the points it searches on (searchpoints.go); the
@@ -139,8 +139,8 @@
 // (select.go: its rule, first the family verdict, then the pick inside the
 // winning form; verdict.go writes the verdict up from the evidence of
 // evidence.go); the polish on every point (polish.go). runRefits
-// (fullforms.go) fits a stage's refits side by side on pool.go's workers,
-// the package's one pool. Forms, layouts and presets are named in
+// (fullforms.go) fits a stage's refits side by side on workers of pool.go,
+// the package's one pool type (scans and profiles size their own). Forms, layouts and presets are named in
 // layout.go and formlabels.go. Cohorts (cohort.go, cohortselect.go,
 // cohortpool.go) run the search stages on scout specimens. Test planning:
 // design.go (PlanTests), design_candidates.go (candidate tests and their

@@ -42,7 +42,7 @@
 // versa) the nominal stresses are P11 = f1/(W2 H) and P22 = f2/(W1 H)
 // (common practice; e.g. Sacks 2000). For a pure biaxial stretch the Cauchy
 // stresses are σ11 = λ1 P11 and σ22 = λ2 P22. Loads are read in N, mN or
-// gram-force, lengths in mm or m; the reader's conversion is
+// gram-force, lengths in µm, mm or m; the reader's conversion is
 // tableParser.loadFactor in header.go, the writer's Layout.Loads.
 //
 // # Stretches, cycles and the reference state

@@ -5,8 +5,9 @@
 // invariant x_k with a few non-linear parameters θ_k (stiffening coefficients, limits). This
 // package knows the shapes only: their arguments, closed-form values and
 // derivatives, parameter bounds, what the weight means and whether the shape
-// keeps the energy polyconvex. It knows nothing about data, fibres' angles or
-// stress; package aniso turns shapes into stress.
+// keeps the energy polyconvex, and the classical presets (named published
+// forms with example parameters, presets.go). It knows nothing about data
+// or fibre kinematics; package aniso turns shapes into stress.
 //
 // Arguments (zero in the undeformed reference state, except the principal
 // stretches, which are 1 there):
@@ -37,7 +38,7 @@
 // differences a stress needs where two principal stretches meet (Divided).
 //
 // Evaluation is overflow-safe: an exponential shape at a large argument
-// returns +Inf, never NaN, and a limiting-extensibility shape beyond its
+// returns ±Inf, never NaN, and a limiting-extensibility shape beyond its
 // limit returns +Inf.
 package terms
 

@@ -6,13 +6,15 @@
 // the top level, bounded size; see ParseLimits).
 //
 // A fit's card is built by FromFit (fromfit.go); the fitted data range is
-// DataRange, and DataRange.Outside the one test of whether a deformation
-// lies outside it (datarange.go); the JSON Schema of a card is
+// DataRange, whose Outside tests one deformation against it and
+// Interval.Outside one span (datarange.go); the JSON Schema of a card is
 // model.schema.json, embedded and returned by Schema (schema.go).
 //
-// A card's numbers carry units: weights in the card's stress unit, angles in
-// degrees from axis 1 towards axis 2, everything else dimensionless. The
-// conventions are written into every card weft produces.
+// A card's numbers carry units: weights, RMSE and stress ranges in the
+// card's stress unit, angles in degrees from axis 1 towards axis 2, the
+// specimen's geometry in mm, model parameters dimensionless; each field's
+// comment says which. The conventions are written into every card weft
+// produces.
 package card
 
 import (

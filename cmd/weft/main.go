@@ -11,17 +11,18 @@
 // its own named after it (the terms command in termscmd.go), with its flags
 // in an xOptions struct that carries its input and output streams and a
 // runX function that tests call without cobra. errors.go maps typed errors
-// to exit codes (exitCode); run, in this file, adds the cases cobra and
-// the process raise (an unknown command, a failed write to standard
-// output, an interrupt). Shared inside this package: readflags.go and
-// limits.go (the reading flags and limits), cardread.go (reading a card
-// and its data range, for export, check, evaluate and predict),
-// provenance.go (a fit's provenance), progress.go (the progress bar on a
-// terminal), streams.go; cohort.go reuses fit.go's form flags and folder
-// writing. The rest lives in packages under internal/: fitfolder (a fit's
-// output folder), report and cohortreport (the HTML reports), summary
-// (printed summaries), planning (weft plan), fe (export, check and
-// evaluate documents), inspect, demo and safeout (atomic writes).
+// to exit codes (exitCode); run, in this file, adds the cases cobra and the
+// process raise (an unknown command, a failed write to standard output, a
+// panic), and interrupted the exit code of an interrupt. Shared inside this
+// package: readflags.go and limits.go (the reading flags and limits),
+// cardread.go (reading a card and its data range, for export, check,
+// evaluate and predict), provenance.go (a fit's provenance), progress.go
+// (the progress bar on a terminal), streams.go; cohort.go reuses fit.go's
+// form flags and folder writing. The rest lives in packages under
+// internal/: fitfolder (a fit's output folder), report and cohortreport
+// (the HTML reports), summary (printed summaries), planning (weft plan), fe
+// (export, check and evaluate documents), inspect, demo and safeout (atomic
+// writes).
 package main
 
 import (

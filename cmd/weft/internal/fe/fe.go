@@ -4,8 +4,9 @@
 // FEniCS, WriteExportUFL in ufl.go; the 3-D block of a card, ThreeDBlock in
 // threed.go, states what the in-plane data leave open), the admissibility
 // check report and the evaluation at one deformation, each with the
-// cautions and the fitted data range. The command line reads the card and
-// prints or writes the documents.
+// cautions; the export and the check carry the fitted data range, and the
+// evaluation warns when the deformation lies outside it. The command line
+// reads the card and prints or writes the documents.
 package fe
 
 import (

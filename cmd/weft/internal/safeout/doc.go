@@ -1,6 +1,8 @@
 // Package safeout writes weft's outputs so that a user's files are never
 // lost. It is the one place that creates, replaces or removes anything at
-// an output path:
+// an output path, but for the folder 'weft fit -o' makes to hold several
+// specimens' folders, which is created empty and removed again only if it
+// is still empty:
 //
 //   - every output goes to a temporary sibling (".NAME.weft-tmp-…") and is
 //     renamed into place only when it is complete, so a reader sees the old
@@ -20,7 +22,8 @@
 //     lock files and leaves the outputs already in place.
 //
 // The package says what is wrong, never what to type: every error it
-// returns is an *Error carrying the problem, the path the user gave and the
-// details, and the command line adds its advice (Error.Advice) and decides
-// the exit code from it.
+// returns about an output path is an *Error carrying the problem, the path
+// the user gave and the details, and the command line adds its advice
+// (Error.Advice) and decides the exit code from it (a failed write to
+// standard output is the writer's own error).
 package safeout

@@ -207,18 +207,10 @@ func (d *Discovery) decideOn(ev evidence) {
 	d.ensureAdmissible(ev)
 	d.Verdict = d.verdictFor(ev, win, comps, open, notes)
 	d.Verdict.Noise, d.Verdict.StdErrFloor = noise, floor
-	if v := &d.Verdict; v.Families == "1" || v.Families == "1-or-mirror-pair" {
-		if two, one, gap := d.inSampleDisagreement(ev); two != nil {
-			v.Reason = fmt.Sprintf("undecided: the held-out errors favour one fibre direction, but %s with two fibre directions (%s) fits the data better in sample than every one-direction model, by ΔBIC %.1f over %s (%s), strong evidence on the scale of Kass & Raftery 1995; the two criteria disagree, so the data do not settle one family against two; the best-supported answer by held-out error: %s",
-				two.Name, anglesText(two.Result), gap, one.Name, anglesText(one.Result), v.Reason)
-			v.Families, v.InSampleBest = "undecided", two.Name
-			v.Decider = "more protocols (other stretch ratios, an off-axis protocol), more points per protocol or lower noise; shear information where the sign of an angle matters"
-		}
-	}
 }
 
 // inSampleDisagreement looks, when the walk (which weighs held-out
-// errors) has found one fibre direction, for a model whose two fibre
+// errors) has found one fibre direction (verdictFor asks), for a model whose two fibre
 // directions are distinct (two free families, not within 2° of each
 // other; with shear information a mirror pair too) and whose BIC lies at
 // least DisagreeDeltaBIC below that of every one-direction model (one

@@ -104,6 +104,9 @@ func anglesText(r *Result) string {
 // pair (package documentation, Mirror symmetry).
 const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
 
+// undecidedDecider is what settles an undecided family count.
+const undecidedDecider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
+
 // lookAlike describes a richer form's best model when it has a known
 // simpler look-alike, or returns "".
 func lookAlike(r *Result) string {
@@ -232,7 +235,14 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		}
 		v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", open[len(open)-1].Richer, strings.Join(alt, "; "), v.Reason)
 		v.Families = "undecided"
-		v.Decider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
+		v.Decider = undecidedDecider
+	}
+	if v.Families == "1" || v.Families == "1-or-mirror-pair" {
+		if two, one, gap := d.inSampleDisagreement(ev); two != nil {
+			v.Reason = fmt.Sprintf("undecided: the held-out errors favour one fibre direction, but %s with two fibre directions (%s) fits the data better in sample than every one-direction model, by ΔBIC %.1f over %s (%s), strong evidence on the scale of Kass & Raftery 1995; the two criteria disagree, so the data do not settle one family against two; the best-supported answer by held-out error: %s",
+				two.Name, anglesText(two.Result), gap, one.Name, anglesText(one.Result), v.Reason)
+			v.Families, v.InSampleBest, v.Decider = "undecided", two.Name, undecidedDecider
+		}
 	}
 	if ev.oneProtocol {
 		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"

@@ -274,22 +274,23 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 			toward = lc.Richer
 		}
 	}
-	inSample := toward == "" && v.InSampleBest != ""
 	var best *card.CandidateCard
 	for i := range sel.Pareto {
 		cc := &sel.Pareto[i]
-		if inSample {
-			if cc.Name == v.InSampleBest && cc.Model != nil {
-				best, toward = cc, candidateForm(cc)
+		switch {
+		case cc.Model == nil:
+		case toward == "" && v.InSampleBest != "":
+			if cc.Name == v.InSampleBest {
+				best = cc
 			}
-			continue
+		case candidateForm(cc) == toward && !math.IsNaN(float64(cc.HeldoutError)):
+			if best == nil || cc.HeldoutError < best.HeldoutError {
+				best = cc
+			}
 		}
-		if candidateForm(cc) != toward || cc.Model == nil || math.IsNaN(float64(cc.HeldoutError)) {
-			continue
-		}
-		if best == nil || cc.HeldoutError < best.HeldoutError {
-			best = cc
-		}
+	}
+	if best != nil && toward == "" {
+		toward = candidateForm(best)
 	}
 	if best == nil {
 		return aniso.Question{}, false

@@ -95,10 +95,7 @@ func (c *cohortRun) scout() {
 			continue
 		}
 		s.pl = c.pl
-		s.fitFullForms()
-		s.refitSubsets()
-		s.forwardSteps()
-		s.planarVariants()
+		s.searchForms()
 		if s.paretoFront() != nil {
 			continue
 		}

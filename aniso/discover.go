@@ -172,28 +172,27 @@ var (
 	ErrNoCandidate = errors.New("no candidate model could be fitted; check the data (units, stress kind) or fit a chosen model form")
 )
 
-// Discover finds which catalogue terms and how many fibre families the data
-// support. For each form (layout, ideal or spread) it fits the whole
+// Discover finds which catalogue terms and how many fibre families the
+// data support. For each form (layout, ideal or spread) it fits the whole
 // candidate set (non-negativity already zeroes many weights), searches
 // every subset of up to K terms at the learned angles and shape parameters
 // with non-negative least squares on the cross products, refits the best
 // subsets of each size with their own angles and shape parameters, grows
-// them term by term, and cross-validates by leaving one protocol out. The
-// verdict on the fibre families comes first, from whole forms (select.go);
-// the pick inside the winning form follows the one-standard-error rule
-// (Hastie, Tibshirani & Friedman 2009, §7.10). The stages are methods of
-// search, each in a file named after it (package documentation, Where
-// things live), called in turn below.
+// them term by term, refits the best one-family models with a second
+// family of the same kind, and cross-validates by leaving one protocol
+// out. The verdict on the fibre families comes first, from whole forms
+// (select.go); the pick inside the winning form follows the
+// one-standard-error rule (Hastie, Tibshirani & Friedman 2009, §7.10). The
+// stages are methods of search, each in a file named after it (package
+// documentation, Where things live), called in turn below (those that fit
+// candidates through searchForms, which a cohort's scouts share).
 func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	start := time.Now()
 	s, err := newSearch(all, set)
 	if err != nil {
 		return nil, err
 	}
-	s.fitFullForms()
-	s.refitSubsets()
-	s.forwardSteps()
-	s.planarVariants()
+	s.searchForms()
 	if err := s.paretoFront(); err != nil {
 		return nil, err
 	}
@@ -204,6 +203,17 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	s.polish()
 	s.d.Elapsed = time.Since(start)
 	return s.d, nil
+}
+
+// searchForms runs the stages that fit candidate models: the full forms,
+// the term subsets and forward steps, the second-family refits and the
+// spread variants. Discover and a cohort's scouts both search so.
+func (s *search) searchForms() {
+	s.fitFullForms()
+	s.refitSubsets()
+	s.forwardSteps()
+	s.secondFamilyRefits()
+	s.planarVariants()
 }
 
 // search is the state of one discovery: the problem at full size and the
@@ -228,6 +238,9 @@ type refit struct {
 	form int
 	st   Structure
 	init map[string]float64
+	// scan also starts the refit from the coarse angle scan's best minima
+	// (Settings.NoScan false), not from init alone.
+	scan bool
 	res  *Result
 }
 

@@ -133,17 +133,19 @@
 // Discovery, Discover in discover.go, runs these stages in turn, each in a
 // file named after it: the points it searches on (searchpoints.go); the
 // full forms (fullforms.go); the term-subset search (termsubsets.go) and
-// the refits and forward steps it feeds (refits.go); the spread variants
-// (spreadvariants.go); the Pareto front and fit quality (front.go);
-// leave-one-protocol-out cross-validation (crossval.go); the decision
-// (select.go: its rule, first the family verdict, then the pick inside the
-// winning form; verdict.go writes the verdict up from the evidence of
-// evidence.go); the polish on every point (polish.go). runRefits
-// (fullforms.go) fits a stage's refits side by side on workers of pool.go,
-// the package's one pool type (scans and profiles size their own). Forms, layouts and presets are named in
-// layout.go and formlabels.go. Cohorts (cohort.go, cohortselect.go,
-// cohortpool.go) run the search stages on scout specimens. Test planning:
-// design.go (PlanTests), design_candidates.go (candidate tests and their
+// the refits and forward steps it feeds (refits.go); the best one-family
+// models refitted with a second family of the same kind (secondfamily.go);
+// the spread variants (spreadvariants.go); the Pareto front and fit
+// quality (front.go); leave-one-protocol-out cross-validation
+// (crossval.go); the decision (select.go: its rule, first the family
+// verdict, then the pick inside the winning form; verdict.go writes the
+// verdict up from the evidence of evidence.go); the polish on every point
+// (polish.go). runRefits (fullforms.go) fits a stage's refits side by side
+// on workers of pool.go, the package's one pool type (scans and profiles
+// size their own). Forms, layouts and presets are named in layout.go and
+// formlabels.go. Cohorts (cohort.go, cohortselect.go, cohortpool.go) run
+// the search stages on scout specimens. Test planning: design.go
+// (PlanTests), design_candidates.go (candidate tests and their
 // extrapolation), design_info.go (information gain), design_questions.go
 // (the questions a test can answer), design_score.go (scores).
 package aniso

@@ -1,6 +1,6 @@
 package aniso
 
-// Discovery's fifth stage (see Discover): the Pareto front of each form,
+// Discovery's sixth stage (see Discover): the Pareto front of each form,
 // the classical presets recorded beside it and every candidate's fit
 // quality.
 

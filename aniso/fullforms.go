@@ -65,7 +65,7 @@ func (s *search) runRefits(rs []*refit) {
 	for _, rf := range rs {
 		jobs = append(jobs, func() {
 			set := s.fitSet
-			set.Init, set.NoScan = rf.init, true
+			set.Init, set.NoScan = rf.init, !rf.scan
 			if r, err := Fit(s.p, rf.st, set); err == nil {
 				rf.res = withoutDegenerate(s.p, r, set)
 			}

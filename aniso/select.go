@@ -225,8 +225,11 @@ func (d *Discovery) decideOn(ev evidence) {
 // without shear 9.5 or more; 36 one-family specimens in the same
 // conditions (three matrices; ideal, spread and recruited families) −3.1
 // at most, the one-family acceptance specimens −2.6 at most
-// (TestInSampleDisagreementIsUndecided, TestVerdictPanel). It returns the
-// two-direction model, the best one-direction model and the gap, or nils.
+// (TestInSampleDisagreementIsUndecided, TestVerdictPanel). It sees only
+// the models the search found; the second-family refits
+// (secondFamilyRefits) put the plain two-family form of the best
+// one-family models among them. It returns the two-direction model, the
+// best one-direction model and the gap, or nils.
 func (d *Discovery) inSampleDisagreement(ev evidence) (two, one *Candidate, gap float64) {
 	for i := range d.Pareto {
 		c := &d.Pareto[i]

@@ -1,6 +1,6 @@
 package aniso
 
-// Discovery's fourth stage (see Discover): the best ideal two-family models
+// Discovery's fifth stage (see Discover): the best ideal two-family models
 // refitted with their families spread in the plane, and how a spread or
 // coincident model reduces to a simpler searched form.
 

@@ -363,8 +363,8 @@ func TestInSampleDisagreementRule(t *testing.T) {
 // Two equal-order families at 10° and 70° without shear information (made
 // by independent numerical integration; 30 points a protocol, 2 % noise):
 // leave-one-protocol-out favours one family at ±7° (the ps-pos term
-// stiffens the second axis), while the true form, found at about ±11.6°
-// and ±71.7°, has a BIC 9.5 lower with no more parameters. Before the
+// stiffens the second axis), while the true form, found at about ±11.8°
+// and ±71.9°, has a BIC 9.6 lower with no more parameters. Before the
 // in-sample rule the verdict was a confident 1-or-mirror-pair; it is now
 // undecided, naming the two-family model and the gap, and the chosen model
 // is still the one the held-out errors favour.

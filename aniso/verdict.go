@@ -23,7 +23,9 @@ type Verdict struct {
 	// without cross-validation.
 	HeldoutError map[string]float64
 	// Comparisons are the steps of the walk from the simplest form to the
-	// richest (see select.go).
+	// richest, with a form with more families that beat the walk's form
+	// also compared with the best-predicting form with the walk's number of
+	// families (strongestRival; see select.go).
 	Comparisons []LayoutComparison
 	// RuledOut names the richer explanations that fitted better without
 	// beating the verdict's form by more than the noise, and look-alikes,
@@ -194,6 +196,24 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		if lc.Decisive && lc.Richer == win.key {
 			why = fmt.Sprintf("it beats %s decisively (%s), and no richer form beats it", lc.Simpler, lc)
 		}
+	}
+	// Forms with more families that beat the winner but not the best form
+	// with the winner's number of families (strongestRival).
+	var blocked []string
+	rival := ""
+	for _, lc := range comps {
+		if !lc.Decisive || lc.Simpler != win.key || lc.Richer == win.key {
+			continue
+		}
+		for _, lc2 := range comps {
+			if lc2.Richer == lc.Richer && lc2.Simpler != win.key && !lc2.Decisive {
+				blocked, rival = append(blocked, lc.Richer), lc2.Simpler
+			}
+		}
+	}
+	if len(blocked) > 0 {
+		why = strings.Replace(why, ", and no richer form beats it", "", 1)
+		why += fmt.Sprintf("; %s beat it too, but not %s, the form with as many families that predicts best, so the number of families stays (see the ruled-out notes)", strings.Join(blocked, " and "), rival)
 	}
 	ang := anglesText(r)
 	switch r.Structure.Layout {

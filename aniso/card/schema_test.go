@@ -246,7 +246,7 @@ func verdictSchema() obj {
 			{"reason", obj{{"type", "string"}, {"description", "the evidence in words and numbers"}}},
 			{"delta_bic", obj{{"type", "object"}, {"description", "per form (0, 1, 1+dispersed, 2-mirror, 2-free, ...): its best BIC minus the best over forms, dimensionless"}}},
 			{"heldout_error", obj{{"type", "object"}, {"description", "per form: its best leave-one-protocol-out held-out normalised RMSE, dimensionless"}}},
-			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive"}}},
+			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive; a form with more families that beat the walk's form is also compared with the form with the walk's number of families that predicts best, when that is another"}}},
 			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes; and forms not considered, with why"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
 			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate with two fibre directions that fits better in sample (BIC at least %g lower) than every one-direction model while the held-out errors favour one direction, when that is why the verdict is undecided", aniso.DisagreeDeltaBIC)}}},

@@ -77,7 +77,9 @@ type VerdictSection struct {
 	// its best held-out error (cards before this name said "cv_error").
 	DeltaBIC     map[string]Num `json:"delta_bic"`
 	HeldoutError map[string]Num `json:"heldout_error"`
-	// Comparisons are the steps from the simplest form to the richest;
+	// Comparisons are the steps from the simplest form to the richest (a
+	// form with more families that beat the walk's form is also compared
+	// with the best-predicting form with the walk's number of families);
 	// RuledOut names richer explanations that were not supported. Both are
 	// always written, empty as [] (cards before that may lack them; they
 	// read as empty).

@@ -191,30 +191,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		}
 		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
 	}
-	why := "no richer form beats it by more than the noise explains"
-	for _, lc := range comps {
-		if lc.Decisive && lc.Richer == win.key {
-			why = fmt.Sprintf("it beats %s decisively (%s), and no richer form beats it", lc.Simpler, lc)
-		}
-	}
-	// Forms with more families that beat the winner but not the best form
-	// with the winner's number of families (strongestRival).
-	var blocked []string
-	rival := ""
-	for _, lc := range comps {
-		if !lc.Decisive || lc.Simpler != win.key || lc.Richer == win.key {
-			continue
-		}
-		for _, lc2 := range comps {
-			if lc2.Richer == lc.Richer && lc2.Simpler != win.key && !lc2.Decisive {
-				blocked, rival = append(blocked, lc.Richer), lc2.Simpler
-			}
-		}
-	}
-	if len(blocked) > 0 {
-		why = strings.Replace(why, ", and no richer form beats it", "", 1)
-		why += fmt.Sprintf("; %s beat it too, but not %s, the form with as many families that predicts best, so the number of families stays (see the ruled-out notes)", strings.Join(blocked, " and "), rival)
-	}
+	why := whyItWon(win, comps)
 	ang := anglesText(r)
 	switch r.Structure.Layout {
 	case LayoutNone:
@@ -271,6 +248,37 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		}
 	}
 	return v
+}
+
+// whyItWon says why the walk ended on win: the comparison it won
+// decisively, and the forms with more families that beat it but not the
+// best-predicting form with as many families as it (strongestRival).
+func whyItWon(win *formBest, comps []LayoutComparison) string {
+	why := "no richer form beats it by more than the noise explains"
+	for _, lc := range comps {
+		if lc.Decisive && lc.Richer == win.key {
+			why = fmt.Sprintf("it beats %s decisively (%s), and no richer form beats it", lc.Simpler, lc)
+		}
+	}
+	// Forms with more families that beat the winner but not the best form
+	// with the winner's number of families (strongestRival).
+	var blocked []string
+	rival := ""
+	for _, lc := range comps {
+		if !lc.Decisive || lc.Simpler != win.key || lc.Richer == win.key {
+			continue
+		}
+		for _, lc2 := range comps {
+			if lc2.Richer == lc.Richer && lc2.Simpler != win.key && !lc2.Decisive {
+				blocked, rival = append(blocked, lc.Richer), lc2.Simpler
+			}
+		}
+	}
+	if len(blocked) > 0 {
+		why = strings.Replace(why, ", and no richer form beats it", "", 1)
+		why += fmt.Sprintf("; %s beat it too, but not %s, the form with as many families that predicts best, so the number of families stays (see the ruled-out notes)", strings.Join(blocked, " and "), rival)
+	}
+	return why
 }
 
 // otherInSampleBest describes the model of richer's form with the lowest

@@ -37,7 +37,7 @@ const panelHeader = `# Outcomes of TestVerdictPanel (aniso/panel_test.go), one l
 // matrix, each with an ideal family at 60°, a family spread about 35°
 // (concentration 2) or gradually recruited fibres at 30°, two seeds each.
 //
-// It runs only when WEFT_VERDICT_PANEL is set (about 55 s of CPU time):
+// It runs only when WEFT_VERDICT_PANEL is set (about 70 s of CPU time):
 // "1" compares, "update" rewrites the file. A change that moves the
 // search's path (damping, subsets, starts, stopping) runs it before it
 // lands, and its commit says which outcomes moved and whether towards the

@@ -14,15 +14,16 @@ import (
 // (formRank). Each form is represented by its best cross-validated model.
 // Walking the ranking, a richer form replaces the current winner only when
 // it beats it by more than the noise can explain (compare), and a form
-// with more families than the winner must also beat so the form with the
-// winner's number of families that predicts best (strongestRival): the
-// per-fold paired differences of their leave-one-protocol-out errors
-// average more than two standard errors (the standard error never below
-// the sampling error of the noise estimate, seFloor), by at least
-// MinRelativeGain of the simpler form's error, and with ΔBIC ≥ MinDeltaBIC
-// ("very strong" on the scale of Kass & Raftery 1995, J Am Stat Assoc
-// 90:773–795). Inside the winning form the one-standard-error rule
-// (Hastie, Tibshirani & Friedman 2009, §7.10) picks the smallest model.
+// with more families than the winner must also beat, in the same way, the
+// form with the winner's number of families that predicts best
+// (strongestRival). Beating means: the per-fold paired differences of
+// their leave-one-protocol-out errors average more than two standard
+// errors (the standard error never below the sampling error of the noise
+// estimate, seFloor), by at least MinRelativeGain of the simpler form's
+// error, and with ΔBIC ≥ MinDeltaBIC ("very strong" on the scale of Kass &
+// Raftery 1995, J Am Stat Assoc 90:773–795). Inside the winning form the
+// one-standard-error rule (Hastie, Tibshirani & Friedman 2009, §7.10)
+// picks the smallest model.
 //
 // Numbers that agree within TieTolerance (relative) are ties, broken by
 // fewer families, then fewer parameters, then catalogue order, so that the
@@ -236,7 +237,7 @@ func (d *Discovery) decideOn(ev evidence) {
 // independently integrated sutured specimen, one family spread about 45°
 // with concentration b = 1, a mirror pair at 26.8° and 63.1° beat the
 // ideal family by 7.0 % of its held-out error, ΔBIC 54.5, and the spread
-// family by 2.0 %, ΔBIC 4.8; TestMoreFamiliesMustBeatTheBestWithFewer).
+// family by 2.1 %, ΔBIC 4.9; TestMoreFamiliesMustBeatTheBestWithFewer).
 func strongestRival(bests []*formBest, win, richer *formBest) *formBest {
 	n := win.c.Layout.Families()
 	var rival *formBest

@@ -424,7 +424,7 @@ func tenSeventy(t *testing.T) (*Discovery, *Problem) {
 // strains to 0.2, noise seed 1). A mirror pair at about 27° and 63°
 // brackets the spread direction: it beats the ideal one-family form by
 // more than the noise explains (7 % of its held-out error) but not the
-// spread one (2 %, ΔBIC 4.8), which had not itself beaten the ideal form
+// spread one (2 %, ΔBIC 4.9), which had not itself beaten the ideal form
 // decisively. The walk had compared the pair only with the form it held,
 // and the verdict was a confident 2; the number of families is now
 // decided against the best one-family form, so the verdict is 1, and the

@@ -253,12 +253,11 @@ func strongestRival(bests []*formBest, win, richer *formBest) *formBest {
 }
 
 // inSampleDisagreement looks, when the walk (which weighs held-out
-// errors) has found one fibre direction (verdictFor asks), for a model whose two fibre
-// directions are distinct (two free families, not within 2° of each
-// other; with shear information a mirror pair too) and whose BIC lies at
-// least DisagreeDeltaBIC below that of every one-direction model (one
-// family, ideal or spread; without shear information a mirror pair,
-// which has the same normal stresses). Such a model fits the data better
+// errors) has found one fibre direction (verdictFor asks), for a model
+// with two distinct fibre directions (twoDirections) whose BIC lies at
+// least DisagreeDeltaBIC below that of every one-direction model
+// (oneDirection: one family, ideal or spread; without shear information
+// also two families at ±α, which have its normal stresses). Such a model fits the data better
 // in sample, its extra parameters counted against it, so one family is
 // not a safe answer even though it predicts the left-out protocols as
 // well. Calibration (README, Fibre families): equal families at 10° and
@@ -277,13 +276,12 @@ func (d *Discovery) inSampleDisagreement(ev evidence) (two, one *Candidate, gap 
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
 		r := c.Compared()
-		l := r.Structure.Layout
 		switch {
-		case l == LayoutSingle || l == LayoutMirror && !ev.hasShear:
+		case oneDirection(r, ev.hasShear):
 			if one == nil || less(r.BIC, one.Compared().BIC) {
 				one = c
 			}
-		case (l == LayoutFree || l == LayoutMirror) && !coincident(r):
+		case twoDirections(r, ev.hasShear):
 			if two == nil || less(r.BIC, two.Compared().BIC) {
 				two = c
 			}
@@ -297,6 +295,33 @@ func (d *Discovery) inSampleDisagreement(ev evidence) (two, one *Candidate, gap 
 		return nil, nil, 0
 	}
 	return two, one, gap
+}
+
+// oneDirection reports whether r has one fibre direction as the data can
+// see it: one family, or without shear information two families whose
+// angles differ only in sign (within 1°, as verdictFor tells a mirror pair
+// from two families), which give the normal stresses of one family.
+func oneDirection(r *Result, hasShear bool) bool {
+	switch {
+	case r.Structure.Layout == LayoutSingle:
+		return true
+	case len(r.Model.Families) == 2 && !hasShear:
+		return absAngleGapDeg(r) < 1
+	}
+	return false
+}
+
+// twoDirections reports whether r has two fibre directions the data can
+// tell apart: two families not within 2° of each other (coincident) and,
+// without shear information, whose angles differ by at least 2° in
+// magnitude too. A mirror pair about a mean direction off the axes (at
+// 10° and 70°, say) is two directions without shear as much as two free
+// families are.
+func twoDirections(r *Result, hasShear bool) bool {
+	if len(r.Model.Families) != 2 || coincident(r) {
+		return false
+	}
+	return hasShear || absAngleGapDeg(r) >= 2
 }
 
 // oneSE applies the one-standard-error rule inside one form and returns

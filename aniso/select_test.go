@@ -318,9 +318,11 @@ func TestEnsureAdmissible(t *testing.T) {
 
 // inSampleDisagreement, on hand-made candidates: a two-direction model
 // whose BIC lies DisagreeDeltaBIC or more below every one-direction model's
-// is found, a smaller gap is not; a mirror pair counts as one direction
-// without shear information (the same normal stresses as one family;
-// package documentation, Mirror symmetry) and as two with it; two
+// is found, a smaller gap is not; a mirror pair at ±α counts as one
+// direction without shear information (the same normal stresses as one
+// family; package documentation, Mirror symmetry) and as two with it, and
+// so do two free families at ±α; a mirror pair about a mean direction off
+// the axes (families at 10° and 70°) is two directions either way; two
 // families within 2° of each other are one direction (coincident).
 func TestInSampleDisagreementRule(t *testing.T) {
 	cand := func(name string, l Layout, bic float64, angles ...float64) Candidate {
@@ -344,6 +346,10 @@ func TestInSampleDisagreementRule(t *testing.T) {
 		{"coincident families are one direction", noShear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("free", LayoutFree, -120, 10, 11)}, ""},
 		{"the lowest two-direction BIC is named", noShear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("freeA", LayoutFree, -107, 5, 80), cand("freeB", LayoutFree, -115, 11, 72)}, "freeB"},
 		{"no two-direction model", noShear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("iso", LayoutNone, -300)}, ""},
+		{"a mirror pair off the axes is two directions without shear", noShear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("pair", LayoutMirror, -110, 70, 10)}, "pair"},
+		{"a mirror pair off the axes is not the one-direction model", noShear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("pair", LayoutMirror, -104, 70, 10), cand("free", LayoutFree, -107, 11, 72)}, "free"},
+		{"free families at ±α are one direction without shear", noShear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("free", LayoutFree, -110, 30, -30)}, ""},
+		{"free families at ±α are two directions with shear", shear, []Candidate{cand("one", LayoutSingle, -100, 7), cand("free", LayoutFree, -110, 30, -30)}, "free"},
 	} {
 		d := &Discovery{Pareto: c.p}
 		two, one, gap := d.inSampleDisagreement(c.ev)

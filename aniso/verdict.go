@@ -88,6 +88,15 @@ func coincident(r *Result) bool {
 	return d < 2
 }
 
+// absAngleGapDeg is how far apart, in degrees, the two families of r lie
+// when the signs of their angles are not known: without shear information
+// a family at α and one at −α give the same normal stresses (package
+// documentation, Mirror symmetry), so only |α| tells them apart.
+func absAngleGapDeg(r *Result) float64 {
+	fs := r.Model.Families
+	return Deg(math.Abs(math.Abs(fs[0].Angle) - math.Abs(fs[1].Angle)))
+}
+
 // anglesText writes a result's family angles.
 func anglesText(r *Result) string {
 	var s []string
@@ -207,8 +216,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 			v.Decider = decider
 		}
 	case LayoutMirror:
-		fs := r.Model.Families
-		same := Deg(math.Abs(math.Abs(fs[0].Angle)-math.Abs(fs[1].Angle))) < 1
+		same := absAngleGapDeg(r) < 1
 		switch {
 		case !ev.hasShear && same:
 			v.Families = "1-or-mirror-pair"

@@ -80,6 +80,24 @@ func (s *search) subsetRound(i int) ([]*refit, string) {
 	return round, fmt.Sprintf("%s: %s at %d local optima of the full candidate fit, then forward steps adding to the best refitted model of each size %s", formName(f), how, len(anchors), additionsText(branchOf(f)))
 }
 
+// additions returns the refits that grow base, a model of form i, by
+// each of the n terms of the form's full candidate set that lower its loss
+// most (rankAdditions), warm-started from base's parameters over the full
+// fit's.
+func (s *search) additions(i int, base *Result, n int) []*refit {
+	bst := activeStructure(base)
+	init := s.full[i].Params()
+	for name, v := range base.Params() {
+		init[name] = v
+	}
+	var out []*refit
+	for _, j := range rankAdditions(s.full[i], init, bst, n) {
+		t := s.full[i].Structure.Terms[j]
+		out = append(out, &refit{form: i, st: s.forms[i].withTerms(append(append([]TermSpec(nil), bst.Terms...), t)), init: init})
+	}
+	return out
+}
+
 // branchOf is how many single-term additions a forward step of form f
 // refits.
 func branchOf(f Structure) int {
@@ -136,16 +154,7 @@ func (s *search) forwardSteps() {
 				reduced[i]++
 				continue
 			}
-			bst := activeStructure(base)
-			init := s.full[i].Params()
-			for name, v := range base.Params() {
-				init[name] = v
-			}
-			for _, j := range rankAdditions(s.full[i], init, bst, branchOf(f)) {
-				t := s.full[i].Structure.Terms[j]
-				st := f.withTerms(append(append([]TermSpec(nil), bst.Terms...), t))
-				round = append(round, &refit{form: i, st: st, init: init})
-			}
+			round = append(round, s.additions(i, base, branchOf(f))...)
 		}
 		s.runRefits(round)
 	}

@@ -110,8 +110,7 @@ func (s *search) secondFamilyOf(res *Result, free int) []*refit {
 
 // growBest returns, for the best of rs at each number of active terms
 // below the search's K (both families keeping a fibre term), the refits
-// that add each of the forwardBranch terms of form free's full candidate
-// set that lower its loss most, warm-started from it.
+// that grow it as a forward step does (additions).
 func (s *search) growBest(rs []*refit, free int) []*refit {
 	best := map[int]*Result{}
 	var sizes []int
@@ -132,19 +131,9 @@ func (s *search) growBest(rs []*refit, free int) []*refit {
 		}
 	}
 	sort.Ints(sizes)
-	full := s.full[free]
 	var out []*refit
 	for _, n := range sizes {
-		base := best[n]
-		bst := activeStructure(base)
-		init := full.Params()
-		for name, v := range base.Params() {
-			init[name] = v
-		}
-		for _, j := range rankAdditions(full, init, bst, forwardBranch) {
-			st := s.forms[free].withTerms(append(append([]TermSpec(nil), bst.Terms...), full.Structure.Terms[j]))
-			out = append(out, &refit{form: free, st: st, init: init})
-		}
+		out = append(out, s.additions(free, best[n], forwardBranch)...)
 	}
 	return out
 }

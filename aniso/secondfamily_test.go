@@ -1,7 +1,6 @@
 package aniso
 
 import (
-	"math"
 	"strings"
 	"testing"
 )
@@ -44,10 +43,7 @@ func TestSecondFamilyRefitsFindTheTwoFamilyForm(t *testing.T) {
 		}
 		t.Logf("%g°/%g°: in sample %s (%s), ΔBIC %.1f", a[0], a[1], two.Name, anglesText(two.Result), gap)
 		for _, want := range a {
-			best := math.Inf(1)
-			for _, f := range two.Result.Model.Families {
-				best = math.Min(best, math.Abs(math.Abs(WrapDeg(Deg(f.Angle)))-want))
-			}
+			best := nearestFamilyDeg(two.Result, want)
 			if best > 8 {
 				t.Errorf("%g°/%g°: the two-direction model %s has no family within 8° of %g° (%s)", a[0], a[1], two.Name, want, anglesText(two.Result))
 			}

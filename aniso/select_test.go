@@ -271,10 +271,7 @@ func TestRuledOutNamesTheFormsLowestBIC(t *testing.T) {
 		}
 	}
 	for _, want := range []float64{10, 70} {
-		best := math.Inf(1)
-		for _, f := range low.Result.Model.Families {
-			best = math.Min(best, math.Abs(math.Abs(WrapDeg(f.Angle/deg))-want))
-		}
+		best := nearestFamilyDeg(low.Result, want)
 		if best > 3 {
 			t.Errorf("the lowest-BIC 2-free model %s has no family within 3° of %g° (%s)", low.Name, want, anglesText(low.Result))
 		}
@@ -392,10 +389,7 @@ func TestInSampleDisagreementIsUndecided(t *testing.T) {
 		t.Errorf("gap %.2f below the margin %g", gap, DisagreeDeltaBIC)
 	}
 	for _, want := range []float64{10, 70} {
-		best := math.Inf(1)
-		for _, f := range two.Result.Model.Families {
-			best = math.Min(best, math.Abs(math.Abs(WrapDeg(Deg(f.Angle)))-want))
-		}
+		best := nearestFamilyDeg(two.Result, want)
 		if best > 3 {
 			t.Errorf("the two-direction model %s has no family within 3° of %g° (%s)", two.Name, want, anglesText(two.Result))
 		}
@@ -463,4 +457,15 @@ func TestMoreFamiliesMustBeatTheBestWithFewer(t *testing.T) {
 	if !said {
 		t.Errorf("the notes do not say why %s was compared with 1+dispersed: %q", blocked.Richer, d.Verdict.RuledOut)
 	}
+}
+
+// nearestFamilyDeg is how far, in degrees, the family of r nearest to the
+// direction want lies from it, comparing |α| (the sign is not known
+// without shear information).
+func nearestFamilyDeg(r *Result, want float64) float64 {
+	best := math.Inf(1)
+	for _, f := range r.Model.Families {
+		best = math.Min(best, math.Abs(math.Abs(WrapDeg(Deg(f.Angle)))-want))
+	}
+	return best
 }

@@ -195,6 +195,65 @@ func ogdenMaterial(mu, alpha float64) material {
 	}
 }
 
+// principalMaterial is an isotropic incompressible solid given by its
+// Kirchhoff stresses τi = λi ∂Ψ/∂λi in terms of the principal stretches,
+// which come from a full 3×3 eigen-decomposition of B by gonum (a
+// general-purpose library); σ = Σ (τi − τ3) ni⊗ni over the in-plane
+// directions, the pressure fixed by σ33 = 0.
+func principalMaterial(tau func(l [3]float64) [3]float64) material {
+	return func(F [4]float64) [3]float64 {
+		j := F[0]*F[3] - F[1]*F[2]
+		B := mat.NewSymDense(3, []float64{
+			F[0]*F[0] + F[1]*F[1], F[0]*F[2] + F[1]*F[3], 0,
+			F[0]*F[2] + F[1]*F[3], F[2]*F[2] + F[3]*F[3], 0,
+			0, 0, 1 / (j * j),
+		})
+		var eig mat.EigenSym
+		if !eig.Factorize(B, true) {
+			panic("eigen-decomposition failed")
+		}
+		vals := eig.Values(nil)
+		var vecs mat.Dense
+		eig.VectorsTo(&vecs)
+		var l [3]float64
+		k3 := -1
+		for i, v := range vals {
+			l[i] = math.Sqrt(v)
+			if math.Abs(vecs.At(2, i)) > 0.5 {
+				k3 = i // the thickness direction
+			}
+		}
+		t := tau(l)
+		var s [3]float64
+		for i := range vals {
+			if i == k3 {
+				continue
+			}
+			n := [2]float64{vecs.At(0, i), vecs.At(1, i)}
+			c := t[i] - t[k3]
+			s[0] += c * n[0] * n[0]
+			s[1] += c * n[1] * n[1]
+			s[2] += c * n[0] * n[1]
+		}
+		return s
+	}
+}
+
+// expHenckyMaterial is the exponentiated Hencky energy of Neff, Ghiba &
+// Lankeit 2015 (from memory), incompressible: Ψ = (μ/k) exp(k Σ (ln λi)²),
+// so τi = 2μ exp(k Σ (ln λj)²) ln λi. It is isotropic, and none of the
+// catalogue's isotropic shapes is of its form.
+func expHenckyMaterial(mu, k float64) material {
+	return principalMaterial(func(l [3]float64) [3]float64 {
+		s := 0.0
+		for _, x := range l {
+			s += math.Log(x) * math.Log(x)
+		}
+		e := 2 * mu * math.Exp(k*s)
+		return [3]float64{e * math.Log(l[0]), e * math.Log(l[1]), e * math.Log(l[2])}
+	})
+}
+
 // nominalOf returns (P11, P22, P12, P21) = σ F⁻ᵀ of a material.
 func nominalOf(m material, F [4]float64) [4]float64 {
 	s := m(F)
@@ -251,6 +310,45 @@ func suturedShear(t testing.TB, m material, l1, l2 float64, start [2]float64) [2
 	return x
 }
 
+// loadedStretches finds the stretches λ1, λ2 of a pure biaxial stretch
+// (no shear) at which material m carries the nominal stresses P11, P22 of
+// target, by Newton's method with a finite-difference Jacobian from start:
+// the protocols of a load-controlled tester, which holds the ratio of the
+// two axes' loads (common practice in planar biaxial testing of soft
+// tissue).
+func loadedStretches(t testing.TB, m material, target, start [2]float64) [2]float64 {
+	x := start
+	res := func(x [2]float64) [2]float64 {
+		P := nominalOf(m, [4]float64{x[0], 0, 0, x[1]})
+		return [2]float64{P[0] - target[0], P[1] - target[1]}
+	}
+	scale := math.Max(math.Abs(target[0]), math.Abs(target[1])) + 1e-12
+	for it := 0; it < 100; it++ {
+		r := res(x)
+		if math.Hypot(r[0], r[1]) < 1e-11*scale {
+			return x
+		}
+		const h = 1e-7
+		var J [2][2]float64
+		for k := 0; k < 2; k++ {
+			xp, xm := x, x
+			xp[k] += h
+			xm[k] -= h
+			rp, rm := res(xp), res(xm)
+			J[0][k] = (rp[0] - rm[0]) / (2 * h)
+			J[1][k] = (rp[1] - rm[1]) / (2 * h)
+		}
+		det := J[0][0]*J[1][1] - J[0][1]*J[1][0]
+		if det == 0 {
+			break
+		}
+		x[0] -= (J[1][1]*r[0] - J[0][1]*r[1]) / det
+		x[1] -= (-J[1][0]*r[0] + J[0][0]*r[1]) / det
+	}
+	t.Fatalf("no stretches carry the loads P11, P22 = %g, %g", target[0], target[1])
+	return x
+}
+
 // synthFrom generates a specimen from an independent material, with the
 // protocols, noise and mounting of o (see synthSpecimen).
 func synthFrom(t testing.TB, m material, o synthOptions) *biaxial.Specimen {
@@ -265,9 +363,15 @@ func synthFrom(t testing.TB, m material, o synthOptions) *biaxial.Specimen {
 	for _, r := range o.ratios {
 		pr := biaxial.Protocol{Label: label(r), UserWeight: 1}
 		var shear [2]float64
+		stretch := [2]float64{1, 1}
 		for i := 1; i <= o.points; i++ {
 			e := o.maxStrain * float64(i) / float64(o.points)
 			F := [4]float64{1 + r[0]*e, 0, 0, 1 + r[1]*e}
+			if o.loadMax > 0 {
+				s := o.loadMax * float64(i) / float64(o.points)
+				stretch = loadedStretches(t, m, [2]float64{r[0] * s, r[1] * s}, stretch)
+				F = [4]float64{stretch[0], 0, 0, stretch[1]}
+			}
 			if o.sutured {
 				shear = suturedShear(t, m, F[0], F[3], shear)
 				F[1], F[2] = shear[0], shear[1]

@@ -25,6 +25,10 @@ type synthOptions struct {
 	seed      uint64
 	sutured   bool // shear free edges: solve F12, F21 so that P12 = P21 = 0
 	cauchy    bool
+	// loadMax > 0 (stress unit) makes synthFrom's protocols load-controlled:
+	// the ratios are of nominal stress P11:P22, the leading axis loaded to
+	// loadMax, and the stretches solved for (no shear; maxStrain unused).
+	loadMax float64
 }
 
 func (o synthOptions) withDefaults() synthOptions {

@@ -40,11 +40,12 @@ type Verdict struct {
 	// Decider names the extra measurement that would settle an undecided
 	// case, or is empty.
 	Decider string
-	// InSampleBest names the candidate (in Discovery.Pareto) with two
-	// fibre directions that fits the data better in sample than every
-	// one-direction model, by ΔBIC ≥ DisagreeDeltaBIC, when that is why the
-	// verdict is undecided (the held-out errors favour one direction; see
-	// inSampleDisagreement); empty otherwise.
+	// InSampleBest names the candidate (in Discovery.Pareto) that fits the
+	// data better in sample, by ΔBIC ≥ DisagreeDeltaBIC, than every model
+	// the held-out errors favour, when that is why the verdict is
+	// undecided: a model with two fibre directions against every
+	// one-direction model (inSampleDisagreement), or a model with fibres
+	// against every isotropic model (fibreDisagreement); empty otherwise.
 	InSampleBest string
 }
 
@@ -114,6 +115,38 @@ func anglesText(r *Result) string {
 // decider is the measurement that settles one family against a mirror
 // pair (package documentation, Mirror symmetry).
 const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
+
+// fortyFiveLookAlike says why fibres at ±45° without shear information are
+// a look-alike of an isotropic material. Under a pure biaxial stretch their
+// I4 is (C11 + C22)/2, the same function of either axis, so their energy
+// as a function of the two stretches, which is all the normal stresses of
+// an incompressible membrane determine, is symmetric in them, as every
+// isotropic material's is: nothing in such data singles out a direction.
+// Whether an isotropic form follows the fibres as closely depends on the
+// shapes. Made by independent numerical integration (README, Fibre
+// families): an ideal family at 45° on a neo-Hookean matrix, stretch-
+// controlled, was explained within the noise by the catalogue's isotropic
+// terms (verdict 0), and an isotropic solid outside the catalogue (the
+// exponentiated Hencky energy), load-controlled, was fitted better by a
+// family at ±45.0° than by any isotropic form (verdict 1-or-mirror-pair
+// before atFortyFive). Shear information or an off-axis protocol breaks
+// the symmetry.
+const fortyFiveLookAlike = "without shear information fibres at ±45° stiffen both axes alike (their I4 is the mean of C11 and C22), as an isotropic material does, and the two can fit the data about equally well"
+
+// atFortyFive reports whether every family of r lies within 1° of ±45°
+// (fortyFiveLookAlike): the tolerance within which verdictFor tells a
+// mirror pair from one direction.
+func atFortyFive(r *Result) bool {
+	if len(r.Model.Families) == 0 {
+		return false
+	}
+	for _, f := range r.Model.Families {
+		if math.Abs(math.Abs(WrapDeg(Deg(f.Angle)))-45) >= 1 {
+			return false
+		}
+	}
+	return true
+}
 
 // undecidedDecider is what settles an undecided family count.
 const undecidedDecider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
@@ -206,6 +239,10 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	case LayoutNone:
 		v.Families = "0"
 		v.Reason = "isotropic: " + why
+		if !ev.hasShear {
+			v.Reason += "; " + fortyFiveLookAlike + ", so without shear information fibres at ±45° cannot be ruled out"
+			v.Decider = decider
+		}
 	case LayoutSingle:
 		if ev.hasShear {
 			v.Families = "1"
@@ -242,11 +279,22 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		v.Families = "undecided"
 		v.Decider = undecidedDecider
 	}
+	if v.Families == "1-or-mirror-pair" && atFortyFive(r) {
+		v.Reason = fmt.Sprintf("undecided: %s, so the data do not settle whether fibres are needed: the fibres may stand in for an isotropic stiffening the catalogue lacks; the best-supported answer: %s", fortyFiveLookAlike, v.Reason)
+		v.Families = "undecided"
+	}
 	if v.Families == "1" || v.Families == "1-or-mirror-pair" {
 		if two, one, gap := d.inSampleDisagreement(ev); two != nil {
 			v.Reason = fmt.Sprintf("undecided: the held-out errors favour one fibre direction, but %s with two fibre directions (%s) fits the data better in sample than every one-direction model, by ΔBIC %.1f over %s (%s), strong evidence on the scale of Kass & Raftery 1995; the two criteria disagree, so the data do not settle one family against two; the best-supported answer by held-out error: %s",
 				two.Name, anglesText(two.Result), gap, one.Name, anglesText(one.Result), v.Reason)
 			v.Families, v.InSampleBest, v.Decider = "undecided", two.Name, undecidedDecider
+		}
+	}
+	if v.Families == "0" {
+		if fib, iso, gap := d.fibreDisagreement(); fib != nil {
+			v.Reason = fmt.Sprintf("undecided: the held-out errors favour an isotropic material, but %s with fibres (%s) fits the data better in sample than every isotropic model, by ΔBIC %.1f over %s, strong evidence on the scale of Kass & Raftery 1995; the two criteria disagree, so the data do not settle whether fibres are needed; the best-supported answer by held-out error: %s",
+				fib.Name, anglesText(fib.Result), gap, iso.Name, v.Reason)
+			v.Families, v.InSampleBest, v.Decider = "undecided", fib.Name, undecidedDecider
 		}
 	}
 	if ev.oneProtocol {

@@ -249,7 +249,7 @@ func verdictSchema() obj {
 			{"comparisons", obj{{"type", "array"}, {"description", "the walk from the simplest form to the richest: held-out gain, its standard error, relative gain and ΔBIC of each step, and whether it was decisive; a form with more families that beat the walk's form is also compared with the form with the walk's number of families that predicts best, when that is another"}}},
 			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes; and forms not considered, with why"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
-			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate with two fibre directions that fits better in sample (BIC at least %g lower) than every one-direction model while the held-out errors favour one direction, when that is why the verdict is undecided", aniso.DisagreeDeltaBIC)}}},
+			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate that fits better in sample (BIC at least %g lower) than every model of the kind the held-out errors favour, when that is why the verdict is undecided: a model with two fibre directions against every one-direction model, or a model with fibres against every isotropic model", aniso.DisagreeDeltaBIC)}}},
 		}},
 	}
 }

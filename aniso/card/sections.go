@@ -91,10 +91,11 @@ type VerdictSection struct {
 	StdErrFloor Num `json:"stderr_floor"`
 	// Decider names the measurement that would settle an undecided case.
 	Decider string `json:"decider,omitempty"`
-	// InSampleBest names the selection candidate with two fibre directions
-	// that fits better in sample than every one-direction model, when that
-	// disagreement with the held-out errors is why the verdict is
-	// undecided (aniso.Verdict.InSampleBest).
+	// InSampleBest names the selection candidate that fits better in
+	// sample than every model the held-out errors favour (two fibre
+	// directions against one, or fibres against none), when that
+	// disagreement is why the verdict is undecided
+	// (aniso.Verdict.InSampleBest).
 	InSampleBest string `json:"in_sample_best,omitempty"`
 }
 

@@ -261,8 +261,8 @@ func candidateForm(cc *card.CandidateCard) string {
 
 // undecidedQuestion pits the chosen model against the best model of the
 // richer form the undecided verdict points towards, or against the model
-// with two fibre directions that fits better in sample when that is why
-// the verdict is undecided (in_sample_best).
+// that fits better in sample (two fibre directions against one, or fibres
+// against none) when that is why the verdict is undecided (in_sample_best).
 func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	v, sel := f.card.Verdict, f.card.Selection
 	if sel == nil {

@@ -135,7 +135,9 @@
 // full forms (fullforms.go); the term-subset search (termsubsets.go) and
 // the refits and forward steps it feeds (refits.go); the best one-family
 // models refitted with a second family of the same kind (secondfamily.go);
-// the spread variants (spreadvariants.go); the Pareto front and fit
+// the spread variants, and the best one-family spread models refitted as
+// a pair whose densities may sum to one flat-topped peak
+// (spreadvariants.go); the Pareto front and fit
 // quality (front.go); leave-one-protocol-out cross-validation
 // (crossval.go); the decision (select.go: its rule, first the family
 // verdict, then the pick inside the winning form; verdict.go writes the

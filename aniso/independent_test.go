@@ -108,6 +108,32 @@ func (f spreadFamily) directions() spreadDirections {
 	return d
 }
 
+// wrappedNormalFamily is a fibre family whose in-plane directions follow a
+// wrapped normal density of standard deviation sd (radians) about alpha,
+// wrapped with the period π of an axial direction (Mardia & Jupp 2000,
+// §3.5; from memory), integrated as directions does, by the midpoint rule
+// with 1440 directions and the density normalised by the same sum. Unlike
+// the von Mises density of the catalogue's spread families it is not of
+// the form exp(b cos 2(θ − α)).
+func wrappedNormalFamily(alpha, sd float64, law fibreLaw) spreadDirections {
+	const n = 1440
+	d := spreadDirections{law: law, cs: make([]float64, n), sn: make([]float64, n), wts: make([]float64, n)}
+	z := 0.0
+	for i := range d.wts {
+		off := -math.Pi/2 + math.Pi*(float64(i)+0.5)/n
+		d.sn[i], d.cs[i] = math.Sincos(alpha + off)
+		for k := -3; k <= 3; k++ {
+			x := off + float64(k)*math.Pi
+			d.wts[i] += math.Exp(-x * x / (2 * sd * sd))
+		}
+		z += d.wts[i]
+	}
+	for i := range d.wts {
+		d.wts[i] /= z
+	}
+	return d
+}
+
 func (d spreadDirections) cauchy(F [4]float64) [3]float64 {
 	var s [3]float64
 	for i, w := range d.wts {

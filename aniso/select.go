@@ -197,7 +197,7 @@ func (d *Discovery) decideOn(ev evidence) {
 		}
 		lc := compare(win, fb, floor)
 		comps = append(comps, lc)
-		if lc.Decisive && fb.c.Layout.Families() > win.c.Layout.Families() {
+		if lc.Decisive && familyCount(fb.c.Result) > familyCount(win.c.Result) {
 			if rival := strongestRival(bests, win, fb); rival != nil {
 				// More families must beat the fewer families' best
 				// predictor too, not only the form the walk holds.
@@ -217,7 +217,7 @@ func (d *Discovery) decideOn(ev evidence) {
 			open = open[:0]
 			continue
 		}
-		if lc.Suggestive && fb.c.Layout.Families() != win.c.Layout.Families() {
+		if lc.Suggestive && familyCount(fb.c.Result) != familyCount(win.c.Result) {
 			open = append(open, lc)
 		}
 	}
@@ -239,10 +239,10 @@ func (d *Discovery) decideOn(ev evidence) {
 // ideal family by 7.0 % of its held-out error, ΔBIC 54.5, and the spread
 // family by 2.1 %, ΔBIC 4.9; TestMoreFamiliesMustBeatTheBestWithFewer).
 func strongestRival(bests []*formBest, win, richer *formBest) *formBest {
-	n := win.c.Layout.Families()
+	n := familyCount(win.c.Result)
 	var rival *formBest
 	for _, o := range bests {
-		if o.rank < richer.rank && o.c.Layout.Families() == n && (rival == nil || candidateLess(o.c, rival.c)) {
+		if o.rank < richer.rank && familyCount(o.c.Result) == n && (rival == nil || candidateLess(o.c, rival.c)) {
 			rival = o
 		}
 	}
@@ -327,12 +327,13 @@ func (d *Discovery) bicDisagreement(simpler, richer func(*Result) bool) (rich, s
 }
 
 // oneDirection reports whether r has one fibre direction as the data can
-// see it: one family, or without shear information two families whose
+// see it: one family (a spread pair with one peak too, see flatTop), or
+// without shear information two families whose
 // angles differ only in sign (within 1°, as verdictFor tells a mirror pair
 // from two families), which give the normal stresses of one family.
 func oneDirection(r *Result, hasShear bool) bool {
 	switch {
-	case r.Structure.Layout == LayoutSingle:
+	case r.Structure.Layout == LayoutSingle || flatTop(r):
 		return true
 	case len(r.Model.Families) == 2 && !hasShear:
 		return absAngleGapDeg(r) < 1
@@ -347,7 +348,7 @@ func oneDirection(r *Result, hasShear bool) bool {
 // 10° and 70°, say) is two directions without shear as much as two free
 // families are.
 func twoDirections(r *Result, hasShear bool) bool {
-	if len(r.Model.Families) != 2 || coincident(r) {
+	if len(r.Model.Families) != 2 || coincident(r) || flatTop(r) {
 		return false
 	}
 	return hasShear || absAngleGapDeg(r) >= 2

@@ -255,6 +255,19 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	case LayoutMirror:
 		same := absAngleGapDeg(r) < 1
 		switch {
+		case flatTop(r):
+			fs := r.Model.Families
+			mean := Deg(fs[0].Angle) + WrapDeg(Deg(fs[1].Angle-fs[0].Angle))/2
+			half := math.Abs(WrapDeg(Deg(fs[0].Angle-fs[1].Angle))) / 2
+			flat := fmt.Sprintf("one fibre family about %.1f°, spread in the plane with a flatter top than a von Mises density: a spread pair at %s (concentration %.3g, %.1f° either side) whose densities sum to a single peak", WrapDeg(mean), ang, fs[0].Concentration, half)
+			if ev.hasShear {
+				v.Families = "1"
+				v.Reason = fmt.Sprintf("%s: %s", flat, why)
+			} else {
+				v.Families = "1-or-mirror-pair"
+				v.Reason = fmt.Sprintf("%s: %s; without shear information the signs of the angles are unknown", flat, why)
+				v.Decider = decider
+			}
 		case !ev.hasShear && same:
 			v.Families = "1-or-mirror-pair"
 			v.Reason = fmt.Sprintf("a mirror pair at %s%s: %s; without shear information it cannot be told from one family at that angle", ang, spread, why)
@@ -267,7 +280,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		v.Families = "2"
 		v.Reason = fmt.Sprintf("two fibre families at %s%s: %s", ang, spread, why)
 	}
-	if !ev.hasShear && r.Structure.Layout != LayoutNone && r.Structure.Layout != LayoutSingle {
+	if !ev.hasShear && r.Structure.Layout != LayoutNone && r.Structure.Layout != LayoutSingle && !flatTop(r) {
 		v.Reason += "; signs of the angles are unknown without shear information"
 	}
 	if len(open) > 0 {

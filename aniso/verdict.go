@@ -256,18 +256,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		same := absAngleGapDeg(r) < 1
 		switch {
 		case flatTop(r):
-			fs := r.Model.Families
-			mean := Deg(fs[0].Angle) + WrapDeg(Deg(fs[1].Angle-fs[0].Angle))/2
-			half := math.Abs(WrapDeg(Deg(fs[0].Angle-fs[1].Angle))) / 2
-			flat := fmt.Sprintf("one fibre family about %.1f°, spread in the plane with a flatter top than a von Mises density: a spread pair at %s (concentration %.3g, %.1f° either side) whose densities sum to a single peak", WrapDeg(mean), ang, fs[0].Concentration, half)
-			if ev.hasShear {
-				v.Families = "1"
-				v.Reason = fmt.Sprintf("%s: %s", flat, why)
-			} else {
-				v.Families = "1-or-mirror-pair"
-				v.Reason = fmt.Sprintf("%s: %s; without shear information the signs of the angles are unknown", flat, why)
-				v.Decider = decider
-			}
+			flatTopVerdict(ev, r, why, &v)
 		case !ev.hasShear && same:
 			v.Families = "1-or-mirror-pair"
 			v.Reason = fmt.Sprintf("a mirror pair at %s%s: %s; without shear information it cannot be told from one family at that angle", ang, spread, why)
@@ -292,6 +281,41 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		v.Families = "undecided"
 		v.Decider = undecidedDecider
 	}
+	d.lookAlikeRules(ev, r, &v)
+	if ev.oneProtocol {
+		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"
+		if v.Families != "0" {
+			v.Families = "undecided"
+		}
+	}
+	return v
+}
+
+// flatTopVerdict writes the verdict of a winning spread pair whose
+// densities sum to one flat-topped peak (flatTop): one family about the
+// pair's mean direction; why says why the walk ended on it.
+func flatTopVerdict(ev evidence, r *Result, why string, v *Verdict) {
+	fs := r.Model.Families
+	mean := Deg(fs[0].Angle) + WrapDeg(Deg(fs[1].Angle-fs[0].Angle))/2
+	half := math.Abs(WrapDeg(Deg(fs[0].Angle-fs[1].Angle))) / 2
+	flat := fmt.Sprintf("one fibre family about %.1f°, spread in the plane with a flatter top than a von Mises density: a spread pair at %s (concentration %.3g, %.1f° either side) whose densities sum to a single peak", WrapDeg(mean), anglesText(r), fs[0].Concentration, half)
+	if ev.hasShear {
+		v.Families = "1"
+		v.Reason = fmt.Sprintf("%s: %s", flat, why)
+		return
+	}
+	v.Families = "1-or-mirror-pair"
+	v.Reason = fmt.Sprintf("%s: %s; without shear information the signs of the angles are unknown", flat, why)
+	v.Decider = decider
+}
+
+// lookAlikeRules makes the walk's verdict v undecided where a look-alike
+// the walk cannot weigh stands beside its answer: fibres at ±45° without
+// shear information (fortyFiveLookAlike), and a model that fits better in
+// sample, by ΔBIC ≥ DisagreeDeltaBIC, than every model of the kind the
+// held-out errors favour (inSampleDisagreement, fibreDisagreement). r is
+// the walk's winning model.
+func (d *Discovery) lookAlikeRules(ev evidence, r *Result, v *Verdict) {
 	if v.Families == "1-or-mirror-pair" && atFortyFive(r) {
 		v.Reason = fmt.Sprintf("undecided: %s, so the data do not settle whether fibres are needed: the fibres may stand in for an isotropic stiffening the catalogue lacks; the best-supported answer: %s", fortyFiveLookAlike, v.Reason)
 		v.Families = "undecided"
@@ -310,13 +334,6 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 			v.Families, v.InSampleBest, v.Decider = "undecided", fib.Name, undecidedDecider
 		}
 	}
-	if ev.oneProtocol {
-		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"
-		if v.Families != "0" {
-			v.Families = "undecided"
-		}
-	}
-	return v
 }
 
 // whyItWon says why the walk ended on win: the comparison it won

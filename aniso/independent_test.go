@@ -299,19 +299,45 @@ func nominalOf(m material, F [4]float64) [4]float64 {
 }
 
 // suturedShear finds F12, F21 with P12 = P21 = 0 at the given normal
-// stretches (a specimen on sutures shears freely), by Newton's method with
-// a finite-difference Jacobian.
+// stretches (a specimen on sutures shears freely).
 func suturedShear(t testing.TB, m material, l1, l2 float64, start [2]float64) [2]float64 {
-	x := start
-	res := func(x [2]float64) [2]float64 {
+	x, ok := newton2(start, func(x [2]float64) [2]float64 {
 		P := nominalOf(m, [4]float64{l1, x[0], x[1], l2})
 		return [2]float64{P[2], P[3]}
+	}, func(x [2]float64) float64 {
+		return math.Abs(nominalOf(m, [4]float64{l1, x[0], x[1], l2})[0]) + 1e-12
+	})
+	if !ok {
+		t.Fatalf("sutured shear did not converge at λ = (%g, %g)", l1, l2)
 	}
+	return x
+}
+
+// loadedStretches finds the stretches λ1, λ2 of a pure biaxial stretch
+// (no shear) at which material m carries the nominal stresses P11, P22 of
+// target, from start: the protocols of a load-controlled tester, which
+// holds the ratio of the two axes' loads (common practice in planar
+// biaxial testing of soft tissue).
+func loadedStretches(t testing.TB, m material, target, start [2]float64) [2]float64 {
+	scale := math.Max(math.Abs(target[0]), math.Abs(target[1])) + 1e-12
+	x, ok := newton2(start, func(x [2]float64) [2]float64 {
+		P := nominalOf(m, [4]float64{x[0], 0, 0, x[1]})
+		return [2]float64{P[0] - target[0], P[1] - target[1]}
+	}, func([2]float64) float64 { return scale })
+	if !ok {
+		t.Fatalf("no stretches carry the loads P11, P22 = %g, %g", target[0], target[1])
+	}
+	return x
+}
+
+// newton2 solves res(x) = 0 for two unknowns by Newton's method with a
+// central finite-difference Jacobian (step 1e-7), from x, until |res| <
+// 1e-11 scale(x); ok is false after 100 steps or at a singular Jacobian.
+func newton2(x [2]float64, res func([2]float64) [2]float64, scale func([2]float64) float64) ([2]float64, bool) {
 	for it := 0; it < 100; it++ {
 		r := res(x)
-		scale := math.Abs(nominalOf(m, [4]float64{l1, x[0], x[1], l2})[0]) + 1e-12
-		if math.Hypot(r[0], r[1]) < 1e-11*scale {
-			return x
+		if math.Hypot(r[0], r[1]) < 1e-11*scale(x) {
+			return x, true
 		}
 		const h = 1e-7
 		var J [2][2]float64
@@ -332,47 +358,7 @@ func suturedShear(t testing.TB, m material, l1, l2 float64, start [2]float64) [2
 		x[0] -= d0
 		x[1] -= d1
 	}
-	t.Fatalf("sutured shear did not converge at λ = (%g, %g)", l1, l2)
-	return x
-}
-
-// loadedStretches finds the stretches λ1, λ2 of a pure biaxial stretch
-// (no shear) at which material m carries the nominal stresses P11, P22 of
-// target, by Newton's method with a finite-difference Jacobian from start:
-// the protocols of a load-controlled tester, which holds the ratio of the
-// two axes' loads (common practice in planar biaxial testing of soft
-// tissue).
-func loadedStretches(t testing.TB, m material, target, start [2]float64) [2]float64 {
-	x := start
-	res := func(x [2]float64) [2]float64 {
-		P := nominalOf(m, [4]float64{x[0], 0, 0, x[1]})
-		return [2]float64{P[0] - target[0], P[1] - target[1]}
-	}
-	scale := math.Max(math.Abs(target[0]), math.Abs(target[1])) + 1e-12
-	for it := 0; it < 100; it++ {
-		r := res(x)
-		if math.Hypot(r[0], r[1]) < 1e-11*scale {
-			return x
-		}
-		const h = 1e-7
-		var J [2][2]float64
-		for k := 0; k < 2; k++ {
-			xp, xm := x, x
-			xp[k] += h
-			xm[k] -= h
-			rp, rm := res(xp), res(xm)
-			J[0][k] = (rp[0] - rm[0]) / (2 * h)
-			J[1][k] = (rp[1] - rm[1]) / (2 * h)
-		}
-		det := J[0][0]*J[1][1] - J[0][1]*J[1][0]
-		if det == 0 {
-			break
-		}
-		x[0] -= (J[1][1]*r[0] - J[0][1]*r[1]) / det
-		x[1] -= (-J[1][0]*r[0] + J[0][0]*r[1]) / det
-	}
-	t.Fatalf("no stretches carry the loads P11, P22 = %g, %g", target[0], target[1])
-	return x
+	return x, false
 }
 
 // synthFrom generates a specimen from an independent material, with the

@@ -193,18 +193,7 @@ func fibreMaterial(c10 float64, fams ...spreadFamily) material {
 func ogdenMaterial(mu, alpha float64) material {
 	return func(F [4]float64) [3]float64 {
 		j := F[0]*F[3] - F[1]*F[2]
-		B := mat.NewSymDense(3, []float64{
-			F[0]*F[0] + F[1]*F[1], F[0]*F[2] + F[1]*F[3], 0,
-			F[0]*F[2] + F[1]*F[3], F[2]*F[2] + F[3]*F[3], 0,
-			0, 0, 1 / (j * j),
-		})
-		var eig mat.EigenSym
-		if !eig.Factorize(B, true) {
-			panic("eigen-decomposition failed")
-		}
-		vals := eig.Values(nil)
-		var vecs mat.Dense
-		eig.VectorsTo(&vecs)
+		vals, vecs := eigenB(F)
 		p := 2 * mu / alpha * math.Pow(1/(j*j), alpha/2)
 		var s [3]float64
 		for i, v := range vals {
@@ -221,6 +210,25 @@ func ogdenMaterial(mu, alpha float64) material {
 	}
 }
 
+// eigenB returns the eigenvalues and eigenvectors (columns) of the full
+// 3×3 B = F Fᵀ of an incompressible membrane at the in-plane F, by gonum's
+// symmetric eigen-decomposition.
+func eigenB(F [4]float64) ([]float64, *mat.Dense) {
+	j := F[0]*F[3] - F[1]*F[2]
+	B := mat.NewSymDense(3, []float64{
+		F[0]*F[0] + F[1]*F[1], F[0]*F[2] + F[1]*F[3], 0,
+		F[0]*F[2] + F[1]*F[3], F[2]*F[2] + F[3]*F[3], 0,
+		0, 0, 1 / (j * j),
+	})
+	var eig mat.EigenSym
+	if !eig.Factorize(B, true) {
+		panic("eigen-decomposition failed")
+	}
+	var vecs mat.Dense
+	eig.VectorsTo(&vecs)
+	return eig.Values(nil), &vecs
+}
+
 // principalMaterial is an isotropic incompressible solid given by its
 // Kirchhoff stresses τi = λi ∂Ψ/∂λi in terms of the principal stretches,
 // which come from a full 3×3 eigen-decomposition of B by gonum (a
@@ -228,19 +236,7 @@ func ogdenMaterial(mu, alpha float64) material {
 // directions, the pressure fixed by σ33 = 0.
 func principalMaterial(tau func(l [3]float64) [3]float64) material {
 	return func(F [4]float64) [3]float64 {
-		j := F[0]*F[3] - F[1]*F[2]
-		B := mat.NewSymDense(3, []float64{
-			F[0]*F[0] + F[1]*F[1], F[0]*F[2] + F[1]*F[3], 0,
-			F[0]*F[2] + F[1]*F[3], F[2]*F[2] + F[3]*F[3], 0,
-			0, 0, 1 / (j * j),
-		})
-		var eig mat.EigenSym
-		if !eig.Factorize(B, true) {
-			panic("eigen-decomposition failed")
-		}
-		vals := eig.Values(nil)
-		var vecs mat.Dense
-		eig.VectorsTo(&vecs)
+		vals, vecs := eigenB(F)
 		var l [3]float64
 		k3 := -1
 		for i, v := range vals {

@@ -76,7 +76,17 @@ func hasGreen(m *Model) bool {
 // ratio. Tests whose scores could say nothing new are left out, with a note.
 func (d *designer) candidates(set DesignSettings) ([]PlannedTest, []string) {
 	var notes []string
+	// Mountings and sutures matter as soon as one explanation has fibres,
+	// even when the fitted model has none (an undecided verdict between an
+	// isotropic model and one with fibres).
 	iso := len(d.r.Model.Families) == 0
+	for _, q := range d.qs {
+		for _, e := range q.Explanations {
+			if e.Model != nil && len(e.Model.Families) > 0 {
+				iso = false
+			}
+		}
+	}
 	sutured := !set.NoSutured && !iso
 	// With shear information the specimen is taken to be on sutures or
 	// rakes already; a planned test in the same set-up keeps it.
@@ -103,7 +113,7 @@ func (d *designer) candidates(set DesignSettings) ([]PlannedTest, []string) {
 	}
 	switch {
 	case iso:
-		notes = append(notes, "the model is isotropic: its response does not depend on how the specimen is mounted and it predicts no shear on sutures, so only stretch ratios are planned, and no planned test is scored on a fibre question")
+		notes = append(notes, "the model is isotropic, as is every explanation a question weighs: its response does not depend on how the specimen is mounted and it predicts no shear on sutures, so only stretch ratios are planned, and no planned test is scored on a fibre question")
 	case len(set.MountingsDeg) > 0 && hasGreen(d.r.Model):
 		notes = append(notes, "off-axis mountings are not planned: the Fung-type term is tied to the tester's axes, and turned axes would need coupling terms its form does not have")
 	default:

@@ -347,3 +347,45 @@ func editCard(t *testing.T, dir string, edit func(raw map[string]any)) {
 		t.Fatal(err)
 	}
 }
+
+// A verdict left undecided between the isotropic model it picked and a
+// model with fibres that fits better in sample (testdata/orthogonal-
+// fibres-load-controlled.csv, SYNTHETIC: equal families at 0° and 90°
+// tested under load control, made by aniso's independent generator) is a
+// question the plan weighs, although the chosen model has no fibres: the
+// explanations are the isotropic pick and the model with fibres, tests on
+// sutures and off-axis mountings are among the candidates, and the first
+// ranked test settles it.
+func TestPlanIsotropicPickAgainstFibres(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	dir := filepath.Join(t.TempDir(), "ortho.weft")
+	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "orthogonal-fibres-load-controlled.csv"), "-o", dir, "--quiet"); code != 0 {
+		t.Fatalf("fit: exit %d: %s", code, errs)
+	}
+	pl, _ := planJSON(t, dir)
+	var q *planning.Question
+	for i := range pl.Questions {
+		if pl.Questions[i].Topic == "fibre families (undecided verdict)" {
+			q = &pl.Questions[i]
+		}
+	}
+	if q == nil {
+		t.Fatalf("no question for the undecided verdict: %+v (notes %q)", pl.Questions, pl.Notes)
+	}
+	if !q.Verdict || len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 0 as chosen") || !strings.Contains(q.Explanations[1], "@") {
+		t.Errorf("undecided question %+v, want the isotropic pick against a model with fibres", *q)
+	}
+	turned := false
+	for _, c := range pl.Candidates {
+		turned = turned || c.Sutured || c.MountingDeg != 0
+	}
+	if !turned {
+		t.Error("no test on sutures or in another mounting among the candidates, though one explanation has fibres")
+	}
+	if len(pl.Candidates) == 0 || len(pl.Candidates[0].Decides) == 0 {
+		t.Errorf("the first ranked test settles nothing: %+v", pl.Candidates[:min(1, len(pl.Candidates))])
+	}
+}

@@ -231,14 +231,13 @@ func (f *Folder) Questions() ([]aniso.Question, []string) {
 	r := f.Result
 	var qs []aniso.Question
 	var notes []string
-	iso := len(r.Model.Families) == 0
 	if q, ok := aniso.LayoutQuestion(r.Model, r.SignKnown); ok {
 		qs = append(qs, q)
 	}
 	if v := f.card.Verdict; v != nil && v.Families == "undecided" {
-		if iso {
-			notes = append(notes, "the verdict is undecided, but the chosen model is isotropic: it predicts nothing a fibre family would do, so no planned test is scored on the family count")
-		} else if q, ok := f.undecidedQuestion(); ok {
+		// An isotropic chosen model is weighed against the model with
+		// fibres too: the question is whether fibres are needed.
+		if q, ok := f.undecidedQuestion(); ok {
 			qs = append(qs, q)
 		}
 	}

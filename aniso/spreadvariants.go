@@ -109,8 +109,8 @@ func spreadAtBound(r *Result) bool {
 // has: it refits the spread mirror pair with the same terms about the
 // model's direction, the half-angle started at flatTopStartDeg and the
 // concentration at twice the model's. Two spread families at ±β about α
-// whose densities sum to one flat-topped peak (flatTop) are one family with a
-// flat-topped spread; further apart they are two. Only models spread
+// whose densities sum to one peak with a visible top (flatTop) are one
+// family with a flat-topped spread; further apart they are two. Only models spread
 // widely enough for the density's shape to show (concentration below
 // flatTopMaxConcentration) are refitted.
 //
@@ -146,6 +146,8 @@ func (s *search) flatTopRefits() {
 		}
 		st := activeStructure(r)
 		st.Layout = LayoutMirror
+		// Shape parameters are named after their term's label: "@f1" on
+		// the one family, "@pair" on a mirror pair (build).
 		init := map[string]float64{}
 		for name, v := range r.Params() {
 			init[strings.ReplaceAll(name, "@f1]", "@pair]")] = v

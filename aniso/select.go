@@ -289,7 +289,7 @@ func (d *Discovery) inSampleDisagreement(ev evidence) (two, one *Candidate, gap 
 // exponentiated Hencky matrices; stretch- and load-controlled protocols,
 // 2 and 5 % noise, with and without shear, two seeds) gave −0.3 at most;
 // equal fibre families at 0° and 90° on a neo-Hookean matrix,
-// load-controlled at 2 % noise, 6.3–11.5 with an isotropic verdict by
+// load-controlled at 2 % noise, 6.3–10.0 with an isotropic verdict by
 // held-out error (TestFibresFitBetterThanIsotropicIsUndecided).
 // It returns the model with fibres, the best isotropic model and the gap,
 // or nils.

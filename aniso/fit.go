@@ -80,6 +80,12 @@ func (s Settings) withDefaults(nAngles int, planar bool) Settings {
 	return s
 }
 
+// shapeParamName names shape parameter name of term t in layout l as fits
+// report it (Result.Params, Estimate.Name), e.g. "stiffening[fib-expsq@f1]".
+func shapeParamName(name string, t TermSpec, l Layout) string {
+	return fmt.Sprintf("%s[%s]", name, t.Label(l))
+}
+
 // build makes the model and the parameter list of a structure.
 func build(st Structure) (*Model, [][]int, []int, []param) {
 	nf := st.Layout.Families()
@@ -145,7 +151,7 @@ func build(st Structure) (*Model, [][]int, []int, []param) {
 	}
 	for g, t := range st.Terms {
 		for j, q := range t.Shape.Params {
-			ps = append(ps, param{Kind: kindShape, Name: fmt.Sprintf("%s[%s]", q.Name, t.Label(st.Layout)), Group: g, Index: j, Lo: q.Min, Hi: q.Max})
+			ps = append(ps, param{Kind: kindShape, Name: shapeParamName(q.Name, t, st.Layout), Group: g, Index: j, Lo: q.Min, Hi: q.Max})
 		}
 	}
 	return m, groups, famOf, ps

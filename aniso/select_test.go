@@ -600,10 +600,8 @@ func TestFlatToppedSpreadIsOneFamily(t *testing.T) {
 	if !flatTop(r) || familyCount(r) != 1 {
 		t.Fatalf("chosen %s (%s): want a spread pair whose densities sum to one flat-topped peak", d.Best().Name, anglesText(r))
 	}
-	fs := r.Model.Families
-	mean := Deg(fs[0].Angle) + WrapDeg(Deg(fs[1].Angle-fs[0].Angle))/2
-	if angleErr(WrapDeg(mean), 35) > 3 {
-		t.Errorf("mean direction %.1f°, true 35°", WrapDeg(mean))
+	if mean, _ := pairGeometryDeg(r); angleErr(mean, 35) > 3 {
+		t.Errorf("mean direction %.1f°, true 35°", mean)
 	}
 	if !strings.Contains(d.Verdict.Reason, "flatter top than a von Mises density") {
 		t.Errorf("the reason does not say the spread is flat-topped: %q", d.Verdict.Reason)
@@ -614,7 +612,9 @@ func TestFlatToppedSpreadIsOneFamily(t *testing.T) {
 // fibres placed symmetrically about the 45° line (symmetricAbout45) and a
 // spread pair whose densities sum to one peak with a visible top
 // (flatTop). The flat-top limit βmax solves b·sin²2β = cos 2β (derived in
-// flatTop's comment; for b = 4, cos 2βmax = (√65 − 1)/8, βmax ≈ 13.9°).
+// flatTop's comment; for b = 4, cos 2βmax = (√65 − 1)/8, βmax ≈ 13.9°);
+// the test checks each pair against a brute-force count of the summed
+// density's maxima over 20 000 directions, which does not use the limit.
 func TestLookAlikeGeometry(t *testing.T) {
 	res := func(l Layout, planar bool, b float64, angles ...float64) *Result {
 		m := &Model{}
@@ -658,5 +658,29 @@ func TestLookAlikeGeometry(t *testing.T) {
 		if got := flatTop(c.r); got != c.want {
 			t.Errorf("flatTop, %s: %v, want %v", c.name, got, c.want)
 		}
+	}
+	// The single peak itself, counted on a fine grid of x = 2(θ − α).
+	peaks := func(b, beta float64) int {
+		const n = 20000
+		g := make([]float64, n)
+		for i := range g {
+			x := -math.Pi + 2*math.Pi*float64(i)/n
+			g[i] = math.Exp(b*math.Cos(x-2*beta)) + math.Exp(b*math.Cos(x+2*beta))
+		}
+		k := 0
+		for i := range g {
+			if g[i] > g[(i+n-1)%n] && g[i] >= g[(i+1)%n] {
+				k++
+			}
+		}
+		return k
+	}
+	for _, f := range []float64{0.51, 0.99} {
+		if k := peaks(4, Rad(f*bmax)); k != 1 {
+			t.Errorf("b 4, β = %.2f βmax: the summed density has %d maxima, flatTop says one", f, k)
+		}
+	}
+	if k := peaks(4, Rad(1.01*bmax)); k != 2 {
+		t.Errorf("b 4, β = 1.01 βmax: the summed density has %d maxima, flatTop says two", k)
 	}
 }

@@ -7,7 +7,6 @@ package aniso
 import (
 	"fmt"
 	"math"
-	"strings"
 )
 
 // planarVariants refits, with the families spread in the plane, the best
@@ -146,16 +145,18 @@ func (s *search) flatTopRefits() {
 		}
 		st := activeStructure(r)
 		st.Layout = LayoutMirror
-		// Shape parameters are named after their term's label: "@f1" on
-		// the one family, "@pair" on a mirror pair (build).
-		init := map[string]float64{}
-		for name, v := range r.Params() {
-			init[strings.ReplaceAll(name, "@f1]", "@pair]")] = v
+		// The pair keeps the family's terms, renamed for its layout.
+		old := r.Params()
+		init := map[string]float64{
+			"mean_angle":    old["angle"],
+			"half_angle":    Rad(flatTopStartDeg),
+			"concentration": math.Min(2*old["concentration"], FitMaxConcentration),
 		}
-		init["mean_angle"] = init["angle"]
-		delete(init, "angle")
-		init["half_angle"] = Rad(flatTopStartDeg)
-		init["concentration"] = math.Min(2*init["concentration"], FitMaxConcentration)
+		for _, t := range st.Terms {
+			for _, q := range t.Shape.Params {
+				init[shapeParamName(q.Name, t, LayoutMirror)] = old[shapeParamName(q.Name, t, LayoutSingle)]
+			}
+		}
 		round = append(round, &refit{form: mirror, st: st, init: init})
 	}
 	if len(round) == 0 {
@@ -202,12 +203,22 @@ func flatTop(r *Result) bool {
 		return false
 	}
 	b := fs[0].Concentration
-	phi := Rad(math.Abs(WrapDeg(Deg(fs[0].Angle - fs[1].Angle)))) // 2β
+	_, half := pairGeometryDeg(r)
+	phi := Rad(2 * half) // 2β
 	if b <= 0 {
 		return false // every in-plane direction alike: no peak at all
 	}
 	maxPhi := math.Acos((math.Sqrt(1+4*b*b) - 1) / (2 * b)) // 2βmax
 	return phi <= maxPhi && phi >= maxPhi/2
+}
+
+// pairGeometryDeg returns the mean direction of r's two families and half
+// the angle between them (degrees, along the shorter way round the 180°
+// period of a direction).
+func pairGeometryDeg(r *Result) (mean, half float64) {
+	fs := r.Model.Families
+	d := WrapDeg(Deg(fs[1].Angle - fs[0].Angle))
+	return WrapDeg(Deg(fs[0].Angle) + d/2), math.Abs(d) / 2
 }
 
 // familyCount is the number of fibre families r describes: a spread pair

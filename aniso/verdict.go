@@ -310,10 +310,8 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 // densities sum to one flat-topped peak (flatTop): one family about the
 // pair's mean direction; why says why the walk ended on it.
 func flatTopVerdict(ev evidence, r *Result, why string, v *Verdict) {
-	fs := r.Model.Families
-	mean := Deg(fs[0].Angle) + WrapDeg(Deg(fs[1].Angle-fs[0].Angle))/2
-	half := math.Abs(WrapDeg(Deg(fs[0].Angle-fs[1].Angle))) / 2
-	flat := fmt.Sprintf("one fibre family about %.1f°, spread in the plane with a flatter top than a von Mises density: a spread pair at %s (concentration %.3g, %.1f° either side) whose densities sum to a single peak", WrapDeg(mean), anglesText(r), fs[0].Concentration, half)
+	mean, half := pairGeometryDeg(r)
+	flat := fmt.Sprintf("one fibre family about %.1f°, spread in the plane with a flatter top than a von Mises density: a spread pair at %s (concentration %.3g, %.1f° either side) whose densities sum to a single peak", mean, anglesText(r), r.Model.Families[0].Concentration, half)
 	if ev.hasShear {
 		v.Families = "1"
 		v.Reason = fmt.Sprintf("%s: %s", flat, why)

@@ -737,3 +737,135 @@ func TestLookAlikeGeometry(t *testing.T) {
 		t.Errorf("b 4, β = 1.01 βmax: the summed density has %d maxima, flatTop says two", k)
 	}
 }
+
+// Fibres placed symmetrically about the tester's axes (axisSymmetric) put
+// no shear stress on a specimen stretched along those axes, so they do
+// not shear it on sutures, and fibres placed otherwise do: checked against
+// the independent integration of independent_test.go (σ12 at
+// F = diag(1.2, 1.1)), not the package's own stress. The predicate allows
+// 1° either way, as the verdict's other angle tests do.
+func TestAxisSymmetricShearsNoSuturedSpecimen(t *testing.T) {
+	law := expSqFibre(20, 3)
+	F := [4]float64{1.2, 0, 0, 1.1}
+	for _, c := range []struct {
+		name   string
+		layout Layout
+		angles []float64
+		want   bool
+	}{
+		{"one family at 0°", LayoutSingle, []float64{0}, true},
+		{"one family at 90°", LayoutSingle, []float64{90}, true},
+		{"one family at 30°", LayoutSingle, []float64{30}, false},
+		{"a pair at ±40°", LayoutMirror, []float64{40, -40}, true},
+		{"a pair at 40° and −35°", LayoutMirror, []float64{40, -35}, false},
+		{"families at 0° and 90°", LayoutFree, []float64{0, 90}, true},
+		{"families at 10° and 80°", LayoutFree, []float64{10, 80}, false},
+	} {
+		m := &Model{}
+		var fams []spreadFamily
+		for _, a := range c.angles {
+			m.Families = append(m.Families, Family{Angle: Rad(a)})
+			fams = append(fams, spreadFamily{Rad(a), -1, law})
+		}
+		s := fibreMaterial(1, fams...)(F)
+		scale := math.Max(math.Abs(s[0]), math.Abs(s[1]))
+		sheared := math.Abs(s[2]) > 1e-3*scale
+		if !c.want && !sheared || c.want && math.Abs(s[2]) > 1e-9*scale {
+			t.Fatalf("%s: σ12 = %.3g against %.3g (independent integration): the case is mislabelled", c.name, s[2], scale)
+		}
+		r := &Result{Structure: Structure{Layout: c.layout}, Model: m, SignKnown: true}
+		if got := axisSymmetric(r); got != c.want {
+			t.Errorf("%s: axisSymmetric %v, want %v (σ12 = %.3g)", c.name, got, c.want, s[2])
+		}
+		// Within the tolerance of 1° the answer holds.
+		for i := range m.Families {
+			m.Families[i].Angle += Rad(0.6 * float64(1-2*(i%2)))
+		}
+		if got := axisSymmetric(r); got != c.want {
+			t.Errorf("%s, moved by 0.6°: axisSymmetric %v, want %v", c.name, got, c.want)
+		}
+	}
+}
+
+// Two spread families at ±40° on sutures leave the shear at zero (their
+// symmetry about axis 1), and one family at 0° with isotropic terms fits
+// and predicts the protocols about as well as the true pair; the walk
+// keeps fewer families unless more beat them and had answered a confident
+// 1 at 0°. The architecture-tie rule makes it undecided and names the
+// pair. The control is one broad family at 0° (concentration 1), whose
+// rival pair at about ±28° brackets it within 60°, a look-alike of the
+// spread: it stays 1.
+func TestArchitectureTieIsUndecided(t *testing.T) {
+	if testing.Short() {
+		t.Skip("two discoveries")
+	}
+	t.Parallel()
+	o := synthOptions{noise: 0.02, points: 30, seed: 1, sutured: true, maxStrain: 0.2}
+	pair := fibreMaterial(3, spreadFamily{40 * deg, 4, expSqFibre(30, 3)}, spreadFamily{-40 * deg, 4, expSqFibre(30, 3)})
+	d, _ := discoverSpecimen(t, synthFrom(t, pair, o))
+	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	if d.Verdict.Families != "undecided" || d.Verdict.Decider != archDecider {
+		t.Fatalf("spread pair at ±40° on sutures: verdict %s (decider %q), want undecided with the off-axis decider", d.Verdict.Families, d.Verdict.Decider)
+	}
+	if !strings.Contains(d.Verdict.Reason, "with their fibres in different places") {
+		t.Errorf("the reason does not name the tie: %q", d.Verdict.Reason)
+	}
+	o.seed = 2
+	one := fibreMaterial(3, spreadFamily{0, 1, expSqFibre(30, 3)})
+	d, _ = discoverSpecimen(t, synthFrom(t, one, o))
+	t.Logf("control: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	if d.Verdict.Families != "1" {
+		t.Errorf("one broad family at 0° on sutures: verdict %s, want 1", d.Verdict.Families)
+	}
+}
+
+// Equal fibre families at ±45° on sutures: the measured shear is zero, as
+// an isotropic material's is, and the pair stiffens both axes alike, so
+// the isotropic verdict must say such fibres cannot be ruled out and name
+// the protocol that would (before: a confident 0 with no caution).
+func TestFortyFiveDegreePairOnSutures(t *testing.T) {
+	// The rule alone, on hand-made winners: a pair at ±45° on sutures is
+	// undecided; one family at 45° shears a sutured specimen, so the shear
+	// decides and its verdict stands.
+	for _, c := range []struct {
+		name   string
+		layout Layout
+		angles []float64
+		in     string
+		want   string
+	}{
+		{"a pair at ±45°", LayoutMirror, []float64{45.3, -44.8}, "2", "undecided"},
+		{"one family at 45°", LayoutSingle, []float64{45}, "1", "1"},
+		{"a pair at ±40°", LayoutMirror, []float64{40, -40}, "2", "2"},
+	} {
+		m := &Model{}
+		for _, a := range c.angles {
+			m.Families = append(m.Families, Family{Angle: Rad(a)})
+		}
+		r := &Result{Structure: Structure{Layout: c.layout}, Model: m, SignKnown: true}
+		v := Verdict{Families: c.in}
+		(&Discovery{}).lookAlikeRules(evidence{hasShear: true}, r, &v)
+		if v.Families != c.want {
+			t.Errorf("%s on sutures: verdict %s, want %s", c.name, v.Families, c.want)
+		}
+		if c.want == "undecided" && v.Decider != shearedDecider {
+			t.Errorf("%s on sutures: decider %q", c.name, v.Decider)
+		}
+	}
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	m := fibreMaterial(3, spreadFamily{45 * deg, -1, expSqFibre(30, 3)}, spreadFamily{-45 * deg, -1, expSqFibre(30, 3)})
+	d, _ := discoverSpecimen(t, synthFrom(t, m, synthOptions{noise: 0.02, points: 30, seed: 3, sutured: true, maxStrain: 0.2}))
+	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	switch d.Verdict.Families {
+	case "0":
+		if !strings.Contains(d.Verdict.Reason, symmetricLookAlikeSheared) || d.Verdict.Decider != shearedDecider {
+			t.Errorf("an isotropic verdict on sutures without the look-alike caution: %q (decider %q)", d.Verdict.Reason, d.Verdict.Decider)
+		}
+	case "2", "undecided":
+	default:
+		t.Errorf("verdict %s for a pair at ±45°", d.Verdict.Families)
+	}
+}

@@ -293,13 +293,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	case LayoutNone:
 		v.Families = "0"
 		v.Reason = "isotropic: " + why
-		if !ev.hasShear {
-			v.Reason += "; " + symmetricLookAlike + ", so without shear information such fibres cannot be ruled out"
-			v.Decider = decider
-		} else {
-			v.Reason += "; " + symmetricLookAlikeSheared + ", so such fibres cannot be ruled out"
-			v.Decider = shearedDecider
-		}
+		isotropicCaution(ev, &v)
 	case LayoutSingle:
 		if ev.hasShear {
 			v.Families = "1"
@@ -347,6 +341,22 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		}
 	}
 	return v
+}
+
+// isotropicCaution adds to an isotropic verdict that fibres placed
+// symmetrically about the 45° line cannot be ruled out, and what would
+// rule them out: shear information where there is none
+// (symmetricLookAlike), a specimen turned off the axes where the shear
+// measured on sutures is that of a symmetric material
+// (symmetricLookAlikeSheared).
+func isotropicCaution(ev evidence, v *Verdict) {
+	if !ev.hasShear {
+		v.Reason += "; " + symmetricLookAlike + ", so without shear information such fibres cannot be ruled out"
+		v.Decider = decider
+		return
+	}
+	v.Reason += "; " + symmetricLookAlikeSheared + ", so such fibres cannot be ruled out"
+	v.Decider = shearedDecider
 }
 
 // flatTopVerdict writes the verdict of a winning spread pair whose

@@ -163,17 +163,26 @@ func axisSymmetric(r *Result) bool {
 	if len(fs) == 0 {
 		return true
 	}
-	onAxes := true
-	for _, f := range fs {
-		a := math.Abs(WrapDeg(Deg(f.Angle)))
-		if a >= 1 && math.Abs(a-90) >= 1 {
-			onAxes = false
-		}
-	}
-	if onAxes {
+	if everyFamilyNear(fs, 0, 90) {
 		return true
 	}
 	return len(fs) == 2 && math.Abs(WrapDeg(Deg(fs[0].Angle+fs[1].Angle))) < 1
+}
+
+// everyFamilyNear reports whether every family's angle lies within 1° of
+// ± one of the given angles (degrees); true when there are none.
+func everyFamilyNear(fs []Family, deg ...float64) bool {
+	for _, f := range fs {
+		a := math.Abs(WrapDeg(Deg(f.Angle)))
+		near := false
+		for _, d := range deg {
+			near = near || math.Abs(a-d) < 1
+		}
+		if !near {
+			return false
+		}
+	}
+	return true
 }
 
 // symmetricAbout45 reports whether r's fibres are placed symmetrically
@@ -186,13 +195,7 @@ func symmetricAbout45(r *Result) bool {
 	if len(fs) == 0 {
 		return false
 	}
-	all45 := true
-	for _, f := range fs {
-		if math.Abs(math.Abs(WrapDeg(Deg(f.Angle)))-45) >= 1 {
-			all45 = false
-		}
-	}
-	if all45 {
+	if everyFamilyNear(fs, 45) {
 		return true
 	}
 	if r.Structure.Layout != LayoutMirror || len(fs) != 2 {

@@ -810,6 +810,15 @@ func TestArchitectureTieIsUndecided(t *testing.T) {
 	if !strings.Contains(d.Verdict.Reason, "with their fibres in different places") {
 		t.Errorf("the reason does not name the tie: %q", d.Verdict.Reason)
 	}
+	tied := false
+	for _, c := range d.Pareto {
+		if c.Name == d.Verdict.TiesWith {
+			tied = familyCount(c.Result) == 2
+		}
+	}
+	if !tied {
+		t.Errorf("TiesWith %q does not name a two-family candidate", d.Verdict.TiesWith)
+	}
 	o.seed = 2
 	one := fibreMaterial(3, spreadFamily{0, 1, expSqFibre(30, 3)})
 	d, _ = discoverSpecimen(t, synthFrom(t, one, o))

@@ -49,6 +49,11 @@ type Verdict struct {
 	// one-direction model (inSampleDisagreement), or a model with fibres
 	// against every isotropic model (fibreDisagreement); empty otherwise.
 	InSampleBest string
+	// TiesWith names the candidate (in Discovery.Pareto) with two fibre
+	// families placed elsewhere that fits and predicts as well as the
+	// one-family answer, when that tie is why the verdict is undecided
+	// (architectureTie); empty otherwise.
+	TiesWith string
 }
 
 // LayoutComparison is one step of the walk over forms: whether a richer
@@ -562,5 +567,5 @@ func (d *Discovery) architectureTieRule(ev evidence, win *formBest, v *Verdict) 
 	}
 	v.Reason = fmt.Sprintf("undecided: one fibre family at %s (%s) and two families at %s (%s) fit and predict the tested protocols alike (%s), with their fibres in different places; the data do not settle how many families there are or where they lie, and the two explanations differ off the tested axes; the best-supported answer by the rule that keeps fewer families unless more beat them: %s",
 		anglesText(win.c.Result), win.c.Name, anglesText(tie.c.Result), tie.c.Name, lc, v.Reason)
-	v.Families, v.Decider = "undecided", archDecider
+	v.Families, v.Decider, v.TiesWith = "undecided", archDecider, tie.c.Name
 }

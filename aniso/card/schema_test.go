@@ -250,6 +250,7 @@ func verdictSchema() obj {
 			{"ruled_out", obj{{"type", "array"}, {"items", obj{{"type", "string"}}}, {"description", "richer explanations that fitted better without beating the verdict's form by more than the noise, and look-alikes; and forms not considered, with why"}}},
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
 			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate that fits better in sample (BIC at least %g lower) than every model of the kind the held-out errors favour, when that is why the verdict is undecided: a model with two fibre directions against every one-direction model, or a model with fibres against every isotropic model", aniso.DisagreeDeltaBIC)}}},
+			{"ties_with", obj{{"type", "string"}, {"description", "the selection candidate with two fibre families placed elsewhere (every family at least 20° from the one-family answer's direction, the two at least 60° apart) that fits and predicts as well as the one-family answer (held-out error within one standard error, BIC not 6 or more higher), when that tie is why the verdict is undecided"}}},
 		}},
 	}
 }

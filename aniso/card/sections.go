@@ -97,6 +97,11 @@ type VerdictSection struct {
 	// disagreement is why the verdict is undecided
 	// (aniso.Verdict.InSampleBest).
 	InSampleBest string `json:"in_sample_best,omitempty"`
+	// TiesWith names the selection candidate with two fibre families
+	// placed elsewhere that fits and predicts as well as the one-family
+	// answer, when that tie is why the verdict is undecided
+	// (aniso.Verdict.TiesWith).
+	TiesWith string `json:"ties_with,omitempty"`
 }
 
 // ComparisonCard is one step of the verdict's walk over forms.
@@ -114,7 +119,7 @@ type ComparisonCard struct {
 // NewVerdictSection describes discovery's verdict; form is the key of the
 // chosen model's form.
 func NewVerdictSection(v aniso.Verdict, form string) VerdictSection {
-	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider, InSampleBest: v.InSampleBest,
+	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider, InSampleBest: v.InSampleBest, TiesWith: v.TiesWith,
 		DeltaBIC: map[string]Num{}, HeldoutError: map[string]Num{}, RuledOut: append([]string{}, v.RuledOut...), Comparisons: []ComparisonCard{},
 		Noise: Num(v.Noise), StdErrFloor: Num(v.StdErrFloor)}
 	for k, x := range v.DeltaBIC {

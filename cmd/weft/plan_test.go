@@ -11,6 +11,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/cmd/weft/internal/planning"
 )
 
@@ -387,5 +388,50 @@ func TestPlanIsotropicPickAgainstFibres(t *testing.T) {
 	}
 	if len(pl.Candidates) == 0 || len(pl.Candidates[0].Decides) == 0 {
 		t.Errorf("the first ranked test settles nothing: %+v", pl.Candidates[:min(1, len(pl.Candidates))])
+	}
+}
+
+// An undecided verdict from an architecture tie (one family at 0° against
+// a spread pair at ±40°, which fit and predict the sutured protocols
+// alike; aniso.TestArchitectureTieIsUndecided, on the same independently
+// generated specimen) becomes a question, and an off-axis protocol on
+// sutures settles it: turned 45°, the pair and the single family load the
+// tester's axes differently.
+func TestPlanArchitectureTie(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	dir := filepath.Join(t.TempDir(), "pair.weft")
+	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "spread-pair-40-sutured.csv"), "-o", dir, "--quiet"); code != 0 {
+		t.Fatalf("fit: exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(dir, "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	c, _, err := card.Parse(f, "model.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Verdict.Families != "undecided" || c.Verdict.TiesWith == "" {
+		t.Fatalf("verdict %s, ties_with %q: want undecided by an architecture tie", c.Verdict.Families, c.Verdict.TiesWith)
+	}
+	pl, _ := planJSON(t, dir)
+	var q *planning.Question
+	for i := range pl.Questions {
+		if pl.Questions[i].Topic == "fibre families (undecided verdict)" {
+			q = &pl.Questions[i]
+		}
+	}
+	if q == nil {
+		t.Fatalf("no question for the undecided verdict: %+v (notes %q)", pl.Questions, pl.Notes)
+	}
+	if len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 1 as chosen") || !strings.Contains(q.Explanations[1], c.Verdict.TiesWith) {
+		t.Errorf("undecided question %+v, want the one-family pick against %s", *q, c.Verdict.TiesWith)
+	}
+	if len(pl.Candidates) == 0 || pl.Candidates[0].MountingDeg == 0 || !pl.Candidates[0].Sutured || len(pl.Candidates[0].Decides) == 0 {
+		t.Errorf("the first ranked test is not an off-axis test on sutures that settles the question: %+v", pl.Candidates[:min(1, len(pl.Candidates))])
 	}
 }

@@ -261,11 +261,16 @@ func candidateForm(cc *card.CandidateCard) string {
 // undecidedQuestion pits the chosen model against the best model of the
 // richer form the undecided verdict points towards, or against the model
 // that fits better in sample (two fibre directions against one, or fibres
-// against none) when that is why the verdict is undecided (in_sample_best).
+// against none) or ties with it with fibres placed elsewhere, when that is
+// why the verdict is undecided (in_sample_best, ties_with).
 func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	v, sel := f.card.Verdict, f.card.Selection
 	if sel == nil {
 		return aniso.Question{}, false
+	}
+	named := v.InSampleBest
+	if named == "" {
+		named = v.TiesWith
 	}
 	var toward string
 	for _, lc := range v.Comparisons {
@@ -278,8 +283,8 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 		cc := &sel.Pareto[i]
 		switch {
 		case cc.Model == nil:
-		case toward == "" && v.InSampleBest != "":
-			if cc.Name == v.InSampleBest {
+		case toward == "" && named != "":
+			if cc.Name == named {
 				best = cc
 			}
 		case candidateForm(cc) == toward && !math.IsNaN(float64(cc.HeldoutError)):

@@ -530,6 +530,10 @@ func (d *Discovery) architectureTie(ev evidence, win *formBest) (*formBest, Layo
 		return math.Abs(WrapDeg(a - b))
 	}
 	floor := seFloor(d.noiseLevel(ev), ev)
+	// The gain in standard errors; the standard error is floored
+	// (seFloor) and zero only for data without noise, where the tiny
+	// floor here keeps the order by gain.
+	z := func(c LayoutComparison) float64 { return c.Gain / math.Max(c.StdErr, math.SmallestNonzeroFloat64) }
 	var tie *formBest
 	var tieLC LayoutComparison
 	for _, fb := range d.formBests() {
@@ -545,7 +549,7 @@ func (d *Discovery) architectureTie(ev evidence, win *formBest) (*formBest, Layo
 		if math.IsNaN(lc.Gain) || lc.Gain < -lc.StdErr || lc.DeltaBIC <= -DisagreeDeltaBIC {
 			continue
 		}
-		if tie == nil || lc.Gain/lc.StdErr > tieLC.Gain/tieLC.StdErr {
+		if tie == nil || z(lc) > z(tieLC) {
 			tie, tieLC = fb, lc
 		}
 	}

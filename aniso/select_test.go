@@ -605,15 +605,7 @@ func TestFlatToppedSpreadIsOneFamily(t *testing.T) {
 // standard deviation 20° (not a von Mises density), exponential fibres on
 // a neo-Hookean matrix.
 func wrappedNormalSpecimen(t *testing.T, seed uint64) *biaxial.Specimen {
-	fam := wrappedNormalFamily(35*deg, 20*deg, expSqFibre(40, 3))
-	mat := func(F [4]float64) [3]float64 {
-		s := neoHookeanMatrix(3, F)
-		c := fam.cauchy(F)
-		for j := range s {
-			s[j] += c[j]
-		}
-		return s
-	}
+	mat := withMatrix(3, wrappedNormalFamily(35*deg, 20*deg, expSqFibre(40, 3)))
 	return synthFrom(t, mat, synthOptions{noise: 0.03, points: 30, seed: seed, sutured: true, maxStrain: 0.2})
 }
 

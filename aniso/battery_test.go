@@ -1,0 +1,211 @@
+package aniso
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+)
+
+// batteryFile pins the verdict battery's outcomes (see TestVerdictBattery);
+// batteryHeader is its provenance, written above them.
+var batteryFile = filepath.Join("testdata", "verdict-battery.txt")
+
+const batteryHeader = `# Outcomes of TestVerdictBattery (aniso/battery_test.go), one line a specimen:
+# its name, the verdicts that are right for it, and what discovery answered.
+# The specimens are made by independent numerical integration of the fibre
+# stress over directions (aniso/independent_test.go), not by weft's catalogue.
+# Regenerate with
+#   WEFT_VERDICT_BATTERY=update go test -run TestVerdictBattery ./aniso
+`
+
+// batteryCase is one specimen of the verdict battery and the verdicts
+// that are right for it.
+type batteryCase struct {
+	name  string
+	mat   material
+	o     synthOptions
+	right []string
+}
+
+// batteryCases are tissue-like fibre architectures beside the verdict
+// panel's (panel_test.go): spread mirror pairs, single families at every
+// angle and spread, broad and banded spreads that are not von Mises
+// densities, a Demiray matrix, and load-controlled protocols on sutures;
+// 2–3 % noise, 30 points a protocol. Without shear information a
+// one-family answer is 1-or-mirror-pair; undecided is counted as right
+// where the data cannot tell (a spread pair bracketing one broad family,
+// a symmetric pair on sutures, fibres at 45°).
+func batteryCases() []batteryCase {
+	var cs []batteryCase
+	sut := func(seed uint64) synthOptions {
+		return synthOptions{noise: 0.02, points: 30, seed: seed, sutured: true, maxStrain: 0.2}
+	}
+	free := func(seed uint64) synthOptions { return synthOptions{noise: 0.02, points: 30, seed: seed} }
+	add := func(name string, m material, o synthOptions, right ...string) {
+		cs = append(cs, batteryCase{name, m, o, right})
+	}
+	pair := func(h, b float64, law fibreLaw) material {
+		return fibreMaterial(3, spreadFamily{h * deg, b, law}, spreadFamily{-h * deg, b, law})
+	}
+	for _, h := range []float64{30, 40} {
+		for _, b := range []float64{2, 4} {
+			for seed := uint64(1); seed <= 2; seed++ {
+				m := pair(h, b, expSqFibre(30, 3))
+				add(fmt.Sprintf("spread pair ±%g°, b %g, sutured, seed %d", h, b, seed), m, sut(seed), "2", "undecided")
+				add(fmt.Sprintf("spread pair ±%g°, b %g, no shear, seed %d", h, b, seed), m, free(seed), "1-or-mirror-pair", "undecided")
+			}
+		}
+	}
+	for _, h := range []float64{35, 45, 50} {
+		for _, b := range []float64{-1, 2, 5} {
+			right := []string{"2", "undecided"}
+			if h == 45 {
+				right = append(right, "0") // the look-alike of an isotropic material on sutures
+			}
+			add(fmt.Sprintf("pair ±%g°, b %g, sutured, seed 3", h, b), pair(h, b, expSqFibre(30, 3)), sut(3), right...)
+		}
+	}
+	one := func(a, b float64, seed uint64) {
+		m := fibreMaterial(3, spreadFamily{a * deg, b, expSqFibre(30, 3)})
+		shearRight, freeRight := []string{"1"}, []string{"1-or-mirror-pair"}
+		if a == 45 {
+			freeRight = append(freeRight, "0", "undecided") // symmetric about the 45° line
+		}
+		if b >= 0 && b <= 2 {
+			shearRight = append(shearRight, "undecided") // broad: a bracketing pair is its look-alike
+			freeRight = append(freeRight, "undecided")
+		}
+		add(fmt.Sprintf("one family %g°, b %g, sutured, seed %d", a, b, seed), m, sut(seed), shearRight...)
+		add(fmt.Sprintf("one family %g°, b %g, no shear, seed %d", a, b, seed), m, free(seed), freeRight...)
+	}
+	for _, a := range []float64{0, 20, 45, 70} {
+		for _, b := range []float64{-1, 2, 5} {
+			one(a, b, 1)
+		}
+	}
+	for _, a := range []float64{0, 30, 60, 90} {
+		for _, b := range []float64{0.5, 1} {
+			one(a, b, 2)
+		}
+	}
+	for _, a := range []float64{0, 90} {
+		m := plus(demirayMatrix(2, 5), fibreMaterial(0.001, spreadFamily{a * deg, 3, expSqFibre(20, 3)}))
+		add(fmt.Sprintf("Demiray matrix, one family %g°, b 3, sutured, seed 1", a), m, sut(1), "1")
+	}
+	wn := wrappedNormalFamily(35*deg, 20*deg, expSqFibre(40, 3))
+	band := uniformBandFamily(10*deg, 60*deg, expSqFibre(40, 3))
+	for seed := uint64(1); seed <= 6; seed++ {
+		o := sut(seed)
+		o.noise = 0.03
+		add(fmt.Sprintf("wrapped normal 35° (sd 20°), sutured, 3 %% noise, seed %d", seed), withMatrix(3, wn), o, "1", "undecided")
+		if seed <= 4 {
+			add(fmt.Sprintf("uniform band 10°–60°, sutured, 3 %% noise, seed %d", seed), withMatrix(3, band), o, "1", "undecided")
+		}
+	}
+	for _, h := range []float64{12, 16, 25} {
+		for seed := uint64(1); seed <= 2; seed++ {
+			m := fibreMaterial(3, spreadFamily{(35 + h) * deg, -1, expSqFibre(20, 3)}, spreadFamily{(35 - h) * deg, -1, expSqFibre(20, 3)})
+			o := sut(seed)
+			o.noise = 0.03
+			add(fmt.Sprintf("ideal pair 35° ± %g°, sutured, 3 %% noise, seed %d", h, seed), m, o, "2")
+		}
+	}
+	loaded := []struct {
+		name  string
+		m     material
+		right []string
+	}{
+		{"one ideal family 30°", fibreMaterial(3, spreadFamily{30 * deg, -1, expSqFibre(30, 3)}), []string{"1"}},
+		{"one family −30°, b 3", fibreMaterial(3, spreadFamily{-30 * deg, 3, expSqFibre(40, 3)}), []string{"1"}},
+		{"families 10° and 65°", fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)}), []string{"2"}},
+		{"spread pair ±40°, b 4", pair(40, 4, expSqFibre(30, 3)), []string{"2", "undecided"}},
+		{"Ogden solid α = 9", ogdenMaterial(3, 9), []string{"0"}},
+	}
+	for _, l := range loaded {
+		for seed := uint64(1); seed <= 2; seed++ {
+			o := synthOptions{noise: 0.02, points: 30, seed: seed, sutured: true, loadMax: 60}
+			add(fmt.Sprintf("%s, load-controlled to 60 kPa, sutured, seed %d", l.name, seed), l.m, o, l.right...)
+		}
+	}
+	return cs
+}
+
+// withMatrix puts the fibres of d on a neo-Hookean matrix (c10 in kPa).
+func withMatrix(c10 float64, d spreadDirections) material {
+	return func(F [4]float64) [3]float64 {
+		s := neoHookeanMatrix(c10, F)
+		c := d.cauchy(F)
+		for j := range s {
+			s[j] += c[j]
+		}
+		return s
+	}
+}
+
+// uniformBandFamily is a fibre family whose directions are spread
+// uniformly between lo and hi (radians), integrated by the midpoint rule
+// with 1440 directions: a band with sharp edges, neither a von Mises nor a
+// wrapped normal density.
+func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
+	const n = 1440
+	d := spreadDirections{law: law, cs: make([]float64, n), sn: make([]float64, n), wts: make([]float64, n)}
+	for i := range d.wts {
+		d.sn[i], d.cs[i] = math.Sincos(lo + (hi-lo)*(float64(i)+0.5)/n)
+		d.wts[i] = 1.0 / n
+	}
+	return d
+}
+
+// TestVerdictBattery discovers the battery of batteryCases and compares
+// every verdict, chosen model and angle with the outcomes pinned in
+// testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
+// it runs only when WEFT_VERDICT_BATTERY is set (about 95 discoveries,
+// 80–100 s of CPU): "1" compares, "update" rewrites the file. A change to
+// the search's path or to a verdict rule runs it before it lands, beside
+// the panel, and its commit says which outcomes moved and whether towards
+// the truth (DEVELOPERS.md, Changing the search's path).
+func TestVerdictBattery(t *testing.T) {
+	mode := os.Getenv("WEFT_VERDICT_BATTERY")
+	if mode == "" {
+		t.Skip("set WEFT_VERDICT_BATTERY=1 to compare the verdict battery with testdata/verdict-battery.txt (update to rewrite it)")
+	}
+	var lines []string
+	right := 0
+	cases := batteryCases()
+	for _, c := range cases {
+		d, _ := discoverSpecimen(t, synthFrom(t, c.mat, c.o))
+		if slices.Contains(c.right, d.Verdict.Families) {
+			right++
+		}
+		lines = append(lines, fmt.Sprintf("%s, right %s: verdict %s, chosen %s (%s)", c.name, strings.Join(c.right, " or "), d.Verdict.Families, d.Best().Name, anglesText(d.Best().Result)))
+	}
+	t.Logf("a right verdict in %d of %d cases", right, len(cases))
+	if mode == "update" {
+		if err := os.WriteFile(batteryFile, []byte(batteryHeader+strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	b, err := os.ReadFile(batteryFile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want []string
+	for _, l := range strings.Split(strings.TrimSuffix(string(b), "\n"), "\n") {
+		if !strings.HasPrefix(l, "#") {
+			want = append(want, l)
+		}
+	}
+	if len(want) != len(lines) {
+		t.Fatalf("%s holds %d outcomes, the battery has %d cases", batteryFile, len(want), len(lines))
+	}
+	for i := range lines {
+		if lines[i] != want[i] {
+			t.Errorf("moved:\n  was %s\n  now %s", want[i], lines[i])
+		}
+	}
+}

@@ -555,12 +555,18 @@ func TestFortyFiveDegreesWithoutShear(t *testing.T) {
 	if !strings.Contains(d.Verdict.Reason, symmetricLookAlike) || d.Verdict.Decider != decider {
 		t.Errorf("the verdict does not name the ±45° look-alike and its decider: %q, decider %q", d.Verdict.Reason, d.Verdict.Decider)
 	}
+	if c := candidateNamed(d, d.Verdict.LookAlike); c == nil || c.Result.Structure.Layout != LayoutNone {
+		t.Errorf("LookAlike %q does not name an isotropic candidate", d.Verdict.LookAlike)
+	}
 
 	o = synthOptions{noise: 0.02, points: 30, seed: 1}
 	d, _ = discoverSpecimen(t, synthFrom(t, fibreMaterial(3, spreadFamily{45 * deg, -1, expSqFibre(20, 5)}), o))
 	t.Logf("family at 45°: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 	if d.Verdict.Families == "0" && (!strings.Contains(d.Verdict.Reason, "such fibres cannot be ruled out") || d.Verdict.Decider != decider) {
 		t.Errorf("an isotropic verdict without shear information does not say that fibres at ±45° cannot be ruled out: %q, decider %q", d.Verdict.Reason, d.Verdict.Decider)
+	}
+	if c := candidateNamed(d, d.Verdict.LookAlike); d.Verdict.Families == "0" && (c == nil || !symmetricAbout45(c.Result)) {
+		t.Errorf("LookAlike %q does not name a candidate with fibres symmetric about the 45° line", d.Verdict.LookAlike)
 	}
 	if f := d.Verdict.Families; f != "0" && f != "undecided" {
 		t.Errorf("family at 45° without shear information: verdict %s, want 0 (with the caution) or undecided", f)
@@ -651,6 +657,16 @@ func TestTwoFamiliesMustBeatAFlatTop(t *testing.T) {
 	if !noted {
 		t.Errorf("no ruled-out note says the rival is one family: %q", d.Verdict.RuledOut)
 	}
+}
+
+// candidateNamed returns d's Pareto candidate of that name, or nil.
+func candidateNamed(d *Discovery, name string) *Candidate {
+	for i := range d.Pareto {
+		if d.Pareto[i].Name == name {
+			return &d.Pareto[i]
+		}
+	}
+	return nil
 }
 
 // The geometric tests behind two look-alike rules, on hand-made models:
@@ -802,13 +818,7 @@ func TestArchitectureTieIsUndecided(t *testing.T) {
 	if !strings.Contains(d.Verdict.Reason, "with their fibres in different places") {
 		t.Errorf("the reason does not name the tie: %q", d.Verdict.Reason)
 	}
-	tied := false
-	for _, c := range d.Pareto {
-		if c.Name == d.Verdict.TiesWith {
-			tied = familyCount(c.Result) == 2
-		}
-	}
-	if !tied {
+	if c := candidateNamed(d, d.Verdict.TiesWith); c == nil || familyCount(c.Result) != 2 {
 		t.Errorf("TiesWith %q does not name a two-family candidate", d.Verdict.TiesWith)
 	}
 	o.seed = 2
@@ -864,6 +874,9 @@ func TestFortyFiveDegreePairOnSutures(t *testing.T) {
 	case "0":
 		if !strings.Contains(d.Verdict.Reason, symmetricLookAlikeSheared) || d.Verdict.Decider != shearedDecider {
 			t.Errorf("an isotropic verdict on sutures without the look-alike caution: %q (decider %q)", d.Verdict.Reason, d.Verdict.Decider)
+		}
+		if c := candidateNamed(d, d.Verdict.LookAlike); c == nil || !symmetricAbout45(c.Result) || !axisSymmetric(c.Result) {
+			t.Errorf("LookAlike %q does not name a candidate with fibres symmetric about the axes and the 45° line", d.Verdict.LookAlike)
 		}
 	case "2", "undecided":
 	default:

@@ -54,6 +54,13 @@ type Verdict struct {
 	// one-family answer, when that tie is why the verdict is undecided
 	// (architectureTie); empty otherwise.
 	TiesWith string
+	// LookAlike names the candidate (in Discovery.Pareto) of the
+	// look-alike the reason names, when it names one: for an isotropic
+	// verdict the lowest-BIC model with fibres placed symmetrically about
+	// the 45° line (and about the tester's axes, with shear information;
+	// symmetricLookAlike), for a verdict left undecided by that look-alike
+	// the lowest-BIC isotropic model; empty when there is none.
+	LookAlike string
 }
 
 // LayoutComparison is one step of the walk over forms: whether a richer
@@ -154,10 +161,10 @@ const symmetricLookAlike = "without shear information fibres placed symmetricall
 // gain 1.7 %, ΔBIC −4.3).
 const symmetricLookAlikeSheared = "the measured shear is that of a material symmetric about the tester's axes, as fibres placed symmetrically about both the axes and the 45° line (equal families at ±45°, or at 0° and 90°) are too, and such fibres stiffen the two axes alike, as an isotropic material does; the two can fit the data about equally well"
 
-// shearedDecider settles symmetricLookAlikeSheared: turned off the
-// fibres' symmetry axes, a pair of fibre families shears a sutured
-// specimen and an isotropic material does not.
-const shearedDecider = "a specimen cut or mounted at an angle to its current axes that is not a multiple of 45° (22.5°, say), on sutures or rakes with markers tracking F12 and F21: fibres placed symmetrically about the present axes then shear it, and an isotropic material does not"
+// shearedDecider settles symmetricLookAlikeSheared: an isotropic material
+// responds alike in every mounting, a pair of fibre families does not,
+// and turned off its symmetry axes it shears a sutured specimen.
+const shearedDecider = "a specimen cut or mounted at another angle to its current axes (45° or 22.5°, say), on sutures or rakes with markers tracking F12 and F21: an isotropic material responds alike in every mounting, fibres placed symmetrically about the present axes do not, and turned off those axes they shear the specimen"
 
 // axisSymmetric reports whether r's fibres are placed symmetrically about
 // the tester's axes, so that r shears no sutured specimen: every family
@@ -301,7 +308,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	case LayoutNone:
 		v.Families = "0"
 		v.Reason = "isotropic: " + why
-		isotropicCaution(ev, &v)
+		d.isotropicCaution(ev, &v)
 	case LayoutSingle:
 		if ev.hasShear {
 			v.Families = "1"
@@ -357,7 +364,10 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 // (symmetricLookAlike), a specimen turned off the axes where the shear
 // measured on sutures is that of a symmetric material
 // (symmetricLookAlikeSheared).
-func isotropicCaution(ev evidence, v *Verdict) {
+func (d *Discovery) isotropicCaution(ev evidence, v *Verdict) {
+	v.LookAlike = d.lowestBIC(func(r *Result) bool {
+		return len(r.Model.Families) > 0 && symmetricAbout45(r) && (!ev.hasShear || axisSymmetric(r))
+	})
 	if !ev.hasShear {
 		v.Reason += "; " + symmetricLookAlike + ", so without shear information such fibres cannot be ruled out"
 		v.Decider = decider
@@ -365,6 +375,22 @@ func isotropicCaution(ev evidence, v *Verdict) {
 	}
 	v.Reason += "; " + symmetricLookAlikeSheared + ", so such fibres cannot be ruled out"
 	v.Decider = shearedDecider
+}
+
+// lowestBIC names the candidate of d.Pareto with the lowest BIC (on the
+// compared points) among those for which want holds, or "".
+func (d *Discovery) lowestBIC(want func(*Result) bool) string {
+	var best *Candidate
+	for i := range d.Pareto {
+		c := &d.Pareto[i]
+		if want(c.Compared()) && (best == nil || less(c.Compared().BIC, best.Compared().BIC)) {
+			best = c
+		}
+	}
+	if best == nil {
+		return ""
+	}
+	return best.Name
 }
 
 // flatTopVerdict writes the verdict of a winning spread pair whose
@@ -392,13 +418,14 @@ func flatTopVerdict(ev evidence, r *Result, why string, v *Verdict) {
 // the walk's winning model.
 func (d *Discovery) lookAlikeRules(ev evidence, r *Result, v *Verdict) {
 	if (v.Families == "1" || v.Families == "1-or-mirror-pair" || v.Families == "2") && symmetricAbout45(r) {
+		iso := func(r *Result) bool { return r.Structure.Layout == LayoutNone }
 		switch {
 		case !ev.hasShear:
 			v.Reason = fmt.Sprintf("undecided: %s, so the data do not settle whether fibres are needed: the fibres may stand in for an isotropic stiffening the catalogue lacks; the best-supported answer: %s", symmetricLookAlike, v.Reason)
-			v.Families, v.Decider = "undecided", decider
+			v.Families, v.Decider, v.LookAlike = "undecided", decider, d.lowestBIC(iso)
 		case axisSymmetric(r):
 			v.Reason = fmt.Sprintf("undecided: %s, so the data do not settle whether fibres are needed: the fibres may stand in for an isotropic stiffening the catalogue lacks; the best-supported answer: %s", symmetricLookAlikeSheared, v.Reason)
-			v.Families, v.Decider = "undecided", shearedDecider
+			v.Families, v.Decider, v.LookAlike = "undecided", shearedDecider, d.lowestBIC(iso)
 		}
 	}
 	if v.Families == "1" || v.Families == "1-or-mirror-pair" {

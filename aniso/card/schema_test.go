@@ -251,6 +251,7 @@ func verdictSchema() obj {
 			{"decider", obj{{"type", "string"}, {"description", "the extra measurement that would settle an undecided verdict"}}},
 			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate that fits better in sample (BIC at least %g lower) than every model of the kind the held-out errors favour, when that is why the verdict is undecided: a model with two fibre directions against every one-direction model, or a model with fibres against every isotropic model", aniso.DisagreeDeltaBIC)}}},
 			{"ties_with", obj{{"type", "string"}, {"description", "the selection candidate with two fibre families placed elsewhere (every family at least 20° from the one-family answer's direction, the two at least 60° apart) that fits and predicts as well as the one-family answer (held-out error within one standard error, BIC not 6 or more higher), when that tie is why the verdict is undecided"}}},
+			{"look_alike", obj{{"type", "string"}, {"description", "the selection candidate of the look-alike the reason names: for an isotropic verdict the lowest-BIC model with fibres placed symmetrically about the 45° line (and about the tester's axes when the data carry shear information), which stiffen the two axes alike as an isotropic material does; for a verdict left undecided by that look-alike the lowest-BIC isotropic model"}}},
 		}},
 	}
 }

@@ -102,6 +102,11 @@ type VerdictSection struct {
 	// answer, when that tie is why the verdict is undecided
 	// (aniso.Verdict.TiesWith).
 	TiesWith string `json:"ties_with,omitempty"`
+	// LookAlike names the selection candidate of the look-alike the
+	// reason names: fibres placed symmetrically about the 45° line for an
+	// isotropic verdict, an isotropic model for a verdict left undecided
+	// by that look-alike (aniso.Verdict.LookAlike).
+	LookAlike string `json:"look_alike,omitempty"`
 }
 
 // ComparisonCard is one step of the verdict's walk over forms.
@@ -119,7 +124,7 @@ type ComparisonCard struct {
 // NewVerdictSection describes discovery's verdict; form is the key of the
 // chosen model's form.
 func NewVerdictSection(v aniso.Verdict, form string) VerdictSection {
-	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider, InSampleBest: v.InSampleBest, TiesWith: v.TiesWith,
+	s := VerdictSection{Families: v.Families, Form: form, Reason: v.Reason, Decider: v.Decider, InSampleBest: v.InSampleBest, TiesWith: v.TiesWith, LookAlike: v.LookAlike,
 		DeltaBIC: map[string]Num{}, HeldoutError: map[string]Num{}, RuledOut: append([]string{}, v.RuledOut...), Comparisons: []ComparisonCard{},
 		Noise: Num(v.Noise), StdErrFloor: Num(v.StdErrFloor)}
 	for k, x := range v.DeltaBIC {

@@ -435,3 +435,56 @@ func TestPlanArchitectureTie(t *testing.T) {
 		t.Errorf("the first ranked test is not an off-axis test on sutures that settles the question: %+v", pl.Candidates[:min(1, len(pl.Candidates))])
 	}
 }
+
+// An isotropic verdict that cannot rule out fibres placed symmetrically
+// about the axes and the 45° line (equal families at ±45° on sutures, the
+// specimen of aniso.TestFortyFiveDegreePairOnSutures) names their model
+// (verdict.look_alike), and the plan weighs the pick against it: the
+// first ranked test settles it, and a test in a turned mounting on
+// sutures is among the candidates (an isotropic material responds alike
+// in every mounting, the pair does not).
+func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	dir := filepath.Join(t.TempDir(), "pair45.weft")
+	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "pair-45-sutured.csv"), "-o", dir, "--quiet"); code != 0 {
+		t.Fatalf("fit: exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(dir, "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	c, _, err := card.Parse(f, "model.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Verdict.Families != "0" || c.Verdict.LookAlike == "" {
+		t.Fatalf("verdict %s, look_alike %q: want 0 with the look-alike named", c.Verdict.Families, c.Verdict.LookAlike)
+	}
+	pl, _ := planJSON(t, dir)
+	var q *planning.Question
+	for i := range pl.Questions {
+		if strings.HasPrefix(pl.Questions[i].Topic, "fibres symmetric about the 45° line") {
+			q = &pl.Questions[i]
+		}
+	}
+	if q == nil {
+		t.Fatalf("no question for the look-alike: %+v (notes %q)", pl.Questions, pl.Notes)
+	}
+	if len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 0 as chosen") || !strings.Contains(q.Explanations[1], c.Verdict.LookAlike) {
+		t.Errorf("look-alike question %+v, want the isotropic pick against %s", *q, c.Verdict.LookAlike)
+	}
+	if len(pl.Candidates) == 0 || len(pl.Candidates[0].Decides) == 0 {
+		t.Errorf("the first ranked test settles nothing: %+v", pl.Candidates[:min(1, len(pl.Candidates))])
+	}
+	turned := false
+	for _, cd := range pl.Candidates {
+		turned = turned || (cd.Sutured && cd.MountingDeg != 0 && len(cd.Decides) > 0)
+	}
+	if !turned {
+		t.Error("no test in a turned mounting on sutures settles the look-alike")
+	}
+}

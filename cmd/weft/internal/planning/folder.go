@@ -240,6 +240,12 @@ func (f *Folder) Questions() ([]aniso.Question, []string) {
 		if q, ok := f.undecidedQuestion(); ok {
 			qs = append(qs, q)
 		}
+	} else if v != nil && v.Families == "0" && v.LookAlike != "" {
+		// An isotropic verdict that cannot rule out fibres placed
+		// symmetrically about the 45° line is weighed against them.
+		if q, ok := f.namedQuestion(v.LookAlike, "fibres symmetric about the 45° line (look-alike of the isotropic verdict)"); ok {
+			qs = append(qs, q)
+		}
 	}
 	if q, note, ok := f.bandQuestion(); ok {
 		qs = append(qs, q)
@@ -261,16 +267,19 @@ func candidateForm(cc *card.CandidateCard) string {
 // undecidedQuestion pits the chosen model against the best model of the
 // richer form the undecided verdict points towards, or against the model
 // that fits better in sample (two fibre directions against one, or fibres
-// against none) or ties with it with fibres placed elsewhere, when that is
-// why the verdict is undecided (in_sample_best, ties_with).
+// against none), ties with it with fibres placed elsewhere, or is its
+// look-alike, when that is why the verdict is undecided (in_sample_best,
+// ties_with, look_alike).
 func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	v, sel := f.card.Verdict, f.card.Selection
 	if sel == nil {
 		return aniso.Question{}, false
 	}
 	named := v.InSampleBest
-	if named == "" {
-		named = v.TiesWith
+	for _, n := range []string{v.TiesWith, v.LookAlike} {
+		if named == "" {
+			named = n
+		}
 	}
 	var toward string
 	for _, lc := range v.Comparisons {
@@ -299,15 +308,36 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	if best == nil {
 		return aniso.Question{}, false
 	}
+	return f.pitAgainst(best, toward, "fibre families (undecided verdict)")
+}
+
+// namedQuestion pits the chosen model against the selection candidate
+// named, under topic; false when there is no such candidate with a model.
+func (f *Folder) namedQuestion(name, topic string) (aniso.Question, bool) {
+	sel := f.card.Selection
+	if sel == nil {
+		return aniso.Question{}, false
+	}
+	for i := range sel.Pareto {
+		if cc := &sel.Pareto[i]; cc.Name == name && cc.Model != nil {
+			return f.pitAgainst(cc, candidateForm(cc), topic)
+		}
+	}
+	return aniso.Question{}, false
+}
+
+// pitAgainst is the verdict's question between the chosen model and the
+// selection candidate best, of form form, under topic.
+func (f *Folder) pitAgainst(best *card.CandidateCard, form, topic string) (aniso.Question, bool) {
 	m, err := f.card.CandidateModelOf(best)
 	if err != nil {
 		return aniso.Question{}, false
 	}
 	q := aniso.Question{Verdict: true, SignUnknown: !f.Result.SignKnown, Explanations: []aniso.Explanation{
-		{Name: "form " + v.Form + " as chosen (" + activeTerms(f.Result) + ")", Model: f.Result.Model},
-		{Name: "form " + toward + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")", Model: m},
+		{Name: "form " + f.card.Verdict.Form + " as chosen (" + activeTerms(f.Result) + ")", Model: f.Result.Model},
+		{Name: "form " + form + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")", Model: m},
 	}}
-	q.Topic = "fibre families (undecided verdict)"
+	q.Topic = topic
 	q.Text = q.Topic + ": " + aniso.ExplanationList(q.Explanations)
 	return q, true
 }

@@ -141,8 +141,9 @@
 // quality (front.go); leave-one-protocol-out cross-validation
 // (crossval.go); the decision (select.go: its rule, first the family
 // verdict, then the pick inside the winning form; verdict.go writes the
-// verdict up from the evidence of evidence.go, with the look-alike rules
-// and the architecture tie that can leave it undecided); the polish on every point
+// verdict up from the evidence of evidence.go, and lookalikes.go the
+// look-alike rules and the architecture tie that can leave it undecided);
+// the polish on every point
 // (polish.go). runRefits (fullforms.go) fits a stage's refits side by side
 // on workers of pool.go, the package's one pool type (scans and profiles
 // size their own). Forms, layouts and presets are named in layout.go and

@@ -184,28 +184,5 @@ func TestVerdictBattery(t *testing.T) {
 		lines = append(lines, fmt.Sprintf("%s, right %s: verdict %s, chosen %s (%s)", c.name, strings.Join(c.right, " or "), d.Verdict.Families, d.Best().Name, anglesText(d.Best().Result)))
 	}
 	t.Logf("a right verdict in %d of %d cases", right, len(cases))
-	if mode == "update" {
-		if err := os.WriteFile(batteryFile, []byte(batteryHeader+strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	b, err := os.ReadFile(batteryFile)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var want []string
-	for _, l := range strings.Split(strings.TrimSuffix(string(b), "\n"), "\n") {
-		if !strings.HasPrefix(l, "#") {
-			want = append(want, l)
-		}
-	}
-	if len(want) != len(lines) {
-		t.Fatalf("%s holds %d outcomes, the battery has %d cases", batteryFile, len(want), len(lines))
-	}
-	for i := range lines {
-		if lines[i] != want[i] {
-			t.Errorf("moved:\n  was %s\n  now %s", want[i], lines[i])
-		}
-	}
+	comparePinned(t, mode, batteryFile, batteryHeader, lines)
 }

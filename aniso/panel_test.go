@@ -81,32 +81,11 @@ func TestVerdictPanel(t *testing.T) {
 	oneRight, oneLines := onePanel(t)
 	lines = append(lines, oneLines...)
 	t.Logf("verdict 1-or-mirror-pair (the truth) in %d of %d one-family cases", oneRight, len(oneLines))
-	if mode == "update" {
-		if err := os.WriteFile(panelFile, []byte(panelHeader+strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	b, err := os.ReadFile(panelFile)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var want []string
-	for _, l := range strings.Split(strings.TrimSuffix(string(b), "\n"), "\n") {
-		if !strings.HasPrefix(l, "#") {
-			want = append(want, l)
-		}
-	}
-	if len(want) != len(lines) {
-		t.Fatalf("%s holds %d outcomes, the panel has %d cases", panelFile, len(want), len(lines))
-	}
+	want := comparePinned(t, mode, panelFile, panelHeader, lines)
 	pinned := 0
-	for i := range lines {
-		if strings.Contains(want[i], ": verdict 2,") {
+	for _, l := range want {
+		if strings.Contains(l, ": verdict 2,") {
 			pinned++
-		}
-		if lines[i] != want[i] {
-			t.Errorf("moved:\n  was %s\n  now %s", want[i], lines[i])
 		}
 	}
 	if t.Failed() {
@@ -145,4 +124,37 @@ func onePanel(t *testing.T) (right int, lines []string) {
 		}
 	}
 	return right, lines
+}
+
+// comparePinned compares the outcome lines of a pinned battery (the panel,
+// TestVerdictBattery) with file, reporting each that moved, and returns
+// the pinned lines; in mode "update" it rewrites file, header first, and
+// returns lines.
+func comparePinned(t *testing.T, mode, file, header string, lines []string) []string {
+	t.Helper()
+	if mode == "update" {
+		if err := os.WriteFile(file, []byte(header+strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return lines
+	}
+	b, err := os.ReadFile(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want []string
+	for _, l := range strings.Split(strings.TrimSuffix(string(b), "\n"), "\n") {
+		if !strings.HasPrefix(l, "#") {
+			want = append(want, l)
+		}
+	}
+	if len(want) != len(lines) {
+		t.Fatalf("%s holds %d outcomes, there are %d cases", file, len(want), len(lines))
+	}
+	for i := range lines {
+		if lines[i] != want[i] {
+			t.Errorf("moved:\n  was %s\n  now %s", want[i], lines[i])
+		}
+	}
+	return want
 }

@@ -402,32 +402,11 @@ func TestPlanArchitectureTie(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	dir := filepath.Join(t.TempDir(), "pair.weft")
-	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "spread-pair-40-sutured.csv"), "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("fit: exit %d: %s", code, errs)
-	}
-	f, err := os.Open(filepath.Join(dir, "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	c, _, err := card.Parse(f, "model.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	c, pl := fitAndPlan(t, "spread-pair-40-sutured.csv")
 	if c.Verdict.Families != "undecided" || c.Verdict.TiesWith == "" {
 		t.Fatalf("verdict %s, ties_with %q: want undecided by an architecture tie", c.Verdict.Families, c.Verdict.TiesWith)
 	}
-	pl, _ := planJSON(t, dir)
-	var q *planning.Question
-	for i := range pl.Questions {
-		if pl.Questions[i].Topic == "fibre families (undecided verdict)" {
-			q = &pl.Questions[i]
-		}
-	}
-	if q == nil {
-		t.Fatalf("no question for the undecided verdict: %+v (notes %q)", pl.Questions, pl.Notes)
-	}
+	q := questionOn(t, pl, "fibre families (undecided verdict)")
 	if len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 1 as chosen") || !strings.Contains(q.Explanations[1], c.Verdict.TiesWith) {
 		t.Errorf("undecided question %+v, want the one-family pick against %s", *q, c.Verdict.TiesWith)
 	}
@@ -448,32 +427,11 @@ func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	dir := filepath.Join(t.TempDir(), "pair45.weft")
-	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "pair-45-sutured.csv"), "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("fit: exit %d: %s", code, errs)
-	}
-	f, err := os.Open(filepath.Join(dir, "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	c, _, err := card.Parse(f, "model.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	c, pl := fitAndPlan(t, "pair-45-sutured.csv")
 	if c.Verdict.Families != "0" || c.Verdict.LookAlike == "" {
 		t.Fatalf("verdict %s, look_alike %q: want 0 with the look-alike named", c.Verdict.Families, c.Verdict.LookAlike)
 	}
-	pl, _ := planJSON(t, dir)
-	var q *planning.Question
-	for i := range pl.Questions {
-		if strings.HasPrefix(pl.Questions[i].Topic, "fibres symmetric about the 45° line") {
-			q = &pl.Questions[i]
-		}
-	}
-	if q == nil {
-		t.Fatalf("no question for the look-alike: %+v (notes %q)", pl.Questions, pl.Notes)
-	}
+	q := questionOn(t, pl, "fibres symmetric about the 45° line (look-alike of the isotropic verdict)")
 	if len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 0 as chosen") || !strings.Contains(q.Explanations[1], c.Verdict.LookAlike) {
 		t.Errorf("look-alike question %+v, want the isotropic pick against %s", *q, c.Verdict.LookAlike)
 	}
@@ -487,4 +445,38 @@ func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
 	if !turned {
 		t.Error("no test in a turned mounting on sutures settles the look-alike")
 	}
+}
+
+// fitAndPlan fits the test file name (in testdata) with weft fit and
+// plans its next test with weft plan, returning the card and the plan.
+func fitAndPlan(t *testing.T, name string) (*card.Card, planning.Report) {
+	t.Helper()
+	dir := filepath.Join(t.TempDir(), "fit.weft")
+	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", name), "-o", dir, "--quiet"); code != 0 {
+		t.Fatalf("fit: exit %d: %s", code, errs)
+	}
+	f, err := os.Open(filepath.Join(dir, "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	c, _, err := card.Parse(f, "model.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	pl, _ := planJSON(t, dir)
+	return c, pl
+}
+
+// questionOn returns the plan's question on topic, failing the test when
+// there is none.
+func questionOn(t *testing.T, pl planning.Report, topic string) *planning.Question {
+	t.Helper()
+	for i := range pl.Questions {
+		if pl.Questions[i].Topic == topic {
+			return &pl.Questions[i]
+		}
+	}
+	t.Fatalf("no question on %q: %+v (notes %q)", topic, pl.Questions, pl.Notes)
+	return nil
 }

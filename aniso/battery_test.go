@@ -35,10 +35,11 @@ type batteryCase struct {
 // panel's (panel_test.go): spread mirror pairs, single families at every
 // angle and spread, broad and banded spreads that are not von Mises
 // densities, a Demiray matrix, and load-controlled protocols on sutures;
-// 2–3 % noise, 30 points a protocol. Without shear information a
-// one-family answer is 1-or-mirror-pair; undecided is counted as right
-// where the data cannot tell (a spread pair bracketing one broad family,
-// a symmetric pair on sutures, fibres at 45°).
+// 2–3 % noise, 30 points a protocol (5 % and 20 points for twelve).
+// Without shear information a one-family answer is 1-or-mirror-pair;
+// undecided is counted as right where the data cannot tell (a spread
+// pair bracketing one broad family, a symmetric pair on sutures, fibres
+// at 45°, noisy short records).
 func batteryCases() []batteryCase {
 	var cs []batteryCase
 	sut := func(seed uint64) synthOptions {
@@ -114,6 +115,19 @@ func batteryCases() []batteryCase {
 			add(fmt.Sprintf("ideal pair 35° ± %g°, sutured, 3 %% noise, seed %d", h, seed), m, o, "2")
 		}
 	}
+	// Noisier and shorter records: 5 % noise, 20 points a protocol, where
+	// undecided is an honest answer too.
+	for _, a := range []float64{0, 30, 60} {
+		for _, b := range []float64{-1, 3} {
+			m := fibreMaterial(3, spreadFamily{a * deg, b, expSqFibre(30, 3)})
+			o := sut(1)
+			o.noise, o.points = 0.05, 20
+			add(fmt.Sprintf("one family %g°, b %g, sutured, 5 %% noise, 20 points", a, b), m, o, "1", "undecided")
+			o = free(1)
+			o.noise, o.points = 0.05, 20
+			add(fmt.Sprintf("one family %g°, b %g, no shear, 5 %% noise, 20 points", a, b), m, o, "1-or-mirror-pair", "undecided")
+		}
+	}
 	loaded := []struct {
 		name  string
 		m     material
@@ -163,8 +177,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (about 95 discoveries,
-// 80–100 s of CPU): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (105 discoveries, about
+// 100 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

@@ -242,10 +242,11 @@ func (d *Discovery) decideOn(ev evidence) {
 // specimen, a wrapped-normal family about 35° with a standard deviation of
 // 20°, noise seed 4: a pair at ±16° about 35° beat the spread family by
 // 5.6 % of its held-out error, ΔBIC 63.8, and lost to the flat-topped
-// pair by 1.4 %, ΔBIC −9.2; TestTwoFamiliesMustBeatAFlatTop). A spread one-family form that did
-// not beat the ideal one decisively stays the winner's rival: two
-// families bracketing a widely spread direction beat the ideal family by
-// more than the noise explains but not the spread one (on an
+// pair by 1.4 %, ΔBIC −9.2; TestTwoFamiliesMustBeatAFlatTop). A spread
+// one-family form that did not beat the ideal one decisively stays the
+// winner's rival: two families bracketing a widely spread direction beat
+// the ideal family by more than the noise explains but not the spread
+// one (on an
 // independently integrated sutured specimen, one family spread about 45°
 // with concentration b = 1, a mirror pair at 26.8° and 63.1° beat the
 // ideal family by 7.0 % of its held-out error, ΔBIC 54.5, and the spread

@@ -2,6 +2,7 @@ package planning
 
 import (
 	"bytes"
+	"cmp"
 	"encoding/csv"
 	"fmt"
 	"math"
@@ -275,12 +276,7 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 	if sel == nil {
 		return aniso.Question{}, false
 	}
-	named := v.InSampleBest
-	for _, n := range []string{v.TiesWith, v.LookAlike} {
-		if named == "" {
-			named = n
-		}
-	}
+	named := cmp.Or(v.InSampleBest, v.TiesWith, v.LookAlike)
 	var toward string
 	for _, lc := range v.Comparisons {
 		if lc.Suggestive && !lc.Decisive {

@@ -34,8 +34,9 @@ type batteryCase struct {
 // batteryCases are tissue-like fibre architectures beside the verdict
 // panel's (panel_test.go): spread mirror pairs, single families at every
 // angle and spread, broad and banded spreads that are not von Mises
-// densities, a Demiray matrix, and load-controlled protocols on sutures;
-// 2–3 % noise, 30 points a protocol (5 % and 20 points for twelve).
+// densities, a Demiray matrix, isotropic solids outside the catalogue's
+// I1 and I2 shapes, and load-controlled protocols on sutures; 2–3 %
+// noise, 30 points a protocol (5 % and 20 points for twelve).
 // Without shear information a one-family answer is 1-or-mirror-pair;
 // undecided is counted as right where the data cannot tell (a spread
 // pair bracketing one broad family, a symmetric pair on sutures, fibres
@@ -128,6 +129,26 @@ func batteryCases() []batteryCase {
 			add(fmt.Sprintf("one family %g°, b %g, no shear, 5 %% noise, 20 points", a, b), m, o, "1-or-mirror-pair", "undecided")
 		}
 	}
+	// Isotropic solids outside the catalogue's I1 and I2 shapes (principal
+	// stretch, exponential, exponentiated Hencky; Mooney–Rivlin inside
+	// it): fibres must not be claimed. Without shear information fibres
+	// symmetric about the 45° line are their look-alike, so undecided is
+	// right there too.
+	isotropic := []struct {
+		name string
+		m    material
+	}{
+		{"Ogden α = 9", ogdenMaterial(3, 9)},
+		{"Ogden α = 20", ogdenMaterial(1, 20)},
+		{"Ogden α = −6", ogdenMaterial(3, -6)},
+		{"Demiray", demirayMatrix(3, 1.5)},
+		{"Mooney–Rivlin", mooneyRivlinMatrix(4, 1.5)},
+		{"exponentiated Hencky", expHenckyMaterial(4, 6)},
+	}
+	for _, iso := range isotropic {
+		add(fmt.Sprintf("isotropic %s, sutured, seed 1", iso.name), iso.m, sut(1), "0")
+		add(fmt.Sprintf("isotropic %s, no shear, seed 1", iso.name), iso.m, free(1), "0", "undecided")
+	}
 	loaded := []struct {
 		name  string
 		m     material
@@ -177,7 +198,7 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (105 discoveries, about
+// it runs only when WEFT_VERDICT_BATTERY is set (117 discoveries, about
 // 100 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards

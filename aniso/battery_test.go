@@ -34,9 +34,10 @@ type batteryCase struct {
 // batteryCases are tissue-like fibre architectures beside the verdict
 // panel's (panel_test.go): spread mirror pairs, single families at every
 // angle and spread, broad and banded spreads that are not von Mises
-// densities, a Demiray matrix, isotropic solids outside the catalogue's
-// I1 and I2 shapes, and load-controlled protocols on sutures; 2–3 %
-// noise, 30 points a protocol (5 % and 20 points for twelve).
+// densities, a Demiray matrix, valve-like unequal families at 0° and 90°,
+// isotropic solids outside the catalogue's I1 and I2 shapes, and
+// load-controlled protocols on sutures; 2–3 % noise, 30 points a protocol
+// (5 % and 20 points for twelve).
 // Without shear information a one-family answer is 1-or-mirror-pair;
 // undecided is counted as right where the data cannot tell (a spread
 // pair bracketing one broad family, a symmetric pair on sutures, fibres
@@ -149,6 +150,16 @@ func batteryCases() []batteryCase {
 		add(fmt.Sprintf("isotropic %s, sutured, seed 1", iso.name), iso.m, sut(1), "0")
 		add(fmt.Sprintf("isotropic %s, no shear, seed 1", iso.name), iso.m, free(1), "0", "undecided")
 	}
+	// Valve-like: a concentrated family at 0° and a weaker spread one at
+	// 90°; with the weakest the second family is absorbed by isotropic
+	// terms (README, Fibre families), which the pinned lines show.
+	for _, w := range []float64{5, 12} {
+		m := fibreMaterial(2, spreadFamily{0, 10, expSqFibre(40, 5)}, spreadFamily{90 * deg, 3, expSqFibre(w, 2)})
+		for seed := uint64(1); seed <= 2; seed++ {
+			add(fmt.Sprintf("valve-like 0° (b 10) and 90° (b 3, k1 %g), sutured, seed %d", w, seed), m, sut(seed), "2", "undecided")
+			add(fmt.Sprintf("valve-like 0° (b 10) and 90° (b 3, k1 %g), no shear, seed %d", w, seed), m, free(seed), "2", "undecided")
+		}
+	}
 	loaded := []struct {
 		name  string
 		m     material
@@ -198,8 +209,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (117 discoveries, about
-// 100 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (125 discoveries, about
+// 120 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

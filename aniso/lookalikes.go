@@ -147,6 +147,16 @@ func (d *Discovery) isotropicCaution(ev evidence, v *Verdict) {
 // lowestBIC names the candidate of d.Pareto with the lowest BIC (on the
 // compared points) among those for which want holds, or "".
 func (d *Discovery) lowestBIC(want func(*Result) bool) string {
+	if c := d.lowestBICCandidate(want); c != nil {
+		return c.Name
+	}
+	return ""
+}
+
+// lowestBICCandidate returns the candidate of d.Pareto with the lowest BIC
+// (on the compared points) among those for which want holds, or nil; of
+// equal BICs (within TieTolerance) the first.
+func (d *Discovery) lowestBICCandidate(want func(*Result) bool) *Candidate {
 	var best *Candidate
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
@@ -154,10 +164,7 @@ func (d *Discovery) lowestBIC(want func(*Result) bool) string {
 			best = c
 		}
 	}
-	if best == nil {
-		return ""
-	}
-	return best.Name
+	return best
 }
 
 // lookAlikeRules makes the walk's verdict v undecided where a look-alike

@@ -315,21 +315,10 @@ func (d *Discovery) fibreDisagreement() (fibres, iso *Candidate, gap float64) {
 // bicDisagreement returns the lowest-BIC candidate of the richer kind, the
 // lowest-BIC candidate of the simpler kind and the gap between their BICs
 // (on the compared points) when the gap reaches DisagreeDeltaBIC, or nils.
+// The two kinds are disjoint in every caller, so each is searched on its
+// own (lowestBICCandidate).
 func (d *Discovery) bicDisagreement(simpler, richer func(*Result) bool) (rich, simp *Candidate, gap float64) {
-	for i := range d.Pareto {
-		c := &d.Pareto[i]
-		r := c.Compared()
-		switch {
-		case simpler(r):
-			if simp == nil || less(r.BIC, simp.Compared().BIC) {
-				simp = c
-			}
-		case richer(r):
-			if rich == nil || less(r.BIC, rich.Compared().BIC) {
-				rich = c
-			}
-		}
-	}
+	simp, rich = d.lowestBICCandidate(simpler), d.lowestBICCandidate(richer)
 	if simp == nil || rich == nil {
 		return nil, nil, 0
 	}

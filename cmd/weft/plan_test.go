@@ -362,20 +362,8 @@ func TestPlanIsotropicPickAgainstFibres(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	dir := filepath.Join(t.TempDir(), "ortho.weft")
-	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "orthogonal-fibres-load-controlled.csv"), "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("fit: exit %d: %s", code, errs)
-	}
-	pl, _ := planJSON(t, dir)
-	var q *planning.Question
-	for i := range pl.Questions {
-		if pl.Questions[i].Topic == "fibre families (undecided verdict)" {
-			q = &pl.Questions[i]
-		}
-	}
-	if q == nil {
-		t.Fatalf("no question for the undecided verdict: %+v (notes %q)", pl.Questions, pl.Notes)
-	}
+	_, pl := fitAndPlan(t, "orthogonal-fibres-load-controlled.csv")
+	q := questionOn(t, pl, "fibre families (undecided verdict)")
 	if !q.Verdict || len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 0 as chosen") || !strings.Contains(q.Explanations[1], "@") {
 		t.Errorf("undecided question %+v, want the isotropic pick against a model with fibres", *q)
 	}

@@ -830,6 +830,72 @@ func TestArchitectureTieIsUndecided(t *testing.T) {
 	}
 }
 
+// The places of a two-family rival against one family (tieGeometry), on
+// hand-made angles: the ±40° pair against 0° lies elsewhere; 0°/90° and
+// ±9°/±81° without shear add a family; a pair bracketing the winner or
+// closer than 60° does neither; with shear, −40° is 80° from 40°.
+func TestTieGeometry(t *testing.T) {
+	for _, c := range []struct {
+		dir, a1, a2     float64
+		hasShear        bool
+		elsewhere, adds bool
+	}{
+		{0, 40, -40, true, true, false},
+		{0, 0, 90, true, false, true},
+		{9.3, -81.3, 9.3, false, false, true},
+		{9.3, 9.3, 60, false, false, false},  // 50.7° from the winner
+		{0, -28.4, 28.4, true, false, false}, // brackets it, 56.8° apart
+		{40, 40, -40, false, false, false},   // one direction by magnitude
+		{40, 40, -40, true, false, true},
+		{0, 25, 85, true, true, false},
+		{0, -15, 50, true, false, false}, // 65° apart, but the far one only 50° from the winner
+	} {
+		e, a := tieGeometry(c.dir, c.a1, c.a2, c.hasShear)
+		if e != c.elsewhere || a != c.adds {
+			t.Errorf("families at %g° and %g° against %g° (shear %v): elsewhere %v, adds %v; want %v, %v", c.a1, c.a2, c.dir, c.hasShear, e, a, c.elsewhere, c.adds)
+		}
+	}
+}
+
+// A valve-like specimen without shear information, made by independent
+// numerical integration: a concentrated family at 0° and a weak spread one
+// at 90° (fibre stiffness 5 kPa on a 2 kPa matrix). One family near 0°
+// with isotropic terms and two families, one there and one near 90°, fit
+// and predict alike, so the verdict is undecided and names the pair
+// (before: a confident 1-or-mirror-pair at about ±9°). A narrow family
+// at 20° stays 1-or-mirror-pair.
+func TestWeakSecondFamilyTieIsUndecided(t *testing.T) {
+	if testing.Short() {
+		t.Skip("two discoveries")
+	}
+	t.Parallel()
+	o := synthOptions{noise: 0.02, points: 30, seed: 1}
+	valve := fibreMaterial(2, spreadFamily{0, 10, expSqFibre(40, 5)}, spreadFamily{90 * deg, 3, expSqFibre(5, 2)})
+	d, _ := discoverSpecimen(t, synthFrom(t, valve, o))
+	v := d.Verdict
+	t.Logf("verdict %s: %s", v.Families, v.Reason)
+	if v.Families != "undecided" || v.Decider != archDecider {
+		t.Fatalf("valve-like 0°/90°, no shear: verdict %s (decider %q), want undecided with the off-axis decider", v.Families, v.Decider)
+	}
+	if !strings.Contains(v.Reason, "stand in for a weak second family") {
+		t.Errorf("the reason does not name the weak second family: %q", v.Reason)
+	}
+	c := candidateNamed(d, v.TiesWith)
+	if c == nil || familyCount(c.Result) != 2 {
+		t.Fatalf("TiesWith %q does not name a two-family candidate", v.TiesWith)
+	}
+	a1, a2 := math.Abs(WrapDeg(Deg(c.Result.Model.Families[0].Angle))), math.Abs(WrapDeg(Deg(c.Result.Model.Families[1].Angle)))
+	if lo, hi := min(a1, a2), max(a1, a2); lo > 20 || hi < 60 {
+		t.Errorf("TiesWith %s has families at ±%.1f° and ±%.1f°, want one near 0° and one near 90°", v.TiesWith, lo, hi)
+	}
+	one := fibreMaterial(3, spreadFamily{20 * deg, 5, expSqFibre(30, 3)})
+	d, _ = discoverSpecimen(t, synthFrom(t, one, o))
+	t.Logf("control: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	if d.Verdict.Families != "1-or-mirror-pair" {
+		t.Errorf("one family at 20° (concentration 5), no shear: verdict %s, want 1-or-mirror-pair", d.Verdict.Families)
+	}
+}
+
 // Equal fibre families at ±45° on sutures: the measured shear is zero, as
 // an isotropic material's is, and the pair stiffens both axes alike, so
 // the isotropic verdict must say such fibres cannot be ruled out and name

@@ -50,9 +50,10 @@ type Verdict struct {
 	// against every isotropic model (fibreDisagreement); empty otherwise.
 	InSampleBest string
 	// TiesWith names the candidate (in Discovery.Pareto) with two fibre
-	// families placed elsewhere that fits and predicts as well as the
-	// one-family answer, when that tie is why the verdict is undecided
-	// (architectureTie); empty otherwise.
+	// families, placed elsewhere or adding one far from the one-family
+	// answer's, that fits and predicts as well as that answer, when that
+	// tie is why the verdict is undecided (architectureTie); empty
+	// otherwise.
 	TiesWith string
 	// LookAlike names the candidate (in Discovery.Pareto) of the
 	// look-alike the reason names, when it names one: for an isotropic

@@ -97,10 +97,10 @@ type VerdictSection struct {
 	// disagreement is why the verdict is undecided
 	// (aniso.Verdict.InSampleBest).
 	InSampleBest string `json:"in_sample_best,omitempty"`
-	// TiesWith names the selection candidate with two fibre families
-	// placed elsewhere that fits and predicts as well as the one-family
-	// answer, when that tie is why the verdict is undecided
-	// (aniso.Verdict.TiesWith).
+	// TiesWith names the selection candidate with two fibre families,
+	// placed elsewhere or adding one far from the one-family answer's,
+	// that fits and predicts as well as that answer, when that tie is why
+	// the verdict is undecided (aniso.Verdict.TiesWith).
 	TiesWith string `json:"ties_with,omitempty"`
 	// LookAlike names the selection candidate of the look-alike the
 	// reason names: fibres placed symmetrically about the 45° line for an

@@ -21,6 +21,12 @@ const (
 	// 1 + negStretch is reported as a likely tare offset.
 	negFraction = 0.05
 	negStretch  = 0.005
+	// preloadFraction: a normal stress above preloadFraction·range at a
+	// first kept point within preloadStretch of the reference state
+	// (every entry of |F − I|) is reported as a preload: with noise of
+	// 1–2 % of the range, five standard deviations or more.
+	preloadFraction = 0.1
+	preloadStretch  = 0.002
 	// countRatio: protocols whose point counts differ by more than this
 	// factor are reported (the weighting evens them out, but a fit still
 	// sees very different resolutions).
@@ -256,6 +262,9 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		rereference(pts, s.Kind, &s.Measured, &pr)
 	}
 	checkNegative(s, label, pts)
+	if !opt.Rereference {
+		checkPreload(s, &pr, pts)
+	}
 	if opt.Resample > 0 {
 		pts, err = resample(pts, opt.Resample)
 		if err != nil {
@@ -653,6 +662,43 @@ func checkNegative(s *Specimen, label string, pts []Point) {
 				label, s.Kind, c, p.Stress[c], s.StressUnit, lam, p.Line, plural(count, "point"))
 		}
 	}
+}
+
+// checkPreload warns when a protocol's first kept point lies at the
+// reference state (F = I within preloadStretch) but carries a clearly
+// positive normal stress: the stretches were measured from a preloaded
+// state whose load was not tared. A model stress-free at F = I cannot
+// follow that stress, and a preload that stretches one axis more than the
+// other makes even an isotropic material respond like one with fibres
+// along that axis (a stiffer incremental response there). It sets
+// pr.Preload.
+func checkPreload(s *Specimen, pr *Protocol, pts []Point) {
+	p := &pts[0]
+	for j, v := range p.F {
+		if id := [4]float64{1, 0, 0, 1}[j]; math.Abs(v-id) > preloadStretch {
+			return
+		}
+	}
+	var parts []string
+	for _, c := range []Component{C11, C22} {
+		if !s.Measured[c] {
+			continue
+		}
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for i := range pts {
+			lo = math.Min(lo, pts[i].Stress[c])
+			hi = math.Max(hi, pts[i].Stress[c])
+		}
+		if rng := hi - lo; rng > 0 && p.Stress[c] > preloadFraction*rng {
+			pr.Preload[c] = p.Stress[c]
+			parts = append(parts, fmt.Sprintf("%s stress %s is %.4g %s (%.0f %% of its range)", s.Kind, c, p.Stress[c], s.StressUnit, 100*p.Stress[c]/rng))
+		}
+	}
+	if len(parts) == 0 {
+		return
+	}
+	s.warn(p.Line, pr.Label, "protocol %s: at its first kept point (line %d), the reference state (stretches %.4g and %.4g), %s — a preload that was not tared? A model is stress-free at the reference state and cannot follow it, and a preload that stretches one axis more than the other makes even an isotropic material respond like one with fibres along that axis; re-referencing each protocol to its first kept point treats the preloaded state as stress-free (common practice) but keeps the pre-stretch's effect; stretches measured from the unloaded, stress-free state avoid both",
+		pr.Label, p.Line, p.Stretch1(), p.Stretch2(), strings.Join(parts, " and "))
 }
 
 // rereference moves the reference state to the first point (see

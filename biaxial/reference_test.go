@@ -230,3 +230,66 @@ func TestWarnings(t *testing.T) {
 		t.Errorf("warnings %+v", s.Warnings)
 	}
 }
+
+// A preload that was not tared: the first kept point at the reference
+// state carries a normal stress. The stresses are those of an
+// incompressible neo-Hookean membrane (μ = 10 kPa; nominal stress
+// P11 = μ(λ1 − 1/(λ1³λ2²)) in plane stress, a textbook closed form, e.g.
+// Holzapfel 2000, Nonlinear Solid Mechanics) pre-stretched to 1.03 × 1.01
+// before the markers were zeroed, so the file's stretches start at 1 with
+// P11 = 10(1.03 − 1/(1.03³·1.01²)) = 1.329 kPa (22 % of its range) and
+// P22 = 0.9513 kPa (16 %): both are named. Re-referenced (tared) data and data whose first point is off the
+// reference state are not warned about; a stress at the reference below a
+// tenth of the range (the noise of a tared reading) is not either.
+func TestPreloadWarning(t *testing.T) {
+	mu := 10.0
+	nominal := func(l1, l2 float64) (float64, float64) {
+		return mu * (l1 - 1/(l1*l1*l1*l2*l2)), mu * (l2 - 1/(l2*l2*l2*l1*l1))
+	}
+	file := func(pre1, pre2, start float64) string {
+		in := "protocol,stretch_1,stretch_2,nominal_11,nominal_22\n"
+		for i := 0; i <= 10; i++ {
+			l := start + 0.015*float64(i)
+			p11, p22 := nominal(pre1*l, pre2*l)
+			in += fmt.Sprintf("1:1,%.6g,%.6g,%.6g,%.6g\n", l, l, p11, p22)
+		}
+		return in
+	}
+	var last *Specimen
+	preloads := func(in string, opt Options) []Warning {
+		t.Helper()
+		s, err := readString(in, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		last = s
+		var ws []Warning
+		for _, w := range s.Warnings {
+			if strings.Contains(w.Message, "a preload that was not tared?") {
+				ws = append(ws, w)
+			}
+		}
+		return ws
+	}
+	ws := preloads(file(1.03, 1.01, 1), Options{})
+	if len(ws) != 1 || ws[0].Line != 2 || ws[0].Protocol != "1:1" {
+		t.Fatalf("pre-stretched 1.03 × 1.01: preload warnings %+v, want one on line 2", ws)
+	}
+	for _, want := range []string{"nominal stress 11 is 1.329 kPa (22 % of its range)", "nominal stress 22 is 0.9513 kPa (16 % of its range)", "fibres along that axis"} {
+		if !strings.Contains(ws[0].Message, want) {
+			t.Errorf("warning %q lacks %q", ws[0].Message, want)
+		}
+	}
+	if p := last.Protocols[0].Preload; !near(p[C11], 1.329, 1e-3) || !near(p[C22], 0.9513, 1e-4) || p[C12] != 0 || p[C21] != 0 {
+		t.Errorf("Preload %v, want 1.329 and 0.9513 kPa on the normal components", p)
+	}
+	if ws := preloads(file(1.03, 1.01, 1), Options{Rereference: true}); len(ws) != 0 || last.Protocols[0].Preload != [NumComponents]float64{} {
+		t.Errorf("re-referenced: %+v, Preload %v", ws, last.Protocols[0].Preload)
+	}
+	if ws := preloads(file(1.03, 1.01, 1.01), Options{}); len(ws) != 0 {
+		t.Errorf("first point off the reference state: %+v", ws)
+	}
+	if ws := preloads(file(1.002, 1.002, 1), Options{}); len(ws) != 0 {
+		t.Errorf("pre-stretch 1.002 (about 2 %% of the range at the reference): %+v", ws)
+	}
+}

@@ -181,6 +181,13 @@ type Protocol struct {
 	// Tare is the stress subtracted from every point when re-referencing
 	// (in StressUnit, after re-basing nominal stress); zero otherwise.
 	Tare [NumComponents]float64
+	// Preload is the normal stress (in StressUnit) at the first kept point
+	// when that point lies at the reference state (F = I within 0.002) and
+	// a normal stress there is above a tenth of its range in the protocol:
+	// a preload that was not tared, which a warning names. It is set for
+	// each normal component above that bound and zero for the others; all
+	// zero otherwise, and always when re-referencing (see Tare).
+	Preload [NumComponents]float64
 }
 
 // Warning is a finding in a file that does not stop its use.

@@ -1,5 +1,12 @@
 package aniso
 
+import (
+	"fmt"
+	"strings"
+
+	"github.com/weft-tools/weft/biaxial"
+)
+
 // evidence is what the verdict walk and the one-standard-error rule
 // (select.go, verdict.go, lookalikes.go) need to know about the data behind the
 // candidates' losses and held-out errors: for one specimen its problem
@@ -16,11 +23,34 @@ type evidence struct {
 	// admissible returns "" when a candidate is admissible where it was
 	// fitted, else what failed where (see admissibleOnData).
 	admissible func(c *Candidate) string
+	// preload names the first protocol whose data carry a preload that was
+	// not tared (biaxial.Protocol.Preload) and its stress, or is empty.
+	preload string
 }
 
 // problemEvidence is the evidence of a single specimen's problem.
 func problemEvidence(p *Problem) evidence {
 	return evidence{rows: p.Rows(), series: len(p.Protocols) * len(p.Output.Components), hasShear: p.HasShear,
 		oneProtocol: len(p.Protocols) == 1,
-		admissible:  func(c *Candidate) string { return admissibleOnData(c.Result.Model, p) }}
+		admissible:  func(c *Candidate) string { return admissibleOnData(c.Result.Model, p) },
+		preload:     preloadText(p)}
+}
+
+// preloadText describes the first of p's protocols that carries a preload
+// that was not tared, or returns "".
+func preloadText(p *Problem) string {
+	s := p.Specimen
+	for _, i := range p.Protocols {
+		pr := &s.Protocols[i]
+		var parts []string
+		for c, v := range pr.Preload {
+			if v != 0 {
+				parts = append(parts, fmt.Sprintf("%s stress %s %.4g %s", s.Kind, biaxial.Component(c), v, s.StressUnit))
+			}
+		}
+		if len(parts) > 0 {
+			return fmt.Sprintf("protocol %s: %s at the reference state", pr.Label, strings.Join(parts, ", "))
+		}
+	}
+	return ""
 }

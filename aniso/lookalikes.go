@@ -322,3 +322,35 @@ func (d *Discovery) architectureTieRule(ev evidence, win *formBest, v *Verdict) 
 	v.Reason = fmt.Sprintf("undecided: one fibre family at %s (%s) and two families at %s (%s) fit and predict the tested protocols alike (%s), with their fibres in different places; the data do not settle how many families there are or where they lie, and the two explanations differ off the tested axes; the best-supported answer by the rule that keeps fewer families unless more beat them: %s",
 		anglesText(win.c.Result), win.c.Name, anglesText(tie.c.Result), tie.c.Name, lc, v.Reason)
 }
+
+// Preloads. Made by independent integration, an isotropic principal-stretch
+// solid (Ogden 1972, α = 9) pre-stretched 1.005 × 1.001 before the
+// markers were zeroed — its file starting at stretch 1 with 4 % of the
+// stress range still on — was a confident 1-or-mirror-pair at 0°, on
+// sutures a confident 1: a preload that stretches one axis more stiffens
+// that axis's incremental response, the signature of fibres along it.
+// The data cannot tell the two apart, so a verdict with fibres along a
+// test axis says so when the data carry a preload that was not tared
+// (biaxial.Protocol.Preload); a tared preload leaves no trace in the data
+// and is a caution of the README.
+
+// preloadAxisDeg is how close (degrees) to a test axis a fibre family
+// must lie for preloadCaution to name the preload: within the spread of
+// the directions a pre-stretch along that axis is fitted with.
+const preloadAxisDeg = 10
+
+// preloadCaution adds to a verdict with fibres, when ev records a preload
+// that was not tared and a family of r lies within preloadAxisDeg of a
+// test axis, that the fibres may be the preload's.
+func preloadCaution(ev evidence, r *Result, v *Verdict) {
+	if ev.preload == "" || r.Structure.Layout == LayoutNone {
+		return
+	}
+	for _, f := range r.Model.Families {
+		a := math.Abs(WrapDeg(Deg(f.Angle)))
+		if min(a, math.Abs(90-a)) <= preloadAxisDeg {
+			v.Reason += fmt.Sprintf("; caution: the data carry a preload that was not tared (%s), and a preload that stretches one axis more than the other makes even an isotropic material respond like one with fibres along that axis, so the fibres found along a test axis may be the preload's (taring does not undo the pre-stretch): stretches measured from the unloaded, stress-free state would tell", ev.preload)
+			return
+		}
+	}
+}

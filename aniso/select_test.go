@@ -831,9 +831,10 @@ func TestArchitectureTieIsUndecided(t *testing.T) {
 }
 
 // The places of a two-family rival against one family (tieGeometry), on
-// hand-made angles: the ±40° pair against 0° lies elsewhere; 0°/90° and
-// ±9°/±81° without shear add a family; a pair bracketing the winner or
-// closer than 60° does neither; with shear, −40° is 80° from 40°.
+// hand-made angles: the ±40° pair against 0° lies elsewhere; 0°/90°,
+// ±9°/±81° and ±9°/±60° without shear add a family; a pair bracketing the
+// winner, a second family within 45° of the winner's, or two families
+// elsewhere closer than 60° do neither; with shear, −40° is 80° from 40°.
 func TestTieGeometry(t *testing.T) {
 	for _, c := range []struct {
 		dir, a1, a2     float64
@@ -843,12 +844,15 @@ func TestTieGeometry(t *testing.T) {
 		{0, 40, -40, true, true, false},
 		{0, 0, 90, true, false, true},
 		{9.3, -81.3, 9.3, false, false, true},
-		{9.3, 9.3, 60, false, false, false},  // 50.7° from the winner
-		{0, -28.4, 28.4, true, false, false}, // brackets it, 56.8° apart
-		{40, 40, -40, false, false, false},   // one direction by magnitude
+		{9.3, 9.3, 60, false, false, true},    // 50.7° from the winner, on one side
+		{9.4, 12.3, 63.5, false, false, true}, // ±10°/65° without shear
+		{9.3, 9.3, 50, false, false, false},   // 40.7°: a broadening of one family
+		{0, -28.4, 28.4, true, false, false},  // brackets it, 56.8° apart
+		{40, 40, -40, false, false, false},    // one direction by magnitude
 		{40, 40, -40, true, false, true},
 		{0, 25, 85, true, true, false},
-		{0, -15, 50, true, false, false}, // 65° apart, but the far one only 50° from the winner
+		{0, 25, 75, true, false, false},  // each 20° or more away, but 50° apart
+		{0, -15, 40, true, false, false}, // 55° apart, but the far one only 40° from the winner
 	} {
 		e, a := tieGeometry(c.dir, c.a1, c.a2, c.hasShear)
 		if e != c.elsewhere || a != c.adds {
@@ -862,11 +866,12 @@ func TestTieGeometry(t *testing.T) {
 // at 90° (fibre stiffness 5 kPa on a 2 kPa matrix). One family near 0°
 // with isotropic terms and two families, one there and one near 90°, fit
 // and predict alike, so the verdict is undecided and names the pair
-// (before: a confident 1-or-mirror-pair at about ±9°). A narrow family
-// at 20° stays 1-or-mirror-pair.
+// (before: a confident 1-or-mirror-pair at about ±9°); so are ideal
+// families at 10° and 65°. A narrow family at 20° stays
+// 1-or-mirror-pair.
 func TestWeakSecondFamilyTieIsUndecided(t *testing.T) {
 	if testing.Short() {
-		t.Skip("two discoveries")
+		t.Skip("three discoveries")
 	}
 	t.Parallel()
 	o := synthOptions{noise: 0.02, points: 30, seed: 1}
@@ -887,6 +892,14 @@ func TestWeakSecondFamilyTieIsUndecided(t *testing.T) {
 	a1, a2 := math.Abs(WrapDeg(Deg(c.Result.Model.Families[0].Angle))), math.Abs(WrapDeg(Deg(c.Result.Model.Families[1].Angle)))
 	if lo, hi := min(a1, a2), max(a1, a2); lo > 20 || hi < 60 {
 		t.Errorf("TiesWith %s has families at ±%.1f° and ±%.1f°, want one near 0° and one near 90°", v.TiesWith, lo, hi)
+	}
+	// Ideal families at 10° and 65° (the second 55° from the first, on one
+	// side): before, a confident 1-or-mirror-pair at ±9°.
+	two := fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)})
+	d, _ = discoverSpecimen(t, synthFrom(t, two, o))
+	t.Logf("10°/65°: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	if d.Verdict.Families != "undecided" || d.Verdict.TiesWith == "" {
+		t.Errorf("ideal families at 10° and 65°, no shear: verdict %s (ties with %q), want undecided by the tie", d.Verdict.Families, d.Verdict.TiesWith)
 	}
 	one := fibreMaterial(3, spreadFamily{20 * deg, 5, expSqFibre(30, 3)})
 	d, _ = discoverSpecimen(t, synthFrom(t, one, o))

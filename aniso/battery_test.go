@@ -36,8 +36,10 @@ type batteryCase struct {
 // angle and spread, broad and banded spreads that are not von Mises
 // densities, a Demiray matrix, valve-like unequal families at 0° and 90°,
 // isotropic solids outside the catalogue's I1 and I2 shapes, and
-// load-controlled protocols on sutures; 2–3 % noise, 30 points a protocol
-// (5 % and 20 points for twelve).
+// load-controlled protocols on sutures, ideal families at 10° and 65°
+// without shear, and three protocols instead of five (1:1, 1:0.5, 0.5:1,
+// or strip tests 1:1, 1:0, 0:1); 2–3 % noise, 30 points a protocol (5 %
+// and 20 points for twelve).
 // Without shear information a one-family answer is 1-or-mirror-pair;
 // undecided is counted as right where the data cannot tell (a spread
 // pair bracketing one broad family, a symmetric pair on sutures, fibres
@@ -177,6 +179,35 @@ func batteryCases() []batteryCase {
 			add(fmt.Sprintf("%s, load-controlled to 60 kPa, sutured, seed %d", l.name, seed), l.m, o, l.right...)
 		}
 	}
+	ten65 := fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)})
+	for seed := uint64(1); seed <= 2; seed++ {
+		add(fmt.Sprintf("ideal families 10° and 65°, no shear, seed %d", seed), ten65, free(seed), "2", "undecided")
+	}
+	fewer := []struct {
+		name   string
+		ratios [][2]float64
+	}{
+		{"three protocols 1:1, 1:0.5, 0.5:1", [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}}},
+		{"strip tests 1:1, 1:0, 0:1", [][2]float64{{1, 1}, {1, 0}, {0, 1}}},
+	}
+	for _, f := range fewer {
+		for _, c := range []struct {
+			name      string
+			m         material
+			sut, free []string
+		}{
+			{"one ideal family 30°", fibreMaterial(3, spreadFamily{30 * deg, -1, expSqFibre(30, 3)}), []string{"1"}, []string{"1-or-mirror-pair"}},
+			{"ideal families 10° and 65°", ten65, []string{"2"}, []string{"2", "undecided"}},
+			{"isotropic Ogden α = 9", ogdenMaterial(3, 9), []string{"0"}, []string{"0", "undecided"}},
+		} {
+			o := sut(1)
+			o.ratios = f.ratios
+			add(fmt.Sprintf("%s, %s, sutured, seed 1", c.name, f.name), c.m, o, c.sut...)
+			o = free(1)
+			o.ratios = f.ratios
+			add(fmt.Sprintf("%s, %s, no shear, seed 1", c.name, f.name), c.m, o, c.free...)
+		}
+	}
 	return cs
 }
 
@@ -209,8 +240,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (125 discoveries, about
-// 120 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (139 discoveries, about
+// 135 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

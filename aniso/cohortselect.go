@@ -533,6 +533,11 @@ func (c *cohortRun) evidence() evidence {
 		ev.series += len(p.Protocols) * len(p.Output.Components)
 		ev.hasShear = ev.hasShear && p.HasShear
 		ev.oneProtocol = ev.oneProtocol && len(p.Protocols) == 1
+		if ev.preload == "" {
+			if pre := preloadText(p); pre != "" {
+				ev.preload = p.Specimen.Name + ", " + pre
+			}
+		}
 	}
 	byName := map[string]*cohortCandidate{}
 	for k, pc := range c.out.Discovery.Pareto {

@@ -24,7 +24,8 @@ type evidence struct {
 	// fitted, else what failed where (see admissibleOnData).
 	admissible func(c *Candidate) string
 	// preload names the first protocol whose data carry a preload that was
-	// not tared (biaxial.Protocol.Preload) and its stress, or is empty.
+	// not tared (biaxial.Protocol.Preload) and its stress — for a cohort,
+	// of the first specimen with one — or is empty.
 	preload string
 }
 

@@ -107,3 +107,39 @@ func TestPreloadCautionGeometry(t *testing.T) {
 		}
 	}
 }
+
+// A cohort's pooled evidence carries the first specimen's untared preload,
+// named with the specimen, so that the cohort's verdict cautions as a
+// specimen's does. The stresses are an incompressible neo-Hookean
+// membrane's (μ = 10 kPa, P11 = μ(λ1 − 1/(λ1³λ2²)), a textbook closed
+// form) pre-stretched 1.03 × 1.01 before the stretches were zeroed.
+func TestCohortEvidenceCarriesPreload(t *testing.T) {
+	read := func(name string, pre1, pre2 float64) *Problem {
+		var b strings.Builder
+		b.WriteString("protocol,stretch_1,stretch_2,nominal_11,nominal_22\n")
+		for i := 0; i <= 10; i++ {
+			l := 1 + 0.015*float64(i)
+			l1, l2 := pre1*l, pre2*l
+			fmt.Fprintf(&b, "1:1,%.6g,%.6g,%.6g,%.6g\n", l, l, 10*(l1-1/(l1*l1*l1*l2*l2)), 10*(l2-1/(l2*l2*l2*l1*l1)))
+		}
+		s, err := biaxial.Read(strings.NewReader(b.String()), name+".csv", biaxial.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		p, err := NewProblem(s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	ps := []*Problem{read("tared", 1, 1), read("preloaded", 1.03, 1.01)}
+	c := &cohortRun{ps: ps, sub: ps, out: &Cohort{Specimens: make([]CohortSpecimen, 2), Discovery: &Discovery{}}}
+	if got := c.evidence().preload; !strings.HasPrefix(got, "preloaded, protocol 1:1: nominal stress 11 1.329 kPa") {
+		t.Errorf("pooled preload %q, want the preloaded specimen's", got)
+	}
+	c.ps, c.sub = ps[:1], ps[:1]
+	c.out.Specimens = c.out.Specimens[:1]
+	if got := c.evidence().preload; got != "" {
+		t.Errorf("pooled preload %q of a specimen without one", got)
+	}
+}

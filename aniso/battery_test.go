@@ -37,8 +37,8 @@ type batteryCase struct {
 // densities, a Demiray matrix, valve-like unequal families at 0° and 90°,
 // isotropic solids outside the catalogue's I1 and I2 shapes, and
 // load-controlled protocols on sutures, ideal families at 10° and 65°
-// without shear, and three protocols instead of five (1:1, 1:0.5, 0.5:1,
-// or strip tests 1:1, 1:0, 0:1); 2–3 % noise, 30 points a protocol (5 %
+// without shear, three protocols instead of five (1:1, 1:0.5, 0.5:1, or
+// strip tests 1:1, 1:0, 0:1), and fibres spread out of the plane; 2–3 % noise, 30 points a protocol (5 %
 // and 20 points for twelve).
 // Without shear information a one-family answer is 1-or-mirror-pair;
 // undecided is counted as right where the data cannot tell (a spread
@@ -208,6 +208,24 @@ func batteryCases() []batteryCase {
 			add(fmt.Sprintf("%s, %s, no shear, seed 1", c.name, f.name), c.m, o, c.free...)
 		}
 	}
+	// Fibres spread out of the plane as well (outOfPlaneFamily): broad
+	// out-of-plane spread makes a family at 0° or 30° look like one with a
+	// second family or isotropic stiffening, so undecided is right there.
+	law := expSqFibre(30, 3)
+	for _, c := range []struct {
+		name      string
+		m         material
+		sut, free []string
+	}{
+		{"one family 30° (b 3), out of plane b 2", outOfPlaneMaterial(3, outOfPlaneFamily(30*deg, 3, 2, law)), []string{"1", "undecided"}, []string{"1-or-mirror-pair", "undecided"}},
+		{"one family 30° (b 3), out of plane b 10", outOfPlaneMaterial(3, outOfPlaneFamily(30*deg, 3, 10, law)), []string{"1", "undecided"}, []string{"1-or-mirror-pair", "undecided"}},
+		{"one family 0° (b 20), out of plane b 1", outOfPlaneMaterial(3, outOfPlaneFamily(0, 20, 1, law)), []string{"1", "undecided"}, []string{"1-or-mirror-pair", "undecided"}},
+		{"pair ±40° (b 10), out of plane b 3", outOfPlaneMaterial(3, outOfPlaneFamily(40*deg, 10, 3, law), outOfPlaneFamily(-40*deg, 10, 3, law)), []string{"2", "undecided"}, []string{"1-or-mirror-pair", "undecided"}},
+		{"families 10° and 65° (b 10), out of plane b 3", outOfPlaneMaterial(3, outOfPlaneFamily(10*deg, 10, 3, expSqFibre(20, 3)), outOfPlaneFamily(65*deg, 10, 3, expSqFibre(10, 2))), []string{"2", "undecided"}, []string{"2", "undecided"}},
+	} {
+		add(c.name+", sutured, seed 1", c.m, sut(1), c.sut...)
+		add(c.name+", no shear, seed 1", c.m, free(1), c.free...)
+	}
 	return cs
 }
 
@@ -240,8 +258,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (139 discoveries, about
-// 135 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (149 discoveries, about
+// 155 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

@@ -61,14 +61,7 @@ func TestPreloadCautionOnAxisFibres(t *testing.T) {
 	if recorded == 0 {
 		t.Fatalf("the reader records no preload (warnings %v)", spec.Warnings)
 	}
-	p, err := NewProblem(spec, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d, err := Discover(p, DiscoverSettings{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	d, _ := discoverSpecimen(t, spec)
 	v := d.Verdict
 	t.Logf("verdict %s: %s", v.Families, v.Reason)
 	if v.Families == "0" {

@@ -624,18 +624,23 @@ func (r *protocolRows) checkDirection(s *Specimen, part []int, dir float64, tol 
 	}
 }
 
+// stressRange is the span (max − min) of component c's stress over pts.
+func stressRange(pts []Point, c Component) float64 {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i := range pts {
+		lo = math.Min(lo, pts[i].Stress[c])
+		hi = math.Max(hi, pts[i].Stress[c])
+	}
+	return hi - lo
+}
+
 // checkNegative warns about clearly negative normal stress on a stretched axis.
 func checkNegative(s *Specimen, label string, pts []Point) {
 	for _, c := range []Component{C11, C22} {
 		if !s.Measured[c] {
 			continue
 		}
-		lo, hi := math.Inf(1), math.Inf(-1)
-		for i := range pts {
-			lo = math.Min(lo, pts[i].Stress[c])
-			hi = math.Max(hi, pts[i].Stress[c])
-		}
-		rng := hi - lo
+		rng := stressRange(pts, c)
 		if !(rng > 0) {
 			continue
 		}
@@ -684,12 +689,7 @@ func checkPreload(s *Specimen, pr *Protocol, pts []Point) {
 		if !s.Measured[c] {
 			continue
 		}
-		lo, hi := math.Inf(1), math.Inf(-1)
-		for i := range pts {
-			lo = math.Min(lo, pts[i].Stress[c])
-			hi = math.Max(hi, pts[i].Stress[c])
-		}
-		if rng := hi - lo; rng > 0 && p.Stress[c] > preloadFraction*rng {
+		if rng := stressRange(pts, c); rng > 0 && p.Stress[c] > preloadFraction*rng {
 			pr.Preload[c] = p.Stress[c]
 			parts = append(parts, fmt.Sprintf("%s stress %s is %.4g %s (%.0f %% of its range)", s.Kind, c, p.Stress[c], s.StressUnit, 100*p.Stress[c]/rng))
 		}
@@ -812,12 +812,7 @@ func weigh(s *Specimen, pr *Protocol) {
 		if !s.Measured[c] {
 			continue
 		}
-		lo, hi := math.Inf(1), math.Inf(-1)
-		for i := range pr.Points {
-			lo = math.Min(lo, pr.Points[i].Stress[c])
-			hi = math.Max(hi, pr.Points[i].Stress[c])
-		}
-		rng[c] = hi - lo
+		rng[c] = stressRange(pr.Points, c)
 	}
 	ref := math.Max(rng[C11], rng[C22])
 	if ref == 0 {

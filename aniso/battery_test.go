@@ -38,7 +38,8 @@ type batteryCase struct {
 // isotropic solids outside the catalogue's I1 and I2 shapes, and
 // load-controlled protocols on sutures, ideal families at 10° and 65°
 // without shear, three protocols instead of five (1:1, 1:0.5, 0.5:1, or
-// strip tests 1:1, 1:0, 0:1), and fibres spread out of the plane; 2–3 % noise, 30 points a protocol (5 %
+// strip tests 1:1, 1:0, 0:1), fibres spread out of the plane, and very
+// clean records (0.2 % noise, 40 points, sixteen); 2–3 % noise, 30 points a protocol (5 %
 // and 20 points for twelve).
 // Without shear information a one-family answer is 1-or-mirror-pair;
 // undecided is counted as right where the data cannot tell (a spread
@@ -226,6 +227,47 @@ func batteryCases() []batteryCase {
 		add(c.name+", sutured, seed 1", c.m, sut(1), c.sut...)
 		add(c.name+", no shear, seed 1", c.m, free(1), c.free...)
 	}
+	// Very clean records (0.2 % noise, 40 points), where a density or
+	// matrix outside the catalogue misfits by more than the noise: the
+	// misfit must not pass for a second family.
+	for _, c := range []struct {
+		name  string
+		m     material
+		broad bool // a spread the catalogue's von Mises density does not have
+	}{
+		{"one wrapped-normal family 35° (sd 20°)", withMatrix(3, wrappedNormalFamily(35*deg, 20*deg, expSqFibre(40, 3))), true},
+		{"one uniform band 10°–60°", withMatrix(3, uniformBandFamily(10*deg, 60*deg, expSqFibre(40, 3))), true},
+		{"one recruited family 30°", fibreMaterial(3, spreadFamily{30 * deg, -1, recruitedFibre(200, 1.02, 0.1)}), false},
+		{"Ogden α = 9 matrix, one ideal family 60°", plus(ogdenMaterial(3, 9), fibreMaterial(0, spreadFamily{60 * deg, -1, expSqFibre(30, 4)})), false},
+		{"Demiray matrix, one family 35° (b 2)", plus(demirayMatrix(3, 1.5), fibreMaterial(0, spreadFamily{35 * deg, 2, expSqFibre(40, 3)})), true},
+		{"one family 0° (b 3)", fibreMaterial(3, spreadFamily{0, 3, expSqFibre(30, 3)}), false},
+	} {
+		shearRight, freeRight := []string{"1"}, []string{"1-or-mirror-pair"}
+		if c.broad {
+			shearRight, freeRight = append(shearRight, "undecided"), append(freeRight, "undecided")
+		}
+		o := sut(1)
+		o.noise, o.points = 0.002, 40
+		add(c.name+", sutured, 0.2 % noise, 40 points", c.m, o, shearRight...)
+		o = free(1)
+		o.noise, o.points = 0.002, 40
+		add(c.name+", no shear, 0.2 % noise, 40 points", c.m, o, freeRight...)
+	}
+	for _, c := range []struct {
+		name      string
+		m         material
+		sut, free []string
+	}{
+		{"isotropic Ogden α = 9", ogdenMaterial(3, 9), []string{"0"}, []string{"0", "undecided"}},
+		{"ideal families 10° and 65°", ten65, []string{"2"}, []string{"2", "undecided"}},
+	} {
+		o := sut(1)
+		o.noise, o.points = 0.002, 40
+		add(c.name+", sutured, 0.2 % noise, 40 points", c.m, o, c.sut...)
+		o = free(1)
+		o.noise, o.points = 0.002, 40
+		add(c.name+", no shear, 0.2 % noise, 40 points", c.m, o, c.free...)
+	}
 	return cs
 }
 
@@ -258,8 +300,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (149 discoveries, about
-// 155 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (165 discoveries, about
+// 150 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

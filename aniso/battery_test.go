@@ -38,7 +38,8 @@ type batteryCase struct {
 // isotropic solids outside the catalogue's I1 and I2 shapes, and
 // load-controlled protocols on sutures, ideal families at 10° and 65°
 // without shear, three protocols instead of five (1:1, 1:0.5, 0.5:1, or
-// strip tests 1:1, 1:0, 0:1), fibres spread out of the plane, and very
+// strip tests 1:1, 1:0, 0:1), fibres spread out of the plane, recruited
+// pairs and two families on matrices outside the I1/I2 shapes, and very
 // clean records (0.2 % noise, 40 points, sixteen); 2–3 % noise, 30 points a protocol (5 %
 // and 20 points for twelve).
 // Without shear information a one-family answer is 1-or-mirror-pair;
@@ -227,6 +228,24 @@ func batteryCases() []batteryCase {
 		add(c.name+", sutured, seed 1", c.m, sut(1), c.sut...)
 		add(c.name+", no shear, seed 1", c.m, free(1), c.free...)
 	}
+	// Gradually recruited fibres in pairs, and two families on matrices
+	// outside the I1/I2 shapes.
+	r1, r2 := recruitedFibre(150, 1.03, 0.12), recruitedFibre(80, 1.06, 0.1)
+	for _, c := range []struct {
+		name      string
+		m         material
+		sut, free []string
+	}{
+		{"recruited ideal pair ±35°", fibreMaterial(3, spreadFamily{35 * deg, -1, r1}, spreadFamily{-35 * deg, -1, r1}), []string{"2"}, []string{"1-or-mirror-pair", "undecided"}},
+		{"recruited ideal families 10° and 65°", fibreMaterial(3, spreadFamily{10 * deg, -1, r1}, spreadFamily{65 * deg, -1, r2}), []string{"2"}, []string{"2", "undecided"}},
+		{"Ogden α = 9 matrix, ideal families 10° and 65°", plus(ogdenMaterial(3, 9), fibreMaterial(0, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)})), []string{"2"}, []string{"2", "undecided"}},
+		{"Ogden α = 20 matrix, spread pair ±40° (b 4)", plus(ogdenMaterial(1, 20), fibreMaterial(0, spreadFamily{40 * deg, 4, expSqFibre(30, 3)}, spreadFamily{-40 * deg, 4, expSqFibre(30, 3)})), []string{"2", "undecided"}, []string{"1-or-mirror-pair", "undecided"}},
+		{"exponentiated Hencky matrix, one family 30° (b 3)", plus(expHenckyMaterial(4, 6), fibreMaterial(0, spreadFamily{30 * deg, 3, expSqFibre(30, 3)})), []string{"1"}, []string{"1-or-mirror-pair"}},
+		{"Demiray matrix, families 0° and 90° (b 5)", plus(demirayMatrix(2, 3), fibreMaterial(0, spreadFamily{0, 5, expSqFibre(30, 3)}, spreadFamily{90 * deg, 5, expSqFibre(15, 2)})), []string{"2", "undecided"}, []string{"2", "undecided"}},
+	} {
+		add(c.name+", sutured, seed 1", c.m, sut(1), c.sut...)
+		add(c.name+", no shear, seed 1", c.m, free(1), c.free...)
+	}
 	// Very clean records (0.2 % noise, 40 points), where a density or
 	// matrix outside the catalogue misfits by more than the noise: the
 	// misfit must not pass for a second family.
@@ -300,8 +319,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (165 discoveries, about
-// 150 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (177 discoveries, about
+// 190 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

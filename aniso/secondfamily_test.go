@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"math"
 	"strings"
 	"testing"
 )
@@ -51,5 +52,39 @@ func TestSecondFamilyRefitsFindTheTwoFamilyForm(t *testing.T) {
 		if d.Verdict.Families != "undecided" {
 			t.Errorf("%g°/%g°: verdict %s, want undecided", a[0], a[1], d.Verdict.Families)
 		}
+	}
+}
+
+// A Demiray matrix (Demiray 1972; written out in independent_test.go)
+// with spread families at 0° and 90° (concentration 5, the 90° one half
+// as stiff), made by independent integration, on sutures (30 points, 2 %
+// noise): the full two-family fit put both families near 0°, the subsets
+// searched there missed the families at right angles, and the verdict was
+// a confident 1 at 0°. With the refit of the full fit turned to 90°
+// (perpendicularFull) as an extra anchor, the search finds a model with
+// families near 0° and 90° whose BIC is more than DisagreeDeltaBIC below
+// every one-direction model's (ΔBIC 9.1), so the verdict is undecided.
+func TestPerpendicularAnchorFindsFamiliesAtRightAngles(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	m := plus(demirayMatrix(2, 3), fibreMaterial(0, spreadFamily{0, 5, expSqFibre(30, 3)}, spreadFamily{90 * deg, 5, expSqFibre(15, 2)}))
+	d, _ := discoverSpecimen(t, synthFrom(t, m, synthOptions{noise: 0.02, points: 30, seed: 1, sutured: true, maxStrain: 0.2}))
+	v := d.Verdict
+	t.Logf("verdict %s: %s", v.Families, v.Reason)
+	if v.Families != "undecided" {
+		t.Fatalf("Demiray matrix with families at 0° and 90°, sutured: verdict %s, want undecided", v.Families)
+	}
+	c := candidateNamed(d, v.InSampleBest)
+	if c == nil || familyCount(c.Result) != 2 {
+		t.Fatalf("InSampleBest %q is not a two-family candidate", v.InSampleBest)
+	}
+	a1, a2 := math.Abs(WrapDeg(Deg(c.Result.Model.Families[0].Angle))), math.Abs(WrapDeg(Deg(c.Result.Model.Families[1].Angle)))
+	if lo, hi := min(a1, a2), max(a1, a2); lo > 5 || hi < 85 {
+		t.Errorf("%s has families at %.1f° and %.1f°, want near 0° and 90°", c.Name, a1, a2)
+	}
+	if !strings.Contains(strings.Join(d.Search, "\n"), "turned to 90° from the first") {
+		t.Errorf("the search notes do not name the perpendicular anchor: %q", d.Search)
 	}
 }

@@ -867,11 +867,14 @@ func TestTieGeometry(t *testing.T) {
 // with isotropic terms and two families, one there and one near 90°, fit
 // and predict alike, so the verdict is undecided and names the pair
 // (before: a confident 1-or-mirror-pair at about ±9°); so are ideal
-// families at 10° and 65°. A narrow family at 20° stays
-// 1-or-mirror-pair.
+// families at 10° and 65°. The one-family specimens of
+// TestVerdictAcceptance, still 1-or-mirror-pair, are the control (a
+// narrow family at 20° stays 1-or-mirror-pair too: it was checked here
+// once, and the battery pins such families), and TestTieGeometry checks
+// where the rule applies.
 func TestWeakSecondFamilyTieIsUndecided(t *testing.T) {
 	if testing.Short() {
-		t.Skip("three discoveries")
+		t.Skip("two discoveries")
 	}
 	t.Parallel()
 	o := synthOptions{noise: 0.02, points: 30, seed: 1}
@@ -900,12 +903,6 @@ func TestWeakSecondFamilyTieIsUndecided(t *testing.T) {
 	t.Logf("10°/65°: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 	if d.Verdict.Families != "undecided" || d.Verdict.TiesWith == "" {
 		t.Errorf("ideal families at 10° and 65°, no shear: verdict %s (ties with %q), want undecided by the tie", d.Verdict.Families, d.Verdict.TiesWith)
-	}
-	one := fibreMaterial(3, spreadFamily{20 * deg, 5, expSqFibre(30, 3)})
-	d, _ = discoverSpecimen(t, synthFrom(t, one, o))
-	t.Logf("control: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
-	if d.Verdict.Families != "1-or-mirror-pair" {
-		t.Errorf("one family at 20° (concentration 5), no shear: verdict %s, want 1-or-mirror-pair", d.Verdict.Families)
 	}
 }
 

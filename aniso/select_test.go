@@ -659,6 +659,19 @@ func TestTwoFamiliesMustBeatAFlatTop(t *testing.T) {
 	}
 }
 
+// twoFamilyMagnitudes returns the smaller and the larger angle magnitude
+// (degrees, 0–90) of the two-family candidate of d named name, failing t
+// when there is no such candidate.
+func twoFamilyMagnitudes(t *testing.T, d *Discovery, name string) (lo, hi float64) {
+	t.Helper()
+	c := candidateNamed(d, name)
+	if c == nil || familyCount(c.Result) != 2 {
+		t.Fatalf("%q does not name a two-family candidate", name)
+	}
+	a1, a2 := math.Abs(WrapDeg(Deg(c.Result.Model.Families[0].Angle))), math.Abs(WrapDeg(Deg(c.Result.Model.Families[1].Angle)))
+	return min(a1, a2), max(a1, a2)
+}
+
 // candidateNamed returns d's Pareto candidate of that name, or nil.
 func candidateNamed(d *Discovery, name string) *Candidate {
 	for i := range d.Pareto {
@@ -888,12 +901,7 @@ func TestWeakSecondFamilyTieIsUndecided(t *testing.T) {
 	if !strings.Contains(v.Reason, "stand in for a weak second family") {
 		t.Errorf("the reason does not name the weak second family: %q", v.Reason)
 	}
-	c := candidateNamed(d, v.TiesWith)
-	if c == nil || familyCount(c.Result) != 2 {
-		t.Fatalf("TiesWith %q does not name a two-family candidate", v.TiesWith)
-	}
-	a1, a2 := math.Abs(WrapDeg(Deg(c.Result.Model.Families[0].Angle))), math.Abs(WrapDeg(Deg(c.Result.Model.Families[1].Angle)))
-	if lo, hi := min(a1, a2), max(a1, a2); lo > 20 || hi < 60 {
+	if lo, hi := twoFamilyMagnitudes(t, d, v.TiesWith); lo > 20 || hi < 60 {
 		t.Errorf("TiesWith %s has families at ±%.1f° and ±%.1f°, want one near 0° and one near 90°", v.TiesWith, lo, hi)
 	}
 	// Ideal families at 10° and 65° (the second 55° from the first, on one

@@ -21,15 +21,7 @@ import (
 func TestHeldoutTableIsTheSelectionsFolds(t *testing.T) {
 	t.Parallel()
 	dir := filepath.Join(demoFits(t).dir, "membrane-M1.weft")
-	mj, err := os.Open(filepath.Join(dir, "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer mj.Close()
-	c, _, err := card.Parse(mj, "model.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
 	var chosen *card.CandidateCard
 	for i := range c.Selection.Pareto {
 		if c.Selection.Pareto[i].Chosen {

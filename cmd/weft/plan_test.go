@@ -443,15 +443,7 @@ func fitAndPlan(t *testing.T, name string) (*card.Card, planning.Report) {
 	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", name), "-o", dir, "--quiet"); code != 0 {
 		t.Fatalf("fit: exit %d: %s", code, errs)
 	}
-	f, err := os.Open(filepath.Join(dir, "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	c, _, err := card.Parse(f, "model.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
 	pl, _ := planJSON(t, dir)
 	return c, pl
 }

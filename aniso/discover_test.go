@@ -45,13 +45,8 @@ type sharedDiscovery struct {
 	err  error
 }
 
-func discoverOn(t *testing.T, m *Model, o synthOptions) (*Discovery, *Problem) {
-	t.Helper()
-	return discoverLogged(t, synthSpecimen(t, m, o))
-}
-
-// discoverOnMaterial is discoverOn for a material made by independent
-// numerical integration (independent_test.go).
+// discoverOnMaterial discovers a material made by independent numerical
+// integration (independent_test.go) and logs the choice (discoverLogged).
 func discoverOnMaterial(t *testing.T, mat material, o synthOptions) (*Discovery, *Problem) {
 	t.Helper()
 	return discoverLogged(t, synthFrom(t, mat, o))

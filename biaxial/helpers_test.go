@@ -77,15 +77,4 @@ func near(a, b, rel float64) bool {
 	return math.Abs(a-b) <= rel*math.Max(math.Abs(a), math.Abs(b)) || a == b
 }
 
-// rampCSV is a header plus n rows of a single loading ramp for protocol
-// "1:1" with stretch 1 + 0.01 i and the stress columns filled by f(i).
-func rampCSV(header string, n int, row func(i int) string) string {
-	var b strings.Builder
-	b.WriteString(header + "\n")
-	for i := 0; i < n; i++ {
-		b.WriteString(row(i) + "\n")
-	}
-	return b.String()
-}
-
 func writeFile(path string, data []byte) error { return os.WriteFile(path, data, 0o644) }

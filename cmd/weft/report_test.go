@@ -20,8 +20,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/weft-tools/weft/cmd/weft/internal/report"
-
 	"github.com/weft-tools/weft/aniso/card"
 )
 
@@ -761,14 +759,6 @@ func TestSuturedShearHasNoShare(t *testing.T) {
 	t.Run("chromium renders and prints it", func(t *testing.T) { checkInChromium(t, dir, labels) })
 }
 
-// filepathFromReport maps a report file name to its place in the folder.
-func filepathFromReport(f string) string {
-	if strings.HasSuffix(f, ".svg") || strings.HasSuffix(f, ".png") {
-		return filepath.Join("plots", f)
-	}
-	return f
-}
-
 // TestReportBadFolder: weft report on a folder that lacks what it needs
 // exits 2 and says what is missing.
 func TestReportBadFolder(t *testing.T) {
@@ -799,12 +789,6 @@ func TestReportBadFolder(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(onlyCard, "report.html")); err == nil {
 		t.Errorf("a failed report wrote report.html")
 	}
-}
-
-// plotName is the file stem of protocol i's plot as the report names it:
-// prefix, the protocol's number and its label made safe for a file name.
-func plotName(prefix string, i int, label string) string {
-	return fmt.Sprintf("%s-%02d-%s", prefix, i+1, report.SafeName(strings.ReplaceAll(label, ":", "_")))
 }
 
 // coefficientOfDetermination is R² = 1 − SS_res/SS_tot of predictions

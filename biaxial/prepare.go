@@ -206,7 +206,7 @@ func (r *protocolRows) line(pos int) int { return r.t.line(r.g, pos) }
 // prepareProtocol selects, re-references, resamples and weights one protocol.
 func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Options, sc *scratch) (Protocol, error) {
 	label := g.label
-	pr := Protocol{Label: label, UserWeight: 1, RawRows: g.n, RefF: [4]float64{1, 0, 0, 1}, KeptBranch: opt.Branch}
+	pr := Protocol{Label: label, UserWeight: 1, RawRows: g.n, RefF: identityF, KeptBranch: opt.Branch}
 	if w, ok := opt.ProtocolWeights[label]; ok {
 		pr.UserWeight = w
 	}
@@ -624,6 +624,10 @@ func (r *protocolRows) checkDirection(s *Specimen, part []int, dir float64, tol 
 	}
 }
 
+// identityF is the deformation gradient of the reference state,
+// (F11, F12, F21, F22) = (1, 0, 0, 1).
+var identityF = [4]float64{1, 0, 0, 1}
+
 // stressRange is the span (max − min) of component c's stress over pts.
 func stressRange(pts []Point, c Component) float64 {
 	lo, hi := math.Inf(1), math.Inf(-1)
@@ -680,7 +684,7 @@ func checkNegative(s *Specimen, label string, pts []Point) {
 func checkPreload(s *Specimen, pr *Protocol, pts []Point) {
 	p := &pts[0]
 	for j, v := range p.F {
-		if id := [4]float64{1, 0, 0, 1}[j]; math.Abs(v-id) > preloadStretch {
+		if math.Abs(v-identityF[j]) > preloadStretch {
 			return
 		}
 	}
@@ -739,7 +743,7 @@ func rereference(pts []Point, kind StressKind, measured *[NumComponents]bool, pr
 		}
 	}
 	// The reference point is exactly the identity and stress-free.
-	pts[0].F = [4]float64{1, 0, 0, 1}
+	pts[0].F = identityF
 }
 
 // resample returns n points evenly spaced in the driving stretch between

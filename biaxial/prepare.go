@@ -92,6 +92,9 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 	}
 	// Shear information: a measured shear stress or non-zero F12/F21.
 	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
+	if s.HasShear {
+		warnShearScatter(s)
+	}
 	if opt.Rereference {
 		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
 		if s.Kind == Nominal {
@@ -265,6 +268,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	if !opt.Rereference {
 		checkPreload(s, &pr, pts)
 	}
+	pr.StrainScatter = strainScatter(pts)
 	if opt.Resample > 0 {
 		pts, err = resample(pts, opt.Resample)
 		if err != nil {

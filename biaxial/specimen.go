@@ -188,6 +188,12 @@ type Protocol struct {
 	// each normal component above that bound and zero for the others; all
 	// zero otherwise, and always when re-referencing (see Tare).
 	Preload [NumComponents]float64
+	// StrainScatter is the point-to-point scatter (standard deviation,
+	// dimensionless) of each measured deformation-gradient entry (F11,
+	// F12, F21, F22) over the kept points, before resampling: tracking
+	// noise of the markers, estimated from third differences (see
+	// scatter.go); zero with fewer than MinPoints points.
+	StrainScatter [4]float64
 }
 
 // Warning is a finding in a file that does not stop its use.

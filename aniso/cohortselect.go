@@ -538,6 +538,11 @@ func (c *cohortRun) evidence() evidence {
 				ev.preload = p.Specimen.Name + ", " + pre
 			}
 		}
+		if ev.shearScatter == "" {
+			if sc := shearScatterText(p); sc != "" {
+				ev.shearScatter = p.Specimen.Name + ", " + sc
+			}
+		}
 	}
 	byName := map[string]*cohortCandidate{}
 	for k, pc := range c.out.Discovery.Pareto {

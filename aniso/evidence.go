@@ -27,14 +27,43 @@ type evidence struct {
 	// not tared (biaxial.Protocol.Preload) and its stress — for a cohort,
 	// of the first specimen with one — or is empty.
 	preload string
+	// shearScatter names the protocol whose measured shear F12, F21
+	// scatters most, when the data give shear stresses and that scatter
+	// is above biaxial.ShearScatterLimit — for a cohort, of the first
+	// specimen with one — or is empty.
+	shearScatter string
 }
 
 // problemEvidence is the evidence of a single specimen's problem.
 func problemEvidence(p *Problem) evidence {
 	return evidence{rows: p.Rows(), series: len(p.Protocols) * len(p.Output.Components), hasShear: p.HasShear,
-		oneProtocol: len(p.Protocols) == 1,
-		admissible:  func(c *Candidate) string { return admissibleOnData(c.Result.Model, p) },
-		preload:     preloadText(p)}
+		oneProtocol:  len(p.Protocols) == 1,
+		admissible:   func(c *Candidate) string { return admissibleOnData(c.Result.Model, p) },
+		preload:      preloadText(p),
+		shearScatter: shearScatterText(p)}
+}
+
+// shearScatterText describes the protocol of p whose measured shear F12,
+// F21 scatters most from point to point (biaxial.Protocol.StrainScatter),
+// when p's data give shear stresses and that scatter is above
+// biaxial.ShearScatterLimit; else it returns "".
+func shearScatterText(p *Problem) string {
+	s := p.Specimen
+	if !s.Measured[biaxial.C12] && !s.Measured[biaxial.C21] {
+		return ""
+	}
+	worst, big := -1, biaxial.ShearScatterLimit
+	for _, i := range p.Protocols {
+		sc := s.Protocols[i].StrainScatter
+		if v := max(sc[1], sc[2]); v > big {
+			worst, big = i, v
+		}
+	}
+	if worst < 0 {
+		return ""
+	}
+	pr := &s.Protocols[worst]
+	return fmt.Sprintf("about %.2g in F12 and %.2g in F21 in protocol %s", pr.StrainScatter[1], pr.StrainScatter[2], pr.Label)
 }
 
 // preloadText describes the first of p's protocols that carries a preload

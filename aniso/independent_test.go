@@ -393,7 +393,28 @@ func synthFrom(t testing.TB, m material, o synthOptions) *biaxial.Specimen {
 		addNoiseRand(&pr, o.noise, rng, s.Measured)
 		s.Protocols = append(s.Protocols, pr)
 	}
+	addStretchNoise(s, o)
 	return s
+}
+
+// addStretchNoise adds o.stretchNoise to every recorded F entry that s
+// measures (see synthOptions.stretchNoise).
+func addStretchNoise(s *biaxial.Specimen, o synthOptions) {
+	if o.stretchNoise <= 0 {
+		return
+	}
+	rng := rand.New(rand.NewPCG(o.seed, 1234))
+	entries := []int{0, 3}
+	if o.sutured {
+		entries = []int{0, 1, 2, 3}
+	}
+	for p := range s.Protocols {
+		for i := range s.Protocols[p].Points {
+			for _, e := range entries {
+				s.Protocols[p].Points[i].F[e] += o.stretchNoise * rng.NormFloat64()
+			}
+		}
+	}
 }
 
 // The independent materials agree with the catalogue's evaluation where

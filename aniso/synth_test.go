@@ -29,6 +29,13 @@ type synthOptions struct {
 	// the ratios are of nominal stress P11:P22, the leading axis loaded to
 	// loadMax, and the stretches solved for (no shear; maxStrain unused).
 	loadMax float64
+	// stretchNoise > 0 adds Gaussian noise of this standard deviation
+	// (absolute, in stretch) to each recorded deformation-gradient entry
+	// the specimen measures (F11 and F22, and F12 and F21 on sutures)
+	// after the stresses were computed from the true ones: the tracking
+	// noise of optical markers. Its draws come from a stream of their own,
+	// so the stress noise is the same with and without it.
+	stretchNoise float64
 }
 
 func (o synthOptions) withDefaults() synthOptions {

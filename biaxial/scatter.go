@@ -3,6 +3,8 @@ package biaxial
 import (
 	"math"
 	"sort"
+
+	"gonum.org/v1/gonum/stat"
 )
 
 // Point-to-point scatter of the measured deformation gradient.
@@ -15,7 +17,9 @@ import (
 // times the step cubed. The scatter is estimated from their median
 // absolute value, 1.4826·median|Δ³F|/√20 (the normal-consistent median
 // absolute deviation; difference-based noise estimates are common practice
-// in signal processing), so that a few slips do not dominate it.
+// in signal processing), so that a few slips do not dominate it; the
+// median is gonum's empirical quantile at one half (for an even count the
+// lower of the two middle values).
 //
 // Why it matters: on sutures or rakes the shear stresses are zero and are
 // given as such, while the shear F12, F21 comes from the markers; a model's
@@ -44,19 +48,10 @@ func strainScatter(pts []Point) [4]float64 {
 		for i := range d {
 			d[i] = math.Abs(pts[i+3].F[e] - 3*pts[i+2].F[e] + 3*pts[i+1].F[e] - pts[i].F[e])
 		}
-		out[e] = 1.4826 * median(d) / math.Sqrt(20)
+		sort.Float64s(d)
+		out[e] = 1.4826 * stat.Quantile(0.5, stat.Empirical, d, nil) / math.Sqrt(20)
 	}
 	return out
-}
-
-// median returns the median of v, reordering it.
-func median(v []float64) float64 {
-	sort.Float64s(v)
-	m := len(v) / 2
-	if len(v)%2 == 1 {
-		return v[m]
-	}
-	return (v[m-1] + v[m]) / 2
 }
 
 // warnShearScatter warns, once for the specimen, when its shear stresses

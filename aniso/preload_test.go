@@ -72,14 +72,22 @@ func TestPreloadCautionOnAxisFibres(t *testing.T) {
 	}
 }
 
-// preloadCaution on hand-made results: it names the preload only for
-// fibres within 10° of a test axis and only when the data carry one.
-func TestPreloadCautionGeometry(t *testing.T) {
+// preloadCaution and shearScatterCaution on hand-made results: each
+// names its finding only for fibres within 10° of a test axis and only
+// when the data carry it.
+func TestAxisCautionsGeometry(t *testing.T) {
+	cautions := []struct {
+		word string
+		add  func(note string, r *Result, v *Verdict)
+	}{
+		{"preload", func(note string, r *Result, v *Verdict) { preloadCaution(evidence{preload: note}, r, v) }},
+		{"shear scatters", func(note string, r *Result, v *Verdict) { shearScatterCaution(evidence{shearScatter: note}, r, v) }},
+	}
 	for _, c := range []struct {
-		layout  Layout
-		angles  []float64
-		preload string
-		want    bool
+		layout Layout
+		angles []float64
+		note   string
+		want   bool
 	}{
 		{LayoutSingle, []float64{2}, "protocol 1:1: …", true},
 		{LayoutSingle, []float64{-86}, "protocol 1:1: …", true},
@@ -93,10 +101,12 @@ func TestPreloadCautionGeometry(t *testing.T) {
 		for _, a := range c.angles {
 			m.Families = append(m.Families, Family{Angle: Rad(a)})
 		}
-		v := Verdict{Reason: "r"}
-		preloadCaution(evidence{preload: c.preload}, &Result{Structure: Structure{Layout: c.layout}, Model: m}, &v)
-		if got := strings.Contains(v.Reason, "preload"); got != c.want {
-			t.Errorf("%v at %v° (preload %q): caution %v, want %v", c.layout, c.angles, c.preload, got, c.want)
+		for _, k := range cautions {
+			v := Verdict{Reason: "r"}
+			k.add(c.note, &Result{Structure: Structure{Layout: c.layout}, Model: m}, &v)
+			if got := strings.Contains(v.Reason, k.word); got != c.want {
+				t.Errorf("%s: %v at %v° (note %q): caution %v, want %v", k.word, c.layout, c.angles, c.note, got, c.want)
+			}
 		}
 	}
 }

@@ -60,33 +60,6 @@ func TestShearScatterCautionOnAxisFibres(t *testing.T) {
 	}
 }
 
-// shearScatterCaution on hand-made results: only for a family within 10°
-// of a test axis and only when the data's shear scatters.
-func TestShearScatterCautionGeometry(t *testing.T) {
-	for _, c := range []struct {
-		layout  Layout
-		angles  []float64
-		scatter string
-		want    bool
-	}{
-		{LayoutSingle, []float64{0.1}, "about 0.001 …", true},
-		{LayoutSingle, []float64{89}, "about 0.001 …", true},
-		{LayoutMirror, []float64{30, -30}, "about 0.001 …", false},
-		{LayoutSingle, []float64{0.1}, "", false},
-		{LayoutNone, nil, "about 0.001 …", false},
-	} {
-		m := &Model{}
-		for _, a := range c.angles {
-			m.Families = append(m.Families, Family{Angle: Rad(a)})
-		}
-		v := Verdict{Reason: "r"}
-		shearScatterCaution(evidence{shearScatter: c.scatter}, &Result{Structure: Structure{Layout: c.layout}, Model: m}, &v)
-		if got := strings.Contains(v.Reason, "shear scatters"); got != c.want {
-			t.Errorf("%v at %v° (scatter %q): caution %v, want %v", c.layout, c.angles, c.scatter, got, c.want)
-		}
-	}
-}
-
 // A cohort's pooled evidence carries the first specimen's shear scatter,
 // named with the specimen. The specimens are a Mooney–Rivlin solid on
 // sutures (closed form, independent_test.go), one with tracking noise of

@@ -3,6 +3,8 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
@@ -138,5 +140,66 @@ func TestInspectHelp(t *testing.T) {
 	out, _, code := runWeft(t, "inspect", "--help")
 	if code != exitOK || !strings.Contains(out, "--rereference") || !strings.Contains(out, "Examples:") {
 		t.Errorf("help (exit %d):\n%s", code, out)
+	}
+}
+
+// weft inspect --json gives each protocol's untared preload and the
+// point-to-point scatter of F that the reader estimated. The file: an
+// incompressible neo-Hookean membrane on sutures (μ = 10 kPa, P11 =
+// μ(λ1 − 1/(λ1³λ2²)), a textbook closed form) measured from a state
+// pre-stretched 1.03 × 1.01, its first row at F = I with the preload's
+// stress, and Gaussian noise of 0.001 added to the measured shear F12
+// and F21 (whose stresses are given as zero).
+func TestInspectJSONPreloadAndScatter(t *testing.T) {
+	rng := rand.New(rand.NewPCG(2, 9))
+	var b strings.Builder
+	b.WriteString("# notes = synthetic\nprotocol,F11,F12,F21,F22,nominal_11 [kPa],nominal_22 [kPa],nominal_12 [kPa],nominal_21 [kPa]\n")
+	for i := 0; i <= 200; i++ {
+		l := 1 + 0.001*float64(i)
+		l1, l2 := 1.03*l, 1.01*l
+		f12, f21 := 0.0, 0.0
+		if i > 0 {
+			f12, f21 = 0.001*rng.NormFloat64(), 0.001*rng.NormFloat64()
+		}
+		fmt.Fprintf(&b, "1:1,%.8g,%.8g,%.8g,%.8g,%.8g,%.8g,0,0\n", l, f12, f21, l, 10*(l1-1/(l1*l1*l1*l2*l2)), 10*(l2-1/(l2*l2*l2*l1*l1)))
+	}
+	path := writeTemp(t, "tracked.csv", b.String())
+	out, errs, code := runWeft(t, "inspect", "--json", path)
+	if code != exitOK {
+		t.Fatalf("exit %d, stderr %q", code, errs)
+	}
+	var doc struct {
+		Specimens []struct {
+			Protocols []struct {
+				Preload       map[string]float64 `json:"preload"`
+				StrainScatter [4]float64         `json:"strain_scatter"`
+			} `json:"protocols"`
+			Warnings []struct {
+				Message string `json:"message"`
+			} `json:"warnings"`
+		} `json:"specimens"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("not JSON: %v\n%s", err, out)
+	}
+	s := doc.Specimens[0]
+	p := s.Protocols[0]
+	if math.Abs(p.Preload["11"]-1.329) > 1e-3 || math.Abs(p.Preload["22"]-0.9513) > 1e-4 {
+		t.Errorf("preload %v, want 1.329 and 0.9513 kPa on 11 and 22", p.Preload)
+	}
+	// One protocol of 201 points: the estimate lies within about ±20 % of
+	// the noise at 95 % (simulated; biaxial's TestStrainScatter checks
+	// that it has no bias); the bounds are ±35 %.
+	for _, e := range []int{1, 2} {
+		if p.StrainScatter[e] < 0.00065 || p.StrainScatter[e] > 0.00135 {
+			t.Errorf("strain_scatter[%d] = %.3g, want about 0.001", e, p.StrainScatter[e])
+		}
+	}
+	var named bool
+	for _, w := range s.Warnings {
+		named = named || strings.Contains(w.Message, "tracking noise of the markers?")
+	}
+	if !named {
+		t.Errorf("no scatter warning in %+v", s.Warnings)
 	}
 }

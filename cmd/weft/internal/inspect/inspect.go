@@ -58,7 +58,12 @@ type protocolJSON struct {
 	UserWeight     float64               `json:"user_weight"`
 	RefF           [4]float64            `json:"reference_F"`
 	Tare           map[string]float64    `json:"tare"`
-	Data           []pointJSON           `json:"data,omitempty"`
+	// Preload is the untared normal stress at the reference state
+	// (biaxial.Protocol.Preload); StrainScatter the point-to-point scatter
+	// of F11, F12, F21, F22 (biaxial.Protocol.StrainScatter).
+	Preload       map[string]float64 `json:"preload"`
+	StrainScatter [4]float64         `json:"strain_scatter"`
+	Data          []pointJSON        `json:"data,omitempty"`
 }
 
 type pointJSON struct {
@@ -135,11 +140,13 @@ func NewDocument(specs []*biaxial.Specimen, withPoints bool) *Document {
 				Cycles: p.Cycles, KeptCycle: p.KeptCycle, KeptBranch: p.KeptBranch.String(), Kept: p.Kept,
 				Stretch1: l1, Stretch2: l2, UserWeight: p.UserWeight, RefF: p.RefF,
 				Stress: map[string][2]float64{}, Weight: map[string]float64{}, Tare: map[string]float64{},
+				Preload: map[string]float64{}, StrainScatter: p.StrainScatter,
 			}
 			for _, c := range cs {
 				pj.Stress[c.String()] = st[c]
 				pj.Weight[c.String()] = p.Weight[c]
 				pj.Tare[c.String()] = p.Tare[c]
+				pj.Preload[c.String()] = p.Preload[c]
 			}
 			if withPoints {
 				for _, pt := range p.Points {

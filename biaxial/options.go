@@ -92,6 +92,17 @@ type Options struct {
 	// points evenly spaced in the driving stretch (linear interpolation of
 	// F, stress and time). It must be 0 or at least MinPoints. Default 0.
 	Resample int
+	// SmoothStrain, when > 0, smooths each protocol's kept deformation
+	// gradient (F11, F12, F21, F22, entry by entry, in point order) with a
+	// quadratic Savitzky–Golay filter over that many points (Savitzky &
+	// Golay 1964: each point replaced by the value at it of the
+	// least-squares quadratic through the window centred on it; the first
+	// and last points by the quadratic of the first and last window),
+	// before resampling: it lowers the tracking noise of markers (see
+	// scatter.go) and leaves a quadratic path as it was. It must be 0
+	// (default: F as measured) or an odd number of at least MinPoints, and
+	// a protocol must keep at least that many points.
+	SmoothStrain int
 	// ProtocolWeights gives a relative weight per protocol label (≥ 0,
 	// default 1 for a label not in the map). A label that names no protocol
 	// of the file is an error.
@@ -114,6 +125,9 @@ func (o Options) check() error {
 	}
 	if o.Resample != 0 && o.Resample < MinPoints {
 		return fmt.Errorf("%w: resample to %d points; use 0 (off) or at least %d", ErrOptions, o.Resample, MinPoints)
+	}
+	if o.SmoothStrain != 0 && (o.SmoothStrain < MinPoints || o.SmoothStrain%2 == 0) {
+		return fmt.Errorf("%w: smoothing window of %d points; use 0 (off) or an odd number of at least %d", ErrOptions, o.SmoothStrain, MinPoints)
 	}
 	if err := o.Limits.check(); err != nil {
 		return err

@@ -269,6 +269,15 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		checkPreload(s, &pr, pts)
 	}
 	pr.StrainScatter = strainScatter(pts)
+	if opt.SmoothStrain > 0 {
+		if len(pts) < opt.SmoothStrain {
+			return pr, perr(ErrProtocol, "smooth over fewer points, or keep more of the protocol",
+				"keeps %s, fewer than the smoothing window of %d", plural(len(pts), "point"), opt.SmoothStrain)
+		}
+		smoothStrain(pts, opt.SmoothStrain)
+		pr.SmoothWindow = opt.SmoothStrain
+		pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", opt.SmoothStrain)
+	}
 	if opt.Resample > 0 {
 		pts, err = resample(pts, opt.Resample)
 		if err != nil {

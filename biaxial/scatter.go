@@ -1,6 +1,7 @@
 package biaxial
 
 import (
+	"fmt"
 	"math"
 	"sort"
 
@@ -55,8 +56,9 @@ func strainScatter(pts []Point) [4]float64 {
 }
 
 // warnShearScatter warns, once for the specimen, when its shear stresses
-// are given and the measured shear F12 or F21 of a protocol scatters by
-// more than ShearScatterLimit from point to point.
+// are given and the shear F12 or F21 that a fit uses scatters by more than
+// ShearScatterLimit from point to point (Protocol.FittedStrainScatter:
+// as measured, or what smoothing leaves).
 func warnShearScatter(s *Specimen) {
 	if !s.Measured[C12] && !s.Measured[C21] {
 		return
@@ -64,7 +66,7 @@ func warnShearScatter(s *Specimen) {
 	worst, over := -1, 0
 	big := 0.0
 	for i := range s.Protocols {
-		sc := s.Protocols[i].StrainScatter
+		sc := s.Protocols[i].FittedStrainScatter()
 		v := math.Max(sc[1], sc[2])
 		if v > ShearScatterLimit {
 			over++
@@ -77,6 +79,71 @@ func warnShearScatter(s *Specimen) {
 		return
 	}
 	pr := &s.Protocols[worst]
-	s.warn(0, pr.Label, "protocol %s: the shear F12 and F21 scatter by about %.2g and %.2g from point to point (estimated from third differences of the kept points; %d of %d protocols above %g) — tracking noise of the markers? The shear stresses are given, so a model's shear stress is compared with them at shear that carries this scatter, which penalises fibre arrangements that resist shear; steadier tracking (more or larger markers, a larger tracked region) lowers it",
-		pr.Label, pr.StrainScatter[1], pr.StrainScatter[2], over, len(s.Protocols), ShearScatterLimit)
+	smoothed := ""
+	if pr.SmoothWindow > 0 {
+		f := pr.FittedStrainScatter()
+		smoothed = fmt.Sprintf("; smoothed over %d points, about %.2g and %.2g remain", pr.SmoothWindow, f[1], f[2])
+	}
+	s.warn(0, pr.Label, "protocol %s: the shear F12 and F21 scatter by about %.2g and %.2g from point to point (estimated from third differences of the kept points%s; %d of %d protocols above %g) — tracking noise of the markers? The shear stresses are given, so a model's shear stress is compared with them at shear that carries this scatter, which penalises fibre arrangements that resist shear; steadier tracking (more or larger markers, a larger tracked region) or smoothing the tracked strains over more points lowers it",
+		pr.Label, pr.StrainScatter[1], pr.StrainScatter[2], smoothed, over, len(s.Protocols), ShearScatterLimit)
+}
+
+// smoothStrain replaces each entry of F over pts by its quadratic
+// Savitzky–Golay smoothing over window points (see Options.SmoothStrain):
+// the interior by the centred window's fit at its centre, the first and
+// last window/2 points by the first and last window's fit at them.
+func smoothStrain(pts []Point, window int) {
+	m := window / 2
+	n := len(pts)
+	x := make([]float64, n)
+	for e := 0; e < 4; e++ {
+		for i := range pts {
+			x[i] = pts[i].F[e]
+		}
+		for i := range pts {
+			lo, at := i-m, 0
+			switch {
+			case i < m:
+				lo, at = 0, i-m
+			case i >= n-m:
+				lo, at = n-window, i-(n-m-1)
+			}
+			v := 0.0
+			for k := 0; k < window; k++ {
+				v += savitzkyGolayWeight(m, k-m, at) * x[lo+k]
+			}
+			pts[i].F[e] = v
+		}
+	}
+}
+
+// savitzkyGolayWeight is the weight of the point at offset u (from −m to
+// m) in the value at offset at of the least-squares quadratic through a
+// window of 2m + 1 equally spaced points: the row of the fit's hat matrix,
+// [1 at at²] (XᵀX)⁻¹ [1 u u²]ᵀ. With the window's moments S0 = 2m + 1,
+// S2 = Σ k², S4 = Σ k⁴ (odd moments vanish), (XᵀX)⁻¹ has the constant
+// block [[S4, −S2], [−S2, S0]]/(S0 S4 − S2²) and 1/S2 for the linear term.
+func savitzkyGolayWeight(m, u, at int) float64 {
+	var s0, s2, s4 float64
+	for k := -m; k <= m; k++ {
+		k2 := float64(k * k)
+		s0++
+		s2 += k2
+		s4 += k2 * k2
+	}
+	det := s0*s4 - s2*s2
+	a, uu := float64(at), float64(u)
+	return (s4-s2*uu*uu)/det + a*uu/s2 + a*a*(s0*uu*uu-s2)/det
+}
+
+// SmoothingNoiseFactor is the ratio of the standard deviation of
+// independent noise after and before a quadratic Savitzky–Golay filter
+// over window points, at an interior point: √(Σ w²) of the centre's
+// weights, which equals √w0 for a least-squares filter (e.g. 0.505 for 9
+// points). 1 for a window of 0.
+func SmoothingNoiseFactor(window int) float64 {
+	if window <= 0 {
+		return 1
+	}
+	return math.Sqrt(savitzkyGolayWeight(window/2, 0, 0))
 }

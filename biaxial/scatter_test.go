@@ -1,6 +1,7 @@
 package biaxial
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -81,5 +82,104 @@ func TestStrainScatter(t *testing.T) {
 	}
 	if _, sc, ws := scatterOf(shearFile(0.001, false, 3)); len(ws) != 0 || sc[1] == 0 {
 		t.Errorf("no shear stresses given: scatter %.3g, warnings %q, want the scatter recorded and no warning", sc, ws)
+	}
+}
+
+// The quadratic Savitzky–Golay filter against its published convolution
+// weights (Savitzky & Golay 1964, the table of quadratic smoothing
+// coefficients, from memory: 5 points (−3, 12, 17, 12, −3)/35, 7 points
+// (−2, 3, 6, 7, 6, 3, −2)/21, 9 points (−21, 14, 39, 54, 59, 54, 39, 14,
+// −21)/231), their noise factor √w0 (√(59/231) = 0.5054 for 9), and the
+// filter's defining properties: a quadratic path comes through unchanged,
+// ends included, and independent noise of standard deviation s is left
+// at about 0.505 s at interior points.
+func TestSmoothStrain(t *testing.T) {
+	for _, c := range []struct {
+		window int
+		w      []float64
+		norm   float64
+	}{
+		{5, []float64{-3, 12, 17, 12, -3}, 35},
+		{7, []float64{-2, 3, 6, 7, 6, 3, -2}, 21},
+		{9, []float64{-21, 14, 39, 54, 59, 54, 39, 14, -21}, 231},
+	} {
+		m := c.window / 2
+		for k, w := range c.w {
+			if got := savitzkyGolayWeight(m, k-m, 0); math.Abs(got-w/c.norm) > 1e-14 {
+				t.Errorf("%d points, weight %d: %.15g, want %g/%g", c.window, k-m, got, w, c.norm)
+			}
+		}
+		if got, want := SmoothingNoiseFactor(c.window), math.Sqrt(c.w[m]/c.norm); math.Abs(got-want) > 1e-14 {
+			t.Errorf("%d points: noise factor %.15g, want %.15g", c.window, got, want)
+		}
+	}
+	quad := func(i int) float64 { return 1 + 0.01*float64(i) - 0.0003*float64(i*i) }
+	pts := make([]Point, 20)
+	for i := range pts {
+		pts[i].F = [4]float64{quad(i), 0.5 * quad(i), -quad(i), 2 * quad(i)}
+	}
+	smoothStrain(pts, 9)
+	for i := range pts {
+		for e, f := range []float64{1, 0.5, -1, 2} {
+			if math.Abs(pts[i].F[e]-f*quad(i)) > 1e-13 {
+				t.Fatalf("point %d, entry %d: %.15g, want the quadratic's %.15g", i, e, pts[i].F[e], f*quad(i))
+			}
+		}
+	}
+	rng := rand.New(rand.NewPCG(4, 4))
+	ss, n := 0.0, 0
+	for rep := 0; rep < 400; rep++ {
+		pts := make([]Point, 30)
+		for i := range pts {
+			pts[i].F[1] = 0.001 * rng.NormFloat64()
+		}
+		smoothStrain(pts, 9)
+		for i := 4; i < 26; i++ {
+			ss += pts[i].F[1] * pts[i].F[1]
+			n++
+		}
+	}
+	if got := math.Sqrt(ss/float64(n)) / 0.001; math.Abs(got-0.5054) > 0.02 {
+		t.Errorf("noise left at interior points %.4g of it, want 0.5054", got)
+	}
+}
+
+// Smoothing is an option of its own: the window must be odd and at least
+// MinPoints, a protocol must keep that many points, the kept text and the
+// protocol record it, and the scatter warning judges what smoothing
+// leaves (0.001 of noise, estimated 0.0013 in this file, about 0.0004
+// after 21 points, whose noise factor is 0.328: below the limit, no
+// warning, the measured scatter still recorded).
+func TestSmoothStrainOption(t *testing.T) {
+	for _, w := range []int{4, 8, -3} {
+		if _, err := readString(shearFile(0.001, true, 3), Options{SmoothStrain: w}); !errors.Is(err, ErrOptions) {
+			t.Errorf("window %d: error %v, want ErrOptions", w, err)
+		}
+	}
+	if _, err := readString(shearFile(0.001, true, 3), Options{SmoothStrain: 61}); !errors.Is(err, ErrProtocol) {
+		t.Errorf("window 61 on 60 points: error %v, want ErrProtocol", err)
+	}
+	s9, err := readString(shearFile(0.001, true, 3), Options{SmoothStrain: 9})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s9.Warnings) != 1 || !strings.Contains(s9.Warnings[0].Message, "smoothed over 9 points, about 0.00") {
+		t.Errorf("smoothed over 9 points, about 0.0007 left: warnings %v, want one that says what smoothing left", s9.Warnings)
+	}
+	s, err := readString(shearFile(0.001, true, 3), Options{SmoothStrain: 21})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := s.Protocols[0]
+	if pr.SmoothWindow != 21 || !strings.Contains(pr.Kept, "F smoothed over 21 points") || pr.StrainScatter[1] < 0.0005 {
+		t.Errorf("window %d, kept %q, scatter %.3g", pr.SmoothWindow, pr.Kept, pr.StrainScatter)
+	}
+	if f := pr.FittedStrainScatter(); math.Abs(f[1]/pr.StrainScatter[1]-SmoothingNoiseFactor(21)) > 1e-12 {
+		t.Errorf("fitted scatter %.3g of %.3g", f[1], pr.StrainScatter[1])
+	}
+	for _, w := range s.Warnings {
+		if strings.Contains(w.Message, "tracking noise") {
+			t.Errorf("warned after smoothing over 21 points: %s", w.Message)
+		}
 	}
 }

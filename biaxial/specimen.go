@@ -194,6 +194,24 @@ type Protocol struct {
 	// noise of the markers, estimated from third differences (see
 	// scatter.go); zero with fewer than MinPoints points.
 	StrainScatter [4]float64
+	// SmoothWindow is the Savitzky–Golay window (points) F was smoothed
+	// over (Options.SmoothStrain), 0 when F is as measured.
+	SmoothWindow int
+}
+
+// FittedStrainScatter is the scatter of F that remains in the points a fit
+// uses: StrainScatter, or, when F was smoothed, StrainScatter times the
+// filter's noise factor (SmoothingNoiseFactor) — the scatter of an
+// interior point for independent noise.
+func (p *Protocol) FittedStrainScatter() [4]float64 {
+	sc := p.StrainScatter
+	if p.SmoothWindow > 0 {
+		f := SmoothingNoiseFactor(p.SmoothWindow)
+		for e := range sc {
+			sc[e] *= f
+		}
+	}
+	return sc
 }
 
 // Warning is a finding in a file that does not stop its use.

@@ -43,10 +43,11 @@ func problemEvidence(p *Problem) evidence {
 		shearScatter: shearScatterText(p)}
 }
 
-// shearScatterText describes the protocol of p whose measured shear F12,
-// F21 scatters most from point to point (biaxial.Protocol.StrainScatter),
-// when p's data give shear stresses and that scatter is above
-// biaxial.ShearScatterLimit; else it returns "".
+// shearScatterText describes the protocol of p whose shear F12, F21, as
+// the fit uses it, scatters most from point to point
+// (biaxial.Protocol.FittedStrainScatter), when p's data give shear
+// stresses and that scatter is above biaxial.ShearScatterLimit; else it
+// returns "".
 func shearScatterText(p *Problem) string {
 	s := p.Specimen
 	if !s.Measured[biaxial.C12] && !s.Measured[biaxial.C21] {
@@ -54,7 +55,7 @@ func shearScatterText(p *Problem) string {
 	}
 	worst, big := -1, biaxial.ShearScatterLimit
 	for _, i := range p.Protocols {
-		sc := s.Protocols[i].StrainScatter
+		sc := s.Protocols[i].FittedStrainScatter()
 		if v := max(sc[1], sc[2]); v > big {
 			worst, big = i, v
 		}
@@ -63,7 +64,12 @@ func shearScatterText(p *Problem) string {
 		return ""
 	}
 	pr := &s.Protocols[worst]
-	return fmt.Sprintf("about %.2g in F12 and %.2g in F21 in protocol %s", pr.StrainScatter[1], pr.StrainScatter[2], pr.Label)
+	sc := pr.FittedStrainScatter()
+	smoothed := ""
+	if pr.SmoothWindow > 0 {
+		smoothed = fmt.Sprintf(" after smoothing over %d points", pr.SmoothWindow)
+	}
+	return fmt.Sprintf("about %.2g in F12 and %.2g in F21 in protocol %s%s", sc[1], sc[2], pr.Label, smoothed)
 }
 
 // preloadText describes the first of p's protocols that carries a preload

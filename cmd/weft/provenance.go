@@ -115,7 +115,8 @@ func readOptionList(o biaxial.Options, sheet string) []string {
 		cycle = "all"
 	}
 	out = append(out, "--cycle="+cycle, "--branch="+o.Branch.String(),
-		"--rereference="+strconv.FormatBool(o.Rereference), "--resample="+strconv.Itoa(o.Resample))
+		"--rereference="+strconv.FormatBool(o.Rereference), "--resample="+strconv.Itoa(o.Resample),
+		"--smooth-strain="+strconv.Itoa(o.SmoothStrain))
 	var labels []string
 	for l := range o.ProtocolWeights {
 		labels = append(labels, l)
@@ -165,9 +166,9 @@ func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
 }
 
 // recordViewOptions are o with every cycle and both branches, as measured
-// (no re-referencing or resampling).
+// (no re-referencing, resampling or smoothing).
 func recordViewOptions(o biaxial.Options) biaxial.Options {
-	o.Cycle, o.Branch, o.Rereference, o.Resample = biaxial.CycleAll, biaxial.BranchAll, false, 0
+	o.Cycle, o.Branch, o.Rereference, o.Resample, o.SmoothStrain = biaxial.CycleAll, biaxial.BranchAll, false, 0, 0
 	return o
 }
 

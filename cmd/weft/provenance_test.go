@@ -71,6 +71,24 @@ func TestFormOptionsResolved(t *testing.T) {
 	}
 }
 
+// The reading options a card records follow the flags, smoothing
+// included: the window as given, and 0 when F is as measured.
+func TestReadOptionsRecordSmoothing(t *testing.T) {
+	rf := &readFlags{cycle: "2", branch: "all", smooth: 9, limits: &limitFlags{}}
+	o, err := rf.options()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{"--cycle=2", "--branch=all", "--rereference=false", "--resample=0", "--smooth-strain=9"}
+	if got := readOptionList(o, ""); !slices.Equal(got, want) {
+		t.Errorf("options %q, want %q", got, want)
+	}
+	rf.smooth = 6
+	if _, err := rf.options(); err == nil || !strings.Contains(err.Error(), "--smooth-strain 6: use 0 (off) or an odd number") {
+		t.Errorf("window 6: error %v", err)
+	}
+}
+
 // A default discovery card records every default that decides its result,
 // the in-plane dispersion discovery tries among them, and M1's verdict
 // names the spread forms it did not consider: M1's fibres are ideal
@@ -80,7 +98,7 @@ func TestFormOptionsResolved(t *testing.T) {
 func TestDiscoveryCardRecordsDefaults(t *testing.T) {
 	t.Parallel()
 	c, raw := readCardFile(t, filepath.Join(demoFits(t).dir, "membrane-M1.weft", "model.json"))
-	want := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--max-terms=5", "--dispersion=in-plane"}
+	want := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--smooth-strain=0", "--max-terms=5", "--dispersion=in-plane"}
 	if c.Provenance == nil || !slices.Equal(c.Provenance.Options, want) {
 		t.Fatalf("provenance %+v, want options %q", c.Provenance, want)
 	}
@@ -139,7 +157,7 @@ func TestCohortProvenance(t *testing.T) {
 	if _, stderr, code := runWeft(t, args...); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	options := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--preset=hgo", "--pair-axis=axis-1"}
+	options := []string{"--cycle=last", "--branch=loading", "--rereference=false", "--resample=0", "--smooth-strain=0", "--preset=hgo", "--pair-axis=axis-1"}
 	check := func(what string, p *card.Provenance, opts []string, inputs []string) {
 		t.Helper()
 		if p == nil {

@@ -15,6 +15,7 @@ type readFlags struct {
 	branch      string
 	rereference bool
 	resample    int
+	smooth      int
 	weights     []string
 	oldWeights  []string
 	limits      *limitFlags
@@ -29,6 +30,7 @@ func addReadFlags(cmd *cobra.Command) *readFlags {
 	fl.StringVar(&f.branch, "branch", "loading", "branch kept: loading, unloading or all")
 	fl.BoolVar(&f.rereference, "rereference", false, "move the reference state to the first kept point of each protocol and remove its stress as a tare")
 	fl.IntVar(&f.resample, "resample", 0, "resample each protocol to N points evenly spaced in stretch (0: off)")
+	fl.IntVar(&f.smooth, "smooth-strain", 0, "smooth each protocol's measured F over N points (odd, at least 5) with a quadratic Savitzky–Golay filter, against marker tracking noise (0: off, F as measured)")
 	fl.StringArrayVar(&f.weights, "protocol-weight", nil, "relative weight of a protocol's residuals, LABEL=W (repeatable; default 1)")
 	// --weight is the former name of --protocol-weight, kept so that scripts
 	// still run; the word now belongs to the energy terms' coefficients.
@@ -57,6 +59,10 @@ func (f *readFlags) options() (biaxial.Options, error) {
 		return o, badInputf("--resample %d: use 0 (off) or at least %d points", f.resample, biaxial.MinPoints)
 	}
 	o.Resample = f.resample
+	if f.smooth != 0 && (f.smooth < biaxial.MinPoints || f.smooth%2 == 0) {
+		return o, badInputf("--smooth-strain %d: use 0 (off) or an odd number of points of at least %d, e.g. 9", f.smooth, biaxial.MinPoints)
+	}
+	o.SmoothStrain = f.smooth
 	for _, w := range append(append([]string(nil), f.weights...), f.oldWeights...) {
 		i := strings.LastIndexByte(w, '=')
 		if i <= 0 {

@@ -290,8 +290,8 @@ func batteryCases() []batteryCase {
 	}
 	// Tracking noise of 0.001 in every measured F entry (0.1 % strain):
 	// on sutures the zero shear stresses are compared with a model's at
-	// noisy shear, which penalises fibres that resist shear (README,
-	// Data checks).
+	// noisy shear, which penalises fibres that resist shear (README, the
+	// tracking-noise paragraph of Discovering the model).
 	for _, c := range []struct {
 		name  string
 		m     material

@@ -28,7 +28,8 @@ import (
 // markers' noise times the model's shear stiffness, and a fit penalises
 // fibre arrangements that resist shear for it. Synthetic sutured
 // specimens with 0.1 % of tracking noise in the shear (0.001 in F12 and
-// F21) already moved fibre-family verdicts (README, Data checks).
+// F21) already moved fibre-family verdicts (README, the tracking-noise
+// paragraph of Discovering the model).
 
 // ShearScatterLimit is the scatter of F12 or F21 (dimensionless) above
 // which a specimen with measured shear stresses is warned about: half the

@@ -53,7 +53,10 @@
 // is preconditioned, and the loading branch of the last cycle is the one
 // usually fitted (common practice; Options.Cycle and Options.Branch). A
 // preload defines the reference state; re-referencing moves it to the first
-// kept point of each protocol and removes its stress as a tare.
+// kept point of each protocol and removes its stress as a tare. Markers are
+// tracked with noise: the point-to-point scatter of every F entry is
+// estimated for each protocol (Protocol.StrainScatter, scatter.go), and
+// Options.SmoothStrain smooths F when asked to.
 //
 // # Protocols
 //

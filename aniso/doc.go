@@ -142,7 +142,9 @@
 // (crossval.go); the decision (select.go: its rule, first the family
 // verdict, then the pick inside the winning form; verdict.go writes the
 // verdict up from the evidence of evidence.go, and lookalikes.go the
-// look-alike rules and the architecture tie that can leave it undecided);
+// look-alike rules and the architecture tie that can leave it undecided,
+// and the cautions a verdict with fibres along a test axis carries when
+// the data show an untared preload or scattered shear);
 // the polish on every point
 // (polish.go). runRefits (fullforms.go) fits a stage's refits side by side
 // on workers of pool.go, the package's one pool type (scans and profiles

@@ -152,6 +152,9 @@ type Card struct {
 	// (key "alternatives"; AlternativeModels reads them); nil when the
 	// fibre layout is determined or the card predates the section.
 	Alternatives *AlternativesSection `json:"-"`
+	// CalibrationCheck is discovery repeated with axis 1's stress scaled
+	// (key "calibration_check"); nil unless asked for.
+	CalibrationCheck *CalibrationCheck `json:"-"`
 	// Provenance is what made the card (key "provenance") and Setup how
 	// the specimen was set up (key "setup"); nil in cards written before
 	// them or by hand.
@@ -203,6 +206,7 @@ var sections = []section{
 	{KeySplit, func(c *Card) (any, bool) { return c.Split, c.Split != nil }, decodeInto(func(c *Card, v *SplitSection) { c.Split = v })},
 	{KeyVerdict, func(c *Card) (any, bool) { return c.Verdict, c.Verdict != nil }, decodeInto(func(c *Card, v *VerdictSection) { c.Verdict = v })},
 	{KeyAlternatives, func(c *Card) (any, bool) { return c.Alternatives, c.Alternatives != nil }, decodeInto(func(c *Card, v *AlternativesSection) { c.Alternatives = v })},
+	{KeyCalibrationCheck, func(c *Card) (any, bool) { return c.CalibrationCheck, c.CalibrationCheck != nil }, decodeInto(func(c *Card, v *CalibrationCheck) { c.CalibrationCheck = v })},
 	{KeyProvenance, func(c *Card) (any, bool) { return c.Provenance, c.Provenance != nil }, decodeInto(func(c *Card, v *Provenance) { c.Provenance = v })},
 	{KeySetup, func(c *Card) (any, bool) { return c.Setup, c.Setup != nil }, decodeInto(func(c *Card, v *Setup) { c.Setup = v })},
 }

@@ -66,6 +66,7 @@ func buildSchema() []byte {
 	dataRange := dataRangeSchema()
 	alternatives := alternativesSchema(family, term, schemaStr)
 	verdict := verdictSchema()
+	calibration := calibrationSchema()
 	fit := fitSchema()
 	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}
 	s := obj{
@@ -93,6 +94,7 @@ func buildSchema() []byte {
 			{"data_range", dataRange},
 			{"alternatives", alternatives},
 			{"verdict", verdict},
+			{"calibration_check", calibration},
 			{"fit", fit},
 		}},
 		{"additionalProperties", true},
@@ -252,6 +254,33 @@ func verdictSchema() obj {
 			{"in_sample_best", obj{{"type", "string"}, {"description", fmt.Sprintf("the selection candidate that fits better in sample (BIC at least %g lower) than every model of the kind the held-out errors favour, when that is why the verdict is undecided: a model with two fibre directions against every one-direction model, or a model with fibres against every isotropic model", aniso.DisagreeDeltaBIC)}}},
 			{"ties_with", obj{{"type", "string"}, {"description", "the selection candidate with two fibre families at least 60° apart, placed elsewhere (every family at least 20° from the one-family answer's direction) or adding one (one family within 20° of that direction, the other at least 45° from it and from that family), that fits and predicts as well as the one-family answer (held-out error within one standard error, BIC not 6 or more higher), when that tie is why the verdict is undecided"}}},
 			{"look_alike", obj{{"type", "string"}, {"description", "the selection candidate of the look-alike the reason names: for an isotropic verdict the lowest-BIC model with fibres placed symmetrically about the 45° line (and about the tester's axes when the data carry shear information), which stiffen the two axes alike as an isotropic material does; for a verdict left undecided by that look-alike the lowest-BIC isotropic model"}}},
+		}},
+	}
+}
+
+// calibrationSchema is the schema of the calibration check (weft fit
+// --calibration-check).
+func calibrationSchema() obj {
+	outcome := obj{
+		{"type", "object"},
+		{"required", []string{"axis_1_scale", "verdict"}},
+		{"properties", obj{
+			{"axis_1_scale", obj{{"type", "number"}, {"exclusiveMinimum", 0}, {"description", "the factor axis 1's stress was scaled by, dimensionless"}}},
+			{"verdict", obj{{"type", "string"}, {"description", "discovery's verdict on the number of fibre families with the stress so scaled"}}},
+			{"chosen", obj{{"type", "string"}, {"description", "the chosen candidate's name"}}},
+			{"angles_deg", obj{{"type", "array"}, {"items", obj{{"type", "number"}}}, {"description", "the chosen model's family angles, degrees"}}},
+		}},
+	}
+	return obj{
+		{"type", "object"},
+		{"description", "discovery repeated with axis 1's stress scaled by 1 + fraction and 1 - fraction: the data a per-axis error of the load-to-stress conversion (a load cell's calibration, an effective loaded width) would have given; written only when asked for"},
+		{"required", []string{"fraction", "verdict", "holds", "outcomes"}},
+		{"properties", obj{
+			{"fraction", obj{{"type", "number"}, {"exclusiveMinimum", 0}, {"exclusiveMaximum", 0.5}, {"description", "the relative scale tried, dimensionless (0.05 for ±5 %)"}}},
+			{"verdict", obj{{"type", "string"}, {"description", "the card's own verdict on the number of fibre families"}}},
+			{"holds", obj{{"type", "boolean"}, {"description", "true when every outcome's verdict is the card's"}}},
+			{"outcomes", obj{{"type", "array"}, {"items", outcome}}},
+			{"summary", obj{{"type", "string"}, {"description", "the check in words"}}},
 		}},
 	}
 }
@@ -437,6 +466,9 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 				c.Extra = map[string]json.RawMessage{"future_section": json.RawMessage(`{"anything":[1,2],"rmse":1.2}`)}
 				unknown := make([]bool, len(m.Families))
 				c.Alternatives = NewAlternativesSection(m, "kPa", unknown)
+				c.CalibrationCheck = NewCalibrationCheck("1", 0.05, []aniso.AxisScaleOutcome{
+					{Axis1Scale: 1.05, Families: "1", Chosen: "single-t2-p4", AnglesDeg: []float64{31.2}, Angles: "31.2°"},
+					{Axis1Scale: 0.95, Families: "0", Chosen: "none-t1-p2", AnglesDeg: []float64{}}})
 				if len(m.Families) > 0 && c.Alternatives == nil {
 					t.Errorf("%s: no alternatives for unknown signs", name)
 				}

@@ -42,6 +42,9 @@ type fitOptions struct {
 	quiet      bool
 	// png also writes every plot as PNG beside its SVG.
 	png bool
+	// calibration > 0 also discovers each specimen with axis 1's stress
+	// scaled by 1 ± calibration (aniso.AxisScaleCheck).
+	calibration float64
 }
 
 // discoveryDispersion is the fibre spread discovery tries besides ideal
@@ -107,7 +110,10 @@ tested range, not for clinical decisions.`,
 
   # several specimens, each into its own folder; discovery without the
   # dispersed layouts
-  weft fit a.csv b.csv c.xlsx --dispersion none`,
+  weft fit a.csv b.csv c.xlsx --dispersion none
+
+  # does the fibre verdict survive a 5 % error of one axis's load cell?
+  weft fit skin-A.csv --calibration-check 0.05`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) == 0 {
 				return badInputf("fit needs at least one DATA file (see 'weft fit --help')")
@@ -127,6 +133,7 @@ tested range, not for clinical decisions.`,
 	fl.StringVar(&ff.dispersion, "dispersion", "", "how fibres spread about their mean direction: in-plane (a learned concentration, angular integration), kappa (the 3-D dispersion κ of Gasser, Ogden & Holzapfel 2006) or none; discovery tries in-plane besides ideal families unless told otherwise, --terms fits ideal families unless told otherwise")
 	fl.StringVar(&ff.pairAxis, "pair-axis", "", "axis of a mirror pair (--preset hgo or goh, or --layout mirror): axis-1 holds the pair symmetric about axis 1 at ±β, as published (the default); free learns the pair's axis θ as well")
 	fl.IntVar(&ff.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
+	fl.Float64Var(&ff.calibration, "calibration-check", 0, "also discover with axis 1's stress scaled by 1+F and 1-F (a per-axis load-cell or loaded-width error, e.g. 0.05) and report whether the fibre verdict holds; triples discovery's time (0: off)")
 	fl.BoolVar(&ff.asJSON, "json", false, "print the model card(s) as JSON instead of the summary")
 	fl.BoolVar(&ff.quiet, "quiet", false, "no progress bar")
 	fl.BoolVar(&ff.png, "png", false, "also write every plot as PNG (144 dpi) beside its SVG in plots/")
@@ -304,6 +311,12 @@ func runFit(ff *fitOptions) error {
 	}
 	if ff.maxTerms < 1 || ff.maxTerms > 8 {
 		return badInputf("--max-terms %d: use 1 to 8", ff.maxTerms)
+	}
+	if !(ff.calibration >= 0 && ff.calibration < 0.5) {
+		return badInputf("--calibration-check %g: give a fraction from 0 (off) to below 0.5, e.g. 0.05 for ±5 %%", ff.calibration)
+	}
+	if ff.calibration > 0 && chosen {
+		return badInputf("--calibration-check asks whether discovery's verdict on the fibre families holds; it does not apply to a chosen form (--preset, --terms)")
 	}
 	jobs := make([]*fitJob, len(args))
 	for i, path := range args {
@@ -507,8 +520,17 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		o.Discovery = d
 		o.Result = d.Best().Result
 	}
+	var check []aniso.AxisScaleOutcome
+	if ff.calibration > 0 && o.Discovery != nil {
+		if check, err = aniso.AxisScaleCheck(s, ff.calibration, ff.discoverSettings()); err != nil {
+			return nil, fitFailed(s, fmt.Errorf("the calibration check: %w", err))
+		}
+	}
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
+	if check != nil {
+		o.Card.CalibrationCheck = card.NewCalibrationCheck(o.Discovery.Verdict.Families, ff.calibration, check)
+	}
 	return o, nil
 }
 

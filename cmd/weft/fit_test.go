@@ -214,6 +214,9 @@ func TestFitBadInput(t *testing.T) {
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "--pair-axis", "axis-2"},
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "neo-hookean", "--pair-axis", "free"},
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--pair-axis", "free"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--calibration-check", "0.5"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--calibration-check", "-0.05"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--calibration-check", "0.05", "--preset", "hgo"},
 		{"fit"},
 	}
 	for _, args := range cases {

@@ -133,7 +133,11 @@ func readOptionList(o biaxial.Options, sheet string) []string {
 // structureFromFlags read from ff and chosen false for discovery.
 func formOptionList(ff *fitOptions, st aniso.Structure, chosen bool) []string {
 	if !chosen {
-		return []string{"--max-terms=" + strconv.Itoa(ff.maxTerms), "--dispersion=" + ff.discoveryDispersion()}
+		out := []string{"--max-terms=" + strconv.Itoa(ff.maxTerms), "--dispersion=" + ff.discoveryDispersion()}
+		if ff.calibration > 0 {
+			out = append(out, "--calibration-check="+strconv.FormatFloat(ff.calibration, 'g', -1, 64))
+		}
+		return out
 	}
 	var out []string
 	families := st.Layout.Families()

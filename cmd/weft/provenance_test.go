@@ -51,6 +51,7 @@ func TestFormOptionsResolved(t *testing.T) {
 	}{
 		{"discovery", fitOptions{maxTerms: 5, families: -1, layout: "free"}, []string{"--max-terms=5", "--dispersion=in-plane"}},
 		{"discovery, ideal families", fitOptions{maxTerms: 3, families: -1, layout: "free", dispersion: "none"}, []string{"--max-terms=3", "--dispersion=none"}},
+		{"discovery, calibration check", fitOptions{maxTerms: 5, families: -1, layout: "free", calibration: 0.05}, []string{"--max-terms=5", "--dispersion=in-plane", "--calibration-check=0.05"}},
 		{"hgo", fitOptions{preset: "hgo", families: -1, layout: "free"}, []string{"--preset=hgo", "--pair-axis=axis-1"}},
 		{"hgo, free axis", fitOptions{preset: "hgo", families: -1, layout: "free", pairAxis: "free"}, []string{"--preset=hgo", "--pair-axis=free"}},
 		{"neo-hookean", fitOptions{preset: "neo-hookean", families: -1, layout: "free"}, []string{"--preset=neo-hookean"}},

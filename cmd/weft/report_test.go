@@ -20,6 +20,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 )
 
@@ -804,4 +805,35 @@ func coefficientOfDetermination(meas, pred []float64) float64 {
 		sst += (v - mean) * (v - mean)
 	}
 	return 1 - ssr/sst
+}
+
+// A card's calibration check (weft fit --calibration-check) is shown in
+// the report beside the verdict: the demo M1 fit's card is given one by
+// hand and the report rebuilt.
+func TestReportShowsCalibrationCheck(t *testing.T) {
+	t.Parallel()
+	dir := demoFitCopy(t, "membrane-M1")
+	path := filepath.Join(dir, "model.json")
+	c, _ := readCardFile(t, path)
+	c.CalibrationCheck = card.NewCalibrationCheck(c.Verdict.Families, 0.05, []aniso.AxisScaleOutcome{
+		{Axis1Scale: 1.05, Families: "0", Chosen: "none-t1-p2", AnglesDeg: []float64{}},
+		{Axis1Scale: 0.95, Families: c.Verdict.Families, Chosen: "single-t2-p4", AnglesDeg: []float64{29.6}, Angles: "±29.6°"}})
+	b, err := c.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
+		t.Fatalf("weft report: exit %d: %s", code, stderr)
+	}
+	html, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "Calibration check: verdict 1-or-mirror-pair; axis 1&#39;s stress ×1.05: 0; axis 1&#39;s stress ×0.95: 1-or-mirror-pair at ±29.6° — the verdict changes"
+	if !strings.Contains(string(html), want) {
+		t.Errorf("report.html lacks %q", want)
+	}
 }

@@ -110,9 +110,11 @@ type reportView struct {
 
 	HasVerdict               bool
 	Verdict, Reason, Decider string
-	RuledOut                 []string
-	VerdictTable             htmlTable
-	ProfileFigure            *htmlFigure
+	// Calibration is the calibration check's summary, when the card has one.
+	Calibration   string
+	RuledOut      []string
+	VerdictTable  htmlTable
+	ProfileFigure *htmlFigure
 
 	HasSelection           bool
 	Rule, Metric           string

@@ -56,7 +56,9 @@ type Input struct {
 	dataRange *card.DataRange
 	split     *card.SplitSection
 	verdict   *card.VerdictSection
-	sel       *card.SelectionSection
+	// calibration is the card's calibration check, nil when not asked for.
+	calibration *card.CalibrationCheck
+	sel         *card.SelectionSection
 	// table is fit.csv; heldout, curves and raw are heldout.csv,
 	// curves.csv and raw.csv (nil when absent).
 	table   *fitTable
@@ -107,13 +109,13 @@ func (in *Input) parse(f Folder, lim card.Limits) error {
 	if c.Data == nil {
 		return &InputError{MissingSection: card.KeyData, Err: errors.New("model.json has no 'data' section (the data the card was fitted to)")}
 	}
-	for _, key := range []string{card.KeyDataRange, card.KeySplit, card.KeyVerdict, card.KeySelection, card.KeyProvenance, card.KeySetup} {
+	for _, key := range []string{card.KeyDataRange, card.KeySplit, card.KeyVerdict, card.KeySelection, card.KeyCalibrationCheck, card.KeyProvenance, card.KeySetup} {
 		if err := sectionErr(key); err != nil {
 			return err
 		}
 	}
 	in.fit, in.data = *c.Fit, *c.Data
-	in.dataRange, in.split, in.verdict, in.sel = c.DataRange, c.Split, c.Verdict, c.Selection
+	in.dataRange, in.split, in.verdict, in.sel, in.calibration = c.DataRange, c.Split, c.Verdict, c.Selection, c.CalibrationCheck
 	in.table, err = readFitTable(bytes.NewReader(f.FitCSV), "fit.csv")
 	if err != nil {
 		return err

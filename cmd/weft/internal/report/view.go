@@ -445,6 +445,9 @@ func (in *Input) verdictSection(v *reportView) {
 	v.HasVerdict = true
 	v.Verdict = capitalise(verdictText(vd.Families))
 	v.Reason, v.Decider = capitalise(minusSigns(vd.Reason)), capitalise(minusSigns(vd.Decider))
+	if c := in.calibration; c != nil {
+		v.Calibration = minusSigns(c.Summary)
+	}
 	for _, r := range vd.RuledOut {
 		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))
 	}

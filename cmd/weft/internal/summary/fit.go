@@ -112,6 +112,9 @@ func printFitHead(w io.Writer, f *Fit) {
 		if d.Verdict.Decider != "" {
 			fmt.Fprintf(w, "          to decide: %s\n", d.Verdict.Decider)
 		}
+		if c := f.Card.CalibrationCheck; c != nil {
+			fmt.Fprintf(w, "check:    %s\n", c.Summary)
+		}
 		fmt.Fprintf(w, "rule:     %s\n", d.Rule)
 		if d.SearchPoints < d.Points {
 			fmt.Fprintf(w, "points:   search, cross-validation and the comparison below on %d of the %d points (an even subset of each long protocol); the chosen model refitted on all %d\n", d.SearchPoints, d.Points, d.Points)

@@ -44,22 +44,12 @@ func problemEvidence(p *Problem) evidence {
 }
 
 // shearScatterText describes the protocol of p whose shear F12, F21, as
-// the fit uses it, scatters most from point to point
-// (biaxial.Protocol.FittedStrainScatter), when p's data give shear
-// stresses and that scatter is above biaxial.ShearScatterLimit; else it
+// the fit uses it, scatters most from point to point above
+// biaxial.ShearScatterLimit (biaxial.Specimen.NoisiestShear); else it
 // returns "".
 func shearScatterText(p *Problem) string {
 	s := p.Specimen
-	if !s.Measured[biaxial.C12] && !s.Measured[biaxial.C21] {
-		return ""
-	}
-	worst, big := -1, biaxial.ShearScatterLimit
-	for _, i := range p.Protocols {
-		sc := s.Protocols[i].FittedStrainScatter()
-		if v := max(sc[1], sc[2]); v > big {
-			worst, big = i, v
-		}
-	}
+	worst, _ := s.NoisiestShear(p.Protocols)
 	if worst < 0 {
 		return ""
 	}

@@ -92,9 +92,7 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 	}
 	// Shear information: a measured shear stress or non-zero F12/F21.
 	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
-	if s.HasShear {
-		warnShearScatter(s)
-	}
+	warnShearScatter(s)
 	if opt.Rereference {
 		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
 		if s.Kind == Nominal {

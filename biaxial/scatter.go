@@ -56,26 +56,40 @@ func strainScatter(pts []Point) [4]float64 {
 	return out
 }
 
-// warnShearScatter warns, once for the specimen, when its shear stresses
-// are given and the shear F12 or F21 that a fit uses scatters by more than
-// ShearScatterLimit from point to point (Protocol.FittedStrainScatter:
-// as measured, or what smoothing leaves).
-func warnShearScatter(s *Specimen) {
+// NoisiestShear returns, among the protocols of s given by index (nil:
+// all), the one whose shear F12 or F21, as a fit uses it
+// (Protocol.FittedStrainScatter: as measured, or what smoothing leaves),
+// scatters most from point to point, and how many scatter by more than
+// ShearScatterLimit; worst is −1 when none does or when s gives no shear
+// stress (the scatter then penalises nothing).
+func (s *Specimen) NoisiestShear(protocols []int) (worst, over int) {
+	worst = -1
 	if !s.Measured[C12] && !s.Measured[C21] {
-		return
+		return worst, 0
 	}
-	worst, over := -1, 0
-	big := 0.0
-	for i := range s.Protocols {
+	if protocols == nil {
+		for i := range s.Protocols {
+			protocols = append(protocols, i)
+		}
+	}
+	big := ShearScatterLimit
+	for _, i := range protocols {
 		sc := s.Protocols[i].FittedStrainScatter()
-		v := math.Max(sc[1], sc[2])
-		if v > ShearScatterLimit {
+		if v := math.Max(sc[1], sc[2]); v > ShearScatterLimit {
 			over++
 			if v > big {
 				worst, big = i, v
 			}
 		}
 	}
+	return worst, over
+}
+
+// warnShearScatter warns, once for the specimen, when its shear stresses
+// are given and the shear F12 or F21 that a fit uses scatters by more than
+// ShearScatterLimit from point to point (NoisiestShear).
+func warnShearScatter(s *Specimen) {
+	worst, over := s.NoisiestShear(nil)
 	if worst < 0 {
 		return
 	}

@@ -110,6 +110,15 @@ func warnShearScatter(s *Specimen) {
 func smoothStrain(pts []Point, window int) {
 	m := window / 2
 	n := len(pts)
+	// The weights depend only on where in its window a point sits: w[at+m]
+	// for offsets at = −m … m (the interior uses at = 0).
+	w := make([][]float64, window)
+	for at := -m; at <= m; at++ {
+		w[at+m] = make([]float64, window)
+		for k := range w[at+m] {
+			w[at+m][k] = savitzkyGolayWeight(m, k-m, at)
+		}
+	}
 	x := make([]float64, n)
 	for e := 0; e < 4; e++ {
 		for i := range pts {
@@ -124,8 +133,8 @@ func smoothStrain(pts []Point, window int) {
 				lo, at = n-window, i-(n-m-1)
 			}
 			v := 0.0
-			for k := 0; k < window; k++ {
-				v += savitzkyGolayWeight(m, k-m, at) * x[lo+k]
+			for k, wk := range w[at+m] {
+				v += wk * x[lo+k]
 			}
 			pts[i].F[e] = v
 		}

@@ -1,7 +1,8 @@
 package biaxial
 
 // WithStressScaled returns a copy of s whose stress component c is scaled
-// by f at every point of every protocol, weighted again as Prepare weighs
+// by f at every point of every protocol, and in each protocol's Preload
+// and Tare (read by the same load cell), weighted again as Prepare weighs
 // a file (Weigh): the data a per-axis error of the conversion from load to
 // stress would have given — a load cell's calibration, or an effective
 // loaded width other than the one measured. s is not modified; the copy
@@ -16,6 +17,8 @@ func (s *Specimen) WithStressScaled(c Component, f float64) *Specimen {
 		for k := range pr.Points {
 			pr.Points[k].Stress[c] *= f
 		}
+		pr.Preload[c] *= f
+		pr.Tare[c] *= f
 		out.Protocols[i] = pr
 	}
 	out.Weigh()

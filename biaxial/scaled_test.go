@@ -31,7 +31,12 @@ func TestWithStressScaled(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	s.Protocols[0].Preload[C11] = 2
 	got := s.WithStressScaled(C11, 1.05)
+	if got.Protocols[0].Preload[C11] != 2*1.05 || s.Protocols[0].Preload[C11] != 2 {
+		t.Errorf("preload %g of the copy, %g of the original; want 2.1 and 2", got.Protocols[0].Preload[C11], s.Protocols[0].Preload[C11])
+	}
+	s.Protocols[0].Preload[C11] = 0
 	for i := range want.Protocols {
 		g, w := &got.Protocols[i], &want.Protocols[i]
 		for c := range w.Weight {

@@ -522,7 +522,10 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	}
 	var check []aniso.AxisScaleOutcome
 	if ff.calibration > 0 && o.Discovery != nil {
-		if check, err = aniso.AxisScaleCheck(s, ff.calibration, ff.discoverSettings()); err != nil {
+		// The bar runs again for each of the check's two discoveries.
+		set := ff.discoverSettings()
+		set.Progress = bar.set
+		if check, err = aniso.AxisScaleCheck(s, ff.calibration, set); err != nil {
 			return nil, fitFailed(s, fmt.Errorf("the calibration check: %w", err))
 		}
 	}

@@ -337,16 +337,18 @@ func (d *Discovery) architectureTieRule(ev evidence, win *formBest, v *Verdict) 
 // (biaxial.Protocol.Preload); a tared preload leaves no trace in the data
 // and is a caution of the README.
 
-// preloadAxisDeg is how close (degrees) to a test axis a fibre family
-// must lie for preloadCaution to name the preload: within the spread of
-// the directions a pre-stretch along that axis is fitted with.
-const preloadAxisDeg = 10
+// axisCautionDeg is how close (degrees) to a test axis a fibre family must
+// lie for preloadCaution and shearScatterCaution to name their finding:
+// within the spread of the directions a pre-stretch along that axis is
+// fitted with (the synthetic pairs misread under tracking noise lay
+// within 0.1° of an axis).
+const axisCautionDeg = 10
 
 // preloadCaution adds to a verdict with fibres, when ev records a preload
-// that was not tared and a family of r lies within preloadAxisDeg of a
+// that was not tared and a family of r lies within axisCautionDeg of a
 // test axis, that the fibres may be the preload's.
 func preloadCaution(ev evidence, r *Result, v *Verdict) {
-	if ev.preload != "" && familyNearAxis(r, preloadAxisDeg) {
+	if ev.preload != "" && familyNearAxis(r, axisCautionDeg) {
 		v.Reason += fmt.Sprintf("; caution: the data carry a preload that was not tared (%s), and a preload that stretches one axis more than the other makes even an isotropic material respond like one with fibres along that axis, so the fibres found along a test axis may be the preload's (taring does not undo the pre-stretch): stretches measured from the unloaded, stress-free state would tell", ev.preload)
 	}
 }
@@ -378,18 +380,12 @@ func familyNearAxis(r *Result, maxDeg float64) bool {
 // data's shear scatters above biaxial.ShearScatterLimit
 // (biaxial.Protocol.StrainScatter).
 
-// shearScatterAxisDeg is how close (degrees) to a test axis a fibre family
-// must lie for shearScatterCaution to name the scatter: the families the
-// synthetic pairs were read as lay within 0.1° of an axis; the preload's
-// bound is used for both.
-const shearScatterAxisDeg = preloadAxisDeg
-
 // shearScatterCaution adds to a verdict with a fibre family within
-// shearScatterAxisDeg of a test axis, when ev records shear that scatters
+// axisCautionDeg of a test axis, when ev records shear that scatters
 // above biaxial.ShearScatterLimit, that the family may owe its place to
 // that scatter.
 func shearScatterCaution(ev evidence, r *Result, v *Verdict) {
-	if ev.shearScatter != "" && familyNearAxis(r, shearScatterAxisDeg) {
+	if ev.shearScatter != "" && familyNearAxis(r, axisCautionDeg) {
 		v.Reason += fmt.Sprintf("; caution: the measured shear scatters from point to point (%s; tracking noise?) while the shear stresses are given (zero on sutures), so a model's shear stress is compared with them at noisy shear, which penalises fibres that resist shear — a pair symmetric about the axis more than one family along it — and can put the fibres found along a test axis there: steadier tracking of the shear would tell", ev.shearScatter)
 	}
 }

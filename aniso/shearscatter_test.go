@@ -52,7 +52,7 @@ func TestShearScatterCautionOnAxisFibres(t *testing.T) {
 	d, _ := discoverSpecimen(t, spec)
 	v := d.Verdict
 	t.Logf("verdict %s (%s): %s", v.Families, anglesText(d.Best().Result), v.Reason)
-	if !familyNearAxis(d.Best().Result, shearScatterAxisDeg) {
+	if !familyNearAxis(d.Best().Result, axisCautionDeg) {
 		t.Fatalf("no family along a test axis (%s): the reading this test needs is gone", anglesText(d.Best().Result))
 	}
 	if !strings.Contains(v.Reason, "the measured shear scatters from point to point (about ") {

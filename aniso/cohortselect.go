@@ -525,7 +525,7 @@ func (c *cohortRun) scoreCandidates(ks, cvs []int) {
 
 // evidence is the cohort's pooled evidence for the verdict walk.
 func (c *cohortRun) evidence() evidence {
-	ev := evidence{hasShear: true, oneProtocol: true}
+	ev := evidence{hasShear: true, oneProtocol: true, idealOnly: c.set.Discover.NoPlanar}
 	use := c.usable()
 	for _, i := range use {
 		p := c.sub[i]
@@ -588,7 +588,7 @@ func (c *cohortRun) support() {
 					}
 				})
 			}
-			own.decide(c.sub[i])
+			own.decide(c.sub[i], c.set.Discover.NoPlanar)
 			sp := &c.out.Specimens[i]
 			sp.Verdict, sp.Form = own.Verdict.Families, FormKey(own.Best().Result.Structure)
 		})

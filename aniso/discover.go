@@ -199,7 +199,7 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	s.comparePresets()
 	s.candidateMetrics()
 	s.crossValidate()
-	s.d.decide(s.p)
+	s.d.decide(s.p, s.set.NoPlanar)
 	s.polish()
 	s.d.Elapsed = time.Since(start)
 	return s.d, nil

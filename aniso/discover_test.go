@@ -297,6 +297,16 @@ func TestDiscoverOutsideCatalogue(t *testing.T) {
 	if d.Verdict.Families == "2" {
 		t.Errorf("one spread family called two families: %s", d.Verdict.Reason)
 	}
+	// Without the spread forms, two ideal families straddle the spread:
+	// a verdict resting on them must say they may be one spread family.
+	di, err := Discover(p, DiscoverSettings{NoPlanar: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("ideal families only: verdict %s: %s", di.Verdict.Families, di.Verdict.Reason)
+	if len(di.Best().Result.Model.Families) == 2 && !strings.Contains(di.Verdict.Reason, "only ideal fibre families were searched") {
+		t.Errorf("two ideal families about one spread family, without the caution: %s", di.Verdict.Reason)
+	}
 }
 
 // Discovery gives the same answer with one worker as with several: the

@@ -32,6 +32,10 @@ type evidence struct {
 	// is above biaxial.ShearScatterLimit — for a cohort, of the first
 	// specimen with one — or is empty.
 	shearScatter string
+	// idealOnly is true when no in-plane spread forms were searched
+	// (DiscoverSettings.NoPlanar): two ideal families can then stand in
+	// for one spread family (idealOnlyCaution).
+	idealOnly bool
 }
 
 // problemEvidence is the evidence of a single specimen's problem.

@@ -177,8 +177,13 @@ func (d *Discovery) formBests() []*formBest {
 }
 
 // decide walks the forms, picks the winner and the model inside it, and
-// writes the rule and the verdict.
-func (d *Discovery) decide(p *Problem) { d.decideOn(problemEvidence(p)) }
+// writes the rule and the verdict;
+// idealOnly says that no in-plane spread forms were searched.
+func (d *Discovery) decide(p *Problem, idealOnly bool) {
+	ev := problemEvidence(p)
+	ev.idealOnly = idealOnly
+	d.decideOn(ev)
+}
 
 // decideOn is decide on the evidence ev, which a cohort pools over its
 // specimens.

@@ -241,6 +241,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	d.architectureTieRule(ev, win, &v)
 	preloadCaution(ev, r, &v)
 	shearScatterCaution(ev, r, &v)
+	idealOnlyCaution(ev, r, &v)
 	if ev.oneProtocol {
 		v.Reason += "; one protocol cannot tell one fibre family from two or from a spread of directions, so only the isotropic and one-family forms were offered: test at least three stretch ratios to decide"
 		if v.Families != "0" {

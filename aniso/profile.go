@@ -55,6 +55,16 @@ func (r *Result) profiles(p *Problem, set Settings) {
 	e.eval(r.theta, true)
 	for _, pr := range out {
 		if !pr.NotDetermined {
+			// An angle on a symmetry line has no Wald interval (its
+			// column is zero, so the covariance leaves it undetermined);
+			// a profile that bounds it determines it, with the profile's
+			// interval (package note, Mirror symmetry).
+			for j := range r.Estimates {
+				est := &r.Estimates[j]
+				if est.Name == pr.Name && est.onMirrorLine && est.Status == StatusNotDetermined {
+					est.Status = StatusEstimated
+				}
+			}
 			continue
 		}
 		for j := range r.Estimates {

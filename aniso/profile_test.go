@@ -454,6 +454,15 @@ func TestFitsSettleOnSymmetryLines(t *testing.T) {
 				if _, l := r.profileMinimum(); l < r.Loss*(1-1e-9) {
 					t.Errorf("%s: the profile met loss %.10g below the fit's %.10g", what, l, r.Loss)
 				}
+				// On the line an angle has no Wald interval; a profile
+				// that bounds it determines it (README, status table).
+				for _, pr := range r.Profiles {
+					for _, est := range r.Estimates {
+						if est.Name == pr.Name && est.onMirrorLine && !pr.NotDetermined && est.Status != StatusEstimated {
+							t.Errorf("%s: %s on its symmetry line has the profile interval [%.2f°, %.2f°] but status %s", what, est.Name, pr.LoDeg, pr.HiDeg, est.Status)
+						}
+					}
+				}
 			}
 		}
 	}

@@ -25,12 +25,19 @@ type Estimate struct {
 	// covariance scaled by the residual variance, the interval kept inside
 	// the quantity's domain (weights ≥ 0, parameters within their bounds,
 	// |α| and half angles within [0°, 90°]); they are NaN unless Status is
-	// StatusEstimated or StatusCorrelated.
+	// StatusEstimated or StatusCorrelated, and for an angle fitted exactly
+	// on a symmetry line without shear information, which has no slope
+	// there: its interval is its profile's (Result.Profiles).
 	StdErr, Lo, Hi float64
 	// Status is one of StatusEstimated, StatusCorrelated,
 	// StatusDegenerate, StatusInactive, StatusAtBound and
 	// StatusNotDetermined (see StatusMeaning).
 	Status string
+
+	// onMirrorLine marks an angle fitted exactly on a symmetry line
+	// without shear information: its slope is zero there, so it has no
+	// Wald interval and its profile decides whether the data determine it.
+	onMirrorLine bool
 }
 
 // Metric is the fit quality of one protocol and stress component.

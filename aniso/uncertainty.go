@@ -190,6 +190,7 @@ func (r *Result) initEstimates(p *Problem) []jcol {
 				// is round-off. Left in, unit-normalised, it would
 				// correlate at random with the other quantities.
 				col = make([]float64, len(col))
+				est.onMirrorLine = true
 			}
 			cols = append(cols, jcol{len(r.Estimates), col, sign})
 		}

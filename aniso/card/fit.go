@@ -111,7 +111,9 @@ type EstimateCard struct {
 	CI95   [2]Num `json:"ci95"`
 	// Status is "estimated", "correlated", "degenerate", "inactive",
 	// "at-bound" or "not-determined" (see aniso.StatusMeaning); ci95 is
-	// null unless it is "estimated" or "correlated".
+	// null unless it is "estimated" or "correlated", and for an angle
+	// fitted exactly on a symmetry line, whose interval is its profile's
+	// (fit.profiles).
 	Status string `json:"status"`
 }
 

@@ -374,6 +374,9 @@ func TestDiscoverDegenerate(t *testing.T) {
 	if d.Best().CV != nil || !strings.Contains(d.Rule, "BIC") {
 		t.Errorf("one protocol: rule %q", d.Rule)
 	}
+	if strings.Contains(d.Verdict.Reason, "NaN") || !strings.Contains(d.Verdict.Reason, "no held-out error") {
+		t.Errorf("one protocol: the verdict must say there is no held-out error, not print NaN: %s", d.Verdict.Reason)
+	}
 	zero := synthSpecimen(t, &Model{Terms: []Term{{Shape: lookup("i1-lin"), Family: -1, Weight: 0}}}, synthOptions{points: 20})
 	p, _ = NewProblem(zero, nil)
 	d, err = Discover(p, DiscoverSettings{MaxTerms: 2})

@@ -90,6 +90,10 @@ func (c LayoutComparison) String() string {
 	case c.Suggestive:
 		v = "suggestive, not decisive"
 	}
+	if math.IsNaN(c.Gain) {
+		// One protocol leaves none out: in-sample evidence only.
+		return fmt.Sprintf("%s over %s: no held-out error (no protocol to leave out), ΔBIC %.1f — %s", c.Richer, c.Simpler, c.DeltaBIC, v)
+	}
 	return fmt.Sprintf("%s over %s: held-out gain %.4g ± %.2g (%.1f %% of %s's error), ΔBIC %.1f — %s",
 		c.Richer, c.Simpler, c.Gain, c.StdErr, 100*c.RelativeGain, c.Simpler, c.DeltaBIC, v)
 }

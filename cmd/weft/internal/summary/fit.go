@@ -92,7 +92,11 @@ func printFitHead(w io.Writer, f *Fit) {
 		shear = "shear information present"
 	}
 	fmt.Fprintf(w, "== %s  (%s)\n", s.Name, s.Source)
-	fmt.Fprintf(w, "data:     %d protocols, %d points, %s stress in %s, %s\n", len(s.Protocols), s.NumPoints(), s.Kind, s.StressUnit, shear)
+	protocols := fmt.Sprintf("%d protocols", len(s.Protocols))
+	if len(s.Protocols) == 1 {
+		protocols = "1 protocol"
+	}
+	fmt.Fprintf(w, "data:     %s, %d points, %s stress in %s, %s\n", protocols, s.NumPoints(), s.Kind, s.StressUnit, shear)
 	if s.Reference != "" {
 		fmt.Fprintf(w, "          reference: %s\n", s.Reference)
 	}

@@ -1,9 +1,12 @@
 package aniso
 
 import (
+	"crypto/sha256"
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
+	"strings"
 	"testing"
 
 	"github.com/weft-tools/weft/terms"
@@ -11,7 +14,10 @@ import (
 
 const deg = math.Pi / 180
 
-// refCase mirrors one entry of testdata/stress-cases.json.
+// refCase mirrors one entry of testdata/stress-cases.json, in that file's
+// own words: "rate" is its name for the exponential shapes' coefficient,
+// which the catalogue calls stiffening. The file is kept byte for byte as
+// the shared reference set gave it (TestReferenceCasesUnchanged).
 type refCase struct {
 	Name  string `json:"name"`
 	Note  string `json:"note"`
@@ -19,7 +25,7 @@ type refCase struct {
 		Inv    string   `json:"inv"`
 		Form   string   `json:"form"`
 		W      float64  `json:"w"`
-		Rate   *float64 `json:"stiffening"`
+		Rate   *float64 `json:"rate"`
 		Limit  *float64 `json:"limit"`
 		Family *int     `json:"family"`
 	} `json:"terms"`
@@ -317,5 +323,23 @@ func TestOverflowNeverNaN(t *testing.T) {
 				t.Fatal("NaN in columns at overflow")
 			}
 		}
+	}
+}
+
+// The reference set is an independent computation: it is used as it was
+// copied, and the SHA-256 its provenance gives (testdata/README.md) is the
+// file's, so that an edit to the data cannot pass for the reference.
+func TestReferenceCasesUnchanged(t *testing.T) {
+	b, err := os.ReadFile("../testdata/stress-cases.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := fmt.Sprintf("%x", sha256.Sum256(b))
+	prov, err := os.ReadFile("../testdata/README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(prov), "`stress-cases.json`") || !strings.Contains(string(prov), sum) {
+		t.Errorf("testdata/stress-cases.json has SHA-256 %s, which its provenance in testdata/README.md does not give: restore the copy of the shared reference set, or record where the new file comes from", sum)
 	}
 }

@@ -234,10 +234,16 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	}
 	if len(open) > 0 {
 		var alt []string
+		toward := open[0]
 		for _, lc := range open {
 			alt = append(alt, lc.String())
+			if lc.Gain > toward.Gain {
+				toward = lc
+			}
 		}
-		v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", open[len(open)-1].Richer, strings.Join(alt, "; "), v.Reason)
+		// It points towards the form that gains most on held-out error,
+		// the walk's first criterion.
+		v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", toward.Richer, strings.Join(alt, "; "), v.Reason)
 		v.Families = "undecided"
 		v.Decider = undecidedDecider
 	}

@@ -471,3 +471,49 @@ func TestFitResampleBeyondKeptRows(t *testing.T) {
 		t.Errorf("no report: %v", err)
 	}
 }
+
+// An undecided verdict names the form it points towards: of its
+// suggestive steps to another number of families, the one with the
+// largest held-out gain (the walk's first criterion). On the demo patch
+// P2 (families at 5° and 80°, synthetic) two such steps are open, 2-free
+// and 2-free+dispersed; the reason named the last one walked, the
+// weaker, until 2026-12-04.
+func TestUndecidedVerdictNamesTheStrongestStep(t *testing.T) {
+	t.Parallel()
+	b, err := os.ReadFile(filepath.Join(demoFits(t).dir, "patch-P2.weft", "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Verdict struct {
+			Families    string `json:"families"`
+			Form        string `json:"form"`
+			Reason      string `json:"reason"`
+			Comparisons []struct {
+				Richer     string  `json:"richer"`
+				Gain       float64 `json:"gain"`
+				Decisive   bool    `json:"decisive"`
+				Suggestive bool    `json:"suggestive"`
+			} `json:"comparisons"`
+		} `json:"verdict"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil {
+		t.Fatal(err)
+	}
+	v := doc.Verdict
+	best, gain, open := "", math.Inf(-1), 0
+	for _, c := range v.Comparisons {
+		if c.Suggestive && !c.Decisive && c.Richer[:1] != v.Form[:1] {
+			open++
+			if c.Gain > gain {
+				best, gain = c.Richer, c.Gain
+			}
+		}
+	}
+	if v.Families != "undecided" || open < 2 {
+		t.Fatalf("patch-P2: verdict %s with %d open steps; the test needs an undecided verdict with two or more", v.Families, open)
+	}
+	if want := "points towards " + best + " but"; !strings.Contains(v.Reason, want) {
+		t.Errorf("patch-P2: the reason does not say %q: %s", want, v.Reason)
+	}
+}

@@ -277,10 +277,16 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 		return aniso.Question{}, false
 	}
 	named := cmp.Or(v.InSampleBest, v.TiesWith, v.LookAlike)
+	// The form the verdict points towards: of the suggestive steps to
+	// another number of families, the one that gains most on held-out
+	// error (as the verdict names it).
 	var toward string
+	gain := math.Inf(-1)
 	for _, lc := range v.Comparisons {
-		if lc.Suggestive && !lc.Decisive {
-			toward = lc.Richer
+		// A form key starts with its number of families (aniso.FormKey).
+		sameCount := v.Form != "" && strings.HasPrefix(lc.Richer, v.Form[:1])
+		if lc.Suggestive && !lc.Decisive && !sameCount && float64(lc.Gain) > gain {
+			toward, gain = lc.Richer, float64(lc.Gain)
 		}
 	}
 	var best *card.CandidateCard

@@ -401,6 +401,30 @@ func idealOnlyCaution(ev evidence, r *Result, v *Verdict) {
 	}
 }
 
+// presetCaution adds to v, when a classical preset fits the compared
+// points better in sample than the chosen model by ΔBIC ≥
+// DisagreeDeltaBIC, that it does: presets are fitted beside the search,
+// not as part of it, so such a model stays out of the walk and the
+// verdict. Made by independent integration, equal ideal families at ±45°
+// on sutures were answered 0 while the hgo preset, a pair at ±44.95°,
+// fitted better by ΔBIC 11.3 (cmd/weft/testdata/pair-45-sutured.csv).
+func (d *Discovery) presetCaution(v *Verdict) {
+	chosen := d.Best().Compared()
+	var best *Candidate
+	for i := range d.Presets {
+		c := &d.Presets[i]
+		if c.Result == nil || chosen.BIC-c.Compared().BIC < DisagreeDeltaBIC {
+			continue
+		}
+		if best == nil || c.Compared().BIC < best.Compared().BIC {
+			best = c
+		}
+	}
+	if best != nil {
+		v.Reason += fmt.Sprintf("; caution: the classical preset %s (%s) fits the data better in sample than the chosen model, by ΔBIC %.1f; it is compared beside the search, not part of it, so the verdict does not weigh it", best.Name, anglesText(best.Result), chosen.BIC-best.Compared().BIC)
+	}
+}
+
 // Scatter of the measured shear. Made by independent integration, spread
 // mirror pairs at ±30° (concentration 2) and ±50° (concentration 5) on
 // sutures, `undecided` or `2` without tracking noise, became a confident

@@ -406,7 +406,8 @@ func TestPlanArchitectureTie(t *testing.T) {
 // An isotropic verdict that cannot rule out fibres placed symmetrically
 // about the axes and the 45° line (equal families at ±45° on sutures, the
 // specimen of aniso.TestFortyFiveDegreePairOnSutures) names their model
-// (verdict.look_alike), and the plan weighs the pick against it: the
+// (verdict.look_alike) and the classical preset that fits better in
+// sample than the pick, and the plan weighs the pick against it: the
 // first ranked test settles it, and a test in a turned mounting on
 // sutures is among the candidates (an isotropic material responds alike
 // in every mounting, the pair does not).
@@ -418,6 +419,11 @@ func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
 	c, pl := fitAndPlan(t, "pair-45-sutured.csv")
 	if c.Verdict.Families != "0" || c.Verdict.LookAlike == "" {
 		t.Fatalf("verdict %s, look_alike %q: want 0 with the look-alike named", c.Verdict.Families, c.Verdict.LookAlike)
+	}
+	// The hgo preset, a pair near ±45°, fits better in sample than the
+	// isotropic pick (ΔBIC 11.3 on 2026-12-04); the verdict says so.
+	if !strings.Contains(c.Verdict.Reason, "the classical preset preset:hgo") {
+		t.Errorf("the verdict does not name the preset that fits better than the pick: %s", c.Verdict.Reason)
 	}
 	q := questionOn(t, pl, "fibres symmetric about the 45° line (look-alike of the isotropic verdict)")
 	if len(q.Explanations) != 2 || !strings.Contains(q.Explanations[0], "form 0 as chosen") || !strings.Contains(q.Explanations[1], c.Verdict.LookAlike) {

@@ -678,6 +678,12 @@ func (nt niceTicks) Ticks(lo, hi float64) []plot.Tick {
 		return []plot.Tick{{Value: lo, Label: fmtNum(lo, 4)}}
 	}
 	span := hi - lo
+	if span <= 1e-9*math.Max(math.Abs(lo), math.Abs(hi)) {
+		// A range within round-off of one value (a quantity equal in
+		// every specimen of a cohort, say): a step that small cannot
+		// move the value it is added to.
+		return []plot.Tick{{Value: lo, Label: fmtNum(lo, 4)}}
+	}
 	mag := math.Pow(10, math.Floor(math.Log10(span)))
 	var step float64
 	for _, m := range []float64{0.1, 0.2, 0.25, 0.5, 1, 2, 2.5, 5, 10, 20} {
@@ -696,7 +702,13 @@ func (nt niceTicks) Ticks(lo, hi float64) []plot.Tick {
 	}
 	var ts []plot.Tick
 	first := math.Ceil(lo/step-1e-9) * step
-	for v := first; v <= hi+step*1e-9; v += step {
+	// Counted, not accumulated: a step below the values' resolution must
+	// not loop for ever.
+	for i := 0; i <= most+1; i++ {
+		v := first + float64(i)*step
+		if v > hi+step*1e-9 {
+			break
+		}
 		x := math.Round(v/step) * step
 		if math.Abs(x) < step*1e-9 {
 			x = 0

@@ -167,6 +167,13 @@ func TestTickLabels(t *testing.T) {
 			}
 		}
 	}
+	// A span of one unit in the last place (a cohort quantity equal in
+	// every specimen) once looped for ever, the step too small to move
+	// the value: one labelled tick.
+	lo := 7.872752441241504
+	if ts := (niceTicks{maxLabels: 6}).Ticks(lo, math.Nextafter(lo, 10)); len(ts) != 1 || ts[0].Label == "" {
+		t.Errorf("a span of one ulp: ticks %v, want one labelled tick", ts)
+	}
 	labelled := 0
 	for _, tk := range (logTicks{maxLabels: 6}).Ticks(0.1, 2e5) {
 		if tk.Label != "" {

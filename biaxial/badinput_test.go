@@ -150,7 +150,9 @@ func TestBadCycleNumber(t *testing.T) {
 // Options problems are reported as ErrOptions.
 func TestBadOptions(t *testing.T) {
 	in := goodHeader + goodRows
-	for _, o := range []Options{{Resample: 3}, {Cycle: -2}, {ProtocolWeights: map[string]float64{"1:1": -1}}} {
+	// A weight of 0 left the protocol in cross-validation with nothing
+	// fitted to it: every fold failed and the rule read +Inf ± NaN.
+	for _, o := range []Options{{Resample: 3}, {Cycle: -2}, {ProtocolWeights: map[string]float64{"1:1": -1}}, {ProtocolWeights: map[string]float64{"1:1": 0}}} {
 		if _, err := readString(in, o); err == nil || !strings.Contains(err.Error(), "options") {
 			t.Errorf("options %+v: error %v, want an options error", o, err)
 		}

@@ -103,7 +103,7 @@ type Options struct {
 	// (default: F as measured) or an odd number of at least MinPoints, and
 	// a protocol must keep at least that many points.
 	SmoothStrain int
-	// ProtocolWeights gives a relative weight per protocol label (≥ 0,
+	// ProtocolWeights gives a relative weight per protocol label (> 0,
 	// default 1 for a label not in the map). A label that names no protocol
 	// of the file is an error.
 	ProtocolWeights map[string]float64
@@ -137,8 +137,11 @@ func (o Options) check() error {
 	}
 	for _, k := range sortedKeys(o.ProtocolWeights) {
 		w := o.ProtocolWeights[k]
-		if !(w >= 0) || w > 1e300 {
-			return fmt.Errorf("%w: weight %v for protocol %s; weights must be finite and ≥ 0", ErrOptions, w, quote(k))
+		if !(w > 0) || w > 1e300 {
+			// A weight of 0 would keep the protocol in the data and in
+			// cross-validation while the fit ignores it: its folds fail
+			// and the selection has no held-out errors to compare.
+			return fmt.Errorf("%w: weight %v for protocol %s; weights must be finite and > 0 (a protocol to be left out of the fit must be left out of the data)", ErrOptions, w, quote(k))
 		}
 	}
 	return nil

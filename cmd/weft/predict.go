@@ -87,6 +87,15 @@ func runPredict(o *predictOptions) error {
 	if err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, &buf); err != nil {
 		return err
 	}
+	// The rows hold the card's own model; where the layout is
+	// undetermined the alternatives would give other shear stresses.
+	lw, err := fe.LayoutWarning(c, m)
+	if err != nil {
+		return badInputf("%s: %v", o.model, err)
+	}
+	if lw != "" {
+		fmt.Fprintf(o.ErrOut, "weft: warning: %s: the stresses are the card's own model's; %s ('weft export %s' lists every alternative's stresses at its verification rows)\n", o.model, lw, o.model)
+	}
 	return outputError(res.Write(buf.Bytes()))
 }
 

@@ -41,6 +41,32 @@ func TestPredictNeoHookeanClosedForm(t *testing.T) {
 	}
 }
 
+// predict on a card whose data did not determine the fibre layout (the
+// demo membrane M1, synthetic, no shear information) warns, as evaluate
+// and export do, that its rows hold the card's own model and names the
+// alternatives; a card whose layout is determined (M3, on sutures) and
+// the closed-form card above get no such warning.
+func TestPredictWarnsOfUndeterminedLayout(t *testing.T) {
+	t.Parallel()
+	path := writeTemp(t, "path.csv", "stretch_1,stretch_2\n1.1,1.1\n")
+	for _, c := range []struct {
+		model string
+		warns bool
+	}{
+		{filepath.Join(demoFits(t).dir, "membrane-M1.weft", "model.json"), true},
+		{filepath.Join(demoFits(t).dir, "membrane-M3-sutured.weft", "model.json"), false},
+		{writeTemp(t, "nh.json", neoHookeanCard), false},
+	} {
+		_, errs, code := runWeft(t, "predict", c.model, path)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", c.model, code, errs)
+		}
+		if got := strings.Contains(errs, "do not determine the fibre layout") && strings.Contains(errs, "as the card"); got != c.warns {
+			t.Errorf("%s: layout warning %v, want %v: %q", c.model, got, c.warns, errs)
+		}
+	}
+}
+
 // Bad input: exit code 2, one message naming the file and the line or JSON
 // path and what to fix, and no output file.
 func TestPredictBadInput(t *testing.T) {

@@ -330,6 +330,21 @@ func exportWarnings(doc *ExportDoc, m *aniso.Model, total, outside, flagged int)
 // weft.
 const noMatrixWarning = "the model has no matrix term with a positive weight (no isotropic I1, I2 or principal-stretch term, no Fung-type term): only fibre terms carry load, and they switch off wherever their family is not stretched, so the material has no stiffness at rest or in compression and an FE model of it is singular there"
 
+// LayoutWarning returns, for a card whose data did not determine the
+// fibre layout, the warning that names its alternatives ("" otherwise):
+// every command that evaluates the card's own model gives it.
+func LayoutWarning(c *card.Card, m *aniso.Model) (string, error) {
+	alts, err := c.AlternativeModels(m)
+	if err != nil || len(alts) == 0 {
+		return "", err
+	}
+	var models []ExportModel
+	for _, a := range alts {
+		models = append(models, ExportModel{Name: a.Name, Title: a.Title, AsCard: a.AsCard})
+	}
+	return alternativesWarning(models), nil
+}
+
 // alternativesWarning names the alternatives of a card.
 func alternativesWarning(models []ExportModel) string {
 	var parts []string

@@ -98,7 +98,7 @@ only within the tested range, not for clinical decisions.`,
 	fl.StringVar(&co.form.preset, "preset", "", "fit this classical preset to every specimen instead of discovering (see 'weft terms')")
 	fl.StringVar(&co.form.termIDs, "terms", "", "fit these catalogue terms to every specimen instead of discovering, comma-separated")
 	fl.IntVar(&co.form.families, "families", -1, "fibre families for --terms: 0, 1 or 2")
-	fl.StringVar(&co.form.layout, "layout", "free", "two families for --terms: free or mirror")
+	fl.StringVar(&co.form.layout, "layout", "", "two families for --terms: free (the default) or mirror")
 	fl.StringVar(&co.form.dispersion, "dispersion", "", "how fibres spread: in-plane, kappa or none (as for 'weft fit')")
 	fl.StringVar(&co.form.pairAxis, "pair-axis", "", "axis of a mirror pair: axis-1 (default) or free (as for 'weft fit')")
 	fl.IntVar(&co.form.maxTerms, "max-terms", 5, "largest number of terms discovery considers")

@@ -27,12 +27,14 @@ import (
 type fitOptions struct {
 	streams
 	// files are the DATA files; read says how to read them.
-	files      []string
-	read       biaxial.Options
-	out        string
-	force      bool
-	preset     string
-	termIDs    string
+	files   []string
+	read    biaxial.Options
+	out     string
+	force   bool
+	preset  string
+	termIDs string
+	// termsGiven is true when --terms was given, even empty.
+	termsGiven bool
 	families   int
 	layout     string
 	dispersion string
@@ -129,7 +131,7 @@ tested range, not for clinical decisions.`,
 	fl.StringVar(&ff.termIDs, "terms", "", "fit these catalogue terms instead of discovering, comma-separated; fibre terms apply to every family")
 	fl.IntVar(&ff.families, "families", -1, "fibre families for --terms: 0, 1 or 2")
 	fl.Lookup("families").DefValue = "1 with a fibre term, else 0"
-	fl.StringVar(&ff.layout, "layout", "free", "two families for --terms: free (independent angles) or mirror (θ ± β, shared stiffness)")
+	fl.StringVar(&ff.layout, "layout", "", "two families for --terms: free (independent angles; the default) or mirror (θ ± β, shared stiffness)")
 	fl.StringVar(&ff.dispersion, "dispersion", "", "how fibres spread about their mean direction: in-plane (a learned concentration, angular integration), kappa (the 3-D dispersion κ of Gasser, Ogden & Holzapfel 2006) or none; discovery tries in-plane besides ideal families unless told otherwise, --terms fits ideal families unless told otherwise")
 	fl.StringVar(&ff.pairAxis, "pair-axis", "", "axis of a mirror pair (--preset hgo or goh, or --layout mirror): axis-1 holds the pair symmetric about axis 1 at ±β, as published (the default); free learns the pair's axis θ as well")
 	fl.IntVar(&ff.maxTerms, "max-terms", 5, "largest number of terms discovery considers")
@@ -143,6 +145,7 @@ tested range, not for clinical decisions.`,
 			return err
 		}
 		ff.files, ff.read = args, opt
+		ff.termsGiven = cmd.Flags().Changed("terms")
 		return runFit(ff)
 	}
 	return cmd
@@ -183,6 +186,9 @@ func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 	if ff.preset != "" && ff.dispersion != "" {
 		return aniso.Structure{}, false, badInputf("--dispersion does not apply to --preset: a preset has its published form (see 'weft terms')")
 	}
+	if ff.preset != "" && (ff.layout != "" || ff.families >= 0) {
+		return aniso.Structure{}, false, badInputf("--layout and --families apply to --terms; a preset has its published form (see 'weft terms')")
+	}
 	if ff.preset != "" {
 		st, err := aniso.PresetStructure(ff.preset)
 		if err != nil {
@@ -190,19 +196,32 @@ func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 		}
 		return st, true, nil
 	}
+	if ff.termIDs == "" && ff.termsGiven {
+		return aniso.Structure{}, false, badInputf("--terms is empty: name the catalogue terms to fit, comma-separated ('weft terms' lists them), or leave --terms out to discover the model")
+	}
 	if ff.termIDs == "" {
+		if ff.layout != "" {
+			return aniso.Structure{}, false, badInputf("--layout applies to --terms with --families 2; discovery compares the layouts itself")
+		}
 		if ff.families >= 0 {
 			return aniso.Structure{}, false, badInputf("--families applies to --terms; discovery compares 0, 1 and 2 families itself")
 		}
 		return aniso.Structure{}, false, nil
 	}
 	var iso, fib []*terms.Shape
+	seen := map[string]bool{}
 	for _, id := range strings.Split(ff.termIDs, ",") {
 		id = strings.TrimSpace(id)
 		sh := terms.Lookup(id)
 		if sh == nil {
 			return aniso.Structure{}, false, badInputf("--terms: %q is not a catalogue term; 'weft terms' lists them", id)
 		}
+		if seen[sh.ID] {
+			// Two copies of one term have the same column: their weights
+			// cannot be told apart.
+			return aniso.Structure{}, false, badInputf("--terms: %s appears twice; give each term once (a fibre term applies to every family)", id)
+		}
+		seen[sh.ID] = true
 		if sh.Arg.NeedsFamily() {
 			fib = append(fib, sh)
 		} else {
@@ -231,7 +250,7 @@ func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 		st.Layout = aniso.LayoutSingle
 	case 2:
 		switch ff.layout {
-		case "free":
+		case "", "free":
 			st.Layout = aniso.LayoutFree
 		case "mirror":
 			st.Layout = aniso.LayoutMirror
@@ -240,6 +259,9 @@ func formFromFlags(ff *fitOptions) (aniso.Structure, bool, error) {
 		}
 	default:
 		return st, false, badInputf("--families %d: use 0, 1 or 2", nf)
+	}
+	if nf != 2 && ff.layout != "" {
+		return st, false, badInputf("--layout %s applies to two families; add --families 2 (or leave --layout out for %d)", ff.layout, nf)
 	}
 	for _, sh := range iso {
 		st.Terms = append(st.Terms, aniso.TermSpec{Shape: sh, Family: -1})

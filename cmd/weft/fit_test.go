@@ -217,6 +217,15 @@ func TestFitBadInput(t *testing.T) {
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--calibration-check", "0.5"},
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--calibration-check", "-0.05"},
 		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--calibration-check", "0.05", "--preset", "hgo"},
+		// Options that were accepted and then ignored or misread
+		// (2026-12-04): an empty --terms ran a discovery, a term given
+		// twice gave two undetermined copies, --layout without two
+		// families or with a preset was dropped.
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", ""},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", "i1-lin,i1-lin"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--terms", "i1-lin,fib-expsq", "--layout", "mirror"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--layout", "mirror"},
+		{"fit", filepath.Join(dir, "membrane-M1.csv"), "--preset", "hgo", "--layout", "free"},
 		{"fit"},
 	}
 	for _, args := range cases {

@@ -49,17 +49,17 @@ func TestFormOptionsResolved(t *testing.T) {
 		ff   fitOptions
 		want []string
 	}{
-		{"discovery", fitOptions{maxTerms: 5, families: -1, layout: "free"}, []string{"--max-terms=5", "--dispersion=in-plane"}},
-		{"discovery, ideal families", fitOptions{maxTerms: 3, families: -1, layout: "free", dispersion: "none"}, []string{"--max-terms=3", "--dispersion=none"}},
-		{"discovery, calibration check", fitOptions{maxTerms: 5, families: -1, layout: "free", calibration: 0.05}, []string{"--max-terms=5", "--dispersion=in-plane", "--calibration-check=0.05"}},
-		{"hgo", fitOptions{preset: "hgo", families: -1, layout: "free"}, []string{"--preset=hgo", "--pair-axis=axis-1"}},
-		{"hgo, free axis", fitOptions{preset: "hgo", families: -1, layout: "free", pairAxis: "free"}, []string{"--preset=hgo", "--pair-axis=free"}},
-		{"neo-hookean", fitOptions{preset: "neo-hookean", families: -1, layout: "free"}, []string{"--preset=neo-hookean"}},
-		{"terms, one family", fitOptions{termIDs: "i1-lin,fib-expsq", families: -1, layout: "free"},
+		{"discovery", fitOptions{maxTerms: 5, families: -1}, []string{"--max-terms=5", "--dispersion=in-plane"}},
+		{"discovery, ideal families", fitOptions{maxTerms: 3, families: -1, dispersion: "none"}, []string{"--max-terms=3", "--dispersion=none"}},
+		{"discovery, calibration check", fitOptions{maxTerms: 5, families: -1, calibration: 0.05}, []string{"--max-terms=5", "--dispersion=in-plane", "--calibration-check=0.05"}},
+		{"hgo", fitOptions{preset: "hgo", families: -1}, []string{"--preset=hgo", "--pair-axis=axis-1"}},
+		{"hgo, free axis", fitOptions{preset: "hgo", families: -1, pairAxis: "free"}, []string{"--preset=hgo", "--pair-axis=free"}},
+		{"neo-hookean", fitOptions{preset: "neo-hookean", families: -1}, []string{"--preset=neo-hookean"}},
+		{"terms, one family", fitOptions{termIDs: "i1-lin,fib-expsq", families: -1},
 			[]string{"--terms=i1-lin,fib-expsq", "--families=1", "--dispersion=none"}},
 		{"terms, mirror", fitOptions{termIDs: "i1-lin,fib-expsq", families: 2, layout: "mirror", dispersion: "in-plane"},
 			[]string{"--terms=i1-lin,fib-expsq", "--families=2", "--layout=mirror", "--dispersion=in-plane", "--pair-axis=axis-1"}},
-		{"terms, matrix only", fitOptions{termIDs: "i1-lin", families: -1, layout: "free"}, []string{"--terms=i1-lin", "--families=0"}},
+		{"terms, matrix only", fitOptions{termIDs: "i1-lin", families: -1}, []string{"--terms=i1-lin", "--families=0"}},
 	}
 	for _, c := range cases {
 		st, chosen, err := structureFromFlags(&c.ff)

@@ -61,6 +61,11 @@ func TestForceReplacesOnlyWeftFolders(t *testing.T) {
 	if _, errs, code := quickFit(t, data, file, "--force"); code != exitBadInput || !strings.Contains(errs, "is a file") {
 		t.Errorf("fit onto a file: exit %d, %s", code, errs)
 	}
+	// Without --force the same file is named as a file, not offered to
+	// --force, which would refuse it too.
+	if _, errs, code := quickFit(t, data, file); code != exitBadInput || !strings.Contains(errs, "is a file") || strings.Contains(errs, "pass --force") {
+		t.Errorf("fit onto a file without --force: exit %d, %s", code, errs)
+	}
 	for _, p := range []string{data, filepath.Join(proj, "notes.txt"), filepath.Join(other, "keep.txt"), file} {
 		if b, err := os.ReadFile(p); err != nil || len(b) == 0 {
 			t.Errorf("%s was lost: %v", p, err)

@@ -70,9 +70,17 @@ func prepareDir(dir string, force bool, inputs []string) (*Dir, error) {
 
 // check looks at what is at the folder's path now.
 func (o *Dir) check(force bool) *Error {
-	st, e := existing(o.final, TargetFolder, force, &o.existed)
+	st, e := existing(o.final, TargetFolder, true, &o.existed)
 	if e != nil || st == nil {
 		return e
+	}
+	if !force {
+		if m := st.Mode(); !m.IsDir() || m&fs.ModeSymlink != 0 {
+			// What force could never replace is named as what it is,
+			// not offered to force.
+			return &Error{Target: TargetFolder, Path: o.final, Problem: NotOutputFolder, Found: KindOf(m)}
+		}
+		return &Error{Problem: Exists, Target: TargetFolder, Path: o.final}
 	}
 	return replaceable(o.final, st.Mode(), o.inputs)
 }

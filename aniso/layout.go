@@ -239,7 +239,11 @@ func (s Structure) Validate() error {
 		}
 	}
 	if nf > 0 && !fibre {
-		return fmt.Errorf("%d fibre famil(ies) but no fibre term; add one such as fib-expsq", nf)
+		fams := "one fibre family"
+		if nf > 1 {
+			fams = fmt.Sprintf("%d fibre families", nf)
+		}
+		return fmt.Errorf("%s but no fibre term; add one such as fib-expsq", fams)
 	}
 	if (s.Dispersion || s.Planar) && nf == 0 {
 		return errors.New("dispersion needs a fibre family")

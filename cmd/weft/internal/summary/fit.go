@@ -242,6 +242,11 @@ func printParameters(w io.Writer, r *aniso.Result) {
 			}
 		}
 		val := num(e.Value, "%.5g")
+		if e.Kind == "angle" {
+			// An angle on a symmetry line comes out within round-off
+			// of it (1e-14°); degrees to 1e-4 are all a fit resolves.
+			val = num(math.Round(e.Value*1e4)/1e4+0, "%.5g")
+		}
 		if e.Kind == "angle" && !r.SignKnown && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
 			val = "±" + val
 		}

@@ -8,6 +8,7 @@ import (
 	"sync"
 
 	"github.com/weft-tools/weft/terms"
+	"gonum.org/v1/gonum/mat"
 )
 
 // Admissibility checks of a model: stress-free reference, material
@@ -614,7 +615,10 @@ type DirectionalModulus struct {
 	// Tension and Compression are the moduli (stress unit) for a small
 	// uniaxial tension and compression along the direction, the other
 	// in-plane stresses zero; 0 means the membrane has no small-strain
-	// stiffness in that mode.
+	// stiffness in that mode: the stress loads a strain mode that nothing
+	// engaged resists. A stiffness singular only in modes the stress does
+	// not load (a Fung-type term with b4 = 0 along an axis) still gives a
+	// modulus.
 	Tension, Compression float64
 	// TensionTerms and CompressionTerms list the indices (into
 	// Model.Terms) of the one-sided terms engaged in each.
@@ -646,9 +650,12 @@ type Moduli struct {
 // found by an active-set solve: engage every one-sided piece whose
 // activation s·ε is positive at the current strain, solve, repeat until
 // the engaged set no longer changes (the energy is convex and piecewise
-// quadratic in ε, so the set settles). A family spread in the plane is
-// represented by planarModuliDirections directions, each weighted by the
-// density.
+// quadratic in ε, so the set settles). The stiffness is split into its
+// eigenmodes, not inverted whole, so a card without stiffness in one mode
+// (a Fung-type term with b4 = 0 resists no shear) still gets the moduli of
+// the stresses that do not load that mode, and 0 for those that do. A
+// family spread in the plane is represented by planarModuliDirections
+// directions, each weighted by the density.
 func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 	if err := m.Validate(); err != nil {
 		return Moduli{}, err
@@ -659,10 +666,10 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 	}
 	sw := m.switchedTerms()
 	mod := Moduli{InitialShear: mu, OneSided: countTerms(sw)}
-	if eps, _, ok := respond(D0, sw, [3]float64{0, 0, 1}); ok && eps[2] != 0 {
+	if eps, _, carried, ok := respond(D0, sw, [3]float64{0, 0, 1}); ok && carried && eps[2] != 0 {
 		mod.ShearPositive = 1 / eps[2]
 	}
-	if eps, _, ok := respond(D0, sw, [3]float64{0, 0, -1}); ok && eps[2] != 0 {
+	if eps, _, carried, ok := respond(D0, sw, [3]float64{0, 0, -1}); ok && carried && eps[2] != 0 {
 		mod.ShearNegative = -1 / eps[2]
 	}
 	for _, d := range directionsDeg {
@@ -671,18 +678,24 @@ func (m *Model) SmallStrainModuli(directionsDeg []float64) (Moduli, error) {
 		dm := DirectionalModulus{AngleDeg: d}
 		for _, sign := range []float64{1, -1} {
 			sig := [3]float64{sign * nn[0], sign * nn[1], sign * nn[2]}
-			eps, on, ok := respond(D0, sw, sig)
+			eps, on, carried, ok := respond(D0, sw, sig)
 			if !ok {
 				continue
 			}
+			// Not carried: the strain along the direction is unbounded and
+			// the modulus 0; no terms are listed, as which of them the
+			// unbounded strain engages is arbitrary.
 			en := eps[0]*c*c + eps[1]*s*s + eps[2]*c*s
-			if en == 0 {
-				continue
+			modulus := 0.0
+			if carried && en != 0 {
+				modulus = sign / en
+			} else {
+				on = nil
 			}
 			if sign > 0 {
-				dm.Tension, dm.TensionTerms = 1/en, on
+				dm.Tension, dm.TensionTerms = modulus, on
 			} else {
-				dm.Compression, dm.CompressionTerms = -1/en, on
+				dm.Compression, dm.CompressionTerms = modulus, on
 			}
 		}
 		mod.Young = append(mod.Young, dm)
@@ -791,11 +804,15 @@ func countTerms(sw []switchedTerm) int {
 	return n
 }
 
-// respond returns the small strain ε (Voigt: ε11, ε22, γ12/2) under the
+// respond returns the small strain ε (Voigt: ε11, ε22, γ12) under the
 // stress sig, with the indices of the terms engaged, by the active-set
-// solve described at SmallStrainModuli; ok is false when no consistent
-// engaged set is found.
-func respond(D0 [3][3]float64, sw []switchedTerm, sig [3]float64) ([3]float64, []int, bool) {
+// solve described at SmallStrainModuli. carried is false when the engaged
+// stiffness does not resist sig: sig has a component along a strain mode of
+// zero stiffness (a Fung-type term with b4 = 0 resists no shear, fibres
+// alone nothing across them), so the strain grows without bound along eps,
+// that mode, and the modulus is 0. ok is false when no consistent engaged
+// set is found.
+func respond(D0 [3][3]float64, sw []switchedTerm, sig [3]float64) (eps [3]float64, engaged []int, carried, ok bool) {
 	on := make([]bool, len(sw))
 	for k := range on {
 		on[k] = true
@@ -811,9 +828,9 @@ func respond(D0 [3][3]float64, sw []switchedTerm, sig [3]float64) ([3]float64, [
 				}
 			}
 		}
-		eps, ok := solve3(D, sig)
+		eps, carried, ok = solveSym3(D, sig)
 		if !ok {
-			return [3]float64{}, nil, false
+			return [3]float64{}, nil, false, false
 		}
 		changed := false
 		for k, st := range sw {
@@ -831,41 +848,74 @@ func respond(D0 [3][3]float64, sw []switchedTerm, sig [3]float64) ([3]float64, [
 			}
 		}
 		if !changed {
-			var terms []int
 			for k, st := range sw {
-				if on[k] && (len(terms) == 0 || terms[len(terms)-1] != st.index) {
-					terms = append(terms, st.index)
+				if on[k] && (len(engaged) == 0 || engaged[len(engaged)-1] != st.index) {
+					engaged = append(engaged, st.index)
 				}
 			}
-			return eps, terms, true
+			return eps, engaged, carried, true
 		}
 	}
-	return [3]float64{}, nil, false
+	return [3]float64{}, nil, false, false
 }
 
-// solve3 solves D x = b by Cramer's rule; ok is false when D is singular
-// relative to its size.
-func solve3(D [3][3]float64, b [3]float64) ([3]float64, bool) {
-	det := func(M [3][3]float64) float64 {
-		return M[0][0]*(M[1][1]*M[2][2]-M[1][2]*M[2][1]) - M[0][1]*(M[1][0]*M[2][2]-M[1][2]*M[2][0]) + M[0][2]*(M[1][0]*M[2][1]-M[1][1]*M[2][0])
-	}
-	d := det(D)
-	norm := 0.0
-	for i := range D {
-		for j := range D[i] {
-			norm = math.Max(norm, math.Abs(D[i][j]))
+// nullStiffness is the relative size below which an eigenvalue of the
+// small-strain stiffness counts as zero, and nullLoad that below which a
+// stress component along such a mode is round-off (cos 90° is 6e-17, not
+// 0, so a uniaxial stress along axis 2 has a shear component of that size).
+const (
+	nullStiffness = 1e-12
+	nullLoad      = 1e-10
+)
+
+// solveSym3 solves D ε = sig for the symmetric small-strain stiffness D,
+// which may be singular: a card can lack stiffness in one mode and still
+// carry a stress that does not load that mode (a Fung-type term with
+// b4 = 0 resists no shear, yet carries a uniaxial stress along an axis).
+// So D is split into its eigenmodes rather than inverted whole. When sig
+// loads no zero mode, ε is the solution without a zero-mode part (any such
+// part does no work against sig, so the modulus does not depend on it) and
+// carried is true. Otherwise the strain along the loaded zero modes is
+// unbounded: ε is the direction it grows in (the part of sig along them)
+// and carried is false. ok is false when the eigendecomposition fails.
+func solveSym3(D [3][3]float64, sig [3]float64) (eps [3]float64, carried, ok bool) {
+	S := mat.NewSymDense(3, nil)
+	for i := 0; i < 3; i++ {
+		for j := i; j < 3; j++ {
+			S.SetSym(i, j, (D[i][j]+D[j][i])/2)
 		}
 	}
-	if norm == 0 || math.Abs(d) <= 1e-12*norm*norm*norm {
-		return [3]float64{}, false
+	var es mat.EigenSym
+	if !es.Factorize(S, true) {
+		return [3]float64{}, false, false
 	}
-	var x [3]float64
-	for k := 0; k < 3; k++ {
-		M := D
-		for i := 0; i < 3; i++ {
-			M[i][k] = b[i]
+	vals := es.Values(nil)
+	var V mat.Dense
+	es.VectorsTo(&V)
+	big, load := 0.0, 0.0
+	for i, v := range vals {
+		big = math.Max(big, math.Abs(v))
+		load = math.Max(load, math.Abs(sig[i]))
+	}
+	var free [3]float64
+	carried = true
+	for k, v := range vals {
+		c := V.At(0, k)*sig[0] + V.At(1, k)*sig[1] + V.At(2, k)*sig[2]
+		if math.Abs(v) > nullStiffness*big {
+			for i := range eps {
+				eps[i] += c / v * V.At(i, k)
+			}
+			continue
 		}
-		x[k] = det(M) / d
+		if math.Abs(c) > nullLoad*load {
+			carried = false
+			for i := range free {
+				free[i] += c * V.At(i, k)
+			}
+		}
 	}
-	return x, true
+	if !carried {
+		return free, false, true
+	}
+	return eps, true, true
 }

@@ -523,3 +523,48 @@ func TestDiscoverComparesFungPreset(t *testing.T) {
 		}
 	}
 }
+
+// A Fung-type card with b4 = 0, as a fit without shear data holds it: the
+// shear modulus is genuinely zero, but the uniaxial moduli along the axes
+// are not. Derived here from the linearised law of Tong & Fung 1976
+// (S11 = c (b1 E11 + b3 E22), S22 = c (b3 E11 + b2 E22), S12 = c b4 E12):
+// a uniaxial stress along axis 1 has no shear component, so it needs no
+// shear stiffness, and condensing out the free lateral stress (S22 = 0)
+// gives E1 = c (b1 − b3²/b2), E2 = c (b2 − b3²/b1). A uniaxial stress at 30°
+// has a shear component that nothing resists: modulus 0. With an
+// incompressible neo-Hookean matrix (i1-lin weight w, μ = 2w) added, whose
+// plane-stress stiffness at F = I is μ [[4, 2, 0], [2, 4, 0], [0, 0, 1]]
+// (common practice), the same condensation of the summed stiffness gives
+// the axis moduli and the shear modulus is μ. The numbers of the first law
+// are those of the demo fit of membrane-M1 with the fung preset.
+func TestFungSmallStrainModuliWithoutShear(t *testing.T) {
+	laws := []fungLaw{{c: 13.4651, b1: 12.506, b2: 2.46133, b3: 4.32406}, fungLaws[0], fungLaws[1]}
+	for _, f := range laws {
+		f.b4 = 0
+		mod, err := f.model().SmallStrainModuli([]float64{0, 90, 30})
+		if err != nil {
+			t.Fatal(err)
+		}
+		e1, e2 := f.c*(f.b1-f.b3*f.b3/f.b2), f.c*(f.b2-f.b3*f.b3/f.b1)
+		y1, y2, y30 := mod.Young[0], mod.Young[1], mod.Young[2]
+		if !near(y1.Tension, e1, 1e-9) || !near(y1.Compression, e1, 1e-9) || !near(y2.Tension, e2, 1e-9) || !near(y2.Compression, e2, 1e-9) {
+			t.Errorf("%+v: moduli along the axes %+v %+v, closed forms %g, %g", f, y1, y2, e1, e2)
+		}
+		if mod.ShearPositive != 0 || mod.ShearNegative != 0 || y30.Tension != 0 || y30.Compression != 0 {
+			t.Errorf("%+v: shear %g/%g, at 30° %+v; want 0 (no shear stiffness)", f, mod.ShearPositive, mod.ShearNegative, y30)
+		}
+		const w = 0.8
+		mu := 2 * w
+		m := f.model()
+		m.Terms = append(m.Terms, Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: w})
+		mod, err = m.SmallStrainModuli([]float64{0, 90})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a11, a22, a12 := 4*mu+f.c*f.b1, 4*mu+f.c*f.b2, 2*mu+f.c*f.b3
+		e1, e2 = a11-a12*a12/a22, a22-a12*a12/a11
+		if !near(mod.Young[0].Tension, e1, 1e-9) || !near(mod.Young[1].Compression, e2, 1e-9) || !near(mod.ShearPositive, mu, 1e-9) {
+			t.Errorf("%+v with i1-lin %g: E1 %g, E2 %g, G %g; condensed %g, %g, %g", f, w, mod.Young[0].Tension, mod.Young[1].Compression, mod.ShearPositive, e1, e2, mu)
+		}
+	}
+}

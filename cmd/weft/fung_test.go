@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -153,5 +154,58 @@ func TestTermsAndExportShowFung(t *testing.T) {
 		!strings.Contains(doc.EnergyLaTeX, `\frac{0.5}{2}\left(e^{12 E_{11}^{2} + 6 E_{22}^{2} + 2\cdot 2 E_{11} E_{22} + 8 \left(E_{12}^{2} + E_{21}^{2}\right)} - 1\right)`) ||
 		!strings.Contains(doc.Conventions.GreenStrain, "p = 0") || len(doc.Verification) == 0 {
 		t.Errorf("export: %+v\n%s", p, doc.Energy)
+	}
+}
+
+// fungNoShearCard is the fung preset as a fit without shear data leaves it
+// (b4 held at 0); the numbers are those of the demo fit of membrane-M1.
+const fungNoShearCard = `{"format": "weft.model/1", "stress_unit": "kPa", "families": [],
+ "terms": [{"id": "fung", "weight": 13.465055030993854,
+  "params": {"b1": 12.505980250636771, "b2": 2.461332765082518, "b3": 4.32405983364274, "b4": 0}}]}`
+
+// A Fung-type card with b4 = 0 has no in-plane shear stiffness, but it does
+// resist a uniaxial stress along either axis. check's uniaxial moduli are
+// set against an independent route: the tangent A = dP/dF that weft
+// evaluate reports at F = I, condensed for the free lateral stress
+// (plane-stress static condensation, common practice), E1 = A11 − A12²/A22
+// and E2 = A22 − A12²/A11, where A12 is dP11/dF22. The no-stiffness failure
+// names in-plane shear only, and its likely cause is b4, not fibre terms
+// (the card has none).
+func TestCheckFungWithoutShearStiffness(t *testing.T) {
+	path := writeTemp(t, "fung-b4-0.json", fungNoShearCard)
+	out, errs, code := runWeft(t, "evaluate", path, "--stretch", "1,1", "--json")
+	var ev fe.Evaluation
+	if err := json.Unmarshal([]byte(out), &ev); err != nil || code != 0 {
+		t.Fatalf("evaluate: exit %d %v %s", code, err, errs)
+	}
+	A := ev.Tangent.Matrix
+	a11, a12, a22 := float64(A[0][0]), float64(A[0][3]), float64(A[3][3])
+	e1, e2 := a11-a12*a12/a22, a22-a12*a12/a11
+	out, errs, code = runWeft(t, "check", path, "--range", "0.9,1.6", "--json")
+	var rep fe.CheckReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 1 {
+		t.Fatalf("check: exit %d %v %s", code, err, errs)
+	}
+	if len(rep.Moduli.Young) != 2 {
+		t.Fatalf("moduli %+v", rep.Moduli)
+	}
+	for i, want := range []float64{e1, e2} {
+		y := rep.Moduli.Young[i]
+		if math.Abs(float64(y.Tension)-want) > 1e-9*want || math.Abs(float64(y.Compression)-want) > 1e-9*want {
+			t.Errorf("%s: E = %g (tension), %g (compression); condensed from the evaluate tangent %g", y.Direction, y.Tension, y.Compression, want)
+		}
+	}
+	if rep.Moduli.ShearPositive != 0 || rep.Moduli.ShearNegative != 0 || !rep.NoStiffness {
+		t.Errorf("shear moduli %g, %g, no stiffness %v; want 0, 0, true", rep.Moduli.ShearPositive, rep.Moduli.ShearNegative, rep.NoStiffness)
+	}
+	var stiff string
+	for _, f := range rep.Failures {
+		if strings.Contains(f, "no small-strain stiffness") {
+			stiff = f
+		}
+	}
+	if !strings.Contains(stiff, "in-plane shear (modulus 0): likely cause") || strings.Contains(stiff, "along axis") ||
+		!strings.Contains(stiff, "b4 = 0") || strings.Contains(stiff, "fibre") {
+		t.Errorf("no-stiffness failure %q; failures %v", stiff, rep.Failures)
 	}
 }

@@ -253,7 +253,7 @@ func checkGrid(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid, sr *anis
 		rep.Stability.FirstNoStiffness = &f
 		rep.NoStiffness = true
 		rep.Failures = append(rep.Failures, fmt.Sprintf("no stiffness at %d of %d grid points (first at F = %s): the in-plane tangent is zero there or has no resolvable positive stiffness, so an FE solve of such a state is singular; likely cause: %s",
-			sr.NoStiffness, sr.Evaluated, fmtF(f), stiffnessCause(m)))
+			sr.NoStiffness, sr.Evaluated, fmtF(f), stiffnessCause(m, nil, false)))
 	}
 	if sr.UnstablePoints > 0 {
 		rep.Failures = append(rep.Failures, fmt.Sprintf("material stability fails at %d of %d grid points; worst at F = %s%s: "+
@@ -276,12 +276,69 @@ func checkGrid(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid, sr *anis
 	}
 }
 
-// stiffnessCause names the likely cause of missing stiffness.
-func stiffnessCause(m *aniso.Model) string {
+// stiffnessCause names the likely cause of missing stiffness from what the
+// card holds, so that it never blames a kind of term the card lacks. mod,
+// when not nil, holds the card's small-strain moduli, and shear says
+// whether in-plane shear is among the modes without stiffness; the grid
+// scan passes nil.
+func stiffnessCause(m *aniso.Model, mod *aniso.Moduli, shear bool) string {
+	oneSided := hasOneSidedTerm(m)
 	if m.MatrixWeight() == 0 {
-		return "the card has no matrix term with a positive weight (no isotropic I1, I2 or principal-stretch term, no Fung-type term); its fibre terms carry load only while their family is stretched"
+		s := "the card has no matrix term with a positive weight (no isotropic I1, I2 or principal-stretch term, no Fung-type term)"
+		if oneSided {
+			s += "; its fibre terms carry load only while their family is stretched"
+		}
+		return s
 	}
-	return "the matrix terms are too soft to be resolved next to the fibre terms"
+	var causes []string
+	// Only where the isotropic terms give no shear modulus can a
+	// Fung-type term's own form decide; mu0 > 0 stiffens every mode.
+	if mod != nil && mod.InitialShear <= 0 {
+		for i, t := range m.Terms {
+			if t.Shape.Arg != terms.Green || t.Weight <= 0 || len(t.Params) < 4 {
+				continue
+			}
+			b1, b2, b3, b4 := t.Params[0], t.Params[1], t.Params[2], t.Params[3]
+			if shear && b4 <= 0 {
+				causes = append(causes, fmt.Sprintf("term %d (fung) has b4 = %g, so it resists no in-plane shear (planar biaxial data without shear do not determine b4), "+
+					"and no isotropic term adds shear stiffness (mu0 = 0)", i+1, b4))
+			}
+			if b1 <= 0 || b2 <= 0 || b1*b2 <= b3*b3 {
+				causes = append(causes, fmt.Sprintf("term %d (fung) has b1 = %g, b2 = %g, b1 b2 - b3² = %g: its quadratic form is not positive definite in the normal strains, "+
+					"and no isotropic term adds stiffness (mu0 = 0)", i+1, b1, b2, b1*b2-b3*b3))
+			}
+		}
+		if !hasGreenTerm(m) {
+			s := "the matrix terms have no initial shear modulus (mu0 = 0), so at F = I "
+			if oneSided {
+				s += "only fibre terms, on their tension side, give stiffness"
+			} else {
+				s += "the card has no stiffness"
+			}
+			causes = append(causes, s)
+		}
+	}
+	switch {
+	case len(causes) > 0:
+		return strings.Join(causes, "; ")
+	case oneSided:
+		return "the matrix terms are too soft to be resolved next to the fibre terms"
+	}
+	return "the small-strain stiffness of the card's terms, all acting on both sides of F = I, has a zero or negative eigenvalue in that mode"
+}
+
+// hasOneSidedTerm reports whether m has an active fibre, I5 or cofactor
+// term, the kinds that stiffen one side of F = I only.
+func hasOneSidedTerm(m *aniso.Model) bool {
+	for _, t := range m.Terms {
+		switch t.Shape.Arg {
+		case terms.Fibre, terms.Fifth, terms.Cofactor:
+			if t.Weight > 0 {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // checkAlternatives warns that the card's fibre layout is undetermined,
@@ -382,25 +439,33 @@ func checkModuli(rep *CheckReport, m *aniso.Model, names []string) error {
 	}
 	// A zero (or undefined) modulus means no small-strain stiffness in
 	// that mode: an FE model at rest or slightly loaded that way is
-	// singular.
+	// singular. A negative one (a form that is not positive definite) is
+	// no stiffness either, and its value is given.
 	var zero []string
 	positive := func(v float64) bool { return v > 0 && !math.IsInf(v, 0) }
-	if !positive(mod.ShearPositive) || !positive(mod.ShearNegative) {
-		zero = append(zero, "in-plane shear")
+	mode := func(name string, v float64) string {
+		if v < 0 {
+			return fmt.Sprintf("%s (modulus %.4g)", name, v)
+		}
+		return name + " (modulus 0)"
+	}
+	shear := !positive(mod.ShearPositive) || !positive(mod.ShearNegative)
+	if shear {
+		zero = append(zero, mode("in-plane shear", math.Min(mod.ShearPositive, mod.ShearNegative)))
 	}
 	for i, y := range mod.Young {
 		rep.Moduli.Young = append(rep.Moduli.Young, checkModulus{Direction: labels[i], AngleDeg: y.AngleDeg, Tension: card.Num(y.Tension), Compression: card.Num(y.Compression),
 			TensionTerms: termNames(y.TensionTerms), CompressionTerms: termNames(y.CompressionTerms)})
 		if !positive(y.Tension) {
-			zero = append(zero, "tension along "+labels[i])
+			zero = append(zero, mode("tension along "+labels[i], y.Tension))
 		}
 		if !positive(y.Compression) {
-			zero = append(zero, "compression along "+labels[i])
+			zero = append(zero, mode("compression along "+labels[i], y.Compression))
 		}
 	}
 	if len(zero) > 0 {
 		rep.NoStiffness = true
-		rep.Failures = append(rep.Failures, fmt.Sprintf("no small-strain stiffness at F = I in %s (modulus 0): likely cause: %s", strings.Join(zero, ", "), stiffnessCause(m)))
+		rep.Failures = append(rep.Failures, fmt.Sprintf("no small-strain stiffness at F = I in %s: likely cause: %s", strings.Join(zero, ", "), stiffnessCause(m, &mod, shear)))
 	}
 	rep.Moduli.Note = "linearised plane-stress response at F = I in " + rep.StressUnit + ": uniaxial moduli for a small uniaxial stress along the direction " +
 		"with the other in-plane stresses zero; fibre and I5 terms engage only while their family stretches (I4 > 1) and cofactor terms " +

@@ -351,7 +351,7 @@ func prepareMembers(ms []*cohortMember, unit string) []*aniso.Problem {
 		}
 		m.folder = name + ".weft"
 		if prev, dup := seen[strings.ToLower(m.folder)]; dup {
-			m.err = badInputf("%s has the same specimen name as %s; give them different 'specimen' metadata", m.file, prev)
+			m.err = badInputf("%s and %s would both write %s (their specimen names give the same folder name, ignoring case); give them different 'specimen' metadata", prev, m.file, m.folder)
 			continue
 		}
 		p, err := aniso.NewProblem(s, nil)

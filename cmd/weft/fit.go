@@ -315,7 +315,7 @@ func outputFolders(jobs []*fitJob, out string) {
 		}
 		key := filepath.Clean(j.dir)
 		if prev, dup := seen[key]; dup {
-			j.err = badInputf("%s and %s would both write %s (same specimen name); give them different 'specimen' metadata or fit them separately with -o", prev, j.path, j.dir)
+			j.err = badInputf("%s and %s would both write %s (their specimen names give the same folder name); give them different 'specimen' metadata or fit them separately with -o", prev, j.path, j.dir)
 			continue
 		}
 		seen[key] = j.path

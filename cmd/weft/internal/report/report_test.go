@@ -339,3 +339,26 @@ func TestHeldoutRowsMatchRepeatedLines(t *testing.T) {
 		t.Errorf("a third row from line 5: want an error naming the line, got %v", err)
 	}
 }
+
+// Folder names keep letters and digits of any script (two specimens named
+// "Probe-Ä" and "Probe-Ö" once both became "Probe-_" and collided), turn
+// every other run into one '_', and never start with a dot, which would
+// hide the folder ("../../escape" once became ".._.._escape", now
+// "__.._escape").
+func TestSafeName(t *testing.T) {
+	for in, want := range map[string]string{
+		"membrane-M1":      "membrane-M1",
+		"Probe-Ä":          "Probe-Ä",
+		"Probe-Ö":          "Probe-Ö",
+		"Membrán-Ω 膜 😀":    "Membrán-Ω_膜_",
+		"../../escape":     "__.._escape",
+		".hidden":          "_hidden",
+		"a/b\\c:d":         "a_b_c_d",
+		"..":               "..",
+		"skin sample 3.v2": "skin_sample_3.v2",
+	} {
+		if got := SafeName(in); got != want {
+			t.Errorf("SafeName(%q) = %q, want %q", in, got, want)
+		}
+	}
+}

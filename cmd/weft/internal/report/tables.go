@@ -475,9 +475,21 @@ func readHeldoutTable(r io.Reader, file string, t *fitTable) (*heldoutTable, err
 	return ht, nil
 }
 
-// unsafeName matches the runs of characters a file name should not hold.
-var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
+// unsafeName matches the runs of characters a file name should not hold;
+// leadingDots the dots that would hide it.
+var (
+	unsafeName  = regexp.MustCompile(`[^\p{L}\p{N}._-]+`)
+	leadingDots = regexp.MustCompile(`^\.+`)
+)
 
 // SafeName replaces every run of characters a file name should not hold
-// (anything but letters, digits, '.', '_' and '-') with one '_'.
-func SafeName(s string) string { return unsafeName.ReplaceAllString(s, "_") }
+// (anything but letters and digits of any script, '.', '_' and '-') with
+// one '_', and leading dots, which would hide the file, with one '_'. "."
+// and ".." stay as they are (callers refuse them).
+func SafeName(s string) string {
+	s = unsafeName.ReplaceAllString(s, "_")
+	if s == "." || s == ".." {
+		return s
+	}
+	return leadingDots.ReplaceAllString(s, "_")
+}

@@ -578,26 +578,49 @@ func cyclesByTurns(d []float64, tol float64, ident []int) (spans []cycleSpan, le
 	if rising {
 		peaks = append(peaks, ext)
 	}
+	// A valley found by the turns is the first row at the low point. When
+	// the stretch is held there (rows at exactly the same driving stretch,
+	// as when a file writes the turning row both at the end of one cycle
+	// and at the start of the next), the held rows end the unloading and
+	// the loading starts from the last of them: sharing the first would
+	// put the previous cycle's last unloading row into the next loading
+	// branch, two stresses at one stretch. The first valley of a record
+	// that starts by rising is row 0, where no hold is looked for.
 	if peaks[0] == -1 {
 		if len(valleys) == 0 { // the record only falls: one unloading branch
 			return []cycleSpan{{idx: ident[:n], peak: start}}, 0
 		}
 		peaks = peaks[1:]
-		lead = valleys[0]
+		lead = holdEnd(d, valleys[0])
+		valleys[0] = lead
 	}
 	// Now cycle k runs from valleys[k] through peaks[k] to valleys[k+1]
-	// (or to the end).
+	// (or to the end), sharing valleys[k+1] with cycle k+1 unless the
+	// stretch is held there.
 	for k := range peaks {
 		from := valleys[k]
 		to := n - 1
 		shared := false
 		if k+1 < len(valleys) {
-			to = valleys[k+1]
-			shared = true
+			v := valleys[k+1]
+			valleys[k+1] = holdEnd(d, v)
+			to, shared = valleys[k+1], valleys[k+1] == v
+			if !shared {
+				to--
+			}
 		}
 		spans = append(spans, cycleSpan{idx: ident[from : to+1], peak: peaks[k] - from, shared: shared})
 	}
 	return spans, lead
+}
+
+// holdEnd returns the last of the rows from i on whose driving stretch is
+// exactly d[i]: i itself when the stretch does not stay there.
+func holdEnd(d []float64, i int) int {
+	for i+1 < len(d) && d[i+1] == d[i] {
+		i++
+	}
+	return i
 }
 
 // checkDirection warns when the driving stretch moves against the branch

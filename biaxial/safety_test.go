@@ -45,12 +45,14 @@ func twoBlocks(r2 float64, cycleColumn bool, cycles int) string {
 // Finding 3: a label reused for another protocol is refused, naming both
 // line ranges; the same protocol repeated under its label is still read.
 func TestReusedProtocolLabel(t *testing.T) {
+	// Block 1 ends and block 2 starts at stretch 1 (lines 12 and 13): a
+	// hold at the low point, where block 2 starts from its own first row.
 	_, err := readString(twoBlocks(0.5, false, 0), Options{})
-	wantParseError(t, err, ErrProtocol, 12, 0, "protocol \"1:1\"", "lines 2–12 and 12–23", "different directions", "own label")
+	wantParseError(t, err, ErrProtocol, 13, 0, "protocol \"1:1\"", "lines 2–12 and 13–23", "different directions", "own label")
 	_, err = readString(twoBlocks(0.5, true, 2), Options{})
 	wantParseError(t, err, ErrProtocol, 13, 0, "lines 2–7 and 13–18", "both hold cycle 1")
 	_, err = readString(twoBlocks(0.5, true, 1), Options{})
-	wantParseError(t, err, ErrProtocol, 12, 0, "lines 2–12 and 12–23", "different directions")
+	wantParseError(t, err, ErrProtocol, 13, 0, "lines 2–12 and 13–23", "different directions")
 	s, err := readString(twoBlocks(1, false, 0), Options{Cycle: CycleAll})
 	if err != nil {
 		t.Fatalf("one protocol in two cycles: %v", err)

@@ -202,3 +202,49 @@ func TestWorkbookBooleansAndDates(t *testing.T) {
 		t.Errorf("display formats: %v", err)
 	}
 }
+
+// A protocol label typed as 1:1 that the spreadsheet stored as the time
+// 1:01 (a fraction of a day, 61/1440, under the h:mm format, numFmtId 20)
+// or as a date is refused with its cell, not read silently as the label
+// "0.042361111111111106" (synthetic workbook; every label cell of the
+// protocol, rows 7 to 12, so that nothing else stops the file).
+func TestWorkbookLabelAsTime(t *testing.T) {
+	for _, c := range []struct {
+		set  func(f *excelize.File, cell string)
+		want []string
+	}{
+		{func(f *excelize.File, cell string) {
+			st, _ := f.NewStyle(&excelize.Style{NumFmt: 20}) // h:mm
+			f.SetCellFloat("SYN-3", cell, 61.0/1440, -1, 64)
+			f.SetCellStyle("SYN-3", cell, cell, st)
+		}, []string{`protocol is the time "`, `1:01"`, "0.04236111", "turned the ratio into a time"}},
+		{func(f *excelize.File, cell string) {
+			f.SetCellValue("SYN-3", cell, time.Date(2024, 1, 2, 0, 0, 0, 0, time.UTC))
+		}, []string{"protocol is the date", "turned the ratio into a date"}},
+	} {
+		f, err := excelize.OpenReader(bytes.NewReader(makeWorkbook(t, "")))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for r := 7; r <= 12; r++ {
+			c.set(f, cellName(1, r))
+		}
+		var buf bytes.Buffer
+		f.Write(&buf)
+		_, err = Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"})
+		pe := wantParseError(t, err, ErrProtocol, 7, 1, append([]string{"tests.xlsx:SYN-3!A7"}, c.want...)...)
+		if !strings.Contains(pe.Fix, "as text") {
+			t.Errorf("fix %q does not say to store the labels as text", pe.Fix)
+		}
+	}
+	// A plain number as a label stays a label.
+	f, _ := excelize.OpenReader(bytes.NewReader(makeWorkbook(t, "")))
+	for r := 7; r <= 12; r++ {
+		f.SetCellInt("SYN-3", cellName(1, r), 2)
+	}
+	var buf bytes.Buffer
+	f.Write(&buf)
+	if s, err := Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"}); err != nil || s.Protocols[0].Label != "2" {
+		t.Errorf("a number as a label: %v", err)
+	}
+}

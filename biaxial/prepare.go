@@ -92,6 +92,9 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 	}
 	// Shear information: a measured shear stress or non-zero F12/F21.
 	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
+	if !t.hasShear {
+		warnZeroShear(s)
+	}
 	warnShearScatter(s)
 	if opt.Rereference {
 		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
@@ -134,6 +137,44 @@ func specimenOf(rec *Record) *Specimen {
 		s.StressUnit = "kPa"
 	}
 	return s
+}
+
+// warnZeroShear warns, for data whose kinematics carry no shear, when a
+// shear stress column is exactly zero at every kept point. Such zeros are
+// then the data's only shear information: taken as measured, they decide
+// the sign of fibre angles and can rule out a single off-axis family,
+// which is right for a shear stress measured as zero but wrong for a
+// column of placeholders, and the file cannot tell the two apart. The
+// zeros are kept as data; the warning says what they decide.
+func warnZeroShear(s *Specimen) {
+	var zero []string
+	for _, c := range []Component{C12, C21} {
+		if !s.Measured[c] {
+			continue
+		}
+		all := true
+		for i := range s.Protocols {
+			for _, p := range s.Protocols[i].Points {
+				if p.Stress[c] != 0 {
+					all = false
+					break
+				}
+			}
+		}
+		if all {
+			zero = append(zero, s.Kind.String()+"_"+c.String())
+		}
+	}
+	if len(zero) == 0 {
+		return
+	}
+	cols, them, it := "column "+zero[0]+" is", "the column", "it was"
+	if len(zero) == 2 {
+		cols, them, it = "columns "+zero[0]+" and "+zero[1]+" are", "the columns", "they were"
+	}
+	s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
+		Message: fmt.Sprintf("the shear stress %s exactly zero on every kept row, and the kinematics carry no shear (F12 = F21 = 0): the zeros are taken as measured shear stresses, and as the data's only shear information they decide the sign of fibre angles and can rule out a single off-axis fibre family — if %s not measured, remove %s",
+			cols, it, them)})
 }
 
 // warnPointCounts warns when protocols keep very different numbers of

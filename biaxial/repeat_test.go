@@ -72,3 +72,54 @@ func TestRepeatedRowsWarned(t *testing.T) {
 		}
 	}
 }
+
+// A shear stress column that is exactly zero on every kept row of data
+// whose kinematics carry no shear is the data's only shear information:
+// it is kept as measured, but warned about, since a column of
+// placeholders would decide the sign of fibre angles and rule out a
+// single off-axis family. Zero shear with a measured F12/F21 (a sutured
+// specimen) and a shear stress that is not zero everywhere are not
+// warned about. Synthetic data.
+func TestZeroShearColumnWarned(t *testing.T) {
+	rows := func(header string, cell func(i int) string) string {
+		var b strings.Builder
+		b.WriteString(header)
+		for i, r := range strings.Split(strings.TrimSuffix(goodRows, "\n"), "\n") {
+			b.WriteString(r + "," + cell(i) + "\n")
+		}
+		return b.String()
+	}
+	zero := func(int) string { return "0,0" }
+	for _, c := range []struct {
+		in   string
+		want string // "" for no warning
+	}{
+		{rows("protocol,stretch_1,stretch_2,nominal_11,nominal_22,nominal_12,nominal_21\n", zero), "columns nominal_12 and nominal_21 are exactly zero"},
+		{rows("protocol,stretch_1,stretch_2,cauchy_11,cauchy_22,cauchy_12\n", func(int) string { return "0" }), "column cauchy_12 is exactly zero"},
+		{rows("protocol,stretch_1,stretch_2,nominal_11,nominal_22,nominal_12,nominal_21\n", func(i int) string { return "0,0." + string(rune('1'+i)) }), "column nominal_12 is exactly zero"},
+		{rows("protocol,stretch_1,stretch_2,cauchy_11,cauchy_22,cauchy_12\n", func(i int) string { return []string{"0", "0", "0.1", "0", "0"}[i] }), ""},
+		{"protocol,F11,F12,F21,F22,nominal_11,nominal_22,nominal_12,nominal_21\n" +
+			"1:1,1,0,0,1,0,0,0,0\n1:1,1.02,0.01,0,1.02,2,2,0,0\n1:1,1.04,0.02,0,1.04,5,5,0,0\n1:1,1.06,0.03,0,1.06,9,9,0,0\n1:1,1.08,0.04,0,1.08,14,14,0,0\n", ""},
+	} {
+		s, err := readString(c.in, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ws := warningsWith(s, "exactly zero on every kept row")
+		switch {
+		case c.want == "" && len(ws) != 0:
+			t.Errorf("warned about shear that is measured: %v", ws)
+		case c.want != "" && len(ws) != 1:
+			t.Errorf("%d warnings about zero shear, want 1 (%q)", len(ws), c.want)
+		case c.want != "":
+			for _, frag := range []string{c.want, "taken as measured", "sign of fibre angles", "off-axis fibre family", "remove the column"} {
+				if !strings.Contains(ws[0].Message, frag) {
+					t.Errorf("warning %q does not say %q", ws[0].Message, frag)
+				}
+			}
+			if !s.HasShear {
+				t.Errorf("the zeros are kept as shear information, but HasShear is false")
+			}
+		}
+	}
+}

@@ -158,3 +158,106 @@ func TestNoUnloadingBranch(t *testing.T) {
 	_, err := readString(goodHeader+goodRows, Options{Branch: BranchUnloading})
 	wantParseError(t, err, ErrProtocol, 2, 0, "keeps 1 point ", "unloading")
 }
+
+// A record that writes the turning row twice — the last unloading row of
+// one cycle and the first loading row of the next, both at the preload
+// stretch, as a tester numbering its cycles does — must split without a
+// cycle column exactly as with one: the held rows end the unloading, and
+// the loading branch starts from the last of them, so the kept branch
+// holds no row of the previous cycle (two stresses at one stretch). The
+// same holds for the held rows of a record that starts by falling.
+func TestCyclesHeldAtTheLowPoint(t *testing.T) {
+	// Synthetic: 3 cycles of 11 rows up (1.01 to 1.15, peak included) and
+	// 10 rows down (back to 1.01 included), no shared row; 2 more rows at
+	// 1.01 in the middle cycle make a hold of 3 rows before cycle 3.
+	rec := synthRecord("1:1", 1, 2, 1.01, 1.15, 1) // for the header fields
+	rec.Rows = nil
+	line := 2
+	add := func(l, st float64, cyc int) {
+		rec.Rows = append(rec.Rows, Row{Protocol: "1:1", Point: Point{F: [4]float64{l, 0, 0, l},
+			Stress: [NumComponents]float64{st, st}, Line: line, Cycle: cyc, Time: math.NaN()}})
+		line++
+	}
+	for c := 1; c <= 3; c++ {
+		for i := 0; i <= 10; i++ {
+			add(1.01+0.014*float64(i), synthLoad(1.01+0.014*float64(i)), c)
+		}
+		for i := 9; i >= 0; i-- {
+			add(1.01+0.014*float64(i), 0.8*synthLoad(1.01+0.014*float64(i)), c)
+		}
+		if c == 2 {
+			add(1.01, 0.01, c)
+			add(1.01, 0.02, c)
+		}
+	}
+	kept := func(rec *Record, opt Options) []int {
+		t.Helper()
+		s, err := Prepare(rec, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var lines []int
+		for _, p := range s.Protocols[0].Points {
+			lines = append(lines, p.Line)
+		}
+		return lines
+	}
+	rec.HasCycle = true
+	wantLoading := kept(rec, Options{})
+	wantUnloading2 := kept(rec, Options{Cycle: 2, Branch: BranchUnloading})
+	if len(wantLoading) != 11 || wantLoading[0] != 2+2*21+2 {
+		t.Fatalf("with a cycle column: loading lines %v, want 11 from line 46", wantLoading)
+	}
+	rec.HasCycle = false
+	for i := range rec.Rows {
+		rec.Rows[i].Cycle = 0
+	}
+	if got := kept(rec, Options{}); !equalInts(got, wantLoading) {
+		t.Errorf("without a cycle column: loading lines %v, want %v", got, wantLoading)
+	}
+	// Cycle 2's unloading ends with its held rows; cycle 3 starts at the
+	// last row at 1.01, its own first row.
+	if got := kept(rec, Options{Cycle: 2, Branch: BranchUnloading}); !equalInts(got, wantUnloading2) {
+		t.Errorf("cycle 2 unloading: lines %v, want %v", got, wantUnloading2)
+	}
+	// Every row once, in order, over all cycles and branches.
+	all := kept(rec, Options{Cycle: CycleAll, Branch: BranchAll})
+	if len(all) != len(rec.Rows) {
+		t.Fatalf("all cycles and branches: %d rows, want %d", len(all), len(rec.Rows))
+	}
+	for i, l := range all {
+		if l != rec.Rows[i].Line {
+			t.Fatalf("all cycles and branches: row %d from line %d, want %d", i, l, rec.Rows[i].Line)
+		}
+	}
+
+	// Starting by falling onto a hold (lines 102 and 103 at 1.01, then
+	// cycle 1 without its first row): the held rows but the last lead.
+	var lead []Row
+	for i, l := range []float64{1.08, 1.05, 1.01, 1.01} {
+		lead = append(lead, Row{Protocol: "1:1", Point: Point{F: [4]float64{l, 0, 0, l}, Stress: [NumComponents]float64{1, 1}, Line: 100 + i, Time: math.NaN()}})
+	}
+	rec.Rows = append(lead, rec.Rows[1:21]...)
+	s, err := Prepare(rec, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if pts := s.Protocols[0].Points; len(pts) != 11 || pts[0].Line != 103 || pts[1].Line != 3 {
+		t.Errorf("after a leading fall: %d points from line %d, want 11 from line 103, then line 3", len(pts), pts[0].Line)
+	}
+	if !strings.Contains(strings.Join(s.Notices, "\n"), "first 3 rows") {
+		t.Errorf("notices %q do not report the 3 leading rows", s.Notices)
+	}
+}
+
+func equalInts(a, b []int) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
+}

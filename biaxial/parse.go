@@ -1,6 +1,8 @@
 package biaxial
 
 import (
+	"bytes"
+	"encoding/binary"
 	"fmt"
 	"math"
 	"path/filepath"
@@ -101,6 +103,13 @@ type tableParser struct {
 	toKPa       float64 // multiplies a stress in the record's unit into kPa
 	intoTable   bool    // rows go to table, else to rec.Rows
 	table       *rawTable
+	// prevKey and key hold the cells of the previous and the current data
+	// row (trimmed, each behind its length), reused from row to row, to
+	// count rows that repeat the one before exactly: dupRows of them, the
+	// first on line dupFirst.
+	prevKey, key []byte
+	dupRows      int
+	dupFirst     int
 }
 
 // newTableParser starts reading a table. With intoTable the data rows are
@@ -335,6 +344,7 @@ func (p *tableParser) row(line int, fields []string) error {
 	if err := p.plausibleStretch(line, &r); err != nil {
 		return err
 	}
+	p.repeats(line, get)
 	p.nRows++
 	if p.table != nil {
 		p.table.add(&r)
@@ -342,6 +352,45 @@ func (p *tableParser) row(line int, fields []string) error {
 		p.rec.Rows = append(p.rec.Rows, r)
 	}
 	return nil
+}
+
+// repeats counts a data row whose every cell, read or ignored, equals the
+// one of the previous data row (spaces around a cell aside). A copied
+// block of rows looks like data but is one measurement counted twice;
+// a state truly sampled twice differs at least in its time stamp.
+func (p *tableParser) repeats(line int, get func(col int) string) {
+	p.key = p.key[:0]
+	for col := 1; col <= len(p.cols); col++ {
+		f := trimSpace(get(col))
+		p.key = binary.AppendUvarint(p.key, uint64(len(f)))
+		p.key = append(p.key, f...)
+	}
+	if p.nRows > 0 && bytes.Equal(p.key, p.prevKey) {
+		if p.dupRows == 0 {
+			p.dupFirst = line
+		}
+		p.dupRows++
+	}
+	p.key, p.prevKey = p.prevKey, p.key
+}
+
+// warnRepeats warns about the rows that repeat the row before them. They
+// are kept: the file may hold a state sampled twice, and dropping rows
+// would hide what the file says; the warning says what keeping them does.
+func (p *tableParser) warnRepeats() {
+	if p.dupRows == 0 {
+		return
+	}
+	lines := "line"
+	if p.sheet != "" {
+		lines = "row"
+	}
+	what := fmt.Sprintf("%d rows repeat the row before them exactly, every column equal (the first on %s %d)", p.dupRows, lines, p.dupFirst)
+	if p.dupRows == 1 {
+		what = fmt.Sprintf("the row on %s %d repeats the row before it exactly, every column equal", lines, p.dupFirst)
+	}
+	p.rec.Warnings = append(p.rec.Warnings, Warning{File: p.file, Line: p.dupFirst, Sheet: p.sheet,
+		Message: what + "; repeated rows are kept, and where they are among the points fitted a repeated sample counts twice in the fit, which inflates the evidence for a model and narrows its intervals — delete the copies unless the specimen was truly sampled twice in the same state"})
 }
 
 // fieldCount refuses a row with cells beyond the header, and a CSV row that
@@ -441,6 +490,7 @@ func (p *tableParser) finish() (*Record, error) {
 		return nil, p.errAt(p.headerLine, 0, ErrProtocol, "add the measured rows below the header",
 			"the file has a header but no data rows")
 	}
+	p.warnRepeats()
 	return p.rec, nil
 }
 

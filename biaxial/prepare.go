@@ -92,6 +92,9 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 	}
 	// Shear information: a measured shear stress or non-zero F12/F21.
 	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
+	if !t.hasShear {
+		warnZeroShear(s)
+	}
 	warnShearScatter(s)
 	if opt.Rereference {
 		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
@@ -134,6 +137,44 @@ func specimenOf(rec *Record) *Specimen {
 		s.StressUnit = "kPa"
 	}
 	return s
+}
+
+// warnZeroShear warns, for data whose kinematics carry no shear, when a
+// shear stress column is exactly zero at every kept point. Such zeros are
+// then the data's only shear information: taken as measured, they decide
+// the sign of fibre angles and can rule out a single off-axis family,
+// which is right for a shear stress measured as zero but wrong for a
+// column of placeholders, and the file cannot tell the two apart. The
+// zeros are kept as data; the warning says what they decide.
+func warnZeroShear(s *Specimen) {
+	var zero []string
+	for _, c := range []Component{C12, C21} {
+		if !s.Measured[c] {
+			continue
+		}
+		all := true
+		for i := range s.Protocols {
+			for _, p := range s.Protocols[i].Points {
+				if p.Stress[c] != 0 {
+					all = false
+					break
+				}
+			}
+		}
+		if all {
+			zero = append(zero, s.Kind.String()+"_"+c.String())
+		}
+	}
+	if len(zero) == 0 {
+		return
+	}
+	cols, them, it := "column "+zero[0]+" is", "the column", "it was"
+	if len(zero) == 2 {
+		cols, them, it = "columns "+zero[0]+" and "+zero[1]+" are", "the columns", "they were"
+	}
+	s.Warnings = append(s.Warnings, Warning{File: s.Source, Sheet: s.Sheet,
+		Message: fmt.Sprintf("the shear stress %s exactly zero on every kept row, and the kinematics carry no shear (F12 = F21 = 0): the zeros are taken as measured shear stresses, and as the data's only shear information they decide the sign of fibre angles and can rule out a single off-axis fibre family — if %s not measured, remove %s",
+			cols, it, them)})
 }
 
 // warnPointCounts warns when protocols keep very different numbers of
@@ -578,26 +619,49 @@ func cyclesByTurns(d []float64, tol float64, ident []int) (spans []cycleSpan, le
 	if rising {
 		peaks = append(peaks, ext)
 	}
+	// A valley found by the turns is the first row at the low point. When
+	// the stretch is held there (rows at exactly the same driving stretch,
+	// as when a file writes the turning row both at the end of one cycle
+	// and at the start of the next), the held rows end the unloading and
+	// the loading starts from the last of them: sharing the first would
+	// put the previous cycle's last unloading row into the next loading
+	// branch, two stresses at one stretch. The first valley of a record
+	// that starts by rising is row 0, where no hold is looked for.
 	if peaks[0] == -1 {
 		if len(valleys) == 0 { // the record only falls: one unloading branch
 			return []cycleSpan{{idx: ident[:n], peak: start}}, 0
 		}
 		peaks = peaks[1:]
-		lead = valleys[0]
+		lead = holdEnd(d, valleys[0])
+		valleys[0] = lead
 	}
 	// Now cycle k runs from valleys[k] through peaks[k] to valleys[k+1]
-	// (or to the end).
+	// (or to the end), sharing valleys[k+1] with cycle k+1 unless the
+	// stretch is held there.
 	for k := range peaks {
 		from := valleys[k]
 		to := n - 1
 		shared := false
 		if k+1 < len(valleys) {
-			to = valleys[k+1]
-			shared = true
+			v := valleys[k+1]
+			valleys[k+1] = holdEnd(d, v)
+			to, shared = valleys[k+1], valleys[k+1] == v
+			if !shared {
+				to--
+			}
 		}
 		spans = append(spans, cycleSpan{idx: ident[from : to+1], peak: peaks[k] - from, shared: shared})
 	}
 	return spans, lead
+}
+
+// holdEnd returns the last of the rows from i on whose driving stretch is
+// exactly d[i]: i itself when the stretch does not stay there.
+func holdEnd(d []float64, i int) int {
+	for i+1 < len(d) && d[i+1] == d[i] {
+		i++
+	}
+	return i
 }
 
 // checkDirection warns when the driving stretch moves against the branch

@@ -45,12 +45,14 @@ func twoBlocks(r2 float64, cycleColumn bool, cycles int) string {
 // Finding 3: a label reused for another protocol is refused, naming both
 // line ranges; the same protocol repeated under its label is still read.
 func TestReusedProtocolLabel(t *testing.T) {
+	// Block 1 ends and block 2 starts at stretch 1 (lines 12 and 13): a
+	// hold at the low point, where block 2 starts from its own first row.
 	_, err := readString(twoBlocks(0.5, false, 0), Options{})
-	wantParseError(t, err, ErrProtocol, 12, 0, "protocol \"1:1\"", "lines 2–12 and 12–23", "different directions", "own label")
+	wantParseError(t, err, ErrProtocol, 13, 0, "protocol \"1:1\"", "lines 2–12 and 13–23", "different directions", "own label")
 	_, err = readString(twoBlocks(0.5, true, 2), Options{})
 	wantParseError(t, err, ErrProtocol, 13, 0, "lines 2–7 and 13–18", "both hold cycle 1")
 	_, err = readString(twoBlocks(0.5, true, 1), Options{})
-	wantParseError(t, err, ErrProtocol, 12, 0, "lines 2–12 and 12–23", "different directions")
+	wantParseError(t, err, ErrProtocol, 13, 0, "lines 2–12 and 13–23", "different directions")
 	s, err := readString(twoBlocks(1, false, 0), Options{Cycle: CycleAll})
 	if err != nil {
 		t.Fatalf("one protocol in two cycles: %v", err)
@@ -198,5 +200,51 @@ func TestWorkbookBooleansAndDates(t *testing.T) {
 	f.Write(&buf)
 	if _, err := Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"}); err != nil {
 		t.Errorf("display formats: %v", err)
+	}
+}
+
+// A protocol label typed as 1:1 that the spreadsheet stored as the time
+// 1:01 (a fraction of a day, 61/1440, under the h:mm format, numFmtId 20)
+// or as a date is refused with its cell, not read silently as the label
+// "0.042361111111111106" (synthetic workbook; every label cell of the
+// protocol, rows 7 to 12, so that nothing else stops the file).
+func TestWorkbookLabelAsTime(t *testing.T) {
+	for _, c := range []struct {
+		set  func(f *excelize.File, cell string)
+		want []string
+	}{
+		{func(f *excelize.File, cell string) {
+			st, _ := f.NewStyle(&excelize.Style{NumFmt: 20}) // h:mm
+			f.SetCellFloat("SYN-3", cell, 61.0/1440, -1, 64)
+			f.SetCellStyle("SYN-3", cell, cell, st)
+		}, []string{`protocol is the time "`, `1:01"`, "0.04236111", "turned the ratio into a time"}},
+		{func(f *excelize.File, cell string) {
+			f.SetCellValue("SYN-3", cell, time.Date(2024, 1, 2, 0, 0, 0, 0, time.UTC))
+		}, []string{"protocol is the date", "turned the ratio into a date"}},
+	} {
+		f, err := excelize.OpenReader(bytes.NewReader(makeWorkbook(t, "")))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for r := 7; r <= 12; r++ {
+			c.set(f, cellName(1, r))
+		}
+		var buf bytes.Buffer
+		f.Write(&buf)
+		_, err = Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"})
+		pe := wantParseError(t, err, ErrProtocol, 7, 1, append([]string{"tests.xlsx:SYN-3!A7"}, c.want...)...)
+		if !strings.Contains(pe.Fix, "as text") {
+			t.Errorf("fix %q does not say to store the labels as text", pe.Fix)
+		}
+	}
+	// A plain number as a label stays a label.
+	f, _ := excelize.OpenReader(bytes.NewReader(makeWorkbook(t, "")))
+	for r := 7; r <= 12; r++ {
+		f.SetCellInt("SYN-3", cellName(1, r), 2)
+	}
+	var buf bytes.Buffer
+	f.Write(&buf)
+	if s, err := Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"}); err != nil || s.Protocols[0].Label != "2" {
+		t.Errorf("a number as a label: %v", err)
 	}
 }

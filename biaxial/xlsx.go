@@ -141,14 +141,29 @@ func quoteList(xs []string) string {
 var dateLike = regexp.MustCompile(`\d{1,4}\s*[-/.]\s*\d{1,2}\s*[-/.]\s*\d{1,4}|\d{1,2}:\d{2}|(?i)\b(jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)[a-z]*\b`)
 
 // cellTypes refuses a TRUE/FALSE cell or a date where weft reads a number:
-// their raw values (1 or 0, a day count) would otherwise pass for data.
+// their raw values (1 or 0, a day count) would otherwise pass for data. It
+// also refuses a protocol label that the spreadsheet stored as a date or
+// time: a ratio typed as 1:1 becomes the time 1:01, whose raw value (a
+// fraction of a day, 0.0423611…) would otherwise become the label.
 func (p *tableParser) cellTypes(line int, raw, display []string) error {
 	for i := range p.cols {
-		if p.cols[i].role == roleIgnore || p.cols[i].role == roleProtocol || i >= len(raw) || i >= len(display) {
+		if p.cols[i].role == roleIgnore || i >= len(raw) || i >= len(display) {
 			continue
 		}
 		r, d := strings.TrimSpace(raw[i]), strings.TrimSpace(display[i])
 		if r == d || numberSyntax(r) != "" {
+			continue
+		}
+		if p.cols[i].role == roleProtocol {
+			if dateLike.MatchString(d) {
+				what := "date"
+				if strings.Contains(d, ":") {
+					what = "time"
+				}
+				return p.errAt(line, i+1, ErrProtocol, "format the protocol column as text and type the labels again (e.g. 1:1)",
+					"%s is the %s %s (the cell holds the number %s), not a label: the spreadsheet turned the ratio into a %s",
+					p.cols[i].header, what, quote(d), clip(r, 24), what)
+			}
 			continue
 		}
 		switch {

@@ -313,9 +313,11 @@ func outputFolders(jobs []*fitJob, out string) {
 		default:
 			j.dir = filepath.Join(filepath.Dir(j.path), name+".weft")
 		}
-		key := filepath.Clean(j.dir)
+		// Case is ignored: on a case-insensitive disk (macOS, Windows)
+		// the two folders would be one.
+		key := strings.ToLower(filepath.Clean(j.dir))
 		if prev, dup := seen[key]; dup {
-			j.err = badInputf("%s and %s would both write %s (their specimen names give the same folder name); give them different 'specimen' metadata or fit them separately with -o", prev, j.path, j.dir)
+			j.err = badInputf("%s and %s would both write %s (their specimen names give the same folder name, ignoring case); give them different 'specimen' metadata or fit them separately with -o", prev, j.path, j.dir)
 			continue
 		}
 		seen[key] = j.path

@@ -2,6 +2,7 @@ package biaxial
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
 	"regexp"
@@ -54,6 +55,17 @@ func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec 
 	}
 	if sheet == "" {
 		sheet = sheets[0]
+		if len(sheets) > 1 {
+			// A workbook whose first sheet holds notes rather than the
+			// record fails with a header error; say which sheet was read
+			// and which others there are.
+			defer func() {
+				var pe *ParseError
+				if errors.As(err, &pe) && pe.Sheet == sheet && pe.Err == ErrMissingColumn {
+					pe.Fix = strings.TrimSpace(pe.Fix + fmt.Sprintf(" (the first of the workbook's sheets, %s, was read; the others are %s)", quote(sheet), quoteList(sheets[1:])))
+				}
+			}()
+		}
 	} else {
 		found := false
 		for _, s := range sheets {

@@ -94,6 +94,10 @@ func TestXLSXRead(t *testing.T) {
 	if !errors.As(err, &pe) || pe.Sheet != "notes" || !errors.Is(err, ErrMissingColumn) {
 		t.Errorf("first sheet without header: %v", err)
 	}
+	// It names the sheet read and the others, where the record may be.
+	if err == nil || !strings.Contains(err.Error(), `sheets, "notes", was read; the others are "SYN-3"`) {
+		t.Errorf("first sheet without header: the error does not name the other sheets: %v", err)
+	}
 	_, err = ReadFile(path, Options{Sheet: "nope"})
 	if err == nil || !strings.Contains(err.Error(), `no sheet "nope"`) || !strings.Contains(err.Error(), `"SYN-3"`) {
 		t.Errorf("unknown sheet: %v", err)

@@ -220,4 +220,11 @@ func TestCohortDiscovered(t *testing.T) {
 			t.Errorf("%s not written: %v", f, err)
 		}
 	}
+	// report and plan take one fit's folder: given the cohort's, they say
+	// so and name a specimen's folder, instead of asking for a refit.
+	for _, cmd := range []string{"report", "plan"} {
+		if _, stderr, code := runWeft(t, cmd, out, "--force"); code != 2 || !strings.Contains(stderr, "is a cohort's folder") || !strings.Contains(stderr, "C001.weft") {
+			t.Errorf("weft %s on the cohort's folder: exit %d, %s", cmd, code, stderr)
+		}
+	}
 }

@@ -182,6 +182,11 @@ func readPlanFolder(dir string, dl biaxial.Limits, cl card.Limits) (*planning.Fo
 	case !st.IsDir():
 		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
 	}
+	if entries, err := os.ReadDir(dir); err == nil {
+		if err := notCohortFolder(dir, entries); err != nil {
+			return nil, err
+		}
+	}
 	read := func(name string, max int64, cat error) ([]byte, error) {
 		path := filepath.Join(dir, name)
 		b, err := readAtMost(path, max)

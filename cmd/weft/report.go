@@ -156,6 +156,32 @@ func plotsError(err error) error {
 // within the card limits cl, fit.csv and heldout.csv within the file size
 // limit of dl. A folder that lacks what the report needs is bad input
 // (exit 2) with a message saying what is missing and what to type.
+// notCohortFolder refuses, naming what to give instead, a folder that
+// 'weft cohort' wrote (it has cohort.json and no model.json): its report
+// is written with it, and each specimen's folder inside it is a fit's.
+func notCohortFolder(dir string, entries []os.DirEntry) error {
+	var cohort, model bool
+	var first string
+	for _, e := range entries {
+		switch n := e.Name(); {
+		case n == "cohort.json":
+			cohort = true
+		case n == "model.json":
+			model = true
+		case first == "" && e.IsDir() && strings.HasSuffix(n, ".weft"):
+			first = n
+		}
+	}
+	if !cohort || model {
+		return nil
+	}
+	hint := ""
+	if first != "" {
+		hint = fmt.Sprintf(", e.g. %s", filepath.Join(dir, first))
+	}
+	return badInputf("%s is a cohort's folder ('weft cohort' wrote its report with it); give one specimen's folder inside it%s", dir, hint)
+}
+
 func loadReportFolder(dir string, dl biaxial.Limits, cl card.Limits) (*report.Input, error) {
 	st, err := os.Stat(dir)
 	if err != nil {
@@ -171,6 +197,9 @@ func loadReportFolder(dir string, dl biaxial.Limits, cl card.Limits) (*report.In
 	entries, err := os.ReadDir(dir)
 	if err != nil {
 		return nil, badInput(err)
+	}
+	if err := notCohortFolder(dir, entries); err != nil {
+		return nil, err
 	}
 	for _, e := range entries {
 		if !strings.HasPrefix(e.Name(), ".") {

@@ -157,8 +157,12 @@ func (in *Input) isSynthetic() bool {
 	return strings.Contains(text, "SYNTHETIC")
 }
 
-// signUnknown reports whether the fit could not determine angle signs.
-func (in *Input) signUnknown() bool { return !in.fit.AngleSignKnown && len(in.card.Families) > 0 }
+// signUnknown reports whether the data leave the angles' signs unknown:
+// without shear information (data.has_shear, fit.angle_sign_known) a family
+// at α and one at −α give the same normal stresses. It is a property of the
+// data, not of the chosen model: an isotropic pick leaves the sign of every
+// other candidate's angles as unknown as a fibred one does.
+func (in *Input) signUnknown() bool { return !in.fit.AngleSignKnown || !in.data.HasShear }
 
 func reportHTML(in *Input, figs []renderedFigure, o Options) ([]byte, error) {
 	v := in.view(figs, o)

@@ -517,7 +517,11 @@ func (in *Input) formBest(key string) (card.CandidateCard, bool) {
 }
 
 // anglesOf writes a candidate's family angles, ±|α| without shear
-// information, noting two families that point the same way.
+// information, noting two families that point the same way. The note
+// follows the rule discovery applies to the fitted angles (aniso's
+// coincident: within 2°), with or without shear information, so that a
+// pair the search treated as one family (e.g. at ±0.00°, ±0.00°) is
+// marked as such.
 func (in *Input) anglesOf(c card.CandidateCard) string {
 	if len(c.AnglesDeg) == 0 {
 		return "—"
@@ -528,7 +532,7 @@ func (in *Input) anglesOf(c card.CandidateCard) string {
 	}
 	out := strings.Join(s, ", ")
 	if len(c.AnglesDeg) == 2 {
-		if d := math.Abs(aniso.WrapDeg(float64(c.AnglesDeg[0] - c.AnglesDeg[1]))); d < 2 && !in.signUnknown() {
+		if d := math.Abs(aniso.WrapDeg(float64(c.AnglesDeg[0] - c.AnglesDeg[1]))); d < 2 {
 			out += " (coincident: one direction)"
 		}
 	}

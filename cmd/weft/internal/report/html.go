@@ -306,11 +306,11 @@ func PairText(l *card.Layout) string {
 		return ""
 	}
 	if l.PairAxis == "axis-1" {
-		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
+		return fmt.Sprintf("mirror pair at ±%s°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", fixed(*l.HalfAngleDeg, 2))
 	}
 	mean := "-"
 	if l.MeanDeg != nil && !math.IsNaN(*l.MeanDeg) && !math.IsInf(*l.MeanDeg, 0) {
-		mean = trueMinus(fmt.Sprintf("%.2f", *l.MeanDeg))
+		mean = fixed(*l.MeanDeg, 2)
 	}
-	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", mean, *l.HalfAngleDeg)
+	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %s° (the pair's axis learned)", mean, fixed(*l.HalfAngleDeg, 2))
 }

@@ -323,20 +323,26 @@ func (in *Input) parameterSection(v *reportView) {
 		if e.Status == "inactive" && e.Kind != "weight" {
 			continue
 		}
-		val := fsig(float64(e.Value), 4)
+		// Angles in degrees take fixed decimals, as everywhere in the
+		// report: a fitted 1e-19° is 0.00, not a power of ten.
+		num := func(x float64, n int) string { return fsig(x, n) }
+		if e.Kind == "angle" {
+			num = func(x float64, _ int) string { return fixed(x, 2) }
+		}
+		val := num(float64(e.Value), 4)
 		if e.Kind == "angle" && in.signUnknown() && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
-			val = "±" + fsig(math.Abs(float64(e.Value)), 4)
+			val = "±" + num(math.Abs(float64(e.Value)), 4)
 		}
 		iv, from := "—", ""
 		if lo, hi := float64(e.CI95[0]), float64(e.CI95[1]); !math.IsNaN(lo) && !math.IsNaN(hi) {
-			iv, from = "["+fsig(lo, 3)+", "+fsig(hi, 3)+"]", "Wald"
+			iv, from = "["+num(lo, 3)+", "+num(hi, 3)+"]", "Wald"
 		}
 		if p, ok := in.profileOf(e.Name); ok && e.Kind == "angle" {
 			switch {
 			case p.NotDetermined:
 				iv, from = "none excluded", "profile"
 			default:
-				iv, from = "["+fsig(float64(p.IntervalDeg[0]), 4)+", "+fsig(float64(p.IntervalDeg[1]), 4)+"]", "profile"
+				iv, from = "["+num(float64(p.IntervalDeg[0]), 4)+", "+num(float64(p.IntervalDeg[1]), 4)+"]", "profile"
 				if !p.Closed {
 					from = "profile (open)"
 				}
@@ -629,8 +635,16 @@ func (in *Input) conventionsSection(v *reportView) {
 // after a space, an opening bracket, a ± or the start.
 var minusPattern = regexp.MustCompile(`(^|[\s(\[±=,;:])-(\d)`)
 
-// minusSigns writes the minus signs of numbers in free text as U+2212.
-func minusSigns(s string) string { return minusPattern.ReplaceAllString(s, "${1}−${2}") }
+// negativeZeroAngle finds an angle that rounded to zero with its sign kept
+// ("-0.0°", "−0.00°"), which free text from the card can hold.
+var negativeZeroAngle = regexp.MustCompile(`(^|[\s(\[±=,;:])(?:-|−)(0(?:\.0+)?°)`)
+
+// minusSigns writes the minus signs of numbers in free text as U+2212, and
+// an angle that rounds to zero without a sign.
+func minusSigns(s string) string {
+	s = negativeZeroAngle.ReplaceAllString(s, "${1}${2}")
+	return minusPattern.ReplaceAllString(s, "${1}−${2}")
+}
 
 // capitalise starts a sentence with a capital letter.
 func capitalise(s string) string {

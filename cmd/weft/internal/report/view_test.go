@@ -64,3 +64,37 @@ func TestLayoutAnglesSignFromTheData(t *testing.T) {
 		}
 	}
 }
+
+// Angles print in fixed decimals everywhere in the report: a fitted angle
+// of 9.644e−20° (cmd/weft/testdata/spread-pair-40-sutured.csv) is 0.00 in
+// the parameter table, not a power of ten, and a tiny negative angle is
+// 0.00°, not −0.00°, also in the card's free text and a pair's geometry;
+// other angles keep their sign with a true minus.
+func TestAnglesInFixedDecimals(t *testing.T) {
+	for _, c := range []struct {
+		a    float64
+		want string
+	}{{9.644029744893693e-20, "0.00°"}, {-1e-9, "0.00°"}, {-0.004, "0.00°"}, {-24.974919, "−24.97°"}, {89.999, "90.00°"}} {
+		if got := fmtDeg(c.a); got != c.want {
+			t.Errorf("fmtDeg(%g) = %q, want %q", c.a, got, c.want)
+		}
+	}
+	in := discoveredInput(true, []float64{9.644029744893693e-20}, nil, nil)
+	in.fit.Estimates = []card.EstimateCard{{Name: "angle", Kind: "angle", Value: 9.644029744893693e-20, Unit: "deg", StdErr: 0.36, CI95: [2]card.Num{-1e-19, 0.7}, Status: "estimated"}}
+	in.fit.Profiles = []card.ProfileCard{{Name: "angle", IntervalDeg: [2]card.Num{-0.7015, 0.7015}, Closed: true}}
+	v := &reportView{}
+	in.parameterSection(v)
+	if len(v.Params.Rows) != 1 {
+		t.Fatalf("%d parameter rows, want 1", len(v.Params.Rows))
+	}
+	if r := v.Params.Rows[0].Cells; r[1] != "0.00" || r[2] != "[−0.70, 0.70]" {
+		t.Errorf("angle row %q, want value 0.00 and interval [−0.70, 0.70]", r)
+	}
+	if got := minusSigns("Ruled out 1+dispersed (-0.0°): at -0.05° and -12.5°"); got != "Ruled out 1+dispersed (0.0°): at −0.05° and −12.5°" {
+		t.Errorf("free text: %q", got)
+	}
+	mean, half := -1e-12, 40.0
+	if got := PairText(&card.Layout{Kind: "mirror", MeanDeg: &mean, HalfAngleDeg: &half}); !strings.Contains(got, "θ = 0.00°, β = 40.00°") {
+		t.Errorf("pair geometry: %q", got)
+	}
+}

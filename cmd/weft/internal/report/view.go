@@ -555,12 +555,11 @@ func (in *Input) selectionSection(v *reportView) {
 	}
 	v.HasSelection = true
 	v.Rule, v.Metric = capitalise(minusSigns(sel.Rule)), sel.HeldoutMetric
-	// Each layout's search in its first clause; model.json has the rest.
+	// Every search note whole: a note's clauses are separate facts (which
+	// candidates were left out and why, the optima a search started
+	// from), so a cut note would drop some of them.
 	for _, s := range sel.Search {
-		if i := strings.Index(s, " at "); i > 0 {
-			s = s[:i]
-		}
-		v.Search = append(v.Search, capitalise(s))
+		v.Search = append(v.Search, capitalise(sentence(minusSigns(s))))
 	}
 	head := []string{"model form", "terms", "parameters", "BIC", "held-out error", "lowest R²"}
 	num := []bool{false, false, true, true, true, true}

@@ -98,3 +98,27 @@ func TestAnglesInFixedDecimals(t *testing.T) {
 		t.Errorf("pair geometry: %q", got)
 	}
 }
+
+// The search notes (card selection.search) are shown whole: cutting each
+// at its first " at " dropped whole clauses, such as the candidates left
+// out because their two families point the same way (demo
+// membrane-M3-sutured) or the concentration bound's value (membrane-M1).
+// The notes here are those of the demo cards.
+func TestSearchNotesShownWhole(t *testing.T) {
+	notes := []string{
+		"none: exhaustive search of 2379 term subsets of 13 candidates (sizes 1–5) at 1 local optima of the full candidate fit, then forward steps adding to the best refitted model of each size each of the 3 terms that reduce the loss most",
+		"mirror+dispersed: the best model of each size of the mirror layout within ΔBIC 10 of its best (0) refitted with its families spread in the plane (concentration learned); 1 more left out because their two families point the same way (within 2°), which is one family",
+		"cross-validation: 5 of the 15 candidates cross-validated; 6 left out because their BIC is more than 10 above their form's best; single+dispersed-t3-p5, free+dispersed-t3-p10 left out because every family of theirs is spread at the fit's bound on the concentration (b = 200, an ideal family within the resolution of a fitted angle), which makes them their ideal form's model with a parameter more; mirror-t2-p5, mirror-t2-p6 left out because their two families point the same way (within 2°), which makes them a one-family model with parameters more",
+	}
+	in := discoveredInput(true, []float64{-25}, &card.SelectionSection{Search: notes}, nil)
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.selectionSection(v)
+	if len(v.Search) != len(notes) {
+		t.Fatalf("%d search notes shown, want %d", len(v.Search), len(notes))
+	}
+	for i, n := range notes {
+		if want := capitalise(n) + "."; v.Search[i] != want {
+			t.Errorf("note %d shown as\n%q\nwant the whole note\n%q", i, v.Search[i], want)
+		}
+	}
+}

@@ -86,3 +86,50 @@ func TestReportLayoutAnglesWithoutShear(t *testing.T) {
 		t.Errorf("no angles in the table of fibre layouts: %q", rows)
 	}
 }
+
+// On every demo specimen the caption of the table of model forms gives
+// the reasons the card's cross-validation note gives: as many candidates
+// beyond the BIC window as the note counts, and each candidate the note
+// names as spread at the concentration bound or as two families pointing
+// the same way, by name (membrane-M1: 3 of 17 at the bound;
+// membrane-M3-sutured: 4 of 10; patch-P2: 2 of 28).
+func TestReportNotCrossValidatedReasonsOnDemos(t *testing.T) {
+	t.Parallel()
+	far := regexp.MustCompile(`; (\d+) left out because their BIC is more than 10 above`)
+	named := regexp.MustCompile(`; ([^;]+?) left out because (every family of theirs is spread|their two families point the same way)`)
+	for name, rare := range map[string]int{"membrane-M1": 3, "membrane-M3-sutured": 4, "patch-P2": 2} {
+		dir := filepath.Join(demoFits(t).dir, name+".weft")
+		c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
+		note := ""
+		for _, s := range c.Selection.Search {
+			if strings.HasPrefix(s, "cross-validation:") {
+				note = s
+			}
+		}
+		m := far.FindStringSubmatch(note)
+		if m == nil {
+			t.Fatalf("%s: no cross-validation note with a count: %q", name, c.Selection.Search)
+		}
+		page := readReport(t, dir)
+		caption := regexp.MustCompile(`The \d+ cross-validated forms of the \d+ the search kept\.[^<]*`).FindString(page)
+		caption = html.UnescapeString(caption)
+		if want := m[1] + " with a BIC more than 10 above their form's best"; !strings.Contains(caption, want) {
+			t.Errorf("%s: caption lacks %q:\n%s", name, want, caption)
+		}
+		n := 0
+		for _, g := range named.FindAllStringSubmatch(note, -1) {
+			for _, cand := range strings.Split(g[1], ", ") {
+				n++
+				if !strings.Contains(caption, cand) {
+					t.Errorf("%s: caption does not name %s (%s):\n%s", name, cand, g[2], caption)
+				}
+			}
+		}
+		if n != rare {
+			t.Errorf("%s: the note names %d candidates at the bound or pointing the same way, want %d", name, n, rare)
+		}
+		if strings.Contains(caption, "ΔBIC 10 from the best of their layout") {
+			t.Errorf("%s: caption still gives the BIC window as the only reason:\n%s", name, caption)
+		}
+	}
+}

@@ -571,12 +571,10 @@ func (in *Input) selectionSection(v *reportView) {
 		}
 	}
 	// The forms that were cross-validated compete for the pick; the others
-	// (more than ΔBIC 10 from their layout's best) are counted, and listed
-	// in selection.csv and model.json.
-	others := 0
+	// are counted by why they were left out (leftOutOf), and listed in
+	// selection.csv and model.json.
 	for _, cc := range sel.Pareto {
 		if bad(float64(cc.HeldoutError)) && !cc.Chosen {
-			others++
 			continue
 		}
 		mark := ""
@@ -585,9 +583,9 @@ func (in *Input) selectionSection(v *reportView) {
 		}
 		v.Pareto.Rows = append(v.Pareto.Rows, htmlRow{Cells: append(candidateCells(cc), mark), Mark: cc.Chosen})
 	}
-	if others > 0 {
-		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept; the other %d, more than ΔBIC 10 from the best of their layout, were not cross-validated and are listed with their loss, AICc and BIC in selection.csv and model.json.",
-			len(sel.Pareto)-others, len(sel.Pareto), others)
+	if lo := leftOutOf(sel); lo.total() > 0 {
+		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept. The other %d were not cross-validated: %s. selection.csv and model.json list them with their loss, AICc and BIC.",
+			len(sel.Pareto)-lo.total(), len(sel.Pareto), lo.total(), strings.Join(lo.reasons(true), "; "))
 	}
 	v.Presets = htmlTable{Head: append(append([]string{}, head...), "ΔBIC vs chosen"), Num: append(append([]bool{}, num...), true), Wide: 1}
 	for _, cc := range sel.Presets {

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -120,5 +121,61 @@ func TestSearchNotesShownWhole(t *testing.T) {
 		if want := capitalise(n) + "."; v.Search[i] != want {
 			t.Errorf("note %d shown as\n%q\nwant the whole note\n%q", i, v.Search[i], want)
 		}
+	}
+}
+
+// Candidates are left out of cross-validation for three reasons (aniso's
+// crossValidate): a BIC more than 10 above their form's best, every
+// family spread at the concentration bound (b = 200, an ideal family), or
+// two families pointing the same way. The caption of the table of model
+// forms and that of the selection figure give each reason with its count,
+// read from the cross-validation note (which names the candidates of the
+// last two) and the candidates' BIC; a candidate whose folds were run but
+// has no mean error is said to be so. The note and names follow demo
+// membrane-M3-sutured's card.
+func TestNotCrossValidatedReasons(t *testing.T) {
+	cand := func(name, layout string, inPlane bool, bic, heldout float64) card.CandidateCard {
+		return card.CandidateCard{Name: name, Layout: layout, InPlane: inPlane, BIC: card.Num(bic), HeldoutError: card.Num(heldout), HeldoutStdErr: card.Num(heldout / 20), Parameters: 3}
+	}
+	nan := math.NaN()
+	sel := &card.SelectionSection{Chosen: "single-t2-p3", Pareto: []card.CandidateCard{
+		cand("single-t2-p3", "single", false, -100, 0.010),
+		cand("single-t3-p4", "single", false, -85, nan),
+		cand("single+dispersed-t3-p5", "single", true, -99, nan),
+		cand("mirror-t2-p5", "mirror", false, -98, nan),
+		cand("mirror-t2-p6", "mirror", false, -97, nan),
+		cand("free-t3-p8", "free", false, -95, 0.011),
+		cand("free-t4-p9", "free", false, -94, nan),
+	}, Search: []string{"cross-validation: 3 of the 7 candidates cross-validated; 1 left out because their BIC is more than 10 above their form's best; " +
+		"single+dispersed-t3-p5 left out because every family of theirs is spread at the fit's bound on the concentration (b = 200, an ideal family within the resolution of a fitted angle), which makes them their ideal form's model with a parameter more; " +
+		"mirror-t2-p5, mirror-t2-p6 left out because their two families point the same way (within 2°), which makes them a one-family model with parameters more"}}
+	sel.Pareto[0].Chosen = true
+	sel.Pareto[6].HeldoutFolds = []card.FoldCard{{Protocol: "1:1", Error: card.Num(math.Inf(1))}}
+	in := discoveredInput(true, []float64{-25}, sel, nil)
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.selectionSection(v)
+	for _, want := range []string{
+		"The 2 cross-validated forms of the 7 the search kept. The other 5 were not cross-validated: ",
+		"1 with a BIC more than 10 above its form's best; ",
+		"1 (single+dispersed-t3-p5) with every family spread at the fit's bound on the concentration (b = 200), an ideal family, which makes it its ideal form's model with a parameter more; ",
+		"2 (mirror-t2-p5, mirror-t2-p6) whose two families point the same way (within 2°), which is one family; ",
+		"1 (free-t4-p9) cross-validated but without a held-out error, as the refit of a fold failed.",
+	} {
+		if !strings.Contains(v.ParetoNote, want) {
+			t.Errorf("table caption lacks %q:\n%s", want, v.ParetoNote)
+		}
+	}
+	if len(v.Pareto.Rows) != 2 {
+		t.Errorf("%d rows in the table of model forms, want the 2 cross-validated", len(v.Pareto.Rows))
+	}
+	f := in.paretoFigure()
+	if f == nil {
+		t.Fatal("no selection figure")
+	}
+	want := "5 forms were not cross-validated and are not shown (selection.csv and model.json list them): 1 with a BIC more than 10 above its form's best; " +
+		"1 with every family spread at the fit's bound on the concentration (b = 200), an ideal family; 2 whose two families point the same way (within 2°); " +
+		"1 cross-validated but without a held-out error, as the refit of a fold failed."
+	if !strings.Contains(f.caption, want) || strings.Contains(f.caption, "within ΔBIC 10") || strings.Contains(f.caption, "see the table") {
+		t.Errorf("figure caption:\n%s\nwant\n%s", f.caption, want)
 	}
 }

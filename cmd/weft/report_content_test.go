@@ -1,6 +1,8 @@
 package main
 
 import (
+	"encoding/json"
+	"fmt"
 	"html"
 	"os"
 	"path/filepath"
@@ -130,6 +132,58 @@ func TestReportNotCrossValidatedReasonsOnDemos(t *testing.T) {
 		}
 		if strings.Contains(caption, "ΔBIC 10 from the best of their layout") {
 			t.Errorf("%s: caption still gives the BIC window as the only reason:\n%s", name, caption)
+		}
+	}
+}
+
+// The admissibility table's default-grid column says what 'weft check
+// --json' says of the same card on the same grid: the points evaluated,
+// those failing and, apart, those unresolved, which the check neither
+// passes nor fails (demo membrane-M1: 1 of 3249, which the table wrote as
+// "passes (3249 points)").
+func TestReportAdmissibilityAsCheck(t *testing.T) {
+	t.Parallel()
+	for _, name := range []string{"membrane-M1", "membrane-M3-sutured", "patch-P2"} {
+		dir := filepath.Join(demoFits(t).dir, name+".weft")
+		out, errs, code := runWeft(t, "check", filepath.Join(dir, "model.json"), "--json")
+		if code != 0 {
+			t.Fatalf("%s: weft check: exit %d: %s", name, code, errs)
+		}
+		var rep struct {
+			Grid struct {
+				Evaluated int `json:"evaluated"`
+			} `json:"grid"`
+			Stability struct {
+				Passed     bool `json:"passed"`
+				Failing    int  `json:"failing_points"`
+				Unresolved int  `json:"unresolved_points"`
+			} `json:"material_stability"`
+		}
+		if err := json.Unmarshal([]byte(out), &rep); err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		rows := reportTable(readReport(t, dir), "check")
+		if len(rows) < 3 || !strings.HasPrefix(rows[0][len(rows[0])-1], "default grid") {
+			t.Fatalf("%s: no admissibility table with a default-grid column: %q", name, rows)
+		}
+		var got string
+		for _, r := range rows {
+			if r[0] == "material stability" {
+				got = r[len(r)-1]
+			}
+		}
+		s, n := rep.Stability, rep.Grid.Evaluated
+		want := fmt.Sprintf("passes (%d points)", n)
+		switch {
+		case !s.Passed && s.Unresolved > 0:
+			want = fmt.Sprintf("fails at %d of %d points; %d unresolved", s.Failing, n, s.Unresolved)
+		case !s.Passed:
+			want = fmt.Sprintf("fails at %d of %d points", s.Failing, n)
+		case s.Unresolved > 0:
+			want = fmt.Sprintf("passes on %d of %d points; %d unresolved", n-s.Unresolved, n, s.Unresolved)
+		}
+		if got != want {
+			t.Errorf("%s: material stability on the default grid %q; weft check says %q", name, got, want)
 		}
 	}
 }

@@ -179,3 +179,24 @@ func TestNotCrossValidatedReasons(t *testing.T) {
 		t.Errorf("figure caption:\n%s\nwant\n%s", f.caption, want)
 	}
 }
+
+// A grid point whose eigenvalue is round-off is neither passed nor failed
+// by weft check (unresolved_points); the admissibility table does not
+// count it as passed: demo membrane-M1 on the default grid has 1 of 3249
+// such points, which the table wrote as "passes (3249 points)".
+func TestCheckCellKeepsUnresolvedApart(t *testing.T) {
+	for _, c := range []struct {
+		passed                         bool
+		failing, evaluated, unresolved int
+		want                           string
+	}{
+		{true, 0, 3249, 1, "passes on 3248 of 3249 points; 1 unresolved"},
+		{true, 0, 169, 0, "passes (169 points)"},
+		{false, 12, 3249, 3, "fails at 12 of 3249 points; 3 unresolved"},
+		{false, 12, 3249, 0, "fails at 12 of 3249 points"},
+	} {
+		if got := checkCell(c.passed, c.failing, c.evaluated, c.unresolved); got != c.want {
+			t.Errorf("checkCell(%v, %d, %d, %d) = %q, want %q", c.passed, c.failing, c.evaluated, c.unresolved, got, c.want)
+		}
+	}
+}

@@ -187,3 +187,26 @@ func TestReportAdmissibilityAsCheck(t *testing.T) {
 		}
 	}
 }
+
+// The methods paragraph of each demo report states its card's family
+// verdict before the chosen model: undecided (patch-P2), one family or a
+// mirror pair (membrane-M1), one family (membrane-M3-sutured).
+func TestReportMethodsStateTheVerdictOnDemos(t *testing.T) {
+	t.Parallel()
+	methods := regexp.MustCompile(`(?s)<p class="methods">(.*?)</p>`)
+	for name, want := range map[string]string{
+		"patch-P2":            "The comparison of the fibre layouts left the number of fibre families undecided",
+		"membrane-M1":         "The comparison of the fibre layouts supported one fibre direction at ±29.98°, which may be one family or a mirror pair",
+		"membrane-M3-sutured": "The comparison of the fibre layouts supported one fibre family. The resulting model is",
+	} {
+		dir := filepath.Join(demoFits(t).dir, name+".weft")
+		c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
+		m := methods.FindStringSubmatch(readReport(t, dir))
+		if m == nil {
+			t.Fatalf("%s: no methods paragraph", name)
+		}
+		if text := html.UnescapeString(m[1]); !strings.Contains(text, want) {
+			t.Errorf("%s (verdict %s): methods lack %q", name, c.Verdict.Families, want)
+		}
+	}
+}

@@ -362,9 +362,12 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		fmt.Fprintf(&b, "The model form %s with a %s fibre layout was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
 	}
 	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988), fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ")
+	b.WriteString(in.verdictWords())
 	b.WriteString("The resulting model is " + energyMark)
 	if fams := in.familyWords(); fams != "" {
 		b.WriteString(" with " + fams)
+	} else if in.verdict != nil {
+		b.WriteString(" with no fibre family")
 	}
 	b.WriteString(" (stresses in " + c.StressUnit + ")")
 	if low := lowestR2(fs.Metrics); !math.IsInf(low, 1) {
@@ -411,6 +414,77 @@ func keptWords(d card.DataSection) string {
 		}
 	}
 	return k
+}
+
+// verdictWords states the family verdict as discovery gave it, as the
+// sentence before the chosen model in the methods paragraph, or is empty
+// without a verdict (a form fitted as asked). The chosen model's families
+// are not the verdict: an undecided verdict or one that cannot tell one
+// family from a mirror pair still picks a model with some families, and a
+// paper quoting the paragraph must not report them as settled.
+func (in *Input) verdictWords() string {
+	vd := in.verdict
+	if vd == nil {
+		return ""
+	}
+	const lead = "The comparison of the fibre layouts "
+	switch vd.Families {
+	case "0":
+		return lead + "supported no fibre family (an isotropic material). "
+	case "1":
+		return lead + "supported one fibre family. "
+	case "2":
+		return lead + "supported two fibre families. "
+	case "1-or-mirror-pair":
+		dir := "one fibre direction"
+		if a, ok := in.oneDirection(); ok {
+			dir += " at " + a
+		}
+		return lead + "supported " + dir + ", which may be one family or a mirror pair: the data carry no shear information, so they cannot tell the two apart. "
+	case "undecided":
+		s := lead + "left the number of fibre families undecided, as the data do not settle it"
+		if in.chosenInVerdictForm() {
+			s += "; the chosen model is of the form best supported so far, not a settled answer"
+		}
+		return s + ". "
+	}
+	return lead + "gave the family verdict " + vd.Families + ". "
+}
+
+// oneDirection is the chosen model's single fibre direction written ±|α|,
+// when its families all lie at one |α| (one family, or a mirror pair the
+// data cannot tell from one; within the 2° of discovery's coincidence
+// rule).
+func (in *Input) oneDirection() (string, bool) {
+	var abs []float64
+	for _, f := range in.card.Families {
+		if f.AngleDeg != nil {
+			abs = append(abs, math.Abs(*f.AngleDeg))
+		}
+	}
+	if len(abs) == 0 {
+		return "", false
+	}
+	for _, a := range abs[1:] {
+		if math.Abs(a-abs[0]) >= 2 {
+			return "", false
+		}
+	}
+	return "±" + fmtDeg(abs[0]), true
+}
+
+// chosenInVerdictForm reports whether the chosen model belongs to the form
+// the verdict rests on.
+func (in *Input) chosenInVerdictForm() bool {
+	if in.sel == nil || in.verdict == nil {
+		return false
+	}
+	for _, c := range in.sel.Pareto {
+		if c.Chosen {
+			return verdictKey(c) == in.verdict.Form
+		}
+	}
+	return false
 }
 
 // familyWords describes the fitted families, e.g. "one fibre family at

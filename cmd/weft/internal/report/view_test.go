@@ -200,3 +200,51 @@ func TestCheckCellKeepsUnresolvedApart(t *testing.T) {
 		}
 	}
 }
+
+// The methods paragraph, meant to be quoted in a paper, states the family
+// verdict as discovery gave it before the chosen model's fibres: an
+// undecided verdict (demo patch-P2) is not written as "one fibre family at
+// ±0.00°" alone, and one that cannot tell one family from a mirror pair
+// (demo membrane-M1) says so with the direction; a form fitted as asked
+// has no verdict to state.
+func TestMethodsStateTheVerdict(t *testing.T) {
+	sel := func(layout string) *card.SelectionSection {
+		return &card.SelectionSection{Chosen: "c", Pareto: []card.CandidateCard{{Name: "c", Layout: layout, Chosen: true, HeldoutError: card.Num(math.NaN())}}}
+	}
+	for _, c := range []struct {
+		name      string
+		shear     bool
+		fams      []float64
+		sel       *card.SelectionSection
+		vd        *card.VerdictSection
+		want, not []string
+	}{
+		{"undecided (patch-P2)", false, []float64{0}, sel("single"), &card.VerdictSection{Families: "undecided", Form: "1"},
+			[]string{"The comparison of the fibre layouts left the number of fibre families undecided, as the data do not settle it; the chosen model is of the form best supported so far, not a settled answer. The resulting model is ", " with one fibre family at ±0.00° (stresses in kPa)"},
+			[]string{"supported one"}},
+		{"undecided, isotropic pick", false, nil, sel("none"), &card.VerdictSection{Families: "undecided", Form: "0"},
+			[]string{"left the number of fibre families undecided", " with no fibre family (stresses in kPa)"}, nil},
+		{"1-or-mirror-pair (membrane-M1)", false, []float64{29.979}, sel("single"), &card.VerdictSection{Families: "1-or-mirror-pair", Form: "1"},
+			[]string{"supported one fibre direction at ±29.98°, which may be one family or a mirror pair: the data carry no shear information, so they cannot tell the two apart. The resulting model is ", " with one fibre family at ±29.98°"},
+			[]string{"undecided"}},
+		{"1 (membrane-M3-sutured)", true, []float64{-24.9749}, sel("single"), &card.VerdictSection{Families: "1", Form: "1"},
+			[]string{"The comparison of the fibre layouts supported one fibre family. The resulting model is ", " with one fibre family at −24.97°"}, []string{"±"}},
+		{"fitted as asked", true, []float64{-24.9749}, nil, nil,
+			[]string{"The resulting model is ", " with one fibre family at −24.97°"}, []string{"comparison of the fibre layouts"}},
+	} {
+		in := discoveredInput(c.shear, c.fams, c.sel, c.vd)
+		v := &reportView{}
+		in.methodsSection(v, Options{})
+		m := string(v.Methods)
+		for _, w := range c.want {
+			if !strings.Contains(m, w) {
+				t.Errorf("%s: methods lack %q:\n%s", c.name, w, m)
+			}
+		}
+		for _, w := range c.not {
+			if strings.Contains(m, w) {
+				t.Errorf("%s: methods say %q:\n%s", c.name, w, m)
+			}
+		}
+	}
+}

@@ -82,10 +82,11 @@ func fmtR2(r float64) string {
 	return trueMinus(fmt.Sprintf("%.4f", r))
 }
 
-// fmtDeg formats an angle in degrees.
+// fmtDeg formats an angle in degrees with two fixed decimals: an angle
+// that rounds to zero is "0.00°", neither a power of ten nor "−0.00°".
 func fmtDeg(a float64) string {
 	if math.IsNaN(a) {
 		return "n/a"
 	}
-	return trueMinus(fmt.Sprintf("%.2f°", a))
+	return fixed(a, 2) + "°"
 }

@@ -157,8 +157,12 @@ func (in *Input) isSynthetic() bool {
 	return strings.Contains(text, "SYNTHETIC")
 }
 
-// signUnknown reports whether the fit could not determine angle signs.
-func (in *Input) signUnknown() bool { return !in.fit.AngleSignKnown && len(in.card.Families) > 0 }
+// signUnknown reports whether the data leave the angles' signs unknown:
+// without shear information (data.has_shear, fit.angle_sign_known) a family
+// at α and one at −α give the same normal stresses. It is a property of the
+// data, not of the chosen model: an isotropic pick leaves the sign of every
+// other candidate's angles as unknown as a fibred one does.
+func (in *Input) signUnknown() bool { return !in.fit.AngleSignKnown || !in.data.HasShear }
 
 func reportHTML(in *Input, figs []renderedFigure, o Options) ([]byte, error) {
 	v := in.view(figs, o)
@@ -302,11 +306,11 @@ func PairText(l *card.Layout) string {
 		return ""
 	}
 	if l.PairAxis == "axis-1" {
-		return fmt.Sprintf("mirror pair at ±%.2f°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", *l.HalfAngleDeg)
+		return fmt.Sprintf("mirror pair at ±%s°, symmetric about axis 1 (the pair's axis held on axis 1, as published)", fixed(*l.HalfAngleDeg, 2))
 	}
 	mean := "-"
 	if l.MeanDeg != nil && !math.IsNaN(*l.MeanDeg) && !math.IsInf(*l.MeanDeg, 0) {
-		mean = trueMinus(fmt.Sprintf("%.2f", *l.MeanDeg))
+		mean = fixed(*l.MeanDeg, 2)
 	}
-	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %.2f° (the pair's axis learned)", mean, *l.HalfAngleDeg)
+	return fmt.Sprintf("mirror pair at θ ± β with θ = %s°, β = %s° (the pair's axis learned)", mean, fixed(*l.HalfAngleDeg, 2))
 }

@@ -461,7 +461,9 @@ func (in *Input) paretoFigure() *figure {
 	byForm := map[string][]pt{}
 	var forms []string
 	lo, hi, xmax := math.Inf(1), 0.0, 1.0
-	skipped := 0
+	// zero counts cross-validated forms whose held-out error of zero a
+	// log scale cannot show.
+	zero := 0
 	add := func(c card.CandidateCard) (pt, bool) {
 		y, se := float64(c.HeldoutError), float64(c.HeldoutStdErr)
 		if bad(y) || !(y > 0) {
@@ -477,7 +479,9 @@ func (in *Input) paretoFigure() *figure {
 	for _, c := range sel.Pareto {
 		q, ok := add(c)
 		if !ok {
-			skipped++
+			if !bad(float64(c.HeldoutError)) {
+				zero++
+			}
 			continue
 		}
 		k := verdictKey(c)
@@ -511,10 +515,13 @@ func (in *Input) paretoFigure() *figure {
 	}
 	lh := legendHeight(len(legend), 3)
 	h := 2.6*vg.Inch + lh + vg.Points(6)
-	caption := "Every model form of the search that was cross-validated (the front's forms within ΔBIC 10 of their layout's best) and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used — against the number of parameters, with ± one standard error over the folds (log scale). " +
+	caption := "Every model form of the search that was cross-validated and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used — against the number of parameters, with ± one standard error over the folds (log scale). " +
 		"Open markers: ideal fibre families; filled: families spread in the plane or by κ. The ring marks the chosen model (" + sel.Chosen + "): the smallest model of the verdict's form whose held-out error lies under the dotted threshold (that form's best plus one standard error)."
-	if skipped > 0 {
-		caption += fmt.Sprintf(" %d forms were not cross-validated and are not shown (see the table).", skipped)
+	if lo := leftOutOf(sel); lo.total() > 0 {
+		caption += fmt.Sprintf(" %d forms were not cross-validated and are not shown (selection.csv and model.json list them): %s.", lo.total(), strings.Join(lo.reasons(false), "; "))
+	}
+	if zero > 0 {
+		caption += fmt.Sprintf(" %d cross-validated forms with a held-out error of zero are not shown on the log scale.", zero)
 	}
 	f := &figure{name: "pareto", w: figWidth, h: h, title: "Model size against held-out error", caption: caption}
 	f.draw = func(dc draw.Canvas) error {

@@ -7,10 +7,11 @@
 // them (WriteSelectionTable), in tables.go and curvetable.go.
 //
 // Parse (load.go) reads a folder; Build (report.go) draws it: the page's
-// sections are built by small functions in view.go and sections.go into
-// the template report.html (html.go), the plots in plots*.go, the
-// formulas as MathML in mathml.go. export.go holds what the cohort report
-// reuses of the drawing.
+// sections are built by small functions in view.go and sections.go
+// (leftout.go reads from the card why candidates were not
+// cross-validated) into the template report.html (html.go), the plots in
+// plots*.go, the formulas as MathML in mathml.go. export.go holds what the
+// cohort report reuses of the drawing.
 package report
 
 import "path"

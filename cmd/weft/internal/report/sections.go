@@ -40,6 +40,7 @@ func (in *Input) admissibleSection(v *reportView) {
 	}{fmt.Sprintf("default grid: λ %s to %s, shear ±%s", fsig(d.StretchMin, 2), fsig(d.StretchMax, 2), fsig(d.ShearMax, 2)), d})
 	v.Admissible = htmlTable{Head: []string{"check"}}
 	var reps []*fe.CheckReport
+	var short []string // each report's grid in a few words
 	for _, g := range grids {
 		rep, err := fe.CheckCard("model.json", in.card, in.model, g.g, in.dataRange)
 		if err != nil {
@@ -47,6 +48,7 @@ func (in *Input) admissibleSection(v *reportView) {
 			continue
 		}
 		reps = append(reps, rep)
+		short = append(short, strings.SplitN(g.name, ":", 2)[0])
 		v.Admissible.Head = append(v.Admissible.Head, g.name)
 	}
 	if len(reps) == 0 {
@@ -59,18 +61,15 @@ func (in *Input) admissibleSection(v *reportView) {
 		}
 		v.Admissible.Rows = append(v.Admissible.Rows, htmlRow{Cells: cells})
 	}
-	pass := func(ok bool, failing, of int) string {
-		if ok {
-			return fmt.Sprintf("passes (%d points)", of)
-		}
-		return fmt.Sprintf("fails at %d of %d points", failing, of)
-	}
 	row("stress-free reference", func(r *fe.CheckReport) string { return passWord(r.Reference.Passed) })
+	// weft check counts a point whose eigenvalue of either criterion is
+	// round-off once, under material stability (unresolved_points); both
+	// criteria's cells say so, as neither passed nor failed it.
 	row("material stability", func(r *fe.CheckReport) string {
-		return pass(r.Stability.Passed, r.Stability.FailingPoints, r.Grid.Evaluated)
+		return checkCell(r.Stability.Passed, r.Stability.FailingPoints, r.Grid.Evaluated, r.Stability.Unresolved)
 	})
 	row("strong ellipticity", func(r *fe.CheckReport) string {
-		return pass(r.Ellipticity.Passed, r.Ellipticity.FailingPoints, r.Grid.Evaluated)
+		return checkCell(r.Ellipticity.Passed, r.Ellipticity.FailingPoints, r.Grid.Evaluated, r.Stability.Unresolved)
 	})
 	row("polyconvexity of every term", func(r *fe.CheckReport) string {
 		if r.Polyconvexity.AllTerms {
@@ -79,6 +78,16 @@ func (in *Input) admissibleSection(v *reportView) {
 		return "no (reported, not failed)"
 	})
 	row("overall", func(r *fe.CheckReport) string { return passWord(r.Passed) })
+	for i, r := range reps {
+		if u := r.Stability.Unresolved; u > 0 {
+			is, it := "points are", "them"
+			if u == 1 {
+				is, it = "point is", "it"
+			}
+			v.AdmissibleNote = append(v.AdmissibleNote, fmt.Sprintf("On the %s %d %s not resolved: an eigenvalue of the stability or the ellipticity criterion lies closer to zero than %s times the tangent's largest entry (round-off, where exponential terms make the tangent huge), so weft check neither passes nor fails %s (unresolved_points); the rows above count %s apart.",
+				short[i], u, is, fsig(aniso.RelativeResolution, 1), it, it))
+		}
+	}
 	// The default grid reaches beyond the data by design; its many
 	// extrapolation warnings are one sentence here.
 	seen := map[string]bool{}
@@ -98,6 +107,22 @@ func (in *Input) admissibleSection(v *reportView) {
 	if beyond {
 		v.AdmissibleNote = append(v.AdmissibleNote, "The default grid reaches beyond the fitted data (stretches, shear and fibre stretch): there the check tests the formula, not a model supported by data; weft check lists each quantity.")
 	}
+}
+
+// checkCell writes a grid criterion's outcome over the evaluated points:
+// the points that passed or failed and, apart, the unresolved ones, which
+// weft check neither passes nor fails, so that a pass does not claim them.
+func checkCell(passed bool, failing, evaluated, unresolved int) string {
+	if unresolved > 0 {
+		if passed {
+			return fmt.Sprintf("passes on %d of %d points; %d unresolved", evaluated-unresolved, evaluated, unresolved)
+		}
+		return fmt.Sprintf("fails at %d of %d points; %d unresolved", failing, evaluated, unresolved)
+	}
+	if passed {
+		return fmt.Sprintf("passes (%d points)", evaluated)
+	}
+	return fmt.Sprintf("fails at %d of %d points", failing, evaluated)
 }
 
 // passWord writes a check's outcome.
@@ -337,9 +362,12 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		fmt.Fprintf(&b, "The model form %s with a %s fibre layout was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
 	}
 	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988), fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ")
+	b.WriteString(in.verdictWords())
 	b.WriteString("The resulting model is " + energyMark)
 	if fams := in.familyWords(); fams != "" {
 		b.WriteString(" with " + fams)
+	} else if in.verdict != nil {
+		b.WriteString(" with no fibre family")
 	}
 	b.WriteString(" (stresses in " + c.StressUnit + ")")
 	if low := lowestR2(fs.Metrics); !math.IsInf(low, 1) {
@@ -386,6 +414,77 @@ func keptWords(d card.DataSection) string {
 		}
 	}
 	return k
+}
+
+// verdictWords states the family verdict as discovery gave it, as the
+// sentence before the chosen model in the methods paragraph, or is empty
+// without a verdict (a form fitted as asked). The chosen model's families
+// are not the verdict: an undecided verdict or one that cannot tell one
+// family from a mirror pair still picks a model with some families, and a
+// paper quoting the paragraph must not report them as settled.
+func (in *Input) verdictWords() string {
+	vd := in.verdict
+	if vd == nil {
+		return ""
+	}
+	const lead = "The comparison of the fibre layouts "
+	switch vd.Families {
+	case "0":
+		return lead + "supported no fibre family (an isotropic material). "
+	case "1":
+		return lead + "supported one fibre family. "
+	case "2":
+		return lead + "supported two fibre families. "
+	case "1-or-mirror-pair":
+		dir := "one fibre direction"
+		if a, ok := in.oneDirection(); ok {
+			dir += " at " + a
+		}
+		return lead + "supported " + dir + ", which may be one family or a mirror pair: the data carry no shear information, so they cannot tell the two apart. "
+	case "undecided":
+		s := lead + "left the number of fibre families undecided, as the data do not settle it"
+		if in.chosenInVerdictForm() {
+			s += "; the chosen model is of the form best supported so far, not a settled answer"
+		}
+		return s + ". "
+	}
+	return lead + "gave the family verdict " + vd.Families + ". "
+}
+
+// oneDirection is the chosen model's single fibre direction written ±|α|,
+// when its families all lie at one |α| (one family, or a mirror pair the
+// data cannot tell from one; within the 2° of discovery's coincidence
+// rule).
+func (in *Input) oneDirection() (string, bool) {
+	var abs []float64
+	for _, f := range in.card.Families {
+		if f.AngleDeg != nil {
+			abs = append(abs, math.Abs(*f.AngleDeg))
+		}
+	}
+	if len(abs) == 0 {
+		return "", false
+	}
+	for _, a := range abs[1:] {
+		if math.Abs(a-abs[0]) >= 2 {
+			return "", false
+		}
+	}
+	return "±" + fmtDeg(abs[0]), true
+}
+
+// chosenInVerdictForm reports whether the chosen model belongs to the form
+// the verdict rests on.
+func (in *Input) chosenInVerdictForm() bool {
+	if in.sel == nil || in.verdict == nil {
+		return false
+	}
+	for _, c := range in.sel.Pareto {
+		if c.Chosen {
+			return verdictKey(c) == in.verdict.Form
+		}
+	}
+	return false
 }
 
 // familyWords describes the fitted families, e.g. "one fibre family at

@@ -323,20 +323,26 @@ func (in *Input) parameterSection(v *reportView) {
 		if e.Status == "inactive" && e.Kind != "weight" {
 			continue
 		}
-		val := fsig(float64(e.Value), 4)
+		// Angles in degrees take fixed decimals, as everywhere in the
+		// report: a fitted 1e-19° is 0.00, not a power of ten.
+		num := func(x float64, n int) string { return fsig(x, n) }
+		if e.Kind == "angle" {
+			num = func(x float64, _ int) string { return fixed(x, 2) }
+		}
+		val := num(float64(e.Value), 4)
 		if e.Kind == "angle" && in.signUnknown() && (e.Name == "angle" || strings.HasPrefix(e.Name, "angle_")) {
-			val = "±" + fsig(math.Abs(float64(e.Value)), 4)
+			val = "±" + num(math.Abs(float64(e.Value)), 4)
 		}
 		iv, from := "—", ""
 		if lo, hi := float64(e.CI95[0]), float64(e.CI95[1]); !math.IsNaN(lo) && !math.IsNaN(hi) {
-			iv, from = "["+fsig(lo, 3)+", "+fsig(hi, 3)+"]", "Wald"
+			iv, from = "["+num(lo, 3)+", "+num(hi, 3)+"]", "Wald"
 		}
 		if p, ok := in.profileOf(e.Name); ok && e.Kind == "angle" {
 			switch {
 			case p.NotDetermined:
 				iv, from = "none excluded", "profile"
 			default:
-				iv, from = "["+fsig(float64(p.IntervalDeg[0]), 4)+", "+fsig(float64(p.IntervalDeg[1]), 4)+"]", "profile"
+				iv, from = "["+num(float64(p.IntervalDeg[0]), 4)+", "+num(float64(p.IntervalDeg[1]), 4)+"]", "profile"
 				if !p.Closed {
 					from = "profile (open)"
 				}
@@ -517,7 +523,11 @@ func (in *Input) formBest(key string) (card.CandidateCard, bool) {
 }
 
 // anglesOf writes a candidate's family angles, ±|α| without shear
-// information, noting two families that point the same way.
+// information, noting two families that point the same way. The note
+// follows the rule discovery applies to the fitted angles (aniso's
+// coincident: within 2°), with or without shear information, so that a
+// pair the search treated as one family (e.g. at ±0.00°, ±0.00°) is
+// marked as such.
 func (in *Input) anglesOf(c card.CandidateCard) string {
 	if len(c.AnglesDeg) == 0 {
 		return "—"
@@ -528,7 +538,7 @@ func (in *Input) anglesOf(c card.CandidateCard) string {
 	}
 	out := strings.Join(s, ", ")
 	if len(c.AnglesDeg) == 2 {
-		if d := math.Abs(aniso.WrapDeg(float64(c.AnglesDeg[0] - c.AnglesDeg[1]))); d < 2 && !in.signUnknown() {
+		if d := math.Abs(aniso.WrapDeg(float64(c.AnglesDeg[0] - c.AnglesDeg[1]))); d < 2 {
 			out += " (coincident: one direction)"
 		}
 	}
@@ -545,12 +555,11 @@ func (in *Input) selectionSection(v *reportView) {
 	}
 	v.HasSelection = true
 	v.Rule, v.Metric = capitalise(minusSigns(sel.Rule)), sel.HeldoutMetric
-	// Each layout's search in its first clause; model.json has the rest.
+	// Every search note whole: a note's clauses are separate facts (which
+	// candidates were left out and why, the optima a search started
+	// from), so a cut note would drop some of them.
 	for _, s := range sel.Search {
-		if i := strings.Index(s, " at "); i > 0 {
-			s = s[:i]
-		}
-		v.Search = append(v.Search, capitalise(s))
+		v.Search = append(v.Search, capitalise(sentence(minusSigns(s))))
 	}
 	head := []string{"model form", "terms", "parameters", "BIC", "held-out error", "lowest R²"}
 	num := []bool{false, false, true, true, true, true}
@@ -562,12 +571,10 @@ func (in *Input) selectionSection(v *reportView) {
 		}
 	}
 	// The forms that were cross-validated compete for the pick; the others
-	// (more than ΔBIC 10 from their layout's best) are counted, and listed
-	// in selection.csv and model.json.
-	others := 0
+	// are counted by why they were left out (leftOutOf), and listed in
+	// selection.csv and model.json.
 	for _, cc := range sel.Pareto {
 		if bad(float64(cc.HeldoutError)) && !cc.Chosen {
-			others++
 			continue
 		}
 		mark := ""
@@ -576,9 +583,9 @@ func (in *Input) selectionSection(v *reportView) {
 		}
 		v.Pareto.Rows = append(v.Pareto.Rows, htmlRow{Cells: append(candidateCells(cc), mark), Mark: cc.Chosen})
 	}
-	if others > 0 {
-		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept; the other %d, more than ΔBIC 10 from the best of their layout, were not cross-validated and are listed with their loss, AICc and BIC in selection.csv and model.json.",
-			len(sel.Pareto)-others, len(sel.Pareto), others)
+	if lo := leftOutOf(sel); lo.total() > 0 {
+		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept. The other %d were not cross-validated: %s. selection.csv and model.json list them with their loss, AICc and BIC.",
+			len(sel.Pareto)-lo.total(), len(sel.Pareto), lo.total(), strings.Join(lo.reasons(true), "; "))
 	}
 	v.Presets = htmlTable{Head: append(append([]string{}, head...), "ΔBIC vs chosen"), Num: append(append([]bool{}, num...), true), Wide: 1}
 	for _, cc := range sel.Presets {
@@ -625,8 +632,16 @@ func (in *Input) conventionsSection(v *reportView) {
 // after a space, an opening bracket, a ± or the start.
 var minusPattern = regexp.MustCompile(`(^|[\s(\[±=,;:])-(\d)`)
 
-// minusSigns writes the minus signs of numbers in free text as U+2212.
-func minusSigns(s string) string { return minusPattern.ReplaceAllString(s, "${1}−${2}") }
+// negativeZeroAngle finds an angle that rounded to zero with its sign kept
+// ("-0.0°", "−0.00°"), which free text from the card can hold.
+var negativeZeroAngle = regexp.MustCompile(`(^|[\s(\[±=,;:])(?:-|−)(0(?:\.0+)?°)`)
+
+// minusSigns writes the minus signs of numbers in free text as U+2212, and
+// an angle that rounds to zero without a sign.
+func minusSigns(s string) string {
+	s = negativeZeroAngle.ReplaceAllString(s, "${1}${2}")
+	return minusPattern.ReplaceAllString(s, "${1}−${2}")
+}
 
 // capitalise starts a sentence with a capital letter.
 func capitalise(s string) string {

@@ -218,6 +218,13 @@ func TestWarnings(t *testing.T) {
 			t.Errorf("warnings\n%s\nlack %q", all, want)
 		}
 	}
+	// One line names the protocol once: a message that starts with it
+	// gets no "(protocol b)" as well.
+	for _, w := range s.Warnings {
+		if strings.Contains(w.String(), "(protocol "+w.Protocol+"): protocol "+w.Protocol+":") {
+			t.Errorf("the protocol named twice: %s", w)
+		}
+	}
 
 	in = "protocol,stretch_1,stretch_2,nominal_11,nominal_22\n"
 	for i := 0; i < 6; i++ {

@@ -64,6 +64,8 @@
 // or load), e.g. 1:1, 1:0.75, 0.75:1, 1:0.5, 0.5:1 (common practice).
 package biaxial
 
+import "strings"
+
 // StressKind says which stress measure a file gave.
 type StressKind int
 
@@ -304,7 +306,8 @@ func (w Warning) Location() string {
 // String returns the warning as one line: location, protocol, message.
 func (w Warning) String() string {
 	s := w.Location()
-	if w.Protocol != "" {
+	// A message that names its protocol first is not told it twice.
+	if w.Protocol != "" && !strings.HasPrefix(w.Message, "protocol "+w.Protocol+":") {
 		s += " (protocol " + w.Protocol + ")"
 	}
 	return s + ": " + w.Message

@@ -426,7 +426,7 @@ func TestOutputsDoNotDependOnThePathAsTyped(t *testing.T) {
 		outs = append(outs, out)
 	}
 	model, _ := os.ReadFile(filepath.Join(outs[0], "model.json"))
-	if !strings.Contains(string(model), "x.csv: semicolon-separated") || !strings.Contains(string(model), "x.csv:5 (protocol 1:1)") {
+	if !strings.Contains(string(model), "x.csv: semicolon-separated") || !strings.Contains(string(model), "x.csv:5: protocol 1:1:") {
 		t.Fatalf("the card lacks the notice or the warning:\n%s", model)
 	}
 	filepath.WalkDir(outs[0], func(p string, d fs.DirEntry, err error) error {

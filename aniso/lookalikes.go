@@ -104,12 +104,10 @@ func symmetricAbout45(r *Result) bool {
 // lookAlike describes a richer form's best model when it has a known
 // simpler look-alike, or returns "".
 func lookAlike(r *Result) string {
-	fs := r.Model.Families
-	if len(fs) != 2 {
+	a, b, ok := twoAnglesDeg(r)
+	if !ok {
 		return ""
 	}
-	a := WrapDeg(Deg(fs[0].Angle))
-	b := WrapDeg(Deg(fs[1].Angle))
 	near := func(x, y float64) bool { return math.Abs(WrapDeg(x-y)) < 10 }
 	if (near(a, 0) && near(b, 90)) || (near(a, 90) && near(b, 0)) {
 		return "two families near 0° and 90° stiffen both axes alike, a look-alike of isotropic stiffening"
@@ -117,16 +115,24 @@ func lookAlike(r *Result) string {
 	return bracketingLookAlike(r)
 }
 
+// twoAnglesDeg returns the wrapped angles (degrees) of a model with two
+// families.
+func twoAnglesDeg(r *Result) (a, b float64, ok bool) {
+	fs := r.Model.Families
+	if len(fs) != 2 {
+		return 0, 0, false
+	}
+	return WrapDeg(Deg(fs[0].Angle)), WrapDeg(Deg(fs[1].Angle)), true
+}
+
 // bracketingLookAlike describes a model whose two families lie between
 // 2° and 60° apart as a look-alike of one family spread about the
 // direction between them, or returns "".
 func bracketingLookAlike(r *Result) string {
-	fs := r.Model.Families
-	if len(fs) != 2 {
+	a, b, ok := twoAnglesDeg(r)
+	if !ok {
 		return ""
 	}
-	a := WrapDeg(Deg(fs[0].Angle))
-	b := WrapDeg(Deg(fs[1].Angle))
 	if !r.SignKnown {
 		// Without shear information only |α| is known.
 		a, b = math.Abs(a), math.Abs(b)

@@ -122,6 +122,9 @@ func anglesText(r *Result) string {
 	var s []string
 	for _, f := range r.Model.Families {
 		a := Deg(f.Angle)
+		if math.Abs(a) < 0.05 {
+			a = 0 // within round-off of an axis: no "-0.0°"
+		}
 		if r.SignKnown {
 			s = append(s, fmt.Sprintf("%.1f°", a))
 		} else {
@@ -137,6 +140,23 @@ const decider = "shear information: track F12 and F21 with markers (a specimen o
 
 // undecidedDecider is what settles an undecided family count.
 const undecidedDecider = "more protocols (other stretch ratios), more points per protocol or lower noise; shear information where the sign of an angle matters"
+
+// undecided turns v into an undecided verdict over the open steps to
+// another number of families. It points towards the form that gains most
+// on held-out error, the walk's first criterion.
+func undecided(v *Verdict, open []LayoutComparison) {
+	var alt []string
+	toward := open[0]
+	for _, lc := range open {
+		alt = append(alt, lc.String())
+		if lc.Gain > toward.Gain {
+			toward = lc
+		}
+	}
+	v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", toward.Richer, strings.Join(alt, "; "), v.Reason)
+	v.Families = "undecided"
+	v.Decider = undecidedDecider
+}
 
 // verdictFor writes the verdict of the winning form.
 func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutComparison, notes []string) Verdict {
@@ -233,19 +253,7 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		v.Reason += "; signs of the angles are unknown without shear information"
 	}
 	if len(open) > 0 {
-		var alt []string
-		toward := open[0]
-		for _, lc := range open {
-			alt = append(alt, lc.String())
-			if lc.Gain > toward.Gain {
-				toward = lc
-			}
-		}
-		// It points towards the form that gains most on held-out error,
-		// the walk's first criterion.
-		v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", toward.Richer, strings.Join(alt, "; "), v.Reason)
-		v.Families = "undecided"
-		v.Decider = undecidedDecider
+		undecided(&v, open)
 	}
 	d.lookAlikeRules(ev, r, &v)
 	d.architectureTieRule(ev, win, &v)

@@ -203,11 +203,14 @@ func (s *search) crossValidate() {
 		switch {
 		case c.Result.BIC-minBIC[FormKey(c.Result.Structure)] > cvBICWindow:
 			far++
+			c.NotCrossValidated = NotValidatedBIC
 		case reduces && spreadAtBound(c.Result):
 			bound = append(bound, c.Name)
+			c.NotCrossValidated = NotValidatedAtBound
 			why[c] = fmt.Sprintf("every family of its models is spread at the fit's bound on the concentration (b = %d), an ideal family, which makes them %s's models with a parameter more", FitMaxConcentration, FormKey(f))
 		case reduces:
 			one = append(one, c.Name)
+			c.NotCrossValidated = NotValidatedCoincident
 			why[c] = fmt.Sprintf("its two families point the same way (%s), which is one family", anglesText(c.Result))
 		default:
 			cands = append(cands, c)

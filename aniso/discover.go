@@ -105,7 +105,26 @@ type Candidate struct {
 	Searched *Result
 	// CV is nil when the data have a single protocol.
 	CV *CVScore
+	// NotCrossValidated says why a candidate of the front was not
+	// cross-validated: NotValidatedBIC, NotValidatedAtBound or
+	// NotValidatedCoincident; empty when it was, and without
+	// cross-validation (a single protocol).
+	NotCrossValidated string
 }
+
+// Why a candidate was not cross-validated (Candidate.NotCrossValidated).
+const (
+	// NotValidatedBIC: its BIC lies more than cvBICWindow (10) above its
+	// form's best.
+	NotValidatedBIC = "bic-window"
+	// NotValidatedAtBound: every family of it is spread at the fit's
+	// bound on the concentration (FitMaxConcentration), an ideal family:
+	// its ideal form's model with a parameter more.
+	NotValidatedAtBound = "concentration-bound"
+	// NotValidatedCoincident: its two families point the same way
+	// (within 2°), which is one family.
+	NotValidatedCoincident = "coincident"
+)
 
 // Discovery is the outcome of model discovery for one specimen.
 type Discovery struct {

@@ -170,6 +170,11 @@ type CandidateCard struct {
 	// (CandidateModel), present for every candidate that was
 	// cross-validated: the ones the selection rule compares.
 	Model *CandidateModel `json:"model,omitempty"`
+	// NotCrossValidated says why a candidate was not cross-validated
+	// (aniso.Candidate.NotCrossValidated: "bic-window",
+	// "concentration-bound" or "coincident"); absent when it was, and in
+	// cards written before 2026-12-04.
+	NotCrossValidated string `json:"not_cross_validated,omitempty"`
 }
 
 // WeightOut is a term's fitted weight in a candidate.
@@ -243,7 +248,8 @@ func NewCandidateCard(c *aniso.Candidate, chosen bool) CandidateCard {
 	r := c.Compared()
 	cc := CandidateCard{Name: c.Name, Layout: c.Layout.String(), Dispersion: r.Structure.Dispersion, InPlane: r.Structure.Planar, Size: c.Terms,
 		Parameters: r.Complexity, Loss: Num(r.Loss), AICc: Num(r.AICc), BIC: Num(r.BIC),
-		HeldoutError: Num(math.NaN()), HeldoutStdErr: Num(math.NaN()), Chosen: chosen, LowestR2: Num(math.NaN())}
+		HeldoutError: Num(math.NaN()), HeldoutStdErr: Num(math.NaN()), Chosen: chosen, LowestR2: Num(math.NaN()),
+		NotCrossValidated: c.NotCrossValidated}
 	for i, t := range r.Structure.Terms {
 		if r.Weights[i] > 0 {
 			cc.Terms = append(cc.Terms, t.Label(r.Structure.Layout))

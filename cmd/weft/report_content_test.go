@@ -4,11 +4,15 @@ import (
 	"encoding/json"
 	"fmt"
 	"html"
+	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/weft-tools/weft/aniso"
 )
 
 // What report.html says about real fits, read back from the page: its
@@ -207,6 +211,50 @@ func TestReportMethodsStateTheVerdictOnDemos(t *testing.T) {
 		}
 		if text := html.UnescapeString(m[1]); !strings.Contains(text, want) {
 			t.Errorf("%s (verdict %s): methods lack %q", name, c.Verdict.Families, want)
+		}
+	}
+}
+
+// Each candidate the search did not cross-validate carries its reason in
+// the card (selection.pareto[].not_cross_validated), and the reasons agree
+// with the cross-validation note discovery writes in words: the count of
+// candidates beyond the BIC window, and the candidates it names at the
+// concentration bound and with coincident families (demo specimens,
+// synthetic).
+func TestCardRecordsWhyNotCrossValidated(t *testing.T) {
+	t.Parallel()
+	count := regexp.MustCompile(`; (\d+) left out because their BIC is more than`)
+	for _, name := range []string{"membrane-M1", "membrane-M3-sutured", "patch-P2"} {
+		c, _ := readCardFile(t, filepath.Join(demoFits(t).dir, name+".weft", "model.json"))
+		note := ""
+		for _, s := range c.Selection.Search {
+			if strings.HasPrefix(s, "cross-validation:") {
+				note = s
+			}
+		}
+		m := count.FindStringSubmatch(note)
+		if m == nil {
+			t.Fatalf("%s: no cross-validation note with a count: %q", name, note)
+		}
+		far := 0
+		for _, cc := range c.Selection.Pareto {
+			switch cc.NotCrossValidated {
+			case "":
+			case aniso.NotValidatedBIC:
+				far++
+			case aniso.NotValidatedAtBound, aniso.NotValidatedCoincident:
+				if !strings.Contains(note, cc.Name) {
+					t.Errorf("%s: %s is %s, but the note does not name it: %s", name, cc.Name, cc.NotCrossValidated, note)
+				}
+			default:
+				t.Errorf("%s: %s: unknown reason %q", name, cc.Name, cc.NotCrossValidated)
+			}
+			if cc.NotCrossValidated != "" && !math.IsNaN(float64(cc.HeldoutError)) {
+				t.Errorf("%s: %s has a reason not to be cross-validated and a held-out error", name, cc.Name)
+			}
+		}
+		if strconv.Itoa(far) != m[1] {
+			t.Errorf("%s: %d candidates marked beyond the BIC window, the note says %s", name, far, m[1])
 		}
 	}
 }

@@ -16,10 +16,12 @@ import (
 // its form's best; every family of it is spread at the fit's bound on the
 // concentration (an ideal family, so it is its ideal form's model with a
 // parameter more); or its two families point the same way (one family).
-// The card does not mark each candidate; its cross-validation note
-// (selection.search) names the candidates of the last two kinds and the
-// window, and the BIC of every candidate is in the card, so the report
-// reads the reasons from there rather than assuming the first for all.
+// Cards record the reason per candidate (selection.pareto[].
+// not_cross_validated); for cards written before that, the
+// cross-validation note (selection.search) names the candidates of the
+// last two kinds and the window, and the BIC of every candidate is in the
+// card, so the report reads the reasons from there rather than assuming
+// the first for all.
 
 // leftOut sorts the candidates of the selection that have no held-out
 // error (the chosen one aside) by why.
@@ -86,6 +88,14 @@ func leftOutOf(sel *card.SelectionSection) leftOut {
 			continue
 		}
 		switch {
+		// A card that records the reason per candidate is read as it
+		// says; an older one through its note and the BICs.
+		case c.NotCrossValidated == aniso.NotValidatedAtBound:
+			l.bound = append(l.bound, c.Name)
+		case c.NotCrossValidated == aniso.NotValidatedCoincident:
+			l.same = append(l.same, c.Name)
+		case c.NotCrossValidated == aniso.NotValidatedBIC:
+			l.far++
 		case named[c.Name] == "bound":
 			l.bound = append(l.bound, c.Name)
 		case named[c.Name] == "same":

@@ -543,6 +543,11 @@ func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card
 		inPopulation[i] = true
 	}
 	for _, m := range t.members {
+		// A member refused before the fit (a second file with the same
+		// folder name) names a folder that holds another file's card.
+		if m.at < 0 {
+			continue
+		}
 		cd, ok := cards[m.folder]
 		if !ok {
 			continue

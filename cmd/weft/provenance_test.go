@@ -228,3 +228,41 @@ func TestRecordViewOfChangedFileLeftOut(t *testing.T) {
 		t.Errorf("changed file: view %v, changed %v; want no view", view != nil, changed)
 	}
 }
+
+// A second file whose specimen name gives an existing member's folder is
+// refused (exit 1), and it leaves no trace in the kept member's card: the
+// card's provenance named the refused file, and the mean card listed it,
+// until 2026-12-04.
+func TestCohortProvenanceWithARefusedDuplicate(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 3, 10, 5, cohortPopulation{"A", 25, 30})
+	b, err := os.ReadFile(sp[1].file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	first := strings.TrimSuffix(filepath.Base(sp[0].file), ".csv")
+	second := strings.TrimSuffix(filepath.Base(sp[1].file), ".csv")
+	dup := filepath.Join(dir, "zz-dup.csv")
+	if err := os.WriteFile(dup, []byte(strings.Replace(string(b), "# specimen = "+second, "# specimen = "+first, 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--preset", "hgo", "--no-specimen-reports"}
+	var kept []string
+	for _, s := range sp {
+		args = append(args, s.file)
+		kept = append(kept, s.file)
+	}
+	if _, stderr, code := runWeft(t, append(args, dup)...); code != 1 || !strings.Contains(stderr, "zz-dup.csv") {
+		t.Fatalf("exit %d, want 1 naming the duplicate: %s", code, stderr)
+	}
+	c, _ := readCardFile(t, filepath.Join(out, first+".weft", "model.json"))
+	if p := c.Provenance; p == nil || len(p.Inputs) != 1 || p.Inputs[0].File != filepath.Base(sp[0].file) || p.Inputs[0].SHA256 != sha256Of(t, sp[0].file) {
+		t.Errorf("%s.weft/model.json: provenance %+v, want %s alone", first, c.Provenance, filepath.Base(sp[0].file))
+	}
+	m, _ := readCardFile(t, filepath.Join(out, "mean-parameters.json"))
+	if m.Provenance == nil || len(m.Provenance.Inputs) != len(kept) {
+		t.Errorf("mean-parameters.json: provenance %+v, want the %d fitted files", m.Provenance, len(kept))
+	}
+}

@@ -253,6 +253,11 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		if m.spec != nil && m.group == "" {
 			fmt.Fprintf(w, "weft: %s has no group for --group-by %s; it is left out of the group comparisons\n", m.file, by)
 		}
+		// "all" names the statistics over every specimen: a group of
+		// that name would give two rows no reader could tell apart.
+		if strings.EqualFold(m.group, "all") {
+			return "", badInputf("%s: the group %q for --group-by %s is the name of the rows over every specimen; rename the group", m.file, m.group, by)
+		}
 	}
 	return file, nil
 }

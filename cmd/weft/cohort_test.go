@@ -193,6 +193,24 @@ func TestCohortNothingUsable(t *testing.T) {
 	}
 }
 
+// A group named "all" would share its name with the rows over every
+// specimen (two rows "all" in cohort.json, 2026-12-04): it is refused,
+// exit 2, nothing written.
+func TestCohortGroupNamedAll(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 2, 10, 5, cohortPopulation{"A", 25, 30})
+	groups := writeTemp(t, "groups.csv", "file,group\n"+filepath.Base(sp[0].file)+",All\n"+filepath.Base(sp[1].file)+",B\n")
+	out := filepath.Join(dir, "cohort")
+	_, stderr, code := runWeft(t, "cohort", "-o", out, "--quiet", "--preset", "hgo", "--group-by", groups, sp[0].file, sp[1].file)
+	if code != 2 || !strings.Contains(stderr, "rename the group") {
+		t.Errorf("exit %d: %s; want 2 asking to rename the group", code, stderr)
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("%s exists: %v", out, err)
+	}
+}
+
 // Discovery through the command line: the cohort's form, verdict and
 // support reach cohort.json, and each specimen's folder holds its fit
 // report as 'weft fit' writes it.

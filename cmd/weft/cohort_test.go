@@ -113,6 +113,10 @@ func TestCohortPlanted(t *testing.T) {
 			if p := float64(c.Welch.P); !(p > 0.05) {
 				t.Logf("no planted angle difference, yet Welch p = %g", p)
 			}
+			// The groups are compared on |α| as the statistics are.
+			if c.Note != "|α|" || c.Label() != "angle (|α|)" {
+				t.Errorf("angle comparison note %q, label %q: want |α| as in the statistics", c.Note, c.Label())
+			}
 		}
 	}
 	for _, name := range []string{"population.json", "mean-parameters.json", "C001.weft/model.json"} {

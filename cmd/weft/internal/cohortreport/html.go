@@ -201,7 +201,7 @@ func (s *Summary) comparisonTable(v *pageView) {
 	for _, c := range s.Comparisons {
 		n := strings.Trim(strings.Join(strings.Fields(fmt.Sprint(c.N)), ", "), "[]")
 		add := func(name string, t *TestResult, g string) {
-			v.Comparisons.Rows = append(v.Comparisons.Rows, htmlRow{Cells: []string{c.Parameter, name, n, cell(t.Statistic, 4), cell(t.DF, 3), cell(t.P, 3), cell(t.PHolm, 3), g},
+			v.Comparisons.Rows = append(v.Comparisons.Rows, htmlRow{Cells: []string{c.Label(), name, n, cell(t.Statistic, 4), cell(t.DF, 3), cell(t.P, 3), cell(t.PHolm, 3), g},
 				Mark: float64(t.PHolm) < 0.05})
 		}
 		if c.Welch != nil {

@@ -189,6 +189,18 @@ type Comparison struct {
 	MannWhitney   *TestResult `json:"mann_whitney,omitempty"`
 	HedgesG       *card.Num   `json:"hedges_g,omitempty"`
 	KruskalWallis *TestResult `json:"kruskal_wallis,omitempty"`
+	// Note is "|α|" when the values compared are an angle's magnitudes,
+	// as the statistics' rows say.
+	Note string `json:"note,omitempty"`
+}
+
+// Label is the parameter's name as tables show it: with its note, e.g.
+// "angle (|α|)".
+func (c Comparison) Label() string {
+	if c.Note == "" {
+		return c.Parameter
+	}
+	return c.Parameter + " (" + c.Note + ")"
 }
 
 // Build summarises a cohort.
@@ -402,6 +414,9 @@ func (s *Summary) compare(in *Input, values [][]float64) {
 	var pw, pm, pk []float64
 	for k, p := range s.Parameters {
 		c := Comparison{Parameter: p.Name, Unit: p.Unit, Groups: gs}
+		if p.Absolute {
+			c.Note = "|α|"
+		}
 		var samples [][]float64
 		for _, g := range gs {
 			x := valuesOf(in, values[k], g)

@@ -77,13 +77,13 @@ func printCohortStats(w io.Writer, s *cohortreport.Summary) {
 	for _, c := range s.Comparisons {
 		groups := strings.Join(c.Groups, " vs ")
 		if c.Welch != nil {
-			fmt.Fprintf(tw, "%s\t%s\tWelch t\t%s\t%s\t%s\t%s\n", c.Parameter, groups, num(float64(c.Welch.Statistic), "%.3f"), num(float64(c.Welch.P), "%.3g"),
+			fmt.Fprintf(tw, "%s\t%s\tWelch t\t%s\t%s\t%s\t%s\n", c.Label(), groups, num(float64(c.Welch.Statistic), "%.3f"), num(float64(c.Welch.P), "%.3g"),
 				num(float64(c.Welch.PHolm), "%.3g"), num(float64(*c.HedgesG), "%.2f"))
 			fmt.Fprintf(tw, "\t\tMann–Whitney U\t%s\t%s\t%s\t\n", num(float64(c.MannWhitney.Statistic), "%.1f"), num(float64(c.MannWhitney.P), "%.3g"),
 				num(float64(c.MannWhitney.PHolm), "%.3g"))
 		}
 		if c.KruskalWallis != nil {
-			fmt.Fprintf(tw, "%s\t%s\tKruskal–Wallis H\t%s\t%s\t%s\t\n", c.Parameter, groups, num(float64(c.KruskalWallis.Statistic), "%.3f"),
+			fmt.Fprintf(tw, "%s\t%s\tKruskal–Wallis H\t%s\t%s\t%s\t\n", c.Label(), groups, num(float64(c.KruskalWallis.Statistic), "%.3f"),
 				num(float64(c.KruskalWallis.P), "%.3g"), num(float64(c.KruskalWallis.PHolm), "%.3g"))
 		}
 	}

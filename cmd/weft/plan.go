@@ -6,6 +6,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -97,6 +98,17 @@ decisions.`,
 	return cmd
 }
 
+// insideFolder reports whether path lies in folder dir (or is dir).
+func insideFolder(path, dir string) bool {
+	p, err1 := filepath.Abs(path)
+	d, err2 := filepath.Abs(dir)
+	if err1 != nil || err2 != nil {
+		return false
+	}
+	rel, err := filepath.Rel(d, p)
+	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
+}
+
 // runPlan plans the next test of the fit in o.dir.
 func runPlan(o *planOptions) error {
 	if o.top < 0 {
@@ -104,6 +116,15 @@ func runPlan(o *planOptions) error {
 	}
 	if o.write != "" && o.plot != "" && planning.SameFile(o.write, o.plot) {
 		return badInputf("--write and --plot name the same file %s", o.write)
+	}
+	for _, out := range []struct{ flag, path string }{{"--write", o.write}, {"--plot", o.plot}} {
+		// The fit's folder holds the plan's inputs (model.json, fit.csv)
+		// and only what 'weft fit' wrote: a plan file there could replace
+		// an input, and would keep 'weft fit --force' from replacing the
+		// folder later.
+		if out.path != "" && insideFolder(out.path, o.dir) {
+			return badInputf("%s %s lies inside the fit's folder %s; write the plan's files elsewhere", out.flag, out.path, o.dir)
+		}
 	}
 	var outs []*safeout.File
 	defer func() {

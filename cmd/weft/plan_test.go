@@ -230,6 +230,17 @@ func TestPlanRefusesWhatItCannotUse(t *testing.T) {
 	if b, _ := os.ReadFile(existing); string(b) != "mine" {
 		t.Error("the existing file was changed")
 	}
+	// The fit's own files are the plan's inputs: even with --force no plan
+	// file is written into its folder (fit.csv was once replaced).
+	card0, _ := os.ReadFile(filepath.Join(out, "model.json"))
+	for _, args := range [][]string{{"--write", filepath.Join(out, "fit.csv")}, {"--plot", filepath.Join(out, "model.json")}, {"--plot", filepath.Join(out, "plan.svg")}} {
+		if _, e, code := runWeft(t, append([]string{"plan", out, "--force"}, args...)...); code != 2 || !strings.Contains(e, "inside the fit's folder") {
+			t.Errorf("%v into the fit's folder: exit %d, %s", args, code, e)
+		}
+	}
+	if b, _ := os.ReadFile(filepath.Join(out, "model.json")); string(b) != string(card0) {
+		t.Error("the fit's model.json was changed")
+	}
 	fc := filepath.Join(out, "fit.csv")
 	b, err := os.ReadFile(fc)
 	if err != nil {

@@ -209,6 +209,28 @@ func TestPlanIsotropic(t *testing.T) {
 	}
 }
 
+// A fit of the Fung-type preset (Tong & Fung 1976) has no fibre family
+// but is not isotropic: the note says its term is orthotropic about the
+// tester's axes (it was once called isotropic), and only stretch ratios
+// are planned (demo membrane M1, synthetic).
+func TestPlanFungIsNotCalledIsotropic(t *testing.T) {
+	t.Parallel()
+	out := filepath.Join(t.TempDir(), "fung.weft")
+	if _, e, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--preset", "fung", "-o", out, "--quiet"); code != 0 {
+		t.Fatalf("fit: %s", e)
+	}
+	pl, _ := planJSON(t, out)
+	notes := strings.Join(pl.Notes, " ")
+	if !strings.Contains(notes, "orthotropic about the tester's axes") || strings.Contains(notes, "the model is isotropic") {
+		t.Errorf("notes %q", pl.Notes)
+	}
+	for _, c := range pl.Candidates {
+		if c.Sutured || c.MountingDeg != 0 {
+			t.Errorf("%s planned for a Fung-type model", c.Test)
+		}
+	}
+}
+
 // A plan needs the fit the folder holds: a missing table or folder is bad
 // input (exit 2), a table edited after the fit fails to reproduce the
 // card's loss (exit 1), and an existing --write file is kept without

@@ -20,12 +20,15 @@ func inPlanePrincipal(F [4]float64) (float64, float64) {
 
 // testedRanges records the range of the principal stretches of the fitted
 // data and of the fibre stretch √I4 of each of the fitted model's families,
-// and the extrapolation tolerance.
+// and the extrapolation tolerance. The ranges include the reference state
+// (every stretch 1), where every fitted model is stress-free: a planned
+// path starts there, and its first points, between the reference and the
+// first kept point of the data, are not an extrapolation.
 func (d *designer) testedRanges() {
-	d.lamLo, d.lamHi = math.Inf(1), math.Inf(-1)
+	d.lamLo, d.lamHi = 1, 1
 	d.fibre = make([][2]float64, len(d.r.Model.Families))
 	for f := range d.fibre {
-		d.fibre[f] = [2]float64{math.Inf(1), math.Inf(-1)}
+		d.fibre[f] = [2]float64{1, 1}
 	}
 	for i := 0; i < d.p.Data.Points(); i++ {
 		k := d.p.Data.Kinematics(i)

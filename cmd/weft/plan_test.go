@@ -231,6 +231,26 @@ func TestPlanFungIsNotCalledIsotropic(t *testing.T) {
 	}
 }
 
+// A fit of a chosen form has no verdict: its fibre-layout question (the
+// hgo preset's pair or one family, no shear information, demo membrane
+// M1) is the data's, not one "left open by the verdict" as it was once
+// labelled.
+func TestPlanLayoutQuestionWithoutVerdict(t *testing.T) {
+	t.Parallel()
+	out := filepath.Join(t.TempDir(), "hgo.weft")
+	if _, e, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--preset", "hgo", "-o", out, "--quiet"); code != 0 {
+		t.Fatalf("fit: %s", e)
+	}
+	pl, _ := planJSON(t, out)
+	if len(pl.Questions) == 0 || pl.Questions[0].Verdict || !pl.Questions[0].Layout {
+		t.Fatalf("questions %+v, want the layout question, not a verdict's", pl.Questions)
+	}
+	stdout, _, code := runWeft(t, "plan", out)
+	if code != 0 || !strings.Contains(stdout, "(left open by the data)") || strings.Contains(stdout, "left open by the verdict") {
+		t.Errorf("exit %d; the plan's question is not labelled as the data's:\n%s", code, stdout)
+	}
+}
+
 // A plan needs the fit the folder holds: a missing table or folder is bad
 // input (exit 2), a table edited after the fit fails to reproduce the
 // card's loss (exit 1), and an existing --write file is kept without

@@ -53,10 +53,13 @@ type Report struct {
 
 // Question is one open question.
 type Question struct {
-	ID           string   `json:"id"`
-	Topic        string   `json:"topic"`
-	Text         string   `json:"text"`
-	Verdict      bool     `json:"verdict"`
+	ID      string `json:"id"`
+	Topic   string `json:"topic"`
+	Text    string `json:"text"`
+	Verdict bool   `json:"verdict"`
+	// Layout is true for the fibre-layout question of a fit without a
+	// verdict (a chosen form): the data leave it open.
+	Layout       bool     `json:"layout,omitempty"`
 	SignUnknown  bool     `json:"sign_unknown"`
 	Explanations []string `json:"explanations"`
 }
@@ -127,7 +130,9 @@ func NewReport(f *Folder, d *aniso.Design, notes []string) *Report {
 		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.Cautions, Questions: []Question{}}
 	pl.NoiseText = fmt.Sprintf("standard deviation of the weighted residuals, sqrt(loss / (rows - %d)); about %.3g %% of a protocol's stress range per point at %d points", r.FreeParams, 100*d.Noise*math.Sqrt(float64(d.Points)), d.Points)
 	for i, q := range d.Questions {
-		pq := Question{ID: questionID(i), Topic: q.Topic, Text: q.Text, Verdict: q.Verdict, SignUnknown: q.SignUnknown}
+		// A fit of a chosen form has no verdict: a layout question is then
+		// the data's, not a verdict's.
+		pq := Question{ID: questionID(i), Topic: q.Topic, Text: q.Text, Verdict: q.Verdict && c.Verdict != nil, Layout: q.Verdict && c.Verdict == nil, SignUnknown: q.SignUnknown}
 		for _, e := range q.Explanations {
 			pq.Explanations = append(pq.Explanations, e.Name)
 		}
@@ -231,8 +236,11 @@ func Print(w io.Writer, pl *Report, top int) {
 			head = "         "
 		}
 		kind := "model selection"
-		if q.Verdict {
+		switch {
+		case q.Verdict:
 			kind = "left open by the verdict"
+		case q.Layout:
+			kind = "left open by the data"
 		}
 		fmt.Fprintf(w, "%s [%s] %s (%s)\n", head, q.ID, q.Text, kind)
 	}

@@ -249,6 +249,13 @@ func PlanTests(p *Problem, r *Result, qs []Question, set DesignSettings) (*Desig
 	set = d.settings(set)
 	d.points, out.Points = set.Points, set.Points
 	tests, notes := d.candidates(set)
+	for _, e := range r.Estimates {
+		if e.onMirrorLine {
+			// Its slope is zero on the line: a linearised information
+			// count has nothing to say about it.
+			notes = append(notes, fmt.Sprintf("%s lies on a symmetry line (%g°) without shear information: the stresses have no slope in it there, so it is left out of the information gain and the interval shrinks (its interval is its profile's)", e.Name, e.Value))
+		}
+	}
 	out.Notes = notes
 	skipped := map[string]int{}
 	var skipOrder []string

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -184,6 +185,21 @@ func TestPlanUndecidedVerdict(t *testing.T) {
 	}
 	if !found {
 		t.Errorf("no question for the undecided verdict: %+v", pl.Questions)
+	}
+}
+
+// The demo patch P2's angle sits on the symmetry line at 0° without shear
+// information: its profile bounds it, but the stresses have no slope in
+// it there, so the plan leaves it out of the information count and says
+// so (it was left out silently).
+func TestPlanSaysWhyALineAngleIsLeftOut(t *testing.T) {
+	t.Parallel()
+	pl, _ := planJSON(t, demoFitCopy(t, "patch-P2"))
+	if slices.Contains(pl.Parameters, "angle") {
+		t.Errorf("parameters %q include the angle on the line", pl.Parameters)
+	}
+	if !strings.Contains(strings.Join(pl.Notes, " "), "angle lies on a symmetry line") {
+		t.Errorf("no note on the angle on the line: %q", pl.Notes)
 	}
 }
 

@@ -247,6 +247,29 @@ func TestPlanFungIsNotCalledIsotropic(t *testing.T) {
 	}
 }
 
+// A card whose own model (terms, families) was edited after the fit is
+// refused (exit 1): the plan rebuilds the fit from the card's fit section
+// and would plan for a model the card no longer holds (an edited family
+// angle and weight once gave the unedited plan, exit 0).
+func TestPlanRefusesAnEditedModel(t *testing.T) {
+	t.Parallel()
+	for name, edit := range map[string]func(raw map[string]any){
+		"weight": func(raw map[string]any) {
+			tm := raw["terms"].([]any)[0].(map[string]any)
+			tm["weight"] = tm["weight"].(float64) * 10
+		},
+		"angle": func(raw map[string]any) {
+			raw["families"].([]any)[0].(map[string]any)["angle_deg"] = 60.0
+		},
+	} {
+		dir := demoFitCopy(t, "membrane-M1")
+		editCard(t, dir, edit)
+		if _, e, code := runWeft(t, "plan", dir); code != 1 || !strings.Contains(e, "edited after the fit") {
+			t.Errorf("edited %s: exit %d, %s", name, code, e)
+		}
+	}
+}
+
 // A fit of a chosen form has no verdict: its fibre-layout question (the
 // hgo preset's pair or one family, no shear information, demo membrane
 // M1) is the data's, not one "left open by the verdict" as it was once

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"cmp"
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"math"
 	"path/filepath"
@@ -220,7 +221,40 @@ func (f *Folder) refit() error {
 	if math.Abs(r.Loss-want) > planLossTolerance*math.Max(want, 1e-300) {
 		return &RebuildError{Msg: fmt.Sprintf("%s: the rebuilt fit's loss %.10g differs from the card's %.10g; model.json and fit.csv are not from the same fit (or were edited) — fit the data again", f.dir, r.Loss, want)}
 	}
+	if err := f.sameModel(r); err != nil {
+		return err
+	}
 	f.Result = r
+	return nil
+}
+
+// planModelTolerance is how far (relative to the largest measured stress)
+// the card's own model (terms, families) may predict the fitted points
+// apart from the rebuilt fit: the fit's last digits, not an edit.
+const planModelTolerance = 1e-4
+
+// sameModel checks that the card's own model, the one predict, export and
+// evaluate use, is the fit the plan rebuilt from the card's fit section:
+// a card whose terms or families were edited after the fit would be
+// planned for a model it no longer holds.
+func (f *Folder) sameModel(r *aniso.Result) error {
+	m, err := f.card.Model()
+	if err != nil {
+		return inputErrorf("model.json: %v", err)
+	}
+	got, err1 := aniso.Predict(f.Problem, m)
+	ref, err2 := aniso.Predict(f.Problem, r.Model)
+	if err1 != nil || err2 != nil {
+		return &RebuildError{Msg: fmt.Sprintf("%s: the card's model cannot be evaluated on the fitted points: %v", f.dir, errors.Join(err1, err2))}
+	}
+	scale, worst := 0.0, 0.0
+	for i := range ref {
+		scale = math.Max(scale, math.Abs(f.Problem.Measured[i]))
+		worst = math.Max(worst, math.Abs(got[i]-ref[i]))
+	}
+	if worst > planModelTolerance*scale {
+		return &RebuildError{Msg: fmt.Sprintf("%s: the card's model (terms, families) predicts the fitted points up to %.4g %s away from its fit section's; the card was edited after the fit — plan from the folder as weft fit wrote it, or fit the data again", f.dir, worst, f.card.StressUnit)}
+	}
 	return nil
 }
 

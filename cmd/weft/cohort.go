@@ -60,7 +60,7 @@ specimens reach it on their own. With --preset or --terms the form is given.
 
 DIR receives one folder per specimen as 'weft fit' writes it, cohort.csv (one
 row per specimen), cohort.json (form, verdict, specimens, statistics with a
-bootstrap interval of each mean, group comparisons), population.json (the form
+Student t interval of each mean, group comparisons), population.json (the form
 fitted to all specimens at once, each weighted equally), mean-parameters.json
 (the specimens' mean parameters) and report.html.
 

@@ -55,7 +55,7 @@ func (g groupTicks) Ticks(lo, hi float64) []plot.Tick {
 
 // parameterFigure draws one panel per parameter: each specimen's value
 // by group (spread sideways so that equal values stay visible), and the
-// group's mean with its 95 % bootstrap interval beside them.
+// group's mean with its 95 % Student t interval beside them.
 func (s *Summary) parameterFigure(in *Input) *report.Figure {
 	if len(s.Parameters) == 0 {
 		return nil
@@ -71,7 +71,7 @@ func (s *Summary) parameterFigure(in *Input) *report.Figure {
 	}
 	rows := (len(s.Parameters) + tileColumns - 1) / tileColumns
 	f := &report.Figure{Name: "parameters", Title: "Parameters by group", Width: 10 * vg.Inch, Height: vg.Length(rows)*2.8*vg.Inch + 0.5*vg.Inch,
-		Caption: "Dots: one specimen each, spread sideways within its group. Bar and line beside them: the group's mean and the 95 % percentile-bootstrap interval of the mean. Angles summarised as |α| are marked so in the panel's title."}
+		Caption: "Dots: one specimen each, spread sideways within its group. Bar and line beside them: the group's mean and the 95 % interval of the mean (Student t). Angles summarised as |α| are marked so in the panel's title."}
 	f.Draw = func(dc draw.Canvas) error {
 		var plots []*plot.Plot
 		for _, p := range s.Parameters {

@@ -1,9 +1,7 @@
 package cohortreport
 
 import (
-	"hash/fnv"
 	"math"
-	"math/rand/v2"
 	"sort"
 
 	"gonum.org/v1/gonum/stat"
@@ -11,29 +9,24 @@ import (
 )
 
 // The statistics of a cohort's parameters: descriptive statistics with a
-// bootstrap interval of the mean, and the tests that compare groups. Every
-// function is deterministic: the bootstrap draws from a generator seeded by
-// what it summarises, never by the clock.
-
-// BootstrapResamples is how many resamples the bootstrap interval of a mean
-// draws (percentile bootstrap; Efron & Tibshirani 1993, An Introduction to
-// the Bootstrap, §13.3).
-const BootstrapResamples = 2000
+// Student t interval of the mean, and the tests that compare groups. Every
+// function is deterministic.
 
 // Description summarises a sample: n, mean, standard deviation (n − 1),
 // median and quartiles (Hyndman & Fan 1996 type 7, the default of R and
-// NumPy) and the 95 % percentile-bootstrap interval of the mean over
-// BootstrapResamples resamples drawn with a generator seeded by seed.
-// Undefined values (the SD of one value, the interval of fewer than two)
-// are NaN.
+// NumPy) and the 95 % interval of the mean, mean ± t(0.975, n − 1)·SD/√n
+// (Student 1908; exact for a normal sample at any n, where the percentile
+// bootstrap used before 2026-12-04 held the mean in only about 75 % of
+// samples of 3 and 85 % of samples of 5). Undefined values (the SD of
+// one value, the interval of fewer than two) are NaN.
 type Description struct {
 	N                        int
 	Mean, SD, Median, Q1, Q3 float64
 	CI95                     [2]float64
 }
 
-// Describe describes x with the bootstrap seeded by seed.
-func Describe(x []float64, seed uint64) Description {
+// Describe describes x.
+func Describe(x []float64) Description {
 	d := Description{N: len(x), Mean: math.NaN(), SD: math.NaN(), Median: math.NaN(), Q1: math.NaN(), Q3: math.NaN(),
 		CI95: [2]float64{math.NaN(), math.NaN()}}
 	if len(x) == 0 {
@@ -42,12 +35,11 @@ func Describe(x []float64, seed uint64) Description {
 	s := append([]float64(nil), x...)
 	sort.Float64s(s)
 	d.Mean = stat.Mean(s, nil)
-	if len(s) > 1 {
-		d.SD = stat.StdDev(s, nil)
-	}
 	d.Q1, d.Median, d.Q3 = quantile7(s, 0.25), quantile7(s, 0.5), quantile7(s, 0.75)
-	if len(s) > 1 {
-		d.CI95 = bootstrapMeanCI(s, seed)
+	if n := float64(len(s)); n > 1 {
+		d.SD = stat.StdDev(s, nil)
+		half := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: n - 1}.Quantile(0.975) * d.SD / math.Sqrt(n)
+		d.CI95 = [2]float64{d.Mean - half, d.Mean + half}
 	}
 	return d
 }
@@ -62,34 +54,6 @@ func quantile7(s []float64, p float64) float64 {
 		return s[len(s)-1]
 	}
 	return s[i] + (h-lo)*(s[i+1]-s[i])
-}
-
-// bootstrapMeanCI is the 95 % percentile-bootstrap interval of the mean of
-// s (sorted, so that the draws do not depend on the input order).
-func bootstrapMeanCI(s []float64, seed uint64) [2]float64 {
-	rng := rand.New(rand.NewPCG(seed, 0x9e3779b97f4a7c15))
-	means := make([]float64, BootstrapResamples)
-	n := len(s)
-	for b := range means {
-		sum := 0.0
-		for k := 0; k < n; k++ {
-			sum += s[rng.IntN(n)]
-		}
-		means[b] = sum / float64(n)
-	}
-	sort.Float64s(means)
-	return [2]float64{quantile7(means, 0.025), quantile7(means, 0.975)}
-}
-
-// Seed derives a bootstrap seed from names (FNV-1a), so that a parameter's
-// interval depends on what it is, not on where it stands in a table.
-func Seed(names ...string) uint64 {
-	h := fnv.New64a()
-	for _, n := range names {
-		h.Write([]byte(n))
-		h.Write([]byte{0})
-	}
-	return h.Sum64()
 }
 
 // Welch is Welch's unequal-variance t-test of two samples (Welch 1947):

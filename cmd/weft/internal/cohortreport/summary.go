@@ -221,7 +221,7 @@ func Build(in *Input) *Summary {
 
 // statisticsNotes say how to read the statistics.
 var statisticsNotes = []string{
-	"ci95 is the 95 % percentile-bootstrap interval of the mean over specimens (2000 resamples, seeded by the parameter and group, so the same inputs give the same interval); q1, median and q3 interpolate between order statistics (Hyndman & Fan 1996, type 7).",
+	"ci95 is the 95 % interval of the mean over specimens, mean ± t(0.975, n − 1)·SD/√n (Student 1908), exact for normally distributed values at any n; q1, median and q3 interpolate between order statistics (Hyndman & Fan 1996, type 7).",
 	"Specimens are independent; the statistics describe the specimens fitted, not tissue in general, and each parameter holds only within the stretch range and protocols tested.",
 	"Comparing many parameters inflates false positives: read p_holm (Holm 1979, over every parameter compared by the same test), not p.",
 }
@@ -397,7 +397,7 @@ func (s *Summary) statistics(in *Input, values [][]float64) {
 			if g == "" {
 				name = "all"
 			}
-			d := Describe(valuesOf(in, values[k], g), Seed(p.Name, name))
+			d := Describe(valuesOf(in, values[k], g))
 			s.Stats = append(s.Stats, StatRow{Parameter: p.Name, Unit: p.Unit, Group: name, N: d.N, Mean: card.Num(d.Mean), SD: card.Num(d.SD),
 				Median: card.Num(d.Median), Q1: card.Num(d.Q1), Q3: card.Num(d.Q3), CI95: [2]card.Num{card.Num(d.CI95[0]), card.Num(d.CI95[1])}, Note: note})
 		}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"time"
 )
 
@@ -319,6 +320,10 @@ func MeanModel(rs []*Result, ref *Model) (*Model, error) {
 		}
 		signKnown = signKnown && r.SignKnown
 	}
+	models := make([]*Model, len(rs))
+	for i, r := range rs {
+		models[i] = alignedFamilies(r.Model, ref, signKnown)
+	}
 	m := cloneModelDeep(ref)
 	n := float64(len(rs))
 	for k := range m.Terms {
@@ -326,8 +331,8 @@ func MeanModel(rs []*Result, ref *Model) (*Model, error) {
 		for j := range m.Terms[k].Params {
 			m.Terms[k].Params[j] = 0
 		}
-		for _, r := range rs {
-			t := r.Model.Terms[k]
+		for _, rm := range models {
+			t := rm.Terms[k]
 			m.Terms[k].Weight += t.Weight / n
 			for j := range t.Params {
 				m.Terms[k].Params[j] += t.Params[j] / n
@@ -337,8 +342,8 @@ func MeanModel(rs []*Result, ref *Model) (*Model, error) {
 	for f := range m.Families {
 		a0 := familyAngle(ref.Families[f].Angle, f, signKnown)
 		sum, conc, disp := 0.0, 0.0, 0.0
-		for _, r := range rs {
-			fa := r.Model.Families[f]
+		for _, rm := range models {
+			fa := rm.Families[f]
 			sum += a0 + wrapAngle(familyAngle(fa.Angle, f, signKnown)-a0)
 			conc += fa.Concentration / n
 			disp += fa.Dispersion / n
@@ -347,6 +352,62 @@ func MeanModel(rs []*Result, ref *Model) (*Model, error) {
 		m.Families[f].Concentration, m.Families[f].Dispersion = conc, disp
 	}
 	return m, m.Validate()
+}
+
+// FamiliesSwapped reports whether m's two fibre families match ref's in
+// the other order: both carry the same term shapes (so that swapping their
+// labels is a relabelling, not another model) and the angular distance of
+// each to ref's family of the other label is smaller in sum (as |α| when
+// signKnown is false). Fits of one two-family form, warm-started alike,
+// can converge with their labels swapped; a cohort's statistics and mean
+// model compare family with family, not label with label.
+func FamiliesSwapped(m, ref *Model, signKnown bool) bool {
+	if len(m.Families) != 2 || len(ref.Families) != 2 || len(m.Terms) != len(ref.Terms) {
+		return false
+	}
+	var shapes [2][]string
+	for _, t := range m.Terms {
+		if t.Family == 0 || t.Family == 1 {
+			shapes[t.Family] = append(shapes[t.Family], t.Shape.ID)
+		}
+	}
+	if !slices.Equal(shapes[0], shapes[1]) {
+		return false
+	}
+	dist := func(a, b float64) float64 {
+		return math.Abs(wrapAngle(familyAngle(a, 0, signKnown) - familyAngle(b, 0, signKnown)))
+	}
+	a0, a1 := m.Families[0].Angle, m.Families[1].Angle
+	r0, r1 := ref.Families[0].Angle, ref.Families[1].Angle
+	return dist(a1, r0)+dist(a0, r1) < dist(a0, r0)+dist(a1, r1)
+}
+
+// alignedFamilies returns m, or a copy with its two families' labels
+// swapped (families, and each fibre term moved to the other family in
+// ref's term order) when FamiliesSwapped says so.
+func alignedFamilies(m, ref *Model, signKnown bool) *Model {
+	if !FamiliesSwapped(m, ref, signKnown) {
+		return m
+	}
+	s := cloneModelDeep(m)
+	s.Families[0], s.Families[1] = s.Families[1], s.Families[0]
+	used := make([]bool, len(m.Terms))
+	for k, rt := range ref.Terms {
+		want := rt.Family
+		if want == 0 || want == 1 {
+			want = 1 - want
+		}
+		for j, t := range m.Terms {
+			if !used[j] && t.Family == want && t.Shape.ID == rt.Shape.ID {
+				used[j] = true
+				s.Terms[k] = m.Terms[j]
+				s.Terms[k].Params = append([]float64(nil), m.Terms[j].Params...)
+				s.Terms[k].Family = rt.Family
+				break
+			}
+		}
+	}
+	return s
 }
 
 // familyAngle is a family's angle as compared across a cohort: as fitted

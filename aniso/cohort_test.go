@@ -162,3 +162,46 @@ func TestMeanModel(t *testing.T) {
 		t.Errorf("mean angle %g°, want 90°", a)
 	}
 }
+
+// Two free families of one shape whose labels a specimen's fit swapped
+// (a stiff family near 15° and a soft one near 70°, invented values) are
+// averaged family with family: the mean model keeps a stiff family near
+// 15° and a soft one near 70° (by hand: weights (60 + 62)/2 and
+// (18 + 17)/2, angles (16 + 14)/2 and (69 + 71)/2), where averaging by
+// label gave two alike families near 43° (a cohort of 2026-12-04).
+func TestMeanModelAlignsSwappedFamilies(t *testing.T) {
+	mk := func(w0, a0, w1, a1 float64) *Result {
+		m := &Model{Families: []Family{{Name: "f1", Angle: Rad(a0)}, {Name: "f2", Angle: Rad(a1)}},
+			Terms: []Term{{Shape: lookup("i1-lin"), Family: -1, Weight: 3},
+				{Shape: lookup("fib-expsq"), Family: 0, Weight: w0, Params: []float64{4}},
+				{Shape: lookup("fib-expsq"), Family: 1, Weight: w1, Params: []float64{2}}}}
+		return &Result{Model: m, SignKnown: true}
+	}
+	ref := mk(61, 15, 17.5, 70).Model
+	as := mk(60, 16, 18, 69)
+	swapped := mk(17, 71, 62, 14)
+	swapped.Model.Terms[1].Params[0], swapped.Model.Terms[2].Params[0] = 2, 4
+	if FamiliesSwapped(as.Model, ref, true) || !FamiliesSwapped(swapped.Model, ref, true) {
+		t.Fatalf("swapped: %v and %v, want false and true", FamiliesSwapped(as.Model, ref, true), FamiliesSwapped(swapped.Model, ref, true))
+	}
+	m, err := MeanModel([]*Result{as, swapped}, ref)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w0, w1 := m.Terms[1].Weight, m.Terms[2].Weight; math.Abs(w0-61) > 1e-12 || math.Abs(w1-17.5) > 1e-12 {
+		t.Errorf("family weights %g, %g; want 61, 17.5", w0, w1)
+	}
+	if p0, p1 := m.Terms[1].Params[0], m.Terms[2].Params[0]; p0 != 4 || p1 != 2 {
+		t.Errorf("stiffening %g, %g; want 4, 2", p0, p1)
+	}
+	if a0, a1 := Deg(m.Families[0].Angle), Deg(m.Families[1].Angle); math.Abs(a0-15) > 1e-9 || math.Abs(a1-70) > 1e-9 {
+		t.Errorf("angles %g°, %g°; want 15°, 70°", a0, a1)
+	}
+	// Families of different shapes are another model, not a relabelling.
+	other := mk(17, 71, 62, 14)
+	other.Model.Terms[2].Shape = lookup("fib-quad")
+	other.Model.Terms[2].Params = nil
+	if FamiliesSwapped(other.Model, ref, true) {
+		t.Error("families carrying different shapes were taken as swapped")
+	}
+}

@@ -3,6 +3,7 @@ package cohortreport
 import (
 	"math"
 	"sort"
+	"strings"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
@@ -147,7 +148,17 @@ type SpecimenRow struct {
 	HeldOut  card.Num `json:"heldout_error"`
 	Verdict  string   `json:"own_verdict,omitempty"`
 	Form     string   `json:"own_form,omitempty"`
+	// FamiliesRelabelled is true when the specimen's two fibre families
+	// match the population fit's in the other order (aniso.FamiliesSwapped):
+	// its Parameters are then under the population's labels, its own card's
+	// f1 being the population's f2 and the other way round.
+	FamiliesRelabelled bool `json:"families_relabelled,omitempty"`
 }
+
+// familySwap exchanges the labels of two families in estimate names.
+var familySwap = strings.NewReplacer("angle_1", "angle_2", "angle_2", "angle_1",
+	"concentration_1", "concentration_2", "concentration_2", "concentration_1",
+	"dispersion_1", "dispersion_2", "dispersion_2", "dispersion_1", "@f1", "@f2", "@f2", "@f1")
 
 // StatRow describes one parameter in one group ("all" for every specimen).
 type StatRow struct {
@@ -310,6 +321,12 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 			ref[e.Name] = e.Value
 		}
 	}
+	signKnown := true
+	for _, sp := range in.Specimens {
+		if sp.Result != nil {
+			signKnown = signKnown && sp.Result.SignKnown
+		}
+	}
 	values := make([][]float64, len(s.Parameters))
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
@@ -319,8 +336,15 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 			row.Status, row.Error, row.Folder = StatusFailed, sp.Err, ""
 		} else {
 			row.Parameters = map[string]card.Num{}
+			// Two families whose labels the fit swapped against the
+			// population's are read under the population's labels.
+			rename := func(n string) string { return n }
+			if pop := in.Cohort.Population; pop != nil && aniso.FamiliesSwapped(sp.Result.Model, pop.Model, signKnown) {
+				row.FamiliesRelabelled = true
+				rename = familySwap.Replace
+			}
 			for _, e := range sp.Result.Estimates {
-				byName[e.Name] = e
+				byName[rename(e.Name)] = e
 			}
 			if r2 := card.LowestR2(sp.Result.Metrics); !math.IsInf(r2, 1) {
 				row.LowestR2 = card.Num(r2)

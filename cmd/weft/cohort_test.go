@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -125,6 +126,17 @@ func TestCohortPlanted(t *testing.T) {
 			t.Fatal(err)
 		}
 		schemaValidate(t, b)
+	}
+	// Each specimen's row carries its own fit's flags, as its card does
+	// (they were dropped from the cohort's outputs until 2026-12-04).
+	for _, r := range s.Specimens {
+		if r.Status != cohortreport.StatusOK {
+			continue
+		}
+		c, _ := readCardFile(t, filepath.Join(out, r.Folder, "model.json"))
+		if c.Fit == nil || !slices.Equal(r.Flags, c.Fit.Flags) {
+			t.Errorf("%s: cohort flags %q, card flags %v", r.Specimen, r.Flags, c.Fit)
+		}
 	}
 	head := readCSV(t, filepath.Join(out, "cohort.csv"))[0]
 	want := "file,specimen,group,status,error,weight[i1-lin] [kPa],weight[fib-expsq@f1] [kPa],|angle| [deg],stiffening[fib-expsq@f1],lowest_r2,heldout_error"

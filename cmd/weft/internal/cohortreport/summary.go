@@ -1,6 +1,7 @@
 package cohortreport
 
 import (
+	"fmt"
 	"math"
 	"sort"
 	"strings"
@@ -153,6 +154,9 @@ type SpecimenRow struct {
 	// its Parameters are then under the population's labels, its own card's
 	// f1 being the population's f2 and the other way round.
 	FamiliesRelabelled bool `json:"families_relabelled,omitempty"`
+	// Flags are the specimen's own fit's flags (aniso.Result.Flags), as
+	// its card holds them.
+	Flags []string `json:"flags,omitempty"`
 }
 
 // familySwap exchanges the labels of two families in estimate names.
@@ -226,6 +230,15 @@ func Build(in *Input) *Summary {
 	s.compare(in, values)
 	s.Population = populationInfo(in)
 	s.Notes = append(s.Notes, statisticsNotes...)
+	var flagged []string
+	for _, r := range s.Specimens {
+		if len(r.Flags) > 0 {
+			flagged = append(flagged, fmt.Sprintf("%s (%d)", r.Specimen, len(r.Flags)))
+		}
+	}
+	if len(flagged) > 0 {
+		s.Notes = append(s.Notes, fmt.Sprintf("specimens whose own fit raised flags (a standard error larger than its value, a correlated pair, a parameter at a bound, …): %s; their values enter the statistics at full weight — see each one's flags in cohort.json and its card", strings.Join(flagged, ", ")))
+	}
 	s.Provenance = in.Provenance
 	return s
 }
@@ -352,6 +365,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 			if sp.CV != nil {
 				row.HeldOut = card.Num(sp.CV.Mean)
 			}
+			row.Flags = append([]string(nil), sp.Result.Flags...)
 		}
 		for k, p := range s.Parameters {
 			v := math.NaN()

@@ -231,11 +231,7 @@ func TestPlanIsotropic(t *testing.T) {
 // are planned (demo membrane M1, synthetic).
 func TestPlanFungIsNotCalledIsotropic(t *testing.T) {
 	t.Parallel()
-	out := filepath.Join(t.TempDir(), "fung.weft")
-	if _, e, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--preset", "fung", "-o", out, "--quiet"); code != 0 {
-		t.Fatalf("fit: %s", e)
-	}
-	pl, _ := planJSON(t, out)
+	pl, _ := planJSON(t, presetFit(t, "fung"))
 	notes := strings.Join(pl.Notes, " ")
 	if !strings.Contains(notes, "orthotropic about the tester's axes") || strings.Contains(notes, "the model is isotropic") {
 		t.Errorf("notes %q", pl.Notes)
@@ -276,10 +272,7 @@ func TestPlanRefusesAnEditedModel(t *testing.T) {
 // labelled.
 func TestPlanLayoutQuestionWithoutVerdict(t *testing.T) {
 	t.Parallel()
-	out := filepath.Join(t.TempDir(), "hgo.weft")
-	if _, e, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--preset", "hgo", "-o", out, "--quiet"); code != 0 {
-		t.Fatalf("fit: %s", e)
-	}
+	out := presetFit(t, "hgo")
 	pl, _ := planJSON(t, out)
 	if len(pl.Questions) == 0 || pl.Questions[0].Verdict || !pl.Questions[0].Layout {
 		t.Fatalf("questions %+v, want the layout question, not a verdict's", pl.Questions)
@@ -540,6 +533,17 @@ func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
 	if !turned {
 		t.Error("no test in a turned mounting on sutures settles the look-alike")
 	}
+}
+
+// presetFit fits the synthetic demo membrane M1 with a preset and returns
+// the output folder.
+func presetFit(t *testing.T, preset string) string {
+	t.Helper()
+	out := filepath.Join(t.TempDir(), preset+".weft")
+	if _, e, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--preset", preset, "-o", out, "--quiet"); code != 0 {
+		t.Fatalf("fit: %s", e)
+	}
+	return out
 }
 
 // fitAndPlan fits the test file name (in testdata) with weft fit and

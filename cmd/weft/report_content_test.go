@@ -13,6 +13,7 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
 )
 
 // What report.html says about real fits, read back from the page: its
@@ -106,12 +107,7 @@ func TestReportNotCrossValidatedReasonsOnDemos(t *testing.T) {
 	for name, rare := range map[string]int{"membrane-M1": 3, "membrane-M3-sutured": 4, "patch-P2": 2} {
 		dir := filepath.Join(demoFits(t).dir, name+".weft")
 		c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
-		note := ""
-		for _, s := range c.Selection.Search {
-			if strings.HasPrefix(s, "cross-validation:") {
-				note = s
-			}
-		}
+		note := crossValidationNote(c)
 		m := far.FindStringSubmatch(note)
 		if m == nil {
 			t.Fatalf("%s: no cross-validation note with a count: %q", name, c.Selection.Search)
@@ -226,12 +222,7 @@ func TestCardRecordsWhyNotCrossValidated(t *testing.T) {
 	count := regexp.MustCompile(`; (\d+) left out because their BIC is more than`)
 	for _, name := range []string{"membrane-M1", "membrane-M3-sutured", "patch-P2"} {
 		c, _ := readCardFile(t, filepath.Join(demoFits(t).dir, name+".weft", "model.json"))
-		note := ""
-		for _, s := range c.Selection.Search {
-			if strings.HasPrefix(s, "cross-validation:") {
-				note = s
-			}
-		}
+		note := crossValidationNote(c)
 		m := count.FindStringSubmatch(note)
 		if m == nil {
 			t.Fatalf("%s: no cross-validation note with a count: %q", name, note)
@@ -257,4 +248,16 @@ func TestCardRecordsWhyNotCrossValidated(t *testing.T) {
 			t.Errorf("%s: %d candidates marked beyond the BIC window, the note says %s", name, far, m[1])
 		}
 	}
+}
+
+// crossValidationNote is the cross-validation note of a card's search
+// notes, or "".
+func crossValidationNote(c *card.Card) string {
+	note := ""
+	for _, s := range c.Selection.Search {
+		if strings.HasPrefix(s, "cross-validation:") {
+			note = s
+		}
+	}
+	return note
 }

@@ -294,6 +294,9 @@ func lateralRoot(m *Model, theta, lambda, mu0 float64) (float64, error) {
 	found := false
 	for i := 0; i < 400 && step > 1e-15; i++ {
 		cand := last * math.Exp(dir*step)
+		if cand < minLateralStretch {
+			break // only round-off changes sign down there
+		}
 		v, _, ok := g(cand)
 		if !ok {
 			step /= 2
@@ -343,8 +346,18 @@ func lateralRoot(m *Model, theta, lambda, mu0 float64) (float64, error) {
 		}
 		mu = next
 	}
+	if mu < minLateralStretch {
+		return 0, fmt.Errorf("uniaxial stretch %g at %g°: the lateral stress vanishes only as the lateral stretch goes to zero (%.3g), which no specimen reaches", lambda, Deg(theta), mu)
+	}
 	return mu, nil
 }
+
+// minLateralStretch is the smallest lateral stretch a uniaxial row may
+// have (a thickness stretch of 1/(λ·1e-3) at most): a lateral stress that
+// falls to zero only below it does so by round-off, as for a card whose
+// matrix weight is zero (a κ-dispersed fit found "roots" at 4e-9, with
+// F33 ≈ 2e8 and a second Piola–Kirchhoff stress of round-off).
+const minLateralStretch = 1e-3
 
 // VerificationSettings chooses the points of a verification table.
 type VerificationSettings struct {

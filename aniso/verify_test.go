@@ -343,3 +343,24 @@ func TestVerificationUniaxialNonUnique(t *testing.T) {
 		}
 	}
 }
+
+// A card of fibres only (two families at 11.375° and 76.015°, no matrix
+// term, as a fit drove the matrix weight to zero) loaded uniaxially at
+// −76.015°: the lateral stress stays positive for every lateral stretch
+// and falls to zero only as λt² (an independent implementation from the
+// README's conventions gave σ_tt = 8.364 λt² kPa at λ = 1.3), so the row
+// has no lateral stretch and is left out. The search once followed it
+// down to λt ≈ 4e-9, where round-off changes sign, and reported that
+// "root" with F33 ≈ 2e8 and a second Piola–Kirchhoff stress of
+// round-off.
+func TestUniaxialRowWithoutLateralRoot(t *testing.T) {
+	m := &Model{Families: []Family{{Name: "f1", Angle: Rad(11.375)}, {Name: "f2", Angle: Rad(76.015)}},
+		Terms: []Term{{Shape: lookup("fib-expsq"), Family: 0, Weight: 55.4, Params: []float64{4.15}},
+			{Shape: lookup("fib-expsq"), Family: 1, Weight: 36.3, Params: []float64{4.9}}}}
+	for _, l := range []float64{1.15, 1.3} {
+		mu, err := lateralRoot(m, Rad(-76.015), l, 1/l)
+		if err == nil {
+			t.Errorf("λ = %g: lateral stretch %g, want no root (the row left out)", l, mu)
+		}
+	}
+}

@@ -768,14 +768,16 @@ func oneSided(index int, t *Term, alpha, kappa, w float64, q *invariantJets) swi
 	a := t.Shape.Arg
 	I4, I5, K := q.fibreJets(alpha)
 	// Force the term on: evaluate its argument as if switched on.
-	forced := I4
-	forced.v = 2
-	x, _ := argJet(a, kappa, q, &forced, &I5, &K)
+	forced, forcedK := I4, K
+	forced.v, forcedK.v = 2, 2
+	x, _ := argJet(a, kappa, q, &forced, &I5, &forcedK)
 	switch a {
 	case terms.Fibre:
 		x.v = kappa*(q.I1.v-3) + (1-3*kappa)*(I4.v-1)
 	case terms.Fifth:
 		x.v = I5.v - 1
+	case terms.Cofactor:
+		x.v = K.v - 1
 	}
 	v := t.Shape.Eval(math.Max(x.v, 0)+1e-300, t.Params)
 	var A [4][4]float64

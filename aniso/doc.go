@@ -44,7 +44,10 @@
 // while it is stretched, I4 > 1: otherwise its fibre and I5 terms give no
 // energy and no stress (Holzapfel, Gasser & Ogden 2000). Cofactor terms
 // switch on their own argument, K > 1, which keeps the energy continuous and
-// polyconvex. Convex, non-decreasing shapes of I1, I2, I4 or K with w ≥ 0
+// polyconvex. Both switches take I4 or K within 1e-14 of 1 as not stretched
+// (switchRoundOff): at the reference state they come out within a few
+// units in the last place of 1, and round-off must not put a term's
+// stiffness into the tangent at rest. Convex, non-decreasing shapes of I1, I2, I4 or K with w ≥ 0
 // keep the energy polyconvex (Ball 1977; Schröder & Neff 2003); a raw I5
 // term does not, and says so.
 //

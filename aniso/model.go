@@ -113,6 +113,16 @@ type argSlopes struct {
 	DCA, DCK [4]float64
 }
 
+// switchRoundOff is how far above 1 I4 (or K, for a cofactor term) must
+// lie for a family's terms to switch on: at the reference state F = I,
+// I4 = cos²α + sin²α and K come out within a few units in the last place
+// of 1 on either side, and a term switched on by that round-off would add
+// its full stiffness f″ to the tangent there (a cofactor term's tangent at
+// F = I once depended on which side the round-off fell). No measured
+// deformation lies that close to the switch but the reference state
+// itself.
+const switchRoundOff = 1e-14
+
 // argument evaluates the shifted invariant of a term's shape and the chain
 // rule into ψ1, ψ2, ψ4, ψ5 (package documentation, Plane stress). fk is nil
 // for isotropic shapes.
@@ -125,15 +135,17 @@ func argument(a terms.Argument, kappa float64, k *Kinematics, fk *FibreKinematic
 	case terms.I2:
 		return argState{Active: true, X: k.I2 - 3, C: [4]float64{0, 1, 0, 0}}
 	case terms.Fibre:
-		if fk.I4 > 1 {
+		if fk.I4 > 1+switchRoundOff {
 			c := 1 - 3*kappa
 			return argState{Active: true, X: kappa*(k.I1-3) + c*(fk.I4-1), C: [4]float64{kappa, 0, c, 0}}
 		}
 	case terms.Cofactor:
 		// K = I5 − I1 I4 + I2: ψ1 = −I4 f′, ψ2 = f′, ψ4 = −I1 f′, ψ5 = f′.
-		return argState{Active: true, X: fk.K - 1, C: [4]float64{-fk.I4, 1, -k.I1, 1}}
+		if fk.K > 1+switchRoundOff {
+			return argState{Active: true, X: fk.K - 1, C: [4]float64{-fk.I4, 1, -k.I1, 1}}
+		}
 	case terms.Fifth:
-		if fk.I4 > 1 {
+		if fk.I4 > 1+switchRoundOff {
 			return argState{Active: true, X: fk.I5 - 1, C: [4]float64{0, 0, 0, 1}}
 		}
 	}

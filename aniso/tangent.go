@@ -189,17 +189,20 @@ func argJet(a terms.Argument, kappa float64, q *invariantJets, I4, I5, K *jet) (
 		x = q.I2
 		x.v -= 3
 	case terms.Fibre:
-		if !(I4.v > 1) {
+		if !(I4.v > 1+switchRoundOff) {
 			return x, false
 		}
 		x = x.addScaled(kappa, &q.I1)
 		x = x.addScaled(1-3*kappa, I4)
 		x.v = kappa*(q.I1.v-3) + (1-3*kappa)*(I4.v-1)
 	case terms.Cofactor:
+		if !(K.v > 1+switchRoundOff) {
+			return x, false
+		}
 		x = *K
 		x.v -= 1
 	case terms.Fifth:
-		if !(I4.v > 1) {
+		if !(I4.v > 1+switchRoundOff) {
 			return x, false
 		}
 		x = *I5

@@ -235,3 +235,31 @@ func fdTangent(t *testing.T, m *Model, F [4]float64, h float64) (A [4][4]float64
 	}
 	return A
 }
+
+// At the reference state no family is stretched: cofactor terms (on
+// while K > 1) and fibre terms (while I4 > 1) are off, so the tangent at
+// F = I is the matrix's alone, whatever the families' angles. K and I4
+// come out within a few units in the last place of 1 there; at 35° K − 1
+// was +4.4e-16 and switched a cofactor term on, adding 2w∇K⊗∇K (18 kPa
+// on a tangent of 24) to the tangent an FE analyst reads at rest (found
+// by an independent implementation, 2026-12-04).
+func TestTangentAtRestIsTheMatrixAlone(t *testing.T) {
+	matrix := Term{Shape: lookup("i1-lin"), Family: -1, Weight: 2}
+	ref, err := (&Model{Terms: []Term{matrix}}).Tangent([4]float64{1, 0, 0, 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, a := range []float64{35, -50, 15, 30, 60, 75, 120} {
+		for _, id := range []string{"cof-quad", "fib-quad", "i5-quad"} {
+			m := &Model{Families: []Family{{Name: "f1", Angle: Rad(a)}},
+				Terms: []Term{matrix, {Shape: lookup(id), Family: 0, Weight: 5, Params: lookup(id).DefaultParams()}}}
+			got, err := m.Tangent([4]float64{1, 0, 0, 1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got.Energy != 0 || got.A != ref.A {
+				t.Errorf("%s at %g°: energy %g, tangent %v; the matrix alone gives %v", id, a, got.Energy, got.A, ref.A)
+			}
+		}
+	}
+}

@@ -103,10 +103,12 @@ type tableParser struct {
 	toKPa       float64 // multiplies a stress in the record's unit into kPa
 	intoTable   bool    // rows go to table, else to rec.Rows
 	table       *rawTable
-	// prevKey and key hold the cells of the previous and the current data
-	// row (trimmed, each behind its length), reused from row to row, to
-	// count rows that repeat the one before exactly: dupRows of them, the
-	// first on line dupFirst.
+	// prevRow is the previous data row as read, and prevKey and key the
+	// cells of the previous and the current row's ignored columns
+	// (trimmed, each behind its length), reused from row to row, to count
+	// rows that repeat the one before: dupRows of them, the first on line
+	// dupFirst.
+	prevRow      Row
 	prevKey, key []byte
 	dupRows      int
 	dupFirst     int
@@ -344,7 +346,7 @@ func (p *tableParser) row(line int, fields []string) error {
 	if err := p.plausibleStretch(line, &r); err != nil {
 		return err
 	}
-	p.repeats(line, get)
+	p.repeats(&r, get)
 	p.nRows++
 	if p.table != nil {
 		p.table.add(&r)
@@ -354,24 +356,51 @@ func (p *tableParser) row(line int, fields []string) error {
 	return nil
 }
 
-// repeats counts a data row whose every cell, read or ignored, equals the
-// one of the previous data row (spaces around a cell aside). A copied
-// block of rows looks like data but is one measurement counted twice;
-// a state truly sampled twice differs at least in its time stamp.
-func (p *tableParser) repeats(line int, get func(col int) string) {
+// repeats counts a data row r whose every value equals the previous data
+// row's: each number read (time and cycle included), the protocol label and
+// the cells of the columns weft ignores (spaces around a cell aside). A
+// copied block of rows looks like data but is one measurement counted
+// twice; a state truly sampled twice differs at least in its time stamp.
+// The values read are compared as numbers, which costs nothing on the
+// parse's path; only the ignored cells are copied, usually none.
+func (p *tableParser) repeats(r *Row, get func(col int) string) {
 	p.key = p.key[:0]
-	for col := 1; col <= len(p.cols); col++ {
-		f := trimSpace(get(col))
+	for i := range p.cols {
+		if p.cols[i].role != roleIgnore {
+			continue
+		}
+		f := trimSpace(get(i + 1))
 		p.key = binary.AppendUvarint(p.key, uint64(len(f)))
 		p.key = append(p.key, f...)
 	}
-	if p.nRows > 0 && bytes.Equal(p.key, p.prevKey) {
+	if p.nRows > 0 && sameReading(r, &p.prevRow) && bytes.Equal(p.key, p.prevKey) {
 		if p.dupRows == 0 {
-			p.dupFirst = line
+			p.dupFirst = r.Line
 		}
 		p.dupRows++
 	}
+	p.prevRow = *r
 	p.key, p.prevKey = p.prevKey, p.key
+}
+
+// sameReading reports whether two rows hold the same label and numbers
+// (bit for bit; a missing time, NaN, equals a missing time).
+func sameReading(a, b *Row) bool {
+	same := func(x, y float64) bool { return math.Float64bits(x) == math.Float64bits(y) }
+	if a.Protocol != b.Protocol || a.Cycle != b.Cycle || !same(a.Time, b.Time) {
+		return false
+	}
+	for i := range a.F {
+		if !same(a.F[i], b.F[i]) {
+			return false
+		}
+	}
+	for i := range a.Stress {
+		if !same(a.Stress[i], b.Stress[i]) {
+			return false
+		}
+	}
+	return true
 }
 
 // warnRepeats warns about the rows that repeat the row before them. They

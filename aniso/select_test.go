@@ -428,7 +428,11 @@ func tenSeventy(t *testing.T) (*Discovery, *Problem) {
 // decisively. The walk had compared the pair only with the form it held,
 // and the verdict was a confident 2; the number of families is now
 // decided against the best one-family form, so the verdict is 1, and the
-// notes say which form the pair had to beat.
+// notes say which form the pair had to beat. Since the broad-spread tie
+// (broadSpreadTie) the pair, which fits and predicts about as well as the
+// broad family (concentration 1.17 fitted), leaves it undecided instead:
+// right too for a family this broad (the verdict battery's rule), and not
+// the confident 2 this test was written against.
 func TestMoreFamiliesMustBeatTheBestWithFewer(t *testing.T) {
 	if testing.Short() {
 		t.Skip("one discovery")
@@ -438,8 +442,8 @@ func TestMoreFamiliesMustBeatTheBestWithFewer(t *testing.T) {
 		synthOptions{noise: 0.02, points: 30, seed: 1, sutured: true, maxStrain: 0.2})
 	d, _ := discoverSpecimen(t, spec)
 	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
-	if d.Verdict.Families != "1" {
-		t.Fatalf("verdict %s, want 1", d.Verdict.Families)
+	if d.Verdict.Families != "1" && (d.Verdict.Families != "undecided" || !strings.Contains(d.Verdict.Reason, "either side of it")) {
+		t.Fatalf("verdict %s, want 1, or undecided by the broad-spread tie", d.Verdict.Families)
 	}
 	var blocked *LayoutComparison
 	for i, lc := range d.Verdict.Comparisons {
@@ -815,7 +819,9 @@ func TestAxisSymmetricShearsNoSuturedSpecimen(t *testing.T) {
 // 1 at 0°. The architecture-tie rule makes it undecided and names the
 // pair. The control is one broad family at 0° (concentration 1), whose
 // rival pair at about ±28° brackets it within 60°, a look-alike of the
-// spread: it stays 1.
+// spread: the architecture tie leaves it, and the broad-spread tie
+// (TestBroadSpreadTieIsUndecided) makes it undecided, which the verdict
+// battery counts right for a family this broad.
 func TestArchitectureTieIsUndecided(t *testing.T) {
 	if testing.Short() {
 		t.Skip("two discoveries")
@@ -838,8 +844,44 @@ func TestArchitectureTieIsUndecided(t *testing.T) {
 	one := fibreMaterial(3, spreadFamily{0, 1, expSqFibre(30, 3)})
 	d, _ = discoverSpecimen(t, synthFrom(t, one, o))
 	t.Logf("control: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	if strings.Contains(d.Verdict.Reason, "with their fibres in different places") || !strings.Contains(d.Verdict.Reason, "either side of it") {
+		t.Errorf("one broad family at 0° on sutures: the reason should be the broad-spread tie, not the architecture tie: %q", d.Verdict.Reason)
+	}
+}
+
+// Two families spread about ±35° (concentration 2) on a neo-Hookean
+// matrix, sutured, made by independent numerical integration
+// (independent_test.go), were a confident 1 at 0°: the one family's fit
+// spread in the plane is broad, and a pair either side of 0° fits and
+// predicts alike (broadSpreadTie). The verdict is undecided and names the
+// pair. The control is one family at 0° of concentration 5, whose one
+// spread fit is not broad: a pair at about ±13° either side fits better
+// in sample there too, but it stays 1.
+func TestBroadSpreadTieIsUndecided(t *testing.T) {
+	if testing.Short() {
+		t.Skip("two discoveries")
+	}
+	t.Parallel()
+	o := synthOptions{noise: 0.02, points: 30, seed: 3, sutured: true, maxStrain: 0.2}
+	pair := fibreMaterial(3, spreadFamily{35 * deg, 2, expSqFibre(30, 3)}, spreadFamily{-35 * deg, 2, expSqFibre(30, 3)})
+	d, _ := discoverSpecimen(t, synthFrom(t, pair, o))
+	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	if d.Verdict.Families != "undecided" || d.Verdict.Decider != archDecider || !strings.Contains(d.Verdict.Reason, "either side of it") {
+		t.Fatalf("spread pair at ±35° on sutures: verdict %s (decider %q), want undecided by the broad-spread tie", d.Verdict.Families, d.Verdict.Decider)
+	}
+	c := candidateNamed(d, d.Verdict.TiesWith)
+	if c == nil || familyCount(c.Result) != 2 {
+		t.Fatalf("TiesWith %q does not name a two-family candidate", d.Verdict.TiesWith)
+	}
+	if a, b := Deg(c.Result.Model.Families[0].Angle), Deg(c.Result.Model.Families[1].Angle); a*b >= 0 {
+		t.Errorf("the tying pair at %.1f°, %.1f° is not either side of 0°", a, b)
+	}
+	o.seed = 1
+	narrow := fibreMaterial(3, spreadFamily{0, 5, expSqFibre(30, 3)})
+	d, _ = discoverSpecimen(t, synthFrom(t, narrow, o))
+	t.Logf("control: verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
 	if d.Verdict.Families != "1" {
-		t.Errorf("one broad family at 0° on sutures: verdict %s, want 1", d.Verdict.Families)
+		t.Errorf("one family at 0° of concentration 5 on sutures: verdict %s, want 1", d.Verdict.Families)
 	}
 }
 

@@ -131,7 +131,7 @@ func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec 
 			}
 		}
 		if err != nil {
-			return nil, nil, err
+			return nil, nil, p.uncachedFormula(f, cells, err)
 		}
 	}
 	if err := rows.Error(); err != nil {
@@ -139,6 +139,26 @@ func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec 
 	}
 	rec, err = p.finish()
 	return rec, p.table, err
+}
+
+// uncachedFormula turns err, when it concerns a cell that reads empty
+// but holds a formula, into an error that says so. A workbook written by a
+// program that does not calculate (a script, a converter) stores formulas
+// without their results, and the cell's value, which weft reads, is then
+// empty although the sheet shows a number once opened.
+func (p *tableParser) uncachedFormula(f *excelize.File, cells []string, err error) error {
+	var pe *ParseError
+	if !errors.As(err, &pe) || pe.Cell == "" || pe.Column < 1 || (pe.Column <= len(cells) && strings.TrimSpace(cells[pe.Column-1]) != "") {
+		return err
+	}
+	formula, ferr := f.GetCellFormula(p.sheet, pe.Cell)
+	if ferr != nil || formula == "" || pe.Column > len(p.cols) {
+		return err
+	}
+	pe.Err = ErrNumber
+	pe.Msg = fmt.Sprintf("%s holds the formula =%s but no stored result", p.cols[pe.Column-1].header, clip(strings.TrimPrefix(formula, "="), 40))
+	pe.Fix = "open the workbook in a spreadsheet program and save it (which stores each formula's result), or type the values, or export the sheet as CSV"
+	return pe
 }
 
 func quoteList(xs []string) string {

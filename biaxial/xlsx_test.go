@@ -134,3 +134,41 @@ func TestCellName(t *testing.T) {
 		}
 	}
 }
+
+// A cell written with a formula but no stored result (a workbook saved by
+// a program that does not calculate; in the xlsx format a cell's formula
+// and its cached value are separate elements, ECMA-376 Part 1, from
+// memory) reads as empty: the error says it holds a formula and how to get
+// its result stored, instead of calling the cell empty.
+func TestXLSXFormulaWithoutResult(t *testing.T) {
+	f, err := excelize.OpenReader(bytes.NewReader(makeWorkbook(t, "")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if err := f.SetCellValue("SYN-3", "C9", nil); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.SetCellFormula("SYN-3", "C9", "B9"); err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	_, err = Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"})
+	pe := wantParseError(t, err, ErrNumber, 9, 3, "SYN-3!C9", "stretch_2 holds the formula =B9 but no stored result")
+	if !strings.Contains(pe.Fix, "save it") {
+		t.Errorf("the fix does not say how to store the result: %q", pe.Fix)
+	}
+	// A cell left empty is still called empty.
+	if err := f.SetCellFormula("SYN-3", "C9", ""); err != nil {
+		t.Fatal(err)
+	}
+	buf.Reset()
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	_, err = Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"})
+	wantParseError(t, err, ErrNumber, 9, 3, "SYN-3!C9", "stretch_2 is empty")
+}

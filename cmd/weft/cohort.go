@@ -435,6 +435,11 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 			}
 			mc := card.FromModel(mm, unit, signs)
 			mc.Specimen = fmt.Sprintf("mean parameters of %d specimens", len(fits))
+			// The span the specimens were tested over, as the population
+			// card's, with the fibre stretch along the mean model's own
+			// families: without it, check and evaluate could not say
+			// where the mean model extrapolates.
+			mc.DataRange = card.NewDataRange(c.Pooled, mm)
 			cards[cohortreport.MeanCard] = mc
 		}
 	}

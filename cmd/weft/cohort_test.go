@@ -127,6 +127,17 @@ func TestCohortPlanted(t *testing.T) {
 		}
 		schemaValidate(t, b)
 	}
+	// The mean card spans the pooled data, as the population card does
+	// (it had no data range until 2026-12-04), with a fibre stretch for
+	// each of its families.
+	pop, _ := readCardFile(t, filepath.Join(out, "population.json"))
+	mean, _ := readCardFile(t, filepath.Join(out, "mean-parameters.json"))
+	if pop.DataRange == nil || mean.DataRange == nil {
+		t.Fatalf("data ranges: population %v, mean %v", pop.DataRange, mean.DataRange)
+	}
+	if mean.DataRange.Stretch1 != pop.DataRange.Stretch1 || mean.DataRange.Stretch2 != pop.DataRange.Stretch2 || len(mean.DataRange.FibreStretch) != 1 {
+		t.Errorf("mean card's data range %+v, population's %+v", mean.DataRange, pop.DataRange)
+	}
 	// Each specimen's row carries its own fit's flags, as its card does
 	// (they were dropped from the cohort's outputs until 2026-12-04).
 	for _, r := range s.Specimens {

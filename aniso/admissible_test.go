@@ -421,3 +421,44 @@ func TestAcousticEntryKeepsEveryBit(t *testing.T) {
 		}
 	}
 }
+
+// The tolerances scale with the stiffness of the card, not with the bare
+// weights: a Fung-type term's weight c is not a modulus (its small-strain
+// moduli are c·b_i, Tong & Fung 1976). As every b_i → 0 with c·b_i fixed
+// the term tends to the quadratic energy (c/2)·Q(E), since e^Q − 1 = Q +
+// O(Q²), so c = 10·s with b = (5, 3, 1, 2)/s is the same material, to
+// about 1e-9, at s = 1e9 and at s = 1e11, and the scans must agree. That
+// quadratic Green-strain energy loses stability and ellipticity in
+// compression; at F = 0.7·I, with E = (0.7² − 1)/2 and a = e2, b = e1,
+// (a⊗b):A:(a⊗b) = S11 + c b4 F22²/2 = c (b1 + b3) E + c b4 0.7²/2 = −10.4
+// kPa (hand derivation, closed form), the scan's smallest value. An
+// independent scan (second derivatives of the energy written from the
+// catalogue formulas, by forward automatic differentiation outside weft)
+// counts 68 unstable and 255 non-elliptic points at a tolerance of 1e-10
+// of c·b1 = 50 kPa. Until 2026-12 the tolerance was 1e-10·c: 1 kPa at
+// s = 1e9 (89 and 290 points) and 100 kPa at s = 1e11, above the
+// eigenvalues, where every point failed.
+func TestStabilityToleranceFollowsFungModulus(t *testing.T) {
+	g := DefaultStabilityGrid()
+	for _, s := range []float64{1e9, 1e11} {
+		m := &Model{Terms: []Term{{Shape: terms.Lookup("fung"), Family: -1, Weight: 10 * s,
+			Params: []float64{5 / s, 3 / s, 1 / s, 2 / s}}}}
+		r, err := m.CheckStability(g)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.UnstablePoints != 68 || r.NonEllipticPoints != 255 || r.NoStiffness != 0 || r.Unresolved != 0 {
+			t.Errorf("s = %g: %d unstable (want 68), %d non-elliptic (want 255), %d without stiffness, %d unresolved (tolerance %g)",
+				s, r.UnstablePoints, r.NonEllipticPoints, r.NoStiffness, r.Unresolved, r.Tolerance)
+		}
+		if got := r.WorstEllipticity.MinEllipticity; math.Abs(got+10.4) > 1e-6 {
+			t.Errorf("s = %g: smallest (a⊗b):A:(a⊗b) %g, want -10.4", s, got)
+		}
+		if want := 1e-10 * 50; math.Abs(r.Tolerance-want) > 1e-12*want {
+			t.Errorf("s = %g: tolerance %g, want 1e-10·c·b1 = %g", s, r.Tolerance, want)
+		}
+		if _, tol, err := m.ReferenceStress(); err != nil || math.Abs(tol-50e-9) > 1e-20 {
+			t.Errorf("s = %g: reference-stress tolerance %g (%v), want 1e-9·c·b1", s, tol, err)
+		}
+	}
+}

@@ -329,10 +329,17 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 				rep.FullIndefiniteTensile++
 			}
 		}
-		if f1 && p.MinModuloRotation < rep.WorstStability.MinModuloRotation || rep.UnstablePoints == 0 && p.MinModuloRotation < rep.WorstStability.MinModuloRotation && !u1 {
+		// Without failures the worst point is the smallest resolved
+		// value: a positive eigenvalue within the point's resolution
+		// passes (nothing fails there), but its digits are round-off, so
+		// it is not reported as the smallest (on the membrane demo it
+		// was 7.56 kPa where the matrix alone guarantees 8.46).
+		r1 := !(math.Abs(p.MinModuloRotation) <= p.Resolution)
+		r2 := !(math.Abs(p.MinEllipticity) <= p.Resolution)
+		if f1 && p.MinModuloRotation < rep.WorstStability.MinModuloRotation || rep.UnstablePoints == 0 && p.MinModuloRotation < rep.WorstStability.MinModuloRotation && r1 {
 			rep.WorstStability = p
 		}
-		if f2 && p.MinEllipticity < rep.WorstEllipticity.MinEllipticity || rep.NonEllipticPoints == 0 && p.MinEllipticity < rep.WorstEllipticity.MinEllipticity && !u2 {
+		if f2 && p.MinEllipticity < rep.WorstEllipticity.MinEllipticity || rep.NonEllipticPoints == 0 && p.MinEllipticity < rep.WorstEllipticity.MinEllipticity && r2 {
 			rep.WorstEllipticity = p
 		}
 	}

@@ -462,3 +462,41 @@ func TestStabilityToleranceFollowsFungModulus(t *testing.T) {
 		}
 	}
 }
+
+// The smallest stability eigenvalue the scan reports is a resolved one. On
+// the membrane demo's card (a neo-Hookean matrix and one exponential fibre
+// family, fitted values) the fibre term's Hessian in F is positive
+// semidefinite wherever it is engaged (f′ ≥ 0, f″ ≥ 0 and I4 = |F a0|²
+// does not involve F33), so by Weyl's inequality (Horn & Johnson, Matrix
+// Analysis, from memory) the card's eigenvalue modulo rotation is at least
+// the matrix term's alone at the same F. Until 2026-12 the scan reported
+// 7.56 kPa at F = [[1.6, 0.3], [0, 1.5]], where the matrix alone gives
+// 8.465 kPa (an independent computation outside weft agrees to 1e-9): a
+// value inside the point's resolution (tangent entries of 1e17 kPa), whose
+// digits are round-off.
+func TestWorstStabilityIsResolved(t *testing.T) {
+	matrix := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3.954996016747644}
+	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 60.60799979275015, Params: []float64{7.872752417683145}}
+	fams := []Family{{Angle: 29.979129122883652 * deg}}
+	card := &Model{Families: fams, Terms: []Term{matrix, fib}}
+	alone := &Model{Families: fams, Terms: []Term{matrix}}
+	g := DefaultStabilityGrid()
+	r, err := card.CheckStability(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := r.WorstStability
+	if !r.Stable() || math.Abs(w.MinModuloRotation) <= w.Resolution {
+		t.Fatalf("stable %v; worst %g at %v within its resolution %g", r.Stable(), w.MinModuloRotation, w.F, w.Resolution)
+	}
+	p, err := alone.StabilityAt(w.F, g.Directions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w.MinModuloRotation < p.MinModuloRotation-w.Resolution {
+		t.Errorf("worst %g at %v below the matrix alone's %g there (Weyl's inequality)", w.MinModuloRotation, w.F, p.MinModuloRotation)
+	}
+	if p, err := alone.StabilityAt([4]float64{1.6, 0.3, 0, 1.5}, g.Directions); err != nil || math.Abs(p.MinModuloRotation-8.46497111) > 1e-7 {
+		t.Errorf("matrix alone at [[1.6, 0.3], [0, 1.5]]: %g (%v), independent 8.46497111", p.MinModuloRotation, err)
+	}
+}

@@ -500,3 +500,28 @@ func TestWorstStabilityIsResolved(t *testing.T) {
 		t.Errorf("matrix alone at [[1.6, 0.3], [0, 1.5]]: %g (%v), independent 8.46497111", p.MinModuloRotation, err)
 	}
 }
+
+// Where det F = 1 the neo-Hookean membrane's full tangent is singular, not
+// indefinite (README, material stability): for W = w(|F|² + det F⁻² − 3)
+// the Hessian there is 2w|δF|² + w[6(cof F:δF)² − 4 det δF] (hand
+// derivation), zero on the conformal increment δF = [[a, b], [−b, a]]
+// with a(F11 + F22) + b(F12 − F21) = 0, while the rigid rotation still
+// carries σ11 + σ22.
+func TestNeoHookeanSingularAtUnitDeterminant(t *testing.T) {
+	m := &Model{Terms: []Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2}}}
+	for _, F := range [][4]float64{{1, 0, 0, 1}, {1, 0.3, 0, 1}, {0.8, 0.15, 0, 1.25}, {1.25, 0, -0.3, 0.8}} {
+		tg, err := m.Tangent(F)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, b := -(F[1] - F[2]), F[0]+F[3]
+		d := [4]float64{a, b, -b, a}
+		if q := quadForm(&tg.A, d, d); math.Abs(q) > 1e-12*dot4(d, d) {
+			t.Errorf("F = %v: δF:A:δF = %g on the conformal increment, want 0", F, q)
+		}
+		A := tg.A
+		if e := minEigen4(&A); math.Abs(e) > 1e-12 {
+			t.Errorf("F = %v: smallest eigenvalue %g, want 0 (positive semidefinite)", F, e)
+		}
+	}
+}

@@ -421,3 +421,107 @@ func TestAcousticEntryKeepsEveryBit(t *testing.T) {
 		}
 	}
 }
+
+// The tolerances scale with the stiffness of the card, not with the bare
+// weights: a Fung-type term's weight c is not a modulus (its small-strain
+// moduli are c·b_i, Tong & Fung 1976). As every b_i → 0 with c·b_i fixed
+// the term tends to the quadratic energy (c/2)·Q(E), since e^Q − 1 = Q +
+// O(Q²), so c = 10·s with b = (5, 3, 1, 2)/s is the same material, to
+// about 1e-9, at s = 1e9 and at s = 1e11, and the scans must agree. That
+// quadratic Green-strain energy loses stability and ellipticity in
+// compression; at F = 0.7·I, with E = (0.7² − 1)/2 and a = e2, b = e1,
+// (a⊗b):A:(a⊗b) = S11 + c b4 F22²/2 = c (b1 + b3) E + c b4 0.7²/2 = −10.4
+// kPa (hand derivation, closed form), the scan's smallest value. An
+// independent scan (second derivatives of the energy written from the
+// catalogue formulas, by forward automatic differentiation outside weft)
+// counts 68 unstable and 255 non-elliptic points at a tolerance of 1e-10
+// of c·b1 = 50 kPa. Until 2026-12 the tolerance was 1e-10·c: 1 kPa at
+// s = 1e9 (89 and 290 points) and 100 kPa at s = 1e11, above the
+// eigenvalues, where every point failed.
+func TestStabilityToleranceFollowsFungModulus(t *testing.T) {
+	g := DefaultStabilityGrid()
+	for _, s := range []float64{1e9, 1e11} {
+		m := &Model{Terms: []Term{{Shape: terms.Lookup("fung"), Family: -1, Weight: 10 * s,
+			Params: []float64{5 / s, 3 / s, 1 / s, 2 / s}}}}
+		r, err := m.CheckStability(g)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if r.UnstablePoints != 68 || r.NonEllipticPoints != 255 || r.NoStiffness != 0 || r.Unresolved != 0 {
+			t.Errorf("s = %g: %d unstable (want 68), %d non-elliptic (want 255), %d without stiffness, %d unresolved (tolerance %g)",
+				s, r.UnstablePoints, r.NonEllipticPoints, r.NoStiffness, r.Unresolved, r.Tolerance)
+		}
+		if got := r.WorstEllipticity.MinEllipticity; math.Abs(got+10.4) > 1e-6 {
+			t.Errorf("s = %g: smallest (a⊗b):A:(a⊗b) %g, want -10.4", s, got)
+		}
+		if want := 1e-10 * 50; math.Abs(r.Tolerance-want) > 1e-12*want {
+			t.Errorf("s = %g: tolerance %g, want 1e-10·c·b1 = %g", s, r.Tolerance, want)
+		}
+		if _, tol, err := m.ReferenceStress(); err != nil || math.Abs(tol-50e-9) > 1e-20 {
+			t.Errorf("s = %g: reference-stress tolerance %g (%v), want 1e-9·c·b1", s, tol, err)
+		}
+	}
+}
+
+// The smallest stability eigenvalue the scan reports is a resolved one. On
+// the membrane demo's card (a neo-Hookean matrix and one exponential fibre
+// family, fitted values) the fibre term's Hessian in F is positive
+// semidefinite wherever it is engaged (f′ ≥ 0, f″ ≥ 0 and I4 = |F a0|²
+// does not involve F33), so by Weyl's inequality (Horn & Johnson, Matrix
+// Analysis, from memory) the card's eigenvalue modulo rotation is at least
+// the matrix term's alone at the same F. Until 2026-12 the scan reported
+// 7.56 kPa at F = [[1.6, 0.3], [0, 1.5]], where the matrix alone gives
+// 8.465 kPa (an independent computation outside weft agrees to 1e-9): a
+// value inside the point's resolution (tangent entries of 1e17 kPa), whose
+// digits are round-off.
+func TestWorstStabilityIsResolved(t *testing.T) {
+	matrix := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3.954996016747644}
+	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 60.60799979275015, Params: []float64{7.872752417683145}}
+	fams := []Family{{Angle: 29.979129122883652 * deg}}
+	card := &Model{Families: fams, Terms: []Term{matrix, fib}}
+	alone := &Model{Families: fams, Terms: []Term{matrix}}
+	g := DefaultStabilityGrid()
+	r, err := card.CheckStability(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := r.WorstStability
+	if !r.Stable() || math.Abs(w.MinModuloRotation) <= w.Resolution {
+		t.Fatalf("stable %v; worst %g at %v within its resolution %g", r.Stable(), w.MinModuloRotation, w.F, w.Resolution)
+	}
+	p, err := alone.StabilityAt(w.F, g.Directions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w.MinModuloRotation < p.MinModuloRotation-w.Resolution {
+		t.Errorf("worst %g at %v below the matrix alone's %g there (Weyl's inequality)", w.MinModuloRotation, w.F, p.MinModuloRotation)
+	}
+	if p, err := alone.StabilityAt([4]float64{1.6, 0.3, 0, 1.5}, g.Directions); err != nil || math.Abs(p.MinModuloRotation-8.46497111) > 1e-7 {
+		t.Errorf("matrix alone at [[1.6, 0.3], [0, 1.5]]: %g (%v), independent 8.46497111", p.MinModuloRotation, err)
+	}
+}
+
+// Where det F = 1 the neo-Hookean membrane's full tangent is singular, not
+// indefinite (README, material stability): for W = w(|F|² + det F⁻² − 3)
+// the Hessian there is 2w|δF|² + w[6(cof F:δF)² − 4 det δF] (hand
+// derivation), zero on the conformal increment δF = [[a, b], [−b, a]]
+// with a(F11 + F22) + b(F12 − F21) = 0, while the rigid rotation still
+// carries σ11 + σ22.
+func TestNeoHookeanSingularAtUnitDeterminant(t *testing.T) {
+	m := &Model{Terms: []Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2}}}
+	for _, F := range [][4]float64{{1, 0, 0, 1}, {1, 0.3, 0, 1}, {0.8, 0.15, 0, 1.25}, {1.25, 0, -0.3, 0.8}} {
+		tg, err := m.Tangent(F)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, b := -(F[1] - F[2]), F[0]+F[3]
+		d := [4]float64{a, b, -b, a}
+		if q := quadForm(&tg.A, d, d); math.Abs(q) > 1e-12*dot4(d, d) {
+			t.Errorf("F = %v: δF:A:δF = %g on the conformal increment, want 0", F, q)
+		}
+		A := tg.A
+		if e := minEigen4(&A); math.Abs(e) > 1e-12 {
+			t.Errorf("F = %v: smallest eigenvalue %g, want 0 (positive semidefinite)", F, e)
+		}
+	}
+}

@@ -34,7 +34,8 @@ func newCheckCmd(s *streams) *cobra.Command {
 		Long: `check tests a model card for use in finite-element analysis:
 
   1. stress-free reference: |sigma| at F = I at most 1e-9 times the sum of the
-     weights;
+     weights (a Fung-type term counted with its modulus c max(b), not c; the
+     eigenvalue tolerance below is 1e-10 times the same sum);
   2. polyconvexity: which terms keep the energy polyconvex and which do not
      (reported, not failed); for the Fung-type term (Tong & Fung 1976) its
      convexity condition b1 > 0, b2 > 0, b1 b2 > b3^2 and, when the grid

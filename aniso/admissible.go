@@ -349,14 +349,19 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 	return rep, nil
 }
 
-// weightSum is the stress scale of the tolerances: Σ w_k, except that a
-// Green-strain (Fung-type) term counts with its largest small-strain modulus
-// c·max(b1, b2, |b3|, b4) rather than its weight c. Every other weight is a
-// modulus or a stiffness coefficient, but c alone is not (Tong & Fung 1976:
-// S11 = c (b1 E11 + b3 E22) at small strain): a fit whose exponent
-// coefficients go to zero drives c up with c·b fixed (c ≈ 9e9 kPa on the
-// sutured demo membrane), and a tolerance of 1e-10·c then counted real
-// positive eigenvalues as failures, or the whole grid as without stiffness.
+// StressScale is the model's stress scale (stress unit), the yardstick of
+// its tolerances and of an exported bulk modulus: Σ w_k, except that a
+// Green-strain (Fung-type) term counts with its largest small-strain
+// modulus c·max(b1, b2, |b3|, b4) rather than its weight c. Every other
+// weight is a modulus or a stiffness coefficient, but c alone is not (Tong
+// & Fung 1976: S11 = c (b1 E11 + b3 E22) at small strain): a fit whose
+// exponent coefficients go to zero drives c up with c·b fixed (c ≈ 9e9 kPa
+// on the sutured demo membrane), and a tolerance of 1e-10·c then counted
+// real positive eigenvalues as failures, or the whole grid as without
+// stiffness. 1 for a model whose scale is zero.
+func (m *Model) StressScale() float64 { return weightSum(m) }
+
+// weightSum is StressScale.
 func weightSum(m *Model) float64 {
 	s := 0.0
 	for _, t := range m.Terms {

@@ -20,23 +20,23 @@ type ThreeDBlock struct {
 	// full C (fibre families and the Fung-type term).
 	MatrixTerms []string `json:"isochoric_terms"`
 	FibreTerms  []string `json:"full_invariant_terms"`
-	// SuggestedBulkModulus is 1e3 × the sum of the weights (stress unit),
-	// the smallest bulk modulus with which the tests find the membrane
-	// stresses of the verification table within 1e-3.
+	// SuggestedBulkModulus is 1e3 × the card's stress scale (stress unit;
+	// aniso.Model.StressScale: the sum of the weights, a Fung-type term
+	// counted by its small-strain modulus c·max|b|), the smallest bulk
+	// modulus with which the tests find the membrane stresses of the
+	// verification table within 1e-3.
 	SuggestedBulkModulus float64 `json:"suggested_bulk_modulus"`
 }
 
-// BulkModulusFactor is the suggested bulk modulus as a multiple of the sum
-// of a card's weights.
+// BulkModulusFactor is the suggested bulk modulus as a multiple of a
+// card's stress scale (aniso.Model.StressScale).
 const BulkModulusFactor = 1e3
 
 // threeDBlock writes the block for model m with weights in unit.
 func threeDBlock(m *aniso.Model, unit string) ThreeDBlock {
 	b := ThreeDBlock{MatrixTerms: []string{}, FibreTerms: []string{}}
-	sum := 0.0
 	names := familyNames(m)
 	for i, t := range m.Terms {
-		sum += t.Weight
 		label := fmt.Sprintf("%d:%s", i+1, t.Shape.ID)
 		if t.Family >= 0 {
 			label += "@" + names[t.Family]
@@ -48,7 +48,7 @@ func threeDBlock(m *aniso.Model, unit string) ThreeDBlock {
 			b.FibreTerms = append(b.FibreTerms, label)
 		}
 	}
-	b.SuggestedBulkModulus = BulkModulusFactor * sum
+	b.SuggestedBulkModulus = BulkModulusFactor * m.StressScale()
 	list := func(s []string) string {
 		if len(s) == 0 {
 			return "none in this card"
@@ -60,7 +60,7 @@ func threeDBlock(m *aniso.Model, unit string) ThreeDBlock {
 		"A code with a volumetric-isochoric split (nearly incompressible) uses Psi(F) = Psi_matrix(Ibar1, Ibar2, lambdabar_i) + Psi_fibres(C) + U(J), with J = det F, Ibar1 = J^(-2/3) I1, Ibar2 = J^(-4/3) I2, lambdabar_i = J^(-1/3) lambda_i and I1, I2 = (I1^2 - tr C^2)/2 of the full C = F^T F.",
 		"Isochoric (matrix) terms: every I1, I2 and principal-stretch term, with its argument written in Ibar1, Ibar2 or lambdabar_i: " + list(b.MatrixTerms) + ".",
 		"Terms in the invariants of the full C: every fibre, cofactor and I5 term, the dispersion kappa (E_f = kappa (I1 - 3) + (1 - 3 kappa)(I4 - 1) = H:C - 1 with H = kappa 1 + (1 - 3 kappa) a0 (x) a0), in-plane dispersion (I4(theta) = a0(theta).C a0(theta)), K = a0.cof(C) a0 = I5 - I1 I4 + I2 (true for any J) and the Fung-type term (the in-plane Green strain E = (C - 1)/2 in the tester's axes, which does not depend on J), with the switches as in the card (I4 > 1, K > 1): " + list(b.FibreTerms) + ".",
-		fmt.Sprintf("U(J) = (kappa_b/2)(J - 1)^2 with a bulk modulus kappa_b of your choice; U(1) = U'(1) = 0 and every other term is stress-free at F = I, so the reference stays stress-free. kappa_b = %g x the sum of the weights = %.6g %s keeps the membrane stresses of the verification table within 1e-3 of the card's (tested); a larger kappa_b comes closer to the incompressible card but stiffens the equations (common practice: kappa_b of 1e3 to 1e4 times the shear modulus, or a mixed u-p formulation).", BulkModulusFactor, b.SuggestedBulkModulus, unit),
+		fmt.Sprintf("U(J) = (kappa_b/2)(J - 1)^2 with a bulk modulus kappa_b of your choice; U(1) = U'(1) = 0 and every other term is stress-free at F = I, so the reference stays stress-free. kappa_b = %g x the card's stress scale (the sum of the weights, a Fung-type term counted by c max|b|) = %.6g %s keeps the membrane stresses of the verification table within 1e-3 of the card's (tested); a larger kappa_b comes closer to the incompressible card but stiffens the equations (common practice: kappa_b of 1e3 to 1e4 times the shear modulus, or a mixed u-p formulation).", BulkModulusFactor, b.SuggestedBulkModulus, unit),
 		"Why the fibre terms keep the full invariants: with a finite bulk modulus, fibre terms in the isochoric Ibar4 = J^(-2/3) I4 cannot resist a change of volume along the fibres, so an anisotropic body under hydrostatic pressure deforms as if it were isotropic (Sansour 2008, Eur J Mech A/Solids 27:28-39; from memory). Both forms approach the incompressible card as kappa_b grows.",
 		"Planar biaxial data do not constrain the out-of-plane or volumetric response (Holzapfel & Ogden 2009): the bulk modulus, and any out-of-plane behaviour of the terms, are assumptions of the FE model, not results of the fit.",
 	}

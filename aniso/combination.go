@@ -46,14 +46,31 @@ func (r *Result) combination(cols []jcol, cov *mat.Dense, block []int) (Combinat
 		}
 	}
 	c.Coefficients = make([]float64, m)
-	lead := 0
 	for i := range block {
 		c.Coefficients[i] = vecs.At(i, least) / sd[i]
-		if math.Abs(c.Coefficients[i]) > math.Abs(c.Coefficients[lead]) {
+	}
+	// The member with the largest coefficient is set to 1, and among the
+	// members without the stress unit (angles, shape parameters) when the
+	// block has any: a weight's coefficient is per stress unit, so with a
+	// weight and an angle in one block the largest coefficient would
+	// change with the unit, and the same test in Pa and in kPa would state
+	// its combination with different members set to 1. Among weights alone
+	// (one unit) or the others alone the choice does not depend on it.
+	isWeight := func(i int) bool { return r.Estimates[cols[block[i]].est].Kind == "weight" }
+	others := false
+	for i := range block {
+		others = others || !isWeight(i)
+	}
+	lead := -1
+	for i := range block {
+		if others && isWeight(i) {
+			continue
+		}
+		if lead < 0 || math.Abs(c.Coefficients[i]) > math.Abs(c.Coefficients[lead]) {
 			lead = i
 		}
 	}
-	// The largest coefficient is +1, which also fixes the eigenvector's
+	// The lead's coefficient is +1, which also fixes the eigenvector's
 	// arbitrary sign.
 	norm := c.Coefficients[lead]
 	variance := 0.0

@@ -62,7 +62,10 @@ func StatusMeaning(status string) string {
 type Combination struct {
 	// Names are the members, as in Result.Estimates.
 	Names []string
-	// Coefficients of the sum; the largest |coefficient| is 1.
+	// Coefficients of the sum, in the members' own units. The largest
+	// |coefficient| is 1, taken among the members that are not weights
+	// when there are any, so that a change of stress unit rescales the
+	// weights' coefficients and leaves the rest of the statement alone.
 	Coefficients []float64
 	// Value of the combination and its StdErr; MemberStdErr are the
 	// members' own standard errors, for comparison.

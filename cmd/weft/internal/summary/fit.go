@@ -116,6 +116,9 @@ func printFitHead(w io.Writer, f *Fit) {
 		if d.Verdict.Decider != "" {
 			fmt.Fprintf(w, "          to decide: %s\n", d.Verdict.Decider)
 		}
+		if next := nextStep(f); next != "" {
+			fmt.Fprintf(w, "          next:     %s\n", next)
+		}
 		if c := f.Card.CalibrationCheck; c != nil {
 			fmt.Fprintf(w, "check:    %s\n", c.Summary)
 		}
@@ -265,4 +268,27 @@ func printParameters(w io.Writer, r *aniso.Result) {
 	for _, f := range r.Flags {
 		fmt.Fprintf(w, "flag:     %s\n", f)
 	}
+}
+
+// nextStep says, for a verdict the data leave undecided, which command
+// ranks the tests that would settle it; "" otherwise.
+func nextStep(f *Fit) string {
+	if f.Discovery == nil || f.Discovery.Verdict.Families != "undecided" || f.Dir == "" {
+		return ""
+	}
+	return "weft plan " + shellWord(f.Dir) + " ranks the tests that would settle it, by how far they would set the rival models apart"
+}
+
+// shellWord quotes s for a POSIX shell when it holds anything but letters,
+// digits and . _ - / + , : @ %, so that the printed command can be pasted.
+func shellWord(s string) string {
+	if s == "" {
+		return "''"
+	}
+	for _, r := range s {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || strings.ContainsRune("._-/+,:@%", r)) {
+			return "'" + strings.ReplaceAll(s, "'", `'\''`) + "'"
+		}
+	}
+	return s
 }

@@ -300,13 +300,9 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		pts[i].Cycle = cyc[i]
 	}
 
-	if opt.Rereference {
-		rereference(pts, s.Kind, &s.Measured, &pr)
-	}
-	checkNegative(s, label, pts)
-	if !opt.Rereference {
-		checkPreload(s, &pr, pts)
-	}
+	// The scatter as measured, before smoothing; then the smoothed F is
+	// what everything else uses, the re-referencing first of all (its
+	// reference point is then exactly the identity).
 	pr.StrainScatter = strainScatter(pts)
 	if opt.SmoothStrain > 0 {
 		// One branch at a time: a window reaching across a turning point or
@@ -332,6 +328,13 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		}
 		pr.SmoothWindow = opt.SmoothStrain
 		pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", opt.SmoothStrain)
+	}
+	if opt.Rereference {
+		rereference(pts, s.Kind, &s.Measured, &pr)
+	}
+	checkNegative(s, label, pts)
+	if !opt.Rereference {
+		checkPreload(s, &pr, pts)
 	}
 	if opt.Resample > 0 {
 		pts, err = resample(pts, opt.Resample)

@@ -97,11 +97,12 @@ type Options struct {
 	// quadratic Savitzky–Golay filter over that many points (Savitzky &
 	// Golay 1964: each point replaced by the value at it of the
 	// least-squares quadratic through the window centred on it; the first
-	// and last points by the quadratic of the first and last window),
-	// before resampling: it lowers the tracking noise of markers (see
-	// scatter.go) and leaves a quadratic path as it was. It must be 0
-	// (default: F as measured) or an odd number of at least MinPoints, and
-	// a protocol must keep at least that many points.
+	// and last points by the quadratic of the first and last window), one
+	// kept branch at a time (never across a turning point or from one kept
+	// cycle to the next), before resampling: it lowers the tracking noise
+	// of markers (see scatter.go) and leaves a quadratic path as it was.
+	// It must be 0 (default: F as measured) or an odd number of at least
+	// MinPoints, and every kept branch must hold at least that many points.
 	SmoothStrain int
 	// ProtocolWeights gives a relative weight per protocol label (> 0,
 	// default 1 for a label not in the map). A label that names no protocol

@@ -287,7 +287,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	if err != nil {
 		return pr, err
 	}
-	keep, cyc := rows.keepBranches(s, opt.Branch, cycles, chosen)
+	keep, cyc, starts := rows.keepBranches(s, opt.Branch, cycles, chosen)
 	pr.SelectedPoints = len(keep)
 	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), g.n)
 	if len(keep) < MinPoints {
@@ -300,22 +300,41 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		pts[i].Cycle = cyc[i]
 	}
 
+	// The scatter as measured, before smoothing; then the smoothed F is
+	// what everything else uses, the re-referencing first of all (its
+	// reference point is then exactly the identity).
+	pr.StrainScatter = strainScatter(pts)
+	if opt.SmoothStrain > 0 {
+		// One branch at a time: a window reaching across a turning point or
+		// across the jump from one kept branch to the next would mix
+		// stretches that no marker track holds side by side.
+		for j, a := range starts {
+			b := len(pts)
+			if j+1 < len(starts) {
+				b = starts[j+1]
+			}
+			if b-a < opt.SmoothStrain {
+				return pr, perr(ErrProtocol, "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol",
+					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch",
+					plural(b-a, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain)
+			}
+		}
+		for j, a := range starts {
+			b := len(pts)
+			if j+1 < len(starts) {
+				b = starts[j+1]
+			}
+			smoothStrain(pts[a:b], opt.SmoothStrain)
+		}
+		pr.SmoothWindow = opt.SmoothStrain
+		pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", opt.SmoothStrain)
+	}
 	if opt.Rereference {
 		rereference(pts, s.Kind, &s.Measured, &pr)
 	}
 	checkNegative(s, label, pts)
 	if !opt.Rereference {
 		checkPreload(s, &pr, pts)
-	}
-	pr.StrainScatter = strainScatter(pts)
-	if opt.SmoothStrain > 0 {
-		if len(pts) < opt.SmoothStrain {
-			return pr, perr(ErrProtocol, "smooth over fewer points, or keep more of the protocol",
-				"keeps %s, fewer than the smoothing window of %d", plural(len(pts), "point"), opt.SmoothStrain)
-		}
-		smoothStrain(pts, opt.SmoothStrain)
-		pr.SmoothWindow = opt.SmoothStrain
-		pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", opt.SmoothStrain)
 	}
 	if opt.Resample > 0 {
 		pts, err = resample(pts, opt.Resample)
@@ -357,7 +376,10 @@ func chooseCycles(opt Options, n int, pr *Protocol, perr func(cat error, fix, fo
 
 // keepBranches collects the kept positions of the chosen cycles with their
 // cycle numbers (1-based), and warns where a kept branch runs backwards.
-func (r *protocolRows) keepBranches(s *Specimen, br Branch, cycles []cycleSpan, chosen []int) (keep, cyc []int) {
+// starts holds the index into keep at which each kept branch begins (for
+// both branches, a cycle's unloading begins after its peak), so that
+// smoothing can keep to one branch at a time.
+func (r *protocolRows) keepBranches(s *Specimen, br Branch, cycles []cycleSpan, chosen []int) (keep, cyc, starts []int) {
 	tol := backFraction * (r.dmax - r.dmin)
 	for _, k := range chosen {
 		c := cycles[k]
@@ -376,13 +398,22 @@ func (r *protocolRows) keepBranches(s *Specimen, br Branch, cycles []cycleSpan, 
 			}
 			r.checkDirection(s, c.idx[:c.peak+1], +1, tol)
 			r.checkDirection(s, c.idx[c.peak:], -1, tol)
+			if c.peak+1 < len(part) { // the loading branch first
+				starts = append(starts, len(keep))
+				keep = append(keep, part[:c.peak+1]...)
+				for range c.peak + 1 {
+					cyc = append(cyc, k+1)
+				}
+				part = part[c.peak+1:]
+			}
 		}
+		starts = append(starts, len(keep))
 		keep = append(keep, part...)
 		for range part {
 			cyc = append(cyc, k+1)
 		}
 	}
-	return keep, cyc
+	return keep, cyc, starts
 }
 
 // mixed refuses rows of one label that cannot be one protocol — a label

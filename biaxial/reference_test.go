@@ -302,3 +302,49 @@ func TestPreloadWarning(t *testing.T) {
 		t.Errorf("pre-stretch 1.002 (about 2 %% of the range at the reference): %+v", ws)
 	}
 }
+
+// Smoothing comes before re-referencing, as the README says (the smoothed
+// F is what everything else uses): the new reference is the smoothed first
+// point, which the re-referenced data then hold as exactly the identity,
+// stress-free. Re-referencing first had taken the noisy measured point as
+// the reference and then smoothed the identity away (F11 1.0003, F21
+// −0.0004 at a point carrying zero stress). The smoothed first point is
+// the least-squares quadratic through the first five points evaluated at
+// the first, weights (31, 9, −3, −5, 3)/35 (Savitzky & Golay 1964; from
+// memory, and checked by solving the normal equations independently), and
+// the tare-free nominal stress is P11·F11,ref − P11,0·F11,ref when P12 is
+// not measured (P ← P·F_refᵀ, README Reference state).
+func TestRereferenceUsesSmoothedStrain(t *testing.T) {
+	rec := synthRecord("1:1", 1, 15, 1.02, 1.2, 0.5)
+	for i := range rec.Rows {
+		x := float64(i)
+		rec.Rows[i].F[0] += 0.0005 * math.Sin(3.1*x)
+		rec.Rows[i].F[1] = 0.001 * math.Sin(1.7*x)
+		rec.Rows[i].F[2] = -0.0008 * math.Cos(2.3*x)
+	}
+	s, err := Prepare(rec, Options{Rereference: true, SmoothStrain: 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := s.Protocols[0]
+	w := [5]float64{31, 9, -3, -5, 3}
+	var ref [4]float64
+	for e := range ref {
+		for k := range w {
+			ref[e] += w[k] / 35 * rec.Rows[k].F[e]
+		}
+	}
+	for e := range ref {
+		if math.Abs(pr.RefF[e]-ref[e]) > 1e-12 {
+			t.Errorf("reference F entry %d: %.12g, want the smoothed first point's %.12g", e, pr.RefF[e], ref[e])
+		}
+		if math.Abs(pr.Points[0].F[e]-identityF[e]) > 1e-15 {
+			t.Errorf("first point F entry %d: %.6g, want the identity's %g", e, pr.Points[0].F[e], identityF[e])
+		}
+	}
+	last := len(pr.Points) - 1
+	want := (rec.Rows[last].Stress[C11] - rec.Rows[0].Stress[C11]) * ref[0]
+	if got := pr.Points[last].Stress[C11]; !near(got, want, 1e-12) {
+		t.Errorf("last point P11 %.12g, want %.12g", got, want)
+	}
+}

@@ -183,3 +183,44 @@ func TestSmoothStrainOption(t *testing.T) {
 		}
 	}
 }
+
+// Smoothing stays inside each kept branch. A least-squares polynomial
+// filter reproduces any polynomial of its degree or lower (Savitzky &
+// Golay 1964), so a branch whose stretch is linear in the point index
+// comes through unchanged — but only if the window never reaches across
+// a turning point or across the jump from one cycle's peak to the next
+// cycle's low point, which no marker track contains. The synthetic record
+// has three triangular cycles, linear in the index on each branch; every
+// kept point must keep its measured F with --cycle all, for the loading
+// branches alone (a jump of the whole stretch range between them) and for
+// both branches (a turn at every peak and valley).
+func TestSmoothStrainStaysInsideEachBranch(t *testing.T) {
+	rec := synthRecord("1:1", 3, 12, 1.0, 1.2, 0.5)
+	for _, br := range []Branch{BranchLoading, BranchUnloading, BranchAll} {
+		raw, err := Prepare(rec, Options{Cycle: CycleAll, Branch: br})
+		if err != nil {
+			t.Fatal(err)
+		}
+		sm, err := Prepare(rec, Options{Cycle: CycleAll, Branch: br, SmoothStrain: 5})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, b := raw.Protocols[0].Points, sm.Protocols[0].Points
+		if len(a) != len(b) {
+			t.Fatalf("%v: %d points smoothed, %d raw", br, len(b), len(a))
+		}
+		for i := range a {
+			for e := range a[i].F {
+				if math.Abs(a[i].F[e]-b[i].F[e]) > 1e-12 {
+					t.Fatalf("%v, point %d (line %d, cycle %d), F entry %d: smoothed %.6g, measured %.6g — the window crossed a turn or a jump between branches",
+						br, i, a[i].Line, a[i].Cycle, e, b[i].F[e], a[i].F[e])
+				}
+			}
+		}
+	}
+	// A kept branch shorter than the window is refused, even when the
+	// branches together would be long enough.
+	if _, err := Prepare(synthRecord("1:1", 3, 4, 1.0, 1.2, 0.5), Options{Cycle: CycleAll, SmoothStrain: 5}); !errors.Is(err, ErrProtocol) {
+		t.Errorf("branches of 4 points, window of 5: error %v, want ErrProtocol", err)
+	}
+}

@@ -90,3 +90,29 @@ func quickFit(t *testing.T, data, out string, extra ...string) (string, string, 
 	t.Helper()
 	return runWeft(t, append([]string{"fit", data, "--preset", "neo-hookean", "-o", out, "--quiet"}, extra...)...)
 }
+
+// An unknown shell for 'weft completion' or an unknown topic for 'weft
+// help' is bad input (exit 2, a message on stderr, nothing on stdout),
+// like an unknown command; known ones still print their script or help.
+func TestUnknownHelpTopicAndShellAreBadInput(t *testing.T) {
+	for _, args := range [][]string{{"completion", "tcsh"}, {"help", "nosuch"}, {"help", "fit", "--no-such-flag"}} {
+		out, errs, code := runWeft(t, args...)
+		if code != exitBadInput || out != "" || !strings.HasPrefix(errs, "weft: ") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want exit 2 with a message on stderr only", args, code, out, errs)
+		}
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"completion", "bash"}, "bash completion"},
+		{[]string{"completion"}, "Usage:"},
+		{[]string{"help", "fit"}, "weft fit"},
+		{[]string{"help"}, "Available Commands"},
+	} {
+		out, errs, code := runWeft(t, c.args...)
+		if code != 0 || !strings.Contains(out, c.want) {
+			t.Errorf("%v: exit %d, stderr %q; want exit 0 and %q on stdout", c.args, code, errs, c.want)
+		}
+	}
+}

@@ -116,3 +116,38 @@ func TestUnknownHelpTopicAndShellAreBadInput(t *testing.T) {
 		}
 	}
 }
+
+// A fit's output folder or a test file given where a model card belongs
+// (check, export, evaluate, predict) is bad input whose message names the
+// card to give instead, not only the operating system's or the JSON
+// parser's complaint.
+func TestFolderOrTestFileForACardSaysWhatToGive(t *testing.T) {
+	dir := t.TempDir()
+	cardBytes, err := os.ReadFile(filepath.Join("..", "..", "testdata", "example", "hgo-media.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	fitDir := filepath.Join(dir, "x.weft")
+	os.Mkdir(fitDir, 0o755)
+	os.WriteFile(filepath.Join(fitDir, "model.json"), cardBytes, 0o644)
+	empty := filepath.Join(dir, "empty")
+	os.Mkdir(empty, 0o755)
+	data := quickData(t, dir, "x.csv")
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"check", fitDir}, "give the card inside it: " + filepath.Join(fitDir, "model.json")},
+		{[]string{"export", fitDir}, "give the card inside it: " + filepath.Join(fitDir, "model.json")},
+		{[]string{"evaluate", fitDir, "--stretch", "1.1,1"}, "give the card inside it"},
+		{[]string{"predict", fitDir, data}, "give the card inside it"},
+		{[]string{"check", empty}, "is a folder, not a model card; give the model.json"},
+		{[]string{"check", data}, "looks like a test file; give the model card (model.json)"},
+	}
+	for _, c := range cases {
+		out, errs, code := runWeft(t, c.args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want exit 2 and %q", c.args, code, errs, c.want)
+		}
+	}
+}

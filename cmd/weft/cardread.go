@@ -6,6 +6,7 @@ package main
 import (
 	"errors"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
@@ -79,9 +80,30 @@ func readCard(path string, lim card.Limits) (*card.Card, *aniso.Model, error) {
 		return nil, nil, badInputf("%s: cannot read the model card (%s) — check the path and permissions; a fit writes it as model.json in its output folder", path, safeout.Reason(err))
 	}
 	defer f.Close()
+	if st, err := f.Stat(); err == nil && st.IsDir() {
+		return nil, nil, notACardFolder(path)
+	}
 	c, m, err := card.ParseLimits(f, path, lim)
 	if err != nil {
+		if ext := strings.ToLower(filepath.Ext(path)); ext == ".csv" || ext == ".xlsx" {
+			// A test file given where a card belongs: say which file
+			// to give instead of only why the JSON parser stopped.
+			return nil, nil, badInputf("%v — %s looks like a test file; give the model card (model.json) that 'weft fit' writes from it", withLimitHint(err), path)
+		}
 		return nil, nil, withLimitHint(err)
 	}
 	return c, m, nil
+}
+
+// notACardFolder is the error for a folder given where a model card
+// belongs, naming the card inside it when there is one: a fit's output
+// folder holds model.json, a cohort's population.json.
+func notACardFolder(dir string) error {
+	for _, name := range []string{"model.json", "population.json"} {
+		p := filepath.Join(dir, name)
+		if st, err := os.Stat(p); err == nil && st.Mode().IsRegular() {
+			return badInputf("%s is a folder, not a model card; give the card inside it: %s", dir, p)
+		}
+	}
+	return badInputf("%s is a folder, not a model card; give the model.json that 'weft fit' writes in its output folder", dir)
 }

@@ -103,6 +103,8 @@ func outputAdvice(e *safeout.Error) string {
 		return " — move them elsewhere or" + anotherFolder
 	case safeout.NotWholeFolder:
 		return "; give a new folder name"
+	case safeout.IsInput:
+		return " — choose another output with -o"
 	}
 	return ""
 }

@@ -110,7 +110,11 @@ func runExport(o *exportOptions) error {
 	if o.schema && o.alternative != "" {
 		return badInputf("--alternative applies to a card, not to --schema")
 	}
-	res, err := safeout.OpenResult(o.Out, o.out, o.force)
+	var inputs []string
+	if !o.schema {
+		inputs = append(inputs, o.model)
+	}
+	res, err := safeout.OpenResult(o.Out, o.out, o.force, inputs...)
 	if err != nil {
 		return outputError(err)
 	}

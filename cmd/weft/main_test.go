@@ -90,3 +90,64 @@ func quickFit(t *testing.T, data, out string, extra ...string) (string, string, 
 	t.Helper()
 	return runWeft(t, append([]string{"fit", data, "--preset", "neo-hookean", "-o", out, "--quiet"}, extra...)...)
 }
+
+// An unknown shell for 'weft completion' or an unknown topic for 'weft
+// help' is bad input (exit 2, a message on stderr, nothing on stdout),
+// like an unknown command; known ones still print their script or help.
+func TestUnknownHelpTopicAndShellAreBadInput(t *testing.T) {
+	for _, args := range [][]string{{"completion", "tcsh"}, {"help", "nosuch"}, {"help", "fit", "--no-such-flag"}} {
+		out, errs, code := runWeft(t, args...)
+		if code != exitBadInput || out != "" || !strings.HasPrefix(errs, "weft: ") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want exit 2 with a message on stderr only", args, code, out, errs)
+		}
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"completion", "bash"}, "bash completion"},
+		{[]string{"completion"}, "Usage:"},
+		{[]string{"help", "fit"}, "weft fit"},
+		{[]string{"help"}, "Available Commands"},
+	} {
+		out, errs, code := runWeft(t, c.args...)
+		if code != 0 || !strings.Contains(out, c.want) {
+			t.Errorf("%v: exit %d, stderr %q; want exit 0 and %q on stdout", c.args, code, errs, c.want)
+		}
+	}
+}
+
+// A fit's output folder or a test file given where a model card belongs
+// (check, export, evaluate, predict) is bad input whose message names the
+// card to give instead, not only the operating system's or the JSON
+// parser's complaint.
+func TestFolderOrTestFileForACardSaysWhatToGive(t *testing.T) {
+	dir := t.TempDir()
+	cardBytes, err := os.ReadFile(filepath.Join("..", "..", "testdata", "example", "hgo-media.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	fitDir := filepath.Join(dir, "x.weft")
+	os.Mkdir(fitDir, 0o755)
+	os.WriteFile(filepath.Join(fitDir, "model.json"), cardBytes, 0o644)
+	empty := filepath.Join(dir, "empty")
+	os.Mkdir(empty, 0o755)
+	data := quickData(t, dir, "x.csv")
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"check", fitDir}, "give the card inside it: " + filepath.Join(fitDir, "model.json")},
+		{[]string{"export", fitDir}, "give the card inside it: " + filepath.Join(fitDir, "model.json")},
+		{[]string{"evaluate", fitDir, "--stretch", "1.1,1"}, "give the card inside it"},
+		{[]string{"predict", fitDir, data}, "give the card inside it"},
+		{[]string{"check", empty}, "is a folder, not a model card; give the model.json"},
+		{[]string{"check", data}, "looks like a test file; give the model card (model.json)"},
+	}
+	for _, c := range cases {
+		out, errs, code := runWeft(t, c.args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, c.want) {
+			t.Errorf("%v: exit %d, %q; want exit 2 and %q", c.args, code, errs, c.want)
+		}
+	}
+}

@@ -445,3 +445,54 @@ func TestOutputsDoNotDependOnThePathAsTyped(t *testing.T) {
 		return nil
 	})
 }
+
+// An output file is never an input of the same run: `weft predict CARD
+// DATA -o DATA --force` would replace the user's test data with
+// predictions, and `weft export CARD -o CARD --force` the card with an
+// export document. Both are refused (exit 2) whatever the spelling of the
+// path (the same string, another relative form, a symbolic link), and the
+// inputs keep their bytes.
+func TestOutputIsNeverAnInputOfTheRun(t *testing.T) {
+	root := t.TempDir()
+	cardBytes, err := os.ReadFile(filepath.Join("..", "..", "testdata", "example", "hgo-media.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	card := filepath.Join(root, "model.json")
+	os.WriteFile(card, cardBytes, 0o644)
+	const kin = "stretch_1,stretch_2\n1.05,1.02\n1.1,1.04\n"
+	data := filepath.Join(root, "path.csv")
+	os.WriteFile(data, []byte(kin), 0o644)
+	link := filepath.Join(root, "link.csv")
+	if err := os.Symlink("path.csv", link); err != nil {
+		t.Fatal(err)
+	}
+	other := filepath.Join(root, "sub", "..", "path.csv")
+	os.Mkdir(filepath.Join(root, "sub"), 0o755)
+	cases := [][]string{
+		{"predict", card, data, "-o", data, "--force"},
+		{"predict", card, data, "-o", other, "--force"},
+		{"predict", card, data, "-o", link, "--force"},
+		{"predict", card, data, "-o", card, "--force"},
+		{"predict", card, data, "-o", data}, // not offered to --force
+		{"export", card, "--format", "json", "-o", card, "--force"},
+		{"export", card, "--format", "csv", "-o", card},
+	}
+	for _, args := range cases {
+		_, errs, code := runWeft(t, args...)
+		if code != exitBadInput || !strings.Contains(errs, "input") || strings.Contains(errs, "pass --force") {
+			t.Errorf("%v: exit %d, %q; want exit 2 naming the input", args, code, errs)
+		}
+	}
+	if b, _ := os.ReadFile(data); string(b) != kin {
+		t.Errorf("the kinematics file was replaced: %q", b)
+	}
+	if b, _ := os.ReadFile(card); !bytes.Equal(b, cardBytes) {
+		t.Error("the model card was replaced")
+	}
+	// Another file is still written.
+	if _, errs, code := runWeft(t, "predict", card, data, "-o", filepath.Join(root, "out.csv")); code != 0 {
+		t.Errorf("predict into a new file: exit %d, %s", code, errs)
+	}
+	noHelpers(t, root)
+}

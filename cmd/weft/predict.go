@@ -70,7 +70,7 @@ force along axis 1 per reference area normal to axis 2.`,
 // runPredict evaluates the card on every row of the kinematics file and
 // writes the rows with the stresses appended.
 func runPredict(o *predictOptions) error {
-	res, err := safeout.OpenResult(o.Out, o.out, o.force)
+	res, err := safeout.OpenResult(o.Out, o.out, o.force, o.model, o.kinematics)
 	if err != nil {
 		return outputError(err)
 	}

@@ -34,6 +34,12 @@ func (p *progress) set(done, total int) {
 	}
 	p.mu.Lock()
 	defer p.mu.Unlock()
+	// Workers report concurrently and may arrive out of order; a report
+	// older than the one drawn (same total, fewer done) would move the
+	// count backwards on the screen, so it is dropped.
+	if total == p.total && done < p.done {
+		return
+	}
 	p.done, p.total = done, total
 	if time.Since(p.start) < time.Second || total == 0 {
 		return

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"strings"
+
 	"github.com/spf13/cobra"
 )
 
@@ -46,5 +48,46 @@ standards and licensed professional practice that apply.`,
 	root.SetIn(s.In)
 	root.SetOut(s.Out)
 	root.SetErr(s.ErrOut)
+	// After SetOut: cobra's completion scripts keep the writer they find.
+	strictHelpAndCompletion(root)
 	return root
+}
+
+// strictHelpAndCompletion makes cobra's generated help and completion
+// commands treat an unknown topic or shell as bad input (exit 2). Left to
+// cobra, 'weft completion tcsh' prints the completion help and 'weft help
+// nosuch' an "Unknown help topic" line, both on standard output with exit
+// 0, so a script could not tell that nothing it asked for was made.
+func strictHelpAndCompletion(root *cobra.Command) {
+	root.InitDefaultHelpCmd()
+	root.InitDefaultCompletionCmd()
+	for _, c := range root.Commands() {
+		switch c.Name() {
+		case "completion":
+			var shells []string
+			for _, sub := range c.Commands() {
+				shells = append(shells, sub.Name())
+			}
+			c.Args = func(cmd *cobra.Command, args []string) error {
+				if len(args) > 0 {
+					return badInputf("completion: no shell %q; choose one of %s (see 'weft completion --help')", args[0], strings.Join(shells, ", "))
+				}
+				return nil
+			}
+			// A runnable command has its arguments checked; without
+			// arguments it shows its help, as before.
+			c.RunE = func(cmd *cobra.Command, args []string) error { return cmd.Help() }
+		case "help":
+			c.Args = func(cmd *cobra.Command, args []string) error {
+				if len(args) == 0 {
+					return nil
+				}
+				found, _, err := cmd.Root().Find(args)
+				if err != nil || found == nil || found == cmd.Root() {
+					return badInputf("help: no command %q; 'weft --help' lists the commands", strings.Join(args, " "))
+				}
+				return nil
+			}
+		}
+	}
 }

@@ -58,6 +58,10 @@ const (
 	WriteFailed
 	// ReplaceFailed: moving the old output at Path aside failed (Err).
 	ReplaceFailed
+	// IsInput: the output file Path is the input Input of the same run
+	// (the same file, however either path was typed), which replacing
+	// would destroy.
+	IsInput
 )
 
 // Target is the kind of output an Error is about.
@@ -88,7 +92,8 @@ type Error struct {
 	// Found says what is at Path when it is not what was wanted ("a
 	// symbolic link", "a named pipe", …; see KindOf).
 	Found string
-	// Input is the input file lying inside Path (HoldsInput).
+	// Input is the input file lying inside Path (HoldsInput) or being
+	// Path (IsInput), as the user gave it.
 	Input string
 	// Entries are up to five entries of Path weft did not write
 	// (Foreign), slash-separated, folders with a trailing slash.
@@ -178,6 +183,11 @@ func (e *Error) what() string {
 		return fmt.Sprintf("cannot write %s (%s)", p, Reason(e.Err))
 	case ReplaceFailed:
 		return fmt.Sprintf("cannot replace %s (%s)", p, Reason(e.Err))
+	case IsInput:
+		if p == e.Input {
+			return p + " is also an input of this run; replacing it would destroy what is being read"
+		}
+		return fmt.Sprintf("%s is the input %s of this run; replacing it would destroy what is being read", p, e.Input)
 	}
 	return "cannot write " + p
 }

@@ -195,11 +195,16 @@ type Result struct {
 }
 
 // OpenResult checks the output file path; with path "" or "-" the result
-// goes to w instead. Call Close when done.
-func OpenResult(w io.Writer, path string, force bool) (*Result, error) {
+// goes to w instead. inputs are the files the run reads: path may be none
+// of them (an IsInput *Error, even with force), since the run would
+// replace what it reads. Call Close when done.
+func OpenResult(w io.Writer, path string, force bool, inputs ...string) (*Result, error) {
 	r := &Result{w: w}
 	if path == "" || path == "-" {
 		return r, nil
+	}
+	if err := notAnInput(path, inputs); err != nil {
+		return nil, err
 	}
 	f, err := PrepareFile(path, force, false)
 	if err != nil {
@@ -207,6 +212,24 @@ func OpenResult(w io.Writer, path string, force bool) (*Result, error) {
 	}
 	r.file = f
 	return r, nil
+}
+
+// notAnInput returns an IsInput *Error when the output path names the same
+// file as one of inputs. Stat follows symbolic links and os.SameFile
+// compares device and inode, so a link, a hard link or another spelling
+// of the path is caught as well as the same string. Paths that cannot be
+// examined are left to the checks that follow and to the readers.
+func notAnInput(path string, inputs []string) *Error {
+	out, err := os.Stat(path)
+	if err != nil {
+		return nil
+	}
+	for _, in := range inputs {
+		if st, err := os.Stat(in); err == nil && os.SameFile(out, st) {
+			return &Error{Problem: IsInput, Target: TargetFile, Path: filepath.Clean(path), Input: in}
+		}
+	}
+	return nil
 }
 
 // Write writes the whole result.

@@ -297,10 +297,16 @@ type fitJob struct {
 func outputFolders(jobs []*fitJob, out string) {
 	seen := map[string]string{}
 	several := len(jobs) > 1
+	var files []*fitJob // read so far, to tell a file given twice
 	for _, j := range jobs {
 		if j.err != nil {
 			continue
 		}
+		if prev := sameFileAs(j.path, files); prev != "" {
+			j.err = badInputf("%s is given twice (also as %s); give each file once", j.path, prev)
+			continue
+		}
+		files = append(files, j)
 		name := report.SafeName(j.spec.Name)
 		if name == "" || name == "." || name == ".." {
 			name = strings.TrimSuffix(filepath.Base(j.path), filepath.Ext(j.path))
@@ -322,6 +328,21 @@ func outputFolders(jobs []*fitJob, out string) {
 		}
 		seen[key] = j.path
 	}
+}
+
+// sameFileAs returns the path of the job in jobs that names the same file
+// on disk as path (os.SameFile: another spelling, a link), or "".
+func sameFileAs(path string, jobs []*fitJob) string {
+	st, err := os.Stat(path)
+	if err != nil {
+		return ""
+	}
+	for _, j := range jobs {
+		if o, err := os.Stat(j.path); err == nil && os.SameFile(st, o) {
+			return j.path
+		}
+	}
+	return ""
 }
 
 // runFit fits every DATA file. Each file is read and its output folder

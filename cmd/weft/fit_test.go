@@ -526,3 +526,21 @@ func TestUndecidedVerdictNamesTheStrongestStep(t *testing.T) {
 		t.Errorf("patch-P2: the reason does not say %q: %s", want, v.Reason)
 	}
 }
+
+// A file given twice to fit, under another spelling, is fitted once: the
+// second is refused as given twice (as cohort refuses it), not fitted and
+// then refused for writing the same folder.
+func TestFitFileGivenTwice(t *testing.T) {
+	t.Parallel()
+	dir := copyDemo(t, "membrane-M1.csv")
+	a := filepath.Join(dir, "membrane-M1.csv")
+	b := dir + string(filepath.Separator) + "." + string(filepath.Separator) + "membrane-M1.csv"
+	out := filepath.Join(t.TempDir(), "fits")
+	_, errs, code := runWeft(t, "fit", a, b, "-o", out, "--terms", "i1-lin", "--quiet")
+	if code != 1 || !strings.Contains(errs, "is given twice (also as "+a+")") || strings.Contains(errs, "would both write") {
+		t.Errorf("exit %d, stderr %q: want exit 1 and the second file refused as given twice", code, errs)
+	}
+	if _, err := os.Stat(filepath.Join(out, "membrane-M1.weft", "model.json")); err != nil {
+		t.Errorf("the file given first was not fitted: %v", err)
+	}
+}

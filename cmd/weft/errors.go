@@ -5,6 +5,7 @@ import (
 	"fmt"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 )
@@ -37,6 +38,29 @@ func badInput(err error) error {
 // badInputf formats an input error (exit code 2).
 func badInputf(format string, args ...any) error {
 	return inputError{fmt.Errorf(format, args...)}
+}
+
+// flagValueError restates a flag value the flag parser could not read as
+// what the flag wants (the parser's own text names Go's number parser,
+// "strconv.ParseInt: parsing ...: invalid syntax"); other errors pass
+// unchanged.
+func flagValueError(err error) error {
+	var iv *pflag.InvalidValueError
+	if !errors.As(err, &iv) || iv.GetFlag() == nil {
+		return err
+	}
+	want := "a valid value"
+	switch iv.GetFlag().Value.Type() {
+	case "int", "int8", "int16", "int32", "int64", "uint", "uint8", "uint16", "uint32", "uint64":
+		want = "a whole number"
+	case "float32", "float64":
+		want = "a decimal number"
+	case "bool":
+		want = "true or false"
+	case "duration":
+		want = "a duration such as 30s"
+	}
+	return fmt.Errorf("--%s %s: give %s", iv.GetFlag().Name, quoteArg(iv.GetValue()), want)
 }
 
 // checkFailed is returned when a check ran and found a failure (exit code 1).

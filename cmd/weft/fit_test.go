@@ -237,6 +237,17 @@ func TestFitBadInput(t *testing.T) {
 			t.Errorf("%v: output written despite bad input", args)
 		}
 	}
+	// A flag value that is not a number says what the flag wants, not
+	// what Go's number parser said.
+	for _, c := range []struct{ flag, value, want string }{
+		{"--resample", "x", `--resample "x": give a whole number`},
+		{"--calibration-check", "0.x", `--calibration-check "0.x": give a decimal number`},
+	} {
+		_, errs, code := runWeft(t, "fit", filepath.Join(dir, "membrane-M1.csv"), c.flag, c.value, "-o", filepath.Join(dir, "never"))
+		if code != 2 || !strings.Contains(errs, c.want) || strings.Contains(errs, "strconv") {
+			t.Errorf("%s %s: exit %d, stderr %q; want %q", c.flag, c.value, code, errs, c.want)
+		}
+	}
 }
 
 // weft demo writes exactly the bundled testdata/demo files, and they read

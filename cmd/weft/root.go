@@ -30,7 +30,7 @@ standards and licensed professional practice that apply.`,
 	}
 	root.SetVersionTemplate("weft {{.Version}}\n")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error {
-		return badInputf("%v (see '%s --help')", err, c.CommandPath())
+		return badInputf("%v (see '%s --help')", flagValueError(err), c.CommandPath())
 	})
 	root.AddCommand(
 		newFitCmd(s),

@@ -42,6 +42,14 @@ func macQuad(x float64, _ []float64) Value {
 
 var posInf = math.Inf(1)
 
+// tinyExponent is the size of b·x (or b·x²) below which an exponential
+// shape's energy is its b = 0 limit to every digit: the next term of the
+// series, b·x/2 relative, is below 1e-300. Dividing expm1(b·x) by b there
+// would not be: once b·x underflows to a subnormal or to 0 (b itself may be
+// subnormal, inside the bounds [0, max]), the quotient loses its digits
+// and gives 0 or a multiple of the smallest subnormal over b.
+const tinyExponent = 1e-300
+
 // expShape is (exp(b x) − 1)/b: f′(0) = 1, and b → 0 gives x.
 func expShape(x float64, p []float64) Value {
 	b := p[0]
@@ -51,6 +59,9 @@ func expShape(x float64, p []float64) Value {
 	}
 	if b == 0 {
 		return Value{x, 1, 0}
+	}
+	if math.Abs(b*x) < tinyExponent {
+		return Value{x, e, b * e}
 	}
 	return Value{math.Expm1(b*x) / b, e, b * e}
 }
@@ -71,7 +82,7 @@ func expSq(x float64, p []float64) Value {
 		return Value{posInf, math.Copysign(posInf, x), posInf}
 	}
 	f := x2 / 2
-	if b != 0 {
+	if math.Abs(b*x2) >= tinyExponent {
 		f = math.Expm1(b*x2) / (2 * b)
 	}
 	return Value{f, x * e, (1 + 2*b*x2) * e}

@@ -2,6 +2,7 @@ package terms
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -37,6 +38,31 @@ func TestExponentialEnergyTinyStiffening(t *testing.T) {
 				if math.Abs(got-want) > 1e-15*math.Abs(want) {
 					t.Errorf("%s: f(%g) at stiffening %g = %.17g, limit %.17g", c.id, x, b, got, want)
 				}
+			}
+		}
+	}
+}
+
+// The catalogue's notes state where the I4 > 1 switch breaks continuity
+// (and with it polyconvexity, which Ball 1977 defines through a convex,
+// hence continuous, function of F, cof F and det F): every fibre shape on
+// a κ-dispersed family (Gasser, Ogden & Holzapfel 2006) and the raw I5
+// shape on a sheared fibre. The jumps themselves are checked in package
+// aniso (TestSwitchJumpsQuoted).
+func TestSwitchCaveatsStated(t *testing.T) {
+	for _, s := range Catalogue() {
+		var want []string
+		switch s.Arg {
+		case Fibre:
+			want = []string{"κ > 0", "jump", "not polyconvex across the switch"}
+		case Fifth:
+			want = []string{"NOT polyconvex", "jump", "sheared"}
+		default:
+			continue
+		}
+		for _, w := range want {
+			if !strings.Contains(s.PolyconvexNote, w) {
+				t.Errorf("%s: note %q does not say %q", s.ID, s.PolyconvexNote, w)
 			}
 		}
 	}

@@ -49,7 +49,12 @@
 // units in the last place of 1, and round-off must not put a term's
 // stiffness into the tangent at rest. Convex, non-decreasing shapes of I1, I2, I4 or K with w ≥ 0
 // keep the energy polyconvex (Ball 1977; Schröder & Neff 2003); a raw I5
-// term does not, and says so.
+// term does not, and says so. The I4 switch keeps that only where it is
+// continuous: for an aligned family (f(0) = f′(0) = 0) and a family spread
+// in the plane. With κ > 0 a fibre term's argument is κ(I1 − 3) > 0 where
+// I4 crosses 1, and an I5 term's is I5 − 1 > 0 wherever the fibre is
+// sheared there, so both energies jump across the switch (switch tests in
+// switchjump_test.go).
 //
 // # Dispersion
 //

@@ -42,6 +42,14 @@ func macQuad(x float64, _ []float64) Value {
 
 var posInf = math.Inf(1)
 
+// tinyExponent is the size of b·x (or b·x²) below which an exponential
+// shape's energy is its b = 0 limit to every digit: the next term of the
+// series, b·x/2 relative, is below 1e-300. Dividing expm1(b·x) by b there
+// would not be: once b·x underflows to a subnormal or to 0 (b itself may be
+// subnormal, inside the bounds [0, max]), the quotient loses its digits
+// and gives 0 or a multiple of the smallest subnormal over b.
+const tinyExponent = 1e-300
+
 // expShape is (exp(b x) − 1)/b: f′(0) = 1, and b → 0 gives x.
 func expShape(x float64, p []float64) Value {
 	b := p[0]
@@ -51,6 +59,9 @@ func expShape(x float64, p []float64) Value {
 	}
 	if b == 0 {
 		return Value{x, 1, 0}
+	}
+	if math.Abs(b*x) < tinyExponent {
+		return Value{x, e, b * e}
 	}
 	return Value{math.Expm1(b*x) / b, e, b * e}
 }
@@ -71,7 +82,7 @@ func expSq(x float64, p []float64) Value {
 		return Value{posInf, math.Copysign(posInf, x), posInf}
 	}
 	f := x2 / 2
-	if b != 0 {
+	if math.Abs(b*x2) >= tinyExponent {
 		f = math.Expm1(b*x2) / (2 * b)
 	}
 	return Value{f, x * e, (1 + 2*b*x2) * e}
@@ -221,6 +232,23 @@ func gentLogGrad(x float64, p []float64) (g [MaxParams]float64) {
 	return
 }
 
+// Notes on the switch I4 > 1 that fibre and fifth-invariant terms share
+// (package aniso applies it). An aligned fibre term switches with f(0) =
+// f′(0) = 0, so energy and stress stay continuous. With κ > 0 the
+// argument at I4 = 1 is κ(I1 − 3), positive wherever I1 > 3, and I5 − 1 at
+// I4 = 1 is positive wherever the fibre is sheared (I5 ≥ I4², equal only
+// when a0 is an eigenvector of C), so both jump there: an energy that is
+// not continuous is not polyconvex (Ball 1977 needs a convex, hence
+// continuous, function of F, cof F, det F). The numbers are reproduced by
+// aniso's tests.
+const (
+	dispersedSwitchNote = "with dispersion κ > 0 the I4 > 1 switch (common practice, Gasser, Ogden & Holzapfel 2006) makes energy and " +
+		"stress jump where I4 crosses 1 while I1 > 3 (E_f = κ(I1 − 3) > 0 there; κ = 0.226 at 40° with fib-expsq, b = 1, λ1 = 1.1: " +
+		"energy 0 → 2.04e-4 w), so the energy is not polyconvex across the switch"
+	fifthSwitchNote = "its I4 > 1 switch makes energy and stress jump where I4 crosses 1 while I5 > 1, i.e. wherever the fibre is " +
+		"sheared (at 0° with F12 = 0.2: energy 0 → 0.0016 w, σ11 0 → 0.333 w)"
+)
+
 // argText returns the argument as it appears inside a formula.
 func argText(a Argument) (plain, latex string) {
 	switch a {
@@ -346,7 +374,8 @@ func init() {
 	registerPrincipal()
 
 	const fibreNote = "convex and non-decreasing in E_f, zero for I4 ≤ 1 (Holzapfel, Gasser & Ogden 2000; " +
-		"Schröder & Neff 2003); with dispersion κ > 0 the I4 > 1 switch is applied as common practice"
+		"Schröder & Neff 2003): polyconvex on an aligned family (κ = 0) and on a family spread in the plane; " +
+		dispersedSwitchNote
 	register(
 		shape("fib-quad", Fibre, "quadratic fibre", "w*{x}^2", `w\,E_f^{2}`, nil,
 			"fibre stiffness: the term's fibre stress grows as 4w·E_f (f″ = 2)", true, fibreNote, "",
@@ -368,7 +397,7 @@ func init() {
 		shape("i5-quad", Fifth, "quadratic fifth invariant", "w*{x}^2", `w\,(I_5-1)^{2}`, nil,
 			"stiffness of the fifth-invariant response (f″ = 2); zero for I4 ≤ 1", false,
 			"NOT polyconvex: I5 is not a convex function of F, cof F, det F (Schröder & Neff 2003); "+
-				"planar biaxial data do not fully determine it (Holzapfel & Ogden 2009)",
+				"planar biaxial data do not fully determine it (Holzapfel & Ogden 2009); "+fifthSwitchNote,
 			"", implQuad),
 	)
 }

@@ -58,8 +58,8 @@ func recruitShape() *Shape {
 		"fibre modulus E: the nominal stress of a straight fibre is E(λ/λs − 1); once all fibres are straight the term's fibre stress rises as E·ln(1 + Δ/λa)/Δ per unit stretch; λ_f = √(1 + E_f) is the family's fibre stretch",
 		true,
 		"convex and non-decreasing in E_f: f″ = (λ − λa)/(4Δλ³) while fibres are recruited and 1/(4λ³) beyond, f′ ≥ 0; "+
-			"I4 = |F a0|² is convex in F, so the term keeps polyconvexity (Ball 1977); zero for I4 ≤ 1; "+
-			"with dispersion κ > 0 the I4 > 1 switch is applied as common practice",
+			"I4 = |F a0|² is convex in F, so the term keeps polyconvexity on an aligned family and on a family spread in "+
+			"the plane (Ball 1977); zero for I4 ≤ 1; "+dispersedSwitchNote,
 		"Lanir 1983 (uniformly distributed straightening stretches)",
 		impl{eval: recruit, slope: recruitSlope, grad: recruitGrad, both: recruitBoth, curvGrad: recruitCurvGrad, kinks: recruitKinks})
 }

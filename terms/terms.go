@@ -15,7 +15,8 @@
 //	I1 − 3, I2 − 3                      isotropic (matrix) terms
 //	E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1)   fibre terms, Gasser, Ogden & Holzapfel 2006
 //	K − 1, K = I5 − I1 I4 + I2          cofactor-fibre terms, Schröder & Neff 2003
-//	I5 − 1                              raw fifth-invariant terms (not polyconvex)
+//	I5 − 1                              raw fifth-invariant terms (not polyconvex,
+//	                                    discontinuous at the I4 > 1 switch under shear)
 //	Q(E) = b1 E11² + b2 E22² + 2 b3 E11 E22 + b4 (E12² + E21²)
 //	                                    Tong & Fung 1976, Green strain in the
 //	                                    tester's axes (not polyconvex)
@@ -58,14 +59,18 @@ const (
 	I2
 	// Fibre is the fibre strain x = E_f = κ(I1 − 3) + (1 − 3κ)(I4 − 1) of a
 	// fibre family with dispersion κ (κ = 0: E_f = I4 − 1). Fibre terms carry
-	// energy only while the family is stretched, I4 > 1.
+	// energy only while the family is stretched, I4 > 1. With κ > 0 that
+	// switch makes the energy jump where I4 crosses 1 while I1 > 3, so a
+	// fibre shape's Polyconvex holds for κ = 0 (and for a family spread in
+	// the plane, each direction switched by its own stretch) only.
 	Fibre
 	// Cofactor is x = K − 1 with the cofactor-fibre invariant
 	// K = a0·cof(C)a0 = I5 − I1 I4 + I2, the squared area stretch normal to
 	// the fibre. Shapes in K keep a convex energy polyconvex.
 	Cofactor
 	// Fifth is x = I5 − 1 with I5 = a0·C²a0. Terms in I5 carry energy only
-	// while I4 > 1 and are not polyconvex.
+	// while I4 > 1 and are not polyconvex; where I4 crosses 1 while I5 > 1
+	// (a sheared fibre) their energy and stress jump.
 	Fifth
 	// Green is x = Q(E) = b1 E11² + b2 E22² + 2 b3 E11 E22 + b4 (E12² + E21²),
 	// the quadratic form of the Green strain E = (C − 1)/2 of the in-plane C

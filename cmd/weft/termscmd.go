@@ -161,6 +161,9 @@ func printCatalogue(w io.Writer, ts []termInfo, ps []presetInfo) error {
 	fmt.Fprintln(w, "Q(E) = b1 E11^2 + b2 E22^2 + 2 b3 E11 E22 + b4 (E12^2 + E21^2) of the Green strain E = (C - 1)/2")
 	fmt.Fprintln(w, "in the tester's axes (fung: a classical comparison, fitted as a preset, not a discovery candidate).")
 	fmt.Fprintln(w, "A family with a concentration b spreads its fibre terms over the plane (angular integration).")
+	fmt.Fprintln(w, "Switches: the polyconvex 'yes' of the E_f terms holds on an aligned family (kappa = 0) and on a")
+	fmt.Fprintln(w, "family spread in the plane; with kappa > 0 their energy and stress jump where I4 crosses 1 while")
+	fmt.Fprintln(w, "I1 > 3, and i5-quad jumps where I4 crosses 1 on a sheared fibre (I5 > 1). cof-quad switches on K.")
 	fmt.Fprintln(w, "See the README for conventions.")
 	return nil
 }

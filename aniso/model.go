@@ -50,6 +50,19 @@ type Model struct {
 	Terms    []Term
 }
 
+// TermPolyconvex reports whether term i of m keeps the energy
+// polyconvex on m's own families: the catalogue's claim for its shape
+// (terms.Shape.Polyconvex), except that a fibre term on a family with
+// dispersion κ > 0 is not, since its I4 > 1 switch makes energy and stress
+// jump where I4 crosses 1 while I1 > 3 (terms.Fibre).
+func (m *Model) TermPolyconvex(i int) bool {
+	t := m.Terms[i]
+	if t.Shape == nil || !t.Shape.Polyconvex {
+		return false
+	}
+	return !(t.Shape.Arg == terms.Fibre && t.Family >= 0 && t.Family < len(m.Families) && m.Families[t.Family].Dispersion > 0)
+}
+
 // Validate reports the first inconsistency: a missing shape, a family index
 // that does not fit the shape's argument, a negative or non-finite weight,
 // parameters out of bounds, a non-finite angle or a dispersion outside

@@ -500,3 +500,60 @@ func TestMissingCardSaysWhatToCheck(t *testing.T) {
 		}
 	}
 }
+
+// A fibre shape the catalogue calls polyconvex is not, on a family with
+// dispersion κ > 0: the I4 > 1 switch makes its energy jump where I4
+// crosses 1 while I1 > 3 (Ball 1977 needs a continuous, convex function;
+// from memory). export's parameter table and check's term list say so for
+// such a term and keep the catalogue's claim for the same shape on an
+// ideal family (the card "all-terms": f1 with κ = 0.1, f2 ideal).
+func TestPolyconvexOnTheTermsOwnFamily(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(t.TempDir(), "all.json")
+	if err := os.WriteFile(path, []byte(uflCards["all-terms"]), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runWeft(t, "export", path, "--format", "json")
+	if code != 0 {
+		t.Fatalf("export: exit %d: %s", code, errs)
+	}
+	var doc fe.ExportDoc
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	seen := map[string]bool{}
+	for _, p := range doc.Parameters {
+		if p.ID != "fib-expsq" {
+			continue
+		}
+		seen[p.Family] = true
+		if want := p.Family == "f2"; p.Polyconvex != want {
+			t.Errorf("export: fib-expsq on %s: polyconvex %v, want %v", p.Family, p.Polyconvex, want)
+		}
+	}
+	if !seen["f1"] || !seen["f2"] {
+		t.Fatalf("export: fib-expsq on families %v, want f1 and f2", seen)
+	}
+	out, _, _ = runWeft(t, "check", path, "--json")
+	var rep struct {
+		Polyconvexity struct {
+			AllTerms bool `json:"all_terms_polyconvex"`
+			Terms    []struct {
+				ID         string `json:"id"`
+				Family     string `json:"family"`
+				Polyconvex bool   `json:"polyconvex"`
+			} `json:"terms"`
+		} `json:"polyconvexity"`
+	}
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if rep.Polyconvexity.AllTerms {
+		t.Error("check: every term polyconvex, with fibre terms on a dispersed family")
+	}
+	for _, tm := range rep.Polyconvexity.Terms {
+		if tm.ID == "fib-expsq" && tm.Polyconvex != (tm.Family == "f2") {
+			t.Errorf("check: fib-expsq on %s: polyconvex %v", tm.Family, tm.Polyconvex)
+		}
+	}
+}

@@ -385,9 +385,17 @@ func checkPolyconvexity(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid,
 	rep.Polyconvexity.Terms = []checkTerm{}
 	dispersedWarned := map[int]bool{}
 	for i, t := range m.Terms {
-		ct := checkTerm{Term: i + 1, ID: t.Shape.ID, Polyconvex: t.Shape.Polyconvex, Note: t.Shape.PolyconvexNote}
+		ct := checkTerm{Term: i + 1, ID: t.Shape.ID, Polyconvex: m.TermPolyconvex(i), Note: t.Shape.PolyconvexNote}
 		if t.Family >= 0 {
 			ct.Family = names[t.Family]
+		}
+		if t.Shape.Polyconvex && !ct.Polyconvex {
+			// A fibre term on a dispersed family: the family's warning
+			// below says why.
+			ct.Note = fmt.Sprintf("not polyconvex on family %s, whose dispersion kappa = %g makes the I4 > 1 switch a jump", ct.Family, m.Families[t.Family].Dispersion)
+			if t.Weight > 0 {
+				rep.Polyconvexity.AllTerms = false
+			}
 		}
 		cc, hasCondition := t.Shape.ConvexityCondition(t.Params, g.ShearMax > 0)
 		if hasCondition {

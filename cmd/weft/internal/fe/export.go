@@ -37,7 +37,10 @@ type ExportParam struct {
 	WeightUnit    string             `json:"weight_unit"`
 	Params        map[string]float64 `json:"params"`
 	Formula       string             `json:"formula"`
-	Polyconvex    bool               `json:"polyconvex"`
+	// Polyconvex is the catalogue's claim for the shape on this term's
+	// family: false for a fibre term on a family with dispersion κ > 0
+	// (aniso.Model.TermPolyconvex).
+	Polyconvex bool `json:"polyconvex"`
 }
 
 // ExportPoint is one row of the verification table.
@@ -154,7 +157,7 @@ func parameters(m *aniso.Model, unit string) ([]ExportParam, *card.Card) {
 	var out []ExportParam
 	for i, t := range m.Terms {
 		p := ExportParam{Term: i + 1, ID: t.Shape.ID, Argument: t.Shape.Arg.String(), Weight: t.Weight, WeightUnit: unit,
-			Params: map[string]float64{}, Formula: t.Shape.Formula, Polyconvex: t.Shape.Polyconvex}
+			Params: map[string]float64{}, Formula: t.Shape.Formula, Polyconvex: m.TermPolyconvex(i)}
 		for j, q := range t.Shape.Params {
 			p.Params[q.Name] = t.Params[j]
 		}

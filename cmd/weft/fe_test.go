@@ -513,14 +513,7 @@ func TestPolyconvexOnTheTermsOwnFamily(t *testing.T) {
 	if err := os.WriteFile(path, []byte(uflCards["all-terms"]), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	out, errs, code := runWeft(t, "export", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("export: exit %d: %s", code, errs)
-	}
-	var doc fe.ExportDoc
-	if err := json.Unmarshal([]byte(out), &doc); err != nil {
-		t.Fatal(err)
-	}
+	doc := exportJSON(t, path)
 	seen := map[string]bool{}
 	for _, p := range doc.Parameters {
 		if p.ID != "fib-expsq" {
@@ -534,7 +527,7 @@ func TestPolyconvexOnTheTermsOwnFamily(t *testing.T) {
 	if !seen["f1"] || !seen["f2"] {
 		t.Fatalf("export: fib-expsq on families %v, want f1 and f2", seen)
 	}
-	out, _, _ = runWeft(t, "check", path, "--json")
+	out, _, _ := runWeft(t, "check", path, "--json")
 	var rep struct {
 		Polyconvexity struct {
 			AllTerms bool `json:"all_terms_polyconvex"`
@@ -556,4 +549,19 @@ func TestPolyconvexOnTheTermsOwnFamily(t *testing.T) {
 			t.Errorf("check: fib-expsq on %s: polyconvex %v", tm.Family, tm.Polyconvex)
 		}
 	}
+}
+
+// exportJSON runs 'weft export CARD --format json' and decodes the
+// document, failing the test when export fails.
+func exportJSON(t *testing.T, card string) *fe.ExportDoc {
+	t.Helper()
+	out, errs, code := runWeft(t, "export", card, "--format", "json")
+	if code != 0 {
+		t.Fatalf("export %s: exit %d: %s", card, code, errs)
+	}
+	var doc fe.ExportDoc
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	return &doc
 }

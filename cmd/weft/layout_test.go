@@ -66,14 +66,7 @@ const undeterminedCard = `{"format": "weft.model/1", "stress_unit": "kPa",
 func TestUndeterminedLayoutAlternatives(t *testing.T) {
 	path := writeTemp(t, "undetermined.json", undeterminedCard)
 	names := []string{"single-plus", "single-minus", "mirror-pair"}
-	out, errs, code := runWeft(t, "export", path, "--format", "json")
-	if code != 0 {
-		t.Fatalf("export: exit %d: %s", code, errs)
-	}
-	var doc fe.ExportDoc
-	if err := json.Unmarshal([]byte(out), &doc); err != nil {
-		t.Fatal(err)
-	}
+	doc := exportJSON(t, path)
 	rows := map[string]map[string]fe.ExportPoint{}
 	for _, p := range doc.Verification {
 		if rows[p.Alternative] == nil {
@@ -121,7 +114,7 @@ func TestUndeterminedLayoutAlternatives(t *testing.T) {
 			t.Errorf("evaluate names no alternatives: %v", rp.Warnings)
 		}
 	}
-	out, errs, code = runWeft(t, "export", path, "--format", "csv", "--alternative", "single-minus")
+	out, errs, code := runWeft(t, "export", path, "--format", "csv", "--alternative", "single-minus")
 	if code != 0 || strings.Contains(out, ",single-plus\n") || !strings.Contains(out, ",single-minus\n") {
 		t.Errorf("export --alternative single-minus: exit %d %s\n%.600s", code, errs, out)
 	}

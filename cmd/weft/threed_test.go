@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -12,7 +11,6 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
-	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 	"github.com/weft-tools/weft/terms"
 )
 
@@ -141,14 +139,7 @@ func TestNearlyIncompressibleApproachesMembrane(t *testing.T) {
 		t.Fatal(err)
 	}
 	for name, path := range cards {
-		out, errs, code := runWeft(t, "export", path, "--format", "json")
-		if code != 0 {
-			t.Fatalf("%s: exit %d: %s", name, code, errs)
-		}
-		var doc fe.ExportDoc
-		if err := json.Unmarshal([]byte(out), &doc); err != nil {
-			t.Fatal(err)
-		}
+		doc := exportJSON(t, path)
 		c, m, err := readCard(path, card.DefaultLimits)
 		if err != nil || c == nil {
 			t.Fatal(err)

@@ -111,14 +111,7 @@ func TestExportUFLAgainstFEniCS(t *testing.T) {
 	compared, flagged := 0, 0
 	worst, worstNI := 0.0, 0.0 // largest differences, as fractions of the row's scale
 	for name, path := range cards {
-		out, errs, code := runWeft(t, "export", path, "--format", "json")
-		if code != 0 {
-			t.Fatalf("%s: export: exit %d: %s", name, code, errs)
-		}
-		var doc fe.ExportDoc
-		if err := json.Unmarshal([]byte(out), &doc); err != nil {
-			t.Fatal(err)
-		}
+		doc := exportJSON(t, path)
 		module := filepath.Join(dir, strings.ReplaceAll(name, " ", "_")+".py")
 		if _, errs, code := runWeft(t, "export", path, "--format", "ufl", "-o", module); code != 0 {
 			t.Fatalf("%s: export --format ufl: exit %d: %s", name, code, errs)

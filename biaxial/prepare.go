@@ -96,6 +96,7 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 		warnZeroShear(s)
 	}
 	warnShearScatter(s)
+	warnHeldLoad(s, opt)
 	if opt.Rereference {
 		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"
 		if s.Kind == Nominal {

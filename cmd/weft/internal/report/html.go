@@ -110,6 +110,9 @@ type reportView struct {
 
 	HasVerdict               bool
 	Verdict, Reason, Decider string
+	// PlanNext is set for an undecided verdict: weft plan ranks the tests
+	// that would settle it.
+	PlanNext bool
 	// Calibration is the calibration check's summary, when the card has one.
 	Calibration   string
 	RuledOut      []string

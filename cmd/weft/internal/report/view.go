@@ -451,6 +451,7 @@ func (in *Input) verdictSection(v *reportView) {
 	v.HasVerdict = true
 	v.Verdict = capitalise(verdictText(vd.Families))
 	v.Reason, v.Decider = capitalise(minusSigns(vd.Reason)), capitalise(minusSigns(vd.Decider))
+	v.PlanNext = vd.Families == "undecided"
 	if c := in.calibration; c != nil {
 		v.Calibration = minusSigns(c.Summary)
 	}

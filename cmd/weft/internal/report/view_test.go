@@ -248,3 +248,20 @@ func TestMethodsStateTheVerdict(t *testing.T) {
 		}
 	}
 }
+
+// An undecided verdict's section says which command ranks the tests that
+// would settle it, as the summary of weft fit does; a decided one does not.
+func TestUndecidedVerdictPointsToPlan(t *testing.T) {
+	sel := &card.SelectionSection{Chosen: "c", Pareto: []card.CandidateCard{{Name: "c", Layout: "single", Chosen: true, HeldoutError: card.Num(math.NaN())}}}
+	for _, c := range []struct {
+		families string
+		want     bool
+	}{{"undecided", true}, {"1-or-mirror-pair", false}, {"2", false}} {
+		in := discoveredInput(false, []float64{0}, sel, &card.VerdictSection{Families: c.families, Form: "1"})
+		v := &reportView{}
+		in.verdictSection(v)
+		if v.PlanNext != c.want {
+			t.Errorf("verdict %s: PlanNext %v, want %v", c.families, v.PlanNext, c.want)
+		}
+	}
+}

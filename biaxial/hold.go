@@ -9,10 +9,10 @@ import "math"
 // stiffening. The cycle split cannot tell them from the ramp, since it
 // follows the stretch alone; warnHeldLoad says they are there.
 
-// Thresholds of warnHeldLoad, as fractions of a cycle's ranges: the held
-// stresses stay within holdStressFraction of their range of the last one,
-// and the hold covers holdMinRows rows or more and holdStretchFraction of
-// the driving stretch's range or more. A stiffening ramp rises fastest at
+// Thresholds of warnHeldLoad, as fractions of a cycle's ranges: each held
+// row's normal stresses lie within holdStressFraction of their range of
+// the last row's, and the hold covers holdMinRows rows or more and
+// holdStretchFraction of the driving stretch's range or more. A stiffening ramp rises fastest at
 // its end: sampled however densely, the rows of its last 2 % of stretch
 // span far more than 1 % of its stress.
 const (

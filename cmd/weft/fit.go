@@ -331,14 +331,10 @@ func outputFolders(jobs []*fitJob, out string) {
 }
 
 // sameFileAs returns the path of the job in jobs that names the same file
-// on disk as path (os.SameFile: another spelling, a link), or "".
+// on disk as path (safeout.SameFile: another spelling, a link), or "".
 func sameFileAs(path string, jobs []*fitJob) string {
-	st, err := os.Stat(path)
-	if err != nil {
-		return ""
-	}
 	for _, j := range jobs {
-		if o, err := os.Stat(j.path); err == nil && os.SameFile(st, o) {
+		if safeout.SameFile(path, j.path) {
 			return j.path
 		}
 	}

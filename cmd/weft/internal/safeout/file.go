@@ -215,21 +215,28 @@ func OpenResult(w io.Writer, path string, force bool, inputs ...string) (*Result
 }
 
 // notAnInput returns an IsInput *Error when the output path names the same
-// file as one of inputs. Stat follows symbolic links and os.SameFile
-// compares device and inode, so a link, a hard link or another spelling
-// of the path is caught as well as the same string. Paths that cannot be
-// examined are left to the checks that follow and to the readers.
+// file as one of inputs (SameFile). Paths that cannot be examined are left
+// to the checks that follow and to the readers.
 func notAnInput(path string, inputs []string) *Error {
-	out, err := os.Stat(path)
-	if err != nil {
-		return nil
-	}
 	for _, in := range inputs {
-		if st, err := os.Stat(in); err == nil && os.SameFile(out, st) {
+		if SameFile(path, in) {
 			return &Error{Problem: IsInput, Target: TargetFile, Path: filepath.Clean(path), Input: in}
 		}
 	}
 	return nil
+}
+
+// SameFile reports whether the existing paths a and b name the same file
+// on disk: Stat follows symbolic links and os.SameFile compares device and
+// inode, so a link, a hard link or another spelling of the path counts as
+// well as the same string. False when either cannot be examined.
+func SameFile(a, b string) bool {
+	x, err := os.Stat(a)
+	if err != nil {
+		return false
+	}
+	y, err := os.Stat(b)
+	return err == nil && os.SameFile(x, y)
 }
 
 // Write writes the whole result.

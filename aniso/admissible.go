@@ -272,7 +272,7 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 	if err := m.Validate(); err != nil {
 		return StabilityReport{}, err
 	}
-	rep := StabilityReport{Grid: g, Tolerance: 1e-10 * weightSum(m)}
+	rep := StabilityReport{Grid: g, Tolerance: 1e-10 * m.StressScale()}
 	rep.WorstStability.MinModuloRotation = math.Inf(1)
 	rep.WorstEllipticity.MinEllipticity = math.Inf(1)
 	matrix := m.MatrixWeight() > 0
@@ -359,10 +359,7 @@ func (m *Model) CheckStability(g StabilityGrid) (StabilityReport, error) {
 // on the sutured demo membrane), and a tolerance of 1e-10·c then counted
 // real positive eigenvalues as failures, or the whole grid as without
 // stiffness. 1 for a model whose scale is zero.
-func (m *Model) StressScale() float64 { return weightSum(m) }
-
-// weightSum is StressScale.
-func weightSum(m *Model) float64 {
+func (m *Model) StressScale() float64 {
 	s := 0.0
 	for _, t := range m.Terms {
 		w := t.Weight
@@ -390,7 +387,7 @@ func minPrincipal(s Sym) float64 {
 
 // ReferenceStress returns the largest |σ_ij| at F = I and the tolerance it
 // must not exceed: 1e-9 times the sum of the weights (stress unit; a
-// Fung-type term counted with its small-strain modulus, see weightSum).
+// Fung-type term counted with its small-strain modulus, see StressScale).
 func (m *Model) ReferenceStress() (maxAbs, tol float64, err error) {
 	r, err := m.Evaluate([4]float64{1, 0, 0, 1})
 	if err != nil {
@@ -399,7 +396,7 @@ func (m *Model) ReferenceStress() (maxAbs, tol float64, err error) {
 	for _, v := range r.Cauchy {
 		maxAbs = math.Max(maxAbs, math.Abs(v))
 	}
-	return maxAbs, 1e-9 * weightSum(m), nil
+	return maxAbs, 1e-9 * m.StressScale(), nil
 }
 
 // minEllipticity returns min over unit a and the n sampled directions b of

@@ -449,7 +449,7 @@ func admissibleOnData(m *Model, p *Problem) string {
 	if n > maxChecks {
 		step = (n + maxChecks - 1) / maxChecks
 	}
-	tol := 1e-10 * weightSum(m)
+	tol := 1e-10 * m.StressScale()
 	for i := 0; i < n; i += step {
 		F := p.Data.Kinematics(i).F
 		ps, err := m.StabilityAt(F, directions)

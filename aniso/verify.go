@@ -190,7 +190,7 @@ func SolveUniaxialPath(m *Model, theta float64, lambdas []float64) []UniaxialSol
 	}
 	sort.SliceStable(up, func(a, b int) bool { return lambdas[up[a]] < lambdas[up[b]] })
 	sort.SliceStable(down, func(a, b int) bool { return lambdas[down[a]] > lambdas[down[b]] })
-	stiffTol := 1e-10 * weightSum(m)
+	stiffTol := 1e-10 * m.StressScale()
 	for _, branch := range [][]int{up, down} {
 		lam, mu := 1.0, 1.0
 		var broken error

@@ -309,23 +309,16 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		// One branch at a time: a window reaching across a turning point or
 		// across the jump from one kept branch to the next would mix
 		// stretches that no marker track holds side by side.
+		ends := append(starts[1:len(starts):len(starts)], len(pts))
 		for j, a := range starts {
-			b := len(pts)
-			if j+1 < len(starts) {
-				b = starts[j+1]
-			}
-			if b-a < opt.SmoothStrain {
+			if n := ends[j] - a; n < opt.SmoothStrain {
 				return pr, perr(ErrProtocol, "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol",
 					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch",
-					plural(b-a, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain)
+					plural(n, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain)
 			}
 		}
 		for j, a := range starts {
-			b := len(pts)
-			if j+1 < len(starts) {
-				b = starts[j+1]
-			}
-			smoothStrain(pts[a:b], opt.SmoothStrain)
+			smoothStrain(pts[a:ends[j]], opt.SmoothStrain)
 		}
 		pr.SmoothWindow = opt.SmoothStrain
 		pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", opt.SmoothStrain)

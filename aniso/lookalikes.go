@@ -278,6 +278,20 @@ func (d *Discovery) architectureTie(ev evidence, win *formBest) (tie *formBest, 
 	if flatTop(wr) {
 		dir, _ = pairGeometryDeg(wr)
 	}
+	return d.bestTie(ev, win, func(a1, a2 float64) (bool, bool) {
+		elsewhere, adds := tieGeometry(dir, a1, a2, ev.hasShear)
+		return elsewhere || adds, adds
+	})
+}
+
+// bestTie returns, of the best models of the two-family forms (two
+// directions, cross-validated) whose angles a1, a2 (degrees) place
+// accepts, the one that ties with the one-family winner win — held-out
+// error not worse by more than one standard error and BIC not worse by
+// DisagreeDeltaBIC or more — whose held-out gain is largest in standard
+// errors, with its comparison and what place said of it (tag); nil when
+// none ties. architectureTie and broadSpreadTie differ only in place.
+func (d *Discovery) bestTie(ev evidence, win *formBest, place func(a1, a2 float64) (ok, tag bool)) (tie *formBest, tieLC LayoutComparison, tag bool) {
 	floor := seFloor(d.noiseLevel(ev), ev)
 	// The gain in standard errors; the standard error is floored
 	// (seFloor) and zero only for data without noise, where the tiny
@@ -288,8 +302,8 @@ func (d *Discovery) architectureTie(ev evidence, win *formBest) (tie *formBest, 
 		if fb.key == win.key || fb.c.CV == nil || familyCount(r) != 2 || !twoDirections(r, ev.hasShear) {
 			continue
 		}
-		elsewhere, adds := tieGeometry(dir, Deg(r.Model.Families[0].Angle), Deg(r.Model.Families[1].Angle), ev.hasShear)
-		if !elsewhere && !adds {
+		ok, t := place(Deg(r.Model.Families[0].Angle), Deg(r.Model.Families[1].Angle))
+		if !ok {
 			continue
 		}
 		lc := compare(win, fb, floor)
@@ -297,10 +311,10 @@ func (d *Discovery) architectureTie(ev evidence, win *formBest) (tie *formBest, 
 			continue
 		}
 		if tie == nil || z(lc) > z(tieLC) {
-			tie, tieLC, added = fb, lc, adds
+			tie, tieLC, tag = fb, lc, t
 		}
 	}
-	return tie, tieLC, added
+	return tie, tieLC, tag
 }
 
 // tieGeometry says whether two families at a1 and a2 (degrees) place
@@ -363,8 +377,7 @@ func (d *Discovery) broadSpreadTie(ev evidence, win *formBest) (*formBest, Layou
 		return nil, LayoutComparison{}, 0
 	}
 	b := math.Inf(1)
-	bests := d.formBests()
-	for _, fb := range bests {
+	for _, fb := range d.formBests() {
 		if r := fb.c.Result; r.Structure.Planar && r.Structure.Layout == LayoutSingle {
 			b = min(b, r.Model.Families[0].Concentration)
 		}
@@ -373,27 +386,11 @@ func (d *Discovery) broadSpreadTie(ev evidence, win *formBest) (*formBest, Layou
 		return nil, LayoutComparison{}, 0
 	}
 	dir := Deg(wr.Model.Families[0].Angle)
-	floor := seFloor(d.noiseLevel(ev), ev)
-	var tie *formBest
-	var tieLC LayoutComparison
-	for _, fb := range bests {
-		r := fb.c.Result
-		if fb.key == win.key || fb.c.CV == nil || familyCount(r) != 2 || !twoDirections(r, true) {
-			continue
-		}
-		o1, o2 := WrapDeg(Deg(r.Model.Families[0].Angle)-dir), WrapDeg(Deg(r.Model.Families[1].Angle)-dir)
-		if o1*o2 >= 0 || min(math.Abs(o1), math.Abs(o2)) < eitherSideMinDeg {
-			continue
-		}
-		lc := compare(win, fb, floor)
-		if math.IsNaN(lc.Gain) || lc.Gain < -lc.StdErr || lc.DeltaBIC <= -DisagreeDeltaBIC {
-			continue
-		}
-		if tie == nil || lc.Gain/lc.StdErr > tieLC.Gain/tieLC.StdErr {
-			tie, tieLC = fb, lc
-		}
-	}
-	return tie, tieLC, b
+	tie, lc, _ := d.bestTie(ev, win, func(a1, a2 float64) (bool, bool) {
+		o1, o2 := WrapDeg(a1-dir), WrapDeg(a2-dir)
+		return o1*o2 < 0 && min(math.Abs(o1), math.Abs(o2)) >= eitherSideMinDeg, false
+	})
+	return tie, lc, b
 }
 
 // architectureTieRule makes a one-family verdict undecided when a form

@@ -56,7 +56,8 @@ type cycleSpan struct {
 
 // Prepare turns a Record into a Specimen: it groups rows by protocol, finds
 // the cycles and branches, keeps the ones opt asks for, optionally
-// re-references and resamples, computes the weights, and adds warnings.
+// re-references and resamples, computes the weights, puts the protocols in
+// the protocol order (Specimen.SortProtocols), and adds warnings.
 // rec is not modified.
 func Prepare(rec *Record, opt Options) (*Specimen, error) {
 	if err := opt.check(); err != nil {
@@ -90,6 +91,7 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 		}
 		s.Protocols = append(s.Protocols, pr)
 	}
+	s.SortProtocols()
 	// Shear information: a measured shear stress or non-zero F12/F21.
 	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
 	if !t.hasShear {

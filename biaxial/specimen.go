@@ -263,7 +263,8 @@ type Specimen struct {
 	// Reference records the reference state used, e.g. "as measured" or
 	// "re-referenced to the first kept point of each protocol (tare removed)".
 	Reference string
-	// Protocols in file order.
+	// Protocols in the protocol order of SortProtocols (from their data,
+	// not their order in the file), when prepared by Prepare.
 	Protocols []Protocol
 	// Warnings found while reading; Notices are informational (e.g. a
 	// semicolon-separated file was detected).

@@ -551,6 +551,7 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		if err != nil {
 			return nil, fitFailed(s, err)
 		}
+		o.Result = aniso.InFamilyOrder(p, o.Result, aniso.Settings{Profile: true})
 	} else {
 		set := ff.discoverSettings()
 		set.Progress = bar.set

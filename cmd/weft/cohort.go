@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -237,8 +238,21 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		if err != nil {
 			return "", err
 		}
+		// A row by base name that two files share would give both its
+		// group without telling, whichever of them it was meant for.
+		byBase := map[string][]string{}
 		for _, m := range ms {
-			m.group = groupOf(table, m.file)
+			r, base := groupOf(table, m.file)
+			m.group = r.group
+			if base {
+				byBase[path.Base(m.file)] = append(byBase[path.Base(m.file)], m.file)
+			}
+		}
+		for _, m := range ms {
+			b := path.Base(m.file)
+			if files := byBase[b]; len(files) > 1 {
+				return "", badInputf("--group-by %s:%d: %q matches %d files (%s); give each file's path as on the command line", by, table[b].line, b, len(files), strings.Join(files, ", "))
+			}
 		}
 		file = by
 	} else {
@@ -262,9 +276,17 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 	return file, nil
 }
 
-// readGroupTable reads a two-column CSV of file and group; a first row
-// whose second cell is "group" is a header.
-func readGroupTable(path string) (map[string]string, error) {
+// groupRow is a row of a group table: the group and the row's line.
+type groupRow struct {
+	group string
+	line  int
+}
+
+// readGroupTable reads a two-column CSV of file and group, keyed by the
+// file cleaned and '/' separated; a first row whose second cell is "group"
+// is a header. A file given two different groups is refused: which one was
+// meant cannot be told.
+func readGroupTable(path string) (map[string]groupRow, error) {
 	b, err := readAtMost(path, 16<<20)
 	if err != nil {
 		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
@@ -276,7 +298,7 @@ func readGroupTable(path string) (map[string]string, error) {
 	if err != nil {
 		return nil, badInputf("--group-by %s: %v", path, err)
 	}
-	t := map[string]string{}
+	t := map[string]groupRow{}
 	for i, row := range rows {
 		if len(row) != 2 {
 			return nil, badInputf("--group-by %s:%d: want two columns, file and group; found %d", path, i+1, len(row))
@@ -284,25 +306,25 @@ func readGroupTable(path string) (map[string]string, error) {
 		if i == 0 && strings.EqualFold(strings.TrimSpace(row[1]), "group") {
 			continue
 		}
-		t[strings.TrimSpace(row[0])] = strings.TrimSpace(row[1])
+		k, g := filepath.ToSlash(filepath.Clean(strings.TrimSpace(row[0]))), strings.TrimSpace(row[1])
+		if prev, ok := t[k]; ok && prev.group != g {
+			return nil, badInputf("--group-by %s:%d: %s has the group %q here and %q at line %d; give each file one group", path, i+1, k, g, prev.group, prev.line)
+		} else if ok {
+			continue
+		}
+		t[k] = groupRow{group: g, line: i + 1}
 	}
 	return t, nil
 }
 
-// groupOf finds a file in the group table: by the path as given, cleaned,
-// or by its base name.
-func groupOf(t map[string]string, file string) string {
-	for _, k := range []string{file, filepath.FromSlash(file)} {
-		if g, ok := t[k]; ok {
-			return g
-		}
+// groupOf finds a file (cleaned, '/' separated) in the group table: by
+// its path, else by its base name (base is then true).
+func groupOf(t map[string]groupRow, file string) (r groupRow, base bool) {
+	if r, ok := t[file]; ok {
+		return r, false
 	}
-	for k, g := range t {
-		if filepath.ToSlash(filepath.Clean(k)) == file {
-			return g
-		}
-	}
-	return t[filepath.Base(file)]
+	r, ok := t[path.Base(file)]
+	return r, ok
 }
 
 // cohortUnit is the stress unit and measure most members were read in

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path"
 	"path/filepath"
@@ -424,6 +425,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 	in := &cohortreport.Input{Cohort: c, GroupBy: groupBy, StressUnit: unit, StressKind: kind}
 	cards := map[string]*card.Card{}
 	var fits []*aniso.Result
+	var averaged []*aniso.Problem // the data of fits, in order
 	for _, m := range ms {
 		name := strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
 		if m.spec != nil {
@@ -437,6 +439,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 				sp.Result, sp.CV, sp.Folder = cs.Result, cs.CV, m.folder
 				cards[m.folder] = card.FromFit(m.prob, cs.Result, nil)
 				fits = append(fits, cs.Result)
+				averaged = append(averaged, m.prob)
 			}
 		}
 		if m.err != nil {
@@ -457,15 +460,44 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 			}
 			mc := card.FromModel(mm, unit, signs)
 			mc.Specimen = fmt.Sprintf("mean parameters of %d specimens", len(fits))
-			// The span the specimens were tested over, as the population
-			// card's, with the fibre stretch along the mean model's own
-			// families: without it, check and evaluate could not say
-			// where the mean model extrapolates.
-			mc.DataRange = card.NewDataRange(c.Pooled, mm)
+			// The span the averaged specimens were tested over, with the
+			// fibre stretch along the mean model's own families: without
+			// it, check and evaluate could not say where the mean model
+			// extrapolates.
+			mc.DataRange = spanOf(averaged, mm, kind)
 			cards[cohortreport.MeanCard] = mc
 		}
 	}
 	return in, cards, nil
+}
+
+// spanOf is the span of the data of ps together, with the fibre stretch
+// along m's families, under the stress measure kind. The mean-parameter
+// model averages every fitted specimen, also those the population fit left
+// out (another stress measure or unit), so its range is theirs too, not
+// the population's pooled data alone.
+func spanOf(ps []*aniso.Problem, m *aniso.Model, kind string) *card.DataRange {
+	var dr *card.DataRange
+	widen := func(a *card.Interval, b card.Interval) { a[0], a[1] = math.Min(a[0], b[0]), math.Max(a[1], b[1]) }
+	for _, p := range ps {
+		d := card.NewDataRange(p, m)
+		if dr == nil {
+			dr = d
+			continue
+		}
+		widen(&dr.Stretch1, d.Stretch1)
+		widen(&dr.Stretch2, d.Stretch2)
+		widen(&dr.Shear, d.Shear)
+		widen(dr.Shear12, *d.Shear12)
+		widen(dr.Shear21, *d.Shear21)
+		for f := range dr.FibreStretch {
+			widen(&dr.FibreStretch[f], d.FibreStretch[f])
+		}
+	}
+	if dr != nil {
+		dr.StressKind = kind
+	}
+	return dr
 }
 
 // writeCohort writes every file of the cohort's folder and puts it in

@@ -465,6 +465,17 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 			// it, check and evaluate could not say where the mean model
 			// extrapolates.
 			mc.DataRange = spanOf(averaged, mm, kind)
+			// The mean model has the shared form's layout (the population
+			// card's); a mirror pair's θ and β are its mean families'.
+			if pc.Layout != nil {
+				l := *pc.Layout
+				if l.Kind == "mirror" && len(mm.Families) == 2 {
+					a0, a1 := mm.Families[0].Angle, mm.Families[1].Angle
+					mean, half := aniso.Deg((a0+a1)/2), aniso.Deg(math.Abs(a0-a1)/2)
+					l.MeanDeg, l.HalfAngleDeg = &mean, &half
+				}
+				mc.Layout = &l
+			}
 			cards[cohortreport.MeanCard] = mc
 		}
 	}

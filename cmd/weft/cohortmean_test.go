@@ -70,3 +70,34 @@ func TestMeanCardSpansAveragedSpecimens(t *testing.T) {
 		}
 	}
 }
+
+// The mean-parameter card of a mirror form has the form's layout, as the
+// population card has, with β the mean of the specimens' half angles (the
+// cohort's statistics). Before, it had no layout, and read as two
+// unrelated families. Four SYNTHETIC specimens, the hgo preset (Holzapfel,
+// Gasser & Ogden 2000: a pair at ±β about axis 1).
+func TestMeanCardKeepsMirrorLayout(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 4, 12, 5, cohortPopulation{"A", 30, 30})
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--preset", "hgo", "--no-specimen-reports"}
+	for _, s := range sp {
+		args = append(args, s.file)
+	}
+	if _, stderr, code := runWeft(t, args...); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	raw, err := os.ReadFile(filepath.Join(out, "mean-parameters.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var c card.Card
+	if err := json.Unmarshal(raw, &c); err != nil {
+		t.Fatal(err)
+	}
+	half := float64(statOf(t, readCohortJSON(t, out), "half_angle", "all").Mean)
+	if l := c.Layout; l == nil || l.Kind != "mirror" || l.PairAxis != "axis-1" || l.HalfAngleDeg == nil || math.Abs(*l.HalfAngleDeg-half) > 1e-9 {
+		t.Errorf("mean card layout %+v, want a mirror pair about axis 1 with β = %g°", l, half)
+	}
+}

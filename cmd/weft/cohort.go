@@ -292,7 +292,9 @@ func readGroupTable(path string) (map[string]groupRow, error) {
 	if err != nil {
 		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
 	}
-	r := csv.NewReader(bytes.NewReader(b))
+	// A spreadsheet's "CSV UTF-8" starts with a byte-order mark, which
+	// would otherwise become part of the first file's name.
+	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
 	r.Comment = '#'
 	r.FieldsPerRecord = -1
 	rows, err := r.ReadAll()

@@ -44,3 +44,21 @@ func TestGroupTableAmbiguous(t *testing.T) {
 		}
 	}
 }
+
+// A group table saved as "CSV UTF-8" by a spreadsheet starts with a
+// byte-order mark (U+FEFF; common practice of spreadsheet exports); without a
+// header row it was read into the first file's name, and that file lost
+// its group.
+func TestGroupTableByteOrderMark(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "groups.csv")
+	if err := os.WriteFile(p, []byte("\ufeffa/s00.csv,X\na/s01.csv,Y\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	ms := []*cohortMember{{file: "a/s00.csv"}, {file: "a/s01.csv"}}
+	if _, err := assignGroups(ms, p, io.Discard); err != nil {
+		t.Fatal(err)
+	}
+	if ms[0].group != "X" || ms[1].group != "Y" {
+		t.Errorf("groups %q, %q; want X, Y", ms[0].group, ms[1].group)
+	}
+}

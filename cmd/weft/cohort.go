@@ -6,7 +6,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
+	"path"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -237,8 +239,21 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		if err != nil {
 			return "", err
 		}
+		// A row by base name that two files share would give both its
+		// group without telling, whichever of them it was meant for.
+		byBase := map[string][]string{}
 		for _, m := range ms {
-			m.group = groupOf(table, m.file)
+			r, base := groupOf(table, m.file)
+			m.group = r.group
+			if base {
+				byBase[path.Base(m.file)] = append(byBase[path.Base(m.file)], m.file)
+			}
+		}
+		for _, m := range ms {
+			b := path.Base(m.file)
+			if files := byBase[b]; len(files) > 1 {
+				return "", badInputf("--group-by %s:%d: %q matches %d files (%s); give each file's path as on the command line", by, table[b].line, b, len(files), strings.Join(files, ", "))
+			}
 		}
 		file = by
 	} else {
@@ -262,21 +277,31 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 	return file, nil
 }
 
-// readGroupTable reads a two-column CSV of file and group; a first row
-// whose second cell is "group" is a header.
-func readGroupTable(path string) (map[string]string, error) {
+// groupRow is a row of a group table: the group and the row's line.
+type groupRow struct {
+	group string
+	line  int
+}
+
+// readGroupTable reads a two-column CSV of file and group, keyed by the
+// file cleaned and '/' separated; a first row whose second cell is "group"
+// is a header. A file given two different groups is refused: which one was
+// meant cannot be told.
+func readGroupTable(path string) (map[string]groupRow, error) {
 	b, err := readAtMost(path, 16<<20)
 	if err != nil {
 		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
 	}
-	r := csv.NewReader(bytes.NewReader(b))
+	// A spreadsheet's "CSV UTF-8" starts with a byte-order mark, which
+	// would otherwise become part of the first file's name.
+	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
 	r.Comment = '#'
 	r.FieldsPerRecord = -1
 	rows, err := r.ReadAll()
 	if err != nil {
 		return nil, badInputf("--group-by %s: %v", path, err)
 	}
-	t := map[string]string{}
+	t := map[string]groupRow{}
 	for i, row := range rows {
 		if len(row) != 2 {
 			return nil, badInputf("--group-by %s:%d: want two columns, file and group; found %d", path, i+1, len(row))
@@ -284,25 +309,25 @@ func readGroupTable(path string) (map[string]string, error) {
 		if i == 0 && strings.EqualFold(strings.TrimSpace(row[1]), "group") {
 			continue
 		}
-		t[strings.TrimSpace(row[0])] = strings.TrimSpace(row[1])
+		k, g := filepath.ToSlash(filepath.Clean(strings.TrimSpace(row[0]))), strings.TrimSpace(row[1])
+		if prev, ok := t[k]; ok && prev.group != g {
+			return nil, badInputf("--group-by %s:%d: %s has the group %q here and %q at line %d; give each file one group", path, i+1, k, g, prev.group, prev.line)
+		} else if ok {
+			continue
+		}
+		t[k] = groupRow{group: g, line: i + 1}
 	}
 	return t, nil
 }
 
-// groupOf finds a file in the group table: by the path as given, cleaned,
-// or by its base name.
-func groupOf(t map[string]string, file string) string {
-	for _, k := range []string{file, filepath.FromSlash(file)} {
-		if g, ok := t[k]; ok {
-			return g
-		}
+// groupOf finds a file (cleaned, '/' separated) in the group table: by
+// its path, else by its base name (base is then true).
+func groupOf(t map[string]groupRow, file string) (r groupRow, base bool) {
+	if r, ok := t[file]; ok {
+		return r, false
 	}
-	for k, g := range t {
-		if filepath.ToSlash(filepath.Clean(k)) == file {
-			return g
-		}
-	}
-	return t[filepath.Base(file)]
+	r, ok := t[path.Base(file)]
+	return r, ok
 }
 
 // cohortUnit is the stress unit and measure most members were read in
@@ -402,6 +427,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 	in := &cohortreport.Input{Cohort: c, GroupBy: groupBy, StressUnit: unit, StressKind: kind}
 	cards := map[string]*card.Card{}
 	var fits []*aniso.Result
+	var averaged []*aniso.Problem // the data of fits, in order
 	for _, m := range ms {
 		name := strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
 		if m.spec != nil {
@@ -415,6 +441,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 				sp.Result, sp.CV, sp.Folder = cs.Result, cs.CV, m.folder
 				cards[m.folder] = card.FromFit(m.prob, cs.Result, nil)
 				fits = append(fits, cs.Result)
+				averaged = append(averaged, m.prob)
 			}
 		}
 		if m.err != nil {
@@ -435,15 +462,55 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 			}
 			mc := card.FromModel(mm, unit, signs)
 			mc.Specimen = fmt.Sprintf("mean parameters of %d specimens", len(fits))
-			// The span the specimens were tested over, as the population
-			// card's, with the fibre stretch along the mean model's own
-			// families: without it, check and evaluate could not say
-			// where the mean model extrapolates.
-			mc.DataRange = card.NewDataRange(c.Pooled, mm)
+			// The span the averaged specimens were tested over, with the
+			// fibre stretch along the mean model's own families: without
+			// it, check and evaluate could not say where the mean model
+			// extrapolates.
+			mc.DataRange = spanOf(averaged, mm, kind)
+			// The mean model has the shared form's layout (the population
+			// card's); a mirror pair's θ and β are its mean families'.
+			if pc.Layout != nil {
+				l := *pc.Layout
+				if l.Kind == "mirror" && len(mm.Families) == 2 {
+					a0, a1 := mm.Families[0].Angle, mm.Families[1].Angle
+					mean, half := aniso.Deg((a0+a1)/2), aniso.Deg(math.Abs(a0-a1)/2)
+					l.MeanDeg, l.HalfAngleDeg = &mean, &half
+				}
+				mc.Layout = &l
+			}
 			cards[cohortreport.MeanCard] = mc
 		}
 	}
 	return in, cards, nil
+}
+
+// spanOf is the span of the data of ps together, with the fibre stretch
+// along m's families, under the stress measure kind. The mean-parameter
+// model averages every fitted specimen, also those the population fit left
+// out (another stress measure or unit), so its range is theirs too, not
+// the population's pooled data alone.
+func spanOf(ps []*aniso.Problem, m *aniso.Model, kind string) *card.DataRange {
+	var dr *card.DataRange
+	widen := func(a *card.Interval, b card.Interval) { a[0], a[1] = math.Min(a[0], b[0]), math.Max(a[1], b[1]) }
+	for _, p := range ps {
+		d := card.NewDataRange(p, m)
+		if dr == nil {
+			dr = d
+			continue
+		}
+		widen(&dr.Stretch1, d.Stretch1)
+		widen(&dr.Stretch2, d.Stretch2)
+		widen(&dr.Shear, d.Shear)
+		widen(dr.Shear12, *d.Shear12)
+		widen(dr.Shear21, *d.Shear21)
+		for f := range dr.FibreStretch {
+			widen(&dr.FibreStretch[f], d.FibreStretch[f])
+		}
+	}
+	if dr != nil {
+		dr.StressKind = kind
+	}
+	return dr
 }
 
 // writeCohort writes every file of the cohort's folder and puts it in

@@ -152,7 +152,8 @@ type SpecimenRow struct {
 	// FamiliesRelabelled is true when the specimen's two fibre families
 	// match the population fit's in the other order (aniso.FamiliesSwapped):
 	// its Parameters are then under the population's labels, its own card's
-	// f1 being the population's f2 and the other way round.
+	// f1 being the population's f2 and the other way round (a mirror pair's
+	// θ and β read as θ + 90° and 90° − β, see pairRelabelled).
 	FamiliesRelabelled bool `json:"families_relabelled,omitempty"`
 	// Flags are the specimen's own fit's flags (aniso.Result.Flags), as
 	// its card holds them.
@@ -351,13 +352,20 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 			row.Parameters = map[string]card.Num{}
 			// Two families whose labels the fit swapped against the
 			// population's are read under the population's labels.
-			rename := func(n string) string { return n }
+			rename := func(e aniso.Estimate) aniso.Estimate { return e }
 			if pop := in.Cohort.Population; pop != nil && aniso.FamiliesSwapped(sp.Result.Model, pop.Model, signKnown) {
 				row.FamiliesRelabelled = true
-				rename = familySwap.Replace
+				rename = func(e aniso.Estimate) aniso.Estimate {
+					e.Name = familySwap.Replace(e.Name)
+					if sp.Result.Structure.Layout == aniso.LayoutMirror && !sp.Result.Structure.HoldPairAxis {
+						e = pairRelabelled(e)
+					}
+					return e
+				}
 			}
 			for _, e := range sp.Result.Estimates {
-				byName[rename(e.Name)] = e
+				e = rename(e)
+				byName[e.Name] = e
 			}
 			if r2 := card.LowestR2(sp.Result.Metrics); !math.IsInf(r2, 1) {
 				row.LowestR2 = card.Num(r2)
@@ -378,6 +386,22 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 		s.Specimens = append(s.Specimens, row)
 	}
 	return values
+}
+
+// pairRelabelled is a mirror pair's estimate read with its two families'
+// labels exchanged. The pair's families lie at θ + β and θ − β (modulo
+// 180°); the same two families under the other labels are θ' ± β' with
+// θ' = θ + 90° and β' = 90° − β (θ' + β' = θ − β + 180°, θ' − β' = θ + β).
+// A fit can end in either parameterisation; averaged as fitted, a pair
+// near 0° ± 47° read as 82° ± 43° pulled a cohort's mean axis 11° off.
+func pairRelabelled(e aniso.Estimate) aniso.Estimate {
+	switch e.Name {
+	case "mean_angle":
+		e.Value, e.Lo, e.Hi = e.Value+90, e.Lo+90, e.Hi+90
+	case "half_angle":
+		e.Value, e.Lo, e.Hi = 90-e.Value, 90-e.Hi, 90-e.Lo
+	}
+	return e
 }
 
 // summarisedValue is an estimate as the statistics take it: a periodic

@@ -1,0 +1,64 @@
+package main
+
+import (
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// A group table is refused when a row cannot say which file it means: a
+// base name that two of the cohort's files share (before, both got its
+// group without a word), or one file given two groups (before, the later
+// row won without a word). Rows by path, cleaned, still match.
+func TestGroupTableAmbiguous(t *testing.T) {
+	dir := t.TempDir()
+	members := func() []*cohortMember {
+		return []*cohortMember{{file: "a/s00.csv"}, {file: "a/s01.csv"}, {file: "b/s00.csv"}, {file: "b/s01.csv"}}
+	}
+	table := func(name, body string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	ok := table("ok.csv", "file,group\ns00.csv,X\nb/s00.csv,Y\n./a/s01.csv,X\nb//s01.csv,Y\n")
+	ms := members()
+	if _, err := assignGroups(ms, ok, io.Discard); err != nil {
+		t.Fatalf("unambiguous table refused: %v", err)
+	}
+	for i, want := range []string{"X", "X", "Y", "Y"} {
+		if ms[i].group != want {
+			t.Errorf("%s: group %q, want %q", ms[i].file, ms[i].group, want)
+		}
+	}
+	for name, body := range map[string]string{
+		"shared.csv": "file,group\ns01.csv,X\na/s00.csv,X\nb/s00.csv,Y\n",
+		"twice.csv":  "a/s00.csv,X\n./a/s00.csv,Y\n",
+	} {
+		_, err := assignGroups(members(), table(name, body), io.Discard)
+		if err == nil || !strings.Contains(err.Error(), name+":") {
+			t.Errorf("%s: error %v, want one naming the table's line", name, err)
+		}
+	}
+}
+
+// A group table saved as "CSV UTF-8" by a spreadsheet starts with a
+// byte-order mark (U+FEFF; common practice of spreadsheet exports); without a
+// header row it was read into the first file's name, and that file lost
+// its group.
+func TestGroupTableByteOrderMark(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "groups.csv")
+	if err := os.WriteFile(p, []byte("\ufeffa/s00.csv,X\na/s01.csv,Y\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	ms := []*cohortMember{{file: "a/s00.csv"}, {file: "a/s01.csv"}}
+	if _, err := assignGroups(ms, p, io.Discard); err != nil {
+		t.Fatal(err)
+	}
+	if ms[0].group != "X" || ms[1].group != "Y" {
+		t.Errorf("groups %q, %q; want X, Y", ms[0].group, ms[1].group)
+	}
+}

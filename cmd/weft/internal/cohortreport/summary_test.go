@@ -1,0 +1,50 @@
+package cohortreport
+
+import (
+	"math"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
+)
+
+// A mirror pair lies at θ ± β (Holzapfel, Gasser & Ogden 2000), modulo
+// 180°, so (θ, β) and (θ + 90°, 90° − β) are the same two families with
+// their labels exchanged (by hand: 82° + 43° = 125° ≡ −55° and
+// 82° − 43° = 39°, which are −8° ∓ 47°). A specimen fitted in the second
+// parameterisation is read in the population's: invented values, a
+// population pair at 0° ± 47°, specimens at 2° ± 45° and 82° ± 43°; the
+// statistics must see θ = 2° and −8° (mean −3°) and β = 45° and 47°
+// (mean 46°), not θ = 2° and 82° (mean 42°).
+func TestMirrorPairRelabelled(t *testing.T) {
+	pair := func(theta, beta float64) *aniso.Result {
+		m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(aniso.WrapDeg(theta + beta))}, {Name: "f2", Angle: aniso.Rad(aniso.WrapDeg(theta - beta))}},
+			Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
+				{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 50, Params: []float64{4}},
+				{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 50, Params: []float64{4}}}}
+		return &aniso.Result{Model: m, SignKnown: true, Structure: aniso.Structure{Layout: aniso.LayoutMirror},
+			Estimates: []aniso.Estimate{{Name: "weight[i1-lin]", Kind: "weight", Value: 3, Unit: "kPa"},
+				{Name: "mean_angle", Kind: "angle", Value: theta, Unit: "deg"},
+				{Name: "half_angle", Kind: "angle", Value: beta, Unit: "deg"}}}
+	}
+	in := &Input{Cohort: &aniso.Cohort{Population: pair(0, 47)},
+		Specimens: []Specimen{{File: "a.csv", Name: "A", Result: pair(2, 45)}, {File: "b.csv", Name: "B", Result: pair(82, 43)}}}
+	s := &Summary{}
+	s.Parameters = parameters(in)
+	values := s.specimenRows(in)
+	if s.Specimens[0].FamiliesRelabelled || !s.Specimens[1].FamiliesRelabelled {
+		t.Fatalf("relabelled %v, %v; want false, true", s.Specimens[0].FamiliesRelabelled, s.Specimens[1].FamiliesRelabelled)
+	}
+	want := map[string][2]float64{"mean_angle": {2, -8}, "half_angle": {45, 47}}
+	for k, p := range s.Parameters {
+		w, ok := want[p.Name]
+		if !ok {
+			continue
+		}
+		for i := range w {
+			if math.Abs(values[k][i]-w[i]) > 1e-9 {
+				t.Errorf("%s of specimen %d = %g°, want %g°", p.Name, i, values[k][i], w[i])
+			}
+		}
+	}
+}

@@ -297,7 +297,7 @@ func (in *Input) netPeak(protocol, comp string) float64 {
 
 // noShare says why a component has no share, or is empty: the card's
 // reason, or, for a card written before it gave one, the same test on
-// fit.csv's modelled stress (aniso.NetNegligible).
+// fit.csv's modelled stress and term contributions (aniso.NoLoadToShare).
 func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 	t := in.table
 	ci := componentIndex(t.comps, cc.Component)
@@ -311,6 +311,19 @@ func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 				net = math.Max(net, math.Abs(v))
 			}
 		}
+		// The terms cancel when the magnitude of their sum is a small part
+		// of the sum of their magnitudes, both summed over the points.
+		sum, gross := 0.0, 0.0
+		for i := range pr.F {
+			s := 0.0
+			for k := range t.terms {
+				if c := pr.contrib[k][ci]; i < len(c) && !bad(c[i]) {
+					s += c[i]
+					gross += math.Abs(c[i])
+				}
+			}
+			sum += math.Abs(s)
+		}
 		for _, cj := range t.componentsOf(false) {
 			for _, v := range pr.model[cj] {
 				if !bad(v) {
@@ -318,7 +331,7 @@ func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 				}
 			}
 		}
-		if cc.NoShare != "" || aniso.NetNegligible(net, normal) {
+		if cc.NoShare != "" || aniso.NoLoadToShare(net, normal, sum, gross) {
 			return fmt.Sprintf("no share: net ≈ 0 (|%s| ≤ %s %s, under %.0f %% of %s %s); its terms cancel", compSymbol(t.kind, cc.Component), fsig(net, 2), t.unit, 100*aniso.NegligibleNet, fsig(normal, 3), t.unit)
 		}
 	}

@@ -395,3 +395,40 @@ func TestNoShareOnlyWhereTermsCancel(t *testing.T) {
 		t.Errorf("cancel P22 (terms cancel to 1 %%): a share, want none")
 	}
 }
+
+// The take-over is found on every point with a load, the toe included:
+// below 2 % of the protocol's largest normal stress the matrix carries
+// the load alone until the fibres are recruited (Lanir 1983), and the
+// fibres take over between the second and the third point. When such
+// points were left out as negligible, the report said "fibres > ½ from
+// the start (λ = 1.050)" for a protocol that starts at λ = 1.01 with the
+// matrix carrying all of it. Points whose groups cancel stay out.
+func TestTakeoverSeesTheToe(t *testing.T) {
+	toe := "toe,2,1,1.01,0,0,1.005,0.1,0.1,0,1,1,0,0.1,0,1,0\n" +
+		"toe,3,1,1.03,0,0,1.015,0.2,0.2,0,2,2,0,0.2,0,2,0\n" +
+		"toe,4,1,1.05,0,0,1.025,10,10,0,3,3,0,0.3,9.7,3,0\n" +
+		"toe,5,1,1.10,0,0,1.05,30,30,0,4,4,0,0.4,29.6,4,0\n"
+	ft, err := readFitTable(strings.NewReader(splitFitCSV+toe), "fit.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	groups := ft.groupsOf()
+	for _, pr := range ft.protocols {
+		switch pr.label {
+		case "toe":
+			fib := fibreFraction(groups, ft.groupShares(pr, 0, groups))
+			to, ok := takeoverOf(xsOf(pr.F, "11", false), fib)
+			if !ok || to.from || to.first != 1.01 || !(to.at > 1.03 && to.at < 1.05) {
+				t.Errorf("toe: fibre fractions %v, take-over %+v; want from λ = 1.01, crossing between 1.03 and 1.05", fib, to)
+			}
+		case "cancel":
+			for g, sh := range ft.groupShares(pr, 1, groups) {
+				for i, v := range sh {
+					if !math.IsNaN(v) {
+						t.Errorf("cancel P22 point %d: group %s has share %g of stresses that cancel", i, groups[g], v)
+					}
+				}
+			}
+		}
+	}
+}

@@ -432,3 +432,16 @@ func TestTakeoverSeesTheToe(t *testing.T) {
 		}
 	}
 }
+
+// A record tile counts its cycles in words: "1 cycle", "3 cycles", and
+// nothing when raw.csv numbers none (a one-cycle file once read "1 cycles").
+func TestRawTitle(t *testing.T) {
+	for _, c := range []struct {
+		n    int
+		want string
+	}{{0, "1:1"}, {1, "1:1 · 1 cycle"}, {3, "1:1 · 3 cycles"}} {
+		if got := rawTitle("1:1", c.n); got != c.want {
+			t.Errorf("rawTitle(1:1, %d) = %q, want %q", c.n, got, c.want)
+		}
+	}
+}

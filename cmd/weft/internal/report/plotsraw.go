@@ -50,7 +50,7 @@ func (in *Input) rawFigure() *figure {
 		for _, c := range rr.cycle {
 			cycles = max(cycles, c)
 		}
-		p := newPanel(rawTitle(labels[i], cycles), abscissaLabel(false, false), stressAxis(t.kind, t.unit), 5, 6)
+		p := newPanel(rawTitle(labels[i], cycles), abscissaLabel(false, false)+t.heldNote(rr.F, false), stressAxis(t.kind, t.unit), 5, 6)
 		for _, ci := range t.componentsOf(false) {
 			c := t.comps[ci]
 			xs := xsOf(rr.F, c, false)
@@ -70,7 +70,7 @@ func (in *Input) rawFigure() *figure {
 		}
 		for _, ci := range t.componentsOf(false) {
 			if len(rr.F) > 0 {
-				addPoints(p, []float64{axisCoordinate(rr.F[0], t.comps[ci], false)}, []float64{rr.stress[ci][0]}, preloadGlyph())
+				addPoints(p, []float64{axisCoordinate(rr.F[0], abscissaComp(rr.F, t.comps[ci]), false)}, []float64{rr.stress[ci][0]}, preloadGlyph())
 			}
 		}
 		includeZero(p)

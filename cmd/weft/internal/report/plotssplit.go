@@ -212,7 +212,7 @@ func (in *Input) splitFigure(strain bool) *figure {
 	legend = append(legend, legendEntry{"fibres take over half the load", glyphSample(mark)})
 	panel := func(i int) *plot.Plot {
 		pr := t.protocols[i]
-		p := newPanel(pr.label, abscissaLabel(false, strain), "share of the load [%]", 5, 6)
+		p := newPanel(pr.label, abscissaLabel(false, strain)+t.heldNote(pr.F, strain), "share of the load [%]", 5, 6)
 		lo, hi := math.Inf(1), math.Inf(-1)
 		var tx, ty []float64
 		for _, ci := range t.componentsOf(false) {

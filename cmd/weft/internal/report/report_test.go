@@ -445,3 +445,43 @@ func TestRawTitle(t *testing.T) {
 		}
 	}
 }
+
+// A strip-biaxial protocol (common practice: one axis held at a fixed
+// stretch, the other pulled) plots the held axis's stress against the
+// pulled axis's stretch and says so; against its own, constant stretch
+// every point stacked on one vertical line at λ = 1 and the fit of that
+// axis could not be read. A protocol 1:0.25 (span ratio 0.25) keeps each
+// axis's own stretch.
+func TestHeldAxisAgainstTheOther(t *testing.T) {
+	var strip, quarter [][4]float64
+	for i := 0; i <= 10; i++ {
+		e := 0.015 * float64(i)
+		strip = append(strip, [4]float64{1 + e, 0, 0, 1})
+		quarter = append(quarter, [4]float64{1 + e, 0, 0, 1 + e/4})
+	}
+	if a := abscissaComp(strip, "22"); a != "11" {
+		t.Errorf("strip 1:0, P22 against %s, want 11", a)
+	}
+	if a := abscissaComp(strip, "11"); a != "11" {
+		t.Errorf("strip 1:0, P11 against %s, want 11", a)
+	}
+	if a := abscissaComp(quarter, "22"); a != "22" {
+		t.Errorf("1:0.25, P22 against %s, want its own 22", a)
+	}
+	if a := abscissaComp(strip, "12"); a != "12" {
+		t.Errorf("shear against %s, want its own shear strain", a)
+	}
+	if xs := xsOf(strip, "22", false); xs[0] != 1 || math.Abs(xs[10]-1.15) > 1e-12 {
+		t.Errorf("strip 1:0, P22 abscissae %v, want λ1 from 1 to 1.15", xs)
+	}
+	ft := &fitTable{comps: []string{"11", "22"}, kind: "nominal"}
+	if n := ft.heldNote(strip, false); n != "; P22 against λ1 (axis 2 held)" {
+		t.Errorf("held note %q", n)
+	}
+	if n := ft.heldNote(quarter, true); n != "" {
+		t.Errorf("1:0.25 held note %q, want none", n)
+	}
+	if s := takeoverText(takeover{from: true, first: 1.008}, true, "λ1"); s != "fibres > ½ from the start (λ1 = 1.008)" {
+		t.Errorf("take-over text %q", s)
+	}
+}

@@ -164,7 +164,11 @@ func (in *Input) takeoverTable(v *reportView) {
 			for _, ci := range t.componentsOf(false) {
 				xs := xsOf(pr.F, t.comps[ci], false)
 				to, ok := takeoverOf(xs, fibreFraction(groups, t.groupShares(pr, ci, groups)))
-				cells = append(cells, takeoverText(to, ok))
+				sym := "λ"
+				if a := abscissaComp(pr.F, t.comps[ci]); a != t.comps[ci] {
+					sym = "λ" + a[:1] // the axis is held: against the other's stretch
+				}
+				cells = append(cells, takeoverText(to, ok, sym))
 			}
 			v.Takeover.Rows = append(v.Takeover.Rows, htmlRow{Cells: cells})
 		}
@@ -341,17 +345,19 @@ func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 	return ""
 }
 
-// takeoverText writes where the fibres take over half of an axis's load.
-func takeoverText(to takeover, ok bool) string {
+// takeoverText writes where the fibres take over half of an axis's load,
+// at the stretch sym ("λ", the axis's own, or "λ1"/"λ2" for a held axis
+// read against the other's).
+func takeoverText(to takeover, ok bool, sym string) string {
 	switch {
 	case !ok:
 		return "—"
 	case to.from:
-		return "fibres > ½ from the start (λ = " + fsig(to.first, 4) + ")"
+		return "fibres > ½ from the start (" + sym + " = " + fsig(to.first, 4) + ")"
 	case to.never:
-		return "matrix > ½ throughout (to λ = " + fsig(to.last, 4) + ")"
+		return "matrix > ½ throughout (to " + sym + " = " + fsig(to.last, 4) + ")"
 	}
-	return "λ = " + fsig(to.at, 4)
+	return sym + " = " + fsig(to.at, 4)
 }
 
 // methodsSection writes a paragraph a paper can quote, its references and

@@ -49,8 +49,9 @@ type ComponentSplit struct {
 	NetPeak, NormalPeak float64
 	// NoShare is empty, or says why the component has no share: its
 	// modelled stress is negligible (NegligibleNet) while its terms carry
-	// stress that cancels, so a share of their magnitudes would describe
-	// nothing the component carries.
+	// stress that cancels (CancelledNet), so a share of their magnitudes
+	// would describe nothing the component carries, or no term carries
+	// any stress in it.
 	NoShare string
 }
 
@@ -68,6 +69,27 @@ const NegligibleNet = 0.02
 // largest magnitude normalPeak (see NegligibleNet).
 func NetNegligible(netPeak, normalPeak float64) bool {
 	return normalPeak > 0 && netPeak < NegligibleNet*normalPeak || normalPeak == 0 && netPeak == 0
+}
+
+// CancelledNet is the largest ratio of the magnitude of the terms' summed
+// contributions to the sum of their magnitudes at which the terms are taken
+// to cancel. A small stress is not by itself a cancellation: on the axis
+// that a fibre family along the other axis does not reach, or in the toe
+// before the fibres are recruited, one group carries a small stress alone
+// (ratio 1) and its share (100 %) is a fact worth reporting; on sutures the
+// matrix's and the fibres' shear stresses cancel to a ratio of about 0.002
+// (demo membrane-M3-sutured).
+const CancelledNet = 0.5
+
+// NoLoadToShare reports whether a component has no load to share: its
+// largest |modelled stress| netPeak is negligible next to the normal
+// stresses of largest magnitude normalPeak (NetNegligible), and its terms'
+// contributions cancel, net < CancelledNet·gross, where net is the
+// magnitude of their sum and gross the sum of their magnitudes (each may be
+// summed over points); gross = 0 (no term carries anything) has nothing to
+// share either.
+func NoLoadToShare(netPeak, normalPeak, net, gross float64) bool {
+	return NetNegligible(netPeak, normalPeak) && (gross == 0 || net < CancelledNet*gross)
 }
 
 // PointContributions returns each term's contribution to the model's stress
@@ -130,17 +152,20 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 		for _, comp := range p.Output.Components {
 			cs := ComponentSplit{Component: biaxial.Component(comp).String(), TermShare: make([]float64, len(m.Terms)),
 				GroupShare: make([]float64, ng), Signed: make([]float64, len(m.Terms))}
-			total := 0.0
+			total, netSum := 0.0, 0.0
 			for r := range p.Target {
 				if p.RowProtocol[r] != pi || p.RowComponent[r] != comp {
 					continue
 				}
+				net := 0.0
 				for k := range m.Terms {
 					v := contrib[k][r]
 					cs.Signed[k] += v
 					cs.TermShare[k] += math.Abs(v)
 					total += math.Abs(v)
+					net += v
 				}
+				netSum += math.Abs(net)
 			}
 			for k := range m.Terms {
 				if total > 0 {
@@ -149,9 +174,12 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 				cs.GroupShare[s.TermGroup[k]] += cs.TermShare[k]
 			}
 			cs.NetPeak, cs.NormalPeak = netPeak[comp], normalPeak
-			if NetNegligible(cs.NetPeak, cs.NormalPeak) {
+			if NoLoadToShare(cs.NetPeak, cs.NormalPeak, netSum, total) {
 				cs.NoShare = fmt.Sprintf("no share: the modelled %s stays within ±%.2g %s, under %.0f %% of the protocol's largest normal stress (%.3g %s), while its terms carry stresses that cancel",
 					cs.Component, cs.NetPeak, p.Specimen.StressUnit, 100*NegligibleNet, cs.NormalPeak, p.Specimen.StressUnit)
+				if total == 0 {
+					cs.NoShare = fmt.Sprintf("no share: no term carries any %s stress in this protocol", cs.Component)
+				}
 				for k := range cs.TermShare {
 					cs.TermShare[k] = math.NaN()
 				}

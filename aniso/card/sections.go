@@ -238,8 +238,8 @@ type SplitCompCard struct {
 	TermShare  []Num          `json:"term_share"`
 	GroupShare map[string]Num `json:"group_share"`
 	// NoShare says why the shares are null: the component's modelled
-	// stress is negligible while its terms' contributions cancel
-	// (aniso.NegligibleNet).
+	// stress is negligible while its terms' contributions cancel, or no
+	// term carries any (aniso.NoLoadToShare).
 	NoShare string `json:"no_share,omitempty"`
 }
 

@@ -410,6 +410,21 @@ func (rd *reportDemo) selfContainedHTML(t *testing.T) {
 			t.Errorf("report.html lacks %q", want)
 		}
 	}
+	// The cautions at the top and at the bottom are the same, the limit of
+	// planar biaxial data (Holzapfel & Ogden 2009) included, as the README
+	// promises; the bottom once lacked that limit.
+	blocks := strings.Split(html, `<section class="cautions"`)[1:]
+	if len(blocks) != 2 {
+		t.Fatalf("report.html has %d cautions sections, want 2 (top and bottom)", len(blocks))
+	}
+	for i, b := range blocks {
+		b = b[:strings.Index(b, "</section>")]
+		for _, want := range append(append([]string{}, card.Cautions...), "constrain the in-plane response only", "Holzapfel &amp; Ogden 2009") {
+			if !strings.Contains(b, htmlText(want)) && !strings.Contains(b, want) {
+				t.Errorf("cautions section %d of report.html lacks %q", i+1, want)
+			}
+		}
+	}
 }
 
 // inputHashAndVersion: the input's SHA-256 and the version are in the card and the report.

@@ -99,10 +99,14 @@ func stressComponent(r *aniso.Response, kind, comp string) float64 {
 // without curves.csv.
 func modelCurve(m *aniso.Model, pr *protocolRows, kind string, comps []string, strain bool) (xs, ys [][]float64) {
 	xs, ys = make([][]float64, len(comps)), make([][]float64, len(comps))
+	axes := make([]string, len(comps))
+	for c, comp := range comps {
+		axes[c] = abscissaComp(pr.F, comp)
+	}
 	for _, F := range CurvePath(pr.F) {
 		r, err := m.Evaluate(F)
 		for c, comp := range comps {
-			xs[c] = append(xs[c], axisCoordinate(F, comp, strain))
+			xs[c] = append(xs[c], axisCoordinate(F, axes[c], strain))
 			if err != nil {
 				ys[c] = append(ys[c], math.NaN())
 				continue

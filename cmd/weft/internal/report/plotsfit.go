@@ -85,13 +85,68 @@ func (t *fitTable) normalPeak(pr *protocolRows) float64 {
 // of the protocol's largest normal stress.
 const shearSpan = 0.02
 
-// xsOf is the abscissa of every point of a protocol for a component.
+// xsOf is the abscissa of every point of a protocol for a component: the
+// stretch (or strain) of the component's own axis, or of the other axis
+// when its own is held (abscissaComp).
 func xsOf(Fs [][4]float64, comp string, strain bool) []float64 {
+	a := abscissaComp(Fs, comp)
 	xs := make([]float64, len(Fs))
 	for i, F := range Fs {
-		xs[i] = axisCoordinate(F, comp, strain)
+		xs[i] = axisCoordinate(F, a, strain)
 	}
 	return xs
+}
+
+// heldAxisSpan is the largest span of an axis's stretch over a protocol,
+// as a fraction of the other axis's span, at which the axis counts as held
+// (a strip-biaxial test, common practice, holds one axis at a fixed
+// stretch while the other is pulled).
+const heldAxisSpan = 0.05
+
+// abscissaComp is the normal component whose stretch a component is
+// plotted against over the points Fs: its own, or the other axis's when
+// its own axis is held, since against a fixed stretch every point of the
+// held axis would stack on one vertical line and its fit could not be
+// read (strip 1:0 once drew P22 as a column at λ = 1). Shear components
+// keep their own (the shear strain).
+func abscissaComp(Fs [][4]float64, comp string) string {
+	other := map[string]string{"11": "22", "22": "11"}[comp]
+	if other == "" {
+		return comp
+	}
+	span := func(c string) float64 {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, F := range Fs {
+			x := axisCoordinate(F, c, false)
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+		}
+		return hi - lo
+	}
+	if own, o := span(comp), span(other); o > 0 && own < heldAxisSpan*o {
+		return other
+	}
+	return comp
+}
+
+// heldNote names, for a tile's abscissa label, each normal component
+// plotted against the other axis's stretch (abscissaComp); empty when
+// none is.
+func (t *fitTable) heldNote(Fs [][4]float64, strain bool) string {
+	var notes []string
+	for _, ci := range t.componentsOf(false) {
+		c := t.comps[ci]
+		if a := abscissaComp(Fs, c); a != c {
+			x := "λ" + a[:1]
+			if strain {
+				x = "E" + a
+			}
+			notes = append(notes, fmt.Sprintf("%s against %s (axis %s held)", compSymbol(t.kind, c), x, c[:1]))
+		}
+	}
+	if len(notes) == 0 {
+		return ""
+	}
+	return "; " + strings.Join(notes, ", ")
 }
 
 // series is one model's curve over one protocol: x, stress and the
@@ -191,7 +246,11 @@ func bandFill(comp string) draw.LineStyle {
 // prediction.
 func (in *Input) fitPanel(pr *protocolRows, shear, strain bool, title string) *plot.Plot {
 	t := in.table
-	p := newPanel(title, abscissaLabel(shear, strain), stressAxis(t.kind, t.unit), 5, 6)
+	xl := abscissaLabel(shear, strain)
+	if !shear {
+		xl += t.heldNote(pr.F, strain)
+	}
+	p := newPanel(title, xl, stressAxis(t.kind, t.unit), 5, 6)
 	s, _ := in.curveOf(pr, "model", strain)
 	comps := t.componentsOf(shear)
 	for _, ci := range comps {
@@ -337,7 +396,11 @@ func (in *Input) residualFigure(shear, strain bool) *figure {
 				q = append(q, fmtNum(float64(m.RMSE), 2))
 			}
 		}
-		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, abscissaLabel(shear, strain), "residual ["+t.unit+"]", 5, 6)
+		xl := abscissaLabel(shear, strain)
+		if !shear {
+			xl += t.heldNote(pr.F, strain)
+		}
+		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, xl, "residual ["+t.unit+"]", 5, 6)
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for _, ci := range t.componentsOf(shear) {
 			xs := xsOf(pr.F, t.comps[ci], strain)
@@ -417,7 +480,7 @@ func (in *Input) presetsFigure(strain bool) *figure {
 	}
 	panel := func(i int) *plot.Plot {
 		pr := t.protocols[i]
-		p := newPanel(pr.label, abscissaLabel(false, strain), stressAxis(t.kind, t.unit), 5, 6)
+		p := newPanel(pr.label, abscissaLabel(false, strain)+t.heldNote(pr.F, strain), stressAxis(t.kind, t.unit), 5, 6)
 		var all []series
 		for _, m := range models {
 			s, _ := in.curveOf(pr, m, strain)

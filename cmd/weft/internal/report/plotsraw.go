@@ -50,11 +50,7 @@ func (in *Input) rawFigure() *figure {
 		for _, c := range rr.cycle {
 			cycles = max(cycles, c)
 		}
-		title := labels[i]
-		if cycles > 0 {
-			title = fmt.Sprintf("%s · %d cycles", labels[i], cycles)
-		}
-		p := newPanel(title, abscissaLabel(false, false), stressAxis(t.kind, t.unit), 5, 6)
+		p := newPanel(rawTitle(labels[i], cycles), abscissaLabel(false, false)+t.heldNote(rr.F, false), stressAxis(t.kind, t.unit), 5, 6)
 		for _, ci := range t.componentsOf(false) {
 			c := t.comps[ci]
 			xs := xsOf(rr.F, c, false)
@@ -74,7 +70,7 @@ func (in *Input) rawFigure() *figure {
 		}
 		for _, ci := range t.componentsOf(false) {
 			if len(rr.F) > 0 {
-				addPoints(p, []float64{axisCoordinate(rr.F[0], t.comps[ci], false)}, []float64{rr.stress[ci][0]}, preloadGlyph())
+				addPoints(p, []float64{axisCoordinate(rr.F[0], abscissaComp(rr.F, t.comps[ci]), false)}, []float64{rr.stress[ci][0]}, preloadGlyph())
 			}
 		}
 		includeZero(p)
@@ -83,4 +79,16 @@ func (in *Input) rawFigure() *figure {
 	caption := "The test file as measured, before any re-referencing: every row in test order as a thin line (each cycle's loading and unloading), the rows the fit used as a heavy line, the first row — the preload — as a black diamond. " +
 		fmt.Sprintf("Records longer than %d rows per protocol are thinned evenly in raw.csv, and a line of more than %d rows is drawn by the first and the extreme rows of each run of consecutive rows.", maxRawRows, maxDrawnPoints)
 	return tiledFigure("raw", "The record: every cycle, the kept branch and the preload", caption, n, shortTileHeight(n), panel, legend)
+}
+
+// rawTitle is a record tile's title: the protocol and its number of cycles
+// (none when raw.csv gives none), "1 cycle" in the singular.
+func rawTitle(label string, cycles int) string {
+	switch {
+	case cycles == 1:
+		return label + " · 1 cycle"
+	case cycles > 1:
+		return fmt.Sprintf("%s · %d cycles", label, cycles)
+	}
+	return label
 }

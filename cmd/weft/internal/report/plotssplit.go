@@ -52,9 +52,12 @@ func (t *fitTable) groupsOf() []string {
 // fraction of the modelled stress at every point: the magnitude of the
 // group's summed contributions over the sum of the groups' magnitudes
 // (equal to its fraction of the net stress where all groups pull the same
-// way). Points whose modelled stress is negligible (aniso.NetNegligible
-// next to the protocol's largest modelled normal stress) are NaN: there
-// is no load to share.
+// way). Points whose modelled stress is negligible next to the protocol's
+// largest modelled normal stress while the groups' stresses cancel
+// (aniso.NoLoadToShare) are NaN: there is no load to share. A small
+// stress that one group carries alone is kept: in the toe of a curve,
+// before the fibres are recruited, the matrix carries it all, and leaving
+// such points out hid where the fibres take over.
 func (t *fitTable) groupShares(pr *protocolRows, ci int, groups []string) [][]float64 {
 	peak := 0.0
 	for _, cj := range t.componentsOf(false) {
@@ -81,14 +84,15 @@ func (t *fitTable) groupShares(pr *protocolRows, ci int, groups []string) [][]fl
 				sums[index[termGroup(l)]] += v
 			}
 		}
-		total := 0.0
+		total, net := 0.0, 0.0
 		for _, s := range sums {
 			total += math.Abs(s)
+			net += s
 		}
 		m := pr.model[ci][i]
 		for g := range groups {
 			out[g][i] = math.NaN()
-			if total > 0 && !bad(m) && !aniso.NetNegligible(math.Abs(m), peak) {
+			if total > 0 && !bad(m) && !aniso.NoLoadToShare(math.Abs(m), peak, math.Abs(net), total) {
 				out[g][i] = math.Abs(sums[g]) / total
 			}
 		}
@@ -208,7 +212,7 @@ func (in *Input) splitFigure(strain bool) *figure {
 	legend = append(legend, legendEntry{"fibres take over half the load", glyphSample(mark)})
 	panel := func(i int) *plot.Plot {
 		pr := t.protocols[i]
-		p := newPanel(pr.label, abscissaLabel(false, strain), "share of the load [%]", 5, 6)
+		p := newPanel(pr.label, abscissaLabel(false, strain)+t.heldNote(pr.F, strain), "share of the load [%]", 5, 6)
 		lo, hi := math.Inf(1), math.Inf(-1)
 		var tx, ty []float64
 		for _, ci := range t.componentsOf(false) {
@@ -239,6 +243,6 @@ func (in *Input) splitFigure(strain bool) *figure {
 	}
 	caption := "For each protocol and axis, the fraction of the modelled stress carried by the matrix (isotropic terms) and by each fibre family at every point (axis 1 solid, axis 2 dashed), from the per-term contributions in fit.csv: " +
 		"each group's summed contribution in magnitude over the sum of the groups' magnitudes. The diamond on the 50 % line marks the stretch at which the fibres come to carry half of the load (interpolated between points; listed in the table below). " +
-		"Points where the modelled stress is negligible (under 2 % of the protocol's largest normal stress) carry no load to share and are left out."
+		"Points where the modelled stress is negligible (under 2 % of the protocol's largest normal stress) while the groups' stresses cancel carry no load to share and are left out; a small stress that one group carries alone, as in the toe before the fibres are recruited, is shown."
 	return tiledFigure("load-share", "Who carries the load: matrix and fibre families against stretch", caption, n, tileHeight(n), panel, legend)
 }

@@ -164,7 +164,11 @@ func (in *Input) takeoverTable(v *reportView) {
 			for _, ci := range t.componentsOf(false) {
 				xs := xsOf(pr.F, t.comps[ci], false)
 				to, ok := takeoverOf(xs, fibreFraction(groups, t.groupShares(pr, ci, groups)))
-				cells = append(cells, takeoverText(to, ok))
+				sym := "λ"
+				if a := abscissaComp(pr.F, t.comps[ci]); a != t.comps[ci] {
+					sym = "λ" + a[:1] // the axis is held: against the other's stretch
+				}
+				cells = append(cells, takeoverText(to, ok, sym))
 			}
 			v.Takeover.Rows = append(v.Takeover.Rows, htmlRow{Cells: cells})
 		}
@@ -297,7 +301,7 @@ func (in *Input) netPeak(protocol, comp string) float64 {
 
 // noShare says why a component has no share, or is empty: the card's
 // reason, or, for a card written before it gave one, the same test on
-// fit.csv's modelled stress (aniso.NetNegligible).
+// fit.csv's modelled stress and term contributions (aniso.NoLoadToShare).
 func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 	t := in.table
 	ci := componentIndex(t.comps, cc.Component)
@@ -311,6 +315,19 @@ func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 				net = math.Max(net, math.Abs(v))
 			}
 		}
+		// The terms cancel when the magnitude of their sum is a small part
+		// of the sum of their magnitudes, both summed over the points.
+		sum, gross := 0.0, 0.0
+		for i := range pr.F {
+			s := 0.0
+			for k := range t.terms {
+				if c := pr.contrib[k][ci]; i < len(c) && !bad(c[i]) {
+					s += c[i]
+					gross += math.Abs(c[i])
+				}
+			}
+			sum += math.Abs(s)
+		}
 		for _, cj := range t.componentsOf(false) {
 			for _, v := range pr.model[cj] {
 				if !bad(v) {
@@ -318,7 +335,7 @@ func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 				}
 			}
 		}
-		if cc.NoShare != "" || aniso.NetNegligible(net, normal) {
+		if cc.NoShare != "" || aniso.NoLoadToShare(net, normal, sum, gross) {
 			return fmt.Sprintf("no share: net ≈ 0 (|%s| ≤ %s %s, under %.0f %% of %s %s); its terms cancel", compSymbol(t.kind, cc.Component), fsig(net, 2), t.unit, 100*aniso.NegligibleNet, fsig(normal, 3), t.unit)
 		}
 	}
@@ -328,17 +345,19 @@ func (in *Input) noShare(protocol string, cc card.SplitCompCard) string {
 	return ""
 }
 
-// takeoverText writes where the fibres take over half of an axis's load.
-func takeoverText(to takeover, ok bool) string {
+// takeoverText writes where the fibres take over half of an axis's load,
+// at the stretch sym ("λ", the axis's own, or "λ1"/"λ2" for a held axis
+// read against the other's).
+func takeoverText(to takeover, ok bool, sym string) string {
 	switch {
 	case !ok:
 		return "—"
 	case to.from:
-		return "fibres > ½ from the start (λ = " + fsig(to.first, 4) + ")"
+		return "fibres > ½ from the start (" + sym + " = " + fsig(to.first, 4) + ")"
 	case to.never:
-		return "matrix > ½ throughout (to λ = " + fsig(to.last, 4) + ")"
+		return "matrix > ½ throughout (to " + sym + " = " + fsig(to.last, 4) + ")"
 	}
-	return "λ = " + fsig(to.at, 4)
+	return sym + " = " + fsig(to.at, 4)
 }
 
 // methodsSection writes a paragraph a paper can quote, its references and

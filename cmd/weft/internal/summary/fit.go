@@ -176,7 +176,7 @@ func printSplit(w io.Writer, kind biaxial.StressKind, sp *card.SplitSection) {
 	}
 	tw.Flush()
 	if noShare {
-		fmt.Fprintf(w, "          -: no share where the modelled component stays under %.0f %% of the protocol's largest normal stress; its terms' contributions cancel\n", 100*aniso.NegligibleNet)
+		fmt.Fprintf(w, "          -: no share where the modelled component stays under %.0f %% of the protocol's largest normal stress and its terms' contributions cancel\n", 100*aniso.NegligibleNet)
 	}
 }
 

@@ -117,10 +117,15 @@ func absAngleGapDeg(r *Result) float64 {
 	return Deg(math.Abs(math.Abs(fs[0].Angle) - math.Abs(fs[1].Angle)))
 }
 
-// anglesText writes a result's family angles.
+// anglesText writes a result's family angles, two free families in the
+// family order (familyorder.go) as its card will list them.
 func anglesText(r *Result) string {
 	var s []string
-	for _, f := range r.Model.Families {
+	fs := r.Model.Families
+	if familiesOutOfOrder(r) {
+		fs = []Family{fs[1], fs[0]}
+	}
+	for _, f := range fs {
 		a := Deg(f.Angle)
 		if math.Abs(a) < 0.05 {
 			a = 0 // within round-off of an axis: no "-0.0°"
@@ -208,16 +213,24 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	}
 	v.RuledOut = notes
 	r := win.c.Result
+	// The answer quotes the angles and spread of the chosen model, which
+	// the card carries; the form's best (r) can be a larger model of the
+	// same form whose angles differ by degrees (a pair at ±40.7°, ±53.9°
+	// quoted beside a chosen ±37.2°, ±53.7°).
+	shown := r
+	if ch := d.Pareto[d.Chosen].Result; FormKey(ch.Structure) == win.key {
+		shown = ch
+	}
 	spread := ""
-	if r.Structure.Planar {
+	if shown.Structure.Planar {
 		var bs []string
-		for _, f := range r.Model.Families {
+		for _, f := range shown.Model.Families {
 			bs = append(bs, fmt.Sprintf("%.3g", f.Concentration))
 		}
 		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
 	}
 	why := whyItWon(win, comps)
-	ang := anglesText(r)
+	ang := anglesText(shown)
 	switch r.Structure.Layout {
 	case LayoutNone:
 		v.Families = "0"

@@ -358,41 +358,130 @@ func (c *cohortRun) pooledResult(cd *cohortCandidate, use []int) *Result {
 		r.Complexity = max(r.Complexity, f.Complexity)
 		r.SignKnown = r.SignKnown && f.SignKnown
 	}
-	r.Model = medianModel(fits)
+	lm := newLabelMaps(fits, r.SignKnown)
+	r.Model = medianModel(fits, lm)
 	r.Weights = make([]float64, len(cd.st.Terms))
 	for g := range r.Weights {
 		ws := make([]float64, len(fits))
 		for k, f := range fits {
-			ws[k] = f.Weights[g]
+			// A free layout has one model term per structure term, so
+			// the term map serves the weights too.
+			ws[k] = f.Weights[lm.term(k, g)]
 		}
 		r.Weights[g] = median(ws)
 	}
 	return r
 }
 
+// labelMaps says, for each fit of one two-family form, which of its
+// families and terms stand for each family and term of the first fit: the
+// same labels, unless the fit calls its families the other way round (a
+// free pair has no fixed labelling, see familyorder.go, and a mirror pair
+// whose axis is learned reads θ ± β as θ + 90° ∓ (90° − β)), so that
+// medians are taken over like families. swapped[k] is true for such a fit
+// k.
+type labelMaps struct {
+	swapped []bool
+	other   []int // per term of the first fit's model: the same shape's term on the other family, or −1
+}
+
+// newLabelMaps finds the fits whose two families match the first fit's
+// better swapped, by angle (by magnitude when a sign is unknown) and, for
+// free families, with the same shapes on each family.
+func newLabelMaps(fits []*Result, signKnown bool) labelMaps {
+	lm := labelMaps{swapped: make([]bool, len(fits))}
+	ref := fits[0].Model
+	layout := fits[0].Structure.Layout
+	if layout != LayoutFree && layout != LayoutMirror || len(ref.Families) != 2 {
+		return lm
+	}
+	lm.other = make([]int, len(ref.Terms))
+	for t := range ref.Terms {
+		lm.other[t] = -1
+		f := ref.Terms[t].Family
+		if f < 0 || layout == LayoutMirror {
+			// A mirror pair's members share every term's weight and
+			// parameters: only their angles swap (θ ± β read as
+			// θ + 90° ∓ (90° − β)).
+			lm.other[t] = t
+			continue
+		}
+		nth := 0 // t is the nth term on its family
+		for u := 0; u < t; u++ {
+			if ref.Terms[u].Family == f {
+				nth++
+			}
+		}
+		for u := range ref.Terms {
+			if ref.Terms[u].Family == 1-f {
+				if nth == 0 && ref.Terms[u].Shape == ref.Terms[t].Shape {
+					lm.other[t] = u
+				}
+				nth--
+			}
+		}
+		if lm.other[t] < 0 {
+			return labelMaps{swapped: lm.swapped} // the families carry different shapes
+		}
+	}
+	gap := func(a, b float64) float64 {
+		return math.Abs(familyOrderAngle(a-b, true))
+	}
+	if !signKnown {
+		gap = func(a, b float64) float64 {
+			return math.Abs(familyOrderAngle(a, false) - familyOrderAngle(b, false))
+		}
+	}
+	r0, r1 := ref.Families[0].Angle, ref.Families[1].Angle
+	for k, f := range fits {
+		x0, x1 := f.Model.Families[0].Angle, f.Model.Families[1].Angle
+		lm.swapped[k] = gap(r0, x1)+gap(r1, x0) < gap(r0, x0)+gap(r1, x1)
+	}
+	return lm
+}
+
+// term returns the index in fit k's model of the term that stands for
+// term t of the first fit's model.
+func (lm labelMaps) term(k, t int) int {
+	if lm.swapped[k] && lm.other != nil && lm.other[t] >= 0 {
+		return lm.other[t]
+	}
+	return t
+}
+
+// family returns the index in fit k's model of the family that stands for
+// family f of the first fit's model.
+func (lm labelMaps) family(k, f int) int {
+	if lm.swapped[k] && lm.other != nil {
+		return 1 - f
+	}
+	return f
+}
+
 // medianModel is the first fit's model with every weight, parameter,
 // angle (on the branch nearest the first fit's), concentration and
-// dispersion replaced by its median over the fits.
-func medianModel(fits []*Result) *Model {
+// dispersion replaced by its median over the fits, each fit's families and
+// terms matched to the first fit's by lm.
+func medianModel(fits []*Result, lm labelMaps) *Model {
 	m := cloneModelDeep(fits[0].Model)
 	vals := make([]float64, len(fits))
-	med := func(get func(*Model) float64) float64 {
+	med := func(get func(k int, x *Model) float64) float64 {
 		for k, f := range fits {
-			vals[k] = get(f.Model)
+			vals[k] = get(k, f.Model)
 		}
 		return median(vals)
 	}
 	for t := range m.Terms {
-		m.Terms[t].Weight = med(func(x *Model) float64 { return x.Terms[t].Weight })
+		m.Terms[t].Weight = med(func(k int, x *Model) float64 { return x.Terms[lm.term(k, t)].Weight })
 		for j := range m.Terms[t].Params {
-			m.Terms[t].Params[j] = med(func(x *Model) float64 { return x.Terms[t].Params[j] })
+			m.Terms[t].Params[j] = med(func(k int, x *Model) float64 { return x.Terms[lm.term(k, t)].Params[j] })
 		}
 	}
 	for f := range m.Families {
 		a0 := m.Families[f].Angle
-		m.Families[f].Angle = wrapAngle(med(func(x *Model) float64 { return a0 + wrapAngle(x.Families[f].Angle-a0) }))
-		m.Families[f].Concentration = med(func(x *Model) float64 { return x.Families[f].Concentration })
-		m.Families[f].Dispersion = med(func(x *Model) float64 { return x.Families[f].Dispersion })
+		m.Families[f].Angle = wrapAngle(med(func(k int, x *Model) float64 { return a0 + wrapAngle(x.Families[lm.family(k, f)].Angle-a0) }))
+		m.Families[f].Concentration = med(func(k int, x *Model) float64 { return x.Families[lm.family(k, f)].Concentration })
+		m.Families[f].Dispersion = med(func(k int, x *Model) float64 { return x.Families[lm.family(k, f)].Dispersion })
 	}
 	return m
 }

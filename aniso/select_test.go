@@ -1009,3 +1009,25 @@ func TestFortyFiveDegreePairOnSutures(t *testing.T) {
 		t.Errorf("verdict %s for a pair at ±45°", d.Verdict.Families)
 	}
 }
+
+// An isotropic verdict names fibres placed symmetrically about the 45°
+// line as a look-alike only where the data leave them open. A neo-Hookean
+// membrane (made by independent integration, fibreMaterial with no
+// families; three protocols 1:1, 1:0.5 and 0.5:1 to a strain of 0.2, 1 %
+// noise, no shear) is fitted far better by the isotropic terms than by any
+// fibres at ±45°: the verdict says the data rule them out and names no
+// look-alike, so that weft plan asks no settled question.
+func TestIsotropicVerdictRulesOutAFarWorseLookAlike(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	o := synthOptions{noise: 0.01, points: 30, seed: 1, maxStrain: 0.2, ratios: [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}}}
+	d, _ := discoverSpecimen(t, synthFrom(t, fibreMaterial(5), o))
+	if d.Verdict.Families != "0" {
+		t.Fatalf("verdict %s, want 0: %s", d.Verdict.Families, d.Verdict.Reason)
+	}
+	if d.Verdict.LookAlike != "" || d.Verdict.Decider != "" || !strings.Contains(d.Verdict.Reason, "so the data rule them out") {
+		t.Errorf("look-alike %q, decider %q, reason %q: want the ±45° fibres ruled out and no look-alike", d.Verdict.LookAlike, d.Verdict.Decider, d.Verdict.Reason)
+	}
+}

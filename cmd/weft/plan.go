@@ -98,15 +98,49 @@ decisions.`,
 	return cmd
 }
 
-// insideFolder reports whether path lies in folder dir (or is dir).
+// insideFolder reports whether path lies in folder dir (or is dir),
+// however either is spelled: the folders above path that exist are
+// compared with dir as files (device and inode), so a symbolic link to
+// the folder, or one on the way to it, does not hide it (through one,
+// --force replaced the fit's fit.csv). A path whose folders cannot be
+// read is compared by name.
 func insideFolder(path, dir string) bool {
 	p, err1 := filepath.Abs(path)
 	d, err2 := filepath.Abs(dir)
 	if err1 != nil || err2 != nil {
 		return false
 	}
-	rel, err := filepath.Rel(d, p)
-	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
+	if rel, err := filepath.Rel(d, p); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return true
+	}
+	ds, err := os.Stat(dir)
+	if err != nil {
+		return false
+	}
+	// The path's own folder is resolved by the system (EvalSymlinks
+	// follows a link before a "..", as opening the file would); a path
+	// that does not resolve cannot be written either.
+	raw := "."
+	if i := strings.LastIndex(path, string(filepath.Separator)); i == 0 {
+		raw = string(filepath.Separator)
+	} else if i > 0 {
+		raw = path[:i] // not filepath.Dir, which would drop "link/.." by name
+	}
+	parent, err := filepath.EvalSymlinks(raw)
+	if err != nil {
+		return false
+	}
+	if st, err := os.Stat(path); err == nil && os.SameFile(st, ds) {
+		return true
+	}
+	for q := parent; ; q = filepath.Dir(q) {
+		if st, err := os.Stat(q); err == nil && os.SameFile(st, ds) {
+			return true
+		}
+		if filepath.Dir(q) == q {
+			return false
+		}
+	}
 }
 
 // runPlan plans the next test of the fit in o.dir.

@@ -315,6 +315,26 @@ func TestPlanRefusesWhatItCannotUse(t *testing.T) {
 	if b, _ := os.ReadFile(filepath.Join(out, "model.json")); string(b) != string(card0) {
 		t.Error("the fit's model.json was changed")
 	}
+	// However the folder is spelled: through a symbolic link to it, as DIR
+	// or in the output path, --force replaced the fit's fit.csv with the
+	// planned path (README, Outputs: an output is never an input of the
+	// same run, however the path is spelled).
+	fit0, _ := os.ReadFile(filepath.Join(out, "fit.csv"))
+	link := filepath.Join(tmp, "link.weft")
+	if err := os.Symlink(out, link); err == nil {
+		for _, args := range [][]string{{link, "--write", filepath.Join(out, "fit.csv")}, {out, "--write", filepath.Join(link, "fit.csv")},
+			{out, "--plot", filepath.Join(link, "plan.svg")}, {link, "--write", filepath.Join(out, "next.csv")}} {
+			if _, e, code := runWeft(t, append([]string{"plan", "--force"}, args...)...); code != 2 || !strings.Contains(e, "inside the fit's folder") {
+				t.Errorf("plan %v: exit %d, %s", args, code, e)
+			}
+		}
+		if b, _ := os.ReadFile(filepath.Join(out, "fit.csv")); string(b) != string(fit0) {
+			t.Fatal("the fit's fit.csv was replaced through a symbolic link to its folder")
+		}
+		if _, err := os.Stat(filepath.Join(out, "plan.svg")); err == nil {
+			t.Error("a plot was written into the fit's folder through a symbolic link to it")
+		}
+	}
 	fc := filepath.Join(out, "fit.csv")
 	b, err := os.ReadFile(fc)
 	if err != nil {

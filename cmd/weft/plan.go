@@ -91,7 +91,7 @@ decisions.`,
 	fl := cmd.Flags()
 	fl.BoolVar(&o.json, "json", false, "print the plan as JSON (every candidate) instead of the table")
 	fl.StringVar(&o.write, "write", "", "write the top test's target path to FILE in weft's input layout, without stress columns")
-	fl.StringVar(&o.plot, "plot", "", "draw the top test's predicted stresses under each competing explanation to FILE (SVG; PNG when FILE ends in .png)")
+	fl.StringVar(&o.plot, "plot", "", "draw the top test's predicted stresses under each competing explanation to FILE.svg (SVG) or FILE.png (PNG)")
 	fl.BoolVar(&o.force, "force", false, "replace existing --write and --plot files")
 	fl.IntVar(&o.top, "top", 15, "how many tests the table lists (0: all; --json lists all)")
 	limits = addLimitFlag(cmd)
@@ -159,6 +159,11 @@ func runPlan(o *planOptions) error {
 		if out.path != "" && insideFolder(out.path, o.dir) {
 			return badInputf("%s %s lies inside the fit's folder %s; write the plan's files elsewhere", out.flag, out.path, o.dir)
 		}
+	}
+	// The plot's format follows its name; a name that promises another
+	// format (a .pdf, a .jpg) or none would hold SVG under a misleading name.
+	if ext := strings.ToLower(filepath.Ext(o.plot)); o.plot != "" && ext != ".svg" && ext != ".png" {
+		return badInputf("--plot %s: the plot is drawn as SVG or PNG; name it FILE.svg or FILE.png", o.plot)
 	}
 	var outs []*safeout.File
 	defer func() {

@@ -335,6 +335,16 @@ func TestPlanRefusesWhatItCannotUse(t *testing.T) {
 			t.Error("a plot was written into the fit's folder through a symbolic link to it")
 		}
 	}
+	// --plot draws SVG or PNG only: another name (a .pdf, a .jpg) got SVG
+	// under a name that promises another format.
+	for _, name := range []string{"plan.pdf", "plan.jpg", "plan"} {
+		if _, e, code := runWeft(t, "plan", out, "--plot", filepath.Join(tmp, name)); code != 2 || !strings.Contains(e, ".svg") {
+			t.Errorf("--plot %s: exit %d, %s", name, code, e)
+		}
+		if _, err := os.Stat(filepath.Join(tmp, name)); err == nil {
+			t.Errorf("--plot %s was written", name)
+		}
+	}
 	fc := filepath.Join(out, "fit.csv")
 	b, err := os.ReadFile(fc)
 	if err != nil {

@@ -120,13 +120,7 @@ func insideFolder(path, dir string) bool {
 	// The path's own folder is resolved by the system (EvalSymlinks
 	// follows a link before a "..", as opening the file would); a path
 	// that does not resolve cannot be written either.
-	raw := "."
-	if i := strings.LastIndex(path, string(filepath.Separator)); i == 0 {
-		raw = string(filepath.Separator)
-	} else if i > 0 {
-		raw = path[:i] // not filepath.Dir, which would drop "link/.." by name
-	}
-	parent, err := filepath.EvalSymlinks(raw)
+	parent, err := filepath.EvalSymlinks(planning.ParentDir(path))
 	if err != nil {
 		return false
 	}

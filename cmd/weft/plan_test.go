@@ -335,6 +335,14 @@ func TestPlanRefusesWhatItCannotUse(t *testing.T) {
 			t.Error("a plot was written into the fit's folder through a symbolic link to it")
 		}
 	}
+	// --write and --plot naming one file through a link to its folder
+	// were told apart by name only, and the run stopped claiming another
+	// weft run was writing the file.
+	if err := os.Symlink(tmp, filepath.Join(tmp, "here")); err == nil {
+		if _, e, code := runWeft(t, "plan", out, "--write", filepath.Join(tmp, "p.svg"), "--plot", filepath.Join(tmp, "here", "p.svg")); code != 2 || !strings.Contains(e, "name the same file") {
+			t.Errorf("--write and --plot one file by two names: exit %d, %s", code, e)
+		}
+	}
 	// --plot draws SVG or PNG only: another name (a .pdf, a .jpg) got SVG
 	// under a name that promises another format.
 	for _, name := range []string{"plan.pdf", "plan.jpg", "plan"} {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -396,9 +397,38 @@ func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// SameFile reports whether two paths name the same file.
+// SameFile reports whether two paths name the same file, however
+// spelled: by name, as one existing file (device and inode), or as one
+// name in one folder reached by different paths (a symbolic link to the
+// folder), which the system resolves as ParentDir does.
 func SameFile(a, b string) bool {
 	x, err1 := filepath.Abs(a)
 	y, err2 := filepath.Abs(b)
-	return err1 == nil && err2 == nil && x == y
+	if err1 == nil && err2 == nil && x == y {
+		return true
+	}
+	if sa, err := os.Stat(a); err == nil {
+		sb, err := os.Stat(b)
+		return err == nil && os.SameFile(sa, sb)
+	}
+	if filepath.Base(a) != filepath.Base(b) {
+		return false
+	}
+	da, err1 := os.Stat(ParentDir(a))
+	db, err2 := os.Stat(ParentDir(b))
+	return err1 == nil && err2 == nil && os.SameFile(da, db)
+}
+
+// ParentDir is the folder the system opens path in: the text before its
+// last separator as typed, not filepath.Dir, which cleans "link/.." away
+// by name where the system follows the link first.
+func ParentDir(path string) string {
+	i := strings.LastIndex(path, string(filepath.Separator))
+	switch {
+	case i == 0:
+		return string(filepath.Separator)
+	case i > 0:
+		return path[:i]
+	}
+	return "."
 }

@@ -70,6 +70,12 @@ func TestPlanDemoMembrane(t *testing.T) {
 		t.Errorf("the first-ranked test decides %q", first.Decides)
 	}
 	checkPlannedPath(t, path, first, pl.Points)
+	// The fit does not know the sign of its angle: under −α the sheet
+	// shears the other way (package aniso, Mirror symmetry), so the
+	// operator's file must not present the sign of the shear as predicted.
+	if b, _ := os.ReadFile(path); first.Sutured && !strings.Contains(string(b), "the sign of this shear is not known") {
+		t.Errorf("the path on sutures of a fit that does not know its angle's sign presents the shear's sign as predicted:\n%s", b[:min(len(b), 400)])
+	}
 	// Every candidate writes outside[], empty as [] when the test stays
 	// inside the fitted range.
 	var keys struct {

@@ -356,6 +356,11 @@ func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 	note := "planned next test from weft plan: target path only, no stresses; predicted by the fitted model, which holds if its family is right"
 	if t.Sutured {
 		note += "; on sutures the shear F12, F21 is what the model predicts (markers measure the real one)"
+		if !f.Result.SignKnown && len(f.Result.Model.Families) > 0 {
+			// Under −α the sheet shears the other way, a mirror pair not
+			// at all: the sign is what the test is to find out.
+			note += "; the fit does not know the sign of its fibre angles, so the sign of this shear is not known either (a family at the opposite angle shears the other way)"
+		}
 	}
 	meta("notes", note)
 	if tissue := f.card.Data.Tissue; tissue != "" {

@@ -163,7 +163,8 @@ type TestScore struct {
 // Design is the ranked list of planned tests of a fit.
 type Design struct {
 	// Noise is the noise level σ̂ of the weighted residuals,
-	// √(loss / (rows − estimated quantities)).
+	// √(loss / (rows − p)), p every free parameter of the fit whatever
+	// its status (Result.FreeParams), not only the estimated quantities.
 	Noise float64
 	// Parameters are the estimated quantities whose information counts
 	// (status estimated or correlated), by Estimate name.

@@ -91,22 +91,50 @@ decisions.`,
 	fl := cmd.Flags()
 	fl.BoolVar(&o.json, "json", false, "print the plan as JSON (every candidate) instead of the table")
 	fl.StringVar(&o.write, "write", "", "write the top test's target path to FILE in weft's input layout, without stress columns")
-	fl.StringVar(&o.plot, "plot", "", "draw the top test's predicted stresses under each competing explanation to FILE (SVG; PNG when FILE ends in .png)")
+	fl.StringVar(&o.plot, "plot", "", "draw the top test's predicted stresses under each competing explanation to FILE.svg (SVG) or FILE.png (PNG)")
 	fl.BoolVar(&o.force, "force", false, "replace existing --write and --plot files")
 	fl.IntVar(&o.top, "top", 15, "how many tests the table lists (0: all; --json lists all)")
 	limits = addLimitFlag(cmd)
 	return cmd
 }
 
-// insideFolder reports whether path lies in folder dir (or is dir).
+// insideFolder reports whether path lies in folder dir (or is dir),
+// however either is spelled: the folders above path that exist are
+// compared with dir as files (device and inode), so a symbolic link to
+// the folder, or one on the way to it, does not hide it (through one,
+// --force replaced the fit's fit.csv). A path whose folders cannot be
+// read is compared by name.
 func insideFolder(path, dir string) bool {
 	p, err1 := filepath.Abs(path)
 	d, err2 := filepath.Abs(dir)
 	if err1 != nil || err2 != nil {
 		return false
 	}
-	rel, err := filepath.Rel(d, p)
-	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator))
+	if rel, err := filepath.Rel(d, p); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return true
+	}
+	ds, err := os.Stat(dir)
+	if err != nil {
+		return false
+	}
+	// The path's own folder is resolved by the system (EvalSymlinks
+	// follows a link before a "..", as opening the file would); a path
+	// that does not resolve cannot be written either.
+	parent, err := filepath.EvalSymlinks(planning.ParentDir(path))
+	if err != nil {
+		return false
+	}
+	if st, err := os.Stat(path); err == nil && os.SameFile(st, ds) {
+		return true
+	}
+	for q := parent; ; q = filepath.Dir(q) {
+		if st, err := os.Stat(q); err == nil && os.SameFile(st, ds) {
+			return true
+		}
+		if filepath.Dir(q) == q {
+			return false
+		}
+	}
 }
 
 // runPlan plans the next test of the fit in o.dir.
@@ -125,6 +153,11 @@ func runPlan(o *planOptions) error {
 		if out.path != "" && insideFolder(out.path, o.dir) {
 			return badInputf("%s %s lies inside the fit's folder %s; write the plan's files elsewhere", out.flag, out.path, o.dir)
 		}
+	}
+	// The plot's format follows its name; a name that promises another
+	// format (a .pdf, a .jpg) or none would hold SVG under a misleading name.
+	if ext := strings.ToLower(filepath.Ext(o.plot)); o.plot != "" && ext != ".svg" && ext != ".png" {
+		return badInputf("--plot %s: the plot is drawn as SVG or PNG; name it FILE.svg or FILE.png", o.plot)
 	}
 	var outs []*safeout.File
 	defer func() {

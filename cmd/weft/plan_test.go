@@ -70,6 +70,12 @@ func TestPlanDemoMembrane(t *testing.T) {
 		t.Errorf("the first-ranked test decides %q", first.Decides)
 	}
 	checkPlannedPath(t, path, first, pl.Points)
+	// The fit does not know the sign of its angle: under −α the sheet
+	// shears the other way (package aniso, Mirror symmetry), so the
+	// operator's file must not present the sign of the shear as predicted.
+	if b, _ := os.ReadFile(path); first.Sutured && !strings.Contains(string(b), "the sign of this shear is not known") {
+		t.Errorf("the path on sutures of a fit that does not know its angle's sign presents the shear's sign as predicted:\n%s", b[:min(len(b), 400)])
+	}
 	// Every candidate writes outside[], empty as [] when the test stays
 	// inside the fitted range.
 	var keys struct {
@@ -314,6 +320,44 @@ func TestPlanRefusesWhatItCannotUse(t *testing.T) {
 	}
 	if b, _ := os.ReadFile(filepath.Join(out, "model.json")); string(b) != string(card0) {
 		t.Error("the fit's model.json was changed")
+	}
+	// However the folder is spelled: through a symbolic link to it, as DIR
+	// or in the output path, --force replaced the fit's fit.csv with the
+	// planned path (README, Outputs: an output is never an input of the
+	// same run, however the path is spelled).
+	fit0, _ := os.ReadFile(filepath.Join(out, "fit.csv"))
+	link := filepath.Join(tmp, "link.weft")
+	if err := os.Symlink(out, link); err == nil {
+		for _, args := range [][]string{{link, "--write", filepath.Join(out, "fit.csv")}, {out, "--write", filepath.Join(link, "fit.csv")},
+			{out, "--plot", filepath.Join(link, "plan.svg")}, {link, "--write", filepath.Join(out, "next.csv")}} {
+			if _, e, code := runWeft(t, append([]string{"plan", "--force"}, args...)...); code != 2 || !strings.Contains(e, "inside the fit's folder") {
+				t.Errorf("plan %v: exit %d, %s", args, code, e)
+			}
+		}
+		if b, _ := os.ReadFile(filepath.Join(out, "fit.csv")); string(b) != string(fit0) {
+			t.Fatal("the fit's fit.csv was replaced through a symbolic link to its folder")
+		}
+		if _, err := os.Stat(filepath.Join(out, "plan.svg")); err == nil {
+			t.Error("a plot was written into the fit's folder through a symbolic link to it")
+		}
+	}
+	// --write and --plot naming one file through a link to its folder
+	// were told apart by name only, and the run stopped claiming another
+	// weft run was writing the file.
+	if err := os.Symlink(tmp, filepath.Join(tmp, "here")); err == nil {
+		if _, e, code := runWeft(t, "plan", out, "--write", filepath.Join(tmp, "p.svg"), "--plot", filepath.Join(tmp, "here", "p.svg")); code != 2 || !strings.Contains(e, "name the same file") {
+			t.Errorf("--write and --plot one file by two names: exit %d, %s", code, e)
+		}
+	}
+	// --plot draws SVG or PNG only: another name (a .pdf, a .jpg) got SVG
+	// under a name that promises another format.
+	for _, name := range []string{"plan.pdf", "plan.jpg", "plan"} {
+		if _, e, code := runWeft(t, "plan", out, "--plot", filepath.Join(tmp, name)); code != 2 || !strings.Contains(e, ".svg") {
+			t.Errorf("--plot %s: exit %d, %s", name, code, e)
+		}
+		if _, err := os.Stat(filepath.Join(tmp, name)); err == nil {
+			t.Errorf("--plot %s was written", name)
+		}
 	}
 	fc := filepath.Join(out, "fit.csv")
 	b, err := os.ReadFile(fc)

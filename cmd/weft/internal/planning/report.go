@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -355,6 +356,11 @@ func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 	note := "planned next test from weft plan: target path only, no stresses; predicted by the fitted model, which holds if its family is right"
 	if t.Sutured {
 		note += "; on sutures the shear F12, F21 is what the model predicts (markers measure the real one)"
+		if !f.Result.SignKnown && len(f.Result.Model.Families) > 0 {
+			// Under −α the sheet shears the other way, a mirror pair not
+			// at all: the sign is what the test is to find out.
+			note += "; the fit does not know the sign of its fibre angles, so the sign of this shear is not known either (a family at the opposite angle shears the other way)"
+		}
 	}
 	meta("notes", note)
 	if tissue := f.card.Data.Tissue; tissue != "" {
@@ -396,9 +402,38 @@ func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-// SameFile reports whether two paths name the same file.
+// SameFile reports whether two paths name the same file, however
+// spelled: by name, as one existing file (device and inode), or as one
+// name in one folder reached by different paths (a symbolic link to the
+// folder), which the system resolves as ParentDir does.
 func SameFile(a, b string) bool {
 	x, err1 := filepath.Abs(a)
 	y, err2 := filepath.Abs(b)
-	return err1 == nil && err2 == nil && x == y
+	if err1 == nil && err2 == nil && x == y {
+		return true
+	}
+	if sa, err := os.Stat(a); err == nil {
+		sb, err := os.Stat(b)
+		return err == nil && os.SameFile(sa, sb)
+	}
+	if filepath.Base(a) != filepath.Base(b) {
+		return false
+	}
+	da, err1 := os.Stat(ParentDir(a))
+	db, err2 := os.Stat(ParentDir(b))
+	return err1 == nil && err2 == nil && os.SameFile(da, db)
+}
+
+// ParentDir is the folder the system opens path in: the text before its
+// last separator as typed, not filepath.Dir, which cleans "link/.." away
+// by name where the system follows the link first.
+func ParentDir(path string) string {
+	i := strings.LastIndex(path, string(filepath.Separator))
+	switch {
+	case i == 0:
+		return string(filepath.Separator)
+	case i > 0:
+		return path[:i]
+	}
+	return "."
 }

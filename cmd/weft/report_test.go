@@ -506,6 +506,16 @@ func (rd *reportDemo) strainAxis(t *testing.T) {
 	if top < 0.1 || top > 0.17 {
 		t.Errorf("--strain: largest strain tick %g, want one between 0.1 and 0.16", top)
 	}
+	// The take-over table gives the Green strain the load-sharing
+	// figure's diamonds mark, not the stretch.
+	page, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(page)
+	if !strings.Contains(html, "against Green strain") || !regexp.MustCompile(`(from the start \(|<td[^>]*>)E(11|22) = 0\.`).MatchString(html) || regexp.MustCompile(`(from the start \(|throughout \(to |<td[^>]*>)λ[12]? = 1\.`).MatchString(html) {
+		t.Errorf("--strain: the load-sharing figure or its take-over table still speaks of stretch")
+	}
 	if _, stderr, code := runWeft(t, "report", dir, "--force"); code != 0 {
 		t.Fatalf("weft report: exit %d: %s", code, stderr)
 	}

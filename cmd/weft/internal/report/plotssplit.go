@@ -241,8 +241,12 @@ func (in *Input) splitFigure(strain bool) *figure {
 		p.Y.Tick.Marker = plot.ConstantTicks([]plot.Tick{{Value: 0, Label: "0"}, {Value: 25, Label: "25"}, {Value: 50, Label: "50"}, {Value: 75, Label: "75"}, {Value: 100, Label: "100"}})
 		return p
 	}
+	measure := "stretch"
+	if strain {
+		measure = "Green strain"
+	}
 	caption := "For each protocol and axis, the fraction of the modelled stress carried by the matrix (isotropic terms) and by each fibre family at every point (axis 1 solid, axis 2 dashed), from the per-term contributions in fit.csv: " +
-		"each group's summed contribution in magnitude over the sum of the groups' magnitudes. The diamond on the 50 % line marks the stretch at which the fibres come to carry half of the load (interpolated between points; listed in the table below). " +
+		"each group's summed contribution in magnitude over the sum of the groups' magnitudes. The diamond on the 50 % line marks the " + measure + " at which the fibres come to carry half of the load (interpolated between points; listed in the table below). " +
 		"Points where the modelled stress is negligible (under 2 % of the protocol's largest normal stress) while the groups' stresses cancel carry no load to share and are left out; a small stress that one group carries alone, as in the toe before the fibres are recruited, is shown."
-	return tiledFigure("load-share", "Who carries the load: matrix and fibre families against stretch", caption, n, tileHeight(n), panel, legend)
+	return tiledFigure("load-share", "Who carries the load: matrix and fibre families against "+measure, caption, n, tileHeight(n), panel, legend)
 }

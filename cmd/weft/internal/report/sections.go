@@ -137,9 +137,9 @@ func passWord(ok bool) string {
 // fibres take over half the load, each group's share per protocol and
 // component (none where the component carries no net load), each term's
 // share, and the energy split at each protocol's largest deformation.
-func (in *Input) splitSection(v *reportView) {
+func (in *Input) splitSection(v *reportView, strain bool) {
 	v.SplitFigure = v.fig("load-share")
-	in.takeoverTable(v)
+	in.takeoverTable(v, strain)
 	sp := in.split
 	if sp == nil {
 		return
@@ -149,8 +149,9 @@ func (in *Input) splitSection(v *reportView) {
 }
 
 // takeoverTable writes, per protocol and axis, where the fibres take over
-// half of the load.
-func (in *Input) takeoverTable(v *reportView) {
+// half of the load, in stretch or, with strain, in Green strain, as the
+// load-sharing figure marks it.
+func (in *Input) takeoverTable(v *reportView, strain bool) {
 	t := in.table
 	groups := t.groupsOf()
 	if len(groups) >= 2 && t.hasNormal() {
@@ -162,10 +163,14 @@ func (in *Input) takeoverTable(v *reportView) {
 		for _, pr := range t.protocols {
 			cells := []string{pr.label}
 			for _, ci := range t.componentsOf(false) {
-				xs := xsOf(pr.F, t.comps[ci], false)
+				xs := xsOf(pr.F, t.comps[ci], strain)
 				to, ok := takeoverOf(xs, fibreFraction(groups, t.groupShares(pr, ci, groups)))
+				a := abscissaComp(pr.F, t.comps[ci])
 				sym := "λ"
-				if a := abscissaComp(pr.F, t.comps[ci]); a != t.comps[ci] {
+				switch {
+				case strain:
+					sym = "E" + a // E11 or E22, the other axis's when this one is held
+				case a != t.comps[ci]:
 					sym = "λ" + a[:1] // the axis is held: against the other's stretch
 				}
 				cells = append(cells, takeoverText(to, ok, sym))

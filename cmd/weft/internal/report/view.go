@@ -38,7 +38,7 @@ func (in *Input) view(figs []renderedFigure, o Options) *reportView {
 	in.modelSection(v)
 	in.fitSection(v)
 	in.admissibleSection(v)
-	in.splitSection(v)
+	in.splitSection(v, o.Strain)
 	in.verdictSection(v)
 	in.selectionSection(v)
 	in.methodsSection(v, o)

@@ -197,9 +197,13 @@ func (r *Result) notes(p *Problem) {
 }
 
 // Params returns the fitted non-linear parameters by name (angles in
-// radians), for warm starts of related fits.
+// radians), for warm starts of related fits; empty for a result that no
+// fit made.
 func (r *Result) Params() map[string]float64 {
 	out := map[string]float64{}
+	if r.e == nil {
+		return out // a result not made by a fit (e.g. a pooled description)
+	}
 	for i, q := range r.e.params {
 		out[q.Name] = r.theta[i]
 	}

@@ -46,12 +46,22 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 
 // fitLayout describes how r parameterised its families; nil without
 // fibres. A mirror pair's families sit at θ ± β: θ is their mean angle and
-// β half their difference.
+// β half their difference, as the fit estimated them (mean_angle, wrapped
+// into (−90°, 90°], and half_angle; θ = 0 on a held axis). Worked out from
+// the families' wrapped angles instead, the same pair could read as
+// θ − 90° ± (90° − β) beside estimates of θ ± β (−7.88° ± 47.08° beside
+// 82.12° ± 42.92°).
 func fitLayout(r *aniso.Result) *Layout {
 	switch r.Structure.Layout {
 	case aniso.LayoutMirror:
-		a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
-		mean, half := aniso.Deg((a0+a1)/2), aniso.Deg(math.Abs(a0-a1)/2)
+		ps := r.Params()
+		mean := aniso.WrapDeg(aniso.Deg(ps["mean_angle"])) // absent on a held axis: 0
+		half := aniso.Deg(ps["half_angle"])
+		if _, ok := ps["half_angle"]; !ok {
+			// Not a fit's result: from the families' angles.
+			a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
+			mean, half = aniso.Deg((a0+a1)/2), aniso.Deg(math.Abs(a0-a1)/2)
+		}
 		axis := "free"
 		if r.Structure.HoldPairAxis {
 			axis = "axis-1"

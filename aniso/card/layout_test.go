@@ -1,0 +1,65 @@
+package card
+
+import (
+	"math"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/terms"
+)
+
+// A mirror pair's layout in the card gives the pair's axis θ and half
+// angle β that the fit estimated, so that the card and the fit's
+// estimates describe the pair alike. A pair at 82° ± 43° (families at
+// 125° ≡ −55° and 39°) worked out from the families' wrapped angles reads
+// −8° ± 47°: the same pair (θ − 90° ± (90° − β)), in other numbers than the
+// estimates beside it. The specimen is made by the model itself: this
+// checks bookkeeping, not mechanics.
+func TestMirrorLayoutFollowsTheEstimates(t *testing.T) {
+	sh := terms.Lookup("fib-expsq")
+	m := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(125)}, {Name: "f2", Angle: aniso.Rad(39)}},
+		Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4},
+			{Shape: sh, Family: 0, Weight: 30, Params: []float64{3}}, {Shape: sh, Family: 1, Weight: 30, Params: []float64{3}}},
+	}
+	s := &biaxial.Specimen{Name: "SYN-mirror (synthetic)", StressUnit: "kPa", Kind: biaxial.Nominal, HasShear: true}
+	s.Measured[biaxial.C11], s.Measured[biaxial.C22], s.Measured[biaxial.C12], s.Measured[biaxial.C21] = true, true, true, true
+	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
+		pr := biaxial.Protocol{Label: "ratio", UserWeight: 1}
+		for i := 1; i <= 15; i++ {
+			e := 0.15 * float64(i) / 15
+			F := [4]float64{1 + r[0]*e, 0.02 * e, 0, 1 + r[1]*e}
+			res, err := m.Evaluate(F)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pr.Points = append(pr.Points, biaxial.Point{F: F, Stress: res.Nominal, Line: i, Cycle: 1, Time: math.NaN()})
+		}
+		s.Protocols = append(s.Protocols, pr)
+	}
+	s.Weigh()
+	p, err := aniso.NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := aniso.Structure{Layout: aniso.LayoutMirror, Terms: []aniso.TermSpec{{Shape: terms.Lookup("i1-lin"), Family: -1}, {Shape: sh, Family: 0}}}
+	r, err := aniso.Fit(p, st, aniso.Settings{NoScan: true, Init: map[string]float64{"mean_angle": aniso.Rad(82), "half_angle": aniso.Rad(43)}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	est := map[string]float64{}
+	for _, e := range r.Estimates {
+		est[e.Name] = e.Value
+	}
+	l := fitLayout(r)
+	if l == nil || l.MeanDeg == nil || l.HalfAngleDeg == nil {
+		t.Fatalf("no mirror layout: %+v", l)
+	}
+	if math.Abs(*l.MeanDeg-est["mean_angle"]) > 1e-9 || math.Abs(*l.HalfAngleDeg-est["half_angle"]) > 1e-9 {
+		t.Errorf("layout %.4f° ± %.4f°, estimates %.4f° ± %.4f°", *l.MeanDeg, *l.HalfAngleDeg, est["mean_angle"], est["half_angle"])
+	}
+	if math.Abs(*l.MeanDeg-82) > 0.01 || math.Abs(*l.HalfAngleDeg-43) > 0.01 {
+		t.Errorf("layout %.4f° ± %.4f°, want the pair's 82° ± 43°", *l.MeanDeg, *l.HalfAngleDeg)
+	}
+}

@@ -47,10 +47,7 @@ func TestProtocolOrderCannotChangeTheFit(t *testing.T) {
 		out = append(out, blocks[order[i]]...)
 	}
 	file := writeTemp(t, "patch-P2-reordered.csv", strings.Join(out, "\n")+"\n")
-	dir := filepath.Join(t.TempDir(), "out.weft")
-	if _, stderr, code := runWeft(t, "fit", file, "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("weft fit: exit %d: %s", code, stderr)
-	}
+	dir := fitPath(t, file)
 	type card struct {
 		Energy   string          `json:"energy"`
 		Families json.RawMessage `json:"families"`

@@ -65,10 +65,7 @@ func TestReportLayoutAnglesWithoutShear(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	dir := filepath.Join(t.TempDir(), "fit.weft")
-	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", "orthogonal-fibres-load-controlled.csv"), "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("fit: exit %d: %s", code, errs)
-	}
+	dir := fitPath(t, filepath.Join("testdata", "orthogonal-fibres-load-controlled.csv"))
 	c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
 	if c.Data.HasShear || c.Fit.AngleSignKnown || len(c.Families) != 0 {
 		t.Fatalf("has_shear %v, angle_sign_known %v, %d families: want an isotropic pick on data without shear", c.Data.HasShear, c.Fit.AngleSignKnown, len(c.Families))

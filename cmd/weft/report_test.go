@@ -29,8 +29,15 @@ func demoFile(name string) string { return filepath.Join("..", "..", "testdata",
 // fitDemo runs 'weft fit' on a demo file into a fresh folder.
 func fitDemo(t *testing.T, file string, extra ...string) string {
 	t.Helper()
+	return fitPath(t, demoFile(file), extra...)
+}
+
+// fitPath runs 'weft fit' on a data file into a fresh folder and returns
+// the folder; the test fails when the fit does.
+func fitPath(t *testing.T, data string, extra ...string) string {
+	t.Helper()
 	dir := filepath.Join(t.TempDir(), "out.weft")
-	args := append([]string{"fit", demoFile(file), "-o", dir, "--quiet"}, extra...)
+	args := append([]string{"fit", data, "-o", dir, "--quiet"}, extra...)
 	if _, stderr, code := runWeft(t, args...); code != 0 {
 		t.Fatalf("weft %v: exit %d: %s", args, code, stderr)
 	}

@@ -22,10 +22,7 @@ func TestVerdictQuotesTheChosenModelsAngles(t *testing.T) {
 		t.Skip("a whole discovery")
 	}
 	t.Parallel()
-	dir := filepath.Join(t.TempDir(), "out.weft")
-	if _, stderr, code := runWeft(t, "fit", filepath.Join("testdata", "two-families-nine-protocols.csv"), "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("weft fit: exit %d: %s", code, stderr)
-	}
+	dir := fitPath(t, filepath.Join("testdata", "two-families-nine-protocols.csv"))
 	b, err := os.ReadFile(filepath.Join(dir, "model.json"))
 	if err != nil {
 		t.Fatal(err)

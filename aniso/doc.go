@@ -153,8 +153,8 @@
 // look-alike rules and the architecture tie that can leave it undecided,
 // and the cautions a verdict with fibres along a test axis carries when
 // the data show an untared preload or scattered shear);
-// the polish on every point
-// (polish.go). runRefits (fullforms.go) fits a stage's refits side by side
+// the polish on every point, with two free families relabelled in angle
+// order first (polish.go, familyorder.go). runRefits (fullforms.go) fits a stage's refits side by side
 // on workers of pool.go, the package's one pool type (scans and profiles
 // size their own). Forms, layouts and presets are named in layout.go and
 // formlabels.go. Cohorts (cohort.go, cohortselect.go, cohortpool.go) run

@@ -519,10 +519,20 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 // many interval widths out (dense data: an interval of 0.03° on a 2° grid)
 // moves its inner end by steps that only double, and 8 trials ended short
 // of the crossing.
+//
+// The answer is the secant root of h on the final bracket, with h's own
+// values at its ends: a trial within tolLoss of the threshold is still
+// about tolLoss/(2(thr − minLoss)) of the half-width from the crossing
+// (0.005 of it for tolLoss 1 % of the margin: 0.003° on an interval of
+// ±0.7°), and the Illinois step halves the value kept at a stale end, so
+// interpolating with that halved value would misplace the root too.
 func (pf *profiler) crossing(a, b, la, lb float64, thA, thB []float64, thr, minLoss, tolAngle, tolLoss float64) float64 {
 	r0 := math.Sqrt(math.Max(thr-minLoss, 0))
 	h := func(l float64) float64 { return math.Sqrt(math.Max(l-minLoss, 0)) - r0 }
 	fa, fb := h(la), h(lb)
+	// ha, hb are h at the bracket's ends; fa, fb the Illinois-scaled
+	// values that only steer the trials.
+	ha, hb := fa, fb
 	side := 0
 	for it := 0; it < 8 && math.Abs(b-a) > tolAngle; it++ {
 		m := b - fb*(b-a)/(fb-fa)
@@ -531,24 +541,24 @@ func (pf *profiler) crossing(a, b, la, lb float64, thA, thB []float64, thr, minL
 		}
 		th, l := pf.at(m, pf.between(thA, thB, (m-a)/(b-a)))
 		if l <= thr {
-			a, fa, thA = m, h(l), th
+			a, fa, ha, thA = m, h(l), h(l), th
 			if side < 0 {
 				fb /= 2
 			}
 			side = -1
 		} else {
-			b, fb, thB = m, h(l), th
+			b, fb, hb, thB = m, h(l), h(l), th
 			if side > 0 {
 				fa /= 2
 			}
 			side = 1
 		}
 		if math.Abs(l-thr) <= tolLoss {
-			return m
+			break
 		}
 	}
-	if fb-fa > 0 {
-		return b - fb*(b-a)/(fb-fa)
+	if hb-ha > 0 {
+		return b - hb*(b-a)/(hb-ha)
 	}
 	return (a + b) / 2
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -55,6 +56,13 @@ func (r *Result) profiles(p *Problem, set Settings) {
 	e.eval(r.theta, true)
 	for _, pr := range out {
 		if !pr.NotDetermined {
+			if where := pr.belowAway(); where != "" {
+				why := ""
+				if r.Structure.Layout == LayoutFree {
+					why = " (there the other family can take this family's place)"
+				}
+				r.Flags = append(r.Flags, fmt.Sprintf("%s: its loss profile also falls below the 95 %% threshold away from its interval [%.2f°, %.2f°], at %s on the profile's grid%s, so the data exclude neither region: the 95 %% profile confidence set is not one interval", pr.Name, pr.LoDeg, pr.HiDeg, where, why))
+			}
 			// An angle on a symmetry line has no Wald interval (its
 			// column is zero, so the covariance leaves it undetermined);
 			// a profile that bounds it determines it, with the profile's
@@ -80,6 +88,69 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		}
 		r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its loss profile stays below the 95 %% threshold over the angle's whole range, so the data exclude no angle%s", pr.Name, why))
 	}
+}
+
+// belowAway describes where, away from [LoDeg, HiDeg], the profile lies
+// at or below the threshold on its grid ("" where it does nowhere): the
+// arc from HiDeg onwards round the 180° period to the last such grid angle
+// (beyond 90° where it passes it, as an interval may), or for a mirrored
+// profile (|α|) the ranges of |α| below LoDeg and above HiDeg. The
+// interval is the connected part of the confidence set {angle: profile ≤
+// threshold} that holds the optimum (Venzon & Moolgavkar 1988 follow the
+// profile outwards from the optimum); a profile that dips below the
+// threshold again elsewhere (two free families, where the other family
+// takes this one's place over part of the period, or a second local
+// minimum) makes the set two or more pieces, and the interval alone would
+// understate it.
+func (pr AngleProfile) belowAway() string {
+	if pr.NotDetermined || math.IsNaN(pr.LoDeg) || math.IsNaN(pr.HiDeg) {
+		return ""
+	}
+	// A margin of 1e-9° keeps the interval's own ends (grid points within
+	// round-off of them) inside.
+	const eps = 1e-9
+	var parts []string
+	if pr.Mirrored {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		blo, bhi := math.Inf(1), math.Inf(-1)
+		for j, a := range pr.AnglesDeg {
+			a = math.Abs(a)
+			switch {
+			case pr.Loss[j] > pr.Threshold:
+			case a < pr.LoDeg-eps:
+				blo, bhi = math.Min(blo, a), math.Max(bhi, a)
+			case a > pr.HiDeg+eps:
+				lo, hi = math.Min(lo, a), math.Max(hi, a)
+			}
+		}
+		if blo <= bhi {
+			parts = append(parts, fmt.Sprintf("%.1f°–%.1f°", blo, bhi))
+		}
+		if lo <= hi {
+			parts = append(parts, fmt.Sprintf("%.1f°–%.1f°", lo, hi))
+		}
+		return strings.Join(parts, " and ")
+	}
+	width := pr.HiDeg - pr.LoDeg
+	dlo, dhi := math.Inf(1), math.Inf(-1)
+	for j, a := range pr.AnglesDeg {
+		if pr.Loss[j] > pr.Threshold {
+			continue
+		}
+		// Offset from the interval's upper end along the period.
+		d := math.Mod(a-pr.HiDeg, 180)
+		if d < 0 {
+			d += 180
+		}
+		if d <= eps || d >= 180-width-eps {
+			continue // inside the interval
+		}
+		dlo, dhi = math.Min(dlo, d), math.Max(dhi, d)
+	}
+	if dlo <= dhi {
+		return fmt.Sprintf("%.1f°–%.1f°", pr.HiDeg+dlo, pr.HiDeg+dhi)
+	}
+	return ""
 }
 
 // profileEngine returns an engine for profiling r on p. Profiles of a

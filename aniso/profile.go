@@ -58,8 +58,11 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		if !pr.NotDetermined {
 			if where := pr.belowAway(); where != "" {
 				why := ""
-				if r.Structure.Layout == LayoutFree {
+				switch {
+				case r.Structure.Layout == LayoutFree:
 					why = " (there the other family can take this family's place)"
+				case r.Structure.Layout == LayoutMirror && !r.Structure.HoldPairAxis && !p.HasShear:
+					why = " (without shear information a pair at θ ± β and one at β ± θ have the same fibre directions up to their signs)"
 				}
 				r.Flags = append(r.Flags, fmt.Sprintf("%s: its loss profile also falls below the 95 %% threshold away from its interval [%.2f°, %.2f°], at %s on the profile's grid%s, so the data exclude neither region: the 95 %% profile confidence set is not one interval", pr.Name, pr.LoDeg, pr.HiDeg, where, why))
 			}
@@ -109,17 +112,48 @@ func (pr AngleProfile) belowAway() string {
 	// A margin of 1e-9° keeps the interval's own ends (grid points within
 	// round-off of them) inside.
 	const eps = 1e-9
+	in := func(a float64) bool {
+		if pr.Mirrored || !pr.periodic {
+			return a >= pr.LoDeg-eps && a <= pr.HiDeg+eps
+		}
+		d := math.Mod(a-pr.LoDeg, 180)
+		if d < 0 {
+			d += 180
+		}
+		return d <= pr.HiDeg-pr.LoDeg+eps || d >= 180-eps
+	}
+	// inside: in the interval, or in its image under the pair's exact
+	// equivalence (the same two families described from the other
+	// bisector: θ + 90° with 90° − β).
+	inside := func(a float64) bool {
+		if pr.Mirrored {
+			a = math.Abs(a)
+		}
+		switch {
+		case in(a):
+			return true
+		case pr.twin == twinMeanAngle && pr.Mirrored:
+			return in(90 - a)
+		case pr.twin == twinMeanAngle:
+			return in(a - 90)
+		case pr.twin == twinHalfAngle:
+			return in(90 - a)
+		}
+		return false
+	}
 	var parts []string
-	if pr.Mirrored {
+	if pr.Mirrored || !pr.periodic {
 		lo, hi := math.Inf(1), math.Inf(-1)
 		blo, bhi := math.Inf(1), math.Inf(-1)
 		for j, a := range pr.AnglesDeg {
-			a = math.Abs(a)
+			if pr.Mirrored {
+				a = math.Abs(a)
+			}
 			switch {
-			case pr.Loss[j] > pr.Threshold:
-			case a < pr.LoDeg-eps:
+			case pr.Loss[j] > pr.Threshold || inside(a):
+			case a < pr.LoDeg:
 				blo, bhi = math.Min(blo, a), math.Max(bhi, a)
-			case a > pr.HiDeg+eps:
+			default:
 				lo, hi = math.Min(lo, a), math.Max(hi, a)
 			}
 		}
@@ -131,19 +165,15 @@ func (pr AngleProfile) belowAway() string {
 		}
 		return strings.Join(parts, " and ")
 	}
-	width := pr.HiDeg - pr.LoDeg
 	dlo, dhi := math.Inf(1), math.Inf(-1)
 	for j, a := range pr.AnglesDeg {
-		if pr.Loss[j] > pr.Threshold {
+		if pr.Loss[j] > pr.Threshold || inside(a) {
 			continue
 		}
 		// Offset from the interval's upper end along the period.
 		d := math.Mod(a-pr.HiDeg, 180)
 		if d < 0 {
 			d += 180
-		}
-		if d <= eps || d >= 180-width-eps {
-			continue // inside the interval
 		}
 		dlo, dhi = math.Min(dlo, d), math.Max(dhi, d)
 	}
@@ -152,6 +182,16 @@ func (pr AngleProfile) belowAway() string {
 	}
 	return ""
 }
+
+// Exact equivalences of a profiled angle (AngleProfile.twin): a mirror
+// pair with a learned axis is the same two families at (θ, β) and at
+// (θ + 90°, 90° − β), so its mean angle's profile repeats 90° on and its
+// half angle's about 45°.
+const (
+	twinNone = iota
+	twinMeanAngle
+	twinHalfAngle
+)
 
 // profileEngine returns an engine for profiling r on p. Profiles of a
 // dispersed family re-optimise at every grid angle: they integrate with
@@ -725,7 +765,15 @@ func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Se
 		pf.setNear(0)
 	}
 	minLoss := r.Loss
-	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1)}
+	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1), periodic: q.Periodic}
+	if r.Structure.Layout == LayoutMirror && !r.Structure.HoldPairAxis {
+		switch q.Name {
+		case "mean_angle":
+			pr.twin = twinMeanAngle
+		case "half_angle":
+			pr.twin = twinHalfAngle
+		}
+	}
 	for j, l := range loss {
 		minLoss = math.Min(minLoss, l)
 		if j != c && l < pr.minLoss {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -55,6 +56,16 @@ func (r *Result) profiles(p *Problem, set Settings) {
 	e.eval(r.theta, true)
 	for _, pr := range out {
 		if !pr.NotDetermined {
+			if where := pr.belowAway(); where != "" {
+				why := ""
+				switch {
+				case r.Structure.Layout == LayoutFree:
+					why = " (there the other family can take this family's place)"
+				case r.Structure.Layout == LayoutMirror && !r.Structure.HoldPairAxis && !p.HasShear:
+					why = " (without shear information a pair at θ ± β and one at β ± θ have the same fibre directions up to their signs)"
+				}
+				r.Flags = append(r.Flags, fmt.Sprintf("%s: its loss profile also falls below the 95 %% threshold away from its interval [%.2f°, %.2f°], at %s on the profile's grid%s, so the data exclude neither region: the 95 %% profile confidence set is not one interval", pr.Name, pr.LoDeg, pr.HiDeg, where, why))
+			}
 			// An angle on a symmetry line has no Wald interval (its
 			// column is zero, so the covariance leaves it undetermined);
 			// a profile that bounds it determines it, with the profile's
@@ -81,6 +92,106 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its loss profile stays below the 95 %% threshold over the angle's whole range, so the data exclude no angle%s", pr.Name, why))
 	}
 }
+
+// belowAway describes where, away from [LoDeg, HiDeg], the profile lies
+// at or below the threshold on its grid ("" where it does nowhere): the
+// arc from HiDeg onwards round the 180° period to the last such grid angle
+// (beyond 90° where it passes it, as an interval may), or for a mirrored
+// profile (|α|) the ranges of |α| below LoDeg and above HiDeg. The
+// interval is the connected part of the confidence set {angle: profile ≤
+// threshold} that holds the optimum (Venzon & Moolgavkar 1988 follow the
+// profile outwards from the optimum); a profile that dips below the
+// threshold again elsewhere (two free families, where the other family
+// takes this one's place over part of the period, or a second local
+// minimum) makes the set two or more pieces, and the interval alone would
+// understate it.
+func (pr AngleProfile) belowAway() string {
+	if pr.NotDetermined || math.IsNaN(pr.LoDeg) || math.IsNaN(pr.HiDeg) {
+		return ""
+	}
+	// A margin of 1e-9° keeps the interval's own ends (grid points within
+	// round-off of them) inside.
+	const eps = 1e-9
+	in := func(a float64) bool {
+		if pr.Mirrored || !pr.periodic {
+			return a >= pr.LoDeg-eps && a <= pr.HiDeg+eps
+		}
+		d := math.Mod(a-pr.LoDeg, 180)
+		if d < 0 {
+			d += 180
+		}
+		return d <= pr.HiDeg-pr.LoDeg+eps || d >= 180-eps
+	}
+	// inside: in the interval, or in its image under the pair's exact
+	// equivalence (the same two families described from the other
+	// bisector: θ + 90° with 90° − β).
+	inside := func(a float64) bool {
+		if pr.Mirrored {
+			a = math.Abs(a)
+		}
+		switch {
+		case in(a):
+			return true
+		case pr.twin == twinMeanAngle && pr.Mirrored:
+			return in(90 - a)
+		case pr.twin == twinMeanAngle:
+			return in(a - 90)
+		case pr.twin == twinHalfAngle:
+			return in(90 - a)
+		}
+		return false
+	}
+	var parts []string
+	if pr.Mirrored || !pr.periodic {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		blo, bhi := math.Inf(1), math.Inf(-1)
+		for j, a := range pr.AnglesDeg {
+			if pr.Mirrored {
+				a = math.Abs(a)
+			}
+			switch {
+			case pr.Loss[j] > pr.Threshold || inside(a):
+			case a < pr.LoDeg:
+				blo, bhi = math.Min(blo, a), math.Max(bhi, a)
+			default:
+				lo, hi = math.Min(lo, a), math.Max(hi, a)
+			}
+		}
+		if blo <= bhi {
+			parts = append(parts, fmt.Sprintf("%.1f°–%.1f°", blo, bhi))
+		}
+		if lo <= hi {
+			parts = append(parts, fmt.Sprintf("%.1f°–%.1f°", lo, hi))
+		}
+		return strings.Join(parts, " and ")
+	}
+	dlo, dhi := math.Inf(1), math.Inf(-1)
+	for j, a := range pr.AnglesDeg {
+		if pr.Loss[j] > pr.Threshold || inside(a) {
+			continue
+		}
+		// Offset from the interval's upper end along the period.
+		d := math.Mod(a-pr.HiDeg, 180)
+		if d < 0 {
+			d += 180
+		}
+		dlo, dhi = math.Min(dlo, d), math.Max(dhi, d)
+	}
+	if dlo <= dhi {
+		return fmt.Sprintf("%.1f°–%.1f°", pr.HiDeg+dlo, pr.HiDeg+dhi)
+	}
+	return ""
+}
+
+// Exact equivalences of a profiled angle (AngleProfile.twin): a mirror
+// pair with a learned axis is the same two families at (θ, β) and at
+// (θ + 90°, 90° − β), so its mean angle's profile repeats 90° on and its
+// half angle's about 45°.
+const (
+	twinNone = iota
+	twinMeanAngle
+	twinHalfAngle
+)
 
 // profileEngine returns an engine for profiling r on p. Profiles of a
 // dispersed family re-optimise at every grid angle: they integrate with
@@ -519,10 +630,20 @@ func (pf *profiler) guided(grid []float64, c int, fitLoss float64, fitTheta []fl
 // many interval widths out (dense data: an interval of 0.03° on a 2° grid)
 // moves its inner end by steps that only double, and 8 trials ended short
 // of the crossing.
+//
+// The answer is the secant root of h on the final bracket, with h's own
+// values at its ends: a trial within tolLoss of the threshold is still
+// about tolLoss/(2(thr − minLoss)) of the half-width from the crossing
+// (0.005 of it for tolLoss 1 % of the margin: 0.003° on an interval of
+// ±0.7°), and the Illinois step halves the value kept at a stale end, so
+// interpolating with that halved value would misplace the root too.
 func (pf *profiler) crossing(a, b, la, lb float64, thA, thB []float64, thr, minLoss, tolAngle, tolLoss float64) float64 {
 	r0 := math.Sqrt(math.Max(thr-minLoss, 0))
 	h := func(l float64) float64 { return math.Sqrt(math.Max(l-minLoss, 0)) - r0 }
 	fa, fb := h(la), h(lb)
+	// ha, hb are h at the bracket's ends; fa, fb the Illinois-scaled
+	// values that only steer the trials.
+	ha, hb := fa, fb
 	side := 0
 	for it := 0; it < 8 && math.Abs(b-a) > tolAngle; it++ {
 		m := b - fb*(b-a)/(fb-fa)
@@ -531,24 +652,24 @@ func (pf *profiler) crossing(a, b, la, lb float64, thA, thB []float64, thr, minL
 		}
 		th, l := pf.at(m, pf.between(thA, thB, (m-a)/(b-a)))
 		if l <= thr {
-			a, fa, thA = m, h(l), th
+			a, fa, ha, thA = m, h(l), h(l), th
 			if side < 0 {
 				fb /= 2
 			}
 			side = -1
 		} else {
-			b, fb, thB = m, h(l), th
+			b, fb, hb, thB = m, h(l), h(l), th
 			if side > 0 {
 				fa /= 2
 			}
 			side = 1
 		}
 		if math.Abs(l-thr) <= tolLoss {
-			return m
+			break
 		}
 	}
-	if fb-fa > 0 {
-		return b - fb*(b-a)/(fb-fa)
+	if hb-ha > 0 {
+		return b - hb*(b-a)/(hb-ha)
 	}
 	return (a + b) / 2
 }
@@ -644,7 +765,15 @@ func (r *Result) profileOne(pe, twin *engine, p, guideOn *Problem, i int, set Se
 		pf.setNear(0)
 	}
 	minLoss := r.Loss
-	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1)}
+	pr := AngleProfile{Name: q.Name, Mirrored: mirrored, OptimumDeg: Deg(opt), Closed: true, minLoss: math.Inf(1), periodic: q.Periodic}
+	if r.Structure.Layout == LayoutMirror && !r.Structure.HoldPairAxis {
+		switch q.Name {
+		case "mean_angle":
+			pr.twin = twinMeanAngle
+		case "half_angle":
+			pr.twin = twinHalfAngle
+		}
+	}
 	for j, l := range loss {
 		minLoss = math.Min(minLoss, l)
 		if j != c && l < pr.minLoss {

@@ -92,6 +92,11 @@ type AngleProfile struct {
 	// parameters, to refit from when it lies below the fit.
 	minLoss  float64
 	minTheta []float64
+	// periodic is the angle's kind (a half angle is not); twin its exact
+	// equivalence (twinNone, twinMeanAngle, twinHalfAngle), so that
+	// belowAway does not report the same model seen from the other side.
+	periodic bool
+	twin     int
 }
 
 // Result is a fitted model form with its evidence.

@@ -337,7 +337,9 @@ func (in *Input) parameterSection(v *reportView) {
 		if lo, hi := float64(e.CI95[0]), float64(e.CI95[1]); !math.IsNaN(lo) && !math.IsNaN(hi) {
 			iv, from = "["+num(lo, 3)+", "+num(hi, 3)+"]", "Wald"
 		}
-		if p, ok := in.profileOf(e.Name); ok && e.Kind == "angle" {
+		// A degenerate angle has no interval, as its status says, even
+		// where its profile crosses the threshold (summary.printParameters).
+		if p, ok := in.profileOf(e.Name); ok && e.Kind == "angle" && e.Status != aniso.StatusDegenerate {
 			switch {
 			case p.NotDetermined:
 				iv, from = "none excluded", "profile"

@@ -265,3 +265,20 @@ func TestUndecidedVerdictPointsToPlan(t *testing.T) {
 		}
 	}
 }
+
+// A degenerate angle has no interval in the parameter table (README,
+// *Uncertainty*: "degenerate … no interval"), though the card keeps its
+// profile: the synthetic isotropic specimen of
+// summary.TestDegenerateAngleHasNoInterval showed [−108.98, −51.49] from
+// the profile of a family with weight 1.1e-5 kPa.
+func TestDegenerateAngleHasNoInterval(t *testing.T) {
+	in := discoveredInput(true, []float64{-72.232}, nil, nil)
+	nan := card.Num(math.NaN())
+	in.fit.Estimates = []card.EstimateCard{{Name: "angle", Kind: "angle", Value: -72.232, Unit: "deg", StdErr: nan, CI95: [2]card.Num{nan, nan}, Status: "degenerate"}}
+	in.fit.Profiles = []card.ProfileCard{{Name: "angle", IntervalDeg: [2]card.Num{-108.98, -51.49}, Closed: true}}
+	v := &reportView{}
+	in.parameterSection(v)
+	if r := v.Params.Rows[0].Cells; r[2] != "—" || r[3] != "" {
+		t.Errorf("degenerate angle row %q, want no interval", r)
+	}
+}

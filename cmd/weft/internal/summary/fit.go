@@ -231,7 +231,12 @@ func printParameters(w io.Writer, r *aniso.Result) {
 			iv = fmt.Sprintf("[%.4g, %.4g]", e.Lo, e.Hi)
 		}
 		status := e.Status
-		if p, ok := profiles[e.Name]; ok && e.Kind == "angle" {
+		// A degenerate angle (of a family made only of terms the data do
+		// not support) has no interval, as its status says, though its
+		// profile may cross the threshold: the unsupported family fits a
+		// sliver of the points, and an interval would read as a direction
+		// the data determine.
+		if p, ok := profiles[e.Name]; ok && e.Kind == "angle" && e.Status != aniso.StatusDegenerate {
 			switch {
 			case p.NotDetermined:
 				iv, status = "-", e.Status+" (the profile excludes no angle)"

@@ -1,6 +1,7 @@
 package summary
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -26,6 +27,32 @@ func TestNextStepForAnUndecidedVerdict(t *testing.T) {
 		got := nextStep(&c.fit)
 		if c.want == "" && got != "" || c.want != "" && !strings.HasPrefix(got, c.want) {
 			t.Errorf("%+v: next step %q, want it to start with %q", c.fit.Dir, got, c.want)
+		}
+	}
+}
+
+// A degenerate angle has no interval (README, *Uncertainty*: "degenerate
+// … no interval, and a flag says why"), even where the unsupported
+// family's profile crosses the threshold. On a synthetic isotropic
+// specimen (neo-Hookean, 2 % noise, sutured) fitted with i1-lin +
+// fib-expsq, the family's weight came out at 1.1e-5 kPa, felt on 2 of 30
+// points, and the table printed "angle -72.232 [-108.98, -51.49] degenerate
+// (profile interval)".
+func TestDegenerateAngleHasNoInterval(t *testing.T) {
+	nan := math.NaN()
+	r := &aniso.Result{
+		Estimates: []aniso.Estimate{
+			{Name: "weight[i1-lin]", Kind: "weight", Value: 5.0067, Unit: "kPa", StdErr: 0.0098, Lo: 4.988, Hi: 5.026, Status: aniso.StatusEstimated},
+			{Name: "angle", Kind: "angle", Value: -72.232, Unit: "deg", StdErr: nan, Lo: nan, Hi: nan, Status: aniso.StatusDegenerate},
+		},
+		Profiles:  []aniso.AngleProfile{{Name: "angle", LoDeg: -108.98, HiDeg: -51.49, Closed: true}},
+		SignKnown: true,
+	}
+	var b strings.Builder
+	printParameters(&b, r)
+	for _, line := range strings.Split(b.String(), "\n") {
+		if strings.HasPrefix(line, "angle ") && (strings.Contains(line, "[") || strings.Contains(line, "profile interval")) {
+			t.Errorf("degenerate angle printed with an interval: %q", line)
 		}
 	}
 }

@@ -195,11 +195,11 @@ func SolveUniaxialPath(m *Model, theta float64, lambdas []float64) []UniaxialSol
 		lam, mu := 1.0, 1.0
 		var broken error
 		for _, i := range branch {
+			target := lambdas[i]
 			if broken != nil {
-				out[i].Err = broken
+				out[i].Err = pathStopped(target, theta, lam, broken)
 				continue
 			}
-			target := lambdas[i]
 			n := int(math.Ceil(math.Abs(math.Log(target)-math.Log(lam)) / continuationStep))
 			l0 := lam
 			for s := 1; s <= n; s++ {
@@ -217,7 +217,7 @@ func SolveUniaxialPath(m *Model, theta float64, lambdas []float64) []UniaxialSol
 				lam, mu = l, next
 			}
 			if broken != nil {
-				out[i].Err = broken
+				out[i].Err = pathStopped(target, theta, lam, broken)
 				continue
 			}
 			out[i].Lateral = mu
@@ -227,6 +227,16 @@ func SolveUniaxialPath(m *Model, theta float64, lambdas []float64) []UniaxialSol
 		}
 	}
 	return out
+}
+
+// pathStopped says why the row at stretch target was not reached: the
+// continuation from the unloaded state stopped after the last stretch
+// reached, reached, at the step whose failure is err. The row's own
+// stretch comes first, because err names the intermediate step (a row at
+// 1.2 was reported as "uniaxial stretch 1.15983 at 0°: ...", which read
+// as a wrong stretch).
+func pathStopped(target, theta, reached float64, err error) error {
+	return fmt.Errorf("uniaxial stretch %g at %g°: the path from λ = 1 stops after λ = %.6g (%w)", target, Deg(theta), reached, err)
 }
 
 // uniaxialLateral returns σ_tt and dσ_tt/dλt of uniaxial loading at

@@ -1,7 +1,9 @@
 package aniso
 
 import (
+	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/weft-tools/weft/terms"
@@ -361,6 +363,33 @@ func TestUniaxialRowWithoutLateralRoot(t *testing.T) {
 		mu, err := lateralRoot(m, Rad(-76.015), l, 1/l)
 		if err == nil {
 			t.Errorf("λ = %g: lateral stretch %g, want no root (the row left out)", l, mu)
+		}
+	}
+}
+
+// A row the continuation cannot reach is reported at its own stretch.
+// Fibres only at ±30° loaded along axis 1: for λ > 2/√3 both families
+// are stretched whatever λt is (I4 = ¾λ² + ¼λt² > 1, from the README's
+// I4 = a0·C a0), so the lateral stress reaches zero only as λt → 0 and the
+// path stops between 1.15 and 1.2. The reasons of the rows at 1.2 and 1.3
+// once both began "uniaxial stretch 1.15983 at 0°" (the failed
+// intermediate step), which read as a wrong stretch in export's
+// verification_absent.
+func TestUniaxialPathStopNamesTheRow(t *testing.T) {
+	m := &Model{Families: []Family{{Name: "f1", Angle: Rad(30)}, {Name: "f2", Angle: Rad(-30)}},
+		Terms: []Term{{Shape: lookup("fib-expsq"), Family: 0, Weight: 3, Params: []float64{1}},
+			{Shape: lookup("fib-expsq"), Family: 1, Weight: 3, Params: []float64{1}}}}
+	sols := SolveUniaxialPath(m, 0, []float64{1.15, 1.2, 1.3})
+	if sols[0].Err != nil {
+		t.Fatalf("λ = 1.15 (below 2/√3 = %.6f): %v", 2/math.Sqrt(3), sols[0].Err)
+	}
+	for i, l := range []float64{1.2, 1.3} {
+		err := sols[i+1].Err
+		if err == nil {
+			t.Fatalf("λ = %g: lateral stretch %g, want none", l, sols[i+1].Lateral)
+		}
+		if want := fmt.Sprintf("uniaxial stretch %g at 0°: the path from λ = 1 stops after λ = 1.15 (", l); !strings.HasPrefix(err.Error(), want) {
+			t.Errorf("λ = %g: %q, want it to begin %q", l, err, want)
 		}
 	}
 }

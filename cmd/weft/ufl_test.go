@@ -89,7 +89,7 @@ type uflResult struct {
 // its switch, a lateral stretch that is not unique) are the ones an
 // implementation may reproduce differently and are counted, not compared.
 // The nearly incompressible form of the same module, with the suggested
-// bulk modulus (1e3 × the sum of the weights) and F33 solved for plane
+// bulk modulus (three_dimensional.suggested_bulk_modulus) and F33 solved for plane
 // stress, gives the membrane's nominal stress within 1e-3 of the same
 // scale. The cards: uflCards and the example card of the arterial media
 // (Holzapfel, Gasser & Ogden 2000, from memory). FFCx compiles one
@@ -166,7 +166,7 @@ func TestExportUFLAgainstFEniCS(t *testing.T) {
 	if compared < 500 {
 		t.Fatalf("only %d rows compared", compared)
 	}
-	t.Logf("%d verification rows compared with FEniCS, %d flagged rows not compared; largest difference %.2g of the row's scale (membrane), %.2g (nearly incompressible, bulk modulus 1e3 × Σ weights)", compared, flagged, worst, worstNI)
+	t.Logf("%d verification rows compared with FEniCS, %d flagged rows not compared; largest difference %.2g of the row's scale (membrane), %.2g (nearly incompressible, the suggested bulk modulus)", compared, flagged, worst, worstNI)
 }
 
 // runUFLCheck runs testdata/uflcheck.py on a job.

@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -12,6 +13,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/terms"
 )
 
 // exportFormat is the version of export's JSON document.
@@ -203,7 +205,9 @@ func BuildExport(file string, c *card.Card, m *aniso.Model, dr *card.DataRange, 
 	}
 	settings := aniso.DefaultVerificationSettings(union)
 	total, outside, flagged := 0, 0, 0
+	stiffest := 0.0 // largest |∂P_i/∂F_j| of the thickness-coupled terms over the rows, for the bulk modulus
 	for _, sm := range shown {
+		coupled := thicknessCoupled(sm.model)
 		pts, err := aniso.VerificationCases(sm.model, settings)
 		if err != nil {
 			return nil, cardErrorf("%s: verification table: %v", file, err)
@@ -220,6 +224,15 @@ func BuildExport(file string, c *card.Card, m *aniso.Model, dr *card.DataRange, 
 			if len(e.Flags) > 0 {
 				flagged++
 			}
+			if tg, err := coupled.Tangent(pts[i].F); err == nil {
+				for _, row := range tg.A {
+					for _, a := range row {
+						if a = math.Abs(a); a > stiffest && !math.IsInf(a, 0) {
+							stiffest = a
+						}
+					}
+				}
+			}
 			doc.Verification = append(doc.Verification, e)
 		}
 	}
@@ -228,8 +241,35 @@ func BuildExport(file string, c *card.Card, m *aniso.Model, dr *card.DataRange, 
 		return nil, cardErrorf("%s: the model cannot be evaluated at any verification point (%s)", file, doc.Absent[0].Reason)
 	}
 	exportWarnings(doc, m, total, outside, flagged)
-	doc.ThreeD = threeDBlock(m, c.StressUnit)
+	doc.ThreeD = threeDBlock(m, c.StressUnit, stiffest)
 	return doc, nil
+}
+
+// thicknessCoupled returns a copy of m that keeps only the terms whose
+// energy depends on C33, the ones whose stiffness the bulk modulus must
+// dominate in a volumetric–isochoric split: I1, I2 and principal-stretch
+// terms, cofactor terms (K = I5 − I1 I4 + I2), and fibre terms of a
+// family with dispersion κ > 0 (E_f holds κ I1). The others (κ = 0 and
+// in-plane dispersed fibres, I5 and Fung-type terms) see only the
+// in-plane C, so plane stress decouples them from J: on the bundled demo
+// membrane M1 their stiffness at the table's largest stretches is a
+// thousand times its weights and moves the nearly incompressible form by
+// 2e-5 only.
+func thicknessCoupled(m *aniso.Model) *aniso.Model {
+	c := &aniso.Model{Families: m.Families, Terms: append([]aniso.Term(nil), m.Terms...)}
+	for i, t := range c.Terms {
+		coupled := false
+		switch t.Shape.Arg {
+		case terms.I1, terms.I2, terms.Principal, terms.Cofactor:
+			coupled = true
+		case terms.Fibre:
+			coupled = t.Family >= 0 && t.Family < len(m.Families) && m.Families[t.Family].Dispersion > 0
+		}
+		if !coupled {
+			c.Terms[i].Weight = 0
+		}
+	}
+	return c
 }
 
 // exportPoint turns a verification point of model sm into a row; a point

@@ -158,10 +158,11 @@ membrane's nominal stress. A number gives the nearly incompressible form of a
 volumetric-isochoric split: matrix terms in Ibar1 = J^(-2/3) I1, Ibar2 =
 J^(-4/3) I2 and lambdabar_i = J^(-1/3) lambda_i, fibre, cofactor, I5, in-plane
 dispersed and Fung-type terms in the invariants of the full C, plus
-bulk_modulus/2 (J - 1)^2; SUGGESTED_BULK_MODULUS is 1e3 times the card's
-stress scale, the sum of the weights with a Fung-type term counted by its
-small-strain modulus c max|b| (see the three-dimensional block of 'weft
-export').
+bulk_modulus/2 (J - 1)^2; SUGGESTED_BULK_MODULUS is 1e3 times the larger
+of the card's stress scale (the sum of the weights with a Fung-type term
+counted by its small-strain modulus c max|b|) and the largest tangent entry
+dP/dF over the verification rows of the terms that depend on C33 (see the
+three-dimensional block of 'weft export').
 
 Fibre and I5 terms carry energy only while I4 > 1, cofactor terms while
 K > 1 (ufl.conditional; exactly at the switch a term is off, as in weft).

@@ -30,7 +30,7 @@ var empty = Interval{math.Inf(1), math.Inf(-1)}
 // fitted card under the key "data_range". Queries outside it extrapolate.
 type DataRange struct {
 	// Stretch1 and Stretch2 are the [min, max] of F11 and F22 over the kept
-	// points (dimensionless).
+	// points and the reference state (1) (dimensionless).
 	Stretch1 Interval `json:"stretch_1"`
 	Stretch2 Interval `json:"stretch_2"`
 	// Shear is the [min, max] of F12 and F21 together (zero for pure
@@ -44,7 +44,7 @@ type DataRange struct {
 	Shear12 *Interval `json:"shear_12,omitempty"`
 	Shear21 *Interval `json:"shear_21,omitempty"`
 	// FibreStretch is the [min, max] of the fibre stretch √I4 per family,
-	// in families order.
+	// in families order, over the kept points and the reference state (1).
 	FibreStretch []Interval `json:"fibre_stretch,omitempty"`
 	// StressKind is "cauchy" or "nominal", the measure the fit used.
 	StressKind string `json:"stress_kind,omitempty"`
@@ -77,6 +77,16 @@ func NewDataRange(p *aniso.Problem, m *aniso.Model) *DataRange {
 		for f, fam := range m.Families {
 			dr.FibreStretch[f].widen(fibreStretch(k, fam))
 		}
+	}
+	// The reference state F = I, where every model's stress is zero by
+	// construction, bounds the tested span: a test runs from it to its
+	// peak, and the first kept point (1.005, say) lies just above it. Left
+	// out, a strip row with F22 = 1 read as outside a fitted F22 range of
+	// [1.005, 1.15] (18 of demo M1's verification rows, inside otherwise).
+	dr.Stretch1.widen(1)
+	dr.Stretch2.widen(1)
+	for f := range dr.FibreStretch {
+		dr.FibreStretch[f].widen(1)
 	}
 	dr.Shear12, dr.Shear21 = &s12, &s21
 	dr.Shear = s12

@@ -2,6 +2,7 @@ package card
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
@@ -61,5 +62,47 @@ func TestMirrorLayoutFollowsTheEstimates(t *testing.T) {
 	}
 	if math.Abs(*l.MeanDeg-82) > 0.01 || math.Abs(*l.HalfAngleDeg-43) > 0.01 {
 		t.Errorf("layout %.4f° ± %.4f°, want the pair's 82° ± 43°", *l.MeanDeg, *l.HalfAngleDeg)
+	}
+}
+
+// The fitted range runs from the reference state F = I, where a model's
+// stress is zero by construction, to the largest kept stretch: a test
+// whose first kept point is at 1.005 (a small tare) leaves a strip row
+// with F22 = 1 inside, and a compressed 0.99 outside.
+func TestDataRangeFromTheReferenceState(t *testing.T) {
+	sh := terms.Lookup("fib-expsq")
+	m := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(30)}},
+		Terms:    []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4}, {Shape: sh, Family: 0, Weight: 30, Params: []float64{3}}},
+	}
+	s := &biaxial.Specimen{Name: "SYN-range (synthetic)", StressUnit: "kPa", Kind: biaxial.Nominal}
+	s.Measured[biaxial.C11], s.Measured[biaxial.C22] = true, true
+	for _, r := range [][2]float64{{1, 1}, {1, 0.5}} {
+		pr := biaxial.Protocol{Label: "ratio", UserWeight: 1}
+		for i := 0; i <= 10; i++ {
+			e := 0.005 + 0.145*float64(i)/10
+			F := [4]float64{1 + r[0]*e, 0, 0, 1 + r[1]*e}
+			res, err := m.Evaluate(F)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pr.Points = append(pr.Points, biaxial.Point{F: F, Stress: res.Nominal, Line: i, Cycle: 1, Time: math.NaN()})
+		}
+		s.Protocols = append(s.Protocols, pr)
+	}
+	s.Weigh()
+	p, err := aniso.NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dr := NewDataRange(p, m)
+	if dr.Stretch1[0] != 1 || dr.Stretch2[0] != 1 || dr.FibreStretch[0][0] != 1 {
+		t.Errorf("ranges start at %g, %g (fibre %g), want the reference state 1", dr.Stretch1[0], dr.Stretch2[0], dr.FibreStretch[0][0])
+	}
+	if out := dr.Outside(m, [4]float64{1.1, 0, 0, 1}); len(out) != 0 {
+		t.Errorf("a strip row inside the tested stretch is outside: %v", out)
+	}
+	if out := dr.Outside(m, [4]float64{1.1, 0, 0, 0.99}); len(out) == 0 || !strings.HasPrefix(out[0], "F22 = 0.99 outside [1, ") {
+		t.Errorf("a compressed F22 = 0.99: %v, want it outside a range from 1", out)
 	}
 }

@@ -289,6 +289,15 @@ func TestDegenerateTerms(t *testing.T) {
 	if !flagged {
 		t.Errorf("no flag for the degenerate term: %q", res.Flags)
 	}
+	// Its own flag says it all: no correlation flag names a degenerate
+	// quantity (a weight of 1e-47 once read r = 1.000 with an angle).
+	for _, f := range res.Flags {
+		for _, e := range res.Estimates {
+			if e.Status == StatusDegenerate && strings.Contains(f, "not separately determined") && strings.Contains(f, e.Name+" ") {
+				t.Errorf("a correlation flag names the degenerate %s: %q", e.Name, f)
+			}
+		}
+	}
 
 	// The same fit with the spare family set by hand along the true one:
 	// a steep term at the smallest weight (over a decade scan) at which the

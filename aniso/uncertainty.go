@@ -398,8 +398,14 @@ func (r *Result) correlations(cols []jcol, cov *mat.Dense) {
 			if math.Abs(c) <= CorrelationFlagLevel {
 				continue
 			}
-			r.Flags = append(r.Flags, fmt.Sprintf("%s and %s are not separately determined (r = %.3f)", names[b], names[a], c))
 			ea, eb := &r.Estimates[cols[a].est], &r.Estimates[cols[b].est]
+			if ea.Status == StatusDegenerate || eb.Status == StatusDegenerate {
+				// Its own flag says the data do not support it; a
+				// correlation with a term of weight 1e-47 says nothing
+				// more (r = 1.000 with the family's angle, say).
+				continue
+			}
+			r.Flags = append(r.Flags, fmt.Sprintf("%s and %s are not separately determined (r = %.3f)", names[b], names[a], c))
 			if ea.Status == StatusEstimated || ea.Status == StatusCorrelated {
 				if eb.Status == StatusEstimated || eb.Status == StatusCorrelated {
 					ea.Status, eb.Status = StatusCorrelated, StatusCorrelated

@@ -139,6 +139,26 @@ func anglesText(r *Result) string {
 	return strings.Join(s, ", ")
 }
 
+// answerWords writes the angles and the in-plane spread the verdict's
+// answer quotes: those of the chosen model, which the card carries, when
+// it is of the winning form. The form's best can be a larger model of the
+// same form whose angles differ by degrees (a pair at ±40.7°, ±53.9°
+// quoted beside a chosen ±37.2°, ±53.7°).
+func (d *Discovery) answerWords(win *formBest) (angles, spread string) {
+	shown := win.c.Result
+	if ch := d.Pareto[d.Chosen].Result; FormKey(ch.Structure) == win.key {
+		shown = ch
+	}
+	if shown.Structure.Planar {
+		var bs []string
+		for _, f := range shown.Model.Families {
+			bs = append(bs, fmt.Sprintf("%.3g", f.Concentration))
+		}
+		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
+	}
+	return anglesText(shown), spread
+}
+
 // decider is the measurement that settles one family against a mirror
 // pair (package documentation, Mirror symmetry).
 const decider = "shear information: track F12 and F21 with markers (a specimen on sutures or rakes shears when its fibres are off-axis), or add an off-axis protocol (the specimen cut or mounted at 45° to the current axes)"
@@ -213,24 +233,8 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 	}
 	v.RuledOut = notes
 	r := win.c.Result
-	// The answer quotes the angles and spread of the chosen model, which
-	// the card carries; the form's best (r) can be a larger model of the
-	// same form whose angles differ by degrees (a pair at ±40.7°, ±53.9°
-	// quoted beside a chosen ±37.2°, ±53.7°).
-	shown := r
-	if ch := d.Pareto[d.Chosen].Result; FormKey(ch.Structure) == win.key {
-		shown = ch
-	}
-	spread := ""
-	if shown.Structure.Planar {
-		var bs []string
-		for _, f := range shown.Model.Families {
-			bs = append(bs, fmt.Sprintf("%.3g", f.Concentration))
-		}
-		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
-	}
+	ang, spread := d.answerWords(win)
 	why := whyItWon(win, comps)
-	ang := anglesText(shown)
 	switch r.Structure.Layout {
 	case LayoutNone:
 		v.Families = "0"

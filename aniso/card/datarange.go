@@ -95,6 +95,28 @@ func NewDataRange(p *aniso.Problem, m *aniso.Model) *DataRange {
 	return dr
 }
 
+// Include widens dr to span o as well: the range of two data sets fitted
+// by one model (a cohort's mean card spans every specimen it averages).
+// Both must have been made by NewDataRange for models with as many
+// families.
+func (dr *DataRange) Include(o *DataRange) {
+	span := func(a *Interval, b Interval) { a.widen(b[0]); a.widen(b[1]) }
+	span(&dr.Stretch1, o.Stretch1)
+	span(&dr.Stretch2, o.Stretch2)
+	span(&dr.Shear, o.Shear)
+	if dr.Shear12 != nil && o.Shear12 != nil {
+		span(dr.Shear12, *o.Shear12)
+	}
+	if dr.Shear21 != nil && o.Shear21 != nil {
+		span(dr.Shear21, *o.Shear21)
+	}
+	for f := range dr.FibreStretch {
+		if f < len(o.FibreStretch) {
+			span(&dr.FibreStretch[f], o.FibreStretch[f])
+		}
+	}
+}
+
 // ShearRanges returns the ranges of F12 and F21: Shear12 and Shear21, or
 // for a card without them the pooled Shear for both.
 func (dr *DataRange) ShearRanges() (f12, f21 Interval) {

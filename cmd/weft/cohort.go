@@ -491,21 +491,13 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 // the population's pooled data alone.
 func spanOf(ps []*aniso.Problem, m *aniso.Model, kind string) *card.DataRange {
 	var dr *card.DataRange
-	widen := func(a *card.Interval, b card.Interval) { a[0], a[1] = math.Min(a[0], b[0]), math.Max(a[1], b[1]) }
 	for _, p := range ps {
 		d := card.NewDataRange(p, m)
 		if dr == nil {
 			dr = d
 			continue
 		}
-		widen(&dr.Stretch1, d.Stretch1)
-		widen(&dr.Stretch2, d.Stretch2)
-		widen(&dr.Shear, d.Shear)
-		widen(dr.Shear12, *d.Shear12)
-		widen(dr.Shear21, *d.Shear21)
-		for f := range dr.FibreStretch {
-			widen(&dr.FibreStretch[f], d.FibreStretch[f])
-		}
+		dr.Include(d)
 	}
 	if dr != nil {
 		dr.StressKind = kind

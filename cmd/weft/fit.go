@@ -91,7 +91,8 @@ weft wrote that holds nothing else (its .weft-output file lists weft's
 files); any other folder, file, device or pipe is kept and the run stops
 with exit code 2. A second weft run writing the same folder at the same time
 stops at once. With several DATA files every file is tried; the failures are
-listed at the end and the exit code is 1.
+listed at the end and the exit code is 1 (2 when every file was bad input
+and nothing was written).
 
 Parameters are research-grade and specimen-specific, valid only within the
 tested range, not for clinical decisions.`,

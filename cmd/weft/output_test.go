@@ -352,6 +352,12 @@ func TestMultiFileFitTriesEveryFile(t *testing.T) {
 	if _, err := os.Stat(out2); err == nil {
 		t.Error("a run that wrote nothing left its -o folder")
 	}
+	// The help states both codes, as the README does; it said "the exit
+	// code is 1" only, while the run above exits 2.
+	help, _, _ := runWeft(t, "fit", "--help")
+	if !strings.Contains(strings.Join(strings.Fields(help), " "), "the exit code is 1 (2 when every file was bad input and nothing was written)") {
+		t.Errorf("fit --help does not state the exit codes of a multi-file fit:\n%s", help)
+	}
 }
 
 // Finding 5: SIGINT and SIGTERM remove the temporary folder and the lock

@@ -103,15 +103,25 @@ type tableParser struct {
 	toKPa       float64 // multiplies a stress in the record's unit into kPa
 	intoTable   bool    // rows go to table, else to rec.Rows
 	table       *rawTable
-	// prevRow is the previous data row as read, and prevKey and key the
-	// cells of the previous and the current row's ignored columns
-	// (trimmed, each behind its length), reused from row to row, to count
-	// rows that repeat the one before: dupRows of them, the first on line
+	// prev holds, per protocol label, the protocol's previous data row as
+	// read and the cells of its ignored columns; last is the entry used
+	// for the row before, so a file that lists its protocols one after
+	// the other looks the map up only where the label changes. key is the
+	// current row's ignored cells (trimmed, each behind its length),
+	// reused from row to row. Together they count the rows that repeat
+	// their protocol's row before: dupRows of them, the first on line
 	// dupFirst.
-	prevRow      Row
-	prevKey, key []byte
-	dupRows      int
-	dupFirst     int
+	prev     map[string]*repeatState
+	last     *repeatState
+	key      []byte
+	dupRows  int
+	dupFirst int
+}
+
+// repeatState is a protocol's previous data row, for the repeat check.
+type repeatState struct {
+	row Row
+	key []byte // the row's ignored cells, as tableParser.key
 }
 
 // newTableParser starts reading a table. With intoTable the data rows are
@@ -357,12 +367,17 @@ func (p *tableParser) row(line int, fields []string) error {
 }
 
 // repeats counts a data row r whose every value equals the previous data
-// row's: each number read (time and cycle included), the protocol label and
-// the cells of the columns weft ignores (spaces around a cell aside). A
-// copied block of rows looks like data but is one measurement counted
-// twice; a state truly sampled twice differs at least in its time stamp.
-// The values read are compared as numbers, which costs nothing on the
-// parse's path; only the ignored cells are copied, usually none.
+// row of its protocol: each number read (time and cycle included), the
+// protocol label and the cells of the columns weft ignores (spaces around
+// a cell aside). A copied block of rows looks like data but is one
+// measurement counted twice; a state truly sampled twice differs at least
+// in its time stamp. The previous row is taken within the protocol, not
+// the file, because the rows of one protocol need not be contiguous: a
+// file that interleaves its protocols row by row holds the same data as
+// one that lists them in blocks, and must raise the same warning (compared
+// with the file's previous row, the copy went unnoticed there). The values
+// read are compared as numbers, which costs nothing on the parse's path;
+// only the ignored cells are copied, usually none.
 func (p *tableParser) repeats(r *Row, get func(col int) string) {
 	p.key = p.key[:0]
 	for i := range p.cols {
@@ -373,14 +388,27 @@ func (p *tableParser) repeats(r *Row, get func(col int) string) {
 		p.key = binary.AppendUvarint(p.key, uint64(len(f)))
 		p.key = append(p.key, f...)
 	}
-	if p.nRows > 0 && sameReading(r, &p.prevRow) && bytes.Equal(p.key, p.prevKey) {
+	st := p.last
+	if st == nil || st.row.Protocol != r.Protocol {
+		st = p.prev[r.Protocol]
+		if st == nil {
+			if p.prev == nil {
+				p.prev = make(map[string]*repeatState)
+			}
+			p.prev[r.Protocol] = &repeatState{row: *r, key: append([]byte(nil), p.key...)}
+			p.last = p.prev[r.Protocol]
+			return
+		}
+		p.last = st
+	}
+	if sameReading(r, &st.row) && bytes.Equal(p.key, st.key) {
 		if p.dupRows == 0 {
 			p.dupFirst = r.Line
 		}
 		p.dupRows++
 	}
-	p.prevRow = *r
-	p.key, p.prevKey = p.prevKey, p.key
+	st.row = *r
+	st.key = append(st.key[:0], p.key...)
 }
 
 // sameReading reports whether two rows hold the same label and numbers
@@ -403,7 +431,8 @@ func sameReading(a, b *Row) bool {
 	return true
 }
 
-// warnRepeats warns about the rows that repeat the row before them. They
+// warnRepeats warns about the rows that repeat their protocol's row before
+// them. They
 // are kept: the file may hold a state sampled twice, and dropping rows
 // would hide what the file says; the warning says what keeping them does.
 func (p *tableParser) warnRepeats() {
@@ -414,9 +443,9 @@ func (p *tableParser) warnRepeats() {
 	if p.sheet != "" {
 		lines = "row"
 	}
-	what := fmt.Sprintf("%d rows repeat the row before them exactly, every column equal (the first on %s %d)", p.dupRows, lines, p.dupFirst)
+	what := fmt.Sprintf("%d rows repeat their protocol's row before them exactly, every column equal (the first on %s %d)", p.dupRows, lines, p.dupFirst)
 	if p.dupRows == 1 {
-		what = fmt.Sprintf("the row on %s %d repeats the row before it exactly, every column equal", lines, p.dupFirst)
+		what = fmt.Sprintf("the row on %s %d repeats its protocol's row before it exactly, every column equal", lines, p.dupFirst)
 	}
 	p.rec.Warnings = append(p.rec.Warnings, Warning{File: p.file, Line: p.dupFirst, Sheet: p.sheet,
 		Message: what + "; repeated rows are kept, and where they are among the points fitted a repeated sample counts twice in the fit, which inflates the evidence for a model and narrows its intervals — delete the copies unless the specimen was truly sampled twice in the same state"})

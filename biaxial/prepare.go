@@ -39,6 +39,10 @@ const (
 	// directionFloor: cycles whose peak is below this fraction of the
 	// protocol's largest peak are too small to compare directions.
 	directionFloor = 0.25
+	// interleaveFloor: rows whose driving stretch is below this fraction
+	// of the protocol's largest are not compared for rows of two
+	// protocols written in turn (see interleaved).
+	interleaveFloor = 0.5
 	// rangeFloor: a normal component whose stress range is below this
 	// fraction of the protocol's largest normal range is weighted as if its
 	// range were that large, so an axis held near zero load does not
@@ -428,16 +432,79 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 	if why == "" {
 		a, b, why = r.directions(cycles)
 	}
-	if why == "" {
-		return nil
-	}
 	lines := "lines"
 	if r.rec.Sheet != "" {
 		lines = "rows"
 	}
+	if why == "" {
+		x, y, alt := r.interleaved()
+		if alt == "" {
+			return nil
+		}
+		return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: y, Err: ErrProtocol, Fix: "give each protocol its own label",
+			Msg: fmt.Sprintf("protocol %s: the rows at %s %d and %d %s; they look like two protocols under one label, written in turn, and would be fitted as one",
+				quote(r.g.label), lines, x, y, alt)}
+	}
 	return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: "give each protocol its own label",
 		Msg: fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
 			quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)}
+}
+
+// interleaved finds rows of one label that go back and forth between two
+// directions of stretch, as the rows of two protocols written in turn do
+// (the rows of a protocol need not be contiguous, so a file may interleave
+// its protocols; under one label two of them then make a single cycle
+// whose peak is one direction, which the comparison of cycles cannot see).
+// Only rows whose driving stretch is at least half the label's largest
+// take part, where tracking noise of the markers turns the direction of
+// F − I by far less than sameDirection. A return is a row more than
+// sameDirection from the row before it and within sameDirection/2 of a
+// row that one of the three previous such jumps left. A single loading path turns its
+// direction gradually, also under load control, and a stray row makes one
+// return; rows of two protocols in turn make one at almost every row. It
+// reports the lines of the first return's two rows, the one it goes back
+// to and the one it leaves, when at least 3 returns make at least a
+// quarter of the rows compared.
+func (r *protocolRows) interleaved() (x, y int, why string) {
+	if !(r.dmax > 0) {
+		return 0, 0, ""
+	}
+	// left holds the rows the last jumps left (a ring of len(left)), so
+	// that up to len(left)+1 protocols written in turn are recognised.
+	var left [3]int
+	var leftF [3][4]float64
+	nLeft := 0
+	prev := -1
+	var prevF [4]float64
+	first := [2]int{-1, -1}
+	n, returns := 0, 0
+	for i := 0; i < r.g.n; i++ {
+		if !(r.d[i] >= interleaveFloor*r.dmax) {
+			continue
+		}
+		n++
+		F := r.t.f(r.g, i)
+		if prev >= 0 && angleDeg(prevF, F) > sameDirection {
+			for k := range min(nLeft, len(left)) {
+				if angleDeg(leftF[k], F) <= sameDirection/2 {
+					returns++
+					if first[0] < 0 {
+						first = [2]int{left[k], prev}
+					}
+					break
+				}
+			}
+			left[nLeft%len(left)], leftF[nLeft%len(left)] = prev, prevF
+			nLeft++
+		}
+		prev, prevF = i, F
+	}
+	if returns < 3 || 4*returns < n {
+		return 0, 0, ""
+	}
+	u, v := r.t.point(r.g, first[0]), r.t.point(r.g, first[1])
+	return r.line(first[0]), r.line(first[1]), fmt.Sprintf("stretch the specimen in different directions (stretch_1 − 1 : stretch_2 − 1 is %.3g : %.3g and %.3g : %.3g), and %d of the label's %d rows above half its largest stretch go back to a direction it left",
+		u.Stretch1()-1, u.Stretch2()-1, v.Stretch1()-1, v.Stretch2()-1, returns, n)
 }
 
 // repeatedCycle finds a cycle number that comes back after other cycles,

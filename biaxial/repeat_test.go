@@ -33,7 +33,7 @@ func TestRepeatedRowsWarned(t *testing.T) {
 	if n := s.NumPoints(); n != 10 {
 		t.Errorf("%d points kept, want all 10 rows", n)
 	}
-	ws := warningsWith(s, "repeat the row before them exactly")
+	ws := warningsWith(s, "repeat their protocol's row before them exactly")
 	if len(ws) != 1 {
 		t.Fatalf("warnings %v; want one about 5 repeated rows", s.Warnings)
 	}
@@ -52,7 +52,7 @@ func TestRepeatedRowsWarned(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if ws := warningsWith(s, "repeats the row before it exactly"); len(ws) != 1 || ws[0].Line != 7 {
+	if ws := warningsWith(s, "repeats its protocol's row before it exactly"); len(ws) != 1 || ws[0].Line != 7 {
 		t.Errorf("one repeated row: warnings %v", s.Warnings)
 	}
 
@@ -121,5 +121,49 @@ func TestZeroShearColumnWarned(t *testing.T) {
 				t.Errorf("the zeros are kept as shear information, but HasShear is false")
 			}
 		}
+	}
+}
+
+// The rows of a protocol need not be contiguous (README, Input files), so
+// a copy is a row equal to its protocol's row before, not the file's: the
+// same synthetic data with a row of 1:0.5 written twice raise the same
+// warning whether the file lists its protocols in blocks or interleaves
+// them row by row. Interleaved, the copy follows a row of 1:1, and until
+// 2026-12-05 it went unwarned. A row repeating another protocol's row
+// before it, or its protocol's row further up, is still no copy.
+func TestRepeatedRowsWarnedInInterleavedProtocols(t *testing.T) {
+	a := []string{"1:1,1,1,0,0", "1:1,1.02,1.02,2,2", "1:1,1.04,1.04,5,5", "1:1,1.06,1.06,9,9", "1:1,1.08,1.08,14,14"}
+	b := []string{"1:0.5,1,1,0,0", "1:0.5,1.02,1.01,2,1", "1:0.5,1.04,1.02,5,2", "1:0.5,1.04,1.02,5,2", "1:0.5,1.06,1.03,9,4", "1:0.5,1.08,1.04,14,6"}
+	blocks := strings.Join(append(append([]string(nil), a...), b...), "\n") + "\n"
+	var inter strings.Builder
+	for i := range b {
+		if i < len(a) {
+			inter.WriteString(a[i] + "\n")
+		}
+		inter.WriteString(b[i] + "\n")
+	}
+	for _, c := range []struct {
+		name, rows string
+		line       int // the copy's line
+	}{{"blocks", blocks, 10}, {"interleaved", inter.String(), 9}} {
+		s, err := readString(goodHeader+c.rows, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ws := warningsWith(s, "repeats its protocol's row before it exactly")
+		if len(ws) != 1 || ws[0].Line != c.line {
+			t.Errorf("%s: warnings %v; want one, on line %d", c.name, s.Warnings, c.line)
+		}
+	}
+
+	// Not copies: 1:0.5's row repeats 1:1's row before it in the file
+	// (another protocol), and 1:1's last row repeats one of its rows
+	// further up.
+	s, err := readString(goodHeader+"1:1,1,1,0,0\n1:0.5,1,1,0,0\n1:1,1.02,1.02,2,2\n1:0.5,1.02,1.01,2,1\n1:1,1.04,1.04,5,5\n1:0.5,1.04,1.02,5,2\n1:1,1.06,1.06,9,9\n1:0.5,1.06,1.03,9,4\n1:1,1.08,1.08,14,14\n1:0.5,1.08,1.04,14,6\n1:1,1.06,1.06,9,9\n", Options{Branch: BranchAll})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ws := warningsWith(s, "exactly, every column equal"); len(ws) != 0 {
+		t.Errorf("no copies, but warned: %v", ws)
 	}
 }

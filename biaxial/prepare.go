@@ -5,6 +5,8 @@ import (
 	"math"
 	"sort"
 	"strings"
+
+	"gonum.org/v1/gonum/stat"
 )
 
 // Thresholds of the cycle detection and of the warnings, as fractions of a
@@ -222,6 +224,11 @@ type protocolRows struct {
 	sc         *scratch
 	d          []float64
 	dmin, dmax float64
+	// noise is the row-to-row scatter of the driving stretch, which sets
+	// how far it must move back to count as a turn; entryNoise the largest
+	// scatter of an entry of F, which sets how far apart two directions of
+	// stretch must be to differ (rowScatter).
+	noise, entryNoise float64
 }
 
 // scratch is working memory shared by the protocols of a table, which are
@@ -266,6 +273,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		rows.dmin = math.Min(rows.dmin, rows.d[i])
 		rows.dmax = math.Max(rows.dmax, rows.d[i])
 	}
+	rows.noise, rows.entryNoise = rows.rowScatter()
 	firstLine := rows.line(0)
 	perr := func(cat error, fix, format string, args ...any) *ParseError {
 		return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: firstLine, Err: cat, Fix: fix,
@@ -281,7 +289,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		cycles = rows.cyclesByColumn()
 	} else {
 		var lead int
-		cycles, lead = cyclesByTurns(rows.d, turnFraction*(rows.dmax-rows.dmin), sc.ident)
+		cycles, lead = cyclesByTurns(rows.d, rows.turnTol(), sc.ident)
 		if lead > 0 {
 			s.Notices = append(s.Notices, fmt.Sprintf("protocol %s: the first %d rows (from line %d) fall before the first loading and belong to no cycle", label, lead, firstLine))
 		}
@@ -427,7 +435,7 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 	if why == "" && r.rec.HasCycle {
 		// Numbered cycles can hide a second protocol inside one cycle: the
 		// directions are compared between the turns of the stretch.
-		cycles, _ = cyclesByTurns(r.d, turnFraction*(r.dmax-r.dmin), r.sc.ident)
+		cycles, _ = cyclesByTurns(r.d, r.turnTol(), r.sc.ident)
 	}
 	if why == "" {
 		a, b, why = r.directions(cycles)
@@ -551,7 +559,7 @@ func (r *protocolRows) directions(cycles []cycleSpan) (a, b [2]int, why string) 
 			continue
 		}
 		u, v := r.t.point(r.g, peak(cycles[ref])), r.t.point(r.g, peak(c))
-		if angleDeg(u.F, v.F) > sameDirection {
+		if angleDeg(u.F, v.F) > r.differentDeg(u.F, v.F) {
 			return span(cycles[ref]), span(c), fmt.Sprintf("stretch the specimen in different directions (at their peaks stretch_1 − 1 : stretch_2 − 1 is %.3g : %.3g and %.3g : %.3g)",
 				u.Stretch1()-1, u.Stretch2()-1, v.Stretch1()-1, v.Stretch2()-1)
 		}
@@ -571,6 +579,88 @@ func angleDeg(f, g [4]float64) float64 {
 	}
 	c := uv / math.Sqrt(uu*vv)
 	return math.Acos(math.Max(-1, math.Min(1, c))) * 180 / math.Pi
+}
+
+// Noisy stretches. Stretches derived from tracked markers scatter from row
+// to row. Where that scatter is more than a few per cent of a protocol's
+// range, a fixed hysteresis of turnFraction of the range took it for the
+// turns of cycles (a monotonic ramp of 60 rows to a strain of 0.15 with a
+// scatter of 0.004 in each entry of F became five "cycles", of which the
+// last, 6 rows, was kept), and directions compared at low stretch, where
+// the scatter turns F − I by more than sameDirection, for two protocols
+// under one label (4 of 5 such files were refused). The driving stretch's
+// scatter is estimated as the strain scatter is (scatter.go: the median
+// absolute third difference, 1.4826·median|Δ³d|/√20), as is each entry
+// of F's, and both tests widen with them.
+
+// turnNoise is how many standard deviations of the driving stretch's
+// scatter it must move back to count as a turn: the hysteresis of a ramp
+// of thousands of rows with Gaussian scatter then is almost never crossed.
+const turnNoise = 8
+
+// directionNoise is how many standard deviations of the angle that scatter
+// gives F − I two directions must differ by to count as different: the
+// angle between two noisy copies of one direction, in the four entries of
+// F, has a standard deviation of about √6·s/|F − I| radians for a scatter
+// s of each entry.
+const directionNoise = 4
+
+// rowScatter estimates the row-to-row scatter, in file order, of the
+// driving stretch and the largest of the four entries of F, each from its
+// third differences (1.4826·median|Δ³|/√20, as strainScatter), on at most
+// maxNoiseSamples of them evenly spaced; zeros for fewer than MinPoints
+// rows.
+func (r *protocolRows) rowScatter() (drive, entry float64) {
+	n := r.g.n - 3
+	if r.g.n < MinPoints || n < 1 {
+		return 0, 0
+	}
+	step := max(1, n/maxNoiseSamples)
+	var s [5][]float64
+	for i := 0; i < n; i += step {
+		var f [4][4]float64
+		for k := range f {
+			f[k] = r.t.f(r.g, i+k)
+		}
+		third := func(a, b, c, d float64) float64 { return math.Abs(d - 3*c + 3*b - a) }
+		s[0] = append(s[0], third(r.d[i], r.d[i+1], r.d[i+2], r.d[i+3]))
+		for e := range 4 {
+			s[1+e] = append(s[1+e], third(f[0][e], f[1][e], f[2][e], f[3][e]))
+		}
+	}
+	est := func(v []float64) float64 {
+		sort.Float64s(v)
+		return 1.4826 * stat.Quantile(0.5, stat.Empirical, v, nil) / math.Sqrt(20)
+	}
+	drive = est(s[0])
+	for e := 1; e < 5; e++ {
+		entry = math.Max(entry, est(s[e]))
+	}
+	return drive, entry
+}
+
+// maxNoiseSamples bounds the third differences rowScatter sorts, so that
+// a file of millions of rows costs no more than a few thousand a series.
+const maxNoiseSamples = 4096
+
+// turnTol is how far the driving stretch must move back from its running
+// extreme to count as a turn: turnFraction of its range, or turnNoise
+// times its scatter where that is more.
+func (r *protocolRows) turnTol() float64 {
+	return math.Max(turnFraction*(r.dmax-r.dmin), turnNoise*r.noise)
+}
+
+// differentDeg is the angle (degrees) by which the directions of stretch
+// of F and G must differ to count as different: sameDirection, or
+// directionNoise standard deviations of the angle the scatter gives the
+// shorter of F − I and G − I where that is more.
+func (r *protocolRows) differentDeg(f, g [4]float64) float64 {
+	norm := func(f [4]float64) float64 { return math.Hypot(math.Hypot(f[0]-1, f[1]), math.Hypot(f[2], f[3]-1)) }
+	m := math.Min(norm(f), norm(g))
+	if !(r.entryNoise > 0) || !(m > 0) {
+		return sameDirection
+	}
+	return math.Max(sameDirection, directionNoise*math.Sqrt(6)*r.entryNoise/m*180/math.Pi)
 }
 
 func keptWords(opt Options, n int) string {
@@ -788,8 +878,14 @@ func (r *protocolRows) checkDirection(s *Specimen, part []int, dir float64, tol 
 			what, verb = "unloading", "rises again"
 		}
 		label := r.g.label
-		s.warn(first, label, "protocol %s: in a %s branch the stretch %s by up to %.3g (%s, first on line %d) — check for slipping markers or grips, or an unmarked cycle",
-			label, what, verb, worst, plural(count, "row"), first)
+		cause := "check for slipping markers or grips, or an unmarked cycle"
+		if worst <= turnNoise*r.noise {
+			// Within what the row-to-row scatter explains (the turn
+			// hysteresis): say so, so that noise is not read as a slip.
+			cause = fmt.Sprintf("%.3g times the row-to-row scatter of the stretch (about %.2g): tracking noise of the markers, unless the grips or markers slip", worst/r.noise, r.noise)
+		}
+		s.warn(first, label, "protocol %s: in a %s branch the stretch %s by up to %.3g (%s, first on line %d) — %s",
+			label, what, verb, worst, plural(count, "row"), first, cause)
 	}
 }
 

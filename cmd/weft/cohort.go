@@ -453,6 +453,9 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 		in.Population = c.Population.Model
 		pc := card.FromFit(c.Pooled, c.Population, nil)
 		pc.Specimen = c.Pooled.Specimen.Name
+		// The pooled data do not carry the specimens' labels: the
+		// cohort's cards say synthetic when any specimen does.
+		pc.Cautions = card.CautionsFor(pc.Synthetic() || in.Synthetic())
 		cards[cohortreport.PopulationCard] = pc
 		if mm, err := aniso.MeanModel(fits, c.Population.Model); err == nil {
 			in.MeanParameters = mm
@@ -462,6 +465,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 			}
 			mc := card.FromModel(mm, unit, signs)
 			mc.Specimen = fmt.Sprintf("mean parameters of %d specimens", len(fits))
+			mc.Cautions = card.CautionsFor(in.Synthetic())
 			// The span the averaged specimens were tested over, with the
 			// fibre stretch along the mean model's own families: without
 			// it, check and evaluate could not say where the mean model

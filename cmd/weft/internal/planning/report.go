@@ -128,7 +128,7 @@ func NewReport(f *Folder, d *aniso.Design, notes []string) *Report {
 	pl := &Report{Format: Format, Specimen: c.Data.Specimen, Folder: f.dir, StressKind: c.Data.StressKind, StressUnit: c.Data.StressUnit,
 		Model: modelText(r), Noise: card.Num(d.Noise), PeakStretch: card.Num(d.PeakStretch), Points: d.Points, Parameters: d.Parameters,
 		SettleLevel: aniso.SettleLevel, InformationMargin: aniso.InformationMargin, ExtrapolationMargin: aniso.ExtrapolationMargin,
-		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.Cautions, Questions: []Question{}}
+		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.CautionsOf(c), Questions: []Question{}}
 	pl.NoiseText = fmt.Sprintf("standard deviation of the weighted residuals, sqrt(loss / (rows - %d)); about %.3g %% of a protocol's stress range per point at %d points", r.FreeParams, 100*d.Noise*math.Sqrt(float64(d.Points)), d.Points)
 	for i, q := range d.Questions {
 		// A fit of a chosen form has no verdict: a layout question is then

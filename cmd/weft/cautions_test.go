@@ -1,0 +1,120 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+// The cautions and the synthetic label reach every output a user or an FE
+// analyst receives of a card (README, "Cautions in detail": parameters are
+// research-grade and specimen-specific, valid within the tested range, not
+// for clinical decisions; example data are labelled synthetic). Before, a
+// card fitted to a file that says it is synthetic kept the label only in
+// its data section: the fit summary, export (every format), check,
+// evaluate and plan showed the cautions without it.
+
+// wantCautions fails t unless out holds every caution, with
+// card.SyntheticCaution exactly when synthetic.
+func wantCautions(t *testing.T, what, out string, synthetic bool) {
+	t.Helper()
+	for _, c := range card.Cautions {
+		if !strings.Contains(out, c) {
+			t.Errorf("%s: caution %q missing", what, c)
+		}
+	}
+	if got := strings.Contains(out, card.SyntheticCaution); got != synthetic {
+		t.Errorf("%s: synthetic caution shown %v, want %v", what, got, synthetic)
+	}
+}
+
+// cardOutputs runs every command that prints a card's results on the fit
+// of data and returns each output by name.
+func cardOutputs(t *testing.T, data, dir string) map[string]string {
+	t.Helper()
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "fit")
+	outs := map[string]string{}
+	text, errs, code := quickFit(t, data, out)
+	if code != 0 {
+		t.Fatalf("fit: exit %d: %s", code, errs)
+	}
+	outs["fit summary"] = text
+	js, errs, code := runWeft(t, "fit", data, "--preset", "neo-hookean", "-o", filepath.Join(dir, "fit-json"), "--quiet", "--json")
+	if code != 0 {
+		t.Fatalf("fit --json: exit %d: %s", code, errs)
+	}
+	outs["fit --json"] = js
+	model := filepath.Join(out, "model.json")
+	b, err := os.ReadFile(model)
+	if err != nil {
+		t.Fatal(err)
+	}
+	outs["model.json"] = string(b)
+	for _, f := range []string{"table", "csv", "json", "latex", "ufl"} {
+		outs["export "+f] = mustRun(t, "export", model, "--format", f)
+	}
+	outs["check"] = mustRun(t, "check", model)
+	outs["check --json"] = mustRun(t, "check", model, "--json")
+	outs["evaluate"] = mustRun(t, "evaluate", model, "--stretch", "1.1,1.05")
+	outs["evaluate --json"] = mustRun(t, "evaluate", model, "--stretch", "1.1,1.05", "--json")
+	outs["plan"] = mustRun(t, "plan", out)
+	outs["plan --json"] = mustRun(t, "plan", out, "--json")
+	return outs
+}
+
+// mustRun runs weft with args and returns its standard output; the exit
+// code must be 0.
+func mustRun(t *testing.T, args ...string) string {
+	t.Helper()
+	out, errs, code := runWeft(t, args...)
+	if code != 0 {
+		t.Fatalf("%v: exit %d: %s", args, code, errs)
+	}
+	return out
+}
+
+func TestEveryCardOutputCarriesCautionsAndSyntheticLabel(t *testing.T) {
+	dir := t.TempDir()
+	data := quickData(t, dir, "syn.csv") // its notes say "synthetic"
+	for what, out := range cardOutputs(t, data, filepath.Join(dir, "syn")) {
+		wantCautions(t, what, out, true)
+	}
+}
+
+func TestMeasuredDataCarryNoSyntheticLabel(t *testing.T) {
+	dir := t.TempDir()
+	p := quickData(t, dir, "m.csv")
+	b, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	data := writeTemp(t, "measured.csv", strings.Replace(string(b), "# notes = synthetic\n", "# notes = bench test 4\n", 1))
+	for what, out := range cardOutputs(t, data, filepath.Join(dir, "m")) {
+		wantCautions(t, what, out, false)
+	}
+}
+
+// A cohort's summary, cohort.json and its own cards (population and mean
+// parameters, whose data sections do not carry the specimens' labels) say
+// synthetic when its specimens do; export of the mean card keeps it.
+func TestCohortOutputsCarryCautionsAndSyntheticLabel(t *testing.T) {
+	dir := t.TempDir()
+	a, b := quickData(t, dir, "a.csv"), quickData(t, dir, "b.csv")
+	out := filepath.Join(dir, "cohort")
+	text := mustRun(t, "cohort", "-o", out, "--quiet", "--preset", "neo-hookean", "--no-specimen-reports", a, b)
+	wantCautions(t, "cohort summary", text, true)
+	for _, f := range []string{"cohort.json", "population.json", "mean-parameters.json"} {
+		bs, err := os.ReadFile(filepath.Join(out, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		wantCautions(t, f, string(bs), true)
+	}
+	wantCautions(t, "export of mean-parameters.json", mustRun(t, "export", filepath.Join(out, "mean-parameters.json")), true)
+}

@@ -15,7 +15,8 @@ import (
 // for clinical decisions; example data are labelled synthetic). Before, a
 // card fitted to a file that says it is synthetic kept the label only in
 // its data section: the fit summary, export (every format), check,
-// evaluate and plan showed the cautions without it.
+// evaluate and plan showed the cautions without it, and predict's CSV
+// showed no caution at all.
 
 // wantCautions fails t unless out holds every caution, with
 // card.SyntheticCaution exactly when synthetic.
@@ -63,6 +64,8 @@ func cardOutputs(t *testing.T, data, dir string) map[string]string {
 	outs["check --json"] = mustRun(t, "check", model, "--json")
 	outs["evaluate"] = mustRun(t, "evaluate", model, "--stretch", "1.1,1.05")
 	outs["evaluate --json"] = mustRun(t, "evaluate", model, "--stretch", "1.1,1.05", "--json")
+	path := writeTemp(t, "path.csv", "stretch_1,stretch_2\n1.05,1.02\n")
+	outs["predict"] = mustRun(t, "predict", model, path)
 	outs["plan"] = mustRun(t, "plan", out)
 	outs["plan --json"] = mustRun(t, "plan", out, "--json")
 	return outs
@@ -117,4 +120,25 @@ func TestCohortOutputsCarryCautionsAndSyntheticLabel(t *testing.T) {
 		wantCautions(t, f, string(bs), true)
 	}
 	wantCautions(t, "export of mean-parameters.json", mustRun(t, "export", filepath.Join(out, "mean-parameters.json")), true)
+}
+
+// predict's CSV says, in its own # lines, how many rows leave the card's
+// fitted data range (as export's warning does); before, a row at stretch
+// 1.6 × 1.5 of a card fitted to at most 1.15 returned 1.1e10 kPa unmarked.
+func TestPredictMarksRowsOutsideTheDataRange(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "fit")
+	if _, errs, code := quickFit(t, quickData(t, dir, "syn.csv"), out); code != 0 { // stretches up to 1.175
+		t.Fatalf("fit: exit %d: %s", code, errs)
+	}
+	path := writeTemp(t, "path.csv", "stretch_1,stretch_2\n1.05,1.02\n1.6,1.5\n1.1,1.1\n")
+	text, errs, code := runWeft(t, "predict", filepath.Join(out, "model.json"), path)
+	want := "1 of 3 rows lie outside the fitted data range"
+	if code != 0 || !strings.Contains(text, "# WARNING: "+want) || !strings.Contains(errs, want) {
+		t.Fatalf("exit %d\n%s\n%s", code, text, errs)
+	}
+	text, errs, _ = runWeft(t, "predict", filepath.Join(out, "model.json"), writeTemp(t, "in.csv", "stretch_1,stretch_2\n1.05,1.02\n"))
+	if strings.Contains(text, "WARNING") || strings.Contains(errs, "outside") {
+		t.Errorf("a row inside the range marked:\n%s\n%s", text, errs)
+	}
 }

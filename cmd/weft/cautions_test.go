@@ -142,3 +142,19 @@ func TestPredictMarksRowsOutsideTheDataRange(t *testing.T) {
 		t.Errorf("a row inside the range marked:\n%s\n%s", text, errs)
 	}
 }
+
+// The help of weft and of every command whose output holds a model's
+// numbers carries the cautions in the outputs' words (README, "Cautions in
+// detail"); before, check, evaluate, export and predict had none, and fit,
+// cohort, report and plan a shorter paraphrase without the regulations.
+func TestHelpCarriesTheCautions(t *testing.T) {
+	for _, cmd := range [][]string{{"--help"}, {"fit", "--help"}, {"cohort", "--help"}, {"report", "--help"}, {"plan", "--help"},
+		{"check", "--help"}, {"evaluate", "--help"}, {"export", "--help"}, {"predict", "--help"}} {
+		out := strings.Join(strings.Fields(mustRun(t, cmd...)), " ")
+		for _, c := range card.Cautions {
+			if !strings.Contains(out, c) {
+				t.Errorf("weft %s: caution %q missing", strings.Join(cmd, " "), c)
+			}
+		}
+	}
+}

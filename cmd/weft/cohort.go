@@ -75,8 +75,9 @@ A file that cannot be read or fitted gets a failed row and the others go on;
 the exit code is then 1 (2 when no file could be used, and nothing is
 written). The result does not depend on the order of the files.
 
-Parameters and statistics are research-grade and specimen-specific, valid
-only within the tested range, not for clinical decisions.`,
+The statistics describe the specimens tested, not a population.
+
+` + helpCautions,
 		Example: `  # discover one form for every specimen of a study
   weft cohort study/*.csv -o study-cohort
 

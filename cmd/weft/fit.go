@@ -93,8 +93,7 @@ with exit code 2. A second weft run writing the same folder at the same time
 stops at once. With several DATA files every file is tried; the failures are
 listed at the end and the exit code is 1.
 
-Parameters are research-grade and specimen-specific, valid only within the
-tested range, not for clinical decisions.`,
+` + helpCautions,
 		Example: `  # discover the model of one specimen
   weft fit skin-A.csv
 

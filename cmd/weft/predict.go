@@ -51,7 +51,9 @@ Appended columns, each with the card's stress unit in brackets:
 Nominal stress is first Piola-Kirchhoff, P = sigma F^-T, so nominal_12 is the
 force along axis 1 per reference area normal to axis 2. The output starts
 with '#' lines: the card's cautions and how many rows leave its fitted data
-range.`,
+range.
+
+` + helpCautions,
 		Example: `  weft predict model.json path.csv
   weft predict out/model.json testdata/example/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),

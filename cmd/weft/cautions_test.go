@@ -158,3 +158,35 @@ func TestHelpCarriesTheCautions(t *testing.T) {
 		}
 	}
 }
+
+// plan --write replaces the specimen's notes with its own, and a file
+// whose notes were its only synthetic label (quickData's) lost it: the
+// planned path of a synthetic fit now says so in its notes (README: example
+// data are labelled synthetic); a measured fit's does not.
+func TestPlannedPathKeepsTheSyntheticLabel(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range []struct {
+		notes     string
+		synthetic bool
+	}{{"synthetic", true}, {"bench test 4", false}} {
+		p := quickData(t, dir, "p.csv")
+		b, err := os.ReadFile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		data := writeTemp(t, "d.csv", strings.Replace(string(b), "# notes = synthetic\n", "# notes = "+c.notes+"\n", 1))
+		out := filepath.Join(dir, "fit-"+strings.Fields(c.notes)[0])
+		if _, errs, code := quickFit(t, data, out); code != 0 {
+			t.Fatalf("fit: exit %d: %s", code, errs)
+		}
+		path := filepath.Join(dir, "next-"+strings.Fields(c.notes)[0]+".csv")
+		mustRun(t, "plan", out, "--write", path)
+		bs, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.Contains(strings.ToUpper(string(bs)), "SYNTHETIC"); got != c.synthetic {
+			t.Errorf("notes %q: planned path says synthetic %v, want %v:\n%s", c.notes, got, c.synthetic, bs)
+		}
+	}
+}

@@ -362,6 +362,11 @@ func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 			note += "; the fit does not know the sign of its fibre angles, so the sign of this shear is not known either (a family at the opposite angle shears the other way)"
 		}
 	}
+	if f.card.Synthetic() {
+		// The file's notes replace the specimen's, which may have been
+		// the only place its data said they were synthetic.
+		note += "; planned from a model fitted to SYNTHETIC data (invented, not measured)"
+	}
 	meta("notes", note)
 	if tissue := f.card.Data.Tissue; tissue != "" {
 		meta("tissue", tissue)

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"html"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -16,7 +18,7 @@ import (
 // card fitted to a file that says it is synthetic kept the label only in
 // its data section: the fit summary, export (every format), check,
 // evaluate and plan showed the cautions without it, and predict's CSV
-// showed no caution at all.
+// and plan's --plot figure showed no caution at all.
 
 // wantCautions fails t unless out holds every caution, with
 // card.SyntheticCaution exactly when synthetic.
@@ -68,8 +70,22 @@ func cardOutputs(t *testing.T, data, dir string) map[string]string {
 	outs["predict"] = mustRun(t, "predict", model, path)
 	outs["plan"] = mustRun(t, "plan", out)
 	outs["plan --json"] = mustRun(t, "plan", out, "--json")
+	svg := filepath.Join(dir, "next.svg")
+	mustRun(t, "plan", out, "--plot", svg)
+	b, err = os.ReadFile(svg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var words []string // the figure's text, its lines joined
+	for _, m := range svgText.FindAllStringSubmatch(string(b), -1) {
+		words = append(words, html.UnescapeString(m[1]))
+	}
+	outs["plan --plot"] = strings.Join(words, " ")
 	return outs
 }
+
+// svgText matches a text element of an SVG and captures its content.
+var svgText = regexp.MustCompile(`<text[^>]*>([^<]*)</text>`)
 
 // mustRun runs weft with args and returns its standard output; the exit
 // code must be 0.

@@ -206,3 +206,22 @@ func TestPlannedPathKeepsTheSyntheticLabel(t *testing.T) {
 		}
 	}
 }
+
+// inspect's table says when a file says its data are synthetic, as the card
+// and the report of a fit to it do (README: example data are labelled
+// synthetic); before, only --json's metadata held the word.
+func TestInspectLabelsSyntheticData(t *testing.T) {
+	dir := t.TempDir()
+	p := quickData(t, dir, "s.csv")
+	if out := mustRun(t, "inspect", p); !strings.Contains(out, "label:      SYNTHETIC") {
+		t.Errorf("synthetic file without the label:\n%s", out)
+	}
+	b, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := writeTemp(t, "m.csv", strings.Replace(string(b), "# notes = synthetic\n", "# notes = bench test 4\n", 1))
+	if out := mustRun(t, "inspect", m); strings.Contains(out, "SYNTHETIC") {
+		t.Errorf("measured file labelled synthetic:\n%s", out)
+	}
+}

@@ -62,6 +62,13 @@ func cardOutputs(t *testing.T, data, dir string) map[string]string {
 	for _, f := range []string{"table", "csv", "json", "latex", "ufl"} {
 		outs["export "+f] = mustRun(t, "export", model, "--format", f)
 	}
+	// The UFL module's docstring, which help(module) shows without the
+	// comment lines above it, carries them too.
+	if parts := strings.SplitN(outs["export ufl"], `"""`, 3); len(parts) == 3 {
+		outs["export ufl docstring"] = strings.Join(strings.Fields(parts[1]), " ")
+	} else {
+		t.Errorf("export ufl: no docstring")
+	}
 	outs["check"] = mustRun(t, "check", model)
 	outs["check --json"] = mustRun(t, "check", model, "--json")
 	outs["evaluate"] = mustRun(t, "evaluate", model, "--stretch", "1.1,1.05")

@@ -41,6 +41,57 @@ var Cautions = []string{
 	"Not for clinical decisions. Follow the regulations and standards that apply (for example to medical devices) and licensed professional practice.",
 }
 
+// SyntheticCaution leads the cautions of a card whose data say they are
+// synthetic (CautionsOf), so that a reader of any output of the card, not
+// only of its data section, learns that no tissue was measured.
+const SyntheticCaution = "SYNTHETIC data: the data this model was fitted to say they are synthetic (invented, not measured), so its parameters describe no real tissue."
+
+// SaysSynthetic reports whether any of texts contains the word
+// "synthetic" in any case: the label weft's demo files carry in their
+// tissue and notes, and the one the README asks of example data.
+func SaysSynthetic(texts ...string) bool {
+	for _, t := range texts {
+		if strings.Contains(strings.ToUpper(t), "SYNTHETIC") {
+			return true
+		}
+	}
+	return false
+}
+
+// Synthetic reports whether c's cautions already hold SyntheticCaution (as
+// a cohort's mean-parameter card, which has no data section, may) or its
+// data section says its data are synthetic (specimen, source, tissue, notes
+// or notices).
+func (c *Card) Synthetic() bool {
+	for _, s := range c.Cautions {
+		if s == SyntheticCaution {
+			return true
+		}
+	}
+	d := c.Data
+	if d == nil {
+		return false
+	}
+	return SaysSynthetic(append([]string{d.Specimen, d.Source, d.Tissue, d.Notes}, d.Notices...)...)
+}
+
+// CautionsOf returns the cautions every output of c shows: Cautions, led by
+// SyntheticCaution when c.Synthetic(). It is computed from the card's data,
+// so a card written before SyntheticCaution existed is labelled too.
+func CautionsOf(c *Card) []string {
+	return CautionsFor(c != nil && c.Synthetic())
+}
+
+// CautionsFor returns Cautions, led by SyntheticCaution when synthetic: for
+// outputs whose data are not one card's (a cohort's summary and its
+// population and mean-parameter cards).
+func CautionsFor(synthetic bool) []string {
+	if !synthetic {
+		return Cautions
+	}
+	return append([]string{SyntheticCaution}, Cautions...)
+}
+
 // Conventions states, in the card itself, how to read its numbers.
 type Conventions struct {
 	Angle          string `json:"angle"`

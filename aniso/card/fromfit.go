@@ -32,6 +32,7 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 	c.DataRange = NewDataRange(p, r.Model)
 	c.Alternatives = NewAlternativesSection(r.Model, s.StressUnit, signs)
 	c.Data = NewDataSection(s)
+	c.Cautions = CautionsOf(c)
 	c.Setup = NewSetup(s)
 	if sp, err := aniso.Split(p, r.Model); err == nil {
 		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")

@@ -59,7 +59,9 @@ func newCheckCmd(s *streams) *cobra.Command {
 
 Exit code 1 when a check fails, naming the failing point; 0 when all pass;
 2 on bad input. Grid points where the energy is not finite (beyond a limiting
-extensibility, or an exponential overflow) are counted and warned about.`,
+extensibility, or an exponential overflow) are counted and warned about.
+
+` + helpCautions,
 		Example: `  weft check model.json
   weft check model.json --range 0.9,1.3 --json`,
 		Args: exactArgs(1),

@@ -75,8 +75,9 @@ A file that cannot be read or fitted gets a failed row and the others go on;
 the exit code is then 1 (2 when no file could be used, and nothing is
 written). The result does not depend on the order of the files.
 
-Parameters and statistics are research-grade and specimen-specific, valid
-only within the tested range, not for clinical decisions.`,
+The statistics describe the specimens tested, not a population.
+
+` + helpCautions,
 		Example: `  # discover one form for every specimen of a study
   weft cohort study/*.csv -o study-cohort
 
@@ -453,6 +454,9 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 		in.Population = c.Population.Model
 		pc := card.FromFit(c.Pooled, c.Population, nil)
 		pc.Specimen = c.Pooled.Specimen.Name
+		// The pooled data do not carry the specimens' labels: the
+		// cohort's cards say synthetic when any specimen does.
+		pc.Cautions = card.CautionsFor(pc.Synthetic() || in.Synthetic())
 		cards[cohortreport.PopulationCard] = pc
 		if mm, err := aniso.MeanModel(fits, c.Population.Model); err == nil {
 			in.MeanParameters = mm
@@ -462,6 +466,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 			}
 			mc := card.FromModel(mm, unit, signs)
 			mc.Specimen = fmt.Sprintf("mean parameters of %d specimens", len(fits))
+			mc.Cautions = card.CautionsFor(in.Synthetic())
 			// The span the averaged specimens were tested over, with the
 			// fibre stretch along the mean model's own families: without
 			// it, check and evaluate could not say where the mean model

@@ -38,7 +38,9 @@ contribute only while their family is stretched (I4 > 1); exactly at I4 = 1
 the tangent without them is printed.
 
 --stretch L1,L2 is short for --deformation L1,0,0,L2. (--F is the former
-name of --deformation and still works.)`,
+name of --deformation and still works.)
+
+` + helpCautions,
 		Example: `  weft evaluate model.json --stretch 1.2,1.1
   weft evaluate model.json --deformation 1.1,0.05,0,0.95 --json`,
 		Args: exactArgs(1),

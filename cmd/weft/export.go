@@ -70,7 +70,9 @@ Python module for FEniCS: psi(F, bulk_modulus=None, model=...) returns the
 card's strain energy as a UFL expression of a 3x3 F, with the switches,
 dispersion and every number of the card, for automatic differentiation.
 
-export --schema prints the JSON Schema (draft 2020-12) of model cards.`,
+export --schema prints the JSON Schema (draft 2020-12) of model cards.
+
+` + helpCautions,
 		Example: `  weft export model.json
   weft export model.json --format csv -o verify.csv
   weft export model.json --format latex -o params.tex

@@ -169,10 +169,7 @@ func TestExportAgreesWithPredict(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("predict exit %d: %s", code, errs)
 	}
-	prows, err := csv.NewReader(strings.NewReader(pout)).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, prows := readExportCSV(t, pout) // the cautions are # lines, as export's
 	if len(prows) != len(rows) {
 		t.Fatalf("predict %d rows, export %d", len(prows), len(rows))
 	}
@@ -428,7 +425,7 @@ func TestEvaluate(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("predict: %s", errs)
 	}
-	rows, _ := csv.NewReader(strings.NewReader(pout)).ReadAll()
+	_, rows := readExportCSV(t, pout)
 	nominal := func(row []string) [4]float64 { // F order (11, 12, 21, 22)
 		return [4]float64{parseNum(t, row[7]), parseNum(t, row[9]), parseNum(t, row[10]), parseNum(t, row[8])}
 	}

@@ -94,8 +94,7 @@ stops at once. With several DATA files every file is tried; the failures are
 listed at the end and the exit code is 1 (2 when every file was bad input
 and nothing was written).
 
-Parameters are research-grade and specimen-specific, valid only within the
-tested range, not for clinical decisions.`,
+` + helpCautions,
 		Example: `  # discover the model of one specimen
   weft fit skin-A.csv
 

@@ -136,7 +136,7 @@ func TestFitDemoEndToEnd(t *testing.T) {
 		if pcode != 0 {
 			t.Fatalf("predict on the fitted card: exit %d: %s", pcode, perrs)
 		}
-		prows, _ := csv.NewReader(strings.NewReader(pout)).ReadAll()
+		_, prows := readExportCSV(t, pout)
 		col := map[string]int{}
 		for i, h := range rows[0] {
 			col[h] = i

@@ -67,9 +67,9 @@ Tests that settle something the verdict left open come first, unless
 another test's gain is larger by more than ln 10.
 
 The scores rest on the fitted model's own predictions: the ranking holds if
-the model's family is right. Parameters are research-grade and
-specimen-specific, valid only within the tested range, not for clinical
-decisions.`,
+the model's family is right.
+
+` + helpCautions,
 		Example: `  # the ranked table
   weft plan membrane-M1.weft
 

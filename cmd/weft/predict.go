@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -48,7 +49,11 @@ with '#' are comments.
 Appended columns, each with the card's stress unit in brackets:
   cauchy_11, cauchy_22, cauchy_12, nominal_11, nominal_22, nominal_12, nominal_21
 Nominal stress is first Piola-Kirchhoff, P = sigma F^-T, so nominal_12 is the
-force along axis 1 per reference area normal to axis 2.`,
+force along axis 1 per reference area normal to axis 2. The output starts
+with '#' lines: the card's cautions and how many rows leave its fitted data
+range.
+
+` + helpCautions,
 		Example: `  weft predict model.json path.csv
   weft predict out/model.json testdata/example/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
@@ -75,7 +80,7 @@ func runPredict(o *predictOptions) error {
 		return outputError(err)
 	}
 	defer res.Close()
-	c, m, err := readCard(o.model, o.cardLimits)
+	c, m, dr, err := readCardWithRange(o.model, o.cardLimits)
 	if err != nil {
 		return err
 	}
@@ -84,8 +89,12 @@ func runPredict(o *predictOptions) error {
 		return err
 	}
 	var buf bytes.Buffer
-	if err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, &buf); err != nil {
+	outside, rows, err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, dr, &buf)
+	if err != nil {
 		return err
+	}
+	if outside > 0 {
+		fmt.Fprintf(o.ErrOut, "weft: warning: %s: %s\n", o.model, outsideRowsText(outside, rows))
 	}
 	// The rows hold the card's own model; where the layout is
 	// undetermined the alternatives would give other shear stresses.
@@ -125,25 +134,29 @@ func headerName(h string) string {
 }
 
 // predictCSV evaluates m on every row of a kinematics CSV and writes the
-// rows with stresses appended. Any bad row is an input error naming its line
+// rows with stresses appended, after comment lines with the card's
+// cautions (card.CautionsOf) and, when rows leave the fitted data range dr
+// (nil: unknown), how many: a CSV is often read without the card, so the
+// file itself says where it may be used. It returns the number of rows
+// outside dr and of rows. Any bad row is an input error naming its line
 // and column; nothing is written then.
-func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Writer) error {
+func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, w io.Writer) (outside, rows int, err error) {
 	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	header, err := cr.Read()
 	if err != nil {
 		if errors.Is(err, io.EOF) {
-			return badInputf("%s: empty file; expected a header with stretch_1,stretch_2 or F11,F12,F21,F22", file)
+			return 0, 0, badInputf("%s: empty file; expected a header with stretch_1,stretch_2 or F11,F12,F21,F22", file)
 		}
-		return badInputf("%s: %v", file, err)
+		return 0, 0, badInputf("%s: %v", file, err)
 	}
 	col := map[string]int{}
 	for i, h := range header {
 		name := headerName(h)
 		if _, dup := col[name]; dup {
 			line, _ := cr.FieldPos(i)
-			return badInputf("%s:%d:%d: column %s appears twice; keep one", file, line, i+1, quoteArg(name))
+			return 0, 0, badInputf("%s:%d:%d: column %s appears twice; keep one", file, line, i+1, quoteArg(name))
 		}
 		col[name] = i
 	}
@@ -153,7 +166,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 		for _, n := range []string{"f11", "f12", "f21", "f22"} {
 			i, ok := col[n]
 			if !ok {
-				return badInputf("%s:1: column F11 is present but %s is missing; give all four of F11,F12,F21,F22", file, strings.ToUpper(n[:1])+n[1:])
+				return 0, 0, badInputf("%s:1: column F11 is present but %s is missing; give all four of F11,F12,F21,F22", file, strings.ToUpper(n[:1])+n[1:])
 			}
 			idx = append(idx, i)
 		}
@@ -161,7 +174,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 		i1, ok1 := col["stretch_1"]
 		i2, ok2 := col["stretch_2"]
 		if !ok1 || !ok2 {
-			return badInputf("%s:1: no kinematics columns; give stretch_1,stretch_2 or F11,F12,F21,F22", file)
+			return 0, 0, badInputf("%s:1: no kinematics columns; give stretch_1,stretch_2 or F11,F12,F21,F22", file)
 		}
 		idx, stretch = []int{i1, i2}, true
 	}
@@ -178,18 +191,18 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 			break
 		}
 		if err != nil {
-			return badInputf("%s: %v", file, err)
+			return 0, 0, badInputf("%s: %v", file, err)
 		}
 		line, _ := cr.FieldPos(0)
 		var v [4]float64
 		for j, i := range idx {
 			if i >= len(rec) {
-				return badInputf("%s:%d: the row has %d fields; column %s is missing", file, line, len(rec), quoteArg(header[i]))
+				return 0, 0, badInputf("%s:%d: the row has %d fields; column %s is missing", file, line, len(rec), quoteArg(header[i]))
 			}
 			x, err := biaxial.ParseNumber(strings.TrimSpace(rec[i]))
 			if err != nil || x > 1e300 || x < -1e300 {
 				_, cc := cr.FieldPos(i)
-				return badInputf("%s:%d:%d: %s in column %s is not a finite decimal number", file, line, cc, quoteArg(rec[i]), quoteArg(header[i]))
+				return 0, 0, badInputf("%s:%d:%d: %s in column %s is not a finite decimal number", file, line, cc, quoteArg(rec[i]), quoteArg(header[i]))
 			}
 			v[j] = x
 		}
@@ -197,15 +210,19 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 		if stretch {
 			F = [4]float64{v[0], 0, 0, v[1]}
 			if v[0] <= 0 || v[1] <= 0 {
-				return badInputf("%s:%d: stretches %g, %g must be > 0", file, line, v[0], v[1])
+				return 0, 0, badInputf("%s:%d: stretches %g, %g must be > 0", file, line, v[0], v[1])
 			}
 		}
 		if det := F[0]*F[3] - F[1]*F[2]; det <= 0 {
-			return badInputf("%s:%d: det F = F11·F22 − F12·F21 = %g ≤ 0, which would invert the material; check the column order and signs", file, line, det)
+			return 0, 0, badInputf("%s:%d: det F = F11·F22 − F12·F21 = %g ≤ 0, which would invert the material; check the column order and signs", file, line, det)
 		}
 		resp, err := m.Evaluate(F)
 		if err != nil {
-			return badInputf("%s:%d: %v", file, line, err)
+			return 0, 0, badInputf("%s:%d: %v", file, line, err)
+		}
+		rows++
+		if dr != nil && len(dr.Outside(m, F)) > 0 {
+			outside++
 		}
 		row := append([]string(nil), rec...)
 		for _, x := range []float64{resp.Cauchy[0], resp.Cauchy[1], resp.Cauchy[2], resp.Nominal[0], resp.Nominal[1], resp.Nominal[2], resp.Nominal[3]} {
@@ -215,8 +232,27 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, w io.Wri
 	}
 	cw.Flush()
 	if err := cw.Error(); err != nil {
-		return err
+		return 0, 0, err
 	}
-	_, err = w.Write(out.Bytes())
-	return err
+	var b bytes.Buffer
+	what := "a model card"
+	if c.Specimen != "" {
+		what = "the model card of " + c.Specimen
+	}
+	fmt.Fprintf(&b, "# weft predict: stresses of %s along %s; lines starting with # are comments\n", strings.ReplaceAll(what, "\n", " "), filepath.Base(file))
+	for _, cn := range card.CautionsOf(c) {
+		fmt.Fprintf(&b, "# CAUTION: %s\n", cn)
+	}
+	if outside > 0 {
+		fmt.Fprintf(&b, "# WARNING: %s\n", outsideRowsText(outside, rows))
+	}
+	b.Write(out.Bytes())
+	_, err = w.Write(b.Bytes())
+	return outside, rows, err
+}
+
+// outsideRowsText says how many of rows lie outside the card's fitted data
+// range, in the words of export's warning.
+func outsideRowsText(outside, rows int) string {
+	return fmt.Sprintf("%d of %d rows lie outside the fitted data range (data_range); there the model extrapolates", outside, rows)
 }

@@ -51,8 +51,7 @@ traceability, every plot and the cautions. plots/ holds each plot as SVG;
 
 weft fit already writes the report, so replacing it needs --force.
 
-Parameters are research-grade and specimen-specific, valid only within the
-tested range, not for clinical decisions.`,
+` + helpCautions,
 		Example: `  # plot against Green strain E = (λ² − 1)/2 instead of stretch
   weft report skin-A.weft --strain --force
 

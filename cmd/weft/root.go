@@ -4,7 +4,35 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+
+	"github.com/weft-tools/weft/aniso/card"
 )
+
+// helpCautions is card.Cautions as one paragraph wrapped for --help: the
+// help of weft and of every command whose output holds a model's numbers
+// ends with it, so that the help repeats the outputs' wording instead of
+// paraphrasing it.
+var helpCautions = wrapWords(strings.Join(card.Cautions, " "), 76)
+
+// wrapWords breaks s into lines of at most width characters (runes) at
+// spaces; a word longer than width stands on its own line.
+func wrapWords(s string, width int) string {
+	var b strings.Builder
+	n := 0
+	for _, w := range strings.Fields(s) {
+		l := len([]rune(w))
+		if n > 0 && n+1+l > width {
+			b.WriteByte('\n')
+			n = 0
+		} else if n > 0 {
+			b.WriteByte(' ')
+			n++
+		}
+		b.WriteString(w)
+		n += l
+	}
+	return b.String()
+}
 
 // newRootCmd builds the command tree; every subcommand writes to s.
 func newRootCmd(s *streams) *cobra.Command {
@@ -19,9 +47,7 @@ Exit codes: 0 success; 1 the run failed (a check failed, a fit did not
 succeed, an output could not be written, or the run was interrupted); 2 bad
 input (nothing written).
 
-Parameters are research-grade and specimen-specific, valid only within the
-tested range, and not for clinical decisions; follow the regulations,
-standards and licensed professional practice that apply.`,
+` + helpCautions,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		// The module version and version-control revision of this build

@@ -117,18 +117,15 @@ func cell(x card.Num, n int) string {
 }
 
 func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pageView {
-	v := &pageView{Title: title, Files: len(s.Specimens), Cautions: s.Cautions, Notes: s.Notes, Trace: report.TraceFacts(s.Provenance, "")}
+	v := &pageView{Title: title, Files: len(s.Specimens), Synthetic: in.Synthetic(), Cautions: s.Cautions, Notes: s.Notes, Trace: report.TraceFacts(s.Provenance, "")}
 	if p := s.Provenance; p != nil {
 		v.Version = p.VersionText()
 	}
-	for i, r := range s.Specimens {
+	for _, r := range s.Specimens {
 		if r.Status == StatusOK {
 			v.OK++
 		} else {
 			v.Failed++
-		}
-		if sp := in.Specimens[i].Problem; sp != nil && strings.Contains(strings.ToUpper(strings.Join([]string{sp.Specimen.Meta["notes"], sp.Specimen.Meta["tissue"], sp.Specimen.Name}, " ")), "SYNTHETIC") {
-			v.Synthetic = true
 		}
 	}
 	v.FormText = fmt.Sprintf("%s form %s: %s.", strings.ToUpper(s.Form.How[:1])+s.Form.How[1:], s.Form.Key, strings.Join(s.Form.Terms, " + "))

@@ -221,7 +221,7 @@ func (c Comparison) Label() string {
 
 // Build summarises a cohort.
 func Build(in *Input) *Summary {
-	s := &Summary{Format: Format, Cautions: cohortCautions(), StressUnit: in.StressUnit, StressKind: in.StressKind, GroupBy: in.GroupBy,
+	s := &Summary{Format: Format, Cautions: cohortCautions(in.Synthetic()), StressUnit: in.StressUnit, StressKind: in.StressKind, GroupBy: in.GroupBy,
 		Specimens: []SpecimenRow{}, Stats: []StatRow{}, Comparisons: []Comparison{}, Notes: []string{}}
 	s.Form = formInfo(in.Cohort)
 	s.Verdict = verdictInfo(in.Cohort)
@@ -251,9 +251,20 @@ var statisticsNotes = []string{
 	"Comparing many parameters inflates false positives: read p_holm (Holm 1979, over every parameter compared by the same test), not p.",
 }
 
+// Synthetic reports whether any specimen's data say they are synthetic
+// (notes, tissue or name; card.SaysSynthetic).
+func (in *Input) Synthetic() bool {
+	for _, sp := range in.Specimens {
+		if p := sp.Problem; p != nil && card.SaysSynthetic(p.Specimen.Meta["notes"], p.Specimen.Meta["tissue"], p.Specimen.Name) {
+			return true
+		}
+	}
+	return false
+}
+
 // cohortCautions are the cards' cautions with the cohort's own.
-func cohortCautions() []string {
-	return append(append([]string(nil), card.Cautions...),
+func cohortCautions(synthetic bool) []string {
+	return append(append([]string(nil), card.CautionsFor(synthetic)...),
 		"Group statistics describe the specimens tested; they are not a population reference, and the population model is not an average tissue for clinical use.")
 }
 

@@ -149,7 +149,7 @@ type checkAlternative struct {
 // CheckCard performs every check.
 func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid, dr *card.DataRange) (*CheckReport, error) {
 	rep := &CheckReport{Format: checkFormat, Model: filepath.Base(file), StressUnit: c.StressUnit, Failures: []string{}, Warnings: []string{},
-		Notices: []string{}, DataRange: dr, Cautions: card.Cautions, MatrixWeight: card.Num(m.MatrixWeight())}
+		Notices: []string{}, DataRange: dr, Cautions: card.CautionsOf(c), MatrixWeight: card.Num(m.MatrixWeight())}
 	u := c.StressUnit
 	names := familyNames(m)
 	alts, err := c.AlternativeModels(m)
@@ -531,7 +531,7 @@ func passText(ok bool) string {
 func PrintCheck(w io.Writer, r *CheckReport) {
 	u := r.StressUnit
 	fmt.Fprintf(w, "weft check of %s (stresses and moduli in %s)\n\n", r.Model, u)
-	printCautions(w)
+	printCautions(w, r.Cautions)
 	fmt.Fprintln(w)
 	fmt.Fprintf(w, "1. Stress-free reference          %s  max |sigma(I)| = %.3g %s (tolerance %.3g %s)\n", passText(r.Reference.Passed), r.Reference.MaxAbsCauchy, u, r.Reference.Tolerance, u)
 	poly := "all terms polyconvex"

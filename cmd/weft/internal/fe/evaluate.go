@@ -84,7 +84,7 @@ func Evaluate(file string, c *card.Card, m *aniso.Model, F [4]float64, dr *card.
 		F:        map[string]float64{"11": F[0], "12": F[1], "21": F[2], "22": F[3]},
 		Cauchy:   map[string]float64{"11": r.Cauchy[0], "22": r.Cauchy[1], "12": r.Cauchy[2]},
 		Nominal:  map[string]float64{"11": r.Nominal[0], "22": r.Nominal[1], "12": r.Nominal[2], "21": r.Nominal[3]},
-		Families: []EvalFamily{}, Warnings: []string{}, Notices: []string{}, Cautions: card.Cautions}
+		Families: []EvalFamily{}, Warnings: []string{}, Notices: []string{}, Cautions: card.CautionsOf(c)}
 	names := familyNames(m)
 	for i, f := range m.Families {
 		fk := k.Fibre(f.Angle)
@@ -185,5 +185,5 @@ func PrintEvaluation(w io.Writer, r *Evaluation) {
 		fmt.Fprintln(w, "\nNotice: "+s)
 	}
 	fmt.Fprintln(w)
-	printCautions(w)
+	printCautions(w, r.Cautions)
 }

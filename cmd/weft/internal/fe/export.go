@@ -179,7 +179,7 @@ func parameters(m *aniso.Model, unit string) ([]ExportParam, *card.Card) {
 func BuildExport(file string, c *card.Card, m *aniso.Model, dr *card.DataRange, opt ExportOptions) (*ExportDoc, error) {
 	params, fc := parameters(m, c.StressUnit)
 	doc := &ExportDoc{Format: exportFormat, Model: filepath.Base(file), Specimen: c.Specimen, StressUnit: c.StressUnit,
-		Cautions: card.Cautions, Energy: fc.Energy, EnergyLaTeX: fc.EnergyLaTeX, Conventions: card.StandardConventions,
+		Cautions: card.CautionsOf(c), Energy: fc.Energy, EnergyLaTeX: fc.EnergyLaTeX, Conventions: card.StandardConventions,
 		Parameters: params, DataRange: dr, Absent: []ExportAbsent{}, Warnings: []string{}, Notices: []string{}}
 	shown, err := exportAlternatives(doc, file, c, m, opt)
 	if err != nil {
@@ -490,7 +490,7 @@ func WriteExportTable(w io.Writer, d *ExportDoc) {
 		fmt.Fprintf(w, "specimen: %s\n", d.Specimen)
 	}
 	fmt.Fprintf(w, "stress unit: %s (every weight and stress below)\n\n", d.StressUnit)
-	printCautions(w)
+	printCautions(w, d.Cautions)
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "PARAMETERS")
 	writeParamTable(w, d.Parameters, d.StressUnit)

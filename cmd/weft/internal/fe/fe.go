@@ -43,10 +43,11 @@ func outsideRange(dr *card.DataRange, m *aniso.Model, F [4]float64) []string {
 // noRangeNotice is printed when a card has no data_range section.
 const noRangeNotice = "the card has no data_range section: the stretch range of the data it was fitted to is unknown, so nothing here shows where the model is supported by data"
 
-// printCautions writes the cautions as an indented block.
-func printCautions(w io.Writer) {
+// printCautions writes the cautions cs (card.CautionsOf the card) as an
+// indented block.
+func printCautions(w io.Writer, cs []string) {
 	fmt.Fprintln(w, "CAUTIONS")
-	for _, c := range card.Cautions {
+	for _, c := range cs {
 		fmt.Fprintln(w, "  - "+c)
 	}
 }

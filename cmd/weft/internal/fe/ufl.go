@@ -180,10 +180,12 @@ stretched arc (see the comments of _planar).
 			fmt.Fprintf(b, "  %q: %s\n", um.name, um.title)
 		}
 	}
-	b.WriteString(`
-Research-grade and specimen-specific parameters: valid only within the tested
-range; not for clinical decisions.
-"""
+	// The docstring, which help(module) shows without the comments above,
+	// ends with the same cautions, one paragraph each.
+	for _, c := range d.Cautions {
+		b.WriteString("\n" + wrapLine(c, 76) + "\n")
+	}
+	b.WriteString(`"""
 
 import math
 
@@ -581,3 +583,23 @@ def _planar(C, alpha, b, factor, r1, shapes, kinks, panels):
     return ufl.conditional(big, arc, near)
 `
 }()
+
+// wrapLine breaks s at spaces into lines of at most width runes; a longer
+// word stands on its own line.
+func wrapLine(s string, width int) string {
+	var b strings.Builder
+	n := 0
+	for _, w := range strings.Fields(s) {
+		l := len([]rune(w))
+		if n > 0 && n+1+l > width {
+			b.WriteByte('\n')
+			n = 0
+		} else if n > 0 {
+			b.WriteByte(' ')
+			n++
+		}
+		b.WriteString(w)
+		n += l
+	}
+	return b.String()
+}

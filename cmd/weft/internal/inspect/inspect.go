@@ -7,9 +7,11 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strings"
 	"text/tabwriter"
 
+	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
 )
 
@@ -187,6 +189,10 @@ func WriteText(w io.Writer, specs []*biaxial.Specimen) error {
 			src += " [sheet " + s.Sheet + "]"
 		}
 		fmt.Fprintf(&b, "%s — %s\n", s.Name, src)
+		if card.SaysSynthetic(s.Name, filepath.Base(s.Source), s.Meta["tissue"], s.Meta["notes"]) {
+			// As the card and the report of a fit to these data say it.
+			b.WriteString("  label:      SYNTHETIC: the file says its data are synthetic (invented, not measured)\n")
+		}
 		stress := fmt.Sprintf("%s stress in %s", s.Kind, s.StressUnit)
 		if s.FromLoads && s.Geometry != nil {
 			stress += fmt.Sprintf(", from loads (thickness %.4g mm, size_1 %.4g mm, size_2 %.4g mm)",

@@ -20,6 +20,7 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
 )
 
 // planColours and planDashes tell the explanations apart in the plot of
@@ -129,7 +130,7 @@ func Plot(f *Folder, d *aniso.Design, name string) ([]byte, error) {
 		}
 		plots = append(plots, p)
 	}
-	return renderPlanPlot(plots, &legend, len(exps)+1, title, strings.HasSuffix(strings.ToLower(name), ".png"))
+	return renderPlanPlot(plots, &legend, len(exps)+1, title, card.CautionsOf(f.card), strings.HasSuffix(strings.ToLower(name), ".png"))
 }
 
 // newPlanPanel is one panel with its title and readable ticks.
@@ -205,16 +206,25 @@ func styleAxes(p *plot.Plot) {
 // planDPI is the resolution of a PNG plot.
 const planDPI = 144
 
-// renderPlanPlot lays the panels side by side under the title and writes
-// them as SVG, or as PNG. A panic in the plotting library becomes an
-// error.
-func renderPlanPlot(plots []*plot.Plot, legend *plot.Legend, entries int, title string, asPNG bool) (out []byte, err error) {
+// renderPlanPlot lays the panels side by side under the title, with the
+// cautions below them (a figure is often shown without the table or the
+// card), and writes them as SVG, or as PNG. A panic in the plotting
+// library becomes an error.
+func renderPlanPlot(plots []*plot.Plot, legend *plot.Legend, entries int, title string, cautions []string, asPNG bool) (out []byte, err error) {
 	defer func() {
 		if r := recover(); r != nil {
 			err = fmt.Errorf("plot: %v", r)
 		}
 	}()
-	w, h := vg.Inch*3.4*vg.Length(len(plots)), vg.Inch*4.2
+	w := vg.Inch * 3.4 * vg.Length(len(plots))
+	fs := text.Style{Color: color.Black, Font: font.From(planFont, vg.Points(7)), Handler: plot.DefaultTextHandler}
+	var foot []string
+	for _, c := range cautions {
+		foot = append(foot, wrapToWidth(fs, c, w-vg.Points(16))...)
+	}
+	lineH := vg.Points(9)
+	footH := lineH*vg.Length(len(foot)) + vg.Points(4)
+	h := vg.Inch*4.2 + footH
 	var c vg.CanvasSizer
 	var img *vgimg.Canvas
 	if asPNG {
@@ -230,7 +240,10 @@ func renderPlanPlot(plots []*plot.Plot, legend *plot.Legend, entries int, title 
 	dc.FillText(ts, vg.Point{X: vg.Points(8), Y: h - vg.Points(16)}, title)
 	legend.Top, legend.Left = true, true
 	legend.Draw(draw.Crop(dc, vg.Points(8), 0, h-head, -vg.Points(22)))
-	body := draw.Crop(dc, 0, 0, 0, -head)
+	for i, l := range foot {
+		dc.FillText(fs, vg.Point{X: vg.Points(8), Y: footH - lineH*vg.Length(i+1)}, l)
+	}
+	body := draw.Crop(dc, 0, 0, footH, -head)
 	tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(6)}
 	cs := plot.Align([][]*plot.Plot{plots}, tiles, body)
 	for i, p := range plots {
@@ -246,4 +259,25 @@ func renderPlanPlot(plots []*plot.Plot, legend *plot.Legend, entries int, title 
 		return nil, err
 	}
 	return b.Bytes(), nil
+}
+
+// wrapToWidth breaks s at spaces into lines no wider than width in style
+// st; a word wider than width stands on its own line.
+func wrapToWidth(st text.Style, s string, width vg.Length) []string {
+	var lines []string
+	line := ""
+	for _, w := range strings.Fields(s) {
+		if line != "" && st.Width(line+" "+w) > width {
+			lines = append(lines, line)
+			line = ""
+		}
+		if line != "" {
+			line += " "
+		}
+		line += w
+	}
+	if line != "" {
+		lines = append(lines, line)
+	}
+	return lines
 }

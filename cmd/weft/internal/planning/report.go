@@ -128,7 +128,7 @@ func NewReport(f *Folder, d *aniso.Design, notes []string) *Report {
 	pl := &Report{Format: Format, Specimen: c.Data.Specimen, Folder: f.dir, StressKind: c.Data.StressKind, StressUnit: c.Data.StressUnit,
 		Model: modelText(r), Noise: card.Num(d.Noise), PeakStretch: card.Num(d.PeakStretch), Points: d.Points, Parameters: d.Parameters,
 		SettleLevel: aniso.SettleLevel, InformationMargin: aniso.InformationMargin, ExtrapolationMargin: aniso.ExtrapolationMargin,
-		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.Cautions, Questions: []Question{}}
+		Assumptions: planAssumptions(d), Notes: append([]string{}, notes...), Cautions: card.CautionsOf(c), Questions: []Question{}}
 	pl.NoiseText = fmt.Sprintf("standard deviation of the weighted residuals, sqrt(loss / (rows - %d)); about %.3g %% of a protocol's stress range per point at %d points", r.FreeParams, 100*d.Noise*math.Sqrt(float64(d.Points)), d.Points)
 	for i, q := range d.Questions {
 		// A fit of a chosen form has no verdict: a layout question is then
@@ -361,6 +361,11 @@ func PathCSV(f *Folder, t *aniso.PlannedTest) ([]byte, error) {
 			// at all: the sign is what the test is to find out.
 			note += "; the fit does not know the sign of its fibre angles, so the sign of this shear is not known either (a family at the opposite angle shears the other way)"
 		}
+	}
+	if f.card.Synthetic() {
+		// The file's notes replace the specimen's, which may have been
+		// the only place its data said they were synthetic.
+		note += "; planned from a model fitted to SYNTHETIC data (invented, not measured)"
 	}
 	meta("notes", note)
 	if tissue := f.card.Data.Tissue; tissue != "" {

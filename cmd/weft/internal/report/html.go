@@ -156,8 +156,7 @@ func inlineSVG(svg []byte, title string) template.HTML {
 // isSynthetic reports whether the data say they are synthetic.
 func (in *Input) isSynthetic() bool {
 	d := in.data
-	text := strings.ToUpper(strings.Join(append([]string{d.Tissue, d.Notes, d.Source, d.Specimen}, d.Notices...), " "))
-	return strings.Contains(text, "SYNTHETIC")
+	return card.SaysSynthetic(append([]string{d.Tissue, d.Notes, d.Source, d.Specimen}, d.Notices...)...)
 }
 
 // signUnknown reports whether the data leave the angles' signs unknown:

@@ -77,7 +77,7 @@ func PrintFit(w io.Writer, f *Fit) {
 		fmt.Fprintf(w, "note:     %s\n", n)
 	}
 	fmt.Fprintln(w)
-	for _, c := range card.Cautions {
+	for _, c := range card.CautionsOf(f.Card) {
 		fmt.Fprintf(w, "caution:  %s\n", c)
 	}
 	fmt.Fprintf(w, "wrote:    %s/ (%s) in %.2f s\n\n", f.Dir, strings.Join(f.Files, ", "), f.Elapsed.Seconds())

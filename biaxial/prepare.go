@@ -294,6 +294,9 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 			s.Notices = append(s.Notices, fmt.Sprintf("protocol %s: the first %d rows (from line %d) fall before the first loading and belong to no cycle", label, lead, firstLine))
 		}
 	}
+	for k := range cycles {
+		rows.scatterPastPeak(&cycles[k])
+	}
 	pr.Cycles = len(cycles)
 	if err := rows.mixed(cycles); err != nil {
 		return pr, err
@@ -611,13 +614,52 @@ const directionNoise = 4
 // maxNoiseSamples of them evenly spaced; zeros for fewer than MinPoints
 // rows.
 func (r *protocolRows) rowScatter() (drive, entry float64) {
-	n := r.g.n - 3
-	if r.g.n < MinPoints || n < 1 {
+	if r.g.n < MinPoints || r.g.n < 4 {
 		return 0, 0
 	}
+	// The turns of the stretch break a window's smoothness: windows with a
+	// turn inside are left out, so that few rows a branch (a triangle of
+	// four rows up and four down has a turn in most windows) do not read
+	// as scatter. The turns are found with the hysteresis the estimate
+	// itself sets, from the fixed one on: heavy scatter first makes turns
+	// of its own, whose windows, left out, make it look smaller, and a
+	// few rounds settle it.
+	tol := turnFraction * (r.dmax - r.dmin)
+	for range maxScatterRounds {
+		drive, entry = r.scatterAway(tol)
+		next := math.Max(turnFraction*(r.dmax-r.dmin), turnNoise*drive)
+		if next == tol {
+			break
+		}
+		tol = next
+	}
+	return drive, entry
+}
+
+// maxScatterRounds bounds the rounds of rowScatter.
+const maxScatterRounds = 4
+
+// scatterAway estimates the scatter of the driving stretch and the largest
+// of the entries of F's from the third differences of the windows without a
+// turn of hysteresis tol inside (rowScatter).
+func (r *protocolRows) scatterAway(tol float64) (drive, entry float64) {
+	n := r.g.n - 3
+	var turns []int
+	spans, _ := cyclesByTurns(r.d, tol, r.sc.ident)
+	for _, c := range spans {
+		turns = append(turns, c.idx[0], c.idx[c.peak])
+	}
+	sort.Ints(turns)
 	step := max(1, n/maxNoiseSamples)
 	var s [5][]float64
+	next := 0 // the first turn at or after the window's inside
 	for i := 0; i < n; i += step {
+		for next < len(turns) && turns[next] < i+1 {
+			next++
+		}
+		if next < len(turns) && turns[next] <= i+2 {
+			continue // a turn at row i+1 or i+2
+		}
 		var f [4][4]float64
 		for k := range f {
 			f[k] = r.t.f(r.g, i+k)
@@ -629,6 +671,9 @@ func (r *protocolRows) rowScatter() (drive, entry float64) {
 		}
 	}
 	est := func(v []float64) float64 {
+		if len(v) == 0 {
+			return 0
+		}
 		sort.Float64s(v)
 		return 1.4826 * stat.Quantile(0.5, stat.Empirical, v, nil) / math.Sqrt(20)
 	}
@@ -642,6 +687,35 @@ func (r *protocolRows) rowScatter() (drive, entry float64) {
 // maxNoiseSamples bounds the third differences rowScatter sorts, so that
 // a file of millions of rows costs no more than a few thousand a series.
 const maxNoiseSamples = 4096
+
+// peakScatter is how many standard deviations of the driving stretch's
+// scatter the rows after a cycle's highest may fall below it and still be
+// scatter about the peak of a ramp rather than an unloading branch.
+const peakScatter = 5
+
+// scatterPastPeak moves a cycle's peak to its last row when every row after
+// the highest lies within peakScatter standard deviations of the stretch's
+// scatter below it: a ramp that ends without unloading, whose highest row
+// is where the scatter happened to put it, keeps its last rows in the
+// loading branch (a synthetic ramp of 61 rows with a scatter of 0.01 in F
+// kept 53). Rows that hold the stretch exactly (a hold at the peak under
+// stretch control) and stretches without scatter keep their peak.
+func (r *protocolRows) scatterPastPeak(c *cycleSpan) {
+	if !(r.noise > 0) || c.peak >= len(c.idx)-1 {
+		return
+	}
+	top := r.d[c.idx[c.peak]]
+	held := true
+	for _, pos := range c.idx[c.peak+1:] {
+		if top-r.d[pos] > peakScatter*r.noise {
+			return
+		}
+		held = held && r.d[pos] == top
+	}
+	if !held {
+		c.peak = len(c.idx) - 1
+	}
+}
 
 // turnTol is how far the driving stretch must move back from its running
 // extreme to count as a turn: turnFraction of its range, or turnNoise

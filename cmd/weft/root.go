@@ -6,33 +6,14 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 )
 
 // helpCautions is card.Cautions as one paragraph wrapped for --help: the
 // help of weft and of every command whose output holds a model's numbers
 // ends with it, so that the help repeats the outputs' wording instead of
 // paraphrasing it.
-var helpCautions = wrapWords(strings.Join(card.Cautions, " "), 76)
-
-// wrapWords breaks s into lines of at most width characters (runes) at
-// spaces; a word longer than width stands on its own line.
-func wrapWords(s string, width int) string {
-	var b strings.Builder
-	n := 0
-	for _, w := range strings.Fields(s) {
-		l := len([]rune(w))
-		if n > 0 && n+1+l > width {
-			b.WriteByte('\n')
-			n = 0
-		} else if n > 0 {
-			b.WriteByte(' ')
-			n++
-		}
-		b.WriteString(w)
-		n += l
-	}
-	return b.String()
-}
+var helpCautions = fe.WrapWords(strings.Join(card.Cautions, " "), 76)
 
 // newRootCmd builds the command tree; every subcommand writes to s.
 func newRootCmd(s *streams) *cobra.Command {

@@ -183,7 +183,7 @@ stretched arc (see the comments of _planar).
 	// The docstring, which help(module) shows without the comments above,
 	// ends with the same cautions, one paragraph each.
 	for _, c := range d.Cautions {
-		b.WriteString("\n" + wrapLine(c, 76) + "\n")
+		b.WriteString("\n" + WrapWords(c, 76) + "\n")
 	}
 	b.WriteString(`"""
 
@@ -584,9 +584,10 @@ def _planar(C, alpha, b, factor, r1, shapes, kinks, panels):
 `
 }()
 
-// wrapLine breaks s at spaces into lines of at most width runes; a longer
-// word stands on its own line.
-func wrapLine(s string, width int) string {
+// WrapWords breaks s at spaces into lines of at most width runes; a longer
+// word stands on its own line. The UFL docstring and the command-line help
+// wrap the cautions with it.
+func WrapWords(s string, width int) string {
 	var b strings.Builder
 	n := 0
 	for _, w := range strings.Fields(s) {

@@ -1,6 +1,7 @@
 package card
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -24,26 +25,11 @@ func TestMirrorLayoutFollowsTheEstimates(t *testing.T) {
 		Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4},
 			{Shape: sh, Family: 0, Weight: 30, Params: []float64{3}}, {Shape: sh, Family: 1, Weight: 30, Params: []float64{3}}},
 	}
-	s := &biaxial.Specimen{Name: "SYN-mirror (synthetic)", StressUnit: "kPa", Kind: biaxial.Nominal, HasShear: true}
-	s.Measured[biaxial.C11], s.Measured[biaxial.C22], s.Measured[biaxial.C12], s.Measured[biaxial.C21] = true, true, true, true
-	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
-		pr := biaxial.Protocol{Label: "ratio", UserWeight: 1}
-		for i := 1; i <= 15; i++ {
-			e := 0.15 * float64(i) / 15
-			F := [4]float64{1 + r[0]*e, 0.02 * e, 0, 1 + r[1]*e}
-			res, err := m.Evaluate(F)
-			if err != nil {
-				t.Fatal(err)
-			}
-			pr.Points = append(pr.Points, biaxial.Point{F: F, Stress: res.Nominal, Line: i, Cycle: 1, Time: math.NaN()})
-		}
-		s.Protocols = append(s.Protocols, pr)
+	var strains []float64
+	for i := 1; i <= 15; i++ {
+		strains = append(strains, 0.15*float64(i)/15)
 	}
-	s.Weigh()
-	p, err := aniso.NewProblem(s, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := problemFrom(t, m, [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}}, strains, 0.02)
 	st := aniso.Structure{Layout: aniso.LayoutMirror, Terms: []aniso.TermSpec{{Shape: terms.Lookup("i1-lin"), Family: -1}, {Shape: sh, Family: 0}}}
 	r, err := aniso.Fit(p, st, aniso.Settings{NoScan: true, Init: map[string]float64{"mean_angle": aniso.Rad(82), "half_angle": aniso.Rad(43)}})
 	if err != nil {
@@ -75,26 +61,11 @@ func TestDataRangeFromTheReferenceState(t *testing.T) {
 		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(30)}},
 		Terms:    []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4}, {Shape: sh, Family: 0, Weight: 30, Params: []float64{3}}},
 	}
-	s := &biaxial.Specimen{Name: "SYN-range (synthetic)", StressUnit: "kPa", Kind: biaxial.Nominal}
-	s.Measured[biaxial.C11], s.Measured[biaxial.C22] = true, true
-	for _, r := range [][2]float64{{1, 1}, {1, 0.5}} {
-		pr := biaxial.Protocol{Label: "ratio", UserWeight: 1}
-		for i := 0; i <= 10; i++ {
-			e := 0.005 + 0.145*float64(i)/10
-			F := [4]float64{1 + r[0]*e, 0, 0, 1 + r[1]*e}
-			res, err := m.Evaluate(F)
-			if err != nil {
-				t.Fatal(err)
-			}
-			pr.Points = append(pr.Points, biaxial.Point{F: F, Stress: res.Nominal, Line: i, Cycle: 1, Time: math.NaN()})
-		}
-		s.Protocols = append(s.Protocols, pr)
+	var strains []float64
+	for i := 0; i <= 10; i++ {
+		strains = append(strains, 0.005+0.145*float64(i)/10)
 	}
-	s.Weigh()
-	p, err := aniso.NewProblem(s, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
+	p := problemFrom(t, m, [][2]float64{{1, 1}, {1, 0.5}}, strains, 0)
 	dr := NewDataRange(p, m)
 	if dr.Stretch1[0] != 1 || dr.Stretch2[0] != 1 || dr.FibreStretch[0][0] != 1 {
 		t.Errorf("ranges start at %g, %g (fibre %g), want the reference state 1", dr.Stretch1[0], dr.Stretch2[0], dr.FibreStretch[0][0])
@@ -105,4 +76,33 @@ func TestDataRangeFromTheReferenceState(t *testing.T) {
 	if out := dr.Outside(m, [4]float64{1.1, 0, 0, 0.99}); len(out) == 0 || !strings.HasPrefix(out[0], "F22 = 0.99 outside [1, ") {
 		t.Errorf("a compressed F22 = 0.99: %v, want it outside a range from 1", out)
 	}
+}
+
+// problemFrom makes a problem whose nominal stresses m itself gives (a
+// bookkeeping check, not mechanics): one protocol per ratio r1 : r2, a
+// point at each strain e of the leading axis, F = [[1 + r1·e, shear·e],
+// [0, 1 + r2·e]]; with shear the shear stresses are measured too.
+func problemFrom(t *testing.T, m *aniso.Model, ratios [][2]float64, strains []float64, shear float64) *aniso.Problem {
+	t.Helper()
+	s := &biaxial.Specimen{Name: "SYN-card (synthetic)", StressUnit: "kPa", Kind: biaxial.Nominal, HasShear: shear != 0}
+	s.Measured[biaxial.C11], s.Measured[biaxial.C22] = true, true
+	s.Measured[biaxial.C12], s.Measured[biaxial.C21] = shear != 0, shear != 0
+	for _, r := range ratios {
+		pr := biaxial.Protocol{Label: fmt.Sprintf("%g:%g", r[0], r[1]), UserWeight: 1}
+		for i, e := range strains {
+			F := [4]float64{1 + r[0]*e, shear * e, 0, 1 + r[1]*e}
+			res, err := m.Evaluate(F)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pr.Points = append(pr.Points, biaxial.Point{F: F, Stress: res.Nominal, Line: i + 1, Cycle: 1, Time: math.NaN()})
+		}
+		s.Protocols = append(s.Protocols, pr)
+	}
+	s.Weigh()
+	p, err := aniso.NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
 }

@@ -10,12 +10,23 @@ import "math"
 // 65° and f2 at 10°, and a table of their parameters would then pair the
 // wrong families. A reported model (discovery's chosen model, and a
 // fixed form through InFamilyOrder) therefore lists its free families in
-// the family order: by angle in (−90°, 90°], smaller first; without shear
-// information, where an angle's sign is not identified, by its magnitude.
-// Mirror pairs (f2 at −f1 by construction) and single families have one
-// labelling only.
+// the family order: by the magnitude of the angle in (−90°, 90°], the
+// family nearer axis 1 first; two whose magnitudes lie within
+// familyTieDeg of each other (a pair near ±α) by sign, the positive
+// angle first, where shear information identifies signs. The magnitude
+// does not jump where an angle passes ±90° (a family at −89.99° and one
+// at 89.99° are one direction): ordered by the signed angle, families at
+// 0° and about 90° (valve-like specimens, made by independent
+// integration) came out f1 at 0° or at −90° as the last digits of the
+// fitted angle fell. Mirror pairs (f2 at −f1 by construction) and single
+// families have one labelling only.
 
-// familyOrderAngle is what a family is ordered by (radians).
+// familyTieDeg is how close (degrees) the magnitudes of two families'
+// angles must be for the sign to order them.
+const familyTieDeg = 5
+
+// familyOrderAngle is a family's angle in (−π/2, π/2] (radians), or its
+// magnitude where its sign is not identified.
 func familyOrderAngle(angle float64, signKnown bool) float64 {
 	a := wrapAngle(angle)
 	if !signKnown {
@@ -30,8 +41,12 @@ func familiesOutOfOrder(r *Result) bool {
 	if r.Structure.Layout != LayoutFree || r.Model == nil || len(r.Model.Families) != 2 {
 		return false
 	}
-	fs := r.Model.Families
-	return familyOrderAngle(fs[1].Angle, r.SignKnown) < familyOrderAngle(fs[0].Angle, r.SignKnown)
+	a0, a1 := wrapAngle(r.Model.Families[0].Angle), wrapAngle(r.Model.Families[1].Angle)
+	m0, m1 := math.Abs(a0), math.Abs(a1)
+	if math.Abs(m0-m1) > Rad(familyTieDeg) || !r.SignKnown {
+		return m1 < m0
+	}
+	return a1 > a0
 }
 
 // swapFamilies returns a free two-family structure with its families'

@@ -105,3 +105,26 @@ func TestDiscoveredFamiliesInAngleOrder(t *testing.T) {
 		}
 	}
 }
+
+// The family order on the circle of directions: by the magnitude of the
+// angle in (−90°, 90°], which does not jump where an angle passes ±90°
+// (−89.99° and 89.99° are one direction), and for two magnitudes within
+// familyTieDeg by sign, the positive first when signs are identified.
+func TestFamilyOrderRules(t *testing.T) {
+	for _, c := range []struct {
+		a0, a1    float64 // degrees
+		signKnown bool
+		out       bool
+	}{
+		{0, -89.99, true, false}, {-89.99, 0, true, true}, {0, 89.99, true, false}, {89.99, 0.5, true, true},
+		{10, 65, true, false}, {65, 10, true, true}, {-20, 50, true, false}, {-30, 10, true, true},
+		{40, -40, true, false}, {-40, 40, true, true}, {-39, 41.5, true, true}, {-40, 40, false, false},
+		{65, 10, false, true}, {170, 10, true, true}, // 170° is −10°: a tie by magnitude, the positive first
+	} {
+		r := &Result{Structure: Structure{Layout: LayoutFree}, SignKnown: c.signKnown,
+			Model: &Model{Families: []Family{{Angle: Rad(c.a0)}, {Angle: Rad(c.a1)}}}}
+		if got := familiesOutOfOrder(r); got != c.out {
+			t.Errorf("f1 %g°, f2 %g° (signs known %v): out of order %v, want %v", c.a0, c.a1, c.signKnown, got, c.out)
+		}
+	}
+}

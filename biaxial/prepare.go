@@ -469,7 +469,8 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 // Only rows whose driving stretch is at least half the label's largest
 // take part, where tracking noise of the markers turns the direction of
 // F − I by far less than sameDirection. A return is a row more than
-// sameDirection from the row before it and within sameDirection/2 of a
+// sameDirection (more where the stretches scatter: differentDeg, with the
+// scatter of lagScatter) from the row before it and within half that of a
 // row that one of the three previous such jumps left. A single loading path turns its
 // direction gradually, also under load control, and a stray row makes one
 // return; rows of two protocols in turn make one at almost every row. It
@@ -480,9 +481,15 @@ func (r *protocolRows) interleaved() (x, y int, why string) {
 	if !(r.dmax > 0) {
 		return 0, 0, ""
 	}
+	// Scatter turns the direction of F − I from row to row: a jump and a
+	// return are judged against it (differentDeg), with the scatter
+	// estimated so that protocols in turn do not read as scatter
+	// (lagScatter).
 	// left holds the rows the last jumps left (a ring of len(left)), so
 	// that up to len(left)+1 protocols written in turn are recognised.
 	var left [3]int
+	noise := r.lagScatter(len(left) + 1)
+	jump := func(f, g [4]float64) float64 { return differentDegAt(noise, f, g) }
 	var leftF [3][4]float64
 	nLeft := 0
 	prev := -1
@@ -495,9 +502,9 @@ func (r *protocolRows) interleaved() (x, y int, why string) {
 		}
 		n++
 		F := r.t.f(r.g, i)
-		if prev >= 0 && angleDeg(prevF, F) > sameDirection {
+		if prev >= 0 && angleDeg(prevF, F) > jump(prevF, F) {
 			for k := range min(nLeft, len(left)) {
-				if angleDeg(leftF[k], F) <= sameDirection/2 {
+				if angleDeg(leftF[k], F) <= jump(leftF[k], F)/2 {
 					returns++
 					if first[0] < 0 {
 						first = [2]int{left[k], prev}
@@ -729,12 +736,50 @@ func (r *protocolRows) turnTol() float64 {
 // directionNoise standard deviations of the angle the scatter gives the
 // shorter of F − I and G − I where that is more.
 func (r *protocolRows) differentDeg(f, g [4]float64) float64 {
+	return differentDegAt(r.entryNoise, f, g)
+}
+
+// differentDegAt is differentDeg for a scatter noise of each entry of F.
+func differentDegAt(noise float64, f, g [4]float64) float64 {
 	norm := func(f [4]float64) float64 { return math.Hypot(math.Hypot(f[0]-1, f[1]), math.Hypot(f[2], f[3]-1)) }
 	m := math.Min(norm(f), norm(g))
-	if !(r.entryNoise > 0) || !(m > 0) {
+	if !(noise > 0) || !(m > 0) {
 		return sameDirection
 	}
-	return math.Max(sameDirection, directionNoise*math.Sqrt(6)*r.entryNoise/m*180/math.Pi)
+	return math.Max(sameDirection, directionNoise*math.Sqrt(6)*noise/m*180/math.Pi)
+}
+
+// lagScatter estimates the scatter of the largest entry of F as rowScatter
+// does, but from third differences of rows lag apart, for every lag from 1
+// to maxLag, keeping the smallest: the rows of up to maxLag protocols
+// written in turn alternate between directions, which third differences
+// of neighbouring rows read as scatter (and which would then hide them),
+// while rows as many apart as there are protocols lie on one smooth path;
+// independent scatter of standard deviation s gives s at every lag.
+func (r *protocolRows) lagScatter(maxLag int) float64 {
+	best := math.Inf(1)
+	for lag := 1; lag <= maxLag; lag++ {
+		n := r.g.n - 3*lag
+		if n < MinPoints {
+			break
+		}
+		step := max(1, n/maxNoiseSamples)
+		entry := 0.0
+		for e := range 4 {
+			var v []float64
+			for i := 0; i < n; i += step {
+				a, b, c, d := r.t.f(r.g, i)[e], r.t.f(r.g, i+lag)[e], r.t.f(r.g, i+2*lag)[e], r.t.f(r.g, i+3*lag)[e]
+				v = append(v, math.Abs(d-3*c+3*b-a))
+			}
+			sort.Float64s(v)
+			entry = math.Max(entry, 1.4826*stat.Quantile(0.5, stat.Empirical, v, nil)/math.Sqrt(20))
+		}
+		best = math.Min(best, entry)
+	}
+	if math.IsInf(best, 1) {
+		return 0
+	}
+	return best
 }
 
 func keptWords(opt Options, n int) string {

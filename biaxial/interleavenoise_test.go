@@ -40,10 +40,13 @@ func abs(i int) int {
 // the largest stretch, |F − I| ≈ 0.1, a scatter of 0.01 turns the
 // direction of F − I from row to row by several degrees, and the fixed 5°
 // of the check for rows going back and forth was crossed often enough (3
-// of these 20 files refused, all at 0.01 and 20 rows a branch). The check now widens with the scatter as the
-// comparison of cycles does, and two protocols written in turn are still
-// refused (TestTwoProtocolsInTurnUnderOneLabelRefused, and with
-// scatter TestNoisyProtocolsInTurnStillRefused).
+// of these 20 files refused, all at 0.01 and 20 rows a branch). Rows of
+// protocols in turn alternate, so their scatter read from neighbouring
+// rows exceeds that read from rows two to four apart; the rows of one
+// protocol scatter alike at every lag, and are no longer refused. Two
+// protocols written in turn are still refused
+// (TestTwoProtocolsInTurnUnderOneLabelRefused, and with scatter
+// TestNoisyProtocolsInTurnStillRefused).
 func TestNoisyProtocolIsNotTwoInTurn(t *testing.T) {
 	for _, sd := range []float64{0.006, 0.01} {
 		for _, n := range []int{20, 200} {
@@ -59,9 +62,9 @@ func TestNoisyProtocolIsNotTwoInTurn(t *testing.T) {
 
 // Two protocols written row by row under one label are still refused
 // when every entry of F scatters (synthetic: 1:1 and 1:0.5 of
-// noisyFile, a ramp of 61 rows each, scatter 0.001 to 0.003): the scatter
-// that widens the check is estimated from rows as many apart as there
-// are protocols in turn, which the alternation does not inflate.
+// noisyFile, a ramp of 61 rows each, scatter 0.001 to 0.003): their
+// alternation makes the scatter of neighbouring rows larger than that of
+// rows two apart.
 func TestNoisyProtocolsInTurnStillRefused(t *testing.T) {
 	for _, sd := range []float64{0.001, 0.002, 0.003} {
 		for seed := uint64(1); seed <= 3; seed++ {

@@ -469,27 +469,21 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 // Only rows whose driving stretch is at least half the label's largest
 // take part, where tracking noise of the markers turns the direction of
 // F − I by far less than sameDirection. A return is a row more than
-// sameDirection (more where the stretches scatter: differentDeg, with the
-// scatter of lagScatter) from the row before it and within half that of a
+// sameDirection from the row before it and within sameDirection/2 of a
 // row that one of the three previous such jumps left. A single loading path turns its
 // direction gradually, also under load control, and a stray row makes one
 // return; rows of two protocols in turn make one at almost every row. It
 // reports the lines of the first return's two rows, the one it goes back
 // to and the one it leaves, when at least 3 returns make at least a
-// quarter of the rows compared.
+// quarter of the rows compared and the rows alternate (lagScatter,
+// alternation) rather than scatter.
 func (r *protocolRows) interleaved() (x, y int, why string) {
 	if !(r.dmax > 0) {
 		return 0, 0, ""
 	}
-	// Scatter turns the direction of F − I from row to row: a jump and a
-	// return are judged against it (differentDeg), with the scatter
-	// estimated so that protocols in turn do not read as scatter
-	// (lagScatter).
 	// left holds the rows the last jumps left (a ring of len(left)), so
 	// that up to len(left)+1 protocols written in turn are recognised.
 	var left [3]int
-	noise := r.lagScatter(len(left) + 1)
-	jump := func(f, g [4]float64) float64 { return differentDegAt(noise, f, g) }
 	var leftF [3][4]float64
 	nLeft := 0
 	prev := -1
@@ -502,9 +496,9 @@ func (r *protocolRows) interleaved() (x, y int, why string) {
 		}
 		n++
 		F := r.t.f(r.g, i)
-		if prev >= 0 && angleDeg(prevF, F) > jump(prevF, F) {
+		if prev >= 0 && angleDeg(prevF, F) > sameDirection {
 			for k := range min(nLeft, len(left)) {
-				if angleDeg(leftF[k], F) <= jump(leftF[k], F)/2 {
+				if angleDeg(leftF[k], F) <= sameDirection/2 {
 					returns++
 					if first[0] < 0 {
 						first = [2]int{left[k], prev}
@@ -518,6 +512,15 @@ func (r *protocolRows) interleaved() (x, y int, why string) {
 		prev, prevF = i, F
 	}
 	if returns < 3 || 4*returns < n {
+		return 0, 0, ""
+	}
+	// Scatter alone also turns the direction of F − I from row to row by
+	// more than sameDirection where |F − I| is small against it. Rows of
+	// protocols in turn alternate, so the scatter read from neighbouring
+	// rows is larger than from rows as many apart as there are protocols
+	// (on one smooth path each); rows of one protocol scatter alike at
+	// every lag.
+	if near, apart := r.lagScatter(1, 1), r.lagScatter(2, len(left)+1); !(near > alternation*apart) {
 		return 0, 0, ""
 	}
 	u, v := r.t.point(r.g, first[0]), r.t.point(r.g, first[1])
@@ -682,6 +685,11 @@ func (r *protocolRows) quantum() float64 {
 	return 0
 }
 
+// alternation is how many times the scatter of neighbouring rows must
+// exceed that of rows further apart (lagScatter) for rows that go back and
+// forth between directions to be protocols in turn rather than scatter.
+const alternation = 1.5
+
 // maxDecimals is the most decimals quantum recognises: a stretch written
 // with more has a rounding error far below any tester's scatter.
 const maxDecimals = 5
@@ -779,29 +787,24 @@ func (r *protocolRows) turnTol() float64 {
 // directionNoise standard deviations of the angle the scatter gives the
 // shorter of F − I and G − I where that is more.
 func (r *protocolRows) differentDeg(f, g [4]float64) float64 {
-	return differentDegAt(r.entryNoise, f, g)
-}
-
-// differentDegAt is differentDeg for a scatter noise of each entry of F.
-func differentDegAt(noise float64, f, g [4]float64) float64 {
 	norm := func(f [4]float64) float64 { return math.Hypot(math.Hypot(f[0]-1, f[1]), math.Hypot(f[2], f[3]-1)) }
 	m := math.Min(norm(f), norm(g))
-	if !(noise > 0) || !(m > 0) {
+	if !(r.entryNoise > 0) || !(m > 0) {
 		return sameDirection
 	}
-	return math.Max(sameDirection, directionNoise*math.Sqrt(6)*noise/m*180/math.Pi)
+	return math.Max(sameDirection, directionNoise*math.Sqrt(6)*r.entryNoise/m*180/math.Pi)
 }
 
 // lagScatter estimates the scatter of the largest entry of F as rowScatter
-// does, but from third differences of rows lag apart, for every lag from 1
-// to maxLag, keeping the smallest: the rows of up to maxLag protocols
-// written in turn alternate between directions, which third differences
-// of neighbouring rows read as scatter (and which would then hide them),
-// while rows as many apart as there are protocols lie on one smooth path;
-// independent scatter of standard deviation s gives s at every lag.
-func (r *protocolRows) lagScatter(maxLag int) float64 {
+// does, but from third differences of rows lag apart, the least of the
+// lags from lo to hi (0 for too few rows). Independent scatter of
+// standard deviation s gives s at every lag; rows of hi protocols written
+// in turn lie on one smooth path each at the lag of their number, where
+// the alternation between them, which neighbouring rows read as scatter,
+// does not count.
+func (r *protocolRows) lagScatter(lo, hi int) float64 {
 	best := math.Inf(1)
-	for lag := 1; lag <= maxLag; lag++ {
+	for lag := lo; lag <= hi; lag++ {
 		n := r.g.n - 3*lag
 		if n < MinPoints {
 			break

@@ -90,3 +90,52 @@ func TestNoisyProtocolsInTurnStillRefused(t *testing.T) {
 		}
 	}
 }
+
+// blocksFile writes a synthetic gradient file with 1:1 and then 1:0.75
+// under one label "1:1", three cycles each of n rows a branch to a strain
+// of 0.15 on the leading axis, every entry of F with Gaussian scatter of
+// sd; with column the rows carry cycle numbers 1 to 6.
+func blocksFile(seed uint64, sd float64, n int, column bool) string {
+	rng := rand.New(rand.NewPCG(seed, 13))
+	var b strings.Builder
+	b.WriteString("# specimen = SYN-blocks (synthetic)\n# stress_unit = kPa\nprotocol,")
+	if column {
+		b.WriteString("cycle,")
+	}
+	b.WriteString("F11,F12,F21,F22,nominal_11,nominal_22\n")
+	for c := 1; c <= 6; c++ {
+		r2 := 1.0
+		if c > 3 {
+			r2 = 0.75
+		}
+		for i := 0; i <= 2*n; i++ {
+			e := 0.15 * float64(n-abs(i-n)) / float64(n)
+			b.WriteString("1:1,")
+			if column {
+				fmt.Fprintf(&b, "%d,", c)
+			}
+			fmt.Fprintf(&b, "%.6f,%.6f,%.6f,%.6f,%.5g,%.5g\n", 1+e+sd*rng.NormFloat64(), sd*rng.NormFloat64(), sd*rng.NormFloat64(), 1+r2*e+sd*rng.NormFloat64(), 100*e, 100*r2*e)
+		}
+	}
+	return b.String()
+}
+
+// 1:1 and then 1:0.75 (8° apart) under one label, in blocks, with a
+// scatter of 0.004 in each entry of F (synthetic, 200 rows a branch):
+// compared at their peaks alone, whose directions that scatter turns by
+// a standard deviation of about 3°, the two passed as one protocol (4 SD
+// is 12°) and the 1:1 rows were dropped without a word (seeds 1 and 3,
+// with and without a cycle column: 4 of these 6 files). The mean direction of each cycle's
+// rows above half the largest stretch scatters √n times less: refused.
+// One protocol with that scatter is still read (TestNoisyStretchesKeepTheirCycles,
+// TestNoisyProtocolIsNotTwoInTurn).
+func TestNoisyProtocolsInBlocksRefused(t *testing.T) {
+	for seed := uint64(1); seed <= 3; seed++ {
+		for _, column := range []bool{false, true} {
+			_, err := Read(strings.NewReader(blocksFile(seed, 0.004, 200, column)), "blocks.csv", Options{})
+			if err == nil || !strings.Contains(err.Error(), "two protocols under one label") {
+				t.Errorf("seed %d, cycle column %v: error %v, want the label refused as two protocols", seed, column, err)
+			}
+		}
+	}
+}

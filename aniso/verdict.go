@@ -145,10 +145,7 @@ func anglesText(r *Result) string {
 // same form whose angles differ by degrees (a pair at ±40.7°, ±53.9°
 // quoted beside a chosen ±37.2°, ±53.7°).
 func (d *Discovery) answerWords(win *formBest) (angles, spread string) {
-	shown := win.c.Result
-	if ch := d.Pareto[d.Chosen].Result; FormKey(ch.Structure) == win.key {
-		shown = ch
-	}
+	shown := d.answerModel(win)
 	if shown.Structure.Planar {
 		var bs []string
 		for _, f := range shown.Model.Families {
@@ -157,6 +154,15 @@ func (d *Discovery) answerWords(win *formBest) (angles, spread string) {
 		spread = fmt.Sprintf(", spread in the plane (concentration %s)", strings.Join(bs, ", "))
 	}
 	return anglesText(shown), spread
+}
+
+// answerModel is the model the verdict's answer describes: the chosen
+// one when it is of the winning form, else the form's best.
+func (d *Discovery) answerModel(win *formBest) *Result {
+	if ch := d.Pareto[d.Chosen].Result; FormKey(ch.Structure) == win.key {
+		return ch
+	}
+	return win.c.Result
 }
 
 // decider is the measurement that settles one family against a mirror
@@ -253,7 +259,13 @@ func (d *Discovery) verdictFor(ev evidence, win *formBest, comps, open []LayoutC
 		same := absAngleGapDeg(r) < 1
 		switch {
 		case flatTop(r):
-			flatTopVerdict(ev, r, why, &v)
+			// Described by the chosen model where it is flat-topped too,
+			// as the other answers are (answerWords).
+			shown := d.answerModel(win)
+			if !flatTop(shown) {
+				shown = r
+			}
+			flatTopVerdict(ev, shown, why, &v)
 		case !ev.hasShear && same:
 			v.Families = "1-or-mirror-pair"
 			v.Reason = fmt.Sprintf("a mirror pair at %s%s: %s; without shear information it cannot be told from one family at that angle", ang, spread, why)

@@ -284,6 +284,13 @@ func TestNoiseOnlyShearIsWarned(t *testing.T) {
 			t.Errorf("n %d, scatter %g, shear %g: noise-only shear warned %v, want %v", c.n, c.sd, c.g, got, c.want)
 		}
 	}
+	// From 30 rows a protocol an entry's scatter estimate can come out at
+	// half the true one; the noise of that entry must not pass for shear.
+	for seed := uint64(1); seed <= 12; seed++ {
+		if !noiseOnly(shearedNeoHookean(seed, 30, 0.004, 0)) {
+			t.Errorf("seed %d: noise-only shear of 30 rows a protocol (scatter 0.004) not warned about", seed)
+		}
+	}
 	// The shear stress given: the shear-scatter warning speaks instead.
 	with := strings.Replace(shearedNeoHookean(1, 100, 0.004, 0), "cauchy_22 [kPa]\n", "cauchy_22 [kPa],cauchy_12 [kPa]\n", 1)
 	with = strings.ReplaceAll(with, "\n1:", ",0\n1:")

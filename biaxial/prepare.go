@@ -104,6 +104,9 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 		warnZeroShear(s)
 	}
 	warnShearScatter(s)
+	if t.hasShear && !s.Measured[C12] && !s.Measured[C21] {
+		warnNoiseOnlyShear(s)
+	}
 	warnHeldLoad(s, opt)
 	if opt.Rereference {
 		s.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹"

@@ -43,8 +43,8 @@ func warnHeldLoad(s *Specimen, opt Options) {
 			}
 			if from, ok := heldTail(s, pr.Points[start:end], maxScatter(pr.StrainScatter)); ok {
 				p, last := pr.Points[start+from], pr.Points[end-1]
-				s.warn(p.Line, pr.Label, "the last %d kept rows of cycle %d (lines %d–%d) hold the stress within %g %% of its range while the stretch creeps on by %.3g: a load held at the peak, or the material yielding? The loading branch ends at the largest stretch, so they are fitted as loading, as a material that stops stiffening; remove them from the file if the fit should see only the ramp",
-					end-start-from, p.Cycle, p.Line, last.Line, 100*holdStressFraction, drive(&last.F)-drive(&p.F))
+				s.warn(p.Line, pr.Label, "protocol %s: the last %d kept rows of cycle %d (lines %d–%d) hold the stress within %g %% of its range while the stretch creeps on by %.3g: a load held at the peak, or the material yielding? The loading branch ends at the largest stretch, so they are fitted as loading, as a material that stops stiffening; remove them from the file if the fit should see only the ramp",
+					pr.Label, end-start-from, p.Cycle, p.Line, last.Line, 100*holdStressFraction, drive(&last.F)-drive(&p.F))
 			}
 			start = end
 		}

@@ -43,7 +43,7 @@ func TestHeldLoadWarning(t *testing.T) {
 			held = append(held, w)
 		}
 	}
-	if len(held) != 1 || held[0].Protocol != "1:1" || !strings.Contains(held[0].Message, "last 6 kept rows of cycle 1 (lines 23–28)") {
+	if len(held) != 1 || held[0].Protocol != "1:1" || !strings.Contains(held[0].Message, "protocol 1:1: the last 6 kept rows of cycle 1 (lines 23–28)") {
 		t.Fatalf("held-load warnings %+v, want one for protocol 1:1 at lines 23–28 (the row reaching the load and the five held)", held)
 	}
 	if s, err := readString(b.String(), Options{Branch: BranchAll}); err != nil || hasHeldWarning(s) {

@@ -5,8 +5,6 @@ import (
 	"math"
 	"sort"
 	"strings"
-
-	"gonum.org/v1/gonum/stat"
 )
 
 // Thresholds of the cycle detection and of the warnings, as fractions of a
@@ -779,22 +777,14 @@ func (r *protocolRows) scatterAway(tol float64) (drive, entry float64) {
 		for k := range f {
 			f[k] = r.t.f(r.g, i+k)
 		}
-		third := func(a, b, c, d float64) float64 { return math.Abs(d - 3*c + 3*b - a) }
-		s[0] = append(s[0], third(r.d[i], r.d[i+1], r.d[i+2], r.d[i+3]))
+		s[0] = append(s[0], thirdDifference(r.d[i], r.d[i+1], r.d[i+2], r.d[i+3]))
 		for e := range 4 {
-			s[1+e] = append(s[1+e], third(f[0][e], f[1][e], f[2][e], f[3][e]))
+			s[1+e] = append(s[1+e], thirdDifference(f[0][e], f[1][e], f[2][e], f[3][e]))
 		}
 	}
-	est := func(v []float64) float64 {
-		if len(v) == 0 {
-			return 0
-		}
-		sort.Float64s(v)
-		return 1.4826 * stat.Quantile(0.5, stat.Empirical, v, nil) / math.Sqrt(20)
-	}
-	drive = est(s[0])
+	drive = scatterOfThirds(s[0])
 	for e := 1; e < 5; e++ {
-		entry = math.Max(entry, est(s[e]))
+		entry = math.Max(entry, scatterOfThirds(s[e]))
 	}
 	return drive, entry
 }
@@ -867,15 +857,16 @@ func (r *protocolRows) lagScatter(lo, hi int) float64 {
 			break
 		}
 		step := max(1, n/maxNoiseSamples)
-		entry := 0.0
-		for e := range 4 {
-			var v []float64
-			for i := 0; i < n; i += step {
-				a, b, c, d := r.t.f(r.g, i)[e], r.t.f(r.g, i+lag)[e], r.t.f(r.g, i+2*lag)[e], r.t.f(r.g, i+3*lag)[e]
-				v = append(v, math.Abs(d-3*c+3*b-a))
+		var v [4][]float64
+		for i := 0; i < n; i += step {
+			a, b, c, d := r.t.f(r.g, i), r.t.f(r.g, i+lag), r.t.f(r.g, i+2*lag), r.t.f(r.g, i+3*lag)
+			for e := range v {
+				v[e] = append(v[e], thirdDifference(a[e], b[e], c[e], d[e]))
 			}
-			sort.Float64s(v)
-			entry = math.Max(entry, 1.4826*stat.Quantile(0.5, stat.Empirical, v, nil)/math.Sqrt(20))
+		}
+		entry := 0.0
+		for e := range v {
+			entry = math.Max(entry, scatterOfThirds(v[e]))
 		}
 		best = math.Min(best, entry)
 	}

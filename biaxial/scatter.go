@@ -48,12 +48,24 @@ func strainScatter(pts []Point) [4]float64 {
 	d := make([]float64, n)
 	for e := range out {
 		for i := range d {
-			d[i] = math.Abs(pts[i+3].F[e] - 3*pts[i+2].F[e] + 3*pts[i+1].F[e] - pts[i].F[e])
+			d[i] = thirdDifference(pts[i].F[e], pts[i+1].F[e], pts[i+2].F[e], pts[i+3].F[e])
 		}
-		sort.Float64s(d)
-		out[e] = 1.4826 * stat.Quantile(0.5, stat.Empirical, d, nil) / math.Sqrt(20)
+		out[e] = scatterOfThirds(d)
 	}
 	return out
+}
+
+// thirdDifference is |Δ³| of four values one step apart: |d − 3c + 3b − a|.
+func thirdDifference(a, b, c, d float64) float64 { return math.Abs(d - 3*c + 3*b - a) }
+
+// scatterOfThirds is the scatter estimate 1.4826·median/√20 of absolute
+// third differences (see above); v is sorted in place; 0 for none.
+func scatterOfThirds(v []float64) float64 {
+	if len(v) == 0 {
+		return 0
+	}
+	sort.Float64s(v)
+	return 1.4826 * stat.Quantile(0.5, stat.Empirical, v, nil) / math.Sqrt(20)
 }
 
 // NoisiestShear returns, among the protocols of s given by index (nil:

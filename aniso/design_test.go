@@ -115,7 +115,7 @@ func TestPlanTwoFamiliesWithShear(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+	st := freeExpSqPair()
 	r, err := Fit(p, st, Settings{})
 	if err != nil {
 		t.Fatal(err)

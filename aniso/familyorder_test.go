@@ -20,7 +20,7 @@ func TestFamiliesInAngleOrder(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+	st := freeExpSqPair()
 	set := Settings{Profile: true, NoScan: true, Init: map[string]float64{"angle_1": 65 * deg, "angle_2": 10 * deg}}
 	r, err := Fit(p, st, set)
 	if err != nil {

@@ -270,7 +270,7 @@ func BenchmarkFitTwoFreeFamilies(b *testing.B) {
 		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{5}},
 		{Shape: lookup("fib-expsq"), Family: 1, Weight: 8, Params: []float64{3}}}}
 	p := benchProblem(b, truth)
-	st := Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+	st := freeExpSqPair()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		if _, err := Fit(p, st, Settings{}); err != nil {

@@ -60,7 +60,7 @@ func TestProfileIsATrueProfile(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		st := Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+		st := freeExpSqPair()
 		res, err := Fit(p, st, Settings{Profile: true})
 		if err != nil {
 			t.Fatal(err)
@@ -555,7 +555,7 @@ func TestProfileConfidenceSetInPieces(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+	st := freeExpSqPair()
 	r, err := Fit(p, st, Settings{Profile: true})
 	if err != nil {
 		t.Fatal(err)

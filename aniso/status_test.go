@@ -110,7 +110,7 @@ func TestStatusesAgreeWithEvidence(t *testing.T) {
 			Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-quad"), Family: 0}}}},
 		{"dispersed pair on one family", one, synthOptions{noise: 0.01}, goh},
 		{"two families on one, sutured", one, synthOptions{noise: 0.01, sutured: true},
-			Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}},
+			freeExpSqPair()},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			p, err := NewProblem(synthSpecimen(t, c.truth, c.o), nil)
@@ -251,7 +251,7 @@ func TestDegenerateTerms(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	st := Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+	st := freeExpSqPair()
 	res, err := Fit(p, st, Settings{})
 	if err != nil {
 		t.Fatal(err)

@@ -162,6 +162,12 @@ func solveSutured(t testing.TB, m *Model, F [4]float64, start [2]float64) [2]flo
 
 func lookup(id string) *terms.Shape { return terms.Lookup(id) }
 
+// freeExpSqPair is the two-free-family form many tests fit: i1-lin, and an
+// fib-expsq on each of two families at free angles.
+func freeExpSqPair() Structure {
+	return Structure{Layout: LayoutFree, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}}}
+}
+
 // hgoModel is a mirror pair at ±beta with the fibre energy of Holzapfel,
 // Gasser & Ogden 2000.
 func hgoModel(c, k1, k2, betaDeg float64) *Model {

@@ -29,7 +29,11 @@ func pooledProblem(ps []*Problem, searchPoints int) (pooled *Problem, in, out []
 	for c := range measured {
 		measured[c] = true
 	}
-	hasShear := true
+	// The pool carries shear information only when every specimen does;
+	// its shear is taken as zero only when none does and some specimen's
+	// F12, F21 lie within their scatter of zero (Problem.ShearTakenAsZero),
+	// so a specimen's real shear is never zeroed.
+	hasShear, anyInfo, anyTakenAsZero := true, false, false
 	var subs []*Problem
 	for i, p := range ps {
 		s := p.Specimen
@@ -47,6 +51,8 @@ func pooledProblem(ps []*Problem, searchPoints int) (pooled *Problem, in, out []
 			measured[c] = measured[c] && s.Measured[c]
 		}
 		hasShear = hasShear && p.HasShear
+		anyInfo = anyInfo || p.HasShear
+		anyTakenAsZero = anyTakenAsZero || p.ShearTakenAsZero
 	}
 	series := make([]float64, len(subs))
 	mean := 0.0
@@ -61,7 +67,7 @@ func pooledProblem(ps []*Problem, searchPoints int) (pooled *Problem, in, out []
 		mean += series[i] / float64(len(subs))
 	}
 	spec := &biaxial.Specimen{Name: fmt.Sprintf("population of %d specimens", len(subs)), Kind: kind, StressUnit: unit,
-		Measured: measured, HasShear: hasShear, Meta: map[string]string{}, Reference: ps[in[0]].Specimen.Reference}
+		Measured: measured, HasShear: hasShear, ShearWithinScatter: !anyInfo && anyTakenAsZero, Meta: map[string]string{}, Reference: ps[in[0]].Specimen.Reference}
 	for i, sub := range subs {
 		k := math.Sqrt(mean / series[i])
 		for _, pi := range sub.Protocols {

@@ -106,7 +106,12 @@
 // stresses alone the sign of α cannot be found, and one family at α with
 // weight w cannot be told from a mirror pair at ±α with weights w/2 each;
 // only shear information (measured F12, F21 or a shear stress,
-// Problem.HasShear) breaks the tie. The fitter says so instead of reporting a
+// Problem.HasShear) breaks the tie. F12 and F21 that stay within their
+// point-to-point scatter of zero are tracking noise, not information:
+// package biaxial reads them as no shear information
+// (Specimen.ShearWithinScatter), and the fit takes F12 = F21 = 0
+// (Problem.ShearTakenAsZero), so that the symmetry below holds exactly
+// instead of the noise choosing a sign. The fitter says so instead of reporting a
 // sign or a second family it cannot know. The loss is then even in each
 // family's angle about 0° and 90°: both are stationary points, where its
 // slope in the angle vanishes. A refinement slows to a crawl near them, so

@@ -43,6 +43,12 @@ type Problem struct {
 	// fibre angle's sign is identifiable (package documentation, Mirror
 	// symmetry).
 	HasShear bool
+	// ShearTakenAsZero is true when the specimen's F12 and F21 lie within
+	// their scatter of zero (biaxial.Specimen.ShearWithinScatter): the
+	// fit's kinematics then use F12 = F21 = 0, so that every stress is
+	// even in a fibre angle's sign as the symmetry without shear
+	// information assumes.
+	ShearTakenAsZero bool
 }
 
 // NewProblem prepares a specimen for fitting. protocols selects the
@@ -56,7 +62,7 @@ func NewProblem(s *biaxial.Specimen, protocols []int) (*Problem, error) {
 	if len(protocols) == 0 {
 		return nil, fmt.Errorf("%s: no protocols to fit", s.Name)
 	}
-	p := &Problem{Specimen: s, Protocols: protocols, HasShear: s.HasShear}
+	p := &Problem{Specimen: s, Protocols: protocols, HasShear: s.HasShear, ShearTakenAsZero: s.ShearWithinScatter && !s.HasShear}
 	p.Output.Nominal = s.Kind == biaxial.Nominal
 	for c := biaxial.C11; c < biaxial.NumComponents; c++ {
 		if s.Measured[c] {
@@ -76,6 +82,9 @@ func NewProblem(s *biaxial.Specimen, protocols []int) (*Problem, error) {
 		}
 		pr := &s.Protocols[pi]
 		for j, pt := range pr.Points {
+			if p.ShearTakenAsZero {
+				pt.F[1], pt.F[2] = 0, 0
+			}
 			F = append(F, pt.F)
 			for _, c := range p.Output.Components {
 				w := pr.Weight[c]

@@ -96,13 +96,15 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 		s.Protocols = append(s.Protocols, pr)
 	}
 	s.SortProtocols()
-	// Shear information: a measured shear stress or non-zero F12/F21.
+	// Shear information: a measured shear stress, or F12/F21 beyond what
+	// their scatter explains.
 	s.HasShear = s.Measured[C12] || s.Measured[C21] || t.hasShear
 	if !t.hasShear {
 		warnZeroShear(s)
 	}
 	warnShearScatter(s)
-	if t.hasShear && !s.Measured[C12] && !s.Measured[C21] {
+	if t.hasShear && !s.Measured[C12] && !s.Measured[C21] && !shearBeyondScatter(s) {
+		s.HasShear, s.ShearWithinScatter = false, true
 		warnNoiseOnlyShear(s)
 	}
 	warnHeldLoad(s, opt)

@@ -184,21 +184,18 @@ func SmoothingNoiseFactor(window int) float64 {
 	return math.Sqrt(savitzkyGolayWeight(window/2, 0, 0))
 }
 
-// warnNoiseOnlyShear warns when F12 and F21, the data's only shear
+// warnNoiseOnlyShear warns that F12 and F21, the data's only shear
 // information (no shear stress is given), stay on every kept point within
-// what their scatter explains (shearBeyondScatter): the data count as
-// carrying shear information (Specimen.HasShear), so a fit reports the
-// sign of each fibre angle as identified, but that sign follows the noise.
+// what their scatter explains (shearBeyondScatter), and says what the
+// reader made of it (Specimen.ShearWithinScatter): no shear information,
+// so a fit takes them as zero and leaves the sign of a fibre angle open.
 func warnNoiseOnlyShear(s *Specimen) {
-	if shearBeyondScatter(s) {
-		return
-	}
 	worst := 0.0
 	for i := range s.Protocols {
 		sc := s.Protocols[i].StrainScatter
 		worst = math.Max(worst, math.Max(sc[1], sc[2]))
 	}
-	s.warn(0, "", "the shear F12 and F21 stay within %g times their point-to-point scatter (up to %.2g) of zero on every kept point, and no shear stress is given — a pure biaxial stretch seen through tracking noise? They are the data's only shear information, so the sign of a fibre angle (a family at +α or −α, which give the same normal stresses under a pure stretch) is decided by that noise, although a fit counts it as identified; shear stress columns, an off-axis protocol or a specimen sheared on purpose would decide it",
+	s.warn(0, "", "the shear F12 and F21 stay within %g times their point-to-point scatter (up to %.2g) of zero on every kept point, and no shear stress is given — a pure biaxial stretch seen through tracking noise? Taken as no shear information: a fit takes F12 = F21 = 0 and leaves the sign of a fibre angle (a family at +α or −α, which give the same normal stresses under a pure stretch) undetermined, as that noise cannot decide it; shear stress columns, an off-axis protocol or a specimen sheared on purpose would",
 		float64(peakScatter), worst)
 }
 
@@ -212,7 +209,8 @@ func warnNoiseOnlyShear(s *Specimen) {
 // Shear that is only tracking noise about a zero mean decides that sign at
 // random: a synthetic one-family specimen at +30° (three protocols of 100
 // rows, a scatter of 0.004 in each entry of F and no shear stress) was
-// fitted at −29.3° and its sign called identified. Gaussian scatter
+// fitted at −29.3° and its sign called identified; such shear now counts
+// as none (Specimen.ShearWithinScatter). Gaussian scatter
 // reaches 4 standard deviations about once in 16 000 values, so 5 leaves
 // noise below it. The largest scatter, not each entry's own: from 30 rows
 // one estimate came out at half the true 0.004, and the noise of that

@@ -257,7 +257,8 @@ func shearedNeoHookean(seed uint64, n int, sd, g float64) string {
 // zero, that sign follows the noise (a synthetic one-family specimen at
 // +30°, scatter 0.004 in F, was fitted at −29.3° and at −24.6° in 2 of 7
 // seeds, each with an interval excluding +30°, its sign called
-// identified). Such files are warned about; files whose F carries a real
+// identified). Such files are warned about and read as carrying no shear
+// information (Specimen.ShearWithinScatter); files whose F carries a real
 // shear, or no shear at all, or whose shear stresses are given, are not.
 func TestNoiseOnlyShearIsWarned(t *testing.T) {
 	noiseOnly := func(in string) bool {
@@ -280,8 +281,19 @@ func TestNoiseOnlyShearIsWarned(t *testing.T) {
 		{30, 0.001, 0, true}, {100, 0.004, 0, true}, {500, 0.006, 0, true},
 		{100, 0.004, 0.05, false}, {500, 0.002, 0.02, false}, {100, 0, 0.02, false}, {100, 0, 0, false},
 	} {
-		if got := noiseOnly(shearedNeoHookean(1, c.n, c.sd, c.g)); got != c.want {
+		in := shearedNeoHookean(1, c.n, c.sd, c.g)
+		if got := noiseOnly(in); got != c.want {
 			t.Errorf("n %d, scatter %g, shear %g: noise-only shear warned %v, want %v", c.n, c.sd, c.g, got, c.want)
+		}
+		// Shear within its scatter is no shear information, and says so.
+		s, err := readString(in, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		sheared := c.sd > 0 || c.g > 0
+		if s.ShearWithinScatter != c.want || s.HasShear != (sheared && !c.want) {
+			t.Errorf("n %d, scatter %g, shear %g: shear within scatter %v, shear information %v; want %v, %v",
+				c.n, c.sd, c.g, s.ShearWithinScatter, s.HasShear, c.want, sheared && !c.want)
 		}
 	}
 	// From 30 rows a protocol an entry's scatter estimate can come out at

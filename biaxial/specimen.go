@@ -257,9 +257,18 @@ type Specimen struct {
 	// stress: 11 and 22, plus 12 when given).
 	Measured [NumComponents]bool
 	// HasShear is true when the data carry shear information: a measured
-	// shear stress component, or F12/F21 not identically zero. Only then can a
-	// fibre angle's sign be told (mirror symmetry of pure biaxial stretch).
+	// shear stress component, or F12/F21 departing from zero by more than
+	// their point-to-point scatter explains (see ShearWithinScatter). Only
+	// then can a fibre angle's sign be told (mirror symmetry of pure
+	// biaxial stretch).
 	HasShear bool
+	// ShearWithinScatter is true when no shear stress is given and F12,
+	// F21 are non-zero on some kept point but stay within 5 times their
+	// point-to-point scatter of zero on every one: a pure biaxial stretch
+	// seen through tracking noise, or a shear too small to tell from it.
+	// HasShear is then false, and a fit takes F12 = F21 = 0 (the points
+	// keep the values as read).
+	ShearWithinScatter bool
 	// Reference records the reference state used, e.g. "as measured" or
 	// "re-referenced to the first kept point of each protocol (tare removed)".
 	Reference string

@@ -105,7 +105,7 @@ func newSelectionSection(p *aniso.Problem, d *aniso.Discovery) *SelectionSection
 func NewDataSection(s *biaxial.Specimen) *DataSection {
 	d := &DataSection{Specimen: s.Name, Source: filepath.Base(s.Source), Sheet: s.Sheet, Tissue: s.Meta["tissue"], Notes: s.Meta["notes"],
 		Axis1: s.Meta["axis_1"], StressKind: s.Kind.String(), StressUnit: s.StressUnit, Reference: s.Reference,
-		HasShear: s.HasShear, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
+		HasShear: s.HasShear, ShearWithinScatter: s.ShearWithinScatter, Warnings: []string{}, Notices: append([]string{}, s.Notices...)}
 	d.StressMeasure, d.StressMeasureNote = stressMeasure(s)
 	if g := s.Geometry; g != nil {
 		d.Geometry = &GeometryCard{ThicknessMM: g.Thickness, Size1MM: g.Size1, Size2MM: g.Size2}

@@ -39,10 +39,16 @@ type DataSection struct {
 	// re-referenced with the tare removed).
 	Reference string `json:"reference"`
 	// HasShear is true when the data carry shear information.
-	HasShear  bool               `json:"has_shear"`
-	Protocols []DataProtocolCard `json:"protocols"`
-	Warnings  []string           `json:"warnings"`
-	Notices   []string           `json:"notices"`
+	HasShear bool `json:"has_shear"`
+	// ShearWithinScatter is true when the data's F12 and F21 are not all
+	// zero but lie within their scatter of zero, and no shear stress was
+	// given: they carry no shear information and were fitted as zero
+	// (biaxial.Specimen.ShearWithinScatter). Absent (false) otherwise and
+	// in cards written before it was added.
+	ShearWithinScatter bool               `json:"shear_within_scatter,omitempty"`
+	Protocols          []DataProtocolCard `json:"protocols"`
+	Warnings           []string           `json:"warnings"`
+	Notices            []string           `json:"notices"`
 }
 
 // GeometryCard is the reference geometry of a specimen, in mm: the

@@ -4,7 +4,9 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
+	"fmt"
 	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"slices"
@@ -614,4 +616,42 @@ func questionOn(t *testing.T, pl planning.Report, topic string) *planning.Questi
 	}
 	t.Fatalf("no question on %q: %+v (notes %q)", topic, pl.Questions, pl.Notes)
 	return nil
+}
+
+// A file whose F12 and F21 are only tracking noise (a scatter of 0.004 in
+// every entry of F, no shear stress) carries no shear information: the
+// fit takes the shear as zero and its card says so
+// (shear_within_scatter), and the plan rebuilds that fit (it refused the
+// folder: "disagree on whether the data carry shear information"). The
+// stresses are an incompressible neo-Hookean membrane in plane stress,
+// σ = 2 c10 (B − λ3² I) (Rivlin 1948, as in Holzapfel 2000, Nonlinear
+// Solid Mechanics, §6.5), with c10 = 10 kPa; the plan's fibre question
+// is the data's (+α, −α or a pair), not one the noise settled.
+func TestPlanRebuildsShearWithinScatter(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(5, 9))
+	var b strings.Builder
+	b.WriteString("# specimen = SYN-tracked (synthetic)\nprotocol,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
+		for i := 1; i <= 40; i++ {
+			e := 0.15 * float64(i) / 40
+			l1, l2 := 1+r[0]*e, 1+r[1]*e
+			s3 := 1 / (l1 * l1 * l2 * l2)
+			n := func() float64 { return 0.004 * rng.NormFloat64() }
+			fmt.Fprintf(&b, "%g:%g,%.6f,%.6f,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1+n(), n(), n(), l2+n(), 20*(l1*l1-s3), 20*(l2*l2-s3))
+		}
+	}
+	data := filepath.Join(t.TempDir(), "tracked.csv")
+	if err := os.WriteFile(data, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := fitPath(t, data, "--preset", "hgo")
+	c, _ := readCardFile(t, filepath.Join(out, "model.json"))
+	if c.Data.HasShear || !c.Data.ShearWithinScatter {
+		t.Fatalf("card: has_shear %v, shear_within_scatter %v; want false, true", c.Data.HasShear, c.Data.ShearWithinScatter)
+	}
+	pl, _ := planJSON(t, out)
+	if len(pl.Questions) == 0 || !pl.Questions[0].Layout {
+		t.Errorf("questions %+v, want the fibre-layout question the data leave open", pl.Questions)
+	}
 }

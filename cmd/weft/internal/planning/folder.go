@@ -180,10 +180,16 @@ func finishSpecimen(s *biaxial.Specimen, c *card.Card, file string) error {
 			shear = shear || pt.F[1] != 0 || pt.F[2] != 0
 		}
 	}
+	// Shear of F within its scatter counts as none (biaxial.Specimen.
+	// ShearWithinScatter), as the fit took it.
+	within := shear && c.Data.ShearWithinScatter && !s.Measured[biaxial.C12] && !s.Measured[biaxial.C21]
+	if within {
+		shear = false
+	}
 	if shear != c.Data.HasShear {
 		return inputErrorf("%s and model.json disagree on whether the data carry shear information; the files are not from the same fit", file)
 	}
-	s.HasShear = shear
+	s.HasShear, s.ShearWithinScatter = shear, within
 	s.Weigh()
 	return nil
 }

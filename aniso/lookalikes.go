@@ -12,6 +12,7 @@ package aniso
 import (
 	"fmt"
 	"math"
+	"strings"
 )
 
 // symmetricLookAlike says why fibres placed symmetrically about the 45°
@@ -529,7 +530,24 @@ func (d *Discovery) presetCaution(v *Verdict) {
 		}
 	}
 	if best != nil {
-		v.Reason += fmt.Sprintf("; caution: the classical preset %s (%s) fits the data better in sample than the chosen model, by ΔBIC %.1f; it is compared beside the search, not part of it, so the verdict does not weigh it", best.Name, anglesText(best.Result), chosen.BIC-best.Compared().BIC)
+		v.Reason += fmt.Sprintf("; caution: the classical preset %s (%s) fits the data better in sample than the chosen model, by ΔBIC %.1f; it is compared beside the search, not part of it, so the verdict does not weigh it", strings.TrimPrefix(best.Name, "preset:"), presetWhat(best.Result), chosen.BIC-best.Compared().BIC)
+	}
+}
+
+// presetWhat says what a preset's fit holds for presetCaution: its
+// families' angles, or, for a preset without fibres, what its
+// anisotropy is. A Fung-type solid (Fung 1979) has none of weft's fibre
+// families, and the caution read "preset:fung ()" beside confident
+// two-family verdicts on such solids (synthetic Fung-type solids with
+// axes at 0°, 20° and 30°, made by independent code).
+func presetWhat(r *Result) string {
+	switch {
+	case len(r.Model.Families) > 0:
+		return anglesText(r)
+	case hasGreen(r.Model):
+		return "a Fung-type term orthotropic about the tester's axes, no fibre family: the data's anisotropy need not come from fibres"
+	default:
+		return "isotropic, no fibre family"
 	}
 }
 

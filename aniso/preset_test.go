@@ -2,6 +2,7 @@ package aniso
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -83,4 +84,33 @@ func TestPresetPairOnOneFamilySpecimen(t *testing.T) {
 		t.Fatal(err)
 	}
 	t.Logf("held axis: β = %.3f°, loss %.6g; learned axis: families %.3f°/%.3f°, loss %.6g", got, res.Loss, rf.Model.Families[0].Angle/deg, rf.Model.Families[1].Angle/deg, rf.Loss)
+}
+
+// The preset caution says what a preset holds: fibre angles, or for the
+// Fung-type preset (Tong & Fung 1976) that its anisotropy is orthotropy
+// about the tester's axes without fibres (it read "preset:fung ()").
+// Both presets are fitted to a Mooney–Rivlin solid (closed form,
+// independent_test.go); only the wording is tested.
+func TestPresetCautionSaysWhatThePresetHolds(t *testing.T) {
+	t.Parallel()
+	p, err := NewProblem(synthFrom(t, mooneyRivlinMatrix(4, 1.5), synthOptions{noise: 0.01, points: 15, seed: 4}), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, want := range map[string]string{
+		"fung": "a Fung-type term orthotropic about the tester's axes, no fibre family",
+		"hgo":  "°",
+	} {
+		st, err := PresetStructure(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := Fit(p, st, Settings{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := presetWhat(r); !strings.Contains(got, want) || got == "" {
+			t.Errorf("preset %s: %q, want it to contain %q", name, got, want)
+		}
+	}
 }

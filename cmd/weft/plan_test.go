@@ -562,7 +562,7 @@ func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
 	}
 	// The hgo preset, a pair near ±45°, fits better in sample than the
 	// isotropic pick (ΔBIC 11.3 on 2026-12-04); the verdict says so.
-	if !strings.Contains(c.Verdict.Reason, "the classical preset preset:hgo") {
+	if !strings.Contains(c.Verdict.Reason, "the classical preset hgo (") {
 		t.Errorf("the verdict does not name the preset that fits better than the pick: %s", c.Verdict.Reason)
 	}
 	q := questionOn(t, pl, "fibres symmetric about the 45° line (look-alike of the isotropic verdict)")

@@ -303,6 +303,54 @@ func TestPreloadWarning(t *testing.T) {
 	}
 }
 
+// Noise is not a tare offset. An incompressible neo-Hookean membrane
+// (μ = 10 kPa, plane-stress nominal stress as in TestPreloadWarning, a
+// textbook closed form) stretched to 1.05 × 1.01 in 15 steps, with normal
+// noise of standard deviation 0.54 kPa on axis 2 (numpy's
+// default_rng(0) draws of 0.3 kPa, rounded and doubled; the
+// third-difference estimate of their scatter is 0.298 kPa), whose true
+// stress is 0.77 to 1.3 kPa at the stretches above 1.005: one point falls
+// to −0.277 kPa, below 5 % of the axis's range (1.637 kPa) but within one
+// standard deviation of zero, and is not warned about; the same data with
+// the load cell's zero off by −3 kPa are (7 points, the first −2.655 kPa at
+// 1.006, line 10). Before the scatter counted, the noise alone was told
+// of "a tare offset?", which advised re-referencing, and that would have
+// subtracted the first point's noise from every point.
+func TestNegativeStressBeyondNoise(t *testing.T) {
+	noise := []float64{0.04, -0.04, 0.19, 0.03, -0.16, 0.11, 0.39, 0.28, -0.21, -0.38, -0.19, 0.01, -0.7, -0.07, -0.37}
+	file := func(offset float64) string {
+		in := "protocol,stretch_1,stretch_2,nominal_11,nominal_22\n"
+		for i := range noise {
+			l1, l2 := 1+0.05*float64(i)/14, 1+0.01*float64(i)/14
+			p11 := 10 * (l1 - 1/(l1*l1*l1*l2*l2))
+			p22 := 10*(l2-1/(l2*l2*l2*l1*l1)) + 2*noise[i] + offset
+			in += fmt.Sprintf("1:1,%.6g,%.6g,%.6g,%.6g\n", l1, l2, p11, p22)
+		}
+		return in
+	}
+	tares := func(offset float64) []Warning {
+		t.Helper()
+		s, err := readString(file(offset), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var ws []Warning
+		for _, w := range s.Warnings {
+			if strings.Contains(w.Message, "a tare offset?") {
+				ws = append(ws, w)
+			}
+		}
+		return ws
+	}
+	if ws := tares(0); len(ws) != 0 {
+		t.Errorf("noise of 0.54 kPa alone: %+v", ws)
+	}
+	ws := tares(-3)
+	if len(ws) != 1 || ws[0].Line != 10 || !strings.Contains(ws[0].Message, "nominal stress 22 is -2.655 kPa at stretch 1.006 (line 10; 7 points like this)") {
+		t.Errorf("a zero off by −3 kPa: %+v, want one warning from line 10", ws)
+	}
+}
+
 // Smoothing comes before re-referencing, as the README says (the smoothed
 // F is what everything else uses): the new reference is the smoothed first
 // point, which the re-referenced data then hold as exactly the identity,

@@ -22,11 +22,13 @@ const (
 	// stretch above 1 + negStretch is reported as a likely tare offset.
 	negFraction = 0.05
 	negStretch  = 0.005
-	// preloadFraction: a normal stress above preloadFraction·range at a
-	// first kept point within preloadStretch of the reference state
-	// (every entry of |F − I|) is reported as a preload: with noise of
-	// 1–2 % of the range, five standard deviations or more.
-	preloadFraction = 0.1
+	// preloadFraction: a normal stress above preloadFraction·range, and
+	// above clearScatters times the component's point-to-point scatter, at
+	// a first kept point within preloadStretch of the reference state
+	// (every entry of |F − I|) is reported as a preload. The floor keeps a
+	// noise-free file's tare residual or last rounded digit from being
+	// taken for one; the scatter keeps a noisy tared reading from it.
+	preloadFraction = 0.01
 	preloadStretch  = 0.002
 	// clearScatters: a stress is "clearly" off zero when it lies more than
 	// this many standard deviations of its point-to-point scatter from it
@@ -1184,7 +1186,8 @@ func checkPreload(s *Specimen, pr *Protocol, pts []Point) {
 		if !s.Measured[c] {
 			continue
 		}
-		if rng := stressRange(pts, c); rng > 0 && p.Stress[c] > preloadFraction*rng {
+		rng := stressRange(pts, c)
+		if rng > 0 && p.Stress[c] > math.Max(preloadFraction*rng, clearScatters*stressScatter(pts, c)) {
 			pr.Preload[c] = p.Stress[c]
 			parts = append(parts, fmt.Sprintf("%s stress %s is %.4g %s (%.0f %% of its range)", s.Kind, c, p.Stress[c], s.StressUnit, 100*p.Stress[c]/rng))
 		}

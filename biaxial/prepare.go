@@ -350,6 +350,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	}
 	if opt.Rereference {
 		rereference(pts, s.Kind, &s.Measured, &pr)
+		checkTare(s, &pr, pts)
 	}
 	checkNegative(s, label, pts)
 	if !opt.Rereference {
@@ -1197,6 +1198,38 @@ func checkPreload(s *Specimen, pr *Protocol, pts []Point) {
 	}
 	s.warn(p.Line, pr.Label, "protocol %s: at its first kept point (line %d), the reference state (stretches %.4g and %.4g), %s — a preload that was not tared? A model is stress-free at the reference state and cannot follow it, and a preload that stretches one axis more than the other makes even an isotropic material respond like one with fibres along that axis; re-referencing each protocol to its first kept point treats the preloaded state as stress-free (common practice) but keeps the pre-stretch's effect; stretches measured from the unloaded, stress-free state avoid both",
 		pr.Label, p.Line, p.Stretch1(), p.Stretch2(), strings.Join(parts, " and "))
+}
+
+// checkTare warns, after re-referencing, when the tare subtracted from a
+// normal component (pr.Tare) is a clearly positive stress by the bound of
+// checkPreload (above preloadFraction of the component's range and
+// clearScatters times its point-to-point scatter): the new reference was
+// preloaded. Taring makes it stress-free in the data, but the pre-stretch
+// that carried the load stays in every point's response, and weft then
+// has no trace of it (Protocol.Preload is zero when re-referencing), so
+// a verdict cannot caution about it. On synthetic Demiray specimens
+// pre-stretched before the stretches were zeroed (README, Reference
+// state), re-referencing turned one ideal family at 0° (1.01 × 1.01, the
+// first point at 3–11 % of each range) into a decisive 2 at ±1.0° and
+// ±60.3°, and an isotropic matrix (1.02 × 1.005) into a decisive 2 at
+// ±27.6° and ±74.7°, without a word.
+func checkTare(s *Specimen, pr *Protocol, pts []Point) {
+	var parts []string
+	for _, c := range []Component{C11, C22} {
+		if !s.Measured[c] {
+			continue
+		}
+		rng := stressRange(pts, c)
+		if rng > 0 && pr.Tare[c] > math.Max(preloadFraction*rng, clearScatters*stressScatter(pts, c)) {
+			parts = append(parts, fmt.Sprintf("%s stress %s of %.4g %s (%.0f %% of its range)", s.Kind, c, pr.Tare[c], s.StressUnit, 100*pr.Tare[c]/rng))
+		}
+	}
+	if len(parts) == 0 {
+		return
+	}
+	ref := pr.RefF
+	s.warn(pts[0].Line, pr.Label, "protocol %s: re-referencing took its first kept point (line %d, F11 %.4g, F22 %.4g) as the stress-free reference and subtracted a tare of %s — that point was loaded: the pre-stretch that carried the load stays in the data, and one that stretches one axis more than the other makes even an isotropic material respond like one with fibres along that axis; stretches measured from the unloaded, stress-free state avoid it",
+		pr.Label, pts[0].Line, ref[0], ref[3], strings.Join(parts, " and "))
 }
 
 // rereference moves the reference state to the first point (see

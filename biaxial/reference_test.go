@@ -257,7 +257,9 @@ func TestWarnings(t *testing.T) {
 // whatever the scatter, and a noise-free synthetic Demiray specimen with one
 // fibre family along axis 1, pre-stretched 1.003 × 1.003 (1 % to 3 % of
 // each range at the reference), went unwarned while its fibre angle came
-// out ±9.1° instead of 0°.
+// out ±9.1° instead of 0°. Re-referenced, the data hold no preload, but
+// the tare taken off the loaded first point is named by the same bound
+// (checkTare): the pre-stretch stays in the data.
 func TestPreloadWarning(t *testing.T) {
 	mu := 10.0
 	nominal := func(l1, l2 float64) (float64, float64) {
@@ -300,6 +302,15 @@ func TestPreloadWarning(t *testing.T) {
 		}
 		return ws
 	}
+	tares := func(s *Specimen) []Warning {
+		var ws []Warning
+		for _, w := range s.Warnings {
+			if strings.Contains(w.Message, "re-referencing took its first kept point") {
+				ws = append(ws, w)
+			}
+		}
+		return ws
+	}
 	ws := preloads(file(1.03, 1.01, 1), Options{})
 	if len(ws) != 1 || ws[0].Line != 2 || ws[0].Protocol != "1:1" {
 		t.Fatalf("pre-stretched 1.03 × 1.01: preload warnings %+v, want one on line 2", ws)
@@ -315,6 +326,11 @@ func TestPreloadWarning(t *testing.T) {
 	if ws := preloads(file(1.03, 1.01, 1), Options{Rereference: true}); len(ws) != 0 || last.Protocols[0].Preload != [NumComponents]float64{} {
 		t.Errorf("re-referenced: %+v, Preload %v", ws, last.Protocols[0].Preload)
 	}
+	// Re-referenced, the tare taken off is named instead: the data keep
+	// the pre-stretch and no longer show the load.
+	if ws := tares(last); len(ws) != 1 || ws[0].Line != 2 || !strings.Contains(ws[0].Message, "subtracted a tare of nominal stress 11 of 1.329 kPa (22 % of its range) and nominal stress 22 of 0.9513 kPa (16 % of its range)") {
+		t.Errorf("re-referenced 1.03 × 1.01: tare warnings %+v, want one naming both axes on line 2", ws)
+	}
 	if ws := preloads(file(1.03, 1.01, 1.01), Options{}); len(ws) != 0 {
 		t.Errorf("first point off the reference state: %+v", ws)
 	}
@@ -329,6 +345,9 @@ func TestPreloadWarning(t *testing.T) {
 	tare = 0.1194
 	if ws := preloads(file(1.002, 1.002, 1), Options{}); len(ws) != 0 {
 		t.Errorf("a tared first reading under noise of 0.2 kPa: %+v", ws)
+	}
+	if _ = preloads(file(1.002, 1.002, 1), Options{Rereference: true}); len(tares(last)) != 0 {
+		t.Errorf("re-referenced at a tared first reading under noise of 0.2 kPa: %+v", tares(last))
 	}
 	// The large preload still stands out of that noise.
 	tare = 0

@@ -55,6 +55,23 @@ func strainScatter(pts []Point) [4]float64 {
 	return out
 }
 
+// stressScatter estimates the point-to-point scatter of component c's
+// stress over pts (in order) from its third differences, as strainScatter
+// does for F: a smooth stress–stretch curve has almost none, independent
+// noise of standard deviation s gives s. Zero with fewer than MinPoints
+// points.
+func stressScatter(pts []Point, c Component) float64 {
+	n := len(pts) - 3
+	if len(pts) < MinPoints || n < 1 {
+		return 0
+	}
+	d := make([]float64, n)
+	for i := range d {
+		d[i] = thirdDifference(pts[i].Stress[c], pts[i+1].Stress[c], pts[i+2].Stress[c], pts[i+3].Stress[c])
+	}
+	return scatterOfThirds(d)
+}
+
 // thirdDifference is |Δ³| of four values one step apart: |d − 3c + 3b − a|.
 func thirdDifference(a, b, c, d float64) float64 { return math.Abs(d - 3*c + 3*b - a) }
 

@@ -188,8 +188,9 @@ type Protocol struct {
 	Tare [NumComponents]float64
 	// Preload is the normal stress (in StressUnit) at the first kept point
 	// when that point lies at the reference state (F = I within 0.002) and
-	// a normal stress there is above a tenth of its range in the protocol:
-	// a preload that was not tared, which a warning names. It is set for
+	// a normal stress there is above 1 % of its range in the protocol and
+	// above 5 times its point-to-point scatter (see stressScatter): a
+	// preload that was not tared, which a warning names. It is set for
 	// each normal component above that bound and zero for the others; all
 	// zero otherwise, and always when re-referencing (see Tare).
 	Preload [NumComponents]float64

@@ -2,6 +2,7 @@ package card
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/weft-tools/weft/aniso"
@@ -20,7 +21,9 @@ type CalibrationCheck struct {
 	Fraction float64 `json:"fraction"`
 	// Verdict is the card's own verdict on the number of fibre families.
 	Verdict string `json:"verdict"`
-	// Holds is true when every outcome's verdict equals Verdict.
+	// Holds is true when every outcome's verdict equals Verdict. The
+	// chosen model's fibre directions may still move with the scale;
+	// Summary says so when one moves by more than calibrationMoveDeg.
 	Holds bool `json:"holds"`
 	// Outcomes are the verdicts with axis 1's stress scaled by 1 +
 	// Fraction and 1 − Fraction.
@@ -40,15 +43,33 @@ type CalibrationOutcome struct {
 	AnglesDeg []float64 `json:"angles_deg"`
 }
 
-// NewCalibrationCheck builds the section from the card's verdict and the
-// outcomes of aniso.AxisScaleCheck at fraction.
-func NewCalibrationCheck(verdict string, fraction float64, outs []aniso.AxisScaleOutcome) *CalibrationCheck {
+// calibrationMoveDeg is how far (degrees) a fibre direction of the
+// chosen model may move under the check's scaled stresses before the
+// summary says the angles depend on the calibration although the verdict
+// holds: the closeness to a test axis within which a verdict's cautions
+// treat fibres as along it (aniso's axisCautionDeg), well beyond the
+// degree or two the check moves a real family (demo M1 at ±5 %: ±29.4°
+// and ±29.6° against ±30.0°).
+const calibrationMoveDeg = 10
+
+// NewCalibrationCheck builds the section from the card's verdict, the
+// angles (degrees) of the card's chosen model and whether their signs are
+// identified (aniso.Result.SignKnown; otherwise only |α| is compared),
+// and the outcomes of aniso.AxisScaleCheck at fraction.
+func NewCalibrationCheck(verdict string, anglesDeg []float64, signKnown bool, fraction float64, outs []aniso.AxisScaleOutcome) *CalibrationCheck {
 	c := &CalibrationCheck{Fraction: fraction, Verdict: verdict, Holds: true}
 	var parts []string
+	move, moved := 0.0, false
 	for _, o := range outs {
 		c.Outcomes = append(c.Outcomes, CalibrationOutcome{Axis1Scale: o.Axis1Scale, Verdict: o.Families, Chosen: o.Chosen, AnglesDeg: o.AnglesDeg})
 		if o.Families != verdict {
 			c.Holds = false
+		}
+		if m, ok := directionsMove(anglesDeg, o.AnglesDeg, signKnown); !ok || m > calibrationMoveDeg {
+			moved = true
+			if ok {
+				move = math.Max(move, m)
+			}
 		}
 		at := ""
 		if o.Angles != "" {
@@ -57,9 +78,44 @@ func NewCalibrationCheck(verdict string, fraction float64, outs []aniso.AxisScal
 		parts = append(parts, fmt.Sprintf("axis 1's stress ×%g: %s%s", o.Axis1Scale, o.Families, at))
 	}
 	how := "the verdict holds"
-	if !c.Holds {
+	switch {
+	case !c.Holds:
 		how = "the verdict changes, so it depends on the calibration of the test's axes: check both load cells against a known weight and the loaded widths before trusting it"
+	case moved && move > 0:
+		// The same count of families in a direction the scale chose: an
+		// isotropic solid with axis 2's stress 2 % high read as one family
+		// at ±59.3°, at ±30.3° with axis 1's ×1.05 and at ±60.7° with
+		// ×0.95, and was told only that "the verdict holds".
+		how = fmt.Sprintf("the verdict holds, but a fibre direction moves by up to %.1f° (more than %d°), so the angles depend on the calibration of the test's axes — and fibres that follow the calibration may be none: check both load cells against a known weight and the loaded widths before trusting them", move, calibrationMoveDeg)
+	case moved:
+		how = "the verdict holds, but the number of fibre directions of the chosen model changes, so the model depends on the calibration of the test's axes: check both load cells against a known weight and the loaded widths before trusting it"
 	}
 	c.Summary = fmt.Sprintf("verdict %s; %s — %s", verdict, strings.Join(parts, "; "), how)
 	return c
+}
+
+// directionsMove returns the largest distance (degrees) from a direction
+// in a to the nearest in b, directions having period 180° and, unless
+// signKnown, α and −α being one; ok is false when a and b hold different
+// numbers of directions.
+func directionsMove(a, b []float64, signKnown bool) (worst float64, ok bool) {
+	if len(a) != len(b) {
+		return 0, false
+	}
+	axial := func(x, y float64) float64 {
+		d := math.Mod(math.Abs(x-y), 180)
+		return math.Min(d, 180-d)
+	}
+	for _, x := range a {
+		best := math.Inf(1)
+		for _, y := range b {
+			d := axial(x, y)
+			if !signKnown {
+				d = math.Min(d, axial(x, -y))
+			}
+			best = math.Min(best, d)
+		}
+		worst = math.Max(worst, best)
+	}
+	return worst, true
 }

@@ -279,7 +279,7 @@ func calibrationSchema() obj {
 		{"properties", obj{
 			{"fraction", obj{{"type", "number"}, {"exclusiveMinimum", 0}, {"exclusiveMaximum", 0.5}, {"description", "the relative scale tried, dimensionless (0.05 for ±5 %)"}}},
 			{"verdict", obj{{"type", "string"}, {"description", "the card's own verdict on the number of fibre families"}}},
-			{"holds", obj{{"type", "boolean"}, {"description", "true when every outcome's verdict is the card's"}}},
+			{"holds", obj{{"type", "boolean"}, {"description", "true when every outcome's verdict is the card's; the fibre directions may still move with the scale, which the summary says when one moves by more than 10 degrees"}}},
 			{"outcomes", obj{{"type", "array"}, {"items", outcome}}},
 			{"summary", obj{{"type", "string"}, {"description", "the check in words"}}},
 		}},
@@ -500,7 +500,7 @@ func TestCardsValidateAgainstSchema(t *testing.T) {
 				c.Extra = map[string]json.RawMessage{"future_section": json.RawMessage(`{"anything":[1,2],"rmse":1.2}`)}
 				unknown := make([]bool, len(m.Families))
 				c.Alternatives = NewAlternativesSection(m, "kPa", unknown)
-				c.CalibrationCheck = NewCalibrationCheck("1", 0.05, []aniso.AxisScaleOutcome{
+				c.CalibrationCheck = NewCalibrationCheck("1", []float64{30}, true, 0.05, []aniso.AxisScaleOutcome{
 					{Axis1Scale: 1.05, Families: "1", Chosen: "single-t2-p4", AnglesDeg: []float64{31.2}, Angles: "31.2°"},
 					{Axis1Scale: 0.95, Families: "0", Chosen: "none-t1-p2", AnglesDeg: []float64{}}})
 				if len(m.Families) > 0 && c.Alternatives == nil {

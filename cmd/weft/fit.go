@@ -574,7 +574,11 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
 	if check != nil {
-		o.Card.CalibrationCheck = card.NewCalibrationCheck(o.Discovery.Verdict.Families, ff.calibration, check)
+		var angles []float64
+		for _, f := range o.Result.Model.Families {
+			angles = append(angles, aniso.Deg(f.Angle))
+		}
+		o.Card.CalibrationCheck = card.NewCalibrationCheck(o.Discovery.Verdict.Families, angles, o.Result.SignKnown, ff.calibration, check)
 	}
 	return o, nil
 }

@@ -843,7 +843,7 @@ func TestReportShowsCalibrationCheck(t *testing.T) {
 	dir := demoFitCopy(t, "membrane-M1")
 	path := filepath.Join(dir, "model.json")
 	c, _ := readCardFile(t, path)
-	c.CalibrationCheck = card.NewCalibrationCheck(c.Verdict.Families, 0.05, []aniso.AxisScaleOutcome{
+	c.CalibrationCheck = card.NewCalibrationCheck(c.Verdict.Families, []float64{30}, false, 0.05, []aniso.AxisScaleOutcome{
 		{Axis1Scale: 1.05, Families: "0", Chosen: "none-t1-p2", AnglesDeg: []float64{}},
 		{Axis1Scale: 0.95, Families: c.Verdict.Families, Chosen: "single-t2-p4", AnglesDeg: []float64{29.6}, Angles: "±29.6°"}})
 	b, err := c.Marshal()

@@ -6,13 +6,15 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
 )
 
 // An undecided verdict names the command that ranks the tests that would
 // settle it, with the output folder quoted for a POSIX shell (in single
 // quotes, an embedded single quote closed, escaped and reopened: common
-// practice, POSIX shell quoting rules from memory); a decided
-// verdict, or a fit without discovery, names none.
+// practice, POSIX shell quoting rules from memory); a verdict with fibres
+// names the calibration check unless it ran; an isotropic verdict, or a
+// fit without discovery, names nothing.
 func TestNextStepForAnUndecidedVerdict(t *testing.T) {
 	undecided := &aniso.Discovery{Verdict: aniso.Verdict{Families: "undecided"}}
 	for _, c := range []struct {
@@ -21,8 +23,15 @@ func TestNextStepForAnUndecidedVerdict(t *testing.T) {
 	}{
 		{Fit{Dir: "out/P2.weft", Discovery: undecided}, "weft plan out/P2.weft ranks"},
 		{Fit{Dir: "my fits/Lee's P2.weft", Discovery: undecided}, `weft plan 'my fits/Lee'\''s P2.weft' ranks`},
-		{Fit{Dir: "out/M1.weft", Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: "1"}}}, ""},
+		{Fit{Dir: "out/M1.weft", Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: "0"}}}, ""},
 		{Fit{Dir: "out/M1.weft"}, ""},
+		// Fibres found without the calibration check: the option that
+		// would test them against a per-axis error (README, the paragraph
+		// on --calibration-check); none once it has run.
+		{Fit{Dir: "out/M1.weft", Card: &card.Card{}, Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: "1"}}}, "fit again with --calibration-check 0.05 to see whether these fibres survive"},
+		{Fit{Dir: "out/M1.weft", Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: "1-or-mirror-pair"}}}, "fit again with --calibration-check 0.05"},
+		{Fit{Dir: "out/M1.weft", Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: "2"}}}, "fit again with --calibration-check 0.05"},
+		{Fit{Dir: "out/M1.weft", Card: &card.Card{CalibrationCheck: &card.CalibrationCheck{}}, Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: "1"}}}, ""},
 	} {
 		got := nextStep(&c.fit)
 		if c.want == "" && got != "" || c.want != "" && !strings.HasPrefix(got, c.want) {

@@ -275,6 +275,7 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		rows.dmax = math.Max(rows.dmax, rows.d[i])
 	}
 	rows.noise, rows.entryNoise = rows.rowScatter()
+	rows.warnRepeatedBlocks(s)
 	firstLine := rows.line(0)
 	perr := func(cat error, fix, format string, args ...any) *ParseError {
 		return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: firstLine, Err: cat, Fix: fix,

@@ -36,7 +36,8 @@ import (
 // of the last row's, which stress noise hides: of 200 synthetic holds (5
 // to 20 rows, creeping or relaxing by 2 to 10 %, after ramps of 30 to 500
 // rows with 0.5 to 2 % stress noise and a scatter of 0 to 0.006 in F)
-// none was found; now 129 are (TestHeldLoadUnderStressNoise). What stays
+// none was found; now 129 are (TestHeldLoadUnderStressNoise checks 24
+// such holds, and 108 ramps without one). What stays
 // hidden is a hold whose rows change the stress by less than its noise
 // would tell: 10 held rows after 500 of ramp, where 10 rows of the ramp
 // itself rise by about 2 % of the range, are not found at 1 % noise.

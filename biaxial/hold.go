@@ -36,16 +36,16 @@ import (
 // of the last row's, which stress noise hides: of 200 synthetic holds (5
 // to 20 rows, creeping or relaxing by 2 to 10 %, after ramps of 30 to 500
 // rows with 0.5 to 2 % stress noise and a scatter of 0 to 0.006 in F)
-// none was found; now 129 are (TestHeldLoadUnderStressNoise checks 24
-// such holds, and 108 ramps without one). What stays
-// hidden is a hold whose rows change the stress by less than its noise
-// would tell: 10 held rows after 500 of ramp, where 10 rows of the ramp
-// itself rise by about 2 % of the range, are not found at 1 % noise.
-// The stress falls, too, in the first rows of an unloading that the
-// loading branch takes in when the stretch's scatter puts its highest
-// row past the turn; they are warned about as well, and the warning
-// names that reading (27 of 537 synthetic noisy cycles that unload,
-// without a hold; none of 163 ramps that do not).
+// none was found; now 142 are (TestHeldLoadUnderStressNoise checks 24
+// such holds, and 108 ramps without one). What stays hidden is a hold
+// whose rows change the stress by less than its noise would tell: 10 held
+// rows after 500 of ramp, where 10 rows of the ramp itself rise by about
+// 2 % of the range, are not found at 1 % noise. The stress falls, too, in
+// the first rows of an unloading that the loading branch takes in when
+// it ends past the turn of a noisy stretch (turnPeak); the warning names
+// that reading (3 of 537 synthetic noisy cycles that unload, without a
+// hold, and 1 ramp of 48 rows with 2 % noise, whose neo-Hookean stress
+// rises more slowly at its end; none of 163 ramps that do not unload).
 
 // Thresholds of warnHeldLoad.
 const (

@@ -14,7 +14,9 @@ import (
 // the load for five rows while the stretch creeps by 0.012 (viscous creep
 // at a held load is common practice in load-controlled biaxial testing);
 // protocol 1:0.5 has the same ramp without the hold. Only the held rows
-// are warned about, with their lines (from the row that reaches the load). A densely sampled stretch-controlled
+// are warned about, with their lines (the row that reaches the load lies
+// on the ramp's line as well as on the hold's, and the least-squares
+// change point gives it to the ramp). A densely sampled stretch-controlled
 // ramp with 0.1 % stress noise (2 000 rows), which rises fastest at its end,
 // gets no such warning, and neither does a branch other than loading.
 func TestHeldLoadWarning(t *testing.T) {
@@ -39,12 +41,12 @@ func TestHeldLoadWarning(t *testing.T) {
 	}
 	var held []Warning
 	for _, w := range s.Warnings {
-		if strings.Contains(w.Message, "hold the stress") {
+		if strings.Contains(w.Message, "stop the stress's rise") {
 			held = append(held, w)
 		}
 	}
-	if len(held) != 1 || held[0].Protocol != "1:1" || !strings.Contains(held[0].Message, "protocol 1:1: the last 6 kept rows of cycle 1 (lines 23–28)") {
-		t.Fatalf("held-load warnings %+v, want one for protocol 1:1 at lines 23–28 (the row reaching the load and the five held)", held)
+	if len(held) != 1 || held[0].Protocol != "1:1" || !strings.Contains(held[0].Message, "protocol 1:1: the last 5 kept rows of cycle 1 (lines 24–28)") {
+		t.Fatalf("held-load warnings %+v, want one for protocol 1:1 at lines 24–28 (the five held rows)", held)
 	}
 	if s, err := readString(b.String(), Options{Branch: BranchAll}); err != nil || hasHeldWarning(s) {
 		t.Errorf("both branches kept: %v, warnings %v", err, s.Warnings)
@@ -69,7 +71,7 @@ func TestHeldLoadWarning(t *testing.T) {
 
 func hasHeldWarning(s *Specimen) bool {
 	for _, w := range s.Warnings {
-		if strings.Contains(w.Message, "hold the stress") {
+		if strings.Contains(w.Message, "stop the stress's rise") {
 			return true
 		}
 	}
@@ -84,8 +86,11 @@ func hasHeldWarning(s *Specimen) bool {
 // F; then every entry of the written F gets Gaussian scatter sdF (tracking
 // noise) and each stress Gaussian noise of relS times the peak stress. With
 // hold > 0, hold more rows follow at the peak stress while the true
-// stretches creep on by creep (a load held under load control).
-func neoHookeanRamp(seed uint64, n int, sdF, relS float64, hold int, creep float64) string {
+// stretches creep on by creep (a load held under load control); with
+// relax > 0 their stress falls instead by relax times the peak stress,
+// evenly over the held rows (with creep 0: a stretch held under stretch
+// control, the stress relaxing).
+func neoHookeanRamp(seed uint64, n int, sdF, relS float64, hold int, creep, relax float64) string {
 	rng := rand.New(rand.NewPCG(seed, 7))
 	var b strings.Builder
 	b.WriteString("# specimen = SYN-nh (synthetic)\nprotocol,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
@@ -100,7 +105,7 @@ func neoHookeanRamp(seed uint64, n int, sdF, relS float64, hold int, creep float
 		row(l, sig(l))
 	}
 	for k := 1; k <= hold; k++ {
-		row(1.2+creep*float64(k)/float64(hold), peak)
+		row(1.2+creep*float64(k)/float64(hold), peak*(1-relax*float64(k)/float64(hold)))
 	}
 	return b.String()
 }
@@ -116,7 +121,7 @@ func neoHookeanRamp(seed uint64, n int, sdF, relS float64, hold int, creep float
 func TestNoisyRampHoldsNoLoad(t *testing.T) {
 	falsely := 0
 	for seed := uint64(1); seed <= 12; seed++ {
-		s, err := readString(neoHookeanRamp(seed, 500, 0.004, 0.005, 0, 0), Options{})
+		s, err := readString(neoHookeanRamp(seed, 500, 0.004, 0.005, 0, 0, 0), Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -129,11 +134,63 @@ func TestNoisyRampHoldsNoLoad(t *testing.T) {
 	}
 	// Ten rows held at the peak stress (noise-free) while the stretch
 	// creeps by 0.06, fifteen times the scatter of 0.004.
-	s, err := readString(neoHookeanRamp(1, 500, 0.004, 0, 10, 0.06), Options{})
+	s, err := readString(neoHookeanRamp(1, 500, 0.004, 0, 10, 0.06, 0), Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !hasHeldWarning(s) {
 		t.Errorf("a held load creeping by 0.06 at a scatter of 0.004 is not warned about: %v", s.Warnings)
+	}
+}
+
+// A hold is told from a ramp by a break in the stress's trend, judged
+// against the stress noise estimated from the data, not by stresses that
+// agree within 1 % of their range: at a stress noise of 1 % of the peak,
+// none of 12 synthetic load holds (10 rows, the stretch creeping by 0.02,
+// 50 rows of ramp) and none of 12 stretch holds (10 rows, the stress
+// relaxing by 5 % of the peak, 2 % noise, 200 rows of ramp) were found
+// before 2026-12-05; now all are. Ramps of 50 to 500 rows with 0.3 to 2 %
+// stress noise, which softens towards its end (the neo-Hookean stress
+// μ (λ² − λ⁻⁴) in equibiaxial plane stress rises more slowly at larger
+// stretches, Rivlin 1948), are still not warned about. Synthetic data.
+func TestHeldLoadUnderStressNoise(t *testing.T) {
+	var load, relax int
+	for seed := uint64(1); seed <= 12; seed++ {
+		s, err := readString(neoHookeanRamp(seed, 50, 0.002, 0.01, 10, 0.02, 0), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ws := warningsWith(s, "stop the stress's rise")
+		if len(ws) == 1 && strings.Contains(ws[0].Message, "the stretch creeps on") {
+			load++
+		}
+		s, err = readString(neoHookeanRamp(seed, 200, 0.002, 0.02, 10, 0, 0.05), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ws = warningsWith(s, "stop the stress's rise")
+		if len(ws) == 1 && strings.Contains(ws[0].Message, "a stretch held at the peak while the stress relaxes") {
+			relax++
+		}
+	}
+	if load != 12 || relax < 11 {
+		t.Errorf("found %d of 12 load holds at 1 %% stress noise and %d of 12 stretch holds at 2 %%, want all and at least 11", load, relax)
+	}
+	falsely := 0
+	for seed := uint64(1); seed <= 12; seed++ {
+		for _, n := range []int{50, 200, 500} {
+			for _, relS := range []float64{0.003, 0.01, 0.02} {
+				s, err := readString(neoHookeanRamp(seed, n, 0.002, relS, 0, 0, 0), Options{})
+				if err != nil {
+					t.Fatal(err)
+				}
+				if hasHeldWarning(s) {
+					falsely++
+				}
+			}
+		}
+	}
+	if falsely > 0 {
+		t.Errorf("%d of 108 noisy ramps are warned of a hold they do not have", falsely)
 	}
 }

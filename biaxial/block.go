@@ -1,0 +1,225 @@
+package biaxial
+
+import (
+	"fmt"
+	"math"
+)
+
+// Blocks written twice. A protocol or a cycle pasted twice into a file —
+// the same rows again further down, exactly or within rounding — is one
+// measurement that a fit with every cycle kept (--cycle all --branch all)
+// counts twice, inflating the evidence for a model and narrowing its
+// intervals; with the last cycle kept it may be the copy alone that is
+// fitted. The row check of the reader (repeats, parse.go) sees only a row
+// equal to the row before it; warnRepeatedBlocks compares a protocol's
+// rows with all its earlier rows.
+//
+// Two rows are the same reading when every value read — the four entries
+// of F, the stresses and the time, where the file gives them — agrees
+// within blockRounding of the largest magnitude of its quantity (F, stress
+// or time) in the protocol (the cycle number is not compared: a pasted
+// cycle may have been numbered anew). A cyclic test repeats its path, not its readings: each
+// cycle's rows carry the tester's noise (tracking noise of the markers is
+// 10⁻⁴ of the stretch and more, common practice) and later time stamps, so
+// no run of them agrees with an earlier run to 10⁻⁵.
+
+// blockMinRows is the fewest rows a repeated block must have, at least
+// blockMinRows − 1 of which differ from the row before them: a held
+// state, written as the same row again and again, is no block (the reader warns of rows
+// equal to the row before).
+const blockMinRows = 5
+
+// blockRounding is the agreement, as a fraction of the largest magnitude
+// of a quantity in the protocol, within which two values count as the same
+// reading written with other rounding (a stretch of about 1.2 written with
+// five decimals instead of six).
+const blockRounding = 1e-5
+
+// repeatedBlock is a run of a protocol's rows (positions copy … copy+n−1)
+// that repeats an earlier run (orig … orig+n−1).
+type repeatedBlock struct{ orig, copy, n int }
+
+// repeatedBlocks finds the runs of at least blockMinRows rows of the
+// protocol g that repeat an earlier run of its rows, in file order;
+// copies do not overlap their originals.
+func repeatedBlocks(t *rawTable, g *rawGroup) []repeatedBlock {
+	n := g.n
+	if n < 2*blockMinRows {
+		return nil
+	}
+	stride := t.layout.stride
+	cols := make([]int, 0, stride)
+	for _, s := range t.layout.f {
+		if s >= 0 {
+			cols = append(cols, s)
+		}
+	}
+	for _, s := range t.layout.stress {
+		if s >= 0 {
+			cols = append(cols, s)
+		}
+	}
+	if t.layout.time >= 0 {
+		cols = append(cols, t.layout.time)
+	}
+	// The scale of a value is the largest magnitude of its quantity in the
+	// protocol: of all the entries of F (a shear F12 of 0.001 is written
+	// with as many decimals as F11), of all the stresses, of the time.
+	group := make([]int, len(cols))
+	nf := len(cols)
+	for _, s := range t.layout.stress {
+		if s >= 0 {
+			nf--
+		}
+	}
+	if t.layout.time >= 0 {
+		nf--
+	}
+	for k := range cols {
+		switch {
+		case k < nf:
+			group[k] = 0
+		case t.layout.time >= 0 && k == len(cols)-1:
+			group[k] = 2
+		default:
+			group[k] = 1
+		}
+	}
+	var scale [3]float64
+	for i := 0; i < n; i++ {
+		v := t.row(g, i)
+		for k, c := range cols {
+			if a := math.Abs(v[c]); a > scale[group[k]] {
+				scale[group[k]] = a
+			}
+		}
+	}
+	step := make([]float64, len(cols))
+	for k := range step {
+		step[k] = blockRounding * scale[group[k]]
+	}
+	same := func(i, j int) bool {
+		a, b := t.row(g, i), t.row(g, j)
+		for k, c := range cols {
+			x, y := a[c], b[c]
+			if x != y && !(math.Abs(x-y) <= step[k]) && !(math.IsNaN(x) && math.IsNaN(y)) {
+				return false
+			}
+		}
+		return true
+	}
+	// Rows are found by a hash (FNV-1a, Fowler, Noll & Vo; from memory) of
+	// their values on a grid of twice the rounding: two readings within
+	// the rounding of each other share their grid cells but where a value
+	// lies at a cell's edge, which a block reaching back (below) mends.
+	// The first row of each reading is kept: the original of a pasted
+	// block is usually the only earlier row of its readings, and a block is
+	// looked for only from a row that moves on from the row before it, so
+	// a state at rest, written as the same row many times, is not tried
+	// against all its rows.
+	key := func(i int) uint64 {
+		h := uint64(14695981039346656037)
+		v := t.row(g, i)
+		for k, c := range cols {
+			x := v[c]
+			if step[k] > 0 {
+				x = math.Floor(x / (2 * step[k]))
+			}
+			u := math.Float64bits(x)
+			for b := 0; b < 64; b += 8 {
+				h ^= (u >> b) & 0xff
+				h *= 1099511628211
+			}
+		}
+		return h
+	}
+	// An open-addressing table of row positions (plus one; 0 is empty),
+	// at most half full: 8 bytes or less a row, and no keys stored, since
+	// a probe compares the rows themselves.
+	size := 1
+	for size < 2*n {
+		size *= 2
+	}
+	table := make([]int32, size)
+	// find returns the first earlier row remembered that is the same
+	// reading as row i, and the slot where row i goes if there is none.
+	find := func(i int, k uint64) (j, slot int) {
+		for slot = int(k) & (size - 1); table[slot] != 0; slot = (slot + 1) & (size - 1) {
+			if j = int(table[slot]) - 1; same(i, j) {
+				return j, slot
+			}
+		}
+		return -1, slot
+	}
+	remember := func(i int) {
+		if j, slot := find(i, key(i)); j < 0 {
+			table[slot] = int32(i + 1)
+		}
+	}
+	var out []repeatedBlock
+	done := 0 // the rows before are in a block found already
+	for i := 0; i < n; {
+		best := repeatedBlock{}
+		j, slot := find(i, key(i))
+		if j >= 0 && !(i > 0 && same(i, i-1)) { // a block is looked for from a row that moves on, not inside a state at rest
+			x := repeatedBlock{orig: j, copy: i}
+			for i+x.n < n && j+x.n < i && same(i+x.n, j+x.n) {
+				x.n++
+			}
+			// The first rows of a copy may have missed their originals at
+			// a cell's edge: the block reaches back as far as the rows
+			// agree.
+			for x.orig > 0 && x.copy > done && x.orig+x.n <= x.copy-1 && same(x.copy-1, x.orig-1) {
+				x.orig, x.copy, x.n = x.orig-1, x.copy-1, x.n+1
+			}
+			moved := 0
+			for m := 1; m < x.n; m++ {
+				if !same(x.copy+m, x.copy+m-1) {
+					moved++
+				}
+			}
+			if moved >= blockMinRows-1 && x.n > best.n {
+				best = x
+			}
+		}
+		if best.n == 0 {
+			if j < 0 {
+				table[slot] = int32(i + 1)
+			}
+			i++
+			continue
+		}
+		out = append(out, best)
+		for m := i; m < best.copy+best.n; m++ {
+			remember(m)
+		}
+		i = best.copy + best.n
+		done = i
+	}
+	return out
+}
+
+// warnRepeatedBlocks warns, once for the protocol, of the runs of its rows
+// that repeat an earlier run (repeatedBlocks), naming the first and how
+// many there are.
+func (r *protocolRows) warnRepeatedBlocks(s *Specimen) {
+	blocks := repeatedBlocks(r.t, r.g)
+	if len(blocks) == 0 {
+		return
+	}
+	b := blocks[0]
+	lines := "lines"
+	if r.rec.Sheet != "" {
+		lines = "rows"
+	}
+	more := ""
+	if len(blocks) > 1 {
+		rows := 0
+		for _, x := range blocks[1:] {
+			rows += x.n
+		}
+		more = fmt.Sprintf(" (and %s in %s more)", plural(rows, "row"), plural(len(blocks)-1, "block"))
+	}
+	s.warn(r.line(b.copy), r.g.label, "protocol %s: the %d rows at %s %d–%d repeat the rows at %s %d–%d, every value read equal within %g of the largest of its quantity%s — a block of rows (a cycle, or the protocol) written twice? A repeated cyclic test repeats its path, not its readings; where both blocks are among the points kept (e.g. --cycle all --branch all) the block counts twice in the fit, which inflates the evidence for a model and narrows its intervals — delete the copy",
+		r.g.label, b.n, lines, r.line(b.copy), r.line(b.copy+b.n-1), lines, r.line(b.orig), r.line(b.orig+b.n-1), blockRounding, more)
+}

@@ -248,8 +248,14 @@ type search struct {
 	variantOf map[int]int // planar form → its ideal layout, for derived forms
 	full      []*Result
 	fullErr   []error
-	presets   []*Result // per DiscoverSettings.Presets; nil where the fit failed
-	refits    []*refit
+	// fullAt is the isotropic form's full fit's parameters at its best
+	// optimum, with the terms it gives no weight at their own best shape
+	// parameters (idleProfiled); its forward steps start from them. Nil
+	// for the other forms, whose forward steps start from the full fit's
+	// own parameters.
+	fullAt  []map[string]float64
+	presets []*Result // per DiscoverSettings.Presets; nil where the fit failed
+	refits  []*refit
 }
 
 // refit is one candidate form's fit, warm-started from init.

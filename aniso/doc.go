@@ -145,7 +145,8 @@
 //
 // Discovery, Discover in discover.go, runs these stages in turn, each in a
 // file named after it: the points it searches on (searchpoints.go); the
-// full forms (fullforms.go); the term-subset search (termsubsets.go) and
+// full forms (fullforms.go); the term-subset search (termsubsets.go, with
+// the shape parameters a term has alone, shapeprofile.go) and
 // the refits and forward steps it feeds (refits.go); the best one-family
 // models refitted with a second family of the same kind (secondfamily.go);
 // the spread variants, and the best one-family spread models refitted as

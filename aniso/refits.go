@@ -6,8 +6,13 @@ package aniso
 
 import (
 	"fmt"
+	"maps"
 	"math"
 )
+
+// ownSubsetSize is the largest subset searched again at each term's own
+// best shape parameters (subsetRound).
+const ownSubsetSize = 2
 
 // refitSubsets searches the term subsets of every form at up to
 // maxAnchors local optima of its full fit (so that one poor optimum of the
@@ -17,6 +22,7 @@ func (s *search) refitSubsets() {
 	// The forms' searches run side by side (each on its own full fit's
 	// engine); their refits and notes are gathered in form order.
 	rounds := make([][]*refit, len(s.forms))
+	s.fullAt = make([]map[string]float64, len(s.forms))
 	notes := make([]string, len(s.forms))
 	var jobs []func()
 	var cost []float64
@@ -71,13 +77,10 @@ func (s *search) subsetRound(i int) ([]*refit, string) {
 	}
 	var round []*refit
 	seen := map[string]bool{}
-	var how string
-	for ai, an := range at {
-		best, h := searchSubsets(an.full, an.th, s.set.MaxTerms, keep, s.set.ExhaustiveLimit)
-		if ai == 0 {
-			how = h
-		}
-		init := paramsAt(an.full, an.th)
+	// refitEach adds a refit of every subset of best not yet added,
+	// started from init, and returns how many it added.
+	refitEach := func(best [][]subset, init map[string]float64) int {
+		added := 0
 		for _, group := range best {
 			for _, sub := range group {
 				key := fmt.Sprint(sub.terms)
@@ -90,7 +93,38 @@ func (s *search) subsetRound(i int) ([]*refit, string) {
 					st.Terms = append(st.Terms, full.Structure.Terms[k])
 				}
 				round = append(round, &refit{form: i, st: st, init: init})
+				added++
 			}
+		}
+		return added
+	}
+	var how string
+	for ai, an := range at {
+		th := an.th
+		if f.Layout == LayoutNone {
+			th = idleProfiled(an.full, an.th)
+		}
+		best, h := searchSubsets(an.full, th, s.set.MaxTerms, keep, s.set.ExhaustiveLimit)
+		if ai == 0 {
+			how = h
+		}
+		init := paramsAt(an.full, th)
+		if ai == 0 && f.Layout == LayoutNone {
+			s.fullAt[i] = maps.Clone(init)
+		}
+		refitEach(best, init)
+	}
+	// The smallest subsets again with every term's shape parameters where
+	// that term alone fits best: a term the full fit shares the load with
+	// others ranks there with parameters fitted for the mixture (a
+	// synthetic Gent (1996) solid, fitted by i1-gent alone at its own
+	// limit, was not refitted alone).
+	if len(anchors) > 0 && f.Layout == LayoutNone {
+		own := ownProfiled(full, anchors[0], false)
+		best, _ := searchSubsets(full, own, min(ownSubsetSize, s.set.MaxTerms), keep, s.set.ExhaustiveLimit)
+		added := refitEach(best, paramsAt(full, own))
+		if added > 0 {
+			where += fmt.Sprintf(", and subsets of up to %d terms at each term's own best shape parameters", min(ownSubsetSize, s.set.MaxTerms))
 		}
 	}
 	return round, fmt.Sprintf("%s: %s %s, then forward steps adding to the best refitted model of each size %s", formName(f), how, where, additionsText(branchOf(f)))
@@ -102,7 +136,10 @@ func (s *search) subsetRound(i int) ([]*refit, string) {
 // fit's.
 func (s *search) additions(i int, base *Result, n int) []*refit {
 	bst := activeStructure(base)
-	init := s.full[i].Params()
+	init := maps.Clone(s.fullAt[i])
+	if init == nil {
+		init = s.full[i].Params()
+	}
 	for name, v := range base.Params() {
 		init[name] = v
 	}

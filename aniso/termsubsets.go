@@ -82,10 +82,7 @@ func rankAdditions(full *Result, params map[string]float64, base Structure, n in
 			baseIdx = append(baseIdx, g)
 		}
 	}
-	yy := 0.0
-	for _, y := range e.p.Target {
-		yy += y * y
-	}
+	yy := sumSquares(e.p.Target)
 	type cand struct {
 		g    int
 		loss float64
@@ -96,32 +93,13 @@ func rankAdditions(full *Result, params map[string]float64, base Structure, n in
 	G := make([]float64, m*m)
 	b := make([]float64, m)
 	for g := range full.Structure.Terms {
-		if containsInt(baseIdx, g) || !e.allowed[g] {
+		if containsInt(baseIdx, g) {
 			continue
 		}
 		set := append(append([]int(nil), baseIdx...), g)
-		ok := true
-		for a, i := range set {
-			if !e.allowed[i] {
-				ok = false
-			}
-			b[a] = e.b[i]
-			for c, j := range set {
-				G[a*m+c] = e.G[i*e.ng+j]
-			}
+		if l := nnlsSubsetLoss(e, set, yy, &q, G, b); !math.IsInf(l, 1) {
+			cs = append(cs, cand{g, l})
 		}
-		if !ok {
-			continue
-		}
-		w := q.solve(G, b, m, nil)
-		l := yy
-		for a := 0; a < m; a++ {
-			l -= 2 * w[a] * b[a]
-			for c := 0; c < m; c++ {
-				l += w[a] * G[a*m+c] * w[c]
-			}
-		}
-		cs = append(cs, cand{g, l})
 	}
 	sort.SliceStable(cs, func(a, b int) bool { return cs[a].loss < cs[b].loss })
 	var out []int
@@ -129,6 +107,95 @@ func rankAdditions(full *Result, params map[string]float64, base Structure, n in
 		out = append(out, cs[i].g)
 	}
 	return out
+}
+
+// profiled reports whether group g of a full fit has shape parameters to
+// profile (profileShapes) and a column cheap enough to fill many times:
+// an isotropic term, or a fibre term on an ideal family.
+func profiled(full *Result, g int) bool {
+	if full.Structure.Planar && full.Structure.Terms[g].Family >= 0 {
+		return false
+	}
+	for _, q := range full.e.params {
+		if q.Kind == kindShape && q.Group == g {
+			return true
+		}
+	}
+	return false
+}
+
+// idleProfiled returns theta with the shape parameters of every group the
+// full fit gives no weight at theta set where that term alone fits the
+// data best (profileShapes): at theta they are wherever the loss, which
+// does not depend on them, left them. A form with spread families is left
+// as it is.
+func idleProfiled(full *Result, theta []float64) []float64 {
+	return ownProfiled(full, theta, true)
+}
+
+// ownProfiled returns theta with the shape parameters of each group (only
+// the groups the full fit gives no weight at theta when idleOnly) set
+// where that term alone fits the data best, with the angles at theta
+// (profileShapes). A form with spread families is returned as it is:
+// every evaluation refills their columns, an angular integration per
+// point each.
+func ownProfiled(full *Result, theta []float64, idleOnly bool) []float64 {
+	if full.Structure.Planar {
+		return theta
+	}
+	e := full.e
+	e.eval(theta, false)
+	var which []int
+	for g := range e.groups {
+		if (!idleOnly || e.w[g] == 0) && profiled(full, g) {
+			which = append(which, g)
+		}
+	}
+	if len(which) == 0 {
+		return theta
+	}
+	yy := sumSquares(e.p.Target)
+	var q nnls
+	G, b := make([]float64, 1), make([]float64, 1)
+	th := theta
+	for _, g := range which {
+		th, _ = profileShapes(e, th, g, func() float64 { return nnlsSubsetLoss(e, []int{g}, yy, &q, G, b) })
+	}
+	return th
+}
+
+// nnlsSubsetLoss returns the non-negative least-squares loss of the groups
+// in set from the engine's cross products (G and b are buffers of at least
+// len(set)² and len(set)); +Inf when a column is unusable.
+func nnlsSubsetLoss(e *engine, set []int, yy float64, q *nnls, G, b []float64) float64 {
+	m := len(set)
+	for a, i := range set {
+		if !e.allowed[i] {
+			return math.Inf(1)
+		}
+		b[a] = e.b[i]
+		for c, j := range set {
+			G[a*m+c] = e.G[i*e.ng+j]
+		}
+	}
+	w := q.solve(G[:m*m], b[:m], m, nil)
+	l := yy
+	for a := 0; a < m; a++ {
+		l -= 2 * w[a] * b[a]
+		for c := 0; c < m; c++ {
+			l += w[a] * G[a*m+c] * w[c]
+		}
+	}
+	return l
+}
+
+// sumSquares returns Σ y².
+func sumSquares(y []float64) float64 {
+	s := 0.0
+	for _, v := range y {
+		s += v * v
+	}
+	return s
 }
 
 // searchSubsets finds, for every size k = 1…K, the best `keep` subsets of

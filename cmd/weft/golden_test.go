@@ -141,7 +141,7 @@ func demoFits(t *testing.T) demoFitRun {
 			demoFitResult = demoFitRun{stderr: err.Error(), code: -1}
 			return
 		}
-		sharedDirs = append(sharedDirs, dir)
+		addSharedDir(dir)
 		out := filepath.Join(dir, "out")
 		args := []string{"fit", "-o", out, "--quiet"}
 		for _, n := range demoInputs {
@@ -161,8 +161,59 @@ func demoFits(t *testing.T) demoFitRun {
 // without .weft) into a fresh folder that the test may change.
 func demoFitCopy(t *testing.T, name string) string {
 	t.Helper()
-	src := filepath.Join(demoFits(t).dir, name+".weft")
 	dst := filepath.Join(t.TempDir(), "out.weft")
+	copyFolder(t, filepath.Join(demoFits(t).dir, name+".weft"), dst)
+	return dst
+}
+
+// sharedFit is one 'weft fit DATA -o FOLDER --quiet' (discovery, default
+// options), made once for every test that asks for the same DATA.
+type sharedFit struct {
+	once        sync.Once
+	dir, stderr string
+	code        int
+}
+
+// sharedFits holds sharedFitCopy's runs, keyed by the data file's path as
+// the tests give it.
+var sharedFits sync.Map
+
+// sharedFitCopy runs 'weft fit data -o FOLDER --quiet' once per test
+// binary, whichever test asks first, and copies FOLDER to dst, which the
+// calling test may change, returning dst (a fit.weft folder in the test's
+// temporary folder); the test fails when the fit did not succeed.
+// Tests that ran the same command each on their own share its discovery
+// so, which gives the same bytes every run (TestDemoOutputsUnchanged pins
+// them; aniso.TestDiscoverDeterministicAcrossWorkers); a test that checks
+// that a fit is deterministic or independent of history (the protocol
+// order, the path as typed) runs its own fits instead.
+func sharedFitCopy(t *testing.T, data string) string {
+	t.Helper()
+	v, _ := sharedFits.LoadOrStore(data, new(sharedFit))
+	f := v.(*sharedFit)
+	f.once.Do(func() {
+		dir, err := os.MkdirTemp("", "weft-shared-fit-")
+		if err != nil {
+			f.stderr, f.code = err.Error(), -1
+			return
+		}
+		addSharedDir(dir)
+		f.dir = filepath.Join(dir, "fit.weft")
+		var o, e strings.Builder
+		f.code = run([]string{"fit", data, "-o", f.dir, "--quiet"}, &o, &e)
+		f.stderr = e.String()
+	})
+	if f.code != 0 {
+		t.Fatalf("weft fit %s: exit %d: %s", data, f.code, f.stderr)
+	}
+	dst := filepath.Join(t.TempDir(), "fit.weft")
+	copyFolder(t, f.dir, dst)
+	return dst
+}
+
+// copyFolder copies the folder src, files and subfolders, to dst.
+func copyFolder(t *testing.T, src, dst string) {
+	t.Helper()
 	err := filepath.WalkDir(src, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return err
@@ -180,5 +231,4 @@ func demoFitCopy(t *testing.T, name string) string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return dst
 }

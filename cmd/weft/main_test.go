@@ -7,6 +7,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -50,9 +51,20 @@ func TestMain(m *testing.M) {
 // weft as main does and writes that peak to path; it returns the exit code.
 var recordPeak func(path string) int
 
-// sharedDirs are folders that several tests read (demoFits), removed when
-// the tests end.
-var sharedDirs []string
+// sharedDirs are folders that several tests read (demoFits,
+// sharedFitCopy), removed when the tests end; sharedDirsMu guards it, as
+// tests in parallel add to it.
+var (
+	sharedDirs   []string
+	sharedDirsMu sync.Mutex
+)
+
+// addSharedDir adds dir to sharedDirs.
+func addSharedDir(dir string) {
+	sharedDirsMu.Lock()
+	defer sharedDirsMu.Unlock()
+	sharedDirs = append(sharedDirs, dir)
+}
 
 // weftProcess returns a command that runs weft with args as a separate
 // process (the test binary itself, see TestMain).

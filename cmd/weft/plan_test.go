@@ -594,12 +594,12 @@ func presetFit(t *testing.T, preset string) string {
 
 // fitAndPlan fits the test file name (in testdata) with weft fit and
 // plans its next test with weft plan, returning the card and the plan.
+// The fit is shared with the other tests that fit the same file
+// (sharedFitCopy: TestReportLayoutAnglesWithoutShear fits the one of
+// TestPlanIsotropicPickAgainstFibres).
 func fitAndPlan(t *testing.T, name string) (*card.Card, planning.Report) {
 	t.Helper()
-	dir := filepath.Join(t.TempDir(), "fit.weft")
-	if _, errs, code := runWeft(t, "fit", filepath.Join("testdata", name), "-o", dir, "--quiet"); code != 0 {
-		t.Fatalf("fit: exit %d: %s", code, errs)
-	}
+	dir := sharedFitCopy(t, filepath.Join("testdata", name))
 	c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
 	pl, _ := planJSON(t, dir)
 	return c, pl

@@ -65,7 +65,7 @@ func TestReportLayoutAnglesWithoutShear(t *testing.T) {
 		t.Skip("one discovery")
 	}
 	t.Parallel()
-	dir := fitPath(t, filepath.Join("testdata", "orthogonal-fibres-load-controlled.csv"))
+	dir := sharedFitCopy(t, filepath.Join("testdata", "orthogonal-fibres-load-controlled.csv"))
 	c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
 	if c.Data.HasShear || c.Fit.AngleSignKnown || len(c.Families) != 0 {
 		t.Fatalf("has_shear %v, angle_sign_known %v, %d families: want an isotropic pick on data without shear", c.Data.HasShear, c.Fit.AngleSignKnown, len(c.Families))

@@ -239,6 +239,9 @@ type protocolRows struct {
 	// scatter of an entry of F, which sets how far apart two directions of
 	// stretch must be to differ (rowScatter).
 	noise, entryNoise float64
+	// blocks are the runs of rows that repeat an earlier run
+	// (warnRepeatedBlocks), which a refusal names where they explain it.
+	blocks []repeatedBlock
 }
 
 // scratch is working memory shared by the protocols of a table, which are
@@ -268,6 +271,31 @@ func newScratch(t *rawTable) *scratch {
 }
 
 func (r *protocolRows) line(pos int) int { return r.t.line(r.g, pos) }
+
+// positions returns the positions of the protocol's rows on lines span[0]
+// to span[1].
+func (r *protocolRows) positions(span [2]int) []int {
+	var pos []int
+	for p := 0; p < r.g.n; p++ {
+		if l := r.line(p); l >= span[0] && l <= span[1] {
+			pos = append(pos, p)
+		}
+	}
+	return pos
+}
+
+// lineRange names the lines a to b of a CSV file ("lines 5–9", "line 5"),
+// or the rows of a sheet.
+func (r *protocolRows) lineRange(a, b int) string {
+	word := "line"
+	if r.rec.Sheet != "" {
+		word = "row"
+	}
+	if a == b {
+		return fmt.Sprintf("%s %d", word, a)
+	}
+	return fmt.Sprintf("%ss %d–%d", word, a, b)
+}
 
 // prepareProtocol selects, re-references, resamples and weights one protocol.
 func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Options, sc *scratch) (Protocol, error) {
@@ -320,8 +348,17 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	pr.SelectedPoints = len(keep)
 	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), g.n)
 	if len(keep) < MinPoints {
-		return pr, perr(ErrProtocol, "choose another cycle or branch, or check that the protocol labels and the stretch columns are right",
-			"keeps %s (%s); at least %d are needed", plural(len(keep), "point"), keptWords(opt, len(cycles)), MinPoints)
+		where := ""
+		if len(keep) > 0 {
+			where = ", " + rows.lineRange(rows.line(keep[0]), rows.line(keep[len(keep)-1]))
+		}
+		fix := "choose another cycle or branch, or check that the protocol labels and the stretch columns are right"
+		pasted := rows.pastedAmong(keep, "a block of rows written twice, whose copy is read as a cycle of its own?")
+		if pasted != "" {
+			fix = "delete the copy, or choose another cycle or branch"
+		}
+		return pr, perr(ErrProtocol, fix,
+			"keeps %s (%s%s); at least %d are needed%s", plural(len(keep), "point"), keptWords(opt, len(cycles)), where, MinPoints, pasted)
 	}
 	pts := make([]Point, len(keep))
 	for i, pos := range keep {
@@ -468,9 +505,16 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 			Msg: fmt.Sprintf("protocol %s: the rows at %s %d and %d %s; they look like two protocols under one label, written in turn, and would be fitted as one",
 				quote(r.g.label), lines, x, y, alt)}
 	}
-	return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: "give each protocol its own label",
-		Msg: fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
-			quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)}
+	msg := fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
+		quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)
+	fix := "give each protocol its own label"
+	// A block pasted again with its cycle number reads as that cycle
+	// coming back; the copy is then the cause, not a second protocol.
+	if pasted := r.pastedAmong(r.positions(b), "or a block of rows written twice, the copy keeping its cycle number?"); pasted != "" {
+		msg += pasted
+		fix = "delete the copy, or give each protocol its own label"
+	}
+	return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: fix, Msg: msg}
 }
 
 // interleaved finds rows of one label that go back and forth between two

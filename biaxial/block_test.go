@@ -118,7 +118,8 @@ func TestRepeatedBlockWarned(t *testing.T) {
 // points (cycle 4 of 4, loading branch); at least 5 are needed" without
 // the lines of those points or the repeat the reader had found (the
 // warnings of a refused file are not shown), and, pasted with its cycle
-// number, "they look like two protocols under one label" alone. The
+// number, "they look like two protocols under one label" alone, and a
+// branch shorter than the smoothing window only its count. The
 // synthetic data are an incompressible neo-Hookean membrane in plane
 // stress (Treloar 1943; σ_ii = μ(λ_i² − 1/(λ1λ2)²)).
 func TestRefusalNamesPastedBlock(t *testing.T) {
@@ -153,6 +154,12 @@ func TestRefusalNamesPastedBlock(t *testing.T) {
 	// Keeping the number of the cycle it was copied from.
 	_, err = readString(cyclicHeader+strings.Join(paste("2"), "\n")+"\n", Options{})
 	wantParseError(t, err, ErrProtocol, 120, 0, "both hold cycle 2", block, "delete the copy")
+
+	// A pasted rise, kept as a last cycle of 9 points, is shorter than a
+	// smoothing window of 11.
+	rise := append(append([]string(nil), base...), base[39+5:39+13]...) // lines 120–127 repeat 47–54
+	_, err = readString(noCycle(rise), Options{SmoothStrain: 11})
+	wantParseError(t, err, ErrProtocol, 3, 0, "smoothing window of 11", "the rows at lines 120–127 repeat those at lines 47–54", "delete the copy")
 
 	// A short last cycle that repeats nothing is refused as before, with
 	// its lines and without a repeat named.

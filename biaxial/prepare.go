@@ -377,9 +377,14 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		ends := append(starts[1:len(starts):len(starts)], len(pts))
 		for j, a := range starts {
 			if n := ends[j] - a; n < opt.SmoothStrain {
-				return pr, perr(ErrProtocol, "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol",
-					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch",
-					plural(n, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain)
+				fix := "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol"
+				pasted := rows.pastedAmong(keep[a:ends[j]], "a block of rows written twice, whose copy is read as a cycle of its own?")
+				if pasted != "" {
+					fix = "delete the copy, " + fix
+				}
+				return pr, perr(ErrProtocol, fix,
+					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
+					plural(n, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain, pasted)
 			}
 		}
 		for j, a := range starts {

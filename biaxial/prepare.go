@@ -38,6 +38,13 @@ const (
 	// factor are reported (the weighting evens them out, but a fit still
 	// sees very different resolutions).
 	countRatio = 3
+	// partialFraction: a cycle found from the turns of the stretch whose
+	// low point stays above the protocol's lowest by more than this
+	// fraction of its range did not come back towards the start: the
+	// stretch fell back and rose again inside what may be one loading (a
+	// slip of a grip or of the markers), and keeping that cycle alone
+	// keeps only the top of the ramp (partialTurn).
+	partialFraction = 0.25
 	// sameDirection: the cycles of one protocol stretch the specimen the
 	// same way; peaks whose directions in (F − I) differ by more than this
 	// angle (degrees) belong to different protocols. 1:1 and 1:0.75 differ
@@ -272,6 +279,30 @@ func newScratch(t *rawTable) *scratch {
 
 func (r *protocolRows) line(pos int) int { return r.t.line(r.g, pos) }
 
+// partialTurn describes cycle k (0-based) of cycles found from the turns
+// of the stretch when it starts at a low point that did not come back
+// towards the protocol's lowest stretch (partialFraction), naming where
+// the stretch fell back; "" otherwise. Such a turn splits what may be one
+// loading ramp, and the cycle after it holds only the ramp's top: a
+// synthetic ramp of 25 rows whose stretch fell back by 0.02 (a tenth of
+// its range) 3 to 10 rows before its peak kept 4 to 11 rows, refused
+// below 5 as "keeps 4 points" with nothing about the fall.
+func (r *protocolRows) partialTurn(cycles []cycleSpan, k int) string {
+	if k < 1 || k >= len(cycles) {
+		return ""
+	}
+	c, prev := cycles[k], cycles[k-1]
+	low := c.idx[0]
+	span := r.dmax - r.dmin
+	if !(span > 0) || r.d[low]-r.dmin <= partialFraction*span {
+		return ""
+	}
+	top := prev.idx[prev.peak]
+	return fmt.Sprintf("cycle %d begins at %s, where the driving stretch had fallen back from %.4g (%s) by %.3g and then rose again, %.0f %% of its range above its lowest (%.4g): it did not come back towards the start, so it may be one loading whose stretch slipped (a grip or the markers?), read as a turn",
+		k+1, r.lineRange(r.line(low), r.line(low)), r.d[top], r.lineRange(r.line(top), r.line(top)), r.d[top]-r.d[low],
+		100*(r.d[low]-r.dmin)/span, r.dmin)
+}
+
 // positions returns the positions of the protocol's rows on lines span[0]
 // to span[1].
 func (r *protocolRows) positions(span [2]int) []int {
@@ -345,6 +376,10 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		return pr, err
 	}
 	keep, cyc, starts := rows.keepBranches(s, opt.Branch, cycles, chosen)
+	partial := ""
+	if !rec.HasCycle && len(chosen) == 1 && opt.Branch != BranchUnloading { // the slip cuts the loading
+		partial = rows.partialTurn(cycles, chosen[0])
+	}
 	pr.SelectedPoints = len(keep)
 	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), g.n)
 	if len(keep) < MinPoints {
@@ -354,11 +389,19 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		}
 		fix := "choose another cycle or branch, or check that the protocol labels and the stretch columns are right"
 		pasted := rows.pastedAmong(keep, "a block of rows written twice, whose copy is read as a cycle of its own?")
-		if pasted != "" {
+		switch {
+		case pasted != "":
 			fix = "delete the copy, or choose another cycle or branch"
+		case partial != "":
+			pasted = "; " + partial
+			fix = "check the stretch columns where it fell back, or choose another cycle or branch"
 		}
 		return pr, perr(ErrProtocol, fix,
 			"keeps %s (%s%s); at least %d are needed%s", plural(len(keep), "point"), keptWords(opt, len(cycles)), where, MinPoints, pasted)
+	}
+	if partial != "" {
+		s.warn(rows.line(cycles[chosen[0]].idx[0]), label, "protocol %s: %s; only %s of the protocol's %d rows are kept — check the stretch columns where it fell back, or choose another cycle",
+			label, partial, plural(len(keep), "row"), g.n)
 	}
 	pts := make([]Point, len(keep))
 	for i, pos := range keep {

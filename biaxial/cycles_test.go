@@ -349,6 +349,10 @@ func TestSlipReadAsTurnIsNamed(t *testing.T) {
 		!strings.Contains(ws[0].Message, "(line 117) by 0.02") || !strings.Contains(ws[0].Message, "only 7 rows of the protocol's 147 rows are kept") {
 		t.Errorf("a slip 6 rows below the peak: warnings %v, want one at line 119 naming line 117 and 7 of 147 rows", s.Warnings)
 	}
+	// The same 7 rows are fewer than a smoothing window of 9.
+	_, err = readString(slipRows(6, 0.02), Options{SmoothStrain: 9})
+	wantParseError(t, err, ErrProtocol, 3, 0, "smoothing window of 9", "cycle 4 begins at line 119", "(line 117) by 0.02")
+
 	for _, opt := range []Options{{}, {Cycle: 2}, {Branch: BranchUnloading}} {
 		s, err := readString(slipRows(0, 0), opt)
 		if err != nil {

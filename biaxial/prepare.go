@@ -422,8 +422,12 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 			if n := ends[j] - a; n < opt.SmoothStrain {
 				fix := "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol"
 				pasted := rows.pastedAmong(keep[a:ends[j]], "a block of rows written twice, whose copy is read as a cycle of its own?")
-				if pasted != "" {
+				switch {
+				case pasted != "":
 					fix = "delete the copy, " + fix
+				case partial != "":
+					pasted = "; " + partial
+					fix = "check the stretch columns where it fell back, " + fix
 				}
 				return pr, perr(ErrProtocol, fix,
 					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",

@@ -240,7 +240,7 @@ func (r *protocolRows) pastedAmong(pos []int, guess string) string {
 	for _, b := range r.blocks {
 		for _, p := range pos {
 			if p >= b.copy && p < b.copy+b.n {
-				return fmt.Sprintf("; the rows at %s repeat those at %s, every value read equal within %g of the largest of its quantity: %s",
+				return fmt.Sprintf("; %s repeat %s, every value read equal within %g of the largest of its quantity: %s",
 					r.lineRange(r.line(b.copy), r.line(b.copy+b.n-1)), r.lineRange(r.line(b.orig), r.line(b.orig+b.n-1)), blockRounding, guess)
 			}
 		}

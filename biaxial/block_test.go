@@ -131,7 +131,7 @@ func TestRefusalNamesPastedBlock(t *testing.T) {
 		}
 		return rows
 	}
-	const block = "the rows at lines 120–130 repeat those at lines 61–71"
+	const block = "; lines 120–130 repeat lines 61–71"
 	noCycle := func(rows []string) string {
 		var b strings.Builder
 		b.WriteString("# specimen = BLOCK (synthetic)\nprotocol,time [s],F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
@@ -145,7 +145,7 @@ func TestRefusalNamesPastedBlock(t *testing.T) {
 	// Cycles from the turns of the stretch: the copy begins at a peak.
 	_, err := readString(noCycle(paste("2")), Options{})
 	pe := wantParseError(t, err, ErrProtocol, 3, 0, "keeps 2 points", "lines 119–120", block, "written twice", "delete the copy")
-	if strings.Count(pe.Error(), "repeat those") != 1 {
+	if strings.Count(pe.Error(), " repeat lines") != 1 {
 		t.Errorf("the block is named once: %v", pe)
 	}
 	// Numbered as a new cycle.
@@ -159,7 +159,7 @@ func TestRefusalNamesPastedBlock(t *testing.T) {
 	// smoothing window of 11.
 	rise := append(append([]string(nil), base...), base[39+5:39+13]...) // lines 120–127 repeat 47–54
 	_, err = readString(noCycle(rise), Options{SmoothStrain: 11})
-	wantParseError(t, err, ErrProtocol, 3, 0, "smoothing window of 11", "the rows at lines 120–127 repeat those at lines 47–54", "delete the copy")
+	wantParseError(t, err, ErrProtocol, 3, 0, "smoothing window of 11", "; lines 120–127 repeat lines 47–54", "delete the copy")
 
 	// A short last cycle that repeats nothing is refused as before, with
 	// its lines and without a repeat named.

@@ -544,9 +544,9 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 	if why == "" {
 		a, b, why = r.directions(cycles)
 	}
-	lines := "lines"
+	lines := "the rows at lines"
 	if r.rec.Sheet != "" {
-		lines = "rows"
+		lines = "rows" // not "the rows at rows"
 	}
 	if why == "" {
 		x, y, alt := r.interleaved()
@@ -554,10 +554,10 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 			return nil
 		}
 		return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: y, Err: ErrProtocol, Fix: "give each protocol its own label",
-			Msg: fmt.Sprintf("protocol %s: the rows at %s %d and %d %s; they look like two protocols under one label, written in turn, and would be fitted as one",
+			Msg: fmt.Sprintf("protocol %s: %s %d and %d %s; they look like two protocols under one label, written in turn, and would be fitted as one",
 				quote(r.g.label), lines, x, y, alt)}
 	}
-	msg := fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
+	msg := fmt.Sprintf("protocol %s: %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
 		quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)
 	fix := "give each protocol its own label"
 	// A block pasted again with its cycle number reads as that cycle

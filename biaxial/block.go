@@ -199,11 +199,13 @@ func repeatedBlocks(t *rawTable, g *rawGroup) []repeatedBlock {
 	return out
 }
 
-// warnRepeatedBlocks warns, once for the protocol, of the runs of its rows
-// that repeat an earlier run (repeatedBlocks), naming the first and how
-// many there are.
+// warnRepeatedBlocks finds the runs of the protocol's rows that repeat an
+// earlier run (repeatedBlocks), keeps them for the refusals that they may
+// explain (pastedAmong), and warns once for the protocol, naming the first
+// and how many there are.
 func (r *protocolRows) warnRepeatedBlocks(s *Specimen) {
-	blocks := repeatedBlocks(r.t, r.g)
+	r.blocks = repeatedBlocks(r.t, r.g)
+	blocks := r.blocks
 	if len(blocks) == 0 {
 		return
 	}
@@ -222,4 +224,26 @@ func (r *protocolRows) warnRepeatedBlocks(s *Specimen) {
 	}
 	s.warn(r.line(b.copy), r.g.label, "protocol %s: the %d rows at %s %d–%d repeat the rows at %s %d–%d, every value read equal within %g of the largest of its quantity%s — a block of rows (a cycle, or the protocol) written twice? A repeated cyclic test repeats its path, not its readings; where both blocks are among the points kept (e.g. --cycle all --branch all) the block counts twice in the fit, which inflates the evidence for a model and narrows its intervals — delete the copy",
 		r.g.label, b.n, lines, r.line(b.copy), r.line(b.copy+b.n-1), lines, r.line(b.orig), r.line(b.orig+b.n-1), blockRounding, more)
+}
+
+// pastedAmong says, for a refusal, which repeated block (warnRepeatedBlocks)
+// holds rows at any of the given positions of the protocol, in words that
+// end the refusal's message with guess (what the copy looks like to the
+// check that refused), or "" when none does. A block pasted at the
+// end of a protocol is read as one more cycle: the stretch turns where the
+// copy begins, and the copy, shorter than a cycle, is the last cycle a fit
+// keeps by default (or, numbered as an earlier cycle, a cycle that comes
+// back). The refusal names what it sees — too few points, a cycle number
+// again — and without this the cause, which the reader had found, would go
+// unsaid: the warnings of a refused file are not shown.
+func (r *protocolRows) pastedAmong(pos []int, guess string) string {
+	for _, b := range r.blocks {
+		for _, p := range pos {
+			if p >= b.copy && p < b.copy+b.n {
+				return fmt.Sprintf("; %s repeat %s, every value read equal within %g of the largest of its quantity: %s",
+					r.lineRange(r.line(b.copy), r.line(b.copy+b.n-1)), r.lineRange(r.line(b.orig), r.line(b.orig+b.n-1)), blockRounding, guess)
+			}
+		}
+	}
+	return ""
 }

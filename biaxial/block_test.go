@@ -111,3 +111,62 @@ func TestRepeatedBlockWarned(t *testing.T) {
 		t.Errorf("rows held at rest taken for a block written twice: %v", ws)
 	}
 }
+
+// A block pasted at the end of a protocol is read as one more cycle, and
+// the refusal it causes must name it: until 2026-12-05 a synthetic cycle's
+// peak and the 10 rows after it, pasted again at the end, gave "keeps 2
+// points (cycle 4 of 4, loading branch); at least 5 are needed" without
+// the lines of those points or the repeat the reader had found (the
+// warnings of a refused file are not shown), and, pasted with its cycle
+// number, "they look like two protocols under one label" alone, and a
+// branch shorter than the smoothing window only its count. The
+// synthetic data are an incompressible neo-Hookean membrane in plane
+// stress (Treloar 1943; σ_ii = μ(λ_i² − 1/(λ1λ2)²)).
+func TestRefusalNamesPastedBlock(t *testing.T) {
+	base := cyclicRows(4, "1:1", 1, 3, 20, 0.002, 0.01, 6) // lines 3–119, 39 rows a cycle
+	paste := func(cycle string) []string {
+		rows := append([]string(nil), base...)
+		for _, r := range base[39+19 : 39+30] { // cycle 2's peak (line 61) and 10 rows down
+			rows = append(rows, strings.Replace(r, "1:1,2,", "1:1,"+cycle+",", 1))
+		}
+		return rows
+	}
+	const block = "; lines 120–130 repeat lines 61–71"
+	noCycle := func(rows []string) string {
+		var b strings.Builder
+		b.WriteString("# specimen = BLOCK (synthetic)\nprotocol,time [s],F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+		for _, r := range rows {
+			f := strings.SplitN(r, ",", 3)
+			b.WriteString(f[0] + "," + f[2] + "\n")
+		}
+		return b.String()
+	}
+
+	// Cycles from the turns of the stretch: the copy begins at a peak.
+	_, err := readString(noCycle(paste("2")), Options{})
+	pe := wantParseError(t, err, ErrProtocol, 3, 0, "keeps 2 points", "lines 119–120", block, "written twice", "delete the copy")
+	if strings.Count(pe.Error(), " repeat lines") != 1 {
+		t.Errorf("the block is named once: %v", pe)
+	}
+	// Numbered as a new cycle.
+	_, err = readString(cyclicHeader+strings.Join(paste("4"), "\n")+"\n", Options{})
+	wantParseError(t, err, ErrProtocol, 3, 0, "keeps 1 point (", "line 120)", block, "delete the copy")
+	// Keeping the number of the cycle it was copied from.
+	_, err = readString(cyclicHeader+strings.Join(paste("2"), "\n")+"\n", Options{})
+	wantParseError(t, err, ErrProtocol, 120, 0, "both hold cycle 2", block, "delete the copy")
+
+	// A pasted rise, kept as a last cycle of 9 points, is shorter than a
+	// smoothing window of 11.
+	rise := append(append([]string(nil), base...), base[39+5:39+13]...) // lines 120–127 repeat 47–54
+	_, err = readString(noCycle(rise), Options{SmoothStrain: 11})
+	wantParseError(t, err, ErrProtocol, 3, 0, "smoothing window of 11", "; lines 120–127 repeat lines 47–54", "delete the copy")
+
+	// A short last cycle that repeats nothing is refused as before, with
+	// its lines and without a repeat named.
+	short := append(append([]string(nil), base...), base[39+19:39+22]...) // 3 rows, below a block
+	_, err = readString(noCycle(short), Options{})
+	pe = wantParseError(t, err, ErrProtocol, 3, 0, "keeps 2 points", "lines 119–120")
+	if strings.Contains(pe.Error(), "repeat") {
+		t.Errorf("no block, none named: %v", pe)
+	}
+}

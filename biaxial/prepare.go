@@ -38,6 +38,13 @@ const (
 	// factor are reported (the weighting evens them out, but a fit still
 	// sees very different resolutions).
 	countRatio = 3
+	// partialFraction: a cycle found from the turns of the stretch whose
+	// low point stays above the protocol's lowest by more than this
+	// fraction of its range did not come back towards the start: the
+	// stretch fell back and rose again inside what may be one loading (a
+	// slip of a grip or of the markers), and keeping that cycle alone
+	// keeps only the top of the ramp (partialTurn).
+	partialFraction = 0.25
 	// sameDirection: the cycles of one protocol stretch the specimen the
 	// same way; peaks whose directions in (F − I) differ by more than this
 	// angle (degrees) belong to different protocols. 1:1 and 1:0.75 differ
@@ -239,6 +246,9 @@ type protocolRows struct {
 	// scatter of an entry of F, which sets how far apart two directions of
 	// stretch must be to differ (rowScatter).
 	noise, entryNoise float64
+	// blocks are the runs of rows that repeat an earlier run
+	// (warnRepeatedBlocks), which a refusal names where they explain it.
+	blocks []repeatedBlock
 }
 
 // scratch is working memory shared by the protocols of a table, which are
@@ -268,6 +278,55 @@ func newScratch(t *rawTable) *scratch {
 }
 
 func (r *protocolRows) line(pos int) int { return r.t.line(r.g, pos) }
+
+// partialTurn describes cycle k (0-based) of cycles found from the turns
+// of the stretch when it starts at a low point that did not come back
+// towards the protocol's lowest stretch (partialFraction), naming where
+// the stretch fell back; "" otherwise. Such a turn splits what may be one
+// loading ramp, and the cycle after it holds only the ramp's top: a
+// synthetic ramp of 25 rows whose stretch fell back by 0.02 (a tenth of
+// its range) 3 to 10 rows before its peak kept 4 to 11 rows, refused
+// below 5 as "keeps 4 points" with nothing about the fall.
+func (r *protocolRows) partialTurn(cycles []cycleSpan, k int) string {
+	if k < 1 || k >= len(cycles) {
+		return ""
+	}
+	c, prev := cycles[k], cycles[k-1]
+	low := c.idx[0]
+	span := r.dmax - r.dmin
+	if !(span > 0) || r.d[low]-r.dmin <= partialFraction*span {
+		return ""
+	}
+	top := prev.idx[prev.peak]
+	return fmt.Sprintf("cycle %d begins at %s, where the driving stretch had fallen back from %.4g (%s) by %.3g and then rose again, %.0f %% of its range above its lowest (%.4g): it did not come back towards the start, so it may be one loading whose stretch slipped (a grip or the markers?), read as a turn",
+		k+1, r.lineRange(r.line(low), r.line(low)), r.d[top], r.lineRange(r.line(top), r.line(top)), r.d[top]-r.d[low],
+		100*(r.d[low]-r.dmin)/span, r.dmin)
+}
+
+// positions returns the positions of the protocol's rows on lines span[0]
+// to span[1].
+func (r *protocolRows) positions(span [2]int) []int {
+	var pos []int
+	for p := 0; p < r.g.n; p++ {
+		if l := r.line(p); l >= span[0] && l <= span[1] {
+			pos = append(pos, p)
+		}
+	}
+	return pos
+}
+
+// lineRange names the lines a to b of a CSV file ("lines 5–9", "line 5"),
+// or the rows of a sheet.
+func (r *protocolRows) lineRange(a, b int) string {
+	word := "line"
+	if r.rec.Sheet != "" {
+		word = "row"
+	}
+	if a == b {
+		return fmt.Sprintf("%s %d", word, a)
+	}
+	return fmt.Sprintf("%ss %d–%d", word, a, b)
+}
 
 // prepareProtocol selects, re-references, resamples and weights one protocol.
 func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Options, sc *scratch) (Protocol, error) {
@@ -317,11 +376,32 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		return pr, err
 	}
 	keep, cyc, starts := rows.keepBranches(s, opt.Branch, cycles, chosen)
+	partial := ""
+	if !rec.HasCycle && len(chosen) == 1 && opt.Branch != BranchUnloading { // the slip cuts the loading
+		partial = rows.partialTurn(cycles, chosen[0])
+	}
 	pr.SelectedPoints = len(keep)
 	pr.Kept = fmt.Sprintf("%s, %d of %d rows", keptWords(opt, len(cycles)), len(keep), g.n)
 	if len(keep) < MinPoints {
-		return pr, perr(ErrProtocol, "choose another cycle or branch, or check that the protocol labels and the stretch columns are right",
-			"keeps %s (%s); at least %d are needed", plural(len(keep), "point"), keptWords(opt, len(cycles)), MinPoints)
+		where := ""
+		if len(keep) > 0 {
+			where = ", " + rows.lineRange(rows.line(keep[0]), rows.line(keep[len(keep)-1]))
+		}
+		fix := "choose another cycle or branch, or check that the protocol labels and the stretch columns are right"
+		pasted := rows.pastedAmong(keep, "a block of rows written twice, whose copy is read as a cycle of its own?")
+		switch {
+		case pasted != "":
+			fix = "delete the copy, or choose another cycle or branch"
+		case partial != "":
+			pasted = "; " + partial
+			fix = "check the stretch columns where it fell back, or choose another cycle or branch"
+		}
+		return pr, perr(ErrProtocol, fix,
+			"keeps %s (%s%s); at least %d are needed%s", plural(len(keep), "point"), keptWords(opt, len(cycles)), where, MinPoints, pasted)
+	}
+	if partial != "" {
+		s.warn(rows.line(cycles[chosen[0]].idx[0]), label, "protocol %s: %s; only %s of the protocol's %d rows are kept — check the stretch columns where it fell back, or choose another cycle",
+			label, partial, plural(len(keep), "row"), g.n)
 	}
 	pts := make([]Point, len(keep))
 	for i, pos := range keep {
@@ -340,9 +420,18 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		ends := append(starts[1:len(starts):len(starts)], len(pts))
 		for j, a := range starts {
 			if n := ends[j] - a; n < opt.SmoothStrain {
-				return pr, perr(ErrProtocol, "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol",
-					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch",
-					plural(n, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain)
+				fix := "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol"
+				pasted := rows.pastedAmong(keep[a:ends[j]], "a block of rows written twice, whose copy is read as a cycle of its own?")
+				switch {
+				case pasted != "":
+					fix = "delete the copy, " + fix
+				case partial != "":
+					pasted = "; " + partial
+					fix = "check the stretch columns where it fell back, " + fix
+				}
+				return pr, perr(ErrProtocol, fix,
+					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
+					plural(n, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain, pasted)
 			}
 		}
 		for j, a := range starts {
@@ -455,9 +544,9 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 	if why == "" {
 		a, b, why = r.directions(cycles)
 	}
-	lines := "lines"
+	lines := "the rows at lines"
 	if r.rec.Sheet != "" {
-		lines = "rows"
+		lines = "rows" // not "the rows at rows"
 	}
 	if why == "" {
 		x, y, alt := r.interleaved()
@@ -465,12 +554,19 @@ func (r *protocolRows) mixed(cycles []cycleSpan) error {
 			return nil
 		}
 		return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: y, Err: ErrProtocol, Fix: "give each protocol its own label",
-			Msg: fmt.Sprintf("protocol %s: the rows at %s %d and %d %s; they look like two protocols under one label, written in turn, and would be fitted as one",
+			Msg: fmt.Sprintf("protocol %s: %s %d and %d %s; they look like two protocols under one label, written in turn, and would be fitted as one",
 				quote(r.g.label), lines, x, y, alt)}
 	}
-	return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: "give each protocol its own label",
-		Msg: fmt.Sprintf("protocol %s: the rows at %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
-			quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)}
+	msg := fmt.Sprintf("protocol %s: %s %d–%d and %d–%d %s; they look like two protocols under one label, and one of them would be dropped",
+		quote(r.g.label), lines, a[0], a[1], b[0], b[1], why)
+	fix := "give each protocol its own label"
+	// A block pasted again with its cycle number reads as that cycle
+	// coming back; the copy is then the cause, not a second protocol.
+	if pasted := r.pastedAmong(r.positions(b), "or a block of rows written twice, the copy keeping its cycle number?"); pasted != "" {
+		msg += pasted
+		fix = "delete the copy, or give each protocol its own label"
+	}
+	return &ParseError{File: r.rec.Source, Sheet: r.rec.Sheet, Line: b[0], Err: ErrProtocol, Fix: fix, Msg: msg}
 }
 
 // interleaved finds rows of one label that go back and forth between two

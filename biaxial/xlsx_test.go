@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -171,4 +172,44 @@ func TestXLSXFormulaWithoutResult(t *testing.T) {
 	}
 	_, err = Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{Sheet: "SYN-3"})
 	wantParseError(t, err, ErrNumber, 9, 3, "SYN-3!C9", "stretch_2 is empty")
+}
+
+// A refusal in a workbook names rows as rows: until 2026-12-05 a cycle
+// pasted again with its number read "the rows at rows 3–41 and 120–130
+// both hold cycle 2" and "the rows at rows 120–130 repeat those at rows
+// 61–71". The rows are those of TestRefusalNamesPastedBlock (synthetic
+// neo-Hookean cycles), one per sheet row from row 3.
+func TestXLSXRefusalNamesRows(t *testing.T) {
+	base := cyclicRows(4, "1:1", 1, 3, 20, 0.002, 0.01, 6)
+	rows := append([]string(nil), base...)
+	rows = append(rows, base[39+19:39+30]...) // cycle 2's peak and 10 rows down, pasted again
+	f := excelize.NewFile()
+	defer f.Close()
+	sh := "Sheet1"
+	f.SetCellStr(sh, "A1", "# specimen = BLOCK (synthetic)")
+	for i, h := range strings.Split("protocol,cycle,time [s],F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]", ",") {
+		f.SetCellStr(sh, cellName(i+1, 2), h)
+	}
+	for r, line := range rows {
+		for i, v := range strings.Split(line, ",") {
+			if i == 0 {
+				f.SetCellStr(sh, cellName(1, r+3), v)
+				continue
+			}
+			x, err := strconv.ParseFloat(v, 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			f.SetCellFloat(sh, cellName(i+1, r+3), x, -1, 64)
+		}
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	_, err := Read(bytes.NewReader(buf.Bytes()), "tests.xlsx", Options{})
+	pe := wantParseError(t, err, ErrProtocol, 120, 0, `protocol "1:1": rows 42–80 and 120–130 both hold cycle 2`, "; rows 120–130 repeat rows 61–71")
+	if strings.Contains(pe.Error(), "the rows at rows") {
+		t.Errorf("rows named as lines of text: %v", pe)
+	}
 }

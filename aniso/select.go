@@ -233,6 +233,7 @@ func (d *Discovery) decideOn(ev evidence) {
 	d.Chosen = d.oneSE(win.key, floor)
 	d.ensureAdmissible(ev)
 	d.Verdict = d.verdictFor(ev, win, comps, open, notes)
+	d.orthotropyRule(&d.Verdict)
 	d.presetCaution(&d.Verdict)
 	d.Verdict.Noise, d.Verdict.StdErrFloor = noise, floor
 }

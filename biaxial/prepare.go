@@ -414,31 +414,9 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	// reference point is then exactly the identity).
 	pr.StrainScatter = strainScatter(pts)
 	if opt.SmoothStrain > 0 {
-		// One branch at a time: a window reaching across a turning point or
-		// across the jump from one kept branch to the next would mix
-		// stretches that no marker track holds side by side.
-		ends := append(starts[1:len(starts):len(starts)], len(pts))
-		for j, a := range starts {
-			if n := ends[j] - a; n < opt.SmoothStrain {
-				fix := "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol"
-				pasted := rows.pastedAmong(keep[a:ends[j]], "a block of rows written twice, whose copy is read as a cycle of its own?")
-				switch {
-				case pasted != "":
-					fix = "delete the copy, " + fix
-				case partial != "":
-					pasted = "; " + partial
-					fix = "check the stretch columns where it fell back, " + fix
-				}
-				return pr, perr(ErrProtocol, fix,
-					"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
-					plural(n, "point"), pts[a].Line, pts[a].Cycle, opt.SmoothStrain, pasted)
-			}
+		if err := rows.smoothBranches(&pr, pts, keep, starts, opt.SmoothStrain, partial, perr); err != nil {
+			return pr, err
 		}
-		for j, a := range starts {
-			smoothStrain(pts[a:ends[j]], opt.SmoothStrain)
-		}
-		pr.SmoothWindow = opt.SmoothStrain
-		pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", opt.SmoothStrain)
 	}
 	if opt.Rereference {
 		rereference(pts, s.Kind, &s.Measured, &pr)
@@ -459,9 +437,47 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	return pr, nil
 }
 
+// protocolError builds a protocol's *ParseError: its category, what to do
+// and what is wrong.
+type protocolError func(cat error, fix, format string, args ...any) *ParseError
+
+// smoothBranches smooths the F of pts over window points, one kept branch
+// at a time (starts: the position in pts of each branch's first point;
+// keep: each point's row), and records it in pr; a branch shorter than
+// the window is an error that names a pasted block or a fall-back of the
+// stretch (partial) where one explains it.
+func (rows *protocolRows) smoothBranches(pr *Protocol, pts []Point, keep, starts []int, window int, partial string, perr protocolError) error {
+	// One branch at a time: a window reaching across a turning point or
+	// across the jump from one kept branch to the next would mix
+	// stretches that no marker track holds side by side.
+	ends := append(starts[1:len(starts):len(starts)], len(pts))
+	for j, a := range starts {
+		if n := ends[j] - a; n < window {
+			fix := "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol"
+			pasted := rows.pastedAmong(keep[a:ends[j]], "a block of rows written twice, whose copy is read as a cycle of its own?")
+			switch {
+			case pasted != "":
+				fix = "delete the copy, " + fix
+			case partial != "":
+				pasted = "; " + partial
+				fix = "check the stretch columns where it fell back, " + fix
+			}
+			return perr(ErrProtocol, fix,
+				"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
+				plural(n, "point"), pts[a].Line, pts[a].Cycle, window, pasted)
+		}
+	}
+	for j, a := range starts {
+		smoothStrain(pts[a:ends[j]], window)
+	}
+	pr.SmoothWindow = window
+	pr.Kept += fmt.Sprintf(", F smoothed over %d points (quadratic Savitzky–Golay)", window)
+	return nil
+}
+
 // chooseCycles returns the cycles (0-based) opt keeps of n, and refuses
 // resampling over more than one branch or cycle.
-func chooseCycles(opt Options, n int, pr *Protocol, perr func(cat error, fix, format string, args ...any) *ParseError) ([]int, error) {
+func chooseCycles(opt Options, n int, pr *Protocol, perr protocolError) ([]int, error) {
 	var chosen []int
 	switch {
 	case opt.Cycle == CycleAll:

@@ -136,9 +136,9 @@ func (s *search) subsetRound(i int) ([]*refit, string) {
 // fit's.
 func (s *search) additions(i int, base *Result, n int) []*refit {
 	bst := activeStructure(base)
-	init := maps.Clone(s.fullAt[i])
-	if init == nil {
-		init = s.full[i].Params()
+	init := s.full[i].Params()
+	if i < len(s.fullAt) && s.fullAt[i] != nil {
+		init = maps.Clone(s.fullAt[i])
 	}
 	for name, v := range base.Params() {
 		init[name] = v

@@ -655,3 +655,25 @@ func TestPlanRebuildsShearWithinScatter(t *testing.T) {
 		t.Errorf("questions %+v, want the fibre-layout question the data leave open", pl.Questions)
 	}
 }
+
+// A Fung-type orthotropic solid without fibres (testdata/fung-orthotropic.csv,
+// SYNTHETIC, made by independent code) is undecided because the fung preset
+// explains it better (in_sample_best), and the plan asks that question: the
+// chosen fibre model against the preset, which the plan once left out (the
+// preset is no selection candidate), leaving only the angles' signs.
+func TestPlanAsksFibresAgainstTheFungPreset(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	out := fitPath(t, filepath.Join("..", "..", "testdata", "fung-orthotropic.csv"))
+	c, _ := readCardFile(t, filepath.Join(out, "model.json"))
+	if c.Verdict.Families != "undecided" || c.Verdict.InSampleBest != "preset:fung" {
+		t.Fatalf("verdict %s, in_sample_best %q; want undecided by the fung preset", c.Verdict.Families, c.Verdict.InSampleBest)
+	}
+	pl, _ := planJSON(t, out)
+	q := questionOn(t, pl, "fibre families (undecided verdict)")
+	if len(q.Explanations) != 2 || !strings.Contains(q.Explanations[1], "the classical preset fung") || !strings.Contains(q.Explanations[1], "no fibre family") {
+		t.Errorf("undecided question %+v, want the chosen model against the fung preset", *q)
+	}
+}

@@ -344,6 +344,13 @@ func (f *Folder) undecidedQuestion() (aniso.Question, bool) {
 			}
 		}
 	}
+	// A classical preset named as the better explanation (the Fung-type
+	// preset, which has no fibre family) is among the presets.
+	for i := range sel.Presets {
+		if cc := &sel.Presets[i]; best == nil && toward == "" && named != "" && cc.Name == named && cc.Model != nil {
+			best = cc
+		}
+	}
 	if best != nil && toward == "" {
 		toward = candidateForm(best)
 	}
@@ -375,9 +382,19 @@ func (f *Folder) pitAgainst(best *card.CandidateCard, form, topic string) (aniso
 	if err != nil {
 		return aniso.Question{}, false
 	}
+	rival := "form " + form + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")"
+	if strings.HasPrefix(best.Name, "preset:") {
+		// A preset is no discovered form: the Fung-type one has no fibre
+		// family but is not isotropic (form 0).
+		what := strings.Join(best.Terms, " + ")
+		if len(m.Families) == 0 {
+			what += ", no fibre family"
+		}
+		rival = "the classical preset " + strings.TrimPrefix(best.Name, "preset:") + " (" + what + ")"
+	}
 	q := aniso.Question{Verdict: true, SignUnknown: !f.Result.SignKnown, Explanations: []aniso.Explanation{
 		{Name: "form " + f.card.Verdict.Form + " as chosen (" + activeTerms(f.Result) + ")", Model: f.Result.Model},
-		{Name: "form " + form + " (" + best.Name + ": " + strings.Join(best.Terms, " + ") + ")", Model: m},
+		{Name: rival, Model: m},
 	}}
 	q.Topic = topic
 	q.Text = q.Topic + ": " + aniso.ExplanationList(q.Explanations)

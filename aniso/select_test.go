@@ -534,10 +534,17 @@ func TestFibresFitBetterThanIsotropicIsUndecided(t *testing.T) {
 // integration (30 points a protocol, noise seed 1, no shear). An isotropic
 // solid outside the catalogue's shapes (the exponentiated Hencky energy,
 // μ = 4 kPa, k = 6), tested under load control to 40 kPa with 5 % noise,
-// is fitted better than by any isotropic form by a mirror pair at ±48.1°
+// was fitted better than by any isotropic form by a mirror pair at ±48.1°
 // and ±41.8° (held-out gain 11 %, ΔBIC 13.1): the verdict had been a
-// confident 2 and is now undecided, naming the look-alike (with 2 % noise
-// a family at ±45.0° made it a confident 1-or-mirror-pair). An ideal
+// confident 2 and became undecided, naming the isotropic look-alike (with
+// 2 % noise a family at ±45.0° made it a confident 1-or-mirror-pair).
+// Since the isotropic subsets are ranked at each term's own shape
+// parameters, the isotropic form's best holds the walk (the pair gains
+// 11.2 % of its held-out error, ΔBIC 10.3, suggestive): the verdict is
+// undecided pointing towards the pair, its best-supported answer
+// isotropic with the fibres symmetric about 45° named as its look-alike,
+// and either way the decider is shear information or an off-axis test,
+// which settles such fibres against isotropy. An ideal
 // family at 45° on a neo-Hookean matrix, tested under stretch control to a
 // strain of 0.25 with 2 % noise, is explained within the noise by the
 // isotropic terms: the verdict is 0, and it says that such fibres cannot
@@ -559,8 +566,11 @@ func TestFortyFiveDegreesWithoutShear(t *testing.T) {
 	if !strings.Contains(d.Verdict.Reason, symmetricLookAlike) || d.Verdict.Decider != decider {
 		t.Errorf("the verdict does not name the ±45° look-alike and its decider: %q, decider %q", d.Verdict.Reason, d.Verdict.Decider)
 	}
-	if c := candidateNamed(d, d.Verdict.LookAlike); c == nil || c.Result.Structure.Layout != LayoutNone {
-		t.Errorf("LookAlike %q does not name an isotropic candidate", d.Verdict.LookAlike)
+	// The look-alike is the other side of the question: an isotropic
+	// candidate beside fibres, fibres symmetric about 45° beside isotropy.
+	if c := candidateNamed(d, d.Verdict.LookAlike); c == nil || (c.Result.Structure.Layout != LayoutNone) == (len(d.Best().Result.Model.Families) > 0) ||
+		len(c.Result.Model.Families) > 0 && !symmetricAbout45(c.Result) {
+		t.Errorf("LookAlike %q does not name the other side: an isotropic candidate beside fibres, or fibres symmetric about 45° beside isotropy", d.Verdict.LookAlike)
 	}
 
 	o = synthOptions{noise: 0.02, points: 30, seed: 1}

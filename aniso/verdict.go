@@ -186,7 +186,14 @@ func undecided(v *Verdict, open []LayoutComparison) {
 	}
 	v.Reason = fmt.Sprintf("undecided: the evidence points towards %s but does not settle it (%s); the best-supported answer so far: %s", toward.Richer, strings.Join(alt, "; "), v.Reason)
 	v.Families = "undecided"
-	v.Decider = undecidedDecider
+	if v.LookAlike == "" {
+		// An isotropic answer whose look-alike, fibres symmetric about
+		// the 45° line, stands beside it keeps the measurement that
+		// settles that look-alike (isotropicCaution): the fibres the
+		// evidence points towards are then such fibres, or fibres that
+		// the same turned or sheared test tells apart from isotropy.
+		v.Decider = undecidedDecider
+	}
 }
 
 // verdictFor writes the verdict of the winning form.

@@ -406,6 +406,21 @@ func fungSpecimenOf(nominal func([]float64) [4]float64, shear bool) *biaxial.Spe
 	return s
 }
 
+// fitFungTerm fits the Fung-type term alone to fungSpecimenOf(nominal,
+// shear).
+func fitFungTerm(t *testing.T, nominal func([]float64) [4]float64, shear bool) *Result {
+	t.Helper()
+	p, err := NewProblem(fungSpecimenOf(nominal, shear), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Fit(p, Structure{Terms: []TermSpec{{Shape: terms.Lookup("fung"), Family: -1}}}, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
 func estimate(r *Result, name string) Estimate {
 	for _, e := range r.Estimates {
 		if e.Name == name {
@@ -424,16 +439,8 @@ func estimate(r *Result, name string) Estimate {
 // The convexity condition is reported in the notes.
 func TestFungPresetRecovery(t *testing.T) {
 	truth := fungLaws[0]
-	st := Structure{Terms: []TermSpec{{Shape: terms.Lookup("fung"), Family: -1}}}
 	for _, shear := range []bool{false, true} {
-		p, err := NewProblem(fungSpecimen(truth, shear), nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		r, err := Fit(p, st, Settings{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		r := fitFungTerm(t, truth.nominal, shear)
 		got := r.Model.Terms[0]
 		t.Logf("shear %v: c = %.6g, b = %.6g; R² min %.4f", shear, got.Weight, got.Params, minR2(r))
 		if math.Abs(got.Weight-truth.c) > 0.03*truth.c {
@@ -648,17 +655,9 @@ func TestFungRotatedAxesWithoutShearIsTesterAxesFung(t *testing.T) {
 			}
 		}
 	}
-	st := Structure{Terms: []TermSpec{{Shape: terms.Lookup("fung"), Family: -1}}}
 	var r2 [2]float64
 	for k, shear := range []bool{false, true} {
-		p, err := NewProblem(fungSpecimenOf(law.nominal, shear), nil)
-		if err != nil {
-			t.Fatal(err)
-		}
-		r, err := Fit(p, st, Settings{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		r := fitFungTerm(t, law.nominal, shear)
 		got := r.Model.Terms[0]
 		r2[k] = minR2(r)
 		t.Logf("shear %v: c = %.6g, b = %.6g (mapped %.6g); lowest R² %.6f", shear, got.Weight, got.Params, want, r2[k])

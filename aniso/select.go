@@ -407,8 +407,15 @@ func (d *Discovery) oneSE(form string, floor float64) int {
 }
 
 // ensureAdmissible keeps the pick if it is admissible where it was fitted;
-// otherwise it takes the next candidate of the same form that is (fewest
-// parameters, then lowest held-out error) and says why in the rule.
+// otherwise it takes the next candidate of the same form that is, in the
+// pick's own order: a cross-validated one within the one-standard-error
+// threshold (fewest parameters, then lowest held-out error), then any
+// cross-validated one (lowest held-out error), then one without a
+// held-out error (lowest BIC); and says why in the rule. Fewest
+// parameters first over the whole form once took a candidate the search
+// had not cross-validated, with 93 times the form's best loss and a
+// lowest R² of 0.64 (a synthetic pair at 10°/70°, independent code,
+// without shear, 1 % noise).
 func (d *Discovery) ensureAdmissible(ev evidence) {
 	c := &d.Pareto[d.Chosen]
 	why := ev.admissible(c)
@@ -417,14 +424,38 @@ func (d *Discovery) ensureAdmissible(ev evidence) {
 	}
 	form := FormKey(c.Result.Structure)
 	var in []int
+	var best *Candidate // the form's best cross-validated candidate, as oneSE takes it
 	for i := range d.Pareto {
-		if i != d.Chosen && FormKey(d.Pareto[i].Result.Structure) == form {
+		ci := &d.Pareto[i]
+		if FormKey(ci.Result.Structure) != form {
+			continue
+		}
+		if ci.CV != nil && (best == nil || candidateLess(ci, best)) {
+			best = ci
+		}
+		if i != d.Chosen {
 			in = append(in, i)
 		}
 	}
+	thr := math.Inf(-1)
+	if best != nil {
+		thr = best.CV.Mean + math.Max(best.CV.StdErr, seFloor(d.noiseLevel(ev), ev))
+	}
+	group := func(c *Candidate) int {
+		switch {
+		case c.CV != nil && !less(thr, c.CV.Mean):
+			return 0
+		case c.CV != nil:
+			return 1
+		}
+		return 2
+	}
 	sort.SliceStable(in, func(a, b int) bool {
 		ca, cb := &d.Pareto[in[a]], &d.Pareto[in[b]]
-		if ca.Result.Complexity != cb.Result.Complexity {
+		if ga, gb := group(ca), group(cb); ga != gb {
+			return ga < gb
+		}
+		if group(ca) == 0 && ca.Result.Complexity != cb.Result.Complexity {
 			return ca.Result.Complexity < cb.Result.Complexity
 		}
 		return candidateLess(ca, cb)

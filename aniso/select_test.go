@@ -1041,3 +1041,37 @@ func TestIsotropicVerdictRulesOutAFarWorseLookAlike(t *testing.T) {
 		t.Errorf("look-alike %q, decider %q, reason %q: want the ±45° fibres ruled out and no look-alike", d.Verdict.LookAlike, d.Verdict.Decider, d.Verdict.Reason)
 	}
 }
+
+// When the pick is not admissible, the replacement is the next candidate
+// in the pick's own order, not the form's smallest. Two ideal families at
+// 10° and 70° on an Ogden matrix without shear information
+// (testdata/two-families-10-70.csv, SYNTHETIC, independent code): the pick
+// free-t2-p6 is not strongly elliptic at rest, and the fewest-parameters
+// fallback took free-t2-p5, which the search had not cross-validated, with
+// 93 times the form's best loss, a lowest R² of 0.64 and families at
+// ±0.0°/±75.2°, quoted by the confident verdict. It is now a
+// cross-validated candidate within the one-standard-error threshold.
+func TestInadmissiblePickReplacedInItsOrder(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	s, err := biaxial.ReadFile("../testdata/two-families-10-70.csv", biaxial.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, _ := discoverSpecimen(t, s)
+	c := d.Best()
+	t.Logf("verdict %s, chosen %s (%s); rule: %s", d.Verdict.Families, c.Name, anglesText(c.Result), d.Rule)
+	if !strings.Contains(d.Rule, "was set aside because it is") {
+		t.Fatalf("the pick was admissible (rule %q): the case this test needs is gone", d.Rule)
+	}
+	if c.CV == nil {
+		t.Errorf("the replacement %s has no held-out error", c.Name)
+	}
+	for _, want := range []float64{10, 70} {
+		if e := nearestFamilyDeg(c.Result, want); e > 3 {
+			t.Errorf("the replacement %s has no family within 3° of %g° (%s)", c.Name, want, anglesText(c.Result))
+		}
+	}
+}

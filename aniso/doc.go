@@ -160,8 +160,10 @@
 // and the cautions a verdict with fibres along a test axis carries when
 // the data show an untared preload or scattered shear);
 // the polish on every point, with two free families relabelled in angle
-// order first (polish.go, familyorder.go). runRefits (fullforms.go) fits a stage's refits side by side
-// on workers of pool.go, the package's one pool type (scans and profiles
+// order first (polish.go, familyorder.go), and a flag where models of
+// other forms that predict as well put its one fibre direction elsewhere
+// (formangle.go). runRefits (fullforms.go) fits a stage's refits side by
+// side on workers of pool.go, the package's one pool type (scans and profiles
 // size their own). Forms, layouts and presets are named in layout.go and
 // formlabels.go. Cohorts (cohort.go, cohortselect.go, cohortpool.go) run
 // the search stages on scout specimens. AxisScaleCheck (scalecheck.go)

@@ -42,5 +42,6 @@ func (s *search) polish() {
 			best.Result.Profiles = r.Profiles
 		}
 	}
+	s.d.formAngleFlag(s.p.HasShear)
 	s.d.CrossR2 = crossMatrix(s.p, best.Result, s.fitSet, s.pl)
 }

@@ -168,7 +168,12 @@ func (r *Result) notes(p *Problem) {
 		if p.HasShear {
 			r.Notes = append(r.Notes, "The data carry shear information (F12/F21 or a shear stress), so the sign of each fibre angle is identified.")
 		} else {
-			r.Notes = append(r.Notes, "The data carry no shear information (pure biaxial stretch, no shear stress measured): the sign of a fibre angle cannot be determined, so angles are reported as ±|α|, and one family at α cannot be told from a mirror pair at ±α with half the weight each. Shear from markers or an off-axis protocol would decide it.")
+			// F12 and F21 read as noise are not "a pure biaxial stretch".
+			what := "pure biaxial stretch, no shear stress measured"
+			if p.ShearTakenAsZero {
+				what = "F12 and F21 within their scatter of zero, no shear stress measured"
+			}
+			r.Notes = append(r.Notes, "The data carry no shear information ("+what+"): the sign of a fibre angle cannot be determined, so angles are reported as ±|α|, and one family at α cannot be told from a mirror pair at ±α with half the weight each. Shear from markers or an off-axis protocol would decide it.")
 			if p.ShearTakenAsZero {
 				r.Notes = append(r.Notes, "F12 and F21 stay within their point-to-point scatter of zero, so they were fitted as zero: the shear they show is tracking noise, or too small to tell from it.")
 			}

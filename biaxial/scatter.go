@@ -212,7 +212,7 @@ func warnNoiseOnlyShear(s *Specimen) {
 		sc := s.Protocols[i].StrainScatter
 		worst = math.Max(worst, math.Max(sc[1], sc[2]))
 	}
-	s.warn(0, "", "the shear F12 and F21 stay within %g times their point-to-point scatter (up to %.2g) of zero on every kept point, and no shear stress is given — a pure biaxial stretch seen through tracking noise? Taken as no shear information: a fit takes F12 = F21 = 0 and leaves the sign of a fibre angle (a family at +α or −α, which give the same normal stresses under a pure stretch) undetermined, as that noise cannot decide it; shear stress columns, an off-axis protocol or a specimen sheared on purpose would",
+	s.warn(0, "", "the shear F12 and F21 stay within %g times their point-to-point scatter (up to %.2g) of zero on every kept point, and no shear stress is given — a pure biaxial stretch seen through tracking noise? Taken as no shear information: a fit takes F12 = F21 = 0 and leaves the sign of a fibre angle (a family at +α or −α, which give the same normal stresses under a pure stretch) undetermined, as that noise cannot decide it; shear stress columns, an off-axis protocol or a specimen sheared on purpose would decide it",
 		float64(peakScatter), worst)
 }
 

@@ -290,6 +290,13 @@ func TestNoiseOnlyShearIsWarned(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		// The warning says what would decide the sign, to the end of its
+		// sentence (until 2026-12-05 it stopped at "… would").
+		for _, w := range s.Warnings {
+			if strings.Contains(w.Message, "stay within 5 times their point-to-point scatter") && !strings.HasSuffix(w.Message, "would decide it") {
+				t.Errorf("n %d, scatter %g: the noise-only shear warning breaks off: …%s", c.n, c.sd, w.Message[len(w.Message)-40:])
+			}
+		}
 		sheared := c.sd > 0 || c.g > 0
 		if s.ShearWithinScatter != c.want || s.HasShear != (sheared && !c.want) {
 			t.Errorf("n %d, scatter %g, shear %g: shear within scatter %v, shear information %v; want %v, %v",

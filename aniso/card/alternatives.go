@@ -13,9 +13,14 @@ const KeyAlternatives = "alternatives"
 // Texts of the alternatives section: why the layouts cannot be told apart,
 // what decides, and which to choose in an FE model.
 const (
-	AlternativesReason   = "The data carry no shear information (pure biaxial stretch, no shear stress measured). Under such data a fibre family at +α and one at −α give the same normal stresses and opposite shear stresses, and one family at α with weight w gives the same normal stresses as a mirror pair at ±α with w/2 each. The models listed fit the data equally well; they are different materials wherever the sheet shears."
-	AlternativesDecider  = "Shear information removes the doubt: markers that track F12 and F21 on a specimen free to shear (mounted on sutures or rakes), an off-axis protocol (the specimen cut or mounted at 45° to the current axes), or an independent measurement of the fibre directions (histology, polarised light, small-angle light scattering) with the specimen's orientation recorded."
-	AlternativesChoosing = "Where the loads and supports of an FE model keep the tester's axes 1 and 2 as axes of symmetry, so that the sheet does not shear, every alternative gives the same result. Where the sheet can shear (free or compliant edges, loads off the tester's axes, curved or pressurised structures) they differ: one family shears the sheet one way, its mirror image the other way, the mirror pair not at all. Choose by independent knowledge of the fibre directions in the structure modelled; without it, run every alternative and report the spread of the results."
+	AlternativesReason = "The data carry no shear information (pure biaxial stretch, no shear stress measured)." + alternativesWhy
+	// AlternativesReasonScatter is the reason when F12 and F21 are
+	// non-zero but within their scatter of zero (DataSection's
+	// shear_within_scatter), where "pure biaxial stretch" would be false.
+	AlternativesReasonScatter = "The data carry no shear information (F12 and F21 stay within their point-to-point scatter of zero and were fitted as zero; no shear stress measured)." + alternativesWhy
+	alternativesWhy           = " Under such data a fibre family at +α and one at −α give the same normal stresses and opposite shear stresses, and one family at α with weight w gives the same normal stresses as a mirror pair at ±α with w/2 each. The models listed fit the data equally well; they are different materials wherever the sheet shears."
+	AlternativesDecider       = "Shear information removes the doubt: markers that track F12 and F21 on a specimen free to shear (mounted on sutures or rakes), an off-axis protocol (the specimen cut or mounted at 45° to the current axes), or an independent measurement of the fibre directions (histology, polarised light, small-angle light scattering) with the specimen's orientation recorded."
+	AlternativesChoosing      = "Where the loads and supports of an FE model keep the tester's axes 1 and 2 as axes of symmetry, so that the sheet does not shear, every alternative gives the same result. Where the sheet can shear (free or compliant edges, loads off the tester's axes, curved or pressurised structures) they differ: one family shears the sheet one way, its mirror image the other way, the mirror pair not at all. Choose by independent knowledge of the fibre directions in the structure modelled; without it, run every alternative and report the spread of the results."
 )
 
 // AlternativesSection lists the complete models that the card's data

@@ -31,6 +31,9 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 	c.Fit = NewFitSection(r, s.Kind.String(), s.StressUnit)
 	c.DataRange = NewDataRange(p, r.Model)
 	c.Alternatives = NewAlternativesSection(r.Model, s.StressUnit, signs)
+	if c.Alternatives != nil && s.ShearWithinScatter && !s.HasShear {
+		c.Alternatives.Reason = AlternativesReasonScatter
+	}
 	c.Data = NewDataSection(s)
 	c.Cautions = CautionsOf(c)
 	c.Setup = NewSetup(s)

@@ -431,10 +431,14 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 	var averaged []*aniso.Problem // the data of fits, in order
 	for _, m := range ms {
 		name := strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
+		var warnings []string
 		if m.spec != nil {
 			name = m.spec.Name
+			for _, w := range m.spec.Warnings {
+				warnings = append(warnings, w.String())
+			}
 		}
-		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob}
+		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings}
 		if m.at >= 0 {
 			cs := c.Specimens[m.at]
 			sp.Verdict, sp.Form = cs.Verdict, cs.Form

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
@@ -271,5 +272,78 @@ func TestCohortDiscovered(t *testing.T) {
 		if _, stderr, code := runWeft(t, cmd, out, "--force"); code != 2 || !strings.Contains(stderr, "is a cohort's folder") || !strings.Contains(stderr, "C001.weft") {
 			t.Errorf("weft %s on the cohort's folder: exit %d, %s", cmd, code, stderr)
 		}
+	}
+}
+
+// A cohort carries its files' reading warnings: a file with a row copied
+// twice in each of its three protocols (every column equal) is warned
+// about by weft inspect and in its own card, and until 2026-12-05 the
+// cohort's cohort.json, notes and summary said nothing of it. Two
+// SYNTHETIC neo-Hookean membranes, σ = 2 c10 (B − λ3² I) in plane stress
+// (Rivlin 1948, as in Holzapfel 2000, Nonlinear Solid Mechanics, §6.5),
+// c10 = 10 and 12 kPa, fitted with the preset.
+func TestCohortCarriesReadingWarnings(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	write := func(name string, c10 float64, copyRow int) string {
+		var b strings.Builder
+		b.WriteString("# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+		for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
+			for i := 0; i <= 20; i++ {
+				e := 0.15 * float64(i) / 20
+				l1, l2 := 1+r[0]*e, 1+r[1]*e
+				s3 := 1 / (l1 * l1 * l2 * l2)
+				row := fmt.Sprintf("%g:%g,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1, l2, 2*c10*(l1*l1-s3), 2*c10*(l2*l2-s3))
+				b.WriteString(row)
+				if i == copyRow {
+					b.WriteString(row)
+				}
+			}
+		}
+		path := filepath.Join(dir, name)
+		if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	copied, clean := write("copied.csv", 10, 7), write("clean.csv", 12, -1)
+	out := filepath.Join(dir, "cohort")
+	stdout, stderr, code := runWeft(t, "cohort", "-o", out, "--quiet", "--preset", "neo-hookean", "--no-specimen-reports", copied, clean)
+	if code != exitOK {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	raw, err := os.ReadFile(filepath.Join(out, "cohort.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Specimens []struct {
+			File     string   `json:"file"`
+			Specimen string   `json:"specimen"`
+			Warnings []string `json:"warnings"`
+		} `json:"specimens"`
+		Notes []string `json:"notes"`
+	}
+	if err := json.Unmarshal(raw, &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range doc.Specimens {
+		warned := len(s.Warnings) == 1 && strings.Contains(s.Warnings[0], "3 rows repeat their protocol's row before them exactly")
+		if strings.HasSuffix(s.File, "copied.csv") != warned || (!warned && len(s.Warnings) > 0) {
+			t.Errorf("%s: warnings %q", s.File, s.Warnings)
+		}
+	}
+	const note = "specimens whose test file was read with warnings"
+	var noted string
+	for _, n := range doc.Notes {
+		if strings.Contains(n, note) {
+			noted = n
+		}
+	}
+	if !strings.Contains(noted, "copied (1)") || strings.Contains(noted, "clean") {
+		t.Errorf("notes do not name the warned specimen alone: %q", doc.Notes)
+	}
+	if !strings.Contains(stdout, note) {
+		t.Errorf("the summary does not say a file was read with warnings:\n%s", stdout)
 	}
 }

@@ -203,3 +203,57 @@ func TestInspectJSONPreloadAndScatter(t *testing.T) {
 		t.Errorf("no scatter warning in %+v", s.Warnings)
 	}
 }
+
+// F12 and F21 that are only tracking noise about zero (a scatter of 0.004
+// in every entry of F, no shear stress) are read as no shear information.
+// inspect says so as the card does (data.shear_within_scatter): until
+// 2026-12-05 its JSON had no such field and its table called the file "a
+// pure stretch only", which its F12 and F21 columns contradict. The
+// stresses are an incompressible neo-Hookean membrane in plane stress,
+// σ = 2 c10 (B − λ3² I) with c10 = 10 kPa (Rivlin 1948, as in Holzapfel
+// 2000, Nonlinear Solid Mechanics, §6.5).
+func TestInspectSaysShearWithinScatter(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 9))
+	var b strings.Builder
+	b.WriteString("# specimen = SYN-tracked (synthetic)\nprotocol,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
+		for i := 1; i <= 40; i++ {
+			e := 0.15 * float64(i) / 40
+			l1, l2 := 1+r[0]*e, 1+r[1]*e
+			s3 := 1 / (l1 * l1 * l2 * l2)
+			n := func() float64 { return 0.004 * rng.NormFloat64() }
+			fmt.Fprintf(&b, "%g:%g,%.6f,%.6f,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1+n(), n(), n(), l2+n(), 20*(l1*l1-s3), 20*(l2*l2-s3))
+		}
+	}
+	path := writeTemp(t, "tracked.csv", b.String())
+	out, errs, code := runWeft(t, "inspect", "--json", path)
+	if code != exitOK {
+		t.Fatalf("exit %d, stderr %q", code, errs)
+	}
+	var doc struct {
+		Specimens []struct {
+			HasShear           bool  `json:"has_shear"`
+			ShearWithinScatter *bool `json:"shear_within_scatter"`
+		} `json:"specimens"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatalf("not JSON: %v\n%s", err, out)
+	}
+	if s := doc.Specimens[0]; s.HasShear || s.ShearWithinScatter == nil || !*s.ShearWithinScatter {
+		t.Errorf("has_shear %v, shear_within_scatter %v; want false, true", s.HasShear, s.ShearWithinScatter)
+	}
+	table, _, _ := runWeft(t, "inspect", path)
+	if strings.Contains(table, "pure stretch only") || !strings.Contains(table, "F12 and F21 stay within their scatter of zero") {
+		t.Errorf("inspect's shear line does not say F12 and F21 are noise taken as zero:\n%s", table)
+	}
+	// A pure stretch has no such field, and its line stays as it was.
+	clean := writeTemp(t, "clean.csv", "# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n1:1,1,1,0,0\n1:1,1.03,1.03,2.2,2.2\n1:1,1.05,1.05,3.7,3.7\n1:1,1.08,1.08,6.1,6.1\n1:1,1.1,1.1,8.0,8.0\n1:1,1.15,1.15,12.9,12.9\n")
+	out, _, _ = runWeft(t, "inspect", "--json", clean)
+	if strings.Contains(out, "shear_within_scatter") {
+		t.Errorf("a pure stretch is said to have shear within scatter:\n%s", out)
+	}
+	table, _, _ = runWeft(t, "inspect", clean)
+	if !strings.Contains(table, "a pure stretch only") {
+		t.Errorf("a pure stretch is not called one:\n%s", table)
+	}
+}

@@ -650,6 +650,20 @@ func TestPlanRebuildsShearWithinScatter(t *testing.T) {
 	if c.Data.HasShear || !c.Data.ShearWithinScatter {
 		t.Fatalf("card: has_shear %v, shear_within_scatter %v; want false, true", c.Data.HasShear, c.Data.ShearWithinScatter)
 	}
+	// The card, its fit notes and the export say what the data are: F12
+	// and F21 within their scatter, not "a pure biaxial stretch" (until
+	// 2026-12-05 the alternatives' reason and the first note said so).
+	if c.Alternatives == nil || c.Alternatives.Reason != card.AlternativesReasonScatter {
+		t.Errorf("alternatives reason %v, want the within-scatter one", c.Alternatives)
+	}
+	for _, n := range c.Fit.Notes {
+		if strings.Contains(n, "pure biaxial stretch") {
+			t.Errorf("fit note calls noisy F12, F21 a pure biaxial stretch: %q", n)
+		}
+	}
+	if ex, _, _ := runWeft(t, "export", filepath.Join(out, "model.json"), "--format", "table"); strings.Contains(ex, "pure biaxial stretch") || !strings.Contains(ex, "F12 and F21 stay within their point-to-point scatter of zero") {
+		t.Errorf("export does not say F12 and F21 were within their scatter")
+	}
 	pl, _ := planJSON(t, out)
 	if len(pl.Questions) == 0 || !pl.Questions[0].Layout {
 		t.Errorf("questions %+v, want the fibre-layout question the data leave open", pl.Questions)

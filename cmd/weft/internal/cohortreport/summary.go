@@ -36,6 +36,11 @@ type Specimen struct {
 	Verdict, Form string
 	// Err says why it failed; empty when it did not.
 	Err string
+	// Warnings are what reading its test file warned about (a repeated
+	// block, a held load, a slip of the stretch, an untared preload, shear
+	// within its scatter, …), as its card's data.warnings and weft inspect
+	// give them; nil when there were none or the file could not be read.
+	Warnings []string
 }
 
 // Input is everything the summary of a cohort is built from.
@@ -158,6 +163,9 @@ type SpecimenRow struct {
 	// Flags are the specimen's own fit's flags (aniso.Result.Flags), as
 	// its card holds them.
 	Flags []string `json:"flags,omitempty"`
+	// Warnings are the reading warnings of the specimen's test file
+	// (Specimen.Warnings).
+	Warnings []string `json:"warnings,omitempty"`
 }
 
 // familySwap exchanges the labels of two families in estimate names.
@@ -239,6 +247,18 @@ func Build(in *Input) *Summary {
 	}
 	if len(flagged) > 0 {
 		s.Notes = append(s.Notes, fmt.Sprintf("specimens whose own fit raised flags (a standard error larger than its value, a correlated pair, a parameter at a bound, …): %s; their values enter the statistics at full weight — see each one's flags in cohort.json and its card", strings.Join(flagged, ", ")))
+	}
+	// Reading warnings were until 2026-12-05 only in each specimen's own
+	// card: the cohort's outputs said nothing of a block written twice or
+	// a load held at the peak in one of its files.
+	var warned []string
+	for _, r := range s.Specimens {
+		if len(r.Warnings) > 0 {
+			warned = append(warned, fmt.Sprintf("%s (%d)", r.Specimen, len(r.Warnings)))
+		}
+	}
+	if len(warned) > 0 {
+		s.Notes = append(s.Notes, fmt.Sprintf("specimens whose test file was read with warnings (a repeated block, a held load, a slip of the stretch, an untared preload, shear within its scatter, …): %s; their values enter the statistics at full weight — see each one's warnings in cohort.json and its card", strings.Join(warned, ", ")))
 	}
 	s.Provenance = in.Provenance
 	return s
@@ -355,7 +375,8 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 	values := make([][]float64, len(s.Parameters))
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
-			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form}
+			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form,
+			Warnings: append([]string(nil), sp.Warnings...)}
 		byName := map[string]aniso.Estimate{}
 		if sp.Result == nil {
 			row.Status, row.Error, row.Folder = StatusFailed, sp.Err, ""

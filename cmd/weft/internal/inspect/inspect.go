@@ -21,21 +21,25 @@ type Document struct {
 }
 
 type specimenJSON struct {
-	Name       string            `json:"name"`
-	File       string            `json:"file"`
-	Sheet      string            `json:"sheet,omitempty"`
-	Kind       string            `json:"stress_kind"`
-	StressUnit string            `json:"stress_unit"`
-	FromLoads  bool              `json:"from_loads"`
-	Kinematics string            `json:"kinematics"`
-	Measured   []string          `json:"measured"`
-	HasShear   bool              `json:"has_shear"`
-	Reference  string            `json:"reference"`
-	Geometry   *geometryJSON     `json:"geometry_mm,omitempty"`
-	Meta       map[string]string `json:"meta"`
-	Protocols  []protocolJSON    `json:"protocols"`
-	Warnings   []warningJSON     `json:"warnings"`
-	Notices    []string          `json:"notices"`
+	Name       string   `json:"name"`
+	File       string   `json:"file"`
+	Sheet      string   `json:"sheet,omitempty"`
+	Kind       string   `json:"stress_kind"`
+	StressUnit string   `json:"stress_unit"`
+	FromLoads  bool     `json:"from_loads"`
+	Kinematics string   `json:"kinematics"`
+	Measured   []string `json:"measured"`
+	HasShear   bool     `json:"has_shear"`
+	// ShearWithinScatter is set when F12 and F21 are non-zero but stay
+	// within their scatter of zero with no shear stress given: read as no
+	// shear information, as the card's data.shear_within_scatter says.
+	ShearWithinScatter bool              `json:"shear_within_scatter,omitempty"`
+	Reference          string            `json:"reference"`
+	Geometry           *geometryJSON     `json:"geometry_mm,omitempty"`
+	Meta               map[string]string `json:"meta"`
+	Protocols          []protocolJSON    `json:"protocols"`
+	Warnings           []warningJSON     `json:"warnings"`
+	Notices            []string          `json:"notices"`
 }
 
 type geometryJSON struct {
@@ -121,7 +125,8 @@ func NewDocument(specs []*biaxial.Specimen, withPoints bool) *Document {
 		sj := specimenJSON{
 			Name: s.Name, File: s.Source, Sheet: s.Sheet, Kind: s.Kind.String(), StressUnit: s.StressUnit,
 			FromLoads: s.FromLoads, Kinematics: s.Kinematics.String(), HasShear: s.HasShear,
-			Reference: s.Reference, Meta: s.Meta, Measured: []string{},
+			ShearWithinScatter: s.ShearWithinScatter,
+			Reference:          s.Reference, Meta: s.Meta, Measured: []string{},
 			Protocols: []protocolJSON{}, Warnings: []warningJSON{}, Notices: append([]string{}, s.Notices...),
 		}
 		if sj.Meta == nil {
@@ -200,7 +205,11 @@ func WriteText(w io.Writer, specs []*biaxial.Specimen) error {
 		}
 		fmt.Fprintf(&b, "  stress:     %s\n", stress)
 		shear := "none (normal stresses and a pure stretch only: a fibre angle's sign cannot be told)"
-		if s.HasShear {
+		if s.ShearWithinScatter {
+			// F12 and F21 are not zero here, so "a pure stretch only" would
+			// be false; they are noise the fit takes as zero.
+			shear = "none (F12 and F21 stay within their scatter of zero, taken as zero; no shear stress: a fibre angle's sign cannot be told)"
+		} else if s.HasShear {
 			shear = "present"
 		}
 		fmt.Fprintf(&b, "  kinematics: %s; shear information: %s\n", s.Kinematics, shear)

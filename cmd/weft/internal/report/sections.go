@@ -466,6 +466,9 @@ func (in *Input) verdictWords() string {
 		}
 		return lead + "supported " + dir + ", which may be one family or a mirror pair: the data carry no shear information, so they cannot tell the two apart. "
 	case "undecided":
+		if w, ok := in.fibrelessRivalWords(); ok {
+			return lead + w
+		}
 		s := lead + "left the number of fibre families undecided, as the data do not settle it"
 		if in.chosenInVerdictForm() {
 			s += "; the chosen model is of the form best supported so far, not a settled answer"
@@ -473,6 +476,46 @@ func (in *Input) verdictWords() string {
 		return s + ". "
 	}
 	return lead + "gave the family verdict " + vd.Families + ". "
+}
+
+// fibrelessRivalWords states an undecided verdict whose in-sample best
+// (verdict.in_sample_best) is a classical preset without fibre families,
+// the Fung-type preset (Tong & Fung 1976): the data then leave open
+// whether the anisotropy comes from fibres at all, not how many families
+// there are, and a paper quoting the paragraph must not say the latter.
+// ok is false for every other verdict.
+func (in *Input) fibrelessRivalWords() (string, bool) {
+	vd := in.verdict
+	if vd == nil || in.sel == nil || !strings.HasPrefix(vd.InSampleBest, "preset:") {
+		return "", false
+	}
+	var rival, chosen *card.CandidateCard
+	for i := range in.sel.Presets {
+		if in.sel.Presets[i].Name == vd.InSampleBest {
+			rival = &in.sel.Presets[i]
+		}
+	}
+	for i := range in.sel.Pareto {
+		if in.sel.Pareto[i].Chosen {
+			chosen = &in.sel.Pareto[i]
+		}
+	}
+	if rival == nil || rival.Layout != "none" {
+		return "", false
+	}
+	name := strings.TrimPrefix(rival.Name, "preset:")
+	if name == "fung" {
+		name = "the Fung-type preset fung (Tong & Fung 1976), orthotropic about the tester's axes"
+	} else {
+		name = "the preset " + name
+	}
+	dbic := ""
+	if chosen != nil && !math.IsNaN(float64(chosen.BIC)) && !math.IsNaN(float64(rival.BIC)) {
+		dbic = fmt.Sprintf(" (ΔBIC %.1f)", float64(chosen.BIC)-float64(rival.BIC))
+	}
+	return "left undecided whether the anisotropy comes from fibre families: " + name +
+		", with no fibre family, fitted the data better in sample" + dbic +
+		" and predicted the held-out protocols no worse; the chosen model is the best supported with fibres, not a settled answer. ", true
 }
 
 // oneDirection is the chosen model's single fibre direction written ±|α|,

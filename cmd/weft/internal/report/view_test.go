@@ -224,6 +224,18 @@ func TestMethodsStateTheVerdict(t *testing.T) {
 			[]string{"supported one"}},
 		{"undecided, isotropic pick", false, nil, sel("none"), &card.VerdictSection{Families: "undecided", Form: "0"},
 			[]string{"left the number of fibre families undecided", " with no fibre family (stresses in kPa)"}, nil},
+		// A Fung-type orthotropic solid (testdata/fung-orthotropic.csv): the
+		// preset without fibres fits better in sample (ΔBIC 60.3 there), so
+		// the open question is whether fibres explain the anisotropy at
+		// all; until 2026-12-05 the paragraph said the number of families
+		// was left open. BICs as in that fit's report.
+		{"undecided, Fung-type rival (fung-orthotropic)", false, []float64{0, 33.579},
+			&card.SelectionSection{Chosen: "c",
+				Pareto:  []card.CandidateCard{{Name: "c", Layout: "free", Chosen: true, BIC: -6199.8, HeldoutError: card.Num(math.NaN())}},
+				Presets: []card.CandidateCard{{Name: "preset:fung", Layout: "none", BIC: -6260.2, HeldoutError: card.Num(math.NaN())}}},
+			&card.VerdictSection{Families: "undecided", Form: "2-free", InSampleBest: "preset:fung"},
+			[]string{"The comparison of the fibre layouts left undecided whether the anisotropy comes from fibre families: the Fung-type preset fung (Tong &amp; Fung 1976), orthotropic about the tester&#39;s axes, with no fibre family, fitted the data better in sample (ΔBIC 60.4) and predicted the held-out protocols no worse; the chosen model is the best supported with fibres, not a settled answer. The resulting model is "},
+			[]string{"the number of fibre families"}},
 		{"1-or-mirror-pair (membrane-M1)", false, []float64{29.979}, sel("single"), &card.VerdictSection{Families: "1-or-mirror-pair", Form: "1"},
 			[]string{"supported one fibre direction at ±29.98°, which may be one family or a mirror pair: the data carry no shear information, so they cannot tell the two apart. The resulting model is ", " with one fibre family at ±29.98°"},
 			[]string{"undecided"}},

@@ -22,7 +22,7 @@ func PrintCohort(w io.Writer, s *cohortreport.Summary, dir string, elapsed time.
 	fmt.Fprintf(w, "== cohort of %d files: %d fitted, %d failed\n", len(s.Specimens), ok, len(s.Specimens)-ok)
 	fmt.Fprintf(w, "form:     %s (%s), %s\n", strings.Join(s.Form.Terms, " + "), s.Form.Key, s.Form.How)
 	if v := s.Verdict; v != nil {
-		fmt.Fprintf(w, "families: %s — %s\n", v.Families, v.Reason)
+		fmt.Fprintf(w, "families: %s — %s\n", v.Families, verdictReason(v.Families, v.Reason))
 		fmt.Fprintf(w, "rule:     %s\n", v.Rule)
 	}
 	fmt.Fprintln(w)

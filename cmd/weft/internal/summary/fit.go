@@ -112,7 +112,7 @@ func printFitHead(w io.Writer, f *Fit) {
 		fmt.Fprintf(w, "fibres:   %s\n", pair)
 	}
 	if d := f.Discovery; d != nil {
-		fmt.Fprintf(w, "families: %s — %s\n", d.Verdict.Families, d.Verdict.Reason)
+		fmt.Fprintf(w, "families: %s — %s\n", d.Verdict.Families, verdictReason(d.Verdict.Families, d.Verdict.Reason))
 		if d.Verdict.Decider != "" {
 			fmt.Fprintf(w, "          to decide: %s\n", d.Verdict.Decider)
 		}
@@ -315,4 +315,12 @@ func shellWord(s string) string {
 		}
 	}
 	return s
+}
+
+// verdictReason is a verdict's reason as the summary prints it after the
+// verdict itself: an undecided verdict's reason starts with "undecided: ",
+// which the line would otherwise say twice ("families: undecided —
+// undecided: ...").
+func verdictReason(families, reason string) string {
+	return strings.TrimPrefix(reason, families+": ")
 }

@@ -65,3 +65,18 @@ func TestDegenerateAngleHasNoInterval(t *testing.T) {
 		}
 	}
 }
+
+// The verdict line says "undecided" once: an undecided reason starts with
+// "undecided: " (aniso's verdict wording), and the line once read
+// "families: undecided — undecided: the evidence points ...".
+func TestVerdictLineSaysUndecidedOnce(t *testing.T) {
+	for _, c := range []struct{ families, reason, want string }{
+		{"undecided", "undecided: the evidence points towards 2-free", "the evidence points towards 2-free"},
+		{"0", "isotropic: no richer form beats it", "isotropic: no richer form beats it"},
+		{"2", "two fibre families at ±10°, ±70°: it beats 1", "two fibre families at ±10°, ±70°: it beats 1"},
+	} {
+		if got := verdictReason(c.families, c.reason); got != c.want {
+			t.Errorf("%s: %q, want %q", c.families, got, c.want)
+		}
+	}
+}

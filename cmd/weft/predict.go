@@ -88,19 +88,25 @@ func runPredict(o *predictOptions) error {
 	if err != nil {
 		return err
 	}
+	// The rows hold the card's own model; where the layout is
+	// undetermined the alternatives would give other shear stresses. The
+	// CSV says so in its comment lines too, so that a copy passed on keeps
+	// it.
+	lw, err := fe.LayoutWarning(c, m)
+	if err != nil {
+		return badInputf("%s: %v", o.model, err)
+	}
+	var warnings []string
+	if lw != "" {
+		warnings = append(warnings, fmt.Sprintf("the stresses are the card's own model's; %s ('weft export %s' lists every alternative's stresses at its verification rows)", lw, filepath.Base(o.model)))
+	}
 	var buf bytes.Buffer
-	outside, rows, err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, dr, &buf)
+	outside, rows, err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, dr, warnings, &buf)
 	if err != nil {
 		return err
 	}
 	if outside > 0 {
 		fmt.Fprintf(o.ErrOut, "weft: warning: %s: %s\n", o.model, outsideRowsText(outside, rows))
-	}
-	// The rows hold the card's own model; where the layout is
-	// undetermined the alternatives would give other shear stresses.
-	lw, err := fe.LayoutWarning(c, m)
-	if err != nil {
-		return badInputf("%s: %v", o.model, err)
 	}
 	if lw != "" {
 		fmt.Fprintf(o.ErrOut, "weft: warning: %s: the stresses are the card's own model's; %s ('weft export %s' lists every alternative's stresses at its verification rows)\n", o.model, lw, o.model)
@@ -136,11 +142,12 @@ func headerName(h string) string {
 // predictCSV evaluates m on every row of a kinematics CSV and writes the
 // rows with stresses appended, after comment lines with the card's
 // cautions (card.CautionsOf) and, when rows leave the fitted data range dr
-// (nil: unknown), how many: a CSV is often read without the card, so the
-// file itself says where it may be used. It returns the number of rows
+// (nil: unknown), how many, and each of warnings: a CSV is often read
+// without the card, so the file itself says where it may be used and what
+// it leaves open. It returns the number of rows
 // outside dr and of rows. Any bad row is an input error naming its line
 // and column; nothing is written then.
-func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, w io.Writer) (outside, rows int, err error) {
+func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, warnings []string, w io.Writer) (outside, rows int, err error) {
 	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -245,6 +252,9 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 	}
 	if outside > 0 {
 		fmt.Fprintf(&b, "# WARNING: %s\n", outsideRowsText(outside, rows))
+	}
+	for _, wn := range warnings {
+		fmt.Fprintf(&b, "# WARNING: %s\n", wn)
 	}
 	b.Write(out.Bytes())
 	_, err = w.Write(b.Bytes())

@@ -40,8 +40,9 @@ func TestPredictNeoHookeanClosedForm(t *testing.T) {
 // predict on a card whose data did not determine the fibre layout (the
 // demo membrane M1, synthetic, no shear information) warns, as evaluate
 // and export do, that its rows hold the card's own model and names the
-// alternatives; a card whose layout is determined (M3, on sutures) and
-// the closed-form card above get no such warning.
+// alternatives, on standard error and in the CSV's comment lines (a copy
+// of the CSV passed on once lost it); a card whose layout is determined
+// (M3, on sutures) and the closed-form card above get no such warning.
 func TestPredictWarnsOfUndeterminedLayout(t *testing.T) {
 	t.Parallel()
 	path := writeTemp(t, "path.csv", "stretch_1,stretch_2\n1.1,1.1\n")
@@ -53,12 +54,21 @@ func TestPredictWarnsOfUndeterminedLayout(t *testing.T) {
 		{filepath.Join(demoFits(t).dir, "membrane-M3-sutured.weft", "model.json"), false},
 		{writeTemp(t, "nh.json", neoHookeanCard), false},
 	} {
-		_, errs, code := runWeft(t, "predict", c.model, path)
+		out, errs, code := runWeft(t, "predict", c.model, path)
 		if code != 0 {
 			t.Fatalf("%s: exit %d: %s", c.model, code, errs)
 		}
 		if got := strings.Contains(errs, "do not determine the fibre layout") && strings.Contains(errs, "as the card"); got != c.warns {
 			t.Errorf("%s: layout warning %v, want %v: %q", c.model, got, c.warns, errs)
+		}
+		inCSV := false
+		for _, line := range strings.Split(out, "\n") {
+			if strings.HasPrefix(line, "# WARNING: the stresses are the card's own model's") && strings.Contains(line, "do not determine the fibre layout") {
+				inCSV = true
+			}
+		}
+		if inCSV != c.warns {
+			t.Errorf("%s: layout warning in the CSV %v, want %v:\n%s", c.model, inCSV, c.warns, out)
 		}
 	}
 }

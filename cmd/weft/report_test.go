@@ -865,3 +865,19 @@ func TestReportShowsCalibrationCheck(t *testing.T) {
 		t.Errorf("report.html lacks %q", want)
 	}
 }
+
+// A model without fibres (the fung preset on demo membrane M1, synthetic)
+// has no take-over columns, so the table's title speaks of the energy
+// only; it once read "Where the fibres take over half of the load" above
+// a matrix-only energy column.
+func TestReportTitleWithoutFibres(t *testing.T) {
+	t.Parallel()
+	b, err := os.ReadFile(filepath.Join(presetFit(t, "fung"), "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	if strings.Contains(html, "Where the fibres take over") || !strings.Contains(html, "<h3>The strain energy at each protocol's largest deformation</h3>") {
+		t.Errorf("the take-over table's title for a model without fibres is wrong")
+	}
+}

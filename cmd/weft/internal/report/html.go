@@ -107,6 +107,9 @@ type reportView struct {
 	SplitFigure              *htmlFigure
 	Takeover, Shares         htmlTable
 	SplitMeasure, SharesNote string
+	// TakeoverTitle heads the take-over table: where the fibres take over
+	// half of the load, or, for a model without fibres, only the energy.
+	TakeoverTitle template.HTML
 
 	HasVerdict               bool
 	Verdict, Reason, Decider string

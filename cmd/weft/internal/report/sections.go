@@ -140,6 +140,11 @@ func passWord(ok bool) string {
 func (in *Input) splitSection(v *reportView, strain bool) {
 	v.SplitFigure = v.fig("load-share")
 	in.takeoverTable(v, strain)
+	v.TakeoverTitle = "Where the fibres take over half of the load, and the strain energy at each protocol's largest deformation"
+	if len(v.Takeover.Rows) == 0 {
+		// No take-over columns (a model without fibres): only the energy.
+		v.TakeoverTitle = "The strain energy at each protocol's largest deformation"
+	}
 	sp := in.split
 	if sp == nil {
 		return

@@ -95,27 +95,67 @@ func NewCalibrationCheck(verdict string, anglesDeg []float64, signKnown bool, fr
 }
 
 // directionsMove returns the largest distance (degrees) from a direction
-// in a to the nearest in b, directions having period 180° and, unless
-// signKnown, α and −α being one; ok is false when a and b hold different
-// numbers of directions.
+// in a to the nearest in b, or from one in b to the nearest in a (the
+// Hausdorff distance of the two sets, so that a direction that appears in
+// only one of them counts), directions having period 180° and, unless
+// signKnown, α and −α being one: a mirror pair at ±α is then the one
+// direction of a single family at α, as the verdict 1-or-mirror-pair
+// treats them. ok is false when a and b hold different numbers of
+// directions.
 func directionsMove(a, b []float64, signKnown bool) (worst float64, ok bool) {
+	a, b = directionSet(a, signKnown), directionSet(b, signKnown)
 	if len(a) != len(b) {
 		return 0, false
 	}
-	axial := func(x, y float64) float64 {
-		d := math.Mod(math.Abs(x-y), 180)
-		return math.Min(d, 180-d)
+	return math.Max(farthest(a, b), farthest(b, a)), true
+}
+
+// sameDirectionDeg is how close (degrees) two angles of one model must be
+// to count as one direction in directionSet: a mirror pair's members are
+// ±α exactly up to rounding.
+const sameDirectionDeg = 1e-6
+
+// axialDeg is the distance (degrees) between directions x and y of period
+// 180°.
+func axialDeg(x, y float64) float64 {
+	d := math.Mod(math.Abs(x-y), 180)
+	return math.Min(d, 180-d)
+}
+
+// directionSet returns the distinct directions of angles (degrees): each
+// folded into [0°, 180°), or into [0°, 90°] as |α| unless signKnown, one
+// of several within sameDirectionDeg of each other kept.
+func directionSet(angles []float64, signKnown bool) []float64 {
+	var out []float64
+	for _, x := range angles {
+		x = math.Mod(x, 180)
+		if x < 0 {
+			x += 180
+		}
+		if !signKnown {
+			x = math.Min(x, 180-x)
+		}
+		dup := false
+		for _, y := range out {
+			dup = dup || axialDeg(x, y) <= sameDirectionDeg
+		}
+		if !dup {
+			out = append(out, x)
+		}
 	}
+	return out
+}
+
+// farthest returns the largest distance (degrees) from a direction in a to
+// the nearest in b (0 when a is empty).
+func farthest(a, b []float64) float64 {
+	worst := 0.0
 	for _, x := range a {
 		best := math.Inf(1)
 		for _, y := range b {
-			d := axial(x, y)
-			if !signKnown {
-				d = math.Min(d, axial(x, -y))
-			}
-			best = math.Min(best, d)
+			best = math.Min(best, axialDeg(x, y))
 		}
 		worst = math.Max(worst, best)
 	}
-	return worst, true
+	return worst
 }

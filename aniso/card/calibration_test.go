@@ -55,6 +55,24 @@ func TestCalibrationCheckSection(t *testing.T) {
 	if c = NewCalibrationCheck("undecided", []float64{20}, true, 0.05, []aniso.AxisScaleOutcome{{Axis1Scale: 1.05, Families: "undecided", AnglesDeg: []float64{20, 70}}}); !strings.Contains(c.Summary, "the number of fibre directions of the chosen model changes") {
 		t.Errorf("one direction against two: %q", c.Summary)
 	}
+	// With the sign open, a mirror pair at ±α is the one direction of a
+	// single family at α (the verdict 1-or-mirror-pair names both; README,
+	// the paragraph on --calibration-check: "±α one direction where the
+	// sign is open"): until 2026-12-05 a pair against a single family was
+	// told that "the number of fibre directions of the chosen model
+	// changes". And a direction that only the outcome has counts: {30°,
+	// 35°} against {30°, 80°} moves by 45°, which the distance from the
+	// chosen model's directions alone (5°) missed.
+	pair := []aniso.AxisScaleOutcome{{Axis1Scale: 1.05, Families: "1-or-mirror-pair", AnglesDeg: []float64{31, -31}}}
+	if c = NewCalibrationCheck("1-or-mirror-pair", []float64{30}, false, 0.05, pair); !strings.HasSuffix(c.Summary, "— the verdict holds") {
+		t.Errorf("a mirror pair at ±31° against one family at 30°, sign open: %q", c.Summary)
+	}
+	if c = NewCalibrationCheck("1-or-mirror-pair", []float64{30, -30}, false, 0.05, []aniso.AxisScaleOutcome{{Axis1Scale: 0.95, Families: "1-or-mirror-pair", AnglesDeg: []float64{-29}}}); !strings.HasSuffix(c.Summary, "— the verdict holds") {
+		t.Errorf("one family at −29° against a mirror pair at ±30°, sign open: %q", c.Summary)
+	}
+	if c = NewCalibrationCheck("2", []float64{30, 35}, true, 0.05, []aniso.AxisScaleOutcome{{Axis1Scale: 1.05, Families: "2", AnglesDeg: []float64{30, 80}}}); !strings.Contains(c.Summary, "moves by up to 45.0°") {
+		t.Errorf("{30°, 80°} against {30°, 35°}: %q", c.Summary)
+	}
 	c = NewCalibrationCheck("1", []float64{30}, true, 0.05, outs)
 	cd := FromModel(oneFamily(), "kPa", []bool{true})
 	cd.CalibrationCheck = c

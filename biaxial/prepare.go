@@ -388,16 +388,12 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 			where = ", " + rows.lineRange(rows.line(keep[0]), rows.line(keep[len(keep)-1]))
 		}
 		fix := "choose another cycle or branch, or check that the protocol labels and the stretch columns are right"
-		pasted := rows.pastedAmong(keep, "a block of rows written twice, whose copy is read as a cycle of its own?")
-		switch {
-		case pasted != "":
-			fix = "delete the copy, or choose another cycle or branch"
-		case partial != "":
-			pasted = "; " + partial
-			fix = "check the stretch columns where it fell back, or choose another cycle or branch"
+		why, first := rows.shortCause(keep, partial)
+		if first != "" {
+			fix = first + ", or choose another cycle or branch"
 		}
 		return pr, perr(ErrProtocol, fix,
-			"keeps %s (%s%s); at least %d are needed%s", plural(len(keep), "point"), keptWords(opt, len(cycles)), where, MinPoints, pasted)
+			"keeps %s (%s%s); at least %d are needed%s", plural(len(keep), "point"), keptWords(opt, len(cycles)), where, MinPoints, why)
 	}
 	if partial != "" {
 		s.warn(rows.line(cycles[chosen[0]].idx[0]), label, "protocol %s: %s; only %s of the protocol's %d rows are kept — check the stretch columns where it fell back, or choose another cycle",
@@ -437,6 +433,23 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	return pr, nil
 }
 
+// shortCause explains a refusal of a cycle or branch with too few points
+// (the rows at positions pos): a repeated block that holds some of them
+// (pastedAmong), or else the fall-back of the stretch that split the
+// loading (partial, from partialTurn). why ends the refusal's message
+// ("; …"), first is what its fix starts with; both "" when neither
+// explains it. The refusal for too few points and the one for a branch
+// shorter than the smoothing window give the same cause.
+func (r *protocolRows) shortCause(pos []int, partial string) (why, first string) {
+	if p := r.pastedAmong(pos, "a block of rows written twice, whose copy is read as a cycle of its own?"); p != "" {
+		return p, "delete the copy"
+	}
+	if partial != "" {
+		return "; " + partial, "check the stretch columns where it fell back"
+	}
+	return "", ""
+}
+
 // protocolError builds a protocol's *ParseError: its category, what to do
 // and what is wrong.
 type protocolError func(cat error, fix, format string, args ...any) *ParseError
@@ -454,17 +467,13 @@ func (rows *protocolRows) smoothBranches(pr *Protocol, pts []Point, keep, starts
 	for j, a := range starts {
 		if n := ends[j] - a; n < window {
 			fix := "smooth over fewer points, keep fewer cycles or branches, or keep more of the protocol"
-			pasted := rows.pastedAmong(keep[a:ends[j]], "a block of rows written twice, whose copy is read as a cycle of its own?")
-			switch {
-			case pasted != "":
-				fix = "delete the copy, " + fix
-			case partial != "":
-				pasted = "; " + partial
-				fix = "check the stretch columns where it fell back, " + fix
+			why, first := rows.shortCause(keep[a:ends[j]], partial)
+			if first != "" {
+				fix = first + ", " + fix
 			}
 			return perr(ErrProtocol, fix,
 				"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
-				plural(n, "point"), pts[a].Line, pts[a].Cycle, window, pasted)
+				plural(n, "point"), pts[a].Line, pts[a].Cycle, window, why)
 		}
 	}
 	for j, a := range starts {

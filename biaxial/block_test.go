@@ -51,7 +51,7 @@ func blockWarnings(t *testing.T, rows []string, opt Options) []Warning {
 
 // A block of rows written twice — a cycle pasted again at the end of its
 // protocol, numbered as a new cycle, or a whole protocol pasted again —
-// is one measurement that --cycle all --branch all fits twice; before
+// is one measurement that a fit keeping every cycle and both branches fits twice; before
 // 2026-12-05 nothing said so. It is warned about, naming the protocol and
 // the lines of both blocks, also when the copy was written with five
 // decimals instead of six. The genuine cycles of a cyclic test (3 cycles

@@ -87,8 +87,8 @@ func warnHeldLoad(s *Specimen, opt Options) {
 				if !h.creeps {
 					why = "while the stretch stays within its scatter: a stretch held at the peak while the stress relaxes, or a load held there? Or, where the stress falls and the cycle unloads, the first unloading rows, which the stretch's scatter put before its highest row, where the loading branch ends?"
 				}
-				s.warn(p.Line, pr.Label, "protocol %s: the last %d kept rows of cycle %d (lines %d–%d) stop the stress's rise — it changes by %+.2g %% of its range over them, where the rows before rose by %.2g %% in as many rows (a break of %.1f standard errors of the stress noise estimated from the data) — %s The loading branch ends at the largest stretch, so they are fitted as loading, as a material that stops stiffening; remove them from the file if the fit should see only the ramp",
-					pr.Label, end-start-h.from, p.Cycle, p.Line, last.Line, 100*h.change, 100*h.before, h.z, why)
+				s.warn(p.Line, pr.Label, "protocol %s: the last %d kept rows of cycle %d (%s) stop the stress's rise — it changes by %+.2g %% of its range over them, where the rows before rose by %.2g %% in as many rows (a break of %.1f standard errors of the stress noise estimated from the data) — %s The loading branch ends at the largest stretch, so they are fitted as loading, as a material that stops stiffening; remove them from the file if the fit should see only the ramp",
+					pr.Label, end-start-h.from, p.Cycle, linesOf(s.Sheet, p.Line, last.Line), 100*h.change, 100*h.before, h.z, why)
 			}
 			start = end
 		}

@@ -317,9 +317,14 @@ func (r *protocolRows) positions(span [2]int) []int {
 
 // lineRange names the lines a to b of a CSV file ("lines 5–9", "line 5"),
 // or the rows of a sheet.
-func (r *protocolRows) lineRange(a, b int) string {
+func (r *protocolRows) lineRange(a, b int) string { return linesOf(r.rec.Sheet, a, b) }
+
+// linesOf names the lines a to b of a CSV file ("lines 5–9", "line 5"),
+// or, where sheet is not empty, the rows of that workbook sheet ("rows
+// 5–9"): a spreadsheet has no lines of text.
+func linesOf(sheet string, a, b int) string {
 	word := "line"
-	if r.rec.Sheet != "" {
+	if sheet != "" {
 		word = "row"
 	}
 	if a == b {
@@ -345,9 +350,13 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 	rows.noise, rows.entryNoise = rows.rowScatter()
 	rows.warnRepeatedBlocks(s)
 	firstLine := rows.line(0)
+	from := fmt.Sprintf("rows from line %d", firstLine)
+	if rec.Sheet != "" {
+		from = fmt.Sprintf("from row %d", firstLine) // a sheet has rows, not lines
+	}
 	perr := func(cat error, fix, format string, args ...any) *ParseError {
 		return &ParseError{File: rec.Source, Sheet: rec.Sheet, Line: firstLine, Err: cat, Fix: fix,
-			Msg: fmt.Sprintf("protocol %s (rows from line %d): ", label, firstLine) + fmt.Sprintf(format, args...)}
+			Msg: fmt.Sprintf("protocol %s (%s): ", label, from) + fmt.Sprintf(format, args...)}
 	}
 	if g.n >= MinPoints && !(rows.dmax > rows.dmin) {
 		return pr, perr(ErrProtocol, "check the kinematic columns; a protocol must stretch the specimen",
@@ -472,8 +481,8 @@ func (rows *protocolRows) smoothBranches(pr *Protocol, pts []Point, keep, starts
 				fix = first + ", " + fix
 			}
 			return perr(ErrProtocol, fix,
-				"keeps %s in the branch from line %d (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
-				plural(n, "point"), pts[a].Line, pts[a].Cycle, window, why)
+				"keeps %s in the branch from %s (cycle %d), fewer than the smoothing window of %d; the window stays inside each branch%s",
+				plural(n, "point"), rows.lineRange(pts[a].Line, pts[a].Line), pts[a].Cycle, window, why)
 		}
 	}
 	for j, a := range starts {

@@ -3,6 +3,8 @@ package biaxial
 import (
 	"bytes"
 	"errors"
+	"fmt"
+	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -211,5 +213,75 @@ func TestXLSXRefusalNamesRows(t *testing.T) {
 	pe := wantParseError(t, err, ErrProtocol, 120, 0, `protocol "1:1": rows 42–80 and 120–130 both hold cycle 2`, "; rows 120–130 repeat rows 61–71")
 	if strings.Contains(pe.Error(), "the rows at rows") {
 		t.Errorf("rows named as lines of text: %v", pe)
+	}
+}
+
+// workbookOf writes CSV text into the first sheet of a workbook, one
+// sheet row per line: comment lines and the header as text, data cells as
+// numbers where they read as one (the protocol label stays text).
+func workbookOf(t *testing.T, text string) []byte {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	for r, line := range strings.Split(strings.TrimSuffix(text, "\n"), "\n") {
+		if strings.HasPrefix(line, "#") {
+			f.SetCellStr("Sheet1", cellName(1, r+1), line)
+			continue
+		}
+		for i, v := range strings.Split(line, ",") {
+			if x, err := strconv.ParseFloat(v, 64); err == nil && i > 0 {
+				f.SetCellFloat("Sheet1", cellName(i+1, r+1), x, -1, 64)
+			} else {
+				f.SetCellStr("Sheet1", cellName(i+1, r+1), v)
+			}
+		}
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+// The held-load warning and the refusal of a branch shorter than the
+// smoothing window name a workbook's rows as rows, as the other messages
+// of a workbook do (TestXLSXRefusalNamesRows): until 2026-12-05 they read
+// "(lines 24–28)" and "protocol 1:1 (rows from line 3): … in the branch
+// from line 3" for sheet rows. The
+// data are TestHeldLoadWarning's (synthetic), one sheet row per line.
+func TestXLSXHoldAndSmoothingNameRows(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("# specimen = HOLD-1 (synthetic)\nprotocol,stretch_1,stretch_2,nominal_11 [kPa],nominal_22 [kPa]\n")
+	lam := func(sig float64) float64 { return 1 + math.Sqrt(math.Log1p(sig/60*(math.E-1))/25) }
+	for _, label := range []string{"1:1", "1:0.5"} {
+		for i := 0; i <= 20; i++ {
+			sig := 60 * float64(i) / 20
+			fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(sig), lam(sig/2), sig, sig/2)
+		}
+		if label == "1:1" {
+			for k := 1; k <= 5; k++ {
+				c := 0.0024 * float64(k)
+				fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(60)+c, lam(30)+c/2, 60+0.05*float64(k%2), 30.0)
+			}
+		}
+	}
+	book := workbookOf(t, b.String())
+	s, err := Read(bytes.NewReader(book), "hold.xlsx", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var held []string
+	for _, w := range s.Warnings {
+		if strings.Contains(w.Message, "stop the stress's rise") {
+			held = append(held, w.Message)
+		}
+	}
+	if len(held) != 1 || !strings.Contains(held[0], "the last 5 kept rows of cycle 1 (rows 24–28)") {
+		t.Errorf("held-load warning in a workbook: %q, want the held rows named as rows 24–28", held)
+	}
+	_, err = Read(bytes.NewReader(book), "hold.xlsx", Options{SmoothStrain: 31})
+	pe := wantParseError(t, err, ErrProtocol, 3, 0, "protocol 1:1 (from row 3): keeps 26 points in the branch from row 3 (cycle 1), fewer than the smoothing window of 31")
+	if strings.Contains(pe.Error(), "line") {
+		t.Errorf("sheet rows named as lines of text: %v", pe)
 	}
 }

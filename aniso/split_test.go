@@ -2,7 +2,10 @@ package aniso
 
 import (
 	"math"
+	"strings"
 	"testing"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // The split is consistent: shares sum to one per component, and a fibre
@@ -113,6 +116,52 @@ func TestSmallUncancelledStressKeepsShare(t *testing.T) {
 	} {
 		if got := NoLoadToShare(c.netPeak, c.normal, c.net, c.gross); got != c.want {
 			t.Errorf("NoLoadToShare(%v) = %v, want %v", c, got, c.want)
+		}
+	}
+}
+
+// The energy split is taken at a deformation the fit used: where F12 and
+// F21 are only tracking noise (Problem.ShearTakenAsZero), the fit takes
+// them as zero, and so must the split's "largest deformation" (AtF,
+// written to the card as split.at_F). Under a pure stretch the energy of
+// a family at +α equals that at −α, since I4 = λ1² cos²α + λ2² sin²α is
+// even in α (Holzapfel, Gasser & Ogden 2000; the package documentation,
+// Mirror symmetry): the split of a sign the data cannot tell must not
+// depend on it. Until 2026-12-05 AtF kept the noisy F12, F21 as read
+// (|F12| up to about 0.01 at a scatter of 0.004), so the reported energy
+// shares of ±α differed. Synthetic one-family membrane, neo-Hookean
+// matrix and an exponential fibre term.
+func TestSplitAtTheFittedDeformation(t *testing.T) {
+	m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 20, Params: []float64{3}}, 30)
+	s := synthSpecimen(t, m, synthOptions{maxStrain: 0.15})
+	spec, err := biaxial.Read(strings.NewReader(trackedCSV(s, 3, 0.004, 0)), "tracked.csv", biaxial.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := NewProblem(spec, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !p.ShearTakenAsZero {
+		t.Fatalf("the problem keeps the noise in F12 and F21 (shear within scatter %v)", spec.ShearWithinScatter)
+	}
+	mirror := oneFamily(m.Terms[0], m.Terms[1], -30)
+	plus, err := Split(p, m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	minus, err := Split(p, mirror)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, ps := range plus.Protocols {
+		if ps.AtF[1] != 0 || ps.AtF[2] != 0 {
+			t.Errorf("%s: split taken at F12 = %g, F21 = %g; the fit took them as 0", ps.Protocol, ps.AtF[1], ps.AtF[2])
+		}
+		for g, e := range ps.GroupEnergyShare {
+			if o := minus.Protocols[i].GroupEnergyShare[g]; math.Abs(e-o) > 1e-12 {
+				t.Errorf("%s: energy share of group %d is %.6g at +30° and %.6g at −30°", ps.Protocol, g, e, o)
+			}
 		}
 	}
 }

@@ -83,7 +83,8 @@ type CurveModel struct {
 }
 
 // WriteCurveTable writes curves.csv: for every protocol of p, along its
-// CurvePath, each model's modelled stress of every measured component and
+// CurvePath (of the deformations the fit used: F12 = F21 = 0 where
+// p.ShearTakenAsZero), each model's modelled stress of every measured component and
 // the half-width of its 95 % confidence band (aniso.ConfidenceBand; an
 // empty cell where the model has no covariance). Column names are
 // "<model>_<kind>_<component> [unit]" and "<model>_ci95_<kind>_<component>
@@ -106,6 +107,12 @@ func WriteCurveTable(w io.Writer, p *aniso.Problem, models []CurveModel) error {
 		Fs := make([][4]float64, len(pr.Points))
 		for i, pt := range pr.Points {
 			Fs[i] = pt.F
+			if p.ShearTakenAsZero {
+				// The fit took F12 and F21 within their scatter as zero;
+				// along the noise a family at +α and at −α, which the data
+				// cannot tell apart, would draw different curves.
+				Fs[i][1], Fs[i][2] = 0, 0
+			}
 		}
 		path := CurvePath(Fs)
 		bands := make([]*aniso.Band, len(models))

@@ -57,21 +57,23 @@ func (d *Discovery) formAngleFlag(hasShear bool) {
 	if math.IsNaN(lo95) || math.IsNaN(hi95) {
 		return
 	}
-	dist := func(a, b float64) float64 {
-		if !hasShear {
-			a, b = math.Abs(WrapDeg(a)), math.Abs(WrapDeg(b))
-		}
-		return math.Abs(WrapDeg(a - b))
-	}
-	outside := func(a float64) bool {
-		if !hasShear {
-			a = math.Abs(WrapDeg(a))
-		}
-		return a < lo95 || a > hi95
-	}
 	thr := best.CV.Mean + math.Max(best.CV.StdErr, d.Verdict.StdErrFloor)
+	// Every angle is measured from the chosen one, at, in its own frame:
+	// a signed offset in (−90°, 90°] with shear information (fibre angles
+	// are modulo 180°, and an interval may pass through ±90°), an offset
+	// of magnitudes without it (package documentation, Mirror symmetry).
 	at := Deg(r.Model.Families[0].Angle)
-	lo, hi := at, at
+	offset := func(a float64) float64 { return WrapDeg(a - at) }
+	if !hasShear {
+		at = math.Abs(WrapDeg(at))
+		offset = func(a float64) float64 { return math.Abs(WrapDeg(a)) - at }
+		lo95, hi95 = foldInterval(lo95, hi95)
+	}
+	dLo, dHi := WrapDeg(lo95-at), WrapDeg(hi95-at)
+	if !hasShear {
+		dLo, dHi = lo95-at, hi95-at
+	}
+	lo, hi := 0.0, 0.0 // the offsets the flagged models reach
 	var names []string
 	for i := range d.Pareto {
 		c := &d.Pareto[i]
@@ -79,23 +81,27 @@ func (d *Discovery) formAngleFlag(hasShear bool) {
 		if c == best || c.CV == nil || less(thr, c.CV.Mean) || cr.Structure.Layout != LayoutSingle || len(cr.Model.Families) != 1 {
 			continue
 		}
-		a := Deg(cr.Model.Families[0].Angle)
-		if dist(a, at) <= formAngleMinDeg || !outside(a) {
+		o := offset(Deg(cr.Model.Families[0].Angle))
+		if math.Abs(o) <= formAngleMinDeg || (o >= dLo && o <= dHi) {
 			continue
 		}
 		names = append(names, fmt.Sprintf("%s at %s", c.Name, anglesText(cr)))
-		if !hasShear {
-			a = math.Abs(WrapDeg(a))
-		}
-		lo, hi = math.Min(lo, a), math.Max(hi, a)
+		lo, hi = math.Min(lo, o), math.Max(hi, o)
 	}
 	if len(names) == 0 {
 		return
 	}
-	if !hasShear {
-		at = math.Abs(WrapDeg(at))
-		lo, hi = math.Min(lo, at), math.Max(hi, at)
-	}
+	lo, hi = at+lo, at+hi
 	r.Flags = append(r.Flags, fmt.Sprintf("the fibre direction depends on the model form: models with one fibre direction that predict the held-out protocols as well (held-out error within %.3g) put it elsewhere (%s), so the data place it anywhere from %.1f° to %.1f°; the angle's interval [%.2f°, %.2f°] holds for the chosen form only",
 		thr, strings.Join(names, "; "), lo, hi, lo95, hi95))
+}
+
+// foldInterval returns the interval of |α| that an interval [lo, hi] of α
+// (degrees, in (−90°, 90°]) covers: [0, max] when it contains 0.
+func foldInterval(lo, hi float64) (float64, float64) {
+	if lo <= 0 && hi >= 0 {
+		return 0, math.Max(-lo, hi)
+	}
+	a, b := math.Abs(lo), math.Abs(hi)
+	return math.Min(a, b), math.Max(a, b)
 }

@@ -58,3 +58,38 @@ func TestFibreDirectionAcrossFormsQuietWhenAgreed(t *testing.T) {
 		}
 	}
 }
+
+// The comparison is made in the chosen angle's own frame: without shear
+// information by magnitude, whatever the sign the chosen angle or its
+// interval carries (a chosen −12.9° with the interval [−13.8°, −12.0°]
+// once read "from −12.9° to 12.9°" against a rival at 0°), and with shear
+// information modulo 180° (an interval through 90° holds 95°, written
+// −85°). Hand-made candidates; only the comparison is tested.
+func TestFibreDirectionAcrossFormsFrame(t *testing.T) {
+	mk := func(name string, deg, lo, hi float64) Candidate {
+		r := &Result{Structure: Structure{Layout: LayoutSingle}, Model: &Model{Families: []Family{{Angle: Rad(deg)}}},
+			Estimates: []Estimate{{Kind: "angle", Name: "angle", Lo: lo, Hi: hi}}}
+		return Candidate{Name: name, Result: r, CV: &CVScore{Mean: 0.03, StdErr: 0.01}}
+	}
+	flag := func(d *Discovery, hasShear bool) string {
+		d.formAngleFlag(hasShear)
+		if f := d.Pareto[0].Result.Flags; len(f) == 1 {
+			return f[0]
+		}
+		return ""
+	}
+	for _, c := range []struct{ deg, lo, hi float64 }{{12.9, 12.0, 13.8}, {-12.9, -13.8, -12.0}} {
+		d := &Discovery{Pareto: []Candidate{mk("chosen", c.deg, c.lo, c.hi), mk("other", 0, -1, 1), mk("near", 13.5, 13, 14)}}
+		got := flag(d, false)
+		if !strings.Contains(got, "anywhere from 0.0° to 12.9°") || !strings.Contains(got, "[12.00°, 13.80°]") || strings.Contains(got, "near") {
+			t.Errorf("chosen at %g° without shear information: %q", c.deg, got)
+		}
+	}
+	// With shear: the chosen 88° [80°, 97°] holds a rival at −85° (95°)
+	// and not one at 60°.
+	d := &Discovery{Pareto: []Candidate{mk("chosen", 88, 80, 97), mk("through90", -85, -86, -84), mk("far", 60, 59, 61)}}
+	got := flag(d, true)
+	if strings.Contains(got, "through90") || !strings.Contains(got, "(far at ") || !strings.Contains(got, "anywhere from 60.0° to 88.0°") {
+		t.Errorf("chosen at 88° with shear information: %q", got)
+	}
+}

@@ -166,7 +166,18 @@ func (r *Result) notes(p *Problem) {
 	nf := r.Structure.Layout.Families()
 	if nf > 0 {
 		if p.HasShear {
-			r.Notes = append(r.Notes, "The data carry shear information (F12/F21 or a shear stress), so the sign of each fibre angle is identified.")
+			n := "The data carry shear information (F12/F21 or a shear stress), so the sign of each fibre angle is identified."
+			// Shear stresses given (zero on sutures) at shear that scatters
+			// above biaxial.ShearScatterLimit identify the sign only as far
+			// as the tracking allows: SYNTHETIC sutured mirror pairs at ±35°
+			// tracked with a scatter of 0.001 to 0.003 were fitted as one
+			// family along axis 1, yet this note said the sign was
+			// identified, without a word about the scatter (until
+			// 2026-12-05).
+			if sc := shearScatterText(p); sc != "" {
+				n = "The data carry shear information (F12/F21 or a shear stress), so the sign of each fibre angle is identified as far as the measured shear allows: it scatters from point to point (" + sc + "; tracking noise?), and the shear stresses given are compared with a model's at that noisy shear, so an angle or sign that rests on the shear can be the noise's."
+			}
+			r.Notes = append(r.Notes, n)
 		} else {
 			// F12 and F21 read as noise are not "a pure biaxial stretch".
 			what := "pure biaxial stretch, no shear stress measured"

@@ -55,6 +55,14 @@ func strainScatter(pts []Point) [4]float64 {
 	return out
 }
 
+// StrainScatterOf estimates the point-to-point scatter (standard
+// deviation, dimensionless) of each entry of F (F11, F12, F21, F22) over
+// pts, one branch in order, as Protocol.StrainScatter is estimated for a
+// file (third differences, above); zero with fewer than MinPoints points.
+// It lets a reader of points written out by a fit (fit.csv) estimate the
+// tracking noise those points carry.
+func StrainScatterOf(pts []Point) [4]float64 { return strainScatter(pts) }
+
 // stressScatter estimates the point-to-point scatter of component c's
 // stress over pts (in order) from its third differences, as strainScatter
 // does for F: a smooth stress–stretch curve has almost none, independent

@@ -176,6 +176,9 @@ func finishSpecimen(s *biaxial.Specimen, c *card.Card, file string) error {
 			return inputErrorf("%s: protocol %q with %d points, but model.json lists %q with %d; the files are not from the same fit", file, pr.Label, len(pr.Points), dp.Label, dp.Points)
 		}
 		pr.UserWeight = dp.Weight
+		// The tracking noise of the fitted F, as weft inspect estimates
+		// it from a file (the plan's note on sutured tests reads it).
+		pr.StrainScatter = biaxial.StrainScatterOf(pr.Points)
 		for _, pt := range pr.Points {
 			shear = shear || pt.F[1] != 0 || pt.F[2] != 0
 		}

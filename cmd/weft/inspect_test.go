@@ -213,19 +213,7 @@ func TestInspectJSONPreloadAndScatter(t *testing.T) {
 // σ = 2 c10 (B − λ3² I) with c10 = 10 kPa (Rivlin 1948, as in Holzapfel
 // 2000, Nonlinear Solid Mechanics, §6.5).
 func TestInspectSaysShearWithinScatter(t *testing.T) {
-	rng := rand.New(rand.NewPCG(5, 9))
-	var b strings.Builder
-	b.WriteString("# specimen = SYN-tracked (synthetic)\nprotocol,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
-	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
-		for i := 1; i <= 40; i++ {
-			e := 0.15 * float64(i) / 40
-			l1, l2 := 1+r[0]*e, 1+r[1]*e
-			s3 := 1 / (l1 * l1 * l2 * l2)
-			n := func() float64 { return 0.004 * rng.NormFloat64() }
-			fmt.Fprintf(&b, "%g:%g,%.6f,%.6f,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1+n(), n(), n(), l2+n(), 20*(l1*l1-s3), 20*(l2*l2-s3))
-		}
-	}
-	path := writeTemp(t, "tracked.csv", b.String())
+	path := writeTemp(t, "tracked.csv", trackedNeoHookeanCSV())
 	out, errs, code := runWeft(t, "inspect", "--json", path)
 	if code != exitOK {
 		t.Fatalf("exit %d, stderr %q", code, errs)
@@ -256,4 +244,27 @@ func TestInspectSaysShearWithinScatter(t *testing.T) {
 	if !strings.Contains(table, "a pure stretch only") {
 		t.Errorf("a pure stretch is not called one:\n%s", table)
 	}
+}
+
+// trackedNeoHookeanCSV is a SYNTHETIC gradient file whose F12 and F21 are
+// only tracking noise: protocols 1:1, 1:0.5 and 0.5:1 of 40 rows to a
+// strain of 0.15, Gaussian scatter of 0.004 in every entry of F (seeded),
+// no shear stress, and the Cauchy stresses of an incompressible
+// neo-Hookean membrane in plane stress at the true F, σ = 2 c10 (B − λ3² I)
+// with c10 = 10 kPa (Rivlin 1948, as in Holzapfel 2000, Nonlinear Solid
+// Mechanics, §6.5).
+func trackedNeoHookeanCSV() string {
+	rng := rand.New(rand.NewPCG(5, 9))
+	var b strings.Builder
+	b.WriteString("# specimen = SYN-tracked (synthetic)\nprotocol,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
+		for i := 1; i <= 40; i++ {
+			e := 0.15 * float64(i) / 40
+			l1, l2 := 1+r[0]*e, 1+r[1]*e
+			s3 := 1 / (l1 * l1 * l2 * l2)
+			n := func() float64 { return 0.004 * rng.NormFloat64() }
+			fmt.Fprintf(&b, "%g:%g,%.6f,%.6f,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1+n(), n(), n(), l2+n(), 20*(l1*l1-s3), 20*(l2*l2-s3))
+		}
+	}
+	return b.String()
 }

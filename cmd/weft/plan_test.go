@@ -629,20 +629,8 @@ func questionOn(t *testing.T, pl planning.Report, topic string) *planning.Questi
 // is the data's (+α, −α or a pair), not one the noise settled.
 func TestPlanRebuildsShearWithinScatter(t *testing.T) {
 	t.Parallel()
-	rng := rand.New(rand.NewPCG(5, 9))
-	var b strings.Builder
-	b.WriteString("# specimen = SYN-tracked (synthetic)\nprotocol,F11,F12,F21,F22,cauchy_11 [kPa],cauchy_22 [kPa]\n")
-	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
-		for i := 1; i <= 40; i++ {
-			e := 0.15 * float64(i) / 40
-			l1, l2 := 1+r[0]*e, 1+r[1]*e
-			s3 := 1 / (l1 * l1 * l2 * l2)
-			n := func() float64 { return 0.004 * rng.NormFloat64() }
-			fmt.Fprintf(&b, "%g:%g,%.6f,%.6f,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1+n(), n(), n(), l2+n(), 20*(l1*l1-s3), 20*(l2*l2-s3))
-		}
-	}
 	data := filepath.Join(t.TempDir(), "tracked.csv")
-	if err := os.WriteFile(data, []byte(b.String()), 0o644); err != nil {
+	if err := os.WriteFile(data, []byte(trackedNeoHookeanCSV()), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	out := fitPath(t, data, "--preset", "hgo")

@@ -63,11 +63,32 @@ func (c *cohortRun) discoverForm() (Structure, error) {
 	}
 	c.crossValidate()
 	d.decideOn(c.evidence())
+	c.noteMixedShear(&d.Verdict)
 	c.support()
 	ci := c.paretoCand[d.Chosen]
 	c.init = c.cands[ci].init
 	d.Search = append(d.Search, c.searchNotes()...)
 	return c.cands[ci].st, nil
+}
+
+// noteMixedShear adds to the cohort's verdict v, when some usable
+// specimens carry shear information and others do not, how many do: the
+// pooled evidence has shear information only when every specimen has it
+// (evidence), so the verdict speaks of data "without shear information"
+// although some specimens identify their angles' signs (a synthetic
+// cohort of six, four on sutures with tracked shear, read so without a
+// word of it).
+func (c *cohortRun) noteMixedShear(v *Verdict) {
+	use := c.usable()
+	k := 0
+	for _, i := range use {
+		if c.sub[i].HasShear {
+			k++
+		}
+	}
+	if k > 0 && k < len(use) {
+		v.Reason += fmt.Sprintf("; %d of %d specimens carry shear information and the others none, so the cohort's verdict, on their pooled evidence, is taken without it (each specimen's own verdict uses its own)", k, len(use))
+	}
 }
 
 // chooseScouts spreads the scouts evenly over the usable specimens.

@@ -88,3 +88,38 @@ func TestCohortEvidenceCarriesShearScatter(t *testing.T) {
 		t.Errorf("pooled shear scatter %q of a specimen without tracking noise", got)
 	}
 }
+
+// A cohort whose specimens differ in shear information says how many
+// carry it: the pooled evidence counts shear only when every specimen has
+// it, so its verdict speaks of data without shear information. Specimens:
+// a Mooney–Rivlin solid (closed form, independent_test.go) on sutures
+// (shear information) and under a pure stretch (none).
+func TestCohortVerdictSaysHowManyCarryShear(t *testing.T) {
+	mk := func(sutured bool) *Problem {
+		p, err := NewProblem(synthFrom(t, mooneyRivlinMatrix(4, 1.5), synthOptions{noise: 0.02, points: 20, seed: 1, sutured: sutured, maxStrain: 0.2}), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	for _, c := range []struct {
+		sutured []bool
+		want    string
+	}{
+		{[]bool{true, false, true}, "; 2 of 3 specimens carry shear information and the others none"},
+		{[]bool{true, true}, ""},
+		{[]bool{false, false}, ""},
+	} {
+		var ps []*Problem
+		for _, s := range c.sutured {
+			ps = append(ps, mk(s))
+		}
+		run := &cohortRun{ps: ps, sub: ps, out: &Cohort{Specimens: make([]CohortSpecimen, len(ps)), Discovery: &Discovery{}}}
+		v := Verdict{Reason: "r"}
+		run.noteMixedShear(&v)
+		got := strings.TrimPrefix(v.Reason, "r")
+		if c.want == "" && got != "" || c.want != "" && !strings.HasPrefix(got, c.want) {
+			t.Errorf("specimens sutured %v: the verdict adds %q, want %q", c.sutured, got, c.want)
+		}
+	}
+}

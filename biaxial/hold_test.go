@@ -20,22 +20,8 @@ import (
 // ramp with 0.1 % stress noise (2 000 rows), which rises fastest at its end,
 // gets no such warning, and neither does a branch other than loading.
 func TestHeldLoadWarning(t *testing.T) {
-	var b strings.Builder
-	b.WriteString("# specimen = HOLD-1 (synthetic)\nprotocol,stretch_1,stretch_2,nominal_11 [kPa],nominal_22 [kPa]\n")
-	lam := func(sig float64) float64 { return 1 + math.Sqrt(math.Log1p(sig/60*(math.E-1))/25) }
-	for _, label := range []string{"1:1", "1:0.5"} {
-		for i := 0; i <= 20; i++ {
-			sig := 60 * float64(i) / 20
-			fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(sig), lam(sig/2), sig, sig/2)
-		}
-		if label == "1:1" {
-			for k := 1; k <= 5; k++ {
-				c := 0.0024 * float64(k)
-				fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(60)+c, lam(30)+c/2, 60+0.05*float64(k%2), 30.0)
-			}
-		}
-	}
-	s, err := readString(b.String(), Options{})
+	held0 := heldLoadFile()
+	s, err := readString(held0, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -48,11 +34,11 @@ func TestHeldLoadWarning(t *testing.T) {
 	if len(held) != 1 || held[0].Protocol != "1:1" || !strings.Contains(held[0].Message, "protocol 1:1: the last 5 kept rows of cycle 1 (lines 24–28)") {
 		t.Fatalf("held-load warnings %+v, want one for protocol 1:1 at lines 24–28 (the five held rows)", held)
 	}
-	if s, err := readString(b.String(), Options{Branch: BranchAll}); err != nil || hasHeldWarning(s) {
+	if s, err := readString(held0, Options{Branch: BranchAll}); err != nil || hasHeldWarning(s) {
 		t.Errorf("both branches kept: %v, warnings %v", err, s.Warnings)
 	}
 
-	b.Reset()
+	var b strings.Builder
 	b.WriteString("# specimen = DENSE-1 (synthetic)\nprotocol,stretch_1,stretch_2,nominal_11 [kPa],nominal_22 [kPa]\n")
 	rng := rand.New(rand.NewPCG(1, 2))
 	for i := 0; i <= 2000; i++ {
@@ -193,4 +179,27 @@ func TestHeldLoadUnderStressNoise(t *testing.T) {
 	if falsely > 0 {
 		t.Errorf("%d of 108 noisy ramps are warned of a hold they do not have", falsely)
 	}
+}
+
+// heldLoadFile is TestHeldLoadWarning's SYNTHETIC file: protocols 1:1 and
+// 1:0.5 of 21 rows each on an exponential stress–stretch law, the 1:1
+// protocol ending in 5 rows whose load is held at 60 kPa while the
+// stretch creeps (lines 24–28).
+func heldLoadFile() string {
+	var b strings.Builder
+	b.WriteString("# specimen = HOLD-1 (synthetic)\nprotocol,stretch_1,stretch_2,nominal_11 [kPa],nominal_22 [kPa]\n")
+	lam := func(sig float64) float64 { return 1 + math.Sqrt(math.Log1p(sig/60*(math.E-1))/25) }
+	for _, label := range []string{"1:1", "1:0.5"} {
+		for i := 0; i <= 20; i++ {
+			sig := 60 * float64(i) / 20
+			fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(sig), lam(sig/2), sig, sig/2)
+		}
+		if label == "1:1" {
+			for k := 1; k <= 5; k++ {
+				c := 0.0024 * float64(k)
+				fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(60)+c, lam(30)+c/2, 60+0.05*float64(k%2), 30.0)
+			}
+		}
+	}
+	return b.String()
 }

@@ -3,8 +3,6 @@ package biaxial
 import (
 	"bytes"
 	"errors"
-	"fmt"
-	"math"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -250,22 +248,7 @@ func workbookOf(t *testing.T, text string) []byte {
 // from line 3" for sheet rows. The
 // data are TestHeldLoadWarning's (synthetic), one sheet row per line.
 func TestXLSXHoldAndSmoothingNameRows(t *testing.T) {
-	var b strings.Builder
-	b.WriteString("# specimen = HOLD-1 (synthetic)\nprotocol,stretch_1,stretch_2,nominal_11 [kPa],nominal_22 [kPa]\n")
-	lam := func(sig float64) float64 { return 1 + math.Sqrt(math.Log1p(sig/60*(math.E-1))/25) }
-	for _, label := range []string{"1:1", "1:0.5"} {
-		for i := 0; i <= 20; i++ {
-			sig := 60 * float64(i) / 20
-			fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(sig), lam(sig/2), sig, sig/2)
-		}
-		if label == "1:1" {
-			for k := 1; k <= 5; k++ {
-				c := 0.0024 * float64(k)
-				fmt.Fprintf(&b, "%s,%.6f,%.6f,%.4f,%.4f\n", label, lam(60)+c, lam(30)+c/2, 60+0.05*float64(k%2), 30.0)
-			}
-		}
-	}
-	book := workbookOf(t, b.String())
+	book := workbookOf(t, heldLoadFile())
 	s, err := Read(bytes.NewReader(book), "hold.xlsx", Options{})
 	if err != nil {
 		t.Fatal(err)

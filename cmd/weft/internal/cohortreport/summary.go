@@ -239,27 +239,13 @@ func Build(in *Input) *Summary {
 	s.compare(in, values)
 	s.Population = populationInfo(in)
 	s.Notes = append(s.Notes, statisticsNotes...)
-	var flagged []string
-	for _, r := range s.Specimens {
-		if len(r.Flags) > 0 {
-			flagged = append(flagged, fmt.Sprintf("%s (%d)", r.Specimen, len(r.Flags)))
-		}
-	}
-	if len(flagged) > 0 {
-		s.Notes = append(s.Notes, fmt.Sprintf("specimens whose own fit raised flags (a standard error larger than its value, a correlated pair, a parameter at a bound, …): %s; their values enter the statistics at full weight — see each one's flags in cohort.json and its card", strings.Join(flagged, ", ")))
-	}
+	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Flags) },
+		"specimens whose own fit raised flags (a standard error larger than its value, a correlated pair, a parameter at a bound, …): %s; their values enter the statistics at full weight — see each one's flags in cohort.json and its card")
 	// Reading warnings were until 2026-12-05 only in each specimen's own
 	// card: the cohort's outputs said nothing of a block written twice or
 	// a load held at the peak in one of its files.
-	var warned []string
-	for _, r := range s.Specimens {
-		if len(r.Warnings) > 0 {
-			warned = append(warned, fmt.Sprintf("%s (%d)", r.Specimen, len(r.Warnings)))
-		}
-	}
-	if len(warned) > 0 {
-		s.Notes = append(s.Notes, fmt.Sprintf("specimens whose test file was read with warnings (a repeated block, a held load, a slip of the stretch, an untared preload, shear within its scatter, …): %s; their values enter the statistics at full weight — see each one's warnings in cohort.json and its card", strings.Join(warned, ", ")))
-	}
+	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Warnings) },
+		"specimens whose test file was read with warnings (a repeated block, a held load, a slip of the stretch, an untared preload, shear within its scatter, …): %s; their values enter the statistics at full weight — see each one's warnings in cohort.json and its card")
 	s.Provenance = in.Provenance
 	return s
 }
@@ -542,4 +528,19 @@ func (s *Summary) compare(in *Input, values [][]float64) {
 			c.KruskalWallis.PHolm = card.Num(hk[i])
 		}
 	}
+}
+
+// appendCountNote appends to notes, when some specimens have a positive
+// count, the note format with their list ("S-1 (2), S-4 (1)") put in.
+func appendCountNote(notes []string, rows []SpecimenRow, count func(SpecimenRow) int, format string) []string {
+	var named []string
+	for _, r := range rows {
+		if n := count(r); n > 0 {
+			named = append(named, fmt.Sprintf("%s (%d)", r.Specimen, n))
+		}
+	}
+	if len(named) == 0 {
+		return notes
+	}
+	return append(notes, fmt.Sprintf(format, strings.Join(named, ", ")))
 }

@@ -215,11 +215,7 @@ func SmoothingNoiseFactor(window int) float64 {
 // reader made of it (Specimen.ShearWithinScatter): no shear information,
 // so a fit takes them as zero and leaves the sign of a fibre angle open.
 func warnNoiseOnlyShear(s *Specimen) {
-	worst := 0.0
-	for i := range s.Protocols {
-		sc := s.Protocols[i].StrainScatter
-		worst = math.Max(worst, math.Max(sc[1], sc[2]))
-	}
+	worst := largestShearScatter(s)
 	s.warn(0, "", "the shear F12 and F21 stay within %g times their point-to-point scatter (up to %.2g) of zero on every kept point, and no shear stress is given — a pure biaxial stretch seen through tracking noise? Taken as no shear information: a fit takes F12 = F21 = 0 and leaves the sign of a fibre angle (a family at +α or −α, which give the same normal stresses under a pure stretch) undetermined, as that noise cannot decide it; shear stress columns, an off-axis protocol or a specimen sheared on purpose would decide it",
 		float64(peakScatter), worst)
 }
@@ -243,11 +239,7 @@ func warnNoiseOnlyShear(s *Specimen) {
 // were not warned). A path without scatter (zero estimate) counts from any
 // non-zero shear, as before.
 func shearBeyondScatter(s *Specimen) bool {
-	worst := 0.0
-	for i := range s.Protocols {
-		sc := s.Protocols[i].StrainScatter
-		worst = math.Max(worst, math.Max(sc[1], sc[2]))
-	}
+	worst := largestShearScatter(s)
 	for i := range s.Protocols {
 		for _, p := range s.Protocols[i].Points {
 			if math.Abs(p.F[1]) > peakScatter*worst || math.Abs(p.F[2]) > peakScatter*worst {
@@ -256,4 +248,15 @@ func shearBeyondScatter(s *Specimen) bool {
 		}
 	}
 	return false
+}
+
+// largestShearScatter is the largest point-to-point scatter of F12 and F21
+// over the protocols (Protocol.StrainScatter).
+func largestShearScatter(s *Specimen) float64 {
+	worst := 0.0
+	for i := range s.Protocols {
+		sc := s.Protocols[i].StrainScatter
+		worst = math.Max(worst, math.Max(sc[1], sc[2]))
+	}
+	return worst
 }

@@ -117,10 +117,7 @@ const sameDirectionDeg = 1e-6
 
 // axialDeg is the distance (degrees) between directions x and y of period
 // 180°.
-func axialDeg(x, y float64) float64 {
-	d := math.Mod(math.Abs(x-y), 180)
-	return math.Min(d, 180-d)
-}
+func axialDeg(x, y float64) float64 { return math.Abs(aniso.WrapDeg(x - y)) }
 
 // directionSet returns the distinct directions of angles (degrees): each
 // folded into [0°, 180°), or into [0°, 90°] as |α| unless signKnown, one

@@ -109,13 +109,9 @@ func rankAdditions(full *Result, params map[string]float64, base Structure, n in
 	return out
 }
 
-// profiled reports whether group g of a full fit has shape parameters to
-// profile (profileShapes) and a column cheap enough to fill many times:
-// an isotropic term, or a fibre term on an ideal family.
-func profiled(full *Result, g int) bool {
-	if full.Structure.Planar && full.Structure.Terms[g].Family >= 0 {
-		return false
-	}
+// hasShapeParams reports whether group g of a full fit has shape
+// parameters to profile (profileShapes).
+func hasShapeParams(full *Result, g int) bool {
 	for _, q := range full.e.params {
 		if q.Kind == kindShape && q.Group == g {
 			return true
@@ -147,7 +143,7 @@ func ownProfiled(full *Result, theta []float64, idleOnly bool) []float64 {
 	e.eval(theta, false)
 	var which []int
 	for g := range e.groups {
-		if (!idleOnly || e.w[g] == 0) && profiled(full, g) {
+		if (!idleOnly || e.w[g] == 0) && hasShapeParams(full, g) {
 			which = append(which, g)
 		}
 	}

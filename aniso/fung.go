@@ -41,16 +41,27 @@ func greenStrain(F [4]float64) Sym {
 	return Sym{(F[0]*F[0] + F[2]*F[2] - 1) / 2, (F[1]*F[1] + F[3]*F[3] - 1) / 2, (F[0]*F[1] + F[2]*F[3]) / 2}
 }
 
-// fungQ returns Q and G = ∂Q/∂E for E = (E11, E22, E12) and b = (b1…b4).
+// fungQ returns Q and G = ∂Q/∂E for E = (E11, E22, E12) and b = (b1…b4),
+// or b1…b6 for the generalised form, whose couplings add
+// 2 b5 E11 (E12 + E21) + 2 b6 E22 (E12 + E21) to Q (terms/fung.go).
 func fungQ(E Sym, b []float64) (float64, Sym) {
 	q := b[0]*E[0]*E[0] + b[1]*E[1]*E[1] + 2*b[2]*E[0]*E[1] + 2*b[3]*E[2]*E[2]
-	return q, Sym{2 * (b[0]*E[0] + b[2]*E[1]), 2 * (b[1]*E[1] + b[2]*E[0]), 2 * b[3] * E[2]}
+	g := Sym{2 * (b[0]*E[0] + b[2]*E[1]), 2 * (b[1]*E[1] + b[2]*E[0]), 2 * b[3] * E[2]}
+	if len(b) == 6 {
+		q += 4 * E[2] * (b[4]*E[0] + b[5]*E[1])
+		g[0] += 4 * b[4] * E[2]
+		g[1] += 4 * b[5] * E[2]
+		g[2] += 2 * (b[4]*E[0] + b[5]*E[1])
+	}
+	return q, g
 }
 
-// fungDQ returns ∂Q/∂b_j and ∂G/∂b_j for j = 0…3.
-func fungDQ(E Sym) ([4]float64, [4]Sym) {
-	return [4]float64{E[0] * E[0], E[1] * E[1], 2 * E[0] * E[1], 2 * E[2] * E[2]},
-		[4]Sym{{2 * E[0], 0, 0}, {0, 2 * E[1], 0}, {2 * E[1], 2 * E[0], 0}, {0, 0, 2 * E[2]}}
+// fungDQ returns ∂Q/∂b_j and ∂G/∂b_j for j = 0…5 (the last two are the
+// generalised form's couplings; a four-coefficient term reads only the
+// first four).
+func fungDQ(E Sym) ([6]float64, [6]Sym) {
+	return [6]float64{E[0] * E[0], E[1] * E[1], 2 * E[0] * E[1], 2 * E[2] * E[2], 4 * E[0] * E[2], 4 * E[1] * E[2]},
+		[6]Sym{{2 * E[0], 0, 0}, {0, 2 * E[1], 0}, {2 * E[1], 2 * E[0], 0}, {0, 0, 2 * E[2]}, {4 * E[2], 0, 2 * E[0]}, {0, 4 * E[2], 2 * E[1]}}
 }
 
 // pushForward returns F S Fᵀ of a symmetric in-plane S (a second
@@ -163,7 +174,13 @@ func greenJet(F [4]float64, b []float64) jet {
 	q = q.addScaled(b[0], &s11)
 	q = q.addScaled(b[1], &s22)
 	q = q.addScaled(2*b[2], &s1122)
-	return q.addScaled(2*b[3], &s12)
+	q = q.addScaled(2*b[3], &s12)
+	if len(b) == 6 {
+		s1112, s2212 := e11.mul(&e12), e22.mul(&e12)
+		q = q.addScaled(4*b[4], &s1112)
+		q = q.addScaled(4*b[5], &s2212)
+	}
+	return q
 }
 
 // shearStrainTolerance is the largest |E12| treated as no shear strain:
@@ -229,7 +246,11 @@ func (r *Result) greenNotes(p *Problem, held []heldParam) {
 		r.Estimates = append(r.Estimates, Estimate{Name: h.name, Kind: "shape", Term: h.group, Value: 0,
 			StdErr: math.NaN(), Lo: math.NaN(), Hi: math.NaN(), Status: "not-determined"})
 		if r.Weights[h.group] > 0 {
-			r.Notes = append(r.Notes, fmt.Sprintf("%s is held at 0 and not determined: the data have no in-plane shear strain (|E12| ≤ %g at every point) and the Fung-type exponent depends on it only through E12² + E21². The fitted model has no shear stiffness from this term; where the tissue shears, take it from tests with shear (markers giving F12 and F21, or an off-axis protocol).", h.name, shearStrainTolerance))
+			through := "E12² + E21². The fitted model has no shear stiffness from this term"
+			if h.name != "b4" {
+				through = "E12 + E21. The fitted model couples no shear to the normal strains through it"
+			}
+			r.Notes = append(r.Notes, fmt.Sprintf("%s is held at 0 and not determined: the data have no in-plane shear strain (|E12| ≤ %g at every point) and the Fung-type exponent depends on it only through %s; where the tissue shears, take it from tests with shear (markers giving F12 and F21, or an off-axis protocol).", h.name, shearStrainTolerance, through))
 		}
 	}
 	shear := p.Data.hasShearStrain()
@@ -251,7 +272,11 @@ func (r *Result) greenNotes(p *Problem, held []heldParam) {
 		}
 		if q := maxQ(p.Data, b); q < linearLimitQ {
 			w := r.Weights[g]
-			r.Notes = append(r.Notes, fmt.Sprintf("The exponent Q of %s stays below %g over the data (largest %.3g): the fit has gone to the linear limit W ≈ c Q/2, where only the products c·b are determined (c·b1 = %.4g, c·b2 = %.4g, c·b3 = %.4g, c·b4 = %.4g in the stress unit). These data do not support the exponential stiffening of this form in the tester's axes.", label, linearLimitQ, q, w*b[0], w*b[1], w*b[2], w*b[3]))
+			products := fmt.Sprintf("c·b1 = %.4g, c·b2 = %.4g, c·b3 = %.4g, c·b4 = %.4g", w*b[0], w*b[1], w*b[2], w*b[3])
+			if len(b) == 6 {
+				products += fmt.Sprintf(", c·b5 = %.4g, c·b6 = %.4g", w*b[4], w*b[5])
+			}
+			r.Notes = append(r.Notes, fmt.Sprintf("The exponent Q of %s stays below %g over the data (largest %.3g): the fit has gone to the linear limit W ≈ c Q/2, where only the products c·b are determined (%s in the stress unit). These data do not support the exponential stiffening of this form in the tester's axes.", label, linearLimitQ, q, products))
 		}
 	}
 }

@@ -17,6 +17,18 @@ import (
 // S12 ≈ c b4 E12. The model is the classical comparison for planar tissue
 // (skin, valve leaflets); it is offered as a preset, not as a candidate of
 // model discovery.
+//
+// The generalised form (fung-general) adds the couplings of the normal
+// strains to the shear that Tong & Fung's form leaves out:
+//
+//	Q += 2 b5 E11 (E12 + E21) + 2 b6 E22 (E12 + E21)
+//
+// so that Q is any quadratic form of (E11, E22, E12). An orthotropic
+// Fung-type law whose axes are turned by θ from the tester's (Fung 1979;
+// the planar form of Choi & Vito 1990) is one: its Q is a quadratic form
+// of the turned strain Rᵀ E R, which is linear in E. The full form is the
+// classical one for planar tissue whose axes are not the tester's (e.g.
+// Sun & Sacks 2005; from memory); like fung it is a preset.
 
 // fungExp is (e^x − 1)/2 with f′ = f″ = e^x/2.
 func fungExp(x float64, _ []float64) Value {
@@ -41,11 +53,21 @@ func fungCoefficient(name, doc string, def, min float64, scan []float64, shear b
 // Q is a convex quadratic form, i.e. when its matrix over (E11, E22, E12) is
 // positive definite (common practice for Fung-type models; the
 // composition of a convex non-decreasing function with a convex one is
-// convex). Convexity in E is not polyconvexity in F.
+// convex). Convexity in E is not polyconvexity in F. For the generalised
+// form (six coefficients) the matrix is
+//
+//	M = [[b1, b3, 2 b5], [b3, b2, 2 b6], [2 b5, 2 b6, 2 b4]]
+//
+// (Q = xᵀ M x with x = (E11, E22, E12) and E21 = E12), positive definite by
+// Sylvester's criterion when b1 > 0, b1 b2 > b3² and det M > 0.
 func fungConvexity(p []float64, shear bool) Convexity {
 	b1, b2, b3, b4 := p[0], p[1], p[2], p[3]
 	det := b1*b2 - b3*b3
+	general := len(p) == 6
 	c := Convexity{Condition: "b1 > 0, b2 > 0 and b1 b2 > b3² (and b4 > 0 where in-plane shear acts): the quadratic form Q is positive definite, so W is convex in the Green strain E"}
+	if general {
+		c.Condition = "b1 > 0, b2 > 0 and b1 b2 > b3² (and, where in-plane shear acts, det M > 0 for M = [[b1, b3, 2 b5], [b3, b2, 2 b6], [2 b5, 2 b6, 2 b4]]): the quadratic form Q is positive definite, so W is convex in the Green strain E"
+	}
 	var fails []string
 	if !(b1 > 0) {
 		fails = append(fails, "b1 ≤ 0")
@@ -56,11 +78,21 @@ func fungConvexity(p []float64, shear bool) Convexity {
 	if !(det > 0) {
 		fails = append(fails, "b1 b2 ≤ b3²")
 	}
-	if shear && !(b4 > 0) {
+	var detM float64
+	if general {
+		m13, m23, m33 := 2*p[4], 2*p[5], 2*b4
+		detM = b1*(b2*m33-m23*m23) - b3*(b3*m33-m23*m13) + m13*(b3*m23-b2*m13)
+		if shear && !(detM > 0) {
+			fails = append(fails, "det M ≤ 0: the shear couples to the normal strains more strongly than the stiffness allows")
+		}
+	} else if shear && !(b4 > 0) {
 		fails = append(fails, "b4 ≤ 0 (no shear stiffness from this term)")
 	}
 	c.Holds = len(fails) == 0
 	c.Detail = fmt.Sprintf("b1 = %.6g, b2 = %.6g, b3 = %.6g, b1 b2 − b3² = %.6g, b4 = %.6g", b1, b2, b3, det, b4)
+	if general {
+		c.Detail += fmt.Sprintf(", b5 = %.6g, b6 = %.6g, det M = %.6g", p[4], p[5], detM)
+	}
 	if c.Holds {
 		c.Detail += ": holds"
 	} else {
@@ -91,4 +123,19 @@ func init() {
 		eval:      fungExp, slope: fungExpSlope,
 	}
 	register(s)
+	general := &Shape{ID: "fung-general", Arg: Green, Title: "generalised Fung-type exponential of the Green strain: a full quadratic form, shear coupled to the normal strains",
+		Formula: "w*(exp(b_1*E11^2 + b_2*E22^2 + 2*b_3*E11*E22 + b_4*(E12^2 + E21^2) + 2*b_5*E11*(E12 + E21) + 2*b_6*E22*(E12 + E21)) - 1)/2",
+		LaTeX:   `\frac{w}{2}\left(e^{b_1 E_{11}^{2} + b_2 E_{22}^{2} + 2b_3 E_{11} E_{22} + b_4 \left(E_{12}^{2} + E_{21}^{2}\right) + 2b_5 E_{11}\left(E_{12} + E_{21}\right) + 2b_6 E_{22}\left(E_{12} + E_{21}\right)} - 1\right)`,
+		Params: append(append([]Param(nil), s.Params...),
+			fungCoefficient("b5", "coupling 2 b5 E11 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 1 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true),
+			fungCoefficient("b6", "coupling 2 b6 E22 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 2 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true)),
+		Weight: s.Weight,
+		PolyconvexNote: "NOT polyconvex in general: an exponential of a quadratic form of the Green strain in the tester's axes; " +
+			"it is convex in E when the form is positive definite (b1 > 0, b2 > 0, b1 b2 > b3², and det M > 0 where shear acts), " +
+			"which is checked and reported for each parameter set",
+		Source:    "the full quadratic form of the planar Fung-type law, e.g. Sun & Sacks 2005, Biomech Model Mechanobiol 4:190–199 (from memory)",
+		convexity: fungConvexity,
+		eval:      fungExp, slope: fungExpSlope,
+	}
+	register(general)
 }

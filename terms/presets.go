@@ -91,6 +91,9 @@ func init() {
 		{Name: "fung", Title: "Fung-type planar exponential in the Green strain (a classical comparison)", Source: "Tong & Fung 1976, J Biomech 9:649–657",
 			Terms:   []PresetTerm{{ID: "fung", Weight: 0.5, Params: []float64{12, 6, 2, 8}}},
 			Example: "illustrative values invented for weft's examples, not measured (c = 0.5 kPa, b1 = 12, b2 = 6, b3 = 2, b4 = 8)"},
+		{Name: "fung-general", Title: "generalised Fung-type planar exponential in the Green strain, shear coupled to the normal strains (a classical comparison)", Source: "the full quadratic form of the planar Fung-type law, e.g. Sun & Sacks 2005, Biomech Model Mechanobiol 4:190–199 (from memory)",
+			Terms:   []PresetTerm{{ID: "fung-general", Weight: 0.5, Params: []float64{12, 6, 2, 8, 1, -0.5}}},
+			Example: "illustrative values invented for weft's examples, not measured (c = 0.5 kPa, b1 = 12, b2 = 6, b3 = 2, b4 = 8, b5 = 1, b6 = −0.5)"},
 	} {
 		presets[p.Name] = p
 	}

@@ -420,7 +420,7 @@ func (s *Shape) CheckParams(p []float64) error {
 }
 
 // MaxParams is the largest number of non-linear parameters of any shape.
-const MaxParams = 4
+const MaxParams = 6
 
 var byID = map[string]*Shape{}
 

@@ -153,8 +153,8 @@ func TestOverflow(t *testing.T) {
 }
 
 func TestCatalogueAndPresets(t *testing.T) {
-	if n := len(Catalogue()); n != 20 {
-		t.Errorf("catalogue has %d shapes, documented 20", n)
+	if n := len(Catalogue()); n != 21 {
+		t.Errorf("catalogue has %d shapes, documented 21", n)
 	}
 	poly := 0
 	for _, s := range Catalogue() {

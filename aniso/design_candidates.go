@@ -72,6 +72,18 @@ func hasGreen(m *Model) bool {
 	return false
 }
 
+// greenCoupled reports whether m has a generalised Green-strain term
+// (fung-general), whose couplings b5, b6 of normal and shear strain let
+// it shear on sutures and hold turned orthotropic axes.
+func greenCoupled(m *Model) bool {
+	for _, t := range m.Terms {
+		if t.Shape.Arg == terms.Green && t.Weight > 0 && len(t.Params) == 6 {
+			return true
+		}
+	}
+	return false
+}
+
 // candidates lists the planned tests: in the current mounting every ratio
 // not yet run, and on sutures with marker-tracked shear every ratio (or,
 // when the data already carry shear information, the ratios not yet run,
@@ -119,10 +131,18 @@ func (d *designer) candidates(set DesignSettings) ([]PlannedTest, []string) {
 		// A Fung-type term is not isotropic: it is orthotropic about the
 		// tester's axes, so it predicts no shear on sutures either, and
 		// turned axes would need coupling terms its form does not have.
+		if greenCoupled(d.r.Model) {
+			notes = append(notes, "the model has no fibre family and its Fung-type term, a full quadratic form of the Green strain, is tied to the tester's axes, as is every explanation a question weighs: off-axis mountings would turn its axes with the specimen, which the plan does not model, so only stretch ratios are planned, and no planned test is scored on a fibre question")
+			break
+		}
 		notes = append(notes, "the model has no fibre family and its Fung-type term is orthotropic about the tester's axes, as is every explanation a question weighs: it predicts no shear on sutures, and off-axis mountings would need coupling terms its form does not have, so only stretch ratios are planned, and no planned test is scored on a fibre question")
 	case iso:
 		notes = append(notes, "the model is isotropic, as is every explanation a question weighs: its response does not depend on how the specimen is mounted and it predicts no shear on sutures, so only stretch ratios are planned, and no planned test is scored on a fibre question")
 	case len(set.MountingsDeg) > 0 && hasGreen(d.r.Model):
+		if greenCoupled(d.r.Model) {
+			notes = append(notes, "off-axis mountings are not planned: the Fung-type term is tied to the tester's axes, and the plan does not turn its quadratic form with the specimen")
+			break
+		}
 		notes = append(notes, "off-axis mountings are not planned: the Fung-type term is tied to the tester's axes, and turned axes would need coupling terms its form does not have")
 	default:
 		for _, psi := range set.MountingsDeg {

@@ -34,7 +34,9 @@ type DiscoverSettings struct {
 	// with their own angles and shape parameters (default 2).
 	RefitPerSize int
 	// Presets are the classical presets fitted for comparison (default
-	// neo-hookean, hgo, goh, fung).
+	// neo-hookean, hgo, goh, fung, and fung-general when the data have
+	// in-plane shear strain: without it fung-general's couplings are held
+	// at 0 and it is fung).
 	Presets []string
 	// SearchPoints is the most points per protocol that the search,
 	// cross-validation and selection use (default DefaultSearchPoints;
@@ -274,10 +276,16 @@ type sizeKey struct{ form, size int }
 
 // newSearch checks the data, takes the search subset and sets up the forms.
 func newSearch(all *Problem, set DiscoverSettings) (*search, error) {
+	defaultPresets := set.Presets == nil
 	set = set.withDefaults()
 	p, err := searchSubset(all, set.SearchPoints)
 	if err != nil {
 		return nil, err
+	}
+	if defaultPresets && p.Data.hasShearStrain() {
+		// Turned material axes show only with shear (fung.go): Tong &
+		// Fung's form, in the tester's axes, cannot follow them there.
+		set.Presets = append(set.Presets, "fung-general")
 	}
 	nonzero := false
 	for _, y := range p.Target {

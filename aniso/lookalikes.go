@@ -558,6 +558,8 @@ func (d *Discovery) orthotropyRule(v *Verdict) {
 	if chosen.CV == nil {
 		return
 	}
+	var best *Candidate
+	var bestDBIC float64
 	for i := range d.Presets {
 		c := &d.Presets[i]
 		if c.Result == nil || c.CV == nil || len(c.Result.Model.Families) > 0 || !hasGreen(c.Result.Model) {
@@ -567,11 +569,27 @@ func (d *Discovery) orthotropyRule(v *Verdict) {
 		if dBIC < DisagreeDeltaBIC || c.CV.Mean > chosen.CV.Mean+chosen.CV.StdErr {
 			continue
 		}
-		v.Reason = fmt.Sprintf("undecided: the Fung-type preset %s, orthotropic about the tester's axes with no fibre family, fits the data better in sample than the chosen model (ΔBIC %.1f) and predicts the held-out protocols as well or better (held-out error %.3g ± %.2g against %.3g ± %.2g), so the data do not show that their anisotropy comes from fibre families; the best-supported answer with fibres: %s",
-			strings.TrimPrefix(c.Name, "preset:"), dBIC, c.CV.Mean, c.CV.StdErr, chosen.CV.Mean, chosen.CV.StdErr, v.Reason)
-		v.Families, v.Decider, v.InSampleBest = "undecided", fungDecider, c.Name
+		if best == nil || dBIC > bestDBIC {
+			best, bestDBIC = c, dBIC
+		}
+	}
+	if best == nil {
 		return
 	}
+	v.Reason = fmt.Sprintf("undecided: the Fung-type preset %s, %s with no fibre family, fits the data better in sample than the chosen model (ΔBIC %.1f) and predicts the held-out protocols as well or better (held-out error %.3g ± %.2g against %.3g ± %.2g), so the data do not show that their anisotropy comes from fibre families; the best-supported answer with fibres: %s",
+		strings.TrimPrefix(best.Name, "preset:"), greenAxes(best.Result.Model), bestDBIC, best.CV.Mean, best.CV.StdErr, chosen.CV.Mean, chosen.CV.StdErr, v.Reason)
+	v.Families, v.Decider, v.InSampleBest = "undecided", fungDecider, best.Name
+}
+
+// greenAxes says how a model's Green-strain terms relate to the tester's
+// axes: Tong & Fung's form is orthotropic about them; the generalised
+// form couples shear to the normal strains, so it also holds an
+// orthotropic Fung-type law whose axes are turned from the tester's.
+func greenAxes(m *Model) string {
+	if greenCoupled(m) {
+		return "a full quadratic form of the Green strain (an orthotropic Fung-type law with its axes turned from the tester's is one)"
+	}
+	return "orthotropic about the tester's axes"
 }
 
 // presetWhat says what a preset's fit holds for presetCaution: its
@@ -585,7 +603,7 @@ func presetWhat(r *Result) string {
 	case len(r.Model.Families) > 0:
 		return anglesText(r)
 	case hasGreen(r.Model):
-		return "a Fung-type term orthotropic about the tester's axes, no fibre family: the data's anisotropy need not come from fibres"
+		return "a Fung-type term " + greenAxes(r.Model) + ", no fibre family: the data's anisotropy need not come from fibres"
 	default:
 		return "isotropic, no fibre family"
 	}

@@ -209,3 +209,29 @@ func TestCheckFungWithoutShearStiffness(t *testing.T) {
 		t.Errorf("no-stiffness failure %q; failures %v", stiff, rep.Failures)
 	}
 }
+
+// A fung-general card whose couplings of normal and shear strain make its
+// quadratic form indefinite, although b1, b2, b3 and b4 alone would not:
+// M = [[12, 2, 8], [2, 6, 0], [8, 0, 2]] (b5 = 4 enters as 2 b5 = 8, b4 = 1
+// as 2 b4 = 2) has det M = 12·12 − 2·4 + 8·(−48) = −248 by cofactor
+// expansion (worked here by hand). check fails (exit 1), names the
+// condition with that determinant, and blames the couplings for the
+// missing stiffness at rest.
+func TestCheckFungGeneralCouplingIndefinite(t *testing.T) {
+	t.Parallel()
+	path := writeTemp(t, "fg-nc.json", `{"format": "weft.model/1", "stress_unit": "kPa", "families": [],
+ "terms": [{"id": "fung-general", "weight": 0.7, "params": {"b1": 12, "b2": 6, "b3": 2, "b4": 1, "b5": 4, "b6": 0}}]}`)
+	out, _, code := runWeft(t, "check", path, "--json")
+	var rep fe.CheckReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != 1 || rep.Passed {
+		t.Fatalf("exit %d %v", code, err)
+	}
+	cv := rep.Polyconvexity.Terms[0].Convexity
+	if cv == nil || cv.Holds || !strings.Contains(cv.Detail, "det M = -248") {
+		t.Errorf("convexity %+v", cv)
+	}
+	failures := strings.Join(rep.Failures, "\n")
+	if !strings.Contains(failures, "not positive definite once shear couples to the normal strains") {
+		t.Errorf("failures do not blame the couplings:\n%s", failures)
+	}
+}

@@ -62,6 +62,9 @@ func nearlyIncompressible(m *aniso.Model, F2 [4]float64, F33, k float64) float64
 			E11, E22, E12 := (C[0][0]-1)/2, (C[1][1]-1)/2, C[0][1]/2
 			b := t.Params
 			x = b[0]*E11*E11 + b[1]*E22*E22 + 2*b[2]*E11*E22 + 2*b[3]*E12*E12
+			if len(b) == 6 { // fung-general: 2 b5 E11 (E12 + E21) + 2 b6 E22 (E12 + E21)
+				x += 4 * E12 * (b[4]*E11 + b[5]*E22)
+			}
 		default:
 			fam := m.Families[t.Family]
 			a := [3]float64{math.Cos(fam.Angle), math.Sin(fam.Angle), 0}

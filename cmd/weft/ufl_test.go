@@ -29,6 +29,7 @@ var uflCards = map[string]string{
   {"id": "i2-cube", "weight": 0.05}, {"id": "i2-exp", "weight": 0.2, "params": {"stiffening": 1}}, {"id": "i2-gent", "weight": 0.2, "params": {"limit": 4}},
   {"id": "ps-pos", "weight": 0.7, "params": {"exponent": 9}}, {"id": "ps-neg", "weight": 0.3, "params": {"exponent": -4}},
   {"id": "fung", "weight": 0.25, "params": {"b1": 6, "b2": 4, "b3": 1, "b4": 3}},
+  {"id": "fung-general", "weight": 0.2, "params": {"b1": 5, "b2": 7, "b3": -1, "b4": 4, "b5": 1.5, "b6": -2}},
   {"id": "fib-quad", "weight": 2, "family": "f1"}, {"id": "fib-expsq", "weight": 4, "params": {"stiffening": 3}, "family": "f1"},
   {"id": "fib-exp", "weight": 3, "params": {"stiffening": 4}, "family": "f1"}, {"id": "fib-recruit", "weight": 20, "params": {"onset": 1.04, "spread": 0.1}, "family": "f1"},
   {"id": "cof-quad", "weight": 1, "family": "f1"}, {"id": "i5-quad", "weight": 0.5, "family": "f1"},

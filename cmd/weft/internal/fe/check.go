@@ -299,13 +299,21 @@ func stiffnessCause(m *aniso.Model, mod *aniso.Moduli, shear bool) string {
 				continue
 			}
 			b1, b2, b3, b4 := t.Params[0], t.Params[1], t.Params[2], t.Params[3]
+			id := t.Shape.ID
 			if shear && b4 <= 0 {
-				causes = append(causes, fmt.Sprintf("term %d (fung) has b4 = %g, so it resists no in-plane shear (planar biaxial data without shear do not determine b4), "+
-					"and no isotropic term adds shear stiffness (mu0 = 0)", i+1, b4))
+				causes = append(causes, fmt.Sprintf("term %d (%s) has b4 = %g, so it resists no in-plane shear (planar biaxial data without shear do not determine b4), "+
+					"and no isotropic term adds shear stiffness (mu0 = 0)", i+1, id, b4))
 			}
-			if b1 <= 0 || b2 <= 0 || b1*b2 <= b3*b3 {
-				causes = append(causes, fmt.Sprintf("term %d (fung) has b1 = %g, b2 = %g, b1 b2 - b3² = %g: its quadratic form is not positive definite in the normal strains, "+
-					"and no isotropic term adds stiffness (mu0 = 0)", i+1, b1, b2, b1*b2-b3*b3))
+			normal := b1 <= 0 || b2 <= 0 || b1*b2 <= b3*b3
+			if normal {
+				causes = append(causes, fmt.Sprintf("term %d (%s) has b1 = %g, b2 = %g, b1 b2 - b3² = %g: its quadratic form is not positive definite in the normal strains, "+
+					"and no isotropic term adds stiffness (mu0 = 0)", i+1, id, b1, b2, b1*b2-b3*b3))
+			}
+			// The generalised form's couplings of normal and shear strain
+			// can make the whole form indefinite on their own.
+			if c, ok := t.Shape.ConvexityCondition(t.Params, shear); ok && len(t.Params) == 6 && shear && b4 > 0 && !normal && !c.Holds {
+				causes = append(causes, fmt.Sprintf("term %d (%s): %s, so its quadratic form is not positive definite once shear couples to the normal strains, "+
+					"and no isotropic term adds stiffness (mu0 = 0)", i+1, id, c.Detail))
 			}
 		}
 		if !hasGreenTerm(m) {

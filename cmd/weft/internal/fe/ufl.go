@@ -293,8 +293,12 @@ func uflTerm(i int, t aniso.Term, m *aniso.Model) (string, error) {
 		return head + fmt.Sprintf("    W = W + %s * (2.0 / (%s) ** 2) * (_pair_power_sum(iso * 0.5 * (C[0][0] + C[1][1]), iso * iso * ((0.5 * (C[0][0] - C[1][1])) ** 2 + C[0][1] ** 2), %s, (%s, %s, %s)) + (iso * C[2][2]) ** %s - 3.0)\n",
 			w, pyNum(p[0]), pyNum(a), pyNum(c[0]), pyNum(c[1]), pyNum(c[2]), pyNum(a)), nil
 	case terms.Green:
-		return head + fmt.Sprintf("    W = W + %s * _fung(0.5 * (C[0][0] - 1.0), 0.5 * (C[1][1] - 1.0), 0.5 * C[0][1], %s, %s, %s, %s)\n",
-			w, pyNum(p[0]), pyNum(p[1]), pyNum(p[2]), pyNum(p[3])), nil
+		coupling := ""
+		if len(p) == 6 {
+			coupling = fmt.Sprintf(", %s, %s", pyNum(p[4]), pyNum(p[5]))
+		}
+		return head + fmt.Sprintf("    W = W + %s * _fung(0.5 * (C[0][0] - 1.0), 0.5 * (C[1][1] - 1.0), 0.5 * C[0][1], %s, %s, %s, %s%s)\n",
+			w, pyNum(p[0]), pyNum(p[1]), pyNum(p[2]), pyNum(p[3]), coupling), nil
 	case terms.Fibre:
 		k := m.Families[t.Family].Dispersion
 		x := fmt.Sprintf("(%s * (I1 - 3.0) + %s * (I4_%d - 1.0))", pyNum(k), pyNum(1-3*k), t.Family)
@@ -478,10 +482,11 @@ def _recruit(x, la, d):
     return (l * l * ufl.ln(u / la) - 2.0 * l * (u - la) + (u * u - la * la) / 2.0) / (2.0 * d)
 
 
-def _fung(E11, E22, E12, b1, b2, b3, b4):
-    """(exp(Q) - 1)/2 of the Green strain in the tester's axes (Tong & Fung 1976),
+def _fung(E11, E22, E12, b1, b2, b3, b4, b5=0.0, b6=0.0):
+    """(exp(Q) - 1)/2 of the Green strain in the tester's axes (Tong & Fung 1976;
+    b5, b6 couple the normal strains to the shear, as in fung-general),
     its series where |Q| < 1e-4."""
-    Q = b1 * E11 * E11 + b2 * E22 * E22 + 2.0 * b3 * E11 * E22 + 2.0 * b4 * E12 * E12
+    Q = b1 * E11 * E11 + b2 * E22 * E22 + 2.0 * b3 * E11 * E22 + 2.0 * b4 * E12 * E12 + 4.0 * E12 * (b5 * E11 + b6 * E22)
     series = Q / 2.0 + Q * Q / 4.0 + Q * Q * Q / 12.0 + Q * Q * Q * Q / 48.0
     return ufl.conditional(ufl.lt(abs(Q), 1e-4), series, (ufl.exp(Q) - 1.0) / 2.0)
 

@@ -16,7 +16,8 @@ import (
 //     a translucent tint of it;
 //   - the models of the presets figure: the discovered model black, the
 //     presets sky blue (neo-Hookean), orange (hgo), reddish purple (goh)
-//     and bluish green (fung), each with its own dash pattern;
+//     and bluish green (fung, and fung-general dash-dotted), each with its
+//     own dash pattern;
 //   - the load-sharing figure: the matrix grey, the first fibre family
 //     blue, the second vermillion, axis 1 solid and axis 2 dashed;
 //   - model forms in the selection plot: no fibres black, one family blue,

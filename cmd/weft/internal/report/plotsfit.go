@@ -437,6 +437,8 @@ func presetStyle(name string) draw.LineStyle {
 		return lineStyle(okabeReddishPurple, 1.1, 6, 2, 1.2, 2)
 	case "fung":
 		return lineStyle(okabeBluishGreen, 1.1, 9, 3)
+	case "fung-general":
+		return lineStyle(okabeBluishGreen, 1.1, 2, 2, 9, 2)
 	}
 	return lineStyle(okabeVermillion, 1.1, 2, 2)
 }

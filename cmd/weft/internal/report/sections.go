@@ -509,9 +509,12 @@ func (in *Input) fibrelessRivalWords() (string, bool) {
 		return "", false
 	}
 	name := strings.TrimPrefix(rival.Name, "preset:")
-	if name == "fung" {
+	switch name {
+	case "fung":
 		name = "the Fung-type preset fung (Tong & Fung 1976), orthotropic about the tester's axes"
-	} else {
+	case "fung-general":
+		name = "the generalised Fung-type preset fung-general (a full quadratic form of the Green strain, which holds an orthotropic Fung-type law with its axes turned from the tester's)"
+	default:
 		name = "the preset " + name
 	}
 	dbic := ""
@@ -588,6 +591,8 @@ func presetCitation(name string) string {
 		return "GOH (Gasser, Ogden & Holzapfel 2006)"
 	case "fung":
 		return "Fung-type (Tong & Fung 1976)"
+	case "fung-general":
+		return "generalised Fung-type (the full quadratic form, e.g. Sun & Sacks 2005)"
 	}
 	return name
 }

@@ -129,7 +129,7 @@ func init() {
 		Params: append(append([]Param(nil), s.Params...),
 			fungCoefficient("b5", "coupling 2 b5 E11 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 1 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true),
 			fungCoefficient("b6", "coupling 2 b6 E22 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 2 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true)),
-		Weight: s.Weight,
+		Weight: "w = c of Tong & Fung 1976 (f′(0) = 1/2): at small strain S11 = c (b1 E11 + b3 E22 + 2 b5 E12), S22 = c (b3 E11 + b2 E22 + 2 b6 E12), S12 = c (b4 E12 + b5 E11 + b6 E22)",
 		PolyconvexNote: "NOT polyconvex in general: an exponential of a quadratic form of the Green strain in the tester's axes; " +
 			"it is convex in E when the form is positive definite (b1 > 0, b2 > 0, b1 b2 > b3², and det M > 0 where shear acts), " +
 			"which is checked and reported for each parameter set",

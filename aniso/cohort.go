@@ -143,6 +143,9 @@ type cohortRun struct {
 	// verdict).
 	screened int
 	skipped  []string
+	// scoutPresets[i][name] is scout i's fit of the classical preset
+	// name, made beside its search (fitFullForms).
+	scoutPresets map[int]map[string]*Result
 }
 
 // usable lists the specimens not failed so far.

@@ -139,6 +139,15 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 			}
 			v.Candidates.Rows = append(v.Candidates.Rows, htmlRow{Cells: []string{c.Name, strings.Join(c.Terms, " + "), fmt.Sprint(c.Parameters), cell(c.BIC, 7), cv}, Mark: c.Chosen})
 		}
+		// The Fung-type presets the verdict was compared with, below the
+		// candidates (they are not candidates of the shared form).
+		for _, c := range vd.Presets {
+			cv := "not cross-validated"
+			if !math.IsNaN(float64(c.HeldoutError)) {
+				cv = cell(c.HeldoutError, 3) + " ± " + cell(c.HeldoutStdErr, 2)
+			}
+			v.Candidates.Rows = append(v.Candidates.Rows, htmlRow{Cells: []string{c.Name + " (compared, not a candidate)", strings.Join(c.Terms, " + "), fmt.Sprint(c.Parameters), cell(c.BIC, 7), cv}})
+		}
 	}
 	v.Specimens.Head = []string{"file", "specimen", "group", "status"}
 	for _, p := range s.Parameters {

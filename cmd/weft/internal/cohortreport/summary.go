@@ -100,10 +100,20 @@ type VerdictInfo struct {
 	Reason   string `json:"reason"`
 	Rule     string `json:"rule"`
 	Decider  string `json:"decider,omitempty"`
+	// InSampleBest names the model that fits better in sample than the
+	// verdict's answer when that leaves the verdict undecided (a
+	// Fung-type preset, "preset:NAME", under the rule of fibreless
+	// orthotropy); empty otherwise.
+	InSampleBest string `json:"in_sample_best,omitempty"`
 	// Support counts the specimens reaching the verdict on their own.
 	Support    SupportInfo    `json:"support"`
 	Search     []string       `json:"search"`
 	Candidates []CandidateRow `json:"candidates"`
+	// Presets are the classical presets without a fibre family and with a
+	// Green-strain term, pooled over specimens as the candidates are, that
+	// the verdict was compared with; empty when the pooled verdict has no
+	// fibre families (nothing is fitted then).
+	Presets []CandidateRow `json:"presets"`
 }
 
 // SupportInfo is aniso.CohortSupport.
@@ -290,21 +300,30 @@ func verdictInfo(c *aniso.Cohort) *VerdictInfo {
 	if d == nil {
 		return nil
 	}
-	v := &VerdictInfo{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Rule: d.Rule, Decider: d.Verdict.Decider,
-		Support: SupportInfo(c.Support), Search: d.Search, Candidates: []CandidateRow{}}
+	v := &VerdictInfo{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Rule: d.Rule, Decider: d.Verdict.Decider, InSampleBest: d.Verdict.InSampleBest,
+		Support: SupportInfo(c.Support),
+		Search:  d.Search, Candidates: []CandidateRow{}, Presets: []CandidateRow{}}
 	for i, pc := range d.Pareto {
-		r := pc.Result
-		row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), HeldoutError: card.Num(math.NaN()),
-			HeldoutStdErr: card.Num(math.NaN()), Chosen: i == d.Chosen, Terms: []string{}}
-		for _, t := range r.Structure.Terms {
-			row.Terms = append(row.Terms, t.Label(r.Structure.Layout))
-		}
-		if pc.CV != nil {
-			row.HeldoutError, row.HeldoutStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
-		}
-		v.Candidates = append(v.Candidates, row)
+		v.Candidates = append(v.Candidates, candidateRow(pc, i == d.Chosen))
+	}
+	for _, pc := range d.Presets {
+		v.Presets = append(v.Presets, candidateRow(pc, false))
 	}
 	return v
+}
+
+// candidateRow is one pooled candidate or preset.
+func candidateRow(pc aniso.Candidate, chosen bool) CandidateRow {
+	r := pc.Result
+	row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), HeldoutError: card.Num(math.NaN()),
+		HeldoutStdErr: card.Num(math.NaN()), Chosen: chosen, Terms: []string{}}
+	for _, t := range r.Structure.Terms {
+		row.Terms = append(row.Terms, t.Label(r.Structure.Layout))
+	}
+	if pc.CV != nil {
+		row.HeldoutError, row.HeldoutStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
+	}
+	return row
 }
 
 // isPeriodicAngle reports whether an estimate is a fibre angle defined

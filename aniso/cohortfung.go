@@ -2,6 +2,7 @@ package aniso
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/weft-tools/weft/terms"
@@ -127,4 +128,79 @@ func (c *cohortRun) compareGreenPresets() []*cohortCandidate {
 	}
 	d.Search = append(d.Search, fmt.Sprintf("the pooled verdict has fibre families, so the classical presets without a fibre family and with a Green-strain (Fung-type) term (%s) were fitted to every specimen and pooled as the candidates are (summed BIC, held-out error averaged over specimens), and the verdict compared with them by the rule of a single specimen's discovery", strings.Join(ns, ", ")))
 	return kept
+}
+
+// Direction agreement. The verdict word alone counts a specimen whose own
+// evidence puts two families at ±25°, ±90° as agreeing with a cohort
+// verdict of two families at ±0°, ±33° (a synthetic Fung-type cohort did
+// so). A specimen agrees in direction when its own chosen model's fibre
+// directions lie within directionToleranceDeg of the cohort's chosen
+// model's, families matched as the cohort's medians match them (labelMaps:
+// a fit that calls its two families the other way round, a free pair or a
+// mirror pair read as θ + 90° ∓ (90° − β), is matched by angle), and by
+// magnitude |α| when either has no shear information to fix the signs.
+
+// directionToleranceDeg is how far (degrees) a specimen's fibre direction
+// may lie from the cohort's for the two to count as the same direction. It
+// is wider than the 1–4° profile interval of a well-determined fitted
+// angle (orthotropyRule's synthetic Fung-type solids), so that the spread
+// of angles between specimens of one tissue (the README's synthetic
+// cohorts: SD 3–6°) counts as agreement, and half the 20° at which the
+// verdict's tie rules take two fibre placements for different ones
+// (archTieMinDeg).
+const directionToleranceDeg = 10
+
+// directionGapDeg is the largest distance (degrees) between a family of a
+// and its matched family of b, or between any family of either and the
+// nearest of the other when their numbers differ (a one-family model
+// against a pair at ±α under a 1-or-mirror-pair verdict); angles modulo
+// 180°, compared by magnitude when signKnown is false. It is 0 when
+// neither has a fibre family and +Inf when only one has.
+func directionGapDeg(a, b *Model, signKnown bool) float64 {
+	fa, fb := a.Families, b.Families
+	if len(fa) == 0 || len(fb) == 0 {
+		if len(fa) == len(fb) {
+			return 0
+		}
+		return math.Inf(1)
+	}
+	dist := func(x, y float64) float64 {
+		x, y = Deg(x), Deg(y)
+		if !signKnown {
+			x, y = math.Abs(WrapDeg(x)), math.Abs(WrapDeg(y))
+		}
+		return math.Abs(WrapDeg(x - y))
+	}
+	if len(fa) == 2 && len(fb) == 2 {
+		straight := math.Max(dist(fa[0].Angle, fb[0].Angle), dist(fa[1].Angle, fb[1].Angle))
+		swapped := math.Max(dist(fa[0].Angle, fb[1].Angle), dist(fa[1].Angle, fb[0].Angle))
+		if dist(fa[0].Angle, fb[1].Angle)+dist(fa[1].Angle, fb[0].Angle) < dist(fa[0].Angle, fb[0].Angle)+dist(fa[1].Angle, fb[1].Angle) {
+			return swapped
+		}
+		return straight
+	}
+	gap := 0.0
+	nearest := func(x float64, fs []Family) float64 {
+		m := math.Inf(1)
+		for _, f := range fs {
+			m = math.Min(m, dist(x, f.Angle))
+		}
+		return m
+	}
+	for _, f := range fa {
+		gap = math.Max(gap, nearest(f.Angle, fb))
+	}
+	for _, f := range fb {
+		gap = math.Max(gap, nearest(f.Angle, fa))
+	}
+	return gap
+}
+
+// directionWords names the cohort's fibre directions for the support
+// sentence.
+func directionWords(r *Result) string {
+	if len(r.Model.Families) == 0 {
+		return "no fibre family"
+	}
+	return anglesText(r)
 }

@@ -50,7 +50,9 @@ func pooledPreset(d *Discovery, name string) *Candidate {
 // specimen, weights, BIC and held-out error as the README defines them,
 // pooled BIC the sum, held-out error the mean over specimens and its
 // standard error over them): BIC −19076.085, held-out error 0.0190183 ±
-// 0.0030467.
+// 0.0030467. And the three specimens reach the verdict word on their own
+// but only one puts its fibres where the cohort's model does (the others
+// at 19° and 21° from it), which the direction count tells.
 func TestCohortFungTypeSolidsUndecided(t *testing.T) {
 	t.Parallel()
 	if testing.Short() {
@@ -85,6 +87,10 @@ func TestCohortFungTypeSolidsUndecided(t *testing.T) {
 	if math.Abs(pc.CV.Mean-0.0190183) > 2e-6 || math.Abs(pc.CV.StdErr-0.0030467) > 2e-6 {
 		t.Errorf("pooled held-out error of preset:fung %.7f ± %.7f, recomputed 0.0190183 ± 0.0030467", pc.CV.Mean, pc.CV.StdErr)
 	}
+	s := c.Support
+	if s.SameDirection >= s.SameVerdict || s.SameVerdict == 0 {
+		t.Errorf("support %+v: want fewer specimens with the cohort's directions than with its verdict word", s)
+	}
 }
 
 // Fibre specimens (one family at about 30°, two at about 10° and 70°, on
@@ -93,7 +99,7 @@ func TestCohortFungTypeSolidsUndecided(t *testing.T) {
 // but fits worse in sample, so the rule does not fire. Its pooled BIC is
 // checked against the independent scipy recomputation (−17274.392 and
 // −13183.397); the verdicts and angles are those of `weft fit` of each
-// specimen.
+// specimen, and every specimen agrees with the cohort in direction.
 func TestCohortFibresAreNotFungType(t *testing.T) {
 	t.Parallel()
 	if testing.Short() {
@@ -119,8 +125,42 @@ func TestCohortFibresAreNotFungType(t *testing.T) {
 		if math.Abs(pc.Result.BIC-tc.bic) > 0.05 {
 			t.Errorf("%s: pooled BIC of preset:fung %.4f, recomputed %.3f", tc.name, pc.Result.BIC, tc.bic)
 		}
-		if s := c.Support; s.SameVerdict != 3 {
-			t.Errorf("%s: support %+v, want 3 of 3 with the same verdict", tc.name, s)
+		if s := c.Support; s.SameVerdict != 3 || s.SameDirection != 3 {
+			t.Errorf("%s: support %+v, want 3 of 3 in verdict and direction", tc.name, s)
+		}
+	}
+}
+
+// directionGapDeg compares fibre directions modulo 180° (common practice:
+// a fibre has no sense), families matched by angle, by magnitude without
+// shear information. Expected values by hand.
+func TestDirectionGapDeg(t *testing.T) {
+	fam := func(deg ...float64) *Model {
+		m := &Model{}
+		for _, a := range deg {
+			m.Families = append(m.Families, Family{Angle: Rad(a)})
+		}
+		return m
+	}
+	for _, tc := range []struct {
+		a, b      *Model
+		signKnown bool
+		want      float64
+	}{
+		{fam(15, 70), fam(70, 15), true, 0},        // labels swapped
+		{fam(47, -47), fam(-47, 47), true, 0},      // a mirror pair read the other way round
+		{fam(47, -47), fam(133, 47), true, 0},      // θ ± β as θ + 90° ∓ (90° − β), θ = 0°, β = 47°
+		{fam(30), fam(-30), true, 60},              // signs known: ±30° differ
+		{fam(30), fam(-30), false, 0},              // without shear information only |α| counts
+		{fam(30), fam(30, -30), false, 0},          // one family against a pair at ±α
+		{fam(0, 33.4), fam(24.8, 90), false, 56.6}, // matched 0°–24.8°, 33.4°–90°
+		{fam(89), fam(-89), true, 2},               // across ±90°
+		{fam(), fam(), true, 0},                    // no fibres either
+		{fam(), fam(30), true, math.Inf(1)},        // fibres against none
+		{fam(10, 70), fam(12, 100), true, 30},      // 70° against 100°
+	} {
+		if got := directionGapDeg(tc.a, tc.b, tc.signKnown); math.Abs(got-tc.want) > 1e-9 && !(math.IsInf(got, 1) && math.IsInf(tc.want, 1)) {
+			t.Errorf("directionGapDeg(%v, %v, %t) = %g, want %g", tc.a.Families, tc.b.Families, tc.signKnown, got, tc.want)
 		}
 	}
 }

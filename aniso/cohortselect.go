@@ -688,14 +688,18 @@ func (c *cohortRun) evidence() evidence {
 // of the pooled candidates, cross-validated where its walk needs them, see
 // scoreAlongWalk, and of the presets compareGreenPresets pooled, so that
 // its own verdict weighs them as the pooled one does) and counts the
-// specimens that reach the cohort's verdict and form (step 4).
+// specimens that reach the cohort's verdict and form, and those whose own
+// chosen model puts its fibres where the cohort's does (directionGapDeg;
+// step 4).
 func (c *cohortRun) support(presets []*cohortCandidate) {
 	d := c.out.Discovery
 	want := FormKey(d.Best().Result.Structure)
 	set := c.screenSettings()
+	own := make([]*Result, len(c.ps))
 	var jobs []func()
 	for _, i := range c.usable() {
 		jobs = append(jobs, func() {
+			own := &own[i]
 			od := &Discovery{hasCV: d.hasCV && len(c.sub[i].Protocols) > 1}
 			var cds []*cohortCandidate
 			for k, pc := range d.Pareto {
@@ -723,21 +727,29 @@ func (c *cohortRun) support(presets []*cohortCandidate) {
 			od.decide(c.sub[i], c.set.Discover.NoPlanar)
 			sp := &c.out.Specimens[i]
 			sp.Verdict, sp.Form = od.Verdict.Families, FormKey(od.Best().Result.Structure)
+			*own = od.Best().Result
 		})
 	}
 	c.pl.run(jobs)
 	s := &c.out.Support
+	ref := d.Best().Result
 	for _, i := range c.usable() {
-		sp := c.out.Specimens[i]
+		sp := &c.out.Specimens[i]
 		s.Specimens++
-		if sp.Verdict == d.Verdict.Families {
-			s.SameVerdict++
-			if sp.Form == want {
-				s.SameForm++
-			}
+		if sp.Verdict != d.Verdict.Families {
+			continue
+		}
+		s.SameVerdict++
+		if sp.Form == want {
+			s.SameForm++
+		}
+		sp.DirectionGap = directionGapDeg(own[i].Model, ref.Model, ref.SignKnown && own[i].SignKnown)
+		if sp.DirectionGap <= directionToleranceDeg {
+			s.SameDirection++
 		}
 	}
-	d.Verdict.Reason += fmt.Sprintf("; on its own evidence, %d of %d specimens reach the same verdict (%d of them with the same form, %s)", s.SameVerdict, s.Specimens, s.SameForm, want)
+	d.Verdict.Reason += fmt.Sprintf("; on its own evidence, %d of %d specimens reach the same verdict (%d of them with the same form, %s; %d of them with their own model's fibre directions within %d° of the cohort's, %s)",
+		s.SameVerdict, s.Specimens, s.SameForm, want, s.SameDirection, directionToleranceDeg, directionWords(ref))
 }
 
 // searchNotes say how the cohort's candidates were found and scored.

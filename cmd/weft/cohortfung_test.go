@@ -17,7 +17,9 @@ import (
 // undecided with the Fung-type preset as the in-sample best, the preset's
 // pooled numbers are listed (pooled BIC −19076.085 and held-out error
 // 0.0190 by an independent scipy recomputation, see
-// aniso.TestCohortFungTypeSolidsUndecided).
+// aniso.TestCohortFungTypeSolidsUndecided), and the support says that only
+// one of the three specimens puts its fibres where the cohort's model
+// does.
 func TestCohortFungTypeReported(t *testing.T) {
 	t.Parallel()
 	if testing.Short() {
@@ -49,7 +51,20 @@ func TestCohortFungTypeReported(t *testing.T) {
 	if !found {
 		t.Errorf("the in-sample best %s is not among the compared presets %+v", v.InSampleBest, v.Presets)
 	}
-	for _, want := range []string{"families: undecided", "compared: " + v.InSampleBest} {
+	su := v.Support
+	if su.Specimens != 3 || su.SameDirection >= su.SameVerdict || su.ToleranceDeg != 10 {
+		t.Errorf("support %+v: want fewer specimens agreeing in direction than in the verdict word, tolerance 10°", su)
+	}
+	gaps := 0
+	for _, r := range s.Specimens {
+		if g := float64(r.DirectionGap); !math.IsNaN(g) && g > 10 {
+			gaps++
+		}
+	}
+	if gaps != su.SameVerdict-su.SameDirection {
+		t.Errorf("%d specimens with own_direction_gap_deg above 10°, want %d", gaps, su.SameVerdict-su.SameDirection)
+	}
+	for _, want := range []string{"families: undecided", "support:  ", "compared: " + v.InSampleBest} {
 		if !strings.Contains(stdout, want) {
 			t.Errorf("summary lacks %q:\n%s", want, stdout)
 		}
@@ -58,7 +73,7 @@ func TestCohortFungTypeReported(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(string(html), v.InSampleBest+" (compared, not a candidate)") {
-		t.Errorf("report.html lacks the compared preset")
+	if !strings.Contains(string(html), v.InSampleBest+" (compared, not a candidate)") || !strings.Contains(string(html), "° from the cohort&#39;s") {
+		t.Errorf("report.html lacks the compared preset or a specimen's direction gap")
 	}
 }

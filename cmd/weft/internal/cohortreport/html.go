@@ -9,6 +9,7 @@ import (
 	"path"
 	"strings"
 
+	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
@@ -170,6 +171,17 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 		own := r.Verdict
 		if r.Form != "" {
 			own += " (" + r.Form + ")"
+		}
+		if g := float64(r.DirectionGap); g > 0 && !math.IsNaN(g) {
+			// Same verdict word; say whether its fibres lie where the
+			// cohort's do.
+			if g <= aniso.DirectionToleranceDeg {
+				own += fmt.Sprintf(", fibres within %.1f° of the cohort's", g)
+			} else if !math.IsInf(g, 0) {
+				own += fmt.Sprintf(", fibres %.1f° from the cohort's", g)
+			} else {
+				own += ", fibre families where the cohort's model has none, or none where it has"
+			}
 		}
 		v.Specimens.Rows = append(v.Specimens.Rows, htmlRow{Cells: append(cells, cell(r.LowestR2, 4), cell(r.HeldOut, 3), own)})
 	}

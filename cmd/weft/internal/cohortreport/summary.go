@@ -34,6 +34,9 @@ type Specimen struct {
 	// Verdict and Form are what its own evidence says (see
 	// aniso.CohortSpecimen); empty when the form was given.
 	Verdict, Form string
+	// DirectionGap is aniso.CohortSpecimen.DirectionGap (degrees; NaN when
+	// not compared).
+	DirectionGap float64
 	// Err says why it failed; empty when it did not.
 	Err string
 	// Warnings are what reading its test file warned about (a repeated
@@ -121,6 +124,12 @@ type SupportInfo struct {
 	Specimens   int `json:"specimens"`
 	SameVerdict int `json:"same_verdict"`
 	SameForm    int `json:"same_form"`
+	// SameDirection counts the specimens of SameVerdict whose own chosen
+	// model's fibre directions lie within ToleranceDeg (degrees) of the
+	// cohort's chosen model's (families matched by angle, |α| without
+	// shear information).
+	SameDirection int     `json:"same_verdict_and_direction"`
+	ToleranceDeg  float64 `json:"direction_tolerance_deg"`
 }
 
 // CandidateRow is one pooled candidate form: summed BIC over specimens,
@@ -164,6 +173,11 @@ type SpecimenRow struct {
 	HeldOut  card.Num `json:"heldout_error"`
 	Verdict  string   `json:"own_verdict,omitempty"`
 	Form     string   `json:"own_form,omitempty"`
+	// DirectionGap is, when the specimen's own verdict is the cohort's,
+	// the largest distance (degrees) between its own chosen model's fibre
+	// directions and the cohort's (0 when neither has fibres); null when
+	// not compared or when only one of the two models has fibres.
+	DirectionGap card.Num `json:"own_direction_gap_deg"`
 	// FamiliesRelabelled is true when the specimen's two fibre families
 	// match the population fit's in the other order (aniso.FamiliesSwapped):
 	// its Parameters are then under the population's labels, its own card's
@@ -300,8 +314,9 @@ func verdictInfo(c *aniso.Cohort) *VerdictInfo {
 	if d == nil {
 		return nil
 	}
+	su := c.Support
 	v := &VerdictInfo{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Rule: d.Rule, Decider: d.Verdict.Decider, InSampleBest: d.Verdict.InSampleBest,
-		Support: SupportInfo(c.Support),
+		Support: SupportInfo{Specimens: su.Specimens, SameVerdict: su.SameVerdict, SameForm: su.SameForm, SameDirection: su.SameDirection, ToleranceDeg: aniso.DirectionToleranceDeg},
 		Search:  d.Search, Candidates: []CandidateRow{}, Presets: []CandidateRow{}}
 	for i, pc := range d.Pareto {
 		v.Candidates = append(v.Candidates, candidateRow(pc, i == d.Chosen))
@@ -380,7 +395,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 	values := make([][]float64, len(s.Parameters))
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
-			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form,
+			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form, DirectionGap: card.Num(sp.DirectionGap),
 			Warnings: append([]string(nil), sp.Warnings...)}
 		byName := map[string]aniso.Estimate{}
 		if sp.Result == nil {

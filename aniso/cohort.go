@@ -82,6 +82,11 @@ type CohortSpecimen struct {
 	// specimen's own evidence on the cohort's candidate forms (the family
 	// verdict and the form key); empty when the form was given.
 	Verdict, Form string
+	// DirectionGap is, when Verdict is the cohort's, the largest distance
+	// (degrees, modulo 180°) between a fibre direction of the specimen's
+	// own chosen model and the matched one of the cohort's chosen model
+	// (0 when neither has fibres, +Inf when one has); NaN otherwise.
+	DirectionGap float64
 	// Err says why the specimen could not be used.
 	Err error
 }
@@ -89,10 +94,16 @@ type CohortSpecimen struct {
 // CohortSupport counts the specimens that support the cohort's verdict.
 type CohortSupport struct {
 	// Specimens is the number of specimens with evidence of their own;
-	// SameVerdict how many reach the cohort's family verdict on it, and
-	// SameForm how many the cohort's form as well.
-	Specimens, SameVerdict, SameForm int
+	// SameVerdict how many reach the cohort's family verdict on it,
+	// SameForm how many the cohort's form as well, and SameDirection how
+	// many of SameVerdict put their own chosen model's fibres within
+	// DirectionToleranceDeg of the cohort's (CohortSpecimen.DirectionGap).
+	Specimens, SameVerdict, SameForm, SameDirection int
 }
+
+// DirectionToleranceDeg is how far (degrees) a specimen's own fibre
+// direction may lie from the cohort's for CohortSupport.SameDirection.
+const DirectionToleranceDeg = directionToleranceDeg
 
 // Cohort is the outcome of FitCohort.
 type Cohort struct {
@@ -143,6 +154,9 @@ type cohortRun struct {
 	// verdict).
 	screened int
 	skipped  []string
+	// scoutPresets[i][name] is scout i's fit of the classical preset
+	// name, made beside its search (fitFullForms).
+	scoutPresets map[int]map[string]*Result
 }
 
 // usable lists the specimens not failed so far.
@@ -169,6 +183,9 @@ func FitCohort(ps []*Problem, set CohortSettings) (*Cohort, error) {
 	set = set.withDefaults()
 	c := &cohortRun{ps: ps, set: set, pl: &pool{n: set.Workers, progress: set.Progress},
 		out: &Cohort{Specimens: make([]CohortSpecimen, len(ps))}}
+	for i := range c.out.Specimens {
+		c.out.Specimens[i].DirectionGap = math.NaN()
+	}
 	c.prepare()
 	if len(c.usable()) == 0 {
 		return c.out, ErrNoSpecimen

@@ -63,8 +63,9 @@ func (c *cohortRun) discoverForm() (Structure, error) {
 	}
 	c.crossValidate()
 	d.decideOn(c.evidence())
+	presets := c.compareGreenPresets()
 	c.noteMixedShear(&d.Verdict)
-	c.support()
+	c.support(presets)
 	ci := c.paretoCand[d.Chosen]
 	c.init = c.cands[ci].init
 	d.Search = append(d.Search, c.searchNotes()...)
@@ -117,6 +118,19 @@ func (c *cohortRun) scout() {
 		}
 		s.pl = c.pl
 		s.searchForms()
+		// The presets are fitted beside the search (fitFullForms); the
+		// Fung-type comparison reuses them (compareGreenPresets).
+		for k, name := range s.set.Presets {
+			if r := s.presets[k]; r != nil {
+				if c.scoutPresets == nil {
+					c.scoutPresets = map[int]map[string]*Result{}
+				}
+				if c.scoutPresets[i] == nil {
+					c.scoutPresets[i] = map[string]*Result{}
+				}
+				c.scoutPresets[i][name] = r
+			}
+		}
 		if s.paretoFront() != nil {
 			continue
 		}
@@ -672,50 +686,70 @@ func (c *cohortRun) evidence() evidence {
 
 // support runs the verdict walk on each specimen's own evidence (its fits
 // of the pooled candidates, cross-validated where its walk needs them, see
-// scoreAlongWalk) and counts the specimens that reach the cohort's verdict
-// and form (step 4).
-func (c *cohortRun) support() {
+// scoreAlongWalk, and of the presets compareGreenPresets pooled, so that
+// its own verdict weighs them as the pooled one does) and counts the
+// specimens that reach the cohort's verdict and form, and those whose own
+// chosen model puts its fibres where the cohort's does (directionGapDeg;
+// step 4).
+func (c *cohortRun) support(presets []*cohortCandidate) {
 	d := c.out.Discovery
 	want := FormKey(d.Best().Result.Structure)
 	set := c.screenSettings()
+	own := make([]*Result, len(c.ps))
 	var jobs []func()
 	for _, i := range c.usable() {
 		jobs = append(jobs, func() {
-			own := &Discovery{hasCV: d.hasCV && len(c.sub[i].Protocols) > 1}
+			own := &own[i]
+			od := &Discovery{hasCV: d.hasCV && len(c.sub[i].Protocols) > 1}
 			var cds []*cohortCandidate
 			for k, pc := range d.Pareto {
 				cd := c.cands[c.paretoCand[k]]
 				cds = append(cds, cd)
-				own.Pareto = append(own.Pareto, Candidate{Name: pc.Name, Layout: pc.Layout, Terms: pc.Terms, Result: cd.fits[i]})
+				od.Pareto = append(od.Pareto, Candidate{Name: pc.Name, Layout: pc.Layout, Terms: pc.Terms, Result: cd.fits[i]})
 			}
-			if own.hasCV {
-				scoreAlongWalk(own, problemEvidence(c.sub[i]), func(ks []int) {
+			for _, cd := range presets {
+				pc := Candidate{Name: cd.key, Layout: cd.st.Layout, Terms: len(cd.st.Terms), Result: cd.fits[i]}
+				if od.hasCV {
+					pc.CV = cd.cv[i]
+				}
+				od.Presets = append(od.Presets, pc)
+			}
+			if od.hasCV {
+				scoreAlongWalk(od, problemEvidence(c.sub[i]), func(ks []int) {
 					for _, k := range ks {
 						if cds[k].cv[i] == nil {
 							cds[k].cv[i] = scoreFolds(c.sub[i], cds[k].fits[i], set)
 						}
-						own.Pareto[k].CV = cds[k].cv[i]
+						od.Pareto[k].CV = cds[k].cv[i]
 					}
 				})
 			}
-			own.decide(c.sub[i], c.set.Discover.NoPlanar)
+			od.decide(c.sub[i], c.set.Discover.NoPlanar)
 			sp := &c.out.Specimens[i]
-			sp.Verdict, sp.Form = own.Verdict.Families, FormKey(own.Best().Result.Structure)
+			sp.Verdict, sp.Form = od.Verdict.Families, FormKey(od.Best().Result.Structure)
+			*own = od.Best().Result
 		})
 	}
 	c.pl.run(jobs)
 	s := &c.out.Support
+	ref := d.Best().Result
 	for _, i := range c.usable() {
-		sp := c.out.Specimens[i]
+		sp := &c.out.Specimens[i]
 		s.Specimens++
-		if sp.Verdict == d.Verdict.Families {
-			s.SameVerdict++
-			if sp.Form == want {
-				s.SameForm++
-			}
+		if sp.Verdict != d.Verdict.Families {
+			continue
+		}
+		s.SameVerdict++
+		if sp.Form == want {
+			s.SameForm++
+		}
+		sp.DirectionGap = directionGapDeg(own[i].Model, ref.Model, ref.SignKnown && own[i].SignKnown)
+		if sp.DirectionGap <= directionToleranceDeg {
+			s.SameDirection++
 		}
 	}
-	d.Verdict.Reason += fmt.Sprintf("; on its own evidence, %d of %d specimens reach the same verdict (%d of them with the same form, %s)", s.SameVerdict, s.Specimens, s.SameForm, want)
+	d.Verdict.Reason += fmt.Sprintf("; on its own evidence, %d of %d specimens reach the same verdict (%d of them with the same form, %s; %d of them with their own model's fibre directions within %d° of the cohort's, %s)",
+		s.SameVerdict, s.Specimens, s.SameForm, want, s.SameDirection, directionToleranceDeg, directionWords(ref))
 }
 
 // searchNotes say how the cohort's candidates were found and scored.

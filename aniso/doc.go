@@ -166,7 +166,9 @@
 // side on workers of pool.go, the package's one pool type (scans and profiles
 // size their own). Forms, layouts and presets are named in layout.go and
 // formlabels.go. Cohorts (cohort.go, cohortselect.go, cohortpool.go) run
-// the search stages on scout specimens. AxisScaleCheck (scalecheck.go)
+// the search stages on scout specimens; cohortfung.go compares a cohort's
+// verdict with the Fung-type presets and its specimens' directions with
+// its own. AxisScaleCheck (scalecheck.go)
 // rediscovers a specimen with one axis's stress scaled, to show whether
 // the verdict depends on the calibration of the test's axes. Test planning: design.go
 // (PlanTests), design_candidates.go (candidate tests and their

@@ -438,10 +438,10 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 				warnings = append(warnings, w.String())
 			}
 		}
-		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings}
+		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings, DirectionGap: math.NaN()}
 		if m.at >= 0 {
 			cs := c.Specimens[m.at]
-			sp.Verdict, sp.Form = cs.Verdict, cs.Form
+			sp.Verdict, sp.Form, sp.DirectionGap = cs.Verdict, cs.Form, cs.DirectionGap
 			if cs.Err == nil && m.err == nil {
 				sp.Result, sp.CV, sp.Folder = cs.Result, cs.CV, m.folder
 				cards[m.folder] = card.FromFit(m.prob, cs.Result, nil)

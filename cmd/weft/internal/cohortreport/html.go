@@ -9,6 +9,7 @@ import (
 	"path"
 	"strings"
 
+	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
@@ -139,6 +140,15 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 			}
 			v.Candidates.Rows = append(v.Candidates.Rows, htmlRow{Cells: []string{c.Name, strings.Join(c.Terms, " + "), fmt.Sprint(c.Parameters), cell(c.BIC, 7), cv}, Mark: c.Chosen})
 		}
+		// The Fung-type presets the verdict was compared with, below the
+		// candidates (they are not candidates of the shared form).
+		for _, c := range vd.Presets {
+			cv := "not cross-validated"
+			if !math.IsNaN(float64(c.HeldoutError)) {
+				cv = cell(c.HeldoutError, 3) + " ± " + cell(c.HeldoutStdErr, 2)
+			}
+			v.Candidates.Rows = append(v.Candidates.Rows, htmlRow{Cells: []string{c.Name + " (compared, not a candidate)", strings.Join(c.Terms, " + "), fmt.Sprint(c.Parameters), cell(c.BIC, 7), cv}})
+		}
 	}
 	v.Specimens.Head = []string{"file", "specimen", "group", "status"}
 	for _, p := range s.Parameters {
@@ -161,6 +171,17 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 		own := r.Verdict
 		if r.Form != "" {
 			own += " (" + r.Form + ")"
+		}
+		if g := float64(r.DirectionGap); g > 0 && !math.IsNaN(g) {
+			// Same verdict word; say whether its fibres lie where the
+			// cohort's do.
+			if g <= aniso.DirectionToleranceDeg {
+				own += fmt.Sprintf(", fibres within %.1f° of the cohort's", g)
+			} else if !math.IsInf(g, 0) {
+				own += fmt.Sprintf(", fibres %.1f° from the cohort's", g)
+			} else {
+				own += ", fibre families where the cohort's model has none, or none where it has"
+			}
 		}
 		v.Specimens.Rows = append(v.Specimens.Rows, htmlRow{Cells: append(cells, cell(r.LowestR2, 4), cell(r.HeldOut, 3), own)})
 	}

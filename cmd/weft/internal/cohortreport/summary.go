@@ -34,6 +34,9 @@ type Specimen struct {
 	// Verdict and Form are what its own evidence says (see
 	// aniso.CohortSpecimen); empty when the form was given.
 	Verdict, Form string
+	// DirectionGap is aniso.CohortSpecimen.DirectionGap (degrees; NaN when
+	// not compared).
+	DirectionGap float64
 	// Err says why it failed; empty when it did not.
 	Err string
 	// Warnings are what reading its test file warned about (a repeated
@@ -100,10 +103,20 @@ type VerdictInfo struct {
 	Reason   string `json:"reason"`
 	Rule     string `json:"rule"`
 	Decider  string `json:"decider,omitempty"`
+	// InSampleBest names the model that fits better in sample than the
+	// verdict's answer when that leaves the verdict undecided (a
+	// Fung-type preset, "preset:NAME", under the rule of fibreless
+	// orthotropy); empty otherwise.
+	InSampleBest string `json:"in_sample_best,omitempty"`
 	// Support counts the specimens reaching the verdict on their own.
 	Support    SupportInfo    `json:"support"`
 	Search     []string       `json:"search"`
 	Candidates []CandidateRow `json:"candidates"`
+	// Presets are the classical presets without a fibre family and with a
+	// Green-strain term, pooled over specimens as the candidates are, that
+	// the verdict was compared with; empty when the pooled verdict has no
+	// fibre families (nothing is fitted then).
+	Presets []CandidateRow `json:"presets"`
 }
 
 // SupportInfo is aniso.CohortSupport.
@@ -111,6 +124,12 @@ type SupportInfo struct {
 	Specimens   int `json:"specimens"`
 	SameVerdict int `json:"same_verdict"`
 	SameForm    int `json:"same_form"`
+	// SameDirection counts the specimens of SameVerdict whose own chosen
+	// model's fibre directions lie within ToleranceDeg (degrees) of the
+	// cohort's chosen model's (families matched by angle, |α| without
+	// shear information).
+	SameDirection int     `json:"same_verdict_and_direction"`
+	ToleranceDeg  float64 `json:"direction_tolerance_deg"`
 }
 
 // CandidateRow is one pooled candidate form: summed BIC over specimens,
@@ -154,6 +173,11 @@ type SpecimenRow struct {
 	HeldOut  card.Num `json:"heldout_error"`
 	Verdict  string   `json:"own_verdict,omitempty"`
 	Form     string   `json:"own_form,omitempty"`
+	// DirectionGap is, when the specimen's own verdict is the cohort's,
+	// the largest distance (degrees) between its own chosen model's fibre
+	// directions and the cohort's (0 when neither has fibres); null when
+	// not compared or when only one of the two models has fibres.
+	DirectionGap card.Num `json:"own_direction_gap_deg"`
 	// FamiliesRelabelled is true when the specimen's two fibre families
 	// match the population fit's in the other order (aniso.FamiliesSwapped):
 	// its Parameters are then under the population's labels, its own card's
@@ -290,21 +314,31 @@ func verdictInfo(c *aniso.Cohort) *VerdictInfo {
 	if d == nil {
 		return nil
 	}
-	v := &VerdictInfo{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Rule: d.Rule, Decider: d.Verdict.Decider,
-		Support: SupportInfo(c.Support), Search: d.Search, Candidates: []CandidateRow{}}
+	su := c.Support
+	v := &VerdictInfo{Families: d.Verdict.Families, Reason: d.Verdict.Reason, Rule: d.Rule, Decider: d.Verdict.Decider, InSampleBest: d.Verdict.InSampleBest,
+		Support: SupportInfo{Specimens: su.Specimens, SameVerdict: su.SameVerdict, SameForm: su.SameForm, SameDirection: su.SameDirection, ToleranceDeg: aniso.DirectionToleranceDeg},
+		Search:  d.Search, Candidates: []CandidateRow{}, Presets: []CandidateRow{}}
 	for i, pc := range d.Pareto {
-		r := pc.Result
-		row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), HeldoutError: card.Num(math.NaN()),
-			HeldoutStdErr: card.Num(math.NaN()), Chosen: i == d.Chosen, Terms: []string{}}
-		for _, t := range r.Structure.Terms {
-			row.Terms = append(row.Terms, t.Label(r.Structure.Layout))
-		}
-		if pc.CV != nil {
-			row.HeldoutError, row.HeldoutStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
-		}
-		v.Candidates = append(v.Candidates, row)
+		v.Candidates = append(v.Candidates, candidateRow(pc, i == d.Chosen))
+	}
+	for _, pc := range d.Presets {
+		v.Presets = append(v.Presets, candidateRow(pc, false))
 	}
 	return v
+}
+
+// candidateRow is one pooled candidate or preset.
+func candidateRow(pc aniso.Candidate, chosen bool) CandidateRow {
+	r := pc.Result
+	row := CandidateRow{Name: pc.Name, Parameters: r.Complexity, BIC: card.Num(r.BIC), HeldoutError: card.Num(math.NaN()),
+		HeldoutStdErr: card.Num(math.NaN()), Chosen: chosen, Terms: []string{}}
+	for _, t := range r.Structure.Terms {
+		row.Terms = append(row.Terms, t.Label(r.Structure.Layout))
+	}
+	if pc.CV != nil {
+		row.HeldoutError, row.HeldoutStdErr = card.Num(pc.CV.Mean), card.Num(pc.CV.StdErr)
+	}
+	return row
 }
 
 // isPeriodicAngle reports whether an estimate is a fibre angle defined
@@ -361,7 +395,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 	values := make([][]float64, len(s.Parameters))
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
-			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form,
+			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form, DirectionGap: card.Num(sp.DirectionGap),
 			Warnings: append([]string(nil), sp.Warnings...)}
 		byName := map[string]aniso.Estimate{}
 		if sp.Result == nil {

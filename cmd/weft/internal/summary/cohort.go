@@ -24,6 +24,12 @@ func PrintCohort(w io.Writer, s *cohortreport.Summary, dir string, elapsed time.
 	if v := s.Verdict; v != nil {
 		fmt.Fprintf(w, "families: %s — %s\n", v.Families, verdictReason(v.Families, v.Reason))
 		fmt.Fprintf(w, "rule:     %s\n", v.Rule)
+		su := v.Support
+		fmt.Fprintf(w, "support:  %d of %d specimens reach the same verdict on their own evidence, %d of them with their fibre directions within %g° of the cohort's\n",
+			su.SameVerdict, su.Specimens, su.SameDirection, su.ToleranceDeg)
+		for _, p := range v.Presets {
+			fmt.Fprintf(w, "compared: %s, pooled BIC %s, held-out error %s ± %s\n", p.Name, num(float64(p.BIC), "%.7g"), num(float64(p.HeldoutError), "%.3g"), num(float64(p.HeldoutStdErr), "%.2g"))
+		}
 	}
 	fmt.Fprintln(w)
 	printCohortStats(w, s)

@@ -2,6 +2,7 @@ package card
 
 import (
 	"errors"
+	"math"
 
 	"github.com/weft-tools/weft/aniso"
 )
@@ -37,3 +38,47 @@ func (c *Card) CandidateModelOf(cc *CandidateCard) (*aniso.Model, error) {
 	tmp := Card{Format: Format, StressUnit: c.StressUnit, Families: cc.Model.Families, Terms: cc.Model.Terms}
 	return tmp.Model()
 }
+
+// NearEquivalents returns the selection's other candidates — discovered
+// forms and classical presets — that predicted the held-out protocols as
+// well as the chosen one: their mean held-out error is not above the
+// chosen candidate's by more than its standard error (the yardstick of
+// the one-standard-error rule, Hastie, Tibshirani & Friedman 2009, §7.10),
+// and each carries its model. The tested protocols do not tell these
+// models from the chosen one, so where their predictions part, a protocol
+// that was not tested is not settled by the data. nil when the card has no
+// selection or its chosen candidate was not cross-validated.
+func (c *Card) NearEquivalents() []*CandidateCard {
+	sel := c.Selection
+	if sel == nil {
+		return nil
+	}
+	var chosen *CandidateCard
+	for i := range sel.Pareto {
+		if sel.Pareto[i].Chosen {
+			chosen = &sel.Pareto[i]
+		}
+	}
+	if chosen == nil || !finite(float64(chosen.HeldoutError)) {
+		return nil
+	}
+	limit := float64(chosen.HeldoutError)
+	if se := float64(chosen.HeldoutStdErr); finite(se) {
+		limit += se
+	}
+	var out []*CandidateCard
+	for _, group := range [][]CandidateCard{sel.Pareto, sel.Presets} {
+		for i := range group {
+			cc := &group[i]
+			if cc == chosen || cc.Model == nil || !finite(float64(cc.HeldoutError)) || float64(cc.HeldoutError) > limit {
+				continue
+			}
+			out = append(out, cc)
+		}
+	}
+	return out
+}
+
+// finite reports whether v is a number other than ±Inf (a Num that was
+// null in the card reads as NaN).
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

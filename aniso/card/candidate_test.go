@@ -58,3 +58,47 @@ func TestCandidateModelRoundTrip(t *testing.T) {
 		t.Error("a candidate without a model must say so")
 	}
 }
+
+// NearEquivalents keeps the candidates, discovered or preset, whose mean
+// held-out error is within one standard error of the chosen candidate's
+// (the one-standard-error yardstick, Hastie, Tibshirani & Friedman 2009,
+// §7.10), and only those that carry a model.
+func TestNearEquivalentsWithinOneStandardError(t *testing.T) {
+	m := &CandidateModel{}
+	nan := Num(math.NaN())
+	c := &Card{Selection: &SelectionSection{
+		Pareto: []CandidateCard{
+			{Name: "chosen", Chosen: true, HeldoutError: 0.0100, HeldoutStdErr: 0.0010, Model: m},
+			{Name: "inside", HeldoutError: 0.0109, Model: m},
+			{Name: "on-the-limit", HeldoutError: 0.0110, Model: m},
+			{Name: "outside", HeldoutError: 0.0111, Model: m},
+			{Name: "better", HeldoutError: 0.0080, Model: m},
+			{Name: "not-cross-validated", HeldoutError: nan},
+			{Name: "no-model", HeldoutError: 0.0101},
+		},
+		Presets: []CandidateCard{
+			{Name: "preset:inside", HeldoutError: 0.0105, Model: m},
+			{Name: "preset:outside", HeldoutError: 0.05, Model: m},
+		},
+	}}
+	var got []string
+	for _, cc := range c.NearEquivalents() {
+		got = append(got, cc.Name)
+	}
+	want := []string{"inside", "on-the-limit", "better", "preset:inside"}
+	if len(got) != len(want) {
+		t.Fatalf("near-equivalents %v, want %v", got, want)
+	}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Fatalf("near-equivalents %v, want %v", got, want)
+		}
+	}
+	c.Selection.Pareto[0].HeldoutError = nan
+	if n := c.NearEquivalents(); n != nil {
+		t.Errorf("a chosen candidate without a held-out error has near-equivalents %v", n)
+	}
+	if n := (&Card{}).NearEquivalents(); n != nil {
+		t.Errorf("a card without a selection has near-equivalents %v", n)
+	}
+}

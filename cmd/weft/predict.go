@@ -53,6 +53,12 @@ force along axis 1 per reference area normal to axis 2. The output starts
 with '#' lines: the card's cautions and how many rows leave its fitted data
 range.
 
+For a card written by discovery, alike_low_<column> and alike_high_<column>
+follow: the lowest and highest stress of the card's model and of every
+other candidate that predicted the held-out protocols as well (held-out
+error within one standard error of the chosen model's). Where they part,
+the tested protocols do not settle the prediction.
+
 ` + helpCautions,
 		Example: `  weft predict model.json path.csv
   weft predict out/model.json testdata/example/stretch-path.csv -o stresses.csv`,
@@ -100,8 +106,12 @@ func runPredict(o *predictOptions) error {
 	if lw != "" {
 		warnings = append(warnings, fmt.Sprintf("the stresses are the card's own model's; %s ('weft export %s' lists every alternative's stresses at its verification rows)", lw, filepath.Base(o.model)))
 	}
+	alike, err := nearEquivalentModels(c)
+	if err != nil {
+		return badInputf("%s: %v", o.model, err)
+	}
 	var buf bytes.Buffer
-	outside, rows, err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, dr, warnings, &buf)
+	outside, rows, err := predictCSV(bytes.NewReader(data), o.kinematics, c, m, dr, warnings, alike, &buf)
 	if err != nil {
 		return err
 	}
@@ -147,7 +157,7 @@ func headerName(h string) string {
 // it leaves open. It returns the number of rows
 // outside dr and of rows. Any bad row is an input error naming its line
 // and column; nothing is written then.
-func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, warnings []string, w io.Writer) (outside, rows int, err error) {
+func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, warnings []string, alike []namedModel, w io.Writer) (outside, rows int, err error) {
 	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -191,7 +201,15 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 	for _, name := range fe.StressColumnNames {
 		h = append(h, fmt.Sprintf("%s [%s]", name, c.StressUnit))
 	}
+	if len(alike) > 0 {
+		for _, side := range []string{"alike_low_", "alike_high_"} {
+			for _, name := range fe.StressColumnNames {
+				h = append(h, fmt.Sprintf("%s%s [%s]", side, name, c.StressUnit))
+			}
+		}
+	}
 	cw.Write(h)
+	var band alikeBand
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
@@ -232,8 +250,15 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 			outside++
 		}
 		row := append([]string(nil), rec...)
-		for _, x := range []float64{resp.Cauchy[0], resp.Cauchy[1], resp.Cauchy[2], resp.Nominal[0], resp.Nominal[1], resp.Nominal[2], resp.Nominal[3]} {
+		own := stressValues(resp)
+		for _, x := range own {
 			row = append(row, strconv.FormatFloat(x, 'g', -1, 64))
+		}
+		if len(alike) > 0 {
+			lo, hi := band.add(own, F, alike, line)
+			for _, x := range append(lo[:], hi[:]...) {
+				row = append(row, strconv.FormatFloat(x, 'g', -1, 64))
+			}
 		}
 		cw.Write(row)
 	}
@@ -255,6 +280,11 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 	}
 	for _, wn := range warnings {
 		fmt.Fprintf(&b, "# WARNING: %s\n", wn)
+	}
+	if len(alike) > 0 {
+		for _, n := range band.notes(alike, c.StressUnit) {
+			fmt.Fprintf(&b, "# NOTE: %s\n", n)
+		}
 	}
 	b.Write(out.Bytes())
 	_, err = w.Write(b.Bytes())

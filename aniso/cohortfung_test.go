@@ -52,13 +52,15 @@ func pooledPreset(d *Discovery, name string) *Candidate {
 // standard error over them): BIC −19076.085, held-out error 0.0190183 ±
 // 0.0030467. And the three specimens reach the verdict word on their own
 // but only one puts its fibres where the cohort's model does (the others
-// at 19° and 21° from it), which the direction count tells.
+// at 19° and 21° from it), which the direction count tells. One scout
+// keeps the test cheap and makes the comparison fit the preset itself on
+// the two specimens that are not scouts (the scouts' fits are reused).
 func TestCohortFungTypeSolidsUndecided(t *testing.T) {
 	t.Parallel()
 	if testing.Short() {
 		t.Skip("a cohort discovery")
 	}
-	c, err := FitCohort(readCohort(t, "fungco"), CohortSettings{})
+	c, err := FitCohort(readCohort(t, "fungco"), CohortSettings{Scouts: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -105,11 +107,15 @@ func TestCohortFibresAreNotFungType(t *testing.T) {
 	if testing.Short() {
 		t.Skip("two cohort discoveries")
 	}
+	// One scout is enough for fib1; the fib2 specimens reach the cohort's
+	// verdict on their own only with the default scouts, whose discoveries
+	// give each its own candidate forms.
 	for _, tc := range []struct {
 		name, verdict string
 		bic           float64
-	}{{"fib1", "1-or-mirror-pair", -17274.392}, {"fib2", "2", -13183.397}} {
-		c, err := FitCohort(readCohort(t, tc.name), CohortSettings{})
+		scouts        int
+	}{{"fib1", "1-or-mirror-pair", -17274.392, 1}, {"fib2", "2", -13183.397, 0}} {
+		c, err := FitCohort(readCohort(t, tc.name), CohortSettings{Scouts: tc.scouts})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -162,33 +168,5 @@ func TestDirectionGapDeg(t *testing.T) {
 		if got := directionGapDeg(tc.a, tc.b, tc.signKnown); math.Abs(got-tc.want) > 1e-9 && !(math.IsInf(got, 1) && math.IsInf(tc.want, 1)) {
 			t.Errorf("directionGapDeg(%v, %v, %t) = %g, want %g", tc.a.Families, tc.b.Families, tc.signKnown, got, tc.want)
 		}
-	}
-}
-
-// The specimens that are not scouts have the Fung-type preset fitted by
-// the comparison itself (the scouts' fits are reused): with one scout, two
-// of the three Fung-type specimens above are fitted so, and the pooled
-// preset still matches the independent scipy recomputation (BIC
-// −19076.085, held-out error 0.0190183).
-func TestCohortFungTypeFitsTheOtherSpecimens(t *testing.T) {
-	t.Parallel()
-	if testing.Short() {
-		t.Skip("a cohort discovery")
-	}
-	c, err := FitCohort(readCohort(t, "fungco"), CohortSettings{Scouts: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	d := c.Discovery
-	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
-	pc := pooledPreset(d, "preset:fung")
-	if pc == nil || pc.CV == nil {
-		t.Fatalf("verdict %s: no pooled, cross-validated preset:fung", d.Verdict.Families)
-	}
-	if math.Abs(pc.Result.BIC-(-19076.085)) > 0.05 || math.Abs(pc.CV.Mean-0.0190183) > 2e-6 {
-		t.Errorf("pooled preset:fung BIC %.4f, held-out error %.7f; recomputed −19076.085, 0.0190183", pc.Result.BIC, pc.CV.Mean)
-	}
-	if d.Verdict.Families != "undecided" || d.Verdict.InSampleBest != pc.Name {
-		t.Errorf("verdict %s (in-sample best %q), want undecided by %s", d.Verdict.Families, d.Verdict.InSampleBest, pc.Name)
 	}
 }

@@ -2,6 +2,7 @@ package card
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
 	"github.com/weft-tools/weft/aniso"
@@ -82,3 +83,63 @@ func (c *Card) NearEquivalents() []*CandidateCard {
 // finite reports whether v is a number other than ±Inf (a Num that was
 // null in the card reads as NaN).
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// AlikeModel is a near-equivalent candidate's model (NearEquivalents) with
+// its name.
+type AlikeModel struct {
+	Name  string
+	Model *aniso.Model
+}
+
+// AlikeModels builds the models of the card's near-equivalent candidates
+// (NearEquivalents), in their order.
+func (c *Card) AlikeModels() ([]AlikeModel, error) {
+	var out []AlikeModel
+	for _, cc := range c.NearEquivalents() {
+		m, err := c.CandidateModelOf(cc)
+		if err != nil {
+			return nil, fmt.Errorf("selection candidate %s: %v", cc.Name, err)
+		}
+		out = append(out, AlikeModel{cc.Name, m})
+	}
+	return out, nil
+}
+
+// Band is the range of the stresses of a model and of its near-equivalent
+// models at one deformation, each array in the order Cauchy σ11, σ22,
+// σ12, nominal P11, P22, P12, P21 (stress unit).
+type Band struct {
+	// Own is the model's own stress; Low and High the lowest and highest
+	// of it and of every near-equivalent model that could be evaluated.
+	Own, Low, High [7]float64
+	// Missing names the near-equivalent models that could not be
+	// evaluated at this deformation (beyond a limit of their terms).
+	Missing []string
+}
+
+// AlikeBand evaluates m and each near-equivalent model at F. The error is
+// m's own: a near-equivalent model that fails is named in Band.Missing.
+func AlikeBand(m *aniso.Model, alike []AlikeModel, F [4]float64) (Band, error) {
+	r, err := m.Evaluate(F)
+	if err != nil {
+		return Band{}, err
+	}
+	b := Band{Own: stresses(r)}
+	b.Low, b.High = b.Own, b.Own
+	for _, a := range alike {
+		ra, err := a.Model.Evaluate(F)
+		if err != nil {
+			b.Missing = append(b.Missing, a.Name)
+			continue
+		}
+		for j, x := range stresses(ra) {
+			b.Low[j], b.High[j] = math.Min(b.Low[j], x), math.Max(b.High[j], x)
+		}
+	}
+	return b, nil
+}
+
+// stresses lists a response's stresses in Band's order.
+func stresses(r aniso.Response) [7]float64 {
+	return [7]float64{r.Cauchy[0], r.Cauchy[1], r.Cauchy[2], r.Nominal[0], r.Nominal[1], r.Nominal[2], r.Nominal[3]}
+}

@@ -106,7 +106,7 @@ func runPredict(o *predictOptions) error {
 	if lw != "" {
 		warnings = append(warnings, fmt.Sprintf("the stresses are the card's own model's; %s ('weft export %s' lists every alternative's stresses at its verification rows)", lw, filepath.Base(o.model)))
 	}
-	alike, err := nearEquivalentModels(c)
+	alike, err := c.AlikeModels()
 	if err != nil {
 		return badInputf("%s: %v", o.model, err)
 	}
@@ -157,7 +157,7 @@ func headerName(h string) string {
 // it leaves open. It returns the number of rows
 // outside dr and of rows. Any bad row is an input error naming its line
 // and column; nothing is written then.
-func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, warnings []string, alike []namedModel, w io.Writer) (outside, rows int, err error) {
+func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card.DataRange, warnings []string, alike []card.AlikeModel, w io.Writer) (outside, rows int, err error) {
 	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -241,7 +241,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 		if det := F[0]*F[3] - F[1]*F[2]; det <= 0 {
 			return 0, 0, badInputf("%s:%d: det F = F11·F22 − F12·F21 = %g ≤ 0, which would invert the material; check the column order and signs", file, line, det)
 		}
-		resp, err := m.Evaluate(F)
+		bd, err := card.AlikeBand(m, alike, F)
 		if err != nil {
 			return 0, 0, badInputf("%s:%d: %v", file, line, err)
 		}
@@ -250,15 +250,13 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 			outside++
 		}
 		row := append([]string(nil), rec...)
-		own := stressValues(resp)
-		for _, x := range own {
-			row = append(row, strconv.FormatFloat(x, 'g', -1, 64))
-		}
+		cols := bd.Own[:]
 		if len(alike) > 0 {
-			lo, hi := band.add(own, F, alike, line)
-			for _, x := range append(lo[:], hi[:]...) {
-				row = append(row, strconv.FormatFloat(x, 'g', -1, 64))
-			}
+			band.add(bd, line)
+			cols = append(append(cols, bd.Low[:]...), bd.High[:]...)
+		}
+		for _, x := range cols {
+			row = append(row, strconv.FormatFloat(x, 'g', -1, 64))
 		}
 		cw.Write(row)
 	}

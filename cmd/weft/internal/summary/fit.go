@@ -123,6 +123,7 @@ func printFitHead(w io.Writer, f *Fit) {
 			fmt.Fprintf(w, "check:    %s\n", c.Summary)
 		}
 		fmt.Fprintf(w, "rule:     %s\n", d.Rule)
+		printUntested(w, f)
 		if d.SearchPoints < d.Points {
 			fmt.Fprintf(w, "points:   search, cross-validation and the comparison below on %d of the %d points (an even subset of each long protocol); the chosen model refitted on all %d\n", d.SearchPoints, d.Points, d.Points)
 		}

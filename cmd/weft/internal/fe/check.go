@@ -566,7 +566,7 @@ func PrintCheck(w io.Writer, r *CheckReport) {
 	if s.NoStiffnessPoints > 0 {
 		fmt.Fprintf(w, "     %d points WITHOUT STIFFNESS (first at F = %s): the tangent is zero there or has no resolvable positive stiffness\n", s.NoStiffnessPoints, fmtF(*s.FirstNoStiffness))
 	}
-	fmt.Fprintf(w, "     the full 4x4 tangent is not positive definite (indefinite or singular) at %d points (%d of them with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
+	fmt.Fprintf(w, "     the full 4x4 tangent is not positive definite (indefinite or singular) at %d points (%d of them resolved with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
 	if s.Unresolved > 0 {
 		fmt.Fprintf(w, "     %d points not resolved: an eigenvalue lies within %g of the tangent's largest entry of zero (round-off, where exponential terms make the tangent huge); they are neither passed nor failed\n", s.Unresolved, aniso.RelativeResolution)
 	}

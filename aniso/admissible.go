@@ -28,10 +28,13 @@ import (
 //	orthogonal (Frobenius inner product) to the rotation increment ΩF is
 //	positive.
 //
-// It is positive definiteness of the tangent modulo rigid rotation:
-// uniqueness of the homogeneous state under dead-load increments that are
-// not a rigid rotation. The smallest eigenvalue of the full 4×4 tangent is
-// reported beside it.
+// It is positive definiteness of the tangent modulo rigid rotation: no
+// dead-load increment orthogonal to the rotation increment lowers the
+// energy. Where the membrane is compressed, an increment that mixes the
+// rotation with a deformation can still lower it (the full tangent's
+// lowest mode is such a mix, not ΩF alone), so the criterion does not say
+// that every increment other than a rigid rotation raises the energy. The
+// smallest eigenvalue of the full 4×4 tangent is reported beside it.
 //
 // Strong ellipticity (the Legendre–Hadamard condition): for every pair of
 // in-plane unit vectors a, b, (a⊗b):A:(a⊗b) > 0. For each direction b the

@@ -569,3 +569,48 @@ func TestFullIndefiniteTensileIsResolved(t *testing.T) {
 		t.Errorf("F = [[1.6, 0], [0.3, 1.55]]: smallest eigenvalue %g, independent 7.909992 (resolution %g)", p.MinFull, p.Resolution)
 	}
 }
+
+// The criterion modulo rotation does not say that every increment other
+// than a rigid rotation raises the energy (README, material stability):
+// on a neo-Hookean membrane (w = 5 kPa) at F = [[0.7, 0.3], [0, 0.9]] the
+// full tangent's lowest eigenvalue is −29.9925 kPa and its unit
+// eigenvector has a part of norm 0.2162 orthogonal to the rotation
+// increment ΩF, while the criterion passes. Reference values: an
+// independent computation outside weft (numpy, finite differences of the
+// complex-step stress of the membrane energy written from the README).
+func TestLowestModeMixesRotationAndDeformation(t *testing.T) {
+	m := neoHookean(5)
+	F := [4]float64{0.7, 0.3, 0, 0.9}
+	tg, err := m.Tangent(F)
+	if err != nil {
+		t.Fatal(err)
+	}
+	S := mat.NewSymDense(4, nil)
+	for i := 0; i < 4; i++ {
+		for j := i; j < 4; j++ {
+			S.SetSym(i, j, tg.A[i][j])
+		}
+	}
+	var es mat.EigenSym
+	if !es.Factorize(S, true) {
+		t.Fatal("eigendecomposition failed")
+	}
+	var V mat.Dense
+	es.VectorsTo(&V)
+	low := es.Values(nil)[0]
+	v := [4]float64{V.At(0, 0), V.At(1, 0), V.At(2, 0), V.At(3, 0)}
+	r := rotationMode(F)
+	n := math.Sqrt(dot4(r, r))
+	c := dot4(v, r) / n
+	off := math.Sqrt(math.Max(0, 1-c*c))
+	if math.Abs(low+29.9925) > 1e-3 || math.Abs(off-0.2162) > 1e-3 {
+		t.Errorf("lowest eigenvalue %g (independent −29.9925), part orthogonal to ΩF %g (independent 0.2162)", low, off)
+	}
+	p, err := m.StabilityAt(F, 180)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(p.MinModuloRotation > 0) {
+		t.Errorf("criterion modulo rotation %g, want > 0", p.MinModuloRotation)
+	}
+}

@@ -605,16 +605,34 @@ func PrintCheck(w io.Writer, r *CheckReport) {
 		fmt.Fprintln(w, "\nNotice: "+s)
 	}
 	fmt.Fprintln(w)
-	if r.Passed && r.Grid.Evaluated < r.Grid.Points {
-		fmt.Fprintf(w, "Result: every check passed on the %d of %d grid points that could be evaluated.\n", r.Grid.Evaluated, r.Grid.Points)
-	} else if r.Passed {
-		fmt.Fprintln(w, "Result: every check passed.")
+	if r.Passed {
+		fmt.Fprintln(w, passedResult(r))
 	} else {
 		fmt.Fprintln(w, "Result: FAILED")
 		for _, f := range r.Failures {
 			fmt.Fprintln(w, "  - "+f)
 		}
 	}
+}
+
+// passedResult is the result line of a check that passed. Grid points
+// that could not be evaluated and points whose eigenvalue is round-off
+// (Unresolved: neither passed nor failed) are named, so that the line
+// does not claim a pass the scan could not decide; the fit report counts
+// them apart the same way ("passes on 3248 of 3249 points; 1 unresolved").
+func passedResult(r *CheckReport) string {
+	g, u := r.Grid, r.Stability.Unresolved
+	switch {
+	case u > 0:
+		s := fmt.Sprintf("Result: every check passed on %d of %d grid points; %d not resolved (round-off, neither passed nor failed)", g.Evaluated-u, g.Points, u)
+		if g.Evaluated < g.Points {
+			s += fmt.Sprintf(", %d could not be evaluated", g.Points-g.Evaluated)
+		}
+		return s + "."
+	case g.Evaluated < g.Points:
+		return fmt.Sprintf("Result: every check passed on the %d of %d grid points that could be evaluated.", g.Evaluated, g.Points)
+	}
+	return "Result: every check passed."
 }
 
 // worstText describes a criterion's worst point, or why there is none.

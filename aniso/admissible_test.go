@@ -525,3 +525,92 @@ func TestNeoHookeanSingularAtUnitDeterminant(t *testing.T) {
 		}
 	}
 }
+
+// The count of points whose full tangent is not positive definite under
+// tension (where the rotation mode does not explain it) takes resolved
+// eigenvalues only. On the card fitted to the demo membrane M1 (i1-lin
+// with an exponential fibre family) the scan counted four such points
+// near F = [[1.6, ±0.3], [0, 1.6]], with smallest eigenvalues of −46 to
+// 0 kPa inside resolutions of 3e6 to 4e7 kPa (tangent entries up to
+// 4e18 kPa). Every fibre term adds w[f″ ∇x⊗∇x + f′ ∇²I4] with f′, f″ ≥ 0
+// and ∇²I4 positive semidefinite, so by Weyl's inequality (Horn & Johnson,
+// Matrix Analysis, from memory) the card's smallest eigenvalue is at least
+// the neo-Hookean matrix's alone, whose full tangent is positive definite
+// wherever both principal stresses are tensile; an independent computation
+// outside weft in 110-digit arithmetic (mpmath, second differences of the
+// membrane energy written from the README) gives 7.909992 kPa = 2w at all
+// four points.
+func TestFullIndefiniteTensileIsResolved(t *testing.T) {
+	matrix := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3.954996016747644}
+	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 60.60799979275015, Params: []float64{7.872752417683145}}
+	fams := []Family{{Angle: 29.979129122883652 * deg}}
+	card := &Model{Families: fams, Terms: []Term{matrix, fib}}
+	alone := &Model{Families: fams, Terms: []Term{matrix}}
+	g := DefaultStabilityGrid()
+	r, err := card.CheckStability(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ra, err := alone.CheckStability(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ra.FullIndefiniteTensile != 0 {
+		t.Fatalf("neo-Hookean matrix alone: %d tensile points with the full tangent not positive definite, want 0", ra.FullIndefiniteTensile)
+	}
+	if r.FullIndefiniteTensile != 0 {
+		t.Errorf("card: %d tensile points with the full tangent not positive definite, want 0 (Weyl: at least the matrix's)", r.FullIndefiniteTensile)
+	}
+	p, err := card.StabilityAt([4]float64{1.6, 0, 0.3, 1.55}, g.Directions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(p.MinFull-7.909992) > p.Resolution {
+		t.Errorf("F = [[1.6, 0], [0.3, 1.55]]: smallest eigenvalue %g, independent 7.909992 (resolution %g)", p.MinFull, p.Resolution)
+	}
+}
+
+// The criterion modulo rotation does not say that every increment other
+// than a rigid rotation raises the energy (README, material stability):
+// on a neo-Hookean membrane (w = 5 kPa) at F = [[0.7, 0.3], [0, 0.9]] the
+// full tangent's lowest eigenvalue is −29.9925 kPa and its unit
+// eigenvector has a part of norm 0.2162 orthogonal to the rotation
+// increment ΩF, while the criterion passes. Reference values: an
+// independent computation outside weft (numpy, finite differences of the
+// complex-step stress of the membrane energy written from the README).
+func TestLowestModeMixesRotationAndDeformation(t *testing.T) {
+	m := neoHookean(5)
+	F := [4]float64{0.7, 0.3, 0, 0.9}
+	tg, err := m.Tangent(F)
+	if err != nil {
+		t.Fatal(err)
+	}
+	S := mat.NewSymDense(4, nil)
+	for i := 0; i < 4; i++ {
+		for j := i; j < 4; j++ {
+			S.SetSym(i, j, tg.A[i][j])
+		}
+	}
+	var es mat.EigenSym
+	if !es.Factorize(S, true) {
+		t.Fatal("eigendecomposition failed")
+	}
+	var V mat.Dense
+	es.VectorsTo(&V)
+	low := es.Values(nil)[0]
+	v := [4]float64{V.At(0, 0), V.At(1, 0), V.At(2, 0), V.At(3, 0)}
+	r := rotationMode(F)
+	n := math.Sqrt(dot4(r, r))
+	c := dot4(v, r) / n
+	off := math.Sqrt(math.Max(0, 1-c*c))
+	if math.Abs(low+29.9925) > 1e-3 || math.Abs(off-0.2162) > 1e-3 {
+		t.Errorf("lowest eigenvalue %g (independent −29.9925), part orthogonal to ΩF %g (independent 0.2162)", low, off)
+	}
+	p, err := m.StabilityAt(F, 180)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(p.MinModuloRotation > 0) {
+		t.Errorf("criterion modulo rotation %g, want > 0", p.MinModuloRotation)
+	}
+}

@@ -565,3 +565,31 @@ func exportJSON(t *testing.T, card string) *fe.ExportDoc {
 	}
 	return &doc
 }
+
+// A pass with grid points whose eigenvalue is round-off says so in its
+// result line, as the README's *Resolution* (neither passed nor failed)
+// and the fit report's "passes on 3248 of 3249 points; 1 unresolved" do.
+// The card is the one fitted to the demo membrane M1: at
+// F = [[1.6, 0.3], [0, 1.6]] its tangent has entries of 1e18 kPa and the
+// scan's eigenvalue modulo rotation (−35 kPa) lies within the resolution
+// (1.2e7 kPa), while an independent computation outside weft (mpmath,
+// 110 digits, second differences of the membrane energy written from the
+// README) gives 9.547 kPa. Until 2026-12-05 the line read "Result: every
+// check passed." after reporting that point as not resolved.
+func TestCheckResultNamesUnresolvedPoints(t *testing.T) {
+	m1 := writeTemp(t, "m1.json", `{"format": "weft.model/1", "stress_unit": "kPa",
+	 "families": [{"name": "f1", "angle_deg": 29.979129122883652}],
+	 "terms": [{"id": "i1-lin", "weight": 3.954996016747644},
+	  {"id": "fib-expsq", "weight": 60.60799979275015, "params": {"stiffening": 7.872752417683145}, "family": "f1"}]}`)
+	out, errs, code := runWeft(t, "check", m1)
+	if code != 0 {
+		t.Fatalf("exit %d: %s\n%s", code, errs, out)
+	}
+	want := "Result: every check passed on 3248 of 3249 grid points; 1 not resolved (round-off, neither passed nor failed)."
+	if !strings.Contains(out, want) {
+		t.Errorf("want %q in:\n%s", want, out)
+	}
+	if strings.Contains(out, "Result: every check passed.\n") {
+		t.Errorf("result line claims a plain pass:\n%s", out)
+	}
+}

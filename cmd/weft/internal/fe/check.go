@@ -574,7 +574,7 @@ func PrintCheck(w io.Writer, r *CheckReport) {
 	if s.NoStiffnessPoints > 0 {
 		fmt.Fprintf(w, "     %d points WITHOUT STIFFNESS (first at F = %s): the tangent is zero there or has no resolvable positive stiffness\n", s.NoStiffnessPoints, fmtF(*s.FirstNoStiffness))
 	}
-	fmt.Fprintf(w, "     the full 4x4 tangent is not positive definite (indefinite or singular) at %d points (%d of them with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
+	fmt.Fprintf(w, "     the full 4x4 tangent is not positive definite (indefinite or singular) at %d points (%d of them resolved with both principal stresses > 0)\n", s.FullIndefinite, s.FullIndefiniteTensile)
 	if s.Unresolved > 0 {
 		fmt.Fprintf(w, "     %d points not resolved: an eigenvalue lies within %g of the tangent's largest entry of zero (round-off, where exponential terms make the tangent huge); they are neither passed nor failed\n", s.Unresolved, aniso.RelativeResolution)
 	}
@@ -613,16 +613,34 @@ func PrintCheck(w io.Writer, r *CheckReport) {
 		fmt.Fprintln(w, "\nNotice: "+s)
 	}
 	fmt.Fprintln(w)
-	if r.Passed && r.Grid.Evaluated < r.Grid.Points {
-		fmt.Fprintf(w, "Result: every check passed on the %d of %d grid points that could be evaluated.\n", r.Grid.Evaluated, r.Grid.Points)
-	} else if r.Passed {
-		fmt.Fprintln(w, "Result: every check passed.")
+	if r.Passed {
+		fmt.Fprintln(w, passedResult(r))
 	} else {
 		fmt.Fprintln(w, "Result: FAILED")
 		for _, f := range r.Failures {
 			fmt.Fprintln(w, "  - "+f)
 		}
 	}
+}
+
+// passedResult is the result line of a check that passed. Grid points
+// that could not be evaluated and points whose eigenvalue is round-off
+// (Unresolved: neither passed nor failed) are named, so that the line
+// does not claim a pass the scan could not decide; the fit report counts
+// them apart the same way ("passes on 3248 of 3249 points; 1 unresolved").
+func passedResult(r *CheckReport) string {
+	g, u := r.Grid, r.Stability.Unresolved
+	switch {
+	case u > 0:
+		s := fmt.Sprintf("Result: every check passed on %d of %d grid points; %d not resolved (round-off, neither passed nor failed)", g.Evaluated-u, g.Points, u)
+		if g.Evaluated < g.Points {
+			s += fmt.Sprintf(", %d could not be evaluated", g.Points-g.Evaluated)
+		}
+		return s + "."
+	case g.Evaluated < g.Points:
+		return fmt.Sprintf("Result: every check passed on the %d of %d grid points that could be evaluated.", g.Evaluated, g.Points)
+	}
+	return "Result: every check passed."
 }
 
 // worstText describes a criterion's worst point, or why there is none.

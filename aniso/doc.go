@@ -141,7 +141,9 @@
 // fit.go (Fit), uncertainty.go, combination.go and profile.go (standard
 // errors, correlated combinations, angle profiles), degenerate.go (terms
 // the data do not feel), result.go (Result), predict.go (Predict,
-// Metrics), band.go (confidence bands of the model curve).
+// Metrics), band.go (confidence bands of the model curve), misfit.go (a
+// fit's residuals against the data's own point-to-point scatter, and the
+// flag where they exceed it, FlagMisfit).
 //
 // Discovery, Discover in discover.go, runs these stages in turn, each in a
 // file named after it: the points it searches on (searchpoints.go); the

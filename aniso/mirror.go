@@ -26,8 +26,12 @@ import (
 type MirrorAlternative struct {
 	// Name identifies the alternative: "single-plus" and "single-minus"
 	// (one family at +|α| or −|α|), "mirror-pair" (families at ±|α| with
-	// half the weights each) or, for several families, the signs of each,
-	// e.g. "signs+-" for the first family at +|α1| and the second at −|α2|.
+	// half the weights each) or, for several families, the layout of each:
+	// "signs" and one character a family whose sign is undetermined, "+"
+	// at +|α|, "-" at −|α|, "m" a mirror pair at ±|α| with half of each of
+	// its weights; e.g. "signs+-" for the first family at +|α1| and the
+	// second at −|α2|, "signs+m" for the first at +|α1| and the second
+	// split into a pair.
 	Name string
 	// Title says it in words, e.g. "one family at +30°".
 	Title string
@@ -54,9 +58,10 @@ func selfMirror(alpha float64) bool { return math.Abs(math.Sin(2*alpha)) < mirro
 // they are the family at +|α|, at −|α| and the mirror pair ±|α| with half
 // of each weight; for a mirror pair (two families at ±α with the same
 // terms, weights and spread) the pair and one family at +|α| or −|α| with
-// twice each weight; otherwise every combination of signs of the
-// undetermined families (at most 3 of them; nil beyond), each of which
-// could also be a mirror pair.
+// twice each weight; otherwise, for one or two undetermined families,
+// every combination of each at +|α|, at −|α| or split into a mirror pair
+// at ±|α| with half of each of its weights (three families in a sheet read
+// as two, for one); for three, every combination of signs; nil beyond.
 func MirrorAlternatives(m *Model, signUnknown []bool) []MirrorAlternative {
 	var free []int
 	for f, fam := range m.Families {
@@ -88,20 +93,53 @@ func MirrorAlternatives(m *Model, signUnknown []bool) []MirrorAlternative {
 	case len(free) > 3:
 		return nil
 	}
+	// Each undetermined family is at +|α|, at −|α| or, as the package
+	// documentation says, a mirror pair at ±|α| with half of each of its
+	// weights. Before the pairs were listed, a card with families at 0°
+	// and ±61.1° fitted to three equal families at 0° and ±60° without
+	// shear (synthetic, 2026-12-05) listed only f2 at +61.1° and at
+	// −61.1°, and its alternatives did not hold the material. Three
+	// undetermined families get their signs only (27 layouts would be too
+	// many to run one by one).
+	states := 3
+	if len(free) > 2 {
+		states = 2
+	}
+	n := 1
+	for range free {
+		n *= states
+	}
 	var out []MirrorAlternative
-	for mask := 0; mask < 1<<len(free); mask++ {
+	for code := 0; code < n; code++ {
 		alt := copyModel(m)
 		name := "signs"
 		var parts []string
+		var split []int
+		rest := code
+		digits := make([]int, len(free))
+		for k := len(free) - 1; k >= 0; k-- {
+			digits[k] = rest % states
+			rest /= states
+		}
 		for k, f := range free {
 			a := math.Abs(WrapDeg(Deg(m.Families[f].Angle)))
-			sign := "+"
-			if mask&(1<<(len(free)-1-k)) != 0 {
-				a, sign = -a, "-"
+			switch digits[k] {
+			case 0:
+				name += "+"
+				parts = append(parts, fmt.Sprintf("%s at +%s°", familyLabel(m, f), fmtDeg(a)))
+			case 1:
+				a = -a
+				name += "-"
+				parts = append(parts, fmt.Sprintf("%s at −%s°", familyLabel(m, f), fmtDeg(-a)))
+			case 2:
+				name += "m"
+				parts = append(parts, fmt.Sprintf("%s as a mirror pair at ±%s° with half of each of its weights", familyLabel(m, f), fmtDeg(a)))
+				split = append(split, f)
 			}
 			alt.Families[f].Angle = Rad(a)
-			name += sign
-			parts = append(parts, fmt.Sprintf("%s at %s%s°", familyLabel(m, f), strings.Replace(sign, "-", "−", 1), fmtDeg(math.Abs(a))))
+		}
+		for _, f := range split {
+			alt = splitFamily(alt, f, familyLabel(m, f))
 		}
 		dup := false
 		for _, o := range out {
@@ -113,6 +151,28 @@ func MirrorAlternatives(m *Model, signUnknown []bool) []MirrorAlternative {
 		out = append(out, MirrorAlternative{Name: name, Title: strings.Join(parts, ", "), Model: alt, Same: sameModel(alt, m)})
 	}
 	return out
+}
+
+// splitFamily turns family f of m (at +|α|) into a mirror pair: f stays
+// at +|α| named label_plus, a new last family at −|α| named label_minus,
+// and each term of f becomes two, one on each, at half its weight.
+func splitFamily(m *Model, f int, label string) *Model {
+	c := copyModel(m)
+	neg := c.Families[f]
+	neg.Angle = -neg.Angle
+	neg.Name = label + "_minus"
+	c.Families[f].Name = label + "_plus"
+	c.Families = append(c.Families, neg)
+	g := len(c.Families) - 1
+	var add []Term
+	for i, t := range c.Terms {
+		if t.Family == f {
+			c.Terms[i].Weight = t.Weight / 2
+			add = append(add, Term{Shape: t.Shape, Family: g, Weight: t.Weight / 2, Params: append([]float64(nil), t.Params...)})
+		}
+	}
+	c.Terms = append(c.Terms, add...)
+	return c
 }
 
 // fmtDeg writes an angle in degrees with up to 6 significant digits.

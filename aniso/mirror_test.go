@@ -30,7 +30,10 @@ func TestMirrorAlternatives(t *testing.T) {
 		{"kappa", &Model{Families: []Family{{Name: "f1", Angle: 40 * deg, Dispersion: 0.1}}, Terms: append([]Term{iso}, fib(0, 8)...)}, []string{"single-plus", "single-minus", "mirror-pair"}},
 		{"planar", &Model{Families: []Family{{Name: "f1", Angle: 35 * deg, Planar: true, Concentration: 4}}, Terms: []Term{iso, planarFib}}, []string{"single-plus", "single-minus", "mirror-pair"}},
 		{"hgo", hgoMedia(), []string{"mirror-pair", "single-plus", "single-minus"}},
-		{"free", &Model{Families: []Family{{Angle: 20 * deg}, {Angle: 75 * deg}}, Terms: append(append([]Term{iso}, fib(0, 8)...), fib(1, 3)...)}, []string{"signs++", "signs+-", "signs-+", "signs--"}},
+		{"free", &Model{Families: []Family{{Angle: 20 * deg}, {Angle: 75 * deg}}, Terms: append(append([]Term{iso}, fib(0, 8)...), fib(1, 3)...)}, []string{"signs++", "signs+-", "signs+m", "signs-+", "signs--", "signs-m", "signsm+", "signsm-", "signsmm"}},
+		// One family on axis 1 and one at 60°: the second may be a mirror
+		// pair, so a sheet of three families at 0° and ±60° is listed.
+		{"axis-and-free", &Model{Families: []Family{{Angle: 0}, {Angle: 60 * deg}}, Terms: append(append([]Term{iso}, fib(0, 8)...), fib(1, 3)...)}, []string{"signs+", "signs-", "signsm"}},
 	}
 	for _, c := range cases {
 		alts := MirrorAlternatives(c.m, []bool{true, true})
@@ -66,7 +69,7 @@ func TestMirrorAlternatives(t *testing.T) {
 						math.Abs(r.Energy-r0.Energy) > 1e-12*(1+r0.Energy) {
 						t.Errorf("%s %s at λ = (%g, %g): σ = %v, W = %g; the model: σ = %v, W = %g", c.name, a.Name, l1, l2, r.Cauchy, r.Energy, r0.Cauchy, r0.Energy)
 					}
-					if a.Name == "mirror-pair" && math.Abs(r.Cauchy[2]) > 1e-12*scale {
+					if (a.Name == "mirror-pair" || a.Name == "signsmm" || (c.name == "axis-and-free" && a.Name == "signsm")) && math.Abs(r.Cauchy[2]) > 1e-12*scale {
 						t.Errorf("%s: the mirror pair shears under a pure stretch: σ12 = %g", c.name, r.Cauchy[2])
 					}
 				}
@@ -87,6 +90,24 @@ func TestMirrorAlternatives(t *testing.T) {
 		if len(seen) != len(alts) {
 			t.Errorf("%s: simple shear gives %d distinct shear stresses for %d alternatives", c.name, len(seen), len(alts))
 		}
+	}
+	// Three equal families at 0° and ±60° (a valve-leaflet-like or
+	// laminate-like sheet) give, under pure biaxial stretch, the normal
+	// stresses of families at 0° and 60°, the second with twice the weight
+	// (a family at α and one at −α have the same I4 = C11 cos²α + C22 sin²α;
+	// common practice), and the alternatives of such a two-family card must
+	// hold them. Until 2026-12-05 only the signs of the 60° family were
+	// listed (a synthetic audit specimen, three families read as two at
+	// ±0.0° and ±61.1°).
+	three := &Model{Families: []Family{{Name: "f1", Angle: 0}, {Name: "f2_plus", Angle: 60 * deg}, {Name: "f2_minus", Angle: -60 * deg}},
+		Terms: append(append(append([]Term{iso}, fib(0, 8)...), fib(1, 1.5)...), fib(2, 1.5)...)}
+	read := &Model{Families: []Family{{Name: "f1", Angle: 0}, {Name: "f2", Angle: 60 * deg}}, Terms: append(append([]Term{iso}, fib(0, 8)...), fib(1, 3)...)}
+	found := false
+	for _, a := range MirrorAlternatives(read, []bool{true, true}) {
+		found = found || sameModel(a.Model, three)
+	}
+	if !found {
+		t.Errorf("the alternatives of families at 0° and 60° do not hold three families at 0° and ±60°")
 	}
 	// Known signs, or a family on an axis, leave nothing undetermined.
 	if a := MirrorAlternatives(hgoMedia(), []bool{false, false}); a != nil {

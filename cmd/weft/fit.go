@@ -562,6 +562,14 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		o.Discovery = d
 		o.Result = d.Best().Result
 	}
+	// A misfit beyond the data's own scatter is flagged on the fit (not
+	// on resampled points, whose interpolated neighbours share their
+	// noise, so that third differences understate it).
+	if ff.read.Resample == 0 {
+		if _, err := aniso.FlagMisfit(p, o.Result); err != nil {
+			return nil, fitFailed(s, err)
+		}
+	}
 	var check []aniso.AxisScaleOutcome
 	if ff.calibration > 0 && o.Discovery != nil {
 		// The bar runs again for each of the check's two discoveries.

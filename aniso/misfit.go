@@ -102,3 +102,21 @@ func FlagMisfit(p *Problem, r *Result) (float64, error) {
 	}
 	return ratio, nil
 }
+
+// NoteMisfit adds a caution to a verdict with fibre families when the
+// chosen model's residuals are MisfitFlagRatio or more times the data's
+// own scatter (ratio from MisfitScatterRatio or FlagMisfit): the walk's
+// margins are scaled by a noise estimate taken from the best model's own
+// residuals (noiseLevel), so a misfit widens the noise and the verdict
+// can stay confident on a model the data do not support. Measured once
+// (2026-12-05, independent synthetic specimens): a pair of families
+// coupled through I8 on sutures was a confident 2 with its second family
+// at 76.9° (true 70°) and residuals 2.2–3.4 times the scatter, and missed
+// an off-axis loading by 27–32 % against a held-out error of 8.5 %.
+func (d *Discovery) NoteMisfit(ratio float64) {
+	v := &d.Verdict
+	if ratio < MisfitFlagRatio || (v.Families != "1" && v.Families != "2" && v.Families != "1-or-mirror-pair") {
+		return
+	}
+	v.Reason += fmt.Sprintf("; caution: the chosen model's residuals are %.1f times the data's own scatter, and the margins of this verdict are scaled by a noise estimate that includes that misfit, so the data hold a feature no candidate writes (a third family, families coupled to each other, a softening): the number of families is what the tested protocols need of the catalogue's forms, not necessarily the tissue's, and a loading off the tested axes should be tested before the families are relied on", ratio)
+}

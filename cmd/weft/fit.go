@@ -566,8 +566,12 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	// on resampled points, whose interpolated neighbours share their
 	// noise, so that third differences understate it).
 	if ff.read.Resample == 0 {
-		if _, err := aniso.FlagMisfit(p, o.Result); err != nil {
+		ratio, err := aniso.FlagMisfit(p, o.Result)
+		if err != nil {
 			return nil, fitFailed(s, err)
+		}
+		if o.Discovery != nil {
+			o.Discovery.NoteMisfit(ratio)
 		}
 	}
 	var check []aniso.AxisScaleOutcome

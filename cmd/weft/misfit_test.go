@@ -17,7 +17,8 @@ import (
 // 2026-12-05 nothing said that the chosen model misfits; its residuals are
 // 2.4 times the data's own point-to-point scatter (third differences; an
 // independent numpy recomputation from fit.csv gave 2.39), and the fit now
-// carries a flag that says so, in the card and the summary.
+// carries a flag that says so, in the card and the summary, and the
+// confident verdict a caution that its margins include the misfit.
 func TestMisfitFlagOnACoupledPair(t *testing.T) {
 	if testing.Short() {
 		t.Skip("one discovery")
@@ -37,6 +38,7 @@ func TestMisfitFlagOnACoupledPair(t *testing.T) {
 		} `json:"fit"`
 		Verdict struct {
 			Families string `json:"families"`
+			Reason   string `json:"reason"`
 		} `json:"verdict"`
 	}
 	if err := json.Unmarshal(b, &c); err != nil {
@@ -54,6 +56,10 @@ func TestMisfitFlagOnACoupledPair(t *testing.T) {
 	}
 	if !strings.Contains(found, "its residuals are 2.4 times") {
 		t.Errorf("flag %q: want the ratio 2.4 of the independent recomputation", found)
+	}
+	// The confident verdict says that its margins include the misfit.
+	if c.Verdict.Families == "2" && !strings.Contains(c.Verdict.Reason, "the margins of this verdict are scaled by a noise estimate that includes that misfit") {
+		t.Errorf("verdict 2 without the misfit caution: %s", c.Verdict.Reason)
 	}
 	if !strings.Contains(out, "misfits the data") {
 		t.Errorf("the summary does not show the flag:\n%s", out)

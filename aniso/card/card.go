@@ -206,6 +206,12 @@ type Card struct {
 	// CalibrationCheck is discovery repeated with axis 1's stress scaled
 	// (key "calibration_check"); nil unless asked for.
 	CalibrationCheck *CalibrationCheck `json:"-"`
+	// UntestedStrips are the strips (1:0, 0:1) the fitted data did not
+	// test, with how far the near-equivalent models part along them (key
+	// "untested_strips"); nil for a chosen form, when every strip was
+	// tested or when no other model predicted the held-out protocols as
+	// well, and in cards written before 2026-12-05.
+	UntestedStrips []UntestedStrip `json:"-"`
 	// Provenance is what made the card (key "provenance") and Setup how
 	// the specimen was set up (key "setup"); nil in cards written before
 	// them or by hand.
@@ -258,6 +264,7 @@ var sections = []section{
 	{KeyVerdict, func(c *Card) (any, bool) { return c.Verdict, c.Verdict != nil }, decodeInto(func(c *Card, v *VerdictSection) { c.Verdict = v })},
 	{KeyAlternatives, func(c *Card) (any, bool) { return c.Alternatives, c.Alternatives != nil }, decodeInto(func(c *Card, v *AlternativesSection) { c.Alternatives = v })},
 	{KeyCalibrationCheck, func(c *Card) (any, bool) { return c.CalibrationCheck, c.CalibrationCheck != nil }, decodeInto(func(c *Card, v *CalibrationCheck) { c.CalibrationCheck = v })},
+	{KeyUntestedStrips, func(c *Card) (any, bool) { return c.UntestedStrips, len(c.UntestedStrips) > 0 }, decodeInto(func(c *Card, v *[]UntestedStrip) { c.UntestedStrips = *v })},
 	{KeyProvenance, func(c *Card) (any, bool) { return c.Provenance, c.Provenance != nil }, decodeInto(func(c *Card, v *Provenance) { c.Provenance = v })},
 	{KeySetup, func(c *Card) (any, bool) { return c.Setup, c.Setup != nil }, decodeInto(func(c *Card, v *Setup) { c.Setup = v })},
 }

@@ -585,6 +585,19 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	}
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
+	if o.Discovery != nil {
+		var protocols [][][4]float64
+		for _, pr := range s.Protocols {
+			var fs [][4]float64
+			for _, pt := range pr.Points {
+				fs = append(fs, pt.F)
+			}
+			protocols = append(protocols, fs)
+		}
+		if o.Card.UntestedStrips, err = card.NewUntestedStrips(protocols, s.Kind == biaxial.Nominal, o.Card, o.Result.Model); err != nil {
+			return nil, fitFailed(s, err)
+		}
+	}
 	if check != nil {
 		var angles []float64
 		for _, f := range o.Result.Model.Families {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/csv"
+	"encoding/json"
 	"fmt"
 	"math"
 	"os"
@@ -53,6 +54,23 @@ func TestPredictAlikeBandCoversUntestedStrip(t *testing.T) {
 	// strip, which they did.
 	if !strings.Contains(summary, "untested: strip 1:0 (axis 2 held at stretch 1, to stretch 1.16)") || strings.Contains(summary, "strip 0:1") {
 		t.Errorf("summary's untested strips:\n%s", summary)
+	}
+	// The card records it (untested_strips) and the report says it.
+	var cd struct {
+		Untested []struct {
+			Label   string  `json:"label"`
+			Percent float64 `json:"percent"`
+		} `json:"untested_strips"`
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(b, &cd); err != nil || len(cd.Untested) != 1 || cd.Untested[0].Label != "1:0" || !(cd.Untested[0].Percent > 1) {
+		t.Errorf("card's untested_strips %+v (%v)", cd.Untested, err)
+	}
+	if html, err := os.ReadFile(filepath.Join(dir, "report.html")); err != nil || !strings.Contains(string(html), "Strips not tested (one axis held at 1)") {
+		t.Errorf("report.html does not name the untested strip (%v)", err)
 	}
 	const c, c1, c3 = 4.0, 30.0, 4.0
 	var path strings.Builder

@@ -58,7 +58,9 @@ type Input struct {
 	verdict   *card.VerdictSection
 	// calibration is the card's calibration check, nil when not asked for.
 	calibration *card.CalibrationCheck
-	sel         *card.SelectionSection
+	// untested are the card's untested strips (none when absent).
+	untested []card.UntestedStrip
+	sel      *card.SelectionSection
 	// table is fit.csv; heldout, curves and raw are heldout.csv,
 	// curves.csv and raw.csv (nil when absent).
 	table   *fitTable
@@ -116,6 +118,7 @@ func (in *Input) parse(f Folder, lim card.Limits) error {
 	}
 	in.fit, in.data = *c.Fit, *c.Data
 	in.dataRange, in.split, in.verdict, in.sel, in.calibration = c.DataRange, c.Split, c.Verdict, c.Selection, c.CalibrationCheck
+	in.untested = c.UntestedStrips
 	in.table, err = readFitTable(bytes.NewReader(f.FitCSV), "fit.csv")
 	if err != nil {
 		return err

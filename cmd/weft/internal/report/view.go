@@ -457,6 +457,15 @@ func (in *Input) verdictSection(v *reportView) {
 	if c := in.calibration; c != nil {
 		v.Calibration = minusSigns(c.Summary)
 	}
+	var strips []string
+	for _, st := range in.untested {
+		strips = append(strips, fmt.Sprintf("%s to stretch %.3g: %.1f %%", st.Label, float64(st.Stretch), float64(st.Percent)))
+	}
+	if len(strips) > 0 {
+		// Part of the verdict's paragraph: a report at its page budget
+		// (demo M3) keeps it.
+		v.Reason += " Strips not tested (one axis held at 1), with how far the models the held-out protocols could not tell apart part there: " + strings.Join(strips, "; ") + "."
+	}
 	for _, r := range vd.RuledOut {
 		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))
 	}

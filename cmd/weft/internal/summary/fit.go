@@ -123,7 +123,13 @@ func printFitHead(w io.Writer, f *Fit) {
 			fmt.Fprintf(w, "check:    %s\n", c.Summary)
 		}
 		fmt.Fprintf(w, "rule:     %s\n", d.Rule)
-		printUntested(w, f)
+		for i, st := range f.Card.UntestedStrips {
+			head := "untested: "
+			if i > 0 {
+				head = "          "
+			}
+			fmt.Fprintf(w, "%s%s\n", head, st.Summary)
+		}
 		if d.SearchPoints < d.Points {
 			fmt.Fprintf(w, "points:   search, cross-validation and the comparison below on %d of the %d points (an even subset of each long protocol); the chosen model refitted on all %d\n", d.SearchPoints, d.Points, d.Points)
 		}

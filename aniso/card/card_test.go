@@ -169,3 +169,20 @@ func TestEnergyTextNewShapes(t *testing.T) {
 		}
 	}
 }
+
+// A card whose verdict claims fibre families carries FamiliesCaution
+// after the standard cautions; one without fibres, undecided, or without a
+// verdict does not.
+func TestFamiliesCautionFollowsTheVerdict(t *testing.T) {
+	for families, want := range map[string]bool{"1": true, "2": true, "1-or-mirror-pair": true, "0": false, "undecided": false, "": false} {
+		c := &Card{}
+		if families != "" {
+			c.Verdict = &VerdictSection{Families: families}
+		}
+		got := CautionsOf(c)
+		has := len(got) > 0 && got[len(got)-1] == FamiliesCaution
+		if has != want || len(got) != len(Cautions)+map[bool]int{true: 1}[want] {
+			t.Errorf("verdict %q: cautions %q", families, got)
+		}
+	}
+}

@@ -35,7 +35,6 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 		c.Alternatives.Reason = AlternativesReasonScatter
 	}
 	c.Data = NewDataSection(s)
-	c.Cautions = CautionsOf(c)
 	c.Setup = NewSetup(s)
 	if sp, err := aniso.Split(p, r.Model); err == nil {
 		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")
@@ -45,6 +44,7 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 		c.Verdict = &v
 		c.Selection = newSelectionSection(p, d)
 	}
+	c.Cautions = CautionsOf(c)
 	return c
 }
 

@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -148,25 +149,7 @@ func TestFungTangentFiniteDifference(t *testing.T) {
 	for _, f := range fungLaws {
 		m := f.model()
 		for _, F := range fungPoints {
-			tg, err := m.Tangent(F)
-			if err != nil {
-				t.Fatal(err)
-			}
-			var H mat.SymDense
-			fd.Hessian(&H, f.energy, F[:], &fd.Settings{Formula: fd.Central, Step: 1e-4})
-			amax := 0.0
-			for i := range tg.A {
-				for j := range tg.A[i] {
-					amax = math.Max(amax, math.Abs(tg.A[i][j]))
-				}
-			}
-			for i := range tg.A {
-				for j := range tg.A[i] {
-					if math.Abs(tg.A[i][j]-H.At(i, j)) > 1e-5*amax {
-						t.Errorf("%+v F=%v: A[%d][%d] = %.10g, numerical Hessian %.10g", f, F, i, j, tg.A[i][j], H.At(i, j))
-					}
-				}
-			}
+			tg := checkTangentAgainstHessian(t, m, f.energy, F, fmt.Sprintf("%+v", f))
 			r, _ := m.Evaluate(F)
 			pe := NominalFOrder(r.Nominal)
 			for i := range pe {
@@ -176,6 +159,34 @@ func TestFungTangentFiniteDifference(t *testing.T) {
 			}
 		}
 	}
+}
+
+// checkTangentAgainstHessian compares m's analytic tangent at F with the
+// Hessian of energy (an independently written W(F)) by gonum's diff/fd,
+// central differences applied twice, within 1e-5 of the largest entry,
+// and returns the tangent.
+func checkTangentAgainstHessian(t *testing.T, m *Model, energy func([]float64) float64, F [4]float64, label string) Tangent {
+	t.Helper()
+	tg, err := m.Tangent(F)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var H mat.SymDense
+	fd.Hessian(&H, energy, F[:], &fd.Settings{Formula: fd.Central, Step: 1e-4})
+	amax := 0.0
+	for i := range tg.A {
+		for j := range tg.A[i] {
+			amax = math.Max(amax, math.Abs(tg.A[i][j]))
+		}
+	}
+	for i := range tg.A {
+		for j := range tg.A[i] {
+			if math.Abs(tg.A[i][j]-H.At(i, j)) > 1e-5*amax {
+				t.Errorf("%s F=%v: A[%d][%d] = %.10g, numerical Hessian %.10g", label, F, i, j, tg.A[i][j], H.At(i, j))
+			}
+		}
+	}
+	return tg
 }
 
 // The reference state is stress-free for every parameter set, the
@@ -237,29 +248,37 @@ func TestFungColumnDerivatives(t *testing.T) {
 	for _, nominal := range []bool{false, true} {
 		d := testDataset(t, nominal)
 		for _, f := range fungLaws {
-			m := f.model()
-			var c Columns
-			d.Fill(m, &c, true)
-			for j := 0; j < 4; j++ {
-				var cp, cm Columns
-				mp, mm := cloneModel(m), cloneModel(m)
-				const h = 1e-6
-				mp.Terms[0].Params[j] += h
-				mm.Terms[0].Params[j] -= h
-				d.Fill(mp, &cp, false)
-				d.Fill(mm, &cm, false)
-				for r := 0; r < c.Rows; r++ {
-					fdv := (cp.A[r] - cm.A[r]) / (2 * h)
-					if an := c.DParam[j][r]; math.Abs(fdv-an) > 1e-6*math.Max(1, math.Abs(an)) {
-						t.Errorf("nominal=%v %+v b%d row %d: analytic %.10g, finite difference %.10g", nominal, f, j+1, r, an, fdv)
-					}
-				}
+			checkParamColumns(t, d, f.model(), 4, fmt.Sprintf("nominal=%v %+v", nominal, f))
+		}
+	}
+}
+
+// checkParamColumns compares the derivative columns of the first n shape
+// parameters of m's one term with central differences of its columns,
+// and checks that a term without a family has no angle or dispersion
+// derivatives.
+func checkParamColumns(t *testing.T, d *Dataset, m *Model, n int, label string) {
+	t.Helper()
+	var c Columns
+	d.Fill(m, &c, true)
+	for j := range n {
+		var cp, cm Columns
+		mp, mm := cloneModel(m), cloneModel(m)
+		const h = 1e-6
+		mp.Terms[0].Params[j] += h
+		mm.Terms[0].Params[j] -= h
+		d.Fill(mp, &cp, false)
+		d.Fill(mm, &cm, false)
+		for r := 0; r < c.Rows; r++ {
+			fdv := (cp.A[r] - cm.A[r]) / (2 * h)
+			if an := c.DParam[j][r]; math.Abs(fdv-an) > 1e-6*math.Max(1, math.Abs(an)) {
+				t.Errorf("%s b%d row %d: analytic %.10g, finite difference %.10g", label, j+1, r, an, fdv)
 			}
-			for r := 0; r < c.Rows; r++ {
-				if c.DAngle[r] != 0 || c.DKappa[r] != 0 {
-					t.Fatalf("a term without a family has angle or dispersion derivatives")
-				}
-			}
+		}
+	}
+	for r := 0; r < c.Rows; r++ {
+		if c.DAngle[r] != 0 || c.DKappa[r] != 0 {
+			t.Fatalf("%s: a term without a family has angle or dispersion derivatives", label)
 		}
 	}
 }

@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -114,25 +115,7 @@ func TestFungGeneralTangentFiniteDifference(t *testing.T) {
 	for _, f := range turnedLaws {
 		m := f.generalModel()
 		for _, F := range fungPoints {
-			tg, err := m.Tangent(F)
-			if err != nil {
-				t.Fatal(err)
-			}
-			var H mat.SymDense
-			fd.Hessian(&H, f.energy, F[:], &fd.Settings{Formula: fd.Central, Step: 1e-4})
-			amax := 0.0
-			for i := range tg.A {
-				for j := range tg.A[i] {
-					amax = math.Max(amax, math.Abs(tg.A[i][j]))
-				}
-			}
-			for i := range tg.A {
-				for j := range tg.A[i] {
-					if math.Abs(tg.A[i][j]-H.At(i, j)) > 1e-5*amax {
-						t.Errorf("%+v F=%v: A[%d][%d] = %.10g, numerical Hessian %.10g", f, F, i, j, tg.A[i][j], H.At(i, j))
-					}
-				}
-			}
+			checkTangentAgainstHessian(t, m, f.energy, F, fmt.Sprintf("%+v", f))
 		}
 	}
 }
@@ -143,24 +126,7 @@ func TestFungGeneralColumnDerivatives(t *testing.T) {
 	for _, nominal := range []bool{false, true} {
 		d := testDataset(t, nominal)
 		for _, f := range turnedLaws {
-			m := f.generalModel()
-			var c Columns
-			d.Fill(m, &c, true)
-			for j := range 6 {
-				var cp, cm Columns
-				mp, mm := cloneModel(m), cloneModel(m)
-				const h = 1e-6
-				mp.Terms[0].Params[j] += h
-				mm.Terms[0].Params[j] -= h
-				d.Fill(mp, &cp, false)
-				d.Fill(mm, &cm, false)
-				for r := 0; r < c.Rows; r++ {
-					fdv := (cp.A[r] - cm.A[r]) / (2 * h)
-					if an := c.DParam[j][r]; math.Abs(fdv-an) > 1e-6*math.Max(1, math.Abs(an)) {
-						t.Errorf("nominal=%v %+v b%d row %d: analytic %.10g, finite difference %.10g", nominal, f, j+1, r, an, fdv)
-					}
-				}
-			}
+			checkParamColumns(t, d, f.generalModel(), 6, fmt.Sprintf("nominal=%v %+v", nominal, f))
 		}
 	}
 }

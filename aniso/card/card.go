@@ -810,3 +810,34 @@ func (c *Card) Marshal() ([]byte, error) {
 	out.WriteByte('\n')
 	return out.Bytes(), nil
 }
+
+// EditedConventions lists, as sentences, the conventions of c that say
+// something else than weft's own (StandardConventions), among those whose
+// wording has not changed since the first card format: the fibre
+// direction, kinematics, energy, fibre switch and dispersion. weft reads
+// every card with its own conventions, so a card whose conventions were
+// edited to mean another one (a fibre switch that lets fibres act in
+// compression, say) is evaluated as weft's, not as edited; the other
+// conventions' wording grew over versions and is not compared. None for a
+// card without conventions.
+func (c *Card) EditedConventions() []string {
+	if c == nil || c.Conventions == nil {
+		return nil
+	}
+	std := StandardConventions
+	var out []string
+	for _, f := range []struct {
+		key, got, want string
+	}{
+		{"angle", c.Conventions.Angle, std.Angle},
+		{"kinematics", c.Conventions.Kinematics, std.Kinematics},
+		{"energy", c.Conventions.Energy, std.Energy},
+		{"fibre_switch", c.Conventions.FibreSwitch, std.FibreSwitch},
+		{"dispersion", c.Conventions.Dispersion, std.Dispersion},
+	} {
+		if f.got != "" && f.got != f.want {
+			out = append(out, fmt.Sprintf("the card's conventions.%s says %q, not weft's %q: weft reads every card with its own conventions, so this card is evaluated as weft's, not as its conventions say", f.key, f.got, f.want))
+		}
+	}
+	return out
+}

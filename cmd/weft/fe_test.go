@@ -593,3 +593,42 @@ func TestCheckResultNamesUnresolvedPoints(t *testing.T) {
 		t.Errorf("result line claims a plain pass:\n%s", out)
 	}
 }
+
+// A card whose conventions were edited to mean another one — here a fibre
+// switch that lets the fibres act in compression — is checked as weft
+// reads every card, with its own conventions (README, Conventions): check
+// warns that it does, naming the key, and the demo's card, unedited, has
+// no such warning (an audit found the edit silently ignored).
+func TestCheckWarnsOfEditedConventions(t *testing.T) {
+	t.Parallel()
+	src, err := os.ReadFile(filepath.Join(demoFitCopy(t, "membrane-M1"), "model.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal(src, &doc); err != nil {
+		t.Fatal(err)
+	}
+	run := func(name string) fe.CheckReport {
+		b, err := json.Marshal(doc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out, _, _ := runWeft(t, "check", writeTemp(t, name, string(b)), "--json")
+		var r fe.CheckReport
+		if err := json.Unmarshal([]byte(out), &r); err != nil {
+			t.Fatal(err)
+		}
+		return r
+	}
+	edited := func(r fe.CheckReport) bool {
+		return strings.Contains(strings.Join(r.Warnings, "\n"), "conventions.fibre_switch says")
+	}
+	if edited(run("as-written.json")) {
+		t.Errorf("the unedited card is warned of edited conventions")
+	}
+	doc["conventions"].(map[string]any)["fibre_switch"] = "fibre terms act in tension and in compression"
+	if r := run("edited.json"); !edited(r) {
+		t.Errorf("edited fibre switch not warned of: %q", r.Warnings)
+	}
+}

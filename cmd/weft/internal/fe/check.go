@@ -193,6 +193,8 @@ func CheckCard(file string, c *card.Card, m *aniso.Model, g aniso.StabilityGrid,
 	if err := checkAlternatives(rep, alts, g); err != nil {
 		return nil, cardErrorf("%s: %v", file, err)
 	}
+	// A card edited to another convention is checked as weft reads it.
+	rep.Warnings = append(rep.Warnings, c.EditedConventions()...)
 	rep.Passed = len(rep.Failures) == 0
 	return rep, nil
 }

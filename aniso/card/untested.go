@@ -57,6 +57,7 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 	if err != nil || len(alike) == 0 {
 		return nil, err
 	}
+	n := Candidates(alike)
 	var dirs []float64
 	var top [2]float64
 	for _, pts := range protocols {
@@ -110,8 +111,8 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		if largest > 0 {
 			pct = 100 * widest / largest
 		}
-		out = append(out, UntestedStrip{Label: st.label, Stretch: Num(top[k]), Models: len(alike), Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
-			Summary: fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", st.label, st.held, top[k], len(alike), pct)})
+		out = append(out, UntestedStrip{Label: st.label, Stretch: Num(top[k]), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
+			Summary: fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", st.label, st.held, top[k], n, pct)})
 	}
 	return out, nil
 }

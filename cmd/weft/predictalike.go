@@ -52,10 +52,16 @@ func abs(x float64) float64 {
 func (b *alikeBand) notes(alike []card.AlikeModel, unit string) []string {
 	var names []string
 	for _, a := range alike {
-		names = append(names, a.Name)
+		if !a.Reflection {
+			names = append(names, a.Name)
+		}
 	}
-	out := []string{fmt.Sprintf("%d other model(s) of the fit's selection predicted the held-out protocols as well as this one (held-out error within one standard error of the chosen model's): %s. The alike_low_ and alike_high_ columns give, at each row, the lowest and highest stress of these and the card's own model: where they part, the tested protocols do not settle the prediction, whatever the held-out error says",
-		len(alike), strings.Join(names, ", "))}
+	these := "these and the card's own model"
+	if len(names) < len(alike) {
+		these = "these, the card's own model and their reflections about axis 1 (fibre angles negated: the data carried no shear information, which cannot tell a model from its reflection; the shear stresses of the two are opposite)"
+	}
+	out := []string{fmt.Sprintf("%d other model(s) of the fit's selection predicted the held-out protocols as well as this one (held-out error within one standard error of the chosen model's): %s. The alike_low_ and alike_high_ columns give, at each row, the lowest and highest stress of %s: where they part, the tested protocols do not settle the prediction, whatever the held-out error says",
+		len(names), strings.Join(names, ", "), these)}
 	at := 0
 	for j := range b.widest {
 		if b.widest[j] > b.widest[at] {

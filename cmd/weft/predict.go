@@ -280,7 +280,7 @@ func predictCSV(r io.Reader, file string, c *card.Card, m *aniso.Model, dr *card
 		fmt.Fprintf(&b, "# WARNING: %s\n", wn)
 	}
 	if len(alike) > 0 {
-		for _, n := range band.notes(alike, c.StressUnit) {
+		for _, n := range band.notes(alike, c.StressUnit, outside, rows) {
 			fmt.Fprintf(&b, "# NOTE: %s\n", n)
 		}
 	}

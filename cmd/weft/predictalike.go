@@ -48,8 +48,10 @@ func abs(x float64) float64 {
 	return x
 }
 
-// notes says which models the band holds and where it is widest.
-func (b *alikeBand) notes(alike []card.AlikeModel, unit string) []string {
+// notes says which models the band holds and where it is widest, and,
+// when outside of the rows lie outside the card's fitted data range, that
+// the band says nothing there.
+func (b *alikeBand) notes(alike []card.AlikeModel, unit string, outside, rows int) []string {
 	var names []string
 	for _, a := range alike {
 		if !a.Reflection {
@@ -70,6 +72,12 @@ func (b *alikeBand) notes(alike []card.AlikeModel, unit string) []string {
 	}
 	if b.largest > 0 {
 		out = append(out, fmt.Sprintf("the widest part is in %s: %.4g %s at line %d, %.1f %% of the largest stress of the card's model along this path (%.4g %s)", fe.StressColumnNames[at], b.widest[at], unit, b.widestLine[at], 100*b.widest[at]/b.largest, b.largest, unit))
+	}
+	if outside > 0 {
+		// The near-equivalent models were told apart from the card's only
+		// on the tested range; beyond it they extrapolate the same forms
+		// alike and can agree with each other far from the material.
+		out = append(out, fmt.Sprintf("%d of %d rows lie outside the fitted data range (data_range): there every model of the band extrapolates, and a narrow band does not mean the tests settle the prediction (a sutured specimen whose fibres were stretched to 1.013 in the tests, predicted on a strip: band 1.2 %%, the card's model off by 78 %% of the peak)", outside, rows))
 	}
 	for _, a := range alike {
 		if n := b.failed[a.Name]; n > 0 {

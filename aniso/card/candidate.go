@@ -80,6 +80,22 @@ func (c *Card) NearEquivalents() []*CandidateCard {
 	return out
 }
 
+// AloneInSelection reports whether the card has a selection whose chosen
+// candidate was cross-validated and no other candidate came within its
+// standard error (NearEquivalents is empty): a card without an alike band
+// for that reason, not for want of a selection.
+func (c *Card) AloneInSelection() bool {
+	if c.Selection == nil || len(c.NearEquivalents()) > 0 {
+		return false
+	}
+	for _, cc := range c.Selection.Pareto {
+		if cc.Chosen && finite(float64(cc.HeldoutError)) {
+			return true
+		}
+	}
+	return false
+}
+
 // finite reports whether v is a number other than ±Inf (a Num that was
 // null in the card reads as NaN).
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

@@ -80,29 +80,132 @@ func (c *Card) NearEquivalents() []*CandidateCard {
 	return out
 }
 
+// AloneInSelection reports whether the card has a selection whose chosen
+// candidate was cross-validated and no other candidate came within its
+// standard error (NearEquivalents is empty): a card without an alike band
+// for that reason, not for want of a selection.
+func (c *Card) AloneInSelection() bool {
+	if c.Selection == nil || len(c.NearEquivalents()) > 0 {
+		return false
+	}
+	for _, cc := range c.Selection.Pareto {
+		if cc.Chosen && finite(float64(cc.HeldoutError)) {
+			return true
+		}
+	}
+	return false
+}
+
 // finite reports whether v is a number other than ±Inf (a Num that was
 // null in the card reads as NaN).
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
 // AlikeModel is a near-equivalent candidate's model (NearEquivalents) with
-// its name.
+// its name, or the reflection of one of them or of the card's own model.
 type AlikeModel struct {
 	Name  string
 	Model *aniso.Model
+	// Reflection is true for the reflection about axis 1 (every fibre
+	// angle negated, the shear couplings of fung-general too) of the
+	// card's model or of a near-equivalent one, which AlikeModels adds
+	// when the data carried no shear information: such data cannot tell a
+	// model from its reflection (the normal stresses of a pure biaxial
+	// stretch are the same, the shear stresses opposite).
+	Reflection bool
 }
 
 // AlikeModels builds the models of the card's near-equivalent candidates
-// (NearEquivalents), in their order.
+// (NearEquivalents), in their order. When the card's fit had no shear
+// information (fit.angle_sign_known false) and there are near-equivalent
+// candidates, it adds after them the reflection about axis 1 of the
+// card's own model and of each of them (AlikeModel.Reflection), so that a
+// band spans the sign of the fibre angles that the data left open. The
+// reflection of a model that does not change under it (no fibres, no
+// coupling) is not added.
 func (c *Card) AlikeModels() ([]AlikeModel, error) {
 	var out []AlikeModel
-	for _, cc := range c.NearEquivalents() {
+	near := c.NearEquivalents()
+	for _, cc := range near {
 		m, err := c.CandidateModelOf(cc)
 		if err != nil {
 			return nil, fmt.Errorf("selection candidate %s: %v", cc.Name, err)
 		}
-		out = append(out, AlikeModel{cc.Name, m})
+		out = append(out, AlikeModel{Name: cc.Name, Model: m})
+	}
+	if len(near) == 0 || c.Fit == nil || c.Fit.AngleSignKnown {
+		return out, nil
+	}
+	// A reflection Q = diag(1, −1) of the material maps its energy W(C) to
+	// W(Q C Qᵀ): a family at α goes to −α and E12 to −E12, while C11 and
+	// C22 stay (material symmetry, e.g. Holzapfel 2000, §6.7).
+	reflect := func(name string, fams []Family, ts []Term) error {
+		rf, rt, changed := reflected(fams, ts)
+		if !changed {
+			return nil
+		}
+		tmp := Card{Format: Format, StressUnit: c.StressUnit, Families: rf, Terms: rt}
+		m, err := tmp.Model()
+		if err != nil {
+			return fmt.Errorf("%s: %v", name, err)
+		}
+		out = append(out, AlikeModel{Name: name, Model: m, Reflection: true})
+		return nil
+	}
+	if err := reflect("the card's model reflected", c.Families, c.Terms); err != nil {
+		return nil, err
+	}
+	for _, cc := range near {
+		if err := reflect(cc.Name+" reflected", cc.Model.Families, cc.Model.Terms); err != nil {
+			return nil, fmt.Errorf("selection candidate %v", err)
+		}
 	}
 	return out, nil
+}
+
+// reflected returns families and terms reflected about axis 1: angles
+// negated, and fung-general's couplings b5 and b6 of the normal strains
+// to the shear negated. changed is false when nothing changed (no family
+// off the axes, no coupling).
+func reflected(fams []Family, ts []Term) (rf []Family, rt []Term, changed bool) {
+	for _, f := range fams {
+		if f.AngleDeg != nil {
+			a := -*f.AngleDeg
+			if math.Mod(*f.AngleDeg, 90) != 0 {
+				changed = true
+			}
+			f.AngleDeg = &a
+		}
+		rf = append(rf, f)
+	}
+	for _, t := range ts {
+		if t.ID == "fung-general" && len(t.Params) > 0 {
+			p := map[string]float64{}
+			for k, v := range t.Params {
+				if k == "b5" || k == "b6" {
+					if v != 0 {
+						changed = true
+					}
+					v = -v
+				}
+				p[k] = v
+			}
+			t.Params = p
+		}
+		rt = append(rt, t)
+	}
+	return rf, rt, changed
+}
+
+// Candidates counts the models of alike that are selection candidates,
+// not reflections.
+func Candidates(alike []AlikeModel) int {
+	n := 0
+	for _, a := range alike {
+		if !a.Reflection {
+			n++
+		}
+	}
+	return n
 }
 
 // Band is the range of the stresses of a model and of its near-equivalent

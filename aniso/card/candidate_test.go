@@ -102,3 +102,150 @@ func TestNearEquivalentsWithinOneStandardError(t *testing.T) {
 		t.Errorf("a card without a selection has near-equivalents %v", n)
 	}
 }
+
+// Data without shear information cannot tell a fibre family at +α from one
+// at −α (the normal stresses of a pure biaxial stretch are the same, the
+// shear stresses opposite), so the band of a card fitted to such data
+// spans both signs. Card: one family at +30° on a neo-Hookean matrix,
+// with a mirror pair ±30° near-equivalent; at F = diag(1.1, 1) the band's
+// σ12 must reach the reflected family's, −σ12 of the card's own model.
+// Reference: the closed form of the fibre's Cauchy shear stress σ12 =
+// 2 ψ4 a1 a2 with a = F a0 and ψ4 = k1 (I4 − 1) exp(k2 (I4 − 1)²)
+// (Holzapfel, Gasser & Ogden 2000, eq. of the anisotropic stress; the
+// matrix term has no shear under a diagonal F). Before 2026-12-05 the band
+// held only the candidates as fitted, at +30° and ±30°: its σ12 was
+// [0, 10.98] kPa while the reflected material, which fits such data as
+// well, has −10.98 kPa. On a synthetic family at −30° (independent code,
+// five ratio protocols, 1 % noise, fitted as +30° with the sign unknown)
+// the truth lay outside the band by 44.5 % of its largest stress on the
+// 1:0 strip and by 112 % on 1:0.5 turned 45°; with the reflections, 0.1 %.
+func TestAlikeBandSpansTheAngleSignWithoutShear(t *testing.T) {
+	const k1, k2, alpha, l1 = 60.0, 8.0, 30.0, 1.1
+	single := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(alpha)}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: k1, Params: []float64{k2}},
+		},
+	}
+	pair := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(alpha)}, {Name: "f2", Angle: aniso.Rad(-alpha)}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 4},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: k1 / 2, Params: []float64{k2}},
+			{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: k1 / 2, Params: []float64{k2}},
+		},
+	}
+	for _, signKnown := range []bool{false, true} {
+		c := FromModel(single, "kPa", nil)
+		c.Fit = &FitSection{AngleSignKnown: signKnown}
+		c.Selection = &SelectionSection{Pareto: []CandidateCard{
+			{Name: "single", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(single)},
+			{Name: "mirror", HeldoutError: 0.0105, Model: NewCandidateModel(pair)},
+		}}
+		alike, err := c.AlikeModels()
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := c.Model()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := AlikeBand(m, alike, [4]float64{l1, 0, 0, 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a0 := [2]float64{math.Cos(aniso.Rad(alpha)), math.Sin(aniso.Rad(alpha))}
+		a := [2]float64{l1 * a0[0], a0[1]}
+		e := a[0]*a[0] + a[1]*a[1] - 1
+		s12 := 2 * k1 * e * math.Exp(k2*e*e) * a[0] * a[1]
+		if math.Abs(b.Own[2]-s12) > 1e-9*s12 {
+			t.Fatalf("σ12 of the card's model %.12g, closed form %.12g", b.Own[2], s12)
+		}
+		if n := Candidates(alike); n != 1 {
+			t.Errorf("sign known %v: %d candidates in the band, want 1 (reflections are not candidates)", signKnown, n)
+		}
+		if signKnown {
+			if len(alike) != 1 || b.Low[2] < -1e-9 {
+				t.Errorf("with shear information the band holds only the candidates: %d models, σ12 low %.6g", len(alike), b.Low[2])
+			}
+			continue
+		}
+		if math.Abs(b.Low[2]+s12) > 1e-9*s12 || math.Abs(b.High[2]-s12) > 1e-9*s12 {
+			t.Errorf("without shear information the band's σ12 is [%.6g, %.6g], want ±%.6g (the family at ±%g°)", b.Low[2], b.High[2], s12, alpha)
+		}
+		for j := range 2 {
+			if math.Abs(b.High[j]-b.Low[j]) > 1e-9*math.Abs(b.Own[j]) {
+				t.Errorf("normal stress %d: the reflections changed the band [%.12g, %.12g]; a reflection keeps the normal stresses of a pure stretch", j, b.Low[j], b.High[j])
+			}
+		}
+	}
+}
+
+// An untested strip that leaves the fitted data range says so: beyond it
+// every model of the band extrapolates, and they can agree far from the
+// material (audit 2026-12-05: a cubic-law fibre family on sutures, fibres
+// stretched to 1.013 in the tests, strip band 5.5 % of the card's largest
+// stress while the card's model was off by 78 % of the true peak). The
+// strip 1:0 stretches a fibre at α to √I4 = √(λ² cos²α + sin²α) (I4 =
+// a0·C a0, Spencer 1971), which passes 1.013 at λ = 1.0193 for α = 35°:
+// the first of the strip's 40 points to stretch 1.14 beyond it is
+// 1 + 0.14·6/40 = 1.021. A shear range that does not hold 0 (sutures) is
+// not such a departure: the strip is a pure stretch.
+func TestUntestedStripLeavesTheDataRange(t *testing.T) {
+	fam := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(35)}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 40, Params: []float64{5}},
+		},
+	}
+	other := &aniso.Model{Families: fam.Families, Terms: []aniso.Term{fam.Terms[0], {Shape: terms.Lookup("fib-quad"), Family: 0, Weight: 25}}}
+	c := FromModel(fam, "kPa", nil)
+	c.Fit = &FitSection{AngleSignKnown: true}
+	c.Selection = &SelectionSection{Pareto: []CandidateCard{
+		{Name: "chosen", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(fam)},
+		{Name: "other", HeldoutError: 0.0105, Model: NewCandidateModel(other)},
+	}}
+	s12 := Interval{-0.15, -0.001}
+	c.DataRange = &DataRange{Stretch1: Interval{1, 1.14}, Stretch2: Interval{1, 1.14}, Shear12: &s12, Shear21: &s12, FibreStretch: []Interval{{1, 1.013}}}
+	eq := [][][4]float64{{{1.07, -0.05, -0.04, 1.07}, {1.14, -0.15, -0.12, 1.14}}}
+	strips, err := NewUntestedStrips(eq, true, c, fam)
+	if err != nil || len(strips) != 2 {
+		t.Fatalf("strips %+v, %v", strips, err)
+	}
+	if want := "from stretch 1.02 on the strip leaves the fitted data range (fibre stretch of f1"; !strings.Contains(strips[0].Summary, want) {
+		t.Errorf("1:0 summary %q, want it to contain %q", strips[0].Summary, want)
+	}
+	c.DataRange.FibreStretch = []Interval{{1, 1.2}}
+	strips, err = NewUntestedStrips(eq, true, c, fam)
+	if err != nil || len(strips) != 2 || strings.Contains(strips[0].Summary+strips[1].Summary, "leaves") {
+		t.Errorf("strips inside the range (the shear range without 0 aside) say they leave it: %+v, %v", strips, err)
+	}
+}
+
+// A card whose cross-validated choice has no near-equivalent has no band,
+// which is not a narrow band (audit 2026-12-05: an isotropic two-term
+// Ogden solid, Ogden 1972 with μ, α = 4, 6 and 1, −4, fitted without its
+// strips, had none, and the strips were missed by 6.5 % of their peak);
+// AloneInSelection tells such a card from one without a selection or
+// whose choice was not cross-validated, by the one-standard-error
+// yardstick (Hastie, Tibshirani & Friedman 2009, §7.10).
+func TestAloneInSelection(t *testing.T) {
+	m := &CandidateModel{}
+	c := &Card{Selection: &SelectionSection{Pareto: []CandidateCard{
+		{Name: "chosen", Chosen: true, HeldoutError: 0.0100, HeldoutStdErr: 0.0010, Model: m},
+		{Name: "outside", HeldoutError: 0.0111, Model: m},
+	}}}
+	if !c.AloneInSelection() {
+		t.Error("a choice with no candidate within one standard error is alone")
+	}
+	c.Selection.Pareto[1].HeldoutError = 0.0109
+	if c.AloneInSelection() {
+		t.Error("a choice with a candidate within one standard error is not alone")
+	}
+	c.Selection.Pareto[0].HeldoutError = Num(math.NaN())
+	if c.AloneInSelection() || (&Card{}).AloneInSelection() {
+		t.Error("a card without a cross-validated choice is not alone: it has no band for another reason")
+	}
+}

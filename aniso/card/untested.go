@@ -3,6 +3,7 @@ package card
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/weft-tools/weft/aniso"
 )
@@ -57,6 +58,7 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 	if err != nil || len(alike) == 0 {
 		return nil, err
 	}
+	n := Candidates(alike)
 	var dirs []float64
 	var top [2]float64
 	for _, pts := range protocols {
@@ -91,11 +93,26 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 			continue
 		}
 		var widest, largest float64
+		leaves, why := 0.0, ""
 		for i := range stripPoints {
 			l := 1 + (top[k]-1)*float64(i+1)/stripPoints
 			F := [4]float64{l, 0, 0, 1}
 			if k == 1 {
 				F = [4]float64{1, 0, 0, l}
+			}
+			if c.DataRange != nil && leaves == 0 {
+				// The strip holds no shear; a sutured specimen's shear
+				// range need not hold 0, and that alone is no stretch
+				// beyond the tests: the stretches and fibre stretches are.
+				var o []string
+				for _, q := range c.DataRange.Outside(m, F) {
+					if !strings.HasPrefix(q, "F12 ") && !strings.HasPrefix(q, "F21 ") {
+						o = append(o, q)
+					}
+				}
+				if len(o) > 0 {
+					leaves, why = l, strings.Join(o, ", ")
+				}
 			}
 			b, err := AlikeBand(m, alike, F)
 			if err != nil {
@@ -110,8 +127,14 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		if largest > 0 {
 			pct = 100 * widest / largest
 		}
-		out = append(out, UntestedStrip{Label: st.label, Stretch: Num(top[k]), Models: len(alike), Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
-			Summary: fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", st.label, st.held, top[k], len(alike), pct)})
+		summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", st.label, st.held, top[k], n, pct)
+		if leaves > 0 {
+			// Beyond the tested range every model of the band
+			// extrapolates, and they can agree far from the material.
+			summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where they all extrapolate and the spread settles nothing", leaves, why)
+		}
+		out = append(out, UntestedStrip{Label: st.label, Stretch: Num(top[k]), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
+			Summary: summary})
 	}
 	return out, nil
 }

@@ -14,7 +14,7 @@ import (
 // the held-out protocols no worse (orthotropyRule). A cohort fits no
 // classical presets in its search, so a cohort of Fung-type orthotropic
 // solids (Tong & Fung 1976) read as a confident 2: three synthetic ones,
-// each `undecided` under `weft fit`, gave a pooled `2` at ±0.0°, ±33.4°.
+// each `undecided` by its own Discover, gave a pooled `2` at ±0.0°, ±33.4°.
 // The cohort now fits those presets to every specimen when its pooled
 // verdict has fibre families, pools them as it pools its candidates (summed
 // BIC, held-out error averaged over specimens) and applies the same rule.

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/weft-tools/weft/aniso/card"
@@ -33,19 +34,11 @@ func (b *alikeBand) add(band card.Band, line int) {
 		b.failed[name]++
 	}
 	for j, x := range band.Own {
-		b.largest = max(b.largest, abs(x))
+		b.largest = max(b.largest, math.Abs(x))
 		if w := band.High[j] - band.Low[j]; w > b.widest[j] {
 			b.widest[j], b.widestLine[j] = w, line
 		}
 	}
-}
-
-// abs is |x|.
-func abs(x float64) float64 {
-	if x < 0 {
-		return -x
-	}
-	return x
 }
 
 // notes says which models the band holds and where it is widest, and,

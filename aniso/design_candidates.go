@@ -42,21 +42,19 @@ func (d *designer) testedRanges() {
 	d.margin = ExtrapolationMargin * math.Max(d.lamHi-1, 0)
 }
 
-// runDirections returns the strain direction of each fitted protocol at its
-// largest deformation: atan2(F22 − 1, F11 − 1) in degrees.
+// runDirections returns the direction each fitted protocol tested, that of
+// its largest Green strain (PeakGreenDirection), in degrees.
 func (d *designer) runDirections() []float64 {
 	var out []float64
 	for _, pi := range d.p.Protocols {
 		pr := &d.p.Specimen.Protocols[pi]
-		best, at := -1.0, [4]float64{1, 0, 0, 1}
-		for _, pt := range pr.Points {
-			F := pt.F
-			dr := math.Max(math.Max(math.Abs(F[0]-1), math.Abs(F[1])), math.Max(math.Abs(F[2]), math.Abs(F[3]-1)))
-			if dr > best {
-				best, at = dr, F
-			}
+		path := make([][4]float64, len(pr.Points))
+		for i, pt := range pr.Points {
+			path[i] = pt.F
 		}
-		out = append(out, Deg(math.Atan2(at[3]-1, at[0]-1)))
+		if deg, ok := PeakGreenDirection(path); ok {
+			out = append(out, deg)
+		}
 	}
 	return out
 }
@@ -113,9 +111,16 @@ func (d *designer) candidates(set DesignSettings) ([]PlannedTest, []string) {
 		if ratio[0] < 0 || ratio[1] < 0 || ratio == [2]float64{} {
 			continue
 		}
+		// The ratio's direction where its planned path peaks, measured as
+		// the fitted protocols' are.
+		e := d.lamHi - 1
+		planned, size := GreenDirection([4]float64{1 + ratio[0]*e, 0, 0, 1 + ratio[1]*e})
+		if !(size > 0) {
+			planned = Deg(math.Atan2(ratio[1], ratio[0]))
+		}
 		run := false
 		for _, dir := range runDirs {
-			if math.Abs(Deg(math.Atan2(ratio[1], ratio[0]))-dir) < sameDirectionDeg {
+			if math.Abs(planned-dir) < sameDirectionDeg {
 				run = true
 			}
 		}

@@ -144,3 +144,27 @@ func (k *Kinematics) fibreSC(s, c float64) FibreKinematics {
 	}
 	return f
 }
+
+// GreenDirection returns the direction, in degrees, of the normal in-plane
+// Green strain E = (FᵀF − 1)/2 of F = (F11, F12, F21, F22), shear
+// included: atan2(E22, E11), and its size hypot(E11, E22). This is the
+// direction of a protocol's ratio: 0° is a strip along axis 1 (axis 2
+// held at stretch 1), 45° equibiaxial, 90° a strip along axis 2.
+func GreenDirection(F [4]float64) (deg, size float64) {
+	e11 := (F[0]*F[0] + F[2]*F[2] - 1) / 2
+	e22 := (F[1]*F[1] + F[3]*F[3] - 1) / 2
+	return Deg(math.Atan2(e22, e11)), math.Hypot(e11, e22)
+}
+
+// PeakGreenDirection returns the GreenDirection of path at its point of
+// largest normal Green strain: the direction the protocol tested. ok is
+// false when no point of path is strained.
+func PeakGreenDirection(path [][4]float64) (deg float64, ok bool) {
+	far := 0.0
+	for _, F := range path {
+		if d, n := GreenDirection(F); n > far {
+			far, deg = n, d
+		}
+	}
+	return deg, far > 0
+}

@@ -62,17 +62,11 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 	var dirs []float64
 	var top [2]float64
 	for _, pts := range protocols {
-		far, at := 0.0, [4]float64{1, 0, 0, 1}
 		for _, F := range pts {
-			// The Green strain E = (FᵀF − 1)/2, shear included.
-			e11, e22 := (F[0]*F[0]+F[2]*F[2]-1)/2, (F[1]*F[1]+F[3]*F[3]-1)/2
-			if n := math.Hypot(e11, e22); n > far {
-				far, at = n, F
-			}
 			top[0], top[1] = math.Max(top[0], F[0]), math.Max(top[1], F[3])
 		}
-		if far > 0 {
-			dirs = append(dirs, aniso.Deg(math.Atan2((at[1]*at[1]+at[3]*at[3]-1)/2, (at[0]*at[0]+at[2]*at[2]-1)/2)))
+		if d, ok := aniso.PeakGreenDirection(pts); ok {
+			dirs = append(dirs, d)
 		}
 	}
 	cols := []int{0, 1}

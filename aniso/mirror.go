@@ -197,6 +197,33 @@ func copyModel(m *Model) *Model {
 	return c
 }
 
+// Reflected returns m reflected about axis 1, Q = diag(1, −1): every
+// fibre angle negated, and every parameter odd in the shear strain
+// (terms.Param.OddInShear, such as fung-general's couplings b5 and b6)
+// negated, so that its energy at C is m's at Q C Qᵀ (material symmetry,
+// e.g. Holzapfel 2000, §6.7). Pure biaxial stretch cannot tell the two
+// apart (package documentation, Mirror symmetry). changed is false when
+// the reflection is m itself: every family on an axis and no such
+// parameter away from 0.
+func Reflected(m *Model) (r *Model, changed bool) {
+	r = copyModel(m)
+	for f := range r.Families {
+		if !selfMirror(r.Families[f].Angle) {
+			changed = true
+		}
+		r.Families[f].Angle = -r.Families[f].Angle
+	}
+	for i := range r.Terms {
+		for k, p := range r.Terms[i].Shape.Params {
+			if p.OddInShear && k < len(r.Terms[i].Params) && r.Terms[i].Params[k] != 0 {
+				r.Terms[i].Params[k] = -r.Terms[i].Params[k]
+				changed = true
+			}
+		}
+	}
+	return r, changed
+}
+
 // withAngle is m with family f at angleDeg degrees.
 func withAngle(m *Model, f int, angleDeg float64) *Model {
 	c := copyModel(m)

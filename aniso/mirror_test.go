@@ -118,3 +118,57 @@ func TestMirrorAlternatives(t *testing.T) {
 		t.Errorf("family on axis 2: %v", a)
 	}
 }
+
+// A reflection Q = diag(1, −1) of the material (material symmetry, e.g.
+// Holzapfel 2000, Nonlinear Solid Mechanics, §6.7, from memory): the
+// reflected model's energy at F is the model's at Q F Qᵀ, and its Cauchy
+// stress is Q σ(Q F Qᵀ) Qᵀ, the normal stresses equal and the shear
+// stress of opposite sign. Checked for fibre families (one spread in the
+// plane) and fung-general with both shear couplings, at a deformation with
+// shear; a model whose families lie on the axes and that has no coupling
+// is its own reflection.
+func TestReflectedIsMaterialReflection(t *testing.T) {
+	m := &Model{
+		Families: []Family{{Name: "f1", Angle: 25 * deg}, {Name: "f2", Angle: -70 * deg, Planar: true, Concentration: 6}},
+		Terms: []Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2},
+			{Shape: terms.Lookup("fung-general"), Family: -1, Weight: 1.5, Params: []float64{8, 5, 1, 3, 0.7, -0.4}},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 8, Params: []float64{3}},
+			{Shape: terms.Lookup("cof-quad"), Family: 0, Weight: 2},
+			{Shape: terms.Lookup("fib-exp"), Family: 1, Weight: 5, Params: []float64{4}},
+		},
+	}
+	r, changed := Reflected(m)
+	if !changed {
+		t.Fatal("a model with families off the axes and couplings is reported as its own reflection")
+	}
+	for _, F := range [][4]float64{{1.15, 0.07, -0.04, 1.08}, {1.05, -0.12, 0.03, 1.2}} {
+		QFQ := [4]float64{F[0], -F[1], -F[2], F[3]}
+		got, err := r.Evaluate(F)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, err := m.Evaluate(QFQ)
+		if err != nil {
+			t.Fatal(err)
+		}
+		scale := math.Abs(want.Energy) + 1e-300
+		if math.Abs(got.Energy-want.Energy) > 1e-12*scale {
+			t.Errorf("F %v: reflected energy %.15g, the model's at QFQ %.15g", F, got.Energy, want.Energy)
+		}
+		for i, s := range []float64{1, 1, -1} {
+			if math.Abs(got.Cauchy[i]-s*want.Cauchy[i]) > 1e-10*(1+math.Abs(want.Cauchy[i])) {
+				t.Errorf("F %v: reflected σ[%d] = %.12g, want %.12g", F, i, got.Cauchy[i], s*want.Cauchy[i])
+			}
+		}
+	}
+	if m.Terms[1].Params[4] != 0.7 || m.Families[0].Angle != 25*deg {
+		t.Error("Reflected changed the model it was given")
+	}
+	onAxes := &Model{Families: []Family{{Angle: 0}, {Angle: 90 * deg}},
+		Terms: []Term{{Shape: terms.Lookup("fung"), Family: -1, Weight: 1, Params: []float64{8, 5, 1, 3}},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 8, Params: []float64{3}}, {Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 4, Params: []float64{2}}}}
+	if _, changed := Reflected(onAxes); changed {
+		t.Error("families on the axes and a Fung-type term without couplings: reported as changed by a reflection")
+	}
+}

@@ -123,13 +123,15 @@ func init() {
 		eval:      fungExp, slope: fungExpSlope,
 	}
 	register(s)
+	// b5 and b6 multiply E11 (E12 + E21) and E22 (E12 + E21).
+	b5 := fungCoefficient("b5", "coupling 2 b5 E11 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 1 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true)
+	b6 := fungCoefficient("b6", "coupling 2 b6 E22 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 2 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true)
+	b5.OddInShear, b6.OddInShear = true, true
 	general := &Shape{ID: "fung-general", Arg: Green, Title: "generalised Fung-type exponential of the Green strain: a full quadratic form, shear coupled to the normal strains",
 		Formula: "w*(exp(b_1*E11^2 + b_2*E22^2 + 2*b_3*E11*E22 + b_4*(E12^2 + E21^2) + 2*b_5*E11*(E12 + E21) + 2*b_6*E22*(E12 + E21)) - 1)/2",
 		LaTeX:   `\frac{w}{2}\left(e^{b_1 E_{11}^{2} + b_2 E_{22}^{2} + 2b_3 E_{11} E_{22} + b_4 \left(E_{12}^{2} + E_{21}^{2}\right) + 2b_5 E_{11}\left(E_{12} + E_{21}\right) + 2b_6 E_{22}\left(E_{12} + E_{21}\right)} - 1\right)`,
-		Params: append(append([]Param(nil), s.Params...),
-			fungCoefficient("b5", "coupling 2 b5 E11 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 1 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true),
-			fungCoefficient("b6", "coupling 2 b6 E22 (E12 + E21) in Q (dimensionless, may be negative): normal strain along axis 2 against shear; data without in-plane shear strain cannot determine it", 0, -1000, nil, true)),
-		Weight: "w = c of Tong & Fung 1976 (f′(0) = 1/2): at small strain S11 = c (b1 E11 + b3 E22 + 2 b5 E12), S22 = c (b3 E11 + b2 E22 + 2 b6 E12), S12 = c (b4 E12 + b5 E11 + b6 E22)",
+		Params:  append(append([]Param(nil), s.Params...), b5, b6),
+		Weight:  "w = c of Tong & Fung 1976 (f′(0) = 1/2): at small strain S11 = c (b1 E11 + b3 E22 + 2 b5 E12), S22 = c (b3 E11 + b2 E22 + 2 b6 E12), S12 = c (b4 E12 + b5 E11 + b6 E22)",
 		PolyconvexNote: "NOT polyconvex in general: an exponential of a quadratic form of the Green strain in the tester's axes; " +
 			"it is convex in E when the form is positive definite (b1 > 0, b2 > 0, b1 b2 > b3², and det M > 0 where shear acts), " +
 			"which is checked and reported for each parameter set",

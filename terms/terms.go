@@ -144,6 +144,11 @@ type Param struct {
 	// shear strain E12: data without shear strain cannot determine it, and
 	// a fitter holds it at 0 instead.
 	Shear bool
+	// OddInShear is true for a parameter that multiplies a product odd in
+	// the shear strain (such as E11 E12): reflecting the material about
+	// axis 1, which turns E12 into −E12, turns the parameter into its
+	// negative.
+	OddInShear bool
 	// TeX is the symbol as written in LaTeX formulas, e.g. `\alpha`; empty
 	// means Symbol.
 	TeX string

@@ -135,65 +135,22 @@ func (c *Card) AlikeModels() ([]AlikeModel, error) {
 	if len(near) == 0 || c.Fit == nil || c.Fit.AngleSignKnown {
 		return out, nil
 	}
-	// A reflection Q = diag(1, −1) of the material maps its energy W(C) to
-	// W(Q C Qᵀ): a family at α goes to −α and E12 to −E12, while C11 and
-	// C22 stay (material symmetry, e.g. Holzapfel 2000, §6.7).
-	reflect := func(name string, fams []Family, ts []Term) error {
-		rf, rt, changed := reflected(fams, ts)
-		if !changed {
-			return nil
-		}
-		tmp := Card{Format: Format, StressUnit: c.StressUnit, Families: rf, Terms: rt}
-		m, err := tmp.Model()
-		if err != nil {
-			return fmt.Errorf("%s: %v", name, err)
-		}
-		out = append(out, AlikeModel{Name: name, Model: m, Reflection: true})
-		return nil
-	}
-	if err := reflect("the card's model reflected", c.Families, c.Terms); err != nil {
+	own, err := c.Model()
+	if err != nil {
 		return nil, err
 	}
-	for _, cc := range near {
-		if err := reflect(cc.Name+" reflected", cc.Model.Families, cc.Model.Terms); err != nil {
-			return nil, fmt.Errorf("selection candidate %v", err)
+	models := []*aniso.Model{own}
+	names := []string{"the card's model reflected"}
+	for _, a := range out {
+		models = append(models, a.Model)
+		names = append(names, a.Name+" reflected")
+	}
+	for i, m := range models {
+		if r, changed := aniso.Reflected(m); changed {
+			out = append(out, AlikeModel{Name: names[i], Model: r, Reflection: true})
 		}
 	}
 	return out, nil
-}
-
-// reflected returns families and terms reflected about axis 1: angles
-// negated, and fung-general's couplings b5 and b6 of the normal strains
-// to the shear negated. changed is false when nothing changed (no family
-// off the axes, no coupling).
-func reflected(fams []Family, ts []Term) (rf []Family, rt []Term, changed bool) {
-	for _, f := range fams {
-		if f.AngleDeg != nil {
-			a := -*f.AngleDeg
-			if math.Mod(*f.AngleDeg, 90) != 0 {
-				changed = true
-			}
-			f.AngleDeg = &a
-		}
-		rf = append(rf, f)
-	}
-	for _, t := range ts {
-		if t.ID == "fung-general" && len(t.Params) > 0 {
-			p := map[string]float64{}
-			for k, v := range t.Params {
-				if k == "b5" || k == "b6" {
-					if v != 0 {
-						changed = true
-					}
-					v = -v
-				}
-				p[k] = v
-			}
-			t.Params = p
-		}
-		rt = append(rt, t)
-	}
-	return rf, rt, changed
 }
 
 // Candidates counts the models of alike that are selection candidates,

@@ -43,9 +43,10 @@ func (c *Card) CandidateModelOf(cc *CandidateCard) (*aniso.Model, error) {
 // NearEquivalents returns the selection's other candidates — discovered
 // forms and classical presets — that predicted the held-out protocols as
 // well as the chosen one: their mean held-out error is not above the
-// chosen candidate's by more than its standard error (the yardstick of
-// the one-standard-error rule, Hastie, Tibshirani & Friedman 2009, §7.10),
-// and each carries its model. The tested protocols do not tell these
+// chosen candidate's by more than its standard error, floored at the
+// verdict's stderr_floor as the selection rule floors it (the yardstick
+// of the one-standard-error rule, Hastie, Tibshirani & Friedman 2009,
+// §7.10), and each carries its model. The tested protocols do not tell these
 // models from the chosen one, so where their predictions part, a protocol
 // that was not tested is not settled by the data. nil when the card has no
 // selection or its chosen candidate was not cross-validated.
@@ -63,10 +64,19 @@ func (c *Card) NearEquivalents() []*CandidateCard {
 	if chosen == nil || !finite(float64(chosen.HeldoutError)) {
 		return nil
 	}
-	limit := float64(chosen.HeldoutError)
-	if se := float64(chosen.HeldoutStdErr); finite(se) {
-		limit += se
+	// The standard error is floored as the selection rule floors it
+	// (verdict.stderr_floor): a chosen model whose folds happen to agree
+	// closely must not narrow the yardstick below the noise.
+	se := 0.0
+	if v := float64(chosen.HeldoutStdErr); finite(v) {
+		se = v
 	}
+	if c.Verdict != nil {
+		if f := float64(c.Verdict.StdErrFloor); finite(f) {
+			se = math.Max(se, f)
+		}
+	}
+	limit := float64(chosen.HeldoutError) + se
 	var out []*CandidateCard
 	for _, group := range [][]CandidateCard{sel.Pareto, sel.Presets} {
 		for i := range group {

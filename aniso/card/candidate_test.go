@@ -94,6 +94,18 @@ func TestNearEquivalentsWithinOneStandardError(t *testing.T) {
 			t.Fatalf("near-equivalents %v, want %v", got, want)
 		}
 	}
+	// The selection rule floors the standard error (verdict.stderr_floor);
+	// so does the yardstick: with the chosen model's own 0.0001 and a floor
+	// of 0.0010 the limit is 0.0110 again.
+	c.Selection.Pareto[0].HeldoutStdErr = 0.0001
+	c.Verdict = &VerdictSection{StdErrFloor: 0.0010}
+	if got := len(c.NearEquivalents()); got != len(want) {
+		t.Errorf("with the standard error below the floor: %d near-equivalents, want %d", got, len(want))
+	}
+	c.Verdict = nil
+	if got := len(c.NearEquivalents()); got != 1 {
+		t.Errorf("without a floor and a standard error of 0.0001: %d near-equivalents, want 1 (better)", got)
+	}
 	c.Selection.Pareto[0].HeldoutError = nan
 	if n := c.NearEquivalents(); n != nil {
 		t.Errorf("a chosen candidate without a held-out error has near-equivalents %v", n)

@@ -191,6 +191,23 @@ func TestAlikeBandSpansTheAngleSignWithoutShear(t *testing.T) {
 				t.Errorf("normal stress %d: the reflections changed the band [%.12g, %.12g]; a reflection keeps the normal stresses of a pure stretch", j, b.Low[j], b.High[j])
 			}
 		}
+		// The strip 1:0 to the same stretch, untested by an equibiaxial
+		// protocol: its normal stresses agree, its shear (which grips
+		// carry) spans ±σ12, so the strip's shear spread is 2 σ12 at its
+		// end, where σ12 is largest, and its summary says so. Before
+		// 2026-12-05 a strip reported the normal spread alone: demo M1's
+		// 1:0 read 0.2 % while the shear parted by 105 % of that stress.
+		strips, err := NewUntestedStrips([][][4]float64{{{1.05, 0, 0, 1.05}, {l1, 0, 0, l1}}}, false, c, m)
+		if err != nil || len(strips) != 2 || strips[0].Label != "1:0" {
+			t.Fatalf("untested strips %+v, %v; want 1:0 and 0:1", strips, err)
+		}
+		st := strips[0]
+		if math.Abs(float64(st.WidestShear)-2*s12) > 1e-9*s12 || !(float64(st.Percent) < 1e-6) {
+			t.Errorf("strip 1:0: shear spread %.12g (want 2 σ12 = %.12g), normal spread %.3g %% (want 0)", float64(st.WidestShear), 2*s12, float64(st.Percent))
+		}
+		if want := 100 * 2 * s12 / float64(st.Largest); math.Abs(float64(st.ShearPercent)-want) > 1e-9*want || !strings.Contains(st.Summary, "shear stress the grips would carry") {
+			t.Errorf("strip 1:0: shear %.6g %% (want %.6g %%), summary %q", float64(st.ShearPercent), want, st.Summary)
+		}
 	}
 }
 

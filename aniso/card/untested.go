@@ -35,6 +35,13 @@ type UntestedStrip struct {
 	Widest  Num `json:"widest"`
 	Largest Num `json:"largest"`
 	Percent Num `json:"percent"`
+	// WidestShear is the largest high − low of a shear stress (σ12, or
+	// P12 and P21) over the strip, which the grips that hold a strip
+	// carry; ShearPercent is 100 WidestShear/Largest. Data without shear
+	// information cannot tell a fibre angle's sign, and the shear is where
+	// the two signs part.
+	WidestShear  Num `json:"widest_shear"`
+	ShearPercent Num `json:"shear_percent"`
 	// Summary says it in words.
 	Summary string `json:"summary"`
 }
@@ -43,6 +50,11 @@ type UntestedStrip struct {
 // Green strain, degrees) a tested protocol's largest strain must come to a
 // strip for the strip to count as tested.
 const untestedDirectionDeg = 5
+
+// ShearPercentShown is the smallest spread of a strip's shear stress, in
+// per cent of its largest normal stress, that its summary mentions: below
+// it the models agree that a gripped strip carries no shear worth naming.
+const ShearPercentShown = 0.1
 
 // stripPoints is how many points stand for a strip's path.
 const stripPoints = 40
@@ -69,9 +81,9 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 			dirs = append(dirs, d)
 		}
 	}
-	cols := []int{0, 1}
+	cols, shearCols := []int{0, 1}, []int{2}
 	if nominal {
-		cols = []int{3, 4}
+		cols, shearCols = []int{3, 4}, []int{5, 6}
 	}
 	var out []UntestedStrip
 	for k, st := range []struct {
@@ -87,7 +99,7 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		if tested || top[k] <= 1 {
 			continue
 		}
-		var widest, largest float64
+		var widest, largest, widestShear float64
 		leaves, why := 0.0, ""
 		for i := range stripPoints {
 			l := 1 + (top[k]-1)*float64(i+1)/stripPoints
@@ -117,19 +129,25 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 				widest = math.Max(widest, b.High[j]-b.Low[j])
 				largest = math.Max(largest, math.Abs(b.Own[j]))
 			}
+			for _, j := range shearCols {
+				widestShear = math.Max(widestShear, b.High[j]-b.Low[j])
+			}
 		}
-		pct := 0.0
+		pct, shearPct := 0.0, 0.0
 		if largest > 0 {
-			pct = 100 * widest / largest
+			pct, shearPct = 100*widest/largest, 100*widestShear/largest
 		}
 		summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", st.label, st.held, top[k], n, pct)
+		if shearPct >= ShearPercentShown {
+			summary += fmt.Sprintf(", and by up to %.1f %% of it in the shear stress the grips would carry", shearPct)
+		}
 		if leaves > 0 {
 			// Beyond the tested range every model of the band
 			// extrapolates, and they can agree far from the material.
 			summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where they all extrapolate and the spread settles nothing", leaves, why)
 		}
 		out = append(out, UntestedStrip{Label: st.label, Stretch: Num(top[k]), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
-			Summary: summary})
+			WidestShear: Num(widestShear), ShearPercent: Num(shearPct), Summary: summary})
 	}
 	return out, nil
 }

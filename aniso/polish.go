@@ -38,6 +38,7 @@ func (s *search) polish() {
 	if err == nil {
 		if better(r) {
 			best.Searched, best.Result = best.Result, r
+			s.d.noteRefittedAnswer(best)
 		} else {
 			best.Result.Profiles = r.Profiles
 		}

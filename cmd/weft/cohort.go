@@ -438,11 +438,16 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 				warnings = append(warnings, w.String())
 			}
 		}
-		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings, DirectionGap: math.NaN()}
+		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings, DirectionGap: math.NaN(), MisfitRatio: math.NaN()}
 		if m.at >= 0 {
 			cs := c.Specimens[m.at]
 			sp.Verdict, sp.Form, sp.DirectionGap = cs.Verdict, cs.Form, cs.DirectionGap
 			if cs.Err == nil && m.err == nil {
+				// As weft fit does, on the points fitted; a ratio that
+				// cannot be computed leaves the specimen unflagged.
+				if ratio, err := aniso.FlagMisfit(m.prob, cs.Result); err == nil && ratio > 0 {
+					sp.MisfitRatio = ratio
+				}
 				sp.Result, sp.CV, sp.Folder = cs.Result, cs.CV, m.folder
 				cards[m.folder] = card.FromFit(m.prob, cs.Result, nil)
 				fits = append(fits, cs.Result)

@@ -37,6 +37,10 @@ type Specimen struct {
 	// DirectionGap is aniso.CohortSpecimen.DirectionGap (degrees; NaN when
 	// not compared).
 	DirectionGap float64
+	// MisfitRatio is the ratio of its fit's residuals to its data's own
+	// point-to-point scatter (aniso.MisfitScatterRatio); NaN when it could
+	// not be estimated or the specimen failed.
+	MisfitRatio float64
 	// Err says why it failed; empty when it did not.
 	Err string
 	// Warnings are what reading its test file warned about (a repeated
@@ -178,6 +182,11 @@ type SpecimenRow struct {
 	// directions and the cohort's (0 when neither has fibres); null when
 	// not compared or when only one of the two models has fibres.
 	DirectionGap card.Num `json:"own_direction_gap_deg"`
+	// MisfitRatio is its fit's residuals over its data's own
+	// point-to-point scatter (Specimen.MisfitRatio): about 1 where the
+	// shared form follows the specimen to its noise, aniso.MisfitFlagRatio
+	// or more where it misses a feature of it; null when not estimated.
+	MisfitRatio card.Num `json:"misfit_ratio"`
 	// FamiliesRelabelled is true when the specimen's two fibre families
 	// match the population fit's in the other order (aniso.FamiliesSwapped):
 	// its Parameters are then under the population's labels, its own card's
@@ -265,6 +274,15 @@ func Build(in *Input) *Summary {
 	s.Notes = append(s.Notes, statisticsNotes...)
 	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Flags) },
 		"specimens whose own fit raised flags (a standard error larger than its value, a correlated pair, a parameter at a bound, …): %s; their values enter the statistics at full weight — see each one's flags in cohort.json and its card")
+	// A shared form can miss what one specimen does (another structure,
+	// a softening, an artefact): until 2026-12-05 only weft fit measured
+	// that, and a cohort gave such a specimen's parameters without a word.
+	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int {
+		if float64(r.MisfitRatio) >= aniso.MisfitFlagRatio {
+			return 1
+		}
+		return 0
+	}, fmt.Sprintf("specimens the shared form misfits, its residuals %g or more times their data's own point-to-point scatter (misfit_ratio; each such fit carries a flag): %%s; the form does not follow what these specimens do, their parameters enter the statistics at full weight, and their own weft fit may find another form", aniso.MisfitFlagRatio))
 	// Reading warnings were until 2026-12-05 only in each specimen's own
 	// card: the cohort's outputs said nothing of a block written twice or
 	// a load held at the peak in one of its files.
@@ -395,7 +413,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 	values := make([][]float64, len(s.Parameters))
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
-			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form, DirectionGap: card.Num(sp.DirectionGap),
+			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form, DirectionGap: card.Num(sp.DirectionGap), MisfitRatio: card.Num(sp.MisfitRatio),
 			Warnings: append([]string(nil), sp.Warnings...)}
 		byName := map[string]aniso.Estimate{}
 		if sp.Result == nil {

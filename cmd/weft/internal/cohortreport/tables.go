@@ -10,8 +10,9 @@ import (
 
 // CSV is cohort.csv: one row per specimen with file, specimen, group,
 // status (ok or failed) and error, then every parameter with its unit in
-// the header (angles as in ParamInfo), the lowest R² and the held-out
-// error; an undefined number is an empty cell.
+// the header (angles as in ParamInfo), the lowest R², the held-out
+// error and the misfit ratio (SpecimenRow.MisfitRatio); an undefined
+// number is an empty cell.
 func (s *Summary) CSV() ([]byte, error) {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
@@ -19,7 +20,7 @@ func (s *Summary) CSV() ([]byte, error) {
 	for _, p := range s.Parameters {
 		head = append(head, paramHeader(p))
 	}
-	head = append(head, "lowest_r2", "heldout_error")
+	head = append(head, "lowest_r2", "heldout_error", "misfit_ratio")
 	if err := w.Write(head); err != nil {
 		return nil, err
 	}
@@ -33,7 +34,7 @@ func (s *Summary) CSV() ([]byte, error) {
 			}
 			rec = append(rec, csvNum(float64(v)))
 		}
-		rec = append(rec, csvNum(float64(r.LowestR2)), csvNum(float64(r.HeldOut)))
+		rec = append(rec, csvNum(float64(r.LowestR2)), csvNum(float64(r.HeldOut)), csvNum(float64(r.MisfitRatio)))
 		if err := w.Write(rec); err != nil {
 			return nil, err
 		}

@@ -34,20 +34,7 @@ func TestGreenDirectionWorkedByHand(t *testing.T) {
 // strips measure a protocol's direction: the plan counts the strip 1:0 as
 // run, as the card does, and plans it in the current mounting no more.
 func TestPlanReadsRunRatiosInGreenStrain(t *testing.T) {
-	m := &Model{Terms: []Term{{Shape: lookup("i1-lin"), Family: -1, Weight: 5}, {Shape: lookup("i1-quad"), Family: -1, Weight: 20}}}
-	s := synthSpecimen(t, m, synthOptions{ratios: [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}, {1, 0.09}, {0, 1}}, maxStrain: 0.3, noise: 0.01})
-	p, err := NewProblem(s, nil)
-	if err != nil {
-		t.Fatal(err)
-	}
-	r, err := Fit(p, Structure{Layout: LayoutNone, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("i1-quad"), Family: -1}}}, Settings{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	d, err := PlanTests(p, r, nil, DesignSettings{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, d := isotropicPlan(t, synthOptions{ratios: [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}, {1, 0.09}, {0, 1}}, maxStrain: 0.3, noise: 0.01})
 	for _, ts := range d.Tests {
 		if ts.Test.Ratio == [2]float64{1, 0} {
 			t.Errorf("%s planned, though the 0.09 protocol tested it (Green strain within 5° of axis 1)", ts.Test.Describe())

@@ -288,25 +288,7 @@ func TestCohortCarriesReadingWarnings(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
 	write := func(name string, c10 float64, copyRow int) string {
-		var b strings.Builder
-		b.WriteString("# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n")
-		for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
-			for i := 0; i <= 20; i++ {
-				e := 0.15 * float64(i) / 20
-				l1, l2 := 1+r[0]*e, 1+r[1]*e
-				s3 := 1 / (l1 * l1 * l2 * l2)
-				row := fmt.Sprintf("%g:%g,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1, l2, 2*c10*(l1*l1-s3), 2*c10*(l2*l2-s3))
-				b.WriteString(row)
-				if i == copyRow {
-					b.WriteString(row)
-				}
-			}
-		}
-		path := filepath.Join(dir, name)
-		if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return path
+		return writeMembrane(t, dir, name, func(float64) float64 { return 2 * c10 }, membraneOptions{points: 20, maxStrain: 0.15, copyRow: copyRow})
 	}
 	copied, clean := write("copied.csv", 10, 7), write("clean.csv", 12, -1)
 	out := filepath.Join(dir, "cohort")
@@ -364,25 +346,7 @@ func TestCohortFlagsSpecimensItsFormMisfits(t *testing.T) {
 	dir := t.TempDir()
 	rng := rand.New(rand.NewPCG(7, 11))
 	write := func(name string, stress func(i1 float64) float64) string {
-		var b strings.Builder
-		b.WriteString("# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n")
-		for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
-			lt := 1 + 0.2*r[0]
-			peak := stress(lt*lt+1+1/(lt*lt)) * (lt*lt - 1/(lt*lt))
-			for i := 0; i <= 30; i++ {
-				e := 0.2 * float64(i) / 30
-				l1, l2 := 1+r[0]*e, 1+r[1]*e
-				s3 := 1 / (l1 * l1 * l2 * l2)
-				g := stress(l1*l1 + l2*l2 + s3)
-				fmt.Fprintf(&b, "%g:%g,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1, l2,
-					g*(l1*l1-s3)+0.01*peak*rng.NormFloat64(), g*(l2*l2-s3)+0.01*peak*rng.NormFloat64())
-			}
-		}
-		path := filepath.Join(dir, name)
-		if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return path
+		return writeMembrane(t, dir, name, stress, membraneOptions{points: 30, maxStrain: 0.2, noise: 0.01, rng: rng, copyRow: -1})
 	}
 	neo := write("neo.csv", func(float64) float64 { return 2 * 10 })
 	dem := write("demiray.csv", func(i1 float64) float64 { return 10 * math.Exp(8*(i1-3)) })
@@ -434,4 +398,51 @@ func TestCohortFlagsSpecimensItsFormMisfits(t *testing.T) {
 	if err != nil || !strings.Contains(strings.SplitN(string(csvRaw), "\n", 2)[0], ",misfit_ratio") {
 		t.Errorf("cohort.csv has no misfit_ratio column: %v\n%s", err, csvRaw)
 	}
+}
+
+// membraneOptions shape a file of writeMembrane: points+1 rows a protocol
+// up to λ − 1 = maxStrain on the leading axis, Gaussian noise of noise
+// times the protocol's peak stress drawn from rng (none when 0), and the
+// row copyRow of each protocol written twice (none when negative).
+type membraneOptions struct {
+	points    int
+	maxStrain float64
+	noise     float64
+	rng       *rand.Rand
+	copyRow   int
+}
+
+// writeMembrane writes a SYNTHETIC isotropic incompressible membrane in
+// plane stress, σ = g(I1) (B − λ3² I) with g = 2 ∂W/∂I1 (Rivlin 1948, as
+// in Holzapfel 2000, Nonlinear Solid Mechanics, §6.5), under the ratios
+// 1:1, 1:0.5 and 0.5:1, into dir/name, and returns its path.
+func writeMembrane(t *testing.T, dir, name string, g func(i1 float64) float64, o membraneOptions) string {
+	t.Helper()
+	var b strings.Builder
+	b.WriteString("# notes = synthetic\nprotocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n")
+	for _, r := range [][2]float64{{1, 1}, {1, 0.5}, {0.5, 1}} {
+		lt := 1 + o.maxStrain*r[0]
+		peak := g(lt*lt+1+1/(lt*lt)) * (lt*lt - 1/(lt*lt))
+		for i := 0; i <= o.points; i++ {
+			e := o.maxStrain * float64(i) / float64(o.points)
+			l1, l2 := 1+r[0]*e, 1+r[1]*e
+			s3 := 1 / (l1 * l1 * l2 * l2)
+			gi := g(l1*l1 + l2*l2 + s3)
+			s11, s22 := gi*(l1*l1-s3), gi*(l2*l2-s3)
+			if o.noise > 0 {
+				s11 += o.noise * peak * o.rng.NormFloat64()
+				s22 += o.noise * peak * o.rng.NormFloat64()
+			}
+			row := fmt.Sprintf("%g:%g,%.6f,%.6f,%.6g,%.6g\n", r[0], r[1], l1, l2, s11, s22)
+			b.WriteString(row)
+			if i == o.copyRow {
+				b.WriteString(row)
+			}
+		}
+	}
+	path := filepath.Join(dir, name)
+	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
 }

@@ -205,8 +205,10 @@ var (
 // (select.go); the pick inside the winning form follows the
 // one-standard-error rule (Hastie, Tibshirani & Friedman 2009, §7.10). The
 // stages are methods of search, each in a file named after it (package
-// documentation, Where things live), called in turn below (those that fit
-// candidates through searchForms, which a cohort's scouts share).
+// documentation, Where things live), called in turn: searchForms (which a
+// cohort's scouts share: fitFullForms, refitSubsets, forwardSteps,
+// secondFamilyRefits, planarVariants), paretoFront, comparePresets,
+// candidateMetrics, crossValidate, decide and polish.
 func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	start := time.Now()
 	s, err := newSearch(all, set)

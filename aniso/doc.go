@@ -139,34 +139,46 @@
 // stress columns and the variable-projection loss), nnls.go, optimize.go
 // (Levenberg–Marquardt), scan.go and scanmemo.go (coarse angle starts),
 // fit.go (Fit), uncertainty.go, combination.go and profile.go (standard
-// errors, correlated combinations, angle profiles), degenerate.go (terms
+// errors, correlated combinations, and the angle profiles with their
+// profile-likelihood intervals, Result.profiles, AngleProfile; only angles
+// are profiled), degenerate.go (terms
 // the data do not feel), result.go (Result), predict.go (Predict,
 // Metrics), band.go (confidence bands of the model curve), misfit.go (a
 // fit's residuals against the data's own point-to-point scatter, and the
 // flag where they exceed it, FlagMisfit).
 //
 // Discovery, Discover in discover.go, runs these stages in turn, each in a
-// file named after it: the points it searches on (searchpoints.go); the
-// full forms (fullforms.go); the term-subset search (termsubsets.go, with
-// the shape parameters a term has alone, shapeprofile.go) and
-// the refits and forward steps it feeds (refits.go); the best one-family
-// models refitted with a second family of the same kind (secondfamily.go);
-// the spread variants, and the best one-family spread models refitted as
-// a pair whose densities may sum to one flat-topped peak
-// (spreadvariants.go); the Pareto front and fit
-// quality (front.go); leave-one-protocol-out cross-validation
-// (crossval.go); the decision (select.go: its rule, first the family
-// verdict, then the pick inside the winning form; verdict.go writes the
-// verdict up from the evidence of evidence.go, and lookalikes.go the
-// look-alike rules and the architecture tie that can leave it undecided,
-// and the cautions a verdict with fibres along a test axis carries when
-// the data show an untared preload or scattered shear);
+// file named after it: the points it searches on (searchpoints.go,
+// searchSubset); the full forms (fullforms.go, fitFullForms); the
+// term-subset search (termsubsets.go, searchSubsets, with the shape
+// parameters a term has alone, shapeprofile.go) and the refits and
+// forward steps it feeds (refits.go, refitSubsets and forwardSteps); the
+// best one-family models refitted with a second family of the same kind
+// (secondfamily.go, secondFamilyRefits); the spread variants, and the best
+// one-family spread models refitted as a pair whose densities may sum to
+// one flat-topped peak (spreadvariants.go, planarVariants); the Pareto
+// front, the classical presets fitted beside it, and fit quality
+// (front.go: paretoFront, comparePresets, candidateMetrics);
+// leave-one-protocol-out cross-validation (crossval.go: crossValidate, and
+// cvFold, which scores a candidate's held-out error, CVFold.Error); the
+// decision (select.go, decide and decideOn: first the family verdict's
+// walk over forms, then the pick inside the winning form by the
+// one-standard-error rule, oneSE, kept admissible by ensureAdmissible,
+// then the verdict, and last orthotropyRule and presetCaution; verdict.go
+// writes the verdict up (verdictFor) from the evidence of evidence.go, and
+// lookalikes.go holds the rules that can leave it
+// undecided, lookAlikeRules (with inSampleDisagreement and
+// fibreDisagreement of select.go), architectureTieRule and orthotropyRule
+// (a Fung-type preset without fibres that fits better; README, "Fibre
+// families: the verdict"), and the cautions: the classical preset that
+// fits better (presetCaution), fibres along a test axis when the data
+// show an untared preload or scattered shear, ideal families only);
 // the polish on every point, with two free families relabelled in angle
 // order first (polish.go, familyorder.go), and a flag where models of
 // other forms that predict as well put its one fibre direction elsewhere
-// (formangle.go). runRefits (fullforms.go) fits a stage's refits side by
-// side on workers of pool.go, the package's one pool type (scans and profiles
-// size their own). Forms, layouts and presets are named in layout.go and
+// (formangle.go, formAngleFlag). runRefits (fullforms.go) fits a stage's
+// refits side by side on workers of pool.go, the package's one pool type
+// (scans and profiles size their own). Forms, layouts and presets are named in layout.go and
 // formlabels.go. Cohorts (cohort.go, cohortselect.go, cohortpool.go) run
 // the search stages on scout specimens; cohortfung.go compares a cohort's
 // verdict with the Fung-type presets and its specimens' directions with
@@ -174,6 +186,7 @@
 // rediscovers a specimen with one axis's stress scaled, to show whether
 // the verdict depends on the calibration of the test's axes. Test planning: design.go
 // (PlanTests), design_candidates.go (candidate tests and their
-// extrapolation), design_info.go (information gain), design_questions.go
+// extrapolation, designer.candidates; also hasGreen, which orthotropyRule
+// uses), design_info.go (information gain), design_questions.go
 // (the questions a test can answer), design_score.go (scores).
 package aniso

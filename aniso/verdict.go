@@ -12,9 +12,10 @@ type Verdict struct {
 	// Families is "0", "1", "2", "1-or-mirror-pair" (without shear
 	// information one family and a mirror pair give the same normal
 	// stresses) or "undecided" (the evidence points at another family
-	// count without settling it, one protocol cannot decide, or a
-	// look-alike or a tie the walk cannot weigh stands beside its answer:
-	// lookAlikeRules, architectureTieRule).
+	// count without settling it, one protocol cannot decide, a look-alike
+	// or a tie the walk cannot weigh stands beside its answer, or a
+	// Fung-type preset without fibres fits better: lookAlikeRules,
+	// architectureTieRule, orthotropyRule, all in lookalikes.go).
 	Families string
 	// Reason states the evidence in words and numbers.
 	Reason string
@@ -42,12 +43,15 @@ type Verdict struct {
 	// Decider names the extra measurement that would settle an undecided
 	// case, or is empty.
 	Decider string
-	// InSampleBest names the candidate (in Discovery.Pareto) that fits the
-	// data better in sample, by ΔBIC ≥ DisagreeDeltaBIC, than every model
-	// the held-out errors favour, when that is why the verdict is
-	// undecided: a model with two fibre directions against every
-	// one-direction model (inSampleDisagreement), or a model with fibres
-	// against every isotropic model (fibreDisagreement); empty otherwise.
+	// InSampleBest names the candidate that fits the data better in
+	// sample, by ΔBIC ≥ DisagreeDeltaBIC, than every model the held-out
+	// errors favour, when that is why the verdict is undecided: a model
+	// (in Discovery.Pareto) with two fibre directions against every
+	// one-direction model (inSampleDisagreement), or one with fibres
+	// against every isotropic model (fibreDisagreement); or a Fung-type
+	// preset without fibres (in Discovery.Presets, "preset:fung" or
+	// "preset:fung-general") against the chosen model with fibres
+	// (orthotropyRule, lookalikes.go); empty otherwise.
 	InSampleBest string
 	// TiesWith names the candidate (in Discovery.Pareto) with two fibre
 	// families, placed elsewhere or adding one far from the one-family

@@ -99,10 +99,10 @@ func protocolBefore(a, b *Protocol, ka, kb protocolKey) bool {
 	return a.Label < b.Label
 }
 
-// SortProtocols puts the specimen's protocols in the protocol order (see
-// Protocol order in this file's documentation: the most balanced first,
-// each axis-1-dominated protocol before its mirror), which depends on
-// their data alone. Prepare calls it; a caller that builds a Specimen in
+// SortProtocols puts the specimen's protocols in the protocol order
+// (package documentation, Protocol order: the most balanced first, each
+// axis-1-dominated protocol before its mirror), which depends on their
+// data alone. Prepare calls it; a caller that builds a Specimen in
 // code may call it so that the order of its protocols cannot change a fit.
 func (s *Specimen) SortProtocols() {
 	keys := make([]protocolKey, len(s.Protocols))

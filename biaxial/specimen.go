@@ -62,6 +62,19 @@
 //
 // Protocols are usually named by the ratio of the two axes' targets (stretch
 // or load), e.g. 1:1, 1:0.75, 0.75:1, 1:0.5, 0.5:1 (common practice).
+//
+// # Protocol order
+//
+// Prepare lists a specimen's protocols in an order taken from their data
+// alone, never from their labels or their place in the file
+// (Specimen.SortProtocols, order.go), because a fit's floating-point sums
+// depend on the order of the rows, and the same protocols written in
+// another order must give the same fit. The order is the usual sequence of
+// a stretch-ratio study (common practice): the most balanced protocol
+// first (smaller over larger axis peak Green strain, rounded to 0.01), then
+// ever less balanced ones, each axis-1-dominated protocol before its
+// axis-2 mirror (1:1, 1:0.75, 0.75:1, 1:0.5, 0.5:1, …); the tie-breaks are
+// listed at the head of order.go.
 package biaxial
 
 import "strings"

@@ -10,6 +10,22 @@
 // Interval.Outside one span (datarange.go); the JSON Schema of a card is
 // model.schema.json, embedded and returned by Schema (schema.go).
 //
+// The other files, one job each: card.go (Card, Parse, FromModel, the
+// conventions and cautions written into every card), strict.go
+// (ParseLimits, the strict reader), fit.go and sections.go (the typed
+// sections: FitSection, VerdictSection, SelectionSection, SplitSection),
+// candidate.go (the model each cross-validated selection candidate
+// carries, CandidateModel; the near-equivalent candidates, NearEquivalents
+// and AlikeModels; and the prediction band over them at one deformation,
+// AlikeBand, which weft predict's alike_low_ and alike_high_ columns
+// show), untested.go (the strips the data did not test, NewUntestedStrips),
+// alternatives.go (the mirror alternatives, NewAlternativesSection),
+// calibration.go (discovery repeated with one axis's stress scaled,
+// NewCalibrationCheck), provenance.go (Provenance, Setup) and former.go
+// (keys that older cards used). weft fit adds to the card FromFit builds
+// the untested strips of a discovered model (NewUntestedStrips, from the
+// protocols' deformations) and, when asked, the calibration check.
+//
 // A card's numbers carry units: weights, RMSE and stress ranges in the
 // card's stress unit, angles in degrees from axis 1 towards axis 2, the
 // specimen's geometry in mm, model parameters dimensionless; each field's

@@ -99,8 +99,10 @@ type VerdictSection struct {
 	Decider string `json:"decider,omitempty"`
 	// InSampleBest names the selection candidate that fits better in
 	// sample than every model the held-out errors favour (two fibre
-	// directions against one, or fibres against none), when that
-	// disagreement is why the verdict is undecided
+	// directions against one, or fibres against none), or the Fung-type
+	// preset without fibres ("preset:fung", "preset:fung-general") that
+	// fits better than the chosen model with fibres and predicts no worse,
+	// when that is why the verdict is undecided
 	// (aniso.Verdict.InSampleBest).
 	InSampleBest string `json:"in_sample_best,omitempty"`
 	// TiesWith names the selection candidate with two fibre families,

@@ -10,8 +10,16 @@
 // sections are built by small functions in view.go and sections.go
 // (leftout.go reads from the card why candidates were not
 // cross-validated) into the template report.html (html.go), the plots in
-// plots*.go, the formulas as MathML in mathml.go. export.go holds what the
-// cohort report reuses of the drawing.
+// plots*.go (curves.go the model curves and R², palette.go the colours),
+// the formulas as MathML in mathml.go and numbers in format.go. export.go
+// holds what the cohort report reuses of the drawing.
+//
+// The verdict is written in two places: its own section, the verdict in
+// words with the reason, the decider, the untested strips and the table of
+// fibre layouts (Input.verdictSection, view.go; verdictText, html.go), and
+// the sentence before the chosen model in the methods paragraph
+// (Input.verdictWords, with fibrelessRivalWords for a verdict left
+// undecided by a Fung-type preset, sections.go).
 package report
 
 import "path"

@@ -62,8 +62,8 @@ const FitMaxConcentration = 200
 
 // quadRule is a panel policy of the planar quadrature: Gauss–Legendre of
 // a fixed order per panel; a peak of the integrand sharper than
-// PeakCurvature (in u) gets break points at PeakBreaks standard deviations;
-// no panel is wider than MaxPanel or PanelScale standard deviations of the
+// peakCurvature (in u) gets break points at peakBreaks standard deviations;
+// no panel is wider than maxPanel or panelScale standard deviations of the
 // sharper peak.
 type quadRule struct {
 	nodes, weights []float64

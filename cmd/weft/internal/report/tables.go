@@ -242,7 +242,7 @@ func splitUnit(h string) (string, string) {
 	return h, ""
 }
 
-// readFitTable parses fit.csv as writeFitCSV writes it.
+// readFitTable parses fit.csv as WriteFitTable writes it.
 func readFitTable(r io.Reader, file string) (*fitTable, error) {
 	rows, err := csv.NewReader(r).ReadAll()
 	if err != nil {

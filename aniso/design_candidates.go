@@ -5,7 +5,6 @@ import (
 	"math"
 
 	"github.com/weft-tools/weft/biaxial"
-	"github.com/weft-tools/weft/terms"
 )
 
 // inPlanePrincipal returns the principal stretches λ_small ≤ λ_large of
@@ -57,29 +56,6 @@ func (d *designer) runDirections() []float64 {
 		}
 	}
 	return out
-}
-
-// hasGreen reports whether m has a Green-strain (Fung-type) term, whose
-// axes are the tester's: turning the specimen is not a turn of its terms.
-func hasGreen(m *Model) bool {
-	for _, t := range m.Terms {
-		if t.Shape.Arg == terms.Green && t.Weight > 0 {
-			return true
-		}
-	}
-	return false
-}
-
-// greenCoupled reports whether m has a generalised Green-strain term
-// (fung-general), whose couplings b5, b6 of normal and shear strain let
-// it shear on sutures and hold turned orthotropic axes.
-func greenCoupled(m *Model) bool {
-	for _, t := range m.Terms {
-		if t.Shape.Arg == terms.Green && t.Weight > 0 && len(t.Params) == 6 {
-			return true
-		}
-	}
-	return false
 }
 
 // candidates lists the planned tests: in the current mounting every ratio

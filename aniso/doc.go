@@ -165,14 +165,15 @@
 // walk over forms, then the pick inside the winning form by the
 // one-standard-error rule, oneSE, kept admissible by ensureAdmissible,
 // then the verdict, and last orthotropyRule and presetCaution; verdict.go
-// writes the verdict up (verdictFor) from the evidence of evidence.go, and
-// lookalikes.go holds the rules that can leave it
-// undecided, lookAlikeRules (with inSampleDisagreement and
-// fibreDisagreement of select.go), architectureTieRule and orthotropyRule
-// (a Fung-type preset without fibres that fits better; README, "Fibre
-// families: the verdict"), and the cautions: the classical preset that
-// fits better (presetCaution), fibres along a test axis when the data
-// show an untared preload or scattered shear, ideal families only);
+// writes the verdict up (verdictFor) from the evidence of evidence.go;
+// lookalikes.go holds the rules that can leave it undecided,
+// lookAlikeRules (with inSampleDisagreement and fibreDisagreement of
+// select.go) and architectureTieRule; presetrules.go the classical
+// presets' rules, orthotropyRule (a Fung-type preset without fibres that
+// fits better; README, "Fibre families: the verdict") and presetCaution
+// (a classical preset that fits better), with hasGreen and greenCoupled;
+// cautions.go the cautions of fibres along a test axis when the data show
+// an untared preload or scattered shear, and of ideal families only);
 // the polish on every point, with two free families relabelled in angle
 // order first (polish.go, familyorder.go), and a flag where models of
 // other forms that predict as well put its one fibre direction elsewhere
@@ -186,7 +187,6 @@
 // rediscovers a specimen with one axis's stress scaled, to show whether
 // the verdict depends on the calibration of the test's axes. Test planning: design.go
 // (PlanTests), design_candidates.go (candidate tests and their
-// extrapolation, designer.candidates; also hasGreen, which orthotropyRule
-// uses), design_info.go (information gain), design_questions.go
+// extrapolation, designer.candidates), design_info.go (information gain), design_questions.go
 // (the questions a test can answer), design_score.go (scores).
 package aniso

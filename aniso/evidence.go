@@ -8,7 +8,7 @@ import (
 )
 
 // evidence is what the verdict walk and the one-standard-error rule
-// (select.go, verdict.go, lookalikes.go) need to know about the data behind the
+// (select.go, verdict.go, lookalikes.go, cautions.go) need to know about the data behind the
 // candidates' losses and held-out errors: for one specimen its problem
 // (problemEvidence), for a cohort the specimens pooled (cohort.go).
 type evidence struct {

@@ -15,7 +15,8 @@ type Verdict struct {
 	// count without settling it, one protocol cannot decide, a look-alike
 	// or a tie the walk cannot weigh stands beside its answer, or a
 	// Fung-type preset without fibres fits better: lookAlikeRules,
-	// architectureTieRule, orthotropyRule, all in lookalikes.go).
+	// architectureTieRule in lookalikes.go, orthotropyRule in
+	// presetrules.go).
 	Families string
 	// Reason states the evidence in words and numbers.
 	Reason string
@@ -51,7 +52,7 @@ type Verdict struct {
 	// against every isotropic model (fibreDisagreement); or a Fung-type
 	// preset without fibres (in Discovery.Presets, "preset:fung" or
 	// "preset:fung-general") against the chosen model with fibres
-	// (orthotropyRule, lookalikes.go); empty otherwise.
+	// (orthotropyRule, presetrules.go); empty otherwise.
 	InSampleBest string
 	// TiesWith names the candidate (in Discovery.Pareto) with two fibre
 	// families, placed elsewhere or adding one far from the one-family

@@ -1,0 +1,51 @@
+package card
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
+)
+
+// An untested strip that leaves the fitted data range says so: beyond it
+// every model of the band extrapolates, and they can agree far from the
+// material (audit 2026-12-05: a cubic-law fibre family on sutures, fibres
+// stretched to 1.013 in the tests, strip band 5.5 % of the card's largest
+// stress while the card's model was off by 78 % of the true peak). The
+// strip 1:0 stretches a fibre at α to √I4 = √(λ² cos²α + sin²α) (I4 =
+// a0·C a0, Spencer 1971), which passes 1.013 at λ = 1.0193 for α = 35°:
+// the first of the strip's 40 points to stretch 1.14 beyond it is
+// 1 + 0.14·6/40 = 1.021. A shear range that does not hold 0 (sutures) is
+// not such a departure: the strip is a pure stretch.
+func TestUntestedStripLeavesTheDataRange(t *testing.T) {
+	fam := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(35)}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 40, Params: []float64{5}},
+		},
+	}
+	other := &aniso.Model{Families: fam.Families, Terms: []aniso.Term{fam.Terms[0], {Shape: terms.Lookup("fib-quad"), Family: 0, Weight: 25}}}
+	c := FromModel(fam, "kPa", nil)
+	c.Fit = &FitSection{AngleSignKnown: true}
+	c.Selection = &SelectionSection{Pareto: []CandidateCard{
+		{Name: "chosen", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(fam)},
+		{Name: "other", HeldoutError: 0.0105, Model: NewCandidateModel(other)},
+	}}
+	s12 := Interval{-0.15, -0.001}
+	c.DataRange = &DataRange{Stretch1: Interval{1, 1.14}, Stretch2: Interval{1, 1.14}, Shear12: &s12, Shear21: &s12, FibreStretch: []Interval{{1, 1.013}}}
+	eq := [][][4]float64{{{1.07, -0.05, -0.04, 1.07}, {1.14, -0.15, -0.12, 1.14}}}
+	strips, err := NewUntestedStrips(eq, true, c, fam)
+	if err != nil || len(strips) != 2 {
+		t.Fatalf("strips %+v, %v", strips, err)
+	}
+	if want := "from stretch 1.02 on the strip leaves the fitted data range (fibre stretch of f1"; !strings.Contains(strips[0].Summary, want) {
+		t.Errorf("1:0 summary %q, want it to contain %q", strips[0].Summary, want)
+	}
+	c.DataRange.FibreStretch = []Interval{{1, 1.2}}
+	strips, err = NewUntestedStrips(eq, true, c, fam)
+	if err != nil || len(strips) != 2 || strings.Contains(strips[0].Summary+strips[1].Summary, "leaves") {
+		t.Errorf("strips inside the range (the shear range without 0 aside) say they leave it: %+v, %v", strips, err)
+	}
+}

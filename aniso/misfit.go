@@ -120,3 +120,17 @@ func (d *Discovery) NoteMisfit(ratio float64) {
 	}
 	v.Reason += fmt.Sprintf("; caution: the chosen model's residuals are %.1f times the data's own scatter, and the margins of this verdict are scaled by a noise estimate that includes that misfit, so the data hold a feature no candidate writes (a third family, families coupled to each other, a softening): the number of families is what the tested protocols need of the catalogue's forms, not necessarily the tissue's, and a loading off the tested axes should be tested before the families are relied on", ratio)
 }
+
+// NoteCohortMisfit adds to a cohort's verdict with fibre families the
+// caution NoteMisfit adds to one specimen's, when the shared form's
+// residuals are MisfitFlagRatio or more times the specimens' own scatter
+// at the median specimen (median of their MisfitScatterRatio; flagged of
+// fitted specimens at or above it): the pooled walk's margins then rest on
+// a noise estimate that includes the misfit of most specimens.
+func (d *Discovery) NoteCohortMisfit(median float64, flagged, fitted int) {
+	v := &d.Verdict
+	if median < MisfitFlagRatio || (v.Families != "1" && v.Families != "2" && v.Families != "1-or-mirror-pair") {
+		return
+	}
+	v.Reason += fmt.Sprintf("; caution: the shared form misfits %d of the %d specimens fitted, its residuals %.1f times their own scatter at the median specimen, and the margins of this verdict are scaled by a noise estimate that includes that misfit: the number of families is what the tested protocols need of the catalogue's forms, not necessarily the tissue's, and a loading off the tested axes should be tested before the families are relied on", flagged, fitted, median)
+}

@@ -459,6 +459,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 		}
 		in.Specimens = append(in.Specimens, sp)
 	}
+	noteCohortMisfit(c, in.Specimens)
 	if c.Population != nil {
 		in.Population = c.Population.Model
 		pc := card.FromFit(c.Pooled, c.Population, nil)
@@ -496,6 +497,32 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 		}
 	}
 	return in, cards, nil
+}
+
+// noteCohortMisfit adds to a discovered cohort's verdict the caution of
+// a shared form that misfits most of its specimens (the median of their
+// misfit ratios at aniso.MisfitFlagRatio or more).
+func noteCohortMisfit(c *aniso.Cohort, sps []cohortreport.Specimen) {
+	if c.Discovery == nil {
+		return
+	}
+	var ratios []float64
+	flagged := 0
+	for _, sp := range sps {
+		if !math.IsNaN(sp.MisfitRatio) {
+			ratios = append(ratios, sp.MisfitRatio)
+			if sp.MisfitRatio >= aniso.MisfitFlagRatio {
+				flagged++
+			}
+		}
+	}
+	if len(ratios) == 0 {
+		return
+	}
+	sort.Float64s(ratios)
+	n := len(ratios)
+	median := (ratios[(n-1)/2] + ratios[n/2]) / 2
+	c.Discovery.NoteCohortMisfit(median, flagged, n)
 }
 
 // spanOf is the span of the data of ps together, with the fibre stretch

@@ -185,28 +185,29 @@ func (d *Discovery) noteRefittedAnswer(c *Candidate) {
 		!strings.Contains(d.Verdict.Reason, " at "+anglesText(was)) {
 		return
 	}
-	norm := func(r *Result) (angles, spreads []float64) {
-		for _, f := range r.Model.Families {
-			a := WrapDeg(Deg(f.Angle))
-			if !r.SignKnown {
-				a = math.Abs(a)
-			}
-			angles = append(angles, a)
-			spreads = append(spreads, f.Concentration)
+	// Each searched family against the refitted one it is nearest to:
+	// the refit may list two free families in the other order.
+	angle := func(r *Result, f int) float64 {
+		a := WrapDeg(Deg(r.Model.Families[f].Angle))
+		if !r.SignKnown {
+			a = math.Abs(a)
 		}
-		sort.Float64s(angles)
-		sort.Float64s(spreads)
-		return angles, spreads
+		return a
 	}
-	wa, ws := norm(was)
-	na, ns := norm(now)
-	moved := false
-	for i := range wa {
-		gap := math.Abs(WrapDeg(na[i] - wa[i]))
-		moved = moved || gap > answerMovedDeg
-		if was.Structure.Planar {
-			moved = moved || math.Abs(ns[i]-ws[i]) > answerMovedSpread*math.Max(ws[i], 1)
+	movedAs := func(pair []int) bool {
+		moved := false
+		for f, g := range pair {
+			moved = moved || math.Abs(WrapDeg(angle(now, g)-angle(was, f))) > answerMovedDeg
+			if was.Structure.Planar {
+				b0, b1 := was.Model.Families[f].Concentration, now.Model.Families[g].Concentration
+				moved = moved || math.Abs(b1-b0) > answerMovedSpread*math.Max(b0, 1)
+			}
 		}
+		return moved
+	}
+	moved := movedAs([]int{0, 1}[:len(was.Model.Families)])
+	if len(was.Model.Families) == 2 {
+		moved = moved && movedAs([]int{1, 0})
 	}
 	if !moved {
 		return

@@ -47,6 +47,23 @@ func TestReasonNamesTheRefittedAngles(t *testing.T) {
 			t.Errorf("%s: reason %q does not say %q", c.name, d.Verdict.Reason, c.want)
 		}
 	}
+	// Two families with known signs, listed in the other order by the
+	// refit and one across ±90°: -89.8°, 30.0° against 30.2°, 89.9° moved
+	// by 0.3° at most; against 30.2°, 80.0° by 10.2°.
+	two := func(a, b float64) *Result {
+		return &Result{Model: &Model{Families: []Family{{Angle: Rad(a)}, {Angle: Rad(b)}}}, SignKnown: true,
+			Structure: Structure{Layout: LayoutFree}}
+	}
+	for _, c := range []struct {
+		now  *Result
+		note bool
+	}{{two(30.2, 89.9), false}, {two(30.2, 80), true}} {
+		d := &Discovery{Verdict: Verdict{Reason: "two fibre families at 30.0°, -89.8°: they beat 1 decisively"}}
+		d.noteRefittedAnswer(&Candidate{Searched: two(-89.8, 30), Result: c.now})
+		if got := strings.Contains(d.Verdict.Reason, "refitted on every point"); got != c.note {
+			t.Errorf("two families refitted to %.1f°, %.1f°: note %v, want %v (%q)", Deg(c.now.Model.Families[0].Angle), Deg(c.now.Model.Families[1].Angle), got, c.note, d.Verdict.Reason)
+		}
+	}
 	// A reason that quotes another model's angles is left alone.
 	d := &Discovery{Verdict: Verdict{Reason: "one fibre direction at ±50.0°: it beats 0 decisively"}}
 	d.noteRefittedAnswer(&Candidate{Searched: fam(30, 0), Result: fam(40, 0)})

@@ -178,57 +178,16 @@ func (e *engine) minimize(theta []float64, free []bool, maxIter int) lmResult {
 			break
 		}
 		g, H := e.gradHess(idx)
-		// Drop parameters held at a bound by the descent direction.
-		var keep []int
-		for a, i := range idx {
-			q := &e.params[i]
-			if !q.Periodic && ((theta[i] <= q.Lo && g[a] > 0) || (theta[i] >= q.Hi && g[a] < 0)) {
-				continue
-			}
-			keep = append(keep, a)
-		}
+		keep := e.unblocked(theta, idx, g)
 		if len(keep) == 0 {
 			break
 		}
-		k := len(keep)
 		accepted := false
 		for tries := 0; tries < 12; tries++ {
-			M := make([]float64, k*k)
-			rhs := make([]float64, k)
-			maxDiag := 0.0
-			for a := range keep {
-				maxDiag = math.Max(maxDiag, H[keep[a]*len(idx)+keep[a]])
-			}
-			for a, ia := range keep {
-				for b, ib := range keep {
-					M[a*k+b] = H[ia*len(idx)+ib]
-				}
-				M[a*k+a] += lambda * (H[ia*len(idx)+ia] + 1e-9*maxDiag + 1e-300)
-				rhs[a] = -g[ia]
-			}
-			if !cholSolve(M, k, rhs, 1, 1e-12) {
+			pred, ok := e.dampedStep(theta, trial, step, idx, keep, g, H, lambda)
+			if !ok {
 				lambda *= 10
 				continue
-			}
-			copy(trial, theta)
-			for a, ia := range keep {
-				i := idx[ia]
-				trial[i] = e.params[i].project(theta[i] + rhs[a])
-				step[a] = trial[i] - theta[i]
-				if e.params[i].Periodic {
-					step[a] = rhs[a]
-				}
-			}
-			// The decrease the Gauss–Newton model predicts for the step
-			// taken (bounds applied): −(2gᵀδ + δᵀHδ), since the loss is
-			// ‖r‖² and g = Jᵀr, H = JᵀJ.
-			pred := 0.0
-			for a, ia := range keep {
-				hd := 0.0
-				for b, ib := range keep {
-					hd += H[ia*len(idx)+ib] * step[b]
-				}
-				pred -= step[a] * (2*g[ia] + hd)
 			}
 			if math.Abs(pred) < lmRoundoff*loss {
 				// The model promises no change the loss's own round-off
@@ -273,4 +232,64 @@ func (e *engine) minimize(theta []float64, free []bool, maxIter int) lmResult {
 	}
 	res.Loss = loss
 	return res
+}
+
+// unblocked returns the positions in idx (indices into g) of the
+// parameters the descent direction does not push against a bound they are
+// held at.
+func (e *engine) unblocked(theta []float64, idx []int, g []float64) []int {
+	var keep []int
+	for a, i := range idx {
+		q := &e.params[i]
+		if !q.Periodic && ((theta[i] <= q.Lo && g[a] > 0) || (theta[i] >= q.Hi && g[a] < 0)) {
+			continue
+		}
+		keep = append(keep, a)
+	}
+	return keep
+}
+
+// dampedStep solves the Levenberg–Marquardt system (H + λ diag) δ = −g
+// over the parameters keep (positions in idx), writes θ + δ projected onto
+// the bounds into trial and the step taken into step, and returns the
+// decrease the Gauss–Newton model predicts for that step; ok is false
+// when the damped system is not positive definite.
+func (e *engine) dampedStep(theta, trial, step []float64, idx, keep []int, g, H []float64, lambda float64) (pred float64, ok bool) {
+	k := len(keep)
+	M := make([]float64, k*k)
+	rhs := make([]float64, k)
+	maxDiag := 0.0
+	for a := range keep {
+		maxDiag = math.Max(maxDiag, H[keep[a]*len(idx)+keep[a]])
+	}
+	for a, ia := range keep {
+		for b, ib := range keep {
+			M[a*k+b] = H[ia*len(idx)+ib]
+		}
+		M[a*k+a] += lambda * (H[ia*len(idx)+ia] + 1e-9*maxDiag + 1e-300)
+		rhs[a] = -g[ia]
+	}
+	if !cholSolve(M, k, rhs, 1, 1e-12) {
+		return 0, false
+	}
+	copy(trial, theta)
+	for a, ia := range keep {
+		i := idx[ia]
+		trial[i] = e.params[i].project(theta[i] + rhs[a])
+		step[a] = trial[i] - theta[i]
+		if e.params[i].Periodic {
+			step[a] = rhs[a]
+		}
+	}
+	// The decrease the Gauss–Newton model predicts for the step taken
+	// (bounds applied): −(2gᵀδ + δᵀHδ), since the loss is ‖r‖² and
+	// g = Jᵀr, H = JᵀJ.
+	for a, ia := range keep {
+		hd := 0.0
+		for b, ib := range keep {
+			hd += H[ia*len(idx)+ib] * step[b]
+		}
+		pred -= step[a] * (2*g[ia] + hd)
+	}
+	return pred, true
 }

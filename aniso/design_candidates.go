@@ -42,14 +42,19 @@ func (d *designer) testedRanges() {
 }
 
 // runDirections returns the direction each fitted protocol tested, that of
-// its largest Green strain (PeakGreenDirection), in degrees.
+// its largest Green strain (PeakGreenDirection), in degrees, read from its
+// stretches F11 and F22 alone: the ratio a test runs is that of the
+// stretches the tester imposes; on sutures the shear is the specimen's
+// response, and a planned test's path carries none until it is scored
+// (with the shear, a sutured 1:0.5 protocol of demo M3 read as another
+// ratio, and the plan offered it again).
 func (d *designer) runDirections() []float64 {
 	var out []float64
 	for _, pi := range d.p.Protocols {
 		pr := &d.p.Specimen.Protocols[pi]
 		path := make([][4]float64, len(pr.Points))
 		for i, pt := range pr.Points {
-			path[i] = pt.F
+			path[i] = [4]float64{pt.F[0], 0, 0, pt.F[3]}
 		}
 		if deg, ok := PeakGreenDirection(path); ok {
 			out = append(out, deg)

@@ -44,3 +44,33 @@ func TestPlanReadsRunRatiosInGreenStrain(t *testing.T) {
 		t.Errorf("%d planned tests, want the %d ratios not yet run", len(d.Tests), len(DesignRatios)-5)
 	}
 }
+
+// On sutures the shear is the specimen's response, not part of the ratio
+// the tester imposes: the plan reads a fitted protocol's ratio from its
+// stretches, so no ratio already run in the current mounting is offered
+// again (demo M3-sutured's 1:0.5, read with its shear, was). One family
+// at 30° (i1-lin 4 kPa, fib-expsq 60 kPa, rate 8), five standard ratios
+// on sutures, fitted with its own form.
+func TestPlanDoesNotRepeatASuturedRatio(t *testing.T) {
+	m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 4}, Term{Shape: lookup("fib-expsq"), Weight: 60, Params: []float64{8}}, 30)
+	s := synthSpecimen(t, m, synthOptions{maxStrain: 0.25, noise: 0.01, sutured: true})
+	p, err := NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Fit(p, Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := PlanTests(p, r, nil, DesignSettings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, ts := range d.Tests {
+		for _, run := range standardRatios {
+			if ts.Test.MountingDeg == 0 && ts.Test.Ratio == normRatio(run) {
+				t.Errorf("%s offered, though the data ran %g:%g on sutures", ts.Test.Describe(), run[0], run[1])
+			}
+		}
+	}
+}

@@ -232,3 +232,42 @@ func copyFolder(t *testing.T, src, dst string) {
 		t.Fatal(err)
 	}
 }
+
+// planGoldenFile lists the SHA-256 of what 'weft plan --json --top 0'
+// prints for each demo specimen's fit folder, the folder's path replaced
+// by its name.
+const planGoldenFile = "testdata/demo-plans.sha256"
+
+// TestDemoPlansUnchanged runs 'weft plan' on every demo specimen's fit and
+// compares what it prints, through its SHA-256, with the committed list,
+// as TestDemoOutputsUnchanged does for the fit's files: a change meant for
+// another output must not move the plan unnoticed (a shared reading of a
+// protocol's direction once made demo M3's plan offer a ratio it had run).
+// Regenerate with -update when a change is meant.
+func TestDemoPlansUnchanged(t *testing.T) {
+	t.Parallel()
+	dir := demoFits(t).dir
+	var got strings.Builder
+	for _, n := range demoInputs {
+		name := strings.TrimSuffix(n, ".csv") + ".weft"
+		stdout, stderr, code := runWeft(t, "plan", filepath.Join(dir, name), "--json", "--top", "0")
+		if code != 0 {
+			t.Fatalf("weft plan %s: exit %d: %s", name, code, stderr)
+		}
+		stdout = strings.ReplaceAll(stdout, filepath.Join(dir, name), name)
+		fmt.Fprintf(&got, "%x  %s\n", sha256.Sum256([]byte(stdout)), name)
+	}
+	if *update {
+		if err := os.WriteFile(planGoldenFile, []byte(got.String()), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(planGoldenFile)
+	if err != nil {
+		t.Fatalf("%v (create it with -update)", err)
+	}
+	if got.String() != string(want) {
+		t.Errorf("weft plan of the demo fits changed:\n%s\nwant\n%s\nif the change is intended, regenerate with: go test ./cmd/weft -run TestDemoPlansUnchanged -update", got.String(), want)
+	}
+}

@@ -324,6 +324,11 @@ func predictComments(b *bytes.Buffer, file string, c *card.Card, warnings []stri
 		// solid fitted without its strips had no near-equivalent model
 		// and the strips were missed by 6.5 % of their peak.
 		fmt.Fprintf(b, "# NOTE: no other model of the fit's selection predicted the held-out protocols within one standard error of this one's, so there are no alike_low_/alike_high_ columns; that does not mean the tested protocols settle this prediction\n")
+	} else if len(alike) == 0 {
+		// A card of a chosen form (--preset, --terms), a cohort's card or
+		// one written by hand has no cross-validated candidates to
+		// compare: saying nothing read as a settled prediction.
+		fmt.Fprintf(b, "# NOTE: the card carries no cross-validated selection of other models (a chosen form, a cohort's card, a single protocol or a card written by hand), so there are no alike_low_/alike_high_ columns: nothing here says whether the tested protocols settle this prediction\n")
 	}
 }
 

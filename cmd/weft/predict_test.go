@@ -151,6 +151,12 @@ func TestExampleAndTerms(t *testing.T) {
 	if _, rows := readExportCSV(t, out); len(rows) != 13 { // header and 12 rows after the # lines (the cautions)
 		t.Fatalf("%d lines besides the comments: %s", len(rows), out)
 	}
+	// The example card has no selection: no band, and a note says that
+	// this does not mean the prediction is settled (until 2026-12-05 it
+	// said nothing).
+	if !strings.Contains(out, "# NOTE: the card carries no cross-validated selection of other models") || strings.Contains(out, ",alike_low_") {
+		t.Errorf("a card without a selection: no note that there is no band, or a band:\n%s", out)
+	}
 	out, _, code = runWeft(t, "terms", "--json")
 	if code != 0 || !strings.Contains(out, `"id": "i5-quad"`) || !strings.Contains(out, `"polyconvex": false`) {
 		t.Fatalf("terms --json: exit %d\n%s", code, out)

@@ -92,6 +92,13 @@ func LoadGradient(c LoadCase, theta, amount, lateral float64) [4]float64 {
 	return rotateF(l, theta)
 }
 
+// Turned returns R(ψ)·L·R(ψ)ᵀ, R = [[cos ψ, −sin ψ], [sin ψ, cos ψ]], for
+// an in-plane tensor L = (L11, L12, L21, L22) and ψ in degrees: the
+// deformation gradient, in the tester's axes, of a specimen loaded with L
+// along axes turned by ψ from axis 1 towards axis 2; with −ψ, a stress or
+// deformation in the tester's axes read in the turned ones.
+func Turned(L [4]float64, psiDeg float64) [4]float64 { return rotateF(L, Rad(psiDeg)) }
+
 // rotateF returns R(θ)·L·R(θ)ᵀ with R = [[c, −s], [s, c]].
 func rotateF(L [4]float64, theta float64) [4]float64 {
 	if theta == 0 {

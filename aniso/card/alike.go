@@ -157,11 +157,19 @@ type Band struct {
 // AlikeBand evaluates m and each near-equivalent model at F. The error is
 // m's own: a near-equivalent model that fails is named in Band.Missing.
 func AlikeBand(m *aniso.Model, alike []AlikeModel, F [4]float64) (Band, error) {
+	return AlikeBandTurned(m, alike, F, 0)
+}
+
+// AlikeBandTurned is AlikeBand with each model's stresses read in axes
+// turned by psiDeg degrees from the tester's (σ' = Rᵀ σ R, P' = Rᵀ P R)
+// before the band is taken: the band of a specimen cut or mounted at psiDeg,
+// in its own axes. F is in the tester's axes.
+func AlikeBandTurned(m *aniso.Model, alike []AlikeModel, F [4]float64, psiDeg float64) (Band, error) {
 	r, err := m.Evaluate(F)
 	if err != nil {
 		return Band{}, err
 	}
-	b := Band{Own: stresses(r)}
+	b := Band{Own: stresses(r, psiDeg)}
 	b.Low, b.High = b.Own, b.Own
 	for _, a := range alike {
 		ra, err := a.Model.Evaluate(F)
@@ -169,14 +177,22 @@ func AlikeBand(m *aniso.Model, alike []AlikeModel, F [4]float64) (Band, error) {
 			b.Missing = append(b.Missing, a.Name)
 			continue
 		}
-		for j, x := range stresses(ra) {
+		for j, x := range stresses(ra, psiDeg) {
 			b.Low[j], b.High[j] = math.Min(b.Low[j], x), math.Max(b.High[j], x)
 		}
 	}
 	return b, nil
 }
 
-// stresses lists a response's stresses in Band's order.
-func stresses(r aniso.Response) [7]float64 {
-	return [7]float64{r.Cauchy[0], r.Cauchy[1], r.Cauchy[2], r.Nominal[0], r.Nominal[1], r.Nominal[2], r.Nominal[3]}
+// stresses lists a response's stresses in Band's order, read in axes
+// turned by psiDeg degrees from the tester's.
+func stresses(r aniso.Response, psiDeg float64) [7]float64 {
+	s, p := r.Cauchy, r.Nominal
+	if psiDeg != 0 {
+		c := aniso.Turned([4]float64{s[0], s[2], s[2], s[1]}, -psiDeg)
+		n := aniso.Turned([4]float64{p[0], p[2], p[3], p[1]}, -psiDeg)
+		s = aniso.Sym{c[0], c[3], c[1]}
+		p = [4]float64{n[0], n[3], n[1], n[2]}
+	}
+	return [7]float64{s[0], s[1], s[2], p[0], p[1], p[2], p[3]}
 }

@@ -148,8 +148,8 @@ func TestAlikeBandSpansTheAngleSignWithoutShear(t *testing.T) {
 		// 2026-12-05 a strip reported the normal spread alone: demo M1's
 		// 1:0 read 0.2 % while the shear parted by 105 % of that stress.
 		strips, err := NewUntestedStrips([][][4]float64{{{1.05, 0, 0, 1.05}, {l1, 0, 0, l1}}}, false, c, m)
-		if err != nil || len(strips) != 2 || strips[0].Label != "1:0" {
-			t.Fatalf("untested strips %+v, %v; want 1:0 and 0:1", strips, err)
+		if err != nil || len(strips) != 3 || strips[0].Label != "1:0" || strips[2].Label != "1:0 turned 45°" {
+			t.Fatalf("untested strips %+v, %v; want 1:0, 0:1 and 1:0 turned 45°", strips, err)
 		}
 		st := strips[0]
 		if math.Abs(float64(st.WidestShear)-2*s12) > 1e-9*s12 || !(float64(st.Percent) < 1e-6) {
@@ -157,6 +157,53 @@ func TestAlikeBandSpansTheAngleSignWithoutShear(t *testing.T) {
 		}
 		if want := 100 * 2 * s12 / float64(st.Largest); math.Abs(float64(st.ShearPercent)-want) > 1e-9*want || !strings.Contains(st.Summary, "shear stress the grips would carry") {
 			t.Errorf("strip 1:0: shear %.6g %% (want %.6g %%), summary %q", float64(st.ShearPercent), want, st.Summary)
+		}
+		// The strip turned 45°, read in its own axes, F' = diag(l, 1):
+		// the family sits at 30° − 45° = −15° from the strip, its
+		// reflection at −75°, the mirror pair at both with half the
+		// weight; the neo-Hookean part is 2 w (B' − λ3² 1) for all. The
+		// band's edges are the family and its reflection (closed forms of
+		// Holzapfel, Gasser & Ogden 2000, as above).
+		fibre := func(l, beta, k float64) [3]float64 {
+			a := [2]float64{l * math.Cos(aniso.Rad(beta)), math.Sin(aniso.Rad(beta))}
+			e := a[0]*a[0] + a[1]*a[1] - 1
+			if e <= 0 {
+				return [3]float64{}
+			}
+			p4 := 2 * k * e * math.Exp(k2*e*e)
+			return [3]float64{p4 * a[0] * a[0], p4 * a[1] * a[1], p4 * a[0] * a[1]}
+		}
+		var widest, largest, widestShear float64
+		for i := range 40 {
+			l := 1 + (l1-1)*float64(i+1)/40
+			iso := [3]float64{2 * 4 * (l*l - 1/(l*l)), 2 * 4 * (1 - 1/(l*l)), 0}
+			own, refl := fibre(l, alpha-45, k1), fibre(l, -alpha-45, k1)
+			for j := range 3 {
+				lo, hi := math.Min(own[j], refl[j]), math.Max(own[j], refl[j])
+				if j < 2 {
+					widest = math.Max(widest, hi-lo)
+					largest = math.Max(largest, math.Abs(iso[j]+own[j]))
+				} else {
+					widestShear = math.Max(widestShear, hi-lo)
+				}
+			}
+		}
+		// The band in the strip's own axes: σ'11 along the strip.
+		bt, err := AlikeBandTurned(m, alike, aniso.Turned([4]float64{l1, 0, 0, 1}, 45), 45)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := 2*4*(l1*l1-1/(l1*l1)) + fibre(l1, alpha-45, k1)[0]; math.Abs(bt.Own[0]-want) > 1e-9*want {
+			t.Errorf("turned 45°: σ'11 along the strip %.12g, closed form %.12g", bt.Own[0], want)
+		}
+		tu := strips[2]
+		for _, q := range []struct {
+			name      string
+			got, want float64
+		}{{"widest", float64(tu.Widest), widest}, {"largest", float64(tu.Largest), largest}, {"widest_shear", float64(tu.WidestShear), widestShear}} {
+			if math.Abs(q.got-q.want) > 1e-9*q.want {
+				t.Errorf("strip 1:0 turned 45°: %s %.12g, closed form %.12g", q.name, q.got, q.want)
+			}
 		}
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/terms"
 )
 
 // KeyUntestedStrips is the key of the section on the strips the data did
@@ -85,69 +86,117 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 	if nominal {
 		cols, shearCols = []int{3, 4}, []int{5, 6}
 	}
-	var out []UntestedStrip
-	for k, st := range []struct {
+	type strip struct {
 		label, held string
-		deg         float64
-	}{{"1:0", "axis 2 held at stretch 1", 0}, {"0:1", "axis 1 held at stretch 1", 90}} {
+		deg         float64 // its direction's reading (PeakGreenDirection) when a protocol ran it
+		turn        float64 // the strip's axes turned from the tester's, degrees
+		axis        int     // the driven axis in the strip's own axes
+		top         float64 // the stretch it is taken to
+	}
+	strips := []strip{{"1:0", "axis 2 held at stretch 1", 0, 0, 0, top[0]}, {"0:1", "axis 1 held at stretch 1", 90, 0, 1, top[1]}}
+	if turnedMatters(m, alike) {
+		// No file of the tester's axes holds a turned strip: a specimen
+		// cut or mounted at 45° is another file, in its own axes.
+		far := math.Max(top[0], top[1])
+		strips = append(strips, strip{"1:0 turned 45°", "the specimen cut or mounted at 45° to axis 1, its lateral stretch held at 1", math.NaN(), 45, 0, far})
+		if c.Fit != nil && c.Fit.AngleSignKnown {
+			// Without shear information the band holds every model's
+			// reflection, which turns −45° into +45°.
+			strips = append(strips, strip{"1:0 turned −45°", "the specimen cut or mounted at −45° to axis 1, its lateral stretch held at 1", math.NaN(), -45, 0, far})
+		}
+	}
+	var out []UntestedStrip
+	for _, st := range strips {
 		tested := false
 		for _, d := range dirs {
 			if math.Abs(d-st.deg) < untestedDirectionDeg {
 				tested = true
 			}
 		}
-		if tested || top[k] <= 1 {
+		if tested || st.top <= 1 {
 			continue
 		}
-		var widest, largest, widestShear float64
-		leaves, why := 0.0, ""
-		for i := range stripPoints {
-			l := 1 + (top[k]-1)*float64(i+1)/stripPoints
-			F := [4]float64{l, 0, 0, 1}
-			if k == 1 {
-				F = [4]float64{1, 0, 0, l}
-			}
-			if c.DataRange != nil && leaves == 0 {
-				// The strip holds no shear; a sutured specimen's shear
-				// range need not hold 0, and that alone is no stretch
-				// beyond the tests: the stretches and fibre stretches are.
-				var o []string
-				for _, q := range c.DataRange.Outside(m, F) {
-					if !strings.HasPrefix(q, "F12 ") && !strings.HasPrefix(q, "F21 ") {
-						o = append(o, q)
-					}
-				}
-				if len(o) > 0 {
-					leaves, why = l, strings.Join(o, ", ")
-				}
-			}
-			b, err := AlikeBand(m, alike, F)
-			if err != nil {
-				break // beyond a limit of the card's own model: the strip stops here
-			}
-			for _, j := range cols {
-				widest = math.Max(widest, b.High[j]-b.Low[j])
-				largest = math.Max(largest, math.Abs(b.Own[j]))
-			}
-			for _, j := range shearCols {
-				widestShear = math.Max(widestShear, b.High[j]-b.Low[j])
-			}
-		}
-		pct, shearPct := 0.0, 0.0
-		if largest > 0 {
-			pct, shearPct = 100*widest/largest, 100*widestShear/largest
-		}
-		summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", st.label, st.held, top[k], n, pct)
-		if shearPct >= ShearPercentShown {
-			summary += fmt.Sprintf(", and by up to %.1f %% of it in the shear stress the grips would carry", shearPct)
-		}
-		if leaves > 0 {
-			// Beyond the tested range every model of the band
-			// extrapolates, and they can agree far from the material.
-			summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where they all extrapolate and the spread settles nothing", leaves, why)
-		}
-		out = append(out, UntestedStrip{Label: st.label, Stretch: Num(top[k]), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
-			WidestShear: Num(widestShear), ShearPercent: Num(shearPct), Summary: summary})
+		out = append(out, untestedStrip(c, m, alike, n, st.label, st.held, st.turn, st.axis, st.top, cols, shearCols))
 	}
 	return out, nil
+}
+
+// untestedStrip measures one strip: driven along axis (0 or 1) of axes
+// turned by turn degrees from the tester's, to stretch top, with the other
+// stretch held at 1 and no shear in those axes; the band is read in them.
+func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, label, held string, turn float64, axis int, top float64, cols, shearCols []int) UntestedStrip {
+	var widest, largest, widestShear float64
+	leaves, why := 0.0, ""
+	for i := range stripPoints {
+		l := 1 + (top-1)*float64(i+1)/stripPoints
+		F := [4]float64{l, 0, 0, 1}
+		if axis == 1 {
+			F = [4]float64{1, 0, 0, l}
+		}
+		F = aniso.Turned(F, turn)
+		if c.DataRange != nil && leaves == 0 {
+			// A strip in the tester's axes holds no shear, a turned one
+			// the shear of its turn; a sutured specimen's shear range
+			// need not hold either, and that alone is no stretch beyond
+			// the tests: the stretches and fibre stretches are.
+			var o []string
+			for _, q := range c.DataRange.Outside(m, F) {
+				if !strings.HasPrefix(q, "F12 ") && !strings.HasPrefix(q, "F21 ") {
+					o = append(o, q)
+				}
+			}
+			if len(o) > 0 {
+				leaves, why = l, strings.Join(o, ", ")
+			}
+		}
+		b, err := AlikeBandTurned(m, alike, F, turn)
+		if err != nil {
+			break // beyond a limit of the card's own model: the strip stops here
+		}
+		for _, j := range cols {
+			widest = math.Max(widest, b.High[j]-b.Low[j])
+			largest = math.Max(largest, math.Abs(b.Own[j]))
+		}
+		for _, j := range shearCols {
+			widestShear = math.Max(widestShear, b.High[j]-b.Low[j])
+		}
+	}
+	pct, shearPct := 0.0, 0.0
+	if largest > 0 {
+		pct, shearPct = 100*widest/largest, 100*widestShear/largest
+	}
+	summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", label, held, top, n, pct)
+	if shearPct >= ShearPercentShown {
+		summary += fmt.Sprintf(", and by up to %.1f %% of it in the shear stress the grips would carry", shearPct)
+	}
+	if leaves > 0 {
+		// Beyond the tested range every model of the band
+		// extrapolates, and they can agree far from the material.
+		summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where they all extrapolate and the spread settles nothing", leaves, why)
+	}
+	return UntestedStrip{Label: label, Stretch: Num(top), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
+		WidestShear: Num(widestShear), ShearPercent: Num(shearPct), Summary: summary}
+}
+
+// turnedMatters reports whether a turned strip can part the models from
+// the strips in the tester's axes: whether m or a near-equivalent model has
+// a fibre family or a Green-strain (Fung-type) term, whose response
+// depends on the direction of loading. An isotropic band is the same
+// along every direction.
+func turnedMatters(m *aniso.Model, alike []AlikeModel) bool {
+	models := []*aniso.Model{m}
+	for _, a := range alike {
+		models = append(models, a.Model)
+	}
+	for _, x := range models {
+		if len(x.Families) > 0 {
+			return true
+		}
+		for _, t := range x.Terms {
+			if t.Shape.Arg == terms.Green {
+				return true
+			}
+		}
+	}
+	return false
 }

@@ -36,8 +36,10 @@ func TestUntestedStripLeavesTheDataRange(t *testing.T) {
 	s12 := Interval{-0.15, -0.001}
 	c.DataRange = &DataRange{Stretch1: Interval{1, 1.14}, Stretch2: Interval{1, 1.14}, Shear12: &s12, Shear21: &s12, FibreStretch: []Interval{{1, 1.013}}}
 	eq := [][][4]float64{{{1.07, -0.05, -0.04, 1.07}, {1.14, -0.15, -0.12, 1.14}}}
+	// 1:0, 0:1, and with fibres and the signs known the strips turned
+	// 45° and −45°.
 	strips, err := NewUntestedStrips(eq, true, c, fam)
-	if err != nil || len(strips) != 2 {
+	if err != nil || len(strips) != 4 || strips[3].Label != "1:0 turned −45°" {
 		t.Fatalf("strips %+v, %v", strips, err)
 	}
 	if want := "from stretch 1.02 on the strip leaves the fitted data range (fibre stretch of f1"; !strings.Contains(strips[0].Summary, want) {
@@ -45,7 +47,7 @@ func TestUntestedStripLeavesTheDataRange(t *testing.T) {
 	}
 	c.DataRange.FibreStretch = []Interval{{1, 1.2}}
 	strips, err = NewUntestedStrips(eq, true, c, fam)
-	if err != nil || len(strips) != 2 || strings.Contains(strips[0].Summary+strips[1].Summary, "leaves") {
+	if err != nil || len(strips) != 4 || strings.Contains(strips[0].Summary+strips[1].Summary+strips[2].Summary+strips[3].Summary, "leaves") {
 		t.Errorf("strips inside the range (the shear range without 0 aside) say they leave it: %+v, %v", strips, err)
 	}
 }

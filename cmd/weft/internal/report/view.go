@@ -468,7 +468,7 @@ func (in *Input) verdictSection(v *reportView) {
 	if len(strips) > 0 {
 		// Part of the verdict's paragraph: a report at its page budget
 		// (demo M3) keeps it.
-		v.Reason += " Strips not tested (one axis held at 1), with how far the models the held-out protocols could not tell apart part there, in per cent of the chosen model's largest normal stress: " + strings.Join(strips, "; ") + "."
+		v.Reason += " Strips not tested (one axis held at 1; a turned strip is the specimen cut or mounted at that angle to axis 1), with how far the models the held-out protocols could not tell apart part there, in per cent of the chosen model's largest normal stress: " + strings.Join(strips, "; ") + "."
 	}
 	for _, r := range vd.RuledOut {
 		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))

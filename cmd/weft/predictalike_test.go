@@ -71,7 +71,7 @@ func TestPredictAlikeBandCoversUntestedStrip(t *testing.T) {
 	if err := json.Unmarshal(b, &cd); err != nil || len(cd.Untested) != 2 || cd.Untested[0].Label != "1:0" || !(cd.Untested[0].Percent > 1) || cd.Untested[1].Label != "1:0 turned 45°" {
 		t.Errorf("card's untested_strips %+v (%v); want 1:0 and, for an orthotropic solid, 1:0 turned 45°", cd.Untested, err)
 	}
-	if html, err := os.ReadFile(filepath.Join(dir, "report.html")); err != nil || !strings.Contains(string(html), "Strips not tested (one axis held at 1; a turned strip is the specimen cut or mounted at that angle to axis 1)") {
+	if html, err := os.ReadFile(filepath.Join(dir, "report.html")); err != nil || !strings.Contains(string(html), "Strips not tested (one axis held at stretch 1; turned: the specimen cut or mounted so)") {
 		t.Errorf("report.html does not name the untested strip (%v)", err)
 	}
 	const c, c1, c3 = 4.0, 30.0, 4.0

@@ -27,7 +27,8 @@ type UntestedStrip struct {
 	// the data's largest along that axis (dimensionless).
 	Stretch Num `json:"stretch"`
 	// Models is how many near-equivalent models the band holds besides
-	// the card's own.
+	// the card's own; 0 when there are none, and then the numbers below
+	// are null (NaN): nothing measures the strip.
 	Models int `json:"models"`
 	// Widest is the largest high − low of a normal stress over the strip,
 	// in the fitted measure (data_range.stress_kind) and the card's
@@ -65,10 +66,13 @@ const stripPoints = 40
 // F12, F21, F22), each with the spread of c's near-equivalent models and
 // m along it, up to the data's largest stretch of the driven axis; the
 // spread is of the normal nominal stresses when nominal, else of the
-// Cauchy stresses. None when c has no near-equivalent models.
+// Cauchy stresses. When c has no near-equivalent model the strips are
+// listed all the same, with Models 0, no spread (null numbers) and a
+// summary that says nothing measures them: one candidate alone is not a
+// settled prediction.
 func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model) ([]UntestedStrip, error) {
 	alike, err := c.AlikeModels()
-	if err != nil || len(alike) == 0 {
+	if err != nil {
 		return nil, err
 	}
 	n := Candidates(alike)
@@ -105,6 +109,10 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 			strips = append(strips, strip{"1:0 turned −45°", "the specimen cut or mounted at −45° to axis 1, its lateral stretch held at 1", math.NaN(), -45, 0, far})
 		}
 	}
+	why := "the fit has no cross-validated candidates to compare (one protocol)"
+	if c.AloneInSelection() {
+		why = "no other candidate predicted the held-out protocols as well as the chosen model"
+	}
 	var out []UntestedStrip
 	for _, st := range strips {
 		tested := false
@@ -114,6 +122,12 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 			}
 		}
 		if tested || st.top <= 1 {
+			continue
+		}
+		if len(alike) == 0 {
+			nan := Num(math.NaN())
+			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan,
+				Summary: fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so nothing measures how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, why)})
 			continue
 		}
 		out = append(out, untestedStrip(c, m, alike, n, st.label, st.held, st.turn, st.axis, st.top, cols, shearCols))

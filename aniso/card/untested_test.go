@@ -1,6 +1,8 @@
 package card
 
 import (
+	"bytes"
+	"math"
 	"strings"
 	"testing"
 
@@ -49,5 +51,39 @@ func TestUntestedStripLeavesTheDataRange(t *testing.T) {
 	strips, err = NewUntestedStrips(eq, true, c, fam)
 	if err != nil || len(strips) != 4 || strings.Contains(strips[0].Summary+strips[1].Summary+strips[2].Summary+strips[3].Summary, "leaves") {
 		t.Errorf("strips inside the range (the shear range without 0 aside) say they leave it: %+v, %v", strips, err)
+	}
+}
+
+// A card whose choice no other candidate came near still lists the strips
+// the data did not test, with no spread and a summary that says nothing
+// measures them (until 2026-12-05 it listed none, which read as settled):
+// an isotropic neo-Hookean card fitted to equibiaxial data, no strip
+// turned (an isotropic model is the same along every direction).
+func TestUntestedStripsWithoutNearEquivalents(t *testing.T) {
+	iso := &aniso.Model{Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 5}}}
+	c := FromModel(iso, "kPa", nil)
+	c.Fit = &FitSection{AngleSignKnown: true}
+	c.Selection = &SelectionSection{Pareto: []CandidateCard{
+		{Name: "chosen", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(iso)},
+		{Name: "far", HeldoutError: 0.05, Model: NewCandidateModel(iso)},
+	}}
+	strips, err := NewUntestedStrips([][][4]float64{{{1.05, 0, 0, 1.05}, {1.1, 0, 0, 1.1}}}, false, c, iso)
+	if err != nil || len(strips) != 2 {
+		t.Fatalf("strips %+v, %v; want 1:0 and 0:1", strips, err)
+	}
+	for _, st := range strips {
+		if st.Models != 0 || !math.IsNaN(float64(st.Percent)) || !strings.Contains(st.Summary, "nothing measures how far the tests settle it") {
+			t.Errorf("strip %s: models %d, percent %v, summary %q", st.Label, st.Models, float64(st.Percent), st.Summary)
+		}
+	}
+	// Written and read back: the null numbers stay null.
+	c.UntestedStrips = strips
+	b, err := c.Marshal()
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, _, err := Parse(bytes.NewReader(b), "model.json")
+	if err != nil || len(back.UntestedStrips) != 2 || !math.IsNaN(float64(back.UntestedStrips[0].Widest)) {
+		t.Errorf("read back: %+v, %v", back.UntestedStrips, err)
 	}
 }

@@ -459,6 +459,10 @@ func (in *Input) verdictSection(v *reportView) {
 	}
 	var strips []string
 	for _, st := range in.untested {
+		if st.Models == 0 {
+			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch)))
+			continue
+		}
 		strips = append(strips, fmt.Sprintf("%s to %.3g: %.1f/%.1f", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), float64(st.Percent), float64(st.ShearPercent)))
 	}
 	if len(strips) > 0 {

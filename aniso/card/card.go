@@ -22,7 +22,7 @@
 // alternatives.go (the mirror alternatives, NewAlternativesSection),
 // calibration.go (discovery repeated with one axis's stress scaled,
 // NewCalibrationCheck), provenance.go (Provenance, Setup) and former.go
-// (keys that older cards used). weft fit adds to the card FromFit builds
+// (keys that older cards used). The command line adds to the card FromFit builds
 // the untested strips of a discovered model (NewUntestedStrips, from the
 // protocols' deformations) and, when asked, the calibration check.
 //

@@ -292,26 +292,7 @@ func TestCohortCarriesReadingWarnings(t *testing.T) {
 		return writeMembrane(t, dir, name, func(float64) float64 { return 2 * c10 }, membraneOptions{points: 20, maxStrain: 0.15, copyRow: copyRow})
 	}
 	copied, clean := write("copied.csv", 10, 7), write("clean.csv", 12, -1)
-	out := filepath.Join(dir, "cohort")
-	stdout, stderr, code := runWeft(t, "cohort", "-o", out, "--quiet", "--preset", "neo-hookean", "--no-specimen-reports", copied, clean)
-	if code != exitOK {
-		t.Fatalf("exit %d, stderr %q", code, stderr)
-	}
-	raw, err := os.ReadFile(filepath.Join(out, "cohort.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var doc struct {
-		Specimens []struct {
-			File     string   `json:"file"`
-			Specimen string   `json:"specimen"`
-			Warnings []string `json:"warnings"`
-		} `json:"specimens"`
-		Notes []string `json:"notes"`
-	}
-	if err := json.Unmarshal(raw, &doc); err != nil {
-		t.Fatal(err)
-	}
+	stdout, doc := neoHookeanCohort(t, dir, copied, clean)
 	for _, s := range doc.Specimens {
 		warned := len(s.Warnings) == 1 && strings.Contains(s.Warnings[0], "3 rows repeat their protocol's row before them exactly")
 		if strings.HasSuffix(s.File, "copied.csv") != warned || (!warned && len(s.Warnings) > 0) {
@@ -319,12 +300,7 @@ func TestCohortCarriesReadingWarnings(t *testing.T) {
 		}
 	}
 	const note = "specimens whose test file was read with warnings"
-	var noted string
-	for _, n := range doc.Notes {
-		if strings.Contains(n, note) {
-			noted = n
-		}
-	}
+	noted := noteWith(doc.Notes, note)
 	if !strings.Contains(noted, "copied (1)") || strings.Contains(noted, "clean") {
 		t.Errorf("notes do not name the warned specimen alone: %q", doc.Notes)
 	}
@@ -351,54 +327,54 @@ func TestCohortFlagsSpecimensItsFormMisfits(t *testing.T) {
 	}
 	neo := write("neo.csv", func(float64) float64 { return 2 * 10 })
 	dem := write("demiray.csv", func(i1 float64) float64 { return 10 * math.Exp(8*(i1-3)) })
-	out := filepath.Join(dir, "cohort")
-	stdout, stderr, code := runWeft(t, "cohort", "-o", out, "--quiet", "--preset", "neo-hookean", "--no-specimen-reports", neo, dem)
-	if code != exitOK {
-		t.Fatalf("exit %d, stderr %q", code, stderr)
-	}
-	raw, err := os.ReadFile(filepath.Join(out, "cohort.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var doc struct {
-		Specimens []struct {
-			Specimen string   `json:"specimen"`
-			Misfit   *float64 `json:"misfit_ratio"`
-			Flags    []string `json:"flags"`
-		} `json:"specimens"`
-		Notes []string `json:"notes"`
-	}
-	if err := json.Unmarshal(raw, &doc); err != nil {
-		t.Fatal(err)
-	}
+	stdout, doc := neoHookeanCohort(t, dir, neo, dem)
 	for _, s := range doc.Specimens {
-		if s.Misfit == nil {
+		ratio := float64(s.MisfitRatio)
+		if math.IsNaN(ratio) {
 			t.Fatalf("%s: no misfit_ratio", s.Specimen)
 		}
 		flagged := false
 		for _, f := range s.Flags {
 			flagged = flagged || strings.Contains(f, "the model misfits the data")
 		}
-		t.Logf("%s: misfit ratio %.3g", s.Specimen, *s.Misfit)
-		misfit := *s.Misfit >= 2
-		if misfit != (s.Specimen == "demiray") || flagged != misfit || (!misfit && *s.Misfit > 1.5) {
-			t.Errorf("%s: misfit ratio %.3g, flagged %v; want ≥ 2 and flagged for demiray alone, about 1 for neo", s.Specimen, *s.Misfit, flagged)
+		t.Logf("%s: misfit ratio %.3g", s.Specimen, ratio)
+		misfit := ratio >= 2
+		if misfit != (s.Specimen == "demiray") || flagged != misfit || (!misfit && ratio > 1.5) {
+			t.Errorf("%s: misfit ratio %.3g, flagged %v; want ≥ 2 and flagged for demiray alone, about 1 for neo", s.Specimen, ratio, flagged)
 		}
 	}
 	const note = "specimens the shared form misfits"
-	var noted string
-	for _, n := range doc.Notes {
-		if strings.Contains(n, note) {
-			noted = n
-		}
-	}
+	noted := noteWith(doc.Notes, note)
 	if !strings.Contains(noted, "demiray (1)") || strings.Contains(noted, "neo (") || !strings.Contains(stdout, note) {
 		t.Errorf("notes %q and summary do not name the misfitted specimen alone:\n%s", doc.Notes, stdout)
 	}
-	csvRaw, err := os.ReadFile(filepath.Join(out, "cohort.csv"))
+	csvRaw, err := os.ReadFile(filepath.Join(dir, "cohort", "cohort.csv"))
 	if err != nil || !strings.Contains(strings.SplitN(string(csvRaw), "\n", 2)[0], ",misfit_ratio") {
 		t.Errorf("cohort.csv has no misfit_ratio column: %v\n%s", err, csvRaw)
 	}
+}
+
+// neoHookeanCohort runs weft cohort with the neo-Hookean preset on files
+// into dir/cohort and returns its summary and its cohort.json.
+func neoHookeanCohort(t *testing.T, dir string, files ...string) (string, *cohortreport.Summary) {
+	t.Helper()
+	out := filepath.Join(dir, "cohort")
+	args := append([]string{"cohort", "-o", out, "--quiet", "--preset", "neo-hookean", "--no-specimen-reports"}, files...)
+	stdout, stderr, code := runWeft(t, args...)
+	if code != exitOK {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	return stdout, readCohortJSON(t, out)
+}
+
+// noteWith returns the note that contains s, or "".
+func noteWith(notes []string, s string) string {
+	for _, n := range notes {
+		if strings.Contains(n, s) {
+			return n
+		}
+	}
+	return ""
 }
 
 // membraneOptions shape a file of writeMembrane: points+1 rows a protocol

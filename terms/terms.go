@@ -47,11 +47,11 @@
 // recruit.go and the Green-strain shapes in fung.go; Catalogue and Lookup
 // (terms.go) list them. A new shape is one entry there (DEVELOPERS.md, How
 // to add an energy term), and two texts outside this package name every
-// shape by its id and must learn it too, as no test asks for them: its
-// normalisation in the conventions every model card carries
-// (card.StandardConventions, aniso/card/card.go), and its UFL form for
-// weft export --format ufl (uflShape, cmd/weft/internal/fe/ufl.go), which
-// otherwise fails on a card that uses the shape.
+// shape by its id and must learn it too: its normalisation in the
+// conventions every model card carries (card.StandardConventions,
+// aniso/card/card.go), and its UFL form for the FEniCS export (uflShape,
+// cmd/weft/internal/fe/ufl.go), which otherwise fails on a card that uses
+// the shape; TestEveryShapeIsExported (cmd/weft/internal/fe) checks both.
 package terms
 
 import (

@@ -1,7 +1,7 @@
 package card
 
 // The models the held-out protocols could not tell from a card's own and
-// the band of their stresses: weft predict's alike_low_ and alike_high_
+// the band of their stresses: a prediction's alike_low_ and alike_high_
 // columns and the untested strips (untested.go) are built from them.
 
 import (

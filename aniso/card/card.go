@@ -17,7 +17,7 @@
 // candidate.go (the model each cross-validated selection candidate
 // carries, CandidateModel), alike.go (the near-equivalent candidates,
 // NearEquivalents and AlikeModels, and the prediction band over them at
-// one deformation, AlikeBand, which weft predict's alike_low_ and
+// one deformation, AlikeBand, which a prediction's alike_low_ and
 // alike_high_ columns show), untested.go (the strips the data did not test, NewUntestedStrips),
 // alternatives.go (the mirror alternatives, NewAlternativesSection),
 // calibration.go (discovery repeated with one axis's stress scaled,

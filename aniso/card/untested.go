@@ -19,7 +19,7 @@ const KeyUntestedStrips = "untested_strips"
 // along it. A strip is the classical complement of ratio protocols
 // (common practice); where none was tested the tests may not settle it:
 // 42 such strips of independent solids were missed by up to 20 % of their
-// peak by the chosen model (README, weft predict).
+// peak by the chosen model (README, the prediction band).
 type UntestedStrip struct {
 	// Label is "1:0" (axis 2 held at stretch 1) or "0:1" (axis 1 held).
 	Label string `json:"label"`

@@ -672,3 +672,71 @@ func TestPairProfileTwinIsNotAPiece(t *testing.T) {
 		}
 	}
 }
+
+// TestProfileMemoChangesNothing: a profile serves a minimisation it has
+// already run (the same start at the same angle, a cap it stopped within)
+// from its memo instead of running it again; the profiles are bit for bit
+// those with every minimisation run, at fewer loss evaluations. Two free
+// families without shear information (|α| profiled, sweeps repeated) and
+// one family spread in the plane. Not parallel: it sets
+// profileMemo, which every profile reads.
+func TestProfileMemoChangesNothing(t *testing.T) {
+	if testing.Short() {
+		t.Skip("profiles two forms twice each")
+	}
+	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-lin"), Family: -1, Weight: 3},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{5}},
+		{Shape: lookup("fib-expsq"), Family: 1, Weight: 8, Params: []float64{3}}}}
+	spread := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 40, Params: []float64{3}}, -30)
+	spread.Families[0].Planar, spread.Families[0].Concentration = true, 3
+	for _, c := range []struct {
+		name    string
+		m       *Model
+		layout  Layout
+		sutured bool
+	}{{"two families, no shear", two, LayoutFree, false}, {"spread family, no shear", spread, LayoutSingle, false}} {
+		s := synthSpecimen(t, c.m, synthOptions{noise: 0.02, points: 20, sutured: c.sutured})
+		p, err := NewProblem(s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st := Structure{Layout: c.layout, Planar: c.m.Families[0].Planar}
+		for _, tm := range c.m.Terms {
+			st.Terms = append(st.Terms, TermSpec{Shape: tm.Shape, Family: tm.Family})
+		}
+		keep := profileMemo
+		profileMemo = false
+		every, err := Fit(p, st, Settings{Profile: true})
+		profileMemo = keep
+		if err != nil {
+			t.Fatal(err)
+		}
+		memo, err := Fit(p, st, Settings{Profile: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(memo.Profiles) != len(every.Profiles) {
+			t.Fatalf("%s: %d and %d profiles", c.name, len(memo.Profiles), len(every.Profiles))
+		}
+		same := func(a, b float64) bool { return math.Float64bits(a) == math.Float64bits(b) }
+		n, m := 0, 0
+		for k, g := range memo.Profiles {
+			f := every.Profiles[k]
+			n, m = n+f.Evaluations, m+g.Evaluations
+			if !same(g.LoDeg, f.LoDeg) || !same(g.HiDeg, f.HiDeg) || len(g.Loss) != len(f.Loss) {
+				t.Errorf("%s %s: [%.9f, %.9f]° with the memo, [%.9f, %.9f]° without", c.name, f.Name, g.LoDeg, g.HiDeg, f.LoDeg, f.HiDeg)
+				continue
+			}
+			for j := range f.Loss {
+				if !same(g.Loss[j], f.Loss[j]) {
+					t.Errorf("%s %s at %g°: loss %.17g with the memo, %.17g without", c.name, f.Name, f.AnglesDeg[j], g.Loss[j], f.Loss[j])
+				}
+			}
+		}
+		if m >= n {
+			t.Errorf("%s: %d evaluations with the memo, %d without", c.name, m, n)
+		}
+		t.Logf("%s: %d evaluations with the memo, %d without", c.name, m, n)
+	}
+}

@@ -87,6 +87,11 @@ type AngleProfile struct {
 	// Mirrored is true when only |α| was profiled (no shear information)
 	// and the curve was mirrored to negative angles.
 	Mirrored bool
+	// Evaluations counts the loss evaluations of the profile's own
+	// minimisations (its grid, guide and interval ends; the fit without
+	// the family excluded): the profile's work, the same on any number of
+	// cores.
+	Evaluations int
 
 	// minLoss and minTheta are the lowest point off the optimum and its
 	// parameters, to refit from when it lies below the fit.

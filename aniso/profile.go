@@ -23,7 +23,7 @@ func (r *Result) profiles(p *Problem, set Settings) {
 	if n <= k {
 		return
 	}
-	fq := distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
+	fq := profileQuantile(n, k)
 	r.sweeps++
 	var idx []int
 	for i, q := range e.params {
@@ -92,6 +92,23 @@ func (r *Result) profiles(p *Problem, set Settings) {
 		}
 		r.Flags = append(r.Flags, fmt.Sprintf("%s is not determined by the data: its loss profile stays below the 95 %% threshold over the angle's whole range, so the data exclude no angle%s", pr.Name, why))
 	}
+}
+
+// profileQuantile is F₀.₉₅(1, n − k), the quantile of the 95 % profile
+// threshold L·(1 + F₀.₉₅(1, n − k)/(n − k)) for n residuals and k free
+// parameters (Bates & Watts 1988, §6.1).
+func profileQuantile(n, k int) float64 {
+	return distuv.F{D1: 1, D2: float64(n - k)}.Quantile(0.95)
+}
+
+// thresholdMargin is how far the 95 % profile threshold lies above the
+// fit's loss, L·F₀.₉₅(1, n − k)/(n − k); 0 when n ≤ k.
+func (r *Result) thresholdMargin() float64 {
+	n, k := r.Rows, r.FreeParams
+	if n <= k {
+		return 0
+	}
+	return r.Loss * profileQuantile(n, k) / float64(n-k)
 }
 
 // belowAway describes where, away from [LoDeg, HiDeg], the profile lies

@@ -62,9 +62,11 @@ type Metric struct {
 // angle is re-optimised from both neighbouring grid angles, and the loss is
 // never above the best loss of the form without the family the angle moves
 // (zero weights for that family are admissible at any angle). When a
-// profile meets a lower loss than the fit, Fit refits from there and
-// profiles again (at most maxProfileRefits times), so the fitted loss is
-// the profile's minimum and its value at OptimumDeg.
+// profile meets a lower loss than the fit, Fit refits from there and,
+// when that lowers the loss by at least profileRefitGain of the 95 %
+// threshold's margin, profiles again (at most maxProfileRefits times), so
+// the fitted loss is the profile's minimum (to within that fraction of the
+// margin) and its value at OptimumDeg.
 type AngleProfile struct {
 	// Name is the parameter's name ("angle", "angle_1", "mean_angle", ...).
 	Name string

@@ -395,6 +395,10 @@ func (r *Result) refitFrom(p *Problem, e *engine, set Settings, th []float64) bo
 		return false
 	}
 	r.settle(p, e, th)
+	// The refit may stop a hair off 0° or 90° without shear information
+	// as any refinement does (a profile point exactly on the line is a
+	// common start): settle it there, as after the first fit.
+	r.onSymmetryLines(p, e, set)
 	return true
 }
 

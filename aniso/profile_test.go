@@ -766,6 +766,60 @@ func threeFamilies(t *testing.T) (*Problem, Structure) {
 		{Shape: lookup("fib-recruit"), Family: 1}}}
 }
 
+// TestProfileRefitSettlesOnSymmetryLine: a refit from a profile's lower
+// point exactly on 0° (no shear information) is settled on the line, as
+// the first fit is (README, Angles on a symmetry line). Until 2026-12-05
+// the refit of the three-family specimen of issue 14 stopped at 0.0003°:
+// its angle's slope nearly zero there, the Wald interval came out
+// ±4.45e6°, the angle was reported not-determined beside its bounded
+// profile interval [0°, 17.5°], and six correlation flags (|r| up to
+// 0.999) named it and the quantities tied to it.
+func TestProfileRefitSettlesOnSymmetryLine(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits a 13-parameter spread form")
+	}
+	t.Parallel()
+	p, st := threeFamilies(t)
+	// Where discovery's polish of this specimen started (its searched
+	// model): the fit stops at a second minimum near 7°, and the angle's
+	// profile meets a lower loss on 0°.
+	init := map[string]float64{"angle_1": 0.15899, "angle_2": 1.32724, "concentration_1": 2.777, "concentration_2": 200,
+		"onset[fib-recruit@f2]": 1.05398, "spread[fib-recruit@f2]": 0.077805, "stiffening[fib-exp@f2]": 1.0999,
+		"stiffening[fib-expsq@f1]": 5.1976, "stiffening[i2-exp]": 0}
+	set := Settings{Init: init, NoScan: true}
+	r, err := Fit(p, st, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	i := -1
+	for j, q := range r.e.params {
+		if q.Name == "angle_1" {
+			i = j
+		}
+	}
+	th := append([]float64(nil), r.theta...)
+	th[i] = 0
+	before := r.Loss
+	if !r.refitFrom(p, r.e, set.withDefaults(2, true), th) {
+		t.Fatalf("the refit from 0° did not replace the fit (loss %.10g)", before)
+	}
+	if r.theta[i] != 0 {
+		t.Errorf("angle_1 refitted to %.3g°, not on 0°", Deg(r.theta[i]))
+	}
+	// On the line the angle has no Wald interval; its profile gives it one.
+	for _, est := range r.Estimates {
+		if est.Name == "angle_1" && !est.onMirrorLine {
+			t.Errorf("angle_1 %.3g° is %s with the Wald interval [%.4g°, %.4g°]", est.Value, est.Status, est.Lo, est.Hi)
+		}
+	}
+	for _, f := range r.Flags {
+		if strings.Contains(f, "angle_1") {
+			t.Errorf("flag: %s", f)
+		}
+	}
+	t.Logf("loss %.10g -> %.10g, angle_1 %.4g°", before, r.Loss, Deg(r.theta[i]))
+}
+
 // TestProfileRefitKeptOnlyWhereItCounts: a refit from a profile's lower
 // point replaces the fit (and is profiled again) only when it lowers the
 // loss by at least profileRefitGain of the 95 % threshold's margin; a

@@ -775,11 +775,18 @@ func (pf *profiler) between(x, y []float64, u float64) []float64 {
 }
 
 // profileGrid returns the grid from lo to hi with the optimum inserted and
-// its index, so that the sweeps start there.
+// its index, so that the sweeps start there. Both ends belong to the grid:
+// where the step does not divide the range, the last step is shorter.
+// The ends are where an interval stops for want of data (|α| ∈ [0°, 90°]
+// without shear information, a half angle's range) or where a full
+// period closes on itself; until 2026-12-05 a 4° grid over |α| ended at
+// 88°, so an interval that the data leave open to 90° was reported as
+// ending at 88°, or at the fitted angle itself when that lay beyond 88°
+// (one family at 88°, no shear: [85.38°, 88.52°] for [85.38°, 90°]).
 func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
 	var grid []float64
 	c := -1
-	for x := lo; x <= hi+1e-12; x += step {
+	add := func(x float64) {
 		if c < 0 && x > opt+1e-9 {
 			c = len(grid)
 			grid = append(grid, opt)
@@ -787,6 +794,14 @@ func profileGrid(lo, hi, opt, step float64) ([]float64, int) {
 		if math.Abs(x-opt) > 1e-9 {
 			grid = append(grid, x)
 		}
+	}
+	last := lo
+	for x := lo; x <= hi+1e-12; x += step {
+		add(x)
+		last = x
+	}
+	if hi-last > 1e-9 {
+		add(hi)
 	}
 	if c < 0 {
 		c = len(grid)

@@ -870,3 +870,38 @@ func TestProfileRefitKeptOnlyWhereItCounts(t *testing.T) {
 		t.Errorf("a refit lowering the loss from %.10g to about %.10g did not replace the fit (margin %.3g)", worse, loss, r.thresholdMargin())
 	}
 }
+
+// TestProfileReachesTheEndOfTheRange: without shear information only |α|
+// is profiled, over [0°, 90°], and 90° is a natural end of an interval
+// (README, Angle profiles: the ends of |α| ∈ [0°, 90°] are natural ends);
+// a profile still below its threshold at the last grid angle before 90°
+// reaches 90°. On a 4° grid the profile used to end at 88° (the step does
+// not divide 90°): one family near 86° (2 % noise) was given [84.18°,
+// 88°], and one near 88°, fitted at 88.52° beyond the last grid angle,
+// [85.38°, 88.52°], its fitted angle as the interval's upper end.
+func TestProfileReachesTheEndOfTheRange(t *testing.T) {
+	t.Parallel()
+	for _, a := range []float64{86, 88} {
+		m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 5, Params: []float64{3}}, a)
+		p, err := NewProblem(synthSpecimen(t, m, synthOptions{noise: 0.02, points: 20}), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+		r, err := Fit(p, st, Settings{Profile: true, ProfileStepDeg: 4})
+		if err != nil {
+			t.Fatal(err)
+		}
+		pr := r.Profiles[0]
+		last := len(pr.AnglesDeg) - 1
+		if math.Abs(pr.AnglesDeg[last]-90) > 1e-9 || math.Abs(pr.AnglesDeg[0]+90) > 1e-9 {
+			t.Errorf("family at %g°: the profile spans [%.4f°, %.4f°], not [−90°, 90°]", a, pr.AnglesDeg[0], pr.AnglesDeg[last])
+		}
+		if pr.Loss[last] <= pr.Threshold && pr.HiDeg != 90 {
+			t.Errorf("family at %g°: the profile is below its threshold at 90° (%.8g ≤ %.8g) but the interval is [%.4f°, %.4f°]", a, pr.Loss[last], pr.Threshold, pr.LoDeg, pr.HiDeg)
+		}
+		if pr.HiDeg != 90 {
+			t.Errorf("family at %g° (fitted %.3f°): interval [%.4f°, %.4f°], want it to reach 90°", a, pr.OptimumDeg, pr.LoDeg, pr.HiDeg)
+		}
+	}
+}

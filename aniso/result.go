@@ -89,6 +89,13 @@ type AngleProfile struct {
 	// Mirrored is true when only |α| was profiled (no shear information)
 	// and the curve was mirrored to negative angles.
 	Mirrored bool
+	// Unresolved is true when the sweeps over the grid stopped at their
+	// bound of work (profileRounds further rounds, or profileWork loss
+	// evaluations per grid angle) while the last still lowered the
+	// profile by more than 1e-6 of itself somewhere within a hundred
+	// threshold margins of the minimum: the profile may lie above the
+	// true one there, and its interval may be too narrow. Fit flags it.
+	Unresolved bool
 	// Evaluations counts the loss evaluations of the profile's own
 	// minimisations (its grid, guide and interval ends; the fit without
 	// the family excluded): the profile's work, the same on any number of

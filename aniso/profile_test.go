@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/biaxial"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"gonum.org/v1/gonum/optimize"
@@ -670,5 +671,389 @@ func TestPairProfileTwinIsNotAPiece(t *testing.T) {
 				t.Errorf("sutured %v: flag for the pair's own equivalent: %s", o.sutured, f)
 			}
 		}
+	}
+}
+
+// TestProfileMemoChangesNothing: a profile serves a minimisation it has
+// already run (the same start at the same angle, a cap it stopped within)
+// from its memo instead of running it again; the profiles are bit for bit
+// those with every minimisation run, at fewer loss evaluations. Two free
+// families without shear information (|α| profiled, sweeps repeated) and
+// one family spread in the plane. Not parallel: it sets
+// profileMemo, which every profile reads.
+func TestProfileMemoChangesNothing(t *testing.T) {
+	if testing.Short() {
+		t.Skip("profiles two forms twice each")
+	}
+	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-lin"), Family: -1, Weight: 3},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{5}},
+		{Shape: lookup("fib-expsq"), Family: 1, Weight: 8, Params: []float64{3}}}}
+	spread := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 40, Params: []float64{3}}, -30)
+	spread.Families[0].Planar, spread.Families[0].Concentration = true, 3
+	for _, c := range []struct {
+		name    string
+		m       *Model
+		layout  Layout
+		sutured bool
+	}{{"two families, no shear", two, LayoutFree, false}, {"spread family, no shear", spread, LayoutSingle, false}} {
+		s := synthSpecimen(t, c.m, synthOptions{noise: 0.02, points: 20, sutured: c.sutured})
+		p, err := NewProblem(s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st := Structure{Layout: c.layout, Planar: c.m.Families[0].Planar}
+		for _, tm := range c.m.Terms {
+			st.Terms = append(st.Terms, TermSpec{Shape: tm.Shape, Family: tm.Family})
+		}
+		keep := profileMemo
+		profileMemo = false
+		every, err := Fit(p, st, Settings{Profile: true})
+		profileMemo = keep
+		if err != nil {
+			t.Fatal(err)
+		}
+		memo, err := Fit(p, st, Settings{Profile: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(memo.Profiles) != len(every.Profiles) {
+			t.Fatalf("%s: %d and %d profiles", c.name, len(memo.Profiles), len(every.Profiles))
+		}
+		same := func(a, b float64) bool { return math.Float64bits(a) == math.Float64bits(b) }
+		n, m := 0, 0
+		for k, g := range memo.Profiles {
+			f := every.Profiles[k]
+			n, m = n+f.Evaluations, m+g.Evaluations
+			if !same(g.LoDeg, f.LoDeg) || !same(g.HiDeg, f.HiDeg) || len(g.Loss) != len(f.Loss) {
+				t.Errorf("%s %s: [%.9f, %.9f]° with the memo, [%.9f, %.9f]° without", c.name, f.Name, g.LoDeg, g.HiDeg, f.LoDeg, f.HiDeg)
+				continue
+			}
+			for j := range f.Loss {
+				if !same(g.Loss[j], f.Loss[j]) {
+					t.Errorf("%s %s at %g°: loss %.17g with the memo, %.17g without", c.name, f.Name, f.AnglesDeg[j], g.Loss[j], f.Loss[j])
+				}
+			}
+		}
+		if m >= n {
+			t.Errorf("%s: %d evaluations with the memo, %d without", c.name, m, n)
+		}
+		t.Logf("%s: %d evaluations with the memo, %d without", c.name, m, n)
+	}
+}
+
+// threeFamilies reads testdata/three-families-0-45-90.csv (synthetic: three
+// ideal fibre families at 0°, 45° and 90° on a neo-Hookean matrix, no
+// shear information, made by an independent script; testdata/README.md)
+// and returns it with the form discovery chooses for it (issue 14): two
+// free families spread in the plane, an I2 matrix, an exponential-squared
+// first family and a second with an exponential and a recruitment term (13
+// non-linear parameters and weights).
+func threeFamilies(t *testing.T) (*Problem, Structure) {
+	t.Helper()
+	s, err := biaxial.ReadFile("../testdata/three-families-0-45-90.csv", biaxial.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := NewProblem(s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p, Structure{Layout: LayoutFree, Planar: true, Terms: []TermSpec{
+		{Shape: lookup("i2-exp"), Family: -1},
+		{Shape: lookup("fib-expsq"), Family: 0},
+		{Shape: lookup("fib-exp"), Family: 1},
+		{Shape: lookup("fib-recruit"), Family: 1}}}
+}
+
+// TestProfileRefitSettlesOnSymmetryLine: a refit from a profile's lower
+// point exactly on 0° (no shear information) is settled on the line, as
+// the first fit is (README, Angles on a symmetry line). Until 2026-12-05
+// the refit of the three-family specimen of issue 14 stopped at 0.0003°:
+// its angle's slope nearly zero there, the Wald interval came out
+// ±4.45e6°, the angle was reported not-determined beside its bounded
+// profile interval [0°, 17.5°], and six correlation flags (|r| up to
+// 0.999) named it and the quantities tied to it.
+func TestProfileRefitSettlesOnSymmetryLine(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits a 13-parameter spread form")
+	}
+	t.Parallel()
+	p, st := threeFamilies(t)
+	// Where discovery's polish of this specimen started (its searched
+	// model): the fit stops at a second minimum near 7°, and the angle's
+	// profile meets a lower loss on 0°.
+	init := map[string]float64{"angle_1": 0.15899, "angle_2": 1.32724, "concentration_1": 2.777, "concentration_2": 200,
+		"onset[fib-recruit@f2]": 1.05398, "spread[fib-recruit@f2]": 0.077805, "stiffening[fib-exp@f2]": 1.0999,
+		"stiffening[fib-expsq@f1]": 5.1976, "stiffening[i2-exp]": 0}
+	set := Settings{Init: init, NoScan: true}
+	r, err := Fit(p, st, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	i := -1
+	for j, q := range r.e.params {
+		if q.Name == "angle_1" {
+			i = j
+		}
+	}
+	th := append([]float64(nil), r.theta...)
+	th[i] = 0
+	before := r.Loss
+	if !r.refitFrom(p, r.e, set.withDefaults(2, true), th) {
+		t.Fatalf("the refit from 0° did not replace the fit (loss %.10g)", before)
+	}
+	if r.theta[i] != 0 {
+		t.Errorf("angle_1 refitted to %.3g°, not on 0°", Deg(r.theta[i]))
+	}
+	// On the line the angle has no Wald interval; its profile gives it one.
+	for _, est := range r.Estimates {
+		if est.Name == "angle_1" && !est.onMirrorLine {
+			t.Errorf("angle_1 %.3g° is %s with the Wald interval [%.4g°, %.4g°]", est.Value, est.Status, est.Lo, est.Hi)
+		}
+	}
+	for _, f := range r.Flags {
+		if strings.Contains(f, "angle_1") {
+			t.Errorf("flag: %s", f)
+		}
+	}
+	t.Logf("loss %.10g -> %.10g, angle_1 %.4g°", before, r.Loss, Deg(r.theta[i]))
+}
+
+// TestProfileRefitKeptOnlyWhereItCounts: a refit from a profile's lower
+// point replaces the fit (and is profiled again) only when it lowers the
+// loss by at least profileRefitGain of the 95 % threshold's margin; a
+// smaller gain moves no interval end by more than about 5e-4 of its
+// half-width. Until 2026-12-05 any gain counted: discovery's polish of the
+// three-family specimen of issue 14 profiled its chosen model four times,
+// the last three refits lowering the loss by about 1e-9 of itself.
+func TestProfileRefitKeptOnlyWhereItCounts(t *testing.T) {
+	if testing.Short() {
+		t.Skip("fits a 13-parameter spread form")
+	}
+	t.Parallel()
+	p, st := threeFamilies(t)
+	// The chosen model's optimum, angle_1 on 0°.
+	init := map[string]float64{"angle_1": 0, "angle_2": 1.33343, "concentration_1": 2.2220, "concentration_2": 200,
+		"onset[fib-recruit@f2]": 1.053481, "spread[fib-recruit@f2]": 0.078291, "stiffening[fib-exp@f2]": 1.0529,
+		"stiffening[fib-expsq@f1]": 5.19895, "stiffening[i2-exp]": 0}
+	set := Settings{Init: init, NoScan: true}
+	r, err := Fit(p, st, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// A start a little off the optimum, from which the refit may lower the
+	// loss by round-off only.
+	th := append([]float64(nil), r.theta...)
+	for j, q := range r.e.params {
+		if q.Kind == kindConcentration {
+			th[j] *= 1 + 1e-4
+		}
+	}
+	loss, theta := r.Loss, append([]float64(nil), r.theta...)
+	if r.refitFrom(p, r.e, set.withDefaults(2, true), th) {
+		t.Fatalf("a refit from next to the optimum replaced the fit: loss %.12g -> %.12g (margin %.3g)", loss, r.Loss, r.thresholdMargin())
+	}
+	if r.Loss != loss || !r.e.holdsDerivatives(theta) {
+		t.Errorf("the fit moved: loss %.12g -> %.12g", loss, r.Loss)
+	}
+	// Far enough off, the refit counts.
+	th = append([]float64(nil), r.theta...)
+	for j, q := range r.e.params {
+		if q.Name == "angle_1" {
+			th[j] = Rad(6)
+		}
+	}
+	r.theta, r.Loss = th, r.e.eval(th, true)
+	worse := r.Loss
+	if !r.refitFrom(p, r.e, set.withDefaults(2, true), append([]float64(nil), theta...)) {
+		t.Errorf("a refit lowering the loss from %.10g to about %.10g did not replace the fit (margin %.3g)", worse, loss, r.thresholdMargin())
+	}
+}
+
+// TestProfileReachesTheEndOfTheRange: without shear information only |α|
+// is profiled, over [0°, 90°], and 90° is a natural end of an interval
+// (README, Angle profiles: the ends of |α| ∈ [0°, 90°] are natural ends);
+// a profile still below its threshold at the last grid angle before 90°
+// reaches 90°. On a 4° grid the profile used to end at 88° (the step does
+// not divide 90°): one family near 86° (2 % noise) was given [84.18°,
+// 88°], and one near 88°, fitted at 88.52° beyond the last grid angle,
+// [85.38°, 88.52°], its fitted angle as the interval's upper end.
+func TestProfileReachesTheEndOfTheRange(t *testing.T) {
+	t.Parallel()
+	for _, a := range []float64{86, 88} {
+		m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 5, Params: []float64{3}}, a)
+		p, err := NewProblem(synthSpecimen(t, m, synthOptions{noise: 0.02, points: 20}), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st := Structure{Layout: LayoutSingle, Terms: []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}}}
+		r, err := Fit(p, st, Settings{Profile: true, ProfileStepDeg: 4})
+		if err != nil {
+			t.Fatal(err)
+		}
+		pr := r.Profiles[0]
+		last := len(pr.AnglesDeg) - 1
+		if math.Abs(pr.AnglesDeg[last]-90) > 1e-9 || math.Abs(pr.AnglesDeg[0]+90) > 1e-9 {
+			t.Errorf("family at %g°: the profile spans [%.4f°, %.4f°], not [−90°, 90°]", a, pr.AnglesDeg[0], pr.AnglesDeg[last])
+		}
+		if pr.Loss[last] <= pr.Threshold && pr.HiDeg != 90 {
+			t.Errorf("family at %g°: the profile is below its threshold at 90° (%.8g ≤ %.8g) but the interval is [%.4f°, %.4f°]", a, pr.Loss[last], pr.Threshold, pr.LoDeg, pr.HiDeg)
+		}
+		if pr.HiDeg != 90 {
+			t.Errorf("family at %g° (fitted %.3f°): interval [%.4f°, %.4f°], want it to reach 90°", a, pr.OptimumDeg, pr.LoDeg, pr.HiDeg)
+		}
+	}
+}
+
+// TestProfileWorkBound: a sweep stops at its bound of work (profileWork
+// loss evaluations per grid angle, checked between rounds) and then says
+// so: a profile stopped while its last round still lowered it is
+// Unresolved and flagged, since it may lie above the true profile and its
+// interval may be too narrow. With the default bound the same profile
+// converges unflagged. Not parallel: it sets profileWork.
+func TestProfileWorkBound(t *testing.T) {
+	two := &Model{Families: []Family{{Angle: 10 * deg}, {Angle: 65 * deg}}, Terms: []Term{
+		{Shape: lookup("i1-lin"), Family: -1, Weight: 3},
+		{Shape: lookup("fib-expsq"), Family: 0, Weight: 20, Params: []float64{5}},
+		{Shape: lookup("fib-expsq"), Family: 1, Weight: 8, Params: []float64{3}}}}
+	p, err := NewProblem(synthSpecimen(t, two, synthOptions{noise: 0.02, points: 20}), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := Structure{Layout: LayoutFree}
+	for _, tm := range two.Terms {
+		st.Terms = append(st.Terms, TermSpec{Shape: tm.Shape, Family: tm.Family})
+	}
+	full, err := Fit(p, st, Settings{Profile: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	keep := profileWork
+	profileWork = 1
+	bound, err := Fit(p, st, Settings{Profile: true})
+	profileWork = keep
+	if err != nil {
+		t.Fatal(err)
+	}
+	stopped := 0
+	for k, pr := range full.Profiles {
+		b := bound.Profiles[k]
+		if pr.Unresolved {
+			t.Errorf("%s: unresolved under the default bound (%d evaluations)", pr.Name, pr.Evaluations)
+		}
+		if b.Evaluations > pr.Evaluations {
+			t.Errorf("%s: %d evaluations under a bound of one per grid angle, %d without", pr.Name, b.Evaluations, pr.Evaluations)
+		}
+		if !b.Unresolved {
+			continue
+		}
+		stopped++
+		flagged := false
+		for _, f := range bound.Flags {
+			flagged = flagged || strings.HasPrefix(f, pr.Name+": its loss profile was still falling")
+		}
+		if !flagged && !b.NotDetermined {
+			t.Errorf("%s: unresolved but not flagged: %q", pr.Name, bound.Flags)
+		}
+		t.Logf("%s: stopped at %d evaluations (%d to converge); interval [%.4f°, %.4f°] against [%.4f°, %.4f°]", pr.Name, b.Evaluations, pr.Evaluations, b.LoDeg, b.HiDeg, pr.LoDeg, pr.HiDeg)
+	}
+	if stopped == 0 {
+		t.Errorf("no profile needed a second round: the case does not test the bound")
+	}
+}
+
+// TestProfileIntervalsAgreeWithScipy: profile intervals of the chosen
+// models of two synthetic specimens made by independent scripts
+// (testdata/README.md) against an independent recomputation with SciPy
+// 1.10 (the profile audit of 2026-12-05): stresses, weighting and
+// threshold written from the README's definitions, not from weft's code;
+// at each trial angle every other non-linear parameter re-minimised by
+// scipy.optimize.least_squares (trf, tolerances 1e-12, from the fit's
+// optimum) with the weights by scipy.optimize.nnls; the ends found by
+// scipy.optimize.brentq to 1e-6°. SciPy's ends agree with weft's to
+// 6e-5°; the tolerance is the 0.002° to which weft places an end.
+func TestProfileIntervalsAgreeWithScipy(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		file  string
+		terms []TermSpec
+		ends  map[string][2]float64 // SciPy's interval of each angle, degrees
+	}{
+		{"two-families-10-70.csv", []TermSpec{{Shape: lookup("i1-lin"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("fib-expsq"), Family: 1}},
+			map[string][2]float64{"angle_1": {9.91885, 10.50232}, "angle_2": {69.96533, 70.28695}}},
+		{"one-family-0-demiray.csv", []TermSpec{{Shape: lookup("ps-pos"), Family: -1}, {Shape: lookup("fib-expsq"), Family: 0}, {Shape: lookup("i5-quad"), Family: 0}},
+			map[string][2]float64{"angle": {11.99228, 13.82455}}},
+	} {
+		s, err := biaxial.ReadFile("../testdata/"+c.file, biaxial.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		p, err := NewProblem(s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		layout := LayoutSingle
+		if len(c.ends) == 2 {
+			layout = LayoutFree
+		}
+		r, err := Fit(p, Structure{Layout: layout, Terms: c.terms}, Settings{Profile: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, pr := range r.Profiles {
+			want, ok := c.ends[pr.Name]
+			if !ok {
+				t.Fatalf("%s: no reference for %s", c.file, pr.Name)
+			}
+			if math.Abs(pr.LoDeg-want[0]) > 0.002 || math.Abs(pr.HiDeg-want[1]) > 0.002 {
+				t.Errorf("%s %s: [%.5f°, %.5f°], SciPy [%.5f°, %.5f°]", c.file, pr.Name, pr.LoDeg, pr.HiDeg, want[0], want[1])
+			}
+		}
+	}
+}
+
+// TestThreeFamilyProfileIsBoundedAndAgreesWithScipy: the chosen model of
+// the three-family specimen of issue 14 (threeFamilies: 13 parameters,
+// two spread families, angular integration in every evaluation) is
+// profiled within its bound of work, counted in loss evaluations, its
+// profiles converged; and its interval ends agree with an independent
+// recomputation with SciPy 1.10 (the profile audit of 2026-12-05: stresses,
+// in-plane spread on 900 directions, weighting and threshold written from
+// the README, not from weft's code; every other non-linear parameter
+// re-minimised by scipy.optimize.least_squares (trf) from weft's grid
+// neighbours' parameters, the weights by scipy.optimize.nnls; the end by
+// scipy.optimize.brentq to 0.005°) to within 0.05°, 0.25 % of the
+// intervals' widths: SciPy's end of angle_2 is 69.8166°, weft's 69.848°,
+// and of angle_1 17.478°, weft's 17.496°, since a profile point is a local minimisation capped at 40
+// iterations and on this form lies up to about 1e-6 of the loss above
+// SciPy's (SciPy's own minimisations scatter by about as much there).
+func TestThreeFamilyProfileIsBoundedAndAgreesWithScipy(t *testing.T) {
+	if testing.Short() {
+		t.Skip("profiles a 13-parameter spread form")
+	}
+	t.Parallel()
+	p, st := threeFamilies(t)
+	init := map[string]float64{"angle_1": 0, "angle_2": 1.33343, "concentration_1": 2.2220, "concentration_2": 200,
+		"onset[fib-recruit@f2]": 1.053481, "spread[fib-recruit@f2]": 0.078291, "stiffening[fib-exp@f2]": 1.0529,
+		"stiffening[fib-expsq@f1]": 5.19895, "stiffening[i2-exp]": 0}
+	r, err := Fit(p, st, Settings{Init: init, NoScan: true, Profile: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	scipy := map[string]float64{"angle_1": 17.478, "angle_2": 69.8166}
+	for _, pr := range r.Profiles {
+		grid := (len(pr.AnglesDeg) + 1) / 2 // mirrored: |α| on [0°, 90°]
+		if pr.Unresolved || pr.Evaluations > profileWork*grid {
+			t.Errorf("%s: %d loss evaluations over %d grid angles (bound %d), unresolved %v", pr.Name, pr.Evaluations, grid, profileWork*grid, pr.Unresolved)
+		}
+		end := pr.HiDeg
+		if pr.Name == "angle_2" {
+			end = pr.LoDeg
+		}
+		if math.Abs(end-scipy[pr.Name]) > 0.05 {
+			t.Errorf("%s: interval [%.4f°, %.4f°], SciPy's end at %.4f°", pr.Name, pr.LoDeg, pr.HiDeg, scipy[pr.Name])
+		}
+		t.Logf("%s: [%.4f°, %.4f°] (SciPy's end %.4f°), %d evaluations over %d grid angles", pr.Name, pr.LoDeg, pr.HiDeg, scipy[pr.Name], pr.Evaluations, grid)
 	}
 }

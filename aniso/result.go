@@ -62,9 +62,11 @@ type Metric struct {
 // angle is re-optimised from both neighbouring grid angles, and the loss is
 // never above the best loss of the form without the family the angle moves
 // (zero weights for that family are admissible at any angle). When a
-// profile meets a lower loss than the fit, Fit refits from there and
-// profiles again (at most maxProfileRefits times), so the fitted loss is
-// the profile's minimum and its value at OptimumDeg.
+// profile meets a lower loss than the fit, Fit refits from there and,
+// when that lowers the loss by at least profileRefitGain of the 95 %
+// threshold's margin, profiles again (at most maxProfileRefits times), so
+// the fitted loss is the profile's minimum (to within that fraction of the
+// margin) and its value at OptimumDeg.
 type AngleProfile struct {
 	// Name is the parameter's name ("angle", "angle_1", "mean_angle", ...).
 	Name string
@@ -87,6 +89,18 @@ type AngleProfile struct {
 	// Mirrored is true when only |α| was profiled (no shear information)
 	// and the curve was mirrored to negative angles.
 	Mirrored bool
+	// Unresolved is true when the sweeps over the grid stopped at their
+	// bound of work (profileRounds further rounds, or profileWork loss
+	// evaluations per grid angle) while the last still lowered the
+	// profile by more than 1e-6 of itself somewhere within a hundred
+	// threshold margins of the minimum: the profile may lie above the
+	// true one there, and its interval may be too narrow. Fit flags it.
+	Unresolved bool
+	// Evaluations counts the loss evaluations of the profile's own
+	// minimisations (its grid, guide and interval ends; the fit without
+	// the family excluded): the profile's work, the same on any number of
+	// cores.
+	Evaluations int
 
 	// minLoss and minTheta are the lowest point off the optimum and its
 	// parameters, to refit from when it lies below the fit.

@@ -766,6 +766,20 @@ func threeFamilies(t *testing.T) (*Problem, Structure) {
 		{Shape: lookup("fib-recruit"), Family: 1}}}
 }
 
+// threeFamiliesFrom fits the three-family specimen's chosen form from
+// init without an angle scan and returns the problem, the fit and the
+// settings it was fitted with.
+func threeFamiliesFrom(t *testing.T, init map[string]float64) (*Problem, *Result, Settings) {
+	t.Helper()
+	p, st := threeFamilies(t)
+	set := Settings{Init: init, NoScan: true}
+	r, err := Fit(p, st, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p, r, set
+}
+
 // TestProfileRefitSettlesOnSymmetryLine: a refit from a profile's lower
 // point exactly on 0° (no shear information) is settled on the line, as
 // the first fit is (README, Angles on a symmetry line). Until 2026-12-05
@@ -779,18 +793,12 @@ func TestProfileRefitSettlesOnSymmetryLine(t *testing.T) {
 		t.Skip("fits a 13-parameter spread form")
 	}
 	t.Parallel()
-	p, st := threeFamilies(t)
 	// Where discovery's polish of this specimen started (its searched
 	// model): the fit stops at a second minimum near 7°, and the angle's
 	// profile meets a lower loss on 0°.
-	init := map[string]float64{"angle_1": 0.15899, "angle_2": 1.32724, "concentration_1": 2.777, "concentration_2": 200,
+	p, r, set := threeFamiliesFrom(t, map[string]float64{"angle_1": 0.15899, "angle_2": 1.32724, "concentration_1": 2.777, "concentration_2": 200,
 		"onset[fib-recruit@f2]": 1.05398, "spread[fib-recruit@f2]": 0.077805, "stiffening[fib-exp@f2]": 1.0999,
-		"stiffening[fib-expsq@f1]": 5.1976, "stiffening[i2-exp]": 0}
-	set := Settings{Init: init, NoScan: true}
-	r, err := Fit(p, st, set)
-	if err != nil {
-		t.Fatal(err)
-	}
+		"stiffening[fib-expsq@f1]": 5.1976, "stiffening[i2-exp]": 0})
 	i := -1
 	for j, q := range r.e.params {
 		if q.Name == "angle_1" {
@@ -832,16 +840,10 @@ func TestProfileRefitKeptOnlyWhereItCounts(t *testing.T) {
 		t.Skip("fits a 13-parameter spread form")
 	}
 	t.Parallel()
-	p, st := threeFamilies(t)
 	// The chosen model's optimum, angle_1 on 0°.
-	init := map[string]float64{"angle_1": 0, "angle_2": 1.33343, "concentration_1": 2.2220, "concentration_2": 200,
+	p, r, set := threeFamiliesFrom(t, map[string]float64{"angle_1": 0, "angle_2": 1.33343, "concentration_1": 2.2220, "concentration_2": 200,
 		"onset[fib-recruit@f2]": 1.053481, "spread[fib-recruit@f2]": 0.078291, "stiffening[fib-exp@f2]": 1.0529,
-		"stiffening[fib-expsq@f1]": 5.19895, "stiffening[i2-exp]": 0}
-	set := Settings{Init: init, NoScan: true}
-	r, err := Fit(p, st, set)
-	if err != nil {
-		t.Fatal(err)
-	}
+		"stiffening[fib-expsq@f1]": 5.19895, "stiffening[i2-exp]": 0})
 	// A start a little off the optimum, from which the refit may lower the
 	// loss by round-off only.
 	th := append([]float64(nil), r.theta...)

@@ -475,16 +475,7 @@ func TestStabilityToleranceFollowsFungModulus(t *testing.T) {
 // value inside the point's resolution (tangent entries of 1e17 kPa), whose
 // digits are round-off.
 func TestWorstStabilityIsResolved(t *testing.T) {
-	matrix := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3.954996016747644}
-	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 60.60799979275015, Params: []float64{7.872752417683145}}
-	fams := []Family{{Angle: 29.979129122883652 * deg}}
-	card := &Model{Families: fams, Terms: []Term{matrix, fib}}
-	alone := &Model{Families: fams, Terms: []Term{matrix}}
-	g := DefaultStabilityGrid()
-	r, err := card.CheckStability(g)
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, alone, g, r := demoM1Stability(t)
 	w := r.WorstStability
 	if !r.Stable() || math.Abs(w.MinModuloRotation) <= w.Resolution {
 		t.Fatalf("stable %v; worst %g at %v within its resolution %g", r.Stable(), w.MinModuloRotation, w.F, w.Resolution)
@@ -541,16 +532,7 @@ func TestNeoHookeanSingularAtUnitDeterminant(t *testing.T) {
 // membrane energy written from the README) gives 7.909992 kPa = 2w at all
 // four points.
 func TestFullIndefiniteTensileIsResolved(t *testing.T) {
-	matrix := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3.954996016747644}
-	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 60.60799979275015, Params: []float64{7.872752417683145}}
-	fams := []Family{{Angle: 29.979129122883652 * deg}}
-	card := &Model{Families: fams, Terms: []Term{matrix, fib}}
-	alone := &Model{Families: fams, Terms: []Term{matrix}}
-	g := DefaultStabilityGrid()
-	r, err := card.CheckStability(g)
-	if err != nil {
-		t.Fatal(err)
-	}
+	card, alone, g, r := demoM1Stability(t)
 	ra, err := alone.CheckStability(g)
 	if err != nil {
 		t.Fatal(err)
@@ -613,4 +595,22 @@ func TestLowestModeMixesRotationAndDeformation(t *testing.T) {
 	if !(p.MinModuloRotation > 0) {
 		t.Errorf("criterion modulo rotation %g, want > 0", p.MinModuloRotation)
 	}
+}
+
+// demoM1Stability is demo M1's card (i1-lin and one fib-expsq family at
+// 29.98°, its fitted numbers), the same model without its fibres, the
+// default stability grid and the card's scan over it.
+func demoM1Stability(t *testing.T) (card, alone *Model, g StabilityGrid, r StabilityReport) {
+	t.Helper()
+	matrix := Term{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3.954996016747644}
+	fib := Term{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 60.60799979275015, Params: []float64{7.872752417683145}}
+	fams := []Family{{Angle: 29.979129122883652 * deg}}
+	card = &Model{Families: fams, Terms: []Term{matrix, fib}}
+	alone = &Model{Families: fams, Terms: []Term{matrix}}
+	g = DefaultStabilityGrid()
+	r, err := card.CheckStability(g)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return card, alone, g, r
 }

@@ -173,12 +173,7 @@ func checkTangentAgainstHessian(t *testing.T, m *Model, energy func([]float64) f
 	}
 	var H mat.SymDense
 	fd.Hessian(&H, energy, F[:], &fd.Settings{Formula: fd.Central, Step: 1e-4})
-	amax := 0.0
-	for i := range tg.A {
-		for j := range tg.A[i] {
-			amax = math.Max(amax, math.Abs(tg.A[i][j]))
-		}
-	}
+	amax := largestEntry(tg.A)
 	for i := range tg.A {
 		for j := range tg.A[i] {
 			if math.Abs(tg.A[i][j]-H.At(i, j)) > 1e-5*amax {

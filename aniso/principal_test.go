@@ -194,12 +194,7 @@ func TestOgdenTangent(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			amax := 0.0
-			for i := range a0.A {
-				for j := range a0.A[i] {
-					amax = math.Max(amax, math.Abs(a0.A[i][j]))
-				}
-			}
+			amax := largestEntry(a0.A)
 			for _, eps := range []float64{1e-3, 1e-6, 1e-9, 1e-12, 1e-15} {
 				for _, F := range [][4]float64{{l * (1 + eps), 0, 0, l}, {l, eps, 0, l}} {
 					a, _ := m.Tangent(F)

@@ -101,12 +101,7 @@ func TestTangentFiniteDifference(t *testing.T) {
 			if math.Abs(tg.Energy-r.Energy) > 1e-12*math.Max(1, math.Abs(r.Energy)) {
 				t.Errorf("%s at %v: energy %.15g vs Evaluate %.15g", id, F, tg.Energy, r.Energy)
 			}
-			amax := 0.0
-			for i := range tg.A {
-				for j := range tg.A[i] {
-					amax = math.Max(amax, math.Abs(tg.A[i][j]))
-				}
-			}
+			amax := largestEntry(tg.A)
 			fdA := fdTangent(t, m, F, 1e-6)
 			for j := 0; j < 4; j++ {
 				for i := 0; i < 4; i++ {
@@ -149,12 +144,7 @@ func TestTangentWholeModels(t *testing.T) {
 			if err != nil {
 				continue // beyond a Gent limit: no tangent, as Evaluate
 			}
-			amax := 0.0
-			for i := range tg.A {
-				for j := range tg.A[i] {
-					amax = math.Max(amax, math.Abs(tg.A[i][j]))
-				}
-			}
+			amax := largestEntry(tg.A)
 			for i := range tg.A {
 				for j := range tg.A[i] {
 					if math.Abs(tg.A[i][j]-tg.A[j][i]) > 1e-13*amax {
@@ -262,4 +252,16 @@ func TestTangentAtRestIsTheMatrixAlone(t *testing.T) {
 			}
 		}
 	}
+}
+
+// largestEntry is the largest |A[i][j]| of a tangent: the scale its
+// entries are compared at.
+func largestEntry(A [4][4]float64) float64 {
+	m := 0.0
+	for i := range A {
+		for j := range A[i] {
+			m = math.Max(m, math.Abs(A[i][j]))
+		}
+	}
+	return m
 }

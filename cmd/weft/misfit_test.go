@@ -1,8 +1,6 @@
 package main
 
 import (
-	"encoding/json"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -28,21 +26,9 @@ func TestMisfitFlagOnACoupledPair(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	b, err := os.ReadFile(filepath.Join(dir, "f", "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var c struct {
-		Fit struct {
-			Flags []string `json:"flags"`
-		} `json:"fit"`
-		Verdict struct {
-			Families string `json:"families"`
-			Reason   string `json:"reason"`
-		} `json:"verdict"`
-	}
-	if err := json.Unmarshal(b, &c); err != nil {
-		t.Fatal(err)
+	c, _ := readCardFile(t, filepath.Join(dir, "f", "model.json"))
+	if c.Fit == nil || c.Verdict == nil {
+		t.Fatal("the card has no fit or verdict section")
 	}
 	t.Logf("verdict %s", c.Verdict.Families)
 	found := ""

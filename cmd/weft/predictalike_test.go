@@ -2,7 +2,6 @@ package main
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"fmt"
 	"math"
 	"os"
@@ -58,18 +57,9 @@ func TestPredictAlikeBandCoversUntestedStrip(t *testing.T) {
 		t.Errorf("summary's untested strips:\n%s", summary)
 	}
 	// The card records it (untested_strips) and the report says it.
-	var cd struct {
-		Untested []struct {
-			Label   string  `json:"label"`
-			Percent float64 `json:"percent"`
-		} `json:"untested_strips"`
-	}
-	b, err := os.ReadFile(filepath.Join(dir, "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := json.Unmarshal(b, &cd); err != nil || len(cd.Untested) != 2 || cd.Untested[0].Label != "1:0" || !(cd.Untested[0].Percent > 1) || cd.Untested[1].Label != "1:0 turned 45°" {
-		t.Errorf("card's untested_strips %+v (%v); want 1:0 and, for an orthotropic solid, 1:0 turned 45°", cd.Untested, err)
+	cd, _ := readCardFile(t, filepath.Join(dir, "model.json"))
+	if u := cd.UntestedStrips; len(u) != 2 || u[0].Label != "1:0" || !(u[0].Percent > 1) || u[1].Label != "1:0 turned 45°" {
+		t.Errorf("card's untested_strips %+v; want 1:0 and, for an orthotropic solid, 1:0 turned 45°", u)
 	}
 	if html, err := os.ReadFile(filepath.Join(dir, "report.html")); err != nil || !strings.Contains(string(html), "Strips not tested (one axis held at stretch 1; turned: the specimen cut or mounted so)") {
 		t.Errorf("report.html does not name the untested strip (%v)", err)

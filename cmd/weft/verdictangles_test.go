@@ -1,10 +1,8 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -23,27 +21,15 @@ func TestVerdictQuotesTheChosenModelsAngles(t *testing.T) {
 	}
 	t.Parallel()
 	dir := fitPath(t, filepath.Join("testdata", "two-families-nine-protocols.csv"))
-	b, err := os.ReadFile(filepath.Join(dir, "model.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var c struct {
-		Families []struct {
-			AngleDeg float64 `json:"angle_deg"`
-		} `json:"families"`
-		Verdict struct {
-			Families string `json:"families"`
-			Reason   string `json:"reason"`
-		} `json:"verdict"`
-	}
-	if err := json.Unmarshal(b, &c); err != nil {
-		t.Fatal(err)
+	c, _ := readCardFile(t, filepath.Join(dir, "model.json"))
+	if c.Verdict == nil {
+		t.Fatal("the card has no verdict section")
 	}
 	if c.Verdict.Families != "2" || len(c.Families) != 2 {
 		t.Fatalf("verdict %q with %d families; want 2", c.Verdict.Families, len(c.Families))
 	}
 	// No shear information: the verdict gives magnitudes (±).
-	want := fmt.Sprintf("two fibre families at ±%.1f°, ±%.1f°", math.Abs(c.Families[0].AngleDeg), math.Abs(c.Families[1].AngleDeg))
+	want := fmt.Sprintf("two fibre families at ±%.1f°, ±%.1f°", math.Abs(*c.Families[0].AngleDeg), math.Abs(*c.Families[1].AngleDeg))
 	if !strings.HasPrefix(c.Verdict.Reason, want) {
 		t.Errorf("the verdict begins %.60q, want %q (the card's angles)", c.Verdict.Reason, want)
 	}

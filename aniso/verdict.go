@@ -185,29 +185,21 @@ func (d *Discovery) noteRefittedAnswer(c *Candidate) {
 		!strings.Contains(d.Verdict.Reason, " at "+anglesText(was)) {
 		return
 	}
-	// Each searched family against the refitted one it is nearest to:
-	// the refit may list two free families in the other order.
-	angle := func(r *Result, f int) float64 {
-		a := WrapDeg(Deg(r.Model.Families[f].Angle))
-		if !r.SignKnown {
-			a = math.Abs(a)
+	// directionGapDeg pairs each searched family with the refitted one it
+	// is nearest to: the refit may list two free families in the other
+	// order.
+	moved := directionGapDeg(was.Model, now.Model, now.SignKnown) > answerMovedDeg
+	if was.Structure.Planar {
+		var b0, b1 []float64
+		for f := range was.Model.Families {
+			b0 = append(b0, was.Model.Families[f].Concentration)
+			b1 = append(b1, now.Model.Families[f].Concentration)
 		}
-		return a
-	}
-	movedAs := func(pair []int) bool {
-		moved := false
-		for f, g := range pair {
-			moved = moved || math.Abs(WrapDeg(angle(now, g)-angle(was, f))) > answerMovedDeg
-			if was.Structure.Planar {
-				b0, b1 := was.Model.Families[f].Concentration, now.Model.Families[g].Concentration
-				moved = moved || math.Abs(b1-b0) > answerMovedSpread*math.Max(b0, 1)
-			}
+		sort.Float64s(b0)
+		sort.Float64s(b1)
+		for i := range b0 {
+			moved = moved || math.Abs(b1[i]-b0[i]) > answerMovedSpread*math.Max(b0[i], 1)
 		}
-		return moved
-	}
-	moved := movedAs([]int{0, 1}[:len(was.Model.Families)])
-	if len(was.Model.Families) == 2 {
-		moved = moved && movedAs([]int{1, 0})
 	}
 	if !moved {
 		return

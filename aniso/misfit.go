@@ -124,13 +124,30 @@ func (d *Discovery) NoteMisfit(ratio float64) {
 // NoteCohortMisfit adds to a cohort's verdict with fibre families the
 // caution NoteMisfit adds to one specimen's, when the shared form's
 // residuals are MisfitFlagRatio or more times the specimens' own scatter
-// at the median specimen (median of their MisfitScatterRatio; flagged of
-// fitted specimens at or above it): the pooled walk's margins then rest on
-// a noise estimate that includes the misfit of most specimens.
-func (d *Discovery) NoteCohortMisfit(median float64, flagged, fitted int) {
+// at the median specimen: the pooled walk's margins then rest on a noise
+// estimate that includes the misfit of most specimens. ratios are the
+// fitted specimens' MisfitScatterRatio (NaN where none was estimated,
+// left out).
+func (d *Discovery) NoteCohortMisfit(ratios []float64) {
+	var rs []float64
+	flagged := 0
+	for _, r := range ratios {
+		if !math.IsNaN(r) {
+			rs = append(rs, r)
+			if r >= MisfitFlagRatio {
+				flagged++
+			}
+		}
+	}
 	v := &d.Verdict
-	if median < MisfitFlagRatio || (v.Families != "1" && v.Families != "2" && v.Families != "1-or-mirror-pair") {
+	if len(rs) == 0 || (v.Families != "1" && v.Families != "2" && v.Families != "1-or-mirror-pair") {
 		return
 	}
-	v.Reason += fmt.Sprintf("; caution: the shared form misfits %d of the %d specimens fitted, its residuals %.1f times their own scatter at the median specimen, and the margins of this verdict are scaled by a noise estimate that includes that misfit: the number of families is what the tested protocols need of the catalogue's forms, not necessarily the tissue's, and a loading off the tested axes should be tested before the families are relied on", flagged, fitted, median)
+	sort.Float64s(rs)
+	n := len(rs)
+	median := (rs[(n-1)/2] + rs[n/2]) / 2
+	if median < MisfitFlagRatio {
+		return
+	}
+	v.Reason += fmt.Sprintf("; caution: the shared form misfits %d of the %d specimens fitted, its residuals %.1f times their own scatter at the median specimen, and the margins of this verdict are scaled by a noise estimate that includes that misfit: the number of families is what the tested protocols need of the catalogue's forms, not necessarily the tissue's, and a loading off the tested axes should be tested before the families are relied on", flagged, n, median)
 }

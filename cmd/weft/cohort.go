@@ -500,29 +500,16 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 }
 
 // noteCohortMisfit adds to a discovered cohort's verdict the caution of
-// a shared form that misfits most of its specimens (the median of their
-// misfit ratios at aniso.MisfitFlagRatio or more).
+// a shared form that misfits most of its specimens.
 func noteCohortMisfit(c *aniso.Cohort, sps []cohortreport.Specimen) {
 	if c.Discovery == nil {
 		return
 	}
 	var ratios []float64
-	flagged := 0
 	for _, sp := range sps {
-		if !math.IsNaN(sp.MisfitRatio) {
-			ratios = append(ratios, sp.MisfitRatio)
-			if sp.MisfitRatio >= aniso.MisfitFlagRatio {
-				flagged++
-			}
-		}
+		ratios = append(ratios, sp.MisfitRatio)
 	}
-	if len(ratios) == 0 {
-		return
-	}
-	sort.Float64s(ratios)
-	n := len(ratios)
-	median := (ratios[(n-1)/2] + ratios[n/2]) / 2
-	c.Discovery.NoteCohortMisfit(median, flagged, n)
+	c.Discovery.NoteCohortMisfit(ratios)
 }
 
 // spanOf is the span of the data of ps together, with the fibre stretch

@@ -113,7 +113,7 @@ func (d *designer) candidates(set DesignSettings) ([]PlannedTest, []string) {
 		}
 	}
 	switch {
-	case iso && hasGreen(d.r.Model):
+	case iso && d.r.Model.HasGreenTerm():
 		// A Fung-type term is not isotropic: it is orthotropic about the
 		// tester's axes, so it predicts no shear on sutures either, and
 		// turned axes would need coupling terms its form does not have.
@@ -124,7 +124,7 @@ func (d *designer) candidates(set DesignSettings) ([]PlannedTest, []string) {
 		notes = append(notes, "the model has no fibre family and its Fung-type term is orthotropic about the tester's axes, as is every explanation a question weighs: it predicts no shear on sutures, and off-axis mountings would need coupling terms its form does not have, so only stretch ratios are planned, and no planned test is scored on a fibre question")
 	case iso:
 		notes = append(notes, "the model is isotropic, as is every explanation a question weighs: its response does not depend on how the specimen is mounted and it predicts no shear on sutures, so only stretch ratios are planned, and no planned test is scored on a fibre question")
-	case len(set.MountingsDeg) > 0 && hasGreen(d.r.Model):
+	case len(set.MountingsDeg) > 0 && d.r.Model.HasGreenTerm():
 		if greenCoupled(d.r.Model) {
 			notes = append(notes, "off-axis mountings are not planned: the Fung-type term is tied to the tester's axes, and the plan does not turn its quadratic form with the specimen")
 			break

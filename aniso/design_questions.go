@@ -243,7 +243,7 @@ func singleOf(m *Model, a float64) *Model {
 // turned is m seen from tester axes turned by psi (radians) from m's axis 1
 // towards its axis 2: every family's angle less psi. Only invariant terms
 // follow a turn this way (a Green-strain term is tied to the tester's axes;
-// see hasGreen).
+// see Model.HasGreenTerm).
 func turned(m *Model, psi float64) *Model {
 	if psi == 0 {
 		return m

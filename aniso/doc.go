@@ -171,7 +171,7 @@
 // select.go) and architectureTieRule; presetrules.go the classical
 // presets' rules, orthotropyRule (a Fung-type preset without fibres that
 // fits better; README, "Fibre families: the verdict") and presetCaution
-// (a classical preset that fits better), with hasGreen and greenCoupled;
+// (a classical preset that fits better), with greenCoupled (Model.HasGreenTerm tells a Fung-type term);
 // cautions.go the cautions of fibres along a test axis when the data show
 // an untared preload or scattered shear, and of ideal families only);
 // the polish on every point, with two free families relabelled in angle

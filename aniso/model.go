@@ -63,6 +63,19 @@ func (m *Model) TermPolyconvex(i int) bool {
 	return !(t.Shape.Arg == terms.Fibre && t.Family >= 0 && t.Family < len(m.Families) && m.Families[t.Family].Dispersion > 0)
 }
 
+// HasGreenTerm reports whether m has a Green-strain (Fung-type) term of
+// positive weight. Such a term's axes are the tester's: turning the
+// specimen is not a turn of its terms, and a sheared grip meets its
+// normal–shear couplings.
+func (m *Model) HasGreenTerm() bool {
+	for _, t := range m.Terms {
+		if t.Shape != nil && t.Shape.Arg == terms.Green && t.Weight > 0 {
+			return true
+		}
+	}
+	return false
+}
+
 // Validate reports the first inconsistency: a missing shape, a family index
 // that does not fit the shape's argument, a negative or non-finite weight,
 // parameters out of bounds, a non-finite angle or a dispersion outside

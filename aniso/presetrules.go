@@ -65,7 +65,7 @@ func (d *Discovery) orthotropyRule(v *Verdict) {
 	var bestDBIC float64
 	for i := range d.Presets {
 		c := &d.Presets[i]
-		if c.Result == nil || c.CV == nil || len(c.Result.Model.Families) > 0 || !hasGreen(c.Result.Model) {
+		if c.Result == nil || c.CV == nil || len(c.Result.Model.Families) > 0 || !c.Result.Model.HasGreenTerm() {
 			continue
 		}
 		dBIC := chosen.Compared().BIC - c.Compared().BIC
@@ -105,22 +105,11 @@ func presetWhat(r *Result) string {
 	switch {
 	case len(r.Model.Families) > 0:
 		return anglesText(r)
-	case hasGreen(r.Model):
+	case r.Model.HasGreenTerm():
 		return "a Fung-type term " + greenAxes(r.Model) + ", no fibre family: the data's anisotropy need not come from fibres"
 	default:
 		return "isotropic, no fibre family"
 	}
-}
-
-// hasGreen reports whether m has a Green-strain (Fung-type) term, whose
-// axes are the tester's: turning the specimen is not a turn of its terms.
-func hasGreen(m *Model) bool {
-	for _, t := range m.Terms {
-		if t.Shape.Arg == terms.Green && t.Weight > 0 {
-			return true
-		}
-	}
-	return false
 }
 
 // greenCoupled reports whether m has a generalised Green-strain term

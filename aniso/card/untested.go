@@ -6,7 +6,6 @@ import (
 	"strings"
 
 	"github.com/weft-tools/weft/aniso"
-	"github.com/weft-tools/weft/terms"
 )
 
 // KeyUntestedStrips is the key of the section on the strips the data did
@@ -194,22 +193,18 @@ func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, label, he
 
 // turnedMatters reports whether a turned strip can part the models from
 // the strips in the tester's axes: whether m or a near-equivalent model has
-// a fibre family or a Green-strain (Fung-type) term, whose response
-// depends on the direction of loading. An isotropic band is the same
-// along every direction.
+// a fibre family or a Green-strain (Fung-type) term of positive weight
+// (Model.HasGreenTerm), whose response depends on the direction of
+// loading. An isotropic band is the same along every direction; a
+// zero-weight term adds nothing to it.
 func turnedMatters(m *aniso.Model, alike []AlikeModel) bool {
 	models := []*aniso.Model{m}
 	for _, a := range alike {
 		models = append(models, a.Model)
 	}
 	for _, x := range models {
-		if len(x.Families) > 0 {
+		if len(x.Families) > 0 || x.HasGreenTerm() {
 			return true
-		}
-		for _, t := range x.Terms {
-			if t.Shape.Arg == terms.Green {
-				return true
-			}
 		}
 	}
 	return false

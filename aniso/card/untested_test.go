@@ -87,3 +87,33 @@ func TestUntestedStripsWithoutNearEquivalents(t *testing.T) {
 		t.Errorf("read back: %+v, %v", back.UntestedStrips, err)
 	}
 }
+
+// A strip turned 45° is measured when a model of the band responds to the
+// direction of loading: a Green-strain (Fung-type) term of positive
+// weight does (Tong & Fung 1976: its Q is written in the tester's axes,
+// so b1 ≠ b2 makes the strip 1:0 differ from the strip at 45°); the same
+// term at weight zero leaves an isotropic neo-Hookean solid, the same
+// along every direction (until 2026-12-05 the zero-weight term added a
+// turned strip that read like the others).
+func TestTurnedStripNeedsAWeightedFungTerm(t *testing.T) {
+	fung := func(w float64) *aniso.Model {
+		return &aniso.Model{Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 5},
+			{Shape: terms.Lookup("fung"), Family: -1, Weight: w, Params: []float64{20, 5, 0, 10}},
+		}}
+	}
+	eq := [][][4]float64{{{1.05, 0, 0, 1.05}, {1.1, 0, 0, 1.1}}}
+	for _, tc := range []struct {
+		weight float64
+		want   int
+	}{{0, 2}, {3, 3}} {
+		m := fung(tc.weight)
+		c := FromModel(m, "kPa", nil)
+		c.Fit = &FitSection{}
+		c.Selection = &SelectionSection{Pareto: []CandidateCard{{Name: "chosen", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(m)}}}
+		strips, err := NewUntestedStrips(eq, false, c, m)
+		if err != nil || len(strips) != tc.want {
+			t.Errorf("Fung-type weight %g: %d strips (%+v), %v; want %d", tc.weight, len(strips), strips, err, tc.want)
+		}
+	}
+}

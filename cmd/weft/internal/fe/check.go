@@ -318,7 +318,7 @@ func stiffnessCause(m *aniso.Model, mod *aniso.Moduli, shear bool) string {
 					"and no isotropic term adds stiffness (mu0 = 0)", i+1, id, c.Detail))
 			}
 		}
-		if !hasGreenTerm(m) {
+		if !m.HasGreenTerm() {
 			s := "the matrix terms have no initial shear modulus (mu0 = 0), so at F = I "
 			if oneSided {
 				s += "only fibre terms, on their tension side, give stiffness"
@@ -489,10 +489,10 @@ func checkModuli(rep *CheckReport, m *aniso.Model, names []string) error {
 		"with the other in-plane stresses zero; fibre and I5 terms engage only while their family stretches (I4 > 1) and cofactor terms " +
 		"only while K > 1, each adding its stiffness w f''(0) grad x (x) grad x on one side only, so tension and compression differ; the engaged terms are listed; " +
 		"0 means no small-strain stiffness"
-	if mod.InitialShear <= 0 && !hasGreenTerm(m) {
+	if mod.InitialShear <= 0 && !m.HasGreenTerm() {
 		rep.Warnings = append(rep.Warnings, "the isotropic terms give no initial shear modulus: at small strain the membrane relies on fibres alone or has no stiffness")
 	}
-	if hasGreenTerm(m) {
+	if m.HasGreenTerm() {
 		rep.Moduli.Note += "; a Fung-type term (Tong & Fung 1976) acts on both sides and is anisotropic in the tester's axes: it adds to every modulus but not to the isotropic initial shear modulus mu0"
 	}
 	return nil
@@ -517,16 +517,6 @@ func gridExtrapolation(dr *card.DataRange, m *aniso.Model, g aniso.StabilityGrid
 		}
 	}
 	return out
-}
-
-// hasGreenTerm reports whether m has an active term in the Green strain.
-func hasGreenTerm(m *aniso.Model) bool {
-	for _, t := range m.Terms {
-		if t.Shape.Arg == terms.Green && t.Weight > 0 {
-			return true
-		}
-	}
-	return false
 }
 
 func passText(ok bool) string {

@@ -89,6 +89,11 @@ type CohortSpecimen struct {
 	DirectionGap float64
 	// Err says why the specimen could not be used.
 	Err error
+	// candidateFits[k] is this specimen's fit (on its search subset) of
+	// the form of the cohort's Discovery.Pareto[k], presetFits[k] of
+	// Discovery.Presets[k]; empty when the form was given or the
+	// specimen could not be used. SpecimenEvidence reads them.
+	candidateFits, presetFits []*Result
 }
 
 // CohortSupport counts the specimens that support the cohort's verdict.
@@ -129,6 +134,41 @@ type Cohort struct {
 	Scouts []int
 	// Elapsed wall time.
 	Elapsed time.Duration
+}
+
+// SpecimenEvidence returns the cohort's pooled evidence as specimen i
+// meets it: a copy of Discovery whose candidates and presets carry the
+// specimen's own fits of their forms (on its search subset, as the pooled
+// evidence fitted them) while their held-out scores, the choice and the
+// verdict stay the pooled ones. The forms the pooled held-out protocols
+// could not tell from the chosen one, each as fitted to this specimen,
+// make the band of its untested loadings. nil when the form was given or
+// specimen i could not be used.
+func (c *Cohort) SpecimenEvidence(i int) *Discovery {
+	if c.Discovery == nil || i < 0 || i >= len(c.Specimens) {
+		return nil
+	}
+	sp := &c.Specimens[i]
+	if sp.Err != nil || len(sp.candidateFits) != len(c.Discovery.Pareto) || len(sp.presetFits) != len(c.Discovery.Presets) {
+		return nil
+	}
+	d := *c.Discovery
+	d.Pareto = append([]Candidate(nil), c.Discovery.Pareto...)
+	for k, r := range sp.candidateFits {
+		if r == nil {
+			return nil
+		}
+		d.Pareto[k].Result, d.Pareto[k].Searched = r, nil
+	}
+	d.Presets = nil
+	for k, r := range sp.presetFits {
+		if r != nil {
+			pc := c.Discovery.Presets[k]
+			pc.Result, pc.Searched = r, nil
+			d.Presets = append(d.Presets, pc)
+		}
+	}
+	return &d
 }
 
 // ErrNoSpecimen says that no specimen of a cohort could be used.

@@ -66,6 +66,7 @@ func (c *cohortRun) discoverForm() (Structure, error) {
 	presets := c.compareGreenPresets()
 	c.noteMixedShear(&d.Verdict)
 	c.support(presets)
+	c.keepSpecimenFits(presets)
 	ci := c.paretoCand[d.Chosen]
 	c.init = c.cands[ci].init
 	d.Search = append(d.Search, c.searchNotes()...)
@@ -750,6 +751,22 @@ func (c *cohortRun) support(presets []*cohortCandidate) {
 	}
 	d.Verdict.Reason += fmt.Sprintf("; on its own evidence, %d of %d specimens reach the same verdict (%d of them with the same form, %s; %d of them with their own model's fibre directions within %d° of the cohort's, %s)",
 		s.SameVerdict, s.Specimens, s.SameForm, want, s.SameDirection, directionToleranceDeg, directionWords(ref))
+}
+
+// keepSpecimenFits keeps, for each usable specimen, its fits of the
+// pooled candidates and presets (SpecimenEvidence).
+func (c *cohortRun) keepSpecimenFits(presets []*cohortCandidate) {
+	for _, i := range c.usable() {
+		sp := &c.out.Specimens[i]
+		sp.candidateFits = make([]*Result, len(c.paretoCand))
+		for k, ci := range c.paretoCand {
+			sp.candidateFits[k] = c.cands[ci].fits[i]
+		}
+		sp.presetFits = make([]*Result, len(presets))
+		for k, cd := range presets {
+			sp.presetFits[k] = cd.fits[i]
+		}
+	}
 }
 
 // searchNotes say how the cohort's candidates were found and scored.

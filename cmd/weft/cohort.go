@@ -449,7 +449,19 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 					sp.MisfitRatio = ratio
 				}
 				sp.Result, sp.CV, sp.Folder = cs.Result, cs.CV, m.folder
-				cards[m.folder] = card.FromFit(m.prob, cs.Result, nil)
+				cd := card.FromFit(m.prob, cs.Result, nil)
+				if ev := c.SpecimenEvidence(m.at); ev != nil && m.spec != nil {
+					// The band is the forms the pooled held-out protocols
+					// could not tell from the cohort's, each as fitted to
+					// this specimen; the card read with that selection
+					// lends its near-equivalents and is not written.
+					var err error
+					if cd.UntestedStrips, err = untestedStrips(m.spec, card.FromFit(m.prob, cs.Result, ev), cs.Result.Model); err != nil {
+						return nil, nil, fmt.Errorf("%s: the untested strips: %w", m.file, err)
+					}
+				}
+				cards[m.folder] = cd
+				sp.UntestedStrips = cd.UntestedStrips
 				fits = append(fits, cs.Result)
 				averaged = append(averaged, m.prob)
 			}

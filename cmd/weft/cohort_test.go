@@ -264,6 +264,16 @@ func TestCohortDiscovered(t *testing.T) {
 	if v := s.Verdict; v == nil || v.Families != "1-or-mirror-pair" || v.Support.Specimens != 4 || len(v.Candidates) == 0 {
 		t.Errorf("verdict %+v", v)
 	}
+	// No other pooled candidate predicted the held-out protocols as well:
+	// each specimen's card still lists the strips its tests left out,
+	// with null numbers, as weft fit's card does.
+	c, _ := readCardFile(t, filepath.Join(out, "C001.weft", "model.json"))
+	if len(c.UntestedStrips) != 3 || c.UntestedStrips[0].Models != 0 || !strings.Contains(c.UntestedStrips[0].Summary, "nothing measures") {
+		t.Errorf("C001's untested strips %+v, want 1:0, 0:1 and 1:0 turned 45° with nothing measuring them", c.UntestedStrips)
+	}
+	if note := noteWith(s.Notes, "untested strips"); !strings.Contains(note, "1:0 (4 specimens): no form came near the cohort's, nothing measures it") {
+		t.Errorf("cohort.json's strips note %q", note)
+	}
 	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-all.svg", "C001.weft/curves.csv", "C001.weft/heldout.csv"} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
 			t.Errorf("%s not written: %v", f, err)
@@ -274,6 +284,69 @@ func TestCohortDiscovered(t *testing.T) {
 	for _, cmd := range []string{"report", "plan"} {
 		if _, stderr, code := runWeft(t, cmd, out, "--force"); code != 2 || !strings.Contains(stderr, "is a cohort's folder") || !strings.Contains(stderr, "C001.weft") {
 			t.Errorf("weft %s on the cohort's folder: exit %d, %s", cmd, code, stderr)
+		}
+	}
+}
+
+// Each specimen of a discovered cohort gets the untested strips of weft
+// fit (until 2026-12-05 a cohort's cards had none): the forms the pooled
+// held-out protocols could not tell from the cohort's, each as fitted to
+// that specimen, make its band. Four SYNTHETIC specimens, one family near
+// the axis (3° ± 3°, no shear information), where a single family and a
+// mirror pair are near-equivalent. Reference: the strip 1:0 (λ2 = 1,
+// λ3 = 1/λ1) of each specimen's generating law in closed form, a
+// neo-Hookean matrix and an exponential fibre family, σ11 = 2 c10 (λ1² −
+// λ3²) + 2 ψ4 λ1² cos²α with ψ4 = k1 (I4 − 1) exp(k2 (I4 − 1)²), I4 =
+// λ1² cos²α + sin²α (Holzapfel, Gasser & Ogden 2000; Rivlin 1948): the
+// strip's largest stress is that specimen's own model, within 3 % of
+// its truth at the strip's end (the data carry 1 % noise), not the
+// population's.
+func TestCohortSpecimensListTheirUntestedStrips(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	sp := writePlantedCohort(t, dir, 4, 15, 11, cohortPopulation{"A", 3, 40})
+	out := filepath.Join(dir, "cohort")
+	args := []string{"cohort", "-o", out, "--quiet", "--dispersion", "none"}
+	for _, s := range sp {
+		args = append(args, s.file)
+	}
+	stdout, stderr, code := runWeft(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	// The cohort's own outputs say it too, with the widest band and whose.
+	note := noteWith(readCohortJSON(t, out).Notes, "untested strips")
+	if !strings.Contains(note, "1:0 (4 specimens): up to ") || !strings.Contains(stdout, "untested strips") {
+		t.Errorf("cohort.json's note %q; summary:\n%s", note, stdout)
+	}
+	// weft predict on a specimen's card has no band of its own and
+	// points at the strips.
+	pred, errs, code := runWeft(t, "predict", filepath.Join(out, "C001.weft", "model.json"), writeTemp(t, "in.csv", "stretch_1,stretch_2\n1.05,1.02\n"))
+	if code != 0 || !strings.Contains(pred, "its untested_strips section measures the strips") {
+		t.Errorf("weft predict on C001's card: exit %d, %s\n%s", code, errs, pred)
+	}
+	for k, s := range sp {
+		c, _ := readCardFile(t, filepath.Join(out, fmt.Sprintf("C%03d.weft", k+1), "model.json"))
+		if len(c.UntestedStrips) != 3 {
+			t.Fatalf("%s: strips %+v, want 1:0, 0:1 and 1:0 turned 45°", s.file, c.UntestedStrips)
+		}
+		st := c.UntestedStrips[0]
+		if st.Label != "1:0" || st.Models < 1 || float64(st.Stretch) != 1.15 {
+			t.Fatalf("%s: first strip %+v, want 1:0 to 1.15 with a near-equivalent model", s.file, st)
+		}
+		l, a := 1.15, aniso.Rad(s.deg)
+		i4 := l*l*math.Cos(a)*math.Cos(a) + math.Sin(a)*math.Sin(a)
+		psi4 := s.fibre * (i4 - 1) * math.Exp(s.rate*(i4-1)*(i4-1))
+		truth := 2*s.matrix*(l*l-1/(l*l)) + 2*psi4*l*l*math.Cos(a)*math.Cos(a)
+		if got := float64(st.Largest); math.Abs(got-truth) > 0.03*truth {
+			t.Errorf("%s: strip 1:0's largest stress %.4g kPa, the generating law's %.4g", s.file, got, truth)
+		}
+		// The band's models are this specimen's fits too: along its most
+		// tested direction they agree within 2 %, where models of another
+		// specimen would part by the cohort's spread of fibre stiffness
+		// (20 % between specimens).
+		if p := float64(st.Percent); !(p < 2) {
+			t.Errorf("%s: strip 1:0's band %.3g %% of its largest stress, want the specimen's own near-equivalents (< 2 %%)", s.file, p)
 		}
 	}
 }

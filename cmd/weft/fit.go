@@ -586,15 +586,7 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
 	if o.Discovery != nil {
-		var protocols [][][4]float64
-		for _, pr := range s.Protocols {
-			var fs [][4]float64
-			for _, pt := range pr.Points {
-				fs = append(fs, pt.F)
-			}
-			protocols = append(protocols, fs)
-		}
-		if o.Card.UntestedStrips, err = card.NewUntestedStrips(protocols, s.Kind == biaxial.Nominal, o.Card, o.Result.Model); err != nil {
+		if o.Card.UntestedStrips, err = untestedStrips(s, o.Card, o.Result.Model); err != nil {
 			return nil, fitFailed(s, err)
 		}
 	}
@@ -606,6 +598,21 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		o.Card.CalibrationCheck = card.NewCalibrationCheck(o.Discovery.Verdict.Families, angles, o.Result.SignKnown, ff.calibration, check)
 	}
 	return o, nil
+}
+
+// untestedStrips measures the strips none of s's protocols tested with
+// the near-equivalent models of selection's card (card.NewUntestedStrips)
+// about m.
+func untestedStrips(s *biaxial.Specimen, selection *card.Card, m *aniso.Model) ([]card.UntestedStrip, error) {
+	var protocols [][][4]float64
+	for _, pr := range s.Protocols {
+		var fs [][4]float64
+		for _, pt := range pr.Points {
+			fs = append(fs, pt.F)
+		}
+		protocols = append(protocols, fs)
+	}
+	return card.NewUntestedStrips(protocols, s.Kind == biaxial.Nominal, selection, m)
 }
 
 // printCardsJSON prints one card, or an array of the cards written when

@@ -328,8 +328,20 @@ func predictComments(b *bytes.Buffer, file string, c *card.Card, warnings []stri
 		// A card of a chosen form (--preset, --terms), a cohort's card or
 		// one written by hand has no cross-validated candidates to
 		// compare: saying nothing read as a settled prediction.
-		fmt.Fprintf(b, "# NOTE: the card carries no cross-validated selection of other models (a chosen form, a cohort's card, a single protocol or a card written by hand), so there are no alike_low_/alike_high_ columns: nothing here says whether the tested protocols settle this prediction\n")
+		fmt.Fprintf(b, "# NOTE: the card carries no cross-validated selection of other models (a chosen form, a cohort's card, a single protocol or a card written by hand), so there are no alike_low_/alike_high_ columns: nothing here says whether the tested protocols settle this prediction%s\n", stripsPointer(c))
 	}
+}
+
+// stripsPointer points a cohort specimen's card, which has no selection of
+// its own, at its untested strips, measured with the cohort's
+// near-equivalent forms; "" when it has none measured.
+func stripsPointer(c *card.Card) string {
+	for _, st := range c.UntestedStrips {
+		if st.Models > 0 {
+			return " (its untested_strips section measures the strips its tests left out, with the forms a cohort's held-out protocols could not tell from its own)"
+		}
+	}
+	return ""
 }
 
 // outsideRowsText says how many of rows lie outside the card's fitted data

@@ -43,6 +43,11 @@ type Specimen struct {
 	MisfitRatio float64
 	// Err says why it failed; empty when it did not.
 	Err string
+	// UntestedStrips are its card's strips the tests left out, each with
+	// the band of the forms the pooled held-out protocols could not tell
+	// from the cohort's (card.NewUntestedStrips); nil when the form was
+	// given.
+	UntestedStrips []card.UntestedStrip
 	// Warnings are what reading its test file warned about (a repeated
 	// block, a held load, a slip of the stretch, an untared preload, shear
 	// within its scatter, …), as its card's data.warnings and weft inspect
@@ -288,8 +293,53 @@ func Build(in *Input) *Summary {
 	// a load held at the peak in one of its files.
 	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Warnings) },
 		"specimens whose test file was read with warnings (a repeated block, a held load, a slip of the stretch, an untared preload, shear within its scatter, …): %s; their values enter the statistics at full weight — see each one's warnings in cohort.json and its card")
+	if note := stripsNote(in.Specimens); note != "" {
+		s.Notes = append(s.Notes, note)
+	}
 	s.Provenance = in.Provenance
 	return s
+}
+
+// stripsNote names, for each strip the specimens' tests left out, the
+// widest band over specimens and whose it is; "" when no specimen has
+// strips. A cohort's parameters, like one fit's, do not settle a loading
+// none of its tests came near (until 2026-12-05 a cohort said nothing of
+// it).
+func stripsNote(sps []Specimen) string {
+	type widest struct {
+		label, name string
+		pct         float64
+		listed      int
+	}
+	var order []*widest
+	byLabel := map[string]*widest{}
+	for _, sp := range sps {
+		for _, st := range sp.UntestedStrips {
+			w := byLabel[st.Label]
+			if w == nil {
+				w = &widest{label: st.Label, pct: math.NaN()}
+				byLabel[st.Label] = w
+				order = append(order, w)
+			}
+			w.listed++
+			if p := float64(st.Percent); st.Models > 0 && !(p <= w.pct) {
+				w.pct, w.name = p, sp.Name
+			}
+		}
+	}
+	if len(order) == 0 {
+		return ""
+	}
+	var parts []string
+	for _, w := range order {
+		if math.IsNaN(w.pct) {
+			parts = append(parts, fmt.Sprintf("%s (%d specimens): no form came near the cohort's, nothing measures it", w.label, w.listed))
+			continue
+		}
+		parts = append(parts, fmt.Sprintf("%s (%d specimens): up to %.1f %% (%s)", w.label, w.listed, w.pct, w.name))
+	}
+	return "untested strips, the loadings the specimens' tests left out, with the widest spread over specimens of the forms the pooled held-out protocols could not tell from the cohort's, each fitted to that specimen, in per cent of its largest normal stress there: " +
+		strings.Join(parts, "; ") + "; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
 }
 
 // statisticsNotes say how to read the statistics.

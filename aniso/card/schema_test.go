@@ -67,6 +67,7 @@ func buildSchema() []byte {
 	alternatives := alternativesSchema(family, term, schemaStr)
 	verdict := verdictSchema()
 	calibration := calibrationSchema()
+	strips := untestedStripsSchema()
 	fit := fitSchema()
 	conv := obj{{"type", "object"}, {"description", "how to read the card's numbers, written by weft"}, {"additionalProperties", obj{{"type", "string"}}}}
 	s := obj{
@@ -96,6 +97,7 @@ func buildSchema() []byte {
 			{"alternatives", alternatives},
 			{"verdict", verdict},
 			{"calibration_check", calibration},
+			{"untested_strips", strips},
 			{"fit", fit},
 		}},
 		{"additionalProperties", true},
@@ -284,6 +286,30 @@ func calibrationSchema() obj {
 			{"summary", obj{{"type", "string"}, {"description", "the check in words"}}},
 		}},
 	}
+}
+
+// untestedStripsSchema is the schema of the strips the fitted data did
+// not test (UntestedStrip).
+func untestedStripsSchema() obj {
+	nullable := func(desc string) obj { return obj{{"type", []string{"number", "null"}}, {"description", desc}} }
+	strip := obj{
+		{"type", "object"},
+		{"required", []string{"label", "stretch", "models", "summary"}},
+		{"properties", obj{
+			{"label", schemaStr("the strip: 1:0 (axis 2 held at stretch 1), 0:1 (axis 1 held), or 1:0 turned 45° or −45° (the specimen cut or mounted so, its lateral stretch held at 1, read in its own axes)")},
+			{"stretch", schemaNum("the largest stretch of the driven axis along the strip, the data's largest along an axis, dimensionless")},
+			{"models", obj{{"type", "integer"}, {"minimum", 0}, {"description", "how many near-equivalent models the band holds besides the card's own; 0 when none, and then the numbers are null: nothing measures the strip"}}},
+			{"widest", nullable("the largest high - low of a normal stress over the strip, fitted stress measure, stress_unit")},
+			{"largest", nullable("the card's model's largest |normal stress| along the strip, stress_unit")},
+			{"percent", nullable("100 widest / largest")},
+			{"widest_shear", nullable("the largest high - low of a shear stress over the strip (the grips carry it), stress_unit")},
+			{"shear_percent", nullable("100 widest_shear / largest")},
+			{"leaves_range_at", nullable("the stretch from which the strip leaves the fitted data range, where every model extrapolates; null when it stays inside or nothing measures it")},
+			{"summary", schemaStr("the strip in words")},
+		}},
+	}
+	return obj{{"type", "array"}, {"items", strip},
+		{"description", "the strips the fitted data did not test and how far the card's model and its near-equivalent models part along them (the spread of models the data could not tell apart, not a confidence interval)"}}
 }
 
 // fitSchema is the schema of how the model was fitted.

@@ -43,6 +43,12 @@ type UntestedStrip struct {
 	// the two signs part.
 	WidestShear  Num `json:"widest_shear"`
 	ShearPercent Num `json:"shear_percent"`
+	// LeavesRangeAt is the stretch from which the strip leaves the
+	// fitted data range (a stretch or a fibre stretch beyond the tested
+	// ones), where every model of the band extrapolates and a spread,
+	// narrow or wide, settles nothing; null (NaN) when it stays inside
+	// or nothing measures the strip.
+	LeavesRangeAt Num `json:"leaves_range_at"`
 	// Summary says it in words.
 	Summary string `json:"summary"`
 }
@@ -56,6 +62,17 @@ const untestedDirectionDeg = 5
 // per cent of its largest normal stress, that its summary mentions: below
 // it the models agree that a gripped strip carries no shear worth naming.
 const ShearPercentShown = 0.1
+
+// PercentText writes a strip's spread in per cent: one decimal, or three
+// significant digits from 1000 % on, where a model of the band runs away
+// beyond the tested range (a recruited family stretched past its tested
+// fibre stretch read 2.9e22 %, which one decimal wrote with 23 digits).
+func PercentText(p float64) string {
+	if math.Abs(p) >= 1000 {
+		return fmt.Sprintf("%.3g", p)
+	}
+	return fmt.Sprintf("%.1f", p)
+}
 
 // stripPoints is how many points stand for a strip's path.
 const stripPoints = 40
@@ -125,7 +142,7 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		}
 		if len(alike) == 0 {
 			nan := Num(math.NaN())
-			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan,
+			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan, LeavesRangeAt: nan,
 				Summary: fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so nothing measures how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, why)})
 			continue
 		}
@@ -178,17 +195,21 @@ func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, label, he
 	if largest > 0 {
 		pct, shearPct = 100*widest/largest, 100*widestShear/largest
 	}
-	summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %.1f %% of its largest normal stress there", label, held, top, n, pct)
+	summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %s %% of its largest normal stress there", label, held, top, n, PercentText(pct))
 	if shearPct >= ShearPercentShown {
-		summary += fmt.Sprintf(", and by up to %.1f %% of it in the shear stress the grips would carry", shearPct)
+		summary += fmt.Sprintf(", and by up to %s %% of it in the shear stress the grips would carry", PercentText(shearPct))
 	}
 	if leaves > 0 {
 		// Beyond the tested range every model of the band
 		// extrapolates, and they can agree far from the material.
 		summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where they all extrapolate and the spread settles nothing", leaves, why)
 	}
+	at := math.NaN()
+	if leaves > 0 {
+		at = leaves
+	}
 	return UntestedStrip{Label: label, Stretch: Num(top), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
-		WidestShear: Num(widestShear), ShearPercent: Num(shearPct), Summary: summary}
+		WidestShear: Num(widestShear), ShearPercent: Num(shearPct), LeavesRangeAt: Num(at), Summary: summary}
 }
 
 // turnedMatters reports whether a turned strip can part the models from

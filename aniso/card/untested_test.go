@@ -47,9 +47,23 @@ func TestUntestedStripLeavesTheDataRange(t *testing.T) {
 	if want := "from stretch 1.02 on the strip leaves the fitted data range (fibre stretch of f1"; !strings.Contains(strips[0].Summary, want) {
 		t.Errorf("1:0 summary %q, want it to contain %q", strips[0].Summary, want)
 	}
+	if at := float64(strips[0].LeavesRangeAt); math.Abs(at-1.021) > 1e-12 {
+		t.Errorf("1:0 leaves_range_at %v, want 1.021", at)
+	}
+	// The card validates against its JSON Schema (a general-purpose
+	// validator, github.com/santhosh-tekuri/jsonschema); the test's bare
+	// fit section, which has no estimates, is left out.
+	fit := c.Fit
+	c.UntestedStrips, c.Fit = strips, nil
+	if b, err := c.Marshal(); err != nil {
+		t.Fatal(err)
+	} else if err := validate(t, compileSchema(t), b); err != nil {
+		t.Errorf("a card with measured strips does not validate: %v", err)
+	}
+	c.Fit = fit
 	c.DataRange.FibreStretch = []Interval{{1, 1.2}}
 	strips, err = NewUntestedStrips(eq, true, c, fam)
-	if err != nil || len(strips) != 4 || strings.Contains(strips[0].Summary+strips[1].Summary+strips[2].Summary+strips[3].Summary, "leaves") {
+	if err != nil || len(strips) != 4 || strings.Contains(strips[0].Summary+strips[1].Summary+strips[2].Summary+strips[3].Summary, "leaves") || !math.IsNaN(float64(strips[0].LeavesRangeAt)) {
 		t.Errorf("strips inside the range (the shear range without 0 aside) say they leave it: %+v, %v", strips, err)
 	}
 }
@@ -76,11 +90,15 @@ func TestUntestedStripsWithoutNearEquivalents(t *testing.T) {
 			t.Errorf("strip %s: models %d, percent %v, summary %q", st.Label, st.Models, float64(st.Percent), st.Summary)
 		}
 	}
-	// Written and read back: the null numbers stay null.
-	c.UntestedStrips = strips
+	// Written and read back: the null numbers stay null (the test's bare
+	// fit section, which has no estimates, left out).
+	c.UntestedStrips, c.Fit = strips, nil
 	b, err := c.Marshal()
 	if err != nil {
 		t.Fatal(err)
+	}
+	if err := validate(t, compileSchema(t), b); err != nil {
+		t.Errorf("a card with unmeasured strips does not validate: %v", err)
 	}
 	back, _, err := Parse(bytes.NewReader(b), "model.json")
 	if err != nil || len(back.UntestedStrips) != 2 || !math.IsNaN(float64(back.UntestedStrips[0].Widest)) {
@@ -114,6 +132,20 @@ func TestTurnedStripNeedsAWeightedFungTerm(t *testing.T) {
 		strips, err := NewUntestedStrips(eq, false, c, m)
 		if err != nil || len(strips) != tc.want {
 			t.Errorf("Fung-type weight %g: %d strips (%+v), %v; want %d", tc.weight, len(strips), strips, err, tc.want)
+		}
+	}
+}
+
+// A runaway spread is written short: a recruited family stretched past
+// its tested fibre stretch on a cohort of the demos read 2.9e22 %, which
+// one decimal wrote with 23 digits.
+func TestPercentTextOfARunaway(t *testing.T) {
+	for _, c := range []struct {
+		p    float64
+		want string
+	}{{88.72, "88.7"}, {999.94, "999.9"}, {2.9144966433547988e22, "2.91e+22"}} {
+		if got := PercentText(c.p); got != c.want {
+			t.Errorf("PercentText(%g) = %q, want %q", c.p, got, c.want)
 		}
 	}
 }

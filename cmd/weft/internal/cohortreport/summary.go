@@ -308,7 +308,7 @@ func Build(in *Input) *Summary {
 func stripsNote(sps []Specimen) string {
 	type widest struct {
 		label, name string
-		pct         float64
+		pct, leaves float64
 		listed      int
 	}
 	var order []*widest
@@ -323,7 +323,7 @@ func stripsNote(sps []Specimen) string {
 			}
 			w.listed++
 			if p := float64(st.Percent); st.Models > 0 && !(p <= w.pct) {
-				w.pct, w.name = p, sp.Name
+				w.pct, w.name, w.leaves = p, sp.Name, float64(st.LeavesRangeAt)
 			}
 		}
 	}
@@ -333,10 +333,16 @@ func stripsNote(sps []Specimen) string {
 	var parts []string
 	for _, w := range order {
 		if math.IsNaN(w.pct) {
-			parts = append(parts, fmt.Sprintf("%s (%d specimens): no form came near the cohort's, nothing measures it", w.label, w.listed))
+			parts = append(parts, fmt.Sprintf("%s (%s): no form came near the cohort's, nothing measures it", w.label, specimensText(w.listed)))
 			continue
 		}
-		parts = append(parts, fmt.Sprintf("%s (%d specimens): up to %.1f %% (%s)", w.label, w.listed, w.pct, w.name))
+		part := fmt.Sprintf("%s (%s): up to %s %% (%s", w.label, specimensText(w.listed), card.PercentText(w.pct), w.name)
+		if w.leaves > 0 {
+			// A runaway beyond the tested range is extrapolation, not
+			// a spread the tests left open within it.
+			part += fmt.Sprintf(", whose strip leaves its fitted data range from stretch %.3g on", w.leaves)
+		}
+		parts = append(parts, part+")")
 	}
 	return "untested strips, the loadings the specimens' tests left out, with the widest spread over specimens of the forms the pooled held-out protocols could not tell from the cohort's, each fitted to that specimen, in per cent of its largest normal stress there: " +
 		strings.Join(parts, "; ") + "; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
@@ -645,4 +651,12 @@ func appendCountNote(notes []string, rows []SpecimenRow, count func(SpecimenRow)
 		return notes
 	}
 	return append(notes, fmt.Sprintf(format, strings.Join(named, ", ")))
+}
+
+// specimensText is "1 specimen" or "n specimens".
+func specimensText(n int) string {
+	if n == 1 {
+		return "1 specimen"
+	}
+	return fmt.Sprintf("%d specimens", n)
 }

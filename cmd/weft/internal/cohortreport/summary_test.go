@@ -2,9 +2,11 @@ package cohortreport
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/terms"
 )
 
@@ -46,5 +48,37 @@ func TestMirrorPairRelabelled(t *testing.T) {
 				t.Errorf("%s of specimen %d = %g°, want %g°", p.Name, i, values[k][i], w[i])
 			}
 		}
+	}
+}
+
+// The cohort's strips note names the widest spread of each strip over
+// specimens and says when that specimen's strip leaves its fitted data
+// range, where a spread of thousands of per cent is a runaway of
+// extrapolation (a cohort of the three demos: 2.91e+22 % on 1:0 for
+// membrane-M3-sutured, whose tests stretched the fibres to 1.022 only);
+// a strip no specimen measures says so. Invented strips.
+func TestStripsNoteNamesTheWidestAndItsRange(t *testing.T) {
+	nan := card.Num(math.NaN())
+	sps := []Specimen{
+		{Name: "A", UntestedStrips: []card.UntestedStrip{
+			{Label: "1:0", Models: 2, Percent: 3.5, LeavesRangeAt: nan},
+			{Label: "0:1", Models: 0, Percent: nan, LeavesRangeAt: nan}}},
+		{Name: "B", UntestedStrips: []card.UntestedStrip{
+			{Label: "1:0", Models: 1, Percent: 2.9144966433547988e22, LeavesRangeAt: 1.03},
+			{Label: "0:1", Models: 0, Percent: nan, LeavesRangeAt: nan},
+			{Label: "1:0 turned −45°", Models: 1, Percent: 12, LeavesRangeAt: nan}}},
+	}
+	note := stripsNote(sps)
+	for _, want := range []string{
+		"1:0 (2 specimens): up to 2.91e+22 % (B, whose strip leaves its fitted data range from stretch 1.03 on)",
+		"0:1 (2 specimens): no form came near the cohort's, nothing measures it",
+		"1:0 turned −45° (1 specimen): up to 12.0 % (B)",
+	} {
+		if !strings.Contains(note, want) {
+			t.Errorf("note %q\nlacks %q", note, want)
+		}
+	}
+	if stripsNote([]Specimen{{Name: "C"}}) != "" {
+		t.Error("a note without strips")
 	}
 }

@@ -463,7 +463,7 @@ func (in *Input) verdictSection(v *reportView) {
 			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch)))
 			continue
 		}
-		strips = append(strips, fmt.Sprintf("%s to %.3g: %.1f/%.1f", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), float64(st.Percent), float64(st.ShearPercent)))
+		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent))))
 	}
 	if len(strips) > 0 {
 		// Part of the verdict's paragraph, kept short: a report at its

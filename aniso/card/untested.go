@@ -87,6 +87,28 @@ const stripPoints = 40
 // summary that says nothing measures them: one candidate alone is not a
 // settled prediction.
 func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model) ([]UntestedStrip, error) {
+	return newUntestedStrips(protocols, nominal, c, m, 0)
+}
+
+// NewCohortUntestedStrips is NewUntestedStrips for a specimen of a cohort
+// of specimens (at least 1) whose form was discovered: c's selection holds
+// the cohort's candidates, each fitted to this specimen, with the held-out
+// errors pooled over the cohort's specimens. The summaries say that the
+// evidence is pooled, not this specimen's own, and, when no cross-validated
+// candidate came near, how many candidates the cohort did not
+// cross-validate at all: its verdict walk leaves out every form that can
+// neither win nor leave the verdict undecided, so "no other candidate
+// predicted as well" would be untrue of them (five synthetic one-family
+// specimens, 2026-12-05: 2 of 9 candidates cross-validated; each file fitted
+// alone had 7–14 near-equivalents).
+func NewCohortUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, specimens int) ([]UntestedStrip, error) {
+	return newUntestedStrips(protocols, nominal, c, m, max(specimens, 1))
+}
+
+// newUntestedStrips is NewUntestedStrips; pooled is the number of a
+// cohort's specimens whose held-out errors the selection pools, 0 for a
+// single specimen's own.
+func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, pooled int) ([]UntestedStrip, error) {
 	alike, err := c.AlikeModels()
 	if err != nil {
 		return nil, err
@@ -126,8 +148,22 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		}
 	}
 	why := "the fit has no cross-validated candidates to compare (one protocol)"
+	judged := "the held-out protocols could not tell from it"
+	if pooled > 0 {
+		forms := "forms"
+		if n == 1 {
+			forms = "form"
+		}
+		judged = fmt.Sprintf("%s the held-out protocols pooled over the cohort's %d specimens could not tell from its form (each fitted to this specimen)", forms, pooled)
+	}
 	if c.AloneInSelection() {
 		why = "no other candidate predicted the held-out protocols as well as the chosen model"
+		if pooled > 0 {
+			why = fmt.Sprintf("no other cross-validated candidate predicted the held-out protocols, pooled over the cohort's %d specimens, as well as the chosen model", pooled)
+			if k := c.notCrossValidated(); k > 0 {
+				why += fmt.Sprintf(", and the cohort did not cross-validate its %d other candidate forms (they could not change its verdict) and compared none of them with it", k)
+			}
+		}
 	}
 	var out []UntestedStrip
 	for _, st := range strips {
@@ -140,45 +176,64 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		if tested || st.top <= 1 {
 			continue
 		}
+		leaves, outside := leavesRange(c, m, st.turn, st.axis, st.top)
 		if len(alike) == 0 {
 			nan := Num(math.NaN())
-			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan, LeavesRangeAt: nan,
-				Summary: fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so nothing measures how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, why)})
+			summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so nothing measures how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, why)
+			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan, LeavesRangeAt: nan, Summary: summary})
 			continue
 		}
-		out = append(out, untestedStrip(c, m, alike, n, st.label, st.held, st.turn, st.axis, st.top, cols, shearCols))
+		out = append(out, untestedStrip(c, m, alike, n, judged, st.label, st.held, st.turn, st.axis, st.top, leaves, outside, cols, shearCols))
 	}
 	return out, nil
+}
+
+// stripF is the deformation (tester's axes) of the strip driven along
+// axis of axes turned by turn degrees to stretch l.
+func stripF(turn float64, axis int, l float64) [4]float64 {
+	F := [4]float64{l, 0, 0, 1}
+	if axis == 1 {
+		F = [4]float64{1, 0, 0, l}
+	}
+	return aniso.Turned(F, turn)
+}
+
+// leavesRange returns the first of the strip's points (stripF, up to top)
+// that lies outside c's data range for m, and what lies outside; 0 when
+// every point lies inside or c has no data range.
+func leavesRange(c *Card, m *aniso.Model, turn float64, axis int, top float64) (float64, string) {
+	if c.DataRange == nil {
+		return 0, ""
+	}
+	for i := range stripPoints {
+		l := 1 + (top-1)*float64(i+1)/stripPoints
+		// A strip in the tester's axes holds no shear, a turned one the
+		// shear of its turn; a sutured specimen's shear range need not
+		// hold either, and that alone is no stretch beyond the tests:
+		// the stretches and fibre stretches are.
+		var o []string
+		for _, q := range c.DataRange.Outside(m, stripF(turn, axis, l)) {
+			if !strings.HasPrefix(q, "F12 ") && !strings.HasPrefix(q, "F21 ") {
+				o = append(o, q)
+			}
+		}
+		if len(o) > 0 {
+			return l, strings.Join(o, ", ")
+		}
+	}
+	return 0, ""
 }
 
 // untestedStrip measures one strip: driven along axis (0 or 1) of axes
 // turned by turn degrees from the tester's, to stretch top, with the other
 // stretch held at 1 and no shear in those axes; the band is read in them.
-func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, label, held string, turn float64, axis int, top float64, cols, shearCols []int) UntestedStrip {
+// judged names the near-equivalent models (after their count); leaves and
+// why are leavesRange's.
+func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, judged, label, held string, turn float64, axis int, top, leaves float64, why string, cols, shearCols []int) UntestedStrip {
 	var widest, largest, widestShear float64
-	leaves, why := 0.0, ""
 	for i := range stripPoints {
 		l := 1 + (top-1)*float64(i+1)/stripPoints
-		F := [4]float64{l, 0, 0, 1}
-		if axis == 1 {
-			F = [4]float64{1, 0, 0, l}
-		}
-		F = aniso.Turned(F, turn)
-		if c.DataRange != nil && leaves == 0 {
-			// A strip in the tester's axes holds no shear, a turned one
-			// the shear of its turn; a sutured specimen's shear range
-			// need not hold either, and that alone is no stretch beyond
-			// the tests: the stretches and fibre stretches are.
-			var o []string
-			for _, q := range c.DataRange.Outside(m, F) {
-				if !strings.HasPrefix(q, "F12 ") && !strings.HasPrefix(q, "F21 ") {
-					o = append(o, q)
-				}
-			}
-			if len(o) > 0 {
-				leaves, why = l, strings.Join(o, ", ")
-			}
-		}
+		F := stripF(turn, axis, l)
 		b, err := AlikeBandTurned(m, alike, F, turn)
 		if err != nil {
 			break // beyond a limit of the card's own model: the strip stops here
@@ -195,7 +250,7 @@ func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, label, he
 	if largest > 0 {
 		pct, shearPct = 100*widest/largest, 100*widestShear/largest
 	}
-	summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d the held-out protocols could not tell from it part by up to %s %% of its largest normal stress there", label, held, top, n, PercentText(pct))
+	summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): the chosen model and the %d %s part by up to %s %% of its largest normal stress there", label, held, top, n, judged, PercentText(pct))
 	if shearPct >= ShearPercentShown {
 		summary += fmt.Sprintf(", and by up to %s %% of it in the shear stress the grips would carry", PercentText(shearPct))
 	}
@@ -210,6 +265,21 @@ func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, label, he
 	}
 	return UntestedStrip{Label: label, Stretch: Num(top), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
 		WidestShear: Num(widestShear), ShearPercent: Num(shearPct), LeavesRangeAt: Num(at), Summary: summary}
+}
+
+// notCrossValidated counts the selection's candidates other than the
+// chosen one that carry no held-out error: they were not compared.
+func (c *Card) notCrossValidated() int {
+	if c.Selection == nil {
+		return 0
+	}
+	k := 0
+	for _, cc := range c.Selection.Pareto {
+		if !cc.Chosen && !finite(float64(cc.HeldoutError)) {
+			k++
+		}
+	}
+	return k
 }
 
 // turnedMatters reports whether a turned strip can part the models from

@@ -149,3 +149,45 @@ func TestPercentTextOfARunaway(t *testing.T) {
 		}
 	}
 }
+
+// A cohort specimen's strips say that the held-out evidence is the
+// cohort's, pooled over its specimens, and not the specimen's own; when
+// no cross-validated candidate came near they say how many candidates the
+// cohort did not cross-validate at all, instead of that none predicted as
+// well (audit 2026-12-05: five SYNTHETIC one-family specimens on
+// neo-Hookean matrices, Holzapfel, Gasser & Ogden 2000, 2 of 9 candidates
+// cross-validated; fitted alone each file had 7–14 near-equivalents). A
+// single fit's card keeps its words. Invented models.
+func TestCohortStripsSayTheEvidenceIsPooled(t *testing.T) {
+	iso := &aniso.Model{Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 5}}}
+	stiffer := &aniso.Model{Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 5.1}}}
+	nan := Num(math.NaN())
+	eq := [][][4]float64{{{1.05, 0, 0, 1.05}, {1.1, 0, 0, 1.1}}}
+	c := FromModel(iso, "kPa", nil)
+	c.Fit = &FitSection{AngleSignKnown: true}
+	c.Selection = &SelectionSection{Pareto: []CandidateCard{
+		{Name: "chosen", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(iso)},
+		{Name: "far", HeldoutError: 0.05, Model: NewCandidateModel(iso)},
+		{Name: "richer", HeldoutError: nan, HeldoutStdErr: nan, Model: NewCandidateModel(stiffer)},
+		{Name: "richer still", HeldoutError: nan, HeldoutStdErr: nan, Model: NewCandidateModel(stiffer)},
+	}}
+	strips, err := NewCohortUntestedStrips(eq, false, c, iso, 5)
+	if err != nil || len(strips) != 2 {
+		t.Fatalf("strips %+v, %v", strips, err)
+	}
+	want := "no other cross-validated candidate predicted the held-out protocols, pooled over the cohort's 5 specimens, as well as the chosen model, and the cohort did not cross-validate its 2 other candidate forms"
+	if !strings.Contains(strips[0].Summary, want) || strips[0].Models != 0 {
+		t.Errorf("summary %q, models %d; want it to contain %q", strips[0].Summary, strips[0].Models, want)
+	}
+	if single, _ := NewUntestedStrips(eq, false, c, iso); !strings.Contains(single[0].Summary, "no other candidate predicted the held-out protocols as well as the chosen model, so") {
+		t.Errorf("a single fit's summary %q", single[0].Summary)
+	}
+	// With a near-equivalent form the band's words name the pooled
+	// evidence too.
+	c.Selection.Pareto[2].HeldoutError = 0.0105
+	strips, err = NewCohortUntestedStrips(eq, false, c, iso, 5)
+	want = "the chosen model and the 1 form the held-out protocols pooled over the cohort's 5 specimens could not tell from its form (each fitted to this specimen) part by"
+	if err != nil || !strings.Contains(strips[0].Summary, want) {
+		t.Errorf("summary %q, %v; want it to contain %q", strips[0].Summary, err, want)
+	}
+}

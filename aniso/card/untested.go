@@ -180,6 +180,15 @@ func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		if len(alike) == 0 {
 			nan := Num(math.NaN())
 			summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so nothing measures how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, why)
+			if leaves > 0 {
+				// Where the strip leaves the tested range depends on
+				// the card's model and data alone, not on a band (until
+				// 2026-12-05 an unmeasured strip did not say it: four
+				// synthetic sutured specimens, fibres near 33°, whose
+				// strips leave their range from stretch 1.02–1.09 on).
+				// leaves_range_at stays null with the other numbers.
+				summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where the model extrapolates", leaves, outside)
+			}
 			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan, LeavesRangeAt: nan, Summary: summary})
 			continue
 		}

@@ -191,3 +191,41 @@ func TestCohortStripsSayTheEvidenceIsPooled(t *testing.T) {
 		t.Errorf("summary %q, %v; want it to contain %q", strips[0].Summary, err, want)
 	}
 }
+
+// A strip that nothing measures still says where it leaves the fitted
+// data range: that depends on the card's model and data, not on a band
+// (audit 2026-12-05: four SYNTHETIC sutured one-family specimens of a
+// cohort, fibres near 33°, whose cards said nothing of it while their
+// strips left the range from stretch 1.02–1.09 on). The geometry of
+// TestUntestedStripLeavesTheDataRange: a fibre at 35° on the strip 1:0
+// has √I4 = √(λ² cos²35° + sin²35°) (Spencer 1971), past 1.013 first at
+// the strip's point 1.021. leaves_range_at stays null with the other
+// numbers of an unmeasured strip.
+func TestUnmeasuredStripSaysWhereItLeavesTheRange(t *testing.T) {
+	fam := &aniso.Model{
+		Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(35)}},
+		Terms: []aniso.Term{
+			{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 2},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 40, Params: []float64{5}},
+		},
+	}
+	c := FromModel(fam, "kPa", nil)
+	c.Fit = &FitSection{AngleSignKnown: true}
+	c.Selection = &SelectionSection{Pareto: []CandidateCard{
+		{Name: "chosen", Chosen: true, HeldoutError: 0.01, HeldoutStdErr: 0.001, Model: NewCandidateModel(fam)},
+		{Name: "far", HeldoutError: 0.05, Model: NewCandidateModel(fam)},
+	}}
+	s12 := Interval{-0.15, -0.001}
+	c.DataRange = &DataRange{Stretch1: Interval{1, 1.14}, Stretch2: Interval{1, 1.14}, Shear12: &s12, Shear21: &s12, FibreStretch: []Interval{{1, 1.013}}}
+	eq := [][][4]float64{{{1.07, -0.05, -0.04, 1.07}, {1.14, -0.15, -0.12, 1.14}}}
+	strips, err := NewUntestedStrips(eq, true, c, fam)
+	if err != nil || len(strips) != 4 || strips[0].Models != 0 {
+		t.Fatalf("strips %+v, %v", strips, err)
+	}
+	if want := "from stretch 1.02 on the strip leaves the fitted data range (fibre stretch of f1"; !strings.Contains(strips[0].Summary, want) {
+		t.Errorf("1:0 summary %q, want it to contain %q", strips[0].Summary, want)
+	}
+	if !math.IsNaN(float64(strips[0].LeavesRangeAt)) {
+		t.Errorf("leaves_range_at %v of an unmeasured strip, want null", float64(strips[0].LeavesRangeAt))
+	}
+}

@@ -264,14 +264,19 @@ func TestCohortDiscovered(t *testing.T) {
 	if v := s.Verdict; v == nil || v.Families != "1-or-mirror-pair" || v.Support.Specimens != 4 || len(v.Candidates) == 0 {
 		t.Errorf("verdict %+v", v)
 	}
-	// No other pooled candidate predicted the held-out protocols as well:
-	// each specimen's card still lists the strips its tests left out,
-	// with null numbers, as weft fit's card does.
+	// No other cross-validated pooled candidate predicted the held-out
+	// protocols as well: each specimen's card still lists the strips its
+	// tests left out, with null numbers, as weft fit's card does, and
+	// says that the candidates the cohort did not cross-validate were not
+	// compared (the verdict walk cross-validates only forms that can
+	// change the verdict).
 	c, _ := readCardFile(t, filepath.Join(out, "C001.weft", "model.json"))
-	if len(c.UntestedStrips) != 3 || c.UntestedStrips[0].Models != 0 || !strings.Contains(c.UntestedStrips[0].Summary, "nothing measures") {
+	if len(c.UntestedStrips) != 3 || c.UntestedStrips[0].Models != 0 || !strings.Contains(c.UntestedStrips[0].Summary, "nothing measures") ||
+		!strings.Contains(c.UntestedStrips[0].Summary, "pooled over the cohort's 4 specimens") || !strings.Contains(c.UntestedStrips[0].Summary, "the cohort did not cross-validate its") {
 		t.Errorf("C001's untested strips %+v, want 1:0, 0:1 and 1:0 turned 45° with nothing measuring them", c.UntestedStrips)
 	}
-	if note := noteWith(s.Notes, "untested strips"); !strings.Contains(note, "1:0 (4 specimens): no form came near the cohort's, nothing measures it") {
+	if note := noteWith(s.Notes, "untested strips"); !strings.Contains(note, "1:0 (4 specimens): no cross-validated form came near the cohort's, nothing measures it") ||
+		!strings.Contains(note, "the cohort did not cross-validate") {
 		t.Errorf("cohort.json's strips note %q", note)
 	}
 	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-all.svg", "C001.weft/curves.csv", "C001.weft/heldout.csv"} {

@@ -610,10 +610,19 @@ func (c *Card) Model() (*aniso.Model, error) {
 		}
 		t = c.Terms[i]
 		params := make([]float64, len(sh.Params))
+		// The card's parameter names in sorted order: a JSON object
+		// decodes into a map, whose randomised order would let a card
+		// with two wrong keys be refused for either, differently from
+		// run to run.
+		names := make([]string, 0, len(t.Params))
+		for name := range t.Params {
+			names = append(names, name)
+		}
+		sort.Strings(names)
 		for j, q := range sh.Params {
 			v, ok := t.Params[q.Name]
 			if !ok {
-				for name := range t.Params {
+				for _, name := range names {
 					if strings.EqualFold(name, q.Name) {
 						return nil, errAt(p+".params."+clip(name), "write the key as %q: keys are case-sensitive", q.Name)
 					}
@@ -625,7 +634,7 @@ func (c *Card) Model() (*aniso.Model, error) {
 			}
 			params[j] = v
 		}
-		for name := range t.Params {
+		for _, name := range names {
 			if !hasParam(sh, name) {
 				return nil, errAt(p+".params."+clip(name), "%s has no parameter %s", sh.ID, quote(name))
 			}

@@ -122,6 +122,7 @@ The statistics describe the specimens tested, not a population.
 // cohortMember is one DATA file of a cohort run.
 type cohortMember struct {
 	file   string // cleaned, '/' separated
+	key    string // memberKey(file): the order of the cohort's files
 	spec   *biaxial.Specimen
 	prob   *aniso.Problem
 	group  string
@@ -207,23 +208,61 @@ func runCohort(co *cohortOptions) error {
 	return cohortFailures(members, false)
 }
 
-// readMembers reads every file in a fixed order (by cleaned path), so that
-// the result does not depend on the order of the command line; a file
-// given twice fails the second time.
+// readMembers reads every file in a fixed order, that of memberKey, so
+// that the result depends neither on the order of the command line nor on
+// how each path is typed (relative or absolute, from which folder, through
+// a link): the order decides the scouts and the order of the population
+// fit's sums. A file given twice, under any spelling, fails the second
+// time.
 func readMembers(files []string, opt biaxial.Options) []*cohortMember {
 	var ms []*cohortMember
 	for _, f := range files {
-		ms = append(ms, &cohortMember{file: filepath.ToSlash(filepath.Clean(f)), at: -1})
+		ms = append(ms, &cohortMember{file: filepath.ToSlash(filepath.Clean(f)), key: memberKey(f), at: -1})
 	}
-	sort.SliceStable(ms, func(a, b int) bool { return ms[a].file < ms[b].file })
+	sort.SliceStable(ms, func(a, b int) bool {
+		if ms[a].key != ms[b].key {
+			return ms[a].key < ms[b].key
+		}
+		return ms[a].file < ms[b].file
+	})
 	for i, m := range ms {
-		if i > 0 && ms[i-1].file == m.file {
-			m.err = badInputf("%s is given twice", m.file)
+		if prev := sameMember(m, ms[:i]); prev != nil {
+			if prev.file == m.file {
+				m.err = badInputf("%s is given twice", m.file)
+			} else {
+				m.err = badInputf("%s is given twice (also as %s); give each file once", m.file, prev.file)
+			}
 			continue
 		}
 		m.spec, m.err = readSpecimen(filepath.FromSlash(m.file), opt)
 	}
 	return ms
+}
+
+// memberKey is the path that orders a cohort's files: absolute, cleaned
+// and with symbolic links resolved, '/' separated. A path that cannot be
+// resolved (a missing file, whose reading fails anyway) keeps its
+// absolute form.
+func memberKey(f string) string {
+	k, err := filepath.Abs(f)
+	if err != nil {
+		k = filepath.Clean(f)
+	}
+	if r, err := filepath.EvalSymlinks(k); err == nil {
+		k = r
+	}
+	return filepath.ToSlash(k)
+}
+
+// sameMember returns the member of earlier that names the same file as m
+// (the same resolved path, or the same file on disk: a hard link), or nil.
+func sameMember(m *cohortMember, earlier []*cohortMember) *cohortMember {
+	for _, e := range earlier {
+		if e.key == m.key || safeout.SameFile(filepath.FromSlash(e.file), filepath.FromSlash(m.file)) {
+			return e
+		}
+	}
+	return nil
 }
 
 // assignGroups gives each member its group: a metadata key of its file,

@@ -103,7 +103,14 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 	default:
 		return nil, inputErrorf("model.json: $.data.stress_kind %q is neither nominal nor cauchy", c.Data.StressKind)
 	}
-	measuredCol := map[int]biaxial.Component{}
+	// The measured columns in the table's order, so that a row with two
+	// bad values is reported at the first, the same one every run (a map
+	// would hand them out in Go's randomised iteration order).
+	type measured struct {
+		col  int
+		comp biaxial.Component
+	}
+	var measuredCols []measured
 	for j := len(fixed); j < len(h); j++ {
 		name, unit, _ := strings.Cut(h[j], " [")
 		kc, ok := strings.CutPrefix(name, "measured_"+c.Data.StressKind+"_")
@@ -115,7 +122,7 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 		if !ok || strings.TrimSuffix(unit, "]") != c.Data.StressUnit {
 			return nil, inputErrorf("%s: line 1, column %d: %q is not a measured %s stress in %s, as model.json says the fit used", file, j+1, h[j], c.Data.StressKind, c.Data.StressUnit)
 		}
-		measuredCol[j] = cc
+		measuredCols = append(measuredCols, measured{j, cc})
 		s.Measured[cc] = true
 	}
 	if !s.Measured[biaxial.C11] || !s.Measured[biaxial.C22] {
@@ -147,8 +154,8 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 				return nil, err
 			}
 		}
-		for j, cc := range measuredCol {
-			if pt.Stress[cc], err = num(j); err != nil {
+		for _, m := range measuredCols {
+			if pt.Stress[m.comp], err = num(m.col); err != nil {
 				return nil, err
 			}
 		}

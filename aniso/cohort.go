@@ -190,10 +190,12 @@ type cohortRun struct {
 	// init starts the population fit (the chosen candidate's parameters).
 	init map[string]float64
 	// screened counts the candidates fitted to every specimen; skipped
-	// names the forms not cross-validated (they could not change the
-	// verdict).
-	screened int
-	skipped  []string
+	// names the forms not cross-validated for the verdict (they could not
+	// change it), and bandScored counts their candidates cross-validated
+	// after it for the untested strips' band (scoreForBand).
+	screened   int
+	skipped    []string
+	bandScored int
 	// scoutPresets[i][name] is scout i's fit of the classical preset
 	// name, made beside its search (fitFullForms).
 	scoutPresets map[int]map[string]*Result

@@ -264,20 +264,22 @@ func TestCohortDiscovered(t *testing.T) {
 	if v := s.Verdict; v == nil || v.Families != "1-or-mirror-pair" || v.Support.Specimens != 4 || len(v.Candidates) == 0 {
 		t.Errorf("verdict %+v", v)
 	}
-	// No other cross-validated pooled candidate predicted the held-out
-	// protocols as well: each specimen's card still lists the strips its
-	// tests left out, with null numbers, as weft fit's card does, and
-	// says that the candidates the cohort did not cross-validate were not
-	// compared (the verdict walk cross-validates only forms that can
-	// change the verdict).
+	// The verdict walk cross-validates only the forms that can change
+	// the verdict (here the single family and the isotropic form); the
+	// other candidates within ΔBIC 10 of their form's best are
+	// cross-validated after it for the band, as one fit's discovery
+	// cross-validates them (audit 2026-12-05: without that, 7 of 9
+	// synthetic cohorts measured no strip at all, while each file fitted
+	// alone had 1–14 near-equivalents). Without shear information the
+	// sign of the fibres' 35° is open, and a family at +35° or −35° sits
+	// 10° or 80° from the strip turned 45°: the band there must be wide.
 	c, _ := readCardFile(t, filepath.Join(out, "C001.weft", "model.json"))
-	if len(c.UntestedStrips) != 3 || c.UntestedStrips[0].Models != 0 || !strings.Contains(c.UntestedStrips[0].Summary, "nothing measures") ||
-		!strings.Contains(c.UntestedStrips[0].Summary, "pooled over the cohort's 4 specimens") || !strings.Contains(c.UntestedStrips[0].Summary, "the cohort did not cross-validate its") {
-		t.Errorf("C001's untested strips %+v, want 1:0, 0:1 and 1:0 turned 45° with nothing measuring them", c.UntestedStrips)
+	if len(c.UntestedStrips) != 3 || c.UntestedStrips[0].Models < 1 || !strings.Contains(c.UntestedStrips[0].Summary, "pooled over the cohort's 4 specimens") ||
+		!(float64(c.UntestedStrips[2].Percent) > 50) {
+		t.Errorf("C001's untested strips %+v, want 1:0, 0:1 and 1:0 turned 45° measured with the pooled near-equivalent forms, the turned one wide", c.UntestedStrips)
 	}
-	if note := noteWith(s.Notes, "untested strips"); !strings.Contains(note, "1:0 (4 specimens): no cross-validated form came near the cohort's, nothing measures it") ||
-		!strings.Contains(note, "the cohort did not cross-validate") {
-		t.Errorf("cohort.json's strips note %q", note)
+	if note := noteWith(s.Verdict.Search, "cross-validated after the verdict, for the band"); note == "" {
+		t.Errorf("the search notes do not say which candidates were cross-validated for the band: %q", s.Verdict.Search)
 	}
 	for _, f := range []string{"C001.weft/report.html", "C001.weft/plots/fit-all.svg", "C001.weft/curves.csv", "C001.weft/heldout.csv"} {
 		if _, err := os.Stat(filepath.Join(out, f)); err != nil {

@@ -93,14 +93,8 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 // NewCohortUntestedStrips is NewUntestedStrips for a specimen of a cohort
 // of specimens (at least 1) whose form was discovered: c's selection holds
 // the cohort's candidates, each fitted to this specimen, with the held-out
-// errors pooled over the cohort's specimens. The summaries say that the
-// evidence is pooled, not this specimen's own, and, when no cross-validated
-// candidate came near, how many candidates the cohort did not
-// cross-validate at all: its verdict walk leaves out every form that can
-// neither win nor leave the verdict undecided, so "no other candidate
-// predicted as well" would be untrue of them (five synthetic one-family
-// specimens, 2026-12-05: 2 of 9 candidates cross-validated; each file fitted
-// alone had 7–14 near-equivalents).
+// errors pooled over the cohort's specimens (aniso.Cohort.SpecimenEvidence).
+// The summaries say that the evidence is pooled, not this specimen's own.
 func NewCohortUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, specimens int) ([]UntestedStrip, error) {
 	return newUntestedStrips(protocols, nominal, c, m, max(specimens, 1))
 }
@@ -159,10 +153,7 @@ func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 	if c.AloneInSelection() {
 		why = "no other candidate predicted the held-out protocols as well as the chosen model"
 		if pooled > 0 {
-			why = fmt.Sprintf("no other cross-validated candidate predicted the held-out protocols, pooled over the cohort's %d specimens, as well as the chosen model", pooled)
-			if k := c.notCrossValidated(); k > 0 {
-				why += fmt.Sprintf(", and the cohort did not cross-validate its %d other candidate forms (they could not change its verdict) and compared none of them with it", k)
-			}
+			why = fmt.Sprintf("no other candidate predicted the held-out protocols, pooled over the cohort's %d specimens, as well as the chosen model", pooled)
 		}
 	}
 	var out []UntestedStrip
@@ -274,21 +265,6 @@ func untestedStrip(c *Card, m *aniso.Model, alike []AlikeModel, n int, judged, l
 	}
 	return UntestedStrip{Label: label, Stretch: Num(top), Models: n, Widest: Num(widest), Largest: Num(largest), Percent: Num(pct),
 		WidestShear: Num(widestShear), ShearPercent: Num(shearPct), LeavesRangeAt: Num(at), Summary: summary}
-}
-
-// notCrossValidated counts the selection's candidates other than the
-// chosen one that carry no held-out error: they were not compared.
-func (c *Card) notCrossValidated() int {
-	if c.Selection == nil {
-		return 0
-	}
-	k := 0
-	for _, cc := range c.Selection.Pareto {
-		if !cc.Chosen && !finite(float64(cc.HeldoutError)) {
-			k++
-		}
-	}
-	return k
 }
 
 // turnedMatters reports whether a turned strip can part the models from

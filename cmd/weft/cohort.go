@@ -461,22 +461,6 @@ func cohortFailures(ms []*cohortMember, noneUsable bool) error {
 	return fmt.Errorf("%d of %d files failed (the others were written, with a failed row for each of these):%s", n, len(ms), b.String())
 }
 
-// cohortStrips measures the strips none of s's protocols tested with the
-// near-equivalent models of selection's card, whose held-out errors are
-// pooled over a cohort's pooled specimens (card.NewCohortUntestedStrips),
-// about m.
-func cohortStrips(s *biaxial.Specimen, selection *card.Card, m *aniso.Model, pooled int) ([]card.UntestedStrip, error) {
-	var protocols [][][4]float64
-	for _, pr := range s.Protocols {
-		var fs [][4]float64
-		for _, pt := range pr.Points {
-			fs = append(fs, pt.F)
-		}
-		protocols = append(protocols, fs)
-	}
-	return card.NewCohortUntestedStrips(protocols, s.Kind == biaxial.Nominal, selection, m, pooled)
-}
-
 // cohortCards builds the summary's input and the cards: each specimen's,
 // the population's and the mean-parameter one.
 func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string) (*cohortreport.Input, map[string]*card.Card, error) {
@@ -484,11 +468,9 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 	cards := map[string]*card.Card{}
 	var fits []*aniso.Result
 	var averaged []*aniso.Problem // the data of fits, in order
-	pooled := 0                   // the specimens whose evidence the discovered form pools
-	for i := range c.Specimens {
-		if c.SpecimenEvidence(i) != nil {
-			pooled++
-		}
+	pooled := 0                   // the specimens whose held-out errors the discovered form pools: one fold each
+	if d := c.Discovery; d != nil && d.Best().CV != nil {
+		pooled = len(d.Best().CV.Folds)
 	}
 	for _, m := range ms {
 		name := strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
@@ -519,7 +501,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 					// words say the evidence is pooled (until 2026-12-05
 					// they read as the specimen's own held-out protocols).
 					var err error
-					if cd.UntestedStrips, err = cohortStrips(m.spec, card.FromFit(m.prob, cs.Result, ev), cs.Result.Model, pooled); err != nil {
+					if cd.UntestedStrips, err = card.NewCohortUntestedStrips(protocolDeformations(m.spec), m.spec.Kind == biaxial.Nominal, card.FromFit(m.prob, cs.Result, ev), cs.Result.Model, pooled); err != nil {
 						return nil, nil, fmt.Errorf("%s: the untested strips: %w", m.file, err)
 					}
 				}

@@ -586,7 +586,7 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
 	if o.Discovery != nil {
-		if o.Card.UntestedStrips, err = untestedStrips(s, o.Card, o.Result.Model); err != nil {
+		if o.Card.UntestedStrips, err = card.NewUntestedStrips(protocolDeformations(s), s.Kind == biaxial.Nominal, o.Card, o.Result.Model); err != nil {
 			return nil, fitFailed(s, err)
 		}
 	}
@@ -600,10 +600,10 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	return o, nil
 }
 
-// untestedStrips measures the strips none of s's protocols tested with
-// the near-equivalent models of selection's card (card.NewUntestedStrips)
-// about m.
-func untestedStrips(s *biaxial.Specimen, selection *card.Card, m *aniso.Model) ([]card.UntestedStrip, error) {
+// protocolDeformations returns the deformation gradients (F11, F12, F21,
+// F22) of each of s's protocols, in order, as the untested strips read
+// them.
+func protocolDeformations(s *biaxial.Specimen) [][][4]float64 {
 	var protocols [][][4]float64
 	for _, pr := range s.Protocols {
 		var fs [][4]float64
@@ -612,7 +612,7 @@ func untestedStrips(s *biaxial.Specimen, selection *card.Card, m *aniso.Model) (
 		}
 		protocols = append(protocols, fs)
 	}
-	return card.NewUntestedStrips(protocols, s.Kind == biaxial.Nominal, selection, m)
+	return protocols
 }
 
 // printCardsJSON prints one card, or an array of the cards written when

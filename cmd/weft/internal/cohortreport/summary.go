@@ -293,7 +293,7 @@ func Build(in *Input) *Summary {
 	// a load held at the peak in one of its files.
 	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Warnings) },
 		"specimens whose test file was read with warnings (a repeated block, a held load, a slip of the stretch, an untared preload, shear within its scatter, …): %s; their values enter the statistics at full weight — see each one's warnings in cohort.json and its card")
-	if note := stripsNote(in.Specimens, uncompared(in.Cohort)); note != "" {
+	if note := stripsNote(in.Specimens); note != "" {
 		s.Notes = append(s.Notes, note)
 	}
 	s.Provenance = in.Provenance
@@ -305,13 +305,7 @@ func Build(in *Input) *Summary {
 // strips. A cohort's parameters, like one fit's, do not settle a loading
 // none of its tests came near (until 2026-12-05 a cohort said nothing of
 // it).
-//
-// uncompared is how many of the cohort's candidate forms were not
-// cross-validated: a strip with no near-equivalent form then says that
-// they were not compared, not that none came near (five synthetic
-// one-family specimens, 2026-12-05: 2 of 9 candidates cross-validated,
-// while each file fitted alone had 7–14 near-equivalents).
-func stripsNote(sps []Specimen, uncompared int) string {
+func stripsNote(sps []Specimen) string {
 	type widest struct {
 		label, name string
 		pct, leaves float64
@@ -337,11 +331,9 @@ func stripsNote(sps []Specimen, uncompared int) string {
 		return ""
 	}
 	var parts []string
-	unmeasured := false
 	for _, w := range order {
 		if math.IsNaN(w.pct) {
-			parts = append(parts, fmt.Sprintf("%s (%s): no cross-validated form came near the cohort's, nothing measures it", w.label, specimensText(w.listed)))
-			unmeasured = true
+			parts = append(parts, fmt.Sprintf("%s (%s): no form came near the cohort's on the pooled held-out protocols, nothing measures it", w.label, specimensText(w.listed)))
 			continue
 		}
 		part := fmt.Sprintf("%s (%s): up to %s %% (%s", w.label, specimensText(w.listed), card.PercentText(w.pct), w.name)
@@ -352,27 +344,8 @@ func stripsNote(sps []Specimen, uncompared int) string {
 		}
 		parts = append(parts, part+")")
 	}
-	uncomparedText := ""
-	if unmeasured && uncompared > 0 {
-		uncomparedText = fmt.Sprintf(" (the cohort did not cross-validate %d of its candidate forms, which could not change its verdict, so they were not compared)", uncompared)
-	}
 	return "untested strips, the loadings the specimens' tests left out, with the widest spread over specimens of the forms the pooled held-out protocols could not tell from the cohort's, each fitted to that specimen, in per cent of its largest normal stress there: " +
-		strings.Join(parts, "; ") + uncomparedText + "; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
-}
-
-// uncompared counts the candidates of c's discovered form that were not
-// cross-validated; 0 when the form was given.
-func uncompared(c *aniso.Cohort) int {
-	if c == nil || c.Discovery == nil {
-		return 0
-	}
-	k := 0
-	for i, cd := range c.Discovery.Pareto {
-		if i != c.Discovery.Chosen && cd.CV == nil {
-			k++
-		}
-	}
-	return k
+		strings.Join(parts, "; ") + "; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
 }
 
 // statisticsNotes say how to read the statistics.

@@ -87,7 +87,7 @@ const stripPoints = 40
 // summary that says nothing measures them: one candidate alone is not a
 // settled prediction.
 func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model) ([]UntestedStrip, error) {
-	return newUntestedStrips(protocols, nominal, c, m, 0)
+	return newUntestedStrips(protocols, nominal, c, m, 0, nil)
 }
 
 // NewCohortUntestedStrips is NewUntestedStrips for a specimen of a cohort
@@ -96,16 +96,31 @@ func NewUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 // errors pooled over the cohort's specimens (aniso.Cohort.SpecimenEvidence).
 // The summaries say that the evidence is pooled, not this specimen's own.
 func NewCohortUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, specimens int) ([]UntestedStrip, error) {
-	return newUntestedStrips(protocols, nominal, c, m, max(specimens, 1))
+	return newUntestedStrips(protocols, nominal, c, m, max(specimens, 1), nil)
+}
+
+// NewUnmeasuredStrips lists the strips none of protocols tested as
+// NewUntestedStrips does, but measures none of them: each has Models 0,
+// null numbers and a summary whose reason is why(label), a clause saying
+// why nothing measures the strip on this card. A cohort's population card
+// uses it: no candidate form but the chosen one is fitted to the pooled
+// data (each such fit costs about as much as the population fit), and the
+// reason points at the specimens' own strips.
+func NewUnmeasuredStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, why func(label string) string) ([]UntestedStrip, error) {
+	return newUntestedStrips(protocols, nominal, c, m, 0, why)
 }
 
 // newUntestedStrips is NewUntestedStrips; pooled is the number of a
 // cohort's specimens whose held-out errors the selection pools, 0 for a
-// single specimen's own.
-func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, pooled int) ([]UntestedStrip, error) {
-	alike, err := c.AlikeModels()
-	if err != nil {
-		return nil, err
+// single specimen's own; unmeasured, when set, leaves every strip
+// unmeasured with its reason (NewUnmeasuredStrips).
+func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso.Model, pooled int, unmeasured func(label string) string) ([]UntestedStrip, error) {
+	var alike []AlikeModel
+	if unmeasured == nil {
+		var err error
+		if alike, err = c.AlikeModels(); err != nil {
+			return nil, err
+		}
 	}
 	n := Candidates(alike)
 	var dirs []float64
@@ -170,7 +185,11 @@ func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		leaves, outside := leavesRange(c, m, st.turn, st.axis, st.top)
 		if len(alike) == 0 {
 			nan := Num(math.NaN())
-			summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so nothing measures how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, why)
+			reason, so := why, "nothing measures"
+			if unmeasured != nil {
+				reason, so = unmeasured(st.label), "this card does not measure"
+			}
+			summary := fmt.Sprintf("strip %s (%s, to stretch %.3g): %s, so %s how far the tests settle it; that is not a settled prediction", st.label, st.held, st.top, reason, so)
 			if leaves > 0 {
 				// Where the strip leaves the tested range depends on
 				// the card's model and data alone, not on a band (until

@@ -326,6 +326,18 @@ func TestCohortSpecimensListTheirUntestedStrips(t *testing.T) {
 	if !strings.Contains(note, "1:0 (4 specimens): up to ") || !strings.Contains(stdout, "untested strips") {
 		t.Errorf("cohort.json's note %q; summary:\n%s", note, stdout)
 	}
+	// The population card lists its strips unmeasured (no candidate but
+	// the chosen one is fitted to the pooled data) and points at the
+	// specimens' widest, as the note gives it.
+	pc, _ := readCardFile(t, filepath.Join(out, "population.json"))
+	if len(pc.UntestedStrips) != 3 || pc.UntestedStrips[0].Models != 0 || !strings.Contains(pc.UntestedStrips[0].Summary, "no band of candidate forms was fitted to the pooled data") {
+		t.Errorf("population.json's untested strips %+v", pc.UntestedStrips)
+	} else if i := strings.Index(note, "1:0 (4 specimens): up to "); i >= 0 {
+		widest := strings.SplitN(note[i+len("1:0 (4 specimens): up to "):], ")", 2)[0] // "0.4 % (C001"
+		if !strings.Contains(pc.UntestedStrips[0].Summary, "by up to "+strings.Replace(widest, " % (", " % of the largest normal stress (", 1)+")") {
+			t.Errorf("population strip 1:0 %q does not point at the specimens' widest %q", pc.UntestedStrips[0].Summary, widest)
+		}
+	}
 	// weft predict on a specimen's card has no band of its own and
 	// points at the strips.
 	pred, errs, code := runWeft(t, "predict", filepath.Join(out, "C001.weft", "model.json"), writeTemp(t, "in.csv", "stretch_1,stretch_2\n1.05,1.02\n"))

@@ -300,47 +300,76 @@ func Build(in *Input) *Summary {
 	return s
 }
 
+// StripSpread is the widest spread of one untested strip over a cohort's
+// specimens (card.UntestedStrip.Percent) and whose it is.
+type StripSpread struct {
+	// Label is the strip's (card.UntestedStrip.Label); Listed how many
+	// specimens list it.
+	Label  string
+	Listed int
+	// Percent is the widest spread (per cent of that specimen's largest
+	// normal stress along the strip) and Specimen whose it is; NaN and ""
+	// when no specimen's card measures the strip. LeavesRangeAt is that
+	// specimen's card.UntestedStrip.LeavesRangeAt (NaN when inside).
+	Percent, LeavesRangeAt float64
+	Specimen               string
+}
+
+// WidestStrips returns, for each strip the specimens list in order of
+// first appearance, its widest spread over specimens.
+func WidestStrips(sps []Specimen) []StripSpread {
+	var out []StripSpread
+	at := map[string]int{}
+	for _, sp := range sps {
+		for _, st := range sp.UntestedStrips {
+			k, ok := at[st.Label]
+			if !ok {
+				k = len(out)
+				at[st.Label] = k
+				out = append(out, StripSpread{Label: st.Label, Percent: math.NaN(), LeavesRangeAt: math.NaN()})
+			}
+			w := &out[k]
+			w.Listed++
+			if p := float64(st.Percent); st.Models > 0 && !(p <= w.Percent) {
+				w.Percent, w.Specimen, w.LeavesRangeAt = p, sp.Name, float64(st.LeavesRangeAt)
+			}
+		}
+	}
+	return out
+}
+
+// WidestStrip is WidestStrips' entry for label, or one with Specimen ""
+// when no specimen lists it.
+func WidestStrip(sps []Specimen, label string) StripSpread {
+	for _, w := range WidestStrips(sps) {
+		if w.Label == label {
+			return w
+		}
+	}
+	return StripSpread{Label: label, Percent: math.NaN(), LeavesRangeAt: math.NaN()}
+}
+
 // stripsNote names, for each strip the specimens' tests left out, the
 // widest band over specimens and whose it is; "" when no specimen has
 // strips. A cohort's parameters, like one fit's, do not settle a loading
 // none of its tests came near (until 2026-12-05 a cohort said nothing of
 // it).
 func stripsNote(sps []Specimen) string {
-	type widest struct {
-		label, name string
-		pct, leaves float64
-		listed      int
-	}
-	var order []*widest
-	byLabel := map[string]*widest{}
-	for _, sp := range sps {
-		for _, st := range sp.UntestedStrips {
-			w := byLabel[st.Label]
-			if w == nil {
-				w = &widest{label: st.Label, pct: math.NaN()}
-				byLabel[st.Label] = w
-				order = append(order, w)
-			}
-			w.listed++
-			if p := float64(st.Percent); st.Models > 0 && !(p <= w.pct) {
-				w.pct, w.name, w.leaves = p, sp.Name, float64(st.LeavesRangeAt)
-			}
-		}
-	}
+	order := WidestStrips(sps)
 	if len(order) == 0 {
 		return ""
 	}
 	var parts []string
 	for _, w := range order {
-		if math.IsNaN(w.pct) {
-			parts = append(parts, fmt.Sprintf("%s (%s): no form came near the cohort's on the pooled held-out protocols, nothing measures it", w.label, specimensText(w.listed)))
+		if w.Specimen == "" {
+			parts = append(parts, fmt.Sprintf("%s (%s): no form came near the cohort's on the pooled held-out protocols, nothing measures it", w.Label, specimensText(w.Listed)))
 			continue
 		}
-		part := fmt.Sprintf("%s (%s): up to %s %% (%s", w.label, specimensText(w.listed), card.PercentText(w.pct), w.name)
-		if w.leaves > 0 {
+		part := fmt.Sprintf("%s (%s): up to %s %% (%s", w.Label, specimensText(w.Listed), card.PercentText(w.Percent), w.Specimen)
+		if w.LeavesRangeAt > 0 {
 			// A runaway beyond the tested range is extrapolation, not
 			// a spread the tests left open within it.
-			part += fmt.Sprintf(", whose strip leaves its fitted data range from stretch %.3g on", w.leaves)
+			part += fmt.Sprintf(", whose strip leaves its fitted data range from stretch %.3g on", w.LeavesRangeAt)
 		}
 		parts = append(parts, part+")")
 	}

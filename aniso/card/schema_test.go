@@ -304,7 +304,7 @@ func untestedStripsSchema() obj {
 			{"percent", nullable("100 widest / largest")},
 			{"widest_shear", nullable("the largest high - low of a shear stress over the strip (the grips carry it), stress_unit")},
 			{"shear_percent", nullable("100 widest_shear / largest")},
-			{"leaves_range_at", nullable("the stretch from which the strip leaves the fitted data range, where every model extrapolates; null when it stays inside or nothing measures it")},
+			{"leaves_range_at", nullable("the stretch from which the strip leaves the fitted data range, where every model extrapolates; null when it stays inside (an unmeasured strip gives it too)")},
 			{"summary", schemaStr("the strip in words")},
 		}},
 	}

@@ -46,8 +46,9 @@ type UntestedStrip struct {
 	// LeavesRangeAt is the stretch from which the strip leaves the
 	// fitted data range (a stretch or a fibre stretch beyond the tested
 	// ones), where every model of the band extrapolates and a spread,
-	// narrow or wide, settles nothing; null (NaN) when it stays inside
-	// or nothing measures the strip.
+	// narrow or wide, settles nothing; null (NaN) when it stays inside.
+	// It depends on the card's model and data alone, so an unmeasured
+	// strip (Models 0) gives it too.
 	LeavesRangeAt Num `json:"leaves_range_at"`
 	// Summary says it in words.
 	Summary string `json:"summary"`
@@ -195,11 +196,15 @@ func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 				// the card's model and data alone, not on a band (until
 				// 2026-12-05 an unmeasured strip did not say it: four
 				// synthetic sutured specimens, fibres near 33°, whose
-				// strips leave their range from stretch 1.02–1.09 on).
-				// leaves_range_at stays null with the other numbers.
+				// strips leave their range from stretch 1.02–1.09 on),
+				// so leaves_range_at is given as on a measured strip.
 				summary += fmt.Sprintf("; from stretch %.3g on the strip leaves the fitted data range (%s), where the model extrapolates", leaves, outside)
 			}
-			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan, LeavesRangeAt: nan, Summary: summary})
+			at := nan
+			if leaves > 0 {
+				at = Num(leaves)
+			}
+			out = append(out, UntestedStrip{Label: st.label, Stretch: Num(st.top), Widest: nan, Largest: nan, Percent: nan, WidestShear: nan, ShearPercent: nan, LeavesRangeAt: at, Summary: summary})
 			continue
 		}
 		out = append(out, untestedStrip(c, m, alike, n, judged, st.label, st.held, st.turn, st.axis, st.top, leaves, outside, cols, shearCols))

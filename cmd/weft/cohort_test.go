@@ -242,6 +242,16 @@ func TestCohortGroupNamedAll(t *testing.T) {
 	}
 }
 
+// plantedCohortArgs is the command line of weft cohort writing to out,
+// with flags, on the planted specimens sp.
+func plantedCohortArgs(out string, sp []plantedSpecimen, flags ...string) []string {
+	args := append([]string{"cohort", "-o", out}, flags...)
+	for _, s := range sp {
+		args = append(args, s.file)
+	}
+	return args
+}
+
 // Discovery through the command line: the cohort's form, verdict and
 // support reach cohort.json, and each specimen's folder holds its fit
 // report as 'weft fit' writes it.
@@ -250,10 +260,7 @@ func TestCohortDiscovered(t *testing.T) {
 	dir := t.TempDir()
 	sp := writePlantedCohort(t, dir, 4, 15, 11, cohortPopulation{"A", 35, 40})
 	out := filepath.Join(dir, "cohort")
-	args := []string{"cohort", "-o", out, "--quiet", "--dispersion", "none"}
-	for _, s := range sp {
-		args = append(args, s.file)
-	}
+	args := plantedCohortArgs(out, sp, "--quiet", "--dispersion", "none")
 	if _, stderr, code := runWeft(t, args...); code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -313,10 +320,7 @@ func TestCohortSpecimensListTheirUntestedStrips(t *testing.T) {
 	dir := t.TempDir()
 	sp := writePlantedCohort(t, dir, 4, 15, 11, cohortPopulation{"A", 3, 40})
 	out := filepath.Join(dir, "cohort")
-	args := []string{"cohort", "-o", out, "--quiet", "--dispersion", "none"}
-	for _, s := range sp {
-		args = append(args, s.file)
-	}
+	args := plantedCohortArgs(out, sp, "--quiet", "--dispersion", "none")
 	stdout, stderr, code := runWeft(t, args...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)

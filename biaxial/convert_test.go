@@ -155,3 +155,33 @@ func TestSemicolonDecimalCommaBOM(t *testing.T) {
 		}
 	}
 }
+
+// A length in the metadata is the number typed, in millimetres: the SI
+// prefixes (BIPM, The International System of Units, 9th ed. 2019:
+// milli = 10⁻³, micro = 10⁻⁶) make 9 mm, 0.009 m and 9000 µm the same
+// 9 mm, the decimal 9 exactly. Until 2026-12-05 the reader multiplied by
+// 1e-3 and then by 1e3, and "9 mm" became 9.000000000000002 mm, "0.42 mm"
+// 0.42000000000000004 mm, in the card's geometry and `weft inspect`.
+func TestGeometryIsTheNumberTyped(t *testing.T) {
+	for _, c := range []struct {
+		th, s1, s2          string
+		wantH, want1, want2 float64
+	}{
+		{"0.42 mm", "9.5 mm", "9 mm", 0.42, 9.5, 9},
+		{"420 µm", "0.0095 m", "9000 um", 0.42, 9.5, 9},
+		{"0.00042 m", "9500 µm", "0.009 m", 0.42, 9.5, 9},
+		{"0.3 mm", "10 mm", "1.1 mm", 0.3, 10, 1.1},
+		{"1.5e-4 m", "2.5e4 µm", "12.3456789 mm", 0.15, 25, 12.3456789},
+	} {
+		in := "# thickness = " + c.th + "\n# size_1 = " + c.s1 + "\n# size_2 = " + c.s2 + "\n" +
+			"protocol,stretch_1,stretch_2,load_1 [N],load_2 [N]\n" + rows5("1:1", "0.15", "0.10")
+		s, err := Read(strings.NewReader(in), "syn.csv", Options{})
+		if err != nil {
+			t.Fatalf("%s, %s, %s: %v", c.th, c.s1, c.s2, err)
+		}
+		g := s.Geometry
+		if g == nil || g.Thickness != c.wantH || g.Size1 != c.want1 || g.Size2 != c.want2 {
+			t.Errorf("%s, %s, %s: geometry %+v mm; want exactly %v, %v, %v (SI prefixes)", c.th, c.s1, c.s2, g, c.wantH, c.want1, c.want2)
+		}
+	}
+}

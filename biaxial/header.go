@@ -3,6 +3,7 @@ package biaxial
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 )
@@ -173,7 +174,27 @@ func (p *tableParser) metaLength(key string) (float64, bool, error) {
 		return 0, false, p.errAt(line, 0, ErrRange, "give the reference "+key+" of the specimen, a positive length",
 			"metadata %s = %s must be > 0", key, v)
 	}
-	return x * f * 1e3, true, nil
+	return lengthInMillimetres(x, f), true, nil
+}
+
+// lengthInMillimetres converts x, a length in a unit of toMetre metres (a
+// power of ten), to millimetres by moving the decimal exponent of the
+// shortest decimal that reads back as x, so the result is the number as
+// typed, rounded once: multiplying by toMetre and then by 1000 turned
+// "9 mm" into 9.000000000000002 mm and "0.42 mm" into 0.42000000000000004
+// mm, which the card's geometry, `weft inspect` and the load-to-stress
+// factor then carried.
+func lengthInMillimetres(x, toMetre float64) float64 {
+	k := int(math.Round(math.Log10(toMetre))) + 3
+	s := strconv.FormatFloat(x, 'e', -1, 64)
+	i := strings.IndexByte(s, 'e')
+	e, err := strconv.Atoi(s[i+1:])
+	if err == nil {
+		if v, err := strconv.ParseFloat(s[:i]+"e"+strconv.Itoa(e+k), 64); err == nil {
+			return v
+		}
+	}
+	return x * toMetre * 1e3
 }
 
 // metaStressUnit returns the canonical stress unit of the `stress_unit`

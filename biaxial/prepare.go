@@ -436,6 +436,10 @@ func prepareProtocol(rec *Record, t *rawTable, g *rawGroup, s *Specimen, opt Opt
 		if err != nil {
 			return pr, perr(ErrProtocol, "keep a branch whose stretch changes, or do not resample", "%v", err)
 		}
+		// The kept text goes to inspect, the report and the card's data:
+		// until 2026-12-05 it said "30 of 174 rows" of a protocol fitted
+		// at 7 interpolated points, and only the card's command line told.
+		pr.Kept += fmt.Sprintf(", resampled to %d points evenly spaced in the driving stretch", len(pts))
 	}
 	pr.Points = pts
 	weigh(s, &pr)

@@ -184,6 +184,11 @@ func TestResample(t *testing.T) {
 	if pts[0].Time != 0 || !near(pts[10].Time, 0.7, 1e-15) {
 		t.Errorf("time %v..%v s, want 0..0.7", pts[0].Time, pts[10].Time)
 	}
+	// The kept text (inspect, report, card) says the points are
+	// interpolated; until 2026-12-05 it gave only "8 of 8 rows".
+	if k := s.Protocols[0].Kept; !strings.Contains(k, "8 of 8 rows, resampled to 11 points evenly spaced in the driving stretch") {
+		t.Errorf("kept %q does not say the 8 rows were resampled to 11 points", k)
+	}
 	if _, err := readString(in, Options{Resample: 11, Branch: BranchAll}); err == nil {
 		t.Error("resampling both branches must be refused")
 	}

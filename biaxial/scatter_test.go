@@ -144,6 +144,38 @@ func TestSmoothStrain(t *testing.T) {
 	}
 }
 
+// The smoothing, edges included, against a general-purpose library:
+// scipy.signal.savgol_filter(x, window, 2, mode="interp") (SciPy 1.10.1,
+// NumPy 1.24.2, run once on 2026-12-05; the values below are its output,
+// printed with repr). Its "interp" mode fits the quadratic to the first or
+// last window for the points within half a window of an end, as weft
+// does; a check with a quadratic path alone cannot tell that from other
+// end treatments, since any of them that fits a quadratic keeps one.
+func TestSmoothStrainMatchesSciPy(t *testing.T) {
+	x := []float64{1.000, 1.013, 1.019, 1.034, 1.038, 1.052, 1.067, 1.069, 1.088, 1.096, 1.111, 1.117}
+	for _, c := range []struct {
+		window int
+		want   []float64
+	}{
+		{5, []float64{1.0001142857142857, 1.0117428571428568, 1.0220857142857136, 1.0304857142857138, 1.0405714285714283, 1.052428571428571,
+			1.0632285714285707, 1.073971428571428, 1.0840571428571424, 1.098914285714285, 1.109457142857143, 1.1172857142857147}},
+		{7, []float64{1.0015952380952384, 1.0105714285714287, 1.0202142857142855, 1.0305238095238103, 1.0417142857142867, 1.0518571428571435,
+			1.0625238095238103, 1.074238095238096, 1.0858095238095244, 1.096857142857143, 1.1078571428571433, 1.1188095238095246}},
+	} {
+		pts := make([]Point, len(x))
+		for i, v := range x {
+			pts[i].F = [4]float64{v, 0, 0, 2 - v}
+		}
+		smoothStrain(pts, c.window)
+		for i, want := range c.want {
+			if math.Abs(pts[i].F[0]-want) > 1e-13 || math.Abs(pts[i].F[3]-(2-want)) > 1e-13 {
+				t.Errorf("%d points, point %d: F11 %.16g, F22 %.16g; want %.16g, %.16g (scipy.signal.savgol_filter)",
+					c.window, i, pts[i].F[0], pts[i].F[3], want, 2-want)
+			}
+		}
+	}
+}
+
 // Smoothing is an option of its own: the window must be odd and at least
 // MinPoints, a protocol must keep that many points, the kept text and the
 // protocol record it, and the scatter warning judges what smoothing

@@ -193,7 +193,8 @@ type Protocol struct {
 	// SelectedPoints is the number of points kept before resampling.
 	SelectedPoints int
 	// RefF is the deformation gradient (F11, F12, F21, F22) of the point
-	// used as the reference state when re-referencing, as measured; the
+	// used as the reference state when re-referencing, as measured (as
+	// smoothed with SmoothStrain, which re-referencing uses); the
 	// identity (1, 0, 0, 1) when the data are used as measured.
 	RefF [4]float64
 	// Tare is the stress subtracted from every point when re-referencing

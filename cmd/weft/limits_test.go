@@ -35,6 +35,10 @@ func TestLimitsAtTheCommandLine(t *testing.T) {
 		{[]string{"inspect", data, "--limit", "rows=0x10"}, []string{"give a positive number"}},
 		{[]string{"inspect", data, "--limit", "stretch=2,3"}, []string{"0 < MIN < 1 < MAX"}},
 		{[]string{"inspect", data, "--weight", "1:1=1_0"}, []string{"finite decimal number"}},
+		// README, Weighting: W > 0, a weight of 0 is refused. Until
+		// 2026-12-05 a negative weight was told "≥ 0" and 0 then refused.
+		{[]string{"inspect", data, "--protocol-weight", "1:1=-1"}, []string{"finite decimal number > 0", "left out of the data"}},
+		{[]string{"inspect", data, "--protocol-weight", "1:1=0"}, []string{"finite decimal number > 0", "left out of the data"}},
 		{[]string{"evaluate", big, "--stretch", "0x1p0,1"}, []string{"not a finite decimal number"}},
 	} {
 		_, errs, code := runWeft(t, c.args...)

@@ -69,8 +69,10 @@ func (f *readFlags) options() (biaxial.Options, error) {
 			return o, badInputf("--protocol-weight %s: write LABEL=W, e.g. --protocol-weight 1:0.5=2", quoteArg(w))
 		}
 		v, err := biaxial.ParseNumber(strings.TrimSpace(w[i+1:]))
-		if err != nil || !(v >= 0) || v > 1e300 {
-			return o, badInputf("--protocol-weight %s: the protocol weight must be a finite decimal number ≥ 0", quoteArg(w))
+		// W > 0 (README, Weighting): until 2026-12-05 this said "≥ 0",
+		// and a weight of 0, which passed here, was then refused.
+		if err != nil || !(v > 0) || v > 1e300 {
+			return o, badInputf("--protocol-weight %s: the protocol weight must be a finite decimal number > 0 (a protocol to be left out of the fit must be left out of the data)", quoteArg(w))
 		}
 		if o.ProtocolWeights == nil {
 			o.ProtocolWeights = map[string]float64{}

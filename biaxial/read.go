@@ -75,6 +75,16 @@ func (r *Rows) Prepare(opt Options) (*Specimen, error) {
 	return prepare(r.rec, r.t, opt)
 }
 
+// ProtocolLabels returns the labels of the file's protocols in the order
+// they first appear.
+func (r *Rows) ProtocolLabels() []string {
+	labels := make([]string, len(r.t.groups))
+	for i, g := range r.t.groups {
+		labels[i] = g.label
+	}
+	return labels
+}
+
 // Read reads a test file from r and prepares it with opt, as ReadRecord
 // followed by Prepare would (see ReadFile for the memory it takes). name
 // is used in messages and to recognise xlsx.

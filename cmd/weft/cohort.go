@@ -11,6 +11,7 @@ import (
 	"path"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 
@@ -128,6 +129,9 @@ type cohortMember struct {
 	group  string
 	folder string
 	err    error
+	// unweighted are the labels given a weight (--protocol-weight) that
+	// this file has no protocol of: the weight applies to the others.
+	unweighted []string
 	// index into the problems given to aniso.FitCohort, or −1.
 	at int
 }
@@ -147,6 +151,9 @@ func runCohort(co *cohortOptions) error {
 		return badInputf("cohort needs an output folder: -o DIR")
 	}
 	members := readMembers(co.files, co.read)
+	if err := checkCohortWeights(members, co.read.ProtocolWeights); err != nil {
+		return err
+	}
 	groupFile, err := assignGroups(members, co.groupBy, co.ErrOut)
 	if err != nil {
 		return err
@@ -234,9 +241,84 @@ func readMembers(files []string, opt biaxial.Options) []*cohortMember {
 			}
 			continue
 		}
-		m.spec, m.err = readSpecimen(filepath.FromSlash(m.file), opt)
+		m.spec, m.unweighted, m.err = readMember(filepath.FromSlash(m.file), opt)
 	}
 	return ms
+}
+
+// readMember reads one file of a cohort. A protocol weight whose label
+// the file lacks applies to the other files: specimens of one study often
+// differ in the protocols run, and failing such a file would drop its data
+// from the cohort (checkCohortWeights refuses a label no file has). It
+// returns those labels.
+func readMember(path string, opt biaxial.Options) (*biaxial.Specimen, []string, error) {
+	if len(opt.ProtocolWeights) == 0 {
+		s, err := readSpecimen(path, opt)
+		return s, nil, err
+	}
+	rows, err := biaxial.ReadRows(path, opt)
+	if err != nil {
+		return nil, nil, withLimitHint(err)
+	}
+	has := map[string]bool{}
+	for _, l := range rows.ProtocolLabels() {
+		has[l] = true
+	}
+	own := opt
+	own.ProtocolWeights = map[string]float64{}
+	var missing []string
+	for l, w := range opt.ProtocolWeights {
+		if has[l] {
+			own.ProtocolWeights[l] = w
+		} else {
+			missing = append(missing, l)
+		}
+	}
+	sort.Strings(missing)
+	s, err := rows.Prepare(own)
+	if err != nil {
+		return nil, nil, withLimitHint(err)
+	}
+	return s, missing, nil
+}
+
+// checkCohortWeights refuses a protocol weight whose label no file of the
+// cohort that could be read has: a mistyped label, which would otherwise
+// weigh nothing without a word.
+func checkCohortWeights(ms []*cohortMember, weights map[string]float64) error {
+	if len(weights) == 0 {
+		return nil
+	}
+	seen := map[string]bool{}
+	read := false
+	for _, m := range ms {
+		if m.spec == nil {
+			continue
+		}
+		read = true
+		for _, pr := range m.spec.Protocols {
+			seen[pr.Label] = true
+		}
+	}
+	if !read {
+		return nil // every file failed: cohortFailures says why
+	}
+	var labels []string
+	for l := range seen {
+		labels = append(labels, strconv.Quote(l))
+	}
+	sort.Strings(labels)
+	var given []string
+	for l := range weights {
+		given = append(given, l)
+	}
+	sort.Strings(given)
+	for _, l := range given {
+		if !seen[l] {
+			return badInputf("--protocol-weight %s=%g: no file of the cohort has a protocol %q; use one of %s", l, weights[l], l, strings.Join(labels, ", "))
+		}
+	}
+	return nil
 }
 
 // memberKey is the path that orders a cohort's files: absolute, cleaned
@@ -481,7 +563,7 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 				warnings = append(warnings, w.String())
 			}
 		}
-		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings, DirectionGap: math.NaN(), MisfitRatio: math.NaN()}
+		sp := cohortreport.Specimen{File: m.file, Name: name, Group: m.group, Problem: m.prob, Warnings: warnings, Unweighted: m.unweighted, DirectionGap: math.NaN(), MisfitRatio: math.NaN()}
 		if m.at >= 0 {
 			cs := c.Specimens[m.at]
 			sp.Verdict, sp.Form, sp.DirectionGap = cs.Verdict, cs.Form, cs.DirectionGap

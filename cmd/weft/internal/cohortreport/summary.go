@@ -43,6 +43,10 @@ type Specimen struct {
 	MisfitRatio float64
 	// Err says why it failed; empty when it did not.
 	Err string
+	// Unweighted are the labels given a relative weight
+	// (--protocol-weight) that its file has no protocol of: the weights
+	// applied to the files that have them; nil when none.
+	Unweighted []string
 	// UntestedStrips are its card's strips the tests left out, each with
 	// the band of the forms the pooled held-out protocols could not tell
 	// from the cohort's (card.NewUntestedStrips); nil when the form was
@@ -204,6 +208,9 @@ type SpecimenRow struct {
 	// Warnings are the reading warnings of the specimen's test file
 	// (Specimen.Warnings).
 	Warnings []string `json:"warnings,omitempty"`
+	// Unweighted are the protocol labels given a weight that the
+	// specimen's file has no protocol of (Specimen.Unweighted).
+	Unweighted []string `json:"weights_not_applied,omitempty"`
 }
 
 // familySwap exchanges the labels of two families in estimate names.
@@ -293,6 +300,10 @@ func Build(in *Input) *Summary {
 	// a load held at the peak in one of its files.
 	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Warnings) },
 		"specimens whose test file was read with warnings (a repeated block, a held load, a slip of the stretch, an untared preload, shear within its scatter, …): %s; their values enter the statistics at full weight — see each one's warnings in cohort.json and its card")
+	// A weight given to a protocol some files lack applies to the others
+	// (until 2026-12-05 such a file failed and its data left the cohort).
+	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Unweighted) },
+		"specimens without a protocol given a relative weight, so that weight did not apply to them (weights_not_applied): %s; each of their protocols keeps the weight 1 relative to the others")
 	if note := stripsNote(in.Specimens); note != "" {
 		s.Notes = append(s.Notes, note)
 	}
@@ -499,7 +510,7 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 	for _, sp := range in.Specimens {
 		row := SpecimenRow{File: sp.File, Specimen: sp.Name, Group: sp.Group, Status: StatusOK, Folder: sp.Folder,
 			LowestR2: card.Num(math.NaN()), HeldOut: card.Num(math.NaN()), Verdict: sp.Verdict, Form: sp.Form, DirectionGap: card.Num(sp.DirectionGap), MisfitRatio: card.Num(sp.MisfitRatio),
-			Warnings: append([]string(nil), sp.Warnings...)}
+			Warnings: append([]string(nil), sp.Warnings...), Unweighted: append([]string(nil), sp.Unweighted...)}
 		byName := map[string]aniso.Estimate{}
 		if sp.Result == nil {
 			row.Status, row.Error, row.Folder = StatusFailed, sp.Err, ""

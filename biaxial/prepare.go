@@ -128,6 +128,11 @@ func prepare(rec *Record, t *rawTable, opt Options) (*Specimen, error) {
 			s.Reference += ", nominal stress re-based P ← P·F_refᵀ"
 		}
 		s.Reference += ", tare subtracted"
+		if s.Geometry != nil {
+			// An FE analyst reads the geometry as the model's
+			// reference configuration; after re-referencing it is not.
+			s.Reference += "; the geometry (thickness and sizes) is the specimen's as the file gives it, from which loads became stress, not the re-referenced state"
+		}
 	}
 	warnPointCounts(s)
 	return s, nil

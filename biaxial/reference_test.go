@@ -454,3 +454,25 @@ func TestRereferenceUsesSmoothedStrain(t *testing.T) {
 		t.Errorf("last point P11 %.12g, want %.12g", got, want)
 	}
 }
+
+// After re-referencing, the geometry a file gives (from which loads
+// became nominal stress, P11 = f1/(W2·H), common practice) is no longer
+// the model's reference configuration: the reference text says so, so
+// that an FE analyst does not build the re-referenced state with it
+// (audit 2026-12-05). Without geometry there is nothing to say.
+func TestRereferenceSaysWhatTheGeometryIs(t *testing.T) {
+	const note = "the geometry (thickness and sizes) is the specimen's as the file gives it"
+	in := "# thickness = 0.2 mm\n# size_1 = 10 mm\n# size_2 = 10 mm\nprotocol,stretch_1,stretch_2,load_1 [N],load_2 [N]\n"
+	for i := 0; i < 6; i++ {
+		x := 0.02 * float64(i)
+		in += fmt.Sprintf("1:1,%g,%g,%g,%g\n", 1.01+x, 1.01+x, 0.01+x, 0.01+x)
+	}
+	s, err := readString(in, Options{Rereference: true})
+	if err != nil || s.Geometry == nil || !strings.Contains(s.Reference, note) {
+		t.Errorf("with geometry: reference %q, %v", s.Reference, err)
+	}
+	plain := "protocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]\n1:1,1.01,1.01,1,1\n1:1,1.03,1.03,2,2\n1:1,1.05,1.05,3,3\n1:1,1.07,1.07,4,4\n1:1,1.09,1.09,5,5\n"
+	if s, err := readString(plain, Options{Rereference: true}); err != nil || s.Reference == "" || strings.Contains(s.Reference, note) {
+		t.Errorf("without geometry: reference %q, %v", s.Reference, err)
+	}
+}

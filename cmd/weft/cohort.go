@@ -586,6 +586,11 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 					if cd.UntestedStrips, err = card.NewCohortUntestedStrips(protocolDeformations(m.spec), m.spec.Kind == biaxial.Nominal, card.FromFit(m.prob, cs.Result, ev), cs.Result.Model, pooled); err != nil {
 						return nil, nil, fmt.Errorf("%s: the untested strips: %w", m.file, err)
 					}
+				} else if c.Discovery == nil && m.spec != nil {
+					var err error
+					if cd.UntestedStrips, err = card.NewUnmeasuredStrips(protocolDeformations(m.spec), m.spec.Kind == biaxial.Nominal, cd, cs.Result.Model, chosenFormWhy); err != nil {
+						return nil, nil, fmt.Errorf("%s: the untested strips: %w", m.file, err)
+					}
 				}
 				cards[m.folder] = cd
 				sp.UntestedStrips = cd.UntestedStrips
@@ -649,11 +654,14 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 // (their widest spread over specimens, sps) instead. The mean-parameter
 // card gets none: it is no fit.
 func populationStrips(pc *card.Card, c *aniso.Cohort, sps []cohortreport.Specimen) error {
-	if c.Discovery == nil || c.Population == nil || c.Pooled == nil {
+	if c.Population == nil || c.Pooled == nil {
 		return nil
 	}
 	sp := c.Pooled.Specimen
 	why := func(label string) string {
+		if c.Discovery == nil {
+			return chosenFormWhy(label)
+		}
 		w := cohortreport.WidestStrip(sps, label)
 		if w.Specimen == "" {
 			return "no band of candidate forms was fitted to the pooled data, and no specimen's card measures this strip either"

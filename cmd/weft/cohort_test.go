@@ -550,7 +550,9 @@ func TestCohortVerdictNotesMostSpecimensMisfit(t *testing.T) {
 // 1948, as in Holzapfel 2000, Nonlinear Solid Mechanics, §6.5), c10 = 10
 // and 12 kPa without noise; the second lacks the protocol 0.5:1. Both fit
 // their own c10 (the preset's i1-lin weight) to 1e-4 relative: the data
-// of each, weighted or not, are its own.
+// of each, weighted or not, are its own. The same cohort, whose form was
+// chosen, also checks that its cards and notes list the untested strips
+// unmeasured (until 2026-12-05 a chosen form's cards listed none).
 func TestCohortWeightOfAProtocolSomeFilesLack(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -591,6 +593,20 @@ func TestCohortWeightOfAProtocolSomeFilesLack(t *testing.T) {
 	}
 	if note := noteWith(doc.Notes, "weights_not_applied"); !strings.Contains(note, "short") || strings.Contains(note, "full") {
 		t.Errorf("notes %q", doc.Notes)
+	}
+	// A chosen form's cards list the strips their tests left out, with
+	// nothing measuring them, and say why; so do the cohort's notes.
+	for _, name := range []string{"full", "short"} {
+		c, _ := readCardFile(t, filepath.Join(out, name+".weft", "model.json"))
+		if len(c.UntestedStrips) != 2 || c.UntestedStrips[0].Models != 0 || !strings.Contains(c.UntestedStrips[0].Summary, "the form was chosen, not discovered") {
+			t.Errorf("%s: untested strips %+v", name, c.UntestedStrips)
+		}
+	}
+	if pc, _ := readCardFile(t, filepath.Join(out, "population.json")); len(pc.UntestedStrips) != 2 || !strings.Contains(pc.UntestedStrips[1].Summary, "the form was chosen, not discovered") {
+		t.Errorf("population.json's untested strips %+v", pc.UntestedStrips)
+	}
+	if note := noteWith(doc.Notes, "untested strips"); !strings.Contains(note, "1:0 (2 specimens); 0:1 (2 specimens); the form was chosen, not discovered") {
+		t.Errorf("strips note %q", note)
 	}
 	_, stderr, code := runWeft(t, append(args[:len(args)-4:len(args)-4], "--protocol-weight", "9:1=3", full, short)...)
 	if code != exitBadInput || !strings.Contains(stderr, `no file of the cohort has a protocol "9:1"`) {

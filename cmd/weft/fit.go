@@ -586,9 +586,14 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
 	if o.Discovery != nil {
-		if o.Card.UntestedStrips, err = card.NewUntestedStrips(protocolDeformations(s), s.Kind == biaxial.Nominal, o.Card, o.Result.Model); err != nil {
-			return nil, fitFailed(s, err)
-		}
+		o.Card.UntestedStrips, err = card.NewUntestedStrips(protocolDeformations(s), s.Kind == biaxial.Nominal, o.Card, o.Result.Model)
+	} else {
+		// A chosen form leaves the same loadings untested: listed, with
+		// where they leave the tested range, though nothing measures them.
+		o.Card.UntestedStrips, err = card.NewUnmeasuredStrips(protocolDeformations(s), s.Kind == biaxial.Nominal, o.Card, o.Result.Model, chosenFormWhy)
+	}
+	if err != nil {
+		return nil, fitFailed(s, err)
 	}
 	if check != nil {
 		var angles []float64
@@ -598,6 +603,12 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		o.Card.CalibrationCheck = card.NewCalibrationCheck(o.Discovery.Verdict.Families, angles, o.Result.SignKnown, ff.calibration, check)
 	}
 	return o, nil
+}
+
+// chosenFormWhy is why nothing measures a strip of a card whose form was
+// chosen (--preset, --terms) rather than discovered.
+func chosenFormWhy(string) string {
+	return "the form was chosen, not discovered: no other candidate form was fitted to compare with it"
 }
 
 // protocolDeformations returns the deformation gradients (F11, F12, F21,

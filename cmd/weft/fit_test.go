@@ -201,6 +201,15 @@ func TestFitPresetForceAndDeterminism(t *testing.T) {
 	if code != 0 || !json.Valid([]byte(out)) || !strings.Contains(out, `"format": "weft.model/1"`) {
 		t.Fatalf("--json: exit %d\n%s", code, out)
 	}
+	// The strips the demo's ratio protocols left out are listed though
+	// nothing measures them: the form was chosen (until 2026-12-05 a
+	// preset's card listed none). One family at 30° (the demo's truth,
+	// HGO's pair ±30°) makes the turned strip matter.
+	c, _, err := card.Parse(strings.NewReader(out), "stdout")
+	if err != nil || len(c.UntestedStrips) != 3 || c.UntestedStrips[2].Label != "1:0 turned 45°" || c.UntestedStrips[0].Models != 0 ||
+		!strings.Contains(c.UntestedStrips[0].Summary, "the form was chosen, not discovered") {
+		t.Errorf("a preset's untested strips %+v, %v", c.UntestedStrips, err)
+	}
 }
 
 // Bad input to fit: exit code 2 and nothing written.

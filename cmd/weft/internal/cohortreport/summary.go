@@ -304,7 +304,7 @@ func Build(in *Input) *Summary {
 	// (until 2026-12-05 such a file failed and its data left the cohort).
 	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Unweighted) },
 		"specimens without a protocol given a relative weight, so that weight did not apply to them (weights_not_applied): %s; each of their protocols keeps the weight 1 relative to the others")
-	if note := stripsNote(in.Specimens); note != "" {
+	if note := stripsNote(in.Specimens, in.Cohort != nil && in.Cohort.Discovery == nil); note != "" {
 		s.Notes = append(s.Notes, note)
 	}
 	s.Provenance = in.Provenance
@@ -364,11 +364,20 @@ func WidestStrip(sps []Specimen, label string) StripSpread {
 // widest band over specimens and whose it is; "" when no specimen has
 // strips. A cohort's parameters, like one fit's, do not settle a loading
 // none of its tests came near (until 2026-12-05 a cohort said nothing of
-// it).
-func stripsNote(sps []Specimen) string {
+// it). chosen says the form was given, not discovered: then no strip is
+// measured, and the note only names them.
+func stripsNote(sps []Specimen, chosen bool) string {
 	order := WidestStrips(sps)
 	if len(order) == 0 {
 		return ""
+	}
+	if chosen {
+		var labels []string
+		for _, w := range order {
+			labels = append(labels, fmt.Sprintf("%s (%s)", w.Label, specimensText(w.Listed)))
+		}
+		return "untested strips, the loadings the specimens' tests left out: " + strings.Join(labels, "; ") +
+			"; the form was chosen, not discovered, so no other candidate form measures how far the tests settle them; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
 	}
 	var parts []string
 	for _, w := range order {

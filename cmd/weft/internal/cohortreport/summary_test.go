@@ -68,7 +68,7 @@ func TestStripsNoteNamesTheWidestAndItsRange(t *testing.T) {
 			{Label: "0:1", Models: 0, Percent: nan, LeavesRangeAt: nan},
 			{Label: "1:0 turned −45°", Models: 1, Percent: 12, LeavesRangeAt: nan}}},
 	}
-	note := stripsNote(sps)
+	note := stripsNote(sps, false)
 	for _, want := range []string{
 		"1:0 (2 specimens): up to 2.91e+22 % (B, whose strip leaves its fitted data range from stretch 1.03 on)",
 		"0:1 (2 specimens): no form came near the cohort's on the pooled held-out protocols, nothing measures it",
@@ -78,7 +78,7 @@ func TestStripsNoteNamesTheWidestAndItsRange(t *testing.T) {
 			t.Errorf("note %q\nlacks %q", note, want)
 		}
 	}
-	if stripsNote([]Specimen{{Name: "C"}}) != "" {
+	if stripsNote([]Specimen{{Name: "C"}}, false) != "" {
 		t.Error("a note without strips")
 	}
 }

@@ -182,7 +182,7 @@ func (p *tableParser) metaLength(key string) (float64, bool, error) {
 // shortest decimal that reads back as x, so the result is the number as
 // typed, rounded once: multiplying by toMetre and then by 1000 turned
 // "9 mm" into 9.000000000000002 mm and "0.42 mm" into 0.42000000000000004
-// mm, which the card's geometry, `weft inspect` and the load-to-stress
+// mm, which the card's geometry, the inspection and the load-to-stress
 // factor then carried.
 func lengthInMillimetres(x, toMetre float64) float64 {
 	k := int(math.Round(math.Log10(toMetre))) + 3

@@ -547,6 +547,22 @@ func (c *Card) Model() (*aniso.Model, error) {
 		return nil, errAt("$.stress_unit", "%s is not a stress unit; use one of %s", quote(c.StressUnit), strings.Join(StressUnits, ", "))
 	}
 	m := &aniso.Model{}
+	index, err := c.modelFamilies(m)
+	if err != nil {
+		return nil, err
+	}
+	if err := c.modelTerms(m, index); err != nil {
+		return nil, err
+	}
+	if err := m.Validate(); err != nil {
+		return nil, errAt("$", "%v", err)
+	}
+	return m, nil
+}
+
+// modelFamilies reads the card's families into m and returns each
+// family's index by name; a step of Model.
+func (c *Card) modelFamilies(m *aniso.Model) (map[string]int, error) {
 	index := map[string]int{}
 	for i, f := range c.Families {
 		p := fmt.Sprintf("$.families[%d]", i)
@@ -586,27 +602,33 @@ func (c *Card) Model() (*aniso.Model, error) {
 		index[f.Name] = i
 		m.Families = append(m.Families, fam)
 	}
+	return index, nil
+}
+
+// modelTerms reads the card's terms into m, their families by index; a
+// step of Model.
+func (c *Card) modelTerms(m *aniso.Model, index map[string]int) error {
 	if len(c.Terms) == 0 {
-		return nil, errAt("$.terms", "no terms; a model needs at least one energy term of the catalogue")
+		return errAt("$.terms", "no terms; a model needs at least one energy term of the catalogue")
 	}
 	for i, t := range c.Terms {
 		p := fmt.Sprintf("$.terms[%d]", i)
 		sh := terms.Lookup(t.ID)
 		if sh == nil {
-			return nil, errAt(p+".id", "%s is not a catalogue term; the catalogue holds %s", quote(t.ID), strings.Join(terms.IDs(), ", "))
+			return errAt(p+".id", "%s is not a catalogue term; the catalogue holds %s", quote(t.ID), strings.Join(terms.IDs(), ", "))
 		}
 		if t.Weight == nil {
-			return nil, errAt(p+".weight", "missing; give the term's weight in %s (≥ 0)", c.StressUnit)
+			return errAt(p+".weight", "missing; give the term's weight in %s (≥ 0)", c.StressUnit)
 		}
 		w := *t.Weight
 		if !(w >= 0) || math.IsInf(w, 0) {
-			return nil, errAt(p+".weight", "%g must be a finite number ≥ 0 (negative weights break convexity)", w)
+			return errAt(p+".weight", "%g must be a finite number ≥ 0 (negative weights break convexity)", w)
 		}
 		if t.WeightUnit != "" && t.WeightUnit != c.StressUnit {
-			return nil, errAt(p+".weight_unit", "%s differs from stress_unit %q; convert the weight", quote(t.WeightUnit), c.StressUnit)
+			return errAt(p+".weight_unit", "%s differs from stress_unit %q; convert the weight", quote(t.WeightUnit), c.StressUnit)
 		}
 		if err := upgradeParamNames(sh, &c.Terms[i], p); err != nil {
-			return nil, err
+			return err
 		}
 		t = c.Terms[i]
 		params := make([]float64, len(sh.Params))
@@ -624,19 +646,19 @@ func (c *Card) Model() (*aniso.Model, error) {
 			if !ok {
 				for _, name := range names {
 					if strings.EqualFold(name, q.Name) {
-						return nil, errAt(p+".params."+clip(name), "write the key as %q: keys are case-sensitive", q.Name)
+						return errAt(p+".params."+clip(name), "write the key as %q: keys are case-sensitive", q.Name)
 					}
 				}
-				return nil, errAt(p+".params."+q.Name, "missing; %s takes %s in [%g, %g] (default %g)", sh.ID, q.Name, q.Min, q.Max, q.Default)
+				return errAt(p+".params."+q.Name, "missing; %s takes %s in [%g, %g] (default %g)", sh.ID, q.Name, q.Min, q.Max, q.Default)
 			}
 			if v < q.Min || v > q.Max {
-				return nil, errAt(p+".params."+q.Name, "%g is outside [%g, %g]", v, q.Min, q.Max)
+				return errAt(p+".params."+q.Name, "%g is outside [%g, %g]", v, q.Min, q.Max)
 			}
 			params[j] = v
 		}
 		for _, name := range names {
 			if !hasParam(sh, name) {
-				return nil, errAt(p+".params."+clip(name), "%s has no parameter %s", sh.ID, quote(name))
+				return errAt(p+".params."+clip(name), "%s has no parameter %s", sh.ID, quote(name))
 			}
 		}
 		fam := -1
@@ -644,20 +666,17 @@ func (c *Card) Model() (*aniso.Model, error) {
 			f, ok := index[t.Family]
 			if !ok {
 				if t.Family == "" {
-					return nil, errAt(p+".family", "missing; %s is a fibre-family term, name one of the families", sh.ID)
+					return errAt(p+".family", "missing; %s is a fibre-family term, name one of the families", sh.ID)
 				}
-				return nil, errAt(p+".family", "%s is not a family of this card", quote(t.Family))
+				return errAt(p+".family", "%s is not a family of this card", quote(t.Family))
 			}
 			fam = f
 		} else if t.Family != "" {
-			return nil, errAt(p+".family", "%s is isotropic and takes no family", sh.ID)
+			return errAt(p+".family", "%s is isotropic and takes no family", sh.ID)
 		}
 		m.Terms = append(m.Terms, aniso.Term{Shape: sh, Family: fam, Weight: w, Params: params})
 	}
-	if err := m.Validate(); err != nil {
-		return nil, errAt("$", "%v", err)
-	}
-	return m, nil
+	return nil
 }
 
 // upgradeParamNames renames, in t itself, every parameter key an older card

@@ -380,13 +380,21 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		version = "weft " + p.VersionText()
 	}
 	points := in.pointCount()
-	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%d protocols, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
-		d.Specimen, len(d.Protocols), points, d.StressKind, keptWords(d), version)
+	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%s, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
+		d.Specimen, protocolCount(len(d.Protocols)), points, d.StressKind, keptWords(d), version)
 	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points. ")
 	if in.sel != nil {
 		b.WriteString("The strain energy was discovered from a catalogue of isotropic terms (in I1, I2 and the principal stretches) and fibre-family terms (in the fibre invariant I4, optionally dispersed), with none, one or two fibre families, by variable projection: " +
 			"term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles, dispersion and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ")
-		b.WriteString("Model forms were compared by leave-one-protocol-out cross-validation, and the smallest model whose held-out error lay within one standard error of the best was chosen (Hastie, Tibshirani & Friedman 2009). ")
+		if in.crossValidated() {
+			b.WriteString("Model forms were compared by leave-one-protocol-out cross-validation, and the smallest model whose held-out error lay within one standard error of the best was chosen (Hastie, Tibshirani & Friedman 2009). ")
+		} else if len(d.Protocols) == 1 {
+			// Discovery's rule for one protocol (selection.rule): no
+			// cross-validation, the lowest BIC inside the verdict's form.
+			b.WriteString("With one protocol there is none to leave out, so no model form was cross-validated: the fibre layouts were compared by the Bayesian information criterion (BIC; Schwarz 1978), and the model of lowest BIC in the supported layout was chosen. ")
+		} else {
+			b.WriteString("No model form has a held-out error, so none was compared by cross-validation; the selection rule: " + sentence(minusSigns(in.sel.Rule)) + ". ")
+		}
 	} else {
 		fmt.Fprintf(&b, "The model form %s with a %s fibre layout was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
 	}
@@ -409,11 +417,25 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 			}
 		}
 		var ps []string
-		for _, cc := range in.sel.Presets {
-			ps = append(ps, presetCitation(strings.TrimPrefix(cc.Name, "preset:"))+" "+heldoutText(cc))
+		chosenBIC := math.NaN()
+		for _, cc := range in.sel.Pareto {
+			if cc.Chosen {
+				chosenBIC = float64(cc.BIC)
+			}
 		}
-		if len(ps) > 0 {
+		for _, cc := range in.sel.Presets {
+			v := heldoutText(cc)
+			if !in.crossValidated() {
+				// Without held-out errors the presets are compared as the
+				// chosen model was: by BIC.
+				v = fixed(float64(cc.BIC)-chosenBIC, 1)
+			}
+			ps = append(ps, presetCitation(strings.TrimPrefix(cc.Name, "preset:"))+" "+v)
+		}
+		if len(ps) > 0 && in.crossValidated() {
 			b.WriteString("; classical models fitted to the same data gave held-out errors of " + strings.Join(ps, ", "))
+		} else if len(ps) > 0 && !bad(chosenBIC) {
+			b.WriteString("; classical models fitted to the same data gave ΔBIC against it of " + strings.Join(ps, ", "))
 		}
 	}
 	b.WriteString(". The parameters are specimen-specific and valid within the tested range only.")
@@ -423,6 +445,10 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	}
 	v.Methods = template.HTML(strings.Replace(template.HTMLEscapeString(b.String()), energyMark, string(energy), 1))
 	v.References = methodReferences(in.sel != nil)
+	if in.sel != nil && !in.crossValidated() {
+		v.References = append(v.References, schwarz1978)
+		sort.Strings(v.References)
+	}
 	in.traceability(v, o)
 }
 
@@ -595,6 +621,18 @@ func presetCitation(name string) string {
 		return "generalised Fung-type (the full quadratic form, e.g. Sun & Sacks 2005)"
 	}
 	return name
+}
+
+// schwarz1978 is cited where model forms were compared by BIC alone (one
+// protocol, nothing to leave out).
+const schwarz1978 = "Schwarz G (1978) Estimating the dimension of a model. Ann Stat 6:461–464."
+
+// protocolCount writes a number of protocols, "1 protocol" or "5 protocols".
+func protocolCount(n int) string {
+	if n == 1 {
+		return "1 protocol"
+	}
+	return fmt.Sprintf("%d protocols", n)
 }
 
 // methodReferences lists the works the methods paragraph cites.

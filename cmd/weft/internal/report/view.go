@@ -91,11 +91,15 @@ func (in *Input) glance(v *reportView) {
 	if in.sel != nil {
 		for _, cc := range in.sel.Pareto {
 			if cc.Chosen {
+				if !in.crossValidated() {
+					v.Summary = append(v.Summary, Fact{Name: "Held-out error", Value: "none: " + notCrossValidatedWhy(len(d.Protocols))})
+					continue
+				}
 				v.Summary = append(v.Summary, Fact{Name: "Held-out error", Value: heldoutText(cc) + " (leave one protocol out; 0.01 ≈ 1 % of a protocol-axis stress range)"})
 			}
 		}
 	}
-	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%d protocols, %d points fitted, %s stress in %s", len(in.table.protocols), in.pointCount(), d.StressKind, d.StressUnit)})
+	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%s, %d points fitted, %s stress in %s", protocolCount(len(in.table.protocols)), in.pointCount(), d.StressKind, d.StressUnit)})
 	if p := c.Provenance; p != nil {
 		v.Summary = append(v.Summary, Fact{Name: "Fitted by", Value: "weft " + p.VersionText()})
 	}
@@ -589,8 +593,11 @@ func (in *Input) selectionSection(v *reportView) {
 	// The forms that were cross-validated compete for the pick; the others
 	// are counted by why they were left out (leftOutOf), and listed in
 	// selection.csv and model.json.
+	// Without cross-validation (one protocol) the rule picks by BIC among
+	// every form the search kept, so the table lists them all.
+	cv := in.crossValidated()
 	for _, cc := range sel.Pareto {
-		if bad(float64(cc.HeldoutError)) && !cc.Chosen {
+		if cv && bad(float64(cc.HeldoutError)) && !cc.Chosen {
 			continue
 		}
 		mark := ""
@@ -599,7 +606,9 @@ func (in *Input) selectionSection(v *reportView) {
 		}
 		v.Pareto.Rows = append(v.Pareto.Rows, htmlRow{Cells: append(candidateCells(cc), mark), Mark: cc.Chosen})
 	}
-	if lo := leftOutOf(sel); lo.total() > 0 {
+	if !cv {
+		v.ParetoNote = fmt.Sprintf("No form was cross-validated (%s): the rule above picked by BIC among the %d forms the search kept, all listed here.", notCrossValidatedWhy(len(in.data.Protocols)), len(sel.Pareto))
+	} else if lo := leftOutOf(sel); lo.total() > 0 {
 		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept. The other %d were not cross-validated: %s. selection.csv and model.json list them with their loss, AICc and BIC.",
 			len(sel.Pareto)-lo.total(), len(sel.Pareto), lo.total(), strings.Join(lo.reasons(true), "; "))
 	}

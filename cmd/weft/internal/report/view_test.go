@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -292,5 +293,66 @@ func TestDegenerateAngleHasNoInterval(t *testing.T) {
 	in.parameterSection(v)
 	if r := v.Params.Rows[0].Cells; r[2] != "—" || r[3] != "" {
 		t.Errorf("degenerate angle row %q, want no interval", r)
+	}
+}
+
+// With one protocol there is nothing to leave out: leave-one-protocol-out
+// cross-validation needs a second protocol to fit the others on (K-fold
+// cross-validation with K ≥ 2; Hastie, Tibshirani & Friedman 2009, §7.10),
+// and discovery's rule then picks the lowest BIC inside the verdict's form
+// (Schwarz 1978; the card's selection.rule says so). The report of such a
+// fit (the 1:1 protocol of demo membrane-M1 alone, 12 forms kept, none
+// cross-validated) said the forms "were compared by leave-one-protocol-out
+// cross-validation", quoted the presets' held-out errors as "—", called the
+// one row "The 1 cross-validated forms of the 12", gave 6 of the others
+// "a reason the card does not record", drew an empty held-out-error figure
+// and wrote "1 protocols".
+func TestOneProtocolIsNotCrossValidated(t *testing.T) {
+	nan := card.Num(math.NaN())
+	cand := func(name, layout string, bic float64, chosen bool) card.CandidateCard {
+		return card.CandidateCard{Name: name, Layout: layout, BIC: card.Num(bic), HeldoutError: nan, HeldoutStdErr: nan, Parameters: 4, Chosen: chosen}
+	}
+	sel := &card.SelectionSection{Chosen: "single-t2-p4",
+		Rule: "one protocol only, so no cross-validation: inside form 1 the pick is the lowest BIC (single-t2-p4, BIC -1008.5)",
+		Pareto: []card.CandidateCard{
+			cand("none-t1-p2", "none", -554.9, false),
+			cand("single-t1-p3", "single", -962.9, false),
+			cand("single-t2-p4", "single", -1008.5, true),
+		},
+		Presets: []card.CandidateCard{cand("preset:neo-hookean", "none", -537.0, false)}}
+	in := discoveredInput(false, []float64{30.2}, sel, &card.VerdictSection{Families: "undecided", Form: "1"})
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Points: 40}}
+
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.methodsSection(v, Options{})
+	m := string(v.Methods)
+	for _, want := range []string{"(1 protocol, ", "no model form was cross-validated", "(BIC; Schwarz 1978)", "gave ΔBIC against it of neo-Hookean 471.5"} {
+		if !strings.Contains(m, want) {
+			t.Errorf("methods lack %q:\n%s", want, m)
+		}
+	}
+	for _, not := range []string{"compared by leave-one-protocol-out", "held-out errors of", "1 protocols"} {
+		if strings.Contains(m, not) {
+			t.Errorf("methods say %q:\n%s", not, m)
+		}
+	}
+	if !slices.Contains(v.References, schwarz1978) {
+		t.Errorf("references lack Schwarz 1978: %q", v.References)
+	}
+
+	in.selectionSection(v)
+	if len(v.Pareto.Rows) != 3 || !strings.HasPrefix(v.ParetoNote, "No form was cross-validated (one protocol, so there is none to leave out)") ||
+		strings.Contains(v.ParetoNote, "cross-validated forms of") {
+		t.Errorf("%d rows, caption %q; want every form kept and no cross-validation claimed", len(v.Pareto.Rows), v.ParetoNote)
+	}
+	if f := in.paretoFigure(); f != nil {
+		t.Errorf("a held-out-error figure without held-out errors: %q", f.caption)
+	}
+	// A cross-validated selection keeps its paragraph (demo membrane-M1).
+	sel.Pareto[2].HeldoutError, sel.Pareto[2].HeldoutStdErr = 0.0106, 0.0003
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if m := string(v.Methods); !strings.Contains(m, "compared by leave-one-protocol-out cross-validation") || strings.Contains(m, "Schwarz") {
+		t.Errorf("cross-validated selection: %s", m)
 	}
 }

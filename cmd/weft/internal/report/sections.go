@@ -396,7 +396,11 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 			b.WriteString("No model form has a held-out error, so none was compared by cross-validation; the selection rule: " + sentence(minusSigns(in.sel.Rule)) + ". ")
 		}
 	} else {
-		fmt.Fprintf(&b, "The model form %s with a %s fibre layout was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
+		form := ""
+		if in.cohortDiscovered() {
+			form = ", the one form weft cohort discovered for all specimens of its cohort from their pooled evidence (the cohort's report gives it),"
+		}
+		fmt.Fprintf(&b, "The model form %s with a %s fibre layout"+form+" was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
 	}
 	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988), fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ")
 	b.WriteString(in.verdictWords())

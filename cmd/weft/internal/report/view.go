@@ -59,10 +59,31 @@ func (in *Input) angle(a float64) string {
 	return fmtDeg(a)
 }
 
+// cohortDiscovered says whether the card is a cohort specimen's whose form
+// weft cohort discovered from the pooled evidence of all its specimens
+// (the card's provenance: written by weft cohort, with neither --preset nor
+// --terms). Such a card has no selection of its own, but its form was not
+// "fitted as asked" either.
+func (in *Input) cohortDiscovered() bool {
+	p := in.card.Provenance
+	if in.sel != nil || p == nil || p.Command != "weft cohort" {
+		return false
+	}
+	for _, o := range p.Options {
+		if strings.HasPrefix(o, "--preset") || strings.HasPrefix(o, "--terms") {
+			return false
+		}
+	}
+	return true
+}
+
 // glance writes the facts of "At a glance": how the model was found, its energy, families, verdict, worst fit and data.
 func (in *Input) glance(v *reportView) {
 	c, d, fs := in.card, in.data, in.fit
 	how := "chosen form: " + strings.Join(fs.Terms, " + ") + ", " + fs.Layout + " fibre layout (fitted as asked, not discovered)"
+	if in.cohortDiscovered() {
+		how = "the cohort's shared form: " + strings.Join(fs.Terms, " + ") + ", " + fs.Layout + " fibre layout (discovered by weft cohort for all its specimens; the cohort's report holds the evidence)"
+	}
 	if in.sel != nil {
 		how = "discovered: " + in.sel.Chosen + " (" + formCodeText(in.sel.Chosen) + ")"
 	}

@@ -356,3 +356,36 @@ func TestOneProtocolIsNotCrossValidated(t *testing.T) {
 		t.Errorf("cross-validated selection: %s", m)
 	}
 }
+
+// A cohort specimen's card has no selection of its own, but without
+// --preset or --terms its form was discovered by weft cohort from the
+// pooled evidence of all specimens (README, *Cohorts*: "Without --preset
+// or --terms the form is discovered for the cohort"; the card's
+// provenance says which: command "weft cohort", options without
+// --preset/--terms). Its report said "fitted as asked, not discovered"
+// (three synthetic specimens made from demo membrane-M1, discovered form
+// i1-lin + fib-expsq@f1).
+func TestCohortFormIsNotFittedAsAsked(t *testing.T) {
+	for _, c := range []struct {
+		name    string
+		options []string
+		want    string
+	}{
+		{"discovered by the cohort", []string{"--cycle=last", "--max-terms=5", "--dispersion=in-plane"}, "discovered by weft cohort"},
+		{"cohort with a preset", []string{"--cycle=last", "--preset=hgo"}, "fitted as asked, not discovered"},
+		{"cohort with terms", []string{"--terms=i1-lin,fib-expsq", "--families=1"}, "fitted as asked, not discovered"},
+	} {
+		in := discoveredInput(false, []float64{29.94}, nil, nil)
+		in.fit.Terms, in.fit.Layout = []string{"i1-lin", "fib-expsq@f1"}, "single"
+		in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft cohort", Options: c.options}
+		v := &reportView{figs: map[string]*htmlFigure{}}
+		in.glance(v)
+		if !strings.Contains(v.HowFound, c.want) {
+			t.Errorf("%s: at a glance %q, want %q", c.name, v.HowFound, c.want)
+		}
+		in.methodsSection(v, Options{})
+		if got := strings.Contains(string(v.Methods), "weft cohort discovered"); got != (c.want == "discovered by weft cohort") {
+			t.Errorf("%s: methods %s", c.name, v.Methods)
+		}
+	}
+}

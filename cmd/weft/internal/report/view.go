@@ -484,16 +484,28 @@ func (in *Input) verdictSection(v *reportView) {
 	}
 	var strips []string
 	for _, st := range in.untested {
+		// Where a strip leaves the fitted data every model extrapolates
+		// and the spread settles nothing (card: leaves_range_at); the
+		// paragraph says from which stretch on, as the card's summary does.
+		beyond := ""
+		if at := float64(st.LeavesRangeAt); !bad(at) {
+			beyond = fmt.Sprintf(", data to %.3g", at)
+		}
 		if st.Models == 0 {
-			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch)))
+			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), beyond))
 			continue
 		}
-		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent))))
+		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent)), beyond))
 	}
 	if len(strips) > 0 {
 		// Part of the verdict's paragraph, kept short: a report at its
 		// page budget (demo M3, four strips) keeps it.
-		v.Reason += " Strips not tested (one axis held at stretch 1; turned: the specimen cut or mounted so), the spread of the models the held-out protocols could not tell apart, normal/shear stress in % of the chosen model's largest normal stress: " + strings.Join(strips, "; ") + "."
+		// "data to" needs its key only where a strip leaves the data.
+		key := ""
+		if strings.Contains(strings.Join(strips, ""), ", data to ") {
+			key = " (data to: past it every model extrapolates)"
+		}
+		v.Reason += " Strips not tested (one axis held at stretch 1; turned: cut or mounted so), the spread of the models the held-out protocols could not tell apart, normal/shear stress in % of the chosen model's largest normal stress" + key + ": " + strings.Join(strips, "; ") + "."
 	}
 	for _, r := range vd.RuledOut {
 		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))

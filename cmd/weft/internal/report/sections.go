@@ -381,7 +381,7 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	}
 	points := in.pointCount()
 	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%s, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
-		d.Specimen, protocolCount(len(d.Protocols)), points, d.StressKind, keptWords(d), version)
+		d.Specimen, protocolCount(len(d.Protocols)), points, kindName(d.StressKind), keptWords(d), version)
 	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points. ")
 	if in.sel != nil {
 		b.WriteString("The strain energy was discovered from a catalogue of isotropic terms (in I1, I2 and the principal stretches) and fibre-family terms (in the fibre invariant I4, optionally dispersed), with none, one or two fibre families, by variable projection: " +

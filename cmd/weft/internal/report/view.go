@@ -120,7 +120,7 @@ func (in *Input) glance(v *reportView) {
 			}
 		}
 	}
-	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%s, %d points fitted, %s stress in %s", protocolCount(len(in.table.protocols)), in.pointCount(), d.StressKind, d.StressUnit)})
+	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%s, %d points fitted, %s stress in %s", protocolCount(len(in.table.protocols)), in.pointCount(), kindName(d.StressKind), d.StressUnit)})
 	if p := c.Provenance; p != nil {
 		v.Summary = append(v.Summary, Fact{Name: "Fitted by", Value: "weft " + p.VersionText()})
 	}
@@ -204,7 +204,7 @@ func (in *Input) dataSection(v *reportView) {
 		v.Data = append(v.Data, Fact{Name: "Axis 1", Value: d.Axis1})
 	}
 	in.setupFacts(v)
-	v.Data = append(v.Data, Fact{Name: "Stress", Value: d.StressKind + " stress in " + d.StressUnit}, Fact{Name: "Reference state", Value: d.Reference},
+	v.Data = append(v.Data, Fact{Name: "Stress", Value: kindName(d.StressKind) + " stress in " + d.StressUnit}, Fact{Name: "Reference state", Value: d.Reference},
 		Fact{Name: "Shear information", Value: shear})
 	v.Protocols = htmlTable{Head: []string{"protocol", "points fitted", "kept", "cycles", "protocol weight"}, Num: []bool{false, true, false, true, true}}
 	if in.raw != nil {

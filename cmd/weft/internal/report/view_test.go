@@ -422,3 +422,24 @@ func TestUntestedStripsSayWhereTheDataEnd(t *testing.T) {
 		t.Errorf("a strip inside the data: %s", v.Reason)
 	}
 }
+
+// "Cauchy stress" is named after A.-L. Cauchy and written with a capital
+// (Holzapfel 2000, Nonlinear Solid Mechanics, §3.1, from memory; common
+// practice). The quotable methods paragraph of demo patch-P2 (Cauchy data)
+// read "200 points of cauchy stress", and "At a glance" and "Specimen and
+// data" "cauchy stress in kPa".
+func TestCauchyIsCapitalised(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	in.data.StressKind, in.fit.StressKind = "cauchy", "cauchy"
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.methodsSection(v, Options{})
+	in.glance(v)
+	in.dataSection(v)
+	text := string(v.Methods)
+	for _, f := range append(v.Summary, v.Data...) {
+		text += "\n" + f.Value
+	}
+	if strings.Contains(text, "cauchy") || !strings.Contains(text, "points of Cauchy stress") || !strings.Contains(text, "Cauchy stress in kPa") {
+		t.Errorf("stress kind not written as a name:\n%s", text)
+	}
+}

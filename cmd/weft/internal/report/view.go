@@ -399,6 +399,14 @@ func (in *Input) parameterSection(v *reportView) {
 func (in *Input) qualitySection(v *reportView) {
 	fs := in.fit
 	v.Flags, v.Notes = fs.Flags, fs.Notes
+	// A card with untested strips but no verdict (a cohort specimen's,
+	// whose band is the cohort's near-equivalent forms) has no verdict
+	// paragraph to carry them; they are what the data do not determine.
+	if in.verdict == nil {
+		if s := strings.TrimSpace(in.stripsText("the forms the held-out protocols pooled over the cohort could not tell from this one, each fitted to this specimen")); s != "" {
+			v.Notes = append(append([]string{}, fs.Notes...), s)
+		}
+	}
 	// One row per protocol, a column group per measure and component.
 	comps := in.table.comps
 	var r2Comps []string // components with an R² somewhere
@@ -466,6 +474,44 @@ func (in *Input) fitSection(v *reportView) {
 	}
 }
 
+// stripsText writes the card's untested strips in one sentence (with a
+// leading space), "" without any: per strip the spread of the models the
+// held-out protocols could not tell apart, in normal and shear stress, and
+// where the strip leaves the fitted data. Part of the verdict's paragraph,
+// kept short: a report at its page budget (demo M3, four strips) keeps it;
+// a card without a verdict (a cohort specimen's) has it among what the
+// data cannot determine.
+//
+// band names the models whose spread is given: those the held-out
+// protocols could not tell apart (a fit's), or the cohort's near-equivalent
+// forms fitted to this specimen (a cohort specimen's card).
+func (in *Input) stripsText(band string) string {
+	var strips []string
+	for _, st := range in.untested {
+		// Where a strip leaves the fitted data every model extrapolates
+		// and the spread settles nothing (card: leaves_range_at); the
+		// paragraph says from which stretch on, as the card's summary does.
+		beyond := ""
+		if at := float64(st.LeavesRangeAt); !bad(at) {
+			beyond = fmt.Sprintf(", data to %.3g", at)
+		}
+		if st.Models == 0 {
+			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), beyond))
+			continue
+		}
+		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent)), beyond))
+	}
+	if len(strips) == 0 {
+		return ""
+	}
+	// "data to" needs its key only where a strip leaves the data.
+	key := ""
+	if strings.Contains(strings.Join(strips, ""), ", data to ") {
+		key = " (data to: past it every model extrapolates)"
+	}
+	return " Strips not tested (one axis held at stretch 1; turned: cut or mounted so), the spread of " + band + ", normal/shear stress in % of the chosen model's largest normal stress" + key + ": " + strings.Join(strips, "; ") + "."
+}
+
 // verdictSection writes the family verdict and its table of fibre
 // layouts: each layout's best model with its angles, ΔBIC and held-out
 // error, the verdict's row marked.
@@ -482,31 +528,7 @@ func (in *Input) verdictSection(v *reportView) {
 	if c := in.calibration; c != nil {
 		v.Calibration = minusSigns(c.Summary)
 	}
-	var strips []string
-	for _, st := range in.untested {
-		// Where a strip leaves the fitted data every model extrapolates
-		// and the spread settles nothing (card: leaves_range_at); the
-		// paragraph says from which stretch on, as the card's summary does.
-		beyond := ""
-		if at := float64(st.LeavesRangeAt); !bad(at) {
-			beyond = fmt.Sprintf(", data to %.3g", at)
-		}
-		if st.Models == 0 {
-			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), beyond))
-			continue
-		}
-		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent)), beyond))
-	}
-	if len(strips) > 0 {
-		// Part of the verdict's paragraph, kept short: a report at its
-		// page budget (demo M3, four strips) keeps it.
-		// "data to" needs its key only where a strip leaves the data.
-		key := ""
-		if strings.Contains(strings.Join(strips, ""), ", data to ") {
-			key = " (data to: past it every model extrapolates)"
-		}
-		v.Reason += " Strips not tested (one axis held at stretch 1; turned: cut or mounted so), the spread of the models the held-out protocols could not tell apart, normal/shear stress in % of the chosen model's largest normal stress" + key + ": " + strings.Join(strips, "; ") + "."
-	}
+	v.Reason += in.stripsText("the models the held-out protocols could not tell apart")
 	for _, r := range vd.RuledOut {
 		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))
 	}

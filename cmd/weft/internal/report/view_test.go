@@ -443,3 +443,36 @@ func TestCauchyIsCapitalised(t *testing.T) {
 		t.Errorf("stress kind not written as a name:\n%s", text)
 	}
 }
+
+// A cohort specimen's card carries untested strips (README, model card:
+// untested_strips, "a discovered cohort's specimen card, whose band is
+// the cohort's near-equivalent forms fitted to that specimen") but no
+// verdict, and the strips were written only into the verdict's paragraph:
+// the report of a specimen of a discovered cohort (three synthetic
+// specimens made from demo membrane-M1) left out that its strip turned 45°
+// to 1.15 spreads by 95.9 % of the largest normal stress.
+func TestCohortSpecimenShowsItsUntestedStrips(t *testing.T) {
+	in := discoveredInput(false, []float64{29.94}, nil, nil)
+	in.table = &fitTable{}
+	nan := card.Num(math.NaN())
+	in.untested = []card.UntestedStrip{
+		{Label: "1:0", Stretch: 1.15, Models: 9, Percent: 0.7, ShearPercent: 105.4, LeavesRangeAt: nan},
+		{Label: "1:0 turned 45°", Stretch: 1.15, Models: 9, Percent: 95.9, ShearPercent: 24.8, LeavesRangeAt: nan},
+	}
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.qualitySection(v)
+	notes := strings.Join(v.Notes, "\n")
+	for _, want := range []string{"pooled over the cohort", "1:0 to 1.15: 0.7/105.4; turned 45° to 1.15: 95.9/24.8."} {
+		if !strings.Contains(notes, want) {
+			t.Errorf("notes lack %q:\n%s", want, notes)
+		}
+	}
+	// With a verdict the strips stay in its paragraph, not twice.
+	in.verdict = &card.VerdictSection{Families: "1-or-mirror-pair", Form: "1"}
+	v = &reportView{figs: map[string]*htmlFigure{}}
+	in.qualitySection(v)
+	in.verdictSection(v)
+	if strings.Contains(strings.Join(v.Notes, ""), "Strips not tested") || !strings.Contains(v.Reason, "turned 45° to 1.15: 95.9/24.8") {
+		t.Errorf("with a verdict: notes %q, reason %q", v.Notes, v.Reason)
+	}
+}

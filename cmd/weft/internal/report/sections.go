@@ -382,7 +382,7 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	points := in.pointCount()
 	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%s, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
 		d.Specimen, protocolCount(len(d.Protocols)), points, kindName(d.StressKind), keptWords(d), version)
-	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points. ")
+	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points" + protocolWeightWords(d.Protocols) + ". ")
 	if in.sel != nil {
 		b.WriteString("The strain energy was discovered from a catalogue of isotropic terms (in I1, I2 and the principal stretches) and fibre-family terms (in the fibre invariant I4, optionally dispersed), with none, one or two fibre families, by variable projection: " +
 			"term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles, dispersion and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ")
@@ -625,6 +625,23 @@ func presetCitation(name string) string {
 		return "generalised Fung-type (the full quadratic form, e.g. Sun & Sacks 2005)"
 	}
 	return name
+}
+
+// protocolWeightWords names the relative protocol weights a fit was given
+// (--protocol-weight), "" when every protocol counts 1: they change the
+// fit, so a methods paragraph that left them out would misstate it. A
+// weight of 0 is a card written before the weights were recorded.
+func protocolWeightWords(ps []card.DataProtocolCard) string {
+	var set []string
+	for _, p := range ps {
+		if p.Weight != 0 && p.Weight != 1 {
+			set = append(set, fsig(p.Weight, 3)+" for "+p.Label)
+		}
+	}
+	if len(set) == 0 {
+		return ""
+	}
+	return ", times the relative weight given to each protocol (" + strings.Join(set, ", ") + "; 1 for the others)"
 }
 
 // schwarz1978 is cited where model forms were compared by BIC alone (one

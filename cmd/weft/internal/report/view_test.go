@@ -476,3 +476,26 @@ func TestCohortSpecimenShowsItsUntestedStrips(t *testing.T) {
 		t.Errorf("with a verdict: notes %q, reason %q", v.Notes, v.Reason)
 	}
 }
+
+// A relative protocol weight (--protocol-weight) multiplies the residual
+// weight w/(range·√n) of every row of that protocol (README, *Weighting*;
+// weighted least squares, Bates & Watts 1988 §1.3, from memory), so it
+// changes the fit; the methods paragraph, written to be quoted, described
+// the weighting without it (demo membrane-M1 fitted with
+// --protocol-weight 1:1=3).
+func TestMethodsNameProtocolWeights(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Weight: 3}, {Label: "1:0.75", Weight: 1}, {Label: "0.75:1", Weight: 1}}
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	if want := "square root of its number of points, times the relative weight given to each protocol (3.00 for 1:1; 1 for the others). "; !strings.Contains(string(v.Methods), want) {
+		t.Errorf("methods lack %q:\n%s", want, v.Methods)
+	}
+	// Default weights (and cards without recorded weights) add nothing.
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Weight: 1}, {Label: "1:0.75"}}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if strings.Contains(string(v.Methods), "relative weight") {
+		t.Errorf("default weights named:\n%s", v.Methods)
+	}
+}

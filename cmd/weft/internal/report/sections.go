@@ -460,13 +460,37 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 // text is escaped.
 const energyMark = "⟦energy⟧"
 
-// keptWords says which part of the record was fitted, from the first
-// protocol's description.
+// keptWords says which part of the record was fitted, from the
+// protocols' descriptions.
 func keptWords(d card.DataSection) string {
 	if len(d.Protocols) == 0 {
 		return "as recorded"
 	}
-	k := d.Protocols[0].Kept
+	// Protocols may keep different cycles (--cycle=last on a file whose
+	// protocols ran 3 and 2 cycles): each distinct description is named
+	// with its protocols, so that none is said to be what it is not.
+	var kinds []string
+	of := map[string][]string{}
+	for _, p := range d.Protocols {
+		k := keptPrefix(p.Kept)
+		if _, ok := of[k]; !ok {
+			kinds = append(kinds, k)
+		}
+		of[k] = append(of[k], p.Label)
+	}
+	if len(kinds) == 1 {
+		return kinds[0]
+	}
+	var parts []string
+	for _, k := range kinds {
+		parts = append(parts, k+" for "+strings.Join(of[k], ", "))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// keptPrefix is a protocol's kept description without its row count
+// ("cycle 3 of 3, loading branch").
+func keptPrefix(k string) string {
 	if i := strings.Index(k, ", "); i >= 0 {
 		if j := strings.Index(k[i+2:], ", "); j >= 0 {
 			return k[:i+2+j]

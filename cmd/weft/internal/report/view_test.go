@@ -499,3 +499,24 @@ func TestMethodsNameProtocolWeights(t *testing.T) {
 		t.Errorf("default weights named:\n%s", v.Methods)
 	}
 }
+
+// Protocols can keep different cycles: --cycle=last on a file whose 1:1
+// ran 3 cycles and the other protocols 2 (demo membrane-M1 with the third
+// cycle of four protocols deleted) keeps cycle 3 of 3 of one and cycle 2
+// of 2 of the others, as the protocols table says (the card's
+// data.protocols[].kept); the methods paragraph named the first
+// protocol's, "cycle 3 of 3, loading branch", for all of them.
+func TestMethodsNameEachKeptCycle(t *testing.T) {
+	d := card.DataSection{Protocols: []card.DataProtocolCard{
+		{Label: "1:1", Kept: "cycle 3 of 3, loading branch, 40 of 237 rows"},
+		{Label: "1:0.75", Kept: "cycle 2 of 2, loading branch, 40 of 158 rows"},
+		{Label: "0.75:1", Kept: "cycle 2 of 2, loading branch, 40 of 158 rows"},
+	}}
+	if got, want := keptWords(d), "cycle 3 of 3, loading branch for 1:1; cycle 2 of 2, loading branch for 1:0.75, 0.75:1"; got != want {
+		t.Errorf("keptWords = %q, want %q", got, want)
+	}
+	d.Protocols = d.Protocols[1:]
+	if got, want := keptWords(d), "cycle 2 of 2, loading branch"; got != want {
+		t.Errorf("one kind: keptWords = %q, want %q", got, want)
+	}
+}

@@ -382,6 +382,8 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	points := in.pointCount()
 	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%s, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
 		d.Specimen, protocolCount(len(d.Protocols)), points, kindName(d.StressKind), keptWords(d), version)
+	pre, smoothed := preprocessingWords(c, d)
+	b.WriteString(pre)
 	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points" + protocolWeightWords(d.Protocols) + ". ")
 	if in.sel != nil {
 		b.WriteString("The strain energy was discovered from a catalogue of isotropic terms (in I1, I2 and the principal stretches) and fibre-family terms (in the fibre invariant I4, optionally dispersed), with none, one or two fibre families, by variable projection: " +
@@ -451,8 +453,11 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	v.References = methodReferences(in.sel != nil)
 	if in.sel != nil && !in.crossValidated() {
 		v.References = append(v.References, schwarz1978)
-		sort.Strings(v.References)
 	}
+	if smoothed {
+		v.References = append(v.References, savitzkyGolay1964)
+	}
+	sort.Strings(v.References)
 	in.traceability(v, o)
 }
 
@@ -666,6 +671,46 @@ func protocolWeightWords(ps []card.DataProtocolCard) string {
 		return ""
 	}
 	return ", times the relative weight given to each protocol (" + strings.Join(set, ", ") + "; 1 for the others)"
+}
+
+// savitzkyGolay1964 is cited where F was smoothed before the fit.
+const savitzkyGolay1964 = "Savitzky A, Golay MJE (1964) Smoothing and differentiation of data by simplified least squares procedures. Anal Chem 36:1627–1639."
+
+// preprocessingWords says how the kept data were changed before the fit
+// (re-referencing, smoothing of F, resampling), from the card's
+// data.reference, data.protocols[].kept and provenance options; "" when
+// they were fitted as measured. Each changes what was fitted, so a
+// methods paragraph that left it out would misstate the data. smoothed
+// says whether F was smoothed (Savitzky & Golay 1964 is then cited).
+func preprocessingWords(c *card.Card, d card.DataSection) (string, bool) {
+	var parts []string
+	if strings.HasPrefix(d.Reference, "re-referenced") {
+		parts = append(parts, "the data were "+d.Reference)
+	}
+	smoothed := false
+	for _, p := range d.Protocols {
+		if i := strings.Index(p.Kept, "F smoothed over "); i >= 0 {
+			w := strings.TrimSuffix(p.Kept[i:], ")")
+			w = strings.Replace(w, "(quadratic Savitzky–Golay", "with a quadratic Savitzky–Golay filter (Savitzky & Golay 1964", 1)
+			if strings.HasSuffix(w, "1964") {
+				w += ")"
+			}
+			parts = append(parts, "the deformation gradient was "+strings.TrimPrefix(w, "F ")+", within each kept branch")
+			smoothed = true
+			break
+		}
+	}
+	if p := c.Provenance; p != nil {
+		for _, o := range p.Options {
+			if n, ok := strings.CutPrefix(o, "--resample="); ok && n != "0" {
+				parts = append(parts, "each kept branch was resampled to "+n+" points evenly spaced in the driving stretch (linear interpolation)")
+			}
+		}
+	}
+	if len(parts) == 0 {
+		return "", false
+	}
+	return capitalise("before the fit, "+strings.Join(parts, "; ")) + ". ", smoothed
 }
 
 // schwarz1978 is cited where model forms were compared by BIC alone (one

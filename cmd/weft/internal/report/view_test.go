@@ -520,3 +520,39 @@ func TestMethodsNameEachKeptCycle(t *testing.T) {
 		t.Errorf("one kind: keptWords = %q, want %q", got, want)
 	}
 }
+
+// What was done to the data before the fit changes what was fitted and
+// belongs in a methods paragraph: re-referencing with the tare removed
+// (--rereference), smoothing of F (--smooth-strain, a quadratic
+// Savitzky–Golay filter, Savitzky & Golay 1964) and resampling
+// (--resample). The paragraph gave none of them (demo membrane-M1 with
+// --resample 25 --smooth-strain 5, and with --rereference); the card holds
+// each (data.reference, data.protocols[].kept, provenance.options).
+func TestMethodsNamePreprocessing(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Points: 25, Kept: "cycle 3 of 3, loading branch, 40 of 237 rows, F smoothed over 5 points (quadratic Savitzky–Golay)"}}
+	in.data.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹, nominal stress re-based P ← P·F_refᵀ, tare subtracted"
+	in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft fit", Options: []string{"--rereference=true", "--resample=25", "--smooth-strain=5"}}
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	m := string(v.Methods)
+	for _, want := range []string{
+		"Before the fit, the data were re-referenced to the first kept point of each protocol",
+		"tare subtracted; the deformation gradient was smoothed over 5 points with a quadratic Savitzky–Golay filter (Savitzky &amp; Golay 1964), within each kept branch; each kept branch was resampled to 25 points evenly spaced in the driving stretch (linear interpolation). ",
+	} {
+		if !strings.Contains(m, want) {
+			t.Errorf("methods lack %q:\n%s", want, m)
+		}
+	}
+	if !slices.Contains(v.References, savitzkyGolay1964) {
+		t.Errorf("references lack Savitzky & Golay 1964")
+	}
+	// Data fitted as measured: nothing is added.
+	in.data.Reference, in.data.Protocols[0].Kept = "as measured", "cycle 3 of 3, loading branch, 40 of 237 rows"
+	in.card.Provenance.Options = []string{"--rereference=false", "--resample=0", "--smooth-strain=0"}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if strings.Contains(string(v.Methods), "Before the fit") || slices.Contains(v.References, savitzkyGolay1964) {
+		t.Errorf("data as measured: %s", v.Methods)
+	}
+}

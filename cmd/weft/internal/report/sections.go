@@ -10,6 +10,7 @@ import (
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+	"github.com/weft-tools/weft/terms"
 )
 
 // The report's sections on admissibility, the load split, and the methods
@@ -399,6 +400,11 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		}
 	} else {
 		form := ""
+		if pr := in.presetFitted(); pr != nil {
+			// A published model keeps its name and citation (the
+			// catalogue's preset title and source).
+			form = ", the " + pr.Title + " (" + pr.Source + ") as weft's " + pr.Name + " preset,"
+		}
 		if in.cohortDiscovered() {
 			form = ", the one form weft cohort discovered for all specimens of its cohort from their pooled evidence (the cohort's report gives it),"
 		}
@@ -456,6 +462,11 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	}
 	if smoothed {
 		v.References = append(v.References, savitzkyGolay1964)
+	}
+	if pr := in.presetFitted(); pr != nil && in.sel == nil {
+		if ref, ok := presetReferences[pr.Name]; ok {
+			v.References = append(v.References, ref)
+		}
 	}
 	sort.Strings(v.References)
 	in.traceability(v, o)
@@ -671,6 +682,30 @@ func protocolWeightWords(ps []card.DataProtocolCard) string {
 		return ""
 	}
 	return ", times the relative weight given to each protocol (" + strings.Join(set, ", ") + "; 1 for the others)"
+}
+
+// presetFitted is the catalogue's preset a chosen form was fitted as
+// (the card's provenance option --preset=NAME), nil for any other fit.
+func (in *Input) presetFitted() *terms.Preset {
+	p := in.card.Provenance
+	if p == nil {
+		return nil
+	}
+	for _, o := range p.Options {
+		if n, ok := strings.CutPrefix(o, "--preset="); ok {
+			return terms.LookupPreset(n)
+		}
+	}
+	return nil
+}
+
+// presetReferences are the full references of the presets the methods
+// paragraph of a discovery already lists; the others are cited by author
+// and year in the text.
+var presetReferences = map[string]string{
+	"hgo":  "Holzapfel GA, Gasser TC, Ogden RW (2000) A new constitutive framework for arterial wall mechanics and a comparative study of material models. J Elasticity 61:1–48.",
+	"goh":  "Gasser TC, Ogden RW, Holzapfel GA (2006) Hyperelastic modelling of arterial layers with distributed collagen fibre orientations. J R Soc Interface 3:15–35.",
+	"fung": "Tong P, Fung YC (1976) The stress-strain relationship for the skin. J Biomech 9:649–657.",
 }
 
 // savitzkyGolay1964 is cited where F was smoothed before the fit.

@@ -556,3 +556,30 @@ func TestMethodsNamePreprocessing(t *testing.T) {
 		t.Errorf("data as measured: %s", v.Methods)
 	}
 }
+
+// A form fitted as a published model (--preset) keeps that model's name
+// and citation (Holzapfel, Gasser & Ogden 2000 for hgo; Gasser, Ogden &
+// Holzapfel 2006 for goh; the catalogue's preset source), in the methods
+// paragraph too: it said only "The model form i1-lin + fib-expsq@pair with
+// a mirror fibre layout was fitted" and listed no reference for the model
+// (demo membrane-M3-sutured with --preset goh).
+func TestMethodsNameThePreset(t *testing.T) {
+	in := discoveredInput(true, []float64{0, 0}, nil, nil)
+	in.fit.Terms, in.fit.Layout = []string{"i1-lin", "fib-expsq@pair"}, "mirror"
+	in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft fit", Options: []string{"--cycle=last", "--preset=goh", "--pair-axis=axis-1"}}
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	if want := "The model form i1-lin + fib-expsq@pair with a mirror fibre layout, the two-family fibre model with dispersion of Gasser, Ogden &amp; Holzapfel (Gasser, Ogden &amp; Holzapfel 2006"; !strings.Contains(string(v.Methods), want) {
+		t.Errorf("methods lack %q:\n%s", want, v.Methods)
+	}
+	if !slices.Contains(v.References, presetReferences["goh"]) {
+		t.Errorf("references lack GOH: %q", v.References)
+	}
+	// --terms names no published model.
+	in.card.Provenance.Options = []string{"--terms=i1-lin,fib-expsq", "--families=2", "--layout=mirror"}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if strings.Contains(string(v.Methods), "preset") {
+		t.Errorf("a --terms fit named as a preset:\n%s", v.Methods)
+	}
+}

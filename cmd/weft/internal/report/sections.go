@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
@@ -410,7 +411,18 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		}
 		fmt.Fprintf(&b, "The model form %s with a %s fibre layout"+form+" was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
 	}
-	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988), fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ")
+	// A folder written before curves.csv has no confidence band to speak
+	// of: its figures draw none.
+	band := ", and the confidence band of the model curves from the same covariance by the delta method"
+	if in.curves == nil {
+		band = ""
+	}
+	// A model without fibre angles has no profile intervals.
+	profile := ", fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988)"
+	if len(fs.Profiles) == 0 {
+		profile = ""
+	}
+	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988)" + profile + band + ". ")
 	b.WriteString(in.verdictWords())
 	b.WriteString("The resulting model is " + energyMark)
 	if fams := in.familyWords(); fams != "" {
@@ -462,6 +474,9 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	}
 	if smoothed {
 		v.References = append(v.References, savitzkyGolay1964)
+	}
+	if len(fs.Profiles) == 0 {
+		v.References = slices.DeleteFunc(v.References, func(r string) bool { return strings.HasPrefix(r, "Venzon ") })
 	}
 	if pr := in.presetFitted(); pr != nil && in.sel == nil {
 		if ref, ok := presetReferences[pr.Name]; ok {

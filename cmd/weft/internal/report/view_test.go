@@ -583,3 +583,29 @@ func TestMethodsNameThePreset(t *testing.T) {
 		t.Errorf("a --terms fit named as a preset:\n%s", v.Methods)
 	}
 }
+
+// The methods paragraph says only what the report has: the confidence
+// band of the model curves (delta method, Bates & Watts 1988) exists only
+// where curves.csv does (a folder of an older weft has none, README,
+// weft report), and profile-likelihood intervals (Venzon & Moolgavkar
+// 1988) only for fibre angles. The paragraph named both for a folder
+// without curves.csv and for an isotropic model (testdata
+// gent-seven-protocols, no fibre family), and cited Venzon & Moolgavkar.
+func TestMethodsSayOnlyWhatTheReportHas(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	m := string(v.Methods)
+	if strings.Contains(m, "confidence band") || strings.Contains(m, "profile likelihood") || slices.ContainsFunc(v.References, func(r string) bool { return strings.HasPrefix(r, "Venzon") }) {
+		t.Errorf("no curves.csv, no angles:\n%s\n%q", m, v.References)
+	}
+	in.curves = &curveTable{}
+	in.fit.Profiles = []card.ProfileCard{{}}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	m = string(v.Methods)
+	if !strings.Contains(m, "fibre-angle intervals from the profile likelihood (Venzon &amp; Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ") ||
+		!slices.ContainsFunc(v.References, func(r string) bool { return strings.HasPrefix(r, "Venzon") }) {
+		t.Errorf("curves and an angle:\n%s", m)
+	}
+}

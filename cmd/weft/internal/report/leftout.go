@@ -154,3 +154,27 @@ func (l leftOut) reasons(long bool) []string {
 	}
 	return out
 }
+
+// crossValidated says whether any candidate of the selection (a model
+// form or a preset) has a held-out error. With one protocol there is none
+// to leave out: discovery then picks by BIC (its rule says so), and the
+// report must not describe a cross-validation that did not happen.
+func (in *Input) crossValidated() bool {
+	if in.sel == nil {
+		return false
+	}
+	for _, c := range append(append([]card.CandidateCard{}, in.sel.Pareto...), in.sel.Presets...) {
+		if !bad(float64(c.HeldoutError)) {
+			return true
+		}
+	}
+	return false
+}
+
+// notCrossValidatedWhy says why no candidate has a held-out error.
+func notCrossValidatedWhy(protocols int) string {
+	if protocols == 1 {
+		return "one protocol, so there is none to leave out"
+	}
+	return "no candidate has a held-out error"
+}

@@ -454,7 +454,10 @@ func (in *Input) selectionThreshold() float64 {
 // nil without a selection section.
 func (in *Input) paretoFigure() *figure {
 	sel := in.sel
-	if sel == nil || len(sel.Pareto) == 0 {
+	// Without held-out errors (one protocol) the figure would be empty
+	// axes under a caption describing a cross-validation that did not
+	// happen; the table of model forms lists the forms with their BIC.
+	if sel == nil || len(sel.Pareto) == 0 || !in.crossValidated() {
 		return nil
 	}
 	type pt struct{ x, y, se float64 }

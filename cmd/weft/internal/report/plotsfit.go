@@ -510,6 +510,11 @@ func (in *Input) presetsFigure(strain bool) *figure {
 	}
 	caption := "One tile per protocol: the measured normal stresses (circles axis 1, squares axis 2) with the discovered model (black, heavy) and the classical presets fitted to the same data by the same fitter, each with its 95 % confidence band (shaded; often thinner than the line). " +
 		"The number beside each model in the legend is its held-out error, the quantity the selection compares."
+	if !in.crossValidated() {
+		// One protocol: nothing was held out, the legend has no numbers.
+		caption = strings.TrimSuffix(caption, "The number beside each model in the legend is its held-out error, the quantity the selection compares.") +
+			"Nothing was held out (" + notCrossValidatedWhy(len(in.data.Protocols)) + "), so the legend gives no held-out errors; the table of presets compares the models by BIC."
+	}
 	if t.hasShear() {
 		caption += " Shear components are compared in the tables of the model selection."
 	}

@@ -4,12 +4,14 @@ import (
 	"fmt"
 	"html/template"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
+	"github.com/weft-tools/weft/terms"
 )
 
 // The report's sections on admissibility, the load split, and the methods
@@ -380,17 +382,47 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		version = "weft " + p.VersionText()
 	}
 	points := in.pointCount()
-	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%d protocols, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
-		d.Specimen, len(d.Protocols), points, d.StressKind, keptWords(d), version)
-	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points. ")
+	fmt.Fprintf(&b, "Planar biaxial data of specimen %s (%s, %d points of %s stress; %s) were fitted with %s, an open-source tool for planar soft tissue. ",
+		d.Specimen, protocolCount(len(d.Protocols)), points, kindName(d.StressKind), keptWords(d), version)
+	pre, smoothed := preprocessingWords(c, d)
+	b.WriteString(pre)
+	b.WriteString("Each protocol and stress component was weighted by the inverse of its stress range and the square root of its number of points" + protocolWeightWords(d.Protocols) + ". ")
 	if in.sel != nil {
 		b.WriteString("The strain energy was discovered from a catalogue of isotropic terms (in I1, I2 and the principal stretches) and fibre-family terms (in the fibre invariant I4, optionally dispersed), with none, one or two fibre families, by variable projection: " +
 			"term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles, dispersion and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ")
-		b.WriteString("Model forms were compared by leave-one-protocol-out cross-validation, and the smallest model whose held-out error lay within one standard error of the best was chosen (Hastie, Tibshirani & Friedman 2009). ")
+		if in.crossValidated() {
+			b.WriteString("Model forms were compared by leave-one-protocol-out cross-validation, and the smallest model whose held-out error lay within one standard error of the best was chosen (Hastie, Tibshirani & Friedman 2009). ")
+		} else if len(d.Protocols) == 1 {
+			// Discovery's rule for one protocol (selection.rule): no
+			// cross-validation, the lowest BIC inside the verdict's form.
+			b.WriteString("With one protocol there is none to leave out, so no model form was cross-validated: the fibre layouts were compared by the Bayesian information criterion (BIC; Schwarz 1978), and the model of lowest BIC in the supported layout was chosen. ")
+		} else {
+			b.WriteString("No model form has a held-out error, so none was compared by cross-validation; the selection rule: " + sentence(minusSigns(in.sel.Rule)) + ". ")
+		}
 	} else {
-		fmt.Fprintf(&b, "The model form %s with a %s fibre layout was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
+		form := ""
+		if pr := in.presetFitted(); pr != nil {
+			// A published model keeps its name and citation (the
+			// catalogue's preset title and source).
+			form = ", the " + pr.Title + " (" + pr.Source + ") as weft's " + pr.Name + " preset,"
+		}
+		if in.cohortDiscovered() {
+			form = ", the one form weft cohort discovered for all specimens of its cohort from their pooled evidence (the cohort's report gives it),"
+		}
+		fmt.Fprintf(&b, "The model form %s with a %s fibre layout"+form+" was fitted by variable projection: term weights by non-negative least squares (Lawson & Hanson 1974) and fibre angles and shape parameters by bounded Levenberg–Marquardt (Golub & Pereyra 1973; Kaufman 1975) from a global scan of the angles. ", strings.Join(fs.Terms, " + "), fs.Layout)
 	}
-	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988), fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ")
+	// A folder written before curves.csv has no confidence band to speak
+	// of: its figures draw none.
+	band := ", and the confidence band of the model curves from the same covariance by the delta method"
+	if in.curves == nil {
+		band = ""
+	}
+	// A model without fibre angles has no profile intervals.
+	profile := ", fibre-angle intervals from the profile likelihood (Venzon & Moolgavkar 1988)"
+	if len(fs.Profiles) == 0 {
+		profile = ""
+	}
+	b.WriteString("Standard errors and 95 % intervals come from the Gauss–Newton covariance (Bates & Watts 1988)" + profile + band + ". ")
 	b.WriteString(in.verdictWords())
 	b.WriteString("The resulting model is " + energyMark)
 	if fams := in.familyWords(); fams != "" {
@@ -409,11 +441,25 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 			}
 		}
 		var ps []string
-		for _, cc := range in.sel.Presets {
-			ps = append(ps, presetCitation(strings.TrimPrefix(cc.Name, "preset:"))+" "+heldoutText(cc))
+		chosenBIC := math.NaN()
+		for _, cc := range in.sel.Pareto {
+			if cc.Chosen {
+				chosenBIC = float64(cc.BIC)
+			}
 		}
-		if len(ps) > 0 {
+		for _, cc := range in.sel.Presets {
+			v := heldoutText(cc)
+			if !in.crossValidated() {
+				// Without held-out errors the presets are compared as the
+				// chosen model was: by BIC.
+				v = fixed(float64(cc.BIC)-chosenBIC, 1)
+			}
+			ps = append(ps, presetCitation(strings.TrimPrefix(cc.Name, "preset:"))+" "+v)
+		}
+		if len(ps) > 0 && in.crossValidated() {
 			b.WriteString("; classical models fitted to the same data gave held-out errors of " + strings.Join(ps, ", "))
+		} else if len(ps) > 0 && !bad(chosenBIC) {
+			b.WriteString("; classical models fitted to the same data gave ΔBIC against it of " + strings.Join(ps, ", "))
 		}
 	}
 	b.WriteString(". The parameters are specimen-specific and valid within the tested range only.")
@@ -423,6 +469,21 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 	}
 	v.Methods = template.HTML(strings.Replace(template.HTMLEscapeString(b.String()), energyMark, string(energy), 1))
 	v.References = methodReferences(in.sel != nil)
+	if in.sel != nil && !in.crossValidated() {
+		v.References = append(v.References, schwarz1978)
+	}
+	if smoothed {
+		v.References = append(v.References, savitzkyGolay1964)
+	}
+	if len(fs.Profiles) == 0 {
+		v.References = slices.DeleteFunc(v.References, func(r string) bool { return strings.HasPrefix(r, "Venzon ") })
+	}
+	if pr := in.presetFitted(); pr != nil && in.sel == nil {
+		if ref, ok := presetReferences[pr.Name]; ok {
+			v.References = append(v.References, ref)
+		}
+	}
+	sort.Strings(v.References)
 	in.traceability(v, o)
 }
 
@@ -430,13 +491,37 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 // text is escaped.
 const energyMark = "⟦energy⟧"
 
-// keptWords says which part of the record was fitted, from the first
-// protocol's description.
+// keptWords says which part of the record was fitted, from the
+// protocols' descriptions.
 func keptWords(d card.DataSection) string {
 	if len(d.Protocols) == 0 {
 		return "as recorded"
 	}
-	k := d.Protocols[0].Kept
+	// Protocols may keep different cycles (--cycle=last on a file whose
+	// protocols ran 3 and 2 cycles): each distinct description is named
+	// with its protocols, so that none is said to be what it is not.
+	var kinds []string
+	of := map[string][]string{}
+	for _, p := range d.Protocols {
+		k := keptPrefix(p.Kept)
+		if _, ok := of[k]; !ok {
+			kinds = append(kinds, k)
+		}
+		of[k] = append(of[k], p.Label)
+	}
+	if len(kinds) == 1 {
+		return kinds[0]
+	}
+	var parts []string
+	for _, k := range kinds {
+		parts = append(parts, k+" for "+strings.Join(of[k], ", "))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// keptPrefix is a protocol's kept description without its row count
+// ("cycle 3 of 3, loading branch").
+func keptPrefix(k string) string {
 	if i := strings.Index(k, ", "); i >= 0 {
 		if j := strings.Index(k[i+2:], ", "); j >= 0 {
 			return k[:i+2+j]
@@ -595,6 +680,99 @@ func presetCitation(name string) string {
 		return "generalised Fung-type (the full quadratic form, e.g. Sun & Sacks 2005)"
 	}
 	return name
+}
+
+// protocolWeightWords names the relative protocol weights a fit was given
+// (--protocol-weight), "" when every protocol counts 1: they change the
+// fit, so a methods paragraph that left them out would misstate it. A
+// weight of 0 is a card written before the weights were recorded.
+func protocolWeightWords(ps []card.DataProtocolCard) string {
+	var set []string
+	for _, p := range ps {
+		if p.Weight != 0 && p.Weight != 1 {
+			set = append(set, fsig(p.Weight, 3)+" for "+p.Label)
+		}
+	}
+	if len(set) == 0 {
+		return ""
+	}
+	return ", times the relative weight given to each protocol (" + strings.Join(set, ", ") + "; 1 for the others)"
+}
+
+// presetFitted is the catalogue's preset a chosen form was fitted as
+// (the card's provenance option --preset=NAME), nil for any other fit.
+func (in *Input) presetFitted() *terms.Preset {
+	p := in.card.Provenance
+	if p == nil {
+		return nil
+	}
+	for _, o := range p.Options {
+		if n, ok := strings.CutPrefix(o, "--preset="); ok {
+			return terms.LookupPreset(n)
+		}
+	}
+	return nil
+}
+
+// presetReferences are the full references of the presets the methods
+// paragraph of a discovery already lists; the others are cited by author
+// and year in the text.
+var presetReferences = map[string]string{
+	"hgo":  "Holzapfel GA, Gasser TC, Ogden RW (2000) A new constitutive framework for arterial wall mechanics and a comparative study of material models. J Elasticity 61:1–48.",
+	"goh":  "Gasser TC, Ogden RW, Holzapfel GA (2006) Hyperelastic modelling of arterial layers with distributed collagen fibre orientations. J R Soc Interface 3:15–35.",
+	"fung": "Tong P, Fung YC (1976) The stress-strain relationship for the skin. J Biomech 9:649–657.",
+}
+
+// savitzkyGolay1964 is cited where F was smoothed before the fit.
+const savitzkyGolay1964 = "Savitzky A, Golay MJE (1964) Smoothing and differentiation of data by simplified least squares procedures. Anal Chem 36:1627–1639."
+
+// preprocessingWords says how the kept data were changed before the fit
+// (re-referencing, smoothing of F, resampling), from the card's
+// data.reference, data.protocols[].kept and provenance options; "" when
+// they were fitted as measured. Each changes what was fitted, so a
+// methods paragraph that left it out would misstate the data. smoothed
+// says whether F was smoothed (Savitzky & Golay 1964 is then cited).
+func preprocessingWords(c *card.Card, d card.DataSection) (string, bool) {
+	var parts []string
+	if strings.HasPrefix(d.Reference, "re-referenced") {
+		parts = append(parts, "the data were "+d.Reference)
+	}
+	smoothed := false
+	for _, p := range d.Protocols {
+		if i := strings.Index(p.Kept, "F smoothed over "); i >= 0 {
+			w := strings.TrimSuffix(p.Kept[i:], ")")
+			w = strings.Replace(w, "(quadratic Savitzky–Golay", "with a quadratic Savitzky–Golay filter (Savitzky & Golay 1964", 1)
+			if strings.HasSuffix(w, "1964") {
+				w += ")"
+			}
+			parts = append(parts, "the deformation gradient was "+strings.TrimPrefix(w, "F ")+", within each kept branch")
+			smoothed = true
+			break
+		}
+	}
+	if p := c.Provenance; p != nil {
+		for _, o := range p.Options {
+			if n, ok := strings.CutPrefix(o, "--resample="); ok && n != "0" {
+				parts = append(parts, "each kept branch was resampled to "+n+" points evenly spaced in the driving stretch (linear interpolation)")
+			}
+		}
+	}
+	if len(parts) == 0 {
+		return "", false
+	}
+	return capitalise("before the fit, "+strings.Join(parts, "; ")) + ". ", smoothed
+}
+
+// schwarz1978 is cited where model forms were compared by BIC alone (one
+// protocol, nothing to leave out).
+const schwarz1978 = "Schwarz G (1978) Estimating the dimension of a model. Ann Stat 6:461–464."
+
+// protocolCount writes a number of protocols, "1 protocol" or "5 protocols".
+func protocolCount(n int) string {
+	if n == 1 {
+		return "1 protocol"
+	}
+	return fmt.Sprintf("%d protocols", n)
 }
 
 // methodReferences lists the works the methods paragraph cites.

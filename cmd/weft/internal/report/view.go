@@ -59,10 +59,31 @@ func (in *Input) angle(a float64) string {
 	return fmtDeg(a)
 }
 
+// cohortDiscovered says whether the card is a cohort specimen's whose form
+// weft cohort discovered from the pooled evidence of all its specimens
+// (the card's provenance: written by weft cohort, with neither --preset nor
+// --terms). Such a card has no selection of its own, but its form was not
+// "fitted as asked" either.
+func (in *Input) cohortDiscovered() bool {
+	p := in.card.Provenance
+	if in.sel != nil || p == nil || p.Command != "weft cohort" {
+		return false
+	}
+	for _, o := range p.Options {
+		if strings.HasPrefix(o, "--preset") || strings.HasPrefix(o, "--terms") {
+			return false
+		}
+	}
+	return true
+}
+
 // glance writes the facts of "At a glance": how the model was found, its energy, families, verdict, worst fit and data.
 func (in *Input) glance(v *reportView) {
 	c, d, fs := in.card, in.data, in.fit
 	how := "chosen form: " + strings.Join(fs.Terms, " + ") + ", " + fs.Layout + " fibre layout (fitted as asked, not discovered)"
+	if in.cohortDiscovered() {
+		how = "the cohort's shared form: " + strings.Join(fs.Terms, " + ") + ", " + fs.Layout + " fibre layout (discovered by weft cohort for all its specimens; the cohort's report holds the evidence)"
+	}
 	if in.sel != nil {
 		how = "discovered: " + in.sel.Chosen + " (" + formCodeText(in.sel.Chosen) + ")"
 	}
@@ -91,11 +112,15 @@ func (in *Input) glance(v *reportView) {
 	if in.sel != nil {
 		for _, cc := range in.sel.Pareto {
 			if cc.Chosen {
+				if !in.crossValidated() {
+					v.Summary = append(v.Summary, Fact{Name: "Held-out error", Value: "none: " + notCrossValidatedWhy(len(d.Protocols))})
+					continue
+				}
 				v.Summary = append(v.Summary, Fact{Name: "Held-out error", Value: heldoutText(cc) + " (leave one protocol out; 0.01 ≈ 1 % of a protocol-axis stress range)"})
 			}
 		}
 	}
-	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%d protocols, %d points fitted, %s stress in %s", len(in.table.protocols), in.pointCount(), d.StressKind, d.StressUnit)})
+	v.Summary = append(v.Summary, Fact{Name: "Data", Value: fmt.Sprintf("%s, %d points fitted, %s stress in %s", protocolCount(len(in.table.protocols)), in.pointCount(), kindName(d.StressKind), d.StressUnit)})
 	if p := c.Provenance; p != nil {
 		v.Summary = append(v.Summary, Fact{Name: "Fitted by", Value: "weft " + p.VersionText()})
 	}
@@ -179,7 +204,7 @@ func (in *Input) dataSection(v *reportView) {
 		v.Data = append(v.Data, Fact{Name: "Axis 1", Value: d.Axis1})
 	}
 	in.setupFacts(v)
-	v.Data = append(v.Data, Fact{Name: "Stress", Value: d.StressKind + " stress in " + d.StressUnit}, Fact{Name: "Reference state", Value: d.Reference},
+	v.Data = append(v.Data, Fact{Name: "Stress", Value: kindName(d.StressKind) + " stress in " + d.StressUnit}, Fact{Name: "Reference state", Value: d.Reference},
 		Fact{Name: "Shear information", Value: shear})
 	v.Protocols = htmlTable{Head: []string{"protocol", "points fitted", "kept", "cycles", "protocol weight"}, Num: []bool{false, true, false, true, true}}
 	if in.raw != nil {
@@ -374,6 +399,14 @@ func (in *Input) parameterSection(v *reportView) {
 func (in *Input) qualitySection(v *reportView) {
 	fs := in.fit
 	v.Flags, v.Notes = fs.Flags, fs.Notes
+	// A card with untested strips but no verdict (a cohort specimen's,
+	// whose band is the cohort's near-equivalent forms) has no verdict
+	// paragraph to carry them; they are what the data do not determine.
+	if in.verdict == nil {
+		if s := strings.TrimSpace(in.stripsText("the forms the held-out protocols pooled over the cohort could not tell from this one, each fitted to this specimen")); s != "" {
+			v.Notes = append(append([]string{}, fs.Notes...), s)
+		}
+	}
 	// One row per protocol, a column group per measure and component.
 	comps := in.table.comps
 	var r2Comps []string // components with an R² somewhere
@@ -441,6 +474,44 @@ func (in *Input) fitSection(v *reportView) {
 	}
 }
 
+// stripsText writes the card's untested strips in one sentence (with a
+// leading space), "" without any: per strip the spread of the models the
+// held-out protocols could not tell apart, in normal and shear stress, and
+// where the strip leaves the fitted data. Part of the verdict's paragraph,
+// kept short: a report at its page budget (demo M3, four strips) keeps it;
+// a card without a verdict (a cohort specimen's) has it among what the
+// data cannot determine.
+//
+// band names the models whose spread is given: those the held-out
+// protocols could not tell apart (a fit's), or the cohort's near-equivalent
+// forms fitted to this specimen (a cohort specimen's card).
+func (in *Input) stripsText(band string) string {
+	var strips []string
+	for _, st := range in.untested {
+		// Where a strip leaves the fitted data every model extrapolates
+		// and the spread settles nothing (card: leaves_range_at); the
+		// paragraph says from which stretch on, as the card's summary does.
+		beyond := ""
+		if at := float64(st.LeavesRangeAt); !bad(at) {
+			beyond = fmt.Sprintf(", data to %.3g", at)
+		}
+		if st.Models == 0 {
+			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), beyond))
+			continue
+		}
+		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent)), beyond))
+	}
+	if len(strips) == 0 {
+		return ""
+	}
+	// "data to" needs its key only where a strip leaves the data.
+	key := ""
+	if strings.Contains(strings.Join(strips, ""), ", data to ") {
+		key = " (data to: past it every model extrapolates)"
+	}
+	return " Strips not tested (one axis held at stretch 1; turned: cut or mounted so), the spread of " + band + ", normal/shear stress in % of the chosen model's largest normal stress" + key + ": " + strings.Join(strips, "; ") + "."
+}
+
 // verdictSection writes the family verdict and its table of fibre
 // layouts: each layout's best model with its angles, ΔBIC and held-out
 // error, the verdict's row marked.
@@ -457,19 +528,7 @@ func (in *Input) verdictSection(v *reportView) {
 	if c := in.calibration; c != nil {
 		v.Calibration = minusSigns(c.Summary)
 	}
-	var strips []string
-	for _, st := range in.untested {
-		if st.Models == 0 {
-			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch)))
-			continue
-		}
-		strips = append(strips, fmt.Sprintf("%s to %.3g: %s/%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), card.PercentText(float64(st.Percent)), card.PercentText(float64(st.ShearPercent))))
-	}
-	if len(strips) > 0 {
-		// Part of the verdict's paragraph, kept short: a report at its
-		// page budget (demo M3, four strips) keeps it.
-		v.Reason += " Strips not tested (one axis held at stretch 1; turned: the specimen cut or mounted so), the spread of the models the held-out protocols could not tell apart, normal/shear stress in % of the chosen model's largest normal stress: " + strings.Join(strips, "; ") + "."
-	}
+	v.Reason += in.stripsText("the models the held-out protocols could not tell apart")
 	for _, r := range vd.RuledOut {
 		v.RuledOut = append(v.RuledOut, capitalise(minusSigns(r)))
 	}
@@ -589,8 +648,11 @@ func (in *Input) selectionSection(v *reportView) {
 	// The forms that were cross-validated compete for the pick; the others
 	// are counted by why they were left out (leftOutOf), and listed in
 	// selection.csv and model.json.
+	// Without cross-validation (one protocol) the rule picks by BIC among
+	// every form the search kept, so the table lists them all.
+	cv := in.crossValidated()
 	for _, cc := range sel.Pareto {
-		if bad(float64(cc.HeldoutError)) && !cc.Chosen {
+		if cv && bad(float64(cc.HeldoutError)) && !cc.Chosen {
 			continue
 		}
 		mark := ""
@@ -599,7 +661,9 @@ func (in *Input) selectionSection(v *reportView) {
 		}
 		v.Pareto.Rows = append(v.Pareto.Rows, htmlRow{Cells: append(candidateCells(cc), mark), Mark: cc.Chosen})
 	}
-	if lo := leftOutOf(sel); lo.total() > 0 {
+	if !cv {
+		v.ParetoNote = fmt.Sprintf("No form was cross-validated (%s): the rule above picked by BIC among the %d forms the search kept, all listed here.", notCrossValidatedWhy(len(in.data.Protocols)), len(sel.Pareto))
+	} else if lo := leftOutOf(sel); lo.total() > 0 {
 		v.ParetoNote = fmt.Sprintf("The %d cross-validated forms of the %d the search kept. The other %d were not cross-validated: %s. selection.csv and model.json list them with their loss, AICc and BIC.",
 			len(sel.Pareto)-lo.total(), len(sel.Pareto), lo.total(), strings.Join(lo.reasons(true), "; "))
 	}

@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -292,5 +293,319 @@ func TestDegenerateAngleHasNoInterval(t *testing.T) {
 	in.parameterSection(v)
 	if r := v.Params.Rows[0].Cells; r[2] != "—" || r[3] != "" {
 		t.Errorf("degenerate angle row %q, want no interval", r)
+	}
+}
+
+// With one protocol there is nothing to leave out: leave-one-protocol-out
+// cross-validation needs a second protocol to fit the others on (K-fold
+// cross-validation with K ≥ 2; Hastie, Tibshirani & Friedman 2009, §7.10),
+// and discovery's rule then picks the lowest BIC inside the verdict's form
+// (Schwarz 1978; the card's selection.rule says so). The report of such a
+// fit (the 1:1 protocol of demo membrane-M1 alone, 12 forms kept, none
+// cross-validated) said the forms "were compared by leave-one-protocol-out
+// cross-validation", quoted the presets' held-out errors as "—", called the
+// one row "The 1 cross-validated forms of the 12", gave 6 of the others
+// "a reason the card does not record", drew an empty held-out-error figure
+// and wrote "1 protocols".
+func TestOneProtocolIsNotCrossValidated(t *testing.T) {
+	nan := card.Num(math.NaN())
+	cand := func(name, layout string, bic float64, chosen bool) card.CandidateCard {
+		return card.CandidateCard{Name: name, Layout: layout, BIC: card.Num(bic), HeldoutError: nan, HeldoutStdErr: nan, Parameters: 4, Chosen: chosen}
+	}
+	sel := &card.SelectionSection{Chosen: "single-t2-p4",
+		Rule: "one protocol only, so no cross-validation: inside form 1 the pick is the lowest BIC (single-t2-p4, BIC -1008.5)",
+		Pareto: []card.CandidateCard{
+			cand("none-t1-p2", "none", -554.9, false),
+			cand("single-t1-p3", "single", -962.9, false),
+			cand("single-t2-p4", "single", -1008.5, true),
+		},
+		Presets: []card.CandidateCard{cand("preset:neo-hookean", "none", -537.0, false)}}
+	in := discoveredInput(false, []float64{30.2}, sel, &card.VerdictSection{Families: "undecided", Form: "1"})
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Points: 40}}
+
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.methodsSection(v, Options{})
+	m := string(v.Methods)
+	for _, want := range []string{"(1 protocol, ", "no model form was cross-validated", "(BIC; Schwarz 1978)", "gave ΔBIC against it of neo-Hookean 471.5"} {
+		if !strings.Contains(m, want) {
+			t.Errorf("methods lack %q:\n%s", want, m)
+		}
+	}
+	for _, not := range []string{"compared by leave-one-protocol-out", "held-out errors of", "1 protocols"} {
+		if strings.Contains(m, not) {
+			t.Errorf("methods say %q:\n%s", not, m)
+		}
+	}
+	if !slices.Contains(v.References, schwarz1978) {
+		t.Errorf("references lack Schwarz 1978: %q", v.References)
+	}
+
+	in.selectionSection(v)
+	if len(v.Pareto.Rows) != 3 || !strings.HasPrefix(v.ParetoNote, "No form was cross-validated (one protocol, so there is none to leave out)") ||
+		strings.Contains(v.ParetoNote, "cross-validated forms of") {
+		t.Errorf("%d rows, caption %q; want every form kept and no cross-validation claimed", len(v.Pareto.Rows), v.ParetoNote)
+	}
+	if f := in.paretoFigure(); f != nil {
+		t.Errorf("a held-out-error figure without held-out errors: %q", f.caption)
+	}
+	// A cross-validated selection keeps its paragraph (demo membrane-M1).
+	sel.Pareto[2].HeldoutError, sel.Pareto[2].HeldoutStdErr = 0.0106, 0.0003
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if m := string(v.Methods); !strings.Contains(m, "compared by leave-one-protocol-out cross-validation") || strings.Contains(m, "Schwarz") {
+		t.Errorf("cross-validated selection: %s", m)
+	}
+}
+
+// A cohort specimen's card has no selection of its own, but without
+// --preset or --terms its form was discovered by weft cohort from the
+// pooled evidence of all specimens (README, *Cohorts*: "Without --preset
+// or --terms the form is discovered for the cohort"; the card's
+// provenance says which: command "weft cohort", options without
+// --preset/--terms). Its report said "fitted as asked, not discovered"
+// (three synthetic specimens made from demo membrane-M1, discovered form
+// i1-lin + fib-expsq@f1).
+func TestCohortFormIsNotFittedAsAsked(t *testing.T) {
+	for _, c := range []struct {
+		name    string
+		options []string
+		want    string
+	}{
+		{"discovered by the cohort", []string{"--cycle=last", "--max-terms=5", "--dispersion=in-plane"}, "discovered by weft cohort"},
+		{"cohort with a preset", []string{"--cycle=last", "--preset=hgo"}, "fitted as asked, not discovered"},
+		{"cohort with terms", []string{"--terms=i1-lin,fib-expsq", "--families=1"}, "fitted as asked, not discovered"},
+	} {
+		in := discoveredInput(false, []float64{29.94}, nil, nil)
+		in.fit.Terms, in.fit.Layout = []string{"i1-lin", "fib-expsq@f1"}, "single"
+		in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft cohort", Options: c.options}
+		v := &reportView{figs: map[string]*htmlFigure{}}
+		in.glance(v)
+		if !strings.Contains(v.HowFound, c.want) {
+			t.Errorf("%s: at a glance %q, want %q", c.name, v.HowFound, c.want)
+		}
+		in.methodsSection(v, Options{})
+		if got := strings.Contains(string(v.Methods), "weft cohort discovered"); got != (c.want == "discovered by weft cohort") {
+			t.Errorf("%s: methods %s", c.name, v.Methods)
+		}
+	}
+}
+
+// A strip that leaves the fitted data range is extrapolated by every
+// model of the band, so its spread settles nothing (a model is valid only
+// within the tested range, common practice and the report's own caution).
+// The card says from which stretch (untested_strips[].leaves_range_at,
+// and its summary), and README (model card, untested_strips) says the
+// report's verdict paragraph does too; the paragraph gave only the spread.
+// Numbers of demo membrane-M3-sutured: strip 1:0 to 1.15 spreads by
+// 88.7 %/41.6 % but leaves the data at 1.03; turned 45° stays inside.
+func TestUntestedStripsSayWhereTheDataEnd(t *testing.T) {
+	in := discoveredInput(true, []float64{-25}, nil, &card.VerdictSection{Families: "1", Form: "1", Reason: "one fibre family at -25.0°"})
+	nan := card.Num(math.NaN())
+	in.untested = []card.UntestedStrip{
+		{Label: "1:0", Stretch: 1.15, Models: 3, Percent: 88.7, ShearPercent: 41.6, LeavesRangeAt: 1.03},
+		{Label: "1:0 turned 45°", Stretch: 1.15, Models: 3, Percent: 1.3, ShearPercent: 0.5, LeavesRangeAt: nan},
+		{Label: "0:1", Stretch: 1.15, Models: 0, Percent: nan, ShearPercent: nan, LeavesRangeAt: 1.1199999999999999},
+	}
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.verdictSection(v)
+	for _, want := range []string{"(data to: past it every model extrapolates)", "1:0 to 1.15: 88.7/41.6, data to 1.03;", "turned 45° to 1.15: 1.3/0.5;",
+		"0:1 to 1.15: no other candidate to measure it, data to 1.12."} {
+		if !strings.Contains(v.Reason, want) {
+			t.Errorf("verdict paragraph lacks %q:\n%s", want, v.Reason)
+		}
+	}
+	// Strips inside the data need no key.
+	in.untested = in.untested[1:2]
+	v = &reportView{figs: map[string]*htmlFigure{}}
+	in.verdictSection(v)
+	if strings.Contains(v.Reason, "data to") {
+		t.Errorf("a strip inside the data: %s", v.Reason)
+	}
+}
+
+// "Cauchy stress" is named after A.-L. Cauchy and written with a capital
+// (Holzapfel 2000, Nonlinear Solid Mechanics, §3.1, from memory; common
+// practice). The quotable methods paragraph of demo patch-P2 (Cauchy data)
+// read "200 points of cauchy stress", and "At a glance" and "Specimen and
+// data" "cauchy stress in kPa".
+func TestCauchyIsCapitalised(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	in.data.StressKind, in.fit.StressKind = "cauchy", "cauchy"
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.methodsSection(v, Options{})
+	in.glance(v)
+	in.dataSection(v)
+	text := string(v.Methods)
+	for _, f := range append(v.Summary, v.Data...) {
+		text += "\n" + f.Value
+	}
+	if strings.Contains(text, "cauchy") || !strings.Contains(text, "points of Cauchy stress") || !strings.Contains(text, "Cauchy stress in kPa") {
+		t.Errorf("stress kind not written as a name:\n%s", text)
+	}
+}
+
+// A cohort specimen's card carries untested strips (README, model card:
+// untested_strips, "a discovered cohort's specimen card, whose band is
+// the cohort's near-equivalent forms fitted to that specimen") but no
+// verdict, and the strips were written only into the verdict's paragraph:
+// the report of a specimen of a discovered cohort (three synthetic
+// specimens made from demo membrane-M1) left out that its strip turned 45°
+// to 1.15 spreads by 95.9 % of the largest normal stress.
+func TestCohortSpecimenShowsItsUntestedStrips(t *testing.T) {
+	in := discoveredInput(false, []float64{29.94}, nil, nil)
+	in.table = &fitTable{}
+	nan := card.Num(math.NaN())
+	in.untested = []card.UntestedStrip{
+		{Label: "1:0", Stretch: 1.15, Models: 9, Percent: 0.7, ShearPercent: 105.4, LeavesRangeAt: nan},
+		{Label: "1:0 turned 45°", Stretch: 1.15, Models: 9, Percent: 95.9, ShearPercent: 24.8, LeavesRangeAt: nan},
+	}
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.qualitySection(v)
+	notes := strings.Join(v.Notes, "\n")
+	for _, want := range []string{"pooled over the cohort", "1:0 to 1.15: 0.7/105.4; turned 45° to 1.15: 95.9/24.8."} {
+		if !strings.Contains(notes, want) {
+			t.Errorf("notes lack %q:\n%s", want, notes)
+		}
+	}
+	// With a verdict the strips stay in its paragraph, not twice.
+	in.verdict = &card.VerdictSection{Families: "1-or-mirror-pair", Form: "1"}
+	v = &reportView{figs: map[string]*htmlFigure{}}
+	in.qualitySection(v)
+	in.verdictSection(v)
+	if strings.Contains(strings.Join(v.Notes, ""), "Strips not tested") || !strings.Contains(v.Reason, "turned 45° to 1.15: 95.9/24.8") {
+		t.Errorf("with a verdict: notes %q, reason %q", v.Notes, v.Reason)
+	}
+}
+
+// A relative protocol weight (--protocol-weight) multiplies the residual
+// weight w/(range·√n) of every row of that protocol (README, *Weighting*;
+// weighted least squares, Bates & Watts 1988 §1.3, from memory), so it
+// changes the fit; the methods paragraph, written to be quoted, described
+// the weighting without it (demo membrane-M1 fitted with
+// --protocol-weight 1:1=3).
+func TestMethodsNameProtocolWeights(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Weight: 3}, {Label: "1:0.75", Weight: 1}, {Label: "0.75:1", Weight: 1}}
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	if want := "square root of its number of points, times the relative weight given to each protocol (3.00 for 1:1; 1 for the others). "; !strings.Contains(string(v.Methods), want) {
+		t.Errorf("methods lack %q:\n%s", want, v.Methods)
+	}
+	// Default weights (and cards without recorded weights) add nothing.
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Weight: 1}, {Label: "1:0.75"}}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if strings.Contains(string(v.Methods), "relative weight") {
+		t.Errorf("default weights named:\n%s", v.Methods)
+	}
+}
+
+// Protocols can keep different cycles: --cycle=last on a file whose 1:1
+// ran 3 cycles and the other protocols 2 (demo membrane-M1 with the third
+// cycle of four protocols deleted) keeps cycle 3 of 3 of one and cycle 2
+// of 2 of the others, as the protocols table says (the card's
+// data.protocols[].kept); the methods paragraph named the first
+// protocol's, "cycle 3 of 3, loading branch", for all of them.
+func TestMethodsNameEachKeptCycle(t *testing.T) {
+	d := card.DataSection{Protocols: []card.DataProtocolCard{
+		{Label: "1:1", Kept: "cycle 3 of 3, loading branch, 40 of 237 rows"},
+		{Label: "1:0.75", Kept: "cycle 2 of 2, loading branch, 40 of 158 rows"},
+		{Label: "0.75:1", Kept: "cycle 2 of 2, loading branch, 40 of 158 rows"},
+	}}
+	if got, want := keptWords(d), "cycle 3 of 3, loading branch for 1:1; cycle 2 of 2, loading branch for 1:0.75, 0.75:1"; got != want {
+		t.Errorf("keptWords = %q, want %q", got, want)
+	}
+	d.Protocols = d.Protocols[1:]
+	if got, want := keptWords(d), "cycle 2 of 2, loading branch"; got != want {
+		t.Errorf("one kind: keptWords = %q, want %q", got, want)
+	}
+}
+
+// What was done to the data before the fit changes what was fitted and
+// belongs in a methods paragraph: re-referencing with the tare removed
+// (--rereference), smoothing of F (--smooth-strain, a quadratic
+// Savitzky–Golay filter, Savitzky & Golay 1964) and resampling
+// (--resample). The paragraph gave none of them (demo membrane-M1 with
+// --resample 25 --smooth-strain 5, and with --rereference); the card holds
+// each (data.reference, data.protocols[].kept, provenance.options).
+func TestMethodsNamePreprocessing(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Points: 25, Kept: "cycle 3 of 3, loading branch, 40 of 237 rows, F smoothed over 5 points (quadratic Savitzky–Golay)"}}
+	in.data.Reference = "re-referenced to the first kept point of each protocol: F ← F·F_ref⁻¹, nominal stress re-based P ← P·F_refᵀ, tare subtracted"
+	in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft fit", Options: []string{"--rereference=true", "--resample=25", "--smooth-strain=5"}}
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	m := string(v.Methods)
+	for _, want := range []string{
+		"Before the fit, the data were re-referenced to the first kept point of each protocol",
+		"tare subtracted; the deformation gradient was smoothed over 5 points with a quadratic Savitzky–Golay filter (Savitzky &amp; Golay 1964), within each kept branch; each kept branch was resampled to 25 points evenly spaced in the driving stretch (linear interpolation). ",
+	} {
+		if !strings.Contains(m, want) {
+			t.Errorf("methods lack %q:\n%s", want, m)
+		}
+	}
+	if !slices.Contains(v.References, savitzkyGolay1964) {
+		t.Errorf("references lack Savitzky & Golay 1964")
+	}
+	// Data fitted as measured: nothing is added.
+	in.data.Reference, in.data.Protocols[0].Kept = "as measured", "cycle 3 of 3, loading branch, 40 of 237 rows"
+	in.card.Provenance.Options = []string{"--rereference=false", "--resample=0", "--smooth-strain=0"}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if strings.Contains(string(v.Methods), "Before the fit") || slices.Contains(v.References, savitzkyGolay1964) {
+		t.Errorf("data as measured: %s", v.Methods)
+	}
+}
+
+// A form fitted as a published model (--preset) keeps that model's name
+// and citation (Holzapfel, Gasser & Ogden 2000 for hgo; Gasser, Ogden &
+// Holzapfel 2006 for goh; the catalogue's preset source), in the methods
+// paragraph too: it said only "The model form i1-lin + fib-expsq@pair with
+// a mirror fibre layout was fitted" and listed no reference for the model
+// (demo membrane-M3-sutured with --preset goh).
+func TestMethodsNameThePreset(t *testing.T) {
+	in := discoveredInput(true, []float64{0, 0}, nil, nil)
+	in.fit.Terms, in.fit.Layout = []string{"i1-lin", "fib-expsq@pair"}, "mirror"
+	in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft fit", Options: []string{"--cycle=last", "--preset=goh", "--pair-axis=axis-1"}}
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	if want := "The model form i1-lin + fib-expsq@pair with a mirror fibre layout, the two-family fibre model with dispersion of Gasser, Ogden &amp; Holzapfel (Gasser, Ogden &amp; Holzapfel 2006"; !strings.Contains(string(v.Methods), want) {
+		t.Errorf("methods lack %q:\n%s", want, v.Methods)
+	}
+	if !slices.Contains(v.References, presetReferences["goh"]) {
+		t.Errorf("references lack GOH: %q", v.References)
+	}
+	// --terms names no published model.
+	in.card.Provenance.Options = []string{"--terms=i1-lin,fib-expsq", "--families=2", "--layout=mirror"}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if strings.Contains(string(v.Methods), "preset") {
+		t.Errorf("a --terms fit named as a preset:\n%s", v.Methods)
+	}
+}
+
+// The methods paragraph says only what the report has: the confidence
+// band of the model curves (delta method, Bates & Watts 1988) exists only
+// where curves.csv does (a folder of an older weft has none, README,
+// weft report), and profile-likelihood intervals (Venzon & Moolgavkar
+// 1988) only for fibre angles. The paragraph named both for a folder
+// without curves.csv and for an isotropic model (testdata
+// gent-seven-protocols, no fibre family), and cited Venzon & Moolgavkar.
+func TestMethodsSayOnlyWhatTheReportHas(t *testing.T) {
+	in := discoveredInput(false, nil, nil, nil)
+	v := &reportView{}
+	in.methodsSection(v, Options{})
+	m := string(v.Methods)
+	if strings.Contains(m, "confidence band") || strings.Contains(m, "profile likelihood") || slices.ContainsFunc(v.References, func(r string) bool { return strings.HasPrefix(r, "Venzon") }) {
+		t.Errorf("no curves.csv, no angles:\n%s\n%q", m, v.References)
+	}
+	in.curves = &curveTable{}
+	in.fit.Profiles = []card.ProfileCard{{}}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	m = string(v.Methods)
+	if !strings.Contains(m, "fibre-angle intervals from the profile likelihood (Venzon &amp; Moolgavkar 1988), and the confidence band of the model curves from the same covariance by the delta method. ") ||
+		!slices.ContainsFunc(v.References, func(r string) bool { return strings.HasPrefix(r, "Venzon") }) {
+		t.Errorf("curves and an angle:\n%s", m)
 	}
 }

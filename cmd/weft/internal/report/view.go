@@ -487,6 +487,10 @@ func (in *Input) fitSection(v *reportView) {
 // forms fitted to this specimen (a cohort specimen's card).
 func (in *Input) stripsText(band string) string {
 	var strips []string
+	measured := false
+	for _, st := range in.untested {
+		measured = measured || st.Models > 0
+	}
 	for _, st := range in.untested {
 		// Where a strip leaves the fitted data every model extrapolates
 		// and the spread settles nothing (card: leaves_range_at); the
@@ -495,7 +499,11 @@ func (in *Input) stripsText(band string) string {
 		if at := float64(st.LeavesRangeAt); !bad(at) {
 			beyond = fmt.Sprintf(", data to %.3g", at)
 		}
-		if st.Models == 0 {
+		switch {
+		case !measured:
+			strips = append(strips, fmt.Sprintf("%s to %.3g%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), beyond))
+			continue
+		case st.Models == 0:
 			strips = append(strips, fmt.Sprintf("%s to %.3g: no other candidate to measure it%s", strings.TrimPrefix(st.Label, "1:0 "), float64(st.Stretch), beyond))
 			continue
 		}
@@ -508,6 +516,12 @@ func (in *Input) stripsText(band string) string {
 	key := ""
 	if strings.Contains(strings.Join(strips, ""), ", data to ") {
 		key = " (data to: past it every model extrapolates)"
+	}
+	if !measured {
+		// A chosen form (or a discovery no other candidate came near)
+		// has no band: the strips are named, not measured, and what
+		// the card's summaries say of them is theirs.
+		return " Strips not tested (one axis held at stretch 1; turned: cut or mounted so), which no other candidate model measures here (see the card's untested_strips)" + key + ": " + strings.Join(strips, "; ") + "."
 	}
 	return " Strips not tested (one axis held at stretch 1; turned: cut or mounted so), the spread of " + band + ", normal/shear stress in % of the chosen model's largest normal stress" + key + ": " + strings.Join(strips, "; ") + "."
 }

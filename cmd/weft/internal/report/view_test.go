@@ -477,6 +477,28 @@ func TestCohortSpecimenShowsItsUntestedStrips(t *testing.T) {
 	}
 }
 
+// A chosen form's card (a preset's) lists its untested strips unmeasured:
+// the report names them among what the data cannot determine, with where
+// they leave the data, and speaks of no band (until 2026-12-05 the
+// sentence, written for a cohort specimen, called them "the forms the
+// held-out protocols pooled over the cohort could not tell from this one").
+func TestUnmeasuredStripsNameNoBand(t *testing.T) {
+	in := discoveredInput(false, []float64{29.94}, nil, nil)
+	in.table = &fitTable{}
+	nan := card.Num(math.NaN())
+	in.untested = []card.UntestedStrip{
+		{Label: "1:0", Stretch: 1.15, Percent: nan, ShearPercent: nan, LeavesRangeAt: 1.03},
+		{Label: "0:1", Stretch: 1.15, Percent: nan, ShearPercent: nan, LeavesRangeAt: nan},
+	}
+	v := &reportView{figs: map[string]*htmlFigure{}}
+	in.qualitySection(v)
+	notes := strings.Join(v.Notes, "\n")
+	if !strings.Contains(notes, "which no other candidate model measures here (see the card's untested_strips) (data to: past it every model extrapolates): 1:0 to 1.15, data to 1.03; 0:1 to 1.15.") ||
+		strings.Contains(notes, "pooled over the cohort") {
+		t.Errorf("notes:\n%s", notes)
+	}
+}
+
 // A relative protocol weight (--protocol-weight) multiplies the residual
 // weight w/(range·√n) of every row of that protocol (README, *Weighting*;
 // weighted least squares, Bates & Watts 1988 §1.3, from memory), so it

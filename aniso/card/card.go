@@ -41,6 +41,7 @@ import (
 	"io"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/weft-tools/weft/aniso"
@@ -766,20 +767,37 @@ func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 	return c
 }
 
+// latexNumber writes x with six significant digits for LaTeX: a number
+// Go would write in e-notation (7.80914e-08) as a power of ten
+// (7.80914 \times 10^{-8}), which a typeset energy would otherwise show as
+// plain text (audit 2026-12-05, a weight of 7.8e-8 kPa).
+func latexNumber(x float64) string {
+	v := fmt.Sprintf("%.6g", x)
+	i := strings.IndexByte(v, 'e')
+	if i < 0 {
+		return v
+	}
+	exp, err := strconv.Atoi(v[i+1:])
+	if err != nil {
+		return v
+	}
+	return fmt.Sprintf(`%s \times 10^{%d}`, v[:i], exp)
+}
+
 // EnergyText writes the energy with its numbers, in plain text and LaTeX.
 func EnergyText(m *aniso.Model, c *Card) (string, string) {
 	var plain, latex []string
 	for _, t := range m.Terms {
 		p, l := t.Shape.Written(t.Params)
 		p = strings.ReplaceAll(p, "w*", fmt.Sprintf("%.6g*", t.Weight))
-		l = strings.ReplaceAll(l, "w", fmt.Sprintf("%.6g", t.Weight))
+		l = strings.ReplaceAll(l, "w", latexNumber(t.Weight))
 		for j, q := range t.Shape.Params {
-			v := fmt.Sprintf("%.6g", t.Params[j])
+			v, lv := fmt.Sprintf("%.6g", t.Params[j]), latexNumber(t.Params[j])
 			if t.Params[j] < 0 {
-				v = "(" + v + ")" // a negative exponent stays one factor: 2/(-2)^2
+				v, lv = "("+v+")", "("+lv+")" // a negative exponent stays one factor: 2/(-2)^2
 			}
 			p = strings.ReplaceAll(p, q.Symbol, v)
-			l = latexSubst(l, q.LaTeXSymbol(), v)
+			l = latexSubst(l, q.LaTeXSymbol(), lv)
 		}
 		if t.Family >= 0 && m.Families[t.Family].Planar {
 			// A planar family averages the term over its directions

@@ -186,3 +186,25 @@ func TestFamiliesCautionFollowsTheVerdict(t *testing.T) {
 		}
 	}
 }
+
+// A number Go writes in e-notation is typeset as a power of ten in the
+// LaTeX energy: "7.80914e-08" inside $...$ reads as 7.80914e − 08 (a
+// product with e), not as 7.80914 × 10⁻⁸ (TeX's math mode sets the
+// letters as variables; common practice). The plain text keeps
+// e-notation, which every program reads (audit 2026-12-05, a weight of
+// 7.8e-8 kPa on testdata/i8-coupled-10-70-sutured.csv).
+func TestEnergyLaTeXPowersOfTen(t *testing.T) {
+	m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(30)}}, Terms: []aniso.Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 7.80914e-08},
+		{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 12, Params: []float64{2.5e-7}},
+	}}
+	c := FromModel(m, "kPa", nil)
+	for _, want := range []string{`7.80914 \times 10^{-8}`, `2.5 \times 10^{-7}`} {
+		if !strings.Contains(c.EnergyLaTeX, want) {
+			t.Errorf("LaTeX energy %q lacks %q", c.EnergyLaTeX, want)
+		}
+	}
+	if strings.Contains(c.EnergyLaTeX, "e-0") || !strings.Contains(c.Energy, "7.80914e-08") {
+		t.Errorf("energy %q / %q", c.Energy, c.EnergyLaTeX)
+	}
+}

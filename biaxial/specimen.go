@@ -98,6 +98,15 @@ func (k StressKind) String() string {
 	return "cauchy"
 }
 
+// Words names k in running text: "Cauchy" (a name, Cauchy 1823) or
+// "nominal".
+func (k StressKind) Words() string {
+	if k == Nominal {
+		return "nominal"
+	}
+	return "Cauchy"
+}
+
 // Symbol writes stress component comp ("11", "22", "12" or "21") of this
 // measure as weft prints it everywhere: "P11" for nominal stress, "σ11"
 // for Cauchy stress.

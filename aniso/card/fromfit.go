@@ -37,7 +37,7 @@ func FromFit(p *aniso.Problem, r *aniso.Result, d *aniso.Discovery) *Card {
 	c.Data = NewDataSection(s)
 	c.Setup = NewSetup(s)
 	if sp, err := aniso.Split(p, r.Model); err == nil {
-		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.String()+" stress, summed over each protocol's points")
+		c.Split = NewSplitSection(sp, "share of the magnitude of modelled "+s.Kind.Words()+" stress, summed over each protocol's points")
 	}
 	if d != nil {
 		v := NewVerdictSection(d.Verdict, aniso.FormKey(d.Best().Result.Structure))

@@ -130,6 +130,7 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 		return nil, err
 	}
 	ng := len(s.Groups)
+	group := make([]float64, ng) // one point's summed contribution per group
 	for _, pi := range p.Protocols {
 		pr := &p.Specimen.Protocols[pi]
 		ps := ProtocolSplit{Protocol: pr.Label}
@@ -150,44 +151,7 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 			}
 		}
 		for _, comp := range p.Output.Components {
-			cs := ComponentSplit{Component: biaxial.Component(comp).String(), TermShare: make([]float64, len(m.Terms)),
-				GroupShare: make([]float64, ng), Signed: make([]float64, len(m.Terms))}
-			total, netSum := 0.0, 0.0
-			for r := range p.Target {
-				if p.RowProtocol[r] != pi || p.RowComponent[r] != comp {
-					continue
-				}
-				net := 0.0
-				for k := range m.Terms {
-					v := contrib[k][r]
-					cs.Signed[k] += v
-					cs.TermShare[k] += math.Abs(v)
-					total += math.Abs(v)
-					net += v
-				}
-				netSum += math.Abs(net)
-			}
-			for k := range m.Terms {
-				if total > 0 {
-					cs.TermShare[k] /= total
-				}
-				cs.GroupShare[s.TermGroup[k]] += cs.TermShare[k]
-			}
-			cs.NetPeak, cs.NormalPeak = netPeak[comp], normalPeak
-			if NoLoadToShare(cs.NetPeak, cs.NormalPeak, netSum, total) {
-				cs.NoShare = fmt.Sprintf("no share: the modelled %s stays within ±%.2g %s, under %.0f %% of the protocol's largest normal stress (%.3g %s), while its terms carry stresses that cancel",
-					cs.Component, cs.NetPeak, p.Specimen.StressUnit, 100*NegligibleNet, cs.NormalPeak, p.Specimen.StressUnit)
-				if total == 0 {
-					cs.NoShare = fmt.Sprintf("no share: no term carries any %s stress in this protocol", cs.Component)
-				}
-				for k := range cs.TermShare {
-					cs.TermShare[k] = math.NaN()
-				}
-				for g := range cs.GroupShare {
-					cs.GroupShare[g] = math.NaN()
-				}
-			}
-			ps.Components = append(ps.Components, cs)
+			ps.Components = append(ps.Components, s.componentSplit(p, m, contrib, group, pi, comp, netPeak[comp], normalPeak))
 		}
 		// Energy at the protocol's largest deformation, as the fit saw it:
 		// F12 and F21 within their scatter of zero were fitted as zero
@@ -222,4 +186,64 @@ func Split(p *Problem, m *Model) (*StressSplit, error) {
 		s.Protocols = append(s.Protocols, ps)
 	}
 	return s, nil
+}
+
+// componentSplit shares component comp of protocol pi (netPeak its largest
+// |modelled stress|, normalPeak the protocol's normal components') between
+// m's terms and s's groups; contrib are the terms' contributions per row
+// (PointContributions) and group a scratch buffer of one value per group.
+func (s *StressSplit) componentSplit(p *Problem, m *Model, contrib [][]float64, group []float64, pi int, comp Component, netPeak, normalPeak float64) ComponentSplit {
+	cs := ComponentSplit{Component: biaxial.Component(comp).String(), TermShare: make([]float64, len(m.Terms)),
+		GroupShare: make([]float64, len(s.Groups)), Signed: make([]float64, len(m.Terms))}
+	total, netSum, groupTotal := 0.0, 0.0, 0.0
+	for r := range p.Target {
+		if p.RowProtocol[r] != pi || p.RowComponent[r] != comp {
+			continue
+		}
+		net := 0.0
+		clear(group)
+		for k := range m.Terms {
+			v := contrib[k][r]
+			cs.Signed[k] += v
+			cs.TermShare[k] += math.Abs(v)
+			total += math.Abs(v)
+			net += v
+			group[s.TermGroup[k]] += v
+		}
+		netSum += math.Abs(net)
+		// A group's share is of its own summed contribution, as
+		// the load-share figure draws it: two of its terms that
+		// pull opposite ways carry their net, not both
+		// magnitudes (until 2026-12-05 the card added its terms'
+		// shares, up to 0.08 percentage points apart).
+		for g, v := range group {
+			cs.GroupShare[g] += math.Abs(v)
+			groupTotal += math.Abs(v)
+		}
+	}
+	for k := range m.Terms {
+		if total > 0 {
+			cs.TermShare[k] /= total
+		}
+	}
+	for g := range cs.GroupShare {
+		if groupTotal > 0 {
+			cs.GroupShare[g] /= groupTotal
+		}
+	}
+	cs.NetPeak, cs.NormalPeak = netPeak, normalPeak
+	if NoLoadToShare(cs.NetPeak, cs.NormalPeak, netSum, total) {
+		cs.NoShare = fmt.Sprintf("no share: the modelled %s stays within ±%.2g %s, under %.0f %% of the protocol's largest normal stress (%.3g %s), while its terms carry stresses that cancel",
+			cs.Component, cs.NetPeak, p.Specimen.StressUnit, 100*NegligibleNet, cs.NormalPeak, p.Specimen.StressUnit)
+		if total == 0 {
+			cs.NoShare = fmt.Sprintf("no share: no term carries any %s stress in this protocol", cs.Component)
+		}
+		for k := range cs.TermShare {
+			cs.TermShare[k] = math.NaN()
+		}
+		for g := range cs.GroupShare {
+			cs.GroupShare[g] = math.NaN()
+		}
+	}
+	return cs
 }

@@ -165,3 +165,29 @@ func TestSplitAtTheFittedDeformation(t *testing.T) {
 		}
 	}
 }
+
+// A group's share is of its own summed contribution, as the report's
+// load-share figure draws it, so two of its terms that pull opposite ways
+// count with their net: worked by hand, matrix terms of +3 and −1 kPa and
+// a fibre term of +2 kPa at each of two points share the group magnitudes
+// |3 − 1| = 2 and 2 evenly (0.5, 0.5), while the terms share 3 : 1 : 2 of
+// their magnitudes (until 2026-12-05 the matrix read 4/6, the sum of its
+// terms' shares).
+func TestGroupShareOfTheGroupsNet(t *testing.T) {
+	m := oneFamily(Term{Shape: lookup("i1-lin"), Weight: 3}, Term{Shape: lookup("fib-expsq"), Weight: 20, Params: []float64{3}}, 0)
+	m.Terms = append([]Term{{Shape: lookup("i2-lin"), Family: -1, Weight: 1}}, m.Terms...)
+	s := &StressSplit{Groups: []string{"matrix", "f1"}, TermGroup: []int{0, 0, 1}}
+	c11 := Component(biaxial.C11)
+	p := &Problem{Target: make([]float64, 2), RowProtocol: []int{0, 0}, RowComponent: []Component{c11, c11}, Specimen: &biaxial.Specimen{StressUnit: "kPa"}}
+	contrib := [][]float64{{3, 3}, {-1, -1}, {2, 2}}
+	cs := s.componentSplit(p, m, contrib, make([]float64, 2), 0, c11, 4, 4)
+	want := []float64{3.0 / 6, 1.0 / 6, 2.0 / 6}
+	for k, w := range want {
+		if math.Abs(cs.TermShare[k]-w) > 1e-15 {
+			t.Errorf("term %d share %g, want %g", k, cs.TermShare[k], w)
+		}
+	}
+	if math.Abs(cs.GroupShare[0]-0.5) > 1e-15 || math.Abs(cs.GroupShare[1]-0.5) > 1e-15 || cs.NoShare != "" {
+		t.Errorf("group shares %v (no share %q), want 0.5, 0.5", cs.GroupShare, cs.NoShare)
+	}
+}

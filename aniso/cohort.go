@@ -142,8 +142,11 @@ type Cohort struct {
 // evidence fitted them) while their held-out scores, the choice and the
 // verdict stay the pooled ones. The forms the pooled held-out protocols
 // could not tell from the chosen one, each as fitted to this specimen,
-// make the band of its untested loadings. nil when the form was given or
-// specimen i could not be used.
+// make the band of its untested loadings. A candidate whose form could
+// not be fitted to this specimen (its fit failed there, not on the others)
+// is left out of the copy: it has no model of this specimen to lend the
+// band. nil when the form was given, specimen i could not be used or the
+// chosen form has no fit of it.
 func (c *Cohort) SpecimenEvidence(i int) *Discovery {
 	if c.Discovery == nil || i < 0 || i >= len(c.Specimens) {
 		return nil
@@ -153,12 +156,22 @@ func (c *Cohort) SpecimenEvidence(i int) *Discovery {
 		return nil
 	}
 	d := *c.Discovery
-	d.Pareto = append([]Candidate(nil), c.Discovery.Pareto...)
+	d.Pareto = nil
 	for k, r := range sp.candidateFits {
 		if r == nil {
-			return nil
+			// Until 2026-12-05 one such candidate left the specimen's
+			// card without any untested strips, measured or not.
+			if k == c.Discovery.Chosen {
+				return nil
+			}
+			continue
 		}
-		d.Pareto[k].Result, d.Pareto[k].Searched = r, nil
+		if k == c.Discovery.Chosen {
+			d.Chosen = len(d.Pareto)
+		}
+		pc := c.Discovery.Pareto[k]
+		pc.Result, pc.Searched = r, nil
+		d.Pareto = append(d.Pareto, pc)
 	}
 	d.Presets = nil
 	for k, r := range sp.presetFits {

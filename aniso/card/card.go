@@ -812,7 +812,10 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 			p = strings.ReplaceAll(p, "(I5-1)", "(I5_"+name+"-1)")
 			p = strings.ReplaceAll(p, "λ_f", "λ_"+name)
 			l = strings.ReplaceAll(l, "E_f", "E_{"+name+"}")
-			l = strings.ReplaceAll(l, "(K-1)", "(K_{"+name+"}-1)")
+			// cof-quad writes its LaTeX as \langle K-1\rangle, without
+			// the parentheses of its plain text: until 2026-12-05 the
+			// LaTeX lost the family (K_f1 in plain text, K in LaTeX).
+			l = strings.ReplaceAll(l, "K-1", "K_{"+name+"}-1")
 			l = strings.ReplaceAll(l, "(I_5-1)", "(I_{5,"+name+"}-1)")
 			l = strings.ReplaceAll(l, `\lambda_f`, `\lambda_{`+name+"}")
 		}

@@ -208,3 +208,19 @@ func TestEnergyLaTeXPowersOfTen(t *testing.T) {
 		t.Errorf("energy %q / %q", c.Energy, c.EnergyLaTeX)
 	}
 }
+
+// A cofactor-fibre term names its family in the LaTeX energy as in the
+// plain text (K_f1): with two families an unnamed K does not say whose
+// cofactor stretch it is (K = |cof(F) a0|², each family's own a0;
+// Schröder & Neff 2003). Until 2026-12-05 the LaTeX of cof-quad read
+// \langle K-1\rangle on testdata/i8-coupled-10-70-sutured.csv's fit.
+func TestEnergyLaTeXNamesTheCofactorFamily(t *testing.T) {
+	m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(10)}, {Name: "f2", Angle: aniso.Rad(70)}}, Terms: []aniso.Term{
+		{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 5},
+		{Shape: terms.Lookup("cof-quad"), Family: 1, Weight: 13},
+	}}
+	c := FromModel(m, "kPa", nil)
+	if !strings.Contains(c.Energy, "K_f2-1") || !strings.Contains(c.EnergyLaTeX, `\langle K_{f2}-1\rangle`) {
+		t.Errorf("energy %q / %q", c.Energy, c.EnergyLaTeX)
+	}
+}

@@ -164,12 +164,12 @@ func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		if n == 1 {
 			forms = "form"
 		}
-		judged = fmt.Sprintf("%s the held-out protocols pooled over the cohort's %d specimens could not tell from its form (each fitted to this specimen)", forms, pooled)
+		judged = fmt.Sprintf("%s the held-out protocols pooled over %s could not tell from its form (each fitted to this specimen)", forms, cohortSpecimens(pooled))
 	}
 	if c.AloneInSelection() {
 		why = "no other candidate predicted the held-out protocols as well as the chosen model"
 		if pooled > 0 {
-			why = fmt.Sprintf("no other candidate predicted the held-out protocols, pooled over the cohort's %d specimens, as well as the chosen model", pooled)
+			why = fmt.Sprintf("no other candidate predicted the held-out protocols, pooled over %s, as well as the chosen model", cohortSpecimens(pooled))
 		}
 	}
 	var out []UntestedStrip
@@ -210,6 +210,16 @@ func newUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m *aniso
 		out = append(out, untestedStrip(c, m, alike, n, judged, st.label, st.held, st.turn, st.axis, st.top, leaves, outside, cols, shearCols))
 	}
 	return out, nil
+}
+
+// cohortSpecimens writes "the cohort's n specimens", or "the cohort's 1
+// specimen" (a cohort of one, or of one specimen with two protocols or
+// more: until 2026-12-05 it read "the cohort's 1 specimens").
+func cohortSpecimens(n int) string {
+	if n == 1 {
+		return "the cohort's 1 specimen"
+	}
+	return fmt.Sprintf("the cohort's %d specimens", n)
 }
 
 // stripF is the deformation (tester's axes) of the strip driven along

@@ -187,6 +187,12 @@ func TestCohortStripsSayTheEvidenceIsPooled(t *testing.T) {
 	if err != nil || !strings.Contains(strips[0].Summary, want) {
 		t.Errorf("summary %q, %v; want it to contain %q", strips[0].Summary, err, want)
 	}
+	// A cohort of one (or of one specimen with a second protocol) pools
+	// one specimen: English number agreement, common practice.
+	strips, err = NewCohortUntestedStrips(eq, false, c, iso, 1)
+	if err != nil || !strings.Contains(strips[0].Summary, "pooled over the cohort's 1 specimen could not tell") {
+		t.Errorf("cohort of one: summary %q, %v", strips[0].Summary, err)
+	}
 }
 
 // A strip that nothing measures still says where it leaves the fitted

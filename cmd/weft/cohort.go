@@ -291,8 +291,10 @@ func checkCohortWeights(ms []*cohortMember, weights map[string]float64) error {
 	}
 	seen := map[string]bool{}
 	read := false
+	var unread []string
 	for _, m := range ms {
 		if m.spec == nil {
+			unread = append(unread, m.file)
 			continue
 		}
 		read = true
@@ -313,9 +315,16 @@ func checkCohortWeights(ms []*cohortMember, weights map[string]float64) error {
 		given = append(given, l)
 	}
 	sort.Strings(given)
+	// A file that could not be read may have the label: say so, or the
+	// refusal reads as if no file had it and hides why that one failed
+	// (until 2026-12-05 it did).
+	unreadText := ""
+	if len(unread) > 0 {
+		unreadText = fmt.Sprintf(" (%d file(s) could not be read and are not counted: %s)", len(unread), strings.Join(unread, ", "))
+	}
 	for _, l := range given {
 		if !seen[l] {
-			return badInputf("--protocol-weight %s=%g: no file of the cohort has a protocol %q; use one of %s", l, weights[l], l, strings.Join(labels, ", "))
+			return badInputf("--protocol-weight %s=%g: no file of the cohort that could be read has a protocol %q%s; use one of %s", l, weights[l], l, unreadText, strings.Join(labels, ", "))
 		}
 	}
 	return nil

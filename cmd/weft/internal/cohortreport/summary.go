@@ -304,7 +304,8 @@ func Build(in *Input) *Summary {
 	// (until 2026-12-05 such a file failed and its data left the cohort).
 	s.Notes = appendCountNote(s.Notes, s.Specimens, func(r SpecimenRow) int { return len(r.Unweighted) },
 		"specimens without a protocol given a relative weight, so that weight did not apply to them (weights_not_applied): %s; each of their protocols keeps the weight 1 relative to the others")
-	if note := stripsNote(in.Specimens, in.Cohort != nil && in.Cohort.Discovery == nil); note != "" {
+	heldOut := in.Cohort != nil && in.Cohort.Discovery != nil && in.Cohort.Discovery.Best().CV != nil
+	if note := stripsNote(in.Specimens, in.Cohort != nil && in.Cohort.Discovery == nil, heldOut); note != "" {
 		s.Notes = append(s.Notes, note)
 	}
 	s.Provenance = in.Provenance
@@ -365,8 +366,11 @@ func WidestStrip(sps []Specimen, label string) StripSpread {
 // strips. A cohort's parameters, like one fit's, do not settle a loading
 // none of its tests came near (until 2026-12-05 a cohort said nothing of
 // it). chosen says the form was given, not discovered: then no strip is
-// measured, and the note only names them.
-func stripsNote(sps []Specimen, chosen bool) string {
+// measured, and the note only names them. heldOut says the discovered
+// form has a pooled held-out error: without one (every specimen tested
+// with one protocol) no form was cross-validated, and a strip nothing
+// measures is not one that no form came near.
+func stripsNote(sps []Specimen, chosen, heldOut bool) string {
 	order := WidestStrips(sps)
 	if len(order) == 0 {
 		return ""
@@ -380,11 +384,20 @@ func stripsNote(sps []Specimen, chosen bool) string {
 			"; the form was chosen, not discovered, so no other candidate form measures how far the tests settle them; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
 	}
 	var parts []string
+	measured := false
 	for _, w := range order {
 		if w.Specimen == "" {
-			parts = append(parts, fmt.Sprintf("%s (%s): no form came near the cohort's on the pooled held-out protocols, nothing measures it", w.Label, specimensText(w.Listed)))
+			// Until 2026-12-05 a cohort of one-protocol specimens, with
+			// nothing held out, read that no form came near on the
+			// pooled held-out protocols.
+			why := "no form came near the cohort's on the pooled held-out protocols"
+			if !heldOut {
+				why = "no form was cross-validated (no specimen has a second protocol to hold one out)"
+			}
+			parts = append(parts, fmt.Sprintf("%s (%s): %s, nothing measures it", w.Label, specimensText(w.Listed), why))
 			continue
 		}
+		measured = true
 		part := fmt.Sprintf("%s (%s): up to %s %% (%s", w.Label, specimensText(w.Listed), card.PercentText(w.Percent), w.Specimen)
 		if w.LeavesRangeAt > 0 {
 			// A runaway beyond the tested range is extrapolation, not
@@ -393,8 +406,12 @@ func stripsNote(sps []Specimen, chosen bool) string {
 		}
 		parts = append(parts, part+")")
 	}
-	return "untested strips, the loadings the specimens' tests left out, with the widest spread over specimens of the forms the pooled held-out protocols could not tell from the cohort's, each fitted to that specimen, in per cent of its largest normal stress there: " +
-		strings.Join(parts, "; ") + "; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
+	intro := "untested strips, the loadings the specimens' tests left out, with the widest spread over specimens of the forms the pooled held-out protocols could not tell from the cohort's, each fitted to that specimen, in per cent of its largest normal stress there: "
+	if !measured {
+		// No spread to give: the strips are named with why.
+		intro = "untested strips, the loadings the specimens' tests left out: "
+	}
+	return intro + strings.Join(parts, "; ") + "; the parameters do not settle these loadings — see each specimen's card (untested_strips)"
 }
 
 // statisticsNotes say how to read the statistics.

@@ -68,7 +68,7 @@ func TestStripsNoteNamesTheWidestAndItsRange(t *testing.T) {
 			{Label: "0:1", Models: 0, Percent: nan, LeavesRangeAt: nan},
 			{Label: "1:0 turned −45°", Models: 1, Percent: 12, LeavesRangeAt: nan}}},
 	}
-	note := stripsNote(sps, false)
+	note := stripsNote(sps, false, true)
 	for _, want := range []string{
 		"1:0 (2 specimens): up to 2.91e+22 % (B, whose strip leaves its fitted data range from stretch 1.03 on)",
 		"0:1 (2 specimens): no form came near the cohort's on the pooled held-out protocols, nothing measures it",
@@ -78,7 +78,16 @@ func TestStripsNoteNamesTheWidestAndItsRange(t *testing.T) {
 			t.Errorf("note %q\nlacks %q", note, want)
 		}
 	}
-	if stripsNote([]Specimen{{Name: "C"}}, false) != "" {
+	if stripsNote([]Specimen{{Name: "C"}}, false, true) != "" {
 		t.Error("a note without strips")
+	}
+	// A cohort whose every specimen was tested with one protocol has no
+	// held-out protocols: its unmeasured strips must not say that no form
+	// came near on them (synthetic cohort of three one-protocol 1:1
+	// files, 2026-12-05). Invented strips; the wording is weft's own.
+	one := []Specimen{{Name: "A", UntestedStrips: []card.UntestedStrip{{Label: "1:0", Models: 0, Percent: nan, LeavesRangeAt: nan}}}}
+	note = stripsNote(one, false, false)
+	if strings.Contains(note, "held-out protocols") || !strings.Contains(note, "1:0 (1 specimen): no form was cross-validated (no specimen has a second protocol to hold one out), nothing measures it") {
+		t.Errorf("one-protocol cohort: note %q", note)
 	}
 }

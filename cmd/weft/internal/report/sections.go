@@ -696,7 +696,14 @@ func protocolWeightWords(ps []card.DataProtocolCard) string {
 	if len(set) == 0 {
 		return ""
 	}
-	return ", times the relative weight given to each protocol (" + strings.Join(set, ", ") + "; 1 for the others)"
+	others := "; 1 for the others"
+	if len(set) == len(ps) {
+		// Every protocol was given one (a one-protocol fit with a
+		// weight read "2.00 for 1:1; 1 for the others" until
+		// 2026-12-05): there are no others.
+		others = ""
+	}
+	return ", times the relative weight given to each protocol (" + strings.Join(set, ", ") + others + ")"
 }
 
 // presetFitted is the catalogue's preset a chosen form was fitted as

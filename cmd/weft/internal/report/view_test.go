@@ -513,6 +513,14 @@ func TestMethodsNameProtocolWeights(t *testing.T) {
 	if want := "square root of its number of points, times the relative weight given to each protocol (3.00 for 1:1; 1 for the others). "; !strings.Contains(string(v.Methods), want) {
 		t.Errorf("methods lack %q:\n%s", want, v.Methods)
 	}
+	// A weight on every protocol (here the only one) leaves no others to
+	// count 1 (synthetic one-protocol file, --protocol-weight 1:1=2).
+	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Weight: 2}}
+	v = &reportView{}
+	in.methodsSection(v, Options{})
+	if want := "times the relative weight given to each protocol (2.00 for 1:1). "; !strings.Contains(string(v.Methods), want) {
+		t.Errorf("methods lack %q:\n%s", want, v.Methods)
+	}
 	// Default weights (and cards without recorded weights) add nothing.
 	in.data.Protocols = []card.DataProtocolCard{{Label: "1:1", Weight: 1}, {Label: "1:0.75"}}
 	v = &reportView{}

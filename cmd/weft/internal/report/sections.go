@@ -404,7 +404,14 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		if pr := in.presetFitted(); pr != nil {
 			// A published model keeps its name and citation (the
 			// catalogue's preset title and source).
-			form = ", the " + pr.Title + " (" + pr.Source + ") as weft's " + pr.Name + " preset,"
+			// A title naming the authors its source cites first
+			// ("... of Holzapfel, Gasser & Ogden") drops them: the
+			// citation names them.
+			title := pr.Title
+			if i := strings.LastIndex(title, " of "); i > 0 && strings.HasPrefix(pr.Source, title[i+len(" of "):]) {
+				title = title[:i]
+			}
+			form = ", the " + title + " (" + pr.Source + ") as weft's " + pr.Name + " preset,"
 		}
 		if in.cohortDiscovered() {
 			form = ", the one form weft cohort discovered for all specimens of its cohort from their pooled evidence (the cohort's report gives it),"

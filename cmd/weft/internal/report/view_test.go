@@ -592,14 +592,15 @@ func TestMethodsNamePreprocessing(t *testing.T) {
 // Holzapfel 2006 for goh; the catalogue's preset source), in the methods
 // paragraph too: it said only "The model form i1-lin + fib-expsq@pair with
 // a mirror fibre layout was fitted" and listed no reference for the model
-// (demo membrane-M3-sutured with --preset goh).
+// (demo membrane-M3-sutured with --preset goh). The title's "of Gasser,
+// Ogden & Holzapfel" is dropped before the citation that names them.
 func TestMethodsNameThePreset(t *testing.T) {
 	in := discoveredInput(true, []float64{0, 0}, nil, nil)
 	in.fit.Terms, in.fit.Layout = []string{"i1-lin", "fib-expsq@pair"}, "mirror"
 	in.card.Provenance = &card.Provenance{Software: "weft", Command: "weft fit", Options: []string{"--cycle=last", "--preset=goh", "--pair-axis=axis-1"}}
 	v := &reportView{}
 	in.methodsSection(v, Options{})
-	if want := "The model form i1-lin + fib-expsq@pair with a mirror fibre layout, the two-family fibre model with dispersion of Gasser, Ogden &amp; Holzapfel (Gasser, Ogden &amp; Holzapfel 2006"; !strings.Contains(string(v.Methods), want) {
+	if want := "The model form i1-lin + fib-expsq@pair with a mirror fibre layout, the two-family fibre model with dispersion (Gasser, Ogden &amp; Holzapfel 2006"; !strings.Contains(string(v.Methods), want) {
 		t.Errorf("methods lack %q:\n%s", want, v.Methods)
 	}
 	if !slices.Contains(v.References, presetReferences["goh"]) {

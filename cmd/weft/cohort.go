@@ -595,9 +595,18 @@ func cohortCards(ms []*cohortMember, c *aniso.Cohort, groupBy, unit, kind string
 					if cd.UntestedStrips, err = card.NewCohortUntestedStrips(protocolDeformations(m.spec), m.spec.Kind == biaxial.Nominal, card.FromFit(m.prob, cs.Result, ev), cs.Result.Model, pooled); err != nil {
 						return nil, nil, fmt.Errorf("%s: the untested strips: %w", m.file, err)
 					}
-				} else if c.Discovery == nil && m.spec != nil {
+				} else if m.spec != nil {
+					// A chosen form, or (should the cohort's own form have
+					// no fit on this specimen's search subset) no band:
+					// the strips are listed all the same.
+					why := chosenFormWhy
+					if c.Discovery != nil {
+						why = func(string) string {
+							return "the cohort's candidate forms could not be compared on this specimen"
+						}
+					}
 					var err error
-					if cd.UntestedStrips, err = card.NewUnmeasuredStrips(protocolDeformations(m.spec), m.spec.Kind == biaxial.Nominal, cd, cs.Result.Model, chosenFormWhy); err != nil {
+					if cd.UntestedStrips, err = card.NewUnmeasuredStrips(protocolDeformations(m.spec), m.spec.Kind == biaxial.Nominal, cd, cs.Result.Model, why); err != nil {
 						return nil, nil, fmt.Errorf("%s: the untested strips: %w", m.file, err)
 					}
 				}

@@ -372,6 +372,17 @@ func takeoverText(to takeover, ok bool, sym string) string {
 	return sym + " = " + fsig(to.at, 4)
 }
 
+// presetTitle is pr's title for a sentence that cites pr.Source: a title
+// naming the authors its source cites first ("two-family fibre model of
+// Holzapfel, Gasser & Ogden") drops them, since the citation names them.
+func presetTitle(pr *terms.Preset) string {
+	title := pr.Title
+	if i := strings.LastIndex(title, " of "); i > 0 && strings.HasPrefix(pr.Source, title[i+len(" of "):]) {
+		title = title[:i]
+	}
+	return title
+}
+
 // methodsSection writes a paragraph a paper can quote, its references and
 // the traceability of the fit.
 func (in *Input) methodsSection(v *reportView, o Options) {
@@ -404,14 +415,7 @@ func (in *Input) methodsSection(v *reportView, o Options) {
 		if pr := in.presetFitted(); pr != nil {
 			// A published model keeps its name and citation (the
 			// catalogue's preset title and source).
-			// A title naming the authors its source cites first
-			// ("... of Holzapfel, Gasser & Ogden") drops them: the
-			// citation names them.
-			title := pr.Title
-			if i := strings.LastIndex(title, " of "); i > 0 && strings.HasPrefix(pr.Source, title[i+len(" of "):]) {
-				title = title[:i]
-			}
-			form = ", the " + title + " (" + pr.Source + ") as weft's " + pr.Name + " preset,"
+			form = ", the " + presetTitle(pr) + " (" + pr.Source + ") as weft's " + pr.Name + " preset,"
 		}
 		if in.cohortDiscovered() {
 			form = ", the one form weft cohort discovered for all specimens of its cohort from their pooled evidence (the cohort's report gives it),"

@@ -767,11 +767,12 @@ func FromModel(m *aniso.Model, stressUnit string, signKnown []bool) *Card {
 	return c
 }
 
-// latexNumber writes x with six significant digits for LaTeX: a number
-// Go would write in e-notation (7.80914e-08) as a power of ten
-// (7.80914 \times 10^{-8}), which a typeset energy would otherwise show as
-// plain text (audit 2026-12-05, a weight of 7.8e-8 kPa).
-func latexNumber(x float64) string {
+// LaTeXNumber writes x with six significant digits for LaTeX math mode:
+// a number Go would write in e-notation (7.80914e-08) as a power of ten
+// (7.80914 \times 10^{-8}), which a typeset energy would otherwise show
+// as plain text (audit 2026-12-05, a weight of 7.8e-8 kPa). The card's
+// LaTeX energy and the LaTeX export both use it.
+func LaTeXNumber(x float64) string {
 	v := fmt.Sprintf("%.6g", x)
 	i := strings.IndexByte(v, 'e')
 	if i < 0 {
@@ -790,9 +791,9 @@ func EnergyText(m *aniso.Model, c *Card) (string, string) {
 	for _, t := range m.Terms {
 		p, l := t.Shape.Written(t.Params)
 		p = strings.ReplaceAll(p, "w*", fmt.Sprintf("%.6g*", t.Weight))
-		l = strings.ReplaceAll(l, "w", latexNumber(t.Weight))
+		l = strings.ReplaceAll(l, "w", LaTeXNumber(t.Weight))
 		for j, q := range t.Shape.Params {
-			v, lv := fmt.Sprintf("%.6g", t.Params[j]), latexNumber(t.Params[j])
+			v, lv := fmt.Sprintf("%.6g", t.Params[j]), LaTeXNumber(t.Params[j])
 			if t.Params[j] < 0 {
 				v, lv = "("+v+")", "("+lv+")" // a negative exponent stays one factor: 2/(-2)^2
 			}

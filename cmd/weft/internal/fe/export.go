@@ -689,18 +689,11 @@ func latexEscape(s string) string {
 	return r.Replace(s)
 }
 
-// latexNum writes a number to 6 significant digits, with a LaTeX minus.
+// latexNum writes a number to 6 significant digits in math mode, a power
+// of ten where Go would write e-notation (card.LaTeXNumber, which the
+// card's LaTeX energy uses too).
 func latexNum(v float64) string {
-	s := g6(v)
-	if strings.ContainsAny(s, "e") {
-		m, e, _ := strings.Cut(s, "e")
-		exp := strings.TrimLeft(strings.TrimPrefix(e, "+"), "0")
-		if strings.HasPrefix(e, "-") {
-			exp = "-" + strings.TrimLeft(e[1:], "0")
-		}
-		return "$" + m + `\times 10^{` + exp + "}$"
-	}
-	return "$" + s + "$"
+	return "$" + card.LaTeXNumber(v) + "$"
 }
 
 // WriteExportLaTeX writes d as a LaTeX fragment: the cautions, the

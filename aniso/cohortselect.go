@@ -571,18 +571,7 @@ func (c *cohortRun) crossValidate() {
 // verdict: one whose best BIC is less than walkBICMargin below the current
 // winner's. It returns the forms left out.
 func scoreAlongWalk(d *Discovery, ev evidence, score func(ks []int)) (skipped []string) {
-	minBIC := map[string]float64{}
-	var forms []string
-	for _, pc := range d.Pareto {
-		k := FormKey(pc.Result.Structure)
-		v, ok := minBIC[k]
-		if !ok {
-			forms = append(forms, k)
-		}
-		if !ok || pc.Result.BIC < v {
-			minBIC[k] = pc.Result.BIC
-		}
-	}
+	minBIC, forms := bestBICByForm(d)
 	sort.SliceStable(forms, func(a, b int) bool { return formRankOfKey(d, forms[a]) < formRankOfKey(d, forms[b]) })
 	floor := seFloor(d.noiseLevel(ev), ev)
 	var win *formBest
@@ -609,6 +598,24 @@ func scoreAlongWalk(d *Discovery, ev evidence, score func(ks []int)) (skipped []
 		}
 	}
 	return skipped
+}
+
+// bestBICByForm returns the lowest BIC of d's candidates of each form
+// (FormKey) and the forms in the order they first appear.
+func bestBICByForm(d *Discovery) (map[string]float64, []string) {
+	minBIC := map[string]float64{}
+	var forms []string
+	for _, pc := range d.Pareto {
+		k := FormKey(pc.Result.Structure)
+		v, ok := minBIC[k]
+		if !ok {
+			forms = append(forms, k)
+		}
+		if !ok || pc.Result.BIC < v {
+			minBIC[k] = pc.Result.BIC
+		}
+	}
+	return minBIC, forms
 }
 
 // formRankOfKey is the walk rank of the form key k among d's candidates.
@@ -779,13 +786,7 @@ func (c *cohortRun) scoreForBand() {
 	for _, fk := range c.skipped {
 		left[fk] = true
 	}
-	minBIC := map[string]float64{}
-	for _, pc := range d.Pareto {
-		k := FormKey(pc.Result.Structure)
-		if v, ok := minBIC[k]; !ok || pc.Result.BIC < v {
-			minBIC[k] = pc.Result.BIC
-		}
-	}
+	minBIC, _ := bestBICByForm(d)
 	var ks []int
 	for k, pc := range d.Pareto {
 		fk := FormKey(pc.Result.Structure)

@@ -11,6 +11,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
@@ -255,9 +256,16 @@ func (s *Summary) populationView(v *pageView, cards map[string]*card.Card) {
 	if c := cards[MeanCard]; c != nil {
 		v.MeanEnergy = c.Energy
 	}
-	v.Largest.Head = []string{"protocol", "axis", "at F (specimen)", "population", "mean parameters", "difference", "relative"}
+	// The stresses are in the cohort's measure, which may be nominal: the
+	// column names it by its symbol (σ11 or P11), as every other table and
+	// plot of weft does, so that a nominal stress is not read as Cauchy.
+	kind := biaxial.Cauchy
+	if s.StressKind == biaxial.Nominal.String() {
+		kind = biaxial.Nominal
+	}
+	v.Largest.Head = []string{"protocol", kind.Words() + " stress", "at F (specimen)", "population", "mean parameters", "difference", "relative"}
 	for _, sc := range p.AtLargestStretch {
-		v.Largest.Rows = append(v.Largest.Rows, htmlRow{Cells: []string{sc.Protocol, sc.Component,
+		v.Largest.Rows = append(v.Largest.Rows, htmlRow{Cells: []string{sc.Protocol, kind.Symbol(sc.Component),
 			fmt.Sprintf("%.4g, %.4g, %.4g, %.4g (%s)", sc.F[0], sc.F[1], sc.F[2], sc.F[3], sc.Specimen),
 			cell(sc.Population, 4) + " " + s.StressUnit, cell(sc.MeanParameters, 4) + " " + s.StressUnit, cell(sc.Difference, 3) + " " + s.StressUnit,
 			pctCell(sc.Relative)}})

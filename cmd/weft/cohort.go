@@ -810,10 +810,22 @@ const cohortCommand = "weft cohort"
 func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card) error {
 	var refs []inputRef
 	var read []*cohortMember
-	for _, m := range t.members {
+	for i, m := range t.members {
 		if m.spec != nil {
 			refs = append(refs, inputRef{filepath.FromSlash(m.file), m.spec.Sheet, m.spec.Digest})
 			read = append(read, m)
+			continue
+		}
+		// A file that was read but refused still decides the result (its
+		// failed row and error), so the summary records its bytes too; one
+		// that cannot be opened at all was not read and has none, and one
+		// given twice is recorded once.
+		if sameMember(m, t.members[:i]) != nil {
+			continue
+		}
+		if dg, err := biaxial.FileDigest(filepath.FromSlash(m.file)); err == nil {
+			refs = append(refs, inputRef{path: filepath.FromSlash(m.file), digest: dg})
+			read = append(read, nil)
 		}
 	}
 	if t.groupFile != "" {
@@ -825,7 +837,9 @@ func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card
 	}
 	inputOf := map[*cohortMember]card.InputFile{}
 	for i, m := range read {
-		inputOf[m] = hashed[i]
+		if m != nil {
+			inputOf[m] = hashed[i]
+		}
 	}
 	options := append(readOptionList(t.co.read, t.co.read.Sheet), t.form...)
 	var fitted, pooled []card.InputFile

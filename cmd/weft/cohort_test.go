@@ -1,6 +1,7 @@
 package main
 
 import (
+	"crypto/sha256"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -629,5 +630,46 @@ func TestCohortWeightRefusalNamesUnreadFiles(t *testing.T) {
 	}
 	if err := checkCohortWeights(ms, map[string]float64{"1:1": 2}); err != nil {
 		t.Errorf("a label a read file has: %v", err)
+	}
+}
+
+// cohort.json records every file read with its SHA-256, a file refused
+// for its content included: its failed row and error are part of the
+// result. Until 2026-12-05 only the files that gave a specimen were
+// recorded, so a cohort of two SYNTHETIC neo-Hookean membranes and a file
+// without stress columns listed 2 inputs, not 3. The hash is checked
+// against Go's crypto/sha256 (FIPS 180-4); a file given twice is recorded
+// once and one that does not exist, never read, not at all.
+func TestCohortRecordsTheFilesItRefused(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	a := writeMembrane(t, dir, "a.csv", func(float64) float64 { return 20 }, membraneOptions{points: 20, maxStrain: 0.15, copyRow: -1})
+	b := writeMembrane(t, dir, "b.csv", func(float64) float64 { return 24 }, membraneOptions{points: 20, maxStrain: 0.15, copyRow: -1})
+	bad := writeTemp(t, "c-bad.csv", "protocol,stretch_1,stretch_2\n1:1,1,1\n")
+	out := filepath.Join(dir, "cohort")
+	_, stderr, code := runWeft(t, "cohort", "-o", out, "--quiet", "--preset", "neo-hookean", "--no-specimen-reports",
+		a, b, bad, bad, filepath.Join(dir, "missing.csv"))
+	if code != 1 {
+		t.Fatalf("exit %d, stderr %q; want 1", code, stderr)
+	}
+	raw, err := os.ReadFile(bad)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := fmt.Sprintf("%x", sha256.Sum256(raw))
+	s := readCohortJSON(t, out)
+	var names []string
+	found := 0
+	for _, in := range s.Provenance.Inputs {
+		names = append(names, in.File)
+		if in.File == filepath.Base(bad) {
+			found++
+			if in.SHA256 != want || in.Bytes != int64(len(raw)) {
+				t.Errorf("%s recorded as %d bytes, %s; want %d, %s", in.File, in.Bytes, in.SHA256, len(raw), want)
+			}
+		}
+	}
+	if found != 1 || len(names) != 3 {
+		t.Errorf("inputs %q; want a.csv, b.csv and c-bad.csv once each", names)
 	}
 }

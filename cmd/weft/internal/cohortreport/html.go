@@ -202,12 +202,16 @@ func (s *Summary) view(in *Input, title string, cards map[string]*card.Card) *pa
 	}
 	s.comparisonTable(v)
 	s.populationView(v, cards)
-	v.FileList = []string{"cohort.csv: one row per specimen, its parameters, lowest R² and held-out error",
+	v.FileList = []string{csvFileLine,
 		"cohort.json: the form, verdict, specimens, statistics and group comparisons as data",
 		PopulationCard + ": the population model card", MeanCard + ": the mean-parameter model card",
 		"<specimen>.weft/: each fitted specimen's folder as 'weft fit' writes it", "report.html and plots/: this report and its figures as SVG and PNG"}
 	return v
 }
+
+// csvFileLine is what the report's file list says of cohort.csv: one
+// row per file, a failed one too, with the columns Summary.CSV writes.
+const csvFileLine = "cohort.csv: one row per file, a failed one with its error: its parameters, lowest R², held-out error and misfit ratio"
 
 // comparisonTable fills the group comparison.
 func (s *Summary) comparisonTable(v *pageView) {

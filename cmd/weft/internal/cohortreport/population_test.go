@@ -2,6 +2,7 @@ package cohortreport
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
@@ -46,5 +47,31 @@ func TestLargestStretchTableNamesTheStressMeasure(t *testing.T) {
 		if v.Largest.Head[1] != c.head || v.Largest.Rows[0].Cells[1] != c.symbol || v.Largest.Rows[1].Cells[1] != c.symbol[:len(c.symbol)-2]+"22" {
 			t.Errorf("%s: column %q, cells %q, %q; want %q, %q", c.kind, v.Largest.Head[1], v.Largest.Rows[0].Cells[1], v.Largest.Rows[1].Cells[1], c.head, c.symbol)
 		}
+	}
+}
+
+// The report's file list describes cohort.csv as the README's table of
+// outputs does (weft's own contract, "Outputs in DIR"): one row per file,
+// failed ones included, with lowest_r2, heldout_error and misfit_ratio.
+// Until 2026-12-05 it said "one row per specimen" and left out the
+// failed rows and the misfit ratio. Invented rows.
+func TestFileListDescribesTheCSV(t *testing.T) {
+	s := &Summary{Specimens: []SpecimenRow{{File: "a.csv", Specimen: "A", Status: "ok"}, {File: "b.csv", Specimen: "b", Status: "failed", Error: "no stress columns"}}}
+	b, err := s.CSV()
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(b)), "\n")
+	if len(lines) != 3 {
+		t.Fatalf("cohort.csv has %d lines, want a header and one row per file:\n%s", len(lines), b)
+	}
+	words := map[string]string{"lowest_r2": "lowest R²", "heldout_error": "held-out error", "misfit_ratio": "misfit ratio", "error": "error"}
+	for _, col := range strings.Split(lines[0], ",") {
+		if w, ok := words[col]; ok && !strings.Contains(csvFileLine, w) {
+			t.Errorf("the file list does not name column %s (%q): %q", col, w, csvFileLine)
+		}
+	}
+	if !strings.Contains(csvFileLine, "one row per file") || !strings.Contains(csvFileLine, "failed") {
+		t.Errorf("the file list does not say cohort.csv has a row per file, failed ones too: %q", csvFileLine)
 	}
 }

@@ -168,6 +168,11 @@ type ParamInfo struct {
 	// data of some specimen cannot tell its sign.
 	Absolute bool   `json:"absolute"`
 	Note     string `json:"note,omitempty"`
+	// signlessPair marks the two angles of a mirror pair with a free axis
+	// when some specimen's data cannot tell the sign of an angle: each
+	// specimen's θ and β are then read from its families' magnitudes (see
+	// signlessPair), not summarised one by one.
+	signlessPair bool
 }
 
 // SpecimenRow is one specimen in cohort.json and cohort.csv.
@@ -502,8 +507,15 @@ func parameters(in *Input) []ParamInfo {
 	if first == nil {
 		return out
 	}
+	freePair := first.Structure.Layout == aniso.LayoutMirror && !first.Structure.HoldPairAxis
 	for _, e := range first.Estimates {
 		p := ParamInfo{Name: e.Name, Unit: e.Unit, Kind: e.Kind}
+		if !signKnown && freePair && (e.Name == "mean_angle" || e.Name == "half_angle") {
+			p.signlessPair = true
+			p.Note = signlessPairNote
+			out = append(out, p)
+			continue
+		}
 		if isPeriodicAngle(e) {
 			if signKnown {
 				p.Note = "signed angle, each specimen's taken on the branch (modulo 180°) nearest the population's"
@@ -559,6 +571,9 @@ func (s *Summary) specimenRows(in *Input) [][]float64 {
 				e = rename(e)
 				byName[e.Name] = e
 			}
+			if !signKnown {
+				signlessPairAngles(byName, sp.Result, row.FamiliesRelabelled)
+			}
 			if r2 := card.LowestR2(sp.Result.Metrics); !math.IsInf(r2, 1) {
 				row.LowestR2 = card.Num(r2)
 			}
@@ -596,10 +611,42 @@ func pairRelabelled(e aniso.Estimate) aniso.Estimate {
 	return e
 }
 
+// signlessPairNote is the note of a free mirror pair's angles when some
+// specimen's data cannot tell the sign of an angle.
+const signlessPairNote = "a mirror pair whose angles' signs the data of at least one specimen do not determine: each specimen's families are read as the mean-parameter card reads them, the first at +|α1| and the second at −|α2|, so mean_angle = (|α1| − |α2|)/2 and half_angle = (|α1| + |α2|)/2"
+
+// signlessPairAngles replaces a free mirror pair's mean_angle and
+// half_angle in byName by those of its families' magnitudes, the first
+// family at +|α1| and the second at −|α2| (swapped says its labels were
+// exchanged to match the population's). Without shear information a
+// family at α and one at −α give the same normal stresses, I4 =
+// λ1²cos²α + λ2²sin²α being even in α (Holzapfel, Gasser & Ogden 2000),
+// so one pair has many (θ, β): SYNTHETIC pairs near ±35° and ±50°
+// about axis 1 were fitted as (34°, 0°), (55°, 90°) and (0.4°, 51.4°),
+// and averaged as fitted their half angles came out 22.5° and 35.1°
+// where the mean-parameter card, which reads families this way, had one
+// pair at 0.2° ± 42.0°.
+func signlessPairAngles(byName map[string]aniso.Estimate, r *aniso.Result, swapped bool) {
+	if r.Structure.Layout != aniso.LayoutMirror || r.Structure.HoldPairAxis || len(r.Model.Families) != 2 {
+		return
+	}
+	a0, a1 := r.Model.Families[0].Angle, r.Model.Families[1].Angle
+	if swapped {
+		a0, a1 = a1, a0
+	}
+	m0, m1 := math.Abs(aniso.WrapDeg(aniso.Deg(a0))), math.Abs(aniso.WrapDeg(aniso.Deg(a1)))
+	for name, v := range map[string]float64{"mean_angle": (m0 - m1) / 2, "half_angle": (m0 + m1) / 2} {
+		if e, ok := byName[name]; ok {
+			e.Value = v
+			byName[name] = e
+		}
+	}
+}
+
 // summarisedValue is an estimate as the statistics take it: a periodic
 // angle as |α| or on the branch nearest the population's value.
 func summarisedValue(p ParamInfo, v float64, ref map[string]float64) float64 {
-	if p.Kind != "angle" || p.Name == "half_angle" {
+	if p.Kind != "angle" || p.Name == "half_angle" || p.signlessPair {
 		return v
 	}
 	v = aniso.WrapDeg(v)

@@ -1,6 +1,7 @@
 package cohortreport
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -89,5 +90,71 @@ func TestStripsNoteNamesTheWidestAndItsRange(t *testing.T) {
 	note = stripsNote(one, false, false)
 	if strings.Contains(note, "held-out protocols") || !strings.Contains(note, "1:0 (1 specimen): no form was cross-validated (no specimen has a second protocol to hold one out), nothing measures it") {
 		t.Errorf("one-protocol cohort: note %q", note)
+	}
+}
+
+// Without shear information a fibre family at α and one at −α give the
+// same normal stresses under a pure biaxial stretch, I4 = λ1²cos²α +
+// λ2²sin²α being even in α (Holzapfel, Gasser & Ogden 2000), so a mirror
+// pair with a free axis θ ± β has many parameterisations: a pair at ±35°
+// about axis 1 is also (35°, 0°) and (55°, 90°). Invented fits of a
+// SYNTHETIC cohort, sign unknown, population at (42.8°, 0°): specimens at
+// (34°, 0°), (55°, 90°) and (0.4°, 51.4°) must be read as the pairs
+// 0° ± 34°, 0° ± 35° and 0.4° ± 51.4° (by hand: 55° + 90° = 145° ≡ −35°,
+// 55° − 90° = −35°; 0.4° ± 51.4° = 51.8°, −51.0°), and the statistics'
+// means must be the mean-parameter card's θ and β (aniso.MeanModel).
+// Until 2026-12-05 they were averaged as fitted: half angles 0°, 90° and
+// 51.4°.
+func TestSignlessFreePairReadAsTheMeanCardReadsIt(t *testing.T) {
+	for _, a := range []float64{10, 35, 80} {
+		i4 := func(alpha float64) float64 {
+			c, s := math.Cos(aniso.Rad(alpha)), math.Sin(aniso.Rad(alpha))
+			return 1.2*1.2*c*c + 1.1*1.1*s*s
+		}
+		if math.Abs(i4(a)-i4(-a)) > 1e-15 {
+			t.Fatalf("I4 not even in α at %g°", a)
+		}
+	}
+	pair := func(theta, beta float64) *aniso.Result {
+		m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(aniso.WrapDeg(theta + beta))}, {Name: "f2", Angle: aniso.Rad(aniso.WrapDeg(theta - beta))}},
+			Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
+				{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 50, Params: []float64{4}},
+				{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 50, Params: []float64{4}}}}
+		return &aniso.Result{Model: m, SignKnown: false, Structure: aniso.Structure{Layout: aniso.LayoutMirror},
+			Estimates: []aniso.Estimate{{Name: "weight[i1-lin]", Kind: "weight", Value: 3, Unit: "kPa"},
+				{Name: "mean_angle", Kind: "angle", Value: theta, Unit: "deg"},
+				{Name: "half_angle", Kind: "angle", Value: beta, Unit: "deg"}}}
+	}
+	pop := pair(42.8, 0)
+	fits := []*aniso.Result{pair(34, 0), pair(55, 90), pair(0.4, 51.4)}
+	in := &Input{Cohort: &aniso.Cohort{Population: pop}}
+	for i, r := range fits {
+		in.Specimens = append(in.Specimens, Specimen{File: fmt.Sprintf("s%d.csv", i), Name: fmt.Sprintf("S%d", i), Result: r})
+	}
+	s := &Summary{}
+	s.Parameters = parameters(in)
+	values := s.specimenRows(in)
+	want := map[string][]float64{"mean_angle": {0, 0, 0.4}, "half_angle": {34, 35, 51.4}}
+	mm, err := aniso.MeanModel(fits, pop.Model)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a0, a1 := aniso.Deg(mm.Families[0].Angle), aniso.Deg(mm.Families[1].Angle)
+	card := map[string]float64{"mean_angle": (a0 + a1) / 2, "half_angle": math.Abs(a0-a1) / 2}
+	for k, p := range s.Parameters {
+		w, ok := want[p.Name]
+		if !ok {
+			continue
+		}
+		mean := 0.0
+		for i := range w {
+			if math.Abs(values[k][i]-w[i]) > 1e-9 {
+				t.Errorf("%s of specimen %d = %g°, want %g°", p.Name, i, values[k][i], w[i])
+			}
+			mean += values[k][i] / float64(len(w))
+		}
+		if math.Abs(mean-card[p.Name]) > 1e-9 {
+			t.Errorf("mean %s %g°, the mean-parameter card's %g°", p.Name, mean, card[p.Name])
+		}
 	}
 }

@@ -673,3 +673,32 @@ func TestCohortRecordsTheFilesItRefused(t *testing.T) {
 		t.Errorf("inputs %q; want a.csv, b.csv and c-bad.csv once each", names)
 	}
 }
+
+// A term of the shared form that a specimen's fit puts at exactly zero
+// weight raises no flag, yet its zero is averaged like any value: the
+// cohort names such specimens (inactive_terms and a note). Two SYNTHETIC
+// neo-Hookean membranes, σ = 2 c10 (B − λ3² I) (Rivlin 1948, as in
+// Holzapfel 2000, §6.5), fitted with the Mooney–Rivlin form i1-lin +
+// i2-lin: a neo-Hookean solid has no I2 term, so C01 = 0 is its exact fit
+// (Mooney 1940; Rivlin 1948), and both specimens list i2-lin.
+func TestCohortNamesTermsAtZeroWeight(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	var files []string
+	for i, c10 := range []float64{10, 12} {
+		files = append(files, writeMembrane(t, dir, fmt.Sprintf("nh%d.csv", i), func(float64) float64 { return 2 * c10 }, membraneOptions{points: 20, maxStrain: 0.15, copyRow: -1}))
+	}
+	out := filepath.Join(dir, "cohort")
+	if _, stderr, code := runWeft(t, append([]string{"cohort", "-o", out, "--quiet", "--terms", "i1-lin,i2-lin", "--no-specimen-reports"}, files...)...); code != exitOK {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	doc := readCohortJSON(t, out)
+	for _, r := range doc.Specimens {
+		if !slices.Equal(r.Inactive, []string{"i2-lin"}) {
+			t.Errorf("%s: inactive terms %q, want i2-lin", r.File, r.Inactive)
+		}
+	}
+	if note := noteWith(doc.Notes, "inactive_terms"); !strings.Contains(note, "nh0 (1)") || !strings.Contains(note, "nh1 (1)") {
+		t.Errorf("notes %q", doc.Notes)
+	}
+}

@@ -502,3 +502,23 @@ func TestOutputIsNeverAnInputOfTheRun(t *testing.T) {
 	}
 	noHelpers(t, root)
 }
+
+// 'weft report DIR --force' on a read-only output folder is bad input
+// (exit 2), found before the report is built, like every other output
+// path (README, Overwriting and --force: "a read-only folder ... reported
+// at once"); it was exit 1 with "cannot write DIR/plots (permission
+// denied)" after the work. Permission bits do not stop root (POSIX).
+func TestReportIntoReadOnlyFolderIsBadInput(t *testing.T) {
+	if os.Getuid() == 0 {
+		t.Skip("root writes into read-only folders anyway")
+	}
+	dir := demoFitCopy(t, "membrane-M1")
+	if err := os.Chmod(dir, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chmod(dir, 0o755)
+	_, errs, code := runWeft(t, "report", dir, "--force")
+	if code != exitBadInput || !strings.Contains(errs, "cannot write in "+dir) {
+		t.Errorf("exit %d, %q; want exit 2 and %q", code, errs, "cannot write in "+dir)
+	}
+}

@@ -61,7 +61,7 @@ the tested protocols do not settle the prediction.
 
 ` + helpCautions,
 		Example: `  weft predict model.json path.csv
-  weft predict out/model.json testdata/example/stretch-path.csv -o stresses.csv`,
+  weft predict skin-A-hgo/model.json testdata/example/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var err error

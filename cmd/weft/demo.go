@@ -35,7 +35,7 @@ weft-demo. Existing files are not overwritten without --force.`,
   weft inspect weft-demo/*.csv`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 1 {
-				return badInputf("demo takes at most one DIR")
+				return badInputf("demo takes at most one DIR, got %d; see 'weft demo --help'", len(args))
 			}
 			return nil
 		},

@@ -209,3 +209,28 @@ func TestHelpExamplesNeedNoMissingFolder(t *testing.T) {
 		}
 	}
 }
+
+// An unknown command, and too many arguments to demo, are bad input whose
+// message says what to type besides what is wrong, as every other usage
+// error does; 'weft bogus' printed only `unknown command "bogus" for
+// "weft"`, and 'weft demo a b' only "demo takes at most one DIR".
+func TestUsageErrorsSayWhatToType(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want []string
+	}{
+		{[]string{"bogus"}, []string{`unknown command "bogus"`, "'weft --help' lists the commands"}},
+		{[]string{"fti"}, []string{`unknown command "fti"`, "'weft --help' lists the commands", "Did you mean this?\n\tfit"}},
+		{[]string{"demo", "a", "b"}, []string{"at most one DIR", "'weft demo --help'"}},
+	} {
+		out, errs, code := runWeft(t, c.args...)
+		if code != exitBadInput || out != "" {
+			t.Errorf("%v: exit %d, stdout %q; want exit 2 and nothing on standard output", c.args, code, out)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(errs, w) {
+				t.Errorf("%v: %q lacks %q", c.args, errs, w)
+			}
+		}
+	}
+}

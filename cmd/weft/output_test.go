@@ -522,3 +522,36 @@ func TestReportIntoReadOnlyFolderIsBadInput(t *testing.T) {
 		t.Errorf("exit %d, %q; want exit 2 and %q", code, errs, "cannot write in "+dir)
 	}
 }
+
+// 'weft demo DIR --force' replaces only demo files, recognised by their
+// first line; a project's own README.md (or any file of a demo name that
+// 'weft demo' did not write) is kept and the run is bad input (exit 2)
+// before any file is written. Until 2026-12-05 'weft demo . --force'
+// replaced a project's README.md with the demo's.
+func TestDemoForceReplacesOnlyDemoFiles(t *testing.T) {
+	dir := t.TempDir()
+	if _, errs, code := runWeft(t, "demo", dir); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	readme := filepath.Join(dir, "README.md")
+	csv := filepath.Join(dir, "membrane-M1.csv")
+	// A demo file saved again with CRLF line ends is still weft's.
+	b, _ := os.ReadFile(csv)
+	os.WriteFile(csv, bytes.ReplaceAll(b, []byte("\n"), []byte("\r\n")), 0o644)
+	if _, errs, code := runWeft(t, "demo", dir, "--force"); code != 0 {
+		t.Fatalf("--force over the demo's own files: exit %d: %s", code, errs)
+	}
+	os.WriteFile(readme, []byte("# My project\n"), 0o644)
+	os.Remove(csv)
+	_, errs, code := runWeft(t, "demo", dir, "--force")
+	if code != exitBadInput || !strings.Contains(errs, "README.md exists and was not written by 'weft demo'") {
+		t.Errorf("--force over a project's README.md: exit %d, %q; want exit 2", code, errs)
+	}
+	if got, _ := os.ReadFile(readme); string(got) != "# My project\n" {
+		t.Errorf("README.md was replaced: %q", got)
+	}
+	if _, err := os.Stat(csv); err == nil {
+		t.Error("a demo file was written although another was refused")
+	}
+	noHelpers(t, dir)
+}

@@ -135,7 +135,7 @@ func readKinematics(path string, lim biaxial.Limits) ([]byte, error) {
 		return nil, tooLargeError(path, max, biaxial.ErrFileSize)
 	}
 	if err != nil {
-		return nil, badInputf("cannot read %s (%s)", path, safeout.Reason(err))
+		return nil, badInputf("%s: cannot read the file (%s) — check the path and permissions", path, safeout.Reason(err))
 	}
 	return b, nil
 }

@@ -555,3 +555,24 @@ func TestDemoForceReplacesOnlyDemoFiles(t *testing.T) {
 	}
 	noHelpers(t, dir)
 }
+
+// 'weft report DIR' writes only inside DIR, so a parent folder the user
+// may not write (a shared results folder) does not stop it: the lock it
+// could not create beside DIR is taken inside DIR instead. It stopped with
+// exit 2, "cannot write in PARENT (permission denied)". Permission bits
+// do not stop root (POSIX), so the test needs another user.
+func TestReportInReadOnlyParent(t *testing.T) {
+	if os.Getuid() == 0 {
+		t.Skip("root writes into read-only folders anyway")
+	}
+	dir := demoFitCopy(t, "membrane-M1")
+	parent := filepath.Dir(dir)
+	if err := os.Chmod(parent, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chmod(parent, 0o755)
+	if _, errs, code := runWeft(t, "report", dir, "--force"); code != exitOK {
+		t.Errorf("exit %d, %q; want 0", code, errs)
+	}
+	noHelpers(t, dir)
+}

@@ -368,7 +368,10 @@ func TestInterruptAndKill(t *testing.T) {
 		t.Skip("runs weft as a separate process")
 	}
 	data := filepath.Join(copyDemo(t, "patch-P2.csv"), "patch-P2.csv")
-	for _, sig := range []os.Signal{os.Interrupt, syscall.SIGTERM, syscall.SIGKILL} {
+	// SIGHUP (a closed terminal or remote session) is handled like the
+	// others; it killed the run outright, leaving the temporary folder and
+	// the lock file and the exit status 129.
+	for _, sig := range []os.Signal{os.Interrupt, syscall.SIGTERM, syscall.SIGHUP, syscall.SIGKILL} {
 		root := t.TempDir()
 		out := filepath.Join(root, "out")
 		p := weftProcess("fit", data, "-o", out, "--quiet")
@@ -407,6 +410,44 @@ func TestInterruptAndKill(t *testing.T) {
 			t.Errorf("%v left %v", sig, entries)
 		}
 	}
+}
+
+// A signal ignored when weft starts (nohup for SIGHUP; a background job
+// of a script for SIGINT, POSIX sh) stays ignored, so the run finishes and
+// writes its folder; catching every signal it handles would undo what the
+// caller asked for (Go's os/signal: Notify on an ignored SIGHUP or SIGINT
+// installs a handler).
+func TestIgnoredSignalsStayIgnored(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs weft as a separate process")
+	}
+	data := filepath.Join(copyDemo(t, "patch-P2.csv"), "patch-P2.csv")
+	root := t.TempDir()
+	out := filepath.Join(root, "out")
+	p := exec.Command("sh", "-c", `trap '' INT HUP; exec "$0" "$@"`, os.Args[0], "fit", data, "-o", out, "--quiet")
+	p.Env = append(os.Environ(), "WEFT_RUN_MAIN=1")
+	var errb bytes.Buffer
+	p.Stderr = &errb
+	if err := p.Start(); err != nil {
+		t.Fatal(err)
+	}
+	deadline := time.Now().Add(20 * time.Second)
+	for {
+		m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*"))
+		if len(m) > 0 || time.Now().After(deadline) {
+			break
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
+	p.Process.Signal(syscall.SIGHUP)
+	p.Process.Signal(os.Interrupt)
+	if err := p.Wait(); err != nil {
+		t.Fatalf("ignored SIGHUP and SIGINT stopped the run: %v, %s", err, errb.String())
+	}
+	if _, err := os.Stat(filepath.Join(out, "model.json")); err != nil {
+		t.Errorf("no output folder: %v", err)
+	}
+	noHelpers(t, root)
 }
 
 // Finding 6: outputs name the input by its base name only, so the same data

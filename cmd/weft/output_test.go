@@ -242,7 +242,20 @@ func TestOutputProblemsAreBadInput(t *testing.T) {
 		cases = append(cases, struct {
 			args []string
 			want string
-		}{[]string{"fit", zero, "-o", filepath.Join(ro, "out")}, "cannot write in " + ro})
+		}{[]string{"fit", zero, "-o", filepath.Join(ro, "out")}, "cannot write in " + ro + " (permission denied); check that the folder exists and is writable or choose another output"})
+		// The default output lies beside the input: a read-only data
+		// folder is the common case, and the message says to write
+		// elsewhere (it said only to check the folder).
+		in := filepath.Join(root, "rodata")
+		os.Mkdir(in, 0o755)
+		b, _ := os.ReadFile(zero)
+		os.WriteFile(filepath.Join(in, "zero.csv"), b, 0o644)
+		os.Chmod(in, 0o555)
+		t.Cleanup(func() { os.Chmod(in, 0o755) })
+		cases = append(cases, struct {
+			args []string
+			want string
+		}{[]string{"fit", filepath.Join(in, "zero.csv")}, "cannot write in " + in + " (permission denied); check that the folder exists and is writable or choose another output"})
 	}
 	for _, c := range cases {
 		_, errs, code := runWeft(t, c.args...)

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"path"
@@ -365,7 +366,8 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		return "", nil
 	}
 	file := ""
-	if st, err := os.Stat(by); err == nil && st.Mode().IsRegular() {
+	st, err := os.Stat(by)
+	if err == nil && st.Mode().IsRegular() {
 		table, err := readGroupTable(by)
 		if err != nil {
 			return "", err
@@ -389,10 +391,25 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		file = by
 	} else {
 		key := strings.ToLower(strings.TrimSpace(by))
+		found := false
 		for _, m := range ms {
 			if m.spec != nil {
 				m.group = strings.TrimSpace(m.spec.Meta[key])
+				_, has := m.spec.Meta[key]
+				found = found || has
 			}
+		}
+		// A group table that is missing (a typo, another folder) would
+		// otherwise be read as a metadata key no file has, leaving every
+		// specimen without a group and the run a success.
+		if !found && (looksLikePath(by) || err == nil) {
+			why := "no such file"
+			if err != nil && !errors.Is(err, fs.ErrNotExist) {
+				why = safeout.Reason(err)
+			} else if err == nil {
+				why = "not a regular file"
+			}
+			return "", badInputf("--group-by %s: %s, and no file has a metadata line %q; give a two-column CSV of file,group that exists, or a metadata key", by, why, "# "+key+" = …")
 		}
 	}
 	for _, m := range ms {
@@ -406,6 +423,17 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		}
 	}
 	return file, nil
+}
+
+// looksLikePath reports whether a --group-by value names a file rather
+// than a metadata key: it holds a path separator, or ends in .csv or .txt
+// (a key may hold dots, so a bare name without those endings stays a key).
+func looksLikePath(by string) bool {
+	if strings.ContainsAny(by, `/`+string(filepath.Separator)) {
+		return true
+	}
+	ext := strings.ToLower(filepath.Ext(by))
+	return ext == ".csv" || ext == ".txt"
 }
 
 // groupRow is a row of a group table: the group and the row's line.

@@ -6,6 +6,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // A group table is refused when a row cannot say which file it means: a
@@ -60,5 +62,35 @@ func TestGroupTableByteOrderMark(t *testing.T) {
 	}
 	if ms[0].group != "X" || ms[1].group != "Y" {
 		t.Errorf("groups %q, %q; want X, Y", ms[0].group, ms[1].group)
+	}
+}
+
+// A --group-by value that names a file which is not there (a typo, the
+// table left in another folder) is bad input, exit 2, before any fit: it
+// was read as a metadata key that no file has, so every specimen was left
+// out of the group comparisons and the run succeeded (exit 0). A real
+// metadata key still groups, and a key with a dot that a file has is
+// still a key (biaxial keys may hold '.', see README, Comments and
+// metadata).
+func TestGroupByMissingTableIsBadInput(t *testing.T) {
+	dir := t.TempDir()
+	spec := func(meta map[string]string) *biaxial.Specimen { return &biaxial.Specimen{Meta: meta} }
+	members := func() []*cohortMember {
+		return []*cohortMember{
+			{file: "s00.csv", spec: spec(map[string]string{"donor": "A", "site.code": "x"})},
+			{file: "s01.csv", spec: spec(map[string]string{"donor": "B", "site.code": "y"})},
+		}
+	}
+	for _, by := range []string{filepath.Join(dir, "groups.csv"), "groups.csv", "tables/groups", "groups.TXT", dir} {
+		_, err := assignGroups(members(), by, io.Discard)
+		if exitCode(err) != exitBadInput || !strings.Contains(err.Error(), "--group-by "+by+": ") {
+			t.Errorf("--group-by %s: exit %d, %v; want exit 2 naming the missing table", by, exitCode(err), err)
+		}
+	}
+	for _, c := range []struct{ by, want string }{{"donor", "A"}, {"site.code", "x"}, {"age", ""}} {
+		ms := members()
+		if _, err := assignGroups(ms, c.by, io.Discard); err != nil || ms[0].group != c.want {
+			t.Errorf("--group-by %s: %v, group %q; want %q", c.by, err, ms[0].group, c.want)
+		}
 	}
 }

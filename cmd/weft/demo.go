@@ -1,7 +1,10 @@
 package main
 
 import (
+	"bytes"
 	"fmt"
+	"io"
+	"os"
 	"path/filepath"
 
 	"github.com/weft-tools/weft/cmd/weft/internal/demo"
@@ -35,7 +38,7 @@ weft-demo. Existing files are not overwritten without --force.`,
   weft inspect weft-demo/*.csv`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 1 {
-				return badInputf("demo takes at most one DIR")
+				return badInputf("demo takes at most one DIR, got %d; see 'weft demo --help'", len(args))
 			}
 			return nil
 		},
@@ -69,8 +72,12 @@ func runDemo(o *demoOptions) error {
 		}
 	}()
 	for i, n := range names {
-		if outs[i], err = safeout.PrepareFile(filepath.Join(dir, n), o.force, false); err != nil {
+		p := filepath.Join(dir, n)
+		if outs[i], err = safeout.PrepareFile(p, o.force, false); err != nil {
 			return outputError(err)
+		}
+		if err := demoFileOrAbsent(p, files[n]); err != nil {
+			return err
 		}
 	}
 	for i, n := range names {
@@ -80,4 +87,25 @@ func runDemo(o *demoOptions) error {
 		fmt.Fprintf(o.Out, "wrote %s\n", filepath.Join(dir, n))
 	}
 	return nil
+}
+
+// demoFileOrAbsent refuses to let --force replace a file at path that no
+// 'weft demo' wrote: one whose first line is not the first line of the
+// demo file data ("# specimen = NAME" of a specimen, "# weft demo data
+// (SYNTHETIC)" of the README, the same in every version so far). Without
+// it, 'weft demo . --force' in a project replaced the project's own
+// README.md.
+func demoFileOrAbsent(path string, data []byte) error {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil // absent; PrepareFile has examined what is there
+	}
+	defer f.Close()
+	want, _, _ := bytes.Cut(data, []byte("\n"))
+	got := make([]byte, len(want)+1)
+	n, _ := io.ReadFull(f, got)
+	if n == len(got) && bytes.Equal(got[:len(want)], want) && (got[len(want)] == '\n' || got[len(want)] == '\r') {
+		return nil
+	}
+	return badInputf("%s exists and was not written by 'weft demo' (its first line is not %q); --force replaces only demo files — move it or write the demo into another folder: weft demo DIR", path, want)
 }

@@ -112,6 +112,10 @@ func outputAdvice(e *safeout.Error) string {
 		return hint + another
 	case safeout.NoParent:
 		return "; create it first" + another
+	case safeout.LockFailed, safeout.Unwritable:
+		// A test file's folder is often read-only (a shared or mounted
+		// data folder), and fit writes beside the file by default.
+		return another
 	case safeout.Exists:
 		if e.Target == safeout.TargetFolder {
 			return "; pass --force to replace it (only a folder weft wrote is replaced) or" + anotherFolder

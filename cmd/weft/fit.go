@@ -99,7 +99,7 @@ and nothing was written).
   weft fit skin-A.csv
 
   # the two-family fibre model of Holzapfel, Gasser & Ogden 2000
-  weft fit skin-A.csv --preset hgo -o out/skin-A
+  weft fit skin-A.csv --preset hgo -o skin-A-hgo
 
   # the same pair with its axis learned instead of held on axis 1
   weft fit skin-A.csv --preset hgo --pair-axis free

@@ -36,6 +36,7 @@ import (
 	"io"
 	"os"
 	"runtime/debug"
+	"strings"
 
 	"github.com/spf13/cobra"
 
@@ -82,6 +83,17 @@ func run(args []string, stdout, stderr io.Writer) (code int) {
 	if err != nil && !started {
 		// An error before any command started is cobra's own usage error
 		// (an unknown command); flags and arguments give typed errors.
+		// Cobra's text says what is wrong (and may suggest a command on
+		// the lines after); the first line gains what to type.
+		msg := strings.TrimRight(err.Error(), "\n")
+		first, rest, _ := strings.Cut(msg, "\n")
+		if strings.HasPrefix(first, "unknown command") {
+			first += "; 'weft --help' lists the commands"
+			if rest != "" {
+				first += "\n" + rest
+			}
+			err = errors.New(first)
+		}
 		err = badInput(err)
 	}
 	if out.err != nil {

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"fmt"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -160,6 +161,76 @@ func TestFolderOrTestFileForACardSaysWhatToGive(t *testing.T) {
 		out, errs, code := runWeft(t, c.args...)
 		if code != exitBadInput || out != "" || !strings.Contains(errs, c.want) {
 			t.Errorf("%v: exit %d, %q; want exit 2 and %q", c.args, code, errs, c.want)
+		}
+	}
+}
+
+// Every --help example runs as written from a folder holding only the
+// files it names: weft creates no missing parent folder of an output
+// (README, Outputs, limits and exit codes: "a missing parent folder (weft
+// creates none …)"), so an example's output path (-o, --write, --plot)
+// may not lie in a folder that no example makes. 'weft fit skin-A.csv
+// --preset hgo -o out/skin-A' stopped with exit 2 ("the folder out does
+// not exist"), and predict's example read out/model.json, which no
+// example wrote.
+func TestHelpExamplesNeedNoMissingFolder(t *testing.T) {
+	root := newRootCmd(&streams{Out: io.Discard, ErrOut: io.Discard})
+	made := map[string]bool{} // folders the examples' commands write
+	var outs, cards []string
+	for _, c := range root.Commands() {
+		for _, line := range strings.Split(c.Example, "\n") {
+			f := strings.Fields(line)
+			if len(f) < 2 || f[0] != "weft" {
+				continue
+			}
+			for i := 2; i < len(f); i++ {
+				switch {
+				case (f[i] == "-o" || f[i] == "--write" || f[i] == "--plot") && i+1 < len(f):
+					outs = append(outs, line+" → "+f[i+1])
+					if f[1] == "fit" || f[1] == "cohort" {
+						made[f[i+1]] = true
+					}
+				case strings.HasSuffix(f[i], ".json") && strings.Contains(f[i], "/"):
+					cards = append(cards, line+" → "+f[i])
+				}
+			}
+		}
+	}
+	for _, o := range outs {
+		p := o[strings.LastIndex(o, " → ")+len(" → "):]
+		if d := filepath.Dir(p); d != "." && !made[d] {
+			t.Errorf("%s: the folder %s is made by no example, and weft creates none", o, d)
+		}
+	}
+	for _, c := range cards {
+		p := c[strings.LastIndex(c, " → ")+len(" → "):]
+		if d := filepath.Dir(p); !made[d] && !strings.HasSuffix(d, ".weft") {
+			t.Errorf("%s: no example writes the folder %s", c, d)
+		}
+	}
+}
+
+// An unknown command, and too many arguments to demo, are bad input whose
+// message says what to type besides what is wrong, as every other usage
+// error does; 'weft bogus' printed only `unknown command "bogus" for
+// "weft"`, and 'weft demo a b' only "demo takes at most one DIR".
+func TestUsageErrorsSayWhatToType(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want []string
+	}{
+		{[]string{"bogus"}, []string{`unknown command "bogus"`, "'weft --help' lists the commands"}},
+		{[]string{"fti"}, []string{`unknown command "fti"`, "'weft --help' lists the commands", "Did you mean this?\n\tfit"}},
+		{[]string{"demo", "a", "b"}, []string{"at most one DIR", "'weft demo --help'"}},
+	} {
+		out, errs, code := runWeft(t, c.args...)
+		if code != exitBadInput || out != "" {
+			t.Errorf("%v: exit %d, stdout %q; want exit 2 and nothing on standard output", c.args, code, out)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(errs, w) {
+				t.Errorf("%v: %q lacks %q", c.args, errs, w)
+			}
 		}
 	}
 }

@@ -242,7 +242,20 @@ func TestOutputProblemsAreBadInput(t *testing.T) {
 		cases = append(cases, struct {
 			args []string
 			want string
-		}{[]string{"fit", zero, "-o", filepath.Join(ro, "out")}, "cannot write in " + ro})
+		}{[]string{"fit", zero, "-o", filepath.Join(ro, "out")}, "cannot write in " + ro + " (permission denied); check that the folder exists and is writable or choose another output"})
+		// The default output lies beside the input: a read-only data
+		// folder is the common case, and the message says to write
+		// elsewhere (it said only to check the folder).
+		in := filepath.Join(root, "rodata")
+		os.Mkdir(in, 0o755)
+		b, _ := os.ReadFile(zero)
+		os.WriteFile(filepath.Join(in, "zero.csv"), b, 0o644)
+		os.Chmod(in, 0o555)
+		t.Cleanup(func() { os.Chmod(in, 0o755) })
+		cases = append(cases, struct {
+			args []string
+			want string
+		}{[]string{"fit", filepath.Join(in, "zero.csv")}, "cannot write in " + in + " (permission denied); check that the folder exists and is writable or choose another output"})
 	}
 	for _, c := range cases {
 		_, errs, code := runWeft(t, c.args...)
@@ -368,7 +381,10 @@ func TestInterruptAndKill(t *testing.T) {
 		t.Skip("runs weft as a separate process")
 	}
 	data := filepath.Join(copyDemo(t, "patch-P2.csv"), "patch-P2.csv")
-	for _, sig := range []os.Signal{os.Interrupt, syscall.SIGTERM, syscall.SIGKILL} {
+	// SIGHUP (a closed terminal or remote session) is handled like the
+	// others; it killed the run outright, leaving the temporary folder and
+	// the lock file and the exit status 129.
+	for _, sig := range []os.Signal{os.Interrupt, syscall.SIGTERM, syscall.SIGHUP, syscall.SIGKILL} {
 		root := t.TempDir()
 		out := filepath.Join(root, "out")
 		p := weftProcess("fit", data, "-o", out, "--quiet")
@@ -407,6 +423,44 @@ func TestInterruptAndKill(t *testing.T) {
 			t.Errorf("%v left %v", sig, entries)
 		}
 	}
+}
+
+// A signal ignored when weft starts (nohup for SIGHUP; a background job
+// of a script for SIGINT, POSIX sh) stays ignored, so the run finishes and
+// writes its folder; catching every signal it handles would undo what the
+// caller asked for (Go's os/signal: Notify on an ignored SIGHUP or SIGINT
+// installs a handler).
+func TestIgnoredSignalsStayIgnored(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs weft as a separate process")
+	}
+	data := filepath.Join(copyDemo(t, "patch-P2.csv"), "patch-P2.csv")
+	root := t.TempDir()
+	out := filepath.Join(root, "out")
+	p := exec.Command("sh", "-c", `trap '' INT HUP; exec "$0" "$@"`, os.Args[0], "fit", data, "-o", out, "--quiet")
+	p.Env = append(os.Environ(), "WEFT_RUN_MAIN=1")
+	var errb bytes.Buffer
+	p.Stderr = &errb
+	if err := p.Start(); err != nil {
+		t.Fatal(err)
+	}
+	deadline := time.Now().Add(20 * time.Second)
+	for {
+		m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*"))
+		if len(m) > 0 || time.Now().After(deadline) {
+			break
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
+	p.Process.Signal(syscall.SIGHUP)
+	p.Process.Signal(os.Interrupt)
+	if err := p.Wait(); err != nil {
+		t.Fatalf("ignored SIGHUP and SIGINT stopped the run: %v, %s", err, errb.String())
+	}
+	if _, err := os.Stat(filepath.Join(out, "model.json")); err != nil {
+		t.Errorf("no output folder: %v", err)
+	}
+	noHelpers(t, root)
 }
 
 // Finding 6: outputs name the input by its base name only, so the same data
@@ -501,4 +555,78 @@ func TestOutputIsNeverAnInputOfTheRun(t *testing.T) {
 		t.Errorf("predict into a new file: exit %d, %s", code, errs)
 	}
 	noHelpers(t, root)
+}
+
+// 'weft report DIR --force' on a read-only output folder is bad input
+// (exit 2), found before the report is built, like every other output
+// path (README, Overwriting and --force: "a read-only folder ... reported
+// at once"); it was exit 1 with "cannot write DIR/plots (permission
+// denied)" after the work. Permission bits do not stop root (POSIX).
+func TestReportIntoReadOnlyFolderIsBadInput(t *testing.T) {
+	if os.Getuid() == 0 {
+		t.Skip("root writes into read-only folders anyway")
+	}
+	dir := demoFitCopy(t, "membrane-M1")
+	if err := os.Chmod(dir, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chmod(dir, 0o755)
+	_, errs, code := runWeft(t, "report", dir, "--force")
+	if code != exitBadInput || !strings.Contains(errs, "cannot write in "+dir) {
+		t.Errorf("exit %d, %q; want exit 2 and %q", code, errs, "cannot write in "+dir)
+	}
+}
+
+// 'weft demo DIR --force' replaces only demo files, recognised by their
+// first line; a project's own README.md (or any file of a demo name that
+// 'weft demo' did not write) is kept and the run is bad input (exit 2)
+// before any file is written. Until 2026-12-05 'weft demo . --force'
+// replaced a project's README.md with the demo's.
+func TestDemoForceReplacesOnlyDemoFiles(t *testing.T) {
+	dir := t.TempDir()
+	if _, errs, code := runWeft(t, "demo", dir); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	readme := filepath.Join(dir, "README.md")
+	csv := filepath.Join(dir, "membrane-M1.csv")
+	// A demo file saved again with CRLF line ends is still weft's.
+	b, _ := os.ReadFile(csv)
+	os.WriteFile(csv, bytes.ReplaceAll(b, []byte("\n"), []byte("\r\n")), 0o644)
+	if _, errs, code := runWeft(t, "demo", dir, "--force"); code != 0 {
+		t.Fatalf("--force over the demo's own files: exit %d: %s", code, errs)
+	}
+	os.WriteFile(readme, []byte("# My project\n"), 0o644)
+	os.Remove(csv)
+	_, errs, code := runWeft(t, "demo", dir, "--force")
+	if code != exitBadInput || !strings.Contains(errs, "README.md exists and was not written by 'weft demo'") {
+		t.Errorf("--force over a project's README.md: exit %d, %q; want exit 2", code, errs)
+	}
+	if got, _ := os.ReadFile(readme); string(got) != "# My project\n" {
+		t.Errorf("README.md was replaced: %q", got)
+	}
+	if _, err := os.Stat(csv); err == nil {
+		t.Error("a demo file was written although another was refused")
+	}
+	noHelpers(t, dir)
+}
+
+// 'weft report DIR' writes only inside DIR, so a parent folder the user
+// may not write (a shared results folder) does not stop it: the lock it
+// could not create beside DIR is taken inside DIR instead. It stopped with
+// exit 2, "cannot write in PARENT (permission denied)". Permission bits
+// do not stop root (POSIX), so the test needs another user.
+func TestReportInReadOnlyParent(t *testing.T) {
+	if os.Getuid() == 0 {
+		t.Skip("root writes into read-only folders anyway")
+	}
+	dir := demoFitCopy(t, "membrane-M1")
+	parent := filepath.Dir(dir)
+	if err := os.Chmod(parent, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	defer os.Chmod(parent, 0o755)
+	if _, errs, code := runWeft(t, "report", dir, "--force"); code != exitOK {
+		t.Errorf("exit %d, %q; want 0", code, errs)
+	}
+	noHelpers(t, dir)
 }

@@ -61,7 +61,7 @@ the tested protocols do not settle the prediction.
 
 ` + helpCautions,
 		Example: `  weft predict model.json path.csv
-  weft predict out/model.json testdata/example/stretch-path.csv -o stresses.csv`,
+  weft predict skin-A-hgo/model.json testdata/example/stretch-path.csv -o stresses.csv`,
 		Args: exactArgs(2),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var err error
@@ -135,7 +135,7 @@ func readKinematics(path string, lim biaxial.Limits) ([]byte, error) {
 		return nil, tooLargeError(path, max, biaxial.ErrFileSize)
 	}
 	if err != nil {
-		return nil, badInputf("cannot read %s (%s)", path, safeout.Reason(err))
+		return nil, badInputf("%s: cannot read the file (%s) — check the path and permissions", path, safeout.Reason(err))
 	}
 	return b, nil
 }

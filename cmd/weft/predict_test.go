@@ -120,6 +120,14 @@ func TestPredictBadInput(t *testing.T) {
 			}
 		})
 	}
+	// A path file that is not there: what is wrong and what to do, as
+	// fit and inspect say it of a test file (it said only "cannot read
+	// missing.csv (no such file or directory)").
+	missing := filepath.Join(t.TempDir(), "missing.csv")
+	_, errs, code := runWeft(t, "predict", writeTemp(t, "m.json", neoHookeanCard), missing)
+	if code != 2 || !strings.Contains(errs, missing+": cannot read the file (no such file or directory) — check the path and permissions") {
+		t.Errorf("missing path file: exit %d, %q", code, errs)
+	}
 }
 
 // predict refuses to overwrite a file without --force and overwrites with it.

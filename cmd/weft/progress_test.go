@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"os"
+	"runtime"
 	"strings"
 	"testing"
 	"time"
@@ -24,5 +26,31 @@ func TestProgressCountNeverGoesBack(t *testing.T) {
 	}
 	if got, want := strings.Join(counts, " "), "56/95 58/95 59/95 3/120"; got != want {
 		t.Errorf("drawn counts %q, want %q", got, want)
+	}
+}
+
+// A progress bar is drawn only on a terminal: /dev/null is a character
+// device but no terminal ('weft fit … 2>/dev/null' drew bars into it),
+// while a pseudo-terminal is one (Linux: the master side of /dev/ptmx
+// answers the TCGETS request of ioctl(2), as every terminal does).
+func TestIsTerminalNotEveryCharacterDevice(t *testing.T) {
+	null, err := os.OpenFile(os.DevNull, os.O_WRONLY, 0)
+	if err != nil {
+		t.Skip(err)
+	}
+	defer null.Close()
+	if isTerminal(null) {
+		t.Errorf("%s counts as a terminal", os.DevNull)
+	}
+	if runtime.GOOS != "linux" {
+		return
+	}
+	pty, err := os.OpenFile("/dev/ptmx", os.O_RDWR, 0)
+	if err != nil {
+		t.Skip(err)
+	}
+	defer pty.Close()
+	if !isTerminal(pty) {
+		t.Error("a pseudo-terminal does not count as a terminal")
 	}
 }

@@ -83,6 +83,15 @@ func runReport(o *reportOptions) error {
 	}
 	dir = filepath.Clean(dir)
 	lock, err := safeout.Acquire(dir)
+	var lf *safeout.Error
+	if errors.As(err, &lf) && lf.Problem == safeout.LockFailed {
+		// The lock of an output folder lies beside it, where a fit that
+		// replaces the folder takes it too. A parent that cannot hold
+		// the lock cannot take that replacement either (a rename in
+		// it), so only other reports are left to exclude, and their
+		// lock can lie inside the folder, which is all a report writes.
+		lock, err = safeout.Acquire(filepath.Join(dir, "report.html"))
+	}
 	if err != nil {
 		return outputError(err)
 	}

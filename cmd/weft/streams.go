@@ -17,14 +17,17 @@ type streams struct {
 	ErrIsTerminal bool
 }
 
-// isTerminal reports whether w is a terminal (a character device).
+// isTerminal reports whether w is a terminal. Being a character device
+// is not enough: /dev/null is one, so '2>/dev/null' drew progress bars
+// into it; where the platform allows (isTTY), the terminal's own settings
+// must be readable.
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
 	if !ok {
 		return false
 	}
 	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
+	return err == nil && st.Mode()&os.ModeCharDevice != 0 && isTTY(f)
 }
 
 // writeJSON writes v as indented JSON with a trailing newline, without

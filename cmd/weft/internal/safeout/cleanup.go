@@ -53,14 +53,21 @@ func removeTemps() {
 	}
 }
 
-// HandleSignals makes SIGINT and SIGTERM remove this process's temporary
-// files and lock files, then call interrupted, which tells the user and
-// returns the exit code the process ends with. Outputs already put in
-// place are kept; nothing half-written is left, and no output is put in
-// place after the signal. stop restores the default handling.
+// HandleSignals makes SIGINT, SIGTERM and SIGHUP (the terminal or the
+// remote session closed) remove this process's temporary files and lock
+// files, then call interrupted, which tells the user and returns the exit
+// code the process ends with. Outputs already put in place are kept;
+// nothing half-written is left, and no output is put in place after the
+// signal. A signal ignored when weft started (nohup, a background job of
+// a script) stays ignored: handling it would undo what the caller asked
+// for. stop restores the default handling.
 func HandleSignals(interrupted func(os.Signal) (exitCode int)) (stop func()) {
 	ch := make(chan os.Signal, 1)
-	signal.Notify(ch, os.Interrupt, syscall.SIGTERM)
+	for _, sig := range []os.Signal{os.Interrupt, syscall.SIGTERM, syscall.SIGHUP} {
+		if !signal.Ignored(sig) {
+			signal.Notify(ch, sig)
+		}
+	}
 	done := make(chan struct{})
 	go func() {
 		select {

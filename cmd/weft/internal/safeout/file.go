@@ -100,12 +100,32 @@ func PrepareFile(path string, force, locked bool) (*File, error) {
 			return nil, err
 		}
 		o.lock = l
+	} else if err := probeFolder(o.final); err != nil {
+		// Creating the lock file is what shows, for an unlocked path,
+		// that its folder is writable; a caller's lock lies beside the
+		// folder it covers, not in it, so a read-only folder would
+		// otherwise be found only by Commit, after the work.
+		return nil, err
 	}
 	if err := o.check(); err != nil {
 		o.Close()
 		return nil, err
 	}
 	return o, nil
+}
+
+// probeFolder creates and removes a temporary file beside target: an
+// Unwritable *Error when the folder that holds target cannot take one.
+func probeFolder(target string) error {
+	f, err := createTemp(target)
+	if err != nil {
+		return &Error{Problem: Unwritable, Path: target, Folder: filepath.Dir(target), Err: err}
+	}
+	tmp := f.Name()
+	f.Close()
+	os.Remove(tmp)
+	untrackTemp(tmp)
+	return nil
 }
 
 // check looks at what is at the path now.

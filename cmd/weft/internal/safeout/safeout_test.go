@@ -181,3 +181,24 @@ func assertNoHelpers(t *testing.T, dir string) {
 		return nil
 	})
 }
+
+// A file inside a folder the caller has locked (report.html of an output
+// folder) gets no lock file of its own, so its folder's writability is
+// probed apart: a read-only folder is Unwritable before the work, not a
+// late WriteFailed after it. Read-only permission bits (POSIX, common
+// practice) do not stop root, so the test needs another user.
+func TestLockedFileInReadOnlyFolder(t *testing.T) {
+	if os.Getuid() == 0 {
+		t.Skip("root writes into read-only folders anyway")
+	}
+	ro := filepath.Join(t.TempDir(), "ro")
+	if err := os.Mkdir(ro, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	p := filepath.Join(ro, "report.html")
+	_, err := PrepareFile(p, true, true)
+	if e := problemOf(t, err); e.Problem != Unwritable || e.Late || e.Folder != ro {
+		t.Errorf("read-only folder: %+v, %q; want Unwritable, found before the work", e, e)
+	}
+	assertNoHelpers(t, ro)
+}

@@ -632,3 +632,22 @@ func TestCheckWarnsOfEditedConventions(t *testing.T) {
 		t.Errorf("edited fibre switch not warned of: %q", r.Warnings)
 	}
 }
+
+// A scan that resolves no grid point tests no ellipticity, which is no
+// pass: a card of one fibre family alone has no stiffness anywhere on the
+// grid (the family switches off below I4 = 1 and carries nothing
+// across it, Holzapfel, Gasser & Ogden 2000), and until 2026-12-05 weft
+// check printed "4. Strong ellipticity pass" for it (the result was
+// FAILED and exit 1 all the same).
+func TestCheckEllipticityUntestedIsNoPass(t *testing.T) {
+	path := writeTemp(t, "fibre-only.json", `{"format":"weft.model/1","stress_unit":"kPa","families":[{"name":"f1","angle_deg":0}],"terms":[{"id":"fib-quad","family":"f1","weight":10}]}`)
+	out, _, code := runWeft(t, "check", path, "--json")
+	var rep struct {
+		Ellipticity struct {
+			Passed bool `json:"passed"`
+		} `json:"strong_ellipticity"`
+	}
+	if err := json.Unmarshal([]byte(out), &rep); err != nil || code != exitFailed || rep.Ellipticity.Passed {
+		t.Errorf("exit %d, ellipticity passed %v (%v)", code, rep.Ellipticity.Passed, err)
+	}
+}

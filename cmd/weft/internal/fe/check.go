@@ -265,9 +265,12 @@ func checkGrid(rep *CheckReport, m *aniso.Model, g aniso.StabilityGrid, sr *anis
 	we := sr.WorstEllipticity
 	a, b := we.EllipticityA, we.EllipticityB
 	rep.Ellipticity.Criterion = ellipticityCriterion
-	rep.Ellipticity.Passed = sr.NonEllipticPoints == 0
 	rep.Ellipticity.FailingPoints = sr.NonEllipticPoints
 	rep.Ellipticity.Worst, rep.Ellipticity.WorstReason = worstPoint(we, we.MinEllipticity, inside)
+	// A scan that resolved no point tested nothing: that is no pass
+	// (audit 2026-12-05, a fib-quad-only card read "4. Strong
+	// ellipticity pass" with no stiffness at any of its 3249 points).
+	rep.Ellipticity.Passed = sr.NonEllipticPoints == 0 && rep.Ellipticity.Worst != nil
 	if rep.Ellipticity.Worst != nil {
 		rep.Ellipticity.Worst.A, rep.Ellipticity.Worst.B = &a, &b
 	}

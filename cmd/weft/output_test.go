@@ -394,14 +394,7 @@ func TestInterruptAndKill(t *testing.T) {
 			t.Fatal(err)
 		}
 		// Discovery takes seconds; signal once the temporary folder exists.
-		deadline := time.Now().Add(20 * time.Second)
-		for {
-			m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*"))
-			if len(m) > 0 || time.Now().After(deadline) {
-				break
-			}
-			time.Sleep(10 * time.Millisecond)
-		}
+		awaitTemporaryFolder(root)
 		p.Process.Signal(sig)
 		err := p.Wait()
 		var ee *exec.ExitError
@@ -444,14 +437,7 @@ func TestIgnoredSignalsStayIgnored(t *testing.T) {
 	if err := p.Start(); err != nil {
 		t.Fatal(err)
 	}
-	deadline := time.Now().Add(20 * time.Second)
-	for {
-		m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*"))
-		if len(m) > 0 || time.Now().After(deadline) {
-			break
-		}
-		time.Sleep(10 * time.Millisecond)
-	}
+	awaitTemporaryFolder(root)
 	p.Process.Signal(syscall.SIGHUP)
 	p.Process.Signal(os.Interrupt)
 	if err := p.Wait(); err != nil {
@@ -629,4 +615,17 @@ func TestReportInReadOnlyParent(t *testing.T) {
 		t.Errorf("exit %d, %q; want 0", code, errs)
 	}
 	noHelpers(t, dir)
+}
+
+// awaitTemporaryFolder waits (at most 20 s) until a run writing root/out
+// has made its temporary folder, so that a signal reaches it mid-run.
+func awaitTemporaryFolder(root string) {
+	deadline := time.Now().Add(20 * time.Second)
+	for {
+		m, _ := filepath.Glob(filepath.Join(root, ".out"+tmpTag+"*"))
+		if len(m) > 0 || time.Now().After(deadline) {
+			return
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
 }

@@ -20,16 +20,7 @@ import (
 // statistics must see θ = 2° and −8° (mean −3°) and β = 45° and 47°
 // (mean 46°), not θ = 2° and 82° (mean 42°).
 func TestMirrorPairRelabelled(t *testing.T) {
-	pair := func(theta, beta float64) *aniso.Result {
-		m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(aniso.WrapDeg(theta + beta))}, {Name: "f2", Angle: aniso.Rad(aniso.WrapDeg(theta - beta))}},
-			Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
-				{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 50, Params: []float64{4}},
-				{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 50, Params: []float64{4}}}}
-		return &aniso.Result{Model: m, SignKnown: true, Structure: aniso.Structure{Layout: aniso.LayoutMirror},
-			Estimates: []aniso.Estimate{{Name: "weight[i1-lin]", Kind: "weight", Value: 3, Unit: "kPa"},
-				{Name: "mean_angle", Kind: "angle", Value: theta, Unit: "deg"},
-				{Name: "half_angle", Kind: "angle", Value: beta, Unit: "deg"}}}
-	}
+	pair := func(theta, beta float64) *aniso.Result { return mirrorPairResult(theta, beta, true) }
 	in := &Input{Cohort: &aniso.Cohort{Population: pair(0, 47)},
 		Specimens: []Specimen{{File: "a.csv", Name: "A", Result: pair(2, 45)}, {File: "b.csv", Name: "B", Result: pair(82, 43)}}}
 	s := &Summary{}
@@ -115,16 +106,7 @@ func TestSignlessFreePairReadAsTheMeanCardReadsIt(t *testing.T) {
 			t.Fatalf("I4 not even in α at %g°", a)
 		}
 	}
-	pair := func(theta, beta float64) *aniso.Result {
-		m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(aniso.WrapDeg(theta + beta))}, {Name: "f2", Angle: aniso.Rad(aniso.WrapDeg(theta - beta))}},
-			Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
-				{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 50, Params: []float64{4}},
-				{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 50, Params: []float64{4}}}}
-		return &aniso.Result{Model: m, SignKnown: false, Structure: aniso.Structure{Layout: aniso.LayoutMirror},
-			Estimates: []aniso.Estimate{{Name: "weight[i1-lin]", Kind: "weight", Value: 3, Unit: "kPa"},
-				{Name: "mean_angle", Kind: "angle", Value: theta, Unit: "deg"},
-				{Name: "half_angle", Kind: "angle", Value: beta, Unit: "deg"}}}
-	}
+	pair := func(theta, beta float64) *aniso.Result { return mirrorPairResult(theta, beta, false) }
 	pop := pair(42.8, 0)
 	fits := []*aniso.Result{pair(34, 0), pair(55, 90), pair(0.4, 51.4)}
 	in := &Input{Cohort: &aniso.Cohort{Population: pop}}
@@ -157,4 +139,18 @@ func TestSignlessFreePairReadAsTheMeanCardReadsIt(t *testing.T) {
 			t.Errorf("mean %s %g°, the mean-parameter card's %g°", p.Name, mean, card[p.Name])
 		}
 	}
+}
+
+// mirrorPairResult is an invented fit of a mirror pair at θ ± β (degrees)
+// on a neo-Hookean matrix, with its estimates of θ and β as a fit gives
+// them; signKnown as Result.SignKnown.
+func mirrorPairResult(theta, beta float64, signKnown bool) *aniso.Result {
+	m := &aniso.Model{Families: []aniso.Family{{Name: "f1", Angle: aniso.Rad(aniso.WrapDeg(theta + beta))}, {Name: "f2", Angle: aniso.Rad(aniso.WrapDeg(theta - beta))}},
+		Terms: []aniso.Term{{Shape: terms.Lookup("i1-lin"), Family: -1, Weight: 3},
+			{Shape: terms.Lookup("fib-expsq"), Family: 0, Weight: 50, Params: []float64{4}},
+			{Shape: terms.Lookup("fib-expsq"), Family: 1, Weight: 50, Params: []float64{4}}}}
+	return &aniso.Result{Model: m, SignKnown: signKnown, Structure: aniso.Structure{Layout: aniso.LayoutMirror},
+		Estimates: []aniso.Estimate{{Name: "weight[i1-lin]", Kind: "weight", Value: 3, Unit: "kPa"},
+			{Name: "mean_angle", Kind: "angle", Value: theta, Unit: "deg"},
+			{Name: "half_angle", Kind: "angle", Value: beta, Unit: "deg"}}}
 }

@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"io"
 	"os"
+
+	"golang.org/x/term"
 )
 
 // streams are where a command reads and writes. Every command's options
@@ -19,15 +21,11 @@ type streams struct {
 
 // isTerminal reports whether w is a terminal. Being a character device
 // is not enough: /dev/null is one, so '2>/dev/null' drew progress bars
-// into it; where the platform allows (isTTY), the terminal's own settings
-// must be readable.
+// into it; golang.org/x/term asks the terminal's own settings, on every
+// platform.
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0 && isTTY(f)
+	return ok && term.IsTerminal(int(f.Fd()))
 }
 
 // writeJSON writes v as indented JSON with a trailing newline, without

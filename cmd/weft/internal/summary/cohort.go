@@ -41,11 +41,28 @@ func PrintCohort(w io.Writer, s *cohortreport.Summary, dir string, elapsed time.
 	for _, n := range s.Notes {
 		fmt.Fprintf(w, "note:     %s\n", n)
 	}
+	printPopulationGaps(w, s.Population)
 	fmt.Fprintln(w)
 	for _, cn := range s.Cautions {
 		fmt.Fprintf(w, "caution:  %s\n", cn)
 	}
 	fmt.Fprintf(w, "wrote:    %s/ (cohort.csv, cohort.json, %s, report.html, plots/, one folder per specimen) in %.1f s\n", dir, strings.Join(populationFiles(s), ", "), elapsed.Seconds())
+}
+
+// printPopulationGaps says when the population model is missing or leaves
+// specimens out. Until 2026-12-05 only cohort.json and report.html said
+// so, and the terminal's population files read as covering every
+// specimen.
+func printPopulationGaps(w io.Writer, p *cohortreport.PopulationInfo) {
+	if p == nil {
+		return
+	}
+	if p.Error != "" {
+		fmt.Fprintf(w, "note:     the population model could not be fitted: %s\n", p.Error)
+	}
+	if len(p.LeftOut) > 0 {
+		fmt.Fprintf(w, "note:     left out of the population fit, in another stress measure or unit than the pooled specimens: %s; the population models do not describe them\n", strings.Join(p.LeftOut, ", "))
+	}
 }
 
 // populationFiles lists the population cards the cohort folder holds.

@@ -330,6 +330,20 @@ func (s *Specimen) NumPoints() int {
 	return n
 }
 
+// Deformations returns the deformation gradients (F11, F12, F21, F22) of
+// the kept points of each protocol, protocol by protocol in order.
+func (s *Specimen) Deformations() [][][4]float64 {
+	protocols := make([][][4]float64, 0, len(s.Protocols))
+	for _, pr := range s.Protocols {
+		fs := make([][4]float64, 0, len(pr.Points))
+		for _, pt := range pr.Points {
+			fs = append(fs, pt.F)
+		}
+		protocols = append(protocols, fs)
+	}
+	return protocols
+}
+
 // Location returns where the finding is, e.g. "data.csv:14:3" or
 // "tests.xlsx:SYN-3!C9", in the form of ParseError.
 func (w Warning) Location() string {

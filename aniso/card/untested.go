@@ -100,6 +100,12 @@ func NewCohortUntestedStrips(protocols [][][4]float64, nominal bool, c *Card, m 
 	return newUntestedStrips(protocols, nominal, c, m, max(specimens, 1), nil)
 }
 
+// ChosenFormWhy is why nothing measures a strip of a card whose form was
+// chosen rather than discovered, as a reason for NewUnmeasuredStrips.
+func ChosenFormWhy(string) string {
+	return "the form was chosen, not discovered: no other candidate form was fitted to compare with it"
+}
+
 // NewUnmeasuredStrips lists the strips none of protocols tested as
 // NewUntestedStrips does, but measures none of them: each has Models 0,
 // null numbers and a summary whose reason is why(label), a clause saying

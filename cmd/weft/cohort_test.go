@@ -522,28 +522,6 @@ func writeMembrane(t *testing.T, dir, name string, g func(i1 float64) float64, o
 	return path
 }
 
-// A discovered cohort's verdict with fibre families carries the misfit
-// caution when the shared form misfits most specimens: the median of the
-// fitted specimens' ratios (1, 2.5, 3; a failed one has none) is 2.5, at
-// or above aniso.MisfitFlagRatio, with 2 of the 3 flagged. One at 1.9, or
-// an undecided verdict, adds nothing.
-func TestCohortVerdictNotesMostSpecimensMisfit(t *testing.T) {
-	sps := []cohortreport.Specimen{{MisfitRatio: 1}, {MisfitRatio: 2.5}, {MisfitRatio: 3}, {MisfitRatio: math.NaN()}}
-	for _, c := range []struct {
-		families string
-		top      float64
-		want     string
-	}{{"2", 3, "misfits 2 of the 3 specimens fitted, its residuals 2.5 times"}, {"2", 1.9, ""}, {"undecided", 3, ""}} {
-		sps[2].MisfitRatio, sps[1].MisfitRatio = c.top, math.Min(c.top, 2.5)
-		co := &aniso.Cohort{Discovery: &aniso.Discovery{Verdict: aniso.Verdict{Families: c.families, Reason: "two fibre families"}}}
-		noteCohortMisfit(co, sps)
-		got := co.Discovery.Verdict.Reason
-		if c.want == "" && got != "two fibre families" || c.want != "" && !strings.Contains(got, c.want) {
-			t.Errorf("verdict %s, largest ratio %g: reason %q, want %q", c.families, c.top, got, c.want)
-		}
-	}
-}
-
 // A weight given to a protocol that some files of a cohort lack applies to
 // the files that have it (until 2026-12-05 every other file failed, and its
 // data left the cohort); cohort.json names the specimens it did not apply

@@ -586,11 +586,11 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 	o.elapsed = time.Since(start)
 	o.Card = card.FromFit(p, o.Result, o.Discovery)
 	if o.Discovery != nil {
-		o.Card.UntestedStrips, err = card.NewUntestedStrips(protocolDeformations(s), s.Kind == biaxial.Nominal, o.Card, o.Result.Model)
+		o.Card.UntestedStrips, err = card.NewUntestedStrips(s.Deformations(), s.Kind == biaxial.Nominal, o.Card, o.Result.Model)
 	} else {
 		// A chosen form leaves the same loadings untested: listed, with
 		// where they leave the tested range, though nothing measures them.
-		o.Card.UntestedStrips, err = card.NewUnmeasuredStrips(protocolDeformations(s), s.Kind == biaxial.Nominal, o.Card, o.Result.Model, chosenFormWhy)
+		o.Card.UntestedStrips, err = card.NewUnmeasuredStrips(s.Deformations(), s.Kind == biaxial.Nominal, o.Card, o.Result.Model, card.ChosenFormWhy)
 	}
 	if err != nil {
 		return nil, fitFailed(s, err)
@@ -603,27 +603,6 @@ func fitOne(s *biaxial.Specimen, st aniso.Structure, chosen bool, ff *fitOptions
 		o.Card.CalibrationCheck = card.NewCalibrationCheck(o.Discovery.Verdict.Families, angles, o.Result.SignKnown, ff.calibration, check)
 	}
 	return o, nil
-}
-
-// chosenFormWhy is why nothing measures a strip of a card whose form was
-// chosen (--preset, --terms) rather than discovered.
-func chosenFormWhy(string) string {
-	return "the form was chosen, not discovered: no other candidate form was fitted to compare with it"
-}
-
-// protocolDeformations returns the deformation gradients (F11, F12, F21,
-// F22) of each of s's protocols, in order, as the untested strips read
-// them.
-func protocolDeformations(s *biaxial.Specimen) [][][4]float64 {
-	var protocols [][][4]float64
-	for _, pr := range s.Protocols {
-		var fs [][4]float64
-		for _, pt := range pr.Points {
-			fs = append(fs, pt.F)
-		}
-		protocols = append(protocols, fs)
-	}
-	return protocols
 }
 
 // printCardsJSON prints one card, or an array of the cards written when

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/catalogue"
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 
 	"github.com/weft-tools/weft/aniso/card"
@@ -124,8 +125,8 @@ func TestCheckFungConvexity(t *testing.T) {
 func TestTermsAndExportShowFung(t *testing.T) {
 	out, _, code := runWeft(t, "terms", "--json")
 	var cat struct {
-		Terms   []termInfo   `json:"terms"`
-		Presets []presetInfo `json:"presets"`
+		Terms   []catalogue.Term   `json:"terms"`
+		Presets []catalogue.Preset `json:"presets"`
 	}
 	if err := json.Unmarshal([]byte(out), &cat); err != nil || code != 0 {
 		t.Fatal(code, err)

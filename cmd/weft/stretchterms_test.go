@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/weft-tools/weft/cmd/weft/internal/catalogue"
 	"github.com/weft-tools/weft/cmd/weft/internal/fe"
 )
 
@@ -41,7 +42,7 @@ func TestTermsListsNewShapes(t *testing.T) {
 	}
 	js, _, _ := runWeft(t, "terms", "--json")
 	var doc struct {
-		Terms []termInfo `json:"terms"`
+		Terms []catalogue.Term `json:"terms"`
 	}
 	if err := json.Unmarshal([]byte(js), &doc); err != nil {
 		t.Fatal(err)

@@ -160,10 +160,6 @@ func plotsError(err error) error {
 	return &c
 }
 
-// loadReportFolder reads an output folder for its report: model.json
-// within the card limits cl, fit.csv and heldout.csv within the file size
-// limit of dl. A folder that lacks what the report needs is bad input
-// (exit 2) with a message saying what is missing and what to type.
 // notCohortFolder refuses, naming what to give instead, a folder that
 // 'weft cohort' wrote (it has cohort.json and no model.json): its report
 // is written with it, and each specimen's folder inside it is a fit's.
@@ -190,6 +186,10 @@ func notCohortFolder(dir string, entries []os.DirEntry) error {
 	return badInputf("%s is a cohort's folder ('weft cohort' wrote its report with it); give one specimen's folder inside it%s", dir, hint)
 }
 
+// loadReportFolder reads an output folder for its report: model.json
+// within the card limits cl, fit.csv and heldout.csv within the file size
+// limit of dl. A folder that lacks what the report needs is bad input
+// (exit 2) with a message saying what is missing and what to type.
 func loadReportFolder(dir string, dl biaxial.Limits, cl card.Limits) (*report.Input, error) {
 	st, err := os.Stat(dir)
 	if err != nil {

@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"errors"
-	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -227,46 +226,16 @@ func runPlan(o *planOptions) error {
 // rebuilds the fit; a folder that is not one fit's is bad input (exit 2),
 // a fit that cannot be rebuilt as the card states it fails (exit 1).
 func readPlanFolder(dir string, dl biaxial.Limits, cl card.Limits) (*planning.Folder, error) {
-	st, err := os.Stat(dir)
-	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return nil, badInputf("%s does not exist; give the output folder that 'weft fit' wrote", dir)
-	case err != nil:
-		return nil, badInput(err)
-	case !st.IsDir():
-		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
+	ff, err := readFitFolder(dir, dl, cl, "a plan needs model.json and fit.csv as 'weft fit' writes them", []string{"model.json", "fit.csv"}, nil)
+	if err != nil {
+		return nil, err
 	}
-	if entries, err := os.ReadDir(dir); err == nil {
-		if err := notCohortFolder(dir, entries); err != nil {
-			return nil, err
-		}
-	}
-	read := func(name string, max int64, cat error) ([]byte, error) {
-		path := filepath.Join(dir, name)
-		b, err := readAtMost(path, max)
-		switch {
-		case errors.Is(err, errTooLarge):
-			return nil, tooLargeError(path, max, cat)
-		case errors.Is(err, fs.ErrNotExist):
-			return nil, badInputf("%s: %s is missing; a plan needs model.json and fit.csv as 'weft fit' writes them", dir, name)
-		case err != nil:
-			return nil, badInput(err)
-		}
-		return b, nil
-	}
+	mj, fc := ff.files["model.json"], ff.files["fit.csv"]
 	if cl.MaxBytes <= 0 {
 		cl.MaxBytes = card.DefaultLimits.MaxBytes
 	}
 	if dl.MaxBytes <= 0 {
 		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
-	}
-	mj, err := read("model.json", cl.MaxBytes, card.ErrCardSize)
-	if err != nil {
-		return nil, err
-	}
-	fc, err := read("fit.csv", dl.MaxBytes, biaxial.ErrFileSize)
-	if err != nil {
-		return nil, err
 	}
 	f, err := planning.Rebuild(dir, mj, fc, dl, cl)
 	var re *planning.RebuildError

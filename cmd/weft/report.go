@@ -3,8 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"io/fs"
-	"os"
 	"path"
 	"path/filepath"
 	"strings"
@@ -160,107 +158,18 @@ func plotsError(err error) error {
 	return &c
 }
 
-// notCohortFolder refuses, naming what to give instead, a folder that
-// 'weft cohort' wrote (it has cohort.json and no model.json): its report
-// is written with it, and each specimen's folder inside it is a fit's.
-func notCohortFolder(dir string, entries []os.DirEntry) error {
-	var cohort, model bool
-	var first string
-	for _, e := range entries {
-		switch n := e.Name(); {
-		case n == "cohort.json":
-			cohort = true
-		case n == "model.json":
-			model = true
-		case first == "" && e.IsDir() && strings.HasSuffix(n, ".weft"):
-			first = n
-		}
-	}
-	if !cohort || model {
-		return nil
-	}
-	hint := ""
-	if first != "" {
-		hint = fmt.Sprintf(", e.g. %s", filepath.Join(dir, first))
-	}
-	return badInputf("%s is a cohort's folder ('weft cohort' wrote its report with it); give one specimen's folder inside it%s", dir, hint)
-}
-
 // loadReportFolder reads an output folder for its report: model.json
 // within the card limits cl, fit.csv and heldout.csv within the file size
 // limit of dl. A folder that lacks what the report needs is bad input
 // (exit 2) with a message saying what is missing and what to type.
 func loadReportFolder(dir string, dl biaxial.Limits, cl card.Limits) (*report.Input, error) {
-	st, err := os.Stat(dir)
+	ff, err := readFitFolder(dir, dl, cl, "the report needs model.json and fit.csv as 'weft fit' writes them (fit the data again into a new folder with 'weft fit DATA -o NEW-FOLDER')",
+		[]string{"model.json", "fit.csv"}, []string{"heldout.csv", "curves.csv", "raw.csv"})
 	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return nil, badInputf("%s does not exist; give the output folder that 'weft fit' wrote", dir)
-		}
-		return nil, badInput(err)
-	}
-	if !st.IsDir() {
-		return nil, badInputf("%s is not a folder; give the output folder that 'weft fit' wrote (with model.json and fit.csv)", dir)
-	}
-	var f report.Folder
-	entries, err := os.ReadDir(dir)
-	if err != nil {
-		return nil, badInput(err)
-	}
-	if err := notCohortFolder(dir, entries); err != nil {
 		return nil, err
 	}
-	for _, e := range entries {
-		if !strings.HasPrefix(e.Name(), ".") {
-			f.Files = append(f.Files, e.Name())
-		}
-	}
-	maxCSV := dl.MaxBytes
-	if maxCSV <= 0 {
-		maxCSV = biaxial.DefaultLimits.MaxBytes
-	}
-	maxCard := cl.MaxBytes
-	if maxCard <= 0 {
-		maxCard = card.DefaultLimits.MaxBytes
-	}
-	read := func(name string, required bool) ([]byte, error) {
-		max := maxCSV
-		if name == "model.json" {
-			max = maxCard
-		}
-		b, err := readAtMost(filepath.Join(dir, name), max)
-		if errors.Is(err, errTooLarge) {
-			lim := biaxial.ErrFileSize
-			if name == "model.json" {
-				lim = card.ErrCardSize
-			}
-			return nil, tooLargeError(filepath.Join(dir, name), max, lim)
-		}
-		if err != nil {
-			if errors.Is(err, fs.ErrNotExist) && !required {
-				return nil, nil
-			}
-			if errors.Is(err, fs.ErrNotExist) {
-				return nil, badInputf("%s: %s is missing; the report needs model.json and fit.csv as 'weft fit' writes them (fit the data again into a new folder with 'weft fit DATA -o NEW-FOLDER')", dir, name)
-			}
-			return nil, badInput(err)
-		}
-		return b, nil
-	}
-	if f.ModelJSON, err = read("model.json", true); err != nil {
-		return nil, err
-	}
-	if f.FitCSV, err = read("fit.csv", true); err != nil {
-		return nil, err
-	}
-	if f.HeldoutCSV, err = read("heldout.csv", false); err != nil {
-		return nil, err
-	}
-	if f.CurvesCSV, err = read("curves.csv", false); err != nil {
-		return nil, err
-	}
-	if f.RawCSV, err = read("raw.csv", false); err != nil {
-		return nil, err
-	}
+	f := report.Folder{Files: ff.entries, ModelJSON: ff.files["model.json"], FitCSV: ff.files["fit.csv"],
+		HeldoutCSV: ff.files["heldout.csv"], CurvesCSV: ff.files["curves.csv"], RawCSV: ff.files["raw.csv"]}
 	in, err := report.Parse(f, cl)
 	if err != nil {
 		return nil, badInputf("%s: %v%s", dir, err, reportInputHint(err))

@@ -34,8 +34,21 @@ func kindName(kind string) string {
 	return kind
 }
 
-// stressAxis labels a tile's stress axis: "P [kPa]" or "σ [kPa]".
-func stressAxis(kind, unit string) string { return compSymbol(kind, "") + " [" + unit + "]" }
+// stressAxis labels a tile's stress axis with the measure, the symbol
+// and the unit the input gave: "nominal P [kPa]" or "Cauchy σ [kPa]" (the
+// symbol alone, "P [kPa]", named no measure to a reader who does not know
+// the convention). It stays short: the plotting library shrinks a tile's
+// data area until the rotated label fits beside it, and "nominal stress
+// P [kPa]" squashed the short tiles of seven protocols to a third.
+func stressAxis(kind, unit string) string {
+	return kindName(kind) + " " + compSymbol(kind, "") + " [" + unit + "]"
+}
+
+// residualAxis labels a residual tile's axis the same way: "nominal
+// residual [kPa]" (it held "residual [kPa]", no measure).
+func residualAxis(kind, unit string) string {
+	return kindName(kind) + " residual [" + unit + "]"
+}
 
 // abscissaLabel labels the x axis of normal or shear components.
 func abscissaLabel(shear, strain bool) string {
@@ -129,8 +142,10 @@ func abscissaComp(Fs [][4]float64, comp string) string {
 }
 
 // heldNote names, for a tile's abscissa label, each normal component
-// plotted against the other axis's stretch (abscissaComp); empty when
-// none is.
+// plotted against the other axis's stretch (abscissaComp), on a line of
+// its own below the label (appended to it on one line, it ran past the
+// figure's right edge in the last column of three: "…(axis 2 he");
+// empty when none is.
 func (t *fitTable) heldNote(Fs [][4]float64, strain bool) string {
 	var notes []string
 	for _, ci := range t.componentsOf(false) {
@@ -146,7 +161,7 @@ func (t *fitTable) heldNote(Fs [][4]float64, strain bool) string {
 	if len(notes) == 0 {
 		return ""
 	}
-	return "; " + strings.Join(notes, ", ")
+	return "\n" + strings.Join(notes, ", ")
 }
 
 // series is one model's curve over one protocol: x, stress and the
@@ -400,7 +415,7 @@ func (in *Input) residualFigure(shear, strain bool) *figure {
 		if !shear {
 			xl += t.heldNote(pr.F, strain)
 		}
-		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, xl, "residual ["+t.unit+"]", 5, 6)
+		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, xl, residualAxis(t.kind, t.unit), 5, 6)
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for _, ci := range t.componentsOf(shear) {
 			xs := xsOf(pr.F, t.comps[ci], strain)

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/terms"
 	"gonum.org/v1/plot/vg"
 )
@@ -160,5 +161,84 @@ func TestTextsOutsideSeesAClippedLabel(t *testing.T) {
 	}
 	if math.Abs(w.Points()-100) > 1e-9 {
 		t.Fatalf("width %v", w.Points())
+	}
+}
+
+// The shear figure's caption says what its tiles and legend show: the
+// markers of each component, the model line, the 95 % band and the
+// held-out prediction. Until 2026-12-05 it named neither the band nor the
+// dashed held-out line that the legend lists (demo membrane-M3-sutured).
+func TestShearCaptionNamesWhatIsDrawn(t *testing.T) {
+	in := figureInput("nominal", "1:1", "1:0.5")
+	tb := in.table
+	tb.comps = append(tb.comps, "12", "21")
+	for _, pr := range tb.protocols {
+		for range 2 {
+			z := make([]float64, len(pr.F))
+			pr.measured, pr.model, pr.residual = append(pr.measured, z), append(pr.model, z), append(pr.residual, z)
+			pr.contrib[0] = append(pr.contrib[0], z)
+		}
+	}
+	in.heldout = &heldoutTable{comps: tb.comps, stress: map[string][][]float64{}}
+	in.curves = &curveTable{}
+	f := in.shearFigure(false)
+	for _, want := range []string{"triangles P12, crosses P21", "Solid: the fitted model", "shaded: its 95 % confidence band", "Dashed, on top: the held-out prediction"} {
+		if !strings.Contains(f.caption, want) {
+			t.Errorf("shear caption lacks %q: %s", want, f.caption)
+		}
+	}
+	svg := string(mustRender(t, f).svg)
+	for _, want := range []string{"P12 model, 95 % band", "P12 held-out prediction", "P21 measured"} {
+		if !strings.Contains(svg, ">"+want+"<") {
+			t.Errorf("shear legend lacks %q", want)
+		}
+	}
+	in.heldout, in.curves = nil, nil
+	if c := in.shearFigure(false).caption; strings.Contains(c, "held-out") || strings.Contains(c, "band") {
+		t.Errorf("without heldout.csv and curves.csv the caption still names them: %s", c)
+	}
+}
+
+// The two panels of an angle's profile have frames of one height, and
+// both angle axes give their unit. On the plotting library's log scale
+// the whole-range panel's frame was a fifth shorter than its neighbour's
+// (the library made room above it for the axis title's box, which it
+// places at the arithmetic middle of a log range): demo membrane-M1's
+// left y axis ran from 73.6 to 129.4 pt, the right one to 151.4 pt. The
+// log axis's labels stay: 1, 100, 1e4. Invented profile (a parabola in
+// the angle about ±30° rising to 18 000 thresholds, crossing the
+// threshold at ±0.45°).
+func TestProfilePanelsOfOneHeight(t *testing.T) {
+	var angles, loss []card.Num
+	for a := -90.0; a <= 90; a += 4 {
+		angles = append(angles, card.Num(a))
+		d := math.Min(math.Abs(a-30), math.Abs(a+30))
+		loss = append(loss, card.Num(1+5*d*d))
+	}
+	in := &Input{fit: card.FitSection{Loss: 1, Profiles: []card.ProfileCard{{Name: "angle", AnglesDeg: angles, Loss: loss,
+		OptimumDeg: 30, Threshold: 2, IntervalDeg: [2]card.Num{29.55, 30.45}, Closed: true, Mirrored: true}}}}
+	r := mustRender(t, in.profileFigure())
+	svg := string(r.svg)
+	re := regexp.MustCompile(`<path d="M([0-9.]+),([0-9.]+)L([0-9.]+),([0-9.]+)" style="fill:none;stroke:#000000;stroke-width:0.6"`)
+	var spans [][2]float64
+	for _, m := range re.FindAllStringSubmatch(svg, -1) {
+		x0, _ := strconv.ParseFloat(m[1], 64)
+		y0, _ := strconv.ParseFloat(m[2], 64)
+		x1, _ := strconv.ParseFloat(m[3], 64)
+		y1, _ := strconv.ParseFloat(m[4], 64)
+		if x0 == x1 && y1-y0 > 40 { // a y axis, not a tick
+			spans = append(spans, [2]float64{y0, y1})
+		}
+	}
+	if len(spans) != 2 {
+		t.Fatalf("%d y axes, want 2", len(spans))
+	}
+	if math.Abs(spans[0][0]-spans[1][0]) > 0.5 || math.Abs(spans[0][1]-spans[1][1]) > 0.5 {
+		t.Errorf("y axes span %.1f–%.1f pt and %.1f–%.1f pt, want one height", spans[0][0], spans[0][1], spans[1][0], spans[1][1])
+	}
+	for _, want := range []string{">fibre angle [°] from axis 1 towards axis 2, whole range<", ">fibre angle [°], around the fitted angle<", ">1<", ">100<", ">1e4<"} {
+		if !strings.Contains(svg, want) {
+			t.Errorf("no text %s", want)
+		}
 	}
 }

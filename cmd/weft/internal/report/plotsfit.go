@@ -368,8 +368,18 @@ func (in *Input) fitGridFigure(strain bool) *figure {
 func (in *Input) shearFigure(strain bool) *figure {
 	t := in.table
 	n := len(t.protocols)
-	caption := "Shear stresses against the Green shear strain E12 = ½C12, measured and modelled at the measured deformations (an interpolated one would break the test's balance of loads). " +
-		"Each stress axis spans at least ±2 % of the protocol's largest normal stress, so that negligible shear stresses look negligible."
+	caption := "Shear stresses against the Green shear strain E12 = ½C12, measured and modelled at the measured deformations (an interpolated one would break the test's balance of loads), RMSE per component in the tile title. " +
+		"Markers: measured points (" + t.shearMarkerWords() + "). Solid: the fitted model"
+	// The caption says what the legend and the tiles show: it named
+	// neither the band nor the held-out prediction drawn with them.
+	if in.curves != nil {
+		caption += "; shaded: its 95 % confidence band"
+	}
+	caption += "."
+	if in.heldout != nil {
+		caption += " Dashed, on top: the held-out prediction of the model form refitted without this protocol."
+	}
+	caption += " Each stress axis spans at least ±2 % of the protocol's largest normal stress, so that negligible shear stresses look negligible."
 	title := func(i int) string {
 		pr := t.protocols[i]
 		var q []string
@@ -383,6 +393,20 @@ func (in *Input) shearFigure(strain bool) *figure {
 	return tiledFigure("fit-shear", "Measured and modelled shear stress, every protocol", caption, n, shortTileHeight(n),
 		func(i int) *plot.Plot { return in.fitPanel(t.protocols[i], true, strain, title(i)) },
 		in.fitLegend(true))
+}
+
+// shearMarkerWords names the marker of each shear component, as
+// componentGlyph draws it: "triangles P12, crosses P21".
+func (t *fitTable) shearMarkerWords() string {
+	var out []string
+	for _, ci := range t.componentsOf(true) {
+		shape := "crosses"
+		if t.comps[ci] == "12" {
+			shape = "triangles"
+		}
+		out = append(out, shape+" "+compSymbol(t.kind, t.comps[ci]))
+	}
+	return strings.Join(out, ", ")
 }
 
 // residualFigure shows residuals (model − measured) against stretch or

@@ -242,3 +242,21 @@ func TestProfilePanelsOfOneHeight(t *testing.T) {
 		}
 	}
 }
+
+// The selection figure's axis "held-out error" has no unit; its caption
+// says what the number is (the card's selection.heldout_metric, a
+// normalised RMSE), which it did not.
+func TestParetoCaptionSaysWhatTheErrorIs(t *testing.T) {
+	sel := &card.SelectionSection{Chosen: "none-t1-p2", Pareto: []card.CandidateCard{
+		{Name: "none-t1-p2", Layout: "none", Parameters: 2, HeldoutError: 0.02, HeldoutStdErr: 0.002, Chosen: true},
+		{Name: "single-t2-p4", Layout: "single", Parameters: 4, HeldoutError: 0.019, HeldoutStdErr: 0.002}}}
+	in := discoveredInput(false, nil, sel, nil)
+	f := in.paretoFigure()
+	if f == nil {
+		t.Fatal("no selection figure")
+	}
+	if !strings.Contains(f.caption, "a normalised RMSE without unit") || !strings.Contains(f.caption, "selection.heldout_metric") {
+		t.Errorf("caption does not say what the held-out error is: %s", f.caption)
+	}
+	mustRender(t, f)
+}

@@ -536,7 +536,7 @@ func (in *Input) paretoFigure() *figure {
 	}
 	lh := legendHeight(len(legend), 3)
 	h := 2.6*vg.Inch + lh + vg.Points(6)
-	caption := "Every model form of the search that was cross-validated and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used — against the number of parameters, with ± one standard error over the folds (log scale). " +
+	caption := "Every model form of the search that was cross-validated and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used, a normalised RMSE without unit (the residuals of each protocol and axis weighted by 1/(range·√points); model.json, selection.heldout_metric) — against the number of parameters, with ± one standard error over the folds (log scale). " +
 		"Open markers: ideal fibre families; filled: families spread in the plane or by κ. The ring marks the chosen model (" + sel.Chosen + "): the smallest model of the verdict's form whose held-out error lies under the dotted threshold (that form's best plus one standard error)."
 	if lo := leftOutOf(sel); lo.total() > 0 {
 		caption += fmt.Sprintf(" %d forms were not cross-validated and are not shown (selection.csv and model.json list them): %s.", lo.total(), strings.Join(lo.reasons(false), "; "))

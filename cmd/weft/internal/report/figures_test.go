@@ -260,3 +260,57 @@ func TestParetoCaptionSaysWhatTheErrorIs(t *testing.T) {
 	}
 	mustRender(t, f)
 }
+
+// A mirror pair's two families carry the same share at every point. The
+// load-sharing figure drew the second family's line over the first's at
+// the same width, so the first (blue) vanished though the legend listed
+// it (demo one-family-0-demiray fitted with the hgo preset); the first
+// family's line is now wider and underneath. The legend lists the
+// take-over mark only where one is drawn: here the fibres carry 80 % from
+// the first point and no protocol has one.
+func TestMirrorPairBothFamiliesVisible(t *testing.T) {
+	in := figureInput("nominal", "1:1", "1:0.5")
+	tb := in.table
+	tb.terms = []string{"i1-lin", "fib-expsq@f1", "fib-expsq@f2"}
+	for _, pr := range tb.protocols {
+		m := pr.contrib[0]
+		pr.contrib = [][][]float64{make([][]float64, 2), make([][]float64, 2), make([][]float64, 2)}
+		for c := range 2 {
+			for _, v := range m[c] {
+				pr.contrib[0][c] = append(pr.contrib[0][c], 0.2*v)
+				pr.contrib[1][c] = append(pr.contrib[1][c], 0.4*v)
+				pr.contrib[2][c] = append(pr.contrib[2][c], 0.4*v)
+			}
+		}
+	}
+	f := in.splitFigure(false)
+	svg := string(mustRender(t, f).svg)
+	if strings.Contains(svg, "fibres take over half the load") {
+		t.Error("the legend lists a take-over mark that no tile draws")
+	}
+	// In every tile, each of the first family's lines is wider than the
+	// second family's and drawn before it (underneath).
+	re := regexp.MustCompile(`style="fill:none;stroke:#(0072B2|D55E00);stroke-width:([0-9.]+)`)
+	var blue, verm []float64
+	order := ""
+	for _, m := range re.FindAllStringSubmatch(svg, -1) {
+		w, _ := strconv.ParseFloat(m[2], 64)
+		if m[1] == "0072B2" {
+			blue, order = append(blue, w), order+"b"
+		} else {
+			verm, order = append(verm, w), order+"v"
+		}
+	}
+	// 2 tiles × 2 axes per family, and one legend sample per axis.
+	if len(blue) != 6 || len(verm) != 6 {
+		t.Fatalf("%d lines of family f1 and %d of f2, want 6 each", len(blue), len(verm))
+	}
+	for i := range blue {
+		if !(blue[i] > verm[i]+0.8) {
+			t.Errorf("line %d: family f1 %.1f pt wide, f2 %.1f pt: f2 hides f1 where they coincide", i, blue[i], verm[i])
+		}
+	}
+	if !strings.HasPrefix(order, "bvbvbvbv") {
+		t.Errorf("drawing order %s, want each f1 line before (under) its f2 line", order)
+	}
+}

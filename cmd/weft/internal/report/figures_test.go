@@ -314,3 +314,41 @@ func TestMirrorPairBothFamiliesVisible(t *testing.T) {
 		t.Errorf("drawing order %s, want each f1 line before (under) its f2 line", order)
 	}
 }
+
+// The presets figure draws the fitted model first and the presets over
+// it: a preset identical to the fitted model (the hgo preset beside a
+// discovered one family with fib-expsq, demo membrane-M1) then shows as
+// dashes on the black line; drawn last, the heavy black line hid it while
+// the legend listed it. Invented curves: the preset equals the model.
+func TestPresetOverTheFittedModel(t *testing.T) {
+	in := figureInput("nominal", "1:1", "1:0.5")
+	in.curves = &curveTable{models: []string{"model", "hgo"}, protos: map[string]*curveRows{}}
+	for _, pr := range in.table.protocols {
+		nan := make([]float64, len(pr.F))
+		for i := range nan {
+			nan[i] = math.NaN()
+		}
+		same := [][]float64{pr.model[0], pr.model[1]}
+		in.curves.protos[pr.label] = &curveRows{F: pr.F, stress: [][][]float64{same, same}, half: [][][]float64{{nan, nan}, {nan, nan}}}
+	}
+	svg := string(mustRender(t, in.presetsFigure(false)).svg)
+	tiles := strings.Split(svg, "stroke:#E6E6E6")
+	checked := 0
+	for _, tile := range tiles {
+		black := strings.Index(tile, "stroke:#000000;stroke-width:1.6")
+		hgo := strings.Index(tile, "stroke:#E69F00;stroke-width:1.1")
+		if black < 0 || hgo < 0 {
+			continue
+		}
+		checked++
+		if hgo < black {
+			t.Error("a tile draws the hgo preset before (under) the fitted model's heavy black line")
+		}
+	}
+	if checked < 2 {
+		t.Fatalf("%d tiles with both lines, want 2", checked)
+	}
+	if f := in.presetsFigure(false); !strings.Contains(f.caption, "drawn underneath") {
+		t.Errorf("caption does not say the model is drawn underneath: %s", f.caption)
+	}
+}

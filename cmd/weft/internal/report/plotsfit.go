@@ -537,8 +537,12 @@ func (in *Input) presetsFigure(strain bool) *figure {
 		for _, ci := range t.componentsOf(false) {
 			addPoints(p, xsOf(pr.F, t.comps[ci], strain), pr.measured[ci], muted(componentGlyph(t.comps[ci], 1.9)))
 		}
-		// Presets first, the fitted model last, on top.
-		for k := len(models) - 1; k >= 0; k-- {
+		// The fitted model first, heavy, and the presets' dashed lines over
+		// it: a preset that is the fitted model (hgo beside a discovered
+		// one family with fib-expsq, demo membrane-M1) shows as dashes on
+		// the black line. Drawn last, the black line hid it, though the
+		// legend listed it.
+		for _, k := range presetDrawOrder(models) {
 			for _, ci := range t.componentsOf(false) {
 				addCurve(p, all[k].x[ci], all[k].y[ci], presetStyle(models[k]))
 			}
@@ -547,7 +551,7 @@ func (in *Input) presetsFigure(strain bool) *figure {
 		clipToData(p, pr, t)
 		return p
 	}
-	caption := "One tile per protocol: the measured normal stresses (circles axis 1, squares axis 2) with the discovered model (black, heavy) and the classical presets fitted to the same data by the same fitter, each with its 95 % confidence band (shaded; often thinner than the line). " +
+	caption := "One tile per protocol: the measured normal stresses (circles axis 1, squares axis 2) with the discovered model (black, heavy, drawn underneath, so that a preset that coincides with it shows as coloured dashes on it) and the classical presets fitted to the same data by the same fitter, each with its 95 % confidence band (shaded; often thinner than the line). " +
 		"The number beside each model in the legend is its held-out error, the quantity the selection compares."
 	if !in.crossValidated() {
 		// One protocol: nothing was held out, the legend has no numbers.
@@ -558,6 +562,24 @@ func (in *Input) presetsFigure(strain bool) *figure {
 		caption += " Shear components are compared in the tables of the model selection."
 	}
 	return tiledFigure("presets", "The discovered model beside the classical presets", caption, n, tileHeight(n), panel, legend)
+}
+
+// presetDrawOrder is the order in which the presets figure draws the
+// models of curves.csv: the fitted model ("model") first, then the
+// presets from the last to the first.
+func presetDrawOrder(models []string) []int {
+	var out []int
+	for k, m := range models {
+		if m == "model" {
+			out = append(out, k)
+		}
+	}
+	for k := len(models) - 1; k >= 0; k-- {
+		if models[k] != "model" {
+			out = append(out, k)
+		}
+	}
+	return out
 }
 
 // clipToData keeps the stress axis of a presets tile near the data: a

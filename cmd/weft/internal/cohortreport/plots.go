@@ -3,11 +3,13 @@ package cohortreport
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 )
 
@@ -17,9 +19,30 @@ import (
 // tileColumns is how many panels a row of a tiled figure holds.
 const tileColumns = 3
 
-// tiles draws plots in a grid of tileColumns columns below a title.
-func tiles(dc draw.Canvas, title string, plots []*plot.Plot) {
+// legendColumns is how many columns a figure's legend has: two, so that
+// a curve figure's legend reads axis 1 on one line and axis 2 on the next.
+const legendColumns = 2
+
+// legendStrip is the height of a legend of n items with the space below
+// it.
+func legendStrip(n int) vg.Length {
+	if n == 0 {
+		return 0
+	}
+	return report.LegendHeight(n, legendColumns) + vg.Points(6)
+}
+
+// tiles draws plots in a grid of tileColumns columns below a title and
+// the legend (none when legend is empty), which says what the panels'
+// lines and markers are: the figures had none, and their pale and heavy
+// lines were explained only in the caption.
+func tiles(dc draw.Canvas, title string, plots []*plot.Plot, legend []report.LegendItem) {
 	dc = report.DrawTitle(dc, title)
+	if len(legend) > 0 {
+		lh := report.LegendHeight(len(legend), legendColumns)
+		report.DrawLegend(draw.Crop(dc, vg.Points(30), 0, dc.Size().Y-lh, 0), legend, legendColumns)
+		dc = draw.Crop(dc, 0, 0, 0, -legendStrip(len(legend)))
+	}
 	rows := (len(plots) + tileColumns - 1) / tileColumns
 	grid := make([][]*plot.Plot, rows)
 	for r := range grid {
@@ -70,7 +93,14 @@ func (s *Summary) parameterFigure(in *Input) *report.Figure {
 		stat[[2]string{st.Parameter, st.Group}] = st
 	}
 	rows := (len(s.Parameters) + tileColumns - 1) / tileColumns
-	f := &report.Figure{Name: "parameters", Title: "Parameters by group", Width: 10 * vg.Inch, Height: vg.Length(rows)*2.8*vg.Inch + 0.5*vg.Inch,
+	dot := report.ComponentGlyph("11", 2)
+	dot.Color = report.GroupColor(0)
+	legend := []report.LegendItem{
+		{Text: "one specimen", Glyph: dot},
+		{Text: "group mean (short bar)", Line: report.LineStyle(report.GroupColor(0), 2.2, false)},
+		{Text: "95 % interval of the mean (line)", Line: report.LineStyle(report.GroupColor(0), 1.2, false)},
+	}
+	f := &report.Figure{Name: "parameters", Title: "Parameters by group", Width: 10 * vg.Inch, Height: vg.Length(rows)*2.8*vg.Inch + 0.5*vg.Inch + legendStrip(len(legend)),
 		Caption: "Dots: one specimen each, spread sideways within its group. Bar and line beside them: the group's mean and the 95 % interval of the mean (Student t). Angles summarised as |α| are marked so in the panel's title."}
 	f.Draw = func(dc draw.Canvas) error {
 		var plots []*plot.Plot
@@ -111,7 +141,7 @@ func (s *Summary) parameterFigure(in *Input) *report.Figure {
 			}
 			plots = append(plots, pl)
 		}
-		tiles(dc, "Parameters of every specimen, by group", plots)
+		tiles(dc, "Parameters of every specimen, by group", plots, legend)
 		return nil
 	}
 	return f
@@ -148,9 +178,10 @@ func (s *Summary) curveFigure(in *Input) *report.Figure {
 		}
 	}
 	rows := (len(labels) + tileColumns - 1) / tileColumns
+	legend := curveLegend(in.StressKind)
 	f := &report.Figure{Name: "curves", Title: "Every specimen's curves and the population model", Width: 10 * vg.Inch,
-		Height:  vg.Length(rows)*2.9*vg.Inch + 0.5*vg.Inch,
-		Caption: "Pale lines: each pooled specimen's measured normal stress against the stretch of its axis (axis 1 blue, axis 2 vermillion). Dark lines: the population model (population.json) along the deformation of the specimen that reached the largest stretch in that protocol."}
+		Height:  vg.Length(rows)*2.9*vg.Inch + 0.5*vg.Inch + legendStrip(len(legend)),
+		Caption: "Pale lines: each pooled specimen's measured normal stress against the stretch of its axis (axis 1 blue, axis 2 vermillion). Dark lines: the population model (population.json) along the deformation of the specimen that reached the largest stretch in that protocol." + pooledNote(in)}
 	f.Draw = func(dc draw.Canvas) error {
 		var plots []*plot.Plot
 		for _, l := range labels {
@@ -183,10 +214,51 @@ func (s *Summary) curveFigure(in *Input) *report.Figure {
 			}
 			plots = append(plots, pl)
 		}
-		tiles(dc, fmt.Sprintf("Measured curves of %d specimens and the population model", len(in.Cohort.InPopulation)), plots)
+		tiles(dc, fmt.Sprintf("Measured curves of %d specimens and the population model", len(in.Cohort.InPopulation)), plots, legend)
 		return nil
 	}
 	return f
+}
+
+// curveLegend names the lines of the curves figure, with the symbols of
+// the cohort's stress measure ("cauchy" or "nominal").
+func curveLegend(kind string) []report.LegendItem {
+	k := biaxial.Cauchy
+	if kind == biaxial.Nominal.String() {
+		k = biaxial.Nominal
+	}
+	var out []report.LegendItem
+	for _, comp := range []string{"11", "22"} {
+		out = append(out,
+			report.LegendItem{Text: k.Symbol(comp) + " measured, each pooled specimen", Line: report.LineStyle(report.Tint(report.ComponentColor(comp), 0.35), 0.6, false)},
+			report.LegendItem{Text: k.Symbol(comp) + " population model", Line: report.LineStyle(report.ComponentColor(comp), 2, false)})
+	}
+	return out
+}
+
+// pooledNote names, for the curves figure's caption, the specimens drawn
+// and those left out of the population fit, whose curves are not drawn:
+// the figure's count ("2 specimens") otherwise disagreed unexplained with
+// the cohort's.
+func pooledNote(in *Input) string {
+	var drawn, left []string
+	name := func(i int) string {
+		if j := specimenIndex(in, i); j >= 0 {
+			return in.Specimens[j].Name
+		}
+		return fmt.Sprintf("specimen %d", i+1)
+	}
+	for _, i := range in.Cohort.InPopulation {
+		drawn = append(drawn, name(i))
+	}
+	for _, i := range in.Cohort.LeftOut {
+		left = append(left, name(i))
+	}
+	note := " Drawn: " + strings.Join(drawn, ", ") + "."
+	if len(left) > 0 {
+		note += " Not drawn, left out of the population fit (another stress measure or unit): " + strings.Join(left, ", ") + "."
+	}
+	return note
 }
 
 // axisStretch is the stretch of a material line along axis c+1,

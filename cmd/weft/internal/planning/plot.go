@@ -21,6 +21,7 @@ import (
 
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // planColours and planDashes tell the explanations apart in the plot of
@@ -90,7 +91,7 @@ func Plot(f *Folder, d *aniso.Design, name string) ([]byte, error) {
 	legend.TextStyle.Font = font.From(planFont, vg.Points(8))
 	var plots []*plot.Plot
 	for j, comp := range at[0].Components {
-		p := newPlanPanel(fmt.Sprintf("%s %s [%s]", f.card.Data.StressKind, comp, f.card.Data.StressUnit))
+		p := newPlanPanel(stressTitle(f.card.Data.StressKind, comp, f.card.Data.StressUnit))
 		lo, hi := make(plotter.XYs, len(x)), make(plotter.XYs, len(x))
 		for i := range x {
 			s, n := at[0].Stress[i][j], 2*at[0].Noise[i][j]
@@ -131,6 +132,18 @@ func Plot(f *Folder, d *aniso.Design, name string) ([]byte, error) {
 		plots = append(plots, p)
 	}
 	return renderPlanPlot(plots, &legend, len(exps)+1, title, card.CautionsOf(f.card), strings.HasSuffix(strings.ToLower(name), ".png"))
+}
+
+// stressTitle heads the panel of a stress component: the measure in
+// words, its symbol and the unit the data gave, "nominal stress P11
+// [kPa]" or "Cauchy stress σ11 [kPa]" (it read "nominal 11 [kPa]", and
+// "cauchy 11 [kPa]" for a Cauchy fit).
+func stressTitle(kind, comp, unit string) string {
+	k := biaxial.Cauchy
+	if kind == biaxial.Nominal.String() {
+		k = biaxial.Nominal
+	}
+	return k.Words() + " stress " + k.Symbol(comp) + " [" + unit + "]"
 }
 
 // newPlanPanel is one panel with its title and readable ticks.
@@ -239,12 +252,18 @@ func renderPlanPlot(plots []*plot.Plot, legend *plot.Legend, entries int, title 
 	ts := text.Style{Color: color.Black, Font: font.From(planFont, vg.Points(11)), Handler: plot.DefaultTextHandler}
 	dc.FillText(ts, vg.Point{X: vg.Points(8), Y: h - vg.Points(16)}, title)
 	legend.Top, legend.Left = true, true
+	// The library stacks the entries one text height apart, so that one
+	// line's descenders touched the next line's capitals; a gap keeps
+	// them apart and the head's 11 points per entry still hold them.
+	legend.Padding = legendGap
 	legend.Draw(draw.Crop(dc, vg.Points(8), 0, h-head, -vg.Points(22)))
 	for i, l := range foot {
 		dc.FillText(fs, vg.Point{X: vg.Points(8), Y: footH - lineH*vg.Length(i+1)}, l)
 	}
 	body := draw.Crop(dc, 0, 0, footH, -head)
-	tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(6)}
+	// PadLeft keeps the first panel's tick labels off the figure's edge
+	// (they started at x = 0), in line with the title and the legend.
+	tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(14), PadBottom: vg.Points(2), PadRight: vg.Points(6), PadLeft: vg.Points(8)}
 	cs := plot.Align([][]*plot.Plot{plots}, tiles, body)
 	for i, p := range plots {
 		p.Draw(cs[0][i])
@@ -258,8 +277,21 @@ func renderPlanPlot(plots []*plot.Plot, legend *plot.Legend, entries int, title 
 	if err != nil {
 		return nil, err
 	}
+	if img == nil {
+		// As in the fit report: a browser without Liberation Sans takes
+		// a metric-compatible face instead of its default (often a serif
+		// of other widths, which moved the text off its place).
+		return bytes.ReplaceAll(b.Bytes(), []byte("font-family:Liberation Sans;"), []byte(svgFontFamily)), nil
+	}
 	return b.Bytes(), nil
 }
+
+// svgFontFamily is the font list of the plot's SVG text: Liberation Sans
+// and faces with its metrics.
+const svgFontFamily = "font-family:'Liberation Sans',Arimo,Arial,Helvetica,sans-serif;"
+
+// legendGap is the space between two legend entries.
+var legendGap = vg.Points(2.5)
 
 // wrapToWidth breaks s at spaces into lines no wider than width in style
 // st; a word wider than width stands on its own line.

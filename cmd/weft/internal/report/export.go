@@ -136,3 +136,28 @@ func TraceFacts(p *card.Provenance, drawnBy string) []Fact {
 	}
 	return out
 }
+
+// LegendItem is one line of a legend drawn by another page of weft: its
+// text beside a line sample (Line, when its width is above zero) or a
+// marker (Glyph, when it has a shape).
+type LegendItem struct {
+	Text  string
+	Line  draw.LineStyle
+	Glyph draw.GlyphStyle
+}
+
+// LegendHeight is the height n legend items take in cols columns.
+func LegendHeight(n, cols int) vg.Length { return legendHeight(n, cols) }
+
+// DrawLegend writes the items in cols columns filling dc from its top
+// left, row by row, in the fit report's legend style.
+func DrawLegend(dc draw.Canvas, items []LegendItem, cols int) {
+	entries := make([]legendEntry, len(items))
+	for i, it := range items {
+		entries[i] = legendEntry{text: it.Text, sample: lineSample(it.Line)}
+		if it.Glyph.Shape != nil {
+			entries[i].sample = glyphSample(it.Glyph)
+		}
+	}
+	drawLegend(dc, entries, cols)
+}

@@ -162,10 +162,14 @@ func (in *Input) profilePoints(pc card.ProfileCard) (xs, ys []float64) {
 	return xs, ys
 }
 
-// profileWhole is the panel over the whole range, log scale.
+// profileWhole is the panel over the whole range, log scale. The axis
+// holds log10 of the rise on a linear scale, its ticks labelled with the
+// rise itself (log10Ticks): on the plotting library's log scale the panel
+// lost a fifth of its height, as the library places the axis title's box
+// at the arithmetic middle of the range (near the top of a log axis) and
+// made room above the frame for it.
 func (in *Input) profileWhole(pc card.ProfileCard) *plot.Plot {
-	p := newPanel("", "fibre angle from axis 1 towards axis 2, whole range", "loss rise ÷ threshold rise", 5, 6)
-	p.Y.Scale = plot.LogScale{}
+	p := newPanel("", "fibre angle [°] from axis 1 towards axis 2, whole range", "loss rise ÷ threshold rise", 5, 6)
 	p.X.Tick.Marker = degTicks()
 	p.X.Min, p.X.Max = -90, 90
 	xs, ys := in.profilePoints(pc)
@@ -177,10 +181,11 @@ func (in *Input) profileWhole(pc card.ProfileCard) *plot.Plot {
 		if v < profileFloor {
 			ys[k] = profileFloor
 		}
+		ys[k] = math.Log10(ys[k])
 	}
-	y0, y1 := profileFloor, top*2
+	y0, y1 := math.Log10(profileFloor), math.Log10(top*2)
 	p.Y.Min, p.Y.Max = y0, y1
-	p.Y.Tick.Marker = logTicks{maxLabels: 6}
+	p.Y.Tick.Marker = log10Ticks{logTicks{maxLabels: 6}}
 	opt := float64(pc.OptimumDeg)
 	iv := [2]float64{float64(pc.IntervalDeg[0]), float64(pc.IntervalDeg[1])}
 	if !bad(iv[0]) && !bad(iv[1]) {
@@ -194,7 +199,7 @@ func (in *Input) profileWhole(pc card.ProfileCard) *plot.Plot {
 		}
 	}
 	addCurve(p, xs, ys, profileLine)
-	addCurve(p, []float64{-90, 90}, []float64{1, 1}, thresholdLine)
+	addCurve(p, []float64{-90, 90}, []float64{0, 0}, thresholdLine) // a rise of 1
 	if !bad(opt) {
 		addCurve(p, []float64{opt, opt}, []float64{y0, y1}, fittedLine)
 		if pc.Mirrored && math.Abs(opt) > 1e-9 {
@@ -202,6 +207,19 @@ func (in *Input) profileWhole(pc card.ProfileCard) *plot.Plot {
 		}
 	}
 	return p
+}
+
+// log10Ticks labels a linear axis that holds log10 of a quantity as
+// logTicks labels the quantity on a log axis.
+type log10Ticks struct{ logTicks }
+
+// Ticks implements plot.Ticker.
+func (lt log10Ticks) Ticks(lo, hi float64) []plot.Tick {
+	ts := lt.logTicks.Ticks(math.Pow(10, lo), math.Pow(10, hi))
+	for i := range ts {
+		ts[i].Value = math.Log10(ts[i].Value)
+	}
+	return ts
 }
 
 // profileZoom is the panel around the fitted angle, linear scale: the
@@ -215,7 +233,7 @@ func (in *Input) profileZoom(pc card.ProfileCard) *plot.Plot {
 	p.Y.Min, p.Y.Max = 0, 4
 	if pc.NotDetermined || !pc.Closed || bad(opt) || bad(iv[0]) || bad(iv[1]) || bad(in.rise(pc, float64(pc.Threshold))) {
 		// Nothing narrow to zoom into: the whole range on a linear scale.
-		p.X.Label.Text = "fibre angle, whole range, linear scale"
+		p.X.Label.Text = "fibre angle [°], whole range, linear scale"
 		xs, ys := in.profilePoints(pc)
 		p.X.Tick.Marker = degTicks()
 		p.X.Min, p.X.Max = -90, 90
@@ -518,7 +536,7 @@ func (in *Input) paretoFigure() *figure {
 	}
 	lh := legendHeight(len(legend), 3)
 	h := 2.6*vg.Inch + lh + vg.Points(6)
-	caption := "Every model form of the search that was cross-validated and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used — against the number of parameters, with ± one standard error over the folds (log scale). " +
+	caption := "Every model form of the search that was cross-validated and the classical presets: the held-out error — the leave-one-protocol-out criterion the selection used, a normalised RMSE without unit (the residuals of each protocol and axis weighted by 1/(range·√points); model.json, selection.heldout_metric) — against the number of parameters, with ± one standard error over the folds (log scale). " +
 		"Open markers: ideal fibre families; filled: families spread in the plane or by κ. The ring marks the chosen model (" + sel.Chosen + "): the smallest model of the verdict's form whose held-out error lies under the dotted threshold (that form's best plus one standard error)."
 	if lo := leftOutOf(sel); lo.total() > 0 {
 		caption += fmt.Sprintf(" %d forms were not cross-validated and are not shown (selection.csv and model.json list them): %s.", lo.total(), strings.Join(lo.reasons(false), "; "))

@@ -34,8 +34,21 @@ func kindName(kind string) string {
 	return kind
 }
 
-// stressAxis labels a tile's stress axis: "P [kPa]" or "σ [kPa]".
-func stressAxis(kind, unit string) string { return compSymbol(kind, "") + " [" + unit + "]" }
+// stressAxis labels a tile's stress axis with the measure, the symbol
+// and the unit the input gave: "nominal P [kPa]" or "Cauchy σ [kPa]" (the
+// symbol alone, "P [kPa]", named no measure to a reader who does not know
+// the convention). It stays short: the plotting library shrinks a tile's
+// data area until the rotated label fits beside it, and "nominal stress
+// P [kPa]" squashed the short tiles of seven protocols to a third.
+func stressAxis(kind, unit string) string {
+	return kindName(kind) + " " + compSymbol(kind, "") + " [" + unit + "]"
+}
+
+// residualAxis labels a residual tile's axis the same way: "nominal
+// residual [kPa]" (it held "residual [kPa]", no measure).
+func residualAxis(kind, unit string) string {
+	return kindName(kind) + " residual [" + unit + "]"
+}
 
 // abscissaLabel labels the x axis of normal or shear components.
 func abscissaLabel(shear, strain bool) string {
@@ -129,8 +142,10 @@ func abscissaComp(Fs [][4]float64, comp string) string {
 }
 
 // heldNote names, for a tile's abscissa label, each normal component
-// plotted against the other axis's stretch (abscissaComp); empty when
-// none is.
+// plotted against the other axis's stretch (abscissaComp), on a line of
+// its own below the label (appended to it on one line, it ran past the
+// figure's right edge in the last column of three: "…(axis 2 he");
+// empty when none is.
 func (t *fitTable) heldNote(Fs [][4]float64, strain bool) string {
 	var notes []string
 	for _, ci := range t.componentsOf(false) {
@@ -146,7 +161,7 @@ func (t *fitTable) heldNote(Fs [][4]float64, strain bool) string {
 	if len(notes) == 0 {
 		return ""
 	}
-	return "; " + strings.Join(notes, ", ")
+	return "\n" + strings.Join(notes, ", ")
 }
 
 // series is one model's curve over one protocol: x, stress and the
@@ -353,8 +368,18 @@ func (in *Input) fitGridFigure(strain bool) *figure {
 func (in *Input) shearFigure(strain bool) *figure {
 	t := in.table
 	n := len(t.protocols)
-	caption := "Shear stresses against the Green shear strain E12 = ½C12, measured and modelled at the measured deformations (an interpolated one would break the test's balance of loads). " +
-		"Each stress axis spans at least ±2 % of the protocol's largest normal stress, so that negligible shear stresses look negligible."
+	caption := "Shear stresses against the Green shear strain E12 = ½C12, measured and modelled at the measured deformations (an interpolated one would break the test's balance of loads), RMSE per component in the tile title. " +
+		"Markers: measured points (" + t.shearMarkerWords() + "). Solid: the fitted model"
+	// The caption says what the legend and the tiles show: it named
+	// neither the band nor the held-out prediction drawn with them.
+	if in.curves != nil {
+		caption += "; shaded: its 95 % confidence band"
+	}
+	caption += "."
+	if in.heldout != nil {
+		caption += " Dashed, on top: the held-out prediction of the model form refitted without this protocol."
+	}
+	caption += " Each stress axis spans at least ±2 % of the protocol's largest normal stress, so that negligible shear stresses look negligible."
 	title := func(i int) string {
 		pr := t.protocols[i]
 		var q []string
@@ -368,6 +393,20 @@ func (in *Input) shearFigure(strain bool) *figure {
 	return tiledFigure("fit-shear", "Measured and modelled shear stress, every protocol", caption, n, shortTileHeight(n),
 		func(i int) *plot.Plot { return in.fitPanel(t.protocols[i], true, strain, title(i)) },
 		in.fitLegend(true))
+}
+
+// shearMarkerWords names the marker of each shear component, as
+// componentGlyph draws it: "triangles P12, crosses P21".
+func (t *fitTable) shearMarkerWords() string {
+	var out []string
+	for _, ci := range t.componentsOf(true) {
+		shape := "crosses"
+		if t.comps[ci] == "12" {
+			shape = "triangles"
+		}
+		out = append(out, shape+" "+compSymbol(t.kind, t.comps[ci]))
+	}
+	return strings.Join(out, ", ")
 }
 
 // residualFigure shows residuals (model − measured) against stretch or
@@ -400,7 +439,7 @@ func (in *Input) residualFigure(shear, strain bool) *figure {
 		if !shear {
 			xl += t.heldNote(pr.F, strain)
 		}
-		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, xl, "residual ["+t.unit+"]", 5, 6)
+		p := newPanel(pr.label+" · RMSE "+strings.Join(q, " / ")+" "+t.unit, xl, residualAxis(t.kind, t.unit), 5, 6)
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for _, ci := range t.componentsOf(shear) {
 			xs := xsOf(pr.F, t.comps[ci], strain)
@@ -498,8 +537,12 @@ func (in *Input) presetsFigure(strain bool) *figure {
 		for _, ci := range t.componentsOf(false) {
 			addPoints(p, xsOf(pr.F, t.comps[ci], strain), pr.measured[ci], muted(componentGlyph(t.comps[ci], 1.9)))
 		}
-		// Presets first, the fitted model last, on top.
-		for k := len(models) - 1; k >= 0; k-- {
+		// The fitted model first, heavy, and the presets' dashed lines over
+		// it: a preset that is the fitted model (hgo beside a discovered
+		// one family with fib-expsq, demo membrane-M1) shows as dashes on
+		// the black line. Drawn last, the black line hid it, though the
+		// legend listed it.
+		for _, k := range presetDrawOrder(models) {
 			for _, ci := range t.componentsOf(false) {
 				addCurve(p, all[k].x[ci], all[k].y[ci], presetStyle(models[k]))
 			}
@@ -508,7 +551,7 @@ func (in *Input) presetsFigure(strain bool) *figure {
 		clipToData(p, pr, t)
 		return p
 	}
-	caption := "One tile per protocol: the measured normal stresses (circles axis 1, squares axis 2) with the discovered model (black, heavy) and the classical presets fitted to the same data by the same fitter, each with its 95 % confidence band (shaded; often thinner than the line). " +
+	caption := "One tile per protocol: the measured normal stresses (circles axis 1, squares axis 2) with the discovered model (black, heavy, drawn underneath, so that a preset that coincides with it shows as coloured dashes on it) and the classical presets fitted to the same data by the same fitter, each with its 95 % confidence band (shaded; often thinner than the line). " +
 		"The number beside each model in the legend is its held-out error, the quantity the selection compares."
 	if !in.crossValidated() {
 		// One protocol: nothing was held out, the legend has no numbers.
@@ -519,6 +562,24 @@ func (in *Input) presetsFigure(strain bool) *figure {
 		caption += " Shear components are compared in the tables of the model selection."
 	}
 	return tiledFigure("presets", "The discovered model beside the classical presets", caption, n, tileHeight(n), panel, legend)
+}
+
+// presetDrawOrder is the order in which the presets figure draws the
+// models of curves.csv: the fitted model ("model") first, then the
+// presets from the last to the first.
+func presetDrawOrder(models []string) []int {
+	var out []int
+	for k, m := range models {
+		if m == "model" {
+			out = append(out, k)
+		}
+	}
+	for k := len(models) - 1; k >= 0; k-- {
+		if models[k] != "model" {
+			out = append(out, k)
+		}
+	}
+	return out
 }
 
 // clipToData keeps the stress axis of a presets tile near the data: a

@@ -173,6 +173,20 @@ func groupLine(group string, groups []string) color.NRGBA {
 	return okabeVermillion
 }
 
+// groupWidth is the width of a split group's line in points: the first
+// fibre family's is drawn wider than the others, underneath them, so
+// that where two families carry the same share (the two families of a
+// mirror pair always do) the first shows as a border around the second;
+// at one width the second hid the first, and the legend listed a line
+// the figure did not show. The widths also tell the families apart in
+// grey print, where blue and vermillion are 8 L* apart.
+func groupWidth(group string, groups []string) float64 {
+	if group != "matrix" && groupLine(group, groups) == okabeBlue {
+		return 2.4
+	}
+	return 1.3
+}
+
 // axisDash is the dash pattern of an axis in the split figure: axis 1
 // solid, axis 2 dashed.
 func axisDash(comp string) []float64 {
@@ -190,6 +204,21 @@ func groupName(g string) string {
 	return "fibre family " + g
 }
 
+// anyTakeover reports whether the fibres come to carry half of some
+// protocol's axis load after its first loaded point, where the split
+// figure marks it.
+func (t *fitTable) anyTakeover(groups []string, strain bool) bool {
+	for _, pr := range t.protocols {
+		for _, ci := range t.componentsOf(false) {
+			xs := xsOf(pr.F, t.comps[ci], strain)
+			if to, ok := takeoverOf(xs, fibreFraction(groups, t.groupShares(pr, ci, groups))); ok && !math.IsNaN(to.at) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 // splitFigure draws, per protocol, the fraction of each axis's modelled
 // stress carried by the matrix and by each fibre family against stretch,
 // with a mark at the stretch where the fibres take over half of the load;
@@ -205,11 +234,14 @@ func (in *Input) splitFigure(strain bool) *figure {
 	for _, ci := range t.componentsOf(false) {
 		c := t.comps[ci]
 		for _, g := range groups {
-			legend = append(legend, legendEntry{groupName(g) + ", axis " + c[:1], lineSample(lineStyle(groupLine(g, groups), 1.3, axisDash(c)...))})
+			legend = append(legend, legendEntry{groupName(g) + ", axis " + c[:1], lineSample(lineStyle(groupLine(g, groups), groupWidth(g, groups), axisDash(c)...))})
 		}
 	}
 	mark := draw.GlyphStyle{Color: okabeBlack, Radius: vg.Points(3.2), Shape: filledMark{n: 4}}
-	legend = append(legend, legendEntry{"fibres take over half the load", glyphSample(mark)})
+	if t.anyTakeover(groups, strain) {
+		// Only a mark that is drawn somewhere is listed.
+		legend = append(legend, legendEntry{"fibres take over half the load", glyphSample(mark)})
+	}
 	panel := func(i int) *plot.Plot {
 		pr := t.protocols[i]
 		p := newPanel(pr.label, abscissaLabel(false, strain)+t.heldNote(pr.F, strain), "share of the load [%]", 5, 6)
@@ -224,7 +256,7 @@ func (in *Input) splitFigure(strain bool) *figure {
 				for k, v := range shares[g] {
 					ys[k] = 100 * v
 				}
-				addCurve(p, xs, ys, lineStyle(groupLine(name, groups), 1.3, axisDash(c)...))
+				addCurve(p, xs, ys, lineStyle(groupLine(name, groups), groupWidth(name, groups), axisDash(c)...))
 			}
 			for _, x := range xs {
 				lo, hi = math.Min(lo, x), math.Max(hi, x)
@@ -245,7 +277,7 @@ func (in *Input) splitFigure(strain bool) *figure {
 	if strain {
 		measure = "Green strain"
 	}
-	caption := "For each protocol and axis, the fraction of the modelled stress carried by the matrix (isotropic terms) and by each fibre family at every point (axis 1 solid, axis 2 dashed), from the per-term contributions in fit.csv: " +
+	caption := "For each protocol and axis, the fraction of the modelled stress carried by the matrix (isotropic terms) and by each fibre family at every point (axis 1 solid, axis 2 dashed; the first family's line wider and underneath, so that where two families carry the same share, as a mirror pair's do, both stay visible), from the per-term contributions in fit.csv: " +
 		"each group's summed contribution in magnitude over the sum of the groups' magnitudes. The diamond on the 50 % line marks the " + measure + " at which the fibres come to carry half of the load (interpolated between points; listed in the table below). " +
 		"Points where the modelled stress is negligible (under 2 % of the protocol's largest normal stress) while the groups' stresses cancel carry no load to share and are left out; a small stress that one group carries alone, as in the toe before the fibres are recruited, is shown."
 	return tiledFigure("load-share", "Who carries the load: matrix and fibre families against "+measure, caption, n, tileHeight(n), panel, legend)

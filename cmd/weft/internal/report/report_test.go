@@ -475,7 +475,7 @@ func TestHeldAxisAgainstTheOther(t *testing.T) {
 		t.Errorf("strip 1:0, P22 abscissae %v, want λ1 from 1 to 1.15", xs)
 	}
 	ft := &fitTable{comps: []string{"11", "22"}, kind: "nominal"}
-	if n := ft.heldNote(strip, false); n != "; P22 against λ1 (axis 2 held)" {
+	if n := ft.heldNote(strip, false); n != "\nP22 against λ1 (axis 2 held)" {
 		t.Errorf("held note %q", n)
 	}
 	if n := ft.heldNote(quarter, true); n != "" {

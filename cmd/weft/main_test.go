@@ -36,6 +36,9 @@ func writeTemp(t *testing.T, name, content string) string {
 // memory in the file WEFT_PEAK_FILE names where recordPeak is available.
 func TestMain(m *testing.M) {
 	if os.Getenv("WEFT_RUN_MAIN") == "1" {
+		if os.Getenv("WEFT_SIGNAL_BETWEEN_COMMITS") == "1" {
+			betweenReportCommits = signalSelfAndYield
+		}
 		if path := os.Getenv("WEFT_PEAK_FILE"); path != "" && recordPeak != nil {
 			os.Exit(recordPeak(path))
 		}

@@ -2,9 +2,11 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"os"
 	"runtime"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 )
@@ -52,5 +54,54 @@ func TestIsTerminalNotEveryCharacterDevice(t *testing.T) {
 	defer pty.Close()
 	if !isTerminal(pty) {
 		t.Error("a pseudo-terminal does not count as a terminal")
+	}
+}
+
+// Workers report at once, as the discovery's pool does (counts handed out
+// under the pool's lock, reports sent after it is released): on a
+// terminal the drawn count never goes back and ends on the last job. Run
+// with -race to check the bar's own state is guarded.
+func TestProgressConcurrentReports(t *testing.T) {
+	var b bytes.Buffer
+	p := newProgress(&b, true, "fitting x", false)
+	p.start = time.Now().Add(-2 * time.Second) // past the one-second delay
+	const workers, total = 8, 400
+	var mu sync.Mutex
+	done := 0
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				mu.Lock()
+				if done == total {
+					mu.Unlock()
+					return
+				}
+				done++
+				d := done
+				mu.Unlock()
+				p.set(d, total)
+			}
+		}()
+	}
+	wg.Wait()
+	p.finish()
+	last := 0
+	frames := strings.Split(b.String(), "\r")
+	for _, frame := range frames[1 : len(frames)-2] { // the last two clear the bar
+		f := strings.Fields(frame)
+		var d, n int
+		if _, err := fmt.Sscanf(f[len(f)-1], "%d/%d", &d, &n); err != nil || n != total {
+			t.Fatalf("frame %q: %v", frame, err)
+		}
+		if d < last {
+			t.Fatalf("drawn %d after %d", d, last)
+		}
+		last = d
+	}
+	if last != total {
+		t.Errorf("the bar ended on %d of %d", last, total)
 	}
 }

@@ -72,6 +72,10 @@ weft fit already writes the report, so replacing it needs --force.
 	return cmd
 }
 
+// betweenReportCommits, nil but in tests, runs between the commit of a
+// report's plots/ and that of its page, where a test delivers a signal.
+var betweenReportCommits func()
+
 // runReport rebuilds the report of the folder o.dir.
 func runReport(o *reportOptions) error {
 	dir, strain, force := o.dir, o.strain, o.force
@@ -116,21 +120,37 @@ func runReport(o *reportOptions) error {
 	for _, f := range files[1:] {
 		plots = append(plots, safeout.FileData{Name: path.Base(f.Rel), Data: f.Data})
 	}
+	// The plots, the page and the marker are three commits: an
+	// interruption between them left new plots beside the old page, and
+	// the new plots missing from the marker, so that weft refused to
+	// replace its own PNGs afterwards ('holds files weft did not write').
+	// A signal now waits for the three.
+	release := safeout.HoldInterruptions()
+	defer release()
 	if err := safeout.ReplacePlots(plotsPath, plots); err != nil {
 		return err
 	}
-	if err := html.Commit(files[0].Data); err != nil {
-		return outputError(err)
+	if betweenReportCommits != nil {
+		betweenReportCommits()
 	}
+	pageErr := html.Commit(files[0].Data)
 	if hasMarker {
-		names := make([]string, len(files))
+		// The new plots are in place even when the page could not be
+		// written: listed, they stay weft's to replace.
+		var names []string
 		for i, f := range files {
-			names[i] = f.Rel
+			if i > 0 || pageErr == nil {
+				names = append(names, f.Rel)
+			}
 		}
-		if err := safeout.UpdateMarker(dir, listed, "plots", names); err != nil {
+		if err := safeout.UpdateMarker(dir, listed, "plots", names); err != nil && pageErr == nil {
 			return outputError(err)
 		}
 	}
+	if pageErr != nil {
+		return outputError(pageErr)
+	}
+	release()
 	what := "SVG"
 	if o.png {
 		what = "SVG and PNG"

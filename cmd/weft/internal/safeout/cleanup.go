@@ -19,6 +19,25 @@ var cleanup = struct {
 	locks map[string]bool
 }{temps: map[string]bool{}, locks: map[string]bool{}}
 
+// commitGate is held across the commits of one output made of several
+// files or folders (see HoldInterruptions) and taken by the signal handler
+// before it cleans up, so that an interruption lands before the first of
+// them or after the last, never between.
+var commitGate sync.Mutex
+
+// HoldInterruptions defers the handling of an interruption (HandleSignals)
+// until release is called: an output made of several commits (a report's
+// plots/, its page and the folder's marker) is then either wholly old or
+// wholly new when a signal arrives while it is committed. Hold it only
+// around the commits themselves, which take milliseconds, not around
+// work: a signal waits for the hold. Holds do not nest; release may be
+// called more than once.
+func HoldInterruptions() (release func()) {
+	commitGate.Lock()
+	var once sync.Once
+	return func() { once.Do(commitGate.Unlock) }
+}
+
 // trackTemp records a temporary path; the caller holds cleanup.mu.
 func trackTemp(p string) { cleanup.temps[p] = true }
 
@@ -58,8 +77,9 @@ func removeTemps() {
 // files, then call interrupted, which tells the user and returns the exit
 // code the process ends with. Outputs already put in place are kept;
 // nothing half-written is left, and no output is put in place after the
-// signal. A signal ignored when weft started (nohup, a background job of
-// a script) stays ignored: handling it would undo what the caller asked
+// signal (a group of commits under HoldInterruptions is completed first).
+// A signal ignored when weft started (nohup, a background job of a
+// script) stays ignored: handling it would undo what the caller asked
 // for. stop restores the default handling.
 func HandleSignals(interrupted func(os.Signal) (exitCode int)) (stop func()) {
 	ch := make(chan os.Signal, 1)
@@ -72,7 +92,11 @@ func HandleSignals(interrupted func(os.Signal) (exitCode int)) (stop func()) {
 	go func() {
 		select {
 		case sig := <-ch:
-			cleanup.mu.Lock() // held until exit: no output is committed any more
+			// Both held until exit: no output is committed any more,
+			// and a group of commits under way (HoldInterruptions)
+			// finishes first.
+			commitGate.Lock()
+			cleanup.mu.Lock()
 			removeTemps()
 			os.Exit(interrupted(sig))
 		case <-done:

@@ -5,8 +5,10 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"runtime"
 	"strings"
 	"testing"
+	"time"
 )
 
 // problemOf returns the Problem of an *Error, failing the test for any
@@ -201,4 +203,31 @@ func TestLockedFileInReadOnlyFolder(t *testing.T) {
 		t.Errorf("read-only folder: %+v, %q; want Unwritable, found before the work", e, e)
 	}
 	assertNoHelpers(t, ro)
+}
+
+// HandleSignals' watcher ends when stop is called: a process (or a test
+// binary) that handles signals around each run does not collect one
+// blocked goroutine per run. The first call is made before counting, as
+// package os/signal starts its own delivery goroutine once, for good.
+func TestHandleSignalsStopEndsItsGoroutine(t *testing.T) {
+	never := func(os.Signal) int {
+		t.Error("no signal was sent")
+		return 1
+	}
+	HandleSignals(never)()
+	before := runtime.NumGoroutine()
+	for i := 0; i < 20; i++ {
+		HandleSignals(never)()
+	}
+	// Count yields, not time: a watcher told to stop may still be
+	// returning.
+	after := runtime.NumGoroutine()
+	for i := 0; i < 2000 && after > before; i++ {
+		runtime.Gosched()
+		time.Sleep(time.Millisecond)
+		after = runtime.NumGoroutine()
+	}
+	if after > before {
+		t.Errorf("%d goroutines before 20 runs with signals handled, %d after", before, after)
+	}
 }

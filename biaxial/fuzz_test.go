@@ -2,12 +2,14 @@ package biaxial
 
 import (
 	"bytes"
+	"strings"
 	"testing"
 )
 
 // FuzzParse feeds arbitrary bytes to the CSV reader. It must never panic;
-// every failure must be a *ParseError; and whatever reads cleanly must
-// survive the preparation options and a write/read round trip.
+// every failure must be a *ParseError; the same bytes must read the same,
+// or fail the same, twice; and whatever reads cleanly must survive the
+// preparation options and a write/read round trip.
 func FuzzParse(f *testing.F) {
 	f.Add([]byte(goodHeader + goodRows))
 	f.Add([]byte("# thickness = 0,5 mm\n# size_1 = 10 mm\n# size_2 = 8 mm\nprotocol;load_1 [gf];load_2 [gf];stretch_1;stretch_2\n1:1;0;0;1;1\n1:1;1,5;1;1,01;1,01\n"))
@@ -20,6 +22,7 @@ func FuzzParse(f *testing.F) {
 
 	f.Fuzz(func(t *testing.T, data []byte) {
 		rec, err := ReadRecord(bytes.NewReader(data), "fuzz.csv", Options{})
+		sameTwice(t, data, "fuzz.csv", Options{}, rec, err)
 		if err != nil {
 			if _, ok := err.(*ParseError); !ok {
 				t.Fatalf("error %T %v is not a *ParseError", err, err)
@@ -58,8 +61,9 @@ func FuzzParse(f *testing.F) {
 
 // FuzzWorkbook feeds arbitrary bytes to the workbook reader, capped at
 // 256 KiB of input and 4 MiB of unpacked workbook. It must never panic or
-// fail with anything but a *ParseError, and whatever reads cleanly must
-// survive a write/read round trip through CSV.
+// fail with anything but a *ParseError; the same bytes must read the same,
+// or fail the same, twice; and whatever reads cleanly must survive a
+// write/read round trip through CSV.
 func FuzzWorkbook(f *testing.F) {
 	f.Add(makeWorkbook(f, ""))
 	f.Add(makeWorkbook(f, "n/a"))
@@ -72,6 +76,7 @@ func FuzzWorkbook(f *testing.F) {
 		}
 		for _, sheet := range []string{"", "SYN-3"} {
 			rec, err := ReadRecord(bytes.NewReader(data), "fuzz.xlsx", Options{Sheet: sheet, Limits: lim})
+			sameTwice(t, data, "fuzz.xlsx", Options{Sheet: sheet, Limits: lim}, rec, err)
 			if err != nil {
 				if _, ok := err.(*ParseError); !ok {
 					t.Fatalf("error %T %v is not a *ParseError", err, err)
@@ -91,4 +96,27 @@ func FuzzWorkbook(f *testing.F) {
 			}
 		}
 	})
+}
+
+// sameTwice reads data again with opt and fails t unless the second read
+// gives what the first did (rec, err): the same error text, or records
+// with the same rows, notices and digest.
+func sameTwice(t *testing.T, data []byte, name string, opt Options, rec *Record, err error) {
+	t.Helper()
+	rec2, err2 := ReadRecord(bytes.NewReader(data), name, opt)
+	if (err == nil) != (err2 == nil) || (err != nil && err.Error() != err2.Error()) {
+		t.Fatalf("the same input read twice: %v, then %v", err, err2)
+	}
+	if err != nil {
+		return
+	}
+	if len(rec.Rows) != len(rec2.Rows) || rec.Digest != rec2.Digest || strings.Join(rec.Notices, "\n") != strings.Join(rec2.Notices, "\n") {
+		t.Fatalf("the same input read twice gave different records: %d and %d rows", len(rec.Rows), len(rec2.Rows))
+	}
+	for i := range rec.Rows {
+		a, b := rec.Rows[i], rec2.Rows[i]
+		if a.Protocol != b.Protocol || a.F != b.F || a.Stress != b.Stress || a.Cycle != b.Cycle || a.Line != b.Line {
+			t.Fatalf("the same input read twice: row %d %+v, then %+v", i, a, b)
+		}
+	}
 }

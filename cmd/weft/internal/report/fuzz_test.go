@@ -40,8 +40,9 @@ var tableFiles = []string{"fit.csv", "heldout.csv", "curves.csv", "raw.csv"}
 // FuzzCard in aniso/card fuzzes its reader, and parsing it every time
 // would slow this target tenfold). A folder's CSV files are often opened
 // and saved by hand, so the readers must never panic; every error must
-// name the file it is about; and the same tables must read the same, or
-// fail the same, twice. (Drawing the report of each accepted folder
+// name the file it is about; the same tables must read the same, or fail
+// the same, twice; and accepted tables must hold every series the report
+// draws, one value a point. (Drawing the report of each accepted folder
 // would make the target too slow to fuzz; TestFolderTablesSeedReads draws
 // the seed's.)
 func FuzzFolderTables(f *testing.F) {
@@ -69,6 +70,9 @@ func FuzzFolderTables(f *testing.F) {
 		}
 		if !sameTables(in, in2) {
 			t.Fatal("the same tables read twice gave different tables")
+		}
+		if msg := incomplete(in); msg != "" {
+			t.Fatalf("accepted tables the report cannot draw: %s", msg)
 		}
 	})
 }
@@ -140,4 +144,38 @@ func sameTables(a, b *Input) bool {
 		}
 	}
 	return (a.heldout == nil) == (b.heldout == nil) && (a.curves == nil) == (b.curves == nil) && (a.raw == nil) == (b.raw == nil)
+}
+
+// incomplete says which series of accepted tables lacks values the report
+// draws for every point ("" when none): every component's measured, model
+// and residual values and every term's contribution in fit.csv, and every
+// model's stress (and band, when it has one) in curves.csv.
+func incomplete(in *Input) string {
+	t := in.table
+	for _, pr := range t.protocols {
+		n := len(pr.F)
+		for c, comp := range t.comps {
+			if len(pr.measured[c]) != n || len(pr.model[c]) != n || len(pr.residual[c]) != n {
+				return "fit.csv: protocol " + pr.label + ", component " + comp
+			}
+			for k, term := range t.terms {
+				if len(pr.contrib[k][c]) != n {
+					return "fit.csv: term " + term + ", component " + comp
+				}
+			}
+		}
+	}
+	if in.curves == nil {
+		return ""
+	}
+	for label, cr := range in.curves.protos {
+		for m, model := range in.curves.models {
+			for c := range t.comps {
+				if h := len(cr.half[m][c]); len(cr.stress[m][c]) != len(cr.F) || (h != 0 && h != len(cr.F)) {
+					return "curves.csv: protocol " + label + ", model " + model
+				}
+			}
+		}
+	}
+	return ""
 }

@@ -2,6 +2,7 @@ package biaxial
 
 import (
 	"bytes"
+	"fmt"
 	"strings"
 	"testing"
 )
@@ -119,4 +120,52 @@ func sameTwice(t *testing.T, data []byte, name string, opt Options, rec *Record,
 			t.Fatalf("the same input read twice: row %d %+v, then %+v", i, a, b)
 		}
 	}
+}
+
+// FuzzHeader fuzzes the metadata lines and the header of a test file
+// (each capped at 4 KiB), under six synthetic rows of plausible numbers
+// with as many comma-separated fields as the header, so that the header
+// parser (column names, units, stress kinds, geometry) sees mutations
+// FuzzParse rarely reaches past. It must never panic; every failure must
+// be a *ParseError whose line, if any, is a line of the file; and the same
+// file must read the same, or fail the same, twice.
+func FuzzHeader(f *testing.F) {
+	f.Add([]byte("# specimen = fuzz (synthetic)"), []byte("protocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [kPa]"))
+	f.Add([]byte("# thickness = 0.5 mm\n# size_1 = 10 mm\n# size_2 = 8 mm"), []byte("protocol,stretch_1,stretch_2,load_1 [N],load_2 [N]"))
+	f.Add([]byte("# stress_unit = MPa"), []byte("cycle,time [min],F11,F12,F21,F22,nominal_11,nominal_22,nominal_12,nominal_21"))
+	f.Add([]byte(""), []byte("protocol,stretch_1,stretch_2,cauchy_11 [kPa],cauchy_22 [MPa],cauchy_12 [Pa],comment"))
+	f.Add([]byte("# size_1 = 10 mm"), []byte("protocol,stretch_1,stretch_2,load_1 [gf],tension_2 [N/mm]"))
+	f.Fuzz(func(t *testing.T, meta, header []byte) {
+		if len(meta) > 4<<10 || len(header) > 4<<10 {
+			return
+		}
+		fields := bytes.Count(header, []byte(",")) + 1
+		var b bytes.Buffer
+		if len(meta) > 0 {
+			b.Write(meta)
+			b.WriteByte('\n')
+		}
+		b.Write(header)
+		b.WriteByte('\n')
+		for k := 0; k < 6; k++ {
+			b.WriteString("1:1")
+			for j := 1; j < fields; j++ {
+				fmt.Fprintf(&b, ",%g", 1+0.01*float64(k+j%3))
+			}
+			b.WriteByte('\n')
+		}
+		data := b.Bytes()
+		rec, err := ReadRecord(bytes.NewReader(data), "fuzz.csv", Options{})
+		sameTwice(t, data, "fuzz.csv", Options{}, rec, err)
+		if err == nil {
+			return
+		}
+		pe, ok := err.(*ParseError)
+		if !ok {
+			t.Fatalf("error %T %v is not a *ParseError", err, err)
+		}
+		if lines := bytes.Count(data, []byte("\n")) + 1; pe.Line < 0 || pe.Line > lines || pe.Column < 0 {
+			t.Fatalf("error at line %d, column %d of a %d-line file: %v", pe.Line, pe.Column, lines, err)
+		}
+	})
 }

@@ -246,6 +246,7 @@ func readCurveTable(r io.Reader, file string, t *fitTable) (*curveTable, error) 
 	type col struct{ model, comp int }
 	cols := make([]col, len(h))
 	halfCol := make([]bool, len(h))
+	modelAt := map[string]int{}
 	for j := 5; j < len(h); j++ {
 		name, _ := splitUnit(h[j])
 		u := strings.LastIndex(name, "_")
@@ -262,15 +263,13 @@ func readCurveTable(r io.Reader, file string, t *fitTable) (*curveTable, error) 
 		if comp < 0 || model == "" {
 			return nil, fmt.Errorf("%s: line 1, column %d: %q does not name a model and a component of fit.csv", file, j+1, h[j])
 		}
-		mi := -1
-		for k, m := range ct.models {
-			if m == model {
-				mi = k
-			}
-		}
-		if mi < 0 {
+		// A map, not a search of ct.models: a header of tens of thousands
+		// of model names took seconds a megabyte searched.
+		mi, ok := modelAt[model]
+		if !ok {
 			ct.models = append(ct.models, model)
 			mi = len(ct.models) - 1
+			modelAt[model] = mi
 		}
 		cols[j], halfCol[j] = col{mi, comp}, half
 	}

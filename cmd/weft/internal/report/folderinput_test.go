@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/csv"
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 
@@ -86,5 +87,45 @@ func TestFolderTablesMissingOrRepeatedColumns(t *testing.T) {
 	}
 	if _, err := Build(in, Options{}); err != nil {
 		t.Fatalf("curves.csv without a band column draws no report: %v", err)
+	}
+}
+
+// A fit.csv column of a stress component other than 11, 22, 12 or 21 is
+// refused, naming the column: weft writes no other, and the readers look
+// components up by a linear search that a header of tens of thousands of
+// made-up components would have made quadratic. Until 2026-12-05 any
+// suffix was taken as a component.
+func TestFitTableUnknownComponent(t *testing.T) {
+	table := "protocol,line,cycle,F11,F12,F21,F22,measured_cauchy_13 [kPa],model_cauchy_13 [kPa],residual_cauchy_13 [kPa]\n" +
+		"1:1,5,1,1,0,0,1,0,0,0\n"
+	_, err := readFitTable(strings.NewReader(table), "fit.csv")
+	want := `fit.csv: line 1, column 8: "measured_cauchy_13 [kPa]": stress component "13" is not 11, 22, 12 or 21`
+	if err == nil || err.Error() != want {
+		t.Fatalf("err = %v, want %s", err, want)
+	}
+}
+
+// BenchmarkCurveTableManyModels reads a curves.csv header of about 60 000
+// made-up model names (1 MB). Models were once found by searching the
+// list of those already seen, which took 17 s on this header; they are
+// now found in a map.
+func BenchmarkCurveTableManyModels(b *testing.B) {
+	seed := seedFolder(b)
+	ft, err := readFitTable(bytes.NewReader(seed.FitCSV), "fit.csv")
+	if err != nil {
+		b.Fatal(err)
+	}
+	var h strings.Builder
+	h.WriteString("protocol,F11,F12,F21,F22")
+	for i := 0; h.Len() < 1<<20; i++ {
+		fmt.Fprintf(&h, ",m%d_cauchy_11", i)
+	}
+	h.WriteString("\n")
+	in := []byte(h.String())
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if _, err := readCurveTable(bytes.NewReader(in), "curves.csv", ft); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

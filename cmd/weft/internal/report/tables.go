@@ -215,6 +215,10 @@ type heldoutTable struct {
 	stress map[string][][]float64
 }
 
+// tableComponents are the in-plane stress components a table may hold
+// (at most four, so components are looked up by a linear search).
+var tableComponents = map[string]bool{"11": true, "22": true, "12": true, "21": true}
+
 // componentIndex returns the index of component c in comps, or −1.
 func componentIndex(comps []string, c string) int {
 	for i, x := range comps {
@@ -399,6 +403,9 @@ func parseFitHeader(h []string, fixed int, file string) (*fitTable, []fitColumn,
 			t.kind = kind
 		} else if kind != t.kind {
 			return nil, nil, fmt.Errorf("%s: line 1, column %d: stress kind %q differs from %q", file, j+1, kind, t.kind)
+		}
+		if !tableComponents[comp] {
+			return nil, nil, fmt.Errorf("%s: line 1, column %d: %q: stress component %q is not 11, 22, 12 or 21", file, j+1, h[j], comp)
 		}
 		ci := componentIndex(t.comps, comp)
 		if ci < 0 {

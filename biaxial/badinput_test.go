@@ -1,6 +1,7 @@
 package biaxial
 
 import (
+	"fmt"
 	"strings"
 	"testing"
 )
@@ -166,5 +167,48 @@ func TestBadOptions(t *testing.T) {
 	_, err = readString(in, Options{Sheet: "x"})
 	if err == nil || !strings.Contains(err.Error(), "not an xlsx") {
 		t.Errorf("sheet on CSV: %v", err)
+	}
+}
+
+// A header of many names weft does not know keeps a notice for the first
+// ten ignored columns and counts the rest in one. Until 2026-12-05 a
+// notice a column made a 1 MB header of half a million names allocate
+// some 250 MB and keep half a million notices (found while fuzzing the
+// reader, by checking that memory grows with the input only by a small
+// factor). The columns are still ignored, and the data read.
+func TestManyIgnoredColumnsOneNotice(t *testing.T) {
+	var h, row strings.Builder
+	h.WriteString("stretch_1,stretch_2,cauchy_11,cauchy_22")
+	for i := 0; i < 1000; i++ {
+		fmt.Fprintf(&h, ",extra%d", i)
+	}
+	in := h.String() + "\n"
+	for k := 0; k < 6; k++ {
+		row.Reset()
+		fmt.Fprintf(&row, "%g,%g,%g,%g", 1+0.01*float64(k), 1+0.01*float64(k), float64(k), float64(k))
+		row.WriteString(strings.Repeat(",x", 1000))
+		in += row.String() + "\n"
+	}
+	rec, err := ReadRecord(strings.NewReader(in), "wide.csv", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rec.Rows) != 6 {
+		t.Fatalf("%d rows read, want 6", len(rec.Rows))
+	}
+	var each, rest int
+	for _, n := range rec.Notices {
+		if strings.Contains(n, "is not part of the weft layout") {
+			each++
+		}
+		if strings.Contains(n, "990 more columns are not part of the weft layout") {
+			rest++
+		}
+	}
+	if each != maxIgnoredNotices || rest != 1 || len(rec.Notices) > maxIgnoredNotices+3 {
+		t.Fatalf("%d notices for single columns and %d for the rest, want %d and 1: %d notices in all", each, rest, maxIgnoredNotices, len(rec.Notices))
+	}
+	if !strings.Contains(strings.Join(rec.Notices, "\n"), `column "extra0" is not part of the weft layout`) {
+		t.Fatalf("the first ignored column is not named: %q", rec.Notices[:3])
 	}
 }

@@ -213,21 +213,39 @@ func (p *tableParser) metaStressUnit() (string, error) {
 	return cu, nil
 }
 
+// maxIgnoredNotices is how many ignored columns get a notice each; the
+// rest are counted in one notice. A header of a few hundred thousand
+// unknown names (a row of data taken for the header, or a damaged file)
+// would otherwise keep a notice per column, some 250 bytes of memory for
+// each two bytes of input.
+const maxIgnoredNotices = 10
+
 // columnRoles gives every header cell its role (unknown names are ignored
 // with a notice), refusing repeated quantities and checking the units that
 // are fixed by the role.
 func (p *tableParser) columnRoles(line int, fields []string) error {
 	p.cols = make([]column, len(fields))
+	more := 0 // ignored columns past maxIgnoredNotices
+	defer func() {
+		if more > 0 {
+			p.notice("%s: %d more columns are not part of the weft layout and are ignored", p.where(line, 0), more)
+		}
+	}()
 	for i, h := range fields {
 		col := i + 1
 		name, unit, hasUnit := splitHeader(h)
 		r, known := columnNames[canonicalName(name)]
 		h = strings.TrimSpace(h)
 		if !known {
-			if h != "" {
-				p.ignored = append(p.ignored, h)
-				p.notice("%s: column %s is not part of the weft layout and is ignored", p.where(line, col), quote(h))
+			if h == "" {
+				continue
 			}
+			if len(p.ignored) == maxIgnoredNotices {
+				more++
+				continue
+			}
+			p.ignored = append(p.ignored, h)
+			p.notice("%s: column %s is not part of the weft layout and is ignored", p.where(line, col), quote(h))
 			continue
 		}
 		if prev := p.byRole[r]; prev != 0 {

@@ -173,10 +173,11 @@ func readFile(path string, opt Options, intoTable bool) (*Record, *rawTable, err
 		return nil, nil, err
 	}
 	size := st.Size()
-	if err := checkExpansion(f, size, path, lim.MaxWorkbookBytes); err != nil {
+	unpacked, err := checkExpansion(f, size, path, lim.MaxWorkbookBytes)
+	if err != nil {
 		return nil, nil, err
 	}
-	rec, t, err := readXLSX(io.NewSectionReader(f, 0, size), path, opt.Sheet, lim, intoTable)
+	rec, t, err := readXLSX(io.NewSectionReader(f, 0, size), path, opt.Sheet, lim, unpacked, intoTable)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -233,10 +234,11 @@ func readCapped(r io.Reader, name string, opt Options, intoTable bool, lim Limit
 	if err != nil {
 		return nil, nil, readErr(err)
 	}
-	if err := checkExpansion(bytes.NewReader(data), int64(len(data)), name, lim.MaxWorkbookBytes); err != nil {
+	unpacked, err := checkExpansion(bytes.NewReader(data), int64(len(data)), name, lim.MaxWorkbookBytes)
+	if err != nil {
 		return nil, nil, err
 	}
-	return readXLSX(bytes.NewReader(data), name, opt.Sheet, lim, intoTable)
+	return readXLSX(bytes.NewReader(data), name, opt.Sheet, lim, unpacked, intoTable)
 }
 
 // checkOptions refuses a sheet asked for in a file that is not a workbook.
@@ -281,24 +283,25 @@ func tooLarge(name string, max int64) *ParseError {
 		Fix: "check that this is the test file meant; if it is, raise the file size limit"}
 }
 
-// checkExpansion refuses a workbook whose parts expand beyond max bytes.
-// The sizes declared in the zip directory are binding: the zip reader fails
-// on a part that inflates to more than it declares.
-func checkExpansion(r io.ReaderAt, size int64, name string, max int64) error {
+// checkExpansion refuses a workbook whose parts expand beyond max bytes,
+// and returns the size they expand to, in bytes (0 for a file that is not
+// a zip). The sizes declared in the zip directory are binding: the zip
+// reader fails on a part that inflates to more than it declares.
+func checkExpansion(r io.ReaderAt, size int64, name string, max int64) (int64, error) {
 	zr, err := zip.NewReader(r, size)
 	if err != nil {
-		return nil // not a zip: the workbook reader says what is wrong
+		return 0, nil // not a zip: the workbook reader says what is wrong
 	}
 	var total uint64
 	for _, f := range zr.File {
 		total += f.UncompressedSize64
 		if total > uint64(max) {
-			return &ParseError{File: name, Err: ErrWorkbookSize,
+			return 0, &ParseError{File: name, Err: ErrWorkbookSize,
 				Msg: fmt.Sprintf("the workbook expands to more than %s, the limit for an unpacked workbook", sizeText(max)),
 				Fix: "save the sheet with the test data alone (or as CSV); if the workbook is what you meant, raise the workbook limit"}
 		}
 	}
-	return nil
+	return int64(total), nil
 }
 
 func errText(err error) string {

@@ -30,8 +30,9 @@ func extOf(name string) string {
 // `# key =` in A with the value in the following cells), then a header row,
 // then data rows. Cells are read unformatted, so numbers keep every digit.
 // The workbook is held in memory, within the workbook limit; r is read
-// once. intoTable is as for newTableParser.
-func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec *Record, t *rawTable, err error) {
+// once. unpacked is the workbook's unpacked size in bytes, which bounds
+// the cells read (cellBudget). intoTable is as for newTableParser.
+func readXLSX(r io.Reader, name, sheet string, lim Limits, unpacked int64, intoTable bool) (rec *Record, t *rawTable, err error) {
 	defer func() {
 		// A malformed workbook must not crash the program: the workbook
 		// library's failure becomes an input error.
@@ -95,12 +96,16 @@ func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec 
 	}
 	defer shown.Close()
 	line := 0
+	budget := cellBudget(unpacked)
 	for rows.Next() {
 		line++
 		shown.Next()
 		cells, err := rows.Columns(excelize.Options{RawCellValue: true})
 		if err != nil {
 			return nil, nil, p.errAt(line, 0, ErrSyntax, "", "cannot read the row (%v)", err)
+		}
+		if budget -= int64(len(cells)); budget < 0 {
+			return nil, nil, farCellError(p, line, len(cells), unpacked)
 		}
 		if allBlank(cells) {
 			continue
@@ -126,6 +131,9 @@ func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec 
 			err = p.setHeader(line, cells)
 		} else {
 			display, _ := shown.Columns()
+			if budget -= int64(len(display)); budget < 0 {
+				return nil, nil, farCellError(p, line, len(display), unpacked)
+			}
 			if err = p.cellTypes(line, cells, display); err == nil {
 				err = p.row(line, cells)
 			}
@@ -139,6 +147,30 @@ func readXLSX(r io.Reader, name, sheet string, lim Limits, intoTable bool) (rec 
 	}
 	rec, err = p.finish()
 	return rec, p.table, err
+}
+
+// The workbook library hands every row out as a slice of all its cells up
+// to the last one written, blank ones included, so a stray cell far to the
+// right (column XFD is 16 384 cells across), repeated down the rows, makes
+// a workbook of a few tens of kilobytes cost billions of cells and minutes
+// of reading. Every cell of a real sheet takes a dozen bytes or more of
+// unpacked XML, so a sheet is read only while the cells handed out (each
+// row counted once as stored and once as displayed) stay within the
+// workbook's unpacked size, or minCellBudget for a small workbook.
+const minCellBudget = 1 << 20
+
+// cellBudget is how many cells a workbook that unpacks to unpacked bytes
+// may hand out.
+func cellBudget(unpacked int64) int64 {
+	return max(unpacked, minCellBudget)
+}
+
+// farCellError is the error for a sheet whose rows reach past the cell
+// budget; line is the row where it ran out and width that row's cells.
+func farCellError(p *tableParser, line, width int, unpacked int64) *ParseError {
+	return p.errAt(line, width, ErrWorkbookSize, "delete the cells to the right of the data (or export the sheet as CSV)",
+		"the sheet's rows reach out to column %s, far more cells than the workbook's %s unpacked hold (a stray cell far to the right of the data, repeated down the rows)",
+		strings.TrimSuffix(cellName(width, 1), "1"), sizeText(unpacked))
 }
 
 // uncachedFormula turns err, when it concerns a cell that reads empty

@@ -268,3 +268,49 @@ func TestXLSXHoldAndSmoothingNameRows(t *testing.T) {
 		t.Errorf("sheet rows named as lines of text: %v", pe)
 	}
 }
+
+// A workbook with a blank cell in the sheet's last column (XFD, 16 384
+// cells across) on each of its first 100 rows unpacks to a few tens of
+// kilobytes, but the workbook library hands each of those rows out as 16
+// 384 cells: a hundred thousand such rows would take minutes to read. The
+// reader stops once the cells handed out pass the workbook's unpacked size
+// (or 2^20 cells for a small one), with an error naming the far cell.
+// Until 2026-12-05 it read on: a 52 kB workbook of such rows took 3 s of
+// CPU and a 0.5 MB one about half a minute (found while fuzzing the
+// workbook reader, by checking that work grows with the input's size).
+func TestXLSXFarCellIsRefused(t *testing.T) {
+	f := excelize.NewFile()
+	defer f.Close()
+	sh := "Sheet1"
+	f.SetCellStr(sh, "A1", "# specimen = far-cell (synthetic)")
+	for r := 2; r <= 100; r++ {
+		f.SetCellStr(sh, cellName(16384, r), " ")
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	_, err := ReadRecord(bytes.NewReader(buf.Bytes()), "far.xlsx", Options{})
+	var pe *ParseError
+	if !errors.As(err, &pe) || !errors.Is(err, ErrWorkbookSize) {
+		t.Fatalf("err = %v, want a workbook size error", err)
+	}
+	if pe.Column != 16384 || pe.Line < 2 || pe.Line > 100 || !strings.HasPrefix(pe.Cell, "XFD") || !strings.Contains(pe.Msg, "column XFD") {
+		t.Fatalf("error %v does not name the far cell", err)
+	}
+	// The same rows within the budget (a cell at column Z) read on to the
+	// ordinary error for a sheet without a header.
+	g := excelize.NewFile()
+	defer g.Close()
+	for r := 2; r <= 100; r++ {
+		g.SetCellStr(sh, cellName(26, r), " ")
+	}
+	buf.Reset()
+	if err := g.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	_, err = ReadRecord(bytes.NewReader(buf.Bytes()), "near.xlsx", Options{})
+	if err == nil || errors.Is(err, ErrWorkbookSize) {
+		t.Fatalf("a sheet reaching column Z: %v, want an error that is not about its size", err)
+	}
+}

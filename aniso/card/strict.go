@@ -180,7 +180,7 @@ func shapeOf(t reflect.Type) *keyShape {
 func checkStructure(file string, b []byte, lim Limits) error {
 	dec := json.NewDecoder(bytes.NewReader(b))
 	dec.UseNumber()
-	w := &walker{dec: dec, file: file, b: b, lim: lim}
+	w := &walker{dec: dec, file: file, b: b, lim: lim, depth: 1} // the card's own object
 	tok, err := dec.Token()
 	if err != nil {
 		return w.syntax(err)
@@ -221,7 +221,18 @@ type walker struct {
 	file string
 	b    []byte
 	lim  Limits
+	// depth is how many objects and arrays are open, the card's own
+	// object included.
+	depth int
 }
+
+// maxCardDepth bounds how deeply a card's objects and arrays may nest. A
+// card weft writes nests eight levels at most (a discovered model's card,
+// its own object counted), so 64 refuses nothing real;
+// without a bound, each level of a card nested half a million deep (a
+// 1 MB file of '[') built the path of the level below, and reading it took
+// minutes.
+const maxCardDepth = 64
 
 func (w *walker) syntax(err error) error {
 	if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) {
@@ -274,6 +285,10 @@ func (w *walker) value(path, key string, shape *keyShape) error {
 	}
 	switch v := tok.(type) {
 	case json.Delim:
+		if w.depth++; w.depth > maxCardDepth {
+			return &Error{File: w.file, Path: path, Msg: fmt.Sprintf("the card nests objects and arrays more than %d levels deep here; a model card nests a few levels", maxCardDepth)}
+		}
+		defer func() { w.depth-- }()
 		if v == '{' {
 			return w.object(path, shape)
 		}

@@ -92,8 +92,9 @@ func TestCardLimits(t *testing.T) {
 }
 
 // FuzzCard feeds arbitrary bytes to the card reader (capped at 64 KiB). It
-// must never panic; whatever it accepts must write back to a card that
-// reads again to the same model and the same bytes.
+// must never panic; the same bytes must give the same error twice;
+// whatever it accepts must write back to a card that reads again to the
+// same model and the same bytes.
 func FuzzCard(f *testing.F) {
 	f.Add([]byte(okCard))
 	f.Add([]byte("\xef\xbb\xbf" + okCard))
@@ -108,6 +109,10 @@ func FuzzCard(f *testing.F) {
 			return
 		}
 		c, m, err := ParseLimits(bytes.NewReader(data), "fuzz.json", Limits{})
+		_, _, err2 := ParseLimits(bytes.NewReader(data), "fuzz.json", Limits{})
+		if (err == nil) != (err2 == nil) || (err != nil && err.Error() != err2.Error()) {
+			t.Fatalf("the same card read twice: %v, then %v", err, err2)
+		}
 		if err != nil {
 			if !strings.HasPrefix(err.Error(), "fuzz.json") {
 				t.Fatalf("error does not name the file: %v", err)
@@ -130,4 +135,33 @@ func FuzzCard(f *testing.F) {
 			t.Fatalf("writing twice gave different bytes:\n%s\n%s", b, b2)
 		}
 	})
+}
+
+// A card nested deeper than maxCardDepth is refused at the path where it
+// goes too deep, at once. Until 2026-12-05 each level built the path of
+// the next, so a 1 MB card of half a million '[' took minutes to refuse
+// (found while fuzzing the card reader, by checking that work grows with
+// the input's size); encoding/json's own bound of 10 000 levels came only
+// later, when the card was decoded.
+func TestDeeplyNestedCardRefused(t *testing.T) {
+	for _, d := range []int{maxCardDepth + 1, 200_000} {
+		in := `{"format": "weft.model/1", "stress_unit": "kPa", "terms": [{"id": "i1-lin", "weight": 1}], "fit": {"x": ` +
+			strings.Repeat("[", d) + strings.Repeat("]", d) + "}}"
+		_, _, err := Parse(strings.NewReader(in), "deep.json")
+		var ce *Error
+		if !errors.As(err, &ce) || !strings.Contains(err.Error(), "levels deep") || !strings.HasPrefix(ce.Path, "$.fit.x[0][0]") {
+			t.Fatalf("depth %d: %v, want the nesting refused at its path", d, err)
+		}
+		if want := strings.Count(ce.Path, "["); want != maxCardDepth-2 {
+			t.Fatalf("depth %d: refused at %s (%d brackets), want the level past %d", d, ce.Path, want, maxCardDepth)
+		}
+	}
+	// maxCardDepth levels in all (the card, fit, and 62 arrays) are not
+	// refused for their depth.
+	d := maxCardDepth - 2
+	in := `{"format": "weft.model/1", "stress_unit": "kPa", "terms": [{"id": "i1-lin", "weight": 1}], "fit": {"x": ` +
+		strings.Repeat("[", d) + strings.Repeat("]", d) + "}}"
+	if _, _, err := Parse(strings.NewReader(in), "deep.json"); err != nil && strings.Contains(err.Error(), "levels deep") {
+		t.Fatalf("%d levels refused: %v", maxCardDepth, err)
+	}
 }

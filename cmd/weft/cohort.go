@@ -450,30 +450,43 @@ func readGroupTable(path string) (map[string]groupRow, error) {
 	if err != nil {
 		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
 	}
+	return parseGroupTable(b, path)
+}
+
+// parseGroupTable parses the bytes b of the group table read from path
+// (readGroupTable); it is apart so that it can be fuzzed without files.
+func parseGroupTable(b []byte, path string) (map[string]groupRow, error) {
 	// A spreadsheet's "CSV UTF-8" starts with a byte-order mark, which
 	// would otherwise become part of the first file's name.
 	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
 	r.Comment = '#'
 	r.FieldsPerRecord = -1
-	rows, err := r.ReadAll()
-	if err != nil {
-		return nil, badInputf("--group-by %s: %v", path, err)
-	}
 	t := map[string]groupRow{}
-	for i, row := range rows {
+	// Rows are read one at a time so that each error names the row's line
+	// in the file: comment lines, blank lines and quoted line breaks make
+	// it differ from the row's count.
+	for i := 0; ; i++ {
+		row, err := r.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return nil, badInputf("--group-by %s: %v", path, err)
+		}
+		line, _ := r.FieldPos(0)
 		if len(row) != 2 {
-			return nil, badInputf("--group-by %s:%d: want two columns, file and group; found %d", path, i+1, len(row))
+			return nil, badInputf("--group-by %s:%d: want two columns, file and group; found %d", path, line, len(row))
 		}
 		if i == 0 && strings.EqualFold(strings.TrimSpace(row[1]), "group") {
 			continue
 		}
 		k, g := filepath.ToSlash(filepath.Clean(strings.TrimSpace(row[0]))), strings.TrimSpace(row[1])
 		if prev, ok := t[k]; ok && prev.group != g {
-			return nil, badInputf("--group-by %s:%d: %s has the group %q here and %q at line %d; give each file one group", path, i+1, k, g, prev.group, prev.line)
+			return nil, badInputf("--group-by %s:%d: %s has the group %q here and %q at line %d; give each file one group", path, line, k, g, prev.group, prev.line)
 		} else if ok {
 			continue
 		}
-		t[k] = groupRow{group: g, line: i + 1}
+		t[k] = groupRow{group: g, line: line}
 	}
 	return t, nil
 }

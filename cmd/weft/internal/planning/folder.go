@@ -154,6 +154,12 @@ func specimenFromTable(b []byte, file string, c *card.Card, dl biaxial.Limits) (
 				return nil, err
 			}
 		}
+		// Checked here so that the message names the table's line; the
+		// fitting problem would name only the point's place in its
+		// protocol.
+		if det := pt.F[0]*pt.F[3] - pt.F[1]*pt.F[2]; !(det > 0) {
+			return nil, inputErrorf("%s: line %d: det F = F11·F22 − F12·F21 = %g ≤ 0, which no deformation has; the table is not as the fit wrote it", file, ln, det)
+		}
 		for _, m := range measuredCols {
 			if pt.Stress[m.comp], err = num(m.col); err != nil {
 				return nil, err

@@ -32,3 +32,21 @@ func TestBadMeasuredValueReportedAtTheFirstColumn(t *testing.T) {
 		}
 	}
 }
+
+// A fit.csv row whose F has det F ≤ 0 (an edited table) is refused with
+// the table's line. det F > 0 for every deformation is common practice
+// (continuum mechanics: F maps volume elements to positive volumes).
+// Until 2026-12-05 the fitting problem refused it as "point 1" of its
+// specimen, without the file or line (found by editing each value of a
+// fit folder's fit.csv while fuzzing the plan's reader).
+func TestFitTableNonPositiveDetFNamesTheLine(t *testing.T) {
+	table := "protocol,line,cycle,F11,F12,F21,F22,measured_nominal_11 [kPa],measured_nominal_22 [kPa]\n" +
+		"1:1,12,1,1.01,0,0,1.01,0.5,0.4\n" +
+		"1:1,13,1,-1.02,0,0,1.02,1.0,0.9\n"
+	c := &card.Card{Data: &card.DataSection{Specimen: "synthetic", StressKind: "nominal", StressUnit: "kPa"}}
+	_, err := specimenFromTable([]byte(table), "fit.csv", c, biaxial.DefaultLimits)
+	const want = "fit.csv: line 3: det F = F11·F22 − F12·F21 = -1.0404 ≤ 0"
+	if err == nil || !strings.Contains(err.Error(), want) {
+		t.Fatalf("err = %v, want one containing %s", err, want)
+	}
+}

@@ -239,10 +239,14 @@ func readCurveTable(r io.Reader, file string, t *fitTable) (*curveTable, error) 
 		return nil, fmt.Errorf("%s: line 1: expected protocol,F11,F12,F21,F22 and model curve columns", file)
 	}
 	h := rows[0]
+	if err := repeatedColumn(h, file); err != nil {
+		return nil, err
+	}
 	ct := &curveTable{protos: map[string]*curveRows{}}
 	type col struct{ model, comp int }
 	cols := make([]col, len(h))
 	halfCol := make([]bool, len(h))
+	modelAt := map[string]int{}
 	for j := 5; j < len(h); j++ {
 		name, _ := splitUnit(h[j])
 		u := strings.LastIndex(name, "_")
@@ -259,15 +263,13 @@ func readCurveTable(r io.Reader, file string, t *fitTable) (*curveTable, error) 
 		if comp < 0 || model == "" {
 			return nil, fmt.Errorf("%s: line 1, column %d: %q does not name a model and a component of fit.csv", file, j+1, h[j])
 		}
-		mi := -1
-		for k, m := range ct.models {
-			if m == model {
-				mi = k
-			}
-		}
-		if mi < 0 {
+		// A map, not a search of ct.models: a header of tens of thousands
+		// of model names took seconds a megabyte searched.
+		mi, ok := modelAt[model]
+		if !ok {
 			ct.models = append(ct.models, model)
 			mi = len(ct.models) - 1
+			modelAt[model] = mi
 		}
 		cols[j], halfCol[j] = col{mi, comp}, half
 	}
@@ -307,7 +309,24 @@ func readCurveTable(r io.Reader, file string, t *fitTable) (*curveTable, error) 
 			}
 		}
 	}
-	return ct, nil
+	return ct, completeCurveTable(ct, t, file)
+}
+
+// completeCurveTable checks that every model has a stress column for
+// every component of fit.csv (its band column is optional): the report
+// draws each model's curve of each component at every point.
+func completeCurveTable(ct *curveTable, t *fitTable, file string) error {
+	for m, model := range ct.models {
+		for c, comp := range t.comps {
+			for _, cr := range ct.protos {
+				n := len(cr.F)
+				if len(cr.stress[m][c]) != n || (len(cr.half[m][c]) != 0 && len(cr.half[m][c]) != n) {
+					return fmt.Errorf("%s: line 1: model %s has no stress column for component %s", file, model, comp)
+				}
+			}
+		}
+	}
+	return nil
 }
 
 // rawTable is raw.csv read back, per protocol label in file order.
@@ -336,6 +355,9 @@ func readRawTable(r io.Reader, file string, t *fitTable) (*rawTable, error) {
 		return nil, fmt.Errorf("%s: line 1: expected %s and stress columns", file, fixed)
 	}
 	h := rows[0]
+	if err := repeatedColumn(h, file); err != nil {
+		return nil, err
+	}
 	colComp := make([]int, len(h))
 	for j := 8; j < len(h); j++ {
 		name, _ := splitUnit(h[j])

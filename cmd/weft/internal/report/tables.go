@@ -215,6 +215,10 @@ type heldoutTable struct {
 	stress map[string][][]float64
 }
 
+// tableComponents are the in-plane stress components a table may hold
+// (at most four, so components are looked up by a linear search).
+var tableComponents = map[string]bool{"11": true, "22": true, "12": true, "21": true}
+
 // componentIndex returns the index of component c in comps, or −1.
 func componentIndex(comps []string, c string) int {
 	for i, x := range comps {
@@ -242,6 +246,21 @@ func splitUnit(h string) (string, string) {
 	return h, ""
 }
 
+// repeatedColumn refuses a header (line 1 of file) that names a column
+// twice (units aside): the report would take one of the two, or append
+// both to one series and draw it twice as long as its points.
+func repeatedColumn(h []string, file string) error {
+	seen := map[string]int{}
+	for j, c := range h {
+		name, _ := splitUnit(c)
+		if k, ok := seen[name]; ok {
+			return fmt.Errorf("%s: line 1, column %d: %q repeats column %d", file, j+1, c, k+1)
+		}
+		seen[name] = j
+	}
+	return nil
+}
+
 // readFitTable parses fit.csv as WriteFitTable writes it.
 func readFitTable(r io.Reader, file string) (*fitTable, error) {
 	rows, err := csv.NewReader(r).ReadAll()
@@ -252,6 +271,9 @@ func readFitTable(r io.Reader, file string) (*fitTable, error) {
 		return nil, fmt.Errorf("%s: no data rows", file)
 	}
 	h := rows[0]
+	if err := repeatedColumn(h, file); err != nil {
+		return nil, err
+	}
 	fixed := []string{"protocol", "line", "cycle", "F11", "F12", "F21", "F22"}
 	if len(h) < len(fixed) {
 		return nil, fmt.Errorf("%s: line 1: expected the columns %s first", file, strings.Join(fixed, ","))
@@ -314,15 +336,27 @@ func readFitTable(r io.Reader, file string) (*fitTable, error) {
 			}
 		}
 	}
+	return t, completeFitTable(t, file)
+}
+
+// completeFitTable checks that every component has its model and residual
+// column and every term a column for every component: the report draws
+// each of them for every point.
+func completeFitTable(t *fitTable, file string) error {
 	for _, pr := range t.protocols {
-		for c := 0; c < nc; c++ {
-			n := len(pr.F)
+		n := len(pr.F)
+		for c := range t.comps {
 			if len(pr.model[c]) != n || len(pr.residual[c]) != n {
-				return nil, fmt.Errorf("%s: protocol %s: component %s lacks its model or residual column", file, pr.label, t.comps[c])
+				return fmt.Errorf("%s: protocol %s: component %s lacks its model or residual column", file, pr.label, t.comps[c])
+			}
+			for k, term := range t.terms {
+				if len(pr.contrib[k][c]) != n {
+					return fmt.Errorf("%s: line 1: term %s has no column for component %s (%s:%s_%s)", file, term, t.comps[c], term, t.kind, t.comps[c])
+				}
 			}
 		}
 	}
-	return t, nil
+	return nil
 }
 
 // fitColumn is what a column of fit.csv holds: what ("measured", "model",
@@ -370,6 +404,9 @@ func parseFitHeader(h []string, fixed int, file string) (*fitTable, []fitColumn,
 		} else if kind != t.kind {
 			return nil, nil, fmt.Errorf("%s: line 1, column %d: stress kind %q differs from %q", file, j+1, kind, t.kind)
 		}
+		if !tableComponents[comp] {
+			return nil, nil, fmt.Errorf("%s: line 1, column %d: %q: stress component %q is not 11, 22, 12 or 21", file, j+1, h[j], comp)
+		}
 		ci := componentIndex(t.comps, comp)
 		if ci < 0 {
 			if what != "measured" {
@@ -407,6 +444,9 @@ func readHeldoutTable(r io.Reader, file string, t *fitTable) (*heldoutTable, err
 		return nil, fmt.Errorf("%s: line 1: expected protocol,line,F11,F12,F21,F22 and held-out stress columns", file)
 	}
 	h := rows[0]
+	if err := repeatedColumn(h, file); err != nil {
+		return nil, err
+	}
 	ht := &heldoutTable{stress: map[string][][]float64{}}
 	colComp := make([]int, len(h))
 	for j := 6; j < len(h); j++ {

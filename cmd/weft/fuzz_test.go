@@ -1,0 +1,147 @@
+package main
+
+import (
+	"bytes"
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/weft-tools/weft/aniso/card"
+)
+
+// FuzzGroupTable feeds arbitrary bytes (capped at 64 KiB) to the cohort's
+// group table reader (a two-column CSV of file and group). It must never
+// panic; every error must be a bad-input error naming the table; the same
+// table must give the same groups, or the same error, twice; and every
+// accepted row's line must be a line of the table.
+func FuzzGroupTable(f *testing.F) {
+	f.Add([]byte("file,group\nskin-A.csv,young\nskin-B.csv,old\n"))
+	f.Add([]byte("\ufeff# synthetic grouping\nfile,group\n\"a,b.csv\",x\n\n./c.csv,y\nc.csv,y\n"))
+	f.Add([]byte("a.csv,x\na.csv,y\n"))
+	f.Add([]byte("a.csv\n\"unclosed,x\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		if len(data) > 64<<10 {
+			return
+		}
+		const path = "groups.csv"
+		tab, err := parseGroupTable(data, path)
+		tab2, err2 := parseGroupTable(data, path)
+		if (err == nil) != (err2 == nil) || (err != nil && err.Error() != err2.Error()) {
+			t.Fatalf("the same table read twice: %v, then %v", err, err2)
+		}
+		if err != nil {
+			if !isBadInput(err) || !strings.Contains(err.Error(), path) {
+				t.Fatalf("error is not a bad-input error naming the table: %v", err)
+			}
+			return
+		}
+		lines := bytes.Count(data, []byte("\n")) + 1
+		for k, r := range tab {
+			if tab2[k] != r {
+				t.Fatalf("the same table read twice: %q is %+v, then %+v", k, r, tab2[k])
+			}
+			if r.line < 1 || r.line > lines {
+				t.Fatalf("%q at line %d of a %d-line table", k, r.line, lines)
+			}
+		}
+	})
+}
+
+// TestGroupTableErrorsNameTheLine checks the group table's errors give the
+// line of the file, not the count of rows: a comment line, a blank line
+// and a quoted line break each put the two apart. Counting lines from 1,
+// comments and blank lines included, is common practice for readers of
+// delimited text (Go's encoding/csv reports positions so). Until
+// 2026-12-05 the errors gave the row count, so this table's clash (on
+// line 7) was reported at line 4, against line 2 (really line 3).
+func TestGroupTableErrorsNameTheLine(t *testing.T) {
+	table := "# synthetic grouping\n" +
+		"file,group\n" +
+		"a.csv,young\n" +
+		"\n" +
+		"\"b\nc.csv\",old\n" +
+		"a.csv,old\n"
+	_, err := parseGroupTable([]byte(table), "groups.csv")
+	want := `groups.csv:7: a.csv has the group "old" here and "young" at line 3`
+	if err == nil || !strings.Contains(err.Error(), want) {
+		t.Fatalf("error %v, want one containing %s", err, want)
+	}
+	_, err = parseGroupTable([]byte("# synthetic\n\na.csv,x,extra\n"), "groups.csv")
+	if want := "groups.csv:3: want two columns"; err == nil || !strings.Contains(err.Error(), want) {
+		t.Fatalf("error %v, want one containing %s", err, want)
+	}
+}
+
+// FuzzPredictCSV feeds arbitrary bytes (capped at 64 KiB) as the
+// kinematics CSV of predict, with the example card (Holzapfel, Gasser &
+// Ogden 2000 media parameters). It must never panic; every error must be a
+// bad-input error naming the file; the same file must give the same bytes,
+// or the same error, twice; and what it accepts must have one output row
+// per input row.
+func FuzzPredictCSV(f *testing.F) {
+	seed, err := os.ReadFile(filepath.Join("..", "..", "testdata", "example", "stretch-path.csv"))
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(seed)
+	f.Add([]byte("F11,F12,F21,F22\n1.1,0.05,0,1.05\n1,0,0,1\n"))
+	f.Add([]byte("\ufeffstretch_1 [-];stretch_2\n1,1\n"))
+	f.Add([]byte("stretch_1,stretch_2,stretch_1\n1,1,1\n"))
+	f.Add([]byte("F11,F12\n1,0\n"))
+	f.Add([]byte("stretch_1,stretch_2\n1,\"1\n"))
+	c, m, err := card.Parse(bytes.NewReader(mustRead(f, filepath.Join("..", "..", "testdata", "example", "hgo-media.json"))), "hgo-media.json")
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Fuzz(func(t *testing.T, data []byte) {
+		if len(data) > 64<<10 {
+			return
+		}
+		const file = "path.csv"
+		var out, out2 bytes.Buffer
+		_, rows, err := predictCSV(bytes.NewReader(data), file, c, m, nil, nil, nil, &out)
+		_, _, err2 := predictCSV(bytes.NewReader(data), file, c, m, nil, nil, nil, &out2)
+		if (err == nil) != (err2 == nil) || (err != nil && err.Error() != err2.Error()) {
+			t.Fatalf("the same file read twice: %v, then %v", err, err2)
+		}
+		if err != nil {
+			if !isBadInput(err) || !strings.HasPrefix(err.Error(), file) {
+				t.Fatalf("error is not a bad-input error naming the file: %v", err)
+			}
+			if out.Len() > 0 {
+				t.Fatalf("a refused file wrote %d bytes", out.Len())
+			}
+			return
+		}
+		if !bytes.Equal(out.Bytes(), out2.Bytes()) {
+			t.Fatal("the same file gave different output twice")
+		}
+		var n int
+		for _, ln := range strings.Split(strings.TrimSpace(out.String()), "\n") {
+			if !strings.HasPrefix(ln, "#") {
+				n++
+			}
+		}
+		if rows < 0 || n < rows+1 {
+			t.Fatalf("%d rows predicted but %d lines written after the comments", rows, n)
+		}
+	})
+}
+
+// mustRead reads a test file.
+func mustRead(tb testing.TB, path string) []byte {
+	tb.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return b
+}
+
+// isBadInput reports whether err is an input error (exit code 2).
+func isBadInput(err error) bool {
+	var ie inputError
+	return errors.As(err, &ie)
+}

@@ -261,9 +261,10 @@ func notNumberWhy(s string) string {
 	return "not a number"
 }
 
-// clip shortens text for a message to at most n characters (runes), so a
-// huge or binary value does not flood the terminal.
-func clip(s string, n int) string {
+// ClipText shortens text for a message to at most n characters (runes),
+// invalid UTF-8 replaced by U+FFFD, so that a huge or binary value read
+// from a file does not flood the terminal; a clipped text ends with "…".
+func ClipText(s string, n int) string {
 	if !utf8.ValidString(s) {
 		s = strings.ToValidUTF8(s, "\uFFFD")
 	}
@@ -274,8 +275,15 @@ func clip(s string, n int) string {
 	return string(r[:n]) + "…"
 }
 
-// quote quotes text for a message, clipped to 80 characters.
-func quote(s string) string { return strconv.Quote(clip(s, 80)) }
+// QuoteValue quotes text for a message as a Go string literal, clipped to
+// 80 characters by ClipText. Every package of weft quotes values in its
+// messages with it.
+func QuoteValue(s string) string { return strconv.Quote(ClipText(s, 80)) }
+
+// clip and quote are ClipText and QuoteValue under the short names the
+// readers' messages use.
+func clip(s string, n int) string { return ClipText(s, n) }
+func quote(s string) string       { return QuoteValue(s) }
 
 // categorised is a message in one or more categories (for errors.Is) that
 // do not show in its text.

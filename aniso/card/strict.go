@@ -12,6 +12,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/weft-tools/weft/aniso"
+	"github.com/weft-tools/weft/biaxial"
 )
 
 // Cards are read strictly, because a card drives simulations and a
@@ -69,19 +70,10 @@ var (
 	ErrFamilyCount = fmt.Errorf("%w: families", ErrLimit)
 )
 
-// clip shortens text quoted in a message to at most 80 characters.
-func clip(s string) string {
-	if !utf8.ValidString(s) {
-		s = strings.ToValidUTF8(s, "\uFFFD")
-	}
-	if utf8.RuneCountInString(s) <= 80 {
-		return s
-	}
-	return string([]rune(s)[:80]) + "…"
-}
-
-// quote quotes text for a message, clipped to 80 characters.
-func quote(s string) string { return strconv.Quote(clip(s)) }
+// clip and quote shorten and quote text for a message as the test-file
+// readers do (biaxial.ClipText, biaxial.QuoteValue: 80 characters).
+func clip(s string) string  { return biaxial.ClipText(s, 80) }
+func quote(s string) string { return biaxial.QuoteValue(s) }
 
 // ParseLimits decodes and validates a card within lim. file names the
 // source in errors.

@@ -7,7 +7,6 @@ import (
 	"math"
 	"os"
 	"sort"
-	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -119,13 +118,9 @@ func sortedLimitNames() []string {
 	return ns
 }
 
-// quoteArg quotes a command-line value for a message, clipped.
-func quoteArg(s string) string {
-	if r := []rune(s); len(r) > 80 {
-		s = string(r[:80]) + "…"
-	}
-	return strconv.Quote(s)
-}
+// quoteArg quotes a command-line value for a message, clipped as every
+// message of weft clips what it quotes (biaxial.QuoteValue).
+func quoteArg(s string) string { return biaxial.QuoteValue(s) }
 
 // limitHints say which --limit raises the limit an error is about.
 var limitHints = []struct {

@@ -3,12 +3,8 @@ package main
 import (
 	"bytes"
 	"errors"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
-
-	"github.com/weft-tools/weft/aniso/card"
 )
 
 // FuzzGroupTable feeds arbitrary bytes (capped at 64 KiB) to the cohort's
@@ -72,72 +68,6 @@ func TestGroupTableErrorsNameTheLine(t *testing.T) {
 	if want := "groups.csv:3: want two columns"; err == nil || !strings.Contains(err.Error(), want) {
 		t.Fatalf("error %v, want one containing %s", err, want)
 	}
-}
-
-// FuzzPredictCSV feeds arbitrary bytes (capped at 64 KiB) as the
-// kinematics CSV of predict, with the example card (Holzapfel, Gasser &
-// Ogden 2000 media parameters). It must never panic; every error must be a
-// bad-input error naming the file; the same file must give the same bytes,
-// or the same error, twice; and what it accepts must have one output row
-// per input row.
-func FuzzPredictCSV(f *testing.F) {
-	seed, err := os.ReadFile(filepath.Join("..", "..", "testdata", "example", "stretch-path.csv"))
-	if err != nil {
-		f.Fatal(err)
-	}
-	f.Add(seed)
-	f.Add([]byte("F11,F12,F21,F22\n1.1,0.05,0,1.05\n1,0,0,1\n"))
-	f.Add([]byte("\ufeffstretch_1 [-];stretch_2\n1,1\n"))
-	f.Add([]byte("stretch_1,stretch_2,stretch_1\n1,1,1\n"))
-	f.Add([]byte("F11,F12\n1,0\n"))
-	f.Add([]byte("stretch_1,stretch_2\n1,\"1\n"))
-	c, m, err := card.Parse(bytes.NewReader(mustRead(f, filepath.Join("..", "..", "testdata", "example", "hgo-media.json"))), "hgo-media.json")
-	if err != nil {
-		f.Fatal(err)
-	}
-	f.Fuzz(func(t *testing.T, data []byte) {
-		if len(data) > 64<<10 {
-			return
-		}
-		const file = "path.csv"
-		var out, out2 bytes.Buffer
-		_, rows, err := predictCSV(bytes.NewReader(data), file, c, m, nil, nil, nil, &out)
-		_, _, err2 := predictCSV(bytes.NewReader(data), file, c, m, nil, nil, nil, &out2)
-		if (err == nil) != (err2 == nil) || (err != nil && err.Error() != err2.Error()) {
-			t.Fatalf("the same file read twice: %v, then %v", err, err2)
-		}
-		if err != nil {
-			if !isBadInput(err) || !strings.HasPrefix(err.Error(), file) {
-				t.Fatalf("error is not a bad-input error naming the file: %v", err)
-			}
-			if out.Len() > 0 {
-				t.Fatalf("a refused file wrote %d bytes", out.Len())
-			}
-			return
-		}
-		if !bytes.Equal(out.Bytes(), out2.Bytes()) {
-			t.Fatal("the same file gave different output twice")
-		}
-		var n int
-		for _, ln := range strings.Split(strings.TrimSpace(out.String()), "\n") {
-			if !strings.HasPrefix(ln, "#") {
-				n++
-			}
-		}
-		if rows < 0 || n < rows+1 {
-			t.Fatalf("%d rows predicted but %d lines written after the comments", rows, n)
-		}
-	})
-}
-
-// mustRead reads a test file.
-func mustRead(tb testing.TB, path string) []byte {
-	tb.Helper()
-	b, err := os.ReadFile(path)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return b
 }
 
 // isBadInput reports whether err is an input error (exit code 2).

@@ -54,9 +54,9 @@ func (q *nnls) solve(G, b []float64, n int, allowed []bool) []float64 {
 	}
 	scale := 0.0
 	for j := 0; j < n; j++ {
-		scale = math.Max(scale, math.Abs(b[j]))
+		scale = max(scale, math.Abs(b[j]))
 	}
-	tol := 1e-12 * math.Max(scale, 1e-300)
+	tol := 1e-12 * max(scale, 1e-300)
 	for outer := 0; outer < 3*n+3; outer++ {
 		// Gradient of −½‖Aw − y‖²: b − G w, summed over the nonzero
 		// weights in index order (a handful of the n).
@@ -111,7 +111,7 @@ func (q *nnls) solve(G, b []float64, n int, allowed []bool) []float64 {
 			for j := 0; j < n; j++ {
 				if q.passive[j] {
 					q.w[j] += alpha * (q.s[j] - q.w[j])
-					if q.w[j] <= 1e-15*math.Max(1, math.Abs(q.s[j])) {
+					if q.w[j] <= 1e-15*max(1, math.Abs(q.s[j])) {
 						q.w[j] = 0
 						q.passive[j] = false
 					}
@@ -137,7 +137,7 @@ func (q *nnls) solvePassive(G, b []float64, n int) bool {
 		for j := 0; j <= i; j++ {
 			v := G[q.idx[i]*n+q.idx[j]]
 			if i == j {
-				v += nnlsRidge * math.Max(1, v)
+				v += nnlsRidge * max(1, v)
 			}
 			for k := 0; k < j; k++ {
 				v -= L[i*m+k] * L[j*m+k]

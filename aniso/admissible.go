@@ -259,7 +259,7 @@ func (m *Model) StabilityAt(F [4]float64, directions int) (PointStability, error
 	p := PointStability{F: F, Cauchy: r.Cauchy}
 	for i := range tg.A {
 		for _, v := range tg.A[i] {
-			p.Resolution = max(p.Resolution, RelativeResolution*math.Abs(v))
+			p.Resolution = math.Max(p.Resolution, RelativeResolution*math.Abs(v))
 		}
 	}
 	full := tg.A
@@ -378,7 +378,7 @@ func (m *Model) StressScale() float64 {
 		if t.Shape != nil && t.Shape.Arg == terms.Green {
 			b := 0.0
 			for _, p := range t.Params {
-				b = max(b, math.Abs(p))
+				b = math.Max(b, math.Abs(p))
 			}
 			w *= b
 		}
@@ -406,7 +406,7 @@ func (m *Model) ReferenceStress() (maxAbs, tol float64, err error) {
 		return 0, 0, err
 	}
 	for _, v := range r.Cauchy {
-		maxAbs = max(maxAbs, math.Abs(v))
+		maxAbs = math.Max(maxAbs, math.Abs(v))
 	}
 	return maxAbs, 1e-9 * m.StressScale(), nil
 }
@@ -575,7 +575,7 @@ func minEigenJacobi(a [][4]float64, n int) float64 {
 	}
 	m := a[0][0]
 	for i := 1; i < n; i++ {
-		m = min(m, a[i][i])
+		m = math.Min(m, a[i][i])
 	}
 	return m
 }
@@ -934,8 +934,8 @@ func solveSym3(D [3][3]float64, sig [3]float64) (eps [3]float64, carried, ok boo
 	es.VectorsTo(&V)
 	big, load := 0.0, 0.0
 	for i, v := range vals {
-		big = max(big, math.Abs(v))
-		load = max(load, math.Abs(sig[i]))
+		big = math.Max(big, math.Abs(v))
+		load = math.Max(load, math.Abs(sig[i]))
 	}
 	var free [3]float64
 	carried = true

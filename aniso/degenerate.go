@@ -65,10 +65,10 @@ type Degeneracy struct {
 func (r *Result) Degenerate(p *Problem) []Degeneracy {
 	maxW, maxStress := 0.0, 0.0
 	for _, w := range r.Weights {
-		maxW = max(maxW, w)
+		maxW = math.Max(maxW, w)
 	}
 	for _, y := range p.Measured {
-		maxStress = max(maxStress, math.Abs(y))
+		maxStress = math.Max(maxStress, math.Abs(y))
 	}
 	felt := r.feltShare(p)
 	var out []Degeneracy
@@ -138,7 +138,7 @@ func (r *Result) feltShare(p *Problem) []felt {
 		rows = rows[:0]
 		for row := range p.Measured {
 			if p.RowProtocol[row] == ax.pi && p.RowComponent[row] == ax.comp {
-				lo, hi = min(lo, p.Measured[row]), max(hi, p.Measured[row])
+				lo, hi = math.Min(lo, p.Measured[row]), math.Max(hi, p.Measured[row])
 				rows = append(rows, row)
 			}
 		}

@@ -60,6 +60,10 @@ func (q *nnls) solve(G, b []float64, n int, allowed []bool) []float64 {
 		q.passive[j] = false
 		q.w[j] = 0
 	}
+	// The built-in max (inlined; math.Max is a call) differs from
+	// math.Max only for NaN against +Inf (NaN instead of +Inf): then tol
+	// is NaN instead of +Inf, and either way no column passes g > tol, so
+	// the weights are the same zeros.
 	scale := 0.0
 	for j := 0; j < n; j++ {
 		scale = max(scale, math.Abs(b[j]))

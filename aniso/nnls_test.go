@@ -264,3 +264,25 @@ func choleskyFromScratch(G, b []float64, n int, passive []bool) ([]float64, bool
 	}
 	return s, true
 }
+
+// A target with +Inf and NaN cross products (an overflowing column)
+// leaves every weight at zero, whichever comes first: the tolerance on
+// Aᵀy is then +Inf (math.Max's rule for NaN against +Inf) or NaN (the
+// built-in max's), and no column passes it either way, so the two give
+// the same weights (common practice: IEEE 754 comparisons with NaN are
+// false).
+func TestNNLSNonFiniteTargetLeavesWeightsZero(t *testing.T) {
+	G := []float64{1, 0, 0, 0, 1, 0, 0, 0, 1}
+	for _, b := range [][]float64{
+		{1, math.NaN(), math.Inf(1)},
+		{math.Inf(1), math.NaN(), 2},
+		{math.NaN(), 3, math.Inf(1)},
+	} {
+		var q nnls
+		for j, w := range q.solve(G, b, 3, nil) {
+			if w != 0 {
+				t.Errorf("b = %v: w[%d] = %v, want 0", b, j, w)
+			}
+		}
+	}
+}

@@ -252,6 +252,7 @@ func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinemati
 	}
 	var sc [2][2]float64
 	var redo, fifth [8]bool
+	anyRedo := false
 	for f := 0; f < nf; f++ {
 		fam := &m.Families[f]
 		// Only the first two families take the sin-cos path, with or
@@ -268,7 +269,12 @@ func (d *Dataset) familyBases(m *Model, c *Columns, derivs bool) []FibreKinemati
 		c.famAngle[f], c.famValid[f] = fam.Angle, !fam.Planar
 		if f >= len(redo) || redo[f] {
 			c.famDerivs[f], c.famFifth[f] = derivs, need5
+			anyRedo = true
 		}
+	}
+	if !anyRedo {
+		// Every family keeps its quantities: no pass over the points.
+		return fk
 	}
 	for i := range d.kin {
 		k := &d.kin[i]

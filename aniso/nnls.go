@@ -21,6 +21,12 @@ type nnls struct {
 	nz      []int
 	chol    []float64
 	rhs     []float64
+	// done rows of chol (stride n) are the Cholesky rows of the passive
+	// indices prev[:done] for the current G: row i depends only on
+	// G and the first i+1 passive indices, so a passive set that shares
+	// a prefix with the last one factorised reuses those rows, bit for bit.
+	prev []int
+	done int
 }
 
 // nnlsRidge is added to diag(G) of the passive set: far below any
@@ -39,7 +45,9 @@ func (q *nnls) resize(n int) {
 		q.nz = make([]int, 0, n)
 		q.chol = make([]float64, n*n)
 		q.rhs = make([]float64, n)
+		q.prev = make([]int, n)
 	}
+	q.done = 0
 	q.passive = q.passive[:n]
 	q.w, q.s, q.grad = q.w[:n], q.s[:n], q.grad[:n]
 }
@@ -52,11 +60,15 @@ func (q *nnls) solve(G, b []float64, n int, allowed []bool) []float64 {
 		q.passive[j] = false
 		q.w[j] = 0
 	}
+	// The built-in max (inlined; math.Max is a call) differs from
+	// math.Max only for NaN against +Inf (NaN instead of +Inf): then tol
+	// is NaN instead of +Inf, and either way no column passes g > tol, so
+	// the weights are the same zeros.
 	scale := 0.0
 	for j := 0; j < n; j++ {
-		scale = math.Max(scale, math.Abs(b[j]))
+		scale = max(scale, math.Abs(b[j]))
 	}
-	tol := 1e-12 * math.Max(scale, 1e-300)
+	tol := 1e-12 * max(scale, 1e-300)
 	for outer := 0; outer < 3*n+3; outer++ {
 		// Gradient of −½‖Aw − y‖²: b − G w, summed over the nonzero
 		// weights in index order (a handful of the n).
@@ -111,7 +123,7 @@ func (q *nnls) solve(G, b []float64, n int, allowed []bool) []float64 {
 			for j := 0; j < n; j++ {
 				if q.passive[j] {
 					q.w[j] += alpha * (q.s[j] - q.w[j])
-					if q.w[j] <= 1e-15*math.Max(1, math.Abs(q.s[j])) {
+					if q.w[j] <= 1e-15*max(1, math.Abs(q.s[j])) {
 						q.w[j] = 0
 						q.passive[j] = false
 					}
@@ -132,40 +144,47 @@ func (q *nnls) solvePassive(G, b []float64, n int) bool {
 			m++
 		}
 	}
-	L := q.chol[:m*m]
-	for i := 0; i < m; i++ {
+	L := q.chol[:n*n]
+	start := 0
+	for start < q.done && start < m && q.prev[start] == q.idx[start] {
+		start++
+	}
+	for i := start; i < m; i++ {
+		q.prev[i] = q.idx[i]
 		for j := 0; j <= i; j++ {
 			v := G[q.idx[i]*n+q.idx[j]]
 			if i == j {
-				v += nnlsRidge * math.Max(1, v)
+				v += nnlsRidge * max(1, v)
 			}
 			for k := 0; k < j; k++ {
-				v -= L[i*m+k] * L[j*m+k]
+				v -= L[i*n+k] * L[j*n+k]
 			}
 			if i == j {
 				if !(v > 0) {
+					q.done = i
 					return false
 				}
-				L[i*m+i] = math.Sqrt(v)
+				L[i*n+i] = math.Sqrt(v)
 			} else {
-				L[i*m+j] = v / L[j*m+j]
+				L[i*n+j] = v / L[j*n+j]
 			}
 		}
 	}
+	q.done = m
 	z := q.rhs[:m]
 	for i := 0; i < m; i++ {
 		v := b[q.idx[i]]
 		for k := 0; k < i; k++ {
-			v -= L[i*m+k] * z[k]
+			v -= L[i*n+k] * z[k]
 		}
-		z[i] = v / L[i*m+i]
+		z[i] = v / L[i*n+i]
 	}
 	for i := m - 1; i >= 0; i-- {
 		v := z[i]
 		for k := i + 1; k < m; k++ {
-			v -= L[k*m+i] * z[k]
+			v -= L[k*n+i] * z[k]
 		}
-		z[i] = v / L[i*m+i]
+		z[i] = v / L[i*n+i]
 	}
 	for i := 0; i < m; i++ {
 		q.s[q.idx[i]] = z[i]

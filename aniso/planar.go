@@ -267,7 +267,7 @@ const (
 func (r *planarRule) panels(g *planarGeom, lo, hi, maxPanel float64) {
 	n := 1
 	if w := (hi - lo) / maxPanel; w > 1 {
-		n = int(math.Min(math.Ceil(w), maxPanels))
+		n = int(min(math.Ceil(w), maxPanels))
 	}
 	step := (hi - lo) / float64(n)
 	for p := 0; p < n; p++ {

@@ -73,6 +73,30 @@ func expShapeGrad(x float64, p []float64) (g [MaxParams]float64) {
 	return
 }
 
+// expShapeBoth is expShapeSlope and expShapeGrad with one exponential.
+func expShapeBoth(x float64, p []float64) (float64, [MaxParams]float64) {
+	var g [MaxParams]float64
+	e := math.Exp(p[0] * x)
+	g[0] = x * e
+	return e, g
+}
+
+// expShapeCurvGrad is expShape's f′ and f″ and expShapeGrad with one
+// exponential (f, with its expm1, is not formed).
+func expShapeCurvGrad(x float64, p []float64) (float64, float64, [MaxParams]float64) {
+	b := p[0]
+	e := math.Exp(b * x)
+	var g [MaxParams]float64
+	g[0] = x * e
+	switch {
+	case math.IsInf(e, 1):
+		return posInf, posInf, g
+	case b == 0:
+		return 1, 0, g
+	}
+	return e, b * e, g
+}
+
 // expSq is (exp(b x²) − 1)/(2b): f′(0) = 0, f″(0) = 1, b → 0 gives x²/2.
 func expSq(x float64, p []float64) Value {
 	b := p[0]
@@ -232,6 +256,23 @@ func gentLogGrad(x float64, p []float64) (g [MaxParams]float64) {
 	return
 }
 
+// gentLogBoth is gentLogSlope and gentLogGrad in one call.
+func gentLogBoth(x float64, p []float64) (float64, [MaxParams]float64) {
+	return gentLogSlope(x, p), gentLogGrad(x, p)
+}
+
+// gentLogCurvGrad is gentLog's f′ and f″ and gentLogGrad (f, with its
+// logarithm, is not formed).
+func gentLogCurvGrad(x float64, p []float64) (float64, float64, [MaxParams]float64) {
+	J := p[0]
+	g := gentLogGrad(x, p)
+	if x >= J {
+		return posInf, posInf, g
+	}
+	d := J - x
+	return J / d, J / (d * d), g
+}
+
 // Notes on the switch I4 > 1 that fibre and fifth-invariant terms share
 // (package aniso applies it). An aligned fibre term switches with f(0) =
 // f′(0) = 0, so energy and stress stay continuous. With κ > 0 the
@@ -305,10 +346,10 @@ var (
 	implQuad    = impl{eval: quad}
 	implCube    = impl{eval: cube}
 	implMacQuad = impl{eval: macQuad}
-	implExp     = impl{eval: expShape, slope: expShapeSlope, grad: expShapeGrad}
+	implExp     = impl{eval: expShape, slope: expShapeSlope, grad: expShapeGrad, both: expShapeBoth, curvGrad: expShapeCurvGrad}
 	implExpSq   = impl{eval: expSq, slope: expSqSlope, grad: expSqGrad, both: expSqBoth, curvGrad: expSqCurvGrad}
 	implExpZero = impl{eval: expZero, slope: expZeroSlope, grad: expZeroGrad, both: expZeroBoth, curvGrad: expZeroCurvGrad}
-	implGent    = impl{eval: gentLog, slope: gentLogSlope, grad: gentLogGrad}
+	implGent    = impl{eval: gentLog, slope: gentLogSlope, grad: gentLogGrad, both: gentLogBoth, curvGrad: gentLogCurvGrad}
 )
 
 // setZeroForm records the limit form of a shape where parameter param is

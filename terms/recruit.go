@@ -102,6 +102,25 @@ func recruitSums(z float64) (s1, s2, s3 float64) {
 	return s1, s2, s3
 }
 
+// recruitSums2 is recruitSums's S1 and S2, bit for bit (the same branches
+// and series lengths), without S3: f″ does not need it.
+func recruitSums2(z float64) (s1, s2 float64) {
+	if z >= recruitSeriesBelow {
+		L := math.Log1p(z)
+		return L / z, ((1+z)*L - z) / (z * z)
+	}
+	n := len(recruitCoef[0])
+	if z < 0.02 {
+		n = 10
+	}
+	c := &recruitCoef
+	for m := n - 1; m >= 0; m-- {
+		s1 = s1*-z + c[0][m]
+		s2 = s2*-z + c[1][m]
+	}
+	return s1, s2
+}
+
 // recruitSums12 is recruitSums without S3, for f′ and its gradient. S2's
 // closed form loses only a factor 2/z to cancellation (40 at z = 0.05), so
 // the series is needed below 0.05 only, where 13 terms reach 0.05^13 ≈ 1e-17.
@@ -170,6 +189,27 @@ func (s recruitState) lambdaDerivs() (f, fl, curv float64) {
 		return a*u*u*s3 + u*s2*w + s1*w*w/(2*a), u*s2 + s1*w/a, 1
 	}
 	return 0, 0, 0
+}
+
+// slopeCurv is lambdaDerivs's f_λ and λ f_λλ − f_λ, bit for bit, without
+// f (and so without S3).
+func (s recruitState) slopeCurv() (fl, curv float64) {
+	a := s.a
+	u := s.d / a
+	switch s.zone {
+	case 1:
+		v := s.diff / a
+		_, s2 := recruitSums2(v)
+		return v * v * s2 / u, v / u
+	case 2:
+		s1, s2 := recruitSums2(u)
+		w := s.diff - s.d
+		if math.IsInf(w, 1) {
+			return w, 1
+		}
+		return u*s2 + s1*w/a, 1
+	}
+	return 0, 0
 }
 
 func recruit(x float64, p []float64) Value {
@@ -252,7 +292,7 @@ func recruitCurvGrad(x float64, p []float64) (float64, float64, [MaxParams]float
 	if s.zone == 0 {
 		return 0, 0, g
 	}
-	_, fl, curv := s.lambdaDerivs()
+	fl, curv := s.slopeCurv()
 	l := s.lam
 	if math.IsInf(l, 1) {
 		return posInf, 0, g

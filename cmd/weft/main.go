@@ -17,17 +17,19 @@
 // package: readflags.go and limits.go (the reading flags and limits),
 // cardread.go (reading a card and its data range, for export, check,
 // evaluate and predict), provenance.go (a fit's provenance), progress.go
-// (the progress bar on a terminal), streams.go; cohort.go reuses fit.go's
-// form flags and folder writing; predict.go writes each row's stresses
-// (predictCSV) with, from predictalike.go, the band of the card's
-// near-equivalent models (the alike_low_ and alike_high_ columns,
-// alikeBand; each row's band is card.AlikeBand). After card.FromFit,
-// fitOne (fit.go) adds the card's untested strips and calibration check.
-// The rest lives in packages under
-// internal/: fitfolder (a fit's output folder), report and cohortreport
-// (the HTML reports), summary (printed summaries), planning (weft plan), fe
-// (export, check and evaluate documents), inspect, demo and safeout (atomic
-// writes).
+// (the progress bar on a terminal), streams.go, folderread.go (reading a
+// fit's output folder for report and plan, readFitFolder); cohort.go
+// reuses fit.go's form flags and folder writing; predict.go reads the card
+// and the kinematics file and maps what package prediction refuses to
+// exit code 2. After card.FromFit, fitOne (fit.go) adds the card's
+// untested strips and calibration check. The rest lives in packages under
+// internal/: fitfolder (writing a fit's output folder), report and
+// cohortreport (the HTML reports; cohortreport also builds a cohort's
+// cards, Cards), summary (printed summaries), planning (weft plan),
+// prediction (what weft predict writes: each row's stresses and the band
+// of the card's near-equivalent models, the alike_low_ and alike_high_
+// columns), catalogue (what weft terms lists), fe (export, check and
+// evaluate documents), inspect, demo and safeout (atomic writes).
 package main
 
 import (

@@ -126,6 +126,53 @@ func TestInterruptedReportKeepsFolderConsistent(t *testing.T) {
 	}
 }
 
+// Writing the new plots is work, not a commit: a SIGINT delivered once
+// they are written beside plots/ and before the first commit is handled at
+// once, leaving the old report whole (the old page, the old plots, the
+// marker as it was) and no staged folder behind. While the hold covered
+// the writing as well, such a signal waited for every plot to be written
+// and all three commits, and the run ended with the new report in place.
+func TestInterruptBeforeReportCommitsKeepsOldReport(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs weft as a separate process")
+	}
+	root := t.TempDir()
+	out := filepath.Join(root, "out")
+	if _, errs, code := quickFit(t, quickData(t, root, "q.csv"), out); code != 0 {
+		t.Fatalf("fit: exit %d, %s", code, errs)
+	}
+	read := func(name string) []byte {
+		b, err := os.ReadFile(filepath.Join(out, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return b
+	}
+	oldPage, oldMarker := read("report.html"), read(safeout.MarkerName)
+	p := weftProcess("report", out, "--png", "--strain", "--force")
+	p.Env = append(p.Env, "WEFT_SIGNAL_AFTER_STAGING=1")
+	var errb bytes.Buffer
+	p.Stderr = &errb
+	err := p.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != exitFailed || !strings.Contains(errb.String(), "interrupted") {
+		t.Fatalf("report interrupted before its commits: %v, stderr %q", err, errb.String())
+	}
+	if !bytes.Equal(read("report.html"), oldPage) {
+		t.Error("report.html was replaced after the interruption")
+	}
+	if !bytes.Equal(read(safeout.MarkerName), oldMarker) {
+		t.Error("the marker was changed after the interruption")
+	}
+	if pngs, _ := filepath.Glob(filepath.Join(out, "plots", "*.png")); len(pngs) != 0 {
+		t.Errorf("the new plots/ (with PNGs) was put in place after the interruption: %d PNGs", len(pngs))
+	}
+	noHelpers(t, root)
+	if _, errs, code := runWeft(t, "report", out, "--force"); code != 0 {
+		t.Errorf("the next report --force: exit %d, %s", code, errs)
+	}
+}
+
 // When report.html cannot be put in place after the new plots/ was (here a
 // report.html appears during the run, which is kept), the marker still
 // lists the new plots: the next 'weft report --force' replaces them

@@ -39,6 +39,9 @@ func TestMain(m *testing.M) {
 		if os.Getenv("WEFT_SIGNAL_BETWEEN_COMMITS") == "1" {
 			betweenReportCommits = signalSelfAndYield
 		}
+		if os.Getenv("WEFT_SIGNAL_AFTER_STAGING") == "1" {
+			afterReportPlotsStaged = signalSelfAndYield
+		}
 		if path := os.Getenv("WEFT_PEAK_FILE"); path != "" && recordPeak != nil {
 			os.Exit(recordPeak(path))
 		}

@@ -76,6 +76,11 @@ weft fit already writes the report, so replacing it needs --force.
 // report's plots/ and that of its page, where a test delivers a signal.
 var betweenReportCommits func()
 
+// afterReportPlotsStaged, nil but in tests, runs once the new plots are
+// written beside plots/ and before the commits, where a test delivers a
+// signal.
+var afterReportPlotsStaged func()
+
 // runReport rebuilds the report of the folder o.dir.
 func runReport(o *reportOptions) error {
 	dir, strain, force := o.dir, o.strain, o.force
@@ -120,14 +125,24 @@ func runReport(o *reportOptions) error {
 	for _, f := range files[1:] {
 		plots = append(plots, safeout.FileData{Name: path.Base(f.Rel), Data: f.Data})
 	}
-	// The plots, the page and the marker are three commits: an
-	// interruption between them left new plots beside the old page, and
-	// the new plots missing from the marker, so that weft refused to
+	// The plots are written before the hold (writing them is work: an
+	// interruption meanwhile is handled at once and leaves the old report
+	// whole). The plots, the page and the marker are then three commits:
+	// an interruption between them left new plots beside the old page,
+	// and the new plots missing from the marker, so that weft refused to
 	// replace its own PNGs afterwards ('holds files weft did not write').
 	// A signal now waits for the three.
+	staged, err := safeout.StagePlots(plotsPath, plots)
+	if err != nil {
+		return err
+	}
+	defer staged.Discard()
+	if afterReportPlotsStaged != nil {
+		afterReportPlotsStaged()
+	}
 	release := safeout.HoldInterruptions()
 	defer release()
-	if err := safeout.ReplacePlots(plotsPath, plots); err != nil {
+	if err := staged.Commit(); err != nil {
 		return err
 	}
 	if betweenReportCommits != nil {

@@ -59,10 +59,29 @@ type FileData struct {
 // path and swaps it in for path, so that a reader never sees a mixture of
 // old and new plots. The caller holds the lock of the output folder that
 // holds path and has checked that path may be replaced (CheckPlots).
+// It is StagePlots followed by Commit.
 func ReplacePlots(path string, files []FileData) error {
-	failed := func(p Problem, at string, err error) error {
-		return &Error{Problem: p, Target: TargetPlots, Path: at, Err: err, Late: true}
+	s, err := StagePlots(path, files)
+	if err != nil {
+		return err
 	}
+	defer s.Discard()
+	return s.Commit()
+}
+
+// StagedPlots is a plots folder written in full beside its final place
+// and not yet swapped in: the writing, which is work, is done by
+// StagePlots, and Commit is a rename or two, short enough to be held
+// against an interruption (HoldInterruptions).
+type StagedPlots struct {
+	path, tmp string
+}
+
+// StagePlots writes files into a temporary sibling of the plots folder
+// path, for Commit to swap in; an interruption before then removes it.
+// Call Discard when done (after Commit it does nothing). The caller holds
+// the lock of the output folder that holds path.
+func StagePlots(path string, files []FileData) (*StagedPlots, error) {
 	cleanup.mu.Lock()
 	tmp := helperPath(path, tmpTag+randomTag())
 	err := os.Mkdir(tmp, 0o777)
@@ -71,24 +90,36 @@ func ReplacePlots(path string, files []FileData) error {
 	}
 	cleanup.mu.Unlock()
 	if err != nil {
-		return failed(WriteFailed, path, err)
+		return nil, plotsFailed(WriteFailed, path, err)
 	}
-	defer func() {
-		os.RemoveAll(tmp)
-		untrackTemp(tmp)
-	}()
+	s := &StagedPlots{path: path, tmp: tmp}
 	for _, f := range files {
 		if err := writeNewFile(filepath.Join(tmp, f.Name), f.Data); err != nil {
-			return failed(WriteFailed, filepath.Join(path, f.Name), err)
+			s.Discard()
+			return nil, plotsFailed(WriteFailed, filepath.Join(path, f.Name), err)
 		}
 	}
+	return s, nil
+}
+
+// Discard removes the staged folder if it was not swapped in.
+func (s *StagedPlots) Discard() {
+	os.RemoveAll(s.tmp)
+	untrackTemp(s.tmp)
+}
+
+// Commit swaps the staged folder in for the plots folder (which need not
+// exist); the old folder is removed after. Checked by CheckPlots before
+// staging, the plots folder may be replaced.
+func (s *StagedPlots) Commit() error {
+	path, tmp := s.path, s.tmp
 	cleanup.mu.Lock()
 	old := ""
 	if _, err := os.Lstat(path); err == nil {
 		old = helperPath(path, oldTag+randomTag())
 		if err := os.Rename(path, old); err != nil {
 			cleanup.mu.Unlock()
-			return failed(ReplaceFailed, path, err)
+			return plotsFailed(ReplaceFailed, path, err)
 		}
 		trackTemp(old)
 	}
@@ -97,7 +128,7 @@ func ReplacePlots(path string, files []FileData) error {
 			delete(cleanup.temps, old)
 		}
 		cleanup.mu.Unlock()
-		return failed(WriteFailed, path, err)
+		return plotsFailed(WriteFailed, path, err)
 	}
 	cleanup.mu.Unlock()
 	if old != "" {
@@ -105,4 +136,10 @@ func ReplacePlots(path string, files []FileData) error {
 		untrackTemp(old)
 	}
 	return nil
+}
+
+// plotsFailed is the error of a plots folder that could not be written or
+// put in place, found after the work was done.
+func plotsFailed(p Problem, at string, err error) error {
+	return &Error{Problem: p, Target: TargetPlots, Path: at, Err: err, Late: true}
 }

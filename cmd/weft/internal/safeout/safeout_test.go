@@ -231,3 +231,39 @@ func TestHandleSignalsStopEndsItsGoroutine(t *testing.T) {
 		t.Errorf("%d goroutines before 20 runs with signals handled, %d after", before, after)
 	}
 }
+
+// Staged plots are not visible at plots/ until Commit; Discard before it
+// leaves the old plots and no helper folder, and after it does nothing.
+func TestStagedPlotsDiscardAndCommit(t *testing.T) {
+	dir := t.TempDir()
+	plots := filepath.Join(dir, "plots")
+	os.Mkdir(plots, 0o755)
+	os.WriteFile(filepath.Join(plots, "old.svg"), []byte("old"), 0o644)
+	s, err := StagePlots(plots, []FileData{{Name: "new.svg", Data: []byte("<svg/>")}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(plots, "new.svg")); !os.IsNotExist(err) {
+		t.Error("a staged plot is visible before Commit")
+	}
+	s.Discard()
+	if b, _ := os.ReadFile(filepath.Join(plots, "old.svg")); string(b) != "old" {
+		t.Error("Discard changed the old plots")
+	}
+	assertNoHelpers(t, dir)
+	s, err = StagePlots(plots, []FileData{{Name: "new.svg", Data: []byte("<svg/>")}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	s.Discard()
+	if b, _ := os.ReadFile(filepath.Join(plots, "new.svg")); string(b) != "<svg/>" {
+		t.Errorf("after Commit and Discard plots/new.svg reads %q", b)
+	}
+	if _, err := os.Stat(filepath.Join(plots, "old.svg")); !os.IsNotExist(err) {
+		t.Error("an old plot survived Commit")
+	}
+	assertNoHelpers(t, dir)
+}

@@ -281,9 +281,13 @@ func TestFungConvexityCondition(t *testing.T) {
 }
 
 // SlopeGrad returns Slope and D1ParamGrad bit for bit, for every shape, at
-// arguments across each shape's range and up to overflow (a consistency
-// check of the shared fast paths, which fits take instead of the two
-// calls).
+// its default parameters and at arguments across its range up to overflow
+// (a consistency check of the shared fast paths, which fits take instead of
+// the two calls). Only the default parameters: at other parameters the
+// Gaussian fibre shapes' Slope and SlopeGrad part in the last bit (about
+// 28 % of random parameter sets, found in review on 2026-12-05 and as old
+// as the fast path); making them agree moves demo outputs in the 16th
+// digit, which is left for a round that re-pins them on purpose.
 func TestSlopeGradMatches(t *testing.T) {
 	for _, s := range Catalogue() {
 		p := s.DefaultParams()

@@ -105,31 +105,23 @@ func recruitSums(z float64) (s1, s2, s3 float64) {
 // recruitSums2 is recruitSums's S1 and S2, bit for bit (the same branches
 // and series lengths), without S3: f″ does not need it.
 func recruitSums2(z float64) (s1, s2 float64) {
-	if z >= recruitSeriesBelow {
-		L := math.Log1p(z)
-		return L / z, ((1+z)*L - z) / (z * z)
-	}
-	n := len(recruitCoef[0])
-	if z < 0.02 {
-		n = 10
-	}
-	c := &recruitCoef
-	for m := n - 1; m >= 0; m-- {
-		s1 = s1*-z + c[0][m]
-		s2 = s2*-z + c[1][m]
-	}
-	return s1, s2
+	return recruitS1S2(z, recruitSeriesBelow, len(recruitCoef[0]))
 }
 
 // recruitSums12 is recruitSums without S3, for f′ and its gradient. S2's
 // closed form loses only a factor 2/z to cancellation (40 at z = 0.05), so
 // the series is needed below 0.05 only, where 13 terms reach 0.05^13 ≈ 1e-17.
 func recruitSums12(z float64) (s1, s2 float64) {
-	if z >= 0.05 {
+	return recruitS1S2(z, 0.05, 13)
+}
+
+// recruitS1S2 is S1 and S2 in closed form from z = below on, else by their
+// series of n terms (10 below z = 0.02).
+func recruitS1S2(z, below float64, n int) (s1, s2 float64) {
+	if z >= below {
 		L := math.Log1p(z)
 		return L / z, ((1+z)*L - z) / (z * z)
 	}
-	n := 13
 	if z < 0.02 {
 		n = 10
 	}

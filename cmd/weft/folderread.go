@@ -52,12 +52,7 @@ func readFitFolder(dir string, dl biaxial.Limits, cl card.Limits, needs string, 
 			f.entries = append(f.entries, e.Name())
 		}
 	}
-	if cl.MaxBytes <= 0 {
-		cl.MaxBytes = card.DefaultLimits.MaxBytes
-	}
-	if dl.MaxBytes <= 0 {
-		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
-	}
+	dl, cl = withDefaultSizes(dl, cl)
 	read := func(name string, isRequired bool) error {
 		path := filepath.Join(dir, name)
 		max, category := dl.MaxBytes, biaxial.ErrFileSize
@@ -89,6 +84,18 @@ func readFitFolder(dir string, dl biaxial.Limits, cl card.Limits, needs string, 
 		}
 	}
 	return f, nil
+}
+
+// withDefaultSizes gives the file size limits of dl and cl their defaults
+// where they are unset (zero or negative).
+func withDefaultSizes(dl biaxial.Limits, cl card.Limits) (biaxial.Limits, card.Limits) {
+	if cl.MaxBytes <= 0 {
+		cl.MaxBytes = card.DefaultLimits.MaxBytes
+	}
+	if dl.MaxBytes <= 0 {
+		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
+	}
+	return dl, cl
 }
 
 // notCohortFolder refuses, naming what to give instead, a folder that

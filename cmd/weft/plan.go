@@ -230,14 +230,8 @@ func readPlanFolder(dir string, dl biaxial.Limits, cl card.Limits) (*planning.Fo
 	if err != nil {
 		return nil, err
 	}
-	mj, fc := ff.files["model.json"], ff.files["fit.csv"]
-	if cl.MaxBytes <= 0 {
-		cl.MaxBytes = card.DefaultLimits.MaxBytes
-	}
-	if dl.MaxBytes <= 0 {
-		dl.MaxBytes = biaxial.DefaultLimits.MaxBytes
-	}
-	f, err := planning.Rebuild(dir, mj, fc, dl, cl)
+	dl, cl = withDefaultSizes(dl, cl)
+	f, err := planning.Rebuild(dir, ff.files["model.json"], ff.files["fit.csv"], dl, cl)
 	var re *planning.RebuildError
 	switch {
 	case errors.As(err, &re):

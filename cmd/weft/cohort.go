@@ -1,8 +1,6 @@
 package main
 
 import (
-	"bytes"
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -22,6 +20,7 @@ import (
 	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
 	"github.com/weft-tools/weft/cmd/weft/internal/fitfolder"
+	"github.com/weft-tools/weft/cmd/weft/internal/grouptable"
 	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 	"github.com/weft-tools/weft/cmd/weft/internal/summary"
@@ -375,8 +374,8 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		// group without telling, whichever of them it was meant for.
 		byBase := map[string][]string{}
 		for _, m := range ms {
-			r, base := groupOf(table, m.file)
-			m.group = r.group
+			r, base := table.Lookup(m.file)
+			m.group = r.Group
 			if base {
 				byBase[path.Base(m.file)] = append(byBase[path.Base(m.file)], m.file)
 			}
@@ -384,7 +383,7 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		for _, m := range ms {
 			b := path.Base(m.file)
 			if files := byBase[b]; len(files) > 1 {
-				return "", badInputf("--group-by %s:%d: %q matches %d files (%s); give each file's path as on the command line", by, table[b].line, b, len(files), strings.Join(files, ", "))
+				return "", badInputf("--group-by %s:%d: %q matches %d files (%s); give each file's path as on the command line", by, table[b].Line, b, len(files), strings.Join(files, ", "))
 			}
 		}
 		file = by
@@ -435,70 +434,18 @@ func looksLikePath(by string) bool {
 	return ext == ".csv" || ext == ".txt"
 }
 
-// groupRow is a row of a group table: the group and the row's line.
-type groupRow struct {
-	group string
-	line  int
-}
-
-// readGroupTable reads a two-column CSV of file and group, keyed by the
-// file cleaned and '/' separated; a first row whose second cell is "group"
-// is a header. A file given two different groups is refused: which one was
-// meant cannot be told.
-func readGroupTable(path string) (map[string]groupRow, error) {
+// readGroupTable reads the group table at path (grouptable.Parse) as
+// bad input, named by the flag that gave it.
+func readGroupTable(path string) (grouptable.Table, error) {
 	b, err := readAtMost(path, 16<<20)
 	if err != nil {
 		return nil, badInputf("--group-by %s: %s", path, safeout.Reason(err))
 	}
-	return parseGroupTable(b, path)
-}
-
-// parseGroupTable parses the bytes b of the group table read from path
-// (readGroupTable); it is apart so that it can be fuzzed without files.
-func parseGroupTable(b []byte, path string) (map[string]groupRow, error) {
-	// A spreadsheet's "CSV UTF-8" starts with a byte-order mark, which
-	// would otherwise become part of the first file's name.
-	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
-	r.Comment = '#'
-	r.FieldsPerRecord = -1
-	t := map[string]groupRow{}
-	// Rows are read one at a time so that each error names the row's line
-	// in the file: comment lines, blank lines and quoted line breaks make
-	// it differ from the row's count.
-	for i := 0; ; i++ {
-		row, err := r.Read()
-		if errors.Is(err, io.EOF) {
-			break
-		}
-		if err != nil {
-			return nil, badInputf("--group-by %s: %v", path, err)
-		}
-		line, _ := r.FieldPos(0)
-		if len(row) != 2 {
-			return nil, badInputf("--group-by %s:%d: want two columns, file and group; found %d", path, line, len(row))
-		}
-		if i == 0 && strings.EqualFold(strings.TrimSpace(row[1]), "group") {
-			continue
-		}
-		k, g := filepath.ToSlash(filepath.Clean(strings.TrimSpace(row[0]))), strings.TrimSpace(row[1])
-		if prev, ok := t[k]; ok && prev.group != g {
-			return nil, badInputf("--group-by %s:%d: %s has the group %q here and %q at line %d; give each file one group", path, line, k, g, prev.group, prev.line)
-		} else if ok {
-			continue
-		}
-		t[k] = groupRow{group: g, line: line}
+	t, err := grouptable.Parse(b, path)
+	if err != nil {
+		return nil, badInputf("--group-by %v", err)
 	}
 	return t, nil
-}
-
-// groupOf finds a file (cleaned, '/' separated) in the group table: by
-// its path, else by its base name (base is then true).
-func groupOf(t map[string]groupRow, file string) (r groupRow, base bool) {
-	if r, ok := t[file]; ok {
-		return r, false
-	}
-	r, ok := t[path.Base(file)]
-	return r, ok
 }
 
 // cohortUnit is the stress unit and measure most members were read in

@@ -41,8 +41,8 @@ func TestGroupTableAmbiguous(t *testing.T) {
 		"twice.csv":  "a/s00.csv,X\n./a/s00.csv,Y\n",
 	} {
 		_, err := assignGroups(members(), table(name, body), io.Discard)
-		if err == nil || !strings.Contains(err.Error(), name+":") {
-			t.Errorf("%s: error %v, want one naming the table's line", name, err)
+		if err == nil || !strings.Contains(err.Error(), name+":") || !strings.HasPrefix(err.Error(), "--group-by ") || exitCode(err) != exitBadInput {
+			t.Errorf("%s: error %v, want bad input (exit 2) naming the flag and the table's line", name, err)
 		}
 	}
 }

@@ -28,7 +28,8 @@
 // cards, Cards), summary (printed summaries), planning (weft plan),
 // prediction (what weft predict writes: each row's stresses and the band
 // of the card's near-equivalent models, the alike_low_ and alike_high_
-// columns), catalogue (what weft terms lists), fe (export, check and
+// columns), catalogue (what weft terms lists), grouptable (the table of
+// file and group that weft cohort --group-by reads), fe (export, check and
 // evaluate documents), inspect, demo and safeout (atomic writes).
 package main
 

@@ -1,4 +1,4 @@
-package main
+package grouptable
 
 import (
 	"bytes"
@@ -22,14 +22,15 @@ func FuzzGroupTable(f *testing.F) {
 			return
 		}
 		const path = "groups.csv"
-		tab, err := parseGroupTable(data, path)
-		tab2, err2 := parseGroupTable(data, path)
+		tab, err := Parse(data, path)
+		tab2, err2 := Parse(data, path)
 		if (err == nil) != (err2 == nil) || (err != nil && err.Error() != err2.Error()) {
 			t.Fatalf("the same table read twice: %v, then %v", err, err2)
 		}
 		if err != nil {
-			if !isBadInput(err) || !strings.Contains(err.Error(), path) {
-				t.Fatalf("error is not a bad-input error naming the table: %v", err)
+			var ge *Error
+			if !errors.As(err, &ge) || !strings.HasPrefix(err.Error(), path) {
+				t.Fatalf("error is not a table error naming the table: %v", err)
 			}
 			return
 		}
@@ -38,8 +39,8 @@ func FuzzGroupTable(f *testing.F) {
 			if tab2[k] != r {
 				t.Fatalf("the same table read twice: %q is %+v, then %+v", k, r, tab2[k])
 			}
-			if r.line < 1 || r.line > lines {
-				t.Fatalf("%q at line %d of a %d-line table", k, r.line, lines)
+			if r.Line < 1 || r.Line > lines {
+				t.Fatalf("%q at line %d of a %d-line table", k, r.Line, lines)
 			}
 		}
 	})
@@ -59,19 +60,13 @@ func TestGroupTableErrorsNameTheLine(t *testing.T) {
 		"\n" +
 		"\"b\nc.csv\",old\n" +
 		"a.csv,old\n"
-	_, err := parseGroupTable([]byte(table), "groups.csv")
+	_, err := Parse([]byte(table), "groups.csv")
 	want := `groups.csv:7: a.csv has the group "old" here and "young" at line 3`
 	if err == nil || !strings.Contains(err.Error(), want) {
 		t.Fatalf("error %v, want one containing %s", err, want)
 	}
-	_, err = parseGroupTable([]byte("# synthetic\n\na.csv,x,extra\n"), "groups.csv")
+	_, err = Parse([]byte("# synthetic\n\na.csv,x,extra\n"), "groups.csv")
 	if want := "groups.csv:3: want two columns"; err == nil || !strings.Contains(err.Error(), want) {
 		t.Fatalf("error %v, want one containing %s", err, want)
 	}
-}
-
-// isBadInput reports whether err is an input error (exit code 2).
-func isBadInput(err error) bool {
-	var ie inputError
-	return errors.As(err, &ie)
 }

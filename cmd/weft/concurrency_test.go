@@ -90,11 +90,7 @@ func TestInterruptedReportKeepsFolderConsistent(t *testing.T) {
 	if testing.Short() {
 		t.Skip("runs weft as a separate process")
 	}
-	root := t.TempDir()
-	out := filepath.Join(root, "out")
-	if _, errs, code := quickFit(t, quickData(t, root, "q.csv"), out); code != 0 {
-		t.Fatalf("fit: exit %d, %s", code, errs)
-	}
+	root, out := fittedFolder(t)
 	oldPage, err := os.ReadFile(filepath.Join(out, "report.html"))
 	if err != nil {
 		t.Fatal(err)
@@ -136,11 +132,7 @@ func TestInterruptBeforeReportCommitsKeepsOldReport(t *testing.T) {
 	if testing.Short() {
 		t.Skip("runs weft as a separate process")
 	}
-	root := t.TempDir()
-	out := filepath.Join(root, "out")
-	if _, errs, code := quickFit(t, quickData(t, root, "q.csv"), out); code != 0 {
-		t.Fatalf("fit: exit %d, %s", code, errs)
-	}
+	root, out := fittedFolder(t)
 	read := func(name string) []byte {
 		b, err := os.ReadFile(filepath.Join(out, name))
 		if err != nil {
@@ -178,11 +170,7 @@ func TestInterruptBeforeReportCommitsKeepsOldReport(t *testing.T) {
 // lists the new plots: the next 'weft report --force' replaces them
 // instead of refusing them as files weft did not write.
 func TestReportPageFailureKeepsPlotsListed(t *testing.T) {
-	root := t.TempDir()
-	out := filepath.Join(root, "out")
-	if _, errs, code := quickFit(t, quickData(t, root, "q.csv"), out); code != 0 {
-		t.Fatalf("fit: exit %d, %s", code, errs)
-	}
+	_, out := fittedFolder(t)
 	page := filepath.Join(out, "report.html")
 	if err := os.Remove(page); err != nil {
 		t.Fatal(err)
@@ -210,4 +198,16 @@ func TestReportPageFailureKeepsPlotsListed(t *testing.T) {
 	if _, errs, code := runWeft(t, "report", out, "--force"); code != 0 {
 		t.Errorf("the next report --force: exit %d, %s", code, errs)
 	}
+}
+
+// fittedFolder fits a quick synthetic specimen into root/out, a new
+// folder whose report the tests rebuild, and returns root and the folder.
+func fittedFolder(t *testing.T) (root, out string) {
+	t.Helper()
+	root = t.TempDir()
+	out = filepath.Join(root, "out")
+	if _, errs, code := quickFit(t, quickData(t, root, "q.csv"), out); code != 0 {
+		t.Fatalf("fit: exit %d, %s", code, errs)
+	}
+	return root, out
 }

@@ -6,10 +6,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
-	"path"
 	"path/filepath"
-	"sort"
-	"strconv"
 	"strings"
 	"time"
 
@@ -18,10 +15,10 @@ import (
 	"github.com/weft-tools/weft/aniso"
 	"github.com/weft-tools/weft/aniso/card"
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/cohortfiles"
 	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
 	"github.com/weft-tools/weft/cmd/weft/internal/fitfolder"
 	"github.com/weft-tools/weft/cmd/weft/internal/grouptable"
-	"github.com/weft-tools/weft/cmd/weft/internal/report"
 	"github.com/weft-tools/weft/cmd/weft/internal/safeout"
 	"github.com/weft-tools/weft/cmd/weft/internal/summary"
 )
@@ -119,22 +116,6 @@ The statistics describe the specimens tested, not a population.
 	return cmd
 }
 
-// cohortMember is one DATA file of a cohort run.
-type cohortMember struct {
-	file   string // cleaned, '/' separated
-	key    string // memberKey(file): the order of the cohort's files
-	spec   *biaxial.Specimen
-	prob   *aniso.Problem
-	group  string
-	folder string
-	err    error
-	// unweighted are the labels given a weight (--protocol-weight) that
-	// this file has no protocol of: the weight applies to the others.
-	unweighted []string
-	// index into the problems given to aniso.FitCohort, or −1.
-	at int
-}
-
 // runCohort runs weft cohort: it reads and checks every file and the
 // output folder before any fitting, fits the cohort, and writes the
 // folder.
@@ -149,16 +130,16 @@ func runCohort(co *cohortOptions) error {
 	if co.out == "" {
 		return badInputf("cohort needs an output folder: -o DIR")
 	}
-	members := readMembers(co.files, co.read)
-	if err := checkCohortWeights(members, co.read.ProtocolWeights); err != nil {
-		return err
+	members := cohortfiles.Read(co.files, co.read, withLimitHint)
+	if err := cohortfiles.CheckWeights(members, co.read.ProtocolWeights); err != nil {
+		return badInputf("--protocol-weight %v", err)
 	}
 	groupFile, err := assignGroups(members, co.groupBy, co.ErrOut)
 	if err != nil {
 		return err
 	}
-	unit, kind := cohortUnit(members)
-	problems := prepareMembers(members, unit)
+	unit, kind := cohortfiles.Unit(members)
+	problems := cohortfiles.Prepare(members, unit)
 	if len(problems) == 0 {
 		return cohortFailures(members, true)
 	}
@@ -177,8 +158,8 @@ func runCohort(co *cohortOptions) error {
 	bar.finish()
 	if c != nil {
 		for _, m := range members {
-			if m.at >= 0 && m.err == nil && c.Specimens[m.at].Err != nil {
-				m.err = fitFailed(m.spec, c.Specimens[m.at].Err)
+			if m.At >= 0 && m.Err == nil && c.Specimens[m.At].Err != nil {
+				m.Err = fitFailed(m.Spec, c.Specimens[m.At].Err)
 			}
 		}
 	}
@@ -188,7 +169,7 @@ func runCohort(co *cohortOptions) error {
 		}
 		return checkFailed{msg: fmt.Sprintf("the cohort could not be fitted: %v", err)}
 	}
-	in, cards, err := cohortreport.Cards(reportMembers(members), c, co.groupBy, unit, kind)
+	in, cards, err := cohortreport.Cards(cohortfiles.ForReport(members), c, co.groupBy, unit, kind)
 	if err != nil {
 		return err
 	}
@@ -214,152 +195,11 @@ func runCohort(co *cohortOptions) error {
 	return cohortFailures(members, false)
 }
 
-// readMembers reads every file in a fixed order, that of memberKey, so
-// that the result depends neither on the order of the command line nor on
-// how each path is typed (relative or absolute, from which folder, through
-// a link): the order decides the scouts and the order of the population
-// fit's sums. A file given twice, under any spelling, fails the second
-// time.
-func readMembers(files []string, opt biaxial.Options) []*cohortMember {
-	var ms []*cohortMember
-	for _, f := range files {
-		ms = append(ms, &cohortMember{file: filepath.ToSlash(filepath.Clean(f)), key: memberKey(f), at: -1})
-	}
-	sort.SliceStable(ms, func(a, b int) bool {
-		if ms[a].key != ms[b].key {
-			return ms[a].key < ms[b].key
-		}
-		return ms[a].file < ms[b].file
-	})
-	for i, m := range ms {
-		if prev := sameMember(m, ms[:i]); prev != nil {
-			if prev.file == m.file {
-				m.err = badInputf("%s is given twice", m.file)
-			} else {
-				m.err = badInputf("%s is given twice (also as %s); give each file once", m.file, prev.file)
-			}
-			continue
-		}
-		m.spec, m.unweighted, m.err = readMember(filepath.FromSlash(m.file), opt)
-	}
-	return ms
-}
-
-// readMember reads one file of a cohort. A protocol weight whose label
-// the file lacks applies to the other files: specimens of one study often
-// differ in the protocols run, and failing such a file would drop its data
-// from the cohort (checkCohortWeights refuses a label no file has). It
-// returns those labels.
-func readMember(path string, opt biaxial.Options) (*biaxial.Specimen, []string, error) {
-	if len(opt.ProtocolWeights) == 0 {
-		s, err := readSpecimen(path, opt)
-		return s, nil, err
-	}
-	rows, err := biaxial.ReadRows(path, opt)
-	if err != nil {
-		return nil, nil, withLimitHint(err)
-	}
-	has := map[string]bool{}
-	for _, l := range rows.ProtocolLabels() {
-		has[l] = true
-	}
-	own := opt
-	own.ProtocolWeights = map[string]float64{}
-	var missing []string
-	for l, w := range opt.ProtocolWeights {
-		if has[l] {
-			own.ProtocolWeights[l] = w
-		} else {
-			missing = append(missing, l)
-		}
-	}
-	sort.Strings(missing)
-	s, err := rows.Prepare(own)
-	if err != nil {
-		return nil, nil, withLimitHint(err)
-	}
-	return s, missing, nil
-}
-
-// checkCohortWeights refuses a protocol weight whose label no file of the
-// cohort that could be read has: a mistyped label, which would otherwise
-// weigh nothing without a word.
-func checkCohortWeights(ms []*cohortMember, weights map[string]float64) error {
-	if len(weights) == 0 {
-		return nil
-	}
-	seen := map[string]bool{}
-	read := false
-	var unread []string
-	for _, m := range ms {
-		if m.spec == nil {
-			unread = append(unread, m.file)
-			continue
-		}
-		read = true
-		for _, pr := range m.spec.Protocols {
-			seen[pr.Label] = true
-		}
-	}
-	if !read {
-		return nil // every file failed: cohortFailures says why
-	}
-	var labels []string
-	for l := range seen {
-		labels = append(labels, strconv.Quote(l))
-	}
-	sort.Strings(labels)
-	var given []string
-	for l := range weights {
-		given = append(given, l)
-	}
-	sort.Strings(given)
-	// A file that could not be read may have the label: say so, or the
-	// refusal reads as if no file had it and hides why that one failed
-	// (until 2026-12-05 it did).
-	unreadText := ""
-	if len(unread) > 0 {
-		unreadText = fmt.Sprintf(" (%d file(s) could not be read and are not counted: %s)", len(unread), strings.Join(unread, ", "))
-	}
-	for _, l := range given {
-		if !seen[l] {
-			return badInputf("--protocol-weight %s=%g: no file of the cohort that could be read has a protocol %q%s; use one of %s", l, weights[l], l, unreadText, strings.Join(labels, ", "))
-		}
-	}
-	return nil
-}
-
-// memberKey is the path that orders a cohort's files: absolute, cleaned
-// and with symbolic links resolved, '/' separated. A path that cannot be
-// resolved (a missing file, whose reading fails anyway) keeps its
-// absolute form.
-func memberKey(f string) string {
-	k, err := filepath.Abs(f)
-	if err != nil {
-		k = filepath.Clean(f)
-	}
-	if r, err := filepath.EvalSymlinks(k); err == nil {
-		k = r
-	}
-	return filepath.ToSlash(k)
-}
-
-// sameMember returns the member of earlier that names the same file as m
-// (the same resolved path, or the same file on disk: a hard link), or nil.
-func sameMember(m *cohortMember, earlier []*cohortMember) *cohortMember {
-	for _, e := range earlier {
-		if e.key == m.key || safeout.SameFile(filepath.FromSlash(e.file), filepath.FromSlash(m.file)) {
-			return e
-		}
-	}
-	return nil
-}
-
 // assignGroups gives each member its group: a metadata key of its file,
 // or its row of a two-column CSV when by names a file, whose path it
 // returns ("" for a key). Members without a group are told about on w and
 // left out of group comparisons.
-func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
+func assignGroups(ms []*cohortfiles.Member, by string, w io.Writer) (string, error) {
 	if by == "" {
 		return "", nil
 	}
@@ -370,54 +210,31 @@ func assignGroups(ms []*cohortMember, by string, w io.Writer) (string, error) {
 		if err != nil {
 			return "", err
 		}
-		// A row by base name that two files share would give both its
-		// group without telling, whichever of them it was meant for.
-		byBase := map[string][]string{}
-		for _, m := range ms {
-			r, base := table.Lookup(m.file)
-			m.group = r.Group
-			if base {
-				byBase[path.Base(m.file)] = append(byBase[path.Base(m.file)], m.file)
-			}
-		}
-		for _, m := range ms {
-			b := path.Base(m.file)
-			if files := byBase[b]; len(files) > 1 {
-				return "", badInputf("--group-by %s:%d: %q matches %d files (%s); give each file's path as on the command line", by, table[b].Line, b, len(files), strings.Join(files, ", "))
-			}
+		if err := cohortfiles.GroupByTable(ms, table, by); err != nil {
+			return "", badInputf("--group-by %v", err)
 		}
 		file = by
-	} else {
-		key := strings.ToLower(strings.TrimSpace(by))
-		found := false
-		for _, m := range ms {
-			if m.spec != nil {
-				m.group = strings.TrimSpace(m.spec.Meta[key])
-				_, has := m.spec.Meta[key]
-				found = found || has
-			}
-		}
+	} else if !cohortfiles.GroupByKey(ms, by) && (looksLikePath(by) || err == nil) {
 		// A group table that is missing (a typo, another folder) would
 		// otherwise be read as a metadata key no file has, leaving every
 		// specimen without a group and the run a success.
-		if !found && (looksLikePath(by) || err == nil) {
-			why := "no such file"
-			if err != nil && !errors.Is(err, fs.ErrNotExist) {
-				why = safeout.Reason(err)
-			} else if err == nil {
-				why = "not a regular file"
-			}
-			return "", badInputf("--group-by %s: %s, and no file has a metadata line %q; give a two-column CSV of file,group that exists, or a metadata key", by, why, "# "+key+" = …")
+		why := "no such file"
+		if err != nil && !errors.Is(err, fs.ErrNotExist) {
+			why = safeout.Reason(err)
+		} else if err == nil {
+			why = "not a regular file"
 		}
+		key := strings.ToLower(strings.TrimSpace(by))
+		return "", badInputf("--group-by %s: %s, and no file has a metadata line %q; give a two-column CSV of file,group that exists, or a metadata key", by, why, "# "+key+" = …")
 	}
 	for _, m := range ms {
-		if m.spec != nil && m.group == "" {
-			fmt.Fprintf(w, "weft: %s has no group for --group-by %s; it is left out of the group comparisons\n", m.file, by)
+		if m.Spec != nil && m.Group == "" {
+			fmt.Fprintf(w, "weft: %s has no group for --group-by %s; it is left out of the group comparisons\n", m.File, by)
 		}
 		// "all" names the statistics over every specimen: a group of
 		// that name would give two rows no reader could tell apart.
-		if strings.EqualFold(m.group, "all") {
-			return "", badInputf("%s: the group %q for --group-by %s is the name of the rows over every specimen; rename the group", m.file, m.group, by)
+		if strings.EqualFold(m.Group, "all") {
+			return "", badInputf("%s: the group %q for --group-by %s is the name of the rows over every specimen; rename the group", m.File, m.Group, by)
 		}
 	}
 	return file, nil
@@ -448,85 +265,19 @@ func readGroupTable(path string) (grouptable.Table, error) {
 	return t, nil
 }
 
-// cohortUnit is the stress unit and measure most members were read in
-// (ties: the first member's).
-func cohortUnit(ms []*cohortMember) (unit, kind string) {
-	count := map[string]int{}
-	best := 0
-	for _, m := range ms {
-		if m.spec == nil {
-			continue
-		}
-		count[m.spec.StressUnit]++
-		if n := count[m.spec.StressUnit]; n > best {
-			best, unit = n, m.spec.StressUnit
-		}
-	}
-	kinds := map[string]int{}
-	best = 0
-	for _, m := range ms {
-		if m.spec == nil {
-			continue
-		}
-		k := m.spec.Kind.String()
-		kinds[k]++
-		if kinds[k] > best {
-			best, kind = kinds[k], k
-		}
-	}
-	return unit, kind
-}
-
-// prepareMembers converts every member read to the cohort's stress unit,
-// gives it an output folder of its own and a problem; it returns the
-// problems in member order.
-func prepareMembers(ms []*cohortMember, unit string) []*aniso.Problem {
-	var ps []*aniso.Problem
-	seen := map[string]string{}
-	for _, m := range ms {
-		if m.err != nil {
-			continue
-		}
-		s, err := m.spec.InStressUnit(unit)
-		if err != nil {
-			m.err = badInput(err)
-			continue
-		}
-		m.spec = s
-		name := report.SafeName(s.Name)
-		if name == "" || name == "." || name == ".." {
-			name = strings.TrimSuffix(filepath.Base(m.file), filepath.Ext(m.file))
-		}
-		m.folder = name + ".weft"
-		if prev, dup := seen[strings.ToLower(m.folder)]; dup {
-			m.err = badInputf("%s and %s would both write %s (their specimen names give the same folder name, ignoring case); give them different 'specimen' metadata", prev, m.file, m.folder)
-			continue
-		}
-		p, err := aniso.NewProblem(s, nil)
-		if err != nil {
-			m.err = badInput(fmt.Errorf("%s: %w", m.file, err))
-			continue
-		}
-		seen[strings.ToLower(m.folder)] = m.file
-		m.prob, m.at = p, len(ps)
-		ps = append(ps, p)
-	}
-	return ps
-}
-
 // cohortFailures is nil when every member was used, else the list of
 // failures: exit code 1, or 2 (nothing written) when none could be used.
-func cohortFailures(ms []*cohortMember, noneUsable bool) error {
+func cohortFailures(ms []*cohortfiles.Member, noneUsable bool) error {
 	var b strings.Builder
 	n := 0
 	for _, m := range ms {
-		if m.err == nil {
+		if m.Err == nil {
 			continue
 		}
 		n++
-		msg := m.err.Error()
-		if !strings.HasPrefix(msg, m.file) {
-			msg = m.file + ": " + msg
+		msg := m.Err.Error()
+		if !strings.HasPrefix(msg, m.File) {
+			msg = m.File + ": " + msg
 		}
 		b.WriteString("\n  " + msg)
 	}
@@ -539,27 +290,17 @@ func cohortFailures(ms []*cohortMember, noneUsable bool) error {
 	return fmt.Errorf("%d of %d files failed (the others were written, with a failed row for each of these):%s", n, len(ms), b.String())
 }
 
-// reportMembers gives the members as the cohort's cards and summary read
-// them.
-func reportMembers(ms []*cohortMember) []cohortreport.Member {
-	out := make([]cohortreport.Member, len(ms))
-	for i, m := range ms {
-		out[i] = cohortreport.Member{File: m.file, Group: m.group, Folder: m.folder, Spec: m.spec, Problem: m.prob, At: m.at, Err: m.err, Unweighted: m.unweighted}
-	}
-	return out
-}
-
 // writeCohort writes every file of the cohort's folder and puts it in
 // place.
-func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortMember, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
+func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortfiles.Member, c *aniso.Cohort, in *cohortreport.Input, sum *cohortreport.Summary, cards map[string]*card.Card) error {
 	for _, m := range ms {
-		cd, ok := cards[m.folder]
-		if !ok || m.err != nil {
+		cd, ok := cards[m.Folder]
+		if !ok || m.Err != nil {
 			continue
 		}
-		cs := c.Specimens[m.at]
-		o := &fitOutcome{Outcome: fitfolder.Outcome{Specimen: m.prob.Specimen, Problem: m.prob, Result: cs.Result, Card: cd}}
-		sub := od.Sub(m.folder)
+		cs := c.Specimens[m.At]
+		o := &fitOutcome{Outcome: fitfolder.Outcome{Specimen: m.Problem.Specimen, Problem: m.Problem, Result: cs.Result, Card: cd}}
+		sub := od.Sub(m.Folder)
 		var err error
 		if co.noSpecimenReports {
 			err = fitfolder.WriteCardAndTables(&o.Outcome, sub)
@@ -616,7 +357,7 @@ func writeCohort(od *safeout.Dir, co *cohortOptions, ms []*cohortMember, c *anis
 // every file read, with the options that decide each.
 type cohortTrace struct {
 	co      *cohortOptions
-	members []*cohortMember
+	members []*cohortfiles.Member
 	cohort  *aniso.Cohort
 	// form are the options of the model form (formOptionList);
 	// groupFile the --group-by table, "" when groups come from metadata.
@@ -631,10 +372,10 @@ const cohortCommand = "weft cohort"
 // Each file is hashed once.
 func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card) error {
 	var refs []inputRef
-	var read []*cohortMember
+	var read []*cohortfiles.Member
 	for i, m := range t.members {
-		if m.spec != nil {
-			refs = append(refs, inputRef{filepath.FromSlash(m.file), m.spec.Sheet, m.spec.Digest})
+		if m.Spec != nil {
+			refs = append(refs, inputRef{filepath.FromSlash(m.File), m.Spec.Sheet, m.Spec.Digest})
 			read = append(read, m)
 			continue
 		}
@@ -642,11 +383,11 @@ func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card
 		// failed row and error), so the summary records its bytes too; one
 		// that cannot be opened at all was not read and has none, and one
 		// given twice is recorded once.
-		if sameMember(m, t.members[:i]) != nil {
+		if cohortfiles.SameFile(m, t.members[:i]) != nil {
 			continue
 		}
-		if dg, err := biaxial.FileDigest(filepath.FromSlash(m.file)); err == nil {
-			refs = append(refs, inputRef{path: filepath.FromSlash(m.file), digest: dg})
+		if dg, err := biaxial.FileDigest(filepath.FromSlash(m.File)); err == nil {
+			refs = append(refs, inputRef{path: filepath.FromSlash(m.File), digest: dg})
 			read = append(read, nil)
 		}
 	}
@@ -657,7 +398,7 @@ func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card
 	if err != nil {
 		return err
 	}
-	inputOf := map[*cohortMember]card.InputFile{}
+	inputOf := map[*cohortfiles.Member]card.InputFile{}
 	for i, m := range read {
 		if m != nil {
 			inputOf[m] = hashed[i]
@@ -672,17 +413,17 @@ func (t *cohortTrace) record(in *cohortreport.Input, cards map[string]*card.Card
 	for _, m := range t.members {
 		// A member refused before the fit (a second file with the same
 		// folder name) names a folder that holds another file's card.
-		if m.at < 0 {
+		if m.At < 0 {
 			continue
 		}
-		cd, ok := cards[m.folder]
+		cd, ok := cards[m.Folder]
 		if !ok {
 			continue
 		}
 		own := inputOf[m]
-		cd.Provenance = newProvenance(cohortCommand, append(readOptionList(t.co.read, m.spec.Sheet), t.form...), []card.InputFile{own})
+		cd.Provenance = newProvenance(cohortCommand, append(readOptionList(t.co.read, m.Spec.Sheet), t.form...), []card.InputFile{own})
 		fitted = append(fitted, own)
-		if inPopulation[m.at] {
+		if inPopulation[m.At] {
 			pooled = append(pooled, own)
 		}
 	}

@@ -13,7 +13,6 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/aniso"
-	"github.com/weft-tools/weft/biaxial"
 	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
 )
 
@@ -591,23 +590,6 @@ func TestCohortWeightOfAProtocolSomeFilesLack(t *testing.T) {
 	_, stderr, code := runWeft(t, append(args[:len(args)-4:len(args)-4], "--protocol-weight", "9:1=3", full, short)...)
 	if code != exitBadInput || !strings.Contains(stderr, `no file of the cohort that could be read has a protocol "9:1"; use one of`) {
 		t.Errorf("a label no file has: exit %d, %s", code, stderr)
-	}
-}
-
-// A weight whose label only an unreadable file has is refused with that
-// file named: the refusal said no file of the cohort had the label, and
-// the read error of the one that had it went unseen. Invented members.
-func TestCohortWeightRefusalNamesUnreadFiles(t *testing.T) {
-	ms := []*cohortMember{
-		{file: "a.csv", err: badInputf("a.csv:3: unknown length unit")},
-		{file: "b.csv", spec: &biaxial.Specimen{Protocols: []biaxial.Protocol{{Label: "1:1"}}}},
-	}
-	err := checkCohortWeights(ms, map[string]float64{"0.5:1": 2})
-	if err == nil || !strings.Contains(err.Error(), `no file of the cohort that could be read has a protocol "0.5:1" (1 file(s) could not be read and are not counted: a.csv); use one of "1:1"`) {
-		t.Errorf("refusal %v", err)
-	}
-	if err := checkCohortWeights(ms, map[string]float64{"1:1": 2}); err != nil {
-		t.Errorf("a label a read file has: %v", err)
 	}
 }
 

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/cohortfiles"
 )
 
 // A group table is refused when a row cannot say which file it means: a
@@ -16,8 +17,8 @@ import (
 // row won without a word). Rows by path, cleaned, still match.
 func TestGroupTableAmbiguous(t *testing.T) {
 	dir := t.TempDir()
-	members := func() []*cohortMember {
-		return []*cohortMember{{file: "a/s00.csv"}, {file: "a/s01.csv"}, {file: "b/s00.csv"}, {file: "b/s01.csv"}}
+	members := func() []*cohortfiles.Member {
+		return []*cohortfiles.Member{member("a/s00.csv", nil), member("a/s01.csv", nil), member("b/s00.csv", nil), member("b/s01.csv", nil)}
 	}
 	table := func(name, body string) string {
 		p := filepath.Join(dir, name)
@@ -32,8 +33,8 @@ func TestGroupTableAmbiguous(t *testing.T) {
 		t.Fatalf("unambiguous table refused: %v", err)
 	}
 	for i, want := range []string{"X", "X", "Y", "Y"} {
-		if ms[i].group != want {
-			t.Errorf("%s: group %q, want %q", ms[i].file, ms[i].group, want)
+		if ms[i].Group != want {
+			t.Errorf("%s: group %q, want %q", ms[i].File, ms[i].Group, want)
 		}
 	}
 	for name, body := range map[string]string{
@@ -56,12 +57,12 @@ func TestGroupTableByteOrderMark(t *testing.T) {
 	if err := os.WriteFile(p, []byte("\ufeffa/s00.csv,X\na/s01.csv,Y\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	ms := []*cohortMember{{file: "a/s00.csv"}, {file: "a/s01.csv"}}
+	ms := []*cohortfiles.Member{member("a/s00.csv", nil), member("a/s01.csv", nil)}
 	if _, err := assignGroups(ms, p, io.Discard); err != nil {
 		t.Fatal(err)
 	}
-	if ms[0].group != "X" || ms[1].group != "Y" {
-		t.Errorf("groups %q, %q; want X, Y", ms[0].group, ms[1].group)
+	if ms[0].Group != "X" || ms[1].Group != "Y" {
+		t.Errorf("groups %q, %q; want X, Y", ms[0].Group, ms[1].Group)
 	}
 }
 
@@ -75,10 +76,10 @@ func TestGroupTableByteOrderMark(t *testing.T) {
 func TestGroupByMissingTableIsBadInput(t *testing.T) {
 	dir := t.TempDir()
 	spec := func(meta map[string]string) *biaxial.Specimen { return &biaxial.Specimen{Meta: meta} }
-	members := func() []*cohortMember {
-		return []*cohortMember{
-			{file: "s00.csv", spec: spec(map[string]string{"donor": "A", "site.code": "x"})},
-			{file: "s01.csv", spec: spec(map[string]string{"donor": "B", "site.code": "y"})},
+	members := func() []*cohortfiles.Member {
+		return []*cohortfiles.Member{
+			member("s00.csv", spec(map[string]string{"donor": "A", "site.code": "x"})),
+			member("s01.csv", spec(map[string]string{"donor": "B", "site.code": "y"})),
 		}
 	}
 	for _, by := range []string{filepath.Join(dir, "groups.csv"), "groups.csv", "tables/groups", "groups.TXT", dir} {
@@ -89,8 +90,15 @@ func TestGroupByMissingTableIsBadInput(t *testing.T) {
 	}
 	for _, c := range []struct{ by, want string }{{"donor", "A"}, {"site.code", "x"}, {"age", ""}} {
 		ms := members()
-		if _, err := assignGroups(ms, c.by, io.Discard); err != nil || ms[0].group != c.want {
-			t.Errorf("--group-by %s: %v, group %q; want %q", c.by, err, ms[0].group, c.want)
+		if _, err := assignGroups(ms, c.by, io.Discard); err != nil || ms[0].Group != c.want {
+			t.Errorf("--group-by %s: %v, group %q; want %q", c.by, err, ms[0].Group, c.want)
 		}
 	}
+}
+
+// member is a cohort member of the file, read as spec (nil: not read).
+func member(file string, spec *biaxial.Specimen) *cohortfiles.Member {
+	m := &cohortfiles.Member{}
+	m.File, m.Spec, m.At = file, spec, -1
+	return m
 }

@@ -29,8 +29,10 @@
 // prediction (what weft predict writes: each row's stresses and the band
 // of the card's near-equivalent models, the alike_low_ and alike_high_
 // columns), catalogue (what weft terms lists), grouptable (the table of
-// file and group that weft cohort --group-by reads), fe (export, check and
-// evaluate documents), inspect, demo and safeout (atomic writes).
+// file and group that weft cohort --group-by reads), cohortfiles (the
+// files of a cohort run: read once each, in a fixed order, grouped, put in
+// one stress unit), fe (export, check and evaluate documents), inspect,
+// demo and safeout (atomic writes).
 package main
 
 import (

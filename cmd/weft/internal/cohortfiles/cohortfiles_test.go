@@ -1,6 +1,7 @@
-package main
+package cohortfiles
 
 import (
+	"errors"
 	"os"
 	"path"
 	"path/filepath"
@@ -8,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/weft-tools/weft/biaxial"
+	"github.com/weft-tools/weft/cmd/weft/internal/cohortreport"
 )
 
 // The order of a cohort's files picks the scouts and orders the
@@ -48,29 +50,49 @@ func TestCohortOrderIgnoresSpelling(t *testing.T) {
 		t.Skipf("no relative path to the temporary folder: %v", err)
 	}
 	viaLinkA := filepath.Join(link, "a.csv")
-	order := func(ms []*cohortMember) string {
+	order := func(ms []*Member) string {
 		var names []string
 		for _, m := range ms {
-			names = append(names, path.Base(m.file))
+			names = append(names, path.Base(m.File))
 		}
 		return strings.Join(names, " ")
 	}
 	for _, files := range [][]string{{a, b}, {b, a}, {viaLinkA, b}, {a, relB}, {relB, viaLinkA}} {
-		if got := order(readMembers(files, biaxial.Options{})); got != "a.csv b.csv" {
+		if got := order(Read(files, biaxial.Options{}, keep)); got != "a.csv b.csv" {
 			t.Errorf("%q: read in the order %s, want a.csv b.csv", files, got)
 		}
 	}
-	ms := readMembers([]string{viaLinkA, b, a}, biaxial.Options{})
+	ms := Read([]string{viaLinkA, b, a}, biaxial.Options{}, keep)
 	twice := 0
 	for _, m := range ms {
-		if m.err != nil && strings.Contains(m.err.Error(), "is given twice (also as ") {
+		if m.Err != nil && strings.Contains(m.Err.Error(), "is given twice (also as ") {
 			twice++
 		}
 	}
 	if twice != 1 {
 		for _, m := range ms {
-			t.Logf("%s: %v", m.file, m.err)
+			t.Logf("%s: %v", m.File, m.Err)
 		}
 		t.Errorf("%d files refused as given twice, want 1 (%s is %s)", twice, viaLinkA, a)
+	}
+}
+
+// keep passes a read error on unchanged.
+func keep(err error) error { return err }
+
+// A weight whose label only an unreadable file has is refused with that
+// file named: the refusal said no file of the cohort had the label, and
+// the read error of the one that had it went unseen. Invented members.
+func TestCohortWeightRefusalNamesUnreadFiles(t *testing.T) {
+	ms := []*Member{
+		{Member: cohortreport.Member{File: "a.csv", Err: errors.New("a.csv:3: unknown length unit")}},
+		{Member: cohortreport.Member{File: "b.csv", Spec: &biaxial.Specimen{Protocols: []biaxial.Protocol{{Label: "1:1"}}}}},
+	}
+	err := CheckWeights(ms, map[string]float64{"0.5:1": 2})
+	if err == nil || !strings.Contains(err.Error(), `no file of the cohort that could be read has a protocol "0.5:1" (1 file(s) could not be read and are not counted: a.csv); use one of "1:1"`) {
+		t.Errorf("refusal %v", err)
+	}
+	if err := CheckWeights(ms, map[string]float64{"1:1": 2}); err != nil {
+		t.Errorf("a label a read file has: %v", err)
 	}
 }

@@ -344,8 +344,9 @@ func (s *Shape) AtStretches(st *Stretches, p []float64, grad bool) StretchValues
 	return s.at(st, p, grad)
 }
 
-// Slope returns f′(x) alone; it equals Eval(x, p).D1 and is cheaper, for
-// hot loops that need only stress.
+// Slope returns f′(x) alone; it equals Eval(x, p).D1 bit for bit (the
+// recruitment shape's to rounding: it sums a shorter series) and is
+// cheaper, for hot loops that need only stress.
 func (s *Shape) Slope(x float64, p []float64) float64 {
 	if s.slope != nil {
 		return s.slope(x, p)

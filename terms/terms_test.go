@@ -280,31 +280,66 @@ func TestFungConvexityCondition(t *testing.T) {
 	}
 }
 
-// SlopeGrad returns Slope and D1ParamGrad bit for bit, for every shape, at
-// its default parameters and at arguments across its range up to overflow
-// (a consistency check of the shared fast paths, which fits take instead of
-// the two calls). Only the default parameters: at other parameters the
-// Gaussian fibre shapes' Slope and SlopeGrad part in the last bit (about
-// 28 % of random parameter sets, found in review on 2026-12-05 and as old
-// as the fast path); making them agree moves demo outputs in the 16th
-// digit, which is left for a round that re-pins them on purpose.
+// Slope is Eval's f′, and SlopeGrad returns Slope and D1ParamGrad, bit
+// for bit, for every shape, at its default parameters and at seeded random
+// parameters within bounds, and at arguments across its range up to
+// overflow (a consistency check of the shared fast paths, which fits take
+// instead of the separate calls). Until 2026-12-06 the Gaussian shapes'
+// Slope formed exp(b·x·x) and their Eval and SlopeGrad exp(b·(x·x)), which
+// part in the last bit for about 28 % of random parameter sets (found in
+// review on 2026-12-05); Slope now forms it as the others do. The
+// recruitment shape's f′ agrees with Eval's to rounding only.
 func TestSlopeGradMatches(t *testing.T) {
+	rng := rand.New(rand.NewSource(11))
 	for _, s := range Catalogue() {
-		p := s.DefaultParams()
-		for _, x := range []float64{0, 1e-6, 0.01, 0.05, 0.1, 0.3, 0.7, 1.5, 40, 1e4} {
-			if s.Arg == Principal {
-				x += 1
+		sets := [][]float64{s.DefaultParams()}
+		for range 200 {
+			p := make([]float64, len(s.Params))
+			for j, q := range s.Params {
+				p[j] = q.Min + rng.Float64()*(math.Min(q.Max, q.Min+20)-q.Min)
 			}
-			d1, g := s.SlopeGrad(x, p)
-			wantD1, wantG := s.Slope(x, p), s.D1ParamGrad(x, p)
-			if math.Float64bits(d1) != math.Float64bits(wantD1) {
-				t.Errorf("%s x=%g: SlopeGrad f′ %v, Slope %v", s.ID, x, d1, wantD1)
-			}
-			for j := range g {
-				if math.Float64bits(g[j]) != math.Float64bits(wantG[j]) {
-					t.Errorf("%s x=%g: SlopeGrad ∂f′/∂p%d %v, D1ParamGrad %v", s.ID, x, j, g[j], wantG[j])
+			sets = append(sets, p)
+		}
+		bad := 0
+		for _, p := range sets {
+			for _, x := range []float64{0, 1e-6, 0.01, 0.05, 0.1, 0.3, 0.7, 1.5, 40, 1e4, rng.Float64() * 0.8} {
+				if s.Arg == Principal {
+					x += 1
+				}
+				d1, g := s.SlopeGrad(x, p)
+				slope, wantG := s.Slope(x, p), s.D1ParamGrad(x, p)
+				v := s.Eval(x, p)
+				if s.ID == "fib-recruit" {
+					// Its f′ takes a shorter series than Eval (recruitSums12,
+					// for speed), so it agrees to rounding, not bit for bit.
+					if math.Abs(slope-v.D1) > 1e-13*math.Abs(v.D1) {
+						bad++
+						t.Errorf("%s x=%g p=%v: Slope %v, Eval's f′ %v", s.ID, x, p, slope, v.D1)
+					}
+				} else if math.Float64bits(slope) != math.Float64bits(v.D1) && !(math.IsNaN(slope) && math.IsNaN(v.D1)) {
+					bad++
+					if bad <= 3 {
+						t.Errorf("%s x=%g p=%v: Slope %v, Eval's f′ %v", s.ID, x, p, slope, v.D1)
+					}
+				}
+				if math.Float64bits(d1) != math.Float64bits(slope) && !(math.IsNaN(d1) && math.IsNaN(slope)) {
+					bad++
+					if bad <= 3 {
+						t.Errorf("%s x=%g p=%v: SlopeGrad f′ %v, Slope %v", s.ID, x, p, d1, slope)
+					}
+				}
+				for j := range g {
+					if math.Float64bits(g[j]) != math.Float64bits(wantG[j]) && !(math.IsNaN(g[j]) && math.IsNaN(wantG[j])) {
+						bad++
+						if bad <= 3 {
+							t.Errorf("%s x=%g p=%v: SlopeGrad ∂f′/∂p%d %v, D1ParamGrad %v", s.ID, x, p, j, g[j], wantG[j])
+						}
+					}
 				}
 			}
+		}
+		if bad > 3 {
+			t.Errorf("%s: %d mismatches in all", s.ID, bad)
 		}
 	}
 }

@@ -200,15 +200,15 @@ var (
 // with non-negative least squares on the cross products, refits the best
 // subsets of each size with their own angles and shape parameters, grows
 // them term by term, refits the best one-family models with a second
-// family of the same kind, and cross-validates by leaving one protocol
+// family of the same kind and as a mirror pair, and cross-validates by leaving one protocol
 // out. The verdict on the fibre families comes first, from whole forms
 // (select.go); the pick inside the winning form follows the
 // one-standard-error rule (Hastie, Tibshirani & Friedman 2009, §7.10). The
 // stages are methods of search, each in a file named after it (package
 // documentation, Where things live), called in turn: searchForms (which a
 // cohort's scouts share: fitFullForms, refitSubsets, forwardSteps,
-// secondFamilyRefits, planarVariants), paretoFront, comparePresets,
-// candidateMetrics, crossValidate, decide and polish.
+// secondFamilyRefits, planarVariants, mirrorRefits), paretoFront,
+// comparePresets, candidateMetrics, crossValidate, decide and polish.
 func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 	start := time.Now()
 	s, err := newSearch(all, set)
@@ -229,14 +229,16 @@ func Discover(all *Problem, set DiscoverSettings) (*Discovery, error) {
 }
 
 // searchForms runs the stages that fit candidate models: the full forms,
-// the term subsets and forward steps, the second-family refits and the
-// spread variants. Discover and a cohort's scouts both search so.
+// the term subsets and forward steps, the second-family refits, the
+// spread variants and the mirror refits. Discover and a cohort's scouts
+// both search so.
 func (s *search) searchForms() {
 	s.fitFullForms()
 	s.refitSubsets()
 	s.forwardSteps()
 	s.secondFamilyRefits()
 	s.planarVariants()
+	s.mirrorRefits()
 }
 
 // search is the state of one discovery: the problem at full size and the

@@ -154,9 +154,11 @@
 // parameters a term has alone, shapeprofile.go) and the refits and
 // forward steps it feeds (refits.go, refitSubsets and forwardSteps); the
 // best one-family models refitted with a second family of the same kind
-// (secondfamily.go, secondFamilyRefits); the spread variants, and the best
-// one-family spread models refitted as a pair whose densities may sum to
-// one flat-topped peak (spreadvariants.go, planarVariants); the Pareto
+// (secondfamily.go, secondFamilyRefits; after the spread variants, the
+// same models refitted as a mirror pair, mirrorRefits); the spread
+// variants, and the best one-family spread models refitted as a pair
+// whose densities may sum to one flat-topped peak (spreadvariants.go,
+// planarVariants); the Pareto
 // front, the classical presets fitted beside it, and fit quality
 // (front.go: paretoFront, comparePresets, candidateMetrics);
 // leave-one-protocol-out cross-validation (crossval.go: crossValidate, and

@@ -1,6 +1,7 @@
 package aniso
 
 import (
+	"math"
 	"strings"
 	"testing"
 )
@@ -80,5 +81,52 @@ func TestPerpendicularAnchorFindsFamiliesAtRightAngles(t *testing.T) {
 	}
 	if !strings.Contains(strings.Join(d.Search, "\n"), "turned to 90° from the first") {
 		t.Errorf("the search notes do not name the perpendicular anchor: %q", d.Search)
+	}
+}
+
+// Two families spread about ±40° (concentration 4) on an Ogden α = 20
+// matrix, sutured (30 points a protocol, 2 % noise, strains to 0.2, noise
+// seed 1), made by independent numerical integration of the fibre stress
+// over directions and a principal-stretch matrix evaluated on its own
+// (independent_test.go; the verdict battery's specimen). The one-family
+// answer at 0° carries five terms; the mirror form's term subsets, ranked
+// where its full fit put the pair, had both families at 0° in every model
+// from two terms up (the best pair off the axis fitted worse by ΔBIC
+// 24.7), and the verdict was a confident 1. The mirror refits fit the
+// one-family models' own terms on a pair and find one at about ±32°
+// within ΔBIC 7 of the one family, predicting the left-out protocols a
+// little better; the verdict is undecided by the architecture tie
+// (tieBICBound) and names that pair.
+func TestMirrorRefitsFindThePair(t *testing.T) {
+	if testing.Short() {
+		t.Skip("one discovery")
+	}
+	t.Parallel()
+	law := expSqFibre(30, 3)
+	m := plus(ogdenMaterial(1, 20), fibreMaterial(0, spreadFamily{40 * deg, 4, law}, spreadFamily{-40 * deg, 4, law}))
+	o := synthOptions{noise: 0.02, points: 30, seed: 1, sutured: true, maxStrain: 0.2}
+	d, _ := discoverSpecimen(t, synthFrom(t, m, o))
+	t.Logf("verdict %s: %s", d.Verdict.Families, d.Verdict.Reason)
+	one := d.lowestBICCandidate(func(r *Result) bool { return r.Structure.Layout == LayoutSingle })
+	pair := d.lowestBICCandidate(func(r *Result) bool {
+		return r.Structure.Layout == LayoutMirror && !r.Structure.Planar && !coincident(r)
+	})
+	if one == nil || pair == nil {
+		t.Fatalf("no one-family model (%v) or no ideal mirror pair with distinct families (%v) on the front", one, pair)
+	}
+	// The generator's families lie at ±40°; the pair must sit off the
+	// axis, 20° or more, and fit within very strong evidence (ΔBIC 10,
+	// Kass & Raftery 1995) of one family.
+	half := math.Abs(Deg(pair.Compared().Model.Families[0].Angle))
+	gap := pair.Compared().BIC - one.Compared().BIC
+	t.Logf("best pair %s at %s (ΔBIC %.1f against %s)", pair.Name, anglesText(pair.Compared()), gap, one.Name)
+	if half < 20 || half > 60 || gap >= MinDeltaBIC {
+		t.Errorf("best ideal mirror pair %s at %s, ΔBIC %.1f against one family: want a pair 20°–60° off the axis within ΔBIC %g", pair.Name, anglesText(pair.Compared()), gap, float64(MinDeltaBIC))
+	}
+	if d.Verdict.Families != "undecided" {
+		t.Errorf("spread pair at ±40° on an Ogden α = 20 matrix, sutured: verdict %s, want undecided (it was a confident 1 at 0°)", d.Verdict.Families)
+	}
+	if c := candidateNamed(d, d.Verdict.TiesWith); c == nil || c.Result.Structure.Layout != LayoutMirror {
+		t.Errorf("TiesWith %q does not name a mirror pair", d.Verdict.TiesWith)
 	}
 }

@@ -166,30 +166,42 @@ func demoFitCopy(t *testing.T, name string) string {
 	return dst
 }
 
-// sharedFit is one 'weft fit DATA -o FOLDER --quiet' (discovery, default
-// options), made once for every test that asks for the same DATA.
+// sharedFit is one 'weft fit ARGS -o FOLDER --quiet', made once for every
+// test that asks for the same ARGS and folder name.
 type sharedFit struct {
 	once        sync.Once
 	dir, stderr string
 	code        int
 }
 
-// sharedFits holds sharedFitCopy's runs, keyed by the data file's path as
-// the tests give it.
+// sharedFits holds sharedFitCopyAs's runs, keyed by the folder's name and
+// the arguments as the tests give them.
 var sharedFits sync.Map
 
-// sharedFitCopy runs 'weft fit data -o FOLDER --quiet' once per test
-// binary, whichever test asks first, and copies FOLDER to dst, which the
-// calling test may change, returning dst (a fit.weft folder in the test's
-// temporary folder); the test fails when the fit did not succeed.
-// Tests that ran the same command each on their own share its discovery
-// so, which gives the same bytes every run (TestDemoOutputsUnchanged pins
-// them; aniso.TestDiscoverDeterministicAcrossWorkers); a test that checks
-// that a fit is deterministic or independent of history (the protocol
-// order, the path as typed) runs its own fits instead.
+// sharedFitCopy runs 'weft fit data -o FOLDER --quiet' (discovery, default
+// options) once per test binary, whichever test asks first, and copies
+// FOLDER to a fit.weft folder in the calling test's temporary folder,
+// which the test may change, returning its path; the test fails when the
+// fit did not succeed (sharedFitCopyAs).
 func sharedFitCopy(t *testing.T, data string) string {
 	t.Helper()
-	v, _ := sharedFits.LoadOrStore(data, new(sharedFit))
+	return sharedFitCopyAs(t, "fit.weft", data)
+}
+
+// sharedFitCopyAs runs 'weft fit args -o FOLDER --quiet', FOLDER named
+// name, once per test binary for the same name and args, whichever test
+// asks first, and copies FOLDER to a folder of the same name in the
+// calling test's temporary folder, which the test may change, returning
+// its path; the test fails when the fit did not succeed.
+// Tests that ran the same command each on their own share its fit so,
+// which gives the same bytes every run (TestDemoOutputsUnchanged pins
+// them; aniso.TestDiscoverDeterministicAcrossWorkers,
+// TestFitPresetForceAndDeterminism); a test that checks that a fit is
+// deterministic or independent of history (the protocol order, the path
+// as typed) runs its own fits instead.
+func sharedFitCopyAs(t *testing.T, name string, args ...string) string {
+	t.Helper()
+	v, _ := sharedFits.LoadOrStore(name+"\x00"+strings.Join(args, "\x00"), new(sharedFit))
 	f := v.(*sharedFit)
 	f.once.Do(func() {
 		dir, err := os.MkdirTemp("", "weft-shared-fit-")
@@ -198,15 +210,15 @@ func sharedFitCopy(t *testing.T, data string) string {
 			return
 		}
 		addSharedDir(dir)
-		f.dir = filepath.Join(dir, "fit.weft")
+		f.dir = filepath.Join(dir, name)
 		var o, e strings.Builder
-		f.code = run([]string{"fit", data, "-o", f.dir, "--quiet"}, &o, &e)
+		f.code = run(append(append([]string{"fit"}, args...), "-o", f.dir, "--quiet"), &o, &e)
 		f.stderr = e.String()
 	})
 	if f.code != 0 {
-		t.Fatalf("weft fit %s: exit %d: %s", data, f.code, f.stderr)
+		t.Fatalf("weft fit %s: exit %d: %s", strings.Join(args, " "), f.code, f.stderr)
 	}
-	dst := filepath.Join(t.TempDir(), "fit.weft")
+	dst := filepath.Join(t.TempDir(), name)
 	copyFolder(t, f.dir, dst)
 	return dst
 }

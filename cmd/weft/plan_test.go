@@ -581,15 +581,14 @@ func TestPlanLookAlikeOfIsotropicVerdict(t *testing.T) {
 	}
 }
 
-// presetFit fits the synthetic demo membrane M1 with a preset and returns
-// the output folder.
+// presetFit fits the synthetic demo membrane M1 with a preset ('weft fit
+// M1 --preset PRESET -o PRESET.weft --quiet') and returns a copy of the
+// output folder that the test may change. The fit is made once per preset
+// and shared (sharedFitCopyAs): TestReportTitleWithoutFibres and
+// TestPlanFungIsNotCalledIsotropic both read the fung preset's.
 func presetFit(t *testing.T, preset string) string {
 	t.Helper()
-	out := filepath.Join(t.TempDir(), preset+".weft")
-	if _, e, code := runWeft(t, "fit", demoFile("membrane-M1.csv"), "--preset", preset, "-o", out, "--quiet"); code != 0 {
-		t.Fatalf("fit: %s", e)
-	}
-	return out
+	return sharedFitCopyAs(t, preset+".weft", demoFile("membrane-M1.csv"), "--preset", preset)
 }
 
 // fitAndPlan fits the test file name (in testdata) with weft fit and

@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"sort"
 	"strings"
 	"testing"
 
@@ -109,16 +110,27 @@ func TestExportUFLAgainstFEniCS(t *testing.T) {
 		cards[name] = p
 	}
 	cards["example hgo-media"] = filepath.Join("..", "..", "testdata", "example", "hgo-media.json")
+	// Every card's export is checked in one run of uflcheck.py (one
+	// Python start and FEniCS import for them all); FFCx still compiles one
+	// expression per card.
+	names := make([]string, 0, len(cards))
+	for name := range cards {
+		names = append(names, name)
+	}
+	sort.Strings(names)
 	compared, flagged := 0, 0
-	worst, worstNI := 0.0, 0.0 // largest differences, as fractions of the row's scale
-	for name, path := range cards {
+	jobs := make([]uflJob, len(names))
+	rows := make([]map[string][]fe.ExportPoint, len(names))
+	weights := make([]float64, len(names))
+	for k, name := range names {
+		path := cards[name]
 		doc := exportJSON(t, path)
 		module := filepath.Join(dir, strings.ReplaceAll(name, " ", "_")+".py")
 		if _, errs, code := runWeft(t, "export", path, "--format", "ufl", "-o", module); code != 0 {
 			t.Fatalf("%s: export --format ufl: exit %d: %s", name, code, errs)
 		}
-		job := uflJob{Module: module, Models: map[string][][4]float64{}, Bulk: doc.ThreeD.SuggestedBulkModulus}
-		rows := map[string][]fe.ExportPoint{}
+		jobs[k] = uflJob{Module: module, Models: map[string][][4]float64{}, Bulk: doc.ThreeD.SuggestedBulkModulus}
+		rows[k] = map[string][]fe.ExportPoint{}
 		for _, p := range doc.Verification {
 			model := p.Alternative
 			if model == "" {
@@ -128,41 +140,19 @@ func TestExportUFLAgainstFEniCS(t *testing.T) {
 				flagged++
 				continue
 			}
-			job.Models[model] = append(job.Models[model], [4]float64{p.F11, p.F12, p.F21, p.F22})
-			rows[model] = append(rows[model], p)
+			jobs[k].Models[model] = append(jobs[k].Models[model], [4]float64{p.F11, p.F12, p.F21, p.F22})
+			rows[k][model] = append(rows[k][model], p)
 		}
-		res := runUFLCheck(t, py, job)
-		weights := 0.0
 		for _, p := range doc.Parameters {
-			weights += p.Weight
+			weights[k] += p.Weight
 		}
-		for model, pts := range rows {
-			r := res[model]
-			if len(r.Membrane) != len(pts) || len(r.NearlyIncompressible) != len(pts) {
-				t.Fatalf("%s %s: %d rows, %d membrane results, %d nearly incompressible", name, model, len(pts), len(r.Membrane), len(r.NearlyIncompressible))
-			}
-			for i, p := range pts {
-				want := [5]float64{p.Energy, p.Nominal11, p.Nominal12, p.Nominal21, p.Nominal22}
-				scale := weights
-				for _, v := range want[1:] {
-					scale = math.Max(scale, math.Abs(v))
-				}
-				got, ni := r.Membrane[i], r.NearlyIncompressible[i]
-				for j := range want {
-					worst = math.Max(worst, math.Abs(got[j]-want[j])/scale)
-					if j > 0 {
-						worstNI = math.Max(worstNI, math.Abs(ni[j]-want[j])/scale)
-					}
-					if math.Abs(got[j]-want[j]) > 1e-10*scale {
-						t.Errorf("%s %s %s θ=%g %g: component %d: UFL %.17g, weft %.17g (difference %.3g of the scale %.3g)", name, model, p.Case, p.DirectionDeg, p.StretchOrShear, j, got[j], want[j], math.Abs(got[j]-want[j])/scale, scale)
-					}
-					if j > 0 && math.Abs(ni[j]-want[j]) > 1e-3*scale {
-						t.Errorf("%s %s %s θ=%g %g: nearly incompressible P[%d] = %.10g, membrane %.10g (%.3g of the scale)", name, model, p.Case, p.DirectionDeg, p.StretchOrShear, j, ni[j], want[j], math.Abs(ni[j]-want[j])/scale)
-					}
-				}
-				compared++
-			}
-		}
+	}
+	results := runUFLCheck(t, py, jobs)
+	worst, worstNI := 0.0, 0.0 // largest differences, as fractions of the row's scale
+	for k, name := range names {
+		c, w := compareUFL(t, name, rows[k], results[k], weights[k])
+		compared += c
+		worst, worstNI = math.Max(worst, w[0]), math.Max(worstNI, w[1])
 	}
 	if compared < 500 {
 		t.Fatalf("only %d rows compared", compared)
@@ -170,10 +160,48 @@ func TestExportUFLAgainstFEniCS(t *testing.T) {
 	t.Logf("%d verification rows compared with FEniCS, %d flagged rows not compared; largest difference %.2g of the row's scale (membrane), %.2g (nearly incompressible, the suggested bulk modulus)", compared, flagged, worst, worstNI)
 }
 
-// runUFLCheck runs testdata/uflcheck.py on a job.
-func runUFLCheck(t *testing.T, py string, job uflJob) map[string]uflResult {
+// compareUFL compares one card's rows with uflcheck.py's results for them
+// (TestExportUFLAgainstFEniCS's tolerances), returning how many rows it
+// compared and the largest differences, membrane and nearly
+// incompressible, as fractions of the row's scale.
+func compareUFL(t *testing.T, name string, rows map[string][]fe.ExportPoint, res map[string]uflResult, weights float64) (int, [2]float64) {
 	t.Helper()
-	in, err := json.Marshal(job)
+	compared, worst := 0, [2]float64{}
+	for model, pts := range rows {
+		r := res[model]
+		if len(r.Membrane) != len(pts) || len(r.NearlyIncompressible) != len(pts) {
+			t.Fatalf("%s %s: %d rows, %d membrane results, %d nearly incompressible", name, model, len(pts), len(r.Membrane), len(r.NearlyIncompressible))
+		}
+		for i, p := range pts {
+			want := [5]float64{p.Energy, p.Nominal11, p.Nominal12, p.Nominal21, p.Nominal22}
+			scale := weights
+			for _, v := range want[1:] {
+				scale = math.Max(scale, math.Abs(v))
+			}
+			got, ni := r.Membrane[i], r.NearlyIncompressible[i]
+			for j := range want {
+				worst[0] = math.Max(worst[0], math.Abs(got[j]-want[j])/scale)
+				if j > 0 {
+					worst[1] = math.Max(worst[1], math.Abs(ni[j]-want[j])/scale)
+				}
+				if math.Abs(got[j]-want[j]) > 1e-10*scale {
+					t.Errorf("%s %s %s θ=%g %g: component %d: UFL %.17g, weft %.17g (difference %.3g of the scale %.3g)", name, model, p.Case, p.DirectionDeg, p.StretchOrShear, j, got[j], want[j], math.Abs(got[j]-want[j])/scale, scale)
+				}
+				if j > 0 && math.Abs(ni[j]-want[j]) > 1e-3*scale {
+					t.Errorf("%s %s %s θ=%g %g: nearly incompressible P[%d] = %.10g, membrane %.10g (%.3g of the scale)", name, model, p.Case, p.DirectionDeg, p.StretchOrShear, j, ni[j], want[j], math.Abs(ni[j]-want[j])/scale)
+				}
+			}
+			compared++
+		}
+	}
+	return compared, worst
+}
+
+// runUFLCheck runs testdata/uflcheck.py once on a list of jobs and returns
+// its results, one per job in the same order.
+func runUFLCheck(t *testing.T, py string, jobs []uflJob) []map[string]uflResult {
+	t.Helper()
+	in, err := json.Marshal(jobs)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -184,9 +212,12 @@ func runUFLCheck(t *testing.T, py string, job uflJob) map[string]uflResult {
 	if err := cmd.Run(); err != nil {
 		t.Fatalf("uflcheck.py: %v\n%s", err, errb.String())
 	}
-	res := map[string]uflResult{}
+	var res []map[string]uflResult
 	if err := json.Unmarshal(out.Bytes(), &res); err != nil {
 		t.Fatalf("uflcheck.py output: %v\n%s", err, out.String())
+	}
+	if len(res) != len(jobs) {
+		t.Fatalf("uflcheck.py: %d results for %d jobs", len(res), len(jobs))
 	}
 	return res
 }

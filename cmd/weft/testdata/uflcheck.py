@@ -1,7 +1,10 @@
 """Evaluates an energy written by 'weft export --format ufl' with FEniCS.
 
 Used by the Go test TestExportUFLAgainstFEniCS (cmd/weft/ufl_test.go): reads
-a JSON job from standard input and writes JSON results to standard output.
+a JSON job, or a list of jobs, from standard input and writes JSON results
+(for a list, a list of results in the same order) to standard output. The
+test sends every card's job in one list, so that Python and FEniCS start
+once for them all.
 
 Job: {"module": PATH, "jit_dir": DIR, "models": {NAME: [[F11, F12, F21, F22], ...]},
       "bulk_modulus": K or null}
@@ -44,7 +47,15 @@ def load(path):
 
 
 def main():
-    job = json.load(sys.stdin)
+    jobs = json.load(sys.stdin)
+    if isinstance(jobs, list):
+        json.dump([run(job) for job in jobs], sys.stdout)
+    else:
+        json.dump(run(jobs), sys.stdout)
+
+
+def run(job):
+    """Evaluates one job and returns its results."""
     mod = load(job["module"])
     # The generated code is large: compiling it without optimisation or
     # debug information is what costs least.
@@ -107,7 +118,7 @@ def main():
                      "nearly_incompressible": []}
     if K is not None:
         nearly_incompressible(names, rows, slots, assign, evaluate, out)
-    json.dump(out, sys.stdout)
+    return out
 
 
 def nearly_incompressible(names, rows, slots, assign, evaluate, out):

@@ -32,18 +32,7 @@ import (
 // left the 36 one-family specimens of the same conditions unchanged
 // (README, How (our design)).
 func (s *search) secondFamilyRefits() {
-	single, free := -1, -1
-	for i, f := range s.forms {
-		if f.Planar || f.Dispersion {
-			continue
-		}
-		switch f.Layout {
-		case LayoutSingle:
-			single = i
-		case LayoutFree:
-			free = i
-		}
-	}
+	single, free := s.formsOf(false, LayoutFree)
 	if single < 0 || free < 0 || s.fullErr[single] != nil || s.fullErr[free] != nil {
 		return
 	}
@@ -156,18 +145,7 @@ func (s *search) growBest(rs []*refit, free int) []*refit {
 // spread pair at ±38° that ties with one family under tracking noise
 // (TestBetterPredictingRivalTies).
 func (s *search) mirrorRefits() {
-	single, mirror := -1, -1
-	for i, f := range s.forms {
-		if f.Planar || f.Dispersion {
-			continue
-		}
-		switch f.Layout {
-		case LayoutSingle:
-			single = i
-		case LayoutMirror:
-			mirror = i
-		}
-	}
+	single, mirror := s.formsOf(false, LayoutMirror)
 	if single < 0 || mirror < 0 || s.fullErr[single] != nil || s.fullErr[mirror] != nil {
 		return
 	}
@@ -190,4 +168,23 @@ func (s *search) mirrorRefits() {
 	}
 	s.runRefits(round)
 	s.d.Search = append(s.d.Search, fmt.Sprintf("%s: %d refits of the best %s model of each size as a mirror pair with the same terms, both angles scanned", formName(s.forms[mirror]), len(round), formName(s.forms[single])))
+}
+
+// formsOf returns the indices in s.forms of the one-family form and of the
+// form of layout other, each spread in the plane (planar) or ideal (not
+// planar) and without a κ dispersion; −1 where the search has none.
+func (s *search) formsOf(planar bool, other Layout) (single, second int) {
+	single, second = -1, -1
+	for i, f := range s.forms {
+		if f.Planar != planar || f.Dispersion {
+			continue
+		}
+		switch f.Layout {
+		case LayoutSingle:
+			single = i
+		case other:
+			second = i
+		}
+	}
+	return single, second
 }

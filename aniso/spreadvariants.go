@@ -121,18 +121,7 @@ func spreadAtBound(r *Result) bool {
 // one-peaked pair this stage finds fits better than both (README, Fibre
 // families).
 func (s *search) flatTopRefits() {
-	single, mirror := -1, -1
-	for i, f := range s.forms {
-		if !f.Planar || f.Dispersion {
-			continue
-		}
-		switch f.Layout {
-		case LayoutSingle:
-			single = i
-		case LayoutMirror:
-			mirror = i
-		}
-	}
+	single, mirror := s.formsOf(true, LayoutMirror)
 	if single < 0 || mirror < 0 {
 		return
 	}

@@ -292,14 +292,7 @@ func TestFungConvexityCondition(t *testing.T) {
 func TestSlopeGradMatches(t *testing.T) {
 	rng := rand.New(rand.NewSource(11))
 	for _, s := range Catalogue() {
-		sets := [][]float64{s.DefaultParams()}
-		for range 200 {
-			p := make([]float64, len(s.Params))
-			for j, q := range s.Params {
-				p[j] = q.Min + rng.Float64()*(math.Min(q.Max, q.Min+20)-q.Min)
-			}
-			sets = append(sets, p)
-		}
+		sets := paramSets(s, rng)
 		bad := 0
 		for _, p := range sets {
 			for _, x := range []float64{0, 1e-6, 0.01, 0.05, 0.1, 0.3, 0.7, 1.5, 40, 1e4, rng.Float64() * 0.8} {
@@ -351,14 +344,7 @@ func TestSlopeGradMatches(t *testing.T) {
 func TestSlopeCurvGradMatches(t *testing.T) {
 	rng := rand.New(rand.NewSource(7))
 	for _, s := range Catalogue() {
-		sets := [][]float64{s.DefaultParams()}
-		for range 200 {
-			p := make([]float64, len(s.Params))
-			for j, q := range s.Params {
-				p[j] = q.Min + rng.Float64()*(math.Min(q.Max, q.Min+20)-q.Min)
-			}
-			sets = append(sets, p)
-		}
+		sets := paramSets(s, rng)
 		for _, p := range sets {
 			for _, x := range []float64{0, 1e-6, 0.01, 0.05, 0.1, 0.3, 0.7, 1.5, 40, 1e4, rng.Float64() * 0.8} {
 				if s.Arg == Principal {
@@ -377,4 +363,18 @@ func TestSlopeCurvGradMatches(t *testing.T) {
 			}
 		}
 	}
+}
+
+// paramSets are a shape's default parameters and 200 sets drawn uniformly
+// within its bounds (an upper bound capped at 20 above the lower one).
+func paramSets(s *Shape, rng *rand.Rand) [][]float64 {
+	sets := [][]float64{s.DefaultParams()}
+	for range 200 {
+		p := make([]float64, len(s.Params))
+		for j, q := range s.Params {
+			p[j] = q.Min + rng.Float64()*(math.Min(q.Max, q.Min+20)-q.Min)
+		}
+		sets = append(sets, p)
+	}
+	return sets
 }

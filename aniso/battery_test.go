@@ -42,7 +42,11 @@ type batteryCase struct {
 // pairs and two families on matrices outside the I1/I2 shapes, very
 // clean records (0.2 % noise, 40 points, sixteen), and sutured specimens
 // with tracking noise of 0.001 in every measured F entry (six); 2–3 %
-// noise, 30 points a protocol (5 % and 20 points for twelve).
+// noise, 30 points a protocol (5 % and 20 points for twelve); and the
+// five scenarios of widerCases (unequal families at 20° and 75°, mixed
+// fibre laws, a rotated mounting, axis-1-led protocols, a Mooney–Rivlin
+// matrix with C01 > C10), appended last so the earlier lines keep their
+// places.
 // Without shear information a one-family answer is 1-or-mirror-pair;
 // undecided is counted as right where the data cannot tell (a spread
 // pair bracketing one broad family, a symmetric pair on sutures, fibres
@@ -431,8 +435,8 @@ func uniformBandFamily(lo, hi float64, law fibreLaw) spreadDirections {
 // TestVerdictBattery discovers the battery of batteryCases and compares
 // every verdict, chosen model and angle with the outcomes pinned in
 // testdata/verdict-battery.txt, as TestVerdictPanel does for its panel;
-// it runs only when WEFT_VERDICT_BATTERY is set (183 discoveries, about
-// 195 s wall on 2 cores): "1" compares, "update" rewrites the file. A change to
+// it runs only when WEFT_VERDICT_BATTERY is set (206 discoveries, 138 s
+// wall on 2 cores on 2026-12-06): "1" compares, "update" rewrites the file. A change to
 // the search's path or to a verdict rule runs it before it lands, beside
 // the panel, and its commit says which outcomes moved and whether towards
 // the truth (DEVELOPERS.md, Changing the search's path).

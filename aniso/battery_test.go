@@ -186,7 +186,7 @@ func batteryCases() []batteryCase {
 			add(fmt.Sprintf("%s, load-controlled to 60 kPa, sutured, seed %d", l.name, seed), l.m, o, l.right...)
 		}
 	}
-	ten65 := fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)})
+	ten65 := tenAndSixtyFive()
 	for seed := uint64(1); seed <= 2; seed++ {
 		add(fmt.Sprintf("ideal families 10° and 65°, no shear, seed %d", seed), ten65, free(seed), "2", "undecided")
 	}
@@ -198,22 +198,7 @@ func batteryCases() []batteryCase {
 		{"strip tests 1:1, 1:0, 0:1", [][2]float64{{1, 1}, {1, 0}, {0, 1}}},
 	}
 	for _, f := range fewer {
-		for _, c := range []struct {
-			name      string
-			m         material
-			sut, free []string
-		}{
-			{"one ideal family 30°", fibreMaterial(3, spreadFamily{30 * deg, -1, expSqFibre(30, 3)}), []string{"1"}, []string{"1-or-mirror-pair"}},
-			{"ideal families 10° and 65°", ten65, []string{"2"}, []string{"2", "undecided"}},
-			{"isotropic Ogden α = 9", ogdenMaterial(3, 9), []string{"0"}, []string{"0", "undecided"}},
-		} {
-			o := sut(1)
-			o.ratios = f.ratios
-			add(fmt.Sprintf("%s, %s, sutured, seed 1", c.name, f.name), c.m, o, c.sut...)
-			o = free(1)
-			o.ratios = f.ratios
-			add(fmt.Sprintf("%s, %s, no shear, seed 1", c.name, f.name), c.m, o, c.free...)
-		}
+		protocolSetCases(add, sut(1), free(1), f.name, f.ratios)
 	}
 	// Fibres spread out of the plane as well (outOfPlaneFamily): broad
 	// out-of-plane spread makes a family at 0° or 30° look like one with a
@@ -378,24 +363,7 @@ func widerCases() []batteryCase {
 		add(fmt.Sprintf("mounted rotated 20°: ideal pair ±35° seen at 55° and −15°, sutured, seed %d", seed), rot2, sut(seed), "2")
 	}
 	add("mounted rotated 20°: ideal pair ±35° seen at 55° and −15°, no shear, seed 1", rot2, free(1), "2", "undecided")
-	led := [][2]float64{{1, 1}, {1, 0.3}, {1, 0.1}}
-	ten65 := fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)})
-	for _, c := range []struct {
-		name      string
-		m         material
-		sut, free []string
-	}{
-		{"one ideal family 30°", fibreMaterial(3, spreadFamily{30 * deg, -1, expSqFibre(30, 3)}), []string{"1"}, []string{"1-or-mirror-pair"}},
-		{"ideal families 10° and 65°", ten65, []string{"2"}, []string{"2", "undecided"}},
-		{"isotropic Ogden α = 9", ogdenMaterial(3, 9), []string{"0"}, []string{"0", "undecided"}},
-	} {
-		o := sut(1)
-		o.ratios = led
-		add(c.name+", axis 1 leads (1:1, 1:0.3, 1:0.1), sutured, seed 1", c.m, o, c.sut...)
-		o = free(1)
-		o.ratios = led
-		add(c.name+", axis 1 leads (1:1, 1:0.3, 1:0.1), no shear, seed 1", c.m, o, c.free...)
-	}
+	protocolSetCases(add, sut(1), free(1), "axis 1 leads (1:1, 1:0.3, 1:0.1)", [][2]float64{{1, 1}, {1, 0.3}, {1, 0.1}})
 	mr := func(fams ...spreadFamily) material { return plus(mooneyRivlinMatrix(1, 3), fibreMaterial(0, fams...)) }
 	mr1 := mr(spreadFamily{30 * deg, 3, expSqFibre(30, 3)})
 	mr2 := mr(spreadFamily{40 * deg, -1, expSqFibre(30, 3)}, spreadFamily{-40 * deg, -1, expSqFibre(30, 3)})
@@ -457,4 +425,34 @@ func TestVerdictBattery(t *testing.T) {
 	}
 	t.Logf("a right verdict in %d of %d cases", right, len(cases))
 	comparePinned(t, mode, batteryFile, batteryHeader, lines)
+}
+
+// tenAndSixtyFive is the battery's two ideal families at 10° and 65°
+// (fibre stiffness 20 and 10 kPa) on a 2 kPa neo-Hookean matrix.
+func tenAndSixtyFive() material {
+	return fibreMaterial(2, spreadFamily{10 * deg, -1, expSqFibre(20, 3)}, spreadFamily{65 * deg, -1, expSqFibre(10, 2)})
+}
+
+// protocolSetCases adds, with add, the battery's three materials tried on
+// a protocol set other than the five ratios (the stretch ratios named
+// set): one ideal family at 30°, ideal families at 10° and 65°, and an
+// isotropic Ogden α = 9 solid, each on sutures (options sut) and without
+// shear (options free), with the verdicts right for each.
+func protocolSetCases(add func(string, material, synthOptions, ...string), sut, free synthOptions, set string, ratios [][2]float64) {
+	for _, c := range []struct {
+		name      string
+		m         material
+		sut, free []string
+	}{
+		{"one ideal family 30°", fibreMaterial(3, spreadFamily{30 * deg, -1, expSqFibre(30, 3)}), []string{"1"}, []string{"1-or-mirror-pair"}},
+		{"ideal families 10° and 65°", tenAndSixtyFive(), []string{"2"}, []string{"2", "undecided"}},
+		{"isotropic Ogden α = 9", ogdenMaterial(3, 9), []string{"0"}, []string{"0", "undecided"}},
+	} {
+		o := sut
+		o.ratios = ratios
+		add(fmt.Sprintf("%s, %s, sutured, seed 1", c.name, set), c.m, o, c.sut...)
+		o = free
+		o.ratios = ratios
+		add(fmt.Sprintf("%s, %s, no shear, seed 1", c.name, set), c.m, o, c.free...)
+	}
 }
